@@ -1,0 +1,146 @@
+// phaseplan-cli: one JSON document in (a path or - for stdin), one JSON document out.
+// Bad input: status 2, one line on stderr naming the field, nothing on stdout.
+#include "chem/error.h"
+#include "core/app_data.h"
+#include "core/commands.h"
+#include "core/json_util.h"
+
+#include <QCoreApplication>
+#include <QFile>
+#include <QJsonDocument>
+#include <QTextStream>
+
+#include <cstdio>
+#include <functional>
+#include <iostream>
+#include <map>
+#include <memory>
+
+#ifdef PHASEPLAN_WITH_PRINT
+#include <QGuiApplication>
+#endif
+
+namespace {
+
+using Command = std::function<QJsonObject(const phaseplan::AppData&, const QJsonObject&,
+                                          const phaseplan::CommandOptions&)>;
+
+struct Entry {
+    Command run;
+    const char* summary;
+    bool needs_gui = false; ///< PDF output needs fonts and a QGuiApplication
+};
+
+const std::map<std::string, Entry>& command_table() {
+    static const std::map<std::string, Entry> table = {
+        {"solve", {phaseplan::command_solve, "speciation, pH, ionic strength of a mixture"}},
+        {"recipe", {phaseplan::command_recipe, "amounts to weigh or pipette for a target pH"}},
+        {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
+    };
+    return table;
+}
+
+int usage(std::FILE* to) {
+    std::fprintf(to, "usage: phaseplan-cli COMMAND INPUT.json|- [-o OUT.pdf] [--paper a4|letter|label62]\n"
+                     "       [--data DIR]\ncommands:\n");
+    for (const auto& [name, e] : command_table())
+        std::fprintf(to, "  %-10s %s\n", name.c_str(), e.summary);
+    return to == stdout ? 0 : 2;
+}
+
+void fail(const std::string& line) {
+    std::cerr << "phaseplan-cli: " << line << std::endl;
+}
+
+} // namespace
+
+int main(int argc, char** argv) {
+    std::string command;
+    QString input_path;
+    QString data_dir;
+    phaseplan::CommandOptions opt;
+    for (int i = 1; i < argc; ++i) {
+        std::string a = argv[i];
+        auto value = [&](const char* flag) -> std::string {
+            if (i + 1 >= argc) {
+                fail(std::string(flag) + ": needs a value");
+                std::exit(2);
+            }
+            return argv[++i];
+        };
+        if (a == "-h" || a == "--help") return usage(stdout);
+        if (a == "-o" || a == "--output") opt.output_path = QString::fromStdString(value("-o"));
+        else if (a == "--paper") opt.paper = QString::fromStdString(value("--paper"));
+        else if (a == "--data") data_dir = QString::fromStdString(value("--data"));
+        else if (command.empty()) command = a;
+        else if (input_path.isEmpty()) input_path = QString::fromStdString(a);
+        else {
+            fail("unexpected argument \"" + a + "\"");
+            return 2;
+        }
+    }
+    if (command.empty()) return usage(stderr);
+    auto it = command_table().find(command);
+    if (it == command_table().end()) {
+        fail("command: unknown command \"" + command + "\" (try --help)");
+        return 2;
+    }
+
+    // PDF commands need fonts; run them on the offscreen platform unless one is set.
+    std::unique_ptr<QCoreApplication> app;
+#ifdef PHASEPLAN_WITH_PRINT
+    if (it->second.needs_gui) {
+        if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
+        app = std::make_unique<QGuiApplication>(argc, argv);
+    }
+#endif
+    if (!app) app = std::make_unique<QCoreApplication>(argc, argv);
+
+    QByteArray bytes;
+    if (command != "reagents") {
+        if (input_path.isEmpty()) {
+            fail("input: give a JSON file path or - for standard input");
+            return 2;
+        }
+        if (input_path == "-") {
+            QFile in;
+            if (!in.open(stdin, QIODevice::ReadOnly)) {
+                fail("input: cannot read standard input");
+                return 2;
+            }
+            bytes = in.readAll();
+        } else {
+            QFile in(input_path);
+            if (!in.open(QIODevice::ReadOnly)) {
+                fail("input: cannot open \"" + input_path.toStdString() + "\": " +
+                     in.errorString().toStdString());
+                return 2;
+            }
+            bytes = in.readAll();
+        }
+    }
+
+    phaseplan::AppData data;
+    try {
+        data = phaseplan::load_app_data(data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+    } catch (const chem::Error& e) {
+        fail("data: " + std::string(e.what()));
+        return 3; // the installation is broken, not the input
+    }
+
+    try {
+        QJsonObject input = command == "reagents" && bytes.isEmpty()
+                                ? QJsonObject{}
+                                : phaseplan::json::parse_document(bytes);
+        QJsonObject out = it->second.run(data, input, opt);
+        std::cout << QJsonDocument(out).toJson(QJsonDocument::Indented).toStdString();
+        return 0;
+    } catch (const chem::Error& e) {
+        fail(e.what());
+        return 2;
+    } catch (const std::exception& e) {
+        // Not expected: chem/ throws only chem::Error. Still no crash and no partial output.
+        fail(std::string("internal error: ") + e.what());
+        return 2;
+    }
+}

@@ -1,0 +1,26 @@
+#pragma once
+// The shipped reference data, loaded once at start from data/ (JSON, diff-friendly).
+#include "chem/reagent.h"
+
+#include <QString>
+
+namespace phaseplan {
+
+struct AppData {
+    QString data_dir;        ///< where it was loaded from
+    chem::Library reagents;  ///< data/reagents.json
+};
+
+/// The data folder: $PHASEPLAN_DATA_DIR if set, else <executable dir>/data, else
+/// <executable dir>/../share/phaseplan/data, else the source tree's data/ (PHASEPLAN_SOURCE_DATA_DIR).
+QString find_data_dir();
+
+/// Loads every reference file in `dir`. Throws chem::Error whose field names the file and the
+/// JSON path ("reagents.json: reagents[3].formula") on a malformed entry.
+AppData load_app_data(const QString& dir);
+
+/// Loads data/reagents.json content into `lib` (used by load_app_data and by the storage seeding).
+/// @param origin names the file in error fields.
+void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem::Library& lib);
+
+} // namespace phaseplan

@@ -1,0 +1,50 @@
+#pragma once
+// Reading the command-line JSON documents with errors that name the field. Every reader throws
+// chem::Error(path, message) where path is the JSON path of the field ("components[2].mol_per_l")
+// and message names the bad value. The one catch is in commands.cpp (CLI) and the GUI models.
+#include "chem/error.h"
+
+#include <QJsonArray>
+#include <QJsonObject>
+#include <QJsonValue>
+#include <QString>
+
+#include <optional>
+#include <string>
+
+namespace phaseplan::json {
+
+/// "parent.key", or "key" when parent is empty.
+std::string path(const std::string& parent, const QString& key);
+/// "parent[i]".
+std::string path(const std::string& parent, int index);
+
+/// Short rendering of a JSON value for messages: 1.5, "abc", true, null, an object, an array.
+std::string describe(const QJsonValue& v);
+
+QJsonObject require_object(const QJsonObject& o, const QString& key, const std::string& parent);
+QJsonArray require_array(const QJsonObject& o, const QString& key, const std::string& parent);
+std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent);
+std::optional<std::string> optional_string(const QJsonObject& o, const QString& key,
+                                           const std::string& parent);
+/// A finite number. Rejects strings, booleans, null.
+double require_number(const QJsonObject& o, const QString& key, const std::string& parent);
+std::optional<double> optional_number(const QJsonObject& o, const QString& key,
+                                      const std::string& parent);
+/// A finite number > 0 and <= max_value.
+double require_positive(const QJsonObject& o, const QString& key, const std::string& parent,
+                        double max_value);
+std::optional<double> optional_positive(const QJsonObject& o, const QString& key,
+                                        const std::string& parent, double max_value);
+/// A whole number in [min_value, max_value].
+int require_int(const QJsonObject& o, const QString& key, const std::string& parent, int min_value,
+                int max_value);
+bool optional_bool(const QJsonObject& o, const QString& key, const std::string& parent,
+                   bool fallback);
+/// The value of an array element as an object, or an error naming parent[i].
+QJsonObject element_object(const QJsonArray& a, int index, const std::string& parent);
+
+/// Parses a whole document; a syntax error names "(document)" and the offset.
+QJsonObject parse_document(const QByteArray& bytes);
+
+} // namespace phaseplan::json

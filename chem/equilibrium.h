@@ -1,0 +1,53 @@
+#pragma once
+// Charge-balance speciation of an aqueous mixture of reagents with Davies activity coefficients
+// at the self-consistent ionic strength.
+#include "chem/reagent.h"
+
+#include <string>
+#include <vector>
+
+namespace chem {
+
+struct Component {
+    const Reagent* reagent = nullptr;
+    double mol_per_l = 0; ///< formula units of the reagent per litre of final solution
+};
+
+struct SpeciesAmount {
+    std::string species;       ///< "H2PO4-", "Na+", "H+", "OH-"
+    std::string system;        ///< system id, "" for spectators and water ions
+    int charge = 0;
+    double mol_per_l = 0;
+    double activity_coefficient = 1;
+};
+
+/// A diagnostic attached to a result. Codes are stable strings (tests and the CLI use them).
+struct Warning {
+    enum class Severity { info, caution, warning };
+    std::string code;      ///< "ionic-strength-high", "ph-outside-pka-range", …
+    Severity severity = Severity::info;
+    std::string message;   ///< plain sentence with the numbers behind it
+};
+const char* severity_name(Warning::Severity s);
+
+struct Speciation {
+    double temperature_c = 25;
+    double ph = 7;                        ///< −log10 a(H+), activity scale
+    double ionic_strength_mol_per_l = 0;  ///< ½ Σ c z², self-consistent with the γ used
+    double buffer_capacity_mol_per_l = 0; ///< β = dC_base/dpH in mol/L per pH unit
+    std::vector<SpeciesAmount> species;
+    std::vector<Warning> warnings;
+    int iterations = 0;                   ///< ionic-strength iterations used
+
+    double concentration_of(const std::string& species_name) const; ///< 0 if absent
+};
+
+/// Solves the charge balance of the mixture at temperature_c (0–60 °C).
+/// Each system's pKa is taken at T by van 't Hoff; γ by Davies with A(T); pKw(T).
+/// The pH is bracketed in [−3, 17] and found by TOMS 748; the ionic strength by damped fixed
+/// point. Throws chem::Error naming the field for a temperature out of range, a null, negative,
+/// non-finite or too large (> 10 mol/L) amount, or a mixture that does not converge.
+/// Components' fields in errors are "components[i].mol_per_l"; temperature is "temperature_c".
+Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c);
+
+} // namespace chem

@@ -1,0 +1,36 @@
+#pragma once
+// The one error type of the chemistry core. Everything in chem/ that rejects an input throws
+// chem::Error; app/ catches it once at the Qt boundary and shows it beside the field it names.
+#include <stdexcept>
+#include <string>
+
+namespace chem {
+
+class Error : public std::runtime_error {
+public:
+    /// @param field  the input at fault, in the JSON path style of the command-line contract
+    ///               ("components[1].mol_per_l", "target_ph", "lines.A.bottle_ml").
+    /// @param message what is wrong, naming the bad value ("-0.2 is not a positive amount").
+    Error(std::string field, std::string message)
+        : std::runtime_error(field + ": " + message), field_(std::move(field)),
+          message_(std::move(message)) {}
+
+    const std::string& field() const noexcept { return field_; }
+    const std::string& message() const noexcept { return message_; }
+
+    /// The same error with a prefix on the field, for nested documents
+    /// (Error("mol_per_l", …).within("components[2]") names "components[2].mol_per_l").
+    Error within(const std::string& parent) const {
+        return Error(field_.empty() ? parent : parent + (field_.front() == '[' ? "" : ".") + field_,
+                     message_);
+    }
+
+private:
+    std::string field_;
+    std::string message_;
+};
+
+/// Formats a number for an error message: up to 6 significant digits, no trailing zeros.
+std::string format_number(double value);
+
+} // namespace chem

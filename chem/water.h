@@ -1,0 +1,25 @@
+#pragma once
+// Properties of liquid water at 0–60 °C, 101.325 kPa, used by the activity and equilibrium models.
+
+namespace chem {
+
+/// pKw = −log10 Kw of water (molal, thermodynamic), from Harned & Robinson, Trans. Faraday Soc. 36
+/// (1940) 973: log10 Kw = −4470.99/T + 6.0875 − 0.01706·T, valid 0–60 °C. @param temperature_k in K.
+double pkw(double temperature_k);
+
+/// Density of air-free water in g/mL: Tanaka et al., Metrologia 38 (2001) 301, eq. (1).
+double water_density_g_per_ml(double temperature_k);
+
+/// Relative permittivity of water: Malmberg & Maryott, J. Res. NBS 56 (1956) 1,
+/// ε = 87.740 − 0.40008 t + 9.398e−4 t² − 1.410e−6 t³ (t in °C), valid 0–100 °C.
+double water_permittivity(double temperature_k);
+
+/// Debye–Hückel limiting-law constant A in (mol/L)^−1/2 for log10 γ, from the permittivity and
+/// density of water: A = 1.82483e6 · √ρ / (ε T)^{3/2} (ρ in g/mL).
+double debye_huckel_a(double temperature_k);
+
+/// Davies activity coefficient (decadic): log10 γ = −A z² (√I/(1+√I) − 0.3 I)
+/// (Davies, Ion Association, 1962). @param ionic_strength_mol_per_l I; @param charge z.
+double davies_log10_gamma(double a, int charge, double ionic_strength_mol_per_l);
+
+} // namespace chem
