@@ -1,0 +1,174 @@
+#pragma once
+// The lab's own work in one SQLite file (Qt SQL, QSQLITE driver): saved buffers, lines, methods
+// and sequences as the JSON documents of the command-line contract, the app's settings, and the
+// library (the entries shipped in data/ and, kept apart, the lab's own entries that win on lookup).
+//
+// Durability: WAL journal, synchronous=FULL, and every save is one transaction, so closing or
+// killing the program at any moment leaves the last committed state (tests/tst_storage.cpp kills a
+// process inside a save). The schema is versioned (PRAGMA user_version) and migrated forward by the
+// ordered steps in app/storage/migrations.cpp: see the comment there to add one.
+//
+// Errors: everything here throws chem::Error. The field is "database" for the file itself
+// (cannot open, newer schema, SQL failure) and the document's name or id for bad arguments.
+#include "chem/error.h"
+
+#include <QDateTime>
+#include <QJsonObject>
+#include <QJsonValue>
+#include <QSqlDatabase>
+#include <QSqlQuery>
+#include <QString>
+
+#include <functional>
+#include <optional>
+#include <vector>
+
+namespace phaseplan::storage {
+
+/// The kinds of saved work. Each has its own table holding the document of the CLI contract:
+/// buffer = a `recipe` input, line = a `line` input (without volume_ml), method = one entry of a
+/// sequence's "methods", sequence = a whole `sequence` input.
+enum class DocumentKind { buffer, line, method, sequence };
+inline constexpr DocumentKind all_document_kinds[] = {DocumentKind::buffer, DocumentKind::line,
+                                                      DocumentKind::method, DocumentKind::sequence};
+/// "buffer", "line", "method", "sequence".
+QString kind_name(DocumentKind kind);
+/// The inverse of kind_name; std::nullopt for anything else.
+std::optional<DocumentKind> kind_from_name(const QString& name);
+
+struct DocumentInfo {
+    DocumentKind kind = DocumentKind::buffer;
+    QString name;
+    QString note;           ///< free text ("for the assay of lot 7"), may be empty
+    QDateTime created_at;   ///< UTC
+    QDateTime updated_at;   ///< UTC
+};
+
+struct SavedDocument {
+    DocumentKind kind = DocumentKind::buffer;
+    QString name;
+    QJsonObject document;
+    QString note;
+};
+
+/// One library entry: a reagent, system, solvent or additive, as the object of its data/ file.
+struct LibraryEntry {
+    QString kind;           ///< the array it lives in, in its data/ file: "reagents", "systems", "solvents", …
+    QString id;             ///< the entry's "id"
+    QJsonObject document;   ///< the whole entry
+    QString source;         ///< user entries: where the lab's numbers come from (required); shipped: the file
+    bool user_defined = false;
+    QDateTime updated_at;   ///< UTC
+};
+
+class Database {
+public:
+    /// Opens the file, creating it (and its folder) when absent, sets WAL and migrates the schema
+    /// to `target_version` (the latest by default; tests pass an older one to build an old file).
+    /// Throws chem::Error("database", …) when the file cannot be opened, is not a database, or has
+    /// a schema newer than this program knows.
+    explicit Database(const QString& path, int target_version = -1);
+    ~Database();
+    Database(const Database&) = delete;
+    Database& operator=(const Database&) = delete;
+
+    /// <AppDataLocation>/phaseplan.sqlite (e.g. ~/.local/share/PhasePlan/phaseplan.sqlite).
+    static QString default_path();
+
+    QString path() const { return path_; }
+    /// PRAGMA user_version of the open file.
+    int schema_version() const;
+    /// PRAGMA journal_mode ("wal").
+    QString journal_mode() const;
+    /// The connection, for code that adds its own tables through a migration step (batches).
+    /// Use Transaction around every write.
+    QSqlDatabase connection() const { return db_; }
+
+    // ---- saved work -------------------------------------------------------------------------
+    /// Inserts or replaces one document (one transaction). Throws chem::Error("name", …) for an
+    /// empty name.
+    void save(DocumentKind kind, const QString& name, const QJsonObject& document,
+              const QString& note = {});
+    /// Saves several documents in one transaction: all or none land (a sequence with its methods,
+    /// lines and buffers).
+    void save_all(const std::vector<SavedDocument>& documents);
+    std::optional<QJsonObject> load(DocumentKind kind, const QString& name) const;
+    std::optional<DocumentInfo> info(DocumentKind kind, const QString& name) const;
+    /// Newest first.
+    std::vector<DocumentInfo> list(DocumentKind kind) const;
+    /// Every kind, newest first.
+    std::vector<DocumentInfo> list_all() const;
+    /// True when something was removed.
+    bool remove(DocumentKind kind, const QString& name);
+    /// Throws chem::Error("name", …) when `new_name` is taken or empty; false when `old_name` is absent.
+    bool rename(DocumentKind kind, const QString& old_name, const QString& new_name);
+
+    // ---- settings ---------------------------------------------------------------------------
+    void set_setting(const QString& key, const QJsonValue& value);
+    /// Null when unset.
+    QJsonValue setting(const QString& key) const;
+
+    // ---- library ----------------------------------------------------------------------------
+    /// Records the shipped file `file_name` (e.g. "reagents.json"): when its content differs from
+    /// what was recorded, every top-level array of objects with a string "id" replaces the shipped
+    /// entries of that kind from this file. The lab's own entries are never touched. Returns true
+    /// when the shipped entries changed (first run, or an update of data/).
+    bool sync_shipped_file(const QString& file_name, const QByteArray& content);
+    /// The last recorded content of a shipped file (empty when never seeded).
+    QByteArray shipped_file(const QString& file_name) const;
+    /// The lab's own entry: added, or edited from a shipped one (same id). `source` is required:
+    /// throws chem::Error("source", …) when empty, chem::Error("id", …) when the document has no id.
+    void save_user_entry(const QString& kind, const QJsonObject& document, const QString& source);
+    bool remove_user_entry(const QString& kind, const QString& id);
+    std::vector<LibraryEntry> shipped_entries(const QString& kind) const;
+    std::vector<LibraryEntry> user_entries(const QString& kind) const;
+    /// Shipped entries overlaid with the lab's own (same id: the user entry wins), ordered by id.
+    std::vector<LibraryEntry> merged_entries(const QString& kind) const;
+    /// The shipped file with each of its entry arrays replaced by merged_entries(kind), user
+    /// entries of kinds the file holds appended: what the loaders in app/core read.
+    QByteArray merged_file(const QString& file_name) const;
+
+    /// Test seam: called inside every write transaction of this class just before COMMIT
+    /// (tests/tst_storage.cpp kills the process there). Empty by default.
+    void set_before_commit_hook(std::function<void()> hook) { before_commit_ = std::move(hook); }
+
+    /// BEGIN IMMEDIATE … COMMIT, rolled back unless commit() ran (an exception in between).
+    class Transaction {
+    public:
+        explicit Transaction(Database& db);
+        ~Transaction();
+        Transaction(const Transaction&) = delete;
+        Transaction& operator=(const Transaction&) = delete;
+        void commit();
+
+    private:
+        Database& db_;
+        bool done_ = false;
+    };
+
+    /// Runs one statement with positional bindings; throws chem::Error("database", …) naming the
+    /// SQL and the driver's message. Returns the executed query for reading rows.
+    QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
+
+private:
+    void configure();
+    void migrate(int target_version);
+    void upsert_document(const SavedDocument& d, const QString& now);
+    std::vector<DocumentInfo> list_where(DocumentKind kind) const;
+
+    QString path_;
+    QString connection_name_;
+    QSqlDatabase db_;
+    std::function<void()> before_commit_;
+};
+
+/// The schema steps (app/storage/migrations.cpp). Step i brings the file from version i to i+1.
+struct Migration {
+    int version;                       ///< the version after this step (1, 2, 3, … in order)
+    const char* summary;               ///< one line, for the log and the contributor guide
+    std::function<void(Database&)> apply; ///< runs inside the step's transaction
+};
+const std::vector<Migration>& migrations();
+int latest_schema_version();
+
+} // namespace phaseplan::storage

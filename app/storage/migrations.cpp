@@ -1,0 +1,77 @@
+// The schema of the lab's database, as an ordered list of forward steps.
+//
+// HOW TO ADD A STEP (e.g. batches and their history):
+//   1. Append one entry at the END of the list below with the next version number
+//      ({4, "batches and their append-only history", [](Database& db) { db.exec("CREATE …"); }}).
+//   2. Never edit or reorder a step that has shipped: files in the field are at that version
+//      already and will only run the steps after it.
+//   3. A step runs inside its own transaction together with `PRAGMA user_version = <version>`,
+//      so a failure (or a kill) leaves the file at the previous version, unchanged.
+//   4. Add a case to tests/tst_storage.cpp (migrate_from_older) that builds a file at the previous
+//      version with Database(path, version - 1), fills it, and reopens it at the latest.
+// Opening a file whose version is newer than the last step is refused (an older program must not
+// write a newer file).
+#include "storage/database.h"
+
+namespace phaseplan::storage {
+
+namespace {
+
+void create_document_table(Database& db, const char* table) {
+    // name is the key the lab sees and types; the document is the JSON of the CLI contract.
+    db.exec(QStringLiteral("CREATE TABLE %1 ("
+                           " name TEXT PRIMARY KEY NOT NULL CHECK (length(name) > 0),"
+                           " document TEXT NOT NULL CHECK (json_valid(document)),"
+                           " created_at TEXT NOT NULL,"
+                           " updated_at TEXT NOT NULL)")
+                .arg(QLatin1String(table)));
+}
+
+} // namespace
+
+const std::vector<Migration>& migrations() {
+    static const std::vector<Migration> steps = {
+        {1, "saved buffers, lines, methods, sequences; settings",
+         [](Database& db) {
+             for (const char* t : {"buffers", "lines", "methods", "sequences"})
+                 create_document_table(db, t);
+             db.exec("CREATE TABLE settings (key TEXT PRIMARY KEY NOT NULL, value TEXT NOT NULL)");
+         }},
+        {2, "library: shipped files and entries, the lab's own entries kept apart",
+         [](Database& db) {
+             // The content of each data/ file as last seeded, to notice an update of data/.
+             db.exec("CREATE TABLE library_files ("
+                     " file TEXT PRIMARY KEY NOT NULL, sha256 TEXT NOT NULL,"
+                     " content BLOB NOT NULL, seeded_at TEXT NOT NULL)");
+             // Replaced wholesale from data/ on an update.
+             db.exec("CREATE TABLE library_shipped ("
+                     " kind TEXT NOT NULL, id TEXT NOT NULL, file TEXT NOT NULL,"
+                     " document TEXT NOT NULL CHECK (json_valid(document)),"
+                     " PRIMARY KEY (kind, id))");
+             // Written only by the lab; wins over library_shipped on the same (kind, id).
+             db.exec("CREATE TABLE library_user ("
+                     " kind TEXT NOT NULL, id TEXT NOT NULL,"
+                     " document TEXT NOT NULL CHECK (json_valid(document)),"
+                     " source TEXT NOT NULL CHECK (length(source) > 0),"
+                     " created_at TEXT NOT NULL, updated_at TEXT NOT NULL,"
+                     " PRIMARY KEY (kind, id))");
+         }},
+        {3, "a note on each saved document; saved work listed by date",
+         [](Database& db) {
+             for (const char* t : {"buffers", "lines", "methods", "sequences"}) {
+                 db.exec(QStringLiteral("ALTER TABLE %1 ADD COLUMN note TEXT NOT NULL DEFAULT ''")
+                             .arg(QLatin1String(t)));
+                 db.exec(QStringLiteral("CREATE INDEX %1_updated ON %1 (updated_at)")
+                             .arg(QLatin1String(t)));
+             }
+         }},
+        // Append new steps here (see the comment at the top of this file).
+    };
+    return steps;
+}
+
+int latest_schema_version() {
+    return migrations().empty() ? 0 : migrations().back().version;
+}
+
+} // namespace phaseplan::storage
