@@ -19,14 +19,19 @@ struct AcidBaseSystem {
     /// Standard reaction enthalpy of step i in kJ/mol (van 't Hoff temperature dependence).
     /// An empty optional means the step uses dpka_per_k instead.
     std::vector<std::optional<double>> enthalpy_kj_per_mol;
+    /// Standard heat capacity of reaction of step i in J/(mol K); 0 when not published. With it
+    /// the temperature dependence follows the integrated van 't Hoff equation at constant ΔrCp.
+    std::vector<double> heat_capacity_j_per_mol_k;
     /// dpKa/dT of step i in 1/K, used where no enthalpy is given (0 when neither is published).
     std::vector<double> dpka_per_k;
     std::vector<std::string> sources; ///< one citation per number, free text
 
     int steps() const { return static_cast<int>(pka_25c.size()); }
     int charge_of(int species_index) const { return charge_fully_protonated - species_index; }
-    /// pKa of step i at temperature_k: van 't Hoff with the step's enthalpy,
-    /// pKa(T) = pKa(298.15) + ΔH/(R ln 10) · (1/T − 1/298.15), or linear in dpka_per_k.
+    /// pKa of step i at temperature_k: integrated van 't Hoff with the step's ΔrH° and ΔrCp°
+    /// (Clarke & Glew, Trans. Faraday Soc. 62 (1966) 539, truncated at ΔCp):
+    /// pKa(T) = pKa(T0) + ΔH/(R ln10)·(1/T − 1/T0) − ΔCp/(R ln10)·(ln(T/T0) + T0/T − 1),
+    /// T0 = 298.15 K; or linear in dpka_per_k where no enthalpy is given.
     double pka_at(int step, double temperature_k) const;
 };
 
@@ -68,7 +73,9 @@ struct Reagent {
 
     bool has_system(const std::string& system_id) const;
     const SystemShare* share(const std::string& system_id) const;
-    /// Sum of spectator charges plus system charges of the form as supplied: 0 for a valid reagent.
+    /// Sum of spectator charges plus system charges of the form as supplied: 0 for a valid reagent
+    /// with an acid-base system; for one without, a negative sum is a strong acid's (the H+ it
+    /// releases balances it), a positive sum a strong base's (OH-).
     /// @param lib gives each system's charge_fully_protonated.
     double formal_charge(const class Library& lib) const;
     /// Strong acid: releases only anions and brings no acid-base system (HCl).

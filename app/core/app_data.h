@@ -2,7 +2,10 @@
 // The shipped reference data, loaded once at start from data/ (JSON, diff-friendly).
 #include "chem/reagent.h"
 
+#include <QJsonObject>
 #include <QString>
+
+#include <string>
 
 namespace phaseplan {
 
@@ -21,6 +24,10 @@ AppData load_app_data(const QString& dir);
 
 /// Loads data/reagents.json content into `lib` (used by load_app_data and by the storage seeding).
 /// @param origin names the file in error fields.
+/// One reagent object of the reagents.json schema (also how the lab's own entries are stored).
+/// @param at the JSON path used in error fields.
+chem::Reagent reagent_from_json(const QJsonObject& o, const std::string& at);
+
 void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem::Library& lib);
 
 } // namespace phaseplan

@@ -1,0 +1,159 @@
+#include "core/app_data.h"
+
+#include "chem/error.h"
+#include "chem/formula.h"
+#include "core/json_util.h"
+
+#include <QCoreApplication>
+#include <QDir>
+#include <QFile>
+#include <QFileInfo>
+#include <QJsonArray>
+
+namespace phaseplan {
+
+QString find_data_dir() {
+    const QString env = qEnvironmentVariable("PHASEPLAN_DATA_DIR");
+    if (!env.isEmpty()) return env;
+    QStringList candidates;
+    if (QCoreApplication::instance()) {
+        const QString exe = QCoreApplication::applicationDirPath();
+        candidates << exe + "/data" << exe + "/../share/phaseplan/data";
+    }
+    candidates << QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
+    for (const QString& c : candidates)
+        if (QFileInfo::exists(c + "/reagents.json")) return QDir(c).absolutePath();
+    return QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
+}
+
+namespace {
+
+QByteArray read_file(const QString& path) {
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly))
+        throw chem::Error(QFileInfo(path).fileName().toStdString(),
+                          "cannot open " + path.toStdString() + ": " + f.errorString().toStdString());
+    return f.readAll();
+}
+
+std::vector<std::string> string_list(const QJsonObject& o, const QString& key, const std::string& parent) {
+    std::vector<std::string> out;
+    if (!o.contains(key)) return out;
+    const QJsonValue v = o.value(key);
+    if (!v.isArray()) throw chem::Error(json::path(parent, key), "must be an array of strings");
+    const QJsonArray a = v.toArray();
+    for (int i = 0; i < a.size(); ++i) {
+        if (!a.at(i).isString())
+            throw chem::Error(json::path(json::path(parent, key), i), "must be a string");
+        out.push_back(a.at(i).toString().toStdString());
+    }
+    return out;
+}
+
+chem::AcidBaseSystem system_from_json(const QJsonObject& o, const std::string& at) {
+    chem::AcidBaseSystem s;
+    s.id = json::require_string(o, "id", at);
+    s.name = json::optional_string(o, "name", at).value_or(s.id);
+    s.species = string_list(o, "species", at);
+    s.charge_fully_protonated = json::require_int(o, "charge_fully_protonated", at, -6, 6);
+    const QJsonArray steps = json::require_array(o, "steps", at);
+    for (int i = 0; i < steps.size(); ++i) {
+        const std::string sat = json::path(json::path(at, "steps"), i);
+        const QJsonObject st = json::element_object(steps, i, json::path(at, "steps"));
+        s.pka_25c.push_back(json::require_number(st, "pka_25c", sat));
+        s.enthalpy_kj_per_mol.push_back(json::optional_number(st, "enthalpy_kj_per_mol", sat));
+        s.heat_capacity_j_per_mol_k.push_back(
+            json::optional_number(st, "heat_capacity_j_per_mol_k", sat).value_or(0.0));
+        s.dpka_per_k.push_back(json::optional_number(st, "dpka_per_k", sat).value_or(0.0));
+        s.sources.push_back(json::optional_string(st, "source", sat).value_or(""));
+    }
+    return s;
+}
+
+} // namespace
+
+chem::Reagent reagent_from_json(const QJsonObject& o, const std::string& at) {
+    chem::Reagent r;
+    r.id = json::require_string(o, "id", at);
+    r.name = json::optional_string(o, "name", at).value_or(r.id);
+    r.formula = json::require_string(o, "formula", at);
+    try {
+        r.molar_mass_g_per_mol = chem::molar_mass_g_per_mol(r.formula);
+    } catch (const chem::Error& e) {
+        throw chem::Error(json::path(at, "formula"), e.message());
+    }
+    const std::string form = json::optional_string(o, "form", at).value_or("solid");
+    if (form == "solid") r.form = chem::PhysicalForm::solid;
+    else if (form == "liquid") r.form = chem::PhysicalForm::liquid;
+    else throw chem::Error(json::path(at, "form"), "\"" + form + "\" is neither \"solid\" nor \"liquid\"");
+    r.assay_fraction = json::optional_number(o, "assay_percent", at).value_or(100.0) / 100.0;
+    if (r.form == chem::PhysicalForm::liquid)
+        r.density_g_per_ml = json::require_positive(o, "density_g_per_ml", at, 25.0);
+    if (o.contains("ghs")) {
+        const QJsonObject ghs = json::require_object(o, "ghs", at);
+        r.ghs_hazards = string_list(ghs, "hazards", json::path(at, "ghs"));
+        r.ghs_pictograms = string_list(ghs, "pictograms", json::path(at, "ghs"));
+    }
+    if (o.contains("spectators")) {
+        const QJsonArray a = json::require_array(o, "spectators", at);
+        for (int i = 0; i < a.size(); ++i) {
+            const std::string sat = json::path(json::path(at, "spectators"), i);
+            const QJsonObject so = json::element_object(a, i, json::path(at, "spectators"));
+            chem::SpectatorIon ion;
+            ion.ion = json::require_string(so, "ion", sat);
+            ion.charge = json::require_int(so, "charge", sat, -6, 6);
+            ion.count = json::optional_number(so, "count", sat).value_or(1.0);
+            r.spectators.push_back(ion);
+        }
+    }
+    if (o.contains("systems")) {
+        const QJsonArray a = json::require_array(o, "systems", at);
+        for (int i = 0; i < a.size(); ++i) {
+            const std::string sat = json::path(json::path(at, "systems"), i);
+            const QJsonObject so = json::element_object(a, i, json::path(at, "systems"));
+            chem::SystemShare sh;
+            sh.system = json::require_string(so, "system", sat);
+            sh.count = json::optional_number(so, "count", sat).value_or(1.0);
+            sh.protons_removed = json::optional_number(so, "protons_removed", sat).value_or(0.0);
+            r.systems.push_back(sh);
+        }
+    }
+    r.sources = string_list(o, "sources", at);
+    r.user_defined = json::optional_bool(o, "user_defined", at, false);
+    return r;
+}
+
+void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem::Library& lib) {
+    try {
+        const QJsonObject doc = json::parse_document(bytes);
+        const QJsonArray systems = json::require_array(doc, "systems", "");
+        for (int i = 0; i < systems.size(); ++i) {
+            const std::string at = json::path("systems", i);
+            try {
+                lib.add_system(system_from_json(json::element_object(systems, i, "systems"), at));
+            } catch (const chem::Error& e) {
+                throw e.field().rfind("systems[", 0) == 0 ? e : e.within(at);
+            }
+        }
+        const QJsonArray reagents = json::require_array(doc, "reagents", "");
+        for (int i = 0; i < reagents.size(); ++i) {
+            const std::string at = json::path("reagents", i);
+            try {
+                lib.add_reagent(reagent_from_json(json::element_object(reagents, i, "reagents"), at));
+            } catch (const chem::Error& e) {
+                throw e.field().rfind("reagents[", 0) == 0 ? e : e.within(at);
+            }
+        }
+    } catch (const chem::Error& e) {
+        throw chem::Error(origin + ": " + e.field(), e.message());
+    }
+}
+
+AppData load_app_data(const QString& dir) {
+    AppData d;
+    d.data_dir = dir;
+    load_reagents_json(read_file(dir + "/reagents.json"), "reagents.json", d.reagents);
+    return d;
+}
+
+} // namespace phaseplan

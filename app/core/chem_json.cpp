@@ -1,0 +1,133 @@
+#include "core/chem_json.h"
+
+#include "chem/error.h"
+#include "core/json_util.h"
+
+#include <QJsonArray>
+
+namespace phaseplan {
+
+QJsonObject warning_to_json(const chem::Warning& w) {
+    return QJsonObject{{"code", QString::fromStdString(w.code)},
+                       {"severity", chem::severity_name(w.severity)},
+                       {"message", QString::fromStdString(w.message)}};
+}
+
+QJsonArray warnings_to_json(const std::vector<chem::Warning>& ws) {
+    QJsonArray a;
+    for (const auto& w : ws) a.append(warning_to_json(w));
+    return a;
+}
+
+std::vector<chem::Component> components_from_json(const chem::Library& lib, const QJsonObject& doc,
+                                                  const std::string& parent, double* temperature_c) {
+    if (temperature_c) *temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
+    const QJsonArray a = json::require_array(doc, "components", parent);
+    const std::string list = json::path(parent, "components");
+    if (a.isEmpty()) throw chem::Error(list, "needs at least one component");
+    std::vector<chem::Component> out;
+    for (int i = 0; i < a.size(); ++i) {
+        const std::string at = json::path(list, i);
+        const QJsonObject c = json::element_object(a, i, list);
+        const std::string id = json::require_string(c, "reagent", at);
+        const chem::Reagent& r = lib.reagent(id, json::path(at, "reagent"));
+        const double m = json::require_number(c, "mol_per_l", at);
+        out.push_back({&r, m});
+    }
+    return out;
+}
+
+QJsonObject speciation_to_json(const chem::Speciation& s) {
+    QJsonArray species;
+    for (const auto& sp : s.species) {
+        QJsonObject o{{"species", QString::fromStdString(sp.species)},
+                      {"charge", sp.charge},
+                      {"mol_per_l", sp.mol_per_l},
+                      {"activity_coefficient", sp.activity_coefficient}};
+        if (!sp.system.empty()) o["system"] = QString::fromStdString(sp.system);
+        species.append(o);
+    }
+    return QJsonObject{{"temperature_c", s.temperature_c},
+                       {"ph", s.ph},
+                       {"ionic_strength_mol_per_l", s.ionic_strength_mol_per_l},
+                       {"buffer_capacity_mol_per_l", s.buffer_capacity_mol_per_l},
+                       {"species", species},
+                       {"warnings", warnings_to_json(s.warnings)}};
+}
+
+chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJsonObject& doc,
+                                             const std::string& parent) {
+    chem::RecipeRequest r;
+    r.target_ph = json::require_number(doc, "target_ph", parent);
+    r.temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
+    r.volume_ml = json::optional_number(doc, "volume_ml", parent).value_or(1000.0);
+    const std::string route = json::require_string(doc, "route", parent);
+    if (route == "mix") r.route = chem::Route::mix;
+    else if (route == "titrate") r.route = chem::Route::titrate;
+    else if (route == "stocks") r.route = chem::Route::stocks;
+    else
+        throw chem::Error(json::path(parent, "route"),
+                          "\"" + route + "\" is not a route (mix, titrate or stocks)");
+    auto reagent_id = [&](const char* key) {
+        const std::string id = json::require_string(doc, key, parent);
+        lib.reagent(id, json::path(parent, key)); // unknown ids: error naming the field + nearest ids
+        return id;
+    };
+    if (r.route == chem::Route::titrate) {
+        r.weigh = reagent_id("weigh");
+        r.titrant = reagent_id("titrant");
+        r.titrant_mol_per_l = json::require_number(doc, "titrant_mol_per_l", parent);
+    } else {
+        r.acid = reagent_id("acid");
+        r.base = reagent_id("base");
+        if (r.route == chem::Route::stocks) {
+            r.acid_stock_mol_per_l = json::require_number(doc, "acid_stock_mol_per_l", parent);
+            r.base_stock_mol_per_l = json::require_number(doc, "base_stock_mol_per_l", parent);
+        }
+    }
+    r.concentration_mol_per_l = json::optional_number(doc, "concentration_mol_per_l", parent);
+    r.ionic_strength_mol_per_l = json::optional_number(doc, "ionic_strength_mol_per_l", parent);
+    if (doc.contains("purity_percent")) {
+        const QJsonObject p = json::require_object(doc, "purity_percent", parent);
+        for (auto it = p.begin(); it != p.end(); ++it) {
+            const std::string id = it.key().toStdString();
+            lib.reagent(id, json::path(json::path(parent, "purity_percent"), it.key()));
+            const double pct = json::require_number(p, it.key(), json::path(parent, "purity_percent"));
+            r.purity_overrides.emplace_back(id, pct / 100.0);
+        }
+    }
+    return r;
+}
+
+QJsonObject recipe_to_json(const chem::Recipe& r) {
+    QJsonArray items;
+    for (const auto& it : r.items) {
+        QJsonObject o{{"reagent", QString::fromStdString(it.reagent)},
+                      {"mol_per_l", it.mol_per_l},
+                      {"as", QString::fromStdString(it.as)}};
+        if (it.mass_g) o["mass_g"] = *it.mass_g;
+        if (it.volume_ml) o["volume_ml"] = *it.volume_ml;
+        items.append(o);
+    }
+    QJsonArray composition;
+    for (const auto& c : r.composition)
+        composition.append(QJsonObject{{"reagent", QString::fromStdString(c.reagent->id)},
+                                       {"mol_per_l", c.mol_per_l}});
+    QJsonArray steps, cautions;
+    for (const auto& s : r.steps) steps.append(QString::fromStdString(s));
+    for (const auto& s : r.cautions) cautions.append(QString::fromStdString(s));
+    QJsonObject out{{"items", items},
+                    {"composition", composition},
+                    {"temperature_c", r.request.temperature_c},
+                    {"volume_ml", r.request.volume_ml},
+                    {"target_ph", r.request.target_ph},
+                    {"ph", r.predicted.ph},
+                    {"ionic_strength_mol_per_l", r.predicted.ionic_strength_mol_per_l},
+                    {"buffer_capacity_mol_per_l", r.predicted.buffer_capacity_mol_per_l},
+                    {"steps", steps},
+                    {"cautions", cautions},
+                    {"warnings", warnings_to_json(r.warnings)}};
+    return out;
+}
+
+} // namespace phaseplan

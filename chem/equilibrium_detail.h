@@ -1,0 +1,63 @@
+#pragma once
+// Internals of the speciation solver, shared with the recipe designer (which re-solves one
+// mixture many times with different amounts). Not part of the public contract.
+#include "chem/equilibrium.h"
+
+#include <array>
+#include <string>
+#include <vector>
+
+namespace chem::detail {
+
+inline constexpr int max_steps = 4; ///< pKa steps per system supported by the fixed arrays
+
+struct Problem {
+    double temperature_k = 298.15;
+    double kw = 1e-14;    ///< thermodynamic ion product of water at T
+    double a_dh = 0.5;    ///< Debye–Hückel A at T, (mol/L)^-1/2
+
+    struct System {
+        const AcidBaseSystem* def = nullptr;
+        int steps = 0;
+        int z0 = 0;                          ///< charge of the fully protonated species
+        std::array<double, max_steps> ka{};  ///< thermodynamic Ka of each step at T
+        double total_mol_per_l = 0;
+    };
+    struct Ion {
+        std::string name;
+        int charge = 0;
+        double total_mol_per_l = 0;
+    };
+    std::vector<System> systems;
+    std::vector<Ion> ions;
+
+    /// How each component feeds the totals: (index, units per formula unit).
+    struct Feed {
+        std::vector<std::pair<int, double>> systems;
+        std::vector<std::pair<int, double>> ions;
+    };
+    std::vector<Feed> feeds;
+
+    /// Recomputes the totals from the components' amounts (mol/L, one per component).
+    void set_amounts(const std::vector<double>& mol_per_l);
+};
+
+/// Builds the problem for these components at temperature_c; validates amounts and temperature
+/// (chem::Error on "components[i].mol_per_l" / "temperature_c").
+Problem build_problem(const Library& lib, const std::vector<Component>& components,
+                      double temperature_c);
+
+struct State {
+    double ph = 7;
+    double ionic_strength_mol_per_l = 0;
+    int iterations = 0;
+};
+
+/// Solves charge balance and ionic strength self-consistently. Throws chem::Error("components", …)
+/// if the ionic-strength iteration does not converge (it never returns NaN).
+State solve_state(const Problem& p);
+
+/// Full report: species, β, warnings.
+Speciation report(const Problem& p, const State& s);
+
+} // namespace chem::detail

@@ -1,0 +1,179 @@
+#include "chem/reagent.h"
+
+#include "chem/error.h"
+#include "chem/units.h"
+
+#include <algorithm>
+#include <cmath>
+
+namespace chem {
+
+double AcidBaseSystem::pka_at(int step, double temperature_k) const {
+    const double pka25 = pka_25c.at(step);
+    if (step < static_cast<int>(enthalpy_kj_per_mol.size()) && enthalpy_kj_per_mol[step]) {
+        // van 't Hoff, constant ΔrH°: d(ln K)/d(1/T) = -ΔH/R, pKa = -log10 K.
+        const double dh_j = *enthalpy_kj_per_mol[step] * 1000.0;
+        const double dcp = step < static_cast<int>(heat_capacity_j_per_mol_k.size())
+                               ? heat_capacity_j_per_mol_k[step]
+                               : 0.0;
+        const double t0 = reference_temperature_k, t = temperature_k;
+        const double r_ln10 = gas_constant_j_per_mol_k * ln10;
+        return pka25 + dh_j / r_ln10 * (1.0 / t - 1.0 / t0) -
+               dcp / r_ln10 * (std::log(t / t0) + t0 / t - 1.0);
+    }
+    const double slope = step < static_cast<int>(dpka_per_k.size()) ? dpka_per_k[step] : 0.0;
+    return pka25 + slope * (temperature_k - reference_temperature_k);
+}
+
+bool Reagent::has_system(const std::string& system_id) const { return share(system_id) != nullptr; }
+
+const SystemShare* Reagent::share(const std::string& system_id) const {
+    for (const auto& s : systems)
+        if (s.system == system_id) return &s;
+    return nullptr;
+}
+
+double Reagent::formal_charge(const Library& lib) const {
+    double q = 0;
+    for (const auto& sp : spectators) q += sp.charge * sp.count;
+    for (const auto& s : systems)
+        q += s.count * lib.system(s.system).charge_fully_protonated - s.protons_removed;
+    return q;
+}
+
+bool Reagent::is_strong_acid() const {
+    if (!systems.empty() || spectators.empty()) return false;
+    return std::all_of(spectators.begin(), spectators.end(),
+                       [](const SpectatorIon& s) { return s.charge < 0; });
+}
+
+bool Reagent::is_strong_base() const {
+    if (!systems.empty() || spectators.empty()) return false;
+    return std::all_of(spectators.begin(), spectators.end(),
+                       [](const SpectatorIon& s) { return s.charge > 0; });
+}
+
+namespace {
+bool any_of_codes(const std::vector<std::string>& codes, std::initializer_list<const char*> wanted,
+                  bool prefix = false) {
+    for (const auto& c : codes)
+        for (const char* w : wanted)
+            if (prefix ? c.rfind(w, 0) == 0 : c == w) return true;
+    return false;
+}
+} // namespace
+
+bool Reagent::is_corrosive() const {
+    return any_of_codes(ghs_pictograms, {"GHS05"}) ||
+           any_of_codes(ghs_hazards, {"H314", "H290", "H318"});
+}
+
+bool Reagent::is_flammable() const {
+    return any_of_codes(ghs_pictograms, {"GHS02"}) || any_of_codes(ghs_hazards, {"H22"}, true);
+}
+
+bool Reagent::is_toxic() const {
+    return any_of_codes(ghs_pictograms, {"GHS06", "GHS08"}) ||
+           any_of_codes(ghs_hazards, {"H30", "H31", "H33", "H34", "H35", "H36", "H37"}, true);
+}
+
+void Library::add_system(AcidBaseSystem system) {
+    if (system.id.empty()) throw Error("id", "a system needs an id");
+    if (system.species.size() != system.pka_25c.size() + 1)
+        throw Error("species", "system \"" + system.id + "\" lists " +
+                                   std::to_string(system.species.size()) + " species for " +
+                                   std::to_string(system.pka_25c.size()) + " pKa steps");
+    for (size_t i = 1; i < system.pka_25c.size(); ++i)
+        if (!(system.pka_25c[i] > system.pka_25c[i - 1]))
+            throw Error("steps", "pKa values of \"" + system.id + "\" must increase step by step");
+    auto it = std::find_if(systems_.begin(), systems_.end(),
+                           [&](const AcidBaseSystem& s) { return s.id == system.id; });
+    if (it != systems_.end()) *it = std::move(system);
+    else systems_.push_back(std::move(system));
+}
+
+void Library::add_reagent(Reagent reagent) {
+    if (reagent.id.empty()) throw Error("id", "a reagent needs an id");
+    if (!(reagent.molar_mass_g_per_mol > 0))
+        throw Error("formula", "molar mass of \"" + reagent.id + "\" must be positive");
+    if (!(reagent.assay_fraction > 0 && reagent.assay_fraction <= 1))
+        throw Error("assay_percent", format_number(reagent.assay_fraction * 100) +
+                                         " is outside 0 to 100 % for \"" + reagent.id + "\"");
+    if (reagent.form == PhysicalForm::liquid && !(reagent.density_g_per_ml > 0))
+        throw Error("density_g_per_ml", "liquid \"" + reagent.id + "\" needs a positive density");
+    for (const auto& s : reagent.systems) {
+        if (!find_system(s.system))
+            throw Error("systems", "\"" + reagent.id + "\" names unknown system \"" + s.system + "\"");
+        if (!(s.count > 0)) throw Error("systems", "count must be positive in \"" + reagent.id + "\"");
+        const auto& sys = system(s.system);
+        if (s.protons_removed < 0 || s.protons_removed > s.count * sys.steps())
+            throw Error("systems", "\"" + reagent.id + "\": protons_removed " +
+                                       format_number(s.protons_removed) + " is outside 0 to " +
+                                       format_number(s.count * sys.steps()));
+    }
+    // A reagent with no acid-base system and a net spectator charge is a strong acid (HCl: the
+    // H+ balances Cl-) or a strong base (NaOH: OH- balances Na+); any other must be neutral.
+    const double q = reagent.formal_charge(*this);
+    if (!reagent.systems.empty() && std::abs(q) > 1e-9)
+        throw Error("spectators", "\"" + reagent.id + "\" is not electroneutral (net charge " +
+                                      format_number(q) + ")");
+    auto it = std::find_if(reagents_.begin(), reagents_.end(),
+                           [&](const Reagent& r) { return r.id == reagent.id; });
+    if (it != reagents_.end()) *it = std::move(reagent);
+    else reagents_.push_back(std::move(reagent));
+}
+
+const Reagent* Library::find_reagent(const std::string& id) const {
+    for (const auto& r : reagents_)
+        if (r.id == id) return &r;
+    return nullptr;
+}
+
+const AcidBaseSystem* Library::find_system(const std::string& id) const {
+    for (const auto& s : systems_)
+        if (s.id == id) return &s;
+    return nullptr;
+}
+
+const AcidBaseSystem& Library::system(const std::string& id, const std::string& field) const {
+    if (const auto* s = find_system(id)) return *s;
+    throw Error(field, "unknown acid-base system \"" + id + "\"");
+}
+
+const Reagent& Library::reagent(const std::string& id, const std::string& field) const {
+    if (const auto* r = find_reagent(id)) return *r;
+    std::string hint;
+    for (const auto& n : nearest_reagent_ids(id)) hint += (hint.empty() ? "" : ", ") + n;
+    throw Error(field, "unknown reagent \"" + id + "\"" +
+                           (hint.empty() ? std::string() : " (nearest: " + hint + ")"));
+}
+
+namespace {
+size_t edit_distance(const std::string& a, const std::string& b) {
+    std::vector<size_t> prev(b.size() + 1), cur(b.size() + 1);
+    for (size_t j = 0; j <= b.size(); ++j) prev[j] = j;
+    for (size_t i = 1; i <= a.size(); ++i) {
+        cur[0] = i;
+        for (size_t j = 1; j <= b.size(); ++j)
+            cur[j] = std::min({prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] != b[j - 1])});
+        std::swap(prev, cur);
+    }
+    return prev[b.size()];
+}
+} // namespace
+
+std::vector<std::string> Library::nearest_reagent_ids(const std::string& id, int count) const {
+    std::vector<std::pair<size_t, std::string>> scored;
+    for (const auto& r : reagents_) {
+        size_t d = edit_distance(id, r.id);
+        // A reagent id that contains the query ("phosphate" in "...-phosphate") ranks close.
+        if (!id.empty() && r.id.find(id) != std::string::npos) d = std::min(d, r.id.size() - id.size());
+        scored.emplace_back(d, r.id);
+    }
+    std::sort(scored.begin(), scored.end());
+    std::vector<std::string> out;
+    for (int i = 0; i < count && i < static_cast<int>(scored.size()); ++i) out.push_back(scored[i].second);
+    return out;
+}
+
+} // namespace chem
