@@ -1,0 +1,21 @@
+// Number formatting for error messages (chem/error.h).
+#include "chem/error.h"
+
+#include <charconv>
+#include <cmath>
+
+namespace chem {
+
+std::string format_number(double value) {
+    if (std::isnan(value)) return "nan";
+    if (std::isinf(value)) return value > 0 ? "inf" : "-inf";
+    if (value == 0) return "0"; // also for -0
+    // std::to_chars is locale-independent (a Qt app may run under a decimal-comma locale, where
+    // printf would write "1,5"); general format with precision 6 is printf's %.6g: up to six
+    // significant digits, trailing zeros dropped, exponent form for very large or small values.
+    char buf[64];
+    auto res = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::general, 6);
+    return std::string(buf, res.ptr);
+}
+
+} // namespace chem
