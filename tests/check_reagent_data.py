@@ -12,7 +12,8 @@ Checks, each against the rule it comes from:
   system has one more species than steps;
 - successive pKa values of one system increase (each proton is harder to remove than the last;
   true of every polyprotic acid listed in Goldberg et al., J. Phys. Chem. Ref. Data 31 (2002) 231);
-- every step has a pKa, exactly one of enthalpy_kj_per_mol / dpka_per_k, and a source;
+- every step has a pKa, exactly one of enthalpy_kj_per_mol / dpka_per_k, an optional
+  heat_capacity_j_per_mol_k (ΔrCp°) in a plausible range, and a source;
 - GHS codes have the shapes of Regulation (EC) No 1272/2008 (H2xx/H3xx/H4xx, EUHxxx, GHS01..GHS09),
   and each pictogram is backed by a hazard statement of its class and vice versa (CLP Annex I and V,
   with the precedence rules of Article 26: no GHS07 beside GHS06; no GHS07 for skin or eye irritation
@@ -134,6 +135,9 @@ def main():
                 bad(sat, f"enthalpy_kj_per_mol {st['enthalpy_kj_per_mol']} outside (-100, 100)")
             if has_d and not -0.1 <= st["dpka_per_k"] <= 0.1:
                 bad(sat, f"dpka_per_k {st['dpka_per_k']} outside [-0.1, 0.1]")
+            cp = st.get("heat_capacity_j_per_mol_k")
+            if cp is not None and (not isinstance(cp, (int, float)) or not -600 < cp < 600):
+                bad(sat, f"heat_capacity_j_per_mol_k {cp!r} outside (-600, 600)")
             src = st.get("source", "")
             if not src.strip():
                 bad(sat, "no source")
