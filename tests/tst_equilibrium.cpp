@@ -1,0 +1,273 @@
+// The speciation solver against published reference values and its own invariants.
+#include "chem/equilibrium.h"
+#include "chem/error.h"
+#include "chem/units.h"
+#include "chem/water.h"
+#include "core/chem_json.h"
+#include "test_support.h"
+
+#include <QJsonArray>
+#include <QtTest>
+
+#include <cmath>
+
+using phaseplan::testing::shipped_data;
+
+namespace {
+const chem::Library& lib() { return shipped_data().reagents; }
+const chem::Reagent* R(const char* id) { return &lib().reagent(id); }
+} // namespace
+
+class TestEquilibrium : public QObject {
+    Q_OBJECT
+private slots:
+    void referenceBuffers_data();
+    void referenceBuffers();
+    void waterIonProduct_data();
+    void waterIonProduct();
+    void debyeHuckelA_data();
+    void debyeHuckelA();
+    void pureWaterIsNeutral();
+    void dilutePhosphateApproachesHendersonHasselbalch();
+    void limitingLawSlope();
+    void hydrochloricAcidActivity();
+    void phRisesMonotonicallyWithStrongBase();
+    void chargeAndMassBalanceHold_data();
+    void chargeAndMassBalanceHold();
+    void bufferCapacityMatchesFiniteDifference();
+    void extremeInputsNeverGiveNaN();
+    void badInputNamesTheField();
+};
+
+// IUPAC/NIST primary pH reference buffers (rows from tests/data/reference_buffers.json; the
+// source is named in that file). The Davies model holds to ~0.02 pH at I <= 0.1 mol/L.
+void TestEquilibrium::referenceBuffers_data() {
+    QTest::addColumn<QJsonArray>("components");
+    QTest::addColumn<double>("temperature_c");
+    QTest::addColumn<double>("published_ph");
+    QTest::addColumn<double>("tolerance");
+    const QJsonObject doc = phaseplan::testing::read_json(TESTS_DATA_DIR "/reference_buffers.json");
+    const double tol = doc["tolerance_ph"].toDouble();
+    for (const auto& b : doc["buffers"].toArray()) {
+        const QJsonObject o = b.toObject();
+        const QJsonObject ph = o["ph"].toObject();
+        for (auto it = ph.begin(); it != ph.end(); ++it) {
+            const QByteArray tag = (o["name"].toString() + " @ " + it.key() + " C").toUtf8();
+            QTest::newRow(tag.constData()) << o["components"].toArray() << it.key().toDouble()
+                                           << it.value().toDouble() << tol;
+        }
+    }
+}
+
+void TestEquilibrium::referenceBuffers() {
+    QFETCH(QJsonArray, components);
+    QFETCH(double, temperature_c);
+    QFETCH(double, published_ph);
+    QFETCH(double, tolerance);
+    double t = 0;
+    QJsonObject doc{{"temperature_c", temperature_c}, {"components", components}};
+    const auto comps = phaseplan::components_from_json(lib(), doc, "", &t);
+    const chem::Speciation s = chem::solve(lib(), comps, t);
+    QVERIFY2(s.ionic_strength_mol_per_l <= 0.1 + 1e-6, "reference buffers here have I <= 0.1");
+    QVERIFY2(std::abs(s.ph - published_ph) <= tolerance,
+             qPrintable(QString("computed pH %1, published %2").arg(s.ph, 0, 'f', 4).arg(published_ph)));
+}
+
+// pKw of water: H. S. Harned & B. B. Owen, The Physical Chemistry of Electrolytic Solutions,
+// 3rd ed. (1958), Table 15-2-1A (from memory). Our formula is the Harned & Robinson (1940) fit.
+void TestEquilibrium::waterIonProduct_data() {
+    QTest::addColumn<double>("temperature_c");
+    QTest::addColumn<double>("published_pkw");
+    QTest::newRow("0 C") << 0.0 << 14.9435;
+    QTest::newRow("10 C") << 10.0 << 14.5346;
+    QTest::newRow("20 C") << 20.0 << 14.1669;
+    QTest::newRow("25 C") << 25.0 << 13.9965;
+    QTest::newRow("30 C") << 30.0 << 13.8330;
+    QTest::newRow("40 C") << 40.0 << 13.5348;
+    QTest::newRow("50 C") << 50.0 << 13.2617;
+    QTest::newRow("60 C") << 60.0 << 13.0171;
+}
+
+void TestEquilibrium::waterIonProduct() {
+    QFETCH(double, temperature_c);
+    QFETCH(double, published_pkw);
+    const double pkw = chem::pkw(chem::to_kelvin(temperature_c));
+    QVERIFY2(std::abs(pkw - published_pkw) < 0.01, qPrintable(QString::number(pkw, 'f', 4)));
+}
+
+// Debye–Hückel A for log10 γ: R. A. Robinson & R. H. Stokes, Electrolyte Solutions, 2nd ed.
+// (1959), Appendix 7.1 (from memory); tolerance 0.005 covers the permittivity data used.
+void TestEquilibrium::debyeHuckelA_data() {
+    QTest::addColumn<double>("temperature_c");
+    QTest::addColumn<double>("published_a");
+    QTest::newRow("0 C") << 0.0 << 0.4918;
+    QTest::newRow("25 C") << 25.0 << 0.5115;
+    QTest::newRow("50 C") << 50.0 << 0.5373;
+}
+
+void TestEquilibrium::debyeHuckelA() {
+    QFETCH(double, temperature_c);
+    QFETCH(double, published_a);
+    const double a = chem::debye_huckel_a(chem::to_kelvin(temperature_c));
+    QVERIFY2(std::abs(a - published_a) < 0.005, qPrintable(QString::number(a, 'f', 4)));
+}
+
+void TestEquilibrium::pureWaterIsNeutral() {
+    // A trace of a neutral salt: pH = pKw/2 (activity scale) at 25 and 50 °C.
+    for (double t : {25.0, 50.0}) {
+        const auto s = chem::solve(lib(), {{R("sodium-chloride"), 1e-9}}, t);
+        QVERIFY(std::abs(s.ph - chem::pkw(chem::to_kelvin(t)) / 2) < 1e-4);
+    }
+}
+
+void TestEquilibrium::dilutePhosphateApproachesHendersonHasselbalch() {
+    // Henderson–Hasselbalch limit: as I -> 0 (and with the buffer far above [H+], [OH-]),
+    // pH -> pKa2 + log10(c_base / c_acid). pKa2 is the library's own value, so this checks the
+    // solver, not the data.
+    const double pka2 = lib().system("phosphate").pka_at(1, chem::reference_temperature_k);
+    const double ratio = 1.0;
+    double previous_gap = 1;
+    for (double c : {1e-2, 1e-3, 1e-4, 1e-5}) {
+        const auto s = chem::solve(lib(), {{R("potassium-dihydrogen-phosphate"), c},
+                                           {R("disodium-hydrogen-phosphate"), ratio * c}}, 25);
+        const double gap = std::abs(s.ph - (pka2 + std::log10(ratio)));
+        QVERIFY2(gap < previous_gap, "the deviation from Henderson-Hasselbalch must shrink with I");
+        previous_gap = gap;
+    }
+    QVERIFY2(previous_gap < 0.02, qPrintable(QString::number(previous_gap)));
+}
+
+void TestEquilibrium::limitingLawSlope() {
+    // Debye–Hückel limiting law (P. Debye & E. Hückel, Phys. Z. 24 (1923) 185): for the
+    // H2PO4-/HPO4-2 pair, pH − pKa2 − log10(cb/ca) = log γ(HPO4-2) − log γ(H2PO4-) → −3A√I.
+    const double a = chem::debye_huckel_a(chem::reference_temperature_k);
+    const double pka2 = lib().system("phosphate").pka_at(1, chem::reference_temperature_k);
+    const double c = 2e-4;
+    const auto s = chem::solve(lib(), {{R("potassium-dihydrogen-phosphate"), c},
+                                       {R("disodium-hydrogen-phosphate"), c}}, 25);
+    const double ratio = s.concentration_of("HPO4-2") / s.concentration_of("H2PO4-");
+    const double shift = s.ph - pka2 - std::log10(ratio);
+    const double limiting = -3 * a * std::sqrt(s.ionic_strength_mol_per_l);
+    QVERIFY2(std::abs(shift / limiting - 1) < 0.05, qPrintable(QString::number(shift / limiting)));
+}
+
+void TestEquilibrium::hydrochloricAcidActivity() {
+    // 0.01 mol/kg HCl: mean activity coefficient 0.904 at 25 °C (Harned & Owen 1958, Table 11-4-1A,
+    // from memory), so pH = −log10(0.01 · 0.904) = 2.044.
+    const auto s = chem::solve(lib(), {{R("hydrochloric-acid"), 0.01}}, 25);
+    QVERIFY2(std::abs(s.ph - 2.044) < 0.005, qPrintable(QString::number(s.ph, 'f', 4)));
+}
+
+void TestEquilibrium::phRisesMonotonicallyWithStrongBase() {
+    double last = -100;
+    for (int i = 0; i <= 60; ++i) {
+        std::vector<chem::Component> comps = {{R("potassium-dihydrogen-phosphate"), 0.05},
+                                              {R("citric-acid"), 0.01}};
+        if (i > 0) comps.push_back({R("sodium-hydroxide"), 0.0025 * i});
+        const auto s = chem::solve(lib(), comps, 25);
+        QVERIFY2(s.ph > last, qPrintable(QString("step %1: pH %2 after %3").arg(i).arg(s.ph).arg(last)));
+        last = s.ph;
+    }
+}
+
+void TestEquilibrium::chargeAndMassBalanceHold_data() {
+    QTest::addColumn<QStringList>("ids");
+    QTest::addColumn<QList<double>>("amounts");
+    QTest::addColumn<double>("temperature_c");
+    QTest::newRow("three systems") << QStringList{"ammonium-acetate", "sodium-dihydrogen-phosphate", "tris"}
+                                   << QList<double>{0.01, 0.02, 0.015} << 25.0;
+    QTest::newRow("borax + glycine at 5 C") << QStringList{"sodium-tetraborate-decahydrate", "glycine"}
+                                            << QList<double>{0.01, 0.03} << 5.0;
+    QTest::newRow("citrate + HCl at 55 C") << QStringList{"trisodium-citrate-dihydrate", "hydrochloric-acid"}
+                                           << QList<double>{0.05, 0.04} << 55.0;
+    QTest::newRow("carbonate + ammonia") << QStringList{"ammonium-bicarbonate", "ammonia"}
+                                         << QList<double>{0.01, 0.01} << 25.0;
+}
+
+void TestEquilibrium::chargeAndMassBalanceHold() {
+    QFETCH(QStringList, ids);
+    QFETCH(QList<double>, amounts);
+    QFETCH(double, temperature_c);
+    std::vector<chem::Component> comps;
+    for (int i = 0; i < ids.size(); ++i) comps.push_back({R(ids[i].toUtf8().constData()), amounts[i]});
+    const auto s = chem::solve(lib(), comps, temperature_c);
+    double charge = 0, scale = 0, ionic = 0;
+    for (const auto& sp : s.species) {
+        charge += sp.charge * sp.mol_per_l;
+        scale += std::abs(sp.charge) * sp.mol_per_l;
+        ionic += 0.5 * sp.charge * sp.charge * sp.mol_per_l;
+        QVERIFY(std::isfinite(sp.mol_per_l) && sp.mol_per_l >= 0);
+        QVERIFY(sp.activity_coefficient > 0 && sp.activity_coefficient <= 1);
+    }
+    QVERIFY2(std::abs(charge) <= 1e-9 * scale, qPrintable(QString::number(charge)));
+    QVERIFY(std::abs(ionic - s.ionic_strength_mol_per_l) <= 1e-8 * ionic);
+    // Mass balance per system.
+    for (const auto& c : comps)
+        for (const auto& share : c.reagent->systems) {
+            double expected = 0;
+            for (const auto& c2 : comps)
+                if (const auto* sh = c2.reagent->share(share.system)) expected += sh->count * c2.mol_per_l;
+            double found = 0;
+            for (const auto& sp : s.species)
+                if (sp.system == share.system) found += sp.mol_per_l;
+            QVERIFY2(std::abs(found - expected) <= 1e-12 + 1e-10 * expected, share.system.c_str());
+        }
+}
+
+void TestEquilibrium::bufferCapacityMatchesFiniteDifference() {
+    // β = dC_base/dpH: compare the analytic value with a small NaOH addition.
+    const std::vector<chem::Component> base = {{R("sodium-acetate"), 0.02}, {R("acetic-acid"), 0.02}};
+    const auto s0 = chem::solve(lib(), base, 25);
+    const double delta = 1e-6;
+    auto more = base;
+    more.push_back({R("sodium-hydroxide"), delta});
+    const auto s1 = chem::solve(lib(), more, 25);
+    const double beta_fd = delta / (s1.ph - s0.ph);
+    // β is defined at constant activity coefficients (Van Slyke's buffer value); the real addition
+    // also raises I, which at I = 0.02 mol/L moves the pH by about 3 % of the step. Hence 5 %.
+    QVERIFY2(std::abs(beta_fd / s0.buffer_capacity_mol_per_l - 1) < 0.05,
+             qPrintable(QString("%1 vs %2").arg(beta_fd).arg(s0.buffer_capacity_mol_per_l)));
+    // Van Slyke at the pKa with γ ignored: β ≈ ln10 · C/4 = 0.0230 mol/L for C = 0.04.
+    QVERIFY(std::abs(s0.buffer_capacity_mol_per_l - 0.0230) < 0.002);
+}
+
+void TestEquilibrium::extremeInputsNeverGiveNaN() {
+    const std::vector<std::vector<chem::Component>> cases = {
+        {{R("hydrochloric-acid"), 10}},
+        {{R("sodium-hydroxide"), 10}},
+        {{R("acetic-acid"), 1e-12}},
+        {{R("phosphoric-acid"), 5}, {R("sodium-hydroxide"), 9}, {R("tris"), 3}},
+        {{R("trifluoroacetic-acid"), 1}, {R("triethylamine"), 1}},
+    };
+    for (const auto& c : cases) {
+        for (double t : {0.0, 60.0}) {
+            try {
+                const auto s = chem::solve(lib(), c, t);
+                QVERIFY(std::isfinite(s.ph) && std::isfinite(s.ionic_strength_mol_per_l) &&
+                        std::isfinite(s.buffer_capacity_mol_per_l));
+            } catch (const chem::Error& e) {
+                QVERIFY(!e.field().empty());
+            }
+        }
+    }
+}
+
+void TestEquilibrium::badInputNamesTheField() {
+    auto expect = [](auto fn, const std::string& field) {
+        try {
+            fn();
+            QFAIL(("no error for " + field).c_str());
+        } catch (const chem::Error& e) {
+            QCOMPARE(QString::fromStdString(e.field()), QString::fromStdString(field));
+        }
+    };
+    expect([] { chem::solve(lib(), {{R("tris"), 0.01}}, 61); }, "temperature_c");
+    expect([] { chem::solve(lib(), {{R("tris"), 0.01}}, -1); }, "temperature_c");
+    expect([] { chem::solve(lib(), {{R("tris"), 0.01}, {R("tris"), -0.2}}, 25); }, "components[1].mol_per_l");
+    expect([] { chem::solve(lib(), {{R("tris"), 11}}, 25); }, "components[0].mol_per_l");
+    expect([] { chem::solve(lib(), {{R("tris"), std::nan("")}}, 25); }, "components[0].mol_per_l");
+    expect([] { chem::solve(lib(), {}, 25); }, "components");
+}
+
+QTEST_GUILESS_MAIN(TestEquilibrium)
+#include "tst_equilibrium.moc"
