@@ -1,0 +1,146 @@
+#pragma once
+// A batch: one preparation of a recipe at the bench. It carries its own id, who prepared it and
+// when, when it expires, and the amounts actually weighed or measured with their lot numbers.
+// From those amounts the batch recomputes the solution as made and its predicted pH, and flags
+// every amount outside the tolerance.
+//
+// Times are ISO 8601 local date-times kept as strings ("2026-12-01T16:30:00"); chem/ parses them
+// only to check them and to add a shelf life. No Qt here.
+#include "chem/equilibrium.h"
+#include "chem/recipe.h"
+
+#include <cstdint>
+#include <optional>
+#include <string>
+#include <vector>
+
+namespace chem {
+
+/// What a shelf life depends on: water with buffer salts grows microbes and takes up CO2;
+/// organic solvents do not, but evaporate and take up water.
+enum class SolutionKind {
+    aqueous_buffer, ///< water with buffer salts, no organic solvent
+    organic,        ///< organic solvent(s), with or without additives, no water
+    mixed,          ///< water and organic solvent together (a premixed mobile phase)
+};
+/// "aqueous_buffer", "organic", "mixed".
+const char* solution_kind_name(SolutionKind kind);
+/// The inverse of solution_kind_name; std::nullopt for anything else.
+std::optional<SolutionKind> solution_kind_from_name(const std::string& name);
+
+/// Fallback shelf lives in hours per kind of solution, used when data/solvents.json has no
+/// "shelf_life" entry for the kind (app/ prefers the file's: "aqueous-buffer",
+/// "buffer-with-organic", "neat-solvent"). Common practice, no source: an aqueous buffer without
+/// organic is remade after two days (microbial growth, CO2 uptake shift the pH), a premixed
+/// aqueous-organic phase after three, a neat organic line after a month.
+struct ShelfLifeDefaults {
+    double aqueous_buffer_h = 48;
+    double mixed_h = 72;
+    double organic_h = 720;
+    double hours_for(SolutionKind kind) const;
+};
+
+/// One amount as actually weighed or measured. Exactly one of mass_g and volume_ml.
+struct ActualAmount {
+    std::string reagent;             ///< reagent id as in the recipe's items
+    std::optional<double> mass_g;    ///< material as supplied, g
+    std::optional<double> volume_ml; ///< liquid as supplied, or the stock / titrant solution, mL
+    std::string lot;                 ///< the supplier's lot number, may be empty
+};
+
+struct Batch {
+    std::string id;                  ///< the lab's batch id ("PB-2026-12-01-01"); printed in the QR code
+    std::string prepared_by;         ///< may be empty until someone prepares it
+    std::string prepared_at;         ///< ISO 8601 local date-time, "" = not yet prepared
+    std::string expires_at;          ///< ISO 8601; "" = prepared_at + the shelf life
+    std::string checked_by;          ///< second person's name, may be empty
+    double tolerance_fraction = 0.02; ///< ± relative tolerance of each amount (0.02 = ± 2 %)
+    /// The final volume actually made up, mL; absent = the recipe's volume_ml.
+    std::optional<double> final_volume_ml;
+    std::vector<ActualAmount> actual;
+};
+
+/// One recipe item against what was actually measured.
+struct AmountCheck {
+    std::string reagent;             ///< reagent id
+    std::string unit;                ///< "g" or "mL": the quantity in which target and actual are compared
+    double target = 0;               ///< the recipe's amount, in `unit`
+    double low = 0;                  ///< target · (1 − tolerance), in `unit`
+    double high = 0;                 ///< target · (1 + tolerance), in `unit`
+    bool entered = false;            ///< an actual amount was given
+    double actual = 0;               ///< in `unit` (converted from the other quantity if needed)
+    /// actual / target − 1 (0 when nothing was entered).
+    double deviation_fraction = 0;
+    bool within_tolerance = true;
+    std::string lot;
+    double target_mol_per_l = 0;     ///< formula units per litre of final solution, as planned
+    double actual_mol_per_l = 0;     ///< as made (the target when nothing was entered)
+};
+
+struct BatchResult {
+    std::vector<AmountCheck> checks;     ///< one per recipe item, in the recipe's order
+    std::vector<Component> composition;  ///< the solution as made, formula units per litre
+    Speciation predicted;                ///< solve() of `composition` at the recipe's temperature
+    double final_volume_ml = 0;
+    std::string expires_at;              ///< given, or prepared_at + shelf life; "" when neither is known
+    double shelf_life_h = 0;             ///< the shelf life applied (when expires_at was not given)
+    /// "amount-out-of-tolerance" (warning), "amount-not-entered" (info), "ph-off-target" (caution
+    /// when the pH predicted from the actual amounts is more than 0.05 from the target — common
+    /// practice, no source).
+    std::vector<Warning> warnings;
+};
+
+/// Amount of substance per unit of what is measured for one recipe item: mol per g of material
+/// (assay / M) and mol per mL (stock or titrant: molarity / 1000; neat liquid: density · assay / M).
+/// Uses the request's purity overrides like the designer. Throws nothing for a valid recipe item.
+struct ItemBasis {
+    std::optional<double> mol_per_g;
+    std::optional<double> mol_per_ml;
+};
+ItemBasis item_basis(const Library& lib, const RecipeRequest& request, const RecipeItem& item);
+
+/// Checks the batch's own fields (id, times, tolerance, amounts) and returns the checks, the
+/// solution as made and its predicted pH. Items without an actual amount count at their target.
+/// Throws chem::Error with fields in the CLI's JSON path style: "batch.id",
+/// "batch.prepared_at", "batch.actual[1].mass_g", "batch.tolerance_percent", … for a missing id,
+/// a time that is not ISO 8601, an expiry before preparation, a non-positive amount, an amount
+/// for a reagent the recipe does not use (the message lists the recipe's reagents), a mass for a
+/// stock solution, a volume for a solid, or two entries for one reagent.
+/// @param shelf_life_h hours from prepared_at to the expiry when the batch gives no expires_at.
+BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch& batch,
+                           double shelf_life_h);
+
+/// The batch's id, times and tolerance alone (evaluate_batch calls it; lines and sequences,
+/// which have no recipe items of their own, use it directly). Returns the expiry: given, or
+/// prepared_at + shelf_life_h, or "" when neither time is known. Throws chem::Error as
+/// evaluate_batch.
+std::string check_batch_fields(const Batch& batch, double shelf_life_h);
+
+/// Checks one measured amount against a target with a relative tolerance; for parts of a line
+/// (solvents by volume) that have no recipe item. `entered` false → within, deviation 0.
+AmountCheck check_amount(const std::string& name, const std::string& unit, double target,
+                         std::optional<double> actual, double tolerance_fraction);
+
+/// The out-of-tolerance warning for a check (code "amount-out-of-tolerance", severity warning),
+/// with the numbers: "potassium-dihydrogen-phosphate: 2.8000 g measured, target 2.7218 g ± 2 %
+/// (2.6674 to 2.7762 g), +2.9 %".
+Warning out_of_tolerance_warning(const AmountCheck& check, double tolerance_fraction);
+
+// ---- ISO 8601 local date-times ---------------------------------------------------------------
+
+/// A calendar date-time without zone (the lab's local time).
+struct LocalDateTime {
+    int year = 2000, month = 1, day = 1, hour = 0, minute = 0, second = 0;
+};
+/// Parses "YYYY-MM-DDTHH:MM[:SS]" (a space instead of T is accepted; a trailing "Z" or ±HH:MM is
+/// accepted and ignored: times are local). Throws chem::Error(field, …) naming the value.
+LocalDateTime parse_local_datetime(const std::string& text, const std::string& field);
+/// "YYYY-MM-DDTHH:MM:SS".
+std::string format_local_datetime(const LocalDateTime& t);
+/// Minutes since 1970-01-01T00:00 of the proleptic Gregorian calendar (no zone, no leap seconds).
+std::int64_t to_minutes(const LocalDateTime& t);
+LocalDateTime from_minutes(std::int64_t minutes);
+/// text + hours (rounded to the minute), formatted as format_local_datetime.
+std::string add_hours(const std::string& text, double hours, const std::string& field);
+
+} // namespace chem
