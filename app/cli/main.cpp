@@ -17,6 +17,8 @@
 #include <memory>
 
 #ifdef PHASEPLAN_WITH_PRINT
+#include "print/print_commands.h"
+
 #include <QGuiApplication>
 #endif
 
@@ -36,6 +38,10 @@ const std::map<std::string, Entry>& command_table() {
         {"solve", {phaseplan::command_solve, "speciation, pH, ionic strength of a mixture"}},
         {"recipe", {phaseplan::command_recipe, "amounts to weigh or pipette for a target pH"}},
         {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
+#ifdef PHASEPLAN_WITH_PRINT
+        {"sheet", {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
+        {"labels", {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},
+#endif
     };
     return table;
 }
