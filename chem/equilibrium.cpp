@@ -10,6 +10,7 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
+#include <limits>
 
 namespace chem {
 
@@ -39,80 +40,114 @@ constexpr int max_charge = 6;
 /// Activity coefficients by |z| for one ionic strength.
 struct Gammas {
     std::array<double, max_charge + 1> by_abs_z{};
-    Gammas(double a, double ionic_strength) {
-        for (int z = 0; z <= max_charge; ++z)
-            by_abs_z[z] = std::pow(10.0, davies_log10_gamma(a, z, ionic_strength));
+    /// @param highest_abs_z the largest |z| present; γ is computed only up to it (pow is costly).
+    Gammas(double a, double ionic_strength, int highest_abs_z = max_charge) {
+        by_abs_z[0] = 1.0;
+        // Davies: log10 γ(z) = z² · log10 γ(1), so γ(z) = γ(1)^(z²).
+        const double g1 = std::pow(10.0, davies_log10_gamma(a, 1, ionic_strength));
+        for (int z = 1; z <= highest_abs_z; ++z) {
+            double g = 1.0;
+            for (int k = 0; k < z * z; ++k) g *= g1;
+            by_abs_z[z] = g;
+        }
     }
     double operator()(int z) const { return by_abs_z[std::min(std::abs(z), max_charge)]; }
 };
 
-/// Relative amounts t_j of each species of a system at activity h of H+, with conditional
-/// constants K'_j = Ka_j γ(z_j) / γ(z_j+1) so that c_{j+1}/c_j = K'_j / h.
-/// Returns the sum; fills t[0..steps].
-double distribution(const Problem::System& s, const Gammas& g, double h,
-                    std::array<double, max_steps + 1>& t) {
-    t[0] = 1.0;
-    double sum = 1.0;
-    for (int j = 0; j < s.steps; ++j) {
-        const int z = s.z0 - j;
-        t[j + 1] = t[j] * s.ka[j] * g(z) / (g(z - 1) * h);
-        sum += t[j + 1];
+/// The solution's balances at one fixed set of activity coefficients. Precomputes, per system,
+/// the conditional constants K'_j = Ka_j γ(z_j) / γ(z_j − 1), so that c_{j+1}/c_j = K'_j / h with
+/// h the activity of H+; the pH root search then costs one pow and a few products per system.
+class AtFixedGamma {
+public:
+    AtFixedGamma(const Problem& p, const Gammas& g, std::vector<std::array<double, max_steps>>& kc)
+        : p_(p), kc_(kc), g1_(g(1)) {
+        kc_.resize(p.systems.size());
+        for (size_t i = 0; i < p.systems.size(); ++i) {
+            const auto& s = p.systems[i];
+            for (int j = 0; j < s.steps; ++j) kc_[i][j] = s.ka[j] * g(s.z0 - j) / g(s.z0 - j - 1);
+        }
+        for (const auto& ion : p.ions) {
+            spectator_charge_ += ion.charge * ion.total_mol_per_l;
+            spectator_z2_ += ion.charge * ion.charge * ion.total_mol_per_l;
+        }
     }
-    return sum;
-}
 
-/// Net charge concentration (mol/L) of the solution at pH with fixed γ: decreasing in pH.
-double charge_balance(const Problem& p, const Gammas& g, double ph) {
-    const double h = std::pow(10.0, -ph);
-    const double g1 = g(1);
-    double q = h / g1 - p.kw / (h * g1);
-    for (const auto& ion : p.ions) q += ion.charge * ion.total_mol_per_l;
-    std::array<double, max_steps + 1> t{};
-    for (const auto& s : p.systems) {
-        if (s.total_mol_per_l <= 0) continue;
-        const double sum = distribution(s, g, h, t);
-        double zbar = 0;
-        for (int j = 0; j <= s.steps; ++j) zbar += (s.z0 - j) * t[j];
-        q += s.total_mol_per_l * zbar / sum;
+    /// Relative amounts t_j (t_0 = 1) of system i's species at H+ activity h; returns their sum.
+    double distribution(size_t i, double inv_h, std::array<double, max_steps + 1>& t) const {
+        const auto& s = p_.systems[i];
+        t[0] = 1.0;
+        double sum = 1.0;
+        for (int j = 0; j < s.steps; ++j) {
+            t[j + 1] = t[j] * kc_[i][j] * inv_h;
+            sum += t[j + 1];
+        }
+        return sum;
     }
-    return q;
-}
 
-double ionic_strength_at(const Problem& p, const Gammas& g, double ph) {
-    const double h = std::pow(10.0, -ph);
-    const double g1 = g(1);
-    double sum_cz2 = h / g1 + p.kw / (h * g1);
-    for (const auto& ion : p.ions) sum_cz2 += ion.charge * ion.charge * ion.total_mol_per_l;
-    std::array<double, max_steps + 1> t{};
-    for (const auto& s : p.systems) {
-        if (s.total_mol_per_l <= 0) continue;
-        const double sum = distribution(s, g, h, t);
-        double z2bar = 0;
-        for (int j = 0; j <= s.steps; ++j) z2bar += (s.z0 - j) * (s.z0 - j) * t[j];
-        sum_cz2 += s.total_mol_per_l * z2bar / sum;
+    /// Net charge concentration (mol/L) at pH: strictly decreasing in pH.
+    double charge(double ph) const {
+        const double h = std::pow(10.0, -ph), inv_h = 1.0 / h;
+        double q = (h - p_.kw * inv_h) / g1_ + spectator_charge_;
+        std::array<double, max_steps + 1> t{};
+        for (size_t i = 0; i < p_.systems.size(); ++i) {
+            const auto& s = p_.systems[i];
+            if (s.total_mol_per_l <= 0) continue;
+            const double sum = distribution(i, inv_h, t);
+            double zbar = 0;
+            for (int j = 0; j <= s.steps; ++j) zbar += (s.z0 - j) * t[j];
+            q += s.total_mol_per_l * zbar / sum;
+        }
+        return q;
     }
-    return 0.5 * sum_cz2;
-}
+
+    /// Ionic strength (mol/L) of the solution at pH, ½ Σ c z².
+    double ionic_strength(double ph) const {
+        const double h = std::pow(10.0, -ph), inv_h = 1.0 / h;
+        double sum_cz2 = (h + p_.kw * inv_h) / g1_ + spectator_z2_;
+        std::array<double, max_steps + 1> t{};
+        for (size_t i = 0; i < p_.systems.size(); ++i) {
+            const auto& s = p_.systems[i];
+            if (s.total_mol_per_l <= 0) continue;
+            const double sum = distribution(i, inv_h, t);
+            double z2bar = 0;
+            for (int j = 0; j <= s.steps; ++j) z2bar += (s.z0 - j) * (s.z0 - j) * t[j];
+            sum_cz2 += s.total_mol_per_l * z2bar / sum;
+        }
+        return 0.5 * sum_cz2;
+    }
+
+private:
+    const Problem& p_;
+    std::vector<std::array<double, max_steps>>& kc_;
+    double g1_;
+    double spectator_charge_ = 0, spectator_z2_ = 0;
+};
 
 constexpr double ph_low = -3.0;  ///< bracket: [H+] ~ 1000 mol/L exceeds any allowed amount
 constexpr double ph_high = 17.0; ///< bracket: [OH-] ~ 1000 mol/L
 
 /// pH at fixed γ by TOMS 748 inside a bracket; the charge balance is strictly decreasing in pH,
-/// so the root is unique. A narrow bracket around a guess is tried first (fast re-solves).
-double solve_ph(const Problem& p, const Gammas& g, double guess) {
-    auto f = [&](double ph) { return charge_balance(p, g, ph); };
+/// so the root is unique. A bracket of ±half_width around a guess is tried first (fast re-solves
+/// inside the ionic-strength iteration and the recipe searches), then the full range.
+double solve_ph(const AtFixedGamma& balance, double guess, double half_width) {
+    auto f = [&](double ph) { return balance.charge(ph); };
     double lo = ph_low, hi = ph_high;
-    double flo, fhi;
+    double flo = 0, fhi = 0;
+    bool bracketed = false;
     if (std::isfinite(guess)) {
-        const double a = std::max(ph_low, guess - 0.05), b = std::min(ph_high, guess + 0.05);
-        const double fa = f(a), fb = f(b);
-        if (fa >= 0 && fb <= 0) {
-            lo = a; hi = b; flo = fa; fhi = fb;
-        } else {
-            flo = f(lo); fhi = f(hi);
+        const double a = std::max(ph_low, guess - half_width), b = std::min(ph_high, guess + half_width);
+        const double fa = f(a);
+        if (fa >= 0) {
+            const double fb = f(b);
+            if (fb <= 0) {
+                lo = a; hi = b; flo = fa; fhi = fb;
+                bracketed = true;
+            }
         }
-    } else {
-        flo = f(lo); fhi = f(hi);
+    }
+    if (!bracketed) {
+        flo = f(lo);
+        fhi = f(hi);
     }
     if (flo == 0) return lo;
     if (fhi == 0) return hi;
@@ -121,7 +156,7 @@ double solve_ph(const Problem& p, const Gammas& g, double guess) {
                                       format_number(ph_low) + " and " + format_number(ph_high));
     std::uintmax_t max_iter = 200;
     auto r = boost::math::tools::toms748_solve(f, lo, hi, flo, fhi,
-                                               boost::math::tools::eps_tolerance<double>(44),
+                                               boost::math::tools::eps_tolerance<double>(42),
                                                max_iter);
     return 0.5 * (r.first + r.second);
 }
@@ -198,25 +233,42 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     return p;
 }
 
-State solve_state(const Problem& p) {
-    // Outer fixed point on I: γ(I) -> pH (unique root at fixed γ) -> I(pH). The map is a weak
-    // contraction for dilute solutions; damping is switched on if it oscillates.
+State solve_state(const Problem& p, const State* guess) {
+    // Outer fixed point on I: I -> γ(I) -> pH (unique root at fixed γ) -> I(pH) =: G(I).
+    // G is smooth and contracting for the solutions modelled here; Steffensen's acceleration
+    // (Aitken's Δ² on two plain steps) makes it converge quadratically. A plain step is kept
+    // whenever the accelerated one would leave the physical range.
+    double ph = guess ? guess->ph : std::numeric_limits<double>::quiet_NaN();
     double ionic = 0;
-    for (const auto& ion : p.ions) ionic += 0.5 * ion.charge * ion.charge * ion.total_mol_per_l;
-    double ph = std::numeric_limits<double>::quiet_NaN();
-    double damping = 1.0;
-    double last_step = std::numeric_limits<double>::infinity();
-    for (int it = 1; it <= 200; ++it) {
-        const Gammas g(p.a_dh, ionic);
-        ph = solve_ph(p, g, ph);
-        const double next = ionic_strength_at(p, g, ph);
-        const double step = next - ionic;
-        if (std::abs(step) <= 1e-13 + 1e-11 * ionic) {
-            return State{ph, next, it};
+    if (guess) {
+        ionic = guess->ionic_strength_mol_per_l;
+    } else {
+        for (const auto& ion : p.ions) ionic += 0.5 * ion.charge * ion.charge * ion.total_mol_per_l;
+    }
+    double width = 0.05;
+    int evaluations = 0;
+    std::vector<std::array<double, max_steps>> kc;
+    auto step = [&](double i_in) {
+        const AtFixedGamma balance(p, Gammas(p.a_dh, i_in), kc);
+        const double new_ph = solve_ph(balance, ph, width);
+        if (std::isfinite(ph)) width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
+        ph = new_ph;
+        ++evaluations;
+        return balance.ionic_strength(ph);
+    };
+    auto converged = [](double a, double b) { return std::abs(a - b) <= 1e-14 + 1e-10 * std::abs(b); };
+    for (int cycle = 0; cycle < 100; ++cycle) {
+        const double i1 = step(ionic);
+        if (converged(i1, ionic)) return State{ph, i1, evaluations};
+        const double i2 = step(i1);
+        if (converged(i2, i1)) return State{ph, i2, evaluations};
+        const double d = i2 - 2 * i1 + ionic;
+        double next = i2;
+        if (std::abs(d) > 1e-300) {
+            const double accelerated = ionic - (i1 - ionic) * (i1 - ionic) / d;
+            if (std::isfinite(accelerated) && accelerated >= 0) next = accelerated;
         }
-        if (std::abs(step) > 0.9 * std::abs(last_step)) damping = std::max(0.1, damping * 0.5);
-        last_step = step;
-        ionic += damping * step;
+        ionic = next;
     }
     throw Error("components", "the ionic strength did not converge (last " +
                                   format_number(ionic) + " mol/L); the mixture is too concentrated "
@@ -230,12 +282,15 @@ Speciation report(const Problem& p, const State& st) {
     out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
     out.iterations = st.iterations;
     const Gammas g(p.a_dh, st.ionic_strength_mol_per_l);
+    std::vector<std::array<double, max_steps>> kc;
+    const AtFixedGamma balance(p, g, kc);
     const double h = std::pow(10.0, -st.ph);
     const double c_h = h / g(1), c_oh = p.kw / (h * g(1));
     double beta = c_h + c_oh;
     std::array<double, max_steps + 1> t{};
-    for (const auto& s : p.systems) {
-        const double sum = distribution(s, g, h, t);
+    for (size_t i = 0; i < p.systems.size(); ++i) {
+        const auto& s = p.systems[i];
+        const double sum = balance.distribution(i, 1.0 / h, t);
         double mean = 0, mean2 = 0;
         for (int j = 0; j <= s.steps; ++j) {
             const double alpha = t[j] / sum;
@@ -271,7 +326,7 @@ Speciation report(const Problem& p, const State& st) {
 
 Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c) {
     const detail::Problem p = detail::build_problem(lib, components, temperature_c);
-    return detail::report(p, detail::solve_state(p));
+    return detail::report(p, detail::solve_state(p, nullptr));
 }
 
 } // namespace chem

@@ -50,12 +50,13 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
 struct State {
     double ph = 7;
     double ionic_strength_mol_per_l = 0;
-    int iterations = 0;
+    int iterations = 0; ///< pH solves used (each at fixed activity coefficients)
 };
 
-/// Solves charge balance and ionic strength self-consistently. Throws chem::Error("components", …)
-/// if the ionic-strength iteration does not converge (it never returns NaN).
-State solve_state(const Problem& p);
+/// Solves charge balance and ionic strength self-consistently, starting from `guess` when given
+/// (a nearby solution: the recipe searches re-solve with slightly changed amounts).
+/// Throws chem::Error("components", …) if the iteration does not converge (never returns NaN).
+State solve_state(const Problem& p, const State* guess = nullptr);
 
 /// Full report: species, β, warnings.
 Speciation report(const Problem& p, const State& s);

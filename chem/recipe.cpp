@@ -78,7 +78,7 @@ double root_between(const std::function<double(double)>& g, double lo, double hi
     if (ghi == 0) return hi;
     std::uintmax_t iters = 200;
     auto r = boost::math::tools::toms748_solve(g, lo, hi, glo, ghi,
-                                               boost::math::tools::eps_tolerance<double>(46), iters);
+                                               boost::math::tools::eps_tolerance<double>(34), iters);
     return 0.5 * (r.first + r.second);
 }
 
@@ -112,16 +112,19 @@ void validate_common(const RecipeRequest& req) {
 }
 
 /// Two-component problem whose amounts vary: component 0 and 1.
+/// Each solve starts from the previous solution: the searches move the amounts a little at a time.
 struct Pair {
     detail::Problem problem;
-    double ph(double c0, double c1) {
-        problem.set_amounts({c0, c1});
-        return detail::solve_state(problem).ph;
-    }
+    std::optional<detail::State> last;
+    std::vector<double> amounts = std::vector<double>(2);
     detail::State state(double c0, double c1) {
-        problem.set_amounts({c0, c1});
-        return detail::solve_state(problem);
+        amounts[0] = c0;
+        amounts[1] = c1;
+        problem.set_amounts(amounts);
+        last = detail::solve_state(problem, last ? &*last : nullptr);
+        return *last;
     }
+    double ph(double c0, double c1) { return state(c0, c1).ph; }
 };
 
 std::string ph_text(double ph) { return "pH " + fixed(ph, 2); }
@@ -207,9 +210,11 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
         return root_between(g, 0.0, 1.0, ph0 - req.target_ph, ph1 - req.target_ph);
     };
     double total;
+    std::optional<double> x;
     if (req.concentration_mol_per_l) {
         total = *req.concentration_mol_per_l;
-        if (!reach(total)) {
+        x = reach(total);
+        if (!x) {
             auto [a0, b0] = amounts(total, 0.0);
             auto [a1, b1] = amounts(total, 1.0);
             throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by mixing " +
@@ -229,8 +234,8 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
             },
             *req.ionic_strength_mol_per_l, c_max);
     }
-    const double x = *reach(total);
-    std::tie(d.c_acid, d.c_base) = amounts(total, x);
+    if (!x) x = reach(total);
+    std::tie(d.c_acid, d.c_base) = amounts(total, *x);
     return d;
 }
 
@@ -335,7 +340,7 @@ std::vector<std::string> cautions_for(const Library& lib, const std::vector<cons
         out.push_back("Corrosive reagents: wear chemical-resistant gloves, eye protection and a lab "
                       "coat; add acid or base to water slowly, never water to it.");
     if (fumes)
-        out.push_back("Volatile corrosive or irritant liquids: open and measure them in a fume hood.");
+        out.push_back("Concentrated corrosive or irritant liquids: open and measure them in a fume hood.");
     if (flammable) out.push_back("Flammable reagents: keep away from heat, sparks and open flames.");
     out.push_back("Read the safety data sheet of every reagent before use and follow your "
                   "laboratory's rules and licensed practice; these notes do not replace them.");

@@ -52,6 +52,7 @@ QJsonObject speciation_to_json(const chem::Speciation& s) {
                        {"ionic_strength_mol_per_l", s.ionic_strength_mol_per_l},
                        {"buffer_capacity_mol_per_l", s.buffer_capacity_mol_per_l},
                        {"species", species},
+                       {"solver_iterations", s.iterations},
                        {"warnings", warnings_to_json(s.warnings)}};
 }
 

@@ -1,0 +1,74 @@
+// Speed of the chemistry core (targets on one core: solve <= 5 µs, recipe <= 50 µs).
+//   build/tests/bench/bench_chem --benchmark_repetitions=5 --benchmark_report_aggregates_only=true
+#include "chem/equilibrium.h"
+#include "chem/recipe.h"
+#include "core/app_data.h"
+
+#include <benchmark/benchmark.h>
+
+namespace {
+
+const phaseplan::AppData& data() {
+    static const phaseplan::AppData d = phaseplan::load_app_data(SOURCE_DIR "/data");
+    return d;
+}
+
+void BM_SolveThreeSystems(benchmark::State& state) {
+    const auto& lib = data().reagents;
+    // Ammonium acetate + sodium dihydrogen phosphate + tris: four acid-base systems, three reagents.
+    const std::vector<chem::Component> mix = {{&lib.reagent("ammonium-acetate"), 0.01},
+                                              {&lib.reagent("sodium-dihydrogen-phosphate"), 0.02},
+                                              {&lib.reagent("tris"), 0.015}};
+    for (auto _ : state) benchmark::DoNotOptimize(chem::solve(lib, mix, 30.0));
+}
+BENCHMARK(BM_SolveThreeSystems)->Unit(benchmark::kMicrosecond);
+
+void BM_SolvePhosphateReference(benchmark::State& state) {
+    const auto& lib = data().reagents;
+    const std::vector<chem::Component> mix = {{&lib.reagent("potassium-dihydrogen-phosphate"), 0.025},
+                                              {&lib.reagent("disodium-hydrogen-phosphate"), 0.025}};
+    for (auto _ : state) benchmark::DoNotOptimize(chem::solve(lib, mix, 25.0));
+}
+BENCHMARK(BM_SolvePhosphateReference)->Unit(benchmark::kMicrosecond);
+
+chem::RecipeRequest mix_request() {
+    chem::RecipeRequest r;
+    r.target_ph = 2.5;
+    r.temperature_c = 22;
+    r.volume_ml = 2000;
+    r.route = chem::Route::mix;
+    r.acid = "phosphoric-acid";
+    r.base = "sodium-dihydrogen-phosphate-monohydrate";
+    r.concentration_mol_per_l = 0.02;
+    return r;
+}
+
+void BM_RecipeMixAtConcentration(benchmark::State& state) {
+    const auto req = mix_request();
+    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
+}
+BENCHMARK(BM_RecipeMixAtConcentration)->Unit(benchmark::kMicrosecond);
+
+void BM_RecipeTitrate(benchmark::State& state) {
+    chem::RecipeRequest r;
+    r.target_ph = 8.0;
+    r.route = chem::Route::titrate;
+    r.weigh = "tris";
+    r.titrant = "hydrochloric-acid";
+    r.titrant_mol_per_l = 1.0;
+    r.concentration_mol_per_l = 0.05;
+    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
+}
+BENCHMARK(BM_RecipeTitrate)->Unit(benchmark::kMicrosecond);
+
+void BM_RecipeMixAtIonicStrength(benchmark::State& state) {
+    auto req = mix_request();
+    req.concentration_mol_per_l.reset();
+    req.ionic_strength_mol_per_l = 0.05;
+    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
+}
+BENCHMARK(BM_RecipeMixAtIonicStrength)->Unit(benchmark::kMicrosecond);
+
+} // namespace
+
+BENCHMARK_MAIN();
