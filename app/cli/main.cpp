@@ -4,6 +4,7 @@
 #include "core/app_data.h"
 #include "core/commands.h"
 #include "core/json_util.h"
+#include "core/line_commands.h"
 
 #include <QCoreApplication>
 #include <QFile>
@@ -38,6 +39,8 @@ const std::map<std::string, Entry>& command_table() {
         {"solve", {phaseplan::command_solve, "speciation, pH, ionic strength of a mixture"}},
         {"recipe", {phaseplan::command_recipe, "amounts to weigh or pipette for a target pH"}},
         {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
+        {"line", {phaseplan::command_line, "a mobile-phase line's parts for a bottle volume"}},
+        {"sequence", {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
 #ifdef PHASEPLAN_WITH_PRINT
         {"sheet", {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
         {"labels", {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},

@@ -3,6 +3,7 @@
 #include "chem/error.h"
 #include "chem/formula.h"
 #include "core/json_util.h"
+#include "core/solvent_data.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -153,6 +154,7 @@ AppData load_app_data(const QString& dir) {
     AppData d;
     d.data_dir = dir;
     load_reagents_json(read_file(dir + "/reagents.json"), "reagents.json", d.reagents);
+    load_solvents_json(read_file(dir + "/solvents.json"), "solvents.json", d.solvents);
     return d;
 }
 

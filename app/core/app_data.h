@@ -1,6 +1,7 @@
 #pragma once
 // The shipped reference data, loaded once at start from data/ (JSON, diff-friendly).
 #include "chem/reagent.h"
+#include "chem/solvent.h"
 
 #include <QJsonObject>
 #include <QString>
@@ -12,6 +13,7 @@ namespace phaseplan {
 struct AppData {
     QString data_dir;        ///< where it was loaded from
     chem::Library reagents;  ///< data/reagents.json
+    chem::SolventLibrary solvents; ///< data/solvents.json
 };
 
 /// The data folder: $PHASEPLAN_DATA_DIR if set, else <executable dir>/data, else

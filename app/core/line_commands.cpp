@@ -1,0 +1,646 @@
+#include "core/line_commands.h"
+
+#include "chem/error.h"
+#include "core/chem_json.h"
+#include "core/json_util.h"
+
+#include <QJsonDocument>
+#include <QTimeZone>
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+namespace phaseplan {
+
+namespace {
+
+QString qs(const std::string& s) { return QString::fromStdString(s); }
+
+QJsonValue opt(const std::optional<double>& v) { return v ? QJsonValue(*v) : QJsonValue(QJsonValue::Null); }
+
+QJsonArray strings(const std::vector<std::string>& v) {
+    QJsonArray a;
+    for (const auto& s : v) a.append(qs(s));
+    return a;
+}
+
+QJsonObject per_line(const chem::LineValues& v, const std::array<bool, chem::max_lines>& defined) {
+    QJsonObject o;
+    for (int l = 0; l < chem::max_lines; ++l)
+        if (defined[l]) o[QString(QChar(chem::line_letter(l)))] = v[l];
+    return o;
+}
+
+/// Wraps a chem error of a nested document (fields relative to it) with the document's path.
+[[noreturn]] void rethrow_within(const chem::Error& e, const std::string& root) {
+    if (root.empty()) throw e;
+    throw e.within(root);
+}
+
+std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const std::string& root) {
+    if (!doc.contains("detector") || doc.value("detector").isNull()) return std::nullopt;
+    const std::string at = json::path(root, "detector");
+    const QJsonObject o = json::require_object(doc, "detector", root);
+    chem::Detector d;
+    d.type = json::require_string(o, "type", at);
+    std::transform(d.type.begin(), d.type.end(), d.type.begin(), [](unsigned char ch) { return std::tolower(ch); });
+    const auto& types = chem::detector_types();
+    if (std::find(types.begin(), types.end(), d.type) == types.end()) {
+        std::string known;
+        for (const auto& t : types) known += (known.empty() ? "" : ", ") + t;
+        throw chem::Error(json::path(at, "type"), "\"" + d.type + "\" is not a detector type (" + known + ")");
+    }
+    if (chem::detector_reads_uv(d.type)) {
+        const double wl = json::require_number(o, "wavelength_nm", at);
+        if (wl < 180 || wl > 900)
+            throw chem::Error(json::path(at, "wavelength_nm"), chem::format_number(wl) + " nm is outside 180 to 900 nm");
+        d.wavelength_nm = wl;
+    }
+    if (auto m = json::optional_number(o, "margin_nm", at)) {
+        if (*m < 0 || *m > 100)
+            throw chem::Error(json::path(at, "margin_nm"), chem::format_number(*m) + " nm is outside 0 to 100 nm");
+        d.margin_nm = *m;
+    }
+    return d;
+}
+
+std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc, const std::string& root) {
+    if (!doc.contains("column") || doc.value("column").isNull()) return std::nullopt;
+    const std::string at = json::path(root, "column");
+    const QJsonObject o = json::require_object(doc, "column", root);
+    chem::ColumnLimits c;
+    c.ph_min = json::require_number(o, "ph_min", at);
+    c.ph_max = json::require_number(o, "ph_max", at);
+    for (auto [key, v] : {std::pair{"ph_min", c.ph_min}, std::pair{"ph_max", c.ph_max}})
+        if (v < 0 || v > 14) throw chem::Error(json::path(at, key), chem::format_number(v) + " is outside pH 0 to 14");
+    if (c.ph_min >= c.ph_max)
+        throw chem::Error(json::path(at, "ph_max"), chem::format_number(c.ph_max) + " is not above ph_min " +
+                                                         chem::format_number(c.ph_min));
+    return c;
+}
+
+QJsonObject solvent_properties(const chem::Solvent& s) {
+    QJsonObject src;
+    for (const auto& [k, v] : s.sources) src[qs(k)] = qs(v);
+    return QJsonObject{{"solvent", qs(s.id)},
+                       {"name", qs(s.name)},
+                       {"density_g_per_ml", s.density_g_per_ml},
+                       {"density_temperature_c", s.density_temperature_c},
+                       {"viscosity_mpa_s", s.viscosity_mpa_s},
+                       {"viscosity_temperature_c", s.viscosity_temperature_c},
+                       {"uv_cutoff_nm", s.uv_cutoff_nm},
+                       {"boiling_point_c", s.boiling_point_c},
+                       {"flash_point_c", opt(s.flash_point_c)},
+                       {"ghs_hazards", strings(s.ghs_hazards)},
+                       {"ghs_pictograms", strings(s.ghs_pictograms)},
+                       {"sources", src}};
+}
+
+QJsonObject profile_to_json(const chem::LineProfile& p) {
+    QJsonObject solvents;
+    for (const auto& [id, f] : p.solvent_fraction_v) solvents[qs(id)] = f;
+    QJsonArray solutes;
+    for (const auto& s : p.solutes)
+        solutes.append(QJsonObject{{"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+    return QJsonObject{{"aqueous_fraction_v", p.aqueous_fraction_v},
+                       {"organic_fraction_v", p.organic_fraction_v},
+                       {"solvents", solvents},
+                       {"solutes", solutes},
+                       {"uv_cutoff_nm", p.uv_cutoff_nm},
+                       {"uv_limited_by", qs(p.uv_limited_by)},
+                       {"ph", opt(p.ph)},
+                       {"ph_basis", qs(p.ph_basis)},
+                       {"nonvolatile", strings(p.nonvolatile)},
+                       {"shelf_kind", qs(p.shelf_kind)},
+                       {"shelf_life_h", p.shelf_life_h}};
+}
+
+/// The parts and additives without buffer volumes: equal for lines made from one batch.
+QString recipe_key_of(const QJsonObject& line, const std::string& name) {
+    if (!line.contains("parts")) return QStringLiteral("name:") + qs(name);
+    QJsonArray parts = line.value("parts").toArray();
+    for (int i = 0; i < parts.size(); ++i) {
+        QJsonObject p = parts.at(i).toObject();
+        if (p.contains("buffer")) {
+            QJsonObject b = p.value("buffer").toObject();
+            b.remove("volume_ml");
+            p["buffer"] = b;
+        }
+        parts[i] = p;
+    }
+    const QJsonObject key{{"parts", parts}, {"additives", line.value("additives")}};
+    return QString::fromUtf8(QJsonDocument(key).toJson(QJsonDocument::Compact));
+}
+
+} // namespace
+
+QString Clock::iso(double minutes) const {
+    const QDateTime t = start.addMSecs(static_cast<qint64>(std::llround(minutes * 60000.0)));
+    return has_offset ? t.toString(Qt::ISODate) : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"));
+}
+
+std::string Clock::text(double minutes) const {
+    const QDateTime t = start.addMSecs(static_cast<qint64>(std::llround(minutes * 60000.0)));
+    return t.toString(QStringLiteral("yyyy-MM-dd HH:mm")).toStdString();
+}
+
+QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent, bool* has_offset) {
+    const std::string s = json::require_string(o, key, parent);
+    QDateTime t = QDateTime::fromString(qs(s), Qt::ISODate);
+    if (!t.isValid())
+        throw chem::Error(json::path(parent, key), "\"" + s + "\" is not an ISO date and time (like 2026-12-01T18:00:00)");
+    const bool offset = t.timeSpec() != Qt::LocalTime;
+    if (has_offset) *has_offset = offset;
+    // Wall-clock arithmetic: no daylight-saving jumps in the middle of a night's sequence.
+    if (!offset) t = QDateTime(t.date(), t.time(), QTimeZone::utc());
+    return t;
+}
+
+ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path, double volume_ml,
+                          bool bottle_required, std::vector<chem::Warning>* notes) {
+    ParsedLine pl;
+    pl.spec.field = path;
+    const std::string fallback_name = path.empty() ? "line" : path.substr(path.rfind('.') + 1);
+    pl.spec.name = json::optional_string(o, "name", path).value_or(fallback_name);
+    if (bottle_required) {
+        pl.bottle_ml = json::require_number(o, "bottle_ml", path);
+        pl.residue_ml = json::optional_number(o, "residue_ml", path).value_or(0.0);
+        if (volume_ml <= 0) volume_ml = pl.bottle_ml;
+    } else {
+        pl.bottle_ml = json::optional_number(o, "bottle_ml", path).value_or(0.0);
+        pl.residue_ml = json::optional_number(o, "residue_ml", path).value_or(0.0);
+    }
+    if (o.contains("parts")) {
+        const std::string list = json::path(path, "parts");
+        const QJsonArray parts = json::require_array(o, "parts", path);
+        if (parts.isEmpty()) throw chem::Error(list, "needs at least one part");
+        for (int i = 0; i < parts.size(); ++i) {
+            const std::string at = json::path(list, i);
+            const QJsonObject po = json::element_object(parts, i, list);
+            const bool has_solvent = po.contains("solvent"), has_buffer = po.contains("buffer");
+            if (has_solvent == has_buffer) throw chem::Error(at, "give either \"solvent\" or \"buffer\", not both or neither");
+            chem::LinePart part;
+            part.fraction_v = json::require_number(po, "fraction_v", at);
+            if (part.fraction_v <= 0 || part.fraction_v > 1)
+                throw chem::Error(json::path(at, "fraction_v"), chem::format_number(part.fraction_v) + " is outside (0, 1]");
+            if (has_solvent) {
+                part.solvent = json::require_string(po, "solvent", at);
+                data.solvents.solvent(part.solvent, json::path(at, "solvent"));
+            } else {
+                const std::string bat = json::path(at, "buffer");
+                QJsonObject b = json::require_object(po, "buffer", at);
+                const double needed = std::max(1.0, volume_ml) * part.fraction_v;
+                if (!b.contains("volume_ml")) b["volume_ml"] = needed;
+                chem::RecipeRequest req = recipe_request_from_json(data.reagents, b, bat);
+                if (req.volume_ml < needed * (1 - 1e-9)) {
+                    if (notes)
+                        notes->push_back({"buffer-scaled", chem::Warning::Severity::info,
+                                          "The buffer of " + pl.spec.name + " was designed for " +
+                                              chem::format_number(std::ceil(needed)) + " mL instead of " +
+                                              chem::format_number(req.volume_ml) + " mL: the part needs that much."});
+                    req.volume_ml = needed;
+                }
+                try {
+                    part.buffer = chem::design_recipe(data.reagents, req);
+                } catch (const chem::Error& e) {
+                    rethrow_within(e, bat);
+                }
+            }
+            pl.spec.parts.push_back(std::move(part));
+        }
+    }
+    if (o.contains("additives")) {
+        const std::string list = json::path(path, "additives");
+        const QJsonArray adds = json::require_array(o, "additives", path);
+        for (int i = 0; i < adds.size(); ++i) {
+            const std::string at = json::path(list, i);
+            const QJsonObject ao = json::element_object(adds, i, list);
+            chem::LineAdditive a;
+            a.additive = json::require_string(ao, "additive", at);
+            int given = 0;
+            for (auto [key, unit] : {std::pair{"percent_v", chem::AmountUnit::percent_v},
+                                     std::pair{"percent_w", chem::AmountUnit::percent_w},
+                                     std::pair{"mmol_per_l", chem::AmountUnit::mmol_per_l}})
+                if (ao.contains(key)) {
+                    ++given;
+                    a.unit = unit;
+                    a.amount = json::require_number(ao, key, at);
+                }
+            if (given != 1) throw chem::Error(at, "give exactly one of percent_v, percent_w, mmol_per_l");
+            pl.spec.additives.push_back(a);
+        }
+    }
+    if (o.contains("prepared_at") && !o.value("prepared_at").isNull())
+        pl.prepared_at = datetime_from_json(o, "prepared_at", path, nullptr);
+    if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365)) pl.spec.shelf_life_h = *h;
+    pl.recipe_key = recipe_key_of(o, pl.spec.name);
+    return pl;
+}
+
+QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock) {
+    QJsonObject o = warning_to_json(w);
+    if (!w.line.empty()) o["line"] = qs(w.line);
+    for (const auto& [k, v] : w.numbers) {
+        o[qs(k)] = v;
+        const std::string suffix = "_at_min";
+        if (clock && k.size() > suffix.size() && k.compare(k.size() - suffix.size(), suffix.size(), suffix) == 0)
+            o[qs(k.substr(0, k.size() - 4))] = clock->iso(v);
+    }
+    for (const auto& [k, v] : w.texts)
+        if (!o.contains(qs(k))) o[qs(k)] = qs(v);
+    return o;
+}
+
+// ---------------------------------------------------------------------------------------------
+// line
+
+QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+    const double volume = json::require_positive(input, "volume_ml", "", 1.0e6);
+    std::vector<chem::Warning> notes;
+    const ParsedLine pl = line_from_json(data, input, "", volume, false, &notes);
+    if (pl.spec.parts.empty()) throw chem::Error("parts", "is required for a line recipe");
+    const auto detector = detector_from_json(input, "");
+    const auto column = column_from_json(input, "");
+    const chem::LineRecipe r = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
+
+    QJsonArray items;
+    for (const auto& it : r.items) {
+        QJsonObject o{{"part", qs(it.part)},
+                      {"kind", qs(it.kind)},
+                      {"volume_ml", opt(it.volume_ml)},
+                      {"mass_g", opt(it.mass_g)}};
+        if (it.kind != "additive") o["fraction_v"] = it.fraction_v;
+        if (it.density_g_per_ml > 0) o["density_g_per_ml"] = it.density_g_per_ml;
+        if (it.density_g_per_ml > 0 && it.kind != "additive") o["density_temperature_c"] = it.density_temperature_c;
+        o["density_basis"] = qs(it.density_basis);
+        items.append(o);
+    }
+    QJsonArray props;
+    for (const auto& part : pl.spec.parts)
+        if (!part.buffer) props.append(solvent_properties(data.solvents.solvent(part.solvent)));
+
+    QJsonArray warnings;
+    for (const auto& w : notes) warnings.append(warning_to_json(w));
+    if (r.buffer)
+        for (const auto& w : r.buffer->warnings) warnings.append(warning_to_json(w));
+    for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column))
+        warnings.append(check_warning_to_json(w, nullptr));
+
+    QJsonObject out{{"name", qs(pl.spec.name)},
+                    {"volume_ml", volume},
+                    {"items", items},
+                    {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
+                    {"uv_limited_by", qs(r.profile.uv_limited_by)},
+                    {"ph", opt(r.profile.ph)},
+                    {"ph_basis", qs(r.profile.ph_basis)},
+                    {"mixed_volume_ml", r.mixed_volume_ml},
+                    {"contraction_ml", r.contraction_ml},
+                    {"contraction_sources", strings(r.contraction_sources)},
+                    {"composition", profile_to_json(r.profile)},
+                    {"solvents", props},
+                    {"shelf_life", QJsonObject{{"kind", qs(r.profile.shelf_kind)},
+                                               {"hours", r.profile.shelf_life_h},
+                                               {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
+                                                          : data.solvents.shelf_life(r.profile.shelf_kind)
+                                                              ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
+                                                              : QString()}}},
+                    {"steps", strings(r.steps)},
+                    {"notes", strings(r.notes)},
+                    {"cautions", strings(r.cautions)},
+                    {"warnings", warnings}};
+    if (r.buffer) out["buffer"] = recipe_to_json(*r.buffer);
+    return out;
+}
+
+// ---------------------------------------------------------------------------------------------
+// sequence
+
+namespace {
+
+struct BatchUse {
+    QString key;
+    QString name;
+    QString label;        ///< "A" or "plans[1].A"
+    double required_ml = 0;
+    double prepare_ml = 0;  ///< this bottle's min_bottle_ml
+    QDateTime first_use, last_use;
+    double shelf_life_h = 0;
+    QString shelf_kind;
+};
+
+struct PlanResult {
+    QJsonObject out;
+    std::vector<BatchUse> uses;
+};
+
+PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root) {
+    auto P = [&](const char* key) { return json::path(root, key); };
+    chem::SequenceInput in;
+    Clock clock;
+    clock.start = datetime_from_json(doc, "start", root, &clock.has_offset);
+
+    // lines
+    const QJsonObject lines = json::require_object(doc, "lines", root);
+    if (lines.isEmpty()) throw chem::Error(P("lines"), "no line defined (give at least one of A, B, C, D)");
+    std::array<std::optional<ParsedLine>, chem::max_lines> parsed;
+    std::array<bool, chem::max_lines> defined{};
+    std::vector<chem::Warning> notes;
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        const std::string lpath = json::path(P("lines"), it.key());
+        const int l = chem::line_index(it.key().toStdString());
+        if (l < 0) throw chem::Error(lpath, "is not a line name (A, B, C or D)");
+        const QJsonObject lo = json::require_object(lines, it.key(), P("lines"));
+        parsed[l] = line_from_json(data, lo, lpath, -1, true, &notes);
+        defined[l] = true;
+        chem::BottleSpec b;
+        b.name = parsed[l]->spec.name;
+        b.bottle_ml = parsed[l]->bottle_ml;
+        b.residue_ml = parsed[l]->residue_ml;
+        in.lines[l] = b;
+    }
+    if (doc.contains("prime_ml")) {
+        const QJsonObject prime = json::require_object(doc, "prime_ml", root);
+        for (auto it = prime.begin(); it != prime.end(); ++it) {
+            const int l = chem::line_index(it.key().toStdString());
+            const std::string at = json::path(P("prime_ml"), it.key());
+            if (l < 0 || !defined[l]) throw chem::Error(at, "line " + it.key().toStdString() + " is not defined in lines");
+            in.lines[l]->prime_ml = json::require_number(prime, it.key(), P("prime_ml"));
+        }
+    }
+
+    // methods
+    const QJsonObject methods = json::require_object(doc, "methods", root);
+    if (methods.isEmpty()) throw chem::Error(P("methods"), "no method defined");
+    for (auto it = methods.begin(); it != methods.end(); ++it) {
+        const std::string mpath = json::path(P("methods"), it.key());
+        const QJsonObject mo = json::require_object(methods, it.key(), P("methods"));
+        chem::Method m;
+        m.name = it.key().toStdString();
+        m.flow_ml_min = json::require_number(mo, "flow_ml_min", mpath);
+        const QJsonArray g = json::require_array(mo, "gradient", mpath);
+        const std::string gpath = json::path(mpath, "gradient");
+        for (int i = 0; i < g.size(); ++i) {
+            const std::string rpath = json::path(gpath, i);
+            const QJsonObject ro = json::element_object(g, i, gpath);
+            chem::GradientRow row;
+            row.t_min = json::require_number(ro, "t_min", rpath);
+            for (auto k = ro.begin(); k != ro.end(); ++k) {
+                if (k.key() == QLatin1String("t_min")) continue;
+                const int l = chem::line_index(k.key().toStdString());
+                if (l < 0) throw chem::Error(json::path(rpath, k.key()), "is neither t_min nor a line (A, B, C, D)");
+                row.percent[l] = json::require_number(ro, k.key(), rpath);
+            }
+            m.gradient.push_back(row);
+        }
+        m.run_min = json::require_number(mo, "run_min", mpath);
+        m.equilibration_min = json::optional_number(mo, "equilibration_min", mpath).value_or(0.0);
+        in.methods.push_back(std::move(m));
+    }
+
+    // sequence rows
+    const QJsonArray rows = json::require_array(doc, "sequence", root);
+    const std::string spath = P("sequence");
+    for (int i = 0; i < rows.size(); ++i) {
+        const std::string at = json::path(spath, i);
+        const QJsonObject ro = json::element_object(rows, i, spath);
+        chem::SequenceRow r;
+        r.method = json::require_string(ro, "method", at);
+        r.injections = json::require_int(ro, "injections", at, 1, 1000000);
+        r.label = json::optional_string(ro, "label", at).value_or("");
+        in.rows.push_back(std::move(r));
+    }
+    in.waste_capacity_ml = json::optional_number(doc, "waste_ml", root);
+    in.safety_margin_fraction = json::optional_number(doc, "safety_margin", root).value_or(0.10);
+    const auto detector = detector_from_json(doc, root);
+    const auto column = column_from_json(doc, root);
+
+    std::optional<QDateTime> standby_until;
+    if (doc.contains("standby") && !doc.value("standby").isNull()) {
+        const std::string at = P("standby");
+        const QJsonObject so = json::require_object(doc, "standby", root);
+        chem::Standby sb;
+        sb.flow_ml_min = json::require_number(so, "flow_ml_min", at);
+        const bool has_d = so.contains("duration_min"), has_u = so.contains("until");
+        if (has_d == has_u) throw chem::Error(at, "give either duration_min or until");
+        if (has_d) sb.duration_min = json::require_number(so, "duration_min", at);
+        else standby_until = datetime_from_json(so, "until", at, nullptr);
+        chem::LineValues p{};
+        bool any = false;
+        for (auto k = so.begin(); k != so.end(); ++k) {
+            const int l = chem::line_index(k.key().toStdString());
+            if (l < 0) continue;
+            p[l] = json::require_number(so, k.key(), at);
+            any = true;
+        }
+        if (any) sb.percent = p;
+        in.standby = sb;
+    }
+
+    // profiles (validates parts and additives), then the plan
+    std::array<chem::LineProfile, chem::max_lines> profiles;
+    chem::SequenceCheckInput c;
+    for (int l = 0; l < chem::max_lines; ++l) {
+        if (!parsed[l]) continue;
+        profiles[l] = chem::profile_line(data.solvents, data.reagents, parsed[l]->spec);
+        if (profiles[l].described) c.profiles[l] = &profiles[l];
+        c.names[l] = parsed[l]->spec.name;
+        if (parsed[l]->prepared_at) c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
+    }
+    chem::SequencePlan plan;
+    try {
+        if (standby_until) {
+            // The standby runs from the end of the last injection until the given time.
+            auto probe = in;
+            probe.standby.reset();
+            const double end = chem::plan_sequence(probe).total_min;
+            in.standby->duration_min = std::max(0.0, clock.start.msecsTo(*standby_until) / 60000.0 - end);
+        }
+        plan = chem::plan_sequence(in);
+    } catch (const chem::Error& e) {
+        rethrow_within(e, root);
+    }
+    c.solvents = &data.solvents;
+    c.input = &in;
+    c.plan = &plan;
+    c.detector = detector;
+    c.column = column;
+    c.clock = [&clock](double m) { return clock.text(m); };
+    const auto checks = chem::check_sequence(c);
+
+    // output
+    PlanResult res;
+    QJsonObject lines_out;
+    for (int l = 0; l < chem::max_lines; ++l) {
+        if (!defined[l]) continue;
+        const chem::LinePlan& lp = plan.lines[l];
+        QJsonObject o{{"name", qs(parsed[l]->spec.name)},
+                      {"required_ml", lp.required_ml},
+                      {"usable_ml", lp.usable_ml},
+                      {"runs_dry", lp.runs_dry},
+                      {"dry_after_injection", lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
+                      {"dry_at", lp.dry_at_min ? QJsonValue(clock.iso(*lp.dry_at_min)) : QJsonValue()},
+                      {"dry_at_min", opt(lp.dry_at_min)},
+                      {"dry_during", lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
+                      {"bottle_ml", in.lines[l]->bottle_ml},
+                      {"residue_ml", in.lines[l]->residue_ml},
+                      {"prime_ml", lp.prime_ml},
+                      {"pumped_ml", lp.pumped_ml},
+                      {"spare_ml", lp.spare_ml},
+                      {"min_bottle_ml", lp.min_bottle_ml},
+                      {"suggested_bottle_ml", lp.suggested_bottle_ml > 0 ? QJsonValue(lp.suggested_bottle_ml) : QJsonValue()}};
+        if (c.profiles[l]) {
+            o["uv_cutoff_nm"] = profiles[l].uv_cutoff_nm;
+            o["ph"] = opt(profiles[l].ph);
+            o["shelf_kind"] = qs(profiles[l].shelf_kind);
+            o["shelf_life_h"] = profiles[l].shelf_life_h;
+        }
+        lines_out[QString(QChar(chem::line_letter(l)))] = o;
+
+        BatchUse u;
+        u.key = parsed[l]->recipe_key;
+        u.name = qs(parsed[l]->spec.name);
+        u.label = root.empty() ? QString(QChar(chem::line_letter(l))) : qs(root) + "." + QChar(chem::line_letter(l));
+        u.required_ml = lp.required_ml;
+        u.prepare_ml = lp.min_bottle_ml;
+        u.first_use = clock.start;
+        u.last_use = clock.start.addMSecs(static_cast<qint64>(std::llround(plan.total_min * 60000.0)));
+        u.shelf_life_h = c.profiles[l] ? profiles[l].shelf_life_h : 0;
+        u.shelf_kind = c.profiles[l] ? qs(profiles[l].shelf_kind) : QString();
+        res.uses.push_back(u);
+    }
+    QJsonObject methods_out;
+    for (std::size_t i = 0; i < plan.methods.size(); ++i) {
+        const auto& mp = plan.methods[i];
+        methods_out[qs(mp.name)] = QJsonObject{{"flow_ml_min", in.methods[i].flow_ml_min},
+                                               {"injection_min", mp.injection_min},
+                                               {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
+                                               {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+    }
+    QJsonArray rows_out;
+    for (std::size_t i = 0; i < plan.rows.size(); ++i) {
+        const auto& rp = plan.rows[i];
+        rows_out.append(QJsonObject{{"method", qs(in.rows[i].method)},
+                                    {"label", qs(in.rows[i].label)},
+                                    {"injections", rp.injections},
+                                    {"first_injection", rp.first_injection},
+                                    {"last_injection", rp.first_injection + rp.injections - 1},
+                                    {"start", clock.iso(rp.start_min)},
+                                    {"end", clock.iso(rp.end_min)},
+                                    {"volume_ml", per_line(rp.volume_ml, defined)}});
+    }
+    QJsonArray warnings;
+    for (const auto& w : notes) warnings.append(warning_to_json(w));
+    for (int l = 0; l < chem::max_lines; ++l)
+        if (parsed[l])
+            for (const auto& part : parsed[l]->spec.parts)
+                if (part.buffer)
+                    for (const auto& w : part.buffer->warnings) {
+                        QJsonObject o = warning_to_json(w);
+                        o["line"] = QString(QChar(chem::line_letter(l)));
+                        warnings.append(o);
+                    }
+    for (const auto& w : checks) warnings.append(check_warning_to_json(w, &clock));
+
+    QJsonObject out{{"start", clock.iso(0)},
+                    {"end", clock.iso(plan.total_min)},
+                    {"total_min", plan.total_min},
+                    {"injections", plan.injections},
+                    {"lines", lines_out},
+                    {"waste_ml", plan.waste_ml},
+                    {"pumped_ml", plan.pumped_ml},
+                    {"prime_ml", plan.prime_ml},
+                    {"standby_min", plan.standby_min},
+                    {"standby_end", clock.iso(plan.total_min + plan.standby_min)},
+                    {"methods", methods_out},
+                    {"rows", rows_out},
+                    {"warnings", warnings}};
+    if (in.waste_capacity_ml) out["waste_capacity_ml"] = *in.waste_capacity_ml;
+    res.out = out;
+    return res;
+}
+
+/// Sums the lines that share a recipe; warns when one batch would outlive its shelf life.
+QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
+    std::vector<QString> order;
+    std::map<QString, std::vector<const BatchUse*>> by_key;
+    for (const auto& u : uses) {
+        if (!by_key.count(u.key)) order.push_back(u.key);
+        by_key[u.key].push_back(&u);
+    }
+    QJsonArray out;
+    for (const QString& key : order) {
+        const auto& list = by_key[key];
+        double required = 0, prepare = 0;
+        QDateTime first = list.front()->first_use, last = list.front()->last_use;
+        QJsonArray labels;
+        for (const BatchUse* u : list) {
+            required += u->required_ml;
+            prepare += u->prepare_ml;
+            first = std::min(first, u->first_use);
+            last = std::max(last, u->last_use);
+            labels.append(u->label);
+        }
+        double suggested = 0;
+        for (double s : chem::common_bottle_sizes_ml())
+            if (s >= prepare) {
+                suggested = s;
+                break;
+            }
+        const double span_h = first.msecsTo(last) / 3.6e6;
+        const double shelf = list.front()->shelf_life_h;
+        QJsonObject b{{"recipe", list.front()->name},
+                      {"lines", labels},
+                      {"required_ml", required},
+                      {"prepare_ml", prepare},
+                      {"suggested_bottle_ml", suggested > 0 ? QJsonValue(suggested) : QJsonValue()},
+                      {"first_use", first.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"))},
+                      {"last_use", last.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"))},
+                      {"span_h", span_h}};
+        if (shelf > 0) {
+            b["shelf_life_h"] = shelf;
+            b["shelf_kind"] = list.front()->shelf_kind;
+            b["one_batch_lasts"] = span_h <= shelf;
+            if (span_h > shelf && warnings && list.size() > 1) {
+                const int batches = static_cast<int>(std::ceil(span_h / shelf));
+                warnings->append(QJsonObject{
+                    {"code", "shelf-life"},
+                    {"severity", "warning"},
+                    {"message", "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
+                                    " bottles would be used over " + QString::number(span_h, 'f', 1) + " h, longer than its shelf life of " +
+                                    QString::number(shelf, 'f', 0) + " h (" + list.front()->shelf_kind +
+                                    ", a lab-set default): make at least " + QString::number(batches) + " batches."},
+                    {"recipe", list.front()->name},
+                    {"span_h", span_h},
+                    {"shelf_life_h", shelf},
+                    {"batches", batches}});
+            }
+        }
+        out.append(b);
+    }
+    return out;
+}
+
+} // namespace
+
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+    if (!input.contains("plans")) {
+        PlanResult r = plan_one(data, input, "");
+        r.out["batches"] = batches_of(r.uses, nullptr);
+        return r.out;
+    }
+    const QJsonArray plans = json::require_array(input, "plans", "");
+    if (plans.isEmpty()) throw chem::Error("plans", "needs at least one plan");
+    QJsonArray outs, warnings;
+    std::vector<BatchUse> uses;
+    for (int i = 0; i < plans.size(); ++i) {
+        const std::string at = json::path("plans", i);
+        PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at);
+        uses.insert(uses.end(), r.uses.begin(), r.uses.end());
+        outs.append(r.out);
+    }
+    const QJsonArray batches = batches_of(uses, &warnings);
+    return QJsonObject{{"plans", outs}, {"batches", batches}, {"warnings", warnings}};
+}
+
+} // namespace phaseplan

@@ -1,0 +1,60 @@
+#pragma once
+// The `line` and `sequence` subcommands (signature of app/core/commands.h) and the JSON readers
+// and writers they use, reusable by the GUI and the print sheets.
+//
+// `line` input: a line plus "volume_ml" (optional "detector", "column"); output
+//   {"items": [{"part", "volume_ml", "mass_g", …}], "uv_cutoff_nm", "warnings", …}.
+// `sequence` input: {"lines", "methods", "sequence", "prime_ml", "start", "waste_ml",
+//   "detector", "column", "standby", "safety_margin"} — or {"plans": [such documents]} for plans
+//   over several instruments and days, summed per line recipe in "batches".
+// Field names are a fixed contract: extend, rename nothing.
+#include "chem/checks.h"
+#include "chem/line.h"
+#include "chem/sequence.h"
+#include "core/commands.h"
+
+#include <QDateTime>
+#include <QJsonArray>
+#include <QJsonObject>
+
+#include <optional>
+#include <string>
+
+namespace phaseplan {
+
+QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+
+/// A clock time of the contract: "2026-12-01T18:00:00" (local wall-clock time, no zone: minutes
+/// are added without daylight-saving jumps) or with an offset ("…+01:00", kept on output).
+struct Clock {
+    QDateTime start;
+    bool has_offset = false;
+    QString iso(double minutes) const;      ///< "2026-12-02T03:12:30"
+    std::string text(double minutes) const; ///< "2026-12-02 03:12" for messages
+};
+/// Reads an ISO date-time; throws chem::Error(path.key, …) when it is not one.
+QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent, bool* has_offset);
+
+/// A line of a `line` or `sequence` document.
+struct ParsedLine {
+    chem::LineSpec spec;
+    std::optional<QDateTime> prepared_at;
+    double bottle_ml = 0;
+    double residue_ml = 0;
+    /// Identity of the recipe for batching: the parts and additives in canonical JSON (buffer
+    /// volumes left out), or "name:<name>" for a volumes-only line.
+    QString recipe_key;
+};
+
+/// Parses a line at `path` ("lines.A"). A buffer part is a recipe document, designed with
+/// chem::design_recipe for part_volume_ml × its fraction when it gives no volume_ml (or a smaller
+/// one than needed). `bottle_required`: sequence lines need bottle_ml.
+ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path, double volume_ml,
+                          bool bottle_required, std::vector<chem::Warning>* notes = nullptr);
+
+/// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
+/// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.
+QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock);
+
+} // namespace phaseplan

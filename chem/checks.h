@@ -1,0 +1,103 @@
+#pragma once
+// The checks that save a night's run, each a chem::Warning with the numbers behind it:
+//   uv-cutoff       a line's UV cutoff against the detector wavelength, with a margin
+//   immiscible      two lines (or two parts of one line) that meet and do not mix
+//   precipitation   a buffer salt above its solubility limit at the organic fraction reached
+//   ms-nonvolatile  a non-volatile buffer or additive with an MS (or ELSD/CAD) detector
+//   column-ph       a line's pH outside the column's stated range
+//   shelf-life      an aqueous buffer past its shelf life before the sequence ends
+//   runs-dry        a bottle that runs dry (or has less than the safety margin to spare)
+//   waste-overflow  a waste container that overfills
+// Warnings come out in that order.
+#include "chem/equilibrium.h"
+#include "chem/line.h"
+#include "chem/sequence.h"
+#include "chem/solvent.h"
+
+#include <array>
+#include <functional>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace chem {
+
+/// A Warning with the numbers behind it, in the order they are shown. `line` names the line
+/// ("A") the warning is about, or is empty.
+struct CheckWarning : Warning {
+    std::string line;
+    std::vector<std::pair<std::string, double>> numbers;      ///< "cutoff_nm" → 210, …
+    std::vector<std::pair<std::string, std::string>> texts;   ///< "method" → "assay-fast", …
+    /// Times in minutes from the sequence start, keyed like "dry_at_min"; app/ adds clock times.
+    void number(std::string key, double v) { numbers.emplace_back(std::move(key), v); }
+    void text(std::string key, std::string v) { texts.emplace_back(std::move(key), std::move(v)); }
+};
+
+struct Detector {
+    std::string type = "uv";               ///< uv, dad, pda, uv-ms, ms, elsd, cad, fluorescence, ri
+    std::optional<double> wavelength_nm;   ///< for UV types
+    double margin_nm = 10;                 ///< caution within this of the cutoff (common practice, no source)
+};
+bool detector_reads_uv(const std::string& type);      ///< uv, dad, pda, uv-ms
+bool detector_needs_volatile(const std::string& type); ///< ms, uv-ms, elsd, cad
+const std::vector<std::string>& detector_types();
+
+struct ColumnLimits {
+    double ph_min = 2;
+    double ph_max = 8;
+};
+
+/// Formats a time (minutes from the sequence start) for messages; app/ passes clock times.
+using ClockFormatter = std::function<std::string(double minutes)>;
+std::string default_clock(double minutes); ///< "t+125.5 min"
+
+struct SequenceCheckInput {
+    const SolventLibrary* solvents = nullptr;
+    const SequenceInput* input = nullptr;
+    const SequencePlan* plan = nullptr;
+    std::array<const LineProfile*, max_lines> profiles{}; ///< null: a volumes-only line
+    std::array<std::string, max_lines> names{};           ///< display names
+    std::array<std::optional<double>, max_lines> prepared_at_min{}; ///< from the sequence start
+    std::optional<Detector> detector;
+    std::optional<ColumnLimits> column;
+    ClockFormatter clock = default_clock;
+};
+
+/// Lines the sequence pumps at some point (above 0 % in a method it runs, or in the standby).
+std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan);
+
+std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c);
+/// All of the above, in the order of the list at the top.
+std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
+
+/// The checks that apply to one line on its own (the `line` command): immiscible parts,
+/// precipitation in the bottle, and, when given, UV cutoff, MS volatility and column pH.
+std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
+                                     const std::string& name, const std::optional<Detector>& detector,
+                                     const std::optional<ColumnLimits>& column);
+
+/// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
+/// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.
+struct SaltLoad {
+    std::string group;
+    double mmol_per_l = 0;         ///< total of the group in the mixed eluent
+    double limit_mmol_per_l = 0;
+    double organic_fraction_v = 0; ///< total organic where the ratio is highest
+    std::string organic;           ///< the solvent whose table gave the limit
+    std::string basis;             ///< "published" | "rule-of-thumb"
+    std::string source;
+    double ratio() const;          ///< mmol/limit (infinite for a zero limit with salt present)
+};
+/// A mixture: per line percent (sum 100) of lines with the given profiles.
+std::vector<SaltLoad> salt_loads(const SolventLibrary& solvents, const std::array<const LineProfile*, max_lines>& profiles,
+                                 const LineValues& percent);
+
+} // namespace chem

@@ -1,0 +1,156 @@
+#pragma once
+// The solvent and additive library: neat solvents with their physical data and hazards, the
+// miscibility table, mobile-phase additives (UV cutoff at a concentration, MS volatility, salt
+// solubility in water–organic mixtures), excess volumes of mixing and default shelf lives.
+// Filled by app/core/solvent_data from data/solvents.json; chem/ itself does no I/O. Every number
+// in that file carries its source beside it.
+#include <map>
+#include <optional>
+#include <string>
+#include <utility>
+#include <vector>
+
+namespace chem {
+
+enum class Miscibility { miscible, partly, immiscible };
+const char* miscibility_name(Miscibility m);
+
+struct Solvent {
+    std::string id;                   ///< "acetonitrile"
+    std::string name;                 ///< "Acetonitrile"
+    std::string formula;              ///< "C2H3N"
+    bool aqueous = false;             ///< water (the only aqueous solvent here)
+    double molar_mass_g_per_mol = 0;  ///< from the formula, IUPAC 2021 weights
+    double density_g_per_ml = 0;      ///< at density_temperature_c
+    double density_temperature_c = 20;
+    double viscosity_mpa_s = 0;       ///< at viscosity_temperature_c
+    double viscosity_temperature_c = 25;
+    double uv_cutoff_nm = 0;          ///< 1 cm path against water, absorbance 1
+    double boiling_point_c = 0;       ///< at 101.325 kPa
+    std::optional<double> flash_point_c; ///< closed cup; none for water and dichloromethane
+    std::vector<std::string> ghs_hazards;    ///< "H225", …
+    std::vector<std::string> ghs_pictograms; ///< "GHS02", …
+    /// Citation per quantity: keys "density", "viscosity", "uv_cutoff", "boiling_point",
+    /// "flash_point", "ghs".
+    std::map<std::string, std::string> sources;
+    std::string note;
+
+    bool is_flammable() const; ///< H224–H226 or GHS02
+};
+
+/// How an additive's amount is stated: % v/v of the liquid as supplied, % w/v (g per 100 mL) of
+/// the material as supplied, or mmol of formula units per litre of the finished line.
+enum class AmountUnit { percent_v, percent_w, mmol_per_l };
+const char* amount_unit_name(AmountUnit u);
+
+struct UvPoint {
+    double amount = 0;     ///< in the table's unit
+    double cutoff_nm = 0;
+    std::string source;
+};
+
+/// The UV cutoff of an additive against its concentration, ascending in amount.
+struct UvTable {
+    AmountUnit unit = AmountUnit::mmol_per_l;
+    std::vector<UvPoint> points;
+
+    struct Lookup {
+        double cutoff_nm = 0;
+        const UvPoint* point = nullptr; ///< the row used
+        bool beyond_table = false;      ///< amount above the last row: the cutoff is at least this
+    };
+    /// Conservative step rule: the cutoff of the smallest tabulated amount at or above `amount`
+    /// (cutoffs rise with concentration, so this never understates); above the table, the last
+    /// row's cutoff flagged beyond_table. No interpolation: the tables are coarse.
+    Lookup at(double amount) const;
+};
+
+struct Additive {
+    std::string id;                 ///< the reagent id where one exists ("formic-acid")
+    bool ms_volatile = false;       ///< suitable for a mass spectrometer (and ELSD/CAD)
+    std::string volatility_source;
+    std::optional<UvTable> uv;      ///< absent: no cutoff figure recorded
+    std::string solubility_group;   ///< key into the solubility tables ("potassium-phosphate"), "" none
+    bool short_lived = false;       ///< loses a component from solution within a day (NH4HCO3)
+    std::string note;
+};
+
+/// Highest total concentration of a salt group in a water–organic mixture, against the volume
+/// fraction of the organic. basis "published" or "rule-of-thumb".
+struct SolubilityTable {
+    std::string group;    ///< "potassium-phosphate"
+    std::string organic;  ///< solvent id: "acetonitrile"
+    std::string basis;    ///< "published" | "rule-of-thumb"
+    std::string source;
+    std::vector<std::pair<double, double>> points; ///< (organic fraction_v, max mmol/L), ascending
+
+    /// Linear between rows, above the last row the last row's value, in mmol/L. Below the first
+    /// row the table says nothing (nullopt): each table starts at the organic fraction where its
+    /// data or rule of thumb starts, and is not stretched below it.
+    std::optional<double> limit_mmol_per_l(double organic_fraction_v) const;
+};
+
+/// Default shelf life for a kind of solution (a lab-set default, common practice).
+struct ShelfLife {
+    std::string kind;     ///< "aqueous-buffer", "buffer-with-organic", …
+    double hours = 0;
+    std::string source;
+    std::string description;
+};
+
+/// Excess molar volume of a binary water + organic mixture, Redlich–Kister form:
+/// V^E(x) = x(1−x) Σ_k A_k (2x−1)^k in cm³/mol, x = mole fraction of the organic.
+struct ExcessVolume {
+    std::string aqueous = "water";
+    std::string organic;            ///< "methanol"
+    double temperature_c = 25;
+    std::vector<double> rk_cm3_per_mol; ///< A_0, A_1, …
+    std::string source;
+
+    double at(double x_organic) const; ///< cm³/mol
+};
+
+class SolventLibrary {
+public:
+    /// Adds or replaces (by id). Throws chem::Error for a non-positive density or molar mass.
+    void add_solvent(Solvent s);
+    void set_miscibility(const std::string& a, const std::string& b, Miscibility m);
+    void add_additive(Additive a);
+    void add_solubility(SolubilityTable t);
+    void add_shelf_life(ShelfLife s);
+    void add_excess_volume(ExcessVolume e);
+    /// Throws chem::Error("miscibility", …) naming a pair of known solvents without an entry.
+    void check_complete() const;
+
+    /// Throws chem::Error(field, "unknown solvent \"x\" (nearest: …)").
+    const Solvent& solvent(const std::string& id, const std::string& field = "solvent") const;
+    const Solvent* find_solvent(const std::string& id) const;
+    const Additive* find_additive(const std::string& id) const;
+    /// Miscible for a solvent with itself; nullopt for an unknown pair.
+    std::optional<Miscibility> miscibility(const std::string& a, const std::string& b) const;
+    const SolubilityTable* solubility(const std::string& group, const std::string& organic) const;
+    std::vector<const SolubilityTable*> solubility_tables(const std::string& group) const;
+    const ShelfLife* shelf_life(const std::string& kind) const;
+    const ExcessVolume* excess_volume(const std::string& aqueous, const std::string& organic) const;
+    std::vector<std::string> nearest_solvent_ids(const std::string& id, int count = 3) const;
+
+    const std::vector<Solvent>& solvents() const { return solvents_; }
+    const std::vector<Additive>& additives() const { return additives_; }
+    const std::vector<ShelfLife>& shelf_lives() const { return shelf_; }
+    const std::string& miscibility_source() const { return miscibility_source_; }
+    void set_miscibility_source(std::string s) { miscibility_source_ = std::move(s); }
+
+private:
+    std::vector<Solvent> solvents_;
+    std::map<std::pair<std::string, std::string>, Miscibility> miscibility_;
+    std::vector<Additive> additives_;
+    std::vector<SolubilityTable> solubility_;
+    std::vector<ShelfLife> shelf_;
+    std::vector<ExcessVolume> excess_;
+    std::string miscibility_source_;
+};
+
+/// Levenshtein edit distance (for "nearest id" suggestions).
+int edit_distance(const std::string& a, const std::string& b);
+
+} // namespace chem
