@@ -13,6 +13,8 @@
 // write a newer file).
 #include "storage/database.h"
 
+#include "storage/batch_store.h"
+
 namespace phaseplan::storage {
 
 namespace {
@@ -64,6 +66,10 @@ const std::vector<Migration>& migrations() {
                  db.exec(QStringLiteral("CREATE INDEX %1_updated ON %1 (updated_at)")
                              .arg(QLatin1String(t)));
              }
+         }},
+        {4, "batches and their append-only history (app/storage/batch_store.h)",
+         [](Database& db) {
+             for (const QString& sql : batch_schema_statements()) db.exec(sql);
          }},
         // Append new steps here (see the comment at the top of this file).
     };

@@ -1,0 +1,403 @@
+#include "storage/batch_store.h"
+
+#include "chem/batch.h"
+#include "chem/error.h"
+
+#include <QJsonDocument>
+#include <QSqlError>
+#include <QSqlQuery>
+
+#include <map>
+
+namespace phaseplan::storage {
+
+namespace {
+
+QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {}) {
+    QSqlQuery q(db);
+    if (!q.prepare(sql))
+        throw chem::Error("database", "cannot prepare \"" + sql.left(60).toStdString() + "\": " +
+                                          q.lastError().text().toStdString());
+    for (int i = 0; i < bindings.size(); ++i) {
+        // A null QString would bind as SQL NULL; the text columns hold '' for "not set".
+        const QVariant& v = bindings[i];
+        if (v.typeId() == QMetaType::QString && v.toString().isNull()) q.bindValue(i, QString(""));
+        else q.bindValue(i, v);
+    }
+    if (!q.exec())
+        throw chem::Error("database", "\"" + sql.left(60).toStdString() + "\" failed: " +
+                                          q.lastError().text().toStdString());
+    return q;
+}
+
+/// BEGIN IMMEDIATE … COMMIT; rolled back when commit() did not run.
+class Transaction {
+public:
+    explicit Transaction(QSqlDatabase db) : db_(db) { run(db_, "BEGIN IMMEDIATE"); }
+    ~Transaction() {
+        if (!done_) QSqlQuery(db_).exec("ROLLBACK");
+    }
+    void commit() {
+        run(db_, "COMMIT");
+        done_ = true;
+    }
+
+private:
+    QSqlDatabase db_;
+    bool done_ = false;
+};
+
+QString compact(const QJsonObject& o) { return QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Compact)); }
+QString compact(const QJsonArray& a) { return QString::fromUtf8(QJsonDocument(a).toJson(QJsonDocument::Compact)); }
+
+/// A history value as text in the database: JSON, so numbers, strings and null survive.
+QVariant value_text(const QJsonValue& v) {
+    if (v.isNull() || v.isUndefined()) return QVariant();
+    return QString::fromUtf8(QJsonDocument(QJsonArray{v}).toJson(QJsonDocument::Compact));
+}
+QJsonValue value_from_text(const QVariant& v) {
+    if (v.isNull()) return QJsonValue::Null;
+    const QJsonArray a = QJsonDocument::fromJson(v.toString().toUtf8()).array();
+    return a.isEmpty() ? QJsonValue(QJsonValue::Null) : a.at(0);
+}
+
+QString kind_of(const QJsonObject& input) {
+    if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
+    if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
+    return QStringLiteral("recipe");
+}
+
+std::string str(const QString& s) { return s.toStdString(); }
+
+/// Checks the batch fields with the rules of chem::check_batch_fields and the actual amounts'
+/// shape (the amounts against a recipe are checked when the batch is evaluated for printing).
+void validate(const BatchRecord& b) {
+    chem::Batch cb;
+    cb.id = str(b.id);
+    cb.prepared_at = str(b.prepared_at);
+    cb.expires_at = str(b.expires_at);
+    cb.tolerance_fraction = b.tolerance_percent / 100.0;
+    chem::check_batch_fields(cb, 1.0);
+    if (b.document_kind != "recipe" && b.document_kind != "line" && b.document_kind != "sequence")
+        throw chem::Error("document_kind", "\"" + str(b.document_kind) + "\" is not recipe, line or sequence");
+    QStringList seen;
+    for (int i = 0; i < b.actual.size(); ++i) {
+        const std::string at = "batch.actual[" + std::to_string(i) + "]";
+        if (!b.actual[i].isObject()) throw chem::Error(at, "must be an object");
+        const QJsonObject e = b.actual[i].toObject();
+        const QString r = e.value("reagent").toString().trimmed();
+        if (r.isEmpty()) throw chem::Error(at + ".reagent", "is required");
+        if (seen.contains(r)) throw chem::Error(at + ".reagent", "\"" + str(r) + "\" is given twice");
+        seen << r;
+        const bool m = e.contains("mass_g"), v = e.contains("volume_ml");
+        if (m == v) throw chem::Error(at + ".mass_g", "give exactly one of mass_g and volume_ml");
+        const QJsonValue x = e.value(m ? "mass_g" : "volume_ml");
+        if (!x.isDouble() || !(x.toDouble() > 0) || x.toDouble() > 1.0e6)
+            throw chem::Error(at + (m ? ".mass_g" : ".volume_ml"), "must be a positive amount");
+        if (e.contains("lot") && !e.value("lot").isString())
+            throw chem::Error(at + ".lot", "must be a string");
+    }
+}
+
+/// Field-by-field view of a batch for the history: "prepared_by", "actual[<reagent>].mass_g", …
+std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
+    std::map<QString, QJsonValue> f;
+    auto put = [&](const QString& k, const QJsonValue& v) {
+        if (!(v.isString() && v.toString().isEmpty()) && !v.isNull() && !v.isUndefined()) f[k] = v;
+    };
+    put("document_kind", b.document_kind);
+    put("document", compact(b.document));
+    put("prepared_by", b.prepared_by);
+    put("prepared_at", b.prepared_at);
+    put("expires_at", b.expires_at);
+    put("checked_by", b.checked_by);
+    put("tolerance_percent", b.tolerance_percent);
+    for (const QJsonValue& v : b.actual) {
+        const QJsonObject e = v.toObject();
+        const QString key = "actual[" + e.value("reagent").toString() + "]";
+        for (const char* k : {"mass_g", "volume_ml", "lot"})
+            if (e.contains(k)) put(key + "." + k, e.value(k));
+    }
+    return f;
+}
+
+const char* select_columns =
+    "id, document_kind, document, prepared_by, prepared_at, expires_at, checked_by, "
+    "tolerance_percent, actual, revision, printed_count, first_printed_at, created_at, updated_at";
+
+BatchRecord record_from(const QSqlQuery& q) {
+    BatchRecord b;
+    b.id = q.value(0).toString();
+    b.document_kind = q.value(1).toString();
+    b.document = QJsonDocument::fromJson(q.value(2).toString().toUtf8()).object();
+    b.prepared_by = q.value(3).toString();
+    b.prepared_at = q.value(4).toString();
+    b.expires_at = q.value(5).toString();
+    b.checked_by = q.value(6).toString();
+    b.tolerance_percent = q.value(7).toDouble();
+    b.actual = QJsonDocument::fromJson(q.value(8).toString().toUtf8()).array();
+    b.revision = q.value(9).toInt();
+    b.printed_count = q.value(10).toInt();
+    b.first_printed_at = q.value(11).toString();
+    b.created_at = q.value(12).toString();
+    b.updated_at = q.value(13).toString();
+    return b;
+}
+
+} // namespace
+
+QStringList batch_schema_statements() {
+    return {
+        // One row per batch. The data columns change only together with history rows.
+        "CREATE TABLE batches ("
+        " id TEXT PRIMARY KEY NOT NULL CHECK (length(id) > 0),"
+        " document_kind TEXT NOT NULL CHECK (document_kind IN ('recipe', 'line', 'sequence')),"
+        " document TEXT NOT NULL CHECK (json_valid(document)),"
+        " prepared_by TEXT NOT NULL DEFAULT '',"
+        " prepared_at TEXT NOT NULL DEFAULT '',"
+        " expires_at TEXT NOT NULL DEFAULT '',"
+        " checked_by TEXT NOT NULL DEFAULT '',"
+        " tolerance_percent REAL NOT NULL DEFAULT 2 CHECK (tolerance_percent > 0 AND tolerance_percent <= 50),"
+        " actual TEXT NOT NULL DEFAULT '[]' CHECK (json_valid(actual)),"
+        " revision INTEGER NOT NULL DEFAULT 1 CHECK (revision >= 1),"
+        " printed_count INTEGER NOT NULL DEFAULT 0 CHECK (printed_count >= 0),"
+        " first_printed_at TEXT NOT NULL DEFAULT '',"
+        " created_at TEXT NOT NULL,"
+        " updated_at TEXT NOT NULL)",
+        "CREATE INDEX batches_updated ON batches (updated_at)",
+        // Append-only: who changed what, when, from which value to which.
+        "CREATE TABLE batch_history ("
+        " seq INTEGER PRIMARY KEY AUTOINCREMENT,"
+        " batch_id TEXT NOT NULL REFERENCES batches (id),"
+        " revision INTEGER NOT NULL,"
+        " at TEXT NOT NULL,"
+        " who TEXT NOT NULL CHECK (length(who) > 0),"
+        " action TEXT NOT NULL CHECK (action IN ('create', 'edit', 'amend', 'print')),"
+        " field TEXT NOT NULL DEFAULT '',"
+        " old_value TEXT,"
+        " new_value TEXT,"
+        " reason TEXT NOT NULL DEFAULT '',"
+        " CHECK (action <> 'amend' OR length(reason) > 0))",
+        "CREATE INDEX batch_history_batch ON batch_history (batch_id, seq)",
+        "CREATE TRIGGER batch_history_no_update BEFORE UPDATE ON batch_history "
+        "BEGIN SELECT RAISE(ABORT, 'batch_history is append-only'); END",
+        "CREATE TRIGGER batch_history_no_delete BEFORE DELETE ON batch_history "
+        "BEGIN SELECT RAISE(ABORT, 'batch_history is append-only'); END",
+        "CREATE TRIGGER batches_no_delete BEFORE DELETE ON batches "
+        "BEGIN SELECT RAISE(ABORT, 'batches are never deleted'); END",
+        "CREATE TRIGGER batches_fixed BEFORE UPDATE ON batches "
+        "WHEN NEW.id IS NOT OLD.id OR NEW.created_at IS NOT OLD.created_at"
+        " OR NEW.printed_count < OLD.printed_count OR NEW.revision < OLD.revision "
+        "BEGIN SELECT RAISE(ABORT, 'a batch keeps its id, creation time, revisions and prints'); END",
+        // A change of data needs the next revision and its history rows, written first; after
+        // printing those rows must be an amendment.
+        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
+        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
+        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
+        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
+        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual)"
+        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
+        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
+        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END",
+    };
+}
+
+// ---- BatchRecord ------------------------------------------------------------------------------
+
+QJsonObject BatchRecord::to_input() const {
+    QJsonObject doc = document;
+    QJsonObject b{{"id", id}};
+    if (!prepared_by.isEmpty()) b["prepared_by"] = prepared_by;
+    if (!prepared_at.isEmpty()) b["prepared_at"] = prepared_at;
+    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
+    if (!checked_by.isEmpty()) b["checked_by"] = checked_by;
+    b["tolerance_percent"] = tolerance_percent;
+    if (!actual.isEmpty()) b["actual"] = actual;
+    doc["batch"] = b;
+    return doc;
+}
+
+BatchRecord BatchRecord::from_input(const QJsonObject& input) {
+    if (!input.value("batch").isObject()) throw chem::Error("batch", "is required: an object with an id");
+    const QJsonObject b = input.value("batch").toObject();
+    BatchRecord r;
+    auto text = [&](const char* key) -> QString {
+        const QJsonValue v = b.value(key);
+        if (v.isUndefined() || v.isNull()) return {};
+        if (!v.isString()) throw chem::Error(std::string("batch.") + key, "must be a string");
+        return v.toString().trimmed();
+    };
+    r.id = text("id");
+    r.prepared_by = text("prepared_by");
+    r.prepared_at = text("prepared_at");
+    r.expires_at = text("expires_at");
+    r.checked_by = text("checked_by");
+    if (b.contains("tolerance_percent")) {
+        if (!b.value("tolerance_percent").isDouble())
+            throw chem::Error("batch.tolerance_percent", "must be a number");
+        r.tolerance_percent = b.value("tolerance_percent").toDouble();
+    }
+    if (b.contains("actual") && !b.value("actual").isNull()) {
+        if (!b.value("actual").isArray()) throw chem::Error("batch.actual", "must be an array");
+        r.actual = b.value("actual").toArray();
+    }
+    r.document = input;
+    r.document.remove("batch");
+    r.document_kind = kind_of(r.document);
+    validate(r);
+    return r;
+}
+
+// ---- BatchStore -------------------------------------------------------------------------------
+
+BatchStore::BatchStore(QSqlDatabase db) : db_(db) {}
+
+void BatchStore::ensure_schema(QSqlDatabase db) {
+    bool present = false;
+    {
+        QSqlQuery q = run(db, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = 'batches'");
+        present = q.next() && q.value(0).toInt() > 0;
+    }
+    if (present) return;
+    Transaction tx(db);
+    for (const QString& s : batch_schema_statements()) run(db, s);
+    tx.commit();
+}
+
+QString BatchStore::now() const {
+    const QDateTime t = clock_ ? clock_() : QDateTime::currentDateTimeUtc();
+    return t.toUTC().toString(Qt::ISODateWithMs);
+}
+
+void BatchStore::create(const BatchRecord& batch, const QString& who) {
+    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who made each change");
+    validate(batch);
+    Transaction tx(db_);
+    if (run(db_, "SELECT 1 FROM batches WHERE id = ?", {batch.id}).next())
+        throw chem::Error("batch.id", "\"" + str(batch.id) + "\" is taken by another batch");
+    const QString t = now();
+    run(db_,
+        "INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at, expires_at,"
+        " checked_by, tolerance_percent, actual, revision, printed_count, first_printed_at,"
+        " created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?)",
+        {batch.id, batch.document_kind, compact(batch.document), batch.prepared_by, batch.prepared_at,
+         batch.expires_at, batch.checked_by, batch.tolerance_percent, compact(batch.actual), t, t});
+    for (const auto& [field, value] : flatten(batch))
+        run(db_,
+            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
+            " VALUES (?, 1, ?, ?, 'create', ?, NULL, ?)",
+            {batch.id, t, who.trimmed(), field, value_text(value)});
+    tx.commit();
+}
+
+std::optional<BatchRecord> BatchStore::load(const QString& id) const {
+    QSqlQuery q = run(db_, QStringLiteral("SELECT %1 FROM batches WHERE id = ?").arg(QLatin1String(select_columns)), {id});
+    if (!q.next()) return std::nullopt;
+    return record_from(q);
+}
+
+QStringList BatchStore::list() const {
+    QSqlQuery q = run(db_, "SELECT id FROM batches ORDER BY updated_at DESC, id");
+    QStringList out;
+    while (q.next()) out << q.value(0).toString();
+    return out;
+}
+
+bool BatchStore::edit(const QString& id, const BatchRecord& next, const QString& who) {
+    return change(id, next, who, QStringLiteral("edit"), {});
+}
+
+bool BatchStore::amend(const QString& id, const BatchRecord& next, const QString& who,
+                       const QString& reason) {
+    if (reason.trimmed().isEmpty())
+        throw chem::Error("reason", "is required: an amendment says why the record changes");
+    return change(id, next, who, QStringLiteral("amend"), reason.trimmed());
+}
+
+bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QString& who,
+                        const QString& action, const QString& reason) {
+    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who made each change");
+    BatchRecord next = next_in;
+    next.id = id; // the id is the key; it never changes
+    validate(next);
+    Transaction tx(db_);
+    const std::optional<BatchRecord> cur = load(id);
+    if (!cur) throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    if (cur->printed() && action == "edit")
+        throw chem::Error("batch", "batch \"" + str(id) + "\" was printed on " + str(cur->first_printed_at) +
+                                       ": a change is an amendment with a reason, not an edit");
+    const auto before = flatten(*cur);
+    const auto after = flatten(next);
+    std::map<QString, std::pair<QJsonValue, QJsonValue>> diff;
+    for (const auto& [k, v] : before) {
+        auto it = after.find(k);
+        const QJsonValue nv = it == after.end() ? QJsonValue(QJsonValue::Null) : it->second;
+        if (nv != v) diff[k] = {v, nv};
+    }
+    for (const auto& [k, v] : after)
+        if (!before.count(k)) diff[k] = {QJsonValue(QJsonValue::Null), v};
+    if (diff.empty()) return false;
+
+    const int revision = cur->revision + 1;
+    const QString t = now();
+    for (const auto& [field, values] : diff)
+        run(db_,
+            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value, reason)"
+            " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
+            {id, revision, t, who.trimmed(), action, field, value_text(values.first),
+             value_text(values.second), reason});
+    run(db_,
+        "UPDATE batches SET document_kind = ?, document = ?, prepared_by = ?, prepared_at = ?,"
+        " expires_at = ?, checked_by = ?, tolerance_percent = ?, actual = ?, revision = ?,"
+        " updated_at = ? WHERE id = ?",
+        {next.document_kind, compact(next.document), next.prepared_by, next.prepared_at,
+         next.expires_at, next.checked_by, next.tolerance_percent, compact(next.actual), revision, t, id});
+    tx.commit();
+    return true;
+}
+
+void BatchStore::mark_printed(const QString& id, const QString& who, const QString& what) {
+    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who printed");
+    Transaction tx(db_);
+    const std::optional<BatchRecord> cur = load(id);
+    if (!cur) throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    const QString t = now();
+    run(db_,
+        "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
+        " VALUES (?, ?, ?, ?, 'print', 'printed_count', ?, ?)",
+        {id, cur->revision, t, who.trimmed(), value_text(cur->printed_count),
+         value_text(QJsonValue(what.isEmpty() ? QString::number(cur->printed_count + 1)
+                                              : QString::number(cur->printed_count + 1) + ": " + what))});
+    run(db_,
+        "UPDATE batches SET printed_count = printed_count + 1,"
+        " first_printed_at = CASE WHEN first_printed_at = '' THEN ? ELSE first_printed_at END,"
+        " updated_at = ? WHERE id = ?",
+        {t, t, id});
+    tx.commit();
+}
+
+std::vector<HistoryEntry> BatchStore::history(const QString& id) const {
+    QSqlQuery q = run(db_,
+                      "SELECT seq, batch_id, revision, at, who, action, field, old_value, new_value, reason"
+                      " FROM batch_history WHERE batch_id = ? ORDER BY seq",
+                      {id});
+    std::vector<HistoryEntry> out;
+    while (q.next()) {
+        HistoryEntry h;
+        h.seq = q.value(0).toLongLong();
+        h.batch_id = q.value(1).toString();
+        h.revision = q.value(2).toInt();
+        h.at = q.value(3).toString();
+        h.who = q.value(4).toString();
+        h.action = q.value(5).toString();
+        h.field = q.value(6).toString();
+        h.old_value = value_from_text(q.value(7));
+        h.new_value = value_from_text(q.value(8));
+        h.reason = q.value(9).toString();
+        out.push_back(std::move(h));
+    }
+    return out;
+}
+
+} // namespace phaseplan::storage

@@ -1,0 +1,117 @@
+#pragma once
+// Batches in SQLite: one row per batch (the document it was made from, who, when, the actual
+// amounts) and an append-only history of every change (who, when, field, old value, new value).
+//
+// Rules, enforced here and again by triggers in the database so that no other code path can
+// break them:
+//   - the history is append-only: UPDATE and DELETE on batch_history abort;
+//   - every change of a batch's data comes with history rows of the same revision, written in
+//     the same transaction; an UPDATE without them aborts;
+//   - once a batch has been printed, a change must be an amendment: action "amend" with a reason;
+//     edit() refuses (chem::Error), and a plain UPDATE aborts;
+//   - batches are never deleted.
+//
+// The tables come from migration step batch_schema_version in app/storage/migrations.cpp
+// (batch_schema_statements()); BatchStore::ensure_schema creates them on a bare connection
+// (tests, tools). Every write is one transaction (BEGIN IMMEDIATE … COMMIT).
+#include <QDateTime>
+#include <QJsonArray>
+#include <QJsonObject>
+#include <QJsonValue>
+#include <QSqlDatabase>
+#include <QString>
+#include <QStringList>
+#include <QVariantList>
+
+#include <functional>
+#include <optional>
+#include <vector>
+
+namespace phaseplan::storage {
+
+/// The SQL that creates the batch tables, indexes and triggers, in order.
+QStringList batch_schema_statements();
+
+/// One batch as stored. The batch fields are those of the "batch" object of the CLI contract.
+struct BatchRecord {
+    QString id;
+    QString document_kind = "recipe";   ///< "recipe", "line" or "sequence"
+    QJsonObject document;               ///< the contract document it was made from, without "batch"
+    QString prepared_by;
+    QString prepared_at;                ///< ISO 8601 local, "" = not yet
+    QString expires_at;                 ///< ISO 8601 local, "" = from the shelf life
+    QString checked_by;
+    double tolerance_percent = 2;
+    QJsonArray actual;                  ///< [{"reagent", "mass_g" | "volume_ml", "lot"}]
+    int revision = 1;                   ///< +1 on every recorded change
+    int printed_count = 0;
+    QString first_printed_at;           ///< UTC, "" when never printed
+    QString created_at;                 ///< UTC
+    QString updated_at;                 ///< UTC
+
+    bool printed() const { return printed_count > 0; }
+    /// The document with its "batch" object: the input of `phaseplan-cli sheet` / `labels`.
+    QJsonObject to_input() const;
+    /// Splits a `sheet`/`labels` input into the document and the batch. Throws chem::Error
+    /// naming the field ("batch", "batch.id", "batch.actual[0].mass_g") for a malformed batch.
+    static BatchRecord from_input(const QJsonObject& input);
+};
+
+struct HistoryEntry {
+    qint64 seq = 0;          ///< order of writing
+    QString batch_id;
+    int revision = 0;        ///< the batch's revision after the change (print: the one printed)
+    QString at;              ///< UTC ISO 8601
+    QString who;
+    QString action;          ///< "create", "edit", "amend", "print"
+    QString field;           ///< "prepared_by", "actual[phosphoric-acid].volume_ml", "document", …
+    QJsonValue old_value;    ///< null when the field was unset
+    QJsonValue new_value;
+    QString reason;          ///< amendments: why
+};
+
+class BatchStore {
+public:
+    /// Uses an open connection whose schema has the batch tables (see ensure_schema).
+    explicit BatchStore(QSqlDatabase db);
+
+    /// Creates the batch tables if they are absent (for a connection that did not go through the
+    /// app's migrations). Throws chem::Error("database", …) on SQL failure.
+    static void ensure_schema(QSqlDatabase db);
+
+    /// Stores a new batch, with one "create" history row per field set. Throws chem::Error:
+    /// "batch.id" when the id is taken, "who" when empty, batch fields as from_input.
+    void create(const BatchRecord& batch, const QString& who);
+
+    std::optional<BatchRecord> load(const QString& id) const;
+    /// Ids, newest first.
+    QStringList list() const;
+
+    /// Changes a batch that has not been printed: every changed field is recorded. Returns false
+    /// when nothing changed. Throws chem::Error("batch", …) when the batch was printed (use
+    /// amend), chem::Error("batch.id", …) for an unknown id.
+    bool edit(const QString& id, const BatchRecord& next, const QString& who);
+
+    /// Changes a batch after printing (or before): recorded as action "amend" with the reason.
+    /// Throws chem::Error("reason", …) for an empty reason.
+    bool amend(const QString& id, const BatchRecord& next, const QString& who, const QString& reason);
+
+    /// Records that the batch was printed (what: "sheet a4", "labels label62", …).
+    void mark_printed(const QString& id, const QString& who, const QString& what);
+
+    /// Oldest first.
+    std::vector<HistoryEntry> history(const QString& id) const;
+
+    /// Test seam: the clock used for created_at / updated_at / history times (UTC).
+    void set_clock(std::function<QDateTime()> clock) { clock_ = std::move(clock); }
+
+private:
+    bool change(const QString& id, const BatchRecord& next, const QString& who, const QString& action,
+                const QString& reason);
+    QString now() const;
+
+    QSqlDatabase db_;
+    std::function<QDateTime()> clock_;
+};
+
+} // namespace phaseplan::storage
