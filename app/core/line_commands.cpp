@@ -136,7 +136,8 @@ QString recipe_key_of(const QJsonObject& line, const std::string& name) {
 } // namespace
 
 QString Clock::iso(double minutes) const {
-    const QDateTime t = start.addMSecs(static_cast<qint64>(std::llround(minutes * 60000.0)));
+    // To the nearest second.
+    const QDateTime t = start.addSecs(static_cast<qint64>(std::llround(minutes * 60.0)));
     return has_offset ? t.toString(Qt::ISODate) : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"));
 }
 
