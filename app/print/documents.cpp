@@ -4,6 +4,7 @@
 #include "chem/recipe.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
+#include "core/line_commands.h"
 #include "print/ghs.h"
 
 #include <QDir>
@@ -11,6 +12,7 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QRegularExpression>
+#include <QSet>
 
 #include <cmath>
 #include <map>
@@ -218,6 +220,180 @@ QString shelf_note_text(double hours, const QString& kind, const QString& source
     return h + ", " + kind + (source.isEmpty() ? QString() : " — " + source);
 }
 
+// ---- shared pieces ------------------------------------------------------------------------------
+
+QString tolerance_text(const chem::Batch& b) {
+    return "± " + qs(chem::format_number(b.tolerance_fraction * 100)) + " %";
+}
+
+QString check_text(const chem::AmountCheck& c) {
+    if (!c.entered) return {};
+    const QString dev = (c.deviation_fraction >= 0 ? "+" : "") +
+                        QString::number(c.deviation_fraction * 100, 'f', 1) + " %";
+    return (c.within_tolerance ? "OK\n" : "OUT\n") + dev;
+}
+
+QString band_text(const chem::AmountCheck& c, const chem::Batch& b) {
+    return tolerance_text(b) + "\n" + format_amount(c.low) + "–" + format_amount(c.high) + " " + qs(c.unit);
+}
+
+/// The reagents table of a recipe with its batch: target, tolerance, actual, lot, check.
+Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe, const chem::BatchResult& res,
+                    const chem::Batch& batch, QJsonArray* checks_json) {
+    Block table;
+    table.kind = Block::Kind::table;
+    table.table.headers = {"Reagent", "Form", "Target", "Tolerance", "Actual", "Lot", "Check"};
+    table.table.weights = {3.4, 1.8, 1.6, 1.9, 1.5, 1.4, 1.4};
+    for (size_t k = 0; k < recipe.items.size(); ++k) {
+        const chem::RecipeItem& it = recipe.items[k];
+        const chem::AmountCheck& c = res.checks[k];
+        const chem::Reagent& r = lib.reagent(it.reagent);
+        QString target = format_amount(c.target) + " " + qs(c.unit);
+        if (it.as == "liquid" && it.mass_g && it.volume_ml)
+            target = c.unit == "g" ? format_amount(*it.mass_g) + " g\n(" + format_amount(*it.volume_ml) + " mL)"
+                                   : format_amount(*it.volume_ml) + " mL\n(" + format_amount(*it.mass_g) + " g)";
+        if (it.as.rfind("titrant", 0) == 0) target += "\n(predicted)";
+        table.table.rows << QStringList{qs(r.name) + "\n" + qs(r.formula) + ", " +
+                                            QString::number(r.molar_mass_g_per_mol, 'f', 2) + " g/mol",
+                                        form_text(r, it, recipe.request), target, band_text(c, batch),
+                                        c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
+                                        qs(c.lot), check_text(c)};
+        table.table.flagged << !c.within_tolerance;
+        if (checks_json) checks_json->append(check_to_json(c));
+    }
+    return table;
+}
+
+/// pH, ionic strength, β and the composition: as planned and from the actual amounts.
+Block predicted_table(const chem::Recipe& recipe, const chem::BatchResult& res, const QString& what) {
+    const auto& req = recipe.request;
+    Block pred;
+    pred.kind = Block::Kind::table;
+    pred.table.headers = {what + " at " + qs(chem::format_number(req.temperature_c)) + " °C", "As planned",
+                          "From the actual amounts"};
+    pred.table.weights = {3, 2, 2};
+    pred.table.rows << QStringList{"pH", format_ph(recipe.predicted.ph), format_ph(res.predicted.ph)};
+    pred.table.rows << QStringList{"Ionic strength", format_mmol_per_l(recipe.predicted.ionic_strength_mol_per_l),
+                                   format_mmol_per_l(res.predicted.ionic_strength_mol_per_l)};
+    pred.table.rows << QStringList{"Buffer capacity β",
+                                   format_mmol_per_l(recipe.predicted.buffer_capacity_mol_per_l) + " per pH",
+                                   format_mmol_per_l(res.predicted.buffer_capacity_mol_per_l) + " per pH"};
+    for (size_t i = 0; i < recipe.composition.size(); ++i)
+        pred.table.rows << QStringList{qs(recipe.composition[i].reagent->name),
+                                       format_mmol_per_l(recipe.composition[i].mol_per_l),
+                                       format_mmol_per_l(res.composition[i].mol_per_l)};
+    for (int i = 0; i < pred.table.rows.size(); ++i) pred.table.flagged << false;
+    pred.table.flagged[0] = std::abs(res.predicted.ph - req.target_ph) > 0.05;
+    return pred;
+}
+
+/// Collects warnings for the sheet and the JSON summary, without repeating one.
+struct WarningSink {
+    Block block;
+    QJsonArray json;
+    QSet<QString> seen;
+    WarningSink() { block.kind = Block::Kind::warnings; }
+    void add(const chem::Warning& w, const chem::BatchResult* res = nullptr) {
+        if (!take(qs(w.code), qs(w.message))) return;
+        block.warnings << warning_line(w);
+        const chem::AmountCheck* c = nullptr;
+        if (res && w.code == "amount-out-of-tolerance")
+            for (const auto& ck : res->checks)
+                if (!ck.within_tolerance && w.message.rfind(ck.reagent + ":", 0) == 0) c = &ck;
+        json.append(warning_json(w, c));
+    }
+    void add(const QJsonObject& w) {
+        if (!take(w.value("code").toString(), w.value("message").toString())) return;
+        block.warnings << WarningLine{w.value("severity").toString(), w.value("code").toString(),
+                                      w.value("message").toString()};
+        json.append(w);
+    }
+    bool take(const QString& code, const QString& message) {
+        const QString key = code + "\n" + message;
+        if (seen.contains(key)) return false;
+        seen.insert(key);
+        return true;
+    }
+};
+
+Block numbered(const QStringList& items) {
+    Block b;
+    b.kind = Block::Kind::numbered;
+    static const QRegularExpression lead_number(QStringLiteral("^\\s*\\d+\\.\\s+"));
+    for (QString s : items) b.items << s.remove(lead_number);
+    return b;
+}
+
+Block bullets(const QStringList& items) {
+    Block b;
+    b.kind = Block::Kind::bullets;
+    b.items = items;
+    return b;
+}
+
+Block signoff(const chem::Batch& batch) {
+    Block sign;
+    sign.kind = Block::Kind::signoff;
+    sign.fields = {{"Prepared by", qs(batch.prepared_by)}, {"Checked by", qs(batch.checked_by)}};
+    return sign;
+}
+
+QStringList strings_of(const QJsonValue& v) {
+    QStringList out;
+    for (const QJsonValue& x : v.toArray()) out << x.toString();
+    return out;
+}
+
+std::vector<std::string> std_strings(const QJsonValue& v) {
+    std::vector<std::string> out;
+    for (const QJsonValue& x : v.toArray()) out.push_back(x.toString().toStdString());
+    return out;
+}
+
+QString purpose_of(const QJsonObject& input) {
+    return input.value("batch").toObject().value("purpose").toString(input.value("purpose").toString());
+}
+
+QJsonObject batch_summary(const chem::Batch& batch, const QString& expires_at, double shelf_h) {
+    QJsonObject b{{"id", qs(batch.id)}, {"tolerance_percent", batch.tolerance_fraction * 100},
+                  {"shelf_life_h", shelf_h}};
+    if (!batch.prepared_by.empty()) b["prepared_by"] = qs(batch.prepared_by);
+    if (!batch.prepared_at.empty()) b["prepared_at"] = qs(batch.prepared_at);
+    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
+    if (!batch.checked_by.empty()) b["checked_by"] = qs(batch.checked_by);
+    return b;
+}
+
+QString percent_text(double fraction) {
+    return QString::number(fraction * 100, 'f', fraction * 100 == std::round(fraction * 100) ? 0 : 1) + " %";
+}
+
+QString duration_text(double minutes) {
+    const long m = std::lround(minutes);
+    return QStringLiteral("%1 h %2 min").arg(m / 60).arg(m % 60, 2, 10, QChar('0'));
+}
+
+/// Runs a batch against a sub-recipe (a line's buffer) whose amounts are a subset of the batch's:
+/// errors name the entry's index in the whole "batch.actual" list.
+chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe, const chem::Batch& whole,
+                                  const std::vector<int>& indexes, double shelf_h) {
+    chem::Batch sub = whole;
+    sub.actual.clear();
+    for (int i : indexes) sub.actual.push_back(whole.actual[i]);
+    try {
+        return chem::evaluate_batch(lib, recipe, sub, shelf_h);
+    } catch (const chem::Error& e) {
+        static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
+        const QString f = qs(e.field());
+        const auto m = re.match(f);
+        if (!m.hasMatch()) throw;
+        const int k = m.captured(1).toInt();
+        const int original = k < int(indexes.size()) ? indexes[k] : k;
+        throw chem::Error(("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength())).toStdString(),
+                          e.message());
+    }
+}
+
 // ---- recipe -----------------------------------------------------------------------------------
 
 PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
@@ -236,8 +412,6 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     job.kind = "recipe";
     job.copies = copies;
     const QString title = recipe_title(lib, recipe, input);
-    const QString purpose = input.value("batch").toObject().value("purpose").toString(
-        input.value("purpose").toString());
     job.title = title + " — batch " + qs(batch.id);
 
     SheetDocument& d = job.sheet;
@@ -250,7 +424,7 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
                                                shelf_override ? QStringLiteral("entered") : shelf_source,
                                                !batch.expires_at.empty());
     d.blocks << heading("Batch")
-             << fields_block(batch_fields(batch, title, purpose, qs(res.expires_at), shelf_note));
+             << fields_block(batch_fields(batch, title, purpose_of(input), qs(res.expires_at), shelf_note));
 
     QList<KeyValue> plan = {
         {"Target pH", format_ph(req.target_ph) + " at " + qs(chem::format_number(req.temperature_c)) + " °C"},
@@ -262,98 +436,33 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     };
     d.blocks << heading("Plan") << fields_block(plan);
 
-    // Reagents: target, tolerance, actual, lot.
-    Block table;
-    table.kind = Block::Kind::table;
-    table.table.headers = {"Reagent", "Form", "Target", "Tolerance", "Actual", "Lot", "Check"};
-    table.table.weights = {3.4, 1.8, 1.6, 1.9, 1.5, 1.4, 1.4};
     QJsonArray checks_json;
-    QJsonArray all_warnings;
-    for (size_t k = 0; k < recipe.items.size(); ++k) {
-        const chem::RecipeItem& it = recipe.items[k];
-        const chem::AmountCheck& c = res.checks[k];
-        const chem::Reagent& r = lib.reagent(it.reagent);
-        QString target = format_amount(c.target) + " " + qs(c.unit);
-        if (it.as == "liquid" && it.mass_g && it.volume_ml)
-            target = c.unit == "g" ? format_amount(*it.mass_g) + " g\n(" + format_amount(*it.volume_ml) + " mL)"
-                                   : format_amount(*it.volume_ml) + " mL\n(" + format_amount(*it.mass_g) + " g)";
-        if (it.as.rfind("titrant", 0) == 0) target += "\n(predicted)";
-        const QString tol = "± " + qs(chem::format_number(batch.tolerance_fraction * 100)) + " %\n" +
-                            format_amount(c.low) + "–" + format_amount(c.high) + " " + qs(c.unit);
-        const QString actual = c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString();
-        QString check;
-        if (c.entered) {
-            const QString dev = (c.deviation_fraction >= 0 ? "+" : "") +
-                                QString::number(c.deviation_fraction * 100, 'f', 1) + " %";
-            check = (c.within_tolerance ? "OK\n" : "OUT\n") + dev;
-        }
-        table.table.rows << QStringList{qs(r.name) + "\n" + qs(r.formula) + ", " +
-                                            QString::number(r.molar_mass_g_per_mol, 'f', 2) + " g/mol",
-                                        form_text(r, it, req), target, tol, actual, qs(c.lot), check};
-        table.table.flagged << !c.within_tolerance;
-        checks_json.append(check_to_json(c));
-    }
-    d.blocks << heading("Reagents: target and actual amounts") << table;
+    d.blocks << heading("Reagents: target and actual amounts")
+             << reagent_table(lib, recipe, res, batch, &checks_json);
 
     // Steps, with degassing when the designer's steps leave it out (the line sheet adds organic).
-    Block steps;
-    steps.kind = Block::Kind::numbered;
+    QStringList steps;
     bool degas = false;
     for (const auto& s : recipe.steps) {
-        steps.items << qs(s);
+        steps << qs(s);
         degas |= qs(s).contains("degas", Qt::CaseInsensitive);
     }
     if (!degas) {
-        const int label_step = steps.items.indexOf(QRegularExpression("^Label the bottle.*"));
+        const int label_step = steps.indexOf(QRegularExpression("^Label the bottle.*"));
         const QString text = QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
                                             "unless the pump degasses in line.");
-        if (label_step >= 0) steps.items.insert(label_step, text);
-        else steps.items << text;
+        if (label_step >= 0) steps.insert(label_step, text);
+        else steps << text;
     }
-    d.blocks << heading("Steps") << steps;
+    d.blocks << heading("Steps") << numbered(steps);
+    d.blocks << heading("Predicted pH, ionic strength and buffer capacity")
+             << predicted_table(recipe, res, QStringLiteral("Predicted"));
 
-    // Predicted: as planned and from the actual amounts.
-    Block pred;
-    pred.kind = Block::Kind::table;
-    pred.table.headers = {"Predicted at " + qs(chem::format_number(req.temperature_c)) + " °C",
-                          "As planned", "From the actual amounts"};
-    pred.table.weights = {3, 2, 2};
-    pred.table.rows << QStringList{"pH", format_ph(recipe.predicted.ph), format_ph(res.predicted.ph)};
-    pred.table.rows << QStringList{"Ionic strength",
-                                   format_mmol_per_l(recipe.predicted.ionic_strength_mol_per_l),
-                                   format_mmol_per_l(res.predicted.ionic_strength_mol_per_l)};
-    pred.table.rows << QStringList{"Buffer capacity β",
-                                   format_mmol_per_l(recipe.predicted.buffer_capacity_mol_per_l) + " per pH",
-                                   format_mmol_per_l(res.predicted.buffer_capacity_mol_per_l) + " per pH"};
-    QJsonArray composition_json;
-    for (size_t i = 0; i < recipe.composition.size(); ++i) {
-        const chem::Reagent& r = *recipe.composition[i].reagent;
-        pred.table.rows << QStringList{qs(r.name), format_mmol_per_l(recipe.composition[i].mol_per_l),
-                                       format_mmol_per_l(res.composition[i].mol_per_l)};
-        composition_json.append(QJsonObject{{"reagent", qs(r.id)}, {"mol_per_l", res.composition[i].mol_per_l}});
-    }
-    for (int i = 0; i < pred.table.rows.size(); ++i) pred.table.flagged << false;
-    pred.table.flagged[0] = std::abs(res.predicted.ph - req.target_ph) > 0.05;
-    d.blocks << heading("Predicted pH, ionic strength and buffer capacity") << pred;
+    WarningSink warnings;
+    for (const auto& w : recipe.warnings) warnings.add(w);
+    for (const auto& w : res.warnings) warnings.add(w, &res);
+    d.blocks << heading("Checks") << warnings.block;
 
-    // Checks: the designer's warnings, then the batch's.
-    Block warnings;
-    warnings.kind = Block::Kind::warnings;
-    for (const auto& w : recipe.warnings) {
-        warnings.warnings << warning_line(w);
-        all_warnings.append(warning_json(w));
-    }
-    for (const auto& w : res.warnings) {
-        warnings.warnings << warning_line(w);
-        const chem::AmountCheck* c = nullptr;
-        if (w.code == "amount-out-of-tolerance")
-            for (const auto& ck : res.checks)
-                if (!ck.within_tolerance && w.message.rfind(ck.reagent + ":", 0) == 0) c = &ck;
-        all_warnings.append(warning_json(w, c));
-    }
-    d.blocks << heading("Checks") << warnings;
-
-    // Hazards of the reagents handled.
     HazardSet hz;
     std::set<std::string> seen;
     for (const auto& it : recipe.items) {
@@ -361,17 +470,9 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
         const chem::Reagent& r = lib.reagent(it.reagent);
         hz.add(qs(r.name), r.ghs_hazards, r.ghs_pictograms);
     }
-    Block cautions;
-    cautions.kind = Block::Kind::bullets;
-    cautions.items = cautions_with_standard(recipe.cautions);
-    d.blocks << heading("Hazards and cautions") << hz.block() << cautions;
+    d.blocks << heading("Hazards and cautions") << hz.block() << bullets(cautions_with_standard(recipe.cautions));
+    d.blocks << heading("Sign-off") << signoff(batch);
 
-    Block sign;
-    sign.kind = Block::Kind::signoff;
-    sign.fields = {{"Prepared by", qs(batch.prepared_by)}, {"Checked by", qs(batch.checked_by)}};
-    d.blocks << heading("Sign-off") << sign;
-
-    // The bottle label.
     LabelData label;
     label.title = title;
     for (size_t i = 0; i < res.composition.size(); ++i)
@@ -387,25 +488,398 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     label.qr_text = qs(batch.id);
     job.labels << label;
 
-    QJsonObject b{{"id", qs(batch.id)},
-                  {"tolerance_percent", batch.tolerance_fraction * 100},
-                  {"final_volume_ml", res.final_volume_ml},
-                  {"shelf_life_h", shelf_h},
-                  {"checks", checks_json},
-                  {"composition", composition_json},
-                  {"ph", res.predicted.ph},
-                  {"ionic_strength_mol_per_l", res.predicted.ionic_strength_mol_per_l},
-                  {"buffer_capacity_mol_per_l", res.predicted.buffer_capacity_mol_per_l}};
-    if (!batch.prepared_by.empty()) b["prepared_by"] = qs(batch.prepared_by);
-    if (!batch.prepared_at.empty()) b["prepared_at"] = qs(batch.prepared_at);
-    if (!res.expires_at.empty()) b["expires_at"] = qs(res.expires_at);
-    if (!batch.checked_by.empty()) b["checked_by"] = qs(batch.checked_by);
-    job.summary = QJsonObject{{"document", job.kind},
-                              {"title", title},
-                              {"target_ph", req.target_ph},
-                              {"planned_ph", recipe.predicted.ph},
-                              {"batch", b},
-                              {"warnings", all_warnings}};
+    QJsonObject b = batch_summary(batch, qs(res.expires_at), shelf_h);
+    QJsonArray composition_json;
+    for (const auto& c : res.composition)
+        composition_json.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
+    b["final_volume_ml"] = res.final_volume_ml;
+    b["checks"] = checks_json;
+    b["composition"] = composition_json;
+    b["ph"] = res.predicted.ph;
+    b["ionic_strength_mol_per_l"] = res.predicted.ionic_strength_mol_per_l;
+    b["buffer_capacity_mol_per_l"] = res.predicted.buffer_capacity_mol_per_l;
+    job.summary = QJsonObject{{"document", job.kind}, {"title", title}, {"target_ph", req.target_ph},
+                              {"planned_ph", recipe.predicted.ph}, {"batch", b}, {"warnings", warnings.json}};
+    return job;
+}
+
+// ---- line -------------------------------------------------------------------------------------
+
+/// Pictograms and H codes of a line's parts: its solvents, additives and buffer reagents.
+void add_line_hazards(const AppData& data, const chem::LineSpec& spec, HazardSet& hz) {
+    for (const auto& part : spec.parts) {
+        if (part.buffer) {
+            std::set<std::string> seen;
+            for (const auto& it : part.buffer->items)
+                if (seen.insert(it.reagent).second) {
+                    const chem::Reagent& r = data.reagents.reagent(it.reagent);
+                    hz.add(qs(r.name), r.ghs_hazards, r.ghs_pictograms);
+                }
+        } else if (const chem::Solvent* s = data.solvents.find_solvent(part.solvent)) {
+            hz.add(qs(s->name), s->ghs_hazards, s->ghs_pictograms);
+        }
+    }
+    for (const auto& a : spec.additives)
+        if (const chem::Reagent* r = data.reagents.find_reagent(a.additive))
+            hz.add(qs(r->name), r->ghs_hazards, r->ghs_pictograms);
+}
+
+/// "Acetonitrile 90 % v/v" lines and dissolved reagents in mmol/L, for a label.
+QStringList line_composition(const AppData& data, const chem::LineProfile& p) {
+    QStringList out;
+    for (const auto& [id, f] : p.solvent_fraction_v) {
+        const chem::Solvent* s = data.solvents.find_solvent(id);
+        out << (s ? qs(s->name) : qs(id)) + " " + percent_text(f) + " v/v";
+    }
+    for (const auto& so : p.solutes) {
+        const chem::Reagent* r = data.reagents.find_reagent(so.reagent);
+        out << (r ? dissolved_formula(*r) : qs(so.reagent)) + " " + QString::number(so.mmol_per_l, 'f', 2) + " mmol/L";
+    }
+    return out;
+}
+
+PrintJob line_job(const AppData& data, const QJsonObject& input_in, const QString& printed_at) {
+    QJsonObject input = input_in;
+    if (!input.contains("volume_ml") && input.value("bottle_ml").isDouble())
+        input["volume_ml"] = input.value("bottle_ml"); // a sheet for the whole bottle by default
+    QJsonObject doc = input;
+    doc.remove("batch");
+    const QJsonObject out = command_line(data, doc, {});
+    const double volume = out.value("volume_ml").toDouble();
+    const ParsedLine pl = line_from_json(data, doc, "", volume, false, nullptr);
+    const chem::LineRecipe lr = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
+
+    std::optional<int> copies;
+    std::optional<double> shelf_override;
+    const chem::Batch batch = batch_from_json(input, &copies, &shelf_override);
+    const QJsonObject shelf = out.value("shelf_life").toObject();
+    const double shelf_h = shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
+    const std::string expires = chem::check_batch_fields(batch, shelf_h);
+
+    // Each actual amount names a part (solvent id, "buffer", additive id) or, "buffer.<id>" or a
+    // plain reagent id, a reagent of the line's buffer.
+    std::map<std::string, int> part_entry;
+    std::vector<int> buffer_entries;
+    std::set<std::string> buffer_ids;
+    if (lr.buffer)
+        for (const auto& it : lr.buffer->items) buffer_ids.insert(it.reagent);
+    std::set<std::string> part_ids;
+    std::string known;
+    for (const auto& it : lr.items)
+        if (part_ids.insert(it.part).second) known += (known.empty() ? "" : ", ") + it.part;
+    for (const auto& id : buffer_ids) known += ", buffer." + id;
+    chem::Batch batch_for_buffer = batch;
+    for (size_t i = 0; i < batch.actual.size(); ++i) {
+        const std::string& r = batch.actual[i].reagent;
+        const std::string at = "batch.actual[" + std::to_string(i) + "].reagent";
+        if (r.rfind("buffer.", 0) == 0 && buffer_ids.count(r.substr(7))) {
+            batch_for_buffer.actual[i].reagent = r.substr(7);
+            buffer_entries.push_back(int(i));
+        } else if (part_ids.count(r)) {
+            if (part_entry.count(r)) throw chem::Error(at, "\"" + r + "\" is given twice");
+            part_entry[r] = int(i);
+        } else if (buffer_ids.count(r)) {
+            buffer_entries.push_back(int(i));
+        } else {
+            throw chem::Error(at, "\"" + r + "\" is not a part of this line (its parts: " + known + ")");
+        }
+    }
+
+    PrintJob job;
+    job.kind = "line";
+    job.copies = copies;
+    const QString title = out.value("name").toString();
+    job.title = title + " — batch " + qs(batch.id);
+    SheetDocument& d = job.sheet;
+    d.kind_title = QStringLiteral("Mobile-phase line preparation record");
+    d.title = title;
+    d.batch_id = qs(batch.id);
+    d.footer = "Printed " + printed_at + " by PhasePlan from the plan. " + footer_note;
+    const QString shelf_note =
+        shelf_note_text(shelf_h, QStringLiteral("kind ") + shelf.value("kind").toString(),
+                        shelf_override ? QStringLiteral("entered") : shelf.value("source").toString(),
+                        !batch.expires_at.empty());
+    d.blocks << heading("Batch")
+             << fields_block(batch_fields(batch, title, purpose_of(input), qs(expires), shelf_note));
+
+    QStringList by_volume;
+    for (const auto& [id, f] : lr.profile.solvent_fraction_v) by_volume << qs(id) + " " + percent_text(f);
+    QList<KeyValue> plan = {
+        {"Volume to prepare", qs(chem::format_number(volume)) + " mL"},
+        {"Composition by volume", by_volume.join(", ")},
+        {"UV cutoff", qs(chem::format_number(lr.profile.uv_cutoff_nm)) + " nm" +
+                          (lr.profile.uv_limited_by.empty() ? QString() : " (set by " + qs(lr.profile.uv_limited_by) + ")")},
+        {"pH of the aqueous part", lr.profile.ph ? format_ph(*lr.profile.ph) + " (" + qs(lr.profile.ph_basis) + ")"
+                                                 : QStringLiteral("not predicted (no aqueous buffer)")},
+    };
+    if (lr.contraction_ml > 0)
+        plan << KeyValue{"Contraction on mixing", format_amount(lr.contraction_ml) + " mL (about " +
+                                                      format_amount(lr.mixed_volume_ml) + " mL after mixing)"};
+    d.blocks << heading("Plan") << fields_block(plan);
+
+    // Parts, measured separately.
+    WarningSink warnings;
+    QJsonArray checks_json;
+    Block parts;
+    parts.kind = Block::Kind::table;
+    parts.table.headers = {"Part", "Kind", "Target volume", "Target mass", "Tolerance", "Actual", "Lot", "Check"};
+    parts.table.weights = {2.6, 1.3, 1.6, 1.6, 1.9, 1.5, 1.3, 1.3};
+    for (const auto& it : lr.items) {
+        std::optional<double> actual;
+        std::string unit = it.volume_ml ? "mL" : "g";
+        std::string lot;
+        if (auto e = part_entry.find(it.part); e != part_entry.end()) {
+            const chem::ActualAmount& a = batch.actual[e->second];
+            const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
+            unit = a.mass_g ? "g" : "mL";
+            if (unit == "g" && !it.mass_g) throw chem::Error(at + ".mass_g", it.part + " has no target mass: give volume_ml");
+            if (unit == "mL" && !it.volume_ml) throw chem::Error(at + ".volume_ml", it.part + " has no target volume: give mass_g");
+            actual = a.mass_g ? a.mass_g : a.volume_ml;
+            lot = a.lot;
+        }
+        const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
+        chem::AmountCheck c = chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
+        c.lot = lot;
+        if (!c.within_tolerance) warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction));
+        parts.table.rows << QStringList{qs(it.part), qs(it.kind),
+                                        it.volume_ml ? format_amount(*it.volume_ml) + " mL" : QString(),
+                                        it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),
+                                        band_text(c, batch),
+                                        c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
+                                        qs(c.lot), check_text(c)};
+        parts.table.flagged << !c.within_tolerance;
+        checks_json.append(check_to_json(c));
+    }
+    d.blocks << heading("Parts: measure each separately, then combine") << parts;
+
+    std::optional<chem::BatchResult> bres;
+    if (lr.buffer) {
+        bres = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries, shelf_h);
+        for (const auto& c : bres->checks) checks_json.append(check_to_json(c));
+        d.blocks << heading("Aqueous buffer (" + qs(chem::format_number(lr.buffer->request.volume_ml)) +
+                            " mL): target and actual amounts")
+                 << reagent_table(data.reagents, *lr.buffer, *bres, batch, nullptr);
+        d.blocks << heading("Buffer steps") << numbered([&] {
+            QStringList l;
+            for (const auto& s : lr.buffer->steps) l << qs(s);
+            return l;
+        }());
+    }
+    d.blocks << heading(lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"))
+             << numbered(strings_of(out.value("steps")));
+    if (!out.value("notes").toArray().isEmpty()) d.blocks << bullets(strings_of(out.value("notes")));
+    if (lr.buffer)
+        d.blocks << heading("Predicted for the aqueous buffer")
+                 << predicted_table(*lr.buffer, *bres, QStringLiteral("Buffer alone"));
+
+    for (const QJsonValue& w : out.value("warnings").toArray()) warnings.add(w.toObject());
+    if (lr.buffer) {
+        for (const auto& w : lr.buffer->warnings) warnings.add(w);
+        for (const auto& w : bres->warnings) warnings.add(w, &*bres);
+    }
+    d.blocks << heading("Checks") << warnings.block;
+
+    HazardSet hz;
+    add_line_hazards(data, pl.spec, hz);
+    d.blocks << heading("Hazards and cautions") << hz.block()
+             << bullets(cautions_with_standard(std_strings(out.value("cautions"))));
+    d.blocks << heading("Sign-off") << signoff(batch);
+
+    LabelData label;
+    label.title = title;
+    label.composition = line_composition(data, bres ? lr.profile : lr.profile);
+    if (lr.profile.ph) {
+        const double ph = bres ? bres->predicted.ph : *lr.profile.ph;
+        label.ph = "pH " + format_ph(ph) + " (aqueous part)";
+    }
+    label.batch_id = qs(batch.id);
+    label.prepared_at = format_datetime(qs(batch.prepared_at));
+    label.expires_at = format_datetime(qs(expires));
+    label.prepared_by = qs(batch.prepared_by);
+    label.pictograms = sorted_pictograms(hz.pictograms);
+    label.hazard_codes = hz.codes();
+    label.qr_text = qs(batch.id);
+    job.labels << label;
+
+    QJsonObject b = batch_summary(batch, qs(expires), shelf_h);
+    b["checks"] = checks_json;
+    if (bres) {
+        QJsonArray comp;
+        for (const auto& c : bres->composition)
+            comp.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
+        b["buffer_composition"] = comp;
+        b["ph"] = bres->predicted.ph;
+        b["ionic_strength_mol_per_l"] = bres->predicted.ionic_strength_mol_per_l;
+        b["buffer_capacity_mol_per_l"] = bres->predicted.buffer_capacity_mol_per_l;
+    }
+    job.summary = QJsonObject{{"document", job.kind}, {"title", title}, {"volume_ml", volume},
+                              {"batch", b}, {"warnings", warnings.json}};
+    return job;
+}
+
+// ---- sequence ---------------------------------------------------------------------------------
+
+PrintJob sequence_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
+    QJsonObject doc = input;
+    doc.remove("batch");
+    const QJsonObject out = command_sequence(data, doc, {});
+    std::optional<int> copies;
+    std::optional<double> shelf_override;
+    const chem::Batch batch = batch_from_json(input, &copies, &shelf_override);
+    if (!batch.actual.empty())
+        throw chem::Error("batch.actual", "a sequence sheet takes no amounts: print each line's own sheet "
+                                          "(phaseplan-cli sheet on the line) to record them");
+    const QJsonObject lines_in = doc.value("lines").toObject();
+    const QJsonObject lines_out = out.value("lines").toObject();
+    double shortest = 1e9;
+    for (const QString& key : lines_out.keys())
+        shortest = std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
+    const std::string expires = chem::check_batch_fields(batch, shelf_override.value_or(shortest < 1e9 ? shortest : 48));
+
+    PrintJob job;
+    job.kind = "sequence";
+    job.copies = copies;
+    const QString title = input.value("name").isString()
+                              ? input.value("name").toString()
+                              : "Sequence from " + format_datetime(out.value("start").toString()) + ", " +
+                                    QString::number(out.value("injections").toInt()) + " injections";
+    job.title = title + " — batch " + qs(batch.id);
+    SheetDocument& d = job.sheet;
+    d.kind_title = QStringLiteral("Sequence solvent plan");
+    d.title = title;
+    d.batch_id = qs(batch.id);
+    d.footer = "Printed " + printed_at + " by PhasePlan from the plan. " + footer_note;
+
+    QList<KeyValue> head = {
+        {"Batch id", qs(batch.id)},
+        {"Purpose", purpose_of(input)},
+        {"Prepared by", qs(batch.prepared_by)},
+        {"Prepared at", format_datetime(qs(batch.prepared_at))},
+        {"Start", format_datetime(out.value("start").toString())},
+        {"End of the last injection", format_datetime(out.value("end").toString())},
+        {"Injections", QString::number(out.value("injections").toInt())},
+        {"Run time", duration_text(out.value("total_min").toDouble())},
+    };
+    if (out.contains("standby_end"))
+        head << KeyValue{"Standby flow until", format_datetime(out.value("standby_end").toString())};
+    head << KeyValue{"Checked by", qs(batch.checked_by)};
+    d.blocks << heading("Sequence") << fields_block(head);
+
+    // Each line: what to prepare and whether the bottle on the instrument lasts.
+    Block lines;
+    lines.kind = Block::Kind::table;
+    lines.table.headers = {"Line", "Contents", "Needed (priming incl.)", "Prepare at least", "Bottle on hand",
+                           "Lasts?", "Shelf life"};
+    lines.table.weights = {0.8, 2.6, 1.6, 1.8, 1.7, 2.6, 1.4};
+    for (const QString& key : lines_out.keys()) {
+        const QJsonObject l = lines_out.value(key).toObject();
+        QString lasts;
+        if (l.value("runs_dry").toBool())
+            lasts = "NO: runs dry during injection " + QString::number(l.value("dry_after_injection").toInt()) +
+                    ", at " + format_datetime(l.value("dry_at").toString());
+        else
+            lasts = "yes, " + format_amount(l.value("spare_ml").toDouble()) + " mL spare";
+        lines.table.rows << QStringList{
+            key, l.value("name").toString(), format_amount(l.value("required_ml").toDouble()) + " mL",
+            format_amount(l.value("min_bottle_ml").toDouble()) + " mL\n(bottle: " +
+                format_amount(l.value("suggested_bottle_ml").toDouble()) + " mL)",
+            format_amount(l.value("bottle_ml").toDouble()) + " mL\n(residue " +
+                format_amount(l.value("residue_ml").toDouble()) + " mL)",
+            lasts, qs(chem::format_number(l.value("shelf_life_h").toDouble())) + " h"};
+        lines.table.flagged << l.value("runs_dry").toBool();
+    }
+    d.blocks << heading("Lines: volume to prepare and bottles") << lines;
+    d.blocks << bullets({QStringLiteral("\"Prepare at least\" adds the safety margin and the residue below the "
+                                        "inlet filter to what the sequence needs.")});
+
+    // One batch per line recipe across the plan.
+    if (!out.value("batches").toArray().isEmpty()) {
+        Block batches;
+        batches.kind = Block::Kind::table;
+        batches.table.headers = {"Line recipe", "Lines", "Prepare", "First use", "Last use", "One batch lasts?"};
+        batches.table.weights = {3, 0.9, 1.6, 1.9, 1.9, 1.6};
+        for (const QJsonValue& v : out.value("batches").toArray()) {
+            const QJsonObject b = v.toObject();
+            batches.table.rows << QStringList{
+                b.value("recipe").toString(), strings_of(b.value("lines")).join(", "),
+                format_amount(b.value("prepare_ml").toDouble()) + " mL",
+                format_datetime(b.value("first_use").toString()), format_datetime(b.value("last_use").toString()),
+                b.value("one_batch_lasts").toBool() ? QStringLiteral("yes") : QStringLiteral("no: make a fresh batch")};
+            batches.table.flagged << !b.value("one_batch_lasts").toBool();
+        }
+        d.blocks << heading("Batches per line recipe") << batches;
+    }
+
+    // Waste.
+    const double waste = out.value("waste_ml").toDouble();
+    QList<KeyValue> waste_fields = {
+        {"Waste to collect (priming included)", format_amount(waste) + " mL"},
+        {"Waste container, free volume", out.value("waste_capacity_ml").isDouble()
+                                             ? format_amount(out.value("waste_capacity_ml").toDouble()) + " mL"
+                                             : QStringLiteral("not given")},
+    };
+    d.blocks << heading("Waste") << fields_block(waste_fields);
+
+    // The sequence rows with each line's volume.
+    Block rows;
+    rows.kind = Block::Kind::table;
+    rows.table.headers = {"#", "Label", "Method", "Injections", "Start", "End"};
+    const QStringList keys = lines_out.keys();
+    for (const QString& k : keys) rows.table.headers << k + " (mL)";
+    rows.table.weights = {0.6, 3.2, 1.5, 1.1, 1.7, 1.7};
+    for (int i = 0; i < keys.size(); ++i) rows.table.weights << 1.0;
+    int n = 0;
+    for (const QJsonValue& v : out.value("rows").toArray()) {
+        const QJsonObject r = v.toObject();
+        QStringList cells{QString::number(++n), r.value("label").toString(), r.value("method").toString(),
+                          QString::number(r.value("first_injection").toInt()) + "–" +
+                              QString::number(r.value("last_injection").toInt()),
+                          format_datetime(r.value("start").toString()), format_datetime(r.value("end").toString())};
+        for (const QString& k : keys) cells << format_amount(r.value("volume_ml").toObject().value(k).toDouble());
+        rows.table.rows << cells;
+        rows.table.flagged << false;
+    }
+    d.blocks << heading("Sequence rows") << rows;
+
+    WarningSink warnings;
+    for (const QJsonValue& w : out.value("warnings").toArray()) warnings.add(w.toObject());
+    d.blocks << heading("Checks") << warnings.block;
+
+    // Hazards over every line; one label per line.
+    HazardSet all;
+    for (const QString& key : keys) {
+        const QJsonObject lo = lines_in.value(key).toObject();
+        const QJsonObject l = lines_out.value(key).toObject();
+        LabelData label;
+        label.title = "Line " + key + ": " + l.value("name").toString();
+        HazardSet hz;
+        if (lo.contains("parts")) {
+            const ParsedLine pl = line_from_json(data, lo, ("lines." + key).toStdString(),
+                                                 l.value("required_ml").toDouble(), false, nullptr);
+            add_line_hazards(data, pl.spec, hz);
+            add_line_hazards(data, pl.spec, all);
+            label.composition = line_composition(data, chem::profile_line(data.solvents, data.reagents, pl.spec));
+        }
+        if (l.value("ph").isDouble()) label.ph = "pH " + format_ph(l.value("ph").toDouble()) + " (aqueous part)";
+        const QString id = qs(batch.id) + "-" + key;
+        label.batch_id = id;
+        label.qr_text = id;
+        label.prepared_at = format_datetime(qs(batch.prepared_at));
+        if (!batch.expires_at.empty()) label.expires_at = format_datetime(qs(batch.expires_at));
+        else if (!batch.prepared_at.empty())
+            label.expires_at = format_datetime(qs(chem::add_hours(batch.prepared_at,
+                                                                  l.value("shelf_life_h").toDouble(48), "batch.prepared_at")));
+        label.prepared_by = qs(batch.prepared_by);
+        label.pictograms = sorted_pictograms(hz.pictograms);
+        label.hazard_codes = hz.codes();
+        job.labels << label;
+    }
+    d.blocks << heading("Hazards and cautions") << all.block() << bullets(cautions_with_standard({}));
+    d.blocks << heading("Sign-off") << signoff(batch);
+
+    job.summary = QJsonObject{{"document", job.kind}, {"title", title},
+                              {"batch", batch_summary(batch, qs(expires), shortest < 1e9 ? shortest : 48)},
+                              {"end", out.value("end")}, {"warnings", warnings.json}};
     return job;
 }
 
@@ -414,6 +888,7 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
 // ---- formats ----------------------------------------------------------------------------------
 
 QString format_amount(double v) {
+    if (v == 0) return QStringLiteral("0");
     const double a = std::abs(v);
     const int decimals = a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4;
     return QString::number(v, 'f', decimals);
@@ -500,8 +975,9 @@ double default_shelf_life_h(const AppData& data, const QString& kind, QString* s
 
 PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
     const QString kind = document_kind(input);
-    if (kind == "recipe") return recipe_job(data, input, printed_at);
-    throw chem::Error("(document)", "printing a " + kind.toStdString() + " is not available yet");
+    if (kind == "line") return line_job(data, input, printed_at);
+    if (kind == "sequence") return sequence_job(data, input, printed_at);
+    return recipe_job(data, input, printed_at);
 }
 
 } // namespace phaseplan::print

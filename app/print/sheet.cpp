@@ -348,22 +348,23 @@ private:
             const qreal side = c_.mm(19);
             const qreal cell = c_.mm(21.5);
             const QFont cap = make_font(6.2);
-            const qreal cap_h = 2 * c_.line_height(cap);
+            const qreal cap_h = 3 * c_.line_height(cap);
             const int per_row = std::max(1, int(width_ / cell));
             for (int i = 0; i < pics.size(); i += per_row) {
                 need(side + cap_h + c_.mm(1));
                 for (int j = i; j < std::min<int>(i + per_row, pics.size()); ++j) {
                     const qreal x = left_ + (j - i) * cell;
                     if (QPainter* p = c_.painter()) paint_ghs_pictogram(*p, QRectF(x, y_, side, side), pics[j]);
-                    c_.text(QRectF(x - c_.mm(1), y_ + side, cell, cap_h), cap,
-                            pics[j] + "\n" + ghs_pictogram_name(pics[j]), Qt::AlignHCenter, muted);
+                    c_.text(QRectF(x - c_.mm(1), y_ + side, side + c_.mm(2), cap_h), cap,
+                            pics[j] + "\n" + ghs_pictogram_name(pics[j]),
+                            Qt::AlignHCenter | Qt::TextWordWrap, muted);
                 }
                 y_ += side + cap_h + c_.mm(1.5);
             }
         }
         const QFont cf = make_font(8.5, true);
         const QFont f = make_font(8.5);
-        const qreal gutter = c_.mm(15);
+        const qreal gutter = c_.mm(17);
         for (const HazardLine& h : b.hazard_lines) {
             const QString s = (h.statement.isEmpty() ? QStringLiteral("(not in this program's table: see the safety data sheet)")
                                                      : h.statement) +
