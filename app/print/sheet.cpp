@@ -59,6 +59,8 @@ QFont make_font(qreal points, bool bold = false) {
     f.setPointSizeF(points);
     f.setBold(bold);
     f.setStyleHint(QFont::SansSerif);
+    // No ligatures: "ff" stays two letters, so the PDF's text is searchable as typed.
+    f.setStyleStrategy(QFont::PreferNoShaping);
     return f;
 }
 
@@ -285,7 +287,10 @@ private:
         auto header = [&] { y_ += table_row(t.headers, widths, hf, false, header_fill, 0); };
         const qreal hh = table_row(t.headers, widths, hf, true, {}, 0);
         const qreal first = t.rows.isEmpty() ? 0 : table_row(t.rows[0], widths, cf, true, {}, min_row);
-        need(hh + first);
+        qreal total = hh;
+        for (const QStringList& row : t.rows) total += table_row(row, widths, cf, true, {}, min_row);
+        // A short table stays on one page; a long one starts where it is and repeats its header.
+        need(total < 0.4 * (bottom_ - top_) ? total : hh + first);
         header();
         for (int r = 0; r < t.rows.size(); ++r) {
             const qreal h = table_row(t.rows[r], widths, cf, true, {}, min_row);
