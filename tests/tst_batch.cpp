@@ -95,6 +95,7 @@ private slots:
     void expiryFromShelfLife();
 
     void historyKeepsEveryChange();
+    void proposedIdsCountUpPerDay();
     void printedBatchRefusesSilentEdits();
     void historyIsAppendOnlyInTheDatabase();
     void migrationCreatesBatchTables();
@@ -448,6 +449,19 @@ void TestBatch::historyKeepsEveryChange() {
     QCOMPARE(edits, 4); // mass_g and lot of the salt; the acid's volume; checked_by
     // The stored batch feeds back into the sheet command unchanged.
     QCOMPARE(now.to_input().value("batch").toObject().value("checked_by").toString(), QString("M. Lindqvist"));
+}
+
+void TestBatch::proposedIdsCountUpPerDay() {
+    TempDb t;
+    BatchStore store(t.db);
+    const QDate day(2026, 12, 1);
+    QCOMPARE(store.propose_id("KV", day), QString("KV-20261201-001"));
+    BatchRecord rec = demo_record();
+    rec.id = store.propose_id("KV", day);
+    store.create(rec, "R. Okafor");
+    QCOMPARE(store.propose_id("KV", day), QString("KV-20261201-002"));
+    QCOMPARE(store.propose_id("KV", day.addDays(1)), QString("KV-20261202-001"));
+    QCOMPARE(store.propose_id("QC", day), QString("QC-20261201-001"));
 }
 
 void TestBatch::printedBatchRefusesSilentEdits() {

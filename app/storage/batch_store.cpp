@@ -7,6 +7,7 @@
 #include <QSqlError>
 #include <QSqlQuery>
 
+#include <algorithm>
 #include <map>
 
 namespace phaseplan::storage {
@@ -289,6 +290,19 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
             " VALUES (?, 1, ?, ?, 'create', ?, NULL, ?)",
             {batch.id, t, who.trimmed(), field, value_text(value)});
     tx.commit();
+}
+
+QString BatchStore::propose_id(const QString& prefix_in, const QDate& date) const {
+    const QString prefix = (prefix_in.trimmed().isEmpty() ? QStringLiteral("B") : prefix_in.trimmed()) + "-" +
+                           date.toString(QStringLiteral("yyyyMMdd")) + "-";
+    QSqlQuery q = run(db_, "SELECT id FROM batches WHERE substr(id, 1, ?) = ?", {prefix.size(), prefix});
+    int highest = 0;
+    while (q.next()) {
+        bool ok = false;
+        const int n = q.value(0).toString().mid(prefix.size()).toInt(&ok);
+        if (ok) highest = std::max(highest, n);
+    }
+    return prefix + QStringLiteral("%1").arg(highest + 1, 3, 10, QChar('0'));
 }
 
 std::optional<BatchRecord> BatchStore::load(const QString& id) const {

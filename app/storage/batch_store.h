@@ -83,6 +83,10 @@ public:
     /// "batch.id" when the id is taken, "who" when empty, batch fields as from_input.
     void create(const BatchRecord& batch, const QString& who);
 
+    /// A fresh id for a batch prepared on `date`: "<prefix>-YYYYMMDD-NNN", NNN one above the
+    /// highest taken for that prefix and day (001 for the first).
+    QString propose_id(const QString& prefix, const QDate& date) const;
+
     std::optional<BatchRecord> load(const QString& id) const;
     /// Ids, newest first.
     QStringList list() const;
