@@ -19,7 +19,9 @@ std::string fmt(double v, int decimals = 1) {
     return format_number(std::round(v * scale) / scale);
 }
 
-std::string letter(int l) { return std::string(1, line_letter(l)); }
+std::string letter(int l) {
+    return std::string(1, line_letter(l));
+}
 
 std::string line_title(const SequenceCheckInput& c, int l) {
     const std::string& n = c.names[l];
@@ -28,7 +30,8 @@ std::string line_title(const SequenceCheckInput& c, int l) {
 
 std::string join(const std::vector<std::string>& v) {
     std::string out;
-    for (std::size_t i = 0; i < v.size(); ++i) out += (i ? ", " : "") + v[i];
+    for (std::size_t i = 0; i < v.size(); ++i)
+        out += (i ? ", " : "") + v[i];
     return out;
 }
 
@@ -46,20 +49,24 @@ std::vector<int> methods_run(const SequencePlan& plan) {
     std::vector<int> out;
     std::set<int> seen;
     for (const auto& r : plan.rows)
-        if (seen.insert(r.method).second) out.push_back(r.method);
+        if (seen.insert(r.method).second)
+            out.push_back(r.method);
     return out;
 }
 
 /// Every linear stretch the sequence runs through, with the method's name (standby included).
 struct NamedStretch {
-    std::string where;  ///< method name or "standby"
+    std::string where; ///< method name or "standby"
     Stretch s;
 };
 std::vector<NamedStretch> all_stretches(const SequenceInput& in, const SequencePlan& plan) {
     std::vector<NamedStretch> out;
     for (int mi : methods_run(plan))
-        for (const auto& s : stretches(in.methods[mi])) out.push_back({in.methods[mi].name, s});
-    if (plan.standby_min > 0) out.push_back({"standby", {0, plan.standby_min, plan.standby_percent, plan.standby_percent}});
+        for (const auto& s : stretches(in.methods[mi]))
+            out.push_back({in.methods[mi].name, s});
+    if (plan.standby_min > 0)
+        out.push_back(
+            {"standby", {0, plan.standby_min, plan.standby_percent, plan.standby_percent}});
     return out;
 }
 
@@ -88,15 +95,18 @@ void immiscible_within(const SolventLibrary& lib, const LineProfile& p, const st
     for (auto i = p.solvent_fraction_v.begin(); i != p.solvent_fraction_v.end(); ++i)
         for (auto j = std::next(i); j != p.solvent_fraction_v.end(); ++j) {
             const auto m = lib.miscibility(i->first, j->first);
-            if (m && static_cast<int>(*m) > static_cast<int>(c.worst)) c = {*m, i->first, j->first};
+            if (m && static_cast<int>(*m) > static_cast<int>(c.worst))
+                c = {*m, i->first, j->first};
         }
-    if (c.worst == Miscibility::miscible) return;
+    if (c.worst == Miscibility::miscible)
+        return;
     const bool imm = c.worst == Miscibility::immiscible;
-    CheckWarning w = make("immiscible", imm ? Sev::warning : Sev::caution, line,
-                          title + " mixes " + c.a + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) + " %) with " + c.b +
-                              " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) + " %), which are " +
-                              (imm ? "immiscible: the bottle separates into two phases."
-                                   : "only partly miscible: check that the bottle stays one clear phase."));
+    CheckWarning w = make(
+        "immiscible", imm ? Sev::warning : Sev::caution, line,
+        title + " mixes " + c.a + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) + " %) with " +
+            c.b + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) + " %), which are " +
+            (imm ? "immiscible: the bottle separates into two phases."
+                 : "only partly miscible: check that the bottle stays one clear phase."));
     w.text("solvent_a", c.a);
     w.text("solvent_b", c.b);
     w.text("miscibility", miscibility_name(c.worst));
@@ -109,7 +119,8 @@ std::map<std::string, double> group_mmol(const SolventLibrary& lib, const LinePr
     std::map<std::string, double> g;
     for (const Solute& s : p.solutes)
         if (const Additive* a = lib.find_additive(s.reagent))
-            if (!a->solubility_group.empty()) g[a->solubility_group] += s.mmol_per_l;
+            if (!a->solubility_group.empty())
+                g[a->solubility_group] += s.mmol_per_l;
     return g;
 }
 
@@ -120,16 +131,21 @@ struct WorstLoad {
     bool found = false;
 };
 
-void precipitation_warning(const WorstLoad& w, const std::string& line, std::vector<CheckWarning>& out) {
+void precipitation_warning(const WorstLoad& w, const std::string& line,
+                           std::vector<CheckWarning>& out) {
     const double r = w.load.ratio();
-    if (r <= 0.8) return;
+    if (r <= 0.8)
+        return;
     const bool over = r > 1.0;
-    std::string msg = (over ? "Buffer salt " : "Buffer salt near its limit: ") + w.load.group + " reaches " +
-                      fmt(w.load.mmol_per_l, 2) + " mmol/L at " + fmt(100 * w.load.organic_fraction_v) + " % organic " +
-                      w.where + ", " + (over ? "above" : "close to") + " the limit of " + fmt(w.load.limit_mmol_per_l, 2) +
-                      " mmol/L in water–" + w.load.organic + " (" +
-                      (w.load.basis == "published" ? "published data" : "a conservative rule of thumb") + ").";
-    if (over) msg += " It may precipitate in the mixer, the column or the check valves: lower the salt or the organic end.";
+    std::string msg =
+        (over ? "Buffer salt " : "Buffer salt near its limit: ") + w.load.group + " reaches " +
+        fmt(w.load.mmol_per_l, 2) + " mmol/L at " + fmt(100 * w.load.organic_fraction_v) +
+        " % organic " + w.where + ", " + (over ? "above" : "close to") + " the limit of " +
+        fmt(w.load.limit_mmol_per_l, 2) + " mmol/L in water–" + w.load.organic + " (" +
+        (w.load.basis == "published" ? "published data" : "a conservative rule of thumb") + ").";
+    if (over)
+        msg += " It may precipitate in the mixer, the column or the check valves: lower the salt "
+               "or the organic end.";
     CheckWarning cw = make("precipitation", over ? Sev::warning : Sev::caution, line, msg);
     cw.text("group", w.load.group);
     cw.text("organic", w.load.organic);
@@ -139,7 +155,8 @@ void precipitation_warning(const WorstLoad& w, const std::string& line, std::vec
     cw.number("mmol_per_l", w.load.mmol_per_l);
     cw.number("limit_mmol_per_l", w.load.limit_mmol_per_l);
     cw.number("organic_fraction_v", w.load.organic_fraction_v);
-    if (w.where.rfind("in method", 0) == 0) cw.number("t_min", w.t_min);
+    if (w.where.rfind("in method", 0) == 0)
+        cw.number("t_min", w.t_min);
     out.push_back(cw);
 }
 
@@ -154,57 +171,76 @@ void consider(WorstLoad& worst, const SaltLoad& l, const std::string& where, dou
 
 } // namespace
 
-bool detector_reads_uv(const std::string& t) { return t == "uv" || t == "dad" || t == "pda" || t == "uv-ms"; }
-bool detector_needs_volatile(const std::string& t) { return t == "ms" || t == "uv-ms" || t == "elsd" || t == "cad"; }
+bool detector_reads_uv(const std::string& t) {
+    return t == "uv" || t == "dad" || t == "pda" || t == "uv-ms";
+}
+bool detector_needs_volatile(const std::string& t) {
+    return t == "ms" || t == "uv-ms" || t == "elsd" || t == "cad";
+}
 const std::vector<std::string>& detector_types() {
-    static const std::vector<std::string> t = {"uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad", "fluorescence", "ri"};
+    static const std::vector<std::string> t = {"uv",   "dad", "pda",          "uv-ms", "ms",
+                                               "elsd", "cad", "fluorescence", "ri"};
     return t;
 }
 
-std::string default_clock(double minutes) { return "t+" + fmt(minutes, 1) + " min"; }
+std::string default_clock(double minutes) {
+    return "t+" + fmt(minutes, 1) + " min";
+}
 
 double SaltLoad::ratio() const {
-    if (limit_mmol_per_l <= 0) return mmol_per_l > 0 ? std::numeric_limits<double>::infinity() : 0;
+    if (limit_mmol_per_l <= 0)
+        return mmol_per_l > 0 ? std::numeric_limits<double>::infinity() : 0;
     return mmol_per_l / limit_mmol_per_l;
 }
 
-std::vector<SaltLoad> salt_loads(const SolventLibrary& lib, const std::array<const LineProfile*, max_lines>& profiles,
+std::vector<SaltLoad> salt_loads(const SolventLibrary& lib,
+                                 const std::array<const LineProfile*, max_lines>& profiles,
                                  const LineValues& percent) {
     std::map<std::string, double> groups;
     std::map<std::string, double> organic; // solvent id → volume fraction of the mixture
     double organic_total = 0;
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = profiles[l];
-        if (!p || !p->described || percent[l] <= 0) continue;
+        if (!p || !p->described || percent[l] <= 0)
+            continue;
         const double share = percent[l] / 100.0;
-        for (const auto& [g, c] : group_mmol(lib, *p)) groups[g] += share * c;
+        for (const auto& [g, c] : group_mmol(lib, *p))
+            groups[g] += share * c;
         for (const auto& [s, f] : p->solvent_fraction_v) {
             const Solvent* sv = lib.find_solvent(s);
-            if (sv && sv->aqueous) continue;
+            if (sv && sv->aqueous)
+                continue;
             organic[s] += share * f;
             organic_total += share * f;
         }
     }
     std::vector<SaltLoad> out;
     for (const auto& [g, c] : groups) {
-        if (c <= 0 || organic_total <= 0) continue;
+        if (c <= 0 || organic_total <= 0)
+            continue;
         const auto tables = lib.solubility_tables(g);
-        if (tables.empty()) continue;
+        if (tables.empty())
+            continue;
         // The tables of the organics present; if one present organic has none, every table of
         // the group (the most restrictive wins: conservative).
         std::vector<const SolubilityTable*> use;
         bool missing = false;
         for (const auto& [s, f] : organic) {
-            if (f <= 0) continue;
-            if (const SolubilityTable* t = lib.solubility(g, s)) use.push_back(t);
-            else missing = true;
+            if (f <= 0)
+                continue;
+            if (const SolubilityTable* t = lib.solubility(g, s))
+                use.push_back(t);
+            else
+                missing = true;
         }
-        if (missing) use = tables;
+        if (missing)
+            use = tables;
         SaltLoad best;
         bool have = false;
         for (const SolubilityTable* t : use) {
             const auto lim = t->limit_mmol_per_l(organic_total);
-            if (!lim) continue;
+            if (!lim)
+                continue;
             if (!have || *lim < best.limit_mmol_per_l) {
                 best.limit_mmol_per_l = *lim;
                 best.organic = t->organic;
@@ -213,7 +249,8 @@ std::vector<SaltLoad> salt_loads(const SolventLibrary& lib, const std::array<con
                 have = true;
             }
         }
-        if (!have) continue;
+        if (!have)
+            continue;
         best.group = g;
         best.mmol_per_l = c;
         best.organic_fraction_v = organic_total;
@@ -227,31 +264,37 @@ std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const Sequence
     std::array<bool, max_lines> used{};
     for (int mi : methods_run(plan))
         for (int l = 0; l < max_lines; ++l)
-            if (plan.methods[mi].max_percent[l] > 0) used[l] = true;
+            if (plan.methods[mi].max_percent[l] > 0)
+                used[l] = true;
     if (plan.standby_min > 0)
         for (int l = 0; l < max_lines; ++l)
-            if (plan.standby_percent[l] > 0) used[l] = true;
+            if (plan.standby_percent[l] > 0)
+                used[l] = true;
     return used;
 }
 
 // (a) UV cutoff of each line in use against the detector wavelength.
 std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
-    if (!c.detector || !detector_reads_uv(c.detector->type) || !c.detector->wavelength_nm) return out;
+    if (!c.detector || !detector_reads_uv(c.detector->type) || !c.detector->wavelength_nm)
+        return out;
     const double wl = *c.detector->wavelength_nm;
     const double margin = c.detector->margin_nm;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
-        if (!used[l] || !p || !p->described) continue;
+        if (!used[l] || !p || !p->described)
+            continue;
         const double cut = p->uv_cutoff_nm;
         if (wl < cut + margin) {
             const bool below = wl < cut;
-            CheckWarning w = make("uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
-                                  line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " + p->uv_limited_by +
-                                      "); the detector reads at " + fmt(wl, 0) + " nm, " +
-                                      (below ? "below the cutoff: expect a high baseline and a drifting gradient."
-                                             : "within " + fmt(margin, 0) + " nm of it: expect baseline drift over the gradient."));
+            CheckWarning w = make(
+                "uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
+                line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " +
+                    p->uv_limited_by + "); the detector reads at " + fmt(wl, 0) + " nm, " +
+                    (below ? "below the cutoff: expect a high baseline and a drifting gradient."
+                           : "within " + fmt(margin, 0) +
+                                 " nm of it: expect baseline drift over the gradient."));
             w.number("wavelength_nm", wl);
             w.number("cutoff_nm", cut);
             w.number("margin_nm", margin);
@@ -259,18 +302,20 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
             out.push_back(w);
         }
         if (!p->uv_unknown.empty()) {
-            CheckWarning w = make("uv-cutoff", Sev::caution, letter(l),
-                                  line_title(c, l) + ": no UV cutoff figure for " + join(p->uv_unknown) +
-                                      "; check its absorbance at " + fmt(wl, 0) + " nm before the run.");
+            CheckWarning w =
+                make("uv-cutoff", Sev::caution, letter(l),
+                     line_title(c, l) + ": no UV cutoff figure for " + join(p->uv_unknown) +
+                         "; check its absorbance at " + fmt(wl, 0) + " nm before the run.");
             w.number("wavelength_nm", wl);
             w.text("unknown", join(p->uv_unknown));
             out.push_back(w);
         }
         if (!p->uv_beyond_table.empty()) {
-            CheckWarning w = make("uv-cutoff", Sev::info, letter(l),
-                                  line_title(c, l) + ": " + join(p->uv_beyond_table) +
-                                      " is above the highest concentration in its UV table; the cutoff used (" +
-                                      fmt(cut, 0) + " nm) is a lower bound.");
+            CheckWarning w =
+                make("uv-cutoff", Sev::info, letter(l),
+                     line_title(c, l) + ": " + join(p->uv_beyond_table) +
+                         " is above the highest concentration in its UV table; the cutoff used (" +
+                         fmt(cut, 0) + " nm) is a lower bound.");
             w.number("cutoff_nm", cut);
             out.push_back(w);
         }
@@ -302,9 +347,11 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
                 // when each is above 0 at one of its ends.
                 const bool pa = s.percent_start[a] > 0 || s.percent_end[a] > 0;
                 const bool pb = s.percent_start[b] > 0 || s.percent_end[b] > 0;
-                if (!pa || !pb) continue;
+                if (!pa || !pb)
+                    continue;
                 Meeting& m = meetings[{a, b}];
-                if (m.met) continue;
+                if (m.met)
+                    continue;
                 m.met = true;
                 m.where = ns.where;
                 m.t_min = s.start_min;
@@ -316,17 +363,23 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
         const auto [a, b] = ab;
         const LineProfile* pa = c.profiles[a];
         const LineProfile* pb = c.profiles[b];
-        if (!pa || !pb || !pa->described || !pb->described) continue;
+        if (!pa || !pb || !pa->described || !pb->described)
+            continue;
         const Contact k = worst_pair(*c.solvents, *pa, *pb);
-        if (k.worst == Miscibility::miscible) continue;
+        if (k.worst == Miscibility::miscible)
+            continue;
         const bool imm = k.worst == Miscibility::immiscible;
-        const std::string where = m.where == "standby" ? "in the standby" : "in method " + m.where + " from " + fmt(m.t_min, 2) + " min";
-        CheckWarning w = make("immiscible", imm ? Sev::warning : Sev::caution, letter(a) + letter(b),
-                              "Lines " + letter(a) + " and " + letter(b) + " meet in the mixer " + where + " (about " +
-                                  fmt(m.pa) + " % " + letter(a) + " with " + fmt(m.pb) + " % " + letter(b) + "): " + k.a + " and " +
-                                  k.b + " are " +
-                                  (imm ? "immiscible, so the eluent separates into two phases."
-                                       : "only partly miscible: check the proportions stay within their mutual solubility."));
+        const std::string where =
+            m.where == "standby" ? "in the standby"
+                                 : "in method " + m.where + " from " + fmt(m.t_min, 2) + " min";
+        CheckWarning w =
+            make("immiscible", imm ? Sev::warning : Sev::caution, letter(a) + letter(b),
+                 "Lines " + letter(a) + " and " + letter(b) + " meet in the mixer " + where +
+                     " (about " + fmt(m.pa) + " % " + letter(a) + " with " + fmt(m.pb) + " % " +
+                     letter(b) + "): " + k.a + " and " + k.b + " are " +
+                     (imm ? "immiscible, so the eluent separates into two phases."
+                          : "only partly miscible: check the proportions stay within their mutual "
+                            "solubility."));
         w.text("line_a", letter(a));
         w.text("line_b", letter(b));
         w.text("solvent_a", k.a);
@@ -347,30 +400,38 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
     const auto used = lines_in_use(*c.input, *c.plan);
     // The bottles themselves.
     for (int l = 0; l < max_lines; ++l) {
-        if (!used[l] || !c.profiles[l] || !c.profiles[l]->described) continue;
+        if (!used[l] || !c.profiles[l] || !c.profiles[l]->described)
+            continue;
         std::array<const LineProfile*, max_lines> one{};
         one[l] = c.profiles[l];
         LineValues p{};
         p[l] = 100;
         std::map<std::string, WorstLoad> worst;
-        for (const auto& load : salt_loads(*c.solvents, one, p)) consider(worst[load.group], load, "in the bottle of line " + letter(l), 0);
-        for (const auto& [g, w] : worst) precipitation_warning(w, letter(l), out);
+        for (const auto& load : salt_loads(*c.solvents, one, p))
+            consider(worst[load.group], load, "in the bottle of line " + letter(l), 0);
+        for (const auto& [g, w] : worst)
+            precipitation_warning(w, letter(l), out);
     }
     // The mixed eluent: per stretch, the ends and the points where the organic fraction crosses a
     // row of a table (concentration and organic fraction are linear in time within a stretch and
-    // the limit is piecewise linear in the organic fraction, so the worst ratio lies on one of them).
+    // the limit is piecewise linear in the organic fraction, so the worst ratio lies on one of
+    // them).
     std::set<double> knots;
     for (int l = 0; l < max_lines; ++l) {
-        if (!c.profiles[l] || !c.profiles[l]->described) continue;
+        if (!c.profiles[l] || !c.profiles[l]->described)
+            continue;
         for (const auto& [g, mm] : group_mmol(*c.solvents, *c.profiles[l]))
             for (const SolubilityTable* t : c.solvents->solubility_tables(g))
-                for (const auto& pt : t->points) knots.insert(pt.first);
+                for (const auto& pt : t->points)
+                    knots.insert(pt.first);
     }
-    if (knots.empty()) return out;
+    if (knots.empty())
+        return out;
     auto organic_of = [&](const LineValues& p) {
         double o = 0;
         for (int l = 0; l < max_lines; ++l)
-            if (c.profiles[l] && c.profiles[l]->described) o += p[l] / 100.0 * c.profiles[l]->organic_fraction_v;
+            if (c.profiles[l] && c.profiles[l]->described)
+                o += p[l] / 100.0 * c.profiles[l]->organic_fraction_v;
         return o;
     };
     std::map<std::string, WorstLoad> worst;
@@ -381,48 +442,62 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
         if (o1 != o0)
             for (double k : knots) {
                 const double u = (k - o0) / (o1 - o0);
-                if (u > 0 && u < 1) at.push_back(u);
+                if (u > 0 && u < 1)
+                    at.push_back(u);
             }
         for (double u : at) {
             LineValues p{};
-            for (int l = 0; l < max_lines; ++l) p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
+            for (int l = 0; l < max_lines; ++l)
+                p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
             const double t = s.start_min + u * s.duration_min;
-            const std::string where = ns.where == "standby" ? "in the standby" : "in method " + ns.where + " at " + fmt(t, 2) + " min";
-            for (const auto& load : salt_loads(*c.solvents, c.profiles, p)) consider(worst[load.group], load, where, t);
+            const std::string where = ns.where == "standby"
+                                          ? "in the standby"
+                                          : "in method " + ns.where + " at " + fmt(t, 2) + " min";
+            for (const auto& load : salt_loads(*c.solvents, c.profiles, p))
+                consider(worst[load.group], load, where, t);
         }
     }
-    for (const auto& [g, w] : worst) precipitation_warning(w, "", out);
+    for (const auto& [g, w] : worst)
+        precipitation_warning(w, "", out);
     return out;
 }
 
 // (d) Non-volatile buffers and additives with a detector that evaporates the eluent.
 std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
-    if (!c.detector || !detector_needs_volatile(c.detector->type)) return out;
+    if (!c.detector || !detector_needs_volatile(c.detector->type))
+        return out;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
-        if (!used[l] || !p || !p->described) continue;
+        if (!used[l] || !p || !p->described)
+            continue;
         if (!p->nonvolatile.empty()) {
             std::vector<std::string> parts;
             for (const auto& id : p->nonvolatile)
                 for (const auto& s : p->solutes)
-                    if (s.reagent == id) parts.push_back(id + " " + fmt(s.mmol_per_l, 2) + " mmol/L");
-            CheckWarning w = make("ms-nonvolatile", Sev::warning, letter(l),
-                                  line_title(c, l) + " carries non-volatile " + join(parts) + " into the " + c.detector->type +
-                                      " detector: it deposits in the source and suppresses the signal. Use a volatile "
-                                      "buffer (formate, acetate, ammonium bicarbonate) or divert the flow.");
+                    if (s.reagent == id)
+                        parts.push_back(id + " " + fmt(s.mmol_per_l, 2) + " mmol/L");
+            CheckWarning w =
+                make("ms-nonvolatile", Sev::warning, letter(l),
+                     line_title(c, l) + " carries non-volatile " + join(parts) + " into the " +
+                         c.detector->type +
+                         " detector: it deposits in the source and suppresses the signal. Use a "
+                         "volatile "
+                         "buffer (formate, acetate, ammonium bicarbonate) or divert the flow.");
             for (const auto& s : p->solutes)
-                if (std::find(p->nonvolatile.begin(), p->nonvolatile.end(), s.reagent) != p->nonvolatile.end())
+                if (std::find(p->nonvolatile.begin(), p->nonvolatile.end(), s.reagent) !=
+                    p->nonvolatile.end())
                     w.number(s.reagent + "_mmol_per_l", s.mmol_per_l);
             w.text("detector", c.detector->type);
             w.text("nonvolatile", join(p->nonvolatile));
             out.push_back(w);
         }
         if (!p->volatility_unknown.empty()) {
-            CheckWarning w = make("ms-nonvolatile", Sev::caution, letter(l),
-                                  line_title(c, l) + ": volatility of " + join(p->volatility_unknown) +
-                                      " is not recorded; check it suits the " + c.detector->type + " detector.");
+            CheckWarning w =
+                make("ms-nonvolatile", Sev::caution, letter(l),
+                     line_title(c, l) + ": volatility of " + join(p->volatility_unknown) +
+                         " is not recorded; check it suits the " + c.detector->type + " detector.");
             w.text("detector", c.detector->type);
             w.text("unknown", join(p->volatility_unknown));
             out.push_back(w);
@@ -434,20 +509,24 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
 // (e) A line's (aqueous) pH outside the column's stated range.
 std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
-    if (!c.column) return out;
+    if (!c.column)
+        return out;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
-        if (!used[l] || !p || !p->ph) continue;
+        if (!used[l] || !p || !p->ph)
+            continue;
         const double ph = *p->ph;
-        if (ph >= c.column->ph_min && ph <= c.column->ph_max) continue;
+        if (ph >= c.column->ph_min && ph <= c.column->ph_max)
+            continue;
         const bool low = ph < c.column->ph_min;
-        CheckWarning w = make("column-ph", Sev::warning, letter(l),
-                              line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + p->ph_basis + "), " +
-                                  (low ? "below" : "above") + " the column's range of pH " + fmt(c.column->ph_min, 1) +
-                                  " to " + fmt(c.column->ph_max, 1) + ": " +
-                                  (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
-                                  " Use a column rated for this pH or change the buffer.");
+        CheckWarning w =
+            make("column-ph", Sev::warning, letter(l),
+                 line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + p->ph_basis + "), " +
+                     (low ? "below" : "above") + " the column's range of pH " +
+                     fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
+                     (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
+                     " Use a column rated for this pH or change the buffer.");
         w.number("ph", ph);
         w.number("ph_min", c.column->ph_min);
         w.number("ph_max", c.column->ph_max);
@@ -463,30 +542,37 @@ std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
-        if (!used[l] || !p || !p->described || p->shelf_life_h <= 0) continue;
+        if (!used[l] || !p || !p->described || p->shelf_life_h <= 0)
+            continue;
         // Without prepared_at the best case is a line made at the start: a sequence longer than
         // the shelf life is still caught.
         const bool known = c.prepared_at_min[l].has_value();
         const double prepared = known ? *c.prepared_at_min[l] : 0.0;
         const double expires = prepared + p->shelf_life_h * 60.0;
-        if (expires >= c.plan->total_min) continue;
+        if (expires >= c.plan->total_min)
+            continue;
         const bool already = expires <= 0;
-        std::string msg = line_title(c, l) + " (" + p->shelf_kind + ", shelf life " + fmt(p->shelf_life_h, 0) +
-                          " h, a lab-set default) " +
-                          (known ? "was prepared at " + c.clock(prepared) : "even if prepared at the start, " + c.clock(0)) +
-                          ", and " +
-                          (already ? "is past its shelf life before the sequence starts."
-                                   : "passes its shelf life at " + c.clock(expires) + ", during injection " +
-                                         std::to_string(c.plan->injection_at(expires)) + " of " +
-                                         std::to_string(c.plan->injections) + ".") +
-                          " Prepare it fresh.";
+        std::string msg =
+            line_title(c, l) + " (" + p->shelf_kind + ", shelf life " + fmt(p->shelf_life_h, 0) +
+            " h, a lab-set default) " +
+            (known ? "was prepared at " + c.clock(prepared)
+                   : "even if prepared at the start, " + c.clock(0)) +
+            ", and " +
+            (already ? "is past its shelf life before the sequence starts."
+                     : "passes its shelf life at " + c.clock(expires) + ", during injection " +
+                           std::to_string(c.plan->injection_at(expires)) + " of " +
+                           std::to_string(c.plan->injections) + ".") +
+            " Prepare it fresh.";
         CheckWarning w = make("shelf-life", Sev::warning, letter(l), msg);
         w.text("kind", p->shelf_kind);
         w.number("shelf_life_h", p->shelf_life_h);
-        if (known) w.number("prepared_at_min", prepared);
-        else w.text("prepared_at", "not given: assumed at the start");
+        if (known)
+            w.number("prepared_at_min", prepared);
+        else
+            w.text("prepared_at", "not given: assumed at the start");
         w.number("expires_at_min", expires);
-        if (!already) w.number("expires_during_injection", c.plan->injection_at(expires));
+        if (!already)
+            w.number("expires_during_injection", c.plan->injection_at(expires));
         out.push_back(w);
     }
     return out;
@@ -498,41 +584,55 @@ std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c) {
     const double margin = c.input->safety_margin_fraction;
     for (int l = 0; l < max_lines; ++l) {
         const LinePlan& lp = c.plan->lines[l];
-        if (!lp.defined) continue;
-        const std::string need = "the sequence needs " + fmt(lp.required_ml, 0) + " mL (priming included), the bottle has " +
-                                 fmt(lp.usable_ml, 0) + " mL usable above the residue";
-        const std::string suggest = "Prepare at least " + fmt(std::ceil(lp.min_bottle_ml), 0) + " mL (" + fmt(100 * margin, 0) +
-                                    " % spare plus the residue)" +
-                                    (lp.suggested_bottle_ml > 0 ? ", e.g. a " + fmt(lp.suggested_bottle_ml, 0) + " mL bottle." : ".");
+        if (!lp.defined)
+            continue;
+        const std::string need = "the sequence needs " + fmt(lp.required_ml, 0) +
+                                 " mL (priming included), the bottle has " + fmt(lp.usable_ml, 0) +
+                                 " mL usable above the residue";
+        const std::string suggest =
+            "Prepare at least " + fmt(std::ceil(lp.min_bottle_ml), 0) + " mL (" +
+            fmt(100 * margin, 0) + " % spare plus the residue)" +
+            (lp.suggested_bottle_ml > 0
+                 ? ", e.g. a " + fmt(lp.suggested_bottle_ml, 0) + " mL bottle."
+                 : ".");
         if (lp.runs_dry) {
             std::string when;
-            if (lp.dry_phase == DryPhase::priming) when = "already during priming";
+            if (lp.dry_phase == DryPhase::priming)
+                when = "already during priming";
             else if (lp.dry_phase == DryPhase::standby)
-                when = "during the standby after injection " + std::to_string(*lp.dry_after_injection) + ", at " + c.clock(*lp.dry_at_min);
+                when = "during the standby after injection " +
+                       std::to_string(*lp.dry_after_injection) + ", at " + c.clock(*lp.dry_at_min);
             else
-                when = "during injection " + std::to_string(*lp.dry_after_injection) + " of " + std::to_string(c.plan->injections) +
-                       ", at " + c.clock(*lp.dry_at_min);
+                when = "during injection " + std::to_string(*lp.dry_after_injection) + " of " +
+                       std::to_string(c.plan->injections) + ", at " + c.clock(*lp.dry_at_min);
             CheckWarning w = make("runs-dry", Sev::warning, letter(l),
-                                  line_title(c, l) + " runs dry " + when + ": " + need + ". The pump then draws air. " + suggest);
+                                  line_title(c, l) + " runs dry " + when + ": " + need +
+                                      ". The pump then draws air. " + suggest);
             w.number("required_ml", lp.required_ml);
             w.number("usable_ml", lp.usable_ml);
             w.number("shortfall_ml", -lp.spare_ml);
-            if (lp.dry_after_injection) w.number("dry_after_injection", *lp.dry_after_injection);
-            if (lp.dry_at_min) w.number("dry_at_min", *lp.dry_at_min);
+            if (lp.dry_after_injection)
+                w.number("dry_after_injection", *lp.dry_after_injection);
+            if (lp.dry_at_min)
+                w.number("dry_at_min", *lp.dry_at_min);
             w.number("min_bottle_ml", lp.min_bottle_ml);
-            if (lp.suggested_bottle_ml > 0) w.number("suggested_bottle_ml", lp.suggested_bottle_ml);
+            if (lp.suggested_bottle_ml > 0)
+                w.number("suggested_bottle_ml", lp.suggested_bottle_ml);
             w.text("phase", dry_phase_name(lp.dry_phase));
             out.push_back(w);
         } else if (lp.required_ml > 0 && lp.spare_ml < margin * lp.required_ml) {
-            CheckWarning w = make("runs-dry", Sev::caution, letter(l),
-                                  line_title(c, l) + " lasts, but with only " + fmt(lp.spare_ml, 0) + " mL to spare (" +
-                                      fmt(100 * lp.spare_ml / lp.required_ml, 1) + " %, less than the " + fmt(100 * margin, 0) +
-                                      " % margin): " + need + ". " + suggest);
+            CheckWarning w =
+                make("runs-dry", Sev::caution, letter(l),
+                     line_title(c, l) + " lasts, but with only " + fmt(lp.spare_ml, 0) +
+                         " mL to spare (" + fmt(100 * lp.spare_ml / lp.required_ml, 1) +
+                         " %, less than the " + fmt(100 * margin, 0) + " % margin): " + need +
+                         ". " + suggest);
             w.number("required_ml", lp.required_ml);
             w.number("usable_ml", lp.usable_ml);
             w.number("spare_ml", lp.spare_ml);
             w.number("min_bottle_ml", lp.min_bottle_ml);
-            if (lp.suggested_bottle_ml > 0) w.number("suggested_bottle_ml", lp.suggested_bottle_ml);
+            if (lp.suggested_bottle_ml > 0)
+                w.number("suggested_bottle_ml", lp.suggested_bottle_ml);
             out.push_back(w);
         }
     }
@@ -541,34 +641,42 @@ std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c) {
 
 std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
-    if (!c.input->waste_capacity_ml) return out;
+    if (!c.input->waste_capacity_ml)
+        return out;
     const double cap = *c.input->waste_capacity_ml;
     const double waste = c.plan->waste_ml;
     if (waste > cap) {
         const auto t = c.plan->time_waste_reaches(cap);
         std::string when = "";
         if (t) {
-            if (*t <= 0) when = " during priming";
-            else if (*t > c.plan->total_min) when = " during the standby, at " + c.clock(*t);
-            else when = " during injection " + std::to_string(c.plan->injection_at(*t)) + ", at " + c.clock(*t);
+            if (*t <= 0)
+                when = " during priming";
+            else if (*t > c.plan->total_min)
+                when = " during the standby, at " + c.clock(*t);
+            else
+                when = " during injection " + std::to_string(c.plan->injection_at(*t)) + ", at " +
+                       c.clock(*t);
         }
-        CheckWarning w = make("waste-overflow", Sev::warning, "",
-                              "The waste container overfills" + when + ": the sequence sends " + fmt(waste, 0) +
-                                  " mL to waste (priming included) into " + fmt(cap, 0) +
-                                  " mL of free volume. Empty it first or use a larger one (at least " + fmt(std::ceil(waste * 1.1), 0) +
-                                  " mL with 10 % spare).");
+        CheckWarning w =
+            make("waste-overflow", Sev::warning, "",
+                 "The waste container overfills" + when + ": the sequence sends " + fmt(waste, 0) +
+                     " mL to waste (priming included) into " + fmt(cap, 0) +
+                     " mL of free volume. Empty it first or use a larger one (at least " +
+                     fmt(std::ceil(waste * 1.1), 0) + " mL with 10 % spare).");
         w.number("waste_ml", waste);
         w.number("capacity_ml", cap);
         w.number("excess_ml", waste - cap);
         if (t) {
             w.number("full_at_min", *t);
-            if (*t > 0 && *t <= c.plan->total_min) w.number("full_during_injection", c.plan->injection_at(*t));
+            if (*t > 0 && *t <= c.plan->total_min)
+                w.number("full_during_injection", c.plan->injection_at(*t));
         }
         out.push_back(w);
     } else if (waste > 0.9 * cap) {
         CheckWarning w = make("waste-overflow", Sev::caution, "",
-                              "The waste container will be " + fmt(100 * waste / cap, 0) + " % full (" + fmt(waste, 0) + " of " +
-                                  fmt(cap, 0) + " mL): little room for a rerun or a spill.");
+                              "The waste container will be " + fmt(100 * waste / cap, 0) +
+                                  " % full (" + fmt(waste, 0) + " of " + fmt(cap, 0) +
+                                  " mL): little room for a rerun or a spill.");
         w.number("waste_ml", waste);
         w.number("capacity_ml", cap);
         out.push_back(w);
@@ -577,18 +685,21 @@ std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
 }
 
 std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
-    if (!c.solvents || !c.input || !c.plan) throw Error("(checks)", "incomplete check input");
+    if (!c.solvents || !c.input || !c.plan)
+        throw Error("(checks)", "incomplete check input");
     std::vector<CheckWarning> out;
-    for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile, check_column_ph,
-                   check_shelf_life, check_runs_dry, check_waste_overflow}) {
+    for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
+                   check_column_ph, check_shelf_life, check_runs_dry, check_waste_overflow}) {
         auto w = f(c);
         out.insert(out.end(), std::make_move_iterator(w.begin()), std::make_move_iterator(w.end()));
     }
     return out;
 }
 
-std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile, const std::string& name,
-                                     const std::optional<Detector>& detector, const std::optional<ColumnLimits>& column) {
+std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
+                                     const std::string& name,
+                                     const std::optional<Detector>& detector,
+                                     const std::optional<ColumnLimits>& column) {
     // A one-line, one-method "sequence" at 100 % of line A reuses the sequence checks.
     SequenceInput in;
     BottleSpec b;
@@ -614,24 +725,30 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
     c.detector = detector;
     c.column = column;
     std::vector<CheckWarning> out;
-    for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile, check_column_ph}) {
+    for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
+                   check_column_ph}) {
         auto w = f(c);
         for (auto& x : w) {
             // The bottle is the whole story for a lone line: drop the mixer's copy of it.
             bool mixer = false;
             for (const auto& [k, v] : x.texts)
-                if (k == "where" && v.rfind("in the bottle", 0) != 0) mixer = true;
-            if (x.code == "precipitation" && mixer) continue;
+                if (k == "where" && v.rfind("in the bottle", 0) != 0)
+                    mixer = true;
+            if (x.code == "precipitation" && mixer)
+                continue;
             for (auto& [k, v] : x.texts)
-                if (k == "where") v = "in the bottle";
+                if (k == "where")
+                    v = "in the bottle";
             const std::string bottle = "in the bottle of line A";
             if (auto pos = x.message.find(bottle); pos != std::string::npos)
                 x.message.replace(pos, bottle.size(), "in the bottle");
             // A lone line has no "line A" of a sequence: name it by its own name.
             x.line.clear();
             const std::string from = "Line A (" + name + ")";
-            if (x.message.rfind(from, 0) == 0) x.message = "The line " + name + x.message.substr(from.size());
-            else if (x.message.rfind("Line A", 0) == 0) x.message = "The line" + x.message.substr(6);
+            if (x.message.rfind(from, 0) == 0)
+                x.message = "The line " + name + x.message.substr(from.size());
+            else if (x.message.rfind("Line A", 0) == 0)
+                x.message = "The line" + x.message.substr(6);
             out.push_back(std::move(x));
         }
     }

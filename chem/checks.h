@@ -27,19 +27,19 @@ namespace chem {
 /// ("A") the warning is about, or is empty.
 struct CheckWarning : Warning {
     std::string line;
-    std::vector<std::pair<std::string, double>> numbers;      ///< "cutoff_nm" → 210, …
-    std::vector<std::pair<std::string, std::string>> texts;   ///< "method" → "assay-fast", …
+    std::vector<std::pair<std::string, double>> numbers;    ///< "cutoff_nm" → 210, …
+    std::vector<std::pair<std::string, std::string>> texts; ///< "method" → "assay-fast", …
     /// Times in minutes from the sequence start, keyed like "dry_at_min"; app/ adds clock times.
     void number(std::string key, double v) { numbers.emplace_back(std::move(key), v); }
     void text(std::string key, std::string v) { texts.emplace_back(std::move(key), std::move(v)); }
 };
 
 struct Detector {
-    std::string type = "uv";               ///< uv, dad, pda, uv-ms, ms, elsd, cad, fluorescence, ri
-    std::optional<double> wavelength_nm;   ///< for UV types
-    double margin_nm = 10;                 ///< caution within this of the cutoff (common practice, no source)
+    std::string type = "uv";             ///< uv, dad, pda, uv-ms, ms, elsd, cad, fluorescence, ri
+    std::optional<double> wavelength_nm; ///< for UV types
+    double margin_nm = 10; ///< caution within this of the cutoff (common practice, no source)
 };
-bool detector_reads_uv(const std::string& type);      ///< uv, dad, pda, uv-ms
+bool detector_reads_uv(const std::string& type);       ///< uv, dad, pda, uv-ms
 bool detector_needs_volatile(const std::string& type); ///< ms, uv-ms, elsd, cad
 const std::vector<std::string>& detector_types();
 
@@ -56,8 +56,8 @@ struct SequenceCheckInput {
     const SolventLibrary* solvents = nullptr;
     const SequenceInput* input = nullptr;
     const SequencePlan* plan = nullptr;
-    std::array<const LineProfile*, max_lines> profiles{}; ///< null: a volumes-only line
-    std::array<std::string, max_lines> names{};           ///< display names
+    std::array<const LineProfile*, max_lines> profiles{};           ///< null: a volumes-only line
+    std::array<std::string, max_lines> names{};                     ///< display names
     std::array<std::optional<double>, max_lines> prepared_at_min{}; ///< from the sequence start
     std::optional<Detector> detector;
     std::optional<ColumnLimits> column;
@@ -81,23 +81,25 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
 /// The checks that apply to one line on its own (the `line` command): immiscible parts,
 /// precipitation in the bottle, and, when given, UV cutoff, MS volatility and column pH.
 std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
-                                     const std::string& name, const std::optional<Detector>& detector,
+                                     const std::string& name,
+                                     const std::optional<Detector>& detector,
                                      const std::optional<ColumnLimits>& column);
 
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
 /// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.
 struct SaltLoad {
     std::string group;
-    double mmol_per_l = 0;         ///< total of the group in the mixed eluent
+    double mmol_per_l = 0; ///< total of the group in the mixed eluent
     double limit_mmol_per_l = 0;
     double organic_fraction_v = 0; ///< total organic where the ratio is highest
     std::string organic;           ///< the solvent whose table gave the limit
     std::string basis;             ///< "published" | "rule-of-thumb"
     std::string source;
-    double ratio() const;          ///< mmol/limit (infinite for a zero limit with salt present)
+    double ratio() const; ///< mmol/limit (infinite for a zero limit with salt present)
 };
 /// A mixture: per line percent (sum 100) of lines with the given profiles.
-std::vector<SaltLoad> salt_loads(const SolventLibrary& solvents, const std::array<const LineProfile*, max_lines>& profiles,
+std::vector<SaltLoad> salt_loads(const SolventLibrary& solvents,
+                                 const std::array<const LineProfile*, max_lines>& profiles,
                                  const LineValues& percent);
 
 } // namespace chem

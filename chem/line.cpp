@@ -13,7 +13,8 @@ namespace chem {
 namespace {
 
 constexpr double fraction_sum_tolerance = 1e-4;
-constexpr double max_percent_additive = 50.0;     // % v/v or % w/v: above that it is a part, not an additive
+constexpr double max_percent_additive =
+    50.0; // % v/v or % w/v: above that it is a part, not an additive
 constexpr double max_mmol_per_l_additive = 5000.0;
 
 std::string fmt(double v, int decimals) {
@@ -25,13 +26,15 @@ std::string fmt(double v, int decimals) {
 bool has_code(const std::vector<std::string>& codes, std::initializer_list<const char*> wanted) {
     for (const auto& c : codes)
         for (const char* w : wanted)
-            if (c.rfind(w, 0) == 0) return true;
+            if (c.rfind(w, 0) == 0)
+                return true;
     return false;
 }
 
 std::string join(const std::vector<std::string>& v, const char* sep = ", ") {
     std::string out;
-    for (std::size_t i = 0; i < v.size(); ++i) out += (i ? sep : "") + v[i];
+    for (std::size_t i = 0; i < v.size(); ++i)
+        out += (i ? sep : "") + v[i];
     return out;
 }
 
@@ -40,11 +43,13 @@ std::string sub(const std::string& parent, const std::string& key) {
     return parent.empty() ? key : parent + "." + key;
 }
 
-void add_solute(std::vector<Solute>& solutes, const std::string& id, double mmol, const std::string& from) {
+void add_solute(std::vector<Solute>& solutes, const std::string& id, double mmol,
+                const std::string& from) {
     for (auto& s : solutes)
         if (s.reagent == id) {
             s.mmol_per_l += mmol;
-            if (s.from != from) s.from = "buffer+additive";
+            if (s.from != from)
+                s.from = "buffer+additive";
             return;
         }
     solutes.push_back({id, mmol, from});
@@ -54,9 +59,11 @@ void add_solute(std::vector<Solute>& solutes, const std::string& id, double mmol
 
 double additive_mmol_per_l(const Reagent& r, AmountUnit unit, double amount) {
     switch (unit) {
-    case AmountUnit::mmol_per_l: return amount;
+    case AmountUnit::mmol_per_l:
+        return amount;
     case AmountUnit::percent_v: // mL of liquid as supplied per 100 mL → g/L of material
-        return amount * 10.0 * r.density_g_per_ml * r.assay_fraction / r.molar_mass_g_per_mol * 1000.0;
+        return amount * 10.0 * r.density_g_per_ml * r.assay_fraction / r.molar_mass_g_per_mol *
+               1000.0;
     case AmountUnit::percent_w: // g of material as supplied per 100 mL
         return amount * 10.0 * r.assay_fraction / r.molar_mass_g_per_mol * 1000.0;
     }
@@ -65,22 +72,27 @@ double additive_mmol_per_l(const Reagent& r, AmountUnit unit, double amount) {
 
 double additive_amount(const Reagent& r, AmountUnit unit, double mmol_per_l) {
     switch (unit) {
-    case AmountUnit::mmol_per_l: return mmol_per_l;
+    case AmountUnit::mmol_per_l:
+        return mmol_per_l;
     case AmountUnit::percent_v:
-        if (!(r.density_g_per_ml > 0)) return 0;
-        return mmol_per_l / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction / r.density_g_per_ml / 10.0;
+        if (!(r.density_g_per_ml > 0))
+            return 0;
+        return mmol_per_l / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction /
+               r.density_g_per_ml / 10.0;
     case AmountUnit::percent_w:
         return mmol_per_l / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction / 10.0;
     }
     return 0;
 }
 
-LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents, const LineSpec& line) {
+LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents,
+                         const LineSpec& line) {
     LineProfile p;
     const std::string& at = line.field;
     if (line.parts.empty()) {
         if (!line.additives.empty())
-            throw Error(sub(at, "parts"), "is needed when additives are given (what are they added to?)");
+            throw Error(sub(at, "parts"),
+                        "is needed when additives are given (what are they added to?)");
         return p;
     }
     p.described = true;
@@ -108,7 +120,8 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
                 p.ph_basis = "several buffers: pH not predicted";
             }
         } else {
-            if (part.solvent.empty()) throw Error(pat, "needs a \"solvent\" or a \"buffer\"");
+            if (part.solvent.empty())
+                throw Error(pat, "needs a \"solvent\" or a \"buffer\"");
             const Solvent& s = solvents.solvent(part.solvent, pat + ".solvent");
             p.solvent_fraction_v[s.id] += f;
             (s.aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) += f;
@@ -123,14 +136,17 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
         const std::string aat = sub(at, "additives[" + std::to_string(j) + "]");
         const Reagent& r = reagents.reagent(a.additive, aat + ".additive");
         const std::string unit = amount_unit_name(a.unit);
-        const double limit = a.unit == AmountUnit::mmol_per_l ? max_mmol_per_l_additive : max_percent_additive;
+        const double limit =
+            a.unit == AmountUnit::mmol_per_l ? max_mmol_per_l_additive : max_percent_additive;
         if (!std::isfinite(a.amount) || a.amount <= 0)
             throw Error(aat + "." + unit, format_number(a.amount) + " is not a positive amount");
         if (a.amount > limit)
-            throw Error(aat + "." + unit, format_number(a.amount) + " is above the limit of " + format_number(limit) +
+            throw Error(aat + "." + unit, format_number(a.amount) + " is above the limit of " +
+                                              format_number(limit) +
                                               " for an additive (make it a part instead)");
         if (a.unit == AmountUnit::percent_v && r.form != PhysicalForm::liquid)
-            throw Error(aat + ".percent_v", "\"" + r.id + "\" is a solid: give percent_w or mmol_per_l");
+            throw Error(aat + ".percent_v",
+                        "\"" + r.id + "\" is a solid: give percent_w or mmol_per_l");
         add_solute(p.solutes, r.id, additive_mmol_per_l(r, a.unit, a.amount), "additive");
     }
 
@@ -138,16 +154,20 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     for (const Solute& s : p.solutes) {
         const Additive* add = solvents.find_additive(s.reagent);
         const Reagent& r = reagents.reagent(s.reagent);
-        if (!add) p.volatility_unknown.push_back(s.reagent);
-        else if (!add->ms_volatile) p.nonvolatile.push_back(s.reagent);
-        if (add && add->short_lived) p.short_lived = true;
+        if (!add)
+            p.volatility_unknown.push_back(s.reagent);
+        else if (!add->ms_volatile)
+            p.nonvolatile.push_back(s.reagent);
+        if (add && add->short_lived)
+            p.short_lived = true;
         if (!add || !add->uv || add->uv->points.empty() ||
             (add->uv->unit == AmountUnit::percent_v && r.form != PhysicalForm::liquid)) {
             p.uv_unknown.push_back(s.reagent);
             continue;
         }
         const auto look = add->uv->at(additive_amount(r, add->uv->unit, s.mmol_per_l));
-        if (look.beyond_table) p.uv_beyond_table.push_back(s.reagent);
+        if (look.beyond_table)
+            p.uv_beyond_table.push_back(s.reagent);
         uv_candidates.emplace_back(look.cutoff_nm, s.reagent);
     }
     for (const auto& [nm, who] : uv_candidates)
@@ -159,7 +179,8 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     // pH of an aqueous line made with additives only: solve the additives in water at 25 °C.
     if (buffers == 0 && p.organic_fraction_v == 0 && !p.solutes.empty()) {
         std::vector<Component> comps;
-        for (const Solute& s : p.solutes) comps.push_back({&reagents.reagent(s.reagent), s.mmol_per_l / 1000.0});
+        for (const Solute& s : p.solutes)
+            comps.push_back({&reagents.reagent(s.reagent), s.mmol_per_l / 1000.0});
         try {
             p.ph = solve(reagents, comps, 25.0).ph;
             p.ph_basis = "solved from the additives in water at 25 °C";
@@ -171,21 +192,28 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     // Shelf-life kind (lab-set defaults, common practice).
     bool salts = false;
     for (const Solute& s : p.solutes)
-        if (reagents.reagent(s.reagent).form == PhysicalForm::solid) salts = true;
+        if (reagents.reagent(s.reagent).form == PhysicalForm::solid)
+            salts = true;
     const bool organic = p.organic_fraction_v >= 0.1 - 1e-12;
     if (buffers > 0 || (salts && p.aqueous_fraction_v > 0)) {
-        if (p.short_lived) p.shelf_kind = "aqueous-buffer-volatile";
-        else p.shelf_kind = organic ? "buffer-with-organic" : "aqueous-buffer";
+        if (p.short_lived)
+            p.shelf_kind = "aqueous-buffer-volatile";
+        else
+            p.shelf_kind = organic ? "buffer-with-organic" : "aqueous-buffer";
     } else if (!p.solutes.empty()) {
-        if (p.short_lived && !organic) p.shelf_kind = "aqueous-buffer-volatile";
-        else p.shelf_kind = p.organic_fraction_v > 0 ? "organic-additive" : "aqueous-additive";
+        if (p.short_lived && !organic)
+            p.shelf_kind = "aqueous-buffer-volatile";
+        else
+            p.shelf_kind = p.organic_fraction_v > 0 ? "organic-additive" : "aqueous-additive";
     } else if (p.organic_fraction_v == 0) {
         p.shelf_kind = "water";
     } else {
         p.shelf_kind = p.solvent_fraction_v.size() == 1 ? "neat-solvent" : "solvent-mixture";
     }
-    if (line.shelf_life_h) p.shelf_life_h = *line.shelf_life_h;
-    else if (const ShelfLife* sl = solvents.shelf_life(p.shelf_kind)) p.shelf_life_h = sl->hours;
+    if (line.shelf_life_h)
+        p.shelf_life_h = *line.shelf_life_h;
+    else if (const ShelfLife* sl = solvents.shelf_life(p.shelf_kind))
+        p.shelf_life_h = sl->hours;
     return p;
 }
 
@@ -194,44 +222,50 @@ std::optional<double> mixing_contraction_ml(const SolventLibrary& solvents, doub
     const ExcessVolume* ev = solvents.excess_volume("water", organic);
     const Solvent* w = solvents.find_solvent("water");
     const Solvent* o = solvents.find_solvent(organic);
-    if (!ev || !w || !o || aqueous_ml <= 0 || organic_ml <= 0) return std::nullopt;
+    if (!ev || !w || !o || aqueous_ml <= 0 || organic_ml <= 0)
+        return std::nullopt;
     const double n_w = aqueous_ml * w->density_g_per_ml / w->molar_mass_g_per_mol;
     const double n_o = organic_ml * o->density_g_per_ml / o->molar_mass_g_per_mol;
     const double n = n_w + n_o;
     return -n * ev->at(n_o / n); // V^E in cm³/mol = mL/mol; negative V^E is a contraction
 }
 
-LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents, const LineSpec& line,
-                        double volume_ml) {
+LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
+                        const LineSpec& line, double volume_ml) {
     if (!std::isfinite(volume_ml) || volume_ml <= 0)
         throw Error("volume_ml", format_number(volume_ml) + " is not a positive volume");
-    if (volume_ml > 1.0e6) throw Error("volume_ml", format_number(volume_ml) + " mL is above the limit of 1e+06");
+    if (volume_ml > 1.0e6)
+        throw Error("volume_ml", format_number(volume_ml) + " mL is above the limit of 1e+06");
     LineRecipe out;
     out.profile = profile_line(solvents, reagents, line);
-    if (!out.profile.described) throw Error(sub(line.field, "parts"), "is required for a line recipe");
+    if (!out.profile.described)
+        throw Error(sub(line.field, "parts"), "is required for a line recipe");
     out.volume_ml = volume_ml;
 
     const double rho_water_20 = water_density_g_per_ml(to_kelvin(20.0));
     double aqueous_ml = 0;
     std::vector<std::pair<std::string, double>> organic_ml;
     std::vector<std::string> measured;
+    int buffer_parts = 0;
     for (const LinePart& part : line.parts) {
         LineItem it;
         it.fraction_v = part.fraction_v;
         it.volume_ml = part.fraction_v * volume_ml;
         if (part.buffer) {
-            it.part = "buffer";
+            ++buffer_parts;
+            it.part = buffer_parts == 1 ? "buffer" : "buffer-" + std::to_string(buffer_parts);
             it.kind = "buffer";
             double dissolved_g_per_l = 0;
             for (const Component& c : part.buffer->composition)
                 dissolved_g_per_l += c.mol_per_l * c.reagent->molar_mass_g_per_mol;
             it.density_g_per_ml = rho_water_20 + dissolved_g_per_l / 1000.0;
             it.density_temperature_c = 20;
-            it.density_basis = "estimate: water at 20 °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
-                               fmt(dissolved_g_per_l, 2) +
-                               " g/L dissolved, the solutes' own volume neglected";
+            it.density_basis =
+                "estimate: water at 20 °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
+                fmt(dissolved_g_per_l, 2) + " g/L dissolved, the solutes' own volume neglected";
             aqueous_ml += *it.volume_ml;
-            if (!out.buffer) out.buffer = part.buffer;
+            if (!out.buffer)
+                out.buffer = part.buffer;
         } else {
             const Solvent& s = solvents.solvent(part.solvent);
             it.part = s.id;
@@ -241,11 +275,14 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
             auto src = s.sources.find("density");
             it.density_basis = "density at " + format_number(s.density_temperature_c) + " °C" +
                                (src != s.sources.end() ? ": " + src->second : "");
-            if (s.aqueous) aqueous_ml += *it.volume_ml;
-            else organic_ml.emplace_back(s.id, *it.volume_ml);
+            if (s.aqueous)
+                aqueous_ml += *it.volume_ml;
+            else
+                organic_ml.emplace_back(s.id, *it.volume_ml);
         }
         it.mass_g = *it.volume_ml * it.density_g_per_ml;
-        measured.push_back(fmt(*it.volume_ml, 1) + " mL " + it.part + " (or " + fmt(*it.mass_g, 1) + " g)");
+        measured.push_back(fmt(*it.volume_ml, 1) + " mL " + it.part + " (or " + fmt(*it.mass_g, 1) +
+                           " g)");
         out.items.push_back(it);
     }
     std::vector<std::string> additive_steps;
@@ -255,13 +292,15 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         LineItem it;
         it.part = r.id;
         it.kind = "additive";
-        const double material_g = mmol / 1000.0 * volume_ml / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction;
+        const double material_g =
+            mmol / 1000.0 * volume_ml / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction;
         it.mass_g = material_g;
         if (r.form == PhysicalForm::liquid) {
             it.volume_ml = material_g / r.density_g_per_ml;
             it.density_g_per_ml = r.density_g_per_ml;
             it.density_basis = "density of the liquid as supplied (reagent library)";
-            additive_steps.push_back(fmt(*it.volume_ml, 3) + " mL " + r.id + " = " + fmt(material_g, 3) + " g");
+            additive_steps.push_back(fmt(*it.volume_ml, 3) + " mL " + r.id + " = " +
+                                     fmt(material_g, 3) + " g");
         } else {
             it.density_basis = "solid: weigh";
             additive_steps.push_back(fmt(material_g, 4) + " g " + r.id);
@@ -273,10 +312,12 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
     std::vector<std::string> contraction_text;
     for (const auto& [id, ml] : organic_ml) {
         const auto c = mixing_contraction_ml(solvents, aqueous_ml, id, ml);
-        if (!c) continue;
+        if (!c)
+            continue;
         out.contraction_ml += *c;
         contraction_text.push_back(id + " " + fmt(*c, 1) + " mL");
-        if (const ExcessVolume* ev = solvents.excess_volume("water", id)) out.contraction_sources.push_back(ev->source);
+        if (const ExcessVolume* ev = solvents.excess_volume("water", id))
+            out.contraction_sources.push_back(ev->source);
     }
     out.mixed_volume_ml = volume_ml - out.contraction_ml;
 
@@ -285,63 +326,82 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
     auto step = [&](const std::string& s) { out.steps.push_back(std::to_string(n++) + ". " + s); };
     if (out.buffer) {
         step("Prepare the aqueous buffer (at least " + fmt(aqueous_ml, 0) +
-             " mL, recipe under \"buffer\") and measure and adjust its pH now, in the aqueous buffer alone, "
-             "before any organic solvent goes in: the meter reading of the mixed line means something else.");
+             " mL, recipe under \"buffer\") and measure and adjust its pH now, in the aqueous "
+             "buffer alone, "
+             "before any organic solvent goes in: the meter reading of the mixed line means "
+             "something else.");
     }
     if (line.parts.size() > 1)
-        step("Measure each part separately and only then combine them in the bottle: " + join(measured, "; ") +
-             ". Do not make up to a mark after mixing.");
+        step("Measure each part separately and only then combine them in the bottle: " +
+             join(measured, "; ") + ". Do not make up to a mark after mixing.");
     else
         step("Fill " + join(measured) + " into the bottle.");
     if (!additive_steps.empty())
         step("Add to the combined line: " + join(additive_steps, "; ") +
-             ". Liquids with a pipette; acids and bases go into the liquid, never the liquid onto the neat reagent.");
+             ". Liquids with a pipette; acids and bases go into the liquid, never the liquid onto "
+             "the neat reagent.");
     if (out.contraction_ml > 0.05 * volume_ml / 100.0)
         step("Expect about " + fmt(out.mixed_volume_ml, 0) + " mL, not " + fmt(volume_ml, 0) +
-             " mL: the aqueous part and the organic contract on mixing (" + join(contraction_text, ", ") +
-             "; estimate from published excess volumes).");
-    step("Mix, let the line return to room temperature, degas it, and label the bottle with contents, date "
+             " mL: the aqueous part and the organic contract on mixing (" +
+             join(contraction_text, ", ") + "; an estimate from excess-volume data).");
+    step("Mix, let the line return to room temperature, degas it, and label the bottle with "
+         "contents, date "
          "and hazards.");
 
-    out.notes.push_back("Gravimetric alternative: tare the bottle and weigh each part in turn to the masses "
-                        "given (volume × density at the temperature stated per item); weighing does not depend "
-                        "on the liquid's temperature as a volume reading does.");
+    out.notes.push_back(
+        "Gravimetric alternative: tare the bottle and weigh each part in turn to the masses "
+        "given (volume × density at the temperature stated per item); weighing does not depend "
+        "on the liquid's temperature as a volume reading does.");
     if (out.profile.aqueous_fraction_v > 0 && out.profile.organic_fraction_v > 0)
-        out.notes.push_back("The pH is measured in the aqueous part before the organic is added; it is the "
-                            "aqueous pH that the method and the column's pH range refer to.");
+        out.notes.push_back(
+            "The pH is measured in the aqueous part before the organic is added; it is the "
+            "aqueous pH that the method and the column's pH range refer to.");
     if (out.contraction_ml > 0)
-        out.notes.push_back("Mixing contraction: " + join(contraction_text, ", ") + " for " + fmt(volume_ml, 0) +
-                            " mL measured separately (binary water–organic estimates" +
-                            (organic_ml.size() > 1 ? ", added up: rough for three components" : "") + ").");
+        out.notes.push_back(
+            "Mixing contraction: " + join(contraction_text, ", ") + " for " + fmt(volume_ml, 0) +
+            " mL measured separately (binary water–organic estimates" +
+            (organic_ml.size() > 1 ? ", added up: rough for three components" : "") + ").");
 
     // Cautions from the solvents' and reagents' hazards. Nothing here is called safe.
     std::set<std::string> seen;
     for (const LinePart& part : line.parts) {
         if (part.buffer) {
             for (const auto& c : part.buffer->cautions)
-                if (seen.insert(c).second) out.cautions.push_back(c);
+                if (seen.insert(c).second)
+                    out.cautions.push_back(c);
             continue;
         }
         const Solvent& s = solvents.solvent(part.solvent);
-        if (s.ghs_hazards.empty()) continue;
+        if (s.ghs_hazards.empty())
+            continue;
         std::string c = s.name + " (" + join(s.ghs_hazards) + "; " + join(s.ghs_pictograms) + ")";
-        if (s.is_flammable()) c += ": flammable, keep away from ignition sources and work in a fume hood or with local exhaust";
-        else c += ": work with local exhaust ventilation";
+        if (s.is_flammable())
+            c += ": flammable, keep away from ignition sources and work in a fume hood or with "
+                 "local exhaust";
+        else
+            c += ": work with local exhaust ventilation";
         if (has_code(s.ghs_hazards, {"H30", "H31", "H33", "H34", "H35", "H36", "H37"}))
-            c += "; harmful or toxic by inhalation, skin contact or swallowing: gloves suited to the solvent (see its SDS)";
-        if (seen.insert(c).second) out.cautions.push_back(c + ".");
+            c += "; harmful or toxic by inhalation, skin contact or swallowing: gloves suited to "
+                 "the solvent (see its SDS)";
+        if (seen.insert(c).second)
+            out.cautions.push_back(c + ".");
     }
     for (const LineAdditive& a : line.additives) {
         const Reagent& r = reagents.reagent(a.additive);
-        if (r.ghs_hazards.empty()) continue;
+        if (r.ghs_hazards.empty())
+            continue;
         std::string c = r.name + " (" + join(r.ghs_hazards) + "; " + join(r.ghs_pictograms) + ")";
-        if (r.is_corrosive()) c += ": corrosive, eye protection and gloves, dispense in a fume hood";
-        if (r.is_flammable()) c += r.is_corrosive() ? "; flammable" : ": flammable";
-        if (seen.insert(c).second) out.cautions.push_back(c + ".");
+        if (r.is_corrosive())
+            c += ": corrosive, eye protection and gloves, dispense in a fume hood";
+        if (r.is_flammable())
+            c += r.is_corrosive() ? "; flammable" : ": flammable";
+        if (seen.insert(c).second)
+            out.cautions.push_back(c + ".");
     }
-    out.cautions.push_back("Read the safety data sheet of every solvent and reagent before preparing; wear eye "
-                           "protection, gloves and a lab coat; follow your local rules and your laboratory's "
-                           "procedures, which take precedence over this sheet.");
+    out.cautions.push_back(
+        "Read the safety data sheet of every solvent and reagent before preparing; wear eye "
+        "protection, gloves and a lab coat; follow your local rules and your laboratory's "
+        "procedures, which take precedence over this sheet.");
     return out;
 }
 

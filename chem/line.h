@@ -15,19 +15,19 @@
 namespace chem {
 
 struct LinePart {
-    std::string solvent;            ///< solvent id; empty for a buffer part
-    std::optional<Recipe> buffer;   ///< an aqueous buffer designed by design_recipe()
-    double fraction_v = 0;          ///< volume fraction of the line, measured separately
+    std::string solvent;          ///< solvent id; empty for a buffer part
+    std::optional<Recipe> buffer; ///< an aqueous buffer designed by design_recipe()
+    double fraction_v = 0;        ///< volume fraction of the line, measured separately
 };
 
 struct LineAdditive {
-    std::string additive;           ///< additive id (= reagent id)
+    std::string additive; ///< additive id (= reagent id)
     AmountUnit unit = AmountUnit::percent_v;
-    double amount = 0;              ///< in `unit`, relative to the finished line
+    double amount = 0; ///< in `unit`, relative to the finished line
 };
 
 struct LineSpec {
-    std::string field;              ///< JSON path of the line for errors ("lines.A")
+    std::string field; ///< JSON path of the line for errors ("lines.A")
     std::string name;
     std::vector<LinePart> parts;
     std::vector<LineAdditive> additives;
@@ -36,54 +36,56 @@ struct LineSpec {
 
 /// A dissolved reagent in the finished line.
 struct Solute {
-    std::string reagent;            ///< reagent id
-    double mmol_per_l = 0;          ///< formula units per litre of the finished line
-    std::string from;               ///< "buffer" or "additive"
+    std::string reagent;   ///< reagent id
+    double mmol_per_l = 0; ///< formula units per litre of the finished line
+    std::string from;      ///< "buffer" or "additive"
 };
 
 struct LineProfile {
-    bool described = false;                     ///< has parts (a volumes-only line has none)
-    double aqueous_fraction_v = 0;              ///< water and buffer parts
-    double organic_fraction_v = 0;              ///< everything else
-    std::map<std::string, double> solvent_fraction_v; ///< solvent id → fraction (buffers count as water)
+    bool described = false;        ///< has parts (a volumes-only line has none)
+    double aqueous_fraction_v = 0; ///< water and buffer parts
+    double organic_fraction_v = 0; ///< everything else
+    std::map<std::string, double>
+        solvent_fraction_v; ///< solvent id → fraction (buffers count as water)
     std::vector<Solute> solutes;
-    double uv_cutoff_nm = 0;                    ///< highest of the parts at their concentrations
-    std::string uv_limited_by;                  ///< the part that sets it
-    std::vector<std::string> uv_unknown;        ///< solutes without a cutoff figure
-    std::vector<std::string> uv_beyond_table;   ///< solutes above their table's last row
-    std::optional<double> ph;                   ///< of the aqueous part (see ph_basis)
-    std::string ph_basis;                       ///< "buffer design" | "aqueous additives (solve)" | ""
-    std::vector<std::string> nonvolatile;       ///< solutes unsuitable for MS / ELSD / CAD
+    double uv_cutoff_nm = 0;                  ///< highest of the parts at their concentrations
+    std::string uv_limited_by;                ///< the part that sets it
+    std::vector<std::string> uv_unknown;      ///< solutes without a cutoff figure
+    std::vector<std::string> uv_beyond_table; ///< solutes above their table's last row
+    std::optional<double> ph;                 ///< of the aqueous part (see ph_basis)
+    std::string ph_basis;                 ///< "buffer design" | "aqueous additives (solve)" | ""
+    std::vector<std::string> nonvolatile; ///< solutes unsuitable for MS / ELSD / CAD
     std::vector<std::string> volatility_unknown;
-    std::string shelf_kind;                     ///< a ShelfLife::kind
-    double shelf_life_h = 0;                    ///< default for the kind, or the line's override
-    bool short_lived = false;                   ///< a short-lived component is present
+    std::string shelf_kind;   ///< a ShelfLife::kind
+    double shelf_life_h = 0;  ///< default for the kind, or the line's override
+    bool short_lived = false; ///< a short-lived component is present
 };
 
 /// Validates the line (fractions in (0, 1] summing to 1 ± 1e−4, known solvent and additive ids,
 /// positive amounts, % v/v only for liquids) and works out its profile. Errors name
 /// "<field>.parts[i].fraction_v", "<field>.additives[j].additive", … The pH of a line without a
 /// buffer but with aqueous additives only (no organic) is solved with chem::solve at 25 °C.
-LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents, const LineSpec& line);
+LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents,
+                         const LineSpec& line);
 
 struct LineItem {
-    std::string part;               ///< solvent id, "buffer", or additive id
-    std::string kind;               ///< "solvent" | "buffer" | "additive"
-    double fraction_v = 0;          ///< parts only
+    std::string part;      ///< solvent id, "buffer", or additive id
+    std::string kind;      ///< "solvent" | "buffer" | "additive"
+    double fraction_v = 0; ///< parts only
     std::optional<double> volume_ml;
     std::optional<double> mass_g;
-    double density_g_per_ml = 0;    ///< used for mass_g (0 when none)
+    double density_g_per_ml = 0; ///< used for mass_g (0 when none)
     double density_temperature_c = 20;
     std::string density_basis;
 };
 
 struct LineRecipe {
     LineProfile profile;
-    double volume_ml = 0;                ///< the parts' volumes add up to this
-    std::vector<LineItem> items;         ///< each part, then each additive
-    std::optional<Recipe> buffer;        ///< the buffer part's recipe (for the volume needed)
-    double contraction_ml = 0;           ///< estimated volume lost on mixing (≥ 0 for contraction)
-    double mixed_volume_ml = 0;          ///< volume_ml − contraction_ml
+    double volume_ml = 0;         ///< the parts' volumes add up to this
+    std::vector<LineItem> items;  ///< each part, then each additive
+    std::optional<Recipe> buffer; ///< the buffer part's recipe (for the volume needed)
+    double contraction_ml = 0;    ///< estimated volume lost on mixing (≥ 0 for contraction)
+    double mixed_volume_ml = 0;   ///< volume_ml − contraction_ml
     std::vector<std::string> contraction_sources;
     std::vector<std::string> steps;
     std::vector<std::string> notes;
@@ -100,8 +102,8 @@ std::optional<double> mixing_contraction_ml(const SolventLibrary& solvents, doub
 /// The amounts for `volume_ml` of the line: each part measured separately (and its mass from the
 /// density), each additive, the contraction on mixing, steps, notes and cautions. The buffer part's
 /// recipe is used as given (app/ designs it for the volume the part needs).
-LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents, const LineSpec& line,
-                        double volume_ml);
+LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
+                        const LineSpec& line, double volume_ml);
 
 /// mmol/L of a reagent in the line from an additive amount (percent_v: mL of the liquid as
 /// supplied per 100 mL; percent_w: g of the material as supplied per 100 mL).

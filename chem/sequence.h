@@ -17,8 +17,8 @@ inline constexpr int max_lines = 4;
 /// One value per line A..D (percent, mL, …).
 using LineValues = std::array<double, max_lines>;
 
-char line_letter(int index);               ///< 0 → 'A'
-int line_index(std::string_view key);      ///< "A" → 0; −1 if not one of A–D
+char line_letter(int index);          ///< 0 → 'A'
+int line_index(std::string_view key); ///< "A" → 0; −1 if not one of A–D
 
 /// One row of a gradient table: at t_min the mixer delivers `percent` of each line (sum 100).
 struct GradientRow {
@@ -43,7 +43,7 @@ struct Method {
 
 /// A stretch of an injection's time course in which every line's percentage is linear.
 struct Stretch {
-    double start_min = 0;     ///< from the injection's start
+    double start_min = 0; ///< from the injection's start
     double duration_min = 0;
     LineValues percent_start{};
     LineValues percent_end{};
@@ -54,20 +54,21 @@ struct Stretch {
 std::vector<Stretch> stretches(const Method& m);
 
 /// Volume of each line per injection in mL, exactly: flow/100 × [Σ over segments of
-/// (p_i + p_{i+1})/2 · (t_{i+1} − t_i) + p_last·(run − t_last) + p_first·(t_first + equilibration)].
+/// (p_i + p_{i+1})/2 · (t_{i+1} − t_i) + p_last·(run − t_last) + p_first·(t_first +
+/// equilibration)].
 LineValues volume_per_injection_ml(const Method& m);
 
 struct SequenceRow {
-    std::string method;   ///< Method::name
+    std::string method; ///< Method::name
     int injections = 1;
     std::string label;
 };
 
 struct BottleSpec {
-    std::string name;        ///< the line's display name
-    double bottle_ml = 0;    ///< volume on hand in the bottle
-    double residue_ml = 0;   ///< unusable below the inlet filter
-    double prime_ml = 0;     ///< purged before the sequence (takes no sequence time)
+    std::string name;      ///< the line's display name
+    double bottle_ml = 0;  ///< volume on hand in the bottle
+    double residue_ml = 0; ///< unusable below the inlet filter
+    double prime_ml = 0;   ///< purged before the sequence (takes no sequence time)
 };
 
 /// Flow after the last injection (e.g. overnight standby at low flow).
@@ -83,22 +84,23 @@ struct SequenceInput {
     std::vector<Method> methods;
     std::vector<SequenceRow> rows;
     std::optional<Standby> standby;
-    std::optional<double> waste_capacity_ml;  ///< free volume of the waste container
-    double safety_margin_fraction = 0.10;     ///< spare on the smallest bottle (common practice, no source)
+    std::optional<double> waste_capacity_ml; ///< free volume of the waste container
+    double safety_margin_fraction =
+        0.10; ///< spare on the smallest bottle (common practice, no source)
 };
 
 struct MethodPlan {
     std::string name;
     double injection_min = 0;
     LineValues per_injection_ml{};
-    double pumped_per_injection_ml = 0;  ///< flow × injection_min
-    LineValues max_percent{};            ///< highest percentage of each line the method reaches
+    double pumped_per_injection_ml = 0; ///< flow × injection_min
+    LineValues max_percent{};           ///< highest percentage of each line the method reaches
 };
 
 struct RowPlan {
-    int method = 0;               ///< index into SequencePlan::methods
+    int method = 0; ///< index into SequencePlan::methods
     int injections = 0;
-    int first_injection = 1;      ///< 1-based number across the sequence
+    int first_injection = 1; ///< 1-based number across the sequence
     double start_min = 0;
     double end_min = 0;
     LineValues volume_ml{};
@@ -110,15 +112,15 @@ const char* dry_phase_name(DryPhase p);
 struct LinePlan {
     bool defined = false;
     double prime_ml = 0;
-    double pumped_ml = 0;       ///< injections and standby
-    double required_ml = 0;     ///< prime + pumped
-    double usable_ml = 0;       ///< bottle − residue
+    double pumped_ml = 0;   ///< injections and standby
+    double required_ml = 0; ///< prime + pumped
+    double usable_ml = 0;   ///< bottle − residue
     bool runs_dry = false;
     DryPhase dry_phase = DryPhase::none;
     std::optional<int> dry_after_injection; ///< 1-based injection during which it runs dry
     std::optional<int> dry_row;             ///< 0-based sequence row of that injection
     std::optional<double> dry_at_min;       ///< minutes from the start
-    double spare_ml = 0;        ///< usable − required (negative: shortfall)
+    double spare_ml = 0;                    ///< usable − required (negative: shortfall)
     /// required × (1 + margin) + residue: the smallest bottle that lasts with the margin.
     double min_bottle_ml = 0;
     /// The smallest common bottle size (250 mL … 20 L) at or above min_bottle_ml; 0 if none.
@@ -126,15 +128,15 @@ struct LinePlan {
 };
 
 struct SequencePlan {
-    std::vector<MethodPlan> methods;  ///< in the order of SequenceInput::methods
+    std::vector<MethodPlan> methods; ///< in the order of SequenceInput::methods
     std::vector<RowPlan> rows;
     std::array<LinePlan, max_lines> lines;
     int injections = 0;
-    double total_min = 0;      ///< start to the end of the last injection
+    double total_min = 0; ///< start to the end of the last injection
     double standby_min = 0;
-    double pumped_ml = 0;      ///< everything through the column (injections + standby)
+    double pumped_ml = 0; ///< everything through the column (injections + standby)
     double prime_ml = 0;
-    double waste_ml = 0;       ///< pumped + priming
+    double waste_ml = 0; ///< pumped + priming
     /// 1-based injection running at time t_min (clamped to [1, injections]); 0 before any.
     int injection_at(double t_min) const;
     /// Cumulative waste (priming at t = 0, then the flow) at time t_min, in mL.

@@ -9,33 +9,42 @@ namespace chem {
 
 const char* miscibility_name(Miscibility m) {
     switch (m) {
-    case Miscibility::miscible: return "miscible";
-    case Miscibility::partly: return "partly";
-    case Miscibility::immiscible: return "immiscible";
+    case Miscibility::miscible:
+        return "miscible";
+    case Miscibility::partly:
+        return "partly";
+    case Miscibility::immiscible:
+        return "immiscible";
     }
     return "?";
 }
 
 const char* amount_unit_name(AmountUnit u) {
     switch (u) {
-    case AmountUnit::percent_v: return "percent_v";
-    case AmountUnit::percent_w: return "percent_w";
-    case AmountUnit::mmol_per_l: return "mmol_per_l";
+    case AmountUnit::percent_v:
+        return "percent_v";
+    case AmountUnit::percent_w:
+        return "percent_w";
+    case AmountUnit::mmol_per_l:
+        return "mmol_per_l";
     }
     return "?";
 }
 
 bool Solvent::is_flammable() const {
     for (const auto& p : ghs_pictograms)
-        if (p == "GHS02") return true;
+        if (p == "GHS02")
+            return true;
     for (const auto& h : ghs_hazards)
-        if (h == "H224" || h == "H225" || h == "H226") return true;
+        if (h == "H224" || h == "H225" || h == "H226")
+            return true;
     return false;
 }
 
 UvTable::Lookup UvTable::at(double amount) const {
     Lookup r;
-    if (points.empty()) return r;
+    if (points.empty())
+        return r;
     for (const auto& p : points)
         if (p.amount >= amount * (1 - 1e-9)) {
             r.cutoff_nm = p.cutoff_nm;
@@ -49,8 +58,10 @@ UvTable::Lookup UvTable::at(double amount) const {
 }
 
 std::optional<double> SolubilityTable::limit_mmol_per_l(double f) const {
-    if (points.empty() || f < points.front().first) return std::nullopt;
-    if (f == points.front().first) return points.front().second;
+    if (points.empty() || f < points.front().first)
+        return std::nullopt;
+    if (f == points.front().first)
+        return points.front().second;
     for (std::size_t i = 1; i < points.size(); ++i) {
         if (f <= points[i].first) {
             const auto& [f0, c0] = points[i - 1];
@@ -73,7 +84,8 @@ double ExcessVolume::at(double x) const {
 
 int edit_distance(const std::string& a, const std::string& b) {
     std::vector<int> prev(b.size() + 1), cur(b.size() + 1);
-    for (std::size_t j = 0; j <= b.size(); ++j) prev[j] = static_cast<int>(j);
+    for (std::size_t j = 0; j <= b.size(); ++j)
+        prev[j] = static_cast<int>(j);
     for (std::size_t i = 1; i <= a.size(); ++i) {
         cur[0] = static_cast<int>(i);
         for (std::size_t j = 1; j <= b.size(); ++j) {
@@ -93,7 +105,8 @@ std::pair<std::string, std::string> ordered(const std::string& a, const std::str
 
 void SolventLibrary::add_solvent(Solvent s) {
     if (!(s.density_g_per_ml > 0) || !std::isfinite(s.density_g_per_ml))
-        throw Error("density_g_per_ml", format_number(s.density_g_per_ml) + " is not a positive density");
+        throw Error("density_g_per_ml",
+                    format_number(s.density_g_per_ml) + " is not a positive density");
     if (!(s.molar_mass_g_per_mol > 0))
         throw Error("formula", "gives no positive molar mass for \"" + s.id + "\"");
     for (auto& existing : solvents_)
@@ -105,9 +118,12 @@ void SolventLibrary::add_solvent(Solvent s) {
 }
 
 void SolventLibrary::set_miscibility(const std::string& a, const std::string& b, Miscibility m) {
-    if (!find_solvent(a)) throw Error("miscibility", "unknown solvent \"" + a + "\"");
-    if (!find_solvent(b)) throw Error("miscibility", "unknown solvent \"" + b + "\"");
-    if (a == b) throw Error("miscibility", "pair \"" + a + "\" with itself");
+    if (!find_solvent(a))
+        throw Error("miscibility", "unknown solvent \"" + a + "\"");
+    if (!find_solvent(b))
+        throw Error("miscibility", "unknown solvent \"" + b + "\"");
+    if (a == b)
+        throw Error("miscibility", "pair \"" + a + "\" with itself");
     miscibility_[ordered(a, b)] = m;
 }
 
@@ -128,7 +144,8 @@ void SolventLibrary::add_solubility(SolubilityTable t) {
     std::sort(t.points.begin(), t.points.end());
     for (std::size_t i = 1; i < t.points.size(); ++i)
         if (t.points[i].first == t.points[i - 1].first)
-            throw Error("points", "fraction_v " + format_number(t.points[i].first) + " appears twice");
+            throw Error("points",
+                        "fraction_v " + format_number(t.points[i].first) + " appears twice");
     for (auto& existing : solubility_)
         if (existing.group == t.group && existing.organic == t.organic) {
             existing = std::move(t);
@@ -159,23 +176,26 @@ void SolventLibrary::check_complete() const {
     for (std::size_t i = 0; i < solvents_.size(); ++i)
         for (std::size_t j = i + 1; j < solvents_.size(); ++j)
             if (!miscibility_.count(ordered(solvents_[i].id, solvents_[j].id)))
-                throw Error("miscibility", "no entry for the pair \"" + solvents_[i].id + "\" / \"" +
-                                               solvents_[j].id + "\"");
+                throw Error("miscibility", "no entry for the pair \"" + solvents_[i].id +
+                                               "\" / \"" + solvents_[j].id + "\"");
 }
 
 const Solvent* SolventLibrary::find_solvent(const std::string& id) const {
     for (const auto& s : solvents_)
-        if (s.id == id) return &s;
+        if (s.id == id)
+            return &s;
     return nullptr;
 }
 
 const Solvent& SolventLibrary::solvent(const std::string& id, const std::string& field) const {
-    if (const Solvent* s = find_solvent(id)) return *s;
+    if (const Solvent* s = find_solvent(id))
+        return *s;
     std::string msg = "unknown solvent \"" + id + "\"";
     const auto near = nearest_solvent_ids(id);
     if (!near.empty()) {
         msg += " (nearest: ";
-        for (std::size_t i = 0; i < near.size(); ++i) msg += (i ? ", " : "") + near[i];
+        for (std::size_t i = 0; i < near.size(); ++i)
+            msg += (i ? ", " : "") + near[i];
         msg += ")";
     }
     throw Error(field, msg);
@@ -183,55 +203,70 @@ const Solvent& SolventLibrary::solvent(const std::string& id, const std::string&
 
 const Additive* SolventLibrary::find_additive(const std::string& id) const {
     for (const auto& a : additives_)
-        if (a.id == id) return &a;
+        if (a.id == id)
+            return &a;
     return nullptr;
 }
 
-std::optional<Miscibility> SolventLibrary::miscibility(const std::string& a, const std::string& b) const {
-    if (a == b) return Miscibility::miscible;
+std::optional<Miscibility> SolventLibrary::miscibility(const std::string& a,
+                                                       const std::string& b) const {
+    if (a == b)
+        return Miscibility::miscible;
     auto it = miscibility_.find(ordered(a, b));
-    if (it == miscibility_.end()) return std::nullopt;
+    if (it == miscibility_.end())
+        return std::nullopt;
     return it->second;
 }
 
-const SolubilityTable* SolventLibrary::solubility(const std::string& group, const std::string& organic) const {
+const SolubilityTable* SolventLibrary::solubility(const std::string& group,
+                                                  const std::string& organic) const {
     for (const auto& t : solubility_)
-        if (t.group == group && t.organic == organic) return &t;
+        if (t.group == group && t.organic == organic)
+            return &t;
     return nullptr;
 }
 
-std::vector<const SolubilityTable*> SolventLibrary::solubility_tables(const std::string& group) const {
+std::vector<const SolubilityTable*>
+SolventLibrary::solubility_tables(const std::string& group) const {
     std::vector<const SolubilityTable*> out;
     for (const auto& t : solubility_)
-        if (t.group == group) out.push_back(&t);
+        if (t.group == group)
+            out.push_back(&t);
     return out;
 }
 
 const ShelfLife* SolventLibrary::shelf_life(const std::string& kind) const {
     for (const auto& s : shelf_)
-        if (s.kind == kind) return &s;
+        if (s.kind == kind)
+            return &s;
     return nullptr;
 }
 
-const ExcessVolume* SolventLibrary::excess_volume(const std::string& aqueous, const std::string& organic) const {
+const ExcessVolume* SolventLibrary::excess_volume(const std::string& aqueous,
+                                                  const std::string& organic) const {
     for (const auto& e : excess_)
-        if (e.aqueous == aqueous && e.organic == organic) return &e;
+        if (e.aqueous == aqueous && e.organic == organic)
+            return &e;
     return nullptr;
 }
 
-std::vector<std::string> SolventLibrary::nearest_solvent_ids(const std::string& id, int count) const {
+std::vector<std::string> SolventLibrary::nearest_solvent_ids(const std::string& id,
+                                                             int count) const {
     std::vector<std::pair<int, std::string>> scored;
     for (const auto& s : solvents_) {
         int d = edit_distance(id, s.id);
         // A prefix or substring match ("acn" is no prefix, but "aceto" is) counts as close.
-        if (!id.empty() && s.id.find(id) != std::string::npos) d = std::min(d, 1);
+        if (!id.empty() && s.id.find(id) != std::string::npos)
+            d = std::min(d, 1);
         scored.emplace_back(d, s.id);
     }
     std::sort(scored.begin(), scored.end());
     std::vector<std::string> out;
     for (const auto& [d, sid] : scored) {
-        if (static_cast<int>(out.size()) >= count) break;
-        if (d <= std::max<int>(3, static_cast<int>(id.size()) / 2)) out.push_back(sid);
+        if (static_cast<int>(out.size()) >= count)
+            break;
+        if (d <= std::max<int>(3, static_cast<int>(id.size()) / 2))
+            out.push_back(sid);
     }
     return out;
 }

@@ -16,18 +16,18 @@ enum class Miscibility { miscible, partly, immiscible };
 const char* miscibility_name(Miscibility m);
 
 struct Solvent {
-    std::string id;                   ///< "acetonitrile"
-    std::string name;                 ///< "Acetonitrile"
-    std::string formula;              ///< "C2H3N"
-    bool aqueous = false;             ///< water (the only aqueous solvent here)
-    double molar_mass_g_per_mol = 0;  ///< from the formula, IUPAC 2021 weights
-    double density_g_per_ml = 0;      ///< at density_temperature_c
+    std::string id;                  ///< "acetonitrile"
+    std::string name;                ///< "Acetonitrile"
+    std::string formula;             ///< "C2H3N"
+    bool aqueous = false;            ///< water (the only aqueous solvent here)
+    double molar_mass_g_per_mol = 0; ///< from the formula, IUPAC 2021 weights
+    double density_g_per_ml = 0;     ///< at density_temperature_c
     double density_temperature_c = 20;
-    double viscosity_mpa_s = 0;       ///< at viscosity_temperature_c
+    double viscosity_mpa_s = 0; ///< at viscosity_temperature_c
     double viscosity_temperature_c = 25;
-    double uv_cutoff_nm = 0;          ///< 1 cm path against water, absorbance 1
-    double boiling_point_c = 0;       ///< at 101.325 kPa
-    std::optional<double> flash_point_c; ///< closed cup; none for water and dichloromethane
+    double uv_cutoff_nm = 0;                 ///< 1 cm path against water, absorbance 1
+    double boiling_point_c = 0;              ///< at 101.325 kPa
+    std::optional<double> flash_point_c;     ///< closed cup; none for water and dichloromethane
     std::vector<std::string> ghs_hazards;    ///< "H225", …
     std::vector<std::string> ghs_pictograms; ///< "GHS02", …
     /// Citation per quantity: keys "density", "viscosity", "uv_cutoff", "boiling_point",
@@ -44,7 +44,7 @@ enum class AmountUnit { percent_v, percent_w, mmol_per_l };
 const char* amount_unit_name(AmountUnit u);
 
 struct UvPoint {
-    double amount = 0;     ///< in the table's unit
+    double amount = 0; ///< in the table's unit
     double cutoff_nm = 0;
     std::string source;
 };
@@ -66,21 +66,22 @@ struct UvTable {
 };
 
 struct Additive {
-    std::string id;                 ///< the reagent id where one exists ("formic-acid")
-    bool ms_volatile = false;       ///< suitable for a mass spectrometer (and ELSD/CAD)
+    std::string id;           ///< the reagent id where one exists ("formic-acid")
+    bool ms_volatile = false; ///< suitable for a mass spectrometer (and ELSD/CAD)
     std::string volatility_source;
-    std::optional<UvTable> uv;      ///< absent: no cutoff figure recorded
-    std::string solubility_group;   ///< key into the solubility tables ("potassium-phosphate"), "" none
-    bool short_lived = false;       ///< loses a component from solution within a day (NH4HCO3)
+    std::optional<UvTable> uv; ///< absent: no cutoff figure recorded
+    std::string
+        solubility_group;     ///< key into the solubility tables ("potassium-phosphate"), "" none
+    bool short_lived = false; ///< loses a component from solution within a day (NH4HCO3)
     std::string note;
 };
 
 /// Highest total concentration of a salt group in a water–organic mixture, against the volume
 /// fraction of the organic. basis "published" or "rule-of-thumb".
 struct SolubilityTable {
-    std::string group;    ///< "potassium-phosphate"
-    std::string organic;  ///< solvent id: "acetonitrile"
-    std::string basis;    ///< "published" | "rule-of-thumb"
+    std::string group;   ///< "potassium-phosphate"
+    std::string organic; ///< solvent id: "acetonitrile"
+    std::string basis;   ///< "published" | "rule-of-thumb"
     std::string source;
     std::vector<std::pair<double, double>> points; ///< (organic fraction_v, max mmol/L), ascending
 
@@ -92,7 +93,7 @@ struct SolubilityTable {
 
 /// Default shelf life for a kind of solution (a lab-set default, common practice).
 struct ShelfLife {
-    std::string kind;     ///< "aqueous-buffer", "buffer-with-organic", …
+    std::string kind; ///< "aqueous-buffer", "buffer-with-organic", …
     double hours = 0;
     std::string source;
     std::string description;
@@ -102,7 +103,7 @@ struct ShelfLife {
 /// V^E(x) = x(1−x) Σ_k A_k (2x−1)^k in cm³/mol, x = mole fraction of the organic.
 struct ExcessVolume {
     std::string aqueous = "water";
-    std::string organic;            ///< "methanol"
+    std::string organic; ///< "methanol"
     double temperature_c = 25;
     std::vector<double> rk_cm3_per_mol; ///< A_0, A_1, …
     std::string source;
@@ -111,7 +112,7 @@ struct ExcessVolume {
 };
 
 class SolventLibrary {
-public:
+  public:
     /// Adds or replaces (by id). Throws chem::Error for a non-positive density or molar mass.
     void add_solvent(Solvent s);
     void set_miscibility(const std::string& a, const std::string& b, Miscibility m);
@@ -140,7 +141,7 @@ public:
     const std::string& miscibility_source() const { return miscibility_source_; }
     void set_miscibility_source(std::string s) { miscibility_source_ = std::move(s); }
 
-private:
+  private:
     std::vector<Solvent> solvents_;
     std::map<std::pair<std::string, std::string>, Miscibility> miscibility_;
     std::vector<Additive> additives_;

@@ -23,7 +23,9 @@ QJsonObject run_line(const QJsonObject& doc) {
     return phaseplan::command_line(shipped_data(), doc, {});
 }
 
-QJsonObject parse(const char* json) { return QJsonDocument::fromJson(QByteArray(json)).object(); }
+QJsonObject parse(const char* json) {
+    return QJsonDocument::fromJson(QByteArray(json)).object();
+}
 
 QJsonObject single_solvent(const QString& id, double volume_ml) {
     return QJsonObject{{"volume_ml", volume_ml},
@@ -32,14 +34,16 @@ QJsonObject single_solvent(const QString& id, double volume_ml) {
 
 QJsonObject item(const QJsonObject& out, const QString& part) {
     for (const auto& v : out["items"].toArray())
-        if (v.toObject()["part"].toString() == part) return v.toObject();
+        if (v.toObject()["part"].toString() == part)
+            return v.toObject();
     return {};
 }
 
 QStringList codes(const QJsonObject& out, const QString& severity = {}) {
     QStringList c;
     for (const auto& w : out["warnings"].toArray())
-        if (severity.isEmpty() || w.toObject()["severity"].toString() == severity) c << w.toObject()["code"].toString();
+        if (severity.isEmpty() || w.toObject()["severity"].toString() == severity)
+            c << w.toObject()["code"].toString();
     return c;
 }
 
@@ -47,9 +51,11 @@ const char* phosphate_ph25_buffer =
     R"({"target_ph": 2.5, "route": "mix", "acid": "phosphoric-acid",
         "base": "sodium-dihydrogen-phosphate-monohydrate", "concentration_mol_per_l": 0.02})";
 
-QJsonObject buffer_line(const QJsonObject& buffer, double buffer_fraction, const QString& organic, double volume_ml) {
+QJsonObject buffer_line(const QJsonObject& buffer, double buffer_fraction, const QString& organic,
+                        double volume_ml) {
     QJsonArray parts{QJsonObject{{"buffer", buffer}, {"fraction_v", buffer_fraction}}};
-    if (buffer_fraction < 1) parts.append(QJsonObject{{"solvent", organic}, {"fraction_v", 1 - buffer_fraction}});
+    if (buffer_fraction < 1)
+        parts.append(QJsonObject{{"solvent", organic}, {"fraction_v", 1 - buffer_fraction}});
     return QJsonObject{{"name", "test line"}, {"volume_ml", volume_ml}, {"parts", parts}};
 }
 
@@ -65,7 +71,7 @@ QJsonObject potassium_phosphate_ph7(double mol_per_l) {
 
 class TestLine : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void handbookSolvents_data();
     void handbookSolvents();
     void gravimetricMassesOfAMixedLine();
@@ -92,12 +98,13 @@ void TestLine::handbookSolvents_data() {
     QTest::addColumn<double>("density_20c");
     QTest::addColumn<double>("viscosity_25c");
     QTest::addColumn<double>("uv_cutoff_nm");
-    const QJsonObject doc = phaseplan::testing::read_json(TESTS_DATA_DIR "/line_handbook_solvents.json");
+    const QJsonObject doc =
+        phaseplan::testing::read_json(TESTS_DATA_DIR "/line_handbook_solvents.json");
     for (const auto& v : doc["rows"].toArray()) {
         const QJsonObject r = v.toObject();
         QTest::newRow(r["solvent"].toString().toUtf8().constData())
-            << r["solvent"].toString() << r["density_20c"].toDouble() << r["viscosity_25c"].toDouble()
-            << r["uv_cutoff_nm"].toDouble();
+            << r["solvent"].toString() << r["density_20c"].toDouble()
+            << r["viscosity_25c"].toDouble() << r["uv_cutoff_nm"].toDouble();
     }
 }
 
@@ -113,17 +120,20 @@ void TestLine::handbookSolvents() {
     // The handbook column is at 20 °C: the line must state the temperature its mass refers to.
     QCOMPARE(it["density_temperature_c"].toDouble(), 20.0);
     const double mass = it["mass_g"].toDouble();
-    QVERIFY2(std::fabs(mass / 1000.0 - density_20c) <= 0.003 * density_20c,
-             qPrintable(QString("%1 g for 1000 mL vs handbook %2 g/mL").arg(mass).arg(density_20c)));
+    QVERIFY2(
+        std::fabs(mass / 1000.0 - density_20c) <= 0.003 * density_20c,
+        qPrintable(QString("%1 g for 1000 mL vs handbook %2 g/mL").arg(mass).arg(density_20c)));
     const double cutoff = out["uv_cutoff_nm"].toDouble();
-    QVERIFY2(std::fabs(cutoff - uv_cutoff_nm) <= 5.0, qPrintable(QString("cutoff %1 nm vs %2 nm").arg(cutoff).arg(uv_cutoff_nm)));
+    QVERIFY2(std::fabs(cutoff - uv_cutoff_nm) <= 5.0,
+             qPrintable(QString("cutoff %1 nm vs %2 nm").arg(cutoff).arg(uv_cutoff_nm)));
     const QJsonObject props = out["solvents"].toArray().at(0).toObject();
     QCOMPARE(props["viscosity_temperature_c"].toDouble(), 25.0);
     const double eta = props["viscosity_mpa_s"].toDouble();
     QVERIFY2(std::fabs(eta - viscosity_25c) <= 0.10 * viscosity_25c,
              qPrintable(QString("viscosity %1 vs %2 mPa s").arg(eta).arg(viscosity_25c)));
     // Every number carries a source.
-    for (const char* k : {"density", "viscosity", "uv_cutoff", "boiling_point", "flash_point", "ghs"})
+    for (const char* k :
+         {"density", "viscosity", "uv_cutoff", "boiling_point", "flash_point", "ghs"})
         QVERIFY2(!props["sources"].toObject()[k].toString().isEmpty(), k);
 }
 
@@ -150,7 +160,8 @@ void TestLine::bufferPartMassLiesBetweenWaterAndWaterPlusSolids() {
     const QJsonObject out = run_line(doc);
     const double mass = item(out, "buffer")["mass_g"].toDouble();
     double solids_g = 0;
-    for (const auto& v : out["buffer"].toObject()["items"].toArray()) solids_g += v.toObject()["mass_g"].toDouble();
+    for (const auto& v : out["buffer"].toObject()["items"].toArray())
+        solids_g += v.toObject()["mass_g"].toDouble();
     QVERIFY(solids_g > 0);
     QCOMPARE(out["buffer"].toObject()["volume_ml"].toDouble(), 900.0);
     QVERIFY2(mass >= 898.39 - 0.05 && mass <= 898.39 + solids_g + 0.05,
@@ -181,13 +192,16 @@ void TestLine::methanolWaterContraction() {
     const double v_water = (100 - wt_percent) / 0.99821;
     const double v_total = v_meoh + v_water;
     const double expected = v_total - 100.0 / density_mix;
-    QJsonObject doc{{"volume_ml", v_total},
-                    {"parts", QJsonArray{QJsonObject{{"solvent", "methanol"}, {"fraction_v", v_meoh / v_total}},
-                                         QJsonObject{{"solvent", "water"}, {"fraction_v", v_water / v_total}}}}};
+    QJsonObject doc{
+        {"volume_ml", v_total},
+        {"parts",
+         QJsonArray{QJsonObject{{"solvent", "methanol"}, {"fraction_v", v_meoh / v_total}},
+                    QJsonObject{{"solvent", "water"}, {"fraction_v", v_water / v_total}}}}};
     const QJsonObject out = run_line(doc);
     const double got = out["contraction_ml"].toDouble();
     QVERIFY2(expected > 1.5, "the handbook table implies a contraction");
-    QVERIFY2(std::fabs(got - expected) <= 0.5, qPrintable(QString("contraction %1 mL vs handbook %2 mL").arg(got).arg(expected)));
+    QVERIFY2(std::fabs(got - expected) <= 0.5,
+             qPrintable(QString("contraction %1 mL vs handbook %2 mL").arg(got).arg(expected)));
     QCOMPARE(out["mixed_volume_ml"].toDouble(), v_total - got);
     QVERIFY(!out["contraction_sources"].toArray().isEmpty());
 }
@@ -197,14 +211,16 @@ void TestLine::acetonitrileContractsLessThanMethanol() {
     // water–acetonitrile near −0.5 cm³/mol (from memory): mixing 500 + 500 mL contracts, and
     // less with acetonitrile.
     auto contraction = [](const char* organic) {
-        QJsonObject doc{{"volume_ml", 1000},
-                        {"parts", QJsonArray{QJsonObject{{"solvent", organic}, {"fraction_v", 0.5}},
-                                             QJsonObject{{"solvent", "water"}, {"fraction_v", 0.5}}}}};
+        QJsonObject doc{
+            {"volume_ml", 1000},
+            {"parts", QJsonArray{QJsonObject{{"solvent", organic}, {"fraction_v", 0.5}},
+                                 QJsonObject{{"solvent", "water"}, {"fraction_v", 0.5}}}}};
         return run_line(doc)["contraction_ml"].toDouble();
     };
     const double meoh = contraction("methanol");
     const double mecn = contraction("acetonitrile");
-    QVERIFY2(mecn > 0 && mecn < meoh, qPrintable(QString("MeCN %1 mL, MeOH %2 mL").arg(mecn).arg(meoh)));
+    QVERIFY2(mecn > 0 && mecn < meoh,
+             qPrintable(QString("MeCN %1 mL, MeOH %2 mL").arg(mecn).arg(meoh)));
     // No contraction is claimed for a single solvent.
     QCOMPARE(run_line(single_solvent("methanol", 1000))["contraction_ml"].toDouble(), 0.0);
 }
@@ -216,14 +232,22 @@ void TestLine::additiveUvCutoffs_data() {
     QTest::addColumn<QString>("unit");
     QTest::addColumn<double>("amount");
     QTest::addColumn<double>("cutoff_nm");
-    QTest::newRow("TFA 0.1 %") << "trifluoroacetic-acid" << "percent_v" << 0.1 << 210.0;
-    QTest::newRow("formic acid 0.1 %") << "formic-acid" << "percent_v" << 0.1 << 210.0;
-    QTest::newRow("acetic acid 1 %") << "acetic-acid" << "percent_v" << 1.0 << 230.0;
-    QTest::newRow("phosphoric acid 0.1 %") << "phosphoric-acid" << "percent_v" << 0.1 << 200.0;
-    QTest::newRow("ammonium acetate 10 mM") << "ammonium-acetate" << "mmol_per_l" << 10.0 << 210.0;
-    QTest::newRow("ammonium formate 10 mM") << "ammonium-formate" << "mmol_per_l" << 10.0 << 210.0;
-    QTest::newRow("ammonium bicarbonate 10 mM") << "ammonium-bicarbonate" << "mmol_per_l" << 10.0 << 200.0;
-    QTest::newRow("triethylamine 0.1 %") << "triethylamine" << "percent_v" << 0.1 << 235.0;
+    QTest::newRow("TFA 0.1 %") << "trifluoroacetic-acid"
+                               << "percent_v" << 0.1 << 210.0;
+    QTest::newRow("formic acid 0.1 %") << "formic-acid"
+                                       << "percent_v" << 0.1 << 210.0;
+    QTest::newRow("acetic acid 1 %") << "acetic-acid"
+                                     << "percent_v" << 1.0 << 230.0;
+    QTest::newRow("phosphoric acid 0.1 %") << "phosphoric-acid"
+                                           << "percent_v" << 0.1 << 200.0;
+    QTest::newRow("ammonium acetate 10 mM") << "ammonium-acetate"
+                                            << "mmol_per_l" << 10.0 << 210.0;
+    QTest::newRow("ammonium formate 10 mM") << "ammonium-formate"
+                                            << "mmol_per_l" << 10.0 << 210.0;
+    QTest::newRow("ammonium bicarbonate 10 mM") << "ammonium-bicarbonate"
+                                                << "mmol_per_l" << 10.0 << 200.0;
+    QTest::newRow("triethylamine 0.1 %") << "triethylamine"
+                                         << "percent_v" << 0.1 << 235.0;
 }
 
 void TestLine::additiveUvCutoffs() {
@@ -234,8 +258,9 @@ void TestLine::additiveUvCutoffs() {
     QJsonObject doc = single_solvent("water", 1000);
     doc["additives"] = QJsonArray{QJsonObject{{"additive", additive}, {unit, amount}}};
     const QJsonObject out = run_line(doc);
-    QVERIFY2(std::fabs(out["uv_cutoff_nm"].toDouble() - cutoff_nm) <= 5.0,
-             qPrintable(QString("%1 nm vs %2 nm").arg(out["uv_cutoff_nm"].toDouble()).arg(cutoff_nm)));
+    QVERIFY2(
+        std::fabs(out["uv_cutoff_nm"].toDouble() - cutoff_nm) <= 5.0,
+        qPrintable(QString("%1 nm vs %2 nm").arg(out["uv_cutoff_nm"].toDouble()).arg(cutoff_nm)));
     QCOMPARE(out["uv_limited_by"].toString(), additive);
     // One item per part and per additive, each named.
     QCOMPARE(out["items"].toArray().size(), 2);
@@ -246,17 +271,20 @@ void TestLine::lineCutoffIsTheHighestPart() {
     // Acetonitrile 190 nm with 0.1 % TFA (210 nm): the TFA sets the line's cutoff. Acetone (330 nm,
     // Burdick & Jackson, from memory) at 10 % in water sets it at acetone's neat cutoff
     // (conservative: the neat value, not diluted).
-    const QJsonObject a = run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "acetonitrile", "fraction_v": 1}],
+    const QJsonObject a = run_line(
+        parse(R"({"volume_ml": 1000, "parts": [{"solvent": "acetonitrile", "fraction_v": 1}],
         "additives": [{"additive": "trifluoroacetic-acid", "percent_v": 0.1}]})"));
     QVERIFY(std::fabs(a["uv_cutoff_nm"].toDouble() - 210) <= 5);
-    const QJsonObject b = run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.9},
+    const QJsonObject b =
+        run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.9},
         {"solvent": "acetone", "fraction_v": 0.1}]})"));
     QVERIFY(std::fabs(b["uv_cutoff_nm"].toDouble() - 330) <= 5);
     QCOMPARE(b["uv_limited_by"].toString(), QString("acetone"));
     // The detector check: 254 nm is below acetone's cutoff (warning), 340 nm is within 10 nm of
     // it (caution), 400 nm is clear.
     auto with_detector = [&](double nm) {
-        QJsonObject d = parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.9},
+        QJsonObject d =
+            parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.9},
             {"solvent": "acetone", "fraction_v": 0.1}]})");
         d["detector"] = QJsonObject{{"type", "uv"}, {"wavelength_nm", nm}};
         return run_line(d);
@@ -273,12 +301,15 @@ void TestLine::phOfAqueousAdditives_data() {
     QTest::addColumn<double>("ph");
     QTest::addColumn<double>("tolerance");
     // "0.1 % formic acid in water is about pH 2.7" (common practice, no source).
-    QTest::newRow("formic acid 0.1 %") << "formic-acid" << "percent_v" << 0.1 << 2.7 << 0.1;
+    QTest::newRow("formic acid 0.1 %") << "formic-acid"
+                                       << "percent_v" << 0.1 << 2.7 << 0.1;
     // "0.1 % TFA is about pH 2" (common practice, no source).
-    QTest::newRow("TFA 0.1 %") << "trifluoroacetic-acid" << "percent_v" << 0.1 << 2.0 << 0.15;
+    QTest::newRow("TFA 0.1 %") << "trifluoroacetic-acid"
+                               << "percent_v" << 0.1 << 2.0 << 0.15;
     // Ammonium acetate: pH ≈ (pKa(acetic acid) 4.756 + pKa(NH4+) 9.245)/2 = 7.00 (pKa values:
     // Harned & Ehlers 1933; Bates & Pinching 1949; from memory).
-    QTest::newRow("ammonium acetate 10 mM") << "ammonium-acetate" << "mmol_per_l" << 10.0 << 7.0 << 0.05;
+    QTest::newRow("ammonium acetate 10 mM") << "ammonium-acetate"
+                                            << "mmol_per_l" << 10.0 << 7.0 << 0.05;
 }
 
 void TestLine::phOfAqueousAdditives() {
@@ -291,7 +322,8 @@ void TestLine::phOfAqueousAdditives() {
     doc["additives"] = QJsonArray{QJsonObject{{"additive", additive}, {unit, amount}}};
     const QJsonObject out = run_line(doc);
     QVERIFY(out["ph"].isDouble());
-    QVERIFY2(std::fabs(out["ph"].toDouble() - ph) <= tolerance, qPrintable(QString("pH %1").arg(out["ph"].toDouble())));
+    QVERIFY2(std::fabs(out["ph"].toDouble() - ph) <= tolerance,
+             qPrintable(QString("pH %1").arg(out["ph"].toDouble())));
     // With organic in the line there is no aqueous pH to state.
     doc["parts"] = QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 0.5}},
                               QJsonObject{{"solvent", "methanol"}, {"fraction_v", 0.5}}};
@@ -299,7 +331,8 @@ void TestLine::phOfAqueousAdditives() {
 }
 
 void TestLine::bufferLineMeasuresPhBeforeOrganic() {
-    const QJsonObject out = run_line(buffer_line(parse(phosphate_ph25_buffer), 0.9, "acetonitrile", 1000));
+    const QJsonObject out =
+        run_line(buffer_line(parse(phosphate_ph25_buffer), 0.9, "acetonitrile", 1000));
     // The designer's contract: the buffer as made lands within 0.005 of its target.
     QVERIFY(std::fabs(out["ph"].toDouble() - 2.5) <= 0.005);
     QCOMPARE(item(out, "buffer")["volume_ml"].toDouble(), 900.0);
@@ -307,18 +340,21 @@ void TestLine::bufferLineMeasuresPhBeforeOrganic() {
     const QString first = out["steps"].toArray().at(0).toString();
     QVERIFY2(first.contains("pH") && first.contains("before any organic"), qPrintable(first));
     bool note = false;
-    for (const auto& n : out["notes"].toArray()) note |= n.toString().contains("measured in the aqueous part before");
+    for (const auto& n : out["notes"].toArray())
+        note |= n.toString().contains("measured in the aqueous part before");
     QVERIFY(note);
-    QCOMPARE(out["composition"].toObject()["shelf_kind"].toString(), QString("buffer-with-organic"));
+    QCOMPARE(out["composition"].toObject()["shelf_kind"].toString(),
+             QString("buffer-with-organic"));
 }
 
 void TestLine::immiscibleParts() {
     // Miscibility chart (Sadek 2002; Burdick & Jackson; from memory): water–hexane immiscible,
     // water–ethyl acetate partly miscible, water–acetonitrile miscible.
     auto warn = [](const char* organic) {
-        QJsonObject d{{"volume_ml", 1000},
-                      {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 0.5}},
-                                           QJsonObject{{"solvent", organic}, {"fraction_v", 0.5}}}}};
+        QJsonObject d{
+            {"volume_ml", 1000},
+            {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 0.5}},
+                                 QJsonObject{{"solvent", organic}, {"fraction_v", 0.5}}}}};
         return run_line(d);
     };
     QCOMPARE(codes(warn("hexane"), "warning"), QStringList{"immiscible"});
@@ -332,7 +368,8 @@ void TestLine::precipitationInTheBottle() {
     // data/solvents.json (common practice, no source): 15 mmol/L at 70 %, 5 at 80 %, 30 at 60 %.
     //   50 mM buffer, 20 % buffer / 80 % MeCN → 10 mmol/L at 80 %: above 5 → warning.
     //   50 mM buffer, 40 % / 60 %            → 20 mmol/L at 60 %: below 30 → none.
-    const QJsonObject over = run_line(buffer_line(potassium_phosphate_ph7(0.05), 0.2, "acetonitrile", 1000));
+    const QJsonObject over =
+        run_line(buffer_line(potassium_phosphate_ph7(0.05), 0.2, "acetonitrile", 1000));
     QCOMPARE(codes(over, "warning"), QStringList{"precipitation"});
     for (const auto& w : over["warnings"].toArray())
         if (w.toObject()["code"] == "precipitation") {
@@ -340,7 +377,8 @@ void TestLine::precipitationInTheBottle() {
             QCOMPARE(w.toObject()["limit_mmol_per_l"].toDouble(), 5.0);
             QCOMPARE(w.toObject()["basis"].toString(), QString("rule-of-thumb"));
         }
-    const QJsonObject fine = run_line(buffer_line(potassium_phosphate_ph7(0.05), 0.4, "acetonitrile", 1000));
+    const QJsonObject fine =
+        run_line(buffer_line(potassium_phosphate_ph7(0.05), 0.4, "acetonitrile", 1000));
     QVERIFY(!codes(fine).contains("precipitation"));
 }
 
@@ -353,7 +391,8 @@ void TestLine::msAndColumnChecks() {
     QVERIFY(codes(a, "warning").contains("column-ph"));
     // 0.1 % formic acid (volatile, Snyder, Kirkland & Dolan 2010, from memory) at pH ~2.7 on a
     // pH 2–8 column: neither check fires.
-    QJsonObject formic = parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 1}],
+    QJsonObject formic =
+        parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 1}],
         "additives": [{"additive": "formic-acid", "percent_v": 0.1}],
         "detector": {"type": "ms"}, "column": {"ph_min": 2, "ph_max": 8}})");
     const QJsonObject b = run_line(formic);
@@ -362,7 +401,8 @@ void TestLine::msAndColumnChecks() {
 }
 
 void TestLine::cautionsDeferToSdsAndLocalRules() {
-    const QJsonObject out = run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "methanol", "fraction_v": 0.5},
+    const QJsonObject out =
+        run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "methanol", "fraction_v": 0.5},
         {"solvent": "water", "fraction_v": 0.5}], "additives": [{"additive": "formic-acid", "percent_v": 0.1}]})"));
     const QJsonArray c = out["cautions"].toArray();
     QVERIFY(c.size() >= 3);
@@ -372,7 +412,8 @@ void TestLine::cautionsDeferToSdsAndLocalRules() {
     for (const auto& v : c) {
         flammable |= v.toString().contains("H225") && v.toString().contains("flammable");
         corrosive |= v.toString().contains("H314") && v.toString().contains("corrosive");
-        QVERIFY2(!v.toString().contains(QRegularExpression("\\bsafe\\b")), qPrintable(v.toString()));
+        QVERIFY2(!v.toString().contains(QRegularExpression("\\bsafe\\b")),
+                 qPrintable(v.toString()));
     }
     QVERIFY(flammable && corrosive);
 }
@@ -385,8 +426,8 @@ void TestLine::badInputIsRejected_data() {
     for (const auto& c : doc["cases"].toArray()) {
         const QJsonObject o = c.toObject();
         QTest::newRow(o["name"].toString().toUtf8().constData())
-            << QJsonDocument(o["input"].toObject()).toJson(QJsonDocument::Compact) << o["field"].toString()
-            << o["contains"].toString();
+            << QJsonDocument(o["input"].toObject()).toJson(QJsonDocument::Compact)
+            << o["field"].toString() << o["contains"].toString();
     }
 }
 
@@ -400,7 +441,8 @@ void TestLine::badInputIsRejected() {
     const QString err = QString::fromUtf8(r.err).trimmed();
     QVERIFY2(!err.contains('\n'), qPrintable(err));
     QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
-    if (!contains.isEmpty()) QVERIFY2(err.contains(contains), qPrintable(err));
+    if (!contains.isEmpty())
+        QVERIFY2(err.contains(contains), qPrintable(err));
 }
 
 QTEST_GUILESS_MAIN(TestLine)

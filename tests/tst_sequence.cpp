@@ -21,53 +21,65 @@ namespace {
 
 // --- JSON path edits for the data-driven cases: "methods.m.gradient[1].t_min"
 QJsonValue set_at(const QJsonValue& node, QStringList tokens, const QJsonValue& value) {
-    if (tokens.isEmpty()) return value;
+    if (tokens.isEmpty())
+        return value;
     const QString t = tokens.takeFirst();
     if (t.startsWith('[')) {
         QJsonArray a = node.toArray();
         const int i = t.mid(1, t.size() - 2).toInt();
-        while (a.size() <= i) a.append(QJsonValue());
+        while (a.size() <= i)
+            a.append(QJsonValue());
         a[i] = set_at(a.at(i), tokens, value);
         return a;
     }
     QJsonObject o = node.toObject();
-    if (tokens.isEmpty() && value.isNull()) o.remove(t);
-    else o[t] = set_at(o.value(t), tokens, value);
+    if (tokens.isEmpty() && value.isNull())
+        o.remove(t);
+    else
+        o[t] = set_at(o.value(t), tokens, value);
     return o;
 }
 
 QJsonObject set_path(const QJsonObject& doc, const QString& path, const QJsonValue& value) {
     QStringList tokens;
     static const QRegularExpression re(R"(([^.\[\]]+)|(\[\d+\]))");
-    for (auto it = re.globalMatch(path); it.hasNext();) tokens << it.next().captured(0);
+    for (auto it = re.globalMatch(path); it.hasNext();)
+        tokens << it.next().captured(0);
     return set_at(doc, tokens, value).toObject();
 }
 
 QJsonObject base_doc() {
-    return phaseplan::testing::read_json(TESTS_DATA_DIR "/sequence_bad_input.json")["base"].toObject();
+    return phaseplan::testing::read_json(TESTS_DATA_DIR "/sequence_bad_input.json")["base"]
+        .toObject();
 }
 
-QJsonObject run_sequence(const QJsonObject& doc) { return phaseplan::command_sequence(shipped_data(), doc, {}); }
+QJsonObject run_sequence(const QJsonObject& doc) {
+    return phaseplan::command_sequence(shipped_data(), doc, {});
+}
 
 QStringList codes(const QJsonObject& out, const QString& severity = {}) {
     QStringList c;
     for (const auto& w : out["warnings"].toArray())
-        if (severity.isEmpty() || w.toObject()["severity"].toString() == severity) c << w.toObject()["code"].toString();
+        if (severity.isEmpty() || w.toObject()["severity"].toString() == severity)
+            c << w.toObject()["code"].toString();
     return c;
 }
 
 QJsonObject warning(const QJsonObject& out, const QString& code) {
     for (const auto& w : out["warnings"].toArray())
-        if (w.toObject()["code"].toString() == code) return w.toObject();
+        if (w.toObject()["code"].toString() == code)
+            return w.toObject();
     return {};
 }
 
 QJsonObject buffer_part(const char* json) {
     return QJsonObject{{"buffer", QJsonDocument::fromJson(json).object()}, {"fraction_v", 1.0}};
 }
-const char* phosphate_k_ph7_25mm = R"({"target_ph": 7.0, "route": "mix", "acid": "potassium-dihydrogen-phosphate",
+const char* phosphate_k_ph7_25mm =
+    R"({"target_ph": 7.0, "route": "mix", "acid": "potassium-dihydrogen-phosphate",
     "base": "dipotassium-hydrogen-phosphate", "concentration_mol_per_l": 0.025})";
-const char* phosphate_na_ph25_20mm = R"({"target_ph": 2.5, "route": "mix", "acid": "phosphoric-acid",
+const char* phosphate_na_ph25_20mm =
+    R"({"target_ph": 2.5, "route": "mix", "acid": "phosphoric-acid",
     "base": "sodium-dihydrogen-phosphate-monohydrate", "concentration_mol_per_l": 0.02})";
 const char* formate_ph35_10mm = R"({"target_ph": 3.5, "route": "mix", "acid": "formic-acid",
     "base": "ammonium-formate", "concentration_mol_per_l": 0.01})";
@@ -87,7 +99,7 @@ chem::GradientRow row(double t, double a, double b, double c = 0) {
 
 class TestSequence : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void handWorkedIntegrals();
     void percentAtFollowsTheTable();
     void dryTimeInsideARamp();
@@ -125,10 +137,10 @@ void TestSequence::handWorkedIntegrals() {
 
     // (b) 0.5 mL/min, three lines, first row at 2 min (held from 0), rows
     //     t=2: A80 B20 C0;  t=8: A20 B50 C30;  t=10: A20 B50 C30;  run 12; equilibration 3.
-    //     A: 2·80 = 160; (80+20)/2·6 = 300; 20·2 = 40; hold 20·2 = 40; equil. 80·3 = 240 → 780 %·min → 3.90 mL
-    //     B: 2·20 = 40;  (20+50)/2·6 = 210; 50·2 = 100; 50·2 = 100; 20·3 = 60 → 510 %·min → 2.55 mL
-    //     C: 0;          (0+30)/2·6 = 90;   30·2 = 60;  30·2 = 60;  0 → 210 %·min → 1.05 mL
-    //     Sum 7.50 mL = 0.5 mL/min × 15 min.
+    //     A: 2·80 = 160; (80+20)/2·6 = 300; 20·2 = 40; hold 20·2 = 40; equil. 80·3 = 240 → 780
+    //     %·min → 3.90 mL B: 2·20 = 40;  (20+50)/2·6 = 210; 50·2 = 100; 50·2 = 100; 20·3 = 60 → 510
+    //     %·min → 2.55 mL C: 0;          (0+30)/2·6 = 90;   30·2 = 60;  30·2 = 60;  0 → 210 %·min
+    //     → 1.05 mL Sum 7.50 mL = 0.5 mL/min × 15 min.
     chem::Method b;
     b.name = "b";
     b.flow_ml_min = 0.5;
@@ -208,7 +220,8 @@ void TestSequence::dryDuringPrimingAndStandby() {
     in.methods = {m};
     in.rows = {{"iso", 4, ""}};
     // Standby 0.5 mL/min at 20 % A / 80 % B for 600 min: B takes 0.4 mL/min. B after 4
-    // injections: 4 · 5 = 20 mL, 70 left → dry 70/0.4 = 175 min into the standby, at 40 + 175 = 215 min.
+    // injections: 4 · 5 = 20 mL, 70 left → dry 70/0.4 = 175 min into the standby, at 40 + 175 = 215
+    // min.
     in.standby = chem::Standby{0.5, 600, chem::LineValues{20, 80, 0, 0}};
     const auto plan = chem::plan_sequence(in);
     QVERIFY(plan.lines[0].runs_dry);
@@ -273,7 +286,8 @@ void TestSequence::volumesAddUpToFlowTimesTime() {
     for (int trial = 0; trial < 200; ++trial) {
         chem::SequenceInput in;
         const int nlines = 2 + static_cast<int>(u(rng) * 3); // 2–4
-        for (int l = 0; l < nlines; ++l) in.lines[l] = chem::BottleSpec{"", 1e5, 10, 20 * u(rng)};
+        for (int l = 0; l < nlines; ++l)
+            in.lines[l] = chem::BottleSpec{"", 1e5, 10, 20 * u(rng)};
         const int nmethods = 1 + static_cast<int>(u(rng) * 5);
         for (int mi = 0; mi < nmethods; ++mi) {
             chem::Method m;
@@ -299,29 +313,37 @@ void TestSequence::volumesAddUpToFlowTimesTime() {
         }
         const int nrows = 1 + static_cast<int>(u(rng) * 20);
         for (int r = 0; r < nrows; ++r)
-            in.rows.push_back({"m" + std::to_string(static_cast<int>(u(rng) * nmethods)), 1 + static_cast<int>(u(rng) * 40), ""});
-        if (u(rng) < 0.5) in.standby = chem::Standby{0.05 + u(rng), 600 * u(rng), std::nullopt};
+            in.rows.push_back({"m" + std::to_string(static_cast<int>(u(rng) * nmethods)),
+                               1 + static_cast<int>(u(rng) * 40), ""});
+        if (u(rng) < 0.5)
+            in.standby = chem::Standby{0.05 + u(rng), 600 * u(rng), std::nullopt};
         const auto plan = chem::plan_sequence(in);
 
         double expected = 0, time = 0;
         for (const auto& r : in.rows) {
-            const auto it = std::find_if(in.methods.begin(), in.methods.end(), [&](const chem::Method& m) { return m.name == r.method; });
+            const auto it = std::find_if(in.methods.begin(), in.methods.end(),
+                                         [&](const chem::Method& m) { return m.name == r.method; });
             expected += it->flow_ml_min * r.injections * it->injection_min();
             time += r.injections * it->injection_min();
         }
-        if (in.standby) expected += in.standby->flow_ml_min * in.standby->duration_min;
+        if (in.standby)
+            expected += in.standby->flow_ml_min * in.standby->duration_min;
         double pumped = 0, prime = 0;
         for (int l = 0; l < nlines; ++l) {
             pumped += plan.lines[l].pumped_ml;
             prime += plan.lines[l].prime_ml;
             double rows = 0;
-            for (const auto& rp : plan.rows) rows += rp.volume_ml[l];
+            for (const auto& rp : plan.rows)
+                rows += rp.volume_ml[l];
             const double standby = in.standby ? plan.lines[l].pumped_ml - rows : 0;
             QVERIFY(standby >= -1e-9 * expected);
-            if (!in.standby) QVERIFY(std::fabs(rows - plan.lines[l].pumped_ml) <= 1e-9 * (1 + rows));
-            QVERIFY(std::fabs(plan.lines[l].required_ml - plan.lines[l].prime_ml - plan.lines[l].pumped_ml) < 1e-9 * (1 + rows));
+            if (!in.standby)
+                QVERIFY(std::fabs(rows - plan.lines[l].pumped_ml) <= 1e-9 * (1 + rows));
+            QVERIFY(std::fabs(plan.lines[l].required_ml - plan.lines[l].prime_ml -
+                              plan.lines[l].pumped_ml) < 1e-9 * (1 + rows));
         }
-        QVERIFY2(std::fabs(pumped - expected) <= 1e-9 * expected, qPrintable(QString("trial %1: %2 vs %3").arg(trial).arg(pumped).arg(expected)));
+        QVERIFY2(std::fabs(pumped - expected) <= 1e-9 * expected,
+                 qPrintable(QString("trial %1: %2 vs %3").arg(trial).arg(pumped).arg(expected)));
         QVERIFY(std::fabs(plan.pumped_ml - expected) <= 1e-9 * expected);
         QVERIFY(std::fabs(plan.waste_ml - expected - prime) <= 1e-9 * expected);
         QVERIFY(std::fabs(plan.total_min - time) <= 1e-9 * time);
@@ -335,21 +357,25 @@ void TestSequence::uvCutoffCheck() {
     // (190 nm) at 210 nm: clear.
     QVERIFY(!codes(run_sequence(base_doc())).contains("uv-cutoff"));
     QJsonObject doc = set_path(base_doc(), "lines.B.parts[0].solvent", "methanol");
-    QCOMPARE(codes(run_sequence(set_path(doc, "detector.wavelength_nm", 200)), "warning"), QStringList{"uv-cutoff"});
+    QCOMPARE(codes(run_sequence(set_path(doc, "detector.wavelength_nm", 200)), "warning"),
+             QStringList{"uv-cutoff"});
     const QJsonObject caution = run_sequence(doc);
     QCOMPARE(codes(caution, "caution"), QStringList{"uv-cutoff"});
     QCOMPARE(warning(caution, "uv-cutoff")["line"].toString(), QString("B"));
     QCOMPARE(warning(caution, "uv-cutoff")["cutoff_nm"].toDouble(), 205.0);
     QCOMPARE(warning(caution, "uv-cutoff")["wavelength_nm"].toDouble(), 210.0);
-    QVERIFY(!codes(run_sequence(set_path(doc, "detector.wavelength_nm", 230))).contains("uv-cutoff"));
+    QVERIFY(
+        !codes(run_sequence(set_path(doc, "detector.wavelength_nm", 230))).contains("uv-cutoff"));
     // An RI detector reads no wavelength: no UV check.
-    QVERIFY(!codes(run_sequence(set_path(doc, "detector", QJsonObject{{"type", "ri"}}))).contains("uv-cutoff"));
+    QVERIFY(!codes(run_sequence(set_path(doc, "detector", QJsonObject{{"type", "ri"}})))
+                 .contains("uv-cutoff"));
 }
 
 void TestSequence::immiscibleCheck() {
     // Water (A) and hexane (B) are immiscible (miscibility chart, Sadek 2002, from memory): they
     // meet from the start of the gradient (95 % A with 5 % B).
-    const QJsonObject out = run_sequence(set_path(base_doc(), "lines.B.parts[0].solvent", "hexane"));
+    const QJsonObject out =
+        run_sequence(set_path(base_doc(), "lines.B.parts[0].solvent", "hexane"));
     QCOMPARE(codes(out, "warning").count("immiscible"), 1);
     const QJsonObject w = warning(out, "immiscible");
     QCOMPARE(w["line_a"].toString(), QString("A"));
@@ -357,11 +383,18 @@ void TestSequence::immiscibleCheck() {
     QCOMPARE(w["miscibility"].toString(), QString("immiscible"));
     // The same two bottles never pumped at the same time (one method each at 100 %): no meeting.
     QJsonObject apart = set_path(base_doc(), "lines.B.parts[0].solvent", "hexane");
-    apart = set_path(apart, "methods", QJsonObject{
-        {"a", QJsonObject{{"flow_ml_min", 1}, {"gradient", QJsonArray{QJsonObject{{"t_min", 0}, {"A", 100}}}}, {"run_min", 5}}},
-        {"b", QJsonObject{{"flow_ml_min", 1}, {"gradient", QJsonArray{QJsonObject{{"t_min", 0}, {"B", 100}}}}, {"run_min", 5}}}});
-    apart = set_path(apart, "sequence", QJsonArray{QJsonObject{{"method", "a"}, {"injections", 1}},
-                                                     QJsonObject{{"method", "b"}, {"injections", 1}}});
+    apart = set_path(
+        apart, "methods",
+        QJsonObject{
+            {"a", QJsonObject{{"flow_ml_min", 1},
+                              {"gradient", QJsonArray{QJsonObject{{"t_min", 0}, {"A", 100}}}},
+                              {"run_min", 5}}},
+            {"b", QJsonObject{{"flow_ml_min", 1},
+                              {"gradient", QJsonArray{QJsonObject{{"t_min", 0}, {"B", 100}}}},
+                              {"run_min", 5}}}});
+    apart = set_path(apart, "sequence",
+                     QJsonArray{QJsonObject{{"method", "a"}, {"injections", 1}},
+                                QJsonObject{{"method", "b"}, {"injections", 1}}});
     QVERIFY(!codes(run_sequence(apart)).contains("immiscible"));
     // Water with acetonitrile: miscible.
     QVERIFY(!codes(run_sequence(base_doc())).contains("immiscible"));
@@ -385,7 +418,8 @@ void TestSequence::precipitationCheck() {
     QVERIFY(std::fabs(w["organic_fraction_v"].toDouble() - 0.85) < 1e-9);
     QCOMPARE(w["where"].toString(), QString("in method m at 10 min"));
     // To 95 % the salt is further over its limit.
-    QVERIFY(codes(run_sequence(with_buffer_in_a(phosphate_k_ph7_25mm)), "warning").contains("precipitation"));
+    QVERIFY(codes(run_sequence(with_buffer_in_a(phosphate_k_ph7_25mm)), "warning")
+                .contains("precipitation"));
     QJsonObject mild = with_buffer_in_a(phosphate_k_ph7_25mm);
     mild = set_path(mild, "methods.m.gradient[1].A", 50);
     mild = set_path(mild, "methods.m.gradient[1].B", 50);
@@ -395,18 +429,22 @@ void TestSequence::precipitationCheck() {
 void TestSequence::msNonvolatileCheck() {
     // Phosphate is not volatile; ammonium formate and formic acid are (Snyder, Kirkland & Dolan
     // 2010, from memory).
-    QJsonObject ms = set_path(with_buffer_in_a(phosphate_k_ph7_25mm), "detector", QJsonObject{{"type", "ms"}});
+    QJsonObject ms =
+        set_path(with_buffer_in_a(phosphate_k_ph7_25mm), "detector", QJsonObject{{"type", "ms"}});
     const QJsonObject out = run_sequence(ms);
     QVERIFY(codes(out, "warning").contains("ms-nonvolatile"));
     QCOMPARE(warning(out, "ms-nonvolatile")["line"].toString(), QString("A"));
-    QJsonObject formate = set_path(with_buffer_in_a(formate_ph35_10mm), "detector", QJsonObject{{"type", "ms"}});
+    QJsonObject formate =
+        set_path(with_buffer_in_a(formate_ph35_10mm), "detector", QJsonObject{{"type", "ms"}});
     QVERIFY(!codes(run_sequence(formate)).contains("ms-nonvolatile"));
     // The same phosphate with a UV detector: no MS check.
-    QVERIFY(!codes(run_sequence(with_buffer_in_a(phosphate_k_ph7_25mm))).contains("ms-nonvolatile"));
+    QVERIFY(
+        !codes(run_sequence(with_buffer_in_a(phosphate_k_ph7_25mm))).contains("ms-nonvolatile"));
 }
 
 void TestSequence::columnPhCheck() {
-    // The pH 2.5 phosphate buffer (designed to 2.5 ± 0.005) on a pH 3–8 column: warning; on 2–8: clear.
+    // The pH 2.5 phosphate buffer (designed to 2.5 ± 0.005) on a pH 3–8 column: warning; on 2–8:
+    // clear.
     QJsonObject doc = with_buffer_in_a(phosphate_na_ph25_20mm);
     QVERIFY(!codes(run_sequence(doc)).contains("column-ph"));
     const QJsonObject out = run_sequence(set_path(doc, "column.ph_min", 3));
@@ -421,8 +459,9 @@ void TestSequence::shelfLifeCheck() {
     doc = set_path(doc, "methods.m.gradient[1].A", 50); // keep the salt dissolved
     doc = set_path(doc, "methods.m.gradient[1].B", 50);
     // Prepared 3 days before: past its shelf life at the start.
-    QCOMPARE(codes(run_sequence(set_path(doc, "lines.A.prepared_at", "2026-11-28T18:00:00")), "warning"),
-             QStringList{"shelf-life"});
+    QCOMPARE(
+        codes(run_sequence(set_path(doc, "lines.A.prepared_at", "2026-11-28T18:00:00")), "warning"),
+        QStringList{"shelf-life"});
     // Prepared 40 h before the start, 30 injections of 20 min: it expires 8 h = 480 min in, during
     // injection 480/20 + 1 = 25.
     QJsonObject late = set_path(doc, "lines.A.prepared_at", "2026-11-30T02:00:00");
@@ -434,8 +473,10 @@ void TestSequence::shelfLifeCheck() {
     QCOMPARE(w["expires_at"].toString(), QString("2026-12-02T02:00:00"));
     QCOMPARE(w["expires_during_injection"].toInt(), 25);
     // Prepared an hour before: clear.
-    QVERIFY(!codes(run_sequence(set_path(late, "lines.A.prepared_at", "2026-12-01T17:00:00"))).contains("shelf-life"));
-    // No prepared_at but a 50 h sequence (150 × 20 min): longer than 48 h even if made at the start.
+    QVERIFY(!codes(run_sequence(set_path(late, "lines.A.prepared_at", "2026-12-01T17:00:00")))
+                 .contains("shelf-life"));
+    // No prepared_at but a 50 h sequence (150 × 20 min): longer than 48 h even if made at the
+    // start.
     QJsonObject long_run = set_path(doc, "sequence[0].injections", 150);
     long_run = set_path(long_run, "lines.A.bottle_ml", 5000);
     long_run = set_path(long_run, "lines.B.bottle_ml", 5000);
@@ -466,7 +507,8 @@ void TestSequence::runsDryCheck() {
     // 40 · 1.1 + 30 = 74 mL is the smallest bottle with 10 % spare.
     QVERIFY(std::fabs(w["min_bottle_ml"].toDouble() - 74.0) < 1e-9);
     // Bottle 72 mL → 42 usable for 40 needed: lasts, but under the 10 % margin → caution.
-    QCOMPARE(codes(run_sequence(set_path(base_doc(), "lines.A.bottle_ml", 72)), "caution"), QStringList{"runs-dry"});
+    QCOMPARE(codes(run_sequence(set_path(base_doc(), "lines.A.bottle_ml", 72)), "caution"),
+             QStringList{"runs-dry"});
 }
 
 void TestSequence::wasteOverflowCheck() {
@@ -481,7 +523,8 @@ void TestSequence::wasteOverflowCheck() {
     QCOMPARE(w["full_during_injection"].toDouble(), 2.0);
     QCOMPARE(w["excess_ml"].toDouble(), 30.0);
     // 85 mL: 94 % full → caution.
-    QCOMPARE(codes(run_sequence(set_path(base_doc(), "waste_ml", 85)), "caution"), QStringList{"waste-overflow"});
+    QCOMPARE(codes(run_sequence(set_path(base_doc(), "waste_ml", 85)), "caution"),
+             QStringList{"waste-overflow"});
 }
 
 void TestSequence::plansSumPerLineRecipe() {
@@ -509,7 +552,8 @@ void TestSequence::plansSumPerLineRecipe() {
 }
 
 void TestSequence::clockTimesKeepAnOffset() {
-    const QJsonObject out = run_sequence(set_path(base_doc(), "start", "2026-12-01T18:00:00+01:00"));
+    const QJsonObject out =
+        run_sequence(set_path(base_doc(), "start", "2026-12-01T18:00:00+01:00"));
     QCOMPARE(out["end"].toString(), QString("2026-12-01T19:00:00+01:00"));
     // Without an offset: wall-clock minutes, no daylight-saving jump (a night in late March).
     QJsonObject spring = set_path(base_doc(), "start", "2027-03-27T23:30:00");
@@ -521,18 +565,23 @@ void TestSequence::badInputIsRejected_data() {
     QTest::addColumn<QByteArray>("input");
     QTest::addColumn<QString>("field");
     QTest::addColumn<QString>("contains");
-    const QJsonObject doc = phaseplan::testing::read_json(TESTS_DATA_DIR "/sequence_bad_input.json");
+    const QJsonObject doc =
+        phaseplan::testing::read_json(TESTS_DATA_DIR "/sequence_bad_input.json");
     const QJsonObject base = doc["base"].toObject();
     for (const auto& c : doc["cases"].toArray()) {
         const QJsonObject o = c.toObject();
         QJsonObject bad = base;
         const QJsonObject set = o["set"].toObject();
-        for (auto it = set.begin(); it != set.end(); ++it) bad = set_path(bad, it.key(), it.value());
-        if (o["plans"].toBool()) bad = QJsonObject{{"plans", QJsonArray{base, bad}}};
+        for (auto it = set.begin(); it != set.end(); ++it)
+            bad = set_path(bad, it.key(), it.value());
+        if (o["plans"].toBool())
+            bad = QJsonObject{{"plans", QJsonArray{base, bad}}};
         QTest::newRow(o["name"].toString().toUtf8().constData())
-            << QJsonDocument(bad).toJson(QJsonDocument::Compact) << o["field"].toString() << o["contains"].toString();
+            << QJsonDocument(bad).toJson(QJsonDocument::Compact) << o["field"].toString()
+            << o["contains"].toString();
     }
-    QTest::newRow("not JSON") << QByteArray("{\"lines\": ") << QString("(document)") << QString("JSON");
+    QTest::newRow("not JSON") << QByteArray("{\"lines\": ") << QString("(document)")
+                              << QString("JSON");
 }
 
 void TestSequence::badInputIsRejected() {
@@ -545,7 +594,8 @@ void TestSequence::badInputIsRejected() {
     const QString err = QString::fromUtf8(r.err).trimmed();
     QVERIFY2(!err.contains('\n'), qPrintable(err));
     QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
-    if (!contains.isEmpty()) QVERIFY2(err.contains(contains), qPrintable(err));
+    if (!contains.isEmpty())
+        QVERIFY2(err.contains(contains), qPrintable(err));
 }
 
 QTEST_GUILESS_MAIN(TestSequence)

@@ -15,74 +15,93 @@ namespace phaseplan {
 
 namespace {
 
-QString qs(const std::string& s) { return QString::fromStdString(s); }
+QString qs(const std::string& s) {
+    return QString::fromStdString(s);
+}
 
-QJsonValue opt(const std::optional<double>& v) { return v ? QJsonValue(*v) : QJsonValue(QJsonValue::Null); }
+QJsonValue opt(const std::optional<double>& v) {
+    return v ? QJsonValue(*v) : QJsonValue(QJsonValue::Null);
+}
 
 QJsonArray strings(const std::vector<std::string>& v) {
     QJsonArray a;
-    for (const auto& s : v) a.append(qs(s));
+    for (const auto& s : v)
+        a.append(qs(s));
     return a;
 }
 
 QJsonObject per_line(const chem::LineValues& v, const std::array<bool, chem::max_lines>& defined) {
     QJsonObject o;
     for (int l = 0; l < chem::max_lines; ++l)
-        if (defined[l]) o[QString(QChar(chem::line_letter(l)))] = v[l];
+        if (defined[l])
+            o[QString(QChar(chem::line_letter(l)))] = v[l];
     return o;
 }
 
 /// Wraps a chem error of a nested document (fields relative to it) with the document's path.
 [[noreturn]] void rethrow_within(const chem::Error& e, const std::string& root) {
-    if (root.empty()) throw e;
+    if (root.empty())
+        throw e;
     throw e.within(root);
 }
 
 std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const std::string& root) {
-    if (!doc.contains("detector") || doc.value("detector").isNull()) return std::nullopt;
+    if (!doc.contains("detector") || doc.value("detector").isNull())
+        return std::nullopt;
     const std::string at = json::path(root, "detector");
     const QJsonObject o = json::require_object(doc, "detector", root);
     chem::Detector d;
     d.type = json::require_string(o, "type", at);
-    std::transform(d.type.begin(), d.type.end(), d.type.begin(), [](unsigned char ch) { return std::tolower(ch); });
+    std::transform(d.type.begin(), d.type.end(), d.type.begin(),
+                   [](unsigned char ch) { return std::tolower(ch); });
     const auto& types = chem::detector_types();
     if (std::find(types.begin(), types.end(), d.type) == types.end()) {
         std::string known;
-        for (const auto& t : types) known += (known.empty() ? "" : ", ") + t;
-        throw chem::Error(json::path(at, "type"), "\"" + d.type + "\" is not a detector type (" + known + ")");
+        for (const auto& t : types)
+            known += (known.empty() ? "" : ", ") + t;
+        throw chem::Error(json::path(at, "type"),
+                          "\"" + d.type + "\" is not a detector type (" + known + ")");
     }
     if (chem::detector_reads_uv(d.type)) {
         const double wl = json::require_number(o, "wavelength_nm", at);
         if (wl < 180 || wl > 900)
-            throw chem::Error(json::path(at, "wavelength_nm"), chem::format_number(wl) + " nm is outside 180 to 900 nm");
+            throw chem::Error(json::path(at, "wavelength_nm"),
+                              chem::format_number(wl) + " nm is outside 180 to 900 nm");
         d.wavelength_nm = wl;
     }
     if (auto m = json::optional_number(o, "margin_nm", at)) {
         if (*m < 0 || *m > 100)
-            throw chem::Error(json::path(at, "margin_nm"), chem::format_number(*m) + " nm is outside 0 to 100 nm");
+            throw chem::Error(json::path(at, "margin_nm"),
+                              chem::format_number(*m) + " nm is outside 0 to 100 nm");
         d.margin_nm = *m;
     }
     return d;
 }
 
-std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc, const std::string& root) {
-    if (!doc.contains("column") || doc.value("column").isNull()) return std::nullopt;
+std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
+                                                   const std::string& root) {
+    if (!doc.contains("column") || doc.value("column").isNull())
+        return std::nullopt;
     const std::string at = json::path(root, "column");
     const QJsonObject o = json::require_object(doc, "column", root);
     chem::ColumnLimits c;
     c.ph_min = json::require_number(o, "ph_min", at);
     c.ph_max = json::require_number(o, "ph_max", at);
     for (auto [key, v] : {std::pair{"ph_min", c.ph_min}, std::pair{"ph_max", c.ph_max}})
-        if (v < 0 || v > 14) throw chem::Error(json::path(at, key), chem::format_number(v) + " is outside pH 0 to 14");
+        if (v < 0 || v > 14)
+            throw chem::Error(json::path(at, key),
+                              chem::format_number(v) + " is outside pH 0 to 14");
     if (c.ph_min >= c.ph_max)
-        throw chem::Error(json::path(at, "ph_max"), chem::format_number(c.ph_max) + " is not above ph_min " +
-                                                         chem::format_number(c.ph_min));
+        throw chem::Error(json::path(at, "ph_max"), chem::format_number(c.ph_max) +
+                                                        " is not above ph_min " +
+                                                        chem::format_number(c.ph_min));
     return c;
 }
 
 QJsonObject solvent_properties(const chem::Solvent& s) {
     QJsonObject src;
-    for (const auto& [k, v] : s.sources) src[qs(k)] = qs(v);
+    for (const auto& [k, v] : s.sources)
+        src[qs(k)] = qs(v);
     return QJsonObject{{"solvent", qs(s.id)},
                        {"name", qs(s.name)},
                        {"density_g_per_ml", s.density_g_per_ml},
@@ -99,10 +118,12 @@ QJsonObject solvent_properties(const chem::Solvent& s) {
 
 QJsonObject profile_to_json(const chem::LineProfile& p) {
     QJsonObject solvents;
-    for (const auto& [id, f] : p.solvent_fraction_v) solvents[qs(id)] = f;
+    for (const auto& [id, f] : p.solvent_fraction_v)
+        solvents[qs(id)] = f;
     QJsonArray solutes;
     for (const auto& s : p.solutes)
-        solutes.append(QJsonObject{{"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+        solutes.append(QJsonObject{
+            {"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
     return QJsonObject{{"aqueous_fraction_v", p.aqueous_fraction_v},
                        {"organic_fraction_v", p.organic_fraction_v},
                        {"solvents", solvents},
@@ -118,7 +139,8 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
 
 /// The parts and additives without buffer volumes: equal for lines made from one batch.
 QString recipe_key_of(const QJsonObject& line, const std::string& name) {
-    if (!line.contains("parts")) return QStringLiteral("name:") + qs(name);
+    if (!line.contains("parts"))
+        return QStringLiteral("name:") + qs(name);
     QJsonArray parts = line.value("parts").toArray();
     for (int i = 0; i < parts.size(); ++i) {
         QJsonObject p = parts.at(i).toObject();
@@ -146,20 +168,25 @@ std::string Clock::text(double minutes) const {
     return t.toString(QStringLiteral("yyyy-MM-dd HH:mm")).toStdString();
 }
 
-QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent, bool* has_offset) {
+QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent,
+                             bool* has_offset) {
     const std::string s = json::require_string(o, key, parent);
     QDateTime t = QDateTime::fromString(qs(s), Qt::ISODate);
     if (!t.isValid())
-        throw chem::Error(json::path(parent, key), "\"" + s + "\" is not an ISO date and time (like 2026-12-01T18:00:00)");
+        throw chem::Error(json::path(parent, key),
+                          "\"" + s + "\" is not an ISO date and time (like 2026-12-01T18:00:00)");
     const bool offset = t.timeSpec() != Qt::LocalTime;
-    if (has_offset) *has_offset = offset;
+    if (has_offset)
+        *has_offset = offset;
     // Wall-clock arithmetic: no daylight-saving jumps in the middle of a night's sequence.
-    if (!offset) t = QDateTime(t.date(), t.time(), QTimeZone::utc());
+    if (!offset)
+        t = QDateTime(t.date(), t.time(), QTimeZone::utc());
     return t;
 }
 
-ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path, double volume_ml,
-                          bool bottle_required, std::vector<chem::Warning>* notes) {
+ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path,
+                          double volume_ml, bool bottle_required,
+                          std::vector<chem::Warning>* notes) {
     ParsedLine pl;
     pl.spec.field = path;
     const std::string fallback_name = path.empty() ? "line" : path.substr(path.rfind('.') + 1);
@@ -167,7 +194,8 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     if (bottle_required) {
         pl.bottle_ml = json::require_number(o, "bottle_ml", path);
         pl.residue_ml = json::optional_number(o, "residue_ml", path).value_or(0.0);
-        if (volume_ml <= 0) volume_ml = pl.bottle_ml;
+        if (volume_ml <= 0)
+            volume_ml = pl.bottle_ml;
     } else {
         pl.bottle_ml = json::optional_number(o, "bottle_ml", path).value_or(0.0);
         pl.residue_ml = json::optional_number(o, "residue_ml", path).value_or(0.0);
@@ -175,16 +203,19 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     if (o.contains("parts")) {
         const std::string list = json::path(path, "parts");
         const QJsonArray parts = json::require_array(o, "parts", path);
-        if (parts.isEmpty()) throw chem::Error(list, "needs at least one part");
+        if (parts.isEmpty())
+            throw chem::Error(list, "needs at least one part");
         for (int i = 0; i < parts.size(); ++i) {
             const std::string at = json::path(list, i);
             const QJsonObject po = json::element_object(parts, i, list);
             const bool has_solvent = po.contains("solvent"), has_buffer = po.contains("buffer");
-            if (has_solvent == has_buffer) throw chem::Error(at, "give either \"solvent\" or \"buffer\", not both or neither");
+            if (has_solvent == has_buffer)
+                throw chem::Error(at, "give either \"solvent\" or \"buffer\", not both or neither");
             chem::LinePart part;
             part.fraction_v = json::require_number(po, "fraction_v", at);
             if (part.fraction_v <= 0 || part.fraction_v > 1)
-                throw chem::Error(json::path(at, "fraction_v"), chem::format_number(part.fraction_v) + " is outside (0, 1]");
+                throw chem::Error(json::path(at, "fraction_v"),
+                                  chem::format_number(part.fraction_v) + " is outside (0, 1]");
             if (has_solvent) {
                 part.solvent = json::require_string(po, "solvent", at);
                 data.solvents.solvent(part.solvent, json::path(at, "solvent"));
@@ -192,14 +223,17 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                 const std::string bat = json::path(at, "buffer");
                 QJsonObject b = json::require_object(po, "buffer", at);
                 const double needed = std::max(1.0, volume_ml) * part.fraction_v;
-                if (!b.contains("volume_ml")) b["volume_ml"] = needed;
+                if (!b.contains("volume_ml"))
+                    b["volume_ml"] = needed;
                 chem::RecipeRequest req = recipe_request_from_json(data.reagents, b, bat);
                 if (req.volume_ml < needed * (1 - 1e-9)) {
                     if (notes)
                         notes->push_back({"buffer-scaled", chem::Warning::Severity::info,
                                           "The buffer of " + pl.spec.name + " was designed for " +
-                                              chem::format_number(std::ceil(needed)) + " mL instead of " +
-                                              chem::format_number(req.volume_ml) + " mL: the part needs that much."});
+                                              chem::format_number(std::ceil(needed)) +
+                                              " mL instead of " +
+                                              chem::format_number(req.volume_ml) +
+                                              " mL: the part needs that much."});
                     req.volume_ml = needed;
                 }
                 try {
@@ -228,28 +262,33 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                     a.unit = unit;
                     a.amount = json::require_number(ao, key, at);
                 }
-            if (given != 1) throw chem::Error(at, "give exactly one of percent_v, percent_w, mmol_per_l");
+            if (given != 1)
+                throw chem::Error(at, "give exactly one of percent_v, percent_w, mmol_per_l");
             pl.spec.additives.push_back(a);
         }
     }
     if (o.contains("prepared_at") && !o.value("prepared_at").isNull())
         pl.prepared_at = datetime_from_json(o, "prepared_at", path, nullptr);
-    if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365)) pl.spec.shelf_life_h = *h;
+    if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365))
+        pl.spec.shelf_life_h = *h;
     pl.recipe_key = recipe_key_of(o, pl.spec.name);
     return pl;
 }
 
 QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock) {
     QJsonObject o = warning_to_json(w);
-    if (!w.line.empty()) o["line"] = qs(w.line);
+    if (!w.line.empty())
+        o["line"] = qs(w.line);
     for (const auto& [k, v] : w.numbers) {
         o[qs(k)] = v;
         const std::string suffix = "_at_min";
-        if (clock && k.size() > suffix.size() && k.compare(k.size() - suffix.size(), suffix.size(), suffix) == 0)
+        if (clock && k.size() > suffix.size() &&
+            k.compare(k.size() - suffix.size(), suffix.size(), suffix) == 0)
             o[qs(k.substr(0, k.size() - 4))] = clock->iso(v);
     }
     for (const auto& [k, v] : w.texts)
-        if (!o.contains(qs(k))) o[qs(k)] = qs(v);
+        if (!o.contains(qs(k)))
+            o[qs(k)] = qs(v);
     return o;
 }
 
@@ -257,10 +296,14 @@ QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* cloc
 // line
 
 QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions&) {
-    const double volume = json::require_positive(input, "volume_ml", "", 1.0e6);
+    // volume_ml is the contract; a line document that gives only its bottle_ml is made for that.
+    const double volume = !input.contains("volume_ml") && input.contains("bottle_ml")
+                              ? json::require_positive(input, "bottle_ml", "", 1.0e6)
+                              : json::require_positive(input, "volume_ml", "", 1.0e6);
     std::vector<chem::Warning> notes;
     const ParsedLine pl = line_from_json(data, input, "", volume, false, &notes);
-    if (pl.spec.parts.empty()) throw chem::Error("parts", "is required for a line recipe");
+    if (pl.spec.parts.empty())
+        throw chem::Error("parts", "is required for a line recipe");
     const auto detector = detector_from_json(input, "");
     const auto column = column_from_json(input, "");
     const chem::LineRecipe r = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
@@ -271,46 +314,55 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
                       {"kind", qs(it.kind)},
                       {"volume_ml", opt(it.volume_ml)},
                       {"mass_g", opt(it.mass_g)}};
-        if (it.kind != "additive") o["fraction_v"] = it.fraction_v;
-        if (it.density_g_per_ml > 0) o["density_g_per_ml"] = it.density_g_per_ml;
-        if (it.density_g_per_ml > 0 && it.kind != "additive") o["density_temperature_c"] = it.density_temperature_c;
+        if (it.kind != "additive")
+            o["fraction_v"] = it.fraction_v;
+        if (it.density_g_per_ml > 0)
+            o["density_g_per_ml"] = it.density_g_per_ml;
+        if (it.density_g_per_ml > 0 && it.kind != "additive")
+            o["density_temperature_c"] = it.density_temperature_c;
         o["density_basis"] = qs(it.density_basis);
         items.append(o);
     }
     QJsonArray props;
     for (const auto& part : pl.spec.parts)
-        if (!part.buffer) props.append(solvent_properties(data.solvents.solvent(part.solvent)));
+        if (!part.buffer)
+            props.append(solvent_properties(data.solvents.solvent(part.solvent)));
 
     QJsonArray warnings;
-    for (const auto& w : notes) warnings.append(warning_to_json(w));
+    for (const auto& w : notes)
+        warnings.append(warning_to_json(w));
     if (r.buffer)
-        for (const auto& w : r.buffer->warnings) warnings.append(warning_to_json(w));
+        for (const auto& w : r.buffer->warnings)
+            warnings.append(warning_to_json(w));
     for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column))
         warnings.append(check_warning_to_json(w, nullptr));
 
-    QJsonObject out{{"name", qs(pl.spec.name)},
-                    {"volume_ml", volume},
-                    {"items", items},
-                    {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
-                    {"uv_limited_by", qs(r.profile.uv_limited_by)},
-                    {"ph", opt(r.profile.ph)},
-                    {"ph_basis", qs(r.profile.ph_basis)},
-                    {"mixed_volume_ml", r.mixed_volume_ml},
-                    {"contraction_ml", r.contraction_ml},
-                    {"contraction_sources", strings(r.contraction_sources)},
-                    {"composition", profile_to_json(r.profile)},
-                    {"solvents", props},
-                    {"shelf_life", QJsonObject{{"kind", qs(r.profile.shelf_kind)},
-                                               {"hours", r.profile.shelf_life_h},
-                                               {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
-                                                          : data.solvents.shelf_life(r.profile.shelf_kind)
-                                                              ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
-                                                              : QString()}}},
-                    {"steps", strings(r.steps)},
-                    {"notes", strings(r.notes)},
-                    {"cautions", strings(r.cautions)},
-                    {"warnings", warnings}};
-    if (r.buffer) out["buffer"] = recipe_to_json(*r.buffer);
+    QJsonObject out{
+        {"name", qs(pl.spec.name)},
+        {"volume_ml", volume},
+        {"items", items},
+        {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
+        {"uv_limited_by", qs(r.profile.uv_limited_by)},
+        {"ph", opt(r.profile.ph)},
+        {"ph_basis", qs(r.profile.ph_basis)},
+        {"mixed_volume_ml", r.mixed_volume_ml},
+        {"contraction_ml", r.contraction_ml},
+        {"contraction_sources", strings(r.contraction_sources)},
+        {"composition", profile_to_json(r.profile)},
+        {"solvents", props},
+        {"shelf_life",
+         QJsonObject{{"kind", qs(r.profile.shelf_kind)},
+                     {"hours", r.profile.shelf_life_h},
+                     {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
+                                : data.solvents.shelf_life(r.profile.shelf_kind)
+                                    ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
+                                    : QString()}}},
+        {"steps", strings(r.steps)},
+        {"notes", strings(r.notes)},
+        {"cautions", strings(r.cautions)},
+        {"warnings", warnings}};
+    if (r.buffer)
+        out["buffer"] = recipe_to_json(*r.buffer);
     return out;
 }
 
@@ -322,9 +374,9 @@ namespace {
 struct BatchUse {
     QString key;
     QString name;
-    QString label;        ///< "A" or "plans[1].A"
+    QString label; ///< "A" or "plans[1].A"
     double required_ml = 0;
-    double prepare_ml = 0;  ///< this bottle's min_bottle_ml
+    double prepare_ml = 0; ///< this bottle's min_bottle_ml
     QDateTime first_use, last_use;
     double shelf_life_h = 0;
     QString shelf_kind;
@@ -343,14 +395,16 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
 
     // lines
     const QJsonObject lines = json::require_object(doc, "lines", root);
-    if (lines.isEmpty()) throw chem::Error(P("lines"), "no line defined (give at least one of A, B, C, D)");
+    if (lines.isEmpty())
+        throw chem::Error(P("lines"), "no line defined (give at least one of A, B, C, D)");
     std::array<std::optional<ParsedLine>, chem::max_lines> parsed;
     std::array<bool, chem::max_lines> defined{};
     std::vector<chem::Warning> notes;
     for (auto it = lines.begin(); it != lines.end(); ++it) {
         const std::string lpath = json::path(P("lines"), it.key());
         const int l = chem::line_index(it.key().toStdString());
-        if (l < 0) throw chem::Error(lpath, "is not a line name (A, B, C or D)");
+        if (l < 0)
+            throw chem::Error(lpath, "is not a line name (A, B, C or D)");
         const QJsonObject lo = json::require_object(lines, it.key(), P("lines"));
         parsed[l] = line_from_json(data, lo, lpath, -1, true, &notes);
         defined[l] = true;
@@ -365,14 +419,17 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         for (auto it = prime.begin(); it != prime.end(); ++it) {
             const int l = chem::line_index(it.key().toStdString());
             const std::string at = json::path(P("prime_ml"), it.key());
-            if (l < 0 || !defined[l]) throw chem::Error(at, "line " + it.key().toStdString() + " is not defined in lines");
+            if (l < 0 || !defined[l])
+                throw chem::Error(at,
+                                  "line " + it.key().toStdString() + " is not defined in lines");
             in.lines[l]->prime_ml = json::require_number(prime, it.key(), P("prime_ml"));
         }
     }
 
     // methods
     const QJsonObject methods = json::require_object(doc, "methods", root);
-    if (methods.isEmpty()) throw chem::Error(P("methods"), "no method defined");
+    if (methods.isEmpty())
+        throw chem::Error(P("methods"), "no method defined");
     for (auto it = methods.begin(); it != methods.end(); ++it) {
         const std::string mpath = json::path(P("methods"), it.key());
         const QJsonObject mo = json::require_object(methods, it.key(), P("methods"));
@@ -387,9 +444,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             chem::GradientRow row;
             row.t_min = json::require_number(ro, "t_min", rpath);
             for (auto k = ro.begin(); k != ro.end(); ++k) {
-                if (k.key() == QLatin1String("t_min")) continue;
+                if (k.key() == QLatin1String("t_min"))
+                    continue;
                 const int l = chem::line_index(k.key().toStdString());
-                if (l < 0) throw chem::Error(json::path(rpath, k.key()), "is neither t_min nor a line (A, B, C, D)");
+                if (l < 0)
+                    throw chem::Error(json::path(rpath, k.key()),
+                                      "is neither t_min nor a line (A, B, C, D)");
                 row.percent[l] = json::require_number(ro, k.key(), rpath);
             }
             m.gradient.push_back(row);
@@ -423,18 +483,23 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         chem::Standby sb;
         sb.flow_ml_min = json::require_number(so, "flow_ml_min", at);
         const bool has_d = so.contains("duration_min"), has_u = so.contains("until");
-        if (has_d == has_u) throw chem::Error(at, "give either duration_min or until");
-        if (has_d) sb.duration_min = json::require_number(so, "duration_min", at);
-        else standby_until = datetime_from_json(so, "until", at, nullptr);
+        if (has_d == has_u)
+            throw chem::Error(at, "give either duration_min or until");
+        if (has_d)
+            sb.duration_min = json::require_number(so, "duration_min", at);
+        else
+            standby_until = datetime_from_json(so, "until", at, nullptr);
         chem::LineValues p{};
         bool any = false;
         for (auto k = so.begin(); k != so.end(); ++k) {
             const int l = chem::line_index(k.key().toStdString());
-            if (l < 0) continue;
+            if (l < 0)
+                continue;
             p[l] = json::require_number(so, k.key(), at);
             any = true;
         }
-        if (any) sb.percent = p;
+        if (any)
+            sb.percent = p;
         in.standby = sb;
     }
 
@@ -442,11 +507,14 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     std::array<chem::LineProfile, chem::max_lines> profiles;
     chem::SequenceCheckInput c;
     for (int l = 0; l < chem::max_lines; ++l) {
-        if (!parsed[l]) continue;
+        if (!parsed[l])
+            continue;
         profiles[l] = chem::profile_line(data.solvents, data.reagents, parsed[l]->spec);
-        if (profiles[l].described) c.profiles[l] = &profiles[l];
+        if (profiles[l].described)
+            c.profiles[l] = &profiles[l];
         c.names[l] = parsed[l]->spec.name;
-        if (parsed[l]->prepared_at) c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
+        if (parsed[l]->prepared_at)
+            c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
     }
     chem::SequencePlan plan;
     try {
@@ -455,7 +523,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             auto probe = in;
             probe.standby.reset();
             const double end = chem::plan_sequence(probe).total_min;
-            in.standby->duration_min = std::max(0.0, clock.start.msecsTo(*standby_until) / 60000.0 - end);
+            in.standby->duration_min =
+                std::max(0.0, clock.start.msecsTo(*standby_until) / 60000.0 - end);
         }
         plan = chem::plan_sequence(in);
     } catch (const chem::Error& e) {
@@ -473,23 +542,28 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     PlanResult res;
     QJsonObject lines_out;
     for (int l = 0; l < chem::max_lines; ++l) {
-        if (!defined[l]) continue;
+        if (!defined[l])
+            continue;
         const chem::LinePlan& lp = plan.lines[l];
-        QJsonObject o{{"name", qs(parsed[l]->spec.name)},
-                      {"required_ml", lp.required_ml},
-                      {"usable_ml", lp.usable_ml},
-                      {"runs_dry", lp.runs_dry},
-                      {"dry_after_injection", lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
-                      {"dry_at", lp.dry_at_min ? QJsonValue(clock.iso(*lp.dry_at_min)) : QJsonValue()},
-                      {"dry_at_min", opt(lp.dry_at_min)},
-                      {"dry_during", lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
-                      {"bottle_ml", in.lines[l]->bottle_ml},
-                      {"residue_ml", in.lines[l]->residue_ml},
-                      {"prime_ml", lp.prime_ml},
-                      {"pumped_ml", lp.pumped_ml},
-                      {"spare_ml", lp.spare_ml},
-                      {"min_bottle_ml", lp.min_bottle_ml},
-                      {"suggested_bottle_ml", lp.suggested_bottle_ml > 0 ? QJsonValue(lp.suggested_bottle_ml) : QJsonValue()}};
+        QJsonObject o{
+            {"name", qs(parsed[l]->spec.name)},
+            {"required_ml", lp.required_ml},
+            {"usable_ml", lp.usable_ml},
+            {"runs_dry", lp.runs_dry},
+            {"dry_after_injection",
+             lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
+            {"dry_at", lp.dry_at_min ? QJsonValue(clock.iso(*lp.dry_at_min)) : QJsonValue()},
+            {"dry_at_min", opt(lp.dry_at_min)},
+            {"dry_during",
+             lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
+            {"bottle_ml", in.lines[l]->bottle_ml},
+            {"residue_ml", in.lines[l]->residue_ml},
+            {"prime_ml", lp.prime_ml},
+            {"pumped_ml", lp.pumped_ml},
+            {"spare_ml", lp.spare_ml},
+            {"min_bottle_ml", lp.min_bottle_ml},
+            {"suggested_bottle_ml",
+             lp.suggested_bottle_ml > 0 ? QJsonValue(lp.suggested_bottle_ml) : QJsonValue()}};
         if (c.profiles[l]) {
             o["uv_cutoff_nm"] = profiles[l].uv_cutoff_nm;
             o["ph"] = opt(profiles[l].ph);
@@ -501,11 +575,13 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         BatchUse u;
         u.key = parsed[l]->recipe_key;
         u.name = qs(parsed[l]->spec.name);
-        u.label = root.empty() ? QString(QChar(chem::line_letter(l))) : qs(root) + "." + QChar(chem::line_letter(l));
+        u.label = root.empty() ? QString(QChar(chem::line_letter(l)))
+                               : qs(root) + "." + QChar(chem::line_letter(l));
         u.required_ml = lp.required_ml;
         u.prepare_ml = lp.min_bottle_ml;
         u.first_use = clock.start;
-        u.last_use = clock.start.addMSecs(static_cast<qint64>(std::llround(plan.total_min * 60000.0)));
+        u.last_use =
+            clock.start.addMSecs(static_cast<qint64>(std::llround(plan.total_min * 60000.0)));
         u.shelf_life_h = c.profiles[l] ? profiles[l].shelf_life_h : 0;
         u.shelf_kind = c.profiles[l] ? qs(profiles[l].shelf_kind) : QString();
         res.uses.push_back(u);
@@ -513,10 +589,11 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     QJsonObject methods_out;
     for (std::size_t i = 0; i < plan.methods.size(); ++i) {
         const auto& mp = plan.methods[i];
-        methods_out[qs(mp.name)] = QJsonObject{{"flow_ml_min", in.methods[i].flow_ml_min},
-                                               {"injection_min", mp.injection_min},
-                                               {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
-                                               {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+        methods_out[qs(mp.name)] =
+            QJsonObject{{"flow_ml_min", in.methods[i].flow_ml_min},
+                        {"injection_min", mp.injection_min},
+                        {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
+                        {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
     }
     QJsonArray rows_out;
     for (std::size_t i = 0; i < plan.rows.size(); ++i) {
@@ -531,7 +608,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                                     {"volume_ml", per_line(rp.volume_ml, defined)}});
     }
     QJsonArray warnings;
-    for (const auto& w : notes) warnings.append(warning_to_json(w));
+    for (const auto& w : notes)
+        warnings.append(warning_to_json(w));
     for (int l = 0; l < chem::max_lines; ++l)
         if (parsed[l])
             for (const auto& part : parsed[l]->spec.parts)
@@ -541,7 +619,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                         o["line"] = QString(QChar(chem::line_letter(l)));
                         warnings.append(o);
                     }
-    for (const auto& w : checks) warnings.append(check_warning_to_json(w, &clock));
+    for (const auto& w : checks)
+        warnings.append(check_warning_to_json(w, &clock));
 
     QJsonObject out{{"start", clock.iso(0)},
                     {"end", clock.iso(plan.total_min)},
@@ -556,7 +635,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"methods", methods_out},
                     {"rows", rows_out},
                     {"warnings", warnings}};
-    if (in.waste_capacity_ml) out["waste_capacity_ml"] = *in.waste_capacity_ml;
+    if (in.waste_capacity_ml)
+        out["waste_capacity_ml"] = *in.waste_capacity_ml;
     res.out = out;
     return res;
 }
@@ -566,7 +646,8 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
     std::vector<QString> order;
     std::map<QString, std::vector<const BatchUse*>> by_key;
     for (const auto& u : uses) {
-        if (!by_key.count(u.key)) order.push_back(u.key);
+        if (!by_key.count(u.key))
+            order.push_back(u.key);
         by_key[u.key].push_back(&u);
     }
     QJsonArray out;
@@ -607,10 +688,13 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
                 warnings->append(QJsonObject{
                     {"code", "shelf-life"},
                     {"severity", "warning"},
-                    {"message", "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
-                                    " bottles would be used over " + QString::number(span_h, 'f', 1) + " h, longer than its shelf life of " +
-                                    QString::number(shelf, 'f', 0) + " h (" + list.front()->shelf_kind +
-                                    ", a lab-set default): make at least " + QString::number(batches) + " batches."},
+                    {"message",
+                     "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
+                         " bottles would be used over " + QString::number(span_h, 'f', 1) +
+                         " h, longer than its shelf life of " + QString::number(shelf, 'f', 0) +
+                         " h (" + list.front()->shelf_kind +
+                         ", a lab-set default): make at least " + QString::number(batches) +
+                         " batches."},
                     {"recipe", list.front()->name},
                     {"span_h", span_h},
                     {"shelf_life_h", shelf},
@@ -631,7 +715,8 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input, cons
         return r.out;
     }
     const QJsonArray plans = json::require_array(input, "plans", "");
-    if (plans.isEmpty()) throw chem::Error("plans", "needs at least one plan");
+    if (plans.isEmpty())
+        throw chem::Error("plans", "needs at least one plan");
     QJsonArray outs, warnings;
     std::vector<BatchUse> uses;
     for (int i = 0; i < plans.size(); ++i) {

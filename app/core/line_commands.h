@@ -23,7 +23,8 @@
 namespace phaseplan {
 
 QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
-QJsonObject command_sequence(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
+                             const CommandOptions& opt);
 
 /// A clock time of the contract: "2026-12-01T18:00:00" (local wall-clock time, no zone: minutes
 /// are added without daylight-saving jumps) or with an offset ("…+01:00", kept on output).
@@ -34,7 +35,8 @@ struct Clock {
     std::string text(double minutes) const; ///< "2026-12-02 03:12" for messages
 };
 /// Reads an ISO date-time; throws chem::Error(path.key, …) when it is not one.
-QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent, bool* has_offset);
+QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent,
+                             bool* has_offset);
 
 /// A line of a `line` or `sequence` document.
 struct ParsedLine {
@@ -50,8 +52,9 @@ struct ParsedLine {
 /// Parses a line at `path` ("lines.A"). A buffer part is a recipe document, designed with
 /// chem::design_recipe for part_volume_ml × its fraction when it gives no volume_ml (or a smaller
 /// one than needed). `bottle_required`: sequence lines need bottle_ml.
-ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path, double volume_ml,
-                          bool bottle_required, std::vector<chem::Warning>* notes = nullptr);
+ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path,
+                          double volume_ml, bool bottle_required,
+                          std::vector<chem::Warning>* notes = nullptr);
 
 /// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
 /// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.

@@ -11,12 +11,15 @@ namespace phaseplan {
 
 namespace {
 
-std::vector<std::string> string_list(const QJsonObject& o, const QString& key, const std::string& parent) {
+std::vector<std::string> string_list(const QJsonObject& o, const QString& key,
+                                     const std::string& parent) {
     std::vector<std::string> out;
-    if (!o.contains(key)) return out;
+    if (!o.contains(key))
+        return out;
     const QJsonArray a = json::require_array(o, key, parent);
     for (int i = 0; i < a.size(); ++i) {
-        if (!a.at(i).isString()) throw chem::Error(json::path(json::path(parent, key), i), "must be a string");
+        if (!a.at(i).isString())
+            throw chem::Error(json::path(json::path(parent, key), i), "must be a string");
         out.push_back(a.at(i).toString().toStdString());
     }
     return out;
@@ -53,9 +56,12 @@ chem::Solvent solvent_from_json(const QJsonObject& o, const std::string& at) {
 }
 
 chem::AmountUnit unit_from(const std::string& u, const std::string& field) {
-    if (u == "percent_v") return chem::AmountUnit::percent_v;
-    if (u == "percent_w") return chem::AmountUnit::percent_w;
-    if (u == "mmol_per_l") return chem::AmountUnit::mmol_per_l;
+    if (u == "percent_v")
+        return chem::AmountUnit::percent_v;
+    if (u == "percent_w")
+        return chem::AmountUnit::percent_w;
+    if (u == "mmol_per_l")
+        return chem::AmountUnit::mmol_per_l;
     throw chem::Error(field, "\"" + u + "\" is not a unit (percent_v, percent_w, mmol_per_l)");
 }
 
@@ -63,7 +69,8 @@ chem::Additive additive_from_json(const QJsonObject& o, const std::string& at) {
     chem::Additive a;
     a.id = json::require_string(o, "id", at);
     const QJsonValue vol = o.value("ms_volatile");
-    if (!vol.isBool()) throw chem::Error(json::path(at, "ms_volatile"), "must be true or false");
+    if (!vol.isBool())
+        throw chem::Error(json::path(at, "ms_volatile"), "must be true or false");
     a.ms_volatile = vol.toBool();
     a.volatility_source = json::require_string(o, "volatility_source", at);
     if (o.contains("uv") && !o.value("uv").isNull()) {
@@ -96,26 +103,32 @@ chem::SolubilityTable solubility_from_json(const QJsonObject& o, const std::stri
     t.organic = json::require_string(o, "organic", at);
     t.basis = json::require_string(o, "basis", at);
     if (t.basis != "published" && t.basis != "rule-of-thumb")
-        throw chem::Error(json::path(at, "basis"), "\"" + t.basis + "\" is neither \"published\" nor \"rule-of-thumb\"");
+        throw chem::Error(json::path(at, "basis"),
+                          "\"" + t.basis + "\" is neither \"published\" nor \"rule-of-thumb\"");
     t.source = json::require_string(o, "source", at);
     const QJsonArray pts = json::require_array(o, "points", at);
     const std::string pat = json::path(at, "points");
-    if (pts.isEmpty()) throw chem::Error(pat, "needs at least one row");
+    if (pts.isEmpty())
+        throw chem::Error(pat, "needs at least one row");
     for (int i = 0; i < pts.size(); ++i) {
         const QJsonObject p = json::element_object(pts, i, pat);
         const std::string at_i = json::path(pat, i);
         const double f = json::require_number(p, "fraction_v", at_i);
-        if (f < 0 || f > 1) throw chem::Error(json::path(at_i, "fraction_v"), chem::format_number(f) + " is outside 0 to 1");
+        if (f < 0 || f > 1)
+            throw chem::Error(json::path(at_i, "fraction_v"),
+                              chem::format_number(f) + " is outside 0 to 1");
         const double m = json::require_number(p, "max_mmol_per_l", at_i);
-        if (m < 0) throw chem::Error(json::path(at_i, "max_mmol_per_l"), chem::format_number(m) + " is negative");
+        if (m < 0)
+            throw chem::Error(json::path(at_i, "max_mmol_per_l"),
+                              chem::format_number(m) + " is negative");
         t.points.emplace_back(f, m);
     }
     return t;
 }
 
-template <class F>
-void each(const QJsonObject& doc, const char* key, bool required, F&& f) {
-    if (!required && !doc.contains(key)) return;
+template <class F> void each(const QJsonObject& doc, const char* key, bool required, F&& f) {
+    if (!required && !doc.contains(key))
+        return;
     const QJsonArray a = json::require_array(doc, key, "");
     for (int i = 0; i < a.size(); ++i) {
         const std::string at = json::path(key, i);
@@ -129,12 +142,14 @@ void each(const QJsonObject& doc, const char* key, bool required, F&& f) {
 
 } // namespace
 
-void load_solvents_json(const QByteArray& bytes, const std::string& origin, chem::SolventLibrary& lib) {
+void load_solvents_json(const QByteArray& bytes, const std::string& origin,
+                        chem::SolventLibrary& lib) {
     try {
         const QJsonObject doc = json::parse_document(bytes);
         each(doc, "solvents", true, [&](const QJsonObject& o, const std::string& at) {
             chem::Solvent s = solvent_from_json(o, at);
-            if (lib.find_solvent(s.id)) throw chem::Error(json::path(at, "id"), "\"" + s.id + "\" appears twice");
+            if (lib.find_solvent(s.id))
+                throw chem::Error(json::path(at, "id"), "\"" + s.id + "\" appears twice");
             lib.add_solvent(std::move(s));
         });
         if (doc.contains("miscibility")) {
@@ -144,17 +159,23 @@ void load_solvents_json(const QByteArray& bytes, const std::string& origin, chem
             for (int i = 0; i < pairs.size(); ++i) {
                 const std::string at = json::path("miscibility.pairs", i);
                 const QJsonArray p = pairs.at(i).toArray();
-                if (!pairs.at(i).isArray() || p.size() != 3 || !p.at(0).isString() || !p.at(1).isString() ||
-                    !p.at(2).isString())
-                    throw chem::Error(at, "must be [solvent, solvent, \"miscible\"|\"partly\"|\"immiscible\"]");
+                if (!pairs.at(i).isArray() || p.size() != 3 || !p.at(0).isString() ||
+                    !p.at(1).isString() || !p.at(2).isString())
+                    throw chem::Error(
+                        at, "must be [solvent, solvent, \"miscible\"|\"partly\"|\"immiscible\"]");
                 const std::string kind = p.at(2).toString().toStdString();
                 chem::Miscibility mk;
-                if (kind == "miscible") mk = chem::Miscibility::miscible;
-                else if (kind == "partly") mk = chem::Miscibility::partly;
-                else if (kind == "immiscible") mk = chem::Miscibility::immiscible;
-                else throw chem::Error(at, "\"" + kind + "\" is not miscible, partly or immiscible");
+                if (kind == "miscible")
+                    mk = chem::Miscibility::miscible;
+                else if (kind == "partly")
+                    mk = chem::Miscibility::partly;
+                else if (kind == "immiscible")
+                    mk = chem::Miscibility::immiscible;
+                else
+                    throw chem::Error(at, "\"" + kind + "\" is not miscible, partly or immiscible");
                 try {
-                    lib.set_miscibility(p.at(0).toString().toStdString(), p.at(1).toString().toStdString(), mk);
+                    lib.set_miscibility(p.at(0).toString().toStdString(),
+                                        p.at(1).toString().toStdString(), mk);
                 } catch (const chem::Error& e) {
                     throw chem::Error(at, e.message());
                 }
@@ -170,11 +191,13 @@ void load_solvents_json(const QByteArray& bytes, const std::string& origin, chem
             e.temperature_c = json::require_number(o, "temperature_c", at);
             const std::string model = json::require_string(o, "model", at);
             if (model != "redlich-kister")
-                throw chem::Error(json::path(at, "model"), "\"" + model + "\" is not a known model (redlich-kister)");
+                throw chem::Error(json::path(at, "model"),
+                                  "\"" + model + "\" is not a known model (redlich-kister)");
             const QJsonArray c = json::require_array(o, "coefficients_cm3_per_mol", at);
             for (int i = 0; i < c.size(); ++i) {
                 if (!c.at(i).isDouble())
-                    throw chem::Error(json::path(json::path(at, "coefficients_cm3_per_mol"), i), "must be a number");
+                    throw chem::Error(json::path(json::path(at, "coefficients_cm3_per_mol"), i),
+                                      "must be a number");
                 e.rk_cm3_per_mol.push_back(c.at(i).toDouble());
             }
             e.source = json::require_string(o, "source", at);
@@ -182,7 +205,8 @@ void load_solvents_json(const QByteArray& bytes, const std::string& origin, chem
         });
         each(doc, "additives", false, [&](const QJsonObject& o, const std::string& at) {
             chem::Additive a = additive_from_json(o, at);
-            if (lib.find_additive(a.id)) throw chem::Error(json::path(at, "id"), "\"" + a.id + "\" appears twice");
+            if (lib.find_additive(a.id))
+                throw chem::Error(json::path(at, "id"), "\"" + a.id + "\" appears twice");
             lib.add_additive(std::move(a));
         });
         each(doc, "solubility", false, [&](const QJsonObject& o, const std::string& at) {

@@ -13,6 +13,7 @@ namespace phaseplan {
 /// JSON path ("solvents.json: solvents[3].density_g_per_ml") on a malformed entry, and when the
 /// miscibility table lacks a pair of the listed solvents.
 /// @param origin the file name used in error fields.
-void load_solvents_json(const QByteArray& bytes, const std::string& origin, chem::SolventLibrary& lib);
+void load_solvents_json(const QByteArray& bytes, const std::string& origin,
+                        chem::SolventLibrary& lib);
 
 } // namespace phaseplan

@@ -16,14 +16,16 @@
 namespace {
 
 const phaseplan::AppData& data() {
-    static const phaseplan::AppData d = phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
+    static const phaseplan::AppData d =
+        phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
     return d;
 }
 
 /// 20 methods; `rows` rows spread 10,000 injections evenly (10,000 rows of 1 is the worst case).
 chem::SequenceInput big_plan(int rows) {
     chem::SequenceInput in;
-    for (int l = 0; l < 4; ++l) in.lines[l] = chem::BottleSpec{std::string(1, char('A' + l)), 20000, 50, 30};
+    for (int l = 0; l < 4; ++l)
+        in.lines[l] = chem::BottleSpec{std::string(1, char('A' + l)), 20000, 50, 30};
     for (int m = 0; m < 20; ++m) {
         chem::Method meth;
         meth.name = "method-" + std::to_string(m);
@@ -41,7 +43,8 @@ chem::SequenceInput big_plan(int rows) {
         in.methods.push_back(meth);
     }
     const int per_row = 10000 / rows;
-    for (int r = 0; r < rows; ++r) in.rows.push_back({"method-" + std::to_string(r % 20), per_row, ""});
+    for (int r = 0; r < rows; ++r)
+        in.rows.push_back({"method-" + std::to_string(r % 20), per_row, ""});
     in.standby = chem::Standby{0.1, 600, std::nullopt};
     in.waste_capacity_ml = 1.0e5;
     return in;
@@ -71,7 +74,8 @@ struct Lines {
         w.parts.push_back({"water", std::nullopt, 1.0});
         w.additives.push_back({"formic-acid", chem::AmountUnit::percent_v, 0.1});
         const chem::LineSpec specs[4] = {a, b, c, w};
-        for (int l = 0; l < 4; ++l) profiles[l] = chem::profile_line(d.solvents, d.reagents, specs[l]);
+        for (int l = 0; l < 4; ++l)
+            profiles[l] = chem::profile_line(d.solvents, d.reagents, specs[l]);
     }
 };
 
@@ -84,7 +88,8 @@ void run_plan_and_checks(benchmark::State& state, int rows) {
         c.solvents = &data().solvents;
         c.input = &in;
         c.plan = &plan;
-        for (int l = 0; l < 4; ++l) c.profiles[l] = &lines.profiles[l];
+        for (int l = 0; l < 4; ++l)
+            c.profiles[l] = &lines.profiles[l];
         c.detector = chem::Detector{"uv", 210.0, 10};
         c.column = chem::ColumnLimits{2, 8};
         auto w = chem::check_sequence(c);
@@ -95,9 +100,13 @@ void run_plan_and_checks(benchmark::State& state, int rows) {
 }
 
 /// Plan and all checks, 10,000 rows of one injection each (worst case for the planner).
-void BM_plan_10000_injections_rows_of_1(benchmark::State& state) { run_plan_and_checks(state, 10000); }
+void BM_plan_10000_injections_rows_of_1(benchmark::State& state) {
+    run_plan_and_checks(state, 10000);
+}
 /// Plan and all checks, 500 rows of 20 injections.
-void BM_plan_10000_injections_rows_of_20(benchmark::State& state) { run_plan_and_checks(state, 500); }
+void BM_plan_10000_injections_rows_of_20(benchmark::State& state) {
+    run_plan_and_checks(state, 500);
+}
 
 /// The whole `sequence` command in process (JSON in, JSON out with 10,000 rows), for reference.
 void BM_sequence_command_10000_rows(benchmark::State& state) {
@@ -106,16 +115,31 @@ void BM_sequence_command_10000_rows(benchmark::State& state) {
     for (const auto& m : in.methods) {
         QJsonArray g;
         for (const auto& r : m.gradient)
-            g.append(QJsonObject{{"t_min", r.t_min}, {"A", r.percent[0]}, {"B", r.percent[1]}, {"C", r.percent[2]}, {"D", r.percent[3]}});
-        methods[QString::fromStdString(m.name)] = QJsonObject{
-            {"flow_ml_min", m.flow_ml_min}, {"gradient", g}, {"run_min", m.run_min}, {"equilibration_min", m.equilibration_min}};
+            g.append(QJsonObject{{"t_min", r.t_min},
+                                 {"A", r.percent[0]},
+                                 {"B", r.percent[1]},
+                                 {"C", r.percent[2]},
+                                 {"D", r.percent[3]}});
+        methods[QString::fromStdString(m.name)] =
+            QJsonObject{{"flow_ml_min", m.flow_ml_min},
+                        {"gradient", g},
+                        {"run_min", m.run_min},
+                        {"equilibration_min", m.equilibration_min}};
     }
     QJsonArray seq;
-    for (const auto& r : in.rows) seq.append(QJsonObject{{"method", QString::fromStdString(r.method)}, {"injections", r.injections}});
+    for (const auto& r : in.rows)
+        seq.append(QJsonObject{{"method", QString::fromStdString(r.method)},
+                               {"injections", r.injections}});
     QJsonObject lines;
     for (const char* l : {"A", "B", "C", "D"})
-        lines[l] = QJsonObject{{"bottle_ml", 20000}, {"residue_ml", 50}, {"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"}, {"fraction_v", 1}}}}};
-    const QJsonObject doc{{"lines", lines}, {"methods", methods}, {"sequence", seq}, {"start", "2026-12-01T18:00:00"},
+        lines[l] = QJsonObject{
+            {"bottle_ml", 20000},
+            {"residue_ml", 50},
+            {"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"}, {"fraction_v", 1}}}}};
+    const QJsonObject doc{{"lines", lines},
+                          {"methods", methods},
+                          {"sequence", seq},
+                          {"start", "2026-12-01T18:00:00"},
                           {"detector", QJsonObject{{"type", "uv"}, {"wavelength_nm", 210}}}};
     for (auto _ : state) {
         QJsonObject out = phaseplan::command_sequence(data(), doc, {});
