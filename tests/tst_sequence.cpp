@@ -88,6 +88,13 @@ QJsonObject with_buffer_in_a(const char* buffer) {
     return set_path(base_doc(), "lines.A.parts", QJsonArray{buffer_part(buffer)});
 }
 
+/// "m<i>" (appended, not operator+: GCC 12 warns falsely on "literal" + std::to_string).
+std::string method_name(int i) {
+    std::string s = "m";
+    s += std::to_string(i);
+    return s;
+}
+
 chem::GradientRow row(double t, double a, double b, double c = 0) {
     chem::GradientRow r;
     r.t_min = t;
@@ -291,7 +298,7 @@ void TestSequence::volumesAddUpToFlowTimesTime() {
         const int nmethods = 1 + static_cast<int>(u(rng) * 5);
         for (int mi = 0; mi < nmethods; ++mi) {
             chem::Method m;
-            m.name = "m" + std::to_string(mi);
+            m.name = method_name(mi);
             m.flow_ml_min = 0.1 + 2 * u(rng);
             double t = u(rng) < 0.3 ? 2 * u(rng) : 0;
             const int nrows = 1 + static_cast<int>(u(rng) * 6);
@@ -313,7 +320,7 @@ void TestSequence::volumesAddUpToFlowTimesTime() {
         }
         const int nrows = 1 + static_cast<int>(u(rng) * 20);
         for (int r = 0; r < nrows; ++r)
-            in.rows.push_back({"m" + std::to_string(static_cast<int>(u(rng) * nmethods)),
+            in.rows.push_back({method_name(static_cast<int>(u(rng) * nmethods)),
                                1 + static_cast<int>(u(rng) * 40), ""});
         if (u(rng) < 0.5)
             in.standby = chem::Standby{0.05 + u(rng), 600 * u(rng), std::nullopt};
