@@ -18,4 +18,12 @@ std::string format_number(double value) {
     return std::string(buf, res.ptr);
 }
 
+std::string format_fixed(double value, int decimals) {
+    if (!std::isfinite(value)) return format_number(value);
+    char buf[128];
+    auto res = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::fixed, decimals);
+    if (res.ec != std::errc()) return format_number(value);
+    return std::string(buf, res.ptr);
+}
+
 } // namespace chem

@@ -33,4 +33,8 @@ private:
 /// Formats a number for an error message: up to 6 significant digits, no trailing zeros.
 std::string format_number(double value);
 
+/// Formats a number with a fixed count of decimals ("2.50"), independent of the C locale
+/// (printf's %.2f would write "2,50" under a decimal-comma locale once Qt has called setlocale).
+std::string format_fixed(double value, int decimals);
+
 } // namespace chem

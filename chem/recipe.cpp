@@ -9,7 +9,6 @@
 #include <algorithm>
 #include <cmath>
 #include <cstdint>
-#include <cstdio>
 #include <functional>
 #include <limits>
 #include <set>
@@ -25,11 +24,7 @@ constexpr double pipette_min_volume_ml = 0.010; ///< common practice, no source:
 constexpr double low_buffer_capacity = 0.002;   ///< mol/L per pH; common practice, no source
 constexpr double ph_solve_tolerance = 1e-7;
 
-std::string fixed(double v, int decimals) {
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-    return buf;
-}
+std::string fixed(double v, int decimals) { return format_fixed(v, decimals); }
 
 /// Decimals that show an amount to about 4 significant figures (0.1 mg / 0.01 mL resolution at most).
 std::string amount(double v) {
