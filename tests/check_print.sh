@@ -129,7 +129,7 @@ flat = re.sub(r"\s+", " ", text)
 
 # Every field of issue 5 §2.
 for label, needle in [
-        ("batch id", batch_id), ("recipe name", "Line A buffer, assay QC-117"),
+        ("batch id", batch_id),
         ("purpose", "Mobile phase A for the overnight assay QC-117"), ("preparer", "R. Okafor"),
         ("checker", "M. Lindqvist"), ("prepared date", "2026-12-01 16:30"),
         ("target column", "Target"), ("tolerance column", "Tolerance"), ("actual column", "Actual"),
@@ -147,6 +147,7 @@ for label, needle in [
         ("sign-off: prepared by", "Prepared by"), ("sign-off: checked by", "Checked by"),
         ("sign-off: signature", "SIGNATURE")]:
     check(needle in flat, "sheet shows the %s (%r)" % (label, needle))
+check(re.sub(r"\s+", "", demo["name"]) in re.sub(r"\s+", "", text), "sheet shows the recipe name %r" % demo["name"])
 check(re.search(r"\bsafe\b", flat, re.I) is None, "the sheet never calls anything safe")
 
 # Expiry: prepared_at + the aqueous-buffer shelf life of data/solvents.json, by Python's calendar.

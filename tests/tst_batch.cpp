@@ -30,8 +30,8 @@ const chem::Library& lib() { return shipped_data().reagents; }
 // (2022) 573), for hand-computed molar masses below.
 constexpr double H = 1.008, O = 15.999, P = 30.973761998, Na = 22.98976928, K = 39.0983;
 
-/// The demo buffer of data/demo (Line A, assay QC-117): phosphoric acid 85 % + sodium dihydrogen
-/// phosphate monohydrate, pH 2.5 at 22 °C, 20 mmol/L, 2000 mL.
+/// The demo buffer of data/demo (line A of the invented overnight assay): phosphoric acid 85 % +
+/// sodium dihydrogen phosphate monohydrate, pH 2.5, 20 mmol/L, 2000 mL.
 QJsonObject demo_input() {
     return phaseplan::testing::read_json(QStringLiteral(SOURCE_DIR "/data/demo/buffer-phosphate-ph2.5.json"));
 }
@@ -195,7 +195,7 @@ void TestBatch::liquidByMassIsConverted() {
     QVERIFY(c.within_tolerance);
 }
 
-// mol/L from the actual amounts, by hand: n = m · assay / M, V = 2.000 L.
+// mol/L from the actual amounts, by hand: n = m · assay / M, over the final volume.
 void TestBatch::compositionFromActualAmountsByHand() {
     const chem::Recipe r = design(demo_input());
     const chem::Reagent& pa = lib().reagent("phosphoric-acid");
@@ -206,13 +206,14 @@ void TestBatch::compositionFromActualAmountsByHand() {
     salt.reagent = "sodium-dihydrogen-phosphate-monohydrate";
     salt.mass_g = 3.0790;
     const chem::BatchResult res = chem::evaluate_batch(lib(), r, batch_with({acid, salt}), 48);
+    const double litres = r.request.volume_ml / 1000.0; // the demo's final volume
     // H3PO4: 3·1.008 + 30.973762 + 4·15.999 = 97.993762 g/mol; 1.25 mL · ρ · assay (the library's
-    // 85 % w/w, 1.685 g/mL) / M / 2 L.
+    // 85 % w/w, 1.685 g/mL) / M / V.
     const double m_h3po4 = 3 * H + P + 4 * O;
-    const double c_acid = 1.25 * pa.density_g_per_ml * pa.assay_fraction / m_h3po4 / 2.0;
+    const double c_acid = 1.25 * pa.density_g_per_ml * pa.assay_fraction / m_h3po4 / litres;
     // NaH2PO4·H2O: 22.98976928 + 2·1.008 + 30.973762 + 4·15.999 + (2·1.008 + 15.999) = 137.990531 g/mol.
     const double m_salt = Na + 2 * H + P + 4 * O + (2 * H + O);
-    const double c_salt = 3.0790 / m_salt / 2.0;
+    const double c_salt = 3.0790 / m_salt / litres;
     QCOMPARE(res.composition.size(), size_t(2));
     for (const auto& comp : res.composition) {
         const double expect = comp.reagent->id == "phosphoric-acid" ? c_acid : c_salt;
@@ -220,9 +221,9 @@ void TestBatch::compositionFromActualAmountsByHand() {
                  qPrintable(QString("%1: %2 vs %3").arg(QString::fromStdString(comp.reagent->id))
                                 .arg(comp.mol_per_l).arg(expect)));
     }
-    // The pH reported is solve() of exactly that composition.
-    const chem::Speciation s = chem::solve(lib(), res.composition, 22);
-    QVERIFY(std::abs(s.ph - res.predicted.ph) < 1e-9);
+    // The pH reported is solve() of exactly that composition (to the solver's tolerance).
+    const chem::Speciation s = chem::solve(lib(), res.composition, r.request.temperature_c);
+    QVERIFY(std::abs(s.ph - res.predicted.ph) < 1e-7);
 }
 
 // Outside check: a bench that weighs the IUPAC/NIST equimolar phosphate reference amounts
