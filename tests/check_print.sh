@@ -99,11 +99,16 @@ def printed_near(text, expected, unit):
 
 
 # ---- the demo buffer with a batch -------------------------------------------------------------
-demo = json.load(open(os.path.join(src, "data/demo/buffer-phosphate-ph2.5.json")))
+# The line-A buffer of the invented overnight assay (as data/demo has it; kept here so that the
+# checks below, which name its reagents and hazards, do not move when the demo does).
+demo = {"name": "Line A buffer: 20 mM sodium phosphate pH 2.5, release assay on HPLC-07",
+        "target_ph": 2.5, "temperature_c": 25, "volume_ml": 2000, "route": "mix",
+        "acid": "phosphoric-acid", "base": "sodium-dihydrogen-phosphate-monohydrate",
+        "concentration_mol_per_l": 0.02}
 recipe = run_json(["recipe", write("demo-recipe.json", demo)])
 reagents = {r["id"]: r for r in run_json(["reagents"])["reagents"]}
 items = {i["reagent"]: i for i in recipe["items"]}
-acid, salt = "phosphoric-acid", "sodium-dihydrogen-phosphate-monohydrate"
+acid, salt = demo["acid"], demo["base"]  # the demo mixes an acid form and a salt (mix route)
 batch_id = "KV-QC117-A-0042"
 # The salt weighed 2.5 % over its target (out of the ± 2 % tolerance), the acid 0.5 % over.
 salt_actual = round(items[salt]["mass_g"] * 1.025, 4)
@@ -195,6 +200,12 @@ for comp in made["composition"]:
 flagged = [w for w in summary["warnings"] if w["code"] == "amount-out-of-tolerance"]
 check(len(flagged) == 1 and flagged[0]["reagent"] == salt and abs(flagged[0]["deviation_percent"] - 2.5) < 0.01,
       "exactly the salt is flagged out of tolerance, +2.5 %")
+
+# The shipped demo buffer prints as it stands, with a batch.
+shipped = json.load(open(os.path.join(src, "data/demo/buffer-phosphate-ph2.5.json")))
+shipped["batch"] = {"id": "DEMO-1"}
+code, so, se = run(["sheet", write("shipped-demo.json", shipped), "-o", os.path.join(out, "shipped-demo.pdf")])
+check(code == 0 and "DEMO-1" in pdftext(os.path.join(out, "shipped-demo.pdf")), "the shipped demo buffer prints a sheet")
 
 # ---- labels ---------------------------------------------------------------------------------------
 pdf = os.path.join(out, "labels-label62.pdf")

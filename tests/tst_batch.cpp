@@ -30,10 +30,14 @@ const chem::Library& lib() { return shipped_data().reagents; }
 // (2022) 573), for hand-computed molar masses below.
 constexpr double H = 1.008, O = 15.999, P = 30.973761998, Na = 22.98976928, K = 39.0983;
 
-/// The demo buffer of data/demo (line A of the invented overnight assay): phosphoric acid 85 % +
-/// sodium dihydrogen phosphate monohydrate, pH 2.5, 20 mmol/L, 2000 mL.
+/// A line-A buffer of the invented overnight assay (as in data/demo, kept here so that the
+/// tests do not move when the demo does): phosphoric acid 85 % + sodium dihydrogen phosphate
+/// monohydrate, pH 2.5 at 25 °C, 20 mmol/L, 2000 mL.
 QJsonObject demo_input() {
-    return phaseplan::testing::read_json(QStringLiteral(SOURCE_DIR "/data/demo/buffer-phosphate-ph2.5.json"));
+    return QJsonObject{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"}, {"target_ph", 2.5},
+                       {"temperature_c", 25}, {"volume_ml", 2000}, {"route", "mix"},
+                       {"acid", "phosphoric-acid"}, {"base", "sodium-dihydrogen-phosphate-monohydrate"},
+                       {"concentration_mol_per_l", 0.02}};
 }
 
 chem::Recipe design(const QJsonObject& in) {

@@ -27,7 +27,10 @@ using phaseplan::testing::shipped_data;
 namespace {
 
 QJsonObject demo_with_batch() {
-    QJsonObject in = phaseplan::testing::read_json(QStringLiteral(SOURCE_DIR "/data/demo/buffer-phosphate-ph2.5.json"));
+    QJsonObject in{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"}, {"target_ph", 2.5},
+                   {"temperature_c", 25}, {"volume_ml", 2000}, {"route", "mix"},
+                   {"acid", "phosphoric-acid"}, {"base", "sodium-dihydrogen-phosphate-monohydrate"},
+                   {"concentration_mol_per_l", 0.02}};
     in["batch"] = QJsonObject{{"id", "KV-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
                               {"prepared_at", "2026-12-01T16:30:00"},
                               {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
