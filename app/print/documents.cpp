@@ -826,7 +826,7 @@ PrintJob sequence_job(const AppData& data, const QJsonObject& input, const QStri
     rows.table.headers = {"#", "Label", "Method", "Injections", "Start", "End"};
     const QStringList keys = lines_out.keys();
     for (const QString& k : keys) rows.table.headers << k + " (mL)";
-    rows.table.weights = {0.6, 3.2, 1.5, 1.1, 1.7, 1.7};
+    rows.table.weights = {0.6, 3.1, 1.5, 1.4, 1.7, 1.7};
     for (int i = 0; i < keys.size(); ++i) rows.table.weights << 1.0;
     int n = 0;
     for (const QJsonValue& v : out.value("rows").toArray()) {

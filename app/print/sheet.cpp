@@ -135,7 +135,13 @@ public:
     int run() {
         begin_page();
         title_block();
-        for (const Block& b : doc_.blocks) block(b);
+        for (int i = 0; i < doc_.blocks.size(); ++i) {
+            const Block& b = doc_.blocks[i];
+            if (b.kind == Block::Kind::heading)
+                heading(b.text, i + 1 < doc_.blocks.size() ? start_height(doc_.blocks[i + 1]) : 0);
+            else
+                block(b);
+        }
         return page_;
     }
 
@@ -193,7 +199,7 @@ private:
 
     void block(const Block& b) {
         switch (b.kind) {
-        case Block::Kind::heading: heading(b.text); break;
+        case Block::Kind::heading: heading(b.text, 0); break;
         case Block::Kind::paragraph: paragraph(b.text); break;
         case Block::Kind::fields: fields(b.fields); break;
         case Block::Kind::table: table(b.table); break;
@@ -205,10 +211,32 @@ private:
         }
     }
 
-    void heading(const QString& s) {
+    /// How much of a block must fit below its heading: a short table whole, a long one its
+    /// header and first row, anything else about two lines.
+    qreal start_height(const Block& b) const {
+        if (b.kind != Block::Kind::table) return c_.mm(14);
+        const QList<qreal> widths = column_widths(b.table);
+        const QFont hf = make_font(7.5, true);
+        const QFont cf = make_font(8.2);
+        const qreal min_row = c_.mm(7.5);
+        qreal total = measure_row(b.table.headers, widths, hf, 0);
+        const qreal first = total + (b.table.rows.isEmpty() ? 0 : measure_row(b.table.rows[0], widths, cf, min_row));
+        for (const QStringList& row : b.table.rows) total += measure_row(row, widths, cf, min_row);
+        return total < 0.4 * (bottom_ - top_) ? total : first;
+    }
+
+    qreal measure_row(const QStringList& cells, const QList<qreal>& widths, const QFont& f, qreal min_h) const {
+        const qreal pad = c_.mm(1.2);
+        qreal h = min_h;
+        for (int i = 0; i < widths.size(); ++i)
+            h = std::max(h, c_.height_of(f, widths[i] - 2 * pad, cells.value(i)) + 2 * pad);
+        return h;
+    }
+
+    void heading(const QString& s, qreal keep_with) {
         const QFont f = make_font(11, true);
         const qreal h = c_.height_of(f, width_, s);
-        need(h + c_.mm(14)); // keep the heading with the start of its block
+        need(h + c_.mm(5) + std::max(keep_with, c_.mm(14))); // keep the heading with the start of its block
         y_ += c_.mm(2.5);
         c_.text(QRectF(left_, y_, width_, h), f, s);
         y_ += h + c_.mm(0.6);
