@@ -109,7 +109,7 @@ recipe = run_json(["recipe", write("demo-recipe.json", demo)])
 reagents = {r["id"]: r for r in run_json(["reagents"])["reagents"]}
 items = {i["reagent"]: i for i in recipe["items"]}
 acid, salt = demo["acid"], demo["base"]  # the demo mixes an acid form and a salt (mix route)
-batch_id = "KV-QC117-A-0042"
+batch_id = "HR-QC117-A-0042"
 # The salt weighed 2.5 % over its target (out of the ± 2 % tolerance), the acid 0.5 % over.
 salt_actual = round(items[salt]["mass_g"] * 1.025, 4)
 acid_actual = round(items[acid]["volume_ml"] * 1.005, 3)

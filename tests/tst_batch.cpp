@@ -374,7 +374,7 @@ struct TempDb {
 
 BatchRecord demo_record() {
     QJsonObject in = demo_input();
-    in["batch"] = QJsonObject{{"id", "KV-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
+    in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
                               {"prepared_at", "2026-12-01T16:30:00"},
                               {"actual", QJsonArray{QJsonObject{{"reagent", "phosphoric-acid"},
                                                                 {"volume_ml", 1.25}, {"lot", "PA-88121"}}}}};
@@ -487,9 +487,9 @@ void TestBatch::printedBatchRefusesSilentEdits() {
 
     // So does the database, for any code that goes around the API.
     QSqlQuery q(t.db);
-    QVERIFY(!q.exec("UPDATE batches SET prepared_by = 'someone else' WHERE id = 'KV-QC117-A-0042'"));
+    QVERIFY(!q.exec("UPDATE batches SET prepared_by = 'someone else' WHERE id = 'HR-QC117-A-0042'"));
     QVERIFY(!q.exec("UPDATE batches SET prepared_by = 'someone else', revision = revision + 1 "
-                    "WHERE id = 'KV-QC117-A-0042'"));
+                    "WHERE id = 'HR-QC117-A-0042'"));
     QVERIFY(!q.exec("DELETE FROM batches"));
     QCOMPARE(store.load(rec.id)->prepared_by, QString("R. Okafor"));
 
@@ -531,7 +531,7 @@ void TestBatch::historyIsAppendOnlyInTheDatabase() {
     QCOMPARE(count_rows(t.db, "SELECT count(*) FROM batch_history"), rows);
     QCOMPARE(count_rows(t.db, "SELECT count(*) FROM batch_history WHERE who = 'nobody'"), 0);
     // An unprinted batch changed without history rows: refused as well.
-    QVERIFY(!q.exec("UPDATE batches SET checked_by = 'X' WHERE id = 'KV-QC117-A-0042'"));
+    QVERIFY(!q.exec("UPDATE batches SET checked_by = 'X' WHERE id = 'HR-QC117-A-0042'"));
 }
 
 // The app's database gets the batch tables from its migration steps; an older file is migrated.
@@ -551,7 +551,7 @@ void TestBatch::migrationCreatesBatchTables() {
     QCOMPARE(db.schema_version(), phaseplan::storage::latest_schema_version());
     BatchStore store(db.connection());
     store.create(demo_record(), "R. Okafor");
-    QCOMPARE(store.list(), QStringList{"KV-QC117-A-0042"});
+    QCOMPARE(store.list(), QStringList{"HR-QC117-A-0042"});
 }
 
 QTEST_GUILESS_MAIN(TestBatch)

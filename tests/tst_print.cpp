@@ -31,7 +31,7 @@ QJsonObject demo_with_batch() {
                    {"temperature_c", 25}, {"volume_ml", 2000}, {"route", "mix"},
                    {"acid", "phosphoric-acid"}, {"base", "sodium-dihydrogen-phosphate-monohydrate"},
                    {"concentration_mol_per_l", 0.02}};
-    in["batch"] = QJsonObject{{"id", "KV-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
+    in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
                               {"prepared_at", "2026-12-01T16:30:00"},
                               {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
                                                                 {"mass_g", 3.0855}, {"lot", "SP-2207"}}}}};
@@ -97,8 +97,8 @@ void TestPrint::initTestCase() {
 void TestPrint::qrDecodesBack_data() {
     QTest::addColumn<QString>("text");
     QTest::addColumn<int>("module_px");
-    QTest::newRow("batch id, 4 px") << "KV-QC117-A-0042" << 4;
-    QTest::newRow("batch id, 2 px") << "KV-QC117-A-0042" << 2;
+    QTest::newRow("batch id, 4 px") << "HR-QC117-A-0042" << 4;
+    QTest::newRow("batch id, 2 px") << "HR-QC117-A-0042" << 2;
     QTest::newRow("lower case and spaces") << "lab 2 / batch 7 of 2026-12-01" << 3;
     QTest::newRow("64 characters") << QString(64, 'X').replace(10, 5, "-0042") << 3;
 }
@@ -120,7 +120,7 @@ void TestPrint::qrDecodesBack() {
 
 // ISO/IEC 18004 asks for a quiet zone of 4 modules (from memory).
 void TestPrint::qrQuietZoneIsWhite() {
-    const QString text = "KV-QC117-A-0042";
+    const QString text = "HR-QC117-A-0042";
     int n = 0;
     qr_modules(text, &n, "batch.id");
     const int total = qr_total_modules(text);
@@ -247,7 +247,7 @@ void TestPrint::controllerSavesSheetAndLabels() {
     const QVariantMap doc = demo_with_batch().toVariantMap();
 
     const QVariantMap preview = pc.preview(doc);
-    QCOMPARE(preview.value("batch").toMap().value("id").toString(), QString("KV-QC117-A-0042"));
+    QCOMPARE(preview.value("batch").toMap().value("id").toString(), QString("HR-QC117-A-0042"));
     bool flagged = false;
     for (const QVariant& w : preview.value("warnings").toList())
         flagged |= w.toMap().value("code").toString() == "amount-out-of-tolerance";
@@ -257,9 +257,9 @@ void TestPrint::controllerSavesSheetAndLabels() {
     QVERIFY2(pc.saveSheet(doc, sheet, "letter"), qPrintable(pc.lastError()));
     QVERIFY(pc.lastError().isEmpty());
     const QString text = pdftotext(dir_.filePath("sheet.pdf"));
-    QVERIFY(text.contains("KV-QC117-A-0042") && text.contains("SP-2207") && text.contains("Checked by"));
+    QVERIFY(text.contains("HR-QC117-A-0042") && text.contains("SP-2207") && text.contains("Checked by"));
     QCOMPARE(printed.count(), 1);
-    QCOMPARE(printed.at(0).at(0).toString(), QString("KV-QC117-A-0042"));
+    QCOMPARE(printed.at(0).at(0).toString(), QString("HR-QC117-A-0042"));
 
     QVERIFY2(pc.saveLabels(doc, dir_.filePath("label.pdf"), "label62", 2), qPrintable(pc.lastError()));
     QProcess r;
@@ -267,8 +267,8 @@ void TestPrint::controllerSavesSheetAndLabels() {
     QVERIFY(r.waitForFinished(60000));
     const QStringList pngs = QDir(dir_.path()).entryList({"label-*.png"});
     QCOMPARE(pngs.size(), 1); // page 2 exists: two copies
-    QCOMPARE(zbar(dir_.filePath(pngs.first())), QStringList{"KV-QC117-A-0042"});
-    QCOMPARE(pc.suggestedFileName(doc, "labels"), QString("KV-QC117-A-0042-labels.pdf"));
+    QCOMPARE(zbar(dir_.filePath(pngs.first())), QStringList{"HR-QC117-A-0042"});
+    QCOMPARE(pc.suggestedFileName(doc, "labels"), QString("HR-QC117-A-0042-labels.pdf"));
 }
 
 void TestPrint::controllerPrintsThroughQPrinter() {
