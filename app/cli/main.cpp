@@ -7,6 +7,7 @@
 #include "core/line_commands.h"
 
 #include <QCoreApplication>
+#include <QDir>
 #include <QFile>
 #include <QJsonDocument>
 #include <QTextStream>
@@ -16,6 +17,8 @@
 #include <iostream>
 #include <map>
 #include <memory>
+
+#include <unistd.h>
 
 #ifdef PHASEPLAN_WITH_PRINT
 #include "print/print_commands.h"
@@ -100,6 +103,15 @@ int main(int argc, char** argv) {
 #ifdef PHASEPLAN_WITH_PRINT
     if (it->second.needs_gui) {
         if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
+        if (qEnvironmentVariableIsEmpty("XDG_RUNTIME_DIR")) {
+            // A private runtime folder keeps Qt from warning on stderr (one line only on error).
+            const QByteArray dir = QDir::tempPath().toUtf8() + "/phaseplan-runtime-" +
+                                   QByteArray::number(static_cast<qulonglong>(getuid()));
+            QDir().mkpath(QString::fromUtf8(dir));
+            QFile::setPermissions(QString::fromUtf8(dir),
+                                  QFileDevice::ReadOwner | QFileDevice::WriteOwner | QFileDevice::ExeOwner);
+            qputenv("XDG_RUNTIME_DIR", dir);
+        }
         app = std::make_unique<QGuiApplication>(argc, argv);
     }
 #endif
