@@ -1,0 +1,235 @@
+#include "app_runner.h"
+
+#include "workspace.h"
+
+#include <QApplication>
+#include <QCommandLineParser>
+#include <QDir>
+#include <QElapsedTimer>
+#include <QEventLoop>
+#include <QImage>
+#include <QMutex>
+#include <QQmlApplicationEngine>
+#include <QQuickStyle>
+#include <QQuickWindow>
+#include <QTemporaryDir>
+#include <QTimer>
+
+#include <algorithm>
+#include <cstdio>
+#include <vector>
+
+namespace phaseplan::gui {
+
+namespace {
+
+QElapsedTimer& clock() {
+    static QElapsedTimer t;
+    return t;
+}
+
+// Every warning, critical and fatal message, counted for the checking seams.
+QMutex messages_mutex;
+int problem_count = 0;
+QtMessageHandler previous_handler = nullptr;
+
+void counting_handler(QtMsgType type, const QMessageLogContext& ctx, const QString& msg) {
+    if (type == QtWarningMsg || type == QtCriticalMsg || type == QtFatalMsg) {
+        QMutexLocker lock(&messages_mutex);
+        ++problem_count;
+    }
+    if (previous_handler) previous_handler(type, ctx, msg);
+}
+
+int problems() {
+    QMutexLocker lock(&messages_mutex);
+    return problem_count;
+}
+
+// Waits until the window has rendered a frame (or `timeout_ms` passed), then lets queued work run.
+void wait_for_frame(QQuickWindow* win, int timeout_ms = 1000) {
+    QEventLoop loop;
+    QObject::connect(win, &QQuickWindow::frameSwapped, &loop, &QEventLoop::quit);
+    QTimer::singleShot(timeout_ms, &loop, &QEventLoop::quit);
+    win->requestUpdate();
+    loop.exec();
+    QCoreApplication::processEvents();
+}
+
+struct Orientation {
+    const char* name;
+    int width;
+    int height;
+};
+constexpr Orientation orientations[] = {{"landscape", 1280, 800}, {"portrait", 800, 1280}};
+
+int render_screens(QQuickWindow* win, const QString& dir) {
+    const QStringList keys = win->property("screenKeys").toStringList();
+    if (keys.isEmpty()) {
+        std::fprintf(stderr, "phaseplan: the main window lists no screens (screenKeys)\n");
+        return 1;
+    }
+    if (!dir.isEmpty() && !QDir().mkpath(dir)) {
+        std::fprintf(stderr, "phaseplan: cannot create %s\n", qPrintable(dir));
+        return 1;
+    }
+    for (const Orientation& o : orientations) {
+        win->resize(o.width, o.height);
+        for (int i = 0; i < keys.size(); ++i) {
+            win->setProperty("currentScreen", i);
+            // Two frames: the first lays out after the resize or the switch, the second settles
+            // anything that depends on the first layout (list views, charts' plot area).
+            wait_for_frame(win);
+            wait_for_frame(win);
+            if (dir.isEmpty()) continue;
+            QImage img = win->grabWindow();
+            const QString file = QStringLiteral("%1/%2-%3.png").arg(dir, keys[i], QLatin1String(o.name));
+            if (img.isNull() || !img.save(file)) {
+                std::fprintf(stderr, "phaseplan: could not write %s\n", qPrintable(file));
+                return 1;
+            }
+            std::printf("wrote %s (%dx%d)\n", qPrintable(file), img.width(), img.height());
+        }
+    }
+    return 0;
+}
+
+double median(std::vector<double> v) {
+    if (v.empty()) return 0;
+    std::sort(v.begin(), v.end());
+    return v[v.size() / 2];
+}
+
+// Edits the buffer designer's target pH repeatedly and times each edit up to the next frame.
+int measure(QQuickWindow* win, double startup_ms) {
+    std::printf("start-up (main() to first frame): %.0f ms\n", startup_ms);
+    QObject* designer = win->findChild<QObject*>(QStringLiteral("designer"));
+    if (!designer) {
+        std::fprintf(stderr, "phaseplan: no object named \"designer\" in the main window\n");
+        return 1;
+    }
+    const QStringList keys = win->property("screenKeys").toStringList();
+    win->setProperty("currentScreen", std::max(0, int(keys.indexOf(QStringLiteral("buffer")))));
+    wait_for_frame(win);
+    wait_for_frame(win);
+    const double ph0 = designer->property("targetPh").toDouble();
+    std::vector<double> total_ms, sync_ms, model_ms, idle_ms;
+    for (int i = 0; i < 30; ++i) {
+        // A frame with nothing changed: what the renderer costs by itself.
+        QElapsedTimer t;
+        t.start();
+        win->update();
+        wait_for_frame(win);
+        idle_ms.push_back(t.nsecsElapsed() / 1e6);
+    }
+    for (int i = 0; i < 60; ++i) {
+        QElapsedTimer t;
+        t.start();
+        designer->setProperty("targetPh", ph0 + 0.02 * ((i % 10) - 5));
+        // The edit's synchronous part: the model's recompute and every QML binding it touches.
+        sync_ms.push_back(t.nsecsElapsed() / 1e6);
+        wait_for_frame(win);
+        total_ms.push_back(t.nsecsElapsed() / 1e6);
+        model_ms.push_back(designer->property("lastRecomputeMs").toDouble());
+    }
+    designer->setProperty("targetPh", ph0);
+    std::printf("buffer recompute in the model (median of %zu edits): %.2f ms\n", model_ms.size(), median(model_ms));
+    std::printf("edit handled, model + QML bindings (median): %.2f ms\n", median(sync_ms));
+    std::printf("edit to next frame swapped, recompute + redraw (median): %.2f ms, max %.2f ms\n",
+                median(total_ms), *std::max_element(total_ms.begin(), total_ms.end()));
+    std::printf("a frame with nothing changed (median): %.2f ms\n", median(idle_ms));
+    for (const char* name : {"plan", "lines"}) {
+        if (QObject* m = win->findChild<QObject*>(QString::fromLatin1(name)))
+            std::printf("%s recompute in the model (last): %.2f ms\n", name, m->property("lastRecomputeMs").toDouble());
+    }
+    return 0;
+}
+
+} // namespace
+
+void start_clock() { clock().start(); }
+double elapsed_since_start_ms() { return clock().isValid() ? clock().nsecsElapsed() / 1e6 : 0; }
+
+void prepare_engine(QQmlEngine& engine) {
+    // The module's files come from the resources linked into the binary.
+    engine.addImportPath(QStringLiteral("qrc:/"));
+}
+
+int run_app(QApplication& app) {
+    QCoreApplication::setOrganizationName(QStringLiteral("PhasePlan"));
+    QCoreApplication::setApplicationName(QStringLiteral("PhasePlan"));
+    QCoreApplication::setApplicationVersion(QStringLiteral("0.1"));
+    // Fusion follows the platform palette (light or dark) and draws plain, large controls.
+    QQuickStyle::setStyle(QStringLiteral("Fusion"));
+
+    QCommandLineParser parser;
+    parser.setApplicationDescription(QStringLiteral("Mobile-phase and buffer preparation planner"));
+    parser.addHelpOption();
+    parser.addVersionOption();
+    QCommandLineOption database_opt(QStringLiteral("database"), QStringLiteral("Use this SQLite file."),
+                                    QStringLiteral("FILE"));
+    QCommandLineOption data_opt(QStringLiteral("data"), QStringLiteral("Reference data folder."),
+                                QStringLiteral("DIR"));
+    QCommandLineOption screenshot_opt(QStringLiteral("screenshot"),
+                                      QStringLiteral("Render each screen in both orientations to DIR and exit."),
+                                      QStringLiteral("DIR"));
+    QCommandLineOption selftest_opt(QStringLiteral("self-test"),
+                                    QStringLiteral("Load and render every screen, exit 1 on any QML warning."));
+    QCommandLineOption measure_opt(QStringLiteral("measure"),
+                                   QStringLiteral("Print start-up and recompute+redraw times, then exit."));
+    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt});
+    parser.process(app);
+
+    const bool checking = parser.isSet(screenshot_opt) || parser.isSet(selftest_opt) || parser.isSet(measure_opt);
+    if (checking) previous_handler = qInstallMessageHandler(counting_handler);
+
+    // The checking seams start from a fresh database (first run: the demo) unless one is given.
+    QTemporaryDir temp;
+    QString db_path = parser.value(database_opt);
+    if (db_path.isEmpty() && checking) db_path = temp.filePath(QStringLiteral("phaseplan.sqlite"));
+
+    Workspace workspace;
+    workspace.setDatabasePath(db_path);
+    workspace.setDataDir(parser.value(data_opt));
+    if (!workspace.open()) {
+        std::fprintf(stderr, "phaseplan: %s\n", qPrintable(workspace.errorMessage()));
+        return 2;
+    }
+
+    QQmlApplicationEngine engine;
+    prepare_engine(engine);
+    engine.setInitialProperties({{QStringLiteral("workspace"), QVariant::fromValue(&workspace)}});
+    double first_frame_ms = -1;
+    QObject::connect(&engine, &QQmlApplicationEngine::objectCreated, &app, [&](QObject* obj, const QUrl&) {
+        if (auto* w = qobject_cast<QQuickWindow*>(obj))
+            QObject::connect(w, &QQuickWindow::frameSwapped, &app, [&first_frame_ms] {
+                if (first_frame_ms < 0) first_frame_ms = elapsed_since_start_ms();
+            });
+    });
+    engine.load(QUrl(QStringLiteral("qrc:/PhasePlan/Main.qml")));
+    if (engine.rootObjects().isEmpty()) {
+        std::fprintf(stderr, "phaseplan: the main window did not load\n");
+        return 1;
+    }
+    auto* win = qobject_cast<QQuickWindow*>(engine.rootObjects().first());
+    if (!win) {
+        std::fprintf(stderr, "phaseplan: Main.qml is not a window\n");
+        return 1;
+    }
+    if (!checking) return app.exec();
+
+    win->show();
+    wait_for_frame(win, 3000);
+    if (first_frame_ms < 0) first_frame_ms = elapsed_since_start_ms();
+    int status = 0;
+    if (parser.isSet(measure_opt)) status = measure(win, first_frame_ms);
+    else status = render_screens(win, parser.value(screenshot_opt));
+    const int n = problems();
+    if (n > 0) {
+        std::fprintf(stderr, "phaseplan: %d QML warning(s) or error(s), see above\n", n);
+        status = 1;
+    }
+    return status;
+}
+
+} // namespace phaseplan::gui

@@ -1,0 +1,461 @@
+#include "buffer_designer.h"
+
+#include "core/commands.h"
+#include "plan.h"
+#include "workspace.h"
+
+#include <QJsonArray>
+#include <QLocale>
+
+#include <algorithm>
+#include <cmath>
+
+namespace phaseplan::gui {
+
+namespace {
+
+constexpr int curve_points = 41; ///< points per curve: enough for a smooth line, < 2 ms of solves
+
+/// The smallest of 1, 2, 2.5, 5 × 10^k at or above v: an axis end that reads well.
+double nice_ceiling(double v) {
+    if (!(v > 0)) return 1;
+    const double p = std::pow(10.0, std::floor(std::log10(v)));
+    for (double m : {1.0, 2.0, 2.5, 5.0, 10.0})
+        if (m * p >= v * (1 - 1e-9)) return m * p;
+    return 10 * p;
+}
+
+QString amount_text(const QJsonObject& item) {
+    const QLocale loc;
+    // A liquid is pipetted: its volume first, the mass in brackets for weighing instead.
+    if (item.value(QLatin1String("as")).toString() == QLatin1String("liquid") &&
+        item.contains(QLatin1String("volume_ml")) && item.contains(QLatin1String("mass_g"))) {
+        const double ml = item.value(QLatin1String("volume_ml")).toDouble();
+        const double g = item.value(QLatin1String("mass_g")).toDouble();
+        return loc.toString(ml, 'f', ml < 10 ? 3 : 2) + QStringLiteral(" mL (") +
+               loc.toString(g, 'f', g < 1 ? 4 : 3) + QStringLiteral(" g)");
+    }
+    if (item.contains(QLatin1String("mass_g"))) {
+        const double g = item.value(QLatin1String("mass_g")).toDouble();
+        // A lab balance reads 0.1 mg below 1 g and 1 mg above: show what can be weighed.
+        const int decimals = g < 1 ? 4 : g < 100 ? 3 : 2;
+        QString text = loc.toString(g, 'f', decimals) + QStringLiteral(" g");
+        if (item.contains(QLatin1String("volume_ml")))
+            text += QStringLiteral(" (") + loc.toString(item.value(QLatin1String("volume_ml")).toDouble(), 'f', 2) +
+                    QStringLiteral(" mL)");
+        return text;
+    }
+    if (item.contains(QLatin1String("volume_ml"))) {
+        const double ml = item.value(QLatin1String("volume_ml")).toDouble();
+        const int decimals = ml < 10 ? 3 : ml < 100 ? 2 : 1;
+        return loc.toString(ml, 'f', decimals) + QStringLiteral(" mL");
+    }
+    return QString();
+}
+
+} // namespace
+
+namespace {
+constexpr int autosave_delay_ms = 300;
+}
+
+BufferDesigner::BufferDesigner(QObject* parent) : QObject(parent) {
+    autosave_.setSingleShot(true);
+    autosave_.setInterval(autosave_delay_ms);
+    connect(&autosave_, &QTimer::timeout, this, &BufferDesigner::flushAutosave);
+    connect(this, &BufferDesigner::edited, this, &BufferDesigner::schedule_autosave);
+}
+
+BufferDesigner::~BufferDesigner() { flushAutosave(); }
+
+void BufferDesigner::setAutosaveKey(const QString& k) {
+    if (k == autosave_key_) return;
+    autosave_key_ = k;
+    emit workspaceChanged();
+    restore_state();
+}
+
+void BufferDesigner::schedule_autosave() {
+    if (autosave_key_.isEmpty()) return;
+    dirty_ = true;
+    autosave_.start();
+}
+
+void BufferDesigner::flushAutosave() {
+    if (!dirty_ || autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    autosave_.stop();
+    const QJsonObject own = line_letter_.isEmpty() ? requestDocument() : own_buffer_;
+    const FieldError e = guarded([&] {
+        workspace_->database()->set_setting(autosave_key_, QJsonObject{{"line", line_letter_}, {"buffer", own}});
+    });
+    if (!e.empty()) qWarning("PhasePlan: autosave failed: %s", qPrintable(e.message));
+    dirty_ = false;
+}
+
+void BufferDesigner::componentComplete() {
+    constructing_ = false;
+    restore_state();
+}
+
+void BufferDesigner::restore_state() {
+    if (constructing_ || restored_ || autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    restored_ = true;
+    const QJsonObject saved = workspace_->database()->setting(autosave_key_).toObject();
+    if (saved.isEmpty()) {
+        // First run: show the first line's buffer of the plan (the demo's), if there is one.
+        if (plan_)
+            for (const QString& l : plan_->lineLetters())
+                if (!plan_->lineBuffer(l).isEmpty()) {
+                    own_buffer_ = requestDocument();
+                    setLineLetter(l);
+                    return;
+                }
+        return;
+    }
+    const QJsonObject own = saved.value("buffer").toObject();
+    if (!own.isEmpty()) loadJson(own);
+    own_buffer_ = requestDocument();
+    setLineLetter(saved.value("line").toString());
+}
+
+void BufferDesigner::setWorkspace(Workspace* w) {
+    if (w == workspace_) return;
+    if (workspace_) disconnect(workspace_, nullptr, this, nullptr);
+    workspace_ = w;
+    if (w) {
+        connect(w, &Workspace::libraryChanged, this, [this] {
+            rebuild_choices();
+            recompute();
+        });
+        connect(w, &Workspace::readyChanged, this, [this] {
+            rebuild_choices();
+            recompute();
+        });
+    }
+    emit workspaceChanged();
+    rebuild_choices();
+    restore_state();
+    load_from_plan();
+    recompute();
+}
+
+void BufferDesigner::setPlan(Plan* p) {
+    if (p == plan_) return;
+    if (plan_) disconnect(plan_, nullptr, this, nullptr);
+    plan_ = p;
+    if (p) connect(p, &Plan::documentReplaced, this, &BufferDesigner::load_from_plan);
+    emit planChanged();
+    restore_state();
+    load_from_plan();
+}
+
+void BufferDesigner::setLineLetter(const QString& l) {
+    if (l == line_letter_) return;
+    // Leaving its own buffer for a line's: keep it to come back to.
+    if (line_letter_.isEmpty()) own_buffer_ = requestDocument();
+    line_letter_ = l;
+    emit lineLetterChanged();
+    if (l.isEmpty() && !own_buffer_.isEmpty()) loadJson(own_buffer_);
+    else load_from_plan();
+    schedule_autosave();
+}
+
+void BufferDesigner::load_from_plan() {
+    if (!plan_ || line_letter_.isEmpty()) return;
+    QJsonObject doc = plan_->lineBuffer(line_letter_);
+    if (doc.isEmpty()) return;
+    // A line's buffer without a volume of its own is made for its share of the bottle (as the
+    // core's line command does): show that volume.
+    if (!doc.contains(QLatin1String("volume_ml"))) {
+        const double share_ml = plan_->lineBufferVolumeMl(line_letter_);
+        if (share_ml > 0) doc.insert("volume_ml", share_ml);
+    }
+    loadJson(doc);
+}
+
+template <class T>
+void BufferDesigner::set_input(T& member, const T& value) {
+    if (member == value) return;
+    member = value;
+    emit inputsChanged();
+    if (loading_) return;
+    recompute();
+    if (plan_ && !line_letter_.isEmpty()) plan_->setLineBuffer(line_letter_, requestDocument());
+    emit edited();
+}
+
+void BufferDesigner::setName(const QString& v) { set_input(name_, v); }
+void BufferDesigner::setRoute(const QString& v) { set_input(route_, v); }
+void BufferDesigner::setSystem(const QString& v) {
+    if (v == system_) return;
+    const bool was_loading = loading_;
+    loading_ = true; // one recompute for the system and its default reagents together
+    system_ = v;
+    rebuild_choices();
+    // Keep the chosen reagents when they belong to the new system, else take its most acidic and
+    // most basic forms (the ends of the list), the usual pair to mix.
+    auto in_choices = [this](const QString& id) {
+        return std::any_of(reagent_choices_.begin(), reagent_choices_.end(),
+                           [&](const QVariant& c) { return c.toMap().value("id").toString() == id; });
+    };
+    if (!reagent_choices_.isEmpty()) {
+        const QString first = reagent_choices_.first().toMap().value("id").toString();
+        const QString last = reagent_choices_.last().toMap().value("id").toString();
+        if (!in_choices(acid_)) acid_ = first;
+        if (!in_choices(base_)) base_ = last;
+        if (!in_choices(weigh_)) weigh_ = first;
+    }
+    loading_ = was_loading;
+    emit inputsChanged();
+    if (loading_) return;
+    recompute();
+    if (plan_ && !line_letter_.isEmpty()) plan_->setLineBuffer(line_letter_, requestDocument());
+    emit edited();
+}
+void BufferDesigner::setAcid(const QString& v) { set_input(acid_, v); }
+void BufferDesigner::setBase(const QString& v) { set_input(base_, v); }
+void BufferDesigner::setWeigh(const QString& v) { set_input(weigh_, v); }
+void BufferDesigner::setTitrant(const QString& v) { set_input(titrant_, v); }
+void BufferDesigner::setTitrantMolPerL(double v) { set_input(titrant_mol_per_l_, v); }
+void BufferDesigner::setAcidStockMolPerL(double v) { set_input(acid_stock_mol_per_l_, v); }
+void BufferDesigner::setBaseStockMolPerL(double v) { set_input(base_stock_mol_per_l_, v); }
+void BufferDesigner::setTargetPh(double v) { set_input(target_ph_, v); }
+void BufferDesigner::setTemperatureC(double v) { set_input(temperature_c_, v); }
+void BufferDesigner::setVolumeMl(double v) { set_input(volume_ml_, v); }
+void BufferDesigner::setStrengthBasis(const QString& v) { set_input(strength_basis_, v); }
+void BufferDesigner::setConcentrationMmolPerL(double v) { set_input(concentration_mmol_per_l_, v); }
+void BufferDesigner::setIonicStrengthMmolPerL(double v) { set_input(ionic_strength_mmol_per_l_, v); }
+
+void BufferDesigner::rebuild_choices() {
+    system_choices_.clear();
+    reagent_choices_.clear();
+    titrant_choices_.clear();
+    if (workspace_ && workspace_->ready()) {
+        const chem::Library& lib = workspace_->data().reagents;
+        for (const chem::AcidBaseSystem& s : lib.systems())
+            system_choices_.append(QVariantMap{{"id", QString::fromStdString(s.id)},
+                                               {"name", QString::fromStdString(s.name)}});
+        struct Choice {
+            double protons_per_unit;
+            QVariantMap entry;
+        };
+        std::vector<Choice> forms;
+        for (const chem::Reagent& r : lib.reagents()) {
+            QVariantMap entry{{"id", QString::fromStdString(r.id)},
+                              {"name", QString::fromStdString(r.name)},
+                              {"formula", QString::fromStdString(r.formula)}};
+            if (r.is_strong_acid() || r.is_strong_base()) titrant_choices_.append(entry);
+            if (const chem::SystemShare* sh = r.share(system_.toStdString()))
+                forms.push_back({sh->protons_removed / std::max(sh->count, 1e-9), entry});
+        }
+        std::stable_sort(forms.begin(), forms.end(),
+                         [](const Choice& a, const Choice& b) { return a.protons_per_unit < b.protons_per_unit; });
+        for (Choice& c : forms) reagent_choices_.append(c.entry);
+    }
+    emit choicesChanged();
+}
+
+QJsonObject BufferDesigner::requestDocument() const {
+    QJsonObject doc = QJsonObject::fromVariantMap(extra_);
+    if (!name_.isEmpty()) doc.insert("name", name_);
+    else doc.remove("name");
+    doc.insert("target_ph", target_ph_);
+    doc.insert("temperature_c", temperature_c_);
+    doc.insert("volume_ml", volume_ml_);
+    doc.insert("route", route_);
+    doc.insert("system", system_);
+    for (const char* k : {"acid", "base", "weigh", "titrant", "titrant_mol_per_l", "acid_stock_mol_per_l",
+                          "base_stock_mol_per_l", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
+        doc.remove(QLatin1String(k));
+    if (route_ == QLatin1String("titrate")) {
+        doc.insert("weigh", weigh_);
+        doc.insert("titrant", titrant_);
+        doc.insert("titrant_mol_per_l", titrant_mol_per_l_);
+    } else {
+        doc.insert("acid", acid_);
+        doc.insert("base", base_);
+        if (route_ == QLatin1String("stocks")) {
+            doc.insert("acid_stock_mol_per_l", acid_stock_mol_per_l_);
+            doc.insert("base_stock_mol_per_l", base_stock_mol_per_l_);
+        }
+    }
+    if (strength_basis_ == QLatin1String("ionic_strength"))
+        doc.insert("ionic_strength_mol_per_l", ionic_strength_mmol_per_l_ / 1000.0);
+    else
+        doc.insert("concentration_mol_per_l", concentration_mmol_per_l_ / 1000.0);
+    return doc;
+}
+
+void BufferDesigner::loadDocument(const QVariantMap& doc) { loadJson(QJsonObject::fromVariantMap(doc)); }
+
+void BufferDesigner::loadJson(const QJsonObject& doc) {
+    loading_ = true;
+    auto str = [&](const char* key, QString& member) {
+        if (doc.value(QLatin1String(key)).isString()) member = doc.value(QLatin1String(key)).toString();
+    };
+    auto num = [&](const char* key, double& member, double scale = 1.0) {
+        if (doc.value(QLatin1String(key)).isDouble()) member = doc.value(QLatin1String(key)).toDouble() * scale;
+    };
+    name_ = doc.value(QLatin1String("name")).toString();
+    str("route", route_);
+    str("acid", acid_);
+    str("base", base_);
+    str("weigh", weigh_);
+    str("titrant", titrant_);
+    num("titrant_mol_per_l", titrant_mol_per_l_);
+    num("acid_stock_mol_per_l", acid_stock_mol_per_l_);
+    num("base_stock_mol_per_l", base_stock_mol_per_l_);
+    num("target_ph", target_ph_);
+    num("temperature_c", temperature_c_);
+    num("volume_ml", volume_ml_);
+    if (doc.contains(QLatin1String("ionic_strength_mol_per_l"))) {
+        strength_basis_ = QStringLiteral("ionic_strength");
+        num("ionic_strength_mol_per_l", ionic_strength_mmol_per_l_, 1000.0);
+    } else if (doc.contains(QLatin1String("concentration_mol_per_l"))) {
+        strength_basis_ = QStringLiteral("concentration");
+        num("concentration_mol_per_l", concentration_mmol_per_l_, 1000.0);
+    }
+    // The system: as saved, or the one the chosen reagent brings.
+    QString sys = doc.value(QLatin1String("system")).toString();
+    if (sys.isEmpty() && workspace_ && workspace_->ready()) {
+        const QString id = route_ == QLatin1String("titrate") ? weigh_ : acid_;
+        if (const chem::Reagent* r = workspace_->data().reagents.find_reagent(id.toStdString()))
+            if (!r->systems.empty()) sys = QString::fromStdString(r->systems.front().system);
+    }
+    if (!sys.isEmpty()) system_ = sys;
+    QVariantMap extra = doc.toVariantMap();
+    for (const char* k : {"name", "route", "system", "acid", "base", "weigh", "titrant", "titrant_mol_per_l",
+                          "acid_stock_mol_per_l", "base_stock_mol_per_l", "target_ph", "temperature_c",
+                          "volume_ml", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
+        extra.remove(QLatin1String(k));
+    extra_ = extra;
+    loading_ = false;
+    emit inputsChanged();
+    rebuild_choices();
+    recompute();
+}
+
+QString BufferDesigner::saveAs(const QString& name) {
+    if (!workspace_ || !workspace_->database()) return QStringLiteral("no database is open");
+    const FieldError e = guarded([&] {
+        setName(name.trimmed());
+        workspace_->database()->save(storage::DocumentKind::buffer, name.trimmed(), requestDocument());
+    });
+    if (e.empty()) workspace_->notifySaved();
+    return e.message;
+}
+
+void BufferDesigner::recompute() {
+    QElapsedTimer timer;
+    timer.start();
+    QJsonObject out;
+    FieldError err;
+    if (!workspace_ || !workspace_->ready())
+        err = {QString(), QStringLiteral("the reagent library is not loaded")};
+    else
+        err = guarded([&] { out = command_recipe(workspace_->data(), requestDocument(), {}); });
+
+    error_ = err;
+    items_.clear();
+    warnings_.clear();
+    steps_.clear();
+    cautions_.clear();
+    if (err.empty()) {
+        const chem::Library& lib = workspace_->data().reagents;
+        for (const QJsonValue& v : out.value("items").toArray()) {
+            QVariantMap item = v.toObject().toVariantMap();
+            const chem::Reagent* r = lib.find_reagent(v.toObject().value("reagent").toString().toStdString());
+            item.insert("name", r ? QString::fromStdString(r->name) : item.value("reagent"));
+            item.insert("amount", amount_text(v.toObject()));
+            items_.append(item);
+        }
+        for (const QJsonValue& v : out.value("warnings").toArray()) warnings_.append(v.toObject().toVariantMap());
+        for (const QJsonValue& v : out.value("steps").toArray()) steps_.append(v.toString());
+        for (const QJsonValue& v : out.value("cautions").toArray()) cautions_.append(v.toString());
+        predicted_ph_ = out.value("ph").toDouble();
+        ionic_strength_result_mmol_per_l_ = out.value("ionic_strength_mol_per_l").toDouble() * 1000.0;
+        buffer_capacity_mmol_per_l_ = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
+        compute_curves(out);
+    } else {
+        ph_curve_.clear();
+        beta_curve_.clear();
+    }
+    last_recompute_ms_ = elapsed_ms(timer);
+    emit resultChanged();
+}
+
+void BufferDesigner::compute_curves(const QJsonObject& recipe) {
+    ph_curve_.clear();
+    beta_curve_.clear();
+    const QJsonArray composition = recipe.value("composition").toArray();
+    const bool titrate = route_ == QLatin1String("titrate");
+    const QString varied_up = titrate ? titrant_ : base_;   // the component whose share grows
+    const QString varied_down = titrate ? QString() : acid_; // mix/stocks: its partner shrinks
+    double c_up = 0, c_down = 0;
+    QJsonArray fixed;
+    for (const QJsonValue& v : composition) {
+        const QJsonObject c = v.toObject();
+        const QString id = c.value("reagent").toString();
+        if (id == varied_up) c_up += c.value("mol_per_l").toDouble();
+        else if (!varied_down.isEmpty() && id == varied_down) c_down += c.value("mol_per_l").toDouble();
+        else fixed.append(c);
+    }
+    const double total = c_up + c_down;
+    double x_recipe = 0, x_max = 1, up_max = 0;
+    if (titrate) {
+        // Titrant volume in mL for a final concentration c of titrant: c · V / c_titrant.
+        up_max = std::max(2.0 * c_up, 1e-4);
+        x_max = titrant_mol_per_l_ > 0 ? up_max * volume_ml_ / titrant_mol_per_l_ : 0;
+        x_recipe = titrant_mol_per_l_ > 0 ? c_up * volume_ml_ / titrant_mol_per_l_ : 0;
+        curve_x_label_ = tr("Titrant added (mL)");
+    } else {
+        x_recipe = total > 0 ? c_up / total : 0;
+        curve_x_label_ = tr("Base form, fraction of the buffer");
+    }
+    if (!(x_max > 0) || (!titrate && !(total > 0))) return;
+
+    double ph_min = 14, ph_max = 0, beta_max = 0;
+    for (int i = 0; i < curve_points; ++i) {
+        const double f = double(i) / (curve_points - 1);
+        QJsonArray comps = fixed;
+        const double up = titrate ? f * up_max : f * total;
+        const double down = titrate ? 0 : (1 - f) * total;
+        if (up > 0) comps.append(QJsonObject{{"reagent", varied_up}, {"mol_per_l", up}});
+        if (down > 0) comps.append(QJsonObject{{"reagent", varied_down}, {"mol_per_l", down}});
+        if (comps.isEmpty()) continue;
+        QJsonObject out;
+        const FieldError e = guarded([&] {
+            out = command_solve(workspace_->data(),
+                                QJsonObject{{"temperature_c", temperature_c_}, {"components", comps}}, {});
+        });
+        if (!e.empty()) continue; // a point the core refuses is left out, not invented
+        const double ph = out.value("ph").toDouble();
+        const double beta = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
+        ph_curve_.append(QPointF(f * x_max, ph));
+        beta_curve_.append(QPointF(ph, beta));
+        ph_min = std::min(ph_min, ph);
+        ph_max = std::max(ph_max, ph);
+        beta_max = std::max(beta_max, beta);
+    }
+    std::sort(beta_curve_.begin(), beta_curve_.end(),
+              [](const QPointF& a, const QPointF& b) { return a.x() < b.x(); });
+    curve_x_max_ = x_max;
+    recipe_point_ = QPointF(x_recipe, predicted_ph_);
+    ph_min = std::min(ph_min, target_ph_);
+    ph_max = std::max(ph_max, target_ph_);
+    curve_ph_min_ = std::floor(ph_min - 0.25);
+    curve_ph_max_ = std::ceil(ph_max + 0.25);
+    beta_max_mmol_per_l_ = nice_ceiling(beta_max * 1.05);
+}
+
+void BufferDesigner::fillSeries(QObject* series, const QString& which) const {
+    if (which == QLatin1String("ph")) replace_series(series, ph_curve_);
+    else if (which == QLatin1String("beta")) replace_series(series, beta_curve_);
+    else if (which == QLatin1String("target"))
+        replace_series(series, {QPointF(0, target_ph_), QPointF(curve_x_max_, target_ph_)});
+    else if (which == QLatin1String("recipe")) replace_series(series, {recipe_point_});
+    else if (which == QLatin1String("targetBeta"))
+        replace_series(series, {QPointF(target_ph_, 0), QPointF(target_ph_, beta_max_mmol_per_l_)});
+}
+
+} // namespace phaseplan::gui

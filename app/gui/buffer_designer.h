@@ -1,0 +1,260 @@
+#pragma once
+// The buffer designer's model: the inputs of a `recipe` document, the recipe the core designs for
+// them (recomputed on every edit), and the curves around it (pH against base fraction or titrant
+// volume, β against pH) from repeated `solve` calls. Every number comes from the core; this class
+// only builds documents, calls phaseplan::command_recipe / command_solve and unpacks the answers.
+#include "model_util.h"
+#include "plan.h"
+
+#include <QList>
+#include <QObject>
+#include <QPointF>
+#include <QPointer>
+#include <QQmlEngine>
+#include <QQmlParserStatus>
+#include <QTimer>
+#include <QVariantList>
+#include <QVariantMap>
+
+// Complete types for the pointer properties, for moc only.
+Q_MOC_INCLUDE("workspace.h")
+Q_MOC_INCLUDE("plan.h")
+
+namespace phaseplan::gui {
+
+class Workspace;
+class Plan;
+
+class BufferDesigner : public QObject, public QQmlParserStatus {
+    Q_OBJECT
+    QML_ELEMENT
+    Q_INTERFACES(QQmlParserStatus)
+    // ---- dependencies -----------------------------------------------------------------------
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    /// When set together with lineLetter, the designer edits that line's aqueous buffer part and
+    /// writes every edit back into the plan.
+    Q_PROPERTY(phaseplan::gui::Plan* plan READ plan WRITE setPlan NOTIFY planChanged)
+    /// "A"–"D": edit that line's buffer; empty: a buffer of its own.
+    Q_PROPERTY(QString lineLetter READ lineLetter WRITE setLineLetter NOTIFY lineLetterChanged)
+    /// Settings key under which the designer keeps its own buffer and line choice between runs
+    /// (empty: not kept). Restored when the workspace is set.
+    Q_PROPERTY(QString autosaveKey READ autosaveKey WRITE setAutosaveKey NOTIFY workspaceChanged)
+
+    // ---- inputs (the recipe document, units in the names) ------------------------------------
+    Q_PROPERTY(QString name READ name WRITE setName NOTIFY inputsChanged)
+    /// "mix", "titrate" or "stocks".
+    Q_PROPERTY(QString route READ route WRITE setRoute NOTIFY inputsChanged)
+    /// Acid-base system id ("phosphate"); narrows the reagent choices.
+    Q_PROPERTY(QString system READ system WRITE setSystem NOTIFY inputsChanged)
+    Q_PROPERTY(QString acid READ acid WRITE setAcid NOTIFY inputsChanged)
+    Q_PROPERTY(QString base READ base WRITE setBase NOTIFY inputsChanged)
+    Q_PROPERTY(QString weigh READ weigh WRITE setWeigh NOTIFY inputsChanged)
+    Q_PROPERTY(QString titrant READ titrant WRITE setTitrant NOTIFY inputsChanged)
+    Q_PROPERTY(double titrantMolPerL READ titrantMolPerL WRITE setTitrantMolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double acidStockMolPerL READ acidStockMolPerL WRITE setAcidStockMolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double baseStockMolPerL READ baseStockMolPerL WRITE setBaseStockMolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double targetPh READ targetPh WRITE setTargetPh NOTIFY inputsChanged)
+    Q_PROPERTY(double temperatureC READ temperatureC WRITE setTemperatureC NOTIFY inputsChanged)
+    Q_PROPERTY(double volumeMl READ volumeMl WRITE setVolumeMl NOTIFY inputsChanged)
+    /// "concentration" or "ionic_strength": which of the two amounts below is given.
+    Q_PROPERTY(QString strengthBasis READ strengthBasis WRITE setStrengthBasis NOTIFY inputsChanged)
+    /// Total buffer concentration in mmol/L (the document carries mol/L).
+    Q_PROPERTY(double concentrationMmolPerL READ concentrationMmolPerL WRITE setConcentrationMmolPerL NOTIFY inputsChanged)
+    /// Ionic strength of the finished buffer in mmol/L.
+    Q_PROPERTY(double ionicStrengthMmolPerL READ ionicStrengthMmolPerL WRITE setIonicStrengthMmolPerL NOTIFY inputsChanged)
+
+    // ---- choices for the pickers ------------------------------------------------------------
+    /// [{id, name}] of every acid-base system in the library.
+    Q_PROPERTY(QVariantList systemChoices READ systemChoices NOTIFY choicesChanged)
+    /// [{id, name, formula}] of reagents bringing the chosen system, most acidic form first.
+    Q_PROPERTY(QVariantList reagentChoices READ reagentChoices NOTIFY choicesChanged)
+    /// [{id, name}] of strong acids and bases (titrants).
+    Q_PROPERTY(QVariantList titrantChoices READ titrantChoices NOTIFY choicesChanged)
+
+    // ---- results ----------------------------------------------------------------------------
+    Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
+    /// [{reagent, name, mass_g?, volume_ml?, as, mol_per_l, amount (display text)}]
+    Q_PROPERTY(QVariantList items READ items NOTIFY resultChanged)
+    Q_PROPERTY(double predictedPh READ predictedPh NOTIFY resultChanged)
+    Q_PROPERTY(double ionicStrengthResultMmolPerL READ ionicStrengthResultMmolPerL NOTIFY resultChanged)
+    /// β in mmol/L per pH unit.
+    Q_PROPERTY(double bufferCapacityMmolPerL READ bufferCapacityMmolPerL NOTIFY resultChanged)
+    Q_PROPERTY(QStringList steps READ steps NOTIFY resultChanged)
+    Q_PROPERTY(QStringList cautions READ cautions NOTIFY resultChanged)
+    /// [{code, severity, message}]
+    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
+    /// The JSON path of the field at fault ("target_ph"), empty when the recipe is valid.
+    Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
+    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
+    /// Recompute time of the last edit (recipe + curves), in ms.
+    Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY resultChanged)
+
+    // ---- curves -----------------------------------------------------------------------------
+    /// "Base form, fraction of total" or "Titrant added (mL)".
+    Q_PROPERTY(QString curveXLabel READ curveXLabel NOTIFY resultChanged)
+    Q_PROPERTY(double curveXMax READ curveXMax NOTIFY resultChanged)
+    /// The recipe's own point on the curve (x, predicted pH).
+    Q_PROPERTY(QPointF recipePoint READ recipePoint NOTIFY resultChanged)
+    Q_PROPERTY(double curvePhMin READ curvePhMin NOTIFY resultChanged)
+    Q_PROPERTY(double curvePhMax READ curvePhMax NOTIFY resultChanged)
+    /// Highest β on the β curve in mmol/L per pH (axis range).
+    Q_PROPERTY(double betaMaxMmolPerL READ betaMaxMmolPerL NOTIFY resultChanged)
+    Q_PROPERTY(int curvePointCount READ curvePointCount NOTIFY resultChanged)
+
+public:
+    explicit BufferDesigner(QObject* parent = nullptr);
+    ~BufferDesigner() override;
+
+    Workspace* workspace() const { return workspace_; }
+    void setWorkspace(Workspace* w);
+    Plan* plan() const { return plan_; }
+    void setPlan(Plan* p);
+    QString lineLetter() const { return line_letter_; }
+    void setLineLetter(const QString& l);
+    QString autosaveKey() const { return autosave_key_; }
+    void setAutosaveKey(const QString& k);
+    /// Writes the autosave now (also done on destruction).
+    Q_INVOKABLE void flushAutosave();
+    // Created in QML: restore once every property is set (the plan restored first).
+    void classBegin() override { constructing_ = true; }
+    void componentComplete() override;
+
+    QString name() const { return name_; }
+    void setName(const QString& v);
+    QString route() const { return route_; }
+    void setRoute(const QString& v);
+    QString system() const { return system_; }
+    void setSystem(const QString& v);
+    QString acid() const { return acid_; }
+    void setAcid(const QString& v);
+    QString base() const { return base_; }
+    void setBase(const QString& v);
+    QString weigh() const { return weigh_; }
+    void setWeigh(const QString& v);
+    QString titrant() const { return titrant_; }
+    void setTitrant(const QString& v);
+    double titrantMolPerL() const { return titrant_mol_per_l_; }
+    void setTitrantMolPerL(double v);
+    double acidStockMolPerL() const { return acid_stock_mol_per_l_; }
+    void setAcidStockMolPerL(double v);
+    double baseStockMolPerL() const { return base_stock_mol_per_l_; }
+    void setBaseStockMolPerL(double v);
+    double targetPh() const { return target_ph_; }
+    void setTargetPh(double v);
+    double temperatureC() const { return temperature_c_; }
+    void setTemperatureC(double v);
+    double volumeMl() const { return volume_ml_; }
+    void setVolumeMl(double v);
+    QString strengthBasis() const { return strength_basis_; }
+    void setStrengthBasis(const QString& v);
+    double concentrationMmolPerL() const { return concentration_mmol_per_l_; }
+    void setConcentrationMmolPerL(double v);
+    double ionicStrengthMmolPerL() const { return ionic_strength_mmol_per_l_; }
+    void setIonicStrengthMmolPerL(double v);
+
+    QVariantList systemChoices() const { return system_choices_; }
+    QVariantList reagentChoices() const { return reagent_choices_; }
+    QVariantList titrantChoices() const { return titrant_choices_; }
+
+    bool valid() const { return error_.empty(); }
+    QVariantList items() const { return items_; }
+    double predictedPh() const { return predicted_ph_; }
+    double ionicStrengthResultMmolPerL() const { return ionic_strength_result_mmol_per_l_; }
+    double bufferCapacityMmolPerL() const { return buffer_capacity_mmol_per_l_; }
+    QStringList steps() const { return steps_; }
+    QStringList cautions() const { return cautions_; }
+    QVariantList warnings() const { return warnings_; }
+    QString errorField() const { return error_.field; }
+    QString errorMessage() const { return error_.message; }
+    double lastRecomputeMs() const { return last_recompute_ms_; }
+
+    QString curveXLabel() const { return curve_x_label_; }
+    double curveXMax() const { return curve_x_max_; }
+    QPointF recipePoint() const { return recipe_point_; }
+    double curvePhMin() const { return curve_ph_min_; }
+    double curvePhMax() const { return curve_ph_max_; }
+    double betaMaxMmolPerL() const { return beta_max_mmol_per_l_; }
+    int curvePointCount() const { return int(ph_curve_.size()); }
+    const QList<QPointF>& phCurve() const { return ph_curve_; }
+    const QList<QPointF>& betaCurve() const { return beta_curve_; }
+
+    /// The recipe document of the command-line contract for the current inputs.
+    QJsonObject requestDocument() const;
+    /// Same, for QML (saving, showing).
+    Q_INVOKABLE QVariantMap document() const { return requestDocument().toVariantMap(); }
+    /// Takes every input from a recipe document (unknown keys ignored), then recomputes.
+    Q_INVOKABLE void loadDocument(const QVariantMap& doc);
+    void loadJson(const QJsonObject& doc);
+    /// Saves the inputs as a named buffer (one transaction). Returns "" or the error message.
+    Q_INVOKABLE QString saveAs(const QString& name);
+    /// Fills a LineSeries with the pH curve, the β curve or the target line.
+    /// @param which "ph", "beta", "target".
+    Q_INVOKABLE void fillSeries(QObject* series, const QString& which) const;
+    /// Whether the error names this input ("target_ph", "acid", …); for the fields' inline messages.
+    Q_INVOKABLE bool errorIs(const QString& field) const { return error_.field == field; }
+    /// Recomputes now (inputs' setters do it themselves).
+    Q_INVOKABLE void recompute();
+
+signals:
+    void workspaceChanged();
+    void planChanged();
+    void lineLetterChanged();
+    void inputsChanged();
+    void choicesChanged();
+    void resultChanged();
+    /// An input changed by the user (not by loading): the plan and autosave listen.
+    void edited();
+
+private:
+    template <class T>
+    void set_input(T& member, const T& value);
+    void rebuild_choices();
+    void compute_curves(const QJsonObject& recipe);
+    void load_from_plan();
+    void restore_state();
+    void schedule_autosave();
+
+    QPointer<Workspace> workspace_;
+    QPointer<Plan> plan_;
+    QString line_letter_;
+    bool loading_ = false;
+    QString autosave_key_;
+    QTimer autosave_;
+    bool dirty_ = false;
+    bool restored_ = false;
+    bool constructing_ = false;
+    QJsonObject own_buffer_; ///< the designer's own buffer while it edits a line's
+
+    QString name_ = QStringLiteral("New buffer");
+    QString route_ = QStringLiteral("mix");
+    QString system_ = QStringLiteral("phosphate");
+    QString acid_ = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
+    QString base_ = QStringLiteral("disodium-hydrogen-phosphate-heptahydrate");
+    QString weigh_ = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
+    QString titrant_ = QStringLiteral("sodium-hydroxide");
+    double titrant_mol_per_l_ = 1.0;
+    double acid_stock_mol_per_l_ = 0.2;
+    double base_stock_mol_per_l_ = 0.2;
+    double target_ph_ = 7.0;
+    double temperature_c_ = 25.0;
+    double volume_ml_ = 1000.0;
+    QString strength_basis_ = QStringLiteral("concentration");
+    double concentration_mmol_per_l_ = 25.0;
+    double ionic_strength_mmol_per_l_ = 50.0;
+    QVariantMap extra_; ///< keys of a loaded document this model does not edit (kept on save)
+
+    QVariantList system_choices_, reagent_choices_, titrant_choices_;
+
+    FieldError error_;
+    QVariantList items_, warnings_;
+    QStringList steps_, cautions_;
+    double predicted_ph_ = 0, ionic_strength_result_mmol_per_l_ = 0, buffer_capacity_mmol_per_l_ = 0;
+    double last_recompute_ms_ = 0;
+    QString curve_x_label_;
+    double curve_x_max_ = 1;
+    QPointF recipe_point_;
+    double curve_ph_min_ = 0, curve_ph_max_ = 14, beta_max_mmol_per_l_ = 1;
+    QList<QPointF> ph_curve_, beta_curve_;
+};
+
+} // namespace phaseplan::gui

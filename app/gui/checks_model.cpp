@@ -1,0 +1,172 @@
+#include "checks_model.h"
+
+#include "buffer_designer.h"
+#include "lines_model.h"
+#include "plan.h"
+#include "workspace.h"
+
+#include <algorithm>
+#include <map>
+
+namespace phaseplan::gui {
+
+namespace {
+
+int severity_rank(const QString& s) {
+    if (s == QLatin1String("error")) return 0;
+    if (s == QLatin1String("warning")) return 1;
+    if (s == QLatin1String("caution")) return 2;
+    return 3;
+}
+
+} // namespace
+
+QString ChecksModel::adviceFor(const QString& code) {
+    // What to do at the bench. Advice only: the numbers are in the core's message beside it.
+    static const std::map<QString, const char*> advice = {
+        {"input", QT_TR_NOOP("Correct the field it names; nothing is planned until it is valid.")},
+        {"ph-outside-pka-range", QT_TR_NOOP("Choose a buffer system with a pKa within one unit of the target pH, "
+                                            "or accept weaker buffering and check the pH on the meter.")},
+        {"low-buffer-capacity", QT_TR_NOOP("Raise the buffer concentration, or choose a system whose pKa lies "
+                                           "closer to the target pH.")},
+        {"small-amount", QT_TR_NOOP("Make a larger volume, or prepare a stock solution and dilute it.")},
+        {"titrant-volume-large", QT_TR_NOOP("Use a more concentrated titrant so that the final volume is "
+                                            "reached with water.")},
+        {"ionic-strength-high", QT_TR_NOOP("Lower the concentration if the method allows; measure the pH of the "
+                                           "finished buffer with a calibrated meter.")},
+        {"uv-cutoff", QT_TR_NOOP("Set the detector to a longer wavelength, or change to a modifier or solvent "
+                                 "with a lower UV cutoff.")},
+        {"immiscible", QT_TR_NOOP("Do not let these liquids meet in one bottle or in the mixer; flush the "
+                                  "system with a solvent that mixes with both when changing between them.")},
+        {"precipitation", QT_TR_NOOP("Lower the salt concentration or the highest organic percentage the "
+                                     "gradient reaches; wash out salt with a low-organic mixture before a "
+                                     "high-organic flush.")},
+        {"ms-nonvolatile", QT_TR_NOOP("Use a volatile buffer or additive with this detector, or divert the "
+                                      "flow away from the source.")},
+        {"column-ph", QT_TR_NOOP("Bring the line's pH into the column's stated range, or use a column rated "
+                                 "for this pH.")},
+        {"shelf-life", QT_TR_NOOP("Prepare the buffer fresh closer to the start, or shorten the sequence.")},
+        {"runs-dry", QT_TR_NOOP("Fill at least the suggested bottle volume before the start, or split the "
+                                "sequence and plan a refill.")},
+        {"waste-overflow", QT_TR_NOOP("Empty the waste container before the start, or use a larger one.")},
+    };
+    auto it = advice.find(code);
+    if (it != advice.end()) return tr(it->second);
+    return tr("Read the message; if it is what you meant, nothing needs doing.");
+}
+
+ChecksModel::ChecksModel(QObject* parent) : QAbstractListModel(parent) {
+    // The three sources often change together (a buffer edit changes its line and the plan):
+    // gather once, on the next turn of the event loop.
+    rebuild_timer_.setSingleShot(true);
+    rebuild_timer_.setInterval(0);
+    connect(&rebuild_timer_, &QTimer::timeout, this, &ChecksModel::rebuild);
+}
+
+void ChecksModel::setPlan(Plan* p) {
+    if (p == plan_) return;
+    if (plan_) disconnect(plan_, nullptr, &rebuild_timer_, nullptr);
+    plan_ = p;
+    if (p) connect(p, &Plan::resultChanged, &rebuild_timer_, qOverload<>(&QTimer::start));
+    emit sourcesChanged();
+    rebuild();
+}
+
+void ChecksModel::setLines(LinesModel* l) {
+    if (l == lines_) return;
+    if (lines_) disconnect(lines_, nullptr, &rebuild_timer_, nullptr);
+    lines_ = l;
+    if (l) connect(l, &LinesModel::computed, &rebuild_timer_, qOverload<>(&QTimer::start));
+    emit sourcesChanged();
+    rebuild();
+}
+
+void ChecksModel::setDesigner(BufferDesigner* d) {
+    if (d == designer_) return;
+    if (designer_) disconnect(designer_, nullptr, &rebuild_timer_, nullptr);
+    designer_ = d;
+    if (d) connect(d, &BufferDesigner::resultChanged, &rebuild_timer_, qOverload<>(&QTimer::start));
+    emit sourcesChanged();
+    rebuild();
+}
+
+int ChecksModel::warningCount() const {
+    return int(std::count_if(entries_.begin(), entries_.end(), [](const Entry& e) {
+        return e.severity == QLatin1String("warning") || e.severity == QLatin1String("error");
+    }));
+}
+
+void ChecksModel::rebuild() {
+    std::vector<Entry> out;
+    auto add_list = [&](const QVariantList& list, const QString& source, const QString& screen) {
+        for (const QVariant& v : list) {
+            const QVariantMap w = v.toMap();
+            const QString code = w.value("code").toString();
+            QString src = source;
+            if (src.isEmpty()) {
+                const QString line = w.value("line").toString();
+                src = line.isEmpty() ? tr("Sequence") : tr("Line %1").arg(line);
+            }
+            out.push_back({w.value("severity").toString(), code, w.value("message").toString(), adviceFor(code),
+                           src, screen});
+        }
+    };
+    auto add_error = [&](const QString& field, const QString& message, const QString& source, const QString& screen) {
+        if (message.isEmpty()) return;
+        out.push_back({QStringLiteral("error"), QStringLiteral("input"),
+                       field.isEmpty() ? message : field + QStringLiteral(": ") + message, adviceFor("input"), source,
+                       screen});
+    };
+    if (designer_) {
+        const QString src = designer_->lineLetter().isEmpty() ? tr("Buffer")
+                                                              : tr("Buffer of line %1").arg(designer_->lineLetter());
+        add_error(designer_->errorField(), designer_->errorMessage(), src, "buffer");
+        add_list(designer_->warnings(), src, "buffer");
+    }
+    if (lines_) {
+        for (int r = 0; r < lines_->rowCount(); ++r) {
+            const QModelIndex i = lines_->index(r);
+            if (!lines_->data(i, LinesModel::DefinedRole).toBool()) continue;
+            const QString src = tr("Line %1").arg(lines_->data(i, LinesModel::LetterRole).toString());
+            add_error(lines_->data(i, LinesModel::ErrorFieldRole).toString(),
+                      lines_->data(i, LinesModel::ErrorMessageRole).toString(), src, "lines");
+            add_list(lines_->data(i, LinesModel::WarningsRole).toList(), src, "lines");
+        }
+    }
+    if (plan_) {
+        add_error(plan_->errorField(), plan_->errorMessage(), tr("Sequence"), "sequence");
+        add_list(plan_->warnings(), QString(), "sequence");
+    }
+    std::stable_sort(out.begin(), out.end(), [](const Entry& a, const Entry& b) {
+        return severity_rank(a.severity) < severity_rank(b.severity);
+    });
+    rebuild_timer_.stop();
+    if (out == entries_) return; // nothing new: the list on screen stays as it is
+    beginResetModel();
+    entries_ = std::move(out);
+    endResetModel();
+    emit countChanged();
+}
+
+int ChecksModel::rowCount(const QModelIndex& parent) const { return parent.isValid() ? 0 : int(entries_.size()); }
+
+QHash<int, QByteArray> ChecksModel::roleNames() const {
+    return {{SeverityRole, "severity"}, {CodeRole, "code"},     {MessageRole, "message"},
+            {AdviceRole, "advice"},     {SourceRole, "source"}, {ScreenRole, "screen"}};
+}
+
+QVariant ChecksModel::data(const QModelIndex& index, int role) const {
+    if (!index.isValid() || index.row() >= int(entries_.size())) return {};
+    const Entry& e = entries_[index.row()];
+    switch (role) {
+    case SeverityRole: return e.severity;
+    case CodeRole: return e.code;
+    case MessageRole: return e.message;
+    case AdviceRole: return e.advice;
+    case SourceRole: return e.source;
+    case ScreenRole: return e.screen;
+    }
+    return {};
+}
+
+} // namespace phaseplan::gui

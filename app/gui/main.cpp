@@ -1,0 +1,22 @@
+// phaseplan: the Qt Quick app for the prep bench.
+//   phaseplan [--database FILE] [--data DIR]      run the app (first run opens the demo)
+//   phaseplan --screenshot DIR                   render every main screen in both orientations
+//                                                to DIR/<screen>-<orientation>.png and exit;
+//                                                status 1 on any QML warning or error
+//   phaseplan --self-test                        the same without writing files
+//   phaseplan --measure                          print start-up and recompute+redraw times
+// --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
+#include "app_runner.h"
+
+#include <QApplication>
+#include <QtQml/qqmlextensionplugin.h>
+
+// The QML module is a static plugin linked into the binary (toolchain.md, quirk 3).
+Q_IMPORT_QML_PLUGIN(PhasePlanPlugin)
+
+int main(int argc, char** argv) {
+    phaseplan::gui::start_clock();
+    // Qt Charts in QML needs a QApplication (Qt Widgets), not a QGuiApplication.
+    QApplication app(argc, argv);
+    return phaseplan::gui::run_app(app);
+}

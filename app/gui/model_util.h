@@ -1,0 +1,53 @@
+#pragma once
+// Small helpers shared by the models: the one place chem::Error is caught on the GUI side, JSON
+// to QVariant for QML, and series filling for Qt Charts.
+#include "chem/error.h"
+
+#include <QElapsedTimer>
+#include <QJsonArray>
+#include <QJsonObject>
+#include <QPointF>
+#include <QString>
+#include <QVariant>
+
+#include <exception>
+#include <utility>
+
+class QObject;
+
+namespace phaseplan::gui {
+
+/// The error a model shows beside a field: `field` is the JSON path the core names
+/// ("target_ph", "lines.A.bottle_ml"), empty when there is none.
+struct FieldError {
+    QString field;
+    QString message;
+    bool operator==(const FieldError&) const = default;
+    bool empty() const { return field.isEmpty() && message.isEmpty(); }
+};
+
+/// Runs `f`; a chem::Error becomes a FieldError. Anything else is unexpected (chem/ throws only
+/// chem::Error) but still shown, never a crash.
+template <class F>
+FieldError guarded(F&& f) {
+    try {
+        std::forward<F>(f)();
+        return {};
+    } catch (const chem::Error& e) {
+        return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
+    } catch (const std::exception& e) {
+        return {QString(), QStringLiteral("internal error: ") + QString::fromUtf8(e.what())};
+    }
+}
+
+/// Milliseconds since `t` started, with sub-millisecond resolution.
+inline double elapsed_ms(const QElapsedTimer& t) { return t.nsecsElapsed() / 1e6; }
+
+/// Replaces the points of a Qt Charts XY series (a LineSeries or ScatterSeries from QML) in one
+/// call, so a redraw does not go point by point through JavaScript. Ignores anything else.
+void replace_series(QObject* series, const QList<QPointF>& points);
+
+/// "2026-12-01T18:00:00" → "Tue 18:00" style for the screens; the input when it does not parse.
+QString short_clock(const QString& iso);
+
+} // namespace phaseplan::gui

@@ -1,0 +1,212 @@
+#pragma once
+// The night's plan: one `sequence` document of the command-line contract (lines A–D, methods,
+// sequence rows, priming, start, waste, detector, column), its result from
+// phaseplan::command_sequence recomputed on every edit, and the bottle levels through the night.
+// LinesModel, GradientModel and SequenceRowsModel are views onto parts of this document; the
+// plan is autosaved (setting "current_plan") a moment after each edit, so closing or killing the
+// app loses at most that moment.
+#include "model_util.h"
+#include "workspace.h"
+
+#include <QJsonObject>
+#include <QObject>
+#include <QPointer>
+#include <QQmlEngine>
+#include <QTimer>
+#include <QVariantList>
+#include <QVariantMap>
+
+#include <map>
+
+// Complete types for the pointer properties, for moc only.
+Q_MOC_INCLUDE("workspace.h")
+
+namespace phaseplan::gui {
+
+class Workspace;
+
+class Plan : public QObject {
+    Q_OBJECT
+    QML_ELEMENT
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    /// Restore the autosaved plan (or the demo on first run) when the workspace is set.
+    Q_PROPERTY(bool restore READ restore WRITE setRestore NOTIFY workspaceChanged)
+    /// The name it is saved under.
+    Q_PROPERTY(QString name READ name WRITE setName NOTIFY documentChanged)
+    Q_PROPERTY(QVariantMap document READ documentMap NOTIFY documentChanged)
+    /// Letters of the defined lines, "A".."D".
+    Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY documentChanged)
+    Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY documentChanged)
+    /// Sequence start, ISO 8601 local time ("2026-12-01T18:00:00").
+    Q_PROPERTY(QString start READ start WRITE setStart NOTIFY documentChanged)
+    /// Free volume of the waste container in mL (0: not checked).
+    Q_PROPERTY(double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
+    /// "uv" or "ms".
+    Q_PROPERTY(QString detectorType READ detectorType WRITE setDetectorType NOTIFY documentChanged)
+    Q_PROPERTY(double detectorWavelengthNm READ detectorWavelengthNm WRITE setDetectorWavelengthNm NOTIFY documentChanged)
+    Q_PROPERTY(double columnPhMin READ columnPhMin WRITE setColumnPhMin NOTIFY documentChanged)
+    Q_PROPERTY(double columnPhMax READ columnPhMax WRITE setColumnPhMax NOTIFY documentChanged)
+
+    // ---- results ----------------------------------------------------------------------------
+    Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
+    Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
+    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
+    /// The result document of command_sequence (for anything not unpacked below).
+    Q_PROPERTY(QVariantMap result READ resultMap NOTIFY resultChanged)
+    Q_PROPERTY(QString endTime READ endTime NOTIFY resultChanged)
+    Q_PROPERTY(QString endText READ endText NOTIFY resultChanged)
+    Q_PROPERTY(double totalMin READ totalMin NOTIFY resultChanged)
+    Q_PROPERTY(int injections READ injections NOTIFY resultChanged)
+    Q_PROPERTY(double wasteMl READ wasteMl NOTIFY resultChanged)
+    /// [{letter, name, bottle_ml, residue_ml, required_ml, usable_ml, runs_dry, dry_after_injection,
+    ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}]
+    Q_PROPERTY(QVariantList bottles READ bottles NOTIFY resultChanged)
+    /// [{code, severity, message, …}] of the sequence checks.
+    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
+    /// Plot ranges of the bottle chart: hours from the start, mL.
+    Q_PROPERTY(double chartHours READ chartHours NOTIFY resultChanged)
+    Q_PROPERTY(double chartMaxMl READ chartMaxMl NOTIFY resultChanged)
+    Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY resultChanged)
+
+public:
+    explicit Plan(QObject* parent = nullptr);
+    ~Plan() override;
+
+    Workspace* workspace() const { return workspace_; }
+    void setWorkspace(Workspace* w);
+    bool restore() const { return restore_; }
+    void setRestore(bool r) { restore_ = r; }
+
+    QString name() const { return name_; }
+    void setName(const QString& n);
+    const QJsonObject& json() const { return doc_; }
+    QVariantMap documentMap() const { return doc_.toVariantMap(); }
+    QStringList lineLetters() const;
+    QStringList methodNames() const;
+    QString start() const;
+    void setStart(const QString& iso);
+    double wasteCapacityMl() const;
+    void setWasteCapacityMl(double ml);
+    QString detectorType() const;
+    void setDetectorType(const QString& t);
+    double detectorWavelengthNm() const;
+    void setDetectorWavelengthNm(double nm);
+    double columnPhMin() const;
+    void setColumnPhMin(double v);
+    double columnPhMax() const;
+    void setColumnPhMax(double v);
+
+    bool valid() const { return error_.empty(); }
+    QString errorField() const { return error_.field; }
+    QString errorMessage() const { return error_.message; }
+    QVariantMap resultMap() const { return result_.toVariantMap(); }
+    const QJsonObject& resultJson() const { return result_; }
+    QString endTime() const;
+    QString endText() const;
+    double totalMin() const;
+    int injections() const { return injections_; }
+    double wasteMl() const;
+    QVariantList bottles() const { return bottles_; }
+    QVariantList warnings() const { return warnings_; }
+    double chartHours() const { return chart_hours_; }
+    double chartMaxMl() const { return chart_max_ml_; }
+    double lastRecomputeMs() const { return last_recompute_ms_; }
+
+    // ---- editing (every call recomputes and schedules the autosave) ----------------------------
+    /// Replaces the whole document (a saved sequence, the demo).
+    Q_INVOKABLE void load(const QVariantMap& document, const QString& name);
+    void loadJson(const QJsonObject& document, const QString& name);
+    /// Opens a saved sequence by name; false when there is none.
+    Q_INVOKABLE bool loadSaved(const QString& name);
+    /// Saves the sequence with its methods, lines and their buffers in one transaction.
+    /// Returns "" or the error message.
+    Q_INVOKABLE QString saveAs(const QString& name);
+
+    QJsonObject line(const QString& letter) const;
+    Q_INVOKABLE QVariantMap lineDocument(const QString& letter) const { return line(letter).toVariantMap(); }
+    /// Replaces line `letter` (an empty document removes it).
+    void setLine(const QString& letter, const QJsonObject& line);
+    Q_INVOKABLE void setLineDocument(const QString& letter, const QVariantMap& line) {
+        setLine(letter, QJsonObject::fromVariantMap(line));
+    }
+    /// One field of a line ("bottle_ml", "residue_ml", "name").
+    Q_INVOKABLE void setLineField(const QString& letter, const QString& key, const QVariant& value);
+    Q_INVOKABLE double primeMl(const QString& letter) const;
+    Q_INVOKABLE void setPrimeMl(const QString& letter, double ml);
+    /// The recipe document of the line's first aqueous buffer part, empty when it has none.
+    QJsonObject lineBuffer(const QString& letter) const;
+    void setLineBuffer(const QString& letter, const QJsonObject& recipe);
+    /// The buffer part's share of the bottle in mL (bottle_ml × fraction_v), 0 when none.
+    double lineBufferVolumeMl(const QString& letter) const;
+
+    QJsonObject method(const QString& name) const;
+    Q_INVOKABLE QVariantMap methodDocument(const QString& name) const { return method(name).toVariantMap(); }
+    void setMethod(const QString& name, const QJsonObject& method);
+    /// Adds or replaces a method (a saved one taken into the plan).
+    Q_INVOKABLE void setMethodDocument(const QString& name, const QVariantMap& method) {
+        setMethod(name, QJsonObject::fromVariantMap(method));
+    }
+    /// Adds a method (a copy of `like`, or a plain one) under a fresh name; returns the name.
+    Q_INVOKABLE QString addMethod(const QString& like = {});
+    /// Removes the method when no sequence row uses it; returns "" or why not.
+    Q_INVOKABLE QString removeMethod(const QString& name);
+
+    QJsonArray rows() const;
+    void setRows(const QJsonArray& rows);
+
+    /// Fills a LineSeries with line `letter`'s bottle level (mL) against hours from the start.
+    Q_INVOKABLE void fillLevelSeries(QObject* series, const QString& letter) const;
+    /// The run-dry point of line `letter` (hours, residue mL), or no point when it lasts.
+    Q_INVOKABLE void fillDrySeries(QObject* series, const QString& letter) const;
+    /// The waste container's fill (mL) against hours.
+    Q_INVOKABLE void fillWasteSeries(QObject* series) const;
+    /// The hour of the sequence end (for a marker).
+    Q_INVOKABLE double endHours() const { return totalMin() / 60.0; }
+    /// Whether the error names this field or lies below it ("lines.A" matches "lines.A.bottle_ml").
+    Q_INVOKABLE bool errorUnder(const QString& prefix) const;
+
+    /// Moves the start by `minutes` (negative: earlier).
+    Q_INVOKABLE void shiftStart(int minutes);
+
+    /// Writes the autosave now (also done on destruction).
+    Q_INVOKABLE void flushAutosave();
+    /// Runs a pending recompute now. Edits recompute on the next turn of the event loop (several
+    /// edits in one turn cost one recompute, and the screen being edited draws first); tests and
+    /// callers that need the result at once call this.
+    Q_INVOKABLE void recomputeNow();
+    /// An edit is waiting for its recompute.
+    bool recomputePending() const { return recompute_timer_.isActive(); }
+
+signals:
+    void workspaceChanged();
+    void documentChanged();
+    /// The whole document was replaced: views reload what they show.
+    void documentReplaced();
+    void resultChanged();
+
+private:
+    void edited();
+    void recompute();
+    void compute_levels();
+    void restore_state();
+
+    QPointer<Workspace> workspace_;
+    bool restore_ = false;
+    QString name_;
+    QJsonObject doc_;
+    QTimer autosave_;
+    QTimer recompute_timer_;
+    bool dirty_ = false;
+
+    FieldError error_;
+    QJsonObject result_;
+    int injections_ = 0;
+    QVariantList bottles_, warnings_;
+    std::map<QString, QList<QPointF>> levels_; ///< letter → (hours, mL)
+    std::map<QString, QPointF> dry_points_;
+    QList<QPointF> waste_;
+    double chart_hours_ = 1, chart_max_ml_ = 1000;
+    double last_recompute_ms_ = 0;
+};
+
+} // namespace phaseplan::gui

@@ -1,0 +1,144 @@
+#include "workspace.h"
+
+#include "chem/error.h"
+#include "core/solvent_data.h"
+
+#include <QFile>
+#include <QFileInfo>
+#include <QJsonArray>
+#include <QJsonDocument>
+
+namespace phaseplan::gui {
+
+namespace {
+
+QByteArray read_all(const QString& path) {
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly)) return {};
+    return f.readAll();
+}
+
+} // namespace
+
+Workspace::Workspace(QObject* parent) : QObject(parent) {}
+Workspace::~Workspace() = default;
+
+void Workspace::setDatabasePath(const QString& p) {
+    if (p == database_path_) return;
+    database_path_ = p;
+    emit databasePathChanged();
+}
+
+void Workspace::setDataDir(const QString& d) {
+    if (d == data_dir_) return;
+    data_dir_ = d;
+    emit dataDirChanged();
+}
+
+void Workspace::componentComplete() {
+    if (!db_) open();
+}
+
+QString Workspace::demoName() { return QStringLiteral("Overnight demo"); }
+
+bool Workspace::open() {
+    if (db_) return true;
+    error_.clear();
+    try {
+        const QString dir = data_dir_.isEmpty() ? find_data_dir() : data_dir_;
+        data_ = load_app_data(dir); // validates the shipped files as they are
+        const QString path = database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
+        first_run_ = !QFileInfo::exists(path);
+        db_ = std::make_unique<storage::Database>(path);
+        for (const char* file : shipped_library_files) {
+            const QByteArray bytes = read_all(dir + "/" + file);
+            if (!bytes.isEmpty()) db_->sync_shipped_file(QString::fromLatin1(file), bytes);
+        }
+        reloadLibrary();
+        if (db_->setting(QStringLiteral("demo_seeded")).isNull()) seed_demo();
+    } catch (const chem::Error& e) {
+        error_ = QString::fromStdString(e.what());
+        db_.reset();
+        qWarning("PhasePlan: %s", qPrintable(error_));
+    }
+    emit readyChanged();
+    return db_ != nullptr;
+}
+
+void Workspace::reloadLibrary() {
+    if (!db_) return;
+    // The shipped library with the lab's entries in place of shipped ones of the same id: the
+    // same loader as data/reagents.json, so a lab entry is checked exactly like a shipped one.
+    // A lab entry that no longer loads (a shipped system it names was renamed, say) must not
+    // lock the lab out: the last good library stays and the problem is shown on the Library screen.
+    try {
+        chem::Library lib;
+        load_reagents_json(db_->merged_file(QStringLiteral("reagents.json")), "library reagents.json", lib);
+        chem::SolventLibrary solvents;
+        const QByteArray solvent_file = db_->merged_file(QStringLiteral("solvents.json"));
+        if (!db_->shipped_file(QStringLiteral("solvents.json")).isEmpty())
+            load_solvents_json(solvent_file, "library solvents.json", solvents);
+        else
+            solvents = data_.solvents;
+        data_.reagents = std::move(lib);
+        data_.solvents = std::move(solvents);
+        library_problem_.clear();
+    } catch (const chem::Error& e) {
+        library_problem_ = QString::fromStdString(e.what());
+    }
+    names_.clear();
+    for (const QString& kind : {QStringLiteral("solvents"), QStringLiteral("additives")})
+        for (const storage::LibraryEntry& e : db_->merged_entries(kind)) {
+            const QString n = e.document.value(QLatin1String("name")).toString();
+            if (!n.isEmpty()) names_[e.id] = n;
+        }
+    ++library_revision_;
+    emit libraryChanged();
+}
+
+std::vector<storage::LibraryEntry> Workspace::entries(const QString& kind) const {
+    if (!db_) return {};
+    return db_->merged_entries(kind);
+}
+
+QString Workspace::displayName(const QString& id) const {
+    if (const chem::Reagent* r = data_.reagents.find_reagent(id.toStdString()))
+        return QString::fromStdString(r->name);
+    auto it = names_.find(id);
+    return it != names_.end() ? it->second : id;
+}
+
+QJsonObject Workspace::demoDocument() const {
+    const QString dir = data_.data_dir.isEmpty() ? find_data_dir() : data_.data_dir;
+    const QByteArray bytes = read_all(dir + "/demo/overnight-sequence.json");
+    return QJsonDocument::fromJson(bytes).object();
+}
+
+void Workspace::seed_demo() {
+    const QJsonObject demo = demoDocument();
+    std::vector<storage::SavedDocument> docs;
+    if (!demo.isEmpty()) {
+        docs.push_back({storage::DocumentKind::sequence, demoName(), demo,
+                        QStringLiteral("an invented lab's overnight sequence, shipped with PhasePlan")});
+        const QJsonObject methods = demo.value(QLatin1String("methods")).toObject();
+        for (auto it = methods.begin(); it != methods.end(); ++it)
+            docs.push_back({storage::DocumentKind::method, it.key(), it.value().toObject(), {}});
+        const QJsonObject lines = demo.value(QLatin1String("lines")).toObject();
+        for (auto it = lines.begin(); it != lines.end(); ++it) {
+            const QJsonObject line = it.value().toObject();
+            const QString line_name = line.value(QLatin1String("name")).toString(it.key());
+            docs.push_back({storage::DocumentKind::line, line_name, line, {}});
+            const QJsonArray parts = line.value(QLatin1String("parts")).toArray();
+            for (const QJsonValue& p : parts) {
+                const QJsonObject buffer = p.toObject().value(QLatin1String("buffer")).toObject();
+                if (buffer.isEmpty()) continue;
+                const QString name = buffer.value(QLatin1String("name")).toString(line_name + " buffer");
+                docs.push_back({storage::DocumentKind::buffer, name, buffer, {}});
+            }
+        }
+    }
+    db_->save_all(docs);
+    db_->set_setting(QStringLiteral("demo_seeded"), true);
+}
+
+} // namespace phaseplan::gui

@@ -1,0 +1,104 @@
+#pragma once
+// The app's context for every model: the shipped data (data/), the lab's database, and the
+// library as the lab sees it (shipped entries overlaid with the lab's own). Models take a
+// Workspace as a property, so a test builds one on a temporary file and nothing is global.
+#include "core/app_data.h"
+#include "storage/database.h"
+
+#include <QJsonObject>
+#include <QObject>
+#include <QQmlEngine>
+#include <QQmlParserStatus>
+
+#include <map>
+#include <memory>
+
+namespace phaseplan::gui {
+
+class Workspace : public QObject, public QQmlParserStatus {
+    Q_OBJECT
+    QML_ELEMENT
+    Q_INTERFACES(QQmlParserStatus)
+    /// The SQLite file; empty means Database::default_path(). Set before open().
+    Q_PROPERTY(QString databasePath READ databasePath WRITE setDatabasePath NOTIFY databasePathChanged)
+    /// The data/ folder; empty means find_data_dir().
+    Q_PROPERTY(QString dataDir READ dataDir WRITE setDataDir NOTIFY dataDirChanged)
+    /// True once the data and the database are open.
+    Q_PROPERTY(bool ready READ ready NOTIFY readyChanged)
+    /// Why open() failed ("database: cannot open …"), empty when it did not.
+    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY readyChanged)
+    /// Bumped whenever the library changes (a lab entry saved or removed): models recompute.
+    Q_PROPERTY(int libraryRevision READ libraryRevision NOTIFY libraryChanged)
+    /// Why the lab's own library entries could not be used (the shipped library is in use), or "".
+    Q_PROPERTY(QString libraryProblem READ libraryProblem NOTIFY libraryChanged)
+    /// True when this open created the database (first run): the demo was seeded.
+    Q_PROPERTY(bool firstRun READ firstRun NOTIFY readyChanged)
+
+public:
+    explicit Workspace(QObject* parent = nullptr);
+    ~Workspace() override;
+
+    QString databasePath() const { return database_path_; }
+    void setDatabasePath(const QString& p);
+    QString dataDir() const { return data_dir_; }
+    void setDataDir(const QString& d);
+    bool ready() const { return db_ != nullptr; }
+    QString errorMessage() const { return error_; }
+    int libraryRevision() const { return library_revision_; }
+    bool firstRun() const { return first_run_; }
+    QString libraryProblem() const { return library_problem_; }
+
+    /// Loads data/, opens (creating, migrating) the database, syncs the shipped library files into
+    /// it, builds the merged library and seeds the demo on first run. False with errorMessage set
+    /// on failure. Called by componentComplete() when created in QML.
+    Q_INVOKABLE bool open();
+
+    /// The data every core command reads: the library includes the lab's own entries.
+    const AppData& data() const { return data_; }
+    /// Null until open() succeeded.
+    storage::Database* database() const { return db_.get(); }
+
+    /// Rebuilds the merged library after a lab entry changed; emits libraryChanged. When the merged
+    /// library does not load, keeps the last good one and sets libraryProblem.
+    void reloadLibrary();
+
+    /// Shipped entries of a data/ array ("solvents", "additives", …) overlaid with the lab's own.
+    std::vector<storage::LibraryEntry> entries(const QString& kind) const;
+    /// Display name of a reagent, solvent or additive id (the id itself when unknown).
+    Q_INVOKABLE QString displayName(const QString& id) const;
+    /// Tell the saved-work list that something was saved or removed.
+    void notifySaved() { emit savedChanged(); }
+
+    /// data/demo/overnight-sequence.json, empty when absent.
+    QJsonObject demoDocument() const;
+    /// The name the demo sequence is saved under.
+    static QString demoName();
+
+    void classBegin() override {}
+    void componentComplete() override;
+
+signals:
+    void databasePathChanged();
+    void dataDirChanged();
+    void readyChanged();
+    void libraryChanged();
+    void savedChanged();
+
+private:
+    void seed_demo();
+
+    QString database_path_;
+    QString data_dir_;
+    QString error_;
+    QString library_problem_;
+    AppData data_;
+    std::unique_ptr<storage::Database> db_;
+    std::map<QString, QString> names_; ///< solvent and additive names by id
+    int library_revision_ = 0;
+    bool first_run_ = false;
+};
+
+/// The shipped files whose entries go into the database (and may be overridden by the lab).
+inline constexpr const char* shipped_library_files[] = {"reagents.json", "solvents.json"};
+
+} // namespace phaseplan::gui

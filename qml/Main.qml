@@ -1,0 +1,193 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// The app window: the models shared by every screen, and the navigation (a rail at the side in
+// landscape, a bar at the bottom in portrait).
+ApplicationWindow {
+    id: window
+
+    /// The data, the database and the merged library (set by main.cpp).
+    required property Workspace workspace
+    /// Index into screenKeys of the screen shown.
+    property int currentScreen: 0
+    /// The screens, by key (the screenshot seam names its files after these).
+    readonly property var screenKeys: ["buffer", "lines", "sequence", "checks", "library", "saved"]
+    readonly property var screenNames: [qsTr("Buffer"), qsTr("Lines"), qsTr("Sequence"), qsTr("Checks"),
+                                        qsTr("Library"), qsTr("Saved")]
+    readonly property bool inPortrait: height > width
+
+    function show(key) {
+        var i = screenKeys.indexOf(key)
+        if (i >= 0)
+            currentScreen = i
+    }
+
+    width: 1280
+    height: 800
+    visible: true
+    title: qsTr("PhasePlan: %1").arg(plan.name)
+    color: Theme.window
+    font.pixelSize: Theme.fontSize
+
+    Plan {
+        id: plan
+        objectName: "plan"
+        restore: true
+        workspace: window.workspace
+    }
+    BufferDesigner {
+        id: designer
+        objectName: "designer"
+        workspace: window.workspace
+        plan: plan
+        autosaveKey: "current_buffer"
+    }
+    LinesModel {
+        id: linesModel
+        objectName: "lines"
+        plan: plan
+    }
+    ChecksModel {
+        id: checksModel
+        objectName: "checks"
+        plan: plan
+        lines: linesModel
+        designer: designer
+    }
+
+    onClosing: {
+        plan.flushAutosave()
+        designer.flushAutosave()
+    }
+
+    header: ToolBar {
+        implicitHeight: Theme.tap + Theme.gap
+        RowLayout {
+            anchors.fill: parent
+            anchors.leftMargin: Theme.margin
+            anchors.rightMargin: Theme.margin
+            spacing: Theme.margin
+            Label {
+                text: "PhasePlan"
+                font.pixelSize: Theme.largeFont
+                font.bold: true
+            }
+            Label {
+                Layout.fillWidth: true
+                text: plan.name + (plan.valid && plan.endText.length > 0 ? qsTr(" · ends %1").arg(plan.endText) : "")
+                elide: Text.ElideRight
+                font.pixelSize: Theme.fontSize
+            }
+            Button {
+                objectName: "checksBadge"
+                implicitHeight: Theme.tap
+                font.pixelSize: Theme.fontSize
+                text: checksModel.warningCount > 0 ? qsTr("⚠ %n to fix", "", checksModel.warningCount)
+                                                   : qsTr("✓ no warnings")
+                palette.buttonText: checksModel.warningCount > 0 ? Theme.bad : Theme.good
+                onClicked: window.show("checks")
+            }
+        }
+    }
+
+    GridLayout {
+        anchors.fill: parent
+        columns: window.inPortrait ? 1 : 2
+        rowSpacing: 0
+        columnSpacing: 0
+
+        // Navigation rail (landscape).
+        Pane {
+            visible: !window.inPortrait
+            Layout.fillHeight: true
+            Layout.preferredWidth: Theme.tap * 3.2
+            padding: Theme.gap
+            background: Rectangle { color: Theme.card; border.color: Theme.line }
+            ColumnLayout {
+                anchors.fill: parent
+                spacing: Theme.gap
+                Repeater {
+                    model: window.screenNames
+                    delegate: NavButton {
+                        required property string modelData
+                        required property int index
+                        Layout.fillWidth: true
+                        text: modelData
+                        badge: index === 3 ? checksModel.warningCount : 0
+                        current: window.currentScreen === index
+                        onClicked: window.currentScreen = index
+                    }
+                }
+                Item { Layout.fillHeight: true }
+            }
+        }
+
+        StackLayout {
+            id: stack
+            Layout.fillWidth: true
+            Layout.fillHeight: true
+            currentIndex: window.currentScreen
+
+            BufferScreen {
+                designer: designer
+                plan: plan
+                inPortrait: window.inPortrait
+            }
+            LinesScreen {
+                lines: linesModel
+                plan: plan
+                inPortrait: window.inPortrait
+                onEditBuffer: function(letter) {
+                    designer.lineLetter = letter
+                    window.show("buffer")
+                }
+            }
+            SequenceScreen {
+                plan: plan
+                inPortrait: window.inPortrait
+            }
+            ChecksScreen {
+                checks: checksModel
+                inPortrait: window.inPortrait
+                onOpen: function(screen) { window.show(screen) }
+            }
+            LibraryScreen {
+                workspace: window.workspace
+                inPortrait: window.inPortrait
+            }
+            SavedScreen {
+                workspace: window.workspace
+                plan: plan
+                designer: designer
+                inPortrait: window.inPortrait
+                onOpen: function(screen) { window.show(screen) }
+            }
+        }
+
+        // Navigation bar (portrait).
+        Pane {
+            visible: window.inPortrait
+            Layout.fillWidth: true
+            padding: Math.round(Theme.gap / 2)
+            background: Rectangle { color: Theme.card; border.color: Theme.line }
+            RowLayout {
+                anchors.fill: parent
+                spacing: Math.round(Theme.gap / 2)
+                Repeater {
+                    model: window.screenNames
+                    delegate: NavButton {
+                        required property string modelData
+                        required property int index
+                        Layout.fillWidth: true
+                        text: modelData
+                        badge: index === 3 ? checksModel.warningCount : 0
+                        current: window.currentScreen === index
+                        onClicked: window.currentScreen = index
+                    }
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,91 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// The buffer designer: what the method asks for on the left (route, system, target pH, strength,
+// volume, temperature), what to weigh or pipette on the right, recomputed on every touch.
+ScreenPage {
+    id: root
+
+    /// The designer model (BufferDesigner); every number shown comes from it.
+    required property BufferDesigner designer
+    /// The plan, for the "which buffer" picker.
+    property Plan plan
+
+    title: qsTr("Buffer designer")
+
+    GridLayout {
+        width: root.contentWidth
+        columns: root.inPortrait ? 1 : 2
+        columnSpacing: Theme.margin
+        rowSpacing: Theme.margin
+
+        ColumnLayout {
+            Layout.fillWidth: true
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.42
+            Layout.alignment: Qt.AlignTop
+            spacing: Theme.margin
+
+            BufferInputs {
+                Layout.fillWidth: true
+                designer: root.designer
+                plan: root.plan
+            }
+        }
+
+        ColumnLayout {
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.58
+            Layout.fillWidth: true
+            Layout.alignment: Qt.AlignTop
+            spacing: Theme.margin
+
+            RecipeCard {
+                Layout.fillWidth: true
+                designer: root.designer
+            }
+            BufferChart {
+                Layout.fillWidth: true
+                designer: root.designer
+                inPortrait: root.inPortrait
+            }
+            Card {
+                Layout.fillWidth: true
+                title: qsTr("Steps")
+                visible: root.designer.valid
+                Column {
+                    id: stepList
+                    Layout.fillWidth: true
+                    spacing: Theme.gap
+                    Repeater {
+                        model: root.designer.steps
+                        delegate: Label {
+                            required property string modelData
+                            required property int index
+                            width: stepList.width
+                            text: (index + 1) + ". " + modelData
+                            wrapMode: Text.Wrap
+                            font.pixelSize: Theme.fontSize
+                        }
+                    }
+                }
+            }
+            Card {
+                Layout.fillWidth: true
+                title: qsTr("Safety")
+                visible: root.designer.valid && root.designer.cautions.length > 0
+                BulletList {
+                    Layout.fillWidth: true
+                    items: root.designer.cautions
+                }
+                Label {
+                    Layout.fillWidth: true
+                    wrapMode: Text.Wrap
+                    color: Theme.dimText
+                    font.pixelSize: Theme.smallFont
+                    text: qsTr("Read the safety data sheet of each product before use; local rules and licensed practice come first.")
+                }
+            }
+        }
+    }
+}

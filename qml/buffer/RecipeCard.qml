@@ -1,0 +1,114 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// What to weigh or pipette, the pH the core predicts for the solution as made, its ionic
+// strength and buffer capacity, and the recipe's warnings. An input the core refuses shows here
+// too, with the field it names.
+Card {
+    id: root
+
+    required property BufferDesigner designer
+
+    title: qsTr("Recipe")
+    note: root.designer.valid ? qsTr("for %1 mL").arg(Number(root.designer.volumeMl).toLocaleString(Qt.locale(), "f", 0)) : ""
+
+    Label {
+        objectName: "recipeError"
+        Layout.fillWidth: true
+        visible: !root.designer.valid
+        text: root.designer.errorField.length > 0
+              ? qsTr("%1: %2").arg(root.designer.errorField).arg(root.designer.errorMessage)
+              : root.designer.errorMessage
+        color: Theme.bad
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.fontSize
+    }
+
+    Column {
+        id: itemList
+        Layout.fillWidth: true
+        spacing: Theme.gap
+        Repeater {
+            objectName: "recipeItems"
+            model: root.designer.items
+            delegate: RowLayout {
+                required property var modelData
+                width: itemList.width
+                spacing: Theme.gap
+                ColumnLayout {
+                    Layout.fillWidth: true
+                    spacing: 0
+                    Label {
+                        Layout.fillWidth: true
+                        text: modelData.name
+                        font.pixelSize: Theme.fontSize
+                        wrapMode: Text.Wrap
+                    }
+                    Label {
+                        Layout.fillWidth: true
+                        text: modelData.as
+                        color: Theme.dimText
+                        font.pixelSize: Theme.smallFont
+                    }
+                }
+                Label {
+                    objectName: "amount"
+                    text: modelData.amount
+                    font.pixelSize: Theme.largeFont
+                    font.bold: true
+                    horizontalAlignment: Text.AlignRight
+                }
+            }
+        }
+    }
+
+    RowLayout {
+        Layout.fillWidth: true
+        visible: root.designer.valid
+        spacing: Theme.margin
+        ColumnLayout {
+            spacing: 0
+            Label { text: qsTr("Predicted pH"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+            Label {
+                objectName: "predictedPh"
+                text: Number(root.designer.predictedPh).toLocaleString(Qt.locale(), "f", 2)
+                font.pixelSize: Theme.hugeFont
+                font.bold: true
+            }
+        }
+        ColumnLayout {
+            spacing: 0
+            Label { text: qsTr("Ionic strength"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+            Label {
+                text: qsTr("%1 mmol/L").arg(Number(root.designer.ionicStrengthResultMmolPerL).toLocaleString(Qt.locale(), "f", 1))
+                font.pixelSize: Theme.largeFont
+            }
+        }
+        ColumnLayout {
+            spacing: 0
+            Label { text: qsTr("Buffer capacity β"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+            Label {
+                text: qsTr("%1 mmol/L/pH").arg(Number(root.designer.bufferCapacityMmolPerL).toLocaleString(Qt.locale(), "f", 2))
+                font.pixelSize: Theme.largeFont
+            }
+        }
+        Item { Layout.fillWidth: true }
+    }
+
+    Column {
+        id: warningList
+        Layout.fillWidth: true
+        spacing: Theme.gap
+        Repeater {
+            model: root.designer.warnings
+            delegate: WarningRow {
+                required property var modelData
+                width: warningList.width
+                severity: modelData.severity
+                message: modelData.message
+            }
+        }
+    }
+}

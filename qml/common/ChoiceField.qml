@@ -1,0 +1,67 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+
+// A labelled picker over a list of {id, name} entries (from a model), with its error beneath.
+ColumnLayout {
+    id: root
+
+    property string label
+    /// [{id, name}] as the models give them.
+    property var choices: []
+    /// The id shown as chosen.
+    property string current
+    property string error
+    readonly property alias box: combo
+
+    /// The user picked an id.
+    signal picked(string id)
+
+    spacing: Math.round(Theme.gap / 2)
+
+    function indexOfId(id) {
+        for (var i = 0; i < root.choices.length; ++i)
+            if (root.choices[i].id === id)
+                return i
+        return -1
+    }
+
+    Label {
+        text: root.label
+        visible: root.label.length > 0
+        font.pixelSize: Theme.smallFont
+        color: Theme.dimText
+        Layout.fillWidth: true
+        elide: Text.ElideRight
+    }
+    ComboBox {
+        id: combo
+        Layout.fillWidth: true
+        Layout.preferredHeight: Theme.tap
+        font.pixelSize: Theme.fontSize
+        model: root.choices
+        textRole: "name"
+        valueRole: "id"
+        currentIndex: root.indexOfId(root.current)
+        displayText: currentIndex < 0 ? (root.current.length > 0 ? root.current : qsTr("(choose)")) : currentText
+        Accessible.name: root.label
+        delegate: ItemDelegate {
+            required property var modelData
+            required property int index
+            width: combo.width
+            height: Theme.tap
+            text: modelData.name
+            font.pixelSize: Theme.fontSize
+            highlighted: combo.highlightedIndex === index
+        }
+        onActivated: function(index) { root.picked(root.choices[index].id) }
+    }
+    Label {
+        Layout.fillWidth: true
+        visible: root.error.length > 0
+        text: root.error
+        color: Theme.bad
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.smallFont
+    }
+}

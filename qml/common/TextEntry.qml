@@ -1,0 +1,56 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+
+// A labelled line of text (a name, a label, a citation) with its error beneath.
+ColumnLayout {
+    id: root
+
+    property string label
+    property string value
+    property string placeholder
+    property string error
+    property int hints: Qt.ImhNone
+    property alias field: input
+
+    /// The text changed by typing.
+    signal edited(string text)
+
+    spacing: Math.round(Theme.gap / 2)
+
+    Label {
+        text: root.label
+        visible: root.label.length > 0
+        font.pixelSize: Theme.smallFont
+        color: Theme.dimText
+        Layout.fillWidth: true
+        elide: Text.ElideRight
+    }
+    TextField {
+        id: input
+        Layout.fillWidth: true
+        Layout.preferredHeight: Theme.tap
+        font.pixelSize: Theme.fontSize
+        text: root.value
+        placeholderText: root.placeholder
+        inputMethodHints: root.hints
+        selectByMouse: true
+        Accessible.name: root.label
+        onTextEdited: root.edited(text)
+        Connections {
+            target: root
+            function onValueChanged() {
+                if (!input.activeFocus)
+                    input.text = root.value
+            }
+        }
+    }
+    Label {
+        Layout.fillWidth: true
+        visible: root.error.length > 0
+        text: root.error
+        color: Theme.bad
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.smallFont
+    }
+}

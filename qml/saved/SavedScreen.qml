@@ -1,0 +1,186 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// Saved work: save tonight's plan or the current buffer under a name, and find and open last
+// week's in two touches.
+ScreenPage {
+    id: root
+
+    required property Workspace workspace
+    required property Plan plan
+    required property BufferDesigner designer
+    /// Opens a screen after opening a saved document.
+    signal open(string screen)
+
+    title: qsTr("Saved work")
+
+    SavedWorkModel {
+        id: saved
+        workspace: root.workspace
+    }
+
+    GridLayout {
+        width: root.contentWidth
+        columns: root.inPortrait ? 1 : 2
+        columnSpacing: Theme.margin
+        rowSpacing: Theme.margin
+
+        Card {
+            id: saveCard
+            Layout.fillWidth: true
+            Layout.alignment: Qt.AlignTop
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.4
+            title: qsTr("Save")
+            property string status
+
+            TextEntry {
+                id: planName
+                Layout.fillWidth: true
+                label: qsTr("Plan name")
+                value: root.plan.name
+            }
+            TouchButton {
+                text: qsTr("Save plan with its lines and methods")
+                highlighted: true
+                onClicked: {
+                    var e = root.plan.saveAs(planName.field.text)
+                    saveCard.status = e.length === 0 ? qsTr("Plan saved.") : e
+                }
+            }
+            TextEntry {
+                id: bufferName
+                Layout.fillWidth: true
+                label: qsTr("Buffer name")
+                value: root.designer.name
+                placeholder: qsTr("e.g. phosphate pH 2.5, 20 mM")
+            }
+            TouchButton {
+                text: qsTr("Save buffer")
+                onClicked: {
+                    var e = root.designer.saveAs(bufferName.field.text)
+                    saveCard.status = e.length === 0 ? qsTr("Buffer saved.") : e
+                }
+            }
+            Label {
+                Layout.fillWidth: true
+                visible: saveCard.status.length > 0
+                text: saveCard.status
+                wrapMode: Text.Wrap
+                font.pixelSize: Theme.fontSize
+            }
+            Label {
+                Layout.fillWidth: true
+                wrapMode: Text.Wrap
+                color: Theme.dimText
+                font.pixelSize: Theme.smallFont
+                text: qsTr("Your edits are kept as you go; saving under a name keeps a copy you can find again.")
+            }
+        }
+
+        Card {
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.6
+            Layout.fillWidth: true
+            Layout.alignment: Qt.AlignTop
+            title: qsTr("Open")
+            note: qsTr("%n saved", "", saved.count)
+
+            TextEntry {
+                Layout.fillWidth: true
+                placeholder: qsTr("Search saved work")
+                hints: Qt.ImhNoPredictiveText
+                onEdited: function(text) { saved.search = text }
+            }
+            SegmentedChoice {
+                Layout.fillWidth: true
+                options: [{ id: "all", name: qsTr("All") }, { id: "sequence", name: qsTr("Plans") },
+                          { id: "buffer", name: qsTr("Buffers") }, { id: "line", name: qsTr("Lines") },
+                          { id: "method", name: qsTr("Methods") }]
+                current: saved.kind
+                onPicked: function(id) { saved.kind = id }
+            }
+            Column {
+                id: entryList
+                Layout.fillWidth: true
+                spacing: Theme.gap
+                Repeater {
+                    model: saved
+                    delegate: RowLayout {
+                        id: entry
+                        required property string kind
+                        required property string name
+                        required property string summary
+                        required property string updated
+                        width: entryList.width
+                        spacing: Theme.gap
+                        ColumnLayout {
+                            Layout.fillWidth: true
+                            spacing: 0
+                            Label {
+                                Layout.fillWidth: true
+                                text: entry.name
+                                font.pixelSize: Theme.fontSize
+                                elide: Text.ElideRight
+                            }
+                            Label {
+                                Layout.fillWidth: true
+                                text: entry.kind + " · " + entry.summary + " · " + entry.updated
+                                color: Theme.dimText
+                                font.pixelSize: Theme.smallFont
+                                elide: Text.ElideRight
+                            }
+                        }
+                        TouchButton {
+                            text: qsTr("Open")
+                            visible: entry.kind === "sequence" || entry.kind === "buffer"
+                            onClicked: {
+                                if (entry.kind === "sequence") {
+                                    root.plan.loadSaved(entry.name)
+                                    root.open("sequence")
+                                } else {
+                                    root.designer.lineLetter = ""
+                                    root.designer.loadDocument(saved.load(entry.kind, entry.name))
+                                    root.open("buffer")
+                                }
+                            }
+                        }
+                        TouchButton {
+                            text: qsTr("Add to plan")
+                            visible: entry.kind === "method"
+                            onClicked: {
+                                root.plan.setMethodDocument(entry.name, saved.load(entry.kind, entry.name))
+                                root.open("sequence")
+                            }
+                        }
+                        // A saved line goes onto the line the user picks.
+                        Repeater {
+                            model: entry.kind === "line" ? ["A", "B", "C", "D"] : []
+                            delegate: TouchButton {
+                                required property string modelData
+                                text: modelData
+                                Accessible.name: qsTr("Put %1 on line %2").arg(entry.name).arg(modelData)
+                                onClicked: {
+                                    root.plan.setLineDocument(modelData, saved.load(entry.kind, entry.name))
+                                    root.open("lines")
+                                }
+                            }
+                        }
+                        // Two touches to delete: the first arms, the second deletes.
+                        TouchButton {
+                            property bool armed: false
+                            text: armed ? qsTr("Delete?") : "✕"
+                            palette.buttonText: armed ? Theme.bad : Theme.text
+                            Accessible.name: qsTr("Delete %1").arg(entry.name)
+                            onClicked: {
+                                if (armed)
+                                    saved.remove(entry.kind, entry.name)
+                                armed = !armed
+                            }
+                        }
+                    }
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,62 @@
+import QtQuick
+import QtQuick.Layouts
+import QtCharts
+import PhasePlan
+
+// The gradient table as the pump runs it: % of each line against time over one injection.
+ChartView {
+    id: root
+
+    required property GradientModel gradient
+
+    Layout.preferredHeight: Theme.tap * 5
+    antialiasing: true
+    backgroundColor: Theme.card
+    plotAreaColor: Theme.card
+    legend.labelColor: Theme.text
+    legend.font.pixelSize: Theme.smallFont
+    legend.alignment: Qt.AlignBottom
+    margins { left: 0; right: 0; top: 0; bottom: 0 }
+
+    function refill() {
+        var letters = root.gradient.letters
+        for (var i = 0; i < 4; ++i) {
+            var s = [sa, sb, sc, sd][i]
+            s.visible = i < letters.length
+            s.name = i < letters.length ? qsTr("Line %1").arg(letters[i]) : ""
+            root.gradient.fillSeries(s, i < letters.length ? letters[i] : "")
+        }
+    }
+    Connections {
+        target: root.gradient
+        function onMethodChanged() { if (root.visible) root.refill() }
+    }
+    onVisibleChanged: if (visible) refill()
+    Component.onCompleted: refill()
+
+    ValueAxis {
+        id: tx
+        min: 0
+        max: Math.max(1, root.gradient.runMin + root.gradient.equilibrationMin)
+        labelsColor: Theme.text
+        gridLineColor: Theme.line
+        labelsFont.pixelSize: Theme.smallFont
+        titleText: qsTr("min")
+        titleBrush: Theme.text
+        labelFormat: "%.0f"
+    }
+    ValueAxis {
+        id: py
+        min: 0
+        max: 100
+        labelsColor: Theme.text
+        gridLineColor: Theme.line
+        labelsFont.pixelSize: Theme.smallFont
+        labelFormat: "%.0f"
+        tickCount: 5
+    }
+    LineSeries { id: sa; axisX: tx; axisY: py; color: Theme.lineColours[0]; width: 3 }
+    LineSeries { id: sb; axisX: tx; axisY: py; color: Theme.lineColours[1]; width: 3 }
+    LineSeries { id: sc; axisX: tx; axisY: py; color: Theme.lineColours[2]; width: 3 }
+    LineSeries { id: sd; axisX: tx; axisY: py; color: Theme.lineColours[3]; width: 3 }
+}

@@ -1,0 +1,100 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// The instrument and the night: start time, waste container, detector, column pH range.
+Card {
+    id: root
+
+    required property Plan plan
+
+    function errorFor(field) {
+        return root.plan.errorField === field || root.plan.errorField.indexOf(field + ".") === 0 ? root.plan.errorMessage : ""
+    }
+
+    title: qsTr("Instrument and night")
+
+    RowLayout {
+        Layout.fillWidth: true
+        spacing: Theme.gap
+        TextEntry {
+            objectName: "startField"
+            Layout.fillWidth: true
+            label: qsTr("Start (date and time)")
+            value: root.plan.start
+            placeholder: "2026-12-01T18:00:00"
+            hints: Qt.ImhDate | Qt.ImhTime | Qt.ImhNoPredictiveText
+            error: root.errorFor("start")
+            onEdited: function(text) { root.plan.start = text.trim() }
+        }
+        TouchButton {
+            Layout.alignment: Qt.AlignBottom
+            text: qsTr("−15 min")
+            onClicked: root.plan.shiftStart(-15)
+        }
+        TouchButton {
+            Layout.alignment: Qt.AlignBottom
+            text: qsTr("+15 min")
+            onClicked: root.plan.shiftStart(15)
+        }
+    }
+    NumberField {
+        Layout.fillWidth: true
+        label: qsTr("Free volume in the waste container")
+        unit: "mL"
+        value: root.plan.wasteCapacityMl
+        step: 500
+        decimals: 0
+        from: 0
+        error: root.errorFor("waste_ml")
+        onEdited: function(v) { root.plan.wasteCapacityMl = v }
+    }
+    SegmentedChoice {
+        Layout.fillWidth: true
+        label: qsTr("Detector")
+        options: [{ id: "uv", name: "UV" }, { id: "dad", name: "DAD" }, { id: "ms", name: "MS" },
+                  { id: "uv-ms", name: "UV + MS" }, { id: "elsd", name: "ELSD" }]
+        current: root.plan.detectorType
+        onPicked: function(id) { root.plan.detectorType = id }
+    }
+    NumberField {
+        Layout.fillWidth: true
+        visible: root.plan.detectorType === "uv" || root.plan.detectorType === "dad" || root.plan.detectorType === "uv-ms"
+        label: qsTr("Detection wavelength")
+        unit: "nm"
+        value: root.plan.detectorWavelengthNm
+        step: 5
+        decimals: 0
+        from: 0
+        error: root.errorFor("detector")
+        onEdited: function(v) { root.plan.detectorWavelengthNm = v }
+    }
+    GridLayout {
+        Layout.fillWidth: true
+        columns: Theme.columnsFor(width, 2)
+        columnSpacing: Theme.gap
+        NumberField {
+            Layout.fillWidth: true
+            label: qsTr("Column pH, lowest")
+            value: root.plan.columnPhMin
+            step: 0.5
+            decimals: 1
+            from: 0
+            to: 14
+            error: root.errorFor("column.ph_min")
+            onEdited: function(v) { root.plan.columnPhMin = v }
+        }
+        NumberField {
+            Layout.fillWidth: true
+            label: qsTr("Column pH, highest")
+            value: root.plan.columnPhMax
+            step: 0.5
+            decimals: 1
+            from: 0
+            to: 14
+            error: root.errorFor("column.ph_max")
+            onEdited: function(v) { root.plan.columnPhMax = v }
+        }
+    }
+}
