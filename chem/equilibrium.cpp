@@ -195,6 +195,17 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
             throw Error(field + ".mol_per_l", format_number(c.mol_per_l) + " mol/L is above " +
                                                   format_number(max_concentration_mol_per_l) +
                                                   " mol/L, beyond any solution this tool models");
+        // The limit holds for the reagent's total too: the same reagent listed twice (or 2000
+        // times) is one amount, and 50 mol/L of it would pass unnoticed entry by entry.
+        double reagent_total = 0;
+        for (size_t j = 0; j <= k; ++j)
+            if (components[j].reagent == c.reagent) reagent_total += components[j].mol_per_l;
+        if (reagent_total > max_concentration_mol_per_l * (1 + 1e-12))
+            throw Error(field + ".mol_per_l", "brings " + c.reagent->id + " to " +
+                                                  format_number(reagent_total) +
+                                                  " mol/L in all, above " +
+                                                  format_number(max_concentration_mol_per_l) +
+                                                  " mol/L, beyond any solution this tool models");
         Problem::Feed feed;
         for (const auto& share : c.reagent->systems) {
             const auto& def = lib.system(share.system, field + ".reagent");

@@ -103,7 +103,7 @@ void validate_common(const RecipeRequest& req) {
     if (req.ionic_strength_mol_per_l) check_amount("ionic_strength_mol_per_l", *req.ionic_strength_mol_per_l);
     for (const auto& [id, p] : req.purity_overrides)
         if (!std::isfinite(p) || p <= 0 || p > 1)
-            throw Error("purity." + id, format_number(p * 100) + " % is outside 0 to 100 %");
+            throw Error("purity_percent." + id, format_number(p * 100) + " % is outside 0 to 100 %");
 }
 
 /// Two-component problem whose amounts vary: component 0 and 1.
@@ -414,6 +414,13 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         if (d.c_titrant > 0) recipe.composition.push_back({&titrant, d.c_titrant});
         break;
     }
+    }
+
+    // A purity for a reagent the recipe does not use would be ignored without a word.
+    for (const auto& override_entry : req.purity_overrides) {
+        const std::string& id = override_entry.first;
+        if (std::none_of(used.begin(), used.end(), [&](const Reagent* r) { return r->id == id; }))
+            throw Error("purity_percent." + id, "\"" + id + "\" is not a reagent of this recipe");
     }
 
     recipe.predicted = solve(lib, recipe.composition, req.temperature_c);

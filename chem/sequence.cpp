@@ -14,7 +14,8 @@ constexpr double percent_sum_tolerance = 0.01; // each gradient row sums to 100 
 constexpr double max_flow_ml_min = 100.0;      // above any analytical pump
 constexpr double max_minutes = 1.0e5;          // about 70 days
 constexpr double max_volume_ml = 1.0e6;        // 1000 L
-constexpr int max_injections = 1000000;
+constexpr int max_injections = 1000000;        // per row and in the whole sequence
+constexpr double max_sequence_minutes = 1.0e6; // about 694 days: keeps clock times in range
 
 std::string letter_key(int i) {
     return std::string(1, line_letter(i));
@@ -260,6 +261,10 @@ SequencePlan plan_sequence(const SequenceInput& in) {
     if (in.rows.empty())
         throw Error("sequence", "needs at least one row");
     std::vector<int> row_method(in.rows.size());
+    // Totals over the rows, in wide types: 2500 rows of 10^6 injections would overflow an int
+    // and run for millennia, far past any clock time the plan can print.
+    long long total_injections = 0;
+    double total_minutes = 0;
     for (std::size_t i = 0; i < in.rows.size(); ++i) {
         const std::string at = "sequence[" + std::to_string(i) + "]";
         const auto it = method_index.find(in.rows[i].method);
@@ -275,6 +280,17 @@ SequencePlan plan_sequence(const SequenceInput& in) {
             throw Error(at + ".injections", std::to_string(in.rows[i].injections) +
                                                 " is outside 1 to " +
                                                 std::to_string(max_injections));
+        total_injections += in.rows[i].injections;
+        total_minutes += in.rows[i].injections * in.methods[it->second].injection_min();
+        if (total_injections > max_injections)
+            throw Error(at + ".injections",
+                        "brings the sequence to " + std::to_string(total_injections) +
+                            " injections, above the limit of " + std::to_string(max_injections));
+        if (total_minutes > max_sequence_minutes)
+            throw Error(at + ".injections", "brings the sequence to " +
+                                                format_number(total_minutes) +
+                                                " min, above the limit of " +
+                                                format_number(max_sequence_minutes) + " min");
     }
     if (in.standby) {
         require_positive(in.standby->flow_ml_min, max_flow_ml_min, "standby.flow_ml_min", "mL/min");

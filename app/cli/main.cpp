@@ -60,13 +60,34 @@ int usage(std::FILE* to) {
     return to == stdout ? 0 : 2;
 }
 
+/// The error line: control characters from the input (a "\n" inside a quoted id) are escaped so
+/// that the message stays on one line, as the contract promises.
 void fail(const std::string& line) {
-    std::cerr << "phaseplan-cli: " << line << std::endl;
+    std::string one_line;
+    for (unsigned char ch : line) {
+        if (ch == '\n') one_line += "\\n";
+        else if (ch == '\r') one_line += "\\r";
+        else if (ch == '\t') one_line += "\\t";
+        else if (ch < 0x20 || ch == 0x7f) {
+            char buf[8];
+            std::snprintf(buf, sizeof buf, "\\x%02x", ch);
+            one_line += buf;
+        } else one_line += static_cast<char>(ch);
+    }
+    std::cerr << "phaseplan-cli: " << one_line << std::endl;
+}
+
+/// Qt's own warnings (fonts, platform plugins) would add lines to stderr around the one error
+/// line; they are shown only when PHASEPLAN_QT_MESSAGES is set.
+void qt_message(QtMsgType type, const QMessageLogContext&, const QString& msg) {
+    if (type == QtFatalMsg || qEnvironmentVariableIsSet("PHASEPLAN_QT_MESSAGES"))
+        std::cerr << msg.toStdString() << std::endl;
 }
 
 } // namespace
 
 int main(int argc, char** argv) {
+    qInstallMessageHandler(qt_message);
     std::string command;
     QString input_path;
     QString data_dir;
@@ -87,7 +108,7 @@ int main(int argc, char** argv) {
         else if (command.empty()) command = a;
         else if (input_path.isEmpty()) input_path = QString::fromStdString(a);
         else {
-            fail("unexpected argument \"" + a + "\"");
+            fail("input: unexpected argument \"" + a + "\" (one input document only)");
             return 2;
         }
     }

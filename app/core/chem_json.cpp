@@ -21,6 +21,7 @@ QJsonArray warnings_to_json(const std::vector<chem::Warning>& ws) {
 
 std::vector<chem::Component> components_from_json(const chem::Library& lib, const QJsonObject& doc,
                                                   const std::string& parent, double* temperature_c) {
+    json::reject_near_misses(doc, {"temperature_c", "components"}, parent);
     if (temperature_c) *temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     const QJsonArray a = json::require_array(doc, "components", parent);
     const std::string list = json::path(parent, "components");
@@ -29,6 +30,7 @@ std::vector<chem::Component> components_from_json(const chem::Library& lib, cons
     for (int i = 0; i < a.size(); ++i) {
         const std::string at = json::path(list, i);
         const QJsonObject c = json::element_object(a, i, list);
+        json::reject_near_misses(c, {"reagent", "mol_per_l"}, at);
         const std::string id = json::require_string(c, "reagent", at);
         const chem::Reagent& r = lib.reagent(id, json::path(at, "reagent"));
         const double m = json::require_number(c, "mol_per_l", at);
@@ -59,6 +61,12 @@ QJsonObject speciation_to_json(const chem::Speciation& s) {
 chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJsonObject& doc,
                                              const std::string& parent) {
     chem::RecipeRequest r;
+    json::reject_near_misses(doc,
+                             {"target_ph", "temperature_c", "volume_ml", "route", "acid", "base",
+                              "weigh", "titrant", "titrant_mol_per_l", "acid_stock_mol_per_l",
+                              "base_stock_mol_per_l", "concentration_mol_per_l",
+                              "ionic_strength_mol_per_l", "purity_percent"},
+                             parent);
     r.target_ph = json::require_number(doc, "target_ph", parent);
     r.temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     r.volume_ml = json::optional_number(doc, "volume_ml", parent).value_or(1000.0);

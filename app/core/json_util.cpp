@@ -1,9 +1,14 @@
 #include "core/json_util.h"
 
+#include "chem/solvent.h"
+
 #include <QJsonDocument>
 #include <QJsonParseError>
+#include <QSet>
 
+#include <algorithm>
 #include <cmath>
+#include <vector>
 
 namespace phaseplan::json {
 
@@ -23,7 +28,11 @@ std::string describe(const QJsonValue& v) {
     case QJsonValue::String: {
         QString s = v.toString();
         if (s.size() > 40) s = s.left(37) + "...";
-        return "\"" + s.toStdString() + "\"";
+        // Appended, not "\"" + …: GCC 12 warns falsely (-Wrestrict) on literal + std::string.
+        std::string quoted(1, '"');
+        quoted += s.toStdString();
+        quoted += '"';
+        return quoted;
     }
     case QJsonValue::Array: return "an array";
     case QJsonValue::Object: return "an object";
@@ -123,6 +132,112 @@ QJsonObject element_object(const QJsonArray& a, int index, const std::string& pa
     return v.toObject();
 }
 
+namespace {
+
+/// Lower case without '_', '-' and spaces: "Temperature_C" and "temperature-c" fold alike.
+std::string fold_key(const QString& key) {
+    std::string out;
+    for (QChar ch : key)
+        if (ch != '_' && ch != '-' && ch != ' ') out += ch.toLower().toLatin1();
+    return out;
+}
+
+bool nearly(const QString& given, const QString& known) {
+    const auto prefix_of = [](const QString& a, const QString& b) {
+        return b.size() > a.size() && b.startsWith(a) && b[a.size()] == '_';
+    };
+    if (prefix_of(given, known) || prefix_of(known, given)) return true; // "volume" for "volume_ml"
+    const std::string g = fold_key(given), k = fold_key(known);
+    if (g == k) return true;
+    const int allowed = std::min(g.size(), k.size()) <= 5 ? 1 : 2;
+    return chem::edit_distance(g, k) <= allowed;
+}
+
+} // namespace
+
+void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*> known,
+                        const std::string& parent) {
+    for (auto it = o.begin(); it != o.end(); ++it) {
+        const QString key = it.key();
+        bool listed = false;
+        for (const char* k : known) listed |= key == QLatin1String(k);
+        if (listed) continue;
+        for (const char* k : known)
+            if (nearly(key, QString::fromLatin1(k)))
+                throw chem::Error(path(parent, key), "is not a field here; did you mean \"" +
+                                                         std::string(k) + "\"?");
+    }
+}
+
+namespace {
+
+/// The decoded text of the JSON string literal that starts at b[i] (a '"'); leaves i after it.
+/// The document has been parsed already, so the literal is well formed.
+QString string_at(const QByteArray& b, qsizetype& i) {
+    const qsizetype start = i++;
+    bool escaped = false;
+    while (i < b.size() && b[i] != '"') {
+        if (b[i] == '\\') {
+            escaped = true;
+            ++i;
+        }
+        ++i;
+    }
+    ++i;
+    const QByteArray literal = b.mid(start, i - start);
+    if (!escaped) return QString::fromUtf8(literal.mid(1, literal.size() - 2));
+    // An escaped key (backslash-u0061) equals its plain form ("a"): let Qt decode the escapes.
+    return QJsonDocument::fromJson("[" + literal + "]").array().at(0).toString();
+}
+
+/// Qt keeps the last of two equal keys without a word; a document that gives a field twice
+/// ({"mol_per_l": 0.01, "mol_per_l": 0.1}) is ambiguous, so it is refused, naming the field.
+void reject_duplicate_keys(const QByteArray& b) {
+    struct Frame {
+        bool object = false;
+        std::string path;
+        QSet<QString> keys;
+        QString key;
+        int index = 0;
+        bool expect_key = true;
+    };
+    std::vector<Frame> stack;
+    auto child_path = [&]() -> std::string {
+        if (stack.empty()) return "";
+        const Frame& f = stack.back();
+        return f.object ? path(f.path, f.key) : path(f.path, f.index);
+    };
+    for (qsizetype i = 0; i < b.size();) {
+        const char c = b[i];
+        if (c == '"') {
+            const QString s = string_at(b, i);
+            if (!stack.empty() && stack.back().object && stack.back().expect_key) {
+                Frame& f = stack.back();
+                if (f.keys.contains(s))
+                    throw chem::Error(path(f.path, s), "is given twice in one object; give it once");
+                f.keys.insert(s);
+                f.key = s;
+                f.expect_key = false;
+            }
+            continue;
+        }
+        if (c == '{' || c == '[') {
+            Frame f;
+            f.object = c == '{';
+            f.path = child_path();
+            stack.push_back(std::move(f));
+        } else if ((c == '}' || c == ']') && !stack.empty()) {
+            stack.pop_back();
+        } else if (c == ',' && !stack.empty()) {
+            if (stack.back().object) stack.back().expect_key = true;
+            else ++stack.back().index;
+        }
+        ++i;
+    }
+}
+
+} // namespace
+
 QJsonObject parse_document(const QByteArray& bytes) {
     QJsonParseError err{};
     QJsonDocument doc = QJsonDocument::fromJson(bytes, &err);
@@ -130,6 +245,7 @@ QJsonObject parse_document(const QByteArray& bytes) {
         throw chem::Error("(document)", "is not valid JSON: " + err.errorString().toStdString() +
                                             " at offset " + std::to_string(err.offset));
     if (!doc.isObject()) throw chem::Error("(document)", "must be a JSON object");
+    reject_duplicate_keys(bytes);
     return doc.object();
 }
 

@@ -9,6 +9,7 @@
 #include <QJsonValue>
 #include <QString>
 
+#include <initializer_list>
 #include <optional>
 #include <string>
 
@@ -43,6 +44,13 @@ bool optional_bool(const QJsonObject& o, const QString& key, const std::string& 
                    bool fallback);
 /// The value of an array element as an object, or an error naming parent[i].
 QJsonObject element_object(const QJsonArray& a, int index, const std::string& parent);
+
+/// Refuses a key of o that is not in `known` but nearly is one of them ("temperature" or
+/// "Temperature_C" for "temperature_c", "equilibration_mn"): a misspelt optional field would
+/// otherwise be ignored and its default used without a word. Other extra keys ("about", "note")
+/// stay allowed: the documents may carry more than the contract reads.
+void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*> known,
+                        const std::string& parent);
 
 /// Parses a whole document; a syntax error names "(document)" and the offset.
 QJsonObject parse_document(const QByteArray& bytes);

@@ -50,6 +50,7 @@ std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const s
         return std::nullopt;
     const std::string at = json::path(root, "detector");
     const QJsonObject o = json::require_object(doc, "detector", root);
+    json::reject_near_misses(o, {"type", "wavelength_nm", "margin_nm"}, at);
     chem::Detector d;
     d.type = json::require_string(o, "type", at);
     std::transform(d.type.begin(), d.type.end(), d.type.begin(),
@@ -84,6 +85,7 @@ std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
         return std::nullopt;
     const std::string at = json::path(root, "column");
     const QJsonObject o = json::require_object(doc, "column", root);
+    json::reject_near_misses(o, {"ph_min", "ph_max"}, at);
     chem::ColumnLimits c;
     c.ph_min = json::require_number(o, "ph_min", at);
     c.ph_max = json::require_number(o, "ph_max", at);
@@ -175,6 +177,11 @@ QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std
     if (!t.isValid())
         throw chem::Error(json::path(parent, key),
                           "\"" + s + "\" is not an ISO date and time (like 2026-12-01T18:00:00)");
+    // Clock times are printed as ISO dates, which have four-digit years: a start in 9999 would
+    // end in year 10000 and print as an empty string.
+    if (t.date().year() < 1900 || t.date().year() > 9000)
+        throw chem::Error(json::path(parent, key),
+                          "\"" + s + "\" is outside the years 1900 to 9000");
     const bool offset = t.timeSpec() != Qt::LocalTime;
     if (has_offset)
         *has_offset = offset;
@@ -189,6 +196,10 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                           std::vector<chem::Warning>* notes) {
     ParsedLine pl;
     pl.spec.field = path;
+    json::reject_near_misses(o,
+                             {"name", "bottle_ml", "residue_ml", "parts", "additives",
+                              "prepared_at", "shelf_life_h", "volume_ml", "detector", "column"},
+                             path);
     const std::string fallback_name = path.empty() ? "line" : path.substr(path.rfind('.') + 1);
     pl.spec.name = json::optional_string(o, "name", path).value_or(fallback_name);
     if (bottle_required) {
@@ -208,6 +219,7 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
         for (int i = 0; i < parts.size(); ++i) {
             const std::string at = json::path(list, i);
             const QJsonObject po = json::element_object(parts, i, list);
+            json::reject_near_misses(po, {"solvent", "buffer", "fraction_v"}, at);
             const bool has_solvent = po.contains("solvent"), has_buffer = po.contains("buffer");
             if (has_solvent == has_buffer)
                 throw chem::Error(at, "give either \"solvent\" or \"buffer\", not both or neither");
@@ -251,6 +263,7 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
         for (int i = 0; i < adds.size(); ++i) {
             const std::string at = json::path(list, i);
             const QJsonObject ao = json::element_object(adds, i, list);
+            json::reject_near_misses(ao, {"additive", "percent_v", "percent_w", "mmol_per_l"}, at);
             chem::LineAdditive a;
             a.additive = json::require_string(ao, "additive", at);
             int given = 0;
@@ -390,6 +403,10 @@ struct PlanResult {
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root) {
     auto P = [&](const char* key) { return json::path(root, key); };
     chem::SequenceInput in;
+    json::reject_near_misses(doc,
+                             {"lines", "methods", "sequence", "prime_ml", "start", "waste_ml",
+                              "detector", "column", "standby", "safety_margin", "plans"},
+                             root);
     Clock clock;
     clock.start = datetime_from_json(doc, "start", root, &clock.has_offset);
 
@@ -433,6 +450,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     for (auto it = methods.begin(); it != methods.end(); ++it) {
         const std::string mpath = json::path(P("methods"), it.key());
         const QJsonObject mo = json::require_object(methods, it.key(), P("methods"));
+        json::reject_near_misses(mo, {"flow_ml_min", "gradient", "run_min", "equilibration_min"},
+                                 mpath);
         chem::Method m;
         m.name = it.key().toStdString();
         m.flow_ml_min = json::require_number(mo, "flow_ml_min", mpath);
@@ -465,6 +484,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     for (int i = 0; i < rows.size(); ++i) {
         const std::string at = json::path(spath, i);
         const QJsonObject ro = json::element_object(rows, i, spath);
+        json::reject_near_misses(ro, {"method", "injections", "label"}, at);
         chem::SequenceRow r;
         r.method = json::require_string(ro, "method", at);
         r.injections = json::require_int(ro, "injections", at, 1, 1000000);
@@ -480,6 +500,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     if (doc.contains("standby") && !doc.value("standby").isNull()) {
         const std::string at = P("standby");
         const QJsonObject so = json::require_object(doc, "standby", root);
+        json::reject_near_misses(so, {"flow_ml_min", "duration_min", "until", "A", "B", "C", "D"},
+                                 at);
         chem::Standby sb;
         sb.flow_ml_min = json::require_number(so, "flow_ml_min", at);
         const bool has_d = so.contains("duration_min"), has_u = so.contains("until");
@@ -513,8 +535,15 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         if (profiles[l].described)
             c.profiles[l] = &profiles[l];
         c.names[l] = parsed[l]->spec.name;
-        if (parsed[l]->prepared_at)
+        if (parsed[l]->prepared_at) {
             c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
+            // A bottle on the instrument is made before the run; a later date is a typing slip
+            // that would silently pass the shelf-life check.
+            if (*c.prepared_at_min[l] > 0)
+                throw chem::Error(parsed[l]->spec.field + ".prepared_at",
+                                  clock.text(*c.prepared_at_min[l]) +
+                                      " is after the sequence start " + clock.text(0));
+        }
     }
     chem::SequencePlan plan;
     try {
@@ -523,8 +552,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             auto probe = in;
             probe.standby.reset();
             const double end = chem::plan_sequence(probe).total_min;
-            in.standby->duration_min =
-                std::max(0.0, clock.start.msecsTo(*standby_until) / 60000.0 - end);
+            const double until_min = clock.start.msecsTo(*standby_until) / 60000.0;
+            if (until_min < end)
+                throw chem::Error("standby.until", // the catch below adds the plan's path
+                                  clock.text(until_min) + " is before the last injection ends at " +
+                                      clock.text(end));
+            in.standby->duration_min = until_min - end;
         }
         plan = chem::plan_sequence(in);
     } catch (const chem::Error& e) {
