@@ -16,11 +16,7 @@ constexpr double max_tolerance_fraction = 0.5;   ///< ± 50 %: beyond that a "to
 /// A predicted pH this far from the target deserves a look before use; common practice, no source.
 constexpr double ph_off_target = 0.05;
 
-std::string fixed(double v, int decimals) {
-    char buf[64];
-    std::snprintf(buf, sizeof buf, "%.*f", decimals, v);
-    return buf;
-}
+std::string fixed(double v, int decimals) { return format_fixed(v, decimals); }
 
 /// About four significant figures, as the designer prints amounts.
 std::string amount(double v) {

@@ -324,7 +324,8 @@ Speciation report(const Problem& p, const State& st) {
         out.warnings.push_back({"ionic-strength-high", Warning::Severity::warning,
                                 "Ionic strength " + format_number(i) +
                                     " mol/L is above 0.5 mol/L, where the Davies activity model "
-                                    "is unreliable: expect the measured pH to differ by 0.05 or more."});
+                                    "does not hold: treat the pH as indicative only (errors of 0.1 "
+                                    "pH unit or more) and measure it."});
     else if (i > 0.1)
         out.warnings.push_back({"ionic-strength-high", Warning::Severity::caution,
                                 "Ionic strength " + format_number(i) +

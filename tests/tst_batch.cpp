@@ -159,8 +159,7 @@ void TestBatch::toleranceFlags() {
         for (const auto& w : res.warnings)
             if (w.code == "amount-out-of-tolerance") msg = w.message;
         QVERIFY2(msg.find(salt.reagent) == 0, msg.c_str());
-        char measured[32];
-        std::snprintf(measured, sizeof measured, "%.3f g measured", *a.mass_g);
+        const std::string measured = chem::format_fixed(*a.mass_g, 3) + " g measured";
         QVERIFY2(msg.find(measured) != std::string::npos, msg.c_str());
         QVERIFY2(msg.find("± 2 %") != std::string::npos, msg.c_str());
     }
