@@ -40,9 +40,17 @@ QJsonObject starter_plan() {
 
 QJsonObject obj(const QJsonObject& o, const char* key) { return o.value(QLatin1String(key)).toObject(); }
 
+/// A contract clock time; one without an offset is wall-clock time with no daylight-saving jumps
+/// (as the core counts it), so it is read as UTC here.
+QDateTime wall_clock(const QString& iso) {
+    QDateTime t = QDateTime::fromString(iso, Qt::ISODate);
+    if (t.isValid() && t.timeSpec() == Qt::LocalTime) t.setTimeSpec(Qt::UTC);
+    return t;
+}
+
 double hours_between(const QString& from_iso, const QString& to_iso) {
-    const QDateTime a = QDateTime::fromString(from_iso, Qt::ISODate);
-    const QDateTime b = QDateTime::fromString(to_iso, Qt::ISODate);
+    const QDateTime a = wall_clock(from_iso);
+    const QDateTime b = wall_clock(to_iso);
     if (!a.isValid() || !b.isValid()) return -1;
     return a.secsTo(b) / 3600.0;
 }
@@ -131,9 +139,18 @@ void Plan::setStart(const QString& iso) {
 }
 
 void Plan::shiftStart(int minutes) {
-    QDateTime t = QDateTime::fromString(start(), Qt::ISODate);
-    if (!t.isValid()) t = QDateTime::currentDateTime();
-    setStart(t.addSecs(60LL * minutes).toString(Qt::ISODate));
+    const QString s = start();
+    QDateTime t = QDateTime::fromString(s, Qt::ISODate);
+    if (!t.isValid()) {
+        t = QDateTime::currentDateTime();
+        t.setTimeSpec(Qt::UTC);
+    }
+    const bool has_offset = t.timeSpec() != Qt::LocalTime;
+    if (!has_offset) t.setTimeSpec(Qt::UTC);
+    t = t.addSecs(60LL * minutes);
+    // Keep the form the user wrote: wall-clock time stays without an offset.
+    setStart(has_offset && s.size() > 19 ? t.toString(Qt::ISODate)
+                                         : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss")));
 }
 
 double Plan::wasteCapacityMl() const { return doc_.value("waste_ml").toDouble(); }
@@ -401,59 +418,47 @@ void Plan::compute_levels() {
     chart_hours_ = 1;
     chart_max_ml_ = 100;
     if (!error_.empty() || !workspace_) return;
-    // The level at each row's end comes from the core: the same plan cut after that row (parts,
-    // checks and standby left out, as only the volumes matter). Within a row every injection
-    // draws the same volume in the same time, so the level is exact at every injection boundary
-    // on the straight line between row ends.
-    QJsonObject base = doc_;
-    base.remove("standby");
-    base.remove("detector");
-    base.remove("column");
-    QJsonObject lines = obj(base, "lines");
-    for (auto it = lines.begin(); it != lines.end(); ++it) {
-        QJsonObject l = it.value().toObject();
-        l.remove("parts");
-        l.remove("additives");
-        l.remove("prepared_at");
-        it.value() = l;
-    }
-    base.insert("lines", lines);
+    // Each bottle's level at the end of every sequence row, from the core's per-row volumes
+    // ("rows[i].volume_ml"): within a row every injection draws the same volume in the same
+    // time, so the straight line between row ends is exact at every injection boundary. The
+    // standby after the last injection ends at the core's totals (required_ml, waste_ml).
     const QStringList letters = lineLetters();
+    const QJsonObject res_lines = obj(result_, "lines");
+    std::map<QString, double> level;
+    double waste = 0;
     for (const QString& l : letters) {
-        const QJsonObject in = line(l);
-        levels_[l].append(QPointF(0, in.value("bottle_ml").toDouble() - primeMl(l)));
-        chart_max_ml_ = std::max(chart_max_ml_, in.value("bottle_ml").toDouble());
+        const double bottle = line(l).value("bottle_ml").toDouble();
+        level[l] = bottle - res_lines.value(l).toObject().value("prime_ml").toDouble(primeMl(l));
+        waste += bottle - level[l];
+        levels_[l].append(QPointF(0, level[l]));
+        chart_max_ml_ = std::max(chart_max_ml_, bottle);
     }
-    double prime_total = 0;
-    for (const QString& l : letters) prime_total += primeMl(l);
-    waste_.append(QPointF(0, prime_total));
-
-    const QJsonArray all_rows = rows();
-    auto add_point = [&](const QJsonObject& out, double hours) {
-        const QJsonObject res = obj(out, "lines");
+    waste_.append(QPointF(0, waste));
+    for (const QJsonValue& v : result_.value("rows").toArray()) {
+        const QJsonObject row = v.toObject();
+        const double h = hours_between(start(), row.value("end").toString());
+        if (h < 0) continue;
+        const QJsonObject vol = row.value("volume_ml").toObject();
+        for (const QString& l : letters) {
+            level[l] -= vol.value(l).toDouble();
+            waste += vol.value(l).toDouble();
+            levels_[l].append(QPointF(h, level[l]));
+        }
+        waste_.append(QPointF(h, waste));
+    }
+    const double standby_min = result_.value("standby_min").toDouble();
+    if (standby_min > 0) {
+        const double h = (totalMin() + standby_min) / 60.0;
         for (const QString& l : letters)
-            levels_[l].append(QPointF(hours, line(l).value("bottle_ml").toDouble() -
-                                                 res.value(l).toObject().value("required_ml").toDouble()));
-        waste_.append(QPointF(hours, out.value("waste_ml").toDouble()));
-    };
-    for (int k = 1; k <= all_rows.size(); ++k) {
-        QJsonObject cut = base;
-        QJsonArray prefix;
-        for (int i = 0; i < k; ++i) prefix.append(all_rows[i]);
-        cut.insert("sequence", prefix);
-        QJsonObject out;
-        if (!guarded([&] { out = command_sequence(workspace_->data(), cut, {}); }).empty()) continue;
-        add_point(out, out.value("total_min").toDouble() / 60.0);
-    }
-    // Standby after the last injection: the full plan's totals, at its end.
-    if (doc_.contains("standby")) {
-        const double standby_min = obj(doc_, "standby").value("duration_min").toDouble();
-        add_point(result_, (totalMin() + standby_min) / 60.0);
+            levels_[l].append(QPointF(h, line(l).value("bottle_ml").toDouble() -
+                                             res_lines.value(l).toObject().value("required_ml").toDouble()));
+        waste_.append(QPointF(h, wasteMl()));
     }
     for (const QString& l : letters) {
-        const QJsonObject r = obj(result_, "lines").value(l).toObject();
+        const QJsonObject r = res_lines.value(l).toObject();
         if (r.value("runs_dry").toBool()) {
-            const double h = hours_between(start(), r.value("dry_at").toString());
+            const double h = r.contains("dry_at_min") ? r.value("dry_at_min").toDouble() / 60.0
+                                                      : hours_between(start(), r.value("dry_at").toString());
             if (h >= 0) dry_points_[l] = QPointF(h, line(l).value("residue_ml").toDouble());
         }
     }

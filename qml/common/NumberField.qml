@@ -88,7 +88,8 @@ ColumnLayout {
             horizontalAlignment: TextInput.AlignRight
             inputMethodHints: root.integer ? Qt.ImhDigitsOnly : Qt.ImhFormattedNumbersOnly
             selectByMouse: true
-            text: root.formatted(root.value)
+            // Set, not bound: a binding would overwrite the text while the user types.
+            Component.onCompleted: text = root.formatted(root.value)
             Accessible.name: root.label
             onTextEdited: {
                 var v = root.parsed(text)
@@ -113,6 +114,9 @@ ColumnLayout {
                 function onValueChanged() {
                     if (!input.activeFocus)
                         input.text = root.formatted(root.value)
+                }
+                function onLocaleChanged() {
+                    input.text = root.formatted(root.value)
                 }
             }
         }

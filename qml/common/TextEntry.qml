@@ -31,7 +31,8 @@ ColumnLayout {
         Layout.fillWidth: true
         Layout.preferredHeight: Theme.tap
         font.pixelSize: Theme.fontSize
-        text: root.value
+        // Set, not bound: a binding would overwrite the text while the user types.
+        Component.onCompleted: text = root.value
         placeholderText: root.placeholder
         inputMethodHints: root.hints
         selectByMouse: true

@@ -29,7 +29,8 @@ TextField {
     inputMethodHints: Qt.ImhFormattedNumbersOnly
     selectByMouse: true
     color: textValid ? Theme.text : Theme.bad
-    text: Number(root.value).toLocaleString(root.locale, "f", root.decimals)
+    // Set, not bound: a binding would overwrite the text while the user types.
+    Component.onCompleted: text = Number(root.value).toLocaleString(root.locale, "f", root.decimals)
     Accessible.name: root.accessibleName
     onTextEdited: {
         var v = root.parsed(text)

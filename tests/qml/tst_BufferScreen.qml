@@ -1,0 +1,140 @@
+import QtQuick
+import QtTest
+import PhasePlan
+
+// The buffer designer screen over the real models and data: a new target pH typed in changes
+// the recipe shown; text that is not a number and input the core refuses show their message at
+// the field; every control is a touch target of at least 9 mm.
+TestCase {
+    id: tc
+    name: "BufferScreen"
+    when: windowShown
+    visible: true
+    width: 1280
+    height: 800
+
+    Component {
+        id: screenComponent
+        Item {
+            id: box
+            property alias designer: designerModel
+            property alias screen: page
+            width: tc.width
+            height: tc.height
+            Workspace {
+                id: ws
+                databasePath: testDir + "/buffer-screen-" + Date.now() + ".sqlite"
+                dataDir: dataDir
+            }
+            Plan {
+                id: planModel
+                workspace: ws
+            }
+            BufferDesigner {
+                id: designerModel
+                workspace: ws
+                plan: planModel
+            }
+            BufferScreen {
+                id: page
+                anchors.fill: parent
+                designer: designerModel
+                plan: planModel
+            }
+        }
+    }
+
+    function typeInto(field, text) {
+        field.forceActiveFocus()
+        field.selectAll()
+        keyClick(Qt.Key_Backspace)
+        for (var i = 0; i < text.length; ++i)
+            keyClick(text[i])
+    }
+    function findAll(item, name, out) {
+        if (item.objectName === name)
+            out.push(item)
+        for (var i = 0; i < item.children.length; ++i)
+            findAll(item.children[i], name, out)
+        return out
+    }
+    function shownAmounts(root) {
+        var labels = findAll(root, "amount", [])
+        var texts = []
+        for (var i = 0; i < labels.length; ++i)
+            if (labels[i].visible)
+                texts.push(labels[i].text)
+        return texts.join(" | ")
+    }
+
+    function makeScreen() {
+        var s = createTemporaryObject(screenComponent, tc)
+        verify(s !== null)
+        // A phosphate buffer mixed from its two sodium salts, 25 mM, 1 L (the designer's default).
+        tryCompare(s.designer, "valid", true)
+        return s
+    }
+
+    function test_target_ph_changes_the_recipe() {
+        var s = makeScreen()
+        var field = findAll(s, "targetPhField", [])[0]
+        verify(field)
+        var before = shownAmounts(s)
+        verify(before.length > 0, "a recipe is shown")
+        var ph = findAll(s, "predictedPh", [])[0]
+        compare(ph.text, Number(s.designer.predictedPh).toLocaleString(Qt.locale(), "f", 2))
+
+        typeInto(field.field, "7.4")
+        tryCompare(s.designer, "targetPh", 7.4)
+        verify(s.designer.valid)
+        var after = shownAmounts(s)
+        verify(after !== before, "the amounts shown follow the target: " + before + " -> " + after)
+        compare(ph.text, Number(7.4).toLocaleString(Qt.locale(), "f", 2))
+    }
+
+    function test_not_a_number_stays_at_the_field() {
+        var s = makeScreen()
+        var field = findAll(s, "targetPhField", [])[0]
+        var before = s.designer.targetPh
+        typeInto(field.field, "abc")
+        compare(field.parseError, "Not a valid number.")
+        compare(s.designer.targetPh, before)
+        verify(s.designer.valid)
+    }
+
+    function test_core_error_beside_its_field() {
+        var s = makeScreen()
+        var volume = findAll(s, "volumeField", [])[0]
+        typeInto(volume.field, "-5")
+        tryCompare(s.designer, "errorField", "volume_ml")
+        verify(volume.error.length > 0, "the volume field shows the core's message")
+        verify(volume.error.indexOf("-5") >= 0, volume.error)
+        var target = findAll(s, "targetPhField", [])[0]
+        compare(target.error, "", "other fields stay clean")
+        var recipeError = findAll(s, "recipeError", [])[0]
+        verify(recipeError.visible)
+        typeInto(volume.field, "500")
+        tryCompare(s.designer, "valid", true)
+        compare(volume.error, "")
+    }
+
+    function test_touch_targets() {
+        var s = makeScreen()
+        wait(50)
+        var small = []
+        function visit(item) {
+            if (!item.visible)
+                return
+            var isButton = item.hasOwnProperty("pressed") && item.hasOwnProperty("checkable") && item.hasOwnProperty("flat")
+            var isField = item.hasOwnProperty("inputMethodHints") && item.hasOwnProperty("selectByMouse")
+            var isCombo = item.hasOwnProperty("displayText") && item.hasOwnProperty("currentIndex")
+            if ((isButton || isField || isCombo) && item.height < Theme.tap - 0.5)
+                small.push(item + " " + item.height)
+            for (var i = 0; i < item.children.length; ++i)
+                visit(item.children[i])
+        }
+        visit(s.screen)
+        verify(Theme.tap >= Math.round(9 * Theme.pxPerMm), "the touch unit is 9 mm")
+        compare(small.length, 0, "controls below 9 mm: " + small.join(", "))
+    }
+}

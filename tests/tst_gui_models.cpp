@@ -1,0 +1,485 @@
+// The app's models, each built alone on a temporary database (no QML): that they pass the core's
+// answers through unchanged, keep the invariants the screens rely on, map the core's errors to
+// the field or row they name, and keep the lab's work across a reopen.
+//
+// Outside references: the recipe lands on its target within 0.005 pH and pH rises monotonically
+// with added base (the recipe designer's contract, issue 2); bottles only drain and the level at
+// the end is the bottle less the core's required volume (mass balance); the count of solvents
+// equals data/solvents.json read independently here.
+#include "buffer_designer.h"
+#include "checks_model.h"
+#include "core/commands.h"
+#include "core/line_commands.h"
+#include "library_models.h"
+#include "lines_model.h"
+#include "method_models.h"
+#include "plan.h"
+#include "saved_model.h"
+#include "workspace.h"
+
+#include <QDir>
+#include <QFile>
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QLineSeries>
+#include <QLocale>
+#include <QSignalSpy>
+#include <QTemporaryDir>
+#include <QTest>
+
+#include <memory>
+
+using namespace phaseplan::gui;
+
+namespace {
+
+const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
+
+QJsonObject read_json(const QString& path) {
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly)) qFatal("cannot open %s", qPrintable(path));
+    return QJsonDocument::fromJson(f.readAll()).object();
+}
+
+std::unique_ptr<Workspace> open_workspace(const QString& db, const QString& data = data_dir) {
+    auto ws = std::make_unique<Workspace>();
+    ws->setDatabasePath(db);
+    ws->setDataDir(data);
+    if (!ws->open()) qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
+    return ws;
+}
+
+double item_mass(const QVariantList& items, const QString& reagent) {
+    for (const QVariant& v : items)
+        if (v.toMap().value("reagent").toString() == reagent) return v.toMap().value("mass_g").toDouble();
+    return -1;
+}
+
+/// Linear interpolation of y at x on a curve sorted by x.
+double interpolate(const QList<QPointF>& c, double x) {
+    for (int i = 1; i < c.size(); ++i)
+        if (c[i].x() >= x) {
+            const double f = (x - c[i - 1].x()) / (c[i].x() - c[i - 1].x());
+            return c[i - 1].y() + f * (c[i].y() - c[i - 1].y());
+        }
+    return c.isEmpty() ? 0 : c.back().y();
+}
+
+} // namespace
+
+class TestGuiModels : public QObject {
+    Q_OBJECT
+    QTemporaryDir dir_;
+    int n_ = 0;
+    QString fresh_db() { return dir_.filePath(QStringLiteral("db-%1.sqlite").arg(++n_)); }
+
+private slots:
+    void first_run_opens_the_demo() {
+        const QString db = fresh_db();
+        auto ws = open_workspace(db);
+        QVERIFY(ws->firstRun());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        plan.recomputeNow();
+        const QJsonObject demo = read_json(data_dir + "/demo/overnight-sequence.json");
+        QCOMPARE(plan.name(), Workspace::demoName());
+        QCOMPARE(plan.json(), demo);
+        QVERIFY2(plan.valid(), qPrintable(plan.errorField() + ": " + plan.errorMessage()));
+        // The plan shows exactly what the core's sequence command says for the same document.
+        const QJsonObject direct = phaseplan::command_sequence(ws->data(), demo, {});
+        QCOMPARE(plan.endTime(), direct.value("end").toString());
+        QCOMPARE(plan.totalMin(), direct.value("total_min").toDouble());
+        QCOMPARE(plan.warnings().size(), direct.value("warnings").toArray().size());
+        // The demo was seeded as saved work too.
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::sequence, Workspace::demoName()));
+        auto again = open_workspace(db);
+        QVERIFY(!again->firstRun());
+    }
+
+    void recipe_follows_target_ph_data() {
+        QTest::addColumn<QString>("locale");
+        QTest::newRow("C") << "C";
+        QTest::newRow("decimal comma (de_DE)") << "de_DE";
+    }
+    void recipe_follows_target_ph() {
+        QFETCH(QString, locale);
+        QLocale::setDefault(QLocale(locale));
+        auto ws = open_workspace(fresh_db());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setRoute("mix");
+        d.setSystem("phosphate");
+        d.setAcid("sodium-dihydrogen-phosphate-monohydrate");
+        d.setBase("disodium-hydrogen-phosphate-heptahydrate");
+        d.setConcentrationMmolPerL(25);
+        d.setVolumeMl(1000);
+        d.setTargetPh(6.8);
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        const double base_at_68 = item_mass(d.items(), "disodium-hydrogen-phosphate-heptahydrate");
+        QVERIFY(std::abs(d.predictedPh() - 6.8) < 0.005);
+        d.setTargetPh(7.4);
+        QVERIFY(d.valid());
+        const double base_at_74 = item_mass(d.items(), "disodium-hydrogen-phosphate-heptahydrate");
+        QVERIFY(std::abs(d.predictedPh() - 7.4) < 0.005);
+        QVERIFY2(base_at_74 > base_at_68, "a higher pH takes more of the base form");
+        // The model passes the core's numbers through unchanged.
+        const QJsonObject direct = phaseplan::command_recipe(ws->data(), d.requestDocument(), {});
+        QCOMPARE(d.predictedPh(), direct.value("ph").toDouble());
+        QVariantList direct_items;
+        for (const QJsonValue& v : direct.value("items").toArray()) direct_items.append(v.toObject().toVariantMap());
+        QCOMPARE(base_at_74, item_mass(direct_items, "disodium-hydrogen-phosphate-heptahydrate"));
+        // The amount shown uses the locale's decimal separator.
+        QString amount;
+        for (const QVariant& v : d.items())
+            if (v.toMap().value("reagent") == "disodium-hydrogen-phosphate-heptahydrate") amount = v.toMap().value("amount").toString();
+        QVERIFY2(amount.contains(QLocale().decimalPoint()), qPrintable(amount));
+        QLocale::setDefault(QLocale::c());
+    }
+
+    void bad_input_names_the_field() {
+        auto ws = open_workspace(fresh_db());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setVolumeMl(-250);
+        QVERIFY(!d.valid());
+        QCOMPARE(d.errorField(), QString("volume_ml"));
+        QVERIFY2(d.errorMessage().contains("-250"), qPrintable(d.errorMessage()));
+        QVERIFY(d.items().isEmpty());
+        QVERIFY(d.errorIs("volume_ml"));
+        d.setVolumeMl(500);
+        QVERIFY(d.valid());
+        d.setTemperatureC(85);
+        QCOMPARE(d.errorField(), QString("temperature_c"));
+        d.setTemperatureC(25);
+        d.setAcid("no-such-reagent");
+        QCOMPARE(d.errorField(), QString("acid"));
+        // pH 9 cannot come from an acetate mix: a clear error on the target, not a recipe.
+        d.setSystem("acetate");
+        d.setAcid("acetic-acid");
+        d.setBase("sodium-acetate");
+        d.setTargetPh(9.0);
+        QCOMPARE(d.errorField(), QString("target_ph"));
+    }
+
+    void curves_agree_with_the_recipe() {
+        auto ws = open_workspace(fresh_db());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setSystem("acetate");
+        d.setAcid("acetic-acid");
+        d.setBase("sodium-acetate-trihydrate");
+        d.setConcentrationMmolPerL(20);
+        d.setTargetPh(4.8);
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        const QList<QPointF>& ph = d.phCurve();
+        QVERIFY(ph.size() > 20);
+        for (int i = 1; i < ph.size(); ++i) QVERIFY2(ph[i].y() > ph[i - 1].y(), "pH rises with the base fraction");
+        // The recipe's own point lies on its curve, and β at its pH matches the recipe's β.
+        QVERIFY(std::abs(interpolate(ph, d.recipePoint().x()) - d.predictedPh()) < 0.02);
+        const double beta = interpolate(d.betaCurve(), d.predictedPh());
+        QVERIFY2(std::abs(beta - d.bufferCapacityMmolPerL()) < 0.05 * d.bufferCapacityMmolPerL(),
+                 qPrintable(QStringLiteral("%1 vs %2").arg(beta).arg(d.bufferCapacityMmolPerL())));
+        QVERIFY(d.lastRecomputeMs() > 0);
+
+        d.setRoute("titrate");
+        d.setWeigh("acetic-acid");
+        d.setTitrant("sodium-hydroxide");
+        d.setTitrantMolPerL(1.0);
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        QVERIFY(d.curveXLabel().contains("mL"));
+        const QList<QPointF>& t = d.phCurve();
+        for (int i = 1; i < t.size(); ++i) QVERIFY(t[i].y() > t[i - 1].y());
+        QVERIFY(std::abs(interpolate(t, d.recipePoint().x()) - d.predictedPh()) < 0.02);
+    }
+
+    void designer_edits_the_line_buffer() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        LinesModel lines;
+        lines.setPlan(&plan);
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setPlan(&plan);
+        d.setLineLetter("A");
+        QCOMPARE(d.targetPh(), plan.lineBuffer("A").value("target_ph").toDouble());
+        // Made for its share of the bottle when the buffer names no volume.
+        QCOMPARE(d.volumeMl(), plan.lineBufferVolumeMl("A"));
+        const QVariantList before = lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
+        d.setTargetPh(d.targetPh() + 0.3);
+        QCOMPARE(plan.lineBuffer("A").value("target_ph").toDouble(), d.targetPh());
+        lines.recomputeNow();
+        const QVariantList after = lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
+        QVERIFY(!before.isEmpty());
+        QVERIFY2(before != after, "the line's buffer amounts follow the designer");
+    }
+
+    void plan_levels_balance() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        plan.recomputeNow();
+        QVERIFY(plan.valid());
+        QSignalSpy none(&plan, &Plan::resultChanged);
+        for (const QVariant& b : plan.bottles()) {
+            const QVariantMap m = b.toMap();
+            const QString l = m.value("letter").toString();
+            QLineSeries series;
+            plan.fillLevelSeries(&series, l);
+            const QList<QPointF> pts = series.points();
+            QVERIFY(pts.size() >= 2);
+            // Bottles only drain; the first point is the bottle less priming, the last the
+            // bottle less everything the core says the night needs (floored at empty).
+            for (int i = 1; i < pts.size(); ++i) QVERIFY(pts[i].y() <= pts[i - 1].y() + 1e-9);
+            QCOMPARE(pts.first().y(), m.value("bottle_ml").toDouble() - plan.primeMl(l));
+            QVERIFY(std::abs(pts.last().y() - std::max(0.0, m.value("bottle_ml").toDouble() -
+                                                                  m.value("required_ml").toDouble())) < 1e-6);
+            QLineSeries dry;
+            plan.fillDrySeries(&dry, l);
+            QCOMPARE(dry.count(), m.value("runs_dry").toBool() ? 1 : 0);
+        }
+        QLineSeries waste;
+        plan.fillWasteSeries(&waste);
+        QVERIFY(std::abs(waste.points().last().y() - plan.wasteMl()) < 1e-6);
+        QCOMPARE(none.count(), 0); // reading does not recompute
+    }
+
+    void errors_land_on_their_row() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        GradientModel g;
+        g.setPlan(&plan);
+        g.setMethodName("assay");
+        QVERIFY(g.rowCount() >= 3);
+        g.setTime(2, 1.0); // before row 1: times must ascend
+        plan.recomputeNow();
+        QVERIFY(!plan.valid());
+        QVERIFY2(plan.errorField().startsWith("methods.assay.gradient["), qPrintable(plan.errorField()));
+        QVERIFY(g.errorRow() == 1 || g.errorRow() == 2);
+        QVERIFY(!g.data(g.index(g.errorRow()), GradientModel::RowErrorRole).toString().isEmpty());
+        g.setTime(2, 10.0);
+        plan.recomputeNow();
+        QVERIFY2(plan.valid(), qPrintable(plan.errorMessage()));
+        QCOMPARE(g.errorRow(), -1);
+
+        SequenceRowsModel rows;
+        rows.setPlan(&plan);
+        rows.setMethod(1, "no-such-method");
+        plan.recomputeNow();
+        QCOMPARE(plan.errorField(), QString("sequence[1].method"));
+        QCOMPARE(rows.data(rows.index(1), SequenceRowsModel::RowErrorFieldRole).toString(), QString("method"));
+        QVERIFY(rows.data(rows.index(0), SequenceRowsModel::RowErrorRole).toString().isEmpty());
+    }
+
+    void checks_gather_and_clear() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        LinesModel lines;
+        lines.setPlan(&plan);
+        ChecksModel checks;
+        checks.setPlan(&plan);
+        checks.setLines(&lines);
+        plan.recomputeNow();
+        checks.refreshNow();
+        // The demo's acetonitrile bottle is too small for the night (the scenario says so).
+        auto has_code = [&](const QString& code) -> bool {
+            for (int i = 0; i < checks.rowCount(); ++i)
+                if (checks.data(checks.index(i), ChecksModel::CodeRole).toString() == code)
+                    return !checks.data(checks.index(i), ChecksModel::AdviceRole).toString().isEmpty();
+            return false;
+        };
+        QVERIFY(has_code("runs-dry"));
+        QVERIFY(checks.warningCount() >= 1);
+        // Worst first.
+        QCOMPARE(checks.data(checks.index(0), ChecksModel::SeverityRole).toString(), QString("warning"));
+        lines.setBottleMl("B", 1000);
+        plan.recomputeNow();
+        lines.recomputeNow();
+        checks.refreshNow();
+        QVERIFY(!has_code("runs-dry"));
+    }
+
+    void lines_amounts_fill_the_bottle() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        LinesModel lines;
+        lines.setPlan(&plan);
+        lines.setBottleMl("B", 1500);
+        lines.recomputeNow();
+        const QModelIndex b = lines.index(lines.rowOf("B"));
+        QCOMPARE(lines.data(b, LinesModel::BottleMlRole).toDouble(), 1500.0);
+        double total = 0;
+        for (const QVariant& v : lines.data(b, LinesModel::ItemsRole).toList()) total += v.toMap().value("volume_ml").toDouble();
+        QVERIFY(std::abs(total - 1500) < 1e-6); // one solvent at 100 %: the whole bottle
+        QVERIFY(lines.data(b, LinesModel::UvCutoffNmRole).toDouble() > 0);
+        lines.setPartPercent("B", 0, 250); // not a fraction: the core refuses, naming the part
+        lines.recomputeNow();
+        QVERIFY2(lines.data(b, LinesModel::ErrorFieldRole).toString().contains("fraction_v"),
+                 qPrintable(lines.data(b, LinesModel::ErrorFieldRole).toString()));
+        QVERIFY(lines.data(b, LinesModel::ItemsRole).toList().isEmpty());
+    }
+
+    void library_search_and_lab_entries() {
+        const QString db = fresh_db();
+        auto ws = open_workspace(db);
+        LibraryModel lib;
+        lib.setWorkspace(ws.get());
+        const int all = lib.count();
+        lib.setKind("solvents");
+        QCOMPARE(lib.count(), int(read_json(data_dir + "/solvents.json").value("solvents").toArray().size()));
+        lib.setKind("all");
+        lib.setSearch("phosphate sodium");
+        QVERIFY(lib.count() > 0 && lib.count() < all);
+        for (int i = 0; i < lib.count(); ++i) {
+            const QString hay = (lib.data(lib.index(i), LibraryModel::NameRole).toString() + ' ' +
+                                 lib.data(lib.index(i), LibraryModel::IdRole).toString()).toLower();
+            QVERIFY(hay.contains("phosphate") && hay.contains("sodium"));
+        }
+
+        ReagentEditor e;
+        e.setWorkspace(ws.get());
+        QVERIFY(!e.showErrors());
+        e.setReagentId("lab-sodium-acetate-99");
+        e.setName("Sodium acetate, our 99 % lot");
+        e.setFormula("CH3COONa");
+        e.setAssayPercent(99);
+        e.setSpectatorIon("Na+");
+        e.setSpectatorCharge(1);
+        e.setSpectatorCount(1);
+        e.setSystem("acetate");
+        e.setSystemCount(1);
+        e.setProtonsRemoved(1);
+        QCOMPARE(e.errorField(), QString("source")); // everything else is fine
+        // Molar mass from the formula by the core: C2H3NaO2 = 82.034 g/mol (IUPAC 2021 weights;
+        // CRC Handbook lists 82.03 for sodium acetate, from memory).
+        QVERIFY(std::abs(e.molarMassGPerMol() - 82.034) < 0.005);
+        e.setFormula("CH3COOXx");
+        QCOMPARE(e.errorField(), QString("formula"));
+        e.setFormula("CH3COONa");
+        e.setSpectatorCount(2); // two Na+ on one acetate: not electroneutral
+        e.setSource("certificate of analysis, lot 7781");
+        QVERIFY(!e.valid());
+        e.setSpectatorCount(1);
+        QVERIFY2(e.valid(), qPrintable(e.errorField() + ": " + e.errorMessage()));
+        QCOMPARE(e.save(), QString());
+        const chem::Reagent* r = ws->data().reagents.find_reagent("lab-sodium-acetate-99");
+        QVERIFY(r && r->user_defined);
+        QVERIFY(std::abs(r->assay_fraction - 0.99) < 1e-12);
+
+        // A lab correction of a shipped entry wins, also after a reopen.
+        QVERIFY(e.edit("sodium-acetate"));
+        QVERIFY(e.editingShipped());
+        e.setAssayPercent(98.5);
+        e.setSource("our lot's certificate");
+        QCOMPARE(e.save(), QString());
+        ws.reset();
+        auto again = open_workspace(db);
+        QVERIFY(again->data().reagents.find_reagent("lab-sodium-acetate-99"));
+        QVERIFY(std::abs(again->data().reagents.reagent("sodium-acetate").assay_fraction - 0.985) < 1e-12);
+        // The recipe uses the lab's entry.
+        BufferDesigner d;
+        d.setWorkspace(again.get());
+        d.setSystem("acetate");
+        d.setAcid("acetic-acid");
+        d.setBase("lab-sodium-acetate-99");
+        d.setTargetPh(4.7);
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+    }
+
+    void shipped_update_keeps_lab_edits() {
+        // A copy of data/ whose reagents.json is then "updated" (a shipped name changes).
+        QTemporaryDir data;
+        QDir().mkpath(data.filePath("demo"));
+        for (const QString f : {"reagents.json", "solvents.json", "demo/overnight-sequence.json"})
+            QVERIFY(QFile::copy(data_dir + "/" + f, data.filePath(f)));
+        const QString db = fresh_db();
+        {
+            auto ws = open_workspace(db, data.path());
+            ReagentEditor e;
+            e.setWorkspace(ws.get());
+            QVERIFY(e.edit("sodium-acetate"));
+            e.setName("Sodium acetate (lab bottle 3)");
+            e.setSource("label of bottle 3");
+            QCOMPARE(e.save(), QString());
+        }
+        QJsonObject r = read_json(data.filePath("reagents.json"));
+        QJsonArray list = r.value("reagents").toArray();
+        for (int i = 0; i < list.size(); ++i) {
+            QJsonObject o = list[i].toObject();
+            if (o.value("id") == "sodium-acetate") o.insert("name", "Sodium acetate, anhydrous (renamed upstream)");
+            if (o.value("id") == "acetic-acid") o.insert("name", "Acetic acid, glacial (renamed upstream)");
+            list[i] = o;
+        }
+        r.insert("reagents", list);
+        QFile f(data.filePath("reagents.json"));
+        QVERIFY(f.open(QIODevice::WriteOnly | QIODevice::Truncate));
+        f.write(QJsonDocument(r).toJson());
+        f.close();
+        auto ws = open_workspace(db, data.path());
+        QCOMPARE(QString::fromStdString(ws->data().reagents.reagent("sodium-acetate").name),
+                 QString("Sodium acetate (lab bottle 3)"));
+        QCOMPARE(QString::fromStdString(ws->data().reagents.reagent("acetic-acid").name),
+                 QString("Acetic acid, glacial (renamed upstream)"));
+    }
+
+    void saved_work_and_autosave_survive_reopen() {
+        const QString db = fresh_db();
+        QJsonObject edited_plan;
+        {
+            auto ws = open_workspace(db);
+            Plan plan;
+            plan.setRestore(true);
+            plan.setWorkspace(ws.get());
+            LinesModel lines;
+            lines.setPlan(&plan);
+            lines.setBottleMl("B", 750);
+            plan.setStart("2026-12-03T19:15:00");
+            edited_plan = plan.json();
+            QCOMPARE(plan.saveAs("Thursday night"), QString());
+            SavedWorkModel saved;
+            saved.setWorkspace(ws.get());
+            saved.setKind("sequence");
+            QCOMPARE(saved.count(), 2); // the demo and Thursday
+            saved.setSearch("thursday");
+            QCOMPARE(saved.count(), 1);
+            QCOMPARE(QJsonObject::fromVariantMap(saved.load("sequence", "Thursday night")), edited_plan);
+
+            BufferDesigner d;
+            d.setWorkspace(ws.get());
+            d.setAutosaveKey("current_buffer");
+            d.setLineLetter("");
+            d.setTargetPh(5.55);
+            d.flushAutosave();
+            plan.setStart("2026-12-03T19:30:00"); // an edit after the save: autosaved, not saved
+            edited_plan = plan.json();
+        } // destructors flush the autosaves, as closing the app does
+        auto ws = open_workspace(db);
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        QCOMPARE(plan.json(), edited_plan);
+        QCOMPARE(plan.name(), QString("Thursday night"));
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setAutosaveKey("current_buffer");
+        QCOMPARE(d.lineLetter(), QString());
+        QCOMPARE(d.targetPh(), 5.55);
+        SavedWorkModel saved;
+        saved.setWorkspace(ws.get());
+        QVERIFY(saved.remove("sequence", "Thursday night"));
+        saved.setKind("sequence");
+        QCOMPARE(saved.count(), 1);
+    }
+};
+
+QTEST_MAIN(TestGuiModels)
+#include "tst_gui_models.moc"
