@@ -30,6 +30,17 @@ ApplicationWindow {
     title: qsTr("PhasePlan: %1").arg(plan.name)
     color: Theme.window
     font.pixelSize: Theme.fontSize
+    // Every control takes its colours from the system palette (light or dark) through here.
+    palette.window: Theme.window
+    palette.windowText: Theme.text
+    palette.base: Theme.field
+    palette.alternateBase: Theme.window
+    palette.text: Theme.text
+    palette.button: Theme.button
+    palette.buttonText: Theme.buttonText
+    palette.highlight: Theme.accent
+    palette.highlightedText: Theme.accentText
+    palette.placeholderText: Theme.placeholder
 
     Plan {
         id: plan

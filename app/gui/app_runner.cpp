@@ -9,6 +9,7 @@
 #include <QEventLoop>
 #include <QImage>
 #include <QMutex>
+#include <QPalette>
 #include <QQmlApplicationEngine>
 #include <QQuickStyle>
 #include <QQuickWindow>
@@ -145,6 +146,34 @@ int measure(QQuickWindow* win, double startup_ms) {
     return 0;
 }
 
+// What a dark system theme hands the app: the views take every colour from the palette.
+QPalette dark_palette() {
+    QPalette p;
+    const QColor window(0x2b, 0x2d, 0x30), base(0x1e, 0x1f, 0x22), text(0xe8, 0xe8, 0xe8);
+    const QColor button(0x3a, 0x3c, 0x40), highlight(0x3d, 0x8e, 0xd8), dim(0x80, 0x80, 0x80);
+    for (QPalette::ColorGroup g : {QPalette::Active, QPalette::Inactive}) {
+        p.setColor(g, QPalette::Window, window);
+        p.setColor(g, QPalette::WindowText, text);
+        p.setColor(g, QPalette::Base, base);
+        p.setColor(g, QPalette::AlternateBase, window);
+        p.setColor(g, QPalette::Text, text);
+        p.setColor(g, QPalette::Button, button);
+        p.setColor(g, QPalette::ButtonText, text);
+        p.setColor(g, QPalette::Highlight, highlight);
+        p.setColor(g, QPalette::HighlightedText, Qt::white);
+        p.setColor(g, QPalette::PlaceholderText, dim);
+        p.setColor(g, QPalette::ToolTipBase, base);
+        p.setColor(g, QPalette::ToolTipText, text);
+    }
+    p.setColor(QPalette::Disabled, QPalette::WindowText, dim);
+    p.setColor(QPalette::Disabled, QPalette::Text, dim);
+    p.setColor(QPalette::Disabled, QPalette::ButtonText, dim);
+    p.setColor(QPalette::Disabled, QPalette::Window, window);
+    p.setColor(QPalette::Disabled, QPalette::Base, base);
+    p.setColor(QPalette::Disabled, QPalette::Button, button);
+    return p;
+}
+
 } // namespace
 
 void start_clock() { clock().start(); }
@@ -177,8 +206,11 @@ int run_app(QApplication& app) {
                                     QStringLiteral("Load and render every screen, exit 1 on any QML warning."));
     QCommandLineOption measure_opt(QStringLiteral("measure"),
                                    QStringLiteral("Print start-up and recompute+redraw times, then exit."));
-    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt});
+    QCommandLineOption dark_opt(QStringLiteral("dark"),
+                                QStringLiteral("Use a dark palette, as a dark system theme gives (for checking)."));
+    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt});
     parser.process(app);
+    if (parser.isSet(dark_opt)) QApplication::setPalette(dark_palette());
 
     const bool checking = parser.isSet(screenshot_opt) || parser.isSet(selftest_opt) || parser.isSet(measure_opt);
     if (checking) previous_handler = qInstallMessageHandler(counting_handler);

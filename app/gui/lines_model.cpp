@@ -188,11 +188,7 @@ void LinesModel::recompute() {
                 c.uv_cutoff_nm = out.value("uv_cutoff_nm").toDouble();
                 for (const QJsonValue& v : out.value("buffer").toObject().value("items").toArray()) {
                     const QJsonObject bi = v.toObject();
-                    QString amount;
-                    if (bi.contains("mass_g")) amount = mass_text(bi.value("mass_g").toDouble());
-                    if (bi.contains("volume_ml"))
-                        amount = amount.isEmpty() ? volume_text(bi.value("volume_ml").toDouble())
-                                                  : volume_text(bi.value("volume_ml").toDouble()) + " (" + amount + ")";
+                    const QString amount = amount_text(bi);
                     c.buffer_items.append(QVariantMap{{"name", ws->displayName(bi.value("reagent").toString())},
                                                       {"amount", amount}});
                 }

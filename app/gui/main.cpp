@@ -5,6 +5,7 @@
 //                                                status 1 on any QML warning or error
 //   phaseplan --self-test                        the same without writing files
 //   phaseplan --measure                          print start-up and recompute+redraw times
+//   phaseplan --dark                             a dark palette, as a dark system theme gives
 // --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
 #include "app_runner.h"
 

@@ -47,6 +47,11 @@ inline double elapsed_ms(const QElapsedTimer& t) { return t.nsecsElapsed() / 1e6
 /// call, so a redraw does not go point by point through JavaScript. Ignores anything else.
 void replace_series(QObject* series, const QList<QPointF>& points);
 
+/// What to weigh or pipette, as shown: "2.975 g", or for a liquid "1.262 mL (2.126 g)", with the
+/// decimals a lab balance or pipette reads, in the user's locale. @param item a recipe item
+/// ({mass_g?, volume_ml?, as}) of the command-line contract.
+QString amount_text(const QJsonObject& item);
+
 /// "2026-12-01T18:00:00" → "Tue 18:00" style for the screens; the input when it does not parse.
 QString short_clock(const QString& iso);
 

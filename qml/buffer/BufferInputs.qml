@@ -46,6 +46,7 @@ ColumnLayout {
             Layout.fillWidth: true
             label: qsTr("Name")
             value: root.designer.name
+            placeholder: qsTr("e.g. phosphate pH 2.5, 20 mM")
             onEdited: function(text) { root.designer.name = text }
         }
     }

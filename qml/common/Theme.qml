@@ -25,12 +25,18 @@ QtObject {
     readonly property bool dark: palette.window.hslLightness < 0.5
 
     readonly property color window: palette.window
-    readonly property color card: palette.base
+    /// Panels: halfway between the window and the input fields, so a field stands out on its card
+    /// in a light and in a dark palette.
+    readonly property color card: Qt.tint(palette.window, Qt.rgba(palette.base.r, palette.base.g, palette.base.b, 0.5))
+    readonly property color field: palette.base
     readonly property color text: palette.windowText
     readonly property color dimText: Qt.rgba(text.r, text.g, text.b, 0.68)
     readonly property color line: Qt.rgba(text.r, text.g, text.b, 0.18)
     readonly property color accent: palette.highlight
     readonly property color accentText: palette.highlightedText
+    readonly property color button: palette.button
+    readonly property color buttonText: palette.buttonText
+    readonly property color placeholder: palette.placeholderText
 
     // Severity colours, readable on the card colour in both palettes.
     readonly property color bad: dark ? "#ff8a80" : "#b3261e"
