@@ -1,0 +1,261 @@
+#pragma once
+// The batch at the bench: "mark as prepared" on the current buffer (or a line) creates a batch in
+// the lab's database (storage::BatchStore), the preparer enters what was actually weighed or
+// measured and the lots, and the model recomputes the solution as made (chem::evaluate_batch,
+// through print::build_print_job, so the screen shows exactly what the sheet will print). It saves
+// the recipe sheet and the labels as PDF or prints them (print::PrintController) and records each
+// print; after that, a change is refused by the store until it is recorded as an amendment with a
+// reason.
+//
+// Every edit is stored at once (one transaction, one history row per changed field) when the
+// batch has not been printed. A lot number without an amount stays on the screen only: the batch
+// contract has no entry without mass_g or volume_ml.
+//
+// Errors: chem::Error caught here (guarded) and shown beside the field it names: errorField is the
+// JSON path of the batch contract ("batch.actual[1].mass_g", "batch.prepared_at", "reason", …).
+#include "model_util.h"
+#include "storage/batch_store.h"
+
+#include <QAbstractListModel>
+#include <QPointer>
+#include <QQmlEngine>
+#include <QVariantList>
+#include <QVariantMap>
+
+#include <map>
+#include <memory>
+#include <optional>
+#include <vector>
+
+Q_MOC_INCLUDE("workspace.h")
+
+namespace phaseplan::print {
+class PrintController;
+}
+
+namespace phaseplan::gui {
+
+class Workspace;
+
+class BatchModel : public QAbstractListModel {
+    Q_OBJECT
+    QML_ELEMENT
+    // ---- dependencies -----------------------------------------------------------------------
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    /// Who is at the bench: prepared_by of a new batch and "who" of every history row.
+    Q_PROPERTY(QString preparer READ preparer WRITE setPreparer NOTIFY preparerChanged)
+    /// Prefix of proposed batch ids ("<prefix>-YYYYMMDD-NNN").
+    Q_PROPERTY(QString idPrefix READ idPrefix WRITE setIdPrefix NOTIFY preparerChanged)
+    /// Folder for saved PDFs; defaults to the Documents location.
+    Q_PROPERTY(QString outputDir READ outputDir WRITE setOutputDir NOTIFY outputDirChanged)
+
+    // ---- the open batch ----------------------------------------------------------------------
+    /// True once a batch is open (created or loaded).
+    Q_PROPERTY(bool active READ active NOTIFY batchChanged)
+    Q_PROPERTY(QString batchId READ batchId NOTIFY batchChanged)
+    /// "recipe", "line" or "sequence".
+    Q_PROPERTY(QString documentKind READ documentKind NOTIFY batchChanged)
+    /// The recipe's title as the sheet prints it.
+    Q_PROPERTY(QString title READ title NOTIFY resultChanged)
+    Q_PROPERTY(QString preparedBy READ preparedBy WRITE setPreparedBy NOTIFY batchChanged)
+    /// ISO 8601 local ("2026-12-01T16:30:00").
+    Q_PROPERTY(QString preparedAt READ preparedAt WRITE setPreparedAt NOTIFY batchChanged)
+    /// ISO 8601 local; set from the shelf-life default when the batch is created, editable.
+    Q_PROPERTY(QString expiresAt READ expiresAt WRITE setExpiresAt NOTIFY batchChanged)
+    Q_PROPERTY(QString checkedBy READ checkedBy WRITE setCheckedBy NOTIFY batchChanged)
+    /// ± tolerance of each amount in percent (default 2).
+    Q_PROPERTY(double tolerancePercent READ tolerancePercent WRITE setTolerancePercent NOTIFY batchChanged)
+    /// Shelf life applied to the expiry, hours (from data/solvents.json "shelf_life").
+    Q_PROPERTY(double shelfLifeH READ shelfLifeH NOTIFY resultChanged)
+    /// Printed (sheet or labels, PDF or printer) at least once: changes need an amendment.
+    Q_PROPERTY(bool printed READ printed NOTIFY batchChanged)
+    Q_PROPERTY(int revision READ revision NOTIFY batchChanged)
+    /// A change refused by the store (printed batch) waits here for an amendment with a reason.
+    Q_PROPERTY(bool pendingAmendment READ pendingAmendment NOTIFY batchChanged)
+    /// Why the pending change is made (required by the store for an amendment).
+    Q_PROPERTY(QString amendReason READ amendReason WRITE setAmendReason NOTIFY amendReasonChanged)
+
+    // ---- the solution as made (from the core) -------------------------------------------------
+    Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
+    Q_PROPERTY(double targetPh READ targetPh NOTIFY resultChanged)
+    /// pH predicted from the actual amounts.
+    Q_PROPERTY(double predictedPh READ predictedPh NOTIFY resultChanged)
+    Q_PROPERTY(double ionicStrengthMmolPerL READ ionicStrengthMmolPerL NOTIFY resultChanged)
+    /// β in mmol/L per pH unit.
+    Q_PROPERTY(double bufferCapacityMmolPerL READ bufferCapacityMmolPerL NOTIFY resultChanged)
+    /// Amounts outside their tolerance band.
+    Q_PROPERTY(int flaggedCount READ flaggedCount NOTIFY resultChanged)
+    /// Amounts not entered yet.
+    Q_PROPERTY(int missingCount READ missingCount NOTIFY resultChanged)
+    /// [{reagent, name, mmolPerL}] as made.
+    Q_PROPERTY(QVariantList composition READ composition NOTIFY resultChanged)
+    /// [{code, severity, message}] of the recipe and the batch.
+    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
+
+    // ---- record and print ---------------------------------------------------------------------
+    /// [{seq, at, who, action, field, oldValue, newValue, reason}], oldest first.
+    Q_PROPERTY(QVariantList history READ history NOTIFY batchChanged)
+    /// Every batch in the database, newest first.
+    Q_PROPERTY(QStringList batchIds READ batchIds NOTIFY batchListChanged)
+    /// Path of the last PDF written, "" before.
+    Q_PROPERTY(QString lastSavedPath READ lastSavedPath NOTIFY lastSavedPathChanged)
+    Q_PROPERTY(QStringList printers READ printers CONSTANT)
+
+    Q_PROPERTY(QString errorField READ errorField NOTIFY errorChanged)
+    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
+
+public:
+    enum Role {
+        ReagentRole = Qt::UserRole + 1, ///< reagent (or part) id
+        NameRole,
+        UnitRole,          ///< "g" or "mL"
+        TargetRole,        ///< in unit
+        LowRole,           ///< lower end of the band, in unit
+        HighRole,          ///< upper end of the band, in unit
+        EnteredRole,
+        ActualRole,        ///< in unit; NaN when not entered
+        DeviationPercentRole,
+        WithinToleranceRole,
+        LotRole,
+        ErrorRole,         ///< the core's message for this row's amount or lot, "" when none
+    };
+    Q_ENUM(Role)
+
+    explicit BatchModel(QObject* parent = nullptr);
+    ~BatchModel() override;
+
+    Workspace* workspace() const { return workspace_; }
+    void setWorkspace(Workspace* w);
+    QString preparer() const { return preparer_; }
+    void setPreparer(const QString& p);
+    QString idPrefix() const { return id_prefix_; }
+    void setIdPrefix(const QString& p);
+    QString outputDir() const { return output_dir_; }
+    void setOutputDir(const QString& d);
+
+    bool active() const { return draft_.has_value(); }
+    QString batchId() const { return draft_ ? draft_->id : QString(); }
+    QString documentKind() const { return draft_ ? draft_->document_kind : QString(); }
+    QString title() const { return title_; }
+    QString preparedBy() const { return draft_ ? draft_->prepared_by : QString(); }
+    void setPreparedBy(const QString& v);
+    QString preparedAt() const { return draft_ ? draft_->prepared_at : QString(); }
+    void setPreparedAt(const QString& v);
+    QString expiresAt() const { return draft_ ? draft_->expires_at : QString(); }
+    void setExpiresAt(const QString& v);
+    QString checkedBy() const { return draft_ ? draft_->checked_by : QString(); }
+    void setCheckedBy(const QString& v);
+    double tolerancePercent() const { return draft_ ? draft_->tolerance_percent : 2; }
+    void setTolerancePercent(double v);
+    double shelfLifeH() const { return shelf_life_h_; }
+    bool printed() const { return stored_ && stored_->printed(); }
+    int revision() const { return stored_ ? stored_->revision : 0; }
+    bool pendingAmendment() const { return pending_; }
+    QString amendReason() const { return amend_reason_; }
+    void setAmendReason(const QString& r);
+
+    bool valid() const { return valid_; }
+    double targetPh() const { return target_ph_; }
+    double predictedPh() const { return predicted_ph_; }
+    double ionicStrengthMmolPerL() const { return ionic_strength_mmol_per_l_; }
+    double bufferCapacityMmolPerL() const { return buffer_capacity_mmol_per_l_; }
+    int flaggedCount() const;
+    int missingCount() const;
+    QVariantList composition() const { return composition_; }
+    QVariantList warnings() const { return warnings_; }
+    QVariantList history() const { return history_; }
+    QStringList batchIds() const;
+    QString lastSavedPath() const { return last_saved_path_; }
+    QStringList printers() const;
+    QString errorField() const { return error_.field; }
+    QString errorMessage() const { return error_.message; }
+
+    int rowCount(const QModelIndex& parent = {}) const override;
+    QVariant data(const QModelIndex& index, int role) const override;
+    QHash<int, QByteArray> roleNames() const override;
+
+    /// Creates a batch from a contract document (a `recipe` input — BufferDesigner::document() —
+    /// or a line): a proposed id, the preparer, prepared now, the expiry from the shelf-life
+    /// default. True on success; false with errorField/errorMessage set.
+    Q_INVOKABLE bool markPrepared(const QVariantMap& document);
+    /// Opens a stored batch. False (error "batch.id") when unknown.
+    Q_INVOKABLE bool open(const QString& id);
+    /// Closes the batch on the screen (nothing is lost: every accepted change is stored).
+    Q_INVOKABLE void close();
+
+    /// The amount actually weighed or measured for `row`, in the row's unit; NaN clears it.
+    Q_INVOKABLE bool setActual(int row, double amount);
+    /// The lot of `row`'s reagent.
+    Q_INVOKABLE bool setLot(int row, const QString& lot);
+    /// Records the pending change as an amendment with amendReason. False (error "reason") when
+    /// the reason is empty.
+    Q_INVOKABLE bool amend();
+    /// Drops the pending change and shows the stored batch again.
+    Q_INVOKABLE void discardPending();
+
+    /// Where a PDF goes when no path is given: <outputDir>/<batch id>-<what>.pdf.
+    Q_INVOKABLE QString defaultPath(const QString& what) const;
+    /// Saves the recipe sheet (paper "a4" | "letter") as a PDF; path "" = defaultPath("sheet").
+    /// Records the print in the batch's history.
+    Q_INVOKABLE bool saveSheet(const QString& path = {}, const QString& paper = QStringLiteral("a4"));
+    /// Saves the labels (paper "a4" | "letter" | "label62"); path "" = defaultPath("labels").
+    Q_INVOKABLE bool saveLabels(const QString& path = {}, const QString& paper = QStringLiteral("a4"));
+    /// Prints through QPrinter ("" = the default printer).
+    Q_INVOKABLE bool printSheet(const QString& printer = {}, const QString& paper = QStringLiteral("a4"));
+    Q_INVOKABLE bool printLabels(const QString& printer = {}, const QString& paper = QStringLiteral("label62"));
+
+    /// The batch as the `sheet` / `labels` input (tests, the CLI's contract).
+    Q_INVOKABLE QVariantMap input() const;
+
+signals:
+    void workspaceChanged();
+    void preparerChanged();
+    void outputDirChanged();
+    void batchChanged();
+    void amendReasonChanged();
+    void resultChanged();
+    void batchListChanged();
+    void lastSavedPathChanged();
+    void errorChanged();
+
+private:
+    struct Row {
+        QString reagent, name, unit;
+        double target = 0, low = 0, high = 0, actual = 0, deviation_percent = 0;
+        bool entered = false, within = true;
+    };
+    std::unique_ptr<storage::BatchStore> store() const;
+    /// Runs the core on `rec`; on success takes its rows and results.
+    FieldError evaluate(const storage::BatchRecord& rec);
+    /// Evaluates `next`, then stores it (edit) or, on a printed batch, keeps it pending and shows
+    /// the store's refusal at `field`.
+    bool apply(const QString& field, const storage::BatchRecord& next);
+    void reload(const QString& id);
+    void set_error(const FieldError& e);
+    QString who() const;
+    bool after_print(bool ok, const QString& what);
+    bool ready_to_print();
+    int actual_index(const QString& reagent) const;
+
+    QPointer<Workspace> workspace_;
+    std::unique_ptr<print::PrintController> printer_;
+    QString preparer_;
+    QString id_prefix_ = QStringLiteral("B");
+    QString output_dir_;
+    std::optional<storage::BatchRecord> draft_;   ///< what the screen shows (may be pending)
+    std::optional<storage::BatchRecord> stored_;  ///< what the database holds
+    bool pending_ = false;
+    QString amend_reason_;
+    std::map<QString, QString> lots_;             ///< lots by reagent, including those without an amount
+
+    std::vector<Row> rows_;
+    bool valid_ = false;
+    QString title_;
+    double shelf_life_h_ = 0;
+    double target_ph_ = 0, predicted_ph_ = 0, ionic_strength_mmol_per_l_ = 0, buffer_capacity_mmol_per_l_ = 0;
+    QVariantList composition_, warnings_, history_;
+    QString last_saved_path_;
+    FieldError error_;
+};
+
+} // namespace phaseplan::gui
