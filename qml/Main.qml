@@ -68,6 +68,13 @@ ApplicationWindow {
         designer: designer
     }
 
+    // Reopening shows the screen that was open.
+    Component.onCompleted: {
+        var last = workspace.setting("screen")
+        if (last !== undefined && screenKeys.indexOf(last) >= 0)
+            currentScreen = screenKeys.indexOf(last)
+    }
+    onCurrentScreenChanged: workspace.setSetting("screen", screenKeys[currentScreen])
     onClosing: {
         plan.flushAutosave()
         designer.flushAutosave()

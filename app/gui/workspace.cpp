@@ -101,6 +101,21 @@ std::vector<storage::LibraryEntry> Workspace::entries(const QString& kind) const
     return db_->merged_entries(kind);
 }
 
+QVariant Workspace::setting(const QString& key) const {
+    if (!db_) return {};
+    const QJsonValue v = db_->setting(key);
+    return v.isNull() ? QVariant() : v.toVariant();
+}
+
+void Workspace::setSetting(const QString& key, const QVariant& value) {
+    if (!db_) return;
+    try {
+        db_->set_setting(key, QJsonValue::fromVariant(value));
+    } catch (const chem::Error& e) {
+        qWarning("PhasePlan: %s", e.what());
+    }
+}
+
 QString Workspace::displayName(const QString& id) const {
     if (const chem::Reagent* r = data_.reagents.find_reagent(id.toStdString()))
         return QString::fromStdString(r->name);

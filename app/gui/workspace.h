@@ -66,6 +66,9 @@ public:
     std::vector<storage::LibraryEntry> entries(const QString& kind) const;
     /// Display name of a reagent, solvent or additive id (the id itself when unknown).
     Q_INVOKABLE QString displayName(const QString& id) const;
+    /// A setting of the app kept in the database (the screen last shown, …); undefined when unset.
+    Q_INVOKABLE QVariant setting(const QString& key) const;
+    Q_INVOKABLE void setSetting(const QString& key, const QVariant& value);
     /// Tell the saved-work list that something was saved or removed.
     void notifySaved() { emit savedChanged(); }
 
