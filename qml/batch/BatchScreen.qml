@@ -1,0 +1,328 @@
+import QtQuick
+import QtQuick.Controls
+import QtQuick.Layouts
+import PhasePlan
+
+// Prepare & record: mark the current buffer as prepared (a batch with its own id), enter what was
+// actually weighed or measured and the lots, see the solution as made, save or print the sheet and
+// the labels. Every number comes from the batch model (the core); this view lays them out.
+ScreenPage {
+    id: root
+
+    /// The batch model (BatchModel).
+    required property BatchModel batch
+    /// The buffer designer whose recipe "Mark as prepared" takes.
+    property BufferDesigner designer
+
+    title: qsTr("Prepare & record")
+
+    /// The model's message when it names `field`, else "".
+    function errorFor(field) {
+        return root.batch.errorField === field ? root.batch.errorMessage : ""
+    }
+    readonly property var fieldsShownInline: ["batch.prepared_by", "batch.prepared_at", "batch.expires_at",
+                                              "batch.checked_by", "batch.tolerance_percent", "reason"]
+    readonly property string otherError: root.batch.errorMessage.length > 0
+                                         && fieldsShownInline.indexOf(root.batch.errorField) < 0
+                                         && root.batch.errorField.indexOf("batch.actual[") !== 0
+                                         ? root.batch.errorMessage : ""
+    function ph(v) {
+        return isNaN(v) ? "–" : Number(v).toLocaleString(Qt.locale(), "f", 2)
+    }
+    function mmol(v) {
+        return isNaN(v) ? "–" : Number(v).toLocaleString(Qt.locale(), "f", 2)
+    }
+
+    ColumnLayout {
+        width: root.contentWidth
+        spacing: Theme.margin
+
+        Label {
+            objectName: "batchError"
+            Layout.fillWidth: true
+            visible: root.otherError.length > 0
+            text: root.otherError
+            color: Theme.bad
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.fontSize
+        }
+
+        // ---- start a batch ----------------------------------------------------------------
+        Card {
+            objectName: "startCard"
+            Layout.fillWidth: true
+            visible: !root.batch.active
+            title: qsTr("Start a batch")
+            Label {
+                Layout.fillWidth: true
+                wrapMode: Text.Wrap
+                text: root.designer && root.designer.valid
+                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name : qsTr("(unnamed)"))
+                      : qsTr("The buffer designer has no valid recipe yet.")
+                font.pixelSize: Theme.fontSize
+            }
+            TextEntry {
+                objectName: "preparerField"
+                Layout.fillWidth: true
+                label: qsTr("Prepared by")
+                placeholder: qsTr("your name")
+                value: root.batch.preparer
+                error: root.errorFor("batch.prepared_by")
+                onEdited: function(text) { root.batch.preparer = text }
+            }
+            TouchButton {
+                objectName: "markPreparedButton"
+                text: qsTr("Mark as prepared")
+                enabled: root.designer !== null && root.designer.valid
+                onClicked: root.batch.markPrepared(root.designer.document())
+            }
+            Label {
+                Layout.fillWidth: true
+                visible: root.batch.batchIds.length > 0
+                text: qsTr("Or open a recorded batch:")
+                color: Theme.dimText
+                font.pixelSize: Theme.smallFont
+            }
+            Flow {
+                Layout.fillWidth: true
+                spacing: Theme.gap
+                Repeater {
+                    model: root.batch.batchIds.slice(0, 8)
+                    delegate: TouchButton {
+                        required property string modelData
+                        text: modelData
+                        onClicked: root.batch.open(modelData)
+                    }
+                }
+            }
+        }
+
+        // ---- the open batch ---------------------------------------------------------------
+        GridLayout {
+            Layout.fillWidth: true
+            visible: root.batch.active
+            columns: root.inPortrait ? 1 : 2
+            columnSpacing: Theme.margin
+            rowSpacing: Theme.margin
+
+            ColumnLayout {
+                Layout.fillWidth: true
+                Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.56
+                Layout.alignment: Qt.AlignTop
+                spacing: Theme.margin
+
+                Card {
+                    objectName: "batchCard"
+                    Layout.fillWidth: true
+                    title: qsTr("Batch %1").arg(root.batch.batchId)
+                    note: qsTr("revision %1").arg(root.batch.revision)
+                    Label {
+                        Layout.fillWidth: true
+                        text: root.batch.title
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.fontSize
+                    }
+                    GridLayout {
+                        Layout.fillWidth: true
+                        columns: Theme.columnsFor(width, 2)
+                        columnSpacing: Theme.margin
+                        rowSpacing: Theme.gap
+                        TextEntry {
+                            id: preparedByEntry
+                            Layout.fillWidth: true
+                            label: qsTr("Prepared by")
+                            value: root.batch.preparedBy
+                            error: root.errorFor("batch.prepared_by")
+                            Connections {
+                                target: preparedByEntry.field
+                                function onEditingFinished() { root.batch.preparedBy = preparedByEntry.field.text }
+                            }
+                        }
+                        TextEntry {
+                            id: checkedByEntry
+                            Layout.fillWidth: true
+                            label: qsTr("Checked by")
+                            value: root.batch.checkedBy
+                            placeholder: qsTr("second person")
+                            error: root.errorFor("batch.checked_by")
+                            Connections {
+                                target: checkedByEntry.field
+                                function onEditingFinished() { root.batch.checkedBy = checkedByEntry.field.text }
+                            }
+                        }
+                        TextEntry {
+                            id: preparedAtEntry
+                            objectName: "preparedAtField"
+                            Layout.fillWidth: true
+                            label: qsTr("Prepared at (YYYY-MM-DDTHH:MM)")
+                            value: root.batch.preparedAt
+                            error: root.errorFor("batch.prepared_at")
+                            Connections {
+                                target: preparedAtEntry.field
+                                function onEditingFinished() { root.batch.preparedAt = preparedAtEntry.field.text }
+                            }
+                        }
+                        TextEntry {
+                            id: expiresAtEntry
+                            objectName: "expiresAtField"
+                            Layout.fillWidth: true
+                            label: qsTr("Expires at (default: %n h shelf life)", "", Math.round(root.batch.shelfLifeH))
+                            value: root.batch.expiresAt
+                            error: root.errorFor("batch.expires_at")
+                            Connections {
+                                target: expiresAtEntry.field
+                                function onEditingFinished() { root.batch.expiresAt = expiresAtEntry.field.text }
+                            }
+                        }
+                    }
+                    NumberField {
+                        objectName: "toleranceField"
+                        Layout.fillWidth: true
+                        label: qsTr("Tolerance of each amount")
+                        unit: "± %"
+                        value: root.batch.tolerancePercent
+                        step: 0.5
+                        from: 0.1
+                        to: 50
+                        decimals: 1
+                        error: root.errorFor("batch.tolerance_percent")
+                        onEdited: function(v) { root.batch.tolerancePercent = v }
+                    }
+                }
+
+                Card {
+                    objectName: "amountsCard"
+                    Layout.fillWidth: true
+                    title: qsTr("Actual amounts and lots")
+                    note: root.batch.flaggedCount > 0 ? qsTr("⚠ %n outside band", "", root.batch.flaggedCount)
+                          : (root.batch.missingCount > 0 ? qsTr("%n to enter", "", root.batch.missingCount) : qsTr("✓ all within band"))
+                    noteColour: root.batch.flaggedCount > 0 ? Theme.bad : (root.batch.missingCount > 0 ? Theme.dimText : Theme.good)
+                    Repeater {
+                        model: root.batch
+                        delegate: AmountRow {
+                            Layout.fillWidth: true
+                            batch: root.batch
+                            narrow: root.inPortrait ? root.contentWidth < Theme.tap * 14 : true
+                        }
+                    }
+                }
+
+                Card {
+                    objectName: "amendCard"
+                    Layout.fillWidth: true
+                    visible: root.batch.pendingAmendment || root.errorFor("reason").length > 0
+                    title: qsTr("Amendment")
+                    Label {
+                        Layout.fillWidth: true
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.fontSize
+                        text: qsTr("This batch has been printed: the change is recorded as an amendment, with a reason.")
+                    }
+                    TextEntry {
+                        objectName: "reasonField"
+                        Layout.fillWidth: true
+                        label: qsTr("Reason")
+                        placeholder: qsTr("why the record changes")
+                        value: root.batch.amendReason
+                        error: root.errorFor("reason")
+                        onEdited: function(text) { root.batch.amendReason = text }
+                    }
+                    Flow {
+                        Layout.fillWidth: true
+                        spacing: Theme.gap
+                        TouchButton {
+                            objectName: "amendButton"
+                            text: qsTr("Record amendment")
+                            enabled: root.batch.pendingAmendment
+                            onClicked: root.batch.amend()
+                        }
+                        TouchButton {
+                            text: qsTr("Discard change")
+                            enabled: root.batch.pendingAmendment
+                            onClicked: root.batch.discardPending()
+                        }
+                    }
+                }
+            }
+
+            ColumnLayout {
+                Layout.fillWidth: true
+                Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.44
+                Layout.alignment: Qt.AlignTop
+                spacing: Theme.margin
+
+                Card {
+                    objectName: "asMadeCard"
+                    Layout.fillWidth: true
+                    title: qsTr("As made")
+                    note: isNaN(root.batch.targetPh) ? "" : qsTr("target pH %1").arg(root.ph(root.batch.targetPh))
+                    RowLayout {
+                        Layout.fillWidth: true
+                        spacing: Theme.margin
+                        Label {
+                            text: qsTr("pH")
+                            font.pixelSize: Theme.largeFont
+                        }
+                        Label {
+                            objectName: "asMadePh"
+                            text: root.batch.valid ? root.ph(root.batch.predictedPh) : "–"
+                            font.pixelSize: Theme.hugeFont
+                            font.bold: true
+                        }
+                        Item { Layout.fillWidth: true }
+                    }
+                    Label {
+                        Layout.fillWidth: true
+                        visible: root.batch.valid && !isNaN(root.batch.ionicStrengthMmolPerL)
+                        text: qsTr("Ionic strength %1 mmol/L · β %2 mmol/L per pH")
+                              .arg(root.mmol(root.batch.ionicStrengthMmolPerL)).arg(root.mmol(root.batch.bufferCapacityMmolPerL))
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.fontSize
+                    }
+                    Repeater {
+                        model: root.batch.composition
+                        delegate: Label {
+                            required property var modelData
+                            Layout.fillWidth: true
+                            text: qsTr("%1: %2 mmol/L").arg(modelData.name).arg(root.mmol(modelData.mmolPerL))
+                            wrapMode: Text.Wrap
+                            color: Theme.dimText
+                            font.pixelSize: Theme.smallFont
+                        }
+                    }
+                    Repeater {
+                        model: root.batch.warnings
+                        delegate: WarningRow {
+                            required property var modelData
+                            Layout.fillWidth: true
+                            severity: modelData.severity
+                            message: modelData.message
+                        }
+                    }
+                }
+
+                PrintCard {
+                    objectName: "printCard"
+                    Layout.fillWidth: true
+                    batch: root.batch
+                }
+
+                Card {
+                    objectName: "historyCard"
+                    Layout.fillWidth: true
+                    title: qsTr("Record")
+                    note: qsTr("%n change(s)", "", root.batch.history.length)
+                    HistoryList {
+                        Layout.fillWidth: true
+                        entries: root.batch.history
+                        shown: 8
+                    }
+                    TouchButton {
+                        text: qsTr("Close batch")
+                        onClicked: root.batch.close()
+                    }
+                }
+            }
+        }
+    }
+}

@@ -1,0 +1,123 @@
+import QtQuick
+import QtTest
+import PhasePlan
+
+// The prepare-and-record screen over the real models and data: "Mark as prepared" opens a batch
+// from the buffer designer's recipe; an amount typed 5 % over its target is flagged at its row
+// (the ± 2 % default band of issue 5); a name left empty is refused at the name field; every
+// control is a touch target of at least 9 mm.
+TestCase {
+    id: tc
+    name: "BatchScreen"
+    when: windowShown
+    visible: true
+    width: 1280
+    height: 800
+
+    Component {
+        id: screenComponent
+        Item {
+            property alias batch: batchModel
+            property alias designer: designerModel
+            property alias screen: page
+            width: tc.width
+            height: tc.height
+            Workspace {
+                id: ws
+                databasePath: testDir + "/batch-screen-" + Date.now() + ".sqlite"
+                dataDir: dataDir
+            }
+            BufferDesigner {
+                id: designerModel
+                workspace: ws
+            }
+            BatchModel {
+                id: batchModel
+                workspace: ws
+                outputDir: testDir
+            }
+            BatchScreen {
+                id: page
+                anchors.fill: parent
+                batch: batchModel
+                designer: designerModel
+            }
+        }
+    }
+
+    function findAll(item, name, out) {
+        if (item.objectName === name)
+            out.push(item)
+        for (var i = 0; i < item.children.length; ++i)
+            findAll(item.children[i], name, out)
+        return out
+    }
+    function typeInto(field, text) {
+        field.forceActiveFocus()
+        field.selectAll()
+        keyClick(Qt.Key_Backspace)
+        for (var i = 0; i < text.length; ++i)
+            keyClick(text[i])
+    }
+
+    function makeScreen() {
+        var s = createTemporaryObject(screenComponent, tc)
+        verify(s !== null)
+        tryCompare(s.designer, "valid", true)
+        return s
+    }
+
+    function test_name_required() {
+        var s = makeScreen()
+        var button = findAll(s, "markPreparedButton", [])[0]
+        mouseClick(button)
+        compare(s.batch.active, false)
+        var field = findAll(s, "preparerField", [])[0]
+        compare(s.batch.errorField, "batch.prepared_by")
+        verify(field.error.length > 0)
+    }
+
+    function test_out_of_band_amount_is_flagged() {
+        var s = makeScreen()
+        typeInto(findAll(s, "preparerField", [])[0].field, "T. Tester")
+        mouseClick(findAll(s, "markPreparedButton", [])[0])
+        tryCompare(s.batch, "active", true)
+        verify(s.batch.batchId.length > 0)
+        wait(50)
+        var fields = findAll(s, "actualField", [])
+        compare(fields.length, s.batch.rowCount())
+        var flags = findAll(s, "flag", [])
+        // Row 0: 5 % over its target, typed as the preparer would.
+        var target = s.batch.data(s.batch.index(0, 0), BatchModel.TargetRole)
+        var over = Math.round(target * 1.05 * 1000) / 1000
+        typeInto(fields[0].field, Number(over).toLocaleString(Qt.locale(), "f", 3))
+        keyClick(Qt.Key_Return)
+        tryCompare(s.batch, "flaggedCount", 1)
+        verify(flags[0].text.indexOf("outside") >= 0, flags[0].text)
+        // Back on target: the flag clears.
+        typeInto(fields[0].field, Number(target).toLocaleString(Qt.locale(), "f", 4))
+        keyClick(Qt.Key_Return)
+        tryCompare(s.batch, "flaggedCount", 0)
+        verify(flags[0].text.indexOf("within") >= 0, flags[0].text)
+    }
+
+    function test_touch_targets() {
+        var s = makeScreen()
+        s.batch.preparer = "T. Tester"
+        verify(s.batch.markPrepared(s.designer.document()))
+        wait(50)
+        var small = []
+        function visit(item) {
+            if (!item.visible)
+                return
+            var isButton = item.hasOwnProperty("pressed") && item.hasOwnProperty("checkable") && item.hasOwnProperty("flat")
+            var isField = item.hasOwnProperty("inputMethodHints") && item.hasOwnProperty("selectByMouse")
+            if ((isButton || isField) && item.height < Theme.tap - 0.5)
+                small.push(item + " " + item.height)
+            for (var i = 0; i < item.children.length; ++i)
+                visit(item.children[i])
+        }
+        visit(s.screen)
+        compare(small.length, 0, "controls below 9 mm: " + small.join(", "))
+    }
+}
