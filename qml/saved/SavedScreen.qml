@@ -154,6 +154,12 @@ ScreenPage {
                             }
                         }
                         // A saved line goes onto the line the user picks.
+                        Label {
+                            visible: entry.kind === "line"
+                            text: qsTr("put on")
+                            color: Theme.dimText
+                            font.pixelSize: Theme.smallFont
+                        }
                         Repeater {
                             model: entry.kind === "line" ? ["A", "B", "C", "D"] : []
                             delegate: TouchButton {
