@@ -13,9 +13,9 @@ ApplicationWindow {
     /// Index into screenKeys of the screen shown.
     property int currentScreen: 0
     /// The screens, by key (the screenshot seam names its files after these).
-    readonly property var screenKeys: ["buffer", "lines", "sequence", "checks", "library", "saved"]
+    readonly property var screenKeys: ["buffer", "lines", "sequence", "checks", "library", "saved", "batch"]
     readonly property var screenNames: [qsTr("Buffer"), qsTr("Lines"), qsTr("Sequence"), qsTr("Checks"),
-                                        qsTr("Library"), qsTr("Saved")]
+                                        qsTr("Library"), qsTr("Saved"), qsTr("Prepare")]
     readonly property bool inPortrait: height > width
 
     function show(key) {
@@ -59,6 +59,11 @@ ApplicationWindow {
         id: linesModel
         objectName: "lines"
         plan: plan
+    }
+    BatchModel {
+        id: batchModel
+        objectName: "batch"
+        workspace: window.workspace
     }
     ChecksModel {
         id: checksModel
@@ -152,6 +157,7 @@ ApplicationWindow {
                 designer: designer
                 plan: plan
                 inPortrait: window.inPortrait
+                onPrepare: window.show("batch")
             }
             LinesScreen {
                 lines: linesModel
@@ -181,6 +187,11 @@ ApplicationWindow {
                 designer: designer
                 inPortrait: window.inPortrait
                 onOpen: function(screen) { window.show(screen) }
+            }
+            BatchScreen {
+                batch: batchModel
+                designer: designer
+                inPortrait: window.inPortrait
             }
         }
 

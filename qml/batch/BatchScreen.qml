@@ -57,7 +57,9 @@ ScreenPage {
                 Layout.fillWidth: true
                 wrapMode: Text.Wrap
                 text: root.designer && root.designer.valid
-                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name : qsTr("(unnamed)"))
+                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name
+                                                                      : (root.designer.lineLetter.length > 0 ? qsTr("line %1's buffer").arg(root.designer.lineLetter)
+                                                                                                             : qsTr("(unnamed)")))
                       : qsTr("The buffer designer has no valid recipe yet.")
                 font.pixelSize: Theme.fontSize
             }

@@ -15,6 +15,9 @@ ScreenPage {
 
     title: qsTr("Buffer designer")
 
+    /// "Prepare & record" was tapped: the app opens the batch screen.
+    signal prepare()
+
     GridLayout {
         width: root.contentWidth
         columns: root.inPortrait ? 1 : 2
@@ -43,6 +46,13 @@ ScreenPage {
             RecipeCard {
                 Layout.fillWidth: true
                 designer: root.designer
+            }
+            TouchButton {
+                objectName: "prepareButton"
+                Layout.alignment: Qt.AlignRight
+                text: qsTr("Prepare && record…")
+                enabled: root.designer.valid
+                onClicked: root.prepare()
             }
             BufferChart {
                 Layout.fillWidth: true
