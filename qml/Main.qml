@@ -59,6 +59,8 @@ ApplicationWindow {
         id: linesModel
         objectName: "lines"
         plan: plan
+        // Hidden cards are brought up to date when the screen shows, not on every edit.
+        viewsActive: window.screenKeys[window.currentScreen] === "lines"
     }
     BatchModel {
         id: batchModel

@@ -328,6 +328,8 @@ void BufferDesigner::recompute() {
         err = guarded([&] { out = command_recipe(workspace_->data(), requestDocument(), {}); });
 
     error_ = err;
+    const QVariantList old_items = items_, old_warnings = warnings_;
+    const QStringList old_steps = steps_, old_cautions = cautions_;
     items_.clear();
     warnings_.clear();
     steps_.clear();
@@ -353,6 +355,10 @@ void BufferDesigner::recompute() {
         beta_curve_.clear();
     }
     last_recompute_ms_ = elapsed_ms(timer);
+    if (items_ != old_items) emit itemsChanged();
+    if (warnings_ != old_warnings) emit warningsChanged();
+    if (steps_ != old_steps) emit stepsChanged();
+    if (cautions_ != old_cautions) emit cautionsChanged();
     emit resultChanged();
 }
 

@@ -74,15 +74,15 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     // ---- results ----------------------------------------------------------------------------
     Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
     /// [{reagent, name, mass_g?, volume_ml?, as, mol_per_l, amount (display text)}]
-    Q_PROPERTY(QVariantList items READ items NOTIFY resultChanged)
+    Q_PROPERTY(QVariantList items READ items NOTIFY itemsChanged)
     Q_PROPERTY(double predictedPh READ predictedPh NOTIFY resultChanged)
     Q_PROPERTY(double ionicStrengthResultMmolPerL READ ionicStrengthResultMmolPerL NOTIFY resultChanged)
     /// β in mmol/L per pH unit.
     Q_PROPERTY(double bufferCapacityMmolPerL READ bufferCapacityMmolPerL NOTIFY resultChanged)
-    Q_PROPERTY(QStringList steps READ steps NOTIFY resultChanged)
-    Q_PROPERTY(QStringList cautions READ cautions NOTIFY resultChanged)
+    Q_PROPERTY(QStringList steps READ steps NOTIFY stepsChanged)
+    Q_PROPERTY(QStringList cautions READ cautions NOTIFY cautionsChanged)
     /// [{code, severity, message}]
-    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
+    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
     /// The JSON path of the field at fault ("target_ph"), empty when the recipe is valid.
     Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
@@ -202,6 +202,12 @@ signals:
     void inputsChanged();
     void choicesChanged();
     void resultChanged();
+    // The lists have their own signals, sent only when they differ: a view of the steps is not
+    // rebuilt when only the amounts changed.
+    void itemsChanged();
+    void stepsChanged();
+    void cautionsChanged();
+    void warningsChanged();
     /// An input changed by the user (not by loading): the plan and autosave listen.
     void edited();
 

@@ -125,12 +125,11 @@ void ChecksModel::rebuild() {
     }
     if (lines_) {
         for (int r = 0; r < lines_->rowCount(); ++r) {
-            const QModelIndex i = lines_->index(r);
-            if (!lines_->data(i, LinesModel::DefinedRole).toBool()) continue;
-            const QString src = tr("Line %1").arg(lines_->data(i, LinesModel::LetterRole).toString());
-            add_error(lines_->data(i, LinesModel::ErrorFieldRole).toString(),
-                      lines_->data(i, LinesModel::ErrorMessageRole).toString(), src, "lines");
-            add_list(lines_->data(i, LinesModel::WarningsRole).toList(), src, "lines");
+            if (!lines_->current(r, LinesModel::DefinedRole).toBool()) continue;
+            const QString src = tr("Line %1").arg(lines_->current(r, LinesModel::LetterRole).toString());
+            add_error(lines_->current(r, LinesModel::ErrorFieldRole).toString(),
+                      lines_->current(r, LinesModel::ErrorMessageRole).toString(), src, "lines");
+            add_list(lines_->current(r, LinesModel::WarningsRole).toList(), src, "lines");
         }
     }
     if (plan_) {

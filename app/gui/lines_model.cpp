@@ -199,6 +199,18 @@ void LinesModel::recompute() {
         computed_[i] = c;
     }
     last_recompute_ms_ = elapsed_ms(timer);
+    if (views_active_) notify_views();
+    emit computed();
+}
+
+void LinesModel::setViewsActive(bool a) {
+    if (a == views_active_) return;
+    views_active_ = a;
+    emit viewsActiveChanged();
+    if (a) notify_views();
+}
+
+void LinesModel::notify_views() {
     const QList<int> roles = roleNames().keys();
     for (int r = 0; r < 4; ++r) {
         QList<int> changed;
@@ -212,7 +224,6 @@ void LinesModel::recompute() {
         }
         if (!changed.isEmpty()) emit dataChanged(index(r), index(r), changed);
     }
-    emit computed();
 }
 
 void LinesModel::edit_line(const QString& letter, const std::function<void(QJsonObject&)>& change) {

@@ -29,6 +29,10 @@ class LinesModel : public QAbstractListModel {
     Q_PROPERTY(QVariantList additiveChoices READ additiveChoices NOTIFY choicesChanged)
     /// Time of the last recompute of all four lines, in ms.
     Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY computed)
+    /// False while no view of the lines is on screen: the lines are still computed (the checks
+    /// read them) but the views hear of it only when shown again, so an edit on another screen
+    /// does not rebuild hidden cards.
+    Q_PROPERTY(bool viewsActive READ viewsActive WRITE setViewsActive NOTIFY viewsActiveChanged)
     /// Warnings of every line, each with its "line" letter added.
     Q_PROPERTY(QVariantList allWarnings READ allWarnings NOTIFY computed)
 
@@ -62,6 +66,10 @@ public:
     QVariantList solventChoices() const { return solvent_choices_; }
     QVariantList additiveChoices() const { return additive_choices_; }
     double lastRecomputeMs() const { return last_recompute_ms_; }
+    bool viewsActive() const { return views_active_; }
+    void setViewsActive(bool a);
+    /// The current value of a role, whether or not the views were told (for the checks).
+    QVariant current(int row, int role) const { return role_value(row, role); }
     QVariantList allWarnings() const;
 
     int rowCount(const QModelIndex& parent = {}) const override;
@@ -96,6 +104,7 @@ signals:
     void planChanged();
     void choicesChanged();
     void computed();
+    void viewsActiveChanged();
 
 private:
     struct Computed {
@@ -115,6 +124,8 @@ private:
     /// line card being edited is not rebuilt by an edit elsewhere.
     std::array<QHash<int, QVariant>, 4> shown_;
     QTimer recompute_timer_;
+    bool views_active_ = true;
+    void notify_views();
     QVariantList solvent_choices_, additive_choices_;
     double last_recompute_ms_ = 0;
 };

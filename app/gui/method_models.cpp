@@ -23,6 +23,11 @@ void GradientModel::setPlan(Plan* p) {
     endResetModel();
     if (p) {
         connect(p, &Plan::documentChanged, this, [this] {
+            // An edit elsewhere in the plan (a buffer, a bottle) leaves the table as it is.
+            QJsonObject now = method();
+            now.insert("__lines", QJsonArray::fromStringList(letters()));
+            if (now == shown_) return;
+            shown_ = now;
             const int n = int(method().value("gradient").toArray().size());
             if (n != rows_) {
                 beginResetModel();
@@ -221,12 +226,17 @@ void SequenceRowsModel::setPlan(Plan* p) {
     reset();
     if (p) {
         connect(p, &Plan::documentChanged, this, [this] {
+            if (plan_->rows() == shown_) return;
+            shown_ = plan_->rows();
             const int n = int(plan_->rows().size());
             if (n != rows_) reset();
             else if (n > 0) emit dataChanged(index(0), index(n - 1));
             emit changed();
         });
         connect(p, &Plan::resultChanged, this, [this] {
+            const QString e = plan_->errorField() + '\n' + plan_->errorMessage();
+            if (e == shown_error_) return;
+            shown_error_ = e;
             if (rows_ > 0) emit dataChanged(index(0), index(rows_ - 1), {RowErrorRole, RowErrorFieldRole});
         });
     }

@@ -8,6 +8,7 @@
 
 #include <QAbstractListModel>
 #include <QPointer>
+#include <QJsonArray>
 #include <QJsonObject>
 #include <QQmlEngine>
 
@@ -87,6 +88,7 @@ private:
     QString error_field_, error_message_;
     int error_row_ = -1;
     int rows_ = 0;
+    QJsonObject shown_; ///< the method as last shown, with the lines: unchanged → no signal
 };
 
 class SequenceRowsModel : public QAbstractListModel {
@@ -124,6 +126,8 @@ private:
     void reset();
     QPointer<Plan> plan_;
     int rows_ = 0;
+    QJsonArray shown_; ///< the rows as last shown: unchanged → no signal
+    QString shown_error_; ///< the plan's error as last shown on the rows
 };
 
 } // namespace phaseplan::gui

@@ -66,6 +66,7 @@ Plan::Plan(QObject* parent) : QObject(parent) {
     connect(&recompute_timer_, &QTimer::timeout, this, &Plan::recompute);
     doc_ = starter_plan();
     name_ = tr("New plan");
+    update_buffer_lines();
 }
 
 Plan::~Plan() { flushAutosave(); }
@@ -90,6 +91,7 @@ void Plan::restore_state() {
         name_ = Workspace::demoName();
         doc_ = *demo;
     }
+    update_buffer_lines();
     emit documentChanged();
     emit documentReplaced();
 }
@@ -104,9 +106,28 @@ void Plan::flushAutosave() {
     dirty_ = false;
 }
 
+void Plan::update_buffer_lines() {
+    if (lineLetters() != shown_letters_) {
+        shown_letters_ = lineLetters();
+        emit lineLettersChanged();
+    }
+    if (methodNames() != shown_methods_) {
+        shown_methods_ = methodNames();
+        emit methodNamesChanged();
+    }
+    QVariantList list;
+    for (const QString& l : lineLetters())
+        if (!lineBuffer(l).isEmpty())
+            list.append(QVariantMap{{"id", l}, {"name", tr("Line %1: %2").arg(l, line(l).value("name").toString())}});
+    if (list == buffer_lines_) return;
+    buffer_lines_ = list;
+    emit bufferLinesChanged();
+}
+
 void Plan::edited() {
     dirty_ = true;
     autosave_.start();
+    update_buffer_lines();
     emit documentChanged();
     recompute_timer_.start();
 }
@@ -217,6 +238,7 @@ void Plan::loadJson(const QJsonObject& document, const QString& name) {
     name_ = name;
     dirty_ = true;
     autosave_.start();
+    update_buffer_lines();
     emit documentChanged();
     emit documentReplaced();
     recompute();
@@ -387,6 +409,7 @@ void Plan::recompute() {
     else
         error_ = guarded([&] { out = command_sequence(workspace_->data(), doc_, {}); });
     result_ = error_.empty() ? out : QJsonObject();
+    const QVariantList old_warnings = warnings_, old_bottles = bottles_;
     warnings_.clear();
     bottles_.clear();
     injections_ = 0;
@@ -408,6 +431,8 @@ void Plan::recompute() {
     }
     compute_levels();
     last_recompute_ms_ = elapsed_ms(timer);
+    if (bottles_ != old_bottles) emit bottlesChanged();
+    if (warnings_ != old_warnings) emit warningsChanged();
     emit resultChanged();
 }
 

@@ -35,8 +35,11 @@ class Plan : public QObject {
     Q_PROPERTY(QString name READ name WRITE setName NOTIFY documentChanged)
     Q_PROPERTY(QVariantMap document READ documentMap NOTIFY documentChanged)
     /// Letters of the defined lines, "A".."D".
-    Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY documentChanged)
-    Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY documentChanged)
+    Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY lineLettersChanged)
+    Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY methodNamesChanged)
+    /// [{id: letter, name}] of the lines that have an aqueous buffer part (the designer's picker);
+    /// signalled only when it changes.
+    Q_PROPERTY(QVariantList bufferLines READ bufferLines NOTIFY bufferLinesChanged)
     /// Sequence start, ISO 8601 local time ("2026-12-01T18:00:00").
     Q_PROPERTY(QString start READ start WRITE setStart NOTIFY documentChanged)
     /// Free volume of the waste container in mL (0: not checked).
@@ -60,9 +63,9 @@ class Plan : public QObject {
     Q_PROPERTY(double wasteMl READ wasteMl NOTIFY resultChanged)
     /// [{letter, name, bottle_ml, residue_ml, required_ml, usable_ml, runs_dry, dry_after_injection,
     ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}]
-    Q_PROPERTY(QVariantList bottles READ bottles NOTIFY resultChanged)
+    Q_PROPERTY(QVariantList bottles READ bottles NOTIFY bottlesChanged)
     /// [{code, severity, message, …}] of the sequence checks.
-    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
+    Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
     /// Plot ranges of the bottle chart: hours from the start, mL.
     Q_PROPERTY(double chartHours READ chartHours NOTIFY resultChanged)
     Q_PROPERTY(double chartMaxMl READ chartMaxMl NOTIFY resultChanged)
@@ -83,6 +86,7 @@ public:
     QVariantMap documentMap() const { return doc_.toVariantMap(); }
     QStringList lineLetters() const;
     QStringList methodNames() const;
+    QVariantList bufferLines() const { return buffer_lines_; }
     QString start() const;
     void setStart(const QString& iso);
     double wasteCapacityMl() const;
@@ -183,6 +187,13 @@ signals:
     /// The whole document was replaced: views reload what they show.
     void documentReplaced();
     void resultChanged();
+    void bufferLinesChanged();
+    /// Sent only when the list differs: pickers of lines and methods are not rebuilt on every edit.
+    void lineLettersChanged();
+    void methodNamesChanged();
+    /// Sent only when the list differs (an edit that changes no volume rebuilds no bottle row).
+    void bottlesChanged();
+    void warningsChanged();
 
 private:
     void edited();
@@ -194,6 +205,9 @@ private:
     bool restore_ = false;
     QString name_;
     QJsonObject doc_;
+    QVariantList buffer_lines_;
+    void update_buffer_lines(); ///< and the lists of lines and methods
+    QStringList shown_letters_, shown_methods_;
     QTimer autosave_;
     QTimer recompute_timer_;
     bool dirty_ = false;

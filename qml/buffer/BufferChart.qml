@@ -45,7 +45,7 @@ Card {
             objectName: "phChart"
             Layout.fillWidth: true
             Layout.preferredHeight: Theme.tap * 6
-            antialiasing: true
+            antialiasing: false
             legend.visible: false
             backgroundColor: Theme.card
             plotAreaColor: Theme.card
@@ -103,7 +103,7 @@ Card {
             objectName: "betaChart"
             Layout.fillWidth: true
             Layout.preferredHeight: Theme.tap * 6
-            antialiasing: true
+            antialiasing: false
             legend.visible: false
             backgroundColor: Theme.card
             plotAreaColor: Theme.card

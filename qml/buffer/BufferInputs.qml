@@ -23,22 +23,7 @@ ColumnLayout {
         ChoiceField {
             Layout.fillWidth: true
             label: qsTr("Editing")
-            choices: {
-                var c = [{ id: "", name: qsTr("A buffer of its own") }]
-                if (root.plan) {
-                    var letters = root.plan.lineLetters
-                    for (var i = 0; i < letters.length; ++i) {
-                        var doc = root.plan.lineDocument(letters[i])
-                        var parts = doc.parts || []
-                        for (var j = 0; j < parts.length; ++j)
-                            if (parts[j].buffer) {
-                                c.push({ id: letters[i], name: qsTr("Line %1: %2").arg(letters[i]).arg(doc.name || "") })
-                                break
-                            }
-                    }
-                }
-                return c
-            }
+            choices: [{ id: "", name: qsTr("A buffer of its own") }].concat(root.plan ? root.plan.bufferLines : [])
             current: root.designer.lineLetter
             onPicked: function(id) { root.designer.lineLetter = id }
         }

@@ -68,12 +68,12 @@ ScreenPage {
                     Layout.fillWidth: true
                     spacing: Theme.gap
                     Repeater {
-                        model: root.designer.steps
+                        // The count, not the list: new amounts update the steps in place.
+                        model: root.designer.steps.length
                         delegate: Label {
-                            required property string modelData
                             required property int index
                             width: stepList.width
-                            text: (index + 1) + ". " + modelData
+                            text: (index + 1) + ". " + (root.designer.steps[index] || "")
                             wrapMode: Text.Wrap
                             font.pixelSize: Theme.fontSize
                         }

@@ -30,11 +30,15 @@ Card {
         id: itemList
         Layout.fillWidth: true
         spacing: Theme.gap
+        // The model is the count, not the list: an edit that changes the amounts updates the
+        // rows in place instead of building them again.
         Repeater {
             objectName: "recipeItems"
-            model: root.designer.items
+            model: root.designer.items.length
             delegate: RowLayout {
-                required property var modelData
+                id: itemRow
+                required property int index
+                readonly property var modelData: root.designer.items[index] || ({})
                 width: itemList.width
                 spacing: Theme.gap
                 ColumnLayout {
@@ -42,20 +46,20 @@ Card {
                     spacing: 0
                     Label {
                         Layout.fillWidth: true
-                        text: modelData.name
+                        text: itemRow.modelData.name || ""
                         font.pixelSize: Theme.fontSize
                         wrapMode: Text.Wrap
                     }
                     Label {
                         Layout.fillWidth: true
-                        text: modelData.as
+                        text: itemRow.modelData.as || ""
                         color: Theme.dimText
                         font.pixelSize: Theme.smallFont
                     }
                 }
                 Label {
                     objectName: "amount"
-                    text: modelData.amount
+                    text: itemRow.modelData.amount || ""
                     font.pixelSize: Theme.largeFont
                     font.bold: true
                     horizontalAlignment: Text.AlignRight

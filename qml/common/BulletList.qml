@@ -13,12 +13,14 @@ Column {
 
     spacing: Math.round(Theme.gap / 2)
 
+    // The model is the count: changed sentences update in place, rows are built only when the
+    // number of sentences changes.
     Repeater {
-        model: root.items
+        model: root.items.length
         delegate: Label {
-            required property string modelData
+            required property int index
             width: root.width
-            text: "•  " + modelData
+            text: "•  " + (root.items[index] || "")
             wrapMode: Text.Wrap
             color: root.textColour
             font.pixelSize: root.pixelSize
