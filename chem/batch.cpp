@@ -16,19 +16,10 @@ constexpr double max_tolerance_fraction = 0.5;   ///< ± 50 %: beyond that a "to
 /// A predicted pH this far from the target deserves a look before use; common practice, no source.
 constexpr double ph_off_target = 0.05;
 
-std::string fixed(double v, int decimals) { return format_fixed(v, decimals); }
-
-/// About four significant figures, as the designer prints amounts.
-std::string amount(double v) {
-    if (v >= 100) return fixed(v, 1);
-    if (v >= 10) return fixed(v, 2);
-    if (v >= 1) return fixed(v, 3);
-    return fixed(v, 4);
-}
 
 std::string signed_percent(double fraction) {
     std::string s = fraction >= 0 ? "+" : "";
-    s += fixed(fraction * 100, 1);
+    s += format_fixed(fraction * 100, 1);
     s += " %";
     return s;
 }
@@ -226,10 +217,10 @@ AmountCheck check_amount(const std::string& name, const std::string& unit, doubl
 Warning out_of_tolerance_warning(const AmountCheck& c, double tolerance_fraction) {
     // Built with += : GCC 12 warns falsely (-Wrestrict) on long chains of literal + string.
     std::string m = c.reagent;
-    m += ": " + amount(c.actual) + " " + c.unit;
-    m += " measured, target " + amount(c.target) + " " + c.unit;
+    m += ": " + format_amount(c.actual) + " " + c.unit;
+    m += " measured, target " + format_amount(c.target) + " " + c.unit;
     m += " ± " + format_number(tolerance_fraction * 100) + " %";
-    m += " (" + amount(c.low) + " to " + amount(c.high) + " " + c.unit + "), ";
+    m += " (" + format_amount(c.low) + " to " + format_amount(c.high) + " " + c.unit + "), ";
     m += signed_percent(c.deviation_fraction);
     m += ".";
     return {"amount-out-of-tolerance", Warning::Severity::warning, m};
@@ -334,7 +325,7 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         c.actual_mol_per_l = actual_mol[k] / volume_l;
         if (c.actual_mol_per_l > max_concentration_mol_per_l)
             throw Error(item_path(entry_of[k] >= 0 ? entry_of[k] : 0, by_mass ? "mass_g" : "volume_ml"),
-                        amount(c.actual) + " " + c.unit + " of " + it.reagent + " in " +
+                        format_amount(c.actual) + " " + c.unit + " of " + it.reagent + " in " +
                             format_number(out.final_volume_ml) + " mL is " +
                             format_number(c.actual_mol_per_l) + " mol/L, above " +
                             format_number(max_concentration_mol_per_l) + " mol/L");
@@ -342,7 +333,7 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         if (!a)
             out.warnings.push_back({"amount-not-entered", Warning::Severity::info,
                                     it.reagent + ": no actual amount entered; the target " +
-                                        amount(c.target) + " " + c.unit + " is assumed."});
+                                        format_amount(c.target) + " " + c.unit + " is assumed."});
         out.checks.push_back(std::move(c));
     }
 
@@ -368,9 +359,9 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
     if (std::abs(dph) > ph_off_target)
         out.warnings.push_back(
             {"ph-off-target", Warning::Severity::caution,
-             "From the actual amounts the predicted pH is " + fixed(out.predicted.ph, 2) +
-                 ", " + (dph > 0 ? "+" : "") + fixed(dph, 2) + " from the target " +
-                 fixed(recipe.request.target_ph, 2) +
+             "From the actual amounts the predicted pH is " + format_fixed(out.predicted.ph, 2) +
+                 ", " + (dph > 0 ? "+" : "") + format_fixed(dph, 2) + " from the target " +
+                 format_fixed(recipe.request.target_ph, 2) +
                  " (more than 0.05: common practice, no source); check the meter reading and the "
                  "weighings before use."});
     return out;

@@ -26,4 +26,11 @@ std::string format_fixed(double value, int decimals) {
     return std::string(buf, res.ptr);
 }
 
+std::string format_amount(double value) {
+    if (value >= 100) return format_fixed(value, 1);
+    if (value >= 10) return format_fixed(value, 2);
+    if (value >= 1) return format_fixed(value, 3);
+    return format_fixed(value, 4);
+}
+
 } // namespace chem

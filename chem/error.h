@@ -37,4 +37,8 @@ std::string format_number(double value);
 /// (printf's %.2f would write "2,50" under a decimal-comma locale once Qt has called setlocale).
 std::string format_fixed(double value, int decimals);
 
+/// An amount to about four significant figures, as recipes and batch records print masses and
+/// volumes: 123.4, 12.34, 1.234, 0.1234 (0.1 mg / 0.01 mL resolution at most).
+std::string format_amount(double value);
+
 } // namespace chem

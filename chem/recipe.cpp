@@ -24,15 +24,6 @@ constexpr double pipette_min_volume_ml = 0.010; ///< common practice, no source:
 constexpr double low_buffer_capacity = 0.002;   ///< mol/L per pH; common practice, no source
 constexpr double ph_solve_tolerance = 1e-7;
 
-std::string fixed(double v, int decimals) { return format_fixed(v, decimals); }
-
-/// Decimals that show an amount to about 4 significant figures (0.1 mg / 0.01 mL resolution at most).
-std::string amount(double v) {
-    if (v >= 100) return fixed(v, 1);
-    if (v >= 10) return fixed(v, 2);
-    if (v >= 1) return fixed(v, 3);
-    return fixed(v, 4);
-}
 
 double purity_of(const RecipeRequest& req, const Reagent& r) {
     for (const auto& [id, p] : req.purity_overrides)
@@ -122,7 +113,7 @@ struct Pair {
     double ph(double c0, double c1) { return state(c0, c1).ph; }
 };
 
-std::string ph_text(double ph) { return "pH " + fixed(ph, 2); }
+std::string ph_text(double ph) { return "pH " + format_fixed(ph, 2); }
 
 /// Outer search over the buffer concentration for a target ionic strength. `solve_at(c)` returns
 /// the ionic strength of the recipe designed at buffer concentration c, or NaN when the target
@@ -289,7 +280,7 @@ TitrationDesign design_titration(const Library& lib, const RecipeRequest& req, c
 }
 
 std::string reagent_label(const Reagent& r) {
-    return r.name + " (" + r.formula + ", " + fixed(r.molar_mass_g_per_mol, 2) + " g/mol)";
+    return r.name + " (" + r.formula + ", " + format_fixed(r.molar_mass_g_per_mol, 2) + " g/mol)";
 }
 
 void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<std::string>& steps) {
@@ -297,17 +288,17 @@ void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<std:
         const Reagent& r = lib.reagent(it.reagent);
         if (it.as.rfind("titrant", 0) == 0) continue;
         if (it.as == "solid") {
-            steps.push_back("Weigh " + amount(*it.mass_g) + " g of " + reagent_label(r) +
+            steps.push_back("Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
                             " and dissolve it in the water.");
         } else if (it.as == "liquid") {
-            std::string s = "Measure " + amount(*it.volume_ml) + " mL (" + amount(*it.mass_g) +
+            std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" + format_amount(*it.mass_g) +
                             " g) of " + reagent_label(r) + ", " +
                             format_number(r.assay_fraction * 100) + " % w/w, " +
                             format_number(r.density_g_per_ml) + " g/mL, and add it to the water";
             if (r.is_corrosive()) s += " slowly, with stirring (acid or base into water, never water into it)";
             steps.push_back(s + ".");
         } else {
-            steps.push_back("Pipette " + amount(*it.volume_ml) + " mL of the " + r.name + " " + it.as +
+            steps.push_back("Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name + " " + it.as +
                             " into the flask.");
         }
     }
@@ -385,7 +376,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                     d.c_base * req.volume_ml / req.base_stock_mol_per_l
                                 ? "acid_stock_mol_per_l"
                                 : "base_stock_mol_per_l",
-                            "the stocks are too dilute: " + amount(total_ml) +
+                            "the stocks are too dilute: " + format_amount(total_ml) +
                                 " mL of stock exceeds the final volume of " +
                                 format_number(req.volume_ml) + " mL");
         }
@@ -446,7 +437,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                         " °C and calibrate the pH meter at that temperature.");
         steps.push_back("While stirring, add " + titrant.name + " " + format_number(req.titrant_mol_per_l) +
                         " mol/L in small portions until the meter reads " + ph_text(req.target_ph) +
-                        "; about " + amount(t.volume_ml.value_or(0)) + " mL is predicted.");
+                        "; about " + format_amount(t.volume_ml.value_or(0)) + " mL is predicted.");
     } else {
         steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
                         ph_text(recipe.predicted.ph) +
@@ -480,36 +471,36 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                 const double pka = sys.pka_at(j, t_k);
                 if (std::abs(pka - req.target_ph) < nearest) {
                     nearest = std::abs(pka - req.target_ph);
-                    nearest_text = sys.id + " pKa " + fixed(pka, 2);
+                    nearest_text = sys.id + " pKa " + format_fixed(pka, 2);
                 }
             }
         }
     if (nearest > 1.0)
         w.push_back({"ph-outside-pka-range", Warning::Severity::warning,
-                     ph_text(req.target_ph) + " is " + fixed(nearest, 2) +
+                     ph_text(req.target_ph) + " is " + format_fixed(nearest, 2) +
                          " pH units from the nearest pKa (" + nearest_text + " at " +
                          format_number(req.temperature_c) +
                          " °C); outside pKa ± 1 the solution buffers poorly."});
     if (recipe.predicted.buffer_capacity_mol_per_l < low_buffer_capacity)
         w.push_back({"low-buffer-capacity", Warning::Severity::caution,
-                     "Buffer capacity " + fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +
+                     "Buffer capacity " + format_fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +
                          " mmol/L per pH is below 2 mmol/L per pH (common practice, no source): "
                          "the sample or dissolved CO2 can shift the pH."});
     for (const auto& it : recipe.items) {
         const bool weighed = it.as == "solid";
         if (weighed && *it.mass_g < balance_min_mass_g)
             w.push_back({"small-amount", Warning::Severity::caution,
-                         it.reagent + ": " + fixed(*it.mass_g * 1000, 2) +
+                         it.reagent + ": " + format_fixed(*it.mass_g * 1000, 2) +
                              " mg is below what a lab balance weighs well (10 mg); make a larger "
                              "volume or use a stock solution."});
         if (!weighed && it.volume_ml && *it.volume_ml < pipette_min_volume_ml)
             w.push_back({"small-amount", Warning::Severity::caution,
-                         it.reagent + ": " + fixed(*it.volume_ml * 1000, 1) +
+                         it.reagent + ": " + format_fixed(*it.volume_ml * 1000, 1) +
                              " µL is below what a pipette delivers well (10 µL); make a larger "
                              "volume or dilute the reagent first."});
         if (it.as.rfind("titrant", 0) == 0 && *it.volume_ml > 0.5 * req.volume_ml)
             w.push_back({"titrant-volume-large", Warning::Severity::caution,
-                         "The titrant takes " + amount(*it.volume_ml) + " mL of the " +
+                         "The titrant takes " + format_amount(*it.volume_ml) + " mL of the " +
                              format_number(req.volume_ml) +
                              " mL final volume; use a more concentrated titrant."});
     }

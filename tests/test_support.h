@@ -8,6 +8,7 @@
 #include <QJsonObject>
 #include <QProcess>
 #include <QString>
+#include <QTest>
 
 namespace phaseplan::testing {
 
@@ -39,6 +40,17 @@ inline CliRun run_cli(const QStringList& args, const QByteArray& stdin_bytes = {
     r.out = p.readAllStandardOutput();
     r.err = p.readAllStandardError();
     return r;
+}
+
+/// The bad-input rule of the command-line tool: status 2, nothing on stdout, one line on stderr
+/// that starts with the field it names (and contains `contains`, when given).
+inline void verify_rejected(const CliRun& r, const QString& field, const QString& contains) {
+    QCOMPARE(r.exit_code, 2);
+    QVERIFY2(r.out.isEmpty(), r.out.constData());
+    const QString err = QString::fromUtf8(r.err).trimmed();
+    QVERIFY2(!err.contains('\n'), qPrintable(err));
+    QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
+    if (!contains.isEmpty()) QVERIFY2(err.contains(contains), qPrintable(err));
 }
 
 } // namespace phaseplan::testing

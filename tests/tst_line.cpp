@@ -435,14 +435,7 @@ void TestLine::badInputIsRejected() {
     QFETCH(QByteArray, input);
     QFETCH(QString, field);
     QFETCH(QString, contains);
-    const auto r = run_cli({"line", "-"}, input);
-    QCOMPARE(r.exit_code, 2);
-    QVERIFY2(r.out.isEmpty(), r.out.constData());
-    const QString err = QString::fromUtf8(r.err).trimmed();
-    QVERIFY2(!err.contains('\n'), qPrintable(err));
-    QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
-    if (!contains.isEmpty())
-        QVERIFY2(err.contains(contains), qPrintable(err));
+    phaseplan::testing::verify_rejected(run_cli({"line", "-"}, input), field, contains);
 }
 
 QTEST_GUILESS_MAIN(TestLine)

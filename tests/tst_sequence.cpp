@@ -595,14 +595,7 @@ void TestSequence::badInputIsRejected() {
     QFETCH(QByteArray, input);
     QFETCH(QString, field);
     QFETCH(QString, contains);
-    const auto r = run_cli({"sequence", "-"}, input);
-    QCOMPARE(r.exit_code, 2);
-    QVERIFY2(r.out.isEmpty(), r.out.constData());
-    const QString err = QString::fromUtf8(r.err).trimmed();
-    QVERIFY2(!err.contains('\n'), qPrintable(err));
-    QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
-    if (!contains.isEmpty())
-        QVERIFY2(err.contains(contains), qPrintable(err));
+    phaseplan::testing::verify_rejected(run_cli({"sequence", "-"}, input), field, contains);
 }
 
 QTEST_GUILESS_MAIN(TestSequence)
