@@ -1,0 +1,40 @@
+#pragma once
+// What leaves the mixer at one point of a gradient: the lines' profiles blended by the pump's
+// percentages. Gives the volume fractions of water and of each organic solvent (as measured
+// before mixing), the mole fractions, the estimated contraction on mixing, and every solute
+// diluted into the blended volume. The eluent-pH model and the viscosity model both start here.
+#include "chem/line.h"
+#include "chem/solvent.h"
+
+#include <map>
+#include <string>
+#include <vector>
+
+namespace chem {
+
+/// One line's share of the flow.
+struct LineShare {
+    const LineProfile* profile = nullptr;
+    double percent = 0; ///< % of the flow (the gradient table's column for this line)
+};
+
+struct EluentMix {
+    /// Solvent id → volume fraction, as measured before mixing (buffers count as water); sums to 1.
+    std::map<std::string, double> solvent_fraction_v;
+    /// Solvent id → mole fraction, from densities at their stated temperatures and molar masses.
+    std::map<std::string, double> mole_fraction;
+    double organic_fraction_v = 0; ///< everything that is not water, as measured before mixing
+    /// Estimated volume lost on mixing, as a fraction of the unmixed volume (≥ 0 for a
+    /// contraction). Binary Redlich–Kister excess volumes of each organic with the water present;
+    /// with more than one organic, each pairs with the water in proportion (an approximation).
+    double contraction_fraction = 0;
+    /// Every solute of every line, in mmol per litre of the mixed eluent (after contraction).
+    std::vector<Solute> solutes;
+};
+
+/// Blends the lines. Percentages must be finite, ≥ 0 and sum to 100 ± 0.01; each share's profile
+/// must be described (have parts). Throws chem::Error("composition", …) otherwise, naming the
+/// value. Lines at 0 % are skipped.
+EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>& shares);
+
+} // namespace chem
