@@ -28,6 +28,28 @@ std::string line_title(const SequenceCheckInput& c, int l) {
     return "Line " + letter(l) + (n.empty() || n == letter(l) ? "" : " (" + n + ")");
 }
 
+/// An id as the message shows it: the library's name when the app gave a lookup.
+std::string named(const SequenceCheckInput& c, const std::string& id) {
+    return c.name_of ? c.name_of(id) : id;
+}
+std::vector<std::string> named(const SequenceCheckInput& c, const std::vector<std::string>& ids) {
+    std::vector<std::string> out;
+    for (const auto& id : ids)
+        out.push_back(named(c, id));
+    return out;
+}
+/// A salt group id ("potassium-phosphate") in words ("potassium phosphate").
+std::string group_words(std::string g) {
+    std::replace(g.begin(), g.end(), '-', ' ');
+    return g;
+}
+/// "in method “assay”, 18 min 53 s into each injection"; "in the standby".
+std::string where_words(const std::string& where, double t_min) {
+    if (where == "standby")
+        return "in the standby";
+    return "in method \u201c" + where + "\u201d, " + method_time_words(t_min) + " into each injection";
+}
+
 std::string join(const std::vector<std::string>& v) {
     std::string out;
     for (std::size_t i = 0; i < v.size(); ++i)
@@ -89,8 +111,9 @@ Contact worst_pair(const SolventLibrary& lib, const LineProfile& x, const LinePr
     return c;
 }
 
-void immiscible_within(const SolventLibrary& lib, const LineProfile& p, const std::string& line,
+void immiscible_within(const SequenceCheckInput& ci, const LineProfile& p, const std::string& line,
                        const std::string& title, std::vector<CheckWarning>& out) {
+    const SolventLibrary& lib = *ci.solvents;
     Contact c;
     for (auto i = p.solvent_fraction_v.begin(); i != p.solvent_fraction_v.end(); ++i)
         for (auto j = std::next(i); j != p.solvent_fraction_v.end(); ++j) {
@@ -103,8 +126,9 @@ void immiscible_within(const SolventLibrary& lib, const LineProfile& p, const st
     const bool imm = c.worst == Miscibility::immiscible;
     CheckWarning w = make(
         "immiscible", imm ? Sev::warning : Sev::caution, line,
-        title + " mixes " + c.a + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) + " %) with " +
-            c.b + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) + " %), which are " +
+        title + " mixes " + named(ci, c.a) + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) +
+            " %) with " + named(ci, c.b) + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) +
+            " %), which are " +
             (imm ? "immiscible: the bottle separates into two phases."
                  : "only partly miscible: check that the bottle stays one clear phase."));
     w.text("solvent_a", c.a);
@@ -126,22 +150,24 @@ std::map<std::string, double> group_mmol(const SolventLibrary& lib, const LinePr
 
 struct WorstLoad {
     SaltLoad load;
-    std::string where;
+    std::string where;      ///< "in method assay at 18.89 min" (the warning's "where" field)
+    std::string where_text; ///< the same in words for the message
     double t_min = 0;
     bool found = false;
 };
 
-void precipitation_warning(const WorstLoad& w, const std::string& line,
+void precipitation_warning(const WorstLoad& w, const std::string& line, const NameLookup& name_of,
                            std::vector<CheckWarning>& out) {
     const double r = w.load.ratio();
     if (r <= 0.8)
         return;
     const bool over = r > 1.0;
     std::string msg =
-        (over ? "Buffer salt " : "Buffer salt near its limit: ") + w.load.group + " reaches " +
-        fmt(w.load.mmol_per_l, 2) + " mmol/L at " + fmt(100 * w.load.organic_fraction_v) +
-        " % organic " + w.where + ", " + (over ? "above" : "close to") + " the limit of " +
-        fmt(w.load.limit_mmol_per_l, 2) + " mmol/L in water–" + w.load.organic + " (" +
+        (over ? "Buffer salt " : "Buffer salt near its limit: ") + group_words(w.load.group) +
+        " reaches " + fmt(w.load.mmol_per_l, 2) + " mmol/L at " +
+        fmt(100 * w.load.organic_fraction_v) + " % organic " + w.where_text + ", " +
+        (over ? "above" : "close to") + " the limit of " + fmt(w.load.limit_mmol_per_l, 2) +
+        " mmol/L in water–" + (name_of ? name_of(w.load.organic) : w.load.organic) + " (" +
         (w.load.basis == "published" ? "published data" : "a conservative rule of thumb") + ").";
     if (over)
         msg += " It may precipitate in the mixer, the column or the check valves: lower the salt "
@@ -160,10 +186,12 @@ void precipitation_warning(const WorstLoad& w, const std::string& line,
     out.push_back(cw);
 }
 
-void consider(WorstLoad& worst, const SaltLoad& l, const std::string& where, double t) {
+void consider(WorstLoad& worst, const SaltLoad& l, const std::string& where,
+              const std::string& where_text, double t) {
     if (!worst.found || l.ratio() > worst.load.ratio()) {
         worst.load = l;
         worst.where = where;
+        worst.where_text = where_text;
         worst.t_min = t;
         worst.found = true;
     }
@@ -185,6 +213,16 @@ const std::vector<std::string>& detector_types() {
 
 std::string default_clock(double minutes) {
     return "t+" + fmt(minutes, 1) + " min";
+}
+
+std::string method_time_words(double minutes) {
+    const long long total_s = std::llround(std::max(0.0, minutes) * 60.0);
+    const long long m = total_s / 60, sec = total_s % 60;
+    if (m == 0)
+        return std::to_string(sec) + " s";
+    if (sec == 0)
+        return std::to_string(m) + " min";
+    return std::to_string(m) + " min " + std::to_string(sec) + " s";
 }
 
 double SaltLoad::ratio() const {
@@ -291,7 +329,7 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
             CheckWarning w = make(
                 "uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
                 line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " +
-                    p->uv_limited_by + "); the detector reads at " + fmt(wl, 0) + " nm, " +
+                    named(c, p->uv_limited_by) + "); the detector reads at " + fmt(wl, 0) + " nm, " +
                     (below ? "below the cutoff: expect a high baseline and a drifting gradient."
                            : "within " + fmt(margin, 0) +
                                  " nm of it: expect baseline drift over the gradient."));
@@ -304,7 +342,7 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
         if (!p->uv_unknown.empty()) {
             CheckWarning w =
                 make("uv-cutoff", Sev::caution, letter(l),
-                     line_title(c, l) + ": no UV cutoff figure for " + join(p->uv_unknown) +
+                     line_title(c, l) + ": no UV cutoff figure for " + join(named(c, p->uv_unknown)) +
                          "; check its absorbance at " + fmt(wl, 0) + " nm before the run.");
             w.number("wavelength_nm", wl);
             w.text("unknown", join(p->uv_unknown));
@@ -313,7 +351,7 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
         if (!p->uv_beyond_table.empty()) {
             CheckWarning w =
                 make("uv-cutoff", Sev::info, letter(l),
-                     line_title(c, l) + ": " + join(p->uv_beyond_table) +
+                     line_title(c, l) + ": " + join(named(c, p->uv_beyond_table)) +
                          " is above the highest concentration in its UV table; the cutoff used (" +
                          fmt(cut, 0) + " nm) is a lower bound.");
             w.number("cutoff_nm", cut);
@@ -330,7 +368,7 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l)
         if (used[l] && c.profiles[l] && c.profiles[l]->described)
-            immiscible_within(*c.solvents, *c.profiles[l], letter(l), line_title(c, l), out);
+            immiscible_within(c, *c.profiles[l], letter(l), line_title(c, l), out);
 
     struct Meeting {
         bool met = false;
@@ -369,14 +407,15 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
         if (k.worst == Miscibility::miscible)
             continue;
         const bool imm = k.worst == Miscibility::immiscible;
-        const std::string where =
-            m.where == "standby" ? "in the standby"
-                                 : "in method " + m.where + " from " + fmt(m.t_min, 2) + " min";
+        const std::string where = m.where == "standby"
+                                      ? "in the standby"
+                                      : "in method \u201c" + m.where + "\u201d from " +
+                                            method_time_words(m.t_min) + " into each injection";
         CheckWarning w =
             make("immiscible", imm ? Sev::warning : Sev::caution, letter(a) + letter(b),
                  "Lines " + letter(a) + " and " + letter(b) + " meet in the mixer " + where +
                      " (about " + fmt(m.pa) + " % " + letter(a) + " with " + fmt(m.pb) + " % " +
-                     letter(b) + "): " + k.a + " and " + k.b + " are " +
+                     letter(b) + "): " + named(c, k.a) + " and " + named(c, k.b) + " are " +
                      (imm ? "immiscible, so the eluent separates into two phases."
                           : "only partly miscible: check the proportions stay within their mutual "
                             "solubility."));
@@ -408,9 +447,10 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
         p[l] = 100;
         std::map<std::string, WorstLoad> worst;
         for (const auto& load : salt_loads(*c.solvents, one, p))
-            consider(worst[load.group], load, "in the bottle of line " + letter(l), 0);
+            consider(worst[load.group], load, "in the bottle of line " + letter(l),
+                     "in the bottle of line " + letter(l), 0);
         for (const auto& [g, w] : worst)
-            precipitation_warning(w, letter(l), out);
+            precipitation_warning(w, letter(l), c.name_of, out);
     }
     // The mixed eluent: per stretch, the ends and the points where the organic fraction crosses a
     // row of a table (concentration and organic fraction are linear in time within a stretch and
@@ -454,11 +494,11 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
                                           ? "in the standby"
                                           : "in method " + ns.where + " at " + fmt(t, 2) + " min";
             for (const auto& load : salt_loads(*c.solvents, c.profiles, p))
-                consider(worst[load.group], load, where, t);
+                consider(worst[load.group], load, where, where_words(ns.where, t), t);
         }
     }
     for (const auto& [g, w] : worst)
-        precipitation_warning(w, "", out);
+        precipitation_warning(w, "", c.name_of, out);
     return out;
 }
 
@@ -477,7 +517,7 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             for (const auto& id : p->nonvolatile)
                 for (const auto& s : p->solutes)
                     if (s.reagent == id)
-                        parts.push_back(id + " " + fmt(s.mmol_per_l, 2) + " mmol/L");
+                        parts.push_back(named(c, id) + " " + fmt(s.mmol_per_l, 2) + " mmol/L");
             CheckWarning w =
                 make("ms-nonvolatile", Sev::warning, letter(l),
                      line_title(c, l) + " carries non-volatile " + join(parts) + " into the " +
@@ -496,7 +536,7 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
         if (!p->volatility_unknown.empty()) {
             CheckWarning w =
                 make("ms-nonvolatile", Sev::caution, letter(l),
-                     line_title(c, l) + ": volatility of " + join(p->volatility_unknown) +
+                     line_title(c, l) + ": volatility of " + join(named(c, p->volatility_unknown)) +
                          " is not recorded; check it suits the " + c.detector->type + " detector.");
             w.text("detector", c.detector->type);
             w.text("unknown", join(p->volatility_unknown));
@@ -699,7 +739,8 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
 std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
                                      const std::string& name,
                                      const std::optional<Detector>& detector,
-                                     const std::optional<ColumnLimits>& column) {
+                                     const std::optional<ColumnLimits>& column,
+                                     const NameLookup& name_of) {
     // A one-line, one-method "sequence" at 100 % of line A reuses the sequence checks.
     SequenceInput in;
     BottleSpec b;
@@ -724,6 +765,7 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
     c.names[0] = name;
     c.detector = detector;
     c.column = column;
+    c.name_of = name_of;
     std::vector<CheckWarning> out;
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
                    check_column_ph}) {

@@ -51,6 +51,11 @@ struct ColumnLimits {
 /// Formats a time (minutes from the sequence start) for messages; app/ passes clock times.
 using ClockFormatter = std::function<std::string(double minutes)>;
 std::string default_clock(double minutes); ///< "t+125.5 min"
+/// The name a reagent, solvent or additive id is shown by in messages; app/ passes the library's
+/// names ("Acetonitrile" for "acetonitrile"). The default shows the id.
+using NameLookup = std::function<std::string(const std::string& id)>;
+/// A time into an injection, in words: "18 min 53 s", "2 min", "45 s".
+std::string method_time_words(double minutes);
 
 struct SequenceCheckInput {
     const SolventLibrary* solvents = nullptr;
@@ -62,6 +67,7 @@ struct SequenceCheckInput {
     std::optional<Detector> detector;
     std::optional<ColumnLimits> column;
     ClockFormatter clock = default_clock;
+    NameLookup name_of; ///< empty: ids as they are
 };
 
 /// Lines the sequence pumps at some point (above 0 % in a method it runs, or in the standby).
@@ -83,7 +89,8 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
                                      const std::string& name,
                                      const std::optional<Detector>& detector,
-                                     const std::optional<ColumnLimits>& column);
+                                     const std::optional<ColumnLimits>& column,
+                                     const NameLookup& name_of = {});
 
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
 /// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.

@@ -299,11 +299,11 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
             it.volume_ml = material_g / r.density_g_per_ml;
             it.density_g_per_ml = r.density_g_per_ml;
             it.density_basis = "density of the liquid as supplied (reagent library)";
-            additive_steps.push_back(fmt(*it.volume_ml, 3) + " mL " + r.id + " = " +
+            additive_steps.push_back(fmt(*it.volume_ml, 3) + " mL " + r.name + " = " +
                                      fmt(material_g, 3) + " g");
         } else {
             it.density_basis = "solid: weigh";
-            additive_steps.push_back(fmt(material_g, 4) + " g " + r.id);
+            additive_steps.push_back(fmt(material_g, 4) + " g " + r.name);
         }
         out.items.push_back(it);
     }
@@ -315,7 +315,7 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         if (!c)
             continue;
         out.contraction_ml += *c;
-        contraction_text.push_back(id + " " + fmt(*c, 1) + " mL");
+        contraction_text.push_back(solvents.solvent(id).name + " " + fmt(*c, 1) + " mL");
         if (const ExcessVolume* ev = solvents.excess_volume("water", id))
             out.contraction_sources.push_back(ev->source);
     }

@@ -23,6 +23,13 @@ ApplicationWindow {
         if (i >= 0)
             currentScreen = i
     }
+    /// Shows a screen and focuses the field a check or an error names (a contract path).
+    function showField(key, path) {
+        show(key)
+        var screen = stack.children[screenKeys.indexOf(key)]
+        if (path.length > 0 && screen && screen.focusField !== undefined)
+            Qt.callLater(function() { screen.focusField(path) })
+    }
 
     width: 1280
     height: 800
@@ -165,8 +172,9 @@ ApplicationWindow {
                 lines: linesModel
                 plan: plan
                 inPortrait: window.inPortrait
-                onEditBuffer: function(letter) {
-                    designer.lineLetter = letter
+                designer: designer
+                onEditBuffer: function(name) {
+                    designer.openBuffer(name)
                     window.show("buffer")
                 }
             }
@@ -177,7 +185,7 @@ ApplicationWindow {
             ChecksScreen {
                 checks: checksModel
                 inPortrait: window.inPortrait
-                onOpen: function(screen) { window.show(screen) }
+                onOpen: function(screen, focus) { window.showField(screen, focus) }
             }
             LibraryScreen {
                 workspace: window.workspace

@@ -74,6 +74,11 @@ class TestGuiModels : public QObject {
     QString fresh_db() { return dir_.filePath(QStringLiteral("db-%1.sqlite").arg(++n_)); }
 
 private slots:
+    void initTestCase() {
+        // One "today" for every run: the screens word times relative to it.
+        qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
+    }
+
     void first_run_opens_the_demo() {
         const QString db = fresh_db();
         auto ws = open_workspace(db);
@@ -82,9 +87,26 @@ private slots:
         plan.setRestore(true);
         plan.setWorkspace(ws.get());
         plan.recomputeNow();
-        const QJsonObject demo = read_json(data_dir + "/demo/overnight-sequence.json");
+        QJsonObject demo = read_json(data_dir + "/demo/overnight-sequence.json");
         QCOMPARE(plan.name(), Workspace::demoName());
+        // The demo is tonight's plan: PHASEPLAN_NOW is 2026-12-02T14:00, so it starts at the next
+        // 18:00, a day after the file's start, and every other time moves with it. Line A holds its
+        // buffer by reference to the saved buffer the demo seeded.
+        demo.insert("start", "2026-12-02T18:00:00");
+        QJsonObject lines = demo.value("lines").toObject();
+        QJsonObject a = lines.value("A").toObject();
+        a.insert("prepared_at", "2026-12-02T14:30:00");
+        QJsonArray parts = a.value("parts").toArray();
+        QJsonObject part = parts[0].toObject();
+        part.insert("buffer_ref", "20 mM sodium phosphate pH 2.5 buffer");
+        parts[0] = part;
+        a.insert("parts", parts);
+        lines.insert("A", a);
+        demo.insert("lines", lines);
         QCOMPARE(plan.json(), demo);
+        QCOMPARE(plan.startText(), QString("today 18:00"));
+        QCOMPARE(plan.endText(), QString("tomorrow 03:30"));
+        QCOMPARE(plan.standbyText(), QString("until tomorrow 07:30 (4 h 00 min)"));
         QVERIFY2(plan.valid(), qPrintable(plan.errorField() + ": " + plan.errorMessage()));
         // The plan shows exactly what the core's sequence command says for the same document.
         const QJsonObject direct = phaseplan::command_sequence(ws->data(), demo, {});
@@ -194,6 +216,8 @@ private slots:
     }
 
     void designer_edits_the_line_buffer() {
+        // The demo's line A holds its buffer by reference: the designer opens that saved buffer,
+        // and the line follows every edit.
         auto ws = open_workspace(fresh_db());
         Plan plan;
         plan.setRestore(true);
@@ -203,10 +227,11 @@ private slots:
         BufferDesigner d;
         d.setWorkspace(ws.get());
         d.setPlan(&plan);
-        d.setLineLetter("A");
+        const QString ref = plan.lineBufferRef("A");
+        QVERIFY(!ref.isEmpty());
+        QVERIFY(d.openBuffer(ref));
+        QCOMPARE(d.usedByLines(), QStringList{"A"});
         QCOMPARE(d.targetPh(), plan.lineBuffer("A").value("target_ph").toDouble());
-        // Made for its share of the bottle when the buffer names no volume.
-        QCOMPARE(d.volumeMl(), plan.lineBufferVolumeMl("A"));
         const QVariantList before = lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
         d.setTargetPh(d.targetPh() + 0.3);
         QCOMPARE(plan.lineBuffer("A").value("target_ph").toDouble(), d.targetPh());
@@ -214,6 +239,121 @@ private slots:
         const QVariantList after = lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
         QVERIFY(!before.isEmpty());
         QVERIFY2(before != after, "the line's buffer amounts follow the designer");
+        // Renamed, the line holds the new name; deleted, the line keeps its own copy.
+        QCOMPARE(d.renameBuffer("Line A buffer, night shift"), QString());
+        QCOMPARE(plan.lineBufferRef("A"), QString("Line A buffer, night shift"));
+        QVERIFY(!d.autoName());
+        QCOMPARE(d.deleteBuffer(), QString());
+        QCOMPARE(plan.lineBufferRef("A"), QString());
+        QCOMPARE(plan.lineBuffer("A").value("target_ph").toDouble(), 2.8);
+    }
+
+    void methods_rows_and_time_edit_like_at_the_bench() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        GradientModel g;
+        g.setPlan(&plan);
+        // A new method, renamed; the rows that run a method follow its new name.
+        const QString made = plan.addMethod();
+        QCOMPARE(plan.renameMethod(made, "gradient 5-95"), QString());
+        QVERIFY(plan.renameMethod("gradient 5-95", "assay").contains("taken"));
+        QCOMPARE(plan.renameMethod("assay", "assay v2"), QString());
+        for (const QJsonValue& r : plan.rows())
+            QVERIFY(r.toObject().value("method").toString() != "assay");
+        QVERIFY(plan.removeMethod("assay v2").contains("sequence row"));
+        QCOMPARE(plan.removeMethod("gradient 5-95"), QString());
+        // Two lines in use: typing one percentage fills the other.
+        g.setMethodName("assay v2");
+        g.setPercent(0, "A", 95);
+        QCOMPARE(g.percentAt(0, "B"), 5.0);
+        // An invalid row: the plan keeps its last valid result, greyed (stale), and names the row.
+        plan.recomputeNow();
+        QVERIFY(plan.valid());
+        const QString end = plan.endText();
+        g.setTime(1, -3);
+        plan.recomputeNow();
+        QVERIFY(!plan.valid());
+        QVERIFY(plan.stale());
+        QCOMPARE(plan.endText(), end);
+        QVERIFY2(plan.errorPlace().startsWith("Method “assay v2”, gradient row 2"), qPrintable(plan.errorPlace()));
+        QCOMPARE(g.errorRow(), 1);
+        g.setTime(1, 9);
+        plan.recomputeNow();
+        QVERIFY(plan.valid() && !plan.stale());
+        // Removing a row can be undone, in place.
+        const int rows = g.rowCount();
+        const double t2 = g.data(g.index(2), GradientModel::TimeRole).toDouble();
+        g.removeRow(2);
+        QCOMPARE(g.rowCount(), rows - 1);
+        QVERIFY(g.undoText().contains("row 3"));
+        g.undoRemove();
+        QCOMPARE(g.rowCount(), rows);
+        QCOMPARE(g.data(g.index(2), GradientModel::TimeRole).toDouble(), t2);
+        SequenceRowsModel seq;
+        seq.setPlan(&plan);
+        const QJsonArray before = plan.rows();
+        seq.removeRow(0);
+        QVERIFY(seq.undoText().contains("SST"));
+        seq.undoRemove();
+        QCOMPARE(plan.rows(), before);
+        // The start is picked, and the standby moves with it: until 07:30 after the last injection.
+        plan.setStartAt(2026, 12, 2, 21, 15);
+        plan.recomputeNow();
+        QCOMPARE(plan.startText(), QString("today 21:15"));
+        QCOMPARE(plan.endText(), QString("tomorrow 06:45"));
+        QCOMPARE(plan.standbyText(), QString("until tomorrow 07:30 (45 min)"));
+        plan.setStandbyEnabled(false);
+        plan.recomputeNow();
+        QCOMPARE(plan.standbyText(), QString());
+        plan.setStandbyEnabled(true);
+        QCOMPARE(plan.standbyUntilHour(), 7);
+        QCOMPARE(plan.standbyUntilMinute(), 30);
+    }
+
+    void buffers_are_made_named_duplicated_and_deleted() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setPlan(&plan);
+        const QString made = d.newBuffer();
+        QVERIFY(d.autoName());
+        QCOMPARE(made, d.defaultName());
+        QCOMPARE(made, QString("25 mM phosphate pH 7.00"));
+        // The name follows the inputs until the buffer is named.
+        d.setTargetPh(6.8);
+        QCOMPARE(d.bufferName(), QString("25 mM phosphate pH 6.80"));
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM phosphate pH 6.80"));
+        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM phosphate pH 7.00"));
+        QCOMPARE(d.renameBuffer("Assay buffer"), QString());
+        d.setTargetPh(6.9);
+        QCOMPARE(d.bufferName(), QString("Assay buffer"));
+        // A name taken by another buffer is refused, with the name in the message.
+        QCOMPARE(d.duplicateBuffer("Assay buffer 2"), QString());
+        QCOMPARE(d.bufferName(), QString("Assay buffer 2"));
+        QVERIFY(d.renameBuffer("Assay buffer").contains("Assay buffer"));
+        QCOMPARE(d.bufferName(), QString("Assay buffer 2"));
+        // Both are in the list; deleting opens another.
+        QStringList names;
+        for (const QVariant& v : d.bufferChoices()) names << v.toMap().value("id").toString();
+        QVERIFY(names.contains("Assay buffer") && names.contains("Assay buffer 2"));
+        QCOMPARE(d.deleteBuffer(), QString());
+        QVERIFY(d.bufferName() != "Assay buffer 2");
+        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer, "Assay buffer 2"));
+        // A line takes a saved buffer for the fraction its parts leave.
+        LinesModel lines;
+        lines.setPlan(&plan);
+        lines.setPartPercent("C", 0, 60);
+        QCOMPARE(lines.remainingPercent("C"), 40.0);
+        lines.addBufferPart("C", "Assay buffer");
+        QCOMPARE(plan.lineBufferRef("C"), QString("Assay buffer"));
+        QCOMPARE(lines.remainingPercent("C"), 0.0);
+        QVERIFY(d.openBuffer("Assay buffer"));
+        QCOMPARE(d.usedByLines(), QStringList{"C"});
     }
 
     void plan_levels_balance() {
@@ -456,9 +596,9 @@ private slots:
             BufferDesigner d;
             d.setWorkspace(ws.get());
             d.setAutosaveKey("current_buffer");
-            d.setLineLetter("");
+            d.newBuffer();
+            QCOMPARE(d.renameBuffer("Thursday buffer"), QString());
             d.setTargetPh(5.55);
-            d.flushAutosave();
             plan.setStart("2026-12-03T19:30:00"); // an edit after the save: autosaved, not saved
             edited_plan = plan.json();
         } // destructors flush the autosaves, as closing the app does
@@ -471,7 +611,7 @@ private slots:
         BufferDesigner d;
         d.setWorkspace(ws.get());
         d.setAutosaveKey("current_buffer");
-        QCOMPARE(d.lineLetter(), QString());
+        QCOMPARE(d.bufferName(), QString("Thursday buffer"));
         QCOMPARE(d.targetPh(), 5.55);
         SavedWorkModel saved;
         saved.setWorkspace(ws.get());

@@ -123,6 +123,7 @@ class TestSequence : public QObject {
     void wasteOverflowCheck();
     void plansSumPerLineRecipe();
     void clockTimesKeepAnOffset();
+    void standbyUntilATimeOfDayMovesWithTheStart();
     void badInputIsRejected_data();
     void badInputIsRejected();
 };
@@ -566,6 +567,26 @@ void TestSequence::clockTimesKeepAnOffset() {
     QJsonObject spring = set_path(base_doc(), "start", "2027-03-27T23:30:00");
     spring = set_path(spring, "sequence[0].injections", 12);
     QCOMPARE(run_sequence(spring)["end"].toString(), QString("2027-03-28T03:30:00"));
+}
+
+void TestSequence::standbyUntilATimeOfDayMovesWithTheStart() {
+    // The demo's standby runs "until": "07:30": the first 07:30 after the last injection ends.
+    // Started 18:00, the injections end at 03:30 next day (570 min, demoSequence): standby
+    // 03:30 → 07:30 = 240 min. Started two days later at 21:15, they end 06:45 → 45 min.
+    // Started at 23:00 they end 08:30, after 07:30: the standby runs to 07:30 the day after,
+    // 23 h later (1380 min). Hand arithmetic on the clock, no source needed.
+    const QJsonObject demo = phaseplan::testing::read_json(SOURCE_DIR "/data/demo/overnight-sequence.json");
+    QCOMPARE(demo["standby"]["until"].toString(), QString("07:30"));
+    auto run_at = [&](const char* start) { return run_sequence(set_path(demo, "start", start)); };
+    QJsonObject out = run_at("2026-12-01T18:00:00");
+    QCOMPARE(out["standby_min"].toDouble(), 240.0);
+    QCOMPARE(out["standby_end"].toString(), QString("2026-12-02T07:30:00"));
+    out = run_at("2026-12-03T21:15:00");
+    QCOMPARE(out["standby_min"].toDouble(), 45.0);
+    QCOMPARE(out["standby_end"].toString(), QString("2026-12-04T07:30:00"));
+    out = run_at("2026-12-03T23:00:00");
+    QCOMPARE(out["standby_min"].toDouble(), 1380.0);
+    QCOMPARE(out["standby_end"].toString(), QString("2026-12-05T07:30:00"));
 }
 
 void TestSequence::badInputIsRejected_data() {

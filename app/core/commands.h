@@ -4,8 +4,11 @@
 // stderr and exits with status 2. Tests call these in-process too.
 #include "core/app_data.h"
 
+#include <QDateTime>
 #include <QJsonObject>
 #include <QString>
+
+#include <functional>
 
 namespace phaseplan {
 
@@ -13,6 +16,9 @@ namespace phaseplan {
 struct CommandOptions {
     QString output_path;  ///< -o FILE (sheet, labels)
     QString paper = "a4"; ///< --paper a4|letter|label62
+    /// How clock times are worded in messages: the app passes "tomorrow 03:30"; empty gives
+    /// "2026-12-02 03:12", as the command-line tool prints them.
+    std::function<QString(const QDateTime&)> clock_words;
 };
 
 QJsonObject command_solve(const AppData& data, const QJsonObject& input, const CommandOptions& opt);

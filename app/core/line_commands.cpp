@@ -5,6 +5,7 @@
 #include "core/json_util.h"
 
 #include <QJsonDocument>
+#include <QRegularExpression>
 #include <QTimeZone>
 
 #include <algorithm>
@@ -159,6 +160,16 @@ QString recipe_key_of(const QJsonObject& line, const std::string& name) {
 
 } // namespace
 
+chem::NameLookup library_names(const AppData& data) {
+    return [&data](const std::string& id) -> std::string {
+        if (const chem::Reagent* r = data.reagents.find_reagent(id))
+            return r->name;
+        if (const chem::Solvent* s = data.solvents.find_solvent(id))
+            return s->name;
+        return id;
+    };
+}
+
 QString Clock::iso(double minutes) const {
     // To the nearest second.
     const QDateTime t = start.addSecs(static_cast<qint64>(std::llround(minutes * 60.0)));
@@ -167,8 +178,24 @@ QString Clock::iso(double minutes) const {
 
 std::string Clock::text(double minutes) const {
     const QDateTime t = start.addMSecs(static_cast<qint64>(std::llround(minutes * 60000.0)));
+    if (words)
+        return words(t).toStdString();
     return t.toString(QStringLiteral("yyyy-MM-dd HH:mm")).toStdString();
 }
+
+namespace {
+/// "07:30" or "07:30:00" as a time of day; invalid for anything else (a full date and time).
+QTime time_of_day(const QJsonValue& v) {
+    if (!v.isString())
+        return {};
+    const QString s = v.toString();
+    static const QRegularExpression re(QStringLiteral("^([01]?\\d|2[0-3]):([0-5]\\d)(:([0-5]\\d))?$"));
+    const auto m = re.match(s);
+    if (!m.hasMatch())
+        return {};
+    return QTime(m.captured(1).toInt(), m.captured(2).toInt(), m.captured(4).isEmpty() ? 0 : m.captured(4).toInt());
+}
+} // namespace
 
 QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent,
                              bool* has_offset) {
@@ -219,7 +246,9 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
         for (int i = 0; i < parts.size(); ++i) {
             const std::string at = json::path(list, i);
             const QJsonObject po = json::element_object(parts, i, list);
-            json::reject_near_misses(po, {"solvent", "buffer", "fraction_v"}, at);
+            // "buffer_ref": the name of the saved buffer the part follows in the app (the app keeps
+            // "buffer" up to date with it); informational here.
+            json::reject_near_misses(po, {"solvent", "buffer", "buffer_ref", "fraction_v"}, at);
             const bool has_solvent = po.contains("solvent"), has_buffer = po.contains("buffer");
             if (has_solvent == has_buffer)
                 throw chem::Error(at, "give either \"solvent\" or \"buffer\", not both or neither");
@@ -347,7 +376,8 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
     if (r.buffer)
         for (const auto& w : r.buffer->warnings)
             warnings.append(warning_to_json(w));
-    for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column))
+    for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column,
+                                          library_names(data)))
         warnings.append(check_warning_to_json(w, nullptr));
 
     QJsonObject out{
@@ -400,7 +430,8 @@ struct PlanResult {
     std::vector<BatchUse> uses;
 };
 
-PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root) {
+PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
+                    const CommandOptions& options) {
     auto P = [&](const char* key) { return json::path(root, key); };
     chem::SequenceInput in;
     json::reject_near_misses(doc,
@@ -409,6 +440,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                              root);
     Clock clock;
     clock.start = datetime_from_json(doc, "start", root, &clock.has_offset);
+    clock.words = options.clock_words;
 
     // lines
     const QJsonObject lines = json::require_object(doc, "lines", root);
@@ -497,6 +529,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     const auto column = column_from_json(doc, root);
 
     std::optional<QDateTime> standby_until;
+    std::optional<QTime> standby_until_time; ///< "07:30": the first such time after the last injection
     if (doc.contains("standby") && !doc.value("standby").isNull()) {
         const std::string at = P("standby");
         const QJsonObject so = json::require_object(doc, "standby", root);
@@ -509,6 +542,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             throw chem::Error(at, "give either duration_min or until");
         if (has_d)
             sb.duration_min = json::require_number(so, "duration_min", at);
+        else if (const QTime tod = time_of_day(so.value("until")); tod.isValid())
+            standby_until_time = tod;
         else
             standby_until = datetime_from_json(so, "until", at, nullptr);
         chem::LineValues p{};
@@ -547,7 +582,18 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     }
     chem::SequencePlan plan;
     try {
-        if (standby_until) {
+        if (standby_until_time) {
+            // A time of day moves with the start: the first such time at or after the end of the
+            // last injection (the morning after a night's run).
+            auto probe = in;
+            probe.standby.reset();
+            const double end = chem::plan_sequence(probe).total_min;
+            const QDateTime end_at = clock.start.addMSecs(static_cast<qint64>(std::llround(end * 60000.0)));
+            QDateTime until(end_at.date(), *standby_until_time, end_at.timeZone());
+            if (until < end_at)
+                until = until.addDays(1);
+            in.standby->duration_min = clock.start.msecsTo(until) / 60000.0 - end;
+        } else if (standby_until) {
             // The standby runs from the end of the last injection until the given time.
             auto probe = in;
             probe.standby.reset();
@@ -569,6 +615,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     c.detector = detector;
     c.column = column;
     c.clock = [&clock](double m) { return clock.text(m); };
+    c.name_of = library_names(data);
     const auto checks = chem::check_sequence(c);
 
     // output
@@ -741,9 +788,10 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
 
 } // namespace
 
-QJsonObject command_sequence(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
+                             const CommandOptions& options) {
     if (!input.contains("plans")) {
-        PlanResult r = plan_one(data, input, "");
+        PlanResult r = plan_one(data, input, "", options);
         r.out["batches"] = batches_of(r.uses, nullptr);
         return r.out;
     }
@@ -754,7 +802,7 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input, cons
     std::vector<BatchUse> uses;
     for (int i = 0; i < plans.size(); ++i) {
         const std::string at = json::path("plans", i);
-        PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at);
+        PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at, options);
         uses.insert(uses.end(), r.uses.begin(), r.uses.end());
         outs.append(r.out);
     }

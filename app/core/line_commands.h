@@ -31,9 +31,12 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
 struct Clock {
     QDateTime start;
     bool has_offset = false;
+    std::function<QString(const QDateTime&)> words; ///< the app's wording; empty: as below
     QString iso(double minutes) const;      ///< "2026-12-02T03:12:30"
     std::string text(double minutes) const; ///< "2026-12-02 03:12" for messages
 };
+/// Reagent and solvent names by id, for the checks' messages ("Acetonitrile", not "acetonitrile").
+chem::NameLookup library_names(const AppData& data);
 /// Reads an ISO date-time; throws chem::Error(path.key, …) when it is not one.
 QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent,
                              bool* has_offset);

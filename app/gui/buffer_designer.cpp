@@ -25,11 +25,12 @@ double nice_ceiling(double v) {
     return 10 * p;
 }
 
-} // namespace
+/// A concentration for a name: "20", "12.5", "0.75" (no trailing zeros), locale-independent.
+QString format_fixed_text(double v) { return QString::fromStdString(chem::format_number(std::round(v * 100) / 100)); }
 
-namespace {
 constexpr int autosave_delay_ms = 300;
-}
+
+} // namespace
 
 BufferDesigner::BufferDesigner(QObject* parent) : QObject(parent) {
     autosave_.setSingleShot(true);
@@ -48,20 +49,30 @@ void BufferDesigner::setAutosaveKey(const QString& k) {
 }
 
 void BufferDesigner::schedule_autosave() {
-    if (autosave_key_.isEmpty()) return;
     dirty_ = true;
     autosave_.start();
 }
 
+QJsonObject BufferDesigner::saved_document() const {
+    QJsonObject doc = requestDocument();
+    if (auto_name_) doc.insert("auto_name", true);
+    else doc.remove("auto_name");
+    return doc;
+}
+
 void BufferDesigner::flushAutosave() {
-    if (!dirty_ || autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    if (!dirty_ || buffer_name_.isEmpty() || !workspace_ || !workspace_->database()) return;
     autosave_.stop();
-    const QJsonObject own = line_letter_.isEmpty() ? requestDocument() : own_buffer_;
     const FieldError e = guarded([&] {
-        workspace_->database()->set_setting(autosave_key_, QJsonObject{{"line", line_letter_}, {"buffer", own}});
+        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
     });
-    if (!e.empty()) qWarning("PhasePlan: autosave failed: %s", qPrintable(e.message));
+    if (!e.empty()) qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
     dirty_ = false;
+}
+
+void BufferDesigner::remember_current() {
+    if (autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    guarded([&] { workspace_->database()->set_setting(autosave_key_, QJsonObject{{"name", buffer_name_}}); });
 }
 
 void BufferDesigner::componentComplete() {
@@ -70,24 +81,224 @@ void BufferDesigner::componentComplete() {
 }
 
 void BufferDesigner::restore_state() {
-    if (constructing_ || restored_ || autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    if (constructing_ || restored_ || !workspace_ || !workspace_->database()) return;
     restored_ = true;
-    const QJsonObject saved = workspace_->database()->setting(autosave_key_).toObject();
-    if (saved.isEmpty()) {
-        // First run: show the first line's buffer of the plan (the demo's), if there is one.
-        if (plan_)
-            for (const QString& l : plan_->lineLetters())
-                if (!plan_->lineBuffer(l).isEmpty()) {
-                    own_buffer_ = requestDocument();
-                    setLineLetter(l);
-                    return;
-                }
-        return;
+    rebuild_buffer_list();
+    QString name;
+    if (!autosave_key_.isEmpty()) {
+        const QJsonObject saved = workspace_->database()->setting(autosave_key_).toObject();
+        name = saved.value("name").toString();
+        // Earlier versions kept the designer's own buffer in the setting itself.
+        const QJsonObject own = saved.value("buffer").toObject();
+        if (name.isEmpty() && !own.isEmpty()) {
+            loadJson(own);
+            name = free_name(own.value("name").toString(defaultName()));
+            guarded([&] { workspace_->database()->save(storage::DocumentKind::buffer, name, own); });
+            rebuild_buffer_list();
+        }
     }
-    const QJsonObject own = saved.value("buffer").toObject();
-    if (!own.isEmpty()) loadJson(own);
-    own_buffer_ = requestDocument();
-    setLineLetter(saved.value("line").toString());
+    if (!name.isEmpty() && openBuffer(name)) return;
+    // First run: the buffer the plan's first line holds (the demo's), else the newest saved one,
+    // else a new one.
+    if (plan_)
+        for (const QString& l : plan_->lineLetters()) {
+            const QString ref = plan_->lineBufferRef(l);
+            if (!ref.isEmpty() && openBuffer(ref)) return;
+        }
+    const auto saved = workspace_->database()->list(storage::DocumentKind::buffer);
+    if (!saved.empty() && openBuffer(saved.front().name)) return;
+    newBuffer();
+}
+
+void BufferDesigner::rebuild_buffer_list() {
+    QVariantList list;
+    if (workspace_ && workspace_->database()) {
+        auto infos = workspace_->database()->list(storage::DocumentKind::buffer);
+        std::sort(infos.begin(), infos.end(), [](const auto& a, const auto& b) {
+            return QString::localeAwareCompare(a.name, b.name) < 0;
+        });
+        for (const auto& i : infos) list.append(QVariantMap{{"id", i.name}, {"name", i.name}});
+    }
+    if (list == buffer_choices_) return;
+    buffer_choices_ = list;
+    emit bufferListChanged();
+}
+
+QStringList BufferDesigner::usedByLines() const {
+    QStringList out;
+    if (!plan_ || buffer_name_.isEmpty()) return out;
+    for (const QString& l : plan_->lineLetters())
+        if (plan_->lineBufferRef(l) == buffer_name_) out << l;
+    return out;
+}
+
+bool BufferDesigner::openBuffer(const QString& name) {
+    if (!workspace_ || !workspace_->database()) return false;
+    if (name == buffer_name_ && !buffer_name_.isEmpty()) return true;
+    const auto doc = workspace_->database()->load(storage::DocumentKind::buffer, name);
+    if (!doc) return false;
+    flushAutosave();
+    buffer_name_ = name;
+    auto_name_ = doc->value("auto_name").toBool(false);
+    loadJson(*doc);
+    remember_current();
+    emit bufferChanged();
+    return true;
+}
+
+QString BufferDesigner::newBuffer() {
+    if (!workspace_ || !workspace_->database()) return {};
+    flushAutosave();
+    loading_ = true;
+    route_ = QStringLiteral("mix");
+    system_ = QStringLiteral("phosphate");
+    acid_ = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
+    base_ = QStringLiteral("disodium-hydrogen-phosphate-heptahydrate");
+    weigh_ = acid_;
+    titrant_ = QStringLiteral("sodium-hydroxide");
+    titrant_mol_per_l_ = 1.0;
+    target_ph_ = 7.0;
+    temperature_c_ = 25.0;
+    volume_ml_ = 1000.0;
+    strength_basis_ = QStringLiteral("concentration");
+    concentration_mmol_per_l_ = 25.0;
+    extra_.clear();
+    loading_ = false;
+    rebuild_choices();
+    auto_name_ = true;
+    buffer_name_ = free_name(defaultName());
+    const FieldError e = guarded([&] {
+        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
+    });
+    if (!e.empty()) qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
+    emit inputsChanged();
+    recompute();
+    rebuild_buffer_list();
+    remember_current();
+    emit bufferChanged();
+    workspace_->notifySaved();
+    return buffer_name_;
+}
+
+QString BufferDesigner::duplicateBuffer(const QString& wanted) {
+    if (!workspace_ || !workspace_->database()) return tr("no database is open");
+    const QString name = wanted.trimmed().isEmpty() ? free_name(tr("%1 (copy)").arg(buffer_name_)) : wanted.trimmed();
+    if (name.size() > 64) return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
+    if (workspace_->database()->load(storage::DocumentKind::buffer, name))
+        return tr("Buffer name: “%1” is taken by another saved buffer").arg(name);
+    flushAutosave();
+    const bool was_auto = auto_name_;
+    auto_name_ = false;
+    const QString old = buffer_name_;
+    buffer_name_ = name;
+    const FieldError e = guarded([&] {
+        workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
+    });
+    if (!e.empty()) {
+        buffer_name_ = old;
+        auto_name_ = was_auto;
+        return e.message;
+    }
+    rebuild_buffer_list();
+    remember_current();
+    emit inputsChanged();
+    emit bufferChanged();
+    workspace_->notifySaved();
+    return {};
+}
+
+QString BufferDesigner::renameBuffer(const QString& wanted) {
+    if (!workspace_ || !workspace_->database()) return tr("no database is open");
+    const QString name = wanted.trimmed();
+    if (name.isEmpty()) return tr("Buffer name: type a name");
+    if (name.size() > 64) return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
+    if (name == buffer_name_) {
+        if (auto_name_) {
+            auto_name_ = false;
+            dirty_ = true;
+            flushAutosave();
+            emit bufferChanged();
+        }
+        return {};
+    }
+    if (workspace_->database()->load(storage::DocumentKind::buffer, name))
+        return tr("Buffer name: “%1” is taken by another saved buffer").arg(name);
+    flushAutosave();
+    const QString old = buffer_name_;
+    const FieldError e = guarded([&] {
+        if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
+            workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
+    });
+    if (!e.empty()) return e.message;
+    buffer_name_ = name;
+    auto_name_ = false;
+    dirty_ = true;
+    flushAutosave();
+    if (plan_) plan_->renameBufferRefs(old, name, requestDocument());
+    rebuild_buffer_list();
+    remember_current();
+    emit inputsChanged();
+    emit bufferChanged();
+    workspace_->notifySaved();
+    return {};
+}
+
+QString BufferDesigner::deleteBuffer() {
+    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty()) return tr("no buffer is open");
+    autosave_.stop();
+    dirty_ = false;
+    const QString gone = buffer_name_;
+    const FieldError e = guarded([&] { workspace_->database()->remove(storage::DocumentKind::buffer, gone); });
+    if (!e.empty()) return e.message;
+    if (plan_) plan_->dropBufferRefs(gone);
+    buffer_name_.clear();
+    rebuild_buffer_list();
+    workspace_->notifySaved();
+    const auto saved = workspace_->database()->list(storage::DocumentKind::buffer);
+    if (saved.empty() || !openBuffer(saved.front().name)) newBuffer();
+    return {};
+}
+
+QString BufferDesigner::free_name(const QString& wanted) const {
+    const QString base = wanted.trimmed().isEmpty() ? tr("Buffer") : wanted.trimmed().left(56);
+    if (!workspace_ || !workspace_->database()) return base;
+    QString name = base;
+    for (int i = 2; workspace_->database()->load(storage::DocumentKind::buffer, name); ++i)
+        name = QStringLiteral("%1 (%2)").arg(base).arg(i);
+    return name;
+}
+
+QString BufferDesigner::defaultName() const {
+    // "20 mM phosphate pH 2.50": what a method's mobile-phase line says.
+    QString system = system_;
+    if (workspace_ && workspace_->ready())
+        for (const chem::AcidBaseSystem& s : workspace_->data().reagents.systems())
+            if (QString::fromStdString(s.id) == system_) {
+                system = QString::fromStdString(s.name).section(QLatin1Char(' '), 0, 0).toLower();
+                break;
+            }
+    const QString strength = strength_basis_ == QLatin1String("ionic_strength")
+                                 ? tr("I = %1 mM").arg(format_fixed_text(ionic_strength_mmol_per_l_))
+                                 : tr("%1 mM").arg(format_fixed_text(concentration_mmol_per_l_));
+    return tr("%1 %2 pH %3").arg(strength, system, QString::fromStdString(chem::format_fixed(target_ph_, 2)));
+}
+
+void BufferDesigner::follow_default_name() {
+    if (!auto_name_ || !workspace_ || !workspace_->database() || buffer_name_.isEmpty()) return;
+    const QString wanted = defaultName();
+    if (wanted == buffer_name_ || buffer_name_.startsWith(wanted + QStringLiteral(" ("))) return;
+    const QString name = free_name(wanted);
+    const QString old = buffer_name_;
+    const FieldError e = guarded([&] {
+        if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
+            workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
+    });
+    if (!e.empty()) return;
+    buffer_name_ = name;
+    if (plan_) plan_->renameBufferRefs(old, name, requestDocument());
+    rebuild_buffer_list();
+    remember_current();
+    emit bufferChanged();
 }
 
 void BufferDesigner::setWorkspace(Workspace* w) {
@@ -102,12 +313,13 @@ void BufferDesigner::setWorkspace(Workspace* w) {
         connect(w, &Workspace::readyChanged, this, [this] {
             rebuild_choices();
             recompute();
+            restore_state();
         });
+        connect(w, &Workspace::savedChanged, this, &BufferDesigner::rebuild_buffer_list);
     }
     emit workspaceChanged();
     rebuild_choices();
     restore_state();
-    load_from_plan();
     recompute();
 }
 
@@ -115,34 +327,9 @@ void BufferDesigner::setPlan(Plan* p) {
     if (p == plan_) return;
     if (plan_) disconnect(plan_, nullptr, this, nullptr);
     plan_ = p;
-    if (p) connect(p, &Plan::documentReplaced, this, &BufferDesigner::load_from_plan);
+    if (p) connect(p, &Plan::bufferLinesChanged, this, &BufferDesigner::bufferChanged);
     emit planChanged();
     restore_state();
-    load_from_plan();
-}
-
-void BufferDesigner::setLineLetter(const QString& l) {
-    if (l == line_letter_) return;
-    // Leaving its own buffer for a line's: keep it to come back to.
-    if (line_letter_.isEmpty()) own_buffer_ = requestDocument();
-    line_letter_ = l;
-    emit lineLetterChanged();
-    if (l.isEmpty() && !own_buffer_.isEmpty()) loadJson(own_buffer_);
-    else load_from_plan();
-    schedule_autosave();
-}
-
-void BufferDesigner::load_from_plan() {
-    if (!plan_ || line_letter_.isEmpty()) return;
-    QJsonObject doc = plan_->lineBuffer(line_letter_);
-    if (doc.isEmpty()) return;
-    // A line's buffer without a volume of its own is made for its share of the bottle (as the
-    // core's line command does): show that volume.
-    if (!doc.contains(QLatin1String("volume_ml"))) {
-        const double share_ml = plan_->lineBufferVolumeMl(line_letter_);
-        if (share_ml > 0) doc.insert("volume_ml", share_ml);
-    }
-    loadJson(doc);
 }
 
 template <class T>
@@ -151,12 +338,16 @@ void BufferDesigner::set_input(T& member, const T& value) {
     member = value;
     emit inputsChanged();
     if (loading_) return;
+    after_edit();
+}
+
+void BufferDesigner::after_edit() {
     recompute();
-    if (plan_ && !line_letter_.isEmpty()) plan_->setLineBuffer(line_letter_, requestDocument());
+    follow_default_name();
+    if (plan_ && !buffer_name_.isEmpty()) plan_->updateBufferRefs(buffer_name_, requestDocument());
     emit edited();
 }
 
-void BufferDesigner::setName(const QString& v) { set_input(name_, v); }
 void BufferDesigner::setRoute(const QString& v) { set_input(route_, v); }
 void BufferDesigner::setSystem(const QString& v) {
     if (v == system_) return;
@@ -180,9 +371,7 @@ void BufferDesigner::setSystem(const QString& v) {
     loading_ = was_loading;
     emit inputsChanged();
     if (loading_) return;
-    recompute();
-    if (plan_ && !line_letter_.isEmpty()) plan_->setLineBuffer(line_letter_, requestDocument());
-    emit edited();
+    after_edit();
 }
 void BufferDesigner::setAcid(const QString& v) { set_input(acid_, v); }
 void BufferDesigner::setBase(const QString& v) { set_input(base_, v); }
@@ -229,7 +418,7 @@ void BufferDesigner::rebuild_choices() {
 
 QJsonObject BufferDesigner::requestDocument() const {
     QJsonObject doc = QJsonObject::fromVariantMap(extra_);
-    if (!name_.isEmpty()) doc.insert("name", name_);
+    if (!buffer_name_.isEmpty()) doc.insert("name", buffer_name_);
     else doc.remove("name");
     doc.insert("target_ph", target_ph_);
     doc.insert("temperature_c", temperature_c_);
@@ -268,7 +457,6 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     auto num = [&](const char* key, double& member, double scale = 1.0) {
         if (doc.value(QLatin1String(key)).isDouble()) member = doc.value(QLatin1String(key)).toDouble() * scale;
     };
-    name_ = doc.value(QLatin1String("name")).toString();
     str("route", route_);
     str("acid", acid_);
     str("base", base_);
@@ -296,7 +484,7 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     }
     if (!sys.isEmpty()) system_ = sys;
     QVariantMap extra = doc.toVariantMap();
-    for (const char* k : {"name", "route", "system", "acid", "base", "weigh", "titrant", "titrant_mol_per_l",
+    for (const char* k : {"name", "auto_name", "route", "system", "acid", "base", "weigh", "titrant", "titrant_mol_per_l",
                           "acid_stock_mol_per_l", "base_stock_mol_per_l", "target_ph", "temperature_c",
                           "volume_ml", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
         extra.remove(QLatin1String(k));
@@ -305,16 +493,6 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     emit inputsChanged();
     rebuild_choices();
     recompute();
-}
-
-QString BufferDesigner::saveAs(const QString& name) {
-    if (!workspace_ || !workspace_->database()) return QStringLiteral("no database is open");
-    const FieldError e = guarded([&] {
-        setName(name.trimmed());
-        workspace_->database()->save(storage::DocumentKind::buffer, name.trimmed(), requestDocument());
-    });
-    if (e.empty()) workspace_->notifySaved();
-    return e.message;
 }
 
 void BufferDesigner::recompute() {

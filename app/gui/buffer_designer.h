@@ -31,17 +31,25 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     Q_INTERFACES(QQmlParserStatus)
     // ---- dependencies -----------------------------------------------------------------------
     Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
-    /// When set together with lineLetter, the designer edits that line's aqueous buffer part and
-    /// writes every edit back into the plan.
+    /// The plan whose lines may hold this buffer by reference: they follow every edit.
     Q_PROPERTY(phaseplan::gui::Plan* plan READ plan WRITE setPlan NOTIFY planChanged)
-    /// "A"–"D": edit that line's buffer; empty: a buffer of its own.
-    Q_PROPERTY(QString lineLetter READ lineLetter WRITE setLineLetter NOTIFY lineLetterChanged)
-    /// Settings key under which the designer keeps its own buffer and line choice between runs
+    /// Settings key under which the designer keeps the name of the buffer it edits between runs
     /// (empty: not kept). Restored when the workspace is set.
     Q_PROPERTY(QString autosaveKey READ autosaveKey WRITE setAutosaveKey NOTIFY workspaceChanged)
 
+    // ---- the saved buffer edited -------------------------------------------------------------
+    /// The saved buffer this designer edits (its name in the lab's database). Every edit is
+    /// saved into it a moment later; "" before the workspace is open.
+    Q_PROPERTY(QString bufferName READ bufferName NOTIFY bufferChanged)
+    /// The name follows the inputs ("20 mM phosphate pH 2.5") until the user names the buffer.
+    Q_PROPERTY(bool autoName READ autoName NOTIFY bufferChanged)
+    /// [{id: name, name: name}] of every saved buffer, for the picker.
+    Q_PROPERTY(QVariantList bufferChoices READ bufferChoices NOTIFY bufferListChanged)
+    /// Lines of the plan that hold this buffer ("A", "C"), for "used by line A".
+    Q_PROPERTY(QStringList usedByLines READ usedByLines NOTIFY bufferChanged)
     // ---- inputs (the recipe document, units in the names) ------------------------------------
-    Q_PROPERTY(QString name READ name WRITE setName NOTIFY inputsChanged)
+    /// The buffer's name (= bufferName); setting it names the buffer (renameBuffer).
+    Q_PROPERTY(QString name READ name WRITE setName NOTIFY bufferChanged)
     /// "mix", "titrate" or "stocks".
     Q_PROPERTY(QString route READ route WRITE setRoute NOTIFY inputsChanged)
     /// Acid-base system id ("phosphate"); narrows the reagent choices.
@@ -109,18 +117,34 @@ public:
     void setWorkspace(Workspace* w);
     Plan* plan() const { return plan_; }
     void setPlan(Plan* p);
-    QString lineLetter() const { return line_letter_; }
-    void setLineLetter(const QString& l);
     QString autosaveKey() const { return autosave_key_; }
     void setAutosaveKey(const QString& k);
-    /// Writes the autosave now (also done on destruction).
+    /// Writes the pending save of the buffer now (also done on destruction).
     Q_INVOKABLE void flushAutosave();
+
+    QString bufferName() const { return buffer_name_; }
+    bool autoName() const { return auto_name_; }
+    QVariantList bufferChoices() const { return buffer_choices_; }
+    QStringList usedByLines() const;
+    /// Opens a saved buffer; false when there is none by that name.
+    Q_INVOKABLE bool openBuffer(const QString& name);
+    /// A new buffer (phosphate, pH 7.0, 25 mmol/L, 1000 mL), saved at once under a name that
+    /// follows its inputs. Returns its name.
+    Q_INVOKABLE QString newBuffer();
+    /// A copy of this buffer under `name` (the default: "<name> (copy)"), opened. Returns "" or
+    /// why not (the name is taken).
+    Q_INVOKABLE QString duplicateBuffer(const QString& name = {});
+    /// Names the buffer (it stops following its inputs); lines that hold it follow. "" or why not.
+    Q_INVOKABLE QString renameBuffer(const QString& name);
+    /// Deletes the saved buffer; lines that held it keep their own copy. Opens another buffer.
+    /// "" or why not.
+    Q_INVOKABLE QString deleteBuffer();
     // Created in QML: restore once every property is set (the plan restored first).
     void classBegin() override { constructing_ = true; }
     void componentComplete() override;
 
-    QString name() const { return name_; }
-    void setName(const QString& v);
+    QString name() const { return buffer_name_; }
+    void setName(const QString& v) { renameBuffer(v); }
     QString route() const { return route_; }
     void setRoute(const QString& v);
     QString system() const { return system_; }
@@ -185,8 +209,10 @@ public:
     /// Takes every input from a recipe document (unknown keys ignored), then recomputes.
     Q_INVOKABLE void loadDocument(const QVariantMap& doc);
     void loadJson(const QJsonObject& doc);
-    /// Saves the inputs as a named buffer (one transaction). Returns "" or the error message.
-    Q_INVOKABLE QString saveAs(const QString& name);
+    /// Saves a copy of the inputs under `name` and opens it (duplicateBuffer). "" or why not.
+    Q_INVOKABLE QString saveAs(const QString& name) { return duplicateBuffer(name); }
+    /// The name the inputs give ("20 mM phosphate pH 2.50"), as an unnamed buffer is called.
+    Q_INVOKABLE QString defaultName() const;
     /// Fills a LineSeries with the pH curve, the β curve or the target line.
     /// @param which "ph", "beta", "target".
     Q_INVOKABLE void fillSeries(QObject* series, const QString& which) const;
@@ -198,7 +224,8 @@ public:
 signals:
     void workspaceChanged();
     void planChanged();
-    void lineLetterChanged();
+    void bufferChanged();
+    void bufferListChanged();
     void inputsChanged();
     void choicesChanged();
     void resultChanged();
@@ -214,24 +241,34 @@ signals:
 private:
     template <class T>
     void set_input(T& member, const T& value);
+    /// After an input changed by the user: recompute, follow the default name, update the lines
+    /// that hold the buffer, schedule the save.
+    void after_edit();
     void rebuild_choices();
+    void rebuild_buffer_list();
     void compute_curves(const QJsonObject& recipe);
-    void load_from_plan();
     void restore_state();
     void schedule_autosave();
+    /// The saved document: the inputs plus "name" (and "auto_name" while the name follows them).
+    QJsonObject saved_document() const;
+    /// Renames the saved buffer to follow the inputs while autoName.
+    void follow_default_name();
+    /// A name not yet taken: `wanted`, else "wanted (2)", "wanted (3)", …
+    QString free_name(const QString& wanted) const;
+    void remember_current();
 
     QPointer<Workspace> workspace_;
     QPointer<Plan> plan_;
-    QString line_letter_;
     bool loading_ = false;
     QString autosave_key_;
     QTimer autosave_;
     bool dirty_ = false;
     bool restored_ = false;
     bool constructing_ = false;
-    QJsonObject own_buffer_; ///< the designer's own buffer while it edits a line's
+    QString buffer_name_;
+    bool auto_name_ = true;
+    QVariantList buffer_choices_;
 
-    QString name_ = QStringLiteral("New buffer");
     QString route_ = QStringLiteral("mix");
     QString system_ = QStringLiteral("phosphate");
     QString acid_ = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");

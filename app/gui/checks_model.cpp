@@ -1,6 +1,7 @@
 #include "checks_model.h"
 
 #include "buffer_designer.h"
+#include "field_words.h"
 #include "lines_model.h"
 #include "plan.h"
 #include "workspace.h"
@@ -55,6 +56,28 @@ QString ChecksModel::adviceFor(const QString& code) {
     return tr("Read the message; if it is what you meant, nothing needs doing.");
 }
 
+QString ChecksModel::focusFor(const QString& code, const QString& line, const QVariantMap& w) {
+    const QString l = line.left(1);
+    if (code == QLatin1String("ph-outside-pka-range")) return QStringLiteral("target_ph");
+    if (code == QLatin1String("low-buffer-capacity") || code == QLatin1String("ionic-strength-high"))
+        return QStringLiteral("concentration_mol_per_l");
+    if (code == QLatin1String("small-amount")) return QStringLiteral("volume_ml");
+    if (code == QLatin1String("titrant-volume-large")) return QStringLiteral("titrant_mol_per_l");
+    if (code == QLatin1String("uv-cutoff")) return QStringLiteral("detector.wavelength_nm");
+    if (code == QLatin1String("column-ph")) return QStringLiteral("column.ph_max");
+    if (code == QLatin1String("waste-overflow")) return QStringLiteral("waste_ml");
+    if (code == QLatin1String("runs-dry") && !l.isEmpty()) return QStringLiteral("lines.%1.bottle_ml").arg(l);
+    if (code == QLatin1String("shelf-life") && !l.isEmpty()) return QStringLiteral("lines.%1.prepared_at").arg(l);
+    if (code == QLatin1String("ms-nonvolatile") && !l.isEmpty()) return QStringLiteral("lines.%1.parts").arg(l);
+    if (code == QLatin1String("precipitation") || code == QLatin1String("immiscible")) {
+        const QString where = w.value("where").toString();
+        if (!where.isEmpty() && where != QLatin1String("standby") && !where.startsWith(QLatin1String("in the bottle")))
+            return QStringLiteral("methods.%1.gradient[0]").arg(where);
+        if (!l.isEmpty()) return QStringLiteral("lines.%1.parts").arg(l);
+    }
+    return {};
+}
+
 ChecksModel::ChecksModel(QObject* parent) : QAbstractListModel(parent) {
     // The three sources often change together (a buffer edit changes its line and the plan):
     // gather once, on the next turn of the event loop.
@@ -98,44 +121,77 @@ int ChecksModel::warningCount() const {
 
 void ChecksModel::rebuild() {
     std::vector<Entry> out;
-    auto add_list = [&](const QVariantList& list, const QString& source, const QString& screen) {
+    const QStringList methods = plan_ ? plan_->methodNames() : QStringList();
+    auto add_list = [&](const QVariantList& list, const QString& source, const QString& screen,
+                        const QString& focus_prefix) {
         for (const QVariant& v : list) {
             const QVariantMap w = v.toMap();
             const QString code = w.value("code").toString();
+            const QString line = w.value("line").toString();
             QString src = source;
-            if (src.isEmpty()) {
-                const QString line = w.value("line").toString();
-                src = line.isEmpty() ? tr("Sequence") : tr("Line %1").arg(line);
-            }
+            if (src.isEmpty())
+                src = line.isEmpty() ? tr("Sequence") : line.size() > 1 ? tr("Lines %1").arg(line.split(QString(), Qt::SkipEmptyParts).join(tr(" and ")))
+                                                                        : tr("Line %1").arg(line);
+            QString focus = focusFor(code, line, w);
+            if (focus.isEmpty() && !focus_prefix.isEmpty()) focus = focus_prefix + QStringLiteral("parts");
             out.push_back({w.value("severity").toString(), code, w.value("message").toString(), adviceFor(code),
-                           src, screen});
+                           src, screen, focus});
         }
     };
-    auto add_error = [&](const QString& field, const QString& message, const QString& source, const QString& screen) {
+    auto add_error = [&](const QString& field, const QString& message, const QString& source, const QString& screen,
+                         const QString& prefix) {
         if (message.isEmpty()) return;
+        const QString path = prefix + field;
+        const QString place = field_words(path, methods);
         out.push_back({QStringLiteral("error"), QStringLiteral("input"),
-                       field.isEmpty() ? message : field + QStringLiteral(": ") + message, adviceFor("input"), source,
-                       screen});
+                       place.isEmpty() ? message : place + QStringLiteral(": ") + message, adviceFor("input"), source,
+                       screen, path});
     };
     if (designer_) {
-        const QString src = designer_->lineLetter().isEmpty() ? tr("Buffer")
-                                                              : tr("Buffer of line %1").arg(designer_->lineLetter());
-        add_error(designer_->errorField(), designer_->errorMessage(), src, "buffer");
-        add_list(designer_->warnings(), src, "buffer");
+        const QString src = tr("Buffer “%1”").arg(designer_->bufferName());
+        add_error(designer_->errorField(), designer_->errorMessage(), src, "buffer", QString());
+        add_list(designer_->warnings(), src, "buffer", QString());
+    }
+    // The sequence's findings first: a line's own check of the same code and line says the same.
+    std::vector<Entry> sequence;
+    if (plan_) {
+        std::vector<Entry> saved;
+        std::swap(saved, out);
+        add_error(plan_->errorField(), plan_->errorMessage(), tr("Sequence"), "sequence", QString());
+        add_list(plan_->warnings(), QString(), "sequence", QString());
+        std::swap(saved, out);
+        sequence = std::move(saved);
     }
     if (lines_) {
         for (int r = 0; r < lines_->rowCount(); ++r) {
             if (!lines_->current(r, LinesModel::DefinedRole).toBool()) continue;
-            const QString src = tr("Line %1").arg(lines_->current(r, LinesModel::LetterRole).toString());
+            const QString letter = lines_->current(r, LinesModel::LetterRole).toString();
+            const QString src = tr("Line %1").arg(letter);
             add_error(lines_->current(r, LinesModel::ErrorFieldRole).toString(),
-                      lines_->current(r, LinesModel::ErrorMessageRole).toString(), src, "lines");
-            add_list(lines_->current(r, LinesModel::WarningsRole).toList(), src, "lines");
+                      lines_->current(r, LinesModel::ErrorMessageRole).toString(), src, "lines",
+                      QStringLiteral("lines.%1.").arg(letter));
+            std::vector<Entry> own;
+            std::swap(own, out);
+            add_list(lines_->current(r, LinesModel::WarningsRole).toList(), src, "lines",
+                     QStringLiteral("lines.%1.").arg(letter));
+            std::swap(own, out);
+            for (Entry& e : own) {
+                const bool said = std::any_of(sequence.begin(), sequence.end(), [&](const Entry& s) {
+                    return s.code == e.code && s.source == e.source;
+                });
+                if (!said) out.push_back(std::move(e));
+            }
         }
     }
-    if (plan_) {
-        add_error(plan_->errorField(), plan_->errorMessage(), tr("Sequence"), "sequence");
-        add_list(plan_->warnings(), QString(), "sequence");
-    }
+    for (Entry& e : sequence) out.push_back(std::move(e));
+    // A finding appears once.
+    std::vector<Entry> unique;
+    for (Entry& e : out)
+        if (std::none_of(unique.begin(), unique.end(), [&](const Entry& u) {
+                return u.code == e.code && u.message == e.message;
+            }))
+            unique.push_back(std::move(e));
+    out = std::move(unique);
     std::stable_sort(out.begin(), out.end(), [](const Entry& a, const Entry& b) {
         return severity_rank(a.severity) < severity_rank(b.severity);
     });
@@ -151,7 +207,8 @@ int ChecksModel::rowCount(const QModelIndex& parent) const { return parent.isVal
 
 QHash<int, QByteArray> ChecksModel::roleNames() const {
     return {{SeverityRole, "severity"}, {CodeRole, "code"},     {MessageRole, "message"},
-            {AdviceRole, "advice"},     {SourceRole, "source"}, {ScreenRole, "screen"}};
+            {AdviceRole, "advice"},     {SourceRole, "source"}, {ScreenRole, "screen"},
+            {FocusRole, "focusPath"}};
 }
 
 QVariant ChecksModel::data(const QModelIndex& index, int role) const {
@@ -164,6 +221,7 @@ QVariant ChecksModel::data(const QModelIndex& index, int role) const {
     case AdviceRole: return e.advice;
     case SourceRole: return e.source;
     case ScreenRole: return e.screen;
+    case FocusRole: return e.focus;
     }
     return {};
 }

@@ -39,6 +39,7 @@ public:
         AdviceRole,
         SourceRole,   ///< "Buffer", "Line A", "Sequence"
         ScreenRole,   ///< the screen key to open: "buffer", "lines", "sequence"
+        FocusRole,    ///< the field to focus there, as a contract path ("lines.B.bottle_ml")
     };
     Q_ENUM(Role)
 
@@ -61,6 +62,9 @@ public:
 
     /// What to do about a warning code (a sentence for the bench); a general line for unknown codes.
     Q_INVOKABLE static QString adviceFor(const QString& code);
+    /// The field a warning is best fixed at, as a contract path ("lines.B.bottle_ml" for a bottle
+    /// that runs dry, "target_ph" for a buffer outside its pKa range).
+    static QString focusFor(const QString& code, const QString& line, const QVariantMap& warning);
 
 signals:
     void sourcesChanged();
@@ -68,7 +72,7 @@ signals:
 
 private:
     struct Entry {
-        QString severity, code, message, advice, source, screen;
+        QString severity, code, message, advice, source, screen, focus;
         bool operator==(const Entry&) const = default;
     };
     void rebuild();

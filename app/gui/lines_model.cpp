@@ -1,11 +1,14 @@
 #include "lines_model.h"
 
 #include "core/line_commands.h"
+#include "number_text.h"
 #include "plan.h"
 #include "workspace.h"
 
 #include <QJsonArray>
 #include <QLocale>
+
+#include <cmath>
 
 namespace phaseplan::gui {
 
@@ -16,11 +19,11 @@ const char* additive_units[] = {"percent_v", "percent_w", "mmol_per_l"};
 
 QString volume_text(double ml) {
     const int decimals = ml < 10 ? 2 : ml < 100 ? 1 : 0;
-    return QLocale().toString(ml, 'f', decimals) + QStringLiteral(" mL");
+    return format_decimal(ml, decimals) + QStringLiteral(" mL");
 }
 QString mass_text(double g) {
     const int decimals = g < 1 ? 4 : g < 100 ? 2 : 1;
-    return QLocale().toString(g, 'f', decimals) + QStringLiteral(" g");
+    return format_decimal(g, decimals) + QStringLiteral(" g");
 }
 
 } // namespace
@@ -109,10 +112,12 @@ QVariant LinesModel::role_value(int row, int role) const {
                 const QJsonObject b = p.value("buffer").toObject();
                 QString name = b.value("name").toString();
                 if (name.isEmpty())
-                    name = tr("pH %1 buffer").arg(QLocale().toString(b.value("target_ph").toDouble(), 'f', 2));
+                    name = tr("pH %1 buffer").arg(format_decimal(b.value("target_ph").toDouble(), 2));
+                const QString ref = p.value("buffer_ref").toString();
                 parts.append(QVariantMap{{"kind", "buffer"},
-                                         {"id", QString()},
-                                         {"name", name},
+                                         {"id", ref},
+                                         {"ref", ref},
+                                         {"name", ref.isEmpty() ? name : ref},
                                          {"fraction_v", f},
                                          {"percent_v", f * 100}});
             } else {
@@ -276,36 +281,73 @@ void LinesModel::setPartSolvent(const QString& letter, int i, const QString& sol
         if (i < 0 || i >= parts.size()) return;
         QJsonObject p = parts[i].toObject();
         p.remove("buffer");
+        p.remove("buffer_ref");
         p.insert("solvent", solvent);
         parts[i] = p;
         l.insert("parts", parts);
     });
 }
 
+namespace {
+/// What the parts leave of the line (0 when they fill it): a new part takes that.
+double remaining_fraction(const QJsonArray& parts) {
+    double used = 0;
+    for (const QJsonValue& p : parts) used += p.toObject().value("fraction_v").toDouble();
+    return std::max(0.0, std::round((1.0 - used) * 1e6) / 1e6);
+}
+} // namespace
+
+double LinesModel::remainingPercent(const QString& letter) const {
+    return plan_ ? remaining_fraction(plan_->line(letter).value("parts").toArray()) * 100.0 : 0.0;
+}
+
 void LinesModel::addSolventPart(const QString& letter, const QString& solvent) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
-        parts.append(QJsonObject{{"solvent", solvent}, {"fraction_v", 0.1}});
+        const double rest = remaining_fraction(parts);
+        if (!(rest > 0)) return; // the view disables "+ Solvent" and says why
+        parts.append(QJsonObject{{"solvent", solvent}, {"fraction_v", rest}});
         l.insert("parts", parts);
     });
 }
 
-void LinesModel::addBufferPart(const QString& letter, const QVariantMap& recipe) {
-    QJsonObject r = QJsonObject::fromVariantMap(recipe);
-    if (r.isEmpty())
-        r = QJsonObject{{"name", tr("Phosphate pH 3.0")},
-                        {"target_ph", 3.0},
-                        {"temperature_c", 25},
-                        {"volume_ml", 1000},
-                        {"route", "mix"},
-                        {"acid", "phosphoric-acid"},
-                        {"base", "sodium-dihydrogen-phosphate-monohydrate"},
-                        {"concentration_mol_per_l", 0.02}};
+void LinesModel::addBufferPart(const QString& letter, const QString& bufferName) {
+    Workspace* ws = plan_ ? plan_->workspace() : nullptr;
+    if (!ws || !ws->database()) return;
+    const auto saved = ws->database()->load(storage::DocumentKind::buffer, bufferName);
+    if (!saved) return;
+    QJsonObject r = *saved;
+    r.remove("volume_ml");
+    r.remove("auto_name");
+    r.remove("name"); // the part's buffer_ref names it
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
         for (const QJsonValue& p : parts)
             if (p.toObject().contains("buffer")) return; // one aqueous buffer per line
-        parts.prepend(QJsonObject{{"buffer", r}, {"fraction_v", parts.isEmpty() ? 1.0 : 0.5}});
+        const double rest = remaining_fraction(parts);
+        if (!(rest > 0)) return;
+        parts.append(QJsonObject{{"buffer", r}, {"buffer_ref", bufferName}, {"fraction_v", rest}});
+        l.insert("parts", parts);
+    });
+}
+
+void LinesModel::setPartBuffer(const QString& letter, int i, const QString& bufferName) {
+    Workspace* ws = plan_ ? plan_->workspace() : nullptr;
+    if (!ws || !ws->database()) return;
+    const auto saved = ws->database()->load(storage::DocumentKind::buffer, bufferName);
+    if (!saved) return;
+    QJsonObject r = *saved;
+    r.remove("volume_ml");
+    r.remove("auto_name");
+    r.remove("name"); // the part's buffer_ref names it
+    edit_line(letter, [&](QJsonObject& l) {
+        QJsonArray parts = l.value("parts").toArray();
+        if (i < 0 || i >= parts.size()) return;
+        QJsonObject p = parts[i].toObject();
+        p.remove("solvent");
+        p.insert("buffer", r);
+        p.insert("buffer_ref", bufferName);
+        parts[i] = p;
         l.insert("parts", parts);
     });
 }

@@ -44,7 +44,7 @@ public:
         BottleMlRole,
         ResidueMlRole,
         PrimeMlRole,
-        PartsRole,        ///< [{kind: "solvent"|"buffer", id, name, fraction_v, percent_v}]
+        PartsRole,        ///< [{kind: "solvent"|"buffer", id, ref, name, fraction_v, percent_v}]
         AdditivesRole,    ///< [{id, name, amount, unit: "percent_v"|"percent_w"|"mmol_per_l"}]
         ItemsRole,        ///< [{part, name, volume_ml, mass_g, volume_text, mass_text}] from the core
         UvCutoffNmRole,
@@ -87,8 +87,13 @@ public:
     Q_INVOKABLE void setPartPercent(const QString& letter, int i, double percent);
     Q_INVOKABLE void setPartSolvent(const QString& letter, int i, const QString& solvent);
     Q_INVOKABLE void addSolventPart(const QString& letter, const QString& solvent);
-    /// Adds an aqueous buffer part (the given recipe document, or a phosphate buffer).
-    Q_INVOKABLE void addBufferPart(const QString& letter, const QVariantMap& recipe = {});
+    /// Adds a saved buffer as the line's aqueous part, held by reference (it follows edits in the
+    /// designer). Like a new solvent part, it takes the fraction the other parts leave.
+    Q_INVOKABLE void addBufferPart(const QString& letter, const QString& bufferName);
+    /// Part `i` becomes the saved buffer `bufferName`, held by reference.
+    Q_INVOKABLE void setPartBuffer(const QString& letter, int i, const QString& bufferName);
+    /// % v/v the line's parts leave free (0 when they add up to 100 %).
+    Q_INVOKABLE double remainingPercent(const QString& letter) const;
     Q_INVOKABLE void removePart(const QString& letter, int i);
     Q_INVOKABLE void addAdditive(const QString& letter, const QString& additive);
     /// @param unit "percent_v", "percent_w" or "mmol_per_l".

@@ -1,5 +1,6 @@
 #include "method_models.h"
 
+#include "field_words.h"
 #include "plan.h"
 
 #include <QJsonArray>
@@ -131,11 +132,32 @@ void GradientModel::setTime(int row, double t_min) {
 }
 
 void GradientModel::setPercent(int row, const QString& letter, double percent) {
+    // The lines this method uses: any with a share in some row, and the one being typed.
+    const QJsonArray g0 = method().value("gradient").toArray();
+    QStringList used;
+    for (const QString& l : letters()) {
+        bool in = l == letter;
+        for (const QJsonValue& r : g0) in = in || r.toObject().value(l).toDouble() > 0;
+        if (in) used << l;
+    }
+    const QString last = used.isEmpty() ? QString() : used.last();
+    const auto key = qMakePair(methodName(), row);
+    if (letter == last) last_set_.insert(key);
     edit([&](QJsonObject& m) {
         QJsonArray g = m.value("gradient").toArray();
         if (row < 0 || row >= g.size()) return;
         QJsonObject r = g[row].toObject();
         r.insert(letter, percent);
+        if (used.size() == 2) {
+            // Two lines: typing one fills the other.
+            r.insert(used[0] == letter ? used[1] : used[0], std::max(0.0, 100.0 - percent));
+        } else if (used.size() > 2 && letter != last && !last_set_.contains(key)) {
+            // More lines: the last takes what the others leave, until it is typed in itself.
+            double others = 0;
+            for (const QString& l : used)
+                if (l != last) others += r.value(l).toDouble();
+            r.insert(last, std::max(0.0, 100.0 - others));
+        }
         g[row] = r;
         m.insert("gradient", g);
     });
@@ -155,12 +177,35 @@ void GradientModel::addRow() {
 }
 
 void GradientModel::removeRow(int row) {
+    const QJsonArray g0 = method().value("gradient").toArray();
+    if (row < 0 || row >= g0.size() || g0.size() <= 1) return;
+    const Removed r{methodName(), row, g0.at(row).toObject()};
     edit([&](QJsonObject& m) {
         QJsonArray g = m.value("gradient").toArray();
-        if (row < 0 || row >= g.size() || g.size() <= 1) return;
         g.removeAt(row);
         m.insert("gradient", g);
     });
+    set_undo(r);
+}
+
+void GradientModel::undoRemove() {
+    if (!removed_ || !plan_) return;
+    const Removed r = *removed_;
+    QJsonObject m = plan_->method(r.method);
+    if (!m.isEmpty()) {
+        QJsonArray g = m.value("gradient").toArray();
+        g.insert(std::min<qsizetype>(r.row, g.size()), r.content);
+        m.insert("gradient", g);
+        plan_->setMethod(r.method, m);
+    }
+    set_undo(std::nullopt);
+}
+
+void GradientModel::set_undo(std::optional<Removed> r) {
+    removed_ = std::move(r);
+    undo_text_ = removed_ ? tr("Gradient row %1 of “%2” removed").arg(removed_->row + 1).arg(removed_->method)
+                          : QString();
+    emit undoChanged();
 }
 
 void GradientModel::fillSeries(QObject* series, const QString& letter) const {
@@ -190,6 +235,8 @@ void GradientModel::fillSeries(QObject* series, const QString& letter) const {
     }
     replace_series(series, pts);
 }
+
+QString GradientModel::errorPlace() const { return field_words(error_field_); }
 
 void GradientModel::update_error() {
     QString field, message;
@@ -312,8 +359,24 @@ void SequenceRowsModel::removeRow(int row) {
     if (!plan_) return;
     QJsonArray rows = plan_->rows();
     if (row < 0 || row >= rows.size()) return;
+    const QJsonObject gone = rows.at(row).toObject();
     rows.removeAt(row);
     plan_->setRows(rows);
+    removed_ = std::make_pair(row, gone);
+    const QString label = gone.value("label").toString();
+    undo_text_ = label.isEmpty() ? tr("Sequence row %1 removed").arg(row + 1)
+                                 : tr("Sequence row %1 (“%2”) removed").arg(row + 1).arg(label);
+    emit undoChanged();
+}
+
+void SequenceRowsModel::undoRemove() {
+    if (!plan_ || !removed_) return;
+    QJsonArray rows = plan_->rows();
+    rows.insert(std::min<qsizetype>(removed_->first, rows.size()), removed_->second);
+    plan_->setRows(rows);
+    removed_.reset();
+    undo_text_.clear();
+    emit undoChanged();
 }
 
 void SequenceRowsModel::moveRow(int from, int to) {

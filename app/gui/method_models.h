@@ -12,7 +12,11 @@
 #include <QJsonObject>
 #include <QQmlEngine>
 
+#include <QPair>
+#include <QSet>
+
 #include <functional>
+#include <optional>
 
 // Complete types for the pointer properties, for moc only.
 Q_MOC_INCLUDE("plan.h")
@@ -35,8 +39,13 @@ class GradientModel : public QAbstractListModel {
     /// The plan's error when it lies in this method, relative to it ("gradient[2].t_min").
     Q_PROPERTY(QString errorField READ errorField NOTIFY errorChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
+    /// The field at fault in the screen's words ("Gradient row 2, % A").
+    Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY errorChanged)
     /// Row the error names, −1 when none.
     Q_PROPERTY(int errorRow READ errorRow NOTIFY errorChanged)
+    /// What the last removal took away ("Gradient row 3 of “assay” removed"), "" when nothing
+    /// can be undone.
+    Q_PROPERTY(QString undoText READ undoText NOTIFY undoChanged)
 
 public:
     enum Role { TimeRole = Qt::UserRole + 1, PercentsRole, SumRole, RowErrorRole };
@@ -56,6 +65,7 @@ public:
     QStringList letters() const;
     QString errorField() const { return error_field_; }
     QString errorMessage() const { return error_message_; }
+    QString errorPlace() const;
     int errorRow() const { return error_row_; }
 
     int rowCount(const QModelIndex& parent = {}) const override;
@@ -63,10 +73,16 @@ public:
     QHash<int, QByteArray> roleNames() const override;
 
     Q_INVOKABLE void setTime(int row, double t_min);
+    /// Sets one line's % in a row. When the method uses two lines (a share in some row), the other
+    /// takes the rest (100 − %). With more, the last of them takes the remainder until it is typed
+    /// in itself.
     Q_INVOKABLE void setPercent(int row, const QString& letter, double percent);
     /// Appends a row after the last (its time + 5 min, same composition).
     Q_INVOKABLE void addRow();
+    /// Removes a row (never the last one left); undoRemove() puts it back.
     Q_INVOKABLE void removeRow(int row);
+    Q_INVOKABLE void undoRemove();
+    QString undoText() const { return undo_text_; }
     /// Fills a LineSeries with line `letter`'s % against time over one injection: the table, the
     /// hold to run_min, then re-equilibration at the first row.
     Q_INVOKABLE void fillSeries(QObject* series, const QString& letter) const;
@@ -78,9 +94,20 @@ signals:
     void planChanged();
     void methodChanged();
     void errorChanged();
+    void undoChanged();
 
 private:
     QJsonObject method() const;
+    /// (method, row) pairs whose last line was typed in: it no longer takes the remainder.
+    QSet<QPair<QString, int>> last_set_;
+    struct Removed {
+        QString method;
+        int row = -1;
+        QJsonObject content;
+    };
+    std::optional<Removed> removed_;
+    QString undo_text_;
+    void set_undo(std::optional<Removed> r);
     void edit(const std::function<void(QJsonObject&)>& change);
     void update_error();
     QPointer<Plan> plan_;
@@ -96,6 +123,8 @@ class SequenceRowsModel : public QAbstractListModel {
     QML_ELEMENT
     Q_PROPERTY(phaseplan::gui::Plan* plan READ plan WRITE setPlan NOTIFY planChanged)
     Q_PROPERTY(int totalInjections READ totalInjections NOTIFY changed)
+    /// "Sequence row 3 (“samples”) removed", "" when nothing can be undone.
+    Q_PROPERTY(QString undoText READ undoText NOTIFY undoChanged)
 
 public:
     enum Role { MethodRole = Qt::UserRole + 1, InjectionsRole, LabelRole, RowErrorRole, RowErrorFieldRole };
@@ -114,14 +143,20 @@ public:
     Q_INVOKABLE void setInjections(int row, int injections);
     Q_INVOKABLE void setLabel(int row, const QString& label);
     Q_INVOKABLE void addRow();
+    /// Removes a row; undoRemove() puts it back where it was.
     Q_INVOKABLE void removeRow(int row);
+    Q_INVOKABLE void undoRemove();
     Q_INVOKABLE void moveRow(int from, int to);
+    QString undoText() const { return undo_text_; }
 
 signals:
     void planChanged();
     void changed();
+    void undoChanged();
 
 private:
+    std::optional<std::pair<int, QJsonObject>> removed_;
+    QString undo_text_;
     void edit(int row, const char* key, const QJsonValue& v);
     void reset();
     QPointer<Plan> plan_;

@@ -1,5 +1,7 @@
 #include "model_util.h"
 
+#include "number_text.h"
+
 #include <QDateTime>
 #include <QJsonObject>
 #include <QLocale>
@@ -12,7 +14,11 @@ void replace_series(QObject* series, const QList<QPointF>& points) {
 }
 
 QString amount_text(const QJsonObject& item) {
-    const QLocale loc;
+    // The locale's decimal mark, never a group separator ("1262.5 mL", not "1,262.5 mL", which
+    // reads as 1.2625 mL where the comma is the decimal mark).
+    struct NoGrouping {
+        QString toString(double v, char, int d) const { return format_decimal(v, d); }
+    } loc;
     // A liquid is pipetted: its volume first, the mass in brackets for weighing instead.
     if (item.value(QLatin1String("as")).toString() == QLatin1String("liquid") &&
         item.contains(QLatin1String("volume_ml")) && item.contains(QLatin1String("mass_g"))) {

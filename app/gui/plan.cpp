@@ -1,6 +1,8 @@
 #include "plan.h"
 
+#include "clock_text.h"
 #include "core/line_commands.h"
+#include "field_words.h"
 #include "workspace.h"
 
 #include <QDateTime>
@@ -40,19 +42,43 @@ QJsonObject starter_plan() {
 
 QJsonObject obj(const QJsonObject& o, const char* key) { return o.value(QLatin1String(key)).toObject(); }
 
-/// A contract clock time; one without an offset is wall-clock time with no daylight-saving jumps
-/// (as the core counts it), so it is read as UTC here.
-QDateTime wall_clock(const QString& iso) {
-    QDateTime t = QDateTime::fromString(iso, Qt::ISODate);
-    if (t.isValid() && t.timeSpec() == Qt::LocalTime) t.setTimeSpec(Qt::UTC);
-    return t;
-}
-
 double hours_between(const QString& from_iso, const QString& to_iso) {
     const QDateTime a = wall_clock(from_iso);
     const QDateTime b = wall_clock(to_iso);
     if (!a.isValid() || !b.isValid()) return -1;
     return a.secsTo(b) / 3600.0;
+}
+
+/// Every clock time of a plan document moved by the same amount (start, lines' prepared_at, a
+/// dated standby end), so that a plan made for another day keeps its shape when moved to tonight.
+void shift_times(QJsonObject& doc, qint64 secs) {
+    auto shift = [&](QJsonObject& o, const char* key) {
+        const QDateTime t = wall_clock(o.value(QLatin1String(key)).toString());
+        if (t.isValid() && o.value(QLatin1String(key)).toString().size() >= 16)
+            o.insert(QLatin1String(key), wall_clock_iso(t.addSecs(secs)));
+    };
+    shift(doc, "start");
+    QJsonObject lines = obj(doc, "lines");
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        QJsonObject l = it.value().toObject();
+        shift(l, "prepared_at");
+        it.value() = l;
+    }
+    doc.insert("lines", lines);
+    if (doc.contains("standby")) {
+        QJsonObject sb = obj(doc, "standby");
+        shift(sb, "until");
+        doc.insert("standby", sb);
+    }
+}
+
+/// The plan moved so that it starts at the next 18:00 after `now` (a night's run planned today).
+QJsonObject starting_tonight(QJsonObject doc, const QDateTime& now) {
+    const QDateTime old_start = wall_clock(doc.value("start").toString());
+    const QDateTime tonight = next_time_of_day(now, 18, 0);
+    if (old_start.isValid()) shift_times(doc, old_start.secsTo(tonight));
+    else doc.insert("start", wall_clock_iso(tonight));
+    return doc;
 }
 
 } // namespace
@@ -88,9 +114,15 @@ void Plan::restore_state() {
         name_ = saved.value("name").toString();
         doc_ = saved.value("document").toObject();
     } else if (auto demo = workspace_->database()->load(storage::DocumentKind::sequence, Workspace::demoName())) {
+        // First run: the demo is tonight's plan, starting at the next 18:00.
         name_ = Workspace::demoName();
-        doc_ = *demo;
+        doc_ = starting_tonight(*demo, workspace_->now());
+        dirty_ = true;
+        autosave_.start();
+    } else {
+        doc_ = starting_tonight(doc_, workspace_->now());
     }
+    adopt_inline_buffers();
     update_buffer_lines();
     emit documentChanged();
     emit documentReplaced();
@@ -115,10 +147,18 @@ void Plan::update_buffer_lines() {
         shown_methods_ = methodNames();
         emit methodNamesChanged();
     }
+    QVariantMap use;
+    for (const QString& m : methodNames()) use.insert(m, rowsUsingMethod(m));
+    if (use != method_use_) {
+        method_use_ = use;
+        emit methodUseChanged();
+    }
     QVariantList list;
     for (const QString& l : lineLetters())
         if (!lineBuffer(l).isEmpty())
-            list.append(QVariantMap{{"id", l}, {"name", tr("Line %1: %2").arg(l, line(l).value("name").toString())}});
+            list.append(QVariantMap{{"id", l},
+                                    {"name", tr("Line %1: %2").arg(l, line(l).value("name").toString())},
+                                    {"ref", lineBufferRef(l)}});
     if (list == buffer_lines_) return;
     buffer_lines_ = list;
     emit bufferLinesChanged();
@@ -217,8 +257,138 @@ void Plan::setColumnPhMax(double v) {
     edited();
 }
 
+QVariantMap Plan::startParts() const {
+    const QDateTime t = wall_clock(start());
+    if (!t.isValid()) return {};
+    return {{"year", t.date().year()}, {"month", t.date().month()}, {"day", t.date().day()},
+            {"hour", t.time().hour()}, {"minute", t.time().minute()}};
+}
+
+QString Plan::startText() const { return dayClock(start()); }
+
+void Plan::setStartAt(int year, int month, int day, int hour, int minute) {
+    const QDateTime t(QDate(year, month, day), QTime(hour, minute), Qt::UTC);
+    if (!t.isValid()) return;
+    setStart(wall_clock_iso(t));
+}
+
+QString Plan::dayClock(const QString& iso) const {
+    const QDate today = workspace_ ? workspace_->today() : QDate::currentDate();
+    return day_clock_text(wall_clock(iso), today);
+}
+
+QJsonObject Plan::standby_doc() const { return obj(doc_, "standby"); }
+
+void Plan::set_standby(const QJsonObject& sb) {
+    if (sb == standby_doc() && doc_.contains("standby") == !sb.isEmpty()) return;
+    if (sb.isEmpty()) doc_.remove("standby");
+    else doc_.insert("standby", sb);
+    edited();
+}
+
+bool Plan::standbyEnabled() const { return doc_.value("standby").isObject(); }
+void Plan::setStandbyEnabled(bool on) {
+    if (on == standbyEnabled()) return;
+    if (!on) {
+        // Kept aside so that switching it back on restores what was set.
+        standby_kept_ = standby_doc();
+        doc_.remove("standby");
+        edited();
+        return;
+    }
+    QJsonObject sb = standby_kept_;
+    if (sb.isEmpty()) {
+        sb = QJsonObject{{"flow_ml_min", 0.2}, {"until", "07:30"}};
+        // Half and half of the first two lines, or all of the only one.
+        const QStringList letters = lineLetters();
+        if (letters.size() >= 2) {
+            sb.insert(letters[0], 50);
+            sb.insert(letters[1], 50);
+        } else if (!letters.isEmpty()) {
+            sb.insert(letters[0], 100);
+        }
+    }
+    set_standby(sb);
+}
+
+double Plan::standbyFlowMlMin() const { return standby_doc().value("flow_ml_min").toDouble(0.2); }
+void Plan::setStandbyFlowMlMin(double v) {
+    QJsonObject sb = standby_doc();
+    sb.insert("flow_ml_min", v);
+    set_standby(sb);
+}
+
+QString Plan::standbyMode() const {
+    return standby_doc().contains("duration_min") ? QStringLiteral("duration") : QStringLiteral("until");
+}
+void Plan::setStandbyMode(const QString& mode) {
+    if (mode == standbyMode() || !standbyEnabled()) return;
+    QJsonObject sb = standby_doc();
+    if (mode == QLatin1String("duration")) {
+        sb.remove("until");
+        const double shown = result_.value("standby_min").toDouble();
+        sb.insert("duration_min", shown > 0 ? std::round(shown) : 240.0);
+    } else {
+        sb.remove("duration_min");
+        sb.insert("until", "07:30");
+    }
+    set_standby(sb);
+}
+
+int Plan::standbyUntilHour() const {
+    const QString u = standby_doc().value("until").toString();
+    const QDateTime t = wall_clock(u);
+    if (t.isValid()) return t.time().hour();
+    return u.section(':', 0, 0).toInt();
+}
+int Plan::standbyUntilMinute() const {
+    const QString u = standby_doc().value("until").toString();
+    const QDateTime t = wall_clock(u);
+    if (t.isValid()) return t.time().minute();
+    return u.section(':', 1, 1).toInt();
+}
+void Plan::setStandbyUntil(int hour, int minute) {
+    QJsonObject sb = standby_doc();
+    sb.remove("duration_min");
+    sb.insert("until", QTime(hour, minute).toString(QStringLiteral("HH:mm")));
+    set_standby(sb);
+}
+
+double Plan::standbyDurationMin() const { return standby_doc().value("duration_min").toDouble(); }
+void Plan::setStandbyDurationMin(double v) {
+    QJsonObject sb = standby_doc();
+    sb.remove("until");
+    sb.insert("duration_min", v);
+    set_standby(sb);
+}
+
+double Plan::standbyPercent(const QString& letter) const { return standby_doc().value(letter).toDouble(); }
+void Plan::setStandbyPercent(const QString& letter, double percent) {
+    QJsonObject sb = standby_doc();
+    sb.insert(letter, percent);
+    // Two lines in use: the other takes the rest, as in the gradient table.
+    QStringList used;
+    for (const QString& l : lineLetters())
+        if (l != letter && sb.contains(l)) used << l;
+    if (used.size() == 1) sb.insert(used.first(), std::max(0.0, 100.0 - percent));
+    set_standby(sb);
+}
+
+QString Plan::standbyText() const {
+    const double min = result_.value("standby_min").toDouble();
+    if (!standbyEnabled() || !(min > 0)) return {};
+    return tr("until %1 (%2)").arg(dayClock(result_.value("standby_end").toString()), duration_text(min));
+}
+
+QString Plan::fieldWords(const QString& path) const { return field_words(path, methodNames()); }
+
+QString Plan::errorPlace() const {
+    if (error_.field.isEmpty()) return {};
+    return field_words(error_.field, methodNames());
+}
+
 QString Plan::endTime() const { return result_.value("end").toString(); }
-QString Plan::endText() const { return short_clock(endTime()); }
+QString Plan::endText() const { return dayClock(endTime()); }
 double Plan::totalMin() const { return result_.value("total_min").toDouble(); }
 double Plan::wasteMl() const { return result_.value("waste_ml").toDouble(); }
 
@@ -236,6 +406,7 @@ void Plan::load(const QVariantMap& document, const QString& name) {
 void Plan::loadJson(const QJsonObject& document, const QString& name) {
     doc_ = document;
     name_ = name;
+    adopt_inline_buffers();
     dirty_ = true;
     autosave_.start();
     update_buffer_lines();
@@ -331,6 +502,129 @@ double Plan::lineBufferVolumeMl(const QString& letter) const {
     return 0;
 }
 
+QString Plan::lineBufferRef(const QString& letter) const {
+    for (const QJsonValue& p : line(letter).value("parts").toArray())
+        if (p.toObject().contains("buffer")) return p.toObject().value("buffer_ref").toString();
+    return {};
+}
+
+bool Plan::for_each_buffer_part(const std::function<bool(QJsonObject& part)>& change) {
+    QJsonObject lines = obj(doc_, "lines");
+    bool any = false;
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        QJsonObject l = it.value().toObject();
+        QJsonArray parts = l.value("parts").toArray();
+        bool line_changed = false;
+        for (int i = 0; i < parts.size(); ++i) {
+            QJsonObject p = parts[i].toObject();
+            if (!p.contains("buffer")) continue;
+            if (change(p)) {
+                parts[i] = p;
+                line_changed = true;
+            }
+        }
+        if (!line_changed) continue;
+        l.insert("parts", parts);
+        it.value() = l;
+        any = true;
+    }
+    if (!any) return false;
+    doc_.insert("lines", lines);
+    edited();
+    return true;
+}
+
+/// The recipe as a line part holds it: the line's own volume is worked out from its share of the
+/// bottle, so the saved buffer's batch volume is left out.
+static QJsonObject part_recipe(QJsonObject recipe) {
+    recipe.remove("volume_ml");
+    recipe.remove("auto_name");
+    recipe.remove("name"); // the part's buffer_ref names it
+    return recipe;
+}
+
+void Plan::updateBufferRefs(const QString& name, const QJsonObject& recipe) {
+    const QJsonObject r = part_recipe(recipe);
+    for_each_buffer_part([&](QJsonObject& p) {
+        if (p.value("buffer_ref").toString() != name || p.value("buffer").toObject() == r) return false;
+        p.insert("buffer", r);
+        return true;
+    });
+}
+
+void Plan::renameBufferRefs(const QString& from, const QString& to, const QJsonObject& recipe) {
+    const QJsonObject r = part_recipe(recipe);
+    for_each_buffer_part([&](QJsonObject& p) {
+        if (p.value("buffer_ref").toString() != from) return false;
+        p.insert("buffer_ref", to);
+        p.insert("buffer", r);
+        return true;
+    });
+}
+
+void Plan::dropBufferRefs(const QString& name) {
+    for_each_buffer_part([&](QJsonObject& p) {
+        if (p.value("buffer_ref").toString() != name) return false;
+        p.remove("buffer_ref");
+        return true;
+    });
+}
+
+void Plan::adopt_inline_buffers() {
+    if (!workspace_ || !workspace_->database()) return;
+    storage::Database* db = workspace_->database();
+    // The saved buffers as line parts hold them, to find one that is the same recipe.
+    std::vector<std::pair<QString, QJsonObject>> saved;
+    for (const auto& info : db->list(storage::DocumentKind::buffer))
+        if (auto d = db->load(storage::DocumentKind::buffer, info.name)) saved.emplace_back(info.name, part_recipe(*d));
+    QJsonObject lines = obj(doc_, "lines");
+    bool any = false;
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        QJsonObject l = it.value().toObject();
+        QJsonArray parts = l.value("parts").toArray();
+        bool changed = false;
+        for (int i = 0; i < parts.size(); ++i) {
+            QJsonObject p = parts[i].toObject();
+            if (!p.contains("buffer")) continue;
+            const QJsonObject recipe = part_recipe(p.value("buffer").toObject());
+            QString ref = p.value("buffer_ref").toString();
+            if (!ref.isEmpty()) {
+                // A reference: take the saved buffer's current recipe (it follows edits).
+                auto hit = std::find_if(saved.begin(), saved.end(), [&](const auto& s) { return s.first == ref; });
+                if (hit == saved.end() || hit->second == p.value("buffer").toObject()) continue;
+                p.insert("buffer", hit->second);
+            } else {
+                auto same = std::find_if(saved.begin(), saved.end(), [&](const auto& s) { return s.second == recipe; });
+                if (same != saved.end()) {
+                    ref = same->first;
+                } else {
+                    const QString own = p.value("buffer").toObject().value("name").toString().trimmed();
+                    const QString wanted = (own.isEmpty() ? tr("%1 buffer").arg(l.value("name").toString(it.key())) : own).left(56);
+                    ref = wanted;
+                    for (int n = 2; std::any_of(saved.begin(), saved.end(), [&](const auto& s) { return s.first == ref; }); ++n)
+                        ref = QStringLiteral("%1 (%2)").arg(wanted).arg(n);
+                    QJsonObject doc = recipe;
+                    doc.insert("name", ref);
+                    if (!guarded([&] { db->save(storage::DocumentKind::buffer, ref, doc); }).empty()) continue;
+                    saved.emplace_back(ref, recipe);
+                }
+                p.insert("buffer_ref", ref);
+                p.insert("buffer", recipe);
+            }
+            parts[i] = p;
+            changed = true;
+        }
+        if (!changed) continue;
+        l.insert("parts", parts);
+        it.value() = l;
+        any = true;
+    }
+    if (!any) return;
+    doc_.insert("lines", lines);
+    dirty_ = true;
+    autosave_.start();
+}
+
 void Plan::setLineBuffer(const QString& letter, const QJsonObject& recipe) {
     QJsonObject l = line(letter);
     QJsonArray parts = l.value("parts").toArray();
@@ -381,10 +675,40 @@ QString Plan::addMethod(const QString& like) {
 QString Plan::removeMethod(const QString& name) {
     for (const QJsonValue& r : rows())
         if (r.toObject().value("method").toString() == name)
-            return tr("\"%1\" is used by a sequence row: change or remove the row first").arg(name);
+            return tr("Method “%1” is run by a sequence row: change or remove the row first").arg(name);
     QJsonObject methods = obj(doc_, "methods");
     methods.remove(name);
     doc_.insert("methods", methods);
+    edited();
+    return {};
+}
+
+int Plan::rowsUsingMethod(const QString& name) const {
+    int n = 0;
+    for (const QJsonValue& r : rows())
+        if (r.toObject().value("method").toString() == name) ++n;
+    return n;
+}
+
+QString Plan::renameMethod(const QString& from, const QString& to_raw) {
+    const QString to = to_raw.trimmed();
+    if (to == from) return {};
+    if (to.isEmpty()) return tr("Method name: type a name");
+    if (to.size() > 64) return tr("Method name: “%1…” is longer than 64 characters").arg(to.left(20));
+    QJsonObject methods = obj(doc_, "methods");
+    if (!methods.contains(from)) return tr("Method “%1” is not in this plan").arg(from);
+    if (methods.contains(to)) return tr("Method name: “%1” is taken by another method").arg(to);
+    methods.insert(to, methods.value(from));
+    methods.remove(from);
+    doc_.insert("methods", methods);
+    QJsonArray r = rows();
+    for (int i = 0; i < r.size(); ++i) {
+        QJsonObject row = r[i].toObject();
+        if (row.value("method").toString() != from) continue;
+        row.insert("method", to);
+        r[i] = row;
+    }
+    doc_.insert("sequence", r);
     edited();
     return {};
 }
@@ -407,14 +731,27 @@ void Plan::recompute() {
     if (!workspace_ || !workspace_->ready())
         error_ = {QString(), tr("the reference data are not loaded")};
     else
-        error_ = guarded([&] { out = command_sequence(workspace_->data(), doc_, {}); });
-    result_ = error_.empty() ? out : QJsonObject();
+        error_ = guarded([&] {
+            CommandOptions opt;
+            const QDate today = workspace_->today();
+            opt.clock_words = [today](const QDateTime& t) { return day_clock_text(t, today); };
+            out = command_sequence(workspace_->data(), doc_, opt);
+        });
+    if (!error_.empty()) {
+        // Keep the last valid plan on screen, greyed (stale()): one wrong cell does not blank
+        // the night's summary while it is being corrected.
+        last_recompute_ms_ = elapsed_ms(timer);
+        emit resultChanged();
+        return;
+    }
+    result_ = out;
+    has_result_ = true;
     const QVariantList old_warnings = warnings_, old_bottles = bottles_;
     warnings_.clear();
     bottles_.clear();
     injections_ = 0;
     for (const QJsonValue& r : rows()) injections_ += r.toObject().value("injections").toInt();
-    if (error_.empty()) {
+    {
         for (const QJsonValue& w : out.value("warnings").toArray()) warnings_.append(w.toObject().toVariantMap());
         const QJsonObject lines = obj(out, "lines");
         for (const QString& letter : lineLetters()) {
@@ -425,7 +762,7 @@ void Plan::recompute() {
             b.insert("bottle_ml", in.value("bottle_ml").toDouble());
             b.insert("residue_ml", in.value("residue_ml").toDouble());
             b.insert("dry_text", b.value("dry_at").toString().isEmpty() ? QString()
-                                                                       : short_clock(b.value("dry_at").toString()));
+                                                                       : dayClock(b.value("dry_at").toString()));
             bottles_.append(b);
         }
     }
@@ -442,7 +779,7 @@ void Plan::compute_levels() {
     waste_.clear();
     chart_hours_ = 1;
     chart_max_ml_ = 100;
-    if (!error_.empty() || !workspace_) return;
+    if (!workspace_) return;
     // Each bottle's level at the end of every sequence row, from the core's per-row volumes
     // ("rows[i].volume_ml"): within a row every injection draws the same volume in the same
     // time, so the straight line between row ends is exact at every injection boundary. The

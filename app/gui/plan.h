@@ -16,6 +16,7 @@
 #include <QVariantList>
 #include <QVariantMap>
 
+#include <functional>
 #include <map>
 
 // Complete types for the pointer properties, for moc only.
@@ -37,11 +38,30 @@ class Plan : public QObject {
     /// Letters of the defined lines, "A".."D".
     Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY lineLettersChanged)
     Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY methodNamesChanged)
+    /// Method name → number of sequence rows that run it; signalled only when it changes.
+    Q_PROPERTY(QVariantMap methodUse READ methodUse NOTIFY methodUseChanged)
     /// [{id: letter, name}] of the lines that have an aqueous buffer part (the designer's picker);
     /// signalled only when it changes.
     Q_PROPERTY(QVariantList bufferLines READ bufferLines NOTIFY bufferLinesChanged)
     /// Sequence start, ISO 8601 local time ("2026-12-01T18:00:00").
     Q_PROPERTY(QString start READ start WRITE setStart NOTIFY documentChanged)
+    /// The start as parts for the pickers: {year, month (1–12), day, hour, minute}.
+    Q_PROPERTY(QVariantMap startParts READ startParts NOTIFY documentChanged)
+    /// The start with its day: "today 18:00", "tomorrow 07:30", "Fri 4 Dec 18:00".
+    Q_PROPERTY(QString startText READ startText NOTIFY documentChanged)
+
+    // ---- standby after the last injection (optional) -------------------------------------------
+    /// The pump keeps running at a low flow after the last injection.
+    Q_PROPERTY(bool standbyEnabled READ standbyEnabled WRITE setStandbyEnabled NOTIFY documentChanged)
+    Q_PROPERTY(double standbyFlowMlMin READ standbyFlowMlMin WRITE setStandbyFlowMlMin NOTIFY documentChanged)
+    /// "until": until a time of day (the first after the last injection, so it moves with the
+    /// start); "duration": for a number of minutes.
+    Q_PROPERTY(QString standbyMode READ standbyMode WRITE setStandbyMode NOTIFY documentChanged)
+    Q_PROPERTY(int standbyUntilHour READ standbyUntilHour NOTIFY documentChanged)
+    Q_PROPERTY(int standbyUntilMinute READ standbyUntilMinute NOTIFY documentChanged)
+    Q_PROPERTY(double standbyDurationMin READ standbyDurationMin WRITE setStandbyDurationMin NOTIFY documentChanged)
+    /// "until tomorrow 07:30 (4 h 00 min)" from the last result, "" when there is no standby.
+    Q_PROPERTY(QString standbyText READ standbyText NOTIFY resultChanged)
     /// Free volume of the waste container in mL (0: not checked).
     Q_PROPERTY(double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
     /// "uv" or "ms".
@@ -52,6 +72,11 @@ class Plan : public QObject {
 
     // ---- results ----------------------------------------------------------------------------
     Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
+    /// The results shown are the last valid plan's: an input is wrong (see errorField) and the
+    /// views grey what they show rather than blank it.
+    Q_PROPERTY(bool stale READ stale NOTIFY resultChanged)
+    /// Where the error lies, in the screen's words ("Method “assay”, gradient row 2, % A").
+    Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY resultChanged)
     Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
     /// The result document of command_sequence (for anything not unpacked below).
@@ -86,9 +111,31 @@ public:
     QVariantMap documentMap() const { return doc_.toVariantMap(); }
     QStringList lineLetters() const;
     QStringList methodNames() const;
+    QVariantMap methodUse() const { return method_use_; }
     QVariantList bufferLines() const { return buffer_lines_; }
     QString start() const;
     void setStart(const QString& iso);
+    QVariantMap startParts() const;
+    QString startText() const;
+    /// Sets the start from the pickers' parts (wall-clock time).
+    Q_INVOKABLE void setStartAt(int year, int month, int day, int hour, int minute);
+    /// A contract clock time in the screens' words ("tomorrow 03:30").
+    Q_INVOKABLE QString dayClock(const QString& iso) const;
+
+    bool standbyEnabled() const;
+    void setStandbyEnabled(bool on);
+    double standbyFlowMlMin() const;
+    void setStandbyFlowMlMin(double v);
+    QString standbyMode() const;
+    void setStandbyMode(const QString& mode);
+    int standbyUntilHour() const;
+    int standbyUntilMinute() const;
+    Q_INVOKABLE void setStandbyUntil(int hour, int minute);
+    double standbyDurationMin() const;
+    void setStandbyDurationMin(double v);
+    Q_INVOKABLE double standbyPercent(const QString& letter) const;
+    Q_INVOKABLE void setStandbyPercent(const QString& letter, double percent);
+    QString standbyText() const;
     double wasteCapacityMl() const;
     void setWasteCapacityMl(double ml);
     QString detectorType() const;
@@ -101,6 +148,8 @@ public:
     void setColumnPhMax(double v);
 
     bool valid() const { return error_.empty(); }
+    bool stale() const { return !error_.empty() && has_result_; }
+    QString errorPlace() const;
     QString errorField() const { return error_.field; }
     QString errorMessage() const { return error_.message; }
     QVariantMap resultMap() const { return result_.toVariantMap(); }
@@ -142,6 +191,14 @@ public:
     void setLineBuffer(const QString& letter, const QJsonObject& recipe);
     /// The buffer part's share of the bottle in mL (bottle_ml × fraction_v), 0 when none.
     double lineBufferVolumeMl(const QString& letter) const;
+    /// The saved buffer the line's buffer part holds by reference ("" when none).
+    Q_INVOKABLE QString lineBufferRef(const QString& letter) const;
+    /// Every buffer part that holds `name` takes `recipe` (an edit in the designer).
+    void updateBufferRefs(const QString& name, const QJsonObject& recipe);
+    /// A saved buffer was renamed: the parts that held the old name hold the new one.
+    void renameBufferRefs(const QString& from, const QString& to, const QJsonObject& recipe);
+    /// A saved buffer was deleted: the parts that held it keep their copy, without the reference.
+    void dropBufferRefs(const QString& name);
 
     QJsonObject method(const QString& name) const;
     Q_INVOKABLE QVariantMap methodDocument(const QString& name) const { return method(name).toVariantMap(); }
@@ -154,6 +211,10 @@ public:
     Q_INVOKABLE QString addMethod(const QString& like = {});
     /// Removes the method when no sequence row uses it; returns "" or why not.
     Q_INVOKABLE QString removeMethod(const QString& name);
+    /// Renames a method, and the sequence rows that run it; returns "" or why not (empty, taken).
+    Q_INVOKABLE QString renameMethod(const QString& from, const QString& to);
+    /// How many sequence rows run a method (for "delete?" questions).
+    Q_INVOKABLE int rowsUsingMethod(const QString& name) const;
 
     QJsonArray rows() const;
     void setRows(const QJsonArray& rows);
@@ -166,6 +227,8 @@ public:
     Q_INVOKABLE void fillWasteSeries(QObject* series) const;
     /// The hour of the sequence end (for a marker).
     Q_INVOKABLE double endHours() const { return totalMin() / 60.0; }
+    /// A field path in the screens' words ("lines.A.bottle_ml" → "Line A, bottle volume").
+    Q_INVOKABLE QString fieldWords(const QString& path) const;
     /// Whether the error names this field or lies below it ("lines.A" matches "lines.A.bottle_ml").
     Q_INVOKABLE bool errorUnder(const QString& prefix) const;
 
@@ -191,6 +254,7 @@ signals:
     /// Sent only when the list differs: pickers of lines and methods are not rebuilt on every edit.
     void lineLettersChanged();
     void methodNamesChanged();
+    void methodUseChanged();
     /// Sent only when the list differs (an edit that changes no volume rebuilds no bottle row).
     void bottlesChanged();
     void warningsChanged();
@@ -200,6 +264,11 @@ private:
     void recompute();
     void compute_levels();
     void restore_state();
+    /// Buffer parts written out in full (a plan from before references, the demo) become saved
+    /// buffers held by reference, so that the designer can edit them and the line follows.
+    void adopt_inline_buffers();
+    /// Applies `change` to every buffer part; edited() when anything changed.
+    bool for_each_buffer_part(const std::function<bool(QJsonObject& part)>& change);
 
     QPointer<Workspace> workspace_;
     bool restore_ = false;
@@ -208,12 +277,17 @@ private:
     QVariantList buffer_lines_;
     void update_buffer_lines(); ///< and the lists of lines and methods
     QStringList shown_letters_, shown_methods_;
+    QVariantMap method_use_;
     QTimer autosave_;
     QTimer recompute_timer_;
     bool dirty_ = false;
 
     FieldError error_;
-    QJsonObject result_;
+    QJsonObject result_;   ///< the last valid result (kept, greyed, while an input is wrong)
+    bool has_result_ = false;
+    QJsonObject standby_doc() const;
+    QJsonObject standby_kept_; ///< the standby as it was when switched off, to switch it back on
+    void set_standby(const QJsonObject& sb);
     int injections_ = 0;
     QVariantList bottles_, warnings_;
     std::map<QString, QList<QPointF>> levels_; ///< letter → (hours, mL)

@@ -39,6 +39,16 @@ void Workspace::componentComplete() {
     if (!db_) open();
 }
 
+QDateTime Workspace::now() const {
+    const QByteArray fixed = qgetenv("PHASEPLAN_NOW");
+    if (!fixed.isEmpty()) {
+        const QDateTime t = QDateTime::fromString(QString::fromLatin1(fixed), Qt::ISODate);
+        if (t.isValid()) return QDateTime(t.date(), t.time(), Qt::UTC);
+    }
+    const QDateTime local = QDateTime::currentDateTime();
+    return QDateTime(local.date(), local.time(), Qt::UTC); // wall clock, as the plan counts
+}
+
 QString Workspace::demoName() { return QStringLiteral("Overnight demo"); }
 
 bool Workspace::open() {

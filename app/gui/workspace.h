@@ -5,6 +5,7 @@
 #include "core/app_data.h"
 #include "storage/database.h"
 
+#include <QDateTime>
 #include <QJsonObject>
 #include <QObject>
 #include <QQmlEngine>
@@ -66,6 +67,11 @@ public:
     std::vector<storage::LibraryEntry> entries(const QString& kind) const;
     /// Display name of a reagent, solvent or additive id (the id itself when unknown).
     Q_INVOKABLE QString displayName(const QString& id) const;
+    /// The wall-clock time now: the system clock, or $PHASEPLAN_NOW ("2026-12-02T14:00:00") when set,
+    /// so that tests and screenshots see the same "today" on every run.
+    QDateTime now() const;
+    /// Today's date as `now()` sees it (for "today 18:00" on the screens).
+    QDate today() const { return now().date(); }
     /// A setting of the app kept in the database (the screen last shown, …); undefined when unset.
     Q_INVOKABLE QVariant setting(const QString& key) const;
     Q_INVOKABLE void setSetting(const QString& key, const QVariant& value);

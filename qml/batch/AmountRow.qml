@@ -77,7 +77,7 @@ Rectangle {
                 text: !root.entered ? qsTr("not entered yet")
                                     : (root.withinTolerance ? qsTr("✓ within band (%1 %)")
                                                             : qsTr("⚠ outside band (%1 %)"))
-                                      .arg((root.deviationPercent >= 0 ? "+" : "") + Number(root.deviationPercent).toLocaleString(Qt.locale(), "f", 1))
+                                      .arg((root.deviationPercent >= 0 ? "+" : "") + NumberText.format(root.deviationPercent, 1))
                 color: !root.entered ? Theme.dimText : (root.withinTolerance ? Theme.good : Theme.bad)
                 font.pixelSize: Theme.smallFont
                 font.bold: root.flagged

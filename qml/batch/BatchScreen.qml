@@ -27,10 +27,10 @@ ScreenPage {
                                          && root.batch.errorField.indexOf("batch.actual[") !== 0
                                          ? root.batch.errorMessage : ""
     function ph(v) {
-        return isNaN(v) ? "–" : Number(v).toLocaleString(Qt.locale(), "f", 2)
+        return isNaN(v) ? "–" : NumberText.format(v, 2)
     }
     function mmol(v) {
-        return isNaN(v) ? "–" : Number(v).toLocaleString(Qt.locale(), "f", 2)
+        return isNaN(v) ? "–" : NumberText.format(v, 2)
     }
 
     ColumnLayout {
@@ -57,9 +57,7 @@ ScreenPage {
                 Layout.fillWidth: true
                 wrapMode: Text.Wrap
                 text: root.designer && root.designer.valid
-                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name
-                                                                      : (root.designer.lineLetter.length > 0 ? qsTr("line %1's buffer").arg(root.designer.lineLetter)
-                                                                                                             : qsTr("(unnamed)")))
+                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name : qsTr("(unnamed)"))
                       : qsTr("The buffer designer has no valid recipe yet.")
                 font.pixelSize: Theme.fontSize
             }

@@ -16,23 +16,77 @@ ColumnLayout {
         return root.designer.errorField === field ? root.designer.errorMessage : ""
     }
 
+    NameDialog {
+        id: nameDialog
+        property string mode: "rename" // "rename" or "duplicate"
+        title: mode === "rename" ? qsTr("Name this buffer") : qsTr("Duplicate “%1”").arg(root.designer.bufferName)
+        label: qsTr("Buffer name")
+        onAccepted: function(name) {
+            var why = mode === "rename" ? root.designer.renameBuffer(name) : root.designer.duplicateBuffer(name)
+            if (why.length > 0)
+                showError(why)
+            else
+                close()
+        }
+    }
+    ConfirmDialog {
+        id: deleteDialog
+        title: qsTr("Delete the buffer “%1”?").arg(root.designer.bufferName)
+        text: root.designer.usedByLines.length > 0
+              ? qsTr("Line %1 holds it: the line keeps its own copy of the recipe, which no longer follows edits.").arg(root.designer.usedByLines.join(", "))
+              : qsTr("No line of tonight's plan holds it.")
+        onConfirmed: root.designer.deleteBuffer()
+    }
+
     Card {
         Layout.fillWidth: true
         title: qsTr("Which buffer")
+        note: root.designer.usedByLines.length > 0 ? qsTr("used by line %1").arg(root.designer.usedByLines.join(", ")) : ""
 
         ChoiceField {
+            objectName: "bufferChoice"
             Layout.fillWidth: true
-            label: qsTr("Editing")
-            choices: [{ id: "", name: qsTr("A buffer of its own") }].concat(root.plan ? root.plan.bufferLines : [])
-            current: root.designer.lineLetter
-            onPicked: function(id) { root.designer.lineLetter = id }
+            label: qsTr("Saved buffer")
+            choices: root.designer.bufferChoices
+            current: root.designer.bufferName
+            onPicked: function(id) { root.designer.openBuffer(id) }
         }
-        TextEntry {
+        Label {
             Layout.fillWidth: true
-            label: qsTr("Name")
-            value: root.designer.name
-            placeholder: qsTr("e.g. phosphate pH 2.5, 20 mM")
-            onEdited: function(text) { root.designer.name = text }
+            visible: root.designer.autoName
+            text: qsTr("The name follows the inputs until you name the buffer.")
+            color: Theme.dimText
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.smallFont
+        }
+        Flow {
+            Layout.fillWidth: true
+            spacing: Theme.gap
+            TouchButton {
+                objectName: "newBuffer"
+                text: qsTr("New")
+                Accessible.name: qsTr("New buffer")
+                onClicked: root.designer.newBuffer()
+            }
+            TouchButton {
+                objectName: "duplicateBuffer"
+                text: qsTr("Duplicate")
+                Accessible.name: qsTr("Duplicate buffer")
+                onClicked: { nameDialog.mode = "duplicate"; nameDialog.ask(qsTr("%1 (copy)").arg(root.designer.bufferName)) }
+            }
+            TouchButton {
+                objectName: "renameBuffer"
+                text: qsTr("Rename")
+                Accessible.name: qsTr("Rename buffer")
+                onClicked: { nameDialog.mode = "rename"; nameDialog.ask(root.designer.bufferName) }
+            }
+            TouchButton {
+                objectName: "deleteBuffer"
+                text: qsTr("Delete")
+                Accessible.name: qsTr("Delete buffer")
+                focusPolicy: Qt.NoFocus
+                onClicked: deleteDialog.open()
+            }
         }
     }
 
@@ -51,6 +105,7 @@ ColumnLayout {
             onPicked: function(id) { root.designer.route = id }
         }
         ChoiceField {
+            objectName: "systemChoice"
             Layout.fillWidth: true
             label: qsTr("Buffer system")
             choices: root.designer.systemChoices
@@ -68,6 +123,7 @@ ColumnLayout {
             onPicked: function(id) { root.designer.acid = id }
         }
         ChoiceField {
+            objectName: "baseChoice"
             Layout.fillWidth: true
             visible: root.designer.route !== "titrate"
             label: qsTr("Base form")
@@ -82,6 +138,7 @@ ColumnLayout {
             columns: Theme.columnsFor(width, 2)
             columnSpacing: Theme.gap
             NumberField {
+                objectName: "acidStockField"
                 Layout.fillWidth: true
                 label: qsTr("Acid stock")
                 unit: "mol/L"
@@ -93,6 +150,7 @@ ColumnLayout {
                 onEdited: function(v) { root.designer.acidStockMolPerL = v }
             }
             NumberField {
+                objectName: "baseStockField"
                 Layout.fillWidth: true
                 label: qsTr("Base stock")
                 unit: "mol/L"
@@ -105,6 +163,7 @@ ColumnLayout {
             }
         }
         ChoiceField {
+            objectName: "weighChoice"
             Layout.fillWidth: true
             visible: root.designer.route === "titrate"
             label: qsTr("Weigh")
@@ -114,6 +173,7 @@ ColumnLayout {
             onPicked: function(id) { root.designer.weigh = id }
         }
         ChoiceField {
+            objectName: "titrantChoice"
             Layout.fillWidth: true
             visible: root.designer.route === "titrate"
             label: qsTr("Titrant")
@@ -123,6 +183,7 @@ ColumnLayout {
             onPicked: function(id) { root.designer.titrant = id }
         }
         NumberField {
+            objectName: "titrantConcentrationField"
             Layout.fillWidth: true
             visible: root.designer.route === "titrate"
             label: qsTr("Titrant concentration")
@@ -174,6 +235,7 @@ ColumnLayout {
             onEdited: function(v) { root.designer.concentrationMmolPerL = v }
         }
         NumberField {
+            objectName: "ionicStrengthField"
             Layout.fillWidth: true
             visible: root.designer.strengthBasis === "ionic_strength"
             label: qsTr("Ionic strength")

@@ -15,6 +15,17 @@ ScreenPage {
 
     title: qsTr("Buffer designer")
 
+    /// Focuses the input a check or an error names (a field of the recipe document).
+    function focusField(path) {
+        var names = { "target_ph": "targetPhField", "concentration_mol_per_l": "concentrationField",
+                      "ionic_strength_mol_per_l": "ionicStrengthField", "volume_ml": "volumeField",
+                      "temperature_c": "temperatureField", "titrant_mol_per_l": "titrantConcentrationField",
+                      "titrant": "titrantChoice", "weigh": "weighChoice", "acid": "acidChoice", "base": "baseChoice",
+                      "acid_stock_mol_per_l": "acidStockField", "base_stock_mol_per_l": "baseStockField" }
+        var key = path.replace(/^.*\.buffer\./, "")
+        root.focusByName(names[key] || "targetPhField")
+    }
+
     /// "Prepare & record" was tapped: the app opens the batch screen.
     signal prepare()
 
@@ -46,6 +57,7 @@ ScreenPage {
             RecipeCard {
                 Layout.fillWidth: true
                 designer: root.designer
+                stale: root.pendingInputs > 0
             }
             TouchButton {
                 objectName: "prepareButton"

@@ -12,7 +12,7 @@ Card {
     required property BufferDesigner designer
 
     title: qsTr("Recipe")
-    note: root.designer.valid ? qsTr("for %1 mL").arg(Number(root.designer.volumeMl).toLocaleString(Qt.locale(), "f", 0)) : ""
+    note: root.designer.valid ? qsTr("for %1 mL").arg(NumberText.format(root.designer.volumeMl, 0)) : ""
 
     Label {
         objectName: "recipeError"
@@ -77,7 +77,7 @@ Card {
             Label { text: qsTr("Predicted pH"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
             Label {
                 objectName: "predictedPh"
-                text: Number(root.designer.predictedPh).toLocaleString(Qt.locale(), "f", 2)
+                text: NumberText.format(root.designer.predictedPh, 2)
                 font.pixelSize: Theme.hugeFont
                 font.bold: true
             }
@@ -86,7 +86,7 @@ Card {
             spacing: 0
             Label { text: qsTr("Ionic strength"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
             Label {
-                text: qsTr("%1 mmol/L").arg(Number(root.designer.ionicStrengthResultMmolPerL).toLocaleString(Qt.locale(), "f", 1))
+                text: qsTr("%1 mmol/L").arg(NumberText.format(root.designer.ionicStrengthResultMmolPerL, 1))
                 font.pixelSize: Theme.largeFont
             }
         }
@@ -94,7 +94,7 @@ Card {
             spacing: 0
             Label { text: qsTr("Buffer capacity β"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
             Label {
-                text: qsTr("%1 mmol/L/pH").arg(Number(root.designer.bufferCapacityMmolPerL).toLocaleString(Qt.locale(), "f", 2))
+                text: qsTr("%1 mmol/L/pH").arg(NumberText.format(root.designer.bufferCapacityMmolPerL, 2))
                 font.pixelSize: Theme.largeFont
             }
         }

@@ -3,13 +3,15 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// Every warning of tonight's plan in one place, worst first, with what to do about each.
+// Every warning of tonight's plan in one place, worst first, each once, with what to do about it
+// and a way to the field it concerns.
 ScreenPage {
     id: root
 
     required property ChecksModel checks
-    /// Opens the screen a check belongs to ("buffer", "lines", "sequence").
-    signal open(string screen)
+    /// Opens the screen a check belongs to ("buffer", "lines", "sequence") and focuses the field it
+    /// names (a contract path such as "lines.B.bottle_ml"; empty: the screen alone).
+    signal open(string screen, string focus)
 
     title: qsTr("Checks")
 
@@ -43,6 +45,7 @@ ScreenPage {
                     required property string advice
                     required property string source
                     required property string screen
+                    required property string focusPath
                     width: checkList.width
                     RowLayout {
                         Layout.fillWidth: true
@@ -57,7 +60,8 @@ ScreenPage {
                         TouchButton {
                             Layout.alignment: Qt.AlignVCenter
                             text: qsTr("Open ›")
-                            onClicked: root.open(entry.screen)
+                            Accessible.name: qsTr("Open the field: %1").arg(entry.message)
+                            onClicked: root.open(entry.screen, entry.focusPath)
                         }
                     }
                 }

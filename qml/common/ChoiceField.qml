@@ -13,6 +13,8 @@ ColumnLayout {
     property string current
     property string error
     readonly property alias box: combo
+    /// The name a screen reader and the tests find the picker by (the label by default).
+    property string accessibleName: label
 
     /// The user picked an id.
     signal picked(string id)
@@ -44,7 +46,7 @@ ColumnLayout {
         valueRole: "id"
         currentIndex: root.indexOfId(root.current)
         displayText: currentIndex < 0 ? (root.current.length > 0 ? root.current : qsTr("(choose)")) : currentText
-        Accessible.name: root.label
+        Accessible.name: root.accessibleName
         delegate: ItemDelegate {
             required property var modelData
             required property int index

@@ -1,15 +1,18 @@
 import QtQuick
 import QtQuick.Controls
 import QtQuick.Layouts
+import PhasePlan
 
-// A number with its label and unit, − and + step buttons, and its error shown right beneath it.
-// Text is parsed in the user's locale (Number.fromLocaleString: "7,25" in a decimal-comma
-// locale); text that is not a number is reported here and never reaches the model. The model's
+// A number with its label and unit, − and + step buttons, and its message right beneath it.
+// Typing is read by NumberText: "." and "," are both decimal marks, a thousands separator is
+// refused (never guessed), and a value reaches the model only when the text is a complete number.
+// Until then the field says "not applied" and counts itself in the nearest ancestor's
+// `pendingInputs`, so the screen can grey the results that still show the old value. The model's
 // own check (the core's error naming this field) comes in through `error`.
 ColumnLayout {
     id: root
 
-    /// What the number is ("Target pH").
+    /// What the number is ("Target pH"); also the field's accessible name and its messages' subject.
     property string label
     /// The unit shown after the field ("mL", "°C"); empty for none.
     property string unit
@@ -24,10 +27,14 @@ ColumnLayout {
     property string error
     /// Whole numbers only (injections).
     property bool integer: false
+    /// Hide the step buttons (narrow table cells).
+    property bool stepButtons: true
     property alias field: input
     property var locale: Qt.locale()
-    /// The message for text that is not a number (read by the tests).
+    /// The message for text that is not (yet) a number; "" when the text is applied.
     readonly property string parseError: input.parseError
+    /// The text on screen is not what the model holds (incomplete or invalid).
+    readonly property bool pending: input.parseError.length > 0
 
     /// A new number from typing or the step buttons.
     signal edited(real value)
@@ -35,10 +42,14 @@ ColumnLayout {
     spacing: Math.round(Theme.gap / 2)
 
     function formatted(v) {
-        return Number(v).toLocaleString(root.locale, "f", root.integer ? 0 : root.decimals)
+        return NumberText.formatIn(v, root.integer ? 0 : root.decimals, root.locale)
+    }
+    function parsed(text) {
+        var p = NumberText.parse(text, root.integer, root.label)
+        return p.ok ? p.value : NaN
     }
     function stepBy(n) {
-        var base = input.acceptableInput ? root.parsed(input.text) : root.value
+        var base = root.pending ? root.value : root.parsed(input.text)
         if (isNaN(base))
             base = root.value
         var v = Math.min(root.to, Math.max(root.from, base + n * root.step))
@@ -48,12 +59,29 @@ ColumnLayout {
         input.parseError = ""
         root.edited(v)
     }
-    function parsed(text) {
-        try {
-            return Number.fromLocaleString(root.locale, text.trim())
-        } catch (e) {
-            return NaN
-        }
+    /// Shows the model's value again, dropping what was typed.
+    function revert() {
+        input.parseError = ""
+        input.text = root.formatted(root.value)
+    }
+
+    // ---- pending count on the screen ------------------------------------------------------
+    property Item pendingHolder: null
+    function findHolder() {
+        for (var p = root.parent; p; p = p.parent)
+            if (p.pendingInputs !== undefined)
+                return p
+        return null
+    }
+    onPendingChanged: {
+        if (!root.pendingHolder)
+            root.pendingHolder = root.findHolder()
+        if (root.pendingHolder)
+            root.pendingHolder.pendingInputs += root.pending ? 1 : -1
+    }
+    Component.onDestruction: {
+        if (root.pending && root.pendingHolder)
+            root.pendingHolder.pendingInputs -= 1
     }
 
     Label {
@@ -62,7 +90,7 @@ ColumnLayout {
         color: Theme.dimText
         visible: root.label.length > 0
         Layout.fillWidth: true
-        elide: Text.ElideRight
+        wrapMode: Text.Wrap
     }
 
     RowLayout {
@@ -70,11 +98,13 @@ ColumnLayout {
         Layout.fillWidth: true
 
         Button {
+            visible: root.stepButtons
             text: "−"
             font.pixelSize: Theme.largeFont
             Layout.preferredWidth: Theme.tap
             Layout.preferredHeight: Theme.tap
             enabled: root.enabled && root.value > root.from
+            focusPolicy: Qt.NoFocus
             Accessible.name: qsTr("Decrease %1").arg(root.label)
             onClicked: root.stepBy(-1)
         }
@@ -86,29 +116,34 @@ ColumnLayout {
             Layout.preferredHeight: Theme.tap
             font.pixelSize: Theme.fontSize
             horizontalAlignment: TextInput.AlignRight
+            // Formatted numbers: the on-screen keyboard offers the digits, "." and ",".
             inputMethodHints: root.integer ? Qt.ImhDigitsOnly : Qt.ImhFormattedNumbersOnly
             selectByMouse: true
             // Set, not bound: a binding would overwrite the text while the user types.
             Component.onCompleted: text = root.formatted(root.value)
-            Accessible.name: root.label
+            Accessible.name: root.label.length > 0 ? root.label : qsTr("Number")
+            Accessible.description: root.unit
             onTextEdited: {
-                var v = root.parsed(text)
-                if (text.trim().length === 0 || isNaN(v)) {
-                    parseError = qsTr("Not a valid number.")
+                var p = NumberText.parse(text, root.integer, root.label)
+                if (!p.ok) {
+                    parseError = p.message
                     return
                 }
-                if (root.integer && Math.round(v) !== v) {
-                    parseError = qsTr("Enter a whole number.")
+                if (p.value < root.from || p.value > root.to) {
+                    parseError = qsTr("%1: %2 is outside %3 to %4; not applied.")
+                        .arg(root.label.length > 0 ? root.label : qsTr("This field"))
+                        .arg(text.trim()).arg(root.formatted(root.from)).arg(root.formatted(root.to))
                     return
                 }
                 parseError = ""
-                root.edited(v)
+                root.edited(p.value)
             }
             onActiveFocusChanged: {
                 // Leaving the field shows the value the model holds, in the locale's format.
                 if (!activeFocus && parseError.length === 0)
                     text = root.formatted(root.value)
             }
+            Keys.onEscapePressed: root.revert()
             Connections {
                 target: root
                 function onValueChanged() {
@@ -126,11 +161,13 @@ ColumnLayout {
             font.pixelSize: Theme.fontSize
         }
         Button {
+            visible: root.stepButtons
             text: "+"
             font.pixelSize: Theme.largeFont
             Layout.preferredWidth: Theme.tap
             Layout.preferredHeight: Theme.tap
             enabled: root.enabled && root.value < root.to
+            focusPolicy: Qt.NoFocus
             Accessible.name: qsTr("Increase %1").arg(root.label)
             onClicked: root.stepBy(1)
         }
@@ -138,10 +175,11 @@ ColumnLayout {
 
     Label {
         id: message
+        objectName: "fieldMessage"
         Layout.fillWidth: true
         visible: text.length > 0
         text: input.parseError.length > 0 ? input.parseError : root.error
-        color: Theme.bad
+        color: input.parseError.length > 0 ? Theme.warn : Theme.bad
         wrapMode: Text.Wrap
         font.pixelSize: Theme.smallFont
     }

@@ -12,6 +12,8 @@ ColumnLayout {
     property string error
     property int hints: Qt.ImhNone
     property alias field: input
+    /// The name a screen reader and the tests find the field by (the label by default).
+    property string accessibleName: label
 
     /// The text changed by typing.
     signal edited(string text)
@@ -36,7 +38,7 @@ ColumnLayout {
         placeholderText: root.placeholder
         inputMethodHints: root.hints
         selectByMouse: true
-        Accessible.name: root.label
+        Accessible.name: root.accessibleName
         onTextEdited: root.edited(text)
         Connections {
             target: root

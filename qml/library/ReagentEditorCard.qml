@@ -20,7 +20,7 @@ Card {
     }
 
     title: root.editor.isLabEntry ? qsTr("Lab entry") : root.editor.editingShipped ? qsTr("Correct a shipped entry") : qsTr("New lab reagent")
-    note: root.editor.molarMassGPerMol > 0 ? qsTr("%1 g/mol").arg(Number(root.editor.molarMassGPerMol).toLocaleString(Qt.locale(), "f", 3)) : ""
+    note: root.editor.molarMassGPerMol > 0 ? qsTr("%1 g/mol").arg(NumberText.format(root.editor.molarMassGPerMol, 3)) : ""
 
     Label {
         Layout.fillWidth: true

@@ -25,8 +25,25 @@ Card {
     required property var bufferItems
     required property var cautions
     required property var notes
+    /// [{id, name}] of the saved buffers, for a buffer part.
+    property var bufferChoices: []
+    /// The plan, for field names in people's words.
+    property Plan plan
+    readonly property real remainingPercent: {
+        var used = 0
+        for (var i = 0; i < root.parts.length; ++i)
+            used += root.parts[i].percent_v
+        return Math.max(0, Math.round((100 - used) * 1000) / 1000)
+    }
+    readonly property bool hasBuffer: {
+        for (var i = 0; i < root.parts.length; ++i)
+            if (root.parts[i].kind === "buffer")
+                return true
+        return false
+    }
 
-    signal editBuffer(string letter)
+    /// Opens the buffer designer on a saved buffer.
+    signal editBuffer(string name)
 
     function errorFor(field) {
         return root.errorField === field ? root.errorMessage : ""
@@ -39,6 +56,13 @@ Card {
         visible: !root.defined
         text: qsTr("Use line %1").arg(root.letter)
         onClicked: root.linesModel.addLine(root.letter)
+    }
+    ConfirmDialog {
+        id: stopDialog
+        title: qsTr("Stop using line %1?").arg(root.letter)
+        text: qsTr("Its parts, bottle and priming are removed from tonight's plan. Methods that pump line %1 then need changing.").arg(root.letter)
+        actionText: qsTr("Stop using it")
+        onConfirmed: root.linesModel.removeLine(root.letter)
     }
 
     ColumnLayout {
@@ -120,21 +144,32 @@ Card {
                             error: root.errorFor("parts[" + part.index + "].solvent")
                             onPicked: function(id) { root.linesModel.setPartSolvent(root.letter, part.index, id) }
                         }
-                        TouchButton {
+                        ChoiceField {
                             Layout.fillWidth: true
                             visible: part.modelData.kind === "buffer"
-                            text: qsTr("Buffer: %1 ›").arg(part.modelData.name)
-                            onClicked: root.editBuffer(root.letter)
+                            accessibleName: qsTr("Buffer of line %1").arg(root.letter)
+                            choices: (part.modelData.ref || "").length > 0 ? root.bufferChoices
+                                     : [{ id: "", name: qsTr("%1 (own copy)").arg(part.modelData.name) }].concat(root.bufferChoices)
+                            current: part.modelData.ref || ""
+                            onPicked: function(id) { if (id.length > 0) root.linesModel.setPartBuffer(root.letter, part.index, id) }
+                        }
+                        TouchButton {
+                            visible: part.modelData.kind === "buffer" && (part.modelData.ref || "").length > 0
+                            text: qsTr("Edit ›")
+                            Accessible.name: qsTr("Edit buffer %1").arg(part.modelData.name)
+                            onClicked: root.editBuffer(part.modelData.ref)
                         }
                         TouchButton {
                             text: "✕"
-                            Accessible.name: qsTr("Remove part")
+                            focusPolicy: Qt.NoFocus
+                            Accessible.name: qsTr("Remove part %1 of line %2").arg(part.index + 1).arg(root.letter)
                             enabled: root.parts.length > 1
                             onClicked: root.linesModel.removePart(root.letter, part.index)
                         }
                     }
                     NumberField {
                         Layout.fillWidth: true
+                        label: qsTr("Part %1 of line %2").arg(part.index + 1).arg(root.letter)
                         unit: "% v/v"
                         value: part.modelData.percent_v
                         step: 5
@@ -151,23 +186,50 @@ Card {
             Layout.fillWidth: true
             spacing: Theme.gap
             TouchButton {
+                objectName: "addSolventPart"
                 text: qsTr("+ Solvent")
-                onClicked: root.linesModel.addSolventPart(root.letter, "acetonitrile")
+                Accessible.name: qsTr("Add a solvent to line %1").arg(root.letter)
+                enabled: root.remainingPercent > 0
+                onClicked: root.linesModel.addSolventPart(root.letter, "water")
             }
             TouchButton {
-                text: qsTr("+ Aqueous buffer")
-                visible: {
-                    for (var i = 0; i < root.parts.length; ++i)
-                        if (root.parts[i].kind === "buffer")
-                            return false
-                    return true
+                objectName: "addBufferPart"
+                text: qsTr("+ Saved buffer")
+                Accessible.name: qsTr("Add a saved buffer to line %1").arg(root.letter)
+                enabled: root.remainingPercent > 0 && !root.hasBuffer && root.bufferChoices.length > 0
+                onClicked: bufferMenu.open()
+                Menu {
+                    id: bufferMenu
+                    Repeater {
+                        model: root.bufferChoices
+                        delegate: MenuItem {
+                            required property var modelData
+                            text: modelData.name
+                            height: Theme.tap
+                            font.pixelSize: Theme.fontSize
+                            onTriggered: root.linesModel.addBufferPart(root.letter, modelData.id)
+                        }
+                    }
                 }
-                onClicked: root.linesModel.addBufferPart(root.letter)
             }
             TouchButton {
                 text: qsTr("+ Additive")
+                Accessible.name: qsTr("Add an additive to line %1").arg(root.letter)
                 onClicked: root.linesModel.addAdditive(root.letter, "formic-acid")
             }
+        }
+        Label {
+            objectName: "partsWhyDisabled"
+            Layout.fillWidth: true
+            visible: text.length > 0
+            text: root.remainingPercent <= 0
+                  ? qsTr("The parts fill the line (100 %): lower one before adding another.")
+                  : root.hasBuffer ? qsTr("%1 % v/v left for a new part. A line holds one aqueous buffer.").arg(NumberText.format(root.remainingPercent, 1))
+                  : root.bufferChoices.length === 0 ? qsTr("%1 % v/v left for a new part. Save a buffer on the Buffer screen to add it here.").arg(NumberText.format(root.remainingPercent, 1))
+                  : qsTr("%1 % v/v left for a new part.").arg(NumberText.format(root.remainingPercent, 1))
+            color: Theme.dimText
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.smallFont
         }
 
         Column {
@@ -193,7 +255,8 @@ Card {
                         }
                         TouchButton {
                             text: "✕"
-                            Accessible.name: qsTr("Remove additive")
+                            focusPolicy: Qt.NoFocus
+                            Accessible.name: qsTr("Remove additive %1 of line %2").arg(add.index + 1).arg(root.letter)
                             onClicked: root.linesModel.removeAdditive(root.letter, add.index)
                         }
                     }
@@ -226,7 +289,8 @@ Card {
         Label {
             Layout.fillWidth: true
             visible: root.errorMessage.length > 0
-            text: root.errorField + ": " + root.errorMessage
+            text: (root.plan ? root.plan.fieldWords("lines." + root.letter + "." + root.errorField) : root.errorField)
+                  + ": " + root.errorMessage
             color: Theme.bad
             wrapMode: Text.Wrap
             font.pixelSize: Theme.fontSize
@@ -234,7 +298,7 @@ Card {
 
         Label {
             visible: root.items.length > 0
-            text: qsTr("For a %1 mL bottle, measure separately").arg(Number(root.bottleMl).toLocaleString(Qt.locale(), "f", 0))
+            text: qsTr("For a %1 mL bottle, measure separately").arg(NumberText.format(root.bottleMl, 0))
             font.bold: true
             font.pixelSize: Theme.fontSize
         }
@@ -341,7 +405,8 @@ Card {
         TouchButton {
             text: qsTr("Stop using line %1").arg(root.letter)
             flat: true
-            onClicked: root.linesModel.removeLine(root.letter)
+            focusPolicy: Qt.NoFocus
+            onClicked: stopDialog.open()
         }
     }
 }

@@ -9,8 +9,10 @@ ScreenPage {
 
     required property LinesModel lines
     required property Plan plan
-    /// Opens the buffer designer on a line's aqueous buffer.
-    signal editBuffer(string letter)
+    /// For the saved buffers a line can hold.
+    property BufferDesigner designer
+    /// Opens the buffer designer on a saved buffer.
+    signal editBuffer(string name)
 
     title: qsTr("Mobile-phase lines")
 
@@ -25,7 +27,9 @@ ScreenPage {
             delegate: LineCard {
                 width: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) / 2
                 linesModel: root.lines
-                onEditBuffer: function(letter) { root.editBuffer(letter) }
+                plan: root.plan
+                bufferChoices: root.designer ? root.designer.bufferChoices : []
+                onEditBuffer: function(name) { root.editBuffer(name) }
             }
         }
     }

@@ -139,8 +139,7 @@ ScreenPage {
                                     root.plan.loadSaved(entry.name)
                                     root.open("sequence")
                                 } else {
-                                    root.designer.lineLetter = ""
-                                    root.designer.loadDocument(saved.load(entry.kind, entry.name))
+                                    root.designer.openBuffer(entry.name)
                                     root.open("buffer")
                                 }
                             }

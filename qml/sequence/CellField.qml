@@ -2,8 +2,10 @@ import QtQuick
 import QtQuick.Controls
 import PhasePlan
 
-// A number in a table cell: a touch-height field, parsed in the user's locale, shown in red while
-// its text is not a number (the value is then not passed on).
+// A number in a table cell: a touch-height field read by NumberText ("." or "," as the decimal
+// mark, thousands separators refused). While its text is not a complete number it is shown in
+// the warning colour, its message is in `parseError` (the row shows it), the value is not passed
+// on, and it counts itself in the page's `pendingInputs`.
 TextField {
     id: root
 
@@ -11,38 +13,48 @@ TextField {
     property int decimals: 1
     property string accessibleName
     property var locale: Qt.locale()
-    readonly property bool textValid: !isNaN(root.parsed(text))
+    property string parseError: ""
+    readonly property bool pending: parseError.length > 0
 
     signal edited(real value)
 
-    function parsed(t) {
-        try {
-            return Number.fromLocaleString(root.locale, t.trim())
-        } catch (e) {
-            return NaN
-        }
+    function formatted(v) { return NumberText.formatIn(v, root.decimals, root.locale) }
+
+    property Item pendingHolder: null
+    onPendingChanged: {
+        if (!pendingHolder)
+            for (var p = root.parent; p; p = p.parent)
+                if (p.pendingInputs !== undefined) { pendingHolder = p; break }
+        if (pendingHolder)
+            pendingHolder.pendingInputs += pending ? 1 : -1
     }
+    Component.onDestruction: if (pending && pendingHolder) pendingHolder.pendingInputs -= 1
 
     implicitHeight: Theme.tap
     font.pixelSize: Theme.fontSize
     horizontalAlignment: TextInput.AlignRight
     inputMethodHints: Qt.ImhFormattedNumbersOnly
     selectByMouse: true
-    color: textValid ? Theme.text : Theme.bad
+    color: pending ? Theme.warn : Theme.text
     // Set, not bound: a binding would overwrite the text while the user types.
-    Component.onCompleted: text = Number(root.value).toLocaleString(root.locale, "f", root.decimals)
+    Component.onCompleted: text = formatted(root.value)
     Accessible.name: root.accessibleName
     onTextEdited: {
-        var v = root.parsed(text)
-        if (!isNaN(v))
-            root.edited(v)
+        var p = NumberText.parse(text, false, root.accessibleName)
+        if (!p.ok) {
+            parseError = p.message
+            return
+        }
+        parseError = ""
+        root.edited(p.value)
     }
     onActiveFocusChanged: {
-        if (!activeFocus && textValid)
-            text = Number(root.value).toLocaleString(root.locale, "f", root.decimals)
+        if (!activeFocus && !pending)
+            text = formatted(root.value)
     }
+    Keys.onEscapePressed: { parseError = ""; text = formatted(root.value) }
     onValueChanged: {
         if (!activeFocus)
-            text = Number(root.value).toLocaleString(root.locale, "f", root.decimals)
+            text = formatted(root.value)
     }
 }

@@ -3,56 +3,65 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// The night at a glance: when it ends, how much waste, and for each bottle what it needs,
-// whether it lasts, and if not when it runs dry and what to fill instead.
+// The night at a glance: when it starts and ends (with the day), the standby, how much waste,
+// and for each bottle what it needs, whether it lasts, and if not when it runs dry and what to
+// fill instead. While an input is wrong it keeps showing the last valid plan, greyed.
 Card {
     id: root
 
     required property Plan plan
+    /// An input of the screen is typed but not applied yet.
+    property bool inputsPending: false
 
     title: qsTr("The night")
+    stale: root.plan.stale || root.inputsPending
+    staleText: root.plan.stale ? qsTr("last valid plan") : qsTr("not applied")
 
     Label {
         objectName: "planError"
         Layout.fillWidth: true
         visible: !root.plan.valid
-        text: root.plan.errorField.length > 0 ? root.plan.errorField + ": " + root.plan.errorMessage : root.plan.errorMessage
+        text: root.plan.stale
+              ? qsTr("Not updated: %1 needs fixing. %2").arg(root.plan.errorPlace).arg(root.plan.errorMessage)
+              : (root.plan.errorPlace.length > 0 ? root.plan.errorPlace + ": " : "") + root.plan.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap
         font.pixelSize: Theme.fontSize
     }
-    RowLayout {
+    GridLayout {
         Layout.fillWidth: true
-        visible: root.plan.valid
-        spacing: Theme.margin
-        ColumnLayout {
-            spacing: 0
-            Label { text: qsTr("Ends"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
-            Label {
-                objectName: "endText"
-                text: root.plan.endText
-                font.pixelSize: Theme.hugeFont
-                font.bold: true
-            }
+        visible: root.plan.valid || root.plan.stale
+        columns: 3
+        columnSpacing: Theme.margin
+        rowSpacing: 0
+        Label { text: qsTr("Starts"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+        Label { text: qsTr("Ends"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+        Label { text: qsTr("Waste"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+        Label {
+            objectName: "startText"
+            text: root.plan.startText
+            font.pixelSize: Theme.largeFont
         }
-        ColumnLayout {
-            spacing: 0
-            Label { text: qsTr("Run time"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
-            Label {
-                text: qsTr("%1 h").arg(Number(root.plan.totalMin / 60).toLocaleString(Qt.locale(), "f", 1))
-                font.pixelSize: Theme.largeFont
-            }
+        Label {
+            objectName: "endText"
+            text: root.plan.endText
+            font.pixelSize: Theme.largeFont
+            font.bold: true
         }
-        ColumnLayout {
-            spacing: 0
-            Label { text: qsTr("Waste"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
-            Label {
-                text: qsTr("%1 mL").arg(Number(root.plan.wasteMl).toLocaleString(Qt.locale(), "f", 0))
-                font.pixelSize: Theme.largeFont
-                color: root.plan.wasteCapacityMl > 0 && root.plan.wasteMl > root.plan.wasteCapacityMl ? Theme.bad : Theme.text
-            }
+        Label {
+            text: qsTr("%1 mL").arg(NumberText.format(root.plan.wasteMl, 0))
+            font.pixelSize: Theme.largeFont
+            color: root.plan.wasteCapacityMl > 0 && root.plan.wasteMl > root.plan.wasteCapacityMl ? Theme.bad : Theme.text
         }
-        Item { Layout.fillWidth: true }
+    }
+    Label {
+        Layout.fillWidth: true
+        visible: (root.plan.valid || root.plan.stale)
+        text: qsTr("Injections run for %1%2").arg(NumberText.format(root.plan.totalMin / 60, 1) + " h")
+              .arg(root.plan.standbyText.length > 0 ? qsTr("; standby %1").arg(root.plan.standbyText) : qsTr("; no standby"))
+        color: Theme.dimText
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.smallFont
     }
     Column {
         id: bottleList
@@ -84,7 +93,7 @@ Card {
                     Label {
                         Layout.fillWidth: true
                         text: modelData.name
-                        elide: Text.ElideRight
+                        wrapMode: Text.Wrap
                         font.pixelSize: Theme.fontSize
                     }
                     Label {
@@ -93,15 +102,15 @@ Card {
                         font.pixelSize: Theme.smallFont
                         color: modelData.runs_dry ? Theme.bad : Theme.dimText
                         text: modelData.runs_dry
-                              ? qsTr("needs %1 mL of %2 usable: runs dry during injection %3 at %4; fill at least %5 mL")
-                                    .arg(Number(modelData.required_ml).toLocaleString(Qt.locale(), "f", 0))
-                                    .arg(Number(modelData.usable_ml).toLocaleString(Qt.locale(), "f", 0))
+                              ? qsTr("needs %1 mL of %2 usable: runs dry during injection %3, %4; fill at least %5 mL")
+                                    .arg(NumberText.format(modelData.required_ml, 0))
+                                    .arg(NumberText.format(modelData.usable_ml, 0))
                                     .arg(modelData.dry_after_injection)
                                     .arg(modelData.dry_text)
-                                    .arg(Number(modelData.min_bottle_ml || 0).toLocaleString(Qt.locale(), "f", 0))
+                                    .arg(NumberText.format(modelData.min_bottle_ml || 0, 0))
                               : qsTr("needs %1 mL of %2 usable: lasts")
-                                    .arg(Number(modelData.required_ml).toLocaleString(Qt.locale(), "f", 0))
-                                    .arg(Number(modelData.usable_ml).toLocaleString(Qt.locale(), "f", 0))
+                                    .arg(NumberText.format(modelData.required_ml, 0))
+                                    .arg(NumberText.format(modelData.usable_ml, 0))
                     }
                 }
             }

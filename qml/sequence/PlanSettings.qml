@@ -3,7 +3,7 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// The instrument and the night: start time, waste container, detector, column pH range.
+// The instrument and the night: start, waste container, detector, column pH range.
 Card {
     id: root
 
@@ -15,31 +15,21 @@ Card {
 
     title: qsTr("Instrument and night")
 
-    RowLayout {
+    DateTimeField {
+        objectName: "startField"
         Layout.fillWidth: true
-        spacing: Theme.gap
-        TextEntry {
-            objectName: "startField"
-            Layout.fillWidth: true
-            label: qsTr("Start (date and time)")
-            value: root.plan.start
-            placeholder: "2026-12-01T18:00:00"
-            hints: Qt.ImhDate | Qt.ImhTime | Qt.ImhNoPredictiveText
-            error: root.errorFor("start")
-            onEdited: function(text) { root.plan.start = text.trim() }
-        }
-        TouchButton {
-            Layout.alignment: Qt.AlignBottom
-            text: qsTr("−15 min")
-            onClicked: root.plan.shiftStart(-15)
-        }
-        TouchButton {
-            Layout.alignment: Qt.AlignBottom
-            text: qsTr("+15 min")
-            onClicked: root.plan.shiftStart(15)
-        }
+        label: qsTr("Start of the sequence")
+        text: root.plan.startText
+        year: root.plan.startParts.year || 2026
+        month: root.plan.startParts.month || 1
+        day: root.plan.startParts.day || 1
+        hour: root.plan.startParts.hour || 0
+        minute: root.plan.startParts.minute || 0
+        error: root.errorFor("start")
+        onPicked: function(y, mo, d, h, mi) { root.plan.setStartAt(y, mo, d, h, mi) }
     }
     NumberField {
+        objectName: "wasteField"
         Layout.fillWidth: true
         label: qsTr("Free volume in the waste container")
         unit: "mL"
@@ -59,6 +49,7 @@ Card {
         onPicked: function(id) { root.plan.detectorType = id }
     }
     NumberField {
+        objectName: "wavelengthField"
         Layout.fillWidth: true
         visible: root.plan.detectorType === "uv" || root.plan.detectorType === "dad" || root.plan.detectorType === "uv-ms"
         label: qsTr("Detection wavelength")
@@ -75,6 +66,7 @@ Card {
         columns: Theme.columnsFor(width, 2)
         columnSpacing: Theme.gap
         NumberField {
+            objectName: "columnPhMinField"
             Layout.fillWidth: true
             label: qsTr("Column pH, lowest")
             value: root.plan.columnPhMin
@@ -86,6 +78,7 @@ Card {
             onEdited: function(v) { root.plan.columnPhMin = v }
         }
         NumberField {
+            objectName: "columnPhMaxField"
             Layout.fillWidth: true
             label: qsTr("Column pH, highest")
             value: root.plan.columnPhMax

@@ -8,6 +8,14 @@ Card {
     id: root
 
     required property Plan plan
+    readonly property SequenceRowsModel rows: rowsModel
+
+    /// Focuses a field of a row for "Open ›" from the checks (row index, "injections" or "method").
+    function focusField(rowIndex, field) {
+        var r = rowRepeater.itemAt(rowIndex)
+        if (r)
+            r.focusField(field)
+    }
 
     title: qsTr("Sequence")
     note: qsTr("%n injection(s)", "", rowsModel.totalInjections)
@@ -22,9 +30,15 @@ Card {
         Layout.fillWidth: true
         spacing: Theme.gap
         Repeater {
+            id: rowRepeater
             model: rowsModel
             delegate: ColumnLayout {
                 id: row
+                function focusField(field) {
+                    if (field === "method") methodPicker.box.forceActiveFocus()
+                    else if (field === "label") labelEntry.field.forceActiveFocus()
+                    else injectionsField.field.forceActiveFocus()
+                }
                 required property int index
                 required property string method
                 required property int injections
@@ -43,20 +57,27 @@ Card {
                         Layout.preferredWidth: Theme.tap * 0.7
                     }
                     TextEntry {
+                        id: labelEntry
                         Layout.fillWidth: true
                         value: row.label
+                        label: ""
+                        accessibleName: qsTr("Label of sequence row %1").arg(row.index + 1)
                         placeholder: qsTr("label")
                         onEdited: function(text) { rowsModel.setLabel(row.index, text) }
                     }
                     TouchButton {
                         text: "↑"
-                        Accessible.name: qsTr("Move row up")
+                        focusPolicy: Qt.NoFocus
+                        Accessible.name: qsTr("Move sequence row %1 up").arg(row.index + 1)
                         enabled: row.index > 0
                         onClicked: rowsModel.moveRow(row.index, row.index - 1)
                     }
                     TouchButton {
+                        objectName: "removeSequenceRow"
                         text: "✕"
-                        Accessible.name: qsTr("Remove row")
+                        // Destructive: reached by touch, never by Tab; Undo puts the row back.
+                        focusPolicy: Qt.NoFocus
+                        Accessible.name: qsTr("Remove sequence row %1").arg(row.index + 1)
                         onClicked: rowsModel.removeRow(row.index)
                     }
                 }
@@ -64,7 +85,9 @@ Card {
                     Layout.fillWidth: true
                     spacing: Theme.gap
                     ChoiceField {
+                        id: methodPicker
                         Layout.fillWidth: true
+                        accessibleName: qsTr("Method of sequence row %1").arg(row.index + 1)
                         choices: {
                             var c = []
                             var names = root.plan.methodNames
@@ -77,7 +100,10 @@ Card {
                         onPicked: function(id) { rowsModel.setMethod(row.index, id) }
                     }
                     NumberField {
+                        id: injectionsField
+                        objectName: "injectionsField"
                         Layout.preferredWidth: Theme.tap * 5
+                        label: qsTr("Injections, row %1").arg(row.index + 1)
                         integer: true
                         unit: qsTr("inj.")
                         value: row.injections
@@ -98,8 +124,15 @@ Card {
             }
         }
     }
+    UndoBar {
+        Layout.fillWidth: true
+        text: rowsModel.undoText
+        onUndo: rowsModel.undoRemove()
+    }
     TouchButton {
+        objectName: "addSequenceRow"
         text: qsTr("+ Row")
+        Accessible.name: qsTr("Add a sequence row")
         onClicked: rowsModel.addRow()
     }
 }

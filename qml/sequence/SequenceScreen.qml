@@ -4,52 +4,137 @@ import QtQuick.Layouts
 import PhasePlan
 
 // Method and sequence: the gradient table with its plot, the sequence rows, the instrument and
-// waste, and the night as the core plans it: end time, each bottle's level, the run-dry point.
-ScreenPage {
+// waste, the standby, and the night as the core plans it: start and end with their day, each
+// bottle's level, the run-dry point. In landscape the night stays in view in its own column
+// while the editors scroll; in portrait everything scrolls as one page.
+Item {
     id: root
 
     required property Plan plan
+    property bool inPortrait: height > width
+    property string title: qsTr("Method and sequence")
+    /// Fields typed but not applied, on either column.
+    readonly property int pendingInputs: root.inPortrait ? single.pendingInputs : editorsPage.pendingInputs + nightPage.pendingInputs
+    /// For the screenshot seam and tests: the page that scrolls the editors.
+    readonly property Flickable flickable: root.inPortrait ? single.flickable : editorsPage.flickable
 
-    title: qsTr("Method and sequence")
+    /// Shows and focuses the field a check or an error names (a contract path, e.g.
+    /// "methods.assay.gradient[2].A", "sequence[3].injections", "start", "standby.flow_ml_min").
+    function focusField(path) {
+        var editors = root.inPortrait ? singleEditors.item : sideEditors.item
+        if (editors)
+            editors.focusField(path)
+    }
 
-    GridLayout {
-        width: root.contentWidth
-        columns: root.inPortrait ? 1 : 2
-        columnSpacing: Theme.margin
-        rowSpacing: Theme.margin
-
+    Component {
+        id: editorsComponent
         ColumnLayout {
-            Layout.fillWidth: true
-            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.5
-            Layout.alignment: Qt.AlignTop
+            id: editors
             spacing: Theme.margin
-
+            function focusField(path) {
+                var m = /^methods\.(.+?)\.((flow_ml_min|run_min|equilibration_min|gradient\[\d+\].*))$/.exec(path)
+                if (m) {
+                    gradientEditor.gradient.methodName = m[1]
+                    gradientEditor.focusField(m[2])
+                    return
+                }
+                var s = /^sequence\[(\d+)\]\.?(.*)$/.exec(path)
+                if (s) {
+                    sequenceRows.focusField(parseInt(s[1]), s[2])
+                    return
+                }
+                if (path.indexOf("standby") === 0) {
+                    standby.forceActiveFocus()
+                    return
+                }
+                settings.forceActiveFocus()
+            }
             GradientEditor {
+                id: gradientEditor
                 Layout.fillWidth: true
                 plan: root.plan
             }
             SequenceRows {
+                id: sequenceRows
                 Layout.fillWidth: true
                 plan: root.plan
             }
             PlanSettings {
+                id: settings
+                Layout.fillWidth: true
+                plan: root.plan
+            }
+            StandbyCard {
+                id: standby
                 Layout.fillWidth: true
                 plan: root.plan
             }
         }
+    }
+    Component {
+        id: nightComponent
         ColumnLayout {
-            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.5
-            Layout.fillWidth: true
-            Layout.alignment: Qt.AlignTop
             spacing: Theme.margin
-
             NightSummary {
                 Layout.fillWidth: true
                 plan: root.plan
+                inputsPending: root.pendingInputs > 0
             }
             BottleChart {
                 Layout.fillWidth: true
                 plan: root.plan
+            }
+        }
+    }
+
+    // Portrait: one page.
+    ScreenPage {
+        id: single
+        anchors.fill: parent
+        visible: root.inPortrait
+        inPortrait: true
+        ColumnLayout {
+            width: single.contentWidth
+            spacing: Theme.margin
+            Loader {
+                Layout.fillWidth: true
+                active: root.inPortrait
+                sourceComponent: nightComponent
+            }
+            Loader {
+                id: singleEditors
+                Layout.fillWidth: true
+                active: root.inPortrait
+                sourceComponent: editorsComponent
+            }
+        }
+    }
+    // Landscape: editors on the left, the night on the right, each scrolling on its own.
+    RowLayout {
+        anchors.fill: parent
+        visible: !root.inPortrait
+        spacing: 0
+        ScreenPage {
+            id: editorsPage
+            Layout.fillWidth: true
+            Layout.fillHeight: true
+            inPortrait: false
+            Loader {
+                id: sideEditors
+                width: editorsPage.contentWidth
+                active: !root.inPortrait
+                sourceComponent: editorsComponent
+            }
+        }
+        ScreenPage {
+            id: nightPage
+            Layout.fillWidth: true
+            Layout.fillHeight: true
+            inPortrait: false
+            Loader {
+                width: nightPage.contentWidth
+                active: !root.inPortrait
+                sourceComponent: nightComponent
             }
         }
     }

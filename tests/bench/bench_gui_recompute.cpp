@@ -34,7 +34,7 @@ struct Fixture {
         lines.setPlan(&plan);
         designer.setWorkspace(&ws);
         designer.setPlan(&plan);
-        designer.setLineLetter("A");
+        designer.openBuffer(plan.lineBufferRef("A")); // line A's buffer, held by reference
     }
 };
 

@@ -1,0 +1,134 @@
+#include "field_words.h"
+
+#include <QObject>
+#include <QRegularExpression>
+
+#include <map>
+
+namespace phaseplan::gui {
+
+QString key_words(const QString& key) {
+    static const std::map<QString, const char*> words = {
+        // recipe
+        {"target_ph", QT_TR_NOOP("target pH")},
+        {"temperature_c", QT_TR_NOOP("temperature")},
+        {"volume_ml", QT_TR_NOOP("final volume")},
+        {"concentration_mol_per_l", QT_TR_NOOP("buffer concentration")},
+        {"ionic_strength_mol_per_l", QT_TR_NOOP("ionic strength")},
+        {"acid", QT_TR_NOOP("acid form")},
+        {"base", QT_TR_NOOP("base form")},
+        {"weigh", QT_TR_NOOP("reagent weighed")},
+        {"titrant", QT_TR_NOOP("titrant")},
+        {"titrant_mol_per_l", QT_TR_NOOP("titrant concentration")},
+        {"acid_stock_mol_per_l", QT_TR_NOOP("acid stock")},
+        {"base_stock_mol_per_l", QT_TR_NOOP("base stock")},
+        {"route", QT_TR_NOOP("route")},
+        {"system", QT_TR_NOOP("buffer system")},
+        // lines
+        {"name", QT_TR_NOOP("name on the bottle")},
+        {"bottle_ml", QT_TR_NOOP("bottle volume")},
+        {"residue_ml", QT_TR_NOOP("residue")},
+        {"fraction_v", QT_TR_NOOP("% v/v")},
+        {"solvent", QT_TR_NOOP("solvent")},
+        {"additive", QT_TR_NOOP("additive")},
+        {"percent_v", QT_TR_NOOP("amount (% v/v)")},
+        {"percent_w", QT_TR_NOOP("amount (% w/v)")},
+        {"mmol_per_l", QT_TR_NOOP("amount (mmol/L)")},
+        {"prepared_at", QT_TR_NOOP("prepared at")},
+        {"shelf_life_h", QT_TR_NOOP("shelf life")},
+        // methods and the sequence
+        {"flow_ml_min", QT_TR_NOOP("flow")},
+        {"run_min", QT_TR_NOOP("run time")},
+        {"equilibration_min", QT_TR_NOOP("equilibration")},
+        {"t_min", QT_TR_NOOP("time")},
+        {"method", QT_TR_NOOP("method")},
+        {"injections", QT_TR_NOOP("injections")},
+        {"label", QT_TR_NOOP("label")},
+        {"until", QT_TR_NOOP("until")},
+        {"duration_min", QT_TR_NOOP("duration")},
+        // the night
+        {"start", QT_TR_NOOP("Start")},
+        {"waste_ml", QT_TR_NOOP("Free volume in the waste container")},
+        {"detector", QT_TR_NOOP("Detector")},
+        {"wavelength_nm", QT_TR_NOOP("detection wavelength")},
+        {"type", QT_TR_NOOP("type")},
+        {"column", QT_TR_NOOP("Column")},
+        {"ph_min", QT_TR_NOOP("lowest pH")},
+        {"ph_max", QT_TR_NOOP("highest pH")},
+        {"standby", QT_TR_NOOP("Standby")},
+        {"safety_margin", QT_TR_NOOP("Safety margin")},
+        {"lines", QT_TR_NOOP("Lines")},
+        {"methods", QT_TR_NOOP("Methods")},
+        {"sequence", QT_TR_NOOP("Sequence")},
+    };
+    static const QRegularExpression letter(QStringLiteral("^[A-D]$"));
+    if (letter.match(key).hasMatch()) return QObject::tr("% %1").arg(key);
+    auto it = words.find(key);
+    if (it != words.end()) return QObject::tr(it->second);
+    QString k = key;
+    return k.replace(QLatin1Char('_'), QLatin1Char(' '));
+}
+
+namespace {
+
+/// "parts[2]" → ("parts", 2); "parts" → ("parts", -1).
+std::pair<QString, int> split_index(const QString& seg) {
+    static const QRegularExpression re(QStringLiteral("^([^\\[]*)\\[(\\d+)\\]$"));
+    const auto m = re.match(seg);
+    if (!m.hasMatch()) return {seg, -1};
+    return {m.captured(1), m.captured(2).toInt()};
+}
+
+QString indexed(const QString& key, int i) {
+    if (key == QLatin1String("gradient")) return QObject::tr("gradient row %1").arg(i + 1);
+    if (key == QLatin1String("parts")) return QObject::tr("part %1").arg(i + 1);
+    if (key == QLatin1String("additives")) return QObject::tr("additive %1").arg(i + 1);
+    if (key == QLatin1String("sequence")) return QObject::tr("Sequence row %1").arg(i + 1);
+    if (key == QLatin1String("components")) return QObject::tr("component %1").arg(i + 1);
+    if (key == QLatin1String("plans")) return QObject::tr("Plan %1").arg(i + 1);
+    if (key == QLatin1String("actual")) return QObject::tr("actual amount %1").arg(i + 1);
+    return QObject::tr("%1 %2").arg(key_words(key)).arg(i + 1);
+}
+
+QString capitalised(QString s) {
+    if (!s.isEmpty()) s[0] = s[0].toUpper();
+    return s;
+}
+
+} // namespace
+
+QString field_words(const QString& path, const QStringList& method_names) {
+    if (path.isEmpty()) return {};
+    QStringList out;
+    QString rest = path;
+    // A method's name may hold dots and spaces: take the longest known name that fits.
+    if (rest.startsWith(QLatin1String("methods."))) {
+        QString name;
+        for (const QString& n : method_names) {
+            const QString prefix = QStringLiteral("methods.") + n;
+            if ((rest == prefix || rest.startsWith(prefix + QLatin1Char('.'))) && n.size() > name.size()) name = n;
+        }
+        if (name.isEmpty()) name = rest.mid(8).section(QLatin1Char('.'), 0, 0);
+        out << QObject::tr("Method “%1”").arg(name);
+        rest = rest.mid(8 + name.size());
+        if (rest.startsWith(QLatin1Char('.'))) rest.remove(0, 1);
+    } else if (rest.startsWith(QLatin1String("lines."))) {
+        out << QObject::tr("Line %1").arg(rest.mid(6, 1));
+        rest = rest.mid(7);
+        if (rest.startsWith(QLatin1Char('.'))) rest.remove(0, 1);
+    } else if (rest.startsWith(QLatin1String("prime_ml."))) {
+        return QObject::tr("Priming of line %1").arg(rest.mid(9, 1));
+    }
+    const QStringList segs = rest.isEmpty() ? QStringList() : rest.split(QLatin1Char('.'));
+    for (const QString& seg : segs) {
+        const auto [key, i] = split_index(seg);
+        if (key == QLatin1String("buffer")) {
+            out << QObject::tr("buffer");
+            continue;
+        }
+        out << (i >= 0 ? indexed(key, i) : key_words(key));
+    }
+    return capitalised(out.join(QStringLiteral(", ")));
+}
+
+} // namespace phaseplan::gui
