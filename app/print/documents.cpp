@@ -74,6 +74,8 @@ QString route_text(const chem::RecipeRequest& q) {
     switch (q.route) {
     case chem::Route::mix: return QStringLiteral("mix: %1 + %2").arg(qs(q.acid), qs(q.base));
     case chem::Route::titrate:
+        if (q.titrant_form == chem::TitrantForm::neat)
+            return QStringLiteral("titrate: weigh %1, adjust with %2 as supplied (neat)").arg(qs(q.weigh), qs(q.titrant));
         return QStringLiteral("titrate: weigh %1, adjust with %2 %3 mol/L")
             .arg(qs(q.weigh), qs(q.titrant), qs(chem::format_number(q.titrant_mol_per_l)));
     case chem::Route::stocks:
@@ -433,6 +435,7 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
         {"Route", route_text(req)},
         {req.concentration_mol_per_l ? "Buffer concentration" : "Ionic strength",
          format_mmol_per_l(req.concentration_mol_per_l ? *req.concentration_mol_per_l : *req.ionic_strength_mol_per_l)},
+        {"Concentration basis", qs(recipe.basis.text)},
     };
     d.blocks << heading("Plan") << fields_block(plan);
 
