@@ -318,15 +318,13 @@ public:
         if (req_.concentration_mol_per_l) {
             *c = *req_.concentration_mol_per_l;
         } else {
-            const double c_max = rule_.held_per_c > 0 ? max_concentration_mol_per_l / rule_.held_per_c
-                                                      : max_concentration_mol_per_l;
             *c = concentration_for_ionic_strength(
                 [&](double conc) {
                     auto n = reach(conc);
                     if (!n) return std::numeric_limits<double>::quiet_NaN();
                     return ionic_strength(conc, *n);
                 },
-                *req_.ionic_strength_mol_per_l, std::min(c_max, max_concentration_mol_per_l));
+                *req_.ionic_strength_mol_per_l, max_concentration_mol_per_l);
         }
         auto n = reach(*c, ph_start, ph_end);
         if (!n) return std::nullopt;

@@ -61,6 +61,21 @@ void BM_RecipeTitrate(benchmark::State& state) {
 }
 BENCHMARK(BM_RecipeTitrate)->Unit(benchmark::kMicrosecond);
 
+void BM_RecipeTitrateNeatSalt(benchmark::State& state) {
+    // LC-MS: 10 mM ammonium formate brought to pH 3.0 with formic acid as supplied (searched up to
+    // 10 mol/L of titrant).
+    chem::RecipeRequest r;
+    r.target_ph = 3.0;
+    r.route = chem::Route::titrate;
+    r.weigh = "ammonium-formate";
+    r.titrant = "formic-acid";
+    r.titrant_form = chem::TitrantForm::neat;
+    r.basis = chem::ConcentrationBasis::salt;
+    r.concentration_mol_per_l = 0.01;
+    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
+}
+BENCHMARK(BM_RecipeTitrateNeatSalt)->Unit(benchmark::kMicrosecond);
+
 void BM_RecipeMixAtIonicStrength(benchmark::State& state) {
     auto req = mix_request();
     req.concentration_mol_per_l.reset();
