@@ -30,8 +30,6 @@ double purity_of(const RecipeRequest& req, const Reagent& r) {
     return r.assay_fraction;
 }
 
-bool starts_with(const std::string& s, const char* prefix) { return s.rfind(prefix, 0) == 0; }
-
 std::string item_path(int i, const char* key) {
     return "batch.actual[" + std::to_string(i) + "]" + (key[0] ? std::string(".") + key : "");
 }
@@ -181,10 +179,11 @@ std::string add_hours(const std::string& text, double hours, const std::string& 
 ItemBasis item_basis(const Library& lib, const RecipeRequest& req, const RecipeItem& item) {
     const Reagent& r = lib.reagent(item.reagent);
     ItemBasis b;
-    if (starts_with(item.as, "stock") || starts_with(item.as, "titrant")) {
-        // A solution of known molarity, measured by volume only.
+    if (item.kind == ItemKind::stock || item.kind == ItemKind::titrant_solution) {
+        // A solution of known molarity, measured by volume only. (A neat titrant is material as
+        // supplied, below.)
         double molarity = 0;
-        if (starts_with(item.as, "titrant")) molarity = req.titrant_mol_per_l;
+        if (item.kind == ItemKind::titrant_solution) molarity = req.titrant_mol_per_l;
         else if (item.reagent == req.acid) molarity = req.acid_stock_mol_per_l;
         else if (item.reagent == req.base) molarity = req.base_stock_mol_per_l;
         b.mol_per_ml = molarity / 1000.0;

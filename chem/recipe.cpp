@@ -2,6 +2,7 @@
 
 #include "chem/equilibrium_detail.h"
 #include "chem/error.h"
+#include "chem/recipe_roles.h"
 #include "chem/units.h"
 
 #include <boost/math/tools/roots.hpp>
@@ -41,20 +42,41 @@ RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l
     if (r.form == PhysicalForm::liquid) {
         it.volume_ml = material_g / r.density_g_per_ml;
         it.as = "liquid";
+        it.kind = ItemKind::liquid;
     } else {
         it.as = "solid";
+        it.kind = ItemKind::solid;
     }
     return it;
 }
 
+/// A stock or titrant solution of stock_mol_per_l, measured by volume.
 RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_per_l,
-                         double stock_mol_per_l, const std::string& role) {
+                         double stock_mol_per_l, ItemKind kind) {
     RecipeItem it;
     it.reagent = r.id;
+    it.kind = kind;
     it.mol_per_l = mol_per_l;
     it.volume_ml = mol_per_l * req.volume_ml / stock_mol_per_l;
-    it.as = role + " " + format_number(stock_mol_per_l) + " mol/L";
+    it.as = std::string(kind == ItemKind::stock ? "stock" : "titrant") + " " +
+            format_number(stock_mol_per_l) + " mol/L";
     return it;
+}
+
+/// The titrant as supplied: a volume of the liquid, with its mass.
+RecipeItem neat_titrant_item(const RecipeRequest& req, const Reagent& r, double mol_per_l) {
+    RecipeItem it = item_for(req, r, mol_per_l);
+    it.kind = ItemKind::titrant_neat;
+    it.as = "titrant, neat";
+    return it;
+}
+
+/// The most of a reagent as supplied that fits in 90 % of the flask, in mol/L of final solution
+/// (a liquid: ρ · assay / M; a solid is limited by max_concentration_mol_per_l only).
+double most_as_supplied_mol_per_l(const Reagent& r, double purity) {
+    if (r.form != PhysicalForm::liquid) return max_concentration_mol_per_l;
+    return std::min(0.9 * r.density_g_per_ml * purity / r.molar_mass_g_per_mol * 1000.0,
+                    max_concentration_mol_per_l);
 }
 
 /// Solves g(x) = 0 on [lo, hi] for a monotone g known to change sign there.
@@ -153,30 +175,28 @@ struct MixDesign {
     double c_acid = 0, c_base = 0; ///< formula units per litre
 };
 
-MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent& acid,
-                     const Reagent& base) {
+/// The shares of the system a mix pair has in common, in which the base form carries fewer
+/// protons per unit. Throws chem::Error("base") when the two are not a conjugate pair.
+std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent& acid, const Reagent& base) {
     if (acid.id == base.id) throw Error("base", "\"" + base.id + "\" is the same as the acid form");
-    const SystemShare* sa = nullptr;
-    const SystemShare* sb = nullptr;
     for (const auto& s : acid.systems) {
         const SystemShare* other = base.share(s.system);
         if (!other) continue;
         // The shared system in which the base form carries fewer protons per unit.
-        if (other->protons_removed / other->count > s.protons_removed / s.count + 1e-9) {
-            sa = &s;
-            sb = other;
-            break;
-        }
+        if (other->protons_removed / other->count > s.protons_removed / s.count + 1e-9) return {&s, other};
     }
-    if (!sa) {
-        bool any_shared = false;
-        for (const auto& s : acid.systems) any_shared |= base.has_system(s.system);
-        if (!any_shared)
-            throw Error("base", "\"" + base.id + "\" and \"" + acid.id +
-                                    "\" share no acid-base system, so they are not a conjugate pair");
-        throw Error("base", "\"" + base.id + "\" is not a more basic form than \"" + acid.id +
-                                "\"; swap acid and base");
-    }
+    bool any_shared = false;
+    for (const auto& s : acid.systems) any_shared |= base.has_system(s.system);
+    if (!any_shared)
+        throw Error("base", "\"" + base.id + "\" and \"" + acid.id +
+                                "\" share no acid-base system, so they are not a conjugate pair");
+    throw Error("base", "\"" + base.id + "\" is not a more basic form than \"" + acid.id +
+                            "\"; swap acid and base");
+}
+
+MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent& acid,
+                     const Reagent& base) {
+    const auto [sa, sb] = conjugate_shares(acid, base);
     MixDesign d;
     d.system = &lib.system(sa->system);
     Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c)};
@@ -225,58 +245,142 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
     return d;
 }
 
-struct TitrationDesign {
-    double c_weigh = 0;
-    double c_titrant = 0; ///< mol/L of titrant in the final solution
+/// Adding reagent `added` (n, formula units per litre of final solution) to reagent `held`,
+/// whose amount is held_per_c · c − held_less_per_n · n for the request's concentration c:
+/// salt basis, held at c (1, 0); total basis, the buffer system's total at c
+/// (1/count_held, count_added/count_held when the added reagent shares the system, else 0).
+/// pH(n) is monotone in n for a reagent that fits (titrant_fit); the search brackets the root
+/// between the two ends of [0, n_max] and then narrows the bracket by factors of 4 from the top,
+/// so it never solves far beyond the amount needed.
+struct Addition {
+    double held_per_c = 1;
+    double held_less_per_n = 0;
+    double n_max = 0; ///< the most that may be added, mol/L of final solution
 };
 
-TitrationDesign design_titration(const Library& lib, const RecipeRequest& req, const Reagent& weigh,
-                                 const Reagent& titrant) {
-    if (weigh.id == titrant.id) throw Error("titrant", "\"" + titrant.id + "\" is the weighed reagent itself");
-    Pair pair{detail::build_problem(lib, {{&weigh, 1.0}, {&titrant, 1.0}}, req.temperature_c)};
-    // The titrant may take up at most 90 % of the final volume.
-    const double n_max = std::min(0.9 * req.titrant_mol_per_l, max_concentration_mol_per_l);
-    auto reach = [&](double c, std::string* why) -> std::optional<double> {
-        const double ph0 = pair.ph(c, 0.0);
-        const double ph_max = pair.ph(c, n_max);
-        const bool raises = ph_max > ph0;
-        const double lo_ph = std::min(ph0, ph_max), hi_ph = std::max(ph0, ph_max);
-        if (req.target_ph < lo_ph || req.target_ph > hi_ph) {
-            if (why) {
-                if ((raises && req.target_ph < ph0) || (!raises && req.target_ph > ph0))
-                    *why = "the weighed " + weigh.id + " alone gives " + ph_text(ph0) + ", and " +
-                           titrant.id + " can only " + (raises ? "raise" : "lower") + " it";
-                else
-                    *why = titrant.id + " at " + format_number(req.titrant_mol_per_l) +
-                           " mol/L reaches only " + ph_text(ph_max) +
-                           " before its volume would fill 90 % of the flask";
-            }
-            return std::nullopt;
-        }
-        auto g = [&](double n) { return pair.ph(c, n) - req.target_ph; };
-        return root_between(g, 0.0, n_max, ph0 - req.target_ph, ph_max - req.target_ph);
-    };
-    TitrationDesign d;
-    if (req.concentration_mol_per_l) {
-        d.c_weigh = *req.concentration_mol_per_l;
-    } else {
-        d.c_weigh = concentration_for_ionic_strength(
-            [&](double c) {
-                auto n = reach(c, nullptr);
-                if (!n) return std::numeric_limits<double>::quiet_NaN();
-                return pair.state(c, *n).ionic_strength_mol_per_l;
-            },
-            *req.ionic_strength_mol_per_l, max_concentration_mol_per_l);
+struct AdditionDesign {
+    double c_held = 0;  ///< formula units per litre
+    double n_added = 0; ///< formula units per litre
+};
+
+class AdditionSearch {
+public:
+    AdditionSearch(const Library& lib, const RecipeRequest& req, const Reagent& held,
+                   const Reagent& added, const Addition& rule)
+        : req_(req), rule_(rule),
+          pair_{detail::build_problem(lib, {{&held, 1.0}, {&added, 1.0}}, req.temperature_c), std::nullopt} {}
+
+    double held_at(double c, double n) const {
+        return std::max(0.0, rule_.held_per_c * c - rule_.held_less_per_n * n);
     }
-    std::string why;
-    auto n = reach(d.c_weigh, &why);
-    if (!n)
-        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by titrating " +
-                                     format_number(d.c_weigh) + " mol/L " + weigh.id + " with " +
-                                     titrant.id + " at " + format_number(req.temperature_c) +
-                                     " °C: " + why);
-    d.c_titrant = *n;
-    return d;
+    double n_high(double c) const {
+        return rule_.held_less_per_n > 0 ? std::min(rule_.n_max, rule_.held_per_c * c / rule_.held_less_per_n)
+                                         : rule_.n_max;
+    }
+    double ph(double c, double n) { return pair_.ph(held_at(c, n), n); }
+    double ionic_strength(double c, double n) {
+        return pair_.state(held_at(c, n), n).ionic_strength_mol_per_l;
+    }
+
+    /// The amount to add at concentration c, or nullopt; `ph_start`, `ph_end`: pH with nothing
+    /// added and with n_high(c) added.
+    std::optional<double> reach(double c, double* ph_start = nullptr, double* ph_end = nullptr) {
+        const double target = req_.target_ph;
+        const double n_hi = n_high(c);
+        const double ph0 = ph(c, 0.0);
+        const double ph1 = ph(c, n_hi);
+        if (ph_start) *ph_start = ph0;
+        if (ph_end) *ph_end = ph1;
+        if (target < std::min(ph0, ph1) || target > std::max(ph0, ph1)) return std::nullopt;
+        auto g = [&](double n) { return ph(c, n) - target; };
+        double lo = 0, glo = ph0 - target, hi = n_hi, ghi = ph1 - target;
+        if (glo == 0) return lo;
+        if (ghi == 0) return hi;
+        for (int k = 0; k < 30; ++k) {
+            const double n = hi / 4;
+            const double gn = g(n);
+            if (gn != 0 && (gn > 0) == (ghi > 0)) {
+                hi = n;
+                ghi = gn;
+            } else {
+                lo = n;
+                glo = gn;
+                break;
+            }
+        }
+        return root_between(g, lo, hi, glo, ghi);
+    }
+
+    /// Solves for the addition at the request's concentration, or at the concentration that
+    /// meets its ionic strength. Returns nullopt when the target pH cannot be reached at the
+    /// concentration given; `c`, `ph_start`, `ph_end` then say where and what was reachable.
+    std::optional<AdditionDesign> design(double* c, double* ph_start, double* ph_end) {
+        if (req_.concentration_mol_per_l) {
+            *c = *req_.concentration_mol_per_l;
+        } else {
+            *c = concentration_for_ionic_strength(
+                [&](double conc) {
+                    auto n = reach(conc);
+                    if (!n) return std::numeric_limits<double>::quiet_NaN();
+                    return ionic_strength(conc, *n);
+                },
+                *req_.ionic_strength_mol_per_l, max_concentration_mol_per_l);
+        }
+        auto n = reach(*c, ph_start, ph_end);
+        if (!n) return std::nullopt;
+        return AdditionDesign{held_at(*c, *n), *n};
+    }
+
+private:
+    const RecipeRequest& req_;
+    Addition rule_;
+    Pair pair_;
+};
+
+/// Mix and stocks on the salt basis: the salt of the pair at c, its partner form added until the
+/// target pH (as supplied for mix, from its stock for stocks).
+MixDesign design_mix_on_salt(const Library& lib, const RecipeRequest& req, const Reagent& acid,
+                             const Reagent& base) {
+    const auto [sa, sb] = conjugate_shares(acid, base);
+    const Reagent* salt = salt_of_pair(acid, base, sa->system);
+    if (!salt) {
+        const bool both = !acid.spectators.empty() || acid.systems.size() > 1;
+        throw Error("concentration_basis",
+                    "\"salt\" holds the salt of the pair at the concentration, but " +
+                        std::string(both ? "both " : "neither of ") + "\"" + acid.id + "\" and \"" + base.id +
+                        "\" carr" + (both ? "y" : "ies") +
+                        " a counter-ion; use \"total\", or the titrate route to say which reagent is weighed");
+    }
+    const Reagent& partner = salt == &acid ? base : acid;
+    Addition rule;
+    if (req.route == Route::stocks)
+        rule.n_max = std::min(0.9 * (&partner == &acid ? req.acid_stock_mol_per_l : req.base_stock_mol_per_l),
+                              max_concentration_mol_per_l);
+    else
+        rule.n_max = most_as_supplied_mol_per_l(partner, purity_of(req, partner));
+    AdditionSearch search(lib, req, *salt, partner, rule);
+    double c = 0, ph0 = 0, ph1 = 0;
+    const auto d = search.design(&c, &ph0, &ph1);
+    if (!d)
+        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by adding " + partner.id + " to " +
+                                     format_number(c) + " mol/L " + salt->id + " at " +
+                                     format_number(req.temperature_c) + " °C: the mixture spans " +
+                                     ph_text(ph0) + " (" + salt->id + " alone) to " + ph_text(ph1) + " (" +
+                                     format_number(rule.n_max) + " mol/L of " + partner.id + ")");
+    MixDesign m;
+    m.system = &lib.system(sa->system);
+    (salt == &acid ? m.c_acid : m.c_base) = d->c_held;
+    (salt == &acid ? m.c_base : m.c_acid) = d->n_added;
+    return m;
+}
+
+/// "formic-acid (lowers), ammonia (raises), …": the titrants that fit a weighed reagent.
+std::string fitting_titrants(const Library& lib, const Reagent& weighed) {
+    std::string out;
+    for (const Reagent& r : lib.reagents())
+        if (const auto fit = titrant_fit(lib, weighed, r))
+            out += (out.empty() ? "" : ", ") + r.id + " (" + direction_name(fit->direction) + ")";
+    return out.empty() ? "none in the library" : out;
 }
 
 std::string reagent_label(const Reagent& r) {
@@ -359,16 +463,18 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             check_stock("acid_stock_mol_per_l", req.acid_stock_mol_per_l);
             check_stock("base_stock_mol_per_l", req.base_stock_mol_per_l);
         }
-        const MixDesign d = design_mix(lib, req, acid, base);
+        const MixDesign d = req.basis.value_or(default_basis(req.route)) == ConcentrationBasis::salt
+                                ? design_mix_on_salt(lib, req, acid, base)
+                                : design_mix(lib, req, acid, base);
         used = {&acid, &base};
         if (req.route == Route::mix) {
             if (d.c_acid > 0) recipe.items.push_back(item_for(req, acid, d.c_acid));
             if (d.c_base > 0) recipe.items.push_back(item_for(req, base, d.c_base));
         } else {
             if (d.c_acid > 0)
-                recipe.items.push_back(solution_item(req, acid, d.c_acid, req.acid_stock_mol_per_l, "stock"));
+                recipe.items.push_back(solution_item(req, acid, d.c_acid, req.acid_stock_mol_per_l, ItemKind::stock));
             if (d.c_base > 0)
-                recipe.items.push_back(solution_item(req, base, d.c_base, req.base_stock_mol_per_l, "stock"));
+                recipe.items.push_back(solution_item(req, base, d.c_base, req.base_stock_mol_per_l, ItemKind::stock));
             double total_ml = 0;
             for (const auto& it : recipe.items) total_ml += *it.volume_ml;
             if (total_ml > req.volume_ml)
@@ -387,22 +493,83 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     case Route::titrate: {
         if (req.weigh.empty()) throw Error("weigh", "is required for route \"titrate\"");
         if (req.titrant.empty()) throw Error("titrant", "is required for route \"titrate\"");
-        if (!std::isfinite(req.titrant_mol_per_l) || req.titrant_mol_per_l <= 0)
-            throw Error("titrant_mol_per_l",
-                        format_number(req.titrant_mol_per_l) + " is not a positive molarity");
-        if (req.titrant_mol_per_l > max_titrant_mol_per_l)
-            throw Error("titrant_mol_per_l", format_number(req.titrant_mol_per_l) +
-                                                 " mol/L is above " +
-                                                 format_number(max_titrant_mol_per_l) + " mol/L");
         const Reagent& weigh = lib.reagent(req.weigh, "weigh");
         const Reagent& titrant = lib.reagent(req.titrant, "titrant");
-        const TitrationDesign d = design_titration(lib, req, weigh, titrant);
+        const bool neat = req.titrant_form == TitrantForm::neat;
+        if (neat) {
+            if (req.titrant_mol_per_l != 0)
+                throw Error("titrant_mol_per_l", format_number(req.titrant_mol_per_l) +
+                                                     " mol/L is given for a neat titrant: remove it, or set "
+                                                     "titrant_form to \"solution\"");
+            if (titrant.form != PhysicalForm::liquid)
+                throw Error("titrant_form", "\"" + titrant.id +
+                                                "\" is a solid and cannot be added neat: use titrant_form "
+                                                "\"solution\" with its titrant_mol_per_l");
+        } else {
+            if (!std::isfinite(req.titrant_mol_per_l) || req.titrant_mol_per_l <= 0)
+                throw Error("titrant_mol_per_l",
+                            format_number(req.titrant_mol_per_l) + " is not a positive molarity");
+            if (req.titrant_mol_per_l > max_titrant_mol_per_l)
+                throw Error("titrant_mol_per_l", format_number(req.titrant_mol_per_l) +
+                                                     " mol/L is above " +
+                                                     format_number(max_titrant_mol_per_l) + " mol/L");
+        }
+        if (weigh.id == titrant.id)
+            throw Error("titrant", "\"" + titrant.id + "\" is the weighed reagent itself");
+        const auto fit = titrant_fit(lib, weigh, titrant);
+        if (!fit)
+            throw Error("titrant", "\"" + titrant.id + "\" cannot bring \"" + weigh.id +
+                                       "\" to pH: it is neither another form of its acid-base system nor a "
+                                       "strong acid or base; titrants that fit: " +
+                                       fitting_titrants(lib, weigh));
+        Addition rule;
+        rule.n_max = neat ? most_as_supplied_mol_per_l(titrant, purity_of(req, titrant))
+                          : std::min(0.9 * req.titrant_mol_per_l, max_concentration_mol_per_l);
+        const AcidBaseSystem* sys = buffer_system(lib, req);
+        const bool total = req.basis.value_or(default_basis(req.route)) == ConcentrationBasis::total;
+        if (total) {
+            const SystemShare* ws = sys ? weigh.share(sys->id) : nullptr;
+            if (!ws)
+                throw Error("concentration_basis", "\"total\" counts an acid-base system, and \"" + weigh.id +
+                                                       "\" has none; use \"salt\"");
+            rule.held_per_c = 1.0 / ws->count;
+            if (const SystemShare* ts = titrant.share(sys->id)) rule.held_less_per_n = ts->count / ws->count;
+        }
+        AdditionSearch search(lib, req, weigh, titrant, rule);
+        double c = 0, ph0 = 0, ph1 = 0;
+        const auto d = search.design(&c, &ph0, &ph1);
+        if (!d) {
+            const bool raises = ph1 > ph0;
+            std::string why;
+            if ((raises && req.target_ph < ph0) || (!raises && req.target_ph > ph0))
+                why = "the weighed " + weigh.id + " alone gives " + ph_text(ph0) + ", and " + titrant.id +
+                      " can only " + (raises ? "raise" : "lower") + " it";
+            else if (search.n_high(c) < rule.n_max)
+                why = titrant.id + " reaches only " + ph_text(ph1) + " when it brings all of the " +
+                      format_number(c) + " mol/L total " + sys->id;
+            else if (rule.n_max >= max_concentration_mol_per_l)
+                why = titrant.id + " reaches only " + ph_text(ph1) + " at " +
+                      format_number(max_concentration_mol_per_l) +
+                      " mol/L in the final solution, the most the designer adds";
+            else
+                why = titrant.id + (neat ? " as supplied" : " at " + format_number(req.titrant_mol_per_l) + " mol/L") +
+                      " reaches only " + ph_text(ph1) + " before its volume would fill 90 % of the flask";
+            throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by titrating " +
+                                         (total ? weigh.id + " at " + format_number(c) + " mol/L total " +
+                                                      (sys ? sys->id : std::string())
+                                                : format_number(c) + " mol/L " + weigh.id) +
+                                         " with " + titrant.id + " at " + format_number(req.temperature_c) +
+                                         " °C: " + why + " (the titration spans " + ph_text(ph0) + " to " +
+                                         ph_text(ph1) + ")");
+        }
         used = {&weigh, &titrant};
-        recipe.items.push_back(item_for(req, weigh, d.c_weigh));
-        if (d.c_titrant > 0)
-            recipe.items.push_back(solution_item(req, titrant, d.c_titrant, req.titrant_mol_per_l, "titrant"));
-        recipe.composition.push_back({&weigh, d.c_weigh});
-        if (d.c_titrant > 0) recipe.composition.push_back({&titrant, d.c_titrant});
+        if (d->c_held > 0) recipe.items.push_back(item_for(req, weigh, d->c_held));
+        if (d->n_added > 0)
+            recipe.items.push_back(neat ? neat_titrant_item(req, titrant, d->n_added)
+                                        : solution_item(req, titrant, d->n_added, req.titrant_mol_per_l,
+                                                        ItemKind::titrant_solution));
+        if (d->c_held > 0) recipe.composition.push_back({&weigh, d->c_held});
+        if (d->n_added > 0) recipe.composition.push_back({&titrant, d->n_added});
         break;
     }
     }
@@ -419,6 +586,13 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         throw Error("target_ph", "internal check failed: the designed recipe solves to " +
                                      ph_text(recipe.predicted.ph) + ", not the target");
 
+    // The basis in words, and every family of species as made (both readings of "10 mM").
+    {
+        const AcidBaseSystem* bsys = buffer_system(lib, req);
+        recipe.totals = family_totals(lib, recipe.composition, bsys ? bsys->id : std::string());
+        recipe.basis = basis_statement(lib, recipe);
+    }
+
     // Steps, in bench order.
     auto& steps = recipe.steps;
     const double water_ml = std::round(req.volume_ml * 0.8);
@@ -432,12 +606,19 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     }
     if (req.route == Route::titrate) {
         const Reagent& titrant = lib.reagent(req.titrant);
-        const auto& t = recipe.items.back();
+        RecipeItem t;
+        for (const auto& it : recipe.items)
+            if (it.kind == ItemKind::titrant_solution || it.kind == ItemKind::titrant_neat) t = it;
+        const bool neat = req.titrant_form == TitrantForm::neat;
+        std::string predicted = format_amount(t.volume_ml.value_or(0)) + " mL";
+        if (neat) predicted += " (" + format_amount(t.mass_g.value_or(0)) + " g)";
         steps.push_back("Bring the solution to " + format_number(req.temperature_c) +
                         " °C and calibrate the pH meter at that temperature.");
-        steps.push_back("While stirring, add " + titrant.name + " " + format_number(req.titrant_mol_per_l) +
-                        " mol/L in small portions until the meter reads " + ph_text(req.target_ph) +
-                        "; about " + format_amount(t.volume_ml.value_or(0)) + " mL is predicted.");
+        steps.push_back("While stirring, add " + titrant.name +
+                        (neat ? " as supplied (neat), drop by drop,"
+                              : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
+                        " until the meter reads " + ph_text(req.target_ph) + "; about " + predicted +
+                        " is predicted.");
     } else {
         steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
                         ph_text(recipe.predicted.ph) +

@@ -82,6 +82,17 @@ MIX_IONIC = {"target_ph": 4.8, "temperature_c": 20, "volume_ml": 500, "route": "
 TITRATE = {"target_ph": 8.1, "temperature_c": 25, "volume_ml": 1000, "route": "titrate",
            "weigh": "tris", "titrant": "hydrochloric-acid", "titrant_mol_per_l": 1.0,
            "concentration_mol_per_l": 0.05}
+# LC-MS conventions: the salt at c brought to pH with its own acid, added as supplied; and a
+# total-basis titration with the conjugate acid as the titrant.
+TITRATE_NEAT_SALT = {"target_ph": 3.0, "temperature_c": 25, "volume_ml": 1000, "route": "titrate",
+                     "weigh": "ammonium-formate", "titrant": "formic-acid", "titrant_form": "neat",
+                     "concentration_basis": "salt", "concentration_mol_per_l": 0.01}
+TITRATE_TOTAL = {"target_ph": 4.75, "temperature_c": 25, "volume_ml": 500, "route": "titrate",
+                 "weigh": "ammonium-acetate", "titrant": "acetic-acid", "titrant_mol_per_l": 1.0,
+                 "concentration_basis": "total", "ionic_strength_mol_per_l": 0.01}
+MIX_SALT = {"target_ph": 3.2, "temperature_c": 25, "volume_ml": 1000, "route": "mix",
+            "acid": "formic-acid", "base": "ammonium-formate", "concentration_basis": "salt",
+            "concentration_mol_per_l": 0.01}
 STOCKS = {"target_ph": 7.0, "temperature_c": 25, "volume_ml": 250, "route": "stocks",
           "acid": "potassium-dihydrogen-phosphate", "base": "dipotassium-hydrogen-phosphate",
           "acid_stock_mol_per_l": 0.5, "base_stock_mol_per_l": 0.5,
@@ -133,6 +144,9 @@ BASES = [  # (command, name, document, extra arguments)
     ("recipe", "mix-ionic", MIX_IONIC, []),
     ("recipe", "titrate", TITRATE, []),
     ("recipe", "stocks", STOCKS, []),
+    ("recipe", "titrate-neat-salt", TITRATE_NEAT_SALT, []),
+    ("recipe", "titrate-total", TITRATE_TOTAL, []),
+    ("recipe", "mix-salt", MIX_SALT, []),
     ("reagents", "empty", {}, []),
     ("line", "demo-line", DEMO_LINE, []),
     ("line", "additives", ADDITIVE_LINE, []),
@@ -492,6 +506,14 @@ def domain_mutations(command, name, doc, args):
                     and isinstance(get(doc, p), str):
                 add("unknown id at " + path_text(p), put(doc, p, "potasium-dihydrogen-phosphate"))
         for p in paths(doc):
+            if p and p[-1] == "concentration_basis":
+                add("unknown basis at " + path_text(p), put(doc, p, "weighed"))
+            if p and p[-1] == "titrant_form":
+                add("unknown titrant form at " + path_text(p), put(doc, p, "dilute"))
+                add("neat titrant with a molarity", put(doc, p[:-1] + ("titrant_mol_per_l",), 1.0))
+            if p and p[-1] == "titrant" and isinstance(get(doc, p), str):
+                add("titrant that fits nothing at " + path_text(p), put(doc, p, "sodium-chloride"))
+        for p in paths(doc):
             if p and p[-1] == "target_ph":
                 add("target_ph 15", put(doc, p, 15))
                 add("target_ph -0.5", put(doc, p, -0.5))
@@ -736,7 +758,8 @@ def field_ok(field, case):
     return first in case.doc_keys or (case.command != "reagents" and first in (
         "components", "target_ph", "route", "lines", "methods", "sequence", "start", "batch",
         "parts", "volume_ml", "plans", "bottle_ml", "concentration_mol_per_l", "temperature_c",
-        "acid", "base", "weigh", "titrant", "titrant_mol_per_l"))
+        "acid", "base", "weigh", "titrant", "titrant_mol_per_l", "titrant_form",
+        "concentration_basis"))
 
 
 def run(index, case):

@@ -20,6 +20,7 @@ private slots:
     void solveEquimolarPhosphateReferenceBuffer();
     void recipeFromFileMatchesStdin();
     void recipeOutputFeedsBackIntoSolve();
+    void recipeStatesItsBasis();
     void reagentsListsEveryRequiredId();
 };
 
@@ -113,6 +114,29 @@ void TestCli::recipeOutputFeedsBackIntoSolve() {
     const auto s = run_cli({"solve", "-"}, QJsonDocument(solve_in).toJson());
     QCOMPARE(s.exit_code, 0);
     QVERIFY(std::abs(QJsonDocument::fromJson(s.out).object()["ph"].toDouble() - 3.0) < 0.005);
+}
+
+void TestCli::recipeStatesItsBasis() {
+    // An LC-MS buffer as usually written: the salt at 10 mM, brought to pH with its own acid
+    // added as supplied. The output says so in words and gives both readings (formate in all,
+    // ammonium).
+    const auto r = run_cli({"recipe", "-"},
+                           R"({"target_ph": 3.0, "volume_ml": 500, "route": "titrate", "weigh": "ammonium-formate",
+                               "titrant": "formic-acid", "titrant_form": "neat", "concentration_basis": "salt",
+                               "concentration_mol_per_l": 0.01})");
+    QCOMPARE(r.exit_code, 0);
+    const QJsonObject out = QJsonDocument::fromJson(r.out).object();
+    QCOMPARE(out["concentration_basis"].toString(), QString("salt"));
+    QCOMPARE(out["titrant_form"].toString(), QString("neat"));
+    QVERIFY(out["basis"].toObject()["text"].toString().startsWith("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"));
+    QStringList families;
+    for (const auto& t : out["totals"].toArray()) families << t.toObject()["family"].toString();
+    QCOMPARE(families, (QStringList{"formate", "ammonium"}));
+    for (const auto& i : out["items"].toArray())
+        if (i.toObject()["reagent"] == "formic-acid") {
+            QCOMPARE(i.toObject()["as"].toString(), QString("titrant, neat"));
+            QVERIFY(i.toObject()["volume_ml"].toDouble() > 0 && i.toObject()["mass_g"].toDouble() > 0);
+        }
 }
 
 void TestCli::reagentsListsEveryRequiredId() {

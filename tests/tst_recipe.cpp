@@ -2,6 +2,7 @@
 // through solve(), warnings and errors.
 #include "chem/error.h"
 #include "chem/recipe.h"
+#include "chem/recipe_roles.h"
 #include "chem/units.h"
 #include "chem/water.h"
 #include "core/chem_json.h"
@@ -13,6 +14,7 @@
 #include <QtTest>
 
 #include <cmath>
+#include <map>
 
 using phaseplan::testing::shipped_data;
 
@@ -50,6 +52,18 @@ private slots:
     void unreachableTargetIsAnError_data();
     void unreachableTargetIsAnError();
     void cautionsDeferToSdsAndLocalRules();
+    void weakAcidTitrationsMatchHandCalculation_data();
+    void weakAcidTitrationsMatchHandCalculation();
+    void neatTitrantVolumeFromAssayAndDensity();
+    void basisSaysWhatIsHeldAtC();
+    void basisTextAndTotalsForTheScreen();
+    void titrantFitsTheWeighedReagent();
+    void fittingTitrantsMovePhMonotonically();
+    void pickersOfferOnlyFormsThatFit();
+    void routeChangeNeverSwapsSilently();
+    void routeChangeOverEveryPairKeepsTheSystem();
+    void defaultNameFollowsTheInputs_data();
+    void defaultNameFollowsTheInputs();
 };
 
 void TestRecipe::roundTripLandsOnTarget_data() {
@@ -91,6 +105,42 @@ void TestRecipe::roundTripLandsOnTarget_data() {
         << titrate(2.5, "sodium-dihydrogen-phosphate", "phosphoric-acid", 1.0, 0.02);
     QTest::newRow("ammonium formate with formic acid pH 3.0")
         << titrate(3.0, "ammonium-formate", "formic-acid", 1.0, 0.01);
+    auto basis = [](QJsonObject o, const char* b) {
+        o["concentration_basis"] = b;
+        return o;
+    };
+    auto neat = [](QJsonObject o) {
+        o.remove("titrant_mol_per_l");
+        o["titrant_form"] = "neat";
+        return o;
+    };
+    QTest::newRow("ammonium formate + neat formic acid pH 3.0, salt basis")
+        << neat(titrate(3.0, "ammonium-formate", "formic-acid", 1.0, 0.01));
+    QTest::newRow("ammonium formate + neat formic acid pH 3.0, total basis")
+        << basis(neat(titrate(3.0, "ammonium-formate", "formic-acid", 1.0, 0.01)), "total");
+    QTest::newRow("ammonium acetate + neat acetic acid pH 4.75")
+        << neat(titrate(4.75, "ammonium-acetate", "acetic-acid", 1.0, 0.01));
+    QTest::newRow("ammonium bicarbonate + neat ammonia pH 10.0 at 20 C")
+        << neat(titrate(10.0, "ammonium-bicarbonate", "ammonia", 1.0, 0.01, 20));
+    QTest::newRow("ammonium formate + neat TFA pH 2.7")
+        << neat(titrate(2.7, "ammonium-formate", "trifluoroacetic-acid", 1.0, 0.005));
+    QTest::newRow("KH2PO4 + neat phosphoric acid pH 2.5, total basis")
+        << basis(neat(titrate(2.5, "potassium-dihydrogen-phosphate", "phosphoric-acid", 1.0, 0.02)), "total");
+    QTest::newRow("sodium tetraborate with HCl pH 9.0, total basis")
+        << basis(titrate(9.0, "sodium-tetraborate-decahydrate", "hydrochloric-acid", 1.0, 0.02), "total");
+    QTest::newRow("mix salt basis: ammonium formate + formic acid pH 3.2")
+        << basis(mix(3.2, "formic-acid", "ammonium-formate", 0.01), "salt");
+    QTest::newRow("mix salt basis: ammonium chloride + ammonia pH 9.0")
+        << basis(mix(9.0, "ammonium-chloride", "ammonia", 0.02), "salt");
+    QJsonObject salt_ionic = basis(neat(titrate(3.5, "ammonium-formate", "formic-acid", 1.0, 0.0)), "salt");
+    salt_ionic.remove("concentration_mol_per_l");
+    salt_ionic["ionic_strength_mol_per_l"] = 0.02;
+    QTest::newRow("salt basis at I = 0.02") << salt_ionic;
+    QTest::newRow("stocks salt basis: tris hydrochloride + tris pH 7.8")
+        << QJsonObject{{"target_ph", 7.8}, {"volume_ml", 500}, {"route", "stocks"},
+                       {"acid", "tris-hydrochloride"}, {"base", "tris"}, {"concentration_basis", "salt"},
+                       {"acid_stock_mol_per_l", 1.0}, {"base_stock_mol_per_l", 1.0},
+                       {"concentration_mol_per_l", 0.05}};
     QTest::newRow("stocks phosphate pH 7.4")
         << QJsonObject{{"target_ph", 7.4}, {"volume_ml", 1000}, {"route", "stocks"},
                        {"acid", "sodium-dihydrogen-phosphate"}, {"base", "disodium-hydrogen-phosphate"},
@@ -251,6 +301,23 @@ void TestRecipe::unreachableTargetIsAnError_data() {
         << QJsonObject{{"target_ph", 5.0}, {"route", "mix"}, {"acid", "acetic-acid"},
                        {"base", "disodium-hydrogen-phosphate"}, {"concentration_mol_per_l", 0.02}}
         << "base";
+    QTest::newRow("titrant of another system")
+        << QJsonObject{{"target_ph", 3.0}, {"route", "titrate"}, {"weigh", "ammonium-formate"},
+                       {"titrant", "acetic-acid"}, {"titrant_mol_per_l", 1.0}, {"concentration_mol_per_l", 0.01}}
+        << "titrant";
+    QTest::newRow("neat solid titrant")
+        << QJsonObject{{"target_ph", 8.0}, {"route", "titrate"}, {"weigh", "tris"}, {"titrant", "sodium-hydroxide"},
+                       {"titrant_form", "neat"}, {"concentration_mol_per_l", 0.05}}
+        << "titrant_form";
+    QTest::newRow("salt basis with two salts")
+        << QJsonObject{{"target_ph", 7.0}, {"route", "mix"}, {"acid", "sodium-dihydrogen-phosphate"},
+                       {"base", "disodium-hydrogen-phosphate"}, {"concentration_basis", "salt"},
+                       {"concentration_mol_per_l", 0.02}}
+        << "concentration_basis";
+    QTest::newRow("salt basis: partner cannot reach")
+        << QJsonObject{{"target_ph", 8.0}, {"route", "mix"}, {"acid", "formic-acid"}, {"base", "ammonium-formate"},
+                       {"concentration_basis", "salt"}, {"concentration_mol_per_l", 0.01}}
+        << "target_ph";
     QTest::newRow("both concentration and ionic strength")
         << QJsonObject{{"target_ph", 5.0}, {"route", "mix"}, {"acid", "acetic-acid"}, {"base", "sodium-acetate"},
                        {"concentration_mol_per_l", 0.02}, {"ionic_strength_mol_per_l", 0.02}}
@@ -282,6 +349,393 @@ void TestRecipe::cautionsDeferToSdsAndLocalRules() {
     QString everything = all;
     for (const auto& s : out["steps"].toArray()) everything += s.toString();
     QVERIFY(!everything.contains(QRegularExpression("\\bsafe\\b", QRegularExpression::CaseInsensitiveOption)));
+}
+
+// ---- concentration basis, titrants, pickers, route changes, default names ----------------------
+
+void TestRecipe::weakAcidTitrationsMatchHandCalculation_data() {
+    // Each row: the salt weighed at 10 mmol/L (salt basis), the titrant added as supplied, the
+    // amount of titrant a hand calculation gives (mol/L of final solution), 25 °C.
+    //
+    // Hand calculations: charge balance with Davies activity coefficients,
+    // log10 γ(z) = −A z² (√I/(1+√I) − 0.3 I), A = 0.509 (Robinson & Stokes, Electrolyte Solutions,
+    // 1959, from memory); pKw 13.995 (Harned & Robinson 1940, from memory); iterated on I until it
+    // no longer changes in the fourth figure. pKa values from Goldberg, Kishore & Lennen, J. Phys.
+    // Chem. Ref. Data 31 (2002) 231 (from memory): formic acid 3.745, acetic acid 4.756,
+    // ammonium 9.245, carbonic acid 6.351 and 10.329. The library's formate pKa is 3.75 (CRC
+    // Handbook, from memory); the 0.005 difference moves the pH by under 0.006, inside the 0.01
+    // checked below.
+    QTest::addColumn<QJsonObject>("request");
+    QTest::addColumn<QString>("held");
+    QTest::addColumn<QString>("titrant");
+    QTest::addColumn<double>("hand_mol_per_l");
+    auto row = [](double ph, const char* weigh, const char* titrant) {
+        return QJsonObject{{"target_ph", ph}, {"temperature_c", 25}, {"volume_ml", 1000}, {"route", "titrate"},
+                           {"weigh", weigh}, {"titrant", titrant}, {"titrant_form", "neat"},
+                           {"concentration_basis", "salt"}, {"concentration_mol_per_l", 0.01}};
+    };
+    // 10 mM ammonium formate + formic acid to pH 3.00.
+    //   [NH4+] + [H+] = [HCOO−] + [OH−]; at pH 3 [NH3]/[NH4+] = 10^(3 − 9.245): [NH4+] = 0.0100.
+    //   I ≈ 0.01111: √I = 0.10542, log10 γ1 = −0.509·(0.10542/1.10542 − 0.00333) = −0.04685,
+    //   γ1 = 0.8977. [H+] = 10^−3/0.8977 = 0.001114; [OH−] ≈ 1e−11.
+    //   [HCOO−] = 0.0100 + 0.001114 = 0.011114 (I = ½(0.0100 + 0.001114 + 0.011114) = 0.011114).
+    //   [HCOO−]/[HCOOH] = Ka/(a_H γ1) = 10^−3.745/(10^−3 · 0.8977) = 0.2004;
+    //   [HCOOH] = 0.011114/0.2004 = 0.05547; formate in all 0.06658; formic acid added
+    //   0.06658 − 0.0100 = 0.05658 mol/L.
+    QTest::newRow("ammonium formate + formic acid pH 3.00")
+        << row(3.00, "ammonium-formate", "formic-acid") << "ammonium-formate" << "formic-acid" << 0.05658;
+    // 10 mM ammonium acetate + acetic acid to pH 4.75.
+    //   [NH4+] = 0.0100 (NH3 fraction 3e−5); I ≈ 0.01002: log10 γ1 = −0.04478, γ1 = 0.9020.
+    //   [H+] = 10^−4.75/0.9020 = 1.971e−5; [CH3COO−] = 0.0100 + 0.0000197 = 0.010020.
+    //   [CH3COO−]/[CH3COOH] = 10^−4.756/(10^−4.75 · 0.9020) = 1.0934;
+    //   [CH3COOH] = 0.010020/1.0934 = 0.009164; acetate in all 0.019184; acetic acid added
+    //   0.009184 mol/L.
+    QTest::newRow("ammonium acetate + acetic acid pH 4.75")
+        << row(4.75, "ammonium-acetate", "acetic-acid") << "ammonium-acetate" << "acetic-acid" << 0.009184;
+    // 10 mM ammonium hydrogen carbonate + ammonia solution to pH 9.50.
+    //   I ≈ 0.01351: log10 γ1 = −0.05094, γ1 = 0.8893, γ2 = γ1⁴ = 0.6255.
+    //   Carbonate: [HCO3−]/[H2CO3] = 10^−6.351/(a_H γ1) = 1585;
+    //   [CO3−2]/[HCO3−] = 10^−10.329 γ1/(a_H γ2) = 0.2108 → fractions HCO3− 0.8255, CO3−2 0.1740.
+    //   [NH4+] = 0.0100·(0.8255 + 2·0.1740) + [OH−] − [H+] = 0.011735 + 3.60e−5 − 3.6e−10 = 0.011771.
+    //   [NH3]/[NH4+] = 10^−9.245 γ1/a_H = 1.5998 → ammonia in all 0.030601; added 0.020601 mol/L.
+    //   I = ½([NH4+] + [HCO3−] + 4[CO3−2] + [OH−]) = 0.01351.
+    QTest::newRow("ammonium hydrogen carbonate + ammonia pH 9.50")
+        << row(9.50, "ammonium-bicarbonate", "ammonia") << "ammonium-bicarbonate" << "ammonia" << 0.020601;
+    // The same to pH 10.00: I ≈ 0.01834, γ1 = 0.8752, γ2 = 0.5866; HCO3− 0.5884, CO3−2 0.4115;
+    //   [NH4+] = 0.0100·(0.5884 + 0.8230) + 1.156e−4 = 0.014230; [NH3]/[NH4+] = 4.9783;
+    //   ammonia in all 0.085070; added 0.075070 mol/L.
+    QTest::newRow("ammonium hydrogen carbonate + ammonia pH 10.00")
+        << row(10.00, "ammonium-bicarbonate", "ammonia") << "ammonium-bicarbonate" << "ammonia" << 0.075070;
+}
+
+void TestRecipe::weakAcidTitrationsMatchHandCalculation() {
+    QFETCH(QJsonObject, request);
+    QFETCH(QString, held);
+    QFETCH(QString, titrant);
+    QFETCH(double, hand_mol_per_l);
+    const QJsonObject out = recipe(request);
+    const double designed = item(out, titrant)["mol_per_l"].toDouble();
+    QCOMPARE(item(out, held)["mol_per_l"].toDouble(), 0.01);
+    // The hand calculation's mixture, solved by the program, lands within 0.01 pH of the target,
+    // and the designed amount is within 2 % of the hand amount (a 0.005 pKa difference is 1.2 %).
+    const auto solved = chem::solve(lib(), {{&lib().reagent(held.toStdString()), 0.01},
+                                            {&lib().reagent(titrant.toStdString()), hand_mol_per_l}}, 25);
+    const double target = request["target_ph"].toDouble();
+    QVERIFY2(std::abs(solved.ph - target) <= 0.01, qPrintable(QString::number(solved.ph, 'f', 4)));
+    QVERIFY2(std::abs(designed / hand_mol_per_l - 1) < 0.02, qPrintable(QString::number(designed, 'g', 6)));
+    QVERIFY(std::abs(out["ph"].toDouble() - target) < 1e-4);
+}
+
+void TestRecipe::neatTitrantVolumeFromAssayAndDensity() {
+    // Ammonia solution as supplied: volume = n · V · M / (assay · ρ), mass = volume · ρ, with
+    // M(NH3) = 17.0305 g/mol (python3-periodictable) and the library's 25 % w/w, 0.907 g/mL.
+    const QJsonObject out = recipe({{"target_ph", 9.5}, {"volume_ml", 1000}, {"route", "titrate"},
+                                    {"weigh", "ammonium-bicarbonate"}, {"titrant", "ammonia"},
+                                    {"titrant_form", "neat"}, {"concentration_mol_per_l", 0.01}});
+    const QJsonObject t = item(out, "ammonia");
+    const chem::Reagent& r = lib().reagent("ammonia");
+    QCOMPARE(t["as"].toString(), QString("titrant, neat"));
+    const double n_mol = t["mol_per_l"].toDouble() * 1.0;
+    const double ml = n_mol * 17.0305 / (r.assay_fraction * r.density_g_per_ml);
+    QVERIFY2(std::abs(t["volume_ml"].toDouble() - ml) < 1e-4 * ml, qPrintable(QString::number(t["volume_ml"].toDouble())));
+    QVERIFY(std::abs(t["mass_g"].toDouble() - ml * r.density_g_per_ml) < 1e-4 * ml);
+    // About 1.55 mL for the hand calculation's 0.0206 mol/L (see weakAcidTitrations…).
+    QVERIFY(std::abs(t["volume_ml"].toDouble() - 1.547) < 0.03);
+    QCOMPARE(out["titrant_form"].toString(), QString("neat"));
+    bool says_neat = false;
+    for (const auto& st : out["steps"].toArray()) says_neat |= st.toString().contains("as supplied (neat)");
+    QVERIFY(says_neat);
+}
+
+void TestRecipe::basisSaysWhatIsHeldAtC() {
+    // Formic acid + ammonium formate at pH 3.0, 10 mmol/L: the total basis holds the formate
+    // at 10 mM (ammonium well under it); the salt basis holds ammonium formate at 10 mM (formate
+    // far over it). Same pH, different buffers.
+    auto totals = [](const QJsonObject& out) {
+        std::map<QString, double> m;
+        for (const auto& t : out["totals"].toArray()) m[t.toObject()["family"].toString()] = t.toObject()["mol_per_l"].toDouble();
+        return m;
+    };
+    QJsonObject req{{"target_ph", 3.0}, {"route", "mix"}, {"acid", "formic-acid"}, {"base", "ammonium-formate"},
+                    {"concentration_mol_per_l", 0.01}};
+    const auto total = totals(recipe(req));
+    QVERIFY(std::abs(total.at("formate") - 0.01) < 1e-12);
+    QVERIFY(total.at("ammonium") < 0.002);
+    req["concentration_basis"] = "salt";
+    const auto salt = totals(recipe(req));
+    QVERIFY(std::abs(salt.at("ammonium") - 0.01) < 1e-12);
+    QVERIFY(salt.at("formate") > 0.06);
+    // The titrate route on the total basis with formic acid as the titrant is the same solution
+    // as the mix on the total basis (invariant: the basis, not the route, fixes the composition).
+    const QJsonObject titrated = recipe({{"target_ph", 3.0}, {"route", "titrate"}, {"weigh", "ammonium-formate"},
+                                         {"titrant", "formic-acid"}, {"titrant_form", "neat"},
+                                         {"concentration_basis", "total"}, {"concentration_mol_per_l", 0.01}});
+    const auto t = totals(titrated);
+    QVERIFY(std::abs(t.at("formate") - 0.01) < 1e-12);
+    QVERIFY(std::abs(t.at("ammonium") / total.at("ammonium") - 1) < 1e-6);
+    // Without a basis, each route keeps its old meaning: mix total, titrate the weighed reagent.
+    QCOMPARE(recipe({{"target_ph", 3.0}, {"route", "mix"}, {"acid", "formic-acid"}, {"base", "ammonium-formate"},
+                     {"concentration_mol_per_l", 0.01}})["concentration_basis"].toString(), QString("total"));
+    const QJsonObject old_titrate = recipe({{"target_ph", 8.0}, {"route", "titrate"}, {"weigh", "tris"},
+                                            {"titrant", "hydrochloric-acid"}, {"titrant_mol_per_l", 1.0},
+                                            {"concentration_mol_per_l", 0.05}});
+    QCOMPARE(old_titrate["concentration_basis"].toString(), QString("salt"));
+    QCOMPARE(item(old_titrate, "tris")["mol_per_l"].toDouble(), 0.05);
+    // Borax on the total basis counts boron: 20 mM borate is 5 mM Na2B4O7·10H2O (4 B per unit).
+    const QJsonObject borax = recipe({{"target_ph", 9.0}, {"route", "titrate"}, {"weigh", "sodium-tetraborate-decahydrate"},
+                                      {"titrant", "hydrochloric-acid"}, {"titrant_mol_per_l", 1.0},
+                                      {"concentration_basis", "total"}, {"concentration_mol_per_l", 0.02}});
+    QVERIFY(std::abs(item(borax, "sodium-tetraborate-decahydrate")["mol_per_l"].toDouble() - 0.005) < 1e-12);
+}
+
+void TestRecipe::basisTextAndTotalsForTheScreen() {
+    const QJsonObject phosphate = recipe(phaseplan::testing::read_json(SOURCE_DIR "/data/demo/buffer-phosphate-ph2.5.json"));
+    QCOMPARE(phosphate["basis"].toObject()["text"].toString(), QString("20 mmol/L total phosphate"));
+    const QJsonObject lcms = recipe({{"target_ph", 3.0}, {"route", "titrate"}, {"weigh", "ammonium-formate"},
+                                     {"titrant", "formic-acid"}, {"titrant_form", "neat"},
+                                     {"concentration_mol_per_l", 0.01}});
+    const QJsonObject b = lcms["basis"].toObject();
+    // Formate in all: 67.2 mmol/L with the library's pKa 3.75 (66.6 with 3.745, see the hand
+    // calculation above).
+    QCOMPARE(b["text"].toString(),
+             QString("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid: formate 67.2 mmol/L in all"));
+    QCOMPARE(b["held_reagent"].toString(), QString("ammonium-formate"));
+    QCOMPARE(b["adjusting_reagent"].toString(), QString("formic-acid"));
+    QCOMPARE(b["system"].toString(), QString("formate"));
+    const QJsonArray totals = lcms["totals"].toArray();
+    QCOMPARE(totals.size(), 2);
+    QCOMPARE(totals[0].toObject()["family"].toString(), QString("formate")); // the buffer system first
+    QCOMPARE(totals[1].toObject()["name"].toString(), QString("ammonium"));
+    // Invariant: the totals are the composition's, system by system and ion by ion.
+    const QJsonObject na = recipe({{"target_ph", 4.8}, {"route", "mix"}, {"acid", "acetic-acid"},
+                                   {"base", "sodium-acetate-trihydrate"}, {"concentration_mol_per_l", 0.05}});
+    double sodium = 0, acetate = 0;
+    for (const auto& t : na["totals"].toArray()) {
+        if (t.toObject()["family"].toString() == "Na+") {
+            sodium = t.toObject()["mol_per_l"].toDouble();
+            QCOMPARE(t.toObject()["name"].toString(), QString("sodium"));
+            QCOMPARE(t.toObject()["kind"].toString(), QString("ion"));
+        }
+        if (t.toObject()["family"].toString() == "acetate") acetate = t.toObject()["mol_per_l"].toDouble();
+    }
+    QVERIFY(std::abs(sodium - item(na, "sodium-acetate-trihydrate")["mol_per_l"].toDouble()) < 1e-15);
+    QVERIFY(std::abs(acetate - 0.05) < 1e-12);
+    const QJsonObject tris = recipe({{"target_ph", 8.0}, {"route", "titrate"}, {"weigh", "tris"},
+                                     {"titrant", "hydrochloric-acid"}, {"titrant_mol_per_l", 1.0},
+                                     {"concentration_basis", "total"}, {"concentration_mol_per_l", 0.05}});
+    QCOMPARE(tris["basis"].toObject()["text"].toString(),
+             QString("50 mmol/L total tris: tris(hydroxymethyl)aminomethane brought to pH 8.00 with hydrochloric acid"));
+}
+
+void TestRecipe::titrantFitsTheWeighedReagent() {
+    auto fit = [](const char* w, const char* t) { return chem::titrant_fit(lib(), lib().reagent(w), lib().reagent(t)); };
+    auto f = fit("ammonium-formate", "formic-acid");
+    QVERIFY(f && f->direction == chem::PhDirection::lowers && f->shared_system == "formate");
+    f = fit("ammonium-formate", "ammonia");
+    QVERIFY(f && f->direction == chem::PhDirection::raises && f->shared_system == "ammonium");
+    f = fit("ammonium-formate", "trifluoroacetic-acid"); // pKa 0.52: strong for titration
+    QVERIFY(f && f->direction == chem::PhDirection::lowers && f->shared_system.empty());
+    f = fit("potassium-dihydrogen-phosphate", "phosphoric-acid");
+    QVERIFY(f && f->direction == chem::PhDirection::lowers);
+    f = fit("potassium-dihydrogen-phosphate", "potassium-hydroxide");
+    QVERIFY(f && f->direction == chem::PhDirection::raises && f->shared_system.empty());
+    QVERIFY(!fit("ammonium-formate", "acetic-acid"));     // another system, weak
+    QVERIFY(!fit("ammonium-formate", "sodium-formate"));  // the same form of formate
+    QVERIFY(!fit("ammonium-formate", "ammonium-formate")); // itself
+    QVERIFY(!fit("tris", "sodium-chloride"));              // neither acid nor base
+}
+
+void TestRecipe::fittingTitrantsMovePhMonotonically() {
+    // Property behind the titrant search: for every titrant that fits, the pH moves one way only
+    // as more is added (checked on a geometric grid 1e-5 to 1 mol/L, 10 mM weighed, 25 °C).
+    for (const char* weighed : {"ammonium-formate", "ammonium-acetate", "ammonium-bicarbonate",
+                                "potassium-dihydrogen-phosphate", "tris", "sodium-tetraborate-decahydrate",
+                                "citric-acid", "glycine"}) {
+        const chem::Reagent& w = lib().reagent(weighed);
+        for (const chem::Reagent& t : lib().reagents()) {
+            const auto fit = chem::titrant_fit(lib(), w, t);
+            if (!fit) continue;
+            double last = chem::solve(lib(), {{&w, 0.01}}, 25).ph;
+            for (double n = 1e-5; n <= 1.0; n *= 1.5) {
+                const double ph = chem::solve(lib(), {{&w, 0.01}, {&t, n}}, 25).ph;
+                const bool ok = fit->direction == chem::PhDirection::raises ? ph >= last - 1e-9 : ph <= last + 1e-9;
+                QVERIFY2(ok, qPrintable(QString("%1 + %2 at %3 mol/L: pH %4 after %5")
+                                            .arg(weighed, QString::fromStdString(t.id)).arg(n).arg(ph).arg(last)));
+                last = ph;
+            }
+        }
+    }
+}
+
+void TestRecipe::pickersOfferOnlyFormsThatFit() {
+    auto ids = [](const std::vector<chem::RoleChoice>& l) {
+        QStringList out;
+        for (const auto& c : l) out << QString::fromStdString(c.reagent);
+        return out;
+    };
+    const auto mix = chem::reagent_choices(lib(), "formate", chem::Route::mix);
+    QCOMPARE(ids(mix.acid_forms), QStringList{"formic-acid"});
+    QVERIFY(ids(mix.base_forms).contains("ammonium-formate") && ids(mix.base_forms).contains("sodium-formate"));
+    QVERIFY(!ids(mix.base_forms).contains("formic-acid"));
+    QCOMPARE(ids(mix.salts), (QStringList{"ammonium-formate", "sodium-formate"}));
+    QVERIFY(mix.weighable.empty() && mix.titrants.empty());
+    for (const auto& c : mix.base_forms) QVERIFY(!c.formula.empty());
+    // Phosphate with KH2PO4 as the acid: only the more basic forms are offered as its base.
+    const auto phos = chem::reagent_choices(lib(), "phosphate", chem::Route::mix, "potassium-dihydrogen-phosphate");
+    QVERIFY(ids(phos.base_forms).contains("dipotassium-hydrogen-phosphate"));
+    QVERIFY(!ids(phos.base_forms).contains("phosphoric-acid"));
+    QVERIFY(!ids(phos.base_forms).contains("sodium-dihydrogen-phosphate"));
+    QVERIFY(!ids(phos.acid_forms).contains("trisodium-phosphate")); // the most basic form has no base
+    // Titrate: every form may be weighed; titrants fit the weighed reagent, with their direction,
+    // the system's own forms first.
+    const auto tit = chem::reagent_choices(lib(), "formate", chem::Route::titrate, "", "ammonium-formate");
+    QVERIFY(ids(tit.weighable).contains("formic-acid") && ids(tit.weighable).contains("ammonium-formate"));
+    const QStringList t = ids(tit.titrants);
+    for (const char* id : {"formic-acid", "ammonia", "trifluoroacetic-acid", "hydrochloric-acid", "sodium-hydroxide"})
+        QVERIFY2(t.contains(id), id);
+    QVERIFY(!t.contains("acetic-acid") && !t.contains("sodium-formate") && !t.contains("ammonium-formate"));
+    QCOMPARE(t.front(), QString("formic-acid"));
+    for (const auto& c : tit.titrants) {
+        QVERIFY(c.direction.has_value());
+        QCOMPARE(c.strong, c.reagent == "trifluoroacetic-acid" || c.reagent == "hydrochloric-acid" ||
+                               c.reagent == "sodium-hydroxide" || c.reagent == "potassium-hydroxide");
+        if (c.reagent == "ammonia") QVERIFY(*c.direction == chem::PhDirection::raises);
+        if (c.reagent == "formic-acid") QVERIFY(*c.direction == chem::PhDirection::lowers);
+    }
+    // A half-typed screen state gives empty lists, not an error.
+    QVERIFY(chem::reagent_choices(lib(), "formiate", chem::Route::mix).acid_forms.empty());
+    QVERIFY(chem::reagent_choices(lib(), "formate", chem::Route::titrate, "", "nothing").titrants.empty());
+    // And the JSON the app's models read.
+    const QJsonObject j = phaseplan::role_choices_to_json(tit);
+    QCOMPARE(j["titrants"].toArray()[0].toObject()["direction"].toString(), QString("lowers"));
+    QCOMPARE(j["titrants"].toArray()[0].toObject()["formula"].toString(), QString("HCOOH"));
+}
+
+void TestRecipe::routeChangeNeverSwapsSilently() {
+    using chem::Route;
+    chem::RouteReagents mix;
+    mix.acid = "formic-acid";
+    mix.base = "ammonium-formate";
+    // Mix → titrate: weigh the salt, titrate with its own acid, as supplied.
+    auto ch = chem::map_reagents_to_route(lib(), "formate", Route::mix, Route::titrate, mix);
+    QCOMPARE(ch.reagents.weigh, std::string("ammonium-formate"));
+    QCOMPARE(ch.reagents.titrant, std::string("formic-acid"));
+    QVERIFY(ch.reagents.titrant_form == chem::TitrantForm::neat);
+    QVERIFY(ch.complete);
+    QVERIFY(ch.reagents.basis == chem::ConcentrationBasis::total); // the user's basis stays
+    // …and back.
+    auto back = chem::map_reagents_to_route(lib(), "formate", Route::titrate, Route::mix, ch.reagents);
+    QCOMPARE(back.reagents.acid, std::string("formic-acid"));
+    QCOMPARE(back.reagents.base, std::string("ammonium-formate"));
+    QVERIFY(back.complete && back.notes.empty());
+    // Titrate KH2PO4 with KOH → mix: KOH is not a form of phosphate; its potassium form is used,
+    // and the note says so.
+    chem::RouteReagents tit;
+    tit.weigh = "potassium-dihydrogen-phosphate";
+    tit.titrant = "potassium-hydroxide";
+    ch = chem::map_reagents_to_route(lib(), "phosphate", Route::titrate, Route::mix, tit);
+    QCOMPARE(ch.reagents.acid, std::string("potassium-dihydrogen-phosphate"));
+    QCOMPARE(ch.reagents.base, std::string("dipotassium-hydrogen-phosphate"));
+    QCOMPARE(ch.notes.size(), size_t(1));
+    QCOMPARE(ch.notes[0].field, std::string("base"));
+    // Tris + HCl → stocks: Tris hydrochloride (its chloride form) as the acid.
+    tit.weigh = "tris";
+    tit.titrant = "hydrochloric-acid";
+    ch = chem::map_reagents_to_route(lib(), "tris", Route::titrate, Route::stocks, tit);
+    QCOMPARE(ch.reagents.acid, std::string("tris-hydrochloride"));
+    QCOMPARE(ch.reagents.base, std::string("tris"));
+    // Glycine + NaOH → mix: the library has no glycinate; nothing is substituted, and the note
+    // says nothing fits.
+    tit.weigh = "glycine";
+    tit.titrant = "sodium-hydroxide";
+    ch = chem::map_reagents_to_route(lib(), "glycine", Route::titrate, Route::mix, tit);
+    QCOMPARE(ch.reagents.acid, std::string("glycine"));
+    QVERIFY(ch.reagents.base.empty());
+    QVERIFY(!ch.complete);
+    QCOMPARE(ch.notes.size(), size_t(1));
+    QVERIFY(ch.notes[0].message.find("Nothing in the library") != std::string::npos);
+    // Two salts → titrate: the acid salt is weighed and the other stays as the titrant.
+    mix.acid = "sodium-dihydrogen-phosphate";
+    mix.base = "disodium-hydrogen-phosphate";
+    mix.basis = chem::ConcentrationBasis::salt;
+    ch = chem::map_reagents_to_route(lib(), "phosphate", Route::mix, Route::titrate, mix);
+    QCOMPARE(ch.reagents.weigh, std::string("sodium-dihydrogen-phosphate"));
+    QCOMPARE(ch.reagents.titrant, std::string("disodium-hydrogen-phosphate"));
+    QVERIFY(ch.reagents.titrant_form == chem::TitrantForm::solution);
+    // …and the salt basis cannot hold one of two salts in the stocks route: basis total, with a note.
+    ch = chem::map_reagents_to_route(lib(), "phosphate", Route::mix, Route::stocks, mix);
+    QVERIFY(ch.reagents.basis == chem::ConcentrationBasis::total);
+    QCOMPARE(ch.notes.at(0).field, std::string("concentration_basis"));
+    const QJsonObject j = phaseplan::route_change_to_json(ch);
+    QCOMPARE(j["concentration_basis"].toString(), QString("total"));
+    QCOMPARE(j["notes"].toArray()[0].toObject()["field"].toString(), QString("concentration_basis"));
+}
+
+void TestRecipe::routeChangeOverEveryPairKeepsTheSystem() {
+    // Property: for every system and every conjugate pair of its forms, mix → titrate → mix keeps
+    // the pair, and the titrant is always one of the two (never a reagent the user did not pick).
+    for (const chem::AcidBaseSystem& sys : lib().systems()) {
+        const auto roles = chem::reagent_choices(lib(), sys.id, chem::Route::mix);
+        for (const auto& a : roles.acid_forms)
+            for (const auto& b : chem::reagent_choices(lib(), sys.id, chem::Route::mix, a.reagent).base_forms) {
+                chem::RouteReagents mix;
+                mix.acid = a.reagent;
+                mix.base = b.reagent;
+                const auto t = chem::map_reagents_to_route(lib(), sys.id, chem::Route::mix, chem::Route::titrate, mix);
+                const QString what = QString::fromStdString(a.reagent + " + " + b.reagent);
+                QVERIFY2(t.complete, qPrintable(what));
+                QVERIFY2((t.reagents.weigh == a.reagent && t.reagents.titrant == b.reagent) ||
+                             (t.reagents.weigh == b.reagent && t.reagents.titrant == a.reagent),
+                         qPrintable(what));
+                const auto m = chem::map_reagents_to_route(lib(), sys.id, chem::Route::titrate, chem::Route::mix, t.reagents);
+                QVERIFY2(m.reagents.acid == a.reagent && m.reagents.base == b.reagent, qPrintable(what));
+            }
+    }
+}
+
+void TestRecipe::defaultNameFollowsTheInputs_data() {
+    QTest::addColumn<QJsonObject>("request");
+    QTest::addColumn<QString>("name");
+    QTest::newRow("demo phosphate")
+        << phaseplan::testing::read_json(SOURCE_DIR "/data/demo/buffer-phosphate-ph2.5.json")
+        << "20 mM sodium phosphate pH 2.5";
+    QTest::newRow("LC-MS salt basis")
+        << QJsonObject{{"target_ph", 3.0}, {"route", "titrate"}, {"weigh", "ammonium-formate"},
+                       {"titrant", "formic-acid"}, {"titrant_form", "neat"}, {"concentration_mol_per_l", 0.01}}
+        << "10 mM ammonium formate pH 3.0 (salt basis)";
+    QTest::newRow("same pair, total basis")
+        << QJsonObject{{"target_ph", 3.0}, {"route", "mix"}, {"acid", "formic-acid"}, {"base", "ammonium-formate"},
+                       {"concentration_mol_per_l", 0.01}}
+        << "10 mM ammonium formate pH 3.0";
+    QTest::newRow("strong titrant: both bases agree")
+        << QJsonObject{{"target_ph", 8.05}, {"route", "titrate"}, {"weigh", "tris"}, {"titrant", "hydrochloric-acid"},
+                       {"titrant_mol_per_l", 1.0}, {"concentration_mol_per_l", 0.05}}
+        << "50 mM tris pH 8.05";
+    QTest::newRow("ionic strength target")
+        << QJsonObject{{"target_ph", 4.6}, {"route", "mix"}, {"acid", "acetic-acid"}, {"base", "sodium-acetate"},
+                       {"ionic_strength_mol_per_l", 0.05}}
+        << "Sodium acetate pH 4.6, I = 50 mM";
+    QTest::newRow("unknown reagent")
+        << QJsonObject{{"target_ph", 7.0}, {"route", "mix"}, {"acid", "vinegar"}, {"base", "sodium-acetate"},
+                       {"concentration_mol_per_l", 0.02}}
+        << "20 mM buffer pH 7.0";
+}
+
+void TestRecipe::defaultNameFollowsTheInputs() {
+    QFETCH(QJsonObject, request);
+    QFETCH(QString, name);
+    // Built without recipe_request_from_json where the ids are unknown: the name never throws.
+    chem::RecipeRequest req;
+    req.target_ph = request["target_ph"].toDouble();
+    const QString route = request["route"].toString();
+    req.route = route == "titrate" ? chem::Route::titrate : route == "stocks" ? chem::Route::stocks : chem::Route::mix;
+    req.acid = request["acid"].toString().toStdString();
+    req.base = request["base"].toString().toStdString();
+    req.weigh = request["weigh"].toString().toStdString();
+    req.titrant = request["titrant"].toString().toStdString();
+    if (request.contains("concentration_mol_per_l")) req.concentration_mol_per_l = request["concentration_mol_per_l"].toDouble();
+    if (request.contains("ionic_strength_mol_per_l")) req.ionic_strength_mol_per_l = request["ionic_strength_mol_per_l"].toDouble();
+    QCOMPARE(QString::fromStdString(chem::default_buffer_name(lib(), req)), name);
 }
 
 QTEST_GUILESS_MAIN(TestRecipe)

@@ -1,6 +1,7 @@
 #include "core/chem_json.h"
 
 #include "chem/error.h"
+#include "chem/recipe_roles.h"
 #include "core/json_util.h"
 
 #include <QJsonArray>
@@ -65,7 +66,8 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
                              {"target_ph", "temperature_c", "volume_ml", "route", "acid", "base",
                               "weigh", "titrant", "titrant_mol_per_l", "acid_stock_mol_per_l",
                               "base_stock_mol_per_l", "concentration_mol_per_l",
-                              "ionic_strength_mol_per_l", "purity_percent"},
+                              "ionic_strength_mol_per_l", "purity_percent", "concentration_basis",
+                              "titrant_form"},
                              parent);
     r.target_ph = json::require_number(doc, "target_ph", parent);
     r.temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
@@ -85,7 +87,17 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
     if (r.route == chem::Route::titrate) {
         r.weigh = reagent_id("weigh");
         r.titrant = reagent_id("titrant");
-        r.titrant_mol_per_l = json::require_number(doc, "titrant_mol_per_l", parent);
+        const std::string form = json::optional_string(doc, "titrant_form", parent).value_or("solution");
+        const auto titrant_form = chem::titrant_form_from_name(form);
+        if (!titrant_form)
+            throw chem::Error(json::path(parent, "titrant_form"),
+                              "\"" + form + "\" is not a titrant form (solution or neat)");
+        r.titrant_form = *titrant_form;
+        // A neat titrant has no molarity; one given anyway is refused by the designer, by name.
+        if (r.titrant_form == chem::TitrantForm::solution)
+            r.titrant_mol_per_l = json::require_number(doc, "titrant_mol_per_l", parent);
+        else
+            r.titrant_mol_per_l = json::optional_number(doc, "titrant_mol_per_l", parent).value_or(0.0);
     } else {
         r.acid = reagent_id("acid");
         r.base = reagent_id("base");
@@ -96,6 +108,12 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
     }
     r.concentration_mol_per_l = json::optional_number(doc, "concentration_mol_per_l", parent);
     r.ionic_strength_mol_per_l = json::optional_number(doc, "ionic_strength_mol_per_l", parent);
+    if (const auto basis = json::optional_string(doc, "concentration_basis", parent)) {
+        r.basis = chem::basis_from_name(*basis);
+        if (!r.basis)
+            throw chem::Error(json::path(parent, "concentration_basis"),
+                              "\"" + *basis + "\" is not a concentration basis (total or salt)");
+    }
     if (doc.contains("purity_percent")) {
         const QJsonObject p = json::require_object(doc, "purity_percent", parent);
         for (auto it = p.begin(); it != p.end(); ++it) {
@@ -136,7 +154,67 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
                     {"steps", steps},
                     {"cautions", cautions},
                     {"warnings", warnings_to_json(r.warnings)}};
+    out["concentration_basis"] = chem::basis_name(r.basis.basis);
+    QJsonObject basis{{"basis", chem::basis_name(r.basis.basis)},
+                      {"system", QString::fromStdString(r.basis.system)},
+                      {"concentration_mol_per_l", r.basis.concentration_mol_per_l},
+                      {"text", QString::fromStdString(r.basis.text)}};
+    if (!r.basis.held_reagent.empty()) basis["held_reagent"] = QString::fromStdString(r.basis.held_reagent);
+    if (!r.basis.adjusting_reagent.empty())
+        basis["adjusting_reagent"] = QString::fromStdString(r.basis.adjusting_reagent);
+    out["basis"] = basis;
+    QJsonArray totals;
+    for (const auto& f : r.totals)
+        totals.append(QJsonObject{{"family", QString::fromStdString(f.id)},
+                                  {"kind", f.kind == chem::FamilyTotal::Kind::system ? "system" : "ion"},
+                                  {"name", QString::fromStdString(f.name)},
+                                  {"mol_per_l", f.mol_per_l}});
+    out["totals"] = totals;
+    if (r.request.route == chem::Route::titrate)
+        out["titrant_form"] = chem::titrant_form_name(r.request.titrant_form);
     return out;
+}
+
+namespace {
+QJsonArray role_list(const std::vector<chem::RoleChoice>& list) {
+    QJsonArray a;
+    for (const auto& c : list) {
+        QJsonObject o{{"reagent", QString::fromStdString(c.reagent)},
+                      {"name", QString::fromStdString(c.name)},
+                      {"formula", QString::fromStdString(c.formula)},
+                      {"form", c.form == chem::PhysicalForm::liquid ? "liquid" : "solid"},
+                      {"protons_removed_per_unit", c.protons_removed_per_unit},
+                      {"salt", c.salt}};
+        if (c.direction) {
+            o["direction"] = chem::direction_name(*c.direction);
+            o["strong"] = c.strong;
+        }
+        a.append(o);
+    }
+    return a;
+}
+} // namespace
+
+QJsonObject role_choices_to_json(const chem::RoleChoices& c) {
+    return QJsonObject{{"acid_forms", role_list(c.acid_forms)}, {"base_forms", role_list(c.base_forms)},
+                       {"salts", role_list(c.salts)},           {"weighable", role_list(c.weighable)},
+                       {"titrants", role_list(c.titrants)}};
+}
+
+QJsonObject route_change_to_json(const chem::RouteChange& ch) {
+    const auto& r = ch.reagents;
+    QJsonArray notes;
+    for (const auto& n : ch.notes)
+        notes.append(QJsonObject{{"field", QString::fromStdString(n.field)},
+                                 {"message", QString::fromStdString(n.message)}});
+    return QJsonObject{{"acid", QString::fromStdString(r.acid)},
+                       {"base", QString::fromStdString(r.base)},
+                       {"weigh", QString::fromStdString(r.weigh)},
+                       {"titrant", QString::fromStdString(r.titrant)},
+                       {"titrant_form", chem::titrant_form_name(r.titrant_form)},
+                       {"concentration_basis", chem::basis_name(r.basis)},
+                       {"notes", notes},
+                       {"complete", ch.complete}};
 }
 
 } // namespace phaseplan

@@ -2,6 +2,7 @@
 // JSON <-> chem types for the command-line contract (field names are fixed: extend, rename nothing).
 #include "chem/equilibrium.h"
 #include "chem/recipe.h"
+#include "chem/recipe_roles.h"
 
 #include <QJsonObject>
 
@@ -22,5 +23,13 @@ QJsonObject speciation_to_json(const chem::Speciation& s);
 chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJsonObject& doc,
                                              const std::string& parent);
 QJsonObject recipe_to_json(const chem::Recipe& r);
+
+/// The pickers' lists as JSON, for the app's models: {"acid_forms": [{reagent, name, formula,
+/// form, protons_removed_per_unit, salt, direction?, strong?}], "base_forms", "salts",
+/// "weighable", "titrants"}.
+QJsonObject role_choices_to_json(const chem::RoleChoices& choices);
+/// A route change as JSON: {acid, base, weigh, titrant, titrant_form, concentration_basis,
+/// notes: [{field, message}], complete}.
+QJsonObject route_change_to_json(const chem::RouteChange& change);
 
 } // namespace phaseplan

@@ -2,6 +2,7 @@
 
 #include "chem/error.h"
 #include "chem/recipe.h"
+#include "chem/recipe_roles.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
@@ -40,16 +41,6 @@ const QString footer_note = QStringLiteral(
     "the finished solution depends on its concentrations. It does not replace the safety data "
     "sheets, local rules or licensed practice.");
 
-QString system_label(const chem::Library& lib, const std::string& reagent_id) {
-    const chem::Reagent* r = lib.find_reagent(reagent_id);
-    if (!r || r->systems.empty()) return {};
-    const chem::AcidBaseSystem* s = lib.find_system(r->systems.front().system);
-    if (!s) return {};
-    QString name = qs(s->name);
-    const int cut = name.indexOf(" (");
-    return cut > 0 ? name.left(cut) : name;
-}
-
 /// The formula of what is dissolved: a hydrate's water is just water once in solution.
 QString dissolved_formula(const chem::Reagent& r) {
     QString f = qs(r.formula);
@@ -61,19 +52,16 @@ QString dissolved_formula(const chem::Reagent& r) {
 QString recipe_title(const chem::Library& lib, const chem::Recipe& r, const QJsonObject& input) {
     if (input.value("name").isString() && !input.value("name").toString().trimmed().isEmpty())
         return input.value("name").toString().trimmed();
-    const auto& q = r.request;
-    QString sys = system_label(lib, q.route == chem::Route::titrate ? q.weigh : q.acid);
-    if (sys.isEmpty()) sys = QStringLiteral("Buffer");
-    QString t = sys + " buffer pH " + format_ph(q.target_ph);
-    if (q.concentration_mol_per_l) t += ", " + format_mmol_per_l(*q.concentration_mol_per_l);
-    else if (q.ionic_strength_mol_per_l) t += ", I = " + format_mmol_per_l(*q.ionic_strength_mol_per_l);
-    return t;
+    // The same default name the buffer screen shows until the user names the buffer.
+    return qs(chem::default_buffer_name(lib, r.request));
 }
 
 QString route_text(const chem::RecipeRequest& q) {
     switch (q.route) {
     case chem::Route::mix: return QStringLiteral("mix: %1 + %2").arg(qs(q.acid), qs(q.base));
     case chem::Route::titrate:
+        if (q.titrant_form == chem::TitrantForm::neat)
+            return QStringLiteral("titrate: weigh %1, adjust with %2 as supplied (neat)").arg(qs(q.weigh), qs(q.titrant));
         return QStringLiteral("titrate: weigh %1, adjust with %2 %3 mol/L")
             .arg(qs(q.weigh), qs(q.titrant), qs(chem::format_number(q.titrant_mol_per_l)));
     case chem::Route::stocks:
@@ -433,6 +421,7 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
         {"Route", route_text(req)},
         {req.concentration_mol_per_l ? "Buffer concentration" : "Ionic strength",
          format_mmol_per_l(req.concentration_mol_per_l ? *req.concentration_mol_per_l : *req.ionic_strength_mol_per_l)},
+        {"Concentration basis", qs(recipe.basis.text)},
     };
     d.blocks << heading("Plan") << fields_block(plan);
 

@@ -49,17 +49,32 @@ void BM_RecipeMixAtConcentration(benchmark::State& state) {
 }
 BENCHMARK(BM_RecipeMixAtConcentration)->Unit(benchmark::kMicrosecond);
 
-void BM_RecipeTitrate(benchmark::State& state) {
+chem::RecipeRequest titrate_request(double ph, const char* weigh, const char* titrant, double c) {
     chem::RecipeRequest r;
-    r.target_ph = 8.0;
+    r.target_ph = ph;
     r.route = chem::Route::titrate;
-    r.weigh = "tris";
-    r.titrant = "hydrochloric-acid";
+    r.weigh = weigh;
+    r.titrant = titrant;
+    r.concentration_mol_per_l = c;
+    return r;
+}
+
+void BM_RecipeTitrate(benchmark::State& state) {
+    auto r = titrate_request(8.0, "tris", "hydrochloric-acid", 0.05);
     r.titrant_mol_per_l = 1.0;
-    r.concentration_mol_per_l = 0.05;
     for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
 }
 BENCHMARK(BM_RecipeTitrate)->Unit(benchmark::kMicrosecond);
+
+void BM_RecipeTitrateNeatSalt(benchmark::State& state) {
+    // LC-MS: 10 mM ammonium formate brought to pH 3.0 with formic acid as supplied (searched up to
+    // 10 mol/L of titrant).
+    auto r = titrate_request(3.0, "ammonium-formate", "formic-acid", 0.01);
+    r.titrant_form = chem::TitrantForm::neat;
+    r.basis = chem::ConcentrationBasis::salt;
+    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
+}
+BENCHMARK(BM_RecipeTitrateNeatSalt)->Unit(benchmark::kMicrosecond);
 
 void BM_RecipeMixAtIonicStrength(benchmark::State& state) {
     auto req = mix_request();
