@@ -4,6 +4,7 @@
 #include "chem/units.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 
 namespace chem {
@@ -31,48 +32,62 @@ double bar_per_mpa_s_ml_min(const Column& c, double resistance) {
     return resistance * 1e-3 * (c.length_mm * 1e-3) * flow_si / (area_m2(c) * dp * dp) / 1e5;
 }
 
-/// The instrument's own pressure at `flow_ml_min` with an eluent of viscosity eta (laminar
-/// flow: ∝ F·η), from its reading with water at 25 °C.
-double system_bar(const Instrument& in, double flow_ml_min, double eta_mpa_s) {
+/// The instrument's own pressure in bar per mPa·s of eluent at `flow_ml_min` (laminar flow:
+/// ∝ F·η), from its reading with water at 25 °C.
+double system_bar_per_mpa_s(const Instrument& in, double flow_ml_min) {
     if (!in.system_pressure_bar)
         return 0;
-    return *in.system_pressure_bar * (flow_ml_min / in.system_flow_ml_min) *
-           (eta_mpa_s / water_viscosity_mpa_s(to_kelvin(25.0)));
+    return *in.system_pressure_bar * (flow_ml_min / in.system_flow_ml_min) /
+           water_viscosity_mpa_s(to_kelvin(25.0));
 }
 
-/// Cumulative integral over one period of a quantity sampled at n+1 equally spaced nodes, with
-/// the periodic extension: I(τ + k T) = k I(T) + I(τ).
-struct PeriodicIntegral {
-    double h = 0, period = 0;
-    const std::vector<double>* values = nullptr;
-    std::vector<double> prefix; // at the nodes
+/// The mixer's output sampled at n+1 equally spaced nodes over one injection (period T), with
+/// the cumulative integral of each quantity and the periodic extension I(τ + kT) = k I(T) + I(τ).
+/// Quantities: η, η·(1 − contraction) (the volume flow's share) and the organic fraction.
+struct MixerSamples {
+    static constexpr int channels = 3;
+    double h = 0, period = 0, inv_h = 0, inv_period = 0;
+    int n = 0;
+    std::array<std::vector<double>, channels> value, prefix;
 
-    void build(const std::vector<double>& v, double step) {
-        values = &v;
+    void init(int steps, double step) {
+        n = steps;
         h = step;
-        period = step * (v.size() - 1);
-        prefix.assign(v.size(), 0.0);
-        for (std::size_t j = 1; j < v.size(); ++j)
-            prefix[j] = prefix[j - 1] + 0.5 * h * (v[j - 1] + v[j]);
+        period = step * steps;
+        inv_h = 1.0 / h;
+        inv_period = 1.0 / period;
+        for (auto& v : value)
+            v.assign(n + 1, 0.0);
     }
-    double value_at(double tau) const { // periodic linear interpolation
-        tau -= std::floor(tau / period) * period;
-        const std::size_t n = values->size() - 1;
-        std::size_t j = std::min(static_cast<std::size_t>(tau / h), n - 1);
-        const double f = (tau - j * h) / h;
-        return (*values)[j] + f * ((*values)[j + 1] - (*values)[j]);
+    void integrate() {
+        for (int c = 0; c < channels; ++c) {
+            prefix[c].assign(n + 1, 0.0);
+            for (int j = 1; j <= n; ++j)
+                prefix[c][j] = prefix[c][j - 1] + 0.5 * h * (value[c][j - 1] + value[c][j]);
+        }
     }
-    double integral_to(double tau) const {
-        const double k = std::floor(tau / period);
-        double r = tau - k * period;
-        const std::size_t n = values->size() - 1;
-        std::size_t j = std::min(static_cast<std::size_t>(r / h), n - 1);
-        const double dr = r - j * h;
-        const double vr = (*values)[j] + dr / h * ((*values)[j + 1] - (*values)[j]);
-        return k * prefix[n] + prefix[j] + 0.5 * dr * ((*values)[j] + vr);
+    /// Where τ falls: whole periods before it, the node below it and the distance past that node.
+    struct Place {
+        double periods;
+        int j;
+        double dr;
+    };
+    Place place(double tau) const {
+        const double k = std::floor(tau * inv_period);
+        const double r = tau - k * period;
+        const int j = std::clamp(static_cast<int>(r * inv_h), 0, n - 1);
+        return {k, j, r - j * h};
     }
-    double mean(double a, double b) const {
-        return b - a > 1e-12 ? (integral_to(b) - integral_to(a)) / (b - a) : value_at(b);
+    double value_at(int c, const Place& p) const {
+        const auto& v = value[c];
+        return v[p.j] + p.dr * inv_h * (v[p.j + 1] - v[p.j]);
+    }
+    double integral_to(int c, const Place& p) const {
+        return p.periods * prefix[c][n] + prefix[c][p.j] + 0.5 * p.dr * (value[c][p.j] + value_at(c, p));
+    }
+    /// Mean of channel c over [a, b] (the value at b for an empty window).
+    double mean(int c, const Place& a, const Place& b, double width) const {
+        return width > 1e-12 ? (integral_to(c, b) - integral_to(c, a)) / width : value_at(c, b);
     }
 };
 
@@ -192,7 +207,7 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
         const double eta = t_ref == column.temperature_c
                                ? visc.at(b)
                                : EluentViscosity(basis, to_kelvin(t_ref)).at(b);
-        const double sys = system_bar(instrument, ref.flow_ml_min, eta);
+        const double sys = system_bar_per_mpa_s(instrument, ref.flow_ml_min) * eta;
         const double col = ref.pressure_bar - sys;
         if (col <= 0)
             throw Error(column.field + ".reference.pressure_bar",
@@ -205,6 +220,7 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
         out.calibrated = true;
     }
     const double k_bar = bar_per_mpa_s_ml_min(column, out.flow_resistance) * m.flow_ml_min;
+    const double k_system = system_bar_per_mpa_s(instrument, m.flow_ml_min);
 
     out.column_volume_ml = column_volume_ml(column);
     out.dwell_min = instrument.dwell_ml / m.flow_ml_min;
@@ -217,7 +233,9 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
     const double step = std::max(step_min, period / max_trace_points);
     const int n = std::max(1, static_cast<int>(std::ceil(period / step - 1e-9)));
     const double h = period / n;
-    std::vector<double> eta(n + 1), eta_flow(n + 1), organic(n + 1);
+    enum { eta_c, flow_c, organic_c };
+    MixerSamples mixer;
+    mixer.init(n, h);
     const std::vector<Stretch> parts = stretches(m);
     std::size_t si = 0;
     LineValues p{};
@@ -230,28 +248,25 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
         for (int l = 0; l < max_lines; ++l)
             p[l] = s.percent_start[l] + f * (s.percent_end[l] - s.percent_start[l]);
         blend(basis, p.data(), b);
-        eta[j] = visc.at(b);
-        eta_flow[j] = eta[j] * (1 - b.contraction_fraction);
-        organic[j] = b.organic_fraction_v;
+        const double eta = visc.at(b);
+        mixer.value[eta_c][j] = eta;
+        mixer.value[flow_c][j] = eta * (1 - b.contraction_fraction);
+        mixer.value[organic_c][j] = b.organic_fraction_v;
     }
-    PeriodicIntegral i_eta, i_flow, i_org;
-    i_eta.build(eta, h);
-    i_flow.build(eta_flow, h);
-    i_org.build(organic, h);
+    mixer.integrate();
 
     // The column at time t holds the mixer's output from t − t_D − t_col to t − t_D.
     out.points.reserve(n + 1);
     for (int k = 0; k <= n; ++k) {
         const double t = k * h;
-        const double inlet = t - out.dwell_min;
-        const double outlet = inlet - out.column_min;
+        const auto inlet = mixer.place(t - out.dwell_min);
+        const auto outlet = mixer.place(t - out.dwell_min - out.column_min);
         PressurePoint pt;
         pt.t_min = t;
-        pt.viscosity_mpa_s = i_eta.mean(outlet, inlet);
-        pt.organic_fraction_v = i_org.mean(outlet, inlet);
-        pt.column_pressure_bar = k_bar * i_flow.mean(outlet, inlet);
-        pt.pressure_bar =
-            pt.column_pressure_bar + system_bar(instrument, m.flow_ml_min, i_eta.value_at(inlet));
+        pt.viscosity_mpa_s = mixer.mean(eta_c, outlet, inlet, out.column_min);
+        pt.organic_fraction_v = mixer.mean(organic_c, outlet, inlet, out.column_min);
+        pt.column_pressure_bar = k_bar * mixer.mean(flow_c, outlet, inlet, out.column_min);
+        pt.pressure_bar = pt.column_pressure_bar + k_system * mixer.value_at(eta_c, inlet);
         if (k == 0 || pt.pressure_bar > out.max_pressure_bar) {
             out.max_pressure_bar = pt.pressure_bar;
             out.max_at_t_min = t;
