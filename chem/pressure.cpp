@@ -267,7 +267,8 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
         pt.organic_fraction_v = mixer.mean(organic_c, outlet, inlet, out.column_min);
         pt.column_pressure_bar = k_bar * mixer.mean(flow_c, outlet, inlet, out.column_min);
         pt.pressure_bar = pt.column_pressure_bar + k_system * mixer.value_at(eta_c, inlet);
-        if (k == 0 || pt.pressure_bar > out.max_pressure_bar) {
+        // The first of equal peaks (an isocratic run's flat trace peaks at its start).
+        if (k == 0 || pt.pressure_bar > out.max_pressure_bar * (1 + 1e-9)) {
             out.max_pressure_bar = pt.pressure_bar;
             out.max_at_t_min = t;
             out.organic_fraction_v_at_max = pt.organic_fraction_v;
