@@ -8,6 +8,8 @@
 #include "chem/viscosity.h"
 #include "core/app_data.h"
 
+#include "test_support.h"
+
 #include <QtTest>
 
 #include <random>
@@ -20,11 +22,7 @@ class TestPressure : public QObject {
     LineProfile water_, methanol_, acetonitrile_;
 
     static LineProfile neat(const std::string& id, bool aqueous) {
-        LineProfile p;
-        p.described = true;
-        p.solvent_fraction_v[id] = 1.0;
-        (aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) = 1.0;
-        return p;
+        return phaseplan::testing::neat_line(id, aqueous);
     }
     std::array<const LineProfile*, max_lines> lines(const LineProfile& b) const {
         return {&water_, &b, nullptr, nullptr};

@@ -12,6 +12,8 @@
 #include <QJsonDocument>
 #include <QJsonObject>
 #include <QProcess>
+#include "test_support.h"
+
 #include <QtTest>
 
 using namespace chem;
@@ -22,11 +24,7 @@ class TestViscosity : public QObject {
     QJsonObject ref_;
 
     static LineProfile neat(const std::string& id, bool aqueous) {
-        LineProfile p;
-        p.described = true;
-        p.solvent_fraction_v[id] = 1.0;
-        (aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) = 1.0;
-        return p;
+        return phaseplan::testing::neat_line(id, aqueous);
     }
 
     /// Viscosity of water + organic at volume fraction phi (as measured before mixing).

@@ -2,8 +2,8 @@
 // Target on one core: ≤ 50 µs.
 //   build/bench_pressure --benchmark_repetitions=5 --benchmark_report_aggregates_only=true
 #include "chem/pressure.h"
-#include "chem/transfer.h"
 #include "core/app_data.h"
+#include "pressure_fixture.h"
 
 #include <benchmark/benchmark.h>
 
@@ -42,15 +42,8 @@ void BM_pressure_trace_10_rows(benchmark::State& state) {
                                    c = neat("methanol", false);
     const std::array<const chem::LineProfile*, 4> lines = {&a, &b, &c, nullptr};
     const chem::Method m = ten_rows();
-    chem::Column col;
-    col.length_mm = 100;
-    col.id_mm = 2.1;
-    col.particle_um = 1.8;
-    col.temperature_c = 40;
-    col.max_pressure_bar = 600;
-    chem::Instrument in;
-    in.dwell_ml = 0.4;
-    in.max_pressure_bar = 1000;
+    const chem::Column col = bench::small_particle_column();
+    chem::Instrument in = bench::low_dwell_instrument();
     in.system_pressure_bar = 30;
     for (auto _ : state) {
         const chem::PressureTrace t = chem::pressure_trace(data().solvents, lines, m, col, in, 0.1);

@@ -5,6 +5,7 @@
 #include "chem/checks.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
+#include "pressure_fixture.h"
 #include "chem/recipe.h"
 #include "chem/sequence.h"
 #include "core/app_data.h"
@@ -84,15 +85,8 @@ struct Lines {
 void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = false) {
     const chem::SequenceInput in = big_plan(rows);
     static const Lines lines;
-    chem::Column column;
-    column.length_mm = 100;
-    column.id_mm = 2.1;
-    column.particle_um = 1.8;
-    column.temperature_c = 40;
-    column.max_pressure_bar = 600;
-    chem::Instrument instrument;
-    instrument.max_pressure_bar = 1000;
-    instrument.dwell_ml = 0.4;
+    const chem::Column column = bench::small_particle_column();
+    const chem::Instrument instrument = bench::low_dwell_instrument();
     std::vector<std::optional<chem::PressureTrace>> traces;
     for (auto _ : state) {
         const chem::SequencePlan plan = chem::plan_sequence(in);
