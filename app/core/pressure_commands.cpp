@@ -222,10 +222,13 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
                   const std::array<const chem::LineProfile*, chem::max_lines>& profiles,
                   QJsonArray* notes) {
     std::vector<std::optional<chem::PressureTrace>> out;
-    const auto column = pressure_column_from_json(doc, "column", root);
-    const chem::Instrument instrument = instrument_from_json(doc, root);
+    auto column = pressure_column_from_json(doc, "column", root);
+    chem::Instrument instrument = instrument_from_json(doc, root);
     if (!column)
         return out;
+    // Fields relative to the plan; the catch below adds the plan's path once.
+    column->field = "column";
+    instrument.field = "instrument";
     for (const chem::Method& m : in.methods) {
         std::string undescribed;
         for (const auto& r : m.gradient)
