@@ -724,12 +724,68 @@ std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
     return out;
 }
 
+// (i) The pressure peak of each method run against the lower of the two limits.
+std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
+                                                   const PressureTrace& tr) {
+    if (!tr.limit || !(tr.max_pressure_bar >= 0.9 * tr.limit->bar))
+        return std::nullopt;
+    const bool over = tr.max_pressure_bar > tr.limit->bar;
+    std::string inlet;
+    for (int l = 0; l < max_lines; ++l)
+        if (tr.inlet_percent_at_max[l] > 0)
+            inlet += (inlet.empty() ? "" : "/") + letter(l) + " " +
+                     fmt(tr.inlet_percent_at_max[l], 0) + " %";
+    const std::string where =
+        "peaks at " + fmt(tr.max_pressure_bar, 0) + " bar " + fmt(tr.max_at_t_min, 1) +
+        " min into each injection, with " + fmt(100 * tr.organic_fraction_v_at_max, 0) +
+        " % v/v organic in the column (" + inlet + " entering it)";
+    const std::string limit = fmt(tr.limit->bar, 0) + " bar limit of the " +
+                              limit_source_name(tr.limit->source);
+    CheckWarning w =
+        over ? make("pressure-limit", Sev::warning, "",
+                    "Method " + method + " " + where + ", above the " + limit +
+                        ": the pump would stop the sequence. Lower the flow, raise the column "
+                        "temperature or use a column with larger particles.")
+             : make("pressure-limit", Sev::caution, "",
+                    "Method " + method + " " + where + ", within 10 % of the " + limit +
+                        ": a partly blocked frit or a colder room could trip it.");
+    w.number("max_pressure_bar", tr.max_pressure_bar);
+    w.number("limit_bar", tr.limit->bar);
+    w.number("peak_t_min", tr.max_at_t_min);
+    w.number("organic_fraction_v", tr.organic_fraction_v_at_max);
+    w.text("method", method);
+    w.text("limited_by", limit_source_name(tr.limit->source));
+    return w;
+}
+
+std::vector<CheckWarning> check_pressure_limit(const SequenceCheckInput& c) {
+    std::vector<CheckWarning> out;
+    if (!c.pressure)
+        return out;
+    for (int mi : methods_run(*c.plan)) {
+        if (mi >= static_cast<int>(c.pressure->size()) || !(*c.pressure)[mi])
+            continue;
+        auto w = pressure_limit_warning(c.plan->methods[mi].name, *(*c.pressure)[mi]);
+        if (!w)
+            continue;
+        // The first time it happens in the night.
+        for (const RowPlan& r : c.plan->rows)
+            if (r.method == mi) {
+                w->number("first_peak_at_min", r.start_min + (*c.pressure)[mi]->max_at_t_min);
+                break;
+            }
+        out.push_back(std::move(*w));
+    }
+    return out;
+}
+
 std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
     if (!c.solvents || !c.input || !c.plan)
         throw Error("(checks)", "incomplete check input");
     std::vector<CheckWarning> out;
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
-                   check_column_ph, check_shelf_life, check_runs_dry, check_waste_overflow}) {
+                   check_column_ph, check_shelf_life, check_runs_dry, check_waste_overflow,
+                   check_pressure_limit}) {
         auto w = f(c);
         out.insert(out.end(), std::make_move_iterator(w.begin()), std::make_move_iterator(w.end()));
     }

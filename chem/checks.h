@@ -8,9 +8,12 @@
 //   shelf-life      an aqueous buffer past its shelf life before the sequence ends
 //   runs-dry        a bottle that runs dry (or has less than the safety margin to spare)
 //   waste-overflow  a waste container that overfills
+//   pressure-limit  a method whose pressure peak passes the lower of the column's and the
+//                   instrument's limits (a caution within 10 % of it)
 // Warnings come out in that order.
 #include "chem/equilibrium.h"
 #include "chem/line.h"
+#include "chem/pressure.h"
 #include "chem/sequence.h"
 #include "chem/solvent.h"
 
@@ -66,6 +69,9 @@ struct SequenceCheckInput {
     std::array<std::optional<double>, max_lines> prepared_at_min{}; ///< from the sequence start
     std::optional<Detector> detector;
     std::optional<ColumnLimits> column;
+    /// One pressure trace per plan method (index as SequencePlan::methods), or none: no column
+    /// dimensions given, or the method runs a line without a make-up.
+    const std::vector<std::optional<PressureTrace>>* pressure = nullptr;
     ClockFormatter clock = default_clock;
     NameLookup name_of; ///< empty: ids as they are
 };
@@ -81,6 +87,13 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_pressure_limit(const SequenceCheckInput& c);
+/// The pressure-limit warning for one method's trace: "warning" when the peak passes the limit,
+/// "caution" when it comes within 10 % of it (≥ 90 %), none otherwise or without a limit. The
+/// numbers: max_pressure_bar, limit_bar, peak_t_min (into the injection), organic_fraction_v;
+/// texts: method, limited_by.
+std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
+                                                   const PressureTrace& trace);
 /// All of the above, in the order of the list at the top.
 std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
 

@@ -6,6 +6,86 @@
 
 namespace chem {
 
+int BlendBasis::index_of(const std::string& id) const {
+    for (std::size_t i = 0; i < components.size(); ++i)
+        if (components[i].solvent->id == id)
+            return static_cast<int>(i);
+    return -1;
+}
+
+BlendBasis blend_basis(const SolventLibrary& solvents,
+                       const std::vector<const LineProfile*>& profiles) {
+    BlendBasis b;
+    for (const LineProfile* p : profiles) {
+        if (!p || !p->described)
+            continue;
+        for (const auto& [id, frac] : p->solvent_fraction_v) {
+            (void)frac;
+            if (b.index_of(id) >= 0)
+                continue;
+            BlendBasis::Component c;
+            c.solvent = &solvents.solvent(id, "composition");
+            c.mol_per_ml = c.solvent->density_g_per_ml / c.solvent->molar_mass_g_per_mol;
+            if (!c.solvent->aqueous)
+                c.excess = solvents.excess_volume("water", id);
+            b.components.push_back(c);
+        }
+    }
+    for (const LineProfile* p : profiles) {
+        std::vector<double> f;
+        if (p && p->described) {
+            f.assign(b.components.size(), 0.0);
+            for (const auto& [id, frac] : p->solvent_fraction_v)
+                f[b.index_of(id)] = frac;
+        }
+        b.fraction_v.push_back(std::move(f));
+    }
+    return b;
+}
+
+void blend(const BlendBasis& basis, const double* percent, SolventBlend& out) {
+    const std::size_t n = basis.components.size();
+    out.fraction_v.assign(n, 0.0);
+    out.mole_fraction.assign(n, 0.0);
+    for (std::size_t l = 0; l < basis.fraction_v.size(); ++l) {
+        const auto& f = basis.fraction_v[l];
+        if (f.empty() || percent[l] <= 0)
+            continue;
+        const double share = percent[l] / 100.0;
+        for (std::size_t i = 0; i < n; ++i)
+            out.fraction_v[i] += share * f[i];
+    }
+    // Mole fractions from each solvent's density and molar mass (per mL of unmixed volume).
+    double n_total = 0, water_fraction = 0, water_mol = 0;
+    out.organic_fraction_v = 0;
+    for (std::size_t i = 0; i < n; ++i) {
+        const double moles = out.fraction_v[i] * basis.components[i].mol_per_ml;
+        out.mole_fraction[i] = moles;
+        n_total += moles;
+        if (basis.components[i].solvent->aqueous) {
+            water_fraction += out.fraction_v[i];
+            water_mol += moles;
+        } else {
+            out.organic_fraction_v += out.fraction_v[i];
+        }
+    }
+    for (double& x : out.mole_fraction)
+        x = n_total > 0 ? x / n_total : 0;
+    // Contraction: each organic with its share of the water (binary excess volumes).
+    out.contraction_fraction = 0;
+    if (out.organic_fraction_v <= 0 || water_fraction <= 0)
+        return;
+    for (std::size_t i = 0; i < n; ++i) {
+        const auto& c = basis.components[i];
+        if (!c.excess || out.fraction_v[i] <= 0)
+            continue;
+        const double water_share_mol = water_mol * out.fraction_v[i] / out.organic_fraction_v;
+        // Fractions are mL per mL of unmixed volume, so the contraction is a fraction too.
+        out.contraction_fraction +=
+            c.excess->contraction_ml(water_share_mol, out.fraction_v[i] * c.mol_per_ml);
+    }
+}
+
 EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>& shares) {
     double total = 0;
     for (const LineShare& s : shares) {
@@ -20,15 +100,17 @@ EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>
     std::map<std::string, double> solute_mmol; // per litre of unmixed volume
     std::map<std::string, std::string> solute_from;
     std::vector<std::string> order;
+    std::vector<const LineProfile*> profiles;
+    std::vector<double> percent;
     for (const LineShare& s : shares) {
         if (s.percent <= 0)
             continue;
         if (!s.profile || !s.profile->described)
             throw Error("composition", "a line at " + format_number(s.percent) +
                                            " % has no parts, so its make-up is unknown");
+        profiles.push_back(s.profile);
+        percent.push_back(s.percent);
         const double f = s.percent / 100.0;
-        for (const auto& [id, frac] : s.profile->solvent_fraction_v)
-            out.solvent_fraction_v[id] += f * frac;
         for (const Solute& so : s.profile->solutes) {
             if (!solute_mmol.count(so.reagent)) {
                 order.push_back(so.reagent);
@@ -40,35 +122,17 @@ EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>
         }
     }
 
-    // Mole fractions from each solvent's density and molar mass (per mL of unmixed volume).
-    double n_total = 0;
-    std::map<std::string, double> n;
-    for (const auto& [id, frac] : out.solvent_fraction_v) {
-        const Solvent& sv = solvents.solvent(id, "composition");
-        n[id] = frac * sv.density_g_per_ml / sv.molar_mass_g_per_mol;
-        n_total += n[id];
-        const bool water = sv.aqueous;
-        if (!water)
-            out.organic_fraction_v += frac;
+    const BlendBasis basis = blend_basis(solvents, profiles);
+    SolventBlend b;
+    blend(basis, percent.data(), b);
+    for (std::size_t i = 0; i < basis.components.size(); ++i) {
+        const std::string& id = basis.components[i].solvent->id;
+        out.solvent_fraction_v[id] = b.fraction_v[i];
+        out.mole_fraction[id] = b.mole_fraction[i];
     }
-    for (const auto& [id, moles] : n)
-        out.mole_fraction[id] = n_total > 0 ? moles / n_total : 0;
+    out.organic_fraction_v = b.organic_fraction_v;
+    out.contraction_fraction = b.contraction_fraction;
 
-    // Contraction: each organic with its share of the water (binary excess volumes).
-    double water_fraction = 0;
-    for (const auto& [id, frac] : out.solvent_fraction_v)
-        if (solvents.solvent(id, "composition").aqueous)
-            water_fraction += frac;
-    if (out.organic_fraction_v > 0 && water_fraction > 0) {
-        for (const auto& [id, frac] : out.solvent_fraction_v) {
-            if (solvents.solvent(id, "composition").aqueous || frac <= 0)
-                continue;
-            const double water_share = water_fraction * frac / out.organic_fraction_v;
-            // mixing_contraction_ml works in mL; fractions are mL per mL of unmixed volume.
-            if (const auto c = mixing_contraction_ml(solvents, water_share, id, frac))
-                out.contraction_fraction += *c;
-        }
-    }
     const double mixed = 1.0 - out.contraction_fraction;
     for (const std::string& id : order)
         out.solutes.push_back({id, solute_mmol[id] / mixed, solute_from[id]});

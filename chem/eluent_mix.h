@@ -32,6 +32,39 @@ struct EluentMix {
     std::vector<Solute> solutes;
 };
 
+/// The solvents of a set of lines, prepared once so that many blends (every point of a gradient's
+/// pressure trace) cost a few multiplications each. mix_lines() works through it too, so the
+/// fractions, mole fractions and contraction have one implementation.
+struct BlendBasis {
+    struct Component {
+        const Solvent* solvent = nullptr;
+        double mol_per_ml = 0;                 ///< density / molar mass, as measured before mixing
+        const ExcessVolume* excess = nullptr; ///< V^E with water (organics only), or none
+    };
+    std::vector<Component> components;           ///< every solvent of every line, first seen first
+    std::vector<std::vector<double>> fraction_v; ///< per line, per component (empty: undescribed)
+
+    /// Index of the component with this solvent id, or −1.
+    int index_of(const std::string& id) const;
+};
+
+/// The solvent side of a blend, in the order of BlendBasis::components.
+struct SolventBlend {
+    std::vector<double> fraction_v;    ///< as measured before mixing; sums to 1
+    std::vector<double> mole_fraction; ///< sums to 1
+    double organic_fraction_v = 0;
+    double contraction_fraction = 0; ///< as in EluentMix
+};
+
+/// One entry per line (null or undescribed lines have no make-up; they may only run at 0 %).
+BlendBasis blend_basis(const SolventLibrary& solvents,
+                       const std::vector<const LineProfile*>& profiles);
+
+/// The blend at `percent` per line (in the basis's line order, fractions of 100). No checks: the
+/// caller has validated the percentages (mix_lines does; a validated method's rows are).
+/// Undescribed lines count as absent. `out` is reused without reallocating.
+void blend(const BlendBasis& basis, const double* percent, SolventBlend& out);
+
 /// Blends the lines. Percentages must be finite, ≥ 0 and sum to 100 ± 0.01; each share's profile
 /// must be described (have parts). Throws chem::Error("composition", …) otherwise, naming the
 /// value. Lines at 0 % are skipped.

@@ -6,6 +6,27 @@
 
 namespace chem {
 
+void require_finite(double v, const std::string& field) {
+    if (!std::isfinite(v))
+        throw Error(field, "must be a finite number");
+}
+
+void require_range(double v, double lo, double hi, const std::string& field, const char* what) {
+    require_finite(v, field);
+    if (v < lo || v > hi)
+        throw Error(field, format_number(v) + " is outside " + format_number(lo) + " to " +
+                               format_number(hi) + " " + what);
+}
+
+void require_positive(double v, double hi, const std::string& field, const char* unit) {
+    require_finite(v, field);
+    if (v <= 0)
+        throw Error(field, format_number(v) + " " + unit + " is not positive");
+    if (v > hi)
+        throw Error(field,
+                    format_number(v) + " " + unit + " is above the limit of " + format_number(hi));
+}
+
 std::string format_number(double value) {
     if (std::isnan(value)) return "nan";
     if (std::isinf(value)) return value > 0 ? "inf" : "-inf";

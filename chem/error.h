@@ -30,6 +30,13 @@ private:
     std::string message_;
 };
 
+/// Throws Error(field, "must be a finite number") for NaN or infinity.
+void require_finite(double v, const std::string& field);
+/// Throws Error(field, "<v> is outside <lo> to <hi> <what>") unless lo ≤ v ≤ hi.
+void require_range(double v, double lo, double hi, const std::string& field, const char* what);
+/// Throws unless 0 < v ≤ hi: "<v> <unit> is not positive" / "is above the limit of <hi>".
+void require_positive(double v, double hi, const std::string& field, const char* unit);
+
 /// Formats a number for an error message: up to 6 significant digits, no trailing zeros.
 std::string format_number(double value);
 

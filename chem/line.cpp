@@ -226,8 +226,7 @@ std::optional<double> mixing_contraction_ml(const SolventLibrary& solvents, doub
         return std::nullopt;
     const double n_w = aqueous_ml * w->density_g_per_ml / w->molar_mass_g_per_mol;
     const double n_o = organic_ml * o->density_g_per_ml / o->molar_mass_g_per_mol;
-    const double n = n_w + n_o;
-    return -n * ev->at(n_o / n); // V^E in cm³/mol = mL/mol; negative V^E is a contraction
+    return ev->contraction_ml(n_w, n_o);
 }
 
 LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,

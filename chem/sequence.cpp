@@ -21,42 +21,6 @@ std::string letter_key(int i) {
     return std::string(1, line_letter(i));
 }
 
-void require_finite(double v, const std::string& field) {
-    if (!std::isfinite(v))
-        throw Error(field, "must be a finite number");
-}
-
-void require_range(double v, double lo, double hi, const std::string& field, const char* what) {
-    require_finite(v, field);
-    if (v < lo || v > hi)
-        throw Error(field, format_number(v) + " is outside " + format_number(lo) + " to " +
-                               format_number(hi) + " " + what);
-}
-
-void require_positive(double v, double hi, const std::string& field, const char* unit) {
-    require_finite(v, field);
-    if (v <= 0)
-        throw Error(field, format_number(v) + " " + unit + " is not positive");
-    if (v > hi)
-        throw Error(field,
-                    format_number(v) + " " + unit + " is above the limit of " + format_number(hi));
-}
-
-void validate_percentages(const LineValues& p, const std::array<bool, max_lines>& defined,
-                          const std::string& at, const char* where) {
-    double sum = 0;
-    for (int l = 0; l < max_lines; ++l) {
-        const std::string f = at + "." + letter_key(l);
-        require_range(p[l], 0, 100, f, "%");
-        if (p[l] > 0 && !defined[l])
-            throw Error(f, "line " + letter_key(l) + " is not defined in lines");
-        sum += p[l];
-    }
-    if (std::fabs(sum - 100.0) > percent_sum_tolerance)
-        throw Error(at, std::string("the percentages of ") + where + " add to " +
-                            format_number(sum) + ", not 100");
-}
-
 /// Volume of line l delivered over a stretch at flow f: f/100 · (p_s + p_e)/2 · D (trapezoid,
 /// exact for a linear percentage).
 double stretch_volume(const Stretch& s, int l, double flow) {
@@ -79,6 +43,22 @@ double time_into_stretch(const Stretch& s, int l, double flow, double volume_ml)
 }
 
 } // namespace
+
+void validate_composition(const LineValues& p, const std::array<bool, max_lines>& defined,
+                          const std::string& at, const char* where) {
+    double sum = 0;
+    for (int l = 0; l < max_lines; ++l) {
+        const std::string f = at + "." + letter_key(l);
+        require_range(p[l], 0, 100, f, "%");
+        if (p[l] > 0 && !defined[l])
+            throw Error(f, "line " + letter_key(l) + " is not defined in lines");
+        sum += p[l];
+    }
+    if (std::fabs(sum - 100.0) > percent_sum_tolerance)
+        throw Error(at, std::string("the percentages of ") + where + " add to " +
+                            format_number(sum) + ", not 100");
+}
+
 
 char line_letter(int index) {
     return static_cast<char>('A' + index);
@@ -169,7 +149,7 @@ void validate_method(const Method& m, const std::array<bool, max_lines>& defined
             throw Error(row + ".t_min", format_number(t) + " min is not after the previous row's " +
                                             format_number(m.gradient[i - 1].t_min) +
                                             " min (times must ascend)");
-        validate_percentages(m.gradient[i].percent, defined, row, "this row");
+        validate_composition(m.gradient[i].percent, defined, row, "this row");
     }
     require_positive(m.run_min, max_minutes, at + ".run_min", "min");
     if (m.run_min < m.gradient.back().t_min)
@@ -296,7 +276,7 @@ SequencePlan plan_sequence(const SequenceInput& in) {
         require_positive(in.standby->flow_ml_min, max_flow_ml_min, "standby.flow_ml_min", "mL/min");
         require_range(in.standby->duration_min, 0, max_minutes, "standby.duration_min", "min");
         if (in.standby->percent)
-            validate_percentages(*in.standby->percent, defined, "standby", "the standby");
+            validate_composition(*in.standby->percent, defined, "standby", "the standby");
     }
     if (in.waste_capacity_ml)
         require_positive(*in.waste_capacity_ml, max_volume_ml, "waste_ml", "mL");

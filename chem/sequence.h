@@ -154,6 +154,11 @@ struct SequencePlan {
 /// run_min ≥ the last row's time, equilibration_min ≥ 0. Throws chem::Error.
 void validate_method(const Method& m, const std::array<bool, max_lines>& defined);
 
+/// Checks one composition: each line 0–100 % (field "<at>.A"), only defined lines above 0, the
+/// sum 100 ± 0.01 (field `at`, message naming `where`). Throws chem::Error.
+void validate_composition(const LineValues& percent, const std::array<bool, max_lines>& defined,
+                          const std::string& at, const char* where);
+
 /// Validates everything (throws chem::Error with the JSON path: "sequence[0].method",
 /// "lines.A.bottle_ml", "methods.x.gradient[2].t_min", "standby.flow_ml_min") and plans.
 SequencePlan plan_sequence(const SequenceInput& in);

@@ -82,6 +82,13 @@ double ExcessVolume::at(double x) const {
     return x * (1 - x) * sum;
 }
 
+double ExcessVolume::contraction_ml(double n_water_mol, double n_organic_mol) const {
+    const double n = n_water_mol + n_organic_mol;
+    if (n <= 0)
+        return 0;
+    return -n * at(n_organic_mol / n); // V^E in cm³/mol = mL/mol; negative V^E is a contraction
+}
+
 int edit_distance(const std::string& a, const std::string& b) {
     std::vector<int> prev(b.size() + 1), cur(b.size() + 1);
     for (std::size_t j = 0; j <= b.size(); ++j)

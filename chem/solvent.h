@@ -109,6 +109,9 @@ struct ExcessVolume {
     std::string source;
 
     double at(double x_organic) const; ///< cm³/mol
+    /// Volume lost on mixing n_water_mol with n_organic_mol, in mL (≥ 0 for a contraction):
+    /// ΔV = −(n_w + n_o) · V^E(x_o).
+    double contraction_ml(double n_water_mol, double n_organic_mol) const;
 };
 
 class SolventLibrary {

@@ -129,6 +129,26 @@ SMALL_SEQUENCE = {
     "standby": {"flow_ml_min": 0.1, "until": "2026-12-02T07:00:00", "A": 50, "B": 50}}
 PLANS = {"plans": [copy.deepcopy(SMALL_SEQUENCE),
                    dict(copy.deepcopy(SMALL_SEQUENCE), start="2026-12-03T18:00:00+01:00")]}
+PRESSURE = {
+    "lines": copy.deepcopy(SMALL_SEQUENCE["lines"]),
+    "method": copy.deepcopy(SMALL_SEQUENCE["methods"]["m"]),
+    "column": {"length_mm": 150, "id_mm": 4.6, "particle_um": 3.5, "porosity": 0.4,
+               "temperature_c": 30, "max_pressure_bar": 400,
+               "reference": {"pressure_bar": 180, "flow_ml_min": 1.0, "A": 50, "B": 50}},
+    "instrument": {"max_pressure_bar": 600, "system_pressure_bar": 15, "system_flow_ml_min": 1.0,
+                   "dwell_ml": 1.1},
+    "step_min": 0.5}
+TRANSFER = {
+    "method": copy.deepcopy(SMALL_SEQUENCE["methods"]["m"]),
+    "from": {"length_mm": 250, "id_mm": 4.6, "particle_um": 5, "dwell_ml": 1.0},
+    "to": {"length_mm": 50, "id_mm": 2.1, "particle_um": 1.7, "dwell_ml": 0.1, "max_pressure_bar": 1000},
+    "injection_ul": 10, "sequence_injections": 40,
+    "lines": copy.deepcopy(SMALL_SEQUENCE["lines"]),
+    "instrument": {"max_pressure_bar": 1200}}
+SEQUENCE_WITH_COLUMN = dict(copy.deepcopy(SMALL_SEQUENCE),
+                            column={"ph_min": 2, "ph_max": 8, "length_mm": 100, "id_mm": 2.1,
+                                    "particle_um": 1.8, "temperature_c": 40, "max_pressure_bar": 600},
+                            instrument={"max_pressure_bar": 1000, "dwell_ml": 0.4})
 BATCH = {"id": "HR-20261201-001", "prepared_by": "A. Analyst", "checked_by": "B. Checker",
          "prepared_at": "2026-12-01T16:30:00", "tolerance_percent": 2,
          "actual": [{"reagent": "sodium-dihydrogen-phosphate-monohydrate", "mass_g": 0.52,
@@ -153,6 +173,9 @@ BASES = [  # (command, name, document, extra arguments)
     ("sequence", "demo-overnight", DEMO_SEQUENCE, []),
     ("sequence", "small", SMALL_SEQUENCE, []),
     ("sequence", "plans", PLANS, []),
+    ("sequence", "with-column", SEQUENCE_WITH_COLUMN, []),
+    ("pressure", "gradient", PRESSURE, []),
+    ("transfer", "to-sub-2um", TRANSFER, []),
     ("sheet", "recipe", SHEET_RECIPE, ["--paper", "a4"]),
     ("sheet", "line", SHEET_LINE, ["--paper", "letter"]),
     ("sheet", "sequence", SHEET_SEQUENCE, []),
@@ -632,12 +655,16 @@ MAY_BE_NULL = {"dry_after_injection", "dry_at", "dry_at_min", "suggested_bottle_
                "deviation_fraction", "final_volume_ml", "shelf_life_h"}
 NOT_NEGATIVE = {"mass_g", "volume_ml", "mol_per_l", "required_ml", "usable_ml", "waste_ml",
                 "total_min", "pumped_ml", "prime_ml", "min_bottle_ml", "ionic_strength_mol_per_l",
-                "buffer_capacity_mol_per_l", "mixed_volume_ml", "injection_min", "standby_min"}
+                "buffer_capacity_mol_per_l", "mixed_volume_ml", "injection_min", "standby_min",
+                "pressure_bar", "max_pressure_bar", "column_pressure_bar", "viscosity_mpa_s",
+                "flow_ml_min", "plates_estimate", "column_volume_ml"}
 TOP_LEVEL = {  # result fields that must be finite numbers (or true JSON values) when status is 0
     "solve": ["ph", "ionic_strength_mol_per_l", "buffer_capacity_mol_per_l", "temperature_c"],
     "recipe": ["ph", "ionic_strength_mol_per_l", "buffer_capacity_mol_per_l", "volume_ml", "target_ph"],
     "line": ["volume_ml", "uv_cutoff_nm", "mixed_volume_ml", "contraction_ml"],
     "sequence": [],
+    "pressure": ["max_pressure_bar", "max_at_t_min", "plates_estimate"],
+    "transfer": ["saving_fraction", "l_over_dp_change", "flow_ml_min"],
     "reagents": [],
     "sheet": ["pages"],
     "labels": ["pages", "labels"],
@@ -720,6 +747,18 @@ def judge_output(case, out):
                         problems.append("lines.%s.%s is %r" % (letter, key, line.get(key)))
                 if line.get("runs_dry") and not (isinstance(line.get("dry_at"), str) and line["dry_at"]):
                     problems.append("lines.%s runs dry without dry_at" % letter)
+    if case.command in ("pressure", "transfer", "sequence"):
+        # Every pressure is a positive finite number, and the peak is the trace's largest.
+        traces = [doc] if case.command == "pressure" else [doc.get("pressure") or {}]
+        if case.command == "sequence":
+            traces = [m.get("pressure") or {} for plan in doc.get("plans", [doc])
+                      for m in plan.get("methods", {}).values()]
+        for t in traces:
+            points = [p.get("pressure_bar") for p in t.get("trace", [])]
+            if any(not is_number(v) or v <= 0 for v in points):
+                problems.append("a pressure that is not positive: %r" % [v for v in points if not is_number(v) or v <= 0][:3])
+            elif points and abs(max(points) - t.get("max_pressure_bar", -1)) > 1e-9 * max(points):
+                problems.append("max_pressure_bar %r is not the trace's peak %r" % (t.get("max_pressure_bar"), max(points)))
     if case.command == "solve" and isinstance(doc.get("species"), list):
         # At the solved pH the charge balance holds and I = 1/2 sum(c z^2) (concentrations).
         species = [x for x in doc["species"] if is_number(x.get("mol_per_l")) and is_number(x.get("charge"))]

@@ -1,5 +1,6 @@
 #pragma once
 // Shared helpers for the QtTest executables: the shipped library, loaded once per process.
+#include "chem/line.h"
 #include "core/app_data.h"
 
 #include <QByteArray>
@@ -15,6 +16,15 @@ namespace phaseplan::testing {
 inline const AppData& shipped_data() {
     static const AppData data = load_app_data(QStringLiteral(SOURCE_DIR "/data"));
     return data;
+}
+
+/// A described line of one neat solvent (water is the aqueous one).
+inline chem::LineProfile neat_line(const std::string& solvent, bool aqueous) {
+    chem::LineProfile p;
+    p.described = true;
+    p.solvent_fraction_v[solvent] = 1.0;
+    (aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) = 1.0;
+    return p;
 }
 
 inline QJsonObject read_json(const QString& path) {

@@ -3,6 +3,8 @@
 #include "chem/error.h"
 #include "core/app_data.h"
 
+#include "test_support.h"
+
 #include <QtTest>
 
 using namespace chem;
@@ -12,11 +14,7 @@ class TestEluentMix : public QObject {
     SolventLibrary solvents_;
 
     static LineProfile neat(const std::string& id, bool aqueous) {
-        LineProfile p;
-        p.described = true;
-        p.solvent_fraction_v[id] = 1.0;
-        (aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) = 1.0;
-        return p;
+        return phaseplan::testing::neat_line(id, aqueous);
     }
 
   private slots:

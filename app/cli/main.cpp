@@ -5,6 +5,7 @@
 #include "core/commands.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
+#include "core/pressure_commands.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -44,6 +45,8 @@ const std::map<std::string, Entry>& command_table() {
         {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
         {"line", {phaseplan::command_line, "a mobile-phase line's parts for a bottle volume"}},
         {"sequence", {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
+        {"pressure", {phaseplan::command_pressure, "column pressure along a method's gradient"}},
+        {"transfer", {phaseplan::command_transfer, "move a method to another column (USP <621> scaling)"}},
 #ifdef PHASEPLAN_WITH_PRINT
         {"sheet", {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
         {"labels", {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},

@@ -3,6 +3,7 @@
 #include "chem/error.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
+#include "core/pressure_commands.h"
 
 #include <QJsonDocument>
 #include <QRegularExpression>
@@ -87,6 +88,9 @@ std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
     const std::string at = json::path(root, "column");
     const QJsonObject o = json::require_object(doc, "column", root);
     json::reject_near_misses(o, {"ph_min", "ph_max"}, at);
+    // A column given for its pressure only (dimensions, no pH range) has no pH check.
+    if (!o.contains("ph_min") && !o.contains("ph_max"))
+        return std::nullopt;
     chem::ColumnLimits c;
     c.ph_min = json::require_number(o, "ph_min", at);
     c.ph_max = json::require_number(o, "ph_max", at);
@@ -317,6 +321,49 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     return pl;
 }
 
+chem::Method method_from_json(const QJsonObject& mo, const std::string& name,
+                              const std::string& mpath) {
+    json::reject_near_misses(mo, {"flow_ml_min", "gradient", "run_min", "equilibration_min"},
+                             mpath);
+    chem::Method m;
+    m.name = name;
+    m.flow_ml_min = json::require_number(mo, "flow_ml_min", mpath);
+    const QJsonArray g = json::require_array(mo, "gradient", mpath);
+    const std::string gpath = json::path(mpath, "gradient");
+    for (int i = 0; i < g.size(); ++i) {
+        const std::string rpath = json::path(gpath, i);
+        const QJsonObject ro = json::element_object(g, i, gpath);
+        chem::GradientRow row;
+        row.t_min = json::require_number(ro, "t_min", rpath);
+        row.percent = percent_from_json(ro, rpath, {"t_min"});
+        m.gradient.push_back(row);
+    }
+    m.run_min = json::require_number(mo, "run_min", mpath);
+    m.equilibration_min = json::optional_number(mo, "equilibration_min", mpath).value_or(0.0);
+    return m;
+}
+
+chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path,
+                                   std::initializer_list<const char*> other_keys) {
+    chem::LineValues p{};
+    for (auto k = o.begin(); k != o.end(); ++k) {
+        bool other = false;
+        for (const char* key : other_keys)
+            other |= k.key() == QLatin1String(key);
+        if (other)
+            continue;
+        const int l = chem::line_index(k.key().toStdString());
+        if (l < 0)
+            throw chem::Error(json::path(path, k.key()),
+                              other_keys.size() == 1
+                                  ? "is neither " + std::string(*other_keys.begin()) +
+                                        " nor a line (A, B, C, D)"
+                                  : std::string("is neither a field here nor a line (A, B, C, D)"));
+        p[l] = json::require_number(o, k.key(), path);
+    }
+    return p;
+}
+
 QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock) {
     QJsonObject o = warning_to_json(w);
     if (!w.line.empty())
@@ -436,7 +483,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     chem::SequenceInput in;
     json::reject_near_misses(doc,
                              {"lines", "methods", "sequence", "prime_ml", "start", "waste_ml",
-                              "detector", "column", "standby", "safety_margin", "plans"},
+                              "detector", "column", "standby", "safety_margin", "plans",
+                              "instrument"},
                              root);
     Clock clock;
     clock.start = datetime_from_json(doc, "start", root, &clock.has_offset);
@@ -482,31 +530,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     for (auto it = methods.begin(); it != methods.end(); ++it) {
         const std::string mpath = json::path(P("methods"), it.key());
         const QJsonObject mo = json::require_object(methods, it.key(), P("methods"));
-        json::reject_near_misses(mo, {"flow_ml_min", "gradient", "run_min", "equilibration_min"},
-                                 mpath);
-        chem::Method m;
-        m.name = it.key().toStdString();
-        m.flow_ml_min = json::require_number(mo, "flow_ml_min", mpath);
-        const QJsonArray g = json::require_array(mo, "gradient", mpath);
-        const std::string gpath = json::path(mpath, "gradient");
-        for (int i = 0; i < g.size(); ++i) {
-            const std::string rpath = json::path(gpath, i);
-            const QJsonObject ro = json::element_object(g, i, gpath);
-            chem::GradientRow row;
-            row.t_min = json::require_number(ro, "t_min", rpath);
-            for (auto k = ro.begin(); k != ro.end(); ++k) {
-                if (k.key() == QLatin1String("t_min"))
-                    continue;
-                const int l = chem::line_index(k.key().toStdString());
-                if (l < 0)
-                    throw chem::Error(json::path(rpath, k.key()),
-                                      "is neither t_min nor a line (A, B, C, D)");
-                row.percent[l] = json::require_number(ro, k.key(), rpath);
-            }
-            m.gradient.push_back(row);
-        }
-        m.run_min = json::require_number(mo, "run_min", mpath);
-        m.equilibration_min = json::optional_number(mo, "equilibration_min", mpath).value_or(0.0);
+        chem::Method m = method_from_json(mo, it.key().toStdString(), mpath);
         in.methods.push_back(std::move(m));
     }
 
@@ -616,6 +640,10 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     c.column = column;
     c.clock = [&clock](double m) { return clock.text(m); };
     c.name_of = library_names(data);
+    QJsonArray pressure_notes;
+    const auto pressure = sequence_pressure(data, doc, root, in, c.profiles, &pressure_notes);
+    if (!pressure.empty())
+        c.pressure = &pressure;
     const auto checks = chem::check_sequence(c);
 
     // output
@@ -669,11 +697,17 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     QJsonObject methods_out;
     for (std::size_t i = 0; i < plan.methods.size(); ++i) {
         const auto& mp = plan.methods[i];
-        methods_out[qs(mp.name)] =
-            QJsonObject{{"flow_ml_min", in.methods[i].flow_ml_min},
-                        {"injection_min", mp.injection_min},
-                        {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
-                        {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+        QJsonObject mo{{"flow_ml_min", in.methods[i].flow_ml_min},
+                       {"injection_min", mp.injection_min},
+                       {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
+                       {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+        if (i < pressure.size() && pressure[i]) {
+            const QJsonObject p = pressure_trace_to_json(*pressure[i]);
+            mo["max_pressure_bar"] = p.value("max_pressure_bar");
+            mo["max_pressure_at_t_min"] = p.value("max_at_t_min");
+            mo["pressure"] = p;
+        }
+        methods_out[qs(mp.name)] = mo;
     }
     QJsonArray rows_out;
     for (std::size_t i = 0; i < plan.rows.size(); ++i) {
@@ -699,6 +733,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                         o["line"] = QString(QChar(chem::line_letter(l)));
                         warnings.append(o);
                     }
+    for (const auto& n : pressure_notes)
+        warnings.append(n);
     for (const auto& w : checks)
         warnings.append(check_warning_to_json(w, &clock));
 

@@ -17,6 +17,7 @@
 #include <QJsonArray>
 #include <QJsonObject>
 
+#include <initializer_list>
 #include <optional>
 #include <string>
 
@@ -58,6 +59,15 @@ struct ParsedLine {
 ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::string& path,
                           double volume_ml, bool bottle_required,
                           std::vector<chem::Warning>* notes = nullptr);
+
+/// A method of the `sequence` document ({"flow_ml_min", "gradient", "run_min",
+/// "equilibration_min"}) at `path` ("methods.assay"); values are checked by chem::validate_method.
+chem::Method method_from_json(const QJsonObject& o, const std::string& name,
+                              const std::string& path);
+/// The line percentages of a gradient row or a composition ({"A": 95, "B": 5}); keys other than
+/// A–D must be among other_keys (the first is named in the error).
+chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path,
+                                   std::initializer_list<const char*> other_keys);
 
 /// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
 /// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.

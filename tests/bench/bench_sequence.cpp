@@ -1,8 +1,11 @@
 // The sequence planner on a large plan: 10,000 injections over 20 methods (four lines, gradient
-// tables of 5–8 rows). Target on one core: plan + checks ≤ 5 ms.
+// tables of 5–8 rows). Target on one core: plan + checks ≤ 5 ms, with the pressure of every
+// method on a column (issue 12) still ≤ 5 ms.
 //   build-*/bench_sequence --benchmark_repetitions=5 --benchmark_report_aggregates_only=true
 #include "chem/checks.h"
 #include "chem/line.h"
+#include "chem/pressure.h"
+#include "pressure_fixture.h"
 #include "chem/recipe.h"
 #include "chem/sequence.h"
 #include "core/app_data.h"
@@ -79,12 +82,24 @@ struct Lines {
     }
 };
 
-void run_plan_and_checks(benchmark::State& state, int rows) {
+void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = false) {
     const chem::SequenceInput in = big_plan(rows);
     static const Lines lines;
+    const chem::Column column = bench::small_particle_column();
+    const chem::Instrument instrument = bench::low_dwell_instrument();
+    std::vector<std::optional<chem::PressureTrace>> traces;
     for (auto _ : state) {
         const chem::SequencePlan plan = chem::plan_sequence(in);
         chem::SequenceCheckInput c;
+        if (pressure) {
+            const std::array<const chem::LineProfile*, 4> p = {
+                &lines.profiles[0], &lines.profiles[1], &lines.profiles[2], &lines.profiles[3]};
+            traces.clear();
+            for (const chem::Method& m : in.methods)
+                traces.emplace_back(
+                    chem::pressure_trace(data().solvents, p, m, column, instrument));
+            c.pressure = &traces;
+        }
         c.solvents = &data().solvents;
         c.input = &in;
         c.plan = &plan;
@@ -102,6 +117,10 @@ void run_plan_and_checks(benchmark::State& state, int rows) {
 /// Plan and all checks, 10,000 rows of one injection each (worst case for the planner).
 void BM_plan_10000_injections_rows_of_1(benchmark::State& state) {
     run_plan_and_checks(state, 10000);
+}
+/// The same with the pressure trace of each of the 20 methods and the pressure-limit check.
+void BM_plan_10000_injections_rows_of_1_with_pressure(benchmark::State& state) {
+    run_plan_and_checks(state, 10000, true);
 }
 /// Plan and all checks, 500 rows of 20 injections.
 void BM_plan_10000_injections_rows_of_20(benchmark::State& state) {
@@ -150,6 +169,7 @@ void BM_sequence_command_10000_rows(benchmark::State& state) {
 } // namespace
 
 BENCHMARK(BM_plan_10000_injections_rows_of_1)->Unit(benchmark::kMillisecond);
+BENCHMARK(BM_plan_10000_injections_rows_of_1_with_pressure)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_20)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_sequence_command_10000_rows)->Unit(benchmark::kMillisecond);
 BENCHMARK_MAIN();
