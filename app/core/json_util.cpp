@@ -193,19 +193,21 @@ QString string_at(const QByteArray& b, qsizetype& i) {
 /// Qt keeps the last of two equal keys without a word; a document that gives a field twice
 /// ({"mol_per_l": 0.01, "mol_per_l": 0.1}) is ambiguous, so it is refused, naming the field.
 void reject_duplicate_keys(const QByteArray& b) {
+    // Each frame keeps only its own key or index; the path is spelled out only when a
+    // duplicate is found, so a deeply nested document costs O(depth) memory, not O(depth^2).
     struct Frame {
         bool object = false;
-        std::string path;
         QSet<QString> keys;
         QString key;
         int index = 0;
         bool expect_key = true;
     };
     std::vector<Frame> stack;
-    auto child_path = [&]() -> std::string {
-        if (stack.empty()) return "";
-        const Frame& f = stack.back();
-        return f.object ? path(f.path, f.key) : path(f.path, f.index);
+    auto path_to = [&](std::size_t depth) {
+        std::string p;
+        for (std::size_t d = 0; d + 1 < depth; ++d)
+            p = stack[d].object ? path(p, stack[d].key) : path(p, stack[d].index);
+        return p;
     };
     for (qsizetype i = 0; i < b.size();) {
         const char c = b[i];
@@ -214,7 +216,8 @@ void reject_duplicate_keys(const QByteArray& b) {
             if (!stack.empty() && stack.back().object && stack.back().expect_key) {
                 Frame& f = stack.back();
                 if (f.keys.contains(s))
-                    throw chem::Error(path(f.path, s), "is given twice in one object; give it once");
+                    throw chem::Error(path(path_to(stack.size()), s),
+                                      "is given twice in one object; give it once");
                 f.keys.insert(s);
                 f.key = s;
                 f.expect_key = false;
@@ -224,7 +227,6 @@ void reject_duplicate_keys(const QByteArray& b) {
         if (c == '{' || c == '[') {
             Frame f;
             f.object = c == '{';
-            f.path = child_path();
             stack.push_back(std::move(f));
         } else if ((c == '}' || c == ']') && !stack.empty()) {
             stack.pop_back();
