@@ -533,6 +533,19 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             w.text("nonvolatile", join(p->nonvolatile));
             out.push_back(w);
         }
+        for (const Solute& s : p->solutes) {
+            const Additive* add = c.solvents->find_additive(s.reagent);
+            if (!add || add->ms_caution.empty())
+                continue;
+            CheckWarning w = make("ms-nonvolatile", Sev::caution, letter(l),
+                                  line_title(c, l) + " carries " + s.reagent + " (" +
+                                      fmt(s.mmol_per_l, 2) + " mmol/L) into the " +
+                                      c.detector->type + " detector: " + add->ms_caution + " (" +
+                                      add->ms_caution_source + ").");
+            w.text("detector", c.detector->type);
+            w.text("additive", s.reagent);
+            out.push_back(w);
+        }
         if (!p->volatility_unknown.empty()) {
             CheckWarning w =
                 make("ms-nonvolatile", Sev::caution, letter(l),
@@ -546,11 +559,168 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
     return out;
 }
 
-// (e) A line's (aqueous) pH outside the column's stated range.
+std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
+    std::vector<EluentTrace> out;
+    if (!c.reagents || !c.solvents || !c.input || !c.plan)
+        return out;
+    const auto used = lines_in_use(*c.input, *c.plan);
+    std::vector<const LineProfile*> profiles(max_lines, nullptr);
+    for (int l = 0; l < max_lines; ++l) {
+        if (c.profiles[l] && c.profiles[l]->described)
+            profiles[l] = c.profiles[l];
+        else if (used[l])
+            return out; // a volumes-only line in use: its make-up is unknown
+    }
+    const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
+    const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
+    // Points repeat across methods (the same rows, the same 1 % steps): solve each composition once.
+    std::map<std::array<long long, max_lines>, EluentPoint> solved;
+    auto at = [&](const LineValues& p, const EluentPoint* guess) {
+        std::array<long long, max_lines> key{};
+        for (int l = 0; l < max_lines; ++l)
+            key[l] = std::llround(p[l] * 1e6);
+        auto it = solved.find(key);
+        if (it != solved.end())
+            return it->second;
+        const EluentPoint e = model.point(p.data(), p.size(), guess);
+        solved.emplace(key, e);
+        return e;
+    };
+    for (int mi : methods_run(*c.plan)) {
+        const Method& m = c.input->methods[mi];
+        EluentTrace tr;
+        tr.method = m.name;
+        tr.temperature_c = t_c;
+        tr.has_systems = model.has_systems();
+        for (const AcidBaseSystem* sys : model.systems())
+            tr.systems.push_back(sys->id);
+        const EluentPoint* last = nullptr;
+        EluentPoint previous;
+        auto add = [&](const Stretch& s, double u) {
+            LineValues p{};
+            for (int l = 0; l < max_lines; ++l)
+                p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
+            previous = at(p, last);
+            last = &previous;
+            EluentTracePoint tp;
+            tp.t_min = s.start_min + u * s.duration_min;
+            tp.organic_fraction_v = previous.organic_fraction_v;
+            tp.ph_s_w = previous.ph_s_w;
+            tp.ph_s_s = previous.ph_s_s;
+            tp.nearest_pka_gap = previous.nearest_pka_gap;
+            tp.nearest_pka = previous.nearest_pka;
+            tp.nearest_system = previous.nearest_system;
+            tp.extrapolated = previous.extrapolated;
+            tr.points.push_back(std::move(tp));
+        };
+        const auto ss = stretches(m);
+        for (const Stretch& s : ss) {
+            add(s, 0.0);
+            // Every whole percent of organic crossed inside the stretch.
+            const double o0 = model.organic_fraction_v(s.percent_start.data(), s.percent_start.size());
+            const double o1 = model.organic_fraction_v(s.percent_end.data(), s.percent_end.size());
+            if (std::abs(o1 - o0) > 1e-9) {
+                const double lo = std::min(o0, o1) * 100, hi = std::max(o0, o1) * 100;
+                std::vector<double> us;
+                for (double k = std::floor(lo) + 1; k < hi - 1e-9; k += 1)
+                    us.push_back((k / 100 - o0) / (o1 - o0));
+                std::sort(us.begin(), us.end());
+                for (double u : us)
+                    if (u > 1e-12 && u < 1 - 1e-12)
+                        add(s, u);
+            }
+        }
+        if (!ss.empty())
+            add(ss.back(), 1.0);
+        out.push_back(std::move(tr));
+    }
+    return out;
+}
+
+namespace {
+
+const std::vector<EluentTrace>& traces_of(const SequenceCheckInput& c, std::vector<EluentTrace>& own) {
+    if (c.traces)
+        return *c.traces;
+    own = eluent_traces(c);
+    return own;
+}
+
+std::string pct(double fraction) {
+    return fmt(100 * fraction, 0) + " % organic";
+}
+
+/// Where in the gradient an eluent warning applies: the worst point and the stretch around it.
+void add_where(CheckWarning& w, const EluentTrace& tr, const EluentTracePoint& first,
+               const EluentTracePoint& last, const EluentTracePoint& worst) {
+    w.number("t_min", worst.t_min);
+    w.number("organic_fraction_v", worst.organic_fraction_v);
+    w.number("from_t_min", first.t_min);
+    w.number("to_t_min", last.t_min);
+    w.number("from_organic_fraction_v", first.organic_fraction_v);
+    w.number("to_organic_fraction_v", last.organic_fraction_v);
+    w.number("temperature_c", tr.temperature_c);
+    w.text("method", tr.method);
+}
+
+} // namespace
+
+// (e) The pH the column sees outside its stated range: the eluent's s_w pH along each method's
+// gradient at the column temperature (or, without the reagent library, each line's own pH).
 std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
     if (!c.column)
         return out;
+    std::vector<EluentTrace> own;
+    const auto& traces = traces_of(c, own);
+    if (!traces.empty()) {
+        for (const EluentTrace& tr : traces) {
+            for (const bool low : {true, false}) {
+                const EluentTracePoint* worst = nullptr;
+                const EluentTracePoint* first = nullptr;
+                const EluentTracePoint* last = nullptr;
+                for (const auto& p : tr.points) {
+                    const bool outside = low ? p.ph_s_w < c.column->ph_min : p.ph_s_w > c.column->ph_max;
+                    if (!outside)
+                        continue;
+                    if (!first)
+                        first = &p;
+                    last = &p;
+                    if (!worst || (low ? p.ph_s_w < worst->ph_s_w : p.ph_s_w > worst->ph_s_w))
+                        worst = &p;
+                }
+                if (!worst)
+                    continue;
+                const std::string where =
+                    c.lone_line ? "The line's eluent"
+                                : "In method " + tr.method + ", the eluent";
+                const std::string span =
+                    c.lone_line ? ""
+                                : " from " + fmt(first->t_min, 2) + " to " + fmt(last->t_min, 2) +
+                                      " min of each injection (" + pct(first->organic_fraction_v) +
+                                      " to " + pct(last->organic_fraction_v) + "), worst at " +
+                                      fmt(worst->t_min, 2) + " min";
+                CheckWarning w = make(
+                    "column-ph", Sev::warning, "",
+                    where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " + pct(worst->organic_fraction_v) +
+                        " and " + fmt(tr.temperature_c, 0) + " °C" + span + ", " +
+                        (low ? "below" : "above") + " the column's range of pH " +
+                        fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
+                        (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
+                        " The organic moves the pH away from the aqueous buffer's; use a column rated "
+                        "for this pH or change the buffer." +
+                        (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+                w.number("ph", worst->ph_s_w);
+                w.number("ph_s_s", worst->ph_s_s);
+                w.number("ph_min", c.column->ph_min);
+                w.number("ph_max", c.column->ph_max);
+                add_where(w, tr, *first, *last, *worst);
+                w.text("ph_basis", "eluent s_w pH");
+                out.push_back(w);
+            }
+        }
+        return out;
+    }
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
@@ -572,6 +742,60 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
         w.number("ph_max", c.column->ph_max);
         w.text("ph_basis", p->ph_basis);
         out.push_back(w);
+    }
+    return out;
+}
+
+// (e2) Stretches of the gradient where the eluent is not buffered: its s_s pH more than one unit
+// from every s_s pKa′ of the acid-base systems present.
+std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c) {
+    std::vector<CheckWarning> out;
+    std::vector<EluentTrace> own;
+    const auto& traces = traces_of(c, own);
+    for (const EluentTrace& tr : traces) {
+        if (!tr.has_systems)
+            continue;
+        const auto& pts = tr.points;
+        for (std::size_t i = 0; i < pts.size();) {
+            // No acid-base system at this point (a wash of water and organic): nothing to judge.
+            auto unbuffered = [](const EluentTracePoint& p) {
+                return p.nearest_pka_gap > 1.0 && std::isfinite(p.nearest_pka_gap);
+            };
+            if (!unbuffered(pts[i])) {
+                ++i;
+                continue;
+            }
+            std::size_t j = i;
+            const EluentTracePoint* worst = &pts[i];
+            while (j + 1 < pts.size() && unbuffered(pts[j + 1])) {
+                ++j;
+                if (pts[j].nearest_pka_gap > worst->nearest_pka_gap)
+                    worst = &pts[j];
+            }
+            const std::string where =
+                c.lone_line ? "The line's eluent"
+                            : "In method " + tr.method + ", from " + fmt(pts[i].t_min, 2) + " to " +
+                                  fmt(pts[j].t_min, 2) + " min of each injection (" +
+                                  pct(pts[i].organic_fraction_v) + " to " +
+                                  pct(pts[j].organic_fraction_v) + "), the eluent";
+            CheckWarning w = make(
+                "buffer-range", Sev::caution, "",
+                where + " has s_s pH " + fmt(worst->ph_s_s, 2) + " at " + pct(worst->organic_fraction_v) +
+                    ", " + fmt(worst->nearest_pka_gap, 2) + " units from the nearest s_s pKa′ (" +
+                    tr.systems[worst->nearest_system] + " " + fmt(worst->nearest_pka, 2) + ")" +
+                    ": outside pKa′ ± 1 the eluent buffers poorly, so the sample or the column can "
+                    "shift its pH and retention. Choose a buffer whose pKa′ in the eluent lies "
+                    "within one unit of its pH." +
+                    (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+            w.number("ph_s_s", worst->ph_s_s);
+            w.number("ph_s_w", worst->ph_s_w);
+            w.number("nearest_pka", worst->nearest_pka);
+            w.number("gap", worst->nearest_pka_gap);
+            w.text("nearest_system", tr.systems[worst->nearest_system]);
+            add_where(w, tr, pts[i], pts[j], *worst);
+            out.push_back(w);
+            i = j + 1;
+        }
     }
     return out;
 }
@@ -783,10 +1007,16 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
     if (!c.solvents || !c.input || !c.plan)
         throw Error("(checks)", "incomplete check input");
     std::vector<CheckWarning> out;
+    std::vector<EluentTrace> own;
+    SequenceCheckInput with = c;
+    if (!with.traces && with.reagents) {
+        own = eluent_traces(c);
+        with.traces = &own;
+    }
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
-                   check_column_ph, check_shelf_life, check_runs_dry, check_waste_overflow,
-                   check_pressure_limit}) {
-        auto w = f(c);
+                   check_column_ph, check_buffer_range, check_shelf_life, check_runs_dry,
+                   check_waste_overflow, check_pressure_limit}) {
+        auto w = f(with);
         out.insert(out.end(), std::make_move_iterator(w.begin()), std::make_move_iterator(w.end()));
     }
     return out;
@@ -796,7 +1026,7 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
                                      const std::string& name,
                                      const std::optional<Detector>& detector,
                                      const std::optional<ColumnLimits>& column,
-                                     const NameLookup& name_of) {
+                                     const Library* reagents, const NameLookup& name_of) {
     // A one-line, one-method "sequence" at 100 % of line A reuses the sequence checks.
     SequenceInput in;
     BottleSpec b;
@@ -822,6 +1052,8 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
     c.detector = detector;
     c.column = column;
     c.name_of = name_of;
+    c.reagents = reagents;
+    c.lone_line = true;
     std::vector<CheckWarning> out;
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
                    check_column_ph}) {

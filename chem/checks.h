@@ -4,13 +4,17 @@
 //   immiscible      two lines (or two parts of one line) that meet and do not mix
 //   precipitation   a buffer salt above its solubility limit at the organic fraction reached
 //   ms-nonvolatile  a non-volatile buffer or additive with an MS (or ELSD/CAD) detector
-//   column-ph       a line's pH outside the column's stated range
+//   column-ph       the eluent's s_w pH along the gradient, at the column temperature, outside
+//                   the column's stated range (a line's own pH when no reagent library is given)
+//   buffer-range    stretches of the gradient where the eluent's s_s pH lies more than one unit
+//                   from every s_s pKa′ of the buffer systems present
 //   shelf-life      an aqueous buffer past its shelf life before the sequence ends
 //   runs-dry        a bottle that runs dry (or has less than the safety margin to spare)
 //   waste-overflow  a waste container that overfills
 //   pressure-limit  a method whose pressure peak passes the lower of the column's and the
 //                   instrument's limits (a caution within 10 % of it)
 // Warnings come out in that order.
+#include "chem/eluent.h"
 #include "chem/equilibrium.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
@@ -49,6 +53,27 @@ const std::vector<std::string>& detector_types();
 struct ColumnLimits {
     double ph_min = 2;
     double ph_max = 8;
+    std::optional<double> temperature_c; ///< column oven; the eluent pH is taken at 25 °C without it
+};
+
+/// One point of a method's eluent pH trace (an injection's time course, minutes from its start).
+struct EluentTracePoint {
+    double t_min = 0;
+    double organic_fraction_v = 0;
+    double ph_s_w = 7;
+    double ph_s_s = 7;
+    double nearest_pka_gap = 0; ///< to the nearest s_s pKa′ (infinite without acid-base systems)
+    double nearest_pka = 0;
+    int nearest_system = -1;    ///< index into EluentTrace::systems
+    bool extrapolated = false;  ///< an estimate (see the eluent command's eluent-ph-extrapolated)
+};
+/// The eluent pH at every gradient row and every 1 % of organic between rows, per method run.
+struct EluentTrace {
+    std::string method;
+    double temperature_c = 25;
+    bool has_systems = false; ///< the eluent carries acid-base systems
+    std::vector<std::string> systems; ///< their ids
+    std::vector<EluentTracePoint> points;
 };
 
 /// Formats a time (minutes from the sequence start) for messages; app/ passes clock times.
@@ -74,7 +99,16 @@ struct SequenceCheckInput {
     const std::vector<std::optional<PressureTrace>>* pressure = nullptr;
     ClockFormatter clock = default_clock;
     NameLookup name_of; ///< empty: ids as they are
+    /// The reagent library: with it the column-ph and buffer-range checks use the eluent pH.
+    const Library* reagents = nullptr;
+    /// Precomputed traces (eluent_traces); the checks compute them when null.
+    const std::vector<EluentTrace>* traces = nullptr;
+    bool lone_line = false; ///< set by check_line: one line at 100 %, no gradient to speak of
 };
+
+/// The eluent pH trace of every method the sequence runs, at the column temperature (Davies).
+/// Needs c.reagents; empty without it or when a line in use has no parts.
+std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c);
 
 /// Lines the sequence pumps at some point (above 0 % in a method it runs, or in the standby).
 std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan);
@@ -84,6 +118,7 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c);
+std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c);
 std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c);
@@ -103,6 +138,7 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
                                      const std::string& name,
                                      const std::optional<Detector>& detector,
                                      const std::optional<ColumnLimits>& column,
+                                     const Library* reagents = nullptr,
                                      const NameLookup& name_of = {});
 
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in

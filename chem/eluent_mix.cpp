@@ -86,6 +86,25 @@ void blend(const BlendBasis& basis, const double* percent, SolventBlend& out) {
     }
 }
 
+double contraction_fraction(const SolventLibrary& solvents,
+                            const std::vector<std::pair<const Solvent*, double>>& fractions) {
+    double water = 0, organic = 0;
+    for (const auto& [sv, frac] : fractions)
+        (sv->aqueous ? water : organic) += frac;
+    if (organic <= 0 || water <= 0)
+        return 0;
+    double c = 0;
+    for (const auto& [sv, frac] : fractions) {
+        if (sv->aqueous || frac <= 0)
+            continue;
+        // Each organic with its share of the water; mixing_contraction_ml works in mL and the
+        // fractions are mL per mL of unmixed volume.
+        if (const auto ml = mixing_contraction_ml(solvents, water * frac / organic, sv->id, frac))
+            c += *ml;
+    }
+    return c;
+}
+
 EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>& shares) {
     double total = 0;
     for (const LineShare& s : shares) {

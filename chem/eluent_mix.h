@@ -65,6 +65,12 @@ BlendBasis blend_basis(const SolventLibrary& solvents,
 /// Undescribed lines count as absent. `out` is reused without reallocating.
 void blend(const BlendBasis& basis, const double* percent, SolventBlend& out);
 
+/// Estimated volume lost on mixing, as a fraction of the unmixed volume, for a blend given as
+/// (solvent, volume fraction of the unmixed volume) pairs: each organic with its share of the
+/// water, by the binary Redlich–Kister excess volumes (mixing_contraction_ml).
+double contraction_fraction(const SolventLibrary& solvents,
+                            const std::vector<std::pair<const Solvent*, double>>& fractions);
+
 /// Blends the lines. Percentages must be finite, ≥ 0 and sum to 100 ± 0.01; each share's profile
 /// must be described (have parts). Throws chem::Error("composition", …) otherwise, naming the
 /// value. Lines at 0 % are skipped.

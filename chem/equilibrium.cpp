@@ -54,17 +54,20 @@ struct Gammas {
     double operator()(int z) const { return by_abs_z[std::min(std::abs(z), max_charge)]; }
 };
 
-/// The solution's balances at one fixed set of activity coefficients. Precomputes, per system,
-/// the conditional constants K'_j = Ka_j γ(z_j) / γ(z_j − 1), so that c_{j+1}/c_j = K'_j / h with
-/// h the activity of H+; the pH root search then costs one pow and a few products per system.
+/// The solution's balances at one fixed set of activity coefficients (one per flat species,
+/// Problem::index_species). Precomputes, per system, the conditional constants
+/// K'_j = Ka_j γ(species j) / γ(species j+1), so that c_{j+1}/c_j = K'_j / h with h the activity
+/// of H+; the pH root search then costs one pow and a few products per system.
 class AtFixedGamma {
 public:
-    AtFixedGamma(const Problem& p, const Gammas& g, std::vector<std::array<double, max_steps>>& kc)
-        : p_(p), kc_(kc), g1_(g(1)) {
+    AtFixedGamma(const Problem& p, const std::vector<double>& g,
+                 std::vector<std::array<double, max_steps>>& kc)
+        : p_(p), kc_(kc), gh_(g[p.h_index]), goh_(g[p.oh_index]) {
         kc_.resize(p.systems.size());
         for (size_t i = 0; i < p.systems.size(); ++i) {
             const auto& s = p.systems[i];
-            for (int j = 0; j < s.steps; ++j) kc_[i][j] = s.ka[j] * g(s.z0 - j) / g(s.z0 - j - 1);
+            const int o = p.sys_offset[i];
+            for (int j = 0; j < s.steps; ++j) kc_[i][j] = s.ka[j] * g[o + j] / g[o + j + 1];
         }
         for (const auto& ion : p.ions) {
             spectator_charge_ += ion.charge * ion.total_mol_per_l;
@@ -84,10 +87,13 @@ public:
         return sum;
     }
 
+    double h_mol_per_l(double h) const { return h / gh_; }
+    double oh_mol_per_l(double h) const { return p_.kw / (h * goh_); }
+
     /// Net charge concentration (mol/L) at pH: strictly decreasing in pH.
     double charge(double ph) const {
         const double h = std::pow(10.0, -ph), inv_h = 1.0 / h;
-        double q = (h - p_.kw * inv_h) / g1_ + spectator_charge_;
+        double q = h / gh_ - p_.kw * inv_h / goh_ + spectator_charge_;
         std::array<double, max_steps + 1> t{};
         for (size_t i = 0; i < p_.systems.size(); ++i) {
             const auto& s = p_.systems[i];
@@ -103,7 +109,7 @@ public:
     /// Ionic strength (mol/L) of the solution at pH, ½ Σ c z².
     double ionic_strength(double ph) const {
         const double h = std::pow(10.0, -ph), inv_h = 1.0 / h;
-        double sum_cz2 = (h + p_.kw * inv_h) / g1_ + spectator_z2_;
+        double sum_cz2 = h / gh_ + p_.kw * inv_h / goh_ + spectator_z2_;
         std::array<double, max_steps + 1> t{};
         for (size_t i = 0; i < p_.systems.size(); ++i) {
             const auto& s = p_.systems[i];
@@ -116,12 +122,55 @@ public:
         return 0.5 * sum_cz2;
     }
 
+    /// Concentration (mol/L) of every flat species at pH.
+    void concentrations(double ph, std::vector<double>& c) const {
+        const double h = std::pow(10.0, -ph), inv_h = 1.0 / h;
+        c.assign(p_.n_flat, 0.0);
+        std::array<double, max_steps + 1> t{};
+        for (size_t i = 0; i < p_.systems.size(); ++i) {
+            const auto& s = p_.systems[i];
+            const double sum = distribution(i, inv_h, t);
+            for (int j = 0; j <= s.steps; ++j)
+                c[p_.sys_offset[i] + j] = s.total_mol_per_l * t[j] / sum;
+        }
+        for (size_t k = 0; k < p_.ions.size(); ++k) c[p_.ion_offset + k] = p_.ions[k].total_mol_per_l;
+        c[p_.h_index] = h / gh_;
+        c[p_.oh_index] = p_.kw * inv_h / goh_;
+    }
+
 private:
     const Problem& p_;
     std::vector<std::array<double, max_steps>>& kc_;
-    double g1_;
+    double gh_, goh_;
     double spectator_charge_ = 0, spectator_z2_ = 0;
 };
+
+/// Davies γ of every flat species at ionic strength I (mol/L).
+void davies_gammas(const Problem& p, double ionic_strength, std::vector<double>& g) {
+    const Gammas by_z(p.a_dh, ionic_strength);
+    g.resize(p.n_flat);
+    for (int k = 0; k < p.n_flat; ++k) g[k] = by_z(p.flat_charge[k]);
+}
+
+/// SIT γ of every flat species from their concentrations (mol/L, converted to mol/kg):
+/// log10 γ_k = −z_k² D(I_m) + Σ_l ε(k, l) m_l.
+void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
+    double i_m = 0;
+    for (int k = 0; k < p.n_flat; ++k) i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
+    i_m /= p.kg_per_l;
+    const double d = sit_debye_huckel(p.a_molal, i_m);
+    g.resize(p.n_flat);
+    for (int k = 0; k < p.n_flat; ++k) {
+        const int z = p.flat_charge[k];
+        double lg = -z * z * d;
+        if (z != 0) {
+            const double* row = &p.sit_eps[static_cast<size_t>(k) * p.n_flat];
+            for (int l = 0; l < p.n_flat; ++l)
+                if (row[l] != 0) lg += row[l] * c[l] / p.kg_per_l;
+        }
+        g[k] = std::pow(10.0, lg);
+    }
+}
 
 constexpr double ph_low = -3.0;  ///< bracket: [H+] ~ 1000 mol/L exceeds any allowed amount
 constexpr double ph_high = 17.0; ///< bracket: [OH-] ~ 1000 mol/L
@@ -172,8 +221,40 @@ void Problem::set_amounts(const std::vector<double>& mol_per_l) {
     }
 }
 
+void Problem::index_species(const Library& lib) {
+    sys_offset.clear();
+    flat_charge.clear();
+    for (const auto& s : systems) {
+        sys_offset.push_back(static_cast<int>(flat_charge.size()));
+        for (int j = 0; j <= s.steps; ++j) flat_charge.push_back(s.z0 - j);
+    }
+    ion_offset = static_cast<int>(flat_charge.size());
+    for (const auto& ion : ions) flat_charge.push_back(ion.charge);
+    h_index = static_cast<int>(flat_charge.size());
+    flat_charge.push_back(1);
+    oh_index = static_cast<int>(flat_charge.size());
+    flat_charge.push_back(-1);
+    n_flat = static_cast<int>(flat_charge.size());
+    sit_eps.clear();
+    if (model != ActivityModel::sit) return; // Davies needs the charges only
+    std::vector<const std::string*> names;
+    for (const auto& s : systems)
+        for (int j = 0; j <= s.steps; ++j) names.push_back(&s.def->species[j]);
+    for (const auto& ion : ions) names.push_back(&ion.name);
+    static const std::string h = "H+", oh = "OH-";
+    names.push_back(&h);
+    names.push_back(&oh);
+    sit_eps.assign(static_cast<size_t>(n_flat) * n_flat, 0.0);
+    for (int k = 0; k < n_flat; ++k)
+        for (int l = 0; l < n_flat; ++l)
+            if (flat_charge[k] > 0 && flat_charge[l] < 0)
+                sit_eps[static_cast<size_t>(k) * n_flat + l] = lib.sit_epsilon(*names[k], *names[l]);
+            else if (flat_charge[k] < 0 && flat_charge[l] > 0)
+                sit_eps[static_cast<size_t>(k) * n_flat + l] = lib.sit_epsilon(*names[l], *names[k]);
+}
+
 Problem build_problem(const Library& lib, const std::vector<Component>& components,
-                      double temperature_c) {
+                      double temperature_c, ActivityModel model) {
     if (!std::isfinite(temperature_c) || temperature_c < min_temperature_c ||
         temperature_c > max_temperature_c)
         throw Error("temperature_c", format_number(temperature_c) + " °C is outside " +
@@ -184,6 +265,9 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     p.temperature_k = to_kelvin(temperature_c);
     p.kw = std::pow(10.0, -pkw(p.temperature_k));
     p.a_dh = debye_huckel_a(p.temperature_k);
+    p.model = model;
+    p.a_molal = debye_huckel_a_molal(p.temperature_k);
+    p.kg_per_l = water_density_g_per_ml(p.temperature_k);
     std::vector<double> amounts;
     for (size_t k = 0; k < components.size(); ++k) {
         const auto& c = components[k];
@@ -241,6 +325,7 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
         amounts.push_back(c.mol_per_l);
     }
     p.set_amounts(amounts);
+    p.index_species(lib);
     return p;
 }
 
@@ -259,8 +344,34 @@ State solve_state(const Problem& p, const State* guess) {
     double width = 0.05;
     int evaluations = 0;
     std::vector<std::array<double, max_steps>> kc;
+    std::vector<double> g;
+    if (p.model == ActivityModel::sit) {
+        // γ depends on each counter-ion's molality, not on I alone: a fixed point on the
+        // species' concentrations. It starts from the Davies γ at the guess (or spectators') I;
+        // after 30 plain steps the update is damped by half (never needed for the buffers here).
+        davies_gammas(p, ionic, g);
+        std::vector<double> c, g_new;
+        for (int cycle = 0; cycle < 200; ++cycle) {
+            const AtFixedGamma balance(p, g, kc);
+            const double new_ph = solve_ph(balance, ph, width);
+            if (std::isfinite(ph)) width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
+            ph = new_ph;
+            ++evaluations;
+            balance.concentrations(ph, c);
+            sit_gammas(p, c, g_new);
+            double change = 0;
+            for (int k = 0; k < p.n_flat; ++k)
+                change = std::max(change, std::abs(std::log(g_new[k] / g[k])));
+            if (change <= 1e-11) return State{ph, balance.ionic_strength(ph), evaluations};
+            const double damp = cycle < 30 ? 1.0 : 0.5;
+            for (int k = 0; k < p.n_flat; ++k) g[k] = std::pow(g[k], 1 - damp) * std::pow(g_new[k], damp);
+        }
+        throw Error("components", "the activity coefficients (SIT) did not converge; the mixture "
+                                  "is too concentrated for the model");
+    }
     auto step = [&](double i_in) {
-        const AtFixedGamma balance(p, Gammas(p.a_dh, i_in), kc);
+        davies_gammas(p, i_in, g);
+        const AtFixedGamma balance(p, g, kc);
         const double new_ph = solve_ph(balance, ph, width);
         if (std::isfinite(ph)) width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
         ph = new_ph;
@@ -286,17 +397,38 @@ State solve_state(const Problem& p, const State* guess) {
                                   "for the Davies model");
 }
 
+std::vector<double> gammas_at(const Problem& p, const State& st) {
+    std::vector<double> g;
+    davies_gammas(p, st.ionic_strength_mol_per_l, g);
+    if (p.model == ActivityModel::sit) {
+        // Iterate to the fixed point the solver stopped at (it converged, so this is stable).
+        std::vector<std::array<double, max_steps>> kc;
+        std::vector<double> c, g_new;
+        for (int k = 0; k < 200; ++k) {
+            const AtFixedGamma balance(p, g, kc);
+            balance.concentrations(st.ph, c);
+            sit_gammas(p, c, g_new);
+            double change = 0;
+            for (int q = 0; q < p.n_flat; ++q) change = std::max(change, std::abs(std::log(g_new[q] / g[q])));
+            g.swap(g_new);
+            if (change <= 1e-13) break;
+        }
+    }
+    return g;
+}
+
 Speciation report(const Problem& p, const State& st) {
     Speciation out;
     out.temperature_c = to_celsius(p.temperature_k);
     out.ph = st.ph;
     out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
     out.iterations = st.iterations;
-    const Gammas g(p.a_dh, st.ionic_strength_mol_per_l);
+    out.activity_model = p.model;
+    const std::vector<double> g = gammas_at(p, st);
     std::vector<std::array<double, max_steps>> kc;
     const AtFixedGamma balance(p, g, kc);
     const double h = std::pow(10.0, -st.ph);
-    const double c_h = h / g(1), c_oh = p.kw / (h * g(1));
+    const double c_h = balance.h_mol_per_l(h), c_oh = balance.oh_mol_per_l(h);
     double beta = c_h + c_oh;
     std::array<double, max_steps + 1> t{};
     for (size_t i = 0; i < p.systems.size(); ++i) {
@@ -308,37 +440,73 @@ Speciation report(const Problem& p, const State& st) {
             mean += j * alpha;
             mean2 += j * j * alpha;
             out.species.push_back({s.def->species[j], s.def->id, s.z0 - j,
-                                   s.total_mol_per_l * alpha, g(s.z0 - j)});
+                                   s.total_mol_per_l * alpha, g[p.sys_offset[i] + j]});
         }
         // dn̄/dpH = -ln10 · Var(protons removed): the generalised Van Slyke buffer value.
         beta += s.total_mol_per_l * (mean2 - mean * mean);
     }
     out.buffer_capacity_mol_per_l = ln10 * beta;
-    for (const auto& ion : p.ions)
-        out.species.push_back({ion.name, "", ion.charge, ion.total_mol_per_l, g(ion.charge)});
-    out.species.push_back({"H+", "", 1, c_h, g(1)});
-    out.species.push_back({"OH-", "", -1, c_oh, g(1)});
+    for (size_t k = 0; k < p.ions.size(); ++k)
+        out.species.push_back({p.ions[k].name, "", p.ions[k].charge, p.ions[k].total_mol_per_l,
+                               g[p.ion_offset + k]});
+    out.species.push_back({"H+", "", 1, c_h, g[p.h_index]});
+    out.species.push_back({"OH-", "", -1, c_oh, g[p.oh_index]});
 
     const double i = st.ionic_strength_mol_per_l;
+    if (p.model == ActivityModel::sit) {
+        const double i_m = i / p.kg_per_l;
+        if (i_m > 3.5)
+            out.warnings.push_back({"ionic-strength-high", Warning::Severity::warning,
+                                    "Ionic strength " + format_number(i_m) +
+                                        " mol/kg is above 3.5 mol/kg, beyond the range where the "
+                                        "SIT activity model was fitted: treat the pH as "
+                                        "indicative only and measure it."});
+        return out;
+    }
     if (i > 0.5)
         out.warnings.push_back({"ionic-strength-high", Warning::Severity::warning,
                                 "Ionic strength " + format_number(i) +
                                     " mol/L is above 0.5 mol/L, where the Davies activity model "
                                     "does not hold: treat the pH as indicative only (errors of 0.1 "
-                                    "pH unit or more) and measure it."});
+                                    "pH unit or more) and measure it, or choose \"activity_model\": \"sit\"."});
     else if (i > 0.1)
         out.warnings.push_back({"ionic-strength-high", Warning::Severity::caution,
                                 "Ionic strength " + format_number(i) +
                                     " mol/L is above 0.1 mol/L; the Davies activity model loses "
-                                    "accuracy here (a few hundredths of a pH unit)."});
+                                    "accuracy here (a few hundredths of a pH unit); \"activity_model\": \"sit\" holds to a few mol/kg."});
     return out;
 }
 
 } // namespace detail
 
-Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c) {
-    const detail::Problem p = detail::build_problem(lib, components, temperature_c);
-    return detail::report(p, detail::solve_state(p, nullptr));
+Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c,
+                 ActivityModel model) {
+    const detail::Problem p = detail::build_problem(lib, components, temperature_c, model);
+    const detail::State st = detail::solve_state(p, nullptr);
+    Speciation out = detail::report(p, st);
+    // Where Davies leaves its range, compare with the other model (up to 0.1 mol/L the two agree
+    // within 0.01 on the IUPAC standards, and the second solve would double the cost).
+    if (st.ionic_strength_mol_per_l > 0.1) {
+        const ActivityModel other =
+            model == ActivityModel::davies ? ActivityModel::sit : ActivityModel::davies;
+        detail::Problem q = detail::build_problem(lib, components, temperature_c, other);
+        try {
+            const double ph_other = detail::solve_state(q, &st).ph;
+            const double davies_ph = model == ActivityModel::davies ? st.ph : ph_other;
+            const double sit_ph = model == ActivityModel::davies ? ph_other : st.ph;
+            if (std::abs(davies_ph - sit_ph) > 0.02)
+                out.warnings.push_back(
+                    {"activity-model-differs", Warning::Severity::caution,
+                     "The Davies model gives pH " + format_fixed(davies_ph, 3) +
+                         " and the SIT model pH " + format_fixed(sit_ph, 3) + " at I = " +
+                         format_fixed(st.ionic_strength_mol_per_l, 3) +
+                         " mol/L: they differ by more than 0.02. SIT (\"activity_model\": \"sit\") "
+                         "holds to a few mol/kg, Davies to about 0.1 mol/L."});
+        } catch (const Error&) {
+            // The other model not converging says nothing about this result.
+        }
+    }
+    return out;
 }
 
 } // namespace chem

@@ -1,6 +1,7 @@
 #pragma once
 // Charge-balance speciation of an aqueous mixture of reagents with Davies activity coefficients
 // at the self-consistent ionic strength.
+#include "chem/activity.h"
 #include "chem/reagent.h"
 
 #include <string>
@@ -38,6 +39,7 @@ struct Speciation {
     std::vector<SpeciesAmount> species;
     std::vector<Warning> warnings;
     int iterations = 0;                   ///< ionic-strength iterations used
+    ActivityModel activity_model = ActivityModel::davies;
 
     double concentration_of(const std::string& species_name) const; ///< 0 if absent
 };
@@ -48,6 +50,10 @@ struct Speciation {
 /// point. Throws chem::Error naming the field for a temperature out of range, a null, negative,
 /// non-finite or too large (> 10 mol/L) amount, or a mixture that does not converge.
 /// Components' fields in errors are "components[i].mol_per_l"; temperature is "temperature_c".
-Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c);
+/// `model` chooses the activity coefficients (Davies by default, or SIT, chem/activity.h). When
+/// the ionic strength exceeds 0.1 mol/L the other model is solved too, and a difference above
+/// 0.02 pH is reported as the warning "activity-model-differs".
+Speciation solve(const Library& lib, const std::vector<Component>& components, double temperature_c,
+                 ActivityModel model = ActivityModel::davies);
 
 } // namespace chem

@@ -14,7 +14,12 @@ inline constexpr int max_steps = 4; ///< pKa steps per system supported by the f
 struct Problem {
     double temperature_k = 298.15;
     double kw = 1e-14;    ///< thermodynamic ion product of water at T
-    double a_dh = 0.5;    ///< Debye–Hückel A at T, (mol/L)^-1/2
+    double a_dh = 0.5;    ///< molar Debye–Hückel A at T, (L/mol)^1/2 (Davies)
+    ActivityModel model = ActivityModel::davies;
+    double a_molal = 0.5; ///< molal Debye–Hückel A at T, (kg/mol)^1/2 (SIT)
+    /// kg of solvent per litre of solution, m = c / kg_per_l; the solutes' own volume is
+    /// neglected (about 2 % in m at 1 mol/L NaCl).
+    double kg_per_l = 1.0;
 
     struct System {
         const AcidBaseSystem* def = nullptr;
@@ -38,6 +43,17 @@ struct Problem {
     };
     std::vector<Feed> feeds;
 
+    /// Every charged or neutral species in one flat list for per-species activity coefficients:
+    /// each system's species in order (from sys_offset[i]), then the spectator ions, then H+ and
+    /// OH-. flat_charge gives each one's charge; sit_eps the ε(k, l) matrix (n_flat²), zero but
+    /// for a cation with an anion that has a recorded value.
+    std::vector<int> sys_offset;
+    int ion_offset = 0, h_index = 0, oh_index = 0, n_flat = 0;
+    std::vector<int> flat_charge;
+    std::vector<double> sit_eps;
+    /// Fills the flat layout and (for SIT) the ε matrix from the library.
+    void index_species(const Library& lib);
+
     /// Recomputes the totals from the components' amounts (mol/L, one per component).
     void set_amounts(const std::vector<double>& mol_per_l);
 };
@@ -45,7 +61,7 @@ struct Problem {
 /// Builds the problem for these components at temperature_c; validates amounts and temperature
 /// (chem::Error on "components[i].mol_per_l" / "temperature_c").
 Problem build_problem(const Library& lib, const std::vector<Component>& components,
-                      double temperature_c);
+                      double temperature_c, ActivityModel model = ActivityModel::davies);
 
 struct State {
     double ph = 7;
@@ -60,5 +76,8 @@ State solve_state(const Problem& p, const State* guess = nullptr);
 
 /// Full report: species, β, warnings.
 Speciation report(const Problem& p, const State& s);
+
+/// Activity coefficients of every flat species (Problem::index_species) at a solved state.
+std::vector<double> gammas_at(const Problem& p, const State& s);
 
 } // namespace chem::detail

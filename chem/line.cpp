@@ -98,7 +98,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     p.described = true;
     double sum = 0;
     int buffers = 0;
-    std::vector<std::pair<double, std::string>> uv_candidates;
+    std::vector<UvPart> uv_parts;
     for (std::size_t i = 0; i < line.parts.size(); ++i) {
         const LinePart& part = line.parts[i];
         const std::string pat = sub(at, "parts[" + std::to_string(i) + "]");
@@ -125,7 +125,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
             const Solvent& s = solvents.solvent(part.solvent, pat + ".solvent");
             p.solvent_fraction_v[s.id] += f;
             (s.aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) += f;
-            uv_candidates.emplace_back(s.uv_cutoff_nm, s.id);
+            uv_parts.push_back({s.id, s.uv_cutoff_nm, f});
         }
     }
     if (std::fabs(sum - 1.0) > fraction_sum_tolerance)
@@ -165,16 +165,15 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
             p.uv_unknown.push_back(s.reagent);
             continue;
         }
-        const auto look = add->uv->at(additive_amount(r, add->uv->unit, s.mmol_per_l));
+        const double amount = additive_amount(r, add->uv->unit, s.mmol_per_l);
+        const auto look = add->uv->at(amount);
         if (look.beyond_table)
             p.uv_beyond_table.push_back(s.reagent);
-        uv_candidates.emplace_back(look.cutoff_nm, s.reagent);
+        // Beer–Lambert: the row's cutoff scaled by the amount over the row's amount.
+        uv_parts.push_back({s.reagent, look.cutoff_nm, amount / look.point->amount});
     }
-    for (const auto& [nm, who] : uv_candidates)
-        if (nm > p.uv_cutoff_nm) {
-            p.uv_cutoff_nm = nm;
-            p.uv_limited_by = who;
-        }
+    // The aqueous buffer parts count as water for the UV; water itself is the reference.
+    p.uv_cutoff_nm = line_uv_cutoff_nm(uv_parts, &p.uv_limited_by);
 
     // pH of an aqueous line made with additives only: solve the additives in water at 25 °C.
     if (buffers == 0 && p.organic_fraction_v == 0 && !p.solutes.empty()) {
@@ -182,7 +181,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
         for (const Solute& s : p.solutes)
             comps.push_back({&reagents.reagent(s.reagent), s.mmol_per_l / 1000.0});
         try {
-            p.ph = solve(reagents, comps, 25.0).ph;
+            p.ph = solve(reagents, comps, 25.0, line.activity_model).ph;
             p.ph_basis = "solved from the additives in water at 25 °C";
         } catch (const Error& e) {
             throw e.within(sub(at, "additives"));
@@ -217,6 +216,32 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     return p;
 }
 
+double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_by) {
+    double top = 0;
+    for (const UvPart& u : parts)
+        if (u.scale > 0)
+            top = std::max(top, u.cutoff_nm);
+    if (top <= 0)
+        return 0;
+    // log-sum-exp around the highest cutoff keeps the powers of ten in range.
+    double sum = 0;
+    for (const UvPart& u : parts)
+        if (u.scale > 0)
+            sum += u.scale * std::pow(10.0, (u.cutoff_nm - top) / uv_decade_nm);
+    const double cutoff = top + uv_decade_nm * std::log10(sum);
+    if (limited_by) {
+        double best = -1;
+        for (const UvPart& u : parts) {
+            const double a = u.scale * std::pow(10.0, (u.cutoff_nm - cutoff) / uv_decade_nm);
+            if (a > best) {
+                best = a;
+                *limited_by = u.who;
+            }
+        }
+    }
+    return cutoff;
+}
+
 std::optional<double> mixing_contraction_ml(const SolventLibrary& solvents, double aqueous_ml,
                                             const std::string& organic, double organic_ml) {
     const ExcessVolume* ev = solvents.excess_volume("water", organic);
@@ -241,7 +266,8 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         throw Error(sub(line.field, "parts"), "is required for a line recipe");
     out.volume_ml = volume_ml;
 
-    const double rho_water_20 = water_density_g_per_ml(to_kelvin(20.0));
+    const double t_c = line.temperature_c;
+    const double rho_water = water_density_g_per_ml(to_kelvin(t_c));
     double aqueous_ml = 0;
     std::vector<std::pair<std::string, double>> organic_ml;
     std::vector<std::string> measured;
@@ -257,10 +283,11 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
             double dissolved_g_per_l = 0;
             for (const Component& c : part.buffer->composition)
                 dissolved_g_per_l += c.mol_per_l * c.reagent->molar_mass_g_per_mol;
-            it.density_g_per_ml = rho_water_20 + dissolved_g_per_l / 1000.0;
-            it.density_temperature_c = 20;
+            it.density_g_per_ml = rho_water + dissolved_g_per_l / 1000.0;
+            it.density_temperature_c = t_c;
             it.density_basis =
-                "estimate: water at 20 °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
+                "estimate: water at " + format_number(t_c) +
+                " °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
                 fmt(dissolved_g_per_l, 2) + " g/L dissolved, the solutes' own volume neglected";
             aqueous_ml += *it.volume_ml;
             if (!out.buffer)
@@ -269,11 +296,23 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
             const Solvent& s = solvents.solvent(part.solvent);
             it.part = s.id;
             it.kind = "solvent";
-            it.density_g_per_ml = s.density_g_per_ml;
-            it.density_temperature_c = s.density_temperature_c;
+            it.density_g_per_ml = s.density_at(t_c);
+            it.density_temperature_c = t_c;
             auto src = s.sources.find("density");
             it.density_basis = "density at " + format_number(s.density_temperature_c) + " °C" +
-                               (src != s.sources.end() ? ": " + src->second : "");
+                               (src != s.sources.end() ? " (" + src->second + ")" : "");
+            if (t_c != s.density_temperature_c) {
+                if (s.density_from_water_model)
+                    it.density_basis = "density of water at " + format_number(t_c) +
+                                       " °C, Tanaka et al., Metrologia 38 (2001) 301";
+                else if (s.expansion_per_k > 0)
+                    it.density_basis += ", taken to " + format_number(t_c) +
+                                        " °C with the expansion coefficient " +
+                                        format_number(s.expansion_per_k) + " 1/K";
+                else
+                    it.density_basis += "; no expansion coefficient recorded, so not corrected to " +
+                                        format_number(t_c) + " °C";
+            }
             if (s.aqueous)
                 aqueous_ml += *it.volume_ml;
             else

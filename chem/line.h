@@ -32,6 +32,8 @@ struct LineSpec {
     std::vector<LinePart> parts;
     std::vector<LineAdditive> additives;
     std::optional<double> shelf_life_h; ///< a lab's override of the default for the line's kind
+    double temperature_c = 20; ///< where the parts are measured: densities are taken at it
+    ActivityModel activity_model = ActivityModel::davies; ///< for the pH of aqueous additives
 };
 
 /// A dissolved reagent in the finished line.
@@ -48,8 +50,10 @@ struct LineProfile {
     std::map<std::string, double>
         solvent_fraction_v; ///< solvent id → fraction (buffers count as water)
     std::vector<Solute> solutes;
-    double uv_cutoff_nm = 0;                  ///< highest of the parts at their concentrations
-    std::string uv_limited_by;                ///< the part that sets it
+    /// Wavelength at which the line's absorbance (1 cm, against water) reaches 1, from its parts:
+    /// absorbance adds (see line_uv_cutoff_nm).
+    double uv_cutoff_nm = 0;
+    std::string uv_limited_by;                ///< the part that absorbs most there
     std::vector<std::string> uv_unknown;      ///< solutes without a cutoff figure
     std::vector<std::string> uv_beyond_table; ///< solutes above their table's last row
     std::optional<double> ph;                 ///< of the aqueous part (see ph_basis)
@@ -91,6 +95,21 @@ struct LineRecipe {
     std::vector<std::string> notes;
     std::vector<std::string> cautions;
 };
+
+/// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm) and how many times its
+/// absorbance at that cutoff it brings (a solvent's volume fraction; a solute's concentration over
+/// the tabulated one, by Beer–Lambert).
+struct UvPart {
+    std::string who;
+    double cutoff_nm = 0;
+    double scale = 1;
+};
+/// Wavelength where the summed absorbance of the parts is 1, each part's absorbance taken to fall
+/// tenfold per uv_decade_nm above its cutoff (A_i(λ) = s_i·10^{−(λ − λc_i)/w}; the shape is a
+/// rough rule, common practice, no source): λ* = w·log10 Σ s_i 10^{λc_i/w}. 5 % THF (212 nm) in
+/// water gives 200 nm, not 212; two weak absorbers add. `limited_by` gets the largest contributor.
+inline constexpr double uv_decade_nm = 10.0;
+double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_by);
 
 /// Estimated contraction on mixing of aqueous_ml of water with organic_ml of `organic`:
 /// ΔV = −(n_w + n_o) · V^E(x_o) with n from densities and molar masses, V^E from the library's

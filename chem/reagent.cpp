@@ -123,6 +123,58 @@ void Library::add_reagent(Reagent reagent) {
     else reagents_.push_back(std::move(reagent));
 }
 
+void Library::add_sit_epsilon(SitEpsilon e) {
+    if (e.cation.empty() || e.anion.empty()) throw Error("sit_epsilon", "needs a cation and an anion");
+    if (!std::isfinite(e.kg_per_mol) || std::abs(e.kg_per_mol) > 2)
+        throw Error("sit_epsilon", format_number(e.kg_per_mol) + " kg/mol is outside -2 to 2");
+    for (auto& x : sit_)
+        if (x.cation == e.cation && x.anion == e.anion) {
+            x = std::move(e);
+            return;
+        }
+    sit_.push_back(std::move(e));
+}
+
+double Library::sit_epsilon(const std::string& cation, const std::string& anion) const {
+    for (const auto& x : sit_)
+        if (x.cation == cation && x.anion == anion) return x.kg_per_mol;
+    return 0.0;
+}
+
+double EluentSolvent::delta(double f) const {
+    double num = 0, den = 1, power = f;
+    for (double a : delta_numerator) {
+        num += a * power;
+        power *= f;
+    }
+    power = f;
+    for (double b : delta_denominator) {
+        den += b * power;
+        power *= f;
+    }
+    return num / den;
+}
+
+void Library::add_eluent_solvent(EluentSolvent e) {
+    if (!(e.permittivity_25c > 1)) throw Error("permittivity_25c", "must be above 1");
+    if (e.fraction_v.size() != e.dpkw.size() || e.fraction_v.empty())
+        throw Error("dpkw_points", "needs at least one row");
+    for (size_t i = 1; i < e.fraction_v.size(); ++i)
+        if (!(e.fraction_v[i] > e.fraction_v[i - 1])) throw Error("dpkw_points", "rows must ascend");
+    for (auto& x : eluent_solvents_)
+        if (x.organic == e.organic) {
+            x = std::move(e);
+            return;
+        }
+    eluent_solvents_.push_back(std::move(e));
+}
+
+const EluentSolvent* Library::eluent_solvent(const std::string& organic) const {
+    for (const auto& x : eluent_solvents_)
+        if (x.organic == organic) return &x;
+    return nullptr;
+}
+
 const Reagent* Library::find_reagent(const std::string& id) const {
     for (const auto& r : reagents_)
         if (r.id == id) return &r;

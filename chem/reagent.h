@@ -1,11 +1,36 @@
 #pragma once
 // The reagent library's types: acid-base systems, reagents, and the Library that holds them.
 // Filled by app/core/library_loader from data/reagents.json; chem/ itself does no I/O.
+#include "chem/activity.h"
+
 #include <optional>
 #include <string>
 #include <vector>
 
 namespace chem {
+
+/// How a system's pKa values move in one water–organic mixture: s_s pKa − w_w pKa of each step
+/// against the volume fraction of the organic (rows ascending, 25 °C). Used by chem/eluent.
+struct OrganicShift {
+    std::string organic;                   ///< solvent id: "acetonitrile", "methanol"
+    std::vector<double> fraction_v;        ///< rows, ascending, in (0, 1]
+    std::vector<std::vector<double>> dpka; ///< per row, one shift per step (pKa units)
+    std::string source;
+};
+
+/// One organic solvent's data for the eluent-pH model: its permittivity, the shift of s_s pKw,
+/// and δ = s_w pH − s_s pH as δ(φ) = Σ a_k φ^(k+1) / (1 + Σ b_k φ^(k+1)).
+struct EluentSolvent {
+    std::string organic;
+    double permittivity_25c = 0;
+    std::string permittivity_source;
+    std::vector<double> fraction_v, dpkw; ///< s_s pKw − w_w pKw against φ, rows ascending
+    std::string dpkw_source;
+    std::vector<double> delta_numerator, delta_denominator;
+    double delta_max_fraction_v = 0;      ///< the published range of the δ equation
+    std::string delta_source;
+    double delta(double fraction_v) const;
+};
 
 /// One acid-base system (phosphate, acetate, tris, …): its species from the fully protonated form
 /// down, the stepwise thermodynamic pKa values at 25 °C and their temperature dependence.
@@ -25,6 +50,7 @@ struct AcidBaseSystem {
     /// dpKa/dT of step i in 1/K, used where no enthalpy is given (0 when neither is published).
     std::vector<double> dpka_per_k;
     std::vector<std::string> sources; ///< one citation per number, free text
+    std::vector<OrganicShift> eluent_shift; ///< s_s pKa shifts in water–organic mixtures
 
     int steps() const { return static_cast<int>(pka_25c.size()); }
     int charge_of(int species_index) const { return charge_fully_protonated - species_index; }
@@ -104,12 +130,23 @@ public:
     const std::vector<AcidBaseSystem>& systems() const { return systems_; }
     const std::vector<Reagent>& reagents() const { return reagents_; }
 
+    /// Adds or replaces an SIT interaction coefficient (a cation with an anion).
+    void add_sit_epsilon(SitEpsilon e);
+    /// ε(cation, anion) in kg/mol, 0 when none is recorded (the SIT model then keeps the
+    /// Debye–Hückel term alone for that pair).
+    double sit_epsilon(const std::string& cation, const std::string& anion) const;
+    const std::vector<SitEpsilon>& sit_epsilons() const { return sit_; }
+    void add_eluent_solvent(EluentSolvent e);
+    const EluentSolvent* eluent_solvent(const std::string& organic) const;
+
     /// Up to `count` known reagent ids closest to `id` (edit distance), best first.
     std::vector<std::string> nearest_reagent_ids(const std::string& id, int count = 3) const;
 
 private:
     std::vector<AcidBaseSystem> systems_;
     std::vector<Reagent> reagents_;
+    std::vector<SitEpsilon> sit_;
+    std::vector<EluentSolvent> eluent_solvents_;
 };
 
 } // namespace chem

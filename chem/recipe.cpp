@@ -199,7 +199,7 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
     const auto [sa, sb] = conjugate_shares(acid, base);
     MixDesign d;
     d.system = &lib.system(sa->system);
-    Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c)};
+    Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c, req.activity_model), std::nullopt};
     // x: fraction of the system's total that comes from the base form.
     auto amounts = [&](double total, double x) {
         return std::pair{(1 - x) * total / sa->count, x * total / sb->count};
@@ -268,7 +268,7 @@ public:
     AdditionSearch(const Library& lib, const RecipeRequest& req, const Reagent& held,
                    const Reagent& added, const Addition& rule)
         : req_(req), rule_(rule),
-          pair_{detail::build_problem(lib, {{&held, 1.0}, {&added, 1.0}}, req.temperature_c), std::nullopt} {}
+          pair_{detail::build_problem(lib, {{&held, 1.0}, {&added, 1.0}}, req.temperature_c, req.activity_model), std::nullopt} {}
 
     double held_at(double c, double n) const {
         return std::max(0.0, rule_.held_per_c * c - rule_.held_less_per_n * n);
@@ -581,7 +581,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             throw Error("purity_percent." + id, "\"" + id + "\" is not a reagent of this recipe");
     }
 
-    recipe.predicted = solve(lib, recipe.composition, req.temperature_c);
+    recipe.predicted = solve(lib, recipe.composition, req.temperature_c, req.activity_model);
     if (std::abs(recipe.predicted.ph - req.target_ph) > 1e-4)
         throw Error("target_ph", "internal check failed: the designed recipe solves to " +
                                      ph_text(recipe.predicted.ph) + ", not the target");
@@ -593,12 +593,36 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         recipe.basis = basis_statement(lib, recipe);
     }
 
-    // Steps, in bench order.
+    // Steps, in bench order. The pH is read before making up to volume (mix, titrate: in about
+    // 80 % of the water plus what was added), so the meter target is the pH predicted at that
+    // volume, stated beside the final one; the stocks route is made up first and read at volume.
     auto& steps = recipe.steps;
     const double water_ml = std::round(req.volume_ml * 0.8);
+    double added_ml = 0;
+    for (const auto& it : recipe.items)
+        if (it.as != "solid" && it.volume_ml) added_ml += *it.volume_ml;
+    const double check_ml = std::min(req.volume_ml, water_ml + added_ml);
+    const double check_ph = [&] {
+        if (req.route == Route::stocks || check_ml >= req.volume_ml) return recipe.predicted.ph;
+        std::vector<Component> at_check = recipe.composition;
+        for (auto& c : at_check) c.mol_per_l *= req.volume_ml / check_ml;
+        try {
+            return solve(lib, at_check, req.temperature_c, req.activity_model).ph;
+        } catch (const Error&) {
+            return recipe.predicted.ph; // a concentrated recipe beyond the model: read at volume
+        }
+    }();
+    const std::string at_volume =
+        "about " + format_number(std::round(check_ml)) + " mL, before making up to volume";
     if (req.route == Route::stocks) {
         steps.push_back("Rinse a " + format_number(req.volume_ml) + " mL volumetric flask with HPLC-grade water.");
         add_amount_steps(lib, recipe, steps);
+        steps.push_back("Make up to the mark with water at " + format_number(req.temperature_c) +
+                        " °C and mix well.");
+        steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
+                        ph_text(recipe.predicted.ph) +
+                        " is predicted. If the meter reads more than 0.05 away, check the meter "
+                        "calibration and the stock concentrations before adjusting.");
     } else {
         steps.push_back("Put about " + format_number(water_ml) +
                         " mL of HPLC-grade water (about 80 % of the final volume) in a clean beaker with a stirrer.");
@@ -617,30 +641,36 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         steps.push_back("While stirring, add " + titrant.name +
                         (neat ? " as supplied (neat), drop by drop,"
                               : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
-                        " until the meter reads " + ph_text(req.target_ph) + "; about " + predicted +
-                        " is predicted.");
-    } else {
+                        " until the meter reads " + ph_text(check_ph) + " (the pH predicted at " +
+                        at_volume + "; " + ph_text(req.target_ph) + " after making up); about " +
+                        predicted + " is predicted.");
+    } else if (req.route == Route::mix) {
         steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
+                        ph_text(check_ph) + " is predicted at " + at_volume + " (" +
                         ph_text(recipe.predicted.ph) +
-                        " is predicted. If the meter reads more than 0.05 away, check the meter "
+                        " after making up). If the meter reads more than 0.05 away, check the meter "
                         "calibration and the weighings before adjusting.");
     }
     if (req.route != Route::stocks)
         steps.push_back("Transfer to a " + format_number(req.volume_ml) +
                         " mL volumetric flask, rinse the beaker into it, and make up to the mark "
                         "with water at " + format_number(req.temperature_c) + " °C; mix well.");
-    else
-        steps.push_back("Make up to the mark with water at " + format_number(req.temperature_c) +
-                        " °C and mix well.");
     steps.push_back("Filter through a 0.45 µm (or 0.2 µm) membrane filter suited to aqueous "
                     "solutions.");
     steps.push_back("Label the bottle: contents, pH, date, preparer, expiry.");
 
     recipe.cautions = cautions_for(lib, used);
 
-    // Warnings.
+    // Warnings. The buffering range is judged on the conditional pKa′ at the solution's ionic
+    // strength, pKa′ = pKa − log10 γ(acid form) + log10 γ(base form) (the ratio of concentrations
+    // equals 1 at pH = pKa′): phosphate pK2 7.20 is 6.88 at I = 0.1 mol/L.
     auto& w = recipe.warnings;
     const double t_k = to_kelvin(req.temperature_c);
+    auto gamma_of = [&](const std::string& system, const std::string& species) {
+        for (const auto& sp : recipe.predicted.species)
+            if (sp.system == system && sp.species == species) return sp.activity_coefficient;
+        return 1.0;
+    };
     double nearest = std::numeric_limits<double>::infinity();
     std::string nearest_text;
     std::set<std::string> seen;
@@ -649,19 +679,22 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             if (!seen.insert(s.system).second) continue;
             const auto& sys = lib.system(s.system);
             for (int j = 0; j < sys.steps(); ++j) {
-                const double pka = sys.pka_at(j, t_k);
+                const double pka = sys.pka_at(j, t_k) - std::log10(gamma_of(sys.id, sys.species[j])) +
+                                   std::log10(gamma_of(sys.id, sys.species[j + 1]));
                 if (std::abs(pka - req.target_ph) < nearest) {
                     nearest = std::abs(pka - req.target_ph);
-                    nearest_text = sys.id + " pKa " + format_fixed(pka, 2);
+                    nearest_text = sys.id + " pKa′ " + format_fixed(pka, 2) + " (pKa " +
+                                   format_fixed(sys.pka_at(j, t_k), 2) + ")";
                 }
             }
         }
     if (nearest > 1.0)
         w.push_back({"ph-outside-pka-range", Warning::Severity::warning,
                      ph_text(req.target_ph) + " is " + format_fixed(nearest, 2) +
-                         " pH units from the nearest pKa (" + nearest_text + " at " +
-                         format_number(req.temperature_c) +
-                         " °C); outside pKa ± 1 the solution buffers poorly."});
+                         " pH units from the nearest conditional pKa′ (" + nearest_text + " at " +
+                         format_number(req.temperature_c) + " °C and I = " +
+                         format_fixed(recipe.predicted.ionic_strength_mol_per_l, 3) +
+                         " mol/L); outside pKa′ ± 1 the solution buffers poorly."});
     if (recipe.predicted.buffer_capacity_mol_per_l < low_buffer_capacity)
         w.push_back({"low-buffer-capacity", Warning::Severity::caution,
                      "Buffer capacity " + format_fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +

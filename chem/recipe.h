@@ -65,6 +65,8 @@ struct RecipeRequest {
     /// What concentration_mol_per_l counts (and, for an ionic-strength target, what the search
     /// varies); absent → default_basis(route).
     std::optional<ConcentrationBasis> basis;
+    /// Activity coefficients of the prediction and of every search (Davies by default).
+    ActivityModel activity_model = ActivityModel::davies;
     /// Purity (mass fraction) overrides per reagent id; absent → the library's assay_fraction.
     std::vector<std::pair<std::string, double>> purity_overrides;
 };

@@ -1,6 +1,8 @@
 #include "chem/solvent.h"
 
 #include "chem/error.h"
+#include "chem/units.h"
+#include "chem/water.h"
 
 #include <algorithm>
 #include <cmath>
@@ -39,6 +41,12 @@ bool Solvent::is_flammable() const {
         if (h == "H224" || h == "H225" || h == "H226")
             return true;
     return false;
+}
+
+double Solvent::density_at(double temperature_c) const {
+    if (density_from_water_model)
+        return water_density_g_per_ml(to_kelvin(temperature_c));
+    return density_g_per_ml * (1.0 - expansion_per_k * (temperature_c - density_temperature_c));
 }
 
 UvTable::Lookup UvTable::at(double amount) const {

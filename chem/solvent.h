@@ -23,6 +23,10 @@ struct Solvent {
     double molar_mass_g_per_mol = 0; ///< from the formula, IUPAC 2021 weights
     double density_g_per_ml = 0;     ///< at density_temperature_c
     double density_temperature_c = 20;
+    /// Cubical expansion coefficient α in 1/K near density_temperature_c (0: none recorded).
+    double expansion_per_k = 0;
+    /// Water's density comes from Tanaka et al. (2001) at any temperature rather than α.
+    bool density_from_water_model = false;
     double viscosity_mpa_s = 0; ///< at viscosity_temperature_c
     double viscosity_temperature_c = 25;
     double uv_cutoff_nm = 0;                 ///< 1 cm path against water, absorbance 1
@@ -36,6 +40,9 @@ struct Solvent {
     std::string note;
 
     bool is_flammable() const; ///< H224–H226 or GHS02
+    /// Density in g/mL at temperature_c: Tanaka et al. (2001) for water, else
+    /// ρ(T) = ρ(T0)·(1 − α (T − T0)) with the recorded α (ρ(T0) when none is recorded).
+    double density_at(double temperature_c) const;
 };
 
 /// How an additive's amount is stated: % v/v of the liquid as supplied, % w/v (g per 100 mL) of
@@ -73,6 +80,9 @@ struct Additive {
     std::string
         solubility_group;     ///< key into the solubility tables ("potassium-phosphate"), "" none
     bool short_lived = false; ///< loses a component from solution within a day (NH4HCO3)
+    /// A caution for mass spectrometry beyond volatility (triethylamine's lasting background).
+    std::string ms_caution;
+    std::string ms_caution_source;
     std::string note;
 };
 

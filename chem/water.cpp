@@ -22,11 +22,19 @@ double water_permittivity(double temperature_k) {
     return 87.740 - 0.40008 * t + 9.398e-4 * t * t - 1.410e-6 * t * t * t;
 }
 
+double debye_huckel_a_for(double permittivity, double temperature_k) {
+    // A = e^3 (2 N_A)^1/2 / (ln10 (4 pi eps0 eps_r k T)^3/2) with c in mol/L, collapsed into the
+    // usual numerical constant 1.82483e6 (Robinson & Stokes, Electrolyte Solutions).
+    const double et = permittivity * temperature_k;
+    return 1.82483e6 / (et * std::sqrt(et));
+}
+
 double debye_huckel_a(double temperature_k) {
-    // A = e^3 (2 N_A rho)^1/2 / (ln10 (4 pi eps0 eps_r k T)^3/2 ...) collapsed into the usual
-    // numerical constant 1.82483e6 for rho in g/mL (Robinson & Stokes, Electrolyte Solutions).
-    const double et = water_permittivity(temperature_k) * temperature_k;
-    return 1.82483e6 * std::sqrt(water_density_g_per_ml(temperature_k)) / (et * std::sqrt(et));
+    return debye_huckel_a_for(water_permittivity(temperature_k), temperature_k);
+}
+
+double debye_huckel_a_molal(double temperature_k) {
+    return debye_huckel_a(temperature_k) * std::sqrt(water_density_g_per_ml(temperature_k));
 }
 
 double davies_log10_gamma(double a, int charge, double ionic_strength_mol_per_l) {

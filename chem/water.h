@@ -14,9 +14,19 @@ double water_density_g_per_ml(double temperature_k);
 /// ε = 87.740 − 0.40008 t + 9.398e−4 t² − 1.410e−6 t³ (t in °C), valid 0–100 °C.
 double water_permittivity(double temperature_k);
 
-/// Debye–Hückel limiting-law constant A in (mol/L)^−1/2 for log10 γ, from the permittivity and
-/// density of water: A = 1.82483e6 · √ρ / (ε T)^{3/2} (ρ in g/mL).
+/// Debye–Hückel limiting-law constant A on the molar scale, in (L/mol)^1/2 for log10 γ with the
+/// ionic strength in mol/L: A = 1.82483e6 / (ε T)^{3/2} (Robinson & Stokes, Electrolyte Solutions,
+/// 2nd ed. (1959), ch. 9 and Appendix 7.1, from memory), ε from water_permittivity. The Davies
+/// model works on this scale, as the solver does (mol/L).
 double debye_huckel_a(double temperature_k);
+
+/// The same constant on the molal scale, in (kg/mol)^1/2 for an ionic strength in mol/kg:
+/// A_m = A · √ρ_w (ρ_w in g/mL, Tanaka 2001). The specific-ion-interaction model works on it.
+double debye_huckel_a_molal(double temperature_k);
+
+/// Molar Debye–Hückel A for any solvent of relative permittivity `permittivity` at temperature_k:
+/// A = 1.82483e6 / (ε T)^{3/2} (L/mol)^1/2, used for water–organic eluents.
+double debye_huckel_a_for(double permittivity, double temperature_k);
 
 /// Davies activity coefficient (decadic): log10 γ = −A z² (√I/(1+√I) − 0.3 I)
 /// (Davies, Ion Association, 1962). @param ionic_strength_mol_per_l I; @param charge z.

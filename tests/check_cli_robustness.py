@@ -109,6 +109,13 @@ ADDITIVE_LINE = {"name": "0.1 % formic acid, 5 mM ammonium formate in water/meth
                  "detector": {"type": "uv-ms", "wavelength_nm": 254, "margin_nm": 10},
                  "column": {"ph_min": 1.5, "ph_max": 10}}
 DEMO_SEQUENCE = load("overnight-sequence.json")
+DEMO_ELUENT = load("eluent-phosphate-acetonitrile.json")
+MIXED_ELUENT = {"lines": {"A": {"parts": [{"solvent": "water", "fraction_v": 0.9},
+                                           {"solvent": "methanol", "fraction_v": 0.1}],
+                                 "additives": [{"additive": "ammonium-acetate", "mmol_per_l": 10}]},
+                           "B": {"parts": [{"solvent": "acetonitrile", "fraction_v": 1}],
+                                 "additives": [{"additive": "formic-acid", "percent_v": 0.1}]}},
+                 "composition": {"A": 30, "B": 70}, "temperature_c": 45, "activity_model": "sit"}
 SMALL_SEQUENCE = {
     "lines": {
         "A": {"name": "water", "bottle_ml": 1000, "residue_ml": 30,
@@ -176,6 +183,8 @@ BASES = [  # (command, name, document, extra arguments)
     ("sequence", "with-column", SEQUENCE_WITH_COLUMN, []),
     ("pressure", "gradient", PRESSURE, []),
     ("transfer", "to-sub-2um", TRANSFER, []),
+    ("eluent", "demo-eluent", DEMO_ELUENT, []),
+    ("eluent", "mixed", MIXED_ELUENT, []),
     ("sheet", "recipe", SHEET_RECIPE, ["--paper", "a4"]),
     ("sheet", "line", SHEET_LINE, ["--paper", "letter"]),
     ("sheet", "sequence", SHEET_SEQUENCE, []),
@@ -665,6 +674,8 @@ TOP_LEVEL = {  # result fields that must be finite numbers (or true JSON values)
     "sequence": [],
     "pressure": ["max_pressure_bar", "max_at_t_min", "plates_estimate"],
     "transfer": ["saving_fraction", "l_over_dp_change", "flow_ml_min"],
+    "eluent": ["organic_fraction_v", "ph_s_s", "ph_s_w", "delta", "ionic_strength_mol_per_l",
+               "buffer_capacity_mol_per_l"],
     "reagents": [],
     "sheet": ["pages"],
     "labels": ["pages", "labels"],
@@ -798,7 +809,7 @@ def field_ok(field, case):
         "components", "target_ph", "route", "lines", "methods", "sequence", "start", "batch",
         "parts", "volume_ml", "plans", "bottle_ml", "concentration_mol_per_l", "temperature_c",
         "acid", "base", "weigh", "titrant", "titrant_mol_per_l", "titrant_form",
-        "concentration_basis"))
+        "concentration_basis", "composition"))
 
 
 def run(index, case):

@@ -157,7 +157,7 @@ void TestCli::reagentsListsEveryRequiredId() {
           "sodium-tetraborate-decahydrate", "boric-acid", "sodium-bicarbonate", "sodium-carbonate",
           "ammonium-bicarbonate", "tris", "tris-hydrochloride", "glycine", "hydrochloric-acid",
           "sodium-hydroxide", "potassium-hydroxide", "ammonia", "sodium-chloride", "potassium-chloride",
-          "trifluoroacetic-acid", "triethylamine"})
+          "trifluoroacetic-acid", "triethylamine", "mes", "hepes", "mops", "bis-tris", "ammonium-dihydrogen-phosphate", "diammonium-hydrogen-phosphate", "perchloric-acid", "sodium-perchlorate", "sulfuric-acid", "methanesulfonic-acid", "difluoroacetic-acid", "heptafluorobutyric-acid", "hexafluoro-2-propanol", "diisopropylethylamine", "diethylamine", "ammonium-fluoride", "sodium-hexanesulfonate", "sodium-octanesulfonate", "tetrabutylammonium-hydrogen-sulfate"})
         QVERIFY2(ids.contains(id), id);
 }
 

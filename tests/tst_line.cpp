@@ -89,6 +89,9 @@ class TestLine : public QObject {
     void precipitationInTheBottle();
     void msAndColumnChecks();
     void cautionsDeferToSdsAndLocalRules();
+    void densitiesAtTheLineTemperature();
+    void hydroxideHasAUvFigure();
+    void triethylamineMsBackground();
     void badInputIsRejected_data();
     void badInputIsRejected();
 };
@@ -269,8 +272,9 @@ void TestLine::additiveUvCutoffs() {
 
 void TestLine::lineCutoffIsTheHighestPart() {
     // Acetonitrile 190 nm with 0.1 % TFA (210 nm): the TFA sets the line's cutoff. Acetone (330 nm,
-    // Burdick & Jackson, from memory) at 10 % in water sets it at acetone's neat cutoff
-    // (conservative: the neat value, not diluted).
+    // Burdick & Jackson, from memory) at 10 % in water: absorbance adds by parts, so the line
+    // reaches absorbance 1 where 0.1 · A_acetone = 1, one decade (10 nm) above acetone's cutoff
+    // falls to 320 nm (the decade-per-10-nm shape is a rule, common practice, no source).
     const QJsonObject a = run_line(
         parse(R"({"volume_ml": 1000, "parts": [{"solvent": "acetonitrile", "fraction_v": 1}],
         "additives": [{"additive": "trifluoroacetic-acid", "percent_v": 0.1}]})"));
@@ -278,9 +282,16 @@ void TestLine::lineCutoffIsTheHighestPart() {
     const QJsonObject b =
         run_line(parse(R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.9},
         {"solvent": "acetone", "fraction_v": 0.1}]})"));
-    QVERIFY(std::fabs(b["uv_cutoff_nm"].toDouble() - 330) <= 5);
+    QVERIFY(std::fabs(b["uv_cutoff_nm"].toDouble() - 320) <= 0.01);
     QCOMPARE(b["uv_limited_by"].toString(), QString("acetone"));
-    // The detector check: 254 nm is below acetone's cutoff (warning), 340 nm is within 10 nm of
+    // Two weak absorbers add: 5 % tetrahydrofuran (212 nm) and 5 % acetone (330 nm) in water give
+    // 10·log10(0.05·10^21.2 + 0.05·10^33 + 0.9·10^19) = 317 nm, and 5 % THF alone 200 nm.
+    const QJsonObject thf = run_line(parse(
+        R"({"volume_ml": 1000, "parts": [{"solvent": "water", "fraction_v": 0.95},
+        {"solvent": "tetrahydrofuran", "fraction_v": 0.05}]})"));
+    QVERIFY2(std::fabs(thf["uv_cutoff_nm"].toDouble() - 199.5) <= 0.1,
+             qPrintable(QString::number(thf["uv_cutoff_nm"].toDouble())));
+    // The detector check: 254 nm is below the line's cutoff (warning), 325 nm is within 10 nm of
     // it (caution), 400 nm is clear.
     auto with_detector = [&](double nm) {
         QJsonObject d =
@@ -290,7 +301,7 @@ void TestLine::lineCutoffIsTheHighestPart() {
         return run_line(d);
     };
     QCOMPARE(codes(with_detector(254), "warning"), QStringList{"uv-cutoff"});
-    QCOMPARE(codes(with_detector(335), "caution"), QStringList{"uv-cutoff"});
+    QCOMPARE(codes(with_detector(325), "caution"), QStringList{"uv-cutoff"});
     QVERIFY(!codes(with_detector(400)).contains("uv-cutoff"));
 }
 
@@ -436,6 +447,45 @@ void TestLine::badInputIsRejected() {
     QFETCH(QString, field);
     QFETCH(QString, contains);
     phaseplan::testing::verify_rejected(run_cli({"line", "-"}, input), field, contains);
+}
+
+void TestLine::densitiesAtTheLineTemperature() {
+    // Acetonitrile 0.7857 g/mL at 20 °C with α = 1.37e-3 1/K (CRC, from memory): 0.7803 g/mL at
+    // 25 °C; water from Tanaka et al. (2001): 0.997047 g/mL at 25 °C (IAPWS-95 gives 0.99705).
+    QJsonObject d = parse(R"({"volume_ml": 1000, "temperature_c": 25, "parts": [
+        {"solvent": "water", "fraction_v": 0.5}, {"solvent": "acetonitrile", "fraction_v": 0.5}]})");
+    const QJsonObject out = run_line(d);
+    QVERIFY(std::fabs(item(out, "acetonitrile")["density_g_per_ml"].toDouble() - 0.7803) < 2e-4);
+    QVERIFY(std::fabs(item(out, "water")["density_g_per_ml"].toDouble() - 0.99705) < 2e-5);
+    QCOMPARE(item(out, "acetonitrile")["density_temperature_c"].toDouble(), 25.0);
+    d["temperature_c"] = 20;
+    QVERIFY(std::fabs(item(run_line(d), "acetonitrile")["density_g_per_ml"].toDouble() - 0.7857) < 1e-9);
+}
+
+void TestLine::hydroxideHasAUvFigure() {
+    // NaOH and KOH carry a UV figure (no chromophore above ~200 nm, common practice, no source):
+    // no "no UV cutoff figure" caution at 210 nm.
+    for (const char* base : {"sodium-hydroxide", "potassium-hydroxide"}) {
+        QJsonObject d{{"volume_ml", 1000},
+                      {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
+                      {"additives", QJsonArray{QJsonObject{{"additive", base}, {"mmol_per_l", 10}}}},
+                      {"detector", QJsonObject{{"type", "uv"}, {"wavelength_nm", 210}}}};
+        QVERIFY2(!codes(run_line(d)).contains("uv-cutoff"), base);
+    }
+}
+
+void TestLine::triethylamineMsBackground() {
+    // Triethylamine is volatile, yet lingers in an MS source (common practice, no source): a
+    // caution with an MS detector, none with UV.
+    QJsonObject d{{"volume_ml", 1000},
+                  {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
+                  {"additives", QJsonArray{QJsonObject{{"additive", "triethylamine"}, {"percent_v", 0.1}}}},
+                  {"detector", QJsonObject{{"type", "ms"}}}};
+    const QJsonObject ms = run_line(d);
+    QVERIFY(codes(ms, "caution").contains("ms-nonvolatile"));
+    QVERIFY(!codes(ms, "warning").contains("ms-nonvolatile"));
+    d["detector"] = QJsonObject{{"type", "uv"}, {"wavelength_nm", 260}};
+    QVERIFY(!codes(run_line(d)).contains("ms-nonvolatile"));
 }
 
 QTEST_GUILESS_MAIN(TestLine)

@@ -64,6 +64,8 @@ private slots:
     void routeChangeOverEveryPairKeepsTheSystem();
     void defaultNameFollowsTheInputs_data();
     void defaultNameFollowsTheInputs();
+    void bufferingRangeUsesConditionalPka();
+    void stepsStateThePhWhereItIsRead();
 };
 
 void TestRecipe::roundTripLandsOnTarget_data() {
@@ -362,8 +364,8 @@ void TestRecipe::weakAcidTitrationsMatchHandCalculation_data() {
     // 1959, from memory); pKw 13.995 (Harned & Robinson 1940, from memory); iterated on I until it
     // no longer changes in the fourth figure. pKa values from Goldberg, Kishore & Lennen, J. Phys.
     // Chem. Ref. Data 31 (2002) 231 (from memory): formic acid 3.745, acetic acid 4.756,
-    // ammonium 9.245, carbonic acid 6.351 and 10.329. The library's formate pKa is 3.75 (CRC
-    // Handbook, from memory); the 0.005 difference moves the pH by under 0.006, inside the 0.01
+    // ammonium 9.245, carbonic acid 6.351 and 10.329. The library's formate pKa is 3.752 (Harned &
+    // Embree 1934, from memory); the 0.007 difference moves the pH by under 0.008, inside the 0.01
     // checked below.
     QTest::addColumn<QJsonObject>("request");
     QTest::addColumn<QString>("held");
@@ -495,10 +497,12 @@ void TestRecipe::basisTextAndTotalsForTheScreen() {
                                      {"titrant", "formic-acid"}, {"titrant_form", "neat"},
                                      {"concentration_mol_per_l", 0.01}});
     const QJsonObject b = lcms["basis"].toObject();
-    // Formate in all: 67.2 mmol/L with the library's pKa 3.75 (66.6 with 3.745, see the hand
+    // Formate in all: 67.5 mmol/L with the library's pKa 3.752 (Harned & Embree 1934, from memory):
+    // [HCOO−]/[HCOOH] = 10^−3.752/(10^−3 · 0.8977) = 0.1972, [HCOOH] = 0.011114/0.1972 = 0.05636,
+    // 0.0100 + 0.001114 + 0.05636 = 0.0675 (66.6 with 3.745, see the hand
     // calculation above).
     QCOMPARE(b["text"].toString(),
-             QString("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid: formate 67.2 mmol/L in all"));
+             QString("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid: formate 67.5 mmol/L in all"));
     QCOMPARE(b["held_reagent"].toString(), QString("ammonium-formate"));
     QCOMPARE(b["adjusting_reagent"].toString(), QString("formic-acid"));
     QCOMPARE(b["system"].toString(), QString("formate"));
@@ -597,8 +601,12 @@ void TestRecipe::pickersOfferOnlyFormsThatFit() {
     QCOMPARE(t.front(), QString("formic-acid"));
     for (const auto& c : tit.titrants) {
         QVERIFY(c.direction.has_value());
-        QCOMPARE(c.strong, c.reagent == "trifluoroacetic-acid" || c.reagent == "hydrochloric-acid" ||
-                               c.reagent == "sodium-hydroxide" || c.reagent == "potassium-hydroxide");
+        // Strong: fully dissociated acids (pKa below 1: TFA 0.5, heptafluorobutyric about 0.4,
+        // from memory) and the mineral acids and hydroxides.
+        static const QStringList strong = {"trifluoroacetic-acid", "hydrochloric-acid", "perchloric-acid",
+                                           "methanesulfonic-acid", "heptafluorobutyric-acid",
+                                           "sodium-hydroxide", "potassium-hydroxide"};
+        QVERIFY2(c.strong == strong.contains(QString::fromStdString(c.reagent)), c.reagent.c_str());
         if (c.reagent == "ammonia") QVERIFY(*c.direction == chem::PhDirection::raises);
         if (c.reagent == "formic-acid") QVERIFY(*c.direction == chem::PhDirection::lowers);
     }
@@ -736,6 +744,68 @@ void TestRecipe::defaultNameFollowsTheInputs() {
     if (request.contains("concentration_mol_per_l")) req.concentration_mol_per_l = request["concentration_mol_per_l"].toDouble();
     if (request.contains("ionic_strength_mol_per_l")) req.ionic_strength_mol_per_l = request["ionic_strength_mol_per_l"].toDouble();
     QCOMPARE(QString::fromStdString(chem::default_buffer_name(lib(), req)), name);
+}
+
+void TestRecipe::bufferingRangeUsesConditionalPka() {
+    // Phosphate pK2 7.20 (Goldberg et al. 2002, from memory) becomes pKa′ = pK2 + 3·log10 γ(1)
+    // ≈ 6.88 at I = 0.1 mol/L (Davies). pH 5.95 lies 1.25 below pK2 (outside ±1 by the
+    // thermodynamic value) but 0.93 below pKa′ at about I = 0.1: no warning; pH 8.1 lies
+    // within 1 of pK2 but 1.2 above pKa′: warned.
+    const auto r = [](double ph, double c) {
+        return recipe({{"target_ph", ph}, {"route", "mix"}, {"acid", "potassium-dihydrogen-phosphate"},
+                       {"base", "dipotassium-hydrogen-phosphate"}, {"concentration_mol_per_l", c}});
+    };
+    const QJsonObject high = r(8.1, 0.05);
+    QVERIFY(has_warning(high, "ph-outside-pka-range"));
+    for (const auto& w : high["warnings"].toArray())
+        if (w.toObject()["code"] == "ph-outside-pka-range")
+            QVERIFY2(w.toObject()["message"].toString().contains("pKa′"),
+                     qPrintable(w.toObject()["message"].toString()));
+    QVERIFY(!has_warning(r(5.95, 0.1), "ph-outside-pka-range"));
+}
+
+void TestRecipe::stepsStateThePhWhereItIsRead() {
+    // Titrate tris with HCl to pH 8.1: the meter is read in about 80 % of the volume plus the
+    // titrant, where the buffer is more concentrated. The step states the pH predicted there,
+    // which must equal solve() of the composition scaled to that volume, and the final pH.
+    const QJsonObject in{{"target_ph", 8.1}, {"route", "titrate"}, {"weigh", "tris"},
+                         {"titrant", "hydrochloric-acid"}, {"titrant_mol_per_l", 1.0},
+                         {"concentration_mol_per_l", 0.05}, {"volume_ml", 1000}};
+    const QJsonObject out = recipe(in);
+    const double titrant_ml = item(out, "hydrochloric-acid")["volume_ml"].toDouble();
+    const double check_ml = std::round(800.0 + titrant_ml);
+    QJsonArray comp = out["composition"].toArray();
+    for (int i = 0; i < comp.size(); ++i) {
+        QJsonObject c = comp[i].toObject();
+        c["mol_per_l"] = c["mol_per_l"].toDouble() * 1000.0 / (800.0 + titrant_ml);
+        comp[i] = c;
+    }
+    const QJsonObject s = phaseplan::command_solve(shipped_data(), {{"temperature_c", 25}, {"components", comp}}, {});
+    const QString expected = QString("meter reads pH %1").arg(s["ph"].toDouble(), 0, 'f', 2);
+    bool found = false;
+    for (const auto& st : out["steps"].toArray()) {
+        const QString t = st.toString();
+        if (t.contains("meter reads")) {
+            found = true;
+            QVERIFY2(t.contains(expected), qPrintable(t + " / " + expected));
+            QVERIFY2(t.contains("pH 8.10 after making up"), qPrintable(t));
+            QVERIFY2(t.contains(QString::number(check_ml, 'f', 0) + " mL"), qPrintable(t));
+        }
+    }
+    QVERIFY(found);
+    // The stocks route is made up first and read at the final volume.
+    const QJsonObject stocks = recipe({{"target_ph", 7.0}, {"route", "stocks"}, {"volume_ml", 250},
+                                       {"acid", "potassium-dihydrogen-phosphate"},
+                                       {"base", "dipotassium-hydrogen-phosphate"},
+                                       {"acid_stock_mol_per_l", 0.5}, {"base_stock_mol_per_l", 0.5},
+                                       {"concentration_mol_per_l", 0.05}});
+    const QJsonArray st = stocks["steps"].toArray();
+    int make_up = -1, check = -1;
+    for (int i = 0; i < st.size(); ++i) {
+        if (st[i].toString().startsWith("Make up")) make_up = i;
+        if (st[i].toString().startsWith("Check the pH")) check = i;
+    }
+    QVERIFY(make_up >= 0 && check > make_up);
 }
 
 QTEST_GUILESS_MAIN(TestRecipe)

@@ -3,6 +3,7 @@
 #include "chem/error.h"
 #include "core/app_data.h"
 #include "core/commands.h"
+#include "core/eluent_commands.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
@@ -47,6 +48,7 @@ const std::map<std::string, Entry>& command_table() {
         {"sequence", {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
         {"pressure", {phaseplan::command_pressure, "column pressure along a method's gradient"}},
         {"transfer", {phaseplan::command_transfer, "move a method to another column (USP <621> scaling)"}},
+        {"eluent", {phaseplan::command_eluent, "pH of the water-organic eluent at a pump composition and temperature"}},
 #ifdef PHASEPLAN_WITH_PRINT
         {"sheet", {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
         {"labels", {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},

@@ -68,7 +68,66 @@ chem::AcidBaseSystem system_from_json(const QJsonObject& o, const std::string& a
         s.dpka_per_k.push_back(json::optional_number(st, "dpka_per_k", sat).value_or(0.0));
         s.sources.push_back(json::optional_string(st, "source", sat).value_or(""));
     }
+    if (o.contains("eluent_shift")) {
+        const QJsonArray a = json::require_array(o, "eluent_shift", at);
+        for (int i = 0; i < a.size(); ++i) {
+            const std::string eat = json::path(json::path(at, "eluent_shift"), i);
+            const QJsonObject e = json::element_object(a, i, json::path(at, "eluent_shift"));
+            chem::OrganicShift sh;
+            sh.organic = json::require_string(e, "organic", eat);
+            sh.source = json::require_string(e, "source", eat);
+            const QJsonArray pts = json::require_array(e, "points", eat);
+            if (pts.isEmpty()) throw chem::Error(json::path(eat, "points"), "needs at least one row");
+            for (int k = 0; k < pts.size(); ++k) {
+                const std::string pat = json::path(json::path(eat, "points"), k);
+                const QJsonObject pt = json::element_object(pts, k, json::path(eat, "points"));
+                const double f = json::require_number(pt, "fraction_v", pat);
+                if (!(f > 0 && f <= 1) || (!sh.fraction_v.empty() && f <= sh.fraction_v.back()))
+                    throw chem::Error(json::path(pat, "fraction_v"),
+                                      chem::format_number(f) + " is not in (0, 1] above the row before");
+                const QJsonArray d = json::require_array(pt, "dpka", pat);
+                std::vector<double> row;
+                for (int q = 0; q < d.size(); ++q) {
+                    if (!d.at(q).isDouble()) throw chem::Error(json::path(json::path(pat, "dpka"), q), "must be a number");
+                    row.push_back(d.at(q).toDouble());
+                }
+                if (row.empty() || static_cast<int>(row.size()) > s.steps())
+                    throw chem::Error(json::path(pat, "dpka"), "needs one shift per step, for up to " +
+                                                                   std::to_string(s.steps()) + " steps");
+                sh.fraction_v.push_back(f);
+                sh.dpka.push_back(row);
+            }
+            s.eluent_shift.push_back(std::move(sh));
+        }
+    }
     return s;
+}
+
+chem::EluentSolvent eluent_solvent_from_json(const QJsonObject& o, const std::string& at) {
+    chem::EluentSolvent e;
+    e.organic = json::require_string(o, "organic", at);
+    e.permittivity_25c = json::require_positive(o, "permittivity_25c", at, 200.0);
+    e.permittivity_source = json::require_string(o, "permittivity_source", at);
+    const QJsonArray pts = json::require_array(o, "dpkw_points", at);
+    for (int k = 0; k < pts.size(); ++k) {
+        const std::string pat = json::path(json::path(at, "dpkw_points"), k);
+        const QJsonObject pt = json::element_object(pts, k, json::path(at, "dpkw_points"));
+        e.fraction_v.push_back(json::require_number(pt, "fraction_v", pat));
+        e.dpkw.push_back(json::require_number(pt, "dpkw", pat));
+    }
+    e.dpkw_source = json::require_string(o, "dpkw_source", at);
+    const std::string dat = json::path(at, "delta");
+    const QJsonObject d = json::require_object(o, "delta", at);
+    for (const char* key : {"numerator", "denominator"}) {
+        const QJsonArray a = json::require_array(d, key, dat);
+        for (int q = 0; q < a.size(); ++q) {
+            if (!a.at(q).isDouble()) throw chem::Error(json::path(json::path(dat, key), q), "must be a number");
+            (std::string(key) == "numerator" ? e.delta_numerator : e.delta_denominator).push_back(a.at(q).toDouble());
+        }
+    }
+    e.delta_max_fraction_v = json::require_number(d, "max_fraction_v", dat);
+    e.delta_source = json::require_string(d, "source", dat);
+    return e;
 }
 
 } // namespace
@@ -134,6 +193,35 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
                 lib.add_system(system_from_json(json::element_object(systems, i, "systems"), at));
             } catch (const chem::Error& e) {
                 throw e.field().rfind("systems[", 0) == 0 ? e : e.within(at);
+            }
+        }
+        if (doc.contains("eluent_solvents")) {
+            const QJsonArray es = json::require_array(doc, "eluent_solvents", "");
+            for (int i = 0; i < es.size(); ++i) {
+                const std::string at = json::path("eluent_solvents", i);
+                try {
+                    lib.add_eluent_solvent(
+                        eluent_solvent_from_json(json::element_object(es, i, "eluent_solvents"), at));
+                } catch (const chem::Error& err) {
+                    throw err.field().rfind("eluent_solvents[", 0) == 0 ? err : err.within(at);
+                }
+            }
+        }
+        if (doc.contains("sit_epsilon")) {
+            const QJsonArray eps = json::require_array(doc, "sit_epsilon", "");
+            for (int i = 0; i < eps.size(); ++i) {
+                const std::string at = json::path("sit_epsilon", i);
+                const QJsonObject e = json::element_object(eps, i, "sit_epsilon");
+                chem::SitEpsilon x;
+                x.cation = json::require_string(e, "cation", at);
+                x.anion = json::require_string(e, "anion", at);
+                x.kg_per_mol = json::require_number(e, "epsilon_kg_per_mol", at);
+                x.source = json::require_string(e, "source", at);
+                try {
+                    lib.add_sit_epsilon(x);
+                } catch (const chem::Error& err) {
+                    throw err.within(at);
+                }
             }
         }
         const QJsonArray reagents = json::require_array(doc, "reagents", "");

@@ -22,7 +22,7 @@ QJsonArray warnings_to_json(const std::vector<chem::Warning>& ws) {
 
 std::vector<chem::Component> components_from_json(const chem::Library& lib, const QJsonObject& doc,
                                                   const std::string& parent, double* temperature_c) {
-    json::reject_near_misses(doc, {"temperature_c", "components"}, parent);
+    json::reject_near_misses(doc, {"temperature_c", "components", "activity_model"}, parent);
     if (temperature_c) *temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     const QJsonArray a = json::require_array(doc, "components", parent);
     const std::string list = json::path(parent, "components");
@@ -38,6 +38,14 @@ std::vector<chem::Component> components_from_json(const chem::Library& lib, cons
         out.push_back({&r, m});
     }
     return out;
+}
+
+chem::ActivityModel activity_model_from_json(const QJsonObject& doc, const std::string& parent) {
+    const auto name = json::optional_string(doc, "activity_model", parent);
+    if (!name) return chem::ActivityModel::davies;
+    if (const auto m = chem::activity_model_from_name(*name)) return *m;
+    throw chem::Error(json::path(parent, "activity_model"),
+                      "\"" + *name + "\" is not an activity model (davies or sit)");
 }
 
 QJsonObject speciation_to_json(const chem::Speciation& s) {
@@ -56,6 +64,7 @@ QJsonObject speciation_to_json(const chem::Speciation& s) {
                        {"buffer_capacity_mol_per_l", s.buffer_capacity_mol_per_l},
                        {"species", species},
                        {"solver_iterations", s.iterations},
+                       {"activity_model", chem::activity_model_name(s.activity_model)},
                        {"warnings", warnings_to_json(s.warnings)}};
 }
 
@@ -67,8 +76,9 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
                               "weigh", "titrant", "titrant_mol_per_l", "acid_stock_mol_per_l",
                               "base_stock_mol_per_l", "concentration_mol_per_l",
                               "ionic_strength_mol_per_l", "purity_percent", "concentration_basis",
-                              "titrant_form"},
+                              "titrant_form", "activity_model"},
                              parent);
+    r.activity_model = activity_model_from_json(doc, parent);
     r.target_ph = json::require_number(doc, "target_ph", parent);
     r.temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     r.volume_ml = json::optional_number(doc, "volume_ml", parent).value_or(1000.0);
@@ -151,6 +161,7 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
                     {"ph", r.predicted.ph},
                     {"ionic_strength_mol_per_l", r.predicted.ionic_strength_mol_per_l},
                     {"buffer_capacity_mol_per_l", r.predicted.buffer_capacity_mol_per_l},
+                    {"activity_model", chem::activity_model_name(r.request.activity_model)},
                     {"steps", steps},
                     {"cautions", cautions},
                     {"warnings", warnings_to_json(r.warnings)}};

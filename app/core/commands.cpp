@@ -10,7 +10,8 @@ namespace phaseplan {
 QJsonObject command_solve(const AppData& data, const QJsonObject& input, const CommandOptions&) {
     double t = 25;
     const auto components = components_from_json(data.reagents, input, "", &t);
-    return speciation_to_json(chem::solve(data.reagents, components, t));
+    const chem::ActivityModel model = activity_model_from_json(input, "");
+    return speciation_to_json(chem::solve(data.reagents, components, t, model));
 }
 
 QJsonObject command_recipe(const AppData& data, const QJsonObject& input, const CommandOptions&) {

@@ -1,6 +1,7 @@
 #include "core/line_commands.h"
 
 #include "chem/error.h"
+#include "chem/units.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
 #include "core/pressure_commands.h"
@@ -47,6 +48,17 @@ QJsonObject per_line(const chem::LineValues& v, const std::array<bool, chem::max
     throw e.within(root);
 }
 
+/// An optional "temperature_c" within the aqueous models' range (0–60 °C).
+std::optional<double> optional_temperature_c(const QJsonObject& o, const std::string& at) {
+    const auto t = json::optional_number(o, "temperature_c", at);
+    if (t && (*t < chem::min_temperature_c || *t > chem::max_temperature_c))
+        throw chem::Error(json::path(at, "temperature_c"),
+                          chem::format_number(*t) + " °C is outside " +
+                              chem::format_number(chem::min_temperature_c) + " to " +
+                              chem::format_number(chem::max_temperature_c) + " °C");
+    return t;
+}
+
 std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const std::string& root) {
     if (!doc.contains("detector") || doc.value("detector").isNull())
         return std::nullopt;
@@ -87,7 +99,7 @@ std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
         return std::nullopt;
     const std::string at = json::path(root, "column");
     const QJsonObject o = json::require_object(doc, "column", root);
-    json::reject_near_misses(o, {"ph_min", "ph_max"}, at);
+    json::reject_near_misses(o, {"ph_min", "ph_max", "temperature_c"}, at);
     // A column given for its pressure only (dimensions, no pH range) has no pH check.
     if (!o.contains("ph_min") && !o.contains("ph_max"))
         return std::nullopt;
@@ -98,6 +110,7 @@ std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
         if (v < 0 || v > 14)
             throw chem::Error(json::path(at, key),
                               chem::format_number(v) + " is outside pH 0 to 14");
+    c.temperature_c = optional_temperature_c(o, at);
     if (c.ph_min >= c.ph_max)
         throw chem::Error(json::path(at, "ph_max"), chem::format_number(c.ph_max) +
                                                         " is not above ph_min " +
@@ -174,6 +187,21 @@ chem::NameLookup library_names(const AppData& data) {
     };
 }
 
+QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces) {
+    QJsonObject out;
+    for (const auto& tr : traces) {
+        QJsonArray pts;
+        for (const auto& p : tr.points)
+            pts.append(QJsonObject{{"t_min", p.t_min},
+                                   {"organic_fraction_v", p.organic_fraction_v},
+                                   {"ph_s_w", p.ph_s_w},
+                                   {"ph_s_s", p.ph_s_s},
+                                   {"extrapolated", p.extrapolated}});
+        out[qs(tr.method)] = QJsonObject{{"temperature_c", tr.temperature_c}, {"points", pts}};
+    }
+    return out;
+}
+
 QString Clock::iso(double minutes) const {
     // To the nearest second.
     const QDateTime t = start.addSecs(static_cast<qint64>(std::llround(minutes * 60.0)));
@@ -229,8 +257,12 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     pl.spec.field = path;
     json::reject_near_misses(o,
                              {"name", "bottle_ml", "residue_ml", "parts", "additives",
-                              "prepared_at", "shelf_life_h", "volume_ml", "detector", "column"},
+                              "prepared_at", "shelf_life_h", "volume_ml", "detector", "column",
+                              "temperature_c", "activity_model"},
                              path);
+    pl.spec.activity_model = activity_model_from_json(o, path);
+    if (auto t = optional_temperature_c(o, path))
+        pl.spec.temperature_c = *t;
     const std::string fallback_name = path.empty() ? "line" : path.substr(path.rfind('.') + 1);
     pl.spec.name = json::optional_string(o, "name", path).value_or(fallback_name);
     if (bottle_required) {
@@ -270,6 +302,9 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                 const double needed = std::max(1.0, volume_ml) * part.fraction_v;
                 if (!b.contains("volume_ml"))
                     b["volume_ml"] = needed;
+                // The line's activity model reaches its buffer unless the buffer names its own.
+                if (o.contains("activity_model") && !b.contains("activity_model"))
+                    b["activity_model"] = o.value("activity_model");
                 chem::RecipeRequest req = recipe_request_from_json(data.reagents, b, bat);
                 if (req.volume_ml < needed * (1 - 1e-9)) {
                     if (notes)
@@ -424,7 +459,7 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
         for (const auto& w : r.buffer->warnings)
             warnings.append(warning_to_json(w));
     for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column,
-                                          library_names(data)))
+                                          &data.reagents, library_names(data)))
         warnings.append(check_warning_to_json(w, nullptr));
 
     QJsonObject out{
@@ -644,6 +679,9 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     const auto pressure = sequence_pressure(data, doc, root, in, c.profiles, &pressure_notes);
     if (!pressure.empty())
         c.pressure = &pressure;
+    c.reagents = &data.reagents;
+    const std::vector<chem::EluentTrace> traces = chem::eluent_traces(c);
+    c.traces = &traces;
     const auto checks = chem::check_sequence(c);
 
     // output
@@ -753,6 +791,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"warnings", warnings}};
     if (in.waste_capacity_ml)
         out["waste_capacity_ml"] = *in.waste_capacity_ml;
+    out["eluent_trace"] = eluent_traces_to_json(traces);
     res.out = out;
     return res;
 }

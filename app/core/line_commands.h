@@ -68,6 +68,9 @@ chem::Method method_from_json(const QJsonObject& o, const std::string& name,
 /// A–D must be among other_keys (the first is named in the error).
 chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path,
                                    std::initializer_list<const char*> other_keys);
+/// The eluent pH traces of a sequence's methods: {"<method>": {"temperature_c", "points":
+/// [{"t_min", "organic_fraction_v", "ph_s_w", "ph_s_s", "extrapolated"}]}}.
+QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces);
 
 /// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
 /// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.

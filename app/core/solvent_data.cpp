@@ -38,6 +38,19 @@ chem::Solvent solvent_from_json(const QJsonObject& o, const std::string& at) {
     s.aqueous = json::optional_bool(o, "aqueous", at, false);
     s.density_g_per_ml = json::require_positive(o, "density_g_per_ml", at, 5.0);
     s.density_temperature_c = json::require_number(o, "density_temperature_c", at);
+    if (auto a = json::optional_number(o, "expansion_per_k", at)) {
+        if (*a < 0 || *a > 0.01)
+            throw chem::Error(json::path(at, "expansion_per_k"),
+                              chem::format_number(*a) + " 1/K is outside 0 to 0.01 1/K");
+        s.expansion_per_k = *a;
+        s.sources["expansion"] = json::require_string(o, "expansion_source", at);
+    }
+    if (auto m = json::optional_string(o, "density_model", at)) {
+        if (*m != "tanaka-2001")
+            throw chem::Error(json::path(at, "density_model"),
+                              "\"" + *m + "\" is not a density model (tanaka-2001)");
+        s.density_from_water_model = true;
+    }
     s.viscosity_mpa_s = json::require_positive(o, "viscosity_mpa_s", at, 100.0);
     s.viscosity_temperature_c = json::require_number(o, "viscosity_temperature_c", at);
     s.uv_cutoff_nm = json::require_positive(o, "uv_cutoff_nm", at, 1000.0);
@@ -93,6 +106,10 @@ chem::Additive additive_from_json(const QJsonObject& o, const std::string& at) {
     }
     a.solubility_group = json::optional_string(o, "solubility_group", at).value_or("");
     a.short_lived = json::optional_bool(o, "short_lived", at, false);
+    if (auto c = json::optional_string(o, "ms_caution", at)) {
+        a.ms_caution = *c;
+        a.ms_caution_source = json::require_string(o, "ms_caution_source", at);
+    }
     a.note = json::optional_string(o, "note", at).value_or("");
     return a;
 }

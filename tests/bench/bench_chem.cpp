@@ -1,6 +1,8 @@
 // Speed of the chemistry core (targets on one core: solve <= 5 µs, recipe <= 50 µs).
 //   build/tests/bench/bench_chem --benchmark_repetitions=5 --benchmark_report_aggregates_only=true
+#include "chem/eluent.h"
 #include "chem/equilibrium.h"
+#include "chem/line.h"
 #include "chem/recipe.h"
 #include "core/app_data.h"
 
@@ -83,6 +85,41 @@ void BM_RecipeMixAtIonicStrength(benchmark::State& state) {
     for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
 }
 BENCHMARK(BM_RecipeMixAtIonicStrength)->Unit(benchmark::kMicrosecond);
+
+/// 20 mmol/L phosphate pH 2.5 (line A) and acetonitrile (line B) at 35 °C.
+const chem::EluentModel& phosphate_acetonitrile() {
+    const auto& d = data();
+    static const chem::LineProfile pa = [&] {
+        chem::LineSpec a;
+        a.field = "lines.A";
+        a.parts.push_back({"", chem::design_recipe(d.reagents, mix_request()), 1.0});
+        return chem::profile_line(d.solvents, d.reagents, a);
+    }();
+    static const chem::LineProfile pb = [&] {
+        chem::LineSpec b;
+        b.field = "lines.B";
+        b.parts.push_back({"acetonitrile", std::nullopt, 1.0});
+        return chem::profile_line(d.solvents, d.reagents, b);
+    }();
+    static const chem::EluentModel model(d.solvents, d.reagents, {&pa, &pb}, 35.0);
+    return model;
+}
+
+/// One eluent solve at 55 % B (target ≤ 5 µs): the pH only (EluentModel::point), as the gradient
+/// trace and the checks use it.
+void BM_EluentPoint(benchmark::State& state) {
+    const std::vector<double> percent = {45, 55};
+    for (auto _ : state) benchmark::DoNotOptimize(phosphate_acetonitrile().point(percent));
+}
+BENCHMARK(BM_EluentPoint)->Unit(benchmark::kMicrosecond);
+
+/// The full eluent result (the `eluent` command's work without JSON): blend, s_s pH, the aqueous
+/// part's w_w pH, pKa list and warnings.
+void BM_EluentFull(benchmark::State& state) {
+    const std::vector<double> percent = {45, 55};
+    for (auto _ : state) benchmark::DoNotOptimize(phosphate_acetonitrile().solve(percent));
+}
+BENCHMARK(BM_EluentFull)->Unit(benchmark::kMicrosecond);
 
 } // namespace
 

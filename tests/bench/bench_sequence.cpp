@@ -82,7 +82,8 @@ struct Lines {
     }
 };
 
-void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = false) {
+void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = false,
+                         bool eluent = false) {
     const chem::SequenceInput in = big_plan(rows);
     static const Lines lines;
     const chem::Column column = bench::small_particle_column();
@@ -106,7 +107,11 @@ void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = fals
         for (int l = 0; l < 4; ++l)
             c.profiles[l] = &lines.profiles[l];
         c.detector = chem::Detector{"uv", 210.0, 10};
-        c.column = chem::ColumnLimits{2, 8};
+        c.column = chem::ColumnLimits{2, 8, 35.0};
+        // With the reagent library the checks trace the eluent pH of every method (every row and
+        // every 1 % of organic) for column-ph and buffer-range; without it they read the lines.
+        if (eluent)
+            c.reagents = &data().reagents;
         auto w = chem::check_sequence(c);
         benchmark::DoNotOptimize(plan.total_min);
         benchmark::DoNotOptimize(w.data());
@@ -121,6 +126,10 @@ void BM_plan_10000_injections_rows_of_1(benchmark::State& state) {
 /// The same with the pressure trace of each of the 20 methods and the pressure-limit check.
 void BM_plan_10000_injections_rows_of_1_with_pressure(benchmark::State& state) {
     run_plan_and_checks(state, 10000, true);
+}
+/// The same with the eluent pH traces (target: adds ≤ 10 % to the plan above).
+void BM_plan_10000_injections_rows_of_1_with_eluent_trace(benchmark::State& state) {
+    run_plan_and_checks(state, 10000, false, true);
 }
 /// Plan and all checks, 500 rows of 20 injections.
 void BM_plan_10000_injections_rows_of_20(benchmark::State& state) {
@@ -170,6 +179,7 @@ void BM_sequence_command_10000_rows(benchmark::State& state) {
 
 BENCHMARK(BM_plan_10000_injections_rows_of_1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1_with_pressure)->Unit(benchmark::kMillisecond);
+BENCHMARK(BM_plan_10000_injections_rows_of_1_with_eluent_trace)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_20)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_sequence_command_10000_rows)->Unit(benchmark::kMillisecond);
 BENCHMARK_MAIN();
