@@ -178,7 +178,7 @@ struct MixDesign {
 /// The shares of the system a mix pair has in common, in which the base form carries fewer
 /// protons per unit. Throws chem::Error("base") when the two are not a conjugate pair.
 std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent& acid, const Reagent& base) {
-    if (acid.id == base.id) throw Error("base", "\"" + base.id + "\" is the same as the acid form");
+    if (acid.id == base.id) throw Error("base", "\"" + base.name + "\" is the same as the acid form");
     for (const auto& s : acid.systems) {
         const SystemShare* other = base.share(s.system);
         if (!other) continue;
@@ -188,9 +188,9 @@ std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent
     bool any_shared = false;
     for (const auto& s : acid.systems) any_shared |= base.has_system(s.system);
     if (!any_shared)
-        throw Error("base", "\"" + base.id + "\" and \"" + acid.id +
+        throw Error("base", "\"" + base.name + "\" and \"" + acid.name +
                                 "\" share no acid-base system, so they are not a conjugate pair");
-    throw Error("base", "\"" + base.id + "\" is not a more basic form than \"" + acid.id +
+    throw Error("base", "\"" + base.name + "\" is not a more basic form than \"" + acid.name +
                             "\"; swap acid and base");
 }
 
@@ -224,7 +224,7 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
             auto [a0, b0] = amounts(total, 0.0);
             auto [a1, b1] = amounts(total, 1.0);
             throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by mixing " +
-                                         acid.id + " and " + base.id + " at " +
+                                         acid.name + " and " + base.name + " at " +
                                          format_number(total) + " mol/L and " +
                                          format_number(req.temperature_c) + " °C: the mix spans " +
                                          ph_text(pair.ph(a0, b0)) + " to " + ph_text(pair.ph(a1, b1)));
@@ -347,7 +347,7 @@ MixDesign design_mix_on_salt(const Library& lib, const RecipeRequest& req, const
         const bool both = !acid.spectators.empty() || acid.systems.size() > 1;
         throw Error("concentration_basis",
                     "\"salt\" holds the salt of the pair at the concentration, but " +
-                        std::string(both ? "both " : "neither of ") + "\"" + acid.id + "\" and \"" + base.id +
+                        std::string(both ? "both " : "neither of ") + "\"" + acid.name + "\" and \"" + base.name +
                         "\" carr" + (both ? "y" : "ies") +
                         " a counter-ion; use \"total\", or the titrate route to say which reagent is weighed");
     }
@@ -362,11 +362,11 @@ MixDesign design_mix_on_salt(const Library& lib, const RecipeRequest& req, const
     double c = 0, ph0 = 0, ph1 = 0;
     const auto d = search.design(&c, &ph0, &ph1);
     if (!d)
-        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by adding " + partner.id + " to " +
-                                     format_number(c) + " mol/L " + salt->id + " at " +
+        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by adding " + partner.name + " to " +
+                                     format_number(c) + " mol/L " + salt->name + " at " +
                                      format_number(req.temperature_c) + " °C: the mixture spans " +
-                                     ph_text(ph0) + " (" + salt->id + " alone) to " + ph_text(ph1) + " (" +
-                                     format_number(rule.n_max) + " mol/L of " + partner.id + ")");
+                                     ph_text(ph0) + " (" + salt->name + " alone) to " + ph_text(ph1) + " (" +
+                                     format_number(rule.n_max) + " mol/L of " + partner.name + ")");
     MixDesign m;
     m.system = &lib.system(sa->system);
     (salt == &acid ? m.c_acid : m.c_base) = d->c_held;
@@ -379,7 +379,7 @@ std::string fitting_titrants(const Library& lib, const Reagent& weighed) {
     std::string out;
     for (const Reagent& r : lib.reagents())
         if (const auto fit = titrant_fit(lib, weighed, r))
-            out += (out.empty() ? "" : ", ") + r.id + " (" + direction_name(fit->direction) + ")";
+            out += (out.empty() ? "" : ", ") + r.name + " (" + r.id + ", " + direction_name(fit->direction) + ")";
     return out.empty() ? "none in the library" : out;
 }
 
@@ -502,7 +502,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                                      " mol/L is given for a neat titrant: remove it, or set "
                                                      "titrant_form to \"solution\"");
             if (titrant.form != PhysicalForm::liquid)
-                throw Error("titrant_form", "\"" + titrant.id +
+                throw Error("titrant_form", "\"" + titrant.name +
                                                 "\" is a solid and cannot be added neat: use titrant_form "
                                                 "\"solution\" with its titrant_mol_per_l");
         } else {
@@ -515,10 +515,10 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                                      format_number(max_titrant_mol_per_l) + " mol/L");
         }
         if (weigh.id == titrant.id)
-            throw Error("titrant", "\"" + titrant.id + "\" is the weighed reagent itself");
+            throw Error("titrant", "\"" + titrant.name + "\" is the weighed reagent itself");
         const auto fit = titrant_fit(lib, weigh, titrant);
         if (!fit)
-            throw Error("titrant", "\"" + titrant.id + "\" cannot bring \"" + weigh.id +
+            throw Error("titrant", "\"" + titrant.name + "\" cannot bring \"" + weigh.name +
                                        "\" to pH: it is neither another form of its acid-base system nor a "
                                        "strong acid or base; titrants that fit: " +
                                        fitting_titrants(lib, weigh));
@@ -530,7 +530,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         if (total) {
             const SystemShare* ws = sys ? weigh.share(sys->id) : nullptr;
             if (!ws)
-                throw Error("concentration_basis", "\"total\" counts an acid-base system, and \"" + weigh.id +
+                throw Error("concentration_basis", "\"total\" counts an acid-base system, and \"" + weigh.name +
                                                        "\" has none; use \"salt\"");
             rule.held_per_c = 1.0 / ws->count;
             if (const SystemShare* ts = titrant.share(sys->id)) rule.held_less_per_n = ts->count / ws->count;
@@ -542,23 +542,23 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             const bool raises = ph1 > ph0;
             std::string why;
             if ((raises && req.target_ph < ph0) || (!raises && req.target_ph > ph0))
-                why = "the weighed " + weigh.id + " alone gives " + ph_text(ph0) + ", and " + titrant.id +
+                why = "the weighed " + weigh.name + " alone gives " + ph_text(ph0) + ", and " + titrant.name +
                       " can only " + (raises ? "raise" : "lower") + " it";
             else if (search.n_high(c) < rule.n_max)
-                why = titrant.id + " reaches only " + ph_text(ph1) + " when it brings all of the " +
+                why = titrant.name + " reaches only " + ph_text(ph1) + " when it brings all of the " +
                       format_number(c) + " mol/L total " + sys->id;
             else if (rule.n_max >= max_concentration_mol_per_l)
-                why = titrant.id + " reaches only " + ph_text(ph1) + " at " +
+                why = titrant.name + " reaches only " + ph_text(ph1) + " at " +
                       format_number(max_concentration_mol_per_l) +
                       " mol/L in the final solution, the most the designer adds";
             else
-                why = titrant.id + (neat ? " as supplied" : " at " + format_number(req.titrant_mol_per_l) + " mol/L") +
+                why = titrant.name + (neat ? " as supplied" : " at " + format_number(req.titrant_mol_per_l) + " mol/L") +
                       " reaches only " + ph_text(ph1) + " before its volume would fill 90 % of the flask";
             throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by titrating " +
-                                         (total ? weigh.id + " at " + format_number(c) + " mol/L total " +
+                                         (total ? weigh.name + " at " + format_number(c) + " mol/L total " +
                                                       (sys ? sys->id : std::string())
-                                                : format_number(c) + " mol/L " + weigh.id) +
-                                         " with " + titrant.id + " at " + format_number(req.temperature_c) +
+                                                : format_number(c) + " mol/L " + weigh.name) +
+                                         " with " + titrant.name + " at " + format_number(req.temperature_c) +
                                          " °C: " + why + " (the titration spans " + ph_text(ph0) + " to " +
                                          ph_text(ph1) + ")");
         }

@@ -25,6 +25,7 @@
 #include <QLocale>
 #include <QSignalSpy>
 #include <QTemporaryDir>
+#include <QRegularExpression>
 #include <QTest>
 
 #include <memory>
@@ -184,6 +185,65 @@ private slots:
         QCOMPARE(d.errorField(), QString("target_ph"));
     }
 
+    // Issue "buffer conventions": the LC-MS way of writing a buffer (10 mM ammonium formate,
+    // brought to pH 3.0 with formic acid) can be chosen, is said on screen, and a route change
+    // never swaps a reagent silently. Expected totals: tst_recipe's hand calculation (formate
+    // 67.5 mmol/L in all with pKa 3.752, Harned & Embree 1934, from memory).
+    void buffer_conventions_are_said_and_kept() {
+        auto ws = open_workspace(fresh_db());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setSystem("formate");
+        d.setAcid("formic-acid");
+        d.setBase("ammonium-formate");
+        d.setTargetPh(3.0);
+        d.setConcentrationMmolPerL(10);
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        QCOMPARE(d.concentrationBasis(), QString("total"));
+        QVERIFY2(d.basisText().contains("total formate"), qPrintable(d.basisText()));
+        // The pickers show formulas and only fitting forms: no acid form is offered as a base.
+        auto ids = [](const QVariantList& l) {
+            QStringList out;
+            for (const QVariant& v : l) out << v.toMap().value("id").toString();
+            return out;
+        };
+        QVERIFY(ids(d.acidChoices()).contains("formic-acid"));
+        QVERIFY(!ids(d.baseChoices()).contains("formic-acid"));
+        QVERIFY(d.acidChoices().first().toMap().value("name").toString().contains("HCOOH"));
+        // Titrate: the salt is weighed, its partner becomes the titrant, neat, and a note says so.
+        d.setRoute("titrate");
+        QCOMPARE(d.weigh(), QString("ammonium-formate"));
+        QCOMPARE(d.titrant(), QString("formic-acid"));
+        QCOMPARE(d.titrantForm(), QString("neat"));
+        QVERIFY(!d.routeNotes().isEmpty());
+        const QStringList titrants = ids(d.titrantChoices());
+        for (const char* id : {"formic-acid", "ammonia", "trifluoroacetic-acid", "hydrochloric-acid"})
+            QVERIFY2(titrants.contains(id), id);
+        QVERIFY(!titrants.contains("sodium-formate"));
+        d.setConcentrationBasis("salt");
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        QVERIFY2(d.basisText().startsWith("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"),
+                 qPrintable(d.basisText()));
+        QVERIFY2(d.basisText().contains("67.5 mmol/L"), qPrintable(d.basisText()));
+        QVERIFY2(d.defaultName().contains("ammonium formate") && d.defaultName().contains("salt basis"),
+                 qPrintable(d.defaultName()));
+        // A neat liquid is pipetted: its volume comes first.
+        bool pipetted = false;
+        for (const QVariant& v : d.items()) {
+            const QVariantMap it = v.toMap();
+            if (it.value("reagent") == "formic-acid") pipetted = it.value("amount").toString().contains(QRegularExpression("^[0-9.,]+ mL \\("));
+        }
+        QVERIFY(pipetted);
+        // The saved inputs keep the basis and the form.
+        const QVariantMap doc = d.document();
+        QCOMPARE(doc.value("concentration_basis").toString(), QString("salt"));
+        QCOMPARE(doc.value("titrant_form").toString(), QString("neat"));
+        QVERIFY(!doc.contains("titrant_mol_per_l"));
+        // A solid strong titrant cannot be neat: picking NaOH makes it a solution.
+        d.setTitrant("sodium-hydroxide");
+        QCOMPARE(d.titrantForm(), QString("solution"));
+    }
+
     void curves_agree_with_the_recipe() {
         auto ws = open_workspace(fresh_db());
         BufferDesigner d;
@@ -323,12 +383,12 @@ private slots:
         const QString made = d.newBuffer();
         QVERIFY(d.autoName());
         QCOMPARE(made, d.defaultName());
-        QCOMPARE(made, QString("25 mM phosphate pH 7.00"));
+        QCOMPARE(made, QString("25 mM sodium phosphate pH 7.0"));
         // The name follows the inputs until the buffer is named.
         d.setTargetPh(6.8);
-        QCOMPARE(d.bufferName(), QString("25 mM phosphate pH 6.80"));
-        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM phosphate pH 6.80"));
-        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM phosphate pH 7.00"));
+        QCOMPARE(d.bufferName(), QString("25 mM sodium phosphate pH 6.8"));
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM sodium phosphate pH 6.8"));
+        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM sodium phosphate pH 7.0"));
         QCOMPARE(d.renameBuffer("Assay buffer"), QString());
         d.setTargetPh(6.9);
         QCOMPARE(d.bufferName(), QString("Assay buffer"));

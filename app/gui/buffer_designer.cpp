@@ -1,5 +1,7 @@
 #include "buffer_designer.h"
 
+#include "chem/recipe_roles.h"
+#include "core/chem_json.h"
 #include "core/commands.h"
 #include "plan.h"
 #include "workspace.h"
@@ -269,18 +271,22 @@ QString BufferDesigner::free_name(const QString& wanted) const {
 }
 
 QString BufferDesigner::defaultName() const {
-    // "20 mM phosphate pH 2.50": what a method's mobile-phase line says.
-    QString system = system_;
-    if (workspace_ && workspace_->ready())
-        for (const chem::AcidBaseSystem& s : workspace_->data().reagents.systems())
-            if (QString::fromStdString(s.id) == system_) {
-                system = QString::fromStdString(s.name).section(QLatin1Char(' '), 0, 0).toLower();
-                break;
-            }
+    // What a method's mobile-phase line says: "20 mM sodium phosphate pH 2.5", "10 mM ammonium
+    // formate pH 3.0 (salt basis)". Read from the request the core would be given, so the screen,
+    // the saved buffer and the sheet name it alike.
+    if (workspace_ && workspace_->ready()) {
+        const chem::Library& lib = workspace_->data().reagents;
+        QJsonObject doc = requestDocument();
+        doc.remove("name");
+        doc.remove("auto_name");
+        std::string name;
+        const FieldError e = guarded([&] { name = chem::default_buffer_name(lib, recipe_request_from_json(lib, doc, "")); });
+        if (e.empty() && !name.empty()) return QString::fromStdString(name);
+    }
     const QString strength = strength_basis_ == QLatin1String("ionic_strength")
                                  ? tr("I = %1 mM").arg(format_fixed_text(ionic_strength_mmol_per_l_))
                                  : tr("%1 mM").arg(format_fixed_text(concentration_mmol_per_l_));
-    return tr("%1 %2 pH %3").arg(strength, system, QString::fromStdString(chem::format_fixed(target_ph_, 2)));
+    return tr("%1 buffer pH %2").arg(strength, QString::fromStdString(chem::format_fixed(target_ph_, 1)));
 }
 
 void BufferDesigner::follow_default_name() {
@@ -348,12 +354,68 @@ void BufferDesigner::after_edit() {
     emit edited();
 }
 
-void BufferDesigner::setRoute(const QString& v) { set_input(route_, v); }
+namespace {
+std::optional<chem::Route> route_from(const QString& v) {
+    if (v == QLatin1String("mix")) return chem::Route::mix;
+    if (v == QLatin1String("titrate")) return chem::Route::titrate;
+    if (v == QLatin1String("stocks")) return chem::Route::stocks;
+    return std::nullopt;
+}
+} // namespace
+
+void BufferDesigner::setRoute(const QString& v) {
+    if (v == route_) return;
+    const auto from = route_from(route_), to = route_from(v);
+    QVariantList notes;
+    if (from && to && workspace_ && workspace_->ready()) {
+        // The reagents follow the route without being swapped for unrelated ones; what changed is
+        // said beside the fields (chem::map_reagents_to_route).
+        chem::RouteReagents cur;
+        cur.acid = acid_.toStdString();
+        cur.base = base_.toStdString();
+        cur.weigh = weigh_.toStdString();
+        cur.titrant = titrant_.toStdString();
+        cur.titrant_form = titrant_form_ == QLatin1String("neat") ? chem::TitrantForm::neat : chem::TitrantForm::solution;
+        cur.basis = concentrationBasis() == QLatin1String("salt") ? chem::ConcentrationBasis::salt
+                                                                  : chem::ConcentrationBasis::total;
+        chem::RouteChange change;
+        const FieldError e = guarded([&] {
+            change = chem::map_reagents_to_route(workspace_->data().reagents, system_.toStdString(), *from, *to, cur);
+        });
+        if (e.empty()) {
+            const bool was_loading = loading_;
+            loading_ = true;
+            acid_ = QString::fromStdString(change.reagents.acid);
+            base_ = QString::fromStdString(change.reagents.base);
+            weigh_ = QString::fromStdString(change.reagents.weigh);
+            titrant_ = QString::fromStdString(change.reagents.titrant);
+            titrant_form_ = QString::fromLatin1(chem::titrant_form_name(change.reagents.titrant_form));
+            concentration_basis_ = QString::fromLatin1(chem::basis_name(change.reagents.basis));
+            loading_ = was_loading;
+            for (const chem::RouteNote& n : change.notes)
+                notes.append(QVariantMap{{"field", QString::fromStdString(n.field)},
+                                         {"message", QString::fromStdString(n.message)}});
+        }
+    }
+    route_ = v;
+    if (route_notes_ != notes) {
+        route_notes_ = notes;
+        emit routeNotesChanged();
+    }
+    rebuild_choices();
+    emit inputsChanged();
+    if (loading_) return;
+    after_edit();
+}
 void BufferDesigner::setSystem(const QString& v) {
     if (v == system_) return;
     const bool was_loading = loading_;
     loading_ = true; // one recompute for the system and its default reagents together
     system_ = v;
+    if (!route_notes_.isEmpty()) {
+        route_notes_.clear();
+        emit routeNotesChanged();
+    }
     rebuild_choices();
     // Keep the chosen reagents when they belong to the new system, else take its most acidic and
     // most basic forms (the ends of the list), the usual pair to mix.
@@ -368,16 +430,43 @@ void BufferDesigner::setSystem(const QString& v) {
         if (!in_choices(base_)) base_ = last;
         if (!in_choices(weigh_)) weigh_ = first;
     }
+    rebuild_choices(); // the titrants follow the weighed reagent
+    auto in_list = [](const QVariantList& list, const QString& id) {
+        return std::any_of(list.begin(), list.end(), [&](const QVariant& c) { return c.toMap().value("id").toString() == id; });
+    };
+    if (!titrant_choices_.isEmpty() && !in_list(titrant_choices_, titrant_))
+        titrant_ = titrant_choices_.first().toMap().value("id").toString();
     loading_ = was_loading;
     emit inputsChanged();
     if (loading_) return;
     after_edit();
 }
-void BufferDesigner::setAcid(const QString& v) { set_input(acid_, v); }
+void BufferDesigner::setAcid(const QString& v) {
+    set_input(acid_, v);
+    rebuild_choices(); // the base forms offered are those more basic than the acid
+}
 void BufferDesigner::setBase(const QString& v) { set_input(base_, v); }
-void BufferDesigner::setWeigh(const QString& v) { set_input(weigh_, v); }
-void BufferDesigner::setTitrant(const QString& v) { set_input(titrant_, v); }
+void BufferDesigner::setWeigh(const QString& v) {
+    set_input(weigh_, v);
+    rebuild_choices(); // the titrants offered are those that fit the weighed reagent
+}
+void BufferDesigner::setTitrant(const QString& v) {
+    // A solid titrant (NaOH pellets, a salt) is added as a solution: the "neat" choice stays only
+    // for liquids as supplied (formic acid, ammonia solution).
+    if (titrant_form_ == QLatin1String("neat") && workspace_ && workspace_->ready())
+        if (const chem::Reagent* r = workspace_->data().reagents.find_reagent(v.toStdString()))
+            if (r->form != chem::PhysicalForm::liquid) {
+                titrant_form_ = QStringLiteral("solution");
+                if (v == titrant_) after_edit();
+            }
+    set_input(titrant_, v);
+}
 void BufferDesigner::setTitrantMolPerL(double v) { set_input(titrant_mol_per_l_, v); }
+void BufferDesigner::setTitrantForm(const QString& v) { set_input(titrant_form_, v); }
+QString BufferDesigner::concentrationBasis() const {
+    return concentration_basis_.isEmpty() ? effective_basis_ : concentration_basis_;
+}
+void BufferDesigner::setConcentrationBasis(const QString& v) { set_input(concentration_basis_, v); }
 void BufferDesigner::setAcidStockMolPerL(double v) { set_input(acid_stock_mol_per_l_, v); }
 void BufferDesigner::setBaseStockMolPerL(double v) { set_input(base_stock_mol_per_l_, v); }
 void BufferDesigner::setTargetPh(double v) { set_input(target_ph_, v); }
@@ -387,10 +476,35 @@ void BufferDesigner::setStrengthBasis(const QString& v) { set_input(strength_bas
 void BufferDesigner::setConcentrationMmolPerL(double v) { set_input(concentration_mmol_per_l_, v); }
 void BufferDesigner::setIonicStrengthMmolPerL(double v) { set_input(ionic_strength_mmol_per_l_, v); }
 
+namespace {
+/// One picker entry: the library's name with the formula ("Formic acid 98 % · HCOOH"), and for a
+/// titrant what it does to the weighed reagent ("lowers pH").
+QVariantList role_entries(const std::vector<chem::RoleChoice>& choices) {
+    QVariantList list;
+    for (const chem::RoleChoice& c : choices) {
+        QString detail;
+        if (c.direction)
+            detail = *c.direction == chem::PhDirection::lowers ? QObject::tr("lowers pH") : QObject::tr("raises pH");
+        if (c.direction && c.strong) detail += QObject::tr(", strong");
+        QString shown = QString::fromStdString(c.name);
+        if (!c.formula.empty()) shown += QStringLiteral(" · ") + QString::fromStdString(c.formula);
+        if (!detail.isEmpty()) shown += QStringLiteral(" (") + detail + QLatin1Char(')');
+        list.append(QVariantMap{{"id", QString::fromStdString(c.reagent)},
+                                {"name", shown},
+                                {"formula", QString::fromStdString(c.formula)},
+                                {"detail", detail}});
+    }
+    return list;
+}
+} // namespace
+
 void BufferDesigner::rebuild_choices() {
     system_choices_.clear();
     reagent_choices_.clear();
     titrant_choices_.clear();
+    acid_choices_.clear();
+    base_choices_.clear();
+    weigh_choices_.clear();
     if (workspace_ && workspace_->ready()) {
         const chem::Library& lib = workspace_->data().reagents;
         for (const chem::AcidBaseSystem& s : lib.systems())
@@ -405,13 +519,20 @@ void BufferDesigner::rebuild_choices() {
             QVariantMap entry{{"id", QString::fromStdString(r.id)},
                               {"name", QString::fromStdString(r.name)},
                               {"formula", QString::fromStdString(r.formula)}};
-            if (r.is_strong_acid() || r.is_strong_base()) titrant_choices_.append(entry);
             if (const chem::SystemShare* sh = r.share(system_.toStdString()))
                 forms.push_back({sh->protons_removed / std::max(sh->count, 1e-9), entry});
         }
         std::stable_sort(forms.begin(), forms.end(),
                          [](const Choice& a, const Choice& b) { return a.protons_per_unit < b.protons_per_unit; });
         for (Choice& c : forms) reagent_choices_.append(c.entry);
+        // The role pickers: only the forms that fit (chem::reagent_choices).
+        const std::string sys = system_.toStdString();
+        const chem::RoleChoices mix = chem::reagent_choices(lib, sys, chem::Route::mix, acid_.toStdString());
+        acid_choices_ = role_entries(mix.acid_forms);
+        base_choices_ = role_entries(mix.base_forms);
+        const chem::RoleChoices tit = chem::reagent_choices(lib, sys, chem::Route::titrate, {}, weigh_.toStdString());
+        weigh_choices_ = role_entries(tit.weighable);
+        titrant_choices_ = role_entries(tit.titrants);
     }
     emit choicesChanged();
 }
@@ -425,13 +546,15 @@ QJsonObject BufferDesigner::requestDocument() const {
     doc.insert("volume_ml", volume_ml_);
     doc.insert("route", route_);
     doc.insert("system", system_);
-    for (const char* k : {"acid", "base", "weigh", "titrant", "titrant_mol_per_l", "acid_stock_mol_per_l",
-                          "base_stock_mol_per_l", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
+    for (const char* k : {"acid", "base", "weigh", "titrant", "titrant_mol_per_l", "titrant_form", "acid_stock_mol_per_l",
+                          "base_stock_mol_per_l", "concentration_mol_per_l", "ionic_strength_mol_per_l",
+                          "concentration_basis"})
         doc.remove(QLatin1String(k));
     if (route_ == QLatin1String("titrate")) {
         doc.insert("weigh", weigh_);
         doc.insert("titrant", titrant_);
-        doc.insert("titrant_mol_per_l", titrant_mol_per_l_);
+        doc.insert("titrant_form", titrant_form_);
+        if (titrant_form_ != QLatin1String("neat")) doc.insert("titrant_mol_per_l", titrant_mol_per_l_);
     } else {
         doc.insert("acid", acid_);
         doc.insert("base", base_);
@@ -440,10 +563,12 @@ QJsonObject BufferDesigner::requestDocument() const {
             doc.insert("base_stock_mol_per_l", base_stock_mol_per_l_);
         }
     }
-    if (strength_basis_ == QLatin1String("ionic_strength"))
+    if (strength_basis_ == QLatin1String("ionic_strength")) {
         doc.insert("ionic_strength_mol_per_l", ionic_strength_mmol_per_l_ / 1000.0);
-    else
+    } else {
         doc.insert("concentration_mol_per_l", concentration_mmol_per_l_ / 1000.0);
+        if (!concentration_basis_.isEmpty()) doc.insert("concentration_basis", concentration_basis_);
+    }
     return doc;
 }
 
@@ -463,6 +588,8 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     str("weigh", weigh_);
     str("titrant", titrant_);
     num("titrant_mol_per_l", titrant_mol_per_l_);
+    titrant_form_ = doc.value(QLatin1String("titrant_form")).toString(QStringLiteral("solution"));
+    concentration_basis_ = doc.value(QLatin1String("concentration_basis")).toString();
     num("acid_stock_mol_per_l", acid_stock_mol_per_l_);
     num("base_stock_mol_per_l", base_stock_mol_per_l_);
     num("target_ph", target_ph_);
@@ -485,6 +612,7 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     if (!sys.isEmpty()) system_ = sys;
     QVariantMap extra = doc.toVariantMap();
     for (const char* k : {"name", "auto_name", "route", "system", "acid", "base", "weigh", "titrant", "titrant_mol_per_l",
+                          "titrant_form", "concentration_basis",
                           "acid_stock_mol_per_l", "base_stock_mol_per_l", "target_ph", "temperature_c",
                           "volume_ml", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
         extra.remove(QLatin1String(k));
@@ -525,10 +653,13 @@ void BufferDesigner::recompute() {
         for (const QJsonValue& v : out.value("steps").toArray()) steps_.append(v.toString());
         for (const QJsonValue& v : out.value("cautions").toArray()) cautions_.append(v.toString());
         predicted_ph_ = out.value("ph").toDouble();
+        basis_text_ = out.value("basis").toObject().value("text").toString();
+        effective_basis_ = out.value("concentration_basis").toString(effective_basis_);
         ionic_strength_result_mmol_per_l_ = out.value("ionic_strength_mol_per_l").toDouble() * 1000.0;
         buffer_capacity_mmol_per_l_ = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
         compute_curves(out);
     } else {
+        basis_text_.clear();
         ph_curve_.clear();
         beta_curve_.clear();
     }
@@ -560,10 +691,24 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
     double x_recipe = 0, x_max = 1, up_max = 0;
     if (titrate) {
         // Titrant volume in mL for a final concentration c of titrant: c · V / c_titrant.
+        // The titrant's own amount per mol/L of final solution, from the recipe's item: mL of the
+        // solution, or mL (g for a solid) of the reagent as supplied.
         up_max = std::max(2.0 * c_up, 1e-4);
-        x_max = titrant_mol_per_l_ > 0 ? up_max * volume_ml_ / titrant_mol_per_l_ : 0;
-        x_recipe = titrant_mol_per_l_ > 0 ? c_up * volume_ml_ / titrant_mol_per_l_ : 0;
+        double per_mol_per_l = 0;
         curve_x_label_ = tr("Titrant added (mL)");
+        for (const QJsonValue& v : recipe.value("items").toArray()) {
+            const QJsonObject it = v.toObject();
+            if (it.value("reagent").toString() != titrant_ || !(c_up > 0)) continue;
+            if (it.contains("volume_ml")) {
+                per_mol_per_l = it.value("volume_ml").toDouble() / c_up;
+            } else if (it.contains("mass_g")) {
+                per_mol_per_l = it.value("mass_g").toDouble() / c_up;
+                curve_x_label_ = tr("Titrant added (g)");
+            }
+        }
+        if (!(per_mol_per_l > 0) && titrant_mol_per_l_ > 0) per_mol_per_l = volume_ml_ / titrant_mol_per_l_;
+        x_max = up_max * per_mol_per_l;
+        x_recipe = c_up * per_mol_per_l;
     } else {
         x_recipe = total > 0 ? c_up / total : 0;
         curve_x_label_ = tr("Base form, fraction of the buffer");

@@ -59,6 +59,16 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     Q_PROPERTY(QString weigh READ weigh WRITE setWeigh NOTIFY inputsChanged)
     Q_PROPERTY(QString titrant READ titrant WRITE setTitrant NOTIFY inputsChanged)
     Q_PROPERTY(double titrantMolPerL READ titrantMolPerL WRITE setTitrantMolPerL NOTIFY inputsChanged)
+    /// "solution" (a titrant of titrantMolPerL) or "neat" (as supplied, at the library's assay).
+    Q_PROPERTY(QString titrantForm READ titrantForm WRITE setTitrantForm NOTIFY inputsChanged)
+    /// What the concentration counts: "total" (the system over all its forms) or "salt" (the
+    /// salt held at c, brought to pH by its partner). Reads the route's default until chosen.
+    Q_PROPERTY(QString concentrationBasis READ concentrationBasis WRITE setConcentrationBasis NOTIFY inputsChanged)
+    /// The basis in words, from the designed recipe ("20 mmol/L total phosphate"); "" while invalid.
+    Q_PROPERTY(QString basisText READ basisText NOTIFY resultChanged)
+    /// What the last route change did to the reagents, [{field, message}] (e.g. "KOH on KH2PO4
+    /// became K2HPO4"); cleared by the next route or system change.
+    Q_PROPERTY(QVariantList routeNotes READ routeNotes NOTIFY routeNotesChanged)
     Q_PROPERTY(double acidStockMolPerL READ acidStockMolPerL WRITE setAcidStockMolPerL NOTIFY inputsChanged)
     Q_PROPERTY(double baseStockMolPerL READ baseStockMolPerL WRITE setBaseStockMolPerL NOTIFY inputsChanged)
     Q_PROPERTY(double targetPh READ targetPh WRITE setTargetPh NOTIFY inputsChanged)
@@ -76,7 +86,13 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     Q_PROPERTY(QVariantList systemChoices READ systemChoices NOTIFY choicesChanged)
     /// [{id, name, formula}] of reagents bringing the chosen system, most acidic form first.
     Q_PROPERTY(QVariantList reagentChoices READ reagentChoices NOTIFY choicesChanged)
-    /// [{id, name}] of strong acids and bases (titrants).
+    /// Pickers that offer only the forms that fit their role, [{id, name, formula, detail}],
+    /// with `name` as shown ("Formic acid 98 % · HCOOH") and `detail` for titrants ("lowers pH").
+    Q_PROPERTY(QVariantList acidChoices READ acidChoices NOTIFY choicesChanged)
+    Q_PROPERTY(QVariantList baseChoices READ baseChoices NOTIFY choicesChanged)
+    Q_PROPERTY(QVariantList weighChoices READ weighChoices NOTIFY choicesChanged)
+    /// Titrants that fit the weighed reagent: its system's other forms first (formic acid,
+    /// ammonia), then strong acids and bases.
     Q_PROPERTY(QVariantList titrantChoices READ titrantChoices NOTIFY choicesChanged)
 
     // ---- results ----------------------------------------------------------------------------
@@ -159,6 +175,12 @@ public:
     void setTitrant(const QString& v);
     double titrantMolPerL() const { return titrant_mol_per_l_; }
     void setTitrantMolPerL(double v);
+    QString titrantForm() const { return titrant_form_; }
+    void setTitrantForm(const QString& v);
+    QString concentrationBasis() const;
+    void setConcentrationBasis(const QString& v);
+    QString basisText() const { return basis_text_; }
+    QVariantList routeNotes() const { return route_notes_; }
     double acidStockMolPerL() const { return acid_stock_mol_per_l_; }
     void setAcidStockMolPerL(double v);
     double baseStockMolPerL() const { return base_stock_mol_per_l_; }
@@ -179,6 +201,9 @@ public:
     QVariantList systemChoices() const { return system_choices_; }
     QVariantList reagentChoices() const { return reagent_choices_; }
     QVariantList titrantChoices() const { return titrant_choices_; }
+    QVariantList acidChoices() const { return acid_choices_; }
+    QVariantList baseChoices() const { return base_choices_; }
+    QVariantList weighChoices() const { return weigh_choices_; }
 
     bool valid() const { return error_.empty(); }
     QVariantList items() const { return items_; }
@@ -211,7 +236,8 @@ public:
     void loadJson(const QJsonObject& doc);
     /// Saves a copy of the inputs under `name` and opens it (duplicateBuffer). "" or why not.
     Q_INVOKABLE QString saveAs(const QString& name) { return duplicateBuffer(name); }
-    /// The name the inputs give ("20 mM phosphate pH 2.50"), as an unnamed buffer is called.
+    /// The name the inputs give ("20 mM sodium phosphate pH 2.5", chem::default_buffer_name), as
+    /// an unnamed buffer is called.
     Q_INVOKABLE QString defaultName() const;
     /// Fills a LineSeries with the pH curve, the β curve or the target line.
     /// @param which "ph", "beta", "target".
@@ -228,6 +254,7 @@ signals:
     void bufferListChanged();
     void inputsChanged();
     void choicesChanged();
+    void routeNotesChanged();
     void resultChanged();
     // The lists have their own signals, sent only when they differ: a view of the steps is not
     // rebuilt when only the amounts changed.
@@ -276,6 +303,11 @@ private:
     QString weigh_ = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
     QString titrant_ = QStringLiteral("sodium-hydroxide");
     double titrant_mol_per_l_ = 1.0;
+    QString titrant_form_ = QStringLiteral("solution");
+    QString concentration_basis_; ///< "" = the route's default (effective_basis_ after a design)
+    QString effective_basis_ = QStringLiteral("total");
+    QString basis_text_;
+    QVariantList route_notes_;
     double acid_stock_mol_per_l_ = 0.2;
     double base_stock_mol_per_l_ = 0.2;
     double target_ph_ = 7.0;
@@ -287,6 +319,7 @@ private:
     QVariantMap extra_; ///< keys of a loaded document this model does not edit (kept on save)
 
     QVariantList system_choices_, reagent_choices_, titrant_choices_;
+    QVariantList acid_choices_, base_choices_, weigh_choices_;
 
     FieldError error_;
     QVariantList items_, warnings_;

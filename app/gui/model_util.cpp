@@ -20,7 +20,8 @@ QString amount_text(const QJsonObject& item) {
         QString toString(double v, char, int d) const { return format_decimal(v, d); }
     } loc;
     // A liquid is pipetted: its volume first, the mass in brackets for weighing instead.
-    if (item.value(QLatin1String("as")).toString() == QLatin1String("liquid") &&
+    const QString as = item.value(QLatin1String("as")).toString();
+    if ((as == QLatin1String("liquid") || as.endsWith(QLatin1String("neat"))) &&
         item.contains(QLatin1String("volume_ml")) && item.contains(QLatin1String("mass_g"))) {
         const double ml = item.value(QLatin1String("volume_ml")).toDouble();
         const double g = item.value(QLatin1String("mass_g")).toDouble();

@@ -104,6 +104,20 @@ ColumnLayout {
             current: root.designer.route
             onPicked: function(id) { root.designer.route = id }
         }
+        // What the route change did to the reagents: never a silent swap.
+        Repeater {
+            model: root.designer.routeNotes
+            delegate: Label {
+                required property var modelData
+                objectName: "routeNote"
+                Layout.fillWidth: true
+                text: modelData.message
+                color: Theme.warn
+                wrapMode: Text.Wrap
+                font.pixelSize: Theme.smallFont
+                Accessible.name: text
+            }
+        }
         ChoiceField {
             objectName: "systemChoice"
             Layout.fillWidth: true
@@ -117,7 +131,7 @@ ColumnLayout {
             Layout.fillWidth: true
             visible: root.designer.route !== "titrate"
             label: qsTr("Acid form")
-            choices: root.designer.reagentChoices
+            choices: root.designer.acidChoices
             current: root.designer.acid
             error: root.errorFor("acid")
             onPicked: function(id) { root.designer.acid = id }
@@ -127,7 +141,7 @@ ColumnLayout {
             Layout.fillWidth: true
             visible: root.designer.route !== "titrate"
             label: qsTr("Base form")
-            choices: root.designer.reagentChoices
+            choices: root.designer.baseChoices
             current: root.designer.base
             error: root.errorFor("base")
             onPicked: function(id) { root.designer.base = id }
@@ -167,7 +181,7 @@ ColumnLayout {
             Layout.fillWidth: true
             visible: root.designer.route === "titrate"
             label: qsTr("Weigh")
-            choices: root.designer.reagentChoices
+            choices: root.designer.weighChoices
             current: root.designer.weigh
             error: root.errorFor("weigh")
             onPicked: function(id) { root.designer.weigh = id }
@@ -182,10 +196,28 @@ ColumnLayout {
             error: root.errorFor("titrant")
             onPicked: function(id) { root.designer.titrant = id }
         }
+        SegmentedChoice {
+            objectName: "titrantFormChoice"
+            Layout.fillWidth: true
+            visible: root.designer.route === "titrate"
+            label: qsTr("Titrant added")
+            options: [{ id: "solution", name: qsTr("As a solution") },
+                      { id: "neat", name: qsTr("As supplied (neat)") }]
+            current: root.designer.titrantForm
+            onPicked: function(id) { root.designer.titrantForm = id }
+        }
+        Label {
+            Layout.fillWidth: true
+            visible: root.errorFor("titrant_form").length > 0
+            text: root.errorFor("titrant_form")
+            color: Theme.bad
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.smallFont
+        }
         NumberField {
             objectName: "titrantConcentrationField"
             Layout.fillWidth: true
-            visible: root.designer.route === "titrate"
+            visible: root.designer.route === "titrate" && root.designer.titrantForm !== "neat"
             label: qsTr("Titrant concentration")
             unit: "mol/L"
             value: root.designer.titrantMolPerL
@@ -233,6 +265,27 @@ ColumnLayout {
             from: 0
             error: root.errorFor("concentration_mol_per_l")
             onEdited: function(v) { root.designer.concentrationMmolPerL = v }
+        }
+        SegmentedChoice {
+            objectName: "basisChoice"
+            Layout.fillWidth: true
+            visible: root.designer.strengthBasis === "concentration"
+            label: qsTr("The concentration counts")
+            options: [{ id: "total", name: qsTr("The buffer in all its forms") },
+                      { id: "salt", name: qsTr("The salt, brought to pH with its partner") }]
+            current: root.designer.concentrationBasis
+            onPicked: function(id) { root.designer.concentrationBasis = id }
+        }
+        Label {
+            objectName: "basisText"
+            Layout.fillWidth: true
+            visible: text.length > 0
+            text: root.errorFor("concentration_basis").length > 0 ? root.errorFor("concentration_basis")
+                                                                    : root.designer.basisText
+            color: root.errorFor("concentration_basis").length > 0 ? Theme.bad : Theme.text
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.smallFont
+            Accessible.name: qsTr("Basis: %1").arg(text)
         }
         NumberField {
             objectName: "ionicStrengthField"
