@@ -95,8 +95,9 @@ ApplicationWindow {
     }
 
     header: ToolBar {
-        implicitHeight: Theme.tap + Theme.gap
+        implicitHeight: Math.max(Theme.tap, headerRow.implicitHeight) + Theme.gap
         RowLayout {
+            id: headerRow
             anchors.fill: parent
             anchors.leftMargin: Theme.margin
             anchors.rightMargin: Theme.margin
@@ -109,6 +110,8 @@ ApplicationWindow {
             Label {
                 Layout.fillWidth: true
                 text: plan.name + (plan.valid && plan.endText.length > 0 ? qsTr(" · ends %1").arg(plan.endText) : "")
+                wrapMode: Text.Wrap
+                maximumLineCount: 2
                 elide: Text.ElideRight
                 font.pixelSize: Theme.fontSize
             }

@@ -1,7 +1,9 @@
 #include "app_runner.h"
 
+#include "layout_audit.h"
 #include "workspace.h"
 
+#include <QAccessible>
 #include <QApplication>
 #include <QCommandLineParser>
 #include <QDir>
@@ -13,6 +15,7 @@
 #include <QQmlApplicationEngine>
 #include <QQuickStyle>
 #include <QQuickWindow>
+#include <QScreen>
 #include <QTemporaryDir>
 #include <QTimer>
 
@@ -64,7 +67,9 @@ struct Orientation {
 };
 constexpr Orientation orientations[] = {{"landscape", 1280, 800}, {"portrait", 800, 1280}};
 
-int render_screens(QQuickWindow* win, const QString& dir) {
+// Renders every screen in both orientations; with `audit`, counts there every layout problem
+// (audit_layout) and prints it.
+int render_screens(QQuickWindow* win, const QString& dir, int* audit = nullptr) {
     const QStringList keys = win->property("screenKeys").toStringList();
     if (keys.isEmpty()) {
         std::fprintf(stderr, "phaseplan: the main window lists no screens (screenKeys)\n");
@@ -82,6 +87,14 @@ int render_screens(QQuickWindow* win, const QString& dir) {
             // anything that depends on the first layout (list views, charts' plot area).
             wait_for_frame(win);
             wait_for_frame(win);
+            if (audit) {
+                const double ppmm = px_per_mm(win);
+                for (const LayoutProblem& p : audit_layout(win, ppmm)) {
+                    std::fprintf(stderr, "phaseplan: %s, %s: %s: %s %s\n", qPrintable(keys[i]), o.name,
+                                 qPrintable(p.kind), qPrintable(p.what), qPrintable(p.detail));
+                    ++*audit;
+                }
+            }
             if (dir.isEmpty()) continue;
             QImage img = win->grabWindow();
             const QString file = QStringLiteral("%1/%2-%3.png").arg(dir, keys[i], QLatin1String(o.name));
@@ -247,6 +260,10 @@ int run_app(QApplication& app) {
         return 2;
     }
 
+    // The self-test reads the accessible names as a screen reader would: Qt Quick controls fill
+    // them in only while accessibility is active.
+    if (parser.isSet(selftest_opt)) QAccessible::setActive(true);
+
     QQmlApplicationEngine engine;
     prepare_engine(engine);
     engine.setInitialProperties({{QStringLiteral("workspace"), QVariant::fromValue(&workspace)}});
@@ -274,7 +291,17 @@ int run_app(QApplication& app) {
     if (first_frame_ms < 0) first_frame_ms = elapsed_since_start_ms();
     int status = 0;
     if (parser.isSet(measure_opt)) status = measure(win, first_frame_ms);
-    else status = render_screens(win, parser.value(screenshot_opt));
+    else {
+        int layout_problems = 0;
+        status = render_screens(win, parser.value(screenshot_opt), parser.isSet(selftest_opt) ? &layout_problems : nullptr);
+        if (parser.isSet(selftest_opt)) {
+            const QScreen* s = win->screen();
+            std::printf("self-test: %lld screens in 2 orientations at %.0f dpi (%.2f px/mm), %d layout problem(s)\n",
+                        static_cast<long long>(win->property("screenKeys").toStringList().size()),
+                        s ? s->physicalDotsPerInch() : 0.0, px_per_mm(win), layout_problems);
+            if (layout_problems > 0) status = 1;
+        }
+    }
     const int n = problems();
     if (n > 0) {
         std::fprintf(stderr, "phaseplan: %d QML warning(s) or error(s), see above\n", n);

@@ -50,6 +50,24 @@ QString ChecksModel::adviceFor(const QString& code) {
         {"runs-dry", QT_TR_NOOP("Fill at least the suggested bottle volume before the start, or split the "
                                 "sequence and plan a refill.")},
         {"waste-overflow", QT_TR_NOOP("Empty the waste container before the start, or use a larger one.")},
+        {"buffer-range", QT_TR_NOOP("Choose a buffer whose pKa in the eluent lies within one unit of its pH, "
+                                    "or keep the organic share lower where the buffer must hold the pH.")},
+        {"pressure-limit", QT_TR_NOOP("Lower the flow, raise the column temperature, or use a column with "
+                                      "larger particles or a wider bore; check the frit and guard column.")},
+        {"pressure-uncalibrated", QT_TR_NOOP("Enter a pressure read on this column at a known flow and "
+                                             "composition, so the estimate is scaled to the real column.")},
+        {"pressure-no-limit", QT_TR_NOOP("Enter the column's and the pump's pressure limits to have the "
+                                         "plan checked against them.")},
+        {"pressure-unknown", QT_TR_NOOP("Enter the column's length, inner diameter and particle size to have "
+                                        "the pressure estimated.")},
+        {"viscosity-estimate", QT_TR_NOOP("The viscosity of this mixture is estimated; read the pressure on "
+                                          "the first injection and compare.")},
+        {"eluent-ph-extrapolated", QT_TR_NOOP("The pH in the eluent is an estimate beyond measured data; "
+                                              "treat it as a guide and confirm retention on a test injection.")},
+        {"eluent-temperature", QT_TR_NOOP("The pH shift with organic is known at 25 °C only; at another "
+                                          "column temperature treat it as a guide.")},
+        {"buffer-scaled", QT_TR_NOOP("The buffer was scaled to the line's volume; check the amounts on the "
+                                     "recipe sheet before weighing.")},
     };
     auto it = advice.find(code);
     if (it != advice.end()) return tr(it->second);
@@ -66,6 +84,11 @@ QString ChecksModel::focusFor(const QString& code, const QString& line, const QV
     if (code == QLatin1String("uv-cutoff")) return QStringLiteral("detector.wavelength_nm");
     if (code == QLatin1String("column-ph")) return QStringLiteral("column.ph_max");
     if (code == QLatin1String("waste-overflow")) return QStringLiteral("waste_ml");
+    if (code == QLatin1String("buffer-range") && !l.isEmpty()) return QStringLiteral("lines.%1.parts").arg(l);
+    if (code == QLatin1String("pressure-limit")) {
+        const QString m = w.value("method").toString();
+        if (!m.isEmpty()) return QStringLiteral("methods.%1.flow_ml_min").arg(m);
+    }
     if (code == QLatin1String("runs-dry") && !l.isEmpty()) return QStringLiteral("lines.%1.bottle_ml").arg(l);
     if (code == QLatin1String("shelf-life") && !l.isEmpty()) return QStringLiteral("lines.%1.prepared_at").arg(l);
     if (code == QLatin1String("ms-nonvolatile") && !l.isEmpty()) return QStringLiteral("lines.%1.parts").arg(l);

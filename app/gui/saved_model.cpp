@@ -1,6 +1,7 @@
 #include "saved_model.h"
 
 #include "model_util.h"
+#include "number_text.h"
 #include "workspace.h"
 
 #include <QJsonArray>
@@ -12,23 +13,22 @@ namespace {
 
 // One line about a saved document, from its own fields (no computing).
 QString summary_of(storage::DocumentKind kind, const QJsonObject& d) {
-    const QLocale loc;
     switch (kind) {
     case storage::DocumentKind::buffer:
         if (!d.contains("volume_ml"))
-            return QObject::tr("pH %1, %2").arg(loc.toString(d.value("target_ph").toDouble(), 'f', 2),
+            return QObject::tr("pH %1, %2").arg(format_decimal(d.value("target_ph").toDouble(), 2),
                                                 d.value("route").toString());
         return QObject::tr("pH %1, %2 mL, %3")
-            .arg(loc.toString(d.value("target_ph").toDouble(), 'f', 2),
-                 loc.toString(d.value("volume_ml").toDouble(), 'f', 0), d.value("route").toString());
+            .arg(format_decimal(d.value("target_ph").toDouble(), 2),
+                 format_decimal(d.value("volume_ml").toDouble(), 0), d.value("route").toString());
     case storage::DocumentKind::line:
         return QObject::tr("%1 mL bottle, %n part(s)", nullptr, int(d.value("parts").toArray().size()))
-            .arg(loc.toString(d.value("bottle_ml").toDouble(), 'f', 0));
+            .arg(format_decimal(d.value("bottle_ml").toDouble(), 0));
     case storage::DocumentKind::method:
         return QObject::tr("%1 mL/min, run %2 min, %n gradient row(s)", nullptr,
                            int(d.value("gradient").toArray().size()))
-            .arg(loc.toString(d.value("flow_ml_min").toDouble(), 'f', 2),
-                 loc.toString(d.value("run_min").toDouble(), 'f', 1));
+            .arg(format_decimal(d.value("flow_ml_min").toDouble(), 2),
+                 format_decimal(d.value("run_min").toDouble(), 1));
     case storage::DocumentKind::sequence: {
         int n = 0;
         for (const QJsonValue& r : d.value("sequence").toArray()) n += r.toObject().value("injections").toInt();

@@ -13,7 +13,7 @@ ColumnLayout {
     property int hints: Qt.ImhNone
     property alias field: input
     /// The name a screen reader and the tests find the field by (the label by default).
-    property string accessibleName: label
+    property string accessibleName: label.length > 0 ? label : placeholder
 
     /// The text changed by typing.
     signal edited(string text)

@@ -67,6 +67,7 @@ ScreenPage {
                         width: entryList.width
                         implicitHeight: Math.max(Theme.tap, content.implicitHeight + Theme.gap * 2)
                         highlighted: editor.reagentId === entryId
+                        Accessible.name: item.name
                         onClicked: if (kind === "reagents") editor.edit(entryId)
                         contentItem: ColumnLayout {
                             id: content
@@ -76,7 +77,7 @@ ScreenPage {
                                 text: item.name + (item.userDefined ? qsTr("  · lab entry") : "")
                                 font.pixelSize: Theme.fontSize
                                 font.bold: item.userDefined
-                                elide: Text.ElideRight
+                                wrapMode: Text.Wrap
                             }
                             Label {
                                 Layout.fillWidth: true

@@ -139,6 +139,7 @@ Card {
                         ChoiceField {
                             Layout.fillWidth: true
                             visible: part.modelData.kind === "solvent"
+                            accessibleName: qsTr("Solvent of part %1 of line %2").arg(part.index + 1).arg(root.letter)
                             choices: root.linesModel.solventChoices
                             current: part.modelData.id
                             error: root.errorFor("parts[" + part.index + "].solvent")
@@ -274,6 +275,7 @@ Card {
                         ComboBox {
                             Layout.preferredHeight: Theme.tap
                             Layout.preferredWidth: Theme.tap * 2.6
+                            Accessible.name: qsTr("Unit of %1").arg(add.modelData.name || add.modelData.id)
                             font.pixelSize: Theme.fontSize
                             model: [{ id: "percent_v", name: "% v/v" }, { id: "percent_w", name: "% w/v" }, { id: "mmol_per_l", name: "mmol/L" }]
                             textRole: "name"

@@ -121,18 +121,19 @@ ScreenPage {
                                 Layout.fillWidth: true
                                 text: entry.name
                                 font.pixelSize: Theme.fontSize
-                                elide: Text.ElideRight
+                                wrapMode: Text.Wrap
                             }
                             Label {
                                 Layout.fillWidth: true
                                 text: entry.kind + " · " + entry.summary + " · " + entry.updated
                                 color: Theme.dimText
                                 font.pixelSize: Theme.smallFont
-                                elide: Text.ElideRight
+                                wrapMode: Text.Wrap
                             }
                         }
                         TouchButton {
                             text: qsTr("Open")
+                            Accessible.name: qsTr("Open %1").arg(entry.name)
                             visible: entry.kind === "sequence" || entry.kind === "buffer"
                             onClicked: {
                                 if (entry.kind === "sequence") {
@@ -146,6 +147,7 @@ ScreenPage {
                         }
                         TouchButton {
                             text: qsTr("Add to plan")
+                            Accessible.name: qsTr("Add %1 to the plan").arg(entry.name)
                             visible: entry.kind === "method"
                             onClicked: {
                                 root.plan.setMethodDocument(entry.name, saved.load(entry.kind, entry.name))

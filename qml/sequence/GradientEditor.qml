@@ -187,8 +187,9 @@ Card {
         Layout.fillWidth: true
         spacing: Theme.gap
         Label {
-            Layout.preferredWidth: Theme.tap * 2.2
+            Layout.preferredWidth: Theme.tap * 1.8
             text: qsTr("Time (min)")
+            wrapMode: Text.Wrap
             color: Theme.dimText
             font.pixelSize: Theme.smallFont
         }
@@ -198,7 +199,8 @@ Card {
                 required property string modelData
                 required property int index
                 Layout.fillWidth: true
-                text: qsTr("%1 (%)").arg(modelData)
+                Layout.minimumWidth: Theme.tap
+                text: qsTr("%1 %").arg(modelData)
                 color: Theme.lineColours["ABCD".indexOf(modelData)]
                 font.pixelSize: Theme.smallFont
                 font.bold: true
@@ -243,7 +245,7 @@ Card {
                     CellField {
                         id: timeCell
                         objectName: "timeCell"
-                        Layout.preferredWidth: Theme.tap * 2.2
+                        Layout.preferredWidth: Theme.tap * 1.8
                         value: row.tMin
                         decimals: 1
                         accessibleName: qsTr("Time of gradient row %1").arg(row.index + 1)
@@ -257,6 +259,7 @@ Card {
                             required property string modelData
                             objectName: "cell" + modelData
                             Layout.fillWidth: true
+                            Layout.minimumWidth: Theme.tap
                             value: row.percents[modelData] || 0
                             decimals: 1
                             accessibleName: qsTr("%1 % of line %2, gradient row %3").arg(modelData).arg(modelData).arg(row.index + 1)

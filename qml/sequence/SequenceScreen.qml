@@ -116,7 +116,8 @@ Item {
         spacing: 0
         ScreenPage {
             id: editorsPage
-            Layout.fillWidth: true
+            // The editors get the larger share: a gradient row of 9 mm cells must fit.
+            Layout.preferredWidth: parent.width * 0.58
             Layout.fillHeight: true
             inPortrait: false
             Loader {

@@ -22,6 +22,7 @@ Card {
         objectName: "standbySwitch"
         Layout.fillWidth: true
         text: qsTr("Keep a standby flow running")
+        implicitHeight: Theme.tap
         font.pixelSize: Theme.fontSize
         checked: root.plan.standbyEnabled
         Accessible.name: text
