@@ -7,6 +7,7 @@
 #include <QtTest>
 
 #include <cerrno>
+#include <fcntl.h>
 #include <pty.h>
 #include <termios.h>
 #include <unistd.h>
@@ -18,6 +19,10 @@ public:
     FakeInstrument() {
         char name[256] = {};
         if (::openpty(&master_, &slave_, name, nullptr, nullptr) != 0) qFatal("openpty failed: %d", errno);
+        // Not inherited by a child (phaseplan-cli under test): a child holding the master would
+        // keep the line up after unplug().
+        ::fcntl(master_, F_SETFD, FD_CLOEXEC);
+        ::fcntl(slave_, F_SETFD, FD_CLOEXEC);
         // Raw, like a serial line: no echo back to the instrument, no CR/LF translation. The
         // test keeps its slave descriptor open so that bytes written before the reader opens
         // the port wait in the line's queue.
@@ -48,6 +53,14 @@ public:
             done += n;
         }
         return true;
+    }
+
+    /// The line speed as last set on the port (B9600, B19200, …): a reader that opens the port
+    /// sets it, which tells the test that the reader is listening.
+    speed_t speed() const {
+        termios t{};
+        ::tcgetattr(slave_, &t);
+        return ::cfgetispeed(&t);
     }
 
     /// The instrument goes away: the master side closes, and the reader's next read fails.
