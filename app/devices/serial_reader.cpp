@@ -122,27 +122,23 @@ void SerialReader::close() {
     gone_ = false;
 }
 
-void SerialReader::open(const PortSettings& settings) {
+void open_port(QSerialPort& port, const PortSettings& settings) {
     settings.validate();
-    close();
-    settings_ = settings;
     const QString path = settings.system_path();
     const std::string shown = path.toStdString();
     if (!QFileInfo::exists(path))
         throw DeviceError(Fault::port_missing, "port",
                           shown + " does not exist: is the instrument connected and switched on?");
-    port_ = std::make_unique<QSerialPort>();
-    port_->setPortName(path);
-    port_->setBaudRate(settings.baud);
-    port_->setDataBits(static_cast<QSerialPort::DataBits>(settings.data_bits));
-    port_->setParity(parity_of(settings.parity));
-    port_->setStopBits(stop_bits_of(settings.stop_bits));
-    port_->setFlowControl(flow_of(settings.flow_control));
-    if (port_->open(QIODevice::ReadOnly)) return;
+    port.setPortName(path);
+    port.setBaudRate(settings.baud);
+    port.setDataBits(static_cast<QSerialPort::DataBits>(settings.data_bits));
+    port.setParity(parity_of(settings.parity));
+    port.setStopBits(stop_bits_of(settings.stop_bits));
+    port.setFlowControl(flow_of(settings.flow_control));
+    if (port.open(QIODevice::ReadOnly)) return;
 
-    const QSerialPort::SerialPortError err = port_->error();
-    const std::string why = port_->errorString().toStdString();
-    port_.reset();
+    const QSerialPort::SerialPortError err = port.error();
+    const std::string why = port.errorString().toStdString();
     if (err == QSerialPort::DeviceNotFoundError)
         throw DeviceError(Fault::port_missing, "port",
                           shown + " does not exist: is the instrument connected and switched on?");
@@ -159,16 +155,38 @@ void SerialReader::open(const PortSettings& settings) {
                           (err == QSerialPort::NoError ? std::string(" (not a terminal device?)") : ": " + why));
 }
 
+DeviceError port_fault(const QSerialPort& port, const PortSettings& settings, const QByteArray& pending) {
+    const QSerialPort::SerialPortError err = port.error();
+    const std::string shown = settings.system_path().toStdString();
+    if (err == QSerialPort::ResourceError || err == QSerialPort::ReadError || err == QSerialPort::DeviceNotFoundError)
+        return DeviceError(Fault::disconnected, "port",
+                           "the instrument on " + shown + " went away (" + received_so_far(pending) +
+                               "): check the cable and the instrument");
+    return DeviceError(Fault::port_failed, "port", shown + ": " + port.errorString().toStdString());
+}
+
+DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only, const QByteArray& pending) {
+    return DeviceError(Fault::timeout, "port",
+                       "no " + std::string(stable_only ? "stable " : "") + "reading from " +
+                           settings.system_path().toStdString() + " within " +
+                           chem::format_number(timeout_ms / 1000.0) + " s (" + received_so_far(pending) +
+                           "): press the print key, or check the cable, baud rate and line end");
+}
+
+void SerialReader::open(const PortSettings& settings) {
+    close();
+    auto port = std::make_unique<QSerialPort>();
+    open_port(*port, settings);
+    port_ = std::move(port);
+    settings_ = settings;
+}
+
 QByteArray SerialReader::next_line(int timeout_ms) {
     if (!port_) throw DeviceError(Fault::port_failed, "port", "the port is not open");
-    const std::string shown = settings_.system_path().toStdString();
     QDeadlineTimer deadline(timeout_ms);
     for (;;) {
         if (auto line = lines_.take_line()) return *line;
-        if (gone_)
-            throw DeviceError(Fault::disconnected, "port",
-                              "the instrument on " + shown + " went away (" + received_so_far(lines_.pending()) +
-                                  "): check the cable and the instrument");
+        if (gone_) throw port_fault(*port_, settings_, lines_.pending());
         if (port_->bytesAvailable() > 0) {
             lines_.feed(port_->readAll());
             continue;
@@ -186,16 +204,8 @@ QByteArray SerialReader::next_line(int timeout_ms) {
             }
             if (auto line = lines_.take_line()) return *line;
             if (err != QSerialPort::NoError && err != QSerialPort::TimeoutError)
-                throw DeviceError(Fault::port_failed, "port",
-                                  shown + ": " + port_->errorString().toStdString());
-            if (deadline.hasExpired() || left == 0) {
-                const QByteArray partial = lines_.pending();
-                throw DeviceError(Fault::timeout, "port",
-                                  "no complete reading from " + shown + " within " +
-                                      chem::format_number(timeout_ms / 1000.0) + " s (" +
-                                      received_so_far(partial) +
-                                      "): press the print key, or check the cable, baud rate and line end");
-            }
+                throw port_fault(*port_, settings_, lines_.pending());
+            if (deadline.hasExpired() || left == 0) throw timeout_fault(settings_, timeout_ms, false, lines_.pending());
             port_->clearError();
         }
     }
@@ -212,12 +222,7 @@ Reading SerialReader::next_reading(const LineFormat& format, const FormatLibrary
         } catch (const DeviceError& e) {
             // The message should name the whole wait, not what was left of it.
             if (e.fault() != Fault::timeout) throw;
-            throw DeviceError(Fault::timeout, "port",
-                              "no " + std::string(options.stable_only ? "stable " : "") + "reading from " +
-                                  settings_.system_path().toStdString() + " within " +
-                                  chem::format_number(options.timeout_ms / 1000.0) + " s (" +
-                                  received_so_far(lines_.pending()) +
-                                  "): press the print key, or check the cable, baud rate and line end");
+            throw timeout_fault(settings_, options.timeout_ms, options.stable_only, lines_.pending());
         }
         Reading r = parse_line(line, format, lib, options.expect);
         if (r.stable || !options.stable_only) return r;

@@ -35,6 +35,18 @@ struct PortSettings {
     void validate(const std::string& parent = {}) const;
 };
 
+/// Applies the settings to `port` and opens it read-only. Throws DeviceError: port_missing,
+/// port_busy, port_failed (field "port"), bad_setting (field "baud", "data_bits", …). Used by
+/// SerialReader (blocking) and by the app's DeviceCapture (signals).
+void open_port(QSerialPort& port, const PortSettings& settings);
+
+/// The fault when the port reports `error` while a line was being received (`pending`: the part
+/// of a line received so far). Disconnection for a resource, read or not-found error.
+DeviceError port_fault(const QSerialPort& port, const PortSettings& settings, const QByteArray& pending);
+
+/// The timeout fault after `timeout_ms` of waiting.
+DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only, const QByteArray& pending);
+
 class LineAssembler {
 public:
     /// A line longer than max_line_bytes without a line end is garbage (a wrong baud rate
