@@ -90,6 +90,7 @@ private slots:
         QTest::newRow("number-unit, kg to g") << "number-unit" << QByteArray("0.0025 kg") << 2.5 << "g" << true << "" << none;
         QTest::newRow("number-unit, mg to g") << "number-unit" << QByteArray("250.0 mg") << 0.25 << "g" << true << "" << none;
         QTest::newRow("number-unit, unsettled") << "number-unit" << QByteArray("  3.1612 g ?") << 3.1612 << "g" << false << "" << none;
+        QTest::newRow("number-unit, minus zero") << "number-unit" << QByteArray("-0.0000 g") << 0.0 << "g" << true << "" << none;
         QTest::newRow("number-unit, pH") << "number-unit" << QByteArray("7.02 pH") << 7.02 << "pH" << true << "" << none;
         QTest::newRow("flag, echo S settled") << "flag-number-unit" << QByteArray("S S      3.1610 g") << 3.161 << "g" << true << "" << none;
         QTest::newRow("flag, echo S moving") << "flag-number-unit" << QByteArray("S D      3.1598 g") << 3.1598 << "g" << false << "" << none;
@@ -112,6 +113,7 @@ private slots:
         QFETCH(double, temperature_c);
         const Reading r = parse_line(line, *formats().find(format), formats());
         QVERIFY2(std::abs(r.value - grams_or_ph) < 1e-12, qPrintable(QString::number(r.value, 'g', 17)));
+        QVERIFY(!std::signbit(r.value));
         QCOMPARE(r.unit, unit);
         QCOMPARE(r.stable, stable);
         QCOMPARE(r.instrument_id, id);

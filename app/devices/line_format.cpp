@@ -277,6 +277,9 @@ Reading parse_line(const QByteArray& line, const LineFormat& format, const Forma
                           r.sent_unit.toStdString() + " in " + quote_line(line) + " where " +
                               expect.unit.toStdString() + " was expected: set the instrument to " +
                               expect.unit.toStdString());
+    // "-0.0000 g" (a tare that drifted by less than a digit) is zero, not negative.
+    if (v == 0) v = 0.0;
+    r.sent_value = v;
     r.unit = QLatin1String(info->base);
     r.value = v * info->to_base;
     if (r.value < 0)
