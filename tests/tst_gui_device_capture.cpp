@@ -1,7 +1,8 @@
 // "Take from balance" and "take from meter" (DeviceCapture) on a temporary database, with the
 // demo's instruments moved onto pseudo-terminals: the next stable reading is taken with its
 // device id, raw line and time; unsettled readings are shown, not taken, unless accepted; every
-// fault leaves the last capture as it was. Line shapes: common practice, no source. The demo's
+// fault leaves the last capture as it was; instruments are added, refused with the field named, and
+// removed. Line shapes: common practice, no source. The demo's
 // calibration dates are its own (data/demo/devices.json).
 #include "device_capture.h"
 #include "devices/device_store.h"
@@ -204,6 +205,29 @@ private slots:
         QVERIFY(!capture_->takeFromBalance("batch.actual[0].mass_g"));
         QCOMPARE(capture_->errorFault(), QString("port-busy"));
         QVERIFY(!capture_->busy());
+    }
+
+    void instrumentsAreAddedEditedAndRemoved() {
+        QSignalSpy changed(capture_.get(), &DeviceCapture::devicesChanged);
+        QVariantMap d{{"id", "BAL-07"}, {"name", "Semi-micro balance"}, {"kind", "balance"},
+                      {"port", "/dev/ttyUSB7"}, {"baud", 4800}, {"format", "id-flag-number-unit"},
+                      {"calibration_due", "2027-06-30"}};
+        QVERIFY(capture_->saveDevice(d));
+        QCOMPARE(capture_->balances().size(), 3);
+        QVERIFY(changed.count() >= 1);
+        // A wrong field is named and nothing is stored.
+        d["baud"] = 0;
+        d["id"] = "BAL-08";
+        QVERIFY(!capture_->saveDevice(d));
+        QCOMPARE(capture_->errorField(), QString("baud"));
+        d["baud"] = 4800;
+        d["format"] = "grams";
+        QVERIFY(!capture_->saveDevice(d));
+        QCOMPARE(capture_->errorField(), QString("format"));
+        QCOMPARE(capture_->balances().size(), 3);
+        QVERIFY(capture_->removeDevice("BAL-07"));
+        QVERIFY(!capture_->removeDevice("BAL-07"));
+        QCOMPARE(capture_->balances().size(), 2);
     }
 
     void cancelStopsTheWait() {

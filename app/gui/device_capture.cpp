@@ -4,6 +4,7 @@
 #include "workspace.h"
 
 #include <QFile>
+#include <QJsonObject>
 #include <QSerialPort>
 
 namespace phaseplan::gui {
@@ -65,6 +66,32 @@ void DeviceCapture::reloadDevices() {
     meter_id_ = first_of(DeviceKind::ph_meter, meter_id_);
     emit devicesChanged();
     emit selectionChanged();
+}
+
+bool DeviceCapture::saveDevice(const QVariantMap& device) {
+    const FieldError err = guarded([&] {
+        if (!workspace_ || !workspace_->database()) throw chem::Error("database", "the workspace is not open");
+        const devices::DeviceRecord d =
+            devices::DeviceRecord::from_json(QJsonObject::fromVariantMap(device), "", &formats_);
+        devices::DeviceStore(*workspace_->database()).save(d);
+    });
+    if (!err.empty()) {
+        set_error(err.field, err.message, QStringLiteral("bad-setting"));
+        return false;
+    }
+    set_error({}, {}, {});
+    reloadDevices();
+    return true;
+}
+
+bool DeviceCapture::removeDevice(const QString& id) {
+    bool removed = false;
+    const FieldError err = guarded([&] {
+        if (workspace_ && workspace_->database()) removed = devices::DeviceStore(*workspace_->database()).remove(id);
+    });
+    if (!err.empty()) set_error(err.field, err.message, QStringLiteral("bad-setting"));
+    if (removed) reloadDevices();
+    return removed;
 }
 
 QVariantList DeviceCapture::list_of(DeviceKind kind) const {

@@ -92,6 +92,13 @@ public:
     Q_INVOKABLE void cancel();
     /// Re-reads the instruments from the database.
     Q_INVOKABLE void reloadDevices();
+    /// Adds or replaces an instrument: `device` has the fields of a devices.json record (id, name,
+    /// kind, port, baud, data_bits, parity, stop_bits, flow_control, format, unit,
+    /// calibration_due). False with errorField ("baud", "format", …) and errorMessage when a field
+    /// is wrong; nothing is stored then.
+    Q_INVOKABLE bool saveDevice(const QVariantMap& device);
+    /// True when the instrument was there and is removed.
+    Q_INVOKABLE bool removeDevice(const QString& id);
 
 signals:
     void workspaceChanged();
