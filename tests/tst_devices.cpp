@@ -8,6 +8,7 @@
 #include "test_support.h"
 
 #include <QFile>
+#include <QRandomGenerator>
 #include <QJsonArray>
 #include <QTemporaryDir>
 #include <QtTest>
@@ -207,6 +208,36 @@ private slots:
                  std::string("device_formats.json: formats[0].quantity"));
         QCOMPARE(field_of(R"({"formats": [], "fault_lines": [{"pattern": "OL", "fault": "sometimes", "meaning": "m"}]})"),
                  std::string("device_formats.json: fault_lines[0].fault"));
+    }
+
+    void randomLinesGiveAReadingOrADeviceError() {
+        // 20,000 lines of random bytes and of reading-like text with random edits, fixed seed:
+        // each gives a finite, non-negative reading or a DeviceError, never anything else.
+        QRandomGenerator rng(20261202);
+        const QByteArray alphabet = "0123456789.+- gmkpHSTDU,;?*\xb0\xc2OLE-rC\r\t\x00\xff";
+        int readings = 0, faults = 0;
+        for (int i = 0; i < 20000; ++i) {
+            const LineFormat& f = formats().formats[size_t(i) % formats().formats.size()];
+            QByteArray line = f.examples[i % f.examples.size()].toUtf8();
+            if (i % 2 == 0) {
+                line = QByteArray(int(rng.bounded(40)), '\0');
+                for (char& c : line) c = char(rng.bounded(256));
+            } else {
+                for (int k = 0, n = int(rng.bounded(4)); k < n && !line.isEmpty(); ++k)
+                    line[int(rng.bounded(line.size()))] = alphabet[int(rng.bounded(alphabet.size()))];
+            }
+            try {
+                const Reading r = parse_line(line, f, formats());
+                QVERIFY2(std::isfinite(r.value) && r.value >= 0, line.toHex().constData());
+                QVERIFY(r.unit == "g" || r.unit == "pH");
+                ++readings;
+            } catch (const DeviceError&) {
+                ++faults;
+            } catch (const std::exception& e) {
+                QFAIL(qPrintable(QString("%1: %2").arg(QString(line.toHex()), e.what())));
+            }
+        }
+        QVERIFY(readings > 0 && faults > 0);
     }
 
     // ---- the line ---------------------------------------------------------------------------
