@@ -7,6 +7,7 @@
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
+#include "devices/device_cli.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -62,6 +63,9 @@ int usage(std::FILE* to) {
                      "       [--data DIR]\ncommands:\n");
     for (const auto& [name, e] : command_table())
         std::fprintf(to, "  %-10s %s\n", name.c_str(), e.summary);
+    std::fprintf(to, "  %-10s %s\n", "device",
+                 "read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit U]:\n"
+                 "             one reading from a balance or pH meter; device formats: the line formats");
     return to == stdout ? 0 : 2;
 }
 
@@ -89,10 +93,43 @@ void qt_message(QtMsgType type, const QMessageLogContext&, const QString& msg) {
         std::cerr << msg.toStdString() << std::endl;
 }
 
+/// `phaseplan-cli device …`: flags instead of a JSON document; every failure is status 2 and one
+/// line, the instrument's faults included (app/devices/device_cli.h).
+int run_device(int argc, char** argv) {
+    QCoreApplication app(argc, argv);
+    QStringList args;
+    QString data_dir;
+    for (int i = 2; i < argc; ++i) {
+        const QString a = QString::fromLocal8Bit(argv[i]);
+        if (a == QLatin1String("--data")) {
+            if (i + 1 >= argc) {
+                fail("--data: needs a value");
+                return 2;
+            }
+            data_dir = QString::fromLocal8Bit(argv[++i]);
+        } else {
+            args << a;
+        }
+    }
+    try {
+        const QJsonObject out =
+            phaseplan::devices::device_command(args, data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+        std::cout << QJsonDocument(out).toJson(QJsonDocument::Indented).toStdString();
+        return 0;
+    } catch (const chem::Error& e) {
+        fail(e.what());
+        return 2;
+    } catch (const std::exception& e) {
+        fail(std::string("internal error: ") + e.what());
+        return 2;
+    }
+}
+
 } // namespace
 
 int main(int argc, char** argv) {
     qInstallMessageHandler(qt_message);
+    if (argc > 1 && std::string(argv[1]) == "device") return run_device(argc, argv);
     std::string command;
     QString input_path;
     QString data_dir;

@@ -71,6 +71,23 @@ const std::vector<Migration>& migrations() {
          [](Database& db) {
              for (const QString& sql : batch_schema_statements()) db.exec(sql);
          }},
+        {5, "the lab's balances and pH meters (app/devices/device_store.h)",
+         [](Database& db) {
+             db.exec("CREATE TABLE devices ("
+                     " id TEXT PRIMARY KEY NOT NULL CHECK (length(id) > 0),"
+                     " name TEXT NOT NULL,"
+                     " kind TEXT NOT NULL CHECK (kind IN ('balance', 'ph_meter')),"
+                     " port TEXT NOT NULL,"
+                     " baud INTEGER NOT NULL CHECK (baud > 0),"
+                     " data_bits INTEGER NOT NULL CHECK (data_bits BETWEEN 5 AND 8),"
+                     " parity TEXT NOT NULL CHECK (parity IN ('none', 'even', 'odd', 'mark', 'space')),"
+                     " stop_bits TEXT NOT NULL CHECK (stop_bits IN ('1', '1.5', '2')),"
+                     " flow_control TEXT NOT NULL CHECK (flow_control IN ('none', 'hardware', 'software')),"
+                     " line_format TEXT NOT NULL,"
+                     " unit TEXT NOT NULL,"
+                     " calibration_due TEXT,"
+                     " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;

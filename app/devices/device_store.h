@@ -1,0 +1,72 @@
+#pragma once
+// The lab's balances and pH meters: one record per instrument (id, name, kind, port settings,
+// line format, calibration-due date), kept in the `devices` table (migration step 5 in
+// app/storage/migrations.cpp) and loadable from a JSON file such as data/demo/devices.json:
+//   {"devices": [{"id": "BAL-03", "name": "…", "kind": "balance", "port": "/dev/ttyUSB0",
+//                 "baud": 9600, "data_bits": 8, "parity": "none", "stop_bits": "1",
+//                 "flow_control": "none", "format": "flag-number-unit", "unit": "g",
+//                 "calibration_due": "2027-03-31"}]}
+// Every write is one transaction. Errors are chem::Error naming the field ("devices[1].baud").
+#include "devices/serial_reader.h"
+#include "storage/database.h"
+
+#include <QDate>
+#include <QJsonObject>
+#include <QString>
+
+#include <optional>
+#include <vector>
+
+namespace phaseplan::devices {
+
+enum class DeviceKind { balance, ph_meter };
+/// "balance" or "ph_meter".
+const char* kind_name(DeviceKind kind);
+
+struct DeviceRecord {
+    QString id;              ///< the lab's own label on the instrument ("BAL-03")
+    QString name;            ///< "Analytical balance, bench 2"
+    DeviceKind kind = DeviceKind::balance;
+    PortSettings port;
+    QString format;          ///< a preset's name or a regular expression (see line_format.h)
+    QString unit;            ///< the unit the instrument is set to send: "g", "mg", "kg" or "pH"
+    QDate calibration_due;   ///< invalid when not recorded
+
+    /// What a reading from this instrument must be: a mass in `unit` for a balance, a pH for a meter.
+    Expectation expectation() const;
+    QJsonObject to_json() const;
+    /// Reads one record; throws chem::Error naming "<at>.<field>" with the bad value. `formats`
+    /// checks that a preset name exists (nullptr: not checked).
+    static DeviceRecord from_json(const QJsonObject& o, const std::string& at,
+                                  const FormatLibrary* formats = nullptr);
+};
+
+/// A caution when the calibration is due on or before `today`: {"code": "device-calibration-due",
+/// "severity": "caution", "device": id, "calibration_due": date, "message": …}; nullopt otherwise
+/// (and when no date is recorded).
+std::optional<QJsonObject> calibration_caution(const DeviceRecord& device, const QDate& today);
+
+/// {"devices": [ … ]}; ids must be unique.
+std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::string& origin,
+                                            const FormatLibrary* formats = nullptr);
+
+class DeviceStore {
+public:
+    explicit DeviceStore(storage::Database& db) : db_(db) {}
+    /// Inserts or replaces by id (one transaction).
+    void save(const DeviceRecord& device);
+    /// Saves every record of a devices file in one transaction: all or none. Returns the count.
+    int import_json(const QByteArray& bytes, const std::string& origin, const FormatLibrary* formats = nullptr);
+    std::optional<DeviceRecord> load(const QString& id) const;
+    /// Ordered by id.
+    std::vector<DeviceRecord> list() const;
+    /// The records of one kind, ordered by id.
+    std::vector<DeviceRecord> list(DeviceKind kind) const;
+    bool remove(const QString& id);
+
+private:
+    void upsert(const DeviceRecord& d);
+    storage::Database& db_;
+};
+
+} // namespace phaseplan::devices
