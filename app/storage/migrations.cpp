@@ -71,6 +71,11 @@ const std::vector<Migration>& migrations() {
          [](Database& db) {
              for (const QString& sql : batch_schema_statements()) db.exec(sql);
          }},
+        {5, "batch record at the bench: measured pH and its tolerance, pH meter, balance, comment, "
+            "container, deviation note with who and when",
+         [](Database& db) {
+             for (const QString& sql : batch_schema_v5_statements()) db.exec(sql);
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;
