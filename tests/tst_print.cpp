@@ -34,7 +34,10 @@ QJsonObject demo_with_batch() {
     in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
                               {"prepared_at", "2026-12-01T16:30:00"},
                               {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
-                                                                {"mass_g", 3.0855}, {"lot", "SP-2207"}}}}};
+                                                                {"mass_g", 3.0855}, {"lot", "SP-2207"}}}},
+                              // 3.0855 g is over the salt's ± 2 % band: printing needs a deviation note.
+                              {"deviation", QJsonObject{{"note", "salt over its band; trial use only"},
+                                                        {"by", "M. Lindqvist"}, {"at", "2026-12-01T16:50:00"}}}};
     return in;
 }
 

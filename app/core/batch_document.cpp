@@ -69,16 +69,20 @@ struct WarningList {
 
     void add(const chem::Warning& w, const std::vector<chem::AmountCheck>* checks = nullptr) {
         QJsonObject o = warning_to_json(w);
-        if (checks && w.code == "amount-out-of-tolerance")
-            for (const auto& c : *checks)
-                if (!c.within_tolerance && w.message.rfind(c.reagent + ":", 0) == 0) {
+        if (checks)
+            for (const auto& c : *checks) {
+                if (w.message.rfind(c.reagent + ":", 0) != 0) continue;
+                // The screens' name in place of the id that leads the core's message.
+                o["message"] = part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
+                if (w.code == "amount-out-of-tolerance" && !c.within_tolerance) {
                     o["reagent"] = qs(c.reagent);
                     o["unit"] = qs(c.unit);
                     o["target"] = c.target;
                     o["actual"] = c.actual;
                     o["deviation_percent"] = c.deviation_fraction * 100;
-                    o["message"] = part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
                 }
+                break;
+            }
         add(o);
     }
     void add(const QJsonObject& w) {
