@@ -576,8 +576,15 @@ bool BatchModel::save_pdf(const QString& what, const QString& path_in, const QSt
     if (!ready_to_print()) return false;
     const QString path = path_in.isEmpty() ? defaultPath(what) : local_path(path_in);
     const QFileInfo info(path);
-    if (!QDir().mkpath(info.absolutePath()))
-        return set_error({QStringLiteral("path"), tr("cannot make the folder %1").arg(info.absolutePath())}), false;
+    if (!QDir().mkpath(info.absolutePath())) {
+        // Say why: a file stands where a folder is needed, or the folder cannot be created here.
+        QString blocking = info.absolutePath();
+        while (!blocking.isEmpty() && !QFileInfo::exists(blocking)) blocking = QFileInfo(blocking).absolutePath();
+        const QString why = QFileInfo(blocking).isFile()
+                                ? tr("%1 is a file, not a folder").arg(blocking)
+                                : tr("no permission to create folders in %1").arg(blocking);
+        return set_error({QStringLiteral("path"), tr("cannot save in %1: %2").arg(info.absolutePath(), why)}), false;
+    }
     const bool ok = output_iface()->writePdf(what, input(), path, paper);
     if (ok) {
         last_saved_path_ = path;

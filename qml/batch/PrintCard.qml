@@ -19,6 +19,8 @@ Card {
     property string failure: ""
     /// What waits for the deviation note: "sheet-pdf", "labels-pdf", "sheet-print", "labels-print".
     property string waiting: ""
+    /// The file dialog that asks where a PDF goes (tests drive it).
+    readonly property alias saveDialog: saveDialog
 
     title: qsTr("Sheet and labels")
     note: root.batch.printed ? qsTr("printed") : qsTr("not printed yet")

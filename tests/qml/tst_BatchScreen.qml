@@ -143,6 +143,33 @@ TestCase {
         tryCompare(s.batch, "needsDeviationNote", false)
         compare(s.batch.deviationNote, "Used for a trial injection only")
         compare(s.batch.deviationBy, "T. Tester")
+
+        // Then the file dialog asks where, proposing <batch id>-sheet.pdf in the last folder.
+        var card = findAll(s, "printCard", [])[0]
+        var dialog = card.saveDialog
+        tryCompare(dialog, "visible", true)
+        verify(String(dialog.selectedFile).indexOf(s.batch.batchId + "-sheet.pdf") > 0, String(dialog.selectedFile))
+        // A place that cannot be written (a folder inside the database file): the reason is said
+        // beside the buttons.
+        // (The dialog takes a file set before it opens, as the card does.)
+        dialog.close()
+        dialog.selectedFile = "file://" + s.batch.workspace.databasePath + "/x.pdf"
+        dialog.open()
+        dialog.accept()
+        var failure = findAll(s, "printError", [])[0]
+        tryCompare(failure, "visible", true)
+        verify(failure.text.indexOf("is a file, not a folder") > 0, failure.text)
+        // A good place: saved there, and the folder is kept for the next dialog.
+        mouseClick(findAll(s, "saveSheetButton", [])[0])
+        tryCompare(dialog, "visible", true)
+        dialog.close()
+        dialog.selectedFile = "file://" + testDir + "/chosen/sheet.pdf"
+        dialog.open()
+        dialog.accept()
+        tryCompare(s.batch, "lastSavedPath", testDir + "/chosen/sheet.pdf")
+        compare(s.batch.outputDir, testDir + "/chosen")
+        compare(failure.visible, false)
+        compare(s.batch.printed, true)
     }
 
     function test_touch_targets() {
