@@ -234,6 +234,21 @@ code, so, se = run(["sheet", write("shipped-ph.json", shipped), "-o", os.path.jo
 check(code == 2 and "batch.deviation.note" in se and "Measured pH 2.58, +0.08" in se,
       "measured pH 2.58 against 2.50 ± 0.05 needs a deviation note: %r" % se.strip())
 
+# ---- a line with one part over its band: the correction worked by hand ---------------------------
+line = json.load(open(os.path.join(src, "data/demo/line-phosphate-acetonitrile.json")))
+line_items = {i["part"]: i for i in run_json(["line", write("line.json", line)])["items"]}
+others = [p for p in line_items if p != "buffer" and line_items[p].get("volume_ml")]
+buffer_ml = line_items["buffer"]["volume_ml"]
+line["batch"] = {"id": "HR-LINE-1", "actual": [{"reagent": "buffer", "volume_ml": round(buffer_ml * 1.06, 1)}],
+                 "deviation": {"note": "buffer poured 6 % over", "by": "R. Okafor", "at": "2026-12-01T15:00:00"}}
+lsum = run_json(["sheet", write("line-batch.json", line), "-o", os.path.join(out, "line-over.pdf")])
+ltext_sheet = re.sub(r"\s+", " ", pdftext(os.path.join(out, "line-over.pdf")))
+check(lsum["batch"]["out_of_tolerance"] and "OUT OF TOLERANCE" in ltext_sheet, "line: a part 6 % over marks the sheet")
+# By hand: s = 1.06; each other part is measured at 1.06 x its target; the line holds 1.06 x its volume.
+for p in others:
+    want = "Measure %s mL of" % fmt_amount(line_items[p]["volume_ml"] * round(buffer_ml * 1.06, 1) / buffer_ml)
+    check(want in ltext_sheet, "line correction: %r" % want)
+
 # ---- labels ---------------------------------------------------------------------------------------
 pdf = os.path.join(out, "labels-label62.pdf")
 run_json(["labels", doc_path, "-o", pdf, "--paper", "label62"])

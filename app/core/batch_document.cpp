@@ -118,7 +118,9 @@ void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double targ
 }
 
 /// The correction in words; `prefix` names the part of a line it is for ("" for a recipe).
-QStringList correction_words(const AppData& data, const chem::Correction& c, const QString& prefix) {
+/// `made_up`: the volume is made up to the mark (a buffer), not the sum of parts (a line).
+QStringList correction_words(const AppData& data, const chem::Correction& c, const QString& prefix,
+                             bool made_up = true) {
     QStringList out;
     if (!c.needed) return out;
     if (c.remake) {
@@ -129,16 +131,16 @@ QStringList correction_words(const AppData& data, const chem::Correction& c, con
         const QString name = part_display_name(data, s.reagent);
         const QString u = " " + qs(s.unit);
         if (!s.entered)
-            out << prefix + "Weigh " + amount_text(s.add) + u + " of " + name +
+            out << prefix + (s.unit == "g" ? "Weigh " : "Measure ") + amount_text(s.add) + u + " of " + name +
                        (c.scale > 1 ? " (scaled from " + amount_text(s.target) + u + ")" : QString()) + ".";
         else if (s.add > 0)
             out << prefix + "Add " + amount_text(s.add) + u + " of " + name + " (to " + amount_text(s.after) + u +
                        (c.scale > 1 ? ", the scaled target" : QString()) + ").";
     }
     if (c.scale > 1)
-        out << prefix + "Make up to " + amount_text(c.final_volume_ml) + " mL instead of " +
-                   amount_text(c.planned_volume_ml) + " mL (all amounts × " + QString::number(c.scale, 'f', 4) +
-                   "), then relabel the volume.";
+        out << prefix + (made_up ? "Make up to " : "The line then holds ") + amount_text(c.final_volume_ml) +
+                   " mL instead of " + amount_text(c.planned_volume_ml) + " mL (all amounts × " +
+                   QString::number(c.scale, 'f', 4) + "), then relabel the volume.";
     if (out.isEmpty()) out << prefix + "Nothing to add: every amount is within its band after scaling.";
     return out;
 }
@@ -363,7 +365,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     chem::Correction parts = chem::suggest_correction(d.part_checks, batch.tolerance_fraction, volume, bottle);
     if (parts.needed) {
         d.correction = parts;
-        d.correction_text << correction_words(data, parts, {});
+        d.correction_text << correction_words(data, parts, {}, false);
     }
     if (d.result) {
         chem::Correction buf = chem::suggest_correction(d.result->checks, batch.tolerance_fraction,
