@@ -200,6 +200,7 @@ private slots:
                  qPrintable(trail));
         QVERIFY(trail.contains("Measured pH: – → 2.53"));
         QVERIFY(trail.contains("Deviation note: – → Used for the system suitability run only"));
+        QVERIFY(trail.contains("Sheet saved as PDF (A4)"));
         QVERIFY(!trail.contains("actual["));
         QVERIFY(!trail.contains("mass_g"));
     }

@@ -33,6 +33,18 @@ QString amount_words(double v) {
     return QString::number(v, 'f', a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
 }
 
+/// "sheet a4 pdf" → "Sheet saved as PDF (A4)"; "labels label62 printer" → "Labels printed (62 mm label)".
+QString print_words(const QString& what) {
+    const QStringList w = what.split(' ');
+    if (w.size() != 3) return QObject::tr("Printed: %1").arg(what);
+    const QString doc = w[0] == QLatin1String("labels") ? QObject::tr("Labels") : QObject::tr("Sheet");
+    const QString paper = w[1] == QLatin1String("label62") ? QObject::tr("62 mm label")
+                          : w[1] == QLatin1String("letter") ? QObject::tr("US Letter")
+                                                            : w[1].toUpper();
+    return w[2] == QLatin1String("pdf") ? QObject::tr("%1 saved as PDF (%2)").arg(doc, paper)
+                                        : QObject::tr("%1 printed (%2)").arg(doc, paper);
+}
+
 QString local_path(const QString& path_or_url) {
     if (path_or_url.startsWith(QStringLiteral("file:"))) return QUrl(path_or_url).toLocalFile();
     return path_or_url;
@@ -205,7 +217,7 @@ void BatchModel::reload(const QString& id) {
                                         {"reason", h.reason},
                                         {"label", history_label(h.field)},
                                         {"text", h.action == QLatin1String("print")
-                                                     ? tr("Printed or saved: %1").arg(h.new_value.toString().section(": ", 1))
+                                                     ? print_words(h.new_value.toString().section(": ", 1))
                                                      : tr("%1: %2 → %3").arg(history_label(h.field),
                                                                              history_value(h.field, h.old_value),
                                                                              history_value(h.field, h.new_value))}});
