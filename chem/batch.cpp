@@ -13,6 +13,7 @@ namespace {
 
 constexpr double max_final_volume_ml = 1.0e6;   ///< same bound as the designer's volume_ml
 constexpr double max_tolerance_fraction = 0.5;   ///< ± 50 %: beyond that a "tolerance" means nothing
+constexpr double max_ph_tolerance = 2.0;         ///< ± 2 pH units: beyond that a "tolerance" means nothing
 /// A predicted pH this far from the target deserves a look before use; common practice, no source.
 constexpr double ph_off_target = 0.05;
 
@@ -237,6 +238,16 @@ std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
     if (!std::isfinite(tol) || tol <= 0 || tol > max_tolerance_fraction)
         throw Error("batch.tolerance_percent", format_number(tol * 100) + " % is outside 0 to " +
                                                    format_number(max_tolerance_fraction * 100) + " %");
+    if (batch.measured_ph && (!std::isfinite(*batch.measured_ph) || *batch.measured_ph < 0 || *batch.measured_ph > 14))
+        throw Error("batch.measured_ph", format_number(*batch.measured_ph) + " is not a pH between 0 and 14");
+    if (!std::isfinite(batch.ph_tolerance) || batch.ph_tolerance <= 0 || batch.ph_tolerance > max_ph_tolerance)
+        throw Error("batch.ph_tolerance", format_number(batch.ph_tolerance) + " is not a pH tolerance between 0 and " +
+                                              format_number(max_ph_tolerance));
+    if (batch.container_ml && (!std::isfinite(*batch.container_ml) || *batch.container_ml <= 0 ||
+                               *batch.container_ml > max_final_volume_ml))
+        throw Error("batch.container_ml", format_number(*batch.container_ml) + " is not a volume between 0 and " +
+                                              format_number(max_final_volume_ml) + " mL");
+    if (!batch.deviation_at.empty()) parse_local_datetime(batch.deviation_at, "batch.deviation.at");
     if (!std::isfinite(shelf_life_h) || shelf_life_h <= 0)
         throw Error("batch.shelf_life_h", format_number(shelf_life_h) + " is not a positive number of hours");
     std::optional<LocalDateTime> prepared;
@@ -328,7 +339,10 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
                             format_number(out.final_volume_ml) + " mL is " +
                             format_number(c.actual_mol_per_l) + " mol/L, above " +
                             format_number(max_concentration_mol_per_l) + " mol/L");
-        if (!c.within_tolerance) out.warnings.push_back(out_of_tolerance_warning(c, tol));
+        if (!c.within_tolerance) {
+            out.warnings.push_back(out_of_tolerance_warning(c, tol));
+            out.out_of_tolerance = true;
+        }
         if (!a)
             out.warnings.push_back({"amount-not-entered", Warning::Severity::info,
                                     it.reagent + ": no actual amount entered; the target " +
@@ -363,7 +377,24 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
                  format_fixed(recipe.request.target_ph, 2) +
                  " (more than 0.05: common practice, no source); check the meter reading and the "
                  "weighings before use."});
+    if (batch.measured_ph) {
+        out.measured_ph_deviation = *batch.measured_ph - recipe.request.target_ph;
+        if (std::abs(*out.measured_ph_deviation) > batch.ph_tolerance * (1 + 1e-9) + 1e-12) {
+            out.measured_ph_out = true;
+            out.out_of_tolerance = true;
+            out.warnings.push_back(measured_ph_warning(*batch.measured_ph, recipe.request.target_ph, batch.ph_tolerance));
+        }
+    }
     return out;
+}
+
+Warning measured_ph_warning(double measured_ph, double target_ph, double ph_tolerance) {
+    const double d = measured_ph - target_ph;
+    std::string m = "Measured pH " + format_fixed(measured_ph, 2);
+    m += ", " + std::string(d >= 0 ? "+" : "") + format_fixed(d, 2);
+    m += " from the target " + format_fixed(target_ph, 2);
+    m += ", outside ± " + format_number(ph_tolerance) + ".";
+    return {"measured-ph-out-of-tolerance", Warning::Severity::warning, m};
 }
 
 } // namespace chem

@@ -58,6 +58,20 @@ struct Batch {
     /// The final volume actually made up, mL; absent = the recipe's volume_ml.
     std::optional<double> final_volume_ml;
     std::vector<ActualAmount> actual;
+    /// The pH read on the meter after preparation, at the recipe's temperature; absent = not read.
+    std::optional<double> measured_ph;
+    /// ± allowed between measured_ph and the target pH, pH units (default 0.05: common practice,
+    /// no source).
+    double ph_tolerance = 0.05;
+    std::string ph_meter_id;         ///< the pH meter used, may be empty
+    std::string balance_id;          ///< the balance used, may be empty
+    std::string comment;             ///< free text, may be empty
+    /// The largest volume the vessel holds, mL; absent = not known (limits a scaled correction).
+    std::optional<double> container_ml;
+    /// Why an out-of-tolerance batch is still used, who recorded it and when; empty = none.
+    std::string deviation_note;
+    std::string deviation_by;
+    std::string deviation_at;        ///< ISO 8601 local
 };
 
 /// One recipe item against what was actually measured.
@@ -86,9 +100,20 @@ struct BatchResult {
     double shelf_life_h = 0;             ///< the shelf life applied (when expires_at was not given)
     /// "amount-out-of-tolerance" (warning), "amount-not-entered" (info), "ph-off-target" (caution
     /// when the pH predicted from the actual amounts is more than 0.05 from the target — common
-    /// practice, no source).
+    /// practice, no source), "measured-ph-out-of-tolerance" (warning, measured_ph more than
+    /// ph_tolerance from the target).
     std::vector<Warning> warnings;
+    /// measured_ph − target pH; absent when no pH was measured.
+    std::optional<double> measured_ph_deviation;
+    /// True when measured_ph lies outside target ± ph_tolerance.
+    bool measured_ph_out = false;
+    /// True when an entered amount lies outside its band or the measured pH outside tolerance:
+    /// the batch needs a deviation note before it is printed or used.
+    bool out_of_tolerance = false;
 };
+
+/// The out-of-tolerance warning for a measured pH (code "measured-ph-out-of-tolerance").
+Warning measured_ph_warning(double measured_ph, double target_ph, double ph_tolerance);
 
 /// Amount of substance per unit of what is measured for one recipe item: mol per g of material
 /// (assay / M) and mol per mL (stock or titrant: molarity / 1000; neat liquid: density · assay / M).
@@ -105,7 +130,10 @@ ItemBasis item_basis(const Library& lib, const RecipeRequest& request, const Rec
 /// "batch.prepared_at", "batch.actual[1].mass_g", "batch.tolerance_percent", … for a missing id,
 /// a time that is not ISO 8601, an expiry before preparation, a non-positive amount, an amount
 /// for a reagent the recipe does not use (the message lists the recipe's reagents), a mass for a
-/// stock solution, a volume for a solid, or two entries for one reagent.
+/// stock solution, a volume for a solid, or two entries for one reagent, a measured pH outside
+/// 0–14 ("batch.measured_ph"), a pH tolerance outside 0–2 ("batch.ph_tolerance"), a container
+/// that is not a positive volume ("batch.container_ml"), a deviation time that is not ISO 8601
+/// ("batch.deviation.at").
 /// @param shelf_life_h hours from prepared_at to the expiry when the batch gives no expires_at.
 BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch& batch,
                            double shelf_life_h);

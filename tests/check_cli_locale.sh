@@ -82,6 +82,8 @@ for a in batch["batch"]["actual"]:
     for k in ("mass_g", "volume_ml"):
         if k in a:
             a[k] = round(a[k] * 1.237, 3)
+# Out of tolerance prints only with a deviation note.
+batch["batch"]["deviation"] = {"note": "Trial batch, 23.7 % over", "by": "R. Okafor", "at": "2026-12-01T17:00:00"}
 json.dump(batch, open(work + "/batch-off.json", "w"))
 for name in ("line-phosphate-acetonitrile", "overnight-sequence"):
     doc = json.load(open(src + "/data/demo/" + name + ".json"))

@@ -118,7 +118,11 @@ doc["purpose"] = "Mobile phase A for the overnight assay QC-117"
 doc["batch"] = {"id": batch_id, "prepared_by": "R. Okafor", "prepared_at": "2026-12-01T16:30:00",
                 "checked_by": "M. Lindqvist",
                 "actual": [{"reagent": acid, "volume_ml": acid_actual, "lot": "PA-88121"},
-                           {"reagent": salt, "mass_g": salt_actual, "lot": "SP-2207"}]}
+                           {"reagent": salt, "mass_g": salt_actual, "lot": "SP-2207"}],
+                "measured_ph": 2.53, "ph_meter_id": "PHM-3", "balance_id": "BAL-07",
+                "comment": "Made in the 2 L flask from shelf 4.",
+                "deviation": {"note": "Salt 2.5 % over; QA agreed to use it for system suitability only.",
+                              "by": "M. Lindqvist", "at": "2026-12-01T16:55:00"}}
 doc_path = write("demo-batch.json", doc)
 
 for paper, size in (("a4", (595.28, 841.89)), ("letter", (612.0, 792.0))):
@@ -153,6 +157,22 @@ for label, needle in [
         ("sign-off: signature", "SIGNATURE")]:
     check(needle in flat, "sheet shows the %s (%r)" % (label, needle))
 check(re.sub(r"\s+", "", demo["name"]) in re.sub(r"\s+", "", text), "sheet shows the recipe name %r" % demo["name"])
+# Out of tolerance (the salt): the boxed mark on every page, the reason, the deviation note with
+# who and when, the bench fields, and the correction worked out here by hand: scale s = actual /
+# target of the salt (1.025), so the acid goes to 1.025 x its target and the volume to 2050 mL.
+sheet_pages = pages(os.path.join(out, "sheet-a4.pdf"))
+check(flat.count("OUT OF TOLERANCE") >= sheet_pages, "the mark is on each of the %d pages" % sheet_pages)
+for label, needle in [("deviation note", "QA agreed to use it for system suitability only"),
+                      ("deviation by", "M. Lindqvist"), ("deviation time", "2026-12-01 16:55"),
+                      ("reason names the salt", "Sodium dihydrogen phosphate monohydrate: " + fmt_amount(salt_actual) + " g, +2.5 %"),
+                      ("measured pH", "2.53"), ("pH meter", "PHM-3"), ("balance", "BAL-07"),
+                      ("comment", "Made in the 2 L flask from shelf 4."),
+                      ("scaled volume", "Make up to 2050.0 mL instead of 2000.0 mL")]:
+    check(needle in flat, "out-of-tolerance sheet shows the %s (%r)" % (label, needle))
+# By hand: the acid was 0.5 % over; against the scaled target it is 1.005 / 1.025 - 1 = -1.95 %,
+# inside +/- 2 %, so nothing is added to it.
+check("Add " not in flat and "of Phosphoric acid 85 %" not in flat.split("Suggested correction")[1][:300],
+      "correction: the acid (1.005 / 1.025 - 1 = -1.95 %, within the band) needs nothing added")
 check(re.search(r"\bsafe\b", flat, re.I) is None, "the sheet never calls anything safe")
 
 # Expiry: prepared_at + the aqueous-buffer shelf life of data/solvents.json, by Python's calendar.
@@ -205,7 +225,29 @@ check(len(flagged) == 1 and flagged[0]["reagent"] == salt and abs(flagged[0]["de
 shipped = json.load(open(os.path.join(src, "data/demo/buffer-phosphate-ph2.5.json")))
 shipped["batch"] = {"id": "DEMO-1"}
 code, so, se = run(["sheet", write("shipped-demo.json", shipped), "-o", os.path.join(out, "shipped-demo.pdf")])
-check(code == 0 and "DEMO-1" in pdftext(os.path.join(out, "shipped-demo.pdf")), "the shipped demo buffer prints a sheet")
+shipped_text = pdftext(os.path.join(out, "shipped-demo.pdf"))
+check(code == 0 and "DEMO-1" in shipped_text, "the shipped demo buffer prints a sheet")
+check("OUT OF TOLERANCE" not in shipped_text, "a batch within tolerance carries no mark")
+# A measured pH outside target ± ph_tolerance alone makes the batch out of tolerance.
+shipped["batch"] = {"id": "DEMO-2", "measured_ph": 2.58, "ph_tolerance": 0.05}
+code, so, se = run(["sheet", write("shipped-ph.json", shipped), "-o", os.path.join(out, "shipped-ph.pdf")])
+check(code == 2 and "batch.deviation.note" in se and "Measured pH 2.58, +0.08" in se,
+      "measured pH 2.58 against 2.50 ± 0.05 needs a deviation note: %r" % se.strip())
+
+# ---- a line with one part over its band: the correction worked by hand ---------------------------
+line = json.load(open(os.path.join(src, "data/demo/line-phosphate-acetonitrile.json")))
+line_items = {i["part"]: i for i in run_json(["line", write("line.json", line)])["items"]}
+others = [p for p in line_items if p != "buffer" and line_items[p].get("volume_ml")]
+buffer_ml = line_items["buffer"]["volume_ml"]
+line["batch"] = {"id": "HR-LINE-1", "actual": [{"reagent": "buffer", "volume_ml": round(buffer_ml * 1.06, 1)}],
+                 "deviation": {"note": "buffer poured 6 % over", "by": "R. Okafor", "at": "2026-12-01T15:00:00"}}
+lsum = run_json(["sheet", write("line-batch.json", line), "-o", os.path.join(out, "line-over.pdf")])
+ltext_sheet = re.sub(r"\s+", " ", pdftext(os.path.join(out, "line-over.pdf")))
+check(lsum["batch"]["out_of_tolerance"] and "OUT OF TOLERANCE" in ltext_sheet, "line: a part 6 % over marks the sheet")
+# By hand: s = 1.06; each other part is measured at 1.06 x its target; the line holds 1.06 x its volume.
+for p in others:
+    want = "Measure %s mL of" % fmt_amount(line_items[p]["volume_ml"] * round(buffer_ml * 1.06, 1) / buffer_ml)
+    check(want in ltext_sheet, "line correction: %r" % want)
 
 # ---- labels ---------------------------------------------------------------------------------------
 pdf = os.path.join(out, "labels-label62.pdf")
@@ -213,7 +255,7 @@ run_json(["labels", doc_path, "-o", pdf, "--paper", "label62"])
 w, h = page_size_pt(pdf)
 check(abs(w - 62 / 25.4 * 72) < 1, "label62 page is 62 mm wide (%.1f pt)" % w)
 ltext = re.sub(r"\s+", " ", pdftext(pdf))
-for needle in (batch_id, "pH %.2f" % made["ph"], "2026-12-01 16:30", expires.strftime("%Y-%m-%d %H:%M"), "R. Okafor",
+for needle in ("OUT OF TOLERANCE", batch_id, "pH %.2f" % made["ph"], "2026-12-01 16:30", expires.strftime("%Y-%m-%d %H:%M"), "R. Okafor",
                "NaH2PO4 " + fmt_mmol([c for c in made["composition"] if c["reagent"] == salt][0]["mol_per_l"]),
                "H314", "safety data sheets"):
     check(needle in ltext, "62 mm label shows %r" % needle)
@@ -279,6 +321,9 @@ def with_(d, value, *path):
     return d
 
 bad("no batch", without(doc, "batch"), [], "batch")
+bad("out of tolerance, no deviation note", without(doc, "batch", "deviation"), [], "batch.deviation.note")
+bad("empty deviation note", with_(doc, "  ", "batch", "deviation", "note"), [], "batch.deviation.note")
+bad("measured pH 15", with_(doc, 15, "batch", "measured_ph"), [], "batch.measured_ph")
 bad("no id", without(doc, "batch", "id"), [], "batch.id")
 bad("bad date", with_(doc, "01/12/2026", "batch", "prepared_at"), [], "batch.prepared_at")
 bad("unknown reagent", with_(doc, "tris", "batch", "actual", 0, "reagent"), [], "batch.actual[0].reagent")

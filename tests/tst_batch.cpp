@@ -2,6 +2,7 @@
 // as made and its pH recomputed from the actual amounts, times and shelf life, and the batch
 // record in SQLite (every change in the history, a printed batch refuses silent edits).
 #include "chem/batch.h"
+#include "chem/batch_correction.h"
 #include "chem/error.h"
 #include "chem/recipe.h"
 #include "core/chem_json.h"
@@ -10,6 +11,7 @@
 #include "test_support.h"
 
 #include <QJsonArray>
+#include <QJsonDocument>
 #include <QSqlDatabase>
 #include <QSqlError>
 #include <QSqlQuery>
@@ -103,6 +105,11 @@ private slots:
     void printedBatchRefusesSilentEdits();
     void historyIsAppendOnlyInTheDatabase();
     void migrationCreatesBatchTables();
+    void correctionByHand_data();
+    void correctionByHand();
+    void correctionRefusesBadVolumes();
+    void measuredPhAgainstItsTolerance();
+    void benchFieldsStoredAndMigratedFromV4();
 };
 
 // Invariant: entering exactly the planned amounts gives the planned composition and pH.
@@ -551,6 +558,166 @@ void TestBatch::migrationCreatesBatchTables() {
     BatchStore store(db.connection());
     store.create(demo_record(), "R. Okafor");
     QCOMPARE(store.list(), QStringList{"HR-QC117-A-0042"});
+}
+
+// ---- corrections ---------------------------------------------------------------------------------
+// Every expected value is worked by hand beside its row: two solids A (target 2.000 g) and B
+// (target 5.000 g) in 1000 mL at ± 2 %, unless the row says otherwise.
+
+void TestBatch::correctionByHand_data() {
+    QTest::addColumn<double>("a");          // actual A, g (NaN = not weighed yet)
+    QTest::addColumn<double>("b");          // actual B, g (NaN = not weighed yet)
+    QTest::addColumn<double>("container");  // mL (NaN = not given)
+    QTest::addColumn<bool>("needed");
+    QTest::addColumn<bool>("remake");
+    QTest::addColumn<double>("scale");
+    QTest::addColumn<double>("volume");     // mL
+    QTest::addColumn<double>("add_a");      // g
+    QTest::addColumn<double>("add_b");      // g
+    const double nan = std::nan("");
+    // Both within ± 2 %: nothing to do.
+    QTest::newRow("within") << 2.030 << 4.950 << nan << false << false << 1.0 << 1000.0 << 0.0 << 0.0;
+    // A 5 % under (1.900 g): s = 1, add 2.000 − 1.900 = 0.100 g of A; B on target.
+    QTest::newRow("A under") << 1.900 << 5.000 << nan << true << false << 1.0 << 1000.0 << 0.100 << 0.0;
+    // A 5 % over (2.100 g): s = 2.100 / 2.000 = 1.05, V = 1050 mL; B scaled target 5.250 g,
+    // band 5.145–5.355 g; B at 5.000 g is outside: add 5.250 − 5.000 = 0.250 g.
+    QTest::newRow("A over") << 2.100 << 5.000 << nan << true << false << 1.05 << 1050.0 << 0.0 << 0.250;
+    // A 5 % over, B 3 % over (5.150 g): s = max(1.05, 1.03) = 1.05; B against 5.250 g:
+    // 5.150 / 5.250 − 1 = −1.905 %, inside ± 2 %: nothing to add to B.
+    QTest::newRow("both over") << 2.100 << 5.150 << nan << true << false << 1.05 << 1050.0 << 0.0 << 0.0;
+    // A 5 % over, B not weighed yet: weigh 5.000 × 1.05 = 5.250 g of B.
+    QTest::newRow("B not yet weighed") << 2.100 << nan << nan << true << false << 1.05 << 1050.0 << 0.0 << 5.250;
+    // A 5 % over in a 1000 mL flask: 1050 mL does not fit: remake.
+    QTest::newRow("flask too small") << 2.100 << 5.000 << 1000.0 << true << true << 1.05 << 1050.0 << 0.0 << 0.250;
+    // The same in a 2000 mL bottle: it fits.
+    QTest::newRow("bottle large enough") << 2.100 << 5.000 << 2000.0 << true << false << 1.05 << 1050.0 << 0.0 << 0.250;
+    // A 10 % over (2.200 g) and B 4 % under (4.800 g): s = 1.10, V = 1100 mL, B to 5.500 g:
+    // add 5.500 − 4.800 = 0.700 g.
+    QTest::newRow("over and under") << 2.200 << 4.800 << nan << true << false << 1.10 << 1100.0 << 0.0 << 0.700;
+}
+
+void TestBatch::correctionByHand() {
+    QFETCH(double, a);
+    QFETCH(double, b);
+    QFETCH(double, container);
+    QFETCH(bool, needed);
+    QFETCH(bool, remake);
+    QFETCH(double, scale);
+    QFETCH(double, volume);
+    QFETCH(double, add_a);
+    QFETCH(double, add_b);
+    auto opt = [](double v) { return std::isnan(v) ? std::nullopt : std::optional<double>(v); };
+    const std::vector<chem::AmountCheck> checks = {chem::check_amount("A", "g", 2.0, opt(a), 0.02),
+                                                   chem::check_amount("B", "g", 5.0, opt(b), 0.02)};
+    const chem::Correction c = chem::suggest_correction(checks, 0.02, 1000, opt(container));
+    QCOMPARE(c.needed, needed);
+    QCOMPARE(c.remake, remake);
+    QVERIFY2(std::abs(c.scale - scale) < 1e-9, qPrintable(QString::number(c.scale)));
+    QVERIFY(std::abs(c.final_volume_ml - volume) < 1e-6);
+    QCOMPARE(int(c.steps.size()), 2);
+    QVERIFY2(std::abs(c.steps[0].add - add_a) < 1e-9, qPrintable(QString::number(c.steps[0].add)));
+    QVERIFY2(std::abs(c.steps[1].add - add_b) < 1e-9, qPrintable(QString::number(c.steps[1].add)));
+    if (remake) QVERIFY(c.remake_reason.find("1050 mL") != std::string::npos);
+    // After the correction every weighed part lies within the band around its scaled target.
+    if (needed && !remake)
+        for (const auto& s : c.steps)
+            QVERIFY2(std::abs(s.after / s.new_target - 1) <= 0.02 + 1e-12, s.reagent.c_str());
+}
+
+void TestBatch::correctionRefusesBadVolumes() {
+    const std::vector<chem::AmountCheck> checks = {chem::check_amount("A", "g", 2.0, 2.1, 0.02)};
+    QCOMPARE(expect_error([&] { chem::suggest_correction(checks, 0.02, 0, std::nullopt); }),
+             QString("batch.final_volume_ml"));
+    QCOMPARE(expect_error([&] { chem::suggest_correction(checks, 0.02, 1000, -5.0); }),
+             QString("batch.container_ml"));
+}
+
+// ---- the measured pH --------------------------------------------------------------------------
+
+void TestBatch::measuredPhAgainstItsTolerance() {
+    const chem::Recipe r = design(demo_input()); // target pH 2.50
+    chem::Batch b = batch_with({});
+    // 2.54: 0.04 from 2.50, inside the default ± 0.05 (common practice, no source).
+    b.measured_ph = 2.54;
+    chem::BatchResult res = chem::evaluate_batch(lib(), r, b, 48);
+    QVERIFY(!res.out_of_tolerance);
+    QVERIFY(std::abs(*res.measured_ph_deviation - 0.04) < 1e-9);
+    // 2.57: 0.07 from 2.50, outside ± 0.05: out of tolerance, warned with the numbers.
+    b.measured_ph = 2.57;
+    res = chem::evaluate_batch(lib(), r, b, 48);
+    QVERIFY(res.out_of_tolerance && res.measured_ph_out);
+    QVERIFY(has_code(res.warnings, "measured-ph-out-of-tolerance"));
+    // The same reading with ± 0.1 allowed: inside.
+    b.ph_tolerance = 0.1;
+    QVERIFY(!chem::evaluate_batch(lib(), r, b, 48).out_of_tolerance);
+    // Bad values name their field.
+    b.measured_ph = 15;
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.measured_ph"));
+    b.measured_ph = 2.5;
+    b.ph_tolerance = 0;
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.ph_tolerance"));
+    b.ph_tolerance = 0.05;
+    b.container_ml = -1;
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.container_ml"));
+}
+
+void TestBatch::benchFieldsStoredAndMigratedFromV4() {
+    QTemporaryDir dir;
+    const QString path = dir.filePath("v4.sqlite");
+    using phaseplan::storage::Database;
+    {
+        // A file at step 4 with a batch in it, written with step 4's columns only.
+        Database old(path, 4);
+        const BatchRecord r = demo_record();
+        QSqlQuery q(old.connection());
+        q.prepare("INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at,"
+                  " tolerance_percent, actual, created_at, updated_at) VALUES (?, ?, ?, ?, ?, 2, ?, ?, ?)");
+        for (const QVariant& v : QVariantList{r.id, r.document_kind,
+                                              QString::fromUtf8(QJsonDocument(r.document).toJson(QJsonDocument::Compact)),
+                                              r.prepared_by, r.prepared_at,
+                                              QString::fromUtf8(QJsonDocument(r.actual).toJson(QJsonDocument::Compact)),
+                                              "2026-12-01T16:00:00Z", "2026-12-01T16:00:00Z"})
+            q.addBindValue(v);
+        QVERIFY2(q.exec(), qPrintable(q.lastError().text()));
+    }
+    Database db(path);
+    QCOMPARE(db.schema_version(), phaseplan::storage::latest_schema_version());
+    BatchStore store(db.connection());
+    BatchRecord rec = *store.load("HR-QC117-A-0042");
+    QVERIFY(!rec.measured_ph);
+    QCOMPARE(rec.ph_tolerance, 0.05);
+    rec.measured_ph = 2.53;
+    rec.ph_meter_id = "PHM-3";
+    rec.balance_id = "BAL-07";
+    rec.comment = "2 L flask";
+    rec.container_ml = 2000;
+    rec.deviation_note = "used for a trial only";
+    rec.deviation_by = "M. Lindqvist";
+    rec.deviation_at = "2026-12-01T17:00:00";
+    QVERIFY(store.edit(rec.id, rec, "R. Okafor"));
+    const BatchRecord back = *store.load(rec.id);
+    QCOMPARE(back.measured_ph.value_or(0), 2.53);
+    QCOMPARE(back.ph_meter_id, QString("PHM-3"));
+    QCOMPARE(back.balance_id, QString("BAL-07"));
+    QCOMPARE(back.comment, QString("2 L flask"));
+    QCOMPARE(back.container_ml.value_or(0), 2000.0);
+    QCOMPARE(back.deviation_note, QString("used for a trial only"));
+    QCOMPARE(back.deviation_by, QString("M. Lindqvist"));
+    QStringList fields;
+    for (const auto& h : store.history(rec.id))
+        if (h.revision == back.revision) fields << h.field;
+    for (const char* f : {"measured_ph", "ph_meter_id", "balance_id", "comment", "container_ml", "deviation.note",
+                          "deviation.by", "deviation.at"})
+        QVERIFY2(fields.contains(f), f);
+    // The contract round trip keeps them.
+    const BatchRecord again = BatchRecord::from_input(back.to_input());
+    QCOMPARE(again.deviation_note, back.deviation_note);
+    QCOMPARE(again.measured_ph.value_or(0), 2.53);
+    // The database refuses an unrecorded change of the new columns too.
+    QSqlQuery q(db.connection());
+    QVERIFY(!q.exec("UPDATE batches SET deviation_note = 'changed quietly'"));
+    QVERIFY(!q.exec("UPDATE batches SET measured_ph = 7"));
+    QCOMPARE(store.load(rec.id)->deviation_note, QString("used for a trial only"));
 }
 
 QTEST_GUILESS_MAIN(TestBatch)

@@ -8,7 +8,12 @@
 // any analytical chemistry text); the PDF's text is read back with poppler's pdftotext, an
 // outside program.
 #include "batch_model.h"
+#include "print/documents.h"
+#include "print/print_controller.h"
 #include "workspace.h"
+
+#include <QCoreApplication>
+#include <QSettings>
 
 #include <QFile>
 #include <QFileInfo>
@@ -63,6 +68,17 @@ int count_action(const QVariantList& history, const QString& action) {
     return n;
 }
 
+
+/// The steps the sheet prints: each numbered block with the heading before it.
+QVariantList printed_steps(const phaseplan::print::SheetDocument& d) {
+    using phaseplan::print::Block;
+    QVariantList out;
+    for (int i = 1; i < d.blocks.size(); ++i)
+        if (d.blocks[i].kind == Block::Kind::numbered && d.blocks[i - 1].kind == Block::Kind::heading)
+            out.append(QVariantMap{{"heading", d.blocks[i - 1].text}, {"steps", d.blocks[i].items}});
+    return out;
+}
+
 } // namespace
 
 class TestGuiBatch : public QObject {
@@ -70,6 +86,125 @@ class TestGuiBatch : public QObject {
     QTemporaryDir dir_;
 
 private slots:
+    void initTestCase() {
+        QStandardPaths::setTestModeEnabled(true);
+        QCoreApplication::setOrganizationName("PhasePlanTest");
+        QCoreApplication::setApplicationName("tst_gui_batch");
+        QSettings().clear();
+    }
+
+    /// Out of tolerance: the reasons in words, the correction worked by hand, a deviation note
+    /// required before printing and recorded with who and when, the mark on the sheet, the steps
+    /// on screen equal to the printed ones, the audit trail in words, the PDF folder remembered.
+    void out_of_tolerance_needs_a_deviation_note() {
+        const QString db = dir_.filePath("deviation.sqlite");
+        auto ws = open_workspace(db);
+        phaseplan::print::PrintController printer;
+        printer.setData(&ws->data());
+        BatchModel m;
+        m.setWorkspace(ws.get());
+        m.setIdPrefix("DV");
+        m.setPreparer("R. Okafor");
+        QVERIFY2(m.markPrepared(demo_buffer()), qPrintable(m.errorMessage()));
+        QVERIFY(!m.outOfTolerance());
+
+        // No output connected: saving says why, at field "output".
+        QVERIFY(!m.saveSheet(dir_.filePath("pdf/none.pdf"), "a4"));
+        QCOMPARE(m.errorField(), QString("output"));
+        m.setOutput(&printer);
+
+        const QString acid = QStringLiteral("phosphoric-acid");
+        const QString salt = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
+        const int ra = row_of(m, acid), rs = row_of(m, salt);
+        const double ta = role(m, ra, BatchModel::TargetRole).toDouble();
+        const double ts = role(m, rs, BatchModel::TargetRole).toDouble();
+        // The salt 4 % over, the acid on target: out of tolerance.
+        const double salt_actual = std::round(ts * 1.04 * 1000) / 1000;
+        QVERIFY(m.setActual(rs, salt_actual));
+        QVERIFY(m.setActual(ra, std::round(ta * 1000) / 1000));
+        QVERIFY(m.outOfTolerance());
+        QVERIFY(m.needsDeviationNote());
+        QCOMPARE(m.outOfToleranceReasons().size(), 1);
+        QVERIFY2(m.outOfToleranceReasons()[0].startsWith("Sodium dihydrogen phosphate monohydrate: "),
+                 qPrintable(m.outOfToleranceReasons()[0]));
+
+        // The correction by hand: s = salt actual / salt target; the acid (entered at its target,
+        // rounded to 0.001 mL) then lies 1/s − 1 ≈ −3.8 % below its scaled target, outside ± 2 %:
+        // add s·ta − acid actual; make up to s × 2000 mL (the demo's volume).
+        const double s = salt_actual / ts;
+        const double acid_actual = std::round(ta * 1000) / 1000;
+        const QString add_acid = QString::number(s * ta - acid_actual, 'f', (s * ta - acid_actual) >= 1 ? 3 : 4);
+        const QString volume = QString::number(2000 * s, 'f', 1);
+        const QString all = m.correction().join("\n");
+        QVERIFY2(all.contains("Add " + add_acid + " mL of Phosphoric acid"), qPrintable(all + " / " + add_acid));
+        QVERIFY2(all.contains("Make up to " + volume + " mL instead of 2000.0 mL"), qPrintable(all));
+        QVERIFY(!m.correctionIsRemake());
+        // A 2000 mL flask cannot take the scaled volume: remake.
+        m.setContainerMl(2000);
+        QVERIFY(m.correctionIsRemake());
+        QVERIFY(m.correction().join(" ").contains("Remake"));
+        m.setContainerMl(std::nan(""));
+        QVERIFY(!m.correctionIsRemake());
+
+        // Printing asks for a deviation note; an empty one is refused.
+        const QString sheet = dir_.filePath("pdf/chosen/sheet.pdf");
+        QVERIFY(!m.saveSheet(sheet, "a4"));
+        QCOMPARE(m.errorField(), QString("batch.deviation.note"));
+        QVERIFY(!QFileInfo::exists(sheet));
+        QVERIFY(!m.recordDeviation("   "));
+        QCOMPARE(m.errorField(), QString("batch.deviation.note"));
+        QVERIFY2(m.recordDeviation("Used for the system suitability run only (QA, M. Lindqvist)."),
+                 qPrintable(m.errorMessage()));
+        QVERIFY(!m.needsDeviationNote());
+        QCOMPARE(m.deviationBy(), QString("R. Okafor"));
+        QVERIFY(QDateTime::fromString(m.deviationAt(), Qt::ISODate).isValid());
+
+        // Bench fields, stored with the batch.
+        m.setMeasuredPh(2.53);
+        m.setPhMeterId("PHM-3");
+        m.setBalanceId("BAL-07");
+        m.setComment("2 L flask, shelf 4");
+        QVERIFY2(m.errorField().isEmpty(), qPrintable(m.errorMessage()));
+        QCOMPARE(m.measuredPh(), 2.53);
+
+        // Saved where the user chose: the folder is remembered for the next session.
+        QVERIFY2(m.saveSheet(sheet, "a4"), qPrintable(m.errorMessage()));
+        QCOMPARE(m.outputDir(), dir_.filePath("pdf/chosen"));
+        BatchModel fresh;
+        QCOMPARE(fresh.outputDir(), dir_.filePath("pdf/chosen"));
+        // A file that cannot be written says why, at the path.
+        QFile blocker(dir_.filePath("pdf/blocker"));
+        QVERIFY(blocker.open(QIODevice::WriteOnly));
+        blocker.close();
+        QVERIFY(!m.saveLabels(dir_.filePath("pdf/blocker/labels.pdf"), "label62"));
+        QCOMPARE(m.errorField(), QString("path"));
+        QVERIFY2(m.errorMessage().contains("is a file, not a folder"), qPrintable(m.errorMessage()));
+
+        if (QStandardPaths::findExecutable("pdftotext").isEmpty()) QSKIP("pdftotext (poppler-utils) missing");
+        const QString text = pdf_text(sheet).simplified();
+        QVERIFY(text.contains("OUT OF TOLERANCE"));
+        QVERIFY(text.contains("Used for the system suitability run only"));
+        QVERIFY(text.contains("PHM-3") && text.contains("BAL-07"));
+
+        // One source of steps: the screen's list equals the printed sheet's.
+        const auto job = phaseplan::print::build_print_job(ws->data(), QJsonObject::fromVariantMap(m.input()), "now");
+        QCOMPARE(m.steps(), printed_steps(job.sheet));
+        QVERIFY(!m.steps().isEmpty());
+
+        // The audit trail in words: reagent names and field labels, no JSON paths.
+        QStringList texts;
+        for (const QVariant& h : m.history()) texts << h.toMap().value("text").toString();
+        const QString trail = texts.join("\n");
+        QVERIFY2(trail.contains("Actual amount of Sodium dihydrogen phosphate monohydrate: – → " +
+                                QString::number(salt_actual, 'f', 3) + " g"),
+                 qPrintable(trail));
+        QVERIFY(trail.contains("Measured pH: – → 2.53"));
+        QVERIFY(trail.contains("Deviation note: – → Used for the system suitability run only"));
+        QVERIFY(trail.contains("Sheet saved as PDF (A4)"));
+        QVERIFY(!trail.contains("actual["));
+        QVERIFY(!trail.contains("mass_g"));
+    }
+
     void demo_batch_from_prepare_to_amendment() {
         const QString db = dir_.filePath("batch.sqlite");
         const QString base = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
@@ -77,8 +212,11 @@ private slots:
         double entered = 0;
         {
             auto ws = open_workspace(db);
+            phaseplan::print::PrintController printer;
+            printer.setData(&ws->data());
             BatchModel m;
             m.setWorkspace(ws.get());
+            m.setOutput(&printer);
             m.setIdPrefix("HR");
             m.setOutputDir(dir_.filePath("out"));
 
@@ -143,6 +281,11 @@ private slots:
             QVERIFY(!role(m, r, BatchModel::ErrorRole).toString().isEmpty());
             QVERIFY(m.setActual(r, entered));
             QVERIFY(m.errorField().isEmpty());
+
+            // Out of tolerance: a deviation note first.
+            QVERIFY(!m.saveSheet(dir_.filePath("out/sheet.pdf"), "a4"));
+            QCOMPARE(m.errorField(), QString("batch.deviation.note"));
+            QVERIFY(m.recordDeviation("weighed 5 % over; used for a trial injection only"));
 
             // Sheet and labels as PDF.
             const QString sheet = dir_.filePath("out/sheet.pdf");

@@ -34,7 +34,10 @@ QJsonObject demo_with_batch() {
     in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
                               {"prepared_at", "2026-12-01T16:30:00"},
                               {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
-                                                                {"mass_g", 3.0855}, {"lot", "SP-2207"}}}}};
+                                                                {"mass_g", 3.0855}, {"lot", "SP-2207"}}}},
+                              // 3.0855 g is over the salt's ± 2 % band: printing needs a deviation note.
+                              {"deviation", QJsonObject{{"note", "salt over its band; trial use only"},
+                                                        {"by", "M. Lindqvist"}, {"at", "2026-12-01T16:50:00"}}}};
     return in;
 }
 
@@ -83,6 +86,7 @@ private slots:
     void controllerSavesSheetAndLabels();
     void controllerPrintsThroughQPrinter();
     void controllerErrorsNameTheFieldAndWriteNothing();
+    void outOfToleranceNeedsNoteAndCarriesMark();
 
 private:
     QTemporaryDir dir_;
@@ -238,6 +242,41 @@ void TestPrint::labelGridFitsThePaper() {
     }
     const LabelGrid one = label_grid(Paper::label62);
     QCOMPARE(one.label_width_mm, 62.0);
+}
+
+/// An out-of-tolerance batch: no sheet or label without a deviation note (and no file); with one,
+/// the job's sheet and label carry the mark and the sheet a notice listing the reason.
+void TestPrint::outOfToleranceNeedsNoteAndCarriesMark() {
+    PrintController pc;
+    pc.setData(&shipped_data());
+    QJsonObject in = demo_with_batch();
+    QJsonObject b = in.value("batch").toObject();
+    b.remove("deviation");
+    in["batch"] = b;
+    const QString path = dir_.filePath("no-note.pdf");
+    QVERIFY(!pc.saveSheet(in.toVariantMap(), path, "a4"));
+    QCOMPARE(pc.lastErrorField(), QString("batch.deviation.note"));
+    QVERIFY(!pc.saveLabels(in.toVariantMap(), path, "label62"));
+    QVERIFY(!QFile::exists(path));
+    // The preview still evaluates it, and says it is out of tolerance.
+    QCOMPARE(pc.preview(in.toVariantMap()).value("batch").toMap().value("out_of_tolerance").toBool(), true);
+
+    const auto job = phaseplan::print::build_print_job(shipped_data(), demo_with_batch(), "now");
+    QVERIFY(!job.sheet.mark.isEmpty());
+    QCOMPARE(job.labels.size(), 1);
+    QCOMPARE(job.labels[0].mark, job.sheet.mark);
+    bool notice = false;
+    for (const auto& block : job.sheet.blocks)
+        if (block.kind == phaseplan::print::Block::Kind::notice)
+            notice = block.items.size() == 1 && block.items[0].startsWith("Sodium dihydrogen phosphate monohydrate");
+    QVERIFY(notice);
+    // Within tolerance: no mark.
+    QJsonObject ok = demo_with_batch();
+    QJsonObject okb = ok.value("batch").toObject();
+    okb.remove("actual");
+    okb.remove("deviation");
+    ok["batch"] = okb;
+    QVERIFY(phaseplan::print::build_print_job(shipped_data(), ok, "now").sheet.mark.isEmpty());
 }
 
 void TestPrint::controllerSavesSheetAndLabels() {

@@ -1,7 +1,7 @@
 #include "batch_model.h"
 
-#include "print/documents.h"
-#include "print/print_controller.h"
+#include "chem/error.h"
+#include "core/batch_document.h"
 #include "workspace.h"
 
 #include <QDateTime>
@@ -9,7 +9,9 @@
 #include <QFileInfo>
 #include <QJsonArray>
 #include <QRegularExpression>
+#include <QSettings>
 #include <QStandardPaths>
+#include <QUrl>
 
 #include <cmath>
 #include <limits>
@@ -22,11 +24,39 @@ QString now_local() { return QDateTime::currentDateTime().toString(QStringLitera
 
 QVariant json_to_variant(const QJsonValue& v) { return v.isNull() || v.isUndefined() ? QVariant() : v.toVariant(); }
 
+const QString pdf_folder_key = QStringLiteral("batch/pdfFolder");
+
+/// About four significant figures, as the sheet prints amounts.
+QString amount_words(double v) {
+    if (v == 0) return QStringLiteral("0");
+    const double a = std::abs(v);
+    return QString::number(v, 'f', a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
+}
+
+/// "sheet a4 pdf" → "Sheet saved as PDF (A4)"; "labels label62 printer" → "Labels printed (62 mm label)".
+QString print_words(const QString& what) {
+    const QStringList w = what.split(' ');
+    if (w.size() != 3) return QObject::tr("Printed: %1").arg(what);
+    const QString doc = w[0] == QLatin1String("labels") ? QObject::tr("Labels") : QObject::tr("Sheet");
+    const QString paper = w[1] == QLatin1String("label62") ? QObject::tr("62 mm label")
+                          : w[1] == QLatin1String("letter") ? QObject::tr("US Letter")
+                                                            : w[1].toUpper();
+    return w[2] == QLatin1String("pdf") ? QObject::tr("%1 saved as PDF (%2)").arg(doc, paper)
+                                        : QObject::tr("%1 printed (%2)").arg(doc, paper);
+}
+
+QString local_path(const QString& path_or_url) {
+    if (path_or_url.startsWith(QStringLiteral("file:"))) return QUrl(path_or_url).toLocalFile();
+    return path_or_url;
+}
+
 } // namespace
 
-BatchModel::BatchModel(QObject* parent)
-    : QAbstractListModel(parent), printer_(std::make_unique<print::PrintController>()) {
-    output_dir_ = QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
+BatchModel::BatchModel(QObject* parent) : QAbstractListModel(parent) {
+    const QString kept = QSettings().value(pdf_folder_key).toString();
+    output_dir_ = !kept.isEmpty() && QFileInfo(kept).isDir()
+                      ? kept
+                      : QStandardPaths::writableLocation(QStandardPaths::DocumentsLocation);
 }
 
 BatchModel::~BatchModel() = default;
@@ -34,11 +64,7 @@ BatchModel::~BatchModel() = default;
 void BatchModel::setWorkspace(Workspace* w) {
     if (workspace_ == w) return;
     workspace_ = w;
-    printer_->setData(w ? &w->data() : nullptr);
-    if (w) connect(w, &Workspace::readyChanged, this, [this] {
-        if (workspace_) printer_->setData(&workspace_->data());
-        emit batchListChanged();
-    });
+    if (w) connect(w, &Workspace::readyChanged, this, [this] { emit batchListChanged(); });
     emit workspaceChanged();
     emit batchListChanged();
 }
@@ -55,10 +81,22 @@ void BatchModel::setIdPrefix(const QString& p) {
     emit preparerChanged();
 }
 
-void BatchModel::setOutputDir(const QString& d) {
+void BatchModel::setOutputDir(const QString& d_in) {
+    const QString d = local_path(d_in);
     if (output_dir_ == d) return;
     output_dir_ = d;
+    if (!d.isEmpty()) QSettings().setValue(pdf_folder_key, d);
     emit outputDirChanged();
+}
+
+void BatchModel::setOutput(QObject* o) {
+    if (output_object_ == o) return;
+    output_object_ = o;
+    emit outputChanged();
+}
+
+DocumentOutput* BatchModel::output_iface() const {
+    return output_object_ ? qobject_cast<DocumentOutput*>(output_object_.data()) : nullptr;
 }
 
 void BatchModel::setAmendReason(const QString& r) {
@@ -93,21 +131,28 @@ int BatchModel::actual_index(const QString& reagent) const {
 
 FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     if (!workspace_ || !workspace_->ready()) return {QStringLiteral("database"), tr("no database is open")};
-    print::PrintJob job;
-    const FieldError e = guarded([&] { job = print::build_print_job(workspace_->data(), rec.to_input(), now_local()); });
+    BatchDocument doc;
+    const FieldError e = guarded([&] { doc = read_batch_document(workspace_->data(), rec.to_input()); });
     if (!e.empty()) {
         valid_ = false;
         emit resultChanged();
         return e;
     }
-    const QJsonObject s = job.summary;
+    const QJsonObject s = doc.summary;
     const QJsonObject b = s.value("batch").toObject();
+    out_of_tolerance_ = doc.out_of_tolerance;
+    reasons_ = doc.out_of_tolerance_reasons;
+    correction_ = doc.correction_text;
+    correction_remake_ = doc.correction && doc.correction->remake;
+    steps_.clear();
+    for (const StepSection& sec : doc.steps)
+        steps_.append(QVariantMap{{"heading", sec.heading}, {"steps", sec.steps}});
     std::vector<Row> rows;
     for (const QJsonValue& v : b.value("checks").toArray()) {
         const QJsonObject c = v.toObject();
         Row r;
         r.reagent = c.value("reagent").toString();
-        r.name = workspace_->displayName(r.reagent);
+        r.name = c.value("name").toString(workspace_->displayName(r.reagent));
         r.unit = c.value("unit").toString();
         r.target = c.value("target").toDouble();
         r.low = c.value("low").toDouble();
@@ -169,7 +214,13 @@ void BatchModel::reload(const QString& id) {
                                         {"field", h.field},
                                         {"oldValue", json_to_variant(h.old_value)},
                                         {"newValue", json_to_variant(h.new_value)},
-                                        {"reason", h.reason}});
+                                        {"reason", h.reason},
+                                        {"label", history_label(h.field)},
+                                        {"text", h.action == QLatin1String("print")
+                                                     ? print_words(h.new_value.toString().section(": ", 1))
+                                                     : tr("%1: %2 → %3").arg(history_label(h.field),
+                                                                             history_value(h.field, h.old_value),
+                                                                             history_value(h.field, h.new_value))}});
     }
 }
 
@@ -196,8 +247,7 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
     e = evaluate(rec);
     if (!e.empty()) return set_error(e), false;
     e = guarded([&] {
-        const print::PrintJob job = print::build_print_job(workspace_->data(), rec.to_input(), now_local());
-        rec.expires_at = job.summary.value("batch").toObject().value("expires_at").toString();
+        rec.expires_at = read_batch_document(workspace_->data(), rec.to_input()).expires_at;
         st->create(rec, person);
     });
     if (!e.empty()) return set_error(e), false;
@@ -237,6 +287,10 @@ void BatchModel::close() {
     stored_.reset();
     pending_ = false;
     valid_ = false;
+    out_of_tolerance_ = correction_remake_ = false;
+    reasons_.clear();
+    correction_.clear();
+    steps_.clear();
     history_.clear();
     set_error({});
     emit batchChanged();
@@ -304,6 +358,120 @@ void BatchModel::setTolerancePercent(double v) {
     apply(QStringLiteral("batch.tolerance_percent"), next);
 }
 
+double BatchModel::measuredPh() const {
+    return draft_ && draft_->measured_ph ? *draft_->measured_ph : std::numeric_limits<double>::quiet_NaN();
+}
+
+void BatchModel::setMeasuredPh(double v) {
+    if (!draft_) return;
+    const std::optional<double> next_v = std::isnan(v) ? std::nullopt : std::optional<double>(v);
+    if (draft_->measured_ph == next_v) return;
+    auto next = *draft_;
+    next.measured_ph = next_v;
+    apply(QStringLiteral("batch.measured_ph"), next);
+}
+
+void BatchModel::setPhTolerance(double v) {
+    if (!draft_ || draft_->ph_tolerance == v) return;
+    auto next = *draft_;
+    next.ph_tolerance = v;
+    apply(QStringLiteral("batch.ph_tolerance"), next);
+}
+
+void BatchModel::setPhMeterId(const QString& v) {
+    if (!draft_ || draft_->ph_meter_id == v.trimmed()) return;
+    auto next = *draft_;
+    next.ph_meter_id = v.trimmed();
+    apply(QStringLiteral("batch.ph_meter_id"), next);
+}
+
+void BatchModel::setBalanceId(const QString& v) {
+    if (!draft_ || draft_->balance_id == v.trimmed()) return;
+    auto next = *draft_;
+    next.balance_id = v.trimmed();
+    apply(QStringLiteral("batch.balance_id"), next);
+}
+
+void BatchModel::setComment(const QString& v) {
+    if (!draft_ || draft_->comment == v.trimmed()) return;
+    auto next = *draft_;
+    next.comment = v.trimmed();
+    apply(QStringLiteral("batch.comment"), next);
+}
+
+double BatchModel::containerMl() const {
+    return draft_ && draft_->container_ml ? *draft_->container_ml : std::numeric_limits<double>::quiet_NaN();
+}
+
+void BatchModel::setContainerMl(double v) {
+    if (!draft_) return;
+    const std::optional<double> next_v = std::isnan(v) ? std::nullopt : std::optional<double>(v);
+    if (draft_->container_ml == next_v) return;
+    auto next = *draft_;
+    next.container_ml = next_v;
+    apply(QStringLiteral("batch.container_ml"), next);
+}
+
+bool BatchModel::recordDeviation(const QString& note_in) {
+    if (!draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    const QString note = note_in.trimmed();
+    if (note.isEmpty())
+        return set_error({QStringLiteral("batch.deviation.note"),
+                          tr("write why the batch is used although it is out of tolerance")}),
+               false;
+    auto next = *draft_;
+    next.deviation_note = note;
+    next.deviation_by = who();
+    next.deviation_at = now_local();
+    return apply(QStringLiteral("batch.deviation.note"), next);
+}
+
+QString BatchModel::history_label(const QString& field) const {
+    static const QRegularExpression actual(QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot)$"));
+    const auto m = actual.match(field);
+    if (m.hasMatch()) {
+        const QString name = workspace_ ? part_display_name(workspace_->data(), m.captured(1).toStdString())
+                                        : m.captured(1);
+        return m.captured(2) == QLatin1String("lot") ? tr("Lot of %1").arg(name) : tr("Actual amount of %1").arg(name);
+    }
+    static const std::map<QString, const char*> labels = {
+        {"document_kind", QT_TR_NOOP("Kind of document")},
+        {"document", QT_TR_NOOP("Recipe")},
+        {"prepared_by", QT_TR_NOOP("Prepared by")},
+        {"prepared_at", QT_TR_NOOP("Prepared at")},
+        {"expires_at", QT_TR_NOOP("Expires at")},
+        {"checked_by", QT_TR_NOOP("Checked by")},
+        {"tolerance_percent", QT_TR_NOOP("Tolerance of each amount")},
+        {"measured_ph", QT_TR_NOOP("Measured pH")},
+        {"ph_tolerance", QT_TR_NOOP("pH tolerance")},
+        {"ph_meter_id", QT_TR_NOOP("pH meter")},
+        {"balance_id", QT_TR_NOOP("Balance")},
+        {"comment", QT_TR_NOOP("Comment")},
+        {"container_ml", QT_TR_NOOP("Container holds")},
+        {"deviation.note", QT_TR_NOOP("Deviation note")},
+        {"deviation.by", QT_TR_NOOP("Deviation recorded by")},
+        {"deviation.at", QT_TR_NOOP("Deviation recorded at")},
+        {"printed_count", QT_TR_NOOP("Printed")},
+    };
+    const auto it = labels.find(field);
+    return it != labels.end() ? tr(it->second) : field;
+}
+
+QString BatchModel::history_value(const QString& field, const QJsonValue& v) const {
+    if (v.isNull() || v.isUndefined()) return QStringLiteral("–");
+    if (field == QLatin1String("document")) return tr("the recipe as marked prepared");
+    if (field.endsWith(QLatin1String(".mass_g"))) return amount_words(v.toDouble()) + " g";
+    if (field.endsWith(QLatin1String(".volume_ml"))) return amount_words(v.toDouble()) + " mL";
+    if (field == QLatin1String("tolerance_percent")) return "± " + QString::number(v.toDouble()) + " %";
+    if (field == QLatin1String("ph_tolerance")) return "± " + QString::number(v.toDouble());
+    if (field == QLatin1String("measured_ph")) return QString::number(v.toDouble(), 'f', 2);
+    if (field == QLatin1String("container_ml")) return QString::number(v.toDouble()) + " mL";
+    if (field.endsWith(QLatin1String("_at")) || field == QLatin1String("deviation.at"))
+        return v.toString().left(16).replace('T', ' ');
+    if (v.isDouble()) return QString::number(v.toDouble());
+    return v.toString();
+}
+
 bool BatchModel::setActual(int row, double amount) {
     if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
     const Row& r = rows_[size_t(row)];
@@ -368,7 +536,9 @@ void BatchModel::discardPending() {
 }
 
 QString BatchModel::defaultPath(const QString& what) const {
-    const QString name = printer_->suggestedFileName(input(), what);
+    DocumentOutput* out = output_iface();
+    QString name = out ? out->fileNameFor(input(), what) : QString();
+    if (name.isEmpty()) name = (draft_ ? draft_->id : QStringLiteral("batch")) + "-" + what + ".pdf";
     return QDir(output_dir_.isEmpty() ? QDir::currentPath() : output_dir_).filePath(name);
 }
 
@@ -379,12 +549,29 @@ bool BatchModel::ready_to_print() {
                           tr("record the change as an amendment (with a reason) or discard it before printing: "
                              "the printed batch must match its record")}),
                false;
+    if (!valid_)
+        return set_error({error_.field.isEmpty() ? QStringLiteral("batch") : error_.field,
+                          tr("the batch has an invalid entry: correct it before printing") +
+                              (error_.message.isEmpty() ? QString() : " (" + error_.message + ")")}),
+               false;
+    if (needsDeviationNote())
+        return set_error({QStringLiteral("batch.deviation.note"),
+                          tr("the batch is out of tolerance (%1): record a deviation note before printing")
+                              .arg(reasons_.join("; "))}),
+               false;
+    if (!output_iface())
+        return set_error({QStringLiteral("output"), tr("no printer or PDF writer is connected to this screen")}), false;
     return true;
 }
 
 bool BatchModel::after_print(bool ok, const QString& what) {
     if (!ok) {
-        set_error({printer_->lastErrorField(), printer_->lastError()});
+        DocumentOutput* out = output_iface();
+        QString field = out ? out->outputErrorField() : QStringLiteral("output");
+        QString message = out ? out->outputError() : tr("no output");
+        if (message.startsWith(field + ": ")) message = message.mid(field.size() + 2);
+        if (field == QLatin1String("-o")) field = QStringLiteral("path");
+        set_error({field.isEmpty() ? QStringLiteral("output") : field, message});
         return false;
     }
     auto st = store();
@@ -397,38 +584,46 @@ bool BatchModel::after_print(bool ok, const QString& what) {
     return e.empty();
 }
 
-bool BatchModel::saveSheet(const QString& path_in, const QString& paper) {
+bool BatchModel::save_pdf(const QString& what, const QString& path_in, const QString& paper) {
     if (!ready_to_print()) return false;
-    const QString path = path_in.isEmpty() ? defaultPath(QStringLiteral("sheet")) : path_in;
-    QDir().mkpath(QFileInfo(path).absolutePath());
-    const bool ok = printer_->saveSheet(input(), path, paper);
+    const QString path = path_in.isEmpty() ? defaultPath(what) : local_path(path_in);
+    const QFileInfo info(path);
+    if (!QDir().mkpath(info.absolutePath())) {
+        // Say why: a file stands where a folder is needed, or the folder cannot be created here.
+        QString blocking = info.absolutePath();
+        while (!blocking.isEmpty() && !QFileInfo::exists(blocking)) blocking = QFileInfo(blocking).absolutePath();
+        const QString why = QFileInfo(blocking).isFile()
+                                ? tr("%1 is a file, not a folder").arg(blocking)
+                                : tr("no permission to create folders in %1").arg(blocking);
+        return set_error({QStringLiteral("path"), tr("cannot save in %1: %2").arg(info.absolutePath(), why)}), false;
+    }
+    const bool ok = output_iface()->writePdf(what, input(), path, paper);
     if (ok) {
         last_saved_path_ = path;
         emit lastSavedPathChanged();
+        if (!path_in.isEmpty()) setOutputDir(info.absolutePath());
     }
-    return after_print(ok, QStringLiteral("sheet %1 pdf").arg(paper));
+    return after_print(ok, QStringLiteral("%1 %2 pdf").arg(what, paper));
 }
 
-bool BatchModel::saveLabels(const QString& path_in, const QString& paper) {
-    if (!ready_to_print()) return false;
-    const QString path = path_in.isEmpty() ? defaultPath(QStringLiteral("labels")) : path_in;
-    QDir().mkpath(QFileInfo(path).absolutePath());
-    const bool ok = printer_->saveLabels(input(), path, paper);
-    if (ok) {
-        last_saved_path_ = path;
-        emit lastSavedPathChanged();
-    }
-    return after_print(ok, QStringLiteral("labels %1 pdf").arg(paper));
+bool BatchModel::saveSheet(const QString& path, const QString& paper) {
+    return save_pdf(QStringLiteral("sheet"), path, paper);
+}
+
+bool BatchModel::saveLabels(const QString& path, const QString& paper) {
+    return save_pdf(QStringLiteral("labels"), path, paper);
 }
 
 bool BatchModel::printSheet(const QString& printer, const QString& paper) {
     if (!ready_to_print()) return false;
-    return after_print(printer_->printSheet(input(), printer, paper), QStringLiteral("sheet %1 printer").arg(paper));
+    return after_print(output_iface()->sendToPrinter(QStringLiteral("sheet"), input(), printer, paper),
+                       QStringLiteral("sheet %1 printer").arg(paper));
 }
 
 bool BatchModel::printLabels(const QString& printer, const QString& paper) {
     if (!ready_to_print()) return false;
-    return after_print(printer_->printLabels(input(), printer, paper), QStringLiteral("labels %1 printer").arg(paper));
+    return after_print(output_iface()->sendToPrinter(QStringLiteral("labels"), input(), printer, paper),
+                       QStringLiteral("labels %1 printer").arg(paper));
 }
 
 QVariantMap BatchModel::input() const { return draft_ ? draft_->to_input().toVariantMap() : QVariantMap{}; }
@@ -441,7 +636,10 @@ QStringList BatchModel::batchIds() const {
     return ids;
 }
 
-QStringList BatchModel::printers() const { return printer_->printers(); }
+QStringList BatchModel::printers() const {
+    DocumentOutput* out = output_iface();
+    return out ? out->printerNames() : QStringList{};
+}
 
 int BatchModel::flaggedCount() const {
     int n = 0;

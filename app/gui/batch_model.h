@@ -1,11 +1,16 @@
 #pragma once
 // The batch at the bench: "mark as prepared" on the current buffer (or a line) creates a batch in
 // the lab's database (storage::BatchStore), the preparer enters what was actually weighed or
-// measured and the lots, and the model recomputes the solution as made (chem::evaluate_batch,
-// through print::build_print_job, so the screen shows exactly what the sheet will print). It saves
-// the recipe sheet and the labels as PDF or prints them (print::PrintController) and records each
-// print; after that, a change is refused by the store until it is recorded as an amendment with a
-// reason.
+// measured, the lots, the measured pH, the instruments and a comment, and the model recomputes
+// the solution as made (core/batch_document: read_batch_document, the same evaluation the sheet
+// prints from, so the screen shows exactly what the sheet will print: checks, steps, warnings,
+// the out-of-tolerance verdict and the suggested correction). It saves the sheet and the labels
+// as PDF or prints them through `output` (a DocumentOutput, handed in by the view; this model
+// does not depend on app/print) and records each print; after that, a change is refused by the
+// store until it is recorded as an amendment with a reason.
+//
+// An out-of-tolerance batch (an amount outside its band, or the measured pH outside target ±
+// phTolerance) is printed only after recordDeviation(note): the note is stored with who and when.
 //
 // Every edit is stored at once (one transaction, one history row per changed field) when the
 // batch has not been printed. A lot number without an amount stays on the screen only: the batch
@@ -13,6 +18,7 @@
 //
 // Errors: chem::Error caught here (guarded) and shown beside the field it names: errorField is the
 // JSON path of the batch contract ("batch.actual[1].mass_g", "batch.prepared_at", "reason", …).
+#include "core/document_output.h"
 #include "model_util.h"
 #include "storage/batch_store.h"
 
@@ -29,10 +35,6 @@
 
 Q_MOC_INCLUDE("workspace.h")
 
-namespace phaseplan::print {
-class PrintController;
-}
-
 namespace phaseplan::gui {
 
 class Workspace;
@@ -46,8 +48,12 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(QString preparer READ preparer WRITE setPreparer NOTIFY preparerChanged)
     /// Prefix of proposed batch ids ("<prefix>-YYYYMMDD-NNN").
     Q_PROPERTY(QString idPrefix READ idPrefix WRITE setIdPrefix NOTIFY preparerChanged)
-    /// Folder for saved PDFs; defaults to the Documents location.
+    /// Folder for saved PDFs: the last folder a PDF was saved in (kept in QSettings under
+    /// "batch/pdfFolder"), else the Documents location.
     Q_PROPERTY(QString outputDir READ outputDir WRITE setOutputDir NOTIFY outputDirChanged)
+    /// Where PDFs and printouts go: an object implementing phaseplan::DocumentOutput (the view
+    /// passes a PrintService). Without one, saving and printing fail with field "output".
+    Q_PROPERTY(QObject* output READ output WRITE setOutput NOTIFY outputChanged)
 
     // ---- the open batch ----------------------------------------------------------------------
     /// True once a batch is open (created or loaded).
@@ -75,6 +81,36 @@ class BatchModel : public QAbstractListModel {
     /// Why the pending change is made (required by the store for an amendment).
     Q_PROPERTY(QString amendReason READ amendReason WRITE setAmendReason NOTIFY amendReasonChanged)
 
+    // ---- measured at the bench ----------------------------------------------------------------
+    /// The pH read on the meter; NaN = not measured (setting NaN clears it).
+    Q_PROPERTY(double measuredPh READ measuredPh WRITE setMeasuredPh NOTIFY batchChanged)
+    /// ± pH units allowed between the measured pH and the target (default 0.05).
+    Q_PROPERTY(double phTolerance READ phTolerance WRITE setPhTolerance NOTIFY batchChanged)
+    Q_PROPERTY(QString phMeterId READ phMeterId WRITE setPhMeterId NOTIFY batchChanged)
+    Q_PROPERTY(QString balanceId READ balanceId WRITE setBalanceId NOTIFY batchChanged)
+    Q_PROPERTY(QString comment READ comment WRITE setComment NOTIFY batchChanged)
+    /// The largest volume the vessel holds, mL; NaN = not given (the correction then assumes
+    /// the volume can grow).
+    Q_PROPERTY(double containerMl READ containerMl WRITE setContainerMl NOTIFY batchChanged)
+    /// The deviation note of an out-of-tolerance batch, who recorded it and when (ISO local).
+    Q_PROPERTY(QString deviationNote READ deviationNote NOTIFY batchChanged)
+    Q_PROPERTY(QString deviationBy READ deviationBy NOTIFY batchChanged)
+    Q_PROPERTY(QString deviationAt READ deviationAt NOTIFY batchChanged)
+
+    // ---- tolerance verdict and correction (from the core) --------------------------------------
+    /// An amount outside its band or the measured pH outside tolerance.
+    Q_PROPERTY(bool outOfTolerance READ outOfTolerance NOTIFY resultChanged)
+    /// Each reason in the screens' words.
+    Q_PROPERTY(QStringList outOfToleranceReasons READ outOfToleranceReasons NOTIFY resultChanged)
+    /// Out of tolerance and no deviation note yet: printing is refused until one is recorded.
+    Q_PROPERTY(bool needsDeviationNote READ needsDeviationNote NOTIFY resultChanged)
+    /// The suggested correction, one instruction a line; empty when every amount is in its band.
+    Q_PROPERTY(QStringList correction READ correction NOTIFY resultChanged)
+    /// The correction is a remake (the vessel cannot take the scaled volume).
+    Q_PROPERTY(bool correctionIsRemake READ correctionIsRemake NOTIFY resultChanged)
+    /// The steps, exactly as the sheet prints them: [{heading, steps: [text, …]}].
+    Q_PROPERTY(QVariantList steps READ steps NOTIFY resultChanged)
+
     // ---- the solution as made (from the core) -------------------------------------------------
     Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
     Q_PROPERTY(double targetPh READ targetPh NOTIFY resultChanged)
@@ -93,7 +129,9 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(QVariantList warnings READ warnings NOTIFY resultChanged)
 
     // ---- record and print ---------------------------------------------------------------------
-    /// [{seq, at, who, action, field, oldValue, newValue, reason}], oldest first.
+    /// [{seq, at, who, action, field, oldValue, newValue, reason, label, text}], oldest first;
+    /// `label` is the field as the screen names it ("Actual amount of Potassium dihydrogen
+    /// phosphate"), `text` the whole change in words ("…: 3.161 g → 3.205 g").
     Q_PROPERTY(QVariantList history READ history NOTIFY batchChanged)
     /// Every batch in the database, newest first.
     Q_PROPERTY(QStringList batchIds READ batchIds NOTIFY batchListChanged)
@@ -132,6 +170,8 @@ public:
     void setIdPrefix(const QString& p);
     QString outputDir() const { return output_dir_; }
     void setOutputDir(const QString& d);
+    QObject* output() const { return output_object_; }
+    void setOutput(QObject* o);
 
     bool active() const { return draft_.has_value(); }
     QString batchId() const { return draft_ ? draft_->id : QString(); }
@@ -153,6 +193,27 @@ public:
     bool pendingAmendment() const { return pending_; }
     QString amendReason() const { return amend_reason_; }
     void setAmendReason(const QString& r);
+    double measuredPh() const;
+    void setMeasuredPh(double v);
+    double phTolerance() const { return draft_ ? draft_->ph_tolerance : 0.05; }
+    void setPhTolerance(double v);
+    QString phMeterId() const { return draft_ ? draft_->ph_meter_id : QString(); }
+    void setPhMeterId(const QString& v);
+    QString balanceId() const { return draft_ ? draft_->balance_id : QString(); }
+    void setBalanceId(const QString& v);
+    QString comment() const { return draft_ ? draft_->comment : QString(); }
+    void setComment(const QString& v);
+    double containerMl() const;
+    void setContainerMl(double v);
+    QString deviationNote() const { return draft_ ? draft_->deviation_note : QString(); }
+    QString deviationBy() const { return draft_ ? draft_->deviation_by : QString(); }
+    QString deviationAt() const { return draft_ ? draft_->deviation_at : QString(); }
+    bool outOfTolerance() const { return out_of_tolerance_; }
+    QStringList outOfToleranceReasons() const { return reasons_; }
+    bool needsDeviationNote() const { return out_of_tolerance_ && deviationNote().trimmed().isEmpty(); }
+    QStringList correction() const { return correction_; }
+    bool correctionIsRemake() const { return correction_remake_; }
+    QVariantList steps() const { return steps_; }
 
     bool valid() const { return valid_; }
     double targetPh() const { return target_ph_; }
@@ -192,8 +253,12 @@ public:
     Q_INVOKABLE bool amend();
     /// Drops the pending change and shows the stored batch again.
     Q_INVOKABLE void discardPending();
+    /// Records why an out-of-tolerance batch is still used, with the preparer and the time. False
+    /// (error "batch.deviation.note") for an empty note.
+    Q_INVOKABLE bool recordDeviation(const QString& note);
 
-    /// Where a PDF goes when no path is given: <outputDir>/<batch id>-<what>.pdf.
+    /// Where a PDF goes when no path is given: <outputDir>/<batch id>-<what>.pdf. A path or file:
+    /// URL given to saveSheet / saveLabels makes its folder the new outputDir.
     Q_INVOKABLE QString defaultPath(const QString& what) const;
     /// Saves the recipe sheet (paper "a4" | "letter") as a PDF; path "" = defaultPath("sheet").
     /// Records the print in the batch's history.
@@ -211,6 +276,7 @@ signals:
     void workspaceChanged();
     void preparerChanged();
     void outputDirChanged();
+    void outputChanged();
     void batchChanged();
     void amendReasonChanged();
     void resultChanged();
@@ -234,11 +300,15 @@ private:
     void set_error(const FieldError& e);
     QString who() const;
     bool after_print(bool ok, const QString& what);
+    bool save_pdf(const QString& what, const QString& path_in, const QString& paper);
+    DocumentOutput* output_iface() const;
+    QString history_label(const QString& field) const;
+    QString history_value(const QString& field, const QJsonValue& v) const;
     bool ready_to_print();
     int actual_index(const QString& reagent) const;
 
     QPointer<Workspace> workspace_;
-    std::unique_ptr<print::PrintController> printer_;
+    QPointer<QObject> output_object_;
     QString preparer_;
     QString id_prefix_ = QStringLiteral("B");
     QString output_dir_;
@@ -253,7 +323,9 @@ private:
     QString title_;
     double shelf_life_h_ = 0;
     double target_ph_ = 0, predicted_ph_ = 0, ionic_strength_mmol_per_l_ = 0, buffer_capacity_mmol_per_l_ = 0;
-    QVariantList composition_, warnings_, history_;
+    QVariantList composition_, warnings_, history_, steps_;
+    bool out_of_tolerance_ = false, correction_remake_ = false;
+    QStringList reasons_, correction_;
     QString last_saved_path_;
     FieldError error_;
 };

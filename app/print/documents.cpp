@@ -3,6 +3,7 @@
 #include "chem/error.h"
 #include "chem/recipe.h"
 #include "chem/recipe_roles.h"
+#include "core/batch_document.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
@@ -49,13 +50,6 @@ QString dissolved_formula(const chem::Reagent& r) {
     return f;
 }
 
-QString recipe_title(const chem::Library& lib, const chem::Recipe& r, const QJsonObject& input) {
-    if (input.value("name").isString() && !input.value("name").toString().trimmed().isEmpty())
-        return input.value("name").toString().trimmed();
-    // The same default name the buffer screen shows until the user names the buffer.
-    return qs(chem::default_buffer_name(lib, r.request));
-}
-
 QString route_text(const chem::RecipeRequest& q) {
     switch (q.route) {
     case chem::Route::mix: return QStringLiteral("mix: %1 + %2").arg(qs(q.acid), qs(q.base));
@@ -84,41 +78,6 @@ QString form_text(const chem::Reagent& r, const chem::RecipeItem& it, const chem
         return QStringLiteral("liquid, %1 % w/w, %2 g/mL")
             .arg(qs(chem::format_number(r.assay_fraction * 100)), qs(chem::format_number(r.density_g_per_ml)));
     return qs(it.as);
-}
-
-QJsonObject check_to_json(const chem::AmountCheck& c) {
-    QJsonObject o{{"reagent", qs(c.reagent)},
-                  {"unit", qs(c.unit)},
-                  {"target", c.target},
-                  {"low", c.low},
-                  {"high", c.high},
-                  {"entered", c.entered},
-                  {"within_tolerance", c.within_tolerance},
-                  {"target_mol_per_l", c.target_mol_per_l},
-                  {"actual_mol_per_l", c.actual_mol_per_l}};
-    if (c.entered) {
-        o["actual"] = c.actual;
-        o["deviation_percent"] = c.deviation_fraction * 100;
-    }
-    if (!c.lot.empty()) o["lot"] = qs(c.lot);
-    return o;
-}
-
-/// A warning as JSON; amount warnings carry their numbers as fields too.
-QJsonObject warning_json(const chem::Warning& w, const chem::AmountCheck* c = nullptr) {
-    QJsonObject o = warning_to_json(w);
-    if (c) {
-        o["reagent"] = qs(c->reagent);
-        o["unit"] = qs(c->unit);
-        o["target"] = c->target;
-        o["actual"] = c->actual;
-        o["deviation_percent"] = c->deviation_fraction * 100;
-    }
-    return o;
-}
-
-WarningLine warning_line(const chem::Warning& w) {
-    return {QString::fromLatin1(chem::severity_name(w.severity)), qs(w.code), qs(w.message)};
 }
 
 Block heading(const QString& text) {
@@ -227,7 +186,7 @@ QString band_text(const chem::AmountCheck& c, const chem::Batch& b) {
 
 /// The reagents table of a recipe with its batch: target, tolerance, actual, lot, check.
 Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe, const chem::BatchResult& res,
-                    const chem::Batch& batch, QJsonArray* checks_json) {
+                    const chem::Batch& batch) {
     Block table;
     table.kind = Block::Kind::table;
     table.table.headers = {"Reagent", "Form", "Target", "Tolerance", "Actual", "Lot", "Check"};
@@ -247,7 +206,6 @@ Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe, const 
                                         c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
                                         qs(c.lot), check_text(c)};
         table.table.flagged << !c.within_tolerance;
-        if (checks_json) checks_json->append(check_to_json(c));
     }
     return table;
 }
@@ -275,34 +233,17 @@ Block predicted_table(const chem::Recipe& recipe, const chem::BatchResult& res, 
     return pred;
 }
 
-/// Collects warnings for the sheet and the JSON summary, without repeating one.
-struct WarningSink {
-    Block block;
-    QJsonArray json;
-    QSet<QString> seen;
-    WarningSink() { block.kind = Block::Kind::warnings; }
-    void add(const chem::Warning& w, const chem::BatchResult* res = nullptr) {
-        if (!take(qs(w.code), qs(w.message))) return;
-        block.warnings << warning_line(w);
-        const chem::AmountCheck* c = nullptr;
-        if (res && w.code == "amount-out-of-tolerance")
-            for (const auto& ck : res->checks)
-                if (!ck.within_tolerance && w.message.rfind(ck.reagent + ":", 0) == 0) c = &ck;
-        json.append(warning_json(w, c));
+/// The warnings of a BatchDocument as a block.
+Block warnings_block(const QJsonArray& warnings) {
+    Block b;
+    b.kind = Block::Kind::warnings;
+    for (const QJsonValue& v : warnings) {
+        const QJsonObject w = v.toObject();
+        b.warnings << WarningLine{w.value("severity").toString(), w.value("code").toString(),
+                                  w.value("message").toString()};
     }
-    void add(const QJsonObject& w) {
-        if (!take(w.value("code").toString(), w.value("message").toString())) return;
-        block.warnings << WarningLine{w.value("severity").toString(), w.value("code").toString(),
-                                      w.value("message").toString()};
-        json.append(w);
-    }
-    bool take(const QString& code, const QString& message) {
-        const QString key = code + "\n" + message;
-        if (seen.contains(key)) return false;
-        seen.insert(key);
-        return true;
-    }
-};
+    return b;
+}
 
 Block numbered(const QStringList& items) {
     Block b;
@@ -342,16 +283,6 @@ QString purpose_of(const QJsonObject& input) {
     return input.value("batch").toObject().value("purpose").toString(input.value("purpose").toString());
 }
 
-QJsonObject batch_summary(const chem::Batch& batch, const QString& expires_at, double shelf_h) {
-    QJsonObject b{{"id", qs(batch.id)}, {"tolerance_percent", batch.tolerance_fraction * 100},
-                  {"shelf_life_h", shelf_h}};
-    if (!batch.prepared_by.empty()) b["prepared_by"] = qs(batch.prepared_by);
-    if (!batch.prepared_at.empty()) b["prepared_at"] = qs(batch.prepared_at);
-    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
-    if (!batch.checked_by.empty()) b["checked_by"] = qs(batch.checked_by);
-    return b;
-}
-
 QString percent_text(double fraction) {
     return QString::number(fraction * 100, 'f', fraction * 100 == std::round(fraction * 100) ? 0 : 1) + " %";
 }
@@ -361,45 +292,56 @@ QString duration_text(double minutes) {
     return QStringLiteral("%1 h %2 min").arg(m / 60).arg(m % 60, 2, 10, QChar('0'));
 }
 
-/// Runs a batch against a sub-recipe (a line's buffer) whose amounts are a subset of the batch's:
-/// errors name the entry's index in the whole "batch.actual" list.
-chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe, const chem::Batch& whole,
-                                  const std::vector<int>& indexes, double shelf_h) {
-    chem::Batch sub = whole;
-    sub.actual.clear();
-    for (int i : indexes) sub.actual.push_back(whole.actual[i]);
-    try {
-        return chem::evaluate_batch(lib, recipe, sub, shelf_h);
-    } catch (const chem::Error& e) {
-        static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
-        const QString f = qs(e.field());
-        const auto m = re.match(f);
-        if (!m.hasMatch()) throw;
-        const int k = m.captured(1).toInt();
-        const int original = k < int(indexes.size()) ? indexes[k] : k;
-        throw chem::Error(("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength())).toStdString(),
-                          e.message());
+// ---- the out-of-tolerance mark, the deviation and the correction ------------------------------
+
+/// The words boxed on every page and label of an out-of-tolerance batch (PhasePlan's own wording).
+const QString out_of_tolerance_mark = QStringLiteral("OUT OF TOLERANCE — see the deviation note");
+
+/// The mark, the reasons, the deviation note (who, when) and the suggested correction.
+void add_deviation_blocks(const BatchDocument& doc, SheetDocument& d) {
+    if (!doc.out_of_tolerance) return;
+    d.mark = out_of_tolerance_mark;
+    Block notice;
+    notice.kind = Block::Kind::notice;
+    notice.text = out_of_tolerance_mark;
+    notice.items = doc.out_of_tolerance_reasons;
+    d.blocks << notice;
+    const chem::Batch& b = doc.batch;
+    d.blocks << heading(QStringLiteral("Deviation"));
+    d.blocks << fields_block({
+        {"Deviation note", b.deviation_note.empty() ? QStringLiteral("none recorded") : qs(b.deviation_note)},
+        {"Recorded by", qs(b.deviation_by)},
+        {"Recorded at", format_datetime(qs(b.deviation_at))},
+    });
+    if (!doc.correction_text.isEmpty())
+        d.blocks << heading(QStringLiteral("Suggested correction")) << bullets(doc.correction_text);
+}
+
+/// Measured at the bench: the pH meter's reading, the instruments and a comment.
+QList<KeyValue> bench_fields(const chem::Batch& b, std::optional<double> target_ph) {
+    QString ph = b.measured_ph ? format_ph(*b.measured_ph) : QString();
+    if (b.measured_ph && target_ph) {
+        const double dev = *b.measured_ph - *target_ph;
+        ph += " (" + QString(dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) + " from the target, ± " +
+              qs(chem::format_number(b.ph_tolerance)) + " allowed)";
     }
+    return {{"Measured pH", ph}, {"pH meter", qs(b.ph_meter_id)}, {"Balance", qs(b.balance_id)},
+            {"Comment", qs(b.comment)}};
 }
 
 // ---- recipe -----------------------------------------------------------------------------------
 
-PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
+PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input, const QString& printed_at) {
     const chem::Library& lib = data.reagents;
-    const chem::RecipeRequest req = recipe_request_from_json(lib, input, "");
-    const chem::Recipe recipe = chem::design_recipe(lib, req);
-
-    std::optional<int> copies;
-    std::optional<double> shelf_override;
-    const chem::Batch batch = batch_from_json(input, &copies, &shelf_override);
-    QString shelf_source;
-    const double shelf_h = shelf_override.value_or(default_shelf_life_h(data, "aqueous-buffer", &shelf_source));
-    const chem::BatchResult res = chem::evaluate_batch(lib, recipe, batch, shelf_h);
+    const chem::Recipe& recipe = *doc.recipe;
+    const chem::RecipeRequest& req = recipe.request;
+    const chem::Batch& batch = doc.batch;
+    const chem::BatchResult& res = *doc.result;
 
     PrintJob job;
     job.kind = "recipe";
-    job.copies = copies;
-    const QString title = recipe_title(lib, recipe, input);
+    job.copies = doc.copies;
+    const QString title = doc.title;
     job.title = title + " — batch " + qs(batch.id);
 
     SheetDocument& d = job.sheet;
@@ -407,12 +349,12 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     d.title = title;
     d.batch_id = qs(batch.id);
     d.footer = "Printed " + printed_at + " by PhasePlan from the plan. " + footer_note;
+    add_deviation_blocks(doc, d);
 
-    const QString shelf_note = shelf_note_text(shelf_h, QStringLiteral("an aqueous buffer"),
-                                               shelf_override ? QStringLiteral("entered") : shelf_source,
-                                               !batch.expires_at.empty());
+    const QString shelf_note = shelf_note_text(doc.shelf_life_h, doc.shelf_kind, doc.shelf_source, !batch.expires_at.empty());
     d.blocks << heading("Batch")
-             << fields_block(batch_fields(batch, title, purpose_of(input), qs(res.expires_at), shelf_note));
+             << fields_block(batch_fields(batch, title, purpose_of(input), doc.expires_at, shelf_note) +
+                             bench_fields(batch, req.target_ph));
 
     QList<KeyValue> plan = {
         {"Target pH", format_ph(req.target_ph) + " at " + qs(chem::format_number(req.temperature_c)) + " °C"},
@@ -425,32 +367,11 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     };
     d.blocks << heading("Plan") << fields_block(plan);
 
-    QJsonArray checks_json;
-    d.blocks << heading("Reagents: target and actual amounts")
-             << reagent_table(lib, recipe, res, batch, &checks_json);
-
-    // Steps, with degassing when the designer's steps leave it out (the line sheet adds organic).
-    QStringList steps;
-    bool degas = false;
-    for (const auto& s : recipe.steps) {
-        steps << qs(s);
-        degas |= qs(s).contains("degas", Qt::CaseInsensitive);
-    }
-    if (!degas) {
-        const int label_step = steps.indexOf(QRegularExpression("^Label the bottle.*"));
-        const QString text = QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
-                                            "unless the pump degasses in line.");
-        if (label_step >= 0) steps.insert(label_step, text);
-        else steps << text;
-    }
-    d.blocks << heading("Steps") << numbered(steps);
+    d.blocks << heading("Reagents: target and actual amounts") << reagent_table(lib, recipe, res, batch);
+    for (const StepSection& s : doc.steps) d.blocks << heading(s.heading) << numbered(s.steps);
     d.blocks << heading("Predicted pH, ionic strength and buffer capacity")
              << predicted_table(recipe, res, QStringLiteral("Predicted"));
-
-    WarningSink warnings;
-    for (const auto& w : recipe.warnings) warnings.add(w);
-    for (const auto& w : res.warnings) warnings.add(w, &res);
-    d.blocks << heading("Checks") << warnings.block;
+    d.blocks << heading("Checks") << warnings_block(doc.warnings);
 
     HazardSet hz;
     std::set<std::string> seen;
@@ -470,25 +391,15 @@ PrintJob recipe_job(const AppData& data, const QJsonObject& input, const QString
     label.ph = "pH " + format_ph(res.predicted.ph) + " at " + qs(chem::format_number(req.temperature_c)) + " °C";
     label.batch_id = qs(batch.id);
     label.prepared_at = format_datetime(qs(batch.prepared_at));
-    label.expires_at = format_datetime(qs(res.expires_at));
+    label.expires_at = format_datetime(doc.expires_at);
     label.prepared_by = qs(batch.prepared_by);
     label.pictograms = sorted_pictograms(hz.pictograms);
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
+    label.mark = d.mark;
     job.labels << label;
 
-    QJsonObject b = batch_summary(batch, qs(res.expires_at), shelf_h);
-    QJsonArray composition_json;
-    for (const auto& c : res.composition)
-        composition_json.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
-    b["final_volume_ml"] = res.final_volume_ml;
-    b["checks"] = checks_json;
-    b["composition"] = composition_json;
-    b["ph"] = res.predicted.ph;
-    b["ionic_strength_mol_per_l"] = res.predicted.ionic_strength_mol_per_l;
-    b["buffer_capacity_mol_per_l"] = res.predicted.buffer_capacity_mol_per_l;
-    job.summary = QJsonObject{{"document", job.kind}, {"title", title}, {"target_ph", req.target_ph},
-                              {"planned_ph", recipe.predicted.ph}, {"batch", b}, {"warnings", warnings.json}};
+    job.summary = doc.summary;
     return job;
 }
 
@@ -527,69 +438,29 @@ QStringList line_composition(const AppData& data, const chem::LineProfile& p) {
     return out;
 }
 
-PrintJob line_job(const AppData& data, const QJsonObject& input_in, const QString& printed_at) {
-    QJsonObject input = input_in;
-    if (!input.contains("volume_ml") && input.value("bottle_ml").isDouble())
-        input["volume_ml"] = input.value("bottle_ml"); // a sheet for the whole bottle by default
-    QJsonObject doc = input;
-    doc.remove("batch");
-    const QJsonObject out = command_line(data, doc, {});
+PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input, const QString& printed_at) {
+    const QJsonObject& out = doc.line_out;
     const double volume = out.value("volume_ml").toDouble();
-    const ParsedLine pl = line_from_json(data, doc, "", volume, false, nullptr);
-    const chem::LineRecipe lr = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
-
-    std::optional<int> copies;
-    std::optional<double> shelf_override;
-    const chem::Batch batch = batch_from_json(input, &copies, &shelf_override);
-    const QJsonObject shelf = out.value("shelf_life").toObject();
-    const double shelf_h = shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
-    const std::string expires = chem::check_batch_fields(batch, shelf_h);
-
-    // Each actual amount names a part (solvent id, "buffer", additive id) or, "buffer.<id>" or a
-    // plain reagent id, a reagent of the line's buffer.
-    std::map<std::string, int> part_entry;
-    std::vector<int> buffer_entries;
-    std::set<std::string> buffer_ids;
-    if (lr.buffer)
-        for (const auto& it : lr.buffer->items) buffer_ids.insert(it.reagent);
-    std::set<std::string> part_ids;
-    std::string known;
-    for (const auto& it : lr.items)
-        if (part_ids.insert(it.part).second) known += (known.empty() ? "" : ", ") + it.part;
-    for (const auto& id : buffer_ids) known += ", buffer." + id;
-    chem::Batch batch_for_buffer = batch;
-    for (size_t i = 0; i < batch.actual.size(); ++i) {
-        const std::string& r = batch.actual[i].reagent;
-        const std::string at = "batch.actual[" + std::to_string(i) + "].reagent";
-        if (r.rfind("buffer.", 0) == 0 && buffer_ids.count(r.substr(7))) {
-            batch_for_buffer.actual[i].reagent = r.substr(7);
-            buffer_entries.push_back(int(i));
-        } else if (part_ids.count(r)) {
-            if (part_entry.count(r)) throw chem::Error(at, "\"" + r + "\" is given twice");
-            part_entry[r] = int(i);
-        } else if (buffer_ids.count(r)) {
-            buffer_entries.push_back(int(i));
-        } else {
-            throw chem::Error(at, "\"" + r + "\" is not a part of this line (its parts: " + known + ")");
-        }
-    }
+    const chem::LineRecipe& lr = *doc.line;
+    const chem::Batch& batch = doc.batch;
+    const std::optional<chem::BatchResult>& bres = doc.result;
 
     PrintJob job;
     job.kind = "line";
-    job.copies = copies;
-    const QString title = out.value("name").toString();
+    job.copies = doc.copies;
+    const QString title = doc.title;
     job.title = title + " — batch " + qs(batch.id);
     SheetDocument& d = job.sheet;
     d.kind_title = QStringLiteral("Mobile-phase line preparation record");
     d.title = title;
     d.batch_id = qs(batch.id);
     d.footer = "Printed " + printed_at + " by PhasePlan from the plan. " + footer_note;
-    const QString shelf_note =
-        shelf_note_text(shelf_h, QStringLiteral("kind ") + shelf.value("kind").toString(),
-                        shelf_override ? QStringLiteral("entered") : shelf.value("source").toString(),
-                        !batch.expires_at.empty());
+    add_deviation_blocks(doc, d);
+    const QString shelf_note = shelf_note_text(doc.shelf_life_h, doc.shelf_kind, doc.shelf_source, !batch.expires_at.empty());
     d.blocks << heading("Batch")
-             << fields_block(batch_fields(batch, title, purpose_of(input), qs(expires), shelf_note));
+             << fields_block(batch_fields(batch, title, purpose_of(input), doc.expires_at, shelf_note) +
+                             bench_fields(batch, lr.buffer ? std::optional<double>(lr.buffer->request.target_ph)
+                                                           : std::nullopt));
 
     QStringList by_volume;
     for (const auto& [id, f] : lr.profile.solvent_fraction_v) by_volume << qs(id) + " " + percent_text(f);
@@ -607,29 +478,13 @@ PrintJob line_job(const AppData& data, const QJsonObject& input_in, const QStrin
     d.blocks << heading("Plan") << fields_block(plan);
 
     // Parts, measured separately.
-    WarningSink warnings;
-    QJsonArray checks_json;
     Block parts;
     parts.kind = Block::Kind::table;
     parts.table.headers = {"Part", "Kind", "Target volume", "Target mass", "Tolerance", "Actual", "Lot", "Check"};
     parts.table.weights = {2.6, 1.3, 1.6, 1.6, 1.9, 1.5, 1.3, 1.3};
-    for (const auto& it : lr.items) {
-        std::optional<double> actual;
-        std::string unit = it.volume_ml ? "mL" : "g";
-        std::string lot;
-        if (auto e = part_entry.find(it.part); e != part_entry.end()) {
-            const chem::ActualAmount& a = batch.actual[e->second];
-            const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
-            unit = a.mass_g ? "g" : "mL";
-            if (unit == "g" && !it.mass_g) throw chem::Error(at + ".mass_g", it.part + " has no target mass: give volume_ml");
-            if (unit == "mL" && !it.volume_ml) throw chem::Error(at + ".volume_ml", it.part + " has no target volume: give mass_g");
-            actual = a.mass_g ? a.mass_g : a.volume_ml;
-            lot = a.lot;
-        }
-        const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
-        chem::AmountCheck c = chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
-        c.lot = lot;
-        if (!c.within_tolerance) warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction));
+    for (size_t k = 0; k < lr.items.size(); ++k) {
+        const auto& it = lr.items[k];
+        const chem::AmountCheck& c = doc.part_checks[k];
         parts.table.rows << QStringList{qs(it.part), qs(it.kind),
                                         it.volume_ml ? format_amount(*it.volume_ml) + " mL" : QString(),
                                         it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),
@@ -637,101 +492,59 @@ PrintJob line_job(const AppData& data, const QJsonObject& input_in, const QStrin
                                         c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
                                         qs(c.lot), check_text(c)};
         parts.table.flagged << !c.within_tolerance;
-        checks_json.append(check_to_json(c));
     }
     d.blocks << heading("Parts: measure each separately, then combine") << parts;
 
-    std::optional<chem::BatchResult> bres;
-    if (lr.buffer) {
-        bres = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries, shelf_h);
-        for (const auto& c : bres->checks) checks_json.append(check_to_json(c));
+    if (lr.buffer)
         d.blocks << heading("Aqueous buffer (" + qs(chem::format_number(lr.buffer->request.volume_ml)) +
                             " mL): target and actual amounts")
-                 << reagent_table(data.reagents, *lr.buffer, *bres, batch, nullptr);
-        d.blocks << heading("Buffer steps") << numbered([&] {
-            QStringList l;
-            for (const auto& s : lr.buffer->steps) l << qs(s);
-            return l;
-        }());
-    }
-    d.blocks << heading(lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"))
-             << numbered(strings_of(out.value("steps")));
+                 << reagent_table(data.reagents, *lr.buffer, *bres, batch);
+    for (const StepSection& s : doc.steps) d.blocks << heading(s.heading) << numbered(s.steps);
     if (!out.value("notes").toArray().isEmpty()) d.blocks << bullets(strings_of(out.value("notes")));
     if (lr.buffer)
         d.blocks << heading("Predicted for the aqueous buffer")
                  << predicted_table(*lr.buffer, *bres, QStringLiteral("Buffer alone"));
-
-    for (const QJsonValue& w : out.value("warnings").toArray()) warnings.add(w.toObject());
-    if (lr.buffer) {
-        for (const auto& w : lr.buffer->warnings) warnings.add(w);
-        for (const auto& w : bres->warnings) warnings.add(w, &*bres);
-    }
-    d.blocks << heading("Checks") << warnings.block;
+    d.blocks << heading("Checks") << warnings_block(doc.warnings);
 
     HazardSet hz;
-    add_line_hazards(data, pl.spec, hz);
+    add_line_hazards(data, *doc.line_spec, hz);
     d.blocks << heading("Hazards and cautions") << hz.block()
              << bullets(cautions_with_standard(std_strings(out.value("cautions"))));
     d.blocks << heading("Sign-off") << signoff(batch);
 
     LabelData label;
     label.title = title;
-    label.composition = line_composition(data, bres ? lr.profile : lr.profile);
+    label.composition = line_composition(data, lr.profile);
     if (lr.profile.ph) {
         const double ph = bres ? bres->predicted.ph : *lr.profile.ph;
         label.ph = "pH " + format_ph(ph) + " (aqueous part)";
     }
     label.batch_id = qs(batch.id);
     label.prepared_at = format_datetime(qs(batch.prepared_at));
-    label.expires_at = format_datetime(qs(expires));
+    label.expires_at = format_datetime(doc.expires_at);
     label.prepared_by = qs(batch.prepared_by);
     label.pictograms = sorted_pictograms(hz.pictograms);
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
+    label.mark = d.mark;
     job.labels << label;
 
-    QJsonObject b = batch_summary(batch, qs(expires), shelf_h);
-    b["checks"] = checks_json;
-    if (bres) {
-        QJsonArray comp;
-        for (const auto& c : bres->composition)
-            comp.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
-        b["buffer_composition"] = comp;
-        b["ph"] = bres->predicted.ph;
-        b["ionic_strength_mol_per_l"] = bres->predicted.ionic_strength_mol_per_l;
-        b["buffer_capacity_mol_per_l"] = bres->predicted.buffer_capacity_mol_per_l;
-    }
-    job.summary = QJsonObject{{"document", job.kind}, {"title", title}, {"volume_ml", volume},
-                              {"batch", b}, {"warnings", warnings.json}};
+    job.summary = doc.summary;
     return job;
 }
 
 // ---- sequence ---------------------------------------------------------------------------------
 
-PrintJob sequence_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
-    QJsonObject doc = input;
-    doc.remove("batch");
-    const QJsonObject out = command_sequence(data, doc, {});
-    std::optional<int> copies;
-    std::optional<double> shelf_override;
-    const chem::Batch batch = batch_from_json(input, &copies, &shelf_override);
-    if (!batch.actual.empty())
-        throw chem::Error("batch.actual", "a sequence sheet takes no amounts: print each line's own sheet "
-                                          "(phaseplan-cli sheet on the line) to record them");
-    const QJsonObject lines_in = doc.value("lines").toObject();
+PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input, const QString& printed_at) {
+    const QJsonObject& out = doc.sequence_out;
+    const chem::Batch& batch = doc.batch;
+    QJsonObject lines_in = input.value("lines").toObject();
     const QJsonObject lines_out = out.value("lines").toObject();
-    double shortest = 1e9;
-    for (const QString& key : lines_out.keys())
-        shortest = std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
-    const std::string expires = chem::check_batch_fields(batch, shelf_override.value_or(shortest < 1e9 ? shortest : 48));
 
     PrintJob job;
     job.kind = "sequence";
-    job.copies = copies;
-    const QString title = input.value("name").isString()
-                              ? input.value("name").toString()
-                              : "Sequence from " + format_datetime(out.value("start").toString()) + ", " +
-                                    QString::number(out.value("injections").toInt()) + " injections";
+    job.copies = doc.copies;
+    const QString title = doc.title;
     job.title = title + " — batch " + qs(batch.id);
     SheetDocument& d = job.sheet;
     d.kind_title = QStringLiteral("Sequence solvent plan");
@@ -830,9 +643,7 @@ PrintJob sequence_job(const AppData& data, const QJsonObject& input, const QStri
     }
     d.blocks << heading("Sequence rows") << rows;
 
-    WarningSink warnings;
-    for (const QJsonValue& w : out.value("warnings").toArray()) warnings.add(w.toObject());
-    d.blocks << heading("Checks") << warnings.block;
+    d.blocks << heading("Checks") << warnings_block(doc.warnings);
 
     // Hazards over every line; one label per line.
     HazardSet all;
@@ -866,9 +677,7 @@ PrintJob sequence_job(const AppData& data, const QJsonObject& input, const QStri
     d.blocks << heading("Hazards and cautions") << all.block() << bullets(cautions_with_standard({}));
     d.blocks << heading("Sign-off") << signoff(batch);
 
-    job.summary = QJsonObject{{"document", job.kind}, {"title", title},
-                              {"batch", batch_summary(batch, qs(expires), shortest < 1e9 ? shortest : 48)},
-                              {"end", out.value("end")}, {"warnings", warnings.json}};
+    job.summary = doc.summary;
     return job;
 }
 
@@ -896,77 +705,12 @@ QString format_datetime(const QString& iso) {
     return s;
 }
 
-// ---- inputs -----------------------------------------------------------------------------------
-
-QString document_kind(const QJsonObject& input) {
-    if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
-    if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
-    return QStringLiteral("recipe");
-}
-
-chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies,
-                            std::optional<double>* shelf_life_h) {
-    const QJsonObject o = json::require_object(input, "batch", "");
-    const std::string at = "batch";
-    chem::Batch b;
-    b.id = json::require_string(o, "id", at);
-    b.prepared_by = json::optional_string(o, "prepared_by", at).value_or("");
-    b.prepared_at = json::optional_string(o, "prepared_at", at).value_or("");
-    b.expires_at = json::optional_string(o, "expires_at", at).value_or("");
-    b.checked_by = json::optional_string(o, "checked_by", at).value_or("");
-    if (auto t = json::optional_number(o, "tolerance_percent", at)) b.tolerance_fraction = *t / 100.0;
-    b.final_volume_ml = json::optional_positive(o, "final_volume_ml", at, 1.0e6);
-    if (o.contains("copies") && !o.value("copies").isNull()) {
-        const int n = json::require_int(o, "copies", at, 1, 200);
-        if (copies) *copies = n;
-    }
-    if (auto h = json::optional_positive(o, "shelf_life_h", at, 1.0e5))
-        if (shelf_life_h) *shelf_life_h = *h;
-    if (o.contains("actual") && !o.value("actual").isNull()) {
-        const QJsonArray a = json::require_array(o, "actual", at);
-        const std::string list = json::path(at, "actual");
-        for (int i = 0; i < a.size(); ++i) {
-            const std::string ai = json::path(list, i);
-            const QJsonObject e = json::element_object(a, i, list);
-            chem::ActualAmount x;
-            x.reagent = json::require_string(e, "reagent", ai);
-            x.mass_g = json::optional_positive(e, "mass_g", ai, 1.0e6);
-            x.volume_ml = json::optional_positive(e, "volume_ml", ai, 1.0e6);
-            if (!x.mass_g && !x.volume_ml)
-                throw chem::Error(json::path(ai, "mass_g"), "give mass_g or volume_ml");
-            if (x.mass_g && x.volume_ml)
-                throw chem::Error(json::path(ai, "volume_ml"), "give mass_g or volume_ml, not both");
-            x.lot = json::optional_string(e, "lot", ai).value_or("");
-            b.actual.push_back(std::move(x));
-        }
-    }
-    return b;
-}
-
-double default_shelf_life_h(const AppData& data, const QString& kind, QString* source) {
-    QFile f(QDir(data.data_dir).filePath(QStringLiteral("solvents.json")));
-    if (f.open(QIODevice::ReadOnly)) {
-        const QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
-        for (const QJsonValue& v : doc.value("shelf_life").toArray()) {
-            const QJsonObject e = v.toObject();
-            if (e.value("kind").toString() == kind && e.value("hours").toDouble() > 0) {
-                if (source) *source = e.value("source").toString();
-                return e.value("hours").toDouble();
-            }
-        }
-    }
-    const chem::ShelfLifeDefaults d;
-    if (source) *source = QStringLiteral("built-in default, common practice, no source");
-    if (kind.startsWith("aqueous")) return d.hours_for(chem::SolutionKind::aqueous_buffer);
-    if (kind.contains("organic") && kind.contains("buffer")) return d.hours_for(chem::SolutionKind::mixed);
-    return d.hours_for(chem::SolutionKind::organic);
-}
-
 PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
-    const QString kind = document_kind(input);
-    if (kind == "line") return line_job(data, input, printed_at);
-    if (kind == "sequence") return sequence_job(data, input, printed_at);
-    return recipe_job(data, input, printed_at);
+    const BatchDocument doc = read_batch_document(data, input);
+    require_deviation_note(doc);
+    if (doc.kind == "line") return line_job(data, doc, input, printed_at);
+    if (doc.kind == "sequence") return sequence_job(data, doc, input, printed_at);
+    return recipe_job(data, doc, input, printed_at);
 }
 
 } // namespace phaseplan::print

@@ -59,9 +59,10 @@ bool PrintController::succeed() {
 QVariantMap PrintController::preview(const QVariantMap& document) {
     if (!data_) return fail("data", "no reference data loaded"), QVariantMap{};
     try {
-        const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+        // The evaluation alone: a preview needs no deviation note (printing does).
+        const BatchDocument doc = read_batch_document(*data_, QJsonObject::fromVariantMap(document));
         succeed();
-        return job.summary.toVariantMap();
+        return doc.summary.toVariantMap();
     } catch (const chem::Error& e) {
         fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
         return {};

@@ -15,6 +15,7 @@
 //   qmlRegisterType<phaseplan::print::PrintController>("PhasePlan.Print", 1, 0, "PrintController");
 // or one instance as a context property / singleton with setData(&appData).
 #include "core/app_data.h"
+#include "core/document_output.h"
 
 #include <QObject>
 #include <QString>
@@ -25,8 +26,9 @@ class QPrinter;
 
 namespace phaseplan::print {
 
-class PrintController : public QObject {
+class PrintController : public QObject, public DocumentOutput {
     Q_OBJECT
+    Q_INTERFACES(phaseplan::DocumentOutput)
     /// Message of the last failure ("batch.id: is required but missing"), "" after a success.
     Q_PROPERTY(QString lastError READ lastError NOTIFY lastErrorChanged)
     /// The field the last failure names ("batch.id"), for showing the message beside it.
@@ -70,6 +72,21 @@ public:
     /// print through a QPrinter in PDF mode). Throws chem::Error like the CLI.
     int paintSheet(QPrinter& printer, const QVariantMap& document, const QString& paper);
     int paintLabels(QPrinter& printer, const QVariantMap& document, const QString& paper, int copies);
+
+    // ---- DocumentOutput ------------------------------------------------------------------------
+    bool writePdf(const QString& what, const QVariantMap& document, const QString& path, const QString& paper) override {
+        return what == QLatin1String("labels") ? saveLabels(document, path, paper) : saveSheet(document, path, paper);
+    }
+    bool sendToPrinter(const QString& what, const QVariantMap& document, const QString& printer,
+                       const QString& paper) override {
+        return what == QLatin1String("labels") ? printLabels(document, printer, paper) : printSheet(document, printer, paper);
+    }
+    QStringList printerNames() const override { return printers(); }
+    QString outputError() const override { return last_error_; }
+    QString outputErrorField() const override { return last_error_field_; }
+    QString fileNameFor(const QVariantMap& document, const QString& what) const override {
+        return suggestedFileName(document, what);
+    }
 
 signals:
     void lastErrorChanged();

@@ -161,6 +161,17 @@ private:
         const qreal fy = c_.page_height() - c_.mm(8) - fh;
         c_.line(QPointF(left_, fy - c_.mm(1.5)), QPointF(left_ + width_, fy - c_.mm(1.5)));
         c_.text(QRectF(left_, fy, width_, fh), foot, doc_.footer, Qt::TextWordWrap, muted);
+        if (!doc_.mark.isEmpty()) {
+            // Every page of an out-of-tolerance record carries the mark, boxed, above the body.
+            const QFont mf = make_font(9.5, true);
+            const qreal pad = c_.mm(1.2);
+            const qreal mh = c_.height_of(mf, width_ - 2 * pad, doc_.mark) + 2 * pad;
+            const QRectF box(left_, y_, width_, mh);
+            c_.box(box, warning_red, 0.6);
+            c_.text(box.adjusted(pad, pad, -pad, -pad), mf, doc_.mark, Qt::AlignHCenter | Qt::TextWordWrap, warning_red);
+            y_ += mh + c_.mm(2.5);
+        }
+        page_top_ = y_;
     }
 
     void new_page() {
@@ -171,7 +182,7 @@ private:
 
     /// Starts a new page unless `h` fits below the cursor (or the page is still empty).
     void need(qreal h) {
-        if (y_ + h > bottom_ && y_ > top_ + 1) new_page();
+        if (y_ + h > bottom_ && y_ > page_top_ + 1) new_page();
     }
 
     void title_block() {
@@ -208,6 +219,7 @@ private:
         case Block::Kind::warnings: warnings(b.warnings); break;
         case Block::Kind::hazards: hazards(b); break;
         case Block::Kind::signoff: signoff(b.fields); break;
+        case Block::Kind::notice: notice(b); break;
         }
     }
 
@@ -415,6 +427,31 @@ private:
         y_ += c_.mm(1);
     }
 
+    /// A boxed notice: the headline in bold, then one line per item, inside a heavy red frame.
+    void notice(const Block& b) {
+        const QFont hf = make_font(12, true);
+        const QFont f = make_font(9);
+        const qreal pad = c_.mm(2.5);
+        const qreal inner_w = width_ - 2 * pad;
+        qreal h = c_.height_of(hf, inner_w, b.text) + c_.mm(1.5);
+        for (const QString& item : b.items) h += c_.height_of(f, inner_w - c_.mm(4), item) + c_.mm(0.8);
+        h += 2 * pad;
+        need(h);
+        const QRectF box(left_, y_, width_, h);
+        c_.box(box, warning_red, 0.8);
+        qreal y = y_ + pad;
+        const qreal th = c_.height_of(hf, inner_w, b.text);
+        c_.text(QRectF(left_ + pad, y, inner_w, th), hf, b.text, Qt::TextWordWrap, warning_red);
+        y += th + c_.mm(1.5);
+        for (const QString& item : b.items) {
+            const qreal ih = c_.height_of(f, inner_w - c_.mm(4), item);
+            c_.text(QRectF(left_ + pad, y, c_.mm(4), ih), f, QStringLiteral("•"));
+            c_.text(QRectF(left_ + pad + c_.mm(4), y, inner_w - c_.mm(4), ih), f, item);
+            y += ih + c_.mm(0.8);
+        }
+        y_ += h + c_.mm(3);
+    }
+
     void signoff(const QList<KeyValue>& roles) {
         const QFont kf = make_font(6.8);
         const QFont vf = make_font(9.5);
@@ -445,6 +482,7 @@ private:
     int total_ = 0;
     int page_ = 1;
     qreal left_ = 0, width_ = 0, top_ = 0, bottom_ = 0, y_ = 0;
+    qreal page_top_ = 0; ///< where the body starts on this page (below the mark)
 };
 
 // ---- labels ----------------------------------------------------------------------------------
@@ -453,20 +491,36 @@ struct TextItem {
     QFont font;
     QString text;
     QColor color = ink;
+    bool boxed = false;   ///< framed (the out-of-tolerance mark)
 };
+
+constexpr double box_pad_mm = 0.8;
+
+qreal item_height(Canvas& c, const TextItem& t, qreal width) {
+    if (!t.boxed) return c.height_of(t.font, width, t.text);
+    return c.height_of(t.font, width - 2 * c.mm(box_pad_mm), t.text, Qt::TextWordWrap | Qt::AlignHCenter) +
+           2 * c.mm(box_pad_mm);
+}
 
 qreal stack_height(Canvas& c, const QList<TextItem>& items, qreal width) {
     qreal h = 0;
     for (const TextItem& t : items)
-        if (!t.text.isEmpty()) h += c.height_of(t.font, width, t.text) + c.mm(0.4);
+        if (!t.text.isEmpty()) h += item_height(c, t, width) + c.mm(0.4);
     return h;
 }
 
 qreal paint_stack(Canvas& c, const QList<TextItem>& items, qreal x, qreal y, qreal width) {
     for (const TextItem& t : items) {
         if (t.text.isEmpty()) continue;
-        const qreal h = c.height_of(t.font, width, t.text);
-        c.text(QRectF(x, y, width, h), t.font, t.text, Qt::TextWordWrap, t.color);
+        const qreal h = item_height(c, t, width);
+        if (t.boxed) {
+            const qreal pad = c.mm(box_pad_mm);
+            c.box(QRectF(x, y, width, h), t.color, 0.5);
+            c.text(QRectF(x + pad, y + pad, width - 2 * pad, h - 2 * pad), t.font, t.text,
+                   Qt::TextWordWrap | Qt::AlignHCenter, t.color);
+        } else {
+            c.text(QRectF(x, y, width, h), t.font, t.text, Qt::TextWordWrap, t.color);
+        }
         y += h + c.mm(0.4);
     }
     return y;
@@ -503,10 +557,11 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
         const TextItem prepared{make_font(7 * s),
                                 "Prepared " + or_blank(d.prepared_at) + " by " + or_blank(d.prepared_by)};
         const TextItem expires{make_font(7.5 * s, true), "Expires " + or_blank(d.expires_at)};
+        const TextItem mark{make_font(7.5 * s, true), d.mark, warning_red, true};
         side.clear();
         full.clear();
         if (wide) {
-            side = {title, ph, comp, batch, prepared, expires};
+            side = {title, mark, ph, comp, batch, prepared, expires};
         } else {
             // Narrow column beside the QR code: the pH large, its temperature below; the batch
             // id goes full width so that it never breaks across lines.
@@ -516,7 +571,7 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
                         TextItem{make_font(7.5 * s), d.ph.mid(at + 1)}};
             else
                 side = {ph};
-            full = {batch, prepared, expires, comp};
+            full = {mark, batch, prepared, expires, comp};
         }
     };
 

@@ -47,9 +47,10 @@ struct HazardLine {
 };
 
 struct Block {
-    enum class Kind { heading, paragraph, fields, table, numbered, bullets, warnings, hazards, signoff };
+    enum class Kind { heading, paragraph, fields, table, numbered, bullets, warnings, hazards, signoff, notice };
     Kind kind = Kind::paragraph;
-    QString text;                   ///< heading, paragraph; hazards: the note under the pictograms
+    QString text;                   ///< heading, paragraph; hazards: the note under the pictograms;
+                                    ///< notice: the boxed headline (its items are listed inside the box)
     QList<KeyValue> fields;         ///< fields: shown in two columns
     Table table;
     QStringList items;              ///< numbered, bullets; signoff: the roles ("Prepared by", …)
@@ -64,6 +65,8 @@ struct SheetDocument {
     QString batch_id;     ///< in every page header and in the QR code on page 1
     QList<Block> blocks;
     QString footer;       ///< small print at the bottom of every page
+    /// When not empty: boxed in the running header of every page ("OUT OF TOLERANCE — …").
+    QString mark;
 };
 
 struct LabelData {
@@ -77,6 +80,8 @@ struct LabelData {
     QStringList pictograms;
     QStringList hazard_codes;
     QString qr_text;          ///< the batch id (what a scanner reads back)
+    /// When not empty: boxed across the label below the title ("OUT OF TOLERANCE — …").
+    QString mark;
 };
 
 /// Lays out and paints `doc` on `device` (sets the page size and margins of `paper`, a4 or

@@ -70,6 +70,9 @@ QString kind_of(const QJsonObject& input) {
 
 std::string str(const QString& s) { return s.toStdString(); }
 
+/// SQL NULL for an absent number.
+QVariant optional_real(const std::optional<double>& v) { return v ? QVariant(*v) : QVariant(QMetaType(QMetaType::Double)); }
+
 /// Checks the batch fields with the rules of chem::check_batch_fields and the actual amounts'
 /// shape (the amounts against a recipe are checked when the batch is evaluated for printing).
 void validate(const BatchRecord& b) {
@@ -78,7 +81,13 @@ void validate(const BatchRecord& b) {
     cb.prepared_at = str(b.prepared_at);
     cb.expires_at = str(b.expires_at);
     cb.tolerance_fraction = b.tolerance_percent / 100.0;
+    cb.measured_ph = b.measured_ph;
+    cb.ph_tolerance = b.ph_tolerance;
+    cb.container_ml = b.container_ml;
+    cb.deviation_at = str(b.deviation_at);
     chem::check_batch_fields(cb, 1.0);
+    if (!b.deviation_note.isEmpty() && b.deviation_note.trimmed().isEmpty())
+        throw chem::Error("batch.deviation.note", "is empty: say why the batch is used although it is out of tolerance");
     if (b.document_kind != "recipe" && b.document_kind != "line" && b.document_kind != "sequence")
         throw chem::Error("document_kind", "\"" + str(b.document_kind) + "\" is not recipe, line or sequence");
     QStringList seen;
@@ -113,6 +122,15 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     put("expires_at", b.expires_at);
     put("checked_by", b.checked_by);
     put("tolerance_percent", b.tolerance_percent);
+    if (b.measured_ph) put("measured_ph", *b.measured_ph);
+    put("ph_tolerance", b.ph_tolerance);
+    put("ph_meter_id", b.ph_meter_id);
+    put("balance_id", b.balance_id);
+    put("comment", b.comment);
+    if (b.container_ml) put("container_ml", *b.container_ml);
+    put("deviation.note", b.deviation_note);
+    put("deviation.by", b.deviation_by);
+    put("deviation.at", b.deviation_at);
     for (const QJsonValue& v : b.actual) {
         const QJsonObject e = v.toObject();
         const QString key = "actual[" + e.value("reagent").toString() + "]";
@@ -124,7 +142,9 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
 
 const char* select_columns =
     "id, document_kind, document, prepared_by, prepared_at, expires_at, checked_by, "
-    "tolerance_percent, actual, revision, printed_count, first_printed_at, created_at, updated_at";
+    "tolerance_percent, actual, revision, printed_count, first_printed_at, created_at, updated_at, "
+    "measured_ph, ph_tolerance, ph_meter_id, balance_id, comment, container_ml, deviation_note, "
+    "deviation_by, deviation_at";
 
 BatchRecord record_from(const QSqlQuery& q) {
     BatchRecord b;
@@ -142,6 +162,15 @@ BatchRecord record_from(const QSqlQuery& q) {
     b.first_printed_at = q.value(11).toString();
     b.created_at = q.value(12).toString();
     b.updated_at = q.value(13).toString();
+    if (!q.value(14).isNull()) b.measured_ph = q.value(14).toDouble();
+    b.ph_tolerance = q.value(15).toDouble();
+    b.ph_meter_id = q.value(16).toString();
+    b.balance_id = q.value(17).toString();
+    b.comment = q.value(18).toString();
+    if (!q.value(19).isNull()) b.container_ml = q.value(19).toDouble();
+    b.deviation_note = q.value(20).toString();
+    b.deviation_by = q.value(21).toString();
+    b.deviation_at = q.value(22).toString();
     return b;
 }
 
@@ -204,6 +233,39 @@ QStringList batch_schema_statements() {
     };
 }
 
+QStringList batch_schema_bench_statements() {
+    QStringList s;
+    for (const char* col : {
+             "measured_ph REAL CHECK (measured_ph IS NULL OR (measured_ph >= 0 AND measured_ph <= 14))",
+             "ph_tolerance REAL NOT NULL DEFAULT 0.05 CHECK (ph_tolerance > 0 AND ph_tolerance <= 2)",
+             "ph_meter_id TEXT NOT NULL DEFAULT ''",
+             "balance_id TEXT NOT NULL DEFAULT ''",
+             "comment TEXT NOT NULL DEFAULT ''",
+             "container_ml REAL CHECK (container_ml IS NULL OR container_ml > 0)",
+             "deviation_note TEXT NOT NULL DEFAULT ''",
+             "deviation_by TEXT NOT NULL DEFAULT ''",
+             "deviation_at TEXT NOT NULL DEFAULT ''",
+         })
+        s << QStringLiteral("ALTER TABLE batches ADD COLUMN %1").arg(QLatin1String(col));
+    s << QStringLiteral("DROP TRIGGER batches_changes_recorded");
+    s << QStringLiteral(
+        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
+        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
+        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
+        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
+        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual"
+        " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
+        " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
+        " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
+        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT OLD.deviation_by"
+        " OR NEW.deviation_at IS NOT OLD.deviation_at)"
+        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
+        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
+        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END");
+    return s;
+}
+
 // ---- BatchRecord ------------------------------------------------------------------------------
 
 QJsonObject BatchRecord::to_input() const {
@@ -215,6 +277,18 @@ QJsonObject BatchRecord::to_input() const {
     if (!checked_by.isEmpty()) b["checked_by"] = checked_by;
     b["tolerance_percent"] = tolerance_percent;
     if (!actual.isEmpty()) b["actual"] = actual;
+    if (measured_ph) b["measured_ph"] = *measured_ph;
+    b["ph_tolerance"] = ph_tolerance;
+    if (!ph_meter_id.isEmpty()) b["ph_meter_id"] = ph_meter_id;
+    if (!balance_id.isEmpty()) b["balance_id"] = balance_id;
+    if (!comment.isEmpty()) b["comment"] = comment;
+    if (container_ml) b["container_ml"] = *container_ml;
+    if (!deviation_note.isEmpty()) {
+        QJsonObject dev{{"note", deviation_note}};
+        if (!deviation_by.isEmpty()) dev["by"] = deviation_by;
+        if (!deviation_at.isEmpty()) dev["at"] = deviation_at;
+        b["deviation"] = dev;
+    }
     doc["batch"] = b;
     return doc;
 }
@@ -239,6 +313,30 @@ BatchRecord BatchRecord::from_input(const QJsonObject& input) {
             throw chem::Error("batch.tolerance_percent", "must be a number");
         r.tolerance_percent = b.value("tolerance_percent").toDouble();
     }
+    auto number = [&](const char* key) -> std::optional<double> {
+        const QJsonValue v = b.value(key);
+        if (v.isUndefined() || v.isNull()) return std::nullopt;
+        if (!v.isDouble()) throw chem::Error(std::string("batch.") + key, "must be a number");
+        return v.toDouble();
+    };
+    r.measured_ph = number("measured_ph");
+    if (auto t = number("ph_tolerance")) r.ph_tolerance = *t;
+    r.ph_meter_id = text("ph_meter_id");
+    r.balance_id = text("balance_id");
+    r.comment = text("comment");
+    r.container_ml = number("container_ml");
+    if (b.contains("deviation") && !b.value("deviation").isNull()) {
+        if (!b.value("deviation").isObject()) throw chem::Error("batch.deviation", "must be an object {note, by, at}");
+        const QJsonObject d = b.value("deviation").toObject();
+        for (const char* k : {"note", "by", "at"})
+            if (d.contains(k) && !d.value(k).isString())
+                throw chem::Error(std::string("batch.deviation.") + k, "must be a string");
+        r.deviation_note = d.value("note").toString().trimmed();
+        r.deviation_by = d.value("by").toString().trimmed();
+        r.deviation_at = d.value("at").toString().trimmed();
+        if (r.deviation_note.isEmpty())
+            throw chem::Error("batch.deviation.note", "is empty: say why the batch is used although it is out of tolerance");
+    }
     if (b.contains("actual") && !b.value("actual").isNull()) {
         if (!b.value("actual").isArray()) throw chem::Error("batch.actual", "must be an array");
         r.actual = b.value("actual").toArray();
@@ -260,9 +358,16 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
         QSqlQuery q = run(db, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = 'batches'");
         present = q.next() && q.value(0).toInt() > 0;
     }
-    if (present) return;
+    bool bench = false;
+    if (present) {
+        QSqlQuery q = run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph'");
+        bench = q.next() && q.value(0).toInt() > 0;
+    }
+    if (present && bench) return;
     Transaction tx(db);
-    for (const QString& s : batch_schema_statements()) run(db, s);
+    if (!present)
+        for (const QString& s : batch_schema_statements()) run(db, s);
+    for (const QString& s : batch_schema_bench_statements()) run(db, s);
     tx.commit();
 }
 
@@ -281,9 +386,14 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
     run(db_,
         "INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at, expires_at,"
         " checked_by, tolerance_percent, actual, revision, printed_count, first_printed_at,"
-        " created_at, updated_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?)",
+        " created_at, updated_at, measured_ph, ph_tolerance, ph_meter_id, balance_id, comment,"
+        " container_ml, deviation_note, deviation_by, deviation_at)"
+        " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
         {batch.id, batch.document_kind, compact(batch.document), batch.prepared_by, batch.prepared_at,
-         batch.expires_at, batch.checked_by, batch.tolerance_percent, compact(batch.actual), t, t});
+         batch.expires_at, batch.checked_by, batch.tolerance_percent, compact(batch.actual), t, t,
+         optional_real(batch.measured_ph), batch.ph_tolerance, batch.ph_meter_id, batch.balance_id,
+         batch.comment, optional_real(batch.container_ml), batch.deviation_note, batch.deviation_by,
+         batch.deviation_at});
     for (const auto& [field, value] : flatten(batch))
         run(db_,
             "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
@@ -364,9 +474,14 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
     run(db_,
         "UPDATE batches SET document_kind = ?, document = ?, prepared_by = ?, prepared_at = ?,"
         " expires_at = ?, checked_by = ?, tolerance_percent = ?, actual = ?, revision = ?,"
-        " updated_at = ? WHERE id = ?",
+        " updated_at = ?, measured_ph = ?, ph_tolerance = ?, ph_meter_id = ?, balance_id = ?,"
+        " comment = ?, container_ml = ?, deviation_note = ?, deviation_by = ?, deviation_at = ?"
+        " WHERE id = ?",
         {next.document_kind, compact(next.document), next.prepared_by, next.prepared_at,
-         next.expires_at, next.checked_by, next.tolerance_percent, compact(next.actual), revision, t, id});
+         next.expires_at, next.checked_by, next.tolerance_percent, compact(next.actual), revision, t,
+         optional_real(next.measured_ph), next.ph_tolerance, next.ph_meter_id, next.balance_id,
+         next.comment, optional_real(next.container_ml), next.deviation_note, next.deviation_by,
+         next.deviation_at, id});
     tx.commit();
     return true;
 }

@@ -29,8 +29,11 @@
 
 namespace phaseplan::storage {
 
-/// The SQL that creates the batch tables, indexes and triggers, in order.
+/// The SQL that creates the batch tables, indexes and triggers, in order (migration step 4).
 QStringList batch_schema_statements();
+/// Step 5: the bench record's columns (measured pH, pH tolerance, pH meter, balance, comment,
+/// container, deviation note/by/at) and the change trigger re-created to watch them too.
+QStringList batch_schema_bench_statements();
 
 /// One batch as stored. The batch fields are those of the "batch" object of the CLI contract.
 struct BatchRecord {
@@ -43,6 +46,15 @@ struct BatchRecord {
     QString checked_by;
     double tolerance_percent = 2;
     QJsonArray actual;                  ///< [{"reagent", "mass_g" | "volume_ml", "lot"}]
+    std::optional<double> measured_ph;  ///< the meter's reading; absent = not measured
+    double ph_tolerance = 0.05;         ///< ± pH units allowed around the target
+    QString ph_meter_id;
+    QString balance_id;
+    QString comment;
+    std::optional<double> container_ml; ///< the largest volume the vessel holds, mL
+    QString deviation_note;             ///< why an out-of-tolerance batch is still used, "" = none
+    QString deviation_by;               ///< who recorded the note
+    QString deviation_at;               ///< when, ISO 8601 local
     int revision = 1;                   ///< +1 on every recorded change
     int printed_count = 0;
     QString first_printed_at;           ///< UTC, "" when never printed
@@ -64,7 +76,7 @@ struct HistoryEntry {
     QString at;              ///< UTC ISO 8601
     QString who;
     QString action;          ///< "create", "edit", "amend", "print"
-    QString field;           ///< "prepared_by", "actual[phosphoric-acid].volume_ml", "document", …
+    QString field;           ///< "prepared_by", "actual[phosphoric-acid].volume_ml", "document", "measured_ph", …
     QJsonValue old_value;    ///< null when the field was unset
     QJsonValue new_value;
     QString reason;          ///< amendments: why

@@ -88,6 +88,11 @@ const std::vector<Migration>& migrations() {
                      " calibration_due TEXT,"
                      " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
          }},
+        {6, "batch record at the bench: measured pH and its tolerance, pH meter, balance, comment, "
+            "container, deviation note with who and when",
+         [](Database& db) {
+             for (const QString& sql : batch_schema_bench_statements()) db.exec(sql);
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;

@@ -21,16 +21,45 @@ ScreenPage {
         return root.batch.errorField === field ? root.batch.errorMessage : ""
     }
     readonly property var fieldsShownInline: ["batch.prepared_by", "batch.prepared_at", "batch.expires_at",
-                                              "batch.checked_by", "batch.tolerance_percent", "reason"]
+                                              "batch.checked_by", "batch.tolerance_percent", "reason",
+                                              "batch.measured_ph", "batch.ph_tolerance", "batch.ph_meter_id",
+                                              "batch.balance_id", "batch.comment", "batch.container_ml",
+                                              "batch.deviation.note", "output", "path", "printer"]
     readonly property string otherError: root.batch.errorMessage.length > 0
                                          && fieldsShownInline.indexOf(root.batch.errorField) < 0
                                          && root.batch.errorField.indexOf("batch.actual[") !== 0
                                          ? root.batch.errorMessage : ""
+    /// "2026-12-01T16:30:00" → "2026-12-01 16:30", as the sheet prints it; "–" when empty.
+    function dateWords(iso) {
+        return iso.length >= 16 ? iso.substring(0, 10) + " " + iso.substring(11, 16) : "–"
+    }
+    /// A number from a fixed position of an ISO date-time, or `fallback`.
+    function part(iso, at, n, fallback) {
+        var v = parseInt(iso.substring(at, at + n), 10)
+        return isNaN(v) ? fallback : v
+    }
+    function two(n) {
+        return (n < 10 ? "0" : "") + n
+    }
+    function iso(y, mo, d, h, mi) {
+        return y + "-" + two(mo) + "-" + two(d) + "T" + two(h) + ":" + two(mi) + ":00"
+    }
     function ph(v) {
         return isNaN(v) ? "–" : NumberText.format(v, 2)
     }
     function mmol(v) {
         return isNaN(v) ? "–" : NumberText.format(v, 2)
+    }
+
+    // The printer and PDF writer, handed to the model (which knows only its interface).
+    PrintService {
+        id: printService
+        workspace: root.batch.workspace
+    }
+    Binding {
+        target: root.batch
+        property: "output"
+        value: printService
     }
 
     ColumnLayout {
@@ -98,6 +127,15 @@ ScreenPage {
         }
 
         // ---- the open batch ---------------------------------------------------------------
+        // Out of tolerance: across the top, above everything else, until a deviation note is
+        // recorded (and after, with the note).
+        ToleranceCard {
+            objectName: "toleranceCard"
+            Layout.fillWidth: true
+            visible: root.batch.active && root.batch.outOfTolerance
+            batch: root.batch
+        }
+
         GridLayout {
             Layout.fillWidth: true
             visible: root.batch.active
@@ -150,29 +188,31 @@ ScreenPage {
                                 function onEditingFinished() { root.batch.checkedBy = checkedByEntry.field.text }
                             }
                         }
-                        TextEntry {
-                            id: preparedAtEntry
+                        DateTimeField {
                             objectName: "preparedAtField"
                             Layout.fillWidth: true
-                            label: qsTr("Prepared at (YYYY-MM-DDTHH:MM)")
-                            value: root.batch.preparedAt
+                            label: qsTr("Prepared at")
+                            text: root.dateWords(root.batch.preparedAt)
+                            year: root.part(root.batch.preparedAt, 0, 4, 2026)
+                            month: root.part(root.batch.preparedAt, 5, 2, 1)
+                            day: root.part(root.batch.preparedAt, 8, 2, 1)
+                            hour: root.part(root.batch.preparedAt, 11, 2, 12)
+                            minute: root.part(root.batch.preparedAt, 14, 2, 0)
                             error: root.errorFor("batch.prepared_at")
-                            Connections {
-                                target: preparedAtEntry.field
-                                function onEditingFinished() { root.batch.preparedAt = preparedAtEntry.field.text }
-                            }
+                            onPicked: function(y, mo, d, h, mi) { root.batch.preparedAt = root.iso(y, mo, d, h, mi) }
                         }
-                        TextEntry {
-                            id: expiresAtEntry
+                        DateTimeField {
                             objectName: "expiresAtField"
                             Layout.fillWidth: true
                             label: qsTr("Expires at (default: %n h shelf life)", "", Math.round(root.batch.shelfLifeH))
-                            value: root.batch.expiresAt
+                            text: root.dateWords(root.batch.expiresAt)
+                            year: root.part(root.batch.expiresAt, 0, 4, 2026)
+                            month: root.part(root.batch.expiresAt, 5, 2, 1)
+                            day: root.part(root.batch.expiresAt, 8, 2, 1)
+                            hour: root.part(root.batch.expiresAt, 11, 2, 12)
+                            minute: root.part(root.batch.expiresAt, 14, 2, 0)
                             error: root.errorFor("batch.expires_at")
-                            Connections {
-                                target: expiresAtEntry.field
-                                function onEditingFinished() { root.batch.expiresAt = expiresAtEntry.field.text }
-                            }
+                            onPicked: function(y, mo, d, h, mi) { root.batch.expiresAt = root.iso(y, mo, d, h, mi) }
                         }
                     }
                     NumberField {
@@ -205,6 +245,12 @@ ScreenPage {
                             narrow: root.inPortrait ? root.contentWidth < Theme.tap * 14 : true
                         }
                     }
+                }
+
+                BenchCard {
+                    objectName: "benchCard"
+                    Layout.fillWidth: true
+                    batch: root.batch
                 }
 
                 Card {
@@ -303,6 +349,12 @@ ScreenPage {
 
                 PrintCard {
                     objectName: "printCard"
+                    Layout.fillWidth: true
+                    batch: root.batch
+                }
+
+                StepsCard {
+                    objectName: "stepsCard"
                     Layout.fillWidth: true
                     batch: root.batch
                 }

@@ -7,7 +7,8 @@ import PhasePlan
 Column {
     id: root
 
-    /// BatchModel.history: [{seq, at, who, action, field, oldValue, newValue, reason}], oldest first.
+    /// BatchModel.history: [{seq, at, who, action, field, oldValue, newValue, reason, label, text}],
+    /// oldest first; `text` is the change in the screens' words.
     property var entries: []
     /// How many of the newest to show.
     property int shown: 12
@@ -23,6 +24,15 @@ Column {
             return JSON.stringify(v).substring(0, 60)
         return String(v)
     }
+    function actionWords(action) {
+        switch (action) {
+        case "create": return qsTr("Created")
+        case "edit": return qsTr("Changed")
+        case "amend": return qsTr("Amended")
+        case "print": return qsTr("Printed")
+        }
+        return action
+    }
     function at(index) {
         return root.entries[root.entries.length - 1 - index]
     }
@@ -37,7 +47,7 @@ Column {
             spacing: 2
             Label {
                 width: entry.width
-                text: qsTr("%1 · %2 · %3").arg(entry.item.action.toUpperCase())
+                text: qsTr("%1 · %2 · %3").arg(root.actionWords(entry.item.action))
                                             .arg(Qt.formatDateTime(new Date(entry.item.at), "yyyy-MM-dd HH:mm"))
                                             .arg(entry.item.who)
                 color: entry.item.action === "amend" ? Theme.warn : Theme.dimText
@@ -48,7 +58,7 @@ Column {
             Label {
                 width: entry.width
                 visible: entry.item.field.length > 0
-                text: entry.item.action === "print" ? entry.item.newValue
+                text: entry.item.text !== undefined ? entry.item.text
                       : qsTr("%1: %2 → %3").arg(entry.item.field).arg(root.valueText(entry.item.oldValue))
                                           .arg(root.valueText(entry.item.newValue))
                 wrapMode: Text.Wrap

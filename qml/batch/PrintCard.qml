@@ -1,10 +1,13 @@
 import QtQuick
 import QtQuick.Controls
+import QtQuick.Dialogs
 import QtQuick.Layouts
 import PhasePlan
 
-// Save the recipe sheet and the labels as PDF, or print them. Each save or print is recorded in
-// the batch's history; after it, changes need an amendment.
+// Save the sheet and the labels as PDF (a file dialog asks where, starting in the last folder
+// used) or print them. Each save or print is recorded in the batch's history; after it, changes
+// need an amendment. An out-of-tolerance batch asks for its deviation note first. Every failure
+// is said here, beside the buttons.
 Card {
     id: root
 
@@ -12,10 +15,43 @@ Card {
 
     property string sheetPaper: "a4"
     property string labelPaper: "label62"
+    /// Why the last save or print failed, "" after a success.
+    property string failure: ""
+    /// What waits for the deviation note: "sheet-pdf", "labels-pdf", "sheet-print", "labels-print".
+    property string waiting: ""
+    /// The file dialog that asks where a PDF goes (tests drive it).
+    readonly property alias saveDialog: saveDialog
 
     title: qsTr("Sheet and labels")
     note: root.batch.printed ? qsTr("printed") : qsTr("not printed yet")
     noteColour: root.batch.printed ? Theme.good : Theme.dimText
+
+    function fileUrl(path) {
+        return "file://" + (path.charAt(0) === "/" ? "" : "/") + path
+    }
+    /// Runs `what` now, or first asks for the deviation note.
+    function start(what) {
+        root.failure = ""
+        if (root.batch.needsDeviationNote) {
+            root.waiting = what
+            deviationPopup.open()
+            return
+        }
+        root.run(what)
+    }
+    function run(what) {
+        if (what === "sheet-pdf" || what === "labels-pdf") {
+            var kind = what === "sheet-pdf" ? "sheet" : "labels"
+            saveDialog.kind = kind
+            saveDialog.currentFolder = root.fileUrl(root.batch.outputDir)
+            saveDialog.selectedFile = root.fileUrl(root.batch.defaultPath(kind))
+            saveDialog.open()
+            return
+        }
+        var ok = what === "sheet-print" ? root.batch.printSheet("", root.sheetPaper)
+                                        : root.batch.printLabels("", root.labelPaper)
+        root.failure = ok ? "" : root.batch.errorMessage
+    }
 
     SegmentedChoice {
         Layout.fillWidth: true
@@ -37,26 +73,47 @@ Card {
         spacing: Theme.gap
         TouchButton {
             objectName: "saveSheetButton"
-            text: qsTr("Save sheet as PDF")
+            text: qsTr("Save sheet as PDF…")
             enabled: root.batch.valid && !root.batch.pendingAmendment
-            onClicked: root.batch.saveSheet("", root.sheetPaper)
+            onClicked: root.start("sheet-pdf")
         }
         TouchButton {
             objectName: "saveLabelsButton"
-            text: qsTr("Save labels as PDF")
+            text: qsTr("Save labels as PDF…")
             enabled: root.batch.valid && !root.batch.pendingAmendment
-            onClicked: root.batch.saveLabels("", root.labelPaper)
+            onClicked: root.start("labels-pdf")
         }
         TouchButton {
+            objectName: "printSheetButton"
             text: qsTr("Print sheet")
             enabled: root.batch.valid && !root.batch.pendingAmendment && root.batch.printers.length > 0
-            onClicked: root.batch.printSheet("", root.sheetPaper)
+            onClicked: root.start("sheet-print")
         }
         TouchButton {
+            objectName: "printLabelsButton"
             text: qsTr("Print labels")
             enabled: root.batch.valid && !root.batch.pendingAmendment && root.batch.printers.length > 0
-            onClicked: root.batch.printLabels("", root.labelPaper)
+            onClicked: root.start("labels-print")
         }
+    }
+    Label {
+        objectName: "printDisabledReason"
+        Layout.fillWidth: true
+        visible: text.length > 0
+        wrapMode: Text.Wrap
+        color: Theme.dimText
+        font.pixelSize: Theme.smallFont
+        text: root.batch.pendingAmendment ? qsTr("Record or discard the pending amendment before printing.")
+              : (!root.batch.valid ? qsTr("Correct the entry marked in red before printing.") : "")
+    }
+    Label {
+        objectName: "printError"
+        Layout.fillWidth: true
+        visible: root.failure.length > 0
+        text: root.failure
+        color: Theme.bad
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.fontSize
     }
     Label {
         Layout.fillWidth: true
@@ -65,7 +122,72 @@ Card {
         font.pixelSize: Theme.smallFont
         text: root.batch.lastSavedPath.length > 0
               ? qsTr("Saved: %1").arg(root.batch.lastSavedPath)
-              : qsTr("PDFs go to %1").arg(root.batch.outputDir)
+              : qsTr("PDFs are saved where you choose; the dialog opens in %1").arg(root.batch.outputDir)
                 + (root.batch.printers.length === 0 ? qsTr(" · no printer is set up on this system") : "")
+    }
+
+    FileDialog {
+        id: saveDialog
+        property string kind: "sheet"
+        title: kind === "sheet" ? qsTr("Save the sheet as PDF") : qsTr("Save the labels as PDF")
+        fileMode: FileDialog.SaveFile
+        defaultSuffix: "pdf"
+        nameFilters: [qsTr("PDF files (*.pdf)")]
+        onAccepted: {
+            var path = String(selectedFile)
+            var ok = kind === "sheet" ? root.batch.saveSheet(path, root.sheetPaper)
+                                      : root.batch.saveLabels(path, root.labelPaper)
+            root.failure = ok ? "" : root.batch.errorMessage
+        }
+    }
+
+    Popup {
+        id: deviationPopup
+        objectName: "deviationPopup"
+        parent: Overlay.overlay
+        anchors.centerIn: parent
+        modal: true
+        focus: true
+        padding: Theme.margin
+        width: Math.min(parent ? parent.width - 2 * Theme.margin : 600, Theme.tap * 14)
+        background: Rectangle { color: Theme.card; radius: Theme.radius; border.color: Theme.bad; border.width: 3 }
+        ColumnLayout {
+            anchors.fill: parent
+            spacing: Theme.gap
+            Label {
+                Layout.fillWidth: true
+                text: qsTr("This batch is out of tolerance")
+                font.pixelSize: Theme.largeFont
+                font.bold: true
+                color: Theme.bad
+                wrapMode: Text.Wrap
+            }
+            Label {
+                Layout.fillWidth: true
+                text: root.batch.outOfToleranceReasons.join("\n")
+                wrapMode: Text.Wrap
+                font.pixelSize: Theme.fontSize
+            }
+            DeviationEntry {
+                objectName: "popupDeviationEntry"
+                Layout.fillWidth: true
+                batch: root.batch
+                onRecorded: {
+                    deviationPopup.close()
+                    var what = root.waiting
+                    root.waiting = ""
+                    root.run(what)
+                }
+            }
+            TouchButton {
+                objectName: "deviationCancel"
+                text: qsTr("Not now")
+                Layout.alignment: Qt.AlignRight
+                onClicked: {
+                    root.waiting = ""
+                    deviationPopup.close()
+                }
+            }
+        }
     }
 }

@@ -31,6 +31,13 @@ ColumnLayout {
     property bool stepButtons: true
     property alias field: input
     property var locale: Qt.locale()
+    /// Empty text is allowed and means "no value" (NaN, shown as `placeholder`): amounts not
+    /// entered yet, a pH not measured.
+    property bool optional: false
+    property string placeholder
+    /// Apply when editing finishes (Enter, or focus leaves) rather than on every complete number:
+    /// for records that store each applied value with its history.
+    property bool applyOnFinish: false
     /// The message for text that is not (yet) a number; "" when the text is applied.
     readonly property string parseError: input.parseError
     /// The text on screen is not what the model holds (incomplete or invalid).
@@ -42,7 +49,27 @@ ColumnLayout {
     spacing: Math.round(Theme.gap / 2)
 
     function formatted(v) {
+        if (root.optional && isNaN(v))
+            return ""
         return NumberText.formatIn(v, root.integer ? 0 : root.decimals, root.locale)
+    }
+    /// {ok, value, message} for `text`: NaN for an empty optional field.
+    function checked(text) {
+        if (root.optional && text.trim().length === 0)
+            return {ok: true, value: NaN, message: ""}
+        var p = NumberText.parse(text, root.integer, root.label)
+        if (!p.ok)
+            return {ok: false, value: NaN, message: p.message}
+        if (p.value < root.from || p.value > root.to)
+            return {ok: false, value: NaN,
+                    message: qsTr("%1: %2 is outside %3 to %4; not applied.")
+                        .arg(root.label.length > 0 ? root.label : qsTr("This field"))
+                        .arg(text.trim()).arg(NumberText.formatIn(root.from, root.integer ? 0 : root.decimals, root.locale))
+                        .arg(NumberText.formatIn(root.to, root.integer ? 0 : root.decimals, root.locale))}
+        return {ok: true, value: p.value, message: ""}
+    }
+    function same(a, b) {
+        return a === b || (isNaN(a) && isNaN(b))
     }
     function parsed(text) {
         var p = NumberText.parse(text, root.integer, root.label)
@@ -123,20 +150,20 @@ ColumnLayout {
             Component.onCompleted: text = root.formatted(root.value)
             Accessible.name: root.label.length > 0 ? root.label : qsTr("Number")
             Accessible.description: root.unit
+            placeholderText: root.placeholder
             onTextEdited: {
-                var p = NumberText.parse(text, root.integer, root.label)
-                if (!p.ok) {
-                    parseError = p.message
+                var p = root.checked(text)
+                parseError = p.message
+                if (p.ok && !root.applyOnFinish)
+                    root.edited(p.value)
+            }
+            onEditingFinished: {
+                if (!root.applyOnFinish)
                     return
-                }
-                if (p.value < root.from || p.value > root.to) {
-                    parseError = qsTr("%1: %2 is outside %3 to %4; not applied.")
-                        .arg(root.label.length > 0 ? root.label : qsTr("This field"))
-                        .arg(text.trim()).arg(root.formatted(root.from)).arg(root.formatted(root.to))
-                    return
-                }
-                parseError = ""
-                root.edited(p.value)
+                var p = root.checked(text)
+                parseError = p.message
+                if (p.ok && !root.same(p.value, root.value))
+                    root.edited(p.value)
             }
             onActiveFocusChanged: {
                 // Leaving the field shows the value the model holds, in the locale's format.

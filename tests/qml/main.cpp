@@ -7,6 +7,7 @@
 #include <QQmlContext>
 #include <QQmlEngine>
 #include <QQuickStyle>
+#include <QStandardPaths>
 #include <QTemporaryDir>
 #include <QtQml/qqmlextensionplugin.h>
 #include <QtQuickTest/quicktest.h>
@@ -28,6 +29,8 @@ private:
 };
 
 int main(int argc, char** argv) {
+    // Settings the screens keep (the last PDF folder) go to a test location, not the user's.
+    QStandardPaths::setTestModeEnabled(true);
     QApplication app(argc, argv);
     QQuickStyle::setStyle(QStringLiteral("Fusion"));
     Setup setup;

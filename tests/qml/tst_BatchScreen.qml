@@ -101,6 +101,77 @@ TestCase {
         verify(flags[0].text.indexOf("within") >= 0, flags[0].text)
     }
 
+    // A weighing typed with a decimal comma stays grams (never read as thousands); the batch goes
+    // out of tolerance: the tolerance card shows the reason and the correction; saving asks for
+    // the deviation note first and records it with the preparer's name.
+    function test_comma_amount_deviation_note() {
+        var s = makeScreen()
+        s.batch.preparer = "T. Tester"
+        verify(s.batch.markPrepared(s.designer.document()))
+        wait(50)
+        var card = findAll(s, "toleranceCard", [])[0]
+        compare(card.visible, false)
+        var target = s.batch.data(s.batch.index(0, 0), BatchModel.TargetRole)
+        var over = Math.round(target * 1.05 * 1000) / 1000
+        var fields = findAll(s, "actualField", [])
+        typeInto(fields[0].field, over.toFixed(3).replace(".", ","))
+        keyClick(Qt.Key_Return)
+        tryCompare(s.batch, "flaggedCount", 1)
+        verify(Math.abs(s.batch.data(s.batch.index(0, 0), BatchModel.ActualRole) - over) < 1e-9)
+        compare(s.batch.outOfTolerance, true)
+        tryCompare(card, "visible", true)
+        verify(s.batch.correction.length > 0)
+        verify(s.batch.outOfToleranceReasons[0].indexOf("+5.0 %") > 0, s.batch.outOfToleranceReasons[0])
+
+        // The measured pH, typed with a comma too.
+        var ph = findAll(s, "measuredPhField", [])[0]
+        typeInto(ph.field, "2,61")
+        keyClick(Qt.Key_Return)
+        tryVerify(function() { return Math.abs(s.batch.measuredPh - 2.61) < 1e-9 })
+
+        // Saving asks for the deviation note; an empty note is refused beside the field.
+        mouseClick(findAll(s, "saveSheetButton", [])[0])
+        var entry = findAll(s.Window.contentItem, "popupDeviationEntry", [])
+        verify(entry.length === 1, "the deviation popup asks for the note")
+        tryVerify(function() { return entry[0].visible })
+        var notes = findAll(entry[0], "deviationNoteField", [])
+        var buttons = findAll(entry[0], "recordDeviationButton", [])
+        mouseClick(buttons[0])
+        compare(s.batch.errorField, "batch.deviation.note")
+        typeInto(notes[0].field, "Used for a trial injection only")
+        mouseClick(buttons[0])
+        tryCompare(s.batch, "needsDeviationNote", false)
+        compare(s.batch.deviationNote, "Used for a trial injection only")
+        compare(s.batch.deviationBy, "T. Tester")
+
+        // Then the file dialog asks where, proposing <batch id>-sheet.pdf in the last folder.
+        var card = findAll(s, "printCard", [])[0]
+        var dialog = card.saveDialog
+        tryCompare(dialog, "visible", true)
+        verify(String(dialog.selectedFile).indexOf(s.batch.batchId + "-sheet.pdf") > 0, String(dialog.selectedFile))
+        // A place that cannot be written (a folder inside the database file): the reason is said
+        // beside the buttons.
+        // (The dialog takes a file set before it opens, as the card does.)
+        dialog.close()
+        dialog.selectedFile = "file://" + s.batch.workspace.databasePath + "/x.pdf"
+        dialog.open()
+        dialog.accept()
+        var failure = findAll(s, "printError", [])[0]
+        tryCompare(failure, "visible", true)
+        verify(failure.text.indexOf("is a file, not a folder") > 0, failure.text)
+        // A good place: saved there, and the folder is kept for the next dialog.
+        mouseClick(findAll(s, "saveSheetButton", [])[0])
+        tryCompare(dialog, "visible", true)
+        dialog.close()
+        dialog.selectedFile = "file://" + testDir + "/chosen/sheet.pdf"
+        dialog.open()
+        dialog.accept()
+        tryCompare(s.batch, "lastSavedPath", testDir + "/chosen/sheet.pdf")
+        compare(s.batch.outputDir, testDir + "/chosen")
+        compare(failure.visible, false)
+        compare(s.batch.printed, true)
+    }
+
     function test_touch_targets() {
         var s = makeScreen()
         s.batch.preparer = "T. Tester"

@@ -1,0 +1,560 @@
+#include "core/batch_document.h"
+
+#include "chem/error.h"
+#include "chem/recipe_roles.h"
+#include "core/chem_json.h"
+#include "core/json_util.h"
+#include "core/line_commands.h"
+
+#include <QDir>
+#include <QFile>
+#include <QJsonDocument>
+#include <QRegularExpression>
+#include <QSet>
+
+#include <cmath>
+#include <map>
+#include <set>
+
+namespace phaseplan {
+
+namespace {
+
+QString qs(const std::string& s) { return QString::fromStdString(s); }
+
+/// About four significant figures, as the sheet prints amounts.
+QString amount_text(double v) {
+    if (v == 0) return QStringLiteral("0");
+    const double a = std::abs(v);
+    const int decimals = a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4;
+    return QString::number(v, 'f', decimals);
+}
+
+QString signed_percent(double fraction) {
+    return (fraction >= 0 ? "+" : "") + QString::number(fraction * 100, 'f', 1) + " %";
+}
+
+QString recipe_title(const chem::Library& lib, const chem::Recipe& r, const QJsonObject& input) {
+    if (input.value("name").isString() && !input.value("name").toString().trimmed().isEmpty())
+        return input.value("name").toString().trimmed();
+    // The same default name the buffer screen shows until the user names the buffer.
+    return qs(chem::default_buffer_name(lib, r.request));
+}
+
+QJsonObject check_to_json(const chem::AmountCheck& c, const QString& name) {
+    QJsonObject o{{"reagent", qs(c.reagent)},
+                  {"name", name},
+                  {"unit", qs(c.unit)},
+                  {"target", c.target},
+                  {"low", c.low},
+                  {"high", c.high},
+                  {"entered", c.entered},
+                  {"within_tolerance", c.within_tolerance},
+                  {"target_mol_per_l", c.target_mol_per_l},
+                  {"actual_mol_per_l", c.actual_mol_per_l}};
+    if (c.entered) {
+        o["actual"] = c.actual;
+        o["deviation_percent"] = c.deviation_fraction * 100;
+    }
+    if (!c.lot.empty()) o["lot"] = qs(c.lot);
+    return o;
+}
+
+/// Every warning once; an amount warning names its part by the screens' name and carries its
+/// numbers as fields too.
+struct WarningList {
+    QJsonArray json;
+    QSet<QString> seen;
+    const AppData* data = nullptr;
+
+    void add(const chem::Warning& w, const std::vector<chem::AmountCheck>* checks = nullptr) {
+        QJsonObject o = warning_to_json(w);
+        if (checks)
+            for (const auto& c : *checks) {
+                if (w.message.rfind(c.reagent + ":", 0) != 0) continue;
+                // The screens' name in place of the id that leads the core's message.
+                o["message"] = part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
+                if (w.code == "amount-out-of-tolerance" && !c.within_tolerance) {
+                    o["reagent"] = qs(c.reagent);
+                    o["unit"] = qs(c.unit);
+                    o["target"] = c.target;
+                    o["actual"] = c.actual;
+                    o["deviation_percent"] = c.deviation_fraction * 100;
+                }
+                break;
+            }
+        add(o);
+    }
+    void add(const QJsonObject& w) {
+        const QString key = w.value("code").toString() + "\n" + w.value("message").toString();
+        if (seen.contains(key)) return;
+        seen.insert(key);
+        json.append(w);
+    }
+};
+
+QString reason_text(const AppData& data, const chem::AmountCheck& c) {
+    return part_display_name(data, c.reagent) + ": " + amount_text(c.actual) + " " + qs(c.unit) + ", " +
+           signed_percent(c.deviation_fraction) + " (band " + amount_text(c.low) + "–" + amount_text(c.high) +
+           " " + qs(c.unit) + ")";
+}
+
+void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& checks, BatchDocument& d) {
+    for (const auto& c : checks)
+        if (c.entered && !c.within_tolerance) {
+            d.out_of_tolerance = true;
+            d.out_of_tolerance_reasons << reason_text(data, c);
+        }
+}
+
+void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double target_ph, BatchDocument& d) {
+    if (!r.measured_ph_out || !b.measured_ph) return;
+    d.out_of_tolerance = true;
+    const double dev = *b.measured_ph - target_ph;
+    d.out_of_tolerance_reasons << "Measured pH " + QString::number(*b.measured_ph, 'f', 2) + ", " +
+                                      (dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) + " from the target " +
+                                      QString::number(target_ph, 'f', 2) + " (± " +
+                                      qs(chem::format_number(b.ph_tolerance)) + ")";
+}
+
+/// The correction in words; `prefix` names the part of a line it is for ("" for a recipe).
+/// `made_up`: the volume is made up to the mark (a buffer), not the sum of parts (a line).
+QStringList correction_words(const AppData& data, const chem::Correction& c, const QString& prefix,
+                             bool made_up = true) {
+    QStringList out;
+    if (!c.needed) return out;
+    if (c.remake) {
+        out << prefix + "Remake the batch: " + qs(c.remake_reason) + ".";
+        return out;
+    }
+    for (const auto& s : c.steps) {
+        const QString name = part_display_name(data, s.reagent);
+        const QString u = " " + qs(s.unit);
+        if (!s.entered)
+            out << prefix + (s.unit == "g" ? "Weigh " : "Measure ") + amount_text(s.add) + u + " of " + name +
+                       (c.scale > 1 ? " (scaled from " + amount_text(s.target) + u + ")" : QString()) + ".";
+        else if (s.add > 0)
+            out << prefix + "Add " + amount_text(s.add) + u + " of " + name + " (to " + amount_text(s.after) + u +
+                       (c.scale > 1 ? ", the scaled target" : QString()) + ").";
+    }
+    if (c.scale > 1)
+        out << prefix + (made_up ? "Make up to " : "The line then holds ") + amount_text(c.final_volume_ml) +
+                   " mL instead of " + amount_text(c.planned_volume_ml) + " mL (all amounts × " +
+                   QString::number(c.scale, 'f', 4) + "), then relabel the volume.";
+    if (out.isEmpty()) out << prefix + "Nothing to add: every amount is within its band after scaling.";
+    return out;
+}
+
+QJsonObject correction_json(const AppData& data, const chem::Correction& c, const QStringList& text) {
+    QJsonArray steps;
+    for (const auto& s : c.steps) {
+        QJsonObject o{{"reagent", qs(s.reagent)}, {"name", part_display_name(data, s.reagent)},
+                      {"unit", qs(s.unit)}, {"target", s.target}, {"new_target", s.new_target},
+                      {"entered", s.entered}, {"add", s.add}, {"after", s.after}};
+        if (s.entered) o["actual"] = s.actual;
+        steps.append(o);
+    }
+    QJsonObject o{{"remake", c.remake}, {"scale", c.scale}, {"planned_volume_ml", c.planned_volume_ml},
+                  {"final_volume_ml", c.final_volume_ml}, {"steps", steps},
+                  {"text", QJsonArray::fromStringList(text)}};
+    if (c.container_ml) o["container_ml"] = *c.container_ml;
+    if (c.remake) o["remake_reason"] = qs(c.remake_reason);
+    return o;
+}
+
+QJsonObject batch_summary(const chem::Batch& batch, const QString& expires_at, double shelf_h) {
+    QJsonObject b{{"id", qs(batch.id)}, {"tolerance_percent", batch.tolerance_fraction * 100},
+                  {"shelf_life_h", shelf_h}, {"ph_tolerance", batch.ph_tolerance}};
+    auto put = [&](const char* key, const std::string& v) {
+        if (!v.empty()) b[key] = qs(v);
+    };
+    put("prepared_by", batch.prepared_by);
+    put("prepared_at", batch.prepared_at);
+    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
+    put("checked_by", batch.checked_by);
+    put("ph_meter_id", batch.ph_meter_id);
+    put("balance_id", batch.balance_id);
+    put("comment", batch.comment);
+    if (batch.measured_ph) b["measured_ph"] = *batch.measured_ph;
+    if (batch.container_ml) b["container_ml"] = *batch.container_ml;
+    if (!batch.deviation_note.empty()) {
+        QJsonObject dev{{"note", qs(batch.deviation_note)}};
+        if (!batch.deviation_by.empty()) dev["by"] = qs(batch.deviation_by);
+        if (!batch.deviation_at.empty()) dev["at"] = qs(batch.deviation_at);
+        b["deviation"] = dev;
+    }
+    return b;
+}
+
+QJsonArray steps_json(const QList<StepSection>& sections) {
+    QJsonArray a;
+    for (const StepSection& s : sections)
+        a.append(QJsonObject{{"heading", s.heading}, {"steps", QJsonArray::fromStringList(s.steps)}});
+    return a;
+}
+
+QStringList strings_of(const QJsonValue& v) {
+    QStringList out;
+    for (const QJsonValue& x : v.toArray()) out << x.toString();
+    return out;
+}
+
+/// Runs a batch against a sub-recipe (a line's buffer) whose amounts are a subset of the batch's:
+/// errors name the entry's index in the whole "batch.actual" list.
+chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe, const chem::Batch& whole,
+                                  const std::vector<int>& indexes, double shelf_h) {
+    chem::Batch sub = whole;
+    sub.actual.clear();
+    for (int i : indexes) sub.actual.push_back(whole.actual[i]);
+    try {
+        return chem::evaluate_batch(lib, recipe, sub, shelf_h);
+    } catch (const chem::Error& e) {
+        static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
+        const QString f = qs(e.field());
+        const auto m = re.match(f);
+        if (!m.hasMatch()) throw;
+        const int k = m.captured(1).toInt();
+        const int original = k < int(indexes.size()) ? indexes[k] : k;
+        throw chem::Error(("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength())).toStdString(),
+                          e.message());
+    }
+}
+
+void finish_tolerance(const AppData& data, BatchDocument& d, QJsonObject& b) {
+    b["out_of_tolerance"] = d.out_of_tolerance;
+    b["out_of_tolerance_reasons"] = QJsonArray::fromStringList(d.out_of_tolerance_reasons);
+    if (d.correction && d.correction->needed) b["correction"] = correction_json(data, *d.correction, d.correction_text);
+    b["steps"] = steps_json(d.steps);
+}
+
+// ---- recipe -----------------------------------------------------------------------------------
+
+void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d) {
+    const chem::Library& lib = data.reagents;
+    const chem::RecipeRequest req = recipe_request_from_json(lib, input, "");
+    d.recipe = chem::design_recipe(lib, req);
+    d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
+    d.shelf_life_h = d.shelf_override.value_or(default_shelf_life_h(data, "aqueous-buffer", &d.shelf_source));
+    if (d.shelf_override) d.shelf_source = QStringLiteral("entered");
+    d.shelf_kind = QStringLiteral("an aqueous buffer");
+    d.result = chem::evaluate_batch(lib, *d.recipe, d.batch, d.shelf_life_h);
+    const chem::BatchResult& res = *d.result;
+    d.expires_at = qs(res.expires_at);
+    d.title = recipe_title(lib, *d.recipe, input);
+    d.steps << StepSection{QStringLiteral("Steps"), recipe_steps(*d.recipe)};
+
+    add_reasons(data, res.checks, d);
+    add_ph_reason(res, d.batch, req.target_ph, d);
+    d.correction = chem::suggest_correction(res.checks, d.batch.tolerance_fraction, req.volume_ml, d.batch.container_ml);
+    d.correction_text = correction_words(data, *d.correction, {});
+
+    WarningList warnings{{}, {}, &data};
+    for (const auto& w : d.recipe->warnings) warnings.add(w);
+    for (const auto& w : res.warnings) warnings.add(w, &res.checks);
+    d.warnings = warnings.json;
+
+    QJsonObject b = batch_summary(d.batch, d.expires_at, d.shelf_life_h);
+    QJsonArray checks, composition;
+    for (const auto& c : res.checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+    for (const auto& c : res.composition)
+        composition.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
+    b["final_volume_ml"] = res.final_volume_ml;
+    b["checks"] = checks;
+    b["composition"] = composition;
+    b["ph"] = res.predicted.ph;
+    b["ionic_strength_mol_per_l"] = res.predicted.ionic_strength_mol_per_l;
+    b["buffer_capacity_mol_per_l"] = res.predicted.buffer_capacity_mol_per_l;
+    finish_tolerance(data, d, b);
+    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"target_ph", req.target_ph},
+                            {"planned_ph", d.recipe->predicted.ph}, {"batch", b}, {"warnings", d.warnings}};
+}
+
+// ---- line -------------------------------------------------------------------------------------
+
+void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& d) {
+    QJsonObject input = input_in;
+    if (!input.contains("volume_ml") && input.value("bottle_ml").isDouble())
+        input["volume_ml"] = input.value("bottle_ml"); // a sheet for the whole bottle by default
+    QJsonObject doc = input;
+    doc.remove("batch");
+    d.line_out = command_line(data, doc, {});
+    const double volume = d.line_out.value("volume_ml").toDouble();
+    const ParsedLine pl = line_from_json(data, doc, "", volume, false, nullptr);
+    d.line_spec = pl.spec;
+    d.line = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
+    const chem::LineRecipe& lr = *d.line;
+
+    d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
+    const chem::Batch& batch = d.batch;
+    const QJsonObject shelf = d.line_out.value("shelf_life").toObject();
+    d.shelf_life_h = d.shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
+    d.shelf_source = d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
+    d.shelf_kind = QStringLiteral("kind ") + shelf.value("kind").toString();
+    d.expires_at = qs(chem::check_batch_fields(batch, d.shelf_life_h));
+    d.title = d.line_out.value("name").toString();
+
+    // Each actual amount names a part (solvent id, "buffer", additive id) or, "buffer.<id>" or a
+    // plain reagent id, a reagent of the line's buffer.
+    std::map<std::string, int> part_entry;
+    std::vector<int> buffer_entries;
+    std::set<std::string> buffer_ids;
+    if (lr.buffer)
+        for (const auto& it : lr.buffer->items) buffer_ids.insert(it.reagent);
+    std::set<std::string> part_ids;
+    std::string known;
+    for (const auto& it : lr.items)
+        if (part_ids.insert(it.part).second) known += (known.empty() ? "" : ", ") + it.part;
+    for (const auto& id : buffer_ids) known += ", buffer." + id;
+    chem::Batch batch_for_buffer = batch;
+    for (size_t i = 0; i < batch.actual.size(); ++i) {
+        const std::string& r = batch.actual[i].reagent;
+        const std::string at = "batch.actual[" + std::to_string(i) + "].reagent";
+        if (r.rfind("buffer.", 0) == 0 && buffer_ids.count(r.substr(7))) {
+            batch_for_buffer.actual[i].reagent = r.substr(7);
+            buffer_entries.push_back(int(i));
+        } else if (part_ids.count(r)) {
+            if (part_entry.count(r)) throw chem::Error(at, "\"" + r + "\" is given twice");
+            part_entry[r] = int(i);
+        } else if (buffer_ids.count(r)) {
+            buffer_entries.push_back(int(i));
+        } else {
+            throw chem::Error(at, "\"" + r + "\" is not a part of this line (its parts: " + known + ")");
+        }
+    }
+
+    // Parts, measured separately.
+    WarningList warnings{{}, {}, &data};
+    for (const auto& it : lr.items) {
+        std::optional<double> actual;
+        std::string unit = it.volume_ml ? "mL" : "g";
+        std::string lot;
+        if (auto e = part_entry.find(it.part); e != part_entry.end()) {
+            const chem::ActualAmount& a = batch.actual[e->second];
+            const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
+            unit = a.mass_g ? "g" : "mL";
+            if (unit == "g" && !it.mass_g) throw chem::Error(at + ".mass_g", it.part + " has no target mass: give volume_ml");
+            if (unit == "mL" && !it.volume_ml) throw chem::Error(at + ".volume_ml", it.part + " has no target volume: give mass_g");
+            actual = a.mass_g ? a.mass_g : a.volume_ml;
+            lot = a.lot;
+        }
+        const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
+        chem::AmountCheck c = chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
+        c.lot = lot;
+        d.part_checks.push_back(c);
+    }
+    for (const auto& c : d.part_checks)
+        if (!c.within_tolerance) warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction), &d.part_checks);
+    add_reasons(data, d.part_checks, d);
+
+    if (lr.buffer) {
+        d.result = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries, d.shelf_life_h);
+        add_reasons(data, d.result->checks, d);
+        add_ph_reason(*d.result, batch, lr.buffer->request.target_ph, d);
+        QStringList bs;
+        for (const auto& s : lr.buffer->steps) bs << qs(s);
+        d.steps << StepSection{QStringLiteral("Buffer steps"), bs};
+    }
+    d.steps << StepSection{lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"),
+                           strings_of(d.line_out.value("steps"))};
+
+    // Corrections: the parts against the bottle, the buffer against its container.
+    const std::optional<double> bottle =
+        batch.container_ml ? batch.container_ml
+                           : (input.value("bottle_ml").isDouble() ? std::optional<double>(input.value("bottle_ml").toDouble())
+                                                                  : std::nullopt);
+    chem::Correction parts = chem::suggest_correction(d.part_checks, batch.tolerance_fraction, volume, bottle);
+    if (parts.needed) {
+        d.correction = parts;
+        d.correction_text << correction_words(data, parts, {}, false);
+    }
+    if (d.result) {
+        chem::Correction buf = chem::suggest_correction(d.result->checks, batch.tolerance_fraction,
+                                                        lr.buffer->request.volume_ml, batch.container_ml);
+        if (buf.needed) {
+            if (!d.correction) d.correction = buf;
+            d.correction_text << correction_words(data, buf, QStringLiteral("Aqueous buffer: "));
+        }
+    }
+
+    for (const QJsonValue& w : d.line_out.value("warnings").toArray()) warnings.add(w.toObject());
+    if (lr.buffer) {
+        for (const auto& w : lr.buffer->warnings) warnings.add(w);
+        for (const auto& w : d.result->warnings) warnings.add(w, &d.result->checks);
+    }
+    d.warnings = warnings.json;
+
+    QJsonObject b = batch_summary(batch, d.expires_at, d.shelf_life_h);
+    QJsonArray checks;
+    for (const auto& c : d.part_checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+    if (d.result)
+        for (const auto& c : d.result->checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+    b["checks"] = checks;
+    if (d.result) {
+        QJsonArray comp;
+        for (const auto& c : d.result->composition)
+            comp.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
+        b["buffer_composition"] = comp;
+        b["ph"] = d.result->predicted.ph;
+        b["ionic_strength_mol_per_l"] = d.result->predicted.ionic_strength_mol_per_l;
+        b["buffer_capacity_mol_per_l"] = d.result->predicted.buffer_capacity_mol_per_l;
+    }
+    finish_tolerance(data, d, b);
+    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"volume_ml", volume}, {"batch", b},
+                            {"warnings", d.warnings}};
+    if (lr.buffer) d.summary["target_ph"] = lr.buffer->request.target_ph;
+}
+
+// ---- sequence ---------------------------------------------------------------------------------
+
+void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument& d) {
+    QJsonObject doc = input;
+    doc.remove("batch");
+    d.sequence_out = command_sequence(data, doc, {});
+    d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
+    if (!d.batch.actual.empty())
+        throw chem::Error("batch.actual", "a sequence sheet takes no amounts: print each line's own sheet "
+                                          "(phaseplan-cli sheet on the line) to record them");
+    const QJsonObject lines_out = d.sequence_out.value("lines").toObject();
+    double shortest = 1e9;
+    for (const QString& key : lines_out.keys())
+        shortest = std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
+    d.shelf_life_h = d.shelf_override.value_or(shortest < 1e9 ? shortest : 48);
+    d.expires_at = qs(chem::check_batch_fields(d.batch, d.shelf_life_h));
+    d.title = input.value("name").isString()
+                  ? input.value("name").toString()
+                  : "Sequence from " + d.sequence_out.value("start").toString().left(16).replace('T', ' ') + ", " +
+                        QString::number(d.sequence_out.value("injections").toInt()) + " injections";
+    WarningList warnings{{}, {}, &data};
+    for (const QJsonValue& w : d.sequence_out.value("warnings").toArray()) warnings.add(w.toObject());
+    d.warnings = warnings.json;
+    QJsonObject b = batch_summary(d.batch, d.expires_at, shortest < 1e9 ? shortest : 48);
+    finish_tolerance(data, d, b);
+    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"batch", b},
+                            {"end", d.sequence_out.value("end")}, {"warnings", d.warnings}};
+}
+
+} // namespace
+
+QString batch_document_kind(const QJsonObject& input) {
+    if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
+    if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
+    return QStringLiteral("recipe");
+}
+
+chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies,
+                            std::optional<double>* shelf_life_h) {
+    const QJsonObject o = json::require_object(input, "batch", "");
+    const std::string at = "batch";
+    chem::Batch b;
+    b.id = json::require_string(o, "id", at);
+    b.prepared_by = json::optional_string(o, "prepared_by", at).value_or("");
+    b.prepared_at = json::optional_string(o, "prepared_at", at).value_or("");
+    b.expires_at = json::optional_string(o, "expires_at", at).value_or("");
+    b.checked_by = json::optional_string(o, "checked_by", at).value_or("");
+    if (auto t = json::optional_number(o, "tolerance_percent", at)) b.tolerance_fraction = *t / 100.0;
+    b.final_volume_ml = json::optional_positive(o, "final_volume_ml", at, 1.0e6);
+    b.measured_ph = json::optional_number(o, "measured_ph", at);
+    if (auto t = json::optional_number(o, "ph_tolerance", at)) b.ph_tolerance = *t;
+    b.ph_meter_id = json::optional_string(o, "ph_meter_id", at).value_or("");
+    b.balance_id = json::optional_string(o, "balance_id", at).value_or("");
+    b.comment = json::optional_string(o, "comment", at).value_or("");
+    b.container_ml = json::optional_positive(o, "container_ml", at, 1.0e6);
+    if (o.contains("deviation") && !o.value("deviation").isNull()) {
+        const QJsonObject dv = json::require_object(o, "deviation", at);
+        const std::string dat = json::path(at, "deviation");
+        b.deviation_note = json::optional_string(dv, "note", dat).value_or("");
+        b.deviation_by = json::optional_string(dv, "by", dat).value_or("");
+        b.deviation_at = json::optional_string(dv, "at", dat).value_or("");
+        if (QString::fromStdString(b.deviation_note).trimmed().isEmpty())
+            throw chem::Error(json::path(dat, "note"), "is empty: say why the batch is used although it is out of tolerance");
+    }
+    if (o.contains("copies") && !o.value("copies").isNull()) {
+        const int n = json::require_int(o, "copies", at, 1, 200);
+        if (copies) *copies = n;
+    }
+    if (auto h = json::optional_positive(o, "shelf_life_h", at, 1.0e5))
+        if (shelf_life_h) *shelf_life_h = *h;
+    if (o.contains("actual") && !o.value("actual").isNull()) {
+        const QJsonArray a = json::require_array(o, "actual", at);
+        const std::string list = json::path(at, "actual");
+        for (int i = 0; i < a.size(); ++i) {
+            const std::string ai = json::path(list, i);
+            const QJsonObject e = json::element_object(a, i, list);
+            chem::ActualAmount x;
+            x.reagent = json::require_string(e, "reagent", ai);
+            x.mass_g = json::optional_positive(e, "mass_g", ai, 1.0e6);
+            x.volume_ml = json::optional_positive(e, "volume_ml", ai, 1.0e6);
+            if (!x.mass_g && !x.volume_ml)
+                throw chem::Error(json::path(ai, "mass_g"), "give mass_g or volume_ml");
+            if (x.mass_g && x.volume_ml)
+                throw chem::Error(json::path(ai, "volume_ml"), "give mass_g or volume_ml, not both");
+            x.lot = json::optional_string(e, "lot", ai).value_or("");
+            b.actual.push_back(std::move(x));
+        }
+    }
+    return b;
+}
+
+double default_shelf_life_h(const AppData& data, const QString& kind, QString* source) {
+    QFile f(QDir(data.data_dir).filePath(QStringLiteral("solvents.json")));
+    if (f.open(QIODevice::ReadOnly)) {
+        const QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
+        for (const QJsonValue& v : doc.value("shelf_life").toArray()) {
+            const QJsonObject e = v.toObject();
+            if (e.value("kind").toString() == kind && e.value("hours").toDouble() > 0) {
+                if (source) *source = e.value("source").toString();
+                return e.value("hours").toDouble();
+            }
+        }
+    }
+    const chem::ShelfLifeDefaults d;
+    if (source) *source = QStringLiteral("built-in default, common practice, no source");
+    if (kind.startsWith("aqueous")) return d.hours_for(chem::SolutionKind::aqueous_buffer);
+    if (kind.contains("organic") && kind.contains("buffer")) return d.hours_for(chem::SolutionKind::mixed);
+    return d.hours_for(chem::SolutionKind::organic);
+}
+
+QStringList recipe_steps(const chem::Recipe& recipe) {
+    static const QRegularExpression lead_number(QStringLiteral("^\\s*\\d+\\.\\s+"));
+    QStringList steps;
+    bool degas = false;
+    for (const auto& s : recipe.steps) {
+        steps << qs(s).remove(lead_number);
+        degas |= qs(s).contains("degas", Qt::CaseInsensitive);
+    }
+    if (!degas) {
+        const int label_step = steps.indexOf(QRegularExpression("^Label the bottle.*"));
+        const QString text = QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
+                                            "unless the pump degasses in line.");
+        if (label_step >= 0) steps.insert(label_step, text);
+        else steps << text;
+    }
+    return steps;
+}
+
+QString part_display_name(const AppData& data, const std::string& id) {
+    if (const chem::Reagent* r = data.reagents.find_reagent(id)) return qs(r->name);
+    if (const chem::Solvent* s = data.solvents.find_solvent(id)) return qs(s->name);
+    if (id == "buffer") return QStringLiteral("Aqueous buffer");
+    return qs(id);
+}
+
+BatchDocument read_batch_document(const AppData& data, const QJsonObject& input) {
+    BatchDocument d;
+    d.kind = batch_document_kind(input);
+    if (d.kind == "line") read_line(data, input, d);
+    else if (d.kind == "sequence") read_sequence(data, input, d);
+    else read_recipe(data, input, d);
+    return d;
+}
+
+void require_deviation_note(const BatchDocument& doc) {
+    if (!doc.out_of_tolerance) return;
+    if (!QString::fromStdString(doc.batch.deviation_note).trimmed().isEmpty()) return;
+    throw chem::Error("batch.deviation.note",
+                      "is required: the batch is out of tolerance (" +
+                          doc.out_of_tolerance_reasons.join("; ").toStdString() +
+                          "); record a deviation note saying why it is still used, or remake it");
+}
+
+} // namespace phaseplan

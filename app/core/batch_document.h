@@ -1,0 +1,118 @@
+#pragma once
+// A contract document (a `recipe` input, a line or a sequence) with its "batch" object, evaluated
+// once for everyone who shows it: the app's Prepare & record screen (gui/batch_model) and the
+// printed sheet and labels (print/documents). Both read the same checks, the same warnings, the
+// same steps and the same out-of-tolerance verdict from here, so the screen and the paper cannot
+// differ. No painting, no Qt GUI.
+//
+// The "batch" object (issue 5 §5; names fixed, extend only):
+//   {"id": "…", "prepared_by": "…", "prepared_at": "2026-12-01T16:30:00", "expires_at": "…",
+//    "actual": [{"reagent": "<id>", "mass_g": … | "volume_ml": …, "lot": "…"}]}
+// all fields but "id" optional. Extensions: "checked_by", "purpose", "tolerance_percent"
+// (default 2), "final_volume_ml", "shelf_life_h" (overrides the default for the kind),
+// "copies" (labels per document), and for the record at the bench:
+//   "measured_ph" (the meter's reading at the recipe temperature), "ph_tolerance" (± pH units,
+//   default 0.05), "ph_meter_id", "balance_id", "comment", "container_ml" (the largest volume the
+//   vessel holds, for the correction), "deviation": {"note", "by", "at"} (why an
+//   out-of-tolerance batch is still used, who wrote it, when).
+// For a line, "reagent" in "actual" may also name a part (a solvent id or "buffer") or an
+// additive id.
+#include "chem/batch.h"
+#include "chem/batch_correction.h"
+#include "chem/line.h"
+#include "chem/recipe.h"
+#include "core/app_data.h"
+
+#include <QJsonArray>
+#include <QJsonObject>
+#include <QList>
+#include <QString>
+#include <QStringList>
+
+#include <optional>
+#include <vector>
+
+namespace phaseplan {
+
+/// "recipe", "line" or "sequence": which contract document `input` is (a sequence has "lines"
+/// and "sequence"; a line has "parts" or "bottle_ml"; anything else is read as a recipe).
+QString batch_document_kind(const QJsonObject& input);
+
+/// The "batch" object of `input` read into chem::Batch. Throws chem::Error naming the field
+/// ("batch", "batch.id", "batch.actual[2].mass_g", "batch.deviation.note", …). `copies` receives
+/// "copies" when given, `shelf_life_h` "shelf_life_h".
+chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies = nullptr,
+                            std::optional<double>* shelf_life_h = nullptr);
+
+/// Shelf life in hours for a kind of solution: data/solvents.json "shelf_life" (kind
+/// "aqueous-buffer", "buffer-with-organic", "neat-solvent", …) when the data folder has it,
+/// else chem::ShelfLifeDefaults. `source` receives where the number comes from.
+double default_shelf_life_h(const AppData& data, const QString& kind, QString* source = nullptr);
+
+/// A titled list of steps, in order.
+struct StepSection {
+    QString heading;     ///< "Steps", "Buffer steps", "Line steps"
+    QStringList steps;   ///< without leading numbers
+};
+
+/// The recipe's steps as shown and printed: the designer's, with a degassing step before the
+/// labelling step when the designer's steps leave it out.
+QStringList recipe_steps(const chem::Recipe& recipe);
+
+/// A reagent, solvent or line part by the name the screens show ("Potassium dihydrogen
+/// phosphate", "Acetonitrile", "Aqueous buffer"); the id itself when unknown.
+QString part_display_name(const AppData& data, const std::string& id);
+
+struct BatchDocument {
+    QString kind;                     ///< "recipe", "line", "sequence"
+    QString title;
+    chem::Batch batch;
+    std::optional<int> copies;
+    std::optional<double> shelf_override;
+    double shelf_life_h = 0;
+    QString shelf_source;             ///< where the shelf life comes from
+    QString shelf_kind;               ///< "an aqueous buffer", "kind neat-solvent", …
+    QString expires_at;               ///< ISO, "" when unknown
+
+    // recipe: the design and the batch against it; line: the buffer part's.
+    std::optional<chem::Recipe> recipe;
+    std::optional<chem::BatchResult> result;
+
+    // line
+    QJsonObject line_out;             ///< the `line` command's result
+    std::optional<chem::LineSpec> line_spec;
+    std::optional<chem::LineRecipe> line;
+    std::vector<chem::AmountCheck> part_checks; ///< one per line item, in its order
+
+    // sequence
+    QJsonObject sequence_out;         ///< the `sequence` command's result
+
+    /// The steps, the same on the screen and on the sheet.
+    QList<StepSection> steps;
+    /// Every warning of the document and the batch, once each, as JSON (code, severity,
+    /// message; amount warnings also reagent, unit, target, actual, deviation_percent).
+    QJsonArray warnings;
+
+    /// An entered amount outside its band, or the measured pH outside its tolerance.
+    bool out_of_tolerance = false;
+    /// Each reason, in the screens' words: "Potassium dihydrogen phosphate: 3.2050 g, +1.4 %
+    /// (band 3.0978–3.2242 g)", "Measured pH 2.61, +0.11 from the target 2.50 (± 0.05)".
+    QStringList out_of_tolerance_reasons;
+    /// For out-of-band amounts: what to add, or remake. Absent when every amount is in its band.
+    std::optional<chem::Correction> correction;
+    /// The correction in words, one instruction a line.
+    QStringList correction_text;
+
+    /// The JSON summary of `phaseplan-cli sheet`: {"document", "title", "batch": {…}, "warnings"}.
+    QJsonObject summary;
+};
+
+/// Validates everything and evaluates the batch. Throws chem::Error naming the field (the same
+/// fields and messages as the `recipe`, `line` and `sequence` subcommands, plus the batch's).
+BatchDocument read_batch_document(const AppData& data, const QJsonObject& input);
+
+/// Throws chem::Error("batch.deviation.note", …) when the batch is out of tolerance and has no
+/// deviation note: it may be neither printed nor used without one.
+void require_deviation_note(const BatchDocument& doc);
+
+} // namespace phaseplan
