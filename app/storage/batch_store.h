@@ -31,7 +31,7 @@ namespace phaseplan::storage {
 
 /// The SQL that creates the batch tables, indexes and triggers, in order (migration step 4).
 QStringList batch_schema_statements();
-/// Step 5: the bench record's columns (measured pH, pH tolerance, pH meter, balance, comment,
+/// Step 6: the bench record's columns (measured pH, pH tolerance, pH meter, balance, comment,
 /// container, deviation note/by/at) and the change trigger re-created to watch them too.
 QStringList batch_schema_bench_statements();
 

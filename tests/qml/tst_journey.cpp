@@ -1,0 +1,288 @@
+// Tonight's work from an empty start, through the real main window with mouse and key events, as
+// a new user at the bench would do it: a new buffer, a line holding it, a new gradient method,
+// tonight's sequence of 40 injections, and the checks. Run twice by CTest: under C.UTF-8 and
+// under de_DE.UTF-8 (decimal comma), typing numbers with the locale's own decimal mark.
+//
+// What the screen must show is asserted at each step from the items the user sees (field texts,
+// labels, the night summary), not only from the models behind them.
+#include "app_runner.h"
+#include "workspace.h"
+
+#include <QAccessible>
+#include <QApplication>
+#include <QLocale>
+#include <QQmlApplicationEngine>
+#include <QQuickItem>
+#include <QQuickStyle>
+#include <QQuickWindow>
+#include <QRegularExpression>
+#include <QTemporaryDir>
+#include <QTest>
+#include <QtQml/qqmlextensionplugin.h>
+
+#include <functional>
+
+Q_IMPORT_QML_PLUGIN(PhasePlanPlugin)
+
+using phaseplan::gui::Workspace;
+
+class TestJourney : public QObject {
+    Q_OBJECT
+
+    QTemporaryDir dir_;
+    std::unique_ptr<Workspace> workspace_;
+    std::unique_ptr<QQmlApplicationEngine> engine_;
+    QQuickWindow* window_ = nullptr;
+    QChar mark_; ///< the locale's decimal mark, typed by the user
+
+    // ---- finding what the user sees ----------------------------------------------------------
+    QQuickItem* find(const std::function<bool(QQuickItem*)>& pred, bool visible_only = true) const {
+        QQuickItem* found = nullptr;
+        std::function<void(QQuickItem*)> walk = [&](QQuickItem* item) {
+            if (found || (visible_only && !item->isVisible())) return;
+            if (pred(item)) {
+                found = item;
+                return;
+            }
+            for (QQuickItem* c : item->childItems()) walk(c);
+        };
+        walk(window_->contentItem());
+        return found;
+    }
+    static QString accessible(QQuickItem* item) {
+        QAccessibleInterface* a = QAccessible::queryAccessibleInterface(item);
+        return a ? a->text(QAccessible::Name) : QString();
+    }
+    QQuickItem* named(const QString& object_name) const {
+        return find([&](QQuickItem* i) { return i->objectName() == object_name; });
+    }
+    /// A control by the name a screen reader reads (Accessible.name), or a button by its text.
+    QQuickItem* control(const QString& name) const {
+        return find([&](QQuickItem* i) {
+            const bool is_control = i->inherits("QQuickAbstractButton") || i->inherits("QQuickTextField") ||
+                                    i->inherits("QQuickComboBox");
+            return is_control && (accessible(i) == name ||
+                                  (i->inherits("QQuickAbstractButton") && i->property("text").toString() == name));
+        });
+    }
+    /// Whether some visible text on the window contains `text`.
+    bool showsText(const QString& text) const {
+        return find([&](QQuickItem* i) {
+                   return (i->inherits("QQuickText") || i->inherits("QQuickTextInput")) &&
+                          i->property("text").toString().contains(text);
+               }) != nullptr;
+    }
+
+    // ---- acting as the user ------------------------------------------------------------------
+    /// Types ASCII text key by key into the focused field.
+    void type_text(const QString& text) {
+        for (QChar c : text) QTest::keyClick(window_, c.toLatin1());
+    }
+    void settle(int frames = 2) {
+        for (int i = 0; i < frames; ++i) {
+            QCoreApplication::processEvents();
+            QTest::qWait(30);
+        }
+    }
+    /// Scrolls the item's page so that the item is on screen, as the user would.
+    void bring_into_view(QQuickItem* item) {
+        for (QQuickItem* p = item->parentItem(); p; p = p->parentItem()) {
+            if (!p->inherits("QQuickFlickable")) continue;
+            auto* content = qvariant_cast<QQuickItem*>(p->property("contentItem"));
+            if (!content) break;
+            const double y = item->mapToItem(content, QPointF(0, 0)).y();
+            const double view_h = p->height();
+            const double content_h = p->property("contentHeight").toDouble();
+            const double cy = p->property("contentY").toDouble();
+            if (y < cy || y + item->height() > cy + view_h)
+                p->setProperty("contentY", std::max(0.0, std::min(y - view_h / 3, content_h - view_h)));
+            break;
+        }
+        settle();
+    }
+    void click(QQuickItem* item) {
+        QVERIFY(item);
+        bring_into_view(item);
+        const QPointF centre = item->mapToScene(QPointF(item->width() / 2, item->height() / 2));
+        QVERIFY2(window_->contentItem()->contains(centre), "the control is on screen");
+        QTest::mouseClick(window_, Qt::LeftButton, Qt::NoModifier, centre.toPoint());
+        settle();
+    }
+    /// Replaces the text of a field by typing, then leaves it with Tab.
+    void type_into(QQuickItem* field, const QString& text, bool leave = true) {
+        QVERIFY(field);
+        click(field);
+        QVERIFY2(field->hasActiveFocus(), qPrintable(accessible(field)));
+        QTest::keyClick(window_, Qt::Key_A, Qt::ControlModifier);
+        type_text(text);
+        settle();
+        if (leave) QTest::keyClick(window_, Qt::Key_Tab);
+        settle();
+    }
+    /// A number as the user types it: the locale's decimal mark.
+    QString num(const char* dotted) const { return QString::fromLatin1(dotted).replace(QLatin1Char('.'), mark_); }
+    void open_screen(const QString& name) {
+        QQuickItem* nav = find([&](QQuickItem* i) {
+            return i->inherits("QQuickAbstractButton") && i->property("text").toString() == name &&
+                   QString::fromLatin1(i->metaObject()->className()).startsWith("NavButton");
+        });
+        click(nav);
+    }
+    /// Opens a picker and chooses the entry whose text starts with `entry`.
+    void pick(QQuickItem* combo, const QString& entry) {
+        click(combo);
+        settle(4);
+        QQuickItem* delegate = find([&](QQuickItem* i) {
+            return i->inherits("QQuickItemDelegate") && i->property("text").toString().startsWith(entry);
+        });
+        if (!delegate) {
+            QStringList shown;
+            find([&](QQuickItem* i) {
+                if (i->inherits("QQuickItemDelegate")) shown << i->property("text").toString();
+                return false;
+            });
+            qWarning() << "entries shown:" << shown << "popup open:" << combo->property("popup").value<QObject*>()->property("visible");
+        }
+        QVERIFY2(delegate, qPrintable(entry));
+        click(delegate);
+        settle(4);
+    }
+    QObject* model(const char* name) const { return window_->findChild<QObject*>(QString::fromLatin1(name)); }
+
+private slots:
+    void initTestCase() {
+        // "Today" is fixed so that the demo's 18:00 start and "tomorrow" read the same every run.
+        qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
+        mark_ = QLocale().decimalPoint().at(0);
+        workspace_ = std::make_unique<Workspace>();
+        workspace_->setDatabasePath(dir_.filePath("journey.sqlite"));
+        workspace_->setDataDir(QStringLiteral(SOURCE_DIR "/data"));
+        QVERIFY2(workspace_->open(), qPrintable(workspace_->errorMessage()));
+        engine_ = std::make_unique<QQmlApplicationEngine>();
+        phaseplan::gui::prepare_engine(*engine_);
+        engine_->setInitialProperties({{"workspace", QVariant::fromValue(workspace_.get())}});
+        engine_->load(QUrl(QStringLiteral("qrc:/PhasePlan/Main.qml")));
+        QVERIFY(!engine_->rootObjects().isEmpty());
+        window_ = qobject_cast<QQuickWindow*>(engine_->rootObjects().first());
+        QVERIFY(window_);
+        window_->resize(1280, 800);
+        window_->show();
+        QVERIFY(QTest::qWaitForWindowExposed(window_));
+        settle(5);
+    }
+
+    void aNewBufferWithTheLocalesDecimalMark() {
+        open_screen("Buffer");
+        QObject* designer = model("designer");
+        click(control("New buffer"));
+        QVERIFY2(designer->property("bufferName").toString().startsWith("25 mM sodium phosphate pH 7.0"),
+                 qPrintable(designer->property("bufferName").toString()));
+        // Typed key by key: "6" is a whole number and applies; "6," (or "6.") waits for its
+        // decimals, and the recipe that depends on it is marked "not applied" meanwhile.
+        QQuickItem* ph = control("Target pH");
+        type_into(ph, num("6."), false);
+        QCOMPARE(designer->property("targetPh").toDouble(), 6.0);
+        QVERIFY(showsText("not applied"));
+        type_text("8");
+        settle();
+        QCOMPARE(designer->property("targetPh").toDouble(), 6.8);
+        QVERIFY(!showsText("not applied"));
+        QTest::keyClick(window_, Qt::Key_Tab);
+        settle();
+        QCOMPARE(ph->property("text").toString(), num("6.80"));
+        QVERIFY2(designer->property("bufferName").toString().contains("pH 6.8"),
+                 qPrintable(designer->property("bufferName").toString()));
+        // A mistake: a thousands separator in an amount is refused, named, and nothing changes.
+        QQuickItem* conc = control("Buffer concentration");
+        type_into(conc, mark_ == QLatin1Char(',') ? "1.000" : "1,000", false);
+        QCOMPARE(designer->property("concentrationMmolPerL").toDouble(), 25.0);
+        QVERIFY2(showsText("Buffer concentration"), "the message names the field");
+        QTest::keyClick(window_, Qt::Key_Escape);
+        settle();
+        type_into(conc, num("20"));
+        QCOMPARE(designer->property("concentrationMmolPerL").toDouble(), 20.0);
+        // Named by the user: the name stops following the inputs.
+        click(control("Rename buffer"));
+        type_into(named("nameInput"), "Night buffer pH 6.8", false);
+        click(named("nameAccept"));
+        QCOMPARE(designer->property("bufferName").toString(), QString("Night buffer pH 6.8"));
+        QVERIFY(showsText("20 mmol/L total phosphate"));
+    }
+
+    void lineAHoldsTheNewBuffer() {
+        open_screen("Lines");
+        QObject* plan = model("plan");
+        pick(control("Buffer of line A"), "Night buffer pH 6.8");
+        QString ref;
+        QMetaObject::invokeMethod(plan, "lineBufferRef", Q_RETURN_ARG(QString, ref), Q_ARG(QString, "A"));
+        QCOMPARE(ref, QString("Night buffer pH 6.8"));
+        QVERIFY(showsText("Night buffer pH 6.8"));
+    }
+
+    void aNewGradientMethod() {
+        open_screen("Sequence");
+        QObject* plan = model("plan");
+        click(named("newMethod"));
+        type_into(named("nameInput"), "night gradient", false);
+        click(named("nameAccept"));
+        QVERIFY(plan->property("methodNames").toStringList().contains("night gradient"));
+        auto* method_box = qvariant_cast<QQuickItem*>(named("methodChoice")->property("box"));
+        QCOMPARE(method_box->property("displayText").toString(), QString("night gradient"));
+        // A new method starts from 100 % A to 100 % B at 10 min. With three lines in use, the last
+        // line takes the remainder until it is set.
+        type_into(control("A % of line A, gradient row 1"), num("95"));
+        QCOMPARE(control("C % of line C, gradient row 1")->property("text").toString(), num("5.0"));
+        type_into(control("B % of line B, gradient row 1"), num("5"));
+        QCOMPARE(control("C % of line C, gradient row 1")->property("text").toString(), num("0.0"));
+        type_into(control("A % of line A, gradient row 2"), num("5"));
+        type_into(control("B % of line B, gradient row 2"), num("95"));
+        QCOMPARE(control("C % of line C, gradient row 2")->property("text").toString(), num("0.0"));
+        // A mistake in a row marks that row only, and the night keeps its last valid plan.
+        type_into(control("B % of line B, gradient row 2"), num("90"));
+        QVERIFY(showsText("Row 2 adds up to"));
+        type_into(control("B % of line B, gradient row 2"), num("95"));
+        QVERIFY(!showsText("Row 2 adds up to"));
+        type_into(control("Run"), num("12.5"));
+        QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
+    }
+
+    void tonightsSequenceOf40Injections() {
+        QObject* plan = model("plan");
+        // The demo's rows go (each can be undone); one row is left and given the new method.
+        for (int guard = 0; guard < 20 && control("Remove sequence row 2"); ++guard)
+            click(control("Remove sequence row 2"));
+        QVERIFY(!control("Remove sequence row 2"));
+        pick(control("Method of sequence row 1"), "night gradient");
+        type_into(control("Injections, row 1"), "40");
+        QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
+        // Starts today at 18:00; 40 × (12.5 + re-equilibration) min ends tomorrow morning.
+        QCOMPARE(named("startText")->property("text").toString(), QString("today 18:00"));
+        QVERIFY2(named("endText")->property("text").toString().startsWith("tomorrow"),
+                 qPrintable(named("endText")->property("text").toString()));
+    }
+
+    void theChecksSpeakTheScreensWords() {
+        open_screen("Checks");
+        auto* checks = qobject_cast<QAbstractItemModel*>(model("checks"));
+        QVERIFY(checks);
+        const int message_role = checks->roleNames().key("message");
+        QVERIFY(message_role > 0);
+        QStringList seen;
+        static const QRegularExpression id_or_path(R"(\b[a-z]+-[a-z]+-[a-z]+\b|\[\d+\]|\bmethods\.|\blines\.[A-D]\b)");
+        for (int r = 0; r < checks->rowCount(); ++r) {
+            const QString m = checks->data(checks->index(r, 0), message_role).toString();
+            QVERIFY2(!id_or_path.match(m).hasMatch(), qPrintable(m));
+            QVERIFY2(!seen.contains(m), qPrintable("shown twice: " + m));
+            seen << m;
+        }
+    }
+};
+
+int main(int argc, char** argv) {
+    QApplication app(argc, argv);
+    QQuickStyle::setStyle(QStringLiteral("Fusion"));
+    TestJourney t;
+    return QTest::qExec(&t, argc, argv);
+}
+
+#include "tst_journey.moc"
