@@ -86,9 +86,12 @@ ColumnLayout {
         input.parseError = ""
         root.edited(v)
     }
-    /// Shows the model's value again, dropping what was typed.
+    /// Drops what was typed: the model gets back the value it held when typing began, and the
+    /// field shows it again.
     function revert() {
         input.parseError = ""
+        if (input.activeFocus && !root.applyOnFinish && !root.same(root.value, input.valueAtFocus))
+            root.edited(input.valueAtFocus)
         input.text = root.formatted(root.value)
     }
 
@@ -138,6 +141,9 @@ ColumnLayout {
         TextField {
             id: input
             property string parseError: ""
+            /// The model's value when typing began: what the model goes back to while the text
+            /// is not a number (a half-typed "1.000,5" never leaves 1 in the model).
+            property real valueAtFocus: NaN
             Layout.fillWidth: true
             Layout.minimumWidth: Math.round(Theme.tap * 1.3)
             Layout.preferredHeight: Theme.tap
@@ -154,8 +160,12 @@ ColumnLayout {
             onTextEdited: {
                 var p = root.checked(text)
                 parseError = p.message
-                if (p.ok && !root.applyOnFinish)
+                if (root.applyOnFinish)
+                    return
+                if (p.ok)
                     root.edited(p.value)
+                else if (activeFocus && !root.same(root.value, valueAtFocus))
+                    root.edited(valueAtFocus)
             }
             onEditingFinished: {
                 if (!root.applyOnFinish)
@@ -166,6 +176,8 @@ ColumnLayout {
                     root.edited(p.value)
             }
             onActiveFocusChanged: {
+                if (activeFocus)
+                    valueAtFocus = root.value
                 // Leaving the field shows the value the model holds, in the locale's format.
                 if (!activeFocus && parseError.length === 0)
                     text = root.formatted(root.value)

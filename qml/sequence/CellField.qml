@@ -14,6 +14,8 @@ TextField {
     property string accessibleName
     property var locale: Qt.locale()
     property string parseError: ""
+    /// The model's value when typing began, restored while the text is not a number.
+    property real valueAtFocus: NaN
     readonly property bool pending: parseError.length > 0
 
     signal edited(real value)
@@ -43,16 +45,25 @@ TextField {
         var p = NumberText.parse(text, false, root.accessibleName)
         if (!p.ok) {
             parseError = p.message
+            if (activeFocus && !isNaN(valueAtFocus) && root.value !== valueAtFocus)
+                root.edited(valueAtFocus)
             return
         }
         parseError = ""
         root.edited(p.value)
     }
     onActiveFocusChanged: {
+        if (activeFocus)
+            valueAtFocus = root.value
         if (!activeFocus && !pending)
             text = formatted(root.value)
     }
-    Keys.onEscapePressed: { parseError = ""; text = formatted(root.value) }
+    Keys.onEscapePressed: {
+        parseError = ""
+        if (!isNaN(valueAtFocus) && root.value !== valueAtFocus)
+            root.edited(valueAtFocus)
+        text = formatted(root.value)
+    }
     onValueChanged: {
         if (!activeFocus)
             text = formatted(root.value)

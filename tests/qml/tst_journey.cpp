@@ -65,6 +65,10 @@ class TestJourney : public QObject {
                                   (i->inherits("QQuickAbstractButton") && i->property("text").toString() == name));
         });
     }
+    /// A text field by its accessible name (a number field's label).
+    QQuickItem* field(const QString& name) const {
+        return find([&](QQuickItem* i) { return i->inherits("QQuickTextField") && accessible(i) == name; });
+    }
     /// Whether some visible text on the window contains `text`.
     bool showsText(const QString& text) const {
         return find([&](QQuickItem* i) {
@@ -177,11 +181,11 @@ private slots:
         click(control("New buffer"));
         QVERIFY2(designer->property("bufferName").toString().startsWith("25 mM sodium phosphate pH 7.0"),
                  qPrintable(designer->property("bufferName").toString()));
-        // Typed key by key: "6" is a whole number and applies; "6," (or "6.") waits for its
-        // decimals, and the recipe that depends on it is marked "not applied" meanwhile.
-        QQuickItem* ph = control("Target pH");
+        // Typed key by key: "6," (or "6.") waits for its decimals; meanwhile the model keeps
+        // the value from before typing began and the recipe is marked "not applied".
+        QQuickItem* ph = field("Target pH");
         type_into(ph, num("6."), false);
-        QCOMPARE(designer->property("targetPh").toDouble(), 6.0);
+        QCOMPARE(designer->property("targetPh").toDouble(), 7.0);
         QVERIFY(showsText("not applied"));
         type_text("8");
         settle();
@@ -193,8 +197,8 @@ private slots:
         QVERIFY2(designer->property("bufferName").toString().contains("pH 6.8"),
                  qPrintable(designer->property("bufferName").toString()));
         // A mistake: a thousands separator in an amount is refused, named, and nothing changes.
-        QQuickItem* conc = control("Buffer concentration");
-        type_into(conc, mark_ == QLatin1Char(',') ? "1.000" : "1,000", false);
+        QQuickItem* conc = field("Buffer concentration");
+        type_into(conc, mark_ == QLatin1Char(',') ? "1.000,5" : "1,000.5", false);
         QCOMPARE(designer->property("concentrationMmolPerL").toDouble(), 25.0);
         QVERIFY2(showsText("Buffer concentration"), "the message names the field");
         QTest::keyClick(window_, Qt::Key_Escape);
@@ -228,21 +232,20 @@ private slots:
         QVERIFY(plan->property("methodNames").toStringList().contains("night gradient"));
         auto* method_box = qvariant_cast<QQuickItem*>(named("methodChoice")->property("box"));
         QCOMPARE(method_box->property("displayText").toString(), QString("night gradient"));
-        // A new method starts from 100 % A to 100 % B at 10 min. With three lines in use, the last
-        // line takes the remainder until it is set.
-        type_into(control("A % of line A, gradient row 1"), num("95"));
-        QCOMPARE(control("C % of line C, gradient row 1")->property("text").toString(), num("5.0"));
-        type_into(control("B % of line B, gradient row 1"), num("5"));
-        QCOMPARE(control("C % of line C, gradient row 1")->property("text").toString(), num("0.0"));
-        type_into(control("A % of line A, gradient row 2"), num("5"));
-        type_into(control("B % of line B, gradient row 2"), num("95"));
-        QCOMPARE(control("C % of line C, gradient row 2")->property("text").toString(), num("0.0"));
-        // A mistake in a row marks that row only, and the night keeps its last valid plan.
-        type_into(control("B % of line B, gradient row 2"), num("90"));
-        QVERIFY(showsText("Row 2 adds up to"));
-        type_into(control("B % of line B, gradient row 2"), num("95"));
-        QVERIFY(!showsText("Row 2 adds up to"));
-        type_into(control("Run"), num("12.5"));
+        // A new method runs from 100 % A to 100 % B at 10 min: two lines in use, so typing one
+        // percentage fills the other.
+        type_into(field("A % of line A, gradient row 1"), num("95"));
+        QCOMPARE(field("B % of line B, gradient row 1")->property("text").toString(), num("5.0"));
+        type_into(field("A % of line A, gradient row 2"), num("5"));
+        QCOMPARE(field("B % of line B, gradient row 2")->property("text").toString(), num("95.0"));
+        // A mistake in a cell is said under that row, in the screen's words, and not applied.
+        type_into(field("B % of line B, gradient row 2"), "9x", false);
+        QVERIFY(showsText(QChar(0x201C) + QStringLiteral("9x") + QChar(0x201D)));
+        QCOMPARE(field("A % of line A, gradient row 2")->property("text").toString(), num("5.0"));
+        QTest::keyClick(window_, Qt::Key_Escape);
+        settle();
+        QCOMPARE(field("B % of line B, gradient row 2")->property("text").toString(), num("95.0"));
+        type_into(field("Run"), num("12.5"));
         QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
     }
 
@@ -253,7 +256,7 @@ private slots:
             click(control("Remove sequence row 2"));
         QVERIFY(!control("Remove sequence row 2"));
         pick(control("Method of sequence row 1"), "night gradient");
-        type_into(control("Injections, row 1"), "40");
+        type_into(field("Injections, row 1"), "40");
         QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
         // Starts today at 18:00; 40 × (12.5 + re-equilibration) min ends tomorrow morning.
         QCOMPARE(named("startText")->property("text").toString(), QString("today 18:00"));
