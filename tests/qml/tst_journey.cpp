@@ -1,6 +1,7 @@
 // Tonight's work from an empty start, through the real main window with mouse and key events, as
 // a new user at the bench would do it: a new buffer, a line holding it, a new gradient method,
-// tonight's sequence of 40 injections, and the checks. Run twice by CTest: under C.UTF-8 and
+// tonight's sequence of 40 injections, the checks, a batch with one weighing out of its band and
+// its deviation note, and the sheet and labels saved as PDF (read back with pdftotext). Run twice by CTest: under C.UTF-8 and
 // under de_DE.UTF-8 (decimal comma), typing numbers with the locale's own decimal mark.
 //
 // What the screen must show is asserted at each step from the items the user sees (field texts,
@@ -10,12 +11,15 @@
 
 #include <QAccessible>
 #include <QApplication>
+#include <QFileInfo>
+#include <QProcess>
 #include <QLocale>
 #include <QQmlApplicationEngine>
 #include <QQuickItem>
 #include <QQuickStyle>
 #include <QQuickWindow>
 #include <QRegularExpression>
+#include <QStandardPaths>
 #include <QTemporaryDir>
 #include <QTest>
 #include <QtQml/qqmlextensionplugin.h>
@@ -151,6 +155,16 @@ class TestJourney : public QObject {
         click(delegate);
         settle(4);
     }
+    /// The file dialog, as the user types a file name into it and presses Save (Qt's dialog takes
+    /// a file set before it opens).
+    void choose_file(QObject* dialog, const QString& path) {
+        QMetaObject::invokeMethod(dialog, "close");
+        dialog->setProperty("selectedFile", QUrl::fromLocalFile(path));
+        QMetaObject::invokeMethod(dialog, "open");
+        settle();
+        QMetaObject::invokeMethod(dialog, "accept");
+        settle(4);
+    }
     QObject* model(const char* name) const { return window_->findChild<QObject*>(QString::fromLatin1(name)); }
 
 private slots:
@@ -279,10 +293,96 @@ private slots:
             seen << m;
         }
     }
+
+    void aBatchWithOneWeighingOutOfItsBand() {
+        open_screen("Prepare");
+        QObject* batch = model("batch");
+        type_into(field("Prepared by"), "A. Analyst");
+        click(named("markPreparedButton"));
+        QVERIFY(batch->property("active").toBool());
+        // The amounts as the balance read them: the first on target, the second 10 % over.
+        QList<QQuickItem*> rows;
+        find([&](QQuickItem* i) {
+            if (i->objectName() == "actualField") rows << i;
+            return false;
+        });
+        QVERIFY2(rows.size() >= 2, "two amounts to weigh");
+        auto input = [&](QQuickItem* entry) {
+            QQuickItem* f = nullptr;
+            std::function<void(QQuickItem*)> walk = [&](QQuickItem* i) {
+                if (!f && i->inherits("QQuickTextField")) f = i;
+                for (QQuickItem* c : i->childItems()) walk(c);
+            };
+            walk(entry);
+            return f;
+        };
+        auto amount_text = [&](double v) { return QLocale().toString(v, 'f', 3).remove(QLocale().groupSeparator()); };
+        auto target_of = [](QQuickItem* entry) {
+            for (QQuickItem* p = entry->parentItem(); p; p = p->parentItem())
+                if (p->property("withinTolerance").isValid()) return p->property("target").toDouble();
+            return 0.0;
+        };
+        const double t0 = target_of(rows[0]);
+        const double t1 = target_of(rows[1]);
+        QVERIFY2(t0 > 0 && t1 > 0, "the rows know their targets");
+        type_into(input(rows[0]), amount_text(t0));
+        QVERIFY(!batch->property("outOfTolerance").toBool());
+        type_into(input(rows[1]), amount_text(t1 * 1.10));
+        QVERIFY(batch->property("outOfTolerance").toBool());
+        QVERIFY(named("toleranceCard"));
+        QVERIFY(showsText("Suggested correction") || showsText("Correction: remake"));
+        type_into(find([&](QQuickItem* i) {
+                      return i->inherits("QQuickTextField") && accessible(i).startsWith("Measured pH");
+                  }),
+                  num("6.81"));
+        // Saving the sheet asks for the deviation note first, then where to save.
+        click(named("saveSheetButton"));
+        QQuickItem* popup_entry = named("popupDeviationEntry");
+        QVERIFY2(popup_entry, "the deviation note is asked for");
+        QQuickItem* note = nullptr;
+        std::function<void(QQuickItem*)> walk = [&](QQuickItem* i) {
+            if (!note && i->inherits("QQuickTextField")) note = i;
+            for (QQuickItem* c : i->childItems()) walk(c);
+        };
+        walk(popup_entry);
+        // An empty note is refused, beside the field.
+        QQuickItem* record = find([&](QQuickItem* i) {
+            return i->objectName() == "recordDeviationButton" && i->mapToScene(QPointF()).y() > popup_entry->mapToScene(QPointF()).y() - 1;
+        });
+        click(record);
+        QVERIFY(batch->property("deviationNote").toString().isEmpty());
+        type_into(note, "Second salt 10 % over: topped up as suggested", false);
+        click(record);
+        QCOMPARE(batch->property("deviationNote").toString(), QString("Second salt 10 % over: topped up as suggested"));
+        // The file dialog is open; the user names the file.
+        QObject* dialog = qvariant_cast<QObject*>(named("printCard")->property("saveDialog"));
+        QVERIFY(dialog && dialog->property("visible").toBool());
+        const QString pdf = dir_.filePath("night-buffer-sheet.pdf");
+        choose_file(dialog, pdf);
+        settle(4);
+        QVERIFY2(QFileInfo(pdf).size() > 1000, qPrintable(named("printError") ? named("printError")->property("text").toString() : QString()));
+        // Labels: the note is recorded, so the dialog comes straight away.
+        click(named("saveLabelsButton"));
+        QVERIFY(dialog->property("visible").toBool());
+        const QString labels = dir_.filePath("night-buffer-labels.pdf");
+        choose_file(dialog, labels);
+        settle(4);
+        QVERIFY(QFileInfo(labels).size() > 1000);
+        // What was printed carries the mark and the note (pdftotext, poppler-utils).
+        for (const QString& file : {pdf, labels}) {
+            QProcess p;
+            p.start("pdftotext", {"-layout", file, "-"});
+            QVERIFY(p.waitForFinished(20000));
+            const QString text = QString::fromUtf8(p.readAllStandardOutput());
+            QVERIFY2(text.contains("OUT OF TOLERANCE"), qPrintable(file));
+            if (file == pdf) QVERIFY2(text.contains("topped up as suggested"), qPrintable(text.left(2000)));
+        }
+    }
 };
 
 int main(int argc, char** argv) {
     QApplication app(argc, argv);
+    QStandardPaths::setTestModeEnabled(true); // settings (the PDF folder) stay out of the user's
     QQuickStyle::setStyle(QStringLiteral("Fusion"));
     TestJourney t;
     return QTest::qExec(&t, argc, argv);
