@@ -704,12 +704,12 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         const bool weighed = it.as == "solid";
         if (weighed && *it.mass_g < balance_min_mass_g)
             w.push_back({"small-amount", Warning::Severity::caution,
-                         it.reagent + ": " + format_fixed(*it.mass_g * 1000, 2) +
+                         lib.reagent(it.reagent).name + ": " + format_fixed(*it.mass_g * 1000, 2) +
                              " mg is below what a lab balance weighs well (10 mg); make a larger "
                              "volume or use a stock solution."});
         if (!weighed && it.volume_ml && *it.volume_ml < pipette_min_volume_ml)
             w.push_back({"small-amount", Warning::Severity::caution,
-                         it.reagent + ": " + format_fixed(*it.volume_ml * 1000, 1) +
+                         lib.reagent(it.reagent).name + ": " + format_fixed(*it.volume_ml * 1000, 1) +
                              " µL is below what a pipette delivers well (10 µL); make a larger "
                              "volume or dilute the reagent first."});
         if (it.as.rfind("titrant", 0) == 0 && *it.volume_ml > 0.5 * req.volume_ml)

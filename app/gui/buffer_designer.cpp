@@ -3,6 +3,7 @@
 #include "chem/recipe_roles.h"
 #include "core/chem_json.h"
 #include "core/commands.h"
+#include "field_words.h"
 #include "plan.h"
 #include "workspace.h"
 
@@ -268,6 +269,13 @@ QString BufferDesigner::free_name(const QString& wanted) const {
     for (int i = 2; workspace_->database()->load(storage::DocumentKind::buffer, name); ++i)
         name = QStringLiteral("%1 (%2)").arg(base).arg(i);
     return name;
+}
+
+QString BufferDesigner::errorPlace() const {
+    if (error_.field.isEmpty()) return {};
+    QString w = field_words(error_.field);
+    if (!w.isEmpty()) w[0] = w[0].toUpper();
+    return w;
 }
 
 QString BufferDesigner::defaultName() const {

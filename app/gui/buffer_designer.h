@@ -110,6 +110,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// The JSON path of the field at fault ("target_ph"), empty when the recipe is valid.
     Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
+    /// The field at fault in the screen's words ("Target pH"), "" when the recipe is valid.
+    Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY resultChanged)
     /// Recompute time of the last edit (recipe + curves), in ms.
     Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY resultChanged)
 
@@ -215,6 +217,7 @@ public:
     QVariantList warnings() const { return warnings_; }
     QString errorField() const { return error_.field; }
     QString errorMessage() const { return error_.message; }
+    QString errorPlace() const;
     double lastRecomputeMs() const { return last_recompute_ms_; }
 
     QString curveXLabel() const { return curve_x_label_; }

@@ -41,6 +41,10 @@ Card {
         rowSpacing: Theme.gap
 
         ChartView {
+
+            // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
+
+            localizeNumbers: true
             id: phChart
             objectName: "phChart"
             Layout.fillWidth: true
@@ -99,6 +103,8 @@ Card {
             }
         }
         ChartView {
+            // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
+            localizeNumbers: true
             id: betaChart
             objectName: "betaChart"
             Layout.fillWidth: true

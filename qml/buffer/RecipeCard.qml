@@ -18,8 +18,8 @@ Card {
         objectName: "recipeError"
         Layout.fillWidth: true
         visible: !root.designer.valid
-        text: root.designer.errorField.length > 0
-              ? qsTr("%1: %2").arg(root.designer.errorField).arg(root.designer.errorMessage)
+        text: root.designer.errorPlace.length > 0
+              ? qsTr("%1: %2").arg(root.designer.errorPlace).arg(root.designer.errorMessage)
               : root.designer.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap

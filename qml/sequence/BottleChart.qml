@@ -43,6 +43,10 @@ Card {
     Component.onCompleted: refill()
 
     ChartView {
+
+        // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
+
+        localizeNumbers: true
         objectName: "bottleChart"
         Layout.fillWidth: true
         Layout.preferredHeight: Theme.tap * 7

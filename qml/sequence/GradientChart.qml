@@ -5,6 +5,8 @@ import PhasePlan
 
 // The gradient table as the pump runs it: % of each line against time over one injection.
 ChartView {
+    // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
+    localizeNumbers: true
     id: root
 
     required property GradientModel gradient
