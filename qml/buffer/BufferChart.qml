@@ -43,7 +43,6 @@ Card {
         ChartView {
 
             // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
-
             localizeNumbers: true
             id: phChart
             objectName: "phChart"

@@ -43,10 +43,8 @@ Card {
     Component.onCompleted: refill()
 
     ChartView {
-
-        // Axis numbers with the locale's decimal mark ("0,25" under de_DE).
-
-        localizeNumbers: true
+        // Whole mL ("%.0f") left unlocalized: a localized axis groups thousands ("4.000" mL under
+        // de_DE reads as 4 mL).
         objectName: "bottleChart"
         Layout.fillWidth: true
         Layout.preferredHeight: Theme.tap * 7
