@@ -94,6 +94,21 @@ ApplicationWindow {
         designer.flushAutosave()
     }
 
+    /// Height of the on-screen keyboard while it is up (dialogs move above it), else 0.
+    readonly property real keyboardHeight: keyboard.item && keyboard.item.active ? keyboard.item.height : 0
+
+    // The on-screen keyboard, above everything, sliding up while a field is being typed in.
+    Loader {
+        id: keyboard
+        objectName: "keyboardLoader"
+        active: TabletSettings.keyboardActive
+        source: "common/KeyboardPanel.qml"
+        parent: Overlay.overlay
+        z: 1000
+        width: parent ? parent.width : 0
+        y: parent ? (item && item.active ? parent.height - item.height : parent.height) : 0
+    }
+
     header: ToolBar {
         implicitHeight: Math.max(Theme.tap, headerRow.implicitHeight) + Theme.gap
         RowLayout {
@@ -129,6 +144,9 @@ ApplicationWindow {
 
     GridLayout {
         anchors.fill: parent
+        // The on-screen keyboard takes the bottom of the window: the screens shrink above it, and
+        // the field being typed in scrolls back into view (ScreenPage).
+        anchors.bottomMargin: keyboard.item && keyboard.item.active ? keyboard.item.height : 0
         columns: window.inPortrait ? 1 : 2
         rowSpacing: 0
         columnSpacing: 0

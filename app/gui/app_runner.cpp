@@ -240,7 +240,10 @@ int run_app(QApplication& app) {
                                    QStringLiteral("Print start-up and recompute+redraw times, then exit."));
     QCommandLineOption dark_opt(QStringLiteral("dark"),
                                 QStringLiteral("Use a dark palette, as a dark system theme gives (for checking)."));
-    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt});
+    QCommandLineOption keyboard_opt(QStringLiteral("keyboard"),
+                                    QStringLiteral("On-screen keyboard on or off (kept for the next starts)."),
+                                    QStringLiteral("on|off"));
+    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt, keyboard_opt});
     parser.process(app);
     if (parser.isSet(dark_opt)) QApplication::setPalette(dark_palette());
 

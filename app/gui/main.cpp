@@ -8,6 +8,7 @@
 //   phaseplan --dark                             a dark palette, as a dark system theme gives
 // --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
 #include "app_runner.h"
+#include "tablet_settings.h"
 
 #include <QApplication>
 #include <QtQml/qqmlextensionplugin.h>
@@ -17,6 +18,8 @@ Q_IMPORT_QML_PLUGIN(PhasePlanPlugin)
 
 int main(int argc, char** argv) {
     phaseplan::gui::start_clock();
+    // The on-screen keyboard is an input method: chosen before Qt starts (--keyboard on|off).
+    phaseplan::gui::apply_keyboard_choice(argc, argv);
     // Qt Charts in QML needs a QApplication (Qt Widgets), not a QGuiApplication.
     QApplication app(argc, argv);
     return phaseplan::gui::run_app(app);

@@ -13,7 +13,12 @@ Popup {
     signal confirmed()
 
     parent: Overlay.overlay
-    anchors.centerIn: parent
+    // Centred, or above the on-screen keyboard while it is up.
+    x: parent ? Math.round((parent.width - width) / 2) : 0
+    y: parent ? Math.round(ApplicationWindow.window && ApplicationWindow.window.keyboardHeight > 0
+                           ? Math.max(Theme.margin, Math.min((parent.height - height) / 2,
+                                                             parent.height - ApplicationWindow.window.keyboardHeight - height - Theme.margin))
+                           : (parent.height - height) / 2) : 0
     modal: true
     focus: true
     padding: Theme.margin

@@ -68,6 +68,13 @@ Item {
         }
     }
 
+    // Shrunk (the on-screen keyboard came up): keep the field being typed in on screen.
+    onHeightChanged: {
+        var f = root.Window.window ? root.Window.window.activeFocusItem : null
+        if (f && root.visible && root.isInside(f))
+            Qt.callLater(root.ensureVisible, f)
+    }
+
     Flickable {
         id: flick
         anchors.fill: parent

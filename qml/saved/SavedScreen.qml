@@ -189,5 +189,34 @@ ScreenPage {
                 }
             }
         }
+
+        // Settings of this tablet, not of the lab's database.
+        Card {
+            objectName: "tabletCard"
+            Layout.fillWidth: true
+            Layout.alignment: Qt.AlignTop
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.4
+            title: qsTr("This tablet")
+            Switch {
+                objectName: "keyboardSwitch"
+                Layout.fillWidth: true
+                implicitHeight: Theme.tap
+                text: qsTr("On-screen keyboard")
+                font.pixelSize: Theme.fontSize
+                checked: TabletSettings.keyboardEnabled
+                Accessible.name: text
+                onToggled: TabletSettings.keyboardEnabled = checked
+            }
+            Label {
+                Layout.fillWidth: true
+                wrapMode: Text.Wrap
+                color: Theme.dimText
+                font.pixelSize: Theme.smallFont
+                text: TabletSettings.keyboardEnabled === TabletSettings.keyboardActive
+                      ? (TabletSettings.keyboardActive ? qsTr("The keyboard slides up when a field is typed in.")
+                                                       : qsTr("For tablets without a keyboard."))
+                      : qsTr("Takes effect when PhasePlan is started again.")
+            }
+        }
     }
 }

@@ -189,6 +189,29 @@ private slots:
         settle(5);
     }
 
+    // Run by CTest a third time with the on-screen keyboard as the input method.
+    void theOnScreenKeyboardKeepsTheFieldInView() {
+        if (qgetenv("QT_IM_MODULE") != "qtvirtualkeyboard") QSKIP("the on-screen keyboard is not this run's input method");
+        open_screen("Buffer");
+        QQuickItem* loader = find([](QQuickItem* i) { return i->objectName() == "keyboardLoader"; }, false);
+        QVERIFY(loader);
+        auto* panel = qvariant_cast<QQuickItem*>(loader->property("item"));
+        QVERIFY2(panel, "the keyboard is loaded");
+        QQuickItem* ph = field("Target pH");
+        click(ph);
+        settle(10);
+        QVERIFY(panel->property("active").toBool());
+        // The field stays above the keyboard, where the user can see what is typed.
+        const double field_bottom = ph->mapToScene(QPointF(0, ph->height())).y();
+        const double keyboard_top = panel->mapToScene(QPointF(0, 0)).y();
+        QVERIFY2(field_bottom <= keyboard_top + 0.5,
+                 qPrintable(QString("field ends at %1, keyboard starts at %2").arg(field_bottom).arg(keyboard_top)));
+        QTest::keyClick(window_, Qt::Key_Escape);
+        ph->setFocus(false);
+        window_->contentItem()->forceActiveFocus();
+        settle(10);
+    }
+
     void aNewBufferWithTheLocalesDecimalMark() {
         open_screen("Buffer");
         QObject* designer = model("designer");
