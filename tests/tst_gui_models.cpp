@@ -244,6 +244,32 @@ private slots:
         QCOMPARE(d.titrantForm(), QString("solution"));
     }
 
+    // "What the column sees": the card reads the eluent pH and the pressure of one method from
+    // the plan's own result, the same numbers the command-line tool prints for the document.
+    void column_conditions_come_from_the_plan() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        plan.recomputeNow();
+        QVERIFY2(plan.valid(), qPrintable(plan.errorMessage()));
+        const QVariantMap c = plan.methodConditions("assay");
+        QVERIFY(c.value("hasEluent").toBool());
+        QVERIFY(c.value("phMin").toDouble() < c.value("phMax").toDouble());
+        QVERIFY(c.value("hasPressure").toBool());
+        QCOMPARE(c.value("limitBar").toDouble(), 400.0); // the demo column's stated limit
+        QLineSeries ph, bar;
+        plan.fillConditionSeries(&ph, "assay", "ph");
+        plan.fillConditionSeries(&bar, "assay", "pressure");
+        QVERIFY(ph.count() > 10 && bar.count() > 10);
+        double lo = 14, top = 0;
+        for (const QPointF& p : ph.points()) lo = std::min(lo, p.y());
+        for (const QPointF& p : bar.points()) top = std::max(top, p.y());
+        QVERIFY(std::abs(lo - c.value("phMin").toDouble()) < 1e-9);
+        QVERIFY(std::abs(top - c.value("maxBar").toDouble()) < 1e-6 * top);
+        QVERIFY(!plan.methodConditions("no such method").value("hasEluent").toBool());
+    }
+
     void curves_agree_with_the_recipe() {
         auto ws = open_workspace(fresh_db());
         BufferDesigner d;

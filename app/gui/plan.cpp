@@ -846,4 +846,57 @@ void Plan::fillDrySeries(QObject* series, const QString& letter) const {
 
 void Plan::fillWasteSeries(QObject* series) const { replace_series(series, waste_); }
 
+QVariantMap Plan::methodConditions(const QString& method) const {
+    QVariantMap out{{"hasEluent", false}, {"hasPressure", false}};
+    const QJsonArray eluent = result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray();
+    double lo = 14, hi = 0, span = 0;
+    bool extrapolated = false;
+    for (const QJsonValue& v : eluent) {
+        const QJsonObject p = v.toObject();
+        lo = std::min(lo, p.value("ph_s_s").toDouble());
+        hi = std::max(hi, p.value("ph_s_s").toDouble());
+        span = std::max(span, p.value("t_min").toDouble());
+        extrapolated |= p.value("extrapolated").toBool();
+    }
+    if (!eluent.isEmpty()) {
+        out.insert("hasEluent", true);
+        out.insert("phMin", lo);
+        out.insert("phMax", hi);
+        out.insert("extrapolated", extrapolated);
+    }
+    const QJsonObject pressure = result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
+    const QJsonArray trace = pressure.value("trace").toArray();
+    if (!trace.isEmpty()) {
+        for (const QJsonValue& v : trace) span = std::max(span, v.toObject().value("t_min").toDouble());
+        out.insert("hasPressure", true);
+        out.insert("maxBar", pressure.value("max_pressure_bar").toDouble());
+        out.insert("maxAtMin", pressure.value("max_at_t_min").toDouble());
+        out.insert("limitBar", pressure.value("limit_bar").toDouble());
+        out.insert("limitedBy", pressure.value("limited_by").toString());
+        out.insert("calibrated", pressure.value("calibrated").toBool());
+    }
+    out.insert("spanMin", span);
+    return out;
+}
+
+void Plan::fillConditionSeries(QObject* series, const QString& method, const QString& which) const {
+    QList<QPointF> pts;
+    if (which == QLatin1String("ph")) {
+        for (const QJsonValue& v : result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray())
+            pts.append(QPointF(v.toObject().value("t_min").toDouble(), v.toObject().value("ph_s_s").toDouble()));
+    } else {
+        const QJsonObject pressure =
+            result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
+        const QJsonArray trace = pressure.value("trace").toArray();
+        if (which == QLatin1String("pressure")) {
+            for (const QJsonValue& v : trace)
+                pts.append(QPointF(v.toObject().value("t_min").toDouble(), v.toObject().value("pressure_bar").toDouble()));
+        } else if (which == QLatin1String("limit") && pressure.value("limit_bar").toDouble() > 0 && !trace.isEmpty()) {
+            const double bar = pressure.value("limit_bar").toDouble();
+            pts = {QPointF(0, bar), QPointF(trace.last().toObject().value("t_min").toDouble(), bar)};
+        }
+    }
+    replace_series(series, pts);
+}
+
 } // namespace phaseplan::gui

@@ -225,6 +225,13 @@ public:
     Q_INVOKABLE void fillDrySeries(QObject* series, const QString& letter) const;
     /// The waste container's fill (mL) against hours.
     Q_INVOKABLE void fillWasteSeries(QObject* series) const;
+    /// What the column sees during one injection of `method`, from the last valid plan:
+    /// {hasEluent, phMin, phMax (s_s pH of the eluent), extrapolated, hasPressure, maxBar,
+    /// maxAtMin, limitBar (0: none), limitedBy, calibrated, spanMin (time axis, min)}.
+    Q_INVOKABLE QVariantMap methodConditions(const QString& method) const;
+    /// Fills a LineSeries over one injection of `method`: "ph" (eluent s_s pH against min),
+    /// "pressure" (bar against min) or "limit" (the pressure limit as a line).
+    Q_INVOKABLE void fillConditionSeries(QObject* series, const QString& method, const QString& which) const;
     /// The hour of the sequence end (for a marker).
     Q_INVOKABLE double endHours() const { return totalMin() / 60.0; }
     /// A field path in the screens' words ("lines.A.bottle_ml" → "Line A, bottle volume").

@@ -54,6 +54,11 @@ Item {
                 Layout.fillWidth: true
                 plan: root.plan
             }
+            ColumnConditions {
+                Layout.fillWidth: true
+                plan: root.plan
+                method: gradientEditor.gradient.methodName
+            }
             SequenceRows {
                 id: sequenceRows
                 Layout.fillWidth: true
