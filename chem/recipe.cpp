@@ -1,4 +1,5 @@
 #include "chem/recipe.h"
+#include "chem/guard.h"
 
 #include "chem/equilibrium_detail.h"
 #include "chem/error.h"
@@ -38,9 +39,9 @@ RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l
     it.mol_per_l = mol_per_l;
     const double mol = mol_per_l * req.volume_ml / 1000.0;
     const double material_g = mol * r.molar_mass_g_per_mol / purity_of(req, r);
-    it.mass_g = material_g;
+    it.mass_g = guard::amount(material_g, "items." + r.id + ".mass_g", "mass");
     if (r.form == PhysicalForm::liquid) {
-        it.volume_ml = material_g / r.density_g_per_ml;
+        it.volume_ml = guard::amount(material_g / r.density_g_per_ml, "items." + r.id + ".volume_ml", "volume");
         it.as = "liquid";
         it.kind = ItemKind::liquid;
     } else {
@@ -57,7 +58,7 @@ RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_
     it.reagent = r.id;
     it.kind = kind;
     it.mol_per_l = mol_per_l;
-    it.volume_ml = mol_per_l * req.volume_ml / stock_mol_per_l;
+    it.volume_ml = guard::amount(mol_per_l * req.volume_ml / stock_mol_per_l, "items." + r.id + ".volume_ml", "volume");
     it.as = std::string(kind == ItemKind::stock ? "stock" : "titrant") + " " +
             format_number(stock_mol_per_l) + " mol/L";
     return it;
