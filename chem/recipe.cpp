@@ -197,7 +197,11 @@ std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent
 
 MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent& acid,
                      const Reagent& base) {
-    const auto [sa, sb] = conjugate_shares(acid, base);
+    // Plain variables, not a structured binding: clang 14 (the fuzz and sanitizer builds) cannot
+    // capture a binding in a lambda.
+    const auto shares = conjugate_shares(acid, base);
+    const auto sa = shares.first;
+    const auto sb = shares.second;
     MixDesign d;
     d.system = &lib.system(sa->system);
     Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c, req.activity_model), std::nullopt};

@@ -8,6 +8,7 @@
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
+#include "core/runtime_dir.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -114,31 +115,6 @@ QByteArray read_capped(QFile& in, const std::string& shown) {
 /// input is escaped instead of ending the line.
 std::string error_line(const chem::Error& e) { return e.field() + ": " + e.message(); }
 
-#ifdef PHASEPLAN_WITH_PRINT
-/// A private runtime folder for Qt's offscreen platform when XDG_RUNTIME_DIR is unset: a fresh
-/// mkdtemp folder (never a predictable name that someone could plant a link at), checked with
-/// lstat to be a real folder of ours with mode 0700, removed at exit.
-class RuntimeDir {
-public:
-    RuntimeDir() {
-        if (!qEnvironmentVariableIsEmpty("XDG_RUNTIME_DIR")) return;
-        QByteArray templ = QFile::encodeName(QDir::tempPath()) + "/phaseplan-runtime-XXXXXX";
-        if (!::mkdtemp(templ.data())) return; // Qt then warns, which stays off stderr
-        struct stat st {};
-        if (::lstat(templ.constData(), &st) != 0 || !S_ISDIR(st.st_mode) || st.st_uid != ::getuid() ||
-            (st.st_mode & 0777) != 0700)
-            return;
-        path_ = templ;
-        qputenv("XDG_RUNTIME_DIR", path_);
-    }
-    ~RuntimeDir() {
-        if (!path_.isEmpty()) QDir(QFile::decodeName(path_)).removeRecursively();
-    }
-
-private:
-    QByteArray path_;
-};
-#endif
 
 } // namespace
 
@@ -179,11 +155,11 @@ int main(int argc, char** argv) {
     // PDF commands need fonts; run them on the offscreen platform unless one is set.
     std::unique_ptr<QCoreApplication> app;
 #ifdef PHASEPLAN_WITH_PRINT
-    std::unique_ptr<RuntimeDir> runtime_dir;
+    std::unique_ptr<phaseplan::PrivateRuntimeDir> runtime_dir;
     if (it->second.needs_gui) {
         if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
         // A private runtime folder keeps Qt from warning on stderr (one line only on error).
-        runtime_dir = std::make_unique<RuntimeDir>();
+        runtime_dir = std::make_unique<phaseplan::PrivateRuntimeDir>();
         app = std::make_unique<QGuiApplication>(argc, argv);
     }
 #endif

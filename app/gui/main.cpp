@@ -8,6 +8,7 @@
 //   phaseplan --dark                             a dark palette, as a dark system theme gives
 // --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
 #include "app_runner.h"
+#include "core/runtime_dir.h"
 
 #include <QApplication>
 #include <QtQml/qqmlextensionplugin.h>
@@ -17,6 +18,8 @@ Q_IMPORT_QML_PLUGIN(PhasePlanPlugin)
 
 int main(int argc, char** argv) {
     phaseplan::gui::start_clock();
+    // Without XDG_RUNTIME_DIR Qt warns on stderr at start; a private folder keeps stderr quiet.
+    const phaseplan::PrivateRuntimeDir runtime_dir;
     // Qt Charts in QML needs a QApplication (Qt Widgets), not a QGuiApplication.
     QApplication app(argc, argv);
     return phaseplan::gui::run_app(app);
