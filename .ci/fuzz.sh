@@ -54,9 +54,11 @@ for t in $targets; do
   corpus="$B/fuzz-corpus/$t"
   mkdir -p "$corpus"
   seed="$seeds/json"
-  [ "$t" = fuzz_database ] && seed="$seeds/db"
+  max_len=65536
+  # A database file is a few pages of 4 KiB: the seed (about 120 KB) must fit whole.
+  [ "$t" = fuzz_database ] && { seed="$seeds/db"; max_len=262144; }
   t0=$(date +%s)
-  "$B/$t" -runs="$RUNS" -max_len=65536 -timeout=20 -rss_limit_mb=3072 -print_final_stats=1 \
+  "$B/$t" -runs="$RUNS" -max_len=$max_len -timeout=20 -rss_limit_mb=3072 -print_final_stats=1 \
     -artifact_prefix="$B/fuzz-findings/$t-" "$corpus" "$seed" >"$B/fuzz-$t.log" 2>&1 || {
       tail -40 "$B/fuzz-$t.log"; echo "fuzz.sh: $t found a problem (see $B/fuzz-findings/)"; exit 1; }
   echo "fuzz.sh: $t $(grep -o 'stat::number_of_executed_units: *[0-9]*' "$B/fuzz-$t.log" | grep -o '[0-9]*$') executions, $(( $(date +%s) - t0 )) s"

@@ -368,9 +368,11 @@ void Database::migrate(int target_version, const Seed& seed) {
         exec(QStringLiteral("PRAGMA user_version = %1").arg(step.version));
         version = step.version;
     }
-    exec(QStringLiteral("PRAGMA application_id = %1").arg(phaseplan_application_id));
+    QSqlQuery id = exec(QStringLiteral("PRAGMA application_id"));
+    if (!id.next() || id.value(0).toLongLong() != phaseplan_application_id)
+        exec(QStringLiteral("PRAGMA application_id = %1").arg(phaseplan_application_id));
     if (seed) seed(*this);
-    t.commit();
+    t.commit(); // nothing written when the file was up to date: no sync at an ordinary start
 }
 
 std::optional<QString> Database::bounded(const QString& source, const QString& name, const QString& text) const {

@@ -10,6 +10,8 @@
 #include <QDir>
 #include <QFile>
 #include <QJsonDocument>
+#include <QSqlDatabase>
+#include <QSqlQuery>
 #include <QTemporaryDir>
 
 #include <cstdio>
@@ -17,7 +19,10 @@
 namespace {
 
 QString scratch() {
-    static QTemporaryDir dir;
+    // In memory (/dev/shm) when there is one: every open syncs, and a disk makes that slow.
+    static QTemporaryDir dir(QDir(QStringLiteral("/dev/shm")).exists()
+                                 ? QStringLiteral("/dev/shm/phaseplan-fuzz-XXXXXX")
+                                 : QDir::tempPath() + QStringLiteral("/phaseplan-fuzz-XXXXXX"));
     return dir.filePath(QStringLiteral("fuzz.sqlite"));
 }
 
@@ -43,6 +48,18 @@ extern "C" int LLVMFuzzerInitialize(int*, char***) {
         });
         db.exec(QStringLiteral("PRAGMA wal_checkpoint(TRUNCATE)"));
     }
+    {
+        // Small pages keep the seed small (about 20 KB instead of 120 KB): faster mutations.
+        QSqlDatabase raw = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), QStringLiteral("seed"));
+        raw.setDatabaseName(path);
+        raw.open();
+        QSqlQuery q(raw);
+        q.exec(QStringLiteral("PRAGMA journal_mode=DELETE"));
+        q.exec(QStringLiteral("PRAGMA page_size=512"));
+        q.exec(QStringLiteral("VACUUM"));
+        raw.close();
+    }
+    QSqlDatabase::removeDatabase(QStringLiteral("seed"));
     std::printf("wrote %s\n", qPrintable(path));
     std::exit(0);
 }
