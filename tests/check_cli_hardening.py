@@ -87,6 +87,16 @@ doc["batch"]["prepared_by"] = "p" * 10_000_000
 refused("ten_megabyte_prepared_by_is_refused_by_length",
         run(["labels", "-", "-o", os.path.join(WORK, "big.pdf")], doc), "batch.prepared_by", ["1000 characters"])
 
+for field in ("name", "purpose"):
+    doc = json.loads(json.dumps(batch_doc))
+    if field == "purpose":
+        doc["batch"]["purpose"] = "p" * 5000
+        field = "batch.purpose"
+    else:
+        doc["name"] = "n" * 5000
+    refused("printed_%s_over_1000_characters_is_refused" % field.replace(".", "_"),
+            run(["sheet", "-", "-o", os.path.join(WORK, "long.pdf")], doc), field, ["1000 characters"])
+
 # --- non-finite numbers never reach paper ---------------------------------------------------
 doc = dict(buffer)
 doc["purity_percent"] = {buffer["acid"]: 1e-310}

@@ -966,6 +966,12 @@ double default_shelf_life_h(const AppData& data, const QString& kind, QString* s
 }
 
 PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
+    // Texts that only the paper shows: held to the same limit as every text field.
+    for (const char* key : {"name", "purpose"})
+        if (input.value(key).isString())
+            json::check_text(input.value(key).toString(), key, chem::guard::max_text_chars);
+    const QJsonValue purpose = input.value("batch").toObject().value("purpose");
+    if (purpose.isString()) json::check_text(purpose.toString(), "batch.purpose", chem::guard::max_text_chars);
     const QString kind = document_kind(input);
     if (kind == "line") return line_job(data, input, printed_at);
     if (kind == "sequence") return sequence_job(data, input, printed_at);
