@@ -1,4 +1,5 @@
 #include "chem/batch.h"
+#include "chem/guard.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -95,7 +96,7 @@ double ShelfLifeDefaults::hours_for(SolutionKind kind) const {
 
 LocalDateTime parse_local_datetime(const std::string& text, const std::string& field) {
     auto bad = [&](const std::string& why) -> Error {
-        return Error(field, "\"" + text + "\" is not a date and time like 2026-12-01T16:30:00" +
+        return Error(field, guard::quote_id(text) + " is not a date and time like 2026-12-01T16:30:00" +
                                 (why.empty() ? "" : " (" + why + ")"));
     };
     auto digits = [&](size_t pos, size_t n) {
@@ -141,6 +142,7 @@ LocalDateTime parse_local_datetime(const std::string& text, const std::string& f
     if (t.hour > 23) throw bad("hour " + std::to_string(t.hour));
     if (t.minute > 59) throw bad("minute " + std::to_string(t.minute));
     if (t.second > 59) throw bad("second " + std::to_string(t.second));
+    guard::year(t.year, field, text);
     return t;
 }
 
@@ -172,6 +174,7 @@ std::string add_hours(const std::string& text, double hours, const std::string& 
         throw Error(field, "cannot add a shelf life of " + format_number(hours) + " h");
     LocalDateTime out = from_minutes(to_minutes(t) + std::llround(hours * 60.0));
     out.second = t.second;
+    guard::year(out.year, field, format_local_datetime(out));
     return format_local_datetime(out);
 }
 
@@ -230,8 +233,9 @@ std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
     const std::string& id = batch.id;
     if (id.find_first_not_of(" \t\r\n") == std::string::npos)
         throw Error("batch.id", "is required: give the batch an id");
-    if (id.size() > 64)
-        throw Error("batch.id", "\"" + id.substr(0, 20) + "...\" is longer than 64 characters");
+    if (guard::char_count(id) > guard::max_id_chars)
+        throw Error("batch.id", guard::quote_id(id) + " is longer than " + std::to_string(guard::max_id_chars) +
+                                    " characters");
     for (unsigned char ch : id)
         if (ch < 0x20 || ch == 0x7f) throw Error("batch.id", "contains a control character");
     const double tol = batch.tolerance_fraction;
@@ -289,9 +293,9 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         if (a.reagent.empty()) throw Error(item_path(ii, "reagent"), "is required");
         if (!recipe_ids.count(a.reagent))
             throw Error(item_path(ii, "reagent"),
-                        "\"" + a.reagent + "\" is not in the recipe (its reagents: " + known + ")");
+                        guard::quote_id(a.reagent) + " is not in the recipe (its reagents: " + known + ")");
         if (!seen.insert(a.reagent).second)
-            throw Error(item_path(ii, "reagent"), "\"" + a.reagent + "\" is given twice");
+            throw Error(item_path(ii, "reagent"), guard::quote_id(a.reagent) + " is given twice");
         if (a.mass_g.has_value() == a.volume_ml.has_value())
             throw Error(item_path(ii, "mass_g"), "give exactly one of mass_g and volume_ml");
         const double v = a.mass_g ? *a.mass_g : *a.volume_ml;

@@ -9,6 +9,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <map>
 #include <cstdint>
 #include <limits>
 
@@ -269,6 +270,10 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     p.a_molal = debye_huckel_a_molal(p.temperature_k);
     p.kg_per_l = water_density_g_per_ml(p.temperature_k);
     std::vector<double> amounts;
+    // Running total per reagent (a map: O(n log n) over n components, not a rescan per entry).
+    std::map<const Reagent*, double> reagent_totals;
+    std::map<const AcidBaseSystem*, std::size_t> system_index;
+    std::map<std::string, std::size_t> ion_index;
     for (size_t k = 0; k < components.size(); ++k) {
         const auto& c = components[k];
         const std::string field = "components[" + std::to_string(k) + "]";
@@ -281,9 +286,7 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
                                                   " mol/L, beyond any solution this tool models");
         // The limit holds for the reagent's total too: the same reagent listed twice (or 2000
         // times) is one amount, and 50 mol/L of it would pass unnoticed entry by entry.
-        double reagent_total = 0;
-        for (size_t j = 0; j <= k; ++j)
-            if (components[j].reagent == c.reagent) reagent_total += components[j].mol_per_l;
+        const double reagent_total = reagent_totals[c.reagent] += c.mol_per_l;
         if (reagent_total > max_concentration_mol_per_l * (1 + 1e-12))
             throw Error(field + ".mol_per_l", "brings " + c.reagent->id + " to " +
                                                   format_number(reagent_total) +
@@ -296,9 +299,8 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
             if (def.steps() > max_steps)
                 throw Error(field + ".reagent", "system \"" + def.id + "\" has more than " +
                                                     std::to_string(max_steps) + " steps");
-            auto it = std::find_if(p.systems.begin(), p.systems.end(),
-                                   [&](const Problem::System& s) { return s.def == &def; });
-            if (it == p.systems.end()) {
+            auto found = system_index.find(&def);
+            if (found == system_index.end()) {
                 Problem::System s;
                 s.def = &def;
                 s.steps = def.steps();
@@ -306,20 +308,19 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
                 for (int j = 0; j < s.steps; ++j)
                     s.ka[j] = std::pow(10.0, -def.pka_at(j, p.temperature_k));
                 p.systems.push_back(s);
-                it = std::prev(p.systems.end());
+                found = system_index.emplace(&def, p.systems.size() - 1).first;
             }
-            feed.systems.emplace_back(static_cast<int>(it - p.systems.begin()), share.count);
+            feed.systems.emplace_back(static_cast<int>(found->second), share.count);
         }
         for (const auto& sp : c.reagent->spectators) {
             if (std::abs(sp.charge) > max_charge)
                 throw Error(field + ".reagent", "ion " + sp.ion + " has too high a charge");
-            auto it = std::find_if(p.ions.begin(), p.ions.end(),
-                                   [&](const Problem::Ion& i) { return i.name == sp.ion; });
-            if (it == p.ions.end()) {
+            auto found = ion_index.find(sp.ion);
+            if (found == ion_index.end()) {
                 p.ions.push_back({sp.ion, sp.charge, 0});
-                it = std::prev(p.ions.end());
+                found = ion_index.emplace(sp.ion, p.ions.size() - 1).first;
             }
-            feed.ions.emplace_back(static_cast<int>(it - p.ions.begin()), sp.count);
+            feed.ions.emplace_back(static_cast<int>(found->second), sp.count);
         }
         p.feeds.push_back(std::move(feed));
         amounts.push_back(c.mol_per_l);

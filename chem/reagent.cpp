@@ -1,4 +1,5 @@
 #include "chem/reagent.h"
+#include "chem/guard.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -189,14 +190,17 @@ const AcidBaseSystem* Library::find_system(const std::string& id) const {
 
 const AcidBaseSystem& Library::system(const std::string& id, const std::string& field) const {
     if (const auto* s = find_system(id)) return *s;
-    throw Error(field, "unknown acid-base system \"" + id + "\"");
+    throw Error(field, "unknown acid-base system " + guard::quote_id(id));
 }
 
 const Reagent& Library::reagent(const std::string& id, const std::string& field) const {
     if (const auto* r = find_reagent(id)) return *r;
     std::string hint;
-    for (const auto& n : nearest_reagent_ids(id)) hint += (hint.empty() ? "" : ", ") + n;
-    throw Error(field, "unknown reagent \"" + id + "\"" +
+    // Suggestions only for an id of sensible length: the edit distance is never run over a
+    // megabyte, and no id is longer than guard::max_id_chars.
+    if (id.size() <= 4 * guard::max_id_chars)
+        for (const auto& n : nearest_reagent_ids(id)) hint += (hint.empty() ? "" : ", ") + n;
+    throw Error(field, "unknown reagent " + guard::quote_id(id) +
                            (hint.empty() ? std::string() : " (nearest: " + hint + ")"));
 }
 

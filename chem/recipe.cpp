@@ -1,4 +1,5 @@
 #include "chem/recipe.h"
+#include "chem/guard.h"
 
 #include "chem/equilibrium_detail.h"
 #include "chem/error.h"
@@ -38,9 +39,9 @@ RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l
     it.mol_per_l = mol_per_l;
     const double mol = mol_per_l * req.volume_ml / 1000.0;
     const double material_g = mol * r.molar_mass_g_per_mol / purity_of(req, r);
-    it.mass_g = material_g;
+    it.mass_g = guard::amount(material_g, "items." + r.id + ".mass_g", "mass");
     if (r.form == PhysicalForm::liquid) {
-        it.volume_ml = material_g / r.density_g_per_ml;
+        it.volume_ml = guard::amount(material_g / r.density_g_per_ml, "items." + r.id + ".volume_ml", "volume");
         it.as = "liquid";
         it.kind = ItemKind::liquid;
     } else {
@@ -57,7 +58,7 @@ RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_
     it.reagent = r.id;
     it.kind = kind;
     it.mol_per_l = mol_per_l;
-    it.volume_ml = mol_per_l * req.volume_ml / stock_mol_per_l;
+    it.volume_ml = guard::amount(mol_per_l * req.volume_ml / stock_mol_per_l, "items." + r.id + ".volume_ml", "volume");
     it.as = std::string(kind == ItemKind::stock ? "stock" : "titrant") + " " +
             format_number(stock_mol_per_l) + " mol/L";
     return it;
@@ -196,7 +197,11 @@ std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent
 
 MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent& acid,
                      const Reagent& base) {
-    const auto [sa, sb] = conjugate_shares(acid, base);
+    // Plain variables, not a structured binding: clang 14 (the fuzz and sanitizer builds) cannot
+    // capture a binding in a lambda.
+    const auto shares = conjugate_shares(acid, base);
+    const auto sa = shares.first;
+    const auto sb = shares.second;
     MixDesign d;
     d.system = &lib.system(sa->system);
     Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c, req.activity_model), std::nullopt};

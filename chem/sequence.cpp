@@ -1,4 +1,5 @@
 #include "chem/sequence.h"
+#include "chem/guard.h"
 
 #include "chem/error.h"
 
@@ -253,7 +254,8 @@ SequencePlan plan_sequence(const SequenceInput& in) {
             for (const auto& [name, idx] : method_index)
                 known += (known.empty() ? "" : ", ") + name;
             throw Error(at + ".method",
-                        "unknown method \"" + in.rows[i].method + "\" (known: " + known + ")");
+                        "unknown method " + guard::quote_id(in.rows[i].method) + " (known: " +
+                            guard::cut(known, 20 * guard::max_id_chars) + ")");
         }
         row_method[i] = it->second;
         if (in.rows[i].injections < 1 || in.rows[i].injections > max_injections)

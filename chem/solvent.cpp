@@ -1,4 +1,5 @@
 #include "chem/solvent.h"
+#include "chem/guard.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -205,8 +206,8 @@ const Solvent* SolventLibrary::find_solvent(const std::string& id) const {
 const Solvent& SolventLibrary::solvent(const std::string& id, const std::string& field) const {
     if (const Solvent* s = find_solvent(id))
         return *s;
-    std::string msg = "unknown solvent \"" + id + "\"";
-    const auto near = nearest_solvent_ids(id);
+    std::string msg = "unknown solvent " + guard::quote_id(id);
+    const auto near = id.size() <= 4 * guard::max_id_chars ? nearest_solvent_ids(id) : std::vector<std::string>{};
     if (!near.empty()) {
         msg += " (nearest: ";
         for (std::size_t i = 0; i < near.size(); ++i)

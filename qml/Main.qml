@@ -142,6 +142,17 @@ ApplicationWindow {
         }
     }
 
+    // The database cannot be saved to (read-only, locked) or had records set aside: said here.
+    footer: Label {
+        objectName: "storageBanner"
+        visible: window.workspace.storageNotice.length > 0
+        text: window.workspace.storageNotice
+        wrapMode: Text.Wrap
+        padding: Theme.gap
+        color: Theme.bad
+        background: Rectangle { color: Theme.card; border.color: Theme.bad }
+    }
+
     GridLayout {
         anchors.fill: parent
         // The on-screen keyboard takes the bottom of the window: the screens shrink above it, and

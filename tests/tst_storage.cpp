@@ -21,6 +21,8 @@
 
 #include <cstdio>
 
+#include <unistd.h>
+
 using phaseplan::storage::Database;
 using phaseplan::storage::DocumentKind;
 using phaseplan::storage::SavedDocument;
@@ -68,7 +70,20 @@ const char* library_v2 = R"J({
   "notes": ["not entries: left alone"]
 })J";
 
+QByteArray file_bytes(const QString& path) {
+    QFile f(path);
+    return f.open(QIODevice::ReadOnly) ? f.readAll() : QByteArray("(unreadable)");
+}
+
 int run_helper(const QString& mode, const QString& path) {
+    if (mode == "--first-run") {
+        // Two of these start at once on a new file: each must open it, exactly one creates it.
+        Database db(path, -1, [](Database& d) {
+            d.save(DocumentKind::method, "seeded", method_doc());
+        });
+        std::printf("%s %zu\n", db.created() ? "created" : "opened", db.list_all().size());
+        return 0;
+    }
     Database db(path);
     std::setvbuf(stdout, nullptr, _IONBF, 0);
     if (mode == "--hold-in-save") {
@@ -296,6 +311,185 @@ private slots:
         QVERIFY_THROWS_EXCEPTION(chem::Error, Database{junk});
     }
 
+    // Issue 9: another program's SQLite file got PhasePlan's tables, user_version 4 and WAL; an
+    // empty file was silently seeded. Both are refused now, naming the file, and left as they were.
+    void foreign_or_empty_file_is_refused_and_left_byte_identical() {
+        const QString foreign = file("other-program.sqlite");
+        {
+            QSqlDatabase raw = QSqlDatabase::addDatabase("QSQLITE", "foreign");
+            raw.setDatabaseName(foreign);
+            QVERIFY(raw.open());
+            QSqlQuery q(raw);
+            QVERIFY(q.exec("CREATE TABLE photos (id INTEGER PRIMARY KEY, path TEXT)"));
+            QVERIFY(q.exec("INSERT INTO photos (path) VALUES ('a.jpg')"));
+            raw.close();
+        }
+        QSqlDatabase::removeDatabase("foreign");
+        const QString empty = file("empty.sqlite");
+        {
+            QFile f(empty);
+            QVERIFY(f.open(QIODevice::WriteOnly));
+        }
+        for (const QString& path : {foreign, empty}) {
+            const QByteArray before = file_bytes(path);
+            try {
+                Database db(path, -1, [](Database&) { QFAIL("a seed ran on an existing file"); });
+                QFAIL(qPrintable("opened " + path));
+            } catch (const chem::Error& e) {
+                QCOMPARE(QString::fromStdString(e.field()), QString("database"));
+                const QString m = QString::fromStdString(e.message());
+                QVERIFY2(m.contains(path) && (m.contains("not PhasePlan") || m.contains("empty file")), e.what());
+                QVERIFY2(m.contains("unchanged"), e.what());
+            }
+            QCOMPARE(file_bytes(path), before);
+            QVERIFY(!QFile::exists(path + "-wal"));
+        }
+    }
+
+    void new_file_carries_the_application_id() {
+        const QString path = file("marked.sqlite");
+        { Database db(path); }
+        // Bytes 68–71 of the SQLite header hold PRAGMA application_id, big-endian
+        // (https://sqlite.org/fileformat.html, section 1.3): the file is made whole before use.
+        const QByteArray head = file_bytes(path).left(100);
+        QCOMPARE(head.size(), 100);
+        const quint32 id = (quint8(head[68]) << 24) | (quint8(head[69]) << 16) | (quint8(head[70]) << 8) | quint8(head[71]);
+        QCOMPARE(id, quint32(phaseplan::storage::phaseplan_application_id));
+    }
+
+    // Issue 9: a missing demo_seeded setting made the next start write the demo over the lab's edits.
+    void seed_runs_only_when_the_file_is_created() {
+        const QString path = file("seeded.sqlite");
+        int seeds = 0;
+        auto seed = [&seeds](Database& d) {
+            ++seeds;
+            d.save(DocumentKind::method, "assay", method_doc());
+        };
+        {
+            Database db(path, -1, seed);
+            QVERIFY(db.created());
+            QJsonObject edited = method_doc();
+            edited["flow_ml_min"] = 0.4;
+            db.save(DocumentKind::method, "assay", edited);
+            db.exec("DELETE FROM settings");
+        }
+        Database db(path, -1, seed);
+        QVERIFY(!db.created());
+        QCOMPARE(seeds, 1);
+        QCOMPARE(db.load(DocumentKind::method, "assay")->value("flow_ml_min").toDouble(), 0.4);
+    }
+
+    void failed_seed_leaves_no_file() {
+        const QString path = file("seed-fails.sqlite");
+        QVERIFY_THROWS_EXCEPTION(chem::Error, Database(path, -1, [](Database& d) {
+            d.save(DocumentKind::method, "half", method_doc());
+            throw chem::Error("seed", "stops here");
+        }));
+        QVERIFY(!QFile::exists(path));
+        Database db(path);
+        QVERIFY(db.created());
+        QVERIFY(db.list_all().empty());
+    }
+
+    // Issue 9: the second of two first runs failed with "table batches already exists".
+    void two_first_runs_do_not_race() {
+        for (int round = 0; round < 6; ++round) {
+            const QString path = file(QStringLiteral("race-%1.sqlite").arg(round));
+            QProcess a, b;
+            a.start(QCoreApplication::applicationFilePath(), {"--first-run", path});
+            b.start(QCoreApplication::applicationFilePath(), {"--first-run", path});
+            QVERIFY(a.waitForFinished(30000) && b.waitForFinished(30000));
+            const QByteArray out = a.readAllStandardOutput() + b.readAllStandardOutput();
+            QVERIFY2(a.exitCode() == 0 && b.exitCode() == 0,
+                     (out + a.readAllStandardError() + b.readAllStandardError()).constData());
+            QCOMPARE(out.count("created 1"), 1);
+            QCOMPARE(out.count("opened 1"), 1);
+        }
+    }
+
+    // Issue 9: a writer holding the lock made the app wait 48 s and exit. Now the file opens
+    // read-only within busy_timeout, says so with its path, and a save fails at once, clearly.
+    void locked_file_opens_read_only_and_says_so() {
+        const QString path = file("locked %2 dir/lab.sqlite");
+        { Database db(path); }
+        QSqlDatabase holder = QSqlDatabase::addDatabase("QSQLITE", "holder");
+        holder.setDatabaseName(path);
+        QVERIFY(holder.open());
+        QVERIFY(QSqlQuery(holder).exec("BEGIN IMMEDIATE"));
+        {
+            Database db(path);
+            QVERIFY(!db.writable());
+            QVERIFY2(db.read_only_reason().contains(path), qPrintable(db.read_only_reason()));
+            QVERIFY2(db.read_only_reason().contains("locked by another program"), qPrintable(db.read_only_reason()));
+            QVERIFY(db.list_all().empty()); // reading still works
+            try {
+                db.save(DocumentKind::method, "x", method_doc());
+                QFAIL("saved into a locked file");
+            } catch (const chem::Error& e) {
+                QVERIFY2(QString::fromStdString(e.message()).contains(path), e.what());
+            }
+        }
+        QVERIFY(QSqlQuery(holder).exec("ROLLBACK"));
+        holder.close();
+        holder = QSqlDatabase();
+        QSqlDatabase::removeDatabase("holder");
+        Database db(path);
+        QVERIFY(db.writable());
+    }
+
+    void read_only_file_opens_read_only_and_says_so() {
+        if (::geteuid() == 0) QSKIP("root writes through file permissions; covered by the locked case");
+        const QString path = file("readonly.sqlite");
+        { Database db(path); }
+        QFile::setPermissions(path, QFileDevice::ReadOwner);
+        Database db(path);
+        QVERIFY(!db.writable());
+        QVERIFY(db.read_only_reason().contains("cannot be written"));
+    }
+
+    // Issue 9: a 10^5-row gradient or a 1 MB name stored in the file hung the app at start.
+    void oversized_records_are_set_aside_and_named() {
+        const QString path = file("big.sqlite");
+        QJsonArray rows;
+        for (int i = 0; i < 10000; ++i) rows.append(QJsonObject{{"t_min", i}, {"A", 50}, {"B", 50}});
+        QJsonObject big = method_doc();
+        big["gradient"] = rows;
+        const QString long_name(1000000, QChar('n'));
+        {
+            Database db(path);
+            db.save(DocumentKind::method, "huge gradient", big);
+            db.save(DocumentKind::method, "fine", method_doc());
+            db.set_setting("current_plan", QJsonObject{{"name", long_name}});
+            QVERIFY(db.set_aside().empty());
+        }
+        Database db(path);
+        QCOMPARE(db.set_aside().size(), size_t(2));
+        QStringList named;
+        for (const auto& r : db.set_aside()) named << r.source + ":" + r.name + ":" + r.reason;
+        QVERIFY2(named.join("|").contains("methods:huge gradient:a list of 10000 entries"), qPrintable(named.join("|")));
+        QVERIFY2(named.join("|").contains("settings:current_plan:a text of 1000000 characters"), qPrintable(named.join("|")));
+        QVERIFY(!db.load(DocumentKind::method, "huge gradient"));
+        QVERIFY(db.setting("current_plan").isNull());
+        QVERIFY(db.load(DocumentKind::method, "fine"));
+        QSqlQuery kept = db.exec("SELECT count(*), sum(length(content)) FROM set_aside");
+        QVERIFY(kept.next());
+        QCOMPARE(kept.value(0).toInt(), 2); // kept in the file, not lost
+        QVERIFY(kept.value(1).toLongLong() > 1000000);
+        QVERIFY_THROWS_EXCEPTION(chem::Error, db.save(DocumentKind::method, QString(201, 'x'), method_doc()));
+    }
+
+    // Issue 9: a path containing %2 was garbled by chained .arg().
+    void percent_sign_in_the_path_stays_in_the_message() {
+        const QString path = file("lab %2 %1/future.sqlite");
+        { Database db(path); db.exec("PRAGMA user_version = 99"); }
+        try {
+            Database db(path);
+            QFAIL("a newer schema was opened");
+        } catch (const chem::Error& e) {
+            QVERIFY2(QString::fromStdString(e.message()).contains(path), e.what());
+        }
+    }
+
     void kill_inside_a_save_keeps_last_commit() {
         const QString path = file("killed.sqlite");
         const QJsonObject committed = buffer_doc(3.0);
@@ -366,7 +560,8 @@ private slots:
 
 int main(int argc, char** argv) {
     QCoreApplication app(argc, argv);
-    if (argc == 3 && (QByteArray(argv[1]) == "--hold-in-save" || QByteArray(argv[1]) == "--save-forever"))
+    if (argc == 3 && (QByteArray(argv[1]) == "--hold-in-save" || QByteArray(argv[1]) == "--save-forever" ||
+                      QByteArray(argv[1]) == "--first-run"))
         return run_helper(QString::fromLocal8Bit(argv[1]), QString::fromLocal8Bit(argv[2]));
     TestStorage t;
     return QTest::qExec(&t, argc, argv);

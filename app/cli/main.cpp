@@ -1,6 +1,7 @@
 // phaseplan-cli: one JSON document in (a path or - for stdin), one JSON document out.
 // Bad input: status 2, one line on stderr naming the field, nothing on stdout.
 #include "chem/error.h"
+#include "chem/guard.h"
 #include "core/app_data.h"
 #include "core/commands.h"
 #include "core/eluent_commands.h"
@@ -8,6 +9,7 @@
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
 #include "devices/device_cli.h"
+#include "core/runtime_dir.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -15,12 +17,15 @@
 #include <QJsonDocument>
 #include <QTextStream>
 
+#include <algorithm>
 #include <cstdio>
 #include <functional>
 #include <iostream>
 #include <map>
 #include <memory>
 
+#include <stdlib.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #ifdef PHASEPLAN_WITH_PRINT
@@ -60,7 +65,7 @@ const std::map<std::string, Entry>& command_table() {
 
 int usage(std::FILE* to) {
     std::fprintf(to, "usage: phaseplan-cli COMMAND INPUT.json|- [-o OUT.pdf] [--paper a4|letter|label62]\n"
-                     "       [--data DIR]\ncommands:\n");
+                     "       [--follow-symlinks] [--data DIR]\ncommands:\n");
     for (const auto& [name, e] : command_table())
         std::fprintf(to, "  %-10s %s\n", name.c_str(), e.summary);
     std::fprintf(to, "  %-10s %s\n", "device",
@@ -71,7 +76,9 @@ int usage(std::FILE* to) {
 
 /// The error line: control characters from the input (a "\n" inside a quoted id) are escaped so
 /// that the message stays on one line, as the contract promises.
-void fail(const std::string& line) {
+void fail(const std::string& full_line) {
+    // However long the input, the line stays readable: cut on a character boundary.
+    const std::string line = chem::guard::cut(full_line, 2000);
     std::string one_line;
     for (unsigned char ch : line) {
         if (ch == '\n') one_line += "\\n";
@@ -125,6 +132,26 @@ int run_device(int argc, char** argv) {
     }
 }
 
+/// Reads at most json::max_document_bytes from `in`; throws Error("input", …) above that.
+QByteArray read_capped(QFile& in, const std::string& shown) {
+    // A pipe hands over what it has: read until the end or one byte past the cap.
+    QByteArray bytes;
+    while (bytes.size() <= phaseplan::json::max_document_bytes) {
+        const QByteArray chunk =
+            in.read(std::min<qint64>(1 << 20, phaseplan::json::max_document_bytes + 1 - bytes.size()));
+        if (chunk.isEmpty()) break; // end of input (or a read error, reported by the parser)
+        bytes += chunk;
+    }
+    if (bytes.size() > phaseplan::json::max_document_bytes)
+        throw chem::Error("input", shown + " is larger than 16 MiB (16777216 bytes), the most one document may hold");
+    return bytes;
+}
+
+/// The error as one line: field and message joined here, not through what(), so a NUL in the
+/// input is escaped instead of ending the line.
+std::string error_line(const chem::Error& e) { return e.field() + ": " + e.message(); }
+
+
 } // namespace
 
 int main(int argc, char** argv) {
@@ -145,6 +172,7 @@ int main(int argc, char** argv) {
         };
         if (a == "-h" || a == "--help") return usage(stdout);
         if (a == "-o" || a == "--output") opt.output_path = QString::fromStdString(value("-o"));
+        else if (a == "--follow-symlinks") opt.follow_symlinks = true;
         else if (a == "--paper") opt.paper = QString::fromStdString(value("--paper"));
         else if (a == "--data") data_dir = QString::fromStdString(value("--data"));
         else if (command.empty()) command = a;
@@ -164,63 +192,54 @@ int main(int argc, char** argv) {
     // PDF commands need fonts; run them on the offscreen platform unless one is set.
     std::unique_ptr<QCoreApplication> app;
 #ifdef PHASEPLAN_WITH_PRINT
+    std::unique_ptr<phaseplan::PrivateRuntimeDir> runtime_dir;
     if (it->second.needs_gui) {
         if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
-        if (qEnvironmentVariableIsEmpty("XDG_RUNTIME_DIR")) {
-            // A private runtime folder keeps Qt from warning on stderr (one line only on error).
-            const QByteArray dir = QDir::tempPath().toUtf8() + "/phaseplan-runtime-" +
-                                   QByteArray::number(static_cast<qulonglong>(getuid()));
-            QDir().mkpath(QString::fromUtf8(dir));
-            QFile::setPermissions(QString::fromUtf8(dir),
-                                  QFileDevice::ReadOwner | QFileDevice::WriteOwner | QFileDevice::ExeOwner);
-            qputenv("XDG_RUNTIME_DIR", dir);
-        }
+        // A private runtime folder keeps Qt from warning on stderr (one line only on error).
+        runtime_dir = std::make_unique<phaseplan::PrivateRuntimeDir>();
         app = std::make_unique<QGuiApplication>(argc, argv);
     }
 #endif
     if (!app) app = std::make_unique<QCoreApplication>(argc, argv);
 
-    QByteArray bytes;
-    if (command != "reagents") {
-        if (input_path.isEmpty()) {
-            fail("input: give a JSON file path or - for standard input");
-            return 2;
-        }
-        if (input_path == "-") {
-            QFile in;
-            if (!in.open(stdin, QIODevice::ReadOnly)) {
-                fail("input: cannot read standard input");
-                return 2;
-            }
-            bytes = in.readAll();
-        } else {
-            QFile in(input_path);
-            if (!in.open(QIODevice::ReadOnly)) {
-                fail("input: cannot open \"" + input_path.toStdString() + "\": " +
-                     in.errorString().toStdString());
-                return 2;
-            }
-            bytes = in.readAll();
-        }
+    if (command != "reagents" && input_path.isEmpty()) {
+        fail("input: give a JSON file path or - for standard input");
+        return 2;
     }
 
     phaseplan::AppData data;
     try {
         data = phaseplan::load_app_data(data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
     } catch (const chem::Error& e) {
-        fail("data: " + std::string(e.what()));
+        fail("data: " + error_line(e));
         return 3; // the installation is broken, not the input
     }
 
     try {
+        QByteArray bytes;
+        if (command != "reagents") {
+            const std::string shown = input_path == "-" ? std::string("standard input")
+                                                        : chem::guard::quote_id(input_path.toStdString());
+            QFile in;
+            if (input_path != "-") in.setFileName(input_path);
+            if (input_path == "-" ? !in.open(stdin, QIODevice::ReadOnly) : !in.open(QIODevice::ReadOnly))
+                throw chem::Error("input", "cannot open " + shown + ": " + in.errorString().toStdString());
+            bytes = read_capped(in, shown);
+        }
         QJsonObject input = command == "reagents" && bytes.isEmpty()
                                 ? QJsonObject{}
                                 : phaseplan::json::parse_document(bytes);
         QJsonObject out = it->second.run(data, input, opt);
-        std::cout << QJsonDocument(out).toJson(QJsonDocument::Indented).toStdString();
+        phaseplan::json::check_output(out);
+        const QByteArray text = QJsonDocument(out).toJson(QJsonDocument::Indented);
+        std::cout.write(text.constData(), text.size()); // no second copy of a large result
+        std::cout.flush();
         return 0;
     } catch (const chem::Error& e) {
-        fail(e.what());
+        fail(error_line(e));
+        return 2;
+    } catch (const std::bad_alloc&) {
+        fail("input: not enough memory to read and work on this document");
         return 2;
     } catch (const std::exception& e) {
         // Not expected: chem/ throws only chem::Error. Still no crash and no partial output.

@@ -17,14 +17,19 @@ QString find_data_dir() {
     const QString env = qEnvironmentVariable("PHASEPLAN_DATA_DIR");
     if (!env.isEmpty()) return env;
     QStringList candidates;
+    bool build_tree = true; // no application object: a test or a tool linked in the build
     if (QCoreApplication::instance()) {
         const QString exe = QCoreApplication::applicationDirPath();
         candidates << exe + "/data" << exe + "/../share/phaseplan/data";
+        // The source tree's data only for a program in the build tree: an installed program
+        // finds its own copy or fails, so a broken install cannot pass for a working one.
+        build_tree = QFileInfo::exists(exe + "/CMakeCache.txt");
     }
-    candidates << QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
+    if (build_tree) candidates << QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
     for (const QString& c : candidates)
         if (QFileInfo::exists(c + "/reagents.json")) return QDir(c).absolutePath();
-    return QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
+    // Nothing found: name where an installed program looks, so the error says what is missing.
+    return build_tree ? QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR) : QDir::cleanPath(candidates.at(1));
 }
 
 namespace {

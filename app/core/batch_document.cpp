@@ -1,6 +1,7 @@
 #include "core/batch_document.h"
 
 #include "chem/error.h"
+#include "chem/guard.h"
 #include "chem/recipe_roles.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
@@ -436,6 +437,9 @@ void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument&
 } // namespace
 
 QString batch_document_kind(const QJsonObject& input) {
+    if (input.contains("plans"))
+        throw chem::Error("plans", "a sheet or labels print one plan: give one entry of plans[] as its own "
+                                   "sequence document, with its batch");
     if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
     if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
     return QStringLiteral("recipe");
@@ -446,7 +450,7 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
     const QJsonObject o = json::require_object(input, "batch", "");
     const std::string at = "batch";
     chem::Batch b;
-    b.id = json::require_string(o, "id", at);
+    b.id = json::require_string(o, "id", at, chem::guard::max_id_chars);
     b.prepared_by = json::optional_string(o, "prepared_by", at).value_or("");
     b.prepared_at = json::optional_string(o, "prepared_at", at).value_or("");
     b.expires_at = json::optional_string(o, "expires_at", at).value_or("");
@@ -481,7 +485,7 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
             const std::string ai = json::path(list, i);
             const QJsonObject e = json::element_object(a, i, list);
             chem::ActualAmount x;
-            x.reagent = json::require_string(e, "reagent", ai);
+            x.reagent = json::require_string(e, "reagent", ai, chem::guard::max_id_chars);
             x.mass_g = json::optional_positive(e, "mass_g", ai, 1.0e6);
             x.volume_ml = json::optional_positive(e, "volume_ml", ai, 1.0e6);
             if (!x.mass_g && !x.volume_ml)

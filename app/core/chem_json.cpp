@@ -130,6 +130,10 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
             const std::string id = it.key().toStdString();
             lib.reagent(id, json::path(json::path(parent, "purity_percent"), it.key()));
             const double pct = json::require_number(p, it.key(), json::path(parent, "purity_percent"));
+            // 1 % is far below any reagent grade; below it the amounts run to tonnes (or inf).
+            if (pct < 1 || pct > 100)
+                throw chem::Error(json::path(json::path(parent, "purity_percent"), it.key()),
+                                  chem::format_number(pct) + " % is outside 1 to 100 %");
             r.purity_overrides.emplace_back(id, pct / 100.0);
         }
     }

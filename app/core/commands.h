@@ -16,6 +16,8 @@ namespace phaseplan {
 struct CommandOptions {
     QString output_path;  ///< -o FILE (sheet, labels)
     QString paper = "a4"; ///< --paper a4|letter|label62
+    /// --follow-symlinks: -o may name a symbolic link, and its target is written.
+    bool follow_symlinks = false;
     /// How clock times are worded in messages: the app passes "tomorrow 03:30"; empty gives
     /// "2026-12-02 03:12", as the command-line tool prints them.
     std::function<QString(const QDateTime&)> clock_words;

@@ -1,5 +1,6 @@
 #include "core/json_util.h"
 
+#include "chem/guard.h"
 #include "chem/solvent.h"
 
 #include <QJsonDocument>
@@ -26,11 +27,12 @@ std::string describe(const QJsonValue& v) {
     case QJsonValue::Bool: return v.toBool() ? "true" : "false";
     case QJsonValue::Double: return chem::format_number(v.toDouble());
     case QJsonValue::String: {
-        QString s = v.toString();
-        if (s.size() > 40) s = s.left(37) + "...";
+        // Cut on a character boundary (never inside a UTF-8 sequence or a surrogate pair).
+        const QString s = v.toString();
+        const std::string text = s.size() > 200 ? s.left(200).toStdString() : s.toStdString();
         // Appended, not "\"" + …: GCC 12 warns falsely (-Wrestrict) on literal + std::string.
         std::string quoted(1, '"');
-        quoted += s.toStdString();
+        quoted += chem::guard::cut(text, 40);
         quoted += '"';
         return quoted;
     }
@@ -61,18 +63,40 @@ QJsonArray require_array(const QJsonObject& o, const QString& key, const std::st
     return v.toArray();
 }
 
-std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent) {
+void check_text(const QString& text, const std::string& field, std::size_t max_chars) {
+    std::size_t chars = 0;
+    for (qsizetype i = 0; i < text.size(); ++i, ++chars) {
+        const QChar c = text[i];
+        if (c.isHighSurrogate() && i + 1 < text.size() && text[i + 1].isLowSurrogate()) {
+            ++i;
+        } else if (c.isSurrogate()) {
+            throw chem::Error(field, "contains a lone UTF-16 surrogate (\\u" +
+                                         QString::number(c.unicode(), 16).toUpper().toStdString() +
+                                         " at character " + std::to_string(chars + 1) +
+                                         "), which is not a character");
+        }
+        if (chars >= max_chars)
+            throw chem::Error(field, chem::guard::quote_id(text.left(200).toStdString()) + " is longer than " +
+                                         std::to_string(max_chars) +
+                                         " characters, the most this field holds");
+    }
+}
+
+std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent,
+                           std::size_t max_chars) {
     QJsonValue v = require(o, key, parent);
     if (!v.isString()) throw chem::Error(path(parent, key), "must be a string, got " + describe(v));
-    std::string s = v.toString().trimmed().toStdString();
+    const QString text = v.toString().trimmed();
+    check_text(text, path(parent, key), max_chars);
+    std::string s = text.toStdString();
     if (s.empty()) throw chem::Error(path(parent, key), "must not be empty");
     return s;
 }
 
 std::optional<std::string> optional_string(const QJsonObject& o, const QString& key,
-                                           const std::string& parent) {
+                                           const std::string& parent, std::size_t max_chars) {
     if (!o.contains(key) || o.value(key).isNull()) return std::nullopt;
-    return require_string(o, key, parent);
+    return require_string(o, key, parent, max_chars);
 }
 
 double require_number(const QJsonObject& o, const QString& key, const std::string& parent) {
@@ -159,6 +183,9 @@ void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*>
                         const std::string& parent) {
     for (auto it = o.begin(); it != o.end(); ++it) {
         const QString key = it.key();
+        // A near miss is a slip of a few characters: a key much longer than any contract key
+        // (a 50 MB key, say) is not one, and the edit distance is never run over it.
+        if (key.size() > 64) continue;
         bool listed = false;
         for (const char* k : known) listed |= key == QLatin1String(k);
         if (listed) continue;
@@ -239,6 +266,26 @@ void reject_duplicate_keys(const QByteArray& b) {
 }
 
 } // namespace
+
+namespace {
+void check_value(const QJsonValue& v, const std::string& at) {
+    if (v.isDouble()) {
+        const double d = v.toDouble();
+        if (!std::isfinite(d) || std::abs(d) > chem::guard::max_amount * 1e3)
+            throw chem::Error(at.empty() ? "(result)" : at,
+                              "the computed value " + chem::format_number(d) +
+                                  " is not a finite number in range; check the inputs it comes from");
+    } else if (v.isArray()) {
+        const QJsonArray a = v.toArray();
+        for (int i = 0; i < a.size(); ++i) check_value(a.at(i), path(at, i));
+    } else if (v.isObject()) {
+        const QJsonObject o = v.toObject();
+        for (auto it = o.begin(); it != o.end(); ++it) check_value(it.value(), path(at, it.key()));
+    }
+}
+} // namespace
+
+void check_output(const QJsonObject& out) { check_value(out, ""); }
 
 QJsonObject parse_document(const QByteArray& bytes) {
     QJsonParseError err{};

@@ -3,6 +3,7 @@
 // chem::Error(path, message) where path is the JSON path of the field ("components[2].mol_per_l")
 // and message names the bad value. The one catch is in commands.cpp (CLI) and the GUI models.
 #include "chem/error.h"
+#include "chem/guard.h"
 
 #include <QJsonArray>
 #include <QJsonObject>
@@ -25,9 +26,15 @@ std::string describe(const QJsonValue& v);
 
 QJsonObject require_object(const QJsonObject& o, const QString& key, const std::string& parent);
 QJsonArray require_array(const QJsonObject& o, const QString& key, const std::string& parent);
-std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent);
+/// A non-empty string (trimmed) of at most `max_chars` characters (code points) without a lone
+/// UTF-16 surrogate. Ids pass chem::guard::max_id_chars; free text takes the default.
+std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent,
+                           std::size_t max_chars = chem::guard::max_text_chars);
 std::optional<std::string> optional_string(const QJsonObject& o, const QString& key,
-                                           const std::string& parent);
+                                           const std::string& parent,
+                                           std::size_t max_chars = chem::guard::max_text_chars);
+/// Throws Error(field, …) when `text` is longer than max_chars characters or holds a lone surrogate.
+void check_text(const QString& text, const std::string& field, std::size_t max_chars);
 /// A finite number. Rejects strings, booleans, null.
 double require_number(const QJsonObject& o, const QString& key, const std::string& parent);
 std::optional<double> optional_number(const QJsonObject& o, const QString& key,
@@ -54,5 +61,14 @@ void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*>
 
 /// Parses a whole document; a syntax error names "(document)" and the offset.
 QJsonObject parse_document(const QByteArray& bytes);
+
+/// The most a document may hold, in bytes (16 MiB): the command-line tool reads no more.
+inline constexpr qint64 max_document_bytes = 16 * 1024 * 1024;
+
+/// The shared guard at the JSON boundary: throws Error(path, …) for the first number in `out` that
+/// is not finite or lies beyond ±chem::guard::max_amount · 10^3 (no "inf", "nan" or overflow is
+/// ever written). Amounts and counts are checked where they are computed (chem/guard.h); this
+/// catches anything that slipped through.
+void check_output(const QJsonObject& out);
 
 } // namespace phaseplan::json

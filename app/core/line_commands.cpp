@@ -350,8 +350,12 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     }
     if (o.contains("prepared_at") && !o.value("prepared_at").isNull())
         pl.prepared_at = datetime_from_json(o, "prepared_at", path, nullptr);
-    if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365))
+    if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365)) {
+        // Six minutes is far below any mobile phase's shelf life; below it batch counts overflow.
+        if (*h < 0.1)
+            throw chem::Error(json::path(path, "shelf_life_h"), chem::format_number(*h) + " h is below 0.1 h");
         pl.spec.shelf_life_h = *h;
+    }
     pl.recipe_key = recipe_key_of(o, pl.spec.name);
     return pl;
 }
@@ -839,7 +843,7 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
             b["shelf_kind"] = list.front()->shelf_kind;
             b["one_batch_lasts"] = span_h <= shelf;
             if (span_h > shelf && warnings && list.size() > 1) {
-                const int batches = static_cast<int>(std::ceil(span_h / shelf));
+                const long long batches = chem::guard::count_up(span_h / shelf, "batches", "number of batches");
                 warnings->append(QJsonObject{
                     {"code", "shelf-life"},
                     {"severity", "warning"},

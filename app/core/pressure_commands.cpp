@@ -36,8 +36,15 @@ QJsonObject per_line(const chem::LineValues& v) {
 struct Lines {
     std::array<std::optional<ParsedLine>, chem::max_lines> parsed;
     std::array<chem::LineProfile, chem::max_lines> profiles;
-    std::array<const chem::LineProfile*, chem::max_lines> pointers{};
     std::array<bool, chem::max_lines> defined{};
+    /// The described profiles, by line. Computed on each call, not stored: a stored pointer into
+    /// `profiles` dangled once a Lines was moved (into a std::optional; found by ASan).
+    std::array<const chem::LineProfile*, chem::max_lines> pointers() const {
+        std::array<const chem::LineProfile*, chem::max_lines> p{};
+        for (int l = 0; l < chem::max_lines; ++l)
+            if (defined[l] && profiles[l].described) p[l] = &profiles[l];
+        return p;
+    }
 };
 
 Lines lines_from_json(const AppData& data, const QJsonObject& doc) {
@@ -54,8 +61,6 @@ Lines lines_from_json(const AppData& data, const QJsonObject& doc) {
             line_from_json(data, json::require_object(lines, it.key(), "lines"), at, -1, false);
         out.profiles[l] = chem::profile_line(data.solvents, data.reagents, out.parsed[l]->spec);
         out.defined[l] = true;
-        if (out.profiles[l].described)
-            out.pointers[l] = &out.profiles[l];
     }
     return out;
 }
@@ -270,7 +275,7 @@ QJsonObject command_pressure(const AppData& data, const QJsonObject& input, cons
     const double step = json::optional_number(input, "step_min", "").value_or(0.1);
     chem::PressureTrace t;
     try {
-        t = chem::pressure_trace(data.solvents, lines.pointers, m, *column, instrument, step);
+        t = chem::pressure_trace(data.solvents, lines.pointers(), m, *column, instrument, step);
     } catch (const chem::Error& e) {
         rethrow_for_single_method(e, m.name);
     }
@@ -338,7 +343,7 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
         const double step = json::optional_number(input, "step_min", "").value_or(0.1);
         chem::PressureTrace t;
         try {
-            t = chem::pressure_trace(data.solvents, lines->pointers, r.method, req.to.column,
+            t = chem::pressure_trace(data.solvents, lines->pointers(), r.method, req.to.column,
                                      instrument, step);
         } catch (const chem::Error& e) {
             rethrow_for_single_method(e, r.method.name);

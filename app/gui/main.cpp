@@ -9,6 +9,7 @@
 // --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
 #include "app_runner.h"
 #include "tablet_settings.h"
+#include "core/runtime_dir.h"
 
 #include <QApplication>
 #include <QtQml/qqmlextensionplugin.h>
@@ -20,6 +21,8 @@ int main(int argc, char** argv) {
     phaseplan::gui::start_clock();
     // The on-screen keyboard is an input method: chosen before Qt starts (--keyboard on|off).
     phaseplan::gui::apply_keyboard_choice(argc, argv);
+    // Without XDG_RUNTIME_DIR Qt warns on stderr at start; a private folder keeps stderr quiet.
+    const phaseplan::PrivateRuntimeDir runtime_dir;
     // Qt Charts in QML needs a QApplication (Qt Widgets), not a QGuiApplication.
     QApplication app(argc, argv);
     return phaseplan::gui::run_app(app);

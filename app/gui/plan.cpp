@@ -130,6 +130,7 @@ void Plan::restore_state() {
 
 void Plan::flushAutosave() {
     if (!dirty_ || !workspace_ || !workspace_->database()) return;
+    if (!workspace_->canSave()) return; // read-only or locked: the banner says so
     autosave_.stop();
     const FieldError e = guarded([&] {
         workspace_->database()->set_setting(current_plan_key, QJsonObject{{"name", name_}, {"document", doc_}});

@@ -58,21 +58,37 @@ bool Workspace::open() {
         const QString dir = data_dir_.isEmpty() ? find_data_dir() : data_dir_;
         data_ = load_app_data(dir); // validates the shipped files as they are
         const QString path = database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
-        first_run_ = !QFileInfo::exists(path);
-        db_ = std::make_unique<storage::Database>(path);
-        for (const char* file : shipped_library_files) {
-            const QByteArray bytes = read_all(dir + "/" + file);
-            if (!bytes.isEmpty()) db_->sync_shipped_file(QString::fromLatin1(file), bytes);
-        }
+        // The demo goes only into a new file, inside the transaction that creates it: an existing
+        // file is never seeded again, whatever its settings say.
+        db_ = std::make_unique<storage::Database>(path, -1, [this](storage::Database& db) { seed_demo(db); });
+        first_run_ = db_->created();
+        if (db_->writable())
+            for (const char* file : shipped_library_files) {
+                const QByteArray bytes = read_all(dir + "/" + file);
+                if (!bytes.isEmpty()) db_->sync_shipped_file(QString::fromLatin1(file), bytes);
+            }
         reloadLibrary();
-        if (db_->setting(QStringLiteral("demo_seeded")).isNull()) seed_demo();
+        if (!db_->writable()) qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
     } catch (const chem::Error& e) {
         error_ = QString::fromStdString(e.what());
         db_.reset();
         qWarning("PhasePlan: %s", qPrintable(error_));
     }
     emit readyChanged();
+    emit storageNoticeChanged();
     return db_ != nullptr;
+}
+
+QString Workspace::storageNotice() const {
+    if (!db_) return {};
+    QStringList parts;
+    if (!db_->writable()) parts << db_->read_only_reason();
+    QStringList aside;
+    for (const storage::SetAsideRecord& r : db_->set_aside())
+        aside << QStringLiteral("%1 \"%2\" (%3)").arg(r.source, r.name, r.reason);
+    if (!aside.isEmpty())
+        parts << tr("Too large to open, set aside in the database and not shown: %1.").arg(aside.join(QStringLiteral("; ")));
+    return parts.join(QLatin1Char(' '));
 }
 
 void Workspace::reloadLibrary() {
@@ -118,7 +134,7 @@ QVariant Workspace::setting(const QString& key) const {
 }
 
 void Workspace::setSetting(const QString& key, const QVariant& value) {
-    if (!db_) return;
+    if (!db_ || !db_->writable()) return; // the banner says that nothing is saved
     try {
         db_->set_setting(key, QJsonValue::fromVariant(value));
     } catch (const chem::Error& e) {
@@ -139,7 +155,7 @@ QJsonObject Workspace::demoDocument() const {
     return QJsonDocument::fromJson(bytes).object();
 }
 
-void Workspace::seed_demo() {
+void Workspace::seed_demo(storage::Database& db) const {
     const QJsonObject demo = demoDocument();
     std::vector<storage::SavedDocument> docs;
     if (!demo.isEmpty()) {
@@ -162,8 +178,8 @@ void Workspace::seed_demo() {
             }
         }
     }
-    db_->save_all(docs);
-    db_->set_setting(QStringLiteral("demo_seeded"), true);
+    db.save_all(docs);
+    db.set_setting(QStringLiteral("demo_seeded"), true); // read by nothing now; older versions look for it
 }
 
 } // namespace phaseplan::gui

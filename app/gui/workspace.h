@@ -34,6 +34,11 @@ class Workspace : public QObject, public QQmlParserStatus {
     Q_PROPERTY(QString libraryProblem READ libraryProblem NOTIFY libraryChanged)
     /// True when this open created the database (first run): the demo was seeded.
     Q_PROPERTY(bool firstRun READ firstRun NOTIFY readyChanged)
+    /// False when the database is read-only or locked by another program: nothing is saved.
+    Q_PROPERTY(bool canSave READ canSave NOTIFY readyChanged)
+    /// What the banner says about the database: why saving is off (with the path and who to ask),
+    /// and the records set aside as too large to read back; empty when all is well.
+    Q_PROPERTY(QString storageNotice READ storageNotice NOTIFY storageNoticeChanged)
 
 public:
     explicit Workspace(QObject* parent = nullptr);
@@ -48,6 +53,8 @@ public:
     int libraryRevision() const { return library_revision_; }
     bool firstRun() const { return first_run_; }
     QString libraryProblem() const { return library_problem_; }
+    bool canSave() const { return db_ && db_->writable(); }
+    QString storageNotice() const;
 
     /// Loads data/, opens (creating, migrating) the database, syncs the shipped library files into
     /// it, builds the merged library and seeds the demo on first run. False with errorMessage set
@@ -92,9 +99,10 @@ signals:
     void readyChanged();
     void libraryChanged();
     void savedChanged();
+    void storageNoticeChanged();
 
 private:
-    void seed_demo();
+    void seed_demo(storage::Database& db) const;
 
     QString database_path_;
     QString data_dir_;

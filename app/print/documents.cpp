@@ -706,6 +706,12 @@ QString format_datetime(const QString& iso) {
 }
 
 PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
+    // Texts that only the paper shows: held to the same limit as every text field.
+    for (const char* key : {"name", "purpose"})
+        if (input.value(key).isString())
+            json::check_text(input.value(key).toString(), key, chem::guard::max_text_chars);
+    const QJsonValue purpose = input.value("batch").toObject().value("purpose");
+    if (purpose.isString()) json::check_text(purpose.toString(), "batch.purpose", chem::guard::max_text_chars);
     const BatchDocument doc = read_batch_document(data, input);
     require_deviation_note(doc);
     if (doc.kind == "line") return line_job(data, doc, input, printed_at);

@@ -29,7 +29,7 @@ QJsonObject command_sheet(const AppData& data, const QJsonObject& input, const C
     const print::PrintJob job = print::build_print_job(data, input, now_text());
     const int pages = print::write_pdf_atomically(opt.output_path, job.title, [&](QPagedPaintDevice& d) {
         return print::render_sheet(d, job.sheet, paper);
-    });
+    }, opt.follow_symlinks);
     QJsonObject out = job.summary;
     out["output"] = opt.output_path;
     out["paper"] = print::paper_name(paper);
@@ -48,7 +48,7 @@ QJsonObject command_labels(const AppData& data, const QJsonObject& input, const 
         copies = grid.columns * grid.rows;
     const int pages = print::write_pdf_atomically(opt.output_path, job.title, [&](QPagedPaintDevice& d) {
         return print::render_labels(d, job.labels, paper, copies);
-    });
+    }, opt.follow_symlinks);
     QJsonObject out = job.summary;
     out["output"] = opt.output_path;
     out["paper"] = print::paper_name(paper);

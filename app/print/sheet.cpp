@@ -1,5 +1,17 @@
 #include "print/sheet.h"
 
+#include "chem/guard.h"
+
+#include <QFileInfo>
+
+#include <cerrno>
+#include <climits>
+#include <cstring>
+
+#include <stdlib.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
 #include "chem/error.h"
 #include "print/ghs.h"
 #include "print/qr.h"
@@ -706,10 +718,53 @@ int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Pap
     return pages;
 }
 
+namespace {
+
+/// The file to write for `-o path`, after lstat: the path itself when it is new or a regular file;
+/// a symlink's final target only with follow_symlinks. `mode` gets the old file's permission bits
+/// (-1 when new).
+QString checked_output_path(const QString& path, bool follow_symlinks, int& mode) {
+    const std::string shown = chem::guard::quote_id(path.toStdString());
+    QByteArray target = QFile::encodeName(path);
+    struct stat st {};
+    mode = -1;
+    if (::lstat(target.constData(), &st) != 0) {
+        if (errno == ENOENT) return path; // a new file
+        throw chem::Error("-o", "cannot write " + shown + ": " + std::strerror(errno));
+    }
+    if (S_ISLNK(st.st_mode)) {
+        if (!follow_symlinks)
+            throw chem::Error("-o", shown + " is a symbolic link; PhasePlan does not write through one"
+                                            " (give --follow-symlinks to write to its target)");
+        char resolved[PATH_MAX];
+        if (!::realpath(target.constData(), resolved)) {
+            // A dangling link: its target does not exist yet; write the link's own target path.
+            const QString t = QFileInfo(path).symLinkTarget();
+            if (t.isEmpty()) throw chem::Error("-o", "cannot resolve the link " + shown);
+            target = QFile::encodeName(t);
+            if (::lstat(target.constData(), &st) != 0) return t;
+        } else {
+            target = resolved;
+            if (::lstat(target.constData(), &st) != 0) return QFile::decodeName(target);
+        }
+    }
+    if (!S_ISREG(st.st_mode))
+        throw chem::Error("-o", shown + " is not a regular file (a device, FIFO, socket or folder);"
+                                        " give the path of a PDF file");
+    if (::access(target.constData(), W_OK) != 0)
+        throw chem::Error("-o", shown + " is read-only; PhasePlan does not replace it");
+    mode = static_cast<int>(st.st_mode & 07777);
+    return QFile::decodeName(target);
+}
+
+} // namespace
+
 int write_pdf_atomically(const QString& path, const QString& title,
-                         const std::function<int(QPagedPaintDevice&)>& paint) {
+                         const std::function<int(QPagedPaintDevice&)>& paint, bool follow_symlinks) {
     if (path.isEmpty()) throw chem::Error("-o", "give the PDF file to write with -o FILE");
-    QSaveFile file(path);
+    int old_mode = -1;
+    const QString target = checked_output_path(path, follow_symlinks, old_mode);
+    QSaveFile file(target);
     if (!file.open(QIODevice::WriteOnly))
         throw chem::Error("-o", "cannot write \"" + path.toStdString() + "\": " +
                                     file.errorString().toStdString());
@@ -724,6 +779,8 @@ int write_pdf_atomically(const QString& path, const QString& title,
     if (!file.commit())
         throw chem::Error("-o", "cannot write \"" + path.toStdString() + "\": " +
                                     file.errorString().toStdString());
+    // QSaveFile's new file has the default mode: a replaced file keeps its own (read-only stays so).
+    if (old_mode >= 0) ::chmod(QFile::encodeName(target).constData(), static_cast<mode_t>(old_mode));
     return pages;
 }
 

@@ -95,8 +95,11 @@ int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Pap
 /// Writes a PDF atomically: to a temporary file beside `path` (QSaveFile), renamed onto `path`
 /// only when `paint` returned. `paint` receives the writer and returns the page count. Throws
 /// chem::Error("-o", …) when the file cannot be written; on any exception no file is left behind.
+/// Writes only to a regular file or a new path: a device node, FIFO, socket or folder is refused,
+/// and so is a symbolic link unless `follow_symlinks` (then its target, which must itself be a
+/// regular file or new, is written). A replaced file keeps its permission bits.
 int write_pdf_atomically(const QString& path, const QString& title,
-                         const std::function<int(QPagedPaintDevice&)>& paint);
+                         const std::function<int(QPagedPaintDevice&)>& paint, bool follow_symlinks = false);
 
 /// Label grid on a sheet of paper: columns, rows and the label size in mm.
 struct LabelGrid {

@@ -9,7 +9,16 @@
 #include <QSqlError>
 #include <QStandardPaths>
 
+#include <QCoreApplication>
+
+#include <algorithm>
+#include <cerrno>
+#include <cstring>
 #include <map>
+
+#include <fcntl.h>
+#include <stdio.h>
+#include <unistd.h>
 
 namespace phaseplan::storage {
 
@@ -70,53 +79,266 @@ QString Database::default_path() {
     return dir + QStringLiteral("/phaseplan.sqlite");
 }
 
-Database::Database(const QString& path, int target_version)
+namespace {
+
+/// The tables every PhasePlan file has had since schema version 1 (files made before the
+/// application_id was set are recognised by them).
+const char* const marker_tables[] = {"buffers", "lines", "methods", "sequences", "settings"};
+
+QString quoted(const QString& path) { return QLatin1Char('"') + path + QLatin1Char('"'); }
+
+/// SQLite's primary result code (the low byte of an extended one).
+int primary_code(const QSqlError& e) {
+    bool ok = false;
+    const int c = e.nativeErrorCode().toInt(&ok);
+    return ok ? (c & 0xff) : -1;
+}
+bool is_busy(const QSqlError& e) { // SQLITE_BUSY, SQLITE_LOCKED
+    return primary_code(e) == 5 || primary_code(e) == 6 || e.databaseText().contains(QLatin1String("locked"));
+}
+bool is_read_only(const QSqlError& e) { // SQLITE_READONLY
+    return primary_code(e) == 8 || e.databaseText().contains(QLatin1String("readonly"));
+}
+
+QString locked_reason(const QString& path) {
+    return quoted(path) +
+           QStringLiteral(" is locked by another program (another PhasePlan, a backup or a copy tool)"
+                          " and stayed locked for %1 s: nothing you change is saved. Close the other"
+                          " program, or ask whoever uses this computer with you, then restart PhasePlan.")
+               .arg(busy_timeout_ms / 1000);
+}
+QString read_only_text(const QString& path) {
+    return quoted(path) +
+           QStringLiteral(" cannot be written (file or folder permissions, or a read-only disk): nothing"
+                          " you change is saved. Ask whoever manages this computer for write access, or"
+                          " start PhasePlan with --database on a file you can write.");
+}
+
+/// Refuses a file that is not a PhasePlan database, without writing to it.
+void check_is_phaseplan_file(const QString& path) {
+    QFileInfo fi(path);
+    if (!fi.isFile())
+        fail(quoted(path) + QStringLiteral(" is not a regular file; give a database file"));
+    const QString left = QStringLiteral("; PhasePlan left it unchanged. Give another file with --database,"
+                                        " or move this one away to start a new database.");
+    if (fi.size() == 0)
+        fail(quoted(path) + QStringLiteral(" is an empty file, not a PhasePlan database") + left);
+    QFile f(path);
+    if (!f.open(QIODevice::ReadOnly))
+        fail(QStringLiteral("cannot read ") + quoted(path) + QStringLiteral(": ") + f.errorString());
+    const QByteArray head = f.read(16);
+    f.close();
+    if (head != QByteArray("SQLite format 3\0", 16))
+        fail(quoted(path) + QStringLiteral(" is not a PhasePlan database (not an SQLite file)") + left);
+
+    const QString name = unique_connection_name();
+    QString problem;
+    {
+        QSqlDatabase probe = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), name);
+        probe.setConnectOptions(QStringLiteral("QSQLITE_OPEN_READONLY;QSQLITE_BUSY_TIMEOUT=%1").arg(busy_timeout_ms));
+        probe.setDatabaseName(path);
+        if (!probe.open()) {
+            problem = QStringLiteral(" cannot be opened: ") + probe.lastError().text();
+        } else {
+            QSqlQuery q(probe);
+            qint64 app_id = -1;
+            int version = -1;
+            QStringList tables;
+            if (q.exec(QStringLiteral("PRAGMA application_id")) && q.next()) app_id = q.value(0).toLongLong();
+            if (q.exec(QStringLiteral("PRAGMA user_version")) && q.next()) version = q.value(0).toInt();
+            if (q.exec(QStringLiteral("SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name")))
+                while (q.next()) tables << q.value(0).toString();
+            if (app_id < 0 || version < 0) {
+                problem = QStringLiteral(" is not a PhasePlan database (SQLite cannot read it: ") +
+                          q.lastError().text() + QStringLiteral(")");
+            } else if (app_id != phaseplan_application_id) {
+                bool ours = app_id == 0 && version >= 1;
+                for (const char* t : marker_tables) ours = ours && tables.contains(QLatin1String(t));
+                if (!ours) {
+                    QStringList shown = tables.mid(0, 5);
+                    if (tables.size() > 5) shown << QStringLiteral("…");
+                    problem = QStringLiteral(" is another program's SQLite database, not PhasePlan's"
+                                             " (application_id %1, tables: %2)")
+                                  .arg(QString::number(app_id),
+                                       tables.isEmpty() ? QStringLiteral("none") : shown.join(QStringLiteral(", ")));
+                }
+            }
+            probe.close();
+        }
+    }
+    QSqlDatabase::removeDatabase(name);
+    if (!problem.isEmpty()) fail(quoted(path) + problem + left);
+}
+
+} // namespace
+
+QString oversize_reason(const QString& text) {
+    if (text.size() > max_record_bytes)
+        return QStringLiteral("%1 characters of stored text, above the %2 that PhasePlan reads back")
+            .arg(QString::number(text.size()), QString::number(max_record_bytes));
+    // Below this length no array or string can pass its limit.
+    if (text.size() <= std::min(max_record_text_chars, 2 * max_record_array_items)) return {};
+    const QJsonDocument doc = QJsonDocument::fromJson(text.toUtf8());
+    QString reason;
+    std::function<void(const QJsonValue&)> walk = [&](const QJsonValue& v) {
+        if (!reason.isEmpty()) return;
+        if (v.isString() && v.toString().size() > max_record_text_chars) {
+            reason = QStringLiteral("a text of %1 characters (limit %2)")
+                         .arg(QString::number(v.toString().size()), QString::number(max_record_text_chars));
+        } else if (v.isArray()) {
+            const QJsonArray a = v.toArray();
+            if (a.size() > max_record_array_items)
+                reason = QStringLiteral("a list of %1 entries (limit %2)")
+                             .arg(QString::number(a.size()), QString::number(max_record_array_items));
+            for (const QJsonValue& e : a) walk(e);
+        } else if (v.isObject()) {
+            const QJsonObject o = v.toObject();
+            for (auto it = o.begin(); it != o.end(); ++it) {
+                if (it.key().size() > max_record_text_chars)
+                    reason = QStringLiteral("a key of %1 characters (limit %2)")
+                                 .arg(QString::number(it.key().size()), QString::number(max_record_text_chars));
+                walk(it.value());
+            }
+        }
+    };
+    walk(doc.isArray() ? QJsonValue(doc.array()) : QJsonValue(doc.object()));
+    return reason;
+}
+
+Database::Database(const QString& path, int target_version, Seed seed)
     : path_(path), connection_name_(unique_connection_name()) {
     if (path.isEmpty()) fail(QStringLiteral("no database file given"));
     QFileInfo fi(path);
     if (!QDir().mkpath(fi.absolutePath()))
-        fail(QStringLiteral("cannot create the folder \"%1\"").arg(fi.absolutePath()));
-    db_ = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), connection_name_);
-    if (!db_.isValid()) fail(QStringLiteral("the Qt SQLite driver (QSQLITE) is not installed"));
-    db_.setDatabaseName(path);
-    if (!db_.open())
-        fail(QStringLiteral("cannot open \"%1\": %2").arg(path, db_.lastError().text()));
+        fail(QStringLiteral("cannot create the folder ") + quoted(fi.absolutePath()));
+    if (target_version < 0 || target_version > latest_schema_version()) target_version = latest_schema_version();
+    if (!fi.exists() && !fi.isSymLink()) create_new(target_version, seed);
+    check_is_phaseplan_file(path_);
+    open_connection(path_, false);
     try {
         configure();
-        migrate(target_version < 0 ? latest_schema_version() : target_version);
+        probe_writable();
+        if (writable()) {
+            migrate(target_version, {});
+            set_aside_oversized();
+        } else {
+            const int version = schema_version();
+            const int latest = latest_schema_version();
+            if (version > latest)
+                fail(quoted(path_) + QStringLiteral(" has schema version %1, newer than this program's %2:"
+                                                    " use a newer PhasePlan")
+                                         .arg(QString::number(version), QString::number(latest)));
+            if (version < target_version)
+                fail(read_only_reason_ + QStringLiteral(" Its layout (schema version %1) also needs an update"
+                                                        " to version %2, which needs write access.")
+                                             .arg(QString::number(version), QString::number(target_version)));
+        }
     } catch (...) {
-        db_.close();
-        db_ = QSqlDatabase();
-        QSqlDatabase::removeDatabase(connection_name_);
+        close_connection();
         throw;
     }
 }
 
-Database::~Database() {
-    db_.close();
+void Database::open_connection(const QString& file, bool read_only) {
+    db_ = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), connection_name_);
+    if (!db_.isValid()) fail(QStringLiteral("the Qt SQLite driver (QSQLITE) is not installed"));
+    db_.setConnectOptions(QStringLiteral("QSQLITE_BUSY_TIMEOUT=%1%2")
+                              .arg(QString::number(busy_timeout_ms),
+                                   read_only ? QStringLiteral(";QSQLITE_OPEN_READONLY") : QString()));
+    db_.setDatabaseName(file);
+    if (!db_.open()) {
+        const QString why = db_.lastError().text();
+        close_connection();
+        fail(QStringLiteral("cannot open ") + quoted(file) + QStringLiteral(": ") + why);
+    }
+}
+
+void Database::close_connection() {
+    if (db_.isValid()) db_.close();
     db_ = QSqlDatabase();
     QSqlDatabase::removeDatabase(connection_name_);
 }
 
+void Database::create_new(int target_version, const Seed& seed) {
+    // Built under a name of its own, committed and closed (which checkpoints the WAL into the
+    // file), then moved to `path_` only if nothing is there: the loser of two first runs opens the
+    // winner's file, and a kill part-way leaves at most a stray ".new-" file, never a half-made
+    // database under the real name.
+    const QString temp = path_ + QStringLiteral(".new-%1-%2")
+                                     .arg(QString::number(QCoreApplication::applicationPid()),
+                                          QString::number(QDateTime::currentMSecsSinceEpoch()));
+    const QString real = path_;
+    path_ = temp;
+    try {
+        open_connection(temp, false);
+        configure();
+        migrate(target_version, seed);
+        close_connection();
+    } catch (...) {
+        close_connection();
+        QFile::remove(temp);
+        path_ = real;
+        throw;
+    }
+    path_ = real;
+    const QByteArray from = QFile::encodeName(temp), to = QFile::encodeName(real);
+    int rc = ::renameat2(AT_FDCWD, from.constData(), AT_FDCWD, to.constData(), RENAME_NOREPLACE);
+    if (rc != 0 && (errno == EINVAL || errno == ENOSYS)) { // a filesystem without it: link, unlink
+        rc = ::link(from.constData(), to.constData());
+        if (rc == 0) ::unlink(from.constData());
+    }
+    if (rc != 0) {
+        const int err = errno;
+        QFile::remove(temp);
+        if (err != EEXIST)
+            fail(QStringLiteral("cannot create ") + quoted(real) + QStringLiteral(": ") +
+                 QString::fromLocal8Bit(std::strerror(err)));
+        return; // another first run made it first: open theirs
+    }
+    for (const char* suffix : {"-wal", "-shm"}) QFile::remove(temp + QLatin1String(suffix));
+    created_ = true;
+}
+
+Database::~Database() { close_connection(); }
+
 QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const {
     QSqlQuery q(db_);
-    if (!q.prepare(sql))
-        fail(QStringLiteral("cannot prepare \"%1\": %2").arg(sql.left(80), q.lastError().text()));
+    if (!q.prepare(sql)) {
+        if (is_busy(q.lastError())) fail(locked_reason(path_));
+        fail(QStringLiteral("cannot prepare \"") + sql.left(80) + QStringLiteral("\": ") + q.lastError().text());
+    }
     for (const QVariant& b : bindings) q.addBindValue(b);
-    if (!q.exec())
-        fail(QStringLiteral("\"%1\" failed: %2").arg(sql.left(80), q.lastError().text()));
+    if (!q.exec()) {
+        if (is_busy(q.lastError())) fail(locked_reason(path_));
+        if (is_read_only(q.lastError())) fail(read_only_text(path_));
+        fail(QStringLiteral("\"") + sql.left(80) + QStringLiteral("\" failed: ") + q.lastError().text());
+    }
     return q;
 }
 
 void Database::configure() {
+    exec(QStringLiteral("PRAGMA busy_timeout=%1").arg(busy_timeout_ms));
     // A file that is not SQLite fails here, on the first read.
     QSqlQuery mode = exec(QStringLiteral("PRAGMA journal_mode=WAL"));
     if (!mode.next() || mode.value(0).toString().compare(QLatin1String("wal"), Qt::CaseInsensitive))
-        fail(QStringLiteral("\"%1\" cannot use a write-ahead log (is it on a network drive?)").arg(path_));
+        fail(quoted(path_) + QStringLiteral(" cannot use a write-ahead log (is it on a network drive?)"));
     // FULL: a commit is on disk before save() returns, even across a power cut.
     exec(QStringLiteral("PRAGMA synchronous=FULL"));
     exec(QStringLiteral("PRAGMA foreign_keys=ON"));
-    exec(QStringLiteral("PRAGMA busy_timeout=5000"));
+}
+
+void Database::probe_writable() {
+    // Take the write lock once, as every save will: a read-only file or a lock that another
+    // program holds past busy_timeout is found here, at start, not at the first save.
+    QSqlQuery q(db_);
+    if (q.exec(QStringLiteral("BEGIN IMMEDIATE"))) {
+        QSqlQuery(db_).exec(QStringLiteral("ROLLBACK"));
+        if (::access(QFile::encodeName(path_).constData(), W_OK) != 0) read_only_reason_ = read_only_text(path_);
+        return;
+    }
+    if (is_busy(q.lastError())) read_only_reason_ = locked_reason(path_);
+    else if (is_read_only(q.lastError())) read_only_reason_ = read_only_text(path_);
+    else fail(QStringLiteral("cannot write ") + quoted(path_) + QStringLiteral(": ") + q.lastError().text());
 }
 
 int Database::schema_version() const {
@@ -129,44 +351,108 @@ QString Database::journal_mode() const {
     return q.next() ? q.value(0).toString().toLower() : QString();
 }
 
-void Database::migrate(int target_version) {
+void Database::migrate(int target_version, const Seed& seed) {
     const int latest = latest_schema_version();
     if (target_version > latest) target_version = latest;
+    // The version is read under the write lock: a second program starting at the same moment
+    // waits here and then sees the finished schema.
+    Transaction t(*this);
     int version = schema_version();
     if (version > latest)
-        fail(QStringLiteral("\"%1\" has schema version %2, newer than this program's %3: use a "
-                            "newer PhasePlan")
-                 .arg(path_)
-                 .arg(version)
-                 .arg(latest));
+        fail(quoted(path_) + QStringLiteral(" has schema version %1, newer than this program's %2: use a "
+                                            "newer PhasePlan")
+                                 .arg(QString::number(version), QString::number(latest)));
     for (const Migration& step : migrations()) {
         if (step.version <= version || step.version > target_version) continue;
-        Transaction t(*this);
         step.apply(*this);
         exec(QStringLiteral("PRAGMA user_version = %1").arg(step.version));
-        t.commit();
         version = step.version;
     }
+    QSqlQuery id = exec(QStringLiteral("PRAGMA application_id"));
+    if (!id.next() || id.value(0).toLongLong() != phaseplan_application_id)
+        exec(QStringLiteral("PRAGMA application_id = %1").arg(phaseplan_application_id));
+    if (seed) seed(*this);
+    t.commit(); // nothing written when the file was up to date: no sync at an ordinary start
+}
+
+std::optional<QString> Database::bounded(const QString& source, const QString& name, const QString& text) const {
+    const QString reason = oversize_reason(text);
+    if (reason.isEmpty()) return text;
+    bool noted = false;
+    for (const SetAsideRecord& r : set_aside_) noted = noted || (r.source == source && r.name == name.left(80));
+    if (!noted) set_aside_.push_back({source, name.left(80), reason});
+    return std::nullopt;
+}
+
+void Database::set_aside_oversized() {
+    if (!db_.tables().contains(QStringLiteral("set_aside"))) return; // an old schema built by a test
+    struct Found {
+        QString table, key_column, name, reason;
+    };
+    std::vector<Found> found;
+    const QString floor = QString::number(std::min(max_record_text_chars, 2 * max_record_array_items));
+    auto scan = [&](const QString& table, const QString& key, const QString& value) {
+        QSqlQuery q = exec(QStringLiteral("SELECT %1, %2, length(%1) FROM %3 WHERE length(%2) > %4 OR length(%1) > %5")
+                               .arg(key, value, table, floor, QString::number(max_name_chars)));
+        while (q.next()) {
+            const QString name = q.value(0).toString();
+            QString reason = q.value(2).toLongLong() > max_name_chars
+                                 ? QStringLiteral("a name of %1 characters (limit %2)")
+                                       .arg(q.value(2).toString(), QString::number(max_name_chars))
+                                 : oversize_reason(q.value(1).toString());
+            if (!reason.isEmpty()) found.push_back({table, key, name, reason});
+        }
+    };
+    for (DocumentKind k : all_document_kinds)
+        scan(QLatin1String(table_of(k)), QStringLiteral("name"), QStringLiteral("document"));
+    scan(QStringLiteral("settings"), QStringLiteral("key"), QStringLiteral("value"));
+    if (found.empty()) return;
+    Transaction t(*this);
+    for (const Found& f : found) {
+        const QString value = f.table == QLatin1String("settings") ? QStringLiteral("value") : QStringLiteral("document");
+        exec(QStringLiteral("INSERT INTO set_aside (source, name, content, reason, set_aside_at)"
+                            " SELECT ?, %1, %2, ?, ? FROM %3 WHERE %1 = ?")
+                 .arg(f.key_column, value, f.table),
+             {f.table, f.reason, now_utc(), f.name});
+        exec(QStringLiteral("DELETE FROM %1 WHERE %2 = ?").arg(f.table, f.key_column), {f.name});
+    }
+    t.commit();
+    for (const Found& f : found) set_aside_.push_back({f.table, f.name.left(80), f.reason});
 }
 
 // ---- transactions ---------------------------------------------------------------------------
 
 Database::Transaction::Transaction(Database& db) : db_(db) {
+    if (!db_.writable()) throw chem::Error("database", db_.read_only_reason_.toStdString());
+    depth_ = db_.transaction_depth_ + 1;
     // IMMEDIATE takes the write lock now, so a second writer waits (busy_timeout) instead of
-    // failing half-way through.
-    db_.exec(QStringLiteral("BEGIN IMMEDIATE"));
+    // failing half-way through. Inside another transaction (the seed inside the creating one) it
+    // is a savepoint.
+    if (depth_ == 1) db_.exec(QStringLiteral("BEGIN IMMEDIATE"));
+    else db_.exec(QStringLiteral("SAVEPOINT nested_%1").arg(depth_));
+    db_.transaction_depth_ = depth_;
 }
 
 Database::Transaction::~Transaction() {
     if (done_) return;
-    QSqlQuery q(db_.db_);
-    q.exec(QStringLiteral("ROLLBACK")); // no throw from a destructor
+    QSqlQuery q(db_.db_); // no throw from a destructor
+    if (depth_ == 1) q.exec(QStringLiteral("ROLLBACK"));
+    else {
+        q.exec(QStringLiteral("ROLLBACK TO nested_%1").arg(depth_));
+        q.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
+    }
+    db_.transaction_depth_ = depth_ - 1;
 }
 
 void Database::Transaction::commit() {
-    if (db_.before_commit_) db_.before_commit_();
-    db_.exec(QStringLiteral("COMMIT"));
+    if (depth_ == 1) {
+        if (db_.before_commit_) db_.before_commit_();
+        db_.exec(QStringLiteral("COMMIT"));
+    } else {
+        db_.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
+    }
     done_ = true;
+    db_.transaction_depth_ = depth_ - 1;
 }
 
 // ---- saved work -----------------------------------------------------------------------------
@@ -175,6 +461,9 @@ void Database::upsert_document(const SavedDocument& d, const QString& now) {
     const QString name = d.name.trimmed();
     if (name.isEmpty()) throw chem::Error("name", "a saved " + kind_name(d.kind).toStdString() +
                                                       " needs a name");
+    if (name.size() > max_name_chars)
+        throw chem::Error("name", "a name of " + std::to_string(name.size()) + " characters is too long (at most " +
+                                      std::to_string(max_name_chars) + ")");
     exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at)"
                         " VALUES (?, ?, ?, ?, ?)"
                         " ON CONFLICT (name) DO UPDATE SET document = excluded.document,"
@@ -200,13 +489,16 @@ std::optional<QJsonObject> Database::load(DocumentKind kind, const QString& name
                            .arg(QLatin1String(table_of(kind))),
                        {name.trimmed()});
     if (!q.next()) return std::nullopt;
-    return from_text(q.value(0).toString());
+    const auto text = bounded(QLatin1String(table_of(kind)), name.trimmed(), q.value(0).toString());
+    if (!text) return std::nullopt;
+    return from_text(*text);
 }
 
 std::vector<DocumentInfo> Database::list_where(DocumentKind kind) const {
     QSqlQuery q = exec(QStringLiteral("SELECT name, note, created_at, updated_at FROM %1"
-                                      " ORDER BY updated_at DESC, name")
-                           .arg(QLatin1String(table_of(kind))));
+                                      " WHERE length(name) <= %2 ORDER BY updated_at DESC, name LIMIT %3")
+                           .arg(QLatin1String(table_of(kind)), QString::number(max_name_chars),
+                                QString::number(max_record_array_items)));
     std::vector<DocumentInfo> out;
     while (q.next())
         out.push_back({kind, q.value(0).toString(), q.value(1).toString(),
@@ -273,7 +565,9 @@ void Database::set_setting(const QString& key, const QJsonValue& value) {
 QJsonValue Database::setting(const QString& key) const {
     QSqlQuery q = exec(QStringLiteral("SELECT value FROM settings WHERE key = ?"), {key});
     if (!q.next()) return QJsonValue::Null;
-    return QJsonDocument::fromJson(q.value(0).toString().toUtf8()).array().at(0);
+    const auto text = bounded(QStringLiteral("settings"), key, q.value(0).toString());
+    if (!text) return QJsonValue::Null;
+    return QJsonDocument::fromJson(text->toUtf8()).array().at(0);
 }
 
 // ---- library --------------------------------------------------------------------------------

@@ -61,13 +61,48 @@ struct LibraryEntry {
     QDateTime updated_at;   ///< UTC
 };
 
+/// PRAGMA application_id of a PhasePlan file ("PhPl").
+inline constexpr qint32 phaseplan_application_id = 0x5068506c;
+
+/// Limits on what is read back from the file (a record over them is set aside, not replayed):
+/// the stored JSON text of one record, the entries of any one array in it, the characters of any
+/// one string in it, and the characters of a saved document's name.
+inline constexpr qsizetype max_record_bytes = 2 * 1024 * 1024;
+inline constexpr qsizetype max_record_array_items = 5000;
+inline constexpr qsizetype max_record_text_chars = 10000;
+inline constexpr qsizetype max_name_chars = 200;
+/// How long a save waits for another program's write lock before it says so (busy_timeout).
+inline constexpr int busy_timeout_ms = 3000;
+
+/// Why a stored JSON text is not read back (over one of the limits above), or empty when it fits.
+QString oversize_reason(const QString& json_text);
+
+/// A record that was not read back because it is over the limits (moved to the set_aside table
+/// when the file is writable).
+struct SetAsideRecord {
+    QString source; ///< "sequences", "settings", … (the table)
+    QString name;   ///< its name or key (cut to 80 characters)
+    QString reason; ///< oversize_reason()
+};
+
 class Database {
 public:
+    /// Called once, inside the transaction that creates a new file, to fill it (the demo).
+    using Seed = std::function<void(Database&)>;
+
     /// Opens the file, creating it (and its folder) when absent, sets WAL and migrates the schema
     /// to `target_version` (the latest by default; tests pass an older one to build an old file).
-    /// Throws chem::Error("database", …) when the file cannot be opened, is not a database, or has
+    /// A new file is built under a temporary name with its schema and `seed` in one transaction and
+    /// then moved into place without replacing anything, so two first runs cannot race and a kill
+    /// never leaves a half-made file; `seed` never runs on an existing file.
+    /// An existing file must be a PhasePlan database (application_id, or the tables of an older
+    /// PhasePlan): anything else (another program's SQLite file, an empty file, not SQLite) is
+    /// refused and left byte-identical. A file that cannot be written (permissions) or whose write
+    /// lock another program holds past busy_timeout_ms is opened read-only: writable() is false
+    /// and read_only_reason() says why, with the path.
+    /// Throws chem::Error("database", …) when the file cannot be opened, is not PhasePlan's, or has
     /// a schema newer than this program knows.
-    explicit Database(const QString& path, int target_version = -1);
+    explicit Database(const QString& path, int target_version = -1, Seed seed = {});
     ~Database();
     Database(const Database&) = delete;
     Database& operator=(const Database&) = delete;
@@ -76,6 +111,14 @@ public:
     static QString default_path();
 
     QString path() const { return path_; }
+    /// True when this constructor created the file (and ran the seed).
+    bool created() const { return created_; }
+    /// False when the file is read-only or locked by another program: every write throws.
+    bool writable() const { return read_only_reason_.isEmpty(); }
+    /// Why saving is off, naming the file and who to ask; empty when writable.
+    QString read_only_reason() const { return read_only_reason_; }
+    /// Records over the read-back limits, set aside at open or skipped when read.
+    const std::vector<SetAsideRecord>& set_aside() const { return set_aside_; }
     /// PRAGMA user_version of the open file.
     int schema_version() const;
     /// PRAGMA journal_mode ("wal").
@@ -144,6 +187,7 @@ public:
     private:
         Database& db_;
         bool done_ = false;
+        int depth_ = 0; ///< 1 for the outermost (BEGIN IMMEDIATE); more is a SAVEPOINT
     };
 
     /// Runs one statement with positional bindings; throws chem::Error("database", …) naming the
@@ -151,8 +195,15 @@ public:
     QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
 
 private:
+    void open_connection(const QString& file, bool read_only);
+    void close_connection();
     void configure();
-    void migrate(int target_version);
+    void probe_writable();
+    void migrate(int target_version, const Seed& seed);
+    void create_new(int target_version, const Seed& seed);
+    void set_aside_oversized();
+    /// The record's text when it fits the limits, else nothing (and noted in set_aside_).
+    std::optional<QString> bounded(const QString& source, const QString& name, const QString& text) const;
     void upsert_document(const SavedDocument& d, const QString& now);
     std::vector<DocumentInfo> list_where(DocumentKind kind) const;
 
@@ -160,6 +211,10 @@ private:
     QString connection_name_;
     QSqlDatabase db_;
     std::function<void()> before_commit_;
+    QString read_only_reason_;
+    bool created_ = false;
+    int transaction_depth_ = 0;
+    mutable std::vector<SetAsideRecord> set_aside_;
 };
 
 /// The schema steps (app/storage/migrations.cpp). Step i brings the file from version i to i+1.

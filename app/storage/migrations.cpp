@@ -5,8 +5,9 @@
 //      ({4, "batches and their append-only history", [](Database& db) { db.exec("CREATE …"); }}).
 //   2. Never edit or reorder a step that has shipped: files in the field are at that version
 //      already and will only run the steps after it.
-//   3. A step runs inside its own transaction together with `PRAGMA user_version = <version>`,
-//      so a failure (or a kill) leaves the file at the previous version, unchanged.
+//   3. All pending steps run inside one BEGIN IMMEDIATE transaction together with
+//      `PRAGMA user_version` (read under that lock), so a failure (or a kill) leaves the file at
+//      its previous version, unchanged, and two programs opening it at once cannot both migrate.
 //   4. Add a case to tests/tst_storage.cpp (migrate_from_older) that builds a file at the previous
 //      version with Database(path, version - 1), fills it, and reopens it at the latest.
 // Opening a file whose version is newer than the last step is refused (an older program must not
@@ -92,6 +93,12 @@ const std::vector<Migration>& migrations() {
             "container, deviation note with who and when",
          [](Database& db) {
              for (const QString& sql : batch_schema_bench_statements()) db.exec(sql);
+         }},
+        {7, "records over the read-back limits, set aside at open and named (never replayed)",
+         [](Database& db) {
+             db.exec("CREATE TABLE set_aside ("
+                     " id INTEGER PRIMARY KEY, source TEXT NOT NULL, name TEXT NOT NULL,"
+                     " content TEXT NOT NULL, reason TEXT NOT NULL, set_aside_at TEXT NOT NULL)");
          }},
         // Append new steps here (see the comment at the top of this file).
     };
