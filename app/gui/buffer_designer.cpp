@@ -202,12 +202,16 @@ QString BufferDesigner::duplicateBuffer(const QString& wanted) {
         auto_name_ = was_auto;
         return e.message;
     }
+    announce_buffer_change();
+    return {};
+}
+
+void BufferDesigner::announce_buffer_change() {
     rebuild_buffer_list();
     remember_current();
     emit inputsChanged();
     emit bufferChanged();
     workspace_->notifySaved();
-    return {};
 }
 
 QString BufferDesigner::renameBuffer(const QString& wanted) {
@@ -238,11 +242,7 @@ QString BufferDesigner::renameBuffer(const QString& wanted) {
     dirty_ = true;
     flushAutosave();
     if (plan_) plan_->renameBufferRefs(old, name, requestDocument());
-    rebuild_buffer_list();
-    remember_current();
-    emit inputsChanged();
-    emit bufferChanged();
-    workspace_->notifySaved();
+    announce_buffer_change();
     return {};
 }
 

@@ -286,6 +286,9 @@ private:
     /// A name not yet taken: `wanted`, else "wanted (2)", "wanted (3)", …
     QString free_name(const QString& wanted) const;
     void remember_current();
+    /// After the open buffer was made, renamed or replaced: the list, the remembered name, the
+    /// views and the saved-work list hear of it.
+    void announce_buffer_change();
 
     QPointer<Workspace> workspace_;
     QPointer<Plan> plan_;
