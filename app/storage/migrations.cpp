@@ -93,6 +93,11 @@ const std::vector<Migration>& migrations() {
          [](Database& db) {
              for (const QString& sql : batch_schema_bench_statements()) db.exec(sql);
          }},
+        {7, "values taken from the instruments: the pH meter's capture record (the balance's is kept "
+            "with each actual amount)",
+         [](Database& db) {
+             for (const QString& sql : batch_schema_capture_statements()) db.exec(sql);
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;
