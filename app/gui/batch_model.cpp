@@ -608,7 +608,7 @@ bool BatchModel::setActual(int row, double amount) {
         const QJsonValue old = cur.value(key);
         const bool same = !std::isnan(amount) && old.isDouble() && old.toDouble() == amount;
         if (cur.contains("capture")) {
-            if (same) return true;
+            if (same) return set_error({}), true;
             set_error({QStringLiteral("batch.actual[%1].%2").arg(i).arg(key), by_hand_message(cur.value("capture").toObject())});
             emit dataChanged(index(row), index(row), {ActualRole});
             return false;
