@@ -195,10 +195,10 @@ for comp in recipe["composition"]:
 check(fmt_amount(items[salt]["mass_g"] * 0.98) + "–" + fmt_amount(items[salt]["mass_g"] * 1.02) in flat,
       "salt tolerance band ± 2 %")
 # Actual amounts and their flags.
-check(re.search(re.escape(fmt_amount(salt_actual)) + r" g SP-2207 OUT \+2\.5 %", flat) is not None,
-      "salt actual %s g, lot, flagged OUT +2.5 %%" % fmt_amount(salt_actual))
-check(re.search(re.escape(fmt_amount(acid_actual)) + r" mL PA-88121 OK \+0\.[45] %", flat) is not None,
-      "acid actual %s mL, lot, within tolerance: OK" % fmt_amount(acid_actual))
+check(re.search(re.escape(fmt_amount(salt_actual)) + r" g typed SP-2207 OUT \+2\.5 %", flat) is not None,
+      "salt actual %s g, typed, lot, flagged OUT +2.5 %%" % fmt_amount(salt_actual))
+check(re.search(re.escape(fmt_amount(acid_actual)) + r" mL typed PA-88121 OK \+0\.[45] %", flat) is not None,
+      "acid actual %s mL, typed, lot, within tolerance: OK" % fmt_amount(acid_actual))
 # Predicted as planned: the `recipe` subcommand's numbers.
 check("%.2f" % recipe["ph"] in flat, "planned pH %.2f" % recipe["ph"])
 check(fmt_mmol(recipe["ionic_strength_mol_per_l"]) in flat, "planned ionic strength " + fmt_mmol(recipe["ionic_strength_mol_per_l"]))

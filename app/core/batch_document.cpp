@@ -7,6 +7,7 @@
 #include "core/json_util.h"
 #include "core/line_commands.h"
 
+#include <QDateTime>
 #include <QDir>
 #include <QFile>
 #include <QJsonDocument>
@@ -543,12 +544,95 @@ QString part_display_name(const AppData& data, const std::string& id) {
     return qs(id);
 }
 
+QString capture_source_text(const QJsonObject& c) {
+    if (c.isEmpty()) return QStringLiteral("typed");
+    const QString kind = c.value("device_kind").toString();
+    const QString what = kind == QLatin1String("ph_meter") ? QStringLiteral("pH meter")
+                         : kind == QLatin1String("balance") ? QStringLiteral("balance")
+                                                            : QStringLiteral("instrument");
+    return "from " + what + " " + c.value("device_id").toString();
+}
+
+namespace {
+
+/// A capture record's shape (the store checks the same); throws chem::Error naming the field.
+QJsonObject read_capture(const QJsonValue& v, const std::string& at) {
+    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
+    const QJsonObject c = v.toObject();
+    for (const char* k : {"device_id", "raw", "received_at"})
+        if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
+            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
+    for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
+        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
+    for (const char* k : {"stable", "accepted_unstable"})
+        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
+    return c;
+}
+
+/// The caution for a value taken from an instrument that was past its calibration-due date on
+/// the day of the reading; nullopt when it was not (or no date is recorded).
+std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& what) {
+    const QDate due = QDate::fromString(c.value("calibration_due").toString(), Qt::ISODate);
+    if (!due.isValid()) return std::nullopt;
+    const QDateTime at = QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs);
+    const QDate day = at.isValid() ? at.toLocalTime().date() : QDate::currentDate();
+    if (due > day) return std::nullopt;
+    return QJsonObject{{"code", "device-calibration-due"},
+                       {"severity", "caution"},
+                       {"device", c.value("device_id").toString()},
+                       {"calibration_due", due.toString(Qt::ISODate)},
+                       {"message", what + " was taken " + capture_source_text(c) + ", which was due for calibration on " +
+                                       due.toString(Qt::ISODate)}};
+}
+
+/// Reads the capture records of `input`'s batch into `d`, marks the summary's checks with them
+/// and adds a caution for each instrument past its calibration date.
+void read_captures(const AppData& data, const QJsonObject& input, BatchDocument& d) {
+    const QJsonObject b = input.value("batch").toObject();
+    const QJsonArray actual = b.value("actual").toArray();
+    QJsonArray cautions;
+    for (int i = 0; i < actual.size(); ++i) {
+        const QJsonObject e = actual[i].toObject();
+        if (!e.contains("capture") || e.value("capture").isNull()) continue;
+        const QJsonObject c = read_capture(e.value("capture"), "batch.actual[" + std::to_string(i) + "].capture");
+        QString reagent = e.value("reagent").toString();
+        if (reagent.startsWith("buffer.")) reagent = reagent.mid(7);
+        d.captures[reagent] = c;
+        if (auto w = capture_caution(c, "The amount of " + part_display_name(data, reagent.toStdString()))) cautions.append(*w);
+    }
+    if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
+        d.ph_capture = read_capture(b.value("measured_ph_capture"), "batch.measured_ph_capture");
+        if (!b.value("measured_ph").isDouble())
+            throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
+        if (auto w = capture_caution(d.ph_capture, QStringLiteral("The measured pH"))) cautions.append(*w);
+    }
+    if (d.captures.isEmpty() && d.ph_capture.isEmpty()) return;
+    QJsonObject sb = d.summary.value("batch").toObject();
+    QJsonArray checks = sb.value("checks").toArray();
+    for (int i = 0; i < checks.size(); ++i) {
+        QJsonObject c = checks[i].toObject();
+        const QString r = c.value("reagent").toString();
+        if (c.value("entered").toBool() && d.captures.contains(r)) {
+            c["capture"] = d.captures.value(r);
+            checks[i] = c;
+        }
+    }
+    if (!checks.isEmpty()) sb["checks"] = checks;
+    if (!d.ph_capture.isEmpty()) sb["measured_ph_capture"] = d.ph_capture;
+    d.summary["batch"] = sb;
+    for (const QJsonValue& w : cautions) d.warnings.append(w);
+    d.summary["warnings"] = d.warnings;
+}
+
+} // namespace
+
 BatchDocument read_batch_document(const AppData& data, const QJsonObject& input) {
     BatchDocument d;
     d.kind = batch_document_kind(input);
     if (d.kind == "line") read_line(data, input, d);
     else if (d.kind == "sequence") read_sequence(data, input, d);
     else read_recipe(data, input, d);
+    read_captures(data, input, d);
     return d;
 }
 

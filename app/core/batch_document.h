@@ -14,7 +14,10 @@
 //   "measured_ph" (the meter's reading at the recipe temperature), "ph_tolerance" (± pH units,
 //   default 0.05), "ph_meter_id", "balance_id", "comment", "container_ml" (the largest volume the
 //   vessel holds, for the correction), "deviation": {"note", "by", "at"} (why an
-//   out-of-tolerance batch is still used, who wrote it, when).
+//   out-of-tolerance batch is still used, who wrote it, when), "actual[i].capture" and
+//   "measured_ph_capture" (a value taken from a balance or the pH meter: {"device_id", "raw",
+//   "received_at", "device_kind", "device_name", "stable", "accepted_unstable",
+//   "calibration_due", "calibration_caution"}; absent = typed).
 // For a line, "reagent" in "actual" may also name a part (a solvent id or "buffer") or an
 // additive id.
 #include "chem/batch.h"
@@ -103,6 +106,12 @@ struct BatchDocument {
     /// The correction in words, one instruction a line.
     QStringList correction_text;
 
+    /// Values taken from instruments: the "capture" record of each captured actual amount, by the
+    /// reagent (or part) id the check names; and the pH meter's record ({} = typed). See
+    /// storage::BatchRecord for the fields.
+    QJsonObject captures;
+    QJsonObject ph_capture;
+
     /// The JSON summary of `phaseplan-cli sheet`: {"document", "title", "batch": {…}, "warnings"}.
     QJsonObject summary;
 };
@@ -110,6 +119,9 @@ struct BatchDocument {
 /// Validates everything and evaluates the batch. Throws chem::Error naming the field (the same
 /// fields and messages as the `recipe`, `line` and `sequence` subcommands, plus the batch's).
 BatchDocument read_batch_document(const AppData& data, const QJsonObject& input);
+
+/// "from balance BAL-03" / "from pH meter PH-01" for a capture record, "typed" for {}.
+QString capture_source_text(const QJsonObject& capture);
 
 /// Throws chem::Error("batch.deviation.note", …) when the batch is out of tolerance and has no
 /// deviation note: it may be neither printed nor used without one.

@@ -26,6 +26,12 @@ QVariant json_to_variant(const QJsonValue& v) { return v.isNull() || v.isUndefin
 
 const QString pdf_folder_key = QStringLiteral("batch/pdfFolder");
 
+/// The message beside a captured field changed without a reason.
+QString by_hand_message(const QJsonObject& capture) {
+    return QObject::tr("was taken %1: give a reason to change it by hand (it is then recorded as typed)")
+        .arg(capture_source_text(capture));
+}
+
 /// About four significant figures, as the sheet prints amounts.
 QString amount_words(double v) {
     if (v == 0) return QStringLiteral("0");
@@ -366,6 +372,11 @@ void BatchModel::setMeasuredPh(double v) {
     if (!draft_) return;
     const std::optional<double> next_v = std::isnan(v) ? std::nullopt : std::optional<double>(v);
     if (draft_->measured_ph == next_v) return;
+    if (!draft_->ph_capture.isEmpty()) {
+        set_error({QStringLiteral("batch.measured_ph"), by_hand_message(draft_->ph_capture)});
+        emit batchChanged(); // the field shows the captured value again
+        return;
+    }
     auto next = *draft_;
     next.measured_ph = next_v;
     apply(QStringLiteral("batch.measured_ph"), next);
@@ -427,11 +438,12 @@ bool BatchModel::recordDeviation(const QString& note_in) {
 }
 
 QString BatchModel::history_label(const QString& field) const {
-    static const QRegularExpression actual(QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot)$"));
+    static const QRegularExpression actual(QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot|capture)$"));
     const auto m = actual.match(field);
     if (m.hasMatch()) {
         const QString name = workspace_ ? part_display_name(workspace_->data(), m.captured(1).toStdString())
                                         : m.captured(1);
+        if (m.captured(2) == QLatin1String("capture")) return tr("Source of the actual amount of %1").arg(name);
         return m.captured(2) == QLatin1String("lot") ? tr("Lot of %1").arg(name) : tr("Actual amount of %1").arg(name);
     }
     static const std::map<QString, const char*> labels = {
@@ -443,6 +455,7 @@ QString BatchModel::history_label(const QString& field) const {
         {"checked_by", QT_TR_NOOP("Checked by")},
         {"tolerance_percent", QT_TR_NOOP("Tolerance of each amount")},
         {"measured_ph", QT_TR_NOOP("Measured pH")},
+        {"measured_ph_capture", QT_TR_NOOP("Source of the measured pH")},
         {"ph_tolerance", QT_TR_NOOP("pH tolerance")},
         {"ph_meter_id", QT_TR_NOOP("pH meter")},
         {"balance_id", QT_TR_NOOP("Balance")},
@@ -458,6 +471,16 @@ QString BatchModel::history_label(const QString& field) const {
 }
 
 QString BatchModel::history_value(const QString& field, const QJsonValue& v) const {
+    if (field.endsWith(QLatin1String("capture"))) {
+        if (!v.isObject()) return tr("typed");
+        const QJsonObject c = v.toObject();
+        QString text = capture_source_text(c) + tr(" (sent \"%1\" at %2)")
+                                                    .arg(c.value("raw").toString(),
+                                                         QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs)
+                                                             .toLocalTime().toString(QStringLiteral("yyyy-MM-dd HH:mm:ss")));
+        if (c.value("accepted_unstable").toBool()) text += tr(", accepted while not settled");
+        return text;
+    }
     if (v.isNull() || v.isUndefined()) return QStringLiteral("–");
     if (field == QLatin1String("document")) return tr("the recipe as marked prepared");
     if (field.endsWith(QLatin1String(".mass_g"))) return amount_words(v.toDouble()) + " g";
@@ -472,12 +495,125 @@ QString BatchModel::history_value(const QString& field, const QJsonValue& v) con
     return v.toString();
 }
 
+QString BatchModel::measuredPhSource() const {
+    if (!draft_ || !draft_->measured_ph) return {};
+    return capture_source_text(draft_->ph_capture);
+}
+
+QJsonObject BatchModel::actual_entry(int row) const {
+    if (!draft_ || row < 0 || row >= int(rows_.size())) return {};
+    const int i = actual_index(rows_[size_t(row)].reagent);
+    return i < 0 ? QJsonObject{} : draft_->actual[i].toObject();
+}
+
+bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord& next, const QString& reason) {
+    auto st = store();
+    if (!st || !draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (reason.trimmed().isEmpty())
+        return set_error({field, tr("give a reason for changing a value taken from an instrument by hand")}), false;
+    FieldError e = evaluate(next);
+    if (e.empty()) e = guarded([&] { st->amend(next.id, next, who(), reason.trimmed()); });
+    if (!e.empty()) {
+        evaluate(*draft_);
+        set_error({e.field == QLatin1String("reason") ? field : e.field, e.message});
+        return false;
+    }
+    draft_ = next;
+    pending_ = false;
+    reload(next.id);
+    set_error({});
+    emit batchChanged();
+    return true;
+}
+
+bool BatchModel::applyCapture(const QVariantMap& c) {
+    const QString target = c.value("target").toString();
+    const QJsonObject record = QJsonObject::fromVariantMap(c.value("record").toMap());
+    const QString kind = c.value("deviceKind").toString();
+    const double value = c.value("value").toDouble();
+    if (!draft_) return set_error({target, tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (target == QLatin1String("batch.measured_ph")) {
+        if (kind != QLatin1String("ph_meter"))
+            return set_error({target, tr("a pH is taken from a pH meter, not from %1").arg(capture_source_text(record).mid(5))}), false;
+        auto next = *draft_;
+        next.measured_ph = value;
+        next.ph_capture = record;
+        next.ph_meter_id = c.value("deviceId").toString();
+        return apply(target, next);
+    }
+    static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]\\.mass_g$"));
+    const auto m = re.match(target);
+    const int row = m.hasMatch() ? m.captured(1).toInt() : -1;
+    if (row < 0 || row >= int(rows_.size()))
+        return set_error({target, tr("no amount row for this reading")}), false;
+    const Row& r = rows_[size_t(row)];
+    if (r.unit != QLatin1String("g"))
+        return set_error({target, tr("%1 is measured by volume: take it from the balance only when it is weighed").arg(r.name)}), false;
+    if (kind != QLatin1String("balance"))
+        return set_error({target, tr("an amount is taken from a balance, not from %1").arg(capture_source_text(record).mid(5))}), false;
+    auto next = *draft_;
+    QJsonObject entry{{"reagent", r.reagent}, {"mass_g", value}, {"capture", record}};
+    const QString lot = lots_.count(r.reagent) ? lots_[r.reagent] : QString();
+    if (!lot.isEmpty()) entry["lot"] = lot;
+    int i = actual_index(r.reagent);
+    if (i < 0) {
+        i = int(next.actual.size());
+        next.actual.append(entry);
+    } else {
+        next.actual[i] = entry;
+    }
+    if (next.balance_id.isEmpty()) next.balance_id = c.value("deviceId").toString();
+    return apply(QStringLiteral("batch.actual[%1].mass_g").arg(i), next);
+}
+
+bool BatchModel::setActualByHand(int row, double amount, const QString& reason) {
+    if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
+    const Row& r = rows_[size_t(row)];
+    const int i = actual_index(r.reagent);
+    const QString key = r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
+    const QString field = QStringLiteral("batch.actual[%1].%2").arg(i < 0 ? int(draft_->actual.size()) : i).arg(key);
+    if (i < 0 || !draft_->actual[i].toObject().contains("capture")) return setActual(row, amount);
+    auto next = *draft_;
+    if (std::isnan(amount)) {
+        next.actual.removeAt(i);
+    } else {
+        QJsonObject entry = next.actual[i].toObject();
+        entry.remove("capture");
+        entry[key] = amount;
+        next.actual[i] = entry;
+    }
+    return apply_by_hand(field, next, reason);
+}
+
+bool BatchModel::setMeasuredPhByHand(double v, const QString& reason) {
+    if (!draft_) return false;
+    if (draft_->ph_capture.isEmpty()) {
+        setMeasuredPh(v);
+        return error_.empty();
+    }
+    auto next = *draft_;
+    next.measured_ph = std::isnan(v) ? std::nullopt : std::optional<double>(v);
+    next.ph_capture = {};
+    return apply_by_hand(QStringLiteral("batch.measured_ph"), next, reason);
+}
+
 bool BatchModel::setActual(int row, double amount) {
     if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
     const Row& r = rows_[size_t(row)];
     auto next = *draft_;
     const QString key = r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
     int i = actual_index(r.reagent);
+    if (i >= 0) {
+        const QJsonObject cur = draft_->actual[i].toObject();
+        const QJsonValue old = cur.value(key);
+        const bool same = !std::isnan(amount) && old.isDouble() && old.toDouble() == amount;
+        if (cur.contains("capture")) {
+            if (same) return set_error({}), true;
+            set_error({QStringLiteral("batch.actual[%1].%2").arg(i).arg(key), by_hand_message(cur.value("capture").toObject())});
+            emit dataChanged(index(row), index(row), {ActualRole});
+            return false;
+        }
+    }
     if (std::isnan(amount)) {
         if (i < 0) return true;
         next.actual.removeAt(i);
@@ -674,6 +810,15 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
         auto it = lots_.find(r.reagent);
         return it == lots_.end() ? QString() : it->second;
     }
+    case CaptureRole: {
+        const QJsonObject e = actual_entry(idx.row());
+        return e.value("capture").toObject().toVariantMap();
+    }
+    case SourceRole: {
+        if (!r.entered) return QString();
+        return capture_source_text(actual_entry(idx.row()).value("capture").toObject());
+    }
+    case CaptureTargetRole: return QStringLiteral("batch.actual[%1].mass_g").arg(idx.row());
     case ErrorRole: {
         static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
         const auto m = re.match(error_.field);
@@ -699,7 +844,10 @@ QHash<int, QByteArray> BatchModel::roleNames() const {
             {DeviationPercentRole, "deviationPercent"},
             {WithinToleranceRole, "withinTolerance"},
             {LotRole, "lot"},
-            {ErrorRole, "error"}};
+            {ErrorRole, "error"},
+            {CaptureRole, "capture"},
+            {SourceRole, "source"},
+            {CaptureTargetRole, "captureTarget"}};
 }
 
 } // namespace phaseplan::gui

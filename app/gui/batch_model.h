@@ -87,6 +87,11 @@ class BatchModel : public QAbstractListModel {
     /// ± pH units allowed between the measured pH and the target (default 0.05).
     Q_PROPERTY(double phTolerance READ phTolerance WRITE setPhTolerance NOTIFY batchChanged)
     Q_PROPERTY(QString phMeterId READ phMeterId WRITE setPhMeterId NOTIFY batchChanged)
+    /// The pH meter's record when the measured pH was taken from it ({device_id, raw,
+    /// received_at, …}), {} when typed or not measured.
+    Q_PROPERTY(QVariantMap measuredPhCapture READ measuredPhCapture NOTIFY batchChanged)
+    /// "from pH meter PH-01", "typed", or "" when not measured.
+    Q_PROPERTY(QString measuredPhSource READ measuredPhSource NOTIFY batchChanged)
     Q_PROPERTY(QString balanceId READ balanceId WRITE setBalanceId NOTIFY batchChanged)
     Q_PROPERTY(QString comment READ comment WRITE setComment NOTIFY batchChanged)
     /// The largest volume the vessel holds, mL; NaN = not given (the correction then assumes
@@ -156,6 +161,9 @@ public:
         WithinToleranceRole,
         LotRole,
         ErrorRole,         ///< the core's message for this row's amount or lot, "" when none
+        CaptureRole,       ///< the balance's record when the amount was taken from it, {} when typed
+        SourceRole,        ///< "from balance BAL-03", "typed", or "" when not entered
+        CaptureTargetRole, ///< the target DeviceCapture::takeFromBalance is called with for this row
     };
     Q_ENUM(Role)
 
@@ -200,6 +208,8 @@ public:
     QString phMeterId() const { return draft_ ? draft_->ph_meter_id : QString(); }
     void setPhMeterId(const QString& v);
     QString balanceId() const { return draft_ ? draft_->balance_id : QString(); }
+    QVariantMap measuredPhCapture() const { return draft_ ? draft_->ph_capture.toVariantMap() : QVariantMap{}; }
+    QString measuredPhSource() const;
     void setBalanceId(const QString& v);
     QString comment() const { return draft_ ? draft_->comment : QString(); }
     void setComment(const QString& v);
@@ -246,6 +256,19 @@ public:
 
     /// The amount actually weighed or measured for `row`, in the row's unit; NaN clears it.
     Q_INVOKABLE bool setActual(int row, double amount);
+    /// Takes a value handed over by DeviceCapture::captured(c): c.target is "batch.measured_ph" or
+    /// "batch.actual[<row>].mass_g" (<row> = the row of this model, see CaptureTargetRole);
+    /// c.value goes into that field and c.record is stored with it (device, raw line, time,
+    /// accepted unsettled, calibration date). The pH meter becomes phMeterId; the balance becomes
+    /// balanceId when none is set. False with the error at the target when it does not fit (a
+    /// volume row, a pH from a balance, no batch).
+    Q_INVOKABLE bool applyCapture(const QVariantMap& capture);
+    /// Changes a captured amount by hand: the amount is then typed, and the change is recorded
+    /// as an amendment with `reason` (error at the field when the reason is empty). setActual
+    /// refuses to change a captured amount.
+    Q_INVOKABLE bool setActualByHand(int row, double amount, const QString& reason);
+    /// The same for a measured pH taken from the meter.
+    Q_INVOKABLE bool setMeasuredPhByHand(double ph, const QString& reason);
     /// The lot of `row`'s reagent.
     Q_INVOKABLE bool setLot(int row, const QString& lot);
     /// Records the pending change as an amendment with amendReason. False (error "reason") when
@@ -296,6 +319,10 @@ private:
     /// Evaluates `next`, then stores it (edit) or, on a printed batch, keeps it pending and shows
     /// the store's refusal at `field`.
     bool apply(const QString& field, const storage::BatchRecord& next);
+    /// Evaluates `next` and stores it as an amendment with `reason` (a captured value changed by hand).
+    bool apply_by_hand(const QString& field, const storage::BatchRecord& next, const QString& reason);
+    /// The actual entry of `row` ({} when none).
+    QJsonObject actual_entry(int row) const;
     void reload(const QString& id);
     void set_error(const FieldError& e);
     QString who() const;

@@ -252,6 +252,15 @@ void DeviceCapture::finish(const devices::Reading& r, bool accepted_unstable) {
                               {"received_at", at},
                               {"stable", r.stable},
                               {"accepted_unstable", accepted_unstable}};
+    {
+        // What the batch record keeps besides: the instrument's name and its calibration date
+        // on the day of the reading, so the sheet can say it was overdue.
+        QVariantMap rec = c["record"].toMap();
+        if (!device_.name.isEmpty()) rec["device_name"] = device_.name;
+        if (device_.calibration_due.isValid()) rec["calibration_due"] = device_.calibration_due.toString(Qt::ISODate);
+        if (caution) rec["calibration_caution"] = (*caution)["message"].toString();
+        c["record"] = rec;
+    }
     unstable_.clear();
     unstable_reading_.reset();
     last_capture_ = c;

@@ -185,8 +185,15 @@ QString band_text(const chem::AmountCheck& c, const chem::Batch& b) {
 }
 
 /// The reagents table of a recipe with its batch: target, tolerance, actual, lot, check.
+/// The actual amount and where it came from: "3.161 g\nfrom balance BAL-03" or "…\ntyped".
+QString actual_text(const chem::AmountCheck& c, const QJsonObject& captures) {
+    if (!c.entered) return QString();
+    return format_amount(c.actual) + " " + qs(c.unit) + "\n" +
+           capture_source_text(captures.value(qs(c.reagent)).toObject());
+}
+
 Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe, const chem::BatchResult& res,
-                    const chem::Batch& batch) {
+                    const chem::Batch& batch, const QJsonObject& captures) {
     Block table;
     table.kind = Block::Kind::table;
     table.table.headers = {"Reagent", "Form", "Target", "Tolerance", "Actual", "Lot", "Check"};
@@ -203,7 +210,7 @@ Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe, const 
         table.table.rows << QStringList{qs(r.name) + "\n" + qs(r.formula) + ", " +
                                             QString::number(r.molar_mass_g_per_mol, 'f', 2) + " g/mol",
                                         form_text(r, it, recipe.request), target, band_text(c, batch),
-                                        c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
+                                        actual_text(c, captures),
                                         qs(c.lot), check_text(c)};
         table.table.flagged << !c.within_tolerance;
     }
@@ -318,13 +325,14 @@ void add_deviation_blocks(const BatchDocument& doc, SheetDocument& d) {
 }
 
 /// Measured at the bench: the pH meter's reading, the instruments and a comment.
-QList<KeyValue> bench_fields(const chem::Batch& b, std::optional<double> target_ph) {
+QList<KeyValue> bench_fields(const chem::Batch& b, std::optional<double> target_ph, const QJsonObject& ph_capture) {
     QString ph = b.measured_ph ? format_ph(*b.measured_ph) : QString();
     if (b.measured_ph && target_ph) {
         const double dev = *b.measured_ph - *target_ph;
         ph += " (" + QString(dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) + " from the target, ± " +
               qs(chem::format_number(b.ph_tolerance)) + " allowed)";
     }
+    if (b.measured_ph) ph += ", " + capture_source_text(ph_capture);
     return {{"Measured pH", ph}, {"pH meter", qs(b.ph_meter_id)}, {"Balance", qs(b.balance_id)},
             {"Comment", qs(b.comment)}};
 }
@@ -354,7 +362,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
     const QString shelf_note = shelf_note_text(doc.shelf_life_h, doc.shelf_kind, doc.shelf_source, !batch.expires_at.empty());
     d.blocks << heading("Batch")
              << fields_block(batch_fields(batch, title, purpose_of(input), doc.expires_at, shelf_note) +
-                             bench_fields(batch, req.target_ph));
+                             bench_fields(batch, req.target_ph, doc.ph_capture));
 
     QList<KeyValue> plan = {
         {"Target pH", format_ph(req.target_ph) + " at " + qs(chem::format_number(req.temperature_c)) + " °C"},
@@ -367,7 +375,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
     };
     d.blocks << heading("Plan") << fields_block(plan);
 
-    d.blocks << heading("Reagents: target and actual amounts") << reagent_table(lib, recipe, res, batch);
+    d.blocks << heading("Reagents: target and actual amounts") << reagent_table(lib, recipe, res, batch, doc.captures);
     for (const StepSection& s : doc.steps) d.blocks << heading(s.heading) << numbered(s.steps);
     d.blocks << heading("Predicted pH, ionic strength and buffer capacity")
              << predicted_table(recipe, res, QStringLiteral("Predicted"));
@@ -460,7 +468,8 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     d.blocks << heading("Batch")
              << fields_block(batch_fields(batch, title, purpose_of(input), doc.expires_at, shelf_note) +
                              bench_fields(batch, lr.buffer ? std::optional<double>(lr.buffer->request.target_ph)
-                                                           : std::nullopt));
+                                                           : std::nullopt,
+                                          doc.ph_capture));
 
     QStringList by_volume;
     for (const auto& [id, f] : lr.profile.solvent_fraction_v) by_volume << qs(id) + " " + percent_text(f);
@@ -489,7 +498,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
                                         it.volume_ml ? format_amount(*it.volume_ml) + " mL" : QString(),
                                         it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),
                                         band_text(c, batch),
-                                        c.entered ? format_amount(c.actual) + " " + qs(c.unit) : QString(),
+                                        actual_text(c, doc.captures),
                                         qs(c.lot), check_text(c)};
         parts.table.flagged << !c.within_tolerance;
     }
@@ -498,7 +507,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     if (lr.buffer)
         d.blocks << heading("Aqueous buffer (" + qs(chem::format_number(lr.buffer->request.volume_ml)) +
                             " mL): target and actual amounts")
-                 << reagent_table(data.reagents, *lr.buffer, *bres, batch);
+                 << reagent_table(data.reagents, *lr.buffer, *bres, batch, doc.captures);
     for (const StepSection& s : doc.steps) d.blocks << heading(s.heading) << numbered(s.steps);
     if (!out.value("notes").toArray().isEmpty()) d.blocks << bullets(strings_of(out.value("notes")));
     if (lr.buffer)

@@ -73,6 +73,19 @@ std::string str(const QString& s) { return s.toStdString(); }
 /// SQL NULL for an absent number.
 QVariant optional_real(const std::optional<double>& v) { return v ? QVariant(*v) : QVariant(QMetaType(QMetaType::Double)); }
 
+/// A captured value's record: {device_id, raw, received_at, …} (see BatchRecord).
+void validate_capture(const QJsonValue& v, const std::string& at) {
+    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
+    const QJsonObject c = v.toObject();
+    for (const char* k : {"device_id", "raw", "received_at"})
+        if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
+            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
+    for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
+        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
+    for (const char* k : {"stable", "accepted_unstable"})
+        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
+}
+
 /// Checks the batch fields with the rules of chem::check_batch_fields and the actual amounts'
 /// shape (the amounts against a recipe are checked when the batch is evaluated for printing).
 void validate(const BatchRecord& b) {
@@ -106,7 +119,11 @@ void validate(const BatchRecord& b) {
             throw chem::Error(at + (m ? ".mass_g" : ".volume_ml"), "must be a positive amount");
         if (e.contains("lot") && !e.value("lot").isString())
             throw chem::Error(at + ".lot", "must be a string");
+        if (e.contains("capture")) validate_capture(e.value("capture"), at + ".capture");
     }
+    if (!b.ph_capture.isEmpty()) validate_capture(b.ph_capture, "batch.measured_ph_capture");
+    if (!b.ph_capture.isEmpty() && !b.measured_ph)
+        throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
 }
 
 /// Field-by-field view of a batch for the history: "prepared_by", "actual[<reagent>].mass_g", …
@@ -134,9 +151,10 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     for (const QJsonValue& v : b.actual) {
         const QJsonObject e = v.toObject();
         const QString key = "actual[" + e.value("reagent").toString() + "]";
-        for (const char* k : {"mass_g", "volume_ml", "lot"})
+        for (const char* k : {"mass_g", "volume_ml", "lot", "capture"})
             if (e.contains(k)) put(key + "." + k, e.value(k));
     }
+    if (!b.ph_capture.isEmpty()) put("measured_ph_capture", b.ph_capture);
     return f;
 }
 
@@ -144,7 +162,7 @@ const char* select_columns =
     "id, document_kind, document, prepared_by, prepared_at, expires_at, checked_by, "
     "tolerance_percent, actual, revision, printed_count, first_printed_at, created_at, updated_at, "
     "measured_ph, ph_tolerance, ph_meter_id, balance_id, comment, container_ml, deviation_note, "
-    "deviation_by, deviation_at";
+    "deviation_by, deviation_at, measured_ph_capture";
 
 BatchRecord record_from(const QSqlQuery& q) {
     BatchRecord b;
@@ -171,6 +189,7 @@ BatchRecord record_from(const QSqlQuery& q) {
     b.deviation_note = q.value(20).toString();
     b.deviation_by = q.value(21).toString();
     b.deviation_at = q.value(22).toString();
+    b.ph_capture = QJsonDocument::fromJson(q.value(23).toString().toUtf8()).object();
     return b;
 }
 
@@ -266,6 +285,30 @@ QStringList batch_schema_bench_statements() {
     return s;
 }
 
+QStringList batch_schema_capture_statements() {
+    QStringList s;
+    s << QStringLiteral("ALTER TABLE batches ADD COLUMN measured_ph_capture TEXT NOT NULL DEFAULT '{}'"
+                        " CHECK (json_valid(measured_ph_capture))");
+    s << QStringLiteral("DROP TRIGGER batches_changes_recorded");
+    s << QStringLiteral(
+        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
+        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
+        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
+        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
+        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual"
+        " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
+        " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
+        " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
+        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT OLD.deviation_by"
+        " OR NEW.deviation_at IS NOT OLD.deviation_at"
+        " OR NEW.measured_ph_capture IS NOT OLD.measured_ph_capture)"
+        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
+        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
+        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END");
+    return s;
+}
+
 // ---- BatchRecord ------------------------------------------------------------------------------
 
 QJsonObject BatchRecord::to_input() const {
@@ -278,6 +321,7 @@ QJsonObject BatchRecord::to_input() const {
     b["tolerance_percent"] = tolerance_percent;
     if (!actual.isEmpty()) b["actual"] = actual;
     if (measured_ph) b["measured_ph"] = *measured_ph;
+    if (!ph_capture.isEmpty()) b["measured_ph_capture"] = ph_capture;
     b["ph_tolerance"] = ph_tolerance;
     if (!ph_meter_id.isEmpty()) b["ph_meter_id"] = ph_meter_id;
     if (!balance_id.isEmpty()) b["balance_id"] = balance_id;
@@ -320,6 +364,11 @@ BatchRecord BatchRecord::from_input(const QJsonObject& input) {
         return v.toDouble();
     };
     r.measured_ph = number("measured_ph");
+    if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
+        if (!b.value("measured_ph_capture").isObject())
+            throw chem::Error("batch.measured_ph_capture", "must be an object {device_id, raw, received_at, …}");
+        r.ph_capture = b.value("measured_ph_capture").toObject();
+    }
     if (auto t = number("ph_tolerance")) r.ph_tolerance = *t;
     r.ph_meter_id = text("ph_meter_id");
     r.balance_id = text("balance_id");
@@ -363,11 +412,18 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
         QSqlQuery q = run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph'");
         bench = q.next() && q.value(0).toInt() > 0;
     }
-    if (present && bench) return;
+    bool capture = false;
+    if (bench) {
+        QSqlQuery q = run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph_capture'");
+        capture = q.next() && q.value(0).toInt() > 0;
+    }
+    if (present && bench && capture) return;
     Transaction tx(db);
     if (!present)
         for (const QString& s : batch_schema_statements()) run(db, s);
-    for (const QString& s : batch_schema_bench_statements()) run(db, s);
+    if (!bench)
+        for (const QString& s : batch_schema_bench_statements()) run(db, s);
+    for (const QString& s : batch_schema_capture_statements()) run(db, s);
     tx.commit();
 }
 
@@ -387,13 +443,13 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
         "INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at, expires_at,"
         " checked_by, tolerance_percent, actual, revision, printed_count, first_printed_at,"
         " created_at, updated_at, measured_ph, ph_tolerance, ph_meter_id, balance_id, comment,"
-        " container_ml, deviation_note, deviation_by, deviation_at)"
-        " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
+        " container_ml, deviation_note, deviation_by, deviation_at, measured_ph_capture)"
+        " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
         {batch.id, batch.document_kind, compact(batch.document), batch.prepared_by, batch.prepared_at,
          batch.expires_at, batch.checked_by, batch.tolerance_percent, compact(batch.actual), t, t,
          optional_real(batch.measured_ph), batch.ph_tolerance, batch.ph_meter_id, batch.balance_id,
          batch.comment, optional_real(batch.container_ml), batch.deviation_note, batch.deviation_by,
-         batch.deviation_at});
+         batch.deviation_at, compact(batch.ph_capture)});
     for (const auto& [field, value] : flatten(batch))
         run(db_,
             "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
@@ -475,13 +531,13 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         "UPDATE batches SET document_kind = ?, document = ?, prepared_by = ?, prepared_at = ?,"
         " expires_at = ?, checked_by = ?, tolerance_percent = ?, actual = ?, revision = ?,"
         " updated_at = ?, measured_ph = ?, ph_tolerance = ?, ph_meter_id = ?, balance_id = ?,"
-        " comment = ?, container_ml = ?, deviation_note = ?, deviation_by = ?, deviation_at = ?"
-        " WHERE id = ?",
+        " comment = ?, container_ml = ?, deviation_note = ?, deviation_by = ?, deviation_at = ?,"
+        " measured_ph_capture = ? WHERE id = ?",
         {next.document_kind, compact(next.document), next.prepared_by, next.prepared_at,
          next.expires_at, next.checked_by, next.tolerance_percent, compact(next.actual), revision, t,
          optional_real(next.measured_ph), next.ph_tolerance, next.ph_meter_id, next.balance_id,
          next.comment, optional_real(next.container_ml), next.deviation_note, next.deviation_by,
-         next.deviation_at, id});
+         next.deviation_at, compact(next.ph_capture), id});
     tx.commit();
     return true;
 }

@@ -35,6 +35,10 @@ QStringList batch_schema_statements();
 /// container, deviation note/by/at) and the change trigger re-created to watch them too.
 QStringList batch_schema_bench_statements();
 
+/// Step 7: the pH meter's capture record (measured_ph_capture, JSON) and the change trigger
+/// re-created to watch it. A captured amount keeps its record inside `actual` ("capture").
+QStringList batch_schema_capture_statements();
+
 /// One batch as stored. The batch fields are those of the "batch" object of the CLI contract.
 struct BatchRecord {
     QString id;
@@ -45,8 +49,13 @@ struct BatchRecord {
     QString expires_at;                 ///< ISO 8601 local, "" = from the shelf life
     QString checked_by;
     double tolerance_percent = 2;
-    QJsonArray actual;                  ///< [{"reagent", "mass_g" | "volume_ml", "lot"}]
+    /// [{"reagent", "mass_g" | "volume_ml", "lot", "capture"}]; "capture" only for a value taken
+    /// from a balance: {"device_id", "device_kind", "device_name", "raw", "received_at" (UTC ISO),
+    /// "stable", "accepted_unstable", "calibration_due", "calibration_caution"}, the first three
+    /// required. Absent = typed.
+    QJsonArray actual;
     std::optional<double> measured_ph;  ///< the meter's reading; absent = not measured
+    QJsonObject ph_capture;             ///< the same record for a pH taken from the meter; {} = typed
     double ph_tolerance = 0.05;         ///< ± pH units allowed around the target
     QString ph_meter_id;
     QString balance_id;

@@ -100,6 +100,11 @@ const std::vector<Migration>& migrations() {
                      " id INTEGER PRIMARY KEY, source TEXT NOT NULL, name TEXT NOT NULL,"
                      " content TEXT NOT NULL, reason TEXT NOT NULL, set_aside_at TEXT NOT NULL)");
          }},
+        {8, "values taken from the instruments: the pH meter's capture record (the balance's is kept "
+            "with each actual amount)",
+         [](Database& db) {
+             for (const QString& sql : batch_schema_capture_statements()) db.exec(sql);
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;

@@ -20,8 +20,23 @@ Rectangle {
     required property bool withinTolerance
     required property string lot
     required property string error
+    /// The balance's record when the amount was taken from it, {} when typed.
+    required property var capture
+    /// "from balance BAL-03", "typed", "" when not entered.
+    required property string source
+    /// The target DeviceCapture is called with for this row.
+    required property string captureTarget
     /// The BatchModel the row belongs to.
     property BatchModel batch
+    /// The screen's DeviceCapture (null: no "Take from balance").
+    property DeviceCapture instruments
+    /// A change typed over a captured amount, waiting for its reason; NaN when none.
+    property real handValue: NaN
+    readonly property bool captured: root.capture !== undefined && root.capture.device_id !== undefined
+    /// The instrument's fault for this row (the field keeps its value), "" when none.
+    readonly property string captureError: root.instruments && !root.instruments.busy
+                                           && root.instruments.errorField === root.captureTarget
+                                           ? root.instruments.errorMessage : ""
     property bool narrow: false
 
     /// About four significant figures, as the sheet prints amounts.
@@ -84,17 +99,90 @@ Rectangle {
                 wrapMode: Text.Wrap
             }
         }
-        AmountEntry {
-            objectName: "actualField"
+        ColumnLayout {
             Layout.fillWidth: true
             Layout.preferredWidth: Theme.tap * 3
             Layout.alignment: Qt.AlignTop
-            label: qsTr("Actual")
-            unit: root.unit
-            value: root.entered ? root.actual : NaN
-            decimals: root.decimalsFor(root.target)
-            error: root.error
-            onEdited: function(v) { root.batch.setActual(root.index, v) }
+            spacing: Math.round(Theme.gap / 2)
+            AmountEntry {
+                id: actualField
+                objectName: "actualField"
+                Layout.fillWidth: true
+                label: qsTr("Actual")
+                unit: root.unit
+                value: root.entered ? root.actual : NaN
+                decimals: root.decimalsFor(root.target)
+                error: root.captureError.length > 0 ? root.captureError : root.error
+                onEdited: function(v) {
+                    if (!root.batch.setActual(root.index, v) && root.captured)
+                        root.handValue = v
+                }
+            }
+            Label {
+                objectName: "sourceMark"
+                Layout.fillWidth: true
+                visible: root.source.length > 0
+                text: root.captured ? qsTr("from %1").arg(root.capture.device_id)
+                                      + (root.capture.accepted_unstable ? qsTr(" (taken unsettled)") : "")
+                                    : qsTr("typed")
+                color: root.captured ? Theme.info : Theme.dimText
+                font.pixelSize: Theme.smallFont
+                wrapMode: Text.Wrap
+            }
+            Label {
+                objectName: "calibrationCaution"
+                Layout.fillWidth: true
+                visible: root.captured && (root.capture.calibration_caution || "").length > 0
+                text: "⚠ " + (root.capture.calibration_caution || "")
+                color: Theme.warn
+                font.pixelSize: Theme.smallFont
+                wrapMode: Text.Wrap
+            }
+            // A captured amount changed by hand: the reason, then the change (recorded as typed).
+            TextEntry {
+                id: handReason
+                objectName: "handReasonField"
+                Layout.fillWidth: true
+                visible: root.captured && !isNaN(root.handValue)
+                label: qsTr("Why change the balance's value by hand?")
+                placeholder: qsTr("reason")
+            }
+            RowLayout {
+                Layout.fillWidth: true
+                visible: handReason.visible
+                spacing: Theme.gap
+                TouchButton {
+                    objectName: "applyByHand"
+                    text: qsTr("Change to %1 %2").arg(root.amount(root.handValue)).arg(root.unit)
+                    Accessible.name: qsTr("Change the amount of %1 by hand").arg(root.name)
+                    onClicked: {
+                        if (root.batch.setActualByHand(root.index, root.handValue, handReason.field.text)) {
+                            root.handValue = NaN
+                            handReason.field.text = ""
+                        }
+                    }
+                }
+                TouchButton {
+                    objectName: "keepCaptured"
+                    text: qsTr("Keep")
+                    Accessible.name: qsTr("Keep the balance's value of %1").arg(root.name)
+                    onClicked: {
+                        root.handValue = NaN
+                        root.batch.setActual(root.index, root.actual) // clears the message
+                        actualField.value = NaN
+                        actualField.value = Qt.binding(function() { return root.entered ? root.actual : NaN })
+                    }
+                }
+            }
+            TakeFromInstrument {
+                objectName: "takeFromBalanceRow"
+                Layout.fillWidth: true
+                visible: root.unit === "g" && !!root.instruments && root.instruments.balances.length > 0
+                instruments: root.instruments
+                target: root.captureTarget
+                balance: true
+                subject: qsTr("the amount of %1").arg(root.name)
+            }
         }
         TextEntry {
             id: lotEntry

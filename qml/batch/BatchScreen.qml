@@ -51,6 +51,30 @@ ScreenPage {
         return isNaN(v) ? "–" : NumberText.format(v, 2)
     }
 
+    // The balances and pH meters: "Take from balance" / "Take from meter" hand their reading to the
+    // batch, which stores it with the device, the raw line and the time.
+    DeviceCapture {
+        id: deviceCapture
+        workspace: root.batch.workspace
+    }
+    Connections {
+        target: deviceCapture
+        function onCaptured(c) { root.batch.applyCapture(c) }
+    }
+    /// [{id, name}] for a picker: "BAL-03 — Analytical balance …".
+    function choicesOf(list) {
+        var out = []
+        for (var i = 0; i < list.length; ++i)
+            out.push({ id: list[i].id, name: list[i].id + " — " + list[i].name })
+        return out
+    }
+    function cautionOf(list, id) {
+        for (var i = 0; i < list.length; ++i)
+            if (list[i].id === id)
+                return list[i].calibrationCaution
+        return ""
+    }
+
     // The printer and PDF writer, handed to the model (which knows only its interface).
     PrintService {
         id: printService
@@ -237,10 +261,29 @@ ScreenPage {
                     note: root.batch.flaggedCount > 0 ? qsTr("⚠ %n outside band", "", root.batch.flaggedCount)
                           : (root.batch.missingCount > 0 ? qsTr("%n to enter", "", root.batch.missingCount) : qsTr("✓ all within band"))
                     noteColour: root.batch.flaggedCount > 0 ? Theme.bad : (root.batch.missingCount > 0 ? Theme.dimText : Theme.good)
+                    ChoiceField {
+                        objectName: "balancePicker"
+                        Layout.fillWidth: true
+                        visible: deviceCapture.balances.length > 1
+                        label: qsTr("Balance to read")
+                        choices: root.choicesOf(deviceCapture.balances)
+                        current: deviceCapture.balanceId
+                        onPicked: function(id) { deviceCapture.balanceId = id }
+                    }
+                    Label {
+                        objectName: "balanceCaution"
+                        Layout.fillWidth: true
+                        visible: text.length > 0
+                        text: root.cautionOf(deviceCapture.balances, deviceCapture.balanceId)
+                        color: Theme.warn
+                        font.pixelSize: Theme.smallFont
+                        wrapMode: Text.Wrap
+                    }
                     Repeater {
                         model: root.batch
                         delegate: AmountRow {
                             Layout.fillWidth: true
+                            instruments: deviceCapture
                             batch: root.batch
                             narrow: root.inPortrait ? root.contentWidth < Theme.tap * 14 : true
                         }
@@ -251,6 +294,7 @@ ScreenPage {
                     objectName: "benchCard"
                     Layout.fillWidth: true
                     batch: root.batch
+                    instruments: deviceCapture
                 }
 
                 Card {
