@@ -99,5 +99,10 @@ ScreenPage {
             Layout.alignment: Qt.AlignTop
             editor: editor
         }
+        InstrumentsCard {
+            Layout.fillWidth: true
+            Layout.alignment: Qt.AlignTop
+            workspace: root.workspace
+        }
     }
 }
