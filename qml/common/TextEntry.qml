@@ -26,7 +26,7 @@ ColumnLayout {
         font.pixelSize: Theme.smallFont
         color: Theme.dimText
         Layout.fillWidth: true
-        elide: Text.ElideRight
+        wrapMode: Text.Wrap
     }
     TextField {
         id: input

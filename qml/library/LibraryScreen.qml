@@ -100,6 +100,7 @@ ScreenPage {
             editor: editor
         }
         InstrumentsCard {
+            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.5
             Layout.fillWidth: true
             Layout.alignment: Qt.AlignTop
             workspace: root.workspace
