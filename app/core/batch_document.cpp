@@ -437,6 +437,19 @@ void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument&
 
 } // namespace
 
+QJsonObject read_capture(const QJsonValue& v, const std::string& at) {
+    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
+    const QJsonObject c = v.toObject();
+    for (const char* k : {"device_id", "raw", "received_at"})
+        if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
+            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
+    for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
+        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
+    for (const char* k : {"stable", "accepted_unstable"})
+        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
+    return c;
+}
+
 QString batch_document_kind(const QJsonObject& input) {
     if (input.contains("plans"))
         throw chem::Error("plans", "a sheet or labels print one plan: give one entry of plans[] as its own "
@@ -555,19 +568,6 @@ QString capture_source_text(const QJsonObject& c) {
 
 namespace {
 
-/// A capture record's shape (the store checks the same); throws chem::Error naming the field.
-QJsonObject read_capture(const QJsonValue& v, const std::string& at) {
-    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
-    const QJsonObject c = v.toObject();
-    for (const char* k : {"device_id", "raw", "received_at"})
-        if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
-            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
-    for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
-        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
-    for (const char* k : {"stable", "accepted_unstable"})
-        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
-    return c;
-}
 
 /// The caution for a value taken from an instrument that was past its calibration-due date on
 /// the day of the reading; nullopt when it was not (or no date is recorded).

@@ -41,6 +41,11 @@ namespace phaseplan {
 /// and "sequence"; a line has "parts" or "bottle_ml"; anything else is read as a recipe).
 QString batch_document_kind(const QJsonObject& input);
 
+/// A captured value's record {device_id, raw, received_at, and optionally device_kind,
+/// device_name, calibration_due, calibration_caution, stable, accepted_unstable}, checked once
+/// for the print path and the store alike. Throws chem::Error naming `at` or its key.
+QJsonObject read_capture(const QJsonValue& v, const std::string& at);
+
 /// The "batch" object of `input` read into chem::Batch. Throws chem::Error naming the field
 /// ("batch", "batch.id", "batch.actual[2].mass_g", "batch.deviation.note", …). `copies` receives
 /// "copies" when given, `shelf_life_h` "shelf_life_h".

@@ -2,6 +2,7 @@
 
 #include "chem/batch.h"
 #include "chem/error.h"
+#include "core/batch_document.h"
 
 #include <QJsonDocument>
 #include <QSqlError>
@@ -73,18 +74,6 @@ std::string str(const QString& s) { return s.toStdString(); }
 /// SQL NULL for an absent number.
 QVariant optional_real(const std::optional<double>& v) { return v ? QVariant(*v) : QVariant(QMetaType(QMetaType::Double)); }
 
-/// A captured value's record: {device_id, raw, received_at, …} (see BatchRecord).
-void validate_capture(const QJsonValue& v, const std::string& at) {
-    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
-    const QJsonObject c = v.toObject();
-    for (const char* k : {"device_id", "raw", "received_at"})
-        if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
-            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
-    for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
-        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
-    for (const char* k : {"stable", "accepted_unstable"})
-        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
-}
 
 /// Checks the batch fields with the rules of chem::check_batch_fields and the actual amounts'
 /// shape (the amounts against a recipe are checked when the batch is evaluated for printing).
@@ -119,9 +108,9 @@ void validate(const BatchRecord& b) {
             throw chem::Error(at + (m ? ".mass_g" : ".volume_ml"), "must be a positive amount");
         if (e.contains("lot") && !e.value("lot").isString())
             throw chem::Error(at + ".lot", "must be a string");
-        if (e.contains("capture")) validate_capture(e.value("capture"), at + ".capture");
+        if (e.contains("capture")) (void)read_capture(e.value("capture"), at + ".capture");
     }
-    if (!b.ph_capture.isEmpty()) validate_capture(b.ph_capture, "batch.measured_ph_capture");
+    if (!b.ph_capture.isEmpty()) (void)read_capture(b.ph_capture, "batch.measured_ph_capture");
     if (!b.ph_capture.isEmpty() && !b.measured_ph)
         throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
 }
