@@ -6,15 +6,19 @@ namespace chem {
 
 const char* activity_model_name(ActivityModel m) {
     switch (m) {
-    case ActivityModel::davies: return "davies";
-    case ActivityModel::sit: return "sit";
+    case ActivityModel::davies:
+        return "davies";
+    case ActivityModel::sit:
+        return "sit";
     }
     return "davies";
 }
 
 std::optional<ActivityModel> activity_model_from_name(const std::string& name) {
-    if (name == "davies") return ActivityModel::davies;
-    if (name == "sit") return ActivityModel::sit;
+    if (name == "davies")
+        return ActivityModel::davies;
+    if (name == "sit")
+        return ActivityModel::sit;
     return std::nullopt;
 }
 

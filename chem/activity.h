@@ -9,7 +9,7 @@ namespace chem {
 
 enum class ActivityModel {
     davies, ///< log10 γ = −A z² (√I/(1+√I) − 0.3 I), I in mol/L (Davies 1962)
-    sit,    ///< log10 γ_i = −z_i² D + Σ_j ε(i,j) m_j, molal (Brønsted–Guggenheim–Scatchard)
+    sit, ///< log10 γ_i = −z_i² D + Σ_j ε(i,j) m_j, molal (Brønsted–Guggenheim–Scatchard)
 };
 const char* activity_model_name(ActivityModel m);
 /// "davies" or "sit"; nullopt for anything else.

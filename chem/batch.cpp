@@ -12,12 +12,11 @@ namespace chem {
 
 namespace {
 
-constexpr double max_final_volume_ml = 1.0e6;   ///< same bound as the designer's volume_ml
-constexpr double max_tolerance_fraction = 0.5;   ///< ± 50 %: beyond that a "tolerance" means nothing
-constexpr double max_ph_tolerance = 2.0;         ///< ± 2 pH units: beyond that a "tolerance" means nothing
+constexpr double max_final_volume_ml = 1.0e6;  ///< same bound as the designer's volume_ml
+constexpr double max_tolerance_fraction = 0.5; ///< ± 50 %: beyond that a "tolerance" means nothing
+constexpr double max_ph_tolerance = 2.0; ///< ± 2 pH units: beyond that a "tolerance" means nothing
 /// A predicted pH this far from the target deserves a look before use; common practice, no source.
 constexpr double ph_off_target = 0.05;
-
 
 std::string signed_percent(double fraction) {
     std::string s = fraction >= 0 ? "+" : "";
@@ -28,7 +27,8 @@ std::string signed_percent(double fraction) {
 
 double purity_of(const RecipeRequest& req, const Reagent& r) {
     for (const auto& [id, p] : req.purity_overrides)
-        if (id == r.id) return p;
+        if (id == r.id)
+            return p;
     return r.assay_fraction;
 }
 
@@ -69,25 +69,34 @@ int days_in_month(int y, int m) {
 
 const char* solution_kind_name(SolutionKind kind) {
     switch (kind) {
-    case SolutionKind::aqueous_buffer: return "aqueous_buffer";
-    case SolutionKind::organic: return "organic";
-    case SolutionKind::mixed: return "mixed";
+    case SolutionKind::aqueous_buffer:
+        return "aqueous_buffer";
+    case SolutionKind::organic:
+        return "organic";
+    case SolutionKind::mixed:
+        return "mixed";
     }
     return "aqueous_buffer";
 }
 
 std::optional<SolutionKind> solution_kind_from_name(const std::string& name) {
-    if (name == "aqueous_buffer") return SolutionKind::aqueous_buffer;
-    if (name == "organic") return SolutionKind::organic;
-    if (name == "mixed") return SolutionKind::mixed;
+    if (name == "aqueous_buffer")
+        return SolutionKind::aqueous_buffer;
+    if (name == "organic")
+        return SolutionKind::organic;
+    if (name == "mixed")
+        return SolutionKind::mixed;
     return std::nullopt;
 }
 
 double ShelfLifeDefaults::hours_for(SolutionKind kind) const {
     switch (kind) {
-    case SolutionKind::aqueous_buffer: return aqueous_buffer_h;
-    case SolutionKind::organic: return organic_h;
-    case SolutionKind::mixed: return mixed_h;
+    case SolutionKind::aqueous_buffer:
+        return aqueous_buffer_h;
+    case SolutionKind::organic:
+        return organic_h;
+    case SolutionKind::mixed:
+        return mixed_h;
     }
     return aqueous_buffer_h;
 }
@@ -96,20 +105,24 @@ double ShelfLifeDefaults::hours_for(SolutionKind kind) const {
 
 LocalDateTime parse_local_datetime(const std::string& text, const std::string& field) {
     auto bad = [&](const std::string& why) -> Error {
-        return Error(field, guard::quote_id(text) + " is not a date and time like 2026-12-01T16:30:00" +
+        return Error(field, guard::quote_id(text) +
+                                " is not a date and time like 2026-12-01T16:30:00" +
                                 (why.empty() ? "" : " (" + why + ")"));
     };
     auto digits = [&](size_t pos, size_t n) {
-        if (pos + n > text.size()) throw bad("");
+        if (pos + n > text.size())
+            throw bad("");
         int v = 0;
         for (size_t i = pos; i < pos + n; ++i) {
-            if (text[i] < '0' || text[i] > '9') throw bad("");
+            if (text[i] < '0' || text[i] > '9')
+                throw bad("");
             v = v * 10 + (text[i] - '0');
         }
         return v;
     };
     LocalDateTime t;
-    if (text.size() < 16) throw bad("");
+    if (text.size() < 16)
+        throw bad("");
     t.year = digits(0, 4);
     if (text[4] != '-' || text[7] != '-' || (text[10] != 'T' && text[10] != ' ') || text[13] != ':')
         throw bad("");
@@ -123,25 +136,33 @@ LocalDateTime parse_local_datetime(const std::string& text, const std::string& f
         pos += 3;
         if (pos < text.size() && text[pos] == '.') { // fractional seconds: accepted, dropped
             ++pos;
-            while (pos < text.size() && text[pos] >= '0' && text[pos] <= '9') ++pos;
+            while (pos < text.size() && text[pos] >= '0' && text[pos] <= '9')
+                ++pos;
         }
     }
     // A zone suffix is accepted and ignored: the lab's clock is the reference.
     if (pos < text.size()) {
         const std::string rest = text.substr(pos);
         const bool zulu = rest == "Z";
-        const bool offset = rest.size() == 6 && (rest[0] == '+' || rest[0] == '-') && rest[3] == ':';
-        if (!zulu && !offset) throw bad("unexpected \"" + rest + "\"");
+        const bool offset =
+            rest.size() == 6 && (rest[0] == '+' || rest[0] == '-') && rest[3] == ':';
+        if (!zulu && !offset)
+            throw bad("unexpected \"" + rest + "\"");
         if (offset) {
             digits(pos + 1, 2);
             digits(pos + 4, 2);
         }
     }
-    if (t.month < 1 || t.month > 12) throw bad("month " + std::to_string(t.month));
-    if (t.day < 1 || t.day > days_in_month(t.year, t.month)) throw bad("day " + std::to_string(t.day));
-    if (t.hour > 23) throw bad("hour " + std::to_string(t.hour));
-    if (t.minute > 59) throw bad("minute " + std::to_string(t.minute));
-    if (t.second > 59) throw bad("second " + std::to_string(t.second));
+    if (t.month < 1 || t.month > 12)
+        throw bad("month " + std::to_string(t.month));
+    if (t.day < 1 || t.day > days_in_month(t.year, t.month))
+        throw bad("day " + std::to_string(t.day));
+    if (t.hour > 23)
+        throw bad("hour " + std::to_string(t.hour));
+    if (t.minute > 59)
+        throw bad("minute " + std::to_string(t.minute));
+    if (t.second > 59)
+        throw bad("second " + std::to_string(t.second));
     guard::year(t.year, field, text);
     return t;
 }
@@ -187,9 +208,12 @@ ItemBasis item_basis(const Library& lib, const RecipeRequest& req, const RecipeI
         // A solution of known molarity, measured by volume only. (A neat titrant is material as
         // supplied, below.)
         double molarity = 0;
-        if (item.kind == ItemKind::titrant_solution) molarity = req.titrant_mol_per_l;
-        else if (item.reagent == req.acid) molarity = req.acid_stock_mol_per_l;
-        else if (item.reagent == req.base) molarity = req.base_stock_mol_per_l;
+        if (item.kind == ItemKind::titrant_solution)
+            molarity = req.titrant_mol_per_l;
+        else if (item.reagent == req.acid)
+            molarity = req.acid_stock_mol_per_l;
+        else if (item.reagent == req.base)
+            molarity = req.base_stock_mol_per_l;
         b.mol_per_ml = molarity / 1000.0;
         return b;
     }
@@ -213,7 +237,8 @@ AmountCheck check_amount(const std::string& name, const std::string& unit, doubl
     c.actual = actual.value_or(target);
     c.deviation_fraction = c.entered && target > 0 ? c.actual / target - 1 : 0;
     // A relative slack of 1e-9 keeps an amount typed exactly at the band's edge inside it.
-    c.within_tolerance = !c.entered || std::abs(c.deviation_fraction) <= tolerance_fraction * (1 + 1e-9) + 1e-12;
+    c.within_tolerance =
+        !c.entered || std::abs(c.deviation_fraction) <= tolerance_fraction * (1 + 1e-9) + 1e-12;
     return c;
 }
 
@@ -234,36 +259,48 @@ std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
     if (id.find_first_not_of(" \t\r\n") == std::string::npos)
         throw Error("batch.id", "is required: give the batch an id");
     if (guard::char_count(id) > guard::max_id_chars)
-        throw Error("batch.id", guard::quote_id(id) + " is longer than " + std::to_string(guard::max_id_chars) +
-                                    " characters");
+        throw Error("batch.id", guard::quote_id(id) + " is longer than " +
+                                    std::to_string(guard::max_id_chars) + " characters");
     for (unsigned char ch : id)
-        if (ch < 0x20 || ch == 0x7f) throw Error("batch.id", "contains a control character");
+        if (ch < 0x20 || ch == 0x7f)
+            throw Error("batch.id", "contains a control character");
     const double tol = batch.tolerance_fraction;
     if (!std::isfinite(tol) || tol <= 0 || tol > max_tolerance_fraction)
         throw Error("batch.tolerance_percent", format_number(tol * 100) + " % is outside 0 to " +
-                                                   format_number(max_tolerance_fraction * 100) + " %");
-    if (batch.measured_ph && (!std::isfinite(*batch.measured_ph) || *batch.measured_ph < 0 || *batch.measured_ph > 14))
-        throw Error("batch.measured_ph", format_number(*batch.measured_ph) + " is not a pH between 0 and 14");
-    if (!std::isfinite(batch.ph_tolerance) || batch.ph_tolerance <= 0 || batch.ph_tolerance > max_ph_tolerance)
-        throw Error("batch.ph_tolerance", format_number(batch.ph_tolerance) + " is not a pH tolerance between 0 and " +
+                                                   format_number(max_tolerance_fraction * 100) +
+                                                   " %");
+    if (batch.measured_ph &&
+        (!std::isfinite(*batch.measured_ph) || *batch.measured_ph < 0 || *batch.measured_ph > 14))
+        throw Error("batch.measured_ph",
+                    format_number(*batch.measured_ph) + " is not a pH between 0 and 14");
+    if (!std::isfinite(batch.ph_tolerance) || batch.ph_tolerance <= 0 ||
+        batch.ph_tolerance > max_ph_tolerance)
+        throw Error("batch.ph_tolerance", format_number(batch.ph_tolerance) +
+                                              " is not a pH tolerance between 0 and " +
                                               format_number(max_ph_tolerance));
     if (batch.container_ml && (!std::isfinite(*batch.container_ml) || *batch.container_ml <= 0 ||
                                *batch.container_ml > max_final_volume_ml))
-        throw Error("batch.container_ml", format_number(*batch.container_ml) + " is not a volume between 0 and " +
+        throw Error("batch.container_ml", format_number(*batch.container_ml) +
+                                              " is not a volume between 0 and " +
                                               format_number(max_final_volume_ml) + " mL");
-    if (!batch.deviation_at.empty()) parse_local_datetime(batch.deviation_at, "batch.deviation.at");
+    if (!batch.deviation_at.empty())
+        parse_local_datetime(batch.deviation_at, "batch.deviation.at");
     if (!std::isfinite(shelf_life_h) || shelf_life_h <= 0)
-        throw Error("batch.shelf_life_h", format_number(shelf_life_h) + " is not a positive number of hours");
+        throw Error("batch.shelf_life_h",
+                    format_number(shelf_life_h) + " is not a positive number of hours");
     std::optional<LocalDateTime> prepared;
-    if (!batch.prepared_at.empty()) prepared = parse_local_datetime(batch.prepared_at, "batch.prepared_at");
+    if (!batch.prepared_at.empty())
+        prepared = parse_local_datetime(batch.prepared_at, "batch.prepared_at");
     if (!batch.expires_at.empty()) {
         const LocalDateTime exp = parse_local_datetime(batch.expires_at, "batch.expires_at");
         if (prepared && to_minutes(exp) <= to_minutes(*prepared))
-            throw Error("batch.expires_at", "\"" + batch.expires_at + "\" is not after prepared_at \"" +
+            throw Error("batch.expires_at", "\"" + batch.expires_at +
+                                                "\" is not after prepared_at \"" +
                                                 batch.prepared_at + "\"");
         return batch.expires_at;
     }
-    if (prepared) return add_hours(batch.prepared_at, shelf_life_h, "batch.prepared_at");
+    if (prepared)
+        return add_hours(batch.prepared_at, shelf_life_h, "batch.prepared_at");
     return {};
 }
 
@@ -284,16 +321,19 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
     std::set<std::string> recipe_ids;
     std::string known;
     for (const auto& it : recipe.items)
-        if (recipe_ids.insert(it.reagent).second) known += (known.empty() ? "" : ", ") + it.reagent;
+        if (recipe_ids.insert(it.reagent).second)
+            known += (known.empty() ? "" : ", ") + it.reagent;
     std::vector<int> entry_of(recipe.items.size(), -1);
     std::set<std::string> seen;
     for (size_t i = 0; i < batch.actual.size(); ++i) {
         const auto& a = batch.actual[i];
         const int ii = static_cast<int>(i);
-        if (a.reagent.empty()) throw Error(item_path(ii, "reagent"), "is required");
+        if (a.reagent.empty())
+            throw Error(item_path(ii, "reagent"), "is required");
         if (!recipe_ids.count(a.reagent))
             throw Error(item_path(ii, "reagent"),
-                        guard::quote_id(a.reagent) + " is not in the recipe (its reagents: " + known + ")");
+                        guard::quote_id(a.reagent) +
+                            " is not in the recipe (its reagents: " + known + ")");
         if (!seen.insert(a.reagent).second)
             throw Error(item_path(ii, "reagent"), guard::quote_id(a.reagent) + " is given twice");
         if (a.mass_g.has_value() == a.volume_ml.has_value())
@@ -323,26 +363,30 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         bool by_mass = a ? a->mass_g.has_value() : (it.as == "solid");
         if (by_mass && !basis.mol_per_g)
             throw Error(item_path(entry_of[k], "mass_g"),
-                        it.reagent + " is used as a " + it.as + " solution, measured by volume: give volume_ml");
+                        it.reagent + " is used as a " + it.as +
+                            " solution, measured by volume: give volume_ml");
         if (!by_mass && !basis.mol_per_ml)
             throw Error(item_path(entry_of[k], "volume_ml"),
                         it.reagent + " is a solid, weighed: give mass_g");
         const double per_unit = by_mass ? *basis.mol_per_g : *basis.mol_per_ml;
         const double target_amount = target_mol / per_unit;
         std::optional<double> entered;
-        if (a) entered = by_mass ? *a->mass_g : *a->volume_ml;
+        if (a)
+            entered = by_mass ? *a->mass_g : *a->volume_ml;
 
         AmountCheck c = check_amount(it.reagent, by_mass ? "g" : "mL", target_amount, entered, tol);
-        if (a) c.lot = a->lot;
+        if (a)
+            c.lot = a->lot;
         actual_mol[k] = a ? *entered * per_unit : target_mol;
         c.target_mol_per_l = it.mol_per_l;
         c.actual_mol_per_l = actual_mol[k] / volume_l;
         if (c.actual_mol_per_l > max_concentration_mol_per_l)
-            throw Error(item_path(entry_of[k] >= 0 ? entry_of[k] : 0, by_mass ? "mass_g" : "volume_ml"),
-                        format_amount(c.actual) + " " + c.unit + " of " + it.reagent + " in " +
-                            format_number(out.final_volume_ml) + " mL is " +
-                            format_number(c.actual_mol_per_l) + " mol/L, above " +
-                            format_number(max_concentration_mol_per_l) + " mol/L");
+            throw Error(
+                item_path(entry_of[k] >= 0 ? entry_of[k] : 0, by_mass ? "mass_g" : "volume_ml"),
+                format_amount(c.actual) + " " + c.unit + " of " + it.reagent + " in " +
+                    format_number(out.final_volume_ml) + " mL is " +
+                    format_number(c.actual_mol_per_l) + " mol/L, above " +
+                    format_number(max_concentration_mol_per_l) + " mol/L");
         if (!c.within_tolerance) {
             out.warnings.push_back(out_of_tolerance_warning(c, tol));
             out.out_of_tolerance = true;
@@ -364,7 +408,8 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
                 from_items = true;
             }
         // A component no item measures (none today) keeps its planned amount of substance.
-        if (!from_items) mol = planned.mol_per_l * planned_volume_l;
+        if (!from_items)
+            mol = planned.mol_per_l * planned_volume_l;
         out.composition.push_back({planned.reagent, mol / volume_l});
     }
     try {
@@ -386,7 +431,8 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         if (std::abs(*out.measured_ph_deviation) > batch.ph_tolerance * (1 + 1e-9) + 1e-12) {
             out.measured_ph_out = true;
             out.out_of_tolerance = true;
-            out.warnings.push_back(measured_ph_warning(*batch.measured_ph, recipe.request.target_ph, batch.ph_tolerance));
+            out.warnings.push_back(measured_ph_warning(*batch.measured_ph, recipe.request.target_ph,
+                                                       batch.ph_tolerance));
         }
     }
     return out;

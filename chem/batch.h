@@ -49,11 +49,11 @@ struct ActualAmount {
 };
 
 struct Batch {
-    std::string id;                  ///< the lab's batch id ("PB-2026-12-01-01"); printed in the QR code
-    std::string prepared_by;         ///< may be empty until someone prepares it
-    std::string prepared_at;         ///< ISO 8601 local date-time, "" = not yet prepared
-    std::string expires_at;          ///< ISO 8601; "" = prepared_at + the shelf life
-    std::string checked_by;          ///< second person's name, may be empty
+    std::string id;          ///< the lab's batch id ("PB-2026-12-01-01"); printed in the QR code
+    std::string prepared_by; ///< may be empty until someone prepares it
+    std::string prepared_at; ///< ISO 8601 local date-time, "" = not yet prepared
+    std::string expires_at;  ///< ISO 8601; "" = prepared_at + the shelf life
+    std::string checked_by;  ///< second person's name, may be empty
     double tolerance_fraction = 0.02; ///< ± relative tolerance of each amount (0.02 = ± 2 %)
     /// The final volume actually made up, mL; absent = the recipe's volume_ml.
     std::optional<double> final_volume_ml;
@@ -63,41 +63,41 @@ struct Batch {
     /// ± allowed between measured_ph and the target pH, pH units (default 0.05: common practice,
     /// no source).
     double ph_tolerance = 0.05;
-    std::string ph_meter_id;         ///< the pH meter used, may be empty
-    std::string balance_id;          ///< the balance used, may be empty
-    std::string comment;             ///< free text, may be empty
+    std::string ph_meter_id; ///< the pH meter used, may be empty
+    std::string balance_id;  ///< the balance used, may be empty
+    std::string comment;     ///< free text, may be empty
     /// The largest volume the vessel holds, mL; absent = not known (limits a scaled correction).
     std::optional<double> container_ml;
     /// Why an out-of-tolerance batch is still used, who recorded it and when; empty = none.
     std::string deviation_note;
     std::string deviation_by;
-    std::string deviation_at;        ///< ISO 8601 local
+    std::string deviation_at; ///< ISO 8601 local
 };
 
 /// One recipe item against what was actually measured.
 struct AmountCheck {
-    std::string reagent;             ///< reagent id
-    std::string unit;                ///< "g" or "mL": the quantity in which target and actual are compared
-    double target = 0;               ///< the recipe's amount, in `unit`
-    double low = 0;                  ///< target · (1 − tolerance), in `unit`
-    double high = 0;                 ///< target · (1 + tolerance), in `unit`
-    bool entered = false;            ///< an actual amount was given
-    double actual = 0;               ///< in `unit` (converted from the other quantity if needed)
+    std::string reagent;  ///< reagent id
+    std::string unit;     ///< "g" or "mL": the quantity in which target and actual are compared
+    double target = 0;    ///< the recipe's amount, in `unit`
+    double low = 0;       ///< target · (1 − tolerance), in `unit`
+    double high = 0;      ///< target · (1 + tolerance), in `unit`
+    bool entered = false; ///< an actual amount was given
+    double actual = 0;    ///< in `unit` (converted from the other quantity if needed)
     /// actual / target − 1 (0 when nothing was entered).
     double deviation_fraction = 0;
     bool within_tolerance = true;
     std::string lot;
-    double target_mol_per_l = 0;     ///< formula units per litre of final solution, as planned
-    double actual_mol_per_l = 0;     ///< as made (the target when nothing was entered)
+    double target_mol_per_l = 0; ///< formula units per litre of final solution, as planned
+    double actual_mol_per_l = 0; ///< as made (the target when nothing was entered)
 };
 
 struct BatchResult {
-    std::vector<AmountCheck> checks;     ///< one per recipe item, in the recipe's order
-    std::vector<Component> composition;  ///< the solution as made, formula units per litre
-    Speciation predicted;                ///< solve() of `composition` at the recipe's temperature
+    std::vector<AmountCheck> checks;    ///< one per recipe item, in the recipe's order
+    std::vector<Component> composition; ///< the solution as made, formula units per litre
+    Speciation predicted;               ///< solve() of `composition` at the recipe's temperature
     double final_volume_ml = 0;
-    std::string expires_at;              ///< given, or prepared_at + shelf life; "" when neither is known
-    double shelf_life_h = 0;             ///< the shelf life applied (when expires_at was not given)
+    std::string expires_at;  ///< given, or prepared_at + shelf life; "" when neither is known
+    double shelf_life_h = 0; ///< the shelf life applied (when expires_at was not given)
     /// "amount-out-of-tolerance" (warning), "amount-not-entered" (info), "ph-off-target" (caution
     /// when the pH predicted from the actual amounts is more than 0.05 from the target — common
     /// practice, no source), "measured-ph-out-of-tolerance" (warning, measured_ph more than
@@ -116,8 +116,9 @@ struct BatchResult {
 Warning measured_ph_warning(double measured_ph, double target_ph, double ph_tolerance);
 
 /// Amount of substance per unit of what is measured for one recipe item: mol per g of material
-/// (assay / M) and mol per mL (stock or titrant: molarity / 1000; neat liquid: density · assay / M).
-/// Uses the request's purity overrides like the designer. Throws nothing for a valid recipe item.
+/// (assay / M) and mol per mL (stock or titrant: molarity / 1000; neat liquid: density · assay /
+/// M). Uses the request's purity overrides like the designer. Throws nothing for a valid recipe
+/// item.
 struct ItemBasis {
     std::optional<double> mol_per_g;
     std::optional<double> mol_per_ml;

@@ -20,12 +20,12 @@
 namespace chem {
 
 struct CorrectionStep {
-    std::string reagent;          ///< reagent or part id, as in the check
-    std::string unit;             ///< "g" or "mL"
-    double target = 0;            ///< the plan's amount, in unit
-    double new_target = 0;        ///< target × scale, in unit
-    bool entered = false;         ///< an actual amount had been weighed
-    double actual = 0;            ///< what was weighed, in unit (0 when not entered)
+    std::string reagent;   ///< reagent or part id, as in the check
+    std::string unit;      ///< "g" or "mL"
+    double target = 0;     ///< the plan's amount, in unit
+    double new_target = 0; ///< target × scale, in unit
+    bool entered = false;  ///< an actual amount had been weighed
+    double actual = 0;     ///< what was weighed, in unit (0 when not entered)
     /// What to add now, in unit: new_target − actual when the part would fall outside the band
     /// around new_target; 0 when it is within that band. For a part not weighed yet: new_target.
     double add = 0;
@@ -47,8 +47,9 @@ struct Correction {
 
 /// The correction for `checks` (AmountCheck of evaluate_batch or check_amount) with the relative
 /// tolerance `tolerance_fraction`, planned final volume `planned_volume_ml` (mL) and, when known,
-/// the largest volume the vessel holds `container_ml` (mL). Throws chem::Error("batch.container_ml")
-/// for a non-positive container, ("batch.final_volume_ml") for a non-positive volume.
+/// the largest volume the vessel holds `container_ml` (mL). Throws
+/// chem::Error("batch.container_ml") for a non-positive container, ("batch.final_volume_ml") for a
+/// non-positive volume.
 Correction suggest_correction(const std::vector<AmountCheck>& checks, double tolerance_fraction,
                               double planned_volume_ml, std::optional<double> container_ml);
 

@@ -47,7 +47,8 @@ std::string group_words(std::string g) {
 std::string where_words(const std::string& where, double t_min) {
     if (where == "standby")
         return "in the standby";
-    return "in method \u201c" + where + "\u201d, " + method_time_words(t_min) + " into each injection";
+    return "in method \u201c" + where + "\u201d, " + method_time_words(t_min) +
+           " into each injection";
 }
 
 std::string join(const std::vector<std::string>& v) {
@@ -124,13 +125,13 @@ void immiscible_within(const SequenceCheckInput& ci, const LineProfile& p, const
     if (c.worst == Miscibility::miscible)
         return;
     const bool imm = c.worst == Miscibility::immiscible;
-    CheckWarning w = make(
-        "immiscible", imm ? Sev::warning : Sev::caution, line,
-        title + " mixes " + named(ci, c.a) + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) +
-            " %) with " + named(ci, c.b) + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) +
-            " %), which are " +
-            (imm ? "immiscible: the bottle separates into two phases."
-                 : "only partly miscible: check that the bottle stays one clear phase."));
+    CheckWarning w =
+        make("immiscible", imm ? Sev::warning : Sev::caution, line,
+             title + " mixes " + named(ci, c.a) + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) +
+                 " %) with " + named(ci, c.b) + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) +
+                 " %), which are " +
+                 (imm ? "immiscible: the bottle separates into two phases."
+                      : "only partly miscible: check that the bottle stays one clear phase."));
     w.text("solvent_a", c.a);
     w.text("solvent_b", c.b);
     w.text("miscibility", miscibility_name(c.worst));
@@ -329,7 +330,8 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
             CheckWarning w = make(
                 "uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
                 line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " +
-                    named(c, p->uv_limited_by) + "); the detector reads at " + fmt(wl, 0) + " nm, " +
+                    named(c, p->uv_limited_by) + "); the detector reads at " + fmt(wl, 0) +
+                    " nm, " +
                     (below ? "below the cutoff: expect a high baseline and a drifting gradient."
                            : "within " + fmt(margin, 0) +
                                  " nm of it: expect baseline drift over the gradient."));
@@ -340,10 +342,10 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
             out.push_back(w);
         }
         if (!p->uv_unknown.empty()) {
-            CheckWarning w =
-                make("uv-cutoff", Sev::caution, letter(l),
-                     line_title(c, l) + ": no UV cutoff figure for " + join(named(c, p->uv_unknown)) +
-                         "; check its absorbance at " + fmt(wl, 0) + " nm before the run.");
+            CheckWarning w = make("uv-cutoff", Sev::caution, letter(l),
+                                  line_title(c, l) + ": no UV cutoff figure for " +
+                                      join(named(c, p->uv_unknown)) + "; check its absorbance at " +
+                                      fmt(wl, 0) + " nm before the run.");
             w.number("wavelength_nm", wl);
             w.text("unknown", join(p->uv_unknown));
             out.push_back(w);
@@ -537,11 +539,11 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             const Additive* add = c.solvents->find_additive(s.reagent);
             if (!add || add->ms_caution.empty())
                 continue;
-            CheckWarning w = make("ms-nonvolatile", Sev::caution, letter(l),
-                                  line_title(c, l) + " carries " + s.reagent + " (" +
-                                      fmt(s.mmol_per_l, 2) + " mmol/L) into the " +
-                                      c.detector->type + " detector: " + add->ms_caution + " (" +
-                                      add->ms_caution_source + ").");
+            CheckWarning w =
+                make("ms-nonvolatile", Sev::caution, letter(l),
+                     line_title(c, l) + " carries " + s.reagent + " (" + fmt(s.mmol_per_l, 2) +
+                         " mmol/L) into the " + c.detector->type + " detector: " + add->ms_caution +
+                         " (" + add->ms_caution_source + ").");
             w.text("detector", c.detector->type);
             w.text("additive", s.reagent);
             out.push_back(w);
@@ -573,7 +575,8 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     }
     const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
     const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
-    // Points repeat across methods (the same rows, the same 1 % steps): solve each composition once.
+    // Points repeat across methods (the same rows, the same 1 % steps): solve each composition
+    // once.
     std::map<std::array<long long, max_lines>, EluentPoint> solved;
     auto at = [&](const LineValues& p, const EluentPoint* guess) {
         std::array<long long, max_lines> key{};
@@ -617,7 +620,8 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         for (const Stretch& s : ss) {
             add(s, 0.0);
             // Every whole percent of organic crossed inside the stretch.
-            const double o0 = model.organic_fraction_v(s.percent_start.data(), s.percent_start.size());
+            const double o0 =
+                model.organic_fraction_v(s.percent_start.data(), s.percent_start.size());
             const double o1 = model.organic_fraction_v(s.percent_end.data(), s.percent_end.size());
             if (std::abs(o1 - o0) > 1e-9) {
                 const double lo = std::min(o0, o1) * 100, hi = std::max(o0, o1) * 100;
@@ -639,7 +643,8 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
 
 namespace {
 
-const std::vector<EluentTrace>& traces_of(const SequenceCheckInput& c, std::vector<EluentTrace>& own) {
+const std::vector<EluentTrace>& traces_of(const SequenceCheckInput& c,
+                                          std::vector<EluentTrace>& own) {
     if (c.traces)
         return *c.traces;
     own = eluent_traces(c);
@@ -680,7 +685,8 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                 const EluentTracePoint* first = nullptr;
                 const EluentTracePoint* last = nullptr;
                 for (const auto& p : tr.points) {
-                    const bool outside = low ? p.ph_s_w < c.column->ph_min : p.ph_s_w > c.column->ph_max;
+                    const bool outside =
+                        low ? p.ph_s_w < c.column->ph_min : p.ph_s_w > c.column->ph_max;
                     if (!outside)
                         continue;
                     if (!first)
@@ -692,24 +698,25 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                 if (!worst)
                     continue;
                 const std::string where =
-                    c.lone_line ? "The line's eluent"
-                                : "In method " + tr.method + ", the eluent";
+                    c.lone_line ? "The line's eluent" : "In method " + tr.method + ", the eluent";
                 const std::string span =
                     c.lone_line ? ""
                                 : " from " + fmt(first->t_min, 2) + " to " + fmt(last->t_min, 2) +
                                       " min of each injection (" + pct(first->organic_fraction_v) +
                                       " to " + pct(last->organic_fraction_v) + "), worst at " +
                                       fmt(worst->t_min, 2) + " min";
-                CheckWarning w = make(
-                    "column-ph", Sev::warning, "",
-                    where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " + pct(worst->organic_fraction_v) +
-                        " and " + fmt(tr.temperature_c, 0) + " °C" + span + ", " +
-                        (low ? "below" : "above") + " the column's range of pH " +
-                        fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
-                        (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
-                        " The organic moves the pH away from the aqueous buffer's; use a column rated "
-                        "for this pH or change the buffer." +
-                        (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+                CheckWarning w =
+                    make("column-ph", Sev::warning, "",
+                         where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " +
+                             pct(worst->organic_fraction_v) + " and " + fmt(tr.temperature_c, 0) +
+                             " °C" + span + ", " + (low ? "below" : "above") +
+                             " the column's range of pH " + fmt(c.column->ph_min, 1) + " to " +
+                             fmt(c.column->ph_max, 1) + ": " +
+                             (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
+                             " The organic moves the pH away from the aqueous buffer's; use a "
+                             "column rated "
+                             "for this pH or change the buffer." +
+                             (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
                 w.number("ph", worst->ph_s_w);
                 w.number("ph_s_s", worst->ph_s_s);
                 w.number("ph_min", c.column->ph_min);
@@ -780,9 +787,10 @@ std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c) {
                                   pct(pts[j].organic_fraction_v) + "), the eluent";
             CheckWarning w = make(
                 "buffer-range", Sev::caution, "",
-                where + " has s_s pH " + fmt(worst->ph_s_s, 2) + " at " + pct(worst->organic_fraction_v) +
-                    ", " + fmt(worst->nearest_pka_gap, 2) + " units from the nearest s_s pKa′ (" +
-                    tr.systems[worst->nearest_system] + " " + fmt(worst->nearest_pka, 2) + ")" +
+                where + " has s_s pH " + fmt(worst->ph_s_s, 2) + " at " +
+                    pct(worst->organic_fraction_v) + ", " + fmt(worst->nearest_pka_gap, 2) +
+                    " units from the nearest s_s pKa′ (" + tr.systems[worst->nearest_system] + " " +
+                    fmt(worst->nearest_pka, 2) + ")" +
                     ": outside pKa′ ± 1 the eluent buffers poorly, so the sample or the column can "
                     "shift its pH and retention. Choose a buffer whose pKa′ in the eluent lies "
                     "within one unit of its pH." +
@@ -959,12 +967,12 @@ std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
         if (tr.inlet_percent_at_max[l] > 0)
             inlet += (inlet.empty() ? "" : "/") + letter(l) + " " +
                      fmt(tr.inlet_percent_at_max[l], 0) + " %";
-    const std::string where =
-        "peaks at " + fmt(tr.max_pressure_bar, 0) + " bar " + fmt(tr.max_at_t_min, 1) +
-        " min into each injection, with " + fmt(100 * tr.organic_fraction_v_at_max, 0) +
-        " % v/v organic in the column (" + inlet + " entering it)";
-    const std::string limit = fmt(tr.limit->bar, 0) + " bar limit of the " +
-                              limit_source_name(tr.limit->source);
+    const std::string where = "peaks at " + fmt(tr.max_pressure_bar, 0) + " bar " +
+                              fmt(tr.max_at_t_min, 1) + " min into each injection, with " +
+                              fmt(100 * tr.organic_fraction_v_at_max, 0) +
+                              " % v/v organic in the column (" + inlet + " entering it)";
+    const std::string limit =
+        fmt(tr.limit->bar, 0) + " bar limit of the " + limit_source_name(tr.limit->source);
     CheckWarning w =
         over ? make("pressure-limit", Sev::warning, "",
                     "Method " + method + " " + where + ", above the " + limit +

@@ -53,7 +53,8 @@ const std::vector<std::string>& detector_types();
 struct ColumnLimits {
     double ph_min = 2;
     double ph_max = 8;
-    std::optional<double> temperature_c; ///< column oven; the eluent pH is taken at 25 °C without it
+    std::optional<double>
+        temperature_c; ///< column oven; the eluent pH is taken at 25 °C without it
 };
 
 /// One point of a method's eluent pH trace (an injection's time course, minutes from its start).
@@ -64,14 +65,14 @@ struct EluentTracePoint {
     double ph_s_s = 7;
     double nearest_pka_gap = 0; ///< to the nearest s_s pKa′ (infinite without acid-base systems)
     double nearest_pka = 0;
-    int nearest_system = -1;    ///< index into EluentTrace::systems
-    bool extrapolated = false;  ///< an estimate (see the eluent command's eluent-ph-extrapolated)
+    int nearest_system = -1;   ///< index into EluentTrace::systems
+    bool extrapolated = false; ///< an estimate (see the eluent command's eluent-ph-extrapolated)
 };
 /// The eluent pH at every gradient row and every 1 % of organic between rows, per method run.
 struct EluentTrace {
     std::string method;
     double temperature_c = 25;
-    bool has_systems = false; ///< the eluent carries acid-base systems
+    bool has_systems = false;         ///< the eluent carries acid-base systems
     std::vector<std::string> systems; ///< their ids
     std::vector<EluentTracePoint> points;
 };
@@ -134,12 +135,10 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
 
 /// The checks that apply to one line on its own (the `line` command): immiscible parts,
 /// precipitation in the bottle, and, when given, UV cutoff, MS volatility and column pH.
-std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
-                                     const std::string& name,
-                                     const std::optional<Detector>& detector,
-                                     const std::optional<ColumnLimits>& column,
-                                     const Library* reagents = nullptr,
-                                     const NameLookup& name_of = {});
+std::vector<CheckWarning>
+check_line(const SolventLibrary& solvents, const LineProfile& profile, const std::string& name,
+           const std::optional<Detector>& detector, const std::optional<ColumnLimits>& column,
+           const Library* reagents = nullptr, const NameLookup& name_of = {});
 
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
 /// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.

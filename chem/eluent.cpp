@@ -16,7 +16,9 @@ namespace {
 /// The two organics with published parameters. Other organics borrow one (estimated).
 enum class Basis { acetonitrile, methanol };
 constexpr int n_basis = 2;
-const char* basis_id(Basis b) { return b == Basis::acetonitrile ? "acetonitrile" : "methanol"; }
+const char* basis_id(Basis b) {
+    return b == Basis::acetonitrile ? "acetonitrile" : "methanol";
+}
 
 /// Alcohols behave like methanol (amphiprotic), everything else like acetonitrile (aprotic); only
 /// acetonitrile and methanol themselves are published.
@@ -38,11 +40,13 @@ double eps_25(const EluentSolvent& organic, double f) {
 /// through the last two rows (the Born-type dependence of a pKa shift on the permittivity).
 double table_at(const std::vector<double>& xs, const std::vector<double>& ys, double f,
                 const EluentSolvent& organic, bool* beyond) {
-    if (f <= 0 || xs.empty()) return 0;
+    if (f <= 0 || xs.empty())
+        return 0;
     if (f <= xs.back()) {
         double x0 = 0, y0 = 0;
         for (size_t i = 0; i < xs.size(); ++i) {
-            if (f <= xs[i]) return y0 + (ys[i] - y0) * (f - x0) / (xs[i] - x0);
+            if (f <= xs[i])
+                return y0 + (ys[i] - y0) * (f - x0) / (xs[i] - x0);
             x0 = xs[i];
             y0 = ys[i];
         }
@@ -58,7 +62,8 @@ double table_at(const std::vector<double>& xs, const std::vector<double>& ys, do
 
 const OrganicShift* shift_table(const AcidBaseSystem& def, Basis b, int step) {
     for (const auto& t : def.eluent_shift)
-        if (t.organic == basis_id(b) && step < static_cast<int>(t.dpka.front().size())) return &t;
+        if (t.organic == basis_id(b) && step < static_cast<int>(t.dpka.front().size()))
+            return &t;
     return nullptr;
 }
 
@@ -107,7 +112,8 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                                          format_number(max_temperature_c) + " °C");
     temperature_k_ = to_kelvin(temperature_c);
     for (const LineProfile* p : profiles_) {
-        if (!p || !p->described) continue;
+        if (!p || !p->described)
+            continue;
         for (const Solute& s : p->solutes) {
             const Reagent* r = &reagents.reagent(s.reagent, "composition");
             if (std::none_of(components_.begin(), components_.end(),
@@ -118,16 +124,20 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
     line_mol_per_l_.assign(profiles_.size(), std::vector<double>(components_.size(), 0.0));
     for (size_t l = 0; l < profiles_.size(); ++l) {
         const LineProfile* p = profiles_[l];
-        if (!p || !p->described) continue;
+        if (!p || !p->described)
+            continue;
         for (const Solute& s : p->solutes)
             for (size_t k = 0; k < components_.size(); ++k)
-                if (components_[k].reagent->id == s.reagent) line_mol_per_l_[l][k] += s.mmol_per_l / 1000.0;
+                if (components_[k].reagent->id == s.reagent)
+                    line_mol_per_l_[l][k] += s.mmol_per_l / 1000.0;
     }
-    for (int b = 0; b < n_basis; ++b) basis_data_[b] = reagents.eluent_solvent(basis_id(static_cast<Basis>(b)));
+    for (int b = 0; b < n_basis; ++b)
+        basis_data_[b] = reagents.eluent_solvent(basis_id(static_cast<Basis>(b)));
     line_solvents_.resize(profiles_.size());
     for (size_t l = 0; l < profiles_.size(); ++l) {
         const LineProfile* p = profiles_[l];
-        if (!p || !p->described) continue;
+        if (!p || !p->described)
+            continue;
         for (const auto& [id, frac] : p->solvent_fraction_v) {
             LineSolvent ls;
             ls.solvent = &solvents.solvent(id, "composition");
@@ -135,8 +145,9 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
             ls.basis = static_cast<int>(basis_of(id, &ls.estimated));
             ls.density_g_per_ml = ls.solvent->density_at(temperature_c);
             const EluentSolvent* es = basis_data_[ls.basis];
-            ls.permittivity = ls.solvent->aqueous || !es ? water_permittivity(to_kelvin(temperature_c))
-                                                         : es->permittivity_25c;
+            ls.permittivity = ls.solvent->aqueous || !es
+                                  ? water_permittivity(to_kelvin(temperature_c))
+                                  : es->permittivity_25c;
             line_solvents_[l].push_back(ls);
         }
     }
@@ -146,7 +157,8 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
         for (const auto& s : problem_.systems) {
             system_defs_.push_back(s.def);
             std::vector<double> w;
-            for (int j = 0; j < s.steps; ++j) w.push_back(s.def->pka_at(j, temperature_k_));
+            for (int j = 0; j < s.steps; ++j)
+                w.push_back(s.def->pka_at(j, temperature_k_));
             pka_w_w_.push_back(w);
             // Each step's table in each organic: its own, or that of a system whose acid form
             // has the same charge (estimated).
@@ -164,7 +176,8 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                     }
                     if (t) {
                         sh.fraction_v = &t->fraction_v;
-                        for (const auto& row : t->dpka) sh.dpka.push_back(row[use_step]);
+                        for (const auto& row : t->dpka)
+                            sh.dpka.push_back(row[use_step]);
                     }
                     step_shifts_.push_back(std::move(sh));
                 }
@@ -179,7 +192,8 @@ EluentModel::~EluentModel() = default;
 double EluentModel::organic_fraction_v(const double* percent, std::size_t count) const {
     double o = 0;
     for (size_t l = 0; l < profiles_.size() && l < count; ++l)
-        if (profiles_[l] && profiles_[l]->described) o += percent[l] / 100.0 * profiles_[l]->organic_fraction_v;
+        if (profiles_[l] && profiles_[l]->described)
+            o += percent[l] / 100.0 * profiles_[l]->organic_fraction_v;
     return o;
 }
 
@@ -193,14 +207,17 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
     out.other_ids.clear();
     double eps_sum = 0, mass = 0, volume = 0;
     for (size_t l = 0; l < line_solvents_.size() && l < count; ++l) {
-        if (percent[l] <= 0) continue;
+        if (percent[l] <= 0)
+            continue;
         const double f = percent[l] / 100.0;
         for (const LineSolvent& ls : line_solvents_[l]) {
             const double v = f * ls.fraction_v;
             auto it = std::find_if(fractions.begin(), fractions.end(),
                                    [&](const auto& x) { return x.first == ls.solvent; });
-            if (it == fractions.end()) fractions.emplace_back(ls.solvent, v);
-            else it->second += v;
+            if (it == fractions.end())
+                fractions.emplace_back(ls.solvent, v);
+            else
+                it->second += v;
             volume += v;
             mass += v * ls.density_g_per_ml;
             eps_sum += v * ls.permittivity;
@@ -210,8 +227,8 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
             }
             out.organic_v += v;
             out.share[ls.basis] += v;
-            if (ls.estimated && std::find(out.other_ids.begin(), out.other_ids.end(), ls.solvent->id) ==
-                                    out.other_ids.end()) {
+            if (ls.estimated && std::find(out.other_ids.begin(), out.other_ids.end(),
+                                          ls.solvent->id) == out.other_ids.end()) {
                 out.other_organic = true;
                 out.other_ids.push_back(ls.solvent->id);
             }
@@ -219,7 +236,8 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
     }
     out.contraction = contraction_fraction(solvents_, fractions);
     if (out.organic_v > 0)
-        for (double& s : out.share) s /= out.organic_v;
+        for (double& s : out.share)
+            s /= out.organic_v;
     out.eps = volume > 0 ? eps_sum / volume : water_permittivity(temperature_k_);
     out.rho = volume > 0 ? mass / (volume * (1 - out.contraction)) : 1.0;
 
@@ -237,10 +255,12 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
     out.dpkw = out.delta = 0;
     for (int bi = 0; bi < n_basis; ++bi) {
         const EluentSolvent* es = basis_data_[bi];
-        if (out.share[bi] <= 0 || !es) continue;
+        if (out.share[bi] <= 0 || !es)
+            continue;
         out.dpkw += out.share[bi] * table_at(es->fraction_v, es->dpkw, phi, *es, &out.beyond);
         out.delta += out.share[bi] * es->delta(phi);
-        if (phi > es->delta_max_fraction_v) out.beyond = true;
+        if (phi > es->delta_max_fraction_v)
+            out.beyond = true;
     }
     out.pka_ss.resize(system_defs_.size());
     out.estimated.resize(system_defs_.size());
@@ -249,11 +269,13 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
             double d = 0;
             bool estimated = false;
             for (int bi = 0; bi < n_basis; ++bi) {
-                if (out.share[bi] <= 0 || phi <= 0 || !basis_data_[bi]) continue;
+                if (out.share[bi] <= 0 || phi <= 0 || !basis_data_[bi])
+                    continue;
                 const StepShift& sh = step_shifts_[(step_offset_[i] + j) * n_basis + bi];
                 estimated = estimated || sh.estimated;
                 if (sh.fraction_v)
-                    d += out.share[bi] * table_at(*sh.fraction_v, sh.dpka, phi, *basis_data_[bi], &out.beyond);
+                    d += out.share[bi] *
+                         table_at(*sh.fraction_v, sh.dpka, phi, *basis_data_[bi], &out.beyond);
             }
             out.pka_ss[i][j] = pka_w_w_[i][j] + d;
             out.estimated[i][j] = estimated;
@@ -269,7 +291,8 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
                     double eps, double rho, double temperature_k) {
     p.set_amounts(amounts);
     for (size_t i = 0; i < p.systems.size(); ++i)
-        for (int j = 0; j < p.systems[i].steps; ++j) p.systems[i].ka[j] = std::pow(10.0, -pka_ss[i][j]);
+        for (int j = 0; j < p.systems[i].steps; ++j)
+            p.systems[i].ka[j] = std::pow(10.0, -pka_ss[i][j]);
     p.kw = std::pow(10.0, -pkw_ss);
     p.a_dh = debye_huckel_a_for(eps, temperature_k);
     p.a_molal = p.a_dh * std::sqrt(rho);
@@ -278,12 +301,14 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
 
 /// Nearest s_s pKa′ (conditional, at the solved ionic strength) to the solved pH.
 void nearest_pka(const detail::Problem& p, const detail::State& st,
-                 const std::vector<std::array<double, detail::max_steps>>& pka_ss, EluentPoint& out) {
+                 const std::vector<std::array<double, detail::max_steps>>& pka_ss,
+                 EluentPoint& out) {
     out.nearest_pka_gap = std::numeric_limits<double>::infinity();
     out.nearest_system = -1;
     const std::vector<double> g = detail::gammas_at(p, st);
     for (size_t i = 0; i < p.systems.size(); ++i) {
-        if (p.systems[i].total_mol_per_l <= 0) continue;
+        if (p.systems[i].total_mol_per_l <= 0)
+            continue;
         const int o = p.sys_offset[i];
         for (int j = 0; j < p.systems[i].steps; ++j) {
             const double cond = pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
@@ -302,7 +327,8 @@ EluentPoint EluentModel::point(const std::vector<double>& percent, const EluentP
     return point(percent.data(), percent.size(), guess);
 }
 
-EluentPoint EluentModel::point(const double* percent, std::size_t count, const EluentPoint* guess) const {
+EluentPoint EluentModel::point(const double* percent, std::size_t count,
+                               const EluentPoint* guess) const {
     Prepared& pr = *prepared_;
     prepare(percent, count, pr);
     EluentPoint out;
@@ -345,7 +371,8 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
         shares.push_back({profiles_[l], percent[l]});
     if (percent.size() > profiles_.size())
         for (size_t l = profiles_.size(); l < percent.size(); ++l)
-            if (percent[l] > 0) throw Error("composition", "a line without a profile is above 0 %");
+            if (percent[l] > 0)
+                throw Error("composition", "a line without a profile is above 0 %");
     EluentResult out;
     out.mix = mix_lines(solvents_, shares); // validates the percentages
     out.temperature_c = temperature_c_;
@@ -363,7 +390,8 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
         const double c = std::pow(10.0, -out.ph_s_s);
         out.ionic_strength_mol_per_l = c;
         out.buffer_capacity_mol_per_l = ln10 * 2 * c;
-        if (pr.water_v > 0) out.ph_w_w = pkw(temperature_k_) / 2;
+        if (pr.water_v > 0)
+            out.ph_w_w = pkw(temperature_k_) / 2;
     } else {
         detail::Problem& p = scratch_;
         eluent_problem(p, pr.amounts, pr.pka_ss, pkw_ss, pr.eps, pr.rho, temperature_k_);
@@ -372,7 +400,8 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
         out.ph_s_s = st.ph;
         out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
         out.buffer_capacity_mol_per_l = sp.buffer_capacity_mol_per_l;
-        for (const auto& w : sp.warnings) out.warnings.push_back(w);
+        for (const auto& w : sp.warnings)
+            out.warnings.push_back(w);
         const std::vector<double> g = detail::gammas_at(p, st);
         for (size_t i = 0; i < p.systems.size(); ++i)
             for (int j = 0; j < p.systems[i].steps; ++j) {
@@ -394,8 +423,10 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
                     aq.push_back({components_[k].reagent,
                                   std::min(max_concentration_mol_per_l,
                                            pr.amounts[k] * (1 - pr.contraction) / pr.water_v)});
-            if (aq.empty()) out.ph_w_w = pkw(temperature_k_) / 2;
-            else out.ph_w_w = chem::solve(reagents_, aq, temperature_c_, model_).ph;
+            if (aq.empty())
+                out.ph_w_w = pkw(temperature_k_) / 2;
+            else
+                out.ph_w_w = chem::solve(reagents_, aq, temperature_c_, model_).ph;
         }
     }
     out.ph_s_w = out.ph_s_s + pr.delta;
@@ -427,13 +458,15 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
             }
     if (!analogues.empty()) {
         std::string list;
-        for (const auto& a : analogues) list += (list.empty() ? "" : ", ") + a;
+        for (const auto& a : analogues)
+            list += (list.empty() ? "" : ", ") + a;
         how.push_back("no published s_s pKa table for " + list +
                       ": each takes the shift of a system whose acid form has the same charge");
     }
     if (!how.empty()) {
         std::string msg = "The eluent pH is an estimate: ";
-        for (size_t i = 0; i < how.size(); ++i) msg += (i ? "; " : "") + how[i];
+        for (size_t i = 0; i < how.size(); ++i)
+            msg += (i ? "; " : "") + how[i];
         out.warnings.push_back({"eluent-ph-extrapolated", Warning::Severity::caution,
                                 msg + ". Treat it as indicative (a few tenths of a pH unit) and "
                                       "measure the s_w pH of the mixed eluent if it matters."});

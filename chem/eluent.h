@@ -34,20 +34,20 @@ struct EluentPka {
 
 /// The eluent at one composition (one point of a gradient).
 struct EluentResult {
-    EluentMix mix;                   ///< volume and mole fractions, contraction, diluted solutes
+    EluentMix mix; ///< volume and mole fractions, contraction, diluted solutes
     double temperature_c = 25;
     ActivityModel activity_model = ActivityModel::davies;
-    double organic_fraction_v = 0;   ///< as measured before mixing
-    std::optional<double> ph_w_w;    ///< the aqueous part alone at temperature_c (none: no water)
+    double organic_fraction_v = 0; ///< as measured before mixing
+    std::optional<double> ph_w_w;  ///< the aqueous part alone at temperature_c (none: no water)
     double ph_s_s = 7;
     double ph_s_w = 7;
-    double delta = 0;                ///< s_w pH − s_s pH
+    double delta = 0;                     ///< s_w pH − s_s pH
     double ionic_strength_mol_per_l = 0;  ///< in the eluent
     double buffer_capacity_mol_per_l = 0; ///< in the eluent, per s_s pH unit
-    double permittivity = 78.4;      ///< relative permittivity of the solvent mixture
-    double solvent_density_g_per_ml = 1; ///< of the solvent mixture at temperature_c
+    double permittivity = 78.4;           ///< relative permittivity of the solvent mixture
+    double solvent_density_g_per_ml = 1;  ///< of the solvent mixture at temperature_c
     std::vector<EluentPka> pka;
-    std::vector<Warning> warnings;   ///< eluent-ph-extrapolated, eluent-temperature, solver's
+    std::vector<Warning> warnings; ///< eluent-ph-extrapolated, eluent-temperature, solver's
 };
 
 /// The pH of one gradient point, for traces and checks (no strings, no allocation per call).
@@ -67,7 +67,7 @@ struct EluentPoint {
 /// The eluents that a set of lines can make, at one temperature. Built once per set of lines
 /// (it gathers the solutes and the published tables), then evaluated at any pump composition.
 class EluentModel {
-public:
+  public:
     /// @param profiles one per line (index = line), null or undescribed for a line without parts.
     /// Throws chem::Error("temperature_c", …) outside 0–60 °C.
     EluentModel(const SolventLibrary& solvents, const Library& reagents,
@@ -85,7 +85,8 @@ public:
     /// one EluentModel serves one thread at a time.
     EluentPoint point(const std::vector<double>& percent, const EluentPoint* guess = nullptr) const;
     /// The same for `count` percentages at `percent` (no allocation).
-    EluentPoint point(const double* percent, std::size_t count, const EluentPoint* guess = nullptr) const;
+    EluentPoint point(const double* percent, std::size_t count,
+                      const EluentPoint* guess = nullptr) const;
 
     /// Organic volume fraction of a composition (before mixing).
     double organic_fraction_v(const double* percent, std::size_t count) const;
@@ -93,7 +94,7 @@ public:
     const std::vector<const AcidBaseSystem*>& systems() const { return system_defs_; }
     bool has_systems() const { return !system_defs_.empty(); }
 
-private:
+  private:
     struct Prepared; // per-point inputs of the solver
     void prepare(const double* percent, std::size_t count, Prepared& out) const;
     /// A step with a borrowed (estimated) shift within relevant_pka_gap of the pH.
@@ -128,12 +129,12 @@ private:
     double temperature_c_ = 25;
     double temperature_k_ = 298.15;
     ActivityModel model_ = ActivityModel::davies;
-    std::vector<Component> components_;             ///< every solute of every line
+    std::vector<Component> components_;               ///< every solute of every line
     std::vector<std::vector<double>> line_mol_per_l_; ///< [line][component], in the line
-    detail::Problem problem_;                         ///< built once; amounts and constants set per point
+    detail::Problem problem_; ///< built once; amounts and constants set per point
     bool has_components_ = false;
-    std::vector<const AcidBaseSystem*> system_defs_;  ///< problem_.systems in order
-    std::vector<std::vector<double>> pka_w_w_;        ///< [system][step] at T
+    std::vector<const AcidBaseSystem*> system_defs_; ///< problem_.systems in order
+    std::vector<std::vector<double>> pka_w_w_;       ///< [system][step] at T
 };
 
 /// Convenience: blends the lines at `percent` and solves the eluent (the `eluent` command).

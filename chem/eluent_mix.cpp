@@ -109,7 +109,8 @@ EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>
     double total = 0;
     for (const LineShare& s : shares) {
         if (!std::isfinite(s.percent) || s.percent < 0)
-            throw Error("composition", format_number(s.percent) + " is not a percentage of the flow");
+            throw Error("composition",
+                        format_number(s.percent) + " is not a percentage of the flow");
         total += s.percent;
     }
     if (std::abs(total - 100.0) > 0.01)

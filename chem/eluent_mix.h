@@ -38,7 +38,7 @@ struct EluentMix {
 struct BlendBasis {
     struct Component {
         const Solvent* solvent = nullptr;
-        double mol_per_ml = 0;                 ///< density / molar mass, as measured before mixing
+        double mol_per_ml = 0;                ///< density / molar mass, as measured before mixing
         const ExcessVolume* excess = nullptr; ///< V^E with water (organics only), or none
     };
     std::vector<Component> components;           ///< every solvent of every line, first seen first

@@ -9,17 +9,20 @@
 
 #include <algorithm>
 #include <cmath>
-#include <map>
 #include <cstdint>
 #include <limits>
+#include <map>
 
 namespace chem {
 
 const char* severity_name(Warning::Severity s) {
     switch (s) {
-    case Warning::Severity::info: return "info";
-    case Warning::Severity::caution: return "caution";
-    case Warning::Severity::warning: return "warning";
+    case Warning::Severity::info:
+        return "info";
+    case Warning::Severity::caution:
+        return "caution";
+    case Warning::Severity::warning:
+        return "warning";
     }
     return "info";
 }
@@ -27,7 +30,8 @@ const char* severity_name(Warning::Severity s) {
 double Speciation::concentration_of(const std::string& species_name) const {
     double c = 0;
     for (const auto& s : species)
-        if (s.species == species_name) c += s.mol_per_l;
+        if (s.species == species_name)
+            c += s.mol_per_l;
     return c;
 }
 
@@ -48,7 +52,8 @@ struct Gammas {
         const double g1 = std::pow(10.0, davies_log10_gamma(a, 1, ionic_strength));
         for (int z = 1; z <= highest_abs_z; ++z) {
             double g = 1.0;
-            for (int k = 0; k < z * z; ++k) g *= g1;
+            for (int k = 0; k < z * z; ++k)
+                g *= g1;
             by_abs_z[z] = g;
         }
     }
@@ -60,7 +65,7 @@ struct Gammas {
 /// K'_j = Ka_j γ(species j) / γ(species j+1), so that c_{j+1}/c_j = K'_j / h with h the activity
 /// of H+; the pH root search then costs one pow and a few products per system.
 class AtFixedGamma {
-public:
+  public:
     AtFixedGamma(const Problem& p, const std::vector<double>& g,
                  std::vector<std::array<double, max_steps>>& kc)
         : p_(p), kc_(kc), gh_(g[p.h_index]), goh_(g[p.oh_index]) {
@@ -68,7 +73,8 @@ public:
         for (size_t i = 0; i < p.systems.size(); ++i) {
             const auto& s = p.systems[i];
             const int o = p.sys_offset[i];
-            for (int j = 0; j < s.steps; ++j) kc_[i][j] = s.ka[j] * g[o + j] / g[o + j + 1];
+            for (int j = 0; j < s.steps; ++j)
+                kc_[i][j] = s.ka[j] * g[o + j] / g[o + j + 1];
         }
         for (const auto& ion : p.ions) {
             spectator_charge_ += ion.charge * ion.total_mol_per_l;
@@ -98,10 +104,12 @@ public:
         std::array<double, max_steps + 1> t{};
         for (size_t i = 0; i < p_.systems.size(); ++i) {
             const auto& s = p_.systems[i];
-            if (s.total_mol_per_l <= 0) continue;
+            if (s.total_mol_per_l <= 0)
+                continue;
             const double sum = distribution(i, inv_h, t);
             double zbar = 0;
-            for (int j = 0; j <= s.steps; ++j) zbar += (s.z0 - j) * t[j];
+            for (int j = 0; j <= s.steps; ++j)
+                zbar += (s.z0 - j) * t[j];
             q += s.total_mol_per_l * zbar / sum;
         }
         return q;
@@ -114,10 +122,12 @@ public:
         std::array<double, max_steps + 1> t{};
         for (size_t i = 0; i < p_.systems.size(); ++i) {
             const auto& s = p_.systems[i];
-            if (s.total_mol_per_l <= 0) continue;
+            if (s.total_mol_per_l <= 0)
+                continue;
             const double sum = distribution(i, inv_h, t);
             double z2bar = 0;
-            for (int j = 0; j <= s.steps; ++j) z2bar += (s.z0 - j) * (s.z0 - j) * t[j];
+            for (int j = 0; j <= s.steps; ++j)
+                z2bar += (s.z0 - j) * (s.z0 - j) * t[j];
             sum_cz2 += s.total_mol_per_l * z2bar / sum;
         }
         return 0.5 * sum_cz2;
@@ -134,12 +144,13 @@ public:
             for (int j = 0; j <= s.steps; ++j)
                 c[p_.sys_offset[i] + j] = s.total_mol_per_l * t[j] / sum;
         }
-        for (size_t k = 0; k < p_.ions.size(); ++k) c[p_.ion_offset + k] = p_.ions[k].total_mol_per_l;
+        for (size_t k = 0; k < p_.ions.size(); ++k)
+            c[p_.ion_offset + k] = p_.ions[k].total_mol_per_l;
         c[p_.h_index] = h / gh_;
         c[p_.oh_index] = p_.kw * inv_h / goh_;
     }
 
-private:
+  private:
     const Problem& p_;
     std::vector<std::array<double, max_steps>>& kc_;
     double gh_, goh_;
@@ -150,14 +161,16 @@ private:
 void davies_gammas(const Problem& p, double ionic_strength, std::vector<double>& g) {
     const Gammas by_z(p.a_dh, ionic_strength);
     g.resize(p.n_flat);
-    for (int k = 0; k < p.n_flat; ++k) g[k] = by_z(p.flat_charge[k]);
+    for (int k = 0; k < p.n_flat; ++k)
+        g[k] = by_z(p.flat_charge[k]);
 }
 
 /// SIT γ of every flat species from their concentrations (mol/L, converted to mol/kg):
 /// log10 γ_k = −z_k² D(I_m) + Σ_l ε(k, l) m_l.
 void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
     double i_m = 0;
-    for (int k = 0; k < p.n_flat; ++k) i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
+    for (int k = 0; k < p.n_flat; ++k)
+        i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
     i_m /= p.kg_per_l;
     const double d = sit_debye_huckel(p.a_molal, i_m);
     g.resize(p.n_flat);
@@ -167,7 +180,8 @@ void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<doub
         if (z != 0) {
             const double* row = &p.sit_eps[static_cast<size_t>(k) * p.n_flat];
             for (int l = 0; l < p.n_flat; ++l)
-                if (row[l] != 0) lg += row[l] * c[l] / p.kg_per_l;
+                if (row[l] != 0)
+                    lg += row[l] * c[l] / p.kg_per_l;
         }
         g[k] = std::pow(10.0, lg);
     }
@@ -185,12 +199,16 @@ double solve_ph(const AtFixedGamma& balance, double guess, double half_width) {
     double flo = 0, fhi = 0;
     bool bracketed = false;
     if (std::isfinite(guess)) {
-        const double a = std::max(ph_low, guess - half_width), b = std::min(ph_high, guess + half_width);
+        const double a = std::max(ph_low, guess - half_width),
+                     b = std::min(ph_high, guess + half_width);
         const double fa = f(a);
         if (fa >= 0) {
             const double fb = f(b);
             if (fb <= 0) {
-                lo = a; hi = b; flo = fa; fhi = fb;
+                lo = a;
+                hi = b;
+                flo = fa;
+                fhi = fb;
                 bracketed = true;
             }
         }
@@ -199,26 +217,31 @@ double solve_ph(const AtFixedGamma& balance, double guess, double half_width) {
         flo = f(lo);
         fhi = f(hi);
     }
-    if (flo == 0) return lo;
-    if (fhi == 0) return hi;
+    if (flo == 0)
+        return lo;
+    if (fhi == 0)
+        return hi;
     if (!(flo > 0 && fhi < 0))
         throw Error("components", "the charge balance has no root between pH " +
                                       format_number(ph_low) + " and " + format_number(ph_high));
     std::uintmax_t max_iter = 200;
-    auto r = boost::math::tools::toms748_solve(f, lo, hi, flo, fhi,
-                                               boost::math::tools::eps_tolerance<double>(42),
-                                               max_iter);
+    auto r = boost::math::tools::toms748_solve(
+        f, lo, hi, flo, fhi, boost::math::tools::eps_tolerance<double>(42), max_iter);
     return 0.5 * (r.first + r.second);
 }
 
 } // namespace
 
 void Problem::set_amounts(const std::vector<double>& mol_per_l) {
-    for (auto& s : systems) s.total_mol_per_l = 0;
-    for (auto& i : ions) i.total_mol_per_l = 0;
+    for (auto& s : systems)
+        s.total_mol_per_l = 0;
+    for (auto& i : ions)
+        i.total_mol_per_l = 0;
     for (size_t k = 0; k < feeds.size() && k < mol_per_l.size(); ++k) {
-        for (const auto& [idx, n] : feeds[k].systems) systems[idx].total_mol_per_l += n * mol_per_l[k];
-        for (const auto& [idx, n] : feeds[k].ions) ions[idx].total_mol_per_l += n * mol_per_l[k];
+        for (const auto& [idx, n] : feeds[k].systems)
+            systems[idx].total_mol_per_l += n * mol_per_l[k];
+        for (const auto& [idx, n] : feeds[k].ions)
+            ions[idx].total_mol_per_l += n * mol_per_l[k];
     }
 }
 
@@ -227,21 +250,26 @@ void Problem::index_species(const Library& lib) {
     flat_charge.clear();
     for (const auto& s : systems) {
         sys_offset.push_back(static_cast<int>(flat_charge.size()));
-        for (int j = 0; j <= s.steps; ++j) flat_charge.push_back(s.z0 - j);
+        for (int j = 0; j <= s.steps; ++j)
+            flat_charge.push_back(s.z0 - j);
     }
     ion_offset = static_cast<int>(flat_charge.size());
-    for (const auto& ion : ions) flat_charge.push_back(ion.charge);
+    for (const auto& ion : ions)
+        flat_charge.push_back(ion.charge);
     h_index = static_cast<int>(flat_charge.size());
     flat_charge.push_back(1);
     oh_index = static_cast<int>(flat_charge.size());
     flat_charge.push_back(-1);
     n_flat = static_cast<int>(flat_charge.size());
     sit_eps.clear();
-    if (model != ActivityModel::sit) return; // Davies needs the charges only
+    if (model != ActivityModel::sit)
+        return; // Davies needs the charges only
     std::vector<const std::string*> names;
     for (const auto& s : systems)
-        for (int j = 0; j <= s.steps; ++j) names.push_back(&s.def->species[j]);
-    for (const auto& ion : ions) names.push_back(&ion.name);
+        for (int j = 0; j <= s.steps; ++j)
+            names.push_back(&s.def->species[j]);
+    for (const auto& ion : ions)
+        names.push_back(&ion.name);
     static const std::string h = "H+", oh = "OH-";
     names.push_back(&h);
     names.push_back(&oh);
@@ -249,9 +277,11 @@ void Problem::index_species(const Library& lib) {
     for (int k = 0; k < n_flat; ++k)
         for (int l = 0; l < n_flat; ++l)
             if (flat_charge[k] > 0 && flat_charge[l] < 0)
-                sit_eps[static_cast<size_t>(k) * n_flat + l] = lib.sit_epsilon(*names[k], *names[l]);
+                sit_eps[static_cast<size_t>(k) * n_flat + l] =
+                    lib.sit_epsilon(*names[k], *names[l]);
             else if (flat_charge[k] < 0 && flat_charge[l] > 0)
-                sit_eps[static_cast<size_t>(k) * n_flat + l] = lib.sit_epsilon(*names[l], *names[k]);
+                sit_eps[static_cast<size_t>(k) * n_flat + l] =
+                    lib.sit_epsilon(*names[l], *names[k]);
 }
 
 Problem build_problem(const Library& lib, const std::vector<Component>& components,
@@ -261,7 +291,8 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
         throw Error("temperature_c", format_number(temperature_c) + " °C is outside " +
                                          format_number(min_temperature_c) + " to " +
                                          format_number(max_temperature_c) + " °C");
-    if (components.empty()) throw Error("components", "at least one component is needed");
+    if (components.empty())
+        throw Error("components", "at least one component is needed");
     Problem p;
     p.temperature_k = to_kelvin(temperature_c);
     p.kw = std::pow(10.0, -pkw(p.temperature_k));
@@ -277,9 +308,11 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     for (size_t k = 0; k < components.size(); ++k) {
         const auto& c = components[k];
         const std::string field = "components[" + std::to_string(k) + "]";
-        if (!c.reagent) throw Error(field + ".reagent", "no reagent given");
+        if (!c.reagent)
+            throw Error(field + ".reagent", "no reagent given");
         if (!std::isfinite(c.mol_per_l) || c.mol_per_l <= 0)
-            throw Error(field + ".mol_per_l", format_number(c.mol_per_l) + " is not a positive amount");
+            throw Error(field + ".mol_per_l",
+                        format_number(c.mol_per_l) + " is not a positive amount");
         if (c.mol_per_l > max_concentration_mol_per_l)
             throw Error(field + ".mol_per_l", format_number(c.mol_per_l) + " mol/L is above " +
                                                   format_number(max_concentration_mol_per_l) +
@@ -288,11 +321,10 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
         // times) is one amount, and 50 mol/L of it would pass unnoticed entry by entry.
         const double reagent_total = reagent_totals[c.reagent] += c.mol_per_l;
         if (reagent_total > max_concentration_mol_per_l * (1 + 1e-12))
-            throw Error(field + ".mol_per_l", "brings " + c.reagent->id + " to " +
-                                                  format_number(reagent_total) +
-                                                  " mol/L in all, above " +
-                                                  format_number(max_concentration_mol_per_l) +
-                                                  " mol/L, beyond any solution this tool models");
+            throw Error(field + ".mol_per_l",
+                        "brings " + c.reagent->id + " to " + format_number(reagent_total) +
+                            " mol/L in all, above " + format_number(max_concentration_mol_per_l) +
+                            " mol/L, beyond any solution this tool models");
         Problem::Feed feed;
         for (const auto& share : c.reagent->systems) {
             const auto& def = lib.system(share.system, field + ".reagent");
@@ -340,7 +372,8 @@ State solve_state(const Problem& p, const State* guess) {
     if (guess) {
         ionic = guess->ionic_strength_mol_per_l;
     } else {
-        for (const auto& ion : p.ions) ionic += 0.5 * ion.charge * ion.charge * ion.total_mol_per_l;
+        for (const auto& ion : p.ions)
+            ionic += 0.5 * ion.charge * ion.charge * ion.total_mol_per_l;
     }
     double width = 0.05;
     int evaluations = 0;
@@ -355,7 +388,8 @@ State solve_state(const Problem& p, const State* guess) {
         for (int cycle = 0; cycle < 200; ++cycle) {
             const AtFixedGamma balance(p, g, kc);
             const double new_ph = solve_ph(balance, ph, width);
-            if (std::isfinite(ph)) width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
+            if (std::isfinite(ph))
+                width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
             ph = new_ph;
             ++evaluations;
             balance.concentrations(ph, c);
@@ -363,9 +397,11 @@ State solve_state(const Problem& p, const State* guess) {
             double change = 0;
             for (int k = 0; k < p.n_flat; ++k)
                 change = std::max(change, std::abs(std::log(g_new[k] / g[k])));
-            if (change <= 1e-11) return State{ph, balance.ionic_strength(ph), evaluations};
+            if (change <= 1e-11)
+                return State{ph, balance.ionic_strength(ph), evaluations};
             const double damp = cycle < 30 ? 1.0 : 0.5;
-            for (int k = 0; k < p.n_flat; ++k) g[k] = std::pow(g[k], 1 - damp) * std::pow(g_new[k], damp);
+            for (int k = 0; k < p.n_flat; ++k)
+                g[k] = std::pow(g[k], 1 - damp) * std::pow(g_new[k], damp);
         }
         throw Error("components", "the activity coefficients (SIT) did not converge; the mixture "
                                   "is too concentrated for the model");
@@ -374,27 +410,33 @@ State solve_state(const Problem& p, const State* guess) {
         davies_gammas(p, i_in, g);
         const AtFixedGamma balance(p, g, kc);
         const double new_ph = solve_ph(balance, ph, width);
-        if (std::isfinite(ph)) width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
+        if (std::isfinite(ph))
+            width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
         ph = new_ph;
         ++evaluations;
         return balance.ionic_strength(ph);
     };
-    auto converged = [](double a, double b) { return std::abs(a - b) <= 1e-14 + 1e-10 * std::abs(b); };
+    auto converged = [](double a, double b) {
+        return std::abs(a - b) <= 1e-14 + 1e-10 * std::abs(b);
+    };
     for (int cycle = 0; cycle < 100; ++cycle) {
         const double i1 = step(ionic);
-        if (converged(i1, ionic)) return State{ph, i1, evaluations};
+        if (converged(i1, ionic))
+            return State{ph, i1, evaluations};
         const double i2 = step(i1);
-        if (converged(i2, i1)) return State{ph, i2, evaluations};
+        if (converged(i2, i1))
+            return State{ph, i2, evaluations};
         const double d = i2 - 2 * i1 + ionic;
         double next = i2;
         if (std::abs(d) > 1e-300) {
             const double accelerated = ionic - (i1 - ionic) * (i1 - ionic) / d;
-            if (std::isfinite(accelerated) && accelerated >= 0) next = accelerated;
+            if (std::isfinite(accelerated) && accelerated >= 0)
+                next = accelerated;
         }
         ionic = next;
     }
-    throw Error("components", "the ionic strength did not converge (last " +
-                                  format_number(ionic) + " mol/L); the mixture is too concentrated "
+    throw Error("components", "the ionic strength did not converge (last " + format_number(ionic) +
+                                  " mol/L); the mixture is too concentrated "
                                   "for the Davies model");
 }
 
@@ -410,9 +452,11 @@ std::vector<double> gammas_at(const Problem& p, const State& st) {
             balance.concentrations(st.ph, c);
             sit_gammas(p, c, g_new);
             double change = 0;
-            for (int q = 0; q < p.n_flat; ++q) change = std::max(change, std::abs(std::log(g_new[q] / g[q])));
+            for (int q = 0; q < p.n_flat; ++q)
+                change = std::max(change, std::abs(std::log(g_new[q] / g[q])));
             g.swap(g_new);
-            if (change <= 1e-13) break;
+            if (change <= 1e-13)
+                break;
         }
     }
     return g;
@@ -448,8 +492,8 @@ Speciation report(const Problem& p, const State& st) {
     }
     out.buffer_capacity_mol_per_l = ln10 * beta;
     for (size_t k = 0; k < p.ions.size(); ++k)
-        out.species.push_back({p.ions[k].name, "", p.ions[k].charge, p.ions[k].total_mol_per_l,
-                               g[p.ion_offset + k]});
+        out.species.push_back(
+            {p.ions[k].name, "", p.ions[k].charge, p.ions[k].total_mol_per_l, g[p.ion_offset + k]});
     out.species.push_back({"H+", "", 1, c_h, g[p.h_index]});
     out.species.push_back({"OH-", "", -1, c_oh, g[p.oh_index]});
 
@@ -465,16 +509,18 @@ Speciation report(const Problem& p, const State& st) {
         return out;
     }
     if (i > 0.5)
-        out.warnings.push_back({"ionic-strength-high", Warning::Severity::warning,
-                                "Ionic strength " + format_number(i) +
-                                    " mol/L is above 0.5 mol/L, where the Davies activity model "
-                                    "does not hold: treat the pH as indicative only (errors of 0.1 "
-                                    "pH unit or more) and measure it, or choose \"activity_model\": \"sit\"."});
+        out.warnings.push_back(
+            {"ionic-strength-high", Warning::Severity::warning,
+             "Ionic strength " + format_number(i) +
+                 " mol/L is above 0.5 mol/L, where the Davies activity model "
+                 "does not hold: treat the pH as indicative only (errors of 0.1 "
+                 "pH unit or more) and measure it, or choose \"activity_model\": \"sit\"."});
     else if (i > 0.1)
         out.warnings.push_back({"ionic-strength-high", Warning::Severity::caution,
                                 "Ionic strength " + format_number(i) +
                                     " mol/L is above 0.1 mol/L; the Davies activity model loses "
-                                    "accuracy here (a few hundredths of a pH unit); \"activity_model\": \"sit\" holds to a few mol/kg."});
+                                    "accuracy here (a few hundredths of a pH unit); "
+                                    "\"activity_model\": \"sit\" holds to a few mol/kg."});
     return out;
 }
 
@@ -499,8 +545,8 @@ Speciation solve(const Library& lib, const std::vector<Component>& components, d
                 out.warnings.push_back(
                     {"activity-model-differs", Warning::Severity::caution,
                      "The Davies model gives pH " + format_fixed(davies_ph, 3) +
-                         " and the SIT model pH " + format_fixed(sit_ph, 3) + " at I = " +
-                         format_fixed(st.ionic_strength_mol_per_l, 3) +
+                         " and the SIT model pH " + format_fixed(sit_ph, 3) +
+                         " at I = " + format_fixed(st.ionic_strength_mol_per_l, 3) +
                          " mol/L: they differ by more than 0.02. SIT (\"activity_model\": \"sit\") "
                          "holds to a few mol/kg, Davies to about 0.1 mol/L."});
         } catch (const Error&) {

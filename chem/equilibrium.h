@@ -15,8 +15,8 @@ struct Component {
 };
 
 struct SpeciesAmount {
-    std::string species;       ///< "H2PO4-", "Na+", "H+", "OH-"
-    std::string system;        ///< system id, "" for spectators and water ions
+    std::string species; ///< "H2PO4-", "Na+", "H+", "OH-"
+    std::string system;  ///< system id, "" for spectators and water ions
     int charge = 0;
     double mol_per_l = 0;
     double activity_coefficient = 1;
@@ -25,9 +25,9 @@ struct SpeciesAmount {
 /// A diagnostic attached to a result. Codes are stable strings (tests and the CLI use them).
 struct Warning {
     enum class Severity { info, caution, warning };
-    std::string code;      ///< "ionic-strength-high", "ph-outside-pka-range", …
+    std::string code; ///< "ionic-strength-high", "ph-outside-pka-range", …
     Severity severity = Severity::info;
-    std::string message;   ///< plain sentence with the numbers behind it
+    std::string message; ///< plain sentence with the numbers behind it
 };
 const char* severity_name(Warning::Severity s);
 
@@ -38,7 +38,7 @@ struct Speciation {
     double buffer_capacity_mol_per_l = 0; ///< β = dC_base/dpH in mol/L per pH unit
     std::vector<SpeciesAmount> species;
     std::vector<Warning> warnings;
-    int iterations = 0;                   ///< ionic-strength iterations used
+    int iterations = 0; ///< ionic-strength iterations used
     ActivityModel activity_model = ActivityModel::davies;
 
     double concentration_of(const std::string& species_name) const; ///< 0 if absent

@@ -13,8 +13,8 @@ inline constexpr int max_steps = 4; ///< pKa steps per system supported by the f
 
 struct Problem {
     double temperature_k = 298.15;
-    double kw = 1e-14;    ///< thermodynamic ion product of water at T
-    double a_dh = 0.5;    ///< molar Debye–Hückel A at T, (L/mol)^1/2 (Davies)
+    double kw = 1e-14; ///< thermodynamic ion product of water at T
+    double a_dh = 0.5; ///< molar Debye–Hückel A at T, (L/mol)^1/2 (Davies)
     ActivityModel model = ActivityModel::davies;
     double a_molal = 0.5; ///< molal Debye–Hückel A at T, (kg/mol)^1/2 (SIT)
     /// kg of solvent per litre of solution, m = c / kg_per_l; the solutes' own volume is
@@ -24,8 +24,8 @@ struct Problem {
     struct System {
         const AcidBaseSystem* def = nullptr;
         int steps = 0;
-        int z0 = 0;                          ///< charge of the fully protonated species
-        std::array<double, max_steps> ka{};  ///< thermodynamic Ka of each step at T
+        int z0 = 0;                         ///< charge of the fully protonated species
+        std::array<double, max_steps> ka{}; ///< thermodynamic Ka of each step at T
         double total_mol_per_l = 0;
     };
     struct Ion {

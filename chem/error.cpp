@@ -28,9 +28,12 @@ void require_positive(double v, double hi, const std::string& field, const char*
 }
 
 std::string format_number(double value) {
-    if (std::isnan(value)) return "nan";
-    if (std::isinf(value)) return value > 0 ? "inf" : "-inf";
-    if (value == 0) return "0"; // also for -0
+    if (std::isnan(value))
+        return "nan";
+    if (std::isinf(value))
+        return value > 0 ? "inf" : "-inf";
+    if (value == 0)
+        return "0"; // also for -0
     // std::to_chars is locale-independent (a Qt app may run under a decimal-comma locale, where
     // printf would write "1,5"); general format with precision 6 is printf's %.6g: up to six
     // significant digits, trailing zeros dropped, exponent form for very large or small values.
@@ -40,17 +43,22 @@ std::string format_number(double value) {
 }
 
 std::string format_fixed(double value, int decimals) {
-    if (!std::isfinite(value)) return format_number(value);
+    if (!std::isfinite(value))
+        return format_number(value);
     char buf[128];
     auto res = std::to_chars(buf, buf + sizeof buf, value, std::chars_format::fixed, decimals);
-    if (res.ec != std::errc()) return format_number(value);
+    if (res.ec != std::errc())
+        return format_number(value);
     return std::string(buf, res.ptr);
 }
 
 std::string format_amount(double value) {
-    if (value >= 100) return format_fixed(value, 1);
-    if (value >= 10) return format_fixed(value, 2);
-    if (value >= 1) return format_fixed(value, 3);
+    if (value >= 100)
+        return format_fixed(value, 1);
+    if (value >= 10)
+        return format_fixed(value, 2);
+    if (value >= 1)
+        return format_fixed(value, 3);
     return format_fixed(value, 4);
 }
 

@@ -7,7 +7,7 @@
 namespace chem {
 
 class Error : public std::runtime_error {
-public:
+  public:
     /// @param field  the input at fault, in the JSON path style of the command-line contract
     ///               ("components[1].mol_per_l", "target_ph", "lines.A.bottle_ml").
     /// @param message what is wrong, naming the bad value ("-0.2 is not a positive amount").
@@ -25,7 +25,7 @@ public:
                      message_);
     }
 
-private:
+  private:
     std::string field_;
     std::string message_;
 };

@@ -23,19 +23,19 @@ struct Element {
 // table holds the conventional (abridged) value the report gives for use in commerce and trade.
 // Covered: H through Kr, and the heavier elements that occur in buffer and mobile-phase reagents.
 constexpr std::array<Element, 53> elements = {{
-    {"H", 1.008},         {"He", 4.002602},     {"Li", 6.94},         {"Be", 9.0121831},
-    {"B", 10.81},         {"C", 12.011},        {"N", 14.007},        {"O", 15.999},
-    {"F", 18.998403162},  {"Ne", 20.1797},      {"Na", 22.98976928},  {"Mg", 24.305},
-    {"Al", 26.9815384},   {"Si", 28.085},       {"P", 30.973761998},  {"S", 32.06},
-    {"Cl", 35.45},        {"Ar", 39.95},        {"K", 39.0983},       {"Ca", 40.078},
-    {"Sc", 44.955907},    {"Ti", 47.867},       {"V", 50.9415},       {"Cr", 51.9961},
-    {"Mn", 54.938043},    {"Fe", 55.845},       {"Co", 58.933194},    {"Ni", 58.6934},
-    {"Cu", 63.546},       {"Zn", 65.38},        {"Ga", 69.723},       {"Ge", 72.630},
-    {"As", 74.921595},    {"Se", 78.971},       {"Br", 79.904},       {"Kr", 83.798},
-    {"Rb", 85.4678},      {"Sr", 87.62},        {"Mo", 95.95},        {"Ag", 107.8682},
-    {"Cd", 112.414},      {"Sn", 118.710},      {"Sb", 121.760},      {"I", 126.90447},
-    {"Xe", 131.293},      {"Cs", 132.90545196}, {"Ba", 137.327},      {"W", 183.84},
-    {"Pt", 195.084},      {"Au", 196.966570},   {"Hg", 200.592},      {"Pb", 207.2},
+    {"H", 1.008},        {"He", 4.002602},     {"Li", 6.94},        {"Be", 9.0121831},
+    {"B", 10.81},        {"C", 12.011},        {"N", 14.007},       {"O", 15.999},
+    {"F", 18.998403162}, {"Ne", 20.1797},      {"Na", 22.98976928}, {"Mg", 24.305},
+    {"Al", 26.9815384},  {"Si", 28.085},       {"P", 30.973761998}, {"S", 32.06},
+    {"Cl", 35.45},       {"Ar", 39.95},        {"K", 39.0983},      {"Ca", 40.078},
+    {"Sc", 44.955907},   {"Ti", 47.867},       {"V", 50.9415},      {"Cr", 51.9961},
+    {"Mn", 54.938043},   {"Fe", 55.845},       {"Co", 58.933194},   {"Ni", 58.6934},
+    {"Cu", 63.546},      {"Zn", 65.38},        {"Ga", 69.723},      {"Ge", 72.630},
+    {"As", 74.921595},   {"Se", 78.971},       {"Br", 79.904},      {"Kr", 83.798},
+    {"Rb", 85.4678},     {"Sr", 87.62},        {"Mo", 95.95},       {"Ag", 107.8682},
+    {"Cd", 112.414},     {"Sn", 118.710},      {"Sb", 121.760},     {"I", 126.90447},
+    {"Xe", 131.293},     {"Cs", 132.90545196}, {"Ba", 137.327},     {"W", 183.84},
+    {"Pt", 195.084},     {"Au", 196.966570},   {"Hg", 200.592},     {"Pb", 207.2},
     {"Bi", 208.98040},
 }};
 
@@ -51,49 +51,57 @@ std::string quoted(std::string_view text) {
 
 const Element* find_element(std::string_view symbol) {
     for (const auto& e : elements)
-        if (e.symbol == symbol) return &e;
+        if (e.symbol == symbol)
+            return &e;
     return nullptr;
 }
 
-constexpr int max_nesting_depth = 16;         ///< deeper groups are refused, not recursed into
-constexpr double max_count = 1e6;             ///< a subscript or multiplier above this is refused
+constexpr int max_nesting_depth = 16; ///< deeper groups are refused, not recursed into
+constexpr double max_count = 1e6;     ///< a subscript or multiplier above this is refused
 constexpr std::size_t max_formula_bytes = 1000;
 
 /// Recursive-descent reader over the UTF-8 text. Positions in messages are 1-based characters
 /// (code points), so "Na2HPO4·7H2O" reports the "7" as character 9 although it is byte 10.
 class Parser {
-public:
+  public:
     explicit Parser(std::string_view text) : text_(text) {}
 
     std::map<std::string, double> run() {
         if (text_.size() > max_formula_bytes)
             fail("is longer than " + std::to_string(max_formula_bytes) + " characters");
-        if (text_.empty()) fail("is empty");
+        if (text_.empty())
+            fail("is empty");
         std::map<std::string, double> total;
         // formula := part (dot part)*  ;  part := [multiplier] group+
         for (;;) {
             double multiplier = 1;
-            if (at_digit()) multiplier = read_number(/*allow_fraction=*/true);
+            if (at_digit())
+                multiplier = read_number(/*allow_fraction=*/true);
             std::map<std::string, double> part = read_sequence(0);
             if (part.empty()) {
-                if (pos_ >= text_.size()) fail("ends where an element symbol is expected");
+                if (pos_ >= text_.size())
+                    fail("ends where an element symbol is expected");
                 fail_at(pos_, "expected an element symbol or \"(\", found " + quote_here());
             }
-            for (const auto& [symbol, n] : part) total[symbol] += multiplier * n;
-            if (pos_ >= text_.size()) break;
+            for (const auto& [symbol, n] : part)
+                total[symbol] += multiplier * n;
+            if (pos_ >= text_.size())
+                break;
             std::size_t dot_at = pos_;
             if (!read_dot()) {
                 if (peek() == ')' || peek() == ']')
-                    fail_at(pos_, quoted(std::string(1, peek())) + " has no matching opening bracket");
+                    fail_at(pos_,
+                            quoted(std::string(1, peek())) + " has no matching opening bracket");
                 fail_at(pos_, "unexpected " + quote_here());
             }
             skip_spaces();
-            if (pos_ >= text_.size()) fail_at(dot_at, "hydrate dot is not followed by a formula");
+            if (pos_ >= text_.size())
+                fail_at(dot_at, "hydrate dot is not followed by a formula");
         }
         return total;
     }
 
-private:
+  private:
     std::string_view text_;
     std::size_t pos_ = 0;
 
@@ -110,7 +118,8 @@ private:
             if (is_upper(c)) {
                 std::size_t start = pos_;
                 ++pos_;
-                while (is_lower(peek())) ++pos_;
+                while (is_lower(peek()))
+                    ++pos_;
                 std::string symbol(text_.substr(start, pos_ - start));
                 if (!find_element(symbol))
                     fail_at(start, "unknown element symbol " + quoted(symbol));
@@ -120,7 +129,8 @@ private:
                 std::size_t open_at = pos_;
                 char close = c == '(' ? ')' : ']';
                 if (depth + 1 > max_nesting_depth)
-                    fail_at(open_at, "brackets nested deeper than " + std::to_string(max_nesting_depth));
+                    fail_at(open_at,
+                            "brackets nested deeper than " + std::to_string(max_nesting_depth));
                 ++pos_;
                 std::map<std::string, double> inner = read_sequence(depth + 1);
                 if (peek() != close) {
@@ -131,10 +141,12 @@ private:
                                       std::to_string(char_index(open_at) + 1) + ", found " +
                                       quote_here());
                 }
-                if (inner.empty()) fail_at(open_at, "empty brackets");
+                if (inner.empty())
+                    fail_at(open_at, "empty brackets");
                 ++pos_;
                 double n = at_digit() ? read_number(false) : 1;
-                for (const auto& [symbol, k] : inner) counts[symbol] += n * k;
+                for (const auto& [symbol, k] : inner)
+                    counts[symbol] += n * k;
             } else {
                 return counts;
             }
@@ -149,7 +161,8 @@ private:
         while (at_digit()) {
             value = value * 10 + (peek() - '0');
             ++pos_;
-            if (value > max_count) fail_at(start, "count is larger than " + format_number(max_count));
+            if (value > max_count)
+                fail_at(start, "count is larger than " + format_number(max_count));
         }
         if (allow_fraction && peek() == '.' && pos_ + 1 < text_.size() && text_[pos_ + 1] >= '0' &&
             text_[pos_ + 1] <= '9') {
@@ -161,8 +174,9 @@ private:
                 ++pos_;
             }
         }
-        if (value == 0) fail_at(start, "count " + std::string(text_.substr(start, pos_ - start)) +
-                                           " is not positive");
+        if (value == 0)
+            fail_at(start,
+                    "count " + std::string(text_.substr(start, pos_ - start)) + " is not positive");
         return value;
     }
 
@@ -183,18 +197,21 @@ private:
 
     /// Spaces are allowed only around a hydrate dot ("Na2HPO4 · 7H2O").
     void skip_spaces() {
-        while (peek() == ' ') ++pos_;
+        while (peek() == ' ')
+            ++pos_;
     }
 
     std::size_t char_index(std::size_t byte) const {
         std::size_t n = 0;
         for (std::size_t i = 0; i < byte && i < text_.size(); ++i)
-            if ((static_cast<unsigned char>(text_[i]) & 0xC0) != 0x80) ++n;
+            if ((static_cast<unsigned char>(text_[i]) & 0xC0) != 0x80)
+                ++n;
         return n;
     }
 
     std::string quote_here() const {
-        if (pos_ >= text_.size()) return "the end";
+        if (pos_ >= text_.size())
+            return "the end";
         std::size_t len = 1;
         while (pos_ + len < text_.size() &&
                (static_cast<unsigned char>(text_[pos_ + len]) & 0xC0) == 0x80)
@@ -215,7 +232,8 @@ private:
 } // namespace
 
 double atomic_weight_g_per_mol(std::string_view symbol) {
-    if (const Element* e = find_element(symbol)) return e->weight_g_per_mol;
+    if (const Element* e = find_element(symbol))
+        return e->weight_g_per_mol;
     throw Error("formula", "unknown element symbol " + quoted(symbol.substr(0, 40)));
 }
 
@@ -225,7 +243,8 @@ std::map<std::string, double> parse_formula(std::string_view formula) {
 
 double molar_mass_g_per_mol(std::string_view formula) {
     double mass = 0;
-    for (const auto& [symbol, n] : parse_formula(formula)) mass += n * atomic_weight_g_per_mol(symbol);
+    for (const auto& [symbol, n] : parse_formula(formula))
+        mass += n * atomic_weight_g_per_mol(symbol);
     return mass;
 }
 

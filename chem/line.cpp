@@ -285,10 +285,10 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
                 dissolved_g_per_l += c.mol_per_l * c.reagent->molar_mass_g_per_mol;
             it.density_g_per_ml = rho_water + dissolved_g_per_l / 1000.0;
             it.density_temperature_c = t_c;
-            it.density_basis =
-                "estimate: water at " + format_number(t_c) +
-                " °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
-                fmt(dissolved_g_per_l, 2) + " g/L dissolved, the solutes' own volume neglected";
+            it.density_basis = "estimate: water at " + format_number(t_c) +
+                               " °C (Tanaka et al., Metrologia 38 (2001) 301) plus " +
+                               fmt(dissolved_g_per_l, 2) +
+                               " g/L dissolved, the solutes' own volume neglected";
             aqueous_ml += *it.volume_ml;
             if (!out.buffer)
                 out.buffer = part.buffer;
@@ -310,8 +310,9 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
                                         " °C with the expansion coefficient " +
                                         format_number(s.expansion_per_k) + " 1/K";
                 else
-                    it.density_basis += "; no expansion coefficient recorded, so not corrected to " +
-                                        format_number(t_c) + " °C";
+                    it.density_basis +=
+                        "; no expansion coefficient recorded, so not corrected to " +
+                        format_number(t_c) + " °C";
             }
             if (s.aqueous)
                 aqueous_ml += *it.volume_ml;

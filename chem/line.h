@@ -32,7 +32,7 @@ struct LineSpec {
     std::vector<LinePart> parts;
     std::vector<LineAdditive> additives;
     std::optional<double> shelf_life_h; ///< a lab's override of the default for the line's kind
-    double temperature_c = 20; ///< where the parts are measured: densities are taken at it
+    double temperature_c = 20;          ///< where the parts are measured: densities are taken at it
     ActivityModel activity_model = ActivityModel::davies; ///< for the pH of aqueous additives
 };
 

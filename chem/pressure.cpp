@@ -83,7 +83,8 @@ struct MixerSamples {
         return v[p.j] + p.dr * inv_h * (v[p.j + 1] - v[p.j]);
     }
     double integral_to(int c, const Place& p) const {
-        return p.periods * prefix[c][n] + prefix[c][p.j] + 0.5 * p.dr * (value[c][p.j] + value_at(c, p));
+        return p.periods * prefix[c][n] + prefix[c][p.j] +
+               0.5 * p.dr * (value[c][p.j] + value_at(c, p));
     }
     /// Mean of channel c over [a, b] (the value at b for an empty window).
     double mean(int c, const Place& a, const Place& b, double width) const {
@@ -130,17 +131,17 @@ void validate_column(const Column& c) {
     require_range(c.porosity, 0.2, 0.9, sub(f, "porosity"), "(interparticle porosity)");
     require_finite(c.total_porosity, sub(f, "total_porosity"));
     if (c.total_porosity <= c.porosity || c.total_porosity > 0.95)
-        throw Error(sub(f, "total_porosity"),
-                    format_number(c.total_porosity) + " is not above the porosity " +
-                        format_number(c.porosity) + " and at most 0.95");
+        throw Error(sub(f, "total_porosity"), format_number(c.total_porosity) +
+                                                  " is not above the porosity " +
+                                                  format_number(c.porosity) + " and at most 0.95");
     if (c.flow_resistance)
         require_range(*c.flow_resistance, 10, 1e5, sub(f, "flow_resistance"),
                       "(dimensionless, superficial velocity)");
     require_range(c.temperature_c, min_viscosity_temperature_c, max_viscosity_temperature_c,
                   sub(f, "temperature_c"), "°C");
     if (c.max_pressure_bar)
-        require_range(*c.max_pressure_bar, 1, max_pressure_limit_bar,
-                      sub(f, "max_pressure_bar"), "bar");
+        require_range(*c.max_pressure_bar, 1, max_pressure_limit_bar, sub(f, "max_pressure_bar"),
+                      "bar");
     if (c.reference) {
         const std::string r = sub(f, "reference");
         require_range(c.reference->pressure_bar, 1e-3, max_pressure_limit_bar,
@@ -157,8 +158,8 @@ void validate_column(const Column& c) {
 void validate_instrument(const Instrument& i) {
     const std::string& f = i.field;
     if (i.max_pressure_bar)
-        require_range(*i.max_pressure_bar, 1, max_pressure_limit_bar,
-                      sub(f, "max_pressure_bar"), "bar");
+        require_range(*i.max_pressure_bar, 1, max_pressure_limit_bar, sub(f, "max_pressure_bar"),
+                      "bar");
     if (i.system_pressure_bar) {
         require_range(*i.system_pressure_bar, 0, max_pressure_limit_bar,
                       sub(f, "system_pressure_bar"), "bar");

@@ -29,9 +29,9 @@ namespace chem {
 /// A measured pump pressure on the column at a stated flow and composition (the lab's own
 /// column): calibrates the flow resistance.
 struct ReferencePressure {
-    double pressure_bar = 0;   ///< the pump's reading, system included
+    double pressure_bar = 0; ///< the pump's reading, system included
     double flow_ml_min = 0;
-    LineValues percent{};      ///< composition, per line (sum 100), run isocratically
+    LineValues percent{};                ///< composition, per line (sum 100), run isocratically
     std::optional<double> temperature_c; ///< default: the column's
 };
 
@@ -40,7 +40,7 @@ struct Column {
     double length_mm = 0;
     double id_mm = 0;
     double particle_um = 0;
-    double porosity = 0.40;       ///< interparticle ε, fully porous particles (common practice)
+    double porosity = 0.40; ///< interparticle ε, fully porous particles (common practice)
     /// Total porosity ε_T for the column's liquid volume; 0.65 matches the rule of thumb
     /// V_m ≈ 0.5 · L · d_c² (mL, cm) (common practice, no source).
     double total_porosity = 0.65;

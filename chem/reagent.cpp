@@ -26,30 +26,36 @@ double AcidBaseSystem::pka_at(int step, double temperature_k) const {
     return pka25 + slope * (temperature_k - reference_temperature_k);
 }
 
-bool Reagent::has_system(const std::string& system_id) const { return share(system_id) != nullptr; }
+bool Reagent::has_system(const std::string& system_id) const {
+    return share(system_id) != nullptr;
+}
 
 const SystemShare* Reagent::share(const std::string& system_id) const {
     for (const auto& s : systems)
-        if (s.system == system_id) return &s;
+        if (s.system == system_id)
+            return &s;
     return nullptr;
 }
 
 double Reagent::formal_charge(const Library& lib) const {
     double q = 0;
-    for (const auto& sp : spectators) q += sp.charge * sp.count;
+    for (const auto& sp : spectators)
+        q += sp.charge * sp.count;
     for (const auto& s : systems)
         q += s.count * lib.system(s.system).charge_fully_protonated - s.protons_removed;
     return q;
 }
 
 bool Reagent::is_strong_acid() const {
-    if (!systems.empty() || spectators.empty()) return false;
+    if (!systems.empty() || spectators.empty())
+        return false;
     return std::all_of(spectators.begin(), spectators.end(),
                        [](const SpectatorIon& s) { return s.charge < 0; });
 }
 
 bool Reagent::is_strong_base() const {
-    if (!systems.empty() || spectators.empty()) return false;
+    if (!systems.empty() || spectators.empty())
+        return false;
     return std::all_of(spectators.begin(), spectators.end(),
                        [](const SpectatorIon& s) { return s.charge > 0; });
 }
@@ -59,7 +65,8 @@ bool any_of_codes(const std::vector<std::string>& codes, std::initializer_list<c
                   bool prefix = false) {
     for (const auto& c : codes)
         for (const char* w : wanted)
-            if (prefix ? c.rfind(w, 0) == 0 : c == w) return true;
+            if (prefix ? c.rfind(w, 0) == 0 : c == w)
+                return true;
     return false;
 }
 } // namespace
@@ -79,7 +86,8 @@ bool Reagent::is_toxic() const {
 }
 
 void Library::add_system(AcidBaseSystem system) {
-    if (system.id.empty()) throw Error("id", "a system needs an id");
+    if (system.id.empty())
+        throw Error("id", "a system needs an id");
     if (system.species.size() != system.pka_25c.size() + 1)
         throw Error("species", "system \"" + system.id + "\" lists " +
                                    std::to_string(system.species.size()) + " species for " +
@@ -89,12 +97,15 @@ void Library::add_system(AcidBaseSystem system) {
             throw Error("steps", "pKa values of \"" + system.id + "\" must increase step by step");
     auto it = std::find_if(systems_.begin(), systems_.end(),
                            [&](const AcidBaseSystem& s) { return s.id == system.id; });
-    if (it != systems_.end()) *it = std::move(system);
-    else systems_.push_back(std::move(system));
+    if (it != systems_.end())
+        *it = std::move(system);
+    else
+        systems_.push_back(std::move(system));
 }
 
 void Library::add_reagent(Reagent reagent) {
-    if (reagent.id.empty()) throw Error("id", "a reagent needs an id");
+    if (reagent.id.empty())
+        throw Error("id", "a reagent needs an id");
     if (!(reagent.molar_mass_g_per_mol > 0))
         throw Error("formula", "molar mass of \"" + reagent.id + "\" must be positive");
     if (!(reagent.assay_fraction > 0 && reagent.assay_fraction <= 1))
@@ -104,8 +115,10 @@ void Library::add_reagent(Reagent reagent) {
         throw Error("density_g_per_ml", "liquid \"" + reagent.id + "\" needs a positive density");
     for (const auto& s : reagent.systems) {
         if (!find_system(s.system))
-            throw Error("systems", "\"" + reagent.id + "\" names unknown system \"" + s.system + "\"");
-        if (!(s.count > 0)) throw Error("systems", "count must be positive in \"" + reagent.id + "\"");
+            throw Error("systems",
+                        "\"" + reagent.id + "\" names unknown system \"" + s.system + "\"");
+        if (!(s.count > 0))
+            throw Error("systems", "count must be positive in \"" + reagent.id + "\"");
         const auto& sys = system(s.system);
         if (s.protons_removed < 0 || s.protons_removed > s.count * sys.steps())
             throw Error("systems", "\"" + reagent.id + "\": protons_removed " +
@@ -120,12 +133,15 @@ void Library::add_reagent(Reagent reagent) {
                                       format_number(q) + ")");
     auto it = std::find_if(reagents_.begin(), reagents_.end(),
                            [&](const Reagent& r) { return r.id == reagent.id; });
-    if (it != reagents_.end()) *it = std::move(reagent);
-    else reagents_.push_back(std::move(reagent));
+    if (it != reagents_.end())
+        *it = std::move(reagent);
+    else
+        reagents_.push_back(std::move(reagent));
 }
 
 void Library::add_sit_epsilon(SitEpsilon e) {
-    if (e.cation.empty() || e.anion.empty()) throw Error("sit_epsilon", "needs a cation and an anion");
+    if (e.cation.empty() || e.anion.empty())
+        throw Error("sit_epsilon", "needs a cation and an anion");
     if (!std::isfinite(e.kg_per_mol) || std::abs(e.kg_per_mol) > 2)
         throw Error("sit_epsilon", format_number(e.kg_per_mol) + " kg/mol is outside -2 to 2");
     for (auto& x : sit_)
@@ -138,7 +154,8 @@ void Library::add_sit_epsilon(SitEpsilon e) {
 
 double Library::sit_epsilon(const std::string& cation, const std::string& anion) const {
     for (const auto& x : sit_)
-        if (x.cation == cation && x.anion == anion) return x.kg_per_mol;
+        if (x.cation == cation && x.anion == anion)
+            return x.kg_per_mol;
     return 0.0;
 }
 
@@ -157,11 +174,13 @@ double EluentSolvent::delta(double f) const {
 }
 
 void Library::add_eluent_solvent(EluentSolvent e) {
-    if (!(e.permittivity_25c > 1)) throw Error("permittivity_25c", "must be above 1");
+    if (!(e.permittivity_25c > 1))
+        throw Error("permittivity_25c", "must be above 1");
     if (e.fraction_v.size() != e.dpkw.size() || e.fraction_v.empty())
         throw Error("dpkw_points", "needs at least one row");
     for (size_t i = 1; i < e.fraction_v.size(); ++i)
-        if (!(e.fraction_v[i] > e.fraction_v[i - 1])) throw Error("dpkw_points", "rows must ascend");
+        if (!(e.fraction_v[i] > e.fraction_v[i - 1]))
+            throw Error("dpkw_points", "rows must ascend");
     for (auto& x : eluent_solvents_)
         if (x.organic == e.organic) {
             x = std::move(e);
@@ -172,34 +191,40 @@ void Library::add_eluent_solvent(EluentSolvent e) {
 
 const EluentSolvent* Library::eluent_solvent(const std::string& organic) const {
     for (const auto& x : eluent_solvents_)
-        if (x.organic == organic) return &x;
+        if (x.organic == organic)
+            return &x;
     return nullptr;
 }
 
 const Reagent* Library::find_reagent(const std::string& id) const {
     for (const auto& r : reagents_)
-        if (r.id == id) return &r;
+        if (r.id == id)
+            return &r;
     return nullptr;
 }
 
 const AcidBaseSystem* Library::find_system(const std::string& id) const {
     for (const auto& s : systems_)
-        if (s.id == id) return &s;
+        if (s.id == id)
+            return &s;
     return nullptr;
 }
 
 const AcidBaseSystem& Library::system(const std::string& id, const std::string& field) const {
-    if (const auto* s = find_system(id)) return *s;
+    if (const auto* s = find_system(id))
+        return *s;
     throw Error(field, "unknown acid-base system " + guard::quote_id(id));
 }
 
 const Reagent& Library::reagent(const std::string& id, const std::string& field) const {
-    if (const auto* r = find_reagent(id)) return *r;
+    if (const auto* r = find_reagent(id))
+        return *r;
     std::string hint;
     // Suggestions only for an id of sensible length: the edit distance is never run over a
     // megabyte, and no id is longer than guard::max_id_chars.
     if (id.size() <= 4 * guard::max_id_chars)
-        for (const auto& n : nearest_reagent_ids(id)) hint += (hint.empty() ? "" : ", ") + n;
+        for (const auto& n : nearest_reagent_ids(id))
+            hint += (hint.empty() ? "" : ", ") + n;
     throw Error(field, "unknown reagent " + guard::quote_id(id) +
                            (hint.empty() ? std::string() : " (nearest: " + hint + ")"));
 }
@@ -207,7 +232,8 @@ const Reagent& Library::reagent(const std::string& id, const std::string& field)
 namespace {
 size_t edit_distance(const std::string& a, const std::string& b) {
     std::vector<size_t> prev(b.size() + 1), cur(b.size() + 1);
-    for (size_t j = 0; j <= b.size(); ++j) prev[j] = j;
+    for (size_t j = 0; j <= b.size(); ++j)
+        prev[j] = j;
     for (size_t i = 1; i <= a.size(); ++i) {
         cur[0] = i;
         for (size_t j = 1; j <= b.size(); ++j)
@@ -223,12 +249,14 @@ std::vector<std::string> Library::nearest_reagent_ids(const std::string& id, int
     for (const auto& r : reagents_) {
         size_t d = edit_distance(id, r.id);
         // A reagent id that contains the query ("phosphate" in "...-phosphate") ranks close.
-        if (!id.empty() && r.id.find(id) != std::string::npos) d = std::min(d, r.id.size() - id.size());
+        if (!id.empty() && r.id.find(id) != std::string::npos)
+            d = std::min(d, r.id.size() - id.size());
         scored.emplace_back(d, r.id);
     }
     std::sort(scored.begin(), scored.end());
     std::vector<std::string> out;
-    for (int i = 0; i < count && i < static_cast<int>(scored.size()); ++i) out.push_back(scored[i].second);
+    for (int i = 0; i < count && i < static_cast<int>(scored.size()); ++i)
+        out.push_back(scored[i].second);
     return out;
 }
 

@@ -27,7 +27,7 @@ struct EluentSolvent {
     std::vector<double> fraction_v, dpkw; ///< s_s pKw − w_w pKw against φ, rows ascending
     std::string dpkw_source;
     std::vector<double> delta_numerator, delta_denominator;
-    double delta_max_fraction_v = 0;      ///< the published range of the δ equation
+    double delta_max_fraction_v = 0; ///< the published range of the δ equation
     std::string delta_source;
     double delta(double fraction_v) const;
 };
@@ -35,10 +35,11 @@ struct EluentSolvent {
 /// One acid-base system (phosphate, acetate, tris, …): its species from the fully protonated form
 /// down, the stepwise thermodynamic pKa values at 25 °C and their temperature dependence.
 struct AcidBaseSystem {
-    std::string id;                   ///< "phosphate"
-    std::string name;                 ///< "Phosphate (H3PO4 / H2PO4- / HPO4-2 / PO4-3)"
-    std::vector<std::string> species; ///< fully protonated first: {"H3PO4","H2PO4-","HPO4-2","PO4-3"}
-    int charge_fully_protonated = 0;  ///< charge of species[0]: 0 for H3PO4, +1 for NH4+ or TrisH+
+    std::string id;   ///< "phosphate"
+    std::string name; ///< "Phosphate (H3PO4 / H2PO4- / HPO4-2 / PO4-3)"
+    std::vector<std::string>
+        species; ///< fully protonated first: {"H3PO4","H2PO4-","HPO4-2","PO4-3"}
+    int charge_fully_protonated = 0; ///< charge of species[0]: 0 for H3PO4, +1 for NH4+ or TrisH+
     /// Thermodynamic pKa of step i (species[i] -> species[i+1] + H+) at 25 °C, infinite dilution.
     std::vector<double> pka_25c;
     /// Standard reaction enthalpy of step i in kJ/mol (van 't Hoff temperature dependence).
@@ -49,7 +50,7 @@ struct AcidBaseSystem {
     std::vector<double> heat_capacity_j_per_mol_k;
     /// dpKa/dT of step i in 1/K, used where no enthalpy is given (0 when neither is published).
     std::vector<double> dpka_per_k;
-    std::vector<std::string> sources; ///< one citation per number, free text
+    std::vector<std::string> sources;       ///< one citation per number, free text
     std::vector<OrganicShift> eluent_shift; ///< s_s pKa shifts in water–organic mixtures
 
     int steps() const { return static_cast<int>(pka_25c.size()); }
@@ -63,15 +64,15 @@ struct AcidBaseSystem {
 
 /// A spectator ion released by a reagent (takes no part in acid-base equilibria here).
 struct SpectatorIon {
-    std::string ion;      ///< "Na+", "Cl-"
-    int charge = 0;       ///< +1, -1, …
-    double count = 1;     ///< per formula unit of the reagent
+    std::string ion;  ///< "Na+", "Cl-"
+    int charge = 0;   ///< +1, -1, …
+    double count = 1; ///< per formula unit of the reagent
 };
 
 /// A reagent's share in one acid-base system.
 struct SystemShare {
-    std::string system;      ///< AcidBaseSystem::id
-    double count = 1;        ///< system units per formula unit (4 for Na2B4O7: 4 boron)
+    std::string system; ///< AcidBaseSystem::id
+    double count = 1;   ///< system units per formula unit (4 for Na2B4O7: 4 boron)
     /// Protons removed from the fully protonated form, per formula unit of the reagent, summed over
     /// its `count` units (Na2HPO4: 2; Na2B4O7·10H2O as 4 B(OH)3 less 2 H+: 2). Used to check the
     /// reagent's electroneutrality and to say which of two reagents is the more basic form.
@@ -81,21 +82,22 @@ struct SystemShare {
 enum class PhysicalForm { solid, liquid };
 
 struct Reagent {
-    std::string id;                 ///< "disodium-hydrogen-phosphate-heptahydrate"
-    std::string name;               ///< "Disodium hydrogen phosphate heptahydrate"
-    std::string formula;            ///< "Na2HPO4(H2O)7"
-    double molar_mass_g_per_mol = 0; ///< from the formula, IUPAC 2021 weights, hydrate water included
+    std::string id;      ///< "disodium-hydrogen-phosphate-heptahydrate"
+    std::string name;    ///< "Disodium hydrogen phosphate heptahydrate"
+    std::string formula; ///< "Na2HPO4(H2O)7"
+    double molar_mass_g_per_mol =
+        0; ///< from the formula, IUPAC 2021 weights, hydrate water included
     PhysicalForm form = PhysicalForm::solid;
     /// Mass fraction of the named substance in the material as supplied: purity of a solid,
     /// assay (w/w) of a liquid such as 85 % phosphoric acid (0.85). 1 = pure.
     double assay_fraction = 1;
-    double density_g_per_ml = 0;    ///< of the liquid as supplied (0 for solids)
+    double density_g_per_ml = 0;             ///< of the liquid as supplied (0 for solids)
     std::vector<std::string> ghs_hazards;    ///< "H314", "H290", … as supplied
     std::vector<std::string> ghs_pictograms; ///< "GHS05", …
     std::vector<SpectatorIon> spectators;
     std::vector<SystemShare> systems;
-    std::vector<std::string> sources;        ///< where the physical data and hazard codes come from
-    bool user_defined = false;               ///< a lab's own entry, never overwritten by data/ updates
+    std::vector<std::string> sources; ///< where the physical data and hazard codes come from
+    bool user_defined = false;        ///< a lab's own entry, never overwritten by data/ updates
 
     bool has_system(const std::string& system_id) const;
     const SystemShare* share(const std::string& system_id) const;
@@ -108,15 +110,15 @@ struct Reagent {
     bool is_strong_acid() const;
     /// Strong base: releases only cations and brings no acid-base system (NaOH).
     bool is_strong_base() const;
-    bool is_corrosive() const;   ///< GHS05 or H314/H290/H318
-    bool is_flammable() const;   ///< GHS02 or H22x
-    bool is_toxic() const;       ///< GHS06/GHS08 or H30x/H31x/H33x
+    bool is_corrosive() const; ///< GHS05 or H314/H290/H318
+    bool is_flammable() const; ///< GHS02 or H22x
+    bool is_toxic() const;     ///< GHS06/GHS08 or H30x/H31x/H33x
 };
 
 /// The reagents and systems known to the program. Lookup by id; unknown ids throw chem::Error
 /// naming the id and the nearest known ids.
 class Library {
-public:
+  public:
     void add_system(AcidBaseSystem system);
     /// Adds or replaces (by id) a reagent. Throws chem::Error when it names an unknown system,
     /// has a non-positive molar mass, or is not electroneutral.
@@ -142,7 +144,7 @@ public:
     /// Up to `count` known reagent ids closest to `id` (edit distance), best first.
     std::vector<std::string> nearest_reagent_ids(const std::string& id, int count = 3) const;
 
-private:
+  private:
     std::vector<AcidBaseSystem> systems_;
     std::vector<Reagent> reagents_;
     std::vector<SitEpsilon> sit_;

@@ -19,17 +19,18 @@ namespace chem {
 
 namespace {
 
-constexpr double max_volume_ml = 1.0e6;         ///< 1000 L: no bench prepares more
+constexpr double max_volume_ml = 1.0e6; ///< 1000 L: no bench prepares more
 constexpr double max_titrant_mol_per_l = 20.0;
-constexpr double balance_min_mass_g = 0.010;    ///< common practice, no source: ~10 mg on a 0.1 mg balance
+constexpr double balance_min_mass_g =
+    0.010; ///< common practice, no source: ~10 mg on a 0.1 mg balance
 constexpr double pipette_min_volume_ml = 0.010; ///< common practice, no source: 10 µL
 constexpr double low_buffer_capacity = 0.002;   ///< mol/L per pH; common practice, no source
 constexpr double ph_solve_tolerance = 1e-7;
 
-
 double purity_of(const RecipeRequest& req, const Reagent& r) {
     for (const auto& [id, p] : req.purity_overrides)
-        if (id == r.id) return p;
+        if (id == r.id)
+            return p;
     return r.assay_fraction;
 }
 
@@ -41,7 +42,8 @@ RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l
     const double material_g = mol * r.molar_mass_g_per_mol / purity_of(req, r);
     it.mass_g = guard::amount(material_g, "items." + r.id + ".mass_g", "mass");
     if (r.form == PhysicalForm::liquid) {
-        it.volume_ml = guard::amount(material_g / r.density_g_per_ml, "items." + r.id + ".volume_ml", "volume");
+        it.volume_ml = guard::amount(material_g / r.density_g_per_ml,
+                                     "items." + r.id + ".volume_ml", "volume");
         it.as = "liquid";
         it.kind = ItemKind::liquid;
     } else {
@@ -58,7 +60,8 @@ RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_
     it.reagent = r.id;
     it.kind = kind;
     it.mol_per_l = mol_per_l;
-    it.volume_ml = guard::amount(mol_per_l * req.volume_ml / stock_mol_per_l, "items." + r.id + ".volume_ml", "volume");
+    it.volume_ml = guard::amount(mol_per_l * req.volume_ml / stock_mol_per_l,
+                                 "items." + r.id + ".volume_ml", "volume");
     it.as = std::string(kind == ItemKind::stock ? "stock" : "titrant") + " " +
             format_number(stock_mol_per_l) + " mol/L";
     return it;
@@ -75,7 +78,8 @@ RecipeItem neat_titrant_item(const RecipeRequest& req, const Reagent& r, double 
 /// The most of a reagent as supplied that fits in 90 % of the flask, in mol/L of final solution
 /// (a liquid: ρ · assay / M; a solid is limited by max_concentration_mol_per_l only).
 double most_as_supplied_mol_per_l(const Reagent& r, double purity) {
-    if (r.form != PhysicalForm::liquid) return max_concentration_mol_per_l;
+    if (r.form != PhysicalForm::liquid)
+        return max_concentration_mol_per_l;
     return std::min(0.9 * r.density_g_per_ml * purity / r.molar_mass_g_per_mol * 1000.0,
                     max_concentration_mol_per_l);
 }
@@ -83,11 +87,13 @@ double most_as_supplied_mol_per_l(const Reagent& r, double purity) {
 /// Solves g(x) = 0 on [lo, hi] for a monotone g known to change sign there.
 double root_between(const std::function<double(double)>& g, double lo, double hi, double glo,
                     double ghi) {
-    if (glo == 0) return lo;
-    if (ghi == 0) return hi;
+    if (glo == 0)
+        return lo;
+    if (ghi == 0)
+        return hi;
     std::uintmax_t iters = 200;
-    auto r = boost::math::tools::toms748_solve(g, lo, hi, glo, ghi,
-                                               boost::math::tools::eps_tolerance<double>(34), iters);
+    auto r = boost::math::tools::toms748_solve(
+        g, lo, hi, glo, ghi, boost::math::tools::eps_tolerance<double>(34), iters);
     return 0.5 * (r.first + r.second);
 }
 
@@ -108,16 +114,20 @@ void validate_common(const RecipeRequest& req) {
         throw Error("concentration_mol_per_l",
                     "give exactly one of concentration_mol_per_l and ionic_strength_mol_per_l");
     auto check_amount = [](const char* field, double v) {
-        if (!std::isfinite(v) || v <= 0) throw Error(field, format_number(v) + " is not a positive amount");
+        if (!std::isfinite(v) || v <= 0)
+            throw Error(field, format_number(v) + " is not a positive amount");
         if (v > max_concentration_mol_per_l)
             throw Error(field, format_number(v) + " mol/L is above " +
                                    format_number(max_concentration_mol_per_l) + " mol/L");
     };
-    if (req.concentration_mol_per_l) check_amount("concentration_mol_per_l", *req.concentration_mol_per_l);
-    if (req.ionic_strength_mol_per_l) check_amount("ionic_strength_mol_per_l", *req.ionic_strength_mol_per_l);
+    if (req.concentration_mol_per_l)
+        check_amount("concentration_mol_per_l", *req.concentration_mol_per_l);
+    if (req.ionic_strength_mol_per_l)
+        check_amount("ionic_strength_mol_per_l", *req.ionic_strength_mol_per_l);
     for (const auto& [id, p] : req.purity_overrides)
         if (!std::isfinite(p) || p <= 0 || p > 1)
-            throw Error("purity_percent." + id, format_number(p * 100) + " % is outside 0 to 100 %");
+            throw Error("purity_percent." + id,
+                        format_number(p * 100) + " % is outside 0 to 100 %");
 }
 
 /// Two-component problem whose amounts vary: component 0 and 1.
@@ -136,7 +146,9 @@ struct Pair {
     double ph(double c0, double c1) { return state(c0, c1).ph; }
 };
 
-std::string ph_text(double ph) { return "pH " + format_fixed(ph, 2); }
+std::string ph_text(double ph) {
+    return "pH " + format_fixed(ph, 2);
+}
 
 /// Outer search over the buffer concentration for a target ionic strength. `solve_at(c)` returns
 /// the ionic strength of the recipe designed at buffer concentration c, or NaN when the target
@@ -165,7 +177,8 @@ double concentration_for_ionic_strength(const std::function<double(double)>& ion
     }
     if (std::isnan(ihi) || ihi < target_i)
         throw Error("ionic_strength_mol_per_l",
-                    format_number(target_i) + " mol/L cannot be reached with this buffer at up to " +
+                    format_number(target_i) +
+                        " mol/L cannot be reached with this buffer at up to " +
                         format_number(c_max) + " mol/L of it");
     return root_between([&](double c) { return ionic_at(c) - target_i; }, lo, hi, ilo - target_i,
                         ihi - target_i);
@@ -178,16 +191,21 @@ struct MixDesign {
 
 /// The shares of the system a mix pair has in common, in which the base form carries fewer
 /// protons per unit. Throws chem::Error("base") when the two are not a conjugate pair.
-std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent& acid, const Reagent& base) {
-    if (acid.id == base.id) throw Error("base", "\"" + base.name + "\" is the same as the acid form");
+std::pair<const SystemShare*, const SystemShare*> conjugate_shares(const Reagent& acid,
+                                                                   const Reagent& base) {
+    if (acid.id == base.id)
+        throw Error("base", "\"" + base.name + "\" is the same as the acid form");
     for (const auto& s : acid.systems) {
         const SystemShare* other = base.share(s.system);
-        if (!other) continue;
+        if (!other)
+            continue;
         // The shared system in which the base form carries fewer protons per unit.
-        if (other->protons_removed / other->count > s.protons_removed / s.count + 1e-9) return {&s, other};
+        if (other->protons_removed / other->count > s.protons_removed / s.count + 1e-9)
+            return {&s, other};
     }
     bool any_shared = false;
-    for (const auto& s : acid.systems) any_shared |= base.has_system(s.system);
+    for (const auto& s : acid.systems)
+        any_shared |= base.has_system(s.system);
     if (!any_shared)
         throw Error("base", "\"" + base.name + "\" and \"" + acid.name +
                                 "\" share no acid-base system, so they are not a conjugate pair");
@@ -204,7 +222,9 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
     const auto sb = shares.second;
     MixDesign d;
     d.system = &lib.system(sa->system);
-    Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c, req.activity_model), std::nullopt};
+    Pair pair{detail::build_problem(lib, {{&acid, 1.0}, {&base, 1.0}}, req.temperature_c,
+                                    req.activity_model),
+              std::nullopt};
     // x: fraction of the system's total that comes from the base form.
     auto amounts = [&](double total, double x) {
         return std::pair{(1 - x) * total / sa->count, x * total / sb->count};
@@ -213,7 +233,8 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
         auto [a0, b0] = amounts(total, 0.0);
         auto [a1, b1] = amounts(total, 1.0);
         const double ph0 = pair.ph(a0, b0), ph1 = pair.ph(a1, b1);
-        if (req.target_ph < ph0 || req.target_ph > ph1) return std::nullopt;
+        if (req.target_ph < ph0 || req.target_ph > ph1)
+            return std::nullopt;
         auto g = [&](double x) {
             auto [a, b] = amounts(total, x);
             return pair.ph(a, b) - req.target_ph;
@@ -228,24 +249,26 @@ MixDesign design_mix(const Library& lib, const RecipeRequest& req, const Reagent
         if (!x) {
             auto [a0, b0] = amounts(total, 0.0);
             auto [a1, b1] = amounts(total, 1.0);
-            throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by mixing " +
-                                         acid.name + " and " + base.name + " at " +
-                                         format_number(total) + " mol/L and " +
-                                         format_number(req.temperature_c) + " °C: the mix spans " +
-                                         ph_text(pair.ph(a0, b0)) + " to " + ph_text(pair.ph(a1, b1)));
+            throw Error("target_ph",
+                        ph_text(req.target_ph) + " cannot be reached by mixing " + acid.name +
+                            " and " + base.name + " at " + format_number(total) + " mol/L and " +
+                            format_number(req.temperature_c) + " °C: the mix spans " +
+                            ph_text(pair.ph(a0, b0)) + " to " + ph_text(pair.ph(a1, b1)));
         }
     } else {
         const double c_max = max_concentration_mol_per_l * std::min(sa->count, sb->count);
         total = concentration_for_ionic_strength(
             [&](double c) {
                 auto x = reach(c);
-                if (!x) return std::numeric_limits<double>::quiet_NaN();
+                if (!x)
+                    return std::numeric_limits<double>::quiet_NaN();
                 auto [a, b] = amounts(c, *x);
                 return pair.state(a, b).ionic_strength_mol_per_l;
             },
             *req.ionic_strength_mol_per_l, c_max);
     }
-    if (!x) x = reach(total);
+    if (!x)
+        x = reach(total);
     std::tie(d.c_acid, d.c_base) = amounts(total, *x);
     return d;
 }
@@ -269,18 +292,21 @@ struct AdditionDesign {
 };
 
 class AdditionSearch {
-public:
+  public:
     AdditionSearch(const Library& lib, const RecipeRequest& req, const Reagent& held,
                    const Reagent& added, const Addition& rule)
-        : req_(req), rule_(rule),
-          pair_{detail::build_problem(lib, {{&held, 1.0}, {&added, 1.0}}, req.temperature_c, req.activity_model), std::nullopt} {}
+        : req_(req),
+          rule_(rule), pair_{detail::build_problem(lib, {{&held, 1.0}, {&added, 1.0}},
+                                                   req.temperature_c, req.activity_model),
+                             std::nullopt} {}
 
     double held_at(double c, double n) const {
         return std::max(0.0, rule_.held_per_c * c - rule_.held_less_per_n * n);
     }
     double n_high(double c) const {
-        return rule_.held_less_per_n > 0 ? std::min(rule_.n_max, rule_.held_per_c * c / rule_.held_less_per_n)
-                                         : rule_.n_max;
+        return rule_.held_less_per_n > 0
+                   ? std::min(rule_.n_max, rule_.held_per_c * c / rule_.held_less_per_n)
+                   : rule_.n_max;
     }
     double ph(double c, double n) { return pair_.ph(held_at(c, n), n); }
     double ionic_strength(double c, double n) {
@@ -294,13 +320,18 @@ public:
         const double n_hi = n_high(c);
         const double ph0 = ph(c, 0.0);
         const double ph1 = ph(c, n_hi);
-        if (ph_start) *ph_start = ph0;
-        if (ph_end) *ph_end = ph1;
-        if (target < std::min(ph0, ph1) || target > std::max(ph0, ph1)) return std::nullopt;
+        if (ph_start)
+            *ph_start = ph0;
+        if (ph_end)
+            *ph_end = ph1;
+        if (target < std::min(ph0, ph1) || target > std::max(ph0, ph1))
+            return std::nullopt;
         auto g = [&](double n) { return ph(c, n) - target; };
         double lo = 0, glo = ph0 - target, hi = n_hi, ghi = ph1 - target;
-        if (glo == 0) return lo;
-        if (ghi == 0) return hi;
+        if (glo == 0)
+            return lo;
+        if (ghi == 0)
+            return hi;
         for (int k = 0; k < 30; ++k) {
             const double n = hi / 4;
             const double gn = g(n);
@@ -326,17 +357,19 @@ public:
             *c = concentration_for_ionic_strength(
                 [&](double conc) {
                     auto n = reach(conc);
-                    if (!n) return std::numeric_limits<double>::quiet_NaN();
+                    if (!n)
+                        return std::numeric_limits<double>::quiet_NaN();
                     return ionic_strength(conc, *n);
                 },
                 *req_.ionic_strength_mol_per_l, max_concentration_mol_per_l);
         }
         auto n = reach(*c, ph_start, ph_end);
-        if (!n) return std::nullopt;
+        if (!n)
+            return std::nullopt;
         return AdditionDesign{held_at(*c, *n), *n};
     }
 
-private:
+  private:
     const RecipeRequest& req_;
     Addition rule_;
     Pair pair_;
@@ -352,25 +385,28 @@ MixDesign design_mix_on_salt(const Library& lib, const RecipeRequest& req, const
         const bool both = !acid.spectators.empty() || acid.systems.size() > 1;
         throw Error("concentration_basis",
                     "\"salt\" holds the salt of the pair at the concentration, but " +
-                        std::string(both ? "both " : "neither of ") + "\"" + acid.name + "\" and \"" + base.name +
-                        "\" carr" + (both ? "y" : "ies") +
-                        " a counter-ion; use \"total\", or the titrate route to say which reagent is weighed");
+                        std::string(both ? "both " : "neither of ") + "\"" + acid.name +
+                        "\" and \"" + base.name + "\" carr" + (both ? "y" : "ies") +
+                        " a counter-ion; use \"total\", or the titrate route to say which reagent "
+                        "is weighed");
     }
     const Reagent& partner = salt == &acid ? base : acid;
     Addition rule;
     if (req.route == Route::stocks)
-        rule.n_max = std::min(0.9 * (&partner == &acid ? req.acid_stock_mol_per_l : req.base_stock_mol_per_l),
-                              max_concentration_mol_per_l);
+        rule.n_max = std::min(
+            0.9 * (&partner == &acid ? req.acid_stock_mol_per_l : req.base_stock_mol_per_l),
+            max_concentration_mol_per_l);
     else
         rule.n_max = most_as_supplied_mol_per_l(partner, purity_of(req, partner));
     AdditionSearch search(lib, req, *salt, partner, rule);
     double c = 0, ph0 = 0, ph1 = 0;
     const auto d = search.design(&c, &ph0, &ph1);
     if (!d)
-        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by adding " + partner.name + " to " +
-                                     format_number(c) + " mol/L " + salt->name + " at " +
-                                     format_number(req.temperature_c) + " °C: the mixture spans " +
-                                     ph_text(ph0) + " (" + salt->name + " alone) to " + ph_text(ph1) + " (" +
+        throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by adding " +
+                                     partner.name + " to " + format_number(c) + " mol/L " +
+                                     salt->name + " at " + format_number(req.temperature_c) +
+                                     " °C: the mixture spans " + ph_text(ph0) + " (" + salt->name +
+                                     " alone) to " + ph_text(ph1) + " (" +
                                      format_number(rule.n_max) + " mol/L of " + partner.name + ")");
     MixDesign m;
     m.system = &lib.system(sa->system);
@@ -384,7 +420,8 @@ std::string fitting_titrants(const Library& lib, const Reagent& weighed) {
     std::string out;
     for (const Reagent& r : lib.reagents())
         if (const auto fit = titrant_fit(lib, weighed, r))
-            out += (out.empty() ? "" : ", ") + r.name + " (" + r.id + ", " + direction_name(fit->direction) + ")";
+            out += (out.empty() ? "" : ", ") + r.name + " (" + r.id + ", " +
+                   direction_name(fit->direction) + ")";
     return out.empty() ? "none in the library" : out;
 }
 
@@ -395,20 +432,22 @@ std::string reagent_label(const Reagent& r) {
 void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<std::string>& steps) {
     for (const auto& it : recipe.items) {
         const Reagent& r = lib.reagent(it.reagent);
-        if (it.as.rfind("titrant", 0) == 0) continue;
+        if (it.as.rfind("titrant", 0) == 0)
+            continue;
         if (it.as == "solid") {
             steps.push_back("Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
                             " and dissolve it in the water.");
         } else if (it.as == "liquid") {
-            std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" + format_amount(*it.mass_g) +
-                            " g) of " + reagent_label(r) + ", " +
+            std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" +
+                            format_amount(*it.mass_g) + " g) of " + reagent_label(r) + ", " +
                             format_number(r.assay_fraction * 100) + " % w/w, " +
                             format_number(r.density_g_per_ml) + " g/mL, and add it to the water";
-            if (r.is_corrosive()) s += " slowly, with stirring (acid or base into water, never water into it)";
+            if (r.is_corrosive())
+                s += " slowly, with stirring (acid or base into water, never water into it)";
             steps.push_back(s + ".");
         } else {
-            steps.push_back("Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name + " " + it.as +
-                            " into the flask.");
+            steps.push_back("Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name +
+                            " " + it.as + " into the flask.");
         }
     }
 }
@@ -417,26 +456,32 @@ std::vector<std::string> cautions_for(const Library& lib, const std::vector<cons
     std::vector<std::string> out;
     bool corrosive = false, fumes = false, flammable = false;
     for (const Reagent* r : used) {
-        if (r->ghs_hazards.empty()) continue;
+        if (r->ghs_hazards.empty())
+            continue;
         std::string codes;
-        for (const auto& h : r->ghs_hazards) codes += (codes.empty() ? "" : " ") + h;
+        for (const auto& h : r->ghs_hazards)
+            codes += (codes.empty() ? "" : " ") + h;
         std::string pics;
-        for (const auto& p : r->ghs_pictograms) pics += (pics.empty() ? "" : " ") + p;
+        for (const auto& p : r->ghs_pictograms)
+            pics += (pics.empty() ? "" : " ") + p;
         out.push_back(r->name + ": " + codes + (pics.empty() ? "" : " (" + pics + ")") + ".");
         corrosive |= r->is_corrosive();
         flammable |= r->is_flammable();
         const bool volatile_liquid = r->form == PhysicalForm::liquid;
         for (const auto& h : r->ghs_hazards)
-            fumes |= (volatile_liquid && (h == "H335" || h == "H331" || h == "H332" || h == "H330" ||
-                                          h == "H314"));
+            fumes |= (volatile_liquid &&
+                      (h == "H335" || h == "H331" || h == "H332" || h == "H330" || h == "H314"));
     }
     (void)lib;
     if (corrosive)
-        out.push_back("Corrosive reagents: wear chemical-resistant gloves, eye protection and a lab "
-                      "coat; add acid or base to water slowly, never water to it.");
+        out.push_back(
+            "Corrosive reagents: wear chemical-resistant gloves, eye protection and a lab "
+            "coat; add acid or base to water slowly, never water to it.");
     if (fumes)
-        out.push_back("Concentrated corrosive or irritant liquids: open and measure them in a fume hood.");
-    if (flammable) out.push_back("Flammable reagents: keep away from heat, sparks and open flames.");
+        out.push_back(
+            "Concentrated corrosive or irritant liquids: open and measure them in a fume hood.");
+    if (flammable)
+        out.push_back("Flammable reagents: keep away from heat, sparks and open flames.");
     out.push_back("Read the safety data sheet of every reagent before use and follow your "
                   "laboratory's rules and licensed practice; these notes do not replace them.");
     return out;
@@ -453,8 +498,10 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     switch (req.route) {
     case Route::mix:
     case Route::stocks: {
-        if (req.acid.empty()) throw Error("acid", "is required for route \"mix\" and \"stocks\"");
-        if (req.base.empty()) throw Error("base", "is required for route \"mix\" and \"stocks\"");
+        if (req.acid.empty())
+            throw Error("acid", "is required for route \"mix\" and \"stocks\"");
+        if (req.base.empty())
+            throw Error("base", "is required for route \"mix\" and \"stocks\"");
         const Reagent& acid = lib.reagent(req.acid, "acid");
         const Reagent& base = lib.reagent(req.base, "base");
         if (req.route == Route::stocks) {
@@ -473,15 +520,20 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                 : design_mix(lib, req, acid, base);
         used = {&acid, &base};
         if (req.route == Route::mix) {
-            if (d.c_acid > 0) recipe.items.push_back(item_for(req, acid, d.c_acid));
-            if (d.c_base > 0) recipe.items.push_back(item_for(req, base, d.c_base));
+            if (d.c_acid > 0)
+                recipe.items.push_back(item_for(req, acid, d.c_acid));
+            if (d.c_base > 0)
+                recipe.items.push_back(item_for(req, base, d.c_base));
         } else {
             if (d.c_acid > 0)
-                recipe.items.push_back(solution_item(req, acid, d.c_acid, req.acid_stock_mol_per_l, ItemKind::stock));
+                recipe.items.push_back(
+                    solution_item(req, acid, d.c_acid, req.acid_stock_mol_per_l, ItemKind::stock));
             if (d.c_base > 0)
-                recipe.items.push_back(solution_item(req, base, d.c_base, req.base_stock_mol_per_l, ItemKind::stock));
+                recipe.items.push_back(
+                    solution_item(req, base, d.c_base, req.base_stock_mol_per_l, ItemKind::stock));
             double total_ml = 0;
-            for (const auto& it : recipe.items) total_ml += *it.volume_ml;
+            for (const auto& it : recipe.items)
+                total_ml += *it.volume_ml;
             if (total_ml > req.volume_ml)
                 throw Error(d.c_acid * req.volume_ml / req.acid_stock_mol_per_l >
                                     d.c_base * req.volume_ml / req.base_stock_mol_per_l
@@ -491,54 +543,63 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                 " mL of stock exceeds the final volume of " +
                                 format_number(req.volume_ml) + " mL");
         }
-        if (d.c_acid > 0) recipe.composition.push_back({&acid, d.c_acid});
-        if (d.c_base > 0) recipe.composition.push_back({&base, d.c_base});
+        if (d.c_acid > 0)
+            recipe.composition.push_back({&acid, d.c_acid});
+        if (d.c_base > 0)
+            recipe.composition.push_back({&base, d.c_base});
         break;
     }
     case Route::titrate: {
-        if (req.weigh.empty()) throw Error("weigh", "is required for route \"titrate\"");
-        if (req.titrant.empty()) throw Error("titrant", "is required for route \"titrate\"");
+        if (req.weigh.empty())
+            throw Error("weigh", "is required for route \"titrate\"");
+        if (req.titrant.empty())
+            throw Error("titrant", "is required for route \"titrate\"");
         const Reagent& weigh = lib.reagent(req.weigh, "weigh");
         const Reagent& titrant = lib.reagent(req.titrant, "titrant");
         const bool neat = req.titrant_form == TitrantForm::neat;
         if (neat) {
             if (req.titrant_mol_per_l != 0)
-                throw Error("titrant_mol_per_l", format_number(req.titrant_mol_per_l) +
-                                                     " mol/L is given for a neat titrant: remove it, or set "
-                                                     "titrant_form to \"solution\"");
+                throw Error("titrant_mol_per_l",
+                            format_number(req.titrant_mol_per_l) +
+                                " mol/L is given for a neat titrant: remove it, or set "
+                                "titrant_form to \"solution\"");
             if (titrant.form != PhysicalForm::liquid)
-                throw Error("titrant_form", "\"" + titrant.name +
-                                                "\" is a solid and cannot be added neat: use titrant_form "
-                                                "\"solution\" with its titrant_mol_per_l");
+                throw Error("titrant_form",
+                            "\"" + titrant.name +
+                                "\" is a solid and cannot be added neat: use titrant_form "
+                                "\"solution\" with its titrant_mol_per_l");
         } else {
             if (!std::isfinite(req.titrant_mol_per_l) || req.titrant_mol_per_l <= 0)
                 throw Error("titrant_mol_per_l",
                             format_number(req.titrant_mol_per_l) + " is not a positive molarity");
             if (req.titrant_mol_per_l > max_titrant_mol_per_l)
-                throw Error("titrant_mol_per_l", format_number(req.titrant_mol_per_l) +
-                                                     " mol/L is above " +
-                                                     format_number(max_titrant_mol_per_l) + " mol/L");
+                throw Error("titrant_mol_per_l",
+                            format_number(req.titrant_mol_per_l) + " mol/L is above " +
+                                format_number(max_titrant_mol_per_l) + " mol/L");
         }
         if (weigh.id == titrant.id)
             throw Error("titrant", "\"" + titrant.name + "\" is the weighed reagent itself");
         const auto fit = titrant_fit(lib, weigh, titrant);
         if (!fit)
-            throw Error("titrant", "\"" + titrant.name + "\" cannot bring \"" + weigh.name +
-                                       "\" to pH: it is neither another form of its acid-base system nor a "
-                                       "strong acid or base; titrants that fit: " +
-                                       fitting_titrants(lib, weigh));
+            throw Error("titrant",
+                        "\"" + titrant.name + "\" cannot bring \"" + weigh.name +
+                            "\" to pH: it is neither another form of its acid-base system nor a "
+                            "strong acid or base; titrants that fit: " +
+                            fitting_titrants(lib, weigh));
         Addition rule;
         rule.n_max = neat ? most_as_supplied_mol_per_l(titrant, purity_of(req, titrant))
                           : std::min(0.9 * req.titrant_mol_per_l, max_concentration_mol_per_l);
         const AcidBaseSystem* sys = buffer_system(lib, req);
-        const bool total = req.basis.value_or(default_basis(req.route)) == ConcentrationBasis::total;
+        const bool total =
+            req.basis.value_or(default_basis(req.route)) == ConcentrationBasis::total;
         if (total) {
             const SystemShare* ws = sys ? weigh.share(sys->id) : nullptr;
             if (!ws)
-                throw Error("concentration_basis", "\"total\" counts an acid-base system, and \"" + weigh.name +
-                                                       "\" has none; use \"salt\"");
+                throw Error("concentration_basis", "\"total\" counts an acid-base system, and \"" +
+                                                       weigh.name + "\" has none; use \"salt\"");
             rule.held_per_c = 1.0 / ws->count;
-            if (const SystemShare* ts = titrant.share(sys->id)) rule.held_less_per_n = ts->count / ws->count;
+            if (const SystemShare* ts = titrant.share(sys->id))
+                rule.held_less_per_n = ts->count / ws->count;
         }
         AdditionSearch search(lib, req, weigh, titrant, rule);
         double c = 0, ph0 = 0, ph1 = 0;
@@ -547,34 +608,42 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             const bool raises = ph1 > ph0;
             std::string why;
             if ((raises && req.target_ph < ph0) || (!raises && req.target_ph > ph0))
-                why = "the weighed " + weigh.name + " alone gives " + ph_text(ph0) + ", and " + titrant.name +
-                      " can only " + (raises ? "raise" : "lower") + " it";
+                why = "the weighed " + weigh.name + " alone gives " + ph_text(ph0) + ", and " +
+                      titrant.name + " can only " + (raises ? "raise" : "lower") + " it";
             else if (search.n_high(c) < rule.n_max)
-                why = titrant.name + " reaches only " + ph_text(ph1) + " when it brings all of the " +
-                      format_number(c) + " mol/L total " + sys->id;
+                why = titrant.name + " reaches only " + ph_text(ph1) +
+                      " when it brings all of the " + format_number(c) + " mol/L total " + sys->id;
             else if (rule.n_max >= max_concentration_mol_per_l)
                 why = titrant.name + " reaches only " + ph_text(ph1) + " at " +
                       format_number(max_concentration_mol_per_l) +
                       " mol/L in the final solution, the most the designer adds";
             else
-                why = titrant.name + (neat ? " as supplied" : " at " + format_number(req.titrant_mol_per_l) + " mol/L") +
-                      " reaches only " + ph_text(ph1) + " before its volume would fill 90 % of the flask";
-            throw Error("target_ph", ph_text(req.target_ph) + " cannot be reached by titrating " +
-                                         (total ? weigh.name + " at " + format_number(c) + " mol/L total " +
-                                                      (sys ? sys->id : std::string())
-                                                : format_number(c) + " mol/L " + weigh.name) +
-                                         " with " + titrant.name + " at " + format_number(req.temperature_c) +
-                                         " °C: " + why + " (the titration spans " + ph_text(ph0) + " to " +
-                                         ph_text(ph1) + ")");
+                why = titrant.name +
+                      (neat ? " as supplied"
+                            : " at " + format_number(req.titrant_mol_per_l) + " mol/L") +
+                      " reaches only " + ph_text(ph1) +
+                      " before its volume would fill 90 % of the flask";
+            throw Error("target_ph",
+                        ph_text(req.target_ph) + " cannot be reached by titrating " +
+                            (total ? weigh.name + " at " + format_number(c) + " mol/L total " +
+                                         (sys ? sys->id : std::string())
+                                   : format_number(c) + " mol/L " + weigh.name) +
+                            " with " + titrant.name + " at " + format_number(req.temperature_c) +
+                            " °C: " + why + " (the titration spans " + ph_text(ph0) + " to " +
+                            ph_text(ph1) + ")");
         }
         used = {&weigh, &titrant};
-        if (d->c_held > 0) recipe.items.push_back(item_for(req, weigh, d->c_held));
+        if (d->c_held > 0)
+            recipe.items.push_back(item_for(req, weigh, d->c_held));
         if (d->n_added > 0)
             recipe.items.push_back(neat ? neat_titrant_item(req, titrant, d->n_added)
-                                        : solution_item(req, titrant, d->n_added, req.titrant_mol_per_l,
+                                        : solution_item(req, titrant, d->n_added,
+                                                        req.titrant_mol_per_l,
                                                         ItemKind::titrant_solution));
-        if (d->c_held > 0) recipe.composition.push_back({&weigh, d->c_held});
-        if (d->n_added > 0) recipe.composition.push_back({&titrant, d->n_added});
+        if (d->c_held > 0)
+            recipe.composition.push_back({&weigh, d->c_held});
+        if (d->n_added > 0)
+            recipe.composition.push_back({&titrant, d->n_added});
         break;
     }
     }
@@ -605,12 +674,15 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     const double water_ml = std::round(req.volume_ml * 0.8);
     double added_ml = 0;
     for (const auto& it : recipe.items)
-        if (it.as != "solid" && it.volume_ml) added_ml += *it.volume_ml;
+        if (it.as != "solid" && it.volume_ml)
+            added_ml += *it.volume_ml;
     const double check_ml = std::min(req.volume_ml, water_ml + added_ml);
     const double check_ph = [&] {
-        if (req.route == Route::stocks || check_ml >= req.volume_ml) return recipe.predicted.ph;
+        if (req.route == Route::stocks || check_ml >= req.volume_ml)
+            return recipe.predicted.ph;
         std::vector<Component> at_check = recipe.composition;
-        for (auto& c : at_check) c.mol_per_l *= req.volume_ml / check_ml;
+        for (auto& c : at_check)
+            c.mol_per_l *= req.volume_ml / check_ml;
         try {
             return solve(lib, at_check, req.temperature_c, req.activity_model).ph;
         } catch (const Error&) {
@@ -620,46 +692,52 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     const std::string at_volume =
         "about " + format_number(std::round(check_ml)) + " mL, before making up to volume";
     if (req.route == Route::stocks) {
-        steps.push_back("Rinse a " + format_number(req.volume_ml) + " mL volumetric flask with HPLC-grade water.");
+        steps.push_back("Rinse a " + format_number(req.volume_ml) +
+                        " mL volumetric flask with HPLC-grade water.");
         add_amount_steps(lib, recipe, steps);
         steps.push_back("Make up to the mark with water at " + format_number(req.temperature_c) +
                         " °C and mix well.");
-        steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
-                        ph_text(recipe.predicted.ph) +
+        steps.push_back("Check the pH at " + format_number(req.temperature_c) +
+                        " °C: " + ph_text(recipe.predicted.ph) +
                         " is predicted. If the meter reads more than 0.05 away, check the meter "
                         "calibration and the stock concentrations before adjusting.");
     } else {
         steps.push_back("Put about " + format_number(water_ml) +
-                        " mL of HPLC-grade water (about 80 % of the final volume) in a clean beaker with a stirrer.");
+                        " mL of HPLC-grade water (about 80 % of the final volume) in a clean "
+                        "beaker with a stirrer.");
         add_amount_steps(lib, recipe, steps);
     }
     if (req.route == Route::titrate) {
         const Reagent& titrant = lib.reagent(req.titrant);
         RecipeItem t;
         for (const auto& it : recipe.items)
-            if (it.kind == ItemKind::titrant_solution || it.kind == ItemKind::titrant_neat) t = it;
+            if (it.kind == ItemKind::titrant_solution || it.kind == ItemKind::titrant_neat)
+                t = it;
         const bool neat = req.titrant_form == TitrantForm::neat;
         std::string predicted = format_amount(t.volume_ml.value_or(0)) + " mL";
-        if (neat) predicted += " (" + format_amount(t.mass_g.value_or(0)) + " g)";
+        if (neat)
+            predicted += " (" + format_amount(t.mass_g.value_or(0)) + " g)";
         steps.push_back("Bring the solution to " + format_number(req.temperature_c) +
                         " °C and calibrate the pH meter at that temperature.");
-        steps.push_back("While stirring, add " + titrant.name +
-                        (neat ? " as supplied (neat), drop by drop,"
-                              : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
-                        " until the meter reads " + ph_text(check_ph) + " (the pH predicted at " +
-                        at_volume + "; " + ph_text(req.target_ph) + " after making up); about " +
-                        predicted + " is predicted.");
+        steps.push_back(
+            "While stirring, add " + titrant.name +
+            (neat ? " as supplied (neat), drop by drop,"
+                  : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
+            " until the meter reads " + ph_text(check_ph) + " (the pH predicted at " + at_volume +
+            "; " + ph_text(req.target_ph) + " after making up); about " + predicted +
+            " is predicted.");
     } else if (req.route == Route::mix) {
-        steps.push_back("Check the pH at " + format_number(req.temperature_c) + " °C: " +
-                        ph_text(check_ph) + " is predicted at " + at_volume + " (" +
-                        ph_text(recipe.predicted.ph) +
-                        " after making up). If the meter reads more than 0.05 away, check the meter "
-                        "calibration and the weighings before adjusting.");
+        steps.push_back(
+            "Check the pH at " + format_number(req.temperature_c) + " °C: " + ph_text(check_ph) +
+            " is predicted at " + at_volume + " (" + ph_text(recipe.predicted.ph) +
+            " after making up). If the meter reads more than 0.05 away, check the meter "
+            "calibration and the weighings before adjusting.");
     }
     if (req.route != Route::stocks)
         steps.push_back("Transfer to a " + format_number(req.volume_ml) +
                         " mL volumetric flask, rinse the beaker into it, and make up to the mark "
-                        "with water at " + format_number(req.temperature_c) + " °C; mix well.");
+                        "with water at " +
+                        format_number(req.temperature_c) + " °C; mix well.");
     steps.push_back("Filter through a 0.45 µm (or 0.2 µm) membrane filter suited to aqueous "
                     "solutions.");
     steps.push_back("Label the bottle: contents, pH, date, preparer, expiry.");
@@ -673,7 +751,8 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     const double t_k = to_kelvin(req.temperature_c);
     auto gamma_of = [&](const std::string& system, const std::string& species) {
         for (const auto& sp : recipe.predicted.species)
-            if (sp.system == system && sp.species == species) return sp.activity_coefficient;
+            if (sp.system == system && sp.species == species)
+                return sp.activity_coefficient;
         return 1.0;
     };
     double nearest = std::numeric_limits<double>::infinity();
@@ -681,10 +760,12 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     std::set<std::string> seen;
     for (const auto& c : recipe.composition)
         for (const auto& s : c.reagent->systems) {
-            if (!seen.insert(s.system).second) continue;
+            if (!seen.insert(s.system).second)
+                continue;
             const auto& sys = lib.system(s.system);
             for (int j = 0; j < sys.steps(); ++j) {
-                const double pka = sys.pka_at(j, t_k) - std::log10(gamma_of(sys.id, sys.species[j])) +
+                const double pka = sys.pka_at(j, t_k) -
+                                   std::log10(gamma_of(sys.id, sys.species[j])) +
                                    std::log10(gamma_of(sys.id, sys.species[j + 1]));
                 if (std::abs(pka - req.target_ph) < nearest) {
                     nearest = std::abs(pka - req.target_ph);
@@ -702,7 +783,8 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                          " mol/L); outside pKa′ ± 1 the solution buffers poorly."});
     if (recipe.predicted.buffer_capacity_mol_per_l < low_buffer_capacity)
         w.push_back({"low-buffer-capacity", Warning::Severity::caution,
-                     "Buffer capacity " + format_fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +
+                     "Buffer capacity " +
+                         format_fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +
                          " mmol/L per pH is below 2 mmol/L per pH (common practice, no source): "
                          "the sample or dissolved CO2 can shift the pH."});
     for (const auto& it : recipe.items) {
@@ -714,7 +796,8 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                              "volume or use a stock solution."});
         if (!weighed && it.volume_ml && *it.volume_ml < pipette_min_volume_ml)
             w.push_back({"small-amount", Warning::Severity::caution,
-                         lib.reagent(it.reagent).name + ": " + format_fixed(*it.volume_ml * 1000, 1) +
+                         lib.reagent(it.reagent).name + ": " +
+                             format_fixed(*it.volume_ml * 1000, 1) +
                              " µL is below what a pipette delivers well (10 µL); make a larger "
                              "volume or dilute the reagent first."});
         if (it.as.rfind("titrant", 0) == 0 && *it.volume_ml > 0.5 * req.volume_ml)
@@ -723,7 +806,8 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                              format_number(req.volume_ml) +
                              " mL final volume; use a more concentrated titrant."});
     }
-    for (const auto& pw : recipe.predicted.warnings) w.push_back(pw);
+    for (const auto& pw : recipe.predicted.warnings)
+        w.push_back(pw);
     return recipe;
 }
 

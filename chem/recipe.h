@@ -10,9 +10,9 @@
 namespace chem {
 
 enum class Route {
-    mix,      ///< acid form + conjugate-base form of one system, weighed or pipetted neat
-    titrate,  ///< weigh one form, adjust with a titrant (see titrant_fit) as a solution or neat
-    stocks,   ///< acid form and base form from stock solutions of given molarity
+    mix,     ///< acid form + conjugate-base form of one system, weighed or pipetted neat
+    titrate, ///< weigh one form, adjust with a titrant (see titrant_fit) as a solution or neat
+    stocks,  ///< acid form and base form from stock solutions of given molarity
 };
 
 /// What concentration_mol_per_l counts.
@@ -27,8 +27,9 @@ enum class ConcentrationBasis {
     /// one of the pair that carries a counter-ion (the salt).
     salt,
 };
-const char* basis_name(ConcentrationBasis basis);                         ///< "total", "salt"
-std::optional<ConcentrationBasis> basis_from_name(const std::string& name); ///< inverse; nullopt otherwise
+const char* basis_name(ConcentrationBasis basis); ///< "total", "salt"
+std::optional<ConcentrationBasis>
+basis_from_name(const std::string& name);      ///< inverse; nullopt otherwise
 ConcentrationBasis default_basis(Route route); ///< total for mix and stocks, salt for titrate
 
 /// How the titrant of the titrate route is supplied.
@@ -36,7 +37,7 @@ enum class TitrantForm {
     solution, ///< a solution of titrant_mol_per_l, measured by volume
     neat,     ///< the liquid as supplied (library assay and density): a volume, with its mass
 };
-const char* titrant_form_name(TitrantForm form);                       ///< "solution", "neat"
+const char* titrant_form_name(TitrantForm form); ///< "solution", "neat"
 std::optional<TitrantForm> titrant_form_from_name(const std::string& name);
 
 /// What adding a titrant does to the pH of the weighed reagent's solution.
@@ -46,18 +47,18 @@ const char* direction_name(PhDirection direction); ///< "lowers", "raises"
 struct RecipeRequest {
     double target_ph = 7;
     double temperature_c = 25;
-    double volume_ml = 1000;          ///< final volume after making up with water
+    double volume_ml = 1000; ///< final volume after making up with water
     Route route = Route::mix;
     // mix and stocks
-    std::string acid;                 ///< reagent id of the acid form
-    std::string base;                 ///< reagent id of the conjugate-base form
-    double acid_stock_mol_per_l = 0;  ///< stocks route: molarity of the acid-form stock
-    double base_stock_mol_per_l = 0;  ///< stocks route: molarity of the base-form stock
+    std::string acid;                ///< reagent id of the acid form
+    std::string base;                ///< reagent id of the conjugate-base form
+    double acid_stock_mol_per_l = 0; ///< stocks route: molarity of the acid-form stock
+    double base_stock_mol_per_l = 0; ///< stocks route: molarity of the base-form stock
     // titrate
-    std::string weigh;                ///< reagent id weighed (or pipetted) in
-    std::string titrant;              ///< reagent id of the titrant (e.g. sodium-hydroxide)
+    std::string weigh;   ///< reagent id weighed (or pipetted) in
+    std::string titrant; ///< reagent id of the titrant (e.g. sodium-hydroxide)
     TitrantForm titrant_form = TitrantForm::solution;
-    double titrant_mol_per_l = 0;     ///< molarity of the titrant solution; 0 for a neat titrant
+    double titrant_mol_per_l = 0; ///< molarity of the titrant solution; 0 for a neat titrant
     /// Exactly one of these two: total concentration of the buffer system (mix, stocks: the
     /// shared system; titrate: the weighed reagent), or the ionic strength of the finished buffer.
     std::optional<double> concentration_mol_per_l;
@@ -81,11 +82,11 @@ enum class ItemKind {
 };
 
 struct RecipeItem {
-    std::string reagent;                 ///< reagent id
+    std::string reagent; ///< reagent id
     ItemKind kind = ItemKind::solid;
-    std::optional<double> mass_g;        ///< solids (and liquids: mass of material as supplied)
-    std::optional<double> volume_ml;     ///< liquids as supplied, or a stock / titrant solution
-    double mol_per_l = 0;                ///< formula units per litre of final solution
+    std::optional<double> mass_g;    ///< solids (and liquids: mass of material as supplied)
+    std::optional<double> volume_ml; ///< liquids as supplied, or a stock / titrant solution
+    double mol_per_l = 0;            ///< formula units per litre of final solution
     /// The kind in words for the contract: "solid", "liquid", "stock 0.2 mol/L",
     /// "titrant 1 mol/L", "titrant, neat".
     std::string as;
@@ -96,30 +97,33 @@ struct RecipeItem {
 struct FamilyTotal {
     enum class Kind { system, ion };
     Kind kind = Kind::system;
-    std::string id;        ///< system id ("formate") or ion ("Na+")
-    std::string name;      ///< in words for the screen: "formate", "ammonium", "sodium"
-    double mol_per_l = 0;  ///< per litre of final solution
+    std::string id;       ///< system id ("formate") or ion ("Na+")
+    std::string name;     ///< in words for the screen: "formate", "ammonium", "sodium"
+    double mol_per_l = 0; ///< per litre of final solution
 };
 
 /// The concentration basis of a designed recipe, resolved and in words.
 struct BasisStatement {
     ConcentrationBasis basis = ConcentrationBasis::total;
-    std::string system;             ///< id of the buffer system c refers to (total) or that is adjusted (salt)
-    std::string held_reagent;       ///< salt basis: the reagent at c; "" for total
-    std::string adjusting_reagent;  ///< what brings the pH to target: the titrant or the partner form
+    std::string system; ///< id of the buffer system c refers to (total) or that is adjusted (salt)
+    std::string held_reagent; ///< salt basis: the reagent at c; "" for total
+    std::string
+        adjusting_reagent; ///< what brings the pH to target: the titrant or the partner form
     double concentration_mol_per_l = 0; ///< c, as given or as found for an ionic-strength target
     /// One sentence for the screen and the sheet: "20 mmol/L total phosphate";
-    /// "10 mmol/L ammonium formate, brought to pH 3.00 with formic acid: formate 67.2 mmol/L in all".
+    /// "10 mmol/L ammonium formate, brought to pH 3.00 with formic acid: formate 67.2 mmol/L in
+    /// all".
     std::string text;
 };
 
 struct Recipe {
     RecipeRequest request;
     std::vector<RecipeItem> items;
-    std::vector<Component> composition;  ///< the solution as made, ready to feed back into solve()
-    Speciation predicted;                ///< solve() of composition at the request's temperature
-    std::vector<std::string> steps;      ///< in order
-    std::vector<std::string> cautions;   ///< from the reagents' hazards; defers to the SDS and local rules
+    std::vector<Component> composition; ///< the solution as made, ready to feed back into solve()
+    Speciation predicted;               ///< solve() of composition at the request's temperature
+    std::vector<std::string> steps;     ///< in order
+    std::vector<std::string>
+        cautions; ///< from the reagents' hazards; defers to the SDS and local rules
     std::vector<Warning> warnings;
     BasisStatement basis;
     /// Every system and spectator ion of the solution as made: the buffer system first, then the
@@ -148,6 +152,7 @@ struct TitrantFit {
 /// no system of its own (HCl, NaOH), or an acid whose every pKa at 25 °C is below 1 (TFA; fully
 /// dissociated across the buffer range, common practice, no source). std::nullopt otherwise
 /// (acetic acid for ammonium formate, or the weighed reagent itself).
-std::optional<TitrantFit> titrant_fit(const Library& lib, const Reagent& weighed, const Reagent& titrant);
+std::optional<TitrantFit> titrant_fit(const Library& lib, const Reagent& weighed,
+                                      const Reagent& titrant);
 
 } // namespace chem

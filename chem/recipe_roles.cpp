@@ -12,15 +12,19 @@ namespace chem {
 
 const char* basis_name(ConcentrationBasis basis) {
     switch (basis) {
-    case ConcentrationBasis::total: return "total";
-    case ConcentrationBasis::salt: return "salt";
+    case ConcentrationBasis::total:
+        return "total";
+    case ConcentrationBasis::salt:
+        return "salt";
     }
     return "total";
 }
 
 std::optional<ConcentrationBasis> basis_from_name(const std::string& name) {
-    if (name == "total") return ConcentrationBasis::total;
-    if (name == "salt") return ConcentrationBasis::salt;
+    if (name == "total")
+        return ConcentrationBasis::total;
+    if (name == "salt")
+        return ConcentrationBasis::salt;
     return std::nullopt;
 }
 
@@ -33,8 +37,10 @@ const char* titrant_form_name(TitrantForm form) {
 }
 
 std::optional<TitrantForm> titrant_form_from_name(const std::string& name) {
-    if (name == "solution") return TitrantForm::solution;
-    if (name == "neat") return TitrantForm::neat;
+    if (name == "solution")
+        return TitrantForm::solution;
+    if (name == "neat")
+        return TitrantForm::neat;
     return std::nullopt;
 }
 
@@ -48,10 +54,13 @@ namespace {
 /// over 97 % dissociated. Common practice, no source.
 constexpr double strong_acid_pka = 1.0;
 
-double per_unit(const SystemShare& s) { return s.protons_removed / s.count; }
+double per_unit(const SystemShare& s) {
+    return s.protons_removed / s.count;
+}
 
 bool has_counter_ion(const Reagent& r, const std::string& system) {
-    if (!r.spectators.empty()) return true;
+    if (!r.spectators.empty())
+        return true;
     return std::any_of(r.systems.begin(), r.systems.end(),
                        [&](const SystemShare& s) { return s.system != system; });
 }
@@ -59,16 +68,22 @@ bool has_counter_ion(const Reagent& r, const std::string& system) {
 /// An acid that gives up all its protons across the buffer range: no system (HCl), or only
 /// fully protonated systems whose every pKa is below strong_acid_pka (TFA).
 bool strong_acid_like(const Library& lib, const Reagent& r) {
-    if (r.is_strong_acid()) return true;
-    if (r.systems.empty()) return false;
+    if (r.is_strong_acid())
+        return true;
+    if (r.systems.empty())
+        return false;
     for (const auto& ion : r.spectators)
-        if (ion.charge > 0) return false;
+        if (ion.charge > 0)
+            return false;
     for (const auto& s : r.systems) {
-        if (s.protons_removed != 0) return false;
+        if (s.protons_removed != 0)
+            return false;
         const AcidBaseSystem* sys = lib.find_system(s.system);
-        if (!sys || sys->pka_25c.empty()) return false;
+        if (!sys || sys->pka_25c.empty())
+            return false;
         for (double pka : sys->pka_25c)
-            if (!(pka < strong_acid_pka)) return false;
+            if (!(pka < strong_acid_pka))
+                return false;
     }
     return true;
 }
@@ -77,7 +92,8 @@ bool strong_acid_like(const Library& lib, const Reagent& r) {
 const std::string* pair_system(const Reagent& acid, const Reagent& base) {
     for (const auto& s : acid.systems)
         if (const SystemShare* other = base.share(s.system))
-            if (per_unit(*other) > per_unit(s) + 1e-9) return &s.system;
+            if (per_unit(*other) > per_unit(s) + 1e-9)
+                return &s.system;
     return nullptr;
 }
 
@@ -87,7 +103,8 @@ RoleChoice choice_of(const Reagent& r, const std::string& system) {
     c.name = r.name;
     c.formula = r.formula;
     c.form = r.form;
-    if (const SystemShare* s = r.share(system)) c.protons_removed_per_unit = per_unit(*s);
+    if (const SystemShare* s = r.share(system))
+        c.protons_removed_per_unit = per_unit(*s);
     c.salt = has_counter_ion(r, system);
     return c;
 }
@@ -103,25 +120,30 @@ std::string lower_first(std::string s) {
 
 /// Three significant figures, trailing zeros dropped: 20, 67.2, 1.48, 0.05.
 std::string three_figures(double v) {
-    if (!(v > 0) || !std::isfinite(v)) return format_number(v);
+    if (!(v > 0) || !std::isfinite(v))
+        return format_number(v);
     const int decimals = std::clamp(2 - static_cast<int>(std::floor(std::log10(v))), 0, 6);
     std::string s = format_fixed(v, decimals);
     if (s.find('.') != std::string::npos) {
-        while (s.back() == '0') s.pop_back();
-        if (s.back() == '.') s.pop_back();
+        while (s.back() == '0')
+            s.pop_back();
+        if (s.back() == '.')
+            s.pop_back();
     }
     return s;
 }
 
 /// "20 mM" or "1.5 M" for a buffer name.
 std::string short_concentration(double mol_per_l) {
-    return mol_per_l >= 1 ? three_figures(mol_per_l) + " M" : three_figures(mol_per_l * 1000) + " mM";
+    return mol_per_l >= 1 ? three_figures(mol_per_l) + " M"
+                          : three_figures(mol_per_l * 1000) + " mM";
 }
 
 /// pH with two decimals, or one when the second is 0: "2.5", "3.0", "6.85".
 std::string name_ph(double ph) {
     std::string s = format_fixed(ph, 2);
-    if (s.size() > 3 && s.back() == '0') s.pop_back();
+    if (s.size() > 3 && s.back() == '0')
+        s.pop_back();
     return s;
 }
 
@@ -130,7 +152,8 @@ const SystemShare* nearest_pka_share(const Library& lib, const Reagent& r, doubl
     double best_gap = std::numeric_limits<double>::infinity();
     for (const auto& s : r.systems) {
         const AcidBaseSystem* sys = lib.find_system(s.system);
-        if (!sys) continue;
+        if (!sys)
+            continue;
         for (double pka : sys->pka_25c)
             if (std::abs(pka - ph) < best_gap) {
                 best_gap = std::abs(pka - ph);
@@ -146,19 +169,23 @@ struct Participants {
     const Reagent* second = nullptr; ///< mix/stocks: base; titrate: titrant
 };
 Participants participants(const Library& lib, const RecipeRequest& req) {
-    if (req.route == Route::titrate) return {lib.find_reagent(req.weigh), lib.find_reagent(req.titrant)};
+    if (req.route == Route::titrate)
+        return {lib.find_reagent(req.weigh), lib.find_reagent(req.titrant)};
     return {lib.find_reagent(req.acid), lib.find_reagent(req.base)};
 }
 
 /// The reagent held at c on the salt basis, and the one that brings the pH; nullptr when the
 /// request does not say.
-std::pair<const Reagent*, const Reagent*> held_and_adjusting(const Library& lib, const RecipeRequest& req,
-                                                             const AcidBaseSystem* sys) {
+std::pair<const Reagent*, const Reagent*>
+held_and_adjusting(const Library& lib, const RecipeRequest& req, const AcidBaseSystem* sys) {
     const Participants p = participants(lib, req);
-    if (req.route == Route::titrate) return {p.first, p.second};
-    if (!p.first || !p.second || !sys) return {nullptr, nullptr};
+    if (req.route == Route::titrate)
+        return {p.first, p.second};
+    if (!p.first || !p.second || !sys)
+        return {nullptr, nullptr};
     const Reagent* salt = salt_of_pair(*p.first, *p.second, sys->id);
-    if (!salt) return {nullptr, nullptr};
+    if (!salt)
+        return {nullptr, nullptr};
     return {salt, salt == p.first ? p.second : p.first};
 }
 
@@ -169,20 +196,26 @@ std::string cation_words(const Library& lib, std::initializer_list<const Reagent
                          const std::string& buffer_system_id) {
     std::vector<std::string> words;
     auto add = [&](const std::string& w) {
-        if (std::find(words.begin(), words.end(), w) == words.end()) words.push_back(w);
+        if (std::find(words.begin(), words.end(), w) == words.end())
+            words.push_back(w);
     };
     for (const Reagent* r : used) {
-        if (!r) continue;
+        if (!r)
+            continue;
         for (const auto& ion : r->spectators)
-            if (ion.charge > 0) add(ion_words(ion.ion));
+            if (ion.charge > 0)
+                add(ion_words(ion.ion));
         for (const auto& s : r->systems) {
-            if (s.system == buffer_system_id) continue;
+            if (s.system == buffer_system_id)
+                continue;
             const AcidBaseSystem* sys = lib.find_system(s.system);
-            if (sys && sys->charge_fully_protonated > 0) add(system_words(*sys));
+            if (sys && sys->charge_fully_protonated > 0)
+                add(system_words(*sys));
         }
     }
     std::string out;
-    for (const auto& w : words) out += (out.empty() ? "" : " ") + w;
+    for (const auto& w : words)
+        out += (out.empty() ? "" : " ") + w;
     return out;
 }
 
@@ -192,7 +225,8 @@ std::string cation_words(const Library& lib, std::initializer_list<const Reagent
 const Reagent* conjugate_form(const Library& lib, const Reagent& weighed, const Reagent& titrant,
                               const std::string& system, PhDirection direction) {
     const SystemShare* ws = weighed.share(system);
-    if (!ws) return nullptr;
+    if (!ws)
+        return nullptr;
     auto brought = [&](const std::string& ion) {
         auto has = [&](const Reagent& r) {
             return std::any_of(r.spectators.begin(), r.spectators.end(),
@@ -203,16 +237,20 @@ const Reagent* conjugate_form(const Library& lib, const Reagent& weighed, const 
     const Reagent* best = nullptr;
     double best_gap = std::numeric_limits<double>::infinity();
     for (const Reagent& r : lib.reagents()) {
-        if (r.id == weighed.id) continue;
+        if (r.id == weighed.id)
+            continue;
         const SystemShare* rs = r.share(system);
-        if (!rs) continue;
+        if (!rs)
+            continue;
         const double gap = per_unit(*rs) - per_unit(*ws);
-        if (direction == PhDirection::raises ? gap <= 1e-9 : gap >= -1e-9) continue;
+        if (direction == PhDirection::raises ? gap <= 1e-9 : gap >= -1e-9)
+            continue;
         if (!std::all_of(r.spectators.begin(), r.spectators.end(),
                          [&](const SpectatorIon& s) { return brought(s.ion); }))
             continue;
-        if (!std::all_of(r.systems.begin(), r.systems.end(),
-                         [&](const SystemShare& s) { return s.system == system || weighed.has_system(s.system); }))
+        if (!std::all_of(r.systems.begin(), r.systems.end(), [&](const SystemShare& s) {
+                return s.system == system || weighed.has_system(s.system);
+            }))
             continue;
         if (std::abs(gap) < best_gap - 1e-9) {
             best = &r;
@@ -224,40 +262,52 @@ const Reagent* conjugate_form(const Library& lib, const Reagent& weighed, const 
 
 } // namespace
 
-std::optional<TitrantFit> titrant_fit(const Library& lib, const Reagent& weighed, const Reagent& titrant) {
-    if (weighed.id == titrant.id) return std::nullopt;
+std::optional<TitrantFit> titrant_fit(const Library& lib, const Reagent& weighed,
+                                      const Reagent& titrant) {
+    if (weighed.id == titrant.id)
+        return std::nullopt;
     int sign = 0;
     std::string shared;
     for (const auto& ts : titrant.systems) {
         const SystemShare* ws = weighed.share(ts.system);
-        if (!ws) continue;
+        if (!ws)
+            continue;
         const double gap = per_unit(ts) - per_unit(*ws);
-        if (std::abs(gap) < 1e-9) continue; // the same form of this system: moves nothing here
-        const int s = gap > 0 ? 1 : -1;     // fewer protons than the weighed form: raises the pH
-        if (sign != 0 && s != sign) return std::nullopt; // raises in one system, lowers in another
-        if (sign == 0) shared = ts.system;
+        if (std::abs(gap) < 1e-9)
+            continue;                   // the same form of this system: moves nothing here
+        const int s = gap > 0 ? 1 : -1; // fewer protons than the weighed form: raises the pH
+        if (sign != 0 && s != sign)
+            return std::nullopt; // raises in one system, lowers in another
+        if (sign == 0)
+            shared = ts.system;
         sign = s;
     }
-    if (sign != 0) return TitrantFit{sign > 0 ? PhDirection::raises : PhDirection::lowers, shared};
-    if (strong_acid_like(lib, titrant)) return TitrantFit{PhDirection::lowers, ""};
-    if (titrant.is_strong_base()) return TitrantFit{PhDirection::raises, ""};
+    if (sign != 0)
+        return TitrantFit{sign > 0 ? PhDirection::raises : PhDirection::lowers, shared};
+    if (strong_acid_like(lib, titrant))
+        return TitrantFit{PhDirection::lowers, ""};
+    if (titrant.is_strong_base())
+        return TitrantFit{PhDirection::raises, ""};
     return std::nullopt;
 }
 
 const Reagent* salt_of_pair(const Reagent& acid, const Reagent& base, const std::string& system) {
     const bool a = has_counter_ion(acid, system), b = has_counter_ion(base, system);
-    if (a == b) return nullptr;
+    if (a == b)
+        return nullptr;
     return a ? &acid : &base;
 }
 
 const AcidBaseSystem* buffer_system(const Library& lib, const RecipeRequest& req) {
     const Participants p = participants(lib, req);
     if (req.route != Route::titrate) {
-        if (!p.first || !p.second) return nullptr;
+        if (!p.first || !p.second)
+            return nullptr;
         const std::string* s = pair_system(*p.first, *p.second);
         return s ? lib.find_system(*s) : nullptr;
     }
-    if (!p.first) return nullptr;
+    if (!p.first)
+        return nullptr;
     if (p.second)
         if (auto fit = titrant_fit(lib, *p.first, *p.second); fit && !fit->shared_system.empty())
             return lib.find_system(fit->shared_system);
@@ -268,30 +318,36 @@ const AcidBaseSystem* buffer_system(const Library& lib, const RecipeRequest& req
 RoleChoices reagent_choices(const Library& lib, const std::string& system, Route route,
                             const std::string& acid, const std::string& weigh) {
     RoleChoices out;
-    if (!lib.find_system(system)) return out;
+    if (!lib.find_system(system))
+        return out;
     std::vector<RoleChoice> members;
     for (const Reagent& r : lib.reagents())
-        if (r.has_system(system)) members.push_back(choice_of(r, system));
+        if (r.has_system(system))
+            members.push_back(choice_of(r, system));
     std::stable_sort(members.begin(), members.end(), [](const RoleChoice& a, const RoleChoice& b) {
         return a.protons_removed_per_unit < b.protons_removed_per_unit;
     });
-    if (members.empty()) return out;
+    if (members.empty())
+        return out;
     if (route == Route::titrate) {
         out.weighable = members;
         const Reagent* w = lib.find_reagent(weigh);
-        if (!w) return out;
+        if (!w)
+            return out;
         std::vector<RoleChoice> strong;
         for (const Reagent& r : lib.reagents()) {
             const auto fit = titrant_fit(lib, *w, r);
-            if (!fit) continue;
+            if (!fit)
+                continue;
             RoleChoice c = choice_of(r, fit->shared_system.empty() ? system : fit->shared_system);
             c.direction = fit->direction;
             c.strong = fit->shared_system.empty();
             (c.strong ? strong : out.titrants).push_back(c);
         }
-        std::stable_sort(out.titrants.begin(), out.titrants.end(), [](const RoleChoice& a, const RoleChoice& b) {
-            return a.protons_removed_per_unit < b.protons_removed_per_unit;
-        });
+        std::stable_sort(out.titrants.begin(), out.titrants.end(),
+                         [](const RoleChoice& a, const RoleChoice& b) {
+                             return a.protons_removed_per_unit < b.protons_removed_per_unit;
+                         });
         out.titrants.insert(out.titrants.end(), strong.begin(), strong.end());
         return out;
     }
@@ -299,12 +355,16 @@ RoleChoices reagent_choices(const Library& lib, const std::string& system, Route
     const double p_max = members.back().protons_removed_per_unit;
     std::optional<double> p_acid;
     if (const Reagent* a = lib.find_reagent(acid))
-        if (const SystemShare* s = a->share(system)) p_acid = per_unit(*s);
+        if (const SystemShare* s = a->share(system))
+            p_acid = per_unit(*s);
     for (const RoleChoice& m : members) {
         const double p = m.protons_removed_per_unit;
-        if (p < p_max - 1e-9) out.acid_forms.push_back(m);
-        if (p > p_min + 1e-9 && (!p_acid || p > *p_acid + 1e-9)) out.base_forms.push_back(m);
-        if (m.salt) out.salts.push_back(m);
+        if (p < p_max - 1e-9)
+            out.acid_forms.push_back(m);
+        if (p > p_min + 1e-9 && (!p_acid || p > *p_acid + 1e-9))
+            out.base_forms.push_back(m);
+        if (m.salt)
+            out.salts.push_back(m);
     }
     return out;
 }
@@ -324,7 +384,8 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
             r.weigh = a ? a->id : b ? b->id : std::string();
             r.titrant.clear();
             ch.notes.push_back({r.weigh.empty() ? "weigh" : "titrant",
-                                "Choose the " + std::string(r.weigh.empty() ? "reagent to weigh" : "titrant") +
+                                "Choose the " +
+                                    std::string(r.weigh.empty() ? "reagent to weigh" : "titrant") +
                                     ": the mix had no complete pair to carry over."});
         } else {
             const std::string* sys = pair_system(*a, *b);
@@ -334,16 +395,19 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
             r.weigh = weighed.id;
             if (titrant_fit(lib, weighed, partner)) {
                 r.titrant = partner.id;
-                r.titrant_form = partner.form == PhysicalForm::liquid ? TitrantForm::neat : TitrantForm::solution;
-                ch.notes.push_back({"titrant", words(weighed) + " is weighed and " + words(partner) +
-                                                   " brings it to pH" +
-                                                   (r.titrant_form == TitrantForm::neat
-                                                        ? ", added as supplied (neat)."
-                                                        : ", as a solution of the molarity you give.")});
+                r.titrant_form = partner.form == PhysicalForm::liquid ? TitrantForm::neat
+                                                                      : TitrantForm::solution;
+                ch.notes.push_back(
+                    {"titrant", words(weighed) + " is weighed and " + words(partner) +
+                                    " brings it to pH" +
+                                    (r.titrant_form == TitrantForm::neat
+                                         ? ", added as supplied (neat)."
+                                         : ", as a solution of the molarity you give.")});
             } else {
                 r.titrant.clear();
-                ch.notes.push_back({"titrant", words(partner) + " cannot bring " + words(weighed) +
-                                                   " to pH; choose a titrant: nothing was substituted."});
+                ch.notes.push_back(
+                    {"titrant", words(partner) + " cannot bring " + words(weighed) +
+                                    " to pH; choose a titrant: nothing was substituted."});
             }
         }
         ch.complete = !r.weigh.empty() && !r.titrant.empty();
@@ -356,11 +420,13 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
         r.acid.clear();
         r.base.clear();
         if (!w) {
-            ch.notes.push_back({"acid", "Choose the acid and base forms: no weighed reagent to carry over."});
+            ch.notes.push_back(
+                {"acid", "Choose the acid and base forms: no weighed reagent to carry over."});
             return ch;
         }
         const auto fit = t ? titrant_fit(lib, *w, *t) : std::nullopt;
-        const std::string sys_id = w->has_system(system) || w->systems.empty() ? system : w->systems.front().system;
+        const std::string sys_id =
+            w->has_system(system) || w->systems.empty() ? system : w->systems.front().system;
         const AcidBaseSystem* sys = lib.find_system(sys_id);
         const std::string sys_words = sys ? system_words(*sys) : sys_id;
         auto place = [&](const Reagent& other, PhDirection other_moves) {
@@ -375,22 +441,26 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
                 place(*partner, fit->direction);
                 ch.notes.push_back({fit->direction == PhDirection::raises ? "base" : "acid",
                                     words(*t) + " is not a form of " + sys_words + "; the " +
-                                        (to == Route::mix ? "mix" : "stocks") + " route uses " + words(*partner) +
-                                        " (" + partner->formula + "), the form it would have made, instead."});
+                                        (to == Route::mix ? "mix" : "stocks") + " route uses " +
+                                        words(*partner) + " (" + partner->formula +
+                                        "), the form it would have made, instead."});
             } else {
                 const bool raises = fit->direction == PhDirection::raises;
                 (raises ? r.acid : r.base) = w->id;
                 ch.notes.push_back({raises ? "base" : "acid",
-                                    "Nothing in the library is a " + std::string(raises ? "more basic" : "more acidic") +
+                                    "Nothing in the library is a " +
+                                        std::string(raises ? "more basic" : "more acidic") +
                                         " form of " + sys_words + " made with " + words(*t) +
                                         "; choose the " + (raises ? "base" : "acid") +
                                         " form: nothing was substituted."});
             }
         } else {
-            // No titrant to pair with: the weighed form goes where the system has room for a partner.
+            // No titrant to pair with: the weighed form goes where the system has room for a
+            // partner.
             const RoleChoices roles = reagent_choices(lib, sys_id, to);
-            const bool can_be_acid = std::any_of(roles.acid_forms.begin(), roles.acid_forms.end(),
-                                                 [&](const RoleChoice& c) { return c.reagent == w->id; });
+            const bool can_be_acid =
+                std::any_of(roles.acid_forms.begin(), roles.acid_forms.end(),
+                            [&](const RoleChoice& c) { return c.reagent == w->id; });
             (can_be_acid ? r.acid : r.base) = w->id;
             ch.notes.push_back({can_be_acid ? "base" : "acid",
                                 "Choose the " + std::string(can_be_acid ? "base" : "acid") +
@@ -406,10 +476,12 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
             const std::string* sys = pair_system(*a, *b);
             if (!sys || !salt_of_pair(*a, *b, *sys)) {
                 r.basis = ConcentrationBasis::total;
-                ch.notes.push_back({"concentration_basis",
-                                    "The salt basis holds one salt of the pair at the concentration; " +
-                                        words(*a) + " and " + words(*b) +
-                                        " are not one salt and one free acid or base, so the total basis is used."});
+                ch.notes.push_back(
+                    {"concentration_basis",
+                     "The salt basis holds one salt of the pair at the concentration; " +
+                         words(*a) + " and " + words(*b) +
+                         " are not one salt and one free acid or base, so the total basis is "
+                         "used."});
             }
         }
     } else {
@@ -419,19 +491,22 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
 }
 
 std::string concentration_text(double mol_per_l) {
-    return mol_per_l >= 1 ? three_figures(mol_per_l) + " mol/L" : three_figures(mol_per_l * 1000) + " mmol/L";
+    return mol_per_l >= 1 ? three_figures(mol_per_l) + " mol/L"
+                          : three_figures(mol_per_l * 1000) + " mmol/L";
 }
 
 std::string reagent_words(const Reagent& reagent) {
     std::string s = reagent.name;
     for (const char* cut : {", ", " ("}) {
         const auto at = s.find(cut);
-        if (at != std::string::npos && at > 0) s.erase(at);
+        if (at != std::string::npos && at > 0)
+            s.erase(at);
     }
     // A trailing grade such as " 98 %" or " 25 %".
     if (s.size() > 2 && s.compare(s.size() - 2, 2, " %") == 0) {
         auto at = s.find_last_not_of("0123456789.", s.size() - 3);
-        if (at != std::string::npos && at < s.size() - 3 && s[at] == ' ') s.erase(at);
+        if (at != std::string::npos && at < s.size() - 3 && s[at] == ' ')
+            s.erase(at);
     }
     return lower_first(s);
 }
@@ -439,21 +514,24 @@ std::string reagent_words(const Reagent& reagent) {
 std::string system_words(const AcidBaseSystem& system) {
     std::string s = system.name.empty() ? system.id : system.name;
     const auto at = s.find(" (");
-    if (at != std::string::npos && at > 0) s.erase(at);
+    if (at != std::string::npos && at > 0)
+        s.erase(at);
     return lower_first(s);
 }
 
 std::string ion_words(const std::string& ion) {
     static const std::pair<const char*, const char*> names[] = {
-        {"Na+", "sodium"}, {"K+", "potassium"}, {"Li+", "lithium"},   {"Ca+2", "calcium"},
-        {"Mg+2", "magnesium"}, {"Cl-", "chloride"}, {"Br-", "bromide"}, {"NO3-", "nitrate"},
-        {"SO4-2", "sulfate"}, {"ClO4-", "perchlorate"}};
+        {"Na+", "sodium"},     {"K+", "potassium"},     {"Li+", "lithium"}, {"Ca+2", "calcium"},
+        {"Mg+2", "magnesium"}, {"Cl-", "chloride"},     {"Br-", "bromide"}, {"NO3-", "nitrate"},
+        {"SO4-2", "sulfate"},  {"ClO4-", "perchlorate"}};
     for (const auto& [formula, word] : names)
-        if (ion == formula) return word;
+        if (ion == formula)
+            return word;
     return ion;
 }
 
-std::vector<FamilyTotal> family_totals(const Library& lib, const std::vector<Component>& composition,
+std::vector<FamilyTotal> family_totals(const Library& lib,
+                                       const std::vector<Component>& composition,
                                        const std::string& first_system) {
     std::vector<FamilyTotal> systems, ions;
     auto add = [](std::vector<FamilyTotal>& list, FamilyTotal::Kind kind, const std::string& id,
@@ -466,14 +544,16 @@ std::vector<FamilyTotal> family_totals(const Library& lib, const std::vector<Com
         list.push_back({kind, id, name, c});
     };
     for (const auto& comp : composition) {
-        if (!comp.reagent) continue;
+        if (!comp.reagent)
+            continue;
         for (const auto& s : comp.reagent->systems) {
             const AcidBaseSystem* sys = lib.find_system(s.system);
             add(systems, FamilyTotal::Kind::system, s.system, sys ? system_words(*sys) : s.system,
                 s.count * comp.mol_per_l);
         }
         for (const auto& ion : comp.reagent->spectators)
-            add(ions, FamilyTotal::Kind::ion, ion.ion, ion_words(ion.ion), ion.count * comp.mol_per_l);
+            add(ions, FamilyTotal::Kind::ion, ion.ion, ion_words(ion.ion),
+                ion.count * comp.mol_per_l);
     }
     std::stable_partition(systems.begin(), systems.end(),
                           [&](const FamilyTotal& f) { return f.id == first_system; });
@@ -486,28 +566,34 @@ BasisStatement basis_statement(const Library& lib, const Recipe& recipe) {
     BasisStatement b;
     b.basis = req.basis.value_or(default_basis(req.route));
     const AcidBaseSystem* sys = buffer_system(lib, req);
-    if (sys) b.system = sys->id;
+    if (sys)
+        b.system = sys->id;
     const auto [held, adjusting] = held_and_adjusting(lib, req, sys);
     // A mix on the total basis has no reagent that "brings" the pH: both forms share the total.
     if (adjusting && (req.route == Route::titrate || b.basis == ConcentrationBasis::salt))
         b.adjusting_reagent = adjusting->id;
     double system_total = 0;
     for (const auto& f : recipe.totals)
-        if (f.kind == FamilyTotal::Kind::system && f.id == b.system) system_total = f.mol_per_l;
+        if (f.kind == FamilyTotal::Kind::system && f.id == b.system)
+            system_total = f.mol_per_l;
     const std::string sys_words = sys ? system_words(*sys) : std::string("buffer");
     const std::string ph = "pH " + format_fixed(req.target_ph, 2);
     if (b.basis == ConcentrationBasis::salt && held) {
         b.held_reagent = held->id;
         for (const auto& c : recipe.composition)
-            if (c.reagent == held) b.concentration_mol_per_l += c.mol_per_l;
+            if (c.reagent == held)
+                b.concentration_mol_per_l += c.mol_per_l;
         b.text = concentration_text(b.concentration_mol_per_l) + " " + reagent_words(*held);
-        if (adjusting) b.text += ", brought to " + ph + " with " + reagent_words(*adjusting);
-        if (sys) b.text += ": " + sys_words + " " + concentration_text(system_total) + " in all";
+        if (adjusting)
+            b.text += ", brought to " + ph + " with " + reagent_words(*adjusting);
+        if (sys)
+            b.text += ": " + sys_words + " " + concentration_text(system_total) + " in all";
     } else {
         b.concentration_mol_per_l = system_total;
         b.text = concentration_text(system_total) + " total " + sys_words;
         if (req.route == Route::titrate && held && adjusting)
-            b.text += ": " + reagent_words(*held) + " brought to " + ph + " with " + reagent_words(*adjusting);
+            b.text += ": " + reagent_words(*held) + " brought to " + ph + " with " +
+                      reagent_words(*adjusting);
     }
     return b;
 }
@@ -525,7 +611,8 @@ std::string default_buffer_name(const Library& lib, const RecipeRequest& req) {
             // The salt basis reads differently from the total only when the other reagent adds
             // to the buffer system, or the held reagent brings more than one unit of it.
             salt_differs = (adjusting && adjusting->has_system(sys->id)) || !hs || hs->count != 1;
-            if (salt_differs) subject = reagent_words(*held);
+            if (salt_differs)
+                subject = reagent_words(*held);
         }
     }
     if (subject.empty()) {
@@ -540,11 +627,13 @@ std::string default_buffer_name(const Library& lib, const RecipeRequest& req) {
     if (req.concentration_mol_per_l && *req.concentration_mol_per_l > 0 &&
         std::isfinite(*req.concentration_mol_per_l))
         name = short_concentration(*req.concentration_mol_per_l) + " ";
-    name += subject + " pH " + (std::isfinite(req.target_ph) ? name_ph(req.target_ph) : std::string("?"));
-    if (!req.concentration_mol_per_l && req.ionic_strength_mol_per_l && *req.ionic_strength_mol_per_l > 0 &&
-        std::isfinite(*req.ionic_strength_mol_per_l))
+    name += subject + " pH " +
+            (std::isfinite(req.target_ph) ? name_ph(req.target_ph) : std::string("?"));
+    if (!req.concentration_mol_per_l && req.ionic_strength_mol_per_l &&
+        *req.ionic_strength_mol_per_l > 0 && std::isfinite(*req.ionic_strength_mol_per_l))
         name += ", I = " + short_concentration(*req.ionic_strength_mol_per_l);
-    if (salt_differs) name += " (salt basis)";
+    if (salt_differs)
+        name += " (salt basis)";
     name[0] = static_cast<char>(std::toupper(static_cast<unsigned char>(name[0])));
     return name;
 }

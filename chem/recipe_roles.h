@@ -13,14 +13,14 @@ namespace chem {
 
 /// One reagent offered for a role.
 struct RoleChoice {
-    std::string reagent;   ///< id
-    std::string name;      ///< as in the library ("Formic acid 98 %")
-    std::string formula;   ///< as in the library ("HCOOH")
+    std::string reagent; ///< id
+    std::string name;    ///< as in the library ("Formic acid 98 %")
+    std::string formula; ///< as in the library ("HCOOH")
     PhysicalForm form = PhysicalForm::solid;
     /// Protons removed per unit of the system, from its fully protonated form: orders the forms
     /// from the most acidic (phosphoric acid 0, KH2PO4 1, K2HPO4 2). 0 for a strong titrant.
     double protons_removed_per_unit = 0;
-    bool salt = false;     ///< carries a counter-ion (a spectator ion or a second system)
+    bool salt = false; ///< carries a counter-ion (a spectator ion or a second system)
     /// Titrants: what adding it does to the weighed reagent's pH.
     std::optional<PhDirection> direction;
     /// Titrants: true for a strong acid or base, false for a form of the weighed reagent's system.
@@ -30,11 +30,12 @@ struct RoleChoice {
 /// The reagents that fit each role of one route, for one acid-base system. Roles the route does
 /// not use stay empty.
 struct RoleChoices {
-    std::vector<RoleChoice> acid_forms; ///< mix, stocks: forms with a more basic partner in the system
+    std::vector<RoleChoice>
+        acid_forms; ///< mix, stocks: forms with a more basic partner in the system
     /// mix, stocks: forms with a more acidic partner; only those more basic than `acid`, when given
     std::vector<RoleChoice> base_forms;
-    std::vector<RoleChoice> salts;      ///< mix, stocks: forms that can be held at c on the salt basis
-    std::vector<RoleChoice> weighable;  ///< titrate: every reagent of the system
+    std::vector<RoleChoice> salts; ///< mix, stocks: forms that can be held at c on the salt basis
+    std::vector<RoleChoice> weighable; ///< titrate: every reagent of the system
     /// titrate: the titrants that fit `weigh` (titrant_fit), system forms first, then strong
     /// acids and bases; empty while no weighed reagent is chosen.
     std::vector<RoleChoice> titrants;
@@ -49,8 +50,8 @@ RoleChoices reagent_choices(const Library& lib, const std::string& system, Route
 
 /// The reagent inputs of a buffer, as the screen holds them across routes.
 struct RouteReagents {
-    std::string acid, base;       ///< mix, stocks
-    std::string weigh, titrant;   ///< titrate
+    std::string acid, base;     ///< mix, stocks
+    std::string weigh, titrant; ///< titrate
     TitrantForm titrant_form = TitrantForm::solution;
     ConcentrationBasis basis = ConcentrationBasis::total;
 };
@@ -63,9 +64,9 @@ struct RouteNote {
 };
 
 struct RouteChange {
-    RouteReagents reagents;        ///< for the new route; a role is "" when nothing fits it
-    std::vector<RouteNote> notes;  ///< each role that was derived, replaced or left empty, in words
-    bool complete = false;         ///< every reagent role of the new route is filled
+    RouteReagents reagents;       ///< for the new route; a role is "" when nothing fits it
+    std::vector<RouteNote> notes; ///< each role that was derived, replaced or left empty, in words
+    bool complete = false;        ///< every reagent role of the new route is filled
 };
 
 /// Maps the current reagents to another route without swapping one for an unrelated reagent:
@@ -114,7 +115,8 @@ const AcidBaseSystem* buffer_system(const Library& lib, const RecipeRequest& req
 
 /// The families of a composition, summed over their forms: systems (`first_system` first, then
 /// in order of appearance) and then spectator ions. @return mol/L of final solution per family.
-std::vector<FamilyTotal> family_totals(const Library& lib, const std::vector<Component>& composition,
+std::vector<FamilyTotal> family_totals(const Library& lib,
+                                       const std::vector<Component>& composition,
                                        const std::string& first_system);
 
 /// The basis of a designed recipe in words, from its request and its `totals` (fill those

@@ -60,7 +60,6 @@ void validate_composition(const LineValues& p, const std::array<bool, max_lines>
                             format_number(sum) + ", not 100");
 }
 
-
 char line_letter(int index) {
     return static_cast<char>('A' + index);
 }
@@ -254,8 +253,8 @@ SequencePlan plan_sequence(const SequenceInput& in) {
             for (const auto& [name, idx] : method_index)
                 known += (known.empty() ? "" : ", ") + name;
             throw Error(at + ".method",
-                        "unknown method " + guard::quote_id(in.rows[i].method) + " (known: " +
-                            guard::cut(known, 20 * guard::max_id_chars) + ")");
+                        "unknown method " + guard::quote_id(in.rows[i].method) +
+                            " (known: " + guard::cut(known, 20 * guard::max_id_chars) + ")");
         }
         row_method[i] = it->second;
         if (in.rows[i].injections < 1 || in.rows[i].injections > max_injections)

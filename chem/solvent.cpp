@@ -207,7 +207,8 @@ const Solvent& SolventLibrary::solvent(const std::string& id, const std::string&
     if (const Solvent* s = find_solvent(id))
         return *s;
     std::string msg = "unknown solvent " + guard::quote_id(id);
-    const auto near = id.size() <= 4 * guard::max_id_chars ? nearest_solvent_ids(id) : std::vector<std::string>{};
+    const auto near =
+        id.size() <= 4 * guard::max_id_chars ? nearest_solvent_ids(id) : std::vector<std::string>{};
     if (!near.empty()) {
         msg += " (nearest: ";
         for (std::size_t i = 0; i < near.size(); ++i)

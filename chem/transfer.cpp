@@ -25,8 +25,8 @@ TransferResult transfer_method(const TransferRequest& r) {
     if (r.injection_ul)
         require_positive(*r.injection_ul, 1e4, "injection_ul", "µL");
     if (r.sequence_injections < 1 || r.sequence_injections > 1000000)
-        throw Error("sequence_injections", std::to_string(r.sequence_injections) +
-                                               " is outside 1 to 1000000 injections");
+        throw Error("sequence_injections",
+                    std::to_string(r.sequence_injections) + " is outside 1 to 1000000 injections");
     if (r.to.flow_ml_min)
         require_positive(*r.to.flow_ml_min, 100, "to.flow_ml_min", "mL/min");
     for (const auto* c : {&r.from, &r.to})
@@ -45,8 +45,7 @@ TransferResult transfer_method(const TransferRequest& r) {
     out.time_factor = (f1 / out.flow_ml_min) * volume_ratio;
     if (r.injection_ul)
         out.injection_ul = *r.injection_ul * volume_ratio;
-    out.l_over_dp_change =
-        (c2.length_mm / c2.particle_um) / (c1.length_mm / c1.particle_um) - 1.0;
+    out.l_over_dp_change = (c2.length_mm / c2.particle_um) / (c1.length_mm / c1.particle_um) - 1.0;
     // The band −25 % to +50 %, with a little room for rounding.
     out.within_allowed_adjustment =
         out.l_over_dp_change >= -0.25 - 1e-9 && out.l_over_dp_change <= 0.50 + 1e-9;
@@ -61,8 +60,8 @@ TransferResult transfer_method(const TransferRequest& r) {
     m.equilibration_min *= out.time_factor;
 
     if (r.from.dwell_ml && r.to.dwell_ml) {
-        const double hold = (*r.from.dwell_ml / f1) * out.time_factor -
-                            *r.to.dwell_ml / out.flow_ml_min;
+        const double hold =
+            (*r.from.dwell_ml / f1) * out.time_factor - *r.to.dwell_ml / out.flow_ml_min;
         if (hold > 1e-9) {
             // Shift every row after the first; the first row's composition holds meanwhile.
             const bool starts_at_zero = m.gradient.front().t_min <= 0;
@@ -73,8 +72,7 @@ TransferResult transfer_method(const TransferRequest& r) {
         } else if (hold < -1e-9) {
             out.warnings.push_back(
                 {"dwell-too-large", Warning::Severity::caution,
-                 "The new system's dwell volume delays the gradient by " +
-                     fixed(-hold, 2) +
+                 "The new system's dwell volume delays the gradient by " + fixed(-hold, 2) +
                      " min more than the original, in column volumes: peaks elute later "
                      "relative to the gradient. Start the gradient before the injection "
                      "(injection delay) by that much if the system allows it."});

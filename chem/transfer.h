@@ -3,9 +3,9 @@
 // (Chromatography, harmonised standard, official 1 December 2022), "allowed adjustments":
 //   flow       F₂ = F₁ · (d_c2² · d_p1) / (d_c1² · d_p2)      (constant reduced velocity;
 //                                                               d_c² alone if d_p is unchanged)
-//   times      t₂ = t₁ · (F₁/F₂) · (L₂ d_c2²) / (L₁ d_c1²)    (gradient table, run, re-equilibration)
-//   injection  V₂ = V₁ · (L₂ d_c2²) / (L₁ d_c1²)
-//   L/d_p      may change by −25 % to +50 % within the allowed adjustments.
+//   times      t₂ = t₁ · (F₁/F₂) · (L₂ d_c2²) / (L₁ d_c1²)    (gradient table, run,
+//   re-equilibration) injection  V₂ = V₁ · (L₂ d_c2²) / (L₁ d_c1²) L/d_p      may change by −25 %
+//   to +50 % within the allowed adjustments.
 // Optional dwell-volume correction: the gradient's delay is kept in column volumes by an initial
 // isocratic hold on the new system, t_hold = (V_D1/F₁)·k_t − V_D2/F₂ (k_t the time factor);
 // when that is negative, the new system's dwell is too large to hide and a warning says so.
@@ -33,13 +33,13 @@ struct TransferRequest {
 };
 
 struct TransferResult {
-    Method method;               ///< on the new column (same name)
-    double flow_ml_min = 0;      ///< the new flow
-    double scaled_flow_ml_min = 0; ///< the flow by the rule (before any chosen flow)
-    double time_factor = 0;      ///< k_t
+    Method method;                      ///< on the new column (same name)
+    double flow_ml_min = 0;             ///< the new flow
+    double scaled_flow_ml_min = 0;      ///< the flow by the rule (before any chosen flow)
+    double time_factor = 0;             ///< k_t
     std::optional<double> injection_ul; ///< on the new column
-    double hold_added_min = 0;   ///< initial isocratic hold from the dwell correction
-    double solvent_from_ml = 0;  ///< per injection, re-equilibration included
+    double hold_added_min = 0;          ///< initial isocratic hold from the dwell correction
+    double solvent_from_ml = 0;         ///< per injection, re-equilibration included
     double solvent_to_ml = 0;
     double solvent_from_sequence_ml = 0; ///< × sequence_injections
     double solvent_to_sequence_ml = 0;

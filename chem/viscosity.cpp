@@ -10,17 +10,21 @@ namespace chem {
 double water_viscosity_mpa_s(double temperature_k) {
     // Kestin, Sokolov & Wakeham (1978), the 0.1 MPa correlation relative to 20 °C.
     const double d = 20.0 - to_celsius(temperature_k);
-    const double log10_ratio = d / (to_celsius(temperature_k) + 96.0) *
-                               (1.2364 - 1.37e-3 * d + 5.7e-6 * d * d);
+    const double log10_ratio =
+        d / (to_celsius(temperature_k) + 96.0) * (1.2364 - 1.37e-3 * d + 5.7e-6 * d * d);
     return 1.0016 * std::pow(10.0, log10_ratio);
 }
 
 const char* viscosity_basis_name(ViscosityBasis b) {
     switch (b) {
-    case ViscosityBasis::published_correlation: return "published-correlation";
-    case ViscosityBasis::fit_to_published_data: return "fit-to-published-data";
-    case ViscosityBasis::one_point_estimate: return "one-point-estimate";
-    case ViscosityBasis::ideal_mixing: return "ideal-mixing";
+    case ViscosityBasis::published_correlation:
+        return "published-correlation";
+    case ViscosityBasis::fit_to_published_data:
+        return "fit-to-published-data";
+    case ViscosityBasis::one_point_estimate:
+        return "one-point-estimate";
+    case ViscosityBasis::ideal_mixing:
+        return "ideal-mixing";
     }
     return "";
 }

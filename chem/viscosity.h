@@ -2,7 +2,8 @@
 // Viscosity of the eluent: water, its mixtures with acetonitrile, methanol, ethanol, 2-propanol
 // and tetrahydrofuran, against composition and temperature. Pressure (chem/pressure.h) follows it.
 //
-// Every mixture uses one form, that of Chen & Horváth's correlation (J. Chromatogr. A 705 (1995) 3):
+// Every mixture uses one form, that of Chen & Horváth's correlation (J. Chromatogr. A 705 (1995)
+// 3):
 //   ln η = φ_w ln η_w(T) + Σ_o φ_o ln η_o(T) + Σ_o φ_w φ_o (a_o + b_o / T)
 // with φ the volume fractions as measured before mixing (what the pump meters), T in K and η in
 // mPa·s. For one organic this is ln η = φ ln η_o + (1−φ) ln η_w + φ(1−φ)(a + b/T). Water comes

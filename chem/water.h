@@ -4,7 +4,8 @@
 namespace chem {
 
 /// pKw = −log10 Kw of water (molal, thermodynamic), from Harned & Robinson, Trans. Faraday Soc. 36
-/// (1940) 973: log10 Kw = −4470.99/T + 6.0875 − 0.01706·T, valid 0–60 °C. @param temperature_k in K.
+/// (1940) 973: log10 Kw = −4470.99/T + 6.0875 − 0.01706·T, valid 0–60 °C. @param temperature_k in
+/// K.
 double pkw(double temperature_k);
 
 /// Density of air-free water in g/mL: Tanaka et al., Metrologia 38 (2001) 301, eq. (1).

@@ -15,10 +15,11 @@
 namespace phaseplan::testing {
 
 class FakeInstrument {
-public:
+  public:
     FakeInstrument() {
         char name[256] = {};
-        if (::openpty(&master_, &slave_, name, nullptr, nullptr) != 0) qFatal("openpty failed: %d", errno);
+        if (::openpty(&master_, &slave_, name, nullptr, nullptr) != 0)
+            qFatal("openpty failed: %d", errno);
         // Not inherited by a child (phaseplan-cli under test): a child holding the master would
         // keep the line up after unplug().
         ::fcntl(master_, F_SETFD, FD_CLOEXEC);
@@ -34,7 +35,8 @@ public:
     }
     ~FakeInstrument() {
         unplug();
-        if (slave_ >= 0) ::close(slave_);
+        if (slave_ >= 0)
+            ::close(slave_);
     }
     FakeInstrument(const FakeInstrument&) = delete;
     FakeInstrument& operator=(const FakeInstrument&) = delete;
@@ -45,9 +47,11 @@ public:
     bool send(const QByteArray& bytes) {
         qsizetype done = 0;
         while (done < bytes.size()) {
-            const ssize_t n = ::write(master_, bytes.constData() + done, static_cast<size_t>(bytes.size() - done));
+            const ssize_t n = ::write(master_, bytes.constData() + done,
+                                      static_cast<size_t>(bytes.size() - done));
             if (n < 0) {
-                if (errno == EINTR) continue;
+                if (errno == EINTR)
+                    continue;
                 return false;
             }
             done += n;
@@ -65,11 +69,12 @@ public:
 
     /// The instrument goes away: the master side closes, and the reader's next read fails.
     void unplug() {
-        if (master_ >= 0) ::close(master_);
+        if (master_ >= 0)
+            ::close(master_);
         master_ = -1;
     }
 
-private:
+  private:
     int master_ = -1;
     int slave_ = -1;
     QString path_;

@@ -29,7 +29,8 @@ inline chem::LineProfile neat_line(const std::string& solvent, bool aqueous) {
 
 inline QJsonObject read_json(const QString& path) {
     QFile f(path);
-    if (!f.open(QIODevice::ReadOnly)) qFatal("cannot open %s", qPrintable(path));
+    if (!f.open(QIODevice::ReadOnly))
+        qFatal("cannot open %s", qPrintable(path));
     return QJsonDocument::fromJson(f.readAll()).object();
 }
 
@@ -42,7 +43,8 @@ inline CliRun run_cli(const QStringList& args, const QByteArray& stdin_bytes = {
     QProcess p;
     p.start(QStringLiteral(CLI_PATH), args);
     p.waitForStarted();
-    if (!stdin_bytes.isEmpty()) p.write(stdin_bytes);
+    if (!stdin_bytes.isEmpty())
+        p.write(stdin_bytes);
     p.closeWriteChannel();
     p.waitForFinished(60000);
     CliRun r;
@@ -60,7 +62,8 @@ inline void verify_rejected(const CliRun& r, const QString& field, const QString
     const QString err = QString::fromUtf8(r.err).trimmed();
     QVERIFY2(!err.contains('\n'), qPrintable(err));
     QVERIFY2(err.startsWith("phaseplan-cli: " + field + ":"), qPrintable(err));
-    if (!contains.isEmpty()) QVERIFY2(err.contains(contains), qPrintable(err));
+    if (!contains.isEmpty())
+        QVERIFY2(err.contains(contains), qPrintable(err));
 }
 
 } // namespace phaseplan::testing

@@ -20,13 +20,15 @@
 
 #include <cmath>
 
-using phaseplan::testing::shipped_data;
 using phaseplan::storage::BatchRecord;
 using phaseplan::storage::BatchStore;
+using phaseplan::testing::shipped_data;
 
 namespace {
 
-const chem::Library& lib() { return shipped_data().reagents; }
+const chem::Library& lib() {
+    return shipped_data().reagents;
+}
 
 // IUPAC 2021 standard atomic weights, conventional values (Prohaska et al., Pure Appl. Chem. 94
 // (2022) 573), for hand-computed molar masses below.
@@ -36,9 +38,13 @@ constexpr double H = 1.008, O = 15.999, P = 30.973761998, Na = 22.98976928, K = 
 /// tests do not move when the demo does): phosphoric acid 85 % + sodium dihydrogen phosphate
 /// monohydrate, pH 2.5 at 25 °C, 20 mmol/L, 2000 mL.
 QJsonObject demo_input() {
-    return QJsonObject{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"}, {"target_ph", 2.5},
-                       {"temperature_c", 25}, {"volume_ml", 2000}, {"route", "mix"},
-                       {"acid", "phosphoric-acid"}, {"base", "sodium-dihydrogen-phosphate-monohydrate"},
+    return QJsonObject{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"},
+                       {"target_ph", 2.5},
+                       {"temperature_c", 25},
+                       {"volume_ml", 2000},
+                       {"route", "mix"},
+                       {"acid", "phosphoric-acid"},
+                       {"base", "sodium-dihydrogen-phosphate-monohydrate"},
                        {"concentration_mol_per_l", 0.02}};
 }
 
@@ -48,19 +54,22 @@ chem::Recipe design(const QJsonObject& in) {
 
 const chem::RecipeItem& item(const chem::Recipe& r, const std::string& id) {
     for (const auto& it : r.items)
-        if (it.reagent == id) return it;
+        if (it.reagent == id)
+            return it;
     qFatal("no item %s", id.c_str());
 }
 
 const chem::AmountCheck& check(const chem::BatchResult& r, const std::string& id) {
     for (const auto& c : r.checks)
-        if (c.reagent == id) return c;
+        if (c.reagent == id)
+            return c;
     qFatal("no check %s", id.c_str());
 }
 
 bool has_code(const std::vector<chem::Warning>& ws, const std::string& code) {
     for (const auto& w : ws)
-        if (w.code == code) return true;
+        if (w.code == code)
+            return true;
     return false;
 }
 
@@ -86,7 +95,7 @@ QString expect_error(const std::function<void()>& f) {
 
 class TestBatch : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void targetAmountsReproduceThePlan();
     void toleranceFlags_data();
     void toleranceFlags();
@@ -119,8 +128,10 @@ void TestBatch::targetAmountsReproduceThePlan() {
     for (const auto& it : r.items) {
         chem::ActualAmount a;
         a.reagent = it.reagent;
-        if (it.as == "solid") a.mass_g = it.mass_g;
-        else a.volume_ml = it.volume_ml;
+        if (it.as == "solid")
+            a.mass_g = it.mass_g;
+        else
+            a.volume_ml = it.volume_ml;
         actual.push_back(a);
     }
     const chem::BatchResult res = chem::evaluate_batch(lib(), r, batch_with(actual), 48);
@@ -158,13 +169,15 @@ void TestBatch::toleranceFlags() {
     QCOMPARE(c.within_tolerance, !flagged);
     QCOMPARE(c.lot, std::string("SP-2207"));
     QVERIFY(std::abs(c.deviation_fraction - (factor - 1)) < 1e-9);
-    QVERIFY(std::abs(c.low - *salt.mass_g * 0.98) < 1e-9 && std::abs(c.high - *salt.mass_g * 1.02) < 1e-9);
+    QVERIFY(std::abs(c.low - *salt.mass_g * 0.98) < 1e-9 &&
+            std::abs(c.high - *salt.mass_g * 1.02) < 1e-9);
     QCOMPARE(has_code(res.warnings, "amount-out-of-tolerance"), flagged);
     if (flagged) {
         // The message carries the numbers: measured, target, band and deviation.
         std::string msg;
         for (const auto& w : res.warnings)
-            if (w.code == "amount-out-of-tolerance") msg = w.message;
+            if (w.code == "amount-out-of-tolerance")
+                msg = w.message;
         QVERIFY2(msg.find(salt.reagent) == 0, msg.c_str());
         const std::string measured = chem::format_fixed(*a.mass_g, 3) + " g measured";
         QVERIFY2(msg.find(measured) != std::string::npos, msg.c_str());
@@ -221,15 +234,18 @@ void TestBatch::compositionFromActualAmountsByHand() {
     // 85 % w/w, 1.685 g/mL) / M / V.
     const double m_h3po4 = 3 * H + P + 4 * O;
     const double c_acid = 1.25 * pa.density_g_per_ml * pa.assay_fraction / m_h3po4 / litres;
-    // NaH2PO4·H2O: 22.98976928 + 2·1.008 + 30.973762 + 4·15.999 + (2·1.008 + 15.999) = 137.990531 g/mol.
+    // NaH2PO4·H2O: 22.98976928 + 2·1.008 + 30.973762 + 4·15.999 + (2·1.008 + 15.999) = 137.990531
+    // g/mol.
     const double m_salt = Na + 2 * H + P + 4 * O + (2 * H + O);
     const double c_salt = 3.0790 / m_salt / litres;
     QCOMPARE(res.composition.size(), size_t(2));
     for (const auto& comp : res.composition) {
         const double expect = comp.reagent->id == "phosphoric-acid" ? c_acid : c_salt;
         QVERIFY2(std::abs(comp.mol_per_l / expect - 1) < 1e-5,
-                 qPrintable(QString("%1: %2 vs %3").arg(QString::fromStdString(comp.reagent->id))
-                                .arg(comp.mol_per_l).arg(expect)));
+                 qPrintable(QString("%1: %2 vs %3")
+                                .arg(QString::fromStdString(comp.reagent->id))
+                                .arg(comp.mol_per_l)
+                                .arg(expect)));
     }
     // The pH reported is solve() of exactly that composition (to the solver's tolerance).
     const chem::Speciation s = chem::solve(lib(), res.composition, r.request.temperature_c);
@@ -241,19 +257,25 @@ void TestBatch::compositionFromActualAmountsByHand() {
 // Pure Appl. Chem. 74 (2002) 2169, table of primary standards; from memory), within 0.02 (the
 // Davies model at I = 0.1; molal vs molar is below that here).
 void TestBatch::phFromActualAmountsMatchesReferenceBuffer() {
-    const QJsonObject in{{"target_ph", 6.90}, {"temperature_c", 25}, {"volume_ml", 1000}, {"route", "mix"},
-                         {"acid", "potassium-dihydrogen-phosphate"}, {"base", "disodium-hydrogen-phosphate"},
+    const QJsonObject in{{"target_ph", 6.90},
+                         {"temperature_c", 25},
+                         {"volume_ml", 1000},
+                         {"route", "mix"},
+                         {"acid", "potassium-dihydrogen-phosphate"},
+                         {"base", "disodium-hydrogen-phosphate"},
                          {"concentration_mol_per_l", 0.05}};
     const chem::Recipe r = design(in);
     chem::ActualAmount kh2po4;
     kh2po4.reagent = "potassium-dihydrogen-phosphate";
-    kh2po4.mass_g = 0.025 * (K + 2 * H + P + 4 * O);        // 136.084 g/mol
+    kh2po4.mass_g = 0.025 * (K + 2 * H + P + 4 * O); // 136.084 g/mol
     chem::ActualAmount na2hpo4;
     na2hpo4.reagent = "disodium-hydrogen-phosphate";
-    na2hpo4.mass_g = 0.025 * (2 * Na + H + P + 4 * O);      // 141.957 g/mol
+    na2hpo4.mass_g = 0.025 * (2 * Na + H + P + 4 * O); // 141.957 g/mol
     const chem::BatchResult res = chem::evaluate_batch(lib(), r, batch_with({kh2po4, na2hpo4}), 48);
-    QVERIFY2(std::abs(res.predicted.ph - 6.865) < 0.02, qPrintable(QString::number(res.predicted.ph)));
-    QVERIFY(r.predicted.ph > 6.89); // the plan was elsewhere: the number really comes from the amounts
+    QVERIFY2(std::abs(res.predicted.ph - 6.865) < 0.02,
+             qPrintable(QString::number(res.predicted.ph)));
+    QVERIFY(r.predicted.ph >
+            6.89); // the plan was elsewhere: the number really comes from the amounts
 }
 
 void TestBatch::phMovesTheRightWayAndIsFlagged() {
@@ -285,18 +307,30 @@ void TestBatch::phMovesTheRightWayAndIsFlagged() {
 void TestBatch::badBatchFieldsNameTheField_data() {
     QTest::addColumn<QString>("what");
     QTest::addColumn<QString>("field");
-    QTest::newRow("no id") << "id" << "batch.id";
-    QTest::newRow("bad time") << "prepared_at" << "batch.prepared_at";
-    QTest::newRow("31 November") << "day" << "batch.prepared_at";
-    QTest::newRow("expiry first") << "expires_at" << "batch.expires_at";
-    QTest::newRow("tolerance 0") << "tolerance" << "batch.tolerance_percent";
-    QTest::newRow("unknown reagent") << "reagent" << "batch.actual[0].reagent";
-    QTest::newRow("twice") << "twice" << "batch.actual[1].reagent";
-    QTest::newRow("negative") << "negative" << "batch.actual[0].mass_g";
-    QTest::newRow("volume of a solid") << "solid-volume" << "batch.actual[0].volume_ml";
-    QTest::newRow("both amounts") << "both" << "batch.actual[0].mass_g";
-    QTest::newRow("mass of a stock") << "stock-mass" << "batch.actual[0].mass_g";
-    QTest::newRow("absurd amount") << "absurd" << "batch.actual[0].mass_g";
+    QTest::newRow("no id") << "id"
+                           << "batch.id";
+    QTest::newRow("bad time") << "prepared_at"
+                              << "batch.prepared_at";
+    QTest::newRow("31 November") << "day"
+                                 << "batch.prepared_at";
+    QTest::newRow("expiry first") << "expires_at"
+                                  << "batch.expires_at";
+    QTest::newRow("tolerance 0") << "tolerance"
+                                 << "batch.tolerance_percent";
+    QTest::newRow("unknown reagent") << "reagent"
+                                     << "batch.actual[0].reagent";
+    QTest::newRow("twice") << "twice"
+                           << "batch.actual[1].reagent";
+    QTest::newRow("negative") << "negative"
+                              << "batch.actual[0].mass_g";
+    QTest::newRow("volume of a solid") << "solid-volume"
+                                       << "batch.actual[0].volume_ml";
+    QTest::newRow("both amounts") << "both"
+                                  << "batch.actual[0].mass_g";
+    QTest::newRow("mass of a stock") << "stock-mass"
+                                     << "batch.actual[0].mass_g";
+    QTest::newRow("absurd amount") << "absurd"
+                                   << "batch.actual[0].mass_g";
 }
 
 void TestBatch::badBatchFieldsNameTheField() {
@@ -307,24 +341,38 @@ void TestBatch::badBatchFieldsNameTheField() {
     salt.reagent = "sodium-dihydrogen-phosphate-monohydrate";
     salt.mass_g = 3.0;
     chem::Batch b = batch_with({salt});
-    if (what == "id") b.id = "  ";
-    if (what == "prepared_at") b.prepared_at = "1 Dec 2026";
-    if (what == "day") b.prepared_at = "2026-11-31T10:00:00";
-    if (what == "expires_at") b.expires_at = "2026-12-01T08:00:00";
-    if (what == "tolerance") b.tolerance_fraction = 0;
-    if (what == "reagent") b.actual[0].reagent = "tris";
-    if (what == "twice") b.actual.push_back(salt);
-    if (what == "negative") b.actual[0].mass_g = -1;
+    if (what == "id")
+        b.id = "  ";
+    if (what == "prepared_at")
+        b.prepared_at = "1 Dec 2026";
+    if (what == "day")
+        b.prepared_at = "2026-11-31T10:00:00";
+    if (what == "expires_at")
+        b.expires_at = "2026-12-01T08:00:00";
+    if (what == "tolerance")
+        b.tolerance_fraction = 0;
+    if (what == "reagent")
+        b.actual[0].reagent = "tris";
+    if (what == "twice")
+        b.actual.push_back(salt);
+    if (what == "negative")
+        b.actual[0].mass_g = -1;
     if (what == "solid-volume") {
         b.actual[0].mass_g.reset();
         b.actual[0].volume_ml = 2;
     }
-    if (what == "both") b.actual[0].volume_ml = 2;
-    if (what == "absurd") b.actual[0].mass_g = 5000; // 5 kg in 2 L: 18 mol/L
+    if (what == "both")
+        b.actual[0].volume_ml = 2;
+    if (what == "absurd")
+        b.actual[0].mass_g = 5000; // 5 kg in 2 L: 18 mol/L
     if (what == "stock-mass") {
-        r = design(QJsonObject{{"target_ph", 4.75}, {"volume_ml", 500}, {"route", "stocks"},
-                               {"acid", "acetic-acid"}, {"base", "sodium-acetate"},
-                               {"acid_stock_mol_per_l", 1.0}, {"base_stock_mol_per_l", 1.0},
+        r = design(QJsonObject{{"target_ph", 4.75},
+                               {"volume_ml", 500},
+                               {"route", "stocks"},
+                               {"acid", "acetic-acid"},
+                               {"base", "sodium-acetate"},
+                               {"acid_stock_mol_per_l", 1.0},
+                               {"base_stock_mol_per_l", 1.0},
                                {"concentration_mol_per_l", 0.05}});
         b.actual[0].reagent = "acetic-acid";
     }
@@ -355,7 +403,8 @@ void TestBatch::expiryFromShelfLife() {
     QCOMPARE(QString::fromStdString(chem::check_batch_fields(b, hours)), expires);
     // Given explicitly, the expiry wins.
     b.expires_at = "2200-01-01T00:00:00";
-    QCOMPARE(QString::fromStdString(chem::check_batch_fields(b, hours)), QString("2200-01-01T00:00:00"));
+    QCOMPARE(QString::fromStdString(chem::check_batch_fields(b, hours)),
+             QString("2200-01-01T00:00:00"));
 }
 
 // ---- the record in SQLite -----------------------------------------------------------------------
@@ -368,7 +417,8 @@ struct TempDb {
     TempDb() {
         db = QSqlDatabase::addDatabase("QSQLITE", name);
         db.setDatabaseName(dir.filePath("batches.sqlite"));
-        if (!db.open()) qFatal("cannot open the test database");
+        if (!db.open())
+            qFatal("cannot open the test database");
         BatchStore::ensure_schema(db);
     }
     ~TempDb() {
@@ -380,16 +430,19 @@ struct TempDb {
 
 BatchRecord demo_record() {
     QJsonObject in = demo_input();
-    in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
-                              {"prepared_at", "2026-12-01T16:30:00"},
-                              {"actual", QJsonArray{QJsonObject{{"reagent", "phosphoric-acid"},
-                                                                {"volume_ml", 1.25}, {"lot", "PA-88121"}}}}};
+    in["batch"] = QJsonObject{
+        {"id", "HR-QC117-A-0042"},
+        {"prepared_by", "R. Okafor"},
+        {"prepared_at", "2026-12-01T16:30:00"},
+        {"actual", QJsonArray{QJsonObject{
+                       {"reagent", "phosphoric-acid"}, {"volume_ml", 1.25}, {"lot", "PA-88121"}}}}};
     return BatchRecord::from_input(in);
 }
 
 int count_rows(QSqlDatabase db, const QString& sql) {
     QSqlQuery q(db);
-    if (!q.exec(sql) || !q.next()) return -1;
+    if (!q.exec(sql) || !q.next())
+        return -1;
     return q.value(0).toInt();
 }
 } // namespace
@@ -398,7 +451,8 @@ void TestBatch::historyKeepsEveryChange() {
     TempDb t;
     BatchStore store(t.db);
     int tick = 0;
-    store.set_clock([&] { return QDateTime(QDate(2026, 12, 1), QTime(16, 0), Qt::UTC).addSecs(60 * tick++); });
+    store.set_clock(
+        [&] { return QDateTime(QDate(2026, 12, 1), QTime(16, 0), Qt::UTC).addSecs(60 * tick++); });
     const BatchRecord rec = demo_record();
     store.create(rec, "R. Okafor");
     QCOMPARE(expect_error([&] { store.create(rec, "R. Okafor"); }), QString("batch.id"));
@@ -406,10 +460,12 @@ void TestBatch::historyKeepsEveryChange() {
 
     auto h = store.history(rec.id);
     QVERIFY(!h.empty());
-    for (const auto& e : h) QCOMPARE(e.action, QString("create"));
+    for (const auto& e : h)
+        QCOMPARE(e.action, QString("create"));
     auto created = [&](const QString& field) {
         for (const auto& e : h)
-            if (e.field == field) return e.new_value;
+            if (e.field == field)
+                return e.new_value;
         return QJsonValue(QJsonValue::Undefined);
     };
     QCOMPARE(created("prepared_by").toString(), QString("R. Okafor"));
@@ -419,7 +475,9 @@ void TestBatch::historyKeepsEveryChange() {
     // Two edits by two people: the salt's weighing is added, then the acid's volume corrected.
     BatchRecord next = *store.load(rec.id);
     QJsonArray actual = next.actual;
-    actual.append(QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"}, {"mass_g", 3.079}, {"lot", "SP-2207"}});
+    actual.append(QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
+                              {"mass_g", 3.079},
+                              {"lot", "SP-2207"}});
     next.actual = actual;
     QVERIFY(store.edit(rec.id, next, "R. Okafor"));
     QVERIFY(!store.edit(rec.id, next, "R. Okafor")); // no change, nothing recorded
@@ -438,7 +496,8 @@ void TestBatch::historyKeepsEveryChange() {
     h = store.history(rec.id);
     auto find = [&](int revision, const QString& field) -> const phaseplan::storage::HistoryEntry* {
         for (const auto& e : h)
-            if (e.revision == revision && e.field == field) return &e;
+            if (e.revision == revision && e.field == field)
+                return &e;
         return nullptr;
     };
     const auto* mass = find(2, "actual[sodium-dihydrogen-phosphate-monohydrate].mass_g");
@@ -455,11 +514,14 @@ void TestBatch::historyKeepsEveryChange() {
     QVERIFY(chk && chk->old_value.isNull() && chk->new_value.toString() == "M. Lindqvist");
     // Oldest first, times from the clock, nothing lost: 3 fields changed over two edits.
     int edits = 0;
-    for (size_t i = 1; i < h.size(); ++i) QVERIFY(h[i].seq > h[i - 1].seq && h[i].at >= h[i - 1].at);
-    for (const auto& e : h) edits += e.action == "edit";
+    for (size_t i = 1; i < h.size(); ++i)
+        QVERIFY(h[i].seq > h[i - 1].seq && h[i].at >= h[i - 1].at);
+    for (const auto& e : h)
+        edits += e.action == "edit";
     QCOMPARE(edits, 4); // mass_g and lot of the salt; the acid's volume; checked_by
     // The stored batch feeds back into the sheet command unchanged.
-    QCOMPARE(now.to_input().value("batch").toObject().value("checked_by").toString(), QString("M. Lindqvist"));
+    QCOMPARE(now.to_input().value("batch").toObject().value("checked_by").toString(),
+             QString("M. Lindqvist"));
 }
 
 void TestBatch::proposedIdsCountUpPerDay() {
@@ -488,12 +550,14 @@ void TestBatch::printedBatchRefusesSilentEdits() {
 
     // The API refuses an edit, and an amendment without a reason.
     QCOMPARE(expect_error([&] { store.edit(rec.id, next, "X. Person"); }), QString("batch"));
-    QCOMPARE(expect_error([&] { store.amend(rec.id, next, "X. Person", "  "); }), QString("reason"));
+    QCOMPARE(expect_error([&] { store.amend(rec.id, next, "X. Person", "  "); }),
+             QString("reason"));
     QCOMPARE(store.load(rec.id)->prepared_by, QString("R. Okafor"));
 
     // So does the database, for any code that goes around the API.
     QSqlQuery q(t.db);
-    QVERIFY(!q.exec("UPDATE batches SET prepared_by = 'someone else' WHERE id = 'HR-QC117-A-0042'"));
+    QVERIFY(
+        !q.exec("UPDATE batches SET prepared_by = 'someone else' WHERE id = 'HR-QC117-A-0042'"));
     QVERIFY(!q.exec("UPDATE batches SET prepared_by = 'someone else', revision = revision + 1 "
                     "WHERE id = 'HR-QC117-A-0042'"));
     QVERIFY(!q.exec("DELETE FROM batches"));
@@ -547,11 +611,14 @@ void TestBatch::migrationCreatesBatchTables() {
     using phaseplan::storage::Database;
     int batch_version = 0;
     for (const auto& m : phaseplan::storage::migrations())
-        if (QString(m.summary).contains("batches")) batch_version = m.version;
+        if (QString(m.summary).contains("batches"))
+            batch_version = m.version;
     QVERIFY(batch_version > 0);
     {
         Database old(path, batch_version - 1);
-        QCOMPARE(count_rows(old.connection(), "SELECT count(*) FROM sqlite_master WHERE name = 'batches'"), 0);
+        QCOMPARE(count_rows(old.connection(),
+                            "SELECT count(*) FROM sqlite_master WHERE name = 'batches'"),
+                 0);
     }
     Database db(path);
     QCOMPARE(db.schema_version(), phaseplan::storage::latest_schema_version());
@@ -560,40 +627,49 @@ void TestBatch::migrationCreatesBatchTables() {
     QCOMPARE(store.list(), QStringList{"HR-QC117-A-0042"});
 }
 
-// ---- corrections ---------------------------------------------------------------------------------
-// Every expected value is worked by hand beside its row: two solids A (target 2.000 g) and B
-// (target 5.000 g) in 1000 mL at ± 2 %, unless the row says otherwise.
+// ---- corrections
+// --------------------------------------------------------------------------------- Every expected
+// value is worked by hand beside its row: two solids A (target 2.000 g) and B (target 5.000 g) in
+// 1000 mL at ± 2 %, unless the row says otherwise.
 
 void TestBatch::correctionByHand_data() {
-    QTest::addColumn<double>("a");          // actual A, g (NaN = not weighed yet)
-    QTest::addColumn<double>("b");          // actual B, g (NaN = not weighed yet)
-    QTest::addColumn<double>("container");  // mL (NaN = not given)
+    QTest::addColumn<double>("a");         // actual A, g (NaN = not weighed yet)
+    QTest::addColumn<double>("b");         // actual B, g (NaN = not weighed yet)
+    QTest::addColumn<double>("container"); // mL (NaN = not given)
     QTest::addColumn<bool>("needed");
     QTest::addColumn<bool>("remake");
     QTest::addColumn<double>("scale");
-    QTest::addColumn<double>("volume");     // mL
-    QTest::addColumn<double>("add_a");      // g
-    QTest::addColumn<double>("add_b");      // g
+    QTest::addColumn<double>("volume"); // mL
+    QTest::addColumn<double>("add_a");  // g
+    QTest::addColumn<double>("add_b");  // g
     const double nan = std::nan("");
     // Both within ± 2 %: nothing to do.
-    QTest::newRow("within") << 2.030 << 4.950 << nan << false << false << 1.0 << 1000.0 << 0.0 << 0.0;
+    QTest::newRow("within") << 2.030 << 4.950 << nan << false << false << 1.0 << 1000.0 << 0.0
+                            << 0.0;
     // A 5 % under (1.900 g): s = 1, add 2.000 − 1.900 = 0.100 g of A; B on target.
-    QTest::newRow("A under") << 1.900 << 5.000 << nan << true << false << 1.0 << 1000.0 << 0.100 << 0.0;
+    QTest::newRow("A under") << 1.900 << 5.000 << nan << true << false << 1.0 << 1000.0 << 0.100
+                             << 0.0;
     // A 5 % over (2.100 g): s = 2.100 / 2.000 = 1.05, V = 1050 mL; B scaled target 5.250 g,
     // band 5.145–5.355 g; B at 5.000 g is outside: add 5.250 − 5.000 = 0.250 g.
-    QTest::newRow("A over") << 2.100 << 5.000 << nan << true << false << 1.05 << 1050.0 << 0.0 << 0.250;
+    QTest::newRow("A over") << 2.100 << 5.000 << nan << true << false << 1.05 << 1050.0 << 0.0
+                            << 0.250;
     // A 5 % over, B 3 % over (5.150 g): s = max(1.05, 1.03) = 1.05; B against 5.250 g:
     // 5.150 / 5.250 − 1 = −1.905 %, inside ± 2 %: nothing to add to B.
-    QTest::newRow("both over") << 2.100 << 5.150 << nan << true << false << 1.05 << 1050.0 << 0.0 << 0.0;
+    QTest::newRow("both over") << 2.100 << 5.150 << nan << true << false << 1.05 << 1050.0 << 0.0
+                               << 0.0;
     // A 5 % over, B not weighed yet: weigh 5.000 × 1.05 = 5.250 g of B.
-    QTest::newRow("B not yet weighed") << 2.100 << nan << nan << true << false << 1.05 << 1050.0 << 0.0 << 5.250;
+    QTest::newRow("B not yet weighed")
+        << 2.100 << nan << nan << true << false << 1.05 << 1050.0 << 0.0 << 5.250;
     // A 5 % over in a 1000 mL flask: 1050 mL does not fit: remake.
-    QTest::newRow("flask too small") << 2.100 << 5.000 << 1000.0 << true << true << 1.05 << 1050.0 << 0.0 << 0.250;
+    QTest::newRow("flask too small")
+        << 2.100 << 5.000 << 1000.0 << true << true << 1.05 << 1050.0 << 0.0 << 0.250;
     // The same in a 2000 mL bottle: it fits.
-    QTest::newRow("bottle large enough") << 2.100 << 5.000 << 2000.0 << true << false << 1.05 << 1050.0 << 0.0 << 0.250;
+    QTest::newRow("bottle large enough")
+        << 2.100 << 5.000 << 2000.0 << true << false << 1.05 << 1050.0 << 0.0 << 0.250;
     // A 10 % over (2.200 g) and B 4 % under (4.800 g): s = 1.10, V = 1100 mL, B to 5.500 g:
     // add 5.500 − 4.800 = 0.700 g.
-    QTest::newRow("over and under") << 2.200 << 4.800 << nan << true << false << 1.10 << 1100.0 << 0.0 << 0.700;
+    QTest::newRow("over and under")
+        << 2.200 << 4.800 << nan << true << false << 1.10 << 1100.0 << 0.0 << 0.700;
 }
 
 void TestBatch::correctionByHand() {
@@ -617,7 +693,8 @@ void TestBatch::correctionByHand() {
     QCOMPARE(int(c.steps.size()), 2);
     QVERIFY2(std::abs(c.steps[0].add - add_a) < 1e-9, qPrintable(QString::number(c.steps[0].add)));
     QVERIFY2(std::abs(c.steps[1].add - add_b) < 1e-9, qPrintable(QString::number(c.steps[1].add)));
-    if (remake) QVERIFY(c.remake_reason.find("1050 mL") != std::string::npos);
+    if (remake)
+        QVERIFY(c.remake_reason.find("1050 mL") != std::string::npos);
     // After the correction every weighed part lies within the band around its scaled target.
     if (needed && !remake)
         for (const auto& s : c.steps)
@@ -652,13 +729,16 @@ void TestBatch::measuredPhAgainstItsTolerance() {
     QVERIFY(!chem::evaluate_batch(lib(), r, b, 48).out_of_tolerance);
     // Bad values name their field.
     b.measured_ph = 15;
-    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.measured_ph"));
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }),
+             QString("batch.measured_ph"));
     b.measured_ph = 2.5;
     b.ph_tolerance = 0;
-    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.ph_tolerance"));
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }),
+             QString("batch.ph_tolerance"));
     b.ph_tolerance = 0.05;
     b.container_ml = -1;
-    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }), QString("batch.container_ml"));
+    QCOMPARE(expect_error([&] { chem::evaluate_batch(lib(), r, b, 48); }),
+             QString("batch.container_ml"));
 }
 
 void TestBatch::benchFieldsStoredAndMigratedFromV4() {
@@ -671,12 +751,14 @@ void TestBatch::benchFieldsStoredAndMigratedFromV4() {
         const BatchRecord r = demo_record();
         QSqlQuery q(old.connection());
         q.prepare("INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at,"
-                  " tolerance_percent, actual, created_at, updated_at) VALUES (?, ?, ?, ?, ?, 2, ?, ?, ?)");
-        for (const QVariant& v : QVariantList{r.id, r.document_kind,
-                                              QString::fromUtf8(QJsonDocument(r.document).toJson(QJsonDocument::Compact)),
-                                              r.prepared_by, r.prepared_at,
-                                              QString::fromUtf8(QJsonDocument(r.actual).toJson(QJsonDocument::Compact)),
-                                              "2026-12-01T16:00:00Z", "2026-12-01T16:00:00Z"})
+                  " tolerance_percent, actual, created_at, updated_at) VALUES (?, ?, ?, ?, ?, 2, "
+                  "?, ?, ?)");
+        for (const QVariant& v : QVariantList{
+                 r.id, r.document_kind,
+                 QString::fromUtf8(QJsonDocument(r.document).toJson(QJsonDocument::Compact)),
+                 r.prepared_by, r.prepared_at,
+                 QString::fromUtf8(QJsonDocument(r.actual).toJson(QJsonDocument::Compact)),
+                 "2026-12-01T16:00:00Z", "2026-12-01T16:00:00Z"})
             q.addBindValue(v);
         QVERIFY2(q.exec(), qPrintable(q.lastError().text()));
     }
@@ -705,9 +787,10 @@ void TestBatch::benchFieldsStoredAndMigratedFromV4() {
     QCOMPARE(back.deviation_by, QString("M. Lindqvist"));
     QStringList fields;
     for (const auto& h : store.history(rec.id))
-        if (h.revision == back.revision) fields << h.field;
-    for (const char* f : {"measured_ph", "ph_meter_id", "balance_id", "comment", "container_ml", "deviation.note",
-                          "deviation.by", "deviation.at"})
+        if (h.revision == back.revision)
+            fields << h.field;
+    for (const char* f : {"measured_ph", "ph_meter_id", "balance_id", "comment", "container_ml",
+                          "deviation.note", "deviation.by", "deviation.at"})
         QVERIFY2(fields.contains(f), f);
     // The contract round trip keeps them.
     const BatchRecord again = BatchRecord::from_input(back.to_input());

@@ -13,7 +13,7 @@ using phaseplan::testing::run_cli;
 
 class TestCli : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void badInputIsRejected_data();
     void badInputIsRejected();
     void missingFileAndUnknownCommand();
@@ -56,7 +56,8 @@ void TestCli::badInputIsRejected() {
     const QString err = QString::fromUtf8(r.err).trimmed();
     QVERIFY2(!err.contains('\n'), qPrintable(err));
     QVERIFY2(err.contains(field + ":"), qPrintable(err));
-    if (!contains.isEmpty()) QVERIFY2(err.contains(contains), qPrintable(err));
+    if (!contains.isEmpty())
+        QVERIFY2(err.contains(contains), qPrintable(err));
 }
 
 void TestCli::missingFileAndUnknownCommand() {
@@ -105,8 +106,9 @@ void TestCli::recipeFromFileMatchesStdin() {
 }
 
 void TestCli::recipeOutputFeedsBackIntoSolve() {
-    const auto r = run_cli({"recipe", "-"},
-                           R"({"target_ph": 3.0, "temperature_c": 20, "volume_ml": 2000, "route": "mix",
+    const auto r =
+        run_cli({"recipe", "-"},
+                R"({"target_ph": 3.0, "temperature_c": 20, "volume_ml": 2000, "route": "mix",
                                "acid": "formic-acid", "base": "ammonium-formate", "concentration_mol_per_l": 0.01})");
     QCOMPARE(r.exit_code, 0);
     const QJsonObject out = QJsonDocument::fromJson(r.out).object();
@@ -120,22 +122,26 @@ void TestCli::recipeStatesItsBasis() {
     // An LC-MS buffer as usually written: the salt at 10 mM, brought to pH with its own acid
     // added as supplied. The output says so in words and gives both readings (formate in all,
     // ammonium).
-    const auto r = run_cli({"recipe", "-"},
-                           R"({"target_ph": 3.0, "volume_ml": 500, "route": "titrate", "weigh": "ammonium-formate",
+    const auto r = run_cli(
+        {"recipe", "-"},
+        R"({"target_ph": 3.0, "volume_ml": 500, "route": "titrate", "weigh": "ammonium-formate",
                                "titrant": "formic-acid", "titrant_form": "neat", "concentration_basis": "salt",
                                "concentration_mol_per_l": 0.01})");
     QCOMPARE(r.exit_code, 0);
     const QJsonObject out = QJsonDocument::fromJson(r.out).object();
     QCOMPARE(out["concentration_basis"].toString(), QString("salt"));
     QCOMPARE(out["titrant_form"].toString(), QString("neat"));
-    QVERIFY(out["basis"].toObject()["text"].toString().startsWith("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"));
+    QVERIFY(out["basis"].toObject()["text"].toString().startsWith(
+        "10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"));
     QStringList families;
-    for (const auto& t : out["totals"].toArray()) families << t.toObject()["family"].toString();
+    for (const auto& t : out["totals"].toArray())
+        families << t.toObject()["family"].toString();
     QCOMPARE(families, (QStringList{"formate", "ammonium"}));
     for (const auto& i : out["items"].toArray())
         if (i.toObject()["reagent"] == "formic-acid") {
             QCOMPARE(i.toObject()["as"].toString(), QString("titrant, neat"));
-            QVERIFY(i.toObject()["volume_ml"].toDouble() > 0 && i.toObject()["mass_g"].toDouble() > 0);
+            QVERIFY(i.toObject()["volume_ml"].toDouble() > 0 &&
+                    i.toObject()["mass_g"].toDouble() > 0);
         }
 }
 
@@ -145,19 +151,65 @@ void TestCli::reagentsListsEveryRequiredId() {
     QStringList ids;
     for (const auto& x : QJsonDocument::fromJson(r.out).object()["reagents"].toArray())
         ids << x.toObject()["id"].toString();
-    for (const char* id :
-         {"potassium-dihydrogen-phosphate", "dipotassium-hydrogen-phosphate", "sodium-dihydrogen-phosphate",
-          "sodium-dihydrogen-phosphate-monohydrate", "sodium-dihydrogen-phosphate-dihydrate",
-          "disodium-hydrogen-phosphate", "disodium-hydrogen-phosphate-dihydrate",
-          "disodium-hydrogen-phosphate-heptahydrate", "disodium-hydrogen-phosphate-dodecahydrate",
-          "phosphoric-acid", "acetic-acid", "sodium-acetate", "sodium-acetate-trihydrate",
-          "ammonium-acetate", "formic-acid", "ammonium-formate", "sodium-formate", "citric-acid",
-          "citric-acid-monohydrate", "trisodium-citrate", "trisodium-citrate-dihydrate",
-          "potassium-dihydrogen-citrate", "potassium-hydrogen-phthalate", "sodium-tetraborate",
-          "sodium-tetraborate-decahydrate", "boric-acid", "sodium-bicarbonate", "sodium-carbonate",
-          "ammonium-bicarbonate", "tris", "tris-hydrochloride", "glycine", "hydrochloric-acid",
-          "sodium-hydroxide", "potassium-hydroxide", "ammonia", "sodium-chloride", "potassium-chloride",
-          "trifluoroacetic-acid", "triethylamine", "mes", "hepes", "mops", "bis-tris", "ammonium-dihydrogen-phosphate", "diammonium-hydrogen-phosphate", "perchloric-acid", "sodium-perchlorate", "sulfuric-acid", "methanesulfonic-acid", "difluoroacetic-acid", "heptafluorobutyric-acid", "hexafluoro-2-propanol", "diisopropylethylamine", "diethylamine", "ammonium-fluoride", "sodium-hexanesulfonate", "sodium-octanesulfonate", "tetrabutylammonium-hydrogen-sulfate"})
+    for (const char* id : {"potassium-dihydrogen-phosphate",
+                           "dipotassium-hydrogen-phosphate",
+                           "sodium-dihydrogen-phosphate",
+                           "sodium-dihydrogen-phosphate-monohydrate",
+                           "sodium-dihydrogen-phosphate-dihydrate",
+                           "disodium-hydrogen-phosphate",
+                           "disodium-hydrogen-phosphate-dihydrate",
+                           "disodium-hydrogen-phosphate-heptahydrate",
+                           "disodium-hydrogen-phosphate-dodecahydrate",
+                           "phosphoric-acid",
+                           "acetic-acid",
+                           "sodium-acetate",
+                           "sodium-acetate-trihydrate",
+                           "ammonium-acetate",
+                           "formic-acid",
+                           "ammonium-formate",
+                           "sodium-formate",
+                           "citric-acid",
+                           "citric-acid-monohydrate",
+                           "trisodium-citrate",
+                           "trisodium-citrate-dihydrate",
+                           "potassium-dihydrogen-citrate",
+                           "potassium-hydrogen-phthalate",
+                           "sodium-tetraborate",
+                           "sodium-tetraborate-decahydrate",
+                           "boric-acid",
+                           "sodium-bicarbonate",
+                           "sodium-carbonate",
+                           "ammonium-bicarbonate",
+                           "tris",
+                           "tris-hydrochloride",
+                           "glycine",
+                           "hydrochloric-acid",
+                           "sodium-hydroxide",
+                           "potassium-hydroxide",
+                           "ammonia",
+                           "sodium-chloride",
+                           "potassium-chloride",
+                           "trifluoroacetic-acid",
+                           "triethylamine",
+                           "mes",
+                           "hepes",
+                           "mops",
+                           "bis-tris",
+                           "ammonium-dihydrogen-phosphate",
+                           "diammonium-hydrogen-phosphate",
+                           "perchloric-acid",
+                           "sodium-perchlorate",
+                           "sulfuric-acid",
+                           "methanesulfonic-acid",
+                           "difluoroacetic-acid",
+                           "heptafluorobutyric-acid",
+                           "hexafluoro-2-propanol",
+                           "diisopropylethylamine",
+                           "diethylamine",
+                           "ammonium-fluoride",
+                           "sodium-hexanesulfonate",
+                           "sodium-octanesulfonate",
+                           "tetrabutylammonium-hydrogen-sulfate"})
         QVERIFY2(ids.contains(id), id);
 }
 

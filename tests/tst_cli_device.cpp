@@ -18,12 +18,16 @@ using phaseplan::testing::verify_rejected;
 
 namespace {
 
-QStringList read_args(const FakeInstrument& inst, const QString& format, const QStringList& more = {}) {
-    return QStringList{"device", "read", "--port", inst.path(), "--format", format, "--timeout-s", "5"} + more;
+QStringList read_args(const FakeInstrument& inst, const QString& format,
+                      const QStringList& more = {}) {
+    return QStringList{"device",   "read", "--port",      inst.path(),
+                       "--format", format, "--timeout-s", "5"} +
+           more;
 }
 
 QJsonObject json_of(const CliRun& r) {
-    if (r.exit_code != 0) qWarning("stderr: %s", r.err.constData());
+    if (r.exit_code != 0)
+        qWarning("stderr: %s", r.err.constData());
     return QJsonDocument::fromJson(r.out).object();
 }
 
@@ -31,7 +35,7 @@ QJsonObject json_of(const CliRun& r) {
 
 class TestCliDevice : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void readsOneWeight() {
         FakeInstrument bal;
         QVERIFY(bal.send("S S      3.1610 g\r\nS S      9.9999 g\r\n"));
@@ -52,7 +56,8 @@ private slots:
         QCOMPARE(o["value"].toDouble(), 0.25); // 1 mg = 1e-3 g (SI)
         QCOMPARE(o["sent_unit"].toString(), QString("mg"));
         FakeInstrument meter;
-        QVERIFY(meter.send("7.012 pH 25.1 \xc2\xb0" "C\r\n"));
+        QVERIFY(meter.send("7.012 pH 25.1 \xc2\xb0"
+                           "C\r\n"));
         o = json_of(run_cli(read_args(meter, "ph-temperature")));
         QCOMPARE(o["value"].toDouble(), 7.012);
         QCOMPARE(o["unit"].toString(), QString("pH"));
@@ -86,16 +91,33 @@ private slots:
         QTest::addColumn<QStringList>("more");
         QTest::addColumn<QString>("field");
         QTest::addColumn<QString>("contains");
-        QTest::newRow("overload") << QByteArray("ST,+OL\r\n") << QStringList{} << "reading" << "overload";
-        QTest::newRow("dashes") << QByteArray("S S ----\r\n") << QStringList{} << "reading" << "dashes";
-        QTest::newRow("negative") << QByteArray("S S    -0.0040 g\r\n") << QStringList{} << "reading" << "negative";
-        QTest::newRow("mg where g expected") << QByteArray("S S 3161.0 mg\r\n") << QStringList{"--unit", "g"} << "unit" << "where g was expected";
-        QTest::newRow("garbage, line end") << QByteArray("\xf3\x1c\x8a\xe1\r\n") << QStringList{} << "reading" << "baud rate";
-        QTest::newRow("garbage, no line end") << QByteArray(400, '\xd5') << QStringList{} << "reading" << "no line end";
-        QTest::newRow("no match") << QByteArray("READY\r\n") << QStringList{} << "reading" << "does not match";
-        QTest::newRow("timeout") << QByteArray() << QStringList{"--timeout-s", "0.3"} << "port" << "within 0.3 s";
-        QTest::newRow("timeout, only unsettled") << QByteArray("S D 3.1598 g\r\n") << QStringList{"--timeout-s", "0.3", "--stable-only"} << "port" << "no stable reading";
-        QTest::newRow("timeout, half a line") << QByteArray("S S 3.16") << QStringList{"--timeout-s", "0.3"} << "port" << "received \"S S 3.16\"";
+        QTest::newRow("overload") << QByteArray("ST,+OL\r\n") << QStringList{} << "reading"
+                                  << "overload";
+        QTest::newRow("dashes") << QByteArray("S S ----\r\n") << QStringList{} << "reading"
+                                << "dashes";
+        QTest::newRow("negative") << QByteArray("S S    -0.0040 g\r\n") << QStringList{}
+                                  << "reading"
+                                  << "negative";
+        QTest::newRow("mg where g expected")
+            << QByteArray("S S 3161.0 mg\r\n") << QStringList{"--unit", "g"} << "unit"
+            << "where g was expected";
+        QTest::newRow("garbage, line end")
+            << QByteArray("\xf3\x1c\x8a\xe1\r\n") << QStringList{} << "reading"
+            << "baud rate";
+        QTest::newRow("garbage, no line end")
+            << QByteArray(400, '\xd5') << QStringList{} << "reading"
+            << "no line end";
+        QTest::newRow("no match") << QByteArray("READY\r\n") << QStringList{} << "reading"
+                                  << "does not match";
+        QTest::newRow("timeout") << QByteArray() << QStringList{"--timeout-s", "0.3"} << "port"
+                                 << "within 0.3 s";
+        QTest::newRow("timeout, only unsettled")
+            << QByteArray("S D 3.1598 g\r\n") << QStringList{"--timeout-s", "0.3", "--stable-only"}
+            << "port"
+            << "no stable reading";
+        QTest::newRow("timeout, half a line")
+            << QByteArray("S S 3.16") << QStringList{"--timeout-s", "0.3"} << "port"
+            << "received \"S S 3.16\"";
     }
     void faultsExitTwoWithOneLine() {
         QFETCH(QByteArray, sent);
@@ -103,7 +125,8 @@ private slots:
         QFETCH(QString, field);
         QFETCH(QString, contains);
         FakeInstrument bal;
-        if (!sent.isEmpty()) QVERIFY(bal.send(sent));
+        if (!sent.isEmpty())
+            QVERIFY(bal.send(sent));
         QStringList args = read_args(bal, "flag-number-unit");
         args += more; // a second --timeout-s wins
         verify_rejected(run_cli(args), field, contains);
@@ -113,20 +136,54 @@ private slots:
         QTest::addColumn<QStringList>("args");
         QTest::addColumn<QString>("field");
         QTest::addColumn<QString>("contains");
-        QTest::newRow("missing port") << QStringList{"device", "read", "--port", "/dev/phaseplan-no-such-port", "--format", "number-unit"} << "port" << "does not exist";
-        QTest::newRow("not a serial port") << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit"} << "port" << "serial port";
-        QTest::newRow("no port") << QStringList{"device", "read", "--format", "number-unit"} << "port" << "--port";
-        QTest::newRow("no format") << QStringList{"device", "read", "--port", "/dev/null"} << "format" << "number-unit";
-        QTest::newRow("unknown preset") << QStringList{"device", "read", "--port", "/dev/null", "--format", "grams"} << "format" << "\"grams\"";
-        QTest::newRow("bad expression") << QStringList{"device", "read", "--port", "/dev/null", "--format", "(?<value>[0-9"} << "format" << "does not compile";
-        QTest::newRow("baud") << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit", "--baud", "fast"} << "baud" << "\"fast\"";
-        QTest::newRow("timeout") << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit", "--timeout-s", "-1"} << "timeout_s" << "\"-1\"";
-        QTest::newRow("unit") << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit", "--unit", "lb"} << "unit" << "\"lb\"";
-        QTest::newRow("parity") << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit", "--parity", "odd-ish"} << "parity" << "odd-ish";
-        QTest::newRow("value missing") << QStringList{"device", "read", "--port"} << "port" << "needs a value";
-        QTest::newRow("unknown option") << QStringList{"device", "read", "--colour", "red"} << "device" << "--colour";
-        QTest::newRow("unknown subcommand") << QStringList{"device", "tare"} << "device" << "tare";
-        QTest::newRow("no subcommand") << QStringList{"device"} << "device" << "read";
+        QTest::newRow("missing port")
+            << QStringList{"device",   "read",       "--port", "/dev/phaseplan-no-such-port",
+                           "--format", "number-unit"}
+            << "port"
+            << "does not exist";
+        QTest::newRow("not a serial port")
+            << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit"}
+            << "port"
+            << "serial port";
+        QTest::newRow("no port") << QStringList{"device", "read", "--format", "number-unit"}
+                                 << "port"
+                                 << "--port";
+        QTest::newRow("no format")
+            << QStringList{"device", "read", "--port", "/dev/null"} << "format"
+            << "number-unit";
+        QTest::newRow("unknown preset")
+            << QStringList{"device", "read", "--port", "/dev/null", "--format", "grams"} << "format"
+            << "\"grams\"";
+        QTest::newRow("bad expression")
+            << QStringList{"device", "read", "--port", "/dev/null", "--format", "(?<value>[0-9"}
+            << "format"
+            << "does not compile";
+        QTest::newRow("baud") << QStringList{"device",   "read",        "--port", "/dev/null",
+                                             "--format", "number-unit", "--baud", "fast"}
+                              << "baud"
+                              << "\"fast\"";
+        QTest::newRow("timeout") << QStringList{"device",      "read",     "--port",
+                                                "/dev/null",   "--format", "number-unit",
+                                                "--timeout-s", "-1"}
+                                 << "timeout_s"
+                                 << "\"-1\"";
+        QTest::newRow("unit") << QStringList{"device",   "read",        "--port", "/dev/null",
+                                             "--format", "number-unit", "--unit", "lb"}
+                              << "unit"
+                              << "\"lb\"";
+        QTest::newRow("parity") << QStringList{"device",   "read",        "--port",   "/dev/null",
+                                               "--format", "number-unit", "--parity", "odd-ish"}
+                                << "parity"
+                                << "odd-ish";
+        QTest::newRow("value missing") << QStringList{"device", "read", "--port"} << "port"
+                                       << "needs a value";
+        QTest::newRow("unknown option")
+            << QStringList{"device", "read", "--colour", "red"} << "device"
+            << "--colour";
+        QTest::newRow("unknown subcommand") << QStringList{"device", "tare"} << "device"
+                                            << "tare";
+        QTest::newRow("no subcommand") << QStringList{"device"} << "device"
+                                       << "read";
     }
     void badArgumentsExitTwo() {
         QFETCH(QStringList, args);
@@ -141,14 +198,16 @@ private slots:
         phaseplan::devices::PortSettings p;
         p.port = bal.path();
         holder.open(p);
-        verify_rejected(run_cli(read_args(bal, "number-unit")), "port", "in use by another program");
+        verify_rejected(run_cli(read_args(bal, "number-unit")), "port",
+                        "in use by another program");
     }
 
     void instrumentGoneMidLine() {
         FakeInstrument bal;
         QVERIFY(bal.send("S S   3.16"));
         QProcess cli;
-        cli.start(QStringLiteral(CLI_PATH), read_args(bal, "flag-number-unit", {"--baud", "19200", "--timeout-s", "30"}));
+        cli.start(QStringLiteral(CLI_PATH),
+                  read_args(bal, "flag-number-unit", {"--baud", "19200", "--timeout-s", "30"}));
         QVERIFY(cli.waitForStarted());
         // Wait until the tool has opened the port (it sets 19200 baud), then pull the plug.
         for (int i = 0; i < 3000 && bal.speed() != B19200 && cli.state() == QProcess::Running; ++i)
@@ -169,8 +228,10 @@ private slots:
         QCOMPARE(r.exit_code, 0);
         const QJsonArray a = QJsonDocument::fromJson(r.out).object()["formats"].toArray();
         QStringList names;
-        for (const auto& f : a) names << f.toObject()["name"].toString();
-        QVERIFY(names.contains("number-unit") && names.contains("flag-number-unit") && names.contains("ph-temperature"));
+        for (const auto& f : a)
+            names << f.toObject()["name"].toString();
+        QVERIFY(names.contains("number-unit") && names.contains("flag-number-unit") &&
+                names.contains("ph-temperature"));
     }
 };
 

@@ -19,10 +19,14 @@ QJsonObject run_ok(const QString& command, const QJsonObject& doc) {
 
 QJsonObject lines() {
     return QJsonObject{
-        {"A", QJsonObject{{"name", "water"}, {"bottle_ml", 1000},
-                          {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}}}},
-        {"B", QJsonObject{{"name", "methanol"}, {"bottle_ml", 1000},
-                          {"parts", QJsonArray{QJsonObject{{"solvent", "methanol"}, {"fraction_v", 1}}}}}}};
+        {"A",
+         QJsonObject{{"name", "water"},
+                     {"bottle_ml", 1000},
+                     {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}}}},
+        {"B", QJsonObject{
+                  {"name", "methanol"},
+                  {"bottle_ml", 1000},
+                  {"parts", QJsonArray{QJsonObject{{"solvent", "methanol"}, {"fraction_v", 1}}}}}}};
 }
 
 QJsonObject method(double flow) {
@@ -52,7 +56,9 @@ class TestCliPressure : public QObject {
             "pressure",
             QJsonObject{{"lines", lines()},
                         {"method", method(1.0)},
-                        {"column", QJsonObject{{"length_mm", 150}, {"id_mm", 4.6}, {"particle_um", 5},
+                        {"column", QJsonObject{{"length_mm", 150},
+                                               {"id_mm", 4.6},
+                                               {"particle_um", 5},
                                                {"max_pressure_bar", 400}}},
                         {"instrument", QJsonObject{{"max_pressure_bar", 600}, {"dwell_ml", 1.0}}}});
         QVERIFY(!out.isEmpty());
@@ -77,13 +83,17 @@ class TestCliPressure : public QObject {
     void transferContract() {
         const QJsonObject out = run_ok(
             "transfer",
-            QJsonObject{{"method", method(1.0)},
-                        {"from", QJsonObject{{"length_mm", 250}, {"id_mm", 4.6}, {"particle_um", 5}}},
-                        {"to", QJsonObject{{"length_mm", 50}, {"id_mm", 2.1}, {"particle_um", 5},
-                                           {"flow_ml_min", 0.2}, {"max_pressure_bar", 400}}},
-                        {"injection_ul", 10},
-                        {"sequence_injections", 40},
-                        {"lines", lines()}});
+            QJsonObject{
+                {"method", method(1.0)},
+                {"from", QJsonObject{{"length_mm", 250}, {"id_mm", 4.6}, {"particle_um", 5}}},
+                {"to", QJsonObject{{"length_mm", 50},
+                                   {"id_mm", 2.1},
+                                   {"particle_um", 5},
+                                   {"flow_ml_min", 0.2},
+                                   {"max_pressure_bar", 400}}},
+                {"injection_ul", 10},
+                {"sequence_injections", 40},
+                {"lines", lines()}});
         QVERIFY(!out.isEmpty());
         const QJsonObject m = out["method"].toObject();
         QCOMPARE(m["flow_ml_min"].toDouble(), 0.2);
@@ -98,12 +108,13 @@ class TestCliPressure : public QObject {
         QCOMPARE(out["within_allowed_adjustment"].toBool(), false);
         QVERIFY(out["pressure"].toObject()["max_pressure_bar"].toDouble() > 0);
         // Straight into sequence.
-        const QJsonObject seq = run_ok(
-            "sequence",
-            QJsonObject{{"lines", lines()},
-                        {"methods", QJsonObject{{"moved", m}}},
-                        {"sequence", QJsonArray{QJsonObject{{"method", "moved"}, {"injections", 40}}}},
-                        {"start", "2026-12-01T18:00:00"}});
+        const QJsonObject seq =
+            run_ok("sequence",
+                   QJsonObject{{"lines", lines()},
+                               {"methods", QJsonObject{{"moved", m}}},
+                               {"sequence",
+                                QJsonArray{QJsonObject{{"method", "moved"}, {"injections", 40}}}},
+                               {"start", "2026-12-01T18:00:00"}});
         QVERIFY(seq["total_min"].toDouble() > 0);
     }
 
@@ -115,8 +126,11 @@ class TestCliPressure : public QObject {
                         {"methods", QJsonObject{{"m", method(1.0)}}},
                         {"sequence", QJsonArray{QJsonObject{{"method", "m"}, {"injections", 3}}}},
                         {"start", "2026-12-01T18:00:00"},
-                        {"column", QJsonObject{{"ph_min", 2}, {"ph_max", 8}, {"length_mm", 150},
-                                               {"id_mm", 4.6}, {"particle_um", 3}}},
+                        {"column", QJsonObject{{"ph_min", 2},
+                                               {"ph_max", 8},
+                                               {"length_mm", 150},
+                                               {"id_mm", 4.6},
+                                               {"particle_um", 3}}},
                         {"instrument", QJsonObject{{"max_pressure_bar", 1000}}}};
         const QJsonObject free_run = run_ok("sequence", doc);
         const QJsonObject m = free_run["methods"].toObject()["m"].toObject();

@@ -8,8 +8,8 @@
 #include "test_support.h"
 
 #include <QFile>
-#include <QRandomGenerator>
 #include <QJsonArray>
+#include <QRandomGenerator>
 #include <QTemporaryDir>
 #include <QtTest>
 
@@ -28,7 +28,8 @@ const FormatLibrary& formats() {
 
 const LineFormat& preset(const char* name) {
     const LineFormat* f = formats().find(QLatin1String(name));
-    if (!f) qFatal("no preset %s", name);
+    if (!f)
+        qFatal("no preset %s", name);
     return *f;
 }
 
@@ -39,8 +40,7 @@ PortSettings port_of(const FakeInstrument& inst) {
 }
 
 /// The fault a call throws, or nullopt when it throws none.
-template <class F>
-std::optional<DeviceError> fault_of(F&& f) {
+template <class F> std::optional<DeviceError> fault_of(F&& f) {
     try {
         f();
     } catch (const DeviceError& e) {
@@ -49,13 +49,15 @@ std::optional<DeviceError> fault_of(F&& f) {
     return std::nullopt;
 }
 
-Expectation grams() { return {Quantity::mass, QStringLiteral("g")}; }
+Expectation grams() {
+    return {Quantity::mass, QStringLiteral("g")};
+}
 
 } // namespace
 
 class TestDevices : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     // ---- formats ------------------------------------------------------------------------------
     void everyPresetReadsItsExamples() {
         QVERIFY(formats().formats.size() >= 3);
@@ -86,23 +88,47 @@ private slots:
         QTest::addColumn<double>("temperature_c"); // NaN: none sent
         const double none = std::nan("");
         // Conversions: 1 mg = 1e-3 g, 1 kg = 1e3 g (SI prefixes, BIPM SI Brochure).
-        QTest::newRow("number-unit, padded") << "number-unit" << QByteArray("    3.1610 g") << 3.161 << "g" << true << "" << none;
-        QTest::newRow("number-unit, signed, zeros") << "number-unit" << QByteArray("+0012.35 g") << 12.35 << "g" << true << "" << none;
-        QTest::newRow("number-unit, kg to g") << "number-unit" << QByteArray("0.0025 kg") << 2.5 << "g" << true << "" << none;
-        QTest::newRow("number-unit, mg to g") << "number-unit" << QByteArray("250.0 mg") << 0.25 << "g" << true << "" << none;
-        QTest::newRow("number-unit, unsettled") << "number-unit" << QByteArray("  3.1612 g ?") << 3.1612 << "g" << false << "" << none;
-        QTest::newRow("number-unit, minus zero") << "number-unit" << QByteArray("-0.0000 g") << 0.0 << "g" << true << "" << none;
-        QTest::newRow("number-unit, pH") << "number-unit" << QByteArray("7.02 pH") << 7.02 << "pH" << true << "" << none;
-        QTest::newRow("flag, echo S settled") << "flag-number-unit" << QByteArray("S S      3.1610 g") << 3.161 << "g" << true << "" << none;
-        QTest::newRow("flag, echo S moving") << "flag-number-unit" << QByteArray("S D      3.1598 g") << 3.1598 << "g" << false << "" << none;
-        QTest::newRow("flag, ST comma") << "flag-number-unit" << QByteArray("ST,+00003.1610  g") << 3.161 << "g" << true << "" << none;
-        QTest::newRow("flag, US comma") << "flag-number-unit" << QByteArray("US,+00003.1598  g") << 3.1598 << "g" << false << "" << none;
-        QTest::newRow("flag, no echo, mg") << "flag-number-unit" << QByteArray("S 250.02 mg") << 0.25002 << "g" << true << "" << none;
-        QTest::newRow("id-flag") << "id-flag-number-unit" << QByteArray("BAL-03 ST +3.1610 g") << 3.161 << "g" << true << "BAL-03" << none;
-        QTest::newRow("id-flag, commas, moving") << "id-flag-number-unit" << QByteArray("BAL-03,US,+3.1590,g") << 3.159 << "g" << false << "BAL-03" << none;
-        QTest::newRow("ph-temperature °C") << "ph-temperature" << QByteArray("7.012 pH 25.1 \xc2\xb0" "C") << 7.012 << "pH" << true << "" << 25.1;
-        QTest::newRow("ph-temperature comma C") << "ph-temperature" << QByteArray("4.005 pH, 24.8 C") << 4.005 << "pH" << true << "" << 24.8;
-        QTest::newRow("ph-temperature label, drifting") << "ph-temperature" << QByteArray("pH: 2.51 pH; 22.0 deg C ?") << 2.51 << "pH" << false << "" << 22.0;
+        QTest::newRow("number-unit, padded")
+            << "number-unit" << QByteArray("    3.1610 g") << 3.161 << "g" << true << "" << none;
+        QTest::newRow("number-unit, signed, zeros")
+            << "number-unit" << QByteArray("+0012.35 g") << 12.35 << "g" << true << "" << none;
+        QTest::newRow("number-unit, kg to g")
+            << "number-unit" << QByteArray("0.0025 kg") << 2.5 << "g" << true << "" << none;
+        QTest::newRow("number-unit, mg to g")
+            << "number-unit" << QByteArray("250.0 mg") << 0.25 << "g" << true << "" << none;
+        QTest::newRow("number-unit, unsettled")
+            << "number-unit" << QByteArray("  3.1612 g ?") << 3.1612 << "g" << false << "" << none;
+        QTest::newRow("number-unit, minus zero")
+            << "number-unit" << QByteArray("-0.0000 g") << 0.0 << "g" << true << "" << none;
+        QTest::newRow("number-unit, pH")
+            << "number-unit" << QByteArray("7.02 pH") << 7.02 << "pH" << true << "" << none;
+        QTest::newRow("flag, echo S settled")
+            << "flag-number-unit" << QByteArray("S S      3.1610 g") << 3.161 << "g" << true << ""
+            << none;
+        QTest::newRow("flag, echo S moving")
+            << "flag-number-unit" << QByteArray("S D      3.1598 g") << 3.1598 << "g" << false << ""
+            << none;
+        QTest::newRow("flag, ST comma") << "flag-number-unit" << QByteArray("ST,+00003.1610  g")
+                                        << 3.161 << "g" << true << "" << none;
+        QTest::newRow("flag, US comma") << "flag-number-unit" << QByteArray("US,+00003.1598  g")
+                                        << 3.1598 << "g" << false << "" << none;
+        QTest::newRow("flag, no echo, mg") << "flag-number-unit" << QByteArray("S 250.02 mg")
+                                           << 0.25002 << "g" << true << "" << none;
+        QTest::newRow("id-flag") << "id-flag-number-unit" << QByteArray("BAL-03 ST +3.1610 g")
+                                 << 3.161 << "g" << true << "BAL-03" << none;
+        QTest::newRow("id-flag, commas, moving")
+            << "id-flag-number-unit" << QByteArray("BAL-03,US,+3.1590,g") << 3.159 << "g" << false
+            << "BAL-03" << none;
+        QTest::newRow("ph-temperature °C") << "ph-temperature"
+                                           << QByteArray("7.012 pH 25.1 \xc2\xb0"
+                                                         "C")
+                                           << 7.012 << "pH" << true << "" << 25.1;
+        QTest::newRow("ph-temperature comma C")
+            << "ph-temperature" << QByteArray("4.005 pH, 24.8 C") << 4.005 << "pH" << true << ""
+            << 24.8;
+        QTest::newRow("ph-temperature label, drifting")
+            << "ph-temperature" << QByteArray("pH: 2.51 pH; 22.0 deg C ?") << 2.51 << "pH" << false
+            << "" << 22.0;
     }
     void presetsReadValuesUnitsAndMarks() {
         QFETCH(QString, format);
@@ -113,13 +139,15 @@ private slots:
         QFETCH(QString, id);
         QFETCH(double, temperature_c);
         const Reading r = parse_line(line, *formats().find(format), formats());
-        QVERIFY2(std::abs(r.value - grams_or_ph) < 1e-12, qPrintable(QString::number(r.value, 'g', 17)));
+        QVERIFY2(std::abs(r.value - grams_or_ph) < 1e-12,
+                 qPrintable(QString::number(r.value, 'g', 17)));
         QVERIFY(!std::signbit(r.value));
         QCOMPARE(r.unit, unit);
         QCOMPARE(r.stable, stable);
         QCOMPARE(r.instrument_id, id);
         QCOMPARE(r.temperature_c.has_value(), !std::isnan(temperature_c));
-        if (r.temperature_c) QCOMPARE(*r.temperature_c, temperature_c);
+        if (r.temperature_c)
+            QCOMPARE(*r.temperature_c, temperature_c);
         QCOMPARE(r.raw, QString::fromUtf8(line));
     }
 
@@ -130,21 +158,49 @@ private slots:
         QTest::addColumn<QString>("field");
         QTest::addColumn<QString>("contains");
         const int oor = int(Fault::out_of_range);
-        QTest::newRow("+OL") << "number-unit" << QByteArray("+OL") << oor << "reading" << "overload";
-        QTest::newRow("flag +OL") << "flag-number-unit" << QByteArray("ST,+OL") << oor << "reading" << "overload";
-        QTest::newRow("-OL") << "flag-number-unit" << QByteArray("S -OL g") << oor << "reading" << "underload";
-        QTest::newRow("----") << "number-unit" << QByteArray("----") << oor << "reading" << "dashes";
-        QTest::newRow("flag ------ g") << "flag-number-unit" << QByteArray("S D  ------ g") << oor << "reading" << "dashes";
-        QTest::newRow("error code") << "ph-temperature" << QByteArray("Err 03") << oor << "reading" << "error code";
-        QTest::newRow("pH above 14") << "ph-temperature" << QByteArray("15.20 pH 25.0 C") << oor << "reading" << "above pH 14";
-        QTest::newRow("negative weight") << "flag-number-unit" << QByteArray("S S     -0.0012 g") << int(Fault::negative) << "reading" << "tare";
-        QTest::newRow("negative, number-unit") << "number-unit" << QByteArray("-12.5 g") << int(Fault::negative) << "reading" << "negative";
-        QTest::newRow("mg where g expected") << "flag-number-unit" << QByteArray("S S 3161.0 mg") << int(Fault::wrong_unit) << "unit" << "mg in \"S S 3161.0 mg\" where g was expected";
-        QTest::newRow("mV from the meter") << "ph-temperature" << QByteArray("-12.3 mV 25.0 C") << int(Fault::wrong_unit) << "unit" << "\"mV\"";
-        QTest::newRow("unknown unit") << "number-unit" << QByteArray("3.1610 oz") << int(Fault::wrong_unit) << "unit" << "\"oz\"";
-        QTest::newRow("text that is no reading") << "flag-number-unit" << QByteArray("READY") << int(Fault::no_match) << "reading" << "does not match the line format flag-number-unit";
-        QTest::newRow("wrong baud") << "number-unit" << QByteArray("\xf3\x1c\x8a\xe1\x99") << int(Fault::garbage) << "reading" << "baud rate";
-        QTest::newRow("NUL in a line") << "number-unit" << QByteArray("3.16\0" "10 g", 9) << int(Fault::garbage) << "reading" << "\\x00";
+        QTest::newRow("+OL") << "number-unit" << QByteArray("+OL") << oor << "reading"
+                             << "overload";
+        QTest::newRow("flag +OL") << "flag-number-unit" << QByteArray("ST,+OL") << oor << "reading"
+                                  << "overload";
+        QTest::newRow("-OL") << "flag-number-unit" << QByteArray("S -OL g") << oor << "reading"
+                             << "underload";
+        QTest::newRow("----") << "number-unit" << QByteArray("----") << oor << "reading"
+                              << "dashes";
+        QTest::newRow("flag ------ g")
+            << "flag-number-unit" << QByteArray("S D  ------ g") << oor << "reading"
+            << "dashes";
+        QTest::newRow("error code") << "ph-temperature" << QByteArray("Err 03") << oor << "reading"
+                                    << "error code";
+        QTest::newRow("pH above 14")
+            << "ph-temperature" << QByteArray("15.20 pH 25.0 C") << oor << "reading"
+            << "above pH 14";
+        QTest::newRow("negative weight") << "flag-number-unit" << QByteArray("S S     -0.0012 g")
+                                         << int(Fault::negative) << "reading"
+                                         << "tare";
+        QTest::newRow("negative, number-unit")
+            << "number-unit" << QByteArray("-12.5 g") << int(Fault::negative) << "reading"
+            << "negative";
+        QTest::newRow("mg where g expected")
+            << "flag-number-unit" << QByteArray("S S 3161.0 mg") << int(Fault::wrong_unit) << "unit"
+            << "mg in \"S S 3161.0 mg\" where g was expected";
+        QTest::newRow("mV from the meter")
+            << "ph-temperature" << QByteArray("-12.3 mV 25.0 C") << int(Fault::wrong_unit) << "unit"
+            << "\"mV\"";
+        QTest::newRow("unknown unit")
+            << "number-unit" << QByteArray("3.1610 oz") << int(Fault::wrong_unit) << "unit"
+            << "\"oz\"";
+        QTest::newRow("text that is no reading")
+            << "flag-number-unit" << QByteArray("READY") << int(Fault::no_match) << "reading"
+            << "does not match the line format flag-number-unit";
+        QTest::newRow("wrong baud") << "number-unit" << QByteArray("\xf3\x1c\x8a\xe1\x99")
+                                    << int(Fault::garbage) << "reading"
+                                    << "baud rate";
+        QTest::newRow("NUL in a line") << "number-unit"
+                                       << QByteArray("3.16\0"
+                                                     "10 g",
+                                                     9)
+                                       << int(Fault::garbage) << "reading"
+                                       << "\\x00";
     }
     void faultLinesAndBadReadings() {
         QFETCH(QString, format);
@@ -155,8 +211,8 @@ private slots:
         const LineFormat& f = *formats().find(format);
         // A balance field expects g, the meter's a pH (the device record's expectation).
         const Expectation expect = f.quantity == Quantity::ph ? Expectation{Quantity::ph, "pH"}
-                                   : format == "number-unit" ? Expectation{Quantity::mass, "g"}
-                                                             : grams();
+                                   : format == "number-unit"  ? Expectation{Quantity::mass, "g"}
+                                                              : grams();
         const auto e = fault_of([&] { parse_line(line, f, formats(), expect); });
         QVERIFY2(e, line.constData());
         QCOMPARE(int(e->fault()), fault);
@@ -168,14 +224,19 @@ private slots:
         // number-unit reads both; the field decides.
         auto e = fault_of([] { parse_line("7.02 pH", preset("number-unit"), formats(), grams()); });
         QVERIFY(e && e->fault() == Fault::wrong_unit);
-        e = fault_of([] { parse_line("3.1 g", preset("number-unit"), formats(), {Quantity::ph, "pH"}); });
+        e = fault_of([] {
+            parse_line("3.1 g", preset("number-unit"), formats(), {Quantity::ph, "pH"});
+        });
         QVERIFY(e && e->fault() == Fault::wrong_unit);
         // Without a unit set, any mass unit is converted.
-        QCOMPARE(parse_line("3161 mg", preset("number-unit"), formats(), {Quantity::mass, {}}).value, 3.161);
+        QCOMPARE(
+            parse_line("3161 mg", preset("number-unit"), formats(), {Quantity::mass, {}}).value,
+            3.161);
     }
 
     void customExpressions() {
-        const LineFormat f = resolve_format(formats(), R"(W=(?<value>\d+\.\d+)(?<unit>g)(?<stable>[*]?))");
+        const LineFormat f =
+            resolve_format(formats(), R"(W=(?<value>\d+\.\d+)(?<unit>g)(?<stable>[*]?))");
         QCOMPARE(f.name, QString("custom"));
         Reading r = parse_line("W=1.2500g", f, formats());
         QCOMPARE(r.value, 1.25);
@@ -190,7 +251,8 @@ private slots:
         e = fault_of([] { resolve_format(formats(), R"((?<value>\d+) g)"); });
         QVERIFY(e && QString::fromStdString(e->message()).contains("(?<unit>"));
         e = fault_of([] { resolve_format(formats(), "grams"); });
-        QVERIFY(e && QString::fromStdString(e->message()).contains("number-unit, flag-number-unit"));
+        QVERIFY(e &&
+                QString::fromStdString(e->message()).contains("number-unit, flag-number-unit"));
     }
 
     void formatsFileErrorsNameTheEntry() {
@@ -202,29 +264,39 @@ private slots:
             }
             return "(none)";
         };
-        QCOMPARE(field_of(R"J({"formats": [{"name": "a", "quantity": "mass", "description": "d", "pattern": "(?<value>\\d+)"}], "fault_lines": []})J"),
-                 std::string("device_formats.json: formats[0].pattern"));
-        QCOMPARE(field_of(R"({"formats": [{"name": "a", "quantity": "volume", "description": "d", "pattern": "x"}], "fault_lines": []})"),
-                 std::string("device_formats.json: formats[0].quantity"));
-        QCOMPARE(field_of(R"({"formats": [], "fault_lines": [{"pattern": "OL", "fault": "sometimes", "meaning": "m"}]})"),
-                 std::string("device_formats.json: fault_lines[0].fault"));
+        QCOMPARE(
+            field_of(
+                R"J({"formats": [{"name": "a", "quantity": "mass", "description": "d", "pattern": "(?<value>\\d+)"}], "fault_lines": []})J"),
+            std::string("device_formats.json: formats[0].pattern"));
+        QCOMPARE(
+            field_of(
+                R"({"formats": [{"name": "a", "quantity": "volume", "description": "d", "pattern": "x"}], "fault_lines": []})"),
+            std::string("device_formats.json: formats[0].quantity"));
+        QCOMPARE(
+            field_of(
+                R"({"formats": [], "fault_lines": [{"pattern": "OL", "fault": "sometimes", "meaning": "m"}]})"),
+            std::string("device_formats.json: fault_lines[0].fault"));
     }
 
     void randomLinesGiveAReadingOrADeviceError() {
         // 20,000 lines of random bytes and of reading-like text with random edits, fixed seed:
         // each gives a finite, non-negative reading or a DeviceError, never anything else.
         QRandomGenerator rng(20261202);
-        const QByteArray alphabet = "0123456789.+- gmkpHSTDU,;?*\xb0\xc2OLE-rC\r\t"; // NUL and 0xff come with the random lines
+        const QByteArray alphabet =
+            "0123456789.+- gmkpHSTDU,;?*\xb0\xc2OLE-rC\r\t"; // NUL and 0xff come with the random
+                                                             // lines
         int readings = 0, faults = 0;
         for (int i = 0; i < 20000; ++i) {
             const LineFormat& f = formats().formats[size_t(i) % formats().formats.size()];
             QByteArray line = f.examples[i % f.examples.size()].toUtf8();
             if (i % 2 == 0) {
                 line = QByteArray(int(rng.bounded(40)), '\0');
-                for (char& c : line) c = char(rng.bounded(256));
+                for (char& c : line)
+                    c = char(rng.bounded(256));
             } else {
                 for (int k = 0, n = int(rng.bounded(4)); k < n && !line.isEmpty(); ++k)
-                    line[int(rng.bounded(line.size()))] = alphabet[int(rng.bounded(alphabet.size()))];
+                    line[int(rng.bounded(line.size()))] =
+                        alphabet[int(rng.bounded(alphabet.size()))];
             }
             try {
                 const Reading r = parse_line(line, f, formats());
@@ -247,7 +319,8 @@ private slots:
         QVERIFY(!a.take_line());
         a.feed("610 g\r");
         QCOMPARE(a.take_line().value(), QByteArray("S S   3.1610 g"));
-        a.feed("\nS S 1.0000 g\r\nS S 2.0000 g\r\n"); // the LF of the previous CR LF, then two lines
+        a.feed(
+            "\nS S 1.0000 g\r\nS S 2.0000 g\r\n"); // the LF of the previous CR LF, then two lines
         QCOMPARE(a.take_line().value(), QByteArray("S S 1.0000 g"));
         QCOMPARE(a.take_line().value(), QByteArray("S S 2.0000 g"));
         QVERIFY(!a.take_line());
@@ -264,7 +337,8 @@ private slots:
         QVERIFY(bal.send("S S      3.1610 g\r\n"));
         SerialReader reader;
         reader.open(port_of(bal));
-        const Reading r = reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}});
+        const Reading r =
+            reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}});
         QCOMPARE(r.value, 3.161);
         QCOMPARE(r.raw, QString("S S      3.1610 g"));
         QVERIFY(r.received_at.isValid());
@@ -274,7 +348,8 @@ private slots:
         for (const LineFormat& f : formats().formats) {
             FakeInstrument inst;
             QByteArray all;
-            for (const QString& line : f.examples) all += line.toUtf8() + "\r\n";
+            for (const QString& line : f.examples)
+                all += line.toUtf8() + "\r\n";
             QVERIFY(inst.send(all));
             SerialReader reader;
             reader.open(port_of(inst));
@@ -301,7 +376,8 @@ private slots:
         // The first half alone is no reading: the wait ends without one and keeps the half.
         auto e = fault_of([&] { reader.next_line(200); });
         QVERIFY(e && e->fault() == Fault::timeout);
-        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.1\""), e->what());
+        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.1\""),
+                 e->what());
         QVERIFY(bal.send("610 g\r\n"));
         QCOMPARE(reader.next_line(2000), QByteArray("S S   3.1610 g"));
     }
@@ -344,7 +420,10 @@ private slots:
         QVERIFY(QString::fromStdString(e->message()).contains("in use"));
         // The first holder still reads.
         QVERIFY(bal.send("S S 5.0000 g\r\n"));
-        QCOMPARE(first.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}}).value, 5.0);
+        QCOMPARE(
+            first.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}})
+                .value,
+            5.0);
     }
 
     void notASerialPort() {
@@ -373,13 +452,19 @@ private slots:
         SerialReader reader;
         reader.open(port_of(bal));
         QVERIFY(bal.send("S S 1.0000 g\r\nS S   3.16"));
-        QCOMPARE(reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}}).value, 1.0);
+        QCOMPARE(
+            reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}})
+                .value,
+            1.0);
         bal.unplug();
-        const auto e = fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}}); });
+        const auto e = fault_of([&] {
+            reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}});
+        });
         QVERIFY(e);
         QCOMPARE(int(e->fault()), int(Fault::disconnected));
         QCOMPARE(e->field(), std::string("port"));
-        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.16\""), e->what());
+        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.16\""),
+                 e->what());
         // It stays gone: no half-line is ever turned into a reading.
         const auto again = fault_of([&] { reader.next_line(500); });
         QVERIFY(again && again->fault() == Fault::disconnected);
@@ -395,9 +480,11 @@ private slots:
         QCOMPARE(reader.next_reading(preset("flag-number-unit"), formats(), o).value, 2.5);
         bal.unplug();
         QCOMPARE(reader.next_reading(preset("flag-number-unit"), formats(), o).value, 2.6);
-        const auto e = fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
+        const auto e =
+            fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
         QVERIFY(e && e->fault() == Fault::disconnected);
-        QVERIFY2(QString::fromStdString(e->message()).contains("nothing of a line received"), e->what());
+        QVERIFY2(QString::fromStdString(e->message()).contains("nothing of a line received"),
+                 e->what());
     }
 
     void garbageFromAWrongBaudRate() {
@@ -406,14 +493,17 @@ private slots:
         reader.open(port_of(bal));
         // What 9600 8N1 text looks like when read at another rate: high bytes, no line end.
         QByteArray junk;
-        for (int i = 0; i < 400; ++i) junk += char(0x80 | ((i * 37) & 0x7f));
+        for (int i = 0; i < 400; ++i)
+            junk += char(0x80 | ((i * 37) & 0x7f));
         QVERIFY(bal.send(junk));
         auto e = fault_of([&] { reader.next_line(2000); });
         QVERIFY(e && e->fault() == Fault::garbage && e->field() == "reading");
         QVERIFY(QString::fromStdString(e->message()).contains("baud rate"));
         // With line ends it is still refused, line by line.
         QVERIFY(bal.send("\xf3\x1c\x8a\xe1\r\n"));
-        e = fault_of([&] { reader.next_reading(preset("number-unit"), formats(), {2000, false, grams(), {}}); });
+        e = fault_of([&] {
+            reader.next_reading(preset("number-unit"), formats(), {2000, false, grams(), {}});
+        });
         QVERIFY(e && e->fault() == Fault::garbage);
     }
 
@@ -423,9 +513,11 @@ private slots:
         reader.open(port_of(bal));
         QVERIFY(bal.send("ST,+OL\r\nS S ----\r\nS S    -0.0040 g\r\nS S 3161.0 mg\r\n"));
         const ReadOptions o{2000, false, grams(), {}};
-        const Fault expected[] = {Fault::out_of_range, Fault::out_of_range, Fault::negative, Fault::wrong_unit};
+        const Fault expected[] = {Fault::out_of_range, Fault::out_of_range, Fault::negative,
+                                  Fault::wrong_unit};
         for (Fault f : expected) {
-            const auto e = fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
+            const auto e =
+                fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
             QVERIFY(e);
             QCOMPARE(int(e->fault()), int(f));
         }
@@ -435,7 +527,9 @@ private slots:
         FakeInstrument bal;
         SerialReader reader;
         reader.open(port_of(bal));
-        const auto e = fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), {300, true, grams(), {}}); });
+        const auto e = fault_of([&] {
+            reader.next_reading(preset("flag-number-unit"), formats(), {300, true, grams(), {}});
+        });
         QVERIFY(e && e->fault() == Fault::timeout && e->field() == "port");
         QVERIFY2(QString::fromStdString(e->message()).contains("no stable reading"), e->what());
         QVERIFY2(QString::fromStdString(e->message()).contains("0.3 s"), e->what());
@@ -451,7 +545,10 @@ private slots:
         std::thread writer([&bal] {
             QByteArray all;
             for (int i = 0; i < n; ++i)
-                all += QStringLiteral("S S %1.%2 g\r\n").arg(i).arg(i % 10000, 4, 10, QLatin1Char('0')).toLatin1();
+                all += QStringLiteral("S S %1.%2 g\r\n")
+                           .arg(i)
+                           .arg(i % 10000, 4, 10, QLatin1Char('0'))
+                           .toLatin1();
             qsizetype at = 0;
             int k = 0;
             while (at < all.size()) {
@@ -463,7 +560,10 @@ private slots:
         QList<double> got;
         try {
             for (int i = 0; i < n; ++i)
-                got << reader.next_reading(preset("flag-number-unit"), formats(), {10000, false, grams(), {}}).value;
+                got << reader
+                           .next_reading(preset("flag-number-unit"), formats(),
+                                         {10000, false, grams(), {}})
+                           .value;
         } catch (const chem::Error& e) {
             writer.join();
             QFAIL(e.what());
@@ -471,8 +571,13 @@ private slots:
         writer.join();
         QCOMPARE(got.size(), n);
         for (int i = 0; i < n; ++i) {
-            const double expected = QStringLiteral("%1.%2").arg(i).arg(i % 10000, 4, 10, QLatin1Char('0')).toDouble();
-            if (got[i] != expected) QFAIL(qPrintable(QStringLiteral("reading %1: %2, expected %3").arg(i).arg(got[i]).arg(expected)));
+            const double expected =
+                QStringLiteral("%1.%2").arg(i).arg(i % 10000, 4, 10, QLatin1Char('0')).toDouble();
+            if (got[i] != expected)
+                QFAIL(qPrintable(QStringLiteral("reading %1: %2, expected %3")
+                                     .arg(i)
+                                     .arg(got[i])
+                                     .arg(expected)));
         }
         // Nothing more is waiting: no reading was duplicated.
         const auto e = fault_of([&] { reader.next_line(200); });
@@ -525,7 +630,8 @@ private slots:
         QVERIFY(c);
         QCOMPARE((*c)["code"].toString(), QString("device-calibration-due"));
         QCOMPARE((*c)["severity"].toString(), QString("caution"));
-        QVERIFY((*c)["message"].toString().contains("pH meter PHM-01 was due for calibration on 2026-11-30"));
+        QVERIFY((*c)["message"].toString().contains(
+            "pH meter PHM-01 was due for calibration on 2026-11-30"));
         DeviceRecord undated = m;
         undated.calibration_due = QDate();
         QVERIFY(!calibration_caution(undated, QDate(2030, 1, 1)));
@@ -536,19 +642,44 @@ private slots:
         QTest::addColumn<QString>("field");
         QTest::addColumn<QString>("contains");
         auto rec = [](const char* extra) {
-            return QByteArray(R"({"devices": [{"id": "B1", "kind": "balance", "port": "/dev/ttyUSB0", "format": "number-unit")") +
+            return QByteArray(
+                       R"({"devices": [{"id": "B1", "kind": "balance", "port": "/dev/ttyUSB0", "format": "number-unit")") +
                    extra + "}]}";
         };
-        QTest::newRow("kind") << QByteArray(R"({"devices": [{"id": "B1", "kind": "scale", "port": "p", "format": "number-unit"}]})") << "devices.json: devices[0].kind" << "scale";
-        QTest::newRow("baud") << rec(R"(, "baud": 0)") << "devices.json: devices[0].baud" << "0";
-        QTest::newRow("parity") << rec(R"(, "parity": "odd-ish")") << "devices.json: devices[0].parity" << "odd-ish";
-        QTest::newRow("stop bits") << rec(R"(, "stop_bits": 3)") << "devices.json: devices[0].stop_bits" << "3";
-        QTest::newRow("flow") << rec(R"(, "flow_control": "xon")") << "devices.json: devices[0].flow_control" << "xon";
-        QTest::newRow("date") << rec(R"(, "calibration_due": "2027-13-01")") << "devices.json: devices[0].calibration_due" << "2027-13-01";
-        QTest::newRow("unit") << rec(R"(, "unit": "pH")") << "devices.json: devices[0].unit" << "pH";
-        QTest::newRow("format") << QByteArray(R"({"devices": [{"id": "B1", "kind": "balance", "port": "p", "format": "grams"}]})") << "devices.json: devices[0].format" << "grams";
-        QTest::newRow("twice") << QByteArray(R"({"devices": [{"id": "B1", "kind": "balance", "port": "p", "format": "number-unit"}, {"id": "B1", "kind": "balance", "port": "q", "format": "number-unit"}]})") << "devices.json: devices[1].id" << "twice";
-        QTest::newRow("misspelt") << rec(R"(, "data_bit": 7)") << "devices.json: devices[0].data_bit" << "data_bits";
+        QTest::newRow("kind")
+            << QByteArray(
+                   R"({"devices": [{"id": "B1", "kind": "scale", "port": "p", "format": "number-unit"}]})")
+            << "devices.json: devices[0].kind"
+            << "scale";
+        QTest::newRow("baud") << rec(R"(, "baud": 0)") << "devices.json: devices[0].baud"
+                              << "0";
+        QTest::newRow("parity") << rec(R"(, "parity": "odd-ish")")
+                                << "devices.json: devices[0].parity"
+                                << "odd-ish";
+        QTest::newRow("stop bits")
+            << rec(R"(, "stop_bits": 3)") << "devices.json: devices[0].stop_bits"
+            << "3";
+        QTest::newRow("flow") << rec(R"(, "flow_control": "xon")")
+                              << "devices.json: devices[0].flow_control"
+                              << "xon";
+        QTest::newRow("date") << rec(R"(, "calibration_due": "2027-13-01")")
+                              << "devices.json: devices[0].calibration_due"
+                              << "2027-13-01";
+        QTest::newRow("unit") << rec(R"(, "unit": "pH")") << "devices.json: devices[0].unit"
+                              << "pH";
+        QTest::newRow("format")
+            << QByteArray(
+                   R"({"devices": [{"id": "B1", "kind": "balance", "port": "p", "format": "grams"}]})")
+            << "devices.json: devices[0].format"
+            << "grams";
+        QTest::newRow("twice")
+            << QByteArray(
+                   R"({"devices": [{"id": "B1", "kind": "balance", "port": "p", "format": "number-unit"}, {"id": "B1", "kind": "balance", "port": "q", "format": "number-unit"}]})")
+            << "devices.json: devices[1].id"
+            << "twice";
+        QTest::newRow("misspelt") << rec(R"(, "data_bit": 7)")
+                                  << "devices.json: devices[0].data_bit"
+                                  << "data_bits";
     }
     void badRecordsNameTheField() {
         QFETCH(QByteArray, json);
@@ -574,16 +705,20 @@ private slots:
         QVERIFY(db.schema_version() >= 5);
         DeviceStore store(db);
         QVERIFY(store.list().empty());
-        DeviceRecord d = devices_from_json(
-            R"({"devices": [{"id": "BAL-03", "kind": "balance", "port": "/dev/ttyUSB0", "format": "flag-number-unit"}]})",
-            "d", &formats()).front();
+        DeviceRecord d =
+            devices_from_json(
+                R"({"devices": [{"id": "BAL-03", "kind": "balance", "port": "/dev/ttyUSB0", "format": "flag-number-unit"}]})",
+                "d", &formats())
+                .front();
         store.save(d);
         QCOMPARE(store.load("BAL-03")->unit, QString("g"));
         // The table's own checks hold even against SQL written by hand.
         bool refused = false;
         try {
-            db.exec("INSERT INTO devices (id, name, kind, port, baud, data_bits, parity, stop_bits, flow_control,"
-                    " line_format, unit, created_at, updated_at) VALUES ('X', '', 'scale', 'p', 9600, 8, 'none',"
+            db.exec("INSERT INTO devices (id, name, kind, port, baud, data_bits, parity, "
+                    "stop_bits, flow_control,"
+                    " line_format, unit, created_at, updated_at) VALUES ('X', '', 'scale', 'p', "
+                    "9600, 8, 'none',"
                     " '1', 'none', 'number-unit', 'g', '', '')");
         } catch (const chem::Error&) {
             refused = true;

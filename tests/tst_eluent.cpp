@@ -24,25 +24,31 @@ namespace {
 
 QJsonObject buffer_line(double ph, const char* acid, const char* base, double c) {
     return QJsonObject{
-        {"parts", QJsonArray{QJsonObject{
-                      {"buffer", QJsonObject{{"target_ph", ph}, {"route", "mix"}, {"acid", acid},
-                                             {"base", base}, {"concentration_mol_per_l", c}}},
-                      {"fraction_v", 1}}}}};
+        {"parts", QJsonArray{QJsonObject{{"buffer", QJsonObject{{"target_ph", ph},
+                                                                {"route", "mix"},
+                                                                {"acid", acid},
+                                                                {"base", base},
+                                                                {"concentration_mol_per_l", c}}},
+                                         {"fraction_v", 1}}}}};
 }
 QJsonObject solvent_line(const char* id) {
     return QJsonObject{{"parts", QJsonArray{QJsonObject{{"solvent", id}, {"fraction_v", 1}}}}};
 }
 QJsonObject phosphate_7() {
-    return buffer_line(7.0, "potassium-dihydrogen-phosphate", "dipotassium-hydrogen-phosphate", 0.02);
+    return buffer_line(7.0, "potassium-dihydrogen-phosphate", "dipotassium-hydrogen-phosphate",
+                       0.02);
 }
-QJsonObject acetate_48() { return buffer_line(4.8, "acetic-acid", "sodium-acetate", 0.02); }
+QJsonObject acetate_48() {
+    return buffer_line(4.8, "acetic-acid", "sodium-acetate", 0.02);
+}
 
 QJsonObject eluent(const QJsonObject& a, const QJsonObject& b, double percent_b, double t = 25,
                    const char* model = nullptr) {
     QJsonObject in{{"lines", QJsonObject{{"A", a}, {"B", b}}},
                    {"composition", QJsonObject{{"A", 100 - percent_b}, {"B", percent_b}}},
                    {"temperature_c", t}};
-    if (model) in["activity_model"] = model;
+    if (model)
+        in["activity_model"] = model;
     return phaseplan::command_eluent(shipped_data(), in, {});
 }
 
@@ -55,13 +61,15 @@ double pka_of(const QJsonObject& out, const QString& system, int step, const cha
 
 bool has(const QJsonObject& out, const QString& code) {
     for (const auto& w : out["warnings"].toArray())
-        if (w.toObject()["code"] == code) return true;
+        if (w.toObject()["code"] == code)
+            return true;
     return false;
 }
 
 QStringList codes(const QJsonObject& out) {
     QStringList c;
-    for (const auto& w : out["warnings"].toArray()) c << w.toObject()["code"].toString();
+    for (const auto& w : out["warnings"].toArray())
+        c << w.toObject()["code"].toString();
     return c;
 }
 
@@ -69,7 +77,7 @@ QStringList codes(const QJsonObject& out) {
 
 class TestEluent : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void waterAgainstIapws();
     void noOrganicGivesTheAqueousSolve();
     void publishedSsPka_data();
@@ -92,12 +100,15 @@ private slots:
 // 2001 (ρ) and Harned & Robinson 1940 (pKw); water's viscosity is the figure in data/solvents.json.
 void TestEluent::waterAgainstIapws() {
     QProcess py;
-    py.start("/usr/bin/python3",
-             {"-c", "import json\nfrom iapws import IAPWS95\nfrom iapws._iapws import _Dielectric, _Kw, _Viscosity\n"
-                    "out=[]\nfor t in range(0, 61, 5):\n"
-                    "    T=t+273.15; rho=IAPWS95(T=T, P=0.101325).rho\n"
-                    "    out.append([t, rho/1000, _Dielectric(rho, T), _Kw(rho, T), _Viscosity(rho, T)*1e3])\n"
-                    "print(json.dumps(out))\n"});
+    py.start(
+        "/usr/bin/python3",
+        {"-c",
+         "import json\nfrom iapws import IAPWS95\nfrom iapws._iapws import _Dielectric, _Kw, "
+         "_Viscosity\n"
+         "out=[]\nfor t in range(0, 61, 5):\n"
+         "    T=t+273.15; rho=IAPWS95(T=T, P=0.101325).rho\n"
+         "    out.append([t, rho/1000, _Dielectric(rho, T), _Kw(rho, T), _Viscosity(rho, T)*1e3])\n"
+         "print(json.dumps(out))\n"});
     QVERIFY(py.waitForFinished(60000));
     QCOMPARE(py.exitCode(), 0);
     const QJsonArray rows = QJsonDocument::fromJson(py.readAllStandardOutput()).array();
@@ -106,13 +117,16 @@ void TestEluent::waterAgainstIapws() {
         const QJsonArray x = r.toArray();
         const double t = x[0].toDouble(), tk = chem::to_kelvin(t);
         const QString at = QString(" at %1 °C").arg(t);
-        QVERIFY2(std::abs(chem::water_density_g_per_ml(tk) / x[1].toDouble() - 1) < 2e-5, qPrintable("density" + at));
-        QVERIFY2(std::abs(chem::water_permittivity(tk) / x[2].toDouble() - 1) < 0.003, qPrintable("permittivity" + at));
+        QVERIFY2(std::abs(chem::water_density_g_per_ml(tk) / x[1].toDouble() - 1) < 2e-5,
+                 qPrintable("density" + at));
+        QVERIFY2(std::abs(chem::water_permittivity(tk) / x[2].toDouble() - 1) < 0.003,
+                 qPrintable("permittivity" + at));
         QVERIFY2(std::abs(chem::pkw(tk) - x[3].toDouble()) < 0.01, qPrintable("pKw" + at));
         if (t == 25) {
             const chem::Solvent& w = shipped_data().solvents.solvent("water");
             QCOMPARE(w.viscosity_temperature_c, 25.0);
-            QVERIFY2(std::abs(w.viscosity_mpa_s / x[4].toDouble() - 1) < 0.002, "viscosity at 25 °C");
+            QVERIFY2(std::abs(w.viscosity_mpa_s / x[4].toDouble() - 1) < 0.002,
+                     "viscosity at 25 °C");
         }
     }
 }
@@ -128,7 +142,8 @@ void TestEluent::noOrganicGivesTheAqueousSolve() {
     for (const auto& s : out["solutes"].toArray())
         comps.append(QJsonObject{{"reagent", s.toObject()["reagent"]},
                                  {"mol_per_l", s.toObject()["mmol_per_l"].toDouble() / 1000}});
-    const QJsonObject s = phaseplan::command_solve(shipped_data(), {{"temperature_c", 37}, {"components", comps}}, {});
+    const QJsonObject s = phaseplan::command_solve(
+        shipped_data(), {{"temperature_c", 37}, {"components", comps}}, {});
     QVERIFY(std::abs(s["ph"].toDouble() - out["ph_s_s"].toDouble()) < 1e-9);
     QVERIFY(!has(out, "eluent-ph-extrapolated"));
 }
@@ -190,10 +205,12 @@ void TestEluent::publishedDelta() {
     QFETCH(QString, organic);
     QFETCH(double, percent);
     QFETCH(double, published);
-    const QJsonObject out = eluent(acetate_48(), solvent_line(organic.toUtf8().constData()), percent);
+    const QJsonObject out =
+        eluent(acetate_48(), solvent_line(organic.toUtf8().constData()), percent);
     QVERIFY2(std::abs(out["delta"].toDouble() - published) <= 0.01,
              qPrintable(QString::number(out["delta"].toDouble())));
-    QVERIFY(std::abs(out["ph_s_w"].toDouble() - out["ph_s_s"].toDouble() - out["delta"].toDouble()) < 1e-12);
+    QVERIFY(std::abs(out["ph_s_w"].toDouble() - out["ph_s_s"].toDouble() -
+                     out["delta"].toDouble()) < 1e-12);
 }
 
 void TestEluent::anionicAcidsRiseCationicBarelyMove() {
@@ -201,7 +218,8 @@ void TestEluent::anionicAcidsRiseCationicBarelyMove() {
     // (Espinosa, Bosch & Rosés 2002; Subirats et al. 2007; the issue's "Why").
     double last = 0;
     for (double b : {0.0, 10.0, 20.0, 30.0, 40.0, 50.0, 60.0}) {
-        const double ph = eluent(phosphate_7(), solvent_line("acetonitrile"), b)["ph_s_s"].toDouble();
+        const double ph =
+            eluent(phosphate_7(), solvent_line("acetonitrile"), b)["ph_s_s"].toDouble();
         QVERIFY2(ph > last, qPrintable(QString("%1 % MeCN: %2").arg(b).arg(ph)));
         last = ph;
     }
@@ -228,7 +246,8 @@ void TestEluent::columnTemperatureMovesThePka() {
 void TestEluent::extrapolationIsWarned() {
     auto message = [](const QJsonObject& out) {
         for (const auto& w : out["warnings"].toArray())
-            if (w.toObject()["code"] == "eluent-ph-extrapolated") return w.toObject()["message"].toString();
+            if (w.toObject()["code"] == "eluent-ph-extrapolated")
+                return w.toObject()["message"].toString();
         return QString();
     };
     // Inside the published range: no warning.
@@ -237,10 +256,12 @@ void TestEluent::extrapolationIsWarned() {
     // Beyond it: says how it was estimated.
     QVERIFY(message(eluent(acetate_48(), solvent_line("acetonitrile"), 80)).contains("1/ε"));
     QVERIFY(message(eluent(acetate_48(), solvent_line("methanol"), 90)).contains("1/ε"));
-    QVERIFY(message(eluent(acetate_48(), solvent_line("ethanol"), 30)).contains("treated as methanol"));
+    QVERIFY(
+        message(eluent(acetate_48(), solvent_line("ethanol"), 30)).contains("treated as methanol"));
     // Both organics at once.
-    const QJsonObject both{{"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"}, {"fraction_v", 0.5}},
-                                                QJsonObject{{"solvent", "methanol"}, {"fraction_v", 0.5}}}}};
+    const QJsonObject both{
+        {"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"}, {"fraction_v", 0.5}},
+                             QJsonObject{{"solvent", "methanol"}, {"fraction_v", 0.5}}}}};
     QVERIFY(message(eluent(acetate_48(), both, 40)).contains("together"));
     // A system without a table, near the pH: citrate at pH 4.8 borrows acetate's and phosphate's.
     const QJsonObject citrate = buffer_line(4.8, "citric-acid", "trisodium-citrate", 0.02);
@@ -257,9 +278,11 @@ void TestEluent::contractOfTheCommand() {
                             "ionic_strength_mol_per_l", "buffer_capacity_mol_per_l"})
         QVERIFY2(out[key].isDouble(), key);
     QVERIFY(out["solvents"].isArray() && out["pka"].isArray() && out["warnings"].isArray());
-    for (const auto& s : out["solvents"].toArray()) QVERIFY(s.toObject()["fraction_v"].isDouble());
+    for (const auto& s : out["solvents"].toArray())
+        QVERIFY(s.toObject()["fraction_v"].isDouble());
     for (const auto& k : out["pka"].toArray())
-        for (const char* key : {"system", "step", "w_w", "s_s"}) QVERIFY2(k.toObject().contains(key), key);
+        for (const char* key : {"system", "step", "w_w", "s_s"})
+            QVERIFY2(k.toObject().contains(key), key);
     // SIT is accepted; at 20 mmol/L the two models agree within a few thousandths.
     const QJsonObject d = eluent(phosphate_7(), solvent_line("acetonitrile"), 40, 30, "davies");
     const QJsonObject s = eluent(phosphate_7(), solvent_line("acetonitrile"), 40, 30, "sit");
@@ -270,17 +293,33 @@ void TestEluent::contractOfTheCommand() {
 void TestEluent::badInputIsRejected_data() {
     QTest::addColumn<QByteArray>("input");
     QTest::addColumn<QString>("field");
-    const QByteArray lines = R"("lines": {"A": {"parts": [{"solvent": "water", "fraction_v": 1}]}, "B": {"parts": [{"solvent": "acetonitrile", "fraction_v": 1}]}})";
+    const QByteArray lines =
+        R"("lines": {"A": {"parts": [{"solvent": "water", "fraction_v": 1}]}, "B": {"parts": [{"solvent": "acetonitrile", "fraction_v": 1}]}})";
     QTest::newRow("no lines") << QByteArray(R"({"composition": {"A": 100}})") << "lines";
     QTest::newRow("no composition") << QByteArray("{" + lines + "}") << "composition";
-    QTest::newRow("undefined line") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "C": 50}})") << "composition.C";
-    QTest::newRow("not a line") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "E": 50}})") << "composition.E";
-    QTest::newRow("sum not 100") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 40}})") << "composition";
-    QTest::newRow("negative percent") << QByteArray("{" + lines + R"(, "composition": {"A": 110, "B": -10}})") << "composition.A";
-    QTest::newRow("temperature") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 50}, "temperature_c": 80})") << "temperature_c";
-    QTest::newRow("model") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 50}, "activity_model": "debye"})") << "activity_model";
-    QTest::newRow("line without parts") << QByteArray(R"({"lines": {"A": {"name": "x"}}, "composition": {"A": 100}})") << "lines.A.parts";
-    QTest::newRow("misspelt key") << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 50}, "temperature": 30})") << "temperature";
+    QTest::newRow("undefined line")
+        << QByteArray("{" + lines + R"(, "composition": {"A": 50, "C": 50}})") << "composition.C";
+    QTest::newRow("not a line") << QByteArray("{" + lines +
+                                              R"(, "composition": {"A": 50, "E": 50}})")
+                                << "composition.E";
+    QTest::newRow("sum not 100") << QByteArray("{" + lines +
+                                               R"(, "composition": {"A": 50, "B": 40}})")
+                                 << "composition";
+    QTest::newRow("negative percent")
+        << QByteArray("{" + lines + R"(, "composition": {"A": 110, "B": -10}})") << "composition.A";
+    QTest::newRow("temperature")
+        << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 50}, "temperature_c": 80})")
+        << "temperature_c";
+    QTest::newRow("model")
+        << QByteArray("{" + lines +
+                      R"(, "composition": {"A": 50, "B": 50}, "activity_model": "debye"})")
+        << "activity_model";
+    QTest::newRow("line without parts")
+        << QByteArray(R"({"lines": {"A": {"name": "x"}}, "composition": {"A": 100}})")
+        << "lines.A.parts";
+    QTest::newRow("misspelt key")
+        << QByteArray("{" + lines + R"(, "composition": {"A": 50, "B": 50}, "temperature": 30})")
+        << "temperature";
 }
 
 void TestEluent::badInputIsRejected() {
@@ -292,21 +331,33 @@ void TestEluent::badInputIsRejected() {
 namespace {
 QJsonObject gradient_doc(const QJsonObject& line_a, double b_end, double ph_max, double column_t) {
     return QJsonObject{
-        {"lines", QJsonObject{{"A", [&] { QJsonObject a = line_a; a["bottle_ml"] = 2000; return a; }()},
-                              {"B", QJsonObject{{"bottle_ml", 2000},
-                                                {"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"}, {"fraction_v", 1}}}}}}}},
-        {"methods", QJsonObject{{"m", QJsonObject{{"flow_ml_min", 1},
-                                                  {"gradient", QJsonArray{QJsonObject{{"t_min", 0}, {"A", 95}, {"B", 5}},
-                                                                          QJsonObject{{"t_min", 10}, {"A", 100 - b_end}, {"B", b_end}}}},
-                                                  {"run_min", 12},
-                                                  {"equilibration_min", 3}}}}},
+        {"lines",
+         QJsonObject{{"A",
+                      [&] {
+                          QJsonObject a = line_a;
+                          a["bottle_ml"] = 2000;
+                          return a;
+                      }()},
+                     {"B", QJsonObject{{"bottle_ml", 2000},
+                                       {"parts", QJsonArray{QJsonObject{{"solvent", "acetonitrile"},
+                                                                        {"fraction_v", 1}}}}}}}},
+        {"methods",
+         QJsonObject{
+             {"m", QJsonObject{{"flow_ml_min", 1},
+                               {"gradient",
+                                QJsonArray{
+                                    QJsonObject{{"t_min", 0}, {"A", 95}, {"B", 5}},
+                                    QJsonObject{{"t_min", 10}, {"A", 100 - b_end}, {"B", b_end}}}},
+                               {"run_min", 12},
+                               {"equilibration_min", 3}}}}},
         {"sequence", QJsonArray{QJsonObject{{"method", "m"}, {"injections", 2}}}},
         {"start", "2026-12-01T18:00:00"},
         {"column", QJsonObject{{"ph_min", 2}, {"ph_max", ph_max}, {"temperature_c", column_t}}}};
 }
 QJsonObject warning_of(const QJsonObject& out, const QString& code) {
     for (const auto& w : out["warnings"].toArray())
-        if (w.toObject()["code"] == code) return w.toObject();
+        if (w.toObject()["code"] == code)
+            return w.toObject();
     return {};
 }
 } // namespace
@@ -314,8 +365,10 @@ QJsonObject warning_of(const QJsonObject& out, const QString& code) {
 void TestEluent::columnPhUsesTheEluent() {
     // Phosphate made at pH 7.5 passes a pH 2–8 column as an aqueous line, but the eluent at 60 %
     // acetonitrile is above 8 (issue 11's example): column-ph fires, with where and when.
-    const QJsonObject a = buffer_line(7.5, "potassium-dihydrogen-phosphate", "dipotassium-hydrogen-phosphate", 0.02);
-    const QJsonObject out = phaseplan::command_sequence(shipped_data(), gradient_doc(a, 60, 8, 40), {});
+    const QJsonObject a =
+        buffer_line(7.5, "potassium-dihydrogen-phosphate", "dipotassium-hydrogen-phosphate", 0.02);
+    const QJsonObject out =
+        phaseplan::command_sequence(shipped_data(), gradient_doc(a, 60, 8, 40), {});
     const QJsonObject w = warning_of(out, "column-ph");
     QVERIFY2(!w.isEmpty(), qPrintable(codes(out).join(",")));
     QVERIFY(w["ph"].toDouble() > 8);
@@ -324,27 +377,38 @@ void TestEluent::columnPhUsesTheEluent() {
     QVERIFY(w["organic_fraction_v"].toDouble() > 0.05);
     QVERIFY(w["message"].toString().contains("min"));
     // The same gradient to 10 % only, or a column rated to pH 10: no warning.
-    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(), gradient_doc(a, 10, 8, 40), {}), "column-ph").isEmpty());
-    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(), gradient_doc(a, 60, 10, 40), {}), "column-ph").isEmpty());
+    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(), gradient_doc(a, 10, 8, 40), {}),
+                       "column-ph")
+                .isEmpty());
+    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(), gradient_doc(a, 60, 10, 40), {}),
+                       "column-ph")
+                .isEmpty());
 }
 
 void TestEluent::bufferRangeFlagsUnbufferedStretches() {
     // Ammonium acetate at pH 6.8 lies between acetic acid (4.76) and ammonium (9.25), more than
     // one unit from both: unbuffered from the start.
-    const QJsonObject nh4ac{{"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
-                            {"additives", QJsonArray{QJsonObject{{"additive", "ammonium-acetate"}, {"mmol_per_l", 10}}}}};
-    const QJsonObject out = phaseplan::command_sequence(shipped_data(), gradient_doc(nh4ac, 60, 12, 30), {});
+    const QJsonObject nh4ac{
+        {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
+        {"additives",
+         QJsonArray{QJsonObject{{"additive", "ammonium-acetate"}, {"mmol_per_l", 10}}}}};
+    const QJsonObject out =
+        phaseplan::command_sequence(shipped_data(), gradient_doc(nh4ac, 60, 12, 30), {});
     const QJsonObject w = warning_of(out, "buffer-range");
     QVERIFY2(!w.isEmpty(), qPrintable(codes(out).join(",")));
     QVERIFY(w["gap"].toDouble() > 1);
-    QVERIFY(w.contains("from_t_min") && w.contains("to_t_min") && w.contains("from_organic_fraction_v"));
+    QVERIFY(w.contains("from_t_min") && w.contains("to_t_min") &&
+            w.contains("from_organic_fraction_v"));
     // Acetate at pH 4.8 stays within one unit of its s_s pKa′ up to 30 % acetonitrile.
-    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(), gradient_doc(acetate_48(), 30, 12, 30), {}),
-                       "buffer-range").isEmpty());
+    QVERIFY(warning_of(phaseplan::command_sequence(shipped_data(),
+                                                   gradient_doc(acetate_48(), 30, 12, 30), {}),
+                       "buffer-range")
+                .isEmpty());
 }
 
 void TestEluent::sequenceCarriesATracePerMethod() {
-    const QJsonObject out = phaseplan::command_sequence(shipped_data(), gradient_doc(phosphate_7(), 60, 10, 35), {});
+    const QJsonObject out =
+        phaseplan::command_sequence(shipped_data(), gradient_doc(phosphate_7(), 60, 10, 35), {});
     const QJsonObject m = out["eluent_trace"].toObject()["m"].toObject();
     QCOMPARE(m["temperature_c"].toDouble(), 35.0);
     const QJsonArray pts = m["points"].toArray();
@@ -354,7 +418,8 @@ void TestEluent::sequenceCarriesATracePerMethod() {
     double last_t = -1;
     for (const auto& p : pts) {
         const QJsonObject o = p.toObject();
-        for (const char* key : {"t_min", "organic_fraction_v", "ph_s_w", "ph_s_s"}) QVERIFY(o[key].isDouble());
+        for (const char* key : {"t_min", "organic_fraction_v", "ph_s_w", "ph_s_s"})
+            QVERIFY(o[key].isDouble());
         QVERIFY(o["t_min"].toDouble() >= last_t - 1e-9);
         last_t = o["t_min"].toDouble();
     }

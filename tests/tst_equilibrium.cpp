@@ -14,13 +14,17 @@
 using phaseplan::testing::shipped_data;
 
 namespace {
-const chem::Library& lib() { return shipped_data().reagents; }
-const chem::Reagent* R(const char* id) { return &lib().reagent(id); }
+const chem::Library& lib() {
+    return shipped_data().reagents;
+}
+const chem::Reagent* R(const char* id) {
+    return &lib().reagent(id);
+}
 } // namespace
 
 class TestEquilibrium : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void referenceBuffers_data();
     void referenceBuffers();
     void waterIonProduct_data();
@@ -62,8 +66,8 @@ void TestEquilibrium::referenceBuffers_data() {
         const QJsonObject ph = o["ph"].toObject();
         for (auto it = ph.begin(); it != ph.end(); ++it) {
             const QByteArray tag = (o["name"].toString() + " @ " + it.key() + " C").toUtf8();
-            QTest::newRow(tag.constData()) << o["components"].toArray() << it.key().toDouble()
-                                           << it.value().toDouble() << tol;
+            QTest::newRow(tag.constData())
+                << o["components"].toArray() << it.key().toDouble() << it.value().toDouble() << tol;
         }
     }
 }
@@ -78,8 +82,9 @@ void TestEquilibrium::referenceBuffers() {
     const auto comps = phaseplan::components_from_json(lib(), doc, "", &t);
     const chem::Speciation s = chem::solve(lib(), comps, t);
     QVERIFY2(s.ionic_strength_mol_per_l <= 0.1 + 1e-6, "reference buffers here have I <= 0.1");
-    QVERIFY2(std::abs(s.ph - published_ph) <= tolerance,
-             qPrintable(QString("computed pH %1, published %2").arg(s.ph, 0, 'f', 4).arg(published_ph)));
+    QVERIFY2(
+        std::abs(s.ph - published_ph) <= tolerance,
+        qPrintable(QString("computed pH %1, published %2").arg(s.ph, 0, 'f', 4).arg(published_ph)));
 }
 
 // pKw of water: H. S. Harned & B. B. Owen, The Physical Chemistry of Electrolytic Solutions,
@@ -137,8 +142,10 @@ void TestEquilibrium::dilutePhosphateApproachesHendersonHasselbalch() {
     const double ratio = 1.0;
     double previous_gap = 1;
     for (double c : {1e-2, 1e-3, 1e-4, 1e-5}) {
-        const auto s = chem::solve(lib(), {{R("potassium-dihydrogen-phosphate"), c},
-                                           {R("disodium-hydrogen-phosphate"), ratio * c}}, 25);
+        const auto s = chem::solve(lib(),
+                                   {{R("potassium-dihydrogen-phosphate"), c},
+                                    {R("disodium-hydrogen-phosphate"), ratio * c}},
+                                   25);
         const double gap = std::abs(s.ph - (pka2 + std::log10(ratio)));
         QVERIFY2(gap < previous_gap, "the deviation from Henderson-Hasselbalch must shrink with I");
         previous_gap = gap;
@@ -152,8 +159,9 @@ void TestEquilibrium::limitingLawSlope() {
     const double a = chem::debye_huckel_a(chem::reference_temperature_k);
     const double pka2 = lib().system("phosphate").pka_at(1, chem::reference_temperature_k);
     const double c = 2e-4;
-    const auto s = chem::solve(lib(), {{R("potassium-dihydrogen-phosphate"), c},
-                                       {R("disodium-hydrogen-phosphate"), c}}, 25);
+    const auto s = chem::solve(
+        lib(), {{R("potassium-dihydrogen-phosphate"), c}, {R("disodium-hydrogen-phosphate"), c}},
+        25);
     const double ratio = s.concentration_of("HPO4-2") / s.concentration_of("H2PO4-");
     const double shift = s.ph - pka2 - std::log10(ratio);
     const double limiting = -3 * a * std::sqrt(s.ionic_strength_mol_per_l);
@@ -172,9 +180,11 @@ void TestEquilibrium::phRisesMonotonicallyWithStrongBase() {
     for (int i = 0; i <= 60; ++i) {
         std::vector<chem::Component> comps = {{R("potassium-dihydrogen-phosphate"), 0.05},
                                               {R("citric-acid"), 0.01}};
-        if (i > 0) comps.push_back({R("sodium-hydroxide"), 0.0025 * i});
+        if (i > 0)
+            comps.push_back({R("sodium-hydroxide"), 0.0025 * i});
         const auto s = chem::solve(lib(), comps, 25);
-        QVERIFY2(s.ph > last, qPrintable(QString("step %1: pH %2 after %3").arg(i).arg(s.ph).arg(last)));
+        QVERIFY2(s.ph > last,
+                 qPrintable(QString("step %1: pH %2 after %3").arg(i).arg(s.ph).arg(last)));
         last = s.ph;
     }
 }
@@ -183,14 +193,17 @@ void TestEquilibrium::chargeAndMassBalanceHold_data() {
     QTest::addColumn<QStringList>("ids");
     QTest::addColumn<QList<double>>("amounts");
     QTest::addColumn<double>("temperature_c");
-    QTest::newRow("three systems") << QStringList{"ammonium-acetate", "sodium-dihydrogen-phosphate", "tris"}
-                                   << QList<double>{0.01, 0.02, 0.015} << 25.0;
-    QTest::newRow("borax + glycine at 5 C") << QStringList{"sodium-tetraborate-decahydrate", "glycine"}
-                                            << QList<double>{0.01, 0.03} << 5.0;
-    QTest::newRow("citrate + HCl at 55 C") << QStringList{"trisodium-citrate-dihydrate", "hydrochloric-acid"}
-                                           << QList<double>{0.05, 0.04} << 55.0;
-    QTest::newRow("carbonate + ammonia") << QStringList{"ammonium-bicarbonate", "ammonia"}
-                                         << QList<double>{0.01, 0.01} << 25.0;
+    QTest::newRow("three systems")
+        << QStringList{"ammonium-acetate", "sodium-dihydrogen-phosphate", "tris"}
+        << QList<double>{0.01, 0.02, 0.015} << 25.0;
+    QTest::newRow("borax + glycine at 5 C")
+        << QStringList{"sodium-tetraborate-decahydrate", "glycine"} << QList<double>{0.01, 0.03}
+        << 5.0;
+    QTest::newRow("citrate + HCl at 55 C")
+        << QStringList{"trisodium-citrate-dihydrate", "hydrochloric-acid"}
+        << QList<double>{0.05, 0.04} << 55.0;
+    QTest::newRow("carbonate + ammonia")
+        << QStringList{"ammonium-bicarbonate", "ammonia"} << QList<double>{0.01, 0.01} << 25.0;
 }
 
 void TestEquilibrium::chargeAndMassBalanceHold() {
@@ -198,7 +211,8 @@ void TestEquilibrium::chargeAndMassBalanceHold() {
     QFETCH(QList<double>, amounts);
     QFETCH(double, temperature_c);
     std::vector<chem::Component> comps;
-    for (int i = 0; i < ids.size(); ++i) comps.push_back({R(ids[i].toUtf8().constData()), amounts[i]});
+    for (int i = 0; i < ids.size(); ++i)
+        comps.push_back({R(ids[i].toUtf8().constData()), amounts[i]});
     const auto s = chem::solve(lib(), comps, temperature_c);
     double charge = 0, scale = 0, ionic = 0;
     for (const auto& sp : s.species) {
@@ -215,17 +229,20 @@ void TestEquilibrium::chargeAndMassBalanceHold() {
         for (const auto& share : c.reagent->systems) {
             double expected = 0;
             for (const auto& c2 : comps)
-                if (const auto* sh = c2.reagent->share(share.system)) expected += sh->count * c2.mol_per_l;
+                if (const auto* sh = c2.reagent->share(share.system))
+                    expected += sh->count * c2.mol_per_l;
             double found = 0;
             for (const auto& sp : s.species)
-                if (sp.system == share.system) found += sp.mol_per_l;
+                if (sp.system == share.system)
+                    found += sp.mol_per_l;
             QVERIFY2(std::abs(found - expected) <= 1e-12 + 1e-10 * expected, share.system.c_str());
         }
 }
 
 void TestEquilibrium::bufferCapacityMatchesFiniteDifference() {
     // β = dC_base/dpH: compare the analytic value with a small NaOH addition.
-    const std::vector<chem::Component> base = {{R("sodium-acetate"), 0.02}, {R("acetic-acid"), 0.02}};
+    const std::vector<chem::Component> base = {{R("sodium-acetate"), 0.02},
+                                               {R("acetic-acid"), 0.02}};
     const auto s0 = chem::solve(lib(), base, 25);
     const double delta = 1e-6;
     auto more = base;
@@ -272,7 +289,11 @@ void TestEquilibrium::badInputNamesTheField() {
     };
     expect([] { chem::solve(lib(), {{R("tris"), 0.01}}, 61); }, "temperature_c");
     expect([] { chem::solve(lib(), {{R("tris"), 0.01}}, -1); }, "temperature_c");
-    expect([] { chem::solve(lib(), {{R("tris"), 0.01}, {R("tris"), -0.2}}, 25); }, "components[1].mol_per_l");
+    expect(
+        [] {
+            chem::solve(lib(), {{R("tris"), 0.01}, {R("tris"), -0.2}}, 25);
+        },
+        "components[1].mol_per_l");
     expect([] { chem::solve(lib(), {{R("tris"), 11}}, 25); }, "components[0].mol_per_l");
     expect([] { chem::solve(lib(), {{R("tris"), std::nan("")}}, 25); }, "components[0].mol_per_l");
     expect([] { chem::solve(lib(), {}, 25); }, "components");
@@ -290,8 +311,9 @@ void TestEquilibrium::sitReferenceBuffers_data() {
     const QJsonObject tol = doc["tolerance_ph_sit"].toObject();
     for (const auto& b : doc["buffers"].toArray()) {
         const QJsonObject o = b.toObject();
-        const double t_ok = tol.contains(o["name"].toString()) ? tol[o["name"].toString()].toDouble()
-                                                                : tol["default"].toDouble();
+        const double t_ok = tol.contains(o["name"].toString())
+                                ? tol[o["name"].toString()].toDouble()
+                                : tol["default"].toDouble();
         const QJsonObject ph = o["ph"].toObject();
         for (auto it = ph.begin(); it != ph.end(); ++it) {
             const QByteArray tag = (o["name"].toString() + " @ " + it.key() + " C").toUtf8();
@@ -312,8 +334,9 @@ void TestEquilibrium::sitReferenceBuffers() {
         comps.push_back({R(c.toObject()["reagent"].toString().toUtf8().constData()),
                          c.toObject()["mol_per_l"].toDouble() * rho});
     const chem::Speciation s = chem::solve(lib(), comps, temperature_c, chem::ActivityModel::sit);
-    QVERIFY2(std::abs(s.ph - published_ph) <= tolerance,
-             qPrintable(QString("computed pH %1, published %2").arg(s.ph, 0, 'f', 4).arg(published_ph)));
+    QVERIFY2(
+        std::abs(s.ph - published_ph) <= tolerance,
+        qPrintable(QString("computed pH %1, published %2").arg(s.ph, 0, 'f', 4).arg(published_ph)));
 }
 
 // Mean activity coefficients at 25 °C: R. A. Robinson & R. H. Stokes, Electrolyte Solutions, 2nd
@@ -352,7 +375,8 @@ void TestEquilibrium::sitMeanActivityCoefficients() {
         double log_sum = 0, n = 0;
         const chem::SpeciesAmount* anion = nullptr;
         for (const auto& sp : s.species)
-            if (sp.charge < 0 && sp.species != "OH-" && (!anion || sp.mol_per_l > anion->mol_per_l)) anion = &sp;
+            if (sp.charge < 0 && sp.species != "OH-" && (!anion || sp.mol_per_l > anion->mol_per_l))
+                anion = &sp;
         for (const auto& sp : r->spectators)
             if (sp.charge > 0) {
                 for (const auto& x : s.species)
@@ -370,13 +394,14 @@ void TestEquilibrium::sitMeanActivityCoefficients() {
              qPrintable(QString("SIT %1, published %2").arg(sit, 0, 'f', 4).arg(published)));
     if (mol_per_kg >= 0.5) // at 0.1 mol/kg both lie within 1 %
         QVERIFY2(std::abs(sit - published) < std::abs(davies - published),
-             qPrintable(QString("SIT %1 not closer than Davies %2").arg(sit).arg(davies)));
+                 qPrintable(QString("SIT %1 not closer than Davies %2").arg(sit).arg(davies)));
 }
 
 void TestEquilibrium::daviesAndSitDisagreementIsWarned() {
     auto has = [](const chem::Speciation& s) {
         for (const auto& w : s.warnings)
-            if (w.code == "activity-model-differs") return true;
+            if (w.code == "activity-model-differs")
+                return true;
         return false;
     };
     // 0.5 mol/L phosphate buffer: the models part by several hundredths.
@@ -388,7 +413,8 @@ void TestEquilibrium::daviesAndSitDisagreementIsWarned() {
     QVERIFY(has(a) && has(b));
     QCOMPARE(b.activity_model, chem::ActivityModel::sit);
     // 10 mmol/L acetate: they agree, no warning.
-    const std::vector<chem::Component> weak = {{R("acetic-acid"), 0.01}, {R("sodium-acetate"), 0.01}};
+    const std::vector<chem::Component> weak = {{R("acetic-acid"), 0.01},
+                                               {R("sodium-acetate"), 0.01}};
     QVERIFY(!has(chem::solve(lib(), weak, 25, chem::ActivityModel::davies)));
     QVERIFY(!has(chem::solve(lib(), weak, 25, chem::ActivityModel::sit)));
 }
@@ -432,12 +458,13 @@ void TestEquilibrium::goodsBuffersAgainstGoldberg() {
 void TestEquilibrium::newReagentsSolve() {
     // Every reagent added for issue 11 solves alone at 10 mmol/L, 10 and 50 °C, with the charge
     // balance holding.
-    for (const char* id : {"mes", "hepes", "mops", "bis-tris", "ammonium-dihydrogen-phosphate",
-                           "diammonium-hydrogen-phosphate", "perchloric-acid", "sodium-perchlorate",
-                           "sulfuric-acid", "methanesulfonic-acid", "difluoroacetic-acid",
-                           "heptafluorobutyric-acid", "hexafluoro-2-propanol", "diisopropylethylamine",
-                           "diethylamine", "ammonium-fluoride", "sodium-hexanesulfonate",
-                           "sodium-octanesulfonate", "tetrabutylammonium-hydrogen-sulfate"})
+    for (const char* id :
+         {"mes", "hepes", "mops", "bis-tris", "ammonium-dihydrogen-phosphate",
+          "diammonium-hydrogen-phosphate", "perchloric-acid", "sodium-perchlorate", "sulfuric-acid",
+          "methanesulfonic-acid", "difluoroacetic-acid", "heptafluorobutyric-acid",
+          "hexafluoro-2-propanol", "diisopropylethylamine", "diethylamine", "ammonium-fluoride",
+          "sodium-hexanesulfonate", "sodium-octanesulfonate",
+          "tetrabutylammonium-hydrogen-sulfate"})
         for (double t : {10.0, 50.0}) {
             const auto s = chem::solve(lib(), {{R(id), 0.01}}, t);
             double charge = 0, scale = 0;

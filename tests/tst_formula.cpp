@@ -37,7 +37,7 @@ QString describe(const std::map<std::string, double>& counts) {
 class TestFormula : public QObject {
     Q_OBJECT
 
-private slots:
+  private slots:
     void parse_data();
     void parse();
     void notations_agree();
@@ -56,26 +56,46 @@ private slots:
 void TestFormula::parse_data() {
     QTest::addColumn<QString>("formula");
     QTest::addColumn<QString>("counts");
-    QTest::newRow("plain") << "KH2PO4" << "K:1 H:2 P:1 O:4";
-    QTest::newRow("hydrate in parentheses") << "Na2HPO4(H2O)7" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("hydrate, middle dot") << "Na2HPO4·7H2O" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("hydrate, full stop") << "Na2HPO4.7H2O" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("hydrate, asterisk") << "Na2HPO4*7H2O" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("hydrate, spaces round dot") << "Na2HPO4 · 7H2O" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("adduct without multiplier") << "C4H11NO3·HCl" << "C:4 H:12 N:1 O:3 Cl:1";
-    QTest::newRow("two dots add up") << "Na2HPO4·2H2O·5H2O" << "Na:2 H:15 P:1 O:11";
-    QTest::newRow("adduct and hydrate") << "C4H11NO3.HCl.H2O" << "C:4 H:14 N:1 O:4 Cl:1";
-    QTest::newRow("decimal multiplier") << "CaSO4·0.5H2O" << "Ca:1 S:1 O:4.5 H:1";
-    QTest::newRow("decimal multiplier, full stop") << "CaSO4.0.5H2O" << "Ca:1 S:1 O:4.5 H:1";
-    QTest::newRow("leading group") << "(CH3COO)NH4" << "C:2 H:7 N:1 O:2";
-    QTest::newRow("group with count") << "Ca3(PO4)2" << "Ca:3 P:2 O:8";
-    QTest::newRow("nested groups") << "((CH3)3C)2O" << "C:8 H:18 O:1";
-    QTest::newRow("nested, square brackets") << "K4[Fe(CN)6]" << "K:4 Fe:1 C:6 N:6";
-    QTest::newRow("two-letter symbols") << "NaCl" << "Na:1 Cl:1";
-    QTest::newRow("Co is cobalt, CO is not") << "CO" << "C:1 O:1";
-    QTest::newRow("multi-digit count") << "C12H22O11" << "C:12 H:22 O:11";
-    QTest::newRow("borax decahydrate") << "Na2B4O7(H2O)10" << "Na:2 B:4 O:17 H:20";
-    QTest::newRow("alum, group and hydrate") << "KAl(SO4)2·12H2O" << "K:1 Al:1 S:2 O:20 H:24";
+    QTest::newRow("plain") << "KH2PO4"
+                           << "K:1 H:2 P:1 O:4";
+    QTest::newRow("hydrate in parentheses") << "Na2HPO4(H2O)7"
+                                            << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("hydrate, middle dot") << "Na2HPO4·7H2O"
+                                         << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("hydrate, full stop") << "Na2HPO4.7H2O"
+                                        << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("hydrate, asterisk") << "Na2HPO4*7H2O"
+                                       << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("hydrate, spaces round dot") << "Na2HPO4 · 7H2O"
+                                               << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("adduct without multiplier") << "C4H11NO3·HCl"
+                                               << "C:4 H:12 N:1 O:3 Cl:1";
+    QTest::newRow("two dots add up") << "Na2HPO4·2H2O·5H2O"
+                                     << "Na:2 H:15 P:1 O:11";
+    QTest::newRow("adduct and hydrate") << "C4H11NO3.HCl.H2O"
+                                        << "C:4 H:14 N:1 O:4 Cl:1";
+    QTest::newRow("decimal multiplier") << "CaSO4·0.5H2O"
+                                        << "Ca:1 S:1 O:4.5 H:1";
+    QTest::newRow("decimal multiplier, full stop") << "CaSO4.0.5H2O"
+                                                   << "Ca:1 S:1 O:4.5 H:1";
+    QTest::newRow("leading group") << "(CH3COO)NH4"
+                                   << "C:2 H:7 N:1 O:2";
+    QTest::newRow("group with count") << "Ca3(PO4)2"
+                                      << "Ca:3 P:2 O:8";
+    QTest::newRow("nested groups") << "((CH3)3C)2O"
+                                   << "C:8 H:18 O:1";
+    QTest::newRow("nested, square brackets") << "K4[Fe(CN)6]"
+                                             << "K:4 Fe:1 C:6 N:6";
+    QTest::newRow("two-letter symbols") << "NaCl"
+                                        << "Na:1 Cl:1";
+    QTest::newRow("Co is cobalt, CO is not") << "CO"
+                                             << "C:1 O:1";
+    QTest::newRow("multi-digit count") << "C12H22O11"
+                                       << "C:12 H:22 O:11";
+    QTest::newRow("borax decahydrate") << "Na2B4O7(H2O)10"
+                                       << "Na:2 B:4 O:17 H:20";
+    QTest::newRow("alum, group and hydrate") << "KAl(SO4)2·12H2O"
+                                             << "K:1 Al:1 S:2 O:20 H:24";
 }
 
 void TestFormula::parse() {
@@ -97,7 +117,7 @@ void TestFormula::notations_agree() {
 
 void TestFormula::rejects_data() {
     QTest::addColumn<QString>("formula");
-    QTest::addColumn<int>("position"); ///< 1-based character named in the message, 0: none
+    QTest::addColumn<int>("position");   ///< 1-based character named in the message, 0: none
     QTest::addColumn<QString>("phrase"); ///< part of the message
     QTest::newRow("unclosed parenthesis") << "Na2(HPO4" << 4 << "never closed";
     QTest::newRow("unknown element") << "Xx2O" << 1 << "unknown element symbol \"Xx\"";
@@ -114,7 +134,8 @@ void TestFormula::rejects_data() {
     QTest::newRow("space inside") << "Na Cl" << 3 << "unexpected";
     QTest::newRow("charge sign") << "NH4+" << 4 << "unexpected";
     QTest::newRow("huge count") << "H99999999999" << 2 << "larger than";
-    QTest::newRow("deep nesting") << QString(40, '(') + "H" + QString(40, ')') << 17 << "nested deeper";
+    QTest::newRow("deep nesting") << QString(40, '(') + "H" + QString(40, ')') << 17
+                                  << "nested deeper";
 }
 
 void TestFormula::rejects() {
@@ -130,7 +151,8 @@ void TestFormula::rejects() {
         QVERIFY2(msg.contains('"' + formula + '"'), qPrintable(msg)); // names the formula
         QVERIFY2(msg.contains(phrase), qPrintable(msg));
         if (position > 0)
-            QVERIFY2(msg.contains(QStringLiteral("at character %1:").arg(position)), qPrintable(msg));
+            QVERIFY2(msg.contains(QStringLiteral("at character %1:").arg(position)),
+                     qPrintable(msg));
         else
             QVERIFY2(!msg.contains("at character"), qPrintable(msg));
     }
@@ -189,8 +211,10 @@ void TestFormula::library_molar_masses_data() {
     QTest::addColumn<QString>("id");
     QTest::addColumn<double>("published");
     QTest::addColumn<QString>("source");
-    const QString crc_inorg = "CRC Handbook of Chemistry and Physics, Physical constants of inorganic compounds (from memory)";
-    const QString crc_org = "CRC Handbook of Chemistry and Physics, Physical constants of organic compounds (from memory)";
+    const QString crc_inorg = "CRC Handbook of Chemistry and Physics, Physical constants of "
+                              "inorganic compounds (from memory)";
+    const QString crc_org = "CRC Handbook of Chemistry and Physics, Physical constants of organic "
+                            "compounds (from memory)";
     const QString sigma = "Sigma-Aldrich catalogue formula weight (from memory)";
     QTest::newRow("KH2PO4") << "potassium-dihydrogen-phosphate" << 136.086 << crc_inorg;
     QTest::newRow("K2HPO4") << "dipotassium-hydrogen-phosphate" << 174.176 << crc_inorg;
@@ -200,7 +224,8 @@ void TestFormula::library_molar_masses_data() {
     QTest::newRow("Na2HPO4") << "disodium-hydrogen-phosphate" << 141.96 << sigma;
     QTest::newRow("Na2HPO4.2H2O") << "disodium-hydrogen-phosphate-dihydrate" << 177.99 << sigma;
     QTest::newRow("Na2HPO4.7H2O") << "disodium-hydrogen-phosphate-heptahydrate" << 268.07 << sigma;
-    QTest::newRow("Na2HPO4.12H2O") << "disodium-hydrogen-phosphate-dodecahydrate" << 358.14 << sigma;
+    QTest::newRow("Na2HPO4.12H2O")
+        << "disodium-hydrogen-phosphate-dodecahydrate" << 358.14 << sigma;
     QTest::newRow("H3PO4") << "phosphoric-acid" << 97.995 << crc_inorg;
     QTest::newRow("acetic acid") << "acetic-acid" << 60.052 << crc_org;
     QTest::newRow("sodium acetate") << "sodium-acetate" << 82.034 << crc_org;
@@ -231,7 +256,8 @@ void TestFormula::library_molar_masses() {
     QFETCH(QString, id);
     QFETCH(double, published);
     QFETCH(QString, source);
-    static const phaseplan::AppData data = phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
+    static const phaseplan::AppData data =
+        phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
     const chem::Reagent* r = data.reagents.find_reagent(id.toStdString());
     QVERIFY2(r, qPrintable("no reagent " + id));
     const double got = r->molar_mass_g_per_mol;

@@ -35,7 +35,8 @@ const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
 
 QVariantMap demo_buffer() {
     QFile f(data_dir + "/demo/buffer-phosphate-ph2.5.json");
-    if (!f.open(QIODevice::ReadOnly)) qFatal("cannot open the demo buffer");
+    if (!f.open(QIODevice::ReadOnly))
+        qFatal("cannot open the demo buffer");
     return QJsonDocument::fromJson(f.readAll()).object().toVariantMap();
 }
 
@@ -43,39 +44,46 @@ std::unique_ptr<Workspace> open_workspace(const QString& db) {
     auto ws = std::make_unique<Workspace>();
     ws->setDatabasePath(db);
     ws->setDataDir(data_dir);
-    if (!ws->open()) qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
+    if (!ws->open())
+        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
     return ws;
 }
 
 int row_of(const BatchModel& m, const QString& reagent) {
     for (int r = 0; r < m.rowCount(); ++r)
-        if (m.data(m.index(r), BatchModel::ReagentRole).toString() == reagent) return r;
+        if (m.data(m.index(r), BatchModel::ReagentRole).toString() == reagent)
+            return r;
     return -1;
 }
 
-QVariant role(const BatchModel& m, int row, BatchModel::Role r) { return m.data(m.index(row), r); }
+QVariant role(const BatchModel& m, int row, BatchModel::Role r) {
+    return m.data(m.index(row), r);
+}
 
 QString pdf_text(const QString& path) {
     QProcess p;
     p.start(QStringLiteral("pdftotext"), {QStringLiteral("-layout"), path, QStringLiteral("-")});
-    if (!p.waitForFinished(30000) || p.exitCode() != 0) return {};
+    if (!p.waitForFinished(30000) || p.exitCode() != 0)
+        return {};
     return QString::fromUtf8(p.readAllStandardOutput());
 }
 
 int count_action(const QVariantList& history, const QString& action) {
     int n = 0;
-    for (const QVariant& h : history) n += h.toMap().value("action").toString() == action;
+    for (const QVariant& h : history)
+        n += h.toMap().value("action").toString() == action;
     return n;
 }
-
 
 /// The steps the sheet prints: each numbered block with the heading before it.
 QVariantList printed_steps(const phaseplan::print::SheetDocument& d) {
     using phaseplan::print::Block;
     QVariantList out;
     for (int i = 1; i < d.blocks.size(); ++i)
-        if (d.blocks[i].kind == Block::Kind::numbered && d.blocks[i - 1].kind == Block::Kind::heading)
-            out.append(QVariantMap{{"heading", d.blocks[i - 1].text}, {"steps", d.blocks[i].items}});
+        if (d.blocks[i].kind == Block::Kind::numbered &&
+            d.blocks[i - 1].kind == Block::Kind::heading)
+            out.append(
+                QVariantMap{{"heading", d.blocks[i - 1].text}, {"steps", d.blocks[i].items}});
     return out;
 }
 
@@ -85,7 +93,7 @@ class TestGuiBatch : public QObject {
     Q_OBJECT
     QTemporaryDir dir_;
 
-private slots:
+  private slots:
     void initTestCase() {
         QStandardPaths::setTestModeEnabled(true);
         QCoreApplication::setOrganizationName("PhasePlanTest");
@@ -125,19 +133,23 @@ private slots:
         QVERIFY(m.outOfTolerance());
         QVERIFY(m.needsDeviationNote());
         QCOMPARE(m.outOfToleranceReasons().size(), 1);
-        QVERIFY2(m.outOfToleranceReasons()[0].startsWith("Sodium dihydrogen phosphate monohydrate: "),
-                 qPrintable(m.outOfToleranceReasons()[0]));
+        QVERIFY2(
+            m.outOfToleranceReasons()[0].startsWith("Sodium dihydrogen phosphate monohydrate: "),
+            qPrintable(m.outOfToleranceReasons()[0]));
 
         // The correction by hand: s = salt actual / salt target; the acid (entered at its target,
         // rounded to 0.001 mL) then lies 1/s − 1 ≈ −3.8 % below its scaled target, outside ± 2 %:
         // add s·ta − acid actual; make up to s × 2000 mL (the demo's volume).
         const double s = salt_actual / ts;
         const double acid_actual = std::round(ta * 1000) / 1000;
-        const QString add_acid = QString::number(s * ta - acid_actual, 'f', (s * ta - acid_actual) >= 1 ? 3 : 4);
+        const QString add_acid =
+            QString::number(s * ta - acid_actual, 'f', (s * ta - acid_actual) >= 1 ? 3 : 4);
         const QString volume = QString::number(2000 * s, 'f', 1);
         const QString all = m.correction().join("\n");
-        QVERIFY2(all.contains("Add " + add_acid + " mL of Phosphoric acid"), qPrintable(all + " / " + add_acid));
-        QVERIFY2(all.contains("Make up to " + volume + " mL instead of 2000.0 mL"), qPrintable(all));
+        QVERIFY2(all.contains("Add " + add_acid + " mL of Phosphoric acid"),
+                 qPrintable(all + " / " + add_acid));
+        QVERIFY2(all.contains("Make up to " + volume + " mL instead of 2000.0 mL"),
+                 qPrintable(all));
         QVERIFY(!m.correctionIsRemake());
         // A 2000 mL flask cannot take the scaled volume: remake.
         m.setContainerMl(2000);
@@ -178,22 +190,26 @@ private slots:
         blocker.close();
         QVERIFY(!m.saveLabels(dir_.filePath("pdf/blocker/labels.pdf"), "label62"));
         QCOMPARE(m.errorField(), QString("path"));
-        QVERIFY2(m.errorMessage().contains("is a file, not a folder"), qPrintable(m.errorMessage()));
+        QVERIFY2(m.errorMessage().contains("is a file, not a folder"),
+                 qPrintable(m.errorMessage()));
 
-        if (QStandardPaths::findExecutable("pdftotext").isEmpty()) QSKIP("pdftotext (poppler-utils) missing");
+        if (QStandardPaths::findExecutable("pdftotext").isEmpty())
+            QSKIP("pdftotext (poppler-utils) missing");
         const QString text = pdf_text(sheet).simplified();
         QVERIFY(text.contains("OUT OF TOLERANCE"));
         QVERIFY(text.contains("Used for the system suitability run only"));
         QVERIFY(text.contains("PHM-3") && text.contains("BAL-07"));
 
         // One source of steps: the screen's list equals the printed sheet's.
-        const auto job = phaseplan::print::build_print_job(ws->data(), QJsonObject::fromVariantMap(m.input()), "now");
+        const auto job = phaseplan::print::build_print_job(
+            ws->data(), QJsonObject::fromVariantMap(m.input()), "now");
         QCOMPARE(m.steps(), printed_steps(job.sheet));
         QVERIFY(!m.steps().isEmpty());
 
         // The audit trail in words: reagent names and field labels, no JSON paths.
         QStringList texts;
-        for (const QVariant& h : m.history()) texts << h.toMap().value("text").toString();
+        for (const QVariant& h : m.history())
+            texts << h.toMap().value("text").toString();
         const QString trail = texts.join("\n");
         QVERIFY2(trail.contains("Actual amount of Sodium dihydrogen phosphate monohydrate: – → " +
                                 QString::number(salt_actual, 'f', 3) + " g"),
@@ -250,8 +266,10 @@ private slots:
             const double target = role(m, r, BatchModel::TargetRole).toDouble();
             QVERIFY(target > 0);
             // The band is ± 2 % of the target (issue 5 default), computed here.
-            QVERIFY(std::abs(role(m, r, BatchModel::LowRole).toDouble() - target * 0.98) < 1e-9 * target);
-            QVERIFY(std::abs(role(m, r, BatchModel::HighRole).toDouble() - target * 1.02) < 1e-9 * target);
+            QVERIFY(std::abs(role(m, r, BatchModel::LowRole).toDouble() - target * 0.98) <
+                    1e-9 * target);
+            QVERIFY(std::abs(role(m, r, BatchModel::HighRole).toDouble() - target * 1.02) <
+                    1e-9 * target);
 
             // Within the band: not flagged.
             const double inside = std::round(target * 1.01 * 1000) / 1000;
@@ -260,7 +278,8 @@ private slots:
             QVERIFY(role(m, r, BatchModel::WithinToleranceRole).toBool());
             QCOMPARE(m.flaggedCount(), 0);
 
-            // 5 % over: outside the band, flagged; more base form than planned → the pH as made rises.
+            // 5 % over: outside the band, flagged; more base form than planned → the pH as made
+            // rises.
             entered = std::round(target * 1.05 * 1000) / 1000;
             QVERIFY(std::abs(entered / target - 1) > 0.02);
             QSignalSpy results(&m, &BatchModel::resultChanged);
@@ -268,10 +287,12 @@ private slots:
             QVERIFY(results.count() > 0);
             QVERIFY(!role(m, r, BatchModel::WithinToleranceRole).toBool());
             QCOMPARE(m.flaggedCount(), 1);
-            QVERIFY(std::abs(role(m, r, BatchModel::DeviationPercentRole).toDouble() - (entered / target - 1) * 100) < 1e-6);
+            QVERIFY(std::abs(role(m, r, BatchModel::DeviationPercentRole).toDouble() -
+                             (entered / target - 1) * 100) < 1e-6);
             QVERIFY2(m.predictedPh() > 2.5 + 0.001, qPrintable(QString::number(m.predictedPh())));
             bool warned = false;
-            for (const QVariant& w : m.warnings()) warned |= w.toMap().value("code") == "amount-out-of-tolerance";
+            for (const QVariant& w : m.warnings())
+                warned |= w.toMap().value("code") == "amount-out-of-tolerance";
             QVERIFY(warned);
             QVERIFY(m.setLot(r, "SP-2207"));
 
@@ -296,7 +317,8 @@ private slots:
             QVERIFY(QFileInfo(labels).size() > 1000);
             QCOMPARE(m.lastSavedPath(), labels);
             QVERIFY(m.defaultPath("sheet").startsWith(dir_.filePath("out")));
-            if (QStandardPaths::findExecutable("pdftotext").isEmpty()) QSKIP("pdftotext (poppler-utils) missing");
+            if (QStandardPaths::findExecutable("pdftotext").isEmpty())
+                QSKIP("pdftotext (poppler-utils) missing");
             const QString text = pdf_text(sheet);
             QVERIFY2(text.contains(id), qPrintable(text.left(400)));
             const QString shown = QString::number(entered, 'f', 3);

@@ -2,8 +2,8 @@
 // goes into a batch through DeviceCapture and BatchModel, is stored with its device, raw line and
 // time, shows where it came from, and the printed sheet says "from balance BAL-03" against it and
 // "typed" against a typed amount; the pH from a meter past its calibration date carries a caution
-// onto the screen and the sheet; a captured value is changed by hand only with a reason, and is then
-// typed; faults keep the value that was there.
+// onto the screen and the sheet; a captured value is changed by hand only with a reason, and is
+// then typed; faults keep the value that was there.
 //
 // Outside references: the lines the instruments send are common practice, no source (the shapes of
 // data/device_formats.json); the PDF's text is read back with poppler's pdftotext, an outside
@@ -42,30 +42,36 @@ const QString acid = QStringLiteral("phosphoric-acid");
 
 QVariantMap demo_buffer() {
     QFile f(data_dir + "/demo/buffer-phosphate-ph2.5.json");
-    if (!f.open(QIODevice::ReadOnly)) qFatal("cannot open the demo buffer");
+    if (!f.open(QIODevice::ReadOnly))
+        qFatal("cannot open the demo buffer");
     return QJsonDocument::fromJson(f.readAll()).object().toVariantMap();
 }
 
 int row_of(const BatchModel& m, const QString& reagent) {
     for (int r = 0; r < m.rowCount(); ++r)
-        if (m.data(m.index(r), BatchModel::ReagentRole).toString() == reagent) return r;
+        if (m.data(m.index(r), BatchModel::ReagentRole).toString() == reagent)
+            return r;
     return -1;
 }
 
-QVariant role(const BatchModel& m, int row, BatchModel::Role r) { return m.data(m.index(row), r); }
+QVariant role(const BatchModel& m, int row, BatchModel::Role r) {
+    return m.data(m.index(row), r);
+}
 
 /// pdftotext's text with runs of white space made one space (table cells wrap and align).
 QString pdf_text(const QString& path) {
     QProcess p;
     p.start(QStringLiteral("pdftotext"), {QStringLiteral("-raw"), path, QStringLiteral("-")});
-    if (!p.waitForFinished(30000) || p.exitCode() != 0) return {};
+    if (!p.waitForFinished(30000) || p.exitCode() != 0)
+        return {};
     return QString::fromUtf8(p.readAllStandardOutput()).simplified();
 }
 
 QJsonObject actual_entry(const BatchModel& m, const QString& reagent) {
     const QJsonObject in = QJsonObject::fromVariantMap(m.input());
     for (const QJsonValue& v : in.value("batch").toObject().value("actual").toArray())
-        if (v.toObject().value("reagent").toString() == reagent) return v.toObject();
+        if (v.toObject().value("reagent").toString() == reagent)
+            return v.toObject();
     return {};
 }
 
@@ -95,13 +101,16 @@ class TestGuiBatchCapture : public QObject {
     bool take(bool balance, const QString& target, const QByteArray& line) {
         QSignalSpy captured(capture_.get(), &DeviceCapture::captured);
         QSignalSpy failed(capture_.get(), &DeviceCapture::failed);
-        if (!(balance ? capture_->takeFromBalance(target) : capture_->takeFromMeter(target))) return false;
-        if (!(balance ? balance_ : meter_)->send(line)) return false;
-        if (!captured.wait(5000) && failed.isEmpty()) return false;
+        if (!(balance ? capture_->takeFromBalance(target) : capture_->takeFromMeter(target)))
+            return false;
+        if (!(balance ? balance_ : meter_)->send(line))
+            return false;
+        if (!captured.wait(5000) && failed.isEmpty())
+            return false;
         return failed.isEmpty();
     }
 
-private slots:
+  private slots:
     void initTestCase() {
         QStandardPaths::setTestModeEnabled(true);
         QCoreApplication::setOrganizationName("PhasePlanTest");
@@ -111,7 +120,8 @@ private slots:
 
     void init() {
         ws_ = std::make_unique<Workspace>();
-        ws_->setDatabasePath(dir_.filePath(QStringLiteral("lab-%1.sqlite").arg(QTest::currentTestFunction())));
+        ws_->setDatabasePath(
+            dir_.filePath(QStringLiteral("lab-%1.sqlite").arg(QTest::currentTestFunction())));
         ws_->setDataDir(data_dir);
         QVERIFY(ws_->open());
         balance_ = std::make_unique<FakeInstrument>();
@@ -145,7 +155,8 @@ private slots:
     }
 
     void weightFromTheBalanceIsRecordedAndPrinted() {
-        if (QStandardPaths::findExecutable("pdftotext").isEmpty()) QSKIP("pdftotext (poppler-utils) missing");
+        if (QStandardPaths::findExecutable("pdftotext").isEmpty())
+            QSKIP("pdftotext (poppler-utils) missing");
         BatchModel& m = *model_;
         const int rs = row_of(m, salt), ra = row_of(m, acid);
         QVERIFY(rs >= 0 && ra >= 0);
@@ -165,7 +176,8 @@ private slots:
         const QJsonObject rec = actual_entry(m, salt).value("capture").toObject();
         QCOMPARE(rec.value("device_id").toString(), QString("BAL-03"));
         QCOMPARE(rec.value("raw").toString(), QString::fromLatin1(line));
-        QVERIFY(QDateTime::fromString(rec.value("received_at").toString(), Qt::ISODateWithMs).isValid());
+        QVERIFY(QDateTime::fromString(rec.value("received_at").toString(), Qt::ISODateWithMs)
+                    .isValid());
         QCOMPARE(rec.value("accepted_unstable").toBool(), false);
         QCOMPARE(rec.value("calibration_due").toString(), QString("2099-12-31"));
 
@@ -175,7 +187,9 @@ private slots:
         QCOMPARE(role(m, ra, BatchModel::SourceRole).toString(), QString("typed"));
 
         // The pH from a meter past its calibration date: taken, with a caution.
-        QVERIFY(take(false, "batch.measured_ph", "2.512 pH 21.4 \xc2\xb0" "C\r\n"));
+        QVERIFY(take(false, "batch.measured_ph",
+                     "2.512 pH 21.4 \xc2\xb0"
+                     "C\r\n"));
         QCOMPARE(m.measuredPh(), 2.512);
         QCOMPARE(m.measuredPhSource(), QString("from pH meter PHM-01"));
         QCOMPARE(m.phMeterId(), QString("PHM-01"));
@@ -191,8 +205,10 @@ private slots:
             BatchModel again;
             again.setWorkspace(ws_.get());
             QVERIFY(again.open(m.batchId()));
-            QCOMPARE(role(again, rs, BatchModel::SourceRole).toString(), QString("from balance BAL-03"));
-            QCOMPARE(again.measuredPhCapture().value("raw").toString(), QString("2.512 pH 21.4 \u00b0C"));
+            QCOMPARE(role(again, rs, BatchModel::SourceRole).toString(),
+                     QString("from balance BAL-03"));
+            QCOMPARE(again.measuredPhCapture().value("raw").toString(),
+                     QString("2.512 pH 21.4 \u00b0C"));
         }
 
         const QString sheet = dir_.filePath("out/captured-sheet.pdf");
@@ -223,11 +239,14 @@ private slots:
         bool source_line = false;
         for (const QVariant& h : m.history()) {
             const QVariantMap e = h.toMap();
-            if (e["text"].toString().startsWith("Source of the actual amount of Sodium dihydrogen phosphate monohydrate: from balance BAL-03 (sent \"" +
-                                                QString::fromLatin1(line) + "\"") &&
+            if (e["text"].toString().startsWith(
+                    "Source of the actual amount of Sodium dihydrogen phosphate monohydrate: from "
+                    "balance BAL-03 (sent \"" +
+                    QString::fromLatin1(line) + "\"") &&
                 e["text"].toString().endsWith("→ typed")) {
                 source_line = true;
-                QCOMPARE(e["reason"].toString(), QString("balance display misread, weighed again on paper"));
+                QCOMPARE(e["reason"].toString(),
+                         QString("balance display misread, weighed again on paper"));
                 QCOMPARE(e["action"].toString(), QString("amend"));
             }
         }
@@ -282,7 +301,8 @@ private slots:
         const int rs = row_of(m, salt);
         QVERIFY(m.setActual(rs, 3.2));
         // BAL-05 stays on the demo's /dev/ttyUSB2.
-        if (QFileInfo::exists("/dev/ttyUSB2")) QSKIP("this machine has a /dev/ttyUSB2");
+        if (QFileInfo::exists("/dev/ttyUSB2"))
+            QSKIP("this machine has a /dev/ttyUSB2");
         capture_->setBalanceId("BAL-05");
         const QString target = role(m, rs, BatchModel::CaptureTargetRole).toString();
         QVERIFY(!capture_->takeFromBalance(target));
@@ -296,7 +316,9 @@ private slots:
         BatchModel& m = *model_;
         const int rs = row_of(m, salt);
         // A pH handed to an amount row: refused at the row, nothing entered.
-        QVERIFY(take(false, role(m, rs, BatchModel::CaptureTargetRole).toString(), "2.512 pH 21.4 \xc2\xb0" "C\r\n"));
+        QVERIFY(take(false, role(m, rs, BatchModel::CaptureTargetRole).toString(),
+                     "2.512 pH 21.4 \xc2\xb0"
+                     "C\r\n"));
         QVERIFY(m.errorMessage().contains("from a balance"));
         QVERIFY(!role(m, rs, BatchModel::EnteredRole).toBool());
     }

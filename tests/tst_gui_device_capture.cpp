@@ -43,12 +43,13 @@ class TestGuiDeviceCapture : public QObject {
         store.save(*d);
     }
 
-private slots:
+  private slots:
     void init() {
         // "Today" for the calibration dates (Workspace::now reads it).
         qputenv("PHASEPLAN_NOW", "2026-12-02T10:00:00");
         ws_ = std::make_unique<Workspace>();
-        ws_->setDatabasePath(dir_.filePath(QStringLiteral("lab-%1.sqlite").arg(QTest::currentTestFunction())));
+        ws_->setDatabasePath(
+            dir_.filePath(QStringLiteral("lab-%1.sqlite").arg(QTest::currentTestFunction())));
         ws_->setDataDir(data_dir);
         QVERIFY(ws_->open());
         balance_ = std::make_unique<FakeInstrument>();
@@ -76,7 +77,8 @@ private slots:
         QCOMPARE(m.size(), 1);
         QCOMPARE(capture_->meterId(), QString("PHM-01"));
         // Due 2026-11-30, today 2026-12-02.
-        QVERIFY(m[0].toMap()["calibrationCaution"].toString().contains("PHM-01 was due for calibration on 2026-11-30"));
+        QVERIFY(m[0].toMap()["calibrationCaution"].toString().contains(
+            "PHM-01 was due for calibration on 2026-11-30"));
     }
 
     void takesTheNextStableWeight() {
@@ -125,7 +127,8 @@ private slots:
     void meterReadingCarriesTheCalibrationCaution() {
         QSignalSpy captured(capture_.get(), &DeviceCapture::captured);
         QVERIFY(capture_->takeFromMeter("batch.measured_ph"));
-        QVERIFY(meter_->send("2.512 pH 21.4 \xc2\xb0" "C\r\n"));
+        QVERIFY(meter_->send("2.512 pH 21.4 \xc2\xb0"
+                             "C\r\n"));
         QVERIFY(captured.wait(5000));
         const QVariantMap c = captured.first().first().toMap();
         QCOMPARE(c["value"].toDouble(), 2.512);
@@ -140,14 +143,22 @@ private slots:
         QTest::addColumn<bool>("unplug");
         QTest::addColumn<QString>("fault");
         QTest::addColumn<QString>("contains");
-        QTest::newRow("overload") << QByteArray("ST,+OL\r\n") << false << "out-of-range" << "overload";
-        QTest::newRow("dashes") << QByteArray("S S ------\r\n") << false << "out-of-range" << "dashes";
-        QTest::newRow("negative") << QByteArray("S S    -0.0040 g\r\n") << false << "negative" << "tare";
-        QTest::newRow("mg where g expected") << QByteArray("S S 3161.0 mg\r\n") << false << "wrong-unit" << "where g was expected";
-        QTest::newRow("garbage") << QByteArray("\xf3\x1c\x8a\xe1\r\n") << false << "garbage" << "baud rate";
+        QTest::newRow("overload") << QByteArray("ST,+OL\r\n") << false << "out-of-range"
+                                  << "overload";
+        QTest::newRow("dashes") << QByteArray("S S ------\r\n") << false << "out-of-range"
+                                << "dashes";
+        QTest::newRow("negative") << QByteArray("S S    -0.0040 g\r\n") << false << "negative"
+                                  << "tare";
+        QTest::newRow("mg where g expected")
+            << QByteArray("S S 3161.0 mg\r\n") << false << "wrong-unit"
+            << "where g was expected";
+        QTest::newRow("garbage") << QByteArray("\xf3\x1c\x8a\xe1\r\n") << false << "garbage"
+                                 << "baud rate";
         // An unsettled line first, in the same write: once it is shown, the half line after it
         // has been read too (a pty drops what is still queued when its master closes).
-        QTest::newRow("gone mid-line") << QByteArray("S D   3.1598 g\r\nS S   3.16") << true << "disconnected" << "received \"S S   3.16\"";
+        QTest::newRow("gone mid-line")
+            << QByteArray("S D   3.1598 g\r\nS S   3.16") << true << "disconnected"
+            << "received \"S S   3.16\"";
     }
     void faultsKeepThePreviousCapture() {
         QFETCH(QByteArray, sent);
@@ -174,7 +185,8 @@ private slots:
         QVERIFY(!capture_->busy());
         QCOMPARE(capture_->errorField(), QString("batch.actual[0].mass_g"));
         QCOMPARE(capture_->errorFault(), fault);
-        QVERIFY2(capture_->errorMessage().startsWith("balance BAL-03: "), qPrintable(capture_->errorMessage()));
+        QVERIFY2(capture_->errorMessage().startsWith("balance BAL-03: "),
+                 qPrintable(capture_->errorMessage()));
         QVERIFY2(capture_->errorMessage().contains(contains), qPrintable(capture_->errorMessage()));
     }
 
@@ -193,7 +205,8 @@ private slots:
         // BAL-05 stays on the demo's /dev/ttyUSB2, which this machine does not have.
         QSignalSpy failed(capture_.get(), &DeviceCapture::failed);
         capture_->setBalanceId("BAL-05");
-        if (QFileInfo::exists("/dev/ttyUSB2")) QSKIP("this machine has a /dev/ttyUSB2");
+        if (QFileInfo::exists("/dev/ttyUSB2"))
+            QSKIP("this machine has a /dev/ttyUSB2");
         QVERIFY(!capture_->takeFromBalance("batch.actual[0].mass_g"));
         QCOMPARE(capture_->errorFault(), QString("port-missing"));
         QCOMPARE(failed.count(), 1);
@@ -209,8 +222,12 @@ private slots:
 
     void instrumentsAreAddedEditedAndRemoved() {
         QSignalSpy changed(capture_.get(), &DeviceCapture::devicesChanged);
-        QVariantMap d{{"id", "BAL-07"}, {"name", "Semi-micro balance"}, {"kind", "balance"},
-                      {"port", "/dev/ttyUSB7"}, {"baud", 4800}, {"format", "id-flag-number-unit"},
+        QVariantMap d{{"id", "BAL-07"},
+                      {"name", "Semi-micro balance"},
+                      {"kind", "balance"},
+                      {"port", "/dev/ttyUSB7"},
+                      {"baud", 4800},
+                      {"format", "id-flag-number-unit"},
                       {"calibration_due", "2027-06-30"}};
         QVERIFY(capture_->saveDevice(d));
         QCOMPARE(capture_->balances().size(), 3);

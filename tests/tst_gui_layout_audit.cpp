@@ -24,7 +24,8 @@ class TestLayoutAudit : public QObject {
         QQmlComponent c(&engine_);
         c.setData("import QtQuick\nimport QtQuick.Controls\n" + qml, QUrl());
         root_.reset(qobject_cast<QQuickItem*>(c.create()));
-        if (!root_) qWarning() << c.errors();
+        if (!root_)
+            qWarning() << c.errors();
         window_ = std::make_unique<QQuickWindow>();
         window_->resize(400, 300);
         root_->setParentItem(window_->contentItem());
@@ -33,7 +34,7 @@ class TestLayoutAudit : public QObject {
         return audit_layout(window_.get(), px_per_mm);
     }
 
-private slots:
+  private slots:
     void findsSmallTargetsUnnamedControlsAndCutText() {
         // 4 px/mm: a 20 px button is 5 mm; 36 px is 9 mm.
         const auto problems = audit(R"(
@@ -42,17 +43,22 @@ Item {
     Button { y: 0; width: 120; height: 20; text: "Small" }
     ComboBox { y: 50; width: 120; height: 40; model: ["a"] }
     Label { y: 100; width: 30; text: "A text far wider than its box" }
-})", 4.0);
+})",
+                                    4.0);
         QStringList kinds;
-        for (const auto& p : problems) kinds << p.kind + ": " + p.what;
-        QVERIFY2(kinds.filter("small target").size() == 1 && kinds.filter("small target").first().contains("Small"),
+        for (const auto& p : problems)
+            kinds << p.kind + ": " + p.what;
+        QVERIFY2(kinds.filter("small target").size() == 1 &&
+                     kinds.filter("small target").first().contains("Small"),
                  qPrintable(kinds.join("; ")));
-        QVERIFY2(kinds.filter("no accessible name").size() == 1 && kinds.filter("no accessible name").first().contains("ComboBox"),
+        QVERIFY2(kinds.filter("no accessible name").size() == 1 &&
+                     kinds.filter("no accessible name").first().contains("ComboBox"),
                  qPrintable(kinds.join("; ")));
         QVERIFY2(kinds.filter("clipped text").size() == 1, qPrintable(kinds.join("; ")));
         // The same button is large enough on a 2 px/mm screen (20 px = 10 mm).
         const auto coarse = audit(R"(
-Item { width: 400; height: 300; Button { width: 120; height: 20; text: "Small" } })", 2.0);
+Item { width: 400; height: 300; Button { width: 120; height: 20; text: "Small" } })",
+                                  2.0);
         QVERIFY(coarse.isEmpty());
     }
 
@@ -65,9 +71,11 @@ Item {
     Label { y: 100; width: 300; text: "Fits" }
     Button { y: 150; width: 10; height: 10; text: "hidden"; visible: false }
     Label { y: 200; width: 30; text: "wraps over several lines"; wrapMode: Text.Wrap }
-})", 4.0);
+})",
+                                    4.0);
         QStringList all;
-        for (const auto& p : problems) all << p.kind + ": " + p.what + " " + p.detail;
+        for (const auto& p : problems)
+            all << p.kind + ": " + p.what + " " + p.detail;
         QVERIFY2(problems.isEmpty(), qPrintable(all.join("; ")));
     }
 };

@@ -23,9 +23,9 @@
 #include <QJsonDocument>
 #include <QLineSeries>
 #include <QLocale>
+#include <QRegularExpression>
 #include <QSignalSpy>
 #include <QTemporaryDir>
-#include <QRegularExpression>
 #include <QTest>
 
 #include <memory>
@@ -38,7 +38,8 @@ const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
 
 QJsonObject read_json(const QString& path) {
     QFile f(path);
-    if (!f.open(QIODevice::ReadOnly)) qFatal("cannot open %s", qPrintable(path));
+    if (!f.open(QIODevice::ReadOnly))
+        qFatal("cannot open %s", qPrintable(path));
     return QJsonDocument::fromJson(f.readAll()).object();
 }
 
@@ -46,13 +47,15 @@ std::unique_ptr<Workspace> open_workspace(const QString& db, const QString& data
     auto ws = std::make_unique<Workspace>();
     ws->setDatabasePath(db);
     ws->setDataDir(data);
-    if (!ws->open()) qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
+    if (!ws->open())
+        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
     return ws;
 }
 
 double item_mass(const QVariantList& items, const QString& reagent) {
     for (const QVariant& v : items)
-        if (v.toMap().value("reagent").toString() == reagent) return v.toMap().value("mass_g").toDouble();
+        if (v.toMap().value("reagent").toString() == reagent)
+            return v.toMap().value("mass_g").toDouble();
     return -1;
 }
 
@@ -74,7 +77,7 @@ class TestGuiModels : public QObject {
     int n_ = 0;
     QString fresh_db() { return dir_.filePath(QStringLiteral("db-%1.sqlite").arg(++n_)); }
 
-private slots:
+  private slots:
     void initTestCase() {
         // One "today" for every run: the screens word times relative to it.
         qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
@@ -115,7 +118,8 @@ private slots:
         QCOMPARE(plan.totalMin(), direct.value("total_min").toDouble());
         QCOMPARE(plan.warnings().size(), direct.value("warnings").toArray().size());
         // The demo was seeded as saved work too.
-        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::sequence, Workspace::demoName()));
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::sequence,
+                                     Workspace::demoName()));
         auto again = open_workspace(db);
         QVERIFY(!again->firstRun());
     }
@@ -150,12 +154,14 @@ private slots:
         const QJsonObject direct = phaseplan::command_recipe(ws->data(), d.requestDocument(), {});
         QCOMPARE(d.predictedPh(), direct.value("ph").toDouble());
         QVariantList direct_items;
-        for (const QJsonValue& v : direct.value("items").toArray()) direct_items.append(v.toObject().toVariantMap());
+        for (const QJsonValue& v : direct.value("items").toArray())
+            direct_items.append(v.toObject().toVariantMap());
         QCOMPARE(base_at_74, item_mass(direct_items, "disodium-hydrogen-phosphate-heptahydrate"));
         // The amount shown uses the locale's decimal separator.
         QString amount;
         for (const QVariant& v : d.items())
-            if (v.toMap().value("reagent") == "disodium-hydrogen-phosphate-heptahydrate") amount = v.toMap().value("amount").toString();
+            if (v.toMap().value("reagent") == "disodium-hydrogen-phosphate-heptahydrate")
+                amount = v.toMap().value("amount").toString();
         QVERIFY2(amount.contains(QLocale().decimalPoint()), qPrintable(amount));
         QLocale::setDefault(QLocale::c());
     }
@@ -204,7 +210,8 @@ private slots:
         // The pickers show formulas and only fitting forms: no acid form is offered as a base.
         auto ids = [](const QVariantList& l) {
             QStringList out;
-            for (const QVariant& v : l) out << v.toMap().value("id").toString();
+            for (const QVariant& v : l)
+                out << v.toMap().value("id").toString();
             return out;
         };
         QVERIFY(ids(d.acidChoices()).contains("formic-acid"));
@@ -217,21 +224,26 @@ private slots:
         QCOMPARE(d.titrantForm(), QString("neat"));
         QVERIFY(!d.routeNotes().isEmpty());
         const QStringList titrants = ids(d.titrantChoices());
-        for (const char* id : {"formic-acid", "ammonia", "trifluoroacetic-acid", "hydrochloric-acid"})
+        for (const char* id :
+             {"formic-acid", "ammonia", "trifluoroacetic-acid", "hydrochloric-acid"})
             QVERIFY2(titrants.contains(id), id);
         QVERIFY(!titrants.contains("sodium-formate"));
         d.setConcentrationBasis("salt");
         QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
-        QVERIFY2(d.basisText().startsWith("10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"),
+        QVERIFY2(d.basisText().startsWith(
+                     "10 mmol/L ammonium formate, brought to pH 3.00 with formic acid"),
                  qPrintable(d.basisText()));
         QVERIFY2(d.basisText().contains("67.5 mmol/L"), qPrintable(d.basisText()));
-        QVERIFY2(d.defaultName().contains("ammonium formate") && d.defaultName().contains("salt basis"),
+        QVERIFY2(d.defaultName().contains("ammonium formate") &&
+                     d.defaultName().contains("salt basis"),
                  qPrintable(d.defaultName()));
         // A neat liquid is pipetted: its volume comes first.
         bool pipetted = false;
         for (const QVariant& v : d.items()) {
             const QVariantMap it = v.toMap();
-            if (it.value("reagent") == "formic-acid") pipetted = it.value("amount").toString().contains(QRegularExpression("^[0-9.,]+ mL \\("));
+            if (it.value("reagent") == "formic-acid")
+                pipetted =
+                    it.value("amount").toString().contains(QRegularExpression("^[0-9.,]+ mL \\("));
         }
         QVERIFY(pipetted);
         // The saved inputs keep the basis and the form.
@@ -263,8 +275,10 @@ private slots:
         plan.fillConditionSeries(&bar, "assay", "pressure");
         QVERIFY(ph.count() > 10 && bar.count() > 10);
         double lo = 14, top = 0;
-        for (const QPointF& p : ph.points()) lo = std::min(lo, p.y());
-        for (const QPointF& p : bar.points()) top = std::max(top, p.y());
+        for (const QPointF& p : ph.points())
+            lo = std::min(lo, p.y());
+        for (const QPointF& p : bar.points())
+            top = std::max(top, p.y());
         QVERIFY(std::abs(lo - c.value("phMin").toDouble()) < 1e-9);
         QVERIFY(std::abs(top - c.value("maxBar").toDouble()) < 1e-6 * top);
         QVERIFY(!plan.methodConditions("no such method").value("hasEluent").toBool());
@@ -282,7 +296,8 @@ private slots:
         QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
         const QList<QPointF>& ph = d.phCurve();
         QVERIFY(ph.size() > 20);
-        for (int i = 1; i < ph.size(); ++i) QVERIFY2(ph[i].y() > ph[i - 1].y(), "pH rises with the base fraction");
+        for (int i = 1; i < ph.size(); ++i)
+            QVERIFY2(ph[i].y() > ph[i - 1].y(), "pH rises with the base fraction");
         // The recipe's own point lies on its curve, and β at its pH matches the recipe's β.
         QVERIFY(std::abs(interpolate(ph, d.recipePoint().x()) - d.predictedPh()) < 0.02);
         const double beta = interpolate(d.betaCurve(), d.predictedPh());
@@ -297,7 +312,8 @@ private slots:
         QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
         QVERIFY(d.curveXLabel().contains("mL"));
         const QList<QPointF>& t = d.phCurve();
-        for (int i = 1; i < t.size(); ++i) QVERIFY(t[i].y() > t[i - 1].y());
+        for (int i = 1; i < t.size(); ++i)
+            QVERIFY(t[i].y() > t[i - 1].y());
         QVERIFY(std::abs(interpolate(t, d.recipePoint().x()) - d.predictedPh()) < 0.02);
     }
 
@@ -318,7 +334,8 @@ private slots:
         QVERIFY(d.openBuffer(ref));
         QCOMPARE(d.usedByLines(), QStringList{"A"});
         QCOMPARE(d.targetPh(), plan.lineBuffer("A").value("target_ph").toDouble());
-        const QVariantList before = lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
+        const QVariantList before =
+            lines.data(lines.index(0), LinesModel::BufferItemsRole).toList();
         d.setTargetPh(d.targetPh() + 0.3);
         QCOMPARE(plan.lineBuffer("A").value("target_ph").toDouble(), d.targetPh());
         lines.recomputeNow();
@@ -363,7 +380,8 @@ private slots:
         QVERIFY(!plan.valid());
         QVERIFY(plan.stale());
         QCOMPARE(plan.endText(), end);
-        QVERIFY2(plan.errorPlace().startsWith("Method “assay v2”, gradient row 2"), qPrintable(plan.errorPlace()));
+        QVERIFY2(plan.errorPlace().startsWith("Method “assay v2”, gradient row 2"),
+                 qPrintable(plan.errorPlace()));
         QCOMPARE(g.errorRow(), 1);
         g.setTime(1, 9);
         plan.recomputeNow();
@@ -413,8 +431,10 @@ private slots:
         // The name follows the inputs until the buffer is named.
         d.setTargetPh(6.8);
         QCOMPARE(d.bufferName(), QString("25 mM sodium phosphate pH 6.8"));
-        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM sodium phosphate pH 6.8"));
-        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer, "25 mM sodium phosphate pH 7.0"));
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer,
+                                     "25 mM sodium phosphate pH 6.8"));
+        QVERIFY(!ws->database()->load(phaseplan::storage::DocumentKind::buffer,
+                                      "25 mM sodium phosphate pH 7.0"));
         QCOMPARE(d.renameBuffer("Assay buffer"), QString());
         d.setTargetPh(6.9);
         QCOMPARE(d.bufferName(), QString("Assay buffer"));
@@ -425,7 +445,8 @@ private slots:
         QCOMPARE(d.bufferName(), QString("Assay buffer 2"));
         // Both are in the list; deleting opens another.
         QStringList names;
-        for (const QVariant& v : d.bufferChoices()) names << v.toMap().value("id").toString();
+        for (const QVariant& v : d.bufferChoices())
+            names << v.toMap().value("id").toString();
         QVERIFY(names.contains("Assay buffer") && names.contains("Assay buffer 2"));
         QCOMPARE(d.deleteBuffer(), QString());
         QVERIFY(d.bufferName() != "Assay buffer 2");
@@ -459,10 +480,12 @@ private slots:
             QVERIFY(pts.size() >= 2);
             // Bottles only drain; the first point is the bottle less priming, the last the
             // bottle less everything the core says the night needs (floored at empty).
-            for (int i = 1; i < pts.size(); ++i) QVERIFY(pts[i].y() <= pts[i - 1].y() + 1e-9);
+            for (int i = 1; i < pts.size(); ++i)
+                QVERIFY(pts[i].y() <= pts[i - 1].y() + 1e-9);
             QCOMPARE(pts.first().y(), m.value("bottle_ml").toDouble() - plan.primeMl(l));
-            QVERIFY(std::abs(pts.last().y() - std::max(0.0, m.value("bottle_ml").toDouble() -
-                                                                  m.value("required_ml").toDouble())) < 1e-6);
+            QVERIFY(std::abs(pts.last().y() -
+                             std::max(0.0, m.value("bottle_ml").toDouble() -
+                                               m.value("required_ml").toDouble())) < 1e-6);
             QLineSeries dry;
             plan.fillDrySeries(&dry, l);
             QCOMPARE(dry.count(), m.value("runs_dry").toBool() ? 1 : 0);
@@ -485,7 +508,8 @@ private slots:
         g.setTime(2, 1.0); // before row 1: times must ascend
         plan.recomputeNow();
         QVERIFY(!plan.valid());
-        QVERIFY2(plan.errorField().startsWith("methods.assay.gradient["), qPrintable(plan.errorField()));
+        QVERIFY2(plan.errorField().startsWith("methods.assay.gradient["),
+                 qPrintable(plan.errorField()));
         QVERIFY(g.errorRow() == 1 || g.errorRow() == 2);
         QVERIFY(!g.data(g.index(g.errorRow()), GradientModel::RowErrorRole).toString().isEmpty());
         g.setTime(2, 10.0);
@@ -498,7 +522,8 @@ private slots:
         rows.setMethod(1, "no-such-method");
         plan.recomputeNow();
         QCOMPARE(plan.errorField(), QString("sequence[1].method"));
-        QCOMPARE(rows.data(rows.index(1), SequenceRowsModel::RowErrorFieldRole).toString(), QString("method"));
+        QCOMPARE(rows.data(rows.index(1), SequenceRowsModel::RowErrorFieldRole).toString(),
+                 QString("method"));
         QVERIFY(rows.data(rows.index(0), SequenceRowsModel::RowErrorRole).toString().isEmpty());
     }
 
@@ -518,13 +543,16 @@ private slots:
         auto has_code = [&](const QString& code) -> bool {
             for (int i = 0; i < checks.rowCount(); ++i)
                 if (checks.data(checks.index(i), ChecksModel::CodeRole).toString() == code)
-                    return !checks.data(checks.index(i), ChecksModel::AdviceRole).toString().isEmpty();
+                    return !checks.data(checks.index(i), ChecksModel::AdviceRole)
+                                .toString()
+                                .isEmpty();
             return false;
         };
         QVERIFY(has_code("runs-dry"));
         QVERIFY(checks.warningCount() >= 1);
         // Worst first.
-        QCOMPARE(checks.data(checks.index(0), ChecksModel::SeverityRole).toString(), QString("warning"));
+        QCOMPARE(checks.data(checks.index(0), ChecksModel::SeverityRole).toString(),
+                 QString("warning"));
         lines.setBottleMl("B", 1000);
         plan.recomputeNow();
         lines.recomputeNow();
@@ -544,7 +572,8 @@ private slots:
         const QModelIndex b = lines.index(lines.rowOf("B"));
         QCOMPARE(lines.data(b, LinesModel::BottleMlRole).toDouble(), 1500.0);
         double total = 0;
-        for (const QVariant& v : lines.data(b, LinesModel::ItemsRole).toList()) total += v.toMap().value("volume_ml").toDouble();
+        for (const QVariant& v : lines.data(b, LinesModel::ItemsRole).toList())
+            total += v.toMap().value("volume_ml").toDouble();
         QVERIFY(std::abs(total - 1500) < 1e-6); // one solvent at 100 %: the whole bottle
         QVERIFY(lines.data(b, LinesModel::UvCutoffNmRole).toDouble() > 0);
         lines.setPartPercent("B", 0, 250); // not a fraction: the core refuses, naming the part
@@ -561,13 +590,15 @@ private slots:
         lib.setWorkspace(ws.get());
         const int all = lib.count();
         lib.setKind("solvents");
-        QCOMPARE(lib.count(), int(read_json(data_dir + "/solvents.json").value("solvents").toArray().size()));
+        QCOMPARE(lib.count(),
+                 int(read_json(data_dir + "/solvents.json").value("solvents").toArray().size()));
         lib.setKind("all");
         lib.setSearch("phosphate sodium");
         QVERIFY(lib.count() > 0 && lib.count() < all);
         for (int i = 0; i < lib.count(); ++i) {
             const QString hay = (lib.data(lib.index(i), LibraryModel::NameRole).toString() + ' ' +
-                                 lib.data(lib.index(i), LibraryModel::IdRole).toString()).toLower();
+                                 lib.data(lib.index(i), LibraryModel::IdRole).toString())
+                                    .toLower();
             QVERIFY(hay.contains("phosphate") && hay.contains("sodium"));
         }
 
@@ -610,7 +641,8 @@ private slots:
         ws.reset();
         auto again = open_workspace(db);
         QVERIFY(again->data().reagents.find_reagent("lab-sodium-acetate-99"));
-        QVERIFY(std::abs(again->data().reagents.reagent("sodium-acetate").assay_fraction - 0.985) < 1e-12);
+        QVERIFY(std::abs(again->data().reagents.reagent("sodium-acetate").assay_fraction - 0.985) <
+                1e-12);
         // The recipe uses the lab's entry.
         BufferDesigner d;
         d.setWorkspace(again.get());
@@ -641,8 +673,10 @@ private slots:
         QJsonArray list = r.value("reagents").toArray();
         for (int i = 0; i < list.size(); ++i) {
             QJsonObject o = list[i].toObject();
-            if (o.value("id") == "sodium-acetate") o.insert("name", "Sodium acetate, anhydrous (renamed upstream)");
-            if (o.value("id") == "acetic-acid") o.insert("name", "Acetic acid, glacial (renamed upstream)");
+            if (o.value("id") == "sodium-acetate")
+                o.insert("name", "Sodium acetate, anhydrous (renamed upstream)");
+            if (o.value("id") == "acetic-acid")
+                o.insert("name", "Acetic acid, glacial (renamed upstream)");
             list[i] = o;
         }
         r.insert("reagents", list);
@@ -677,7 +711,8 @@ private slots:
             QCOMPARE(saved.count(), 2); // the demo and Thursday
             saved.setSearch("thursday");
             QCOMPARE(saved.count(), 1);
-            QCOMPARE(QJsonObject::fromVariantMap(saved.load("sequence", "Thursday night")), edited_plan);
+            QCOMPARE(QJsonObject::fromVariantMap(saved.load("sequence", "Thursday night")),
+                     edited_plan);
 
             BufferDesigner d;
             d.setWorkspace(ws.get());

@@ -56,13 +56,15 @@ class TestNumberText : public QObject {
         QFETCH(double, value);
         const ParsedNumber p = phaseplan::gui::parse_decimal(text, whole);
         QCOMPARE(int(p.status), status);
-        if (p.ok()) QCOMPARE(p.value, value);
+        if (p.ok())
+            QCOMPARE(p.value, value);
         const QString msg = phaseplan::gui::parse_message(p, QStringLiteral("Actual mass"), text);
         if (p.ok()) {
             QVERIFY(msg.isEmpty());
         } else {
             QVERIFY2(msg.startsWith(QStringLiteral("Actual mass")), qPrintable(msg));
-            if (!text.trimmed().isEmpty()) QVERIFY2(msg.contains(text.trimmed()), qPrintable(msg));
+            if (!text.trimmed().isEmpty())
+                QVERIFY2(msg.contains(text.trimmed()), qPrintable(msg));
         }
     }
 
@@ -86,7 +88,8 @@ class TestNumberText : public QObject {
         const QString s = phaseplan::gui::format_decimal(value, decimals, QLocale(locale));
         QCOMPARE(s, shown);
         // What is shown reads back as the same number.
-        if (value > 0) QCOMPARE(phaseplan::gui::parse_decimal(s).value, std::round(value * 100) / 100);
+        if (value > 0)
+            QCOMPARE(phaseplan::gui::parse_decimal(s).value, std::round(value * 100) / 100);
     }
 };
 

@@ -23,7 +23,8 @@ std::unique_ptr<Workspace> open_workspace(const QString& db) {
     auto ws = std::make_unique<Workspace>();
     ws->setDatabasePath(db);
     ws->setDataDir(data_dir);
-    if (!ws->open()) qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
+    if (!ws->open())
+        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
     return ws;
 }
 
@@ -33,7 +34,7 @@ class TestGuiStorage : public QObject {
     Q_OBJECT
     QTemporaryDir dir_;
 
-private slots:
+  private slots:
     // Issue 9: with demo_seeded missing, the next start wrote the demo over the edited "assay".
     void missing_demo_setting_never_reseeds_over_edits() {
         const QString path = dir_.filePath("edited.sqlite");
@@ -48,7 +49,9 @@ private slots:
         }
         auto ws = open_workspace(path);
         QVERIFY(!ws->firstRun());
-        QCOMPARE(ws->database()->load(DocumentKind::method, "assay")->value("flow_ml_min").toDouble(), 0.35);
+        QCOMPARE(
+            ws->database()->load(DocumentKind::method, "assay")->value("flow_ml_min").toDouble(),
+            0.35);
         QVERIFY(!ws->database()->load(DocumentKind::sequence, Workspace::demoName()));
         QVERIFY(ws->canSave());
         QVERIFY(ws->storageNotice().isEmpty());
@@ -88,16 +91,19 @@ private slots:
             auto ws = open_workspace(path);
             QJsonObject demo = ws->demoDocument();
             QJsonArray rows;
-            for (int i = 0; i < 100000; ++i) rows.append(QJsonObject{{"t_min", i * 0.01}, {"A", 50}, {"B", 50}});
+            for (int i = 0; i < 100000; ++i)
+                rows.append(QJsonObject{{"t_min", i * 0.01}, {"A", 50}, {"B", 50}});
             QJsonObject methods = demo["methods"].toObject();
             QJsonObject assay = methods["assay"].toObject();
             assay["gradient"] = rows;
             methods["assay"] = assay;
             demo["methods"] = methods;
-            ws->database()->set_setting("current_plan", QJsonObject{{"name", "huge"}, {"document", demo}});
+            ws->database()->set_setting("current_plan",
+                                        QJsonObject{{"name", "huge"}, {"document", demo}});
         }
         auto ws = open_workspace(path);
-        QVERIFY2(ws->storageNotice().contains("settings \"current_plan\""), qPrintable(ws->storageNotice()));
+        QVERIFY2(ws->storageNotice().contains("settings \"current_plan\""),
+                 qPrintable(ws->storageNotice()));
         Plan plan;
         plan.setRestore(true);
         plan.setWorkspace(ws.get());

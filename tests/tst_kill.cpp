@@ -3,8 +3,9 @@
 // have been committed; then again on a file whose process may not grow it past a small limit
 // (RLIMIT_FSIZE, as `ulimit -f` sets), so that saves also fail for lack of space. After every kill:
 // PRAGMA integrity_check says "ok", every save the helper reported committed is in the file, and
-// the file opens and takes a save. SQLite's promise checked here: https://sqlite.org/atomiccommit.html
-// and https://sqlite.org/wal.html (a committed WAL transaction survives a process crash).
+// the file opens and takes a save. SQLite's promise checked here:
+// https://sqlite.org/atomiccommit.html and https://sqlite.org/wal.html (a committed WAL transaction
+// survives a process crash).
 //
 // Helper mode: tst_kill --save-mixed DB FIRST   saves FIRST, FIRST+1, … printing "committed N"
 // (or "failed N: why") after each, until killed.
@@ -33,34 +34,48 @@ namespace {
 const QString batch_id = QStringLiteral("KILL-0001");
 
 QJsonObject recipe_doc(int n) {
-    return QJsonObject{{"target_ph", 2.5},  {"temperature_c", 25}, {"volume_ml", 1000},
-                       {"route", "mix"},    {"acid", "phosphoric-acid"},
+    return QJsonObject{{"target_ph", 2.5},
+                       {"temperature_c", 25},
+                       {"volume_ml", 1000},
+                       {"route", "mix"},
+                       {"acid", "phosphoric-acid"},
                        {"base", "sodium-dihydrogen-phosphate-monohydrate"},
-                       {"concentration_mol_per_l", 0.02}, {"save", n}};
+                       {"concentration_mol_per_l", 0.02},
+                       {"save", n}};
 }
 
 BatchRecord batch_with(const QString& who) {
     QJsonObject in = recipe_doc(0);
-    in["batch"] = QJsonObject{{"id", batch_id}, {"prepared_by", who}, {"prepared_at", "2026-12-01T16:30:00"}};
+    in["batch"] =
+        QJsonObject{{"id", batch_id}, {"prepared_by", who}, {"prepared_at", "2026-12-01T16:30:00"}};
     return BatchRecord::from_input(in);
 }
 
 /// Save n: a buffer (n % 3 == 0), a plan state (1) or a batch edit (2), each one transaction.
 void save(Database& db, BatchStore& store, int n) {
     switch (n % 3) {
-    case 0: db.save(DocumentKind::buffer, QStringLiteral("buffer %1").arg(n), recipe_doc(n)); break;
-    case 1: db.set_setting(QStringLiteral("plan %1").arg(n), QJsonObject{{"name", "plan"}, {"n", n}}); break;
-    default: store.edit(batch_id, batch_with(QStringLiteral("tech %1").arg(n)), QStringLiteral("tech %1").arg(n));
+    case 0:
+        db.save(DocumentKind::buffer, QStringLiteral("buffer %1").arg(n), recipe_doc(n));
+        break;
+    case 1:
+        db.set_setting(QStringLiteral("plan %1").arg(n), QJsonObject{{"name", "plan"}, {"n", n}});
+        break;
+    default:
+        store.edit(batch_id, batch_with(QStringLiteral("tech %1").arg(n)),
+                   QStringLiteral("tech %1").arg(n));
     }
 }
 
 bool present(Database& db, int n) {
     switch (n % 3) {
-    case 0: return db.load(DocumentKind::buffer, QStringLiteral("buffer %1").arg(n)).has_value();
-    case 1: return db.setting(QStringLiteral("plan %1").arg(n)).toObject().value("n").toInt() == n;
+    case 0:
+        return db.load(DocumentKind::buffer, QStringLiteral("buffer %1").arg(n)).has_value();
+    case 1:
+        return db.setting(QStringLiteral("plan %1").arg(n)).toObject().value("n").toInt() == n;
     default: {
-        QSqlQuery q = db.exec(QStringLiteral("SELECT count(*) FROM batch_history WHERE batch_id = ? AND who = ?"),
-                              {batch_id, QStringLiteral("tech %1").arg(n)});
+        QSqlQuery q = db.exec(
+            QStringLiteral("SELECT count(*) FROM batch_history WHERE batch_id = ? AND who = ?"),
+            {batch_id, QStringLiteral("tech %1").arg(n)});
         return q.next() && q.value(0).toInt() > 0;
     }
     }
@@ -112,10 +127,12 @@ class TestKill : public QObject {
                     ::setrlimit(RLIMIT_FSIZE, &r);
                 });
             }
-            helper.start(QCoreApplication::applicationFilePath(), {"--save-mixed", path, QString::number(next)});
+            helper.start(QCoreApplication::applicationFilePath(),
+                         {"--save-mixed", path, QString::number(next)});
             QVERIFY(helper.waitForStarted(10000));
             QByteArray out;
-            while (!out.contains('\n') && helper.waitForReadyRead(20000)) out += helper.readAllStandardOutput();
+            while (!out.contains('\n') && helper.waitForReadyRead(20000))
+                out += helper.readAllStandardOutput();
             QTest::qWait(static_cast<int>(rng.bounded(40)));
             helper.kill();
             QVERIFY(helper.waitForFinished(10000));
@@ -139,15 +156,20 @@ class TestKill : public QObject {
             QVERIFY(ok.next());
             QCOMPARE(ok.value(0).toString(), QString("ok"));
             for (int n : committed)
-                QVERIFY2(present(db, n), qPrintable(QStringLiteral("save %1 was reported committed but is missing after round %2")
-                                                        .arg(n).arg(t.rounds)));
-            if (!size_step_bytes) QVERIFY(db.writable()); // the app starts and could save
+                QVERIFY2(
+                    present(db, n),
+                    qPrintable(QStringLiteral(
+                                   "save %1 was reported committed but is missing after round %2")
+                                   .arg(n)
+                                   .arg(t.rounds)));
+            if (!size_step_bytes)
+                QVERIFY(db.writable()); // the app starts and could save
         }
         qInfo("%s: %d kills, %d saves committed and all present, %d refused for lack of space",
               qPrintable(QFileInfo(path).fileName()), t.rounds, t.committed, t.failed);
     }
 
-private slots:
+  private slots:
     void thousand_saves_killed_at_random_lose_nothing() {
         Tally t;
         kill_until(dir_.filePath("kill.sqlite"), 1000, 0, t);

@@ -459,17 +459,19 @@ void TestLine::densitiesAtTheLineTemperature() {
     QVERIFY(std::fabs(item(out, "water")["density_g_per_ml"].toDouble() - 0.99705) < 2e-5);
     QCOMPARE(item(out, "acetonitrile")["density_temperature_c"].toDouble(), 25.0);
     d["temperature_c"] = 20;
-    QVERIFY(std::fabs(item(run_line(d), "acetonitrile")["density_g_per_ml"].toDouble() - 0.7857) < 1e-9);
+    QVERIFY(std::fabs(item(run_line(d), "acetonitrile")["density_g_per_ml"].toDouble() - 0.7857) <
+            1e-9);
 }
 
 void TestLine::hydroxideHasAUvFigure() {
     // NaOH and KOH carry a UV figure (no chromophore above ~200 nm, common practice, no source):
     // no "no UV cutoff figure" caution at 210 nm.
     for (const char* base : {"sodium-hydroxide", "potassium-hydroxide"}) {
-        QJsonObject d{{"volume_ml", 1000},
-                      {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
-                      {"additives", QJsonArray{QJsonObject{{"additive", base}, {"mmol_per_l", 10}}}},
-                      {"detector", QJsonObject{{"type", "uv"}, {"wavelength_nm", 210}}}};
+        QJsonObject d{
+            {"volume_ml", 1000},
+            {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
+            {"additives", QJsonArray{QJsonObject{{"additive", base}, {"mmol_per_l", 10}}}},
+            {"detector", QJsonObject{{"type", "uv"}, {"wavelength_nm", 210}}}};
         QVERIFY2(!codes(run_line(d)).contains("uv-cutoff"), base);
     }
 }
@@ -477,10 +479,11 @@ void TestLine::hydroxideHasAUvFigure() {
 void TestLine::triethylamineMsBackground() {
     // Triethylamine is volatile, yet lingers in an MS source (common practice, no source): a
     // caution with an MS detector, none with UV.
-    QJsonObject d{{"volume_ml", 1000},
-                  {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
-                  {"additives", QJsonArray{QJsonObject{{"additive", "triethylamine"}, {"percent_v", 0.1}}}},
-                  {"detector", QJsonObject{{"type", "ms"}}}};
+    QJsonObject d{
+        {"volume_ml", 1000},
+        {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}},
+        {"additives", QJsonArray{QJsonObject{{"additive", "triethylamine"}, {"percent_v", 0.1}}}},
+        {"detector", QJsonObject{{"type", "ms"}}}};
     const QJsonObject ms = run_line(d);
     QVERIFY(codes(ms, "caution").contains("ms-nonvolatile"));
     QVERIFY(!codes(ms, "warning").contains("ms-nonvolatile"));

@@ -95,11 +95,12 @@ class TestPressure : public QObject {
         Instrument in;
         in.system_pressure_bar = 10;
         in.system_flow_ml_min = 1.0;
-        const PressureTrace t = pressure_trace(solvents_, lines(methanol_), isocratic(1.0, 50), c, in);
+        const PressureTrace t =
+            pressure_trace(solvents_, lines(methanol_), isocratic(1.0, 50), c, in);
         QVERIFY(t.calibrated);
         QVERIFY(std::abs(t.max_pressure_bar - 150.0) < 1e-6);
-        const double at_half = pressure_trace(solvents_, lines(methanol_), isocratic(0.5, 50), c, in)
-                                   .max_pressure_bar;
+        const double at_half =
+            pressure_trace(solvents_, lines(methanol_), isocratic(0.5, 50), c, in).max_pressure_bar;
         QVERIFY(std::abs(at_half - 75.0) < 1e-6); // column and system both ∝ F
         // A reference at or below the system's own pressure is refused, naming the field.
         c.reference->pressure_bar = 5;
@@ -145,9 +146,7 @@ class TestPressure : public QObject {
     }
 
     // Plates N ≈ 3000 · L(cm) / dp(µm), common practice: 250 mm, 5 µm → 15 000.
-    void plates() {
-        QCOMPARE(plates_estimate(column(250, 4.6, 5)), 15000.0);
-    }
+    void plates() { QCOMPARE(plates_estimate(column(250, 4.6, 5)), 15000.0); }
 
     // pressure-limit: a warning above the lower limit, a caution within 10 %, quiet below.
     void pressureLimitCheck() {
@@ -159,17 +158,20 @@ class TestPressure : public QObject {
         Instrument in;
         in.max_pressure_bar = peak * 0.95; // instrument lower than the column
         c.max_pressure_bar = peak * 1.5;
-        auto w = pressure_limit_warning("grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
+        auto w = pressure_limit_warning(
+            "grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
         QVERIFY(w);
         QCOMPARE(w->code, std::string("pressure-limit"));
         QCOMPARE(w->severity, Warning::Severity::warning);
         QVERIFY(w->message.find("instrument") != std::string::npos);
         in.max_pressure_bar = peak * 1.05;
-        w = pressure_limit_warning("grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
+        w = pressure_limit_warning(
+            "grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
         QVERIFY(w);
         QCOMPARE(w->severity, Warning::Severity::caution);
         in.max_pressure_bar = peak * 1.2;
-        QVERIFY(!pressure_limit_warning("grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in)));
+        QVERIFY(!pressure_limit_warning(
+            "grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in)));
     }
 
     // Bad input names the field.
@@ -192,15 +194,24 @@ class TestPressure : public QObject {
         Method m = gradient(1.0);
         auto prof = lines(methanol_);
         const QString row = QTest::currentDataTag();
-        if (row == "length") c.length_mm = 0;
-        if (row == "id") c.id_mm = -4.6;
-        if (row == "particle small") c.particle_um = 0.4;
-        if (row == "particle large") c.particle_um = 60;
-        if (row == "porosity") c.porosity = 0.95;
-        if (row == "temperature") c.temperature_c = 120;
-        if (row == "flow") m.flow_ml_min = 0;
-        if (row == "dwell") in.dwell_ml = -1;
-        if (row == "undescribed line") prof[1] = nullptr;
+        if (row == "length")
+            c.length_mm = 0;
+        if (row == "id")
+            c.id_mm = -4.6;
+        if (row == "particle small")
+            c.particle_um = 0.4;
+        if (row == "particle large")
+            c.particle_um = 60;
+        if (row == "porosity")
+            c.porosity = 0.95;
+        if (row == "temperature")
+            c.temperature_c = 120;
+        if (row == "flow")
+            m.flow_ml_min = 0;
+        if (row == "dwell")
+            in.dwell_ml = -1;
+        if (row == "undescribed line")
+            prof[1] = nullptr;
         try {
             pressure_trace(solvents_, prof, m, c, in);
             QFAIL("accepted");
@@ -212,7 +223,9 @@ class TestPressure : public QObject {
     // Never NaN, never negative, over random valid columns, flows, temperatures and gradients.
     void finiteAndPositive() {
         std::mt19937 rng(12);
-        auto u = [&](double lo, double hi) { return std::uniform_real_distribution<>(lo, hi)(rng); };
+        auto u = [&](double lo, double hi) {
+            return std::uniform_real_distribution<>(lo, hi)(rng);
+        };
         for (int i = 0; i < 300; ++i) {
             Column c = column(u(10, 300), u(0.5, 10), u(0.5, 50));
             c.porosity = u(0.2, 0.9);
@@ -226,7 +239,8 @@ class TestPressure : public QObject {
             }
             Method m = gradient(u(0.01, 5));
             m.equilibration_min = u(0, 10);
-            const PressureTrace t = pressure_trace(solvents_, lines(i % 3 ? methanol_ : acetonitrile_), m, c, in);
+            const PressureTrace t =
+                pressure_trace(solvents_, lines(i % 3 ? methanol_ : acetonitrile_), m, c, in);
             for (const PressurePoint& p : t.points)
                 QVERIFY(std::isfinite(p.pressure_bar) && p.pressure_bar > 0 &&
                         std::isfinite(p.viscosity_mpa_s) && p.viscosity_mpa_s > 0 &&

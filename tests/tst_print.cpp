@@ -12,8 +12,8 @@
 
 #include <QImage>
 #include <QJsonArray>
-#include <QPainter>
 #include <QPageSize>
+#include <QPainter>
 #include <QPrinter>
 #include <QProcess>
 #include <QSignalSpy>
@@ -27,17 +27,25 @@ using phaseplan::testing::shipped_data;
 namespace {
 
 QJsonObject demo_with_batch() {
-    QJsonObject in{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"}, {"target_ph", 2.5},
-                   {"temperature_c", 25}, {"volume_ml", 2000}, {"route", "mix"},
-                   {"acid", "phosphoric-acid"}, {"base", "sodium-dihydrogen-phosphate-monohydrate"},
+    QJsonObject in{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"},
+                   {"target_ph", 2.5},
+                   {"temperature_c", 25},
+                   {"volume_ml", 2000},
+                   {"route", "mix"},
+                   {"acid", "phosphoric-acid"},
+                   {"base", "sodium-dihydrogen-phosphate-monohydrate"},
                    {"concentration_mol_per_l", 0.02}};
-    in["batch"] = QJsonObject{{"id", "HR-QC117-A-0042"}, {"prepared_by", "R. Okafor"},
-                              {"prepared_at", "2026-12-01T16:30:00"},
-                              {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
-                                                                {"mass_g", 3.0855}, {"lot", "SP-2207"}}}},
-                              // 3.0855 g is over the salt's ± 2 % band: printing needs a deviation note.
-                              {"deviation", QJsonObject{{"note", "salt over its band; trial use only"},
-                                                        {"by", "M. Lindqvist"}, {"at", "2026-12-01T16:50:00"}}}};
+    in["batch"] = QJsonObject{
+        {"id", "HR-QC117-A-0042"},
+        {"prepared_by", "R. Okafor"},
+        {"prepared_at", "2026-12-01T16:30:00"},
+        {"actual", QJsonArray{QJsonObject{{"reagent", "sodium-dihydrogen-phosphate-monohydrate"},
+                                          {"mass_g", 3.0855},
+                                          {"lot", "SP-2207"}}}},
+        // 3.0855 g is over the salt's ± 2 % band: printing needs a deviation note.
+        {"deviation", QJsonObject{{"note", "salt over its band; trial use only"},
+                                  {"by", "M. Lindqvist"},
+                                  {"at", "2026-12-01T16:50:00"}}}};
     return in;
 }
 
@@ -55,8 +63,12 @@ QString pdftotext(const QString& pdf) {
     return QString::fromUtf8(p.readAllStandardOutput()).simplified();
 }
 
-bool is_red(QRgb c) { return qRed(c) > 180 && qGreen(c) < 90 && qBlue(c) < 90; }
-bool is_black(QRgb c) { return qRed(c) < 60 && qGreen(c) < 60 && qBlue(c) < 60; }
+bool is_red(QRgb c) {
+    return qRed(c) > 180 && qGreen(c) < 90 && qBlue(c) < 90;
+}
+bool is_black(QRgb c) {
+    return qRed(c) < 60 && qGreen(c) < 60 && qBlue(c) < 60;
+}
 
 QImage pictogram(const QString& code, int side = 200) {
     QImage img(side, side, QImage::Format_RGB32);
@@ -71,7 +83,7 @@ QImage pictogram(const QString& code, int side = 200) {
 
 class TestPrint : public QObject {
     Q_OBJECT
-private slots:
+  private slots:
     void initTestCase();
     void qrDecodesBack_data();
     void qrDecodesBack();
@@ -88,14 +100,16 @@ private slots:
     void controllerErrorsNameTheFieldAndWriteNothing();
     void outOfToleranceNeedsNoteAndCarriesMark();
 
-private:
+  private:
     QTemporaryDir dir_;
 };
 
 void TestPrint::initTestCase() {
     QVERIFY(dir_.isValid());
-    if (QStandardPaths::findExecutable("zbarimg").isEmpty()) QFAIL("zbarimg (zbar-tools) is needed");
-    if (QStandardPaths::findExecutable("pdftotext").isEmpty()) QFAIL("pdftotext (poppler-utils) is needed");
+    if (QStandardPaths::findExecutable("zbarimg").isEmpty())
+        QFAIL("zbarimg (zbar-tools) is needed");
+    if (QStandardPaths::findExecutable("pdftotext").isEmpty())
+        QFAIL("pdftotext (poppler-utils) is needed");
 }
 
 void TestPrint::qrDecodesBack_data() {
@@ -137,8 +151,11 @@ void TestPrint::qrQuietZoneIsWhite() {
     p.end();
     for (int y = 0; y < img.height(); ++y)
         for (int x = 0; x < img.width(); ++x) {
-            const bool border = x < 4 * m || y < 4 * m || x >= (total - 4) * m || y >= (total - 4) * m;
-            if (border) QVERIFY2(img.pixel(x, y) == qRgb(255, 255, 255), qPrintable(QString("%1,%2").arg(x).arg(y)));
+            const bool border =
+                x < 4 * m || y < 4 * m || x >= (total - 4) * m || y >= (total - 4) * m;
+            if (border)
+                QVERIFY2(img.pixel(x, y) == qRgb(255, 255, 255),
+                         qPrintable(QString("%1,%2").arg(x).arg(y)));
         }
     // The finder pattern's corner module is dark (every QR code has one at top left).
     QVERIFY(is_black(img.pixel(4 * m + 1, 4 * m + 1)));
@@ -163,8 +180,8 @@ void TestPrint::pictogramsHaveRedFrameAndBlackSymbol() {
         QVERIFY(!ghs_pictogram_name(code).isEmpty());
         const QImage img = pictogram(code);
         // The frame crosses the four mid-edges of the box (the diamond's corners point there).
-        QVERIFY2(is_red(img.pixel(100, 6)) && is_red(img.pixel(100, 193)) && is_red(img.pixel(6, 100)) &&
-                     is_red(img.pixel(193, 100)),
+        QVERIFY2(is_red(img.pixel(100, 6)) && is_red(img.pixel(100, 193)) &&
+                     is_red(img.pixel(6, 100)) && is_red(img.pixel(193, 100)),
                  qPrintable(code));
         // Outside the diamond stays untouched; inside there is a black symbol and white ground.
         QCOMPARE(img.pixel(3, 3), qRgb(255, 255, 255));
@@ -174,11 +191,13 @@ void TestPrint::pictogramsHaveRedFrameAndBlackSymbol() {
                 black += is_black(img.pixel(x, y));
                 white += img.pixel(x, y) == qRgb(255, 255, 255);
             }
-        QVERIFY2(black > 400 && white > 2000, qPrintable(QString("%1: %2 black, %3 white").arg(code).arg(black).arg(white)));
+        QVERIFY2(black > 400 && white > 2000,
+                 qPrintable(QString("%1: %2 black, %3 white").arg(code).arg(black).arg(white)));
         // No red inside the symbol area: red is the frame's only.
         int red_inside = 0;
         for (int y = 70; y < 130; ++y)
-            for (int x = 70; x < 130; ++x) red_inside += is_red(img.pixel(x, y));
+            for (int x = 70; x < 130; ++x)
+                red_inside += is_red(img.pixel(x, y));
         QCOMPARE(red_inside, 0);
     }
     QVERIFY(!is_ghs_pictogram("GHS10") && !is_ghs_pictogram("GHS00") && !is_ghs_pictogram("ghs05"));
@@ -188,14 +207,17 @@ void TestPrint::pictogramsHaveRedFrameAndBlackSymbol() {
 
 void TestPrint::pictogramsAreDistinct() {
     QList<QImage> imgs;
-    for (int i = 1; i <= 9; ++i) imgs << pictogram(QString("GHS0%1").arg(i), 120);
+    for (int i = 1; i <= 9; ++i)
+        imgs << pictogram(QString("GHS0%1").arg(i), 120);
     for (int a = 0; a < imgs.size(); ++a)
         for (int b = a + 1; b < imgs.size(); ++b) {
             int differ = 0;
             for (int y = 0; y < 120; ++y)
                 for (int x = 0; x < 120; ++x)
                     differ += is_black(imgs[a].pixel(x, y)) != is_black(imgs[b].pixel(x, y));
-            QVERIFY2(differ > 300, qPrintable(QString("GHS0%1 vs GHS0%2: %3 px").arg(a + 1).arg(b + 1).arg(differ)));
+            QVERIFY2(
+                differ > 300,
+                qPrintable(QString("GHS0%1 vs GHS0%2: %3 px").arg(a + 1).arg(b + 1).arg(differ)));
         }
 }
 
@@ -203,20 +225,34 @@ void TestPrint::pictogramsAreDistinct() {
 void TestPrint::hazardStatementsUseGhsWording_data() {
     QTest::addColumn<QString>("code");
     QTest::addColumn<QString>("statement");
-    QTest::newRow("H225") << "H225" << "Highly flammable liquid and vapour";
-    QTest::newRow("H290") << "H290" << "May be corrosive to metals";
-    QTest::newRow("H302") << "H302" << "Harmful if swallowed";
-    QTest::newRow("H314") << "H314" << "Causes severe skin burns and eye damage";
-    QTest::newRow("H318") << "H318" << "Causes serious eye damage";
-    QTest::newRow("H319") << "H319" << "Causes serious eye irritation";
-    QTest::newRow("H331") << "H331" << "Toxic if inhaled";
-    QTest::newRow("H335") << "H335" << "May cause respiratory irritation";
-    QTest::newRow("H336") << "H336" << "May cause drowsiness or dizziness";
-    QTest::newRow("H351") << "H351" << "Suspected of causing cancer";
-    QTest::newRow("H360D") << "H360D" << "May damage the unborn child";
-    QTest::newRow("H373") << "H373" << "May cause damage to organs through prolonged or repeated exposure";
-    QTest::newRow("H411") << "H411" << "Toxic to aquatic life with long lasting effects";
-    QTest::newRow("unknown") << "H999" << "";
+    QTest::newRow("H225") << "H225"
+                          << "Highly flammable liquid and vapour";
+    QTest::newRow("H290") << "H290"
+                          << "May be corrosive to metals";
+    QTest::newRow("H302") << "H302"
+                          << "Harmful if swallowed";
+    QTest::newRow("H314") << "H314"
+                          << "Causes severe skin burns and eye damage";
+    QTest::newRow("H318") << "H318"
+                          << "Causes serious eye damage";
+    QTest::newRow("H319") << "H319"
+                          << "Causes serious eye irritation";
+    QTest::newRow("H331") << "H331"
+                          << "Toxic if inhaled";
+    QTest::newRow("H335") << "H335"
+                          << "May cause respiratory irritation";
+    QTest::newRow("H336") << "H336"
+                          << "May cause drowsiness or dizziness";
+    QTest::newRow("H351") << "H351"
+                          << "Suspected of causing cancer";
+    QTest::newRow("H360D") << "H360D"
+                           << "May damage the unborn child";
+    QTest::newRow("H373") << "H373"
+                          << "May cause damage to organs through prolonged or repeated exposure";
+    QTest::newRow("H411") << "H411"
+                          << "Toxic to aquatic life with long lasting effects";
+    QTest::newRow("unknown") << "H999"
+                             << "";
 }
 
 void TestPrint::hazardStatementsUseGhsWording() {
@@ -228,17 +264,22 @@ void TestPrint::hazardStatementsUseGhsWording() {
 void TestPrint::hazardCodesSort() {
     QCOMPARE(sorted_hazard_codes({"H314", "EUH071", "H290", "H314", "H225", " ", "H360D", "H360"}),
              QStringList({"H225", "H290", "H314", "H360", "H360D", "EUH071"}));
-    QCOMPARE(sorted_pictograms({"GHS07", "ghs02", "GHS05", "GHS07"}), QStringList({"GHS02", "GHS05", "GHS07"}));
+    QCOMPARE(sorted_pictograms({"GHS07", "ghs02", "GHS05", "GHS07"}),
+             QStringList({"GHS02", "GHS05", "GHS07"}));
 }
 
 void TestPrint::labelGridFitsThePaper() {
     for (Paper paper : {Paper::a4, Paper::letter}) {
         const LabelGrid g = label_grid(paper);
-        const QSizeF page = QPageSize(paper == Paper::a4 ? QPageSize::A4 : QPageSize::Letter).size(QPageSize::Millimeter);
+        const QSizeF page = QPageSize(paper == Paper::a4 ? QPageSize::A4 : QPageSize::Letter)
+                                .size(QPageSize::Millimeter);
         QCOMPARE(g.columns * g.rows, 8);
-        QVERIFY(std::abs(2 * g.margin_left_mm + g.columns * g.label_width_mm + (g.columns - 1) * g.gap_mm - page.width()) < 1e-6);
-        QVERIFY(std::abs(2 * g.margin_top_mm + g.rows * g.label_height_mm + (g.rows - 1) * g.gap_mm - page.height()) < 1e-6);
-        QVERIFY(g.label_width_mm > 60 && g.label_height_mm > 45); // room for a 24 mm QR code and the text
+        QVERIFY(std::abs(2 * g.margin_left_mm + g.columns * g.label_width_mm +
+                         (g.columns - 1) * g.gap_mm - page.width()) < 1e-6);
+        QVERIFY(std::abs(2 * g.margin_top_mm + g.rows * g.label_height_mm +
+                         (g.rows - 1) * g.gap_mm - page.height()) < 1e-6);
+        QVERIFY(g.label_width_mm > 60 &&
+                g.label_height_mm > 45); // room for a 24 mm QR code and the text
     }
     const LabelGrid one = label_grid(Paper::label62);
     QCOMPARE(one.label_width_mm, 62.0);
@@ -259,7 +300,9 @@ void TestPrint::outOfToleranceNeedsNoteAndCarriesMark() {
     QVERIFY(!pc.saveLabels(in.toVariantMap(), path, "label62"));
     QVERIFY(!QFile::exists(path));
     // The preview still evaluates it, and says it is out of tolerance.
-    QCOMPARE(pc.preview(in.toVariantMap()).value("batch").toMap().value("out_of_tolerance").toBool(), true);
+    QCOMPARE(
+        pc.preview(in.toVariantMap()).value("batch").toMap().value("out_of_tolerance").toBool(),
+        true);
 
     const auto job = phaseplan::print::build_print_job(shipped_data(), demo_with_batch(), "now");
     QVERIFY(!job.sheet.mark.isEmpty());
@@ -268,7 +311,8 @@ void TestPrint::outOfToleranceNeedsNoteAndCarriesMark() {
     bool notice = false;
     for (const auto& block : job.sheet.blocks)
         if (block.kind == phaseplan::print::Block::Kind::notice)
-            notice = block.items.size() == 1 && block.items[0].startsWith("Sodium dihydrogen phosphate monohydrate");
+            notice = block.items.size() == 1 &&
+                     block.items[0].startsWith("Sodium dihydrogen phosphate monohydrate");
     QVERIFY(notice);
     // Within tolerance: no mark.
     QJsonObject ok = demo_with_batch();
@@ -292,17 +336,21 @@ void TestPrint::controllerSavesSheetAndLabels() {
         flagged |= w.toMap().value("code").toString() == "amount-out-of-tolerance";
     QVERIFY(flagged); // 3.0855 g against 3.010 g is +2.5 %
 
-    const QString sheet = QUrl::fromLocalFile(dir_.filePath("sheet.pdf")).toString(); // QML hands file: URLs
+    const QString sheet =
+        QUrl::fromLocalFile(dir_.filePath("sheet.pdf")).toString(); // QML hands file: URLs
     QVERIFY2(pc.saveSheet(doc, sheet, "letter"), qPrintable(pc.lastError()));
     QVERIFY(pc.lastError().isEmpty());
     const QString text = pdftotext(dir_.filePath("sheet.pdf"));
-    QVERIFY(text.contains("HR-QC117-A-0042") && text.contains("SP-2207") && text.contains("Checked by"));
+    QVERIFY(text.contains("HR-QC117-A-0042") && text.contains("SP-2207") &&
+            text.contains("Checked by"));
     QCOMPARE(printed.count(), 1);
     QCOMPARE(printed.at(0).at(0).toString(), QString("HR-QC117-A-0042"));
 
-    QVERIFY2(pc.saveLabels(doc, dir_.filePath("label.pdf"), "label62", 2), qPrintable(pc.lastError()));
+    QVERIFY2(pc.saveLabels(doc, dir_.filePath("label.pdf"), "label62", 2),
+             qPrintable(pc.lastError()));
     QProcess r;
-    r.start("pdftoppm", {"-r", "300", "-png", "-f", "2", "-l", "2", dir_.filePath("label.pdf"), dir_.filePath("label")});
+    r.start("pdftoppm", {"-r", "300", "-png", "-f", "2", "-l", "2", dir_.filePath("label.pdf"),
+                         dir_.filePath("label")});
     QVERIFY(r.waitForFinished(60000));
     const QStringList pngs = QDir(dir_.path()).entryList({"label-*.png"});
     QCOMPARE(pngs.size(), 1); // page 2 exists: two copies
@@ -318,7 +366,8 @@ void TestPrint::controllerPrintsThroughQPrinter() {
     printer.setOutputFileName(dir_.filePath("printed.pdf"));
     const int pages = pc.paintSheet(printer, demo_with_batch().toVariantMap(), "a4");
     QVERIFY(pages >= 1);
-    QVERIFY(pdftotext(dir_.filePath("printed.pdf")).contains("page " + QString::number(pages) + " of " + QString::number(pages)));
+    QVERIFY(pdftotext(dir_.filePath("printed.pdf"))
+                .contains("page " + QString::number(pages) + " of " + QString::number(pages)));
     // With no printer named and none installed, print refuses and says what to do.
     if (pc.printers().isEmpty()) {
         QVERIFY(!pc.printSheet(demo_with_batch().toVariantMap()));

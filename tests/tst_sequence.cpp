@@ -582,7 +582,8 @@ void TestSequence::standbyUntilATimeOfDayMovesWithTheStart() {
     // 03:30 → 07:30 = 240 min. Started two days later at 21:15, they end 06:45 → 45 min.
     // Started at 23:00 they end 08:30, after 07:30: the standby runs to 07:30 the day after,
     // 23 h later (1380 min). Hand arithmetic on the clock, no source needed.
-    const QJsonObject demo = phaseplan::testing::read_json(SOURCE_DIR "/data/demo/overnight-sequence.json");
+    const QJsonObject demo =
+        phaseplan::testing::read_json(SOURCE_DIR "/data/demo/overnight-sequence.json");
     QCOMPARE(demo["standby"]["until"].toString(), QString("07:30"));
     auto run_at = [&](const char* start) { return run_sequence(set_path(demo, "start", start)); };
     QJsonObject out = run_at("2026-12-01T18:00:00");

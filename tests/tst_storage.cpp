@@ -29,12 +29,16 @@ using phaseplan::storage::SavedDocument;
 
 namespace {
 
-QJsonObject json(const char* text) { return QJsonDocument::fromJson(QByteArray(text)).object(); }
+QJsonObject json(const char* text) {
+    return QJsonDocument::fromJson(QByteArray(text)).object();
+}
 
 // Documents in the shape of the command-line contract (issue 2 and 3 field names).
 QJsonObject buffer_doc(double ph) {
-    return QJsonObject{{"target_ph", ph},       {"temperature_c", 25},
-                       {"volume_ml", 1000},     {"route", "mix"},
+    return QJsonObject{{"target_ph", ph},
+                       {"temperature_c", 25},
+                       {"volume_ml", 1000},
+                       {"route", "mix"},
                        {"acid", "sodium-dihydrogen-phosphate-monohydrate"},
                        {"base", "disodium-hydrogen-phosphate-heptahydrate"},
                        {"concentration_mol_per_l", 0.025}};
@@ -78,9 +82,8 @@ QByteArray file_bytes(const QString& path) {
 int run_helper(const QString& mode, const QString& path) {
     if (mode == "--first-run") {
         // Two of these start at once on a new file: each must open it, exactly one creates it.
-        Database db(path, -1, [](Database& d) {
-            d.save(DocumentKind::method, "seeded", method_doc());
-        });
+        Database db(path, -1,
+                    [](Database& d) { d.save(DocumentKind::method, "seeded", method_doc()); });
         std::printf("%s %zu\n", db.created() ? "created" : "opened", db.list_all().size());
         return 0;
     }
@@ -92,7 +95,8 @@ int run_helper(const QString& mode, const QString& path) {
             QThread::sleep(120); // killed long before this returns
         });
         // Overwrites a committed document and adds new ones: none of it may land.
-        db.save_all({SavedDocument{DocumentKind::buffer, "Phosphate pH 3.0", buffer_doc(9.9), "overwritten"},
+        db.save_all({SavedDocument{DocumentKind::buffer, "Phosphate pH 3.0", buffer_doc(9.9),
+                                   "overwritten"},
                      SavedDocument{DocumentKind::method, "half-saved method", method_doc(), {}},
                      SavedDocument{DocumentKind::line, "half-saved line", line_doc(), {}}});
         std::printf("committed (should not happen)\n");
@@ -100,8 +104,9 @@ int run_helper(const QString& mode, const QString& path) {
     }
     if (mode == "--save-forever") {
         for (int i = 1;; ++i) {
-            db.save_all({SavedDocument{DocumentKind::sequence, "counter", QJsonObject{{"n", i}}, {}},
-                         SavedDocument{DocumentKind::method, "counter copy", QJsonObject{{"n", i}}, {}}});
+            db.save_all(
+                {SavedDocument{DocumentKind::sequence, "counter", QJsonObject{{"n", i}}, {}},
+                 SavedDocument{DocumentKind::method, "counter copy", QJsonObject{{"n", i}}, {}}});
             std::printf("committed %d\n", i);
         }
     }
@@ -115,7 +120,7 @@ class TestStorage : public QObject {
     QTemporaryDir dir_;
     QString file(const QString& name) const { return dir_.filePath(name); }
 
-private slots:
+  private slots:
     void creates_file_with_wal_and_latest_schema() {
         const QString path = file("new/sub/folder/lab.sqlite");
         {
@@ -130,10 +135,11 @@ private slots:
     void save_reopen_equal() {
         const QString path = file("roundtrip.sqlite");
         const QJsonObject buf = buffer_doc(3.0), meth = method_doc(), line = line_doc();
-        const QJsonObject seq{{"methods", QJsonObject{{"assay", meth}}},
-                              {"lines", QJsonObject{{"A", line}}},
-                              {"sequence", QJsonArray{QJsonObject{{"method", "assay"}, {"injections", 40}}}},
-                              {"start", "2026-12-01T18:00:00"}};
+        const QJsonObject seq{
+            {"methods", QJsonObject{{"assay", meth}}},
+            {"lines", QJsonObject{{"A", line}}},
+            {"sequence", QJsonArray{QJsonObject{{"method", "assay"}, {"injections", 40}}}},
+            {"start", "2026-12-01T18:00:00"}};
         {
             Database db(path);
             db.save(DocumentKind::buffer, "Phosphate pH 3.0", buf, "for the impurity method");
@@ -152,8 +158,10 @@ private slots:
         QCOMPARE(db.load(DocumentKind::line, "A").value(), line);
         QCOMPARE(db.load(DocumentKind::sequence, "Tuesday night").value(), seq);
         QVERIFY(!db.load(DocumentKind::buffer, "assay").has_value()); // kinds are apart
-        QCOMPARE(db.info(DocumentKind::buffer, "Phosphate pH 3.0")->note, QString("for the impurity method"));
-        QCOMPARE(db.setting("current").toObject().value("sequence").toString(), QString("Tuesday night"));
+        QCOMPARE(db.info(DocumentKind::buffer, "Phosphate pH 3.0")->note,
+                 QString("for the impurity method"));
+        QCOMPARE(db.setting("current").toObject().value("sequence").toString(),
+                 QString("Tuesday night"));
         QCOMPARE(db.setting("shelf_life_days").toInt(), 7);
         QVERIFY(db.setting("never-set").isNull());
         QCOMPARE(db.list_all().size(), size_t(4));
@@ -217,9 +225,11 @@ private slots:
         QVERIFY(db.shipped_entries("notes").empty());
 
         // The lab corrects a shipped entry and adds its own.
-        db.save_user_entry("reagents", json(R"({"id": "acetic-acid", "name": "Acetic acid, our 99.8 % bottle"})"),
-                           "certificate of analysis, lot 2231");
-        db.save_user_entry("reagents", json(R"({"id": "lab-tris-maleate", "name": "Tris maleate"})"),
+        db.save_user_entry(
+            "reagents", json(R"({"id": "acetic-acid", "name": "Acetic acid, our 99.8 % bottle"})"),
+            "certificate of analysis, lot 2231");
+        db.save_user_entry("reagents",
+                           json(R"({"id": "lab-tris-maleate", "name": "Tris maleate"})"),
                            "lab measurement 2026-11-02");
 
         QVERIFY(db.sync_shipped_file("reagents.json", library_v2)); // data/ updated
@@ -228,10 +238,13 @@ private slots:
         auto merged = db.merged_entries("reagents");
         QCOMPARE(merged.size(), size_t(4));
         std::map<QString, phaseplan::storage::LibraryEntry> by_id;
-        for (auto& e : merged) by_id[e.id] = e;
-        QCOMPARE(by_id["acetic-acid"].document.value("name").toString(), QString("Acetic acid, our 99.8 % bottle"));
+        for (auto& e : merged)
+            by_id[e.id] = e;
+        QCOMPARE(by_id["acetic-acid"].document.value("name").toString(),
+                 QString("Acetic acid, our 99.8 % bottle"));
         QVERIFY(by_id["acetic-acid"].user_defined);
-        QCOMPARE(by_id["sodium-acetate"].document.value("name").toString(), QString("Sodium acetate, anhydrous"));
+        QCOMPARE(by_id["sodium-acetate"].document.value("name").toString(),
+                 QString("Sodium acetate, anhydrous"));
         QVERIFY(!by_id["sodium-acetate"].user_defined);
         QVERIFY(by_id.count("lab-tris-maleate"));
 
@@ -239,7 +252,8 @@ private slots:
         const QJsonObject mf = QJsonDocument::fromJson(db.merged_file("reagents.json")).object();
         const QJsonArray r = mf.value("reagents").toArray();
         QCOMPARE(r.size(), 4);
-        QCOMPARE(r[0].toObject().value("name").toString(), QString("Acetic acid, our 99.8 % bottle"));
+        QCOMPARE(r[0].toObject().value("name").toString(),
+                 QString("Acetic acid, our 99.8 % bottle"));
         QCOMPARE(r[2].toObject().value("id").toString(), QString("sodium-acetate-trihydrate"));
         QCOMPARE(r[3].toObject().value("id").toString(), QString("lab-tris-maleate"));
         QCOMPARE(mf.value("notes").toArray().size(), 1);
@@ -248,7 +262,8 @@ private slots:
         // Removing the lab's correction brings the shipped entry back.
         QVERIFY(db.remove_user_entry("reagents", "acetic-acid"));
         for (auto& e : db.merged_entries("reagents"))
-            if (e.id == "acetic-acid") QCOMPARE(e.document.value("name").toString(), QString("Acetic acid (glacial)"));
+            if (e.id == "acetic-acid")
+                QCOMPARE(e.document.value("name").toString(), QString("Acetic acid (glacial)"));
     }
 
     void migrate_from_older_data() {
@@ -264,9 +279,10 @@ private slots:
             Database old(path, from_version);
             QCOMPARE(old.schema_version(), from_version);
             // Written with the columns the old version has (v1: no note column).
-            old.exec("INSERT INTO buffers (name, document, created_at, updated_at) VALUES (?, ?, ?, ?)",
-                     {"old acetate", QString::fromUtf8(QJsonDocument(buf).toJson()),
-                      "2025-03-01T08:00:00.000Z", "2025-03-02T09:30:00.000Z"});
+            old.exec(
+                "INSERT INTO buffers (name, document, created_at, updated_at) VALUES (?, ?, ?, ?)",
+                {"old acetate", QString::fromUtf8(QJsonDocument(buf).toJson()),
+                 "2025-03-01T08:00:00.000Z", "2025-03-02T09:30:00.000Z"});
             old.exec("INSERT INTO settings (key, value) VALUES ('current', '[\"old acetate\"]')");
         }
         Database db(path);
@@ -338,7 +354,9 @@ private slots:
             } catch (const chem::Error& e) {
                 QCOMPARE(QString::fromStdString(e.field()), QString("database"));
                 const QString m = QString::fromStdString(e.message());
-                QVERIFY2(m.contains(path) && (m.contains("not PhasePlan") || m.contains("empty file")), e.what());
+                QVERIFY2(m.contains(path) &&
+                             (m.contains("not PhasePlan") || m.contains("empty file")),
+                         e.what());
                 QVERIFY2(m.contains("unchanged"), e.what());
             }
             QCOMPARE(file_bytes(path), before);
@@ -353,11 +371,13 @@ private slots:
         // (https://sqlite.org/fileformat.html, section 1.3): the file is made whole before use.
         const QByteArray head = file_bytes(path).left(100);
         QCOMPARE(head.size(), 100);
-        const quint32 id = (quint8(head[68]) << 24) | (quint8(head[69]) << 16) | (quint8(head[70]) << 8) | quint8(head[71]);
+        const quint32 id = (quint8(head[68]) << 24) | (quint8(head[69]) << 16) |
+                           (quint8(head[70]) << 8) | quint8(head[71]);
         QCOMPARE(id, quint32(phaseplan::storage::phaseplan_application_id));
     }
 
-    // Issue 9: a missing demo_seeded setting made the next start write the demo over the lab's edits.
+    // Issue 9: a missing demo_seeded setting made the next start write the demo over the lab's
+    // edits.
     void seed_runs_only_when_the_file_is_created() {
         const QString path = file("seeded.sqlite");
         int seeds = 0;
@@ -382,9 +402,9 @@ private slots:
     void failed_seed_leaves_no_file() {
         const QString path = file("seed-fails.sqlite");
         QVERIFY_THROWS_EXCEPTION(chem::Error, Database(path, -1, [](Database& d) {
-            d.save(DocumentKind::method, "half", method_doc());
-            throw chem::Error("seed", "stops here");
-        }));
+                                     d.save(DocumentKind::method, "half", method_doc());
+                                     throw chem::Error("seed", "stops here");
+                                 }));
         QVERIFY(!QFile::exists(path));
         Database db(path);
         QVERIFY(db.created());
@@ -420,7 +440,8 @@ private slots:
             Database db(path);
             QVERIFY(!db.writable());
             QVERIFY2(db.read_only_reason().contains(path), qPrintable(db.read_only_reason()));
-            QVERIFY2(db.read_only_reason().contains("locked by another program"), qPrintable(db.read_only_reason()));
+            QVERIFY2(db.read_only_reason().contains("locked by another program"),
+                     qPrintable(db.read_only_reason()));
             QVERIFY(db.list_all().empty()); // reading still works
             try {
                 db.save(DocumentKind::method, "x", method_doc());
@@ -438,7 +459,8 @@ private slots:
     }
 
     void read_only_file_opens_read_only_and_says_so() {
-        if (::geteuid() == 0) QSKIP("root writes through file permissions; covered by the locked case");
+        if (::geteuid() == 0)
+            QSKIP("root writes through file permissions; covered by the locked case");
         const QString path = file("readonly.sqlite");
         { Database db(path); }
         QFile::setPermissions(path, QFileDevice::ReadOwner);
@@ -451,7 +473,8 @@ private slots:
     void oversized_records_are_set_aside_and_named() {
         const QString path = file("big.sqlite");
         QJsonArray rows;
-        for (int i = 0; i < 10000; ++i) rows.append(QJsonObject{{"t_min", i}, {"A", 50}, {"B", 50}});
+        for (int i = 0; i < 10000; ++i)
+            rows.append(QJsonObject{{"t_min", i}, {"A", 50}, {"B", 50}});
         QJsonObject big = method_doc();
         big["gradient"] = rows;
         const QString long_name(1000000, QChar('n'));
@@ -465,9 +488,12 @@ private slots:
         Database db(path);
         QCOMPARE(db.set_aside().size(), size_t(2));
         QStringList named;
-        for (const auto& r : db.set_aside()) named << r.source + ":" + r.name + ":" + r.reason;
-        QVERIFY2(named.join("|").contains("methods:huge gradient:a list of 10000 entries"), qPrintable(named.join("|")));
-        QVERIFY2(named.join("|").contains("settings:current_plan:a text of 1000000 characters"), qPrintable(named.join("|")));
+        for (const auto& r : db.set_aside())
+            named << r.source + ":" + r.name + ":" + r.reason;
+        QVERIFY2(named.join("|").contains("methods:huge gradient:a list of 10000 entries"),
+                 qPrintable(named.join("|")));
+        QVERIFY2(named.join("|").contains("settings:current_plan:a text of 1000000 characters"),
+                 qPrintable(named.join("|")));
         QVERIFY(!db.load(DocumentKind::method, "huge gradient"));
         QVERIFY(db.setting("current_plan").isNull());
         QVERIFY(db.load(DocumentKind::method, "fine"));
@@ -475,13 +501,17 @@ private slots:
         QVERIFY(kept.next());
         QCOMPARE(kept.value(0).toInt(), 2); // kept in the file, not lost
         QVERIFY(kept.value(1).toLongLong() > 1000000);
-        QVERIFY_THROWS_EXCEPTION(chem::Error, db.save(DocumentKind::method, QString(201, 'x'), method_doc()));
+        QVERIFY_THROWS_EXCEPTION(chem::Error,
+                                 db.save(DocumentKind::method, QString(201, 'x'), method_doc()));
     }
 
     // Issue 9: a path containing %2 was garbled by chained .arg().
     void percent_sign_in_the_path_stays_in_the_message() {
         const QString path = file("lab %2 %1/future.sqlite");
-        { Database db(path); db.exec("PRAGMA user_version = 99"); }
+        {
+            Database db(path);
+            db.exec("PRAGMA user_version = 99");
+        }
         try {
             Database db(path);
             QFAIL("a newer schema was opened");
@@ -517,13 +547,15 @@ private slots:
         QVERIFY(!db.load(DocumentKind::method, "half-saved method"));
         QVERIFY(!db.load(DocumentKind::line, "half-saved line"));
         QCOMPARE(db.list_all().size(), size_t(1));
-        db.save(DocumentKind::method, "after the kill", method_doc()); // the file still takes writes
+        db.save(DocumentKind::method, "after the kill",
+                method_doc()); // the file still takes writes
         QCOMPARE(db.list_all().size(), size_t(2));
     }
 
     void kill_at_random_moments_loses_no_commit_data() {
         QTest::addColumn<int>("after_ms");
-        for (int ms : {40, 130, 310}) QTest::addRow("after %d ms", ms) << ms;
+        for (int ms : {40, 130, 310})
+            QTest::addRow("after %d ms", ms) << ms;
     }
     void kill_at_random_moments_loses_no_commit() {
         QFETCH(int, after_ms);
@@ -542,7 +574,8 @@ private slots:
         out += helper.readAllStandardOutput();
         int last_reported = 0;
         for (const QByteArray& l : out.split('\n'))
-            if (l.startsWith("committed ")) last_reported = l.mid(10).toInt();
+            if (l.startsWith("committed "))
+                last_reported = l.mid(10).toInt();
         QVERIFY(last_reported > 0);
 
         Database db(path);
@@ -552,7 +585,8 @@ private slots:
         const int stored = db.load(DocumentKind::sequence, "counter")->value("n").toInt();
         // Every commit the helper reported is there; at most the one in flight when killed more.
         QVERIFY2(stored == last_reported || stored == last_reported + 1,
-                 qPrintable(QStringLiteral("stored %1, last reported %2").arg(stored).arg(last_reported)));
+                 qPrintable(
+                     QStringLiteral("stored %1, last reported %2").arg(stored).arg(last_reported)));
         // Both rows of a save land together or not at all.
         QCOMPARE(db.load(DocumentKind::method, "counter copy")->value("n").toInt(), stored);
     }
@@ -560,8 +594,9 @@ private slots:
 
 int main(int argc, char** argv) {
     QCoreApplication app(argc, argv);
-    if (argc == 3 && (QByteArray(argv[1]) == "--hold-in-save" || QByteArray(argv[1]) == "--save-forever" ||
-                      QByteArray(argv[1]) == "--first-run"))
+    if (argc == 3 &&
+        (QByteArray(argv[1]) == "--hold-in-save" || QByteArray(argv[1]) == "--save-forever" ||
+         QByteArray(argv[1]) == "--first-run"))
         return run_helper(QString::fromLocal8Bit(argv[1]), QString::fromLocal8Bit(argv[2]));
     TestStorage t;
     return QTest::qExec(&t, argc, argv);

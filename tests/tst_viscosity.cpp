@@ -7,12 +7,12 @@
 #include "chem/viscosity.h"
 #include "core/app_data.h"
 
+#include "test_support.h"
 #include <QFile>
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
 #include <QProcess>
-#include "test_support.h"
 
 #include <QtTest>
 
@@ -71,17 +71,18 @@ class TestViscosity : public QObject {
     // recalled drifts low (−1.9 % at 90 °C, measured), so 2.5 % there.
     void waterAgainstIapws() {
         QProcess py;
-        py.start(QStringLiteral("/usr/bin/python3"),
-                 {QStringLiteral("-c"),
-                  QStringLiteral("from iapws import IAPWS95\n"
-                                 "from iapws._iapws import _Viscosity\n"
-                                 "for t in range(0, 91, 5):\n"
-                                 "    T = t + 273.15\n"
-                                 "    rho = IAPWS95(T=T, P=0.101325).rho\n"
-                                 "    print(t, _Viscosity(rho, T) * 1000)\n")});
+        py.start(
+            QStringLiteral("/usr/bin/python3"),
+            {QStringLiteral("-c"), QStringLiteral("from iapws import IAPWS95\n"
+                                                  "from iapws._iapws import _Viscosity\n"
+                                                  "for t in range(0, 91, 5):\n"
+                                                  "    T = t + 273.15\n"
+                                                  "    rho = IAPWS95(T=T, P=0.101325).rho\n"
+                                                  "    print(t, _Viscosity(rho, T) * 1000)\n")});
         QVERIFY2(py.waitForFinished(120000), "python3 did not finish");
         QVERIFY2(py.exitCode() == 0, py.readAllStandardError().constData());
-        const QStringList rows = QString::fromUtf8(py.readAllStandardOutput()).split('\n', Qt::SkipEmptyParts);
+        const QStringList rows =
+            QString::fromUtf8(py.readAllStandardOutput()).split('\n', Qt::SkipEmptyParts);
         QCOMPARE(rows.size(), 19);
         double worst60 = 0, worst90 = 0;
         for (const QString& r : rows) {
@@ -164,8 +165,8 @@ class TestViscosity : public QObject {
         for (auto it = vals.begin(); it != vals.end(); ++it) {
             const double calc = eta(it.key().toStdString(), 1.0, 25);
             const double dev = calc / it.value().toDouble() - 1;
-            qInfo("pure %s at 25 °C: %.3f mPa·s, handbook %.3f: %+.1f %%",
-                  qPrintable(it.key()), calc, it.value().toDouble(), 100 * dev);
+            qInfo("pure %s at 25 °C: %.3f mPa·s, handbook %.3f: %+.1f %%", qPrintable(it.key()),
+                  calc, it.value().toDouble(), 100 * dev);
             QVERIFY2(std::abs(dev) <= tol, qPrintable(it.key()));
         }
     }

@@ -8,8 +8,8 @@
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
-#include "devices/device_cli.h"
 #include "core/runtime_dir.h"
+#include "devices/device_cli.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -51,26 +51,37 @@ const std::map<std::string, Entry>& command_table() {
         {"recipe", {phaseplan::command_recipe, "amounts to weigh or pipette for a target pH"}},
         {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
         {"line", {phaseplan::command_line, "a mobile-phase line's parts for a bottle volume"}},
-        {"sequence", {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
+        {"sequence",
+         {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
         {"pressure", {phaseplan::command_pressure, "column pressure along a method's gradient"}},
-        {"transfer", {phaseplan::command_transfer, "move a method to another column (USP <621> scaling)"}},
-        {"eluent", {phaseplan::command_eluent, "pH of the water-organic eluent at a pump composition and temperature"}},
+        {"transfer",
+         {phaseplan::command_transfer, "move a method to another column (USP <621> scaling)"}},
+        {"eluent",
+         {phaseplan::command_eluent,
+          "pH of the water-organic eluent at a pump composition and temperature"}},
 #ifdef PHASEPLAN_WITH_PRINT
-        {"sheet", {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
-        {"labels", {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},
+        {"sheet",
+         {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)",
+          true}},
+        {"labels",
+         {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)",
+          true}},
 #endif
     };
     return table;
 }
 
 int usage(std::FILE* to) {
-    std::fprintf(to, "usage: phaseplan-cli COMMAND INPUT.json|- [-o OUT.pdf] [--paper a4|letter|label62]\n"
-                     "       [--follow-symlinks] [--data DIR]\ncommands:\n");
+    std::fprintf(
+        to, "usage: phaseplan-cli COMMAND INPUT.json|- [-o OUT.pdf] [--paper a4|letter|label62]\n"
+            "       [--follow-symlinks] [--data DIR]\ncommands:\n");
     for (const auto& [name, e] : command_table())
         std::fprintf(to, "  %-10s %s\n", name.c_str(), e.summary);
-    std::fprintf(to, "  %-10s %s\n", "device",
-                 "read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit U]:\n"
-                 "             one reading from a balance or pH meter; device formats: the line formats");
+    std::fprintf(
+        to, "  %-10s %s\n", "device",
+        "read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit "
+        "U]:\n"
+        "             one reading from a balance or pH meter; device formats: the line formats");
     return to == stdout ? 0 : 2;
 }
 
@@ -81,14 +92,18 @@ void fail(const std::string& full_line) {
     const std::string line = chem::guard::cut(full_line, 2000);
     std::string one_line;
     for (unsigned char ch : line) {
-        if (ch == '\n') one_line += "\\n";
-        else if (ch == '\r') one_line += "\\r";
-        else if (ch == '\t') one_line += "\\t";
+        if (ch == '\n')
+            one_line += "\\n";
+        else if (ch == '\r')
+            one_line += "\\r";
+        else if (ch == '\t')
+            one_line += "\\t";
         else if (ch < 0x20 || ch == 0x7f) {
             char buf[8];
             std::snprintf(buf, sizeof buf, "\\x%02x", ch);
             one_line += buf;
-        } else one_line += static_cast<char>(ch);
+        } else
+            one_line += static_cast<char>(ch);
     }
     std::cerr << "phaseplan-cli: " << one_line << std::endl;
 }
@@ -119,8 +134,8 @@ int run_device(int argc, char** argv) {
         }
     }
     try {
-        const QJsonObject out =
-            phaseplan::devices::device_command(args, data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+        const QJsonObject out = phaseplan::devices::device_command(
+            args, data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
         std::cout << QJsonDocument(out).toJson(QJsonDocument::Indented).toStdString();
         return 0;
     } catch (const chem::Error& e) {
@@ -137,26 +152,31 @@ QByteArray read_capped(QFile& in, const std::string& shown) {
     // A pipe hands over what it has: read until the end or one byte past the cap.
     QByteArray bytes;
     while (bytes.size() <= phaseplan::json::max_document_bytes) {
-        const QByteArray chunk =
-            in.read(std::min<qint64>(1 << 20, phaseplan::json::max_document_bytes + 1 - bytes.size()));
-        if (chunk.isEmpty()) break; // end of input (or a read error, reported by the parser)
+        const QByteArray chunk = in.read(
+            std::min<qint64>(1 << 20, phaseplan::json::max_document_bytes + 1 - bytes.size()));
+        if (chunk.isEmpty())
+            break; // end of input (or a read error, reported by the parser)
         bytes += chunk;
     }
     if (bytes.size() > phaseplan::json::max_document_bytes)
-        throw chem::Error("input", shown + " is larger than 16 MiB (16777216 bytes), the most one document may hold");
+        throw chem::Error(
+            "input",
+            shown + " is larger than 16 MiB (16777216 bytes), the most one document may hold");
     return bytes;
 }
 
 /// The error as one line: field and message joined here, not through what(), so a NUL in the
 /// input is escaped instead of ending the line.
-std::string error_line(const chem::Error& e) { return e.field() + ": " + e.message(); }
-
+std::string error_line(const chem::Error& e) {
+    return e.field() + ": " + e.message();
+}
 
 } // namespace
 
 int main(int argc, char** argv) {
     qInstallMessageHandler(qt_message);
-    if (argc > 1 && std::string(argv[1]) == "device") return run_device(argc, argv);
+    if (argc > 1 && std::string(argv[1]) == "device")
+        return run_device(argc, argv);
     std::string command;
     QString input_path;
     QString data_dir;
@@ -170,19 +190,27 @@ int main(int argc, char** argv) {
             }
             return argv[++i];
         };
-        if (a == "-h" || a == "--help") return usage(stdout);
-        if (a == "-o" || a == "--output") opt.output_path = QString::fromStdString(value("-o"));
-        else if (a == "--follow-symlinks") opt.follow_symlinks = true;
-        else if (a == "--paper") opt.paper = QString::fromStdString(value("--paper"));
-        else if (a == "--data") data_dir = QString::fromStdString(value("--data"));
-        else if (command.empty()) command = a;
-        else if (input_path.isEmpty()) input_path = QString::fromStdString(a);
+        if (a == "-h" || a == "--help")
+            return usage(stdout);
+        if (a == "-o" || a == "--output")
+            opt.output_path = QString::fromStdString(value("-o"));
+        else if (a == "--follow-symlinks")
+            opt.follow_symlinks = true;
+        else if (a == "--paper")
+            opt.paper = QString::fromStdString(value("--paper"));
+        else if (a == "--data")
+            data_dir = QString::fromStdString(value("--data"));
+        else if (command.empty())
+            command = a;
+        else if (input_path.isEmpty())
+            input_path = QString::fromStdString(a);
         else {
             fail("input: unexpected argument \"" + a + "\" (one input document only)");
             return 2;
         }
     }
-    if (command.empty()) return usage(stderr);
+    if (command.empty())
+        return usage(stderr);
     auto it = command_table().find(command);
     if (it == command_table().end()) {
         fail("command: unknown command \"" + command + "\" (try --help)");
@@ -194,13 +222,15 @@ int main(int argc, char** argv) {
 #ifdef PHASEPLAN_WITH_PRINT
     std::unique_ptr<phaseplan::PrivateRuntimeDir> runtime_dir;
     if (it->second.needs_gui) {
-        if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM")) qputenv("QT_QPA_PLATFORM", "offscreen");
+        if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM"))
+            qputenv("QT_QPA_PLATFORM", "offscreen");
         // A private runtime folder keeps Qt from warning on stderr (one line only on error).
         runtime_dir = std::make_unique<phaseplan::PrivateRuntimeDir>();
         app = std::make_unique<QGuiApplication>(argc, argv);
     }
 #endif
-    if (!app) app = std::make_unique<QCoreApplication>(argc, argv);
+    if (!app)
+        app = std::make_unique<QCoreApplication>(argc, argv);
 
     if (command != "reagents" && input_path.isEmpty()) {
         fail("input: give a JSON file path or - for standard input");
@@ -218,12 +248,16 @@ int main(int argc, char** argv) {
     try {
         QByteArray bytes;
         if (command != "reagents") {
-            const std::string shown = input_path == "-" ? std::string("standard input")
-                                                        : chem::guard::quote_id(input_path.toStdString());
+            const std::string shown = input_path == "-"
+                                          ? std::string("standard input")
+                                          : chem::guard::quote_id(input_path.toStdString());
             QFile in;
-            if (input_path != "-") in.setFileName(input_path);
-            if (input_path == "-" ? !in.open(stdin, QIODevice::ReadOnly) : !in.open(QIODevice::ReadOnly))
-                throw chem::Error("input", "cannot open " + shown + ": " + in.errorString().toStdString());
+            if (input_path != "-")
+                in.setFileName(input_path);
+            if (input_path == "-" ? !in.open(stdin, QIODevice::ReadOnly)
+                                  : !in.open(QIODevice::ReadOnly))
+                throw chem::Error("input",
+                                  "cannot open " + shown + ": " + in.errorString().toStdString());
             bytes = read_capped(in, shown);
         }
         QJsonObject input = command == "reagents" && bytes.isEmpty()

@@ -15,7 +15,8 @@ namespace phaseplan {
 
 QString find_data_dir() {
     const QString env = qEnvironmentVariable("PHASEPLAN_DATA_DIR");
-    if (!env.isEmpty()) return env;
+    if (!env.isEmpty())
+        return env;
     QStringList candidates;
     bool build_tree = true; // no application object: a test or a tool linked in the build
     if (QCoreApplication::instance()) {
@@ -25,11 +26,14 @@ QString find_data_dir() {
         // finds its own copy or fails, so a broken install cannot pass for a working one.
         build_tree = QFileInfo::exists(exe + "/CMakeCache.txt");
     }
-    if (build_tree) candidates << QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
+    if (build_tree)
+        candidates << QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR);
     for (const QString& c : candidates)
-        if (QFileInfo::exists(c + "/reagents.json")) return QDir(c).absolutePath();
+        if (QFileInfo::exists(c + "/reagents.json"))
+            return QDir(c).absolutePath();
     // Nothing found: name where an installed program looks, so the error says what is missing.
-    return build_tree ? QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR) : QDir::cleanPath(candidates.at(1));
+    return build_tree ? QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR)
+                      : QDir::cleanPath(candidates.at(1));
 }
 
 namespace {
@@ -38,15 +42,19 @@ QByteArray read_file(const QString& path) {
     QFile f(path);
     if (!f.open(QIODevice::ReadOnly))
         throw chem::Error(QFileInfo(path).fileName().toStdString(),
-                          "cannot open " + path.toStdString() + ": " + f.errorString().toStdString());
+                          "cannot open " + path.toStdString() + ": " +
+                              f.errorString().toStdString());
     return f.readAll();
 }
 
-std::vector<std::string> string_list(const QJsonObject& o, const QString& key, const std::string& parent) {
+std::vector<std::string> string_list(const QJsonObject& o, const QString& key,
+                                     const std::string& parent) {
     std::vector<std::string> out;
-    if (!o.contains(key)) return out;
+    if (!o.contains(key))
+        return out;
     const QJsonValue v = o.value(key);
-    if (!v.isArray()) throw chem::Error(json::path(parent, key), "must be an array of strings");
+    if (!v.isArray())
+        throw chem::Error(json::path(parent, key), "must be an array of strings");
     const QJsonArray a = v.toArray();
     for (int i = 0; i < a.size(); ++i) {
         if (!a.at(i).isString())
@@ -82,23 +90,28 @@ chem::AcidBaseSystem system_from_json(const QJsonObject& o, const std::string& a
             sh.organic = json::require_string(e, "organic", eat);
             sh.source = json::require_string(e, "source", eat);
             const QJsonArray pts = json::require_array(e, "points", eat);
-            if (pts.isEmpty()) throw chem::Error(json::path(eat, "points"), "needs at least one row");
+            if (pts.isEmpty())
+                throw chem::Error(json::path(eat, "points"), "needs at least one row");
             for (int k = 0; k < pts.size(); ++k) {
                 const std::string pat = json::path(json::path(eat, "points"), k);
                 const QJsonObject pt = json::element_object(pts, k, json::path(eat, "points"));
                 const double f = json::require_number(pt, "fraction_v", pat);
                 if (!(f > 0 && f <= 1) || (!sh.fraction_v.empty() && f <= sh.fraction_v.back()))
                     throw chem::Error(json::path(pat, "fraction_v"),
-                                      chem::format_number(f) + " is not in (0, 1] above the row before");
+                                      chem::format_number(f) +
+                                          " is not in (0, 1] above the row before");
                 const QJsonArray d = json::require_array(pt, "dpka", pat);
                 std::vector<double> row;
                 for (int q = 0; q < d.size(); ++q) {
-                    if (!d.at(q).isDouble()) throw chem::Error(json::path(json::path(pat, "dpka"), q), "must be a number");
+                    if (!d.at(q).isDouble())
+                        throw chem::Error(json::path(json::path(pat, "dpka"), q),
+                                          "must be a number");
                     row.push_back(d.at(q).toDouble());
                 }
                 if (row.empty() || static_cast<int>(row.size()) > s.steps())
-                    throw chem::Error(json::path(pat, "dpka"), "needs one shift per step, for up to " +
-                                                                   std::to_string(s.steps()) + " steps");
+                    throw chem::Error(json::path(pat, "dpka"),
+                                      "needs one shift per step, for up to " +
+                                          std::to_string(s.steps()) + " steps");
                 sh.fraction_v.push_back(f);
                 sh.dpka.push_back(row);
             }
@@ -126,8 +139,10 @@ chem::EluentSolvent eluent_solvent_from_json(const QJsonObject& o, const std::st
     for (const char* key : {"numerator", "denominator"}) {
         const QJsonArray a = json::require_array(d, key, dat);
         for (int q = 0; q < a.size(); ++q) {
-            if (!a.at(q).isDouble()) throw chem::Error(json::path(json::path(dat, key), q), "must be a number");
-            (std::string(key) == "numerator" ? e.delta_numerator : e.delta_denominator).push_back(a.at(q).toDouble());
+            if (!a.at(q).isDouble())
+                throw chem::Error(json::path(json::path(dat, key), q), "must be a number");
+            (std::string(key) == "numerator" ? e.delta_numerator : e.delta_denominator)
+                .push_back(a.at(q).toDouble());
         }
     }
     e.delta_max_fraction_v = json::require_number(d, "max_fraction_v", dat);
@@ -148,9 +163,13 @@ chem::Reagent reagent_from_json(const QJsonObject& o, const std::string& at) {
         throw chem::Error(json::path(at, "formula"), e.message());
     }
     const std::string form = json::optional_string(o, "form", at).value_or("solid");
-    if (form == "solid") r.form = chem::PhysicalForm::solid;
-    else if (form == "liquid") r.form = chem::PhysicalForm::liquid;
-    else throw chem::Error(json::path(at, "form"), "\"" + form + "\" is neither \"solid\" nor \"liquid\"");
+    if (form == "solid")
+        r.form = chem::PhysicalForm::solid;
+    else if (form == "liquid")
+        r.form = chem::PhysicalForm::liquid;
+    else
+        throw chem::Error(json::path(at, "form"),
+                          "\"" + form + "\" is neither \"solid\" nor \"liquid\"");
     r.assay_fraction = json::optional_number(o, "assay_percent", at).value_or(100.0) / 100.0;
     if (r.form == chem::PhysicalForm::liquid)
         r.density_g_per_ml = json::require_positive(o, "density_g_per_ml", at, 25.0);
@@ -205,8 +224,8 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
             for (int i = 0; i < es.size(); ++i) {
                 const std::string at = json::path("eluent_solvents", i);
                 try {
-                    lib.add_eluent_solvent(
-                        eluent_solvent_from_json(json::element_object(es, i, "eluent_solvents"), at));
+                    lib.add_eluent_solvent(eluent_solvent_from_json(
+                        json::element_object(es, i, "eluent_solvents"), at));
                 } catch (const chem::Error& err) {
                     throw err.field().rfind("eluent_solvents[", 0) == 0 ? err : err.within(at);
                 }
@@ -233,7 +252,8 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
         for (int i = 0; i < reagents.size(); ++i) {
             const std::string at = json::path("reagents", i);
             try {
-                lib.add_reagent(reagent_from_json(json::element_object(reagents, i, "reagents"), at));
+                lib.add_reagent(
+                    reagent_from_json(json::element_object(reagents, i, "reagents"), at));
             } catch (const chem::Error& e) {
                 throw e.field().rfind("reagents[", 0) == 0 ? e : e.within(at);
             }

@@ -11,13 +11,14 @@
 namespace phaseplan {
 
 struct AppData {
-    QString data_dir;        ///< where it was loaded from
-    chem::Library reagents;  ///< data/reagents.json
+    QString data_dir;              ///< where it was loaded from
+    chem::Library reagents;        ///< data/reagents.json
     chem::SolventLibrary solvents; ///< data/solvents.json
 };
 
 /// The data folder: $PHASEPLAN_DATA_DIR if set, else <executable dir>/data, else
-/// <executable dir>/../share/phaseplan/data, else the source tree's data/ (PHASEPLAN_SOURCE_DATA_DIR).
+/// <executable dir>/../share/phaseplan/data, else the source tree's data/
+/// (PHASEPLAN_SOURCE_DATA_DIR).
 QString find_data_dir();
 
 /// Loads every reference file in `dir`. Throws chem::Error whose field names the file and the

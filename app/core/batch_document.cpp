@@ -22,11 +22,14 @@ namespace phaseplan {
 
 namespace {
 
-QString qs(const std::string& s) { return QString::fromStdString(s); }
+QString qs(const std::string& s) {
+    return QString::fromStdString(s);
+}
 
 /// About four significant figures, as the sheet prints amounts.
 QString amount_text(double v) {
-    if (v == 0) return QStringLiteral("0");
+    if (v == 0)
+        return QStringLiteral("0");
     const double a = std::abs(v);
     const int decimals = a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4;
     return QString::number(v, 'f', decimals);
@@ -58,7 +61,8 @@ QJsonObject check_to_json(const chem::AmountCheck& c, const QString& name) {
         o["actual"] = c.actual;
         o["deviation_percent"] = c.deviation_fraction * 100;
     }
-    if (!c.lot.empty()) o["lot"] = qs(c.lot);
+    if (!c.lot.empty())
+        o["lot"] = qs(c.lot);
     return o;
 }
 
@@ -73,9 +77,11 @@ struct WarningList {
         QJsonObject o = warning_to_json(w);
         if (checks)
             for (const auto& c : *checks) {
-                if (w.message.rfind(c.reagent + ":", 0) != 0) continue;
+                if (w.message.rfind(c.reagent + ":", 0) != 0)
+                    continue;
                 // The screens' name in place of the id that leads the core's message.
-                o["message"] = part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
+                o["message"] =
+                    part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
                 if (w.code == "amount-out-of-tolerance" && !c.within_tolerance) {
                     o["reagent"] = qs(c.reagent);
                     o["unit"] = qs(c.unit);
@@ -89,19 +95,21 @@ struct WarningList {
     }
     void add(const QJsonObject& w) {
         const QString key = w.value("code").toString() + "\n" + w.value("message").toString();
-        if (seen.contains(key)) return;
+        if (seen.contains(key))
+            return;
         seen.insert(key);
         json.append(w);
     }
 };
 
 QString reason_text(const AppData& data, const chem::AmountCheck& c) {
-    return part_display_name(data, c.reagent) + ": " + amount_text(c.actual) + " " + qs(c.unit) + ", " +
-           signed_percent(c.deviation_fraction) + " (band " + amount_text(c.low) + "–" + amount_text(c.high) +
-           " " + qs(c.unit) + ")";
+    return part_display_name(data, c.reagent) + ": " + amount_text(c.actual) + " " + qs(c.unit) +
+           ", " + signed_percent(c.deviation_fraction) + " (band " + amount_text(c.low) + "–" +
+           amount_text(c.high) + " " + qs(c.unit) + ")";
 }
 
-void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& checks, BatchDocument& d) {
+void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& checks,
+                 BatchDocument& d) {
     for (const auto& c : checks)
         if (c.entered && !c.within_tolerance) {
             d.out_of_tolerance = true;
@@ -109,14 +117,16 @@ void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& chec
         }
 }
 
-void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double target_ph, BatchDocument& d) {
-    if (!r.measured_ph_out || !b.measured_ph) return;
+void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double target_ph,
+                   BatchDocument& d) {
+    if (!r.measured_ph_out || !b.measured_ph)
+        return;
     d.out_of_tolerance = true;
     const double dev = *b.measured_ph - target_ph;
     d.out_of_tolerance_reasons << "Measured pH " + QString::number(*b.measured_ph, 'f', 2) + ", " +
-                                      (dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) + " from the target " +
-                                      QString::number(target_ph, 'f', 2) + " (± " +
-                                      qs(chem::format_number(b.ph_tolerance)) + ")";
+                                      (dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) +
+                                      " from the target " + QString::number(target_ph, 'f', 2) +
+                                      " (± " + qs(chem::format_number(b.ph_tolerance)) + ")";
 }
 
 /// The correction in words; `prefix` names the part of a line it is for ("" for a recipe).
@@ -124,7 +134,8 @@ void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double targ
 QStringList correction_words(const AppData& data, const chem::Correction& c, const QString& prefix,
                              bool made_up = true) {
     QStringList out;
-    if (!c.needed) return out;
+    if (!c.needed)
+        return out;
     if (c.remake) {
         out << prefix + "Remake the batch: " + qs(c.remake_reason) + ".";
         return out;
@@ -133,56 +144,82 @@ QStringList correction_words(const AppData& data, const chem::Correction& c, con
         const QString name = part_display_name(data, s.reagent);
         const QString u = " " + qs(s.unit);
         if (!s.entered)
-            out << prefix + (s.unit == "g" ? "Weigh " : "Measure ") + amount_text(s.add) + u + " of " + name +
-                       (c.scale > 1 ? " (scaled from " + amount_text(s.target) + u + ")" : QString()) + ".";
+            out << prefix + (s.unit == "g" ? "Weigh " : "Measure ") + amount_text(s.add) + u +
+                       " of " + name +
+                       (c.scale > 1 ? " (scaled from " + amount_text(s.target) + u + ")"
+                                    : QString()) +
+                       ".";
         else if (s.add > 0)
-            out << prefix + "Add " + amount_text(s.add) + u + " of " + name + " (to " + amount_text(s.after) + u +
+            out << prefix + "Add " + amount_text(s.add) + u + " of " + name + " (to " +
+                       amount_text(s.after) + u +
                        (c.scale > 1 ? ", the scaled target" : QString()) + ").";
     }
     if (c.scale > 1)
-        out << prefix + (made_up ? "Make up to " : "The line then holds ") + amount_text(c.final_volume_ml) +
-                   " mL instead of " + amount_text(c.planned_volume_ml) + " mL (all amounts × " +
+        out << prefix + (made_up ? "Make up to " : "The line then holds ") +
+                   amount_text(c.final_volume_ml) + " mL instead of " +
+                   amount_text(c.planned_volume_ml) + " mL (all amounts × " +
                    QString::number(c.scale, 'f', 4) + "), then relabel the volume.";
-    if (out.isEmpty()) out << prefix + "Nothing to add: every amount is within its band after scaling.";
+    if (out.isEmpty())
+        out << prefix + "Nothing to add: every amount is within its band after scaling.";
     return out;
 }
 
-QJsonObject correction_json(const AppData& data, const chem::Correction& c, const QStringList& text) {
+QJsonObject correction_json(const AppData& data, const chem::Correction& c,
+                            const QStringList& text) {
     QJsonArray steps;
     for (const auto& s : c.steps) {
-        QJsonObject o{{"reagent", qs(s.reagent)}, {"name", part_display_name(data, s.reagent)},
-                      {"unit", qs(s.unit)}, {"target", s.target}, {"new_target", s.new_target},
-                      {"entered", s.entered}, {"add", s.add}, {"after", s.after}};
-        if (s.entered) o["actual"] = s.actual;
+        QJsonObject o{{"reagent", qs(s.reagent)},
+                      {"name", part_display_name(data, s.reagent)},
+                      {"unit", qs(s.unit)},
+                      {"target", s.target},
+                      {"new_target", s.new_target},
+                      {"entered", s.entered},
+                      {"add", s.add},
+                      {"after", s.after}};
+        if (s.entered)
+            o["actual"] = s.actual;
         steps.append(o);
     }
-    QJsonObject o{{"remake", c.remake}, {"scale", c.scale}, {"planned_volume_ml", c.planned_volume_ml},
-                  {"final_volume_ml", c.final_volume_ml}, {"steps", steps},
+    QJsonObject o{{"remake", c.remake},
+                  {"scale", c.scale},
+                  {"planned_volume_ml", c.planned_volume_ml},
+                  {"final_volume_ml", c.final_volume_ml},
+                  {"steps", steps},
                   {"text", QJsonArray::fromStringList(text)}};
-    if (c.container_ml) o["container_ml"] = *c.container_ml;
-    if (c.remake) o["remake_reason"] = qs(c.remake_reason);
+    if (c.container_ml)
+        o["container_ml"] = *c.container_ml;
+    if (c.remake)
+        o["remake_reason"] = qs(c.remake_reason);
     return o;
 }
 
 QJsonObject batch_summary(const chem::Batch& batch, const QString& expires_at, double shelf_h) {
-    QJsonObject b{{"id", qs(batch.id)}, {"tolerance_percent", batch.tolerance_fraction * 100},
-                  {"shelf_life_h", shelf_h}, {"ph_tolerance", batch.ph_tolerance}};
+    QJsonObject b{{"id", qs(batch.id)},
+                  {"tolerance_percent", batch.tolerance_fraction * 100},
+                  {"shelf_life_h", shelf_h},
+                  {"ph_tolerance", batch.ph_tolerance}};
     auto put = [&](const char* key, const std::string& v) {
-        if (!v.empty()) b[key] = qs(v);
+        if (!v.empty())
+            b[key] = qs(v);
     };
     put("prepared_by", batch.prepared_by);
     put("prepared_at", batch.prepared_at);
-    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
+    if (!expires_at.isEmpty())
+        b["expires_at"] = expires_at;
     put("checked_by", batch.checked_by);
     put("ph_meter_id", batch.ph_meter_id);
     put("balance_id", batch.balance_id);
     put("comment", batch.comment);
-    if (batch.measured_ph) b["measured_ph"] = *batch.measured_ph;
-    if (batch.container_ml) b["container_ml"] = *batch.container_ml;
+    if (batch.measured_ph)
+        b["measured_ph"] = *batch.measured_ph;
+    if (batch.container_ml)
+        b["container_ml"] = *batch.container_ml;
     if (!batch.deviation_note.empty()) {
         QJsonObject dev{{"note", qs(batch.deviation_note)}};
-        if (!batch.deviation_by.empty()) dev["by"] = qs(batch.deviation_by);
-        if (!batch.deviation_at.empty()) dev["at"] = qs(batch.deviation_at);
+        if (!batch.deviation_by.empty())
+            dev["by"] = qs(batch.deviation_by);
+        if (!batch.deviation_at.empty())
+            dev["at"] = qs(batch.deviation_at);
         b["deviation"] = dev;
     }
     return b;
@@ -191,41 +228,49 @@ QJsonObject batch_summary(const chem::Batch& batch, const QString& expires_at, d
 QJsonArray steps_json(const QList<StepSection>& sections) {
     QJsonArray a;
     for (const StepSection& s : sections)
-        a.append(QJsonObject{{"heading", s.heading}, {"steps", QJsonArray::fromStringList(s.steps)}});
+        a.append(
+            QJsonObject{{"heading", s.heading}, {"steps", QJsonArray::fromStringList(s.steps)}});
     return a;
 }
 
 QStringList strings_of(const QJsonValue& v) {
     QStringList out;
-    for (const QJsonValue& x : v.toArray()) out << x.toString();
+    for (const QJsonValue& x : v.toArray())
+        out << x.toString();
     return out;
 }
 
 /// Runs a batch against a sub-recipe (a line's buffer) whose amounts are a subset of the batch's:
 /// errors name the entry's index in the whole "batch.actual" list.
-chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe, const chem::Batch& whole,
-                                  const std::vector<int>& indexes, double shelf_h) {
+chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe,
+                                  const chem::Batch& whole, const std::vector<int>& indexes,
+                                  double shelf_h) {
     chem::Batch sub = whole;
     sub.actual.clear();
-    for (int i : indexes) sub.actual.push_back(whole.actual[i]);
+    for (int i : indexes)
+        sub.actual.push_back(whole.actual[i]);
     try {
         return chem::evaluate_batch(lib, recipe, sub, shelf_h);
     } catch (const chem::Error& e) {
         static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
         const QString f = qs(e.field());
         const auto m = re.match(f);
-        if (!m.hasMatch()) throw;
+        if (!m.hasMatch())
+            throw;
         const int k = m.captured(1).toInt();
         const int original = k < int(indexes.size()) ? indexes[k] : k;
-        throw chem::Error(("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength())).toStdString(),
-                          e.message());
+        throw chem::Error(
+            ("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength()))
+                .toStdString(),
+            e.message());
     }
 }
 
 void finish_tolerance(const AppData& data, BatchDocument& d, QJsonObject& b) {
     b["out_of_tolerance"] = d.out_of_tolerance;
     b["out_of_tolerance_reasons"] = QJsonArray::fromStringList(d.out_of_tolerance_reasons);
-    if (d.correction && d.correction->needed) b["correction"] = correction_json(data, *d.correction, d.correction_text);
+    if (d.correction && d.correction->needed)
+        b["correction"] = correction_json(data, *d.correction, d.correction_text);
     b["steps"] = steps_json(d.steps);
 }
 
@@ -236,8 +281,10 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
     const chem::RecipeRequest req = recipe_request_from_json(lib, input, "");
     d.recipe = chem::design_recipe(lib, req);
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
-    d.shelf_life_h = d.shelf_override.value_or(default_shelf_life_h(data, "aqueous-buffer", &d.shelf_source));
-    if (d.shelf_override) d.shelf_source = QStringLiteral("entered");
+    d.shelf_life_h =
+        d.shelf_override.value_or(default_shelf_life_h(data, "aqueous-buffer", &d.shelf_source));
+    if (d.shelf_override)
+        d.shelf_source = QStringLiteral("entered");
     d.shelf_kind = QStringLiteral("an aqueous buffer");
     d.result = chem::evaluate_batch(lib, *d.recipe, d.batch, d.shelf_life_h);
     const chem::BatchResult& res = *d.result;
@@ -247,17 +294,21 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
 
     add_reasons(data, res.checks, d);
     add_ph_reason(res, d.batch, req.target_ph, d);
-    d.correction = chem::suggest_correction(res.checks, d.batch.tolerance_fraction, req.volume_ml, d.batch.container_ml);
+    d.correction = chem::suggest_correction(res.checks, d.batch.tolerance_fraction, req.volume_ml,
+                                            d.batch.container_ml);
     d.correction_text = correction_words(data, *d.correction, {});
 
     WarningList warnings{{}, {}, &data};
-    for (const auto& w : d.recipe->warnings) warnings.add(w);
-    for (const auto& w : res.warnings) warnings.add(w, &res.checks);
+    for (const auto& w : d.recipe->warnings)
+        warnings.add(w);
+    for (const auto& w : res.warnings)
+        warnings.add(w, &res.checks);
     d.warnings = warnings.json;
 
     QJsonObject b = batch_summary(d.batch, d.expires_at, d.shelf_life_h);
     QJsonArray checks, composition;
-    for (const auto& c : res.checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+    for (const auto& c : res.checks)
+        checks.append(check_to_json(c, part_display_name(data, c.reagent)));
     for (const auto& c : res.composition)
         composition.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
     b["final_volume_ml"] = res.final_volume_ml;
@@ -267,8 +318,12 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
     b["ionic_strength_mol_per_l"] = res.predicted.ionic_strength_mol_per_l;
     b["buffer_capacity_mol_per_l"] = res.predicted.buffer_capacity_mol_per_l;
     finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"target_ph", req.target_ph},
-                            {"planned_ph", d.recipe->predicted.ph}, {"batch", b}, {"warnings", d.warnings}};
+    d.summary = QJsonObject{{"document", d.kind},
+                            {"title", d.title},
+                            {"target_ph", req.target_ph},
+                            {"planned_ph", d.recipe->predicted.ph},
+                            {"batch", b},
+                            {"warnings", d.warnings}};
 }
 
 // ---- line -------------------------------------------------------------------------------------
@@ -289,8 +344,10 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
     const chem::Batch& batch = d.batch;
     const QJsonObject shelf = d.line_out.value("shelf_life").toObject();
-    d.shelf_life_h = d.shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
-    d.shelf_source = d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
+    d.shelf_life_h =
+        d.shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
+    d.shelf_source =
+        d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
     d.shelf_kind = QStringLiteral("kind ") + shelf.value("kind").toString();
     d.expires_at = qs(chem::check_batch_fields(batch, d.shelf_life_h));
     d.title = d.line_out.value("name").toString();
@@ -301,12 +358,15 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     std::vector<int> buffer_entries;
     std::set<std::string> buffer_ids;
     if (lr.buffer)
-        for (const auto& it : lr.buffer->items) buffer_ids.insert(it.reagent);
+        for (const auto& it : lr.buffer->items)
+            buffer_ids.insert(it.reagent);
     std::set<std::string> part_ids;
     std::string known;
     for (const auto& it : lr.items)
-        if (part_ids.insert(it.part).second) known += (known.empty() ? "" : ", ") + it.part;
-    for (const auto& id : buffer_ids) known += ", buffer." + id;
+        if (part_ids.insert(it.part).second)
+            known += (known.empty() ? "" : ", ") + it.part;
+    for (const auto& id : buffer_ids)
+        known += ", buffer." + id;
     chem::Batch batch_for_buffer = batch;
     for (size_t i = 0; i < batch.actual.size(); ++i) {
         const std::string& r = batch.actual[i].reagent;
@@ -315,12 +375,14 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
             batch_for_buffer.actual[i].reagent = r.substr(7);
             buffer_entries.push_back(int(i));
         } else if (part_ids.count(r)) {
-            if (part_entry.count(r)) throw chem::Error(at, "\"" + r + "\" is given twice");
+            if (part_entry.count(r))
+                throw chem::Error(at, "\"" + r + "\" is given twice");
             part_entry[r] = int(i);
         } else if (buffer_ids.count(r)) {
             buffer_entries.push_back(int(i));
         } else {
-            throw chem::Error(at, "\"" + r + "\" is not a part of this line (its parts: " + known + ")");
+            throw chem::Error(at, "\"" + r + "\" is not a part of this line (its parts: " + known +
+                                      ")");
         }
     }
 
@@ -334,26 +396,34 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
             const chem::ActualAmount& a = batch.actual[e->second];
             const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
             unit = a.mass_g ? "g" : "mL";
-            if (unit == "g" && !it.mass_g) throw chem::Error(at + ".mass_g", it.part + " has no target mass: give volume_ml");
-            if (unit == "mL" && !it.volume_ml) throw chem::Error(at + ".volume_ml", it.part + " has no target volume: give mass_g");
+            if (unit == "g" && !it.mass_g)
+                throw chem::Error(at + ".mass_g", it.part + " has no target mass: give volume_ml");
+            if (unit == "mL" && !it.volume_ml)
+                throw chem::Error(at + ".volume_ml",
+                                  it.part + " has no target volume: give mass_g");
             actual = a.mass_g ? a.mass_g : a.volume_ml;
             lot = a.lot;
         }
         const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
-        chem::AmountCheck c = chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
+        chem::AmountCheck c =
+            chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
         c.lot = lot;
         d.part_checks.push_back(c);
     }
     for (const auto& c : d.part_checks)
-        if (!c.within_tolerance) warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction), &d.part_checks);
+        if (!c.within_tolerance)
+            warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction),
+                         &d.part_checks);
     add_reasons(data, d.part_checks, d);
 
     if (lr.buffer) {
-        d.result = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries, d.shelf_life_h);
+        d.result = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries,
+                                   d.shelf_life_h);
         add_reasons(data, d.result->checks, d);
         add_ph_reason(*d.result, batch, lr.buffer->request.target_ph, d);
         QStringList bs;
-        for (const auto& s : lr.buffer->steps) bs << qs(s);
+        for (const auto& s : lr.buffer->steps)
+            bs << qs(s);
         d.steps << StepSection{QStringLiteral("Buffer steps"), bs};
     }
     d.steps << StepSection{lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"),
@@ -362,34 +432,43 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     // Corrections: the parts against the bottle, the buffer against its container.
     const std::optional<double> bottle =
         batch.container_ml ? batch.container_ml
-                           : (input.value("bottle_ml").isDouble() ? std::optional<double>(input.value("bottle_ml").toDouble())
-                                                                  : std::nullopt);
-    chem::Correction parts = chem::suggest_correction(d.part_checks, batch.tolerance_fraction, volume, bottle);
+                           : (input.value("bottle_ml").isDouble()
+                                  ? std::optional<double>(input.value("bottle_ml").toDouble())
+                                  : std::nullopt);
+    chem::Correction parts =
+        chem::suggest_correction(d.part_checks, batch.tolerance_fraction, volume, bottle);
     if (parts.needed) {
         d.correction = parts;
         d.correction_text << correction_words(data, parts, {}, false);
     }
     if (d.result) {
-        chem::Correction buf = chem::suggest_correction(d.result->checks, batch.tolerance_fraction,
-                                                        lr.buffer->request.volume_ml, batch.container_ml);
+        chem::Correction buf =
+            chem::suggest_correction(d.result->checks, batch.tolerance_fraction,
+                                     lr.buffer->request.volume_ml, batch.container_ml);
         if (buf.needed) {
-            if (!d.correction) d.correction = buf;
+            if (!d.correction)
+                d.correction = buf;
             d.correction_text << correction_words(data, buf, QStringLiteral("Aqueous buffer: "));
         }
     }
 
-    for (const QJsonValue& w : d.line_out.value("warnings").toArray()) warnings.add(w.toObject());
+    for (const QJsonValue& w : d.line_out.value("warnings").toArray())
+        warnings.add(w.toObject());
     if (lr.buffer) {
-        for (const auto& w : lr.buffer->warnings) warnings.add(w);
-        for (const auto& w : d.result->warnings) warnings.add(w, &d.result->checks);
+        for (const auto& w : lr.buffer->warnings)
+            warnings.add(w);
+        for (const auto& w : d.result->warnings)
+            warnings.add(w, &d.result->checks);
     }
     d.warnings = warnings.json;
 
     QJsonObject b = batch_summary(batch, d.expires_at, d.shelf_life_h);
     QJsonArray checks;
-    for (const auto& c : d.part_checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+    for (const auto& c : d.part_checks)
+        checks.append(check_to_json(c, part_display_name(data, c.reagent)));
     if (d.result)
-        for (const auto& c : d.result->checks) checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+        for (const auto& c : d.result->checks)
+            checks.append(check_to_json(c, part_display_name(data, c.reagent)));
     b["checks"] = checks;
     if (d.result) {
         QJsonArray comp;
@@ -401,9 +480,13 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         b["buffer_capacity_mol_per_l"] = d.result->predicted.buffer_capacity_mol_per_l;
     }
     finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"volume_ml", volume}, {"batch", b},
+    d.summary = QJsonObject{{"document", d.kind},
+                            {"title", d.title},
+                            {"volume_ml", volume},
+                            {"batch", b},
                             {"warnings", d.warnings}};
-    if (lr.buffer) d.summary["target_ph"] = lr.buffer->request.target_ph;
+    if (lr.buffer)
+        d.summary["target_ph"] = lr.buffer->request.target_ph;
 }
 
 // ---- sequence ---------------------------------------------------------------------------------
@@ -414,48 +497,63 @@ void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument&
     d.sequence_out = command_sequence(data, doc, {});
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
     if (!d.batch.actual.empty())
-        throw chem::Error("batch.actual", "a sequence sheet takes no amounts: print each line's own sheet "
-                                          "(phaseplan-cli sheet on the line) to record them");
+        throw chem::Error("batch.actual",
+                          "a sequence sheet takes no amounts: print each line's own sheet "
+                          "(phaseplan-cli sheet on the line) to record them");
     const QJsonObject lines_out = d.sequence_out.value("lines").toObject();
     double shortest = 1e9;
     for (const QString& key : lines_out.keys())
-        shortest = std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
+        shortest =
+            std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
     d.shelf_life_h = d.shelf_override.value_or(shortest < 1e9 ? shortest : 48);
     d.expires_at = qs(chem::check_batch_fields(d.batch, d.shelf_life_h));
     d.title = input.value("name").isString()
                   ? input.value("name").toString()
-                  : "Sequence from " + d.sequence_out.value("start").toString().left(16).replace('T', ' ') + ", " +
+                  : "Sequence from " +
+                        d.sequence_out.value("start").toString().left(16).replace('T', ' ') + ", " +
                         QString::number(d.sequence_out.value("injections").toInt()) + " injections";
     WarningList warnings{{}, {}, &data};
-    for (const QJsonValue& w : d.sequence_out.value("warnings").toArray()) warnings.add(w.toObject());
+    for (const QJsonValue& w : d.sequence_out.value("warnings").toArray())
+        warnings.add(w.toObject());
     d.warnings = warnings.json;
     QJsonObject b = batch_summary(d.batch, d.expires_at, shortest < 1e9 ? shortest : 48);
     finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind}, {"title", d.title}, {"batch", b},
-                            {"end", d.sequence_out.value("end")}, {"warnings", d.warnings}};
+    d.summary = QJsonObject{{"document", d.kind},
+                            {"title", d.title},
+                            {"batch", b},
+                            {"end", d.sequence_out.value("end")},
+                            {"warnings", d.warnings}};
 }
 
 } // namespace
 
 QJsonObject read_capture(const QJsonValue& v, const std::string& at) {
-    if (!v.isObject()) throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
+    if (!v.isObject())
+        throw chem::Error(at, "must be an object {device_id, raw, received_at, …}");
     const QJsonObject c = v.toObject();
     for (const char* k : {"device_id", "raw", "received_at"})
         if (!c.value(k).isString() || c.value(k).toString().trimmed().isEmpty())
-            throw chem::Error(at + "." + k, "is required: a captured value names its instrument, the line it sent and when");
+            throw chem::Error(
+                at + "." + k,
+                "is required: a captured value names its instrument, the line it sent and when");
     for (const char* k : {"device_kind", "device_name", "calibration_due", "calibration_caution"})
-        if (c.contains(k) && !c.value(k).isString()) throw chem::Error(at + "." + k, "must be a string");
+        if (c.contains(k) && !c.value(k).isString())
+            throw chem::Error(at + "." + k, "must be a string");
     for (const char* k : {"stable", "accepted_unstable"})
-        if (c.contains(k) && !c.value(k).isBool()) throw chem::Error(at + "." + k, "must be true or false");
+        if (c.contains(k) && !c.value(k).isBool())
+            throw chem::Error(at + "." + k, "must be true or false");
     return c;
 }
 
 QString batch_document_kind(const QJsonObject& input) {
     if (input.contains("plans"))
-        throw chem::Error("plans", "a sheet or labels print one plan: give one entry of plans[] as its own "
-                                   "sequence document, with its batch");
-    if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
-    if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
+        throw chem::Error("plans",
+                          "a sheet or labels print one plan: give one entry of plans[] as its own "
+                          "sequence document, with its batch");
+    if (input.contains("lines") && input.contains("sequence"))
+        return QStringLiteral("sequence");
+    if (input.contains("parts") || input.contains("bottle_ml"))
+        return QStringLiteral("line");
     return QStringLiteral("recipe");
 }
 
@@ -469,10 +567,12 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
     b.prepared_at = json::optional_string(o, "prepared_at", at).value_or("");
     b.expires_at = json::optional_string(o, "expires_at", at).value_or("");
     b.checked_by = json::optional_string(o, "checked_by", at).value_or("");
-    if (auto t = json::optional_number(o, "tolerance_percent", at)) b.tolerance_fraction = *t / 100.0;
+    if (auto t = json::optional_number(o, "tolerance_percent", at))
+        b.tolerance_fraction = *t / 100.0;
     b.final_volume_ml = json::optional_positive(o, "final_volume_ml", at, 1.0e6);
     b.measured_ph = json::optional_number(o, "measured_ph", at);
-    if (auto t = json::optional_number(o, "ph_tolerance", at)) b.ph_tolerance = *t;
+    if (auto t = json::optional_number(o, "ph_tolerance", at))
+        b.ph_tolerance = *t;
     b.ph_meter_id = json::optional_string(o, "ph_meter_id", at).value_or("");
     b.balance_id = json::optional_string(o, "balance_id", at).value_or("");
     b.comment = json::optional_string(o, "comment", at).value_or("");
@@ -484,14 +584,18 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
         b.deviation_by = json::optional_string(dv, "by", dat).value_or("");
         b.deviation_at = json::optional_string(dv, "at", dat).value_or("");
         if (QString::fromStdString(b.deviation_note).trimmed().isEmpty())
-            throw chem::Error(json::path(dat, "note"), "is empty: say why the batch is used although it is out of tolerance");
+            throw chem::Error(
+                json::path(dat, "note"),
+                "is empty: say why the batch is used although it is out of tolerance");
     }
     if (o.contains("copies") && !o.value("copies").isNull()) {
         const int n = json::require_int(o, "copies", at, 1, 200);
-        if (copies) *copies = n;
+        if (copies)
+            *copies = n;
     }
     if (auto h = json::optional_positive(o, "shelf_life_h", at, 1.0e5))
-        if (shelf_life_h) *shelf_life_h = *h;
+        if (shelf_life_h)
+            *shelf_life_h = *h;
     if (o.contains("actual") && !o.value("actual").isNull()) {
         const QJsonArray a = json::require_array(o, "actual", at);
         const std::string list = json::path(at, "actual");
@@ -505,7 +609,8 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
             if (!x.mass_g && !x.volume_ml)
                 throw chem::Error(json::path(ai, "mass_g"), "give mass_g or volume_ml");
             if (x.mass_g && x.volume_ml)
-                throw chem::Error(json::path(ai, "volume_ml"), "give mass_g or volume_ml, not both");
+                throw chem::Error(json::path(ai, "volume_ml"),
+                                  "give mass_g or volume_ml, not both");
             x.lot = json::optional_string(e, "lot", ai).value_or("");
             b.actual.push_back(std::move(x));
         }
@@ -520,15 +625,19 @@ double default_shelf_life_h(const AppData& data, const QString& kind, QString* s
         for (const QJsonValue& v : doc.value("shelf_life").toArray()) {
             const QJsonObject e = v.toObject();
             if (e.value("kind").toString() == kind && e.value("hours").toDouble() > 0) {
-                if (source) *source = e.value("source").toString();
+                if (source)
+                    *source = e.value("source").toString();
                 return e.value("hours").toDouble();
             }
         }
     }
     const chem::ShelfLifeDefaults d;
-    if (source) *source = QStringLiteral("built-in default, common practice, no source");
-    if (kind.startsWith("aqueous")) return d.hours_for(chem::SolutionKind::aqueous_buffer);
-    if (kind.contains("organic") && kind.contains("buffer")) return d.hours_for(chem::SolutionKind::mixed);
+    if (source)
+        *source = QStringLiteral("built-in default, common practice, no source");
+    if (kind.startsWith("aqueous"))
+        return d.hours_for(chem::SolutionKind::aqueous_buffer);
+    if (kind.contains("organic") && kind.contains("buffer"))
+        return d.hours_for(chem::SolutionKind::mixed);
     return d.hours_for(chem::SolutionKind::organic);
 }
 
@@ -542,25 +651,32 @@ QStringList recipe_steps(const chem::Recipe& recipe) {
     }
     if (!degas) {
         const int label_step = steps.indexOf(QRegularExpression("^Label the bottle.*"));
-        const QString text = QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
-                                            "unless the pump degasses in line.");
-        if (label_step >= 0) steps.insert(label_step, text);
-        else steps << text;
+        const QString text =
+            QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
+                           "unless the pump degasses in line.");
+        if (label_step >= 0)
+            steps.insert(label_step, text);
+        else
+            steps << text;
     }
     return steps;
 }
 
 QString part_display_name(const AppData& data, const std::string& id) {
-    if (const chem::Reagent* r = data.reagents.find_reagent(id)) return qs(r->name);
-    if (const chem::Solvent* s = data.solvents.find_solvent(id)) return qs(s->name);
-    if (id == "buffer") return QStringLiteral("Aqueous buffer");
+    if (const chem::Reagent* r = data.reagents.find_reagent(id))
+        return qs(r->name);
+    if (const chem::Solvent* s = data.solvents.find_solvent(id))
+        return qs(s->name);
+    if (id == "buffer")
+        return QStringLiteral("Aqueous buffer");
     return qs(id);
 }
 
 QString capture_source_text(const QJsonObject& c) {
-    if (c.isEmpty()) return QStringLiteral("typed");
+    if (c.isEmpty())
+        return QStringLiteral("typed");
     const QString kind = c.value("device_kind").toString();
-    const QString what = kind == QLatin1String("ph_meter") ? QStringLiteral("pH meter")
+    const QString what = kind == QLatin1String("ph_meter")  ? QStringLiteral("pH meter")
                          : kind == QLatin1String("balance") ? QStringLiteral("balance")
                                                             : QStringLiteral("instrument");
     return "from " + what + " " + c.value("device_id").toString();
@@ -568,20 +684,23 @@ QString capture_source_text(const QJsonObject& c) {
 
 namespace {
 
-
 /// The caution for a value taken from an instrument that was past its calibration-due date on
 /// the day of the reading; nullopt when it was not (or no date is recorded).
 std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& what) {
     const QDate due = QDate::fromString(c.value("calibration_due").toString(), Qt::ISODate);
-    if (!due.isValid()) return std::nullopt;
-    const QDateTime at = QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs);
+    if (!due.isValid())
+        return std::nullopt;
+    const QDateTime at =
+        QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs);
     const QDate day = at.isValid() ? at.toLocalTime().date() : QDate::currentDate();
-    if (due > day) return std::nullopt;
+    if (due > day)
+        return std::nullopt;
     return QJsonObject{{"code", "device-calibration-due"},
                        {"severity", "caution"},
                        {"device", c.value("device_id").toString()},
                        {"calibration_due", due.toString(Qt::ISODate)},
-                       {"message", what + " was taken " + capture_source_text(c) + ", which was due for calibration on " +
+                       {"message", what + " was taken " + capture_source_text(c) +
+                                       ", which was due for calibration on " +
                                        due.toString(Qt::ISODate)}};
 }
 
@@ -593,20 +712,27 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
     QJsonArray cautions;
     for (int i = 0; i < actual.size(); ++i) {
         const QJsonObject e = actual[i].toObject();
-        if (!e.contains("capture") || e.value("capture").isNull()) continue;
-        const QJsonObject c = read_capture(e.value("capture"), "batch.actual[" + std::to_string(i) + "].capture");
+        if (!e.contains("capture") || e.value("capture").isNull())
+            continue;
+        const QJsonObject c =
+            read_capture(e.value("capture"), "batch.actual[" + std::to_string(i) + "].capture");
         QString reagent = e.value("reagent").toString();
-        if (reagent.startsWith("buffer.")) reagent = reagent.mid(7);
+        if (reagent.startsWith("buffer."))
+            reagent = reagent.mid(7);
         d.captures[reagent] = c;
-        if (auto w = capture_caution(c, "The amount of " + part_display_name(data, reagent.toStdString()))) cautions.append(*w);
+        if (auto w = capture_caution(c, "The amount of " +
+                                            part_display_name(data, reagent.toStdString())))
+            cautions.append(*w);
     }
     if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
         d.ph_capture = read_capture(b.value("measured_ph_capture"), "batch.measured_ph_capture");
         if (!b.value("measured_ph").isDouble())
             throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
-        if (auto w = capture_caution(d.ph_capture, QStringLiteral("The measured pH"))) cautions.append(*w);
+        if (auto w = capture_caution(d.ph_capture, QStringLiteral("The measured pH")))
+            cautions.append(*w);
     }
-    if (d.captures.isEmpty() && d.ph_capture.isEmpty()) return;
+    if (d.captures.isEmpty() && d.ph_capture.isEmpty())
+        return;
     QJsonObject sb = d.summary.value("batch").toObject();
     QJsonArray checks = sb.value("checks").toArray();
     for (int i = 0; i < checks.size(); ++i) {
@@ -617,10 +743,13 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
             checks[i] = c;
         }
     }
-    if (!checks.isEmpty()) sb["checks"] = checks;
-    if (!d.ph_capture.isEmpty()) sb["measured_ph_capture"] = d.ph_capture;
+    if (!checks.isEmpty())
+        sb["checks"] = checks;
+    if (!d.ph_capture.isEmpty())
+        sb["measured_ph_capture"] = d.ph_capture;
     d.summary["batch"] = sb;
-    for (const QJsonValue& w : cautions) d.warnings.append(w);
+    for (const QJsonValue& w : cautions)
+        d.warnings.append(w);
     d.summary["warnings"] = d.warnings;
 }
 
@@ -629,16 +758,21 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
 BatchDocument read_batch_document(const AppData& data, const QJsonObject& input) {
     BatchDocument d;
     d.kind = batch_document_kind(input);
-    if (d.kind == "line") read_line(data, input, d);
-    else if (d.kind == "sequence") read_sequence(data, input, d);
-    else read_recipe(data, input, d);
+    if (d.kind == "line")
+        read_line(data, input, d);
+    else if (d.kind == "sequence")
+        read_sequence(data, input, d);
+    else
+        read_recipe(data, input, d);
     read_captures(data, input, d);
     return d;
 }
 
 void require_deviation_note(const BatchDocument& doc) {
-    if (!doc.out_of_tolerance) return;
-    if (!QString::fromStdString(doc.batch.deviation_note).trimmed().isEmpty()) return;
+    if (!doc.out_of_tolerance)
+        return;
+    if (!QString::fromStdString(doc.batch.deviation_note).trimmed().isEmpty())
+        return;
     throw chem::Error("batch.deviation.note",
                       "is required: the batch is out of tolerance (" +
                           doc.out_of_tolerance_reasons.join("; ").toStdString() +

@@ -59,8 +59,8 @@ double default_shelf_life_h(const AppData& data, const QString& kind, QString* s
 
 /// A titled list of steps, in order.
 struct StepSection {
-    QString heading;     ///< "Steps", "Buffer steps", "Line steps"
-    QStringList steps;   ///< without leading numbers
+    QString heading;   ///< "Steps", "Buffer steps", "Line steps"
+    QStringList steps; ///< without leading numbers
 };
 
 /// The recipe's steps as shown and printed: the designer's, with a degassing step before the
@@ -72,28 +72,28 @@ QStringList recipe_steps(const chem::Recipe& recipe);
 QString part_display_name(const AppData& data, const std::string& id);
 
 struct BatchDocument {
-    QString kind;                     ///< "recipe", "line", "sequence"
+    QString kind; ///< "recipe", "line", "sequence"
     QString title;
     chem::Batch batch;
     std::optional<int> copies;
     std::optional<double> shelf_override;
     double shelf_life_h = 0;
-    QString shelf_source;             ///< where the shelf life comes from
-    QString shelf_kind;               ///< "an aqueous buffer", "kind neat-solvent", …
-    QString expires_at;               ///< ISO, "" when unknown
+    QString shelf_source; ///< where the shelf life comes from
+    QString shelf_kind;   ///< "an aqueous buffer", "kind neat-solvent", …
+    QString expires_at;   ///< ISO, "" when unknown
 
     // recipe: the design and the batch against it; line: the buffer part's.
     std::optional<chem::Recipe> recipe;
     std::optional<chem::BatchResult> result;
 
     // line
-    QJsonObject line_out;             ///< the `line` command's result
+    QJsonObject line_out; ///< the `line` command's result
     std::optional<chem::LineSpec> line_spec;
     std::optional<chem::LineRecipe> line;
     std::vector<chem::AmountCheck> part_checks; ///< one per line item, in its order
 
     // sequence
-    QJsonObject sequence_out;         ///< the `sequence` command's result
+    QJsonObject sequence_out; ///< the `sequence` command's result
 
     /// The steps, the same on the screen and on the sheet.
     QList<StepSection> steps;

@@ -16,17 +16,21 @@ QJsonObject warning_to_json(const chem::Warning& w) {
 
 QJsonArray warnings_to_json(const std::vector<chem::Warning>& ws) {
     QJsonArray a;
-    for (const auto& w : ws) a.append(warning_to_json(w));
+    for (const auto& w : ws)
+        a.append(warning_to_json(w));
     return a;
 }
 
 std::vector<chem::Component> components_from_json(const chem::Library& lib, const QJsonObject& doc,
-                                                  const std::string& parent, double* temperature_c) {
+                                                  const std::string& parent,
+                                                  double* temperature_c) {
     json::reject_near_misses(doc, {"temperature_c", "components", "activity_model"}, parent);
-    if (temperature_c) *temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
+    if (temperature_c)
+        *temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     const QJsonArray a = json::require_array(doc, "components", parent);
     const std::string list = json::path(parent, "components");
-    if (a.isEmpty()) throw chem::Error(list, "needs at least one component");
+    if (a.isEmpty())
+        throw chem::Error(list, "needs at least one component");
     std::vector<chem::Component> out;
     for (int i = 0; i < a.size(); ++i) {
         const std::string at = json::path(list, i);
@@ -42,8 +46,10 @@ std::vector<chem::Component> components_from_json(const chem::Library& lib, cons
 
 chem::ActivityModel activity_model_from_json(const QJsonObject& doc, const std::string& parent) {
     const auto name = json::optional_string(doc, "activity_model", parent);
-    if (!name) return chem::ActivityModel::davies;
-    if (const auto m = chem::activity_model_from_name(*name)) return *m;
+    if (!name)
+        return chem::ActivityModel::davies;
+    if (const auto m = chem::activity_model_from_name(*name))
+        return *m;
     throw chem::Error(json::path(parent, "activity_model"),
                       "\"" + *name + "\" is not an activity model (davies or sit)");
 }
@@ -55,7 +61,8 @@ QJsonObject speciation_to_json(const chem::Speciation& s) {
                       {"charge", sp.charge},
                       {"mol_per_l", sp.mol_per_l},
                       {"activity_coefficient", sp.activity_coefficient}};
-        if (!sp.system.empty()) o["system"] = QString::fromStdString(sp.system);
+        if (!sp.system.empty())
+            o["system"] = QString::fromStdString(sp.system);
         species.append(o);
     }
     return QJsonObject{{"temperature_c", s.temperature_c},
@@ -83,21 +90,26 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
     r.temperature_c = json::optional_number(doc, "temperature_c", parent).value_or(25.0);
     r.volume_ml = json::optional_number(doc, "volume_ml", parent).value_or(1000.0);
     const std::string route = json::require_string(doc, "route", parent);
-    if (route == "mix") r.route = chem::Route::mix;
-    else if (route == "titrate") r.route = chem::Route::titrate;
-    else if (route == "stocks") r.route = chem::Route::stocks;
+    if (route == "mix")
+        r.route = chem::Route::mix;
+    else if (route == "titrate")
+        r.route = chem::Route::titrate;
+    else if (route == "stocks")
+        r.route = chem::Route::stocks;
     else
         throw chem::Error(json::path(parent, "route"),
                           "\"" + route + "\" is not a route (mix, titrate or stocks)");
     auto reagent_id = [&](const char* key) {
         const std::string id = json::require_string(doc, key, parent);
-        lib.reagent(id, json::path(parent, key)); // unknown ids: error naming the field + nearest ids
+        lib.reagent(id,
+                    json::path(parent, key)); // unknown ids: error naming the field + nearest ids
         return id;
     };
     if (r.route == chem::Route::titrate) {
         r.weigh = reagent_id("weigh");
         r.titrant = reagent_id("titrant");
-        const std::string form = json::optional_string(doc, "titrant_form", parent).value_or("solution");
+        const std::string form =
+            json::optional_string(doc, "titrant_form", parent).value_or("solution");
         const auto titrant_form = chem::titrant_form_from_name(form);
         if (!titrant_form)
             throw chem::Error(json::path(parent, "titrant_form"),
@@ -107,7 +119,8 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
         if (r.titrant_form == chem::TitrantForm::solution)
             r.titrant_mol_per_l = json::require_number(doc, "titrant_mol_per_l", parent);
         else
-            r.titrant_mol_per_l = json::optional_number(doc, "titrant_mol_per_l", parent).value_or(0.0);
+            r.titrant_mol_per_l =
+                json::optional_number(doc, "titrant_mol_per_l", parent).value_or(0.0);
     } else {
         r.acid = reagent_id("acid");
         r.base = reagent_id("base");
@@ -129,7 +142,8 @@ chem::RecipeRequest recipe_request_from_json(const chem::Library& lib, const QJs
         for (auto it = p.begin(); it != p.end(); ++it) {
             const std::string id = it.key().toStdString();
             lib.reagent(id, json::path(json::path(parent, "purity_percent"), it.key()));
-            const double pct = json::require_number(p, it.key(), json::path(parent, "purity_percent"));
+            const double pct =
+                json::require_number(p, it.key(), json::path(parent, "purity_percent"));
             // 1 % is far below any reagent grade; below it the amounts run to tonnes (or inf).
             if (pct < 1 || pct > 100)
                 throw chem::Error(json::path(json::path(parent, "purity_percent"), it.key()),
@@ -146,8 +160,10 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
         QJsonObject o{{"reagent", QString::fromStdString(it.reagent)},
                       {"mol_per_l", it.mol_per_l},
                       {"as", QString::fromStdString(it.as)}};
-        if (it.mass_g) o["mass_g"] = *it.mass_g;
-        if (it.volume_ml) o["volume_ml"] = *it.volume_ml;
+        if (it.mass_g)
+            o["mass_g"] = *it.mass_g;
+        if (it.volume_ml)
+            o["volume_ml"] = *it.volume_ml;
         items.append(o);
     }
     QJsonArray composition;
@@ -155,8 +171,10 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
         composition.append(QJsonObject{{"reagent", QString::fromStdString(c.reagent->id)},
                                        {"mol_per_l", c.mol_per_l}});
     QJsonArray steps, cautions;
-    for (const auto& s : r.steps) steps.append(QString::fromStdString(s));
-    for (const auto& s : r.cautions) cautions.append(QString::fromStdString(s));
+    for (const auto& s : r.steps)
+        steps.append(QString::fromStdString(s));
+    for (const auto& s : r.cautions)
+        cautions.append(QString::fromStdString(s));
     QJsonObject out{{"items", items},
                     {"composition", composition},
                     {"temperature_c", r.request.temperature_c},
@@ -174,16 +192,18 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
                       {"system", QString::fromStdString(r.basis.system)},
                       {"concentration_mol_per_l", r.basis.concentration_mol_per_l},
                       {"text", QString::fromStdString(r.basis.text)}};
-    if (!r.basis.held_reagent.empty()) basis["held_reagent"] = QString::fromStdString(r.basis.held_reagent);
+    if (!r.basis.held_reagent.empty())
+        basis["held_reagent"] = QString::fromStdString(r.basis.held_reagent);
     if (!r.basis.adjusting_reagent.empty())
         basis["adjusting_reagent"] = QString::fromStdString(r.basis.adjusting_reagent);
     out["basis"] = basis;
     QJsonArray totals;
     for (const auto& f : r.totals)
-        totals.append(QJsonObject{{"family", QString::fromStdString(f.id)},
-                                  {"kind", f.kind == chem::FamilyTotal::Kind::system ? "system" : "ion"},
-                                  {"name", QString::fromStdString(f.name)},
-                                  {"mol_per_l", f.mol_per_l}});
+        totals.append(
+            QJsonObject{{"family", QString::fromStdString(f.id)},
+                        {"kind", f.kind == chem::FamilyTotal::Kind::system ? "system" : "ion"},
+                        {"name", QString::fromStdString(f.name)},
+                        {"mol_per_l", f.mol_per_l}});
     out["totals"] = totals;
     if (r.request.route == chem::Route::titrate)
         out["titrant_form"] = chem::titrant_form_name(r.request.titrant_form);
@@ -211,8 +231,10 @@ QJsonArray role_list(const std::vector<chem::RoleChoice>& list) {
 } // namespace
 
 QJsonObject role_choices_to_json(const chem::RoleChoices& c) {
-    return QJsonObject{{"acid_forms", role_list(c.acid_forms)}, {"base_forms", role_list(c.base_forms)},
-                       {"salts", role_list(c.salts)},           {"weighable", role_list(c.weighable)},
+    return QJsonObject{{"acid_forms", role_list(c.acid_forms)},
+                       {"base_forms", role_list(c.base_forms)},
+                       {"salts", role_list(c.salts)},
+                       {"weighable", role_list(c.weighable)},
                        {"titrants", role_list(c.titrants)}};
 }
 

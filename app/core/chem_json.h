@@ -1,5 +1,6 @@
 #pragma once
-// JSON <-> chem types for the command-line contract (field names are fixed: extend, rename nothing).
+// JSON <-> chem types for the command-line contract (field names are fixed: extend, rename
+// nothing).
 #include "chem/equilibrium.h"
 #include "chem/recipe.h"
 #include "chem/recipe_roles.h"

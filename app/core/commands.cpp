@@ -23,9 +23,12 @@ QJsonObject command_reagents(const AppData& data, const QJsonObject&, const Comm
     QJsonArray list;
     for (const auto& r : data.reagents.reagents()) {
         QJsonArray hazards, pictograms, systems;
-        for (const auto& h : r.ghs_hazards) hazards.append(QString::fromStdString(h));
-        for (const auto& p : r.ghs_pictograms) pictograms.append(QString::fromStdString(p));
-        for (const auto& s : r.systems) systems.append(QString::fromStdString(s.system));
+        for (const auto& h : r.ghs_hazards)
+            hazards.append(QString::fromStdString(h));
+        for (const auto& p : r.ghs_pictograms)
+            pictograms.append(QString::fromStdString(p));
+        for (const auto& s : r.systems)
+            systems.append(QString::fromStdString(s.system));
         QJsonObject o{{"id", QString::fromStdString(r.id)},
                       {"name", QString::fromStdString(r.name)},
                       {"formula", QString::fromStdString(r.formula)},
@@ -35,7 +38,8 @@ QJsonObject command_reagents(const AppData& data, const QJsonObject&, const Comm
                       {"ghs_hazards", hazards},
                       {"ghs_pictograms", pictograms},
                       {"systems", systems}};
-        if (r.form == chem::PhysicalForm::liquid) o["density_g_per_ml"] = r.density_g_per_ml;
+        if (r.form == chem::PhysicalForm::liquid)
+            o["density_g_per_ml"] = r.density_g_per_ml;
         list.append(o);
     }
     return QJsonObject{{"reagents", list}};

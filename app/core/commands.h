@@ -24,8 +24,10 @@ struct CommandOptions {
 };
 
 QJsonObject command_solve(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
-QJsonObject command_recipe(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_recipe(const AppData& data, const QJsonObject& input,
+                           const CommandOptions& opt);
 /// Lists the reagent library: id, name, formula, molar_mass_g_per_mol, form, ... (input ignored).
-QJsonObject command_reagents(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_reagents(const AppData& data, const QJsonObject& input,
+                             const CommandOptions& opt);
 
 } // namespace phaseplan

@@ -13,15 +13,15 @@
 namespace phaseplan {
 
 class DocumentOutput {
-public:
+  public:
     virtual ~DocumentOutput() = default;
     /// Writes the "sheet" or the "labels" of `document` as a PDF at `path` on `paper` ("a4",
     /// "letter", "label62"). False on failure, with outputError() / outputErrorField() saying why.
     virtual bool writePdf(const QString& what, const QVariantMap& document, const QString& path,
                           const QString& paper) = 0;
     /// Prints the "sheet" or the "labels" on `printer` ("" = the system's default printer).
-    virtual bool sendToPrinter(const QString& what, const QVariantMap& document, const QString& printer,
-                               const QString& paper) = 0;
+    virtual bool sendToPrinter(const QString& what, const QVariantMap& document,
+                               const QString& printer, const QString& paper) = 0;
     /// Printer names known to the system; empty when none is set up.
     virtual QStringList printerNames() const = 0;
     /// The last failure's message and the field it names ("" after a success).

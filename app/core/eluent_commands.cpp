@@ -14,20 +14,24 @@
 namespace phaseplan {
 
 namespace {
-QString qs(const std::string& s) { return QString::fromStdString(s); }
+QString qs(const std::string& s) {
+    return QString::fromStdString(s);
+}
 } // namespace
 
 QJsonObject eluent_result_to_json(const chem::EluentResult& r) {
     QJsonArray solvents;
     for (const auto& [id, f] : r.mix.solvent_fraction_v) {
         const auto x = r.mix.mole_fraction.find(id);
-        solvents.append(QJsonObject{{"solvent", qs(id)},
-                                    {"fraction_v", f},
-                                    {"mole_fraction", x != r.mix.mole_fraction.end() ? x->second : 0.0}});
+        solvents.append(
+            QJsonObject{{"solvent", qs(id)},
+                        {"fraction_v", f},
+                        {"mole_fraction", x != r.mix.mole_fraction.end() ? x->second : 0.0}});
     }
     QJsonArray solutes;
     for (const auto& s : r.mix.solutes)
-        solutes.append(QJsonObject{{"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+        solutes.append(QJsonObject{
+            {"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
     QJsonArray pka;
     for (const auto& k : r.pka)
         pka.append(QJsonObject{{"system", qs(k.system)},
@@ -55,36 +59,46 @@ QJsonObject eluent_result_to_json(const chem::EluentResult& r) {
 }
 
 QJsonObject command_eluent(const AppData& data, const QJsonObject& input, const CommandOptions&) {
-    json::reject_near_misses(input, {"lines", "composition", "temperature_c", "activity_model"}, "");
+    json::reject_near_misses(input, {"lines", "composition", "temperature_c", "activity_model"},
+                             "");
     const double t = json::optional_number(input, "temperature_c", "").value_or(25.0);
     const chem::ActivityModel model = activity_model_from_json(input, "");
     const QJsonObject lines = json::require_object(input, "lines", "");
-    if (lines.isEmpty()) throw chem::Error("lines", "no line defined");
+    if (lines.isEmpty())
+        throw chem::Error("lines", "no line defined");
     std::array<std::optional<ParsedLine>, chem::max_lines> parsed;
     std::array<chem::LineProfile, chem::max_lines> profiles;
     for (auto it = lines.begin(); it != lines.end(); ++it) {
         const int l = chem::line_index(it.key().toStdString());
         const std::string at = json::path("lines", it.key());
-        if (l < 0) throw chem::Error(at, "is not a line (A, B, C, D)");
-        parsed[l] = line_from_json(data, json::require_object(lines, it.key(), "lines"), at, 1000.0, false);
+        if (l < 0)
+            throw chem::Error(at, "is not a line (A, B, C, D)");
+        parsed[l] =
+            line_from_json(data, json::require_object(lines, it.key(), "lines"), at, 1000.0, false);
         profiles[l] = chem::profile_line(data.solvents, data.reagents, parsed[l]->spec);
-        if (!profiles[l].described) throw chem::Error(json::path(at, "parts"), "is required to work out the eluent");
+        if (!profiles[l].described)
+            throw chem::Error(json::path(at, "parts"), "is required to work out the eluent");
     }
     const QJsonObject comp = json::require_object(input, "composition", "");
     std::vector<double> percent(chem::max_lines, 0.0);
     for (auto it = comp.begin(); it != comp.end(); ++it) {
         const int l = chem::line_index(it.key().toStdString());
         const std::string at = json::path("composition", it.key());
-        if (l < 0) throw chem::Error(at, "is not a line (A, B, C, D)");
+        if (l < 0)
+            throw chem::Error(at, "is not a line (A, B, C, D)");
         const double v = json::require_number(comp, it.key(), "composition");
-        if (v < 0 || v > 100) throw chem::Error(at, chem::format_number(v) + " is outside 0 to 100 %");
-        if (v > 0 && !parsed[l]) throw chem::Error(at, "line " + it.key().toStdString() + " is not defined in lines");
+        if (v < 0 || v > 100)
+            throw chem::Error(at, chem::format_number(v) + " is outside 0 to 100 %");
+        if (v > 0 && !parsed[l])
+            throw chem::Error(at, "line " + it.key().toStdString() + " is not defined in lines");
         percent[l] = v;
     }
     std::vector<const chem::LineProfile*> ptrs(chem::max_lines, nullptr);
     for (int l = 0; l < chem::max_lines; ++l)
-        if (parsed[l]) ptrs[l] = &profiles[l];
-    return eluent_result_to_json(chem::solve_eluent(data.solvents, data.reagents, ptrs, percent, t, model));
+        if (parsed[l])
+            ptrs[l] = &profiles[l];
+    return eluent_result_to_json(
+        chem::solve_eluent(data.solvents, data.reagents, ptrs, percent, t, model));
 }
 
 } // namespace phaseplan

@@ -12,7 +12,8 @@
 
 namespace phaseplan {
 
-QJsonObject command_eluent(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_eluent(const AppData& data, const QJsonObject& input,
+                           const CommandOptions& opt);
 
 /// The JSON form of an eluent result (also used for the sequence's eluent trace points).
 QJsonObject eluent_result_to_json(const chem::EluentResult& r);

@@ -23,9 +23,12 @@ std::string path(const std::string& parent, int index) {
 
 std::string describe(const QJsonValue& v) {
     switch (v.type()) {
-    case QJsonValue::Null: return "null";
-    case QJsonValue::Bool: return v.toBool() ? "true" : "false";
-    case QJsonValue::Double: return chem::format_number(v.toDouble());
+    case QJsonValue::Null:
+        return "null";
+    case QJsonValue::Bool:
+        return v.toBool() ? "true" : "false";
+    case QJsonValue::Double:
+        return chem::format_number(v.toDouble());
     case QJsonValue::String: {
         // Cut on a character boundary (never inside a UTF-8 sequence or a surrogate pair).
         const QString s = v.toString();
@@ -36,9 +39,12 @@ std::string describe(const QJsonValue& v) {
         quoted += '"';
         return quoted;
     }
-    case QJsonValue::Array: return "an array";
-    case QJsonValue::Object: return "an object";
-    case QJsonValue::Undefined: return "nothing";
+    case QJsonValue::Array:
+        return "an array";
+    case QJsonValue::Object:
+        return "an object";
+    case QJsonValue::Undefined:
+        return "nothing";
     }
     return "?";
 }
@@ -46,20 +52,23 @@ std::string describe(const QJsonValue& v) {
 namespace {
 QJsonValue require(const QJsonObject& o, const QString& key, const std::string& parent) {
     auto it = o.constFind(key);
-    if (it == o.constEnd()) throw chem::Error(path(parent, key), "is required but missing");
+    if (it == o.constEnd())
+        throw chem::Error(path(parent, key), "is required but missing");
     return it.value();
 }
 } // namespace
 
 QJsonObject require_object(const QJsonObject& o, const QString& key, const std::string& parent) {
     QJsonValue v = require(o, key, parent);
-    if (!v.isObject()) throw chem::Error(path(parent, key), "must be an object, got " + describe(v));
+    if (!v.isObject())
+        throw chem::Error(path(parent, key), "must be an object, got " + describe(v));
     return v.toObject();
 }
 
 QJsonArray require_array(const QJsonObject& o, const QString& key, const std::string& parent) {
     QJsonValue v = require(o, key, parent);
-    if (!v.isArray()) throw chem::Error(path(parent, key), "must be an array, got " + describe(v));
+    if (!v.isArray())
+        throw chem::Error(path(parent, key), "must be an array, got " + describe(v));
     return v.toArray();
 }
 
@@ -76,8 +85,8 @@ void check_text(const QString& text, const std::string& field, std::size_t max_c
                                          "), which is not a character");
         }
         if (chars >= max_chars)
-            throw chem::Error(field, chem::guard::quote_id(text.left(200).toStdString()) + " is longer than " +
-                                         std::to_string(max_chars) +
+            throw chem::Error(field, chem::guard::quote_id(text.left(200).toStdString()) +
+                                         " is longer than " + std::to_string(max_chars) +
                                          " characters, the most this field holds");
     }
 }
@@ -85,31 +94,37 @@ void check_text(const QString& text, const std::string& field, std::size_t max_c
 std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent,
                            std::size_t max_chars) {
     QJsonValue v = require(o, key, parent);
-    if (!v.isString()) throw chem::Error(path(parent, key), "must be a string, got " + describe(v));
+    if (!v.isString())
+        throw chem::Error(path(parent, key), "must be a string, got " + describe(v));
     const QString text = v.toString().trimmed();
     check_text(text, path(parent, key), max_chars);
     std::string s = text.toStdString();
-    if (s.empty()) throw chem::Error(path(parent, key), "must not be empty");
+    if (s.empty())
+        throw chem::Error(path(parent, key), "must not be empty");
     return s;
 }
 
 std::optional<std::string> optional_string(const QJsonObject& o, const QString& key,
                                            const std::string& parent, std::size_t max_chars) {
-    if (!o.contains(key) || o.value(key).isNull()) return std::nullopt;
+    if (!o.contains(key) || o.value(key).isNull())
+        return std::nullopt;
     return require_string(o, key, parent, max_chars);
 }
 
 double require_number(const QJsonObject& o, const QString& key, const std::string& parent) {
     QJsonValue v = require(o, key, parent);
-    if (!v.isDouble()) throw chem::Error(path(parent, key), "must be a number, got " + describe(v));
+    if (!v.isDouble())
+        throw chem::Error(path(parent, key), "must be a number, got " + describe(v));
     double d = v.toDouble();
-    if (!std::isfinite(d)) throw chem::Error(path(parent, key), "must be a finite number");
+    if (!std::isfinite(d))
+        throw chem::Error(path(parent, key), "must be a finite number");
     return d;
 }
 
 std::optional<double> optional_number(const QJsonObject& o, const QString& key,
                                       const std::string& parent) {
-    if (!o.contains(key) || o.value(key).isNull()) return std::nullopt;
+    if (!o.contains(key) || o.value(key).isNull())
+        return std::nullopt;
     return require_number(o, key, parent);
 }
 
@@ -126,7 +141,8 @@ double require_positive(const QJsonObject& o, const QString& key, const std::str
 
 std::optional<double> optional_positive(const QJsonObject& o, const QString& key,
                                         const std::string& parent, double max_value) {
-    if (!o.contains(key) || o.value(key).isNull()) return std::nullopt;
+    if (!o.contains(key) || o.value(key).isNull())
+        return std::nullopt;
     return require_positive(o, key, parent, max_value);
 }
 
@@ -144,15 +160,18 @@ int require_int(const QJsonObject& o, const QString& key, const std::string& par
 
 bool optional_bool(const QJsonObject& o, const QString& key, const std::string& parent,
                    bool fallback) {
-    if (!o.contains(key) || o.value(key).isNull()) return fallback;
+    if (!o.contains(key) || o.value(key).isNull())
+        return fallback;
     QJsonValue v = o.value(key);
-    if (!v.isBool()) throw chem::Error(path(parent, key), "must be true or false, got " + describe(v));
+    if (!v.isBool())
+        throw chem::Error(path(parent, key), "must be true or false, got " + describe(v));
     return v.toBool();
 }
 
 QJsonObject element_object(const QJsonArray& a, int index, const std::string& parent) {
     QJsonValue v = a.at(index);
-    if (!v.isObject()) throw chem::Error(path(parent, index), "must be an object, got " + describe(v));
+    if (!v.isObject())
+        throw chem::Error(path(parent, index), "must be an object, got " + describe(v));
     return v.toObject();
 }
 
@@ -162,7 +181,8 @@ namespace {
 std::string fold_key(const QString& key) {
     std::string out;
     for (QChar ch : key)
-        if (ch != '_' && ch != '-' && ch != ' ') out += ch.toLower().toLatin1();
+        if (ch != '_' && ch != '-' && ch != ' ')
+            out += ch.toLower().toLatin1();
     return out;
 }
 
@@ -170,9 +190,11 @@ bool nearly(const QString& given, const QString& known) {
     const auto prefix_of = [](const QString& a, const QString& b) {
         return b.size() > a.size() && b.startsWith(a) && b[a.size()] == '_';
     };
-    if (prefix_of(given, known) || prefix_of(known, given)) return true; // "volume" for "volume_ml"
+    if (prefix_of(given, known) || prefix_of(known, given))
+        return true; // "volume" for "volume_ml"
     const std::string g = fold_key(given), k = fold_key(known);
-    if (g == k) return true;
+    if (g == k)
+        return true;
     const int allowed = std::min(g.size(), k.size()) <= 5 ? 1 : 2;
     return chem::edit_distance(g, k) <= allowed;
 }
@@ -185,14 +207,17 @@ void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*>
         const QString key = it.key();
         // A near miss is a slip of a few characters: a key much longer than any contract key
         // (a 50 MB key, say) is not one, and the edit distance is never run over it.
-        if (key.size() > 64) continue;
+        if (key.size() > 64)
+            continue;
         bool listed = false;
-        for (const char* k : known) listed |= key == QLatin1String(k);
-        if (listed) continue;
+        for (const char* k : known)
+            listed |= key == QLatin1String(k);
+        if (listed)
+            continue;
         for (const char* k : known)
             if (nearly(key, QString::fromLatin1(k)))
-                throw chem::Error(path(parent, key), "is not a field here; did you mean \"" +
-                                                         std::string(k) + "\"?");
+                throw chem::Error(path(parent, key),
+                                  "is not a field here; did you mean \"" + std::string(k) + "\"?");
     }
 }
 
@@ -212,7 +237,8 @@ QString string_at(const QByteArray& b, qsizetype& i) {
     }
     ++i;
     const QByteArray literal = b.mid(start, i - start);
-    if (!escaped) return QString::fromUtf8(literal.mid(1, literal.size() - 2));
+    if (!escaped)
+        return QString::fromUtf8(literal.mid(1, literal.size() - 2));
     // An escaped key (backslash-u0061) equals its plain form ("a"): let Qt decode the escapes.
     return QJsonDocument::fromJson("[" + literal + "]").array().at(0).toString();
 }
@@ -258,8 +284,10 @@ void reject_duplicate_keys(const QByteArray& b) {
         } else if ((c == '}' || c == ']') && !stack.empty()) {
             stack.pop_back();
         } else if (c == ',' && !stack.empty()) {
-            if (stack.back().object) stack.back().expect_key = true;
-            else ++stack.back().index;
+            if (stack.back().object)
+                stack.back().expect_key = true;
+            else
+                ++stack.back().index;
         }
         ++i;
     }
@@ -272,20 +300,25 @@ void check_value(const QJsonValue& v, const std::string& at) {
     if (v.isDouble()) {
         const double d = v.toDouble();
         if (!std::isfinite(d) || std::abs(d) > chem::guard::max_amount * 1e3)
-            throw chem::Error(at.empty() ? "(result)" : at,
-                              "the computed value " + chem::format_number(d) +
-                                  " is not a finite number in range; check the inputs it comes from");
+            throw chem::Error(
+                at.empty() ? "(result)" : at,
+                "the computed value " + chem::format_number(d) +
+                    " is not a finite number in range; check the inputs it comes from");
     } else if (v.isArray()) {
         const QJsonArray a = v.toArray();
-        for (int i = 0; i < a.size(); ++i) check_value(a.at(i), path(at, i));
+        for (int i = 0; i < a.size(); ++i)
+            check_value(a.at(i), path(at, i));
     } else if (v.isObject()) {
         const QJsonObject o = v.toObject();
-        for (auto it = o.begin(); it != o.end(); ++it) check_value(it.value(), path(at, it.key()));
+        for (auto it = o.begin(); it != o.end(); ++it)
+            check_value(it.value(), path(at, it.key()));
     }
 }
 } // namespace
 
-void check_output(const QJsonObject& out) { check_value(out, ""); }
+void check_output(const QJsonObject& out) {
+    check_value(out, "");
+}
 
 QJsonObject parse_document(const QByteArray& bytes) {
     QJsonParseError err{};
@@ -293,7 +326,8 @@ QJsonObject parse_document(const QByteArray& bytes) {
     if (err.error != QJsonParseError::NoError)
         throw chem::Error("(document)", "is not valid JSON: " + err.errorString().toStdString() +
                                             " at offset " + std::to_string(err.offset));
-    if (!doc.isObject()) throw chem::Error("(document)", "must be a JSON object");
+    if (!doc.isObject())
+        throw chem::Error("(document)", "must be a JSON object");
     reject_duplicate_keys(bytes);
     return doc.object();
 }

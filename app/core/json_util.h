@@ -33,7 +33,8 @@ std::string require_string(const QJsonObject& o, const QString& key, const std::
 std::optional<std::string> optional_string(const QJsonObject& o, const QString& key,
                                            const std::string& parent,
                                            std::size_t max_chars = chem::guard::max_text_chars);
-/// Throws Error(field, …) when `text` is longer than max_chars characters or holds a lone surrogate.
+/// Throws Error(field, …) when `text` is longer than max_chars characters or holds a lone
+/// surrogate.
 void check_text(const QString& text, const std::string& field, std::size_t max_chars);
 /// A finite number. Rejects strings, booleans, null.
 double require_number(const QJsonObject& o, const QString& key, const std::string& parent);

@@ -221,11 +221,13 @@ QTime time_of_day(const QJsonValue& v) {
     if (!v.isString())
         return {};
     const QString s = v.toString();
-    static const QRegularExpression re(QStringLiteral("^([01]?\\d|2[0-3]):([0-5]\\d)(:([0-5]\\d))?$"));
+    static const QRegularExpression re(
+        QStringLiteral("^([01]?\\d|2[0-3]):([0-5]\\d)(:([0-5]\\d))?$"));
     const auto m = re.match(s);
     if (!m.hasMatch())
         return {};
-    return QTime(m.captured(1).toInt(), m.captured(2).toInt(), m.captured(4).isEmpty() ? 0 : m.captured(4).toInt());
+    return QTime(m.captured(1).toInt(), m.captured(2).toInt(),
+                 m.captured(4).isEmpty() ? 0 : m.captured(4).toInt());
 }
 } // namespace
 
@@ -353,7 +355,8 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
     if (auto h = json::optional_positive(o, "shelf_life_h", path, 24.0 * 365)) {
         // Six minutes is far below any mobile phase's shelf life; below it batch counts overflow.
         if (*h < 0.1)
-            throw chem::Error(json::path(path, "shelf_life_h"), chem::format_number(*h) + " h is below 0.1 h");
+            throw chem::Error(json::path(path, "shelf_life_h"),
+                              chem::format_number(*h) + " h is below 0.1 h");
         pl.spec.shelf_life_h = *h;
     }
     pl.recipe_key = recipe_key_of(o, pl.spec.name);
@@ -592,7 +595,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     const auto column = column_from_json(doc, root);
 
     std::optional<QDateTime> standby_until;
-    std::optional<QTime> standby_until_time; ///< "07:30": the first such time after the last injection
+    std::optional<QTime>
+        standby_until_time; ///< "07:30": the first such time after the last injection
     if (doc.contains("standby") && !doc.value("standby").isNull()) {
         const std::string at = P("standby");
         const QJsonObject so = json::require_object(doc, "standby", root);
@@ -651,7 +655,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             auto probe = in;
             probe.standby.reset();
             const double end = chem::plan_sequence(probe).total_min;
-            const QDateTime end_at = clock.start.addMSecs(static_cast<qint64>(std::llround(end * 60000.0)));
+            const QDateTime end_at =
+                clock.start.addMSecs(static_cast<qint64>(std::llround(end * 60000.0)));
             QDateTime until(end_at.date(), *standby_until_time, end_at.timeZone());
             if (until < end_at)
                 until = until.addDays(1);
@@ -843,7 +848,8 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
             b["shelf_kind"] = list.front()->shelf_kind;
             b["one_batch_lasts"] = span_h <= shelf;
             if (span_h > shelf && warnings && list.size() > 1) {
-                const long long batches = chem::guard::count_up(span_h / shelf, "batches", "number of batches");
+                const long long batches =
+                    chem::guard::count_up(span_h / shelf, "batches", "number of batches");
                 warnings->append(QJsonObject{
                     {"code", "shelf-life"},
                     {"severity", "warning"},

@@ -33,8 +33,8 @@ struct Clock {
     QDateTime start;
     bool has_offset = false;
     std::function<QString(const QDateTime&)> words; ///< the app's wording; empty: as below
-    QString iso(double minutes) const;      ///< "2026-12-02T03:12:30"
-    std::string text(double minutes) const; ///< "2026-12-02 03:12" for messages
+    QString iso(double minutes) const;              ///< "2026-12-02T03:12:30"
+    std::string text(double minutes) const;         ///< "2026-12-02 03:12" for messages
 };
 /// Reagent and solvent names by id, for the checks' messages ("Acetonitrile", not "acetonitrile").
 chem::NameLookup library_names(const AppData& data);

@@ -42,7 +42,8 @@ struct Lines {
     std::array<const chem::LineProfile*, chem::max_lines> pointers() const {
         std::array<const chem::LineProfile*, chem::max_lines> p{};
         for (int l = 0; l < chem::max_lines; ++l)
-            if (defined[l] && profiles[l].described) p[l] = &profiles[l];
+            if (defined[l] && profiles[l].described)
+                p[l] = &profiles[l];
         return p;
     }
 };
@@ -65,7 +66,8 @@ Lines lines_from_json(const AppData& data, const QJsonObject& doc) {
     return out;
 }
 
-chem::Method single_method(const QJsonObject& doc, const std::array<bool, chem::max_lines>& defined) {
+chem::Method single_method(const QJsonObject& doc,
+                           const std::array<bool, chem::max_lines>& defined) {
     chem::Method m = method_from_json(json::require_object(doc, "method", ""), "method", "method");
     try {
         chem::validate_method(m, defined);
@@ -199,25 +201,26 @@ QJsonObject pressure_trace_to_json(const chem::PressureTrace& t) {
                                   {"viscosity_mpa_s", p.viscosity_mpa_s},
                                   {"pressure_bar", p.pressure_bar},
                                   {"column_pressure_bar", p.column_pressure_bar}});
-    QJsonObject out{{"trace", points},
-                    {"max_pressure_bar", t.max_pressure_bar},
-                    {"max_at_t_min", t.max_at_t_min},
-                    {"max_column_pressure_bar", t.max_column_pressure_bar},
-                    {"organic_fraction_v_at_max", t.organic_fraction_v_at_max},
-                    {"inlet_percent_at_max", per_line(t.inlet_percent_at_max)},
-                    {"plates_estimate", t.plates_estimate},
-                    {"plates_basis", "N ≈ 3000 · L(cm) / dp(µm), a rule of thumb (common practice)"},
-                    {"flow_resistance", t.flow_resistance},
-                    {"flow_resistance_basis", t.calibrated ? "calibrated on the reference pressure"
-                                                           : "Kozeny–Carman or as given"},
-                    {"calibrated", t.calibrated},
-                    {"column_volume_ml", t.column_volume_ml},
-                    {"dwell_min", t.dwell_min},
-                    {"column_min", t.column_min},
-                    {"viscosity_basis", chem::viscosity_basis_name(t.viscosity_basis)},
-                    {"limit_bar", t.limit ? QJsonValue(t.limit->bar) : QJsonValue()},
-                    {"limited_by", t.limit ? QJsonValue(chem::limit_source_name(t.limit->source))
-                                           : QJsonValue()}};
+    QJsonObject out{
+        {"trace", points},
+        {"max_pressure_bar", t.max_pressure_bar},
+        {"max_at_t_min", t.max_at_t_min},
+        {"max_column_pressure_bar", t.max_column_pressure_bar},
+        {"organic_fraction_v_at_max", t.organic_fraction_v_at_max},
+        {"inlet_percent_at_max", per_line(t.inlet_percent_at_max)},
+        {"plates_estimate", t.plates_estimate},
+        {"plates_basis", "N ≈ 3000 · L(cm) / dp(µm), a rule of thumb (common practice)"},
+        {"flow_resistance", t.flow_resistance},
+        {"flow_resistance_basis",
+         t.calibrated ? "calibrated on the reference pressure" : "Kozeny–Carman or as given"},
+        {"calibrated", t.calibrated},
+        {"column_volume_ml", t.column_volume_ml},
+        {"dwell_min", t.dwell_min},
+        {"column_min", t.column_min},
+        {"viscosity_basis", chem::viscosity_basis_name(t.viscosity_basis)},
+        {"limit_bar", t.limit ? QJsonValue(t.limit->bar) : QJsonValue()},
+        {"limited_by",
+         t.limit ? QJsonValue(chem::limit_source_name(t.limit->source)) : QJsonValue()}};
     return out;
 }
 
@@ -238,7 +241,8 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
         std::string undescribed;
         for (const auto& r : m.gradient)
             for (int l = 0; l < chem::max_lines; ++l)
-                if (r.percent[l] > 0 && !profiles[l] && undescribed.find(chem::line_letter(l)) == std::string::npos)
+                if (r.percent[l] > 0 && !profiles[l] &&
+                    undescribed.find(chem::line_letter(l)) == std::string::npos)
                     undescribed += chem::line_letter(l);
         if (!undescribed.empty()) {
             out.emplace_back();
@@ -246,8 +250,8 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
                 notes->append(QJsonObject{
                     {"code", "pressure-unknown"},
                     {"severity", "info"},
-                    {"message", qs("No pressure for method " + m.name + ": line(s) " +
-                                   undescribed + " have no parts, so the viscosity is unknown.")},
+                    {"message", qs("No pressure for method " + m.name + ": line(s) " + undescribed +
+                                   " have no parts, so the viscosity is unknown.")},
                     {"method", qs(m.name)}});
             continue;
         }
@@ -295,8 +299,8 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
     if (input.contains("lines"))
         lines = lines_from_json(data, input);
     chem::TransferRequest req;
-    req.method = single_method(input, lines ? lines->defined
-                                            : std::array<bool, chem::max_lines>{true, true, true, true});
+    req.method = single_method(
+        input, lines ? lines->defined : std::array<bool, chem::max_lines>{true, true, true, true});
     for (auto [key, side] : {std::pair{"from", &req.from}, std::pair{"to", &req.to}}) {
         const auto c = pressure_column_from_json(input, key, "");
         if (!c)
@@ -327,7 +331,8 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
         {"time_factor", r.time_factor},
         {"injection_ul", r.injection_ul ? QJsonValue(*r.injection_ul) : QJsonValue()},
         {"hold_added_min", r.hold_added_min},
-        {"solvent_ml_per_injection", QJsonObject{{"from", r.solvent_from_ml}, {"to", r.solvent_to_ml}}},
+        {"solvent_ml_per_injection",
+         QJsonObject{{"from", r.solvent_from_ml}, {"to", r.solvent_to_ml}}},
         {"solvent_ml_per_sequence",
          QJsonObject{{"from", r.solvent_from_sequence_ml}, {"to", r.solvent_to_sequence_ml}}},
         {"sequence_injections", req.sequence_injections},

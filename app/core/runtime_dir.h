@@ -14,27 +14,30 @@
 namespace phaseplan {
 
 class PrivateRuntimeDir {
-public:
+  public:
     PrivateRuntimeDir() {
-        if (!qEnvironmentVariableIsEmpty("XDG_RUNTIME_DIR")) return;
+        if (!qEnvironmentVariableIsEmpty("XDG_RUNTIME_DIR"))
+            return;
         QByteArray templ = QFile::encodeName(QDir::tempPath()) + "/phaseplan-runtime-XXXXXX";
-        if (!::mkdtemp(templ.data())) return; // Qt then picks its own and may warn
+        if (!::mkdtemp(templ.data()))
+            return; // Qt then picks its own and may warn
         struct stat st {};
-        if (::lstat(templ.constData(), &st) != 0 || !S_ISDIR(st.st_mode) || st.st_uid != ::getuid() ||
-            (st.st_mode & 0777) != 0700)
+        if (::lstat(templ.constData(), &st) != 0 || !S_ISDIR(st.st_mode) ||
+            st.st_uid != ::getuid() || (st.st_mode & 0777) != 0700)
             return;
         path_ = templ;
         qputenv("XDG_RUNTIME_DIR", path_);
     }
     ~PrivateRuntimeDir() {
-        if (path_.isEmpty()) return;
+        if (path_.isEmpty())
+            return;
         QDir(QFile::decodeName(path_)).removeRecursively();
         qunsetenv("XDG_RUNTIME_DIR");
     }
     PrivateRuntimeDir(const PrivateRuntimeDir&) = delete;
     PrivateRuntimeDir& operator=(const PrivateRuntimeDir&) = delete;
 
-private:
+  private:
     QByteArray path_;
 };
 

@@ -1,6 +1,7 @@
 #pragma once
 // The `device` subcommands of phaseplan-cli (they take flags, not a JSON document):
-//   device read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit U]
+//   device read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit
+//   U]
 //               [--data-bits N] [--parity P] [--stop-bits S] [--flow-control F]
 //       waits for one reading and returns {value, unit, stable, raw, …} (Reading::to_json);
 //   device formats

@@ -7,7 +7,9 @@
 
 namespace phaseplan::devices {
 
-const char* kind_name(DeviceKind kind) { return kind == DeviceKind::balance ? "balance" : "ph_meter"; }
+const char* kind_name(DeviceKind kind) {
+    return kind == DeviceKind::balance ? "balance" : "ph_meter";
+}
 
 Expectation DeviceRecord::expectation() const {
     Expectation e;
@@ -28,32 +30,42 @@ QJsonObject DeviceRecord::to_json() const {
                   {"flow_control", port.flow_control},
                   {"format", format},
                   {"unit", unit}};
-    o["calibration_due"] = calibration_due.isValid() ? QJsonValue(calibration_due.toString(Qt::ISODate))
-                                                     : QJsonValue(QJsonValue::Null);
+    o["calibration_due"] = calibration_due.isValid()
+                               ? QJsonValue(calibration_due.toString(Qt::ISODate))
+                               : QJsonValue(QJsonValue::Null);
     return o;
 }
 
-DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at, const FormatLibrary* formats) {
+DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at,
+                                     const FormatLibrary* formats) {
     json::reject_near_misses(o,
-                             {"id", "name", "kind", "port", "baud", "data_bits", "parity", "stop_bits",
-                              "flow_control", "format", "unit", "calibration_due"},
+                             {"id", "name", "kind", "port", "baud", "data_bits", "parity",
+                              "stop_bits", "flow_control", "format", "unit", "calibration_due"},
                              at);
     DeviceRecord d;
     d.id = QString::fromStdString(json::require_string(o, QStringLiteral("id"), at)).trimmed();
-    if (d.id.isEmpty()) throw chem::Error(json::path(at, QStringLiteral("id")), "an instrument needs an id");
-    d.name = QString::fromStdString(json::optional_string(o, QStringLiteral("name"), at).value_or(""));
+    if (d.id.isEmpty())
+        throw chem::Error(json::path(at, QStringLiteral("id")), "an instrument needs an id");
+    d.name =
+        QString::fromStdString(json::optional_string(o, QStringLiteral("name"), at).value_or(""));
     const std::string kind = json::require_string(o, QStringLiteral("kind"), at);
-    if (kind == "balance") d.kind = DeviceKind::balance;
-    else if (kind == "ph_meter") d.kind = DeviceKind::ph_meter;
-    else throw chem::Error(json::path(at, QStringLiteral("kind")), "\"" + kind + "\" is not balance or ph_meter");
+    if (kind == "balance")
+        d.kind = DeviceKind::balance;
+    else if (kind == "ph_meter")
+        d.kind = DeviceKind::ph_meter;
+    else
+        throw chem::Error(json::path(at, QStringLiteral("kind")),
+                          "\"" + kind + "\" is not balance or ph_meter");
     d.port.port = QString::fromStdString(json::require_string(o, QStringLiteral("port"), at));
     if (o.contains(QLatin1String("baud")))
         d.port.baud = json::require_int(o, QStringLiteral("baud"), at, 50, 4000000);
     if (o.contains(QLatin1String("data_bits")))
         d.port.data_bits = json::require_int(o, QStringLiteral("data_bits"), at, 5, 8);
-    if (auto p = json::optional_string(o, QStringLiteral("parity"), at)) d.port.parity = QString::fromStdString(*p);
+    if (auto p = json::optional_string(o, QStringLiteral("parity"), at))
+        d.port.parity = QString::fromStdString(*p);
     if (o.value(QLatin1String("stop_bits")).isDouble())
-        d.port.stop_bits = QString::fromStdString(chem::format_number(o.value(QLatin1String("stop_bits")).toDouble()));
+        d.port.stop_bits = QString::fromStdString(
+            chem::format_number(o.value(QLatin1String("stop_bits")).toDouble()));
     else if (auto s = json::optional_string(o, QStringLiteral("stop_bits"), at))
         d.port.stop_bits = QString::fromStdString(*s);
     if (auto f = json::optional_string(o, QStringLiteral("flow_control"), at))
@@ -69,7 +81,8 @@ DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at
     }
     d.unit = QString::fromStdString(json::optional_string(o, QStringLiteral("unit"), at)
                                         .value_or(d.kind == DeviceKind::balance ? "g" : "pH"));
-    const QStringList units = d.kind == DeviceKind::balance ? QStringList{"g", "mg", "kg"} : QStringList{"pH"};
+    const QStringList units =
+        d.kind == DeviceKind::balance ? QStringList{"g", "mg", "kg"} : QStringList{"pH"};
     if (!units.contains(d.unit))
         throw chem::Error(json::path(at, QStringLiteral("unit")),
                           "\"" + d.unit.toStdString() + "\" is not a unit a " + kind + " sends (" +
@@ -79,7 +92,8 @@ DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at
         d.calibration_due = QDate::fromString(due.toString(), Qt::ISODate);
         if (!d.calibration_due.isValid())
             throw chem::Error(json::path(at, QStringLiteral("calibration_due")),
-                              "\"" + due.toString().toStdString() + "\" is not a date (YYYY-MM-DD)");
+                              "\"" + due.toString().toStdString() +
+                                  "\" is not a date (YYYY-MM-DD)");
     } else if (!due.isUndefined() && !due.isNull()) {
         throw chem::Error(json::path(at, QStringLiteral("calibration_due")),
                           json::describe(due) + " is not a date (YYYY-MM-DD)");
@@ -88,16 +102,19 @@ DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at
 }
 
 std::optional<QJsonObject> calibration_caution(const DeviceRecord& device, const QDate& today) {
-    if (!device.calibration_due.isValid() || device.calibration_due > today) return std::nullopt;
+    if (!device.calibration_due.isValid() || device.calibration_due > today)
+        return std::nullopt;
     const QString due = device.calibration_due.toString(Qt::ISODate);
-    const QString what = device.kind == DeviceKind::balance ? QStringLiteral("balance") : QStringLiteral("pH meter");
+    const QString what =
+        device.kind == DeviceKind::balance ? QStringLiteral("balance") : QStringLiteral("pH meter");
     return QJsonObject{
         {"code", "device-calibration-due"},
         {"severity", "caution"},
         {"device", device.id},
         {"calibration_due", due},
-        {"message", QStringLiteral("%1 %2 was due for calibration on %3: calibrate it or use another %1")
-                        .arg(what, device.id, due)}};
+        {"message",
+         QStringLiteral("%1 %2 was due for calibration on %3: calibrate it or use another %1")
+             .arg(what, device.id, due)}};
 }
 
 std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::string& origin,
@@ -108,7 +125,8 @@ std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::
         std::vector<DeviceRecord> out;
         for (int i = 0; i < arr.size(); ++i) {
             const std::string at = json::path("devices", i);
-            DeviceRecord d = DeviceRecord::from_json(json::element_object(arr, i, "devices"), at, formats);
+            DeviceRecord d =
+                DeviceRecord::from_json(json::element_object(arr, i, "devices"), at, formats);
             for (const DeviceRecord& e : out)
                 if (e.id == d.id)
                     throw chem::Error(at + ".id", "\"" + d.id.toStdString() + "\" is given twice");
@@ -128,7 +146,8 @@ DeviceRecord from_row(const QSqlQuery& q) {
     DeviceRecord d;
     d.id = q.value(0).toString();
     d.name = q.value(1).toString();
-    d.kind = q.value(2).toString() == QLatin1String("balance") ? DeviceKind::balance : DeviceKind::ph_meter;
+    d.kind = q.value(2).toString() == QLatin1String("balance") ? DeviceKind::balance
+                                                               : DeviceKind::ph_meter;
     d.port.port = q.value(3).toString();
     d.port.baud = q.value(4).toInt();
     d.port.data_bits = q.value(5).toInt();
@@ -137,31 +156,37 @@ DeviceRecord from_row(const QSqlQuery& q) {
     d.port.flow_control = q.value(8).toString();
     d.format = q.value(9).toString();
     d.unit = q.value(10).toString();
-    if (!q.value(11).isNull()) d.calibration_due = QDate::fromString(q.value(11).toString(), Qt::ISODate);
+    if (!q.value(11).isNull())
+        d.calibration_due = QDate::fromString(q.value(11).toString(), Qt::ISODate);
     return d;
 }
 
-const char* columns = "id, name, kind, port, baud, data_bits, parity, stop_bits, flow_control, line_format,"
-                      " unit, calibration_due";
+const char* columns =
+    "id, name, kind, port, baud, data_bits, parity, stop_bits, flow_control, line_format,"
+    " unit, calibration_due";
 
 } // namespace
 
 void DeviceStore::upsert(const DeviceRecord& d) {
-    if (d.id.trimmed().isEmpty()) throw chem::Error("id", "an instrument needs an id");
+    if (d.id.trimmed().isEmpty())
+        throw chem::Error("id", "an instrument needs an id");
     d.port.validate();
     const QString now = QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
-    db_.exec(QStringLiteral("INSERT INTO devices (%1, created_at, updated_at)"
-                            " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
-                            " ON CONFLICT (id) DO UPDATE SET name = excluded.name, kind = excluded.kind,"
-                            " port = excluded.port, baud = excluded.baud, data_bits = excluded.data_bits,"
-                            " parity = excluded.parity, stop_bits = excluded.stop_bits,"
-                            " flow_control = excluded.flow_control, line_format = excluded.line_format,"
-                            " unit = excluded.unit, calibration_due = excluded.calibration_due,"
-                            " updated_at = excluded.updated_at")
+    db_.exec(QStringLiteral(
+                 "INSERT INTO devices (%1, created_at, updated_at)"
+                 " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
+                 " ON CONFLICT (id) DO UPDATE SET name = excluded.name, kind = excluded.kind,"
+                 " port = excluded.port, baud = excluded.baud, data_bits = excluded.data_bits,"
+                 " parity = excluded.parity, stop_bits = excluded.stop_bits,"
+                 " flow_control = excluded.flow_control, line_format = excluded.line_format,"
+                 " unit = excluded.unit, calibration_due = excluded.calibration_due,"
+                 " updated_at = excluded.updated_at")
                  .arg(QLatin1String(columns)),
              {d.id.trimmed(), d.name, QLatin1String(kind_name(d.kind)), d.port.port, d.port.baud,
-              d.port.data_bits, d.port.parity, d.port.stop_bits, d.port.flow_control, d.format, d.unit,
-              d.calibration_due.isValid() ? QVariant(d.calibration_due.toString(Qt::ISODate)) : QVariant(),
+              d.port.data_bits, d.port.parity, d.port.stop_bits, d.port.flow_control, d.format,
+              d.unit,
+              d.calibration_due.isValid() ? QVariant(d.calibration_due.toString(Qt::ISODate))
+                                          : QVariant(),
               now, now});
 }
 
@@ -171,32 +196,39 @@ void DeviceStore::save(const DeviceRecord& device) {
     t.commit();
 }
 
-int DeviceStore::import_json(const QByteArray& bytes, const std::string& origin, const FormatLibrary* formats) {
+int DeviceStore::import_json(const QByteArray& bytes, const std::string& origin,
+                             const FormatLibrary* formats) {
     const std::vector<DeviceRecord> all = devices_from_json(bytes, origin, formats);
     storage::Database::Transaction t(db_);
-    for (const DeviceRecord& d : all) upsert(d);
+    for (const DeviceRecord& d : all)
+        upsert(d);
     t.commit();
     return static_cast<int>(all.size());
 }
 
 std::optional<DeviceRecord> DeviceStore::load(const QString& id) const {
-    QSqlQuery q = db_.exec(QStringLiteral("SELECT %1 FROM devices WHERE id = ?").arg(QLatin1String(columns)),
-                           {id.trimmed()});
-    if (!q.next()) return std::nullopt;
+    QSqlQuery q =
+        db_.exec(QStringLiteral("SELECT %1 FROM devices WHERE id = ?").arg(QLatin1String(columns)),
+                 {id.trimmed()});
+    if (!q.next())
+        return std::nullopt;
     return from_row(q);
 }
 
 std::vector<DeviceRecord> DeviceStore::list() const {
-    QSqlQuery q = db_.exec(QStringLiteral("SELECT %1 FROM devices ORDER BY id").arg(QLatin1String(columns)));
+    QSqlQuery q =
+        db_.exec(QStringLiteral("SELECT %1 FROM devices ORDER BY id").arg(QLatin1String(columns)));
     std::vector<DeviceRecord> out;
-    while (q.next()) out.push_back(from_row(q));
+    while (q.next())
+        out.push_back(from_row(q));
     return out;
 }
 
 std::vector<DeviceRecord> DeviceStore::list(DeviceKind kind) const {
     std::vector<DeviceRecord> out;
     for (DeviceRecord& d : list())
-        if (d.kind == kind) out.push_back(std::move(d));
+        if (d.kind == kind)
+            out.push_back(std::move(d));
     return out;
 }
 

@@ -24,15 +24,16 @@ enum class DeviceKind { balance, ph_meter };
 const char* kind_name(DeviceKind kind);
 
 struct DeviceRecord {
-    QString id;              ///< the lab's own label on the instrument ("BAL-03")
-    QString name;            ///< "Analytical balance, bench 2"
+    QString id;   ///< the lab's own label on the instrument ("BAL-03")
+    QString name; ///< "Analytical balance, bench 2"
     DeviceKind kind = DeviceKind::balance;
     PortSettings port;
-    QString format;          ///< a preset's name or a regular expression (see line_format.h)
-    QString unit;            ///< the unit the instrument is set to send: "g", "mg", "kg" or "pH"
-    QDate calibration_due;   ///< invalid when not recorded
+    QString format;        ///< a preset's name or a regular expression (see line_format.h)
+    QString unit;          ///< the unit the instrument is set to send: "g", "mg", "kg" or "pH"
+    QDate calibration_due; ///< invalid when not recorded
 
-    /// What a reading from this instrument must be: a mass in `unit` for a balance, a pH for a meter.
+    /// What a reading from this instrument must be: a mass in `unit` for a balance, a pH for a
+    /// meter.
     Expectation expectation() const;
     QJsonObject to_json() const;
     /// Reads one record; throws chem::Error naming "<at>.<field>" with the bad value. `formats`
@@ -51,12 +52,13 @@ std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::
                                             const FormatLibrary* formats = nullptr);
 
 class DeviceStore {
-public:
+  public:
     explicit DeviceStore(storage::Database& db) : db_(db) {}
     /// Inserts or replaces by id (one transaction).
     void save(const DeviceRecord& device);
     /// Saves every record of a devices file in one transaction: all or none. Returns the count.
-    int import_json(const QByteArray& bytes, const std::string& origin, const FormatLibrary* formats = nullptr);
+    int import_json(const QByteArray& bytes, const std::string& origin,
+                    const FormatLibrary* formats = nullptr);
     std::optional<DeviceRecord> load(const QString& id) const;
     /// Ordered by id.
     std::vector<DeviceRecord> list() const;
@@ -64,7 +66,7 @@ public:
     std::vector<DeviceRecord> list(DeviceKind kind) const;
     bool remove(const QString& id);
 
-private:
+  private:
     void upsert(const DeviceRecord& d);
     storage::Database& db_;
 };

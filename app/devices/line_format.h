@@ -32,13 +32,13 @@ enum class Quantity { any, mass, ph };
 const char* quantity_name(Quantity q);
 
 struct LineFormat {
-    QString name;            ///< the preset's name, or "custom" for an expression given inline
+    QString name; ///< the preset's name, or "custom" for an expression given inline
     QString description;
-    QString pattern;         ///< as written (without the added anchors)
-    QStringList stable_marks;///< texts of the stable group that mean "stable"
+    QString pattern;          ///< as written (without the added anchors)
+    QStringList stable_marks; ///< texts of the stable group that mean "stable"
     Quantity quantity = Quantity::any;
-    QStringList examples;    ///< lines the format must read (checked by the tests)
-    QRegularExpression regex;///< the pattern anchored at both ends
+    QStringList examples;     ///< lines the format must read (checked by the tests)
+    QRegularExpression regex; ///< the pattern anchored at both ends
     bool has_stable = false;
 };
 
@@ -46,7 +46,7 @@ struct LineFormat {
 struct FaultLine {
     QRegularExpression regex;
     Fault fault = Fault::out_of_range;
-    QString meaning;         ///< "over the instrument's range"
+    QString meaning; ///< "over the instrument's range"
 };
 
 /// The presets and fault lines of data/device_formats.json.
@@ -75,15 +75,15 @@ LineFormat resolve_format(const FormatLibrary& lib, const QString& spec);
 
 /// One reading, as taken from one line.
 struct Reading {
-    double value = 0;          ///< in the base unit: g for a mass, pH units for a pH
-    QString unit;              ///< "g" or "pH"
-    double sent_value = 0;     ///< as the instrument sent it
-    QString sent_unit;         ///< as the instrument sent it ("mg")
+    double value = 0;      ///< in the base unit: g for a mass, pH units for a pH
+    QString unit;          ///< "g" or "pH"
+    double sent_value = 0; ///< as the instrument sent it
+    QString sent_unit;     ///< as the instrument sent it ("mg")
     bool stable = true;
-    QString raw;               ///< the line as received, without its line end
-    QString instrument_id;     ///< from the id group; empty when none
+    QString raw;           ///< the line as received, without its line end
+    QString instrument_id; ///< from the id group; empty when none
     std::optional<double> temperature_c;
-    QDateTime received_at;     ///< UTC
+    QDateTime received_at; ///< UTC
 
     QJsonObject to_json() const;
 };

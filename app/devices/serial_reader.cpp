@@ -15,22 +15,30 @@ std::string at(const std::string& parent, const char* key) {
 }
 
 QSerialPort::Parity parity_of(const QString& s) {
-    if (s == QLatin1String("even")) return QSerialPort::EvenParity;
-    if (s == QLatin1String("odd")) return QSerialPort::OddParity;
-    if (s == QLatin1String("mark")) return QSerialPort::MarkParity;
-    if (s == QLatin1String("space")) return QSerialPort::SpaceParity;
+    if (s == QLatin1String("even"))
+        return QSerialPort::EvenParity;
+    if (s == QLatin1String("odd"))
+        return QSerialPort::OddParity;
+    if (s == QLatin1String("mark"))
+        return QSerialPort::MarkParity;
+    if (s == QLatin1String("space"))
+        return QSerialPort::SpaceParity;
     return QSerialPort::NoParity;
 }
 
 QSerialPort::StopBits stop_bits_of(const QString& s) {
-    if (s == QLatin1String("1.5")) return QSerialPort::OneAndHalfStop;
-    if (s == QLatin1String("2")) return QSerialPort::TwoStop;
+    if (s == QLatin1String("1.5"))
+        return QSerialPort::OneAndHalfStop;
+    if (s == QLatin1String("2"))
+        return QSerialPort::TwoStop;
     return QSerialPort::OneStop;
 }
 
 QSerialPort::FlowControl flow_of(const QString& s) {
-    if (s == QLatin1String("hardware")) return QSerialPort::HardwareControl;
-    if (s == QLatin1String("software")) return QSerialPort::SoftwareControl;
+    if (s == QLatin1String("hardware"))
+        return QSerialPort::HardwareControl;
+    if (s == QLatin1String("software"))
+        return QSerialPort::SoftwareControl;
     return QSerialPort::NoFlowControl;
 }
 
@@ -47,7 +55,8 @@ QString PortSettings::system_path() const {
 
 void PortSettings::validate(const std::string& parent) const {
     if (port.trimmed().isEmpty())
-        throw DeviceError(Fault::bad_setting, at(parent, "port"), "give the serial port, e.g. /dev/ttyUSB0");
+        throw DeviceError(Fault::bad_setting, at(parent, "port"),
+                          "give the serial port, e.g. /dev/ttyUSB0");
     // 50 to 4 000 000 bit/s covers every rate a termios driver takes (common practice, no source).
     if (baud < 50 || baud > 4000000)
         throw DeviceError(Fault::bad_setting, at(parent, "baud"),
@@ -59,13 +68,15 @@ void PortSettings::validate(const std::string& parent) const {
     if (!parities.contains(parity))
         throw DeviceError(Fault::bad_setting, at(parent, "parity"),
                           "\"" + parity.toStdString() + "\" is not none, even, odd, mark or space");
-    if (stop_bits != QLatin1String("1") && stop_bits != QLatin1String("1.5") && stop_bits != QLatin1String("2"))
+    if (stop_bits != QLatin1String("1") && stop_bits != QLatin1String("1.5") &&
+        stop_bits != QLatin1String("2"))
         throw DeviceError(Fault::bad_setting, at(parent, "stop_bits"),
                           "\"" + stop_bits.toStdString() + "\" is not 1, 1.5 or 2");
     if (flow_control != QLatin1String("none") && flow_control != QLatin1String("hardware") &&
         flow_control != QLatin1String("software"))
         throw DeviceError(Fault::bad_setting, at(parent, "flow_control"),
-                          "\"" + flow_control.toStdString() + "\" is not none, hardware or software");
+                          "\"" + flow_control.toStdString() +
+                              "\" is not none, hardware or software");
 }
 
 // ---- LineAssembler ----------------------------------------------------------------------------
@@ -90,20 +101,23 @@ std::optional<QByteArray> LineAssembler::take_line() {
             if (buf_.size() - pos_ > max_) {
                 const QByteArray junk = pending();
                 clear();
-                throw DeviceError(Fault::garbage, "reading",
-                                  "no line end after " + std::to_string(junk.size()) + " bytes " +
-                                      quote_line(junk) +
-                                      ": check the baud rate, data bits and parity against the instrument");
+                throw DeviceError(
+                    Fault::garbage, "reading",
+                    "no line end after " + std::to_string(junk.size()) + " bytes " +
+                        quote_line(junk) +
+                        ": check the baud rate, data bits and parity against the instrument");
             }
             return std::nullopt;
         }
         QByteArray line = buf_.mid(pos_, end - pos_);
         pos_ = end + 1;
-        if (line.isEmpty()) continue; // the LF of CR LF, or a blank line
+        if (line.isEmpty())
+            continue; // the LF of CR LF, or a blank line
         if (line.size() > max_)
-            throw DeviceError(Fault::garbage, "reading",
-                              "a line of " + std::to_string(line.size()) + " bytes " + quote_line(line) +
-                                  " is too long for a reading: check the baud rate and the line format");
+            throw DeviceError(
+                Fault::garbage, "reading",
+                "a line of " + std::to_string(line.size()) + " bytes " + quote_line(line) +
+                    " is too long for a reading: check the baud rate and the line format");
         return line;
     }
 }
@@ -113,10 +127,13 @@ std::optional<QByteArray> LineAssembler::take_line() {
 SerialReader::SerialReader() = default;
 SerialReader::~SerialReader() = default;
 
-bool SerialReader::is_open() const { return port_ && port_->isOpen(); }
+bool SerialReader::is_open() const {
+    return port_ && port_->isOpen();
+}
 
 void SerialReader::close() {
-    if (port_) port_->close();
+    if (port_)
+        port_->close();
     port_.reset();
     lines_.clear();
     gone_ = false;
@@ -135,7 +152,8 @@ void open_port(QSerialPort& port, const PortSettings& settings) {
     port.setParity(parity_of(settings.parity));
     port.setStopBits(stop_bits_of(settings.stop_bits));
     port.setFlowControl(flow_of(settings.flow_control));
-    if (port.open(QIODevice::ReadOnly)) return;
+    if (port.open(QIODevice::ReadOnly))
+        return;
 
     const QSerialPort::SerialPortError err = port.error();
     const std::string why = port.errorString().toStdString();
@@ -148,28 +166,34 @@ void open_port(QSerialPort& port, const PortSettings& settings) {
             throw DeviceError(Fault::port_busy, "port",
                               shown + " is in use by another program: close it and try again");
         throw DeviceError(Fault::port_failed, "port",
-                          "no permission to read " + shown + " (is the user in the dialout group?)");
+                          "no permission to read " + shown +
+                              " (is the user in the dialout group?)");
     }
-    throw DeviceError(Fault::port_failed, "port",
-                      shown + " cannot be opened as a serial port" +
-                          (err == QSerialPort::NoError ? std::string(" (not a terminal device?)") : ": " + why));
+    throw DeviceError(
+        Fault::port_failed, "port",
+        shown + " cannot be opened as a serial port" +
+            (err == QSerialPort::NoError ? std::string(" (not a terminal device?)") : ": " + why));
 }
 
-DeviceError port_fault(const QSerialPort& port, const PortSettings& settings, const QByteArray& pending) {
+DeviceError port_fault(const QSerialPort& port, const PortSettings& settings,
+                       const QByteArray& pending) {
     const QSerialPort::SerialPortError err = port.error();
     const std::string shown = settings.system_path().toStdString();
-    if (err == QSerialPort::ResourceError || err == QSerialPort::ReadError || err == QSerialPort::DeviceNotFoundError)
+    if (err == QSerialPort::ResourceError || err == QSerialPort::ReadError ||
+        err == QSerialPort::DeviceNotFoundError)
         return DeviceError(Fault::disconnected, "port",
-                           "the instrument on " + shown + " went away (" + received_so_far(pending) +
-                               "): check the cable and the instrument");
+                           "the instrument on " + shown + " went away (" +
+                               received_so_far(pending) + "): check the cable and the instrument");
     return DeviceError(Fault::port_failed, "port", shown + ": " + port.errorString().toStdString());
 }
 
-DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only, const QByteArray& pending) {
+DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
+                          const QByteArray& pending) {
     return DeviceError(Fault::timeout, "port",
                        "no " + std::string(stable_only ? "stable " : "") + "reading from " +
                            settings.system_path().toStdString() + " within " +
-                           chem::format_number(timeout_ms / 1000.0) + " s (" + received_so_far(pending) +
+                           chem::format_number(timeout_ms / 1000.0) + " s (" +
+                           received_so_far(pending) +
                            "): press the print key, or check the cable, baud rate and line end");
 }
 
@@ -182,11 +206,14 @@ void SerialReader::open(const PortSettings& settings) {
 }
 
 QByteArray SerialReader::next_line(int timeout_ms) {
-    if (!port_) throw DeviceError(Fault::port_failed, "port", "the port is not open");
+    if (!port_)
+        throw DeviceError(Fault::port_failed, "port", "the port is not open");
     QDeadlineTimer deadline(timeout_ms);
     for (;;) {
-        if (auto line = lines_.take_line()) return *line;
-        if (gone_) throw port_fault(*port_, settings_, lines_.pending());
+        if (auto line = lines_.take_line())
+            return *line;
+        if (gone_)
+            throw port_fault(*port_, settings_, lines_.pending());
         if (port_->bytesAvailable() > 0) {
             lines_.feed(port_->readAll());
             continue;
@@ -202,10 +229,12 @@ QByteArray SerialReader::next_line(int timeout_ms) {
                 gone_ = true;
                 continue; // a complete line already read is still taken first
             }
-            if (auto line = lines_.take_line()) return *line;
+            if (auto line = lines_.take_line())
+                return *line;
             if (err != QSerialPort::NoError && err != QSerialPort::TimeoutError)
                 throw port_fault(*port_, settings_, lines_.pending());
-            if (deadline.hasExpired() || left == 0) throw timeout_fault(settings_, timeout_ms, false, lines_.pending());
+            if (deadline.hasExpired() || left == 0)
+                throw timeout_fault(settings_, timeout_ms, false, lines_.pending());
             port_->clearError();
         }
     }
@@ -221,12 +250,16 @@ Reading SerialReader::next_reading(const LineFormat& format, const FormatLibrary
             line = next_line(static_cast<int>(std::max<qint64>(0, left)));
         } catch (const DeviceError& e) {
             // The message should name the whole wait, not what was left of it.
-            if (e.fault() != Fault::timeout) throw;
-            throw timeout_fault(settings_, options.timeout_ms, options.stable_only, lines_.pending());
+            if (e.fault() != Fault::timeout)
+                throw;
+            throw timeout_fault(settings_, options.timeout_ms, options.stable_only,
+                                lines_.pending());
         }
         Reading r = parse_line(line, format, lib, options.expect);
-        if (r.stable || !options.stable_only) return r;
-        if (options.on_unstable) options.on_unstable(r);
+        if (r.stable || !options.stable_only)
+            return r;
+        if (options.on_unstable)
+            options.on_unstable(r);
     }
 }
 

@@ -22,11 +22,11 @@ namespace phaseplan::devices {
 
 /// A port and its line settings.
 struct PortSettings {
-    QString port;                ///< "/dev/ttyUSB0" (a bare "ttyUSB0" is looked up under /dev)
-    int baud = 9600;             ///< bits per second
-    int data_bits = 8;           ///< 5 to 8
-    QString parity = "none";     ///< none, even, odd, mark, space
-    QString stop_bits = "1";     ///< "1", "1.5", "2"
+    QString port;                  ///< "/dev/ttyUSB0" (a bare "ttyUSB0" is looked up under /dev)
+    int baud = 9600;               ///< bits per second
+    int data_bits = 8;             ///< 5 to 8
+    QString parity = "none";       ///< none, even, odd, mark, space
+    QString stop_bits = "1";       ///< "1", "1.5", "2"
     QString flow_control = "none"; ///< none, hardware (RTS/CTS), software (XON/XOFF)
 
     /// The device file: port, or /dev/<port> for a bare name.
@@ -42,13 +42,15 @@ void open_port(QSerialPort& port, const PortSettings& settings);
 
 /// The fault when the port reports `error` while a line was being received (`pending`: the part
 /// of a line received so far). Disconnection for a resource, read or not-found error.
-DeviceError port_fault(const QSerialPort& port, const PortSettings& settings, const QByteArray& pending);
+DeviceError port_fault(const QSerialPort& port, const PortSettings& settings,
+                       const QByteArray& pending);
 
 /// The timeout fault after `timeout_ms` of waiting.
-DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only, const QByteArray& pending);
+DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
+                          const QByteArray& pending);
 
 class LineAssembler {
-public:
+  public:
     /// A line longer than max_line_bytes without a line end is garbage (a wrong baud rate
     /// rarely produces CR or LF).
     explicit LineAssembler(int max_line_bytes = 256) : max_(max_line_bytes) {}
@@ -64,21 +66,21 @@ public:
         pos_ = 0;
     }
 
-private:
+  private:
     QByteArray buf_;
     qsizetype pos_ = 0;
     int max_;
 };
 
 struct ReadOptions {
-    int timeout_ms = 10000;      ///< for one reading (with stable_only: for the stable one)
-    bool stable_only = false;    ///< skip unstable readings (each is passed to on_unstable)
+    int timeout_ms = 10000;   ///< for one reading (with stable_only: for the stable one)
+    bool stable_only = false; ///< skip unstable readings (each is passed to on_unstable)
     Expectation expect;
     std::function<void(const Reading&)> on_unstable;
 };
 
 class SerialReader {
-public:
+  public:
     SerialReader();
     ~SerialReader();
     SerialReader(const SerialReader&) = delete;
@@ -96,9 +98,10 @@ public:
     QByteArray next_line(int timeout_ms);
     /// next_line, read with the format (parse_line's faults). With stable_only, an unstable
     /// reading is reported through on_unstable and the wait goes on.
-    Reading next_reading(const LineFormat& format, const FormatLibrary& lib, const ReadOptions& options);
+    Reading next_reading(const LineFormat& format, const FormatLibrary& lib,
+                         const ReadOptions& options);
 
-private:
+  private:
     std::unique_ptr<QSerialPort> port_;
     PortSettings settings_;
     LineAssembler lines_;

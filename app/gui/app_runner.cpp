@@ -42,7 +42,8 @@ void counting_handler(QtMsgType type, const QMessageLogContext& ctx, const QStri
         QMutexLocker lock(&messages_mutex);
         ++problem_count;
     }
-    if (previous_handler) previous_handler(type, ctx, msg);
+    if (previous_handler)
+        previous_handler(type, ctx, msg);
 }
 
 int problems() {
@@ -90,14 +91,17 @@ int render_screens(QQuickWindow* win, const QString& dir, int* audit = nullptr) 
             if (audit) {
                 const double ppmm = px_per_mm(win);
                 for (const LayoutProblem& p : audit_layout(win, ppmm)) {
-                    std::fprintf(stderr, "phaseplan: %s, %s: %s: %s %s\n", qPrintable(keys[i]), o.name,
-                                 qPrintable(p.kind), qPrintable(p.what), qPrintable(p.detail));
+                    std::fprintf(stderr, "phaseplan: %s, %s: %s: %s %s\n", qPrintable(keys[i]),
+                                 o.name, qPrintable(p.kind), qPrintable(p.what),
+                                 qPrintable(p.detail));
                     ++*audit;
                 }
             }
-            if (dir.isEmpty()) continue;
+            if (dir.isEmpty())
+                continue;
             QImage img = win->grabWindow();
-            const QString file = QStringLiteral("%1/%2-%3.png").arg(dir, keys[i], QLatin1String(o.name));
+            const QString file =
+                QStringLiteral("%1/%2-%3.png").arg(dir, keys[i], QLatin1String(o.name));
             if (img.isNull() || !img.save(file)) {
                 std::fprintf(stderr, "phaseplan: could not write %s\n", qPrintable(file));
                 return 1;
@@ -109,7 +113,8 @@ int render_screens(QQuickWindow* win, const QString& dir, int* audit = nullptr) 
 }
 
 double median(std::vector<double> v) {
-    if (v.empty()) return 0;
+    if (v.empty())
+        return 0;
     std::sort(v.begin(), v.end());
     return v[v.size() / 2];
 }
@@ -153,7 +158,8 @@ int measure(QQuickWindow* win, double startup_ms) {
             QElapsedTimer part;
             part.start();
             if (QObject* m = win->findChild<QObject*>(QString::fromLatin1(name)))
-                QMetaObject::invokeMethod(m, std::string(name) == "checks" ? "refreshNow" : "recomputeNow");
+                QMetaObject::invokeMethod(m, std::string(name) == "checks" ? "refreshNow"
+                                                                           : "recomputeNow");
             parts_ms[k++].push_back(part.nsecsElapsed() / 1e6);
         }
         QCoreApplication::processEvents();
@@ -163,7 +169,8 @@ int measure(QQuickWindow* win, double startup_ms) {
         model_ms.push_back(designer->property("lastRecomputeMs").toDouble());
     }
     designer->setProperty("targetPh", ph0);
-    std::printf("buffer recompute in the model (median of %zu edits): %.2f ms\n", model_ms.size(), median(model_ms));
+    std::printf("buffer recompute in the model (median of %zu edits): %.2f ms\n", model_ms.size(),
+                median(model_ms));
     std::printf("edit handled, model + QML bindings (median): %.2f ms\n", median(sync_ms));
     std::printf("deferred updates: plan, lines, checks, other screens (median): %.2f ms "
                 "(plan %.2f, lines %.2f, checks %.2f, each with its views)\n",
@@ -173,7 +180,8 @@ int measure(QQuickWindow* win, double startup_ms) {
     std::printf("a frame with nothing changed (median): %.2f ms\n", median(idle_ms));
     for (const char* name : {"plan", "lines"}) {
         if (QObject* m = win->findChild<QObject*>(QString::fromLatin1(name)))
-            std::printf("%s recompute in the model (last): %.2f ms\n", name, m->property("lastRecomputeMs").toDouble());
+            std::printf("%s recompute in the model (last): %.2f ms\n", name,
+                        m->property("lastRecomputeMs").toDouble());
     }
     return 0;
 }
@@ -208,8 +216,12 @@ QPalette dark_palette() {
 
 } // namespace
 
-void start_clock() { clock().start(); }
-double elapsed_since_start_ms() { return clock().isValid() ? clock().nsecsElapsed() / 1e6 : 0; }
+void start_clock() {
+    clock().start();
+}
+double elapsed_since_start_ms() {
+    return clock().isValid() ? clock().nsecsElapsed() / 1e6 : 0;
+}
 
 void prepare_engine(QQmlEngine& engine) {
     // The module's files come from the resources linked into the binary.
@@ -227,33 +239,44 @@ int run_app(QApplication& app) {
     parser.setApplicationDescription(QStringLiteral("Mobile-phase and buffer preparation planner"));
     parser.addHelpOption();
     parser.addVersionOption();
-    QCommandLineOption database_opt(QStringLiteral("database"), QStringLiteral("Use this SQLite file."),
+    QCommandLineOption database_opt(QStringLiteral("database"),
+                                    QStringLiteral("Use this SQLite file."),
                                     QStringLiteral("FILE"));
     QCommandLineOption data_opt(QStringLiteral("data"), QStringLiteral("Reference data folder."),
                                 QStringLiteral("DIR"));
-    QCommandLineOption screenshot_opt(QStringLiteral("screenshot"),
-                                      QStringLiteral("Render each screen in both orientations to DIR and exit."),
-                                      QStringLiteral("DIR"));
-    QCommandLineOption selftest_opt(QStringLiteral("self-test"),
-                                    QStringLiteral("Load and render every screen, exit 1 on any QML warning."));
-    QCommandLineOption measure_opt(QStringLiteral("measure"),
-                                   QStringLiteral("Print start-up and recompute+redraw times, then exit."));
-    QCommandLineOption dark_opt(QStringLiteral("dark"),
-                                QStringLiteral("Use a dark palette, as a dark system theme gives (for checking)."));
-    QCommandLineOption keyboard_opt(QStringLiteral("keyboard"),
-                                    QStringLiteral("On-screen keyboard on or off (kept for the next starts)."),
-                                    QStringLiteral("on|off"));
-    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt, keyboard_opt});
+    QCommandLineOption screenshot_opt(
+        QStringLiteral("screenshot"),
+        QStringLiteral("Render each screen in both orientations to DIR and exit."),
+        QStringLiteral("DIR"));
+    QCommandLineOption selftest_opt(
+        QStringLiteral("self-test"),
+        QStringLiteral("Load and render every screen, exit 1 on any QML warning."));
+    QCommandLineOption measure_opt(
+        QStringLiteral("measure"),
+        QStringLiteral("Print start-up and recompute+redraw times, then exit."));
+    QCommandLineOption dark_opt(
+        QStringLiteral("dark"),
+        QStringLiteral("Use a dark palette, as a dark system theme gives (for checking)."));
+    QCommandLineOption keyboard_opt(
+        QStringLiteral("keyboard"),
+        QStringLiteral("On-screen keyboard on or off (kept for the next starts)."),
+        QStringLiteral("on|off"));
+    parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt,
+                       keyboard_opt});
     parser.process(app);
-    if (parser.isSet(dark_opt)) QApplication::setPalette(dark_palette());
+    if (parser.isSet(dark_opt))
+        QApplication::setPalette(dark_palette());
 
-    const bool checking = parser.isSet(screenshot_opt) || parser.isSet(selftest_opt) || parser.isSet(measure_opt);
-    if (checking) previous_handler = qInstallMessageHandler(counting_handler);
+    const bool checking =
+        parser.isSet(screenshot_opt) || parser.isSet(selftest_opt) || parser.isSet(measure_opt);
+    if (checking)
+        previous_handler = qInstallMessageHandler(counting_handler);
 
     // The checking seams start from a fresh database (first run: the demo) unless one is given.
     QTemporaryDir temp;
     QString db_path = parser.value(database_opt);
-    if (db_path.isEmpty() && checking) db_path = temp.filePath(QStringLiteral("phaseplan.sqlite"));
+    if (db_path.isEmpty() && checking)
+        db_path = temp.filePath(QStringLiteral("phaseplan.sqlite"));
 
     Workspace workspace;
     workspace.setDatabasePath(db_path);
@@ -265,18 +288,21 @@ int run_app(QApplication& app) {
 
     // The self-test reads the accessible names as a screen reader would: Qt Quick controls fill
     // them in only while accessibility is active.
-    if (parser.isSet(selftest_opt)) QAccessible::setActive(true);
+    if (parser.isSet(selftest_opt))
+        QAccessible::setActive(true);
 
     QQmlApplicationEngine engine;
     prepare_engine(engine);
     engine.setInitialProperties({{QStringLiteral("workspace"), QVariant::fromValue(&workspace)}});
     double first_frame_ms = -1;
-    QObject::connect(&engine, &QQmlApplicationEngine::objectCreated, &app, [&](QObject* obj, const QUrl&) {
-        if (auto* w = qobject_cast<QQuickWindow*>(obj))
-            QObject::connect(w, &QQuickWindow::frameSwapped, &app, [&first_frame_ms] {
-                if (first_frame_ms < 0) first_frame_ms = elapsed_since_start_ms();
-            });
-    });
+    QObject::connect(
+        &engine, &QQmlApplicationEngine::objectCreated, &app, [&](QObject* obj, const QUrl&) {
+            if (auto* w = qobject_cast<QQuickWindow*>(obj))
+                QObject::connect(w, &QQuickWindow::frameSwapped, &app, [&first_frame_ms] {
+                    if (first_frame_ms < 0)
+                        first_frame_ms = elapsed_since_start_ms();
+                });
+        });
     engine.load(QUrl(QStringLiteral("qrc:/PhasePlan/Main.qml")));
     if (engine.rootObjects().isEmpty()) {
         std::fprintf(stderr, "phaseplan: the main window did not load\n");
@@ -287,22 +313,28 @@ int run_app(QApplication& app) {
         std::fprintf(stderr, "phaseplan: Main.qml is not a window\n");
         return 1;
     }
-    if (!checking) return app.exec();
+    if (!checking)
+        return app.exec();
 
     win->show();
     wait_for_frame(win, 3000);
-    if (first_frame_ms < 0) first_frame_ms = elapsed_since_start_ms();
+    if (first_frame_ms < 0)
+        first_frame_ms = elapsed_since_start_ms();
     int status = 0;
-    if (parser.isSet(measure_opt)) status = measure(win, first_frame_ms);
+    if (parser.isSet(measure_opt))
+        status = measure(win, first_frame_ms);
     else {
         int layout_problems = 0;
-        status = render_screens(win, parser.value(screenshot_opt), parser.isSet(selftest_opt) ? &layout_problems : nullptr);
+        status = render_screens(win, parser.value(screenshot_opt),
+                                parser.isSet(selftest_opt) ? &layout_problems : nullptr);
         if (parser.isSet(selftest_opt)) {
             const QScreen* s = win->screen();
-            std::printf("self-test: %lld screens in 2 orientations at %.0f dpi (%.2f px/mm), %d layout problem(s)\n",
+            std::printf("self-test: %lld screens in 2 orientations at %.0f dpi (%.2f px/mm), %d "
+                        "layout problem(s)\n",
                         static_cast<long long>(win->property("screenKeys").toStringList().size()),
                         s ? s->physicalDotsPerInch() : 0.0, px_per_mm(win), layout_problems);
-            if (layout_problems > 0) status = 1;
+            if (layout_problems > 0)
+                status = 1;
         }
     }
     const int n = problems();

@@ -20,31 +20,40 @@ namespace phaseplan::gui {
 
 namespace {
 
-QString now_local() { return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss")); }
+QString now_local() {
+    return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"));
+}
 
-QVariant json_to_variant(const QJsonValue& v) { return v.isNull() || v.isUndefined() ? QVariant() : v.toVariant(); }
+QVariant json_to_variant(const QJsonValue& v) {
+    return v.isNull() || v.isUndefined() ? QVariant() : v.toVariant();
+}
 
 const QString pdf_folder_key = QStringLiteral("batch/pdfFolder");
 
 /// The message beside a captured field changed without a reason.
 QString by_hand_message(const QJsonObject& capture) {
-    return QObject::tr("was taken %1: give a reason to change it by hand (it is then recorded as typed)")
+    return QObject::tr(
+               "was taken %1: give a reason to change it by hand (it is then recorded as typed)")
         .arg(capture_source_text(capture));
 }
 
 /// About four significant figures, as the sheet prints amounts.
 QString amount_words(double v) {
-    if (v == 0) return QStringLiteral("0");
+    if (v == 0)
+        return QStringLiteral("0");
     const double a = std::abs(v);
     return QString::number(v, 'f', a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
 }
 
-/// "sheet a4 pdf" → "Sheet saved as PDF (A4)"; "labels label62 printer" → "Labels printed (62 mm label)".
+/// "sheet a4 pdf" → "Sheet saved as PDF (A4)"; "labels label62 printer" → "Labels printed (62 mm
+/// label)".
 QString print_words(const QString& what) {
     const QStringList w = what.split(' ');
-    if (w.size() != 3) return QObject::tr("Printed: %1").arg(what);
-    const QString doc = w[0] == QLatin1String("labels") ? QObject::tr("Labels") : QObject::tr("Sheet");
-    const QString paper = w[1] == QLatin1String("label62") ? QObject::tr("62 mm label")
+    if (w.size() != 3)
+        return QObject::tr("Printed: %1").arg(what);
+    const QString doc =
+        w[0] == QLatin1String("labels") ? QObject::tr("Labels") : QObject::tr("Sheet");
+    const QString paper = w[1] == QLatin1String("label62")  ? QObject::tr("62 mm label")
                           : w[1] == QLatin1String("letter") ? QObject::tr("US Letter")
                                                             : w[1].toUpper();
     return w[2] == QLatin1String("pdf") ? QObject::tr("%1 saved as PDF (%2)").arg(doc, paper)
@@ -52,7 +61,8 @@ QString print_words(const QString& what) {
 }
 
 QString local_path(const QString& path_or_url) {
-    if (path_or_url.startsWith(QStringLiteral("file:"))) return QUrl(path_or_url).toLocalFile();
+    if (path_or_url.startsWith(QStringLiteral("file:")))
+        return QUrl(path_or_url).toLocalFile();
     return path_or_url;
 }
 
@@ -68,35 +78,42 @@ BatchModel::BatchModel(QObject* parent) : QAbstractListModel(parent) {
 BatchModel::~BatchModel() = default;
 
 void BatchModel::setWorkspace(Workspace* w) {
-    if (workspace_ == w) return;
+    if (workspace_ == w)
+        return;
     workspace_ = w;
-    if (w) connect(w, &Workspace::readyChanged, this, [this] { emit batchListChanged(); });
+    if (w)
+        connect(w, &Workspace::readyChanged, this, [this] { emit batchListChanged(); });
     emit workspaceChanged();
     emit batchListChanged();
 }
 
 void BatchModel::setPreparer(const QString& p) {
-    if (preparer_ == p) return;
+    if (preparer_ == p)
+        return;
     preparer_ = p;
     emit preparerChanged();
 }
 
 void BatchModel::setIdPrefix(const QString& p) {
-    if (id_prefix_ == p) return;
+    if (id_prefix_ == p)
+        return;
     id_prefix_ = p;
     emit preparerChanged();
 }
 
 void BatchModel::setOutputDir(const QString& d_in) {
     const QString d = local_path(d_in);
-    if (output_dir_ == d) return;
+    if (output_dir_ == d)
+        return;
     output_dir_ = d;
-    if (!d.isEmpty()) QSettings().setValue(pdf_folder_key, d);
+    if (!d.isEmpty())
+        QSettings().setValue(pdf_folder_key, d);
     emit outputDirChanged();
 }
 
 void BatchModel::setOutput(QObject* o) {
-    if (output_object_ == o) return;
+    if (output_object_ == o)
+        return;
     output_object_ = o;
     emit outputChanged();
 }
@@ -106,39 +123,48 @@ DocumentOutput* BatchModel::output_iface() const {
 }
 
 void BatchModel::setAmendReason(const QString& r) {
-    if (amend_reason_ == r) return;
+    if (amend_reason_ == r)
+        return;
     amend_reason_ = r;
     emit amendReasonChanged();
 }
 
 std::unique_ptr<storage::BatchStore> BatchModel::store() const {
-    if (!workspace_ || !workspace_->database()) return nullptr;
+    if (!workspace_ || !workspace_->database())
+        return nullptr;
     return std::make_unique<storage::BatchStore>(workspace_->database()->connection());
 }
 
 QString BatchModel::who() const {
-    if (!preparer_.trimmed().isEmpty()) return preparer_.trimmed();
+    if (!preparer_.trimmed().isEmpty())
+        return preparer_.trimmed();
     return draft_ ? draft_->prepared_by : QString();
 }
 
 void BatchModel::set_error(const FieldError& e) {
-    if (error_ == e) return;
+    if (error_ == e)
+        return;
     error_ = e;
     emit errorChanged();
-    if (!rows_.empty()) emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole});
+    if (!rows_.empty())
+        emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole});
 }
 
 int BatchModel::actual_index(const QString& reagent) const {
-    if (!draft_) return -1;
+    if (!draft_)
+        return -1;
     for (int i = 0; i < draft_->actual.size(); ++i)
-        if (draft_->actual[i].toObject().value("reagent").toString() == reagent) return i;
+        if (draft_->actual[i].toObject().value("reagent").toString() == reagent)
+            return i;
     return -1;
 }
 
 FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
-    if (!workspace_ || !workspace_->ready()) return {QStringLiteral("database"), tr("no database is open")};
+    if (!workspace_ || !workspace_->ready())
+        return {QStringLiteral("database"), tr("no database is open")};
     BatchDocument doc;
-    const FieldError e = guarded([&] { doc = read_batch_document(workspace_->data(), rec.to_input()); });
+    const FieldError e =
+        guarded([&] { doc = read_batch_document(workspace_->data(), rec.to_input()); });
     if (!e.empty()) {
         valid_ = false;
         emit resultChanged();
@@ -164,17 +190,20 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
         r.low = c.value("low").toDouble();
         r.high = c.value("high").toDouble();
         r.entered = c.value("entered").toBool();
-        r.actual = r.entered ? c.value("actual").toDouble() : std::numeric_limits<double>::quiet_NaN();
+        r.actual =
+            r.entered ? c.value("actual").toDouble() : std::numeric_limits<double>::quiet_NaN();
         r.deviation_percent = c.value("deviation_percent").toDouble();
         r.within = c.value("within_tolerance").toBool(true);
         rows.push_back(r);
     }
     // The same reagents: update in place, so a field being typed in keeps its focus.
     bool same = rows.size() == rows_.size();
-    for (size_t k = 0; same && k < rows.size(); ++k) same = rows[k].reagent == rows_[k].reagent;
+    for (size_t k = 0; same && k < rows.size(); ++k)
+        same = rows[k].reagent == rows_[k].reagent;
     if (same) {
         rows_ = std::move(rows);
-        if (!rows_.empty()) emit dataChanged(index(0), index(int(rows_.size()) - 1));
+        if (!rows_.empty())
+            emit dataChanged(index(0), index(int(rows_.size()) - 1));
     } else {
         beginResetModel();
         rows_ = std::move(rows);
@@ -185,14 +214,19 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     shelf_life_h_ = b.value("shelf_life_h").toDouble();
     target_ph_ = s.value("target_ph").toDouble(std::numeric_limits<double>::quiet_NaN());
     predicted_ph_ = b.value("ph").toDouble(std::numeric_limits<double>::quiet_NaN());
-    ionic_strength_mmol_per_l_ = b.value("ionic_strength_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) * 1000;
-    buffer_capacity_mmol_per_l_ = b.value("buffer_capacity_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) * 1000;
+    ionic_strength_mmol_per_l_ =
+        b.value("ionic_strength_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) *
+        1000;
+    buffer_capacity_mmol_per_l_ =
+        b.value("buffer_capacity_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) *
+        1000;
     composition_.clear();
     for (const QJsonValue& v : b.value("composition").toArray()) {
         const QJsonObject c = v.toObject();
-        composition_.append(QVariantMap{{"reagent", c.value("reagent").toString()},
-                                        {"name", workspace_->displayName(c.value("reagent").toString())},
-                                        {"mmolPerL", c.value("mol_per_l").toDouble() * 1000}});
+        composition_.append(
+            QVariantMap{{"reagent", c.value("reagent").toString()},
+                        {"name", workspace_->displayName(c.value("reagent").toString())},
+                        {"mmolPerL", c.value("mol_per_l").toDouble() * 1000}});
     }
     warnings_.clear();
     for (const QJsonValue& v : s.value("warnings").toArray()) {
@@ -207,35 +241,39 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
 
 void BatchModel::reload(const QString& id) {
     auto st = store();
-    if (!st) return;
+    if (!st)
+        return;
     stored_ = st->load(id);
     history_.clear();
     if (stored_) {
         for (const auto& h : st->history(id))
-            history_.append(QVariantMap{{"seq", h.seq},
-                                        {"revision", h.revision},
-                                        {"at", h.at},
-                                        {"who", h.who},
-                                        {"action", h.action},
-                                        {"field", h.field},
-                                        {"oldValue", json_to_variant(h.old_value)},
-                                        {"newValue", json_to_variant(h.new_value)},
-                                        {"reason", h.reason},
-                                        {"label", history_label(h.field)},
-                                        {"text", h.action == QLatin1String("print")
-                                                     ? print_words(h.new_value.toString().section(": ", 1))
-                                                     : tr("%1: %2 → %3").arg(history_label(h.field),
-                                                                             history_value(h.field, h.old_value),
-                                                                             history_value(h.field, h.new_value))}});
+            history_.append(QVariantMap{
+                {"seq", h.seq},
+                {"revision", h.revision},
+                {"at", h.at},
+                {"who", h.who},
+                {"action", h.action},
+                {"field", h.field},
+                {"oldValue", json_to_variant(h.old_value)},
+                {"newValue", json_to_variant(h.new_value)},
+                {"reason", h.reason},
+                {"label", history_label(h.field)},
+                {"text", h.action == QLatin1String("print")
+                             ? print_words(h.new_value.toString().section(": ", 1))
+                             : tr("%1: %2 → %3")
+                                   .arg(history_label(h.field), history_value(h.field, h.old_value),
+                                        history_value(h.field, h.new_value))}});
     }
 }
 
 bool BatchModel::markPrepared(const QVariantMap& document) {
     auto st = store();
-    if (!st) return set_error({QStringLiteral("database"), tr("no database is open")}), false;
+    if (!st)
+        return set_error({QStringLiteral("database"), tr("no database is open")}), false;
     const QString person = preparer_.trimmed();
     if (person.isEmpty())
-        return set_error({QStringLiteral("batch.prepared_by"), tr("enter who prepares the batch")}), false;
+        return set_error({QStringLiteral("batch.prepared_by"), tr("enter who prepares the batch")}),
+               false;
 
     storage::BatchRecord rec;
     FieldError e = guarded([&] {
@@ -244,19 +282,23 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
         doc.insert(QStringLiteral("batch"), QJsonObject{{"id", QStringLiteral("pending")}});
         rec = storage::BatchRecord::from_input(doc);
     });
-    if (!e.empty()) return set_error(e), false;
+    if (!e.empty())
+        return set_error(e), false;
     rec.prepared_by = person;
     rec.prepared_at = now_local();
     e = guarded([&] { rec.id = st->propose_id(id_prefix_, QDate::currentDate()); });
-    if (!e.empty()) return set_error(e), false;
+    if (!e.empty())
+        return set_error(e), false;
     // The expiry from the shelf-life default, written into the batch so it shows and can change.
     e = evaluate(rec);
-    if (!e.empty()) return set_error(e), false;
+    if (!e.empty())
+        return set_error(e), false;
     e = guarded([&] {
         rec.expires_at = read_batch_document(workspace_->data(), rec.to_input()).expires_at;
         st->create(rec, person);
     });
-    if (!e.empty()) return set_error(e), false;
+    if (!e.empty())
+        return set_error(e), false;
     draft_ = rec;
     lots_.clear();
     pending_ = false;
@@ -269,11 +311,16 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
 
 bool BatchModel::open(const QString& id) {
     auto st = store();
-    if (!st) return set_error({QStringLiteral("database"), tr("no database is open")}), false;
+    if (!st)
+        return set_error({QStringLiteral("database"), tr("no database is open")}), false;
     std::optional<storage::BatchRecord> rec;
     FieldError e = guarded([&] { rec = st->load(id); });
-    if (!e.empty()) return set_error(e), false;
-    if (!rec) return set_error({QStringLiteral("batch.id"), tr("no batch \"%1\" in this database").arg(id)}), false;
+    if (!e.empty())
+        return set_error(e), false;
+    if (!rec)
+        return set_error(
+                   {QStringLiteral("batch.id"), tr("no batch \"%1\" in this database").arg(id)}),
+               false;
     draft_ = rec;
     lots_.clear();
     for (const QJsonValue& v : rec->actual)
@@ -305,7 +352,10 @@ void BatchModel::close() {
 
 bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
     auto st = store();
-    if (!st || !draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (!st || !draft_)
+        return set_error({QStringLiteral("batch"),
+                          tr("no batch is open: mark a buffer as prepared first")}),
+               false;
     draft_ = next; // the screen keeps what was typed, even when the core refuses it
     FieldError e = evaluate(next);
     if (!e.empty()) {
@@ -323,55 +373,64 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         emit batchChanged();
         return false;
     }
-    if (changed) reload(next.id);
+    if (changed)
+        reload(next.id);
     set_error({});
     emit batchChanged();
     return true;
 }
 
 void BatchModel::setPreparedBy(const QString& v) {
-    if (!draft_ || draft_->prepared_by == v.trimmed()) return;
+    if (!draft_ || draft_->prepared_by == v.trimmed())
+        return;
     auto next = *draft_;
     next.prepared_by = v.trimmed();
     apply(QStringLiteral("batch.prepared_by"), next);
 }
 
 void BatchModel::setPreparedAt(const QString& v) {
-    if (!draft_ || draft_->prepared_at == v.trimmed()) return;
+    if (!draft_ || draft_->prepared_at == v.trimmed())
+        return;
     auto next = *draft_;
     next.prepared_at = v.trimmed();
     apply(QStringLiteral("batch.prepared_at"), next);
 }
 
 void BatchModel::setExpiresAt(const QString& v) {
-    if (!draft_ || draft_->expires_at == v.trimmed()) return;
+    if (!draft_ || draft_->expires_at == v.trimmed())
+        return;
     auto next = *draft_;
     next.expires_at = v.trimmed();
     apply(QStringLiteral("batch.expires_at"), next);
 }
 
 void BatchModel::setCheckedBy(const QString& v) {
-    if (!draft_ || draft_->checked_by == v.trimmed()) return;
+    if (!draft_ || draft_->checked_by == v.trimmed())
+        return;
     auto next = *draft_;
     next.checked_by = v.trimmed();
     apply(QStringLiteral("batch.checked_by"), next);
 }
 
 void BatchModel::setTolerancePercent(double v) {
-    if (!draft_ || draft_->tolerance_percent == v) return;
+    if (!draft_ || draft_->tolerance_percent == v)
+        return;
     auto next = *draft_;
     next.tolerance_percent = v;
     apply(QStringLiteral("batch.tolerance_percent"), next);
 }
 
 double BatchModel::measuredPh() const {
-    return draft_ && draft_->measured_ph ? *draft_->measured_ph : std::numeric_limits<double>::quiet_NaN();
+    return draft_ && draft_->measured_ph ? *draft_->measured_ph
+                                         : std::numeric_limits<double>::quiet_NaN();
 }
 
 void BatchModel::setMeasuredPh(double v) {
-    if (!draft_) return;
+    if (!draft_)
+        return;
     const std::optional<double> next_v = std::isnan(v) ? std::nullopt : std::optional<double>(v);
-    if (draft_->measured_ph == next_v) return;
+    if (draft_->measured_ph == next_v)
+        return;
     if (!draft_->ph_capture.isEmpty()) {
         set_error({QStringLiteral("batch.measured_ph"), by_hand_message(draft_->ph_capture)});
         emit batchChanged(); // the field shows the captured value again
@@ -383,48 +442,58 @@ void BatchModel::setMeasuredPh(double v) {
 }
 
 void BatchModel::setPhTolerance(double v) {
-    if (!draft_ || draft_->ph_tolerance == v) return;
+    if (!draft_ || draft_->ph_tolerance == v)
+        return;
     auto next = *draft_;
     next.ph_tolerance = v;
     apply(QStringLiteral("batch.ph_tolerance"), next);
 }
 
 void BatchModel::setPhMeterId(const QString& v) {
-    if (!draft_ || draft_->ph_meter_id == v.trimmed()) return;
+    if (!draft_ || draft_->ph_meter_id == v.trimmed())
+        return;
     auto next = *draft_;
     next.ph_meter_id = v.trimmed();
     apply(QStringLiteral("batch.ph_meter_id"), next);
 }
 
 void BatchModel::setBalanceId(const QString& v) {
-    if (!draft_ || draft_->balance_id == v.trimmed()) return;
+    if (!draft_ || draft_->balance_id == v.trimmed())
+        return;
     auto next = *draft_;
     next.balance_id = v.trimmed();
     apply(QStringLiteral("batch.balance_id"), next);
 }
 
 void BatchModel::setComment(const QString& v) {
-    if (!draft_ || draft_->comment == v.trimmed()) return;
+    if (!draft_ || draft_->comment == v.trimmed())
+        return;
     auto next = *draft_;
     next.comment = v.trimmed();
     apply(QStringLiteral("batch.comment"), next);
 }
 
 double BatchModel::containerMl() const {
-    return draft_ && draft_->container_ml ? *draft_->container_ml : std::numeric_limits<double>::quiet_NaN();
+    return draft_ && draft_->container_ml ? *draft_->container_ml
+                                          : std::numeric_limits<double>::quiet_NaN();
 }
 
 void BatchModel::setContainerMl(double v) {
-    if (!draft_) return;
+    if (!draft_)
+        return;
     const std::optional<double> next_v = std::isnan(v) ? std::nullopt : std::optional<double>(v);
-    if (draft_->container_ml == next_v) return;
+    if (draft_->container_ml == next_v)
+        return;
     auto next = *draft_;
     next.container_ml = next_v;
     apply(QStringLiteral("batch.container_ml"), next);
 }
 
 bool BatchModel::recordDeviation(const QString& note_in) {
-    if (!draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (!draft_)
+        return set_error({QStringLiteral("batch"),
+                          tr("no batch is open: mark a buffer as prepared first")}),
+               false;
     const QString note = note_in.trimmed();
     if (note.isEmpty())
         return set_error({QStringLiteral("batch.deviation.note"),
@@ -438,13 +507,17 @@ bool BatchModel::recordDeviation(const QString& note_in) {
 }
 
 QString BatchModel::history_label(const QString& field) const {
-    static const QRegularExpression actual(QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot|capture)$"));
+    static const QRegularExpression actual(
+        QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot|capture)$"));
     const auto m = actual.match(field);
     if (m.hasMatch()) {
-        const QString name = workspace_ ? part_display_name(workspace_->data(), m.captured(1).toStdString())
-                                        : m.captured(1);
-        if (m.captured(2) == QLatin1String("capture")) return tr("Source of the actual amount of %1").arg(name);
-        return m.captured(2) == QLatin1String("lot") ? tr("Lot of %1").arg(name) : tr("Actual amount of %1").arg(name);
+        const QString name =
+            workspace_ ? part_display_name(workspace_->data(), m.captured(1).toStdString())
+                       : m.captured(1);
+        if (m.captured(2) == QLatin1String("capture"))
+            return tr("Source of the actual amount of %1").arg(name);
+        return m.captured(2) == QLatin1String("lot") ? tr("Lot of %1").arg(name)
+                                                     : tr("Actual amount of %1").arg(name);
     }
     static const std::map<QString, const char*> labels = {
         {"document_kind", QT_TR_NOOP("Kind of document")},
@@ -472,47 +545,71 @@ QString BatchModel::history_label(const QString& field) const {
 
 QString BatchModel::history_value(const QString& field, const QJsonValue& v) const {
     if (field.endsWith(QLatin1String("capture"))) {
-        if (!v.isObject()) return tr("typed");
+        if (!v.isObject())
+            return tr("typed");
         const QJsonObject c = v.toObject();
-        QString text = capture_source_text(c) + tr(" (sent \"%1\" at %2)")
-                                                    .arg(c.value("raw").toString(),
-                                                         QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs)
-                                                             .toLocalTime().toString(QStringLiteral("yyyy-MM-dd HH:mm:ss")));
-        if (c.value("accepted_unstable").toBool()) text += tr(", accepted while not settled");
+        QString text =
+            capture_source_text(c) +
+            tr(" (sent \"%1\" at %2)")
+                .arg(c.value("raw").toString(),
+                     QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs)
+                         .toLocalTime()
+                         .toString(QStringLiteral("yyyy-MM-dd HH:mm:ss")));
+        if (c.value("accepted_unstable").toBool())
+            text += tr(", accepted while not settled");
         return text;
     }
-    if (v.isNull() || v.isUndefined()) return QStringLiteral("–");
-    if (field == QLatin1String("document")) return tr("the recipe as marked prepared");
-    if (field.endsWith(QLatin1String(".mass_g"))) return amount_words(v.toDouble()) + " g";
-    if (field.endsWith(QLatin1String(".volume_ml"))) return amount_words(v.toDouble()) + " mL";
-    if (field == QLatin1String("tolerance_percent")) return "± " + QString::number(v.toDouble()) + " %";
-    if (field == QLatin1String("ph_tolerance")) return "± " + QString::number(v.toDouble());
-    if (field == QLatin1String("measured_ph")) return QString::number(v.toDouble(), 'f', 2);
-    if (field == QLatin1String("container_ml")) return QString::number(v.toDouble()) + " mL";
+    if (v.isNull() || v.isUndefined())
+        return QStringLiteral("–");
+    if (field == QLatin1String("document"))
+        return tr("the recipe as marked prepared");
+    if (field.endsWith(QLatin1String(".mass_g")))
+        return amount_words(v.toDouble()) + " g";
+    if (field.endsWith(QLatin1String(".volume_ml")))
+        return amount_words(v.toDouble()) + " mL";
+    if (field == QLatin1String("tolerance_percent"))
+        return "± " + QString::number(v.toDouble()) + " %";
+    if (field == QLatin1String("ph_tolerance"))
+        return "± " + QString::number(v.toDouble());
+    if (field == QLatin1String("measured_ph"))
+        return QString::number(v.toDouble(), 'f', 2);
+    if (field == QLatin1String("container_ml"))
+        return QString::number(v.toDouble()) + " mL";
     if (field.endsWith(QLatin1String("_at")) || field == QLatin1String("deviation.at"))
         return v.toString().left(16).replace('T', ' ');
-    if (v.isDouble()) return QString::number(v.toDouble());
+    if (v.isDouble())
+        return QString::number(v.toDouble());
     return v.toString();
 }
 
 QString BatchModel::measuredPhSource() const {
-    if (!draft_ || !draft_->measured_ph) return {};
+    if (!draft_ || !draft_->measured_ph)
+        return {};
     return capture_source_text(draft_->ph_capture);
 }
 
 QJsonObject BatchModel::actual_entry(int row) const {
-    if (!draft_ || row < 0 || row >= int(rows_.size())) return {};
+    if (!draft_ || row < 0 || row >= int(rows_.size()))
+        return {};
     const int i = actual_index(rows_[size_t(row)].reagent);
     return i < 0 ? QJsonObject{} : draft_->actual[i].toObject();
 }
 
-bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord& next, const QString& reason) {
+bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord& next,
+                               const QString& reason) {
     auto st = store();
-    if (!st || !draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (!st || !draft_)
+        return set_error({QStringLiteral("batch"),
+                          tr("no batch is open: mark a buffer as prepared first")}),
+               false;
     if (reason.trimmed().isEmpty())
-        return set_error({field, tr("give a reason for changing a value taken from an instrument by hand")}), false;
+        return set_error(
+                   {field,
+                    tr("give a reason for changing a value taken from an instrument by hand")}),
+               false;
     FieldError e = evaluate(next);
-    if (e.empty()) e = guarded([&] { st->amend(next.id, next, who(), reason.trimmed()); });
+    if (e.empty())
+        e = guarded([&] { st->amend(next.id, next, who(), reason.trimmed()); });
     if (!e.empty()) {
         evaluate(*draft_);
         set_error({e.field == QLatin1String("reason") ? field : e.field, e.message});
@@ -531,10 +628,13 @@ bool BatchModel::applyCapture(const QVariantMap& c) {
     const QJsonObject record = QJsonObject::fromVariantMap(c.value("record").toMap());
     const QString kind = c.value("deviceKind").toString();
     const double value = c.value("value").toDouble();
-    if (!draft_) return set_error({target, tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (!draft_)
+        return set_error({target, tr("no batch is open: mark a buffer as prepared first")}), false;
     if (target == QLatin1String("batch.measured_ph")) {
         if (kind != QLatin1String("ph_meter"))
-            return set_error({target, tr("a pH is taken from a pH meter, not from %1").arg(capture_source_text(record).mid(5))}), false;
+            return set_error({target, tr("a pH is taken from a pH meter, not from %1")
+                                          .arg(capture_source_text(record).mid(5))}),
+                   false;
         auto next = *draft_;
         next.measured_ph = value;
         next.ph_capture = record;
@@ -548,13 +648,20 @@ bool BatchModel::applyCapture(const QVariantMap& c) {
         return set_error({target, tr("no amount row for this reading")}), false;
     const Row& r = rows_[size_t(row)];
     if (r.unit != QLatin1String("g"))
-        return set_error({target, tr("%1 is measured by volume: take it from the balance only when it is weighed").arg(r.name)}), false;
+        return set_error(
+                   {target,
+                    tr("%1 is measured by volume: take it from the balance only when it is weighed")
+                        .arg(r.name)}),
+               false;
     if (kind != QLatin1String("balance"))
-        return set_error({target, tr("an amount is taken from a balance, not from %1").arg(capture_source_text(record).mid(5))}), false;
+        return set_error({target, tr("an amount is taken from a balance, not from %1")
+                                      .arg(capture_source_text(record).mid(5))}),
+               false;
     auto next = *draft_;
     QJsonObject entry{{"reagent", r.reagent}, {"mass_g", value}, {"capture", record}};
     const QString lot = lots_.count(r.reagent) ? lots_[r.reagent] : QString();
-    if (!lot.isEmpty()) entry["lot"] = lot;
+    if (!lot.isEmpty())
+        entry["lot"] = lot;
     int i = actual_index(r.reagent);
     if (i < 0) {
         i = int(next.actual.size());
@@ -562,17 +669,22 @@ bool BatchModel::applyCapture(const QVariantMap& c) {
     } else {
         next.actual[i] = entry;
     }
-    if (next.balance_id.isEmpty()) next.balance_id = c.value("deviceId").toString();
+    if (next.balance_id.isEmpty())
+        next.balance_id = c.value("deviceId").toString();
     return apply(QStringLiteral("batch.actual[%1].mass_g").arg(i), next);
 }
 
 bool BatchModel::setActualByHand(int row, double amount, const QString& reason) {
-    if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
+    if (!draft_ || row < 0 || row >= int(rows_.size()))
+        return false;
     const Row& r = rows_[size_t(row)];
     const int i = actual_index(r.reagent);
-    const QString key = r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
-    const QString field = QStringLiteral("batch.actual[%1].%2").arg(i < 0 ? int(draft_->actual.size()) : i).arg(key);
-    if (i < 0 || !draft_->actual[i].toObject().contains("capture")) return setActual(row, amount);
+    const QString key =
+        r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
+    const QString field =
+        QStringLiteral("batch.actual[%1].%2").arg(i < 0 ? int(draft_->actual.size()) : i).arg(key);
+    if (i < 0 || !draft_->actual[i].toObject().contains("capture"))
+        return setActual(row, amount);
     auto next = *draft_;
     if (std::isnan(amount)) {
         next.actual.removeAt(i);
@@ -586,7 +698,8 @@ bool BatchModel::setActualByHand(int row, double amount, const QString& reason) 
 }
 
 bool BatchModel::setMeasuredPhByHand(double v, const QString& reason) {
-    if (!draft_) return false;
+    if (!draft_)
+        return false;
     if (draft_->ph_capture.isEmpty()) {
         setMeasuredPh(v);
         return error_.empty();
@@ -598,29 +711,35 @@ bool BatchModel::setMeasuredPhByHand(double v, const QString& reason) {
 }
 
 bool BatchModel::setActual(int row, double amount) {
-    if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
+    if (!draft_ || row < 0 || row >= int(rows_.size()))
+        return false;
     const Row& r = rows_[size_t(row)];
     auto next = *draft_;
-    const QString key = r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
+    const QString key =
+        r.unit == QLatin1String("g") ? QStringLiteral("mass_g") : QStringLiteral("volume_ml");
     int i = actual_index(r.reagent);
     if (i >= 0) {
         const QJsonObject cur = draft_->actual[i].toObject();
         const QJsonValue old = cur.value(key);
         const bool same = !std::isnan(amount) && old.isDouble() && old.toDouble() == amount;
         if (cur.contains("capture")) {
-            if (same) return set_error({}), true;
-            set_error({QStringLiteral("batch.actual[%1].%2").arg(i).arg(key), by_hand_message(cur.value("capture").toObject())});
+            if (same)
+                return set_error({}), true;
+            set_error({QStringLiteral("batch.actual[%1].%2").arg(i).arg(key),
+                       by_hand_message(cur.value("capture").toObject())});
             emit dataChanged(index(row), index(row), {ActualRole});
             return false;
         }
     }
     if (std::isnan(amount)) {
-        if (i < 0) return true;
+        if (i < 0)
+            return true;
         next.actual.removeAt(i);
     } else {
         QJsonObject entry{{"reagent", r.reagent}, {key, amount}};
         const QString lot = lots_.count(r.reagent) ? lots_[r.reagent] : QString();
-        if (!lot.isEmpty()) entry["lot"] = lot;
+        if (!lot.isEmpty())
+            entry["lot"] = lot;
         if (i < 0) {
             i = int(next.actual.size());
             next.actual.append(entry);
@@ -633,7 +752,8 @@ bool BatchModel::setActual(int row, double amount) {
 }
 
 bool BatchModel::setLot(int row, const QString& lot_in) {
-    if (!draft_ || row < 0 || row >= int(rows_.size())) return false;
+    if (!draft_ || row < 0 || row >= int(rows_.size()))
+        return false;
     const QString lot = lot_in.trimmed();
     const QString reagent = rows_[size_t(row)].reagent;
     lots_[reagent] = lot;
@@ -644,19 +764,25 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
     }
     auto next = *draft_;
     QJsonObject entry = next.actual[i].toObject();
-    if (entry.value("lot").toString() == lot) return true;
-    if (lot.isEmpty()) entry.remove("lot");
-    else entry["lot"] = lot;
+    if (entry.value("lot").toString() == lot)
+        return true;
+    if (lot.isEmpty())
+        entry.remove("lot");
+    else
+        entry["lot"] = lot;
     next.actual[i] = entry;
     return apply(QStringLiteral("batch.actual[%1].lot").arg(i), next);
 }
 
 bool BatchModel::amend() {
     auto st = store();
-    if (!st || !draft_ || !pending_) return false;
+    if (!st || !draft_ || !pending_)
+        return false;
     FieldError e = evaluate(*draft_);
-    if (e.empty()) e = guarded([&] { st->amend(draft_->id, *draft_, who(), amend_reason_.trimmed()); });
-    if (!e.empty()) return set_error(e), false;
+    if (e.empty())
+        e = guarded([&] { st->amend(draft_->id, *draft_, who(), amend_reason_.trimmed()); });
+    if (!e.empty())
+        return set_error(e), false;
     pending_ = false;
     setAmendReason({});
     reload(draft_->id);
@@ -666,7 +792,8 @@ bool BatchModel::amend() {
 }
 
 void BatchModel::discardPending() {
-    if (!draft_) return;
+    if (!draft_)
+        return;
     const QString id = draft_->id;
     open(id);
 }
@@ -674,29 +801,37 @@ void BatchModel::discardPending() {
 QString BatchModel::defaultPath(const QString& what) const {
     DocumentOutput* out = output_iface();
     QString name = out ? out->fileNameFor(input(), what) : QString();
-    if (name.isEmpty()) name = (draft_ ? draft_->id : QStringLiteral("batch")) + "-" + what + ".pdf";
+    if (name.isEmpty())
+        name = (draft_ ? draft_->id : QStringLiteral("batch")) + "-" + what + ".pdf";
     return QDir(output_dir_.isEmpty() ? QDir::currentPath() : output_dir_).filePath(name);
 }
 
 bool BatchModel::ready_to_print() {
-    if (!draft_) return set_error({QStringLiteral("batch"), tr("no batch is open: mark a buffer as prepared first")}), false;
+    if (!draft_)
+        return set_error({QStringLiteral("batch"),
+                          tr("no batch is open: mark a buffer as prepared first")}),
+               false;
     if (pending_)
-        return set_error({QStringLiteral("reason"),
-                          tr("record the change as an amendment (with a reason) or discard it before printing: "
-                             "the printed batch must match its record")}),
+        return set_error({QStringLiteral("reason"), tr("record the change as an amendment (with a "
+                                                       "reason) or discard it before printing: "
+                                                       "the printed batch must match its record")}),
                false;
     if (!valid_)
-        return set_error({error_.field.isEmpty() ? QStringLiteral("batch") : error_.field,
-                          tr("the batch has an invalid entry: correct it before printing") +
-                              (error_.message.isEmpty() ? QString() : " (" + error_.message + ")")}),
+        return set_error(
+                   {error_.field.isEmpty() ? QStringLiteral("batch") : error_.field,
+                    tr("the batch has an invalid entry: correct it before printing") +
+                        (error_.message.isEmpty() ? QString() : " (" + error_.message + ")")}),
                false;
     if (needsDeviationNote())
         return set_error({QStringLiteral("batch.deviation.note"),
-                          tr("the batch is out of tolerance (%1): record a deviation note before printing")
+                          tr("the batch is out of tolerance (%1): record a deviation note before "
+                             "printing")
                               .arg(reasons_.join("; "))}),
                false;
     if (!output_iface())
-        return set_error({QStringLiteral("output"), tr("no printer or PDF writer is connected to this screen")}), false;
+        return set_error({QStringLiteral("output"),
+                          tr("no printer or PDF writer is connected to this screen")}),
+               false;
     return true;
 }
 
@@ -705,14 +840,17 @@ bool BatchModel::after_print(bool ok, const QString& what) {
         DocumentOutput* out = output_iface();
         QString field = out ? out->outputErrorField() : QStringLiteral("output");
         QString message = out ? out->outputError() : tr("no output");
-        if (message.startsWith(field + ": ")) message = message.mid(field.size() + 2);
-        if (field == QLatin1String("-o")) field = QStringLiteral("path");
+        if (message.startsWith(field + ": "))
+            message = message.mid(field.size() + 2);
+        if (field == QLatin1String("-o"))
+            field = QStringLiteral("path");
         set_error({field.isEmpty() ? QStringLiteral("output") : field, message});
         return false;
     }
     auto st = store();
     FieldError e = guarded([&] {
-        if (st) st->mark_printed(draft_->id, who(), what);
+        if (st)
+            st->mark_printed(draft_->id, who(), what);
     });
     reload(draft_->id);
     set_error(e);
@@ -721,23 +859,28 @@ bool BatchModel::after_print(bool ok, const QString& what) {
 }
 
 bool BatchModel::save_pdf(const QString& what, const QString& path_in, const QString& paper) {
-    if (!ready_to_print()) return false;
+    if (!ready_to_print())
+        return false;
     const QString path = path_in.isEmpty() ? defaultPath(what) : local_path(path_in);
     const QFileInfo info(path);
     if (!QDir().mkpath(info.absolutePath())) {
         // Say why: a file stands where a folder is needed, or the folder cannot be created here.
         QString blocking = info.absolutePath();
-        while (!blocking.isEmpty() && !QFileInfo::exists(blocking)) blocking = QFileInfo(blocking).absolutePath();
+        while (!blocking.isEmpty() && !QFileInfo::exists(blocking))
+            blocking = QFileInfo(blocking).absolutePath();
         const QString why = QFileInfo(blocking).isFile()
                                 ? tr("%1 is a file, not a folder").arg(blocking)
                                 : tr("no permission to create folders in %1").arg(blocking);
-        return set_error({QStringLiteral("path"), tr("cannot save in %1: %2").arg(info.absolutePath(), why)}), false;
+        return set_error({QStringLiteral("path"),
+                          tr("cannot save in %1: %2").arg(info.absolutePath(), why)}),
+               false;
     }
     const bool ok = output_iface()->writePdf(what, input(), path, paper);
     if (ok) {
         last_saved_path_ = path;
         emit lastSavedPathChanged();
-        if (!path_in.isEmpty()) setOutputDir(info.absolutePath());
+        if (!path_in.isEmpty())
+            setOutputDir(info.absolutePath());
     }
     return after_print(ok, QStringLiteral("%1 %2 pdf").arg(what, paper));
 }
@@ -751,22 +894,29 @@ bool BatchModel::saveLabels(const QString& path, const QString& paper) {
 }
 
 bool BatchModel::printSheet(const QString& printer, const QString& paper) {
-    if (!ready_to_print()) return false;
-    return after_print(output_iface()->sendToPrinter(QStringLiteral("sheet"), input(), printer, paper),
-                       QStringLiteral("sheet %1 printer").arg(paper));
+    if (!ready_to_print())
+        return false;
+    return after_print(
+        output_iface()->sendToPrinter(QStringLiteral("sheet"), input(), printer, paper),
+        QStringLiteral("sheet %1 printer").arg(paper));
 }
 
 bool BatchModel::printLabels(const QString& printer, const QString& paper) {
-    if (!ready_to_print()) return false;
-    return after_print(output_iface()->sendToPrinter(QStringLiteral("labels"), input(), printer, paper),
-                       QStringLiteral("labels %1 printer").arg(paper));
+    if (!ready_to_print())
+        return false;
+    return after_print(
+        output_iface()->sendToPrinter(QStringLiteral("labels"), input(), printer, paper),
+        QStringLiteral("labels %1 printer").arg(paper));
 }
 
-QVariantMap BatchModel::input() const { return draft_ ? draft_->to_input().toVariantMap() : QVariantMap{}; }
+QVariantMap BatchModel::input() const {
+    return draft_ ? draft_->to_input().toVariantMap() : QVariantMap{};
+}
 
 QStringList BatchModel::batchIds() const {
     auto st = store();
-    if (!st) return {};
+    if (!st)
+        return {};
     QStringList ids;
     guarded([&] { ids = st->list(); });
     return ids;
@@ -779,33 +929,48 @@ QStringList BatchModel::printers() const {
 
 int BatchModel::flaggedCount() const {
     int n = 0;
-    for (const Row& r : rows_) n += r.entered && !r.within;
+    for (const Row& r : rows_)
+        n += r.entered && !r.within;
     return n;
 }
 
 int BatchModel::missingCount() const {
     int n = 0;
-    for (const Row& r : rows_) n += !r.entered;
+    for (const Row& r : rows_)
+        n += !r.entered;
     return n;
 }
 
-int BatchModel::rowCount(const QModelIndex& parent) const { return parent.isValid() ? 0 : int(rows_.size()); }
+int BatchModel::rowCount(const QModelIndex& parent) const {
+    return parent.isValid() ? 0 : int(rows_.size());
+}
 
 QVariant BatchModel::data(const QModelIndex& idx, int role) const {
-    if (!idx.isValid() || idx.row() >= int(rows_.size())) return {};
+    if (!idx.isValid() || idx.row() >= int(rows_.size()))
+        return {};
     const Row& r = rows_[size_t(idx.row())];
     switch (role) {
     case Qt::DisplayRole:
-    case NameRole: return r.name;
-    case ReagentRole: return r.reagent;
-    case UnitRole: return r.unit;
-    case TargetRole: return r.target;
-    case LowRole: return r.low;
-    case HighRole: return r.high;
-    case EnteredRole: return r.entered;
-    case ActualRole: return r.actual;
-    case DeviationPercentRole: return r.deviation_percent;
-    case WithinToleranceRole: return r.within;
+    case NameRole:
+        return r.name;
+    case ReagentRole:
+        return r.reagent;
+    case UnitRole:
+        return r.unit;
+    case TargetRole:
+        return r.target;
+    case LowRole:
+        return r.low;
+    case HighRole:
+        return r.high;
+    case EnteredRole:
+        return r.entered;
+    case ActualRole:
+        return r.actual;
+    case DeviationPercentRole:
+        return r.deviation_percent;
+    case WithinToleranceRole:
+        return r.within;
     case LotRole: {
         auto it = lots_.find(r.reagent);
         return it == lots_.end() ? QString() : it->second;
@@ -815,20 +980,25 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
         return e.value("capture").toObject().toVariantMap();
     }
     case SourceRole: {
-        if (!r.entered) return QString();
+        if (!r.entered)
+            return QString();
         return capture_source_text(actual_entry(idx.row()).value("capture").toObject());
     }
-    case CaptureTargetRole: return QStringLiteral("batch.actual[%1].mass_g").arg(idx.row());
+    case CaptureTargetRole:
+        return QStringLiteral("batch.actual[%1].mass_g").arg(idx.row());
     case ErrorRole: {
         static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
         const auto m = re.match(error_.field);
-        if (!m.hasMatch() || !draft_) return QString();
+        if (!m.hasMatch() || !draft_)
+            return QString();
         const int i = m.captured(1).toInt();
-        if (i < draft_->actual.size() && draft_->actual[i].toObject().value("reagent").toString() == r.reagent)
+        if (i < draft_->actual.size() &&
+            draft_->actual[i].toObject().value("reagent").toString() == r.reagent)
             return error_.message;
         return QString();
     }
-    default: return {};
+    default:
+        return {};
     }
 }
 

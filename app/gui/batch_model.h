@@ -43,7 +43,8 @@ class BatchModel : public QAbstractListModel {
     Q_OBJECT
     QML_ELEMENT
     // ---- dependencies -----------------------------------------------------------------------
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     /// Who is at the bench: prepared_by of a new batch and "who" of every history row.
     Q_PROPERTY(QString preparer READ preparer WRITE setPreparer NOTIFY preparerChanged)
     /// Prefix of proposed batch ids ("<prefix>-YYYYMMDD-NNN").
@@ -70,7 +71,8 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(QString expiresAt READ expiresAt WRITE setExpiresAt NOTIFY batchChanged)
     Q_PROPERTY(QString checkedBy READ checkedBy WRITE setCheckedBy NOTIFY batchChanged)
     /// ± tolerance of each amount in percent (default 2).
-    Q_PROPERTY(double tolerancePercent READ tolerancePercent WRITE setTolerancePercent NOTIFY batchChanged)
+    Q_PROPERTY(
+        double tolerancePercent READ tolerancePercent WRITE setTolerancePercent NOTIFY batchChanged)
     /// Shelf life applied to the expiry, hours (from data/solvents.json "shelf_life").
     Q_PROPERTY(double shelfLifeH READ shelfLifeH NOTIFY resultChanged)
     /// Printed (sheet or labels, PDF or printer) at least once: changes need an amendment.
@@ -147,23 +149,24 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(QString errorField READ errorField NOTIFY errorChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
 
-public:
+  public:
     enum Role {
         ReagentRole = Qt::UserRole + 1, ///< reagent (or part) id
         NameRole,
-        UnitRole,          ///< "g" or "mL"
-        TargetRole,        ///< in unit
-        LowRole,           ///< lower end of the band, in unit
-        HighRole,          ///< upper end of the band, in unit
+        UnitRole,   ///< "g" or "mL"
+        TargetRole, ///< in unit
+        LowRole,    ///< lower end of the band, in unit
+        HighRole,   ///< upper end of the band, in unit
         EnteredRole,
-        ActualRole,        ///< in unit; NaN when not entered
+        ActualRole, ///< in unit; NaN when not entered
         DeviationPercentRole,
         WithinToleranceRole,
         LotRole,
-        ErrorRole,         ///< the core's message for this row's amount or lot, "" when none
-        CaptureRole,       ///< the balance's record when the amount was taken from it, {} when typed
-        SourceRole,        ///< "from balance BAL-03", "typed", or "" when not entered
-        CaptureTargetRole, ///< the target DeviceCapture::takeFromBalance is called with for this row
+        ErrorRole,   ///< the core's message for this row's amount or lot, "" when none
+        CaptureRole, ///< the balance's record when the amount was taken from it, {} when typed
+        SourceRole,  ///< "from balance BAL-03", "typed", or "" when not entered
+        CaptureTargetRole, ///< the target DeviceCapture::takeFromBalance is called with for this
+                           ///< row
     };
     Q_ENUM(Role)
 
@@ -208,7 +211,9 @@ public:
     QString phMeterId() const { return draft_ ? draft_->ph_meter_id : QString(); }
     void setPhMeterId(const QString& v);
     QString balanceId() const { return draft_ ? draft_->balance_id : QString(); }
-    QVariantMap measuredPhCapture() const { return draft_ ? draft_->ph_capture.toVariantMap() : QVariantMap{}; }
+    QVariantMap measuredPhCapture() const {
+        return draft_ ? draft_->ph_capture.toVariantMap() : QVariantMap{};
+    }
     QString measuredPhSource() const;
     void setBalanceId(const QString& v);
     QString comment() const { return draft_ ? draft_->comment : QString(); }
@@ -220,7 +225,9 @@ public:
     QString deviationAt() const { return draft_ ? draft_->deviation_at : QString(); }
     bool outOfTolerance() const { return out_of_tolerance_; }
     QStringList outOfToleranceReasons() const { return reasons_; }
-    bool needsDeviationNote() const { return out_of_tolerance_ && deviationNote().trimmed().isEmpty(); }
+    bool needsDeviationNote() const {
+        return out_of_tolerance_ && deviationNote().trimmed().isEmpty();
+    }
     QStringList correction() const { return correction_; }
     bool correctionIsRemake() const { return correction_remake_; }
     QVariantList steps() const { return steps_; }
@@ -285,17 +292,21 @@ public:
     Q_INVOKABLE QString defaultPath(const QString& what) const;
     /// Saves the recipe sheet (paper "a4" | "letter") as a PDF; path "" = defaultPath("sheet").
     /// Records the print in the batch's history.
-    Q_INVOKABLE bool saveSheet(const QString& path = {}, const QString& paper = QStringLiteral("a4"));
+    Q_INVOKABLE bool saveSheet(const QString& path = {},
+                               const QString& paper = QStringLiteral("a4"));
     /// Saves the labels (paper "a4" | "letter" | "label62"); path "" = defaultPath("labels").
-    Q_INVOKABLE bool saveLabels(const QString& path = {}, const QString& paper = QStringLiteral("a4"));
+    Q_INVOKABLE bool saveLabels(const QString& path = {},
+                                const QString& paper = QStringLiteral("a4"));
     /// Prints through QPrinter ("" = the default printer).
-    Q_INVOKABLE bool printSheet(const QString& printer = {}, const QString& paper = QStringLiteral("a4"));
-    Q_INVOKABLE bool printLabels(const QString& printer = {}, const QString& paper = QStringLiteral("label62"));
+    Q_INVOKABLE bool printSheet(const QString& printer = {},
+                                const QString& paper = QStringLiteral("a4"));
+    Q_INVOKABLE bool printLabels(const QString& printer = {},
+                                 const QString& paper = QStringLiteral("label62"));
 
     /// The batch as the `sheet` / `labels` input (tests, the CLI's contract).
     Q_INVOKABLE QVariantMap input() const;
 
-signals:
+  signals:
     void workspaceChanged();
     void preparerChanged();
     void outputDirChanged();
@@ -307,7 +318,7 @@ signals:
     void lastSavedPathChanged();
     void errorChanged();
 
-private:
+  private:
     struct Row {
         QString reagent, name, unit;
         double target = 0, low = 0, high = 0, actual = 0, deviation_percent = 0;
@@ -319,8 +330,10 @@ private:
     /// Evaluates `next`, then stores it (edit) or, on a printed batch, keeps it pending and shows
     /// the store's refusal at `field`.
     bool apply(const QString& field, const storage::BatchRecord& next);
-    /// Evaluates `next` and stores it as an amendment with `reason` (a captured value changed by hand).
-    bool apply_by_hand(const QString& field, const storage::BatchRecord& next, const QString& reason);
+    /// Evaluates `next` and stores it as an amendment with `reason` (a captured value changed by
+    /// hand).
+    bool apply_by_hand(const QString& field, const storage::BatchRecord& next,
+                       const QString& reason);
     /// The actual entry of `row` ({} when none).
     QJsonObject actual_entry(int row) const;
     void reload(const QString& id);
@@ -339,17 +352,18 @@ private:
     QString preparer_;
     QString id_prefix_ = QStringLiteral("B");
     QString output_dir_;
-    std::optional<storage::BatchRecord> draft_;   ///< what the screen shows (may be pending)
-    std::optional<storage::BatchRecord> stored_;  ///< what the database holds
+    std::optional<storage::BatchRecord> draft_;  ///< what the screen shows (may be pending)
+    std::optional<storage::BatchRecord> stored_; ///< what the database holds
     bool pending_ = false;
     QString amend_reason_;
-    std::map<QString, QString> lots_;             ///< lots by reagent, including those without an amount
+    std::map<QString, QString> lots_; ///< lots by reagent, including those without an amount
 
     std::vector<Row> rows_;
     bool valid_ = false;
     QString title_;
     double shelf_life_h_ = 0;
-    double target_ph_ = 0, predicted_ph_ = 0, ionic_strength_mmol_per_l_ = 0, buffer_capacity_mmol_per_l_ = 0;
+    double target_ph_ = 0, predicted_ph_ = 0, ionic_strength_mmol_per_l_ = 0,
+           buffer_capacity_mmol_per_l_ = 0;
     QVariantList composition_, warnings_, history_, steps_;
     bool out_of_tolerance_ = false, correction_remake_ = false;
     QStringList reasons_, correction_;

@@ -21,15 +21,19 @@ constexpr int curve_points = 41; ///< points per curve: enough for a smooth line
 
 /// The smallest of 1, 2, 2.5, 5 × 10^k at or above v: an axis end that reads well.
 double nice_ceiling(double v) {
-    if (!(v > 0)) return 1;
+    if (!(v > 0))
+        return 1;
     const double p = std::pow(10.0, std::floor(std::log10(v)));
     for (double m : {1.0, 2.0, 2.5, 5.0, 10.0})
-        if (m * p >= v * (1 - 1e-9)) return m * p;
+        if (m * p >= v * (1 - 1e-9))
+            return m * p;
     return 10 * p;
 }
 
 /// A concentration for a name: "20", "12.5", "0.75" (no trailing zeros), locale-independent.
-QString format_fixed_text(double v) { return QString::fromStdString(chem::format_number(std::round(v * 100) / 100)); }
+QString format_fixed_text(double v) {
+    return QString::fromStdString(chem::format_number(std::round(v * 100) / 100));
+}
 
 constexpr int autosave_delay_ms = 300;
 
@@ -42,10 +46,13 @@ BufferDesigner::BufferDesigner(QObject* parent) : QObject(parent) {
     connect(this, &BufferDesigner::edited, this, &BufferDesigner::schedule_autosave);
 }
 
-BufferDesigner::~BufferDesigner() { flushAutosave(); }
+BufferDesigner::~BufferDesigner() {
+    flushAutosave();
+}
 
 void BufferDesigner::setAutosaveKey(const QString& k) {
-    if (k == autosave_key_) return;
+    if (k == autosave_key_)
+        return;
     autosave_key_ = k;
     emit workspaceChanged();
     restore_state();
@@ -58,24 +65,31 @@ void BufferDesigner::schedule_autosave() {
 
 QJsonObject BufferDesigner::saved_document() const {
     QJsonObject doc = requestDocument();
-    if (auto_name_) doc.insert("auto_name", true);
-    else doc.remove("auto_name");
+    if (auto_name_)
+        doc.insert("auto_name", true);
+    else
+        doc.remove("auto_name");
     return doc;
 }
 
 void BufferDesigner::flushAutosave() {
-    if (!dirty_ || buffer_name_.isEmpty() || !workspace_ || !workspace_->database()) return;
+    if (!dirty_ || buffer_name_.isEmpty() || !workspace_ || !workspace_->database())
+        return;
     autosave_.stop();
     const FieldError e = guarded([&] {
         workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
     });
-    if (!e.empty()) qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
+    if (!e.empty())
+        qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
     dirty_ = false;
 }
 
 void BufferDesigner::remember_current() {
-    if (autosave_key_.isEmpty() || !workspace_ || !workspace_->database()) return;
-    guarded([&] { workspace_->database()->set_setting(autosave_key_, QJsonObject{{"name", buffer_name_}}); });
+    if (autosave_key_.isEmpty() || !workspace_ || !workspace_->database())
+        return;
+    guarded([&] {
+        workspace_->database()->set_setting(autosave_key_, QJsonObject{{"name", buffer_name_}});
+    });
 }
 
 void BufferDesigner::componentComplete() {
@@ -84,7 +98,8 @@ void BufferDesigner::componentComplete() {
 }
 
 void BufferDesigner::restore_state() {
-    if (constructing_ || restored_ || !workspace_ || !workspace_->database()) return;
+    if (constructing_ || restored_ || !workspace_ || !workspace_->database())
+        return;
     restored_ = true;
     rebuild_buffer_list();
     QString name;
@@ -96,20 +111,24 @@ void BufferDesigner::restore_state() {
         if (name.isEmpty() && !own.isEmpty()) {
             loadJson(own);
             name = free_name(own.value("name").toString(defaultName()));
-            guarded([&] { workspace_->database()->save(storage::DocumentKind::buffer, name, own); });
+            guarded(
+                [&] { workspace_->database()->save(storage::DocumentKind::buffer, name, own); });
             rebuild_buffer_list();
         }
     }
-    if (!name.isEmpty() && openBuffer(name)) return;
+    if (!name.isEmpty() && openBuffer(name))
+        return;
     // First run: the buffer the plan's first line holds (the demo's), else the newest saved one,
     // else a new one.
     if (plan_)
         for (const QString& l : plan_->lineLetters()) {
             const QString ref = plan_->lineBufferRef(l);
-            if (!ref.isEmpty() && openBuffer(ref)) return;
+            if (!ref.isEmpty() && openBuffer(ref))
+                return;
         }
     const auto saved = workspace_->database()->list(storage::DocumentKind::buffer);
-    if (!saved.empty() && openBuffer(saved.front().name)) return;
+    if (!saved.empty() && openBuffer(saved.front().name))
+        return;
     newBuffer();
 }
 
@@ -120,26 +139,33 @@ void BufferDesigner::rebuild_buffer_list() {
         std::sort(infos.begin(), infos.end(), [](const auto& a, const auto& b) {
             return QString::localeAwareCompare(a.name, b.name) < 0;
         });
-        for (const auto& i : infos) list.append(QVariantMap{{"id", i.name}, {"name", i.name}});
+        for (const auto& i : infos)
+            list.append(QVariantMap{{"id", i.name}, {"name", i.name}});
     }
-    if (list == buffer_choices_) return;
+    if (list == buffer_choices_)
+        return;
     buffer_choices_ = list;
     emit bufferListChanged();
 }
 
 QStringList BufferDesigner::usedByLines() const {
     QStringList out;
-    if (!plan_ || buffer_name_.isEmpty()) return out;
+    if (!plan_ || buffer_name_.isEmpty())
+        return out;
     for (const QString& l : plan_->lineLetters())
-        if (plan_->lineBufferRef(l) == buffer_name_) out << l;
+        if (plan_->lineBufferRef(l) == buffer_name_)
+            out << l;
     return out;
 }
 
 bool BufferDesigner::openBuffer(const QString& name) {
-    if (!workspace_ || !workspace_->database()) return false;
-    if (name == buffer_name_ && !buffer_name_.isEmpty()) return true;
+    if (!workspace_ || !workspace_->database())
+        return false;
+    if (name == buffer_name_ && !buffer_name_.isEmpty())
+        return true;
     const auto doc = workspace_->database()->load(storage::DocumentKind::buffer, name);
-    if (!doc) return false;
+    if (!doc)
+        return false;
     flushAutosave();
     buffer_name_ = name;
     auto_name_ = doc->value("auto_name").toBool(false);
@@ -150,7 +176,8 @@ bool BufferDesigner::openBuffer(const QString& name) {
 }
 
 QString BufferDesigner::newBuffer() {
-    if (!workspace_ || !workspace_->database()) return {};
+    if (!workspace_ || !workspace_->database())
+        return {};
     flushAutosave();
     loading_ = true;
     route_ = QStringLiteral("mix");
@@ -173,7 +200,8 @@ QString BufferDesigner::newBuffer() {
     const FieldError e = guarded([&] {
         workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
     });
-    if (!e.empty()) qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
+    if (!e.empty())
+        qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
     emit inputsChanged();
     recompute();
     rebuild_buffer_list();
@@ -184,9 +212,12 @@ QString BufferDesigner::newBuffer() {
 }
 
 QString BufferDesigner::duplicateBuffer(const QString& wanted) {
-    if (!workspace_ || !workspace_->database()) return tr("no database is open");
-    const QString name = wanted.trimmed().isEmpty() ? free_name(tr("%1 (copy)").arg(buffer_name_)) : wanted.trimmed();
-    if (name.size() > 64) return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
+    if (!workspace_ || !workspace_->database())
+        return tr("no database is open");
+    const QString name = wanted.trimmed().isEmpty() ? free_name(tr("%1 (copy)").arg(buffer_name_))
+                                                    : wanted.trimmed();
+    if (name.size() > 64)
+        return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
     if (workspace_->database()->load(storage::DocumentKind::buffer, name))
         return tr("Buffer name: “%1” is taken by another saved buffer").arg(name);
     flushAutosave();
@@ -215,10 +246,13 @@ void BufferDesigner::announce_buffer_change() {
 }
 
 QString BufferDesigner::renameBuffer(const QString& wanted) {
-    if (!workspace_ || !workspace_->database()) return tr("no database is open");
+    if (!workspace_ || !workspace_->database())
+        return tr("no database is open");
     const QString name = wanted.trimmed();
-    if (name.isEmpty()) return tr("Buffer name: type a name");
-    if (name.size() > 64) return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
+    if (name.isEmpty())
+        return tr("Buffer name: type a name");
+    if (name.size() > 64)
+        return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
     if (name == buffer_name_) {
         if (auto_name_) {
             auto_name_ = false;
@@ -236,35 +270,43 @@ QString BufferDesigner::renameBuffer(const QString& wanted) {
         if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
             workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
     });
-    if (!e.empty()) return e.message;
+    if (!e.empty())
+        return e.message;
     buffer_name_ = name;
     auto_name_ = false;
     dirty_ = true;
     flushAutosave();
-    if (plan_) plan_->renameBufferRefs(old, name, requestDocument());
+    if (plan_)
+        plan_->renameBufferRefs(old, name, requestDocument());
     announce_buffer_change();
     return {};
 }
 
 QString BufferDesigner::deleteBuffer() {
-    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty()) return tr("no buffer is open");
+    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
+        return tr("no buffer is open");
     autosave_.stop();
     dirty_ = false;
     const QString gone = buffer_name_;
-    const FieldError e = guarded([&] { workspace_->database()->remove(storage::DocumentKind::buffer, gone); });
-    if (!e.empty()) return e.message;
-    if (plan_) plan_->dropBufferRefs(gone);
+    const FieldError e =
+        guarded([&] { workspace_->database()->remove(storage::DocumentKind::buffer, gone); });
+    if (!e.empty())
+        return e.message;
+    if (plan_)
+        plan_->dropBufferRefs(gone);
     buffer_name_.clear();
     rebuild_buffer_list();
     workspace_->notifySaved();
     const auto saved = workspace_->database()->list(storage::DocumentKind::buffer);
-    if (saved.empty() || !openBuffer(saved.front().name)) newBuffer();
+    if (saved.empty() || !openBuffer(saved.front().name))
+        newBuffer();
     return {};
 }
 
 QString BufferDesigner::free_name(const QString& wanted) const {
     const QString base = wanted.trimmed().isEmpty() ? tr("Buffer") : wanted.trimmed().left(56);
-    if (!workspace_ || !workspace_->database()) return base;
+    if (!workspace_ || !workspace_->database())
+        return base;
     QString name = base;
     for (int i = 2; workspace_->database()->load(storage::DocumentKind::buffer, name); ++i)
         name = QStringLiteral("%1 (%2)").arg(base).arg(i);
@@ -272,9 +314,11 @@ QString BufferDesigner::free_name(const QString& wanted) const {
 }
 
 QString BufferDesigner::errorPlace() const {
-    if (error_.field.isEmpty()) return {};
+    if (error_.field.isEmpty())
+        return {};
     QString w = field_words(error_.field);
-    if (!w.isEmpty()) w[0] = w[0].toUpper();
+    if (!w.isEmpty())
+        w[0] = w[0].toUpper();
     return w;
 }
 
@@ -288,36 +332,46 @@ QString BufferDesigner::defaultName() const {
         doc.remove("name");
         doc.remove("auto_name");
         std::string name;
-        const FieldError e = guarded([&] { name = chem::default_buffer_name(lib, recipe_request_from_json(lib, doc, "")); });
-        if (e.empty() && !name.empty()) return QString::fromStdString(name);
+        const FieldError e = guarded(
+            [&] { name = chem::default_buffer_name(lib, recipe_request_from_json(lib, doc, "")); });
+        if (e.empty() && !name.empty())
+            return QString::fromStdString(name);
     }
-    const QString strength = strength_basis_ == QLatin1String("ionic_strength")
-                                 ? tr("I = %1 mM").arg(format_fixed_text(ionic_strength_mmol_per_l_))
-                                 : tr("%1 mM").arg(format_fixed_text(concentration_mmol_per_l_));
-    return tr("%1 buffer pH %2").arg(strength, QString::fromStdString(chem::format_fixed(target_ph_, 1)));
+    const QString strength =
+        strength_basis_ == QLatin1String("ionic_strength")
+            ? tr("I = %1 mM").arg(format_fixed_text(ionic_strength_mmol_per_l_))
+            : tr("%1 mM").arg(format_fixed_text(concentration_mmol_per_l_));
+    return tr("%1 buffer pH %2")
+        .arg(strength, QString::fromStdString(chem::format_fixed(target_ph_, 1)));
 }
 
 void BufferDesigner::follow_default_name() {
-    if (!auto_name_ || !workspace_ || !workspace_->database() || buffer_name_.isEmpty()) return;
+    if (!auto_name_ || !workspace_ || !workspace_->database() || buffer_name_.isEmpty())
+        return;
     const QString wanted = defaultName();
-    if (wanted == buffer_name_ || buffer_name_.startsWith(wanted + QStringLiteral(" ("))) return;
+    if (wanted == buffer_name_ || buffer_name_.startsWith(wanted + QStringLiteral(" (")))
+        return;
     const QString name = free_name(wanted);
     const QString old = buffer_name_;
     const FieldError e = guarded([&] {
         if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
             workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
     });
-    if (!e.empty()) return;
+    if (!e.empty())
+        return;
     buffer_name_ = name;
-    if (plan_) plan_->renameBufferRefs(old, name, requestDocument());
+    if (plan_)
+        plan_->renameBufferRefs(old, name, requestDocument());
     rebuild_buffer_list();
     remember_current();
     emit bufferChanged();
 }
 
 void BufferDesigner::setWorkspace(Workspace* w) {
-    if (w == workspace_) return;
-    if (workspace_) disconnect(workspace_, nullptr, this, nullptr);
+    if (w == workspace_)
+        return;
+    if (workspace_)
+        disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
     if (w) {
         connect(w, &Workspace::libraryChanged, this, [this] {
@@ -338,41 +392,50 @@ void BufferDesigner::setWorkspace(Workspace* w) {
 }
 
 void BufferDesigner::setPlan(Plan* p) {
-    if (p == plan_) return;
-    if (plan_) disconnect(plan_, nullptr, this, nullptr);
+    if (p == plan_)
+        return;
+    if (plan_)
+        disconnect(plan_, nullptr, this, nullptr);
     plan_ = p;
-    if (p) connect(p, &Plan::bufferLinesChanged, this, &BufferDesigner::bufferChanged);
+    if (p)
+        connect(p, &Plan::bufferLinesChanged, this, &BufferDesigner::bufferChanged);
     emit planChanged();
     restore_state();
 }
 
-template <class T>
-void BufferDesigner::set_input(T& member, const T& value) {
-    if (member == value) return;
+template <class T> void BufferDesigner::set_input(T& member, const T& value) {
+    if (member == value)
+        return;
     member = value;
     emit inputsChanged();
-    if (loading_) return;
+    if (loading_)
+        return;
     after_edit();
 }
 
 void BufferDesigner::after_edit() {
     recompute();
     follow_default_name();
-    if (plan_ && !buffer_name_.isEmpty()) plan_->updateBufferRefs(buffer_name_, requestDocument());
+    if (plan_ && !buffer_name_.isEmpty())
+        plan_->updateBufferRefs(buffer_name_, requestDocument());
     emit edited();
 }
 
 namespace {
 std::optional<chem::Route> route_from(const QString& v) {
-    if (v == QLatin1String("mix")) return chem::Route::mix;
-    if (v == QLatin1String("titrate")) return chem::Route::titrate;
-    if (v == QLatin1String("stocks")) return chem::Route::stocks;
+    if (v == QLatin1String("mix"))
+        return chem::Route::mix;
+    if (v == QLatin1String("titrate"))
+        return chem::Route::titrate;
+    if (v == QLatin1String("stocks"))
+        return chem::Route::stocks;
     return std::nullopt;
 }
 } // namespace
 
 void BufferDesigner::setRoute(const QString& v) {
-    if (v == route_) return;
+    if (v == route_)
+        return;
     const auto from = route_from(route_), to = route_from(v);
     QVariantList notes;
     if (from && to && workspace_ && workspace_->ready()) {
@@ -383,12 +446,14 @@ void BufferDesigner::setRoute(const QString& v) {
         cur.base = base_.toStdString();
         cur.weigh = weigh_.toStdString();
         cur.titrant = titrant_.toStdString();
-        cur.titrant_form = titrant_form_ == QLatin1String("neat") ? chem::TitrantForm::neat : chem::TitrantForm::solution;
+        cur.titrant_form = titrant_form_ == QLatin1String("neat") ? chem::TitrantForm::neat
+                                                                  : chem::TitrantForm::solution;
         cur.basis = concentrationBasis() == QLatin1String("salt") ? chem::ConcentrationBasis::salt
                                                                   : chem::ConcentrationBasis::total;
         chem::RouteChange change;
         const FieldError e = guarded([&] {
-            change = chem::map_reagents_to_route(workspace_->data().reagents, system_.toStdString(), *from, *to, cur);
+            change = chem::map_reagents_to_route(workspace_->data().reagents, system_.toStdString(),
+                                                 *from, *to, cur);
         });
         if (e.empty()) {
             const bool was_loading = loading_;
@@ -397,7 +462,8 @@ void BufferDesigner::setRoute(const QString& v) {
             base_ = QString::fromStdString(change.reagents.base);
             weigh_ = QString::fromStdString(change.reagents.weigh);
             titrant_ = QString::fromStdString(change.reagents.titrant);
-            titrant_form_ = QString::fromLatin1(chem::titrant_form_name(change.reagents.titrant_form));
+            titrant_form_ =
+                QString::fromLatin1(chem::titrant_form_name(change.reagents.titrant_form));
             concentration_basis_ = QString::fromLatin1(chem::basis_name(change.reagents.basis));
             loading_ = was_loading;
             for (const chem::RouteNote& n : change.notes)
@@ -412,11 +478,13 @@ void BufferDesigner::setRoute(const QString& v) {
     }
     rebuild_choices();
     emit inputsChanged();
-    if (loading_) return;
+    if (loading_)
+        return;
     after_edit();
 }
 void BufferDesigner::setSystem(const QString& v) {
-    if (v == system_) return;
+    if (v == system_)
+        return;
     const bool was_loading = loading_;
     loading_ = true; // one recompute for the system and its default reagents together
     system_ = v;
@@ -428,32 +496,41 @@ void BufferDesigner::setSystem(const QString& v) {
     // Keep the chosen reagents when they belong to the new system, else take its most acidic and
     // most basic forms (the ends of the list), the usual pair to mix.
     auto in_choices = [this](const QString& id) {
-        return std::any_of(reagent_choices_.begin(), reagent_choices_.end(),
-                           [&](const QVariant& c) { return c.toMap().value("id").toString() == id; });
+        return std::any_of(
+            reagent_choices_.begin(), reagent_choices_.end(),
+            [&](const QVariant& c) { return c.toMap().value("id").toString() == id; });
     };
     if (!reagent_choices_.isEmpty()) {
         const QString first = reagent_choices_.first().toMap().value("id").toString();
         const QString last = reagent_choices_.last().toMap().value("id").toString();
-        if (!in_choices(acid_)) acid_ = first;
-        if (!in_choices(base_)) base_ = last;
-        if (!in_choices(weigh_)) weigh_ = first;
+        if (!in_choices(acid_))
+            acid_ = first;
+        if (!in_choices(base_))
+            base_ = last;
+        if (!in_choices(weigh_))
+            weigh_ = first;
     }
     rebuild_choices(); // the titrants follow the weighed reagent
     auto in_list = [](const QVariantList& list, const QString& id) {
-        return std::any_of(list.begin(), list.end(), [&](const QVariant& c) { return c.toMap().value("id").toString() == id; });
+        return std::any_of(list.begin(), list.end(), [&](const QVariant& c) {
+            return c.toMap().value("id").toString() == id;
+        });
     };
     if (!titrant_choices_.isEmpty() && !in_list(titrant_choices_, titrant_))
         titrant_ = titrant_choices_.first().toMap().value("id").toString();
     loading_ = was_loading;
     emit inputsChanged();
-    if (loading_) return;
+    if (loading_)
+        return;
     after_edit();
 }
 void BufferDesigner::setAcid(const QString& v) {
     set_input(acid_, v);
     rebuild_choices(); // the base forms offered are those more basic than the acid
 }
-void BufferDesigner::setBase(const QString& v) { set_input(base_, v); }
+void BufferDesigner::setBase(const QString& v) {
+    set_input(base_, v);
+}
 void BufferDesigner::setWeigh(const QString& v) {
     set_input(weigh_, v);
     rebuild_choices(); // the titrants offered are those that fit the weighed reagent
@@ -465,24 +542,47 @@ void BufferDesigner::setTitrant(const QString& v) {
         if (const chem::Reagent* r = workspace_->data().reagents.find_reagent(v.toStdString()))
             if (r->form != chem::PhysicalForm::liquid) {
                 titrant_form_ = QStringLiteral("solution");
-                if (v == titrant_) after_edit();
+                if (v == titrant_)
+                    after_edit();
             }
     set_input(titrant_, v);
 }
-void BufferDesigner::setTitrantMolPerL(double v) { set_input(titrant_mol_per_l_, v); }
-void BufferDesigner::setTitrantForm(const QString& v) { set_input(titrant_form_, v); }
+void BufferDesigner::setTitrantMolPerL(double v) {
+    set_input(titrant_mol_per_l_, v);
+}
+void BufferDesigner::setTitrantForm(const QString& v) {
+    set_input(titrant_form_, v);
+}
 QString BufferDesigner::concentrationBasis() const {
     return concentration_basis_.isEmpty() ? effective_basis_ : concentration_basis_;
 }
-void BufferDesigner::setConcentrationBasis(const QString& v) { set_input(concentration_basis_, v); }
-void BufferDesigner::setAcidStockMolPerL(double v) { set_input(acid_stock_mol_per_l_, v); }
-void BufferDesigner::setBaseStockMolPerL(double v) { set_input(base_stock_mol_per_l_, v); }
-void BufferDesigner::setTargetPh(double v) { set_input(target_ph_, v); }
-void BufferDesigner::setTemperatureC(double v) { set_input(temperature_c_, v); }
-void BufferDesigner::setVolumeMl(double v) { set_input(volume_ml_, v); }
-void BufferDesigner::setStrengthBasis(const QString& v) { set_input(strength_basis_, v); }
-void BufferDesigner::setConcentrationMmolPerL(double v) { set_input(concentration_mmol_per_l_, v); }
-void BufferDesigner::setIonicStrengthMmolPerL(double v) { set_input(ionic_strength_mmol_per_l_, v); }
+void BufferDesigner::setConcentrationBasis(const QString& v) {
+    set_input(concentration_basis_, v);
+}
+void BufferDesigner::setAcidStockMolPerL(double v) {
+    set_input(acid_stock_mol_per_l_, v);
+}
+void BufferDesigner::setBaseStockMolPerL(double v) {
+    set_input(base_stock_mol_per_l_, v);
+}
+void BufferDesigner::setTargetPh(double v) {
+    set_input(target_ph_, v);
+}
+void BufferDesigner::setTemperatureC(double v) {
+    set_input(temperature_c_, v);
+}
+void BufferDesigner::setVolumeMl(double v) {
+    set_input(volume_ml_, v);
+}
+void BufferDesigner::setStrengthBasis(const QString& v) {
+    set_input(strength_basis_, v);
+}
+void BufferDesigner::setConcentrationMmolPerL(double v) {
+    set_input(concentration_mmol_per_l_, v);
+}
+void BufferDesigner::setIonicStrengthMmolPerL(double v) {
+    set_input(ionic_strength_mmol_per_l_, v);
+}
 
 namespace {
 /// One picker entry: the library's name with the formula ("Formic acid 98 % · HCOOH"), and for a
@@ -492,11 +592,15 @@ QVariantList role_entries(const std::vector<chem::RoleChoice>& choices) {
     for (const chem::RoleChoice& c : choices) {
         QString detail;
         if (c.direction)
-            detail = *c.direction == chem::PhDirection::lowers ? QObject::tr("lowers pH") : QObject::tr("raises pH");
-        if (c.direction && c.strong) detail += QObject::tr(", strong");
+            detail = *c.direction == chem::PhDirection::lowers ? QObject::tr("lowers pH")
+                                                               : QObject::tr("raises pH");
+        if (c.direction && c.strong)
+            detail += QObject::tr(", strong");
         QString shown = QString::fromStdString(c.name);
-        if (!c.formula.empty()) shown += QStringLiteral(" · ") + QString::fromStdString(c.formula);
-        if (!detail.isEmpty()) shown += QStringLiteral(" (") + detail + QLatin1Char(')');
+        if (!c.formula.empty())
+            shown += QStringLiteral(" · ") + QString::fromStdString(c.formula);
+        if (!detail.isEmpty())
+            shown += QStringLiteral(" (") + detail + QLatin1Char(')');
         list.append(QVariantMap{{"id", QString::fromStdString(c.reagent)},
                                 {"name", shown},
                                 {"formula", QString::fromStdString(c.formula)},
@@ -530,15 +634,19 @@ void BufferDesigner::rebuild_choices() {
             if (const chem::SystemShare* sh = r.share(system_.toStdString()))
                 forms.push_back({sh->protons_removed / std::max(sh->count, 1e-9), entry});
         }
-        std::stable_sort(forms.begin(), forms.end(),
-                         [](const Choice& a, const Choice& b) { return a.protons_per_unit < b.protons_per_unit; });
-        for (Choice& c : forms) reagent_choices_.append(c.entry);
+        std::stable_sort(forms.begin(), forms.end(), [](const Choice& a, const Choice& b) {
+            return a.protons_per_unit < b.protons_per_unit;
+        });
+        for (Choice& c : forms)
+            reagent_choices_.append(c.entry);
         // The role pickers: only the forms that fit (chem::reagent_choices).
         const std::string sys = system_.toStdString();
-        const chem::RoleChoices mix = chem::reagent_choices(lib, sys, chem::Route::mix, acid_.toStdString());
+        const chem::RoleChoices mix =
+            chem::reagent_choices(lib, sys, chem::Route::mix, acid_.toStdString());
         acid_choices_ = role_entries(mix.acid_forms);
         base_choices_ = role_entries(mix.base_forms);
-        const chem::RoleChoices tit = chem::reagent_choices(lib, sys, chem::Route::titrate, {}, weigh_.toStdString());
+        const chem::RoleChoices tit =
+            chem::reagent_choices(lib, sys, chem::Route::titrate, {}, weigh_.toStdString());
         weigh_choices_ = role_entries(tit.weighable);
         titrant_choices_ = role_entries(tit.titrants);
     }
@@ -547,22 +655,25 @@ void BufferDesigner::rebuild_choices() {
 
 QJsonObject BufferDesigner::requestDocument() const {
     QJsonObject doc = QJsonObject::fromVariantMap(extra_);
-    if (!buffer_name_.isEmpty()) doc.insert("name", buffer_name_);
-    else doc.remove("name");
+    if (!buffer_name_.isEmpty())
+        doc.insert("name", buffer_name_);
+    else
+        doc.remove("name");
     doc.insert("target_ph", target_ph_);
     doc.insert("temperature_c", temperature_c_);
     doc.insert("volume_ml", volume_ml_);
     doc.insert("route", route_);
     doc.insert("system", system_);
-    for (const char* k : {"acid", "base", "weigh", "titrant", "titrant_mol_per_l", "titrant_form", "acid_stock_mol_per_l",
-                          "base_stock_mol_per_l", "concentration_mol_per_l", "ionic_strength_mol_per_l",
-                          "concentration_basis"})
+    for (const char* k : {"acid", "base", "weigh", "titrant", "titrant_mol_per_l", "titrant_form",
+                          "acid_stock_mol_per_l", "base_stock_mol_per_l", "concentration_mol_per_l",
+                          "ionic_strength_mol_per_l", "concentration_basis"})
         doc.remove(QLatin1String(k));
     if (route_ == QLatin1String("titrate")) {
         doc.insert("weigh", weigh_);
         doc.insert("titrant", titrant_);
         doc.insert("titrant_form", titrant_form_);
-        if (titrant_form_ != QLatin1String("neat")) doc.insert("titrant_mol_per_l", titrant_mol_per_l_);
+        if (titrant_form_ != QLatin1String("neat"))
+            doc.insert("titrant_mol_per_l", titrant_mol_per_l_);
     } else {
         doc.insert("acid", acid_);
         doc.insert("base", base_);
@@ -575,20 +686,25 @@ QJsonObject BufferDesigner::requestDocument() const {
         doc.insert("ionic_strength_mol_per_l", ionic_strength_mmol_per_l_ / 1000.0);
     } else {
         doc.insert("concentration_mol_per_l", concentration_mmol_per_l_ / 1000.0);
-        if (!concentration_basis_.isEmpty()) doc.insert("concentration_basis", concentration_basis_);
+        if (!concentration_basis_.isEmpty())
+            doc.insert("concentration_basis", concentration_basis_);
     }
     return doc;
 }
 
-void BufferDesigner::loadDocument(const QVariantMap& doc) { loadJson(QJsonObject::fromVariantMap(doc)); }
+void BufferDesigner::loadDocument(const QVariantMap& doc) {
+    loadJson(QJsonObject::fromVariantMap(doc));
+}
 
 void BufferDesigner::loadJson(const QJsonObject& doc) {
     loading_ = true;
     auto str = [&](const char* key, QString& member) {
-        if (doc.value(QLatin1String(key)).isString()) member = doc.value(QLatin1String(key)).toString();
+        if (doc.value(QLatin1String(key)).isString())
+            member = doc.value(QLatin1String(key)).toString();
     };
     auto num = [&](const char* key, double& member, double scale = 1.0) {
-        if (doc.value(QLatin1String(key)).isDouble()) member = doc.value(QLatin1String(key)).toDouble() * scale;
+        if (doc.value(QLatin1String(key)).isDouble())
+            member = doc.value(QLatin1String(key)).toDouble() * scale;
     };
     str("route", route_);
     str("acid", acid_);
@@ -615,14 +731,17 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
     if (sys.isEmpty() && workspace_ && workspace_->ready()) {
         const QString id = route_ == QLatin1String("titrate") ? weigh_ : acid_;
         if (const chem::Reagent* r = workspace_->data().reagents.find_reagent(id.toStdString()))
-            if (!r->systems.empty()) sys = QString::fromStdString(r->systems.front().system);
+            if (!r->systems.empty())
+                sys = QString::fromStdString(r->systems.front().system);
     }
-    if (!sys.isEmpty()) system_ = sys;
+    if (!sys.isEmpty())
+        system_ = sys;
     QVariantMap extra = doc.toVariantMap();
-    for (const char* k : {"name", "auto_name", "route", "system", "acid", "base", "weigh", "titrant", "titrant_mol_per_l",
-                          "titrant_form", "concentration_basis",
-                          "acid_stock_mol_per_l", "base_stock_mol_per_l", "target_ph", "temperature_c",
-                          "volume_ml", "concentration_mol_per_l", "ionic_strength_mol_per_l"})
+    for (const char* k :
+         {"name", "auto_name", "route", "system", "acid", "base", "weigh", "titrant",
+          "titrant_mol_per_l", "titrant_form", "concentration_basis", "acid_stock_mol_per_l",
+          "base_stock_mol_per_l", "target_ph", "temperature_c", "volume_ml",
+          "concentration_mol_per_l", "ionic_strength_mol_per_l"})
         extra.remove(QLatin1String(k));
     extra_ = extra;
     loading_ = false;
@@ -652,18 +771,23 @@ void BufferDesigner::recompute() {
         const chem::Library& lib = workspace_->data().reagents;
         for (const QJsonValue& v : out.value("items").toArray()) {
             QVariantMap item = v.toObject().toVariantMap();
-            const chem::Reagent* r = lib.find_reagent(v.toObject().value("reagent").toString().toStdString());
+            const chem::Reagent* r =
+                lib.find_reagent(v.toObject().value("reagent").toString().toStdString());
             item.insert("name", r ? QString::fromStdString(r->name) : item.value("reagent"));
             item.insert("amount", amount_text(v.toObject()));
             items_.append(item);
         }
-        for (const QJsonValue& v : out.value("warnings").toArray()) warnings_.append(v.toObject().toVariantMap());
-        for (const QJsonValue& v : out.value("steps").toArray()) steps_.append(v.toString());
-        for (const QJsonValue& v : out.value("cautions").toArray()) cautions_.append(v.toString());
+        for (const QJsonValue& v : out.value("warnings").toArray())
+            warnings_.append(v.toObject().toVariantMap());
+        for (const QJsonValue& v : out.value("steps").toArray())
+            steps_.append(v.toString());
+        for (const QJsonValue& v : out.value("cautions").toArray())
+            cautions_.append(v.toString());
         predicted_ph_ = out.value("ph").toDouble();
         basis_text_ = out.value("basis").toObject().value("text").toString();
         effective_basis_ = out.value("concentration_basis").toString(effective_basis_);
-        ionic_strength_result_mmol_per_l_ = out.value("ionic_strength_mol_per_l").toDouble() * 1000.0;
+        ionic_strength_result_mmol_per_l_ =
+            out.value("ionic_strength_mol_per_l").toDouble() * 1000.0;
         buffer_capacity_mmol_per_l_ = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
         compute_curves(out);
     } else {
@@ -672,10 +796,14 @@ void BufferDesigner::recompute() {
         beta_curve_.clear();
     }
     last_recompute_ms_ = elapsed_ms(timer);
-    if (items_ != old_items) emit itemsChanged();
-    if (warnings_ != old_warnings) emit warningsChanged();
-    if (steps_ != old_steps) emit stepsChanged();
-    if (cautions_ != old_cautions) emit cautionsChanged();
+    if (items_ != old_items)
+        emit itemsChanged();
+    if (warnings_ != old_warnings)
+        emit warningsChanged();
+    if (steps_ != old_steps)
+        emit stepsChanged();
+    if (cautions_ != old_cautions)
+        emit cautionsChanged();
     emit resultChanged();
 }
 
@@ -684,16 +812,19 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
     beta_curve_.clear();
     const QJsonArray composition = recipe.value("composition").toArray();
     const bool titrate = route_ == QLatin1String("titrate");
-    const QString varied_up = titrate ? titrant_ : base_;   // the component whose share grows
+    const QString varied_up = titrate ? titrant_ : base_;    // the component whose share grows
     const QString varied_down = titrate ? QString() : acid_; // mix/stocks: its partner shrinks
     double c_up = 0, c_down = 0;
     QJsonArray fixed;
     for (const QJsonValue& v : composition) {
         const QJsonObject c = v.toObject();
         const QString id = c.value("reagent").toString();
-        if (id == varied_up) c_up += c.value("mol_per_l").toDouble();
-        else if (!varied_down.isEmpty() && id == varied_down) c_down += c.value("mol_per_l").toDouble();
-        else fixed.append(c);
+        if (id == varied_up)
+            c_up += c.value("mol_per_l").toDouble();
+        else if (!varied_down.isEmpty() && id == varied_down)
+            c_down += c.value("mol_per_l").toDouble();
+        else
+            fixed.append(c);
     }
     const double total = c_up + c_down;
     double x_recipe = 0, x_max = 1, up_max = 0;
@@ -706,7 +837,8 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
         curve_x_label_ = tr("Titrant added (mL)");
         for (const QJsonValue& v : recipe.value("items").toArray()) {
             const QJsonObject it = v.toObject();
-            if (it.value("reagent").toString() != titrant_ || !(c_up > 0)) continue;
+            if (it.value("reagent").toString() != titrant_ || !(c_up > 0))
+                continue;
             if (it.contains("volume_ml")) {
                 per_mol_per_l = it.value("volume_ml").toDouble() / c_up;
             } else if (it.contains("mass_g")) {
@@ -714,14 +846,16 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
                 curve_x_label_ = tr("Titrant added (g)");
             }
         }
-        if (!(per_mol_per_l > 0) && titrant_mol_per_l_ > 0) per_mol_per_l = volume_ml_ / titrant_mol_per_l_;
+        if (!(per_mol_per_l > 0) && titrant_mol_per_l_ > 0)
+            per_mol_per_l = volume_ml_ / titrant_mol_per_l_;
         x_max = up_max * per_mol_per_l;
         x_recipe = c_up * per_mol_per_l;
     } else {
         x_recipe = total > 0 ? c_up / total : 0;
         curve_x_label_ = tr("Base form, fraction of the buffer");
     }
-    if (!(x_max > 0) || (!titrate && !(total > 0))) return;
+    if (!(x_max > 0) || (!titrate && !(total > 0)))
+        return;
 
     double ph_min = 14, ph_max = 0, beta_max = 0;
     for (int i = 0; i < curve_points; ++i) {
@@ -729,15 +863,20 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
         QJsonArray comps = fixed;
         const double up = titrate ? f * up_max : f * total;
         const double down = titrate ? 0 : (1 - f) * total;
-        if (up > 0) comps.append(QJsonObject{{"reagent", varied_up}, {"mol_per_l", up}});
-        if (down > 0) comps.append(QJsonObject{{"reagent", varied_down}, {"mol_per_l", down}});
-        if (comps.isEmpty()) continue;
+        if (up > 0)
+            comps.append(QJsonObject{{"reagent", varied_up}, {"mol_per_l", up}});
+        if (down > 0)
+            comps.append(QJsonObject{{"reagent", varied_down}, {"mol_per_l", down}});
+        if (comps.isEmpty())
+            continue;
         QJsonObject out;
         const FieldError e = guarded([&] {
-            out = command_solve(workspace_->data(),
-                                QJsonObject{{"temperature_c", temperature_c_}, {"components", comps}}, {});
+            out = command_solve(
+                workspace_->data(),
+                QJsonObject{{"temperature_c", temperature_c_}, {"components", comps}}, {});
         });
-        if (!e.empty()) continue; // a point the core refuses is left out, not invented
+        if (!e.empty())
+            continue; // a point the core refuses is left out, not invented
         const double ph = out.value("ph").toDouble();
         const double beta = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
         ph_curve_.append(QPointF(f * x_max, ph));
@@ -758,11 +897,14 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
 }
 
 void BufferDesigner::fillSeries(QObject* series, const QString& which) const {
-    if (which == QLatin1String("ph")) replace_series(series, ph_curve_);
-    else if (which == QLatin1String("beta")) replace_series(series, beta_curve_);
+    if (which == QLatin1String("ph"))
+        replace_series(series, ph_curve_);
+    else if (which == QLatin1String("beta"))
+        replace_series(series, beta_curve_);
     else if (which == QLatin1String("target"))
         replace_series(series, {QPointF(0, target_ph_), QPointF(curve_x_max_, target_ph_)});
-    else if (which == QLatin1String("recipe")) replace_series(series, {recipe_point_});
+    else if (which == QLatin1String("recipe"))
+        replace_series(series, {recipe_point_});
     else if (which == QLatin1String("targetBeta"))
         replace_series(series, {QPointF(target_ph_, 0), QPointF(target_ph_, beta_max_mmol_per_l_)});
 }

@@ -30,7 +30,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     QML_ELEMENT
     Q_INTERFACES(QQmlParserStatus)
     // ---- dependencies -----------------------------------------------------------------------
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     /// The plan whose lines may hold this buffer by reference: they follow every edit.
     Q_PROPERTY(phaseplan::gui::Plan* plan READ plan WRITE setPlan NOTIFY planChanged)
     /// Settings key under which the designer keeps the name of the buffer it edits between runs
@@ -58,28 +59,35 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     Q_PROPERTY(QString base READ base WRITE setBase NOTIFY inputsChanged)
     Q_PROPERTY(QString weigh READ weigh WRITE setWeigh NOTIFY inputsChanged)
     Q_PROPERTY(QString titrant READ titrant WRITE setTitrant NOTIFY inputsChanged)
-    Q_PROPERTY(double titrantMolPerL READ titrantMolPerL WRITE setTitrantMolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(
+        double titrantMolPerL READ titrantMolPerL WRITE setTitrantMolPerL NOTIFY inputsChanged)
     /// "solution" (a titrant of titrantMolPerL) or "neat" (as supplied, at the library's assay).
     Q_PROPERTY(QString titrantForm READ titrantForm WRITE setTitrantForm NOTIFY inputsChanged)
     /// What the concentration counts: "total" (the system over all its forms) or "salt" (the
     /// salt held at c, brought to pH by its partner). Reads the route's default until chosen.
-    Q_PROPERTY(QString concentrationBasis READ concentrationBasis WRITE setConcentrationBasis NOTIFY inputsChanged)
-    /// The basis in words, from the designed recipe ("20 mmol/L total phosphate"); "" while invalid.
+    Q_PROPERTY(QString concentrationBasis READ concentrationBasis WRITE setConcentrationBasis NOTIFY
+                   inputsChanged)
+    /// The basis in words, from the designed recipe ("20 mmol/L total phosphate"); "" while
+    /// invalid.
     Q_PROPERTY(QString basisText READ basisText NOTIFY resultChanged)
     /// What the last route change did to the reagents, [{field, message}] (e.g. "KOH on KH2PO4
     /// became K2HPO4"); cleared by the next route or system change.
     Q_PROPERTY(QVariantList routeNotes READ routeNotes NOTIFY routeNotesChanged)
-    Q_PROPERTY(double acidStockMolPerL READ acidStockMolPerL WRITE setAcidStockMolPerL NOTIFY inputsChanged)
-    Q_PROPERTY(double baseStockMolPerL READ baseStockMolPerL WRITE setBaseStockMolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double acidStockMolPerL READ acidStockMolPerL WRITE setAcidStockMolPerL NOTIFY
+                   inputsChanged)
+    Q_PROPERTY(double baseStockMolPerL READ baseStockMolPerL WRITE setBaseStockMolPerL NOTIFY
+                   inputsChanged)
     Q_PROPERTY(double targetPh READ targetPh WRITE setTargetPh NOTIFY inputsChanged)
     Q_PROPERTY(double temperatureC READ temperatureC WRITE setTemperatureC NOTIFY inputsChanged)
     Q_PROPERTY(double volumeMl READ volumeMl WRITE setVolumeMl NOTIFY inputsChanged)
     /// "concentration" or "ionic_strength": which of the two amounts below is given.
     Q_PROPERTY(QString strengthBasis READ strengthBasis WRITE setStrengthBasis NOTIFY inputsChanged)
     /// Total buffer concentration in mmol/L (the document carries mol/L).
-    Q_PROPERTY(double concentrationMmolPerL READ concentrationMmolPerL WRITE setConcentrationMmolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double concentrationMmolPerL READ concentrationMmolPerL WRITE
+                   setConcentrationMmolPerL NOTIFY inputsChanged)
     /// Ionic strength of the finished buffer in mmol/L.
-    Q_PROPERTY(double ionicStrengthMmolPerL READ ionicStrengthMmolPerL WRITE setIonicStrengthMmolPerL NOTIFY inputsChanged)
+    Q_PROPERTY(double ionicStrengthMmolPerL READ ionicStrengthMmolPerL WRITE
+                   setIonicStrengthMmolPerL NOTIFY inputsChanged)
 
     // ---- choices for the pickers ------------------------------------------------------------
     /// [{id, name}] of every acid-base system in the library.
@@ -100,7 +108,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// [{reagent, name, mass_g?, volume_ml?, as, mol_per_l, amount (display text)}]
     Q_PROPERTY(QVariantList items READ items NOTIFY itemsChanged)
     Q_PROPERTY(double predictedPh READ predictedPh NOTIFY resultChanged)
-    Q_PROPERTY(double ionicStrengthResultMmolPerL READ ionicStrengthResultMmolPerL NOTIFY resultChanged)
+    Q_PROPERTY(
+        double ionicStrengthResultMmolPerL READ ionicStrengthResultMmolPerL NOTIFY resultChanged)
     /// β in mmol/L per pH unit.
     Q_PROPERTY(double bufferCapacityMmolPerL READ bufferCapacityMmolPerL NOTIFY resultChanged)
     Q_PROPERTY(QStringList steps READ steps NOTIFY stepsChanged)
@@ -127,7 +136,7 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     Q_PROPERTY(double betaMaxMmolPerL READ betaMaxMmolPerL NOTIFY resultChanged)
     Q_PROPERTY(int curvePointCount READ curvePointCount NOTIFY resultChanged)
 
-public:
+  public:
     explicit BufferDesigner(QObject* parent = nullptr);
     ~BufferDesigner() override;
 
@@ -245,12 +254,13 @@ public:
     /// Fills a LineSeries with the pH curve, the β curve or the target line.
     /// @param which "ph", "beta", "target".
     Q_INVOKABLE void fillSeries(QObject* series, const QString& which) const;
-    /// Whether the error names this input ("target_ph", "acid", …); for the fields' inline messages.
+    /// Whether the error names this input ("target_ph", "acid", …); for the fields' inline
+    /// messages.
     Q_INVOKABLE bool errorIs(const QString& field) const { return error_.field == field; }
     /// Recomputes now (inputs' setters do it themselves).
     Q_INVOKABLE void recompute();
 
-signals:
+  signals:
     void workspaceChanged();
     void planChanged();
     void bufferChanged();
@@ -268,9 +278,8 @@ signals:
     /// An input changed by the user (not by loading): the plan and autosave listen.
     void edited();
 
-private:
-    template <class T>
-    void set_input(T& member, const T& value);
+  private:
+    template <class T> void set_input(T& member, const T& value);
     /// After an input changed by the user: recompute, follow the default name, update the lines
     /// that hold the buffer, schedule the save.
     void after_edit();
@@ -330,7 +339,8 @@ private:
     FieldError error_;
     QVariantList items_, warnings_;
     QStringList steps_, cautions_;
-    double predicted_ph_ = 0, ionic_strength_result_mmol_per_l_ = 0, buffer_capacity_mmol_per_l_ = 0;
+    double predicted_ph_ = 0, ionic_strength_result_mmol_per_l_ = 0,
+           buffer_capacity_mmol_per_l_ = 0;
     double last_recompute_ms_ = 0;
     QString curve_x_label_;
     double curve_x_max_ = 1;

@@ -26,20 +26,22 @@ class ChecksModel : public QAbstractListModel {
     QML_ELEMENT
     Q_PROPERTY(phaseplan::gui::Plan* plan READ plan WRITE setPlan NOTIFY sourcesChanged)
     Q_PROPERTY(phaseplan::gui::LinesModel* lines READ lines WRITE setLines NOTIFY sourcesChanged)
-    Q_PROPERTY(phaseplan::gui::BufferDesigner* designer READ designer WRITE setDesigner NOTIFY sourcesChanged)
+    Q_PROPERTY(phaseplan::gui::BufferDesigner* designer READ designer WRITE setDesigner NOTIFY
+                   sourcesChanged)
     Q_PROPERTY(int count READ count NOTIFY countChanged)
     /// Number of entries of severity "warning" (the ones that stop a night's run).
     Q_PROPERTY(int warningCount READ warningCount NOTIFY countChanged)
 
-public:
+  public:
     enum Role {
-        SeverityRole = Qt::UserRole + 1, ///< "warning", "caution", "info", or "error" (input refused)
+        SeverityRole =
+            Qt::UserRole + 1, ///< "warning", "caution", "info", or "error" (input refused)
         CodeRole,
         MessageRole,
         AdviceRole,
-        SourceRole,   ///< "Buffer", "Line A", "Sequence"
-        ScreenRole,   ///< the screen key to open: "buffer", "lines", "sequence"
-        FocusRole,    ///< the field to focus there, as a contract path ("lines.B.bottle_ml")
+        SourceRole, ///< "Buffer", "Line A", "Sequence"
+        ScreenRole, ///< the screen key to open: "buffer", "lines", "sequence"
+        FocusRole,  ///< the field to focus there, as a contract path ("lines.B.bottle_ml")
     };
     Q_ENUM(Role)
 
@@ -60,17 +62,18 @@ public:
     /// Gathers now instead of on the next turn of the event loop (tests).
     Q_INVOKABLE void refreshNow() { rebuild(); }
 
-    /// What to do about a warning code (a sentence for the bench); a general line for unknown codes.
+    /// What to do about a warning code (a sentence for the bench); a general line for unknown
+    /// codes.
     Q_INVOKABLE static QString adviceFor(const QString& code);
     /// The field a warning is best fixed at, as a contract path ("lines.B.bottle_ml" for a bottle
     /// that runs dry, "target_ph" for a buffer outside its pKa range).
     static QString focusFor(const QString& code, const QString& line, const QVariantMap& warning);
 
-signals:
+  signals:
     void sourcesChanged();
     void countChanged();
 
-private:
+  private:
     struct Entry {
         QString severity, code, message, advice, source, screen, focus;
         bool operator==(const Entry&) const = default;

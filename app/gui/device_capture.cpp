@@ -13,7 +13,9 @@ using devices::DeviceKind;
 
 namespace {
 
-QString kind_words(DeviceKind k) { return k == DeviceKind::balance ? QStringLiteral("balance") : QStringLiteral("pH meter"); }
+QString kind_words(DeviceKind k) {
+    return k == DeviceKind::balance ? QStringLiteral("balance") : QStringLiteral("pH meter");
+}
 
 } // namespace
 
@@ -25,21 +27,27 @@ DeviceCapture::DeviceCapture(QObject* parent) : QObject(parent) {
 DeviceCapture::~DeviceCapture() = default;
 
 void DeviceCapture::setWorkspace(Workspace* w) {
-    if (w == workspace_) return;
+    if (w == workspace_)
+        return;
     stop();
-    if (workspace_) disconnect(workspace_, nullptr, this, nullptr);
+    if (workspace_)
+        disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
-    if (workspace_) connect(workspace_, &Workspace::readyChanged, this, &DeviceCapture::reloadDevices);
+    if (workspace_)
+        connect(workspace_, &Workspace::readyChanged, this, &DeviceCapture::reloadDevices);
     emit workspaceChanged();
     reloadDevices();
 }
 
-QDate DeviceCapture::today() const { return workspace_ ? workspace_->today() : QDate::currentDate(); }
+QDate DeviceCapture::today() const {
+    return workspace_ ? workspace_->today() : QDate::currentDate();
+}
 
 void DeviceCapture::reloadDevices() {
     devices_.clear();
     const FieldError err = guarded([&] {
-        if (!workspace_ || !workspace_->database()) return;
+        if (!workspace_ || !workspace_->database())
+            return;
         const QString dir = workspace_->data().data_dir;
         formats_ = devices::load_format_library_file(dir + QStringLiteral("/device_formats.json"));
         storage::Database& db = *workspace_->database();
@@ -48,18 +56,22 @@ void DeviceCapture::reloadDevices() {
         if (db.setting(QStringLiteral("demo_devices_seeded")).isNull()) {
             if (store.list().empty()) {
                 QFile f(dir + QStringLiteral("/demo/devices.json"));
-                if (f.open(QIODevice::ReadOnly)) store.import_json(f.readAll(), "demo/devices.json", &formats_);
+                if (f.open(QIODevice::ReadOnly))
+                    store.import_json(f.readAll(), "demo/devices.json", &formats_);
             }
             db.set_setting(QStringLiteral("demo_devices_seeded"), true);
         }
         devices_ = store.list();
     });
-    if (!err.empty()) set_error(err.field, err.message, QStringLiteral("bad-setting"));
+    if (!err.empty())
+        set_error(err.field, err.message, QStringLiteral("bad-setting"));
     auto first_of = [&](DeviceKind k, const QString& current) {
         for (const auto& d : devices_)
-            if (d.kind == k && d.id == current) return current;
+            if (d.kind == k && d.id == current)
+                return current;
         for (const auto& d : devices_)
-            if (d.kind == k) return d.id;
+            if (d.kind == k)
+                return d.id;
         return QString();
     };
     balance_id_ = first_of(DeviceKind::balance, balance_id_);
@@ -70,7 +82,8 @@ void DeviceCapture::reloadDevices() {
 
 bool DeviceCapture::saveDevice(const QVariantMap& device) {
     const FieldError err = guarded([&] {
-        if (!workspace_ || !workspace_->database()) throw chem::Error("database", "the workspace is not open");
+        if (!workspace_ || !workspace_->database())
+            throw chem::Error("database", "the workspace is not open");
         const devices::DeviceRecord d =
             devices::DeviceRecord::from_json(QJsonObject::fromVariantMap(device), "", &formats_);
         devices::DeviceStore(*workspace_->database()).save(d);
@@ -87,56 +100,70 @@ bool DeviceCapture::saveDevice(const QVariantMap& device) {
 bool DeviceCapture::removeDevice(const QString& id) {
     bool removed = false;
     const FieldError err = guarded([&] {
-        if (workspace_ && workspace_->database()) removed = devices::DeviceStore(*workspace_->database()).remove(id);
+        if (workspace_ && workspace_->database())
+            removed = devices::DeviceStore(*workspace_->database()).remove(id);
     });
-    if (!err.empty()) set_error(err.field, err.message, QStringLiteral("bad-setting"));
-    if (removed) reloadDevices();
+    if (!err.empty())
+        set_error(err.field, err.message, QStringLiteral("bad-setting"));
+    if (removed)
+        reloadDevices();
     return removed;
 }
 
 QVariantList DeviceCapture::list_of(DeviceKind kind) const {
     QVariantList out;
     for (const auto& d : devices_) {
-        if (d.kind != kind) continue;
+        if (d.kind != kind)
+            continue;
         const auto caution = devices::calibration_caution(d, today());
-        out.append(QVariantMap{{"id", d.id},
-                               {"name", d.name},
-                               {"kind", QLatin1String(devices::kind_name(d.kind))},
-                               {"port", d.port.port},
-                               {"baud", d.port.baud},
-                               {"data_bits", d.port.data_bits},
-                               {"parity", d.port.parity},
-                               {"stop_bits", d.port.stop_bits},
-                               {"flow_control", d.port.flow_control},
-                               {"calibration_due", d.calibration_due.isValid() ? d.calibration_due.toString(Qt::ISODate) : QString()},
-                               {"format", d.format},
-                               {"unit", d.unit},
-                               {"calibrationDue", d.calibration_due.isValid() ? d.calibration_due.toString(Qt::ISODate) : QString()},
-                               {"calibrationCaution", caution ? (*caution)["message"].toString() : QString()}});
+        out.append(QVariantMap{
+            {"id", d.id},
+            {"name", d.name},
+            {"kind", QLatin1String(devices::kind_name(d.kind))},
+            {"port", d.port.port},
+            {"baud", d.port.baud},
+            {"data_bits", d.port.data_bits},
+            {"parity", d.port.parity},
+            {"stop_bits", d.port.stop_bits},
+            {"flow_control", d.port.flow_control},
+            {"calibration_due",
+             d.calibration_due.isValid() ? d.calibration_due.toString(Qt::ISODate) : QString()},
+            {"format", d.format},
+            {"unit", d.unit},
+            {"calibrationDue",
+             d.calibration_due.isValid() ? d.calibration_due.toString(Qt::ISODate) : QString()},
+            {"calibrationCaution", caution ? (*caution)["message"].toString() : QString()}});
     }
     return out;
 }
 
 void DeviceCapture::setBalanceId(const QString& id) {
-    if (id == balance_id_) return;
+    if (id == balance_id_)
+        return;
     balance_id_ = id;
     emit selectionChanged();
 }
 
 void DeviceCapture::setMeterId(const QString& id) {
-    if (id == meter_id_) return;
+    if (id == meter_id_)
+        return;
     meter_id_ = id;
     emit selectionChanged();
 }
 
 void DeviceCapture::setTimeoutS(double s) {
-    if (!(s > 0) || s == timeout_s_) return;
+    if (!(s > 0) || s == timeout_s_)
+        return;
     timeout_s_ = s;
     emit timeoutSChanged();
 }
 
-bool DeviceCapture::takeFromBalance(const QString& target) { return start(DeviceKind::balance, balance_id_, target); }
-bool DeviceCapture::takeFromMeter(const QString& target) { return start(DeviceKind::ph_meter, meter_id_, target); }
+bool DeviceCapture::takeFromBalance(const QString& target) {
+    return start(DeviceKind::balance, balance_id_, target);
+}
+bool DeviceCapture::takeFromMeter(const QString& target) {
+    return start(DeviceKind::ph_meter, meter_id_, target);
+}
 
 bool DeviceCapture::start(DeviceKind kind, const QString& id, const QString& target) {
     stop();
@@ -148,10 +175,13 @@ bool DeviceCapture::start(DeviceKind kind, const QString& id, const QString& tar
     device_ = devices::DeviceRecord{};
     const devices::DeviceRecord* record = nullptr;
     for (const auto& d : devices_)
-        if (d.kind == kind && d.id == id) record = &d;
+        if (d.kind == kind && d.id == id)
+            record = &d;
     if (!record) {
-        fail(chem::Error("device", id.isEmpty() ? "no " + kind_words(kind).toStdString() + " is set up"
-                                                : "no " + kind_words(kind).toStdString() + " \"" + id.toStdString() + "\""));
+        fail(chem::Error("device", id.isEmpty()
+                                       ? "no " + kind_words(kind).toStdString() + " is set up"
+                                       : "no " + kind_words(kind).toStdString() + " \"" +
+                                             id.toStdString() + "\""));
         return false;
     }
     device_ = *record;
@@ -166,23 +196,28 @@ bool DeviceCapture::start(DeviceKind kind, const QString& id, const QString& tar
     }
     connect(port_.get(), &QSerialPort::readyRead, this, &DeviceCapture::on_ready_read);
     connect(port_.get(), &QSerialPort::errorOccurred, this, [this](QSerialPort::SerialPortError e) {
-        if (e != QSerialPort::NoError && e != QSerialPort::TimeoutError) on_port_error();
+        if (e != QSerialPort::NoError && e != QSerialPort::TimeoutError)
+            on_port_error();
     });
     timer_.start(static_cast<int>(timeout_s_ * 1000));
     emit stateChanged();
     // Bytes that were already waiting on the line.
-    if (port_->bytesAvailable() > 0) on_ready_read();
+    if (port_->bytesAvailable() > 0)
+        on_ready_read();
     return busy();
 }
 
 void DeviceCapture::on_ready_read() {
-    if (!port_) return;
+    if (!port_)
+        return;
     lines_.feed(port_->readAll());
     try {
         while (port_) {
             const auto line = lines_.take_line();
-            if (!line) return;
-            devices::Reading r = devices::parse_line(*line, format_, formats_, device_.expectation());
+            if (!line)
+                return;
+            devices::Reading r =
+                devices::parse_line(*line, format_, formats_, device_.expectation());
             if (r.stable) {
                 finish(r, false);
                 return;
@@ -201,20 +236,26 @@ void DeviceCapture::on_ready_read() {
 }
 
 void DeviceCapture::on_port_error() {
-    if (!port_) return;
+    if (!port_)
+        return;
     // A complete line that came before the fault is still the reading.
-    if (port_->bytesAvailable() > 0) on_ready_read();
-    if (!port_) return;
+    if (port_->bytesAvailable() > 0)
+        on_ready_read();
+    if (!port_)
+        return;
     fail(devices::port_fault(*port_, device_.port, lines_.pending()));
 }
 
 void DeviceCapture::on_timeout() {
-    if (!port_) return;
-    fail(devices::timeout_fault(device_.port, static_cast<int>(timeout_s_ * 1000), true, lines_.pending()));
+    if (!port_)
+        return;
+    fail(devices::timeout_fault(device_.port, static_cast<int>(timeout_s_ * 1000), true,
+                                lines_.pending()));
 }
 
 bool DeviceCapture::acceptUnstable() {
-    if (!port_ || !unstable_reading_) return false;
+    if (!port_ || !unstable_reading_)
+        return false;
     finish(*unstable_reading_, true);
     return true;
 }
@@ -251,7 +292,8 @@ void DeviceCapture::finish(const devices::Reading& r, bool accepted_unstable) {
                   {"sentValue", r.sent_value},
                   {"sentUnit", r.sent_unit},
                   {"calibrationCaution", caution ? (*caution)["message"].toString() : QString()}};
-    if (r.temperature_c) c["temperatureC"] = *r.temperature_c;
+    if (r.temperature_c)
+        c["temperatureC"] = *r.temperature_c;
     c["record"] = QVariantMap{{"device_id", device_.id},
                               {"device_kind", QLatin1String(devices::kind_name(device_.kind))},
                               {"raw", r.raw},
@@ -262,9 +304,12 @@ void DeviceCapture::finish(const devices::Reading& r, bool accepted_unstable) {
         // What the batch record keeps besides: the instrument's name and its calibration date
         // on the day of the reading, so the sheet can say it was overdue.
         QVariantMap rec = c["record"].toMap();
-        if (!device_.name.isEmpty()) rec["device_name"] = device_.name;
-        if (device_.calibration_due.isValid()) rec["calibration_due"] = device_.calibration_due.toString(Qt::ISODate);
-        if (caution) rec["calibration_caution"] = (*caution)["message"].toString();
+        if (!device_.name.isEmpty())
+            rec["device_name"] = device_.name;
+        if (device_.calibration_due.isValid())
+            rec["calibration_due"] = device_.calibration_due.toString(Qt::ISODate);
+        if (caution)
+            rec["calibration_caution"] = (*caution)["message"].toString();
         c["record"] = rec;
     }
     unstable_.clear();
@@ -278,16 +323,20 @@ void DeviceCapture::finish(const devices::Reading& r, bool accepted_unstable) {
 void DeviceCapture::fail(const chem::Error& e) {
     stop();
     const auto* de = dynamic_cast<const devices::DeviceError*>(&e);
-    const QString who = device_.id.isEmpty() ? QString() : kind_words(device_.kind) + QLatin1Char(' ') + device_.id + QStringLiteral(": ");
+    const QString who = device_.id.isEmpty() ? QString()
+                                             : kind_words(device_.kind) + QLatin1Char(' ') +
+                                                   device_.id + QStringLiteral(": ");
     const QString message = who + QString::fromStdString(e.message());
     // "no-device": no instrument of that kind is set up (or the chosen id is gone).
-    set_error(target_, message, de ? QLatin1String(devices::fault_code(de->fault())) : QStringLiteral("no-device"));
+    set_error(target_, message,
+              de ? QLatin1String(devices::fault_code(de->fault())) : QStringLiteral("no-device"));
     emit stateChanged();
     emit failed(target_, message);
 }
 
 void DeviceCapture::set_error(const QString& field, const QString& message, const QString& fault) {
-    if (field == error_field_ && message == error_message_ && fault == error_fault_) return;
+    if (field == error_field_ && message == error_message_ && fault == error_fault_)
+        return;
     error_field_ = field;
     error_message_ = message;
     error_fault_ = fault;

@@ -38,7 +38,8 @@ class Workspace;
 class DeviceCapture : public QObject {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     /// [{id, name, kind, port, format, unit, calibrationDue, calibrationCaution}], ordered by id.
     Q_PROPERTY(QVariantList balances READ balances NOTIFY devicesChanged)
     Q_PROPERTY(QVariantList meters READ meters NOTIFY devicesChanged)
@@ -51,7 +52,8 @@ class DeviceCapture : public QObject {
     Q_PROPERTY(bool busy READ busy NOTIFY stateChanged)
     /// The field the current (or last) take is for.
     Q_PROPERTY(QString target READ target NOTIFY stateChanged)
-    /// The last unsettled reading seen during this wait ({value, unit, raw, receivedAt}), {} when none.
+    /// The last unsettled reading seen during this wait ({value, unit, raw, receivedAt}), {} when
+    /// none.
     Q_PROPERTY(QVariantMap unstable READ unstable NOTIFY stateChanged)
     /// The last successful capture (see captured), {} before the first.
     Q_PROPERTY(QVariantMap lastCapture READ lastCapture NOTIFY lastCaptureChanged)
@@ -60,7 +62,7 @@ class DeviceCapture : public QObject {
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
     Q_PROPERTY(QString errorFault READ errorFault NOTIFY errorChanged)
 
-public:
+  public:
     explicit DeviceCapture(QObject* parent = nullptr);
     ~DeviceCapture() override;
 
@@ -83,7 +85,8 @@ public:
     QString errorFault() const { return error_fault_; }
 
     /// Starts waiting for the next stable reading of the chosen balance (or meter). False, with
-    /// the error set and failed() emitted, when the port cannot be opened or no instrument is set up.
+    /// the error set and failed() emitted, when the port cannot be opened or no instrument is set
+    /// up.
     Q_INVOKABLE bool takeFromBalance(const QString& target);
     Q_INVOKABLE bool takeFromMeter(const QString& target);
     /// Takes the unsettled reading shown (recorded as accepted). False when there is none.
@@ -100,7 +103,7 @@ public:
     /// True when the instrument was there and is removed.
     Q_INVOKABLE bool removeDevice(const QString& id);
 
-signals:
+  signals:
     void workspaceChanged();
     void devicesChanged();
     void selectionChanged();
@@ -112,7 +115,7 @@ signals:
     void unstableSeen(const QVariantMap& reading);
     void failed(const QString& target, const QString& message);
 
-private:
+  private:
     QVariantList list_of(devices::DeviceKind kind) const;
     bool start(devices::DeviceKind kind, const QString& id, const QString& target);
     void on_ready_read();

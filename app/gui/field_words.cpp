@@ -62,9 +62,11 @@ QString key_words(const QString& key) {
         {"sequence", QT_TR_NOOP("Sequence")},
     };
     static const QRegularExpression letter(QStringLiteral("^[A-D]$"));
-    if (letter.match(key).hasMatch()) return QObject::tr("% %1").arg(key);
+    if (letter.match(key).hasMatch())
+        return QObject::tr("% %1").arg(key);
     auto it = words.find(key);
-    if (it != words.end()) return QObject::tr(it->second);
+    if (it != words.end())
+        return QObject::tr(it->second);
     QString k = key;
     return k.replace(QLatin1Char('_'), QLatin1Char(' '));
 }
@@ -75,30 +77,40 @@ namespace {
 std::pair<QString, int> split_index(const QString& seg) {
     static const QRegularExpression re(QStringLiteral("^([^\\[]*)\\[(\\d+)\\]$"));
     const auto m = re.match(seg);
-    if (!m.hasMatch()) return {seg, -1};
+    if (!m.hasMatch())
+        return {seg, -1};
     return {m.captured(1), m.captured(2).toInt()};
 }
 
 QString indexed(const QString& key, int i) {
-    if (key == QLatin1String("gradient")) return QObject::tr("gradient row %1").arg(i + 1);
-    if (key == QLatin1String("parts")) return QObject::tr("part %1").arg(i + 1);
-    if (key == QLatin1String("additives")) return QObject::tr("additive %1").arg(i + 1);
-    if (key == QLatin1String("sequence")) return QObject::tr("Sequence row %1").arg(i + 1);
-    if (key == QLatin1String("components")) return QObject::tr("component %1").arg(i + 1);
-    if (key == QLatin1String("plans")) return QObject::tr("Plan %1").arg(i + 1);
-    if (key == QLatin1String("actual")) return QObject::tr("actual amount %1").arg(i + 1);
+    if (key == QLatin1String("gradient"))
+        return QObject::tr("gradient row %1").arg(i + 1);
+    if (key == QLatin1String("parts"))
+        return QObject::tr("part %1").arg(i + 1);
+    if (key == QLatin1String("additives"))
+        return QObject::tr("additive %1").arg(i + 1);
+    if (key == QLatin1String("sequence"))
+        return QObject::tr("Sequence row %1").arg(i + 1);
+    if (key == QLatin1String("components"))
+        return QObject::tr("component %1").arg(i + 1);
+    if (key == QLatin1String("plans"))
+        return QObject::tr("Plan %1").arg(i + 1);
+    if (key == QLatin1String("actual"))
+        return QObject::tr("actual amount %1").arg(i + 1);
     return QObject::tr("%1 %2").arg(key_words(key)).arg(i + 1);
 }
 
 QString capitalised(QString s) {
-    if (!s.isEmpty()) s[0] = s[0].toUpper();
+    if (!s.isEmpty())
+        s[0] = s[0].toUpper();
     return s;
 }
 
 } // namespace
 
 QString field_words(const QString& path, const QStringList& method_names) {
-    if (path.isEmpty()) return {};
+    if (path.isEmpty())
+        return {};
     QStringList out;
     QString rest = path;
     // A method's name may hold dots and spaces: take the longest known name that fits.
@@ -106,16 +118,21 @@ QString field_words(const QString& path, const QStringList& method_names) {
         QString name;
         for (const QString& n : method_names) {
             const QString prefix = QStringLiteral("methods.") + n;
-            if ((rest == prefix || rest.startsWith(prefix + QLatin1Char('.'))) && n.size() > name.size()) name = n;
+            if ((rest == prefix || rest.startsWith(prefix + QLatin1Char('.'))) &&
+                n.size() > name.size())
+                name = n;
         }
-        if (name.isEmpty()) name = rest.mid(8).section(QLatin1Char('.'), 0, 0);
+        if (name.isEmpty())
+            name = rest.mid(8).section(QLatin1Char('.'), 0, 0);
         out << QObject::tr("Method “%1”").arg(name);
         rest = rest.mid(8 + name.size());
-        if (rest.startsWith(QLatin1Char('.'))) rest.remove(0, 1);
+        if (rest.startsWith(QLatin1Char('.')))
+            rest.remove(0, 1);
     } else if (rest.startsWith(QLatin1String("lines."))) {
         out << QObject::tr("Line %1").arg(rest.mid(6, 1));
         rest = rest.mid(7);
-        if (rest.startsWith(QLatin1Char('.'))) rest.remove(0, 1);
+        if (rest.startsWith(QLatin1Char('.')))
+            rest.remove(0, 1);
     } else if (rest.startsWith(QLatin1String("prime_ml."))) {
         return QObject::tr("Priming of line %1").arg(rest.mid(9, 1));
     }

@@ -20,24 +20,25 @@ class Workspace;
 class LibraryModel : public QAbstractListModel {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     /// Words to find in the id, name or formula (all of them, any case).
     Q_PROPERTY(QString search READ search WRITE setSearch NOTIFY searchChanged)
     /// "all", "reagents" or "solvents".
     Q_PROPERTY(QString kind READ kind WRITE setKind NOTIFY searchChanged)
     Q_PROPERTY(int count READ count NOTIFY countChanged)
 
-public:
+  public:
     enum Role {
         IdRole = Qt::UserRole + 1,
         NameRole,
-        KindRole,           ///< "reagents" or "solvents"
+        KindRole, ///< "reagents" or "solvents"
         FormulaRole,
-        DetailRole,         ///< one line: molar mass and form, or density and UV cutoff
-        HazardsRole,        ///< "H290 H314"
-        PictogramsRole,     ///< "GHS05"
-        SourcesRole,        ///< the citations, one per line
-        UserDefinedRole,    ///< a lab's own entry
+        DetailRole,      ///< one line: molar mass and form, or density and UV cutoff
+        HazardsRole,     ///< "H290 H314"
+        PictogramsRole,  ///< "GHS05"
+        SourcesRole,     ///< the citations, one per line
+        UserDefinedRole, ///< a lab's own entry
     };
     Q_ENUM(Role)
 
@@ -54,12 +55,12 @@ public:
     QVariant data(const QModelIndex& index, int role) const override;
     QHash<int, QByteArray> roleNames() const override;
 
-signals:
+  signals:
     void workspaceChanged();
     void searchChanged();
     void countChanged();
 
-private:
+  private:
     struct Row {
         QString id, name, kind, formula, detail, hazards, pictograms, sources;
         bool user = false;
@@ -75,7 +76,8 @@ private:
 class ReagentEditor : public QObject {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     Q_PROPERTY(QString reagentId READ reagentId WRITE setReagentId NOTIFY changed)
     Q_PROPERTY(QString name READ name WRITE setName NOTIFY changed)
     Q_PROPERTY(QString formula READ formula WRITE setFormula NOTIFY changed)
@@ -111,15 +113,18 @@ class ReagentEditor : public QObject {
     /// False on a fresh form until the user changes something: no errors shown before that.
     Q_PROPERTY(bool showErrors READ showErrors NOTIFY changed)
 
-public:
+  public:
     explicit ReagentEditor(QObject* parent = nullptr);
     Workspace* workspace() const { return workspace_; }
     void setWorkspace(Workspace* w);
 
 #define PHASEPLAN_FIELD(type, getter, setter, member)                                              \
-    type getter() const { return member; }                                                         \
+    type getter() const {                                                                          \
+        return member;                                                                             \
+    }                                                                                              \
     void setter(const type& v) {                                                                   \
-        if (member == v) return;                                                                   \
+        if (member == v)                                                                           \
+            return;                                                                                \
         member = v;                                                                                \
         show_errors_ = true;                                                                       \
         emit changed();                                                                            \
@@ -142,13 +147,27 @@ public:
     PHASEPLAN_FIELD(QString, source, setSource, source_)
 #undef PHASEPLAN_FIELD
 
-    double molarMassGPerMol() const { return molar_mass_; }
-    bool valid() const { return error_.empty(); }
-    QString errorField() const { return error_.field; }
-    QString errorMessage() const { return error_.message; }
-    bool editingShipped() const { return editing_shipped_; }
-    bool isLabEntry() const { return is_lab_entry_; }
-    bool showErrors() const { return show_errors_; }
+    double molarMassGPerMol() const {
+        return molar_mass_;
+    }
+    bool valid() const {
+        return error_.empty();
+    }
+    QString errorField() const {
+        return error_.field;
+    }
+    QString errorMessage() const {
+        return error_.message;
+    }
+    bool editingShipped() const {
+        return editing_shipped_;
+    }
+    bool isLabEntry() const {
+        return is_lab_entry_;
+    }
+    bool showErrors() const {
+        return show_errors_;
+    }
 
     /// Clears the form for a new entry.
     Q_INVOKABLE void clear();
@@ -163,14 +182,16 @@ public:
     Q_INVOKABLE bool removeLabEntry();
     /// [{id, name}] of the acid-base systems, with "" (none) first.
     Q_INVOKABLE QVariantList systemChoices() const;
-    Q_INVOKABLE bool errorIs(const QString& field) const { return error_.field == field; }
+    Q_INVOKABLE bool errorIs(const QString& field) const {
+        return error_.field == field;
+    }
 
-signals:
+  signals:
     void workspaceChanged();
     void changed();
     void validated();
 
-private:
+  private:
     void validate();
     QPointer<Workspace> workspace_;
     QString id_, name_, formula_, form_ = QStringLiteral("solid");

@@ -14,7 +14,8 @@ namespace phaseplan::gui {
 
 namespace {
 
-const QStringList letters = {QStringLiteral("A"), QStringLiteral("B"), QStringLiteral("C"), QStringLiteral("D")};
+const QStringList letters = {QStringLiteral("A"), QStringLiteral("B"), QStringLiteral("C"),
+                             QStringLiteral("D")};
 const char* additive_units[] = {"percent_v", "percent_w", "mmol_per_l"};
 
 QString volume_text(double ml) {
@@ -35,11 +36,13 @@ LinesModel::LinesModel(QObject* parent) : QAbstractListModel(parent) {
 }
 
 void LinesModel::recomputeNow() {
-    if (recompute_timer_.isActive()) recompute();
+    if (recompute_timer_.isActive())
+        recompute();
 }
 
 void LinesModel::setPlan(Plan* p) {
-    if (p == plan_) return;
+    if (p == plan_)
+        return;
     if (plan_) {
         disconnect(plan_, nullptr, this, nullptr);
         disconnect(plan_, nullptr, &recompute_timer_, nullptr);
@@ -70,23 +73,41 @@ void LinesModel::rebuild_choices() {
     emit choicesChanged();
 }
 
-int LinesModel::rowCount(const QModelIndex& parent) const { return parent.isValid() ? 0 : 4; }
+int LinesModel::rowCount(const QModelIndex& parent) const {
+    return parent.isValid() ? 0 : 4;
+}
 
-int LinesModel::rowOf(const QString& letter) const { return int(letters.indexOf(letter)); }
+int LinesModel::rowOf(const QString& letter) const {
+    return int(letters.indexOf(letter));
+}
 
 QHash<int, QByteArray> LinesModel::roleNames() const {
-    return {{LetterRole, "letter"},       {DefinedRole, "defined"},         {NameRole, "name"},
-            {BottleMlRole, "bottleMl"},   {ResidueMlRole, "residueMl"},     {PrimeMlRole, "primeMl"},
-            {PartsRole, "parts"},         {AdditivesRole, "additives"},     {ItemsRole, "items"},
-            {UvCutoffNmRole, "uvCutoffNm"}, {WarningsRole, "warnings"},     {ErrorFieldRole, "errorField"},
-            {ErrorMessageRole, "errorMessage"}, {HasBufferRole, "hasBuffer"}, {BufferNameRole, "bufferName"},
-            {BufferItemsRole, "bufferItems"}, {CautionsRole, "cautions"}, {NotesRole, "notes"}};
+    return {{LetterRole, "letter"},
+            {DefinedRole, "defined"},
+            {NameRole, "name"},
+            {BottleMlRole, "bottleMl"},
+            {ResidueMlRole, "residueMl"},
+            {PrimeMlRole, "primeMl"},
+            {PartsRole, "parts"},
+            {AdditivesRole, "additives"},
+            {ItemsRole, "items"},
+            {UvCutoffNmRole, "uvCutoffNm"},
+            {WarningsRole, "warnings"},
+            {ErrorFieldRole, "errorField"},
+            {ErrorMessageRole, "errorMessage"},
+            {HasBufferRole, "hasBuffer"},
+            {BufferNameRole, "bufferName"},
+            {BufferItemsRole, "bufferItems"},
+            {CautionsRole, "cautions"},
+            {NotesRole, "notes"}};
 }
 
 QVariant LinesModel::data(const QModelIndex& index, int role) const {
-    if (!index.isValid() || index.row() < 0 || index.row() >= 4) return {};
+    if (!index.isValid() || index.row() < 0 || index.row() >= 4)
+        return {};
     auto it = shown_[index.row()].constFind(role);
-    if (it != shown_[index.row()].constEnd()) return it.value();
+    if (it != shown_[index.row()].constEnd())
+        return it.value();
     return role_value(index.row(), role);
 }
 
@@ -97,12 +118,18 @@ QVariant LinesModel::role_value(int row, int role) const {
     Workspace* ws = plan_ ? plan_->workspace() : nullptr;
     auto name_of = [ws](const QString& id) { return ws ? ws->displayName(id) : id; };
     switch (role) {
-    case LetterRole: return letter;
-    case DefinedRole: return !l.isEmpty();
-    case NameRole: return l.value("name").toString();
-    case BottleMlRole: return l.value("bottle_ml").toDouble();
-    case ResidueMlRole: return l.value("residue_ml").toDouble();
-    case PrimeMlRole: return plan_ ? plan_->primeMl(letter) : 0.0;
+    case LetterRole:
+        return letter;
+    case DefinedRole:
+        return !l.isEmpty();
+    case NameRole:
+        return l.value("name").toString();
+    case BottleMlRole:
+        return l.value("bottle_ml").toDouble();
+    case ResidueMlRole:
+        return l.value("residue_ml").toDouble();
+    case PrimeMlRole:
+        return plan_ ? plan_->primeMl(letter) : 0.0;
     case PartsRole: {
         QVariantList parts;
         for (const QJsonValue& v : l.value("parts").toArray()) {
@@ -112,7 +139,8 @@ QVariant LinesModel::role_value(int row, int role) const {
                 const QJsonObject b = p.value("buffer").toObject();
                 QString name = b.value("name").toString();
                 if (name.isEmpty())
-                    name = tr("pH %1 buffer").arg(format_decimal(b.value("target_ph").toDouble(), 2));
+                    name =
+                        tr("pH %1 buffer").arg(format_decimal(b.value("target_ph").toDouble(), 2));
                 const QString ref = p.value("buffer_ref").toString();
                 parts.append(QVariantMap{{"kind", "buffer"},
                                          {"id", ref},
@@ -122,8 +150,11 @@ QVariant LinesModel::role_value(int row, int role) const {
                                          {"percent_v", f * 100}});
             } else {
                 const QString id = p.value("solvent").toString();
-                parts.append(QVariantMap{{"kind", "solvent"}, {"id", id}, {"name", name_of(id)},
-                                         {"fraction_v", f}, {"percent_v", f * 100}});
+                parts.append(QVariantMap{{"kind", "solvent"},
+                                         {"id", id},
+                                         {"name", name_of(id)},
+                                         {"fraction_v", f},
+                                         {"percent_v", f * 100}});
             }
         }
         return parts;
@@ -134,23 +165,36 @@ QVariant LinesModel::role_value(int row, int role) const {
             const QJsonObject a = v.toObject();
             QString unit = QStringLiteral("percent_v");
             for (const char* u : additive_units)
-                if (a.contains(QLatin1String(u))) unit = QLatin1String(u);
+                if (a.contains(QLatin1String(u)))
+                    unit = QLatin1String(u);
             const QString id = a.value("additive").toString();
-            adds.append(QVariantMap{{"id", id}, {"name", name_of(id)}, {"amount", a.value(unit).toDouble()},
+            adds.append(QVariantMap{{"id", id},
+                                    {"name", name_of(id)},
+                                    {"amount", a.value(unit).toDouble()},
                                     {"unit", unit}});
         }
         return adds;
     }
-    case ItemsRole: return c.items;
-    case UvCutoffNmRole: return c.uv_cutoff_nm;
-    case WarningsRole: return c.warnings;
-    case ErrorFieldRole: return c.error.field;
-    case ErrorMessageRole: return c.error.message;
-    case BufferItemsRole: return c.buffer_items;
-    case CautionsRole: return c.cautions;
-    case NotesRole: return c.notes;
-    case HasBufferRole: return plan_ && !plan_->lineBuffer(letter).isEmpty();
-    case BufferNameRole: return plan_ ? plan_->lineBuffer(letter).value("name").toString() : QString();
+    case ItemsRole:
+        return c.items;
+    case UvCutoffNmRole:
+        return c.uv_cutoff_nm;
+    case WarningsRole:
+        return c.warnings;
+    case ErrorFieldRole:
+        return c.error.field;
+    case ErrorMessageRole:
+        return c.error.message;
+    case BufferItemsRole:
+        return c.buffer_items;
+    case CautionsRole:
+        return c.cautions;
+    case NotesRole:
+        return c.notes;
+    case HasBufferRole:
+        return plan_ && !plan_->lineBuffer(letter).isEmpty();
+    case BufferNameRole:
+        return plan_ ? plan_->lineBuffer(letter).value("name").toString() : QString();
     }
     return {};
 }
@@ -183,36 +227,47 @@ void LinesModel::recompute() {
                 for (const QJsonValue& v : out.value("items").toArray()) {
                     QVariantMap item = v.toObject().toVariantMap();
                     const QString part = item.value("part").toString();
-                    item.insert("name", part == QLatin1String("buffer") ? tr("Aqueous buffer (made as below)")
-                                                                        : ws->displayName(part));
-                    if (item.contains("volume_ml")) item.insert("volume_text", volume_text(item.value("volume_ml").toDouble()));
-                    if (item.contains("mass_g")) item.insert("mass_text", mass_text(item.value("mass_g").toDouble()));
+                    item.insert("name", part == QLatin1String("buffer")
+                                            ? tr("Aqueous buffer (made as below)")
+                                            : ws->displayName(part));
+                    if (item.contains("volume_ml"))
+                        item.insert("volume_text", volume_text(item.value("volume_ml").toDouble()));
+                    if (item.contains("mass_g"))
+                        item.insert("mass_text", mass_text(item.value("mass_g").toDouble()));
                     c.items.append(item);
                 }
-                for (const QJsonValue& v : out.value("warnings").toArray()) c.warnings.append(v.toObject().toVariantMap());
+                for (const QJsonValue& v : out.value("warnings").toArray())
+                    c.warnings.append(v.toObject().toVariantMap());
                 c.uv_cutoff_nm = out.value("uv_cutoff_nm").toDouble();
-                for (const QJsonValue& v : out.value("buffer").toObject().value("items").toArray()) {
+                for (const QJsonValue& v :
+                     out.value("buffer").toObject().value("items").toArray()) {
                     const QJsonObject bi = v.toObject();
                     const QString amount = amount_text(bi);
-                    c.buffer_items.append(QVariantMap{{"name", ws->displayName(bi.value("reagent").toString())},
-                                                      {"amount", amount}});
+                    c.buffer_items.append(
+                        QVariantMap{{"name", ws->displayName(bi.value("reagent").toString())},
+                                    {"amount", amount}});
                 }
-                for (const QJsonValue& v : out.value("cautions").toArray()) c.cautions.append(v.toString());
-                for (const QJsonValue& v : out.value("notes").toArray()) c.notes.append(v.toString());
+                for (const QJsonValue& v : out.value("cautions").toArray())
+                    c.cautions.append(v.toString());
+                for (const QJsonValue& v : out.value("notes").toArray())
+                    c.notes.append(v.toString());
             }
         }
         computed_[i] = c;
     }
     last_recompute_ms_ = elapsed_ms(timer);
-    if (views_active_) notify_views();
+    if (views_active_)
+        notify_views();
     emit computed();
 }
 
 void LinesModel::setViewsActive(bool a) {
-    if (a == views_active_) return;
+    if (a == views_active_)
+        return;
     views_active_ = a;
     emit viewsActiveChanged();
-    if (a) notify_views();
+    if (a)
+        notify_views();
 }
 
 void LinesModel::notify_views() {
@@ -227,28 +282,35 @@ void LinesModel::notify_views() {
                 changed << role;
             }
         }
-        if (!changed.isEmpty()) emit dataChanged(index(r), index(r), changed);
+        if (!changed.isEmpty())
+            emit dataChanged(index(r), index(r), changed);
     }
 }
 
 void LinesModel::edit_line(const QString& letter, const std::function<void(QJsonObject&)>& change) {
-    if (!plan_ || rowOf(letter) < 0) return;
+    if (!plan_ || rowOf(letter) < 0)
+        return;
     QJsonObject l = plan_->line(letter);
-    if (l.isEmpty()) return;
+    if (l.isEmpty())
+        return;
     change(l);
     plan_->setLine(letter, l);
 }
 
 void LinesModel::addLine(const QString& letter) {
-    if (!plan_ || rowOf(letter) < 0 || !plan_->line(letter).isEmpty()) return;
-    plan_->setLine(letter, QJsonObject{{"name", tr("Line %1").arg(letter)},
-                                       {"bottle_ml", 1000},
-                                       {"residue_ml", 30},
-                                       {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}}});
+    if (!plan_ || rowOf(letter) < 0 || !plan_->line(letter).isEmpty())
+        return;
+    plan_->setLine(
+        letter,
+        QJsonObject{{"name", tr("Line %1").arg(letter)},
+                    {"bottle_ml", 1000},
+                    {"residue_ml", 30},
+                    {"parts", QJsonArray{QJsonObject{{"solvent", "water"}, {"fraction_v", 1}}}}});
 }
 
 void LinesModel::removeLine(const QString& letter) {
-    if (plan_ && rowOf(letter) >= 0) plan_->setLine(letter, {});
+    if (plan_ && rowOf(letter) >= 0)
+        plan_->setLine(letter, {});
 }
 
 void LinesModel::setName(const QString& letter, const QString& name) {
@@ -261,13 +323,15 @@ void LinesModel::setResidueMl(const QString& letter, double ml) {
     edit_line(letter, [&](QJsonObject& l) { l.insert("residue_ml", ml); });
 }
 void LinesModel::setPrimeMl(const QString& letter, double ml) {
-    if (plan_) plan_->setPrimeMl(letter, ml);
+    if (plan_)
+        plan_->setPrimeMl(letter, ml);
 }
 
 void LinesModel::setPartPercent(const QString& letter, int i, double percent) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
-        if (i < 0 || i >= parts.size()) return;
+        if (i < 0 || i >= parts.size())
+            return;
         QJsonObject p = parts[i].toObject();
         p.insert("fraction_v", percent / 100.0);
         parts[i] = p;
@@ -278,7 +342,8 @@ void LinesModel::setPartPercent(const QString& letter, int i, double percent) {
 void LinesModel::setPartSolvent(const QString& letter, int i, const QString& solvent) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
-        if (i < 0 || i >= parts.size()) return;
+        if (i < 0 || i >= parts.size())
+            return;
         QJsonObject p = parts[i].toObject();
         p.remove("buffer");
         p.remove("buffer_ref");
@@ -292,7 +357,8 @@ namespace {
 /// What the parts leave of the line (0 when they fill it): a new part takes that.
 double remaining_fraction(const QJsonArray& parts) {
     double used = 0;
-    for (const QJsonValue& p : parts) used += p.toObject().value("fraction_v").toDouble();
+    for (const QJsonValue& p : parts)
+        used += p.toObject().value("fraction_v").toDouble();
     return std::max(0.0, std::round((1.0 - used) * 1e6) / 1e6);
 }
 } // namespace
@@ -305,7 +371,8 @@ void LinesModel::addSolventPart(const QString& letter, const QString& solvent) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
         const double rest = remaining_fraction(parts);
-        if (!(rest > 0)) return; // the view disables "+ Solvent" and says why
+        if (!(rest > 0))
+            return; // the view disables "+ Solvent" and says why
         parts.append(QJsonObject{{"solvent", solvent}, {"fraction_v", rest}});
         l.insert("parts", parts);
     });
@@ -313,9 +380,11 @@ void LinesModel::addSolventPart(const QString& letter, const QString& solvent) {
 
 void LinesModel::addBufferPart(const QString& letter, const QString& bufferName) {
     Workspace* ws = plan_ ? plan_->workspace() : nullptr;
-    if (!ws || !ws->database()) return;
+    if (!ws || !ws->database())
+        return;
     const auto saved = ws->database()->load(storage::DocumentKind::buffer, bufferName);
-    if (!saved) return;
+    if (!saved)
+        return;
     QJsonObject r = *saved;
     r.remove("volume_ml");
     r.remove("auto_name");
@@ -323,9 +392,11 @@ void LinesModel::addBufferPart(const QString& letter, const QString& bufferName)
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
         for (const QJsonValue& p : parts)
-            if (p.toObject().contains("buffer")) return; // one aqueous buffer per line
+            if (p.toObject().contains("buffer"))
+                return; // one aqueous buffer per line
         const double rest = remaining_fraction(parts);
-        if (!(rest > 0)) return;
+        if (!(rest > 0))
+            return;
         parts.append(QJsonObject{{"buffer", r}, {"buffer_ref", bufferName}, {"fraction_v", rest}});
         l.insert("parts", parts);
     });
@@ -333,16 +404,19 @@ void LinesModel::addBufferPart(const QString& letter, const QString& bufferName)
 
 void LinesModel::setPartBuffer(const QString& letter, int i, const QString& bufferName) {
     Workspace* ws = plan_ ? plan_->workspace() : nullptr;
-    if (!ws || !ws->database()) return;
+    if (!ws || !ws->database())
+        return;
     const auto saved = ws->database()->load(storage::DocumentKind::buffer, bufferName);
-    if (!saved) return;
+    if (!saved)
+        return;
     QJsonObject r = *saved;
     r.remove("volume_ml");
     r.remove("auto_name");
     r.remove("name"); // the part's buffer_ref names it
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
-        if (i < 0 || i >= parts.size()) return;
+        if (i < 0 || i >= parts.size())
+            return;
         QJsonObject p = parts[i].toObject();
         p.remove("solvent");
         p.insert("buffer", r);
@@ -355,7 +429,8 @@ void LinesModel::setPartBuffer(const QString& letter, int i, const QString& buff
 void LinesModel::removePart(const QString& letter, int i) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray parts = l.value("parts").toArray();
-        if (i < 0 || i >= parts.size()) return;
+        if (i < 0 || i >= parts.size())
+            return;
         parts.removeAt(i);
         l.insert("parts", parts);
     });
@@ -373,9 +448,11 @@ void LinesModel::setAdditive(const QString& letter, int i, const QString& additi
                              const QString& unit) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray a = l.value("additives").toArray();
-        if (i < 0 || i >= a.size()) return;
+        if (i < 0 || i >= a.size())
+            return;
         QJsonObject o = a[i].toObject();
-        for (const char* u : additive_units) o.remove(QLatin1String(u));
+        for (const char* u : additive_units)
+            o.remove(QLatin1String(u));
         o.insert("additive", additive);
         o.insert(unit, amount);
         a[i] = o;
@@ -386,7 +463,8 @@ void LinesModel::setAdditive(const QString& letter, int i, const QString& additi
 void LinesModel::removeAdditive(const QString& letter, int i) {
     edit_line(letter, [&](QJsonObject& l) {
         QJsonArray a = l.value("additives").toArray();
-        if (i < 0 || i >= a.size()) return;
+        if (i < 0 || i >= a.size())
+            return;
         a.removeAt(i);
         l.insert("additives", a);
     });

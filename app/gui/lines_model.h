@@ -36,7 +36,7 @@ class LinesModel : public QAbstractListModel {
     /// Warnings of every line, each with its "line" letter added.
     Q_PROPERTY(QVariantList allWarnings READ allWarnings NOTIFY computed)
 
-public:
+  public:
     enum Role {
         LetterRole = Qt::UserRole + 1, ///< "A"
         DefinedRole,                   ///< the plan has this line
@@ -44,18 +44,18 @@ public:
         BottleMlRole,
         ResidueMlRole,
         PrimeMlRole,
-        PartsRole,        ///< [{kind: "solvent"|"buffer", id, ref, name, fraction_v, percent_v}]
-        AdditivesRole,    ///< [{id, name, amount, unit: "percent_v"|"percent_w"|"mmol_per_l"}]
-        ItemsRole,        ///< [{part, name, volume_ml, mass_g, volume_text, mass_text}] from the core
+        PartsRole,     ///< [{kind: "solvent"|"buffer", id, ref, name, fraction_v, percent_v}]
+        AdditivesRole, ///< [{id, name, amount, unit: "percent_v"|"percent_w"|"mmol_per_l"}]
+        ItemsRole,     ///< [{part, name, volume_ml, mass_g, volume_text, mass_text}] from the core
         UvCutoffNmRole,
-        WarningsRole,     ///< [{code, severity, message}]
-        ErrorFieldRole,   ///< the field at fault, relative to the line ("parts[1].fraction_v")
+        WarningsRole,   ///< [{code, severity, message}]
+        ErrorFieldRole, ///< the field at fault, relative to the line ("parts[1].fraction_v")
         ErrorMessageRole,
         HasBufferRole,
         BufferNameRole,
-        BufferItemsRole,  ///< [{name, amount}] of the aqueous buffer, for its share of the bottle
-        CautionsRole,     ///< safety notes of the line's parts, from the core
-        NotesRole,        ///< how to measure and combine, from the core
+        BufferItemsRole, ///< [{name, amount}] of the aqueous buffer, for its share of the bottle
+        CautionsRole,    ///< safety notes of the line's parts, from the core
+        NotesRole,       ///< how to measure and combine, from the core
     };
     Q_ENUM(Role)
 
@@ -97,21 +97,21 @@ public:
     Q_INVOKABLE void removePart(const QString& letter, int i);
     Q_INVOKABLE void addAdditive(const QString& letter, const QString& additive);
     /// @param unit "percent_v", "percent_w" or "mmol_per_l".
-    Q_INVOKABLE void setAdditive(const QString& letter, int i, const QString& additive, double amount,
-                                 const QString& unit);
+    Q_INVOKABLE void setAdditive(const QString& letter, int i, const QString& additive,
+                                 double amount, const QString& unit);
     Q_INVOKABLE void removeAdditive(const QString& letter, int i);
     /// Row of a letter, −1 for anything else.
     Q_INVOKABLE int rowOf(const QString& letter) const;
     /// Runs a pending recompute now (edits recompute on the next turn of the event loop).
     Q_INVOKABLE void recomputeNow();
 
-signals:
+  signals:
     void planChanged();
     void choicesChanged();
     void computed();
     void viewsActiveChanged();
 
-private:
+  private:
     struct Computed {
         QVariantList items, warnings, buffer_items;
         QStringList cautions, notes;

@@ -6,10 +6,11 @@
 //   phaseplan --self-test                        the same without writing files
 //   phaseplan --measure                          print start-up and recompute+redraw times
 //   phaseplan --dark                             a dark palette, as a dark system theme gives
-// --screenshot, --self-test and --measure use a fresh temporary database unless --database is given.
+// --screenshot, --self-test and --measure use a fresh temporary database unless --database is
+// given.
 #include "app_runner.h"
-#include "tablet_settings.h"
 #include "core/runtime_dir.h"
+#include "tablet_settings.h"
 
 #include <QApplication>
 #include <QtQml/qqmlextensionplugin.h>

@@ -7,9 +7,9 @@
 #include "plan.h"
 
 #include <QAbstractListModel>
-#include <QPointer>
 #include <QJsonArray>
 #include <QJsonObject>
+#include <QPointer>
 #include <QQmlEngine>
 
 #include <QPair>
@@ -33,7 +33,8 @@ class GradientModel : public QAbstractListModel {
     Q_PROPERTY(QString methodName READ methodName WRITE setMethodName NOTIFY methodChanged)
     Q_PROPERTY(double flowMlMin READ flowMlMin WRITE setFlowMlMin NOTIFY methodChanged)
     Q_PROPERTY(double runMin READ runMin WRITE setRunMin NOTIFY methodChanged)
-    Q_PROPERTY(double equilibrationMin READ equilibrationMin WRITE setEquilibrationMin NOTIFY methodChanged)
+    Q_PROPERTY(double equilibrationMin READ equilibrationMin WRITE setEquilibrationMin NOTIFY
+                   methodChanged)
     /// Lines shown as columns (the plan's defined lines).
     Q_PROPERTY(QStringList letters READ letters NOTIFY methodChanged)
     /// The plan's error when it lies in this method, relative to it ("gradient[2].t_min").
@@ -47,7 +48,7 @@ class GradientModel : public QAbstractListModel {
     /// can be undone.
     Q_PROPERTY(QString undoText READ undoText NOTIFY undoChanged)
 
-public:
+  public:
     enum Role { TimeRole = Qt::UserRole + 1, PercentsRole, SumRole, RowErrorRole };
     Q_ENUM(Role)
 
@@ -90,13 +91,13 @@ public:
     Q_INVOKABLE double injectionMin() const { return runMin() + equilibrationMin(); }
     Q_INVOKABLE double percentAt(int row, const QString& letter) const;
 
-signals:
+  signals:
     void planChanged();
     void methodChanged();
     void errorChanged();
     void undoChanged();
 
-private:
+  private:
     QJsonObject method() const;
     /// (method, row) pairs whose last line was typed in: it no longer takes the remainder.
     QSet<QPair<QString, int>> last_set_;
@@ -126,8 +127,14 @@ class SequenceRowsModel : public QAbstractListModel {
     /// "Sequence row 3 (“samples”) removed", "" when nothing can be undone.
     Q_PROPERTY(QString undoText READ undoText NOTIFY undoChanged)
 
-public:
-    enum Role { MethodRole = Qt::UserRole + 1, InjectionsRole, LabelRole, RowErrorRole, RowErrorFieldRole };
+  public:
+    enum Role {
+        MethodRole = Qt::UserRole + 1,
+        InjectionsRole,
+        LabelRole,
+        RowErrorRole,
+        RowErrorFieldRole
+    };
     Q_ENUM(Role)
 
     explicit SequenceRowsModel(QObject* parent = nullptr);
@@ -149,19 +156,19 @@ public:
     Q_INVOKABLE void moveRow(int from, int to);
     QString undoText() const { return undo_text_; }
 
-signals:
+  signals:
     void planChanged();
     void changed();
     void undoChanged();
 
-private:
+  private:
     std::optional<std::pair<int, QJsonObject>> removed_;
     QString undo_text_;
     void edit(int row, const char* key, const QJsonValue& v);
     void reset();
     QPointer<Plan> plan_;
     int rows_ = 0;
-    QJsonArray shown_; ///< the rows as last shown: unchanged → no signal
+    QJsonArray shown_;    ///< the rows as last shown: unchanged → no signal
     QString shown_error_; ///< the plan's error as last shown on the rows
 };
 

@@ -10,7 +10,8 @@
 namespace phaseplan::gui {
 
 void replace_series(QObject* series, const QList<QPointF>& points) {
-    if (auto* xy = qobject_cast<QXYSeries*>(series)) xy->replace(points);
+    if (auto* xy = qobject_cast<QXYSeries*>(series))
+        xy->replace(points);
 }
 
 QString amount_text(const QJsonObject& item) {
@@ -34,7 +35,8 @@ QString amount_text(const QJsonObject& item) {
         const int decimals = g < 1 ? 4 : g < 100 ? 3 : 2;
         QString text = loc.toString(g, 'f', decimals) + QStringLiteral(" g");
         if (item.contains(QLatin1String("volume_ml")))
-            text += QStringLiteral(" (") + loc.toString(item.value(QLatin1String("volume_ml")).toDouble(), 'f', 2) +
+            text += QStringLiteral(" (") +
+                    loc.toString(item.value(QLatin1String("volume_ml")).toDouble(), 'f', 2) +
                     QStringLiteral(" mL)");
         return text;
     }
@@ -48,7 +50,8 @@ QString amount_text(const QJsonObject& item) {
 
 QString short_clock(const QString& iso) {
     const QDateTime t = QDateTime::fromString(iso, Qt::ISODate);
-    if (!t.isValid()) return iso;
+    if (!t.isValid())
+        return iso;
     return QLocale().toString(t, QStringLiteral("ddd HH:mm"));
 }
 

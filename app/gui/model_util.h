@@ -28,8 +28,7 @@ struct FieldError {
 
 /// Runs `f`; a chem::Error becomes a FieldError. Anything else is unexpected (chem/ throws only
 /// chem::Error) but still shown, never a crash.
-template <class F>
-FieldError guarded(F&& f) {
+template <class F> FieldError guarded(F&& f) {
     try {
         std::forward<F>(f)();
         return {};
@@ -41,7 +40,9 @@ FieldError guarded(F&& f) {
 }
 
 /// Milliseconds since `t` started, with sub-millisecond resolution.
-inline double elapsed_ms(const QElapsedTimer& t) { return t.nsecsElapsed() / 1e6; }
+inline double elapsed_ms(const QElapsedTimer& t) {
+    return t.nsecsElapsed() / 1e6;
+}
 
 /// Replaces the points of a Qt Charts XY series (a LineSeries or ScatterSeries from QML) in one
 /// call, so a redraw does not go point by point through JavaScript. Ignores anything else.

@@ -47,11 +47,12 @@ class NumberText : public QObject {
     QML_ELEMENT
     QML_SINGLETON
 
-public:
+  public:
     explicit NumberText(QObject* parent = nullptr) : QObject(parent) {}
     /// {ok: bool, value: number, incomplete: bool, message: string}; `label` names the field in
     /// the message ("Target pH: “6,8,1” has two decimal marks…").
-    Q_INVOKABLE QVariantMap parse(const QString& text, bool whole = false, const QString& label = {}) const;
+    Q_INVOKABLE QVariantMap parse(const QString& text, bool whole = false,
+                                  const QString& label = {}) const;
     Q_INVOKABLE QString format(double value, int decimals) const;
     Q_INVOKABLE QString formatIn(double value, int decimals, const QLocale& locale) const {
         return format_decimal(value, decimals, locale);

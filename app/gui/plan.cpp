@@ -40,12 +40,15 @@ QJsonObject starter_plan() {
         .object();
 }
 
-QJsonObject obj(const QJsonObject& o, const char* key) { return o.value(QLatin1String(key)).toObject(); }
+QJsonObject obj(const QJsonObject& o, const char* key) {
+    return o.value(QLatin1String(key)).toObject();
+}
 
 double hours_between(const QString& from_iso, const QString& to_iso) {
     const QDateTime a = wall_clock(from_iso);
     const QDateTime b = wall_clock(to_iso);
-    if (!a.isValid() || !b.isValid()) return -1;
+    if (!a.isValid() || !b.isValid())
+        return -1;
     return a.secsTo(b) / 3600.0;
 }
 
@@ -76,8 +79,10 @@ void shift_times(QJsonObject& doc, qint64 secs) {
 QJsonObject starting_tonight(QJsonObject doc, const QDateTime& now) {
     const QDateTime old_start = wall_clock(doc.value("start").toString());
     const QDateTime tonight = next_time_of_day(now, 18, 0);
-    if (old_start.isValid()) shift_times(doc, old_start.secsTo(tonight));
-    else doc.insert("start", wall_clock_iso(tonight));
+    if (old_start.isValid())
+        shift_times(doc, old_start.secsTo(tonight));
+    else
+        doc.insert("start", wall_clock_iso(tonight));
     return doc;
 }
 
@@ -95,25 +100,33 @@ Plan::Plan(QObject* parent) : QObject(parent) {
     update_buffer_lines();
 }
 
-Plan::~Plan() { flushAutosave(); }
+Plan::~Plan() {
+    flushAutosave();
+}
 
 void Plan::setWorkspace(Workspace* w) {
-    if (w == workspace_) return;
-    if (workspace_) disconnect(workspace_, nullptr, this, nullptr);
+    if (w == workspace_)
+        return;
+    if (workspace_)
+        disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
-    if (w) connect(w, &Workspace::libraryChanged, this, &Plan::recompute);
+    if (w)
+        connect(w, &Workspace::libraryChanged, this, &Plan::recompute);
     emit workspaceChanged();
-    if (restore_) restore_state();
+    if (restore_)
+        restore_state();
     recompute();
 }
 
 void Plan::restore_state() {
-    if (!workspace_ || !workspace_->database()) return;
+    if (!workspace_ || !workspace_->database())
+        return;
     const QJsonObject saved = workspace_->database()->setting(current_plan_key).toObject();
     if (!saved.isEmpty()) {
         name_ = saved.value("name").toString();
         doc_ = saved.value("document").toObject();
-    } else if (auto demo = workspace_->database()->load(storage::DocumentKind::sequence, Workspace::demoName())) {
+    } else if (auto demo = workspace_->database()->load(storage::DocumentKind::sequence,
+                                                        Workspace::demoName())) {
         // First run: the demo is tonight's plan, starting at the next 18:00.
         name_ = Workspace::demoName();
         doc_ = starting_tonight(*demo, workspace_->now());
@@ -129,13 +142,17 @@ void Plan::restore_state() {
 }
 
 void Plan::flushAutosave() {
-    if (!dirty_ || !workspace_ || !workspace_->database()) return;
-    if (!workspace_->canSave()) return; // read-only or locked: the banner says so
+    if (!dirty_ || !workspace_ || !workspace_->database())
+        return;
+    if (!workspace_->canSave())
+        return; // read-only or locked: the banner says so
     autosave_.stop();
     const FieldError e = guarded([&] {
-        workspace_->database()->set_setting(current_plan_key, QJsonObject{{"name", name_}, {"document", doc_}});
+        workspace_->database()->set_setting(current_plan_key,
+                                            QJsonObject{{"name", name_}, {"document", doc_}});
     });
-    if (!e.empty()) qWarning("PhasePlan: autosave failed: %s", qPrintable(e.message));
+    if (!e.empty())
+        qWarning("PhasePlan: autosave failed: %s", qPrintable(e.message));
     dirty_ = false;
 }
 
@@ -149,7 +166,8 @@ void Plan::update_buffer_lines() {
         emit methodNamesChanged();
     }
     QVariantMap use;
-    for (const QString& m : methodNames()) use.insert(m, rowsUsingMethod(m));
+    for (const QString& m : methodNames())
+        use.insert(m, rowsUsingMethod(m));
     if (use != method_use_) {
         method_use_ = use;
         emit methodUseChanged();
@@ -157,10 +175,12 @@ void Plan::update_buffer_lines() {
     QVariantList list;
     for (const QString& l : lineLetters())
         if (!lineBuffer(l).isEmpty())
-            list.append(QVariantMap{{"id", l},
-                                    {"name", tr("Line %1: %2").arg(l, line(l).value("name").toString())},
-                                    {"ref", lineBufferRef(l)}});
-    if (list == buffer_lines_) return;
+            list.append(
+                QVariantMap{{"id", l},
+                            {"name", tr("Line %1: %2").arg(l, line(l).value("name").toString())},
+                            {"ref", lineBufferRef(l)}});
+    if (list == buffer_lines_)
+        return;
     buffer_lines_ = list;
     emit bufferLinesChanged();
 }
@@ -174,11 +194,13 @@ void Plan::edited() {
 }
 
 void Plan::recomputeNow() {
-    if (recompute_timer_.isActive()) recompute();
+    if (recompute_timer_.isActive())
+        recompute();
 }
 
 void Plan::setName(const QString& n) {
-    if (n == name_) return;
+    if (n == name_)
+        return;
     name_ = n;
     edited();
 }
@@ -186,16 +208,23 @@ void Plan::setName(const QString& n) {
 QStringList Plan::lineLetters() const {
     QStringList out;
     const QJsonObject lines = obj(doc_, "lines");
-    for (const QString& l : {QStringLiteral("A"), QStringLiteral("B"), QStringLiteral("C"), QStringLiteral("D")})
-        if (lines.contains(l)) out << l;
+    for (const QString& l :
+         {QStringLiteral("A"), QStringLiteral("B"), QStringLiteral("C"), QStringLiteral("D")})
+        if (lines.contains(l))
+            out << l;
     return out;
 }
 
-QStringList Plan::methodNames() const { return obj(doc_, "methods").keys(); }
+QStringList Plan::methodNames() const {
+    return obj(doc_, "methods").keys();
+}
 
-QString Plan::start() const { return doc_.value("start").toString(); }
+QString Plan::start() const {
+    return doc_.value("start").toString();
+}
 void Plan::setStart(const QString& iso) {
-    if (iso == start()) return;
+    if (iso == start())
+        return;
     doc_.insert("start", iso);
     edited();
 }
@@ -208,51 +237,69 @@ void Plan::shiftStart(int minutes) {
         t.setTimeSpec(Qt::UTC);
     }
     const bool has_offset = t.timeSpec() != Qt::LocalTime;
-    if (!has_offset) t.setTimeSpec(Qt::UTC);
+    if (!has_offset)
+        t.setTimeSpec(Qt::UTC);
     t = t.addSecs(60LL * minutes);
     // Keep the form the user wrote: wall-clock time stays without an offset.
     setStart(has_offset && s.size() > 19 ? t.toString(Qt::ISODate)
                                          : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss")));
 }
 
-double Plan::wasteCapacityMl() const { return doc_.value("waste_ml").toDouble(); }
+double Plan::wasteCapacityMl() const {
+    return doc_.value("waste_ml").toDouble();
+}
 void Plan::setWasteCapacityMl(double ml) {
-    if (doc_.value("waste_ml").isDouble() && ml == wasteCapacityMl()) return;
-    if (ml > 0) doc_.insert("waste_ml", ml);
-    else doc_.remove("waste_ml");
+    if (doc_.value("waste_ml").isDouble() && ml == wasteCapacityMl())
+        return;
+    if (ml > 0)
+        doc_.insert("waste_ml", ml);
+    else
+        doc_.remove("waste_ml");
     edited();
 }
 
-QString Plan::detectorType() const { return obj(doc_, "detector").value("type").toString(QStringLiteral("uv")); }
+QString Plan::detectorType() const {
+    return obj(doc_, "detector").value("type").toString(QStringLiteral("uv"));
+}
 void Plan::setDetectorType(const QString& t) {
     QJsonObject d = obj(doc_, "detector");
-    if (d.value("type").toString() == t) return;
+    if (d.value("type").toString() == t)
+        return;
     d.insert("type", t);
     doc_.insert("detector", d);
     edited();
 }
 
-double Plan::detectorWavelengthNm() const { return obj(doc_, "detector").value("wavelength_nm").toDouble(); }
+double Plan::detectorWavelengthNm() const {
+    return obj(doc_, "detector").value("wavelength_nm").toDouble();
+}
 void Plan::setDetectorWavelengthNm(double nm) {
     QJsonObject d = obj(doc_, "detector");
-    if (d.value("wavelength_nm").toDouble() == nm && d.contains("wavelength_nm")) return;
+    if (d.value("wavelength_nm").toDouble() == nm && d.contains("wavelength_nm"))
+        return;
     d.insert("wavelength_nm", nm);
     doc_.insert("detector", d);
     edited();
 }
 
-double Plan::columnPhMin() const { return obj(doc_, "column").value("ph_min").toDouble(); }
-double Plan::columnPhMax() const { return obj(doc_, "column").value("ph_max").toDouble(); }
+double Plan::columnPhMin() const {
+    return obj(doc_, "column").value("ph_min").toDouble();
+}
+double Plan::columnPhMax() const {
+    return obj(doc_, "column").value("ph_max").toDouble();
+}
 void Plan::setColumnPhMin(double v) {
     QJsonObject c = obj(doc_, "column");
-    if (c.contains("ph_min") && c.value("ph_min").toDouble() == v) return;
+    if (c.contains("ph_min") && c.value("ph_min").toDouble() == v)
+        return;
     c.insert("ph_min", v);
     doc_.insert("column", c);
     edited();
 }
 void Plan::setColumnPhMax(double v) {
     QJsonObject c = obj(doc_, "column");
-    if (c.contains("ph_max") && c.value("ph_max").toDouble() == v) return;
+    if (c.contains("ph_max") && c.value("ph_max").toDouble() == v)
+        return;
     c.insert("ph_max", v);
     doc_.insert("column", c);
     edited();
@@ -260,16 +307,23 @@ void Plan::setColumnPhMax(double v) {
 
 QVariantMap Plan::startParts() const {
     const QDateTime t = wall_clock(start());
-    if (!t.isValid()) return {};
-    return {{"year", t.date().year()}, {"month", t.date().month()}, {"day", t.date().day()},
-            {"hour", t.time().hour()}, {"minute", t.time().minute()}};
+    if (!t.isValid())
+        return {};
+    return {{"year", t.date().year()},
+            {"month", t.date().month()},
+            {"day", t.date().day()},
+            {"hour", t.time().hour()},
+            {"minute", t.time().minute()}};
 }
 
-QString Plan::startText() const { return dayClock(start()); }
+QString Plan::startText() const {
+    return dayClock(start());
+}
 
 void Plan::setStartAt(int year, int month, int day, int hour, int minute) {
     const QDateTime t(QDate(year, month, day), QTime(hour, minute), Qt::UTC);
-    if (!t.isValid()) return;
+    if (!t.isValid())
+        return;
     setStart(wall_clock_iso(t));
 }
 
@@ -278,18 +332,26 @@ QString Plan::dayClock(const QString& iso) const {
     return day_clock_text(wall_clock(iso), today);
 }
 
-QJsonObject Plan::standby_doc() const { return obj(doc_, "standby"); }
+QJsonObject Plan::standby_doc() const {
+    return obj(doc_, "standby");
+}
 
 void Plan::set_standby(const QJsonObject& sb) {
-    if (sb == standby_doc() && doc_.contains("standby") == !sb.isEmpty()) return;
-    if (sb.isEmpty()) doc_.remove("standby");
-    else doc_.insert("standby", sb);
+    if (sb == standby_doc() && doc_.contains("standby") == !sb.isEmpty())
+        return;
+    if (sb.isEmpty())
+        doc_.remove("standby");
+    else
+        doc_.insert("standby", sb);
     edited();
 }
 
-bool Plan::standbyEnabled() const { return doc_.value("standby").isObject(); }
+bool Plan::standbyEnabled() const {
+    return doc_.value("standby").isObject();
+}
 void Plan::setStandbyEnabled(bool on) {
-    if (on == standbyEnabled()) return;
+    if (on == standbyEnabled())
+        return;
     if (!on) {
         // Kept aside so that switching it back on restores what was set.
         standby_kept_ = standby_doc();
@@ -312,7 +374,9 @@ void Plan::setStandbyEnabled(bool on) {
     set_standby(sb);
 }
 
-double Plan::standbyFlowMlMin() const { return standby_doc().value("flow_ml_min").toDouble(0.2); }
+double Plan::standbyFlowMlMin() const {
+    return standby_doc().value("flow_ml_min").toDouble(0.2);
+}
 void Plan::setStandbyFlowMlMin(double v) {
     QJsonObject sb = standby_doc();
     sb.insert("flow_ml_min", v);
@@ -320,10 +384,12 @@ void Plan::setStandbyFlowMlMin(double v) {
 }
 
 QString Plan::standbyMode() const {
-    return standby_doc().contains("duration_min") ? QStringLiteral("duration") : QStringLiteral("until");
+    return standby_doc().contains("duration_min") ? QStringLiteral("duration")
+                                                  : QStringLiteral("until");
 }
 void Plan::setStandbyMode(const QString& mode) {
-    if (mode == standbyMode() || !standbyEnabled()) return;
+    if (mode == standbyMode() || !standbyEnabled())
+        return;
     QJsonObject sb = standby_doc();
     if (mode == QLatin1String("duration")) {
         sb.remove("until");
@@ -339,13 +405,15 @@ void Plan::setStandbyMode(const QString& mode) {
 int Plan::standbyUntilHour() const {
     const QString u = standby_doc().value("until").toString();
     const QDateTime t = wall_clock(u);
-    if (t.isValid()) return t.time().hour();
+    if (t.isValid())
+        return t.time().hour();
     return u.section(':', 0, 0).toInt();
 }
 int Plan::standbyUntilMinute() const {
     const QString u = standby_doc().value("until").toString();
     const QDateTime t = wall_clock(u);
-    if (t.isValid()) return t.time().minute();
+    if (t.isValid())
+        return t.time().minute();
     return u.section(':', 1, 1).toInt();
 }
 void Plan::setStandbyUntil(int hour, int minute) {
@@ -355,7 +423,9 @@ void Plan::setStandbyUntil(int hour, int minute) {
     set_standby(sb);
 }
 
-double Plan::standbyDurationMin() const { return standby_doc().value("duration_min").toDouble(); }
+double Plan::standbyDurationMin() const {
+    return standby_doc().value("duration_min").toDouble();
+}
 void Plan::setStandbyDurationMin(double v) {
     QJsonObject sb = standby_doc();
     sb.remove("until");
@@ -363,35 +433,52 @@ void Plan::setStandbyDurationMin(double v) {
     set_standby(sb);
 }
 
-double Plan::standbyPercent(const QString& letter) const { return standby_doc().value(letter).toDouble(); }
+double Plan::standbyPercent(const QString& letter) const {
+    return standby_doc().value(letter).toDouble();
+}
 void Plan::setStandbyPercent(const QString& letter, double percent) {
     QJsonObject sb = standby_doc();
     sb.insert(letter, percent);
     // Two lines in use: the other takes the rest, as in the gradient table.
     QStringList used;
     for (const QString& l : lineLetters())
-        if (l != letter && sb.contains(l)) used << l;
-    if (used.size() == 1) sb.insert(used.first(), std::max(0.0, 100.0 - percent));
+        if (l != letter && sb.contains(l))
+            used << l;
+    if (used.size() == 1)
+        sb.insert(used.first(), std::max(0.0, 100.0 - percent));
     set_standby(sb);
 }
 
 QString Plan::standbyText() const {
     const double min = result_.value("standby_min").toDouble();
-    if (!standbyEnabled() || !(min > 0)) return {};
-    return tr("until %1 (%2)").arg(dayClock(result_.value("standby_end").toString()), duration_text(min));
+    if (!standbyEnabled() || !(min > 0))
+        return {};
+    return tr("until %1 (%2)")
+        .arg(dayClock(result_.value("standby_end").toString()), duration_text(min));
 }
 
-QString Plan::fieldWords(const QString& path) const { return field_words(path, methodNames()); }
+QString Plan::fieldWords(const QString& path) const {
+    return field_words(path, methodNames());
+}
 
 QString Plan::errorPlace() const {
-    if (error_.field.isEmpty()) return {};
+    if (error_.field.isEmpty())
+        return {};
     return field_words(error_.field, methodNames());
 }
 
-QString Plan::endTime() const { return result_.value("end").toString(); }
-QString Plan::endText() const { return dayClock(endTime()); }
-double Plan::totalMin() const { return result_.value("total_min").toDouble(); }
-double Plan::wasteMl() const { return result_.value("waste_ml").toDouble(); }
+QString Plan::endTime() const {
+    return result_.value("end").toString();
+}
+QString Plan::endText() const {
+    return dayClock(endTime());
+}
+double Plan::totalMin() const {
+    return result_.value("total_min").toDouble();
+}
+double Plan::wasteMl() const {
+    return result_.value("waste_ml").toDouble();
+}
 
 bool Plan::errorUnder(const QString& prefix) const {
     const QString& f = error_.field;
@@ -417,15 +504,18 @@ void Plan::loadJson(const QJsonObject& document, const QString& name) {
 }
 
 bool Plan::loadSaved(const QString& name) {
-    if (!workspace_ || !workspace_->database()) return false;
+    if (!workspace_ || !workspace_->database())
+        return false;
     auto d = workspace_->database()->load(storage::DocumentKind::sequence, name);
-    if (!d) return false;
+    if (!d)
+        return false;
     loadJson(*d, name);
     return true;
 }
 
 QString Plan::saveAs(const QString& name) {
-    if (!workspace_ || !workspace_->database()) return tr("no database is open");
+    if (!workspace_ || !workspace_->database())
+        return tr("no database is open");
     const QString n = name.trimmed();
     const FieldError e = guarded([&] {
         std::vector<storage::SavedDocument> docs;
@@ -440,12 +530,15 @@ QString Plan::saveAs(const QString& name) {
             docs.push_back({storage::DocumentKind::line, line_name, l, {}});
             const QJsonObject buffer = lineBuffer(it.key());
             if (!buffer.isEmpty())
-                docs.push_back({storage::DocumentKind::buffer, buffer.value("name").toString(line_name + " buffer"),
-                                buffer, {}});
+                docs.push_back({storage::DocumentKind::buffer,
+                                buffer.value("name").toString(line_name + " buffer"),
+                                buffer,
+                                {}});
         }
         workspace_->database()->save_all(docs);
     });
-    if (!e.empty()) return e.message;
+    if (!e.empty())
+        return e.message;
     name_ = n;
     dirty_ = true;
     flushAutosave();
@@ -454,7 +547,9 @@ QString Plan::saveAs(const QString& name) {
     return {};
 }
 
-QJsonObject Plan::line(const QString& letter) const { return obj(doc_, "lines").value(letter).toObject(); }
+QJsonObject Plan::line(const QString& letter) const {
+    return obj(doc_, "lines").value(letter).toObject();
+}
 
 void Plan::setLine(const QString& letter, const QJsonObject& l) {
     QJsonObject lines = obj(doc_, "lines");
@@ -464,7 +559,8 @@ void Plan::setLine(const QString& letter, const QJsonObject& l) {
         prime.remove(letter);
         doc_.insert("prime_ml", prime);
     } else {
-        if (lines.value(letter).toObject() == l) return;
+        if (lines.value(letter).toObject() == l)
+            return;
         lines.insert(letter, l);
     }
     doc_.insert("lines", lines);
@@ -474,16 +570,20 @@ void Plan::setLine(const QString& letter, const QJsonObject& l) {
 void Plan::setLineField(const QString& letter, const QString& key, const QVariant& value) {
     QJsonObject l = line(letter);
     const QJsonValue v = QJsonValue::fromVariant(value);
-    if (l.value(key) == v) return;
+    if (l.value(key) == v)
+        return;
     l.insert(key, v);
     setLine(letter, l);
 }
 
-double Plan::primeMl(const QString& letter) const { return obj(doc_, "prime_ml").value(letter).toDouble(); }
+double Plan::primeMl(const QString& letter) const {
+    return obj(doc_, "prime_ml").value(letter).toDouble();
+}
 
 void Plan::setPrimeMl(const QString& letter, double ml) {
     QJsonObject prime = obj(doc_, "prime_ml");
-    if (prime.contains(letter) && prime.value(letter).toDouble() == ml) return;
+    if (prime.contains(letter) && prime.value(letter).toDouble() == ml)
+        return;
     prime.insert(letter, ml);
     doc_.insert("prime_ml", prime);
     edited();
@@ -491,7 +591,8 @@ void Plan::setPrimeMl(const QString& letter, double ml) {
 
 QJsonObject Plan::lineBuffer(const QString& letter) const {
     for (const QJsonValue& p : line(letter).value("parts").toArray())
-        if (p.toObject().contains("buffer")) return p.toObject().value("buffer").toObject();
+        if (p.toObject().contains("buffer"))
+            return p.toObject().value("buffer").toObject();
     return {};
 }
 
@@ -505,7 +606,8 @@ double Plan::lineBufferVolumeMl(const QString& letter) const {
 
 QString Plan::lineBufferRef(const QString& letter) const {
     for (const QJsonValue& p : line(letter).value("parts").toArray())
-        if (p.toObject().contains("buffer")) return p.toObject().value("buffer_ref").toString();
+        if (p.toObject().contains("buffer"))
+            return p.toObject().value("buffer_ref").toString();
     return {};
 }
 
@@ -518,18 +620,21 @@ bool Plan::for_each_buffer_part(const std::function<bool(QJsonObject& part)>& ch
         bool line_changed = false;
         for (int i = 0; i < parts.size(); ++i) {
             QJsonObject p = parts[i].toObject();
-            if (!p.contains("buffer")) continue;
+            if (!p.contains("buffer"))
+                continue;
             if (change(p)) {
                 parts[i] = p;
                 line_changed = true;
             }
         }
-        if (!line_changed) continue;
+        if (!line_changed)
+            continue;
         l.insert("parts", parts);
         it.value() = l;
         any = true;
     }
-    if (!any) return false;
+    if (!any)
+        return false;
     doc_.insert("lines", lines);
     edited();
     return true;
@@ -547,7 +652,8 @@ static QJsonObject part_recipe(QJsonObject recipe) {
 void Plan::updateBufferRefs(const QString& name, const QJsonObject& recipe) {
     const QJsonObject r = part_recipe(recipe);
     for_each_buffer_part([&](QJsonObject& p) {
-        if (p.value("buffer_ref").toString() != name || p.value("buffer").toObject() == r) return false;
+        if (p.value("buffer_ref").toString() != name || p.value("buffer").toObject() == r)
+            return false;
         p.insert("buffer", r);
         return true;
     });
@@ -556,7 +662,8 @@ void Plan::updateBufferRefs(const QString& name, const QJsonObject& recipe) {
 void Plan::renameBufferRefs(const QString& from, const QString& to, const QJsonObject& recipe) {
     const QJsonObject r = part_recipe(recipe);
     for_each_buffer_part([&](QJsonObject& p) {
-        if (p.value("buffer_ref").toString() != from) return false;
+        if (p.value("buffer_ref").toString() != from)
+            return false;
         p.insert("buffer_ref", to);
         p.insert("buffer", r);
         return true;
@@ -565,19 +672,22 @@ void Plan::renameBufferRefs(const QString& from, const QString& to, const QJsonO
 
 void Plan::dropBufferRefs(const QString& name) {
     for_each_buffer_part([&](QJsonObject& p) {
-        if (p.value("buffer_ref").toString() != name) return false;
+        if (p.value("buffer_ref").toString() != name)
+            return false;
         p.remove("buffer_ref");
         return true;
     });
 }
 
 void Plan::adopt_inline_buffers() {
-    if (!workspace_ || !workspace_->database()) return;
+    if (!workspace_ || !workspace_->database())
+        return;
     storage::Database* db = workspace_->database();
     // The saved buffers as line parts hold them, to find one that is the same recipe.
     std::vector<std::pair<QString, QJsonObject>> saved;
     for (const auto& info : db->list(storage::DocumentKind::buffer))
-        if (auto d = db->load(storage::DocumentKind::buffer, info.name)) saved.emplace_back(info.name, part_recipe(*d));
+        if (auto d = db->load(storage::DocumentKind::buffer, info.name))
+            saved.emplace_back(info.name, part_recipe(*d));
     QJsonObject lines = obj(doc_, "lines");
     bool any = false;
     for (auto it = lines.begin(); it != lines.end(); ++it) {
@@ -586,27 +696,40 @@ void Plan::adopt_inline_buffers() {
         bool changed = false;
         for (int i = 0; i < parts.size(); ++i) {
             QJsonObject p = parts[i].toObject();
-            if (!p.contains("buffer")) continue;
+            if (!p.contains("buffer"))
+                continue;
             const QJsonObject recipe = part_recipe(p.value("buffer").toObject());
             QString ref = p.value("buffer_ref").toString();
             if (!ref.isEmpty()) {
                 // A reference: take the saved buffer's current recipe (it follows edits).
-                auto hit = std::find_if(saved.begin(), saved.end(), [&](const auto& s) { return s.first == ref; });
-                if (hit == saved.end() || hit->second == p.value("buffer").toObject()) continue;
+                auto hit = std::find_if(saved.begin(), saved.end(),
+                                        [&](const auto& s) { return s.first == ref; });
+                if (hit == saved.end() || hit->second == p.value("buffer").toObject())
+                    continue;
                 p.insert("buffer", hit->second);
             } else {
-                auto same = std::find_if(saved.begin(), saved.end(), [&](const auto& s) { return s.second == recipe; });
+                auto same = std::find_if(saved.begin(), saved.end(),
+                                         [&](const auto& s) { return s.second == recipe; });
                 if (same != saved.end()) {
                     ref = same->first;
                 } else {
-                    const QString own = p.value("buffer").toObject().value("name").toString().trimmed();
-                    const QString wanted = (own.isEmpty() ? tr("%1 buffer").arg(l.value("name").toString(it.key())) : own).left(56);
+                    const QString own =
+                        p.value("buffer").toObject().value("name").toString().trimmed();
+                    const QString wanted =
+                        (own.isEmpty() ? tr("%1 buffer").arg(l.value("name").toString(it.key()))
+                                       : own)
+                            .left(56);
                     ref = wanted;
-                    for (int n = 2; std::any_of(saved.begin(), saved.end(), [&](const auto& s) { return s.first == ref; }); ++n)
+                    for (int n = 2; std::any_of(saved.begin(), saved.end(),
+                                                [&](const auto& s) { return s.first == ref; });
+                         ++n)
                         ref = QStringLiteral("%1 (%2)").arg(wanted).arg(n);
                     QJsonObject doc = recipe;
                     doc.insert("name", ref);
-                    if (!guarded([&] { db->save(storage::DocumentKind::buffer, ref, doc); }).empty()) continue;
+                    if (!guarded([&] {
+                             db->save(storage::DocumentKind::buffer, ref, doc);
+                         }).empty())
+                        continue;
                     saved.emplace_back(ref, recipe);
                 }
                 p.insert("buffer_ref", ref);
@@ -615,12 +738,14 @@ void Plan::adopt_inline_buffers() {
             parts[i] = p;
             changed = true;
         }
-        if (!changed) continue;
+        if (!changed)
+            continue;
         l.insert("parts", parts);
         it.value() = l;
         any = true;
     }
-    if (!any) return;
+    if (!any)
+        return;
     doc_.insert("lines", lines);
     dirty_ = true;
     autosave_.start();
@@ -631,8 +756,10 @@ void Plan::setLineBuffer(const QString& letter, const QJsonObject& recipe) {
     QJsonArray parts = l.value("parts").toArray();
     for (int i = 0; i < parts.size(); ++i) {
         QJsonObject p = parts[i].toObject();
-        if (!p.contains("buffer")) continue;
-        if (p.value("buffer").toObject() == recipe) return;
+        if (!p.contains("buffer"))
+            continue;
+        if (p.value("buffer").toObject() == recipe)
+            return;
         p.insert("buffer", recipe);
         parts[i] = p;
         l.insert("parts", parts);
@@ -641,11 +768,14 @@ void Plan::setLineBuffer(const QString& letter, const QJsonObject& recipe) {
     }
 }
 
-QJsonObject Plan::method(const QString& name) const { return obj(doc_, "methods").value(name).toObject(); }
+QJsonObject Plan::method(const QString& name) const {
+    return obj(doc_, "methods").value(name).toObject();
+}
 
 void Plan::setMethod(const QString& name, const QJsonObject& m) {
     QJsonObject methods = obj(doc_, "methods");
-    if (methods.value(name).toObject() == m) return;
+    if (methods.value(name).toObject() == m)
+        return;
     methods.insert(name, m);
     doc_.insert("methods", methods);
     edited();
@@ -661,12 +791,15 @@ QString Plan::addMethod(const QString& like) {
             r0.insert(letters[i], i == 0 ? 100 : 0);
             r1.insert(letters[i], i == (letters.size() > 1 ? 1 : 0) ? 100 : 0);
         }
-        m = QJsonObject{{"flow_ml_min", 1.0}, {"run_min", 12}, {"equilibration_min", 5},
+        m = QJsonObject{{"flow_ml_min", 1.0},
+                        {"run_min", 12},
+                        {"equilibration_min", 5},
                         {"gradient", QJsonArray{r0, r1}}};
     }
     const QString base = like.isEmpty() ? tr("method") : like;
     QString name = base;
-    for (int i = 2; methods.contains(name); ++i) name = QStringLiteral("%1 %2").arg(base).arg(i);
+    for (int i = 2; methods.contains(name); ++i)
+        name = QStringLiteral("%1 %2").arg(base).arg(i);
     methods.insert(name, m);
     doc_.insert("methods", methods);
     edited();
@@ -676,7 +809,8 @@ QString Plan::addMethod(const QString& like) {
 QString Plan::removeMethod(const QString& name) {
     for (const QJsonValue& r : rows())
         if (r.toObject().value("method").toString() == name)
-            return tr("Method “%1” is run by a sequence row: change or remove the row first").arg(name);
+            return tr("Method “%1” is run by a sequence row: change or remove the row first")
+                .arg(name);
     QJsonObject methods = obj(doc_, "methods");
     methods.remove(name);
     doc_.insert("methods", methods);
@@ -687,25 +821,32 @@ QString Plan::removeMethod(const QString& name) {
 int Plan::rowsUsingMethod(const QString& name) const {
     int n = 0;
     for (const QJsonValue& r : rows())
-        if (r.toObject().value("method").toString() == name) ++n;
+        if (r.toObject().value("method").toString() == name)
+            ++n;
     return n;
 }
 
 QString Plan::renameMethod(const QString& from, const QString& to_raw) {
     const QString to = to_raw.trimmed();
-    if (to == from) return {};
-    if (to.isEmpty()) return tr("Method name: type a name");
-    if (to.size() > 64) return tr("Method name: “%1…” is longer than 64 characters").arg(to.left(20));
+    if (to == from)
+        return {};
+    if (to.isEmpty())
+        return tr("Method name: type a name");
+    if (to.size() > 64)
+        return tr("Method name: “%1…” is longer than 64 characters").arg(to.left(20));
     QJsonObject methods = obj(doc_, "methods");
-    if (!methods.contains(from)) return tr("Method “%1” is not in this plan").arg(from);
-    if (methods.contains(to)) return tr("Method name: “%1” is taken by another method").arg(to);
+    if (!methods.contains(from))
+        return tr("Method “%1” is not in this plan").arg(from);
+    if (methods.contains(to))
+        return tr("Method name: “%1” is taken by another method").arg(to);
     methods.insert(to, methods.value(from));
     methods.remove(from);
     doc_.insert("methods", methods);
     QJsonArray r = rows();
     for (int i = 0; i < r.size(); ++i) {
         QJsonObject row = r[i].toObject();
-        if (row.value("method").toString() != from) continue;
+        if (row.value("method").toString() != from)
+            continue;
         row.insert("method", to);
         r[i] = row;
     }
@@ -714,10 +855,13 @@ QString Plan::renameMethod(const QString& from, const QString& to_raw) {
     return {};
 }
 
-QJsonArray Plan::rows() const { return doc_.value("sequence").toArray(); }
+QJsonArray Plan::rows() const {
+    return doc_.value("sequence").toArray();
+}
 
 void Plan::setRows(const QJsonArray& r) {
-    if (r == rows()) return;
+    if (r == rows())
+        return;
     doc_.insert("sequence", r);
     edited();
 }
@@ -751,9 +895,11 @@ void Plan::recompute() {
     warnings_.clear();
     bottles_.clear();
     injections_ = 0;
-    for (const QJsonValue& r : rows()) injections_ += r.toObject().value("injections").toInt();
+    for (const QJsonValue& r : rows())
+        injections_ += r.toObject().value("injections").toInt();
     {
-        for (const QJsonValue& w : out.value("warnings").toArray()) warnings_.append(w.toObject().toVariantMap());
+        for (const QJsonValue& w : out.value("warnings").toArray())
+            warnings_.append(w.toObject().toVariantMap());
         const QJsonObject lines = obj(out, "lines");
         for (const QString& letter : lineLetters()) {
             const QJsonObject in = line(letter);
@@ -762,15 +908,18 @@ void Plan::recompute() {
             b.insert("name", in.value("name").toString(letter));
             b.insert("bottle_ml", in.value("bottle_ml").toDouble());
             b.insert("residue_ml", in.value("residue_ml").toDouble());
-            b.insert("dry_text", b.value("dry_at").toString().isEmpty() ? QString()
-                                                                       : dayClock(b.value("dry_at").toString()));
+            b.insert("dry_text", b.value("dry_at").toString().isEmpty()
+                                     ? QString()
+                                     : dayClock(b.value("dry_at").toString()));
             bottles_.append(b);
         }
     }
     compute_levels();
     last_recompute_ms_ = elapsed_ms(timer);
-    if (bottles_ != old_bottles) emit bottlesChanged();
-    if (warnings_ != old_warnings) emit warningsChanged();
+    if (bottles_ != old_bottles)
+        emit bottlesChanged();
+    if (warnings_ != old_warnings)
+        emit warningsChanged();
     emit resultChanged();
 }
 
@@ -780,7 +929,8 @@ void Plan::compute_levels() {
     waste_.clear();
     chart_hours_ = 1;
     chart_max_ml_ = 100;
-    if (!workspace_) return;
+    if (!workspace_)
+        return;
     // Each bottle's level at the end of every sequence row, from the core's per-row volumes
     // ("rows[i].volume_ml"): within a row every injection draws the same volume in the same
     // time, so the straight line between row ends is exact at every injection boundary. The
@@ -800,7 +950,8 @@ void Plan::compute_levels() {
     for (const QJsonValue& v : result_.value("rows").toArray()) {
         const QJsonObject row = v.toObject();
         const double h = hours_between(start(), row.value("end").toString());
-        if (h < 0) continue;
+        if (h < 0)
+            continue;
         const QJsonObject vol = row.value("volume_ml").toObject();
         for (const QString& l : letters) {
             level[l] -= vol.value(l).toDouble();
@@ -813,30 +964,36 @@ void Plan::compute_levels() {
     if (standby_min > 0) {
         const double h = (totalMin() + standby_min) / 60.0;
         for (const QString& l : letters)
-            levels_[l].append(QPointF(h, line(l).value("bottle_ml").toDouble() -
-                                             res_lines.value(l).toObject().value("required_ml").toDouble()));
+            levels_[l].append(
+                QPointF(h, line(l).value("bottle_ml").toDouble() -
+                               res_lines.value(l).toObject().value("required_ml").toDouble()));
         waste_.append(QPointF(h, wasteMl()));
     }
     for (const QString& l : letters) {
         const QJsonObject r = res_lines.value(l).toObject();
         if (r.value("runs_dry").toBool()) {
-            const double h = r.contains("dry_at_min") ? r.value("dry_at_min").toDouble() / 60.0
-                                                      : hours_between(start(), r.value("dry_at").toString());
-            if (h >= 0) dry_points_[l] = QPointF(h, line(l).value("residue_ml").toDouble());
+            const double h = r.contains("dry_at_min")
+                                 ? r.value("dry_at_min").toDouble() / 60.0
+                                 : hours_between(start(), r.value("dry_at").toString());
+            if (h >= 0)
+                dry_points_[l] = QPointF(h, line(l).value("residue_ml").toDouble());
         }
     }
-    for (const QPointF& p : waste_) chart_max_ml_ = std::max(chart_max_ml_, p.y());
+    for (const QPointF& p : waste_)
+        chart_max_ml_ = std::max(chart_max_ml_, p.y());
     chart_max_ml_ = std::max(chart_max_ml_, wasteCapacityMl());
     double last = 0;
     for (auto& [l, pts] : levels_)
-        if (!pts.isEmpty()) last = std::max(last, pts.back().x());
+        if (!pts.isEmpty())
+            last = std::max(last, pts.back().x());
     chart_hours_ = std::max(1.0, std::ceil(last));
 }
 
 void Plan::fillLevelSeries(QObject* series, const QString& letter) const {
     auto it = levels_.find(letter);
     QList<QPointF> pts = it == levels_.end() ? QList<QPointF>() : it->second;
-    for (QPointF& p : pts) p.setY(std::max(0.0, p.y())); // a bottle does not go below empty
+    for (QPointF& p : pts)
+        p.setY(std::max(0.0, p.y())); // a bottle does not go below empty
     replace_series(series, pts);
 }
 
@@ -845,11 +1002,14 @@ void Plan::fillDrySeries(QObject* series, const QString& letter) const {
     replace_series(series, it == dry_points_.end() ? QList<QPointF>() : QList<QPointF>{it->second});
 }
 
-void Plan::fillWasteSeries(QObject* series) const { replace_series(series, waste_); }
+void Plan::fillWasteSeries(QObject* series) const {
+    replace_series(series, waste_);
+}
 
 QVariantMap Plan::methodConditions(const QString& method) const {
     QVariantMap out{{"hasEluent", false}, {"hasPressure", false}};
-    const QJsonArray eluent = result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray();
+    const QJsonArray eluent =
+        result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray();
     double lo = 14, hi = 0, span = 0;
     bool extrapolated = false;
     for (const QJsonValue& v : eluent) {
@@ -865,10 +1025,12 @@ QVariantMap Plan::methodConditions(const QString& method) const {
         out.insert("phMax", hi);
         out.insert("extrapolated", extrapolated);
     }
-    const QJsonObject pressure = result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
+    const QJsonObject pressure =
+        result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
     const QJsonArray trace = pressure.value("trace").toArray();
     if (!trace.isEmpty()) {
-        for (const QJsonValue& v : trace) span = std::max(span, v.toObject().value("t_min").toDouble());
+        for (const QJsonValue& v : trace)
+            span = std::max(span, v.toObject().value("t_min").toDouble());
         out.insert("hasPressure", true);
         out.insert("maxBar", pressure.value("max_pressure_bar").toDouble());
         out.insert("maxAtMin", pressure.value("max_at_t_min").toDouble());
@@ -883,18 +1045,31 @@ QVariantMap Plan::methodConditions(const QString& method) const {
 void Plan::fillConditionSeries(QObject* series, const QString& method, const QString& which) const {
     QList<QPointF> pts;
     if (which == QLatin1String("ph")) {
-        for (const QJsonValue& v : result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray())
-            pts.append(QPointF(v.toObject().value("t_min").toDouble(), v.toObject().value("ph_s_s").toDouble()));
+        for (const QJsonValue& v : result_.value("eluent_trace")
+                                       .toObject()
+                                       .value(method)
+                                       .toObject()
+                                       .value("points")
+                                       .toArray())
+            pts.append(QPointF(v.toObject().value("t_min").toDouble(),
+                               v.toObject().value("ph_s_s").toDouble()));
     } else {
-        const QJsonObject pressure =
-            result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
+        const QJsonObject pressure = result_.value("methods")
+                                         .toObject()
+                                         .value(method)
+                                         .toObject()
+                                         .value("pressure")
+                                         .toObject();
         const QJsonArray trace = pressure.value("trace").toArray();
         if (which == QLatin1String("pressure")) {
             for (const QJsonValue& v : trace)
-                pts.append(QPointF(v.toObject().value("t_min").toDouble(), v.toObject().value("pressure_bar").toDouble()));
-        } else if (which == QLatin1String("limit") && pressure.value("limit_bar").toDouble() > 0 && !trace.isEmpty()) {
+                pts.append(QPointF(v.toObject().value("t_min").toDouble(),
+                                   v.toObject().value("pressure_bar").toDouble()));
+        } else if (which == QLatin1String("limit") && pressure.value("limit_bar").toDouble() > 0 &&
+                   !trace.isEmpty()) {
             const double bar = pressure.value("limit_bar").toDouble();
-            pts = {QPointF(0, bar), QPointF(trace.last().toObject().value("t_min").toDouble(), bar)};
+            pts = {QPointF(0, bar),
+                   QPointF(trace.last().toObject().value("t_min").toDouble(), bar)};
         }
     }
     replace_series(series, pts);

@@ -29,7 +29,8 @@ class Workspace;
 class Plan : public QObject {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     /// Restore the autosaved plan (or the demo on first run) when the workspace is set.
     Q_PROPERTY(bool restore READ restore WRITE setRestore NOTIFY workspaceChanged)
     /// The name it is saved under.
@@ -52,21 +53,26 @@ class Plan : public QObject {
 
     // ---- standby after the last injection (optional) -------------------------------------------
     /// The pump keeps running at a low flow after the last injection.
-    Q_PROPERTY(bool standbyEnabled READ standbyEnabled WRITE setStandbyEnabled NOTIFY documentChanged)
-    Q_PROPERTY(double standbyFlowMlMin READ standbyFlowMlMin WRITE setStandbyFlowMlMin NOTIFY documentChanged)
+    Q_PROPERTY(
+        bool standbyEnabled READ standbyEnabled WRITE setStandbyEnabled NOTIFY documentChanged)
+    Q_PROPERTY(double standbyFlowMlMin READ standbyFlowMlMin WRITE setStandbyFlowMlMin NOTIFY
+                   documentChanged)
     /// "until": until a time of day (the first after the last injection, so it moves with the
     /// start); "duration": for a number of minutes.
     Q_PROPERTY(QString standbyMode READ standbyMode WRITE setStandbyMode NOTIFY documentChanged)
     Q_PROPERTY(int standbyUntilHour READ standbyUntilHour NOTIFY documentChanged)
     Q_PROPERTY(int standbyUntilMinute READ standbyUntilMinute NOTIFY documentChanged)
-    Q_PROPERTY(double standbyDurationMin READ standbyDurationMin WRITE setStandbyDurationMin NOTIFY documentChanged)
+    Q_PROPERTY(double standbyDurationMin READ standbyDurationMin WRITE setStandbyDurationMin NOTIFY
+                   documentChanged)
     /// "until tomorrow 07:30 (4 h 00 min)" from the last result, "" when there is no standby.
     Q_PROPERTY(QString standbyText READ standbyText NOTIFY resultChanged)
     /// Free volume of the waste container in mL (0: not checked).
-    Q_PROPERTY(double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
+    Q_PROPERTY(
+        double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
     /// "uv" or "ms".
     Q_PROPERTY(QString detectorType READ detectorType WRITE setDetectorType NOTIFY documentChanged)
-    Q_PROPERTY(double detectorWavelengthNm READ detectorWavelengthNm WRITE setDetectorWavelengthNm NOTIFY documentChanged)
+    Q_PROPERTY(double detectorWavelengthNm READ detectorWavelengthNm WRITE setDetectorWavelengthNm
+                   NOTIFY documentChanged)
     Q_PROPERTY(double columnPhMin READ columnPhMin WRITE setColumnPhMin NOTIFY documentChanged)
     Q_PROPERTY(double columnPhMax READ columnPhMax WRITE setColumnPhMax NOTIFY documentChanged)
 
@@ -86,7 +92,8 @@ class Plan : public QObject {
     Q_PROPERTY(double totalMin READ totalMin NOTIFY resultChanged)
     Q_PROPERTY(int injections READ injections NOTIFY resultChanged)
     Q_PROPERTY(double wasteMl READ wasteMl NOTIFY resultChanged)
-    /// [{letter, name, bottle_ml, residue_ml, required_ml, usable_ml, runs_dry, dry_after_injection,
+    /// [{letter, name, bottle_ml, residue_ml, required_ml, usable_ml, runs_dry,
+    /// dry_after_injection,
     ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}]
     Q_PROPERTY(QVariantList bottles READ bottles NOTIFY bottlesChanged)
     /// [{code, severity, message, …}] of the sequence checks.
@@ -96,7 +103,7 @@ class Plan : public QObject {
     Q_PROPERTY(double chartMaxMl READ chartMaxMl NOTIFY resultChanged)
     Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY resultChanged)
 
-public:
+  public:
     explicit Plan(QObject* parent = nullptr);
     ~Plan() override;
 
@@ -176,7 +183,9 @@ public:
     Q_INVOKABLE QString saveAs(const QString& name);
 
     QJsonObject line(const QString& letter) const;
-    Q_INVOKABLE QVariantMap lineDocument(const QString& letter) const { return line(letter).toVariantMap(); }
+    Q_INVOKABLE QVariantMap lineDocument(const QString& letter) const {
+        return line(letter).toVariantMap();
+    }
     /// Replaces line `letter` (an empty document removes it).
     void setLine(const QString& letter, const QJsonObject& line);
     Q_INVOKABLE void setLineDocument(const QString& letter, const QVariantMap& line) {
@@ -201,7 +210,9 @@ public:
     void dropBufferRefs(const QString& name);
 
     QJsonObject method(const QString& name) const;
-    Q_INVOKABLE QVariantMap methodDocument(const QString& name) const { return method(name).toVariantMap(); }
+    Q_INVOKABLE QVariantMap methodDocument(const QString& name) const {
+        return method(name).toVariantMap();
+    }
     void setMethod(const QString& name, const QJsonObject& method);
     /// Adds or replaces a method (a saved one taken into the plan).
     Q_INVOKABLE void setMethodDocument(const QString& name, const QVariantMap& method) {
@@ -231,7 +242,8 @@ public:
     Q_INVOKABLE QVariantMap methodConditions(const QString& method) const;
     /// Fills a LineSeries over one injection of `method`: "ph" (eluent s_s pH against min),
     /// "pressure" (bar against min) or "limit" (the pressure limit as a line).
-    Q_INVOKABLE void fillConditionSeries(QObject* series, const QString& method, const QString& which) const;
+    Q_INVOKABLE void fillConditionSeries(QObject* series, const QString& method,
+                                         const QString& which) const;
     /// The hour of the sequence end (for a marker).
     Q_INVOKABLE double endHours() const { return totalMin() / 60.0; }
     /// A field path in the screens' words ("lines.A.bottle_ml" → "Line A, bottle volume").
@@ -251,7 +263,7 @@ public:
     /// An edit is waiting for its recompute.
     bool recomputePending() const { return recompute_timer_.isActive(); }
 
-signals:
+  signals:
     void workspaceChanged();
     void documentChanged();
     /// The whole document was replaced: views reload what they show.
@@ -266,7 +278,7 @@ signals:
     void bottlesChanged();
     void warningsChanged();
 
-private:
+  private:
     void edited();
     void recompute();
     void compute_levels();
@@ -290,7 +302,7 @@ private:
     bool dirty_ = false;
 
     FieldError error_;
-    QJsonObject result_;   ///< the last valid result (kept, greyed, while an input is wrong)
+    QJsonObject result_; ///< the last valid result (kept, greyed, while an input is wrong)
     bool has_result_ = false;
     QJsonObject standby_doc() const;
     QJsonObject standby_kept_; ///< the standby as it was when switched off, to switch it back on

@@ -7,12 +7,15 @@ namespace phaseplan::gui {
 PrintService::PrintService(QObject* parent) : print::PrintController(parent) {}
 
 void PrintService::setWorkspace(Workspace* w) {
-    if (workspace_ == w) return;
+    if (workspace_ == w)
+        return;
     workspace_ = w;
     setData(w ? &w->data() : nullptr);
-    if (w) connect(w, &Workspace::readyChanged, this, [this] {
-        if (workspace_) setData(&workspace_->data());
-    });
+    if (w)
+        connect(w, &Workspace::readyChanged, this, [this] {
+            if (workspace_)
+                setData(&workspace_->data());
+        });
     emit workspaceChanged();
 }
 

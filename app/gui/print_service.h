@@ -16,15 +16,16 @@ class Workspace;
 class PrintService : public print::PrintController {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
-public:
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
+  public:
     explicit PrintService(QObject* parent = nullptr);
     Workspace* workspace() const { return workspace_; }
     void setWorkspace(Workspace* w);
-signals:
+  signals:
     void workspaceChanged();
 
-private:
+  private:
     QPointer<Workspace> workspace_;
 };
 

@@ -17,13 +17,14 @@ class Workspace;
 class SavedWorkModel : public QAbstractListModel {
     Q_OBJECT
     QML_ELEMENT
-    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY workspaceChanged)
+    Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
+                   workspaceChanged)
     Q_PROPERTY(QString search READ search WRITE setSearch NOTIFY searchChanged)
     /// "all", "buffer", "line", "method", "sequence".
     Q_PROPERTY(QString kind READ kind WRITE setKind NOTIFY searchChanged)
     Q_PROPERTY(int count READ count NOTIFY countChanged)
 
-public:
+  public:
     enum Role { KindRole = Qt::UserRole + 1, NameRole, NoteRole, UpdatedRole, SummaryRole };
     Q_ENUM(Role)
 
@@ -45,12 +46,12 @@ public:
     Q_INVOKABLE bool remove(const QString& kind, const QString& name);
     Q_INVOKABLE void refresh();
 
-signals:
+  signals:
     void workspaceChanged();
     void searchChanged();
     void countChanged();
 
-private:
+  private:
     struct Row {
         QString kind, name, note, updated, summary;
     };

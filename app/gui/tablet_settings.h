@@ -18,17 +18,18 @@ class TabletSettings : public QObject {
     QML_ELEMENT
     QML_SINGLETON
     /// The saved choice: an on-screen keyboard at the next start.
-    Q_PROPERTY(bool keyboardEnabled READ keyboardEnabled WRITE setKeyboardEnabled NOTIFY keyboardEnabledChanged)
+    Q_PROPERTY(bool keyboardEnabled READ keyboardEnabled WRITE setKeyboardEnabled NOTIFY
+                   keyboardEnabledChanged)
     /// The on-screen keyboard is the input method of this run (QT_IM_MODULE).
     Q_PROPERTY(bool keyboardActive READ keyboardActive CONSTANT)
 
-public:
+  public:
     explicit TabletSettings(QObject* parent = nullptr) : QObject(parent) {}
     bool keyboardEnabled() const;
     void setKeyboardEnabled(bool on);
     bool keyboardActive() const;
 
-signals:
+  signals:
     void keyboardEnabledChanged();
 };
 

@@ -14,7 +14,8 @@ namespace {
 
 QByteArray read_all(const QString& path) {
     QFile f(path);
-    if (!f.open(QIODevice::ReadOnly)) return {};
+    if (!f.open(QIODevice::ReadOnly))
+        return {};
     return f.readAll();
 }
 
@@ -24,51 +25,62 @@ Workspace::Workspace(QObject* parent) : QObject(parent) {}
 Workspace::~Workspace() = default;
 
 void Workspace::setDatabasePath(const QString& p) {
-    if (p == database_path_) return;
+    if (p == database_path_)
+        return;
     database_path_ = p;
     emit databasePathChanged();
 }
 
 void Workspace::setDataDir(const QString& d) {
-    if (d == data_dir_) return;
+    if (d == data_dir_)
+        return;
     data_dir_ = d;
     emit dataDirChanged();
 }
 
 void Workspace::componentComplete() {
-    if (!db_) open();
+    if (!db_)
+        open();
 }
 
 QDateTime Workspace::now() const {
     const QByteArray fixed = qgetenv("PHASEPLAN_NOW");
     if (!fixed.isEmpty()) {
         const QDateTime t = QDateTime::fromString(QString::fromLatin1(fixed), Qt::ISODate);
-        if (t.isValid()) return QDateTime(t.date(), t.time(), Qt::UTC);
+        if (t.isValid())
+            return QDateTime(t.date(), t.time(), Qt::UTC);
     }
     const QDateTime local = QDateTime::currentDateTime();
     return QDateTime(local.date(), local.time(), Qt::UTC); // wall clock, as the plan counts
 }
 
-QString Workspace::demoName() { return QStringLiteral("Overnight demo"); }
+QString Workspace::demoName() {
+    return QStringLiteral("Overnight demo");
+}
 
 bool Workspace::open() {
-    if (db_) return true;
+    if (db_)
+        return true;
     error_.clear();
     try {
         const QString dir = data_dir_.isEmpty() ? find_data_dir() : data_dir_;
         data_ = load_app_data(dir); // validates the shipped files as they are
-        const QString path = database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
+        const QString path =
+            database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
         // The demo goes only into a new file, inside the transaction that creates it: an existing
         // file is never seeded again, whatever its settings say.
-        db_ = std::make_unique<storage::Database>(path, -1, [this](storage::Database& db) { seed_demo(db); });
+        db_ = std::make_unique<storage::Database>(path, -1,
+                                                  [this](storage::Database& db) { seed_demo(db); });
         first_run_ = db_->created();
         if (db_->writable())
             for (const char* file : shipped_library_files) {
                 const QByteArray bytes = read_all(dir + "/" + file);
-                if (!bytes.isEmpty()) db_->sync_shipped_file(QString::fromLatin1(file), bytes);
+                if (!bytes.isEmpty())
+                    db_->sync_shipped_file(QString::fromLatin1(file), bytes);
             }
         reloadLibrary();
-        if (!db_->writable()) qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
+        if (!db_->writable())
+            qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
     } catch (const chem::Error& e) {
         error_ = QString::fromStdString(e.what());
         db_.reset();
@@ -80,26 +92,31 @@ bool Workspace::open() {
 }
 
 QString Workspace::storageNotice() const {
-    if (!db_) return {};
+    if (!db_)
+        return {};
     QStringList parts;
-    if (!db_->writable()) parts << db_->read_only_reason();
+    if (!db_->writable())
+        parts << db_->read_only_reason();
     QStringList aside;
     for (const storage::SetAsideRecord& r : db_->set_aside())
         aside << QStringLiteral("%1 \"%2\" (%3)").arg(r.source, r.name, r.reason);
     if (!aside.isEmpty())
-        parts << tr("Too large to open, set aside in the database and not shown: %1.").arg(aside.join(QStringLiteral("; ")));
+        parts << tr("Too large to open, set aside in the database and not shown: %1.")
+                     .arg(aside.join(QStringLiteral("; ")));
     return parts.join(QLatin1Char(' '));
 }
 
 void Workspace::reloadLibrary() {
-    if (!db_) return;
+    if (!db_)
+        return;
     // The shipped library with the lab's entries in place of shipped ones of the same id: the
     // same loader as data/reagents.json, so a lab entry is checked exactly like a shipped one.
     // A lab entry that no longer loads (a shipped system it names was renamed, say) must not
     // lock the lab out: the last good library stays and the problem is shown on the Library screen.
     try {
         chem::Library lib;
-        load_reagents_json(db_->merged_file(QStringLiteral("reagents.json")), "library reagents.json", lib);
+        load_reagents_json(db_->merged_file(QStringLiteral("reagents.json")),
+                           "library reagents.json", lib);
         chem::SolventLibrary solvents;
         const QByteArray solvent_file = db_->merged_file(QStringLiteral("solvents.json"));
         if (!db_->shipped_file(QStringLiteral("solvents.json")).isEmpty())
@@ -116,25 +133,29 @@ void Workspace::reloadLibrary() {
     for (const QString& kind : {QStringLiteral("solvents"), QStringLiteral("additives")})
         for (const storage::LibraryEntry& e : db_->merged_entries(kind)) {
             const QString n = e.document.value(QLatin1String("name")).toString();
-            if (!n.isEmpty()) names_[e.id] = n;
+            if (!n.isEmpty())
+                names_[e.id] = n;
         }
     ++library_revision_;
     emit libraryChanged();
 }
 
 std::vector<storage::LibraryEntry> Workspace::entries(const QString& kind) const {
-    if (!db_) return {};
+    if (!db_)
+        return {};
     return db_->merged_entries(kind);
 }
 
 QVariant Workspace::setting(const QString& key) const {
-    if (!db_) return {};
+    if (!db_)
+        return {};
     const QJsonValue v = db_->setting(key);
     return v.isNull() ? QVariant() : v.toVariant();
 }
 
 void Workspace::setSetting(const QString& key, const QVariant& value) {
-    if (!db_ || !db_->writable()) return; // the banner says that nothing is saved
+    if (!db_ || !db_->writable())
+        return; // the banner says that nothing is saved
     try {
         db_->set_setting(key, QJsonValue::fromVariant(value));
     } catch (const chem::Error& e) {
@@ -159,8 +180,9 @@ void Workspace::seed_demo(storage::Database& db) const {
     const QJsonObject demo = demoDocument();
     std::vector<storage::SavedDocument> docs;
     if (!demo.isEmpty()) {
-        docs.push_back({storage::DocumentKind::sequence, demoName(), demo,
-                        QStringLiteral("an invented lab's overnight sequence, shipped with PhasePlan")});
+        docs.push_back(
+            {storage::DocumentKind::sequence, demoName(), demo,
+             QStringLiteral("an invented lab's overnight sequence, shipped with PhasePlan")});
         const QJsonObject methods = demo.value(QLatin1String("methods")).toObject();
         for (auto it = methods.begin(); it != methods.end(); ++it)
             docs.push_back({storage::DocumentKind::method, it.key(), it.value().toObject(), {}});
@@ -172,14 +194,17 @@ void Workspace::seed_demo(storage::Database& db) const {
             const QJsonArray parts = line.value(QLatin1String("parts")).toArray();
             for (const QJsonValue& p : parts) {
                 const QJsonObject buffer = p.toObject().value(QLatin1String("buffer")).toObject();
-                if (buffer.isEmpty()) continue;
-                const QString name = buffer.value(QLatin1String("name")).toString(line_name + " buffer");
+                if (buffer.isEmpty())
+                    continue;
+                const QString name =
+                    buffer.value(QLatin1String("name")).toString(line_name + " buffer");
                 docs.push_back({storage::DocumentKind::buffer, name, buffer, {}});
             }
         }
     }
     db.save_all(docs);
-    db.set_setting(QStringLiteral("demo_seeded"), true); // read by nothing now; older versions look for it
+    db.set_setting(QStringLiteral("demo_seeded"),
+                   true); // read by nothing now; older versions look for it
 }
 
 } // namespace phaseplan::gui

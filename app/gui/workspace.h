@@ -21,7 +21,8 @@ class Workspace : public QObject, public QQmlParserStatus {
     QML_ELEMENT
     Q_INTERFACES(QQmlParserStatus)
     /// The SQLite file; empty means Database::default_path(). Set before open().
-    Q_PROPERTY(QString databasePath READ databasePath WRITE setDatabasePath NOTIFY databasePathChanged)
+    Q_PROPERTY(
+        QString databasePath READ databasePath WRITE setDatabasePath NOTIFY databasePathChanged)
     /// The data/ folder; empty means find_data_dir().
     Q_PROPERTY(QString dataDir READ dataDir WRITE setDataDir NOTIFY dataDirChanged)
     /// True once the data and the database are open.
@@ -40,7 +41,7 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// and the records set aside as too large to read back; empty when all is well.
     Q_PROPERTY(QString storageNotice READ storageNotice NOTIFY storageNoticeChanged)
 
-public:
+  public:
     explicit Workspace(QObject* parent = nullptr);
     ~Workspace() override;
 
@@ -74,8 +75,8 @@ public:
     std::vector<storage::LibraryEntry> entries(const QString& kind) const;
     /// Display name of a reagent, solvent or additive id (the id itself when unknown).
     Q_INVOKABLE QString displayName(const QString& id) const;
-    /// The wall-clock time now: the system clock, or $PHASEPLAN_NOW ("2026-12-02T14:00:00") when set,
-    /// so that tests and screenshots see the same "today" on every run.
+    /// The wall-clock time now: the system clock, or $PHASEPLAN_NOW ("2026-12-02T14:00:00") when
+    /// set, so that tests and screenshots see the same "today" on every run.
     QDateTime now() const;
     /// Today's date as `now()` sees it (for "today 18:00" on the screens).
     QDate today() const { return now().date(); }
@@ -93,7 +94,7 @@ public:
     void classBegin() override {}
     void componentComplete() override;
 
-signals:
+  signals:
     void databasePathChanged();
     void dataDirChanged();
     void readyChanged();
@@ -101,7 +102,7 @@ signals:
     void savedChanged();
     void storageNoticeChanged();
 
-private:
+  private:
     void seed_demo(storage::Database& db) const;
 
     QString database_path_;

@@ -21,12 +21,12 @@
 namespace phaseplan::print {
 
 struct PrintJob {
-    QString kind;                 ///< "recipe", "line", "sequence"
-    QString title;                ///< for the PDF's metadata
+    QString kind;  ///< "recipe", "line", "sequence"
+    QString title; ///< for the PDF's metadata
     SheetDocument sheet;
-    QList<LabelData> labels;      ///< one per bottle (a sequence: one per line)
-    std::optional<int> copies;    ///< "batch.copies"
-    QJsonObject summary;          ///< {"document": kind, "batch": {…}, "warnings": […]}
+    QList<LabelData> labels;   ///< one per bottle (a sequence: one per line)
+    std::optional<int> copies; ///< "batch.copies"
+    QJsonObject summary;       ///< {"document": kind, "batch": {…}, "warnings": […]}
 };
 
 /// Validates everything and builds the sheet and the labels. Throws chem::Error naming the

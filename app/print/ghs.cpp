@@ -26,15 +26,15 @@ void bar(QPainter& p, qreal x0, qreal y0, qreal x1, qreal y1) {
 
 QPainterPath flame_path(qreal cx, qreal base_y, qreal height, qreal half_width) {
     // A flame with two tongues, base on base_y, tip at base_y - height.
-    auto X = [&](qreal u) { return cx + u * half_width; };     // u in [-1, 1]
-    auto Y = [&](qreal v) { return base_y - v * height; };     // v in [0, 1]
+    auto X = [&](qreal u) { return cx + u * half_width; }; // u in [-1, 1]
+    auto Y = [&](qreal v) { return base_y - v * height; }; // v in [0, 1]
     QPainterPath f;
     f.moveTo(X(-0.55), Y(0));
-    f.cubicTo(X(-1.05), Y(0.25), X(-0.75), Y(0.55), X(-0.35), Y(0.72));   // left flank
-    f.cubicTo(X(-0.40), Y(0.55), X(-0.20), Y(0.45), X(-0.10), Y(0.42));   // into the left tongue
-    f.cubicTo(X(-0.15), Y(0.70), X(0.10), Y(0.88), X(0.30), Y(1.0));      // up to the tip
-    f.cubicTo(X(0.25), Y(0.80), X(0.95), Y(0.60), X(0.85), Y(0.30));      // right flank
-    f.cubicTo(X(0.80), Y(0.12), X(0.65), Y(0.02), X(0.55), Y(0));         // round into the base
+    f.cubicTo(X(-1.05), Y(0.25), X(-0.75), Y(0.55), X(-0.35), Y(0.72)); // left flank
+    f.cubicTo(X(-0.40), Y(0.55), X(-0.20), Y(0.45), X(-0.10), Y(0.42)); // into the left tongue
+    f.cubicTo(X(-0.15), Y(0.70), X(0.10), Y(0.88), X(0.30), Y(1.0));    // up to the tip
+    f.cubicTo(X(0.25), Y(0.80), X(0.95), Y(0.60), X(0.85), Y(0.30));    // right flank
+    f.cubicTo(X(0.80), Y(0.12), X(0.65), Y(0.02), X(0.55), Y(0));       // round into the base
     f.closeSubpath();
     // inner hollow, so the flame reads as a flame at small size
     QPainterPath inner;
@@ -48,12 +48,12 @@ QPainterPath flame_path(qreal cx, qreal base_y, qreal height, qreal half_width) 
 void draw_exploding_bomb(QPainter& p) { // GHS01
     p.setPen(Qt::NoPen);
     p.setBrush(ghs_black);
-    p.drawEllipse(QPointF(44, 62), 12, 12);        // the bomb
+    p.drawEllipse(QPointF(44, 62), 12, 12); // the bomb
     // fragments flying out of the blast above the bomb
     QPainterPath burst;
     const QPointF c(50, 46);
     for (int i = 0; i < 9; ++i) {
-        qreal a = (-160 + i * 17.5) * M_PI / 180.0;  // fan over the upper half
+        qreal a = (-160 + i * 17.5) * M_PI / 180.0; // fan over the upper half
         qreal r0 = 10, r1 = (i % 2) ? 22 : 27;
         QPointF d(std::cos(a), std::sin(a));
         QPointF n(-d.y(), d.x());
@@ -98,9 +98,9 @@ void draw_gas_cylinder(QPainter& p) { // GHS04
     p.rotate(-28);
     p.setPen(Qt::NoPen);
     p.setBrush(ghs_black);
-    p.drawRoundedRect(QRectF(-22, -8, 38, 16), 7, 7);   // body
-    p.drawRect(QRectF(15, -3.5, 6, 7));                  // neck
-    p.drawRect(QRectF(20, -6, 3, 12));                   // valve
+    p.drawRoundedRect(QRectF(-22, -8, 38, 16), 7, 7); // body
+    p.drawRect(QRectF(15, -3.5, 6, 7));               // neck
+    p.drawRect(QRectF(20, -6, 3, 12));                // valve
     p.restore();
 }
 
@@ -111,7 +111,8 @@ void draw_corrosion(QPainter& p) { // GHS05
         const qreal length = std::hypot(d.x(), d.y());
         p.save();
         p.translate(mouth);
-        p.rotate(std::atan2(d.y(), d.x()) * 180.0 / M_PI - 90.0); // local +y runs mouth -> closed end
+        p.rotate(std::atan2(d.y(), d.x()) * 180.0 / M_PI -
+                 90.0); // local +y runs mouth -> closed end
         p.setPen(QPen(ghs_black, 2.4));
         p.setBrush(Qt::white);
         QPainterPath t;
@@ -144,7 +145,7 @@ void draw_corrosion(QPainter& p) { // GHS05
     hand.setFillRule(Qt::WindingFill);
     hand.addRoundedRect(QRectF(54, 60, 18, 9), 2, 2);
     hand.addRoundedRect(QRectF(52, 58, 22, 3.2), 1.5, 1.5);
-    hand.addRoundedRect(QRectF(70, 64, 6, 4), 1.5, 1.5);  // thumb
+    hand.addRoundedRect(QRectF(70, 64, 6, 4), 1.5, 1.5); // thumb
     QPainterPath hbite;
     hbite.addEllipse(QPointF(64, 58), 4, 3.5);
     p.drawPath(hand.simplified().subtracted(hbite));
@@ -171,7 +172,8 @@ void draw_skull(QPainter& p) { // GHS06
     QPolygonF nose({QPointF(50, 45), QPointF(48, 49), QPointF(52, 49)});
     holes.addPolygon(nose);
     holes.closeSubpath();
-    for (qreal x : {45.5, 50.0, 54.5}) holes.addRect(QRectF(x - 0.8, 52, 1.6, 5));  // teeth gaps
+    for (qreal x : {45.5, 50.0, 54.5})
+        holes.addRect(QRectF(x - 0.8, 52, 1.6, 5)); // teeth gaps
     p.drawPath(skull.subtracted(holes));
 }
 
@@ -191,7 +193,7 @@ void draw_exclamation(QPainter& p) { // GHS07
 void draw_health_hazard(QPainter& p) { // GHS08
     p.setPen(Qt::NoPen);
     p.setBrush(ghs_black);
-    p.drawEllipse(QPointF(50, 29), 6.5, 7);                 // head
+    p.drawEllipse(QPointF(50, 29), 6.5, 7); // head
     QPainterPath body;
     body.moveTo(31, 77);
     body.lineTo(33, 50);
@@ -217,7 +219,7 @@ void draw_health_hazard(QPainter& p) { // GHS08
 void draw_environment(QPainter& p) { // GHS09
     // a dead tree and a dead fish on the ground
     p.setPen(QPen(ghs_black, 3.2, Qt::SolidLine, Qt::RoundCap));
-    p.drawLine(QPointF(38, 74), QPointF(38, 36));     // trunk
+    p.drawLine(QPointF(38, 74), QPointF(38, 36)); // trunk
     p.setPen(QPen(ghs_black, 2.2, Qt::SolidLine, Qt::RoundCap));
     p.drawLine(QPointF(38, 48), QPointF(28, 38));
     p.drawLine(QPointF(38, 44), QPointF(47, 33));
@@ -225,7 +227,7 @@ void draw_environment(QPainter& p) { // GHS09
     p.drawLine(QPointF(38, 38), QPointF(34, 28));
     p.drawLine(QPointF(31, 41), QPointF(27, 44));
     p.setPen(QPen(ghs_black, 2.4, Qt::SolidLine, Qt::RoundCap));
-    p.drawLine(QPointF(24, 75), QPointF(76, 75));     // ground / water line
+    p.drawLine(QPointF(24, 75), QPointF(76, 75)); // ground / water line
     p.setPen(Qt::NoPen);
     p.setBrush(ghs_black);
     QPainterPath fish;
@@ -252,16 +254,19 @@ bool is_ghs_pictogram(const QString& code) {
 QString ghs_pictogram_name(const QString& code) {
     // Names as commonly used with UN GHS Rev. 9, Annex 1 (from memory).
     static const QHash<QString, QString> names = {
-        {"GHS01", "Exploding bomb"}, {"GHS02", "Flame"},          {"GHS03", "Flame over circle"},
-        {"GHS04", "Gas cylinder"},   {"GHS05", "Corrosion"},      {"GHS06", "Skull and crossbones"},
-        {"GHS07", "Exclamation mark"}, {"GHS08", "Health hazard"}, {"GHS09", "Environment"},
+        {"GHS01", "Exploding bomb"},    {"GHS02", "Flame"},
+        {"GHS03", "Flame over circle"}, {"GHS04", "Gas cylinder"},
+        {"GHS05", "Corrosion"},         {"GHS06", "Skull and crossbones"},
+        {"GHS07", "Exclamation mark"},  {"GHS08", "Health hazard"},
+        {"GHS09", "Environment"},
     };
     return names.value(code);
 }
 
 void paint_ghs_pictogram(QPainter& painter, const QRectF& box, const QString& code) {
     const qreal side = std::min(box.width(), box.height());
-    if (side <= 0) return;
+    if (side <= 0)
+        return;
     painter.save();
     painter.setRenderHint(QPainter::Antialiasing, true);
     painter.translate(box.center().x() - side / 2, box.center().y() - side / 2);
@@ -280,15 +285,33 @@ void paint_ghs_pictogram(QPainter& painter, const QRectF& box, const QString& co
     painter.setBrush(ghs_black);
     const int n = is_ghs_pictogram(code) ? code.right(1).toInt() : 0;
     switch (n) {
-    case 1: draw_exploding_bomb(painter); break;
-    case 2: draw_flame(painter); break;
-    case 3: draw_flame_over_circle(painter); break;
-    case 4: draw_gas_cylinder(painter); break;
-    case 5: draw_corrosion(painter); break;
-    case 6: draw_skull(painter); break;
-    case 7: draw_exclamation(painter); break;
-    case 8: draw_health_hazard(painter); break;
-    case 9: draw_environment(painter); break;
+    case 1:
+        draw_exploding_bomb(painter);
+        break;
+    case 2:
+        draw_flame(painter);
+        break;
+    case 3:
+        draw_flame_over_circle(painter);
+        break;
+    case 4:
+        draw_gas_cylinder(painter);
+        break;
+    case 5:
+        draw_corrosion(painter);
+        break;
+    case 6:
+        draw_skull(painter);
+        break;
+    case 7:
+        draw_exclamation(painter);
+        break;
+    case 8:
+        draw_health_hazard(painter);
+        break;
+    case 9:
+        draw_environment(painter);
+        break;
     default: {
         QFont f = painter.font();
         f.setPixelSize(14);
@@ -381,7 +404,8 @@ QString hazard_statement(const QString& h_code) {
         {"H411", "Toxic to aquatic life with long lasting effects"},
         {"H412", "Harmful to aquatic life with long lasting effects"},
         {"H413", "May cause long lasting harmful effects to aquatic life"},
-        {"H420", "Harms public health and the environment by destroying ozone in the upper atmosphere"},
+        {"H420",
+         "Harms public health and the environment by destroying ozone in the upper atmosphere"},
         {"EUH014", "Reacts violently with water"},
         {"EUH019", "May form explosive peroxides"},
         {"EUH029", "Contact with water liberates toxic gas"},
@@ -397,7 +421,8 @@ QStringList sorted_pictograms(const QStringList& codes) {
     QStringList out;
     for (const QString& c : codes) {
         QString t = c.trimmed().toUpper();
-        if (!t.isEmpty() && !out.contains(t)) out << t;
+        if (!t.isEmpty() && !out.contains(t))
+            out << t;
     }
     std::sort(out.begin(), out.end());
     return out;
@@ -407,13 +432,15 @@ QStringList sorted_hazard_codes(const QStringList& codes) {
     QStringList out;
     for (const QString& c : codes) {
         QString t = c.trimmed();
-        if (!t.isEmpty() && !out.contains(t)) out << t;
+        if (!t.isEmpty() && !out.contains(t))
+            out << t;
     }
     // H before EUH; then by the number; then by any suffix letters (H360D after H360).
     auto key = [](const QString& s) {
         static const QRegularExpression re("^(EUH|H)(\\d+)(.*)$");
         auto m = re.match(s);
-        if (!m.hasMatch()) return std::tuple<int, int, QString>(2, 0, s);
+        if (!m.hasMatch())
+            return std::tuple<int, int, QString>(2, 0, s);
         return std::tuple<int, int, QString>(m.captured(1) == "H" ? 0 : 1, m.captured(2).toInt(),
                                              m.captured(3));
     };

@@ -16,20 +16,23 @@ QString now_text() {
 }
 
 void require_output(const CommandOptions& opt) {
-    if (opt.output_path.isEmpty()) throw chem::Error("-o", "give the PDF file to write with -o FILE");
+    if (opt.output_path.isEmpty())
+        throw chem::Error("-o", "give the PDF file to write with -o FILE");
 }
 
 } // namespace
 
-QJsonObject command_sheet(const AppData& data, const QJsonObject& input, const CommandOptions& opt) {
+QJsonObject command_sheet(const AppData& data, const QJsonObject& input,
+                          const CommandOptions& opt) {
     const print::Paper paper = print::paper_from_name(opt.paper);
     if (paper == print::Paper::label62)
         throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
     require_output(opt);
     const print::PrintJob job = print::build_print_job(data, input, now_text());
-    const int pages = print::write_pdf_atomically(opt.output_path, job.title, [&](QPagedPaintDevice& d) {
-        return print::render_sheet(d, job.sheet, paper);
-    }, opt.follow_symlinks);
+    const int pages = print::write_pdf_atomically(
+        opt.output_path, job.title,
+        [&](QPagedPaintDevice& d) { return print::render_sheet(d, job.sheet, paper); },
+        opt.follow_symlinks);
     QJsonObject out = job.summary;
     out["output"] = opt.output_path;
     out["paper"] = print::paper_name(paper);
@@ -37,7 +40,8 @@ QJsonObject command_sheet(const AppData& data, const QJsonObject& input, const C
     return out;
 }
 
-QJsonObject command_labels(const AppData& data, const QJsonObject& input, const CommandOptions& opt) {
+QJsonObject command_labels(const AppData& data, const QJsonObject& input,
+                           const CommandOptions& opt) {
     const print::Paper paper = print::paper_from_name(opt.paper);
     require_output(opt);
     const print::PrintJob job = print::build_print_job(data, input, now_text());
@@ -46,9 +50,10 @@ QJsonObject command_labels(const AppData& data, const QJsonObject& input, const 
     int copies = job.copies.value_or(1);
     if (!job.copies && paper != print::Paper::label62 && job.labels.size() == 1)
         copies = grid.columns * grid.rows;
-    const int pages = print::write_pdf_atomically(opt.output_path, job.title, [&](QPagedPaintDevice& d) {
-        return print::render_labels(d, job.labels, paper, copies);
-    }, opt.follow_symlinks);
+    const int pages = print::write_pdf_atomically(
+        opt.output_path, job.title,
+        [&](QPagedPaintDevice& d) { return print::render_labels(d, job.labels, paper, copies); },
+        opt.follow_symlinks);
     QJsonObject out = job.summary;
     out["output"] = opt.output_path;
     out["paper"] = print::paper_name(paper);

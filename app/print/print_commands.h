@@ -15,6 +15,7 @@ QJsonObject command_sheet(const AppData& data, const QJsonObject& input, const C
 /// `phaseplan-cli labels`: bottle labels for the same input: a sheet of 2 × 4 labels on a4 or
 /// letter, or one 62 mm label per page (label62). "batch.copies" sets how many of each.
 /// Output as command_sheet, plus "labels": n.
-QJsonObject command_labels(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
+QJsonObject command_labels(const AppData& data, const QJsonObject& input,
+                           const CommandOptions& opt);
 
 } // namespace phaseplan

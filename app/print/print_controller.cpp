@@ -16,15 +16,20 @@ namespace phaseplan::print {
 namespace {
 
 QString local_path(const QString& path_or_url) {
-    if (path_or_url.startsWith(QStringLiteral("file:"))) return QUrl(path_or_url).toLocalFile();
+    if (path_or_url.startsWith(QStringLiteral("file:")))
+        return QUrl(path_or_url).toLocalFile();
     return path_or_url;
 }
 
-QString now_text() { return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm")); }
+QString now_text() {
+    return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"));
+}
 
 int label_copies(const PrintJob& job, Paper paper, int copies) {
-    if (copies > 0) return copies;
-    if (job.copies) return *job.copies;
+    if (copies > 0)
+        return copies;
+    if (job.copies)
+        return *job.copies;
     if (paper != Paper::label62 && job.labels.size() == 1) {
         const LabelGrid g = label_grid(paper);
         return g.columns * g.rows;
@@ -36,9 +41,13 @@ int label_copies(const PrintJob& job, Paper paper, int copies) {
 
 PrintController::PrintController(QObject* parent) : QObject(parent) {}
 
-QStringList PrintController::printers() const { return QPrinterInfo::availablePrinterNames(); }
+QStringList PrintController::printers() const {
+    return QPrinterInfo::availablePrinterNames();
+}
 
-QString PrintController::defaultPrinter() const { return QPrinterInfo::defaultPrinterName(); }
+QString PrintController::defaultPrinter() const {
+    return QPrinterInfo::defaultPrinterName();
+}
 
 bool PrintController::fail(const QString& field, const QString& message) {
     last_error_field_ = field;
@@ -57,10 +66,12 @@ bool PrintController::succeed() {
 }
 
 QVariantMap PrintController::preview(const QVariantMap& document) {
-    if (!data_) return fail("data", "no reference data loaded"), QVariantMap{};
+    if (!data_)
+        return fail("data", "no reference data loaded"), QVariantMap{};
     try {
         // The evaluation alone: a preview needs no deviation note (printing does).
-        const BatchDocument doc = read_batch_document(*data_, QJsonObject::fromVariantMap(document));
+        const BatchDocument doc =
+            read_batch_document(*data_, QJsonObject::fromVariantMap(document));
         succeed();
         return doc.summary.toVariantMap();
     } catch (const chem::Error& e) {
@@ -69,14 +80,19 @@ QVariantMap PrintController::preview(const QVariantMap& document) {
     }
 }
 
-bool PrintController::saveSheet(const QVariantMap& document, const QString& path, const QString& paper_name) {
-    if (!data_) return fail("data", "no reference data loaded");
+bool PrintController::saveSheet(const QVariantMap& document, const QString& path,
+                                const QString& paper_name) {
+    if (!data_)
+        return fail("data", "no reference data loaded");
     try {
         const Paper paper = paper_from_name(paper_name);
-        if (paper == Paper::label62) throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
-        const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
-        write_pdf_atomically(local_path(path), job.title,
-                             [&](QPagedPaintDevice& d) { return render_sheet(d, job.sheet, paper); });
+        if (paper == Paper::label62)
+            throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
+        const PrintJob job =
+            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+        write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
+            return render_sheet(d, job.sheet, paper);
+        });
         succeed();
         emit printed(job.sheet.batch_id, "sheet " + paper_name + " pdf");
         return true;
@@ -85,15 +101,18 @@ bool PrintController::saveSheet(const QVariantMap& document, const QString& path
     }
 }
 
-bool PrintController::saveLabels(const QVariantMap& document, const QString& path, const QString& paper_name,
-                                 int copies) {
-    if (!data_) return fail("data", "no reference data loaded");
+bool PrintController::saveLabels(const QVariantMap& document, const QString& path,
+                                 const QString& paper_name, int copies) {
+    if (!data_)
+        return fail("data", "no reference data loaded");
     try {
         const Paper paper = paper_from_name(paper_name);
-        const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+        const PrintJob job =
+            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
         const int n = label_copies(job, paper, copies);
-        write_pdf_atomically(local_path(path), job.title,
-                             [&](QPagedPaintDevice& d) { return render_labels(d, job.labels, paper, n); });
+        write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
+            return render_labels(d, job.labels, paper, n);
+        });
         succeed();
         emit printed(job.sheet.batch_id, "labels " + paper_name + " pdf");
         return true;
@@ -102,19 +121,23 @@ bool PrintController::saveLabels(const QVariantMap& document, const QString& pat
     }
 }
 
-int PrintController::paintSheet(QPrinter& printer, const QVariantMap& document, const QString& paper_name) {
-    if (!data_) throw chem::Error("data", "no reference data loaded");
+int PrintController::paintSheet(QPrinter& printer, const QVariantMap& document,
+                                const QString& paper_name) {
+    if (!data_)
+        throw chem::Error("data", "no reference data loaded");
     const Paper paper = paper_from_name(paper_name);
-    if (paper == Paper::label62) throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
+    if (paper == Paper::label62)
+        throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
     const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
     printer.setDocName(job.title);
     printer.setFullPage(true); // the layout keeps its own margins
     return render_sheet(printer, job.sheet, paper);
 }
 
-int PrintController::paintLabels(QPrinter& printer, const QVariantMap& document, const QString& paper_name,
-                                 int copies) {
-    if (!data_) throw chem::Error("data", "no reference data loaded");
+int PrintController::paintLabels(QPrinter& printer, const QVariantMap& document,
+                                 const QString& paper_name, int copies) {
+    if (!data_)
+        throw chem::Error("data", "no reference data loaded");
     const Paper paper = paper_from_name(paper_name);
     const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
     printer.setDocName(job.title);
@@ -122,13 +145,17 @@ int PrintController::paintLabels(QPrinter& printer, const QVariantMap& document,
     return render_labels(printer, job.labels, paper, label_copies(job, paper, copies));
 }
 
-bool PrintController::print_on(const QString& printer_name, const std::function<int(QPrinter&)>& paint) {
+bool PrintController::print_on(const QString& printer_name,
+                               const std::function<int(QPrinter&)>& paint) {
     const QString name = printer_name.isEmpty() ? defaultPrinter() : printer_name;
-    if (name.isEmpty()) return fail("printer", "no printer is set up on this system: save as PDF instead");
-    if (!printers().contains(name)) return fail("printer", "\"" + name + "\" is not a known printer");
+    if (name.isEmpty())
+        return fail("printer", "no printer is set up on this system: save as PDF instead");
+    if (!printers().contains(name))
+        return fail("printer", "\"" + name + "\" is not a known printer");
     try {
         QPrinter printer(QPrinterInfo::printerInfo(name), QPrinter::HighResolution);
-        if (!printer.isValid()) return fail("printer", "\"" + name + "\" cannot be used");
+        if (!printer.isValid())
+            return fail("printer", "\"" + name + "\" cannot be used");
         paint(printer);
         return succeed();
     } catch (const chem::Error& e) {
@@ -136,30 +163,34 @@ bool PrintController::print_on(const QString& printer_name, const std::function<
     }
 }
 
-bool PrintController::printSheet(const QVariantMap& document, const QString& printer, const QString& paper) {
+bool PrintController::printSheet(const QVariantMap& document, const QString& printer,
+                                 const QString& paper) {
     QString id;
     const bool ok = print_on(printer, [&](QPrinter& p) {
         id = document.value("batch").toMap().value("id").toString();
         return paintSheet(p, document, paper);
     });
-    if (ok) emit printed(id, "sheet " + paper + " printer");
+    if (ok)
+        emit printed(id, "sheet " + paper + " printer");
     return ok;
 }
 
-bool PrintController::printLabels(const QVariantMap& document, const QString& printer, const QString& paper,
-                                  int copies) {
+bool PrintController::printLabels(const QVariantMap& document, const QString& printer,
+                                  const QString& paper, int copies) {
     QString id;
     const bool ok = print_on(printer, [&](QPrinter& p) {
         id = document.value("batch").toMap().value("id").toString();
         return paintLabels(p, document, paper, copies);
     });
-    if (ok) emit printed(id, "labels " + paper + " printer");
+    if (ok)
+        emit printed(id, "labels " + paper + " printer");
     return ok;
 }
 
 QString PrintController::suggestedFileName(const QVariantMap& document, const QString& what) const {
     QString id = document.value("batch").toMap().value("id").toString().trimmed();
-    if (id.isEmpty()) id = QStringLiteral("batch");
+    if (id.isEmpty())
+        id = QStringLiteral("batch");
     id.replace(QRegularExpression(QStringLiteral("[^A-Za-z0-9._-]+")), QStringLiteral("_"));
     return id + "-" + (what.isEmpty() ? QStringLiteral("sheet") : what) + ".pdf";
 }

@@ -38,7 +38,7 @@ class PrintController : public QObject, public DocumentOutput {
     /// The system's default printer, "" when none.
     Q_PROPERTY(QString defaultPrinter READ defaultPrinter NOTIFY printersChanged)
 
-public:
+  public:
     explicit PrintController(QObject* parent = nullptr);
     /// The reference data to design from; must outlive the controller's use. Without it every
     /// call fails with field "data".
@@ -55,7 +55,8 @@ public:
 
     /// Saves the sheet (paper "a4" or "letter") as a PDF at `path` (a local path or a file:
     /// URL). True on success; emits printed(batchId, "sheet <paper> pdf").
-    Q_INVOKABLE bool saveSheet(const QVariantMap& document, const QString& path, const QString& paper = "a4");
+    Q_INVOKABLE bool saveSheet(const QVariantMap& document, const QString& path,
+                               const QString& paper = "a4");
     /// Saves the labels ("a4", "letter" sheets of 2 × 4, or "label62"); copies 0 = the default
     /// (a full sheet, or one 62 mm label).
     Q_INVOKABLE bool saveLabels(const QVariantMap& document, const QString& path,
@@ -66,20 +67,25 @@ public:
     Q_INVOKABLE bool printLabels(const QVariantMap& document, const QString& printer = {},
                                  const QString& paper = "label62", int copies = 0);
     /// "<batch id>-sheet.pdf" / "<batch id>-labels.pdf", safe as a file name.
-    Q_INVOKABLE QString suggestedFileName(const QVariantMap& document, const QString& what = "sheet") const;
+    Q_INVOKABLE QString suggestedFileName(const QVariantMap& document,
+                                          const QString& what = "sheet") const;
 
     /// The painting behind printSheet / printLabels on a printer set up by the caller (tests
     /// print through a QPrinter in PDF mode). Throws chem::Error like the CLI.
     int paintSheet(QPrinter& printer, const QVariantMap& document, const QString& paper);
-    int paintLabels(QPrinter& printer, const QVariantMap& document, const QString& paper, int copies);
+    int paintLabels(QPrinter& printer, const QVariantMap& document, const QString& paper,
+                    int copies);
 
     // ---- DocumentOutput ------------------------------------------------------------------------
-    bool writePdf(const QString& what, const QVariantMap& document, const QString& path, const QString& paper) override {
-        return what == QLatin1String("labels") ? saveLabels(document, path, paper) : saveSheet(document, path, paper);
+    bool writePdf(const QString& what, const QVariantMap& document, const QString& path,
+                  const QString& paper) override {
+        return what == QLatin1String("labels") ? saveLabels(document, path, paper)
+                                               : saveSheet(document, path, paper);
     }
     bool sendToPrinter(const QString& what, const QVariantMap& document, const QString& printer,
                        const QString& paper) override {
-        return what == QLatin1String("labels") ? printLabels(document, printer, paper) : printSheet(document, printer, paper);
+        return what == QLatin1String("labels") ? printLabels(document, printer, paper)
+                                               : printSheet(document, printer, paper);
     }
     QStringList printerNames() const override { return printers(); }
     QString outputError() const override { return last_error_; }
@@ -88,14 +94,14 @@ public:
         return suggestedFileName(document, what);
     }
 
-signals:
+  signals:
     void lastErrorChanged();
     void printersChanged();
     /// After a successful save or print: the app records it in the batch's history
     /// (storage::BatchStore::mark_printed), so later changes need an amendment.
     void printed(const QString& batchId, const QString& what);
 
-private:
+  private:
     bool fail(const QString& field, const QString& message);
     bool succeed();
     bool print_on(const QString& printer_name, const std::function<int(QPrinter&)>& paint);

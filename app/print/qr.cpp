@@ -16,7 +16,8 @@ constexpr int quiet_zone_modules = 4; // ISO/IEC 18004 (from memory)
 }
 
 std::vector<bool> qr_modules(const QString& text, int* width, const std::string& field) {
-    if (text.isEmpty()) throw chem::Error(field, "is empty: nothing to put in the QR code");
+    if (text.isEmpty())
+        throw chem::Error(field, "is empty: nothing to put in the QR code");
     const QByteArray utf8 = text.toUtf8();
     // Byte mode keeps the text exactly as given (case-sensitive ids); level M survives a
     // scuffed label.
@@ -28,8 +29,10 @@ std::vector<bool> qr_modules(const QString& text, int* width, const std::string&
                                      std::to_string(utf8.size()) + " bytes)");
     const int n = code->width;
     std::vector<bool> m(static_cast<size_t>(n) * n);
-    for (int i = 0; i < n * n; ++i) m[i] = code->data[i] & 1; // bit 0: dark module
-    if (width) *width = n;
+    for (int i = 0; i < n * n; ++i)
+        m[i] = code->data[i] & 1; // bit 0: dark module
+    if (width)
+        *width = n;
     return m;
 }
 
@@ -56,9 +59,13 @@ void paint_qr_code(QPainter& painter, const QRectF& box, const QString& text,
     for (int y = 0; y < n; ++y) {
         int x = 0;
         while (x < n) {
-            if (!m[static_cast<size_t>(y) * n + x]) { ++x; continue; }
+            if (!m[static_cast<size_t>(y) * n + x]) {
+                ++x;
+                continue;
+            }
             int run = x;
-            while (run < n && m[static_cast<size_t>(y) * n + run]) ++run;
+            while (run < n && m[static_cast<size_t>(y) * n + run])
+                ++run;
             // a hair of overlap downwards hides seams between rows in rasterised PDFs
             painter.drawRect(QRectF(origin.x() + (quiet_zone_modules + x) * module,
                                     origin.y() + (quiet_zone_modules + y) * module,

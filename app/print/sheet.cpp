@@ -31,15 +31,16 @@ namespace phaseplan::print {
 
 namespace {
 
-constexpr int pdf_dpi = 300;                ///< device pixels per inch of the PDF writer
-constexpr double sheet_margin_mm = 15;      ///< left/right margin of sheets
-constexpr double header_top_mm = 9;         ///< baseline area of the running header
+constexpr int pdf_dpi = 300;           ///< device pixels per inch of the PDF writer
+constexpr double sheet_margin_mm = 15; ///< left/right margin of sheets
+constexpr double header_top_mm = 9;    ///< baseline area of the running header
 constexpr double body_top_mm = 21;
-constexpr double body_bottom_gap_mm = 20;   ///< space kept for the footer
-constexpr double label62_width_mm = 62;     ///< a common continuous label-roll width
+constexpr double body_bottom_gap_mm = 20; ///< space kept for the footer
+constexpr double label62_width_mm = 62;   ///< a common continuous label-roll width
 constexpr double label62_height_mm = 100;
 
-const char* font_family = "DejaVu Sans";    ///< fonts-dejavu-core: in the package list, full Unicode (β, ±, °)
+const char* font_family =
+    "DejaVu Sans"; ///< fonts-dejavu-core: in the package list, full Unicode (β, ±, °)
 
 const QColor ink(0x11, 0x11, 0x11);
 const QColor muted(0x55, 0x55, 0x55);
@@ -51,8 +52,10 @@ const QColor caution_amber(0xA0, 0x60, 0x00);
 
 QPageSize page_size(Paper paper) {
     switch (paper) {
-    case Paper::a4: return QPageSize(QPageSize::A4);
-    case Paper::letter: return QPageSize(QPageSize::Letter);
+    case Paper::a4:
+        return QPageSize(QPageSize::A4);
+    case Paper::letter:
+        return QPageSize(QPageSize::Letter);
     case Paper::label62:
         return QPageSize(QSizeF(label62_width_mm, label62_height_mm), QPageSize::Millimeter,
                          QStringLiteral("Label 62 mm"));
@@ -79,7 +82,7 @@ QFont make_font(qreal points, bool bold = false) {
 /// Painting with a dry-run mode: the first pass measures and counts pages (no painter), the
 /// second paints with the page count known ("page 2 of 3").
 class Canvas {
-public:
+  public:
     Canvas(QPagedPaintDevice& device, QPainter* painter) : device_(device), p_(painter) {
         px_per_mm_ = device.logicalDpiX() / 25.4;
     }
@@ -92,7 +95,8 @@ public:
 
     qreal height_of(const QFont& font, qreal width, const QString& text,
                     int flags = Qt::TextWordWrap) const {
-        if (text.isEmpty()) return QFontMetricsF(font, &device_).height();
+        if (text.isEmpty())
+            return QFontMetricsF(font, &device_).height();
         QFontMetricsF fm(font, &device_);
         return fm.boundingRect(QRectF(0, 0, width, 1e7), flags | Qt::AlignLeft | Qt::AlignTop, text)
             .height();
@@ -104,29 +108,34 @@ public:
 
     void text(const QRectF& r, const QFont& font, const QString& s, int flags = Qt::TextWordWrap,
               const QColor& color = ink) {
-        if (!p_) return;
+        if (!p_)
+            return;
         p_->setFont(font);
         p_->setPen(color);
-        p_->drawText(r, flags | ((flags & Qt::AlignHorizontal_Mask) ? 0 : Qt::AlignLeft) |
-                            ((flags & Qt::AlignVertical_Mask) ? 0 : Qt::AlignTop),
+        p_->drawText(r,
+                     flags | ((flags & Qt::AlignHorizontal_Mask) ? 0 : Qt::AlignLeft) |
+                         ((flags & Qt::AlignVertical_Mask) ? 0 : Qt::AlignTop),
                      s);
     }
     void fill(const QRectF& r, const QColor& c) {
-        if (p_) p_->fillRect(r, c);
+        if (p_)
+            p_->fillRect(r, c);
     }
     void line(QPointF a, QPointF b, const QColor& c = rule, qreal width_mm = 0.2) {
-        if (!p_) return;
+        if (!p_)
+            return;
         p_->setPen(QPen(c, mm(width_mm)));
         p_->drawLine(a, b);
     }
     void box(const QRectF& r, const QColor& c = rule, qreal width_mm = 0.2) {
-        if (!p_) return;
+        if (!p_)
+            return;
         p_->setPen(QPen(c, mm(width_mm)));
         p_->setBrush(Qt::NoBrush);
         p_->drawRect(r);
     }
 
-private:
+  private:
     QPagedPaintDevice& device_;
     QPainter* p_;
     qreal px_per_mm_ = 1;
@@ -135,7 +144,7 @@ private:
 // ---- sheets ----------------------------------------------------------------------------------
 
 class SheetFlow {
-public:
+  public:
     SheetFlow(Canvas& c, const SheetDocument& doc, int total_pages)
         : c_(c), doc_(doc), total_(total_pages) {
         left_ = c.mm(sheet_margin_mm);
@@ -157,7 +166,7 @@ public:
         return page_;
     }
 
-private:
+  private:
     void begin_page() {
         y_ = top_;
         const QFont small = make_font(7.5);
@@ -167,7 +176,8 @@ private:
                 "Batch " + doc_.batch_id + " · page " + QString::number(page_) + " of " +
                     QString::number(std::max(total_, page_)),
                 Qt::AlignRight, muted);
-        c_.line(QPointF(left_, head.bottom() + c_.mm(1)), QPointF(left_ + width_, head.bottom() + c_.mm(1)));
+        c_.line(QPointF(left_, head.bottom() + c_.mm(1)),
+                QPointF(left_ + width_, head.bottom() + c_.mm(1)));
         const QFont foot = make_font(6.5);
         const qreal fh = c_.height_of(foot, width_, doc_.footer);
         const qreal fy = c_.page_height() - c_.mm(8) - fh;
@@ -180,21 +190,24 @@ private:
             const qreal mh = c_.height_of(mf, width_ - 2 * pad, doc_.mark) + 2 * pad;
             const QRectF box(left_, y_, width_, mh);
             c_.box(box, warning_red, 0.6);
-            c_.text(box.adjusted(pad, pad, -pad, -pad), mf, doc_.mark, Qt::AlignHCenter | Qt::TextWordWrap, warning_red);
+            c_.text(box.adjusted(pad, pad, -pad, -pad), mf, doc_.mark,
+                    Qt::AlignHCenter | Qt::TextWordWrap, warning_red);
             y_ += mh + c_.mm(2.5);
         }
         page_top_ = y_;
     }
 
     void new_page() {
-        if (!c_.dry()) c_.device().newPage();
+        if (!c_.dry())
+            c_.device().newPage();
         ++page_;
         begin_page();
     }
 
     /// Starts a new page unless `h` fits below the cursor (or the page is still empty).
     void need(qreal h) {
-        if (y_ + h > bottom_ && y_ > page_top_ + 1) new_page();
+        if (y_ + h > bottom_ && y_ > page_top_ + 1)
+            new_page();
     }
 
     void title_block() {
@@ -204,16 +217,19 @@ private:
         const QFont title = make_font(15, true);
         qreal y = y_;
         const qreal kh = c_.height_of(kind, text_w, doc_.kind_title);
-        c_.text(QRectF(left_, y, text_w, kh), kind, doc_.kind_title.toUpper(), Qt::TextWordWrap, muted);
+        c_.text(QRectF(left_, y, text_w, kh), kind, doc_.kind_title.toUpper(), Qt::TextWordWrap,
+                muted);
         y += kh + c_.mm(1);
         const qreal th = c_.height_of(title, text_w, doc_.title);
         c_.text(QRectF(left_, y, text_w, th), title, doc_.title);
         y += th;
         if (!doc_.batch_id.isEmpty()) {
             const QRectF qr(left_ + width_ - qr_side, y_ - c_.mm(1), qr_side, qr_side);
-            if (QPainter* p = c_.painter()) paint_qr_code(*p, qr, doc_.batch_id);
+            if (QPainter* p = c_.painter())
+                paint_qr_code(*p, qr, doc_.batch_id);
             const QFont idf = make_font(7);
-            c_.text(QRectF(qr.left() - c_.mm(10), qr.bottom(), qr_side + c_.mm(10), c_.line_height(idf)),
+            c_.text(QRectF(qr.left() - c_.mm(10), qr.bottom(), qr_side + c_.mm(10),
+                           c_.line_height(idf)),
                     idf, doc_.batch_id, Qt::AlignRight, muted);
             y = std::max(y, qr.bottom() + c_.line_height(idf));
         }
@@ -222,34 +238,59 @@ private:
 
     void block(const Block& b) {
         switch (b.kind) {
-        case Block::Kind::heading: heading(b.text, 0); break;
-        case Block::Kind::paragraph: paragraph(b.text); break;
-        case Block::Kind::fields: fields(b.fields); break;
-        case Block::Kind::table: table(b.table); break;
-        case Block::Kind::numbered: list(b.items, true); break;
-        case Block::Kind::bullets: list(b.items, false); break;
-        case Block::Kind::warnings: warnings(b.warnings); break;
-        case Block::Kind::hazards: hazards(b); break;
-        case Block::Kind::signoff: signoff(b.fields); break;
-        case Block::Kind::notice: notice(b); break;
+        case Block::Kind::heading:
+            heading(b.text, 0);
+            break;
+        case Block::Kind::paragraph:
+            paragraph(b.text);
+            break;
+        case Block::Kind::fields:
+            fields(b.fields);
+            break;
+        case Block::Kind::table:
+            table(b.table);
+            break;
+        case Block::Kind::numbered:
+            list(b.items, true);
+            break;
+        case Block::Kind::bullets:
+            list(b.items, false);
+            break;
+        case Block::Kind::warnings:
+            warnings(b.warnings);
+            break;
+        case Block::Kind::hazards:
+            hazards(b);
+            break;
+        case Block::Kind::signoff:
+            signoff(b.fields);
+            break;
+        case Block::Kind::notice:
+            notice(b);
+            break;
         }
     }
 
     /// How much of a block must fit below its heading: a short table whole, a long one its
     /// header and first row, anything else about two lines.
     qreal start_height(const Block& b) const {
-        if (b.kind != Block::Kind::table) return c_.mm(14);
+        if (b.kind != Block::Kind::table)
+            return c_.mm(14);
         const QList<qreal> widths = column_widths(b.table);
         const QFont hf = make_font(7.5, true);
         const QFont cf = make_font(8.2);
         const qreal min_row = c_.mm(7.5);
         qreal total = measure_row(b.table.headers, widths, hf, 0);
-        const qreal first = total + (b.table.rows.isEmpty() ? 0 : measure_row(b.table.rows[0], widths, cf, min_row));
-        for (const QStringList& row : b.table.rows) total += measure_row(row, widths, cf, min_row);
+        const qreal first =
+            total +
+            (b.table.rows.isEmpty() ? 0 : measure_row(b.table.rows[0], widths, cf, min_row));
+        for (const QStringList& row : b.table.rows)
+            total += measure_row(row, widths, cf, min_row);
         return total < 0.4 * (bottom_ - top_) ? total : first;
     }
 
-    qreal measure_row(const QStringList& cells, const QList<qreal>& widths, const QFont& f, qreal min_h) const {
+    qreal measure_row(const QStringList& cells, const QList<qreal>& widths, const QFont& f,
+                      qreal min_h) const {
         const qreal pad = c_.mm(1.2);
         qreal h = min_h;
         for (int i = 0; i < widths.size(); ++i)
@@ -260,7 +301,8 @@ private:
     void heading(const QString& s, qreal keep_with) {
         const QFont f = make_font(11, true);
         const qreal h = c_.height_of(f, width_, s);
-        need(h + c_.mm(5) + std::max(keep_with, c_.mm(14))); // keep the heading with the start of its block
+        need(h + c_.mm(5) +
+             std::max(keep_with, c_.mm(14))); // keep the heading with the start of its block
         y_ += c_.mm(2.5);
         c_.text(QRectF(left_, y_, width_, h), f, s);
         y_ += h + c_.mm(0.6);
@@ -310,7 +352,8 @@ private:
             w << wi;
             sum += wi;
         }
-        for (qreal& x : w) x = x / sum * width_;
+        for (qreal& x : w)
+            x = x / sum * width_;
         return w;
     }
 
@@ -320,9 +363,11 @@ private:
         qreal h = min_h;
         for (int i = 0; i < widths.size(); ++i)
             h = std::max(h, c_.height_of(f, widths[i] - 2 * pad, cells.value(i)) + 2 * pad);
-        if (dry_measure) return h;
+        if (dry_measure)
+            return h;
         qreal x = left_;
-        if (fill_color.isValid()) c_.fill(QRectF(left_, y_, width_, h), fill_color);
+        if (fill_color.isValid())
+            c_.fill(QRectF(left_, y_, width_, h), fill_color);
         for (int i = 0; i < widths.size(); ++i) {
             c_.text(QRectF(x + pad, y_ + pad, widths[i] - 2 * pad, h - 2 * pad), f, cells.value(i));
             c_.box(QRectF(x, y_, widths[i], h));
@@ -338,9 +383,11 @@ private:
         const qreal min_row = c_.mm(7.5); // room to write an amount by hand
         auto header = [&] { y_ += table_row(t.headers, widths, hf, false, header_fill, 0); };
         const qreal hh = table_row(t.headers, widths, hf, true, {}, 0);
-        const qreal first = t.rows.isEmpty() ? 0 : table_row(t.rows[0], widths, cf, true, {}, min_row);
+        const qreal first =
+            t.rows.isEmpty() ? 0 : table_row(t.rows[0], widths, cf, true, {}, min_row);
         qreal total = hh;
-        for (const QStringList& row : t.rows) total += table_row(row, widths, cf, true, {}, min_row);
+        for (const QStringList& row : t.rows)
+            total += table_row(row, widths, cf, true, {}, min_row);
         // A short table stays on one page; a long one starts where it is and repeats its header.
         need(total < 0.4 * (bottom_ - top_) ? total : hh + first);
         header();
@@ -360,14 +407,15 @@ private:
     void list(const QStringList& items, bool numbered) {
         const QFont f = make_font(8.8);
         const qreal gutter = c_.mm(numbered ? 7 : 4.5);
-        const qreal tick = numbered ? c_.mm(4) : 0;          // a box to tick each step done
+        const qreal tick = numbered ? c_.mm(4) : 0; // a box to tick each step done
         const qreal text_w = width_ - gutter - (numbered ? tick + c_.mm(3) : 0);
         for (int i = 0; i < items.size(); ++i) {
             const qreal h = std::max(c_.height_of(f, text_w, items[i]), numbered ? tick : 0.0);
             need(h);
             c_.text(QRectF(left_, y_, gutter, h), f, numbered ? QString::number(i + 1) + "." : "•");
             c_.text(QRectF(left_ + gutter, y_, text_w, h), f, items[i]);
-            if (numbered) c_.box(QRectF(left_ + width_ - tick, y_, tick, tick), muted, 0.25);
+            if (numbered)
+                c_.box(QRectF(left_ + width_ - tick, y_, tick, tick), muted, 0.25);
             y_ += h + c_.mm(1.4);
         }
         y_ += c_.mm(1);
@@ -390,10 +438,12 @@ private:
             const QColor col = w.severity == "warning"   ? warning_red
                                : w.severity == "caution" ? caution_amber
                                                          : muted;
-            c_.text(QRectF(left_, y_ + c_.mm(0.3), gutter, h), tag, w.severity.toUpper(), Qt::AlignLeft, col);
+            c_.text(QRectF(left_, y_ + c_.mm(0.3), gutter, h), tag, w.severity.toUpper(),
+                    Qt::AlignLeft, col);
             c_.text(QRectF(left_ + gutter, y_, text_w, h), f, body);
-            c_.text(QRectF(left_ + gutter, y_ + h - c_.line_height(code), text_w, c_.line_height(code)),
-                    code, w.code, Qt::AlignLeft, muted);
+            c_.text(
+                QRectF(left_ + gutter, y_ + h - c_.line_height(code), text_w, c_.line_height(code)),
+                code, w.code, Qt::AlignLeft, muted);
             y_ += h + c_.mm(1.4);
         }
         y_ += c_.mm(1);
@@ -411,7 +461,8 @@ private:
                 need(side + cap_h + c_.mm(1));
                 for (int j = i; j < std::min<int>(i + per_row, pics.size()); ++j) {
                     const qreal x = left_ + (j - i) * cell;
-                    if (QPainter* p = c_.painter()) paint_ghs_pictogram(*p, QRectF(x, y_, side, side), pics[j]);
+                    if (QPainter* p = c_.painter())
+                        paint_ghs_pictogram(*p, QRectF(x, y_, side, side), pics[j]);
                     c_.text(QRectF(x - c_.mm(1), y_ + side, side + c_.mm(2), cap_h), cap,
                             pics[j] + "\n" + ghs_pictogram_name(pics[j]),
                             Qt::AlignHCenter | Qt::TextWordWrap, muted);
@@ -423,9 +474,11 @@ private:
         const QFont f = make_font(8.5);
         const qreal gutter = c_.mm(17);
         for (const HazardLine& h : b.hazard_lines) {
-            const QString s = (h.statement.isEmpty() ? QStringLiteral("(not in this program's table: see the safety data sheet)")
-                                                     : h.statement) +
-                              (h.from.isEmpty() ? QString() : QStringLiteral(" — ") + h.from);
+            const QString s =
+                (h.statement.isEmpty()
+                     ? QStringLiteral("(not in this program's table: see the safety data sheet)")
+                     : h.statement) +
+                (h.from.isEmpty() ? QString() : QStringLiteral(" — ") + h.from);
             const qreal hh = c_.height_of(f, width_ - gutter, s);
             need(hh);
             c_.text(QRectF(left_, y_, gutter, hh), cf, h.code);
@@ -446,7 +499,8 @@ private:
         const qreal pad = c_.mm(2.5);
         const qreal inner_w = width_ - 2 * pad;
         qreal h = c_.height_of(hf, inner_w, b.text) + c_.mm(1.5);
-        for (const QString& item : b.items) h += c_.height_of(f, inner_w - c_.mm(4), item) + c_.mm(0.8);
+        for (const QString& item : b.items)
+            h += c_.height_of(f, inner_w - c_.mm(4), item) + c_.mm(0.8);
         h += 2 * pad;
         need(h);
         const QRectF box(left_, y_, width_, h);
@@ -475,9 +529,12 @@ private:
             qreal x = left_;
             for (int i = 0; i < widths.size(); ++i) {
                 c_.box(QRectF(x, y_, widths[i], h), muted, 0.25);
-                const QRectF inner(x + c_.mm(1.2), y_ + c_.mm(1), widths[i] - c_.mm(2.4), h - c_.mm(2));
-                if (i == 0) c_.text(inner, make_font(9, true), r.key);
-                else c_.text(inner, kf, heads[i].toUpper(), Qt::AlignLeft, muted);
+                const QRectF inner(x + c_.mm(1.2), y_ + c_.mm(1), widths[i] - c_.mm(2.4),
+                                   h - c_.mm(2));
+                if (i == 0)
+                    c_.text(inner, make_font(9, true), r.key);
+                else
+                    c_.text(inner, kf, heads[i].toUpper(), Qt::AlignLeft, muted);
                 if (i == 1 && !r.value.isEmpty())
                     c_.text(QRectF(inner.left(), inner.top() + c_.line_height(kf), inner.width(),
                                    inner.height() - c_.line_height(kf)),
@@ -503,27 +560,31 @@ struct TextItem {
     QFont font;
     QString text;
     QColor color = ink;
-    bool boxed = false;   ///< framed (the out-of-tolerance mark)
+    bool boxed = false; ///< framed (the out-of-tolerance mark)
 };
 
 constexpr double box_pad_mm = 0.8;
 
 qreal item_height(Canvas& c, const TextItem& t, qreal width) {
-    if (!t.boxed) return c.height_of(t.font, width, t.text);
-    return c.height_of(t.font, width - 2 * c.mm(box_pad_mm), t.text, Qt::TextWordWrap | Qt::AlignHCenter) +
+    if (!t.boxed)
+        return c.height_of(t.font, width, t.text);
+    return c.height_of(t.font, width - 2 * c.mm(box_pad_mm), t.text,
+                       Qt::TextWordWrap | Qt::AlignHCenter) +
            2 * c.mm(box_pad_mm);
 }
 
 qreal stack_height(Canvas& c, const QList<TextItem>& items, qreal width) {
     qreal h = 0;
     for (const TextItem& t : items)
-        if (!t.text.isEmpty()) h += item_height(c, t, width) + c.mm(0.4);
+        if (!t.text.isEmpty())
+            h += item_height(c, t, width) + c.mm(0.4);
     return h;
 }
 
 qreal paint_stack(Canvas& c, const QList<TextItem>& items, qreal x, qreal y, qreal width) {
     for (const TextItem& t : items) {
-        if (t.text.isEmpty()) continue;
+        if (t.text.isEmpty())
+            continue;
         const qreal h = item_height(c, t, width);
         if (t.boxed) {
             const qreal pad = c.mm(box_pad_mm);
@@ -538,11 +599,14 @@ qreal paint_stack(Canvas& c, const QList<TextItem>& items, qreal x, qreal y, qre
     return y;
 }
 
-QString or_blank(const QString& s) { return s.isEmpty() ? QStringLiteral("__________") : s; }
+QString or_blank(const QString& s) {
+    return s.isEmpty() ? QStringLiteral("__________") : s;
+}
 
 QString hazard_codes_text(const LabelData& d) {
     QString s = sorted_hazard_codes(d.hazard_codes).join(' ');
-    if (!s.isEmpty()) s += QStringLiteral(" · ");
+    if (!s.isEmpty())
+        s += QStringLiteral(" · ");
     s += QStringLiteral("Hazards of the parts as supplied; read the safety data sheets.");
     return s;
 }
@@ -555,8 +619,8 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
     const bool wide = r.width() > r.height();
     const qreal qr_side = std::min(c.mm(24), wide ? in.height() * 0.5 : in.width() * 0.42);
     const QStringList pics = sorted_pictograms(d.pictograms);
-    const qreal pic_step = pics.isEmpty() ? 0.0
-                                          : std::min(c.mm(wide ? 11.5 : 11), in.width() * 0.95 / pics.size());
+    const qreal pic_step =
+        pics.isEmpty() ? 0.0 : std::min(c.mm(wide ? 11.5 : 11), in.width() * 0.95 / pics.size());
     const qreal pic_side = pic_step * 0.95;
     const QString codes = hazard_codes_text(d);
     const QString qr_text = d.qr_text.isEmpty() ? d.batch_id : d.qr_text;
@@ -566,8 +630,8 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
         const TextItem ph{make_font(9 * s, true), d.ph};
         const TextItem batch{make_font(7.5 * s, true), "Batch " + d.batch_id};
         const TextItem comp{make_font(6.8 * s), d.composition.join('\n')};
-        const TextItem prepared{make_font(7 * s),
-                                "Prepared " + or_blank(d.prepared_at) + " by " + or_blank(d.prepared_by)};
+        const TextItem prepared{make_font(7 * s), "Prepared " + or_blank(d.prepared_at) + " by " +
+                                                      or_blank(d.prepared_by)};
         const TextItem expires{make_font(7.5 * s, true), "Expires " + or_blank(d.expires_at)};
         const TextItem mark{make_font(7.5 * s, true), d.mark, warning_red, true};
         side.clear();
@@ -604,10 +668,12 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
                 std::max(stack_height(c, side, side_w), qr_side) + c.mm(1) +
                 stack_height(c, full, in.width());
         }
-        if (h + bottom_h + c.mm(1) <= in.height()) break;
+        if (h + bottom_h + c.mm(1) <= in.height())
+            break;
     }
     QPainter* p = c.painter();
-    if (!p) return;
+    if (!p)
+        return;
     const QFont small = make_font(5.8 * scale);
 
     c.box(r, QColor(0xBB, 0xBB, 0xBB), 0.15); // cut line
@@ -615,8 +681,8 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
         paint_stack(c, side, in.left(), in.top(), side_w);
         const QRectF qr(in.right() - qr_side, in.top(), qr_side, qr_side);
         paint_qr_code(*p, qr, qr_text);
-        c.text(QRectF(qr.left() - c.mm(6), qr.bottom(), qr_side + c.mm(6), c.line_height(small)), small,
-               qr_text, Qt::AlignRight, muted);
+        c.text(QRectF(qr.left() - c.mm(6), qr.bottom(), qr_side + c.mm(6), c.line_height(small)),
+               small, qr_text, Qt::AlignRight, muted);
     } else {
         qreal y = paint_stack(c, {title}, in.left(), in.top(), in.width()) + c.mm(0.6);
         const QRectF qr(in.right() - qr_side, y, qr_side, qr_side);
@@ -629,7 +695,8 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
     const qreal codes_h = c.height_of(small, in.width(), codes);
     const qreal pic_y = in.bottom() - codes_h - c.mm(0.5) - pic_side;
     for (int i = 0; i < pics.size(); ++i)
-        paint_ghs_pictogram(*p, QRectF(in.left() + i * pic_step, pic_y, pic_side, pic_side), pics[i]);
+        paint_ghs_pictogram(*p, QRectF(in.left() + i * pic_step, pic_y, pic_side, pic_side),
+                            pics[i]);
     c.text(QRectF(in.left(), in.bottom() - codes_h, in.width(), codes_h), small, codes,
            Qt::TextWordWrap, muted);
 }
@@ -638,17 +705,24 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
 
 Paper paper_from_name(const QString& name) {
     const QString n = name.trimmed().toLower();
-    if (n == "a4") return Paper::a4;
-    if (n == "letter") return Paper::letter;
-    if (n == "label62") return Paper::label62;
-    throw chem::Error("--paper", "\"" + name.toStdString() + "\" is not one of a4, letter, label62");
+    if (n == "a4")
+        return Paper::a4;
+    if (n == "letter")
+        return Paper::letter;
+    if (n == "label62")
+        return Paper::label62;
+    throw chem::Error("--paper",
+                      "\"" + name.toStdString() + "\" is not one of a4, letter, label62");
 }
 
 QString paper_name(Paper paper) {
     switch (paper) {
-    case Paper::a4: return "a4";
-    case Paper::letter: return "letter";
-    case Paper::label62: return "label62";
+    case Paper::a4:
+        return "a4";
+    case Paper::letter:
+        return "letter";
+    case Paper::label62:
+        return "label62";
     }
     return "a4";
 }
@@ -666,7 +740,8 @@ LabelGrid label_grid(Paper paper) {
     g.margin_left_mm = 8;
     g.margin_top_mm = 10;
     g.gap_mm = 4;
-    g.label_width_mm = (page.width() - 2 * g.margin_left_mm - (g.columns - 1) * g.gap_mm) / g.columns;
+    g.label_width_mm =
+        (page.width() - 2 * g.margin_left_mm - (g.columns - 1) * g.gap_mm) / g.columns;
     g.label_height_mm = (page.height() - 2 * g.margin_top_mm - (g.rows - 1) * g.gap_mm) / g.rows;
     return g;
 }
@@ -681,7 +756,8 @@ int render_sheet(QPagedPaintDevice& device, const SheetDocument& doc, Paper pape
         pages = SheetFlow(dry, doc, 0).run();
     }
     QPainter painter;
-    if (!painter.begin(&device)) throw chem::Error("-o", "cannot paint on the output device");
+    if (!painter.begin(&device))
+        throw chem::Error("-o", "cannot paint on the output device");
     painter.setRenderHint(QPainter::Antialiasing, true);
     Canvas c(device, &painter);
     const int painted = SheetFlow(c, doc, pages).run();
@@ -689,15 +765,19 @@ int render_sheet(QPagedPaintDevice& device, const SheetDocument& doc, Paper pape
     return painted;
 }
 
-int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Paper paper, int copies) {
+int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Paper paper,
+                  int copies) {
     set_page(device, paper);
     const LabelGrid g = label_grid(paper);
     QList<const LabelData*> all;
     for (const LabelData& l : labels)
-        for (int i = 0; i < copies; ++i) all << &l;
-    if (all.isEmpty()) throw chem::Error("batch", "there is nothing to put on a label");
+        for (int i = 0; i < copies; ++i)
+            all << &l;
+    if (all.isEmpty())
+        throw chem::Error("batch", "there is nothing to put on a label");
     QPainter painter;
-    if (!painter.begin(&device)) throw chem::Error("-o", "cannot paint on the output device");
+    if (!painter.begin(&device))
+        throw chem::Error("-o", "cannot paint on the output device");
     painter.setRenderHint(QPainter::Antialiasing, true);
     Canvas c(device, &painter);
     const int per_page = g.columns * g.rows;
@@ -729,23 +809,28 @@ QString checked_output_path(const QString& path, bool follow_symlinks, int& mode
     struct stat st {};
     mode = -1;
     if (::lstat(target.constData(), &st) != 0) {
-        if (errno == ENOENT) return path; // a new file
+        if (errno == ENOENT)
+            return path; // a new file
         throw chem::Error("-o", "cannot write " + shown + ": " + std::strerror(errno));
     }
     if (S_ISLNK(st.st_mode)) {
         if (!follow_symlinks)
-            throw chem::Error("-o", shown + " is a symbolic link; PhasePlan does not write through one"
-                                            " (give --follow-symlinks to write to its target)");
+            throw chem::Error("-o", shown +
+                                        " is a symbolic link; PhasePlan does not write through one"
+                                        " (give --follow-symlinks to write to its target)");
         char resolved[PATH_MAX];
         if (!::realpath(target.constData(), resolved)) {
             // A dangling link: its target does not exist yet; write the link's own target path.
             const QString t = QFileInfo(path).symLinkTarget();
-            if (t.isEmpty()) throw chem::Error("-o", "cannot resolve the link " + shown);
+            if (t.isEmpty())
+                throw chem::Error("-o", "cannot resolve the link " + shown);
             target = QFile::encodeName(t);
-            if (::lstat(target.constData(), &st) != 0) return t;
+            if (::lstat(target.constData(), &st) != 0)
+                return t;
         } else {
             target = resolved;
-            if (::lstat(target.constData(), &st) != 0) return QFile::decodeName(target);
+            if (::lstat(target.constData(), &st) != 0)
+                return QFile::decodeName(target);
         }
     }
     if (!S_ISREG(st.st_mode))
@@ -760,14 +845,16 @@ QString checked_output_path(const QString& path, bool follow_symlinks, int& mode
 } // namespace
 
 int write_pdf_atomically(const QString& path, const QString& title,
-                         const std::function<int(QPagedPaintDevice&)>& paint, bool follow_symlinks) {
-    if (path.isEmpty()) throw chem::Error("-o", "give the PDF file to write with -o FILE");
+                         const std::function<int(QPagedPaintDevice&)>& paint,
+                         bool follow_symlinks) {
+    if (path.isEmpty())
+        throw chem::Error("-o", "give the PDF file to write with -o FILE");
     int old_mode = -1;
     const QString target = checked_output_path(path, follow_symlinks, old_mode);
     QSaveFile file(target);
     if (!file.open(QIODevice::WriteOnly))
-        throw chem::Error("-o", "cannot write \"" + path.toStdString() + "\": " +
-                                    file.errorString().toStdString());
+        throw chem::Error("-o", "cannot write \"" + path.toStdString() +
+                                    "\": " + file.errorString().toStdString());
     int pages = 0;
     {
         QPdfWriter writer(&file);
@@ -777,10 +864,12 @@ int write_pdf_atomically(const QString& path, const QString& title,
         pages = paint(writer); // an exception here leaves QSaveFile uncommitted: no file appears
     }
     if (!file.commit())
-        throw chem::Error("-o", "cannot write \"" + path.toStdString() + "\": " +
-                                    file.errorString().toStdString());
-    // QSaveFile's new file has the default mode: a replaced file keeps its own (read-only stays so).
-    if (old_mode >= 0) ::chmod(QFile::encodeName(target).constData(), static_cast<mode_t>(old_mode));
+        throw chem::Error("-o", "cannot write \"" + path.toStdString() +
+                                    "\": " + file.errorString().toStdString());
+    // QSaveFile's new file has the default mode: a replaced file keeps its own (read-only stays
+    // so).
+    if (old_mode >= 0)
+        ::chmod(QFile::encodeName(target).constData(), static_cast<mode_t>(old_mode));
     return pages;
 }
 

@@ -29,57 +29,68 @@ struct KeyValue {
 
 struct Table {
     QStringList headers;
-    QList<qreal> weights;     ///< relative column widths; empty = equal
+    QList<qreal> weights; ///< relative column widths; empty = equal
     QList<QStringList> rows;
-    QList<bool> flagged;      ///< per row: drawn with a red background (out of tolerance)
+    QList<bool> flagged; ///< per row: drawn with a red background (out of tolerance)
 };
 
 struct WarningLine {
-    QString severity;         ///< "info", "caution", "warning"
+    QString severity; ///< "info", "caution", "warning"
     QString code;
     QString message;
 };
 
 struct HazardLine {
-    QString code;             ///< "H314"
-    QString statement;        ///< "Causes severe skin burns and eye damage"
-    QString from;             ///< the parts that carry it: "phosphoric acid, sodium hydroxide"
+    QString code;      ///< "H314"
+    QString statement; ///< "Causes severe skin burns and eye damage"
+    QString from;      ///< the parts that carry it: "phosphoric acid, sodium hydroxide"
 };
 
 struct Block {
-    enum class Kind { heading, paragraph, fields, table, numbered, bullets, warnings, hazards, signoff, notice };
+    enum class Kind {
+        heading,
+        paragraph,
+        fields,
+        table,
+        numbered,
+        bullets,
+        warnings,
+        hazards,
+        signoff,
+        notice
+    };
     Kind kind = Kind::paragraph;
-    QString text;                   ///< heading, paragraph; hazards: the note under the pictograms;
-                                    ///< notice: the boxed headline (its items are listed inside the box)
-    QList<KeyValue> fields;         ///< fields: shown in two columns
+    QString text;           ///< heading, paragraph; hazards: the note under the pictograms;
+                            ///< notice: the boxed headline (its items are listed inside the box)
+    QList<KeyValue> fields; ///< fields: shown in two columns
     Table table;
-    QStringList items;              ///< numbered, bullets; signoff: the roles ("Prepared by", …)
+    QStringList items; ///< numbered, bullets; signoff: the roles ("Prepared by", …)
     QList<WarningLine> warnings;
     QStringList pictograms;         ///< hazards: GHS01…GHS09
     QList<HazardLine> hazard_lines; ///< hazards
 };
 
 struct SheetDocument {
-    QString kind_title;   ///< "Buffer preparation record"
-    QString title;        ///< "Phosphate buffer pH 6.80, 25 mmol/L"
-    QString batch_id;     ///< in every page header and in the QR code on page 1
+    QString kind_title; ///< "Buffer preparation record"
+    QString title;      ///< "Phosphate buffer pH 6.80, 25 mmol/L"
+    QString batch_id;   ///< in every page header and in the QR code on page 1
     QList<Block> blocks;
-    QString footer;       ///< small print at the bottom of every page
+    QString footer; ///< small print at the bottom of every page
     /// When not empty: boxed in the running header of every page ("OUT OF TOLERANCE — …").
     QString mark;
 };
 
 struct LabelData {
-    QString title;            ///< what is in the bottle
-    QStringList composition;  ///< one line per part: "KH2PO4 12.50 mmol/L"
-    QString ph;               ///< "pH 6.80 at 25 °C" or ""
+    QString title;           ///< what is in the bottle
+    QStringList composition; ///< one line per part: "KH2PO4 12.50 mmol/L"
+    QString ph;              ///< "pH 6.80 at 25 °C" or ""
     QString batch_id;
-    QString prepared_at;      ///< as printed: "2026-12-01 16:30"
+    QString prepared_at; ///< as printed: "2026-12-01 16:30"
     QString expires_at;
     QString prepared_by;
     QStringList pictograms;
     QStringList hazard_codes;
-    QString qr_text;          ///< the batch id (what a scanner reads back)
+    QString qr_text; ///< the batch id (what a scanner reads back)
     /// When not empty: boxed across the label below the title ("OUT OF TOLERANCE — …").
     QString mark;
 };
@@ -90,7 +101,8 @@ int render_sheet(QPagedPaintDevice& device, const SheetDocument& doc, Paper pape
 
 /// Paints labels: on a4 or letter a grid of 2 × 4 labels per page; on label62 one label per page,
 /// 62 mm × 100 mm. Each entry of `labels` is repeated `copies` times. Returns the page count.
-int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Paper paper, int copies);
+int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Paper paper,
+                  int copies);
 
 /// Writes a PDF atomically: to a temporary file beside `path` (QSaveFile), renamed onto `path`
 /// only when `paint` returned. `paint` receives the writer and returns the page count. Throws
@@ -99,7 +111,8 @@ int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Pap
 /// and so is a symbolic link unless `follow_symlinks` (then its target, which must itself be a
 /// regular file or new, is written). A replaced file keeps its permission bits.
 int write_pdf_atomically(const QString& path, const QString& title,
-                         const std::function<int(QPagedPaintDevice&)>& paint, bool follow_symlinks = false);
+                         const std::function<int(QPagedPaintDevice&)>& paint,
+                         bool follow_symlinks = false);
 
 /// Label grid on a sheet of paper: columns, rows and the label size in mm.
 struct LabelGrid {

@@ -18,62 +18,76 @@ namespace {
 QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {}) {
     QSqlQuery q(db);
     if (!q.prepare(sql))
-        throw chem::Error("database", "cannot prepare \"" + sql.left(60).toStdString() + "\": " +
-                                          q.lastError().text().toStdString());
+        throw chem::Error("database", "cannot prepare \"" + sql.left(60).toStdString() +
+                                          "\": " + q.lastError().text().toStdString());
     for (int i = 0; i < bindings.size(); ++i) {
         // A null QString would bind as SQL NULL; the text columns hold '' for "not set".
         const QVariant& v = bindings[i];
-        if (v.typeId() == QMetaType::QString && v.toString().isNull()) q.bindValue(i, QString(""));
-        else q.bindValue(i, v);
+        if (v.typeId() == QMetaType::QString && v.toString().isNull())
+            q.bindValue(i, QString(""));
+        else
+            q.bindValue(i, v);
     }
     if (!q.exec())
-        throw chem::Error("database", "\"" + sql.left(60).toStdString() + "\" failed: " +
-                                          q.lastError().text().toStdString());
+        throw chem::Error("database", "\"" + sql.left(60).toStdString() +
+                                          "\" failed: " + q.lastError().text().toStdString());
     return q;
 }
 
 /// BEGIN IMMEDIATE … COMMIT; rolled back when commit() did not run.
 class Transaction {
-public:
+  public:
     explicit Transaction(QSqlDatabase db) : db_(db) { run(db_, "BEGIN IMMEDIATE"); }
     ~Transaction() {
-        if (!done_) QSqlQuery(db_).exec("ROLLBACK");
+        if (!done_)
+            QSqlQuery(db_).exec("ROLLBACK");
     }
     void commit() {
         run(db_, "COMMIT");
         done_ = true;
     }
 
-private:
+  private:
     QSqlDatabase db_;
     bool done_ = false;
 };
 
-QString compact(const QJsonObject& o) { return QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Compact)); }
-QString compact(const QJsonArray& a) { return QString::fromUtf8(QJsonDocument(a).toJson(QJsonDocument::Compact)); }
+QString compact(const QJsonObject& o) {
+    return QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Compact));
+}
+QString compact(const QJsonArray& a) {
+    return QString::fromUtf8(QJsonDocument(a).toJson(QJsonDocument::Compact));
+}
 
 /// A history value as text in the database: JSON, so numbers, strings and null survive.
 QVariant value_text(const QJsonValue& v) {
-    if (v.isNull() || v.isUndefined()) return QVariant();
+    if (v.isNull() || v.isUndefined())
+        return QVariant();
     return QString::fromUtf8(QJsonDocument(QJsonArray{v}).toJson(QJsonDocument::Compact));
 }
 QJsonValue value_from_text(const QVariant& v) {
-    if (v.isNull()) return QJsonValue::Null;
+    if (v.isNull())
+        return QJsonValue::Null;
     const QJsonArray a = QJsonDocument::fromJson(v.toString().toUtf8()).array();
     return a.isEmpty() ? QJsonValue(QJsonValue::Null) : a.at(0);
 }
 
 QString kind_of(const QJsonObject& input) {
-    if (input.contains("lines") && input.contains("sequence")) return QStringLiteral("sequence");
-    if (input.contains("parts") || input.contains("bottle_ml")) return QStringLiteral("line");
+    if (input.contains("lines") && input.contains("sequence"))
+        return QStringLiteral("sequence");
+    if (input.contains("parts") || input.contains("bottle_ml"))
+        return QStringLiteral("line");
     return QStringLiteral("recipe");
 }
 
-std::string str(const QString& s) { return s.toStdString(); }
+std::string str(const QString& s) {
+    return s.toStdString();
+}
 
 /// SQL NULL for an absent number.
-QVariant optional_real(const std::optional<double>& v) { return v ? QVariant(*v) : QVariant(QMetaType(QMetaType::Double)); }
-
+QVariant optional_real(const std::optional<double>& v) {
+    return v ? QVariant(*v) : QVariant(QMetaType(QMetaType::Double));
+}
 
 /// Checks the batch fields with the rules of chem::check_batch_fields and the actual amounts'
 /// shape (the amounts against a recipe are checked when the batch is evaluated for printing).
@@ -89,28 +103,36 @@ void validate(const BatchRecord& b) {
     cb.deviation_at = str(b.deviation_at);
     chem::check_batch_fields(cb, 1.0);
     if (!b.deviation_note.isEmpty() && b.deviation_note.trimmed().isEmpty())
-        throw chem::Error("batch.deviation.note", "is empty: say why the batch is used although it is out of tolerance");
+        throw chem::Error("batch.deviation.note",
+                          "is empty: say why the batch is used although it is out of tolerance");
     if (b.document_kind != "recipe" && b.document_kind != "line" && b.document_kind != "sequence")
-        throw chem::Error("document_kind", "\"" + str(b.document_kind) + "\" is not recipe, line or sequence");
+        throw chem::Error("document_kind",
+                          "\"" + str(b.document_kind) + "\" is not recipe, line or sequence");
     QStringList seen;
     for (int i = 0; i < b.actual.size(); ++i) {
         const std::string at = "batch.actual[" + std::to_string(i) + "]";
-        if (!b.actual[i].isObject()) throw chem::Error(at, "must be an object");
+        if (!b.actual[i].isObject())
+            throw chem::Error(at, "must be an object");
         const QJsonObject e = b.actual[i].toObject();
         const QString r = e.value("reagent").toString().trimmed();
-        if (r.isEmpty()) throw chem::Error(at + ".reagent", "is required");
-        if (seen.contains(r)) throw chem::Error(at + ".reagent", "\"" + str(r) + "\" is given twice");
+        if (r.isEmpty())
+            throw chem::Error(at + ".reagent", "is required");
+        if (seen.contains(r))
+            throw chem::Error(at + ".reagent", "\"" + str(r) + "\" is given twice");
         seen << r;
         const bool m = e.contains("mass_g"), v = e.contains("volume_ml");
-        if (m == v) throw chem::Error(at + ".mass_g", "give exactly one of mass_g and volume_ml");
+        if (m == v)
+            throw chem::Error(at + ".mass_g", "give exactly one of mass_g and volume_ml");
         const QJsonValue x = e.value(m ? "mass_g" : "volume_ml");
         if (!x.isDouble() || !(x.toDouble() > 0) || x.toDouble() > 1.0e6)
             throw chem::Error(at + (m ? ".mass_g" : ".volume_ml"), "must be a positive amount");
         if (e.contains("lot") && !e.value("lot").isString())
             throw chem::Error(at + ".lot", "must be a string");
-        if (e.contains("capture")) (void)read_capture(e.value("capture"), at + ".capture");
+        if (e.contains("capture"))
+            (void)read_capture(e.value("capture"), at + ".capture");
     }
-    if (!b.ph_capture.isEmpty()) (void)read_capture(b.ph_capture, "batch.measured_ph_capture");
+    if (!b.ph_capture.isEmpty())
+        (void)read_capture(b.ph_capture, "batch.measured_ph_capture");
     if (!b.ph_capture.isEmpty() && !b.measured_ph)
         throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
 }
@@ -119,7 +141,8 @@ void validate(const BatchRecord& b) {
 std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     std::map<QString, QJsonValue> f;
     auto put = [&](const QString& k, const QJsonValue& v) {
-        if (!(v.isString() && v.toString().isEmpty()) && !v.isNull() && !v.isUndefined()) f[k] = v;
+        if (!(v.isString() && v.toString().isEmpty()) && !v.isNull() && !v.isUndefined())
+            f[k] = v;
     };
     put("document_kind", b.document_kind);
     put("document", compact(b.document));
@@ -128,12 +151,14 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     put("expires_at", b.expires_at);
     put("checked_by", b.checked_by);
     put("tolerance_percent", b.tolerance_percent);
-    if (b.measured_ph) put("measured_ph", *b.measured_ph);
+    if (b.measured_ph)
+        put("measured_ph", *b.measured_ph);
     put("ph_tolerance", b.ph_tolerance);
     put("ph_meter_id", b.ph_meter_id);
     put("balance_id", b.balance_id);
     put("comment", b.comment);
-    if (b.container_ml) put("container_ml", *b.container_ml);
+    if (b.container_ml)
+        put("container_ml", *b.container_ml);
     put("deviation.note", b.deviation_note);
     put("deviation.by", b.deviation_by);
     put("deviation.at", b.deviation_at);
@@ -141,9 +166,11 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
         const QJsonObject e = v.toObject();
         const QString key = "actual[" + e.value("reagent").toString() + "]";
         for (const char* k : {"mass_g", "volume_ml", "lot", "capture"})
-            if (e.contains(k)) put(key + "." + k, e.value(k));
+            if (e.contains(k))
+                put(key + "." + k, e.value(k));
     }
-    if (!b.ph_capture.isEmpty()) put("measured_ph_capture", b.ph_capture);
+    if (!b.ph_capture.isEmpty())
+        put("measured_ph_capture", b.ph_capture);
     return f;
 }
 
@@ -169,12 +196,14 @@ BatchRecord record_from(const QSqlQuery& q) {
     b.first_printed_at = q.value(11).toString();
     b.created_at = q.value(12).toString();
     b.updated_at = q.value(13).toString();
-    if (!q.value(14).isNull()) b.measured_ph = q.value(14).toDouble();
+    if (!q.value(14).isNull())
+        b.measured_ph = q.value(14).toDouble();
     b.ph_tolerance = q.value(15).toDouble();
     b.ph_meter_id = q.value(16).toString();
     b.balance_id = q.value(17).toString();
     b.comment = q.value(18).toString();
-    if (!q.value(19).isNull()) b.container_ml = q.value(19).toDouble();
+    if (!q.value(19).isNull())
+        b.container_ml = q.value(19).toDouble();
     b.deviation_note = q.value(20).toString();
     b.deviation_by = q.value(21).toString();
     b.deviation_at = q.value(22).toString();
@@ -195,7 +224,8 @@ QStringList batch_schema_statements() {
         " prepared_at TEXT NOT NULL DEFAULT '',"
         " expires_at TEXT NOT NULL DEFAULT '',"
         " checked_by TEXT NOT NULL DEFAULT '',"
-        " tolerance_percent REAL NOT NULL DEFAULT 2 CHECK (tolerance_percent > 0 AND tolerance_percent <= 50),"
+        " tolerance_percent REAL NOT NULL DEFAULT 2 CHECK (tolerance_percent > 0 AND "
+        "tolerance_percent <= 50),"
         " actual TEXT NOT NULL DEFAULT '[]' CHECK (json_valid(actual)),"
         " revision INTEGER NOT NULL DEFAULT 1 CHECK (revision >= 1),"
         " printed_count INTEGER NOT NULL DEFAULT 0 CHECK (printed_count >= 0),"
@@ -226,7 +256,8 @@ QStringList batch_schema_statements() {
         "CREATE TRIGGER batches_fixed BEFORE UPDATE ON batches "
         "WHEN NEW.id IS NOT OLD.id OR NEW.created_at IS NOT OLD.created_at"
         " OR NEW.printed_count < OLD.printed_count OR NEW.revision < OLD.revision "
-        "BEGIN SELECT RAISE(ABORT, 'a batch keeps its id, creation time, revisions and prints'); END",
+        "BEGIN SELECT RAISE(ABORT, 'a batch keeps its id, creation time, revisions and prints'); "
+        "END",
         // A change of data needs the next revision and its history rows, written first; after
         // printing those rows must be an amendment.
         "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
@@ -237,15 +268,18 @@ QStringList batch_schema_statements() {
         " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
         "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
         "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END",
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
+        "amendment)'); END",
     };
 }
 
 QStringList batch_schema_bench_statements() {
     QStringList s;
     for (const char* col : {
-             "measured_ph REAL CHECK (measured_ph IS NULL OR (measured_ph >= 0 AND measured_ph <= 14))",
-             "ph_tolerance REAL NOT NULL DEFAULT 0.05 CHECK (ph_tolerance > 0 AND ph_tolerance <= 2)",
+             "measured_ph REAL CHECK (measured_ph IS NULL OR (measured_ph >= 0 AND measured_ph <= "
+             "14))",
+             "ph_tolerance REAL NOT NULL DEFAULT 0.05 CHECK (ph_tolerance > 0 AND ph_tolerance <= "
+             "2)",
              "ph_meter_id TEXT NOT NULL DEFAULT ''",
              "balance_id TEXT NOT NULL DEFAULT ''",
              "comment TEXT NOT NULL DEFAULT ''",
@@ -265,19 +299,22 @@ QStringList batch_schema_bench_statements() {
         " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
         " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
         " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
-        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT OLD.deviation_by"
+        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT "
+        "OLD.deviation_by"
         " OR NEW.deviation_at IS NOT OLD.deviation_at)"
         " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
         "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
         "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END");
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
+        "amendment)'); END");
     return s;
 }
 
 QStringList batch_schema_capture_statements() {
     QStringList s;
-    s << QStringLiteral("ALTER TABLE batches ADD COLUMN measured_ph_capture TEXT NOT NULL DEFAULT '{}'"
-                        " CHECK (json_valid(measured_ph_capture))");
+    s << QStringLiteral(
+        "ALTER TABLE batches ADD COLUMN measured_ph_capture TEXT NOT NULL DEFAULT '{}'"
+        " CHECK (json_valid(measured_ph_capture))");
     s << QStringLiteral("DROP TRIGGER batches_changes_recorded");
     s << QStringLiteral(
         "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
@@ -288,13 +325,15 @@ QStringList batch_schema_capture_statements() {
         " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
         " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
         " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
-        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT OLD.deviation_by"
+        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT "
+        "OLD.deviation_by"
         " OR NEW.deviation_at IS NOT OLD.deviation_at"
         " OR NEW.measured_ph_capture IS NOT OLD.measured_ph_capture)"
         " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
         "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
         "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an amendment)'); END");
+        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
+        "amendment)'); END");
     return s;
 }
 
@@ -303,23 +342,36 @@ QStringList batch_schema_capture_statements() {
 QJsonObject BatchRecord::to_input() const {
     QJsonObject doc = document;
     QJsonObject b{{"id", id}};
-    if (!prepared_by.isEmpty()) b["prepared_by"] = prepared_by;
-    if (!prepared_at.isEmpty()) b["prepared_at"] = prepared_at;
-    if (!expires_at.isEmpty()) b["expires_at"] = expires_at;
-    if (!checked_by.isEmpty()) b["checked_by"] = checked_by;
+    if (!prepared_by.isEmpty())
+        b["prepared_by"] = prepared_by;
+    if (!prepared_at.isEmpty())
+        b["prepared_at"] = prepared_at;
+    if (!expires_at.isEmpty())
+        b["expires_at"] = expires_at;
+    if (!checked_by.isEmpty())
+        b["checked_by"] = checked_by;
     b["tolerance_percent"] = tolerance_percent;
-    if (!actual.isEmpty()) b["actual"] = actual;
-    if (measured_ph) b["measured_ph"] = *measured_ph;
-    if (!ph_capture.isEmpty()) b["measured_ph_capture"] = ph_capture;
+    if (!actual.isEmpty())
+        b["actual"] = actual;
+    if (measured_ph)
+        b["measured_ph"] = *measured_ph;
+    if (!ph_capture.isEmpty())
+        b["measured_ph_capture"] = ph_capture;
     b["ph_tolerance"] = ph_tolerance;
-    if (!ph_meter_id.isEmpty()) b["ph_meter_id"] = ph_meter_id;
-    if (!balance_id.isEmpty()) b["balance_id"] = balance_id;
-    if (!comment.isEmpty()) b["comment"] = comment;
-    if (container_ml) b["container_ml"] = *container_ml;
+    if (!ph_meter_id.isEmpty())
+        b["ph_meter_id"] = ph_meter_id;
+    if (!balance_id.isEmpty())
+        b["balance_id"] = balance_id;
+    if (!comment.isEmpty())
+        b["comment"] = comment;
+    if (container_ml)
+        b["container_ml"] = *container_ml;
     if (!deviation_note.isEmpty()) {
         QJsonObject dev{{"note", deviation_note}};
-        if (!deviation_by.isEmpty()) dev["by"] = deviation_by;
-        if (!deviation_at.isEmpty()) dev["at"] = deviation_at;
+        if (!deviation_by.isEmpty())
+            dev["by"] = deviation_by;
+        if (!deviation_at.isEmpty())
+            dev["at"] = deviation_at;
         b["deviation"] = dev;
     }
     doc["batch"] = b;
@@ -327,13 +379,16 @@ QJsonObject BatchRecord::to_input() const {
 }
 
 BatchRecord BatchRecord::from_input(const QJsonObject& input) {
-    if (!input.value("batch").isObject()) throw chem::Error("batch", "is required: an object with an id");
+    if (!input.value("batch").isObject())
+        throw chem::Error("batch", "is required: an object with an id");
     const QJsonObject b = input.value("batch").toObject();
     BatchRecord r;
     auto text = [&](const char* key) -> QString {
         const QJsonValue v = b.value(key);
-        if (v.isUndefined() || v.isNull()) return {};
-        if (!v.isString()) throw chem::Error(std::string("batch.") + key, "must be a string");
+        if (v.isUndefined() || v.isNull())
+            return {};
+        if (!v.isString())
+            throw chem::Error(std::string("batch.") + key, "must be a string");
         return v.toString().trimmed();
     };
     r.id = text("id");
@@ -348,23 +403,28 @@ BatchRecord BatchRecord::from_input(const QJsonObject& input) {
     }
     auto number = [&](const char* key) -> std::optional<double> {
         const QJsonValue v = b.value(key);
-        if (v.isUndefined() || v.isNull()) return std::nullopt;
-        if (!v.isDouble()) throw chem::Error(std::string("batch.") + key, "must be a number");
+        if (v.isUndefined() || v.isNull())
+            return std::nullopt;
+        if (!v.isDouble())
+            throw chem::Error(std::string("batch.") + key, "must be a number");
         return v.toDouble();
     };
     r.measured_ph = number("measured_ph");
     if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
         if (!b.value("measured_ph_capture").isObject())
-            throw chem::Error("batch.measured_ph_capture", "must be an object {device_id, raw, received_at, …}");
+            throw chem::Error("batch.measured_ph_capture",
+                              "must be an object {device_id, raw, received_at, …}");
         r.ph_capture = b.value("measured_ph_capture").toObject();
     }
-    if (auto t = number("ph_tolerance")) r.ph_tolerance = *t;
+    if (auto t = number("ph_tolerance"))
+        r.ph_tolerance = *t;
     r.ph_meter_id = text("ph_meter_id");
     r.balance_id = text("balance_id");
     r.comment = text("comment");
     r.container_ml = number("container_ml");
     if (b.contains("deviation") && !b.value("deviation").isNull()) {
-        if (!b.value("deviation").isObject()) throw chem::Error("batch.deviation", "must be an object {note, by, at}");
+        if (!b.value("deviation").isObject())
+            throw chem::Error("batch.deviation", "must be an object {note, by, at}");
         const QJsonObject d = b.value("deviation").toObject();
         for (const char* k : {"note", "by", "at"})
             if (d.contains(k) && !d.value(k).isString())
@@ -373,10 +433,13 @@ BatchRecord BatchRecord::from_input(const QJsonObject& input) {
         r.deviation_by = d.value("by").toString().trimmed();
         r.deviation_at = d.value("at").toString().trimmed();
         if (r.deviation_note.isEmpty())
-            throw chem::Error("batch.deviation.note", "is empty: say why the batch is used although it is out of tolerance");
+            throw chem::Error(
+                "batch.deviation.note",
+                "is empty: say why the batch is used although it is out of tolerance");
     }
     if (b.contains("actual") && !b.value("actual").isNull()) {
-        if (!b.value("actual").isArray()) throw chem::Error("batch.actual", "must be an array");
+        if (!b.value("actual").isArray())
+            throw chem::Error("batch.actual", "must be an array");
         r.actual = b.value("actual").toArray();
     }
     r.document = input;
@@ -393,26 +456,34 @@ BatchStore::BatchStore(QSqlDatabase db) : db_(db) {}
 void BatchStore::ensure_schema(QSqlDatabase db) {
     bool present = false;
     {
-        QSqlQuery q = run(db, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = 'batches'");
+        QSqlQuery q =
+            run(db, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = 'batches'");
         present = q.next() && q.value(0).toInt() > 0;
     }
     bool bench = false;
     if (present) {
-        QSqlQuery q = run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph'");
+        QSqlQuery q =
+            run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph'");
         bench = q.next() && q.value(0).toInt() > 0;
     }
     bool capture = false;
     if (bench) {
-        QSqlQuery q = run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph_capture'");
+        QSqlQuery q = run(
+            db,
+            "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph_capture'");
         capture = q.next() && q.value(0).toInt() > 0;
     }
-    if (present && bench && capture) return;
+    if (present && bench && capture)
+        return;
     Transaction tx(db);
     if (!present)
-        for (const QString& s : batch_schema_statements()) run(db, s);
+        for (const QString& s : batch_schema_statements())
+            run(db, s);
     if (!bench)
-        for (const QString& s : batch_schema_bench_statements()) run(db, s);
-    for (const QString& s : batch_schema_capture_statements()) run(db, s);
+        for (const QString& s : batch_schema_bench_statements())
+            run(db, s);
+    for (const QString& s : batch_schema_capture_statements())
+        run(db, s);
     tx.commit();
 }
 
@@ -422,7 +493,8 @@ QString BatchStore::now() const {
 }
 
 void BatchStore::create(const BatchRecord& batch, const QString& who) {
-    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who made each change");
+    if (who.trimmed().isEmpty())
+        throw chem::Error("who", "is required: the history names who made each change");
     validate(batch);
     Transaction tx(db_);
     if (run(db_, "SELECT 1 FROM batches WHERE id = ?", {batch.id}).next())
@@ -434,42 +506,67 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
         " created_at, updated_at, measured_ph, ph_tolerance, ph_meter_id, balance_id, comment,"
         " container_ml, deviation_note, deviation_by, deviation_at, measured_ph_capture)"
         " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, 1, 0, '', ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
-        {batch.id, batch.document_kind, compact(batch.document), batch.prepared_by, batch.prepared_at,
-         batch.expires_at, batch.checked_by, batch.tolerance_percent, compact(batch.actual), t, t,
-         optional_real(batch.measured_ph), batch.ph_tolerance, batch.ph_meter_id, batch.balance_id,
-         batch.comment, optional_real(batch.container_ml), batch.deviation_note, batch.deviation_by,
-         batch.deviation_at, compact(batch.ph_capture)});
+        {batch.id,
+         batch.document_kind,
+         compact(batch.document),
+         batch.prepared_by,
+         batch.prepared_at,
+         batch.expires_at,
+         batch.checked_by,
+         batch.tolerance_percent,
+         compact(batch.actual),
+         t,
+         t,
+         optional_real(batch.measured_ph),
+         batch.ph_tolerance,
+         batch.ph_meter_id,
+         batch.balance_id,
+         batch.comment,
+         optional_real(batch.container_ml),
+         batch.deviation_note,
+         batch.deviation_by,
+         batch.deviation_at,
+         compact(batch.ph_capture)});
     for (const auto& [field, value] : flatten(batch))
         run(db_,
-            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
+            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
+            "new_value)"
             " VALUES (?, 1, ?, ?, 'create', ?, NULL, ?)",
             {batch.id, t, who.trimmed(), field, value_text(value)});
     tx.commit();
 }
 
 QString BatchStore::propose_id(const QString& prefix_in, const QDate& date) const {
-    const QString prefix = (prefix_in.trimmed().isEmpty() ? QStringLiteral("B") : prefix_in.trimmed()) + "-" +
-                           date.toString(QStringLiteral("yyyyMMdd")) + "-";
-    QSqlQuery q = run(db_, "SELECT id FROM batches WHERE substr(id, 1, ?) = ?", {prefix.size(), prefix});
+    const QString prefix =
+        (prefix_in.trimmed().isEmpty() ? QStringLiteral("B") : prefix_in.trimmed()) + "-" +
+        date.toString(QStringLiteral("yyyyMMdd")) + "-";
+    QSqlQuery q =
+        run(db_, "SELECT id FROM batches WHERE substr(id, 1, ?) = ?", {prefix.size(), prefix});
     int highest = 0;
     while (q.next()) {
         bool ok = false;
         const int n = q.value(0).toString().mid(prefix.size()).toInt(&ok);
-        if (ok) highest = std::max(highest, n);
+        if (ok)
+            highest = std::max(highest, n);
     }
     return prefix + QStringLiteral("%1").arg(highest + 1, 3, 10, QChar('0'));
 }
 
 std::optional<BatchRecord> BatchStore::load(const QString& id) const {
-    QSqlQuery q = run(db_, QStringLiteral("SELECT %1 FROM batches WHERE id = ?").arg(QLatin1String(select_columns)), {id});
-    if (!q.next()) return std::nullopt;
+    QSqlQuery q = run(
+        db_,
+        QStringLiteral("SELECT %1 FROM batches WHERE id = ?").arg(QLatin1String(select_columns)),
+        {id});
+    if (!q.next())
+        return std::nullopt;
     return record_from(q);
 }
 
 QStringList BatchStore::list() const {
     QSqlQuery q = run(db_, "SELECT id FROM batches ORDER BY updated_at DESC, id");
     QStringList out;
-    while (q.next()) out << q.value(0).toString();
+    while (q.next())
+        out << q.value(0).toString();
     return out;
 }
 
@@ -486,15 +583,18 @@ bool BatchStore::amend(const QString& id, const BatchRecord& next, const QString
 
 bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QString& who,
                         const QString& action, const QString& reason) {
-    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who made each change");
+    if (who.trimmed().isEmpty())
+        throw chem::Error("who", "is required: the history names who made each change");
     BatchRecord next = next_in;
     next.id = id; // the id is the key; it never changes
     validate(next);
     Transaction tx(db_);
     const std::optional<BatchRecord> cur = load(id);
-    if (!cur) throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    if (!cur)
+        throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
     if (cur->printed() && action == "edit")
-        throw chem::Error("batch", "batch \"" + str(id) + "\" was printed on " + str(cur->first_printed_at) +
+        throw chem::Error("batch", "batch \"" + str(id) + "\" was printed on " +
+                                       str(cur->first_printed_at) +
                                        ": a change is an amendment with a reason, not an edit");
     const auto before = flatten(*cur);
     const auto after = flatten(next);
@@ -502,17 +602,21 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
     for (const auto& [k, v] : before) {
         auto it = after.find(k);
         const QJsonValue nv = it == after.end() ? QJsonValue(QJsonValue::Null) : it->second;
-        if (nv != v) diff[k] = {v, nv};
+        if (nv != v)
+            diff[k] = {v, nv};
     }
     for (const auto& [k, v] : after)
-        if (!before.count(k)) diff[k] = {QJsonValue(QJsonValue::Null), v};
-    if (diff.empty()) return false;
+        if (!before.count(k))
+            diff[k] = {QJsonValue(QJsonValue::Null), v};
+    if (diff.empty())
+        return false;
 
     const int revision = cur->revision + 1;
     const QString t = now();
     for (const auto& [field, values] : diff)
         run(db_,
-            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value, reason)"
+            "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
+            "new_value, reason)"
             " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?)",
             {id, revision, t, who.trimmed(), action, field, value_text(values.first),
              value_text(values.second), reason});
@@ -522,27 +626,47 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         " updated_at = ?, measured_ph = ?, ph_tolerance = ?, ph_meter_id = ?, balance_id = ?,"
         " comment = ?, container_ml = ?, deviation_note = ?, deviation_by = ?, deviation_at = ?,"
         " measured_ph_capture = ? WHERE id = ?",
-        {next.document_kind, compact(next.document), next.prepared_by, next.prepared_at,
-         next.expires_at, next.checked_by, next.tolerance_percent, compact(next.actual), revision, t,
-         optional_real(next.measured_ph), next.ph_tolerance, next.ph_meter_id, next.balance_id,
-         next.comment, optional_real(next.container_ml), next.deviation_note, next.deviation_by,
-         next.deviation_at, compact(next.ph_capture), id});
+        {next.document_kind,
+         compact(next.document),
+         next.prepared_by,
+         next.prepared_at,
+         next.expires_at,
+         next.checked_by,
+         next.tolerance_percent,
+         compact(next.actual),
+         revision,
+         t,
+         optional_real(next.measured_ph),
+         next.ph_tolerance,
+         next.ph_meter_id,
+         next.balance_id,
+         next.comment,
+         optional_real(next.container_ml),
+         next.deviation_note,
+         next.deviation_by,
+         next.deviation_at,
+         compact(next.ph_capture),
+         id});
     tx.commit();
     return true;
 }
 
 void BatchStore::mark_printed(const QString& id, const QString& who, const QString& what) {
-    if (who.trimmed().isEmpty()) throw chem::Error("who", "is required: the history names who printed");
+    if (who.trimmed().isEmpty())
+        throw chem::Error("who", "is required: the history names who printed");
     Transaction tx(db_);
     const std::optional<BatchRecord> cur = load(id);
-    if (!cur) throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    if (!cur)
+        throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
     const QString t = now();
     run(db_,
-        "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, new_value)"
+        "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
+        "new_value)"
         " VALUES (?, ?, ?, ?, 'print', 'printed_count', ?, ?)",
         {id, cur->revision, t, who.trimmed(), value_text(cur->printed_count),
-         value_text(QJsonValue(what.isEmpty() ? QString::number(cur->printed_count + 1)
-                                              : QString::number(cur->printed_count + 1) + ": " + what))});
+         value_text(QJsonValue(what.isEmpty()
+                                   ? QString::number(cur->printed_count + 1)
+                                   : QString::number(cur->printed_count + 1) + ": " + what))});
     run(db_,
         "UPDATE batches SET printed_count = printed_count + 1,"
         " first_printed_at = CASE WHEN first_printed_at = '' THEN ? ELSE first_printed_at END,"
@@ -552,10 +676,11 @@ void BatchStore::mark_printed(const QString& id, const QString& who, const QStri
 }
 
 std::vector<HistoryEntry> BatchStore::history(const QString& id) const {
-    QSqlQuery q = run(db_,
-                      "SELECT seq, batch_id, revision, at, who, action, field, old_value, new_value, reason"
-                      " FROM batch_history WHERE batch_id = ? ORDER BY seq",
-                      {id});
+    QSqlQuery q =
+        run(db_,
+            "SELECT seq, batch_id, revision, at, who, action, field, old_value, new_value, reason"
+            " FROM batch_history WHERE batch_id = ? ORDER BY seq",
+            {id});
     std::vector<HistoryEntry> out;
     while (q.next()) {
         HistoryEntry h;

@@ -42,11 +42,11 @@ QStringList batch_schema_capture_statements();
 /// One batch as stored. The batch fields are those of the "batch" object of the CLI contract.
 struct BatchRecord {
     QString id;
-    QString document_kind = "recipe";   ///< "recipe", "line" or "sequence"
-    QJsonObject document;               ///< the contract document it was made from, without "batch"
+    QString document_kind = "recipe"; ///< "recipe", "line" or "sequence"
+    QJsonObject document;             ///< the contract document it was made from, without "batch"
     QString prepared_by;
-    QString prepared_at;                ///< ISO 8601 local, "" = not yet
-    QString expires_at;                 ///< ISO 8601 local, "" = from the shelf life
+    QString prepared_at; ///< ISO 8601 local, "" = not yet
+    QString expires_at;  ///< ISO 8601 local, "" = from the shelf life
     QString checked_by;
     double tolerance_percent = 2;
     /// [{"reagent", "mass_g" | "volume_ml", "lot", "capture"}]; "capture" only for a value taken
@@ -54,9 +54,9 @@ struct BatchRecord {
     /// "stable", "accepted_unstable", "calibration_due", "calibration_caution"}, the first three
     /// required. Absent = typed.
     QJsonArray actual;
-    std::optional<double> measured_ph;  ///< the meter's reading; absent = not measured
-    QJsonObject ph_capture;             ///< the same record for a pH taken from the meter; {} = typed
-    double ph_tolerance = 0.05;         ///< ± pH units allowed around the target
+    std::optional<double> measured_ph; ///< the meter's reading; absent = not measured
+    QJsonObject ph_capture;     ///< the same record for a pH taken from the meter; {} = typed
+    double ph_tolerance = 0.05; ///< ± pH units allowed around the target
     QString ph_meter_id;
     QString balance_id;
     QString comment;
@@ -66,9 +66,9 @@ struct BatchRecord {
     QString deviation_at;               ///< when, ISO 8601 local
     int revision = 1;                   ///< +1 on every recorded change
     int printed_count = 0;
-    QString first_printed_at;           ///< UTC, "" when never printed
-    QString created_at;                 ///< UTC
-    QString updated_at;                 ///< UTC
+    QString first_printed_at; ///< UTC, "" when never printed
+    QString created_at;       ///< UTC
+    QString updated_at;       ///< UTC
 
     bool printed() const { return printed_count > 0; }
     /// The document with its "batch" object: the input of `phaseplan-cli sheet` / `labels`.
@@ -79,20 +79,21 @@ struct BatchRecord {
 };
 
 struct HistoryEntry {
-    qint64 seq = 0;          ///< order of writing
+    qint64 seq = 0; ///< order of writing
     QString batch_id;
-    int revision = 0;        ///< the batch's revision after the change (print: the one printed)
-    QString at;              ///< UTC ISO 8601
+    int revision = 0; ///< the batch's revision after the change (print: the one printed)
+    QString at;       ///< UTC ISO 8601
     QString who;
-    QString action;          ///< "create", "edit", "amend", "print"
-    QString field;           ///< "prepared_by", "actual[phosphoric-acid].volume_ml", "document", "measured_ph", …
-    QJsonValue old_value;    ///< null when the field was unset
+    QString action; ///< "create", "edit", "amend", "print"
+    QString
+        field; ///< "prepared_by", "actual[phosphoric-acid].volume_ml", "document", "measured_ph", …
+    QJsonValue old_value; ///< null when the field was unset
     QJsonValue new_value;
-    QString reason;          ///< amendments: why
+    QString reason; ///< amendments: why
 };
 
 class BatchStore {
-public:
+  public:
     /// Uses an open connection whose schema has the batch tables (see ensure_schema).
     explicit BatchStore(QSqlDatabase db);
 
@@ -119,7 +120,8 @@ public:
 
     /// Changes a batch after printing (or before): recorded as action "amend" with the reason.
     /// Throws chem::Error("reason", …) for an empty reason.
-    bool amend(const QString& id, const BatchRecord& next, const QString& who, const QString& reason);
+    bool amend(const QString& id, const BatchRecord& next, const QString& who,
+               const QString& reason);
 
     /// Records that the batch was printed (what: "sheet a4", "labels label62", …).
     void mark_printed(const QString& id, const QString& who, const QString& what);
@@ -130,9 +132,9 @@ public:
     /// Test seam: the clock used for created_at / updated_at / history times (UTC).
     void set_clock(std::function<QDateTime()> clock) { clock_ = std::move(clock); }
 
-private:
-    bool change(const QString& id, const BatchRecord& next, const QString& who, const QString& action,
-                const QString& reason);
+  private:
+    bool change(const QString& id, const BatchRecord& next, const QString& who,
+                const QString& action, const QString& reason);
     QString now() const;
 
     QSqlDatabase db_;

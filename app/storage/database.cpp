@@ -26,15 +26,21 @@ namespace {
 
 const char* table_of(DocumentKind kind) {
     switch (kind) {
-    case DocumentKind::buffer: return "buffers";
-    case DocumentKind::line: return "lines";
-    case DocumentKind::method: return "methods";
-    case DocumentKind::sequence: return "sequences";
+    case DocumentKind::buffer:
+        return "buffers";
+    case DocumentKind::line:
+        return "lines";
+    case DocumentKind::method:
+        return "methods";
+    case DocumentKind::sequence:
+        return "sequences";
     }
     return "buffers";
 }
 
-QString now_utc() { return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs); }
+QString now_utc() {
+    return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
+}
 
 QDateTime parse_time(const QString& s) {
     QDateTime t = QDateTime::fromString(s, Qt::ISODateWithMs);
@@ -46,9 +52,13 @@ QString to_text(const QJsonObject& o) {
     return QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Compact));
 }
 
-QJsonObject from_text(const QString& s) { return QJsonDocument::fromJson(s.toUtf8()).object(); }
+QJsonObject from_text(const QString& s) {
+    return QJsonDocument::fromJson(s.toUtf8()).object();
+}
 
-[[noreturn]] void fail(const QString& what) { throw chem::Error("database", what.toStdString()); }
+[[noreturn]] void fail(const QString& what) {
+    throw chem::Error("database", what.toStdString());
+}
 
 QString unique_connection_name() {
     static QAtomicInt counter;
@@ -59,23 +69,29 @@ QString unique_connection_name() {
 
 QString kind_name(DocumentKind kind) {
     switch (kind) {
-    case DocumentKind::buffer: return QStringLiteral("buffer");
-    case DocumentKind::line: return QStringLiteral("line");
-    case DocumentKind::method: return QStringLiteral("method");
-    case DocumentKind::sequence: return QStringLiteral("sequence");
+    case DocumentKind::buffer:
+        return QStringLiteral("buffer");
+    case DocumentKind::line:
+        return QStringLiteral("line");
+    case DocumentKind::method:
+        return QStringLiteral("method");
+    case DocumentKind::sequence:
+        return QStringLiteral("sequence");
     }
     return {};
 }
 
 std::optional<DocumentKind> kind_from_name(const QString& name) {
     for (DocumentKind k : all_document_kinds)
-        if (kind_name(k) == name) return k;
+        if (kind_name(k) == name)
+            return k;
     return std::nullopt;
 }
 
 QString Database::default_path() {
     QString dir = QStandardPaths::writableLocation(QStandardPaths::AppDataLocation);
-    if (dir.isEmpty()) dir = QDir::homePath() + QStringLiteral("/.phaseplan");
+    if (dir.isEmpty())
+        dir = QDir::homePath() + QStringLiteral("/.phaseplan");
     return dir + QStringLiteral("/phaseplan.sqlite");
 }
 
@@ -85,7 +101,9 @@ namespace {
 /// application_id was set are recognised by them).
 const char* const marker_tables[] = {"buffers", "lines", "methods", "sequences", "settings"};
 
-QString quoted(const QString& path) { return QLatin1Char('"') + path + QLatin1Char('"'); }
+QString quoted(const QString& path) {
+    return QLatin1Char('"') + path + QLatin1Char('"');
+}
 
 /// SQLite's primary result code (the low byte of an extended one).
 int primary_code(const QSqlError& e) {
@@ -94,7 +112,8 @@ int primary_code(const QSqlError& e) {
     return ok ? (c & 0xff) : -1;
 }
 bool is_busy(const QSqlError& e) { // SQLITE_BUSY, SQLITE_LOCKED
-    return primary_code(e) == 5 || primary_code(e) == 6 || e.databaseText().contains(QLatin1String("locked"));
+    return primary_code(e) == 5 || primary_code(e) == 6 ||
+           e.databaseText().contains(QLatin1String("locked"));
 }
 bool is_read_only(const QSqlError& e) { // SQLITE_READONLY
     return primary_code(e) == 8 || e.databaseText().contains(QLatin1String("readonly"));
@@ -102,16 +121,18 @@ bool is_read_only(const QSqlError& e) { // SQLITE_READONLY
 
 QString locked_reason(const QString& path) {
     return quoted(path) +
-           QStringLiteral(" is locked by another program (another PhasePlan, a backup or a copy tool)"
-                          " and stayed locked for %1 s: nothing you change is saved. Close the other"
-                          " program, or ask whoever uses this computer with you, then restart PhasePlan.")
+           QStringLiteral(
+               " is locked by another program (another PhasePlan, a backup or a copy tool)"
+               " and stayed locked for %1 s: nothing you change is saved. Close the other"
+               " program, or ask whoever uses this computer with you, then restart PhasePlan.")
                .arg(busy_timeout_ms / 1000);
 }
 QString read_only_text(const QString& path) {
     return quoted(path) +
-           QStringLiteral(" cannot be written (file or folder permissions, or a read-only disk): nothing"
-                          " you change is saved. Ask whoever manages this computer for write access, or"
-                          " start PhasePlan with --database on a file you can write.");
+           QStringLiteral(
+               " cannot be written (file or folder permissions, or a read-only disk): nothing"
+               " you change is saved. Ask whoever manages this computer for write access, or"
+               " start PhasePlan with --database on a file you can write.");
 }
 
 /// Refuses a file that is not a PhasePlan database, without writing to it.
@@ -119,23 +140,27 @@ void check_is_phaseplan_file(const QString& path) {
     QFileInfo fi(path);
     if (!fi.isFile())
         fail(quoted(path) + QStringLiteral(" is not a regular file; give a database file"));
-    const QString left = QStringLiteral("; PhasePlan left it unchanged. Give another file with --database,"
-                                        " or move this one away to start a new database.");
+    const QString left =
+        QStringLiteral("; PhasePlan left it unchanged. Give another file with --database,"
+                       " or move this one away to start a new database.");
     if (fi.size() == 0)
         fail(quoted(path) + QStringLiteral(" is an empty file, not a PhasePlan database") + left);
     QFile f(path);
     if (!f.open(QIODevice::ReadOnly))
-        fail(QStringLiteral("cannot read ") + quoted(path) + QStringLiteral(": ") + f.errorString());
+        fail(QStringLiteral("cannot read ") + quoted(path) + QStringLiteral(": ") +
+             f.errorString());
     const QByteArray head = f.read(16);
     f.close();
     if (head != QByteArray("SQLite format 3\0", 16))
-        fail(quoted(path) + QStringLiteral(" is not a PhasePlan database (not an SQLite file)") + left);
+        fail(quoted(path) + QStringLiteral(" is not a PhasePlan database (not an SQLite file)") +
+             left);
 
     const QString name = unique_connection_name();
     QString problem;
     {
         QSqlDatabase probe = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), name);
-        probe.setConnectOptions(QStringLiteral("QSQLITE_OPEN_READONLY;QSQLITE_BUSY_TIMEOUT=%1").arg(busy_timeout_ms));
+        probe.setConnectOptions(
+            QStringLiteral("QSQLITE_OPEN_READONLY;QSQLITE_BUSY_TIMEOUT=%1").arg(busy_timeout_ms));
         probe.setDatabaseName(path);
         if (!probe.open()) {
             problem = QStringLiteral(" cannot be opened: ") + probe.lastError().text();
@@ -144,59 +169,75 @@ void check_is_phaseplan_file(const QString& path) {
             qint64 app_id = -1;
             int version = -1;
             QStringList tables;
-            if (q.exec(QStringLiteral("PRAGMA application_id")) && q.next()) app_id = q.value(0).toLongLong();
-            if (q.exec(QStringLiteral("PRAGMA user_version")) && q.next()) version = q.value(0).toInt();
-            if (q.exec(QStringLiteral("SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name")))
-                while (q.next()) tables << q.value(0).toString();
+            if (q.exec(QStringLiteral("PRAGMA application_id")) && q.next())
+                app_id = q.value(0).toLongLong();
+            if (q.exec(QStringLiteral("PRAGMA user_version")) && q.next())
+                version = q.value(0).toInt();
+            if (q.exec(QStringLiteral(
+                    "SELECT name FROM sqlite_master WHERE type = 'table' ORDER BY name")))
+                while (q.next())
+                    tables << q.value(0).toString();
             if (app_id < 0 || version < 0) {
                 problem = QStringLiteral(" is not a PhasePlan database (SQLite cannot read it: ") +
                           q.lastError().text() + QStringLiteral(")");
             } else if (app_id != phaseplan_application_id) {
                 bool ours = app_id == 0 && version >= 1;
-                for (const char* t : marker_tables) ours = ours && tables.contains(QLatin1String(t));
+                for (const char* t : marker_tables)
+                    ours = ours && tables.contains(QLatin1String(t));
                 if (!ours) {
                     QStringList shown = tables.mid(0, 5);
-                    if (tables.size() > 5) shown << QStringLiteral("…");
-                    problem = QStringLiteral(" is another program's SQLite database, not PhasePlan's"
-                                             " (application_id %1, tables: %2)")
-                                  .arg(QString::number(app_id),
-                                       tables.isEmpty() ? QStringLiteral("none") : shown.join(QStringLiteral(", ")));
+                    if (tables.size() > 5)
+                        shown << QStringLiteral("…");
+                    problem =
+                        QStringLiteral(" is another program's SQLite database, not PhasePlan's"
+                                       " (application_id %1, tables: %2)")
+                            .arg(QString::number(app_id), tables.isEmpty()
+                                                              ? QStringLiteral("none")
+                                                              : shown.join(QStringLiteral(", ")));
                 }
             }
             probe.close();
         }
     }
     QSqlDatabase::removeDatabase(name);
-    if (!problem.isEmpty()) fail(quoted(path) + problem + left);
+    if (!problem.isEmpty())
+        fail(quoted(path) + problem + left);
 }
 
 } // namespace
 
 QString oversize_reason(const QString& text) {
     if (text.size() > max_record_bytes)
-        return QStringLiteral("%1 characters of stored text, above the %2 that PhasePlan reads back")
+        return QStringLiteral(
+                   "%1 characters of stored text, above the %2 that PhasePlan reads back")
             .arg(QString::number(text.size()), QString::number(max_record_bytes));
     // Below this length no array or string can pass its limit.
-    if (text.size() <= std::min(max_record_text_chars, 2 * max_record_array_items)) return {};
+    if (text.size() <= std::min(max_record_text_chars, 2 * max_record_array_items))
+        return {};
     const QJsonDocument doc = QJsonDocument::fromJson(text.toUtf8());
     QString reason;
     std::function<void(const QJsonValue&)> walk = [&](const QJsonValue& v) {
-        if (!reason.isEmpty()) return;
+        if (!reason.isEmpty())
+            return;
         if (v.isString() && v.toString().size() > max_record_text_chars) {
             reason = QStringLiteral("a text of %1 characters (limit %2)")
-                         .arg(QString::number(v.toString().size()), QString::number(max_record_text_chars));
+                         .arg(QString::number(v.toString().size()),
+                              QString::number(max_record_text_chars));
         } else if (v.isArray()) {
             const QJsonArray a = v.toArray();
             if (a.size() > max_record_array_items)
-                reason = QStringLiteral("a list of %1 entries (limit %2)")
-                             .arg(QString::number(a.size()), QString::number(max_record_array_items));
-            for (const QJsonValue& e : a) walk(e);
+                reason =
+                    QStringLiteral("a list of %1 entries (limit %2)")
+                        .arg(QString::number(a.size()), QString::number(max_record_array_items));
+            for (const QJsonValue& e : a)
+                walk(e);
         } else if (v.isObject()) {
             const QJsonObject o = v.toObject();
             for (auto it = o.begin(); it != o.end(); ++it) {
                 if (it.key().size() > max_record_text_chars)
                     reason = QStringLiteral("a key of %1 characters (limit %2)")
-                                 .arg(QString::number(it.key().size()), QString::number(max_record_text_chars));
+                                 .arg(QString::number(it.key().size()),
+                                      QString::number(max_record_text_chars));
                 walk(it.value());
             }
         }
@@ -207,12 +248,15 @@ QString oversize_reason(const QString& text) {
 
 Database::Database(const QString& path, int target_version, Seed seed)
     : path_(path), connection_name_(unique_connection_name()) {
-    if (path.isEmpty()) fail(QStringLiteral("no database file given"));
+    if (path.isEmpty())
+        fail(QStringLiteral("no database file given"));
     QFileInfo fi(path);
     if (!QDir().mkpath(fi.absolutePath()))
         fail(QStringLiteral("cannot create the folder ") + quoted(fi.absolutePath()));
-    if (target_version < 0 || target_version > latest_schema_version()) target_version = latest_schema_version();
-    if (!fi.exists() && !fi.isSymLink()) create_new(target_version, seed);
+    if (target_version < 0 || target_version > latest_schema_version())
+        target_version = latest_schema_version();
+    if (!fi.exists() && !fi.isSymLink())
+        create_new(target_version, seed);
     check_is_phaseplan_file(path_);
     open_connection(path_, false);
     try {
@@ -225,13 +269,15 @@ Database::Database(const QString& path, int target_version, Seed seed)
             const int version = schema_version();
             const int latest = latest_schema_version();
             if (version > latest)
-                fail(quoted(path_) + QStringLiteral(" has schema version %1, newer than this program's %2:"
-                                                    " use a newer PhasePlan")
-                                         .arg(QString::number(version), QString::number(latest)));
+                fail(quoted(path_) +
+                     QStringLiteral(" has schema version %1, newer than this program's %2:"
+                                    " use a newer PhasePlan")
+                         .arg(QString::number(version), QString::number(latest)));
             if (version < target_version)
-                fail(read_only_reason_ + QStringLiteral(" Its layout (schema version %1) also needs an update"
-                                                        " to version %2, which needs write access.")
-                                             .arg(QString::number(version), QString::number(target_version)));
+                fail(read_only_reason_ +
+                     QStringLiteral(" Its layout (schema version %1) also needs an update"
+                                    " to version %2, which needs write access.")
+                         .arg(QString::number(version), QString::number(target_version)));
         }
     } catch (...) {
         close_connection();
@@ -241,10 +287,12 @@ Database::Database(const QString& path, int target_version, Seed seed)
 
 void Database::open_connection(const QString& file, bool read_only) {
     db_ = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), connection_name_);
-    if (!db_.isValid()) fail(QStringLiteral("the Qt SQLite driver (QSQLITE) is not installed"));
-    db_.setConnectOptions(QStringLiteral("QSQLITE_BUSY_TIMEOUT=%1%2")
-                              .arg(QString::number(busy_timeout_ms),
-                                   read_only ? QStringLiteral(";QSQLITE_OPEN_READONLY") : QString()));
+    if (!db_.isValid())
+        fail(QStringLiteral("the Qt SQLite driver (QSQLITE) is not installed"));
+    db_.setConnectOptions(
+        QStringLiteral("QSQLITE_BUSY_TIMEOUT=%1%2")
+            .arg(QString::number(busy_timeout_ms),
+                 read_only ? QStringLiteral(";QSQLITE_OPEN_READONLY") : QString()));
     db_.setDatabaseName(file);
     if (!db_.open()) {
         const QString why = db_.lastError().text();
@@ -254,7 +302,8 @@ void Database::open_connection(const QString& file, bool read_only) {
 }
 
 void Database::close_connection() {
-    if (db_.isValid()) db_.close();
+    if (db_.isValid())
+        db_.close();
     db_ = QSqlDatabase();
     QSqlDatabase::removeDatabase(connection_name_);
 }
@@ -285,7 +334,8 @@ void Database::create_new(int target_version, const Seed& seed) {
     int rc = ::renameat2(AT_FDCWD, from.constData(), AT_FDCWD, to.constData(), RENAME_NOREPLACE);
     if (rc != 0 && (errno == EINVAL || errno == ENOSYS)) { // a filesystem without it: link, unlink
         rc = ::link(from.constData(), to.constData());
-        if (rc == 0) ::unlink(from.constData());
+        if (rc == 0)
+            ::unlink(from.constData());
     }
     if (rc != 0) {
         const int err = errno;
@@ -295,23 +345,32 @@ void Database::create_new(int target_version, const Seed& seed) {
                  QString::fromLocal8Bit(std::strerror(err)));
         return; // another first run made it first: open theirs
     }
-    for (const char* suffix : {"-wal", "-shm"}) QFile::remove(temp + QLatin1String(suffix));
+    for (const char* suffix : {"-wal", "-shm"})
+        QFile::remove(temp + QLatin1String(suffix));
     created_ = true;
 }
 
-Database::~Database() { close_connection(); }
+Database::~Database() {
+    close_connection();
+}
 
 QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const {
     QSqlQuery q(db_);
     if (!q.prepare(sql)) {
-        if (is_busy(q.lastError())) fail(locked_reason(path_));
-        fail(QStringLiteral("cannot prepare \"") + sql.left(80) + QStringLiteral("\": ") + q.lastError().text());
+        if (is_busy(q.lastError()))
+            fail(locked_reason(path_));
+        fail(QStringLiteral("cannot prepare \"") + sql.left(80) + QStringLiteral("\": ") +
+             q.lastError().text());
     }
-    for (const QVariant& b : bindings) q.addBindValue(b);
+    for (const QVariant& b : bindings)
+        q.addBindValue(b);
     if (!q.exec()) {
-        if (is_busy(q.lastError())) fail(locked_reason(path_));
-        if (is_read_only(q.lastError())) fail(read_only_text(path_));
-        fail(QStringLiteral("\"") + sql.left(80) + QStringLiteral("\" failed: ") + q.lastError().text());
+        if (is_busy(q.lastError()))
+            fail(locked_reason(path_));
+        if (is_read_only(q.lastError()))
+            fail(read_only_text(path_));
+        fail(QStringLiteral("\"") + sql.left(80) + QStringLiteral("\" failed: ") +
+             q.lastError().text());
     }
     return q;
 }
@@ -321,7 +380,8 @@ void Database::configure() {
     // A file that is not SQLite fails here, on the first read.
     QSqlQuery mode = exec(QStringLiteral("PRAGMA journal_mode=WAL"));
     if (!mode.next() || mode.value(0).toString().compare(QLatin1String("wal"), Qt::CaseInsensitive))
-        fail(quoted(path_) + QStringLiteral(" cannot use a write-ahead log (is it on a network drive?)"));
+        fail(quoted(path_) +
+             QStringLiteral(" cannot use a write-ahead log (is it on a network drive?)"));
     // FULL: a commit is on disk before save() returns, even across a power cut.
     exec(QStringLiteral("PRAGMA synchronous=FULL"));
     exec(QStringLiteral("PRAGMA foreign_keys=ON"));
@@ -333,12 +393,17 @@ void Database::probe_writable() {
     QSqlQuery q(db_);
     if (q.exec(QStringLiteral("BEGIN IMMEDIATE"))) {
         QSqlQuery(db_).exec(QStringLiteral("ROLLBACK"));
-        if (::access(QFile::encodeName(path_).constData(), W_OK) != 0) read_only_reason_ = read_only_text(path_);
+        if (::access(QFile::encodeName(path_).constData(), W_OK) != 0)
+            read_only_reason_ = read_only_text(path_);
         return;
     }
-    if (is_busy(q.lastError())) read_only_reason_ = locked_reason(path_);
-    else if (is_read_only(q.lastError())) read_only_reason_ = read_only_text(path_);
-    else fail(QStringLiteral("cannot write ") + quoted(path_) + QStringLiteral(": ") + q.lastError().text());
+    if (is_busy(q.lastError()))
+        read_only_reason_ = locked_reason(path_);
+    else if (is_read_only(q.lastError()))
+        read_only_reason_ = read_only_text(path_);
+    else
+        fail(QStringLiteral("cannot write ") + quoted(path_) + QStringLiteral(": ") +
+             q.lastError().text());
 }
 
 int Database::schema_version() const {
@@ -353,17 +418,20 @@ QString Database::journal_mode() const {
 
 void Database::migrate(int target_version, const Seed& seed) {
     const int latest = latest_schema_version();
-    if (target_version > latest) target_version = latest;
+    if (target_version > latest)
+        target_version = latest;
     // The version is read under the write lock: a second program starting at the same moment
     // waits here and then sees the finished schema.
     Transaction t(*this);
     int version = schema_version();
     if (version > latest)
-        fail(quoted(path_) + QStringLiteral(" has schema version %1, newer than this program's %2: use a "
-                                            "newer PhasePlan")
-                                 .arg(QString::number(version), QString::number(latest)));
+        fail(quoted(path_) +
+             QStringLiteral(" has schema version %1, newer than this program's %2: use a "
+                            "newer PhasePlan")
+                 .arg(QString::number(version), QString::number(latest)));
     for (const Migration& step : migrations()) {
-        if (step.version <= version || step.version > target_version) continue;
+        if (step.version <= version || step.version > target_version)
+            continue;
         step.apply(*this);
         exec(QStringLiteral("PRAGMA user_version = %1").arg(step.version));
         version = step.version;
@@ -371,45 +439,57 @@ void Database::migrate(int target_version, const Seed& seed) {
     QSqlQuery id = exec(QStringLiteral("PRAGMA application_id"));
     if (!id.next() || id.value(0).toLongLong() != phaseplan_application_id)
         exec(QStringLiteral("PRAGMA application_id = %1").arg(phaseplan_application_id));
-    if (seed) seed(*this);
+    if (seed)
+        seed(*this);
     t.commit(); // nothing written when the file was up to date: no sync at an ordinary start
 }
 
-std::optional<QString> Database::bounded(const QString& source, const QString& name, const QString& text) const {
+std::optional<QString> Database::bounded(const QString& source, const QString& name,
+                                         const QString& text) const {
     const QString reason = oversize_reason(text);
-    if (reason.isEmpty()) return text;
+    if (reason.isEmpty())
+        return text;
     bool noted = false;
-    for (const SetAsideRecord& r : set_aside_) noted = noted || (r.source == source && r.name == name.left(80));
-    if (!noted) set_aside_.push_back({source, name.left(80), reason});
+    for (const SetAsideRecord& r : set_aside_)
+        noted = noted || (r.source == source && r.name == name.left(80));
+    if (!noted)
+        set_aside_.push_back({source, name.left(80), reason});
     return std::nullopt;
 }
 
 void Database::set_aside_oversized() {
-    if (!db_.tables().contains(QStringLiteral("set_aside"))) return; // an old schema built by a test
+    if (!db_.tables().contains(QStringLiteral("set_aside")))
+        return; // an old schema built by a test
     struct Found {
         QString table, key_column, name, reason;
     };
     std::vector<Found> found;
-    const QString floor = QString::number(std::min(max_record_text_chars, 2 * max_record_array_items));
+    const QString floor =
+        QString::number(std::min(max_record_text_chars, 2 * max_record_array_items));
     auto scan = [&](const QString& table, const QString& key, const QString& value) {
-        QSqlQuery q = exec(QStringLiteral("SELECT %1, %2, length(%1) FROM %3 WHERE length(%2) > %4 OR length(%1) > %5")
-                               .arg(key, value, table, floor, QString::number(max_name_chars)));
+        QSqlQuery q =
+            exec(QStringLiteral(
+                     "SELECT %1, %2, length(%1) FROM %3 WHERE length(%2) > %4 OR length(%1) > %5")
+                     .arg(key, value, table, floor, QString::number(max_name_chars)));
         while (q.next()) {
             const QString name = q.value(0).toString();
             QString reason = q.value(2).toLongLong() > max_name_chars
                                  ? QStringLiteral("a name of %1 characters (limit %2)")
                                        .arg(q.value(2).toString(), QString::number(max_name_chars))
                                  : oversize_reason(q.value(1).toString());
-            if (!reason.isEmpty()) found.push_back({table, key, name, reason});
+            if (!reason.isEmpty())
+                found.push_back({table, key, name, reason});
         }
     };
     for (DocumentKind k : all_document_kinds)
         scan(QLatin1String(table_of(k)), QStringLiteral("name"), QStringLiteral("document"));
     scan(QStringLiteral("settings"), QStringLiteral("key"), QStringLiteral("value"));
-    if (found.empty()) return;
+    if (found.empty())
+        return;
     Transaction t(*this);
     for (const Found& f : found) {
-        const QString value = f.table == QLatin1String("settings") ? QStringLiteral("value") : QStringLiteral("document");
+        const QString value = f.table == QLatin1String("settings") ? QStringLiteral("value")
+                                                                   : QStringLiteral("document");
         exec(QStringLiteral("INSERT INTO set_aside (source, name, content, reason, set_aside_at)"
                             " SELECT ?, %1, %2, ?, ? FROM %3 WHERE %1 = ?")
                  .arg(f.key_column, value, f.table),
@@ -417,26 +497,32 @@ void Database::set_aside_oversized() {
         exec(QStringLiteral("DELETE FROM %1 WHERE %2 = ?").arg(f.table, f.key_column), {f.name});
     }
     t.commit();
-    for (const Found& f : found) set_aside_.push_back({f.table, f.name.left(80), f.reason});
+    for (const Found& f : found)
+        set_aside_.push_back({f.table, f.name.left(80), f.reason});
 }
 
 // ---- transactions ---------------------------------------------------------------------------
 
 Database::Transaction::Transaction(Database& db) : db_(db) {
-    if (!db_.writable()) throw chem::Error("database", db_.read_only_reason_.toStdString());
+    if (!db_.writable())
+        throw chem::Error("database", db_.read_only_reason_.toStdString());
     depth_ = db_.transaction_depth_ + 1;
     // IMMEDIATE takes the write lock now, so a second writer waits (busy_timeout) instead of
     // failing half-way through. Inside another transaction (the seed inside the creating one) it
     // is a savepoint.
-    if (depth_ == 1) db_.exec(QStringLiteral("BEGIN IMMEDIATE"));
-    else db_.exec(QStringLiteral("SAVEPOINT nested_%1").arg(depth_));
+    if (depth_ == 1)
+        db_.exec(QStringLiteral("BEGIN IMMEDIATE"));
+    else
+        db_.exec(QStringLiteral("SAVEPOINT nested_%1").arg(depth_));
     db_.transaction_depth_ = depth_;
 }
 
 Database::Transaction::~Transaction() {
-    if (done_) return;
+    if (done_)
+        return;
     QSqlQuery q(db_.db_); // no throw from a destructor
-    if (depth_ == 1) q.exec(QStringLiteral("ROLLBACK"));
+    if (depth_ == 1)
+        q.exec(QStringLiteral("ROLLBACK"));
     else {
         q.exec(QStringLiteral("ROLLBACK TO nested_%1").arg(depth_));
         q.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
@@ -446,7 +532,8 @@ Database::Transaction::~Transaction() {
 
 void Database::Transaction::commit() {
     if (depth_ == 1) {
-        if (db_.before_commit_) db_.before_commit_();
+        if (db_.before_commit_)
+            db_.before_commit_();
         db_.exec(QStringLiteral("COMMIT"));
     } else {
         db_.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
@@ -459,10 +546,11 @@ void Database::Transaction::commit() {
 
 void Database::upsert_document(const SavedDocument& d, const QString& now) {
     const QString name = d.name.trimmed();
-    if (name.isEmpty()) throw chem::Error("name", "a saved " + kind_name(d.kind).toStdString() +
-                                                      " needs a name");
+    if (name.isEmpty())
+        throw chem::Error("name", "a saved " + kind_name(d.kind).toStdString() + " needs a name");
     if (name.size() > max_name_chars)
-        throw chem::Error("name", "a name of " + std::to_string(name.size()) + " characters is too long (at most " +
+        throw chem::Error("name", "a name of " + std::to_string(name.size()) +
+                                      " characters is too long (at most " +
                                       std::to_string(max_name_chars) + ")");
     exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at)"
                         " VALUES (?, ?, ?, ?, ?)"
@@ -480,25 +568,29 @@ void Database::save(DocumentKind kind, const QString& name, const QJsonObject& d
 void Database::save_all(const std::vector<SavedDocument>& documents) {
     const QString now = now_utc();
     Transaction t(*this);
-    for (const SavedDocument& d : documents) upsert_document(d, now);
+    for (const SavedDocument& d : documents)
+        upsert_document(d, now);
     t.commit();
 }
 
 std::optional<QJsonObject> Database::load(DocumentKind kind, const QString& name) const {
-    QSqlQuery q = exec(QStringLiteral("SELECT document FROM %1 WHERE name = ?")
-                           .arg(QLatin1String(table_of(kind))),
-                       {name.trimmed()});
-    if (!q.next()) return std::nullopt;
+    QSqlQuery q = exec(
+        QStringLiteral("SELECT document FROM %1 WHERE name = ?").arg(QLatin1String(table_of(kind))),
+        {name.trimmed()});
+    if (!q.next())
+        return std::nullopt;
     const auto text = bounded(QLatin1String(table_of(kind)), name.trimmed(), q.value(0).toString());
-    if (!text) return std::nullopt;
+    if (!text)
+        return std::nullopt;
     return from_text(*text);
 }
 
 std::vector<DocumentInfo> Database::list_where(DocumentKind kind) const {
-    QSqlQuery q = exec(QStringLiteral("SELECT name, note, created_at, updated_at FROM %1"
-                                      " WHERE length(name) <= %2 ORDER BY updated_at DESC, name LIMIT %3")
-                           .arg(QLatin1String(table_of(kind)), QString::number(max_name_chars),
-                                QString::number(max_record_array_items)));
+    QSqlQuery q =
+        exec(QStringLiteral("SELECT name, note, created_at, updated_at FROM %1"
+                            " WHERE length(name) <= %2 ORDER BY updated_at DESC, name LIMIT %3")
+                 .arg(QLatin1String(table_of(kind)), QString::number(max_name_chars),
+                      QString::number(max_record_array_items)));
     std::vector<DocumentInfo> out;
     while (q.next())
         out.push_back({kind, q.value(0).toString(), q.value(1).toString(),
@@ -508,11 +600,14 @@ std::vector<DocumentInfo> Database::list_where(DocumentKind kind) const {
 
 std::optional<DocumentInfo> Database::info(DocumentKind kind, const QString& name) const {
     for (DocumentInfo& i : list_where(kind))
-        if (i.name == name.trimmed()) return i;
+        if (i.name == name.trimmed())
+            return i;
     return std::nullopt;
 }
 
-std::vector<DocumentInfo> Database::list(DocumentKind kind) const { return list_where(kind); }
+std::vector<DocumentInfo> Database::list(DocumentKind kind) const {
+    return list_where(kind);
+}
 
 std::vector<DocumentInfo> Database::list_all() const {
     std::vector<DocumentInfo> all;
@@ -528,8 +623,9 @@ std::vector<DocumentInfo> Database::list_all() const {
 
 bool Database::remove(DocumentKind kind, const QString& name) {
     Transaction t(*this);
-    QSqlQuery q = exec(QStringLiteral("DELETE FROM %1 WHERE name = ?").arg(QLatin1String(table_of(kind))),
-                       {name.trimmed()});
+    QSqlQuery q =
+        exec(QStringLiteral("DELETE FROM %1 WHERE name = ?").arg(QLatin1String(table_of(kind))),
+             {name.trimmed()});
     const bool removed = q.numRowsAffected() > 0;
     t.commit();
     return removed;
@@ -537,7 +633,8 @@ bool Database::remove(DocumentKind kind, const QString& name) {
 
 bool Database::rename(DocumentKind kind, const QString& old_name, const QString& new_name) {
     const QString to = new_name.trimmed();
-    if (to.isEmpty()) throw chem::Error("name", "the new name must not be empty");
+    if (to.isEmpty())
+        throw chem::Error("name", "the new name must not be empty");
     Transaction t(*this);
     if (to != old_name.trimmed() && load(kind, to))
         throw chem::Error("name", "\"" + to.toStdString() + "\" is already the name of a saved " +
@@ -554,7 +651,8 @@ bool Database::rename(DocumentKind kind, const QString& old_name, const QString&
 
 void Database::set_setting(const QString& key, const QJsonValue& value) {
     // Wrapped in an array so that scalars survive the JSON round trip.
-    const QString text = QString::fromUtf8(QJsonDocument(QJsonArray{value}).toJson(QJsonDocument::Compact));
+    const QString text =
+        QString::fromUtf8(QJsonDocument(QJsonArray{value}).toJson(QJsonDocument::Compact));
     Transaction t(*this);
     exec(QStringLiteral("INSERT INTO settings (key, value) VALUES (?, ?)"
                         " ON CONFLICT (key) DO UPDATE SET value = excluded.value"),
@@ -564,9 +662,11 @@ void Database::set_setting(const QString& key, const QJsonValue& value) {
 
 QJsonValue Database::setting(const QString& key) const {
     QSqlQuery q = exec(QStringLiteral("SELECT value FROM settings WHERE key = ?"), {key});
-    if (!q.next()) return QJsonValue::Null;
+    if (!q.next())
+        return QJsonValue::Null;
     const auto text = bounded(QStringLiteral("settings"), key, q.value(0).toString());
-    if (!text) return QJsonValue::Null;
+    if (!text)
+        return QJsonValue::Null;
     return QJsonDocument::fromJson(text->toUtf8()).array().at(0);
 }
 
@@ -576,69 +676,83 @@ bool Database::sync_shipped_file(const QString& file_name, const QByteArray& con
     const QString hash =
         QString::fromLatin1(QCryptographicHash::hash(content, QCryptographicHash::Sha256).toHex());
     {
-        QSqlQuery q = exec(QStringLiteral("SELECT sha256 FROM library_files WHERE file = ?"), {file_name});
-        if (q.next() && q.value(0).toString() == hash) return false;
+        QSqlQuery q =
+            exec(QStringLiteral("SELECT sha256 FROM library_files WHERE file = ?"), {file_name});
+        if (q.next() && q.value(0).toString() == hash)
+            return false;
     }
     QJsonParseError err{};
     QJsonDocument doc = QJsonDocument::fromJson(content, &err);
     if (err.error != QJsonParseError::NoError || !doc.isObject())
-        throw chem::Error(file_name.toStdString(), "is not a JSON object: " + err.errorString().toStdString());
+        throw chem::Error(file_name.toStdString(),
+                          "is not a JSON object: " + err.errorString().toStdString());
     const QJsonObject root = doc.object();
 
     Transaction t(*this);
     exec(QStringLiteral("DELETE FROM library_shipped WHERE file = ?"), {file_name});
     for (auto it = root.begin(); it != root.end(); ++it) {
-        if (!it.value().isArray()) continue;
+        if (!it.value().isArray())
+            continue;
         const QJsonArray arr = it.value().toArray();
         for (const QJsonValue& v : arr) {
-            if (!v.isObject() || !v.toObject().value(QLatin1String("id")).isString()) continue;
+            if (!v.isObject() || !v.toObject().value(QLatin1String("id")).isString())
+                continue;
             const QJsonObject entry = v.toObject();
-            exec(QStringLiteral("INSERT OR REPLACE INTO library_shipped (kind, id, file, document)"
-                                " VALUES (?, ?, ?, ?)"),
-                 {it.key(), entry.value(QLatin1String("id")).toString(), file_name, to_text(entry)});
+            exec(
+                QStringLiteral("INSERT OR REPLACE INTO library_shipped (kind, id, file, document)"
+                               " VALUES (?, ?, ?, ?)"),
+                {it.key(), entry.value(QLatin1String("id")).toString(), file_name, to_text(entry)});
         }
     }
-    exec(QStringLiteral("INSERT INTO library_files (file, sha256, content, seeded_at) VALUES (?, ?, ?, ?)"
-                        " ON CONFLICT (file) DO UPDATE SET sha256 = excluded.sha256,"
-                        " content = excluded.content, seeded_at = excluded.seeded_at"),
+    exec(QStringLiteral(
+             "INSERT INTO library_files (file, sha256, content, seeded_at) VALUES (?, ?, ?, ?)"
+             " ON CONFLICT (file) DO UPDATE SET sha256 = excluded.sha256,"
+             " content = excluded.content, seeded_at = excluded.seeded_at"),
          {file_name, hash, content, now_utc()});
     t.commit();
     return true;
 }
 
 QByteArray Database::shipped_file(const QString& file_name) const {
-    QSqlQuery q = exec(QStringLiteral("SELECT content FROM library_files WHERE file = ?"), {file_name});
+    QSqlQuery q =
+        exec(QStringLiteral("SELECT content FROM library_files WHERE file = ?"), {file_name});
     return q.next() ? q.value(0).toByteArray() : QByteArray();
 }
 
-void Database::save_user_entry(const QString& kind, const QJsonObject& document, const QString& source) {
+void Database::save_user_entry(const QString& kind, const QJsonObject& document,
+                               const QString& source) {
     const QString id = document.value(QLatin1String("id")).toString().trimmed();
-    if (id.isEmpty()) throw chem::Error("id", "a library entry needs an id");
+    if (id.isEmpty())
+        throw chem::Error("id", "a library entry needs an id");
     if (source.trimmed().isEmpty())
-        throw chem::Error("source", "say where the numbers of \"" + id.toStdString() +
-                                        "\" come from (a citation, a certificate, \"lab measurement\")");
+        throw chem::Error("source",
+                          "say where the numbers of \"" + id.toStdString() +
+                              "\" come from (a citation, a certificate, \"lab measurement\")");
     const QString now = now_utc();
     Transaction t(*this);
-    exec(QStringLiteral("INSERT INTO library_user (kind, id, document, source, created_at, updated_at)"
-                        " VALUES (?, ?, ?, ?, ?, ?)"
-                        " ON CONFLICT (kind, id) DO UPDATE SET document = excluded.document,"
-                        " source = excluded.source, updated_at = excluded.updated_at"),
+    exec(QStringLiteral(
+             "INSERT INTO library_user (kind, id, document, source, created_at, updated_at)"
+             " VALUES (?, ?, ?, ?, ?, ?)"
+             " ON CONFLICT (kind, id) DO UPDATE SET document = excluded.document,"
+             " source = excluded.source, updated_at = excluded.updated_at"),
          {kind, id, to_text(document), source.trimmed(), now, now});
     t.commit();
 }
 
 bool Database::remove_user_entry(const QString& kind, const QString& id) {
     Transaction t(*this);
-    QSqlQuery q = exec(QStringLiteral("DELETE FROM library_user WHERE kind = ? AND id = ?"), {kind, id});
+    QSqlQuery q =
+        exec(QStringLiteral("DELETE FROM library_user WHERE kind = ? AND id = ?"), {kind, id});
     const bool removed = q.numRowsAffected() > 0;
     t.commit();
     return removed;
 }
 
 std::vector<LibraryEntry> Database::shipped_entries(const QString& kind) const {
-    QSqlQuery q = exec(QStringLiteral("SELECT s.id, s.document, s.file, f.seeded_at FROM library_shipped s"
-                                      " JOIN library_files f ON f.file = s.file WHERE s.kind = ? ORDER BY s.id"),
-                       {kind});
+    QSqlQuery q = exec(
+        QStringLiteral("SELECT s.id, s.document, s.file, f.seeded_at FROM library_shipped s"
+                       " JOIN library_files f ON f.file = s.file WHERE s.kind = ? ORDER BY s.id"),
+        {kind});
     std::vector<LibraryEntry> out;
     while (q.next())
         out.push_back({kind, q.value(0).toString(), from_text(q.value(1).toString()),
@@ -659,27 +773,34 @@ std::vector<LibraryEntry> Database::user_entries(const QString& kind) const {
 
 std::vector<LibraryEntry> Database::merged_entries(const QString& kind) const {
     std::map<QString, LibraryEntry> by_id;
-    for (LibraryEntry& e : shipped_entries(kind)) by_id[e.id] = std::move(e);
-    for (LibraryEntry& e : user_entries(kind)) by_id[e.id] = std::move(e);
+    for (LibraryEntry& e : shipped_entries(kind))
+        by_id[e.id] = std::move(e);
+    for (LibraryEntry& e : user_entries(kind))
+        by_id[e.id] = std::move(e);
     std::vector<LibraryEntry> out;
     out.reserve(by_id.size());
-    for (auto& [id, e] : by_id) out.push_back(std::move(e));
+    for (auto& [id, e] : by_id)
+        out.push_back(std::move(e));
     return out;
 }
 
 QByteArray Database::merged_file(const QString& file_name) const {
     QJsonObject root = QJsonDocument::fromJson(shipped_file(file_name)).object();
     for (auto it = root.begin(); it != root.end(); ++it) {
-        if (!it.value().isArray()) continue;
+        if (!it.value().isArray())
+            continue;
         // Only arrays of entries are merged; other arrays (a list of sources, say) stay as shipped.
         bool entries = false;
         for (const QJsonValue& v : it.value().toArray())
-            entries = entries || (v.isObject() && v.toObject().value(QLatin1String("id")).isString());
-        if (!entries) continue;
+            entries =
+                entries || (v.isObject() && v.toObject().value(QLatin1String("id")).isString());
+        if (!entries)
+            continue;
         // Keep the shipped order (people read the file top to bottom); lab entries replace theirs
         // in place and new ones go at the end.
         std::map<QString, QJsonObject> user;
-        for (const LibraryEntry& e : user_entries(it.key())) user[e.id] = e.document;
+        for (const LibraryEntry& e : user_entries(it.key()))
+            user[e.id] = e.document;
         QJsonArray merged;
         for (const QJsonValue& v : it.value().toArray()) {
             const QString id = v.toObject().value(QLatin1String("id")).toString();
@@ -691,7 +812,8 @@ QByteArray Database::merged_file(const QString& file_name) const {
                 merged.append(v);
             }
         }
-        for (auto& [id, doc] : user) merged.append(doc);
+        for (auto& [id, doc] : user)
+            merged.append(doc);
         it.value() = merged;
     }
     return QJsonDocument(root).toJson(QJsonDocument::Indented);

@@ -39,9 +39,9 @@ std::optional<DocumentKind> kind_from_name(const QString& name);
 struct DocumentInfo {
     DocumentKind kind = DocumentKind::buffer;
     QString name;
-    QString note;           ///< free text ("for the assay of lot 7"), may be empty
-    QDateTime created_at;   ///< UTC
-    QDateTime updated_at;   ///< UTC
+    QString note;         ///< free text ("for the assay of lot 7"), may be empty
+    QDateTime created_at; ///< UTC
+    QDateTime updated_at; ///< UTC
 };
 
 struct SavedDocument {
@@ -53,12 +53,14 @@ struct SavedDocument {
 
 /// One library entry: a reagent, system, solvent or additive, as the object of its data/ file.
 struct LibraryEntry {
-    QString kind;           ///< the array it lives in, in its data/ file: "reagents", "systems", "solvents", …
-    QString id;             ///< the entry's "id"
-    QJsonObject document;   ///< the whole entry
-    QString source;         ///< user entries: where the lab's numbers come from (required); shipped: the file
+    QString
+        kind; ///< the array it lives in, in its data/ file: "reagents", "systems", "solvents", …
+    QString id;           ///< the entry's "id"
+    QJsonObject document; ///< the whole entry
+    QString
+        source; ///< user entries: where the lab's numbers come from (required); shipped: the file
     bool user_defined = false;
-    QDateTime updated_at;   ///< UTC
+    QDateTime updated_at; ///< UTC
 };
 
 /// PRAGMA application_id of a PhasePlan file ("PhPl").
@@ -86,7 +88,7 @@ struct SetAsideRecord {
 };
 
 class Database {
-public:
+  public:
     /// Called once, inside the transaction that creates a new file, to fill it (the demo).
     using Seed = std::function<void(Database&)>;
 
@@ -143,7 +145,8 @@ public:
     std::vector<DocumentInfo> list_all() const;
     /// True when something was removed.
     bool remove(DocumentKind kind, const QString& name);
-    /// Throws chem::Error("name", …) when `new_name` is taken or empty; false when `old_name` is absent.
+    /// Throws chem::Error("name", …) when `new_name` is taken or empty; false when `old_name` is
+    /// absent.
     bool rename(DocumentKind kind, const QString& old_name, const QString& new_name);
 
     // ---- settings ---------------------------------------------------------------------------
@@ -160,7 +163,8 @@ public:
     /// The last recorded content of a shipped file (empty when never seeded).
     QByteArray shipped_file(const QString& file_name) const;
     /// The lab's own entry: added, or edited from a shipped one (same id). `source` is required:
-    /// throws chem::Error("source", …) when empty, chem::Error("id", …) when the document has no id.
+    /// throws chem::Error("source", …) when empty, chem::Error("id", …) when the document has no
+    /// id.
     void save_user_entry(const QString& kind, const QJsonObject& document, const QString& source);
     bool remove_user_entry(const QString& kind, const QString& id);
     std::vector<LibraryEntry> shipped_entries(const QString& kind) const;
@@ -177,14 +181,14 @@ public:
 
     /// BEGIN IMMEDIATE … COMMIT, rolled back unless commit() ran (an exception in between).
     class Transaction {
-    public:
+      public:
         explicit Transaction(Database& db);
         ~Transaction();
         Transaction(const Transaction&) = delete;
         Transaction& operator=(const Transaction&) = delete;
         void commit();
 
-    private:
+      private:
         Database& db_;
         bool done_ = false;
         int depth_ = 0; ///< 1 for the outermost (BEGIN IMMEDIATE); more is a SAVEPOINT
@@ -194,7 +198,7 @@ public:
     /// SQL and the driver's message. Returns the executed query for reading rows.
     QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
 
-private:
+  private:
     void open_connection(const QString& file, bool read_only);
     void close_connection();
     void configure();
@@ -203,7 +207,8 @@ private:
     void create_new(int target_version, const Seed& seed);
     void set_aside_oversized();
     /// The record's text when it fits the limits, else nothing (and noted in set_aside_).
-    std::optional<QString> bounded(const QString& source, const QString& name, const QString& text) const;
+    std::optional<QString> bounded(const QString& source, const QString& name,
+                                   const QString& text) const;
     void upsert_document(const SavedDocument& d, const QString& now);
     std::vector<DocumentInfo> list_where(DocumentKind kind) const;
 
@@ -219,8 +224,8 @@ private:
 
 /// The schema steps (app/storage/migrations.cpp). Step i brings the file from version i to i+1.
 struct Migration {
-    int version;                       ///< the version after this step (1, 2, 3, … in order)
-    const char* summary;               ///< one line, for the log and the contributor guide
+    int version;                          ///< the version after this step (1, 2, 3, … in order)
+    const char* summary;                  ///< one line, for the log and the contributor guide
     std::function<void(Database&)> apply; ///< runs inside the step's transaction
 };
 const std::vector<Migration>& migrations();

@@ -70,29 +70,34 @@ const std::vector<Migration>& migrations() {
          }},
         {4, "batches and their append-only history (app/storage/batch_store.h)",
          [](Database& db) {
-             for (const QString& sql : batch_schema_statements()) db.exec(sql);
+             for (const QString& sql : batch_schema_statements())
+                 db.exec(sql);
          }},
         {5, "the lab's balances and pH meters (app/devices/device_store.h)",
          [](Database& db) {
-             db.exec("CREATE TABLE devices ("
-                     " id TEXT PRIMARY KEY NOT NULL CHECK (length(id) > 0),"
-                     " name TEXT NOT NULL,"
-                     " kind TEXT NOT NULL CHECK (kind IN ('balance', 'ph_meter')),"
-                     " port TEXT NOT NULL,"
-                     " baud INTEGER NOT NULL CHECK (baud > 0),"
-                     " data_bits INTEGER NOT NULL CHECK (data_bits BETWEEN 5 AND 8),"
-                     " parity TEXT NOT NULL CHECK (parity IN ('none', 'even', 'odd', 'mark', 'space')),"
-                     " stop_bits TEXT NOT NULL CHECK (stop_bits IN ('1', '1.5', '2')),"
-                     " flow_control TEXT NOT NULL CHECK (flow_control IN ('none', 'hardware', 'software')),"
-                     " line_format TEXT NOT NULL,"
-                     " unit TEXT NOT NULL,"
-                     " calibration_due TEXT,"
-                     " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
+             db.exec(
+                 "CREATE TABLE devices ("
+                 " id TEXT PRIMARY KEY NOT NULL CHECK (length(id) > 0),"
+                 " name TEXT NOT NULL,"
+                 " kind TEXT NOT NULL CHECK (kind IN ('balance', 'ph_meter')),"
+                 " port TEXT NOT NULL,"
+                 " baud INTEGER NOT NULL CHECK (baud > 0),"
+                 " data_bits INTEGER NOT NULL CHECK (data_bits BETWEEN 5 AND 8),"
+                 " parity TEXT NOT NULL CHECK (parity IN ('none', 'even', 'odd', 'mark', 'space')),"
+                 " stop_bits TEXT NOT NULL CHECK (stop_bits IN ('1', '1.5', '2')),"
+                 " flow_control TEXT NOT NULL CHECK (flow_control IN ('none', 'hardware', "
+                 "'software')),"
+                 " line_format TEXT NOT NULL,"
+                 " unit TEXT NOT NULL,"
+                 " calibration_due TEXT,"
+                 " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
          }},
-        {6, "batch record at the bench: measured pH and its tolerance, pH meter, balance, comment, "
-            "container, deviation note with who and when",
+        {6,
+         "batch record at the bench: measured pH and its tolerance, pH meter, balance, comment, "
+         "container, deviation note with who and when",
          [](Database& db) {
-             for (const QString& sql : batch_schema_bench_statements()) db.exec(sql);
+             for (const QString& sql : batch_schema_bench_statements())
+                 db.exec(sql);
          }},
         {7, "records over the read-back limits, set aside at open and named (never replayed)",
          [](Database& db) {
@@ -100,10 +105,12 @@ const std::vector<Migration>& migrations() {
                      " id INTEGER PRIMARY KEY, source TEXT NOT NULL, name TEXT NOT NULL,"
                      " content TEXT NOT NULL, reason TEXT NOT NULL, set_aside_at TEXT NOT NULL)");
          }},
-        {8, "values taken from the instruments: the pH meter's capture record (the balance's is kept "
-            "with each actual amount)",
+        {8,
+         "values taken from the instruments: the pH meter's capture record (the balance's is kept "
+         "with each actual amount)",
          [](Database& db) {
-             for (const QString& sql : batch_schema_capture_statements()) db.exec(sql);
+             for (const QString& sql : batch_schema_capture_statements())
+                 db.exec(sql);
          }},
         // Append new steps here (see the comment at the top of this file).
     };

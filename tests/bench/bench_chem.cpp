@@ -17,19 +17,23 @@ const phaseplan::AppData& data() {
 
 void BM_SolveThreeSystems(benchmark::State& state) {
     const auto& lib = data().reagents;
-    // Ammonium acetate + sodium dihydrogen phosphate + tris: four acid-base systems, three reagents.
+    // Ammonium acetate + sodium dihydrogen phosphate + tris: four acid-base systems, three
+    // reagents.
     const std::vector<chem::Component> mix = {{&lib.reagent("ammonium-acetate"), 0.01},
                                               {&lib.reagent("sodium-dihydrogen-phosphate"), 0.02},
                                               {&lib.reagent("tris"), 0.015}};
-    for (auto _ : state) benchmark::DoNotOptimize(chem::solve(lib, mix, 30.0));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::solve(lib, mix, 30.0));
 }
 BENCHMARK(BM_SolveThreeSystems)->Unit(benchmark::kMicrosecond);
 
 void BM_SolvePhosphateReference(benchmark::State& state) {
     const auto& lib = data().reagents;
-    const std::vector<chem::Component> mix = {{&lib.reagent("potassium-dihydrogen-phosphate"), 0.025},
-                                              {&lib.reagent("disodium-hydrogen-phosphate"), 0.025}};
-    for (auto _ : state) benchmark::DoNotOptimize(chem::solve(lib, mix, 25.0));
+    const std::vector<chem::Component> mix = {
+        {&lib.reagent("potassium-dihydrogen-phosphate"), 0.025},
+        {&lib.reagent("disodium-hydrogen-phosphate"), 0.025}};
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::solve(lib, mix, 25.0));
 }
 BENCHMARK(BM_SolvePhosphateReference)->Unit(benchmark::kMicrosecond);
 
@@ -47,7 +51,8 @@ chem::RecipeRequest mix_request() {
 
 void BM_RecipeMixAtConcentration(benchmark::State& state) {
     const auto req = mix_request();
-    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
 }
 BENCHMARK(BM_RecipeMixAtConcentration)->Unit(benchmark::kMicrosecond);
 
@@ -64,7 +69,8 @@ chem::RecipeRequest titrate_request(double ph, const char* weigh, const char* ti
 void BM_RecipeTitrate(benchmark::State& state) {
     auto r = titrate_request(8.0, "tris", "hydrochloric-acid", 0.05);
     r.titrant_mol_per_l = 1.0;
-    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
 }
 BENCHMARK(BM_RecipeTitrate)->Unit(benchmark::kMicrosecond);
 
@@ -74,7 +80,8 @@ void BM_RecipeTitrateNeatSalt(benchmark::State& state) {
     auto r = titrate_request(3.0, "ammonium-formate", "formic-acid", 0.01);
     r.titrant_form = chem::TitrantForm::neat;
     r.basis = chem::ConcentrationBasis::salt;
-    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::design_recipe(data().reagents, r));
 }
 BENCHMARK(BM_RecipeTitrateNeatSalt)->Unit(benchmark::kMicrosecond);
 
@@ -82,7 +89,8 @@ void BM_RecipeMixAtIonicStrength(benchmark::State& state) {
     auto req = mix_request();
     req.concentration_mol_per_l.reset();
     req.ionic_strength_mol_per_l = 0.05;
-    for (auto _ : state) benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(chem::design_recipe(data().reagents, req));
 }
 BENCHMARK(BM_RecipeMixAtIonicStrength)->Unit(benchmark::kMicrosecond);
 
@@ -109,7 +117,8 @@ const chem::EluentModel& phosphate_acetonitrile() {
 /// trace and the checks use it.
 void BM_EluentPoint(benchmark::State& state) {
     const std::vector<double> percent = {45, 55};
-    for (auto _ : state) benchmark::DoNotOptimize(phosphate_acetonitrile().point(percent));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(phosphate_acetonitrile().point(percent));
 }
 BENCHMARK(BM_EluentPoint)->Unit(benchmark::kMicrosecond);
 
@@ -117,7 +126,8 @@ BENCHMARK(BM_EluentPoint)->Unit(benchmark::kMicrosecond);
 /// part's w_w pH, pKa list and warnings.
 void BM_EluentFull(benchmark::State& state) {
     const std::vector<double> percent = {45, 55};
-    for (auto _ : state) benchmark::DoNotOptimize(phosphate_acetonitrile().solve(percent));
+    for (auto _ : state)
+        benchmark::DoNotOptimize(phosphate_acetonitrile().solve(percent));
 }
 BENCHMARK(BM_EluentFull)->Unit(benchmark::kMicrosecond);
 

@@ -28,7 +28,8 @@ struct Fixture {
     Fixture() {
         ws.setDatabasePath(dir.filePath("bench.sqlite"));
         ws.setDataDir(QStringLiteral(SOURCE_DIR "/data"));
-        if (!ws.open()) qFatal("%s", qPrintable(ws.errorMessage()));
+        if (!ws.open())
+            qFatal("%s", qPrintable(ws.errorMessage()));
         plan.setRestore(true);
         plan.setWorkspace(&ws); // the overnight demo
         lines.setPlan(&plan);
@@ -54,7 +55,8 @@ void BM_BufferDesignerEdit(benchmark::State& state) {
         d.setTargetPh(ph);
         benchmark::DoNotOptimize(d.predictedPh());
     }
-    if (!d.valid()) state.SkipWithError(qPrintable(d.errorMessage()));
+    if (!d.valid())
+        state.SkipWithError(qPrintable(d.errorMessage()));
 }
 BENCHMARK(BM_BufferDesignerEdit)->Unit(benchmark::kMillisecond);
 
@@ -68,7 +70,8 @@ void BM_LineBufferEditWithPlanAndLines(benchmark::State& state) {
         f.lines.recomputeNow();     // the four lines
         benchmark::DoNotOptimize(f.plan.endTime());
     }
-    if (!f.plan.valid()) state.SkipWithError(qPrintable(f.plan.errorMessage()));
+    if (!f.plan.valid())
+        state.SkipWithError(qPrintable(f.plan.errorMessage()));
 }
 BENCHMARK(BM_LineBufferEditWithPlanAndLines)->Unit(benchmark::kMillisecond);
 

@@ -10,7 +10,8 @@
 namespace {
 
 const phaseplan::AppData& data() {
-    static const phaseplan::AppData d = phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
+    static const phaseplan::AppData d =
+        phaseplan::load_app_data(QStringLiteral(SOURCE_DIR "/data"));
     return d;
 }
 

@@ -5,11 +5,11 @@
 #include "chem/checks.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
-#include "pressure_fixture.h"
 #include "chem/recipe.h"
 #include "chem/sequence.h"
 #include "core/app_data.h"
 #include "core/line_commands.h"
+#include "pressure_fixture.h"
 
 #include <benchmark/benchmark.h>
 

@@ -38,8 +38,8 @@ template <class Command>
 int run_json(const std::uint8_t* bytes, std::size_t size, Command command) {
     const AppData& d = data();
     try {
-        const QJsonObject input =
-            json::parse_document(QByteArray(reinterpret_cast<const char*>(bytes), static_cast<qsizetype>(size)));
+        const QJsonObject input = json::parse_document(
+            QByteArray(reinterpret_cast<const char*>(bytes), static_cast<qsizetype>(size)));
         const QJsonObject out = command(d, input);
         json::check_output(out);
     } catch (const chem::Error&) {

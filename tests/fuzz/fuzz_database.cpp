@@ -27,7 +27,8 @@ QString scratch() {
 }
 
 void remove_all(const QString& path) {
-    for (const char* suffix : {"", "-wal", "-shm"}) QFile::remove(path + QLatin1String(suffix));
+    for (const char* suffix : {"", "-wal", "-shm"})
+        QFile::remove(path + QLatin1String(suffix));
 }
 
 } // namespace
@@ -35,7 +36,8 @@ void remove_all(const QString& path) {
 extern "C" int LLVMFuzzerInitialize(int*, char***) {
     phaseplan::fuzz::app();
     const QByteArray seed_dir = qgetenv("PHASEPLAN_FUZZ_WRITE_SEED");
-    if (seed_dir.isEmpty()) return 0;
+    if (seed_dir.isEmpty())
+        return 0;
     const QString path = QString::fromLocal8Bit(seed_dir) + QStringLiteral("/phaseplan.sqlite");
     remove_all(path);
     QFile demo(QStringLiteral(PHASEPLAN_SOURCE_DATA_DIR "/demo/overnight-sequence.json"));
@@ -44,13 +46,15 @@ extern "C" int LLVMFuzzerInitialize(int*, char***) {
     {
         phaseplan::storage::Database db(path, -1, [&](phaseplan::storage::Database& d) {
             d.save(phaseplan::storage::DocumentKind::sequence, QStringLiteral("demo"), doc);
-            d.set_setting(QStringLiteral("current_plan"), QJsonObject{{"name", "demo"}, {"document", doc}});
+            d.set_setting(QStringLiteral("current_plan"),
+                          QJsonObject{{"name", "demo"}, {"document", doc}});
         });
         db.exec(QStringLiteral("PRAGMA wal_checkpoint(TRUNCATE)"));
     }
     {
         // Small pages keep the seed small (about 20 KB instead of 120 KB): faster mutations.
-        QSqlDatabase raw = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), QStringLiteral("seed"));
+        QSqlDatabase raw =
+            QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), QStringLiteral("seed"));
         raw.setDatabaseName(path);
         raw.open();
         QSqlQuery q(raw);
@@ -70,16 +74,19 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* bytes, std::size_t siz
     remove_all(path);
     {
         QFile f(path);
-        if (!f.open(QIODevice::WriteOnly)) std::abort();
+        if (!f.open(QIODevice::WriteOnly))
+            std::abort();
         f.write(reinterpret_cast<const char*>(bytes), static_cast<qint64>(size));
     }
     try {
         Database db(path);
-        for (const DocumentInfo& i : db.list_all()) (void)db.load(i.kind, i.name);
+        for (const DocumentInfo& i : db.list_all())
+            (void)db.load(i.kind, i.name);
         (void)db.setting(QStringLiteral("current_plan"));
         (void)db.merged_file(QStringLiteral("reagents.json"));
         for (const SetAsideRecord& r : db.set_aside())
-            if (r.reason.isEmpty()) std::abort(); // a record set aside says why
+            if (r.reason.isEmpty())
+                std::abort(); // a record set aside says why
     } catch (const chem::Error&) {
     }
     remove_all(path);

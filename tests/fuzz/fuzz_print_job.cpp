@@ -4,8 +4,10 @@
 #include "print/documents.h"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* bytes, std::size_t size) {
-    return phaseplan::fuzz::run_json(bytes, size, [](const phaseplan::AppData& d, const QJsonObject& in) {
-        const phaseplan::print::PrintJob job = phaseplan::print::build_print_job(d, in, QStringLiteral("2026-12-01 10:00"));
-        return job.summary;
-    });
+    return phaseplan::fuzz::run_json(
+        bytes, size, [](const phaseplan::AppData& d, const QJsonObject& in) {
+            const phaseplan::print::PrintJob job =
+                phaseplan::print::build_print_job(d, in, QStringLiteral("2026-12-01 10:00"));
+            return job.summary;
+        });
 }

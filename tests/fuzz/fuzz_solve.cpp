@@ -1,9 +1,10 @@
 // libFuzzer target: the `solve` command's JSON document (README, "The command-line tool").
-#include "fuzz_common.h"
 #include "core/line_commands.h"
+#include "fuzz_common.h"
 
 extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* bytes, std::size_t size) {
-    return phaseplan::fuzz::run_json(bytes, size, [](const phaseplan::AppData& d, const QJsonObject& in) {
-        return phaseplan::command_solve(d, in, {});
-    });
+    return phaseplan::fuzz::run_json(bytes, size,
+                                     [](const phaseplan::AppData& d, const QJsonObject& in) {
+                                         return phaseplan::command_solve(d, in, {});
+                                     });
 }

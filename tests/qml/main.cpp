@@ -16,7 +16,7 @@ Q_IMPORT_QML_PLUGIN(PhasePlanPlugin)
 
 class Setup : public QObject {
     Q_OBJECT
-public slots:
+  public slots:
     void qmlEngineAvailable(QQmlEngine* engine) {
         phaseplan::gui::prepare_engine(*engine);
         engine->rootContext()->setContextProperty(QStringLiteral("testDir"), dir_.path());
@@ -24,7 +24,7 @@ public slots:
                                                   QStringLiteral(SOURCE_DIR "/data"));
     }
 
-private:
+  private:
     QTemporaryDir dir_;
 };
 

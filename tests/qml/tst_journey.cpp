@@ -1,8 +1,9 @@
 // Tonight's work from an empty start, through the real main window with mouse and key events, as
 // a new user at the bench would do it: a new buffer, a line holding it, a new gradient method,
 // tonight's sequence of 40 injections, the checks, a batch with one weighing out of its band and
-// its deviation note, and the sheet and labels saved as PDF (read back with pdftotext). Run twice by CTest: under C.UTF-8 and
-// under de_DE.UTF-8 (decimal comma), typing numbers with the locale's own decimal mark.
+// its deviation note, and the sheet and labels saved as PDF (read back with pdftotext). Run twice
+// by CTest: under C.UTF-8 and under de_DE.UTF-8 (decimal comma), typing numbers with the locale's
+// own decimal mark.
 //
 // What the screen must show is asserted at each step from the items the user sees (field texts,
 // labels, the night summary), not only from the models behind them.
@@ -12,8 +13,8 @@
 #include <QAccessible>
 #include <QApplication>
 #include <QFileInfo>
-#include <QProcess>
 #include <QLocale>
+#include <QProcess>
 #include <QQmlApplicationEngine>
 #include <QQuickItem>
 #include <QQuickStyle>
@@ -43,12 +44,14 @@ class TestJourney : public QObject {
     QQuickItem* find(const std::function<bool(QQuickItem*)>& pred, bool visible_only = true) const {
         QQuickItem* found = nullptr;
         std::function<void(QQuickItem*)> walk = [&](QQuickItem* item) {
-            if (found || (visible_only && !item->isVisible())) return;
+            if (found || (visible_only && !item->isVisible()))
+                return;
             if (pred(item)) {
                 found = item;
                 return;
             }
-            for (QQuickItem* c : item->childItems()) walk(c);
+            for (QQuickItem* c : item->childItems())
+                walk(c);
         };
         walk(window_->contentItem());
         return found;
@@ -63,15 +66,17 @@ class TestJourney : public QObject {
     /// A control by the name a screen reader reads (Accessible.name), or a button by its text.
     QQuickItem* control(const QString& name) const {
         return find([&](QQuickItem* i) {
-            const bool is_control = i->inherits("QQuickAbstractButton") || i->inherits("QQuickTextField") ||
-                                    i->inherits("QQuickComboBox");
-            return is_control && (accessible(i) == name ||
-                                  (i->inherits("QQuickAbstractButton") && i->property("text").toString() == name));
+            const bool is_control = i->inherits("QQuickAbstractButton") ||
+                                    i->inherits("QQuickTextField") || i->inherits("QQuickComboBox");
+            return is_control &&
+                   (accessible(i) == name || (i->inherits("QQuickAbstractButton") &&
+                                              i->property("text").toString() == name));
         });
     }
     /// A text field by its accessible name (a number field's label).
     QQuickItem* field(const QString& name) const {
-        return find([&](QQuickItem* i) { return i->inherits("QQuickTextField") && accessible(i) == name; });
+        return find(
+            [&](QQuickItem* i) { return i->inherits("QQuickTextField") && accessible(i) == name; });
     }
     /// Whether some visible text on the window contains `text`.
     bool showsText(const QString& text) const {
@@ -84,7 +89,8 @@ class TestJourney : public QObject {
     // ---- acting as the user ------------------------------------------------------------------
     /// Types ASCII text key by key into the focused field.
     void type_text(const QString& text) {
-        for (QChar c : text) QTest::keyClick(window_, c.toLatin1());
+        for (QChar c : text)
+            QTest::keyClick(window_, c.toLatin1());
     }
     void settle(int frames = 2) {
         for (int i = 0; i < frames; ++i) {
@@ -95,15 +101,18 @@ class TestJourney : public QObject {
     /// Scrolls the item's page so that the item is on screen, as the user would.
     void bring_into_view(QQuickItem* item) {
         for (QQuickItem* p = item->parentItem(); p; p = p->parentItem()) {
-            if (!p->inherits("QQuickFlickable")) continue;
+            if (!p->inherits("QQuickFlickable"))
+                continue;
             auto* content = qvariant_cast<QQuickItem*>(p->property("contentItem"));
-            if (!content) break;
+            if (!content)
+                break;
             const double y = item->mapToItem(content, QPointF(0, 0)).y();
             const double view_h = p->height();
             const double content_h = p->property("contentHeight").toDouble();
             const double cy = p->property("contentY").toDouble();
             if (y < cy || y + item->height() > cy + view_h)
-                p->setProperty("contentY", std::max(0.0, std::min(y - view_h / 3, content_h - view_h)));
+                p->setProperty("contentY",
+                               std::max(0.0, std::min(y - view_h / 3, content_h - view_h)));
             break;
         }
         settle();
@@ -124,11 +133,14 @@ class TestJourney : public QObject {
         QTest::keyClick(window_, Qt::Key_A, Qt::ControlModifier);
         type_text(text);
         settle();
-        if (leave) QTest::keyClick(window_, Qt::Key_Tab);
+        if (leave)
+            QTest::keyClick(window_, Qt::Key_Tab);
         settle();
     }
     /// A number as the user types it: the locale's decimal mark.
-    QString num(const char* dotted) const { return QString::fromLatin1(dotted).replace(QLatin1Char('.'), mark_); }
+    QString num(const char* dotted) const {
+        return QString::fromLatin1(dotted).replace(QLatin1Char('.'), mark_);
+    }
     void open_screen(const QString& name) {
         QQuickItem* nav = find([&](QQuickItem* i) {
             return i->inherits("QQuickAbstractButton") && i->property("text").toString() == name &&
@@ -141,15 +153,18 @@ class TestJourney : public QObject {
         click(combo);
         settle(4);
         QQuickItem* delegate = find([&](QQuickItem* i) {
-            return i->inherits("QQuickItemDelegate") && i->property("text").toString().startsWith(entry);
+            return i->inherits("QQuickItemDelegate") &&
+                   i->property("text").toString().startsWith(entry);
         });
         if (!delegate) {
             QStringList shown;
             find([&](QQuickItem* i) {
-                if (i->inherits("QQuickItemDelegate")) shown << i->property("text").toString();
+                if (i->inherits("QQuickItemDelegate"))
+                    shown << i->property("text").toString();
                 return false;
             });
-            qWarning() << "entries shown:" << shown << "popup open:" << combo->property("popup").value<QObject*>()->property("visible");
+            qWarning() << "entries shown:" << shown << "popup open:"
+                       << combo->property("popup").value<QObject*>()->property("visible");
         }
         QVERIFY2(delegate, qPrintable(entry));
         click(delegate);
@@ -165,9 +180,11 @@ class TestJourney : public QObject {
         QMetaObject::invokeMethod(dialog, "accept");
         settle(4);
     }
-    QObject* model(const char* name) const { return window_->findChild<QObject*>(QString::fromLatin1(name)); }
+    QObject* model(const char* name) const {
+        return window_->findChild<QObject*>(QString::fromLatin1(name));
+    }
 
-private slots:
+  private slots:
     void initTestCase() {
         // "Today" is fixed so that the demo's 18:00 start and "tomorrow" read the same every run.
         qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
@@ -191,9 +208,11 @@ private slots:
 
     // Run by CTest a third time with the on-screen keyboard as the input method.
     void theOnScreenKeyboardKeepsTheFieldInView() {
-        if (qgetenv("QT_IM_MODULE") != "qtvirtualkeyboard") QSKIP("the on-screen keyboard is not this run's input method");
+        if (qgetenv("QT_IM_MODULE") != "qtvirtualkeyboard")
+            QSKIP("the on-screen keyboard is not this run's input method");
         open_screen("Buffer");
-        QQuickItem* loader = find([](QQuickItem* i) { return i->objectName() == "keyboardLoader"; }, false);
+        QQuickItem* loader =
+            find([](QQuickItem* i) { return i->objectName() == "keyboardLoader"; }, false);
         QVERIFY(loader);
         auto* panel = qvariant_cast<QQuickItem*>(loader->property("item"));
         QVERIFY2(panel, "the keyboard is loaded");
@@ -205,7 +224,9 @@ private slots:
         const double field_bottom = ph->mapToScene(QPointF(0, ph->height())).y();
         const double keyboard_top = panel->mapToScene(QPointF(0, 0)).y();
         QVERIFY2(field_bottom <= keyboard_top + 0.5,
-                 qPrintable(QString("field ends at %1, keyboard starts at %2").arg(field_bottom).arg(keyboard_top)));
+                 qPrintable(QString("field ends at %1, keyboard starts at %2")
+                                .arg(field_bottom)
+                                .arg(keyboard_top)));
         QTest::keyClick(window_, Qt::Key_Escape);
         ph->setFocus(false);
         window_->contentItem()->forceActiveFocus();
@@ -216,8 +237,9 @@ private slots:
         open_screen("Buffer");
         QObject* designer = model("designer");
         click(control("New buffer"));
-        QVERIFY2(designer->property("bufferName").toString().startsWith("25 mM sodium phosphate pH 7.0"),
-                 qPrintable(designer->property("bufferName").toString()));
+        QVERIFY2(
+            designer->property("bufferName").toString().startsWith("25 mM sodium phosphate pH 7.0"),
+            qPrintable(designer->property("bufferName").toString()));
         // Typed key by key: "6," (or "6.") waits for its decimals; meanwhile the model keeps
         // the value from before typing began and the recipe is marked "not applied".
         QQuickItem* ph = field("Target pH");
@@ -255,7 +277,8 @@ private slots:
         QObject* plan = model("plan");
         pick(control("Buffer of line A"), "Night buffer pH 6.8");
         QString ref;
-        QMetaObject::invokeMethod(plan, "lineBufferRef", Q_RETURN_ARG(QString, ref), Q_ARG(QString, "A"));
+        QMetaObject::invokeMethod(plan, "lineBufferRef", Q_RETURN_ARG(QString, ref),
+                                  Q_ARG(QString, "A"));
         QCOMPARE(ref, QString("Night buffer pH 6.8"));
         QVERIFY(showsText("Night buffer pH 6.8"));
     }
@@ -283,7 +306,8 @@ private slots:
         settle();
         QCOMPARE(field("B % of line B, gradient row 2")->property("text").toString(), num("95.0"));
         type_into(field("Run"), num("12.5"));
-        QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
+        QVERIFY2(plan->property("valid").toBool(),
+                 qPrintable(plan->property("errorMessage").toString()));
     }
 
     void tonightsSequenceOf40Injections() {
@@ -294,7 +318,8 @@ private slots:
         QVERIFY(!control("Remove sequence row 2"));
         pick(control("Method of sequence row 1"), "night gradient");
         type_into(field("Injections, row 1"), "40");
-        QVERIFY2(plan->property("valid").toBool(), qPrintable(plan->property("errorMessage").toString()));
+        QVERIFY2(plan->property("valid").toBool(),
+                 qPrintable(plan->property("errorMessage").toString()));
         // Starts today at 18:00; 40 × (12.5 + re-equilibration) min ends tomorrow morning.
         QCOMPARE(named("startText")->property("text").toString(), QString("today 18:00"));
         QVERIFY2(named("endText")->property("text").toString().startsWith("tomorrow"),
@@ -308,7 +333,8 @@ private slots:
         const int message_role = checks->roleNames().key("message");
         QVERIFY(message_role > 0);
         QStringList seen;
-        static const QRegularExpression id_or_path(R"(\b[a-z]+-[a-z]+-[a-z]+\b|\[\d+\]|\bmethods\.|\blines\.[A-D]\b)");
+        static const QRegularExpression id_or_path(
+            R"(\b[a-z]+-[a-z]+-[a-z]+\b|\[\d+\]|\bmethods\.|\blines\.[A-D]\b)");
         for (int r = 0; r < checks->rowCount(); ++r) {
             const QString m = checks->data(checks->index(r, 0), message_role).toString();
             QVERIFY2(!id_or_path.match(m).hasMatch(), qPrintable(m));
@@ -326,23 +352,29 @@ private slots:
         // The amounts as the balance read them: the first on target, the second 10 % over.
         QList<QQuickItem*> rows;
         find([&](QQuickItem* i) {
-            if (i->objectName() == "actualField") rows << i;
+            if (i->objectName() == "actualField")
+                rows << i;
             return false;
         });
         QVERIFY2(rows.size() >= 2, "two amounts to weigh");
         auto input = [&](QQuickItem* entry) {
             QQuickItem* f = nullptr;
             std::function<void(QQuickItem*)> walk = [&](QQuickItem* i) {
-                if (!f && i->inherits("QQuickTextField")) f = i;
-                for (QQuickItem* c : i->childItems()) walk(c);
+                if (!f && i->inherits("QQuickTextField"))
+                    f = i;
+                for (QQuickItem* c : i->childItems())
+                    walk(c);
             };
             walk(entry);
             return f;
         };
-        auto amount_text = [&](double v) { return QLocale().toString(v, 'f', 3).remove(QLocale().groupSeparator()); };
+        auto amount_text = [&](double v) {
+            return QLocale().toString(v, 'f', 3).remove(QLocale().groupSeparator());
+        };
         auto target_of = [](QQuickItem* entry) {
             for (QQuickItem* p = entry->parentItem(); p; p = p->parentItem())
-                if (p->property("withinTolerance").isValid()) return p->property("target").toDouble();
+                if (p->property("withinTolerance").isValid())
+                    return p->property("target").toDouble();
             return 0.0;
         };
         const double t0 = target_of(rows[0]);
@@ -355,7 +387,8 @@ private slots:
         QVERIFY(named("toleranceCard"));
         QVERIFY(showsText("Suggested correction") || showsText("Correction: remake"));
         type_into(find([&](QQuickItem* i) {
-                      return i->inherits("QQuickTextField") && accessible(i).startsWith("Measured pH");
+                      return i->inherits("QQuickTextField") &&
+                             accessible(i).startsWith("Measured pH");
                   }),
                   num("6.81"));
         // Saving the sheet asks for the deviation note first, then where to save.
@@ -364,26 +397,32 @@ private slots:
         QVERIFY2(popup_entry, "the deviation note is asked for");
         QQuickItem* note = nullptr;
         std::function<void(QQuickItem*)> walk = [&](QQuickItem* i) {
-            if (!note && i->inherits("QQuickTextField")) note = i;
-            for (QQuickItem* c : i->childItems()) walk(c);
+            if (!note && i->inherits("QQuickTextField"))
+                note = i;
+            for (QQuickItem* c : i->childItems())
+                walk(c);
         };
         walk(popup_entry);
         // An empty note is refused, beside the field.
         QQuickItem* record = find([&](QQuickItem* i) {
-            return i->objectName() == "recordDeviationButton" && i->mapToScene(QPointF()).y() > popup_entry->mapToScene(QPointF()).y() - 1;
+            return i->objectName() == "recordDeviationButton" &&
+                   i->mapToScene(QPointF()).y() > popup_entry->mapToScene(QPointF()).y() - 1;
         });
         click(record);
         QVERIFY(batch->property("deviationNote").toString().isEmpty());
         type_into(note, "Second salt 10 % over: topped up as suggested", false);
         click(record);
-        QCOMPARE(batch->property("deviationNote").toString(), QString("Second salt 10 % over: topped up as suggested"));
+        QCOMPARE(batch->property("deviationNote").toString(),
+                 QString("Second salt 10 % over: topped up as suggested"));
         // The file dialog is open; the user names the file.
         QObject* dialog = qvariant_cast<QObject*>(named("printCard")->property("saveDialog"));
         QVERIFY(dialog && dialog->property("visible").toBool());
         const QString pdf = dir_.filePath("night-buffer-sheet.pdf");
         choose_file(dialog, pdf);
         settle(4);
-        QVERIFY2(QFileInfo(pdf).size() > 1000, qPrintable(named("printError") ? named("printError")->property("text").toString() : QString()));
+        QVERIFY2(QFileInfo(pdf).size() > 1000,
+                 qPrintable(named("printError") ? named("printError")->property("text").toString()
+                                                : QString()));
         // Labels: the note is recorded, so the dialog comes straight away.
         click(named("saveLabelsButton"));
         QVERIFY(dialog->property("visible").toBool());
@@ -398,7 +437,8 @@ private slots:
             QVERIFY(p.waitForFinished(20000));
             const QString text = QString::fromUtf8(p.readAllStandardOutput());
             QVERIFY2(text.contains("OUT OF TOLERANCE"), qPrintable(file));
-            if (file == pdf) QVERIFY2(text.contains("topped up as suggested"), qPrintable(text.left(2000)));
+            if (file == pdf)
+                QVERIFY2(text.contains("topped up as suggested"), qPrintable(text.left(2000)));
         }
     }
 };
