@@ -1,6 +1,7 @@
 // The workspace over a database that is locked, holds oversized records, or lost its settings
 // (issue 9): the lab's edits are never overwritten by the demo, saving that cannot happen is said
 // on screen (storageNotice, canSave) with the file's path, and the app still reaches its plan.
+#include "buffer_designer.h"
 #include "plan.h"
 #include "workspace.h"
 
@@ -109,6 +110,32 @@ class TestGuiStorage : public QObject {
         plan.setWorkspace(ws.get());
         QCOMPARE(plan.name(), Workspace::demoName()); // the plan screen has something to show
         QVERIFY(ws->canSave());
+    }
+
+    // Issue 9: a save that failed on a writable file (disk full, say; here the connection is set
+    // query_only) was a log line only. The banner now names what was not saved until a save
+    // succeeds, and the edit on screen reaches the file with the next change.
+    void failed_save_is_said_on_the_banner_until_a_save_succeeds() {
+        auto ws = open_workspace(dir_.filePath("refused.sqlite"));
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        QVERIFY(!d.bufferName().isEmpty());
+        QVERIFY(ws->storageNotice().isEmpty());
+        ws->database()->exec("PRAGMA query_only = ON");
+        d.setTargetPh(6.5);
+        d.flushAutosave();
+        QVERIFY2(ws->storageNotice().contains("Could not save the buffer"),
+                 qPrintable(ws->storageNotice()));
+        QVERIFY(ws->storageNotice().contains(d.bufferName()));
+        ws->database()->exec("PRAGMA query_only = OFF");
+        d.setTargetPh(6.6);
+        d.flushAutosave();
+        QVERIFY2(ws->storageNotice().isEmpty(), qPrintable(ws->storageNotice()));
+        QCOMPARE(ws->database()
+                     ->load(DocumentKind::buffer, d.bufferName())
+                     ->value("target_ph")
+                     .toDouble(),
+                 6.6);
     }
 };
 

@@ -76,16 +76,24 @@ void BufferDesigner::flushAutosave() {
     if (!dirty_ || buffer_name_.isEmpty() || !workspace_ || !workspace_->database())
         return;
     autosave_.stop();
-    const FieldError e = guarded([&] {
-        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
-    });
-    if (!e.empty())
-        qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
+    if (!workspace_->canSave())
+        return; // read-only or locked: the banner says so, and dirty_ stays for a later save
+    save_buffer();
     dirty_ = false;
 }
 
+void BufferDesigner::save_buffer() {
+    const FieldError e = guarded([&] {
+        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
+    });
+    if (e.empty())
+        workspace_->saveSucceeded();
+    else
+        workspace_->saveFailed(tr("the buffer \"%1\"").arg(buffer_name_), e.message);
+}
+
 void BufferDesigner::remember_current() {
-    if (autosave_key_.isEmpty() || !workspace_ || !workspace_->database())
+    if (autosave_key_.isEmpty() || !workspace_ || !workspace_->canSave())
         return;
     guarded([&] {
         workspace_->database()->set_setting(autosave_key_, QJsonObject{{"name", buffer_name_}});
@@ -197,11 +205,8 @@ QString BufferDesigner::newBuffer() {
     rebuild_choices();
     auto_name_ = true;
     buffer_name_ = free_name(defaultName());
-    const FieldError e = guarded([&] {
-        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
-    });
-    if (!e.empty())
-        qWarning("PhasePlan: saving the buffer failed: %s", qPrintable(e.message));
+    if (workspace_->canSave())
+        save_buffer();
     emit inputsChanged();
     recompute();
     rebuild_buffer_list();

@@ -299,6 +299,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// views and the saved-work list hear of it.
     void announce_buffer_change();
 
+    /// Saves the buffer under buffer_name_; a failure goes to the workspace's banner.
+    void save_buffer();
     QPointer<Workspace> workspace_;
     QPointer<Plan> plan_;
     bool loading_ = false;

@@ -151,8 +151,10 @@ void Plan::flushAutosave() {
         workspace_->database()->set_setting(current_plan_key,
                                             QJsonObject{{"name", name_}, {"document", doc_}});
     });
-    if (!e.empty())
-        qWarning("PhasePlan: autosave failed: %s", qPrintable(e.message));
+    if (e.empty())
+        workspace_->saveSucceeded();
+    else
+        workspace_->saveFailed(tr("the plan \"%1\"").arg(name_), e.message);
     dirty_ = false;
 }
 

@@ -97,6 +97,8 @@ QString Workspace::storageNotice() const {
     QStringList parts;
     if (!db_->writable())
         parts << db_->read_only_reason();
+    if (!save_failure_.isEmpty())
+        parts << save_failure_;
     QStringList aside;
     for (const storage::SetAsideRecord& r : db_->set_aside())
         aside << QStringLiteral("%1 \"%2\" (%3)").arg(r.source, r.name, r.reason);
@@ -104,6 +106,23 @@ QString Workspace::storageNotice() const {
         parts << tr("Too large to open, set aside in the database and not shown: %1.")
                      .arg(aside.join(QStringLiteral("; ")));
     return parts.join(QLatin1Char(' '));
+}
+
+void Workspace::saveFailed(const QString& what, const QString& message) {
+    const QString text = tr("Could not save %1: %2. Your edits are still on screen; they are saved "
+                            "again with the next change.")
+                             .arg(what, message);
+    if (text == save_failure_)
+        return;
+    save_failure_ = text;
+    emit storageNoticeChanged();
+}
+
+void Workspace::saveSucceeded() {
+    if (save_failure_.isEmpty())
+        return;
+    save_failure_.clear();
+    emit storageNoticeChanged();
 }
 
 void Workspace::reloadLibrary() {

@@ -85,6 +85,11 @@ class Workspace : public QObject, public QQmlParserStatus {
     Q_INVOKABLE void setSetting(const QString& key, const QVariant& value);
     /// Tell the saved-work list that something was saved or removed.
     void notifySaved() { emit savedChanged(); }
+    /// A save of `what` ("the buffer \"Line A\"") failed with `message`: the banner says so
+    /// (the edits stay on screen) until a later save succeeds (saveSucceeded()). Nothing is
+    /// attempted while the database is read-only: canSave() is checked first by the callers.
+    void saveFailed(const QString& what, const QString& message);
+    void saveSucceeded();
 
     /// data/demo/overnight-sequence.json, empty when absent.
     QJsonObject demoDocument() const;
@@ -112,6 +117,7 @@ class Workspace : public QObject, public QQmlParserStatus {
     AppData data_;
     std::unique_ptr<storage::Database> db_;
     std::map<QString, QString> names_; ///< solvent and additive names by id
+    QString save_failure_; ///< the last failed save, shown on the banner; empty once one succeeds
     int library_revision_ = 0;
     bool first_run_ = false;
 };
