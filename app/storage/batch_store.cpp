@@ -2,7 +2,9 @@
 
 #include "chem/batch.h"
 #include "chem/error.h"
+#include "chem/guard.h"
 #include "core/batch_document.h"
+#include "storage/database.h"
 
 #include <QJsonDocument>
 #include <QSqlError>
@@ -68,7 +70,11 @@ QVariant value_text(const QJsonValue& v) {
 QJsonValue value_from_text(const QVariant& v) {
     if (v.isNull())
         return QJsonValue::Null;
-    const QJsonArray a = QJsonDocument::fromJson(v.toString().toUtf8()).array();
+    QJsonParseError error{};
+    const QJsonDocument d = QJsonDocument::fromJson(v.toString().toUtf8(), &error);
+    if (error.error != QJsonParseError::NoError && !v.toString().isEmpty())
+        return QJsonValue(v.toString() + QStringLiteral("…")); // cut on read-back (history())
+    const QJsonArray a = d.array();
     return a.isEmpty() ? QJsonValue(QJsonValue::Null) : a.at(0);
 }
 
@@ -180,7 +186,32 @@ const char* select_columns =
     "measured_ph, ph_tolerance, ph_meter_id, balance_id, comment, container_ml, deviation_note, "
     "deviation_by, deviation_at, measured_ph_capture";
 
+/// Refuses a stored batch row too large to read back (a file edited by another program, say):
+/// its JSON columns within oversize_reason()'s limits, its other texts within
+/// max_record_text_chars. The row stays in the file untouched; the message names the batch.
+void check_row_size(const QSqlQuery& q) {
+    QString reason;
+    for (int column : {2, 8, 23}) {
+        reason = oversize_reason(q.value(column).toString());
+        if (!reason.isEmpty())
+            break;
+    }
+    for (int column = 0; reason.isEmpty() && column < 23; ++column) {
+        if (column == 2 || column == 8)
+            continue;
+        const qsizetype n = q.value(column).toString().size();
+        if (n > max_record_text_chars)
+            reason = QStringLiteral("a text of %1 characters (limit %2)")
+                         .arg(QString::number(n), QString::number(max_record_text_chars));
+    }
+    if (!reason.isEmpty())
+        throw chem::Error("batch", "batch " + chem::guard::quote_id(str(q.value(0).toString())) +
+                                       " is too large to open (" + str(reason) +
+                                       "); it is kept in the database unchanged");
+}
+
 BatchRecord record_from(const QSqlQuery& q) {
+    check_row_size(q);
     BatchRecord b;
     b.id = q.value(0).toString();
     b.document_kind = q.value(1).toString();
@@ -563,7 +594,11 @@ std::optional<BatchRecord> BatchStore::load(const QString& id) const {
 }
 
 QStringList BatchStore::list() const {
-    QSqlQuery q = run(db_, "SELECT id FROM batches ORDER BY updated_at DESC, id");
+    // Bounded read-back: ids that fit the id limit, the most recent max_record_array_items.
+    QSqlQuery q = run(db_, QStringLiteral("SELECT id FROM batches WHERE length(id) <= %1"
+                                          " ORDER BY updated_at DESC, id LIMIT %2")
+                               .arg(QString::number(chem::guard::max_id_chars),
+                                    QString::number(max_record_array_items)));
     QStringList out;
     while (q.next())
         out << q.value(0).toString();
@@ -676,11 +711,16 @@ void BatchStore::mark_printed(const QString& id, const QString& who, const QStri
 }
 
 std::vector<HistoryEntry> BatchStore::history(const QString& id) const {
-    QSqlQuery q =
-        run(db_,
-            "SELECT seq, batch_id, revision, at, who, action, field, old_value, new_value, reason"
-            " FROM batch_history WHERE batch_id = ? ORDER BY seq",
-            {id});
+    QSqlQuery q = run(
+        db_,
+        // Bounded read-back: the latest max_record_array_items changes, each text cut to
+        // max_record_text_chars (a cut value reads back as text; the row is unchanged).
+        QStringLiteral("SELECT seq, batch_id, revision, at, substr(who, 1, %1), action,"
+                       " substr(field, 1, %1), substr(old_value, 1, %1), substr(new_value, 1, %1),"
+                       " substr(reason, 1, %1) FROM (SELECT * FROM batch_history WHERE batch_id = ?"
+                       " ORDER BY seq DESC LIMIT %2) ORDER BY seq")
+            .arg(QString::number(max_record_text_chars), QString::number(max_record_array_items)),
+        {id});
     std::vector<HistoryEntry> out;
     while (q.next()) {
         HistoryEntry h;
