@@ -2,7 +2,8 @@
 # Each libFuzzer target (tests/fuzz) for FUZZ_RUNS executions (default 20,000) under ASan, UBSan
 # and float-cast-overflow, its corpus seeded from data/demo and tests/data. A finding stops the
 # script with the reproducer in $B/fuzz-findings/.
-#   SAN_BUILD_DIR (default build-san, shared with .ci/sanitizers.sh), FUZZ_RUNS, JOBS
+#   SAN_BUILD_DIR (default build-san, shared with .ci/sanitizers.sh), FUZZ_RUNS, JOBS,
+#   FUZZ_TARGETS (default: all seven, space-separated)
 set -eu
 cd "$(dirname "$0")/.."
 B=${SAN_BUILD_DIR:-build-san}
@@ -12,9 +13,9 @@ if [ ! -f "$B/CMakeCache.txt" ]; then
   launcher=""
   command -v ccache >/dev/null 2>&1 && launcher="-DCMAKE_CXX_COMPILER_LAUNCHER=ccache"
   CC=clang CXX=clang++ cmake -S . -B "$B" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DPHASEPLAN_APP=OFF \
-    -DPHASEPLAN_SANITIZE=ON -DPHASEPLAN_FUZZ=ON $launcher >/dev/null
+    -DPHASEPLAN_SANITIZE=ON -DPHASEPLAN_FUZZ=ON -DPHASEPLAN_WERROR=ON $launcher >/dev/null
 fi
-targets="fuzz_solve fuzz_recipe fuzz_line fuzz_sequence fuzz_print_job fuzz_batch fuzz_database"
+targets=${FUZZ_TARGETS:-"fuzz_solve fuzz_recipe fuzz_line fuzz_sequence fuzz_print_job fuzz_batch fuzz_database"}
 cmake --build "$B" -j"${JOBS:-2}" --target $targets
 seeds="$B/fuzz-seeds"
 rm -rf "$seeds" && mkdir -p "$seeds/json" "$seeds/db" "$B/fuzz-findings"

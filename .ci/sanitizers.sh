@@ -11,7 +11,7 @@ if [ ! -f "$B/CMakeCache.txt" ]; then
   launcher=""
   command -v ccache >/dev/null 2>&1 && launcher="-DCMAKE_CXX_COMPILER_LAUNCHER=ccache"
   CC=clang CXX=clang++ cmake -S . -B "$B" -DCMAKE_BUILD_TYPE=RelWithDebInfo -DPHASEPLAN_APP=OFF \
-    -DPHASEPLAN_SANITIZE=ON -DPHASEPLAN_FUZZ=ON $launcher >/dev/null
+    -DPHASEPLAN_SANITIZE=ON -DPHASEPLAN_FUZZ=ON -DPHASEPLAN_WERROR=ON $launcher >/dev/null
 fi
 cmake --build "$B" -j"${JOBS:-2}"
 # detect_leaks: LSan on; Qt's process-lifetime singletons are suppressed by name only.

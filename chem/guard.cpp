@@ -61,7 +61,11 @@ std::string cut(const std::string& s, std::size_t max_chars) {
 }
 
 std::string quote_id(const std::string& id) {
-    return "\"" + cut(id, max_id_chars) + "\"";
+    // Appended rather than `"\"" + cut(...)`: GCC 12 reports a false -Wrestrict on that form.
+    std::string quoted(1, '"');
+    quoted += cut(id, max_id_chars);
+    quoted += '"';
+    return quoted;
 }
 
 } // namespace chem::guard

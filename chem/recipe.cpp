@@ -25,7 +25,6 @@ constexpr double balance_min_mass_g =
     0.010; ///< common practice, no source: ~10 mg on a 0.1 mg balance
 constexpr double pipette_min_volume_ml = 0.010; ///< common practice, no source: 10 µL
 constexpr double low_buffer_capacity = 0.002;   ///< mol/L per pH; common practice, no source
-constexpr double ph_solve_tolerance = 1e-7;
 
 double purity_of(const RecipeRequest& req, const Reagent& r) {
     for (const auto& [id, p] : req.purity_overrides)
