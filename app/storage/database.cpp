@@ -17,6 +17,7 @@
 #include <map>
 
 #include <fcntl.h>
+#include <signal.h>
 #include <stdio.h>
 #include <unistd.h>
 
@@ -308,7 +309,32 @@ void Database::close_connection() {
     QSqlDatabase::removeDatabase(connection_name_);
 }
 
+namespace {
+/// Removes what a first run killed part-way left next to `path`: "<file>.new-<pid>-<ms>" (and its
+/// -wal, -shm and -journal) whose process no longer runs. A file of a live process (another first
+/// run, now) is left alone.
+void remove_stale_creations(const QString& path) {
+    const QFileInfo fi(path);
+    const QString prefix = fi.fileName() + QStringLiteral(".new-");
+    QDir dir = fi.absoluteDir();
+    const QStringList found =
+        dir.entryList({prefix + QLatin1Char('*')}, QDir::Files | QDir::Hidden | QDir::System);
+    for (const QString& name : found) {
+        const QString rest = name.mid(prefix.size());
+        const QStringList parts = rest.split(QLatin1Char('-'));
+        bool ok = false;
+        const qint64 pid = parts.value(0).toLongLong(&ok);
+        if (!ok || pid <= 0 || parts.size() < 2)
+            continue;
+        if (::kill(static_cast<pid_t>(pid), 0) == 0 || errno != ESRCH)
+            continue; // still running (or not ours to judge)
+        dir.remove(name);
+    }
+}
+} // namespace
+
 void Database::create_new(int target_version, const Seed& seed) {
+    remove_stale_creations(path_);
     // Built under a name of its own, committed and closed (which checkpoints the WAL into the
     // file), then moved to `path_` only if nothing is there: the loser of two first runs opens the
     // winner's file, and a kill part-way leaves at most a stray ".new-" file, never a half-made
