@@ -25,13 +25,6 @@ std::string signed_percent(double fraction) {
     return s;
 }
 
-double purity_of(const RecipeRequest& req, const Reagent& r) {
-    for (const auto& [id, p] : req.purity_overrides)
-        if (id == r.id)
-            return p;
-    return r.assay_fraction;
-}
-
 std::string item_path(int i, const char* key) {
     return "batch.actual[" + std::to_string(i) + "]" + (key[0] ? std::string(".") + key : "");
 }

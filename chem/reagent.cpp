@@ -1,5 +1,6 @@
 #include "chem/reagent.h"
 #include "chem/guard.h"
+#include "chem/text.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -229,25 +230,10 @@ const Reagent& Library::reagent(const std::string& id, const std::string& field)
                            (hint.empty() ? std::string() : " (nearest: " + hint + ")"));
 }
 
-namespace {
-size_t edit_distance(const std::string& a, const std::string& b) {
-    std::vector<size_t> prev(b.size() + 1), cur(b.size() + 1);
-    for (size_t j = 0; j <= b.size(); ++j)
-        prev[j] = j;
-    for (size_t i = 1; i <= a.size(); ++i) {
-        cur[0] = i;
-        for (size_t j = 1; j <= b.size(); ++j)
-            cur[j] = std::min({prev[j] + 1, cur[j - 1] + 1, prev[j - 1] + (a[i - 1] != b[j - 1])});
-        std::swap(prev, cur);
-    }
-    return prev[b.size()];
-}
-} // namespace
-
 std::vector<std::string> Library::nearest_reagent_ids(const std::string& id, int count) const {
     std::vector<std::pair<size_t, std::string>> scored;
     for (const auto& r : reagents_) {
-        size_t d = edit_distance(id, r.id);
+        size_t d = static_cast<size_t>(edit_distance(id, r.id));
         // A reagent id that contains the query ("phosphate" in "...-phosphate") ranks close.
         if (!id.empty() && r.id.find(id) != std::string::npos)
             d = std::min(d, r.id.size() - id.size());

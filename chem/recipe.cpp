@@ -17,6 +17,13 @@
 
 namespace chem {
 
+double purity_of(const RecipeRequest& req, const Reagent& r) {
+    for (const auto& [id, p] : req.purity_overrides)
+        if (id == r.id)
+            return p;
+    return r.assay_fraction;
+}
+
 namespace {
 
 constexpr double max_volume_ml = 1.0e6; ///< 1000 L: no bench prepares more
@@ -25,13 +32,6 @@ constexpr double balance_min_mass_g =
     0.010; ///< common practice, no source: ~10 mg on a 0.1 mg balance
 constexpr double pipette_min_volume_ml = 0.010; ///< common practice, no source: 10 µL
 constexpr double low_buffer_capacity = 0.002;   ///< mol/L per pH; common practice, no source
-
-double purity_of(const RecipeRequest& req, const Reagent& r) {
-    for (const auto& [id, p] : req.purity_overrides)
-        if (id == r.id)
-            return p;
-    return r.assay_fraction;
-}
 
 RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l) {
     RecipeItem it;

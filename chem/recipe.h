@@ -72,6 +72,10 @@ struct RecipeRequest {
     std::vector<std::pair<std::string, double>> purity_overrides;
 };
 
+/// The mass fraction of `r` this request uses: its purity override, else the library's
+/// assay_fraction (0–1).
+double purity_of(const RecipeRequest& req, const Reagent& r);
+
 /// How a recipe item is measured.
 enum class ItemKind {
     solid,            ///< weighed

@@ -1,5 +1,6 @@
 #include "chem/solvent.h"
 #include "chem/guard.h"
+#include "chem/text.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -96,21 +97,6 @@ double ExcessVolume::contraction_ml(double n_water_mol, double n_organic_mol) co
     if (n <= 0)
         return 0;
     return -n * at(n_organic_mol / n); // V^E in cm³/mol = mL/mol; negative V^E is a contraction
-}
-
-int edit_distance(const std::string& a, const std::string& b) {
-    std::vector<int> prev(b.size() + 1), cur(b.size() + 1);
-    for (std::size_t j = 0; j <= b.size(); ++j)
-        prev[j] = static_cast<int>(j);
-    for (std::size_t i = 1; i <= a.size(); ++i) {
-        cur[0] = static_cast<int>(i);
-        for (std::size_t j = 1; j <= b.size(); ++j) {
-            const int sub = prev[j - 1] + (a[i - 1] == b[j - 1] ? 0 : 1);
-            cur[j] = std::min({prev[j] + 1, cur[j - 1] + 1, sub});
-        }
-        std::swap(prev, cur);
-    }
-    return prev[b.size()];
 }
 
 namespace {

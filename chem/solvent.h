@@ -164,7 +164,4 @@ class SolventLibrary {
     std::string miscibility_source_;
 };
 
-/// Levenshtein edit distance (for "nearest id" suggestions).
-int edit_distance(const std::string& a, const std::string& b);
-
 } // namespace chem

@@ -47,28 +47,11 @@ QByteArray read_file(const QString& path) {
     return f.readAll();
 }
 
-std::vector<std::string> string_list(const QJsonObject& o, const QString& key,
-                                     const std::string& parent) {
-    std::vector<std::string> out;
-    if (!o.contains(key))
-        return out;
-    const QJsonValue v = o.value(key);
-    if (!v.isArray())
-        throw chem::Error(json::path(parent, key), "must be an array of strings");
-    const QJsonArray a = v.toArray();
-    for (int i = 0; i < a.size(); ++i) {
-        if (!a.at(i).isString())
-            throw chem::Error(json::path(json::path(parent, key), i), "must be a string");
-        out.push_back(a.at(i).toString().toStdString());
-    }
-    return out;
-}
-
 chem::AcidBaseSystem system_from_json(const QJsonObject& o, const std::string& at) {
     chem::AcidBaseSystem s;
     s.id = json::require_string(o, "id", at);
     s.name = json::optional_string(o, "name", at).value_or(s.id);
-    s.species = string_list(o, "species", at);
+    s.species = json::optional_string_list(o, "species", at);
     s.charge_fully_protonated = json::require_int(o, "charge_fully_protonated", at, -6, 6);
     const QJsonArray steps = json::require_array(o, "steps", at);
     for (int i = 0; i < steps.size(); ++i) {
@@ -175,8 +158,8 @@ chem::Reagent reagent_from_json(const QJsonObject& o, const std::string& at) {
         r.density_g_per_ml = json::require_positive(o, "density_g_per_ml", at, 25.0);
     if (o.contains("ghs")) {
         const QJsonObject ghs = json::require_object(o, "ghs", at);
-        r.ghs_hazards = string_list(ghs, "hazards", json::path(at, "ghs"));
-        r.ghs_pictograms = string_list(ghs, "pictograms", json::path(at, "ghs"));
+        r.ghs_hazards = json::optional_string_list(ghs, "hazards", json::path(at, "ghs"));
+        r.ghs_pictograms = json::optional_string_list(ghs, "pictograms", json::path(at, "ghs"));
     }
     if (o.contains("spectators")) {
         const QJsonArray a = json::require_array(o, "spectators", at);
@@ -202,7 +185,7 @@ chem::Reagent reagent_from_json(const QJsonObject& o, const std::string& at) {
             r.systems.push_back(sh);
         }
     }
-    r.sources = string_list(o, "sources", at);
+    r.sources = json::optional_string_list(o, "sources", at);
     r.user_defined = json::optional_bool(o, "user_defined", at, false);
     return r;
 }

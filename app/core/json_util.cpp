@@ -1,4 +1,5 @@
 #include "core/json_util.h"
+#include "chem/text.h"
 
 #include "chem/guard.h"
 #include "chem/solvent.h"
@@ -70,6 +71,23 @@ QJsonArray require_array(const QJsonObject& o, const QString& key, const std::st
     if (!v.isArray())
         throw chem::Error(path(parent, key), "must be an array, got " + describe(v));
     return v.toArray();
+}
+
+std::vector<std::string> optional_string_list(const QJsonObject& o, const QString& key,
+                                              const std::string& parent) {
+    std::vector<std::string> out;
+    if (!o.contains(key))
+        return out;
+    const QJsonValue v = o.value(key);
+    if (!v.isArray())
+        throw chem::Error(path(parent, key), "must be an array of strings, got " + describe(v));
+    const QJsonArray a = v.toArray();
+    for (int i = 0; i < a.size(); ++i) {
+        if (!a.at(i).isString())
+            throw chem::Error(path(path(parent, key), i), "must be a string");
+        out.push_back(a.at(i).toString().toStdString());
+    }
+    return out;
 }
 
 void check_text(const QString& text, const std::string& field, std::size_t max_chars) {

@@ -13,6 +13,7 @@
 #include <initializer_list>
 #include <optional>
 #include <string>
+#include <vector>
 
 namespace phaseplan::json {
 
@@ -26,6 +27,10 @@ std::string describe(const QJsonValue& v);
 
 QJsonObject require_object(const QJsonObject& o, const QString& key, const std::string& parent);
 QJsonArray require_array(const QJsonObject& o, const QString& key, const std::string& parent);
+/// o[key] as a list of strings, empty when the key is absent; chem::Error naming the field (or
+/// the element) when it is not an array of strings.
+std::vector<std::string> optional_string_list(const QJsonObject& o, const QString& key,
+                                              const std::string& parent);
 /// A non-empty string (trimmed) of at most `max_chars` characters (code points) without a lone
 /// UTF-16 surrogate. Ids pass chem::guard::max_id_chars; free text takes the default.
 std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent,

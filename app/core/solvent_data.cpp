@@ -11,20 +11,6 @@ namespace phaseplan {
 
 namespace {
 
-std::vector<std::string> string_list(const QJsonObject& o, const QString& key,
-                                     const std::string& parent) {
-    std::vector<std::string> out;
-    if (!o.contains(key))
-        return out;
-    const QJsonArray a = json::require_array(o, key, parent);
-    for (int i = 0; i < a.size(); ++i) {
-        if (!a.at(i).isString())
-            throw chem::Error(json::path(json::path(parent, key), i), "must be a string");
-        out.push_back(a.at(i).toString().toStdString());
-    }
-    return out;
-}
-
 chem::Solvent solvent_from_json(const QJsonObject& o, const std::string& at) {
     chem::Solvent s;
     s.id = json::require_string(o, "id", at);
@@ -61,8 +47,8 @@ chem::Solvent solvent_from_json(const QJsonObject& o, const std::string& at) {
         s.sources[q] = json::require_string(o, key, at); // a number without its source is refused
     }
     const QJsonObject ghs = json::require_object(o, "ghs", at);
-    s.ghs_hazards = string_list(ghs, "hazards", json::path(at, "ghs"));
-    s.ghs_pictograms = string_list(ghs, "pictograms", json::path(at, "ghs"));
+    s.ghs_hazards = json::optional_string_list(ghs, "hazards", json::path(at, "ghs"));
+    s.ghs_pictograms = json::optional_string_list(ghs, "pictograms", json::path(at, "ghs"));
     s.sources["ghs"] = json::require_string(ghs, "source", json::path(at, "ghs"));
     s.note = json::optional_string(o, "note", at).value_or("");
     return s;

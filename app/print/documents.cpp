@@ -73,17 +73,14 @@ QString route_text(const chem::RecipeRequest& q) {
 
 QString form_text(const chem::Reagent& r, const chem::RecipeItem& it,
                   const chem::RecipeRequest& q) {
+    const double purity = chem::purity_of(q, r);
     if (it.as == "solid") {
-        double purity = r.assay_fraction;
-        for (const auto& [id, p] : q.purity_overrides)
-            if (id == r.id)
-                purity = p;
         return purity < 1 ? QStringLiteral("solid, %1 %").arg(qs(chem::format_number(purity * 100)))
                           : QStringLiteral("solid");
     }
     if (it.as == "liquid")
         return QStringLiteral("liquid, %1 % w/w, %2 g/mL")
-            .arg(qs(chem::format_number(r.assay_fraction * 100)),
+            .arg(qs(chem::format_number(purity * 100)),
                  qs(chem::format_number(r.density_g_per_ml)));
     return qs(it.as);
 }
