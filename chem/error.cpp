@@ -53,13 +53,10 @@ std::string format_fixed(double value, int decimals) {
 }
 
 std::string format_amount(double value) {
-    if (value >= 100)
-        return format_fixed(value, 1);
-    if (value >= 10)
-        return format_fixed(value, 2);
-    if (value >= 1)
-        return format_fixed(value, 3);
-    return format_fixed(value, 4);
+    if (value == 0)
+        return "0";
+    const double a = std::abs(value);
+    return format_fixed(value, a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
 }
 
 } // namespace chem

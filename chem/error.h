@@ -45,7 +45,9 @@ std::string format_number(double value);
 std::string format_fixed(double value, int decimals);
 
 /// An amount to about four significant figures, as recipes and batch records print masses and
-/// volumes: 123.4, 12.34, 1.234, 0.1234 (0.1 mg / 0.01 mL resolution at most).
+/// volumes: 123.4, 12.34, 1.234, 0.1234 (0.1 mg / 0.01 mL resolution at most); zero is "0".
+/// The one amount formatter of the sheet, the labels and the batch record (the app's screens
+/// format by locale in app/gui/model_util).
 std::string format_amount(double value);
 
 } // namespace chem

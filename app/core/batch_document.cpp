@@ -26,13 +26,9 @@ QString qs(const std::string& s) {
     return QString::fromStdString(s);
 }
 
-/// About four significant figures, as the sheet prints amounts.
+/// About four significant figures, as the sheet prints amounts (chem::format_amount).
 QString amount_text(double v) {
-    if (v == 0)
-        return QStringLiteral("0");
-    const double a = std::abs(v);
-    const int decimals = a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4;
-    return QString::number(v, 'f', decimals);
+    return QString::fromStdString(chem::format_amount(v));
 }
 
 QString signed_percent(double fraction) {

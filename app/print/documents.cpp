@@ -792,11 +792,7 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
 // ---- formats ----------------------------------------------------------------------------------
 
 QString format_amount(double v) {
-    if (v == 0)
-        return QStringLiteral("0");
-    const double a = std::abs(v);
-    const int decimals = a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4;
-    return QString::number(v, 'f', decimals);
+    return QString::fromStdString(chem::format_amount(v));
 }
 
 QString format_ph(double ph) {
