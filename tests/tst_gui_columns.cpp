@@ -112,8 +112,10 @@ class TestGuiColumns : public QObject {
             f.open(QIODevice::ReadOnly);
             return QJsonDocument::fromJson(f.readAll()).object().value("column").toObject();
         }();
-        const QVariantMap c = find(lib.columns(), "C18 150×4.6 mm 3.5 µm, bench 2 (demo)");
+        const QVariantMap c =
+            find(lib.columns(), "C18, 150 x 4.6 mm, 3.5 um (invented demo column)");
         QVERIFY(!c.isEmpty());
+        QCOMPARE(c.value("name").toString(), plan_column.value("name").toString());
         for (const char* k : {"length_mm", "id_mm", "particle_um", "max_pressure_bar"})
             QCOMPARE(c.value(k).toDouble(), plan_column.value(k).toDouble());
     }
@@ -224,7 +226,7 @@ class TestGuiColumns : public QObject {
         QVERIFY(lib.errors().value("particle_um").toString().contains("60"));
         QVERIFY(lib.errors().contains("name"));
         QVariantMap d3 = draft(150, 4.6, 5);
-        d3["name"] = "C18 50×2.1 mm 1.7 µm, bench 2 (demo)";
+        d3["name"] = "C18, 50 x 2.1 mm, 1.7 um (invented demo column)";
         QVERIFY(!lib.save(d3));
         QVERIFY(lib.errors().value("name").toString().contains("another column"));
         QVariantMap d4 = draft(150, 4.6, 5);
@@ -272,7 +274,7 @@ class TestGuiColumns : public QObject {
             const double before = plan.methodConditions("assay").value("maxBar").toDouble();
             QVERIFY(before > 0);
             QVERIFY(!plan.methodColumn("assay").value("own").toBool());
-            const QString small = "C18 50×2.1 mm 1.7 µm, bench 2 (demo)";
+            const QString small = "C18, 50 x 2.1 mm, 1.7 um (invented demo column)";
             plan.setMethodColumn("assay", lib.document(small));
             plan.recomputeNow();
             QVERIFY(plan.valid());
@@ -381,6 +383,7 @@ class TestGuiColumns : public QObject {
         move.setMethod("long");
         move.setTarget(QVariantMap{{"length_mm", 50}, {"id_mm", 2.1}, {"particle_um", 0.1}});
         QVERIFY(!move.valid());
+        QVERIFY(move.result().value("fromText").toString().contains("250"));
         QVERIFY2(move.errors().value("particle_um").toString().contains("0.1"),
                  qPrintable(move.errors().keys().join(",")));
         move.setTarget(QVariantMap{{"length_mm", 50}, {"id_mm", 0}, {"particle_um", 1.7}});

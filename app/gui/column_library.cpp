@@ -23,8 +23,12 @@ QString now_utc() {
     return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
 }
 
-QString num(double v, int decimals = -1) {
-    return QLocale().toString(v, 'g', decimals < 0 ? 6 : decimals);
+/// A number as the screens show it: the locale's decimal mark, never a group separator (a "1,000
+/// bar" would read as 1 bar where "," is the decimal mark).
+QString num(double v) {
+    QLocale l;
+    l.setNumberOptions(QLocale::OmitGroupSeparator);
+    return l.toString(v, 'g', 6);
 }
 
 /// The column fields as the form calls them, for a check's path ("column.particle_um" →
@@ -174,15 +178,16 @@ std::optional<ColumnRecord> ColumnStore::find(const QString& name) const {
 
 void seed_demo_columns(storage::Database& db) {
     ColumnStore store(db);
-    // Invented columns of the demo lab; the first is the one the demo plan runs on.
-    store.save({0, QStringLiteral("C18 150×4.6 mm 3.5 µm, bench 2 (demo)"),
+    // Invented columns of the demo lab; the first is the one the demo plan runs on, under the
+    // same name as in data/demo/overnight-sequence.json.
+    store.save({0, QStringLiteral("C18, 150 x 4.6 mm, 3.5 um (invented demo column)"),
                 QJsonObject{{"length_mm", 150},
                             {"id_mm", 4.6},
                             {"particle_um", 3.5},
                             {"max_pressure_bar", 400},
                             {"ph_min", 2.0},
                             {"ph_max", 8.0}}});
-    store.save({0, QStringLiteral("C18 50×2.1 mm 1.7 µm, bench 2 (demo)"),
+    store.save({0, QStringLiteral("C18, 50 x 2.1 mm, 1.7 um (invented demo column)"),
                 QJsonObject{{"length_mm", 50},
                             {"id_mm", 2.1},
                             {"particle_um", 1.7},

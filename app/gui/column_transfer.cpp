@@ -15,7 +15,9 @@ namespace phaseplan::gui {
 namespace {
 
 QString num(double v) {
-    return QLocale().toString(v, 'g', 6);
+    QLocale l;
+    l.setNumberOptions(QLocale::OmitGroupSeparator);
+    return l.toString(v, 'g', 6);
 }
 
 /// "to.particle_um" → "particle_um"; "to.flow_ml_min" → "flow_ml_min"; "injection_ul" stays.
@@ -156,8 +158,9 @@ void ColumnTransfer::recompute() {
             QVariantList warnings;
             for (const QJsonValue& w : out.value("warnings").toArray()) {
                 const QString code = w.toObject().value("code").toString();
-                if (code == "pressure-uncalibrated" || code == "pressure-no-limit")
-                    continue; // said by the pressure line itself
+                if (code == "pressure-uncalibrated" || code == "pressure-no-limit" ||
+                    code == "outside-allowed-adjustment")
+                    continue; // said by the view's own lines
                 warnings.append(w.toObject().value("message").toString());
             }
             const QString to_name = target_.value("name").toString();
@@ -208,6 +211,9 @@ void ColumnTransfer::recompute() {
             scaled.insert("column", col);
         }
     }
+    // The present column is said even while the move cannot be worked out.
+    if (result.isEmpty() && from_info.value("has").toBool())
+        result.insert("fromText", column_summary(from));
     valid_ = valid;
     errors_ = errors;
     problem_ = problem;

@@ -38,7 +38,8 @@ class ColumnTransfer : public QObject {
     Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
     Q_PROPERTY(QVariantMap errors READ errors NOTIFY resultChanged)
     Q_PROPERTY(QString problem READ problem NOTIFY resultChanged)
-    /// {fromName, fromText, toText, flowFromMlMin, flowToMlMin, scaledFlowMlMin, timeFactor,
+    /// {fromName, fromText (also when the move is not worked out), toText, flowFromMlMin,
+    /// flowToMlMin, scaledFlowMlMin, timeFactor,
     ///  rows: [{fromMin, toMin}], runFromMin, runToMin, equilibrationFromMin,
     ///  equilibrationToMin, injectionFromUl, injectionToUl, solventFromMl, solventToMl (per
     ///  injection), savingFraction, nightInjections, nightFromMl, nightToMl, nightSavingMl,
