@@ -59,6 +59,11 @@ Item {
                 plan: root.plan
                 method: gradientEditor.gradient.methodName
             }
+            SmallerColumn {
+                Layout.fillWidth: true
+                plan: root.plan
+                method: gradientEditor.gradient.methodName
+            }
             SequenceRows {
                 id: sequenceRows
                 Layout.fillWidth: true
