@@ -347,6 +347,10 @@ class TestGuiColumns : public QObject {
         QVERIFY(r.value("hasPressure").toBool());
         QVERIFY(r.value("maxBar").toDouble() > 0);
         QCOMPARE(r.value("limitBar").toDouble(), 600.0);
+        // The demo instrument's 1.1 mL dwell on both sides: the hold (V_D/F₁)·k − V_D/F₂ =
+        // 1.1·k − 1.1/0.2 is negative, so no hold and a caution (chem/transfer.h).
+        QCOMPARE(r.value("holdAddedMin").toDouble(), 0.0);
+        QVERIFY(r.value("warnings").toStringList().join(" ").contains("dwell volume"));
 
         // 5 µm → 1.7 µm at the same 2.1 × 50 mm: flow by the rule 1.0·(2.1²/4.6²)·(5/1.7)
         // (USP <621>, constant reduced velocity), L/d_p (50/1.7)/(250/5) − 1 = −41 %.

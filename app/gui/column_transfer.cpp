@@ -106,9 +106,17 @@ void ColumnTransfer::recompute() {
         QJsonObject to = target_;
         if (!std::isnan(flow_))
             to.insert("flow_ml_min", flow_);
+        // The same instrument before and after: its dwell volume on both sides, so the core keeps
+        // the gradient's delay in column volumes (an initial hold) or says it cannot.
+        QJsonObject from_side = from;
+        const QJsonValue dwell = plan_->json().value("instrument").toObject().value("dwell_ml");
+        if (dwell.isDouble() && dwell.toDouble() > 0) {
+            from_side.insert("dwell_ml", dwell);
+            to.insert("dwell_ml", dwell);
+        }
         const int night = plan_->methodInjections(method_);
         QJsonObject input{{"method", method},
-                          {"from", from},
+                          {"from", from_side},
                           {"to", to},
                           {"sequence_injections", std::max(1, night)}};
         if (!std::isnan(injection_ul_))
@@ -181,6 +189,7 @@ void ColumnTransfer::recompute() {
                 {"equilibrationFromMin", method.value("equilibration_min").toDouble()},
                 {"equilibrationToMin", sm.value("equilibration_min").toDouble()},
                 {"injectionFromUl", injection_ul_},
+                {"holdAddedMin", out.value("hold_added_min").toDouble()},
                 {"injectionToUl", out.value("injection_ul").toDouble()},
                 {"solventFromMl", per.value("from").toDouble()},
                 {"solventToMl", per.value("to").toDouble()},
@@ -204,6 +213,7 @@ void ColumnTransfer::recompute() {
             scaled = sm;
             QJsonObject col = target_;
             col.remove("flow_ml_min");
+            col.remove("dwell_ml");
             if (to_name.isEmpty())
                 col.insert(
                     "name",

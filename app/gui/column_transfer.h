@@ -41,7 +41,8 @@ class ColumnTransfer : public QObject {
     /// {fromName, fromText (also when the move is not worked out), toText, flowFromMlMin,
     /// flowToMlMin, scaledFlowMlMin, timeFactor,
     ///  rows: [{fromMin, toMin}], runFromMin, runToMin, equilibrationFromMin,
-    ///  equilibrationToMin, injectionFromUl, injectionToUl, solventFromMl, solventToMl (per
+    ///  equilibrationToMin, injectionFromUl, injectionToUl, holdAddedMin (an initial hold
+    ///  that keeps the instrument's dwell delay in column volumes), solventFromMl, solventToMl (per
     ///  injection), savingFraction, nightInjections, nightFromMl, nightToMl, nightSavingMl,
     ///  lOverDpChange (fraction), withinAllowed, hasPressure, maxBar, maxAtMin, limitBar (0: none),
     ///  limitedBy ("column", "instrument"), pressureNote, warnings: [message], defaultName}

@@ -63,6 +63,7 @@ Item {
                 Layout.fillWidth: true
                 plan: root.plan
                 method: gradientEditor.gradient.methodName
+                onMethodAdded: function(name) { gradientEditor.gradient.methodName = name }
             }
             SequenceRows {
                 id: sequenceRows

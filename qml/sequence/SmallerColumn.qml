@@ -13,6 +13,8 @@ Card {
 
     required property Plan plan
     property string method
+    /// A method was added: the screen opens it in the method editor.
+    signal methodAdded(string name)
 
     title: qsTr("Run it on a smaller column")
     note: root.method.length > 0 ? qsTr("method “%1”").arg(root.method) : ""
@@ -224,6 +226,14 @@ Card {
                   .arg(root.num(root.r.injectionFromUl, 1)).arg(root.num(root.r.injectionToUl, 2))
         }
         Label {
+            Layout.fillWidth: true
+            visible: root.r.holdAddedMin > 0
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.smallFont
+            text: qsTr("The gradient starts after a %1 min hold, so it reaches the column as late as before (the pump's dwell volume).")
+                  .arg(root.num(root.r.holdAddedMin, 2))
+        }
+        Label {
             objectName: "smallerSolventText"
             Layout.fillWidth: true
             wrapMode: Text.Wrap
@@ -300,8 +310,14 @@ Card {
             text: qsTr("Add as a new method")
             highlighted: true
             onClicked: {
-                var why = move.addAsMethod(nameEntry.field.text)
-                root.status = why.length > 0 ? why : qsTr("Added “%1” to the plan's methods; add it to a sequence row to run it.").arg(nameEntry.field.text.trim())
+                var name = nameEntry.field.text.trim()
+                var why = move.addAsMethod(name)
+                if (why.length > 0) {
+                    root.status = why
+                    return
+                }
+                root.methodAdded(name)
+                root.status = qsTr("Added “%1” to the plan's methods and opened it above; add it to a sequence row to run it.").arg(name)
             }
         }
     }
