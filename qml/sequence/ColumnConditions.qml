@@ -52,7 +52,8 @@ Card {
         label: qsTr("Column for method “%1”").arg(root.method)
         accessibleName: qsTr("Column for method %1").arg(root.method)
         choices: {
-            var planName = root.plan.document.column && root.plan.document.column.name ? root.plan.document.column.name : qsTr("no size given")
+            var pc = root.plan.document.column || {}
+            var planName = pc.name ? pc.name : (pc.length_mm ? columns.summary(pc) : qsTr("no size given"))
             var out = [{ id: "\u0001plan", name: qsTr("The plan's column (%1)").arg(planName) }]
             for (var i = 0; i < columns.names.length; ++i)
                 out.push({ id: columns.names[i], name: columns.names[i] })
