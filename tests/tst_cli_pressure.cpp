@@ -6,7 +6,10 @@
 #include <QJsonDocument>
 #include <QtTest>
 
+#include <cmath>
+
 using phaseplan::testing::run_cli;
+using phaseplan::testing::verify_rejected;
 
 namespace {
 
@@ -163,6 +166,49 @@ class TestCliPressure : public QObject {
         QVERIFY(caution);
         // The column-ph check still reads the same column.
         QCOMPARE(near["methods"].toObject()["m"].toObject()["max_pressure_bar"].toDouble(), peak);
+    }
+
+    // A method may carry its own column (the app copies a library column into the method): it
+    // wins over the plan's column for that method's pressure; the other methods keep the plan's.
+    // Darcy's law (chem/pressure.h): at the same flow, length and composition, ΔP ∝ 1/(d_c² d_p²),
+    // so 2.1 mm, 1.7 µm against 4.6 mm, 3 µm is (4.6/2.1)²·(3/1.7)² ≈ 14.9 times the column's
+    // pressure (the instrument adds none here).
+    void methodOwnColumn() {
+        QJsonObject own = method(1.0);
+        own["column"] = QJsonObject{{"name", "narrow"},
+                                    {"length_mm", 150},
+                                    {"id_mm", 2.1},
+                                    {"particle_um", 1.7},
+                                    {"max_pressure_bar", 1200}};
+        QJsonObject doc{
+            {"lines", lines()},
+            {"methods", QJsonObject{{"plain", method(1.0)}, {"own", own}}},
+            {"sequence", QJsonArray{QJsonObject{{"method", "plain"}, {"injections", 1}},
+                                    QJsonObject{{"method", "own"}, {"injections", 1}}}},
+            {"start", "2026-12-01T18:00:00"},
+            {"column", QJsonObject{{"length_mm", 150}, {"id_mm", 4.6}, {"particle_um", 3}}}};
+        const QJsonObject out = run_ok("sequence", doc);
+        const QJsonObject plain = out["methods"].toObject()["plain"].toObject();
+        const QJsonObject mine = out["methods"].toObject()["own"].toObject();
+        const double ratio = mine["pressure"].toObject()["max_column_pressure_bar"].toDouble() /
+                             plain["pressure"].toObject()["max_column_pressure_bar"].toDouble();
+        const double expected = (4.6 / 2.1) * (4.6 / 2.1) * (3 / 1.7) * (3 / 1.7);
+        QVERIFY2(std::abs(ratio / expected - 1) < 0.02, qPrintable(QString::number(ratio)));
+        QCOMPARE(mine["pressure"].toObject()["limit_bar"].toDouble(), 1200.0);
+        QVERIFY(plain["pressure"].toObject()["limit_bar"].isNull());
+
+        // Without a plan column, only the method with its own column has a pressure.
+        doc.remove("column");
+        const QJsonObject alone = run_ok("sequence", doc);
+        QVERIFY(alone["methods"].toObject()["own"].toObject().contains("pressure"));
+        QVERIFY(!alone["methods"].toObject()["plain"].toObject().contains("pressure"));
+
+        // A bad field of the method's column is named with its path.
+        own["column"] = QJsonObject{{"length_mm", 150}, {"id_mm", 2.1}, {"particle_um", 0.1}};
+        doc["methods"] = QJsonObject{{"own", own}};
+        doc["sequence"] = QJsonArray{QJsonObject{{"method", "own"}, {"injections", 1}}};
+        verify_rejected(run_cli({"sequence", "-"}, QJsonDocument(doc).toJson()),
+                        "methods.own.column.particle_um", "0.1");
     }
 };
 

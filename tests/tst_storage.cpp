@@ -298,6 +298,12 @@ class TestStorage : public QObject {
         QVERIFY(db.sync_shipped_file("reagents.json", library_v1));
         db.save_user_entry("reagents", json(R"({"id": "x"})"), "lab");
         QCOMPARE(db.list(DocumentKind::buffer).size(), size_t(2));
+        // v9: the columns table takes a column (its reading and checks: tst_gui_columns).
+        db.exec("INSERT INTO columns (name, document, created_at, updated_at) VALUES (?, ?, ?, ?)",
+                {"C18", R"({"length_mm": 150, "id_mm": 4.6, "particle_um": 5})", "t", "t"});
+        QSqlQuery columns = db.exec("SELECT count(*) FROM columns");
+        QVERIFY(columns.next());
+        QCOMPARE(columns.value(0).toInt(), 1);
     }
 
     void refuses_newer_schema_and_non_database() {

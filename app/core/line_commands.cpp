@@ -93,6 +93,8 @@ std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const s
     return d;
 }
 
+} // namespace
+
 std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
                                                    const std::string& root) {
     if (!doc.contains("column") || doc.value("column").isNull())
@@ -117,6 +119,8 @@ std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc,
                                                         chem::format_number(c.ph_min));
     return c;
 }
+
+namespace {
 
 QJsonObject solvent_properties(const chem::Solvent& s) {
     QJsonObject src;
@@ -365,8 +369,8 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
 
 chem::Method method_from_json(const QJsonObject& mo, const std::string& name,
                               const std::string& mpath) {
-    json::reject_near_misses(mo, {"flow_ml_min", "gradient", "run_min", "equilibration_min"},
-                             mpath);
+    json::reject_near_misses(
+        mo, {"flow_ml_min", "gradient", "run_min", "equilibration_min", "column"}, mpath);
     chem::Method m;
     m.name = name;
     m.flow_ml_min = json::require_number(mo, "flow_ml_min", mpath);

@@ -60,8 +60,12 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                           double volume_ml, bool bottle_required,
                           std::vector<chem::Warning>* notes = nullptr);
 
+/// The pH range of doc["column"] (ph_min, ph_max, temperature_c), or none when it gives neither pH
+/// field; both are then required, within pH 0 to 14, ph_min below ph_max.
+std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc, const std::string& root);
 /// A method of the `sequence` document ({"flow_ml_min", "gradient", "run_min",
-/// "equilibration_min"}) at `path` ("methods.assay"); values are checked by chem::validate_method.
+/// "equilibration_min", and optionally its own "column", read by sequence_pressure}) at `path`
+/// ("methods.assay"); values are checked by chem::validate_method.
 chem::Method method_from_json(const QJsonObject& o, const std::string& name,
                               const std::string& path);
 /// The line percentages of a gradient row or a composition ({"A": 95, "B": 5}); keys other than

@@ -232,12 +232,33 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
     std::vector<std::optional<chem::PressureTrace>> out;
     auto column = pressure_column_from_json(doc, "column", root);
     chem::Instrument instrument = instrument_from_json(doc, root);
-    if (!column)
+    // A method may carry its own column ("methods.<name>.column", the same fields): it wins over
+    // the plan's column for that method's pressure.
+    const QJsonObject methods_doc = doc.value("methods").toObject();
+    std::vector<std::optional<chem::Column>> own(in.methods.size());
+    bool any = column.has_value();
+    for (std::size_t i = 0; i < in.methods.size(); ++i) {
+        const QString name = qs(in.methods[i].name);
+        own[i] = pressure_column_from_json(methods_doc.value(name).toObject(), "column",
+                                           json::path(json::path(root, "methods"), name));
+        if (own[i]) {
+            own[i]->field = json::path(json::path("methods", name), "column");
+            any = true;
+        }
+    }
+    if (!any)
         return out;
     // Fields relative to the plan; the catch below adds the plan's path once.
-    column->field = "column";
+    if (column)
+        column->field = "column";
     instrument.field = "instrument";
-    for (const chem::Method& m : in.methods) {
+    for (std::size_t i = 0; i < in.methods.size(); ++i) {
+        const chem::Method& m = in.methods[i];
+        const std::optional<chem::Column>& col = own[i] ? own[i] : column;
+        if (!col) {
+            out.emplace_back();
+            continue;
+        }
         std::string undescribed;
         for (const auto& r : m.gradient)
             for (int l = 0; l < chem::max_lines; ++l)
@@ -256,7 +277,7 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
             continue;
         }
         try {
-            out.emplace_back(chem::pressure_trace(data.solvents, profiles, m, *column, instrument));
+            out.emplace_back(chem::pressure_trace(data.solvents, profiles, m, *col, instrument));
         } catch (const chem::Error& e) {
             if (root.empty())
                 throw;

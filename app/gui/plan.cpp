@@ -808,6 +808,35 @@ QString Plan::addMethod(const QString& like) {
     return name;
 }
 
+QVariantMap Plan::methodColumn(const QString& name) const {
+    const QJsonObject own = method(name).value("column").toObject();
+    const QJsonObject c = own.isEmpty() ? obj(doc_, "column") : own;
+    const bool has = c.contains("length_mm") && c.contains("id_mm") && c.contains("particle_um");
+    return QVariantMap{{"own", !own.isEmpty()},
+                       {"name", c.value("name").toString()},
+                       {"document", c.toVariantMap()},
+                       {"has", has}};
+}
+
+void Plan::setMethodColumn(const QString& name, const QVariantMap& column) {
+    QJsonObject m = method(name);
+    if (m.isEmpty())
+        return;
+    if (column.isEmpty())
+        m.remove("column");
+    else
+        m.insert("column", QJsonObject::fromVariantMap(column));
+    setMethod(name, m);
+}
+
+int Plan::methodInjections(const QString& name) const {
+    int n = 0;
+    for (const QJsonValue& r : rows())
+        if (r.toObject().value("method").toString() == name)
+            n += r.toObject().value("injections").toInt();
+    return n;
+}
+
 QString Plan::removeMethod(const QString& name) {
     for (const QJsonValue& r : rows())
         if (r.toObject().value("method").toString() == name)

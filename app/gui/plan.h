@@ -224,6 +224,15 @@ class Plan : public QObject {
     Q_INVOKABLE QString removeMethod(const QString& name);
     /// Renames a method, and the sequence rows that run it; returns "" or why not (empty, taken).
     Q_INVOKABLE QString renameMethod(const QString& from, const QString& to);
+    /// The column `method` runs on: its own copy ("methods.<name>.column", picked from the
+    /// library) or else the plan's column: {own (bool), name, document (the column object), has
+    /// (it gives the three dimensions)}.
+    Q_INVOKABLE QVariantMap methodColumn(const QString& method) const;
+    /// Gives `method` a copy of `column` (a library column's document); an empty map goes back to
+    /// the plan's column.
+    Q_INVOKABLE void setMethodColumn(const QString& method, const QVariantMap& column);
+    /// The injections of `method` in tonight's sequence rows.
+    Q_INVOKABLE int methodInjections(const QString& method) const;
     /// How many sequence rows run a method (for "delete?" questions).
     Q_INVOKABLE int rowsUsingMethod(const QString& name) const;
 

@@ -1,5 +1,7 @@
 #include "workspace.h"
 
+#include "column_library.h"
+
 #include "chem/error.h"
 #include "core/solvent_data.h"
 
@@ -222,6 +224,7 @@ void Workspace::seed_demo(storage::Database& db) const {
         }
     }
     db.save_all(docs);
+    seed_demo_columns(db);
     db.set_setting(QStringLiteral("demo_seeded"),
                    true); // read by nothing now; older versions look for it
 }

@@ -99,6 +99,9 @@ class Workspace : public QObject, public QQmlParserStatus {
     void classBegin() override {}
     void componentComplete() override;
 
+    /// Tells every ColumnLibrary that the columns table changed.
+    void notifyColumnsChanged() { emit columnsChanged(); }
+
   signals:
     void databasePathChanged();
     void dataDirChanged();
@@ -106,6 +109,8 @@ class Workspace : public QObject, public QQmlParserStatus {
     void libraryChanged();
     void savedChanged();
     void storageNoticeChanged();
+    /// The lab's columns (the `columns` table) changed: every ColumnLibrary reloads.
+    void columnsChanged();
 
   private:
     void seed_demo(storage::Database& db) const;

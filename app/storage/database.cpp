@@ -510,6 +510,8 @@ void Database::set_aside_oversized() {
     for (DocumentKind k : all_document_kinds)
         scan(QLatin1String(table_of(k)), QStringLiteral("name"), QStringLiteral("document"));
     scan(QStringLiteral("settings"), QStringLiteral("key"), QStringLiteral("value"));
+    if (db_.tables().contains(QStringLiteral("columns")))
+        scan(QStringLiteral("columns"), QStringLiteral("name"), QStringLiteral("document"));
     if (found.empty())
         return;
     Transaction t(*this);

@@ -112,6 +112,18 @@ const std::vector<Migration>& migrations() {
              for (const QString& sql : batch_schema_capture_statements())
                  db.exec(sql);
          }},
+        {9,
+         "the lab's columns: name and the `column` object of the pressure command "
+         "(app/gui/column_library.h)",
+         [](Database& db) {
+             // document: {"length_mm", "id_mm", "particle_um", "porosity"?, "max_pressure_bar"?,
+             // "ph_min"?, "ph_max"?, "temperature_c"?, "reference"?} as the CLI reads a column.
+             db.exec("CREATE TABLE columns ("
+                     " id INTEGER PRIMARY KEY,"
+                     " name TEXT NOT NULL UNIQUE CHECK (length(name) > 0),"
+                     " document TEXT NOT NULL CHECK (json_valid(document)),"
+                     " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;

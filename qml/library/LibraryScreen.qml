@@ -93,17 +93,25 @@ ScreenPage {
             }
         }
 
-        ReagentEditorCard {
+        // The lab's own entries, columns and instruments beside the list (below it in portrait),
+        // so each is in view without scrolling past the whole library.
+        ColumnLayout {
             Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.5
             Layout.fillWidth: true
             Layout.alignment: Qt.AlignTop
-            editor: editor
-        }
-        InstrumentsCard {
-            Layout.preferredWidth: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) * 0.5
-            Layout.fillWidth: true
-            Layout.alignment: Qt.AlignTop
-            workspace: root.workspace
+            spacing: Theme.margin
+            ReagentEditorCard {
+                Layout.fillWidth: true
+                editor: editor
+            }
+            ColumnsCard {
+                Layout.fillWidth: true
+                workspace: root.workspace
+            }
+            InstrumentsCard {
+                Layout.fillWidth: true
+                workspace: root.workspace
+            }
         }
     }
 }

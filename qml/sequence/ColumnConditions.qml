@@ -24,9 +24,9 @@ Card {
         root.plan.fillConditionSeries(barSeries, root.method, "pressure")
         root.plan.fillConditionSeries(limitSeries, root.method, "limit")
     }
-    onMethodChanged: refresh()
+    onMethodChanged: { refresh(); refreshColumn() }
     onVisibleChanged: if (visible) refresh()
-    Component.onCompleted: refresh()
+    Component.onCompleted: { refresh(); refreshColumn() }
     Connections {
         target: root.plan
         function onResultChanged() { root.refresh() }
@@ -34,6 +34,50 @@ Card {
 
     title: qsTr("What the column sees")
     note: root.method.length > 0 ? qsTr("method “%1”, one injection").arg(root.method) : ""
+
+    ColumnLibrary {
+        id: columns
+        workspace: root.plan.workspace
+    }
+    /// The method's column: {own, name, document, has}.
+    property var methodColumn: ({})
+    function refreshColumn() { root.methodColumn = root.plan.methodColumn(root.method) }
+    Connections {
+        target: root.plan
+        function onDocumentChanged() { root.refreshColumn() }
+    }
+    ChoiceField {
+        objectName: "methodColumnPicker"
+        Layout.fillWidth: true
+        label: qsTr("Column for method “%1”").arg(root.method)
+        accessibleName: qsTr("Column for method %1").arg(root.method)
+        choices: {
+            var pc = root.plan.document.column || {}
+            var planName = pc.name ? pc.name : (pc.length_mm ? columns.summary(pc) : qsTr("no size given"))
+            var out = [{ id: "\u0001plan", name: qsTr("The plan's column (%1)").arg(planName) }]
+            for (var i = 0; i < columns.names.length; ++i)
+                out.push({ id: columns.names[i], name: columns.names[i] })
+            var mc = root.methodColumn
+            if (mc.own && columns.names.indexOf(mc.name) < 0)
+                out.push({ id: mc.name, name: qsTr("%1 (kept with the method)").arg(mc.name) })
+            return out
+        }
+        current: root.methodColumn.own ? root.methodColumn.name : "\u0001plan"
+        onPicked: function(id) {
+            if (id === "\u0001plan")
+                root.plan.setMethodColumn(root.method, {})
+            else if (columns.names.indexOf(id) >= 0)
+                root.plan.setMethodColumn(root.method, columns.document(id))
+        }
+    }
+    Label {
+        Layout.fillWidth: true
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.smallFont
+        color: Theme.dimText
+        text: root.methodColumn.has ? columns.summary(root.methodColumn.document)
+                                    : qsTr("This column has no length, inner diameter and particle size: no pressure. Pick a column from the library (Library › Columns).")
+    }
 
     Label {
         objectName: "conditionsText"

@@ -59,6 +59,12 @@ Item {
                 plan: root.plan
                 method: gradientEditor.gradient.methodName
             }
+            SmallerColumn {
+                Layout.fillWidth: true
+                plan: root.plan
+                method: gradientEditor.gradient.methodName
+                onMethodAdded: function(name) { gradientEditor.gradient.methodName = name }
+            }
             SequenceRows {
                 id: sequenceRows
                 Layout.fillWidth: true

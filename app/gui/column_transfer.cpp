@@ -1,0 +1,247 @@
+#include "column_transfer.h"
+
+#include "column_library.h"
+#include "core/pressure_commands.h"
+#include "workspace.h"
+
+#include <QJsonArray>
+#include <QLocale>
+
+#include <cmath>
+#include <limits>
+
+namespace phaseplan::gui {
+
+namespace {
+
+QString num(double v) {
+    QLocale l;
+    l.setNumberOptions(QLocale::OmitGroupSeparator);
+    return l.toString(v, 'g', 6);
+}
+
+/// "to.particle_um" → "particle_um"; "to.flow_ml_min" → "flow_ml_min"; "injection_ul" stays.
+QString view_field(const QString& f) {
+    if (f.startsWith(QLatin1String("to.")))
+        return f.mid(3);
+    return f;
+}
+
+} // namespace
+
+ColumnTransfer::ColumnTransfer(QObject* parent)
+    : QObject(parent), flow_(std::numeric_limits<double>::quiet_NaN()) {}
+
+void ColumnTransfer::setPlan(Plan* p) {
+    if (plan_ == p)
+        return;
+    if (plan_)
+        disconnect(plan_, nullptr, this, nullptr);
+    plan_ = p;
+    if (plan_)
+        connect(plan_, &Plan::documentChanged, this, &ColumnTransfer::recompute);
+    emit planChanged();
+    recompute();
+}
+
+void ColumnTransfer::setMethod(const QString& m) {
+    if (method_ == m)
+        return;
+    method_ = m;
+    emit inputChanged();
+    recompute();
+}
+
+void ColumnTransfer::setTarget(const QVariantMap& t) {
+    const QJsonObject o = QJsonObject::fromVariantMap(t);
+    if (o == target_)
+        return;
+    target_ = o;
+    emit inputChanged();
+    recompute();
+}
+
+void ColumnTransfer::setTargetFlowMlMin(double f) {
+    if (f == flow_ || (std::isnan(f) && std::isnan(flow_)))
+        return;
+    flow_ = f;
+    emit inputChanged();
+    recompute();
+}
+
+void ColumnTransfer::setInjectionUl(double v) {
+    if (v == injection_ul_)
+        return;
+    injection_ul_ = v;
+    emit inputChanged();
+    recompute();
+}
+
+QJsonObject ColumnTransfer::scaledMethod() const {
+    return scaled_;
+}
+
+void ColumnTransfer::recompute() {
+    QVariantMap errors, result;
+    QString problem;
+    QJsonObject scaled;
+    bool valid = false;
+    Workspace* ws = plan_ ? plan_->workspace() : nullptr;
+    const QJsonObject m = plan_ ? plan_->method(method_) : QJsonObject();
+    const QVariantMap from_info = plan_ ? plan_->methodColumn(method_) : QVariantMap();
+    const QJsonObject from = QJsonObject::fromVariantMap(from_info.value("document").toMap());
+    if (!ws || !ws->ready())
+        problem = tr("The reference data are not loaded.");
+    else if (m.isEmpty())
+        problem = tr("Pick a method first.");
+    else if (!from_info.value("has").toBool())
+        problem = tr("Method “%1” has no column with its length, inner diameter and particle "
+                     "size: pick its column above first.")
+                      .arg(method_);
+    else if (target_.isEmpty())
+        problem = tr("Pick the column to move to, or type its size.");
+    else {
+        QJsonObject method = m;
+        method.remove("column");
+        QJsonObject to = target_;
+        if (!std::isnan(flow_))
+            to.insert("flow_ml_min", flow_);
+        // The same instrument before and after: its dwell volume on both sides, so the core keeps
+        // the gradient's delay in column volumes (an initial hold) or says it cannot.
+        QJsonObject from_side = from;
+        const QJsonValue dwell = plan_->json().value("instrument").toObject().value("dwell_ml");
+        if (dwell.isDouble() && dwell.toDouble() > 0) {
+            from_side.insert("dwell_ml", dwell);
+            to.insert("dwell_ml", dwell);
+        }
+        const int night = plan_->methodInjections(method_);
+        QJsonObject input{{"method", method},
+                          {"from", from_side},
+                          {"to", to},
+                          {"sequence_injections", std::max(1, night)}};
+        if (!std::isnan(injection_ul_))
+            input.insert("injection_ul", injection_ul_);
+        const QJsonObject doc = plan_->json();
+        QJsonObject with_lines = input;
+        with_lines.insert("lines", doc.value("lines"));
+        if (doc.contains("instrument"))
+            with_lines.insert("instrument", doc.value("instrument"));
+        QJsonObject out;
+        QString pressure_note;
+        FieldError err = guarded([&] { out = command_transfer(ws->data(), with_lines, {}); });
+        const bool own_field = err.field.startsWith(QLatin1String("to")) ||
+                               err.field.startsWith(QLatin1String("from")) ||
+                               err.field == QLatin1String("injection_ul") ||
+                               err.field.startsWith(QLatin1String("method"));
+        if (!err.empty() && !own_field) {
+            // The lines or the instrument stop the pressure, not the move: move without them.
+            pressure_note = tr("No pressure on the new column: %1").arg(err.message);
+            err = guarded([&] { out = command_transfer(ws->data(), input, {}); });
+        }
+        if (!err.empty()) {
+            if (err.field.startsWith(QLatin1String("to")) || err.field == "injection_ul")
+                errors.insert(view_field(err.field), err.message);
+            else if (err.field.startsWith(QLatin1String("from")))
+                problem = tr("The column of method “%1”: %2").arg(method_, err.message);
+            else
+                problem = err.field.isEmpty() ? err.message : err.field + ": " + err.message;
+        } else {
+            valid = true;
+            const QJsonObject sm = out.value("method").toObject();
+            QVariantList rows;
+            const QJsonArray g0 = method.value("gradient").toArray();
+            const QJsonArray g1 = sm.value("gradient").toArray();
+            // The dwell correction may add a first hold row; line up from the end.
+            const int extra = int(g1.size() - g0.size());
+            for (int i = 0; i < g1.size(); ++i) {
+                const int j = i - extra;
+                rows.append(
+                    QVariantMap{{"fromMin", j >= 0 ? g0.at(j).toObject().value("t_min").toDouble()
+                                                   : std::numeric_limits<double>::quiet_NaN()},
+                                {"toMin", g1.at(i).toObject().value("t_min").toDouble()}});
+            }
+            const QJsonObject per = out.value("solvent_ml_per_injection").toObject();
+            const QJsonObject seq = out.value("solvent_ml_per_sequence").toObject();
+            const QJsonObject p = out.value("pressure").toObject();
+            QVariantList warnings;
+            for (const QJsonValue& w : out.value("warnings").toArray()) {
+                const QString code = w.toObject().value("code").toString();
+                if (code == "pressure-uncalibrated" || code == "pressure-no-limit" ||
+                    code == "outside-allowed-adjustment")
+                    continue; // said by the view's own lines
+                warnings.append(w.toObject().value("message").toString());
+            }
+            const QString to_name = target_.value("name").toString();
+            const QString size = QStringLiteral("%1×%2 mm")
+                                     .arg(num(target_.value("length_mm").toDouble()),
+                                          num(target_.value("id_mm").toDouble()));
+            result = QVariantMap{
+                {"fromName", from.value("name").toString()},
+                {"fromText", column_summary(from)},
+                {"toText", column_summary(target_)},
+                {"flowFromMlMin", method.value("flow_ml_min").toDouble()},
+                {"flowToMlMin", out.value("flow_ml_min").toDouble()},
+                {"scaledFlowMlMin", out.value("scaled_flow_ml_min").toDouble()},
+                {"timeFactor", out.value("time_factor").toDouble()},
+                {"rows", rows},
+                {"runFromMin", method.value("run_min").toDouble()},
+                {"runToMin", sm.value("run_min").toDouble()},
+                {"equilibrationFromMin", method.value("equilibration_min").toDouble()},
+                {"equilibrationToMin", sm.value("equilibration_min").toDouble()},
+                {"injectionFromUl", injection_ul_},
+                {"holdAddedMin", out.value("hold_added_min").toDouble()},
+                {"injectionToUl", out.value("injection_ul").toDouble()},
+                {"solventFromMl", per.value("from").toDouble()},
+                {"solventToMl", per.value("to").toDouble()},
+                {"savingFraction", out.value("saving_fraction").toDouble()},
+                {"nightInjections", night},
+                {"nightFromMl", night > 0 ? seq.value("from").toDouble() : 0.0},
+                {"nightToMl", night > 0 ? seq.value("to").toDouble() : 0.0},
+                {"nightSavingMl",
+                 night > 0 ? seq.value("from").toDouble() - seq.value("to").toDouble() : 0.0},
+                {"lOverDpChange", out.value("l_over_dp_change").toDouble()},
+                {"withinAllowed", out.value("within_allowed_adjustment").toBool()},
+                {"hasPressure", !p.isEmpty()},
+                {"maxBar", p.value("max_pressure_bar").toDouble()},
+                {"maxAtMin", p.value("max_at_t_min").toDouble()},
+                {"limitBar", p.value("limit_bar").toDouble()},
+                {"limitedBy", p.value("limited_by").toString()},
+                {"calibrated", p.value("calibrated").toBool()},
+                {"pressureNote", pressure_note},
+                {"warnings", warnings},
+                {"defaultName", tr("%1 on %2").arg(method_, size)}};
+            scaled = sm;
+            QJsonObject col = target_;
+            col.remove("flow_ml_min");
+            col.remove("dwell_ml");
+            if (to_name.isEmpty())
+                col.insert(
+                    "name",
+                    tr("%1 %2 µm (typed)").arg(size, num(target_.value("particle_um").toDouble())));
+            scaled.insert("column", col);
+        }
+    }
+    // The present column is said even while the move cannot be worked out.
+    if (result.isEmpty() && from_info.value("has").toBool())
+        result.insert("fromText", column_summary(from));
+    valid_ = valid;
+    errors_ = errors;
+    problem_ = problem;
+    result_ = result;
+    scaled_ = scaled;
+    emit resultChanged();
+}
+
+QString ColumnTransfer::addAsMethod(const QString& name) {
+    const QString n = name.trimmed();
+    if (!plan_ || !valid_ || scaled_.isEmpty())
+        return tr("Nothing to add: the move is not worked out.");
+    if (n.isEmpty())
+        return tr("The new method needs a name.");
+    if (plan_->methodNames().contains(n))
+        return tr("A method is already called “%1”: pick another name.").arg(n);
+    plan_->setMethod(n, scaled_);
+    return {};
+}
+
+} // namespace phaseplan::gui
