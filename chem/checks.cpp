@@ -4,6 +4,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <deque>
 #include <limits>
 #include <map>
 #include <set>
@@ -69,11 +71,18 @@ CheckWarning make(const char* code, Sev sev, std::string line, std::string messa
 
 /// The methods the sequence runs (indices into plan.methods), each once.
 std::vector<int> methods_run(const SequencePlan& plan) {
+    // One pass over the rows with a flag per method, stopping once every method has been seen
+    // (a plan has 10,000 rows and a few methods).
     std::vector<int> out;
-    std::set<int> seen;
-    for (const auto& r : plan.rows)
-        if (seen.insert(r.method).second)
+    std::vector<char> seen(plan.methods.size(), 0);
+    for (const auto& r : plan.rows) {
+        if (out.size() == seen.size())
+            break;
+        if (r.method >= 0 && static_cast<std::size_t>(r.method) < seen.size() && !seen[r.method]) {
+            seen[r.method] = 1;
             out.push_back(r.method);
+        }
+    }
     return out;
 }
 
@@ -298,10 +307,9 @@ std::vector<SaltLoad> salt_loads(const SolventLibrary& lib,
     return out;
 }
 
-std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan) {
-    (void)in;
+std::array<bool, max_lines> lines_in_use(const SequencePlan& plan, const std::vector<int>& run) {
     std::array<bool, max_lines> used{};
-    for (int mi : methods_run(plan))
+    for (int mi : run)
         for (int l = 0; l < max_lines; ++l)
             if (plan.methods[mi].max_percent[l] > 0)
                 used[l] = true;
@@ -310,6 +318,11 @@ std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const Sequence
             if (plan.standby_percent[l] > 0)
                 used[l] = true;
     return used;
+}
+
+std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan) {
+    (void)in;
+    return lines_in_use(plan, methods_run(plan));
 }
 
 // (a) UV cutoff of each line in use against the detector wavelength.
@@ -561,11 +574,81 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
     return out;
 }
 
+namespace {
+
+/// The compositions of a set of traces, each solved once: gradients repeat the same rows and the
+/// same whole percents of organic across methods. An open-addressing table keyed on the
+/// percentages rounded to 1e-6 % (a std::map here cost as much as the solves it saved).
+class PointCache {
+  public:
+    explicit PointCache(const EluentModel& model) : model_(model), slots_(256) {}
+
+    const EluentPoint& at(const LineValues& p, const EluentPoint* guess) {
+        Key key{};
+        for (int l = 0; l < max_lines; ++l)
+            key[l] = static_cast<long long>(p[l] * 1e6 + 0.5); // percentages are ≥ 0
+        const std::size_t mask = slots_.size() - 1;
+        for (std::size_t i = hash(key) & mask;; i = (i + 1) & mask) {
+            Slot& s = slots_[i];
+            if (s.index < 0) {
+                s.key = key;
+                s.index = static_cast<int>(points_.size());
+                points_.push_back(model_.point(p.data(), p.size(), guess));
+                if (2 * points_.size() > slots_.size())
+                    grow();
+                return points_.back();
+            }
+            if (s.key[0] == key[0] && s.key[1] == key[1] && s.key[2] == key[2] &&
+                s.key[3] == key[3])
+                return points_[s.index];
+        }
+    }
+
+  private:
+    using Key = std::array<long long, max_lines>;
+    static_assert(max_lines == 4, "the key comparison in at() spells out four lines");
+    struct Slot {
+        Key key{};
+        int index = -1;
+    };
+    /// Each key mixed in turn with the 64-bit finaliser of MurmurHash3 (Appleby 2011), so that
+    /// the low bits used as the slot depend on every bit of every percentage.
+    static std::size_t hash(const Key& key) {
+        std::uint64_t h = 0;
+        for (long long k : key) {
+            h ^= static_cast<std::uint64_t>(k) + 0x9e3779b97f4a7c15ULL + (h << 6) + (h >> 2);
+            h ^= h >> 33;
+            h *= 0xff51afd7ed558ccdULL;
+            h ^= h >> 33;
+        }
+        return static_cast<std::size_t>(h);
+    }
+    void grow() {
+        std::vector<Slot> old(slots_.size() * 2);
+        old.swap(slots_);
+        const std::size_t mask = slots_.size() - 1;
+        for (const Slot& s : old) {
+            if (s.index < 0)
+                continue;
+            std::size_t i = hash(s.key) & mask;
+            while (slots_[i].index >= 0)
+                i = (i + 1) & mask;
+            slots_[i] = s;
+        }
+    }
+    const EluentModel& model_;
+    std::vector<Slot> slots_;
+    std::deque<EluentPoint> points_; ///< stable addresses while the table grows
+};
+
+} // namespace
+
 std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     std::vector<EluentTrace> out;
     if (!c.reagents || !c.solvents || !c.input || !c.plan)
         return out;
-    const auto used = lines_in_use(*c.input, *c.plan);
+    const std::vector<int> run = methods_run(*c.plan);
+    const auto used = lines_in_use(*c.plan, run);
     std::vector<const LineProfile*> profiles(max_lines, nullptr);
     for (int l = 0; l < max_lines; ++l) {
         if (c.profiles[l] && c.profiles[l]->described)
@@ -575,21 +658,11 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     }
     const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
     const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
-    // Points repeat across methods (the same rows, the same 1 % steps): solve each composition
-    // once.
-    std::map<std::array<long long, max_lines>, EluentPoint> solved;
-    auto at = [&](const LineValues& p, const EluentPoint* guess) {
-        std::array<long long, max_lines> key{};
-        for (int l = 0; l < max_lines; ++l)
-            key[l] = std::llround(p[l] * 1e6);
-        auto it = solved.find(key);
-        if (it != solved.end())
-            return it->second;
-        const EluentPoint e = model.point(p.data(), p.size(), guess);
-        solved.emplace(key, e);
-        return e;
+    PointCache solved(model);
+    auto at = [&](const LineValues& p, const EluentPoint* guess) -> const EluentPoint& {
+        return solved.at(p, guess);
     };
-    for (int mi : methods_run(*c.plan)) {
+    for (int mi : run) {
         const Method& m = c.input->methods[mi];
         EluentTrace tr;
         tr.method = m.name;
@@ -598,12 +671,11 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         for (const AcidBaseSystem* sys : model.systems())
             tr.systems.push_back(sys->id);
         const EluentPoint* last = nullptr;
-        EluentPoint previous;
         auto add = [&](const Stretch& s, double u) {
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
-            previous = at(p, last);
+            const EluentPoint& previous = at(p, last);
             last = &previous;
             EluentTracePoint tp;
             tp.t_min = s.start_min + u * s.duration_min;
@@ -617,6 +689,8 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
             tr.points.push_back(std::move(tp));
         };
         const auto ss = stretches(m);
+        tr.points.reserve(ss.size() + 101);
+        std::vector<double> us;
         for (const Stretch& s : ss) {
             add(s, 0.0);
             // Every whole percent of organic crossed inside the stretch.
@@ -625,7 +699,7 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
             const double o1 = model.organic_fraction_v(s.percent_end.data(), s.percent_end.size());
             if (std::abs(o1 - o0) > 1e-9) {
                 const double lo = std::min(o0, o1) * 100, hi = std::max(o0, o1) * 100;
-                std::vector<double> us;
+                us.clear();
                 for (double k = std::floor(lo) + 1; k < hi - 1e-9; k += 1)
                     us.push_back((k / 100 - o0) / (o1 - o0));
                 std::sort(us.begin(), us.end());

@@ -292,8 +292,8 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
     p.set_amounts(amounts);
     for (size_t i = 0; i < p.systems.size(); ++i)
         for (int j = 0; j < p.systems[i].steps; ++j)
-            p.systems[i].ka[j] = std::pow(10.0, -pka_ss[i][j]);
-    p.kw = std::pow(10.0, -pkw_ss);
+            p.systems[i].ka[j] = std::exp(-ln10 * pka_ss[i][j]);
+    p.kw = std::exp(-ln10 * pkw_ss);
     p.a_dh = debye_huckel_a_for(eps, temperature_k);
     p.a_molal = p.a_dh * std::sqrt(rho);
     p.kg_per_l = rho;
@@ -305,13 +305,21 @@ void nearest_pka(const detail::Problem& p, const detail::State& st,
                  EluentPoint& out) {
     out.nearest_pka_gap = std::numeric_limits<double>::infinity();
     out.nearest_system = -1;
-    const std::vector<double> g = detail::gammas_at(p, st);
+    // Davies: log10 γ(z) = z² log10 γ(1), so pKa′ = pKa − log10 γ(1) · (z_j² − z_{j+1}²) needs no
+    // per-species γ; SIT takes them from the solved state.
+    const bool davies = p.model == ActivityModel::davies;
+    const double log10_g1 =
+        davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;
+    const std::vector<double> g = davies ? std::vector<double>{} : detail::gammas_at(p, st);
     for (size_t i = 0; i < p.systems.size(); ++i) {
         if (p.systems[i].total_mol_per_l <= 0)
             continue;
         const int o = p.sys_offset[i];
         for (int j = 0; j < p.systems[i].steps; ++j) {
-            const double cond = pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
+            const int za = p.flat_charge[o + j], zb = p.flat_charge[o + j + 1];
+            const double cond =
+                davies ? pka_ss[i][j] - log10_g1 * (za * za - zb * zb)
+                       : pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
             if (std::abs(st.ph - cond) < out.nearest_pka_gap) {
                 out.nearest_pka_gap = std::abs(st.ph - cond);
                 out.nearest_pka = cond;
@@ -345,7 +353,7 @@ EluentPoint EluentModel::point(const double* percent, std::size_t count,
             g0.ph = guess->ph_s_s;
             g0.ionic_strength_mol_per_l = guess->ionic_strength_mol_per_l;
         }
-        const detail::State st = detail::solve_state(p, guess ? &g0 : nullptr);
+        const detail::State st = guess ? detail::solve_state_near(p, g0) : detail::solve_state(p);
         out.ph_s_s = st.ph;
         out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
         nearest_pka(p, st, pr.pka_ss, out);
