@@ -325,7 +325,13 @@ std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const Sequence
     return lines_in_use(plan, methods_run(plan));
 }
 
-// (a) UV cutoff of each line in use against the detector wavelength.
+// (a) The eluent's absorbance at the detector wavelength. Absorbance adds (Beer–Lambert), so at a
+// pump composition the eluent absorbs A(λ) = Σ_l φ_l A_l(λ), each line's A_l(λ) from its parts
+// (line_uv_cutoff_nm's model); the mixing contraction, which concentrates by 2–3 % at most, is
+// left out. A is linear in the composition and the composition linear along a stretch, so the
+// ends of the stretches the sequence runs (standby included) hold the worst case exactly. On the
+// same model, A ≥ 1 means the detector reads below the eluent's cutoff (warning) and
+// A ≥ 10^(−margin/w) within the margin of it (caution); a line at 100 % gives its own cutoff.
 std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
     if (!c.detector || !detector_reads_uv(c.detector->type) || !c.detector->wavelength_nm)
@@ -333,27 +339,84 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
     const double wl = *c.detector->wavelength_nm;
     const double margin = c.detector->margin_nm;
     const auto used = lines_in_use(*c.input, *c.plan);
+    LineValues line_a{}; // each line's absorbance at wl
+    for (int l = 0; l < max_lines; ++l)
+        if (used[l] && c.profiles[l] && c.profiles[l]->described)
+            line_a[l] = uv_absorbance(c.profiles[l]->uv_parts, wl);
+    struct Worst {
+        double a = -1;
+        std::string where;
+        double t_min = 0;
+        LineValues percent{};
+    } worst;
+    for (const NamedStretch& ns : all_stretches(*c.input, *c.plan))
+        for (const bool end : {false, true}) {
+            const LineValues& pc = end ? ns.s.percent_end : ns.s.percent_start;
+            double a = 0;
+            for (int l = 0; l < max_lines; ++l)
+                a += pc[l] / 100.0 * line_a[l];
+            if (a > worst.a + 1e-12) {
+                worst = {a, ns.where, ns.s.start_min + (end ? ns.s.duration_min : 0.0), pc};
+            }
+        }
+    const double caution_a = std::pow(10.0, -margin / uv_decade_nm);
+    if (worst.a >= caution_a) {
+        // The line, and the part of it, that brings most of the absorbance there.
+        int top_line = -1;
+        double top_a = -1;
+        std::string part;
+        for (int l = 0; l < max_lines; ++l) {
+            if (!c.profiles[l] || worst.percent[l] <= 0)
+                continue;
+            for (const UvPart& u : c.profiles[l]->uv_parts) {
+                const double a = worst.percent[l] / 100.0 * uv_absorbance({u}, wl);
+                if (a > top_a) {
+                    top_a = a;
+                    top_line = l;
+                    part = u.who;
+                }
+            }
+        }
+        const double cut = wl + uv_decade_nm * std::log10(worst.a);
+        const bool below = worst.a >= 1;
+        std::string where;
+        if (!c.lone_line) {
+            std::string mix;
+            for (int l = 0; l < max_lines; ++l)
+                if (worst.percent[l] > 0)
+                    mix += (mix.empty() ? "" : ", ") + fmt(worst.percent[l], 0) + " % " + letter(l);
+            where = worst.where == "standby"
+                        ? " at standby (" + mix + ")"
+                        : " in method " + worst.where + " at " + fmt(worst.t_min, 2) +
+                              " min of each injection (" + mix + ")";
+        }
+        const std::string who =
+            top_line >= 0 ? named(c, part) + (c.lone_line ? "" : " in " + line_title(c, top_line))
+                          : std::string("its parts");
+        CheckWarning w = make(
+            "uv-cutoff", below ? Sev::warning : Sev::caution, top_line >= 0 ? letter(top_line) : "",
+            std::string(c.lone_line ? "The line" : "The eluent") + where + " absorbs " +
+                fmt(worst.a, 2) + " (1 cm) at " + fmt(wl, 0) + " nm, mostly from " + who +
+                ": its UV cutoff there is " + fmt(cut, 0) + " nm; the detector reads at " +
+                fmt(wl, 0) + " nm, " +
+                (below ? "below the cutoff: expect a high baseline and a drifting gradient."
+                       : "within " + fmt(margin, 0) +
+                             " nm of it: expect baseline drift over the gradient."));
+        w.number("wavelength_nm", wl);
+        w.number("cutoff_nm", cut);
+        w.number("absorbance", worst.a);
+        w.number("margin_nm", margin);
+        w.text("limited_by", part);
+        if (!c.lone_line) {
+            w.text("method", worst.where);
+            w.number("t_min", worst.t_min);
+        }
+        out.push_back(w);
+    }
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
         if (!used[l] || !p || !p->described)
             continue;
-        const double cut = p->uv_cutoff_nm;
-        if (wl < cut + margin) {
-            const bool below = wl < cut;
-            CheckWarning w = make(
-                "uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
-                line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " +
-                    named(c, p->uv_limited_by) + "); the detector reads at " + fmt(wl, 0) +
-                    " nm, " +
-                    (below ? "below the cutoff: expect a high baseline and a drifting gradient."
-                           : "within " + fmt(margin, 0) +
-                                 " nm of it: expect baseline drift over the gradient."));
-            w.number("wavelength_nm", wl);
-            w.number("cutoff_nm", cut);
-            w.number("margin_nm", margin);
-            w.text("limited_by", p->uv_limited_by);
-            out.push_back(w);
-        }
         if (!p->uv_unknown.empty()) {
             CheckWarning w = make("uv-cutoff", Sev::caution, letter(l),
                                   line_title(c, l) + ": no UV cutoff figure for " +
@@ -368,8 +431,8 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
                 make("uv-cutoff", Sev::info, letter(l),
                      line_title(c, l) + ": " + join(named(c, p->uv_beyond_table)) +
                          " is above the highest concentration in its UV table; the cutoff used (" +
-                         fmt(cut, 0) + " nm) is a lower bound.");
-            w.number("cutoff_nm", cut);
+                         fmt(p->uv_cutoff_nm, 0) + " nm) is a lower bound.");
+            w.number("cutoff_nm", p->uv_cutoff_nm);
             out.push_back(w);
         }
     }
