@@ -674,16 +674,17 @@ class PointCache {
         Key key{};
         int index = -1;
     };
-    /// Each key mixed in turn with the 64-bit finaliser of MurmurHash3 (Appleby 2011), so that
-    /// the low bits used as the slot depend on every bit of every percentage.
+    /// The four rounded percentages, each multiplied by its own odd constant (Knuth's
+    /// multiplicative hashing) and folded with one shift, so that the low bits used as the slot
+    /// depend on every percentage.
     static std::size_t hash(const Key& key) {
-        std::uint64_t h = 0;
-        for (long long k : key) {
-            h ^= static_cast<std::uint64_t>(k) + 0x9e3779b97f4a7c15ULL + (h << 6) + (h >> 2);
-            h ^= h >> 33;
-            h *= 0xff51afd7ed558ccdULL;
-            h ^= h >> 33;
-        }
+        std::uint64_t h = static_cast<std::uint64_t>(key[0]) * 0x9e3779b97f4a7c15ULL ^
+                          static_cast<std::uint64_t>(key[1]) * 0xc2b2ae3d27d4eb4fULL ^
+                          static_cast<std::uint64_t>(key[2]) * 0x165667b19e3779f9ULL ^
+                          static_cast<std::uint64_t>(key[3]) * 0xd6e8feb86659fd93ULL;
+        h ^= h >> 29;
+        h *= 0xbf58476d1ce4e5b9ULL;
+        h ^= h >> 32;
         return static_cast<std::size_t>(h);
     }
     void grow() {

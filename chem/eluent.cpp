@@ -149,8 +149,16 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                                   ? water_permittivity(to_kelvin(temperature_c))
                                   : es->permittivity_25c;
             line_solvents_[l].push_back(ls);
+            if (!ls.solvent->aqueous &&
+                std::none_of(organic_excess_.begin(), organic_excess_.end(),
+                             [&](const OrganicExcess& o) { return o.solvent == ls.solvent; }))
+                organic_excess_.push_back(
+                    {ls.solvent, solvents.excess_volume("water", ls.solvent->id),
+                     ls.solvent->density_g_per_ml / ls.solvent->molar_mass_g_per_mol});
         }
     }
+    if (const Solvent* w = solvents.find_solvent("water"))
+        water_mol_per_ml_ = w->density_g_per_ml / w->molar_mass_g_per_mol;
     has_components_ = !components_.empty();
     if (has_components_) {
         problem_ = detail::build_problem(reagents, components_, temperature_c, model);
@@ -197,6 +205,27 @@ double EluentModel::organic_fraction_v(const double* percent, std::size_t count)
     return o;
 }
 
+double
+EluentModel::contraction_of(const std::vector<std::pair<const Solvent*, double>>& fractions) const {
+    // contraction_fraction (chem/eluent_mix) with the lookups done once: each organic with its
+    // share of the water, ΔV = −(n_w + n_o) V^E(x_o) (mixing_contraction_ml).
+    double water = 0, organic = 0;
+    for (const auto& f : fractions)
+        (f.first->aqueous ? water : organic) += f.second;
+    if (organic <= 0 || water <= 0 || water_mol_per_ml_ <= 0)
+        return 0;
+    double c = 0;
+    for (const auto& f : fractions) {
+        if (f.first->aqueous || f.second <= 0)
+            continue;
+        for (const OrganicExcess& o : organic_excess_)
+            if (o.solvent == f.first && o.excess)
+                c += o.excess->contraction_ml(water * f.second / organic * water_mol_per_ml_,
+                                              f.second * o.mol_per_ml);
+    }
+    return c;
+}
+
 void EluentModel::prepare(const double* percent, std::size_t count, Prepared& out) const {
     // Blend the solvents (fractions of the unmixed volume).
     auto& fractions = out.fractions;
@@ -234,7 +263,7 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
             }
         }
     }
-    out.contraction = contraction_fraction(solvents_, fractions);
+    out.contraction = contraction_of(fractions);
     if (out.organic_v > 0)
         for (double& s : out.share)
             s /= out.organic_v;
