@@ -4,6 +4,8 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdint>
+#include <deque>
 #include <limits>
 #include <map>
 #include <set>
@@ -69,11 +71,18 @@ CheckWarning make(const char* code, Sev sev, std::string line, std::string messa
 
 /// The methods the sequence runs (indices into plan.methods), each once.
 std::vector<int> methods_run(const SequencePlan& plan) {
+    // One pass over the rows with a flag per method, stopping once every method has been seen
+    // (a plan has 10,000 rows and a few methods).
     std::vector<int> out;
-    std::set<int> seen;
-    for (const auto& r : plan.rows)
-        if (seen.insert(r.method).second)
+    std::vector<char> seen(plan.methods.size(), 0);
+    for (const auto& r : plan.rows) {
+        if (out.size() == seen.size())
+            break;
+        if (r.method >= 0 && static_cast<std::size_t>(r.method) < seen.size() && !seen[r.method]) {
+            seen[r.method] = 1;
             out.push_back(r.method);
+        }
+    }
     return out;
 }
 
@@ -298,10 +307,9 @@ std::vector<SaltLoad> salt_loads(const SolventLibrary& lib,
     return out;
 }
 
-std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan) {
-    (void)in;
+std::array<bool, max_lines> lines_in_use(const SequencePlan& plan, const std::vector<int>& run) {
     std::array<bool, max_lines> used{};
-    for (int mi : methods_run(plan))
+    for (int mi : run)
         for (int l = 0; l < max_lines; ++l)
             if (plan.methods[mi].max_percent[l] > 0)
                 used[l] = true;
@@ -312,7 +320,18 @@ std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const Sequence
     return used;
 }
 
-// (a) UV cutoff of each line in use against the detector wavelength.
+std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan) {
+    (void)in;
+    return lines_in_use(plan, methods_run(plan));
+}
+
+// (a) The eluent's absorbance at the detector wavelength. Absorbance adds (Beer–Lambert), so at a
+// pump composition the eluent absorbs A(λ) = Σ_l φ_l A_l(λ), each line's A_l(λ) from its parts
+// (line_uv_cutoff_nm's model); the mixing contraction, which concentrates by 2–3 % at most, is
+// left out. A is linear in the composition and the composition linear along a stretch, so the
+// ends of the stretches the sequence runs (standby included) hold the worst case exactly. On the
+// same model, A ≥ 1 means the detector reads below the eluent's cutoff (warning) and
+// A ≥ 10^(−margin/w) within the margin of it (caution); a line at 100 % gives its own cutoff.
 std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
     if (!c.detector || !detector_reads_uv(c.detector->type) || !c.detector->wavelength_nm)
@@ -320,27 +339,84 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
     const double wl = *c.detector->wavelength_nm;
     const double margin = c.detector->margin_nm;
     const auto used = lines_in_use(*c.input, *c.plan);
+    LineValues line_a{}; // each line's absorbance at wl
+    for (int l = 0; l < max_lines; ++l)
+        if (used[l] && c.profiles[l] && c.profiles[l]->described)
+            line_a[l] = uv_absorbance(c.profiles[l]->uv_parts, wl);
+    struct Worst {
+        double a = -1;
+        std::string where;
+        double t_min = 0;
+        LineValues percent{};
+    } worst;
+    for (const NamedStretch& ns : all_stretches(*c.input, *c.plan))
+        for (const bool end : {false, true}) {
+            const LineValues& pc = end ? ns.s.percent_end : ns.s.percent_start;
+            double a = 0;
+            for (int l = 0; l < max_lines; ++l)
+                a += pc[l] / 100.0 * line_a[l];
+            if (a > worst.a + 1e-12) {
+                worst = {a, ns.where, ns.s.start_min + (end ? ns.s.duration_min : 0.0), pc};
+            }
+        }
+    const double caution_a = std::pow(10.0, -margin / uv_decade_nm);
+    if (worst.a >= caution_a) {
+        // The line, and the part of it, that brings most of the absorbance there.
+        int top_line = -1;
+        double top_a = -1;
+        std::string part;
+        for (int l = 0; l < max_lines; ++l) {
+            if (!c.profiles[l] || worst.percent[l] <= 0)
+                continue;
+            for (const UvPart& u : c.profiles[l]->uv_parts) {
+                const double a = worst.percent[l] / 100.0 * uv_absorbance({u}, wl);
+                if (a > top_a) {
+                    top_a = a;
+                    top_line = l;
+                    part = u.who;
+                }
+            }
+        }
+        const double cut = wl + uv_decade_nm * std::log10(worst.a);
+        const bool below = worst.a >= 1;
+        std::string where;
+        if (!c.lone_line) {
+            std::string mix;
+            for (int l = 0; l < max_lines; ++l)
+                if (worst.percent[l] > 0)
+                    mix += (mix.empty() ? "" : ", ") + fmt(worst.percent[l], 0) + " % " + letter(l);
+            where = worst.where == "standby"
+                        ? " at standby (" + mix + ")"
+                        : " in method " + worst.where + " at " + fmt(worst.t_min, 2) +
+                              " min of each injection (" + mix + ")";
+        }
+        const std::string who =
+            top_line >= 0 ? named(c, part) + (c.lone_line ? "" : " in " + line_title(c, top_line))
+                          : std::string("its parts");
+        CheckWarning w = make(
+            "uv-cutoff", below ? Sev::warning : Sev::caution, top_line >= 0 ? letter(top_line) : "",
+            std::string(c.lone_line ? "The line" : "The eluent") + where + " absorbs " +
+                fmt(worst.a, 2) + " (1 cm) at " + fmt(wl, 0) + " nm, mostly from " + who +
+                ": its UV cutoff there is " + fmt(cut, 0) + " nm; the detector reads at " +
+                fmt(wl, 0) + " nm, " +
+                (below ? "below the cutoff: expect a high baseline and a drifting gradient."
+                       : "within " + fmt(margin, 0) +
+                             " nm of it: expect baseline drift over the gradient."));
+        w.number("wavelength_nm", wl);
+        w.number("cutoff_nm", cut);
+        w.number("absorbance", worst.a);
+        w.number("margin_nm", margin);
+        w.text("limited_by", part);
+        if (!c.lone_line) {
+            w.text("method", worst.where);
+            w.number("t_min", worst.t_min);
+        }
+        out.push_back(w);
+    }
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
         if (!used[l] || !p || !p->described)
             continue;
-        const double cut = p->uv_cutoff_nm;
-        if (wl < cut + margin) {
-            const bool below = wl < cut;
-            CheckWarning w = make(
-                "uv-cutoff", below ? Sev::warning : Sev::caution, letter(l),
-                line_title(c, l) + " has a UV cutoff of " + fmt(cut, 0) + " nm (set by " +
-                    named(c, p->uv_limited_by) + "); the detector reads at " + fmt(wl, 0) +
-                    " nm, " +
-                    (below ? "below the cutoff: expect a high baseline and a drifting gradient."
-                           : "within " + fmt(margin, 0) +
-                                 " nm of it: expect baseline drift over the gradient."));
-            w.number("wavelength_nm", wl);
-            w.number("cutoff_nm", cut);
-            w.number("margin_nm", margin);
-            w.text("limited_by", p->uv_limited_by);
-            out.push_back(w);
-        }
         if (!p->uv_unknown.empty()) {
             CheckWarning w = make("uv-cutoff", Sev::caution, letter(l),
                                   line_title(c, l) + ": no UV cutoff figure for " +
@@ -355,8 +431,8 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
                 make("uv-cutoff", Sev::info, letter(l),
                      line_title(c, l) + ": " + join(named(c, p->uv_beyond_table)) +
                          " is above the highest concentration in its UV table; the cutoff used (" +
-                         fmt(cut, 0) + " nm) is a lower bound.");
-            w.number("cutoff_nm", cut);
+                         fmt(p->uv_cutoff_nm, 0) + " nm) is a lower bound.");
+            w.number("cutoff_nm", p->uv_cutoff_nm);
             out.push_back(w);
         }
     }
@@ -561,11 +637,82 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
     return out;
 }
 
+namespace {
+
+/// The compositions of a set of traces, each solved once: gradients repeat the same rows and the
+/// same whole percents of organic across methods. An open-addressing table keyed on the
+/// percentages rounded to 1e-6 % (a std::map here cost as much as the solves it saved).
+class PointCache {
+  public:
+    explicit PointCache(const EluentModel& model) : model_(model), slots_(256) {}
+
+    const EluentPoint& at(const LineValues& p, const EluentPoint* guess) {
+        Key key{};
+        for (int l = 0; l < max_lines; ++l)
+            key[l] = static_cast<long long>(p[l] * 1e6 + 0.5); // percentages are ≥ 0
+        const std::size_t mask = slots_.size() - 1;
+        for (std::size_t i = hash(key) & mask;; i = (i + 1) & mask) {
+            Slot& s = slots_[i];
+            if (s.index < 0) {
+                s.key = key;
+                s.index = static_cast<int>(points_.size());
+                points_.push_back(model_.point(p.data(), p.size(), guess));
+                if (2 * points_.size() > slots_.size())
+                    grow();
+                return points_.back();
+            }
+            if (s.key[0] == key[0] && s.key[1] == key[1] && s.key[2] == key[2] &&
+                s.key[3] == key[3])
+                return points_[s.index];
+        }
+    }
+
+  private:
+    using Key = std::array<long long, max_lines>;
+    static_assert(max_lines == 4, "the key comparison in at() spells out four lines");
+    struct Slot {
+        Key key{};
+        int index = -1;
+    };
+    /// The four rounded percentages, each multiplied by its own odd constant (Knuth's
+    /// multiplicative hashing) and folded with one shift, so that the low bits used as the slot
+    /// depend on every percentage.
+    static std::size_t hash(const Key& key) {
+        std::uint64_t h = static_cast<std::uint64_t>(key[0]) * 0x9e3779b97f4a7c15ULL ^
+                          static_cast<std::uint64_t>(key[1]) * 0xc2b2ae3d27d4eb4fULL ^
+                          static_cast<std::uint64_t>(key[2]) * 0x165667b19e3779f9ULL ^
+                          static_cast<std::uint64_t>(key[3]) * 0xd6e8feb86659fd93ULL;
+        h ^= h >> 29;
+        h *= 0xbf58476d1ce4e5b9ULL;
+        h ^= h >> 32;
+        return static_cast<std::size_t>(h);
+    }
+    void grow() {
+        std::vector<Slot> old(slots_.size() * 2);
+        old.swap(slots_);
+        const std::size_t mask = slots_.size() - 1;
+        for (const Slot& s : old) {
+            if (s.index < 0)
+                continue;
+            std::size_t i = hash(s.key) & mask;
+            while (slots_[i].index >= 0)
+                i = (i + 1) & mask;
+            slots_[i] = s;
+        }
+    }
+    const EluentModel& model_;
+    std::vector<Slot> slots_;
+    std::deque<EluentPoint> points_; ///< stable addresses while the table grows
+};
+
+} // namespace
+
 std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     std::vector<EluentTrace> out;
     if (!c.reagents || !c.solvents || !c.input || !c.plan)
         return out;
-    const auto used = lines_in_use(*c.input, *c.plan);
+    const std::vector<int> run = methods_run(*c.plan);
+    const auto used = lines_in_use(*c.plan, run);
     std::vector<const LineProfile*> profiles(max_lines, nullptr);
     for (int l = 0; l < max_lines; ++l) {
         if (c.profiles[l] && c.profiles[l]->described)
@@ -575,21 +722,11 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     }
     const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
     const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
-    // Points repeat across methods (the same rows, the same 1 % steps): solve each composition
-    // once.
-    std::map<std::array<long long, max_lines>, EluentPoint> solved;
-    auto at = [&](const LineValues& p, const EluentPoint* guess) {
-        std::array<long long, max_lines> key{};
-        for (int l = 0; l < max_lines; ++l)
-            key[l] = std::llround(p[l] * 1e6);
-        auto it = solved.find(key);
-        if (it != solved.end())
-            return it->second;
-        const EluentPoint e = model.point(p.data(), p.size(), guess);
-        solved.emplace(key, e);
-        return e;
+    PointCache solved(model);
+    auto at = [&](const LineValues& p, const EluentPoint* guess) -> const EluentPoint& {
+        return solved.at(p, guess);
     };
-    for (int mi : methods_run(*c.plan)) {
+    for (int mi : run) {
         const Method& m = c.input->methods[mi];
         EluentTrace tr;
         tr.method = m.name;
@@ -598,12 +735,11 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         for (const AcidBaseSystem* sys : model.systems())
             tr.systems.push_back(sys->id);
         const EluentPoint* last = nullptr;
-        EluentPoint previous;
         auto add = [&](const Stretch& s, double u) {
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
-            previous = at(p, last);
+            const EluentPoint& previous = at(p, last);
             last = &previous;
             EluentTracePoint tp;
             tp.t_min = s.start_min + u * s.duration_min;
@@ -617,6 +753,8 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
             tr.points.push_back(std::move(tp));
         };
         const auto ss = stretches(m);
+        tr.points.reserve(ss.size() + 101);
+        std::vector<double> us;
         for (const Stretch& s : ss) {
             add(s, 0.0);
             // Every whole percent of organic crossed inside the stretch.
@@ -625,7 +763,7 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
             const double o1 = model.organic_fraction_v(s.percent_end.data(), s.percent_end.size());
             if (std::abs(o1 - o0) > 1e-9) {
                 const double lo = std::min(o0, o1) * 100, hi = std::max(o0, o1) * 100;
-                std::vector<double> us;
+                us.clear();
                 for (double k = std::floor(lo) + 1; k < hi - 1e-9; k += 1)
                     us.push_back((k / 100 - o0) / (o1 - o0));
                 std::sort(us.begin(), us.end());

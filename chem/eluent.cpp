@@ -149,8 +149,16 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                                   ? water_permittivity(to_kelvin(temperature_c))
                                   : es->permittivity_25c;
             line_solvents_[l].push_back(ls);
+            if (!ls.solvent->aqueous &&
+                std::none_of(organic_excess_.begin(), organic_excess_.end(),
+                             [&](const OrganicExcess& o) { return o.solvent == ls.solvent; }))
+                organic_excess_.push_back(
+                    {ls.solvent, solvents.excess_volume("water", ls.solvent->id),
+                     ls.solvent->density_g_per_ml / ls.solvent->molar_mass_g_per_mol});
         }
     }
+    if (const Solvent* w = solvents.find_solvent("water"))
+        water_mol_per_ml_ = w->density_g_per_ml / w->molar_mass_g_per_mol;
     has_components_ = !components_.empty();
     if (has_components_) {
         problem_ = detail::build_problem(reagents, components_, temperature_c, model);
@@ -197,6 +205,27 @@ double EluentModel::organic_fraction_v(const double* percent, std::size_t count)
     return o;
 }
 
+double
+EluentModel::contraction_of(const std::vector<std::pair<const Solvent*, double>>& fractions) const {
+    // contraction_fraction (chem/eluent_mix) with the lookups done once: each organic with its
+    // share of the water, ΔV = −(n_w + n_o) V^E(x_o) (mixing_contraction_ml).
+    double water = 0, organic = 0;
+    for (const auto& f : fractions)
+        (f.first->aqueous ? water : organic) += f.second;
+    if (organic <= 0 || water <= 0 || water_mol_per_ml_ <= 0)
+        return 0;
+    double c = 0;
+    for (const auto& f : fractions) {
+        if (f.first->aqueous || f.second <= 0)
+            continue;
+        for (const OrganicExcess& o : organic_excess_)
+            if (o.solvent == f.first && o.excess)
+                c += o.excess->contraction_ml(water * f.second / organic * water_mol_per_ml_,
+                                              f.second * o.mol_per_ml);
+    }
+    return c;
+}
+
 void EluentModel::prepare(const double* percent, std::size_t count, Prepared& out) const {
     // Blend the solvents (fractions of the unmixed volume).
     auto& fractions = out.fractions;
@@ -234,7 +263,7 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
             }
         }
     }
-    out.contraction = contraction_fraction(solvents_, fractions);
+    out.contraction = contraction_of(fractions);
     if (out.organic_v > 0)
         for (double& s : out.share)
             s /= out.organic_v;
@@ -292,8 +321,8 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
     p.set_amounts(amounts);
     for (size_t i = 0; i < p.systems.size(); ++i)
         for (int j = 0; j < p.systems[i].steps; ++j)
-            p.systems[i].ka[j] = std::pow(10.0, -pka_ss[i][j]);
-    p.kw = std::pow(10.0, -pkw_ss);
+            p.systems[i].ka[j] = std::exp(-ln10 * pka_ss[i][j]);
+    p.kw = std::exp(-ln10 * pkw_ss);
     p.a_dh = debye_huckel_a_for(eps, temperature_k);
     p.a_molal = p.a_dh * std::sqrt(rho);
     p.kg_per_l = rho;
@@ -305,13 +334,21 @@ void nearest_pka(const detail::Problem& p, const detail::State& st,
                  EluentPoint& out) {
     out.nearest_pka_gap = std::numeric_limits<double>::infinity();
     out.nearest_system = -1;
-    const std::vector<double> g = detail::gammas_at(p, st);
+    // Davies: log10 γ(z) = z² log10 γ(1), so pKa′ = pKa − log10 γ(1) · (z_j² − z_{j+1}²) needs no
+    // per-species γ; SIT takes them from the solved state.
+    const bool davies = p.model == ActivityModel::davies;
+    const double log10_g1 =
+        davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;
+    const std::vector<double> g = davies ? std::vector<double>{} : detail::gammas_at(p, st);
     for (size_t i = 0; i < p.systems.size(); ++i) {
         if (p.systems[i].total_mol_per_l <= 0)
             continue;
         const int o = p.sys_offset[i];
         for (int j = 0; j < p.systems[i].steps; ++j) {
-            const double cond = pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
+            const int za = p.flat_charge[o + j], zb = p.flat_charge[o + j + 1];
+            const double cond =
+                davies ? pka_ss[i][j] - log10_g1 * (za * za - zb * zb)
+                       : pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
             if (std::abs(st.ph - cond) < out.nearest_pka_gap) {
                 out.nearest_pka_gap = std::abs(st.ph - cond);
                 out.nearest_pka = cond;
@@ -345,7 +382,7 @@ EluentPoint EluentModel::point(const double* percent, std::size_t count,
             g0.ph = guess->ph_s_s;
             g0.ionic_strength_mol_per_l = guess->ionic_strength_mol_per_l;
         }
-        const detail::State st = detail::solve_state(p, guess ? &g0 : nullptr);
+        const detail::State st = guess ? detail::solve_state_near(p, g0) : detail::solve_state(p);
         out.ph_s_s = st.ph;
         out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
         nearest_pka(p, st, pr.pka_ss, out);

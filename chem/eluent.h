@@ -116,6 +116,16 @@ class EluentModel {
         std::vector<double> dpka;
         bool estimated = false;
     };
+    /// Each organic's mixing contraction with water, resolved once (mixing_contraction_ml's
+    /// lookups by name cost as much as the rest of a point's blend).
+    struct OrganicExcess {
+        const Solvent* solvent = nullptr;
+        const ExcessVolume* excess = nullptr; ///< none: no contraction recorded
+        double mol_per_ml = 0;                ///< library density / molar mass
+    };
+    std::vector<OrganicExcess> organic_excess_;
+    double water_mol_per_ml_ = 0; ///< the same for water (0: no water in the library)
+    double contraction_of(const std::vector<std::pair<const Solvent*, double>>& fractions) const;
     std::vector<std::vector<LineSolvent>> line_solvents_;
     std::vector<StepShift> step_shifts_; ///< [(system, step) flat][basis]
     std::vector<int> step_offset_;       ///< first flat (system, step) of each system

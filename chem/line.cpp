@@ -174,6 +174,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     }
     // The aqueous buffer parts count as water for the UV; water itself is the reference.
     p.uv_cutoff_nm = line_uv_cutoff_nm(uv_parts, &p.uv_limited_by);
+    p.uv_parts = std::move(uv_parts);
 
     // pH of an aqueous line made with additives only: solve the additives in water at 25 °C.
     if (buffers == 0 && p.organic_fraction_v == 0 && !p.solutes.empty()) {
@@ -240,6 +241,14 @@ double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_
         }
     }
     return cutoff;
+}
+
+double uv_absorbance(const std::vector<UvPart>& parts, double wavelength_nm) {
+    double a = 0;
+    for (const UvPart& u : parts)
+        if (u.scale > 0)
+            a += u.scale * std::pow(10.0, (u.cutoff_nm - wavelength_nm) / uv_decade_nm);
+    return a;
 }
 
 std::optional<double> mixing_contraction_ml(const SolventLibrary& solvents, double aqueous_ml,

@@ -43,6 +43,15 @@ struct Solute {
     std::string from;      ///< "buffer" or "additive"
 };
 
+/// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm) and how many times its
+/// absorbance at that cutoff it brings (a solvent's volume fraction; a solute's concentration over
+/// the tabulated one, by Beer–Lambert).
+struct UvPart {
+    std::string who;
+    double cutoff_nm = 0;
+    double scale = 1;
+};
+
 struct LineProfile {
     bool described = false;        ///< has parts (a volumes-only line has none)
     double aqueous_fraction_v = 0; ///< water and buffer parts
@@ -53,7 +62,10 @@ struct LineProfile {
     /// Wavelength at which the line's absorbance (1 cm, against water) reaches 1, from its parts:
     /// absorbance adds (see line_uv_cutoff_nm).
     double uv_cutoff_nm = 0;
-    std::string uv_limited_by;                ///< the part that absorbs most there
+    std::string uv_limited_by; ///< the part that absorbs most there
+    /// What each part brings to the absorbance (solvents by volume fraction, solutes by
+    /// Beer–Lambert), for the absorbance at any wavelength (uv_absorbance) and of a mixture.
+    std::vector<UvPart> uv_parts;
     std::vector<std::string> uv_unknown;      ///< solutes without a cutoff figure
     std::vector<std::string> uv_beyond_table; ///< solutes above their table's last row
     std::optional<double> ph;                 ///< of the aqueous part (see ph_basis)
@@ -96,20 +108,16 @@ struct LineRecipe {
     std::vector<std::string> cautions;
 };
 
-/// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm) and how many times its
-/// absorbance at that cutoff it brings (a solvent's volume fraction; a solute's concentration over
-/// the tabulated one, by Beer–Lambert).
-struct UvPart {
-    std::string who;
-    double cutoff_nm = 0;
-    double scale = 1;
-};
 /// Wavelength where the summed absorbance of the parts is 1, each part's absorbance taken to fall
 /// tenfold per uv_decade_nm above its cutoff (A_i(λ) = s_i·10^{−(λ − λc_i)/w}; the shape is a
 /// rough rule, common practice, no source): λ* = w·log10 Σ s_i 10^{λc_i/w}. 5 % THF (212 nm) in
 /// water gives 200 nm, not 212; two weak absorbers add. `limited_by` gets the largest contributor.
 inline constexpr double uv_decade_nm = 10.0;
 double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_by);
+/// The summed absorbance (1 cm, against water) of the parts at wavelength_nm, on the same model:
+/// A(λ) = Σ s_i·10^{−(λ − λc_i)/w}. Absorbance adds (Beer–Lambert), so a mixture of lines at
+/// volume fractions φ_l has A = Σ φ_l A_l(λ); A = 1 exactly at line_uv_cutoff_nm.
+double uv_absorbance(const std::vector<UvPart>& parts, double wavelength_nm);
 
 /// Estimated contraction on mixing of aqueous_ml of water with organic_ml of `organic`:
 /// ΔV = −(n_w + n_o) · V^E(x_o) with n from densities and molar masses, V^E from the library's

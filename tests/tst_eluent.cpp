@@ -93,6 +93,7 @@ class TestEluent : public QObject {
     void columnPhUsesTheEluent();
     void bufferRangeFlagsUnbufferedStretches();
     void sequenceCarriesATracePerMethod();
+    void traceEqualsTheEluentCommandAtEachPoint();
 };
 
 // Water at 0–60 °C against IAPWS (Debian's python3-iapws: IAPWS-95 density, R8-97 permittivity,
@@ -422,6 +423,31 @@ void TestEluent::sequenceCarriesATracePerMethod() {
             QVERIFY(o[key].isDouble());
         QVERIFY(o["t_min"].toDouble() >= last_t - 1e-9);
         last_t = o["t_min"].toDouble();
+    }
+}
+
+// The trace solves each point from its neighbour (Newton on pH and ionic strength together,
+// chem::detail::solve_state_near) and each composition once; the `eluent` command solves a point
+// from nothing (TOMS 748 inside the fixed point on I). Both must give the same eluent: the
+// command's s_s pKa and δ are the ones checked against the published values above.
+void TestEluent::traceEqualsTheEluentCommandAtEachPoint() {
+    for (const QJsonObject& a : {phosphate_7(), acetate_48()}) {
+        const QJsonObject out =
+            phaseplan::command_sequence(shipped_data(), gradient_doc(a, 60, 10, 35), {});
+        const QJsonArray pts = out["eluent_trace"].toObject()["m"].toObject()["points"].toArray();
+        QVERIFY(pts.size() >= 56);
+        for (const auto& p : pts) {
+            const QJsonObject o = p.toObject();
+            // Line B is neat acetonitrile, so % B is the organic fraction.
+            const double b = 100 * o["organic_fraction_v"].toDouble();
+            const QJsonObject e = eluent(a, solvent_line("acetonitrile"), b, 35);
+            QVERIFY2(std::abs(e["ph_s_s"].toDouble() - o["ph_s_s"].toDouble()) < 1e-6,
+                     qPrintable(QString("%1 %% B: trace %2, command %3")
+                                    .arg(b)
+                                    .arg(o["ph_s_s"].toDouble(), 0, 'f', 8)
+                                    .arg(e["ph_s_s"].toDouble(), 0, 'f', 8)));
+            QVERIFY(std::abs(e["ph_s_w"].toDouble() - o["ph_s_w"].toDouble()) < 1e-6);
+        }
     }
 }
 

@@ -114,6 +114,7 @@ class TestSequence : public QObject {
     void demoSequence();
     void volumesAddUpToFlowTimesTime();
     void uvCutoffCheck();
+    void uvCheckReadsTheEluent();
     void immiscibleCheck();
     void precipitationCheck();
     void msNonvolatileCheck();
@@ -370,13 +371,46 @@ void TestSequence::uvCutoffCheck() {
     const QJsonObject caution = run_sequence(doc);
     QCOMPARE(codes(caution, "caution"), QStringList{"uv-cutoff"});
     QCOMPARE(warning(caution, "uv-cutoff")["line"].toString(), QString("B"));
-    QCOMPARE(warning(caution, "uv-cutoff")["cutoff_nm"].toDouble(), 205.0);
+    // The eluent at its worst point, 95 % B at 10 min: A = 0.95 · 10^((205 − 210)/10) + 0.05 ·
+    // 10^((190 − 210)/10) = 0.301, a cutoff of 210 + 10 log10 0.301 = 204.8 nm.
+    QVERIFY(std::fabs(warning(caution, "uv-cutoff")["cutoff_nm"].toDouble() - 204.78) < 0.01);
+    QVERIFY(std::fabs(warning(caution, "uv-cutoff")["absorbance"].toDouble() - 0.3009) < 0.001);
+    QCOMPARE(warning(caution, "uv-cutoff")["t_min"].toDouble(), 10.0);
+    QCOMPARE(warning(caution, "uv-cutoff")["method"].toString(), QString("m"));
     QCOMPARE(warning(caution, "uv-cutoff")["wavelength_nm"].toDouble(), 210.0);
     QVERIFY(
         !codes(run_sequence(set_path(doc, "detector.wavelength_nm", 230))).contains("uv-cutoff"));
     // An RI detector reads no wavelength: no UV check.
     QVERIFY(!codes(run_sequence(set_path(doc, "detector", QJsonObject{{"type", "ri"}})))
                  .contains("uv-cutoff"));
+}
+
+void TestSequence::uvCheckReadsTheEluent() {
+    // The detector sees the mixed eluent, not a neat line: absorbance adds by volume fraction
+    // (Beer–Lambert). Tetrahydrofuran, UV cutoff 212 nm (Snyder, Kirkland & Dolan 2010, from
+    // memory), held at 5 % in water, read at 215 nm: A = 0.05 · 10^((212 − 215)/10) = 0.025,
+    // an eluent cutoff of 199 nm, clear of the 10 nm margin (the line alone, neat, would be
+    // within it).
+    QJsonObject doc = set_path(base_doc(), "lines.B.parts[0].solvent", "tetrahydrofuran");
+    doc = set_path(doc, "detector.wavelength_nm", 215);
+    const QJsonArray hold{QJsonObject{{"t_min", 0}, {"A", 95}, {"B", 5}},
+                          QJsonObject{{"t_min", 10}, {"A", 95}, {"B", 5}}};
+    QVERIFY(!codes(run_sequence(set_path(doc, "methods.m.gradient", hold))).contains("uv-cutoff"));
+    // The same line run to 95 %: A = 0.95 · 10^(−0.3) = 0.48, within the margin (caution); at
+    // 205 nm, 4.8: below the cutoff (warning).
+    QCOMPARE(codes(run_sequence(doc), "caution"), QStringList{"uv-cutoff"});
+    QCOMPARE(codes(run_sequence(set_path(doc, "detector.wavelength_nm", 205)), "warning"),
+             QStringList{"uv-cutoff"});
+    // Held at 30 % and read at 215 nm: A = 0.30 · 10^(−0.3) + 0.70 · 10^((190 − 215)/10) (water,
+    // 190 nm, same table) = 0.153, above the caution line 0.1.
+    const QJsonArray hold30{QJsonObject{{"t_min", 0}, {"A", 70}, {"B", 30}},
+                            QJsonObject{{"t_min", 10}, {"A", 70}, {"B", 30}}};
+    const QJsonObject w =
+        warning(run_sequence(set_path(doc, "methods.m.gradient", hold30)), "uv-cutoff");
+    QCOMPARE(w["severity"].toString(), QString("caution"));
+    QVERIFY(std::fabs(w["absorbance"].toDouble() -
+                      (0.3 * std::pow(10.0, -0.3) + 0.7 * std::pow(10.0, -2.5))) < 1e-6);
+    QCOMPARE(w["limited_by"].toString(), QString("tetrahydrofuran"));
 }
 
 void TestSequence::immiscibleCheck() {

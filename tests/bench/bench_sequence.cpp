@@ -131,6 +131,30 @@ void BM_plan_10000_injections_rows_of_1_with_pressure(benchmark::State& state) {
 void BM_plan_10000_injections_rows_of_1_with_eluent_trace(benchmark::State& state) {
     run_plan_and_checks(state, 10000, false, true);
 }
+/// The eluent pH traces alone (every row and every 1 % of organic of the 20 methods), the part of
+/// the benchmark above that the reagent library adds before the checks read them.
+void BM_eluent_traces_20_methods(benchmark::State& state) {
+    const chem::SequenceInput in = big_plan(10000);
+    static const Lines lines;
+    const chem::SequencePlan plan = chem::plan_sequence(in);
+    chem::SequenceCheckInput c;
+    c.solvents = &data().solvents;
+    c.reagents = &data().reagents;
+    c.input = &in;
+    c.plan = &plan;
+    for (int l = 0; l < 4; ++l)
+        c.profiles[l] = &lines.profiles[l];
+    c.column = chem::ColumnLimits{2, 8, 35.0};
+    std::size_t points = 0;
+    for (auto _ : state) {
+        auto t = chem::eluent_traces(c);
+        points = 0;
+        for (const auto& tr : t)
+            points += tr.points.size();
+        benchmark::DoNotOptimize(t.data());
+    }
+    state.counters["points"] = static_cast<double>(points);
+}
 /// Plan and all checks, 500 rows of 20 injections.
 void BM_plan_10000_injections_rows_of_20(benchmark::State& state) {
     run_plan_and_checks(state, 500);
@@ -180,6 +204,7 @@ void BM_sequence_command_10000_rows(benchmark::State& state) {
 BENCHMARK(BM_plan_10000_injections_rows_of_1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1_with_pressure)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1_with_eluent_trace)->Unit(benchmark::kMillisecond);
+BENCHMARK(BM_eluent_traces_20_methods)->Unit(benchmark::kMicrosecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_20)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_sequence_command_10000_rows)->Unit(benchmark::kMillisecond);
 BENCHMARK_MAIN();
