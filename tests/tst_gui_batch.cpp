@@ -10,6 +10,7 @@
 #include "batch_model.h"
 #include "print/documents.h"
 #include "print/print_controller.h"
+#include "storage/demo.h"
 #include "workspace.h"
 
 #include <QCoreApplication>
@@ -239,7 +240,9 @@ class TestGuiBatch : public QObject {
             // Nobody named: refused at the preparer's field, nothing stored.
             QVERIFY(!m.markPrepared(demo_buffer()));
             QCOMPARE(m.errorField(), QString("batch.prepared_by"));
-            QVERIFY(m.batchIds().isEmpty());
+            // A new database holds only the demo's signed batch (app/storage/demo.h).
+            const QStringList demo{phaseplan::storage::demo_batch_id()};
+            QCOMPARE(m.batchIds(), demo);
 
             m.setPreparer("R. Okafor");
             QVERIFY2(m.markPrepared(demo_buffer()), qPrintable(m.errorMessage()));
@@ -253,7 +256,7 @@ class TestGuiBatch : public QObject {
             QVERIFY(at.isValid() && exp.isValid());
             QVERIFY(m.shelfLifeH() > 0);
             QVERIFY(std::abs(at.secsTo(exp) / 3600.0 - m.shelfLifeH()) < 0.02);
-            QCOMPARE(m.batchIds(), QStringList{id});
+            QCOMPARE(m.batchIds(), QStringList({id}) + demo);
             QCOMPARE(count_action(m.history(), "create") > 0, true);
 
             // Nothing entered yet: as made = as planned, the pH on its target.
@@ -360,7 +363,7 @@ class TestGuiBatch : public QObject {
         auto ws = open_workspace(db);
         BatchModel m;
         m.setWorkspace(ws.get());
-        QCOMPARE(m.batchIds(), QStringList{id});
+        QCOMPARE(m.batchIds(), QStringList({id, phaseplan::storage::demo_batch_id()}));
         QVERIFY(m.open(id));
         QVERIFY(m.printed());
         const int r = row_of(m, base);
