@@ -102,6 +102,47 @@ class TestGuiBatch : public QObject {
         QSettings().clear();
     }
 
+    /// The demo's signed batch on the Prepare & record model: "Signed by" with name, UTC time and
+    /// meaning (21 CFR 11.50), a wrong password refused at the password field and counted
+    /// (11.200(a)(1), 11.300(d)), a right one signs, and a later amendment shows every signature
+    /// void (11.70: bound to the content signed).
+    void signatures_on_the_batch_screen() {
+        const QString db = dir_.filePath("signed.sqlite");
+        auto ws = open_workspace(db);
+        BatchModel m;
+        m.setWorkspace(ws.get());
+        QVERIFY(m.open(phaseplan::storage::demo_batch_id()));
+        QVERIFY(m.signingAvailable());
+        QCOMPARE(m.signatures().size(), 2);
+        const QVariantMap first = m.signatures().at(0).toMap();
+        QVERIFY(first.value("holds").toBool());
+        QVERIFY2(first.value("words").toString().startsWith("Prepared by Rosa Okafor (demo-prep) "),
+                 qPrintable(first.value("words").toString()));
+        QVERIFY(first.value("words").toString().endsWith(" UTC"));
+        QCOMPARE(m.signatures().at(1).toMap().value("meaning").toString(), QString("reviewed"));
+
+        QVERIFY(!m.sign("demo-approve", "not-the-password", "approved"));
+        QCOMPARE(m.errorField(), QString("password"));
+        QCOMPARE(m.signatures().size(), 2);
+        QVERIFY(m.sign("demo-approve", "demo-approve-2026", "approved"));
+        QCOMPARE(m.signatures().size(), 3);
+        QVERIFY(m.signatures().at(2).toMap().value("holds").toBool());
+
+        // The batch was printed: a change is an amendment with a reason, and it voids them all.
+        m.setPreparer("Rosa Okafor");
+        QVERIFY(!m.setLot(0, "PA-00001"));
+        QVERIFY(m.pendingAmendment());
+        QVERIFY(!m.sign("demo-approve", "demo-approve-2026", "approved"));
+        QCOMPARE(m.errorField(), QString("signature"));
+        m.setAmendReason("lot re-read from the bottle");
+        QVERIFY2(m.amend(), qPrintable(m.errorMessage()));
+        QCOMPARE(m.signatures().size(), 3);
+        for (const QVariant& v : m.signatures()) {
+            QVERIFY(!v.toMap().value("holds").toBool());
+            QVERIFY(v.toMap().value("words").toString().contains("void"));
+        }
+    }
+
     /// Out of tolerance: the reasons in words, the correction worked by hand, a deviation note
     /// required before printing and recorded with who and when, the mark on the sheet, the steps
     /// on screen equal to the printed ones, the audit trail in words, the PDF folder remembered.
