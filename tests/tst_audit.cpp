@@ -189,6 +189,8 @@ class TestAudit : public QObject {
                  QString("login"));
         QSqlQuery q(db.connection());
         QVERIFY(!q.exec("DELETE FROM users WHERE login = 'p1'"));
+        // The last unlocked administrator is not locked by hand (nobody could unlock it).
+        QCOMPARE(error_field([&] { a.set_locked("boss", true, "boss"); }), QString("login"));
         // The hash is stored, never the password.
         QSqlQuery h = sql(db.connection(), "SELECT password_hash FROM users WHERE login = 'p1'");
         QVERIFY(h.next());

@@ -229,11 +229,13 @@ Account AccountStore::authenticate(const QString& login_in, const QString& passw
     sql::WriteTransaction tx(db_);
     int attempts = 0;
     if (a) {
-        attempts = a->failed_attempts + 1;
+        // Counted under the write lock: two benches failing at once both count.
+        const int before = find(login)->failed_attempts;
+        attempts = before + 1;
         const bool lock = attempts >= max_failed_attempts;
         run(db_, "UPDATE users SET failed_attempts = ?, locked = ?, changed_at = ? WHERE login = ?",
             {attempts, lock ? 1 : 0, t, login});
-        QJsonObject changes = audit_change("failed_attempts", a->failed_attempts, attempts);
+        QJsonObject changes = audit_change("failed_attempts", before, attempts);
         append_audit(db_, t, login, "sign-in-failed", "user", login, {}, changes);
         if (lock)
             append_audit(db_, t, login, "lock", "user", login,
@@ -258,6 +260,14 @@ void AccountStore::set_locked(const QString& login, bool locked, const QString& 
     const std::optional<Account> a = find(login);
     if (!a)
         throw chem::Error("login", "no account " + quoted(login));
+    if (locked && !a->locked && a->role == Role::administrator) {
+        QSqlQuery q =
+            run(db_, "SELECT count(*) FROM users WHERE role = 'administrator' AND locked = 0");
+        if (q.next() && q.value(0).toLongLong() <= 1)
+            throw chem::Error("login", quoted(login) +
+                                           " is the last unlocked administrator: add another "
+                                           "before locking it, or nobody can manage accounts");
+    }
     if (a->locked == locked && (locked || a->failed_attempts == 0))
         throw chem::Error("login", "the account " + quoted(login) + " is already " +
                                        (locked ? "locked" : "unlocked"));
