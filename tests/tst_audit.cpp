@@ -434,6 +434,61 @@ class TestAudit : public QObject {
         QCOMPARE(r.first_bad_seq, forged.seq);
     }
 
+    // 21 CFR 11.70: a signature cannot be moved, copied or altered, and the record signed cannot
+    // be changed, without it showing. Records changed behind the trail (raw SQL with the guards
+    // dropped, the trail itself untouched) are found against the trail.
+    void recordsChangedBehindTheTrailAreFound() {
+        DemoFile f;
+        QVERIFY(verify_all(f.c()).intact);
+        for (const char* t :
+             {"signatures_no_update", "signatures_no_delete", "batches_changes_recorded"})
+            sql(f.c(), QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
+        const auto sigs = SignatureStore(f.c()).list(demo_batch_id());
+        const qint64 reviewed_seq = sigs[1].audit_seq;
+        struct Case {
+            const char* what;
+            const char* sql;
+            qint64 seq;
+        };
+        const qint64 last_batch_entry = audit_entries(f.c(), {"batch", demo_batch_id()}).back().seq;
+        const Case cases[] = {
+            {"signer swapped", "UPDATE signatures SET login = 'demo-approve' WHERE id = 2",
+             reviewed_seq},
+            {"meaning raised", "UPDATE signatures SET meaning = 'approved' WHERE id = 2",
+             reviewed_seq},
+            {"time moved",
+             "UPDATE signatures SET signed_at = '2026-01-01T00:00:00.000Z' WHERE id = 2",
+             reviewed_seq},
+            {"content hash re-pointed",
+             "UPDATE signatures SET content_sha256 = "
+             "'0000000000000000000000000000000000000000000000000000000000000000'"
+             " WHERE id = 2",
+             reviewed_seq},
+            {"signature removed", "DELETE FROM signatures WHERE id = 2", reviewed_seq},
+            {"amount changed", "UPDATE batches SET actual = replace(actual, '2.981', '2.891')",
+             last_batch_entry},
+            {"comment added", "UPDATE batches SET comment = 'fine'", last_batch_entry},
+        };
+        for (const Case& c : cases) {
+            sql(f.c(), "SAVEPOINT tamper");
+            sql(f.c(), c.sql);
+            const AuditVerification r = verify_all(f.c());
+            sql(f.c(), "ROLLBACK TO tamper");
+            sql(f.c(), "RELEASE tamper");
+            QVERIFY2(!r.intact, c.what);
+            QVERIFY2(r.first_bad_seq == c.seq, qPrintable(QString(c.what) + ": " + r.problem));
+            QVERIFY(verify_audit(f.c()).intact); // the chain alone holds: only the records moved
+        }
+        // A signature forged into the table with no entry behind it.
+        sql(f.c(), "INSERT INTO signatures (id, batch_id, login, display_name, meaning, signed_at,"
+                   " revision, content_sha256, audit_seq) SELECT 3, batch_id, 'demo-approve', "
+                   "'Priya Haldane', 'approved', signed_at, revision, content_sha256, audit_seq - 1"
+                   " FROM signatures WHERE id = 2");
+        const AuditVerification r = verify_all(f.c());
+        QVERIFY(!r.intact);
+        QCOMPARE(r.first_bad_seq, reviewed_seq - 1);
+    }
+
     // ---- signatures --------------------------------------------------------------------------
 
     // 21 CFR 11.70 and Annex 11 §14: a signature is bound to the content it signed. A later
@@ -474,7 +529,8 @@ class TestAudit : public QObject {
         back.comment = "pH meter PHM-01 re-checked";
         batches.amend(id, back, "demo-prep", "typo undone");
         QVERIFY(!s.list(id).back().holds);
-        QVERIFY(verify_audit(f.c()).intact);
+        const AuditVerification v = verify_all(f.c());
+        QVERIFY2(v.intact, qPrintable(v.problem));
     }
 
     // ---- migration ---------------------------------------------------------------------------
@@ -512,8 +568,8 @@ class TestAudit : public QObject {
         BatchRecord next = *b.load("T-1");
         next.comment = "after accounts";
         b.amend("T-1", next, "R. Okafor", "follow-up");
-        const AuditVerification v = verify_audit(db.connection());
-        QVERIFY(v.intact);
+        const AuditVerification v = verify_all(db.connection());
+        QVERIFY2(v.intact, qPrintable(v.problem));
         QCOMPARE(v.head_seq, qint64(4));
     }
 };

@@ -127,8 +127,10 @@ void validate(const BatchRecord& b) {
         throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
 }
 
+} // namespace
+
 /// Field-by-field view of a batch for the history: "prepared_by", "actual[<reagent>].mass_g", …
-std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
+std::map<QString, QJsonValue> batch_fields(const BatchRecord& b) {
     std::map<QString, QJsonValue> f;
     auto put = [&](const QString& k, const QJsonValue& v) {
         if (!(v.isString() && v.toString().isEmpty()) && !v.isNull() && !v.isUndefined())
@@ -162,6 +164,12 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     if (!b.ph_capture.isEmpty())
         put("measured_ph_capture", b.ph_capture);
     return f;
+}
+
+namespace {
+
+std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
+    return batch_fields(b);
 }
 
 const char* select_columns =

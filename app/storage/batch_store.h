@@ -24,6 +24,7 @@
 #include <QVariantList>
 
 #include <functional>
+#include <map>
 #include <optional>
 #include <vector>
 
@@ -77,6 +78,10 @@ struct BatchRecord {
     /// naming the field ("batch", "batch.id", "batch.actual[0].mass_g") for a malformed batch.
     static BatchRecord from_input(const QJsonObject& input);
 };
+
+/// The batch field by field, as the history and the audit trail record it: "prepared_by",
+/// "actual[<reagent>].mass_g", "measured_ph", …; unset fields are absent.
+std::map<QString, QJsonValue> batch_fields(const BatchRecord& b);
 
 struct HistoryEntry {
     qint64 seq = 0; ///< order of writing

@@ -202,7 +202,7 @@ CliOutput audit_command(const QStringList& args) {
         const Options o = parse(args.mid(1), {"--database"});
         no_positional(o, 0);
         ReadOnlyFile file(o.required("--database"));
-        const AuditVerification v = verify_audit(file.db());
+        const AuditVerification v = verify_all(file.db());
         CliOutput out;
         if (v.intact) {
             out.out = QStringLiteral("intact: %1 entries; last entry %2, hash %3\n")
@@ -242,7 +242,7 @@ CliOutput audit_command(const QStringList& args) {
                 throw chem::Error("batch", "no batch " + quoted(filter.record_id));
         }
         const std::vector<AuditEntry> entries = audit_entries(file.db(), filter);
-        const AuditVerification v = verify_audit(file.db());
+        const AuditVerification v = verify_all(file.db());
         QByteArray bytes;
         if (format == QLatin1String("json")) {
             QJsonArray list;
@@ -399,7 +399,7 @@ CliOutput db_command(const QStringList& args, const QString& data_dir) {
     if (QFileInfo::exists(path) || QFileInfo(path).isSymLink())
         throw chem::Error("database", quoted(path) + " exists: the demo goes only into a new file");
     Database db(path, -1, [&](Database& d) { seed_demo(d, data_dir); });
-    const AuditVerification v = verify_audit(db.connection());
+    const AuditVerification v = verify_all(db.connection());
     CliOutput out;
     out.out = QJsonDocument(QJsonObject{{"database", path},
                                         {"batch", demo_batch_id()},

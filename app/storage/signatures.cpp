@@ -7,8 +7,12 @@
 #include "storage/sql_util.h"
 
 #include <QCryptographicHash>
+#include <QJsonArray>
 #include <QJsonDocument>
 #include <QSqlQuery>
+
+#include <map>
+#include <set>
 
 namespace phaseplan::storage {
 
@@ -179,6 +183,139 @@ QString SignatureStore::manifestation(const Signature& s) {
         out += QStringLiteral(" — void: the batch changed after signing (revision %1)")
                    .arg(s.revision);
     return out;
+}
+
+AuditVerification verify_records(QSqlDatabase db) {
+    AuditVerification v;
+    auto broken = [&v](qint64 seq, const QString& problem) {
+        v.intact = false;
+        v.first_bad_seq = seq;
+        v.problem = problem;
+        return v;
+    };
+    // Signatures against their "sign" entries.
+    std::map<qint64, AuditEntry> sign_entries;
+    std::map<QString, std::map<QString, QJsonValue>> replayed;
+    std::map<QString, qint64> last_seq;
+    for (const AuditEntry& e : audit_entries(db, {QStringLiteral("batch"), {}})) {
+        ++v.entries;
+        last_seq[e.record_id] = e.seq;
+        const QJsonObject c = QJsonDocument::fromJson(e.changes.toUtf8()).object();
+        if (e.action == QLatin1String("sign")) {
+            sign_entries[e.seq] = e;
+        } else if (e.action == QLatin1String("create") || e.action == QLatin1String("edit") ||
+                   e.action == QLatin1String("amend")) {
+            if (e.action == QLatin1String("create"))
+                replayed[e.record_id].clear();
+            else if (!replayed.count(e.record_id))
+                return broken(e.seq, QStringLiteral("entry %1 changes batch \"%2\" before any "
+                                                    "entry creates it")
+                                         .arg(e.seq)
+                                         .arg(e.record_id.left(64)));
+            auto& fields = replayed[e.record_id];
+            for (auto it = c.begin(); it != c.end(); ++it) {
+                const QJsonValue nv = it.value().toObject().value(QLatin1String("new"));
+                if (nv.isNull() || nv.isUndefined())
+                    fields.erase(it.key());
+                else
+                    fields[it.key()] = nv;
+            }
+        }
+    }
+    QSqlQuery q = sql::run(
+        db, QStringLiteral("SELECT %1 FROM signatures ORDER BY id").arg(signature_columns));
+    std::set<qint64> seen;
+    while (q.next()) {
+        const qint64 id = q.value(0).toLongLong();
+        const QString batch = q.value(1).toString(), login = q.value(2).toString(),
+                      meaning = q.value(4).toString(), at = q.value(5).toString(),
+                      content = q.value(7).toString();
+        const int revision = q.value(6).toInt();
+        const qint64 seq = q.value(8).toLongLong();
+        auto it = sign_entries.find(seq);
+        if (it == sign_entries.end())
+            return broken(seq, QStringLiteral("signature %1 on batch \"%2\" names entry %3, "
+                                              "which records no signature")
+                                   .arg(id)
+                                   .arg(batch.left(64))
+                                   .arg(seq));
+        const AuditEntry& e = it->second;
+        const QJsonObject c = QJsonDocument::fromJson(e.changes.toUtf8()).object();
+        auto nv = [&c](const char* k) {
+            return c.value(QLatin1String(k)).toObject().value(QLatin1String("new"));
+        };
+        QStringList differs;
+        if (e.record_id != batch)
+            differs << QStringLiteral("batch");
+        if (e.login != login)
+            differs << QStringLiteral("login");
+        if (e.logged_at != at)
+            differs << QStringLiteral("time");
+        if (nv("meaning").toString() != meaning)
+            differs << QStringLiteral("meaning");
+        if (nv("revision").toInt() != revision)
+            differs << QStringLiteral("revision");
+        if (nv("content_sha256").toString() != content)
+            differs << QStringLiteral("content hash");
+        if (nv("signature").toInteger() != id)
+            differs << QStringLiteral("number");
+        if (!differs.isEmpty())
+            return broken(seq, QStringLiteral("signature %1 on batch \"%2\" differs from entry %3 "
+                                              "that recorded it: %4")
+                                   .arg(id)
+                                   .arg(batch.left(64))
+                                   .arg(seq)
+                                   .arg(differs.join(QStringLiteral(", "))));
+        seen.insert(seq);
+    }
+    for (const auto& [seq, e] : sign_entries)
+        if (!seen.count(seq))
+            return broken(seq, QStringLiteral("entry %1 records a signature on batch \"%2\" that "
+                                              "is missing from the signatures")
+                                   .arg(seq)
+                                   .arg(e.record_id.left(64)));
+    // Batches against their replayed trail.
+    BatchStore batches(db);
+    QSqlQuery ids = sql::run(db, "SELECT id FROM batches ORDER BY id");
+    while (ids.next()) {
+        const QString id = ids.value(0).toString();
+        const std::optional<BatchRecord> b = batches.load(id);
+        if (!replayed.count(id))
+            return broken(
+                last_seq.count(id) ? last_seq[id] : v.entries + 1,
+                QStringLiteral("batch \"%1\" has no entry that creates it").arg(id.left(64)));
+        const auto now = batch_fields(*b);
+        const auto& trail = replayed[id];
+        QStringList differs;
+        for (const auto& [k, value] : now) {
+            auto t = trail.find(k);
+            if (t == trail.end() || t->second != value)
+                differs << k;
+        }
+        for (const auto& [k, value] : trail)
+            if (!now.count(k))
+                differs << k;
+        if (!differs.isEmpty())
+            return broken(last_seq[id],
+                          QStringLiteral("batch \"%1\" differs from its trail (last entry %2) in "
+                                         "%3")
+                              .arg(id.left(64))
+                              .arg(last_seq[id])
+                              .arg(differs.join(QStringLiteral(", ")).left(300)));
+    }
+    return v;
+}
+
+AuditVerification verify_all(QSqlDatabase db) {
+    const AuditVerification chain = verify_audit(db);
+    if (!chain.intact)
+        return chain;
+    AuditVerification records = verify_records(db);
+    if (!records.intact) {
+        records.entries = chain.entries;
+        return records;
+    }
+    return chain;
 }
 
 } // namespace phaseplan::storage

@@ -21,6 +21,7 @@
 // The content hash: lowercase hex SHA-256 of the compact JSON (keys sorted, as QJsonDocument
 // writes them) of {"batch": BatchRecord::to_input(), "revision": revision}. Printing does not
 // change it; any recorded change does, because the revision moves on even when a value comes back.
+#include "storage/audit_trail.h"
 #include "storage/batch_store.h"
 
 #include <QSqlDatabase>
@@ -72,6 +73,19 @@ class SignatureStore {
     QSqlDatabase db_;
     std::function<QString()> clock_;
 };
+
+/// The records against their trail, after verify_audit() found the chain intact:
+///   - every signature row matches the "sign" entry it names (audit_seq): batch, login, time,
+///     meaning, revision, content hash and signature number; and every "sign" entry has its row;
+///   - every batch equals its trail replayed (each create, edit and amend entry's "new" values,
+///     field by field), and has a "create" entry.
+/// So a signature or a batch changed behind the program's back, while the trail was left alone,
+/// is found too. first_bad_seq names the trail entry the record disagrees with (for a batch, its
+/// last entry). Read-only.
+AuditVerification verify_records(QSqlDatabase db);
+
+/// verify_audit(), then verify_records() when the chain holds: what `audit verify` runs.
+AuditVerification verify_all(QSqlDatabase db);
 
 /// The signatures of `batch` that hold on its current content (used by BatchStore before a
 /// change, to void them in the same transaction).
