@@ -10,6 +10,7 @@
 #include "batch_model.h"
 #include "print/documents.h"
 #include "print/print_controller.h"
+#include "storage/demo.h"
 #include "workspace.h"
 
 #include <QCoreApplication>
@@ -99,6 +100,47 @@ class TestGuiBatch : public QObject {
         QCoreApplication::setOrganizationName("PhasePlanTest");
         QCoreApplication::setApplicationName("tst_gui_batch");
         QSettings().clear();
+    }
+
+    /// The demo's signed batch on the Prepare & record model: "Signed by" with name, UTC time and
+    /// meaning (21 CFR 11.50), a wrong password refused at the password field and counted
+    /// (11.200(a)(1), 11.300(d)), a right one signs, and a later amendment shows every signature
+    /// void (11.70: bound to the content signed).
+    void signatures_on_the_batch_screen() {
+        const QString db = dir_.filePath("signed.sqlite");
+        auto ws = open_workspace(db);
+        BatchModel m;
+        m.setWorkspace(ws.get());
+        QVERIFY(m.open(phaseplan::storage::demo_batch_id()));
+        QVERIFY(m.signingAvailable());
+        QCOMPARE(m.signatures().size(), 2);
+        const QVariantMap first = m.signatures().at(0).toMap();
+        QVERIFY(first.value("holds").toBool());
+        QVERIFY2(first.value("words").toString().startsWith("Prepared by Rosa Okafor (demo-prep) "),
+                 qPrintable(first.value("words").toString()));
+        QVERIFY(first.value("words").toString().endsWith(" UTC"));
+        QCOMPARE(m.signatures().at(1).toMap().value("meaning").toString(), QString("reviewed"));
+
+        QVERIFY(!m.sign("demo-approve", "not-the-password", "approved"));
+        QCOMPARE(m.errorField(), QString("password"));
+        QCOMPARE(m.signatures().size(), 2);
+        QVERIFY(m.sign("demo-approve", "demo-approve-2026", "approved"));
+        QCOMPARE(m.signatures().size(), 3);
+        QVERIFY(m.signatures().at(2).toMap().value("holds").toBool());
+
+        // The batch was printed: a change is an amendment with a reason, and it voids them all.
+        m.setPreparer("Rosa Okafor");
+        QVERIFY(!m.setLot(0, "PA-00001"));
+        QVERIFY(m.pendingAmendment());
+        QVERIFY(!m.sign("demo-approve", "demo-approve-2026", "approved"));
+        QCOMPARE(m.errorField(), QString("signature"));
+        m.setAmendReason("lot re-read from the bottle");
+        QVERIFY2(m.amend(), qPrintable(m.errorMessage()));
+        QCOMPARE(m.signatures().size(), 3);
+        for (const QVariant& v : m.signatures()) {
+            QVERIFY(!v.toMap().value("holds").toBool());
+            QVERIFY(v.toMap().value("words").toString().contains("void"));
+        }
     }
 
     /// Out of tolerance: the reasons in words, the correction worked by hand, a deviation note
@@ -239,7 +281,9 @@ class TestGuiBatch : public QObject {
             // Nobody named: refused at the preparer's field, nothing stored.
             QVERIFY(!m.markPrepared(demo_buffer()));
             QCOMPARE(m.errorField(), QString("batch.prepared_by"));
-            QVERIFY(m.batchIds().isEmpty());
+            // A new database holds only the demo's signed batch (app/storage/demo.h).
+            const QStringList demo{phaseplan::storage::demo_batch_id()};
+            QCOMPARE(m.batchIds(), demo);
 
             m.setPreparer("R. Okafor");
             QVERIFY2(m.markPrepared(demo_buffer()), qPrintable(m.errorMessage()));
@@ -253,7 +297,7 @@ class TestGuiBatch : public QObject {
             QVERIFY(at.isValid() && exp.isValid());
             QVERIFY(m.shelfLifeH() > 0);
             QVERIFY(std::abs(at.secsTo(exp) / 3600.0 - m.shelfLifeH()) < 0.02);
-            QCOMPARE(m.batchIds(), QStringList{id});
+            QCOMPARE(m.batchIds(), QStringList({id}) + demo);
             QCOMPARE(count_action(m.history(), "create") > 0, true);
 
             // Nothing entered yet: as made = as planned, the pH on its target.
@@ -360,7 +404,7 @@ class TestGuiBatch : public QObject {
         auto ws = open_workspace(db);
         BatchModel m;
         m.setWorkspace(ws.get());
-        QCOMPARE(m.batchIds(), QStringList{id});
+        QCOMPARE(m.batchIds(), QStringList({id, phaseplan::storage::demo_batch_id()}));
         QVERIFY(m.open(id));
         QVERIFY(m.printed());
         const int r = row_of(m, base);

@@ -10,6 +10,7 @@
 #include "core/pressure_commands.h"
 #include "core/runtime_dir.h"
 #include "devices/device_cli.h"
+#include "storage/records_cli.h"
 
 #include <QCoreApplication>
 #include <QDir>
@@ -26,6 +27,7 @@
 
 #include <stdlib.h>
 #include <sys/stat.h>
+#include <termios.h>
 #include <unistd.h>
 
 #ifdef PHASEPLAN_WITH_PRINT
@@ -82,6 +84,17 @@ int usage(std::FILE* to) {
         "read --port PORT --format NAME|REGEX [--baud N] [--timeout-s S] [--stable-only] [--unit "
         "U]:\n"
         "             one reading from a balance or pH meter; device formats: the line formats");
+    std::fprintf(to, "  %-10s %s\n", "audit",
+                 "verify --database FILE (exit 1 when the chain is broken);\n"
+                 "             export --database FILE [--batch ID] [-o OUT.json|OUT.csv]");
+    std::fprintf(to, "  %-10s %s\n", "user",
+                 "add LOGIN --name NAME --role preparer|reviewer|approver|administrator [--as "
+                 "ADMIN],\n"
+                 "             list, lock|unlock LOGIN --as ADMIN, passwd LOGIN [--as ADMIN]; "
+                 "--database FILE;\n"
+                 "             passwords are read from standard input or a prompt");
+    std::fprintf(to, "  %-10s %s\n", "db",
+                 "demo --database NEW_FILE: a new database with the demo");
     return to == stdout ? 0 : 2;
 }
 
@@ -147,6 +160,61 @@ int run_device(int argc, char** argv) {
     }
 }
 
+/// One password: a line of standard input, or typed at a prompt on stderr without echo when
+/// standard input is a terminal. Never an argument (it would show in the process list).
+QString read_secret(const QString& prompt) {
+    const bool tty = ::isatty(STDIN_FILENO) == 1;
+    termios old_mode{};
+    if (tty) {
+        std::cerr << prompt.toStdString() << ": " << std::flush;
+        ::tcgetattr(STDIN_FILENO, &old_mode);
+        termios quiet = old_mode;
+        quiet.c_lflag &= ~static_cast<tcflag_t>(ECHO);
+        ::tcsetattr(STDIN_FILENO, TCSAFLUSH, &quiet);
+    }
+    std::string line;
+    const bool got = static_cast<bool>(std::getline(std::cin, line));
+    if (tty) {
+        ::tcsetattr(STDIN_FILENO, TCSAFLUSH, &old_mode);
+        std::cerr << std::endl;
+    }
+    if (!line.empty() && line.back() == '\r')
+        line.pop_back();
+    if (!got && line.empty())
+        throw chem::Error("password", "none given for the " + prompt.toStdString() +
+                                          " (one line of standard input)");
+    return QString::fromStdString(line);
+}
+
+/// `phaseplan-cli audit|user|db …`: the lab's database (app/storage/records_cli.h). `audit
+/// verify` exits 1 on a broken chain; every error is status 2 and one line.
+int run_records(int argc, char** argv) {
+    QCoreApplication app(argc, argv);
+    QStringList args;
+    QString data_dir;
+    for (int i = 2; i < argc; ++i) {
+        const QString a = QString::fromLocal8Bit(argv[i]);
+        if (a == QLatin1String("--data") && i + 1 < argc)
+            data_dir = QString::fromLocal8Bit(argv[++i]);
+        else
+            args << a;
+    }
+    try {
+        const phaseplan::storage::CliOutput out = phaseplan::storage::records_command(
+            QString::fromLocal8Bit(argv[1]), args, read_secret,
+            data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+        std::cout.write(out.out.constData(), out.out.size());
+        std::cout.flush();
+        return out.status;
+    } catch (const chem::Error& e) {
+        fail(e.field() + ": " + e.message());
+        return 2;
+    } catch (const std::exception& e) {
+        fail(std::string("internal error: ") + e.what());
+        return 2;
+    }
+}
+
 /// Reads at most json::max_document_bytes from `in`; throws Error("input", …) above that.
 QByteArray read_capped(QFile& in, const std::string& shown) {
     // A pipe hands over what it has: read until the end or one byte past the cap.
@@ -177,6 +245,9 @@ int main(int argc, char** argv) {
     qInstallMessageHandler(qt_message);
     if (argc > 1 && std::string(argv[1]) == "device")
         return run_device(argc, argv);
+    if (argc > 1 && (std::string(argv[1]) == "audit" || std::string(argv[1]) == "user" ||
+                     std::string(argv[1]) == "db"))
+        return run_records(argc, argv);
     std::string command;
     QString input_path;
     QString data_dir;

@@ -2,6 +2,9 @@
 
 #include "chem/error.h"
 #include "core/batch_document.h"
+#include "storage/accounts.h"
+#include "storage/audit_trail.h"
+#include "storage/signatures.h"
 #include "workspace.h"
 
 #include <QDateTime>
@@ -245,6 +248,17 @@ void BatchModel::reload(const QString& id) {
         return;
     stored_ = st->load(id);
     history_.clear();
+    signatures_.clear();
+    if (stored_ && storage::has_audit_schema(workspace_->database()->connection())) {
+        const QSqlDatabase c = workspace_->database()->connection();
+        for (const storage::Signature& s : storage::SignatureStore(c).list(id))
+            signatures_.append(QVariantMap{{"meaning", s.meaning},
+                                           {"name", s.display_name},
+                                           {"login", s.login},
+                                           {"signedAt", s.signed_at},
+                                           {"holds", s.holds},
+                                           {"words", storage::SignatureStore::manifestation(s)}});
+    }
     if (stored_) {
         for (const auto& h : st->history(id))
             history_.append(QVariantMap{
@@ -1018,6 +1032,37 @@ QHash<int, QByteArray> BatchModel::roleNames() const {
             {CaptureRole, "capture"},
             {SourceRole, "source"},
             {CaptureTargetRole, "captureTarget"}};
+}
+
+bool BatchModel::signingAvailable() const {
+    if (!workspace_ || !workspace_->database() || !stored_)
+        return false;
+    const QSqlDatabase c = workspace_->database()->connection();
+    return storage::has_audit_schema(c) && storage::AccountStore(c).any();
+}
+
+bool BatchModel::sign(const QString& login, const QString& password, const QString& meaning) {
+    if (!workspace_ || !workspace_->database() || !stored_)
+        return set_error({QStringLiteral("signature"), tr("save the batch before signing it")}),
+               false;
+    if (pending_)
+        return set_error({QStringLiteral("signature"),
+                          tr("record or discard the pending amendment before signing")}),
+               false;
+    const QString id = stored_->id;
+    const FieldError e = guarded([&] {
+        storage::SignatureStore(workspace_->database()->connection())
+            .sign(id, login.trimmed(), password, meaning);
+    });
+    if (!e.field.isEmpty()) {
+        reload(id); // a wrong password is counted; the signatures are as they were
+        emit batchChanged();
+        return set_error(e), false;
+    }
+    set_error({});
+    reload(id);
+    emit batchChanged();
+    return true;
 }
 
 } // namespace phaseplan::gui

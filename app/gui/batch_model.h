@@ -140,6 +140,12 @@ class BatchModel : public QAbstractListModel {
     /// `label` is the field as the screen names it ("Actual amount of Potassium dihydrogen
     /// phosphate"), `text` the whole change in words ("…: 3.161 g → 3.205 g").
     Q_PROPERTY(QVariantList history READ history NOTIFY batchChanged)
+    /// The batch's electronic signatures, oldest first: {meaning, name, login, signedAt, holds,
+    /// words} ("Reviewed by Mats Lindqvist (demo-review) 2026-12-02 13:10:04 UTC", with "— void:
+    /// …" once a later change voided it). app/storage/signatures.h.
+    Q_PROPERTY(QVariantList signatures READ signatures NOTIFY batchChanged)
+    /// The database has accounts, so a saved batch can be signed here.
+    Q_PROPERTY(bool signingAvailable READ signingAvailable NOTIFY batchChanged)
     /// Every batch in the database, newest first.
     Q_PROPERTY(QStringList batchIds READ batchIds NOTIFY batchListChanged)
     /// Path of the last PDF written, "" before.
@@ -242,6 +248,8 @@ class BatchModel : public QAbstractListModel {
     QVariantList composition() const { return composition_; }
     QVariantList warnings() const { return warnings_; }
     QVariantList history() const { return history_; }
+    QVariantList signatures() const { return signatures_; }
+    bool signingAvailable() const;
     QStringList batchIds() const;
     QString lastSavedPath() const { return last_saved_path_; }
     QStringList printers() const;
@@ -281,6 +289,10 @@ class BatchModel : public QAbstractListModel {
     /// Records the pending change as an amendment with amendReason. False (error "reason") when
     /// the reason is empty.
     Q_INVOKABLE bool amend();
+    /// Signs the saved batch as it is stored: login and password again (21 CFR 11.200(a)(1)),
+    /// meaning "prepared", "reviewed" or "approved". Errors name "login", "password", "meaning"
+    /// or "signature" (a pending amendment, no saved batch).
+    Q_INVOKABLE bool sign(const QString& login, const QString& password, const QString& meaning);
     /// Drops the pending change and shows the stored batch again.
     Q_INVOKABLE void discardPending();
     /// Records why an out-of-tolerance batch is still used, with the preparer and the time. False
@@ -365,6 +377,7 @@ class BatchModel : public QAbstractListModel {
     double target_ph_ = 0, predicted_ph_ = 0, ionic_strength_mmol_per_l_ = 0,
            buffer_capacity_mmol_per_l_ = 0;
     QVariantList composition_, warnings_, history_, steps_;
+    QVariantList signatures_;
     bool out_of_tolerance_ = false, correction_remake_ = false;
     QStringList reasons_, correction_;
     QString last_saved_path_;

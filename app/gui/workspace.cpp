@@ -4,6 +4,7 @@
 
 #include "chem/error.h"
 #include "core/solvent_data.h"
+#include "storage/demo.h"
 
 #include <QFile>
 #include <QFileInfo>
@@ -57,7 +58,7 @@ QDateTime Workspace::now() const {
 }
 
 QString Workspace::demoName() {
-    return QStringLiteral("Overnight demo");
+    return storage::demo_sequence_name();
 }
 
 bool Workspace::open() {
@@ -198,35 +199,9 @@ QJsonObject Workspace::demoDocument() const {
 }
 
 void Workspace::seed_demo(storage::Database& db) const {
-    const QJsonObject demo = demoDocument();
-    std::vector<storage::SavedDocument> docs;
-    if (!demo.isEmpty()) {
-        docs.push_back(
-            {storage::DocumentKind::sequence, demoName(), demo,
-             QStringLiteral("an invented lab's overnight sequence, shipped with PhasePlan")});
-        const QJsonObject methods = demo.value(QLatin1String("methods")).toObject();
-        for (auto it = methods.begin(); it != methods.end(); ++it)
-            docs.push_back({storage::DocumentKind::method, it.key(), it.value().toObject(), {}});
-        const QJsonObject lines = demo.value(QLatin1String("lines")).toObject();
-        for (auto it = lines.begin(); it != lines.end(); ++it) {
-            const QJsonObject line = it.value().toObject();
-            const QString line_name = line.value(QLatin1String("name")).toString(it.key());
-            docs.push_back({storage::DocumentKind::line, line_name, line, {}});
-            const QJsonArray parts = line.value(QLatin1String("parts")).toArray();
-            for (const QJsonValue& p : parts) {
-                const QJsonObject buffer = p.toObject().value(QLatin1String("buffer")).toObject();
-                if (buffer.isEmpty())
-                    continue;
-                const QString name =
-                    buffer.value(QLatin1String("name")).toString(line_name + " buffer");
-                docs.push_back({storage::DocumentKind::buffer, name, buffer, {}});
-            }
-        }
-    }
-    db.save_all(docs);
+    // The demo sequence and its parts, the demo people and the demo batch with its trail.
+    storage::seed_demo(db, data_.data_dir.isEmpty() ? find_data_dir() : data_.data_dir);
     seed_demo_columns(db);
-    db.set_setting(QStringLiteral("demo_seeded"),
-                   true); // read by nothing now; older versions look for it
 }
 
 } // namespace phaseplan::gui

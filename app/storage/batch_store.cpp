@@ -4,7 +4,11 @@
 #include "chem/error.h"
 #include "chem/guard.h"
 #include "core/batch_document.h"
+#include "storage/accounts.h"
+#include "storage/audit_trail.h"
 #include "storage/database.h"
+#include "storage/signatures.h"
+#include "storage/sql_util.h"
 
 #include <QJsonDocument>
 #include <QSqlError>
@@ -36,23 +40,9 @@ QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings 
     return q;
 }
 
-/// BEGIN IMMEDIATE … COMMIT; rolled back when commit() did not run.
-class Transaction {
-  public:
-    explicit Transaction(QSqlDatabase db) : db_(db) { run(db_, "BEGIN IMMEDIATE"); }
-    ~Transaction() {
-        if (!done_)
-            QSqlQuery(db_).exec("ROLLBACK");
-    }
-    void commit() {
-        run(db_, "COMMIT");
-        done_ = true;
-    }
-
-  private:
-    QSqlDatabase db_;
-    bool done_ = false;
-};
+/// BEGIN IMMEDIATE … COMMIT (a savepoint inside an open transaction); rolled back when commit()
+/// did not run.
+using Transaction = sql::WriteTransaction;
 
 QString compact(const QJsonObject& o) {
     return QString::fromUtf8(QJsonDocument(o).toJson(QJsonDocument::Compact));
@@ -143,8 +133,10 @@ void validate(const BatchRecord& b) {
         throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
 }
 
+} // namespace
+
 /// Field-by-field view of a batch for the history: "prepared_by", "actual[<reagent>].mass_g", …
-std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
+std::map<QString, QJsonValue> batch_fields(const BatchRecord& b) {
     std::map<QString, QJsonValue> f;
     auto put = [&](const QString& k, const QJsonValue& v) {
         if (!(v.isString() && v.toString().isEmpty()) && !v.isNull() && !v.isUndefined())
@@ -178,6 +170,12 @@ std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
     if (!b.ph_capture.isEmpty())
         put("measured_ph_capture", b.ph_capture);
     return f;
+}
+
+namespace {
+
+std::map<QString, QJsonValue> flatten(const BatchRecord& b) {
+    return batch_fields(b);
 }
 
 const char* select_columns =
@@ -504,7 +502,8 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
             "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph_capture'");
         capture = q.next() && q.value(0).toInt() > 0;
     }
-    if (present && bench && capture)
+    const bool audit = has_audit_schema(db);
+    if (present && bench && capture && audit)
         return;
     Transaction tx(db);
     if (!present)
@@ -513,8 +512,15 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
     if (!bench)
         for (const QString& s : batch_schema_bench_statements())
             run(db, s);
-    for (const QString& s : batch_schema_capture_statements())
-        run(db, s);
+    if (!capture)
+        for (const QString& s : batch_schema_capture_statements())
+            run(db, s);
+    if (!audit) {
+        for (const QString& s : audit_schema_statements())
+            run(db, s);
+        for (const QString& s : audit_guard_statements_sqlite())
+            run(db, s);
+    }
     tx.commit();
 }
 
@@ -528,6 +534,7 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
         throw chem::Error("who", "is required: the history names who made each change");
     validate(batch);
     Transaction tx(db_);
+    AccountStore::check_may_edit(db_, who);
     if (run(db_, "SELECT 1 FROM batches WHERE id = ?", {batch.id}).next())
         throw chem::Error("batch.id", "\"" + str(batch.id) + "\" is taken by another batch");
     const QString t = now();
@@ -564,6 +571,12 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
             "new_value)"
             " VALUES (?, 1, ?, ?, 'create', ?, NULL, ?)",
             {batch.id, t, who.trimmed(), field, value_text(value)});
+    if (has_audit_schema(db_)) {
+        QJsonObject changes;
+        for (const auto& [field, value] : flatten(batch))
+            changes.insert(field, QJsonObject{{"old", QJsonValue::Null}, {"new", value}});
+        append_audit(db_, t, who.trimmed(), "create", "batch", batch.id, {}, changes);
+    }
     tx.commit();
 }
 
@@ -624,9 +637,17 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
     next.id = id; // the id is the key; it never changes
     validate(next);
     Transaction tx(db_);
+    AccountStore::check_may_edit(db_, who);
     const std::optional<BatchRecord> cur = load(id);
     if (!cur)
         throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    const std::vector<Signature> signed_now = holding_signatures(db_, *cur);
+    if (!signed_now.empty() && action == "edit")
+        throw chem::Error("batch", "batch \"" + str(id) + "\" was signed as " +
+                                       str(signed_now.front().meaning) + " by " +
+                                       str(signed_now.front().display_name) +
+                                       ": a change is an amendment with a reason, and it voids "
+                                       "the signatures");
     if (cur->printed() && action == "edit")
         throw chem::Error("batch", "batch \"" + str(id) + "\" was printed on " +
                                        str(cur->first_printed_at) +
@@ -682,6 +703,27 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
          next.deviation_at,
          compact(next.ph_capture),
          id});
+    if (has_audit_schema(db_)) {
+        QJsonObject changes;
+        for (const auto& [field, values] : diff)
+            changes.insert(
+                field,
+                QJsonObject{{"old", values.first.isUndefined() ? QJsonValue(QJsonValue::Null)
+                                                               : values.first},
+                            {"new", values.second.isUndefined() ? QJsonValue(QJsonValue::Null)
+                                                                : values.second}});
+        append_audit(db_, t, who.trimmed(), action, "batch", id, reason, changes);
+        // The content signed is gone: each signature that held is void from this change on.
+        for (const Signature& sig : signed_now)
+            append_audit(db_, t, who.trimmed(), "void-signature", "batch", id,
+                         QStringLiteral("revision %1 changed the content signed at revision %2")
+                             .arg(revision)
+                             .arg(sig.revision),
+                         audit_change(QStringLiteral("signature %1 (%2 by %3)")
+                                          .arg(sig.id)
+                                          .arg(sig.meaning, sig.login),
+                                      QStringLiteral("holds"), QStringLiteral("void")));
+    }
     tx.commit();
     return true;
 }
@@ -690,10 +732,17 @@ void BatchStore::mark_printed(const QString& id, const QString& who, const QStri
     if (who.trimmed().isEmpty())
         throw chem::Error("who", "is required: the history names who printed");
     Transaction tx(db_);
+    AccountStore::check_may_edit(db_, who);
     const std::optional<BatchRecord> cur = load(id);
     if (!cur)
         throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
     const QString t = now();
+    if (has_audit_schema(db_))
+        append_audit(db_, t, who.trimmed(), "print", "batch", id, {},
+                     audit_change("printed_count", cur->printed_count,
+                                  what.isEmpty()
+                                      ? QString::number(cur->printed_count + 1)
+                                      : QString::number(cur->printed_count + 1) + ": " + what));
     run(db_,
         "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
         "new_value)"

@@ -10,6 +10,10 @@
 //   - once a batch has been printed, a change must be an amendment: action "amend" with a reason;
 //     edit() refuses (chem::Error), and a plain UPDATE aborts;
 //   - batches are never deleted.
+// From schema step 10 every create, edit, amend and print is also one entry of the hash-chained
+// audit trail (app/storage/audit_trail.h), in the same transaction; an account that is an
+// administrator or locked changes nothing (AccountStore::check_may_edit); a batch with a holding
+// signature is changed only by amend, which voids those signatures (app/storage/signatures.h).
 //
 // The tables come from migration step batch_schema_version in app/storage/migrations.cpp
 // (batch_schema_statements()); BatchStore::ensure_schema creates them on a bare connection
@@ -24,6 +28,7 @@
 #include <QVariantList>
 
 #include <functional>
+#include <map>
 #include <optional>
 #include <vector>
 
@@ -77,6 +82,10 @@ struct BatchRecord {
     /// naming the field ("batch", "batch.id", "batch.actual[0].mass_g") for a malformed batch.
     static BatchRecord from_input(const QJsonObject& input);
 };
+
+/// The batch field by field, as the history and the audit trail record it: "prepared_by",
+/// "actual[<reagent>].mass_g", "measured_ph", …; unset fields are absent.
+std::map<QString, QJsonValue> batch_fields(const BatchRecord& b);
 
 struct HistoryEntry {
     qint64 seq = 0; ///< order of writing

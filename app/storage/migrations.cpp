@@ -14,7 +14,12 @@
 // write a newer file).
 #include "storage/database.h"
 
+#include "storage/audit_trail.h"
 #include "storage/batch_store.h"
+
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QSqlQuery>
 
 namespace phaseplan::storage {
 
@@ -28,6 +33,48 @@ void create_document_table(Database& db, const char* table) {
                            " created_at TEXT NOT NULL,"
                            " updated_at TEXT NOT NULL)")
                 .arg(QLatin1String(table)));
+}
+
+QJsonValue history_value(const QVariant& v) {
+    if (v.isNull())
+        return QJsonValue::Null;
+    const QJsonArray a = QJsonDocument::fromJson(v.toString().toUtf8()).array();
+    return a.isEmpty() ? QJsonValue(QJsonValue::Null) : a.at(0);
+}
+
+/// The batch history written before step 10 becomes the start of the audit trail: one entry per
+/// change (rows of one batch, revision, action, time, person and reason), in the order written,
+/// with the time and the name recorded then.
+void backfill_audit_from_history(Database& db) {
+    QSqlQuery q = db.exec(QStringLiteral(
+        "SELECT batch_id, revision, at, who, action, field, old_value, new_value, reason"
+        " FROM batch_history ORDER BY seq"));
+    struct Group {
+        QString batch, at, who, action, reason;
+        int revision = 0;
+        QJsonObject changes;
+    };
+    std::vector<Group> groups;
+    while (q.next()) {
+        Group g;
+        g.batch = q.value(0).toString();
+        g.revision = q.value(1).toInt();
+        g.at = q.value(2).toString();
+        g.who = q.value(3).toString();
+        g.action = q.value(4).toString();
+        g.reason = q.value(8).toString();
+        if (groups.empty() || groups.back().batch != g.batch ||
+            groups.back().revision != g.revision || groups.back().at != g.at ||
+            groups.back().who != g.who || groups.back().action != g.action ||
+            groups.back().reason != g.reason)
+            groups.push_back(g);
+        groups.back().changes.insert(
+            q.value(5).toString(),
+            QJsonObject{{"old", history_value(q.value(6))}, {"new", history_value(q.value(7))}});
+    }
+    for (const Group& g : groups)
+        append_audit(db.connection(), g.at, g.who, g.action, QStringLiteral("batch"), g.batch,
+                     g.reason, g.changes);
 }
 
 } // namespace
@@ -123,6 +170,17 @@ const std::vector<Migration>& migrations() {
                      " name TEXT NOT NULL UNIQUE CHECK (length(name) > 0),"
                      " document TEXT NOT NULL CHECK (json_valid(document)),"
                      " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
+         }},
+        {10,
+         "people and roles, the hash-chained audit trail, electronic signatures "
+         "(app/storage/audit_trail.h, accounts.h, signatures.h); the batch history so far copied "
+         "into the trail",
+         [](Database& db) {
+             for (const QString& sql : audit_schema_statements())
+                 db.exec(sql);
+             for (const QString& sql : audit_guard_statements_sqlite())
+                 db.exec(sql);
+             backfill_audit_from_history(db);
          }},
         // Append new steps here (see the comment at the top of this file).
     };

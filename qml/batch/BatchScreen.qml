@@ -397,6 +397,13 @@ ScreenPage {
                     batch: root.batch
                 }
 
+                SignatureCard {
+                    objectName: "signatureCard"
+                    Layout.fillWidth: true
+                    visible: root.batch.signingAvailable
+                    batch: root.batch
+                }
+
                 StepsCard {
                     objectName: "stepsCard"
                     Layout.fillWidth: true

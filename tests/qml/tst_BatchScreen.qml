@@ -52,6 +52,27 @@ TestCase {
             findAll(item.children[i], name, out)
         return out
     }
+    function findText(item, text) {
+        if (item.text === text && item.hasOwnProperty("pressed"))
+            return item
+        for (var i = 0; i < item.children.length; ++i) {
+            var found = findText(item.children[i], text)
+            if (found)
+                return found
+        }
+        return null
+    }
+    /// Scrolls the page so that `item` is on screen (a click off screen reaches nothing).
+    function bringIntoView(item) {
+        for (var p = item.parent; p; p = p.parent) {
+            if (p.hasOwnProperty("contentY") && p.hasOwnProperty("contentHeight")) {
+                var y = item.mapToItem(p.contentItem, 0, 0).y
+                p.contentY = Math.max(0, Math.min(y - 20, p.contentHeight - p.height))
+                wait(20)
+                return
+            }
+        }
+    }
     function typeInto(field, text) {
         field.forceActiveFocus()
         field.selectAll()
@@ -207,6 +228,36 @@ TestCase {
         verify(field.error.indexOf("BAL-03") >= 0, field.error)
         compare(s.batch.data(s.batch.index(row, 0), BatchModel.ActualRole), 3.1)
         compare(s.batch.data(s.batch.index(row, 0), BatchModel.SourceRole), "typed")
+    }
+
+    // The demo's signed batch: "Signed by" lists both signatures with name, time and meaning
+    // (21 CFR 11.50); signing as approved takes the login and the password again (11.200(a)(1)).
+    function test_sign_demo_batch() {
+        var s = makeScreen()
+        verify(s.batch.open("HR-QC117-A-0041"))
+        var card = findAll(s, "signatureCard", [])[0]
+        tryCompare(card, "visible", true)
+        compare(s.batch.signatures.length, 2)
+        var button = findAll(s, "signButton", [])[0]
+        compare(button.enabled, false)
+        bringIntoView(card)
+        mouseClick(findText(findAll(card, "signMeaning", [])[0], "Approved"))
+        compare(card.meaning, "approved")
+        typeInto(findAll(s, "signLogin", [])[0].field, "demo-approve")
+        typeInto(findAll(s, "signPassword", [])[0].field, "wrong-password")
+        compare(findAll(s, "signLogin", [])[0].field.text, "demo-approve")
+        compare(button.enabled, true)
+        bringIntoView(button)
+        mouseClick(button)
+        compare(s.batch.errorField, "password")
+        verify(findAll(s, "signPassword", [])[0].error.length > 0)
+        compare(findAll(s, "signPassword", [])[0].field.text, "")
+        typeInto(findAll(s, "signPassword", [])[0].field, "demo-approve-2026")
+        bringIntoView(button)
+        mouseClick(button)
+        compare(s.batch.signatures.length, 3)
+        verify(s.batch.signatures[2].words.indexOf("Approved by Priya Haldane (demo-approve)") === 0,
+               s.batch.signatures[2].words)
     }
 
     function test_touch_targets() {

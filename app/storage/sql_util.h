@@ -1,0 +1,35 @@
+#pragma once
+// Small helpers shared by the stores that work on a bare QSqlDatabase connection (batches,
+// accounts, signatures, the audit trail). Internal to app/storage.
+#include <QSqlDatabase>
+#include <QSqlQuery>
+#include <QString>
+#include <QVariantList>
+
+namespace phaseplan::storage::sql {
+
+/// Prepares and runs one statement with positional bindings. A null QString binds as ''.
+/// Throws chem::Error("database", …) naming the statement's start and the driver's message.
+QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {});
+
+/// A write transaction: BEGIN IMMEDIATE … COMMIT, or, when the connection is already inside a
+/// transaction (the demo seeded inside the transaction that creates the file), a SAVEPOINT that
+/// is released on commit. Rolled back when commit() did not run (an exception in between).
+class WriteTransaction {
+  public:
+    explicit WriteTransaction(QSqlDatabase db);
+    ~WriteTransaction();
+    WriteTransaction(const WriteTransaction&) = delete;
+    WriteTransaction& operator=(const WriteTransaction&) = delete;
+    void commit();
+
+  private:
+    QSqlDatabase db_;
+    QString savepoint_; ///< empty for the outermost transaction
+    bool done_ = false;
+};
+
+/// Now, UTC, ISO 8601 with milliseconds: "2026-12-02T13:08:28.123Z".
+QString utc_now();
+
+} // namespace phaseplan::storage::sql

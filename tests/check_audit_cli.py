@@ -1,0 +1,226 @@
+#!/usr/bin/python3
+"""The audit trail and the accounts through the real phaseplan-cli binary.
+
+Usage: check_audit_cli.py <phaseplan-cli> <source-dir> <build-dir>
+
+Contract (README "The lab's record"): `audit verify` exits 0 when the chain is intact and 1 with
+one stdout line naming the first bad entry when it is not (21 CFR 11.10(e); EU GMP Annex 11 §9);
+every bad input exits 2 with one stderr line naming the field and nothing on stdout; passwords are
+read from standard input, never from the command line (21 CFR 11.300); an account locks after 5
+wrong passwords (11.300(d)). The tampering is done with Python's own sqlite3 module (the outside
+tool), after dropping the guard triggers as anyone with the file could.
+"""
+import csv
+import hashlib
+import io
+import json
+import os
+import shutil
+import sqlite3
+import subprocess
+import sys
+import tempfile
+
+CLI, SRC, BUILD = sys.argv[1], sys.argv[2], sys.argv[3]
+WORK = os.path.abspath(tempfile.mkdtemp(prefix="audit-cli-", dir=BUILD))
+ENV = dict(os.environ)
+ENV.setdefault("QT_QPA_PLATFORM", "offscreen")
+failures = []
+
+
+def run(args, stdin=b""):
+    p = subprocess.run([CLI] + args, input=stdin, capture_output=True, timeout=120, env=ENV)
+    return p.returncode, p.stdout.decode("utf-8", "replace"), p.stderr.decode("utf-8", "replace")
+
+
+def case(name, ok, detail=""):
+    print(("ok   " if ok else "FAIL ") + name + ("" if ok else ": " + detail[:600]))
+    if not ok:
+        failures.append(name)
+
+
+def refused(name, result, field):
+    rc, out, err = result
+    lines = err.strip("\n").split("\n")
+    case(name, rc == 2 and out == "" and len(lines) == 1
+         and lines[0].startswith("phaseplan-cli: " + field),
+         "rc=%d out=%r err=%r" % (rc, out[:200], err[:400]))
+
+
+def fresh_demo(name):
+    path = os.path.join(WORK, name)
+    rc, out, err = run(["db", "demo", "--database", path])
+    case("db demo " + name, rc == 0 and json.loads(out)["chain"]["intact"], err)
+    return path
+
+
+def tamper(path, *statements):
+    c = sqlite3.connect(path)
+    for t in ("audit_log_no_update", "audit_log_no_delete", "audit_anchor_no_delete",
+              "audit_anchor_steps"):
+        c.execute("DROP TRIGGER IF EXISTS " + t)
+    for s in statements:
+        c.execute(s)
+    c.commit()
+    c.close()
+
+
+demo = fresh_demo("demo.sqlite")
+
+# ---- verify: intact ------------------------------------------------------------------------
+rc, out, err = run(["audit", "verify", "--database", demo])
+case("verify intact exits 0", rc == 0 and out.startswith("intact: 10 entries") and err == "",
+     "rc=%d out=%r err=%r" % (rc, out, err))
+before = open(demo, "rb").read()
+run(["audit", "verify", "--database", demo])
+case("verify leaves the file as it was", open(demo, "rb").read() == before)
+
+# ---- the serialisation, recomputed outside (Python's hashlib SHA-256, FIPS 180-4) -------------
+def entry_hash(fields):
+    data = b"phaseplan-audit-v1\n" + b"".join(
+        str(len(f.encode("utf-8"))).encode() + b":" + f.encode("utf-8") + b"\n" for f in fields)
+    return hashlib.sha256(data).hexdigest()
+
+
+c = sqlite3.connect(demo)
+prev, ok = "0" * 64, True
+for row in c.execute("SELECT seq, logged_at, login, action, record_type, record_id, reason,"
+                     " changes, prev_hash, hash FROM audit_log ORDER BY seq"):
+    fields = [str(row[0])] + list(row[1:9])
+    ok = ok and row[8] == prev and entry_hash(fields) == row[9]
+    prev = row[9]
+c.close()
+case("every stored hash recomputed from the documented serialisation", ok)
+
+# ---- export -----------------------------------------------------------------------------------
+rc, out, err = run(["audit", "export", "--database", demo, "--batch", "HR-QC117-A-0041"])
+doc = json.loads(out) if rc == 0 else {}
+actions = [e["action"] for e in doc.get("entries", [])]
+case("export --batch: the demo batch's whole history",
+     actions == ["create", "print", "amend", "print", "sign", "sign"], "%r %s" % (actions, err))
+sigs = doc.get("signatures", [])
+case("export --batch: two signatures by two people, both holding",
+     len(sigs) == 2 and sigs[0]["login"] != sigs[1]["login"] and all(s["holds"] for s in sigs)
+     and [s["meaning"] for s in sigs] == ["prepared", "reviewed"], repr(sigs))
+amend = doc["entries"][2] if len(doc.get("entries", [])) > 2 else {}
+case("export: the amendment's reason and old -> new lot",
+     "PA-88112" in amend.get("reason", "")
+     and amend.get("changes", {}).get("actual[phosphoric-acid].lot") == {"old": "PA-88121",
+                                                                         "new": "PA-88112"},
+     repr(amend)[:400])
+csv_path = os.path.join(WORK, "trail.csv")
+rc, out, err = run(["audit", "export", "--database", demo, "-o", csv_path])
+rows = list(csv.reader(io.open(csv_path, encoding="utf-8", newline=""))) if rc == 0 else []
+case("export -o .csv: header and one row per entry",
+     rc == 0 and out == "" and rows[0][:4] == ["seq", "logged_at", "login", "action"]
+     and len(rows) == 11 and [r[0] for r in rows[1:]] == [str(i) for i in range(1, 11)],
+     "rc=%d %s" % (rc, err))
+refused("export to a folder", run(["audit", "export", "--database", demo, "-o", WORK]), "-o")
+refused("export of an unknown batch", run(["audit", "export", "--database", demo, "--batch",
+                                           "NOPE"]), "batch")
+
+# ---- verify: tampered ---------------------------------------------------------------------------
+for name, statements, seq in [
+    ("a changed reason", ["UPDATE audit_log SET reason = 'no reason' WHERE seq = 7"], 7),
+    ("a changed time", ["UPDATE audit_log SET logged_at = '2026-01-01T00:00:00.000Z' WHERE seq = 2"], 2),
+    ("a changed value", ["UPDATE audit_log SET changes = replace(changes, 'PA-88112', 'PA-00000')"
+                         " WHERE seq = 7"], 7),
+    ("a deleted entry", ["DELETE FROM audit_log WHERE seq = 5"], 5),
+    ("the last entry deleted", ["DELETE FROM audit_log WHERE seq = 10"], 10),
+    ("a signature's signer swapped behind the trail",
+     ["DROP TRIGGER signatures_no_update",
+      "UPDATE signatures SET login = 'demo-approve' WHERE meaning = 'reviewed'"], 10),
+    ("a batch amount changed behind the trail",
+     ["DROP TRIGGER batches_changes_recorded",
+      "UPDATE batches SET actual = replace(actual, '2.981', '2.891')"], 10),
+    ("two entries reordered", ["UPDATE audit_log SET seq = 100 WHERE seq = 8",
+                               "UPDATE audit_log SET seq = 8 WHERE seq = 9",
+                               "UPDATE audit_log SET seq = 9 WHERE seq = 100"], 8),
+]:
+    path = os.path.join(WORK, "tampered.sqlite")
+    for suffix in ("", "-wal", "-shm"):
+        if os.path.exists(path + suffix):
+            os.remove(path + suffix)
+    shutil.copy(demo, path)
+    tamper(path, *statements)
+    rc, out, err = run(["audit", "verify", "--database", path])
+    case("verify finds " + name + " at entry %d" % seq,
+         rc == 1 and out.startswith("broken at entry %d:" % seq) and out.count("\n") == 1
+         and err == "", "rc=%d out=%r err=%r" % (rc, out, err))
+
+# ---- verify: bad input ----------------------------------------------------------------------
+refused("verify without --database", run(["audit", "verify"]), "database")
+refused("verify of a missing file", run(["audit", "verify", "--database",
+                                         os.path.join(WORK, "none.sqlite")]), "database")
+other = os.path.join(WORK, "other.sqlite")
+c = sqlite3.connect(other)
+c.execute("CREATE TABLE t (x)")
+c.commit()
+c.close()
+refused("verify of another program's file", run(["audit", "verify", "--database", other]),
+        "database")
+refused("an unknown audit subcommand", run(["audit", "rewrite", "--database", demo]), "command")
+
+# ---- accounts ---------------------------------------------------------------------------------
+rc, out, err = run(["user", "list", "--database", demo])
+users = {u["login"]: u for u in json.loads(out)["users"]} if rc == 0 else {}
+case("user list: the four demo accounts",
+     sorted(users) == ["demo-admin", "demo-approve", "demo-prep", "demo-review"]
+     and users["demo-admin"]["role"] == "administrator" and "password" not in out, out[:300])
+refused("a password on the command line is refused",
+        run(["user", "add", "x1", "--name", "X", "--role", "preparer", "--as", "demo-admin",
+             "--password", "secret-secret", "--database", demo]), "password")
+rc, out, err = run(["user", "add", "t.new", "--name", "Tam New", "--role", "reviewer", "--as",
+                    "demo-admin", "--database", demo], b"demo-admin-2026\nnew-password-1\n")
+case("user add by the administrator (passwords on stdin)",
+     rc == 0 and json.loads(out)["role"] == "reviewer", "rc=%d %s" % (rc, err))
+refused("user add by a preparer",
+        run(["user", "add", "t.two", "--name", "T", "--role", "preparer", "--as", "demo-prep",
+             "--database", demo], b"demo-prep-2026\nnew-password-2\n"), "as")
+refused("user add with the administrator's wrong password",
+        run(["user", "add", "t.two", "--name", "T", "--role", "preparer", "--as", "demo-admin",
+             "--database", demo], b"wrong-wrong\nnew-password-2\n"), "password")
+refused("user add with a short password",
+        run(["user", "add", "t.two", "--name", "T", "--role", "preparer", "--as", "demo-admin",
+             "--database", demo], b"demo-admin-2026\nshort\n"), "password")
+refused("user add with an unknown role",
+        run(["user", "add", "t.two", "--name", "T", "--role", "boss", "--as", "demo-admin",
+             "--database", demo], b"demo-admin-2026\nnew-password-2\n"), "role")
+for i in range(5):
+    r = run(["user", "passwd", "t.new", "--database", demo], b"not-the-password\nwhatever-123\n")
+refused("the fifth wrong password locks the account", r, "password")
+case("... and says so", "locked" in r[2], r[2])
+refused("a locked account cannot sign in", run(["user", "passwd", "t.new", "--database", demo],
+                                                b"new-password-1\nwhatever-123\n"), "login")
+rc, out, err = run(["user", "unlock", "t.new", "--as", "demo-admin", "--database", demo],
+                   b"demo-admin-2026\n")
+case("the administrator unlocks it", rc == 0 and json.loads(out)["locked"] is False
+     and json.loads(out)["failed_attempts"] == 0, err)
+rc, out, err = run(["user", "passwd", "t.new", "--database", demo], b"new-password-1\nnewer-pass-2\n")
+case("the account changes its own password", rc == 0, err)
+rc, out, err = run(["user", "lock", "t.new", "--as", "demo-admin", "--database", demo],
+                   b"demo-admin-2026\n")
+case("the administrator locks it", rc == 0 and json.loads(out)["locked"] is True, err)
+refused("no password on stdin", run(["user", "unlock", "t.new", "--as", "demo-admin",
+                                     "--database", demo]), "password")
+rc, out, err = run(["audit", "verify", "--database", demo])
+case("every account change went into the chain, which holds",
+     rc == 0 and int(out.split()[1]) > 10, "rc=%d out=%r" % (rc, out))
+refused("user list of a missing file",
+        run(["user", "list", "--database", os.path.join(WORK, "none.sqlite")]), "database")
+refused("db demo onto an existing file", run(["db", "demo", "--database", demo]), "database")
+
+# The first account of a new database must be an administrator and needs no --as.
+new_db = os.path.join(WORK, "new.sqlite")
+refused("the first account is an administrator",
+        run(["user", "add", "first", "--name", "F", "--role", "preparer", "--database", new_db],
+            b"first-password\n"), "role")
+rc, out, err = run(["user", "add", "first", "--name", "F", "--role", "administrator",
+                    "--database", new_db], b"first-password\n")
+case("the first administrator is added without --as", rc == 0, err)
+
+if failures:
+    print("%d failed: %s" % (len(failures), ", ".join(failures)))
+    sys.exit(1)
+shutil.rmtree(WORK, ignore_errors=True)
+print("all passed")

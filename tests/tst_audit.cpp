@@ -1,0 +1,578 @@
+// People, the hash-chained audit trail and electronic signatures (app/storage/accounts.h,
+// audit_trail.h, signatures.h) against the rules they implement:
+//   - 21 CFR 11.10(e): secure, computer-generated, time-stamped audit trail; changes do not
+//     obscure what was recorded before;
+//   - 21 CFR 11.50: a signature shows the signer's printed name, date and time, and meaning;
+//   - 21 CFR 11.70: signatures linked to their records so that they cannot be excised, copied or
+//     transferred to falsify a record;
+//   - 21 CFR 11.200(a)(1): non-biometric signatures use two distinct components (ID and password);
+//   - 21 CFR 11.300(d): safeguards against unauthorised use of passwords (lockout);
+//   - EU GMP Annex 11 §9 (audit trails: GMP-relevant changes recorded with the reason), §12
+//     (access by role), §14 (electronic signatures permanently linked to their record, with time
+//     and date);
+//   - libsodium documentation, "Password hashing": crypto_pwhash_OPSLIMIT_INTERACTIVE and
+//     crypto_pwhash_MEMLIMIT_INTERACTIVE (Argon2id: 2 passes, 64 MiB) for interactive logins.
+// The wording of the regulations is from memory.
+#include "chem/error.h"
+#include "storage/accounts.h"
+#include "storage/audit_trail.h"
+#include "storage/batch_store.h"
+#include "storage/database.h"
+#include "storage/demo.h"
+#include "storage/signatures.h"
+
+#include <QCryptographicHash>
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QSqlError>
+#include <QSqlQuery>
+#include <QTemporaryDir>
+#include <QtTest>
+
+using namespace phaseplan::storage;
+
+namespace {
+
+/// Runs `f` and returns the field of the chem::Error it throws ("" when it does not throw).
+template <class F> QString error_field(F&& f) {
+    try {
+        f();
+    } catch (const chem::Error& e) {
+        return QString::fromStdString(e.field());
+    }
+    return {};
+}
+
+QSqlQuery sql(QSqlDatabase db, const QString& text, const QVariantList& bindings = {}) {
+    QSqlQuery q(db);
+    if (!q.prepare(text))
+        qFatal("prepare %s: %s", qPrintable(text), qPrintable(q.lastError().text()));
+    for (int i = 0; i < bindings.size(); ++i)
+        q.bindValue(i, bindings[i]);
+    if (!q.exec())
+        qFatal("exec %s: %s", qPrintable(text), qPrintable(q.lastError().text()));
+    return q;
+}
+
+/// What someone with the file and an SQLite shell can do first: remove the guards.
+void drop_guards(QSqlDatabase db) {
+    for (const char* t : {"audit_log_no_update", "audit_log_no_delete", "audit_anchor_no_delete",
+                          "audit_anchor_steps"})
+        sql(db, QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
+}
+
+QJsonObject demo_input() {
+    QFile f(QStringLiteral(SOURCE_DIR "/data/demo/batch-line-a-buffer.json"));
+    if (!f.open(QIODevice::ReadOnly))
+        qFatal("demo batch missing");
+    QJsonObject in = QJsonDocument::fromJson(f.readAll()).object();
+    QJsonObject b = in.value("batch").toObject();
+    b["id"] = "T-1";
+    in["batch"] = b;
+    return in;
+}
+
+/// A database with the demo people and the demo batch (signed twice).
+struct DemoFile {
+    QTemporaryDir dir;
+    std::unique_ptr<Database> db;
+    DemoFile() {
+        db = std::make_unique<Database>(dir.filePath("demo.sqlite"), -1, [](Database& d) {
+            seed_demo_records(d, QStringLiteral(SOURCE_DIR "/data"));
+        });
+    }
+    QSqlDatabase c() const { return db->connection(); }
+};
+
+/// A database with one administrator, one preparer, one reviewer and one approver.
+struct People {
+    QTemporaryDir dir;
+    std::unique_ptr<Database> db;
+    People() {
+        db = std::make_unique<Database>(dir.filePath("people.sqlite"));
+        AccountStore a(db->connection());
+        a.add("admin", "Ada Admin", Role::administrator, "admin-password", {});
+        a.add("prep", "Piet Preparer", Role::preparer, "prep-password", "admin");
+        a.add("rev", "Rhea Reviewer", Role::reviewer, "rev-password", "admin");
+        a.add("appr", "Ari Approver", Role::approver, "appr-password", "admin");
+    }
+    QSqlDatabase c() const { return db->connection(); }
+};
+
+} // namespace
+
+class TestAudit : public QObject {
+    Q_OBJECT
+  private slots:
+    // ---- accounts --------------------------------------------------------------------------
+
+    // libsodium documentation: crypto_pwhash_str gives a self-describing string; at
+    // OPSLIMIT_INTERACTIVE (2) and MEMLIMIT_INTERACTIVE (64 MiB = 65536 KiB) Argon2id writes
+    // "$argon2id$v=19$m=65536,t=2,p=1$". The salt is random, so two hashes of one password differ.
+    void argon2idRoundTrip() {
+        const QString h = hash_password("correct horse");
+        QVERIFY2(h.startsWith("$argon2id$v=19$m=65536,t=2,p=1$"), qPrintable(h));
+        QVERIFY(password_matches(h, "correct horse"));
+        QVERIFY(!password_matches(h, "correct horsE"));
+        QVERIFY(!password_matches(h, ""));
+        QVERIFY(hash_password("correct horse") != h);
+        // Length rule (common practice, no source): at least 8 characters.
+        QCOMPARE(error_field([] { hash_password("short"); }), QString("password"));
+    }
+
+    // The demo's accounts (README.md lists their passwords) sign in with those passwords.
+    void demoPasswordsMatch() {
+        for (const DemoUser& u : demo_users()) {
+            QVERIFY(QString(u.argon2id_hash).startsWith("$argon2id$v=19$m=65536,t=2,p=1$"));
+            QVERIFY2(password_matches(u.argon2id_hash, u.password), u.login);
+            QVERIFY(!password_matches(u.argon2id_hash, QString(u.password) + "x"));
+        }
+    }
+
+    // 21 CFR 11.300(d): attempts at unauthorised use are stopped: the fifth wrong password in a
+    // row locks the account; a right one before that sets the count back to 0.
+    void lockoutAfterFiveFailures() {
+        People p;
+        AccountStore a(p.c());
+        for (int i = 1; i <= 4; ++i) {
+            QCOMPARE(error_field([&] { a.authenticate("prep", "wrong-password"); }),
+                     QString("password"));
+            QCOMPARE(a.find("prep")->failed_attempts, i);
+            QVERIFY(!a.find("prep")->locked);
+        }
+        QCOMPARE(a.authenticate("prep", "prep-password").failed_attempts, 0);
+        QCOMPARE(a.find("prep")->failed_attempts, 0);
+        for (int i = 1; i <= 5; ++i)
+            QCOMPARE(error_field([&] { a.authenticate("prep", "wrong-password"); }),
+                     QString("password"));
+        QVERIFY(a.find("prep")->locked);
+        // Locked: even the right password is refused, naming the login.
+        QCOMPARE(error_field([&] { a.authenticate("prep", "prep-password"); }), QString("login"));
+        // Only an administrator unlocks.
+        QCOMPARE(error_field([&] { a.set_locked("prep", false, "rev"); }), QString("as"));
+        a.set_locked("prep", false, "admin");
+        QCOMPARE(a.authenticate("prep", "prep-password").login, QString("prep"));
+        // Every failure and the lock are in the trail (Annex 11 §12.4: who did what, when).
+        int failed = 0, locks = 0, unlocks = 0;
+        for (const AuditEntry& e : audit_entries(p.c(), {"user", "prep"})) {
+            failed += e.action == "sign-in-failed";
+            locks += e.action == "lock";
+            unlocks += e.action == "unlock";
+        }
+        QCOMPARE(failed, 9);
+        QCOMPARE(locks, 1);
+        QCOMPARE(unlocks, 1);
+        QVERIFY(verify_audit(p.c()).intact);
+        // An unknown login gets the same words as a wrong password.
+        QCOMPARE(error_field([&] { a.authenticate("nobody", "whatever-pass"); }),
+                 QString("password"));
+    }
+
+    void accountRules() {
+        QTemporaryDir dir;
+        Database db(dir.filePath("a.sqlite"));
+        AccountStore a(db.connection());
+        // The first account creates the others, so it is an administrator.
+        QCOMPARE(
+            error_field([&] { a.add("first", "First One", Role::preparer, "long-enough", {}); }),
+            QString("role"));
+        a.add("boss", "The Admin", Role::administrator, "long-enough", {});
+        QCOMPARE(
+            error_field([&] { a.add("Bad Login", "x", Role::preparer, "long-enough", "boss"); }),
+            QString("login"));
+        a.add("p1", "P One", Role::preparer, "long-enough", "boss");
+        // A preparer does not manage accounts (Annex 11 §12: access by role).
+        QCOMPARE(error_field([&] { a.add("p2", "P Two", Role::preparer, "long-enough", "p1"); }),
+                 QString("as"));
+        // Logins are never reused (21 CFR 11.100(a), 11.300(a)); accounts are not deleted.
+        QCOMPARE(error_field([&] { a.add("p1", "Other", Role::reviewer, "long-enough", "boss"); }),
+                 QString("login"));
+        QSqlQuery q(db.connection());
+        QVERIFY(!q.exec("DELETE FROM users WHERE login = 'p1'"));
+        // The last unlocked administrator is not locked by hand (nobody could unlock it).
+        QCOMPARE(error_field([&] { a.set_locked("boss", true, "boss"); }), QString("login"));
+        // The hash is stored, never the password.
+        QSqlQuery h = sql(db.connection(), "SELECT password_hash FROM users WHERE login = 'p1'");
+        QVERIFY(h.next());
+        QVERIFY(h.value(0).toString().startsWith("$argon2id$"));
+        QVERIFY(!h.value(0).toString().contains("long-enough"));
+    }
+
+    // ---- roles -----------------------------------------------------------------------------
+
+    // Annex 11 §12 (access by role): the administrator manages accounts and does not create,
+    // edit, print or sign records.
+    void administratorCannotEditRecords() {
+        People p;
+        BatchStore batches(p.c());
+        const BatchRecord b = BatchRecord::from_input(demo_input());
+        QCOMPARE(error_field([&] { batches.create(b, "admin"); }), QString("who"));
+        QVERIFY(batches.list().isEmpty());
+        batches.create(b, "prep");
+        BatchRecord next = *batches.load("T-1");
+        next.comment = "changed by the administrator";
+        QCOMPARE(error_field([&] { batches.edit("T-1", next, "admin"); }), QString("who"));
+        QCOMPARE(error_field([&] { batches.amend("T-1", next, "admin", "because"); }),
+                 QString("who"));
+        QCOMPARE(error_field([&] { batches.mark_printed("T-1", "admin", "sheet"); }),
+                 QString("who"));
+        SignatureStore s(p.c());
+        QCOMPARE(error_field([&] { s.sign("T-1", "admin", "admin-password", "prepared"); }),
+                 QString("login"));
+        QCOMPARE(batches.load("T-1")->revision, 1);
+        // A locked account changes nothing either.
+        AccountStore(p.c()).set_locked("rev", true, "admin");
+        QCOMPARE(error_field([&] { batches.edit("T-1", next, "rev"); }), QString("who"));
+    }
+
+    // 21 CFR 211.194(a)(8) (from memory): a second person reviews the record. A preparer cannot
+    // sign as reviewer, and a reviewer who made the batch cannot review it.
+    void preparerCannotReviewOwnBatch() {
+        People p;
+        BatchStore batches(p.c());
+        SignatureStore s(p.c());
+        batches.create(BatchRecord::from_input(demo_input()), "prep");
+        s.sign("T-1", "prep", "prep-password", "prepared");
+        QCOMPARE(error_field([&] { s.sign("T-1", "prep", "prep-password", "reviewed"); }),
+                 QString("login"));
+        // The reviewer made this one.
+        QJsonObject in = demo_input();
+        QJsonObject b = in["batch"].toObject();
+        b["id"] = "T-2";
+        in["batch"] = b;
+        batches.create(BatchRecord::from_input(in), "rev");
+        s.sign("T-2", "prep", "prep-password", "prepared");
+        QCOMPARE(error_field([&] { s.sign("T-2", "rev", "rev-password", "reviewed"); }),
+                 QString("login"));
+        // Another reviewer (here the approver) may.
+        QCOMPARE(s.sign("T-2", "appr", "appr-password", "reviewed").meaning, QString("reviewed"));
+        // Order: reviewed needs prepared.
+        b["id"] = "T-3";
+        in["batch"] = b;
+        batches.create(BatchRecord::from_input(in), "prep");
+        QCOMPARE(error_field([&] { s.sign("T-3", "rev", "rev-password", "reviewed"); }),
+                 QString("meaning"));
+    }
+
+    // 21 CFR 11.200(a)(1): signing takes both components again; a wrong password signs nothing
+    // and counts towards the lock.
+    void signingNeedsThePassword() {
+        People p;
+        BatchStore(p.c()).create(BatchRecord::from_input(demo_input()), "prep");
+        SignatureStore s(p.c());
+        QCOMPARE(error_field([&] { s.sign("T-1", "prep", "not-my-password", "prepared"); }),
+                 QString("password"));
+        QVERIFY(s.list("T-1").empty());
+        QCOMPARE(AccountStore(p.c()).find("prep")->failed_attempts, 1);
+        const Signature sig = s.sign("T-1", "prep", "prep-password", "prepared");
+        // 21 CFR 11.50: name, date and time, meaning.
+        QCOMPARE(sig.display_name, QString("Piet Preparer"));
+        QVERIFY(sig.signed_at.endsWith('Z'));
+        const QString words = SignatureStore::manifestation(sig);
+        QVERIFY2(words.startsWith("Prepared by Piet Preparer (prep) ") && words.endsWith(" UTC"),
+                 qPrintable(words));
+    }
+
+    // ---- the chain ---------------------------------------------------------------------------
+
+    // 21 CFR 11.10(e): the demo's whole history is in the trail and the chain holds.
+    void demoTrailVerifies() {
+        DemoFile f;
+        const AuditVerification v = verify_audit(f.c());
+        QVERIFY2(v.intact, qPrintable(v.problem));
+        const auto batch = audit_entries(f.c(), {"batch", demo_batch_id()});
+        QStringList actions;
+        for (const AuditEntry& e : batch)
+            actions << e.action;
+        QCOMPARE(actions, (QStringList{"create", "print", "amend", "print", "sign", "sign"}));
+        // The amendment carries its reason and the old and new lot (Annex 11 §9).
+        const AuditEntry& amend = batch[2];
+        QVERIFY(amend.reason.contains("PA-88112"));
+        const QJsonObject lot =
+            QJsonDocument::fromJson(amend.changes.toUtf8())["actual[phosphoric-acid].lot"]
+                .toObject();
+        QCOMPARE(lot["old"].toString(), QString("PA-88121"));
+        QCOMPARE(lot["new"].toString(), QString("PA-88112"));
+        // Each hash is SHA-256 (FIPS 180-4) over the documented serialisation, recomputed here
+        // independently of audit_hash().
+        QString prev(64, '0');
+        for (const AuditEntry& e : audit_entries(f.c())) {
+            QByteArray c("phaseplan-audit-v1\n");
+            for (const QString& field :
+                 {QString::number(e.seq), e.logged_at, e.login, e.action, e.record_type,
+                  e.record_id, e.reason, e.changes, e.prev_hash}) {
+                const QByteArray b = field.toUtf8();
+                c += QByteArray::number(b.size()) + ':' + b + '\n';
+            }
+            QCOMPARE(e.prev_hash, prev);
+            QCOMPARE(e.hash, QString::fromLatin1(
+                                 QCryptographicHash::hash(c, QCryptographicHash::Sha256).toHex()));
+            prev = e.hash;
+        }
+        // Two signatures, by two people, both holding.
+        const auto sigs = SignatureStore(f.c()).list(demo_batch_id());
+        QCOMPARE(sigs.size(), size_t(2));
+        QVERIFY(sigs[0].holds && sigs[1].holds);
+        QVERIFY(sigs[0].login != sigs[1].login);
+    }
+
+    // The guards: UPDATE and DELETE on the trail are refused by the database itself.
+    void trailIsAppendOnly() {
+        DemoFile f;
+        QSqlQuery q(f.c());
+        QVERIFY(!q.exec("UPDATE audit_log SET reason = 'x' WHERE seq = 1"));
+        QVERIFY(!q.exec("DELETE FROM audit_log WHERE seq = 1"));
+        QVERIFY(!q.exec("UPDATE signatures SET meaning = 'approved'"));
+        QVERIFY(!q.exec("DELETE FROM signatures"));
+        QVERIFY(verify_audit(f.c()).intact);
+    }
+
+    // 21 CFR 11.10(e) and Annex 11 §9: changing any character of any field of any entry behind
+    // the program's back (raw SQL after dropping the guards) is found, at that entry.
+    void anyChangedCharacterIsFound() {
+        DemoFile f;
+        drop_guards(f.c());
+        const std::vector<AuditEntry> all = audit_entries(f.c());
+        QVERIFY(all.size() >= 10);
+        int cases = 0;
+        const char* columns[] = {"logged_at", "login",   "action",    "record_type", "record_id",
+                                 "reason",    "changes", "prev_hash", "hash"};
+        for (const AuditEntry& e : all) {
+            const QString values[] = {e.logged_at,   e.login,     e.action,
+                                      e.record_type, e.record_id, e.reason,
+                                      e.changes,     e.prev_hash, e.hash};
+            for (int c = 0; c < 9; ++c) {
+                const QString& v = values[c];
+                // Every position of short fields; for long ones (changes) every 7th.
+                const int step = v.size() > 200 ? 7 : 1;
+                for (int i = 0; i < v.size(); i += step) {
+                    QString changed = v;
+                    changed[i] =
+                        changed[i] == QLatin1Char('a') ? QLatin1Char('b') : QLatin1Char('a');
+                    sql(f.c(), "SAVEPOINT tamper");
+                    sql(f.c(),
+                        QStringLiteral("UPDATE audit_log SET %1 = ? WHERE seq = ?")
+                            .arg(QLatin1String(columns[c])),
+                        {changed, e.seq});
+                    const AuditVerification r = verify_audit(f.c());
+                    sql(f.c(), "ROLLBACK TO tamper");
+                    sql(f.c(), "RELEASE tamper");
+                    if (r.intact || r.first_bad_seq != e.seq)
+                        QFAIL(qPrintable(QStringLiteral("%1 of entry %2, position %3: %4 at %5")
+                                             .arg(QLatin1String(columns[c]))
+                                             .arg(e.seq)
+                                             .arg(i)
+                                             .arg(r.intact ? "not found" : r.problem)
+                                             .arg(r.first_bad_seq)));
+                    ++cases;
+                }
+            }
+            // The number itself.
+            sql(f.c(), "SAVEPOINT tamper");
+            sql(f.c(), "UPDATE audit_log SET seq = seq + 1000 WHERE seq = ?", {e.seq});
+            const AuditVerification r = verify_audit(f.c());
+            sql(f.c(), "ROLLBACK TO tamper");
+            sql(f.c(), "RELEASE tamper");
+            QVERIFY(!r.intact);
+            QCOMPARE(r.first_bad_seq, e.seq);
+        }
+        QVERIFY(cases > 1000);
+        QVERIFY(verify_audit(f.c()).intact); // everything was rolled back
+    }
+
+    // A deleted entry, the first, one in the middle or the last, is found at its number.
+    void deletedEntryIsFound() {
+        DemoFile f;
+        drop_guards(f.c());
+        const std::vector<AuditEntry> all = audit_entries(f.c());
+        for (const AuditEntry& e : all) {
+            sql(f.c(), "SAVEPOINT tamper");
+            sql(f.c(), "DELETE FROM audit_log WHERE seq = ?", {e.seq});
+            const AuditVerification r = verify_audit(f.c());
+            sql(f.c(), "ROLLBACK TO tamper");
+            sql(f.c(), "RELEASE tamper");
+            QVERIFY2(!r.intact, qPrintable(QString::number(e.seq)));
+            QCOMPARE(r.first_bad_seq, e.seq);
+            QVERIFY2(r.problem.contains("missing"), qPrintable(r.problem));
+        }
+    }
+
+    // Two entries swapped (their numbers exchanged) and an entry added behind the program's back
+    // are found.
+    void reorderedOrInsertedEntryIsFound() {
+        DemoFile f;
+        drop_guards(f.c());
+        sql(f.c(), "SAVEPOINT tamper");
+        sql(f.c(), "UPDATE audit_log SET seq = 100000 WHERE seq = 3");
+        sql(f.c(), "UPDATE audit_log SET seq = 3 WHERE seq = 4");
+        sql(f.c(), "UPDATE audit_log SET seq = 4 WHERE seq = 100000");
+        AuditVerification r = verify_audit(f.c());
+        sql(f.c(), "ROLLBACK TO tamper");
+        sql(f.c(), "RELEASE tamper");
+        QVERIFY(!r.intact);
+        QCOMPARE(r.first_bad_seq, qint64(3));
+        // A well-formed entry chained to the last one but written with raw SQL: the anchor was
+        // not moved, so it is found.
+        const std::vector<AuditEntry> all = audit_entries(f.c());
+        AuditEntry forged;
+        forged.seq = all.back().seq + 1;
+        forged.logged_at = "2026-12-02T10:00:00.000Z";
+        forged.login = "demo-review";
+        forged.action = "sign";
+        forged.record_type = "batch";
+        forged.record_id = demo_batch_id();
+        forged.changes = "{}";
+        forged.prev_hash = all.back().hash;
+        forged.hash = audit_hash(forged);
+        sql(f.c(),
+            "INSERT INTO audit_log (seq, logged_at, login, action, record_type, record_id, reason,"
+            " changes, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, '', ?, ?, ?)",
+            {forged.seq, forged.logged_at, forged.login, forged.action, forged.record_type,
+             forged.record_id, forged.changes, forged.prev_hash, forged.hash});
+        r = verify_audit(f.c());
+        QVERIFY(!r.intact);
+        QCOMPARE(r.first_bad_seq, forged.seq);
+    }
+
+    // 21 CFR 11.70: a signature cannot be moved, copied or altered, and the record signed cannot
+    // be changed, without it showing. Records changed behind the trail (raw SQL with the guards
+    // dropped, the trail itself untouched) are found against the trail.
+    void recordsChangedBehindTheTrailAreFound() {
+        DemoFile f;
+        QVERIFY(verify_all(f.c()).intact);
+        for (const char* t :
+             {"signatures_no_update", "signatures_no_delete", "batches_changes_recorded"})
+            sql(f.c(), QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
+        const auto sigs = SignatureStore(f.c()).list(demo_batch_id());
+        const qint64 reviewed_seq = sigs[1].audit_seq;
+        struct Case {
+            const char* what;
+            const char* sql;
+            qint64 seq;
+        };
+        const qint64 last_batch_entry = audit_entries(f.c(), {"batch", demo_batch_id()}).back().seq;
+        const Case cases[] = {
+            {"signer swapped", "UPDATE signatures SET login = 'demo-approve' WHERE id = 2",
+             reviewed_seq},
+            {"meaning raised", "UPDATE signatures SET meaning = 'approved' WHERE id = 2",
+             reviewed_seq},
+            {"time moved",
+             "UPDATE signatures SET signed_at = '2026-01-01T00:00:00.000Z' WHERE id = 2",
+             reviewed_seq},
+            {"content hash re-pointed",
+             "UPDATE signatures SET content_sha256 = "
+             "'0000000000000000000000000000000000000000000000000000000000000000'"
+             " WHERE id = 2",
+             reviewed_seq},
+            {"signature removed", "DELETE FROM signatures WHERE id = 2", reviewed_seq},
+            {"amount changed", "UPDATE batches SET actual = replace(actual, '2.981', '2.891')",
+             last_batch_entry},
+            {"comment added", "UPDATE batches SET comment = 'fine'", last_batch_entry},
+        };
+        for (const Case& c : cases) {
+            sql(f.c(), "SAVEPOINT tamper");
+            sql(f.c(), c.sql);
+            const AuditVerification r = verify_all(f.c());
+            sql(f.c(), "ROLLBACK TO tamper");
+            sql(f.c(), "RELEASE tamper");
+            QVERIFY2(!r.intact, c.what);
+            QVERIFY2(r.first_bad_seq == c.seq, qPrintable(QString(c.what) + ": " + r.problem));
+            QVERIFY(verify_audit(f.c()).intact); // the chain alone holds: only the records moved
+        }
+        // A signature forged into the table with no entry behind it.
+        sql(f.c(), "INSERT INTO signatures (id, batch_id, login, display_name, meaning, signed_at,"
+                   " revision, content_sha256, audit_seq) SELECT 3, batch_id, 'demo-approve', "
+                   "'Priya Haldane', 'approved', signed_at, revision, content_sha256, audit_seq - 1"
+                   " FROM signatures WHERE id = 2");
+        const AuditVerification r = verify_all(f.c());
+        QVERIFY(!r.intact);
+        QCOMPARE(r.first_bad_seq, reviewed_seq - 1);
+    }
+
+    // ---- signatures --------------------------------------------------------------------------
+
+    // 21 CFR 11.70 and Annex 11 §14: a signature is bound to the content it signed. A later
+    // amendment voids it (visibly, in the trail), and a signed batch is not edited without a
+    // reason.
+    void laterEditVoidsSignatures() {
+        DemoFile f;
+        BatchStore batches(f.c());
+        SignatureStore s(f.c());
+        const QString id = demo_batch_id();
+        BatchRecord next = *batches.load(id);
+        next.comment = "pH meter PHM-01 re-checked";
+        QCOMPARE(error_field([&] { batches.edit(id, next, "demo-prep"); }), QString("batch"));
+        QCOMPARE(error_field([&] { batches.amend(id, next, "demo-prep", "  "); }),
+                 QString("reason"));
+        for (const Signature& sig : s.list(id))
+            QVERIFY(sig.holds);
+        QVERIFY(batches.amend(id, next, "demo-prep", "comment added after review"));
+        const auto after = s.list(id);
+        QCOMPARE(after.size(), size_t(2));
+        for (const Signature& sig : after) {
+            QVERIFY(!sig.holds);
+            QVERIFY(SignatureStore::manifestation(sig).contains("void"));
+            QCOMPARE(sig.content_sha256 == batch_content_sha256(*batches.load(id)), false);
+        }
+        int voids = 0;
+        for (const AuditEntry& e : audit_entries(f.c(), {"batch", id}))
+            voids += e.action == "void-signature";
+        QCOMPARE(voids, 2);
+        // Printing changes nothing signed: sign again, print, the signature holds.
+        s.sign(id, "demo-prep", "demo-prep-2026", "prepared");
+        batches.mark_printed(id, "demo-prep", "labels");
+        QVERIFY(s.list(id).back().holds);
+        // A value changed and changed back is still a change (the revision moves on).
+        BatchRecord back = *batches.load(id);
+        back.comment = "x";
+        batches.amend(id, back, "demo-prep", "typo");
+        back.comment = "pH meter PHM-01 re-checked";
+        batches.amend(id, back, "demo-prep", "typo undone");
+        QVERIFY(!s.list(id).back().holds);
+        const AuditVerification v = verify_all(f.c());
+        QVERIFY2(v.intact, qPrintable(v.problem));
+    }
+
+    // ---- migration ---------------------------------------------------------------------------
+
+    // A file from before step 10: its batch history becomes the start of the trail.
+    void migrationCopiesHistoryIntoTrail() {
+        QTemporaryDir dir;
+        const QString path = dir.filePath("old.sqlite");
+        int before = 0;
+        for (const Migration& m : migrations())
+            if (m.version < 10)
+                before = m.version;
+        {
+            Database old(path, before);
+            QCOMPARE(old.schema_version(), before);
+            QVERIFY(!has_audit_schema(old.connection()));
+            BatchStore b(old.connection());
+            b.create(BatchRecord::from_input(demo_input()), "R. Okafor");
+            BatchRecord next = *b.load("T-1");
+            next.comment = "before accounts";
+            b.edit("T-1", next, "R. Okafor");
+            b.mark_printed("T-1", "R. Okafor", "sheet");
+        }
+        Database db(path);
+        QCOMPARE(db.schema_version(), latest_schema_version());
+        const auto entries = audit_entries(db.connection(), {"batch", "T-1"});
+        QCOMPARE(entries.size(), size_t(3));
+        QCOMPARE(entries[0].action, QString("create"));
+        QCOMPARE(entries[1].action, QString("edit"));
+        QCOMPARE(entries[2].action, QString("print"));
+        QCOMPARE(entries[1].login, QString("R. Okafor"));
+        QVERIFY(verify_audit(db.connection()).intact);
+        // New changes continue the chain.
+        BatchStore b(db.connection());
+        BatchRecord next = *b.load("T-1");
+        next.comment = "after accounts";
+        b.amend("T-1", next, "R. Okafor", "follow-up");
+        const AuditVerification v = verify_all(db.connection());
+        QVERIFY2(v.intact, qPrintable(v.problem));
+        QCOMPARE(v.head_seq, qint64(4));
+    }
+};
+
+QTEST_MAIN(TestAudit)
+#include "tst_audit.moc"
