@@ -812,19 +812,25 @@ void add_where(CheckWarning& w, const EluentTrace& tr, const EluentTracePoint& f
 // gradient at the column temperature (or, without the reagent library, each line's own pH).
 std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
     std::vector<CheckWarning> out;
-    if (!c.column)
+    if (!c.column && c.method_columns.empty())
         return out;
     std::vector<EluentTrace> own;
     const auto& traces = traces_of(c, own);
     if (!traces.empty()) {
         for (const EluentTrace& tr : traces) {
+            const auto own = c.method_columns.find(tr.method);
+            const ColumnLimits* limits = own != c.method_columns.end() ? &own->second
+                                         : c.column                    ? &*c.column
+                                                                       : nullptr;
+            if (!limits)
+                continue;
             for (const bool low : {true, false}) {
                 const EluentTracePoint* worst = nullptr;
                 const EluentTracePoint* first = nullptr;
                 const EluentTracePoint* last = nullptr;
                 for (const auto& p : tr.points) {
                     const bool outside =
-                        low ? p.ph_s_w < c.column->ph_min : p.ph_s_w > c.column->ph_max;
+                        low ? p.ph_s_w < limits->ph_min : p.ph_s_w > limits->ph_max;
                     if (!outside)
                         continue;
                     if (!first)
@@ -848,8 +854,9 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                          where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " +
                              pct(worst->organic_fraction_v) + " and " + fmt(tr.temperature_c, 0) +
                              " °C" + span + ", " + (low ? "below" : "above") +
-                             " the column's range of pH " + fmt(c.column->ph_min, 1) + " to " +
-                             fmt(c.column->ph_max, 1) + ": " +
+                             (own != c.method_columns.end() ? " the method's column's range of pH "
+                                                            : " the column's range of pH ") +
+                             fmt(limits->ph_min, 1) + " to " + fmt(limits->ph_max, 1) + ": " +
                              (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
                              " The organic moves the pH away from the aqueous buffer's; use a "
                              "column rated "
@@ -857,8 +864,8 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                              (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
                 w.number("ph", worst->ph_s_w);
                 w.number("ph_s_s", worst->ph_s_s);
-                w.number("ph_min", c.column->ph_min);
-                w.number("ph_max", c.column->ph_max);
+                w.number("ph_min", limits->ph_min);
+                w.number("ph_max", limits->ph_max);
                 add_where(w, tr, *first, *last, *worst);
                 w.text("ph_basis", "eluent s_w pH");
                 out.push_back(w);
@@ -866,6 +873,8 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
         }
         return out;
     }
+    if (!c.column)
+        return out;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];

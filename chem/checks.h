@@ -23,6 +23,7 @@
 
 #include <array>
 #include <functional>
+#include <map>
 #include <optional>
 #include <string>
 #include <utility>
@@ -95,6 +96,9 @@ struct SequenceCheckInput {
     std::array<std::optional<double>, max_lines> prepared_at_min{}; ///< from the sequence start
     std::optional<Detector> detector;
     std::optional<ColumnLimits> column;
+    /// A method's own column pH range (by method name; the app copies a library column into the
+    /// method): it replaces `column` in that method's column-ph check.
+    std::map<std::string, ColumnLimits> method_columns;
     /// One pressure trace per plan method (index as SequencePlan::methods), or none: no column
     /// dimensions given, or the method runs a line without a make-up.
     const std::vector<std::optional<PressureTrace>>* pressure = nullptr;

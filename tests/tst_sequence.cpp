@@ -497,6 +497,21 @@ void TestSequence::columnPhCheck() {
     QVERIFY2(ph > 2.5 - 0.005 && ph < 2.6, qPrintable(QString::number(ph)));
     QCOMPARE(warning(out, "column-ph")["t_min"].toDouble(), 0.0);
     QCOMPARE(warning(out, "column-ph")["ph_min"].toDouble(), 3.0);
+    // A method's own column (copied from the lab's columns) replaces the plan's range for it;
+    // one given for its dimensions only keeps the plan's.
+    const QJsonObject own = set_path(doc, "methods.m.column",
+                                     QJsonObject{{"name", "narrow"}, {"ph_min", 3}, {"ph_max", 8}});
+    const QJsonObject own_out = run_sequence(own);
+    QVERIFY(codes(own_out, "warning").contains("column-ph"));
+    QCOMPARE(warning(own_out, "column-ph")["ph_min"].toDouble(), 3.0);
+    QVERIFY(warning(own_out, "column-ph")["message"].toString().contains("method's column"));
+    const QJsonObject wide = set_path(set_path(doc, "column.ph_min", 3), "methods.m.column",
+                                      QJsonObject{{"ph_min", 2}, {"ph_max", 8}});
+    QVERIFY(!codes(run_sequence(wide)).contains("column-ph"));
+    const QJsonObject dims_only =
+        set_path(set_path(doc, "column.ph_min", 3), "methods.m.column",
+                 QJsonObject{{"length_mm", 150}, {"id_mm", 4.6}, {"particle_um", 3}});
+    QVERIFY(codes(run_sequence(dims_only), "warning").contains("column-ph"));
 }
 
 void TestSequence::shelfLifeCheck() {

@@ -686,6 +686,14 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     c.plan = &plan;
     c.detector = detector;
     c.column = column;
+    // A method's own column (methods.<name>.column) with a pH range replaces the plan's for it.
+    const QJsonObject methods_doc = doc.value("methods").toObject();
+    for (const chem::Method& m : in.methods) {
+        const QString name = QString::fromStdString(m.name);
+        if (auto own = column_from_json(methods_doc.value(name).toObject(),
+                                        json::path(json::path(root, "methods"), name)))
+            c.method_columns[m.name] = *own;
+    }
     c.clock = [&clock](double m) { return clock.text(m); };
     c.name_of = library_names(data);
     QJsonArray pressure_notes;
