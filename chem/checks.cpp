@@ -1120,13 +1120,15 @@ std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
                               " % v/v organic in the column (" + inlet + " entering it)";
     const std::string limit =
         fmt(tr.limit->bar, 0) + " bar limit of the " + limit_source_name(tr.limit->source);
+    // A one-method document (pressure, transfer) has no method name to give.
+    const std::string subject = method.empty() ? "The method" : "Method " + method;
     CheckWarning w =
         over ? make("pressure-limit", Sev::warning, "",
-                    "Method " + method + " " + where + ", above the " + limit +
+                    subject + " " + where + ", above the " + limit +
                         ": the pump would stop the sequence. Lower the flow, raise the column "
                         "temperature or use a column with larger particles.")
              : make("pressure-limit", Sev::caution, "",
-                    "Method " + method + " " + where + ", within 10 % of the " + limit +
+                    subject + " " + where + ", within 10 % of the " + limit +
                         ": a partly blocked frit or a colder room could trip it.");
     w.number("max_pressure_bar", tr.max_pressure_bar);
     w.number("limit_bar", tr.limit->bar);

@@ -131,7 +131,7 @@ std::vector<CheckWarning> check_pressure_limit(const SequenceCheckInput& c);
 /// The pressure-limit warning for one method's trace: "warning" when the peak passes the limit,
 /// "caution" when it comes within 10 % of it (≥ 90 %), none otherwise or without a limit. The
 /// numbers: max_pressure_bar, limit_bar, peak_t_min (into the injection), organic_fraction_v;
-/// texts: method, limited_by.
+/// texts: method, limited_by. An empty `method` (a one-method document) reads "The method".
 std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
                                                    const PressureTrace& trace);
 /// All of the above, in the order of the list at the top.

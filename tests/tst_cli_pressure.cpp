@@ -155,6 +155,18 @@ class TestCliPressure : public QObject {
         QCOMPARE(w["method"].toString(), QStringLiteral("m"));
         QVERIFY(w["peak_t_min"].isDouble() && w["organic_fraction_v"].isDouble());
         QVERIFY(w["first_peak_at"].toString().startsWith("2026-12-01T18:"));
+        QVERIFY2(w["message"].toString().startsWith("Method m peaks at"),
+                 qPrintable(w["message"].toString()));
+        // A one-method document (pressure) has no method name: "The method peaks at ...".
+        const QJsonObject one =
+            run_ok("pressure", QJsonObject{{"lines", doc["lines"]},
+                                           {"method", doc["methods"].toObject()["m"]},
+                                           {"column", column}});
+        QString one_message;
+        for (const auto& x : one["warnings"].toArray())
+            if (x.toObject()["code"] == QStringLiteral("pressure-limit"))
+                one_message = x.toObject()["message"].toString();
+        QVERIFY2(one_message.startsWith("The method peaks at"), qPrintable(one_message));
 
         column["max_pressure_bar"] = peak * 1.05;
         doc["column"] = column;

@@ -306,7 +306,7 @@ QJsonObject command_pressure(const AppData& data, const QJsonObject& input, cons
     }
     QJsonObject out = pressure_trace_to_json(t);
     QJsonArray warnings;
-    trace_notes(t, m.name, warnings);
+    trace_notes(t, "", warnings); // one method, no name of its own
     out["warnings"] = warnings;
     return out;
 }
@@ -375,7 +375,7 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
             rethrow_for_single_method(e, r.method.name);
         }
         out["pressure"] = pressure_trace_to_json(t);
-        trace_notes(t, r.method.name, warnings);
+        trace_notes(t, "", warnings);
     }
     out["warnings"] = warnings;
     return out;
