@@ -143,14 +143,17 @@ ApplicationWindow {
     }
 
     // The database cannot be saved to (read-only, locked) or had records set aside: said here.
-    footer: Label {
-        objectName: "storageBanner"
+    footer: Pane {
         visible: window.workspace.storageNotice.length > 0
-        text: window.workspace.storageNotice
-        wrapMode: Text.Wrap
         padding: Theme.gap
-        color: Theme.bad
         background: Rectangle { color: Theme.card; border.color: Theme.bad }
+        Label {
+            objectName: "storageBanner"
+            width: parent.width
+            text: window.workspace.storageNotice
+            wrapMode: Text.Wrap
+            color: Theme.bad
+        }
     }
 
     GridLayout {

@@ -112,9 +112,16 @@ QString Workspace::storageNotice() const {
 }
 
 void Workspace::saveFailed(const QString& what, const QString& message) {
+    // SQLite's words for the two usual causes, said as the bench would say them.
+    QString why = message;
+    const QString file = db_ ? db_->path() : database_path_;
+    if (message.contains(QLatin1String("disk is full")))
+        why = tr("the disk that holds %1 is full").arg(file);
+    else if (message.contains(QLatin1String("readonly")))
+        why = tr("%1 cannot be written to").arg(file);
     const QString text = tr("Could not save %1: %2. Your edits are still on screen; they are saved "
                             "again with the next change.")
-                             .arg(what, message);
+                             .arg(what, why);
     if (text == save_failure_)
         return;
     save_failure_ = text;
