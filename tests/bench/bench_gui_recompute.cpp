@@ -49,6 +49,11 @@ void BM_BufferDesignerEdit(benchmark::State& state) {
     // Its own buffer: the edit does not reach the plan.
     BufferDesigner d;
     d.setWorkspace(&f.ws);
+    d.newBuffer(); // a new saved buffer (pH 7 phosphate by default), not line A's pH 2.5 one
+    d.setRoute("mix");
+    d.setSystem("phosphate");
+    d.setAcid("sodium-dihydrogen-phosphate-monohydrate");
+    d.setBase("disodium-hydrogen-phosphate-heptahydrate");
     double ph = 6.8;
     for (auto _ : state) {
         ph = ph > 7.4 ? 6.8 : ph + 0.05;
