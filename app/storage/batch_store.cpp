@@ -21,24 +21,7 @@ namespace phaseplan::storage {
 
 namespace {
 
-QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {}) {
-    QSqlQuery q(db);
-    if (!q.prepare(sql))
-        throw chem::Error("database", "cannot prepare \"" + sql.left(60).toStdString() +
-                                          "\": " + q.lastError().text().toStdString());
-    for (int i = 0; i < bindings.size(); ++i) {
-        // A null QString would bind as SQL NULL; the text columns hold '' for "not set".
-        const QVariant& v = bindings[i];
-        if (v.typeId() == QMetaType::QString && v.toString().isNull())
-            q.bindValue(i, QString(""));
-        else
-            q.bindValue(i, v);
-    }
-    if (!q.exec())
-        throw chem::Error("database", "\"" + sql.left(60).toStdString() +
-                                          "\" failed: " + q.lastError().text().toStdString());
-    return q;
-}
+using sql::run; // one statement with positional bindings (sql_util.h)
 
 /// BEGIN IMMEDIATE … COMMIT (a savepoint inside an open transaction); rolled back when commit()
 /// did not run.
