@@ -368,8 +368,19 @@ class TestGuiColumns : public QObject {
         QVERIFY(plan.methodNames().contains(name));
         const QJsonObject added = plan.method(name);
         QCOMPARE(added.value("column").toObject().value("particle_um").toDouble(), 1.7);
+        // Added as a pump takes it: flow to 0.001 mL/min (0.613), times to 0.01 min (common
+        // practice, no source), so the method editor shows what is saved.
+        const double exact_flow = (2.1 * 2.1) / (4.6 * 4.6) * 5 / 1.7;
         QVERIFY(std::abs(added.value("flow_ml_min").toDouble() -
-                         (2.1 * 2.1) / (4.6 * 4.6) * 5 / 1.7) < 1e-9);
+                         std::round(exact_flow * 1000) / 1000) < 1e-12);
+        double previous = -1;
+        for (const QJsonValue& row : added.value("gradient").toArray()) {
+            const double t = row.toObject().value("t_min").toDouble();
+            QVERIFY2(std::abs(t * 100 - std::round(t * 100)) < 1e-6,
+                     qPrintable(QString::number(t)));
+            QVERIFY(t > previous);
+            previous = t;
+        }
         plan.recomputeNow();
         QVERIFY2(plan.valid(), qPrintable(plan.errorMessage()));
         QVERIFY(!move.addAsMethod(name).isEmpty()); // the name is taken now

@@ -91,6 +91,28 @@ class TestNumberText : public QObject {
         if (value > 0)
             QCOMPARE(phaseplan::gui::parse_decimal(s).value, std::round(value * 100) / 100);
     }
+
+    // A field never shows less than is saved: up to two more decimals when the value needs them
+    // (a flow of 0.515 mL/min from a method transfer showed as 0.51).
+    void shown_data() {
+        QTest::addColumn<QString>("locale");
+        QTest::addColumn<double>("value");
+        QTest::addColumn<int>("decimals");
+        QTest::addColumn<QString>("shown");
+        QTest::newRow("needs one more") << "C" << 0.515 << 2 << "0.515";
+        QTest::newRow("decimal comma") << "de_DE" << 0.515 << 2 << "0,515";
+        QTest::newRow("keeps its minimum") << "C" << 1.2 << 2 << "1.20";
+        QTest::newRow("float noise ignored") << "C" << 0.1 + 0.2 << 2 << "0.30";
+        QTest::newRow("at most two more") << "C" << 2.912345 << 1 << "2.912";
+        QTest::newRow("negative zero") << "C" << -0.0 << 2 << "0.00";
+    }
+    void shown() {
+        QFETCH(QString, locale);
+        QFETCH(double, value);
+        QFETCH(int, decimals);
+        QFETCH(QString, shown);
+        QCOMPARE(phaseplan::gui::format_shown(value, decimals, QLocale(locale)), shown);
+    }
 };
 
 QTEST_GUILESS_MAIN(TestNumberText)

@@ -7,6 +7,7 @@
 #include <QJsonArray>
 #include <QLocale>
 
+#include <algorithm>
 #include <cmath>
 #include <limits>
 
@@ -232,6 +233,40 @@ void ColumnTransfer::recompute() {
     emit resultChanged();
 }
 
+namespace {
+/// `v` to `step` (0.001 mL/min, 0.01 min): what a pump's method editor takes (common practice,
+/// no source), so the screens show what is saved.
+double to_step(double v, double step) {
+    return std::round(v / step) * step;
+}
+} // namespace
+
+QJsonObject ColumnTransfer::at_pump_resolution(const QJsonObject& method) {
+    QJsonObject m = method;
+    if (m.contains("flow_ml_min"))
+        m["flow_ml_min"] = to_step(m["flow_ml_min"].toDouble(), 0.001);
+    for (const char* key : {"run_min", "equilibration_min"})
+        if (m.contains(key))
+            m[key] = to_step(m[key].toDouble(), 0.01);
+    QJsonArray rows = m["gradient"].toArray();
+    double previous = -1;
+    for (int i = 0; i < rows.size(); ++i) {
+        QJsonObject row = rows[i].toObject();
+        const double t = row["t_min"].toDouble();
+        const double rounded = to_step(t, 0.01);
+        // Rows closer than the step keep their exact times: the table must stay ascending.
+        const double kept = rounded > previous ? rounded : t;
+        row["t_min"] = kept;
+        previous = kept;
+        rows[i] = row;
+    }
+    if (m.contains("gradient"))
+        m["gradient"] = rows;
+    if (m.contains("run_min") && !rows.isEmpty())
+        m["run_min"] = std::max(m["run_min"].toDouble(), previous);
+    return m;
+}
+
 QString ColumnTransfer::addAsMethod(const QString& name) {
     const QString n = name.trimmed();
     if (!plan_ || !valid_ || scaled_.isEmpty())
@@ -240,7 +275,7 @@ QString ColumnTransfer::addAsMethod(const QString& name) {
         return tr("The new method needs a name.");
     if (plan_->methodNames().contains(n))
         return tr("A method is already called “%1”: pick another name.").arg(n);
-    plan_->setMethod(n, scaled_);
+    plan_->setMethod(n, at_pump_resolution(scaled_));
     return {};
 }
 

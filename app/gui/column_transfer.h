@@ -71,6 +71,9 @@ class ColumnTransfer : public QObject {
     /// Adds the scaled method to the plan as `name`; returns "" or why not (no name, taken,
     /// nothing to add).
     Q_INVOKABLE QString addAsMethod(const QString& name);
+    /// The scaled method as a pump takes it: flow to 0.001 mL/min, times to 0.01 min (rows
+    /// closer than that keep their exact times, so the table stays ascending).
+    static QJsonObject at_pump_resolution(const QJsonObject& method);
     Q_INVOKABLE void recompute();
 
   signals:

@@ -2,6 +2,7 @@
 
 #include <QRegularExpression>
 
+#include <algorithm>
 #include <cmath>
 
 namespace phaseplan::gui {
@@ -109,6 +110,20 @@ QString format_decimal(double value, int decimals, const QLocale& locale) {
     if (negative_zero.match(s).hasMatch())
         s.remove(0, 1);
     return s;
+}
+
+QString format_shown(double value, int decimals, const QLocale& locale) {
+    int d = std::max(0, decimals);
+    if (std::isfinite(value)) {
+        const double tolerance = 1e-9 * std::max(1.0, std::abs(value));
+        while (d < std::max(0, decimals) + 2) {
+            const double scale = std::pow(10.0, d);
+            if (std::abs(std::round(value * scale) / scale - value) <= tolerance)
+                break;
+            ++d;
+        }
+    }
+    return format_decimal(value, d, locale);
 }
 
 QVariantMap NumberText::parse(const QString& text, bool whole, const QString& label) const {

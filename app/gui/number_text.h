@@ -41,6 +41,10 @@ QString parse_message(const ParsedNumber& parsed, const QString& label, const QS
 /// `value` with `decimals` decimals and the locale's decimal mark, never a group separator
 /// ("1234,50" in de_DE, "1234.50" in en_US).
 QString format_decimal(double value, int decimals, const QLocale& locale = QLocale());
+/// As format_decimal with at least `decimals` decimals, and up to two more when the value needs
+/// them to be shown as held (0.515 with 2 decimals is "0.515", not "0.51"; 1.2 is "1.20"): a field
+/// never shows less than what is saved, to 1e-9 relative.
+QString format_shown(double value, int decimals, const QLocale& locale = QLocale());
 
 class NumberText : public QObject {
     Q_OBJECT
@@ -56,6 +60,9 @@ class NumberText : public QObject {
     Q_INVOKABLE QString format(double value, int decimals) const;
     Q_INVOKABLE QString formatIn(double value, int decimals, const QLocale& locale) const {
         return format_decimal(value, decimals, locale);
+    }
+    Q_INVOKABLE QString shownIn(double value, int decimals, const QLocale& locale) const {
+        return format_shown(value, decimals, locale);
     }
 };
 

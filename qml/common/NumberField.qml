@@ -51,7 +51,8 @@ ColumnLayout {
     function formatted(v) {
         if (root.optional && isNaN(v))
             return ""
-        return NumberText.formatIn(v, root.integer ? 0 : root.decimals, root.locale)
+        return root.integer ? NumberText.formatIn(v, 0, root.locale)
+                            : NumberText.shownIn(v, root.decimals, root.locale)
     }
     /// {ok, value, message} for `text`: NaN for an empty optional field.
     function checked(text) {

@@ -20,7 +20,7 @@ TextField {
 
     signal edited(real value)
 
-    function formatted(v) { return NumberText.formatIn(v, root.decimals, root.locale) }
+    function formatted(v) { return NumberText.shownIn(v, root.decimals, root.locale) }
 
     property Item pendingHolder: null
     onPendingChanged: {
