@@ -122,7 +122,7 @@ Card {
             labelsColor: Theme.text
             gridLineColor: Theme.line
             labelsFont.pixelSize: Theme.smallFont
-            labelFormat: "%.0f"
+            labelFormat: max < 6 ? "%.1f" : "%.0f"
             titleText: qsTr("min")
             titleBrush: Theme.text
         }
@@ -158,7 +158,7 @@ Card {
             labelsColor: Theme.text
             gridLineColor: Theme.line
             labelsFont.pixelSize: Theme.smallFont
-            labelFormat: "%.0f"
+            labelFormat: max < 6 ? "%.1f" : "%.0f"
             titleText: qsTr("min")
             titleBrush: Theme.text
         }

@@ -45,7 +45,9 @@ ChartView {
         labelsFont.pixelSize: Theme.smallFont
         titleText: qsTr("min")
         titleBrush: Theme.text
-        labelFormat: "%.0f"
+        // A short method (a few minutes, as after a move to a smaller column) needs tenths, or
+        // ticks at 0.5 and 1.0 both read "1".
+        labelFormat: max < 6 ? "%.1f" : "%.0f"
     }
     ValueAxis {
         id: py
