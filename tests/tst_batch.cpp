@@ -1,6 +1,7 @@
 // Batches: actual amounts against the recipe (tolerance flags with their numbers), the solution
 // as made and its pH recomputed from the actual amounts, times and shelf life, and the batch
 // record in SQLite (every change in the history, a printed batch refuses silent edits).
+#include "batch_test_db.h"
 #include "chem/batch.h"
 #include "chem/batch_correction.h"
 #include "chem/error.h"
@@ -410,23 +411,7 @@ void TestBatch::expiryFromShelfLife() {
 // ---- the record in SQLite -----------------------------------------------------------------------
 
 namespace {
-struct TempDb {
-    QTemporaryDir dir;
-    QString name = QStringLiteral("tst_batch_%1").arg(reinterpret_cast<quintptr>(this));
-    QSqlDatabase db;
-    TempDb() {
-        db = QSqlDatabase::addDatabase("QSQLITE", name);
-        db.setDatabaseName(dir.filePath("batches.sqlite"));
-        if (!db.open())
-            qFatal("cannot open the test database");
-        BatchStore::ensure_schema(db);
-    }
-    ~TempDb() {
-        db.close();
-        db = QSqlDatabase();
-        QSqlDatabase::removeDatabase(name);
-    }
-};
+using TempDb = phaseplan::testing::TempBatchDb;
 
 BatchRecord demo_record() {
     QJsonObject in = demo_input();

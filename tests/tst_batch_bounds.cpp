@@ -4,6 +4,7 @@
 // unchanged, the list and the history are cut to the newest max_record_array_items entries, and
 // each history text to max_record_text_chars (app/storage/database.h). The limits are the
 // project's own (common practice, no source).
+#include "batch_test_db.h"
 #include "chem/error.h"
 #include "core/batch_document.h"
 #include "storage/batch_store.h"
@@ -21,29 +22,7 @@ using phaseplan::storage::BatchStore;
 namespace storage = phaseplan::storage;
 
 namespace {
-struct TempDb {
-    QTemporaryDir dir;
-    QString name = QStringLiteral("tst_batch_bounds_%1").arg(reinterpret_cast<quintptr>(this));
-    QSqlDatabase db;
-    TempDb() {
-        db = QSqlDatabase::addDatabase("QSQLITE", name);
-        db.setDatabaseName(dir.filePath("batches.sqlite"));
-        if (!db.open())
-            qFatal("cannot open the test database");
-        BatchStore::ensure_schema(db);
-    }
-    ~TempDb() {
-        db.close();
-        db = QSqlDatabase();
-        QSqlDatabase::removeDatabase(name);
-    }
-    /// What another program could do: drop the guards and write rows directly.
-    void exec(const QString& sql) {
-        QSqlQuery q(db);
-        if (!q.exec(sql))
-            qFatal("%s", qPrintable(sql));
-    }
-};
+using TempDb = phaseplan::testing::TempBatchDb;
 
 BatchRecord demo_record(const QString& id) {
     QFile f(QStringLiteral(SOURCE_DIR "/data/demo/batch-line-a-buffer.json"));
