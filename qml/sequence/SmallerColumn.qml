@@ -35,6 +35,11 @@ Card {
     property string status
 
     function num(v, d) { return NumberText.format(v, d) }
+    /// "+37", "−31" or "0": a true minus sign, the sign taken after rounding to whole percent.
+    function signedPercent(fraction) {
+        var p = Math.round(100 * fraction)
+        return (p > 0 ? "+" : p < 0 ? "−" : "") + root.num(Math.abs(p), 0)
+    }
     function applyTarget() {
         if (root.targetChoice === "typed") {
             var t = { length_mm: root.typed.length_mm, id_mm: root.typed.id_mm, particle_um: root.typed.particle_um }
@@ -260,7 +265,7 @@ Card {
             font.pixelSize: Theme.smallFont
             color: root.r.withinAllowed ? Theme.text : Theme.warn
             text: qsTr("Length over particle size changes by %1 %: %2")
-                  .arg((root.r.lOverDpChange >= 0 ? "+" : "") + root.num(100 * root.r.lOverDpChange, 0))
+                  .arg(root.signedPercent(root.r.lOverDpChange))
                   .arg(root.r.withinAllowed ? qsTr("within the allowed −25 % to +50 % (USP <621>)")
                                             : qsTr("outside the allowed −25 % to +50 % (USP <621>): the method would need revalidation"))
         }
