@@ -154,27 +154,30 @@ void AccountStore::require_administrator(const QString& actor) const {
                                     ": only an administrator manages accounts");
 }
 
-void AccountStore::add(const QString& login_in, const QString& display_name_in, Role role,
-                       const QString& password, const QString& actor) {
-    const QString login = login_in.trimmed();
+namespace {
+/// The login's rules (check_login) and a display name of 1 to 200 characters, both trimmed.
+void check_account_fields(const QString& login, const QString& display_name_in) {
+    check_login(login.trimmed());
     const QString display_name = display_name_in.trimmed();
-    check_login(login);
     if (display_name.isEmpty())
         throw chem::Error("name", "is required: the name shown beside each signature");
     if (display_name.size() > 200)
         throw chem::Error("name", "has more than 200 characters");
-    add_with_hash(login, display_name, role, hash_password(password), actor);
+}
+} // namespace
+
+void AccountStore::add(const QString& login_in, const QString& display_name_in, Role role,
+                       const QString& password, const QString& actor) {
+    // The fields are checked before the (slow) hash is made; add_with_hash checks them again.
+    check_account_fields(login_in, display_name_in);
+    add_with_hash(login_in, display_name_in, role, hash_password(password), actor);
 }
 
 void AccountStore::add_with_hash(const QString& login_in, const QString& display_name_in, Role role,
                                  const QString& hash, const QString& actor) {
     const QString login = login_in.trimmed();
     const QString display_name = display_name_in.trimmed();
-    check_login(login);
-    if (display_name.isEmpty())
-        throw chem::Error("name", "is required: the name shown beside each signature");
-    if (display_name.size() > 200)
-        throw chem::Error("name", "has more than 200 characters");
+    check_account_fields(login, display_name);
     if (!hash.startsWith(QLatin1String("$argon2id$")) || hash.size() >= crypto_pwhash_STRBYTES)
         throw chem::Error("password", "the stored hash is not an Argon2id string");
     sql::WriteTransaction tx(db_);
