@@ -69,10 +69,25 @@ ApplicationWindow {
         // Hidden cards are brought up to date when the screen shows, not on every edit.
         viewsActive: window.screenKeys[window.currentScreen] === "lines"
     }
+    Session {
+        id: session
+        objectName: "session"
+        workspace: window.workspace
+    }
     BatchModel {
         id: batchModel
         objectName: "batch"
         workspace: window.workspace
+        signInRequired: session.accountsExist
+        signedInLogin: session.canRecord ? session.login : ""
+    }
+    // "Prepared by" of a new batch is the person signed in.
+    Connections {
+        target: session
+        function onChanged() {
+            if (session.canRecord)
+                batchModel.preparer = session.displayName
+        }
     }
     ChecksModel {
         id: checksModel
@@ -236,6 +251,7 @@ ApplicationWindow {
             BatchScreen {
                 batch: batchModel
                 designer: designer
+                session: session
                 inPortrait: window.inPortrait
             }
         }

@@ -139,7 +139,30 @@ std::unique_ptr<storage::BatchStore> BatchModel::store() const {
     return std::make_unique<storage::BatchStore>(workspace_->database()->connection());
 }
 
+void BatchModel::setSignedInLogin(const QString& login) {
+    if (signed_in_login_ == login)
+        return;
+    signed_in_login_ = login;
+    emit preparerChanged();
+}
+
+void BatchModel::setSignInRequired(bool on) {
+    if (sign_in_required_ == on)
+        return;
+    sign_in_required_ = on;
+    emit preparerChanged();
+}
+
+FieldError BatchModel::session_gate() const {
+    if (sign_in_required_ && signed_in_login_.isEmpty())
+        return {QStringLiteral("session"),
+                tr("sign in first: the lab's record notes who made every change")};
+    return {};
+}
+
 QString BatchModel::who() const {
+    if (!signed_in_login_.isEmpty())
+        return signed_in_login_;
     if (!preparer_.trimmed().isEmpty())
         return preparer_.trimmed();
     return draft_ ? draft_->prepared_by : QString();
@@ -286,6 +309,8 @@ void BatchModel::reload(const QString& id) {
 }
 
 bool BatchModel::markPrepared(const QVariantMap& document) {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
     auto st = store();
     if (!st)
         return set_error({QStringLiteral("database"), tr("no database is open")}), false;
@@ -314,7 +339,7 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
         return set_error(e), false;
     e = guarded([&] {
         rec.expires_at = read_batch_document(workspace_->data(), rec.to_input()).expires_at;
-        st->create(rec, person);
+        st->create(rec, who());
     });
     if (!e.empty())
         return set_error(e), false;
@@ -370,6 +395,8 @@ void BatchModel::close() {
 }
 
 bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
     auto st = store();
     if (!st || !draft_)
         return set_error({QStringLiteral("batch"),
@@ -616,6 +643,8 @@ QJsonObject BatchModel::actual_entry(int row) const {
 
 bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord& next,
                                const QString& reason) {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
     auto st = store();
     if (!st || !draft_)
         return set_error({QStringLiteral("batch"),
@@ -794,6 +823,8 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
 }
 
 bool BatchModel::amend() {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
     auto st = store();
     if (!st || !draft_ || !pending_)
         return false;
@@ -826,6 +857,8 @@ QString BatchModel::defaultPath(const QString& what) const {
 }
 
 bool BatchModel::ready_to_print() {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
     if (!draft_)
         return set_error({QStringLiteral("batch"),
                           tr("no batch is open: mark a buffer as prepared first")}),

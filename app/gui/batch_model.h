@@ -47,6 +47,14 @@ class BatchModel : public QAbstractListModel {
                    workspaceChanged)
     /// Who is at the bench: prepared_by of a new batch and "who" of every history row.
     Q_PROPERTY(QString preparer READ preparer WRITE setPreparer NOTIFY preparerChanged)
+    /// The login of the person signed in (gui::Session; "" when nobody is, or the session is
+    /// locked). When set, every change is recorded under it instead of the preparer's name.
+    Q_PROPERTY(
+        QString signedInLogin READ signedInLogin WRITE setSignedInLogin NOTIFY preparerChanged)
+    /// The database has accounts: creating, changing, amending and printing a batch need
+    /// someone signed in (signedInLogin), else they fail with field "session".
+    Q_PROPERTY(
+        bool signInRequired READ signInRequired WRITE setSignInRequired NOTIFY preparerChanged)
     /// Prefix of proposed batch ids ("<prefix>-YYYYMMDD-NNN").
     Q_PROPERTY(QString idPrefix READ idPrefix WRITE setIdPrefix NOTIFY preparerChanged)
     /// Folder for saved PDFs: the last folder a PDF was saved in (kept in QSettings under
@@ -185,6 +193,10 @@ class BatchModel : public QAbstractListModel {
 
     Workspace* workspace() const { return workspace_; }
     void setWorkspace(Workspace* w);
+    QString signedInLogin() const { return signed_in_login_; }
+    void setSignedInLogin(const QString& login);
+    bool signInRequired() const { return sign_in_required_; }
+    void setSignInRequired(bool on);
     QString preparer() const { return preparer_; }
     void setPreparer(const QString& p);
     QString idPrefix() const { return id_prefix_; }
@@ -368,6 +380,10 @@ class BatchModel : public QAbstractListModel {
     int actual_index(const QString& reagent) const;
 
     QPointer<Workspace> workspace_;
+    QString signed_in_login_;
+    bool sign_in_required_ = false;
+    /// {"session", …} when a signed-in user is required and nobody is; empty otherwise.
+    FieldError session_gate() const;
     QPointer<QObject> output_object_;
     QString preparer_;
     QString id_prefix_ = QStringLiteral("B");

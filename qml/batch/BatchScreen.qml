@@ -13,6 +13,11 @@ ScreenPage {
     required property BatchModel batch
     /// The buffer designer whose recipe "Mark as prepared" takes.
     property BufferDesigner designer
+    /// Who is at the tablet (null: no sign-in, records by the name typed, as in the tests).
+    property Session session: null
+    /// With accounts in the database and nobody able to record (not signed in, locked, or the
+    /// administrator): only the session card shows.
+    readonly property bool gated: session !== null && session.accountsExist && !session.canRecord
 
     title: qsTr("Prepare & record")
 
@@ -90,10 +95,16 @@ ScreenPage {
         width: root.contentWidth
         spacing: Theme.margin
 
+        SessionCard {
+            Layout.fillWidth: true
+            visible: root.session !== null
+            session: root.session
+        }
+
         Label {
             objectName: "batchError"
             Layout.fillWidth: true
-            visible: root.otherError.length > 0
+            visible: root.otherError.length > 0 && !root.gated
             text: root.otherError
             color: Theme.bad
             wrapMode: Text.Wrap
@@ -104,7 +115,7 @@ ScreenPage {
         Card {
             objectName: "startCard"
             Layout.fillWidth: true
-            visible: !root.batch.active
+            visible: !root.batch.active && !root.gated
             title: qsTr("Start a batch")
             Label {
                 Layout.fillWidth: true
@@ -119,6 +130,8 @@ ScreenPage {
                 Layout.fillWidth: true
                 label: qsTr("Prepared by")
                 placeholder: qsTr("your name")
+                // Signed in: the account's name, not typed.
+                field.readOnly: root.session !== null && root.session.canRecord
                 value: root.batch.preparer
                 error: root.errorFor("batch.prepared_by")
                 onEdited: function(text) { root.batch.preparer = text }
@@ -156,13 +169,13 @@ ScreenPage {
         ToleranceCard {
             objectName: "toleranceCard"
             Layout.fillWidth: true
-            visible: root.batch.active && root.batch.outOfTolerance
+            visible: root.batch.active && root.batch.outOfTolerance && !root.gated
             batch: root.batch
         }
 
         GridLayout {
             Layout.fillWidth: true
-            visible: root.batch.active
+            visible: root.batch.active && !root.gated
             columns: root.inPortrait ? 1 : 2
             columnSpacing: Theme.margin
             rowSpacing: Theme.margin

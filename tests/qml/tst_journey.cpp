@@ -346,7 +346,21 @@ class TestJourney : public QObject {
     void aBatchWithOneWeighingOutOfItsBand() {
         open_screen("Prepare");
         QObject* batch = model("batch");
-        type_into(field("Prepared by"), "A. Analyst");
+        // The demo database has accounts: recording starts with signing in (issue 13). A wrong
+        // password is said under the password field; nothing of the batch shows until then.
+        QVERIFY(showsText("Sign in to record"));
+        QVERIFY(!named("markPreparedButton"));
+        type_into(field("Login"), "demo-prep");
+        type_into(field("Password"), "not-it", false);
+        QTest::keyClick(window_, Qt::Key_Return);
+        settle();
+        QVERIFY(showsText("wrong login or password"));
+        type_into(field("Password"), "demo-prep-2026", false);
+        QTest::keyClick(window_, Qt::Key_Return);
+        settle();
+        QVERIFY2(showsText("Rosa Okafor (demo-prep)"), "signed in as the demo preparer");
+        // "Prepared by" is the account's name.
+        QCOMPARE(field("Prepared by")->property("text").toString(), QString("Rosa Okafor"));
         click(named("markPreparedButton"));
         QVERIFY(batch->property("active").toBool());
         // The amounts as the balance read them: the first on target, the second 10 % over.
