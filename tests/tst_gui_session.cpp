@@ -124,6 +124,20 @@ class TestGuiSession : public QObject {
         QCOMPARE(other.idleMinutes(), 3);
         QVERIFY(other.signIn("demo-prep", "demo-prep-2026"));
         QCOMPARE(other.idleTimerIntervalMs(), 3 * 60 * 1000);
+        // Accounts: the administrator adds them, nobody else; the new person then signs in.
+        QVERIFY(
+            !other.addAccount("t.new", "Tam New", "reviewer", "tam-new-pass-1", "tam-new-pass-1"));
+        QCOMPARE(other.errorField(), QString("login"));
+        QVERIFY(!s.addAccount("t.new", "Tam New", "reviewer", "tam-new-pass-1", "tam-new-pass-2"));
+        QCOMPARE(s.errorField(), QString("repeat"));
+        QVERIFY(!s.addAccount("t.new", "  ", "reviewer", "tam-new-pass-1", "tam-new-pass-1"));
+        QCOMPARE(s.errorField(), QString("name"));
+        QVERIFY(!s.addAccount("t.new", "Tam New", "chemist", "tam-new-pass-1", "tam-new-pass-1"));
+        QCOMPARE(s.errorField(), QString("role"));
+        QVERIFY2(s.addAccount("t.new", "Tam New", "reviewer", "tam-new-pass-1", "tam-new-pass-1"),
+                 qPrintable(s.errorMessage()));
+        QVERIFY(other.signIn("t.new", "tam-new-pass-1"));
+        QCOMPARE(other.role(), QString("reviewer"));
     }
 
     void batchesAreRecordedUnderTheSignedInLogin() {

@@ -261,8 +261,11 @@ int run_app(QApplication& app) {
         QStringLiteral("keyboard"),
         QStringLiteral("On-screen keyboard on or off (kept for the next starts)."),
         QStringLiteral("on|off"));
+    QCommandLineOption no_demo_opt(
+        QStringLiteral("no-demo"),
+        QStringLiteral("A new database starts empty (no demo, no accounts): the lab's first run."));
     parser.addOptions({database_opt, data_opt, screenshot_opt, selftest_opt, measure_opt, dark_opt,
-                       keyboard_opt});
+                       keyboard_opt, no_demo_opt});
     parser.process(app);
     if (parser.isSet(dark_opt))
         QApplication::setPalette(dark_palette());
@@ -281,6 +284,7 @@ int run_app(QApplication& app) {
     Workspace workspace;
     workspace.setDatabasePath(db_path);
     workspace.setDataDir(parser.value(data_opt));
+    workspace.setSeedDemo(!parser.isSet(no_demo_opt));
     if (!workspace.open()) {
         std::fprintf(stderr, "phaseplan: %s\n", qPrintable(workspace.errorMessage()));
         return 2;

@@ -1,5 +1,7 @@
 // phaseplan: the Qt Quick app for the prep bench.
 //   phaseplan [--database FILE] [--data DIR]      run the app (first run opens the demo)
+//   phaseplan --no-demo [--database NEW_FILE]     a new database starts empty (the lab's first
+//                                                run: Prepare & record creates the administrator)
 //   phaseplan --screenshot DIR                   render every main screen in both orientations
 //                                                to DIR/<screen>-<orientation>.png and exit;
 //                                                status 1 on any QML warning or error

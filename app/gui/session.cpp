@@ -170,6 +170,24 @@ bool Session::createAdministrator(const QString& login, const QString& name,
     return signIn(login.trimmed(), password);
 }
 
+bool Session::addAccount(const QString& login, const QString& name, const QString& role,
+                         const QString& password, const QString& repeat) {
+    if (!signedIn() || locked_ || role_ != QLatin1String("administrator"))
+        return fail(QStringLiteral("login"),
+                    tr("only the administrator, signed in, adds accounts"));
+    if (password != repeat)
+        return fail(QStringLiteral("repeat"), tr("the two passwords differ"));
+    try {
+        storage::AccountStore(workspace_->database()->connection())
+            .add(login.trimmed(), name.trimmed(), storage::role_from_name(role), password, login_);
+    } catch (const chem::Error& e) {
+        return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    }
+    succeed();
+    emit accountAdded(login.trimmed());
+    return true;
+}
+
 bool Session::setIdleMinutes(int minutes) {
     if (!canRecord() && role_ != QLatin1String("administrator"))
         return fail(QStringLiteral("idle_minutes"), tr("sign in as the administrator first"));

@@ -76,6 +76,11 @@ class Session : public QObject {
     /// The lab's first administrator, only while the database has no accounts; signs them in.
     Q_INVOKABLE bool createAdministrator(const QString& login, const QString& name,
                                          const QString& password, const QString& repeat);
+    /// The administrator signed in adds an account ("preparer", "reviewer", "approver" or
+    /// "administrator"). False with errorField "login", "display_name", "role", "password" or
+    /// "repeat".
+    Q_INVOKABLE bool addAccount(const QString& login, const QString& name, const QString& role,
+                                const QString& password, const QString& repeat);
     /// An administrator sets the lab's idle time (minutes, 1–240).
     Q_INVOKABLE bool setIdleMinutes(int minutes);
 
@@ -90,6 +95,7 @@ class Session : public QObject {
     void workspaceChanged();
     void changed();
     void errorChanged();
+    void accountAdded(const QString& login);
 
   protected:
     bool eventFilter(QObject* watched, QEvent* event) override;

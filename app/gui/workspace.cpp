@@ -72,8 +72,10 @@ bool Workspace::open() {
             database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
         // The demo goes only into a new file, inside the transaction that creates it: an existing
         // file is never seeded again, whatever its settings say.
-        db_ = std::make_unique<storage::Database>(path, -1,
-                                                  [this](storage::Database& db) { seed_demo(db); });
+        db_ = std::make_unique<storage::Database>(path, -1, [this](storage::Database& db) {
+            if (seed_demo_on_)
+                seed_demo(db);
+        });
         first_run_ = db_->created();
         if (db_->writable())
             for (const char* file : shipped_library_files) {

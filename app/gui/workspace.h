@@ -49,6 +49,10 @@ class Workspace : public QObject, public QQmlParserStatus {
     void setDatabasePath(const QString& p);
     QString dataDir() const { return data_dir_; }
     void setDataDir(const QString& d);
+    /// A new database gets the demo (sequence, buffers, people, signed batch) unless this is
+    /// off (`phaseplan --no-demo`): then it starts empty, with no accounts, and Prepare & record
+    /// creates the lab's first administrator. An existing file is never seeded either way.
+    void setSeedDemo(bool on) { seed_demo_on_ = on; }
     bool ready() const { return db_ != nullptr; }
     QString errorMessage() const { return error_; }
     int libraryRevision() const { return library_revision_; }
@@ -114,6 +118,7 @@ class Workspace : public QObject, public QQmlParserStatus {
 
   private:
     void seed_demo(storage::Database& db) const;
+    bool seed_demo_on_ = true;
 
     QString database_path_;
     QString data_dir_;

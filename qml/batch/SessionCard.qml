@@ -141,6 +141,87 @@ Card {
             onClicked: root.session.signOut()
         }
     }
+    // The administrator adds the lab's people.
+    ColumnLayout {
+        id: addAccount
+        objectName: "addAccount"
+        Layout.fillWidth: true
+        visible: root.mode === "signedin" && root.session.role === "administrator" && !root.switching
+        spacing: Theme.gap
+        property string role: "preparer"
+        property string added: ""
+        Label {
+            Layout.fillWidth: true
+            text: qsTr("Add an account")
+            font.pixelSize: Theme.fontSize
+            font.bold: true
+        }
+        TextEntry {
+            id: newLogin
+            objectName: "newLogin"
+            Layout.fillWidth: true
+            label: qsTr("New login")
+            hints: Qt.ImhNoAutoUppercase | Qt.ImhNoPredictiveText
+            error: root.fieldError(["login"])
+        }
+        TextEntry {
+            id: newName
+            objectName: "newName"
+            Layout.fillWidth: true
+            label: qsTr("Name as printed on records")
+            error: root.fieldError(["display_name", "name"])
+        }
+        SegmentedChoice {
+            Layout.fillWidth: true
+            label: qsTr("Role")
+            options: [{id: "preparer", name: qsTr("Preparer")}, {id: "reviewer", name: qsTr("Reviewer")},
+                      {id: "approver", name: qsTr("Approver")}, {id: "administrator", name: qsTr("Administrator")}]
+            current: addAccount.role
+            onPicked: function(id) { addAccount.role = id }
+        }
+        TextEntry {
+            id: newPassword
+            objectName: "newPassword"
+            Layout.fillWidth: true
+            label: qsTr("First password")
+            hints: Qt.ImhHiddenText | Qt.ImhNoPredictiveText | Qt.ImhSensitiveData
+            field.echoMode: TextInput.Password
+            error: root.fieldError(["password"])
+        }
+        TextEntry {
+            id: newRepeat
+            objectName: "newRepeat"
+            Layout.fillWidth: true
+            label: qsTr("Password again")
+            hints: Qt.ImhHiddenText | Qt.ImhNoPredictiveText | Qt.ImhSensitiveData
+            field.echoMode: TextInput.Password
+            error: root.fieldError(["repeat"])
+        }
+        TouchButton {
+            objectName: "addAccountButton"
+            text: qsTr("Add the account")
+            onClicked: {
+                var ok = root.session.addAccount(newLogin.field.text, newName.field.text, addAccount.role,
+                                                 newPassword.field.text, newRepeat.field.text)
+                newPassword.field.text = ""
+                newRepeat.field.text = ""
+                addAccount.added = ok ? qsTr("Added %1 (%2) as %3.").arg(newName.field.text).arg(newLogin.field.text).arg(addAccount.role) : ""
+                if (ok) {
+                    newLogin.field.text = ""
+                    newName.field.text = ""
+                }
+            }
+        }
+        Label {
+            objectName: "accountAdded"
+            Layout.fillWidth: true
+            visible: addAccount.added.length > 0
+            text: addAccount.added
+            color: Theme.good
+            wrapMode: Text.Wrap
+            font.pixelSize: Theme.fontSize
+        }
+    }
     // The lab's idle time, set by the administrator.
     NumberField {
         objectName: "idleMinutes"
