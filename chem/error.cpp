@@ -6,6 +6,42 @@
 
 namespace chem {
 
+bool path_within(const std::string& path, const std::string& field) {
+    if (field.empty())
+        return true;
+    if (path.size() < field.size() || path.compare(0, field.size(), field) != 0)
+        return false;
+    return path.size() == field.size() || path[field.size()] == '.' || path[field.size()] == '[';
+}
+
+int Subscripted::index() const {
+    if (subscript.empty() || subscript.size() > 9)
+        return -1;
+    int v = 0;
+    for (char c : subscript) {
+        if (c < '0' || c > '9')
+            return -1;
+        v = v * 10 + (c - '0');
+    }
+    return v;
+}
+
+std::optional<Subscripted> subscript_of(const std::string& path, const std::string& list) {
+    if (path.size() < list.size() + 2 || path.compare(0, list.size(), list) != 0 ||
+        path[list.size()] != '[')
+        return std::nullopt;
+    const std::size_t close = path.find(']', list.size() + 1);
+    if (close == std::string::npos)
+        return std::nullopt;
+    Subscripted out;
+    out.subscript = path.substr(list.size() + 1, close - list.size() - 1);
+    std::size_t rest = close + 1;
+    if (rest < path.size() && path[rest] == '.')
+        ++rest;
+    out.rest = path.substr(rest);
+    return out;
+}
+
 void require_finite(double v, const std::string& field) {
     if (!std::isfinite(v))
         throw Error(field, "must be a finite number");

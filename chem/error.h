@@ -1,6 +1,7 @@
 #pragma once
 // The one error type of the chemistry core. Everything in chem/ that rejects an input throws
 // chem::Error; app/ catches it once at the Qt boundary and shows it beside the field it names.
+#include <optional>
 #include <stdexcept>
 #include <string>
 
@@ -29,6 +30,27 @@ class Error : public std::runtime_error {
     std::string field_;
     std::string message_;
 };
+
+// ---- field paths ------------------------------------------------------------------------------
+// An error's field is a path of the command-line contract: keys joined by dots, list entries in
+// brackets ("lines.A.parts[0].fraction_v", "batch.actual[2].mass_g"; the batch history writes
+// "actual[phosphoric-acid].lot", a reagent id in the brackets). These are the one reading of
+// that syntax: the app asks them instead of matching the text itself.
+
+/// Whether `path` is `field` or lies inside it: "lines.A.parts[0]" is within "lines.A" and
+/// within "lines.A.parts", not within "lines.AB".
+bool path_within(const std::string& path, const std::string& field);
+
+/// A path that starts with `list[...]`: what is in the brackets, and what follows them (without
+/// its leading '.'): "batch.actual[2].mass_g" under "batch.actual" is {"2", "mass_g"}.
+struct Subscripted {
+    std::string subscript;
+    std::string rest;
+    /// The subscript as a list index, or -1 when it is not a whole number.
+    int index() const;
+};
+/// nullopt when `path` does not start with `list[`…`]`.
+std::optional<Subscripted> subscript_of(const std::string& path, const std::string& list);
 
 /// Throws Error(field, "must be a finite number") for NaN or infinity.
 void require_finite(double v, const std::string& field);

@@ -248,17 +248,14 @@ chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& 
     try {
         return chem::evaluate_batch(lib, recipe, sub, shelf_h);
     } catch (const chem::Error& e) {
-        static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
-        const QString f = qs(e.field());
-        const auto m = re.match(f);
-        if (!m.hasMatch())
+        const auto at = chem::subscript_of(e.field(), "batch.actual");
+        const int k = at ? at->index() : -1;
+        if (k < 0)
             throw;
-        const int k = m.captured(1).toInt();
         const int original = k < int(indexes.size()) ? indexes[k] : k;
-        throw chem::Error(
-            ("batch.actual[" + QString::number(original) + "]" + f.mid(m.capturedLength()))
-                .toStdString(),
-            e.message());
+        throw chem::Error("batch.actual[" + std::to_string(original) + "]" +
+                              (at->rest.empty() ? "" : "." + at->rest),
+                          e.message());
     }
 }
 

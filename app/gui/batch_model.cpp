@@ -12,7 +12,6 @@
 #include <QDir>
 #include <QFileInfo>
 #include <QJsonArray>
-#include <QRegularExpression>
 #include <QSettings>
 #include <QStandardPaths>
 #include <QUrl>
@@ -553,17 +552,15 @@ bool BatchModel::recordDeviation(const QString& note_in) {
 }
 
 QString BatchModel::history_label(const QString& field) const {
-    static const QRegularExpression actual(
-        QStringLiteral("^actual\\[(.+)\\]\\.(mass_g|volume_ml|lot|capture)$"));
-    const auto m = actual.match(field);
-    if (m.hasMatch()) {
-        const QString name =
-            workspace_ ? part_display_name(workspace_->data(), m.captured(1).toStdString())
-                       : m.captured(1);
-        if (m.captured(2) == QLatin1String("capture"))
+    if (const auto a = chem::subscript_of(field.toStdString(), "actual");
+        a && !a->subscript.empty() &&
+        (a->rest == "mass_g" || a->rest == "volume_ml" || a->rest == "lot" ||
+         a->rest == "capture")) {
+        const QString name = workspace_ ? part_display_name(workspace_->data(), a->subscript)
+                                        : QString::fromStdString(a->subscript);
+        if (a->rest == "capture")
             return tr("Source of the actual amount of %1").arg(name);
-        return m.captured(2) == QLatin1String("lot") ? tr("Lot of %1").arg(name)
-                                                     : tr("Actual amount of %1").arg(name);
+        return a->rest == "lot" ? tr("Lot of %1").arg(name) : tr("Actual amount of %1").arg(name);
     }
     static const std::map<QString, const char*> labels = {
         {"document_kind", QT_TR_NOOP("Kind of document")},
@@ -689,9 +686,8 @@ bool BatchModel::applyCapture(const QVariantMap& c) {
         next.ph_meter_id = c.value("deviceId").toString();
         return apply(target, next);
     }
-    static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]\\.mass_g$"));
-    const auto m = re.match(target);
-    const int row = m.hasMatch() ? m.captured(1).toInt() : -1;
+    const auto at = chem::subscript_of(target.toStdString(), "batch.actual");
+    const int row = at && at->rest == "mass_g" ? at->index() : -1;
     if (row < 0 || row >= int(rows_.size()))
         return set_error({target, tr("no amount row for this reading")}), false;
     const Row& r = rows_[size_t(row)];
@@ -1039,11 +1035,10 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
     case CaptureTargetRole:
         return QStringLiteral("batch.actual[%1].mass_g").arg(idx.row());
     case ErrorRole: {
-        static const QRegularExpression re(QStringLiteral("^batch\\.actual\\[(\\d+)\\]"));
-        const auto m = re.match(error_.field);
-        if (!m.hasMatch() || !draft_)
+        const auto at = chem::subscript_of(error_.field.toStdString(), "batch.actual");
+        const int i = at ? at->index() : -1;
+        if (i < 0 || !draft_)
             return QString();
-        const int i = m.captured(1).toInt();
         if (i < draft_->actual.size() &&
             draft_->actual[i].toObject().value("reagent").toString() == r.reagent)
             return error_.message;

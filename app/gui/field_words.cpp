@@ -1,7 +1,8 @@
 #include "field_words.h"
 
+#include "chem/error.h"
+
 #include <QObject>
-#include <QRegularExpression>
 
 #include <map>
 
@@ -61,8 +62,7 @@ QString key_words(const QString& key) {
         {"methods", QT_TR_NOOP("Methods")},
         {"sequence", QT_TR_NOOP("Sequence")},
     };
-    static const QRegularExpression letter(QStringLiteral("^[A-D]$"));
-    if (letter.match(key).hasMatch())
+    if (key.size() == 1 && key[0] >= QLatin1Char('A') && key[0] <= QLatin1Char('D'))
         return QObject::tr("% %1").arg(key);
     auto it = words.find(key);
     if (it != words.end())
@@ -75,11 +75,14 @@ namespace {
 
 /// "parts[2]" → ("parts", 2); "parts" → ("parts", -1).
 std::pair<QString, int> split_index(const QString& seg) {
-    static const QRegularExpression re(QStringLiteral("^([^\\[]*)\\[(\\d+)\\]$"));
-    const auto m = re.match(seg);
-    if (!m.hasMatch())
+    const int open = seg.indexOf(QLatin1Char('['));
+    if (open < 0)
         return {seg, -1};
-    return {m.captured(1), m.captured(2).toInt()};
+    const QString key = seg.left(open);
+    const auto s = chem::subscript_of(seg.toStdString(), key.toStdString());
+    if (!s || !s->rest.empty() || s->index() < 0)
+        return {seg, -1};
+    return {key, s->index()};
 }
 
 QString indexed(const QString& key, int i) {

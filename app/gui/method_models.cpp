@@ -1,10 +1,10 @@
 #include "method_models.h"
 
+#include "chem/error.h"
 #include "field_words.h"
 #include "plan.h"
 
 #include <QJsonArray>
-#include <QRegularExpression>
 
 #include <cmath>
 #include <functional>
@@ -287,13 +287,12 @@ void GradientModel::update_error() {
     if (plan_ && !methodName().isEmpty()) {
         const QString prefix = QStringLiteral("methods.") + methodName();
         const QString f = plan_->errorField();
-        if (f == prefix || f.startsWith(prefix + '.')) {
+        if (chem::path_within(f.toStdString(), prefix.toStdString()) &&
+            !f.startsWith(prefix + '[')) {
             field = f.mid(prefix.size() + 1);
             message = plan_->errorMessage();
-            static const QRegularExpression row_re(QStringLiteral("^gradient\\[(\\d+)\\]"));
-            const auto m = row_re.match(field);
-            if (m.hasMatch())
-                row = m.captured(1).toInt();
+            if (const auto g = chem::subscript_of(field.toStdString(), "gradient"))
+                row = g->index();
         }
     }
     if (field == error_field_ && message == error_message_ && row == error_row_)

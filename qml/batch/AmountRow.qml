@@ -35,7 +35,7 @@ Rectangle {
     readonly property bool captured: root.capture !== undefined && root.capture.device_id !== undefined
     /// The instrument's fault for this row (the field keeps its value), "" when none.
     readonly property string captureError: root.instruments && !root.instruments.busy
-                                           && root.instruments.errorField === root.captureTarget
+                                           && FieldPath.belongs(root.instruments.errorField, root.captureTarget)
                                            ? root.instruments.errorMessage : ""
     property bool narrow: false
 

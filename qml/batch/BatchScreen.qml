@@ -23,7 +23,7 @@ ScreenPage {
 
     /// The model's message when it names `field`, else "".
     function errorFor(field) {
-        return root.batch.errorField === field ? root.batch.errorMessage : ""
+        return FieldPath.belongs(root.batch.errorField, field) ? root.batch.errorMessage : ""
     }
     readonly property var fieldsShownInline: ["batch.prepared_by", "batch.prepared_at", "batch.expires_at",
                                               "batch.checked_by", "batch.tolerance_percent", "reason",
@@ -31,8 +31,8 @@ ScreenPage {
                                               "batch.balance_id", "batch.comment", "batch.container_ml",
                                               "batch.deviation.note", "output", "path", "printer"]
     readonly property string otherError: root.batch.errorMessage.length > 0
-                                         && fieldsShownInline.indexOf(root.batch.errorField) < 0
-                                         && root.batch.errorField.indexOf("batch.actual[") !== 0
+                                         && !FieldPath.belongsToAny(root.batch.errorField, fieldsShownInline)
+                                         && !FieldPath.belongs(root.batch.errorField, "batch.actual")
                                          ? root.batch.errorMessage : ""
     /// "2026-12-01T16:30:00" → "2026-12-01 16:30", as the sheet prints it; "–" when empty.
     function dateWords(iso) {

@@ -17,7 +17,7 @@ Card {
     readonly property bool phCaptured: root.batch.measuredPhCapture.device_id !== undefined
     /// The meter's fault for the pH field (it keeps its value), "" when none.
     readonly property string captureError: root.instruments && !root.instruments.busy
-                                           && root.instruments.errorField === "batch.measured_ph"
+                                           && FieldPath.belongs(root.instruments.errorField, "batch.measured_ph")
                                            ? root.instruments.errorMessage : ""
     /// [{id, name}] for a picker: "PHM-01 — Bench pH meter …".
     function choicesOf(list) {
@@ -34,7 +34,7 @@ Card {
     }
     /// The model's message when it names `field`, else "".
     function errorFor(field) {
-        return root.batch.errorField === field ? root.batch.errorMessage : ""
+        return FieldPath.belongs(root.batch.errorField, field) ? root.batch.errorMessage : ""
     }
 
     title: qsTr("Measured at the bench")

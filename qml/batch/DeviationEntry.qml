@@ -20,7 +20,7 @@ ColumnLayout {
         Layout.fillWidth: true
         label: qsTr("Deviation note (required before printing or use)")
         placeholder: qsTr("why the batch is used as it is, or what was done")
-        error: root.batch.errorField === "batch.deviation.note" ? root.batch.errorMessage : ""
+        error: FieldPath.belongs(root.batch.errorField, "batch.deviation.note") ? root.batch.errorMessage : ""
     }
     TouchButton {
         objectName: "recordDeviationButton"

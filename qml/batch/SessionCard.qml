@@ -18,7 +18,7 @@ Card {
     property bool switching: false
 
     function fieldError(names) {
-        return names.indexOf(root.session.errorField) >= 0 ? root.session.errorMessage : ""
+        return FieldPath.belongsToAny(root.session.errorField, names) ? root.session.errorMessage : ""
     }
     function clearPasswords() {
         passwordEntry.field.text = ""

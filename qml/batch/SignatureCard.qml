@@ -20,7 +20,7 @@ Card {
         return n
     }
     function fieldError(names) {
-        return names.indexOf(root.batch.errorField) >= 0 ? root.batch.errorMessage : ""
+        return FieldPath.belongsToAny(root.batch.errorField, names) ? root.batch.errorMessage : ""
     }
 
     title: qsTr("Signed by")

@@ -13,7 +13,7 @@ ColumnLayout {
     spacing: Theme.margin
 
     function errorFor(field) {
-        return root.designer.errorField === field ? root.designer.errorMessage : ""
+        return FieldPath.belongs(root.designer.errorField, field) ? root.designer.errorMessage : ""
     }
 
     NameDialog {

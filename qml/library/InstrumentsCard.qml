@@ -25,7 +25,7 @@ Card {
     property string status
     /// The core's message for `field`, led by the field's label as the form shows it.
     function errorFor(field, label) {
-        return capture.errorField === field ? label + ": " + capture.errorMessage : ""
+        return FieldPath.belongs(capture.errorField, field) ? label + ": " + capture.errorMessage : ""
     }
     function edit(device) {
         root.status = ""

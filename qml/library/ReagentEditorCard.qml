@@ -13,10 +13,10 @@ Card {
     property string status
 
     function errorFor(field) {
-        return root.editor.errorField === field ? root.editor.errorMessage : ""
+        return FieldPath.belongs(root.editor.errorField, field) ? root.editor.errorMessage : ""
     }
     function errorUnder(prefix) {
-        return root.editor.errorField.indexOf(prefix) === 0 ? root.editor.errorMessage : ""
+        return FieldPath.belongs(root.editor.errorField, prefix) ? root.editor.errorMessage : ""
     }
 
     title: root.editor.isLabEntry ? qsTr("Lab entry") : root.editor.editingShipped ? qsTr("Correct a shipped entry") : qsTr("New lab reagent")
@@ -194,9 +194,9 @@ Card {
     }
     Label {
         Layout.fillWidth: true
-        visible: root.editor.showErrors && !root.editor.valid && ["id", "name", "formula", "assay_percent", "density_g_per_ml", "ghs.hazards",
-                                        "ghs.pictograms", "source"].indexOf(root.editor.errorField) < 0
-                 && root.editor.errorField.indexOf("spectators") !== 0 && root.editor.errorField.indexOf("systems") !== 0
+        visible: root.editor.showErrors && !root.editor.valid
+                 && !FieldPath.belongsToAny(root.editor.errorField, ["id", "name", "formula", "assay_percent", "density_g_per_ml",
+                                                                     "ghs.hazards", "ghs.pictograms", "source", "spectators", "systems"])
         text: (root.editor.errorField.length > 0 ? root.editor.errorField + ": " : "") + root.editor.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap

@@ -46,7 +46,7 @@ Card {
     signal editBuffer(string name)
 
     function errorFor(field) {
-        return root.errorField === field ? root.errorMessage : ""
+        return FieldPath.belongs(root.errorField, field) ? root.errorMessage : ""
     }
 
     title: qsTr("Line %1").arg(root.letter)

@@ -151,7 +151,7 @@ Card {
             step: 0.05
             decimals: 2
             from: 0
-            error: gradientModel.errorField === "flow_ml_min" ? gradientModel.errorMessage : ""
+            error: FieldPath.belongs(gradientModel.errorField, "flow_ml_min") ? gradientModel.errorMessage : ""
             onEdited: function(v) { gradientModel.flowMlMin = v }
         }
         NumberField {
@@ -164,7 +164,7 @@ Card {
             step: 1
             decimals: 1
             from: 0
-            error: gradientModel.errorField === "run_min" ? gradientModel.errorMessage : ""
+            error: FieldPath.belongs(gradientModel.errorField, "run_min") ? gradientModel.errorMessage : ""
             onEdited: function(v) { gradientModel.runMin = v }
         }
         NumberField {
@@ -177,7 +177,7 @@ Card {
             step: 1
             decimals: 1
             from: 0
-            error: gradientModel.errorField === "equilibration_min" ? gradientModel.errorMessage : ""
+            error: FieldPath.belongs(gradientModel.errorField, "equilibration_min") ? gradientModel.errorMessage : ""
             onEdited: function(v) { gradientModel.equilibrationMin = v }
         }
     }

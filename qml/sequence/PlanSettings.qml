@@ -10,7 +10,7 @@ Card {
     required property Plan plan
 
     function errorFor(field) {
-        return root.plan.errorField === field || root.plan.errorField.indexOf(field + ".") === 0 ? root.plan.errorMessage : ""
+        return FieldPath.belongs(root.plan.errorField, field) ? root.plan.errorMessage : ""
     }
 
     title: qsTr("Instrument and night")
