@@ -43,7 +43,7 @@ template <class F> QString error_field(F&& f) {
     return {};
 }
 
-QSqlQuery sql(QSqlDatabase db, const QString& text, const QVariantList& bindings = {}) {
+QSqlQuery raw_sql(QSqlDatabase db, const QString& text, const QVariantList& bindings = {}) {
     QSqlQuery q(db);
     if (!q.prepare(text))
         qFatal("prepare %s: %s", qPrintable(text), qPrintable(q.lastError().text()));
@@ -58,7 +58,7 @@ QSqlQuery sql(QSqlDatabase db, const QString& text, const QVariantList& bindings
 void drop_guards(QSqlDatabase db) {
     for (const char* t : {"audit_log_no_update", "audit_log_no_delete", "audit_anchor_no_delete",
                           "audit_anchor_steps"})
-        sql(db, QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
+        raw_sql(db, QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
 }
 
 QJsonObject demo_input() {
@@ -192,7 +192,8 @@ class TestAudit : public QObject {
         // The last unlocked administrator is not locked by hand (nobody could unlock it).
         QCOMPARE(error_field([&] { a.set_locked("boss", true, "boss"); }), QString("login"));
         // The hash is stored, never the password.
-        QSqlQuery h = sql(db.connection(), "SELECT password_hash FROM users WHERE login = 'p1'");
+        QSqlQuery h =
+            raw_sql(db.connection(), "SELECT password_hash FROM users WHERE login = 'p1'");
         QVERIFY(h.next());
         QVERIFY(h.value(0).toString().startsWith("$argon2id$"));
         QVERIFY(!h.value(0).toString().contains("long-enough"));
@@ -349,14 +350,14 @@ class TestAudit : public QObject {
                     QString changed = v;
                     changed[i] =
                         changed[i] == QLatin1Char('a') ? QLatin1Char('b') : QLatin1Char('a');
-                    sql(f.c(), "SAVEPOINT tamper");
-                    sql(f.c(),
-                        QStringLiteral("UPDATE audit_log SET %1 = ? WHERE seq = ?")
-                            .arg(QLatin1String(columns[c])),
-                        {changed, e.seq});
+                    raw_sql(f.c(), "SAVEPOINT tamper");
+                    raw_sql(f.c(),
+                            QStringLiteral("UPDATE audit_log SET %1 = ? WHERE seq = ?")
+                                .arg(QLatin1String(columns[c])),
+                            {changed, e.seq});
                     const AuditVerification r = verify_audit(f.c());
-                    sql(f.c(), "ROLLBACK TO tamper");
-                    sql(f.c(), "RELEASE tamper");
+                    raw_sql(f.c(), "ROLLBACK TO tamper");
+                    raw_sql(f.c(), "RELEASE tamper");
                     if (r.intact || r.first_bad_seq != e.seq)
                         QFAIL(qPrintable(QStringLiteral("%1 of entry %2, position %3: %4 at %5")
                                              .arg(QLatin1String(columns[c]))
@@ -368,11 +369,11 @@ class TestAudit : public QObject {
                 }
             }
             // The number itself.
-            sql(f.c(), "SAVEPOINT tamper");
-            sql(f.c(), "UPDATE audit_log SET seq = seq + 1000 WHERE seq = ?", {e.seq});
+            raw_sql(f.c(), "SAVEPOINT tamper");
+            raw_sql(f.c(), "UPDATE audit_log SET seq = seq + 1000 WHERE seq = ?", {e.seq});
             const AuditVerification r = verify_audit(f.c());
-            sql(f.c(), "ROLLBACK TO tamper");
-            sql(f.c(), "RELEASE tamper");
+            raw_sql(f.c(), "ROLLBACK TO tamper");
+            raw_sql(f.c(), "RELEASE tamper");
             QVERIFY(!r.intact);
             QCOMPARE(r.first_bad_seq, e.seq);
         }
@@ -386,11 +387,11 @@ class TestAudit : public QObject {
         drop_guards(f.c());
         const std::vector<AuditEntry> all = audit_entries(f.c());
         for (const AuditEntry& e : all) {
-            sql(f.c(), "SAVEPOINT tamper");
-            sql(f.c(), "DELETE FROM audit_log WHERE seq = ?", {e.seq});
+            raw_sql(f.c(), "SAVEPOINT tamper");
+            raw_sql(f.c(), "DELETE FROM audit_log WHERE seq = ?", {e.seq});
             const AuditVerification r = verify_audit(f.c());
-            sql(f.c(), "ROLLBACK TO tamper");
-            sql(f.c(), "RELEASE tamper");
+            raw_sql(f.c(), "ROLLBACK TO tamper");
+            raw_sql(f.c(), "RELEASE tamper");
             QVERIFY2(!r.intact, qPrintable(QString::number(e.seq)));
             QCOMPARE(r.first_bad_seq, e.seq);
             QVERIFY2(r.problem.contains("missing"), qPrintable(r.problem));
@@ -402,13 +403,13 @@ class TestAudit : public QObject {
     void reorderedOrInsertedEntryIsFound() {
         DemoFile f;
         drop_guards(f.c());
-        sql(f.c(), "SAVEPOINT tamper");
-        sql(f.c(), "UPDATE audit_log SET seq = 100000 WHERE seq = 3");
-        sql(f.c(), "UPDATE audit_log SET seq = 3 WHERE seq = 4");
-        sql(f.c(), "UPDATE audit_log SET seq = 4 WHERE seq = 100000");
+        raw_sql(f.c(), "SAVEPOINT tamper");
+        raw_sql(f.c(), "UPDATE audit_log SET seq = 100000 WHERE seq = 3");
+        raw_sql(f.c(), "UPDATE audit_log SET seq = 3 WHERE seq = 4");
+        raw_sql(f.c(), "UPDATE audit_log SET seq = 4 WHERE seq = 100000");
         AuditVerification r = verify_audit(f.c());
-        sql(f.c(), "ROLLBACK TO tamper");
-        sql(f.c(), "RELEASE tamper");
+        raw_sql(f.c(), "ROLLBACK TO tamper");
+        raw_sql(f.c(), "RELEASE tamper");
         QVERIFY(!r.intact);
         QCOMPARE(r.first_bad_seq, qint64(3));
         // A well-formed entry chained to the last one but written with raw SQL: the anchor was
@@ -424,7 +425,8 @@ class TestAudit : public QObject {
         forged.changes = "{}";
         forged.prev_hash = all.back().hash;
         forged.hash = audit_hash(forged);
-        sql(f.c(),
+        raw_sql(
+            f.c(),
             "INSERT INTO audit_log (seq, logged_at, login, action, record_type, record_id, reason,"
             " changes, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, '', ?, ?, ?)",
             {forged.seq, forged.logged_at, forged.login, forged.action, forged.record_type,
@@ -442,7 +444,7 @@ class TestAudit : public QObject {
         QVERIFY(verify_all(f.c()).intact);
         for (const char* t :
              {"signatures_no_update", "signatures_no_delete", "batches_changes_recorded"})
-            sql(f.c(), QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
+            raw_sql(f.c(), QStringLiteral("DROP TRIGGER %1").arg(QLatin1String(t)));
         const auto sigs = SignatureStore(f.c()).list(demo_batch_id());
         const qint64 reviewed_seq = sigs[1].audit_seq;
         struct Case {
@@ -470,20 +472,21 @@ class TestAudit : public QObject {
             {"comment added", "UPDATE batches SET comment = 'fine'", last_batch_entry},
         };
         for (const Case& c : cases) {
-            sql(f.c(), "SAVEPOINT tamper");
-            sql(f.c(), c.sql);
+            raw_sql(f.c(), "SAVEPOINT tamper");
+            raw_sql(f.c(), c.sql);
             const AuditVerification r = verify_all(f.c());
-            sql(f.c(), "ROLLBACK TO tamper");
-            sql(f.c(), "RELEASE tamper");
+            raw_sql(f.c(), "ROLLBACK TO tamper");
+            raw_sql(f.c(), "RELEASE tamper");
             QVERIFY2(!r.intact, c.what);
             QVERIFY2(r.first_bad_seq == c.seq, qPrintable(QString(c.what) + ": " + r.problem));
             QVERIFY(verify_audit(f.c()).intact); // the chain alone holds: only the records moved
         }
         // A signature forged into the table with no entry behind it.
-        sql(f.c(), "INSERT INTO signatures (id, batch_id, login, display_name, meaning, signed_at,"
-                   " revision, content_sha256, audit_seq) SELECT 3, batch_id, 'demo-approve', "
-                   "'Priya Haldane', 'approved', signed_at, revision, content_sha256, audit_seq - 1"
-                   " FROM signatures WHERE id = 2");
+        raw_sql(f.c(),
+                "INSERT INTO signatures (id, batch_id, login, display_name, meaning, signed_at,"
+                " revision, content_sha256, audit_seq) SELECT 3, batch_id, 'demo-approve', "
+                "'Priya Haldane', 'approved', signed_at, revision, content_sha256, audit_seq - 1"
+                " FROM signatures WHERE id = 2");
         const AuditVerification r = verify_all(f.c());
         QVERIFY(!r.intact);
         QCOMPARE(r.first_bad_seq, reviewed_seq - 1);
