@@ -447,9 +447,6 @@ CliOutput db_copy(const Options& o) {
         throw chem::Error("from", quoted(from) + "'s audit trail is broken at entry " +
                                       std::to_string(before.first_bad_seq) +
                                       ": run audit verify on it; nothing was copied");
-    if (!sql::is_postgresql_uri(to) && (QFileInfo::exists(to) || QFileInfo(to).isSymLink()))
-        throw chem::Error("to", quoted(to) + " exists: db copy writes only into a new file or an "
-                                             "empty lab database");
     Database target(to);
     if (!target.writable())
         throw chem::Error("to", target.read_only_reason().toStdString());

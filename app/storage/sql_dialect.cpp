@@ -106,6 +106,7 @@ QStringList drop_guard_statements(Dialect d, const QString& name, const QString&
     if (d == Dialect::sqlite)
         return {QStringLiteral("DROP TRIGGER %1").arg(name)};
     return {QStringLiteral("DROP TRIGGER %1 ON %2").arg(name, table),
+            QStringLiteral("DROP TRIGGER IF EXISTS %1_truncate ON %2").arg(name, table),
             QStringLiteral("DROP FUNCTION %1_guard()").arg(name)};
 }
 
