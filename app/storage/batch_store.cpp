@@ -735,7 +735,7 @@ std::vector<HistoryEntry> BatchStore::history(const QString& id) const {
         QStringLiteral("SELECT seq, batch_id, revision, at, substr(who, 1, %1), action,"
                        " substr(field, 1, %1), substr(old_value, 1, %1), substr(new_value, 1, %1),"
                        " substr(reason, 1, %1) FROM (SELECT * FROM batch_history WHERE batch_id = ?"
-                       " ORDER BY seq DESC LIMIT %2) ORDER BY seq")
+                       " ORDER BY seq DESC LIMIT %2) AS recent ORDER BY seq")
             .arg(QString::number(max_record_text_chars), QString::number(max_record_array_items)),
         {id});
     std::vector<HistoryEntry> out;

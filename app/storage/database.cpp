@@ -309,8 +309,6 @@ void Database::open_postgresql(int target_version, const Seed& seed) {
     const sql::PgLocation loc = sql::parse_postgresql_uri(path_);
     db_ = sql::open_postgresql(loc, connection_name_, false);
     try {
-        // Messages in English whatever the server's language; notices stay quiet.
-        exec(QStringLiteral("SET client_min_messages = warning"));
         // A database holding other tables and no PhasePlan schema is another program's.
         const qint64 app_id = sql::application_id(db_);
         if (app_id >= 0 && app_id != phaseplan_application_id && app_id != 0)

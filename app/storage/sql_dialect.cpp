@@ -316,8 +316,11 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
                         QStringLiteral("application_name=phaseplan")};
     if (!loc.sslmode.isEmpty())
         options << QStringLiteral("sslmode=") + loc.sslmode;
-    if (read_only)
-        options << QStringLiteral("options='-c default_transaction_read_only=on'");
+    // Server notices ("… does not exist, skipping") stay quiet; a read-only session for the
+    // commands that only read (audit verify and export).
+    options << (read_only ? QStringLiteral("options='-c client_min_messages=warning"
+                                           " -c default_transaction_read_only=on'")
+                          : QStringLiteral("options='-c client_min_messages=warning'"));
     db.setConnectOptions(options.join(QLatin1Char(';')));
     if (db.open())
         return db;
