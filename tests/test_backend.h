@@ -10,6 +10,7 @@
 #include <QAtomicInt>
 #include <QCoreApplication>
 #include <QDateTime>
+#include <QDir>
 #include <QSqlDatabase>
 #include <QSqlError>
 #include <QSqlQuery>
@@ -58,13 +59,15 @@ class TestDatabases {
         QSqlDatabase::removeDatabase(admin_name());
     }
 
-    /// Where a new, empty database is: `file_name` in a new folder inside the temporary one (the
-    /// file is made by Database), or the URI of a new PostgreSQL database.
+    /// Where a new, empty database is: `file_name` in a new folder inside the temporary one, or
+    /// the URI of a new PostgreSQL database.
     QString fresh(const QString& file_name = QStringLiteral("lab.sqlite")) {
         static QAtomicInt counter;
-        if (!on_postgresql()) // a folder of its own: the same name twice is two databases
-            return dir_.filePath(
-                QStringLiteral("%1/%2").arg(counter.fetchAndAddRelaxed(1)).arg(file_name));
+        if (!on_postgresql()) { // a folder of its own: the same name twice is two databases
+            const QString folder = dir_.filePath(QString::number(counter.fetchAndAddRelaxed(1)));
+            QDir().mkpath(folder);
+            return folder + QLatin1Char('/') + file_name;
+        }
         const QString name = QStringLiteral("tst_%1_%2_%3")
                                  .arg(QCoreApplication::applicationPid())
                                  .arg(QDateTime::currentMSecsSinceEpoch() % 100000000)
