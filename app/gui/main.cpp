@@ -1,5 +1,6 @@
 // phaseplan: the Qt Quick app for the prep bench.
-//   phaseplan [--database FILE] [--data DIR]      run the app (first run opens the demo)
+//   phaseplan [--database FILE|URI] [--data DIR]  run the app (first run opens the demo); URI:
+//                                                 postgresql://user@host:port/dbname
 //   phaseplan --screenshot DIR                   render every main screen in both orientations
 //                                                to DIR/<screen>-<orientation>.png and exit;
 //                                                status 1 on any QML warning or error
