@@ -20,6 +20,7 @@
 #include <QTemporaryDir>
 #include <QTest>
 #include <QThread>
+#include <QUrl>
 
 #include <cstdio>
 
@@ -635,6 +636,46 @@ class TestStorage : public QObject {
         }
         Database again(uri);
         QVERIFY(!again.created());
+    }
+
+    // Issue 13, part 8: what the real server says becomes one sentence naming where and what.
+    void postgresql_server_refusals_are_one_sentence() {
+        if (!phaseplan::testing::on_postgresql())
+            QSKIP("PostgreSQL only: needs the test cluster");
+        QUrl missing(fresh("unused"));
+        missing.setPath("/no_such_database_here");
+        try {
+            Database db(missing.toString());
+            QFAIL("a database that does not exist was opened");
+        } catch (const chem::Error& e) {
+            QVERIFY2(QString::fromStdString(e.message())
+                         .contains("has no database "
+                                   "\"no_such_database_here\""),
+                     e.what());
+        }
+        // A wrong password in the password file (libpq reads PGPASSFILE at each connection).
+        const QByteArray kept = qgetenv("PGPASSFILE");
+        const QByteArray kept_pw = qgetenv("PGPASSWORD");
+        QTemporaryDir dir;
+        QFile wrong(dir.filePath("pgpass"));
+        QVERIFY(wrong.open(QIODevice::WriteOnly));
+        wrong.write("*:*:*:*:not-the-password\n");
+        wrong.close();
+        wrong.setPermissions(QFileDevice::ReadOwner | QFileDevice::WriteOwner);
+        qputenv("PGPASSFILE", QFile::encodeName(wrong.fileName()));
+        qunsetenv("PGPASSWORD");
+        QString said;
+        try {
+            Database db(fresh("unused"));
+        } catch (const chem::Error& e) {
+            said = QString::fromStdString(e.what());
+        }
+        qputenv("PGPASSFILE", kept);
+        if (!kept_pw.isEmpty())
+            qputenv("PGPASSWORD", kept_pw);
+        QVERIFY2(said.contains("refused the password of user") && said.contains("~/.pgpass"),
+                 qPrintable(said));
+        QVERIFY2(!said.contains("not-the-password"), qPrintable(said));
     }
 
     void postgresql_refuses_newer_schema_and_foreign_database() {
