@@ -614,6 +614,49 @@ class TestAudit : public QObject {
 
         r = run_cli({"db", "copy", "--from", bench, "--to", lab});
         phaseplan::testing::verify_rejected(r, "to", "already holds records");
+
+        // A file whose column names were made to carry SQL: refused, and nothing written.
+        {
+            QSqlDatabase raw = QSqlDatabase::addDatabase("QSQLITE", "crafted");
+            raw.setDatabaseName(bench);
+            QVERIFY(raw.open());
+            QVERIFY(QSqlQuery(raw).exec(
+                "ALTER TABLE settings ADD COLUMN \"x) VALUES (1); DROP TABLE users; --\" TEXT"));
+            raw.close();
+        }
+        QSqlDatabase::removeDatabase("crafted");
+        const QString other = databases().fresh("other.sqlite");
+        r = run_cli({"db", "copy", "--from", bench, "--to", other});
+        phaseplan::testing::verify_rejected(r, "from", "PhasePlan's schema does not have");
+        Database target(other);
+        QVERIFY(AccountStore(target.connection()).list().empty());
+        QVERIFY(sql::table_exists(target.connection(), "users"));
+    }
+
+    // Issue 13, part 8: a batch id, a name and a reason holding quotes, ';' and '--' are data on
+    // this back end: stored, amended, signed and verified like any other.
+    void sqlTextInRecordsIsData() {
+        People p;
+        BatchStore batches(p.c());
+        QJsonObject in = demo_input();
+        QJsonObject b = in["batch"].toObject();
+        const QString id = "B'); DELETE FROM audit_log; --";
+        b["id"] = id;
+        b["comment"] = "it's \"fine\"; -- really";
+        in["batch"] = b;
+        batches.create(BatchRecord::from_input(in), "prep");
+        BatchRecord next = *batches.load(id);
+        QCOMPARE(next.comment, QString("it's \"fine\"; -- really"));
+        next.comment = "x' OR '1'='1";
+        QVERIFY(batches.amend(id, next, "prep", "'; DROP TABLE signatures; --"));
+        SignatureStore(p.c()).sign(id, "prep", "prep-password", "prepared");
+        QCOMPARE(batches.load(id)->comment, QString("x' OR '1'='1"));
+        const auto trail = audit_entries(p.c(), {"batch", id});
+        QCOMPARE(trail.size(), size_t(3));
+        QCOMPARE(trail[1].reason, QString("'; DROP TABLE signatures; --"));
+        const AuditVerification v = verify_all(p.c());
+        QVERIFY2(v.intact, qPrintable(v.problem));
+        QVERIFY(sql::table_exists(p.c(), "signatures"));
     }
 
     // Issue 13, part 1: the password is never on the command line, not even inside the address.

@@ -467,7 +467,15 @@ CliOutput db_copy(const Options& o) {
         Database::Transaction t(target);
         QSqlDatabase dst = target.connection();
         for (const char* table : copied_tables) {
+            // Column names come from the file, so only names the target's own schema has are
+            // written into the INSERT (never a name as the file spells it otherwise).
             const QStringList cols = sqlite_columns(source.db(), table);
+            for (const QString& c : cols)
+                if (!sql::column_exists(dst, QString::fromLatin1(table), c))
+                    throw chem::Error("from", quoted(from) + " has a column " + quoted(c) + " in " +
+                                                  table +
+                                                  " that PhasePlan's schema does not have; "
+                                                  "nothing was copied");
             QStringList marks;
             for (int i = 0; i < cols.size(); ++i)
                 marks << QStringLiteral("?");
