@@ -678,6 +678,30 @@ class TestStorage : public QObject {
         QVERIFY2(!said.contains("not-the-password"), qPrintable(said));
     }
 
+    // Issue 13, part 4: on PostgreSQL the time of a change comes from the server's clock, and is
+    // written in UTC whatever the session's time zone. Inside one transaction the server's now()
+    // stands still (PostgreSQL manual, "Current Date/Time": now() is the transaction's start),
+    // while the program's clock moves on.
+    void postgresql_times_come_from_the_server_in_utc() {
+        if (!phaseplan::testing::on_postgresql())
+            QSKIP("PostgreSQL only: on SQLite the program's clock stamps the changes");
+        Database db(fresh("unused"));
+        db.exec("SET TIME ZONE 'Pacific/Chatham'"); // +12:45 or +13:45 (from memory)
+        Database::Transaction t(db);
+        const QString first = phaseplan::storage::sql::utc_now(db.connection());
+        QThread::msleep(30);
+        const QString second = phaseplan::storage::sql::utc_now(db.connection());
+        QCOMPARE(second, first); // the server's transaction time, not the program's clock
+        QVERIFY2(first.endsWith('Z') && first.size() == 24, qPrintable(first));
+        const QDateTime parsed = QDateTime::fromString(first, Qt::ISODateWithMs);
+        QSqlQuery epoch = db.exec("SELECT floor(extract(epoch FROM now()) * 1000)");
+        QVERIFY(epoch.next());
+        QCOMPARE(parsed.toMSecsSinceEpoch(), epoch.value(0).toLongLong());
+        db.save(DocumentKind::buffer, "stamped", buffer_doc(3.0));
+        QCOMPARE(db.info(DocumentKind::buffer, "stamped")->updated_at, parsed);
+        t.commit();
+    }
+
     void postgresql_refuses_newer_schema_and_foreign_database() {
         if (!phaseplan::testing::on_postgresql())
             QSKIP("PostgreSQL only (the SQLite case is refuses_newer_schema_and_non_database)");

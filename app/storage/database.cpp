@@ -592,7 +592,9 @@ void Database::set_aside_oversized() {
 Database::Transaction::Transaction(Database& db) : db_(db) {
     if (!db_.writable())
         throw chem::Error("database", db_.read_only_reason_.toStdString());
-    depth_ = db_.transaction_depth_ + 1;
+    // The connection's depth, shared with sql::WriteTransaction (a store's write inside this one
+    // nests as a savepoint, and this one inside a store's too).
+    depth_ = std::max(db_.transaction_depth_, sql::transaction_depth(db_.db_)) + 1;
     // IMMEDIATE takes the write lock now, so a second writer waits (busy_timeout) instead of
     // failing half-way through. Inside another transaction (the seed inside the creating one) it
     // is a savepoint.
