@@ -1,6 +1,7 @@
 #pragma once
-// Batches in the lab's database (SQLite or PostgreSQL, storage/sql_dialect.h): one row per batch (the document it was made from, who, when, the actual
-// amounts) and an append-only history of every change (who, when, field, old value, new value).
+// Batches in the lab's database (SQLite or PostgreSQL, storage/sql_dialect.h): one row per batch
+// (the document it was made from, who, when, the actual amounts) and an append-only history of
+// every change (who, when, field, old value, new value).
 //
 // Rules, enforced here and again by triggers in the database so that no other code path can
 // break them:

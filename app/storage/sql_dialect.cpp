@@ -230,12 +230,16 @@ bool is_postgresql_uri(const QString& location) {
 }
 
 PgLocation parse_postgresql_uri(const QString& uri) {
-    const QString shown = uri.left(200);
+    // Echoed in messages without a password, even from an address that does not parse.
+    static const QRegularExpression password(QStringLiteral("^([A-Za-z]+://[^:/@?]*):[^@/?]*@"));
+    QString shown = uri.left(200);
+    shown.replace(password, QStringLiteral("\\1:(password removed)@"));
     const QUrl url(uri, QUrl::StrictMode);
+    // (QUrl's own message is not shown: it quotes the address, password and all.)
     if (!url.isValid())
         fail("database", QStringLiteral("\"%1\" is not a PostgreSQL address of the form "
-                                        "postgresql://user@host:port/dbname (%2)")
-                             .arg(shown, url.errorString()));
+                                        "postgresql://user@host:port/dbname")
+                             .arg(shown));
     if (!url.password().isEmpty())
         fail("database.password",
              QStringLiteral("a password is never part of the address (it would be seen in the "
@@ -293,8 +297,6 @@ PgLocation parse_postgresql_uri(const QString& uri) {
         fail("database.dbname",
              QStringLiteral("\"%1\" names no database: give postgresql://user@host:port/dbname")
                  .arg(shown));
-    if (loc.host.isEmpty() && !query.hasQueryItem(QStringLiteral("host")) && url.host().isEmpty())
-        loc.host.clear(); // libpq's default: the local socket
     return loc;
 }
 
