@@ -726,16 +726,47 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     auto at = [&](const LineValues& p, const EluentPoint* guess) -> const EluentPoint& {
         return solved.at(p, guess);
     };
+    // Methods that run the same composition program (the same stretches' compositions, at any
+    // times and flows) have the same trace points; only the times differ. Each program is traced
+    // once, with each point's place (stretch, fraction of it) kept to time the copies.
+    struct Program {
+        std::vector<double> compositions; ///< percent_start and percent_end of every stretch
+        std::size_t trace = 0;            ///< index into out
+        std::vector<std::pair<std::size_t, double>> where; ///< per point: stretch, fraction
+    };
+    std::vector<Program> programs;
+    std::vector<double> key;
     for (int mi : run) {
         const Method& m = c.input->methods[mi];
+        const auto ss = stretches(m);
+        key.clear();
+        for (const Stretch& s : ss) {
+            key.insert(key.end(), s.percent_start.begin(), s.percent_start.end());
+            key.insert(key.end(), s.percent_end.begin(), s.percent_end.end());
+        }
         EluentTrace tr;
         tr.method = m.name;
         tr.temperature_c = t_c;
         tr.has_systems = model.has_systems();
         for (const AcidBaseSystem* sys : model.systems())
             tr.systems.push_back(sys->id);
+        const auto same = std::find_if(programs.begin(), programs.end(),
+                                       [&](const Program& p) { return p.compositions == key; });
+        if (same != programs.end()) {
+            tr.points = out[same->trace].points;
+            for (std::size_t k = 0; k < tr.points.size(); ++k) {
+                const Stretch& s = ss[same->where[k].first];
+                tr.points[k].t_min = s.start_min + same->where[k].second * s.duration_min;
+            }
+            out.push_back(std::move(tr));
+            continue;
+        }
+        Program program;
+        program.compositions = key;
+        program.trace = out.size();
         const EluentPoint* last = nullptr;
-        auto add = [&](const Stretch& s, double u) {
+        auto add = [&](std::size_t si, double u) {
+            const Stretch& s = ss[si];
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
@@ -750,13 +781,15 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
             tp.nearest_pka = previous.nearest_pka;
             tp.nearest_system = previous.nearest_system;
             tp.extrapolated = previous.extrapolated;
-            tr.points.push_back(std::move(tp));
+            tr.points.push_back(tp);
+            program.where.emplace_back(si, u);
         };
-        const auto ss = stretches(m);
         tr.points.reserve(ss.size() + 101);
+        program.where.reserve(ss.size() + 101);
         std::vector<double> us;
-        for (const Stretch& s : ss) {
-            add(s, 0.0);
+        for (std::size_t si = 0; si < ss.size(); ++si) {
+            const Stretch& s = ss[si];
+            add(si, 0.0);
             // Every whole percent of organic crossed inside the stretch.
             const double o0 =
                 model.organic_fraction_v(s.percent_start.data(), s.percent_start.size());
@@ -769,11 +802,12 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
                 std::sort(us.begin(), us.end());
                 for (double u : us)
                     if (u > 1e-12 && u < 1 - 1e-12)
-                        add(s, u);
+                        add(si, u);
             }
         }
         if (!ss.empty())
-            add(ss.back(), 1.0);
+            add(ss.size() - 1, 1.0);
+        programs.push_back(std::move(program));
         out.push_back(std::move(tr));
     }
     return out;

@@ -94,6 +94,7 @@ class TestEluent : public QObject {
     void bufferRangeFlagsUnbufferedStretches();
     void sequenceCarriesATracePerMethod();
     void traceEqualsTheEluentCommandAtEachPoint();
+    void methodsWithOneProgramShareTheirPointsNotTheirTimes();
 };
 
 // Water at 0–60 °C against IAPWS (Debian's python3-iapws: IAPWS-95 density, R8-97 permittivity,
@@ -449,6 +450,46 @@ void TestEluent::traceEqualsTheEluentCommandAtEachPoint() {
             QVERIFY(std::abs(e["ph_s_w"].toDouble() - o["ph_s_w"].toDouble()) < 1e-6);
         }
     }
+}
+
+// Two methods that run the same compositions at other times and flows: the second method's trace
+// is the first one's points, timed by its own gradient table. It must equal the trace of a
+// sequence that runs the second method alone (each point, time and pH).
+void TestEluent::methodsWithOneProgramShareTheirPointsNotTheirTimes() {
+    QJsonObject doc = gradient_doc(phosphate_7(), 60, 10, 35);
+    QJsonObject methods = doc["methods"].toObject();
+    QJsonObject slow = methods["m"].toObject();
+    slow["flow_ml_min"] = 0.5;
+    slow["gradient"] = QJsonArray{QJsonObject{{"t_min", 0}, {"A", 95}, {"B", 5}},
+                                  QJsonObject{{"t_min", 21.5}, {"A", 40}, {"B", 60}}};
+    slow["run_min"] = 25;
+    methods["slow"] = slow;
+    doc["methods"] = methods;
+    doc["sequence"] = QJsonArray{QJsonObject{{"method", "m"}, {"injections", 1}},
+                                 QJsonObject{{"method", "slow"}, {"injections", 1}}};
+    const QJsonObject both = phaseplan::command_sequence(shipped_data(), doc, {});
+    doc["sequence"] = QJsonArray{QJsonObject{{"method", "slow"}, {"injections", 1}}};
+    const QJsonObject alone = phaseplan::command_sequence(shipped_data(), doc, {});
+    const QJsonArray shared =
+        both["eluent_trace"].toObject()["slow"].toObject()["points"].toArray();
+    const QJsonArray own = alone["eluent_trace"].toObject()["slow"].toObject()["points"].toArray();
+    QVERIFY(own.size() >= 56);
+    QCOMPARE(shared.size(), own.size());
+    for (qsizetype k = 0; k < own.size(); ++k) {
+        const QJsonObject a = shared[k].toObject(), b = own[k].toObject();
+        for (const char* key : {"t_min", "organic_fraction_v", "ph_s_s", "ph_s_w"})
+            QVERIFY2(std::abs(a[key].toDouble() - b[key].toDouble()) < 1e-9,
+                     qPrintable(QString("point %1 %2: %3 against %4")
+                                    .arg(k)
+                                    .arg(key)
+                                    .arg(a[key].toDouble())
+                                    .arg(b[key].toDouble())));
+    }
+    // The slow method's last gradient row is at 21.5 min: its trace is timed by its own table.
+    bool row_at_21 = false;
+    for (const auto& p : shared)
+        row_at_21 = row_at_21 || std::abs(p.toObject()["t_min"].toDouble() - 21.5) < 1e-9;
+    QVERIFY(row_at_21);
 }
 
 QTEST_GUILESS_MAIN(TestEluent)

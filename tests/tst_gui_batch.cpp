@@ -120,6 +120,22 @@ class TestGuiBatch : public QObject {
                  qPrintable(first.value("words").toString()));
         QVERIFY(first.value("words").toString().endsWith(" UTC"));
         QCOMPARE(m.signatures().at(1).toMap().value("meaning").toString(), QString("reviewed"));
+        // Reviewed by a second person and holding: released (issue 13, part 6), and the labels
+        // printed from this screen say so.
+        QVERIFY(m.released());
+        QVERIFY2(m.releaseText().startsWith("Released for use: reviewed by "),
+                 qPrintable(m.releaseText()));
+        phaseplan::print::PrintController printer;
+        printer.setData(&ws->data());
+        m.setOutput(&printer);
+        const bool have_pdftotext = !QStandardPaths::findExecutable("pdftotext").isEmpty();
+        const QString labels = dir_.filePath("released-labels.pdf");
+        QVERIFY2(m.saveLabels(labels, "label62"), qPrintable(m.errorMessage()));
+        if (have_pdftotext) {
+            const QString text = pdf_text(labels).simplified();
+            QVERIFY2(text.contains("Released: reviewed by"), qPrintable(text));
+            QVERIFY(!text.contains("NOT RELEASED"));
+        }
 
         QVERIFY(!m.sign("demo-approve", "not-the-password", "approved"));
         QCOMPARE(m.errorField(), QString("password"));
@@ -141,6 +157,12 @@ class TestGuiBatch : public QObject {
             QVERIFY(!v.toMap().value("holds").toBool());
             QVERIFY(v.toMap().value("words").toString().contains("void"));
         }
+        QVERIFY(!m.released());
+        QCOMPARE(m.releaseText(), phaseplan::BatchRelease::not_released_words());
+        const QString after = dir_.filePath("amended-labels.pdf");
+        QVERIFY2(m.saveLabels(after, "label62"), qPrintable(m.errorMessage()));
+        if (have_pdftotext)
+            QVERIFY(pdf_text(after).simplified().contains("NOT RELEASED"));
     }
 
     /// Out of tolerance: the reasons in words, the correction worked by hand, a deviation note

@@ -99,6 +99,7 @@ class TestPrint : public QObject {
     void controllerPrintsThroughQPrinter();
     void controllerErrorsNameTheFieldAndWriteNothing();
     void outOfToleranceNeedsNoteAndCarriesMark();
+    void releaseIsOnTheSheetAndEveryLabel();
 
   private:
     QTemporaryDir dir_;
@@ -311,8 +312,9 @@ void TestPrint::outOfToleranceNeedsNoteAndCarriesMark() {
     bool notice = false;
     for (const auto& block : job.sheet.blocks)
         if (block.kind == phaseplan::print::Block::Kind::notice)
-            notice = block.items.size() == 1 &&
-                     block.items[0].startsWith("Sodium dihydrogen phosphate monohydrate");
+            notice =
+                notice || (block.items.size() == 1 &&
+                           block.items[0].startsWith("Sodium dihydrogen phosphate monohydrate"));
     QVERIFY(notice);
     // Within tolerance: no mark.
     QJsonObject ok = demo_with_batch();
@@ -400,6 +402,53 @@ void TestPrint::controllerErrorsNameTheFieldAndWriteNothing() {
     // A success clears the error.
     QVERIFY(pc.saveSheet(demo_with_batch().toVariantMap(), path));
     QVERIFY(pc.lastError().isEmpty() && pc.lastErrorField().isEmpty());
+}
+
+// Issue 13, part 6: labels of an unreleased batch say so; the sheet lists the electronic
+// signatures and the release. Without a database (the default) a batch is not released.
+void TestPrint::releaseIsOnTheSheetAndEveryLabel() {
+    using phaseplan::print::Block;
+    auto notice_of = [](const phaseplan::print::PrintJob& job) {
+        for (const auto& b : job.sheet.blocks)
+            if (b.kind == Block::Kind::notice && b.text == "NOT RELEASED FOR USE")
+                return true;
+        return false;
+    };
+    auto has_paragraph = [](const phaseplan::print::PrintJob& job, const QString& text) {
+        for (const auto& b : job.sheet.blocks)
+            if (b.kind == Block::Kind::paragraph && b.text == text)
+                return true;
+        return false;
+    };
+    QJsonObject ok = demo_with_batch();
+    QJsonObject okb = ok.value("batch").toObject();
+    okb.remove("actual");
+    ok["batch"] = okb;
+    const auto unreleased = phaseplan::print::build_print_job(shipped_data(), ok, "now");
+    QVERIFY(notice_of(unreleased));
+    QVERIFY(!unreleased.labels.isEmpty());
+    for (const auto& l : unreleased.labels) {
+        QVERIFY(!l.released);
+        QVERIFY2(l.release.startsWith("NOT RELEASED"), qPrintable(l.release));
+    }
+    phaseplan::BatchRelease r;
+    r.signature_lines << "Prepared by Ansel Marchetti (demo-prep) 2026-12-02 13:10:04 UTC"
+                      << "Reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02:51 UTC";
+    r.released_line =
+        "Released for use: reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02 UTC";
+    const auto released = phaseplan::print::build_print_job(shipped_data(), ok, "now", r);
+    QVERIFY(!notice_of(released));
+    QVERIFY(has_paragraph(released, r.released_line));
+    bool listed = false;
+    for (const auto& b : released.sheet.blocks)
+        listed = listed || (b.kind == Block::Kind::bullets && b.items == r.signature_lines);
+    QVERIFY(listed);
+    for (const auto& l : released.labels) {
+        QVERIFY(l.released);
+        QCOMPARE(
+            l.release,
+            QString("Released: reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02 UTC"));
+    }
 }
 
 QTEST_MAIN(TestPrint)

@@ -5,6 +5,8 @@
 // any implementation.
 //
 // `document` is the input of `phaseplan-cli sheet` / `labels`: a contract document with "batch".
+#include "core/batch_release.h"
+
 #include <QObject>
 #include <QString>
 #include <QStringList>
@@ -17,11 +19,15 @@ class DocumentOutput {
     virtual ~DocumentOutput() = default;
     /// Writes the "sheet" or the "labels" of `document` as a PDF at `path` on `paper` ("a4",
     /// "letter", "label62"). False on failure, with outputError() / outputErrorField() saying why.
-    virtual bool writePdf(const QString& what, const QVariantMap& document, const QString& path,
+    /// `release`: the batch's signatures and release from the lab's database (printed on the
+    /// sheet and on every label).
+    virtual bool writePdf(const QString& what, const QVariantMap& document,
+                          const BatchRelease& release, const QString& path,
                           const QString& paper) = 0;
     /// Prints the "sheet" or the "labels" on `printer` ("" = the system's default printer).
     virtual bool sendToPrinter(const QString& what, const QVariantMap& document,
-                               const QString& printer, const QString& paper) = 0;
+                               const BatchRelease& release, const QString& printer,
+                               const QString& paper) = 0;
     /// Printer names known to the system; empty when none is set up.
     virtual QStringList printerNames() const = 0;
     /// The last failure's message and the field it names ("" after a success).

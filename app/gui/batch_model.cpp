@@ -4,6 +4,7 @@
 #include "core/batch_document.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
+#include "storage/release.h"
 #include "storage/signatures.h"
 #include "workspace.h"
 
@@ -249,9 +250,13 @@ void BatchModel::reload(const QString& id) {
     stored_ = st->load(id);
     history_.clear();
     signatures_.clear();
+    release_ = {};
     if (stored_ && storage::has_audit_schema(workspace_->database()->connection())) {
         const QSqlDatabase c = workspace_->database()->connection();
-        for (const storage::Signature& s : storage::SignatureStore(c).list(id))
+        const std::vector<storage::Signature> stored_signatures =
+            storage::SignatureStore(c).list(id);
+        release_ = storage::release_of(stored_signatures);
+        for (const storage::Signature& s : stored_signatures)
             signatures_.append(QVariantMap{{"meaning", s.meaning},
                                            {"name", s.display_name},
                                            {"login", s.login},
@@ -889,7 +894,7 @@ bool BatchModel::save_pdf(const QString& what, const QString& path_in, const QSt
                           tr("cannot save in %1: %2").arg(info.absolutePath(), why)}),
                false;
     }
-    const bool ok = output_iface()->writePdf(what, input(), path, paper);
+    const bool ok = output_iface()->writePdf(what, input(), release_, path, paper);
     if (ok) {
         last_saved_path_ = path;
         emit lastSavedPathChanged();
@@ -911,7 +916,7 @@ bool BatchModel::printSheet(const QString& printer, const QString& paper) {
     if (!ready_to_print())
         return false;
     return after_print(
-        output_iface()->sendToPrinter(QStringLiteral("sheet"), input(), printer, paper),
+        output_iface()->sendToPrinter(QStringLiteral("sheet"), input(), release_, printer, paper),
         QStringLiteral("sheet %1 printer").arg(paper));
 }
 
@@ -919,7 +924,7 @@ bool BatchModel::printLabels(const QString& printer, const QString& paper) {
     if (!ready_to_print())
         return false;
     return after_print(
-        output_iface()->sendToPrinter(QStringLiteral("labels"), input(), printer, paper),
+        output_iface()->sendToPrinter(QStringLiteral("labels"), input(), release_, printer, paper),
         QStringLiteral("labels %1 printer").arg(paper));
 }
 

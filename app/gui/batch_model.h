@@ -144,6 +144,10 @@ class BatchModel : public QAbstractListModel {
     /// words} ("Reviewed by Mats Lindqvist (demo-review) 2026-12-02 13:10:04 UTC", with "— void:
     /// …" once a later change voided it). app/storage/signatures.h.
     Q_PROPERTY(QVariantList signatures READ signatures NOTIFY batchChanged)
+    /// Released for use: a second person's "reviewed" signature holds (core/batch_release.h).
+    Q_PROPERTY(bool released READ released NOTIFY batchChanged)
+    /// "Released for use: reviewed by … UTC", or why the batch is not released.
+    Q_PROPERTY(QString releaseText READ releaseText NOTIFY batchChanged)
     /// The database has accounts, so a saved batch can be signed here.
     Q_PROPERTY(bool signingAvailable READ signingAvailable NOTIFY batchChanged)
     /// Every batch in the database, newest first.
@@ -249,6 +253,10 @@ class BatchModel : public QAbstractListModel {
     QVariantList warnings() const { return warnings_; }
     QVariantList history() const { return history_; }
     QVariantList signatures() const { return signatures_; }
+    bool released() const { return release_.released(); }
+    QString releaseText() const {
+        return release_.released() ? release_.released_line : BatchRelease::not_released_words();
+    }
     bool signingAvailable() const;
     QStringList batchIds() const;
     QString lastSavedPath() const { return last_saved_path_; }
@@ -378,6 +386,7 @@ class BatchModel : public QAbstractListModel {
            buffer_capacity_mmol_per_l_ = 0;
     QVariantList composition_, warnings_, history_, steps_;
     QVariantList signatures_;
+    BatchRelease release_; ///< from the stored signatures, printed on the sheet and labels
     bool out_of_tolerance_ = false, correction_remake_ = false;
     QStringList reasons_, correction_;
     QString last_saved_path_;

@@ -307,6 +307,42 @@ Block signoff(const chem::Batch& batch) {
     return sign;
 }
 
+/// The electronic signatures and the release, below the wet-ink sign-off: each signature in the
+/// record's words, then the release, or a boxed notice that the batch is not released.
+QList<Block> release_blocks(const BatchRelease& release) {
+    QList<Block> out;
+    out << heading("Electronic signatures and release");
+    Block sigs;
+    sigs.kind = Block::Kind::bullets;
+    sigs.items = release.signature_lines;
+    if (sigs.items.isEmpty())
+        sigs.items << QStringLiteral("None recorded in the lab's database.");
+    out << sigs;
+    if (release.released()) {
+        Block r;
+        r.kind = Block::Kind::paragraph;
+        r.text = release.released_line;
+        out << r;
+    } else {
+        Block n;
+        n.kind = Block::Kind::notice;
+        n.text = QStringLiteral("NOT RELEASED FOR USE");
+        n.items << QStringLiteral("A second person, not the preparer, signs it as reviewed in the "
+                                  "lab's database before the batch is used.");
+        out << n;
+    }
+    return out;
+}
+
+/// The release line of a label: the reviewer and date, or "NOT RELEASED — awaiting review".
+void set_release(LabelData& label, const BatchRelease& release) {
+    label.released = release.released();
+    label.release = release.released()
+                        ? release.released_line.section(QStringLiteral(": "), 1)
+                              .prepend(QStringLiteral("Released: "))
+                        : QStringLiteral("NOT RELEASED — awaiting review by a second person");
+}
+
 QStringList strings_of(const QJsonValue& v) {
     QStringList out;
     for (const QJsonValue& x : v.toArray())
@@ -384,7 +420,7 @@ QList<KeyValue> bench_fields(const chem::Batch& b, std::optional<double> target_
 // ---- recipe -----------------------------------------------------------------------------------
 
 PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
-                    const QString& printed_at) {
+                    const QString& printed_at, const BatchRelease& release) {
     const chem::Library& lib = data.reagents;
     const chem::Recipe& recipe = *doc.recipe;
     const chem::RecipeRequest& req = recipe.request;
@@ -445,7 +481,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
     }
     d.blocks << heading("Hazards and cautions") << hz.block()
              << bullets(cautions_with_standard(recipe.cautions));
-    d.blocks << heading("Sign-off") << signoff(batch);
+    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
 
     LabelData label;
     label.title = title;
@@ -462,6 +498,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
     label.mark = d.mark;
+    set_release(label, release);
     job.labels << label;
 
     job.summary = doc.summary;
@@ -505,7 +542,7 @@ QStringList line_composition(const AppData& data, const chem::LineProfile& p) {
 }
 
 PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
-                  const QString& printed_at) {
+                  const QString& printed_at, const BatchRelease& release) {
     const QJsonObject& out = doc.line_out;
     const double volume = out.value("volume_ml").toDouble();
     const chem::LineRecipe& lr = *doc.line;
@@ -593,7 +630,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     add_line_hazards(data, *doc.line_spec, hz);
     d.blocks << heading("Hazards and cautions") << hz.block()
              << bullets(cautions_with_standard(std_strings(out.value("cautions"))));
-    d.blocks << heading("Sign-off") << signoff(batch);
+    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
 
     LabelData label;
     label.title = title;
@@ -610,6 +647,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
     label.mark = d.mark;
+    set_release(label, release);
     job.labels << label;
 
     job.summary = doc.summary;
@@ -619,7 +657,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
 // ---- sequence ---------------------------------------------------------------------------------
 
 PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
-                      const QString& printed_at) {
+                      const QString& printed_at, const BatchRelease& release) {
     const QJsonObject& out = doc.sequence_out;
     const chem::Batch& batch = doc.batch;
     QJsonObject lines_in = input.value("lines").toObject();
@@ -777,11 +815,12 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         label.prepared_by = qs(batch.prepared_by);
         label.pictograms = sorted_pictograms(hz.pictograms);
         label.hazard_codes = hz.codes();
+        set_release(label, release);
         job.labels << label;
     }
     d.blocks << heading("Hazards and cautions") << all.block()
              << bullets(cautions_with_standard({}));
-    d.blocks << heading("Sign-off") << signoff(batch);
+    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
 
     job.summary = doc.summary;
     return job;
@@ -811,7 +850,8 @@ QString format_datetime(const QString& iso) {
     return s;
 }
 
-PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
+PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at,
+                         const BatchRelease& release) {
     // Texts that only the paper shows: held to the same limit as every text field.
     for (const char* key : {"name", "purpose"})
         if (input.value(key).isString())
@@ -822,10 +862,10 @@ PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QS
     const BatchDocument doc = read_batch_document(data, input);
     require_deviation_note(doc);
     if (doc.kind == "line")
-        return line_job(data, doc, input, printed_at);
+        return line_job(data, doc, input, printed_at, release);
     if (doc.kind == "sequence")
-        return sequence_job(data, doc, input, printed_at);
-    return recipe_job(data, doc, input, printed_at);
+        return sequence_job(data, doc, input, printed_at, release);
+    return recipe_job(data, doc, input, printed_at, release);
 }
 
 } // namespace phaseplan::print

@@ -10,6 +10,7 @@
 #include "chem/batch.h"
 #include "core/app_data.h"
 #include "core/batch_document.h"
+#include "core/batch_release.h"
 #include "print/sheet.h"
 
 #include <QJsonObject>
@@ -33,7 +34,10 @@ struct PrintJob {
 /// field for bad input (the same fields and messages as the `recipe`, `line` and `sequence`
 /// subcommands, plus the batch's). Nothing is written.
 /// @param printed_at the time shown in the footer (the CLI passes the current time).
-PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at);
+/// @param release the batch's electronic signatures and release, from the database; the default
+/// (a document printed without one) is not released, and the sheet and every label say so.
+PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at,
+                         const BatchRelease& release = {});
 
 /// Number formats shared by sheets, labels and tests: amounts to about four significant figures
 /// (as the recipe's steps print them), pH to 0.01, concentrations in mmol/L to 0.01.

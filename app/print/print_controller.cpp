@@ -82,6 +82,11 @@ QVariantMap PrintController::preview(const QVariantMap& document) {
 
 bool PrintController::saveSheet(const QVariantMap& document, const QString& path,
                                 const QString& paper_name) {
+    return save_sheet(document, {}, path, paper_name);
+}
+
+bool PrintController::save_sheet(const QVariantMap& document, const BatchRelease& release,
+                                 const QString& path, const QString& paper_name) {
     if (!data_)
         return fail("data", "no reference data loaded");
     try {
@@ -89,7 +94,7 @@ bool PrintController::saveSheet(const QVariantMap& document, const QString& path
         if (paper == Paper::label62)
             throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
         const PrintJob job =
-            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
         write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
             return render_sheet(d, job.sheet, paper);
         });
@@ -103,12 +108,17 @@ bool PrintController::saveSheet(const QVariantMap& document, const QString& path
 
 bool PrintController::saveLabels(const QVariantMap& document, const QString& path,
                                  const QString& paper_name, int copies) {
+    return save_labels(document, {}, path, paper_name, copies);
+}
+
+bool PrintController::save_labels(const QVariantMap& document, const BatchRelease& release,
+                                  const QString& path, const QString& paper_name, int copies) {
     if (!data_)
         return fail("data", "no reference data loaded");
     try {
         const Paper paper = paper_from_name(paper_name);
         const PrintJob job =
-            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
         const int n = label_copies(job, paper, copies);
         write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
             return render_labels(d, job.labels, paper, n);
@@ -122,24 +132,27 @@ bool PrintController::saveLabels(const QVariantMap& document, const QString& pat
 }
 
 int PrintController::paintSheet(QPrinter& printer, const QVariantMap& document,
-                                const QString& paper_name) {
+                                const QString& paper_name, const BatchRelease& release) {
     if (!data_)
         throw chem::Error("data", "no reference data loaded");
     const Paper paper = paper_from_name(paper_name);
     if (paper == Paper::label62)
         throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
-    const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+    const PrintJob job =
+        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
     printer.setDocName(job.title);
     printer.setFullPage(true); // the layout keeps its own margins
     return render_sheet(printer, job.sheet, paper);
 }
 
 int PrintController::paintLabels(QPrinter& printer, const QVariantMap& document,
-                                 const QString& paper_name, int copies) {
+                                 const QString& paper_name, int copies,
+                                 const BatchRelease& release) {
     if (!data_)
         throw chem::Error("data", "no reference data loaded");
     const Paper paper = paper_from_name(paper_name);
-    const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text());
+    const PrintJob job =
+        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
     printer.setDocName(job.title);
     printer.setFullPage(true);
     return render_labels(printer, job.labels, paper, label_copies(job, paper, copies));
@@ -165,10 +178,15 @@ bool PrintController::print_on(const QString& printer_name,
 
 bool PrintController::printSheet(const QVariantMap& document, const QString& printer,
                                  const QString& paper) {
+    return print_sheet(document, {}, printer, paper);
+}
+
+bool PrintController::print_sheet(const QVariantMap& document, const BatchRelease& release,
+                                  const QString& printer, const QString& paper) {
     QString id;
     const bool ok = print_on(printer, [&](QPrinter& p) {
         id = document.value("batch").toMap().value("id").toString();
-        return paintSheet(p, document, paper);
+        return paintSheet(p, document, paper, release);
     });
     if (ok)
         emit printed(id, "sheet " + paper + " printer");
@@ -177,10 +195,15 @@ bool PrintController::printSheet(const QVariantMap& document, const QString& pri
 
 bool PrintController::printLabels(const QVariantMap& document, const QString& printer,
                                   const QString& paper, int copies) {
+    return print_labels(document, {}, printer, paper, copies);
+}
+
+bool PrintController::print_labels(const QVariantMap& document, const BatchRelease& release,
+                                   const QString& printer, const QString& paper, int copies) {
     QString id;
     const bool ok = print_on(printer, [&](QPrinter& p) {
         id = document.value("batch").toMap().value("id").toString();
-        return paintLabels(p, document, paper, copies);
+        return paintLabels(p, document, paper, copies, release);
     });
     if (ok)
         emit printed(id, "labels " + paper + " printer");

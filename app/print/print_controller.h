@@ -72,20 +72,23 @@ class PrintController : public QObject, public DocumentOutput {
 
     /// The painting behind printSheet / printLabels on a printer set up by the caller (tests
     /// print through a QPrinter in PDF mode). Throws chem::Error like the CLI.
-    int paintSheet(QPrinter& printer, const QVariantMap& document, const QString& paper);
+    /// `release` from the lab's database (BatchModel); the default prints "not released".
+    int paintSheet(QPrinter& printer, const QVariantMap& document, const QString& paper,
+                   const BatchRelease& release = {});
     int paintLabels(QPrinter& printer, const QVariantMap& document, const QString& paper,
-                    int copies);
+                    int copies, const BatchRelease& release = {});
 
     // ---- DocumentOutput ------------------------------------------------------------------------
-    bool writePdf(const QString& what, const QVariantMap& document, const QString& path,
-                  const QString& paper) override {
-        return what == QLatin1String("labels") ? saveLabels(document, path, paper)
-                                               : saveSheet(document, path, paper);
+    bool writePdf(const QString& what, const QVariantMap& document, const BatchRelease& release,
+                  const QString& path, const QString& paper) override {
+        return what == QLatin1String("labels") ? save_labels(document, release, path, paper, 0)
+                                               : save_sheet(document, release, path, paper);
     }
-    bool sendToPrinter(const QString& what, const QVariantMap& document, const QString& printer,
+    bool sendToPrinter(const QString& what, const QVariantMap& document,
+                       const BatchRelease& release, const QString& printer,
                        const QString& paper) override {
-        return what == QLatin1String("labels") ? printLabels(document, printer, paper)
-                                               : printSheet(document, printer, paper);
+        return what == QLatin1String("labels") ? print_labels(document, release, printer, paper, 0)
+                                               : print_sheet(document, release, printer, paper);
     }
     QStringList printerNames() const override { return printers(); }
     QString outputError() const override { return last_error_; }
@@ -102,6 +105,14 @@ class PrintController : public QObject, public DocumentOutput {
     void printed(const QString& batchId, const QString& what);
 
   private:
+    bool save_sheet(const QVariantMap& document, const BatchRelease& release, const QString& path,
+                    const QString& paper_name);
+    bool save_labels(const QVariantMap& document, const BatchRelease& release, const QString& path,
+                     const QString& paper_name, int copies);
+    bool print_sheet(const QVariantMap& document, const BatchRelease& release,
+                     const QString& printer, const QString& paper);
+    bool print_labels(const QVariantMap& document, const BatchRelease& release,
+                      const QString& printer, const QString& paper, int copies);
     bool fail(const QString& field, const QString& message);
     bool succeed();
     bool print_on(const QString& printer_name, const std::function<int(QPrinter&)>& paint);

@@ -634,10 +634,11 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
                                                       or_blank(d.prepared_by)};
         const TextItem expires{make_font(7.5 * s, true), "Expires " + or_blank(d.expires_at)};
         const TextItem mark{make_font(7.5 * s, true), d.mark, warning_red, true};
+        const TextItem release{make_font(7 * s, true), d.release, d.released ? ink : warning_red};
         side.clear();
         full.clear();
         if (wide) {
-            side = {title, mark, ph, comp, batch, prepared, expires};
+            side = {title, mark, ph, comp, batch, prepared, expires, release};
         } else {
             // Narrow column beside the QR code: the pH large, its temperature below; the batch
             // id goes full width so that it never breaks across lines.
@@ -647,7 +648,7 @@ void paint_label(Canvas& c, const QRectF& r, const LabelData& d) {
                         TextItem{make_font(7.5 * s), d.ph.mid(at + 1)}};
             else
                 side = {ph};
-            full = {mark, batch, prepared, expires, comp};
+            full = {mark, batch, prepared, expires, release, comp};
         }
     };
 

@@ -93,6 +93,9 @@ struct LabelData {
     QString qr_text; ///< the batch id (what a scanner reads back)
     /// When not empty: boxed across the label below the title ("OUT OF TOLERANCE — …").
     QString mark;
+    /// The release line ("Released: reviewed by …" or "NOT RELEASED — …", in red when not).
+    QString release;
+    bool released = false;
 };
 
 /// Lays out and paints `doc` on `device` (sets the page size and margins of `paper`, a4 or

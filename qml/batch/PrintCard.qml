@@ -131,6 +131,7 @@ Card {
         property string kind: "sheet"
         title: kind === "sheet" ? qsTr("Save the sheet as PDF") : qsTr("Save the labels as PDF")
         fileMode: FileDialog.SaveFile
+        acceptLabel: qsTr("Save")
         defaultSuffix: "pdf"
         nameFilters: [qsTr("PDF files (*.pdf)")]
         onAccepted: {

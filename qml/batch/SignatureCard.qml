@@ -24,9 +24,11 @@ Card {
     }
 
     title: qsTr("Signed by")
-    note: root.batch.signatures.length === 0 ? qsTr("not signed")
-                                             : qsTr("%n holding", "", root.holdingCount())
-    noteColour: root.holdingCount() > 0 ? Theme.good : Theme.dimText
+    note: root.batch.released ? qsTr("released")
+                              : root.batch.signatures.length === 0
+                                ? qsTr("not signed, not released")
+                                : qsTr("%n holding, not released", "", root.holdingCount())
+    noteColour: root.batch.released ? Theme.good : Theme.bad
 
     Repeater {
         model: root.batch.signatures
@@ -39,6 +41,17 @@ Card {
             color: modelData.holds ? Theme.text : Theme.bad
             text: modelData.words
         }
+    }
+    // The release, as the sheet and every label print it.
+    Label {
+        objectName: "releaseText"
+        Layout.fillWidth: true
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.fontSize
+        font.bold: true
+        color: root.batch.released ? Theme.good : Theme.bad
+        text: root.batch.releaseText
+        Accessible.name: text
     }
     SegmentedChoice {
         objectName: "signMeaning"
