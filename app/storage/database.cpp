@@ -304,31 +304,35 @@ void Database::open_connection(const QString& file, bool read_only) {
     }
 }
 
+void Database::refuse_foreign_postgresql() const {
+    const sql::PgLocation loc = sql::parse_postgresql_uri(path_);
+    // A database holding other tables and no PhasePlan schema is another program's.
+    const qint64 app_id = sql::application_id(db_);
+    if (app_id >= 0 && app_id != phaseplan_application_id && app_id != 0)
+        fail(QStringLiteral("the database \"%1\" at %2 is another program's (application id "
+                            "%3); PhasePlan left it unchanged")
+                 .arg(loc.dbname.left(64), loc.where(), QString::number(app_id)));
+    if (app_id >= 0)
+        return;
+    QSqlQuery q = exec(QStringLiteral("SELECT table_name FROM information_schema.tables"
+                                      " WHERE table_schema = current_schema()"
+                                      " ORDER BY table_name LIMIT 6"));
+    QStringList tables;
+    while (q.next())
+        tables << q.value(0).toString();
+    if (!tables.isEmpty())
+        fail(QStringLiteral("the database \"%1\" at %2 holds another program's tables "
+                            "(%3) and no PhasePlan schema; PhasePlan left it unchanged."
+                            " Give an empty database in the address.")
+                 .arg(loc.dbname.left(64), loc.where(),
+                      tables.mid(0, 5).join(QStringLiteral(", "))));
+}
+
 void Database::open_postgresql(int target_version, const Seed& seed) {
     dialect_ = sql::Dialect::postgresql;
     const sql::PgLocation loc = sql::parse_postgresql_uri(path_);
     db_ = sql::open_postgresql(loc, connection_name_, false);
     try {
-        // A database holding other tables and no PhasePlan schema is another program's.
-        const qint64 app_id = sql::application_id(db_);
-        if (app_id >= 0 && app_id != phaseplan_application_id && app_id != 0)
-            fail(QStringLiteral("the database \"%1\" at %2 is another program's (application id "
-                                "%3); PhasePlan left it unchanged")
-                     .arg(loc.dbname.left(64), loc.where(), QString::number(app_id)));
-        if (app_id < 0) {
-            QSqlQuery q = exec(QStringLiteral("SELECT table_name FROM information_schema.tables"
-                                              " WHERE table_schema = current_schema()"
-                                              " ORDER BY table_name LIMIT 6"));
-            QStringList tables;
-            while (q.next())
-                tables << q.value(0).toString();
-            if (!tables.isEmpty())
-                fail(QStringLiteral("the database \"%1\" at %2 holds another program's tables "
-                                    "(%3) and no PhasePlan schema; PhasePlan left it unchanged."
-                                    " Give an empty database in the address.")
-                         .arg(loc.dbname.left(64), loc.where(),
-                              tables.mid(0, 5).join(QStringLiteral(", "))));
-        }
         QSqlQuery ro = exec(QStringLiteral("SHOW transaction_read_only"));
         if (ro.next() && ro.value(0).toString() == QLatin1String("on"))
             read_only_reason_ =
@@ -336,13 +340,17 @@ void Database::open_postgresql(int target_version, const Seed& seed) {
                                "you change is saved. Ask whoever manages the server.")
                     .arg(loc.where());
         if (writable()) {
+            // The foreign-database check runs under the writers' lock, inside migrate(): a first
+            // run that is creating the schema right now is either done or not started.
             migrate(target_version, seed);
             set_aside_oversized();
-        } else if (schema_version() > latest_schema_version()) {
-            fail(QStringLiteral("the lab database at %1 has schema version %2, newer than this "
-                                "program's %3: use a newer PhasePlan")
-                     .arg(loc.where(), QString::number(schema_version()),
-                          QString::number(latest_schema_version())));
+        } else {
+            refuse_foreign_postgresql();
+            if (schema_version() > latest_schema_version())
+                fail(QStringLiteral("the lab database at %1 has schema version %2, newer than "
+                                    "this program's %3: use a newer PhasePlan")
+                         .arg(loc.where(), QString::number(schema_version()),
+                              QString::number(latest_schema_version())));
         }
     } catch (...) {
         close_connection();
@@ -503,6 +511,8 @@ void Database::migrate(int target_version, const Seed& seed) {
     // The version is read under the write lock: a second program starting at the same moment
     // waits here and then sees the finished schema.
     Transaction t(*this);
+    if (is_postgresql())
+        refuse_foreign_postgresql();
     int version = schema_version();
     // PostgreSQL: the database is new when nobody gave it a schema yet (read under the lock, so
     // of two first runs only one seeds).

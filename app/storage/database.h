@@ -215,6 +215,8 @@ class Database {
   private:
     void open_connection(const QString& file, bool read_only);
     void open_postgresql(int target_version, const Seed& seed);
+    /// Throws when the PostgreSQL database holds another program's tables (or application id).
+    void refuse_foreign_postgresql() const;
     void close_connection();
     void configure();
     void probe_writable();
