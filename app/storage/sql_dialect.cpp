@@ -203,7 +203,8 @@ QStringList begin_write(Dialect d) {
         return {QStringLiteral("BEGIN IMMEDIATE")};
     // One writer at a time, as SQLite's write lock: the number of the next audit entry (max + 1)
     // and every check-then-write are read under it. The key is PhasePlan's application id.
-    return {QStringLiteral("BEGIN"), QStringLiteral("SELECT pg_advisory_xact_lock(1348955244)")};
+    return {QStringLiteral("BEGIN"),
+            QStringLiteral("SELECT pg_advisory_xact_lock(%1)").arg(0x5068506c)}; // "PhPl"
 }
 
 int transaction_depth(const QSqlDatabase& db) {
