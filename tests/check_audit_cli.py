@@ -9,8 +9,13 @@ every bad input exits 2 with one stderr line naming the field and nothing on std
 read from standard input, never from the command line (21 CFR 11.300); an account locks after 5
 wrong passwords (11.300(d)). The tampering is done with Python's own sqlite3 module (the outside
 tool), after dropping the guard triggers as anyone with the file could.
+
+With PHASEPLAN_TEST_BACKEND=postgresql (CTest's check_audit_cli_pg) every database is a fresh one
+on the cluster PHASEPLAN_TEST_PG_URI names (tests/pg_cluster.sh), the outside tool is psql, and
+the same contract is checked there; without that URI it prints SKIP with the reason.
 """
 import csv
+import glob
 import hashlib
 import io
 import json
@@ -20,8 +25,18 @@ import sqlite3
 import subprocess
 import sys
 import tempfile
+import time
+import urllib.parse
 
 CLI, SRC, BUILD = sys.argv[1], sys.argv[2], sys.argv[3]
+PG = os.environ.get("PHASEPLAN_TEST_BACKEND") == "postgresql"
+PG_URI = os.environ.get("PHASEPLAN_TEST_PG_URI", "")
+if PG and not PG_URI:
+    print("SKIP: PHASEPLAN_TEST_PG_URI is not set: start a cluster with tests/pg_cluster.sh "
+          "start DIR and export the URI it prints (and PGPASSFILE=DIR/pgpass)")
+    sys.exit(0)
+PSQL = shutil.which("psql") or (sorted(glob.glob("/usr/lib/postgresql/*/bin/psql")) or [""])[-1]
+pg_created = []
 WORK = os.path.abspath(tempfile.mkdtemp(prefix="audit-cli-", dir=BUILD))
 ENV = dict(os.environ)
 ENV.setdefault("QT_QPA_PLATFORM", "offscreen")
@@ -47,19 +62,67 @@ def refused(name, result, field):
          "rc=%d out=%r err=%r" % (rc, out[:200], err[:400]))
 
 
+def pg_uri(dbname):
+    u = urllib.parse.urlsplit(PG_URI)
+    return urllib.parse.urlunsplit((u.scheme, u.netloc, "/" + dbname, u.query, ""))
+
+
+def psql(uri, *statements, copy_out=None):
+    """Runs statements in one transaction with psql (the outside tool); returns stdout."""
+    args = [PSQL, "-X", "-q", "-v", "ON_ERROR_STOP=1", "-d", uri]
+    script = "BEGIN;\n" + "".join(s + ";\n" for s in statements) + "COMMIT;\n"
+    if copy_out:
+        args += ["-c", "COPY (%s) TO STDOUT WITH (FORMAT csv)" % copy_out]
+        script = None
+    p = subprocess.run(args, input=None if script is None else script.encode(),
+                       capture_output=True, timeout=120, env=ENV)
+    if p.returncode != 0:
+        raise RuntimeError("psql: " + p.stderr.decode("utf-8", "replace"))
+    return p.stdout.decode("utf-8")
+
+
+def new_location(name):
+    """A path for a new file, or the URI of a new, empty PostgreSQL database."""
+    if not PG:
+        return os.path.join(WORK, name)
+    db = "chk_%d_%d_%d" % (os.getpid(), int(time.time() * 1000) % 100000000, len(pg_created))
+    # CREATE DATABASE cannot run inside the transaction psql() opens: close it first.
+    psql(PG_URI, "COMMIT", "CREATE DATABASE " + db, "BEGIN")
+    pg_created.append(db)
+    return pg_uri(db)
+
+
+def query(loc, sql):
+    """Rows of a SELECT, as text (csv through psql on PostgreSQL)."""
+    if not PG:
+        c = sqlite3.connect(loc)
+        rows = [[("" if v is None else str(v)) for v in r] for r in c.execute(sql)]
+        c.close()
+        return rows
+    return list(csv.reader(io.StringIO(psql(loc, copy_out=sql))))
+
+
+def drop_trigger(name, table):
+    return ("DROP TRIGGER IF EXISTS %s ON %s" % (name, table)) if PG else \
+        ("DROP TRIGGER IF EXISTS " + name)
+
+
 def fresh_demo(name):
-    path = os.path.join(WORK, name)
+    path = new_location(name)
     rc, out, err = run(["db", "demo", "--database", path])
     case("db demo " + name, rc == 0 and json.loads(out)["chain"]["intact"], err)
     return path
 
 
 def tamper(path, *statements):
+    drops = [drop_trigger(t, table) for t, table in (
+        ("audit_log_no_update", "audit_log"), ("audit_log_no_delete", "audit_log"),
+        ("audit_anchor_no_delete", "audit_anchor"), ("audit_anchor_steps", "audit_anchor"))]
+    if PG:
+        psql(path, *(drops + list(statements)))
+        return
     c = sqlite3.connect(path)
-    for t in ("audit_log_no_update", "audit_log_no_delete", "audit_anchor_no_delete",
-              "audit_anchor_steps"):
-        c.execute("DROP TRIGGER IF EXISTS " + t)
-    for s in statements:
+    for s in drops + list(statements):
         c.execute(s)
     c.commit()
     c.close()
@@ -71,9 +134,15 @@ demo = fresh_demo("demo.sqlite")
 rc, out, err = run(["audit", "verify", "--database", demo])
 case("verify intact exits 0", rc == 0 and out.startswith("intact: 10 entries") and err == "",
      "rc=%d out=%r err=%r" % (rc, out, err))
-before = open(demo, "rb").read()
-run(["audit", "verify", "--database", demo])
-case("verify leaves the file as it was", open(demo, "rb").read() == before)
+if not PG:
+    before = open(demo, "rb").read()
+    run(["audit", "verify", "--database", demo])
+    case("verify leaves the file as it was", open(demo, "rb").read() == before)
+else:
+    before = query(demo, "SELECT seq, hash FROM audit_log ORDER BY seq")
+    run(["audit", "verify", "--database", demo])
+    case("verify leaves the trail as it was",
+         query(demo, "SELECT seq, hash FROM audit_log ORDER BY seq") == before)
 
 # ---- the serialisation, recomputed outside (Python's hashlib SHA-256, FIPS 180-4) -------------
 def entry_hash(fields):
@@ -82,14 +151,14 @@ def entry_hash(fields):
     return hashlib.sha256(data).hexdigest()
 
 
-c = sqlite3.connect(demo)
 prev, ok = "0" * 64, True
-for row in c.execute("SELECT seq, logged_at, login, action, record_type, record_id, reason,"
-                     " changes, prev_hash, hash FROM audit_log ORDER BY seq"):
+rows = query(demo, "SELECT seq, logged_at, login, action, record_type, record_id, reason,"
+                   " changes, prev_hash, hash FROM audit_log ORDER BY seq")
+for row in rows:
     fields = [str(row[0])] + list(row[1:9])
     ok = ok and row[8] == prev and entry_hash(fields) == row[9]
     prev = row[9]
-c.close()
+ok = ok and len(rows) == 10
 case("every stored hash recomputed from the documented serialisation", ok)
 
 # ---- export -----------------------------------------------------------------------------------
@@ -128,20 +197,23 @@ for name, statements, seq in [
     ("a deleted entry", ["DELETE FROM audit_log WHERE seq = 5"], 5),
     ("the last entry deleted", ["DELETE FROM audit_log WHERE seq = 10"], 10),
     ("a signature's signer swapped behind the trail",
-     ["DROP TRIGGER signatures_no_update",
+     [drop_trigger("signatures_no_update", "signatures"),
       "UPDATE signatures SET login = 'demo-approve' WHERE meaning = 'reviewed'"], 10),
     ("a batch amount changed behind the trail",
-     ["DROP TRIGGER batches_changes_recorded",
+     [drop_trigger("batches_changes_recorded", "batches"),
       "UPDATE batches SET actual = replace(actual, '2.981', '2.891')"], 10),
     ("two entries reordered", ["UPDATE audit_log SET seq = 100 WHERE seq = 8",
                                "UPDATE audit_log SET seq = 8 WHERE seq = 9",
                                "UPDATE audit_log SET seq = 9 WHERE seq = 100"], 8),
 ]:
-    path = os.path.join(WORK, "tampered.sqlite")
-    for suffix in ("", "-wal", "-shm"):
-        if os.path.exists(path + suffix):
-            os.remove(path + suffix)
-    shutil.copy(demo, path)
+    if PG:
+        path = fresh_demo("tampered")
+    else:
+        path = os.path.join(WORK, "tampered.sqlite")
+        for suffix in ("", "-wal", "-shm"):
+            if os.path.exists(path + suffix):
+                os.remove(path + suffix)
+        shutil.copy(demo, path)
     tamper(path, *statements)
     rc, out, err = run(["audit", "verify", "--database", path])
     case("verify finds " + name + " at entry %d" % seq,
@@ -150,13 +222,16 @@ for name, statements, seq in [
 
 # ---- verify: bad input ----------------------------------------------------------------------
 refused("verify without --database", run(["audit", "verify"]), "database")
-refused("verify of a missing file", run(["audit", "verify", "--database",
-                                         os.path.join(WORK, "none.sqlite")]), "database")
-other = os.path.join(WORK, "other.sqlite")
-c = sqlite3.connect(other)
-c.execute("CREATE TABLE t (x)")
-c.commit()
-c.close()
+missing = pg_uri("no_such_database_here") if PG else os.path.join(WORK, "none.sqlite")
+refused("verify of a missing file", run(["audit", "verify", "--database", missing]), "database")
+other = new_location("other.sqlite")
+if PG:
+    psql(other, "CREATE TABLE t (x INTEGER)")
+else:
+    c = sqlite3.connect(other)
+    c.execute("CREATE TABLE t (x)")
+    c.commit()
+    c.close()
 refused("verify of another program's file", run(["audit", "verify", "--database", other]),
         "database")
 refused("an unknown audit subcommand", run(["audit", "rewrite", "--database", demo]), "command")
@@ -206,12 +281,11 @@ refused("no password on stdin", run(["user", "unlock", "t.new", "--as", "demo-ad
 rc, out, err = run(["audit", "verify", "--database", demo])
 case("every account change went into the chain, which holds",
      rc == 0 and int(out.split()[1]) > 10, "rc=%d out=%r" % (rc, out))
-refused("user list of a missing file",
-        run(["user", "list", "--database", os.path.join(WORK, "none.sqlite")]), "database")
+refused("user list of a missing file", run(["user", "list", "--database", missing]), "database")
 refused("db demo onto an existing file", run(["db", "demo", "--database", demo]), "database")
 
 # The first account of a new database must be an administrator and needs no --as.
-new_db = os.path.join(WORK, "new.sqlite")
+new_db = new_location("new.sqlite")
 refused("the first account is an administrator",
         run(["user", "add", "first", "--name", "F", "--role", "preparer", "--database", new_db],
             b"first-password\n"), "role")
@@ -219,6 +293,8 @@ rc, out, err = run(["user", "add", "first", "--name", "F", "--role", "administra
                     "--database", new_db], b"first-password\n")
 case("the first administrator is added without --as", rc == 0, err)
 
+for db in pg_created:
+    psql(PG_URI, "COMMIT", "DROP DATABASE IF EXISTS %s WITH (FORCE)" % db, "BEGIN")
 if failures:
     print("%d failed: %s" % (len(failures), ", ".join(failures)))
     sys.exit(1)

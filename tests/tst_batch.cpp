@@ -97,6 +97,7 @@ QString expect_error(const std::function<void()>& f) {
 class TestBatch : public QObject {
     Q_OBJECT
   private slots:
+    void initTestCase() { PHASEPLAN_REQUIRE_BACKEND(); }
     void targetAmountsReproduceThePlan();
     void toleranceFlags_data();
     void toleranceFlags();
@@ -591,8 +592,8 @@ void TestBatch::historyIsAppendOnlyInTheDatabase() {
 
 // The app's database gets the batch tables from its migration steps; an older file is migrated.
 void TestBatch::migrationCreatesBatchTables() {
-    QTemporaryDir dir;
-    const QString path = dir.filePath("app.sqlite");
+    phaseplan::testing::TestDatabases dbs;
+    const QString path = dbs.fresh("app.sqlite");
     using phaseplan::storage::Database;
     int batch_version = 0;
     for (const auto& m : phaseplan::storage::migrations())
@@ -601,9 +602,7 @@ void TestBatch::migrationCreatesBatchTables() {
     QVERIFY(batch_version > 0);
     {
         Database old(path, batch_version - 1);
-        QCOMPARE(count_rows(old.connection(),
-                            "SELECT count(*) FROM sqlite_master WHERE name = 'batches'"),
-                 0);
+        QVERIFY(!phaseplan::storage::sql::table_exists(old.connection(), "batches"));
     }
     Database db(path);
     QCOMPARE(db.schema_version(), phaseplan::storage::latest_schema_version());
@@ -727,8 +726,8 @@ void TestBatch::measuredPhAgainstItsTolerance() {
 }
 
 void TestBatch::benchFieldsStoredAndMigratedFromV4() {
-    QTemporaryDir dir;
-    const QString path = dir.filePath("v4.sqlite");
+    phaseplan::testing::TestDatabases dbs;
+    const QString path = dbs.fresh("v4.sqlite");
     using phaseplan::storage::Database;
     {
         // A file at step 4 with a batch in it, written with step 4's columns only.

@@ -48,6 +48,7 @@ QString error_of(const std::function<void()>& f) {
 class TestBatchBounds : public QObject {
     Q_OBJECT
   private slots:
+    void initTestCase() { PHASEPLAN_REQUIRE_BACKEND(); }
     void oversizedRowIsRefusedByName();
     void listIsCutToTheNewest();
     void historyIsCut();
@@ -58,7 +59,7 @@ void TestBatchBounds::oversizedRowIsRefusedByName() {
     BatchStore store(t.db);
     store.create(demo_record("B-BIG-001"), "R. Okafor");
     store.create(demo_record("B-OK-001"), "R. Okafor");
-    t.exec("DROP TRIGGER batches_changes_recorded");
+    t.drop_trigger("batches_changes_recorded", "batches");
     t.exec(QStringLiteral("UPDATE batches SET comment = '%1' WHERE id = 'B-BIG-001'")
                .arg(QString(storage::max_record_text_chars + 1, QChar('x'))));
     const QString e = error_of([&] { (void)store.load("B-BIG-001"); });
@@ -74,7 +75,7 @@ void TestBatchBounds::listIsCutToTheNewest() {
     BatchStore store(t.db);
     store.create(demo_record("B-FIRST-001"), "R. Okafor");
     // More rows than the limit, written directly, all newer than the first.
-    t.exec("DROP TRIGGER batches_changes_recorded");
+    t.drop_trigger("batches_changes_recorded", "batches");
     t.exec(QStringLiteral(
                "WITH RECURSIVE n(i) AS (SELECT 1 UNION ALL SELECT i + 1 FROM n WHERE i < %1)"
                " INSERT INTO batches (id, document_kind, document, created_at, updated_at)"
@@ -95,7 +96,7 @@ void TestBatchBounds::historyIsCut() {
     TempDb t;
     BatchStore store(t.db);
     store.create(demo_record("B-HIST-001"), "R. Okafor");
-    t.exec("DROP TRIGGER batch_history_no_update");
+    t.drop_trigger("batch_history_no_update", "batch_history");
     t.exec(QStringLiteral("UPDATE batch_history SET reason = '%1'")
                .arg(QString(storage::max_record_text_chars + 500, QChar('r'))));
     t.exec(QStringLiteral(

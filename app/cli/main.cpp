@@ -94,7 +94,11 @@ int usage(std::FILE* to) {
                  "--database FILE;\n"
                  "             passwords are read from standard input or a prompt");
     std::fprintf(to, "  %-10s %s\n", "db",
-                 "demo --database NEW_FILE: a new database with the demo");
+                 "demo --database NEW_FILE: a new database with the demo;\n"
+                 "             copy --from FILE --to URI: a bench's file into an empty lab "
+                 "database;\n"
+                 "             every FILE above may be postgresql://user@host:port/dbname "
+                 "(password: ~/.pgpass)");
     return to == stdout ? 0 : 2;
 }
 

@@ -240,8 +240,10 @@ int run_app(QApplication& app) {
     parser.addHelpOption();
     parser.addVersionOption();
     QCommandLineOption database_opt(QStringLiteral("database"),
-                                    QStringLiteral("Use this SQLite file."),
-                                    QStringLiteral("FILE"));
+                                    QStringLiteral("Use this SQLite file, or the lab's PostgreSQL "
+                                                   "database: postgresql://user@host:port/dbname "
+                                                   "(the password comes from ~/.pgpass)."),
+                                    QStringLiteral("FILE|URI"));
     QCommandLineOption data_opt(QStringLiteral("data"), QStringLiteral("Reference data folder."),
                                 QStringLiteral("DIR"));
     QCommandLineOption screenshot_opt(

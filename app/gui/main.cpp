@@ -1,7 +1,8 @@
 // phaseplan: the Qt Quick app for the prep bench.
-//   phaseplan [--database FILE] [--data DIR]      run the app (first run opens the demo)
-//   phaseplan --no-demo [--database NEW_FILE]     a new database starts empty (the lab's first
-//                                                run: Prepare & record creates the administrator)
+//   phaseplan [--database FILE|URI] [--data DIR]  run the app (first run opens the demo); URI:
+//                                                 postgresql://user@host:port/dbname
+//   phaseplan --no-demo [--database NEW_FILE|URI] a new database starts empty (the lab's first
+//                                                 run: Prepare & record creates the administrator)
 //   phaseplan --screenshot DIR                   render every main screen in both orientations
 //                                                to DIR/<screen>-<orientation>.png and exit;
 //                                                status 1 on any QML warning or error

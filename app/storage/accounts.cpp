@@ -118,7 +118,7 @@ bool password_matches(const QString& hash, const QString& password) {
 AccountStore::AccountStore(QSqlDatabase db) : db_(db) {}
 
 QString AccountStore::now() const {
-    return clock_ ? clock_() : sql::utc_now();
+    return clock_ ? clock_() : sql::utc_now(db_);
 }
 
 bool AccountStore::any() const {

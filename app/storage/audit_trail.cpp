@@ -63,27 +63,28 @@ QStringList audit_schema_statements() {
     };
 }
 
-QStringList audit_guard_statements_sqlite() {
-    return {
-        "CREATE TRIGGER audit_log_no_update BEFORE UPDATE ON audit_log "
-        "BEGIN SELECT RAISE(ABORT, 'audit_log is append-only'); END",
-        "CREATE TRIGGER audit_log_no_delete BEFORE DELETE ON audit_log "
-        "BEGIN SELECT RAISE(ABORT, 'audit_log is append-only'); END",
-        "CREATE TRIGGER audit_anchor_no_delete BEFORE DELETE ON audit_anchor "
-        "BEGIN SELECT RAISE(ABORT, 'the audit anchor is never removed'); END",
-        "CREATE TRIGGER audit_anchor_steps BEFORE UPDATE ON audit_anchor "
-        "WHEN NEW.last_seq <> OLD.last_seq + 1 "
-        "BEGIN SELECT RAISE(ABORT, 'the audit anchor moves one entry at a time'); END",
-        "CREATE TRIGGER signatures_no_update BEFORE UPDATE ON signatures "
-        "BEGIN SELECT RAISE(ABORT, 'signatures are never changed'); END",
-        "CREATE TRIGGER signatures_no_delete BEFORE DELETE ON signatures "
-        "BEGIN SELECT RAISE(ABORT, 'signatures are never removed'); END",
-        "CREATE TRIGGER users_no_delete BEFORE DELETE ON users "
-        "BEGIN SELECT RAISE(ABORT, 'accounts are never removed (lock them)'); END",
-        "CREATE TRIGGER users_login_fixed BEFORE UPDATE ON users "
-        "WHEN NEW.login IS NOT OLD.login OR NEW.created_at IS NOT OLD.created_at "
-        "BEGIN SELECT RAISE(ABORT, 'an account keeps its login and creation time'); END",
+QStringList audit_guard_statements(sql::Dialect d) {
+    const sql::Guard guards[] = {
+        {"audit_log_no_update", "audit_log", "UPDATE", {}, "audit_log is append-only"},
+        {"audit_log_no_delete", "audit_log", "DELETE", {}, "audit_log is append-only"},
+        {"audit_anchor_no_delete",
+         "audit_anchor",
+         "DELETE",
+         {},
+         "the audit anchor is never removed"},
+        {"audit_anchor_steps", "audit_anchor", "UPDATE", "NEW.last_seq <> OLD.last_seq + 1",
+         "the audit anchor moves one entry at a time"},
+        {"signatures_no_update", "signatures", "UPDATE", {}, "signatures are never changed"},
+        {"signatures_no_delete", "signatures", "DELETE", {}, "signatures are never removed"},
+        {"users_no_delete", "users", "DELETE", {}, "accounts are never removed (lock them)"},
+        {"users_login_fixed", "users", "UPDATE",
+         "NEW.login IS NOT OLD.login OR NEW.created_at IS NOT OLD.created_at",
+         "an account keeps its login and creation time"},
     };
+    QStringList s;
+    for (const sql::Guard& g : guards)
+        s << sql::guard_statements(d, g);
+    return s;
 }
 
 QString audit_genesis_hash() {
@@ -135,7 +136,7 @@ AuditEntry append_audit(QSqlDatabase db, const QString& logged_at, const QString
         e.seq = 1;
         e.prev_hash = audit_genesis_hash();
     }
-    e.logged_at = logged_at.isEmpty() ? sql::utc_now() : logged_at;
+    e.logged_at = logged_at.isEmpty() ? sql::utc_now(db) : logged_at;
     e.login = login.trimmed();
     e.action = action;
     e.record_type = record_type;
@@ -353,7 +354,7 @@ QString audit_words(const AuditEntry& e) {
 }
 
 bool has_audit_schema(QSqlDatabase db) {
-    return db.tables().contains(QStringLiteral("audit_log"));
+    return sql::table_exists(db, QStringLiteral("audit_log"));
 }
 
 } // namespace phaseplan::storage

@@ -27,7 +27,9 @@
 //
 // The SQL is portable (TEXT, BIGINT, INTEGER, CHECK, PRIMARY KEY, REFERENCES): the same tables
 // serve a second back end. The triggers that refuse UPDATE and DELETE are written per dialect
-// (audit_guard_statements_sqlite()).
+// (audit_guard_statements(), storage/sql_dialect.h).
+#include "storage/sql_dialect.h"
+
 #include <QJsonObject>
 #include <QJsonValue>
 #include <QSqlDatabase>
@@ -41,9 +43,9 @@ namespace phaseplan::storage {
 
 /// Schema step 10: users, audit_log, audit_anchor and signatures (portable SQL).
 QStringList audit_schema_statements();
-/// Schema step 10, SQLite dialect: triggers that refuse UPDATE and DELETE on audit_log and
-/// signatures, DELETE on users and audit_anchor, and an anchor that moves other than by one.
-QStringList audit_guard_statements_sqlite();
+/// Schema step 10, in the back end's dialect: triggers that refuse UPDATE and DELETE on audit_log
+/// and signatures, DELETE on users and audit_anchor, and an anchor that moves other than by one.
+QStringList audit_guard_statements(sql::Dialect d);
 
 /// The hash before the first entry: 64 zeros.
 QString audit_genesis_hash();

@@ -225,8 +225,48 @@ BatchRecord record_from(const QSqlQuery& q) {
 
 } // namespace
 
-QStringList batch_schema_statements() {
+namespace {
+
+/// The columns whose change needs recorded history rows, as of each step (4, 6 and 8).
+const char* const step4_watched[] = {"document_kind",     "document",   "prepared_by",
+                                     "prepared_at",       "expires_at", "checked_by",
+                                     "tolerance_percent", "actual"};
+const char* const step6_watched[] = {"measured_ph",    "ph_tolerance", "ph_meter_id",
+                                     "balance_id",     "comment",      "container_ml",
+                                     "deviation_note", "deviation_by", "deviation_at"};
+
+/// A change of data needs the next revision and its history rows, written first; after printing
+/// those rows must be an amendment.
+sql::Guard changes_recorded(const QStringList& watched) {
+    QStringList changed;
+    for (const QString& c : watched)
+        changed << QStringLiteral("NEW.%1 IS NOT OLD.%1").arg(c);
     return {
+        "batches_changes_recorded", "batches", "UPDATE",
+        "(" + changed.join(" OR ") +
+            ")"
+            " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
+            "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
+            "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit'))))",
+        "unrecorded change of a batch (a printed batch needs an amendment)"};
+}
+
+QStringList watched_until(int step) {
+    QStringList w;
+    for (const char* c : step4_watched)
+        w << c;
+    if (step >= 6)
+        for (const char* c : step6_watched)
+            w << c;
+    if (step >= 8)
+        w << "measured_ph_capture";
+    return w;
+}
+
+} // namespace
+
+QStringList batch_schema_statements(sql::Dialect d) {
+    QStringList s = {
         // One row per batch. The data columns change only together with history rows.
         "CREATE TABLE batches ("
         " id TEXT PRIMARY KEY NOT NULL CHECK (length(id) > 0),"
@@ -236,7 +276,7 @@ QStringList batch_schema_statements() {
         " prepared_at TEXT NOT NULL DEFAULT '',"
         " expires_at TEXT NOT NULL DEFAULT '',"
         " checked_by TEXT NOT NULL DEFAULT '',"
-        " tolerance_percent REAL NOT NULL DEFAULT 2 CHECK (tolerance_percent > 0 AND "
+        " tolerance_percent {real} NOT NULL DEFAULT 2 CHECK (tolerance_percent > 0 AND "
         "tolerance_percent <= 50),"
         " actual TEXT NOT NULL DEFAULT '[]' CHECK (json_valid(actual)),"
         " revision INTEGER NOT NULL DEFAULT 1 CHECK (revision >= 1),"
@@ -247,7 +287,7 @@ QStringList batch_schema_statements() {
         "CREATE INDEX batches_updated ON batches (updated_at)",
         // Append-only: who changed what, when, from which value to which.
         "CREATE TABLE batch_history ("
-        " seq INTEGER PRIMARY KEY AUTOINCREMENT,"
+        " seq {autoinc_pk},"
         " batch_id TEXT NOT NULL REFERENCES batches (id),"
         " revision INTEGER NOT NULL,"
         " at TEXT NOT NULL,"
@@ -259,93 +299,52 @@ QStringList batch_schema_statements() {
         " reason TEXT NOT NULL DEFAULT '',"
         " CHECK (action <> 'amend' OR length(reason) > 0))",
         "CREATE INDEX batch_history_batch ON batch_history (batch_id, seq)",
-        "CREATE TRIGGER batch_history_no_update BEFORE UPDATE ON batch_history "
-        "BEGIN SELECT RAISE(ABORT, 'batch_history is append-only'); END",
-        "CREATE TRIGGER batch_history_no_delete BEFORE DELETE ON batch_history "
-        "BEGIN SELECT RAISE(ABORT, 'batch_history is append-only'); END",
-        "CREATE TRIGGER batches_no_delete BEFORE DELETE ON batches "
-        "BEGIN SELECT RAISE(ABORT, 'batches are never deleted'); END",
-        "CREATE TRIGGER batches_fixed BEFORE UPDATE ON batches "
-        "WHEN NEW.id IS NOT OLD.id OR NEW.created_at IS NOT OLD.created_at"
-        " OR NEW.printed_count < OLD.printed_count OR NEW.revision < OLD.revision "
-        "BEGIN SELECT RAISE(ABORT, 'a batch keeps its id, creation time, revisions and prints'); "
-        "END",
-        // A change of data needs the next revision and its history rows, written first; after
-        // printing those rows must be an amendment.
-        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
-        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
-        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
-        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
-        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual)"
-        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
-        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
-        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
-        "amendment)'); END",
     };
+    for (QString& x : s)
+        x = sql::render_ddl(d, x);
+    const sql::Guard guards[] = {
+        {"batch_history_no_update", "batch_history", "UPDATE", {}, "batch_history is append-only"},
+        {"batch_history_no_delete", "batch_history", "DELETE", {}, "batch_history is append-only"},
+        {"batches_no_delete", "batches", "DELETE", {}, "batches are never deleted"},
+        {"batches_fixed", "batches", "UPDATE",
+         "NEW.id IS NOT OLD.id OR NEW.created_at IS NOT OLD.created_at"
+         " OR NEW.printed_count < OLD.printed_count OR NEW.revision < OLD.revision",
+         "a batch keeps its id, creation time, revisions and prints"},
+        changes_recorded(watched_until(4)),
+    };
+    for (const sql::Guard& g : guards)
+        s << sql::guard_statements(d, g);
+    return s;
 }
 
-QStringList batch_schema_bench_statements() {
+QStringList batch_schema_bench_statements(sql::Dialect d) {
     QStringList s;
     for (const char* col : {
-             "measured_ph REAL CHECK (measured_ph IS NULL OR (measured_ph >= 0 AND measured_ph <= "
-             "14))",
-             "ph_tolerance REAL NOT NULL DEFAULT 0.05 CHECK (ph_tolerance > 0 AND ph_tolerance <= "
-             "2)",
+             "measured_ph {real} CHECK (measured_ph IS NULL OR (measured_ph >= 0 AND measured_ph "
+             "<= 14))",
+             "ph_tolerance {real} NOT NULL DEFAULT 0.05 CHECK (ph_tolerance > 0 AND ph_tolerance "
+             "<= 2)",
              "ph_meter_id TEXT NOT NULL DEFAULT ''",
              "balance_id TEXT NOT NULL DEFAULT ''",
              "comment TEXT NOT NULL DEFAULT ''",
-             "container_ml REAL CHECK (container_ml IS NULL OR container_ml > 0)",
+             "container_ml {real} CHECK (container_ml IS NULL OR container_ml > 0)",
              "deviation_note TEXT NOT NULL DEFAULT ''",
              "deviation_by TEXT NOT NULL DEFAULT ''",
              "deviation_at TEXT NOT NULL DEFAULT ''",
          })
-        s << QStringLiteral("ALTER TABLE batches ADD COLUMN %1").arg(QLatin1String(col));
-    s << QStringLiteral("DROP TRIGGER batches_changes_recorded");
-    s << QStringLiteral(
-        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
-        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
-        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
-        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
-        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual"
-        " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
-        " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
-        " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
-        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT "
-        "OLD.deviation_by"
-        " OR NEW.deviation_at IS NOT OLD.deviation_at)"
-        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
-        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
-        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
-        "amendment)'); END");
+        s << sql::render_ddl(d, QStringLiteral("ALTER TABLE batches ADD COLUMN %1").arg(col));
+    s << sql::drop_guard_statements(d, "batches_changes_recorded", "batches");
+    s << sql::guard_statements(d, changes_recorded(watched_until(6)));
     return s;
 }
 
-QStringList batch_schema_capture_statements() {
+QStringList batch_schema_capture_statements(sql::Dialect d) {
     QStringList s;
     s << QStringLiteral(
         "ALTER TABLE batches ADD COLUMN measured_ph_capture TEXT NOT NULL DEFAULT '{}'"
         " CHECK (json_valid(measured_ph_capture))");
-    s << QStringLiteral("DROP TRIGGER batches_changes_recorded");
-    s << QStringLiteral(
-        "CREATE TRIGGER batches_changes_recorded BEFORE UPDATE ON batches "
-        "WHEN (NEW.document_kind IS NOT OLD.document_kind OR NEW.document IS NOT OLD.document"
-        " OR NEW.prepared_by IS NOT OLD.prepared_by OR NEW.prepared_at IS NOT OLD.prepared_at"
-        " OR NEW.expires_at IS NOT OLD.expires_at OR NEW.checked_by IS NOT OLD.checked_by"
-        " OR NEW.tolerance_percent IS NOT OLD.tolerance_percent OR NEW.actual IS NOT OLD.actual"
-        " OR NEW.measured_ph IS NOT OLD.measured_ph OR NEW.ph_tolerance IS NOT OLD.ph_tolerance"
-        " OR NEW.ph_meter_id IS NOT OLD.ph_meter_id OR NEW.balance_id IS NOT OLD.balance_id"
-        " OR NEW.comment IS NOT OLD.comment OR NEW.container_ml IS NOT OLD.container_ml"
-        " OR NEW.deviation_note IS NOT OLD.deviation_note OR NEW.deviation_by IS NOT "
-        "OLD.deviation_by"
-        " OR NEW.deviation_at IS NOT OLD.deviation_at"
-        " OR NEW.measured_ph_capture IS NOT OLD.measured_ph_capture)"
-        " AND (NEW.revision <> OLD.revision + 1 OR NOT EXISTS (SELECT 1 FROM batch_history h"
-        "  WHERE h.batch_id = NEW.id AND h.revision = NEW.revision"
-        "  AND (h.action = 'amend' OR (OLD.printed_count = 0 AND h.action = 'edit')))) "
-        "BEGIN SELECT RAISE(ABORT, 'unrecorded change of a batch (a printed batch needs an "
-        "amendment)'); END");
+    s << sql::drop_guard_statements(d, "batches_changes_recorded", "batches");
+    s << sql::guard_statements(d, changes_recorded(watched_until(8)));
     return s;
 }
 
@@ -466,50 +465,36 @@ BatchRecord BatchRecord::from_input(const QJsonObject& input) {
 BatchStore::BatchStore(QSqlDatabase db) : db_(db) {}
 
 void BatchStore::ensure_schema(QSqlDatabase db) {
-    bool present = false;
-    {
-        QSqlQuery q =
-            run(db, "SELECT count(*) FROM sqlite_master WHERE type = 'table' AND name = 'batches'");
-        present = q.next() && q.value(0).toInt() > 0;
-    }
-    bool bench = false;
-    if (present) {
-        QSqlQuery q =
-            run(db, "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph'");
-        bench = q.next() && q.value(0).toInt() > 0;
-    }
-    bool capture = false;
-    if (bench) {
-        QSqlQuery q = run(
-            db,
-            "SELECT count(*) FROM pragma_table_info('batches') WHERE name = 'measured_ph_capture'");
-        capture = q.next() && q.value(0).toInt() > 0;
-    }
+    const sql::Dialect d = sql::dialect_of(db);
+    const bool present = sql::table_exists(db, "batches");
+    const bool bench = present && sql::column_exists(db, "batches", "measured_ph");
+    const bool capture = bench && sql::column_exists(db, "batches", "measured_ph_capture");
     const bool audit = has_audit_schema(db);
     if (present && bench && capture && audit)
         return;
     Transaction tx(db);
     if (!present)
-        for (const QString& s : batch_schema_statements())
+        for (const QString& s : sql::json_function_statements(d) + batch_schema_statements(d))
             run(db, s);
     if (!bench)
-        for (const QString& s : batch_schema_bench_statements())
+        for (const QString& s : batch_schema_bench_statements(d))
             run(db, s);
     if (!capture)
-        for (const QString& s : batch_schema_capture_statements())
+        for (const QString& s : batch_schema_capture_statements(d))
             run(db, s);
     if (!audit) {
         for (const QString& s : audit_schema_statements())
             run(db, s);
-        for (const QString& s : audit_guard_statements_sqlite())
+        for (const QString& s : audit_guard_statements(d))
             run(db, s);
     }
     tx.commit();
 }
 
 QString BatchStore::now() const {
-    const QDateTime t = clock_ ? clock_() : QDateTime::currentDateTimeUtc();
-    return t.toUTC().toString(Qt::ISODateWithMs);
+    if (!clock_)
+        return sql::utc_now(db_); // the server's clock on PostgreSQL
+    return clock_().toUTC().toString(Qt::ISODateWithMs);
 }
 
 void BatchStore::create(const BatchRecord& batch, const QString& who) {
@@ -750,7 +735,7 @@ std::vector<HistoryEntry> BatchStore::history(const QString& id) const {
         QStringLiteral("SELECT seq, batch_id, revision, at, substr(who, 1, %1), action,"
                        " substr(field, 1, %1), substr(old_value, 1, %1), substr(new_value, 1, %1),"
                        " substr(reason, 1, %1) FROM (SELECT * FROM batch_history WHERE batch_id = ?"
-                       " ORDER BY seq DESC LIMIT %2) ORDER BY seq")
+                       " ORDER BY seq DESC LIMIT %2) AS recent ORDER BY seq")
             .arg(QString::number(max_record_text_chars), QString::number(max_record_array_items)),
         {id});
     std::vector<HistoryEntry> out;

@@ -1,6 +1,7 @@
 #pragma once
-// Batches in SQLite: one row per batch (the document it was made from, who, when, the actual
-// amounts) and an append-only history of every change (who, when, field, old value, new value).
+// Batches in the lab's database (SQLite or PostgreSQL, storage/sql_dialect.h): one row per batch
+// (the document it was made from, who, when, the actual amounts) and an append-only history of
+// every change (who, when, field, old value, new value).
 //
 // Rules, enforced here and again by triggers in the database so that no other code path can
 // break them:
@@ -18,6 +19,8 @@
 // The tables come from migration step batch_schema_version in app/storage/migrations.cpp
 // (batch_schema_statements()); BatchStore::ensure_schema creates them on a bare connection
 // (tests, tools). Every write is one transaction (BEGIN IMMEDIATE … COMMIT).
+#include "storage/sql_dialect.h"
+
 #include <QDateTime>
 #include <QJsonArray>
 #include <QJsonObject>
@@ -34,15 +37,16 @@
 
 namespace phaseplan::storage {
 
-/// The SQL that creates the batch tables, indexes and triggers, in order (migration step 4).
-QStringList batch_schema_statements();
+/// The SQL that creates the batch tables, indexes and triggers, in order (migration step 4), in
+/// the back end's dialect (storage/sql_dialect.h).
+QStringList batch_schema_statements(sql::Dialect d = sql::Dialect::sqlite);
 /// Step 6: the bench record's columns (measured pH, pH tolerance, pH meter, balance, comment,
 /// container, deviation note/by/at) and the change trigger re-created to watch them too.
-QStringList batch_schema_bench_statements();
+QStringList batch_schema_bench_statements(sql::Dialect d = sql::Dialect::sqlite);
 
 /// Step 7: the pH meter's capture record (measured_ph_capture, JSON) and the change trigger
 /// re-created to watch it. A captured amount keeps its record inside `actual` ("capture").
-QStringList batch_schema_capture_statements();
+QStringList batch_schema_capture_statements(sql::Dialect d = sql::Dialect::sqlite);
 
 /// One batch as stored. The batch fields are those of the "batch" object of the CLI contract.
 struct BatchRecord {

@@ -1,5 +1,7 @@
 #include "storage/database.h"
 
+#include "storage/sql_dialect.h"
+
 #include <QAtomicInt>
 #include <QCryptographicHash>
 #include <QDir>
@@ -37,10 +39,6 @@ const char* table_of(DocumentKind kind) {
         return "sequences";
     }
     return "buffers";
-}
-
-QString now_utc() {
-    return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
 }
 
 QDateTime parse_time(const QString& s) {
@@ -251,11 +249,15 @@ Database::Database(const QString& path, int target_version, Seed seed)
     : path_(path), connection_name_(unique_connection_name()) {
     if (path.isEmpty())
         fail(QStringLiteral("no database file given"));
+    if (target_version < 0 || target_version > latest_schema_version())
+        target_version = latest_schema_version();
+    if (sql::is_postgresql_uri(path)) {
+        open_postgresql(target_version, seed);
+        return;
+    }
     QFileInfo fi(path);
     if (!QDir().mkpath(fi.absolutePath()))
         fail(QStringLiteral("cannot create the folder ") + quoted(fi.absolutePath()));
-    if (target_version < 0 || target_version > latest_schema_version())
-        target_version = latest_schema_version();
     if (!fi.exists() && !fi.isSymLink())
         create_new(target_version, seed);
     check_is_phaseplan_file(path_);
@@ -299,6 +301,60 @@ void Database::open_connection(const QString& file, bool read_only) {
         const QString why = db_.lastError().text();
         close_connection();
         fail(QStringLiteral("cannot open ") + quoted(file) + QStringLiteral(": ") + why);
+    }
+}
+
+void Database::refuse_foreign_postgresql() const {
+    const sql::PgLocation loc = sql::parse_postgresql_uri(path_);
+    // A database holding other tables and no PhasePlan schema is another program's.
+    const qint64 app_id = sql::application_id(db_);
+    if (app_id >= 0 && app_id != phaseplan_application_id && app_id != 0)
+        fail(QStringLiteral("the database \"%1\" at %2 is another program's (application id "
+                            "%3); PhasePlan left it unchanged")
+                 .arg(loc.dbname.left(64), loc.where(), QString::number(app_id)));
+    if (app_id >= 0)
+        return;
+    QSqlQuery q = exec(QStringLiteral("SELECT table_name FROM information_schema.tables"
+                                      " WHERE table_schema = current_schema()"
+                                      " ORDER BY table_name LIMIT 6"));
+    QStringList tables;
+    while (q.next())
+        tables << q.value(0).toString();
+    if (!tables.isEmpty())
+        fail(QStringLiteral("the database \"%1\" at %2 holds another program's tables "
+                            "(%3) and no PhasePlan schema; PhasePlan left it unchanged."
+                            " Give an empty database in the address.")
+                 .arg(loc.dbname.left(64), loc.where(),
+                      tables.mid(0, 5).join(QStringLiteral(", "))));
+}
+
+void Database::open_postgresql(int target_version, const Seed& seed) {
+    dialect_ = sql::Dialect::postgresql;
+    const sql::PgLocation loc = sql::parse_postgresql_uri(path_);
+    db_ = sql::open_postgresql(loc, connection_name_, false);
+    try {
+        QSqlQuery ro = exec(QStringLiteral("SHOW transaction_read_only"));
+        if (ro.next() && ro.value(0).toString() == QLatin1String("on"))
+            read_only_reason_ =
+                QStringLiteral("the lab database at %1 is read-only (a standby server): nothing "
+                               "you change is saved. Ask whoever manages the server.")
+                    .arg(loc.where());
+        if (writable()) {
+            // The foreign-database check runs under the writers' lock, inside migrate(): a first
+            // run that is creating the schema right now is either done or not started.
+            migrate(target_version, seed);
+            set_aside_oversized();
+        } else {
+            refuse_foreign_postgresql();
+            if (schema_version() > latest_schema_version())
+                fail(QStringLiteral("the lab database at %1 has schema version %2, newer than "
+                                    "this program's %3: use a newer PhasePlan")
+                         .arg(loc.where(), QString::number(schema_version()),
+                              QString::number(latest_schema_version())));
+        }
+    } catch (...) {
+        close_connection();
+        throw;
     }
 }
 
@@ -382,11 +438,17 @@ Database::~Database() {
 
 QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const {
     QSqlQuery q(db_);
+    if (dialect_ == sql::Dialect::postgresql && bindings.isEmpty()) {
+        // PostgreSQL prepares only SELECT, INSERT, UPDATE and DELETE: a statement without values
+        // (DDL, BEGIN, SAVEPOINT) runs as it is. Values are always bound.
+        if (!q.exec(sql))
+            fail(sql::failure_sentence(q.lastError()));
+        return q;
+    }
     if (!q.prepare(sql)) {
         if (is_busy(q.lastError()))
             fail(locked_reason(path_));
-        fail(QStringLiteral("cannot prepare \"") + sql.left(80) + QStringLiteral("\": ") +
-             q.lastError().text());
+        fail(sql::failure_sentence(q.lastError()));
     }
     for (const QVariant& b : bindings)
         q.addBindValue(b);
@@ -395,8 +457,7 @@ QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const
             fail(locked_reason(path_));
         if (is_read_only(q.lastError()))
             fail(read_only_text(path_));
-        fail(QStringLiteral("\"") + sql.left(80) + QStringLiteral("\" failed: ") +
-             q.lastError().text());
+        fail(sql::failure_sentence(q.lastError()));
     }
     return q;
 }
@@ -433,11 +494,12 @@ void Database::probe_writable() {
 }
 
 int Database::schema_version() const {
-    QSqlQuery q = exec(QStringLiteral("PRAGMA user_version"));
-    return q.next() ? q.value(0).toInt() : 0;
+    return sql::schema_version(db_);
 }
 
 QString Database::journal_mode() const {
+    if (is_postgresql())
+        return {};
     QSqlQuery q = exec(QStringLiteral("PRAGMA journal_mode"));
     return q.next() ? q.value(0).toString().toLower() : QString();
 }
@@ -449,7 +511,12 @@ void Database::migrate(int target_version, const Seed& seed) {
     // The version is read under the write lock: a second program starting at the same moment
     // waits here and then sees the finished schema.
     Transaction t(*this);
+    if (is_postgresql())
+        refuse_foreign_postgresql();
     int version = schema_version();
+    // PostgreSQL: the database is new when nobody gave it a schema yet (read under the lock, so
+    // of two first runs only one seeds).
+    const bool fresh = version == 0;
     if (version > latest)
         fail(quoted(path_) +
              QStringLiteral(" has schema version %1, newer than this program's %2: use a "
@@ -459,13 +526,14 @@ void Database::migrate(int target_version, const Seed& seed) {
         if (step.version <= version || step.version > target_version)
             continue;
         step.apply(*this);
-        exec(QStringLiteral("PRAGMA user_version = %1").arg(step.version));
+        sql::set_schema_version(db_, step.version);
         version = step.version;
     }
-    QSqlQuery id = exec(QStringLiteral("PRAGMA application_id"));
-    if (!id.next() || id.value(0).toLongLong() != phaseplan_application_id)
-        exec(QStringLiteral("PRAGMA application_id = %1").arg(phaseplan_application_id));
-    if (seed)
+    if (sql::application_id(db_) != phaseplan_application_id)
+        sql::set_application_id(db_, phaseplan_application_id);
+    if (is_postgresql() && fresh)
+        created_ = true;
+    if (seed && (!is_postgresql() || fresh))
         seed(*this);
     t.commit(); // nothing written when the file was up to date: no sync at an ordinary start
 }
@@ -484,7 +552,7 @@ std::optional<QString> Database::bounded(const QString& source, const QString& n
 }
 
 void Database::set_aside_oversized() {
-    if (!db_.tables().contains(QStringLiteral("set_aside")))
+    if (!sql::table_exists(db_, QStringLiteral("set_aside")))
         return; // an old schema built by a test
     struct Found {
         QString table, key_column, name, reason;
@@ -510,7 +578,7 @@ void Database::set_aside_oversized() {
     for (DocumentKind k : all_document_kinds)
         scan(QLatin1String(table_of(k)), QStringLiteral("name"), QStringLiteral("document"));
     scan(QStringLiteral("settings"), QStringLiteral("key"), QStringLiteral("value"));
-    if (db_.tables().contains(QStringLiteral("columns")))
+    if (sql::table_exists(db_, QStringLiteral("columns")))
         scan(QStringLiteral("columns"), QStringLiteral("name"), QStringLiteral("document"));
     if (found.empty())
         return;
@@ -521,7 +589,7 @@ void Database::set_aside_oversized() {
         exec(QStringLiteral("INSERT INTO set_aside (source, name, content, reason, set_aside_at)"
                             " SELECT ?, %1, %2, ?, ? FROM %3 WHERE %1 = ?")
                  .arg(f.key_column, value, f.table),
-             {f.table, f.reason, now_utc(), f.name});
+             {f.table, f.reason, sql::utc_now(db_), f.name});
         exec(QStringLiteral("DELETE FROM %1 WHERE %2 = ?").arg(f.table, f.key_column), {f.name});
     }
     t.commit();
@@ -534,15 +602,20 @@ void Database::set_aside_oversized() {
 Database::Transaction::Transaction(Database& db) : db_(db) {
     if (!db_.writable())
         throw chem::Error("database", db_.read_only_reason_.toStdString());
-    depth_ = db_.transaction_depth_ + 1;
+    // The connection's depth, shared with sql::WriteTransaction (a store's write inside this one
+    // nests as a savepoint, and this one inside a store's too).
+    depth_ = std::max(db_.transaction_depth_, sql::transaction_depth(db_.db_)) + 1;
     // IMMEDIATE takes the write lock now, so a second writer waits (busy_timeout) instead of
     // failing half-way through. Inside another transaction (the seed inside the creating one) it
     // is a savepoint.
+    // PostgreSQL: BEGIN and the writers' advisory lock (sql::begin_write).
     if (depth_ == 1)
-        db_.exec(QStringLiteral("BEGIN IMMEDIATE"));
+        for (const QString& s : sql::begin_write(db_.dialect_))
+            db_.exec(s);
     else
         db_.exec(QStringLiteral("SAVEPOINT nested_%1").arg(depth_));
     db_.transaction_depth_ = depth_;
+    sql::set_transaction_depth(db_.db_, depth_);
 }
 
 Database::Transaction::~Transaction() {
@@ -552,10 +625,11 @@ Database::Transaction::~Transaction() {
     if (depth_ == 1)
         q.exec(QStringLiteral("ROLLBACK"));
     else {
-        q.exec(QStringLiteral("ROLLBACK TO nested_%1").arg(depth_));
-        q.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
+        q.exec(QStringLiteral("ROLLBACK TO SAVEPOINT nested_%1").arg(depth_));
+        q.exec(QStringLiteral("RELEASE SAVEPOINT nested_%1").arg(depth_));
     }
     db_.transaction_depth_ = depth_ - 1;
+    sql::set_transaction_depth(db_.db_, depth_ - 1);
 }
 
 void Database::Transaction::commit() {
@@ -564,10 +638,11 @@ void Database::Transaction::commit() {
             db_.before_commit_();
         db_.exec(QStringLiteral("COMMIT"));
     } else {
-        db_.exec(QStringLiteral("RELEASE nested_%1").arg(depth_));
+        db_.exec(QStringLiteral("RELEASE SAVEPOINT nested_%1").arg(depth_));
     }
     done_ = true;
     db_.transaction_depth_ = depth_ - 1;
+    sql::set_transaction_depth(db_.db_, depth_ - 1);
 }
 
 // ---- saved work -----------------------------------------------------------------------------
@@ -594,8 +669,8 @@ void Database::save(DocumentKind kind, const QString& name, const QJsonObject& d
 }
 
 void Database::save_all(const std::vector<SavedDocument>& documents) {
-    const QString now = now_utc();
     Transaction t(*this);
+    const QString now = sql::utc_now(db_);
     for (const SavedDocument& d : documents)
         upsert_document(d, now);
     t.commit();
@@ -669,7 +744,7 @@ bool Database::rename(DocumentKind kind, const QString& old_name, const QString&
                                       kind_name(kind).toStdString());
     QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ? WHERE name = ?")
                            .arg(QLatin1String(table_of(kind))),
-                       {to, now_utc(), old_name.trimmed()});
+                       {to, sql::utc_now(db_), old_name.trimmed()});
     const bool renamed = q.numRowsAffected() > 0;
     t.commit();
     return renamed;
@@ -727,8 +802,9 @@ bool Database::sync_shipped_file(const QString& file_name, const QByteArray& con
                 continue;
             const QJsonObject entry = v.toObject();
             exec(
-                QStringLiteral("INSERT OR REPLACE INTO library_shipped (kind, id, file, document)"
-                               " VALUES (?, ?, ?, ?)"),
+                QStringLiteral("INSERT INTO library_shipped (kind, id, file, document)"
+                               " VALUES (?, ?, ?, ?) ON CONFLICT (kind, id) DO UPDATE SET"
+                               " file = excluded.file, document = excluded.document"),
                 {it.key(), entry.value(QLatin1String("id")).toString(), file_name, to_text(entry)});
         }
     }
@@ -736,7 +812,7 @@ bool Database::sync_shipped_file(const QString& file_name, const QByteArray& con
              "INSERT INTO library_files (file, sha256, content, seeded_at) VALUES (?, ?, ?, ?)"
              " ON CONFLICT (file) DO UPDATE SET sha256 = excluded.sha256,"
              " content = excluded.content, seeded_at = excluded.seeded_at"),
-         {file_name, hash, content, now_utc()});
+         {file_name, hash, content, sql::utc_now(db_)});
     t.commit();
     return true;
 }
@@ -756,8 +832,8 @@ void Database::save_user_entry(const QString& kind, const QJsonObject& document,
         throw chem::Error("source",
                           "say where the numbers of \"" + id.toStdString() +
                               "\" come from (a citation, a certificate, \"lab measurement\")");
-    const QString now = now_utc();
     Transaction t(*this);
+    const QString now = sql::utc_now(db_);
     exec(QStringLiteral(
              "INSERT INTO library_user (kind, id, document, source, created_at, updated_at)"
              " VALUES (?, ?, ?, ?, ?, ?)"

@@ -1,5 +1,6 @@
 #pragma once
-// The lab's own work in one SQLite file (Qt SQL, QSQLITE driver): saved buffers, lines, methods
+// The lab's own work in one SQLite file (Qt SQL, QSQLITE driver), or in the lab's PostgreSQL
+// database (QPSQL, given as postgresql://user@host:port/dbname): saved buffers, lines, methods
 // and sequences as the JSON documents of the command-line contract, the app's settings, and the
 // library (the entries shipped in data/ and, kept apart, the lab's own entries that win on lookup).
 //
@@ -11,6 +12,7 @@
 // Errors: everything here throws chem::Error. The field is "database" for the file itself
 // (cannot open, newer schema, SQL failure) and the document's name or id for bad arguments.
 #include "chem/error.h"
+#include "storage/sql_dialect.h"
 
 #include <QDateTime>
 #include <QJsonObject>
@@ -104,6 +106,12 @@ class Database {
     /// and read_only_reason() says why, with the path.
     /// Throws chem::Error("database", …) when the file cannot be opened, is not PhasePlan's, or has
     /// a schema newer than this program knows.
+    ///
+    /// `path` may instead be a PostgreSQL URI (postgresql://user@host:port/dbname, or
+    /// postgresql://user@/dbname?host=/socket/dir; sql::parse_postgresql_uri). The password comes
+    /// from ~/.pgpass or PGPASSWORD, never from the URI. An empty database gets the schema and
+    /// `seed` in one transaction (created() is true); one holding other tables but no PhasePlan
+    /// schema is refused and left unchanged. Migrations run under the writers' advisory lock.
     explicit Database(const QString& path, int target_version = -1, Seed seed = {});
     ~Database();
     Database(const Database&) = delete;
@@ -112,7 +120,11 @@ class Database {
     /// <AppDataLocation>/phaseplan.sqlite (e.g. ~/.local/share/PhasePlan/phaseplan.sqlite).
     static QString default_path();
 
+    /// The file, or the PostgreSQL URI as given.
     QString path() const { return path_; }
+    /// The back end: SQLite or PostgreSQL.
+    sql::Dialect dialect() const { return dialect_; }
+    bool is_postgresql() const { return dialect_ == sql::Dialect::postgresql; }
     /// True when this constructor created the file (and ran the seed).
     bool created() const { return created_; }
     /// False when the file is read-only or locked by another program: every write throws.
@@ -121,9 +133,9 @@ class Database {
     QString read_only_reason() const { return read_only_reason_; }
     /// Records over the read-back limits, set aside at open or skipped when read.
     const std::vector<SetAsideRecord>& set_aside() const { return set_aside_; }
-    /// PRAGMA user_version of the open file.
+    /// PRAGMA user_version of the open file (PostgreSQL: phaseplan_schema.version).
     int schema_version() const;
-    /// PRAGMA journal_mode ("wal").
+    /// PRAGMA journal_mode ("wal"); empty on PostgreSQL.
     QString journal_mode() const;
     /// The connection, for code that adds its own tables through a migration step (batches).
     /// Use Transaction around every write.
@@ -197,9 +209,14 @@ class Database {
     /// Runs one statement with positional bindings; throws chem::Error("database", …) naming the
     /// SQL and the driver's message. Returns the executed query for reading rows.
     QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
+    /// Runs a schema statement with the type tokens of sql::render_ddl filled in for this back end.
+    void exec_ddl(const QString& ddl) { exec(sql::render_ddl(dialect_, ddl)); }
 
   private:
     void open_connection(const QString& file, bool read_only);
+    void open_postgresql(int target_version, const Seed& seed);
+    /// Throws when the PostgreSQL database holds another program's tables (or application id).
+    void refuse_foreign_postgresql() const;
     void close_connection();
     void configure();
     void probe_writable();
@@ -213,6 +230,7 @@ class Database {
     std::vector<DocumentInfo> list_where(DocumentKind kind) const;
 
     QString path_;
+    sql::Dialect dialect_ = sql::Dialect::sqlite;
     QString connection_name_;
     QSqlDatabase db_;
     std::function<void()> before_commit_;

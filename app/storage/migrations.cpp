@@ -83,6 +83,9 @@ const std::vector<Migration>& migrations() {
     static const std::vector<Migration> steps = {
         {1, "saved buffers, lines, methods, sequences; settings",
          [](Database& db) {
+             // PostgreSQL: json_valid() for the CHECKs below and in later steps.
+             for (const QString& sql : sql::json_function_statements(db.dialect()))
+                 db.exec(sql);
              for (const char* t : {"buffers", "lines", "methods", "sequences"})
                  create_document_table(db, t);
              db.exec("CREATE TABLE settings (key TEXT PRIMARY KEY NOT NULL, value TEXT NOT NULL)");
@@ -90,9 +93,9 @@ const std::vector<Migration>& migrations() {
         {2, "library: shipped files and entries, the lab's own entries kept apart",
          [](Database& db) {
              // The content of each data/ file as last seeded, to notice an update of data/.
-             db.exec("CREATE TABLE library_files ("
-                     " file TEXT PRIMARY KEY NOT NULL, sha256 TEXT NOT NULL,"
-                     " content BLOB NOT NULL, seeded_at TEXT NOT NULL)");
+             db.exec_ddl("CREATE TABLE library_files ("
+                         " file TEXT PRIMARY KEY NOT NULL, sha256 TEXT NOT NULL,"
+                         " content {blob} NOT NULL, seeded_at TEXT NOT NULL)");
              // Replaced wholesale from data/ on an update.
              db.exec("CREATE TABLE library_shipped ("
                      " kind TEXT NOT NULL, id TEXT NOT NULL, file TEXT NOT NULL,"
@@ -117,7 +120,7 @@ const std::vector<Migration>& migrations() {
          }},
         {4, "batches and their append-only history (app/storage/batch_store.h)",
          [](Database& db) {
-             for (const QString& sql : batch_schema_statements())
+             for (const QString& sql : batch_schema_statements(db.dialect()))
                  db.exec(sql);
          }},
         {5, "the lab's balances and pH meters (app/devices/device_store.h)",
@@ -143,20 +146,21 @@ const std::vector<Migration>& migrations() {
          "batch record at the bench: measured pH and its tolerance, pH meter, balance, comment, "
          "container, deviation note with who and when",
          [](Database& db) {
-             for (const QString& sql : batch_schema_bench_statements())
+             for (const QString& sql : batch_schema_bench_statements(db.dialect()))
                  db.exec(sql);
          }},
         {7, "records over the read-back limits, set aside at open and named (never replayed)",
          [](Database& db) {
-             db.exec("CREATE TABLE set_aside ("
-                     " id INTEGER PRIMARY KEY, source TEXT NOT NULL, name TEXT NOT NULL,"
-                     " content TEXT NOT NULL, reason TEXT NOT NULL, set_aside_at TEXT NOT NULL)");
+             db.exec_ddl(
+                 "CREATE TABLE set_aside ("
+                 " id {rowid_pk}, source TEXT NOT NULL, name TEXT NOT NULL,"
+                 " content TEXT NOT NULL, reason TEXT NOT NULL, set_aside_at TEXT NOT NULL)");
          }},
         {8,
          "values taken from the instruments: the pH meter's capture record (the balance's is kept "
          "with each actual amount)",
          [](Database& db) {
-             for (const QString& sql : batch_schema_capture_statements())
+             for (const QString& sql : batch_schema_capture_statements(db.dialect()))
                  db.exec(sql);
          }},
         {9,
@@ -165,11 +169,11 @@ const std::vector<Migration>& migrations() {
          [](Database& db) {
              // document: {"length_mm", "id_mm", "particle_um", "porosity"?, "max_pressure_bar"?,
              // "ph_min"?, "ph_max"?, "temperature_c"?, "reference"?} as the CLI reads a column.
-             db.exec("CREATE TABLE columns ("
-                     " id INTEGER PRIMARY KEY,"
-                     " name TEXT NOT NULL UNIQUE CHECK (length(name) > 0),"
-                     " document TEXT NOT NULL CHECK (json_valid(document)),"
-                     " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
+             db.exec_ddl("CREATE TABLE columns ("
+                         " id {rowid_pk},"
+                         " name TEXT NOT NULL UNIQUE CHECK (length(name) > 0),"
+                         " document TEXT NOT NULL CHECK (json_valid(document)),"
+                         " created_at TEXT NOT NULL, updated_at TEXT NOT NULL)");
          }},
         {10,
          "people and roles, the hash-chained audit trail, electronic signatures "
@@ -178,7 +182,7 @@ const std::vector<Migration>& migrations() {
          [](Database& db) {
              for (const QString& sql : audit_schema_statements())
                  db.exec(sql);
-             for (const QString& sql : audit_guard_statements_sqlite())
+             for (const QString& sql : audit_guard_statements(db.dialect()))
                  db.exec(sql);
              backfill_audit_from_history(db);
          }},

@@ -79,12 +79,36 @@ void no_positional(const Options& o, int max) {
         throw chem::Error("input", "unexpected argument " + quoted(o.positional.at(max)));
 }
 
+/// The file's name, or "dbname at HOST" for the lab's PostgreSQL database.
+QString shown_location(const QString& location) {
+    if (sql::is_postgresql_uri(location)) {
+        const sql::PgLocation loc = sql::parse_postgresql_uri(location);
+        return loc.dbname + QStringLiteral(" at ") + loc.where();
+    }
+    return QFileInfo(location).fileName();
+}
+
 /// Opens an existing PhasePlan file read-only, for audit verify and export: nothing is written,
 /// not even a migration.
 class ReadOnlyFile {
   public:
     explicit ReadOnlyFile(const QString& path)
         : name_(QStringLiteral("audit-ro-%1").arg(++count_)) {
+        if (sql::is_postgresql_uri(path)) {
+            // A read-only session (default_transaction_read_only): nothing is written.
+            const sql::PgLocation loc = sql::parse_postgresql_uri(path);
+            db_ = sql::open_postgresql(loc, name_, true);
+            if (sql::application_id(db_) != phaseplan_application_id)
+                throw chem::Error("database", "the database " + quoted(loc.dbname) + " at " +
+                                                  loc.where().toStdString() +
+                                                  " is not a PhasePlan database");
+            if (!has_audit_schema(db_))
+                throw chem::Error("database", "the database " + quoted(loc.dbname) + " at " +
+                                                  loc.where().toStdString() +
+                                                  " has no audit trail yet: open it once with "
+                                                  "this PhasePlan to add it");
+            return;
+        }
         const QFileInfo fi(path);
         if (!fi.exists())
             throw chem::Error("database", "no file " + quoted(path));
@@ -128,7 +152,7 @@ class ReadOnlyFile {
 
 /// Opens (or, for user add, creates) the database through the app's checks and migrations.
 std::unique_ptr<Database> open_database(const QString& path, bool may_create) {
-    if (!may_create && !QFileInfo::exists(path))
+    if (!may_create && !sql::is_postgresql_uri(path) && !QFileInfo::exists(path))
         throw chem::Error("database", "no file " + quoted(path));
     auto db = std::make_unique<Database>(path);
     if (!db->writable())
@@ -248,7 +272,7 @@ CliOutput audit_command(const QStringList& args) {
             QJsonArray list;
             for (const AuditEntry& e : entries)
                 list.append(entry_json(e));
-            QJsonObject doc{{"database", QFileInfo(o.value("--database")).fileName()},
+            QJsonObject doc{{"database", shown_location(o.value("--database"))},
                             {"hash", "SHA-256 over phaseplan-audit-v1 (see the contributor guide)"},
                             {"chain", verification_json(v)},
                             {"entries", list}};
@@ -390,15 +414,134 @@ CliOutput user_command(const QStringList& args, const SecretReader& read_secret)
                       "user " + quoted(sub) + " is not add, list, lock, unlock or passwd");
 }
 
+/// The tables in the order of the migration steps (a table before the ones that refer to it).
+const char* const copied_tables[] = {
+    "buffers",         "lines",        "methods",   "sequences",     "settings",  "library_files",
+    "library_shipped", "library_user", "batches",   "batch_history", "devices",   "set_aside",
+    "columns",         "users",        "audit_log", "audit_anchor",  "signatures"};
+
+/// The columns of `table` in the source (SQLite), in their order.
+QStringList sqlite_columns(QSqlDatabase db, const QString& table) {
+    QSqlQuery q = sql::run(db, "SELECT name FROM pragma_table_info(?) ORDER BY cid", {table});
+    QStringList out;
+    while (q.next())
+        out << q.value(0).toString();
+    return out;
+}
+
+CliOutput db_copy(const Options& o) {
+    const QString from = o.required("--from");
+    const QString to = o.required("--to");
+    if (sql::is_postgresql_uri(from))
+        throw chem::Error("from", "give the bench's SQLite file (FILE.db); the lab database is "
+                                  "the target, --to");
+    ReadOnlyFile source(from);
+    const int version = sql::schema_version(source.db());
+    if (version != latest_schema_version())
+        throw chem::Error("from", quoted(from) + " has schema version " + std::to_string(version) +
+                                      ", not this program's " +
+                                      std::to_string(latest_schema_version()) +
+                                      ": open it once with this PhasePlan first");
+    const AuditVerification before = verify_all(source.db());
+    if (!before.intact)
+        throw chem::Error("from", quoted(from) + "'s audit trail is broken at entry " +
+                                      std::to_string(before.first_bad_seq) +
+                                      ": run audit verify on it; nothing was copied");
+    Database target(to);
+    if (!target.writable())
+        throw chem::Error("to", target.read_only_reason().toStdString());
+    // Never overwrite: every table of the target must be empty.
+    QStringList holding;
+    for (const char* table : copied_tables) {
+        QSqlQuery n = target.exec(QStringLiteral("SELECT count(*) FROM %1").arg(table));
+        if (n.next() && n.value(0).toLongLong() > 0)
+            holding << QStringLiteral("%1 %2").arg(n.value(0).toLongLong()).arg(table);
+    }
+    if (!holding.isEmpty())
+        throw chem::Error("to", "the target " + shown_location(to).toStdString() +
+                                    " already holds records (" +
+                                    holding.mid(0, 3).join(", ").toStdString() +
+                                    "): db copy never overwrites; give an empty database");
+    QJsonObject counts;
+    {
+        Database::Transaction t(target);
+        QSqlDatabase dst = target.connection();
+        for (const char* table : copied_tables) {
+            // Column names come from the file, so only names the target's own schema has are
+            // written into the INSERT (never a name as the file spells it otherwise).
+            const QStringList cols = sqlite_columns(source.db(), table);
+            for (const QString& c : cols)
+                if (!sql::column_exists(dst, QString::fromLatin1(table), c))
+                    throw chem::Error("from", quoted(from) + " has a column " + quoted(c) + " in " +
+                                                  table +
+                                                  " that PhasePlan's schema does not have; "
+                                                  "nothing was copied");
+            QStringList marks;
+            for (int i = 0; i < cols.size(); ++i)
+                marks << QStringLiteral("?");
+            QSqlQuery insert(dst);
+            if (!insert.prepare(QStringLiteral("INSERT INTO %1 (%2) VALUES (%3)")
+                                    .arg(table, cols.join(", "), marks.join(", "))))
+                throw chem::Error("database",
+                                  sql::failure_sentence(insert.lastError()).toStdString());
+            QSqlQuery rows = sql::run(
+                source.db(),
+                QStringLiteral("SELECT %1 FROM %2 ORDER BY rowid").arg(cols.join(", "), table));
+            qint64 n = 0;
+            while (rows.next()) {
+                for (int i = 0; i < cols.size(); ++i)
+                    insert.bindValue(i, rows.value(i)); // NULL stays NULL
+                if (!insert.exec())
+                    throw chem::Error("database",
+                                      QStringLiteral("copying %1 row %2: %3")
+                                          .arg(table)
+                                          .arg(n + 1)
+                                          .arg(sql::failure_sentence(insert.lastError()))
+                                          .toStdString());
+                ++n;
+            }
+            counts[table] = n;
+        }
+        // Ids given by the engine go on after the copied ones.
+        if (target.is_postgresql())
+            for (const auto& [table, column] :
+                 {std::pair{"batch_history", "seq"}, {"set_aside", "id"}, {"columns", "id"}})
+                target.exec(QStringLiteral("SELECT setval(pg_get_serial_sequence('%1', '%2'),"
+                                           " coalesce(max(%2), 0) + 1, false) FROM %1")
+                                .arg(table, column));
+        t.commit();
+    }
+    const AuditVerification after = verify_all(target.connection());
+    if (!after.intact || after.entries != before.entries || after.head_hash != before.head_hash)
+        throw chem::Error("to", "the copy's audit trail does not verify (" +
+                                    after.problem.toStdString() + ")");
+    CliOutput out;
+    out.out = QJsonDocument(QJsonObject{{"from", QFileInfo(from).fileName()},
+                                        {"to", shown_location(to)},
+                                        {"rows", counts},
+                                        {"chain", verification_json(after)}})
+                  .toJson(QJsonDocument::Indented);
+    return out;
+}
+
 CliOutput db_command(const QStringList& args, const QString& data_dir) {
+    if (!args.isEmpty() && args.first() == QLatin1String("copy")) {
+        const Options o = parse(args.mid(1), {"--from", "--to"});
+        no_positional(o, 0);
+        return db_copy(o);
+    }
     if (args.isEmpty() || args.first() != QLatin1String("demo"))
-        throw chem::Error("command", "db needs demo");
+        throw chem::Error("command", "db needs demo or copy");
     const Options o = parse(args.mid(1), {"--database"});
     no_positional(o, 0);
     const QString path = o.required("--database");
-    if (QFileInfo::exists(path) || QFileInfo(path).isSymLink())
+    if (!sql::is_postgresql_uri(path) && (QFileInfo::exists(path) || QFileInfo(path).isSymLink()))
         throw chem::Error("database", quoted(path) + " exists: the demo goes only into a new file");
     Database db(path, -1, [&](Database& d) { seed_demo(d, data_dir); });
+    if (!db.created())
+        throw chem::Error("database", "the lab database " + shown_location(path).toStdString() +
+                                          " already holds a PhasePlan schema: the demo goes "
+                                          "only into an empty database");
     const AuditVerification v = verify_all(db.connection());
     CliOutput out;
     out.out = QJsonDocument(QJsonObject{{"database", path},

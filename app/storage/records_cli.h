@@ -9,6 +9,12 @@
 //   user lock|unlock LOGIN --as ADMIN --database FILE
 //   user passwd LOGIN [--as ADMIN] --database FILE
 //   db demo --database NEW_FILE                   a new database with the demo and its trail
+//   db copy --from FILE --to URI                  a bench's file into an empty lab database (ids
+//                                                  and the chain kept; refuses a target holding
+//                                                  records)
+//
+// Every FILE may instead be a PostgreSQL URI, postgresql://user@host:port/dbname (the password
+// from ~/.pgpass: storage/sql_dialect.h); audit verify and export then use a read-only session.
 //
 // Passwords are never arguments: each is one line of standard input, or typed at a prompt
 // without echo when standard input is a terminal (`read_secret`). For `user add` with --as, and

@@ -143,7 +143,7 @@ Signature SignatureStore::sign(const QString& batch_id, const QString& login_in,
     s.login = login;
     s.display_name = who.display_name;
     s.meaning = meaning;
-    s.signed_at = clock_ ? clock_() : sql::utc_now();
+    s.signed_at = clock_ ? clock_() : sql::utc_now(db_);
     s.revision = batch->revision;
     s.content_sha256 = content;
     s.holds = true;

@@ -1,6 +1,7 @@
 #include "storage/sql_util.h"
 
 #include "chem/error.h"
+#include "storage/sql_dialect.h"
 
 #include <QDateTime>
 #include <QSqlError>
@@ -11,9 +12,15 @@ namespace phaseplan::storage::sql {
 
 QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings) {
     QSqlQuery q(db);
+    // PostgreSQL prepares only SELECT, INSERT, UPDATE and DELETE: a statement without values
+    // (DDL, BEGIN, SAVEPOINT) runs as it is. Values are always bound, never written into the SQL.
+    if (bindings.isEmpty() && dialect_of(db) == Dialect::postgresql) {
+        if (!q.exec(sql))
+            throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
+        return q;
+    }
     if (!q.prepare(sql))
-        throw chem::Error("database", "cannot prepare \"" + sql.left(60).toStdString() +
-                                          "\": " + q.lastError().text().toStdString());
+        throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
     for (int i = 0; i < bindings.size(); ++i) {
         const QVariant& v = bindings[i];
         if (v.typeId() == QMetaType::QString && v.toString().isNull())
@@ -22,19 +29,30 @@ QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings)
             q.bindValue(i, v);
     }
     if (!q.exec())
-        throw chem::Error("database", "\"" + sql.left(60).toStdString() +
-                                          "\" failed: " + q.lastError().text().toStdString());
+        throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
     return q;
 }
 
 WriteTransaction::WriteTransaction(QSqlDatabase db) : db_(db) {
-    QSqlQuery q(db_);
-    if (q.exec(QStringLiteral("BEGIN IMMEDIATE")))
-        return;
+    const int depth = transaction_depth(db_);
+    if (depth == 0) {
+        if (dialect_of(db_) == Dialect::postgresql) {
+            for (const QString& s : begin_write(Dialect::postgresql))
+                run(db_, s);
+            set_transaction_depth(db_, 1);
+            return;
+        }
+        QSqlQuery q(db_);
+        if (q.exec(QStringLiteral("BEGIN IMMEDIATE"))) {
+            set_transaction_depth(db_, 1);
+            return;
+        }
+    }
     // Already inside a transaction: nest with a savepoint (its name unique on the connection).
     static std::atomic<int> counter{0};
     savepoint_ = QStringLiteral("phaseplan_write_%1").arg(++counter);
     run(db_, QStringLiteral("SAVEPOINT ") + savepoint_);
+    set_transaction_depth(db_, depth + 1);
 }
 
 WriteTransaction::~WriteTransaction() {
@@ -44,19 +62,17 @@ WriteTransaction::~WriteTransaction() {
     if (savepoint_.isEmpty()) {
         q.exec(QStringLiteral("ROLLBACK"));
     } else {
-        q.exec(QStringLiteral("ROLLBACK TO ") + savepoint_);
-        q.exec(QStringLiteral("RELEASE ") + savepoint_);
+        q.exec(QStringLiteral("ROLLBACK TO SAVEPOINT ") + savepoint_);
+        q.exec(QStringLiteral("RELEASE SAVEPOINT ") + savepoint_);
     }
+    set_transaction_depth(db_, std::max(0, transaction_depth(db_) - 1));
 }
 
 void WriteTransaction::commit() {
-    run(db_,
-        savepoint_.isEmpty() ? QStringLiteral("COMMIT") : QStringLiteral("RELEASE ") + savepoint_);
+    run(db_, savepoint_.isEmpty() ? QStringLiteral("COMMIT")
+                                  : QStringLiteral("RELEASE SAVEPOINT ") + savepoint_);
     done_ = true;
-}
-
-QString utc_now() {
-    return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
+    set_transaction_depth(db_, std::max(0, transaction_depth(db_) - 1));
 }
 
 } // namespace phaseplan::storage::sql

@@ -1,6 +1,8 @@
 #pragma once
 // Small helpers shared by the stores that work on a bare QSqlDatabase connection (batches,
 // accounts, signatures, the audit trail). Internal to app/storage.
+#include "storage/sql_dialect.h"
+
 #include <QSqlDatabase>
 #include <QSqlQuery>
 #include <QString>
@@ -9,10 +11,11 @@
 namespace phaseplan::storage::sql {
 
 /// Prepares and runs one statement with positional bindings. A null QString binds as ''.
-/// Throws chem::Error("database", …) naming the statement's start and the driver's message.
+/// Throws chem::Error("database", …) with the database's reason (failure_sentence), never the SQL.
 QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {});
 
-/// A write transaction: BEGIN IMMEDIATE … COMMIT, or, when the connection is already inside a
+/// A write transaction: BEGIN IMMEDIATE … COMMIT (PostgreSQL: BEGIN and the writers' advisory
+/// lock, sql_dialect.h), or, when the connection is already inside a
 /// transaction (the demo seeded inside the transaction that creates the file), a SAVEPOINT that
 /// is released on commit. Rolled back when commit() did not run (an exception in between).
 class WriteTransaction {
@@ -29,7 +32,6 @@ class WriteTransaction {
     bool done_ = false;
 };
 
-/// Now, UTC, ISO 8601 with milliseconds: "2026-12-02T13:08:28.123Z".
-QString utc_now();
+// utc_now(db), the clock of the back end: storage/sql_dialect.h.
 
 } // namespace phaseplan::storage::sql
