@@ -1,6 +1,6 @@
 #include "plan.h"
 
-#include "clock_text.h"
+#include "core/date_time.h"
 #include "core/line_commands.h"
 #include "field_words.h"
 #include "workspace.h"
@@ -42,14 +42,6 @@ QJsonObject starter_plan() {
 
 QJsonObject obj(const QJsonObject& o, const char* key) {
     return o.value(QLatin1String(key)).toObject();
-}
-
-double hours_between(const QString& from_iso, const QString& to_iso) {
-    const QDateTime a = wall_clock(from_iso);
-    const QDateTime b = wall_clock(to_iso);
-    if (!a.isValid() || !b.isValid())
-        return -1;
-    return a.secsTo(b) / 3600.0;
 }
 
 /// Every clock time of a plan document moved by the same amount (start, lines' prepared_at, a
@@ -244,8 +236,7 @@ void Plan::shiftStart(int minutes) {
         t.setTimeSpec(Qt::UTC);
     t = t.addSecs(60LL * minutes);
     // Keep the form the user wrote: wall-clock time stays without an offset.
-    setStart(has_offset && s.size() > 19 ? t.toString(Qt::ISODate)
-                                         : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss")));
+    setStart(contract_iso(t, has_offset && s.size() > 19));
 }
 
 double Plan::wasteCapacityMl() const {

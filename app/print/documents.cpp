@@ -5,6 +5,7 @@
 #include "chem/recipe_roles.h"
 #include "core/batch_document.h"
 #include "core/chem_json.h"
+#include "core/date_time.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "print/ghs.h"
@@ -332,11 +333,6 @@ QString percent_text(double fraction) {
            " %";
 }
 
-QString duration_text(double minutes) {
-    const long m = std::lround(minutes);
-    return QStringLiteral("%1 h %2 min").arg(m / 60).arg(m % 60, 2, 10, QChar('0'));
-}
-
 // ---- the out-of-tolerance mark, the deviation and the correction ------------------------------
 
 /// The words boxed on every page and label of an out-of-tolerance batch (PhasePlan's own wording).
@@ -644,7 +640,7 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         {"Start", format_datetime(out.value("start").toString())},
         {"End of the last injection", format_datetime(out.value("end").toString())},
         {"Injections", QString::number(out.value("injections").toInt())},
-        {"Run time", duration_text(out.value("total_min").toDouble())},
+        {"Run time", duration_h_min_text(out.value("total_min").toDouble())},
     };
     if (out.contains("standby_end"))
         head << KeyValue{"Standby flow until",
