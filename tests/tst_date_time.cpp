@@ -29,6 +29,8 @@ class TestDateTime : public QObject {
         QCOMPARE(contract_iso(t, true), QString("2026-12-01T18:00:00+01:00"));
         QCOMPARE(contract_iso(as_wall_clock(t), false), QString("2026-12-01T18:00:00"));
         QCOMPARE(minute_text(as_wall_clock(t)), QString("2026-12-01 18:00"));
+        QCOMPARE(iso_minute_text("2026-12-01T16:30:00+01:00"), QString("2026-12-01 16:30"));
+        QCOMPARE(iso_minute_text(""), QString());
     }
 
     void time_of_day_reads_clock_readings_only() {

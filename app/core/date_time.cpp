@@ -62,6 +62,14 @@ QString minute_text(const QDateTime& t) {
     return t.toString(QStringLiteral("yyyy-MM-dd HH:mm"));
 }
 
+QString iso_minute_text(const QString& iso) {
+    if (iso.isEmpty())
+        return {};
+    QString s = iso.left(16);
+    s.replace('T', ' ');
+    return s;
+}
+
 QString now_minute_text() {
     return minute_text(QDateTime::currentDateTime());
 }

@@ -45,6 +45,9 @@ QDateTime next_time_of_day(const QDateTime& after, int hour, int minute);
 
 /// "2026-12-01 18:00" (messages and printed pages); "" for an invalid time.
 QString minute_text(const QDateTime& t);
+/// A contract time as written, to the minute: "2026-12-01T16:30:00" → "2026-12-01 16:30" (text
+/// only: an offset or seconds are cut, nothing is converted); "" stays "".
+QString iso_minute_text(const QString& iso);
 /// The local time now as minute_text: the print time of a page.
 QString now_minute_text();
 /// "2026-12-01 18:00:07" in local time of an ISO time with milliseconds (an instrument's

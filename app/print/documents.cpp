@@ -20,14 +20,6 @@ QString format_mmol_per_l(double mol_per_l) {
     return QString::number(mol_per_l * 1000.0, 'f', 2) + " mmol/L";
 }
 
-QString format_datetime(const QString& iso) {
-    if (iso.isEmpty())
-        return {};
-    QString s = iso.left(16);
-    s.replace('T', ' ');
-    return s;
-}
-
 PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QString& printed_at) {
     // Texts that only the paper shows: held to the same limit as every text field.
     for (const char* key : {"name", "purpose"})

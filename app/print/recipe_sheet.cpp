@@ -1,6 +1,7 @@
 #include "print/sheet_parts.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 
 #include <set>
 

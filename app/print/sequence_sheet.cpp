@@ -28,15 +28,15 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         {"Batch id", qs(batch.id)},
         {"Purpose", purpose_of(input)},
         {"Prepared by", qs(batch.prepared_by)},
-        {"Prepared at", format_datetime(qs(batch.prepared_at))},
-        {"Start", format_datetime(out.value("start").toString())},
-        {"End of the last injection", format_datetime(out.value("end").toString())},
+        {"Prepared at", iso_minute_text(qs(batch.prepared_at))},
+        {"Start", iso_minute_text(out.value("start").toString())},
+        {"End of the last injection", iso_minute_text(out.value("end").toString())},
         {"Injections", QString::number(out.value("injections").toInt())},
         {"Run time", duration_h_min_text(out.value("total_min").toDouble())},
     };
     if (out.contains("standby_end"))
         head << KeyValue{"Standby flow until",
-                         format_datetime(out.value("standby_end").toString())};
+                         iso_minute_text(out.value("standby_end").toString())};
     head << KeyValue{"Checked by", qs(batch.checked_by)};
     d.blocks << heading("Sequence") << fields_block(head);
 
@@ -53,7 +53,7 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         if (l.value("runs_dry").toBool())
             lasts = "NO: runs dry during injection " +
                     QString::number(l.value("dry_after_injection").toInt()) + ", at " +
-                    format_datetime(l.value("dry_at").toString());
+                    iso_minute_text(l.value("dry_at").toString());
         else
             lasts = "yes, " + format_amount(l.value("spare_ml").toDouble()) + " mL spare";
         lines.table.rows << QStringList{
@@ -86,8 +86,8 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
                 b.value("recipe").toString(),
                 json::strings_of(b.value("lines")).join(", "),
                 format_amount(b.value("prepare_ml").toDouble()) + " mL",
-                format_datetime(b.value("first_use").toString()),
-                format_datetime(b.value("last_use").toString()),
+                iso_minute_text(b.value("first_use").toString()),
+                iso_minute_text(b.value("last_use").toString()),
                 b.value("one_batch_lasts").toBool() ? QStringLiteral("yes")
                                                     : QStringLiteral("no: make a fresh batch")};
             batches.table.flagged << !b.value("one_batch_lasts").toBool();
@@ -124,8 +124,8 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
                           r.value("method").toString(),
                           QString::number(r.value("first_injection").toInt()) + "–" +
                               QString::number(r.value("last_injection").toInt()),
-                          format_datetime(r.value("start").toString()),
-                          format_datetime(r.value("end").toString())};
+                          iso_minute_text(r.value("start").toString()),
+                          iso_minute_text(r.value("end").toString())};
         for (const QString& k : keys)
             cells << format_amount(r.value("volume_ml").toObject().value(k).toDouble());
         rows.table.rows << cells;
@@ -156,11 +156,11 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         const QString id = qs(batch.id) + "-" + key;
         label.batch_id = id;
         label.qr_text = id;
-        label.prepared_at = format_datetime(qs(batch.prepared_at));
+        label.prepared_at = iso_minute_text(qs(batch.prepared_at));
         if (!batch.expires_at.empty())
-            label.expires_at = format_datetime(qs(batch.expires_at));
+            label.expires_at = iso_minute_text(qs(batch.expires_at));
         else if (!batch.prepared_at.empty())
-            label.expires_at = format_datetime(qs(chem::add_hours(
+            label.expires_at = iso_minute_text(qs(chem::add_hours(
                 batch.prepared_at, l.value("shelf_life_h").toDouble(48), "batch.prepared_at")));
         label.prepared_by = qs(batch.prepared_by);
         label.pictograms = sorted_pictograms(hz.pictograms);

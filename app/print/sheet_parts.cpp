@@ -1,6 +1,7 @@
 #include "print/sheet_parts.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 
 #include <QJsonArray>
 #include <QRegularExpression>
@@ -112,9 +113,9 @@ QList<KeyValue> batch_fields(const chem::Batch& b, const QString& recipe, const 
         {"Recipe", recipe},
         {"Purpose", purpose},
         {"Prepared by", blank(b.prepared_by)},
-        {"Prepared at", format_datetime(qs(b.prepared_at))},
+        {"Prepared at", iso_minute_text(qs(b.prepared_at))},
         {"Expires at",
-         expires.isEmpty() ? QStringLiteral("prepared at + shelf life") : format_datetime(expires)},
+         expires.isEmpty() ? QStringLiteral("prepared at + shelf life") : iso_minute_text(expires)},
         {"Shelf life", shelf_note},
         {"Checked by", blank(b.checked_by)},
         {"Tolerance",
@@ -294,7 +295,7 @@ void add_deviation_blocks(const BatchDocument& doc, SheetDocument& d) {
         {"Deviation note",
          b.deviation_note.empty() ? QStringLiteral("none recorded") : qs(b.deviation_note)},
         {"Recorded by", qs(b.deviation_by)},
-        {"Recorded at", format_datetime(qs(b.deviation_at))},
+        {"Recorded at", iso_minute_text(qs(b.deviation_at))},
     });
     if (!doc.correction_text.isEmpty())
         d.blocks << heading(QStringLiteral("Suggested correction")) << bullets(doc.correction_text);
@@ -382,8 +383,8 @@ void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QStri
                       LabelData& label) {
     const chem::Batch& batch = doc.batch;
     label.batch_id = qs(batch.id);
-    label.prepared_at = format_datetime(qs(batch.prepared_at));
-    label.expires_at = format_datetime(doc.expires_at);
+    label.prepared_at = iso_minute_text(qs(batch.prepared_at));
+    label.expires_at = iso_minute_text(doc.expires_at);
     label.prepared_by = qs(batch.prepared_by);
     label.pictograms = sorted_pictograms(hz.pictograms);
     label.hazard_codes = hz.codes();
