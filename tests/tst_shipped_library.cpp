@@ -1,6 +1,7 @@
-// The chemistry tests' copy of the shipped library (tests/chem/shipped_library.h, generated at
-// build time) is the library the programs load from data/: same systems, reagents, SIT
-// coefficients and eluent data, and the same pH for every reagent alone (bit for bit).
+// The chemistry tests' copy of the shipped libraries (tests/chem/shipped_library.h, generated at
+// build time) is what the programs load from data/: same systems, reagents, SIT coefficients and
+// eluent data, and the same pH for every reagent alone (bit for bit); same solvents,
+// miscibility, additives, solubility, shelf lives and excess volumes.
 #include "chem/equilibrium.h"
 #include "shipped_library.h"
 #include "test_support.h"
@@ -49,6 +50,41 @@ class TestShippedLibrary : public QObject {
         for (size_t i = 0; i < app.eluent_solvents().size(); ++i)
             for (double phi : {0.1, 0.3, 0.6})
                 QCOMPARE(gen.eluent_solvents()[i].delta(phi), app.eluent_solvents()[i].delta(phi));
+    }
+
+    void same_solvents() {
+        const chem::SolventLibrary& app = shipped_data().solvents;
+        const chem::SolventLibrary& gen = chem::testing::shipped_solvents();
+        QCOMPARE(gen.solvents().size(), app.solvents().size());
+        for (size_t i = 0; i < app.solvents().size(); ++i) {
+            const chem::Solvent &a = app.solvents()[i], &g = gen.solvents()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.molar_mass_g_per_mol, a.molar_mass_g_per_mol);
+            QCOMPARE(g.viscosity_mpa_s, a.viscosity_mpa_s);
+            QCOMPARE(g.uv_cutoff_nm, a.uv_cutoff_nm);
+            QCOMPARE(g.flash_point_c, a.flash_point_c);
+            QCOMPARE(g.sources, a.sources);
+            for (double t : {5.0, 25.0, 45.0})
+                QCOMPARE(g.density_at(t), a.density_at(t));
+            for (const chem::Solvent& other : app.solvents())
+                QCOMPARE(gen.miscibility(a.id, other.id), app.miscibility(a.id, other.id));
+        }
+        QCOMPARE(gen.additives().size(), app.additives().size());
+        for (size_t i = 0; i < app.additives().size(); ++i) {
+            const chem::Additive &a = app.additives()[i], &g = gen.additives()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.uv.has_value(), a.uv.has_value());
+            if (a.uv)
+                for (double amount : {0.05, 0.1, 1.0, 10.0})
+                    QCOMPARE(g.uv->at(amount).cutoff_nm, a.uv->at(amount).cutoff_nm);
+        }
+        QCOMPARE(gen.solubility_tables().size(), app.solubility_tables().size());
+        for (size_t i = 0; i < app.solubility_tables().size(); ++i)
+            QCOMPARE(gen.solubility_tables()[i].points, app.solubility_tables()[i].points);
+        QCOMPARE(gen.shelf_lives().size(), app.shelf_lives().size());
+        QCOMPARE(gen.excess_volumes().size(), app.excess_volumes().size());
+        for (size_t i = 0; i < app.excess_volumes().size(); ++i)
+            QCOMPARE(gen.excess_volumes()[i].at(0.3), app.excess_volumes()[i].at(0.3));
     }
 
     void same_ph_for_every_reagent() {

@@ -1,7 +1,7 @@
 // Build-time generator for the chemistry tests (not a test): loads data/ with the app's own loader
-// (app/core, the same validation the programs apply) and writes a C++ source that rebuilds that
-// reagent library with plain chem/ calls. The tests in tests/chem/ link the generated source
-// and phaseplan_chem only, so no Qt is on their way at run time.
+// (app/core, the same validation the programs apply) and writes a C++ source that rebuilds the
+// reagent and solvent libraries with plain chem/ calls. The tests in tests/chem/ link the generated
+// source and phaseplan_chem only, so no Qt is on their way at run time.
 //
 // Usage: shipped_library_gen DATA_DIR OUT.cpp
 #include "chem/error.h"
@@ -9,6 +9,7 @@
 
 #include <cstdio>
 #include <fstream>
+#include <optional>
 #include <sstream>
 #include <string>
 #include <vector>
@@ -103,6 +104,109 @@ void write_eluent_solvent(std::ostream& o, const chem::EluentSolvent& e) {
     o << "        lib.add_eluent_solvent(std::move(e));\n    }\n";
 }
 
+std::string opt_num(const std::optional<double>& v) {
+    return v ? "std::optional<double>(" + num(*v) + ")" : std::string("std::nullopt");
+}
+
+const char* unit_name(chem::AmountUnit u) {
+    switch (u) {
+    case chem::AmountUnit::percent_v:
+        return "percent_v";
+    case chem::AmountUnit::percent_w:
+        return "percent_w";
+    case chem::AmountUnit::mmol_per_l:
+        return "mmol_per_l";
+    }
+    return "mmol_per_l";
+}
+
+const char* miscibility_enum(chem::Miscibility m) {
+    switch (m) {
+    case chem::Miscibility::miscible:
+        return "miscible";
+    case chem::Miscibility::partly:
+        return "partly";
+    case chem::Miscibility::immiscible:
+        return "immiscible";
+    }
+    return "miscible";
+}
+
+void write_solvent(std::ostream& o, const chem::Solvent& v) {
+    o << "    {\n        chem::Solvent v;\n";
+    o << "        v.id = " << str(v.id) << ";\n        v.name = " << str(v.name) << ";\n";
+    o << "        v.formula = " << str(v.formula) << ";\n";
+    o << "        v.aqueous = " << (v.aqueous ? "true" : "false") << ";\n";
+    o << "        v.molar_mass_g_per_mol = " << num(v.molar_mass_g_per_mol) << ";\n";
+    o << "        v.density_g_per_ml = " << num(v.density_g_per_ml) << ";\n";
+    o << "        v.density_temperature_c = " << num(v.density_temperature_c) << ";\n";
+    o << "        v.expansion_per_k = " << num(v.expansion_per_k) << ";\n";
+    o << "        v.density_from_water_model = " << (v.density_from_water_model ? "true" : "false")
+      << ";\n";
+    o << "        v.viscosity_mpa_s = " << num(v.viscosity_mpa_s) << ";\n";
+    o << "        v.viscosity_temperature_c = " << num(v.viscosity_temperature_c) << ";\n";
+    o << "        v.uv_cutoff_nm = " << num(v.uv_cutoff_nm) << ";\n";
+    o << "        v.boiling_point_c = " << num(v.boiling_point_c) << ";\n";
+    o << "        v.flash_point_c = " << opt_num(v.flash_point_c) << ";\n";
+    o << "        v.ghs_hazards = " << strs(v.ghs_hazards) << ";\n";
+    o << "        v.ghs_pictograms = " << strs(v.ghs_pictograms) << ";\n";
+    for (const auto& [key, source] : v.sources)
+        o << "        v.sources[" << str(key) << "] = " << str(source) << ";\n";
+    o << "        v.note = " << str(v.note) << ";\n";
+    o << "        lib.add_solvent(std::move(v));\n    }\n";
+}
+
+void write_additive(std::ostream& o, const chem::Additive& a) {
+    o << "    {\n        chem::Additive a;\n";
+    o << "        a.id = " << str(a.id) << ";\n";
+    o << "        a.ms_volatile = " << (a.ms_volatile ? "true" : "false") << ";\n";
+    o << "        a.volatility_source = " << str(a.volatility_source) << ";\n";
+    if (a.uv) {
+        o << "        a.uv = chem::UvTable{};\n";
+        o << "        a.uv->unit = chem::AmountUnit::" << unit_name(a.uv->unit) << ";\n";
+        for (const chem::UvPoint& p : a.uv->points)
+            o << "        a.uv->points.push_back({" << num(p.amount) << ", " << num(p.cutoff_nm)
+              << ", " << str(p.source) << "});\n";
+    }
+    o << "        a.solubility_group = " << str(a.solubility_group) << ";\n";
+    o << "        a.short_lived = " << (a.short_lived ? "true" : "false") << ";\n";
+    o << "        a.ms_caution = " << str(a.ms_caution) << ";\n";
+    o << "        a.ms_caution_source = " << str(a.ms_caution_source) << ";\n";
+    o << "        a.note = " << str(a.note) << ";\n";
+    o << "        lib.add_additive(std::move(a));\n    }\n";
+}
+
+/// The solvent library (data/solvents.json), in the order the loader filled it.
+void write_solvent_library(std::ostream& o, const chem::SolventLibrary& lib) {
+    o << "chem::SolventLibrary build_solvents() {\n    chem::SolventLibrary lib;\n";
+    for (const chem::Solvent& v : lib.solvents())
+        write_solvent(o, v);
+    const auto& all = lib.solvents();
+    for (size_t i = 0; i < all.size(); ++i)
+        for (size_t j = i + 1; j < all.size(); ++j)
+            if (const auto m = lib.miscibility(all[i].id, all[j].id))
+                o << "    lib.set_miscibility(" << str(all[i].id) << ", " << str(all[j].id)
+                  << ", chem::Miscibility::" << miscibility_enum(*m) << ");\n";
+    o << "    lib.set_miscibility_source(" << str(lib.miscibility_source()) << ");\n";
+    for (const chem::Additive& a : lib.additives())
+        write_additive(o, a);
+    for (const chem::SolubilityTable& t : lib.solubility_tables()) {
+        o << "    {\n        chem::SolubilityTable t{" << str(t.group) << ", " << str(t.organic)
+          << ", " << str(t.basis) << ", " << str(t.source) << ", {}};\n";
+        for (const auto& [phi, limit] : t.points)
+            o << "        t.points.emplace_back(" << num(phi) << ", " << num(limit) << ");\n";
+        o << "        lib.add_solubility(std::move(t));\n    }\n";
+    }
+    for (const chem::ShelfLife& s : lib.shelf_lives())
+        o << "    lib.add_shelf_life({" << str(s.kind) << ", " << num(s.hours) << ", "
+          << str(s.source) << ", " << str(s.description) << "});\n";
+    for (const chem::ExcessVolume& e : lib.excess_volumes())
+        o << "    lib.add_excess_volume({" << str(e.aqueous) << ", " << str(e.organic) << ", "
+          << num(e.temperature_c) << ", " << nums(e.rk_cm3_per_mol) << ", " << str(e.source)
+          << "});\n";
+    o << "    lib.check_complete();\n    return lib;\n}\n";
+}
+
 } // namespace
 
 int main(int argc, char** argv) {
@@ -114,7 +218,7 @@ int main(int argc, char** argv) {
         const phaseplan::AppData data = phaseplan::load_app_data(QString::fromLocal8Bit(argv[1]));
         const chem::Library& lib = data.reagents;
         std::ostringstream o;
-        o << "// Generated by tests/chem/shipped_library_gen from data/reagents.json: do not "
+        o << "// Generated by tests/chem/shipped_library_gen from data/: do not "
              "edit.\n"
              "#include \"shipped_library.h\"\n\n#include <optional>\n#include <string>\n"
              "#include <utility>\n#include <vector>\n\nnamespace chem::testing {\n\n"
@@ -128,9 +232,13 @@ int main(int argc, char** argv) {
               << num(e.kg_per_mol) << ", " << str(e.source) << "});\n";
         for (const chem::EluentSolvent& e : lib.eluent_solvents())
             write_eluent_solvent(o, e);
-        o << "    return lib;\n}\n} // namespace\n\n"
+        o << "    return lib;\n}\n\n";
+        write_solvent_library(o, data.solvents);
+        o << "} // namespace\n\n"
              "const chem::Library& shipped_library() {\n"
              "    static const chem::Library lib = build();\n    return lib;\n}\n\n"
+             "const chem::SolventLibrary& shipped_solvents() {\n"
+             "    static const chem::SolventLibrary lib = build_solvents();\n    return lib;\n}\n\n"
              "} // namespace chem::testing\n";
         std::ofstream f(argv[2], std::ios::binary);
         f << o.str();
