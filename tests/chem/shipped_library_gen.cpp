@@ -5,6 +5,7 @@
 //
 // Usage: shipped_library_gen DATA_DIR OUT.cpp
 #include "chem/error.h"
+#include "chem/solvent.h"
 #include "core/app_data.h"
 
 #include <cstdio>
@@ -108,29 +109,7 @@ std::string opt_num(const std::optional<double>& v) {
     return v ? "std::optional<double>(" + num(*v) + ")" : std::string("std::nullopt");
 }
 
-const char* unit_name(chem::AmountUnit u) {
-    switch (u) {
-    case chem::AmountUnit::percent_v:
-        return "percent_v";
-    case chem::AmountUnit::percent_w:
-        return "percent_w";
-    case chem::AmountUnit::mmol_per_l:
-        return "mmol_per_l";
-    }
-    return "mmol_per_l";
-}
-
-const char* miscibility_enum(chem::Miscibility m) {
-    switch (m) {
-    case chem::Miscibility::miscible:
-        return "miscible";
-    case chem::Miscibility::partly:
-        return "partly";
-    case chem::Miscibility::immiscible:
-        return "immiscible";
-    }
-    return "miscible";
-}
+// The enum names below are the enumerators' own (chem::amount_unit_name, miscibility_name).
 
 void write_solvent(std::ostream& o, const chem::Solvent& v) {
     o << "    {\n        chem::Solvent v;\n";
@@ -163,7 +142,8 @@ void write_additive(std::ostream& o, const chem::Additive& a) {
     o << "        a.volatility_source = " << str(a.volatility_source) << ";\n";
     if (a.uv) {
         o << "        a.uv = chem::UvTable{};\n";
-        o << "        a.uv->unit = chem::AmountUnit::" << unit_name(a.uv->unit) << ";\n";
+        o << "        a.uv->unit = chem::AmountUnit::" << chem::amount_unit_name(a.uv->unit)
+          << ";\n";
         for (const chem::UvPoint& p : a.uv->points)
             o << "        a.uv->points.push_back({" << num(p.amount) << ", " << num(p.cutoff_nm)
               << ", " << str(p.source) << "});\n";
@@ -186,7 +166,7 @@ void write_solvent_library(std::ostream& o, const chem::SolventLibrary& lib) {
         for (size_t j = i + 1; j < all.size(); ++j)
             if (const auto m = lib.miscibility(all[i].id, all[j].id))
                 o << "    lib.set_miscibility(" << str(all[i].id) << ", " << str(all[j].id)
-                  << ", chem::Miscibility::" << miscibility_enum(*m) << ");\n";
+                  << ", chem::Miscibility::" << chem::miscibility_name(*m) << ");\n";
     o << "    lib.set_miscibility_source(" << str(lib.miscibility_source()) << ");\n";
     for (const chem::Additive& a : lib.additives())
         write_additive(o, a);
