@@ -24,12 +24,12 @@ TEST(EluentMix, DilutesAndBlends) {
     a.solutes.push_back({"sodium-dihydrogen-phosphate", 20.0, "buffer"});
     LineProfile b = neat_line("acetonitrile", false);
     const EluentMix m = mix_lines(solvents(), {{&a, 60}, {&b, 40}});
-    EXPECT_EQ(m.solvent_fraction_v.at("water"), 0.6);
-    EXPECT_EQ(m.solvent_fraction_v.at("acetonitrile"), 0.4);
-    EXPECT_EQ(m.organic_fraction_v, 0.4);
+    EXPECT_DOUBLE_EQ(m.solvent_fraction_v.at("water"), 0.6);
+    EXPECT_DOUBLE_EQ(m.solvent_fraction_v.at("acetonitrile"), 0.4);
+    EXPECT_DOUBLE_EQ(m.organic_fraction_v, 0.4);
     EXPECT_TRUE(m.contraction_fraction > 0.0 && m.contraction_fraction < 0.05);
     ASSERT_EQ(m.solutes.size(), std::size_t(1));
-    EXPECT_EQ(m.solutes[0].mmol_per_l, 12.0 / (1.0 - m.contraction_fraction));
+    EXPECT_DOUBLE_EQ(m.solutes[0].mmol_per_l, 12.0 / (1.0 - m.contraction_fraction));
     // Mole fraction of acetonitrile at 40 % v/v: n = V·ρ/M; ρ(MeCN, 20 °C) ≈ 0.7857 g/mL,
     // M = 41.05 g/mol (CRC Handbook, from memory); water 0.9982 g/mL, 18.015 g/mol.
     const double n_o = 0.4 * 0.7857 / 41.053, n_w = 0.6 * 0.9982 / 18.015;
@@ -44,7 +44,7 @@ TEST(EluentMix, RefusesBadPercentages) {
     LineProfile undescribed;
     EXPECT_THROW(mix_lines(solvents(), {{&undescribed, 50}, {&b, 50}}), Error);
     // A line at 0 % needs no description.
-    EXPECT_EQ(mix_lines(solvents(), {{&undescribed, 0}, {&b, 100}}).organic_fraction_v, 1.0);
+    EXPECT_DOUBLE_EQ(mix_lines(solvents(), {{&undescribed, 0}, {&b, 100}}).organic_fraction_v, 1.0);
 }
 
 } // namespace

@@ -45,7 +45,7 @@ std::string fixed2(double v) {
 // 2.1 × 50 mm at 0.2 mL/min: t₂ = 10 · (1.0/0.2) · (50 · 2.1²)/(250 · 4.6²) = 2.084 min.
 TEST(Transfer, WorkedExample) {
     const TransferResult r = transfer_method(example(5, 0.2));
-    EXPECT_EQ(r.flow_ml_min, 0.2);
+    EXPECT_DOUBLE_EQ(r.flow_ml_min, 0.2);
     EXPECT_TRUE(std::abs(r.method.gradient[1].t_min - 2.084) < 0.001);
     EXPECT_EQ(fixed2(r.method.gradient[1].t_min), "2.08");
     // Injection ∝ L·dc²: 10 µL · (50 · 4.41)/(250 · 21.16) = 0.4168 µL.
@@ -107,12 +107,12 @@ TEST(Transfer, DwellCorrection) {
     EXPECT_TRUE(std::abs(kt - 0.2) < 1e-9);
     const double hold = 1.0 * kt - 0.02 / r.flow_ml_min;
     EXPECT_TRUE(std::abs(r.hold_added_min - hold) < 1e-9);
-    EXPECT_EQ(r.method.gradient[0].t_min, 0.0);
+    EXPECT_DOUBLE_EQ(r.method.gradient[0].t_min, 0.0);
     EXPECT_TRUE(std::abs(r.method.gradient[1].t_min - (10 * kt + hold)) < 1e-9);
     // A larger dwell on the new system cannot be hidden by a hold: a caution says so.
     q.to.dwell_ml = 1.0;
     const TransferResult big = transfer_method(q);
-    EXPECT_EQ(big.hold_added_min, 0.0);
+    EXPECT_DOUBLE_EQ(big.hold_added_min, 0.0);
     EXPECT_EQ(big.warnings.front().code, std::string("dwell-too-large"));
 }
 
