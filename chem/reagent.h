@@ -140,6 +140,7 @@ class Library {
     const std::vector<SitEpsilon>& sit_epsilons() const { return sit_; }
     void add_eluent_solvent(EluentSolvent e);
     const EluentSolvent* eluent_solvent(const std::string& organic) const;
+    const std::vector<EluentSolvent>& eluent_solvents() const { return eluent_solvents_; }
 
     /// Up to `count` known reagent ids closest to `id` (edit distance), best first.
     std::vector<std::string> nearest_reagent_ids(const std::string& id, int count = 3) const;

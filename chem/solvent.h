@@ -151,6 +151,8 @@ class SolventLibrary {
     const std::vector<Solvent>& solvents() const { return solvents_; }
     const std::vector<Additive>& additives() const { return additives_; }
     const std::vector<ShelfLife>& shelf_lives() const { return shelf_; }
+    const std::vector<SolubilityTable>& solubility_tables() const { return solubility_; }
+    const std::vector<ExcessVolume>& excess_volumes() const { return excess_; }
     const std::string& miscibility_source() const { return miscibility_source_; }
     void set_miscibility_source(std::string s) { miscibility_source_ = std::move(s); }
 

@@ -1,6 +1,6 @@
 #pragma once
 // Shared helpers for the QtTest executables: the shipped library, loaded once per process.
-#include "chem/line.h"
+#include "chem/line_profiles.h" // tests/chem/line_profiles.h (this folder first)
 #include "core/app_data.h"
 
 #include <QByteArray>
@@ -18,14 +18,7 @@ inline const AppData& shipped_data() {
     return data;
 }
 
-/// A described line of one neat solvent (water is the aqueous one).
-inline chem::LineProfile neat_line(const std::string& solvent, bool aqueous) {
-    chem::LineProfile p;
-    p.described = true;
-    p.solvent_fraction_v[solvent] = 1.0;
-    (aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) = 1.0;
-    return p;
-}
+using chem::testing::neat_line; ///< tests/chem/line_profiles.h
 
 inline QJsonObject read_json(const QString& path) {
     QFile f(path);

@@ -229,13 +229,6 @@ QJsonArray steps_json(const QList<StepSection>& sections) {
     return a;
 }
 
-QStringList strings_of(const QJsonValue& v) {
-    QStringList out;
-    for (const QJsonValue& x : v.toArray())
-        out << x.toString();
-    return out;
-}
-
 /// Runs a batch against a sub-recipe (a line's buffer) whose amounts are a subset of the batch's:
 /// errors name the entry's index in the whole "batch.actual" list.
 chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& recipe,
@@ -420,7 +413,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         d.steps << StepSection{QStringLiteral("Buffer steps"), bs};
     }
     d.steps << StepSection{lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"),
-                           strings_of(d.line_out.value("steps"))};
+                           json::strings_of(d.line_out.value("steps"))};
 
     // Corrections: the parts against the bottle, the buffer against its container.
     const std::optional<double> bottle =

@@ -73,6 +73,13 @@ QJsonArray require_array(const QJsonObject& o, const QString& key, const std::st
     return v.toArray();
 }
 
+QStringList strings_of(const QJsonValue& v) {
+    QStringList out;
+    for (const QJsonValue& x : v.toArray())
+        out << x.toString();
+    return out;
+}
+
 std::vector<std::string> optional_string_list(const QJsonObject& o, const QString& key,
                                               const std::string& parent) {
     std::vector<std::string> out;

@@ -9,6 +9,7 @@
 #include <QJsonObject>
 #include <QJsonValue>
 #include <QString>
+#include <QStringList>
 
 #include <initializer_list>
 #include <optional>
@@ -29,6 +30,9 @@ QJsonObject require_object(const QJsonObject& o, const QString& key, const std::
 QJsonArray require_array(const QJsonObject& o, const QString& key, const std::string& parent);
 /// o[key] as a list of strings, empty when the key is absent; chem::Error naming the field (or
 /// the element) when it is not an array of strings.
+/// The texts of a result's JSON array, as they are (not a validator: anything that is not an
+/// array gives an empty list, a non-string element an empty text).
+QStringList strings_of(const QJsonValue& v);
 std::vector<std::string> optional_string_list(const QJsonObject& o, const QString& key,
                                               const std::string& parent);
 /// A non-empty string (trimmed) of at most `max_chars` characters (code points) without a lone

@@ -3,11 +3,11 @@
 #include "chem/error.h"
 #include "chem/units.h"
 #include "core/chem_json.h"
+#include "core/date_time.h"
 #include "core/json_util.h"
 #include "core/pressure_commands.h"
 
 #include <QJsonDocument>
-#include <QRegularExpression>
 #include <QTimeZone>
 
 #include <algorithm>
@@ -209,31 +209,15 @@ QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces) 
 QString Clock::iso(double minutes) const {
     // To the nearest second.
     const QDateTime t = start.addSecs(static_cast<qint64>(std::llround(minutes * 60.0)));
-    return has_offset ? t.toString(Qt::ISODate) : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"));
+    return contract_iso(t, has_offset);
 }
 
 std::string Clock::text(double minutes) const {
     const QDateTime t = start.addMSecs(static_cast<qint64>(std::llround(minutes * 60000.0)));
     if (words)
         return words(t).toStdString();
-    return t.toString(QStringLiteral("yyyy-MM-dd HH:mm")).toStdString();
+    return minute_text(t).toStdString();
 }
-
-namespace {
-/// "07:30" or "07:30:00" as a time of day; invalid for anything else (a full date and time).
-QTime time_of_day(const QJsonValue& v) {
-    if (!v.isString())
-        return {};
-    const QString s = v.toString();
-    static const QRegularExpression re(
-        QStringLiteral("^([01]?\\d|2[0-3]):([0-5]\\d)(:([0-5]\\d))?$"));
-    const auto m = re.match(s);
-    if (!m.hasMatch())
-        return {};
-    return QTime(m.captured(1).toInt(), m.captured(2).toInt(),
-                 m.captured(4).isEmpty() ? 0 : m.captured(4).toInt());
-}
-} // namespace
 
 QDateTime datetime_from_json(const QJsonObject& o, const QString& key, const std::string& parent,
                              bool* has_offset) {
@@ -613,7 +597,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             throw chem::Error(at, "give either duration_min or until");
         if (has_d)
             sb.duration_min = json::require_number(so, "duration_min", at);
-        else if (const QTime tod = time_of_day(so.value("until")); tod.isValid())
+        else if (const QTime tod = time_of_day(so.value("until").toString()); tod.isValid())
             standby_until_time = tod;
         else
             standby_until = datetime_from_json(so, "until", at, nullptr);
@@ -852,8 +836,8 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
                       {"required_ml", required},
                       {"prepare_ml", prepare},
                       {"suggested_bottle_ml", suggested > 0 ? QJsonValue(suggested) : QJsonValue()},
-                      {"first_use", first.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"))},
-                      {"last_use", last.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"))},
+                      {"first_use", wall_clock_iso(first)},
+                      {"last_use", wall_clock_iso(last)},
                       {"span_h", span_h}};
         if (shelf > 0) {
             b["shelf_life_h"] = shelf;

@@ -1,5 +1,6 @@
 #include "devices/device_store.h"
 
+#include "core/date_time.h"
 #include "core/json_util.h"
 
 #include <QJsonArray>
@@ -171,7 +172,7 @@ void DeviceStore::upsert(const DeviceRecord& d) {
     if (d.id.trimmed().isEmpty())
         throw chem::Error("id", "an instrument needs an id");
     d.port.validate();
-    const QString now = QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
+    const QString now = utc_now_iso_ms();
     db_.exec(QStringLiteral(
                  "INSERT INTO devices (%1, created_at, updated_at)"
                  " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"

@@ -2,6 +2,7 @@
 
 #include "chem/error.h"
 #include "core/batch_document.h"
+#include "core/date_time.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/release.h"
@@ -24,7 +25,7 @@ namespace phaseplan::gui {
 namespace {
 
 QString now_local() {
-    return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss"));
+    return wall_clock_iso(QDateTime::currentDateTime());
 }
 
 QVariant json_to_variant(const QJsonValue& v) {
@@ -592,12 +593,9 @@ QString BatchModel::history_value(const QString& field, const QJsonValue& v) con
             return tr("typed");
         const QJsonObject c = v.toObject();
         QString text =
-            capture_source_text(c) +
-            tr(" (sent \"%1\" at %2)")
-                .arg(c.value("raw").toString(),
-                     QDateTime::fromString(c.value("received_at").toString(), Qt::ISODateWithMs)
-                         .toLocalTime()
-                         .toString(QStringLiteral("yyyy-MM-dd HH:mm:ss")));
+            capture_source_text(c) + tr(" (sent \"%1\" at %2)")
+                                         .arg(c.value("raw").toString(),
+                                              local_second_text(c.value("received_at").toString()));
         if (c.value("accepted_unstable").toBool())
             text += tr(", accepted while not settled");
         return text;

@@ -1,6 +1,7 @@
 #include "buffer_designer.h"
 
 #include "chem/recipe_roles.h"
+#include "chem/titration_curve.h"
 #include "core/chem_json.h"
 #include "core/commands.h"
 #include "field_words.h"
@@ -815,85 +816,63 @@ void BufferDesigner::recompute() {
 void BufferDesigner::compute_curves(const QJsonObject& recipe) {
     ph_curve_.clear();
     beta_curve_.clear();
-    const QJsonArray composition = recipe.value("composition").toArray();
+    // The adapter: the recipe's composition as chem::Components, the x axis's scale from its
+    // items; chem::titration_curve solves the points.
+    const chem::Library& lib = workspace_->data().reagents;
     const bool titrate = route_ == QLatin1String("titrate");
-    const QString varied_up = titrate ? titrant_ : base_;    // the component whose share grows
-    const QString varied_down = titrate ? QString() : acid_; // mix/stocks: its partner shrinks
-    double c_up = 0, c_down = 0;
-    QJsonArray fixed;
-    for (const QJsonValue& v : composition) {
+    chem::TitrationCurveRequest req;
+    req.route = titrate ? chem::CurveRoute::titrant : chem::CurveRoute::base_fraction;
+    req.rising = lib.find_reagent((titrate ? titrant_ : base_).toStdString());
+    req.falling = titrate ? nullptr : lib.find_reagent(acid_.toStdString());
+    req.temperature_c = temperature_c_;
+    req.points = curve_points;
+    double c_titrant = 0;
+    for (const QJsonValue& v : recipe.value("composition").toArray()) {
         const QJsonObject c = v.toObject();
-        const QString id = c.value("reagent").toString();
-        if (id == varied_up)
-            c_up += c.value("mol_per_l").toDouble();
-        else if (!varied_down.isEmpty() && id == varied_down)
-            c_down += c.value("mol_per_l").toDouble();
-        else
-            fixed.append(c);
+        const chem::Reagent* r = lib.find_reagent(c.value("reagent").toString().toStdString());
+        if (!r)
+            return; // the recipe names only library reagents; nothing to draw otherwise
+        req.composition.push_back({r, c.value("mol_per_l").toDouble()});
+        if (r == req.rising)
+            c_titrant += c.value("mol_per_l").toDouble();
     }
-    const double total = c_up + c_down;
-    double x_recipe = 0, x_max = 1, up_max = 0;
     if (titrate) {
-        // Titrant volume in mL for a final concentration c of titrant: c · V / c_titrant.
         // The titrant's own amount per mol/L of final solution, from the recipe's item: mL of the
         // solution, or mL (g for a solid) of the reagent as supplied.
-        up_max = std::max(2.0 * c_up, 1e-4);
-        double per_mol_per_l = 0;
         curve_x_label_ = tr("Titrant added (mL)");
         for (const QJsonValue& v : recipe.value("items").toArray()) {
             const QJsonObject it = v.toObject();
-            if (it.value("reagent").toString() != titrant_ || !(c_up > 0))
+            if (it.value("reagent").toString() != titrant_ || !(c_titrant > 0))
                 continue;
             if (it.contains("volume_ml")) {
-                per_mol_per_l = it.value("volume_ml").toDouble() / c_up;
+                req.x_per_mol_per_l = it.value("volume_ml").toDouble() / c_titrant;
             } else if (it.contains("mass_g")) {
-                per_mol_per_l = it.value("mass_g").toDouble() / c_up;
+                req.x_per_mol_per_l = it.value("mass_g").toDouble() / c_titrant;
                 curve_x_label_ = tr("Titrant added (g)");
             }
         }
-        if (!(per_mol_per_l > 0) && titrant_mol_per_l_ > 0)
-            per_mol_per_l = volume_ml_ / titrant_mol_per_l_;
-        x_max = up_max * per_mol_per_l;
-        x_recipe = c_up * per_mol_per_l;
+        if (!(req.x_per_mol_per_l > 0) && titrant_mol_per_l_ > 0)
+            req.x_per_mol_per_l = volume_ml_ / titrant_mol_per_l_;
     } else {
-        x_recipe = total > 0 ? c_up / total : 0;
         curve_x_label_ = tr("Base form, fraction of the buffer");
     }
-    if (!(x_max > 0) || (!titrate && !(total > 0)))
+    const chem::TitrationCurve curve = chem::titration_curve(lib, req);
+    if (!(curve.x_end > 0))
         return;
 
     double ph_min = 14, ph_max = 0, beta_max = 0;
-    for (int i = 0; i < curve_points; ++i) {
-        const double f = double(i) / (curve_points - 1);
-        QJsonArray comps = fixed;
-        const double up = titrate ? f * up_max : f * total;
-        const double down = titrate ? 0 : (1 - f) * total;
-        if (up > 0)
-            comps.append(QJsonObject{{"reagent", varied_up}, {"mol_per_l", up}});
-        if (down > 0)
-            comps.append(QJsonObject{{"reagent", varied_down}, {"mol_per_l", down}});
-        if (comps.isEmpty())
-            continue;
-        QJsonObject out;
-        const FieldError e = guarded([&] {
-            out = command_solve(
-                workspace_->data(),
-                QJsonObject{{"temperature_c", temperature_c_}, {"components", comps}}, {});
-        });
-        if (!e.empty())
-            continue; // a point the core refuses is left out, not invented
-        const double ph = out.value("ph").toDouble();
-        const double beta = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
-        ph_curve_.append(QPointF(f * x_max, ph));
-        beta_curve_.append(QPointF(ph, beta));
-        ph_min = std::min(ph_min, ph);
-        ph_max = std::max(ph_max, ph);
+    for (const chem::TitrationPoint& p : curve.points) {
+        const double beta = p.buffer_capacity_mol_per_l * 1000.0;
+        ph_curve_.append(QPointF(p.x, p.ph));
+        beta_curve_.append(QPointF(p.ph, beta));
+        ph_min = std::min(ph_min, p.ph);
+        ph_max = std::max(ph_max, p.ph);
         beta_max = std::max(beta_max, beta);
     }
     std::sort(beta_curve_.begin(), beta_curve_.end(),
               [](const QPointF& a, const QPointF& b) { return a.x() < b.x(); });
-    curve_x_max_ = x_max;
-    recipe_point_ = QPointF(x_recipe, predicted_ph_);
+    curve_x_max_ = curve.x_end;
+    recipe_point_ = QPointF(curve.x_recipe, predicted_ph_);
     ph_min = std::min(ph_min, target_ph_);
     ph_max = std::max(ph_max, target_ph_);
     curve_ph_min_ = std::floor(ph_min - 0.25);

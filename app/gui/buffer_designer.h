@@ -1,8 +1,9 @@
 #pragma once
 // The buffer designer's model: the inputs of a `recipe` document, the recipe the core designs for
 // them (recomputed on every edit), and the curves around it (pH against base fraction or titrant
-// volume, β against pH) from repeated `solve` calls. Every number comes from the core; this class
-// only builds documents, calls phaseplan::command_recipe / command_solve and unpacks the answers.
+// volume, β against pH) from chem::titration_curve. Every number comes from the core; this class
+// only builds documents, calls phaseplan::command_recipe and chem::titration_curve, and unpacks
+// the answers.
 #include "model_util.h"
 #include "plan.h"
 

@@ -1,11 +1,11 @@
 #include "column_library.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
 #include "workspace.h"
 
-#include <QDateTime>
 #include <QJsonDocument>
 #include <QLocale>
 #include <QSqlQuery>
@@ -18,10 +18,6 @@ namespace phaseplan::gui {
 namespace {
 
 constexpr double nan = std::numeric_limits<double>::quiet_NaN();
-
-QString now_utc() {
-    return QDateTime::currentDateTimeUtc().toString(Qt::ISODateWithMs);
-}
 
 /// A number as the screens show it: the locale's decimal mark, never a group separator (a "1,000
 /// bar" would read as 1 bar where "," is the decimal mark).
@@ -104,7 +100,7 @@ qint64 ColumnStore::save(const ColumnRecord& in) {
     if (taken.next())
         throw chem::Error("name", "“" + name.toStdString() + "” is the name of another column");
     const QString text = QString::fromUtf8(QJsonDocument(doc).toJson(QJsonDocument::Compact));
-    const QString now = now_utc();
+    const QString now = utc_now_iso_ms();
     qint64 id = in.id;
     if (id > 0) {
         QSqlQuery q =

@@ -2,7 +2,6 @@
 
 #include "number_text.h"
 
-#include <QDateTime>
 #include <QJsonObject>
 #include <QLocale>
 #include <QXYSeries>
@@ -46,13 +45,6 @@ QString amount_text(const QJsonObject& item) {
         return loc.toString(ml, 'f', decimals) + QStringLiteral(" mL");
     }
     return QString();
-}
-
-QString short_clock(const QString& iso) {
-    const QDateTime t = QDateTime::fromString(iso, Qt::ISODate);
-    if (!t.isValid())
-        return iso;
-    return QLocale().toString(t, QStringLiteral("ddd HH:mm"));
 }
 
 } // namespace phaseplan::gui

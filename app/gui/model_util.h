@@ -53,7 +53,4 @@ void replace_series(QObject* series, const QList<QPointF>& points);
 /// ({mass_g?, volume_ml?, as}) of the command-line contract.
 QString amount_text(const QJsonObject& item);
 
-/// "2026-12-01T18:00:00" → "Tue 18:00" style for the screens; the input when it does not parse.
-QString short_clock(const QString& iso);
-
 } // namespace phaseplan::gui

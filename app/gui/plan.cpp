@@ -1,6 +1,6 @@
 #include "plan.h"
 
-#include "clock_text.h"
+#include "core/date_time.h"
 #include "core/line_commands.h"
 #include "field_words.h"
 #include "workspace.h"
@@ -44,14 +44,6 @@ QJsonObject obj(const QJsonObject& o, const char* key) {
     return o.value(QLatin1String(key)).toObject();
 }
 
-double hours_between(const QString& from_iso, const QString& to_iso) {
-    const QDateTime a = wall_clock(from_iso);
-    const QDateTime b = wall_clock(to_iso);
-    if (!a.isValid() || !b.isValid())
-        return -1;
-    return a.secsTo(b) / 3600.0;
-}
-
 /// Every clock time of a plan document moved by the same amount (start, lines' prepared_at, a
 /// dated standby end), so that a plan made for another day keeps its shape when moved to tonight.
 void shift_times(QJsonObject& doc, qint64 secs) {
@@ -89,6 +81,7 @@ QJsonObject starting_tonight(QJsonObject doc, const QDateTime& now) {
 } // namespace
 
 Plan::Plan(QObject* parent) : QObject(parent) {
+    levels_.chart_max_ml = 1000; // until the first result
     autosave_.setSingleShot(true);
     autosave_.setInterval(autosave_delay_ms);
     connect(&autosave_, &QTimer::timeout, this, &Plan::flushAutosave);
@@ -243,8 +236,7 @@ void Plan::shiftStart(int minutes) {
         t.setTimeSpec(Qt::UTC);
     t = t.addSecs(60LL * minutes);
     // Keep the form the user wrote: wall-clock time stays without an offset.
-    setStart(has_offset && s.size() > 19 ? t.toString(Qt::ISODate)
-                                         : t.toString(QStringLiteral("yyyy-MM-ddTHH:mm:ss")));
+    setStart(contract_iso(t, has_offset && s.size() > 19));
 }
 
 double Plan::wasteCapacityMl() const {
@@ -955,86 +947,72 @@ void Plan::recompute() {
 }
 
 void Plan::compute_levels() {
-    levels_.clear();
-    dry_points_.clear();
-    waste_.clear();
-    chart_hours_ = 1;
-    chart_max_ml_ = 100;
+    levels_ = {};
     if (!workspace_)
         return;
-    // Each bottle's level at the end of every sequence row, from the core's per-row volumes
-    // ("rows[i].volume_ml"): within a row every injection draws the same volume in the same
-    // time, so the straight line between row ends is exact at every injection boundary. The
-    // standby after the last injection ends at the core's totals (required_ml, waste_ml).
-    const QStringList letters = lineLetters();
+    // The adapter: the core's result (per-row volumes, totals, run-dry times) as the typed input
+    // of chem::bottle_levels, clock times turned into hours from the start.
+    chem::BottleLevelsInput in;
     const QJsonObject res_lines = obj(result_, "lines");
-    std::map<QString, double> level;
-    double waste = 0;
-    for (const QString& l : letters) {
-        const double bottle = line(l).value("bottle_ml").toDouble();
-        level[l] = bottle - res_lines.value(l).toObject().value("prime_ml").toDouble(primeMl(l));
-        waste += bottle - level[l];
-        levels_[l].append(QPointF(0, level[l]));
-        chart_max_ml_ = std::max(chart_max_ml_, bottle);
-    }
-    waste_.append(QPointF(0, waste));
-    for (const QJsonValue& v : result_.value("rows").toArray()) {
-        const QJsonObject row = v.toObject();
-        const double h = hours_between(start(), row.value("end").toString());
-        if (h < 0)
+    for (const QString& l : lineLetters()) {
+        const int i = chem::line_index(l.toStdString());
+        if (i < 0)
             continue;
-        const QJsonObject vol = row.value("volume_ml").toObject();
-        for (const QString& l : letters) {
-            level[l] -= vol.value(l).toDouble();
-            waste += vol.value(l).toDouble();
-            levels_[l].append(QPointF(h, level[l]));
-        }
-        waste_.append(QPointF(h, waste));
-    }
-    const double standby_min = result_.value("standby_min").toDouble();
-    if (standby_min > 0) {
-        const double h = (totalMin() + standby_min) / 60.0;
-        for (const QString& l : letters)
-            levels_[l].append(
-                QPointF(h, line(l).value("bottle_ml").toDouble() -
-                               res_lines.value(l).toObject().value("required_ml").toDouble()));
-        waste_.append(QPointF(h, wasteMl()));
-    }
-    for (const QString& l : letters) {
         const QJsonObject r = res_lines.value(l).toObject();
-        if (r.value("runs_dry").toBool()) {
-            const double h = r.contains("dry_at_min")
+        chem::BottleLevelLine b;
+        b.bottle_ml = line(l).value("bottle_ml").toDouble();
+        b.residue_ml = line(l).value("residue_ml").toDouble();
+        b.prime_ml = r.value("prime_ml").toDouble(primeMl(l));
+        b.required_ml = r.value("required_ml").toDouble();
+        if (r.value("runs_dry").toBool())
+            b.dry_at_hours = r.contains("dry_at_min")
                                  ? r.value("dry_at_min").toDouble() / 60.0
                                  : hours_between(start(), r.value("dry_at").toString());
-            if (h >= 0)
-                dry_points_[l] = QPointF(h, line(l).value("residue_ml").toDouble());
-        }
+        in.lines[i] = b;
     }
-    for (const QPointF& p : waste_)
-        chart_max_ml_ = std::max(chart_max_ml_, p.y());
-    chart_max_ml_ = std::max(chart_max_ml_, wasteCapacityMl());
-    double last = 0;
-    for (auto& [l, pts] : levels_)
-        if (!pts.isEmpty())
-            last = std::max(last, pts.back().x());
-    chart_hours_ = std::max(1.0, std::ceil(last));
+    for (const QJsonValue& v : result_.value("rows").toArray()) {
+        const QJsonObject row = v.toObject();
+        chem::BottleLevelRow r;
+        r.end_hours = hours_between(start(), row.value("end").toString());
+        const QJsonObject vol = row.value("volume_ml").toObject();
+        for (int i = 0; i < chem::max_lines; ++i)
+            r.volume_ml[i] = vol.value(QString(QChar(chem::line_letter(i)))).toDouble();
+        in.rows.push_back(r);
+    }
+    const double standby_min = result_.value("standby_min").toDouble();
+    if (standby_min > 0)
+        in.standby_end_hours = (totalMin() + standby_min) / 60.0;
+    in.waste_ml = wasteMl();
+    in.waste_capacity_ml = wasteCapacityMl();
+    levels_ = chem::bottle_levels(in);
 }
 
+namespace {
+QList<QPointF> points_of(const std::vector<chem::LevelPoint>& pts) {
+    QList<QPointF> out;
+    out.reserve(qsizetype(pts.size()));
+    for (const chem::LevelPoint& p : pts)
+        out.append(QPointF(p.hours, p.ml));
+    return out;
+}
+} // namespace
+
 void Plan::fillLevelSeries(QObject* series, const QString& letter) const {
-    auto it = levels_.find(letter);
-    QList<QPointF> pts = it == levels_.end() ? QList<QPointF>() : it->second;
+    const int i = chem::line_index(letter.toStdString());
+    QList<QPointF> pts = i < 0 ? QList<QPointF>() : points_of(levels_.level[i]);
     for (QPointF& p : pts)
         p.setY(std::max(0.0, p.y())); // a bottle does not go below empty
     replace_series(series, pts);
 }
 
 void Plan::fillDrySeries(QObject* series, const QString& letter) const {
-    auto it = dry_points_.find(letter);
-    replace_series(series, it == dry_points_.end() ? QList<QPointF>() : QList<QPointF>{it->second});
+    const int i = chem::line_index(letter.toStdString());
+    const std::optional<chem::LevelPoint> dry = i < 0 ? std::nullopt : levels_.dry[i];
+    replace_series(series, dry ? QList<QPointF>{QPointF(dry->hours, dry->ml)} : QList<QPointF>());
 }
 
 void Plan::fillWasteSeries(QObject* series) const {
-    replace_series(series, waste_);
+    replace_series(series, points_of(levels_.waste));
 }
 
 QVariantMap Plan::methodConditions(const QString& method) const {

@@ -5,6 +5,7 @@
 // LinesModel, GradientModel and SequenceRowsModel are views onto parts of this document; the
 // plan is autosaved (setting "current_plan") a moment after each edit, so closing or killing the
 // app loses at most that moment.
+#include "chem/bottle_levels.h"
 #include "model_util.h"
 #include "workspace.h"
 
@@ -168,8 +169,8 @@ class Plan : public QObject {
     double wasteMl() const;
     QVariantList bottles() const { return bottles_; }
     QVariantList warnings() const { return warnings_; }
-    double chartHours() const { return chart_hours_; }
-    double chartMaxMl() const { return chart_max_ml_; }
+    double chartHours() const { return levels_.chart_hours; }
+    double chartMaxMl() const { return levels_.chart_max_ml; }
     double lastRecomputeMs() const { return last_recompute_ms_; }
 
     // ---- editing (every call recomputes and schedules the autosave) ----------------------------
@@ -318,10 +319,7 @@ class Plan : public QObject {
     void set_standby(const QJsonObject& sb);
     int injections_ = 0;
     QVariantList bottles_, warnings_;
-    std::map<QString, QList<QPointF>> levels_; ///< letter → (hours, mL)
-    std::map<QString, QPointF> dry_points_;
-    QList<QPointF> waste_;
-    double chart_hours_ = 1, chart_max_ml_ = 1000;
+    chem::BottleLevels levels_; ///< the bottle chart (chem/bottle_levels)
     double last_recompute_ms_ = 0;
 };
 

@@ -1,5 +1,6 @@
 #include "saved_model.h"
 
+#include "core/date_time.h"
 #include "model_util.h"
 #include "number_text.h"
 #include "workspace.h"

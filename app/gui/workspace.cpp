@@ -3,6 +3,7 @@
 #include "column_library.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 #include "core/solvent_data.h"
 #include "storage/demo.h"
 
@@ -51,10 +52,9 @@ QDateTime Workspace::now() const {
     if (!fixed.isEmpty()) {
         const QDateTime t = QDateTime::fromString(QString::fromLatin1(fixed), Qt::ISODate);
         if (t.isValid())
-            return QDateTime(t.date(), t.time(), Qt::UTC);
+            return as_wall_clock(t);
     }
-    const QDateTime local = QDateTime::currentDateTime();
-    return QDateTime(local.date(), local.time(), Qt::UTC); // wall clock, as the plan counts
+    return wall_clock_now(); // wall clock, as the plan counts
 }
 
 QString Workspace::demoName() {

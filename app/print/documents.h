@@ -44,7 +44,5 @@ PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QS
 QString format_amount(double value);
 QString format_ph(double ph);
 QString format_mmol_per_l(double mol_per_l);
-/// "2026-12-01T16:30:00" -> "2026-12-01 16:30"; "" stays "".
-QString format_datetime(const QString& iso);
 
 } // namespace phaseplan::print

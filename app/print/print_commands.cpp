@@ -1,19 +1,15 @@
 #include "print/print_commands.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 #include "print/documents.h"
 #include "print/sheet.h"
 
-#include <QDateTime>
 #include <QPagedPaintDevice>
 
 namespace phaseplan {
 
 namespace {
-
-QString now_text() {
-    return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"));
-}
 
 void require_output(const CommandOptions& opt) {
     if (opt.output_path.isEmpty())
@@ -28,7 +24,7 @@ QJsonObject command_sheet(const AppData& data, const QJsonObject& input,
     if (paper == print::Paper::label62)
         throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
     require_output(opt);
-    const print::PrintJob job = print::build_print_job(data, input, now_text());
+    const print::PrintJob job = print::build_print_job(data, input, now_minute_text());
     const int pages = print::write_pdf_atomically(
         opt.output_path, job.title,
         [&](QPagedPaintDevice& d) { return print::render_sheet(d, job.sheet, paper); },
@@ -44,7 +40,7 @@ QJsonObject command_labels(const AppData& data, const QJsonObject& input,
                            const CommandOptions& opt) {
     const print::Paper paper = print::paper_from_name(opt.paper);
     require_output(opt);
-    const print::PrintJob job = print::build_print_job(data, input, now_text());
+    const print::PrintJob job = print::build_print_job(data, input, now_minute_text());
     const print::LabelGrid grid = print::label_grid(paper);
     // Default: one sheet full of labels for one bottle's document; one label each otherwise.
     int copies = job.copies.value_or(1);

@@ -1,10 +1,10 @@
 #include "print/print_controller.h"
 
 #include "chem/error.h"
+#include "core/date_time.h"
 #include "print/documents.h"
 #include "print/sheet.h"
 
-#include <QDateTime>
 #include <QJsonObject>
 #include <QPrinter>
 #include <QPrinterInfo>
@@ -19,10 +19,6 @@ QString local_path(const QString& path_or_url) {
     if (path_or_url.startsWith(QStringLiteral("file:")))
         return QUrl(path_or_url).toLocalFile();
     return path_or_url;
-}
-
-QString now_text() {
-    return QDateTime::currentDateTime().toString(QStringLiteral("yyyy-MM-dd HH:mm"));
 }
 
 int label_copies(const PrintJob& job, Paper paper, int copies) {
@@ -93,8 +89,8 @@ bool PrintController::save_sheet(const QVariantMap& document, const BatchRelease
         const Paper paper = paper_from_name(paper_name);
         if (paper == Paper::label62)
             throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
-        const PrintJob job =
-            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
+        const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document),
+                                             now_minute_text(), release);
         write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
             return render_sheet(d, job.sheet, paper);
         });
@@ -117,8 +113,8 @@ bool PrintController::save_labels(const QVariantMap& document, const BatchReleas
         return fail("data", "no reference data loaded");
     try {
         const Paper paper = paper_from_name(paper_name);
-        const PrintJob job =
-            build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
+        const PrintJob job = build_print_job(*data_, QJsonObject::fromVariantMap(document),
+                                             now_minute_text(), release);
         const int n = label_copies(job, paper, copies);
         write_pdf_atomically(local_path(path), job.title, [&](QPagedPaintDevice& d) {
             return render_labels(d, job.labels, paper, n);
@@ -139,7 +135,7 @@ int PrintController::paintSheet(QPrinter& printer, const QVariantMap& document,
     if (paper == Paper::label62)
         throw chem::Error("--paper", "label62 is a label size; a sheet prints on a4 or letter");
     const PrintJob job =
-        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
+        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_minute_text(), release);
     printer.setDocName(job.title);
     printer.setFullPage(true); // the layout keeps its own margins
     return render_sheet(printer, job.sheet, paper);
@@ -152,7 +148,7 @@ int PrintController::paintLabels(QPrinter& printer, const QVariantMap& document,
         throw chem::Error("data", "no reference data loaded");
     const Paper paper = paper_from_name(paper_name);
     const PrintJob job =
-        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_text(), release);
+        build_print_job(*data_, QJsonObject::fromVariantMap(document), now_minute_text(), release);
     printer.setDocName(job.title);
     printer.setFullPage(true);
     return render_labels(printer, job.labels, paper, label_copies(job, paper, copies));

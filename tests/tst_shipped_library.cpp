@@ -1,0 +1,103 @@
+// The chemistry tests' copy of the shipped libraries (tests/chem/shipped_library.h, generated at
+// build time) is what the programs load from data/: same systems, reagents, SIT coefficients and
+// eluent data, and the same pH for every reagent alone (bit for bit); same solvents,
+// miscibility, additives, solubility, shelf lives and excess volumes.
+#include "chem/equilibrium.h"
+#include "shipped_library.h"
+#include "test_support.h"
+
+#include <QtTest>
+
+using phaseplan::testing::shipped_data;
+
+class TestShippedLibrary : public QObject {
+    Q_OBJECT
+  private slots:
+    void same_entries() {
+        const chem::Library& app = shipped_data().reagents;
+        const chem::Library& gen = chem::testing::shipped_library();
+        QCOMPARE(gen.systems().size(), app.systems().size());
+        for (size_t i = 0; i < app.systems().size(); ++i) {
+            const chem::AcidBaseSystem &a = app.systems()[i], &g = gen.systems()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.species, a.species);
+            QCOMPARE(g.pka_25c, a.pka_25c);
+            QCOMPARE(g.enthalpy_kj_per_mol, a.enthalpy_kj_per_mol);
+            QCOMPARE(g.heat_capacity_j_per_mol_k, a.heat_capacity_j_per_mol_k);
+            QCOMPARE(g.dpka_per_k, a.dpka_per_k);
+            QCOMPARE(g.eluent_shift.size(), a.eluent_shift.size());
+            for (size_t k = 0; k < a.eluent_shift.size(); ++k)
+                QCOMPARE(g.eluent_shift[k].dpka, a.eluent_shift[k].dpka);
+            for (double t : {278.15, 310.15, 333.15})
+                QCOMPARE(g.pka_at(0, t), a.pka_at(0, t));
+        }
+        QCOMPARE(gen.reagents().size(), app.reagents().size());
+        for (size_t i = 0; i < app.reagents().size(); ++i) {
+            const chem::Reagent &a = app.reagents()[i], &g = gen.reagents()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.name, a.name);
+            QCOMPARE(g.molar_mass_g_per_mol, a.molar_mass_g_per_mol);
+            QCOMPARE(g.assay_fraction, a.assay_fraction);
+            QCOMPARE(g.density_g_per_ml, a.density_g_per_ml);
+            QCOMPARE(g.ghs_hazards, a.ghs_hazards);
+            QCOMPARE(g.spectators.size(), a.spectators.size());
+            QCOMPARE(g.systems.size(), a.systems.size());
+        }
+        QCOMPARE(gen.sit_epsilons().size(), app.sit_epsilons().size());
+        for (size_t i = 0; i < app.sit_epsilons().size(); ++i)
+            QCOMPARE(gen.sit_epsilons()[i].kg_per_mol, app.sit_epsilons()[i].kg_per_mol);
+        QCOMPARE(gen.eluent_solvents().size(), app.eluent_solvents().size());
+        for (size_t i = 0; i < app.eluent_solvents().size(); ++i)
+            for (double phi : {0.1, 0.3, 0.6})
+                QCOMPARE(gen.eluent_solvents()[i].delta(phi), app.eluent_solvents()[i].delta(phi));
+    }
+
+    void same_solvents() {
+        const chem::SolventLibrary& app = shipped_data().solvents;
+        const chem::SolventLibrary& gen = chem::testing::shipped_solvents();
+        QCOMPARE(gen.solvents().size(), app.solvents().size());
+        for (size_t i = 0; i < app.solvents().size(); ++i) {
+            const chem::Solvent &a = app.solvents()[i], &g = gen.solvents()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.molar_mass_g_per_mol, a.molar_mass_g_per_mol);
+            QCOMPARE(g.viscosity_mpa_s, a.viscosity_mpa_s);
+            QCOMPARE(g.uv_cutoff_nm, a.uv_cutoff_nm);
+            QCOMPARE(g.flash_point_c, a.flash_point_c);
+            QCOMPARE(g.sources, a.sources);
+            for (double t : {5.0, 25.0, 45.0})
+                QCOMPARE(g.density_at(t), a.density_at(t));
+            for (const chem::Solvent& other : app.solvents())
+                QCOMPARE(gen.miscibility(a.id, other.id), app.miscibility(a.id, other.id));
+        }
+        QCOMPARE(gen.additives().size(), app.additives().size());
+        for (size_t i = 0; i < app.additives().size(); ++i) {
+            const chem::Additive &a = app.additives()[i], &g = gen.additives()[i];
+            QCOMPARE(g.id, a.id);
+            QCOMPARE(g.uv.has_value(), a.uv.has_value());
+            if (a.uv)
+                for (double amount : {0.05, 0.1, 1.0, 10.0})
+                    QCOMPARE(g.uv->at(amount).cutoff_nm, a.uv->at(amount).cutoff_nm);
+        }
+        QCOMPARE(gen.solubility_tables().size(), app.solubility_tables().size());
+        for (size_t i = 0; i < app.solubility_tables().size(); ++i)
+            QCOMPARE(gen.solubility_tables()[i].points, app.solubility_tables()[i].points);
+        QCOMPARE(gen.shelf_lives().size(), app.shelf_lives().size());
+        QCOMPARE(gen.excess_volumes().size(), app.excess_volumes().size());
+        for (size_t i = 0; i < app.excess_volumes().size(); ++i)
+            QCOMPARE(gen.excess_volumes()[i].at(0.3), app.excess_volumes()[i].at(0.3));
+    }
+
+    void same_ph_for_every_reagent() {
+        const chem::Library& app = shipped_data().reagents;
+        const chem::Library& gen = chem::testing::shipped_library();
+        for (size_t i = 0; i < app.reagents().size(); ++i)
+            for (auto model : {chem::ActivityModel::davies, chem::ActivityModel::sit}) {
+                const double a = chem::solve(app, {{&app.reagents()[i], 0.01}}, 25, model).ph;
+                const double g = chem::solve(gen, {{&gen.reagents()[i], 0.01}}, 25, model).ph;
+                QCOMPARE(g, a);
+            }
+    }
+};
+
+QTEST_GUILESS_MAIN(TestShippedLibrary)
+#include "tst_shipped_library.moc"
