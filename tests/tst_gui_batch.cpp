@@ -8,6 +8,7 @@
 // any analytical chemistry text); the PDF's text is read back with poppler's pdftotext, an
 // outside program.
 #include "batch_model.h"
+#include "gui_test_support.h"
 #include "print/documents.h"
 #include "print/print_controller.h"
 #include "storage/demo.h"
@@ -29,26 +30,10 @@
 #include <memory>
 
 using namespace phaseplan::gui;
+using phaseplan::testing::demo_buffer;
+using phaseplan::testing::open_workspace;
 
 namespace {
-
-const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
-
-QVariantMap demo_buffer() {
-    QFile f(data_dir + "/demo/buffer-phosphate-ph2.5.json");
-    if (!f.open(QIODevice::ReadOnly))
-        qFatal("cannot open the demo buffer");
-    return QJsonDocument::fromJson(f.readAll()).object().toVariantMap();
-}
-
-std::unique_ptr<Workspace> open_workspace(const QString& db) {
-    auto ws = std::make_unique<Workspace>();
-    ws->setDatabasePath(db);
-    ws->setDataDir(data_dir);
-    if (!ws->open())
-        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
-    return ws;
-}
 
 int row_of(const BatchModel& m, const QString& reagent) {
     for (int r = 0; r < m.rowCount(); ++r)

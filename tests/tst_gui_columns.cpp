@@ -12,6 +12,7 @@
 //   sets for bad input; the messages must name the value as typed.
 #include "column_library.h"
 #include "column_transfer.h"
+#include "gui_test_support.h"
 #include "plan.h"
 #include "storage/database.h"
 #include "workspace.h"
@@ -30,20 +31,12 @@
 using namespace phaseplan::gui;
 using phaseplan::storage::Database;
 using phaseplan::storage::DocumentKind;
+using phaseplan::testing::open_workspace;
 
 namespace {
 
 const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
 constexpr double no_value = std::numeric_limits<double>::quiet_NaN();
-
-std::unique_ptr<Workspace> open_workspace(const QString& db) {
-    auto ws = std::make_unique<Workspace>();
-    ws->setDatabasePath(db);
-    ws->setDataDir(data_dir);
-    if (!ws->open())
-        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
-    return ws;
-}
 
 QVariantMap draft(double length, double id, double particle) {
     return QVariantMap{{"id", 0},

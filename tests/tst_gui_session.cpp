@@ -6,6 +6,7 @@
 // recorded under the login signed in, never without one. Rules: 21 CFR 11.10(d) (limited access),
 // 11.200(a)(1) (two components), EU GMP Annex 11 §12.1 (access by authorised people), from memory.
 #include "batch_model.h"
+#include "gui_test_support.h"
 #include "session.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
@@ -21,28 +22,8 @@
 #include <memory>
 
 using namespace phaseplan::gui;
-
-namespace {
-
-const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
-
-std::unique_ptr<Workspace> open_workspace(const QString& db) {
-    auto ws = std::make_unique<Workspace>();
-    ws->setDatabasePath(db);
-    ws->setDataDir(data_dir);
-    if (!ws->open())
-        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
-    return ws;
-}
-
-QVariantMap demo_buffer() {
-    QFile f(data_dir + "/demo/buffer-phosphate-ph2.5.json");
-    if (!f.open(QIODevice::ReadOnly))
-        qFatal("demo buffer missing");
-    return QJsonDocument::fromJson(f.readAll()).object().toVariantMap();
-}
-
-} // namespace
+using phaseplan::testing::demo_buffer;
+using phaseplan::testing::open_workspace;
 
 class TestGuiSession : public QObject {
     Q_OBJECT

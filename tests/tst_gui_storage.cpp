@@ -2,6 +2,7 @@
 // (issue 9): the lab's edits are never overwritten by the demo, saving that cannot happen is said
 // on screen (storageNotice, canSave) with the file's path, and the app still reaches its plan.
 #include "buffer_designer.h"
+#include "gui_test_support.h"
 #include "plan.h"
 #include "workspace.h"
 
@@ -15,21 +16,7 @@
 
 using namespace phaseplan::gui;
 using phaseplan::storage::DocumentKind;
-
-namespace {
-
-const QString data_dir = QStringLiteral(SOURCE_DIR "/data");
-
-std::unique_ptr<Workspace> open_workspace(const QString& db) {
-    auto ws = std::make_unique<Workspace>();
-    ws->setDatabasePath(db);
-    ws->setDataDir(data_dir);
-    if (!ws->open())
-        qFatal("workspace did not open: %s", qPrintable(ws->errorMessage()));
-    return ws;
-}
-
-} // namespace
+using phaseplan::testing::open_workspace;
 
 class TestGuiStorage : public QObject {
     Q_OBJECT

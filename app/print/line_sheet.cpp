@@ -98,8 +98,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
         const double ph = bres ? bres->predicted.ph : *lr.profile.ph;
         label.ph = "pH " + format_ph(ph) + " (aqueous part)";
     }
-    fill_label_batch(doc, hz, d.mark, label);
-    set_release(label, release);
+    fill_label_batch(doc, hz, d.mark, release, label);
     job.labels << label;
 
     job.summary = doc.summary;

@@ -69,8 +69,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
                                  format_mmol_per_l(res.composition[i].mol_per_l);
     label.ph = "pH " + format_ph(res.predicted.ph) + " at " +
                qs(chem::format_number(req.temperature_c)) + " °C";
-    fill_label_batch(doc, hz, d.mark, label);
-    set_release(label, release);
+    fill_label_batch(doc, hz, d.mark, release, label);
     job.labels << label;
 
     job.summary = doc.summary;

@@ -413,7 +413,7 @@ void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
 }
 
 void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QString& mark,
-                      LabelData& label) {
+                      const BatchRelease& release, LabelData& label) {
     const chem::Batch& batch = doc.batch;
     label.batch_id = qs(batch.id);
     label.prepared_at = iso_minute_text(qs(batch.prepared_at));
@@ -423,6 +423,7 @@ void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QStri
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
     label.mark = mark;
+    set_release(label, release);
 }
 
 } // namespace phaseplan::print::sheet_parts

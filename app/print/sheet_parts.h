@@ -38,9 +38,9 @@ PrintJob start_job(const BatchDocument& doc, const QString& kind, const QString&
 void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
                       std::optional<double> target_ph, SheetDocument& d);
 /// A bottle label's batch part: id (and QR), prepared and expiry times, who, the hazards of
-/// `hz` and the sheet's out-of-tolerance `mark`.
+/// `hz`, the sheet's out-of-tolerance `mark` and the release.
 void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QString& mark,
-                      LabelData& label);
+                      const BatchRelease& release, LabelData& label);
 
 /// Pictograms and H statements of the parts, each statement naming the parts that carry it.
 struct HazardSet {
