@@ -208,12 +208,6 @@ std::vector<AuditEntry> audit_entries(QSqlDatabase db, const AuditFilter& filter
 
 AuditVerification verify_audit(QSqlDatabase db) {
     AuditVerification v;
-    auto broken = [&v](qint64 seq, const QString& problem) {
-        v.intact = false;
-        v.first_bad_seq = seq;
-        v.problem = problem;
-        return v;
-    };
     QSqlQuery q = run(
         db,
         QStringLiteral("SELECT %1 FROM audit_log ORDER BY seq").arg(QLatin1String(entry_columns)));
@@ -224,8 +218,8 @@ AuditVerification verify_audit(QSqlDatabase db) {
         ++v.entries;
         if (e.seq != expected) {
             if (e.seq > expected)
-                return broken(expected,
-                              e.seq == expected + 1
+                return v.broken_at(
+                    expected, e.seq == expected + 1
                                   ? QStringLiteral("entry %1 is missing (deleted): entry %2 "
                                                    "follows entry %3")
                                         .arg(expected)
@@ -237,7 +231,7 @@ AuditVerification verify_audit(QSqlDatabase db) {
                                         .arg(e.seq - 1)
                                         .arg(e.seq)
                                         .arg(expected - 1));
-            return broken(
+            return v.broken_at(
                 e.seq,
                 QStringLiteral("entry %1 is out of order (expected %2)").arg(e.seq).arg(expected));
         }
@@ -245,26 +239,27 @@ AuditVerification verify_audit(QSqlDatabase db) {
         if (e.prev_hash != prev) {
             if (computed == e.hash)
                 // The entry is whole but does not chain to the one before it.
-                return broken(e.seq,
-                              QStringLiteral("entry %1 does not follow entry %2: its prev_hash %3 "
-                                             "is not entry %2's hash %4 (an entry was inserted, "
-                                             "replaced or reordered)")
-                                  .arg(e.seq)
-                                  .arg(e.seq - 1)
-                                  .arg(short_hash(e.prev_hash), short_hash(prev)));
-            return broken(e.seq, QStringLiteral("entry %1 was changed: its prev_hash %2 is not the "
-                                                "hash %3 of entry %4")
-                                     .arg(e.seq)
-                                     .arg(short_hash(e.prev_hash), short_hash(prev))
-                                     .arg(e.seq - 1));
+                return v.broken_at(
+                    e.seq, QStringLiteral("entry %1 does not follow entry %2: its prev_hash %3 "
+                                          "is not entry %2's hash %4 (an entry was inserted, "
+                                          "replaced or reordered)")
+                               .arg(e.seq)
+                               .arg(e.seq - 1)
+                               .arg(short_hash(e.prev_hash), short_hash(prev)));
+            return v.broken_at(e.seq,
+                               QStringLiteral("entry %1 was changed: its prev_hash %2 is not the "
+                                              "hash %3 of entry %4")
+                                   .arg(e.seq)
+                                   .arg(short_hash(e.prev_hash), short_hash(prev))
+                                   .arg(e.seq - 1));
         }
         if (computed != e.hash) {
-            return broken(e.seq,
-                          QStringLiteral("entry %1 was changed: its fields (%2 by %3, %4 %5 "
-                                         "\"%6\") hash to %7, not the stored %8")
-                              .arg(e.seq)
-                              .arg(e.logged_at, e.login, e.action, e.record_type,
-                                   e.record_id.left(64), short_hash(computed), short_hash(e.hash)));
+            return v.broken_at(
+                e.seq, QStringLiteral("entry %1 was changed: its fields (%2 by %3, %4 %5 "
+                                      "\"%6\") hash to %7, not the stored %8")
+                           .arg(e.seq)
+                           .arg(e.logged_at, e.login, e.action, e.record_type, e.record_id.left(64),
+                                short_hash(computed), short_hash(e.hash)));
         }
         prev = e.hash;
         ++expected;
@@ -276,28 +271,30 @@ AuditVerification verify_audit(QSqlDatabase db) {
         const qint64 anchored = a.value(0).toLongLong();
         const QString anchored_hash = a.value(1).toString();
         if (anchored > v.head_seq)
-            return broken(v.head_seq + 1,
-                          anchored == v.head_seq + 1
-                              ? QStringLiteral("entry %1, the last one recorded, is missing "
-                                               "(deleted from the end)")
-                                    .arg(anchored)
-                              : QStringLiteral("entries %1 to %2 are missing (deleted from the "
-                                               "end; the last one recorded is %2)")
-                                    .arg(v.head_seq + 1)
-                                    .arg(anchored));
+            return v.broken_at(
+                v.head_seq + 1,
+                anchored == v.head_seq + 1
+                    ? QStringLiteral("entry %1, the last one recorded, is missing "
+                                     "(deleted from the end)")
+                          .arg(anchored)
+                    : QStringLiteral("entries %1 to %2 are missing (deleted from the "
+                                     "end; the last one recorded is %2)")
+                          .arg(v.head_seq + 1)
+                          .arg(anchored));
         if (anchored < v.head_seq)
-            return broken(anchored + 1,
-                          QStringLiteral("entry %1 comes after the last entry recorded (%2): "
-                                         "added behind the program's back")
-                              .arg(anchored + 1)
-                              .arg(anchored));
+            return v.broken_at(anchored + 1,
+                               QStringLiteral("entry %1 comes after the last entry recorded (%2): "
+                                              "added behind the program's back")
+                                   .arg(anchored + 1)
+                                   .arg(anchored));
         if (anchored_hash != v.head_hash)
-            return broken(v.head_seq,
-                          QStringLiteral("entry %1's hash %2 is not the recorded last hash %3")
-                              .arg(v.head_seq)
-                              .arg(short_hash(v.head_hash), short_hash(anchored_hash)));
+            return v.broken_at(v.head_seq,
+                               QStringLiteral("entry %1's hash %2 is not the recorded last hash %3")
+                                   .arg(v.head_seq)
+                                   .arg(short_hash(v.head_hash), short_hash(anchored_hash)));
     } else if (v.head_seq > 0) {
-        return broken(1, QStringLiteral("the record of the last entry (audit_anchor) is missing"));
+        return v.broken_at(
+            1, QStringLiteral("the record of the last entry (audit_anchor) is missing"));
     }
     return v;
 }

@@ -97,6 +97,14 @@ struct AuditVerification {
     QString problem;          ///< one sentence: what differs at first_bad_seq
     qint64 head_seq = 0;      ///< the last entry read
     QString head_hash;
+
+    /// Marks the chain broken at `seq` for `why`; returns the result to hand back.
+    AuditVerification broken_at(qint64 seq, const QString& why) {
+        intact = false;
+        first_bad_seq = seq;
+        problem = why;
+        return *this;
+    }
 };
 /// Walks audit_log in order of seq and checks, for every entry: its number follows the one
 /// before (a gap is a deletion), its prev_hash is the hash before, its stored hash is the hash

@@ -187,12 +187,6 @@ QString SignatureStore::manifestation(const Signature& s) {
 
 AuditVerification verify_records(QSqlDatabase db) {
     AuditVerification v;
-    auto broken = [&v](qint64 seq, const QString& problem) {
-        v.intact = false;
-        v.first_bad_seq = seq;
-        v.problem = problem;
-        return v;
-    };
     // Signatures against their "sign" entries.
     std::map<qint64, AuditEntry> sign_entries;
     std::map<QString, std::map<QString, QJsonValue>> replayed;
@@ -208,10 +202,10 @@ AuditVerification verify_records(QSqlDatabase db) {
             if (e.action == QLatin1String("create"))
                 replayed[e.record_id].clear();
             else if (!replayed.count(e.record_id))
-                return broken(e.seq, QStringLiteral("entry %1 changes batch \"%2\" before any "
-                                                    "entry creates it")
-                                         .arg(e.seq)
-                                         .arg(e.record_id.left(64)));
+                return v.broken_at(e.seq, QStringLiteral("entry %1 changes batch \"%2\" before any "
+                                                         "entry creates it")
+                                              .arg(e.seq)
+                                              .arg(e.record_id.left(64)));
             auto& fields = replayed[e.record_id];
             for (auto it = c.begin(); it != c.end(); ++it) {
                 const QJsonValue nv = it.value().toObject().value(QLatin1String("new"));
@@ -234,11 +228,11 @@ AuditVerification verify_records(QSqlDatabase db) {
         const qint64 seq = q.value(8).toLongLong();
         auto it = sign_entries.find(seq);
         if (it == sign_entries.end())
-            return broken(seq, QStringLiteral("signature %1 on batch \"%2\" names entry %3, "
-                                              "which records no signature")
-                                   .arg(id)
-                                   .arg(batch.left(64))
-                                   .arg(seq));
+            return v.broken_at(seq, QStringLiteral("signature %1 on batch \"%2\" names entry %3, "
+                                                   "which records no signature")
+                                        .arg(id)
+                                        .arg(batch.left(64))
+                                        .arg(seq));
         const AuditEntry& e = it->second;
         const QJsonObject c = QJsonDocument::fromJson(e.changes.toUtf8()).object();
         auto nv = [&c](const char* k) {
@@ -260,7 +254,8 @@ AuditVerification verify_records(QSqlDatabase db) {
         if (nv("signature").toInteger() != id)
             differs << QStringLiteral("number");
         if (!differs.isEmpty())
-            return broken(seq, QStringLiteral("signature %1 on batch \"%2\" differs from entry %3 "
+            return v.broken_at(seq,
+                               QStringLiteral("signature %1 on batch \"%2\" differs from entry %3 "
                                               "that recorded it: %4")
                                    .arg(id)
                                    .arg(batch.left(64))
@@ -270,7 +265,8 @@ AuditVerification verify_records(QSqlDatabase db) {
     }
     for (const auto& [seq, e] : sign_entries)
         if (!seen.count(seq))
-            return broken(seq, QStringLiteral("entry %1 records a signature on batch \"%2\" that "
+            return v.broken_at(seq,
+                               QStringLiteral("entry %1 records a signature on batch \"%2\" that "
                                               "is missing from the signatures")
                                    .arg(seq)
                                    .arg(e.record_id.left(64)));
@@ -281,7 +277,7 @@ AuditVerification verify_records(QSqlDatabase db) {
         const QString id = ids.value(0).toString();
         const std::optional<BatchRecord> b = batches.load(id);
         if (!replayed.count(id))
-            return broken(
+            return v.broken_at(
                 last_seq.count(id) ? last_seq[id] : v.entries + 1,
                 QStringLiteral("batch \"%1\" has no entry that creates it").arg(id.left(64)));
         const auto now = batch_fields(*b);
@@ -296,12 +292,13 @@ AuditVerification verify_records(QSqlDatabase db) {
             if (!now.count(k))
                 differs << k;
         if (!differs.isEmpty())
-            return broken(last_seq[id],
-                          QStringLiteral("batch \"%1\" differs from its trail (last entry %2) in "
-                                         "%3")
-                              .arg(id.left(64))
-                              .arg(last_seq[id])
-                              .arg(differs.join(QStringLiteral(", ")).left(300)));
+            return v.broken_at(
+                last_seq[id],
+                QStringLiteral("batch \"%1\" differs from its trail (last entry %2) in "
+                               "%3")
+                    .arg(id.left(64))
+                    .arg(last_seq[id])
+                    .arg(differs.join(QStringLiteral(", ")).left(300)));
     }
     return v;
 }
