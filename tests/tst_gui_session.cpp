@@ -97,6 +97,9 @@ class TestGuiSession : public QObject {
         QVERIFY(!s.setIdleMinutes(0));
         QVERIFY(!s.setIdleMinutes(241));
         QCOMPARE(s.errorField(), QString("idle_minutes"));
+        s.lock();
+        QVERIFY(!s.setIdleMinutes(3)); // locked: not until the password is entered again
+        QVERIFY(s.unlock("demo-admin-2026"));
         QVERIFY(s.setIdleMinutes(3));
         QCOMPARE(s.idleMinutes(), 3);
         // The lab's setting: another tablet on the same database reads it.

@@ -189,11 +189,9 @@ bool Session::addAccount(const QString& login, const QString& name, const QStrin
 }
 
 bool Session::setIdleMinutes(int minutes) {
-    if (!canRecord() && role_ != QLatin1String("administrator"))
-        return fail(QStringLiteral("idle_minutes"), tr("sign in as the administrator first"));
-    if (role_ != QLatin1String("administrator"))
+    if (!signedIn() || locked_ || role_ != QLatin1String("administrator"))
         return fail(QStringLiteral("idle_minutes"),
-                    tr("only the administrator sets the idle time"));
+                    tr("only the administrator, signed in, sets the idle time"));
     if (minutes < 1 || minutes > max_idle_minutes)
         return fail(QStringLiteral("idle_minutes"),
                     tr("%1 min is outside 1–%2 min").arg(minutes).arg(max_idle_minutes));
