@@ -94,12 +94,13 @@ class TestGuiModels : public QObject {
         QJsonObject demo = read_json(data_dir + "/demo/overnight-sequence.json");
         QCOMPARE(plan.name(), Workspace::demoName());
         // The demo is tonight's plan: PHASEPLAN_NOW is 2026-12-02T14:00, so it starts at the next
-        // 18:00, a day after the file's start, and every other time moves with it. Line A holds its
-        // buffer by reference to the saved buffer the demo seeded.
+        // 18:00, a day after the file's start, and every other time moves with it, except that no
+        // bottle is prepared after now: line A's 14:30 stays at 14:00. Line A holds its buffer by
+        // reference to the saved buffer the demo seeded.
         demo.insert("start", "2026-12-02T18:00:00");
         QJsonObject lines = demo.value("lines").toObject();
         QJsonObject a = lines.value("A").toObject();
-        a.insert("prepared_at", "2026-12-02T14:30:00");
+        a.insert("prepared_at", "2026-12-02T14:00:00");
         QJsonArray parts = a.value("parts").toArray();
         QJsonObject part = parts[0].toObject();
         part.insert("buffer_ref", "20 mM sodium phosphate pH 2.5 buffer");
@@ -122,6 +123,29 @@ class TestGuiModels : public QObject {
                                      Workspace::demoName()));
         auto again = open_workspace(db);
         QVERIFY(!again->firstRun());
+    }
+
+    /// A first run in the evening (18:10, after the demo's 18:00): the demo starts tomorrow 18:00,
+    /// but line A's buffer is not "prepared" tomorrow afternoon; it stays at now. So a user who
+    /// brings the start forward to tonight 19:00 gets a valid plan, not "prepared at … is after
+    /// the sequence start".
+    void an_evening_first_run_can_start_tonight() {
+        qputenv("PHASEPLAN_NOW", "2026-12-02T18:10:30");
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        plan.recomputeNow();
+        const QJsonObject doc = plan.json();
+        QCOMPARE(doc.value("start").toString(), QString("2026-12-03T18:00:00"));
+        QCOMPARE(
+            doc.value("lines").toObject().value("A").toObject().value("prepared_at").toString(),
+            QString("2026-12-02T18:10:00"));
+        plan.setStartAt(2026, 12, 2, 19, 0);
+        plan.recomputeNow();
+        QVERIFY2(plan.valid(), qPrintable(plan.errorField() + ": " + plan.errorMessage()));
+        QCOMPARE(plan.startText(), QString("today 19:00"));
+        qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
     }
 
     void recipe_follows_target_ph_data() {

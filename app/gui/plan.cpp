@@ -68,6 +68,9 @@ void shift_times(QJsonObject& doc, qint64 secs) {
 }
 
 /// The plan moved so that it starts at the next 18:00 after `now` (a night's run planned today).
+/// A bottle is never prepared after `now`: planned in the evening, the start moves to tomorrow
+/// 18:00, and a line's prepared_at that would follow it into tomorrow stays at `now` (to the
+/// minute), so that the start can still be brought forward to tonight.
 QJsonObject starting_tonight(QJsonObject doc, const QDateTime& now) {
     const QDateTime old_start = wall_clock(doc.value("start").toString());
     const QDateTime tonight = next_time_of_day(now, 18, 0);
@@ -75,6 +78,18 @@ QJsonObject starting_tonight(QJsonObject doc, const QDateTime& now) {
         shift_times(doc, old_start.secsTo(tonight));
     else
         doc.insert("start", wall_clock_iso(tonight));
+    QDateTime now_minute = now;
+    now_minute.setTime(QTime(now.time().hour(), now.time().minute()));
+    QJsonObject lines = obj(doc, "lines");
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        QJsonObject l = it.value().toObject();
+        const QDateTime prepared = wall_clock(l.value("prepared_at").toString());
+        if (prepared.isValid() && prepared > now_minute) {
+            l.insert("prepared_at", wall_clock_iso(now_minute));
+            it.value() = l;
+        }
+    }
+    doc.insert("lines", lines);
     return doc;
 }
 
