@@ -325,6 +325,7 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
     p.kw = std::exp(-ln10 * pkw_ss);
     p.a_dh = debye_huckel_a_for(eps, temperature_k);
     p.a_molal = p.a_dh * std::sqrt(rho);
+    p.b_molal = debye_huckel_b_for(eps, temperature_k) * std::sqrt(rho);
     p.kg_per_l = rho;
 }
 
@@ -335,7 +336,7 @@ void nearest_pka(const detail::Problem& p, const detail::State& st,
     out.nearest_pka_gap = std::numeric_limits<double>::infinity();
     out.nearest_system = -1;
     // Davies: log10 γ(z) = z² log10 γ(1), so pKa′ = pKa − log10 γ(1) · (z_j² − z_{j+1}²) needs no
-    // per-species γ; SIT takes them from the solved state.
+    // per-species γ; SIT and Truesdell–Jones take them from the solved state.
     const bool davies = p.model == ActivityModel::davies;
     const double log10_g1 =
         davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;

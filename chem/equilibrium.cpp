@@ -272,6 +272,35 @@ void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<doub
     }
 }
 
+/// Truesdell–Jones γ of every flat species from their concentrations (mol/L, converted to
+/// mol/kg), with the Bates–Guggenheim convention term (chem::truesdell_jones_convention).
+void truesdell_jones_gammas(const Problem& p, const std::vector<double>& c,
+                            std::vector<double>& g) {
+    double i_m = 0;
+    for (int k = 0; k < p.n_flat; ++k)
+        i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
+    i_m /= p.kg_per_l;
+    const double phi =
+        truesdell_jones_convention(p.a_molal, p.b_molal, p.tj_chloride_size, p.tj_chloride_b, i_m);
+    g.resize(p.n_flat);
+    for (int k = 0; k < p.n_flat; ++k) {
+        const int z = p.flat_charge[k];
+        const double lg = z == 0 ? 0.0
+                                 : truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, z,
+                                                                   p.tj_size[k], p.tj_b[k], i_m) -
+                                       z * phi;
+        g[k] = std::exp(ln10 * lg);
+    }
+}
+
+/// The γ of an extended model (SIT or Truesdell–Jones) from the species' concentrations.
+void extended_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
+    if (p.model == ActivityModel::truesdell_jones)
+        truesdell_jones_gammas(p, c, g);
+    else
+        sit_gammas(p, c, g);
+}
+
 constexpr double ph_low = -3.0;  ///< bracket: [H+] ~ 1000 mol/L exceeds any allowed amount
 constexpr double ph_high = 17.0; ///< bracket: [OH-] ~ 1000 mol/L
 
@@ -380,7 +409,9 @@ void Problem::index_species(const Library& lib) {
     flat_charge.push_back(-1);
     n_flat = static_cast<int>(flat_charge.size());
     sit_eps.clear();
-    if (model != ActivityModel::sit)
+    tj_size.clear();
+    tj_b.clear();
+    if (model == ActivityModel::davies)
         return; // Davies needs the charges only
     std::vector<const std::string*> names;
     for (const auto& s : systems)
@@ -391,6 +422,20 @@ void Problem::index_species(const Library& lib) {
     static const std::string h = "H+", oh = "OH-";
     names.push_back(&h);
     names.push_back(&oh);
+    if (model == ActivityModel::truesdell_jones) {
+        tj_size.assign(n_flat, default_ion_size_angstrom);
+        tj_b.assign(n_flat, 0.0);
+        for (int k = 0; k < n_flat; ++k)
+            if (const IonSize* e = lib.ion_size(*names[k])) {
+                tj_size[k] = e->size_angstrom;
+                tj_b[k] = e->b_kg_per_mol;
+            }
+        if (const IonSize* cl = lib.ion_size("Cl-")) {
+            tj_chloride_size = cl->size_angstrom;
+            tj_chloride_b = cl->b_kg_per_mol;
+        }
+        return;
+    }
     sit_eps.assign(static_cast<size_t>(n_flat) * n_flat, 0.0);
     for (int k = 0; k < n_flat; ++k)
         for (int l = 0; l < n_flat; ++l)
@@ -417,6 +462,7 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     p.a_dh = debye_huckel_a(p.temperature_k);
     p.model = model;
     p.a_molal = debye_huckel_a_molal(p.temperature_k);
+    p.b_molal = debye_huckel_b_molal(p.temperature_k);
     p.kg_per_l = water_density_g_per_ml(p.temperature_k);
     std::vector<double> amounts;
     // Running total per reagent (a map: O(n log n) over n components, not a rescan per entry).
@@ -498,10 +544,11 @@ State solve_state(const Problem& p, const State* guess) {
     // Scratch reused across solves on this thread (a trace solves a hundred points in a row).
     thread_local std::vector<std::array<double, max_steps>> kc;
     thread_local std::vector<double> g;
-    if (p.model == ActivityModel::sit) {
-        // γ depends on each counter-ion's molality, not on I alone: a fixed point on the
-        // species' concentrations. It starts from the Davies γ at the guess (or spectators') I;
-        // after 30 plain steps the update is damped by half (never needed for the buffers here).
+    if (p.model != ActivityModel::davies) {
+        // γ depends on each counter-ion's molality (SIT) or each ion's size (Truesdell–Jones),
+        // not on I alone: a fixed point on the species' concentrations. It starts from the Davies γ
+        // at the guess (or spectators') I; after 30 plain steps the update is damped by half (never
+        // needed for the buffers here).
         davies_gammas(p, ionic, g);
         std::vector<double> c, g_new;
         for (int cycle = 0; cycle < 200; ++cycle) {
@@ -513,7 +560,7 @@ State solve_state(const Problem& p, const State* guess) {
             ph = new_ph;
             ++evaluations;
             balance.concentrations(ph, c);
-            sit_gammas(p, c, g_new);
+            extended_gammas(p, c, g_new);
             double change = 0;
             for (int k = 0; k < p.n_flat; ++k)
                 change = std::max(change, std::abs(std::log(g_new[k] / g[k])));
@@ -523,8 +570,10 @@ State solve_state(const Problem& p, const State* guess) {
             for (int k = 0; k < p.n_flat; ++k)
                 g[k] = std::pow(g[k], 1 - damp) * std::pow(g_new[k], damp);
         }
-        throw Error("components", "the activity coefficients (SIT) did not converge; the mixture "
-                                  "is too concentrated for the model");
+        throw Error("components", std::string("the activity coefficients (") +
+                                      activity_model_name(p.model) +
+                                      ") did not converge; the mixture is too concentrated for "
+                                      "the model");
     }
     auto step = [&](double i_in) {
         davies_gammas(p, i_in, g);
@@ -601,14 +650,14 @@ State solve_state_near(const Problem& p, const State& guess) {
 std::vector<double> gammas_at(const Problem& p, const State& st) {
     std::vector<double> g;
     davies_gammas(p, st.ionic_strength_mol_per_l, g);
-    if (p.model == ActivityModel::sit) {
+    if (p.model != ActivityModel::davies) {
         // Iterate to the fixed point the solver stopped at (it converged, so this is stable).
         std::vector<std::array<double, max_steps>> kc;
         std::vector<double> c, g_new;
         for (int k = 0; k < 200; ++k) {
             const AtFixedGamma balance(p, g, kc);
             balance.concentrations(st.ph, c);
-            sit_gammas(p, c, g_new);
+            extended_gammas(p, c, g_new);
             double change = 0;
             for (int q = 0; q < p.n_flat; ++q)
                 change = std::max(change, std::abs(std::log(g_new[q] / g[q])));
@@ -666,6 +715,17 @@ Speciation report(const Problem& p, const State& st) {
                                         "indicative only and measure it."});
         return out;
     }
+    if (p.model == ActivityModel::truesdell_jones) {
+        const double i_m = i / p.kg_per_l;
+        if (i_m > 1.0)
+            out.warnings.push_back(
+                {"ionic-strength-high", Warning::Severity::warning,
+                 "Ionic strength " + format_number(i_m) +
+                     " mol/kg is above 1 mol/kg, beyond the range where the Truesdell–Jones "
+                     "activity model was checked: treat the pH as indicative only and measure "
+                     "it, or choose \"activity_model\": \"sit\"."});
+        return out;
+    }
     if (i > 0.5)
         out.warnings.push_back(
             {"ionic-strength-high", Warning::Severity::warning,
@@ -698,15 +758,20 @@ Speciation solve(const Library& lib, const std::vector<Component>& components, d
         try {
             const double ph_other = detail::solve_state(q, &st).ph;
             const double davies_ph = model == ActivityModel::davies ? st.ph : ph_other;
-            const double sit_ph = model == ActivityModel::davies ? ph_other : st.ph;
-            if (std::abs(davies_ph - sit_ph) > 0.02)
+            const double extended_ph = model == ActivityModel::davies ? ph_other : st.ph;
+            const bool tj = model == ActivityModel::truesdell_jones;
+            if (std::abs(davies_ph - extended_ph) > 0.02)
                 out.warnings.push_back(
                     {"activity-model-differs", Warning::Severity::caution,
-                     "The Davies model gives pH " + format_fixed(davies_ph, 3) +
-                         " and the SIT model pH " + format_fixed(sit_ph, 3) +
+                     "The Davies model gives pH " + format_fixed(davies_ph, 3) + " and the " +
+                         (tj ? "Truesdell–Jones" : "SIT") + " model pH " +
+                         format_fixed(extended_ph, 3) +
                          " at I = " + format_fixed(st.ionic_strength_mol_per_l, 3) +
-                         " mol/L: they differ by more than 0.02. SIT (\"activity_model\": \"sit\") "
-                         "holds to a few mol/kg, Davies to about 0.1 mol/L."});
+                         " mol/L: they differ by more than 0.02. " +
+                         (tj ? "Truesdell–Jones (\"activity_model\": \"truesdell-jones\") "
+                               "holds to about 1 mol/kg"
+                             : "SIT (\"activity_model\": \"sit\") holds to a few mol/kg") +
+                         ", Davies to about 0.1 mol/L."});
         } catch (const Error&) {
             // The other model not converging says nothing about this result.
         }

@@ -16,7 +16,8 @@ struct Problem {
     double kw = 1e-14; ///< thermodynamic ion product of water at T
     double a_dh = 0.5; ///< molar Debye–Hückel A at T, (L/mol)^1/2 (Davies)
     ActivityModel model = ActivityModel::davies;
-    double a_molal = 0.5; ///< molal Debye–Hückel A at T, (kg/mol)^1/2 (SIT)
+    double a_molal = 0.5; ///< molal Debye–Hückel A at T, (kg/mol)^1/2 (SIT, Truesdell–Jones)
+    double b_molal = 0.33; ///< molal Debye–Hückel B at T, Å⁻¹ (kg/mol)^1/2 (Truesdell–Jones)
     /// kg of solvent per litre of solution, m = c / kg_per_l; the solutes' own volume is
     /// neglected (about 2 % in m at 1 mol/L NaCl).
     double kg_per_l = 1.0;
@@ -51,7 +52,12 @@ struct Problem {
     int ion_offset = 0, h_index = 0, oh_index = 0, n_flat = 0;
     std::vector<int> flat_charge;
     std::vector<double> sit_eps;
-    /// Fills the flat layout and (for SIT) the ε matrix from the library.
+    /// Truesdell–Jones: each flat species' size å (Å) and b (kg/mol); and chloride's, which
+    /// sets the convention term.
+    std::vector<double> tj_size, tj_b;
+    double tj_chloride_size = 3.0, tj_chloride_b = 0.0;
+    /// Fills the flat layout and (for SIT) the ε matrix, (for Truesdell–Jones) the sizes, from
+    /// the library.
     void index_species(const Library& lib);
 
     /// Recomputes the totals from the components' amounts (mol/L, one per component).

@@ -160,6 +160,29 @@ double Library::sit_epsilon(const std::string& cation, const std::string& anion)
     return 0.0;
 }
 
+void Library::add_ion_size(IonSize s) {
+    if (s.species.empty())
+        throw Error("species", "needs the species' name");
+    if (!std::isfinite(s.size_angstrom) || s.size_angstrom <= 0 || s.size_angstrom > 20)
+        throw Error("size_angstrom",
+                    format_number(s.size_angstrom) + " Å is outside 0 to 20 Å for an ion's size");
+    if (!std::isfinite(s.b_kg_per_mol) || std::abs(s.b_kg_per_mol) > 2)
+        throw Error("b_kg_per_mol", format_number(s.b_kg_per_mol) + " kg/mol is outside -2 to 2");
+    for (auto& x : ion_sizes_)
+        if (x.species == s.species) {
+            x = std::move(s);
+            return;
+        }
+    ion_sizes_.push_back(std::move(s));
+}
+
+const IonSize* Library::ion_size(const std::string& species) const {
+    for (const auto& x : ion_sizes_)
+        if (x.species == species)
+            return &x;
+    return nullptr;
+}
+
 double EluentSolvent::delta(double f) const {
     double num = 0, den = 1, power = f;
     for (double a : delta_numerator) {

@@ -138,6 +138,12 @@ class Library {
     /// Debye–Hückel term alone for that pair).
     double sit_epsilon(const std::string& cation, const std::string& anion) const;
     const std::vector<SitEpsilon>& sit_epsilons() const { return sit_; }
+    /// Adds or replaces one ion's Truesdell–Jones size and b.
+    void add_ion_size(IonSize s);
+    /// The entry for `species`, nullptr when none is recorded (the model then uses
+    /// default_ion_size_angstrom and b = 0).
+    const IonSize* ion_size(const std::string& species) const;
+    const std::vector<IonSize>& ion_sizes() const { return ion_sizes_; }
     void add_eluent_solvent(EluentSolvent e);
     const EluentSolvent* eluent_solvent(const std::string& organic) const;
     const std::vector<EluentSolvent>& eluent_solvents() const { return eluent_solvents_; }
@@ -149,6 +155,7 @@ class Library {
     std::vector<AcidBaseSystem> systems_;
     std::vector<Reagent> reagents_;
     std::vector<SitEpsilon> sit_;
+    std::vector<IonSize> ion_sizes_;
     std::vector<EluentSolvent> eluent_solvents_;
 };
 

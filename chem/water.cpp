@@ -37,6 +37,16 @@ double debye_huckel_a_molal(double temperature_k) {
     return debye_huckel_a(temperature_k) * std::sqrt(water_density_g_per_ml(temperature_k));
 }
 
+double debye_huckel_b_for(double permittivity, double temperature_k) {
+    // (2 N_A e² · 1000 L/m³ / (ε0 k))^1/2 · 1e-10 m/Å with the CODATA 2018 values.
+    return 50.2907 / std::sqrt(permittivity * temperature_k);
+}
+
+double debye_huckel_b_molal(double temperature_k) {
+    return debye_huckel_b_for(water_permittivity(temperature_k), temperature_k) *
+           std::sqrt(water_density_g_per_ml(temperature_k));
+}
+
 double davies_log10_gamma(double a, int charge, double ionic_strength_mol_per_l) {
     const double sqrt_i = std::sqrt(ionic_strength_mol_per_l);
     return -a * charge * charge * (sqrt_i / (1.0 + sqrt_i) - 0.3 * ionic_strength_mol_per_l);

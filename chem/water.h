@@ -29,6 +29,14 @@ double debye_huckel_a_molal(double temperature_k);
 /// A = 1.82483e6 / (ε T)^{3/2} (L/mol)^1/2, used for water–organic eluents.
 double debye_huckel_a_for(double permittivity, double temperature_k);
 
+/// Molar Debye–Hückel B for any solvent of relative permittivity `permittivity` at
+/// temperature_k, in Å⁻¹ (L/mol)^1/2: B = (2 N_A e² · 1000 / (ε0 ε k T))^1/2 = 50.2907 / (ε T)^1/2
+/// (CODATA 2018 constants; 0.3287 in water at 25 °C).
+double debye_huckel_b_for(double permittivity, double temperature_k);
+
+/// The same in water on the molal scale, Å⁻¹ (kg/mol)^1/2: B_m = B · √ρ_w (ρ_w in g/mL).
+double debye_huckel_b_molal(double temperature_k);
+
 /// Davies activity coefficient (decadic): log10 γ = −A z² (√I/(1+√I) − 0.3 I)
 /// (Davies, Ion Association, 1962). @param ionic_strength_mol_per_l I; @param charge z.
 double davies_log10_gamma(double a, int charge, double ionic_strength_mol_per_l);

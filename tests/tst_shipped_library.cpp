@@ -46,6 +46,12 @@ class TestShippedLibrary : public QObject {
         QCOMPARE(gen.sit_epsilons().size(), app.sit_epsilons().size());
         for (size_t i = 0; i < app.sit_epsilons().size(); ++i)
             QCOMPARE(gen.sit_epsilons()[i].kg_per_mol, app.sit_epsilons()[i].kg_per_mol);
+        QCOMPARE(gen.ion_sizes().size(), app.ion_sizes().size());
+        for (size_t i = 0; i < app.ion_sizes().size(); ++i) {
+            QCOMPARE(gen.ion_sizes()[i].species, app.ion_sizes()[i].species);
+            QCOMPARE(gen.ion_sizes()[i].size_angstrom, app.ion_sizes()[i].size_angstrom);
+            QCOMPARE(gen.ion_sizes()[i].b_kg_per_mol, app.ion_sizes()[i].b_kg_per_mol);
+        }
         QCOMPARE(gen.eluent_solvents().size(), app.eluent_solvents().size());
         for (size_t i = 0; i < app.eluent_solvents().size(); ++i)
             for (double phi : {0.1, 0.3, 0.6})

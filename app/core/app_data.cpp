@@ -231,6 +231,23 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
                 }
             }
         }
+        if (doc.contains("truesdell_jones")) {
+            const QJsonArray sizes = json::require_array(doc, "truesdell_jones", "");
+            for (int i = 0; i < sizes.size(); ++i) {
+                const std::string at = json::path("truesdell_jones", i);
+                const QJsonObject e = json::element_object(sizes, i, "truesdell_jones");
+                chem::IonSize x;
+                x.species = json::require_string(e, "species", at);
+                x.size_angstrom = json::require_number(e, "size_angstrom", at);
+                x.b_kg_per_mol = json::require_number(e, "b_kg_per_mol", at);
+                x.source = json::require_string(e, "source", at);
+                try {
+                    lib.add_ion_size(x);
+                } catch (const chem::Error& err) {
+                    throw err.within(at);
+                }
+            }
+        }
         const QJsonArray reagents = json::require_array(doc, "reagents", "");
         for (int i = 0; i < reagents.size(); ++i) {
             const std::string at = json::path("reagents", i);

@@ -51,7 +51,8 @@ chem::ActivityModel activity_model_from_json(const QJsonObject& doc, const std::
     if (const auto m = chem::activity_model_from_name(*name))
         return *m;
     throw chem::Error(json::path(parent, "activity_model"),
-                      "\"" + *name + "\" is not an activity model (davies or sit)");
+                      "\"" + *name +
+                          "\" is not an activity model (davies, sit or truesdell-jones)");
 }
 
 QJsonObject speciation_to_json(const chem::Speciation& s) {

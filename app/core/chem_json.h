@@ -20,8 +20,8 @@ std::vector<chem::Component> components_from_json(const chem::Library& lib, cons
                                                   const std::string& parent, double* temperature_c);
 QJsonObject speciation_to_json(const chem::Speciation& s);
 
-/// The optional "activity_model" of a document ("davies" or "sit"); Davies when absent.
-/// Throws chem::Error naming parent.activity_model for any other value.
+/// The optional "activity_model" of a document ("davies", "sit" or "truesdell-jones"); Davies when
+/// absent. Throws chem::Error naming parent.activity_model for any other value.
 chem::ActivityModel activity_model_from_json(const QJsonObject& doc, const std::string& parent);
 
 /// A recipe document (see README "recipe") -> request. Throws chem::Error naming the field.

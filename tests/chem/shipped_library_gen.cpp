@@ -210,6 +210,9 @@ int main(int argc, char** argv) {
         for (const chem::SitEpsilon& e : lib.sit_epsilons())
             o << "    lib.add_sit_epsilon({" << str(e.cation) << ", " << str(e.anion) << ", "
               << num(e.kg_per_mol) << ", " << str(e.source) << "});\n";
+        for (const chem::IonSize& e : lib.ion_sizes())
+            o << "    lib.add_ion_size({" << str(e.species) << ", " << num(e.size_angstrom) << ", "
+              << num(e.b_kg_per_mol) << ", " << str(e.source) << "});\n";
         for (const chem::EluentSolvent& e : lib.eluent_solvents())
             write_eluent_solvent(o, e);
         o << "    return lib;\n}\n\n";
