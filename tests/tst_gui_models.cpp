@@ -145,6 +145,14 @@ class TestGuiModels : public QObject {
         plan.recomputeNow();
         QVERIFY2(plan.valid(), qPrintable(plan.errorField() + ": " + plan.errorMessage()));
         QCOMPARE(plan.startText(), QString("today 19:00"));
+        QCOMPARE(plan.startNote(), QString()); // later than now: nothing to say
+        // A start already past (today 18:00 at 18:10) is planned, with a word under the field.
+        plan.setStartAt(2026, 12, 2, 18, 0);
+        plan.recomputeNow();
+        QVERIFY(plan.startNote().startsWith("Today 18:00 was 10 min ago"));
+        // Within the same minute is "now", not the past.
+        plan.setStartAt(2026, 12, 2, 18, 10);
+        QCOMPARE(plan.startNote(), QString());
         qputenv("PHASEPLAN_NOW", "2026-12-02T14:00:00");
     }
 

@@ -329,6 +329,20 @@ QString Plan::startText() const {
     return dayClock(start());
 }
 
+QString Plan::startNote() const {
+    const QDateTime start = wall_clock(this->start());
+    if (!start.isValid() || !workspace_)
+        return {};
+    const qint64 late_s = start.secsTo(workspace_->now());
+    if (late_s < 60)
+        return {};
+    QString note = tr("%1 was %2 ago: the first injections would already have run. Pick a later "
+                      "start unless the sequence has begun.")
+                       .arg(startText(), duration_text(static_cast<double>(late_s / 60)));
+    note[0] = note[0].toUpper();
+    return note;
+}
+
 void Plan::setStartAt(int year, int month, int day, int hour, int minute) {
     const QDateTime t(QDate(year, month, day), QTime(hour, minute), Qt::UTC);
     if (!t.isValid())

@@ -51,6 +51,9 @@ class Plan : public QObject {
     Q_PROPERTY(QVariantMap startParts READ startParts NOTIFY documentChanged)
     /// The start with its day: "today 18:00", "tomorrow 07:30", "Fri 4 Dec 18:00".
     Q_PROPERTY(QString startText READ startText NOTIFY documentChanged)
+    /// A word under the start when it lies in the past ("today 18:00 was 8 min ago: …"); "" when
+    /// it is now or later. Not an error: a sequence already running is planned the same way.
+    Q_PROPERTY(QString startNote READ startNote NOTIFY documentChanged)
 
     // ---- standby after the last injection (optional) -------------------------------------------
     /// The pump keeps running at a low flow after the last injection.
@@ -125,6 +128,7 @@ class Plan : public QObject {
     void setStart(const QString& iso);
     QVariantMap startParts() const;
     QString startText() const;
+    QString startNote() const;
     /// Sets the start from the pickers' parts (wall-clock time).
     Q_INVOKABLE void setStartAt(int year, int month, int day, int hour, int minute);
     /// A contract clock time in the screens' words ("tomorrow 03:30").

@@ -20,6 +20,8 @@ ColumnLayout {
     /// False: a time of day only (no calendar).
     property bool withDate: true
     property string error
+    /// A caution that is not an error (a start in the past), shown under the value.
+    property string note
     property alias button: open
 
     /// The user set a new value.
@@ -60,6 +62,15 @@ ColumnLayout {
         visible: root.error.length > 0
         text: root.error
         color: Theme.bad
+        wrapMode: Text.Wrap
+        font.pixelSize: Theme.smallFont
+    }
+    Label {
+        objectName: "dateTimeNote"
+        Layout.fillWidth: true
+        visible: root.error.length === 0 && root.note.length > 0
+        text: root.note
+        color: Theme.warn
         wrapMode: Text.Wrap
         font.pixelSize: Theme.smallFont
     }
@@ -172,41 +183,18 @@ ColumnLayout {
             RowLayout {
                 spacing: Theme.gap
                 Layout.alignment: Qt.AlignHCenter
-                Tumbler {
+                ClockWheel {
                     id: hours
                     objectName: "hourTumbler"
                     model: 24
-                    visibleItemCount: 3
-                    implicitWidth: Theme.tap * 1.5
-                    implicitHeight: Theme.tap * 3
-                    font.pixelSize: Theme.largeFont
                     Accessible.name: qsTr("Hour")
-                    delegate: Label {
-                        required property int index
-                        text: (index < 10 ? "0" : "") + index
-                        horizontalAlignment: Text.AlignHCenter
-                        verticalAlignment: Text.AlignVCenter
-                        font.pixelSize: Theme.largeFont
-                        opacity: 1.0 - Math.abs(Tumbler.displacement) / 2
-                    }
                 }
                 Label { text: ":"; font.pixelSize: Theme.largeFont; font.bold: true }
-                Tumbler {
+                ClockWheel {
                     id: minutes
                     objectName: "minuteTumbler"
                     model: 60
-                    visibleItemCount: 3
-                    implicitWidth: Theme.tap * 1.5
-                    implicitHeight: Theme.tap * 3
                     Accessible.name: qsTr("Minute")
-                    delegate: Label {
-                        required property int index
-                        text: (index < 10 ? "0" : "") + index
-                        horizontalAlignment: Text.AlignHCenter
-                        verticalAlignment: Text.AlignVCenter
-                        font.pixelSize: Theme.largeFont
-                        opacity: 1.0 - Math.abs(Tumbler.displacement) / 2
-                    }
                 }
             }
             RowLayout {

@@ -10,6 +10,9 @@ ChartView {
     id: root
 
     required property GradientModel gradient
+    /// Set while the gradient table has an error: the lines as typed would mislead (times out of
+    /// order draw lines that run backwards), so they are faded under a notice.
+    property string pausedText: ""
 
     Layout.preferredHeight: Theme.tap * 5
     antialiasing: true
@@ -59,8 +62,28 @@ ChartView {
         labelFormat: "%.0f"
         tickCount: 5
     }
-    LineSeries { id: sa; axisX: tx; axisY: py; color: Theme.lineColours[0]; width: 3 }
-    LineSeries { id: sb; axisX: tx; axisY: py; color: Theme.lineColours[1]; width: 3 }
-    LineSeries { id: sc; axisX: tx; axisY: py; color: Theme.lineColours[2]; width: 3 }
-    LineSeries { id: sd; axisX: tx; axisY: py; color: Theme.lineColours[3]; width: 3 }
+    LineSeries { id: sa; axisX: tx; axisY: py; color: Theme.lineColours[0]; width: 3; opacity: root.pausedText ? 0.15 : 1 }
+    LineSeries { id: sb; axisX: tx; axisY: py; color: Theme.lineColours[1]; width: 3; opacity: root.pausedText ? 0.15 : 1 }
+    LineSeries { id: sc; axisX: tx; axisY: py; color: Theme.lineColours[2]; width: 3; opacity: root.pausedText ? 0.15 : 1 }
+    LineSeries { id: sd; axisX: tx; axisY: py; color: Theme.lineColours[3]; width: 3; opacity: root.pausedText ? 0.15 : 1 }
+
+    Rectangle {
+        objectName: "gradientChartPaused"
+        visible: root.pausedText.length > 0
+        x: root.plotArea.x
+        y: root.plotArea.y
+        width: root.plotArea.width
+        height: root.plotArea.height
+        color: Qt.rgba(Theme.card.r, Theme.card.g, Theme.card.b, 0.8)
+        Text {
+            anchors.fill: parent
+            anchors.margins: Theme.gap
+            horizontalAlignment: Text.AlignHCenter
+            verticalAlignment: Text.AlignVCenter
+            wrapMode: Text.Wrap
+            color: Theme.text
+            font.pixelSize: Theme.fontSize
+            text: root.pausedText
+        }
+    }
 }

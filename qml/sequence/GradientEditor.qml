@@ -314,5 +314,8 @@ Card {
     GradientChart {
         Layout.fillWidth: true
         gradient: gradientModel
+        pausedText: FieldPath.belongs(gradientModel.errorField, "gradient")
+                    ? qsTr("Chart paused until the gradient table is fixed: %1").arg(gradientModel.errorMessage)
+                    : ""
     }
 }

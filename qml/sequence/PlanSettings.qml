@@ -26,6 +26,7 @@ Card {
         hour: root.plan.startParts.hour || 0
         minute: root.plan.startParts.minute || 0
         error: root.errorFor("start")
+        note: root.plan.startNote
         onPicked: function(y, mo, d, h, mi) { root.plan.setStartAt(y, mo, d, h, mi) }
     }
     NumberField {

@@ -1,0 +1,45 @@
+import QtQuick
+import QtQuick.Controls
+import PhasePlan
+
+// One wheel of the time picker (hours or minutes): turns by dragging, by the mouse wheel or
+// touchpad (one step per notch), and by the Up and Down keys once it has focus.
+Tumbler {
+    id: wheel
+
+    visibleItemCount: 3
+    implicitWidth: Theme.tap * 1.5
+    implicitHeight: Theme.tap * 3
+    font.pixelSize: Theme.largeFont
+    focusPolicy: Qt.StrongFocus
+    wrap: true
+
+    function turn(steps) {
+        wheel.currentIndex = ((wheel.currentIndex + steps) % wheel.count + wheel.count) % wheel.count
+    }
+
+    delegate: Label {
+        required property int index
+        text: (index < 10 ? "0" : "") + index
+        horizontalAlignment: Text.AlignHCenter
+        verticalAlignment: Text.AlignVCenter
+        font.pixelSize: Theme.largeFont
+        font.bold: index === wheel.currentIndex && wheel.activeFocus
+        opacity: 1.0 - Math.abs(Tumbler.displacement) / 2
+    }
+
+    // Notches are 120 units; a touchpad sends smaller deltas, summed until one step is reached.
+    property real pendingDelta: 0
+    WheelHandler {
+        acceptedDevices: PointerDevice.Mouse | PointerDevice.TouchPad
+        onWheel: function(event) {
+            wheel.pendingDelta += event.angleDelta.y
+            while (Math.abs(wheel.pendingDelta) >= 120) {
+                wheel.turn(wheel.pendingDelta > 0 ? -1 : 1)
+                wheel.pendingDelta += wheel.pendingDelta > 0 ? -120 : 120
+            }
+        }
+    }
+    Keys.onUpPressed: turn(-1)
+    Keys.onDownPressed: turn(1)
+}
