@@ -34,23 +34,34 @@ Card {
         columns: 3
         columnSpacing: Theme.margin
         rowSpacing: 0
-        Label { text: qsTr("Starts"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
-        Label { text: qsTr("Ends"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
-        Label { text: qsTr("Waste"); color: Theme.dimText; font.pixelSize: Theme.smallFont }
+        // Equal thirds that wrap, so the card never grows wider than the column it sits in (at
+        // 1280 px "Fri 4 Dec 03:30" in the large font would otherwise push the card past the edge).
+        Label { text: qsTr("Starts"); color: Theme.dimText; font.pixelSize: Theme.smallFont; Layout.fillWidth: true; Layout.preferredWidth: 1 }
+        Label { text: qsTr("Ends"); color: Theme.dimText; font.pixelSize: Theme.smallFont; Layout.fillWidth: true; Layout.preferredWidth: 1 }
+        Label { text: qsTr("Waste"); color: Theme.dimText; font.pixelSize: Theme.smallFont; Layout.fillWidth: true; Layout.preferredWidth: 1 }
         Label {
             objectName: "startText"
             text: root.plan.startText
             font.pixelSize: Theme.largeFont
+            Layout.fillWidth: true
+            Layout.preferredWidth: 1
+            wrapMode: Text.Wrap
         }
         Label {
             objectName: "endText"
             text: root.plan.endText
             font.pixelSize: Theme.largeFont
+            Layout.fillWidth: true
+            Layout.preferredWidth: 1
+            wrapMode: Text.Wrap
             font.bold: true
         }
         Label {
             text: qsTr("%1 mL").arg(NumberText.format(root.plan.wasteMl, 0))
             font.pixelSize: Theme.largeFont
+            Layout.fillWidth: true
+            Layout.preferredWidth: 1
+            wrapMode: Text.Wrap
             color: root.plan.wasteCapacityMl > 0 && root.plan.wasteMl > root.plan.wasteCapacityMl ? Theme.bad : Theme.text
         }
     }
