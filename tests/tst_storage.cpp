@@ -8,6 +8,7 @@
 //   tst_storage --save-forever DB     saves a counter in a loop, printing each committed value
 #include "storage/audit_trail.h"
 #include "storage/database.h"
+#include "storage/sql_dialect.h"
 #include "test_backend.h"
 
 #include <QCoreApplication>
@@ -679,6 +680,61 @@ class TestStorage : public QObject {
         QVERIFY2(said.contains("refused the password of user") && said.contains("~/.pgpass"),
                  qPrintable(said));
         QVERIFY2(!said.contains("not-the-password"), qPrintable(said));
+    }
+
+    // The app asks for the password when ~/.pgpass has a wrong one (app/gui/app_runner.cpp): the
+    // refusal is field "database.password", and a password typed for the run
+    // (sql::set_typed_password) is used by every later connection.
+    void postgresql_uses_a_typed_password() {
+        if (!phaseplan::testing::on_postgresql())
+            QSKIP("PostgreSQL only");
+        // The right password, from the cluster's own password file (host:port:db:user:password).
+        QFile real(QFile::decodeName(qgetenv("PGPASSFILE")));
+        QVERIFY(real.open(QIODevice::ReadOnly));
+        const QString right = QString::fromUtf8(real.readLine()).trimmed().section(':', 4);
+        QVERIFY(!right.isEmpty());
+        const QByteArray kept = qgetenv("PGPASSFILE");
+        const QByteArray kept_pw = qgetenv("PGPASSWORD");
+        QTemporaryDir dir;
+        QFile wrong(dir.filePath("pgpass"));
+        QVERIFY(wrong.open(QIODevice::WriteOnly));
+        wrong.write("*:*:*:*:not-the-password\n");
+        wrong.close();
+        wrong.setPermissions(QFileDevice::ReadOwner | QFileDevice::WriteOwner);
+        qputenv("PGPASSFILE", QFile::encodeName(wrong.fileName()));
+        qunsetenv("PGPASSWORD");
+        std::string field, said;
+        auto try_open = [&] {
+            field.clear();
+            said.clear();
+            try {
+                Database db(fresh("unused"));
+                return true;
+            } catch (const chem::Error& e) {
+                field = e.field();
+                said = e.what();
+                return false;
+            }
+        };
+        const bool with_file_only = try_open();
+        const std::string field_file_only = field;
+        phaseplan::storage::sql::set_typed_password("typed-but-wrong");
+        const bool with_wrong = try_open();
+        const std::string said_wrong = said;
+        phaseplan::storage::sql::set_typed_password(right);
+        const bool with_right = try_open();
+        phaseplan::storage::sql::set_typed_password(QString());
+        qputenv("PGPASSFILE", kept);
+        if (!kept_pw.isEmpty())
+            qputenv("PGPASSWORD", kept_pw);
+        QVERIFY(!with_file_only);
+        QCOMPARE(field_file_only, std::string("database.password"));
+        QVERIFY(!with_wrong);
+        QVERIFY2(QString::fromStdString(said_wrong).contains("refused the password typed for user"),
+                 said_wrong.c_str());
+        QVERIFY2(QString::fromStdString(said_wrong).indexOf("typed-but-wrong") < 0,
+                 said_wrong.c_str());
+        QVERIFY2(with_right, said.c_str());
     }
 
     // Issue 13, part 4: on PostgreSQL the time of a change comes from the server's clock, and is

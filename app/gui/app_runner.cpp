@@ -1,6 +1,8 @@
 #include "app_runner.h"
 
 #include "layout_audit.h"
+#include "storage/sql_dialect.h"
+#include "tablet_settings.h"
 #include "workspace.h"
 
 #include <QAccessible>
@@ -228,6 +230,41 @@ void prepare_engine(QQmlEngine& engine) {
     engine.addImportPath(QStringLiteral("qrc:/"));
 }
 
+namespace {
+
+/// What the user chose when the lab database did not open (qml/DatabaseStart.qml).
+struct StartChoice {
+    QString what; ///< "password", "retry", "own-file" or "quit"
+    QString password;
+};
+
+/// Asks, in a small window of its own before the main window exists, for the lab database's
+/// password (`ask_password`) or what to do when it cannot be reached. The password goes only
+/// into this process's memory (storage::sql::set_typed_password).
+StartChoice ask_database_start(const storage::sql::PgLocation& loc, bool ask_password,
+                               const QString& message) {
+    QQmlApplicationEngine engine;
+    prepare_engine(engine);
+    engine.setInitialProperties(
+        {{QStringLiteral("address"), loc.where()},
+         {QStringLiteral("user"),
+          loc.user.isEmpty() ? QStringLiteral("(your login name)") : loc.user},
+         {QStringLiteral("askPassword"), ask_password},
+         {QStringLiteral("message"), message}});
+    engine.load(QUrl(QStringLiteral("qrc:/PhasePlan/DatabaseStart.qml")));
+    if (engine.rootObjects().isEmpty())
+        return {QStringLiteral("quit"), {}};
+    QObject* win = engine.rootObjects().first();
+    QEventLoop loop;
+    QObject::connect(win, SIGNAL(decided()), &loop, SLOT(quit()));
+    loop.exec();
+    StartChoice c{win->property("choice").toString(), win->property("typed").toString()};
+    win->setProperty("typed", QString());
+    return c;
+}
+
+} // namespace
+
 int run_app(QApplication& app) {
     QCoreApplication::setOrganizationName(QStringLiteral("PhasePlan"));
     QCoreApplication::setApplicationName(QStringLiteral("PhasePlan"));
@@ -282,14 +319,41 @@ int run_app(QApplication& app) {
     QString db_path = parser.value(database_opt);
     if (db_path.isEmpty() && checking)
         db_path = temp.filePath(QStringLiteral("phaseplan.sqlite"));
+    if (db_path.isEmpty())
+        db_path = saved_database_location(); // the settings' choice; "" is this tablet's file
+    set_database_in_use(db_path.isEmpty() ? storage::Database::default_path() : db_path);
 
     Workspace workspace;
     workspace.setDatabasePath(db_path);
     workspace.setDataDir(parser.value(data_opt));
     workspace.setSeedDemo(!parser.isSet(no_demo_opt));
-    if (!workspace.open()) {
-        std::fprintf(stderr, "phaseplan: %s\n", qPrintable(workspace.errorMessage()));
-        return 2;
+    // The lab's server may want a password that ~/.pgpass does not hold, or be out of reach:
+    // ask (not in the checking seams, which run unattended) until it opens, the user turns to
+    // this tablet's own file, or quits.
+    while (!workspace.open()) {
+        const bool lab = storage::sql::is_postgresql_uri(db_path);
+        if (checking || !lab) {
+            std::fprintf(stderr, "phaseplan: %s\n", qPrintable(workspace.errorMessage()));
+            return 2;
+        }
+        const bool wants_password = workspace.errorField() == QLatin1String("database.password");
+        QString why = workspace.errorSentence();
+        why = why.left(1).toUpper() + why.mid(1);
+        if (!why.endsWith(QLatin1Char('?')) && !why.endsWith(QLatin1Char('.')))
+            why += QLatin1Char('.');
+        const StartChoice c = ask_database_start(
+            storage::sql::parse_postgresql_uri(db_path), wants_password,
+            wants_password && !storage::sql::has_typed_password() ? QString() : why);
+        if (c.what == QLatin1String("password")) {
+            storage::sql::set_typed_password(c.password);
+        } else if (c.what == QLatin1String("own-file")) {
+            db_path = storage::Database::default_path();
+            workspace.setDatabasePath(db_path);
+            set_database_in_use(db_path);
+        } else if (c.what != QLatin1String("retry")) {
+            std::fprintf(stderr, "phaseplan: %s\n", qPrintable(workspace.errorMessage()));
+            return 2;
+        }
     }
 
     // The self-test reads the accessible names as a screen reader would: Qt Quick controls fill

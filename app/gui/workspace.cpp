@@ -65,6 +65,8 @@ bool Workspace::open() {
     if (db_)
         return true;
     error_.clear();
+    error_field_.clear();
+    error_sentence_.clear();
     try {
         const QString dir = data_dir_.isEmpty() ? find_data_dir() : data_dir_;
         data_ = load_app_data(dir); // validates the shipped files as they are
@@ -88,6 +90,8 @@ bool Workspace::open() {
             qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
     } catch (const chem::Error& e) {
         error_ = QString::fromStdString(e.what());
+        error_field_ = QString::fromStdString(e.field());
+        error_sentence_ = QString::fromStdString(e.message());
         db_.reset();
         qWarning("PhasePlan: %s", qPrintable(error_));
     }

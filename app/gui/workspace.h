@@ -55,6 +55,10 @@ class Workspace : public QObject, public QQmlParserStatus {
     void setSeedDemo(bool on) { seed_demo_on_ = on; }
     bool ready() const { return db_ != nullptr; }
     QString errorMessage() const { return error_; }
+    /// The field of the error open() failed with ("database.password" when the lab's server
+    /// refused or wanted a password), and its sentence without the field.
+    QString errorField() const { return error_field_; }
+    QString errorSentence() const { return error_sentence_; }
     int libraryRevision() const { return library_revision_; }
     bool firstRun() const { return first_run_; }
     QString libraryProblem() const { return library_problem_; }
@@ -123,6 +127,7 @@ class Workspace : public QObject, public QQmlParserStatus {
     QString database_path_;
     QString data_dir_;
     QString error_;
+    QString error_field_, error_sentence_;
     QString library_problem_;
     AppData data_;
     std::unique_ptr<storage::Database> db_;

@@ -301,6 +301,21 @@ PgLocation parse_postgresql_uri(const QString& uri) {
     return loc;
 }
 
+namespace {
+QString& typed_password() {
+    static QString password;
+    return password;
+}
+} // namespace
+
+void set_typed_password(const QString& password) {
+    typed_password() = password;
+}
+
+bool has_typed_password() {
+    return !typed_password().isEmpty();
+}
+
 QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_name,
                              bool read_only) {
     QSqlDatabase db = QSqlDatabase::addDatabase(QStringLiteral("QPSQL"), connection_name);
@@ -314,7 +329,9 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
         db.setPort(loc.port);
     if (!loc.user.isEmpty())
         db.setUserName(loc.user);
-    // No password here: libpq reads ~/.pgpass (PGPASSFILE) or PGPASSWORD itself.
+    // Without a typed password libpq reads ~/.pgpass (PGPASSFILE) or PGPASSWORD itself.
+    if (has_typed_password())
+        db.setPassword(typed_password());
     QStringList options{QStringLiteral("connect_timeout=%1").arg(loc.connect_timeout_s),
                         QStringLiteral("application_name=phaseplan")};
     if (!loc.sslmode.isEmpty())
@@ -336,9 +353,13 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
     if (why.contains(QLatin1String("password authentication failed")) ||
         why.contains(QLatin1String("no password supplied")) ||
         why.contains(QLatin1String("authentication failed")))
-        fail("database", QStringLiteral("the lab database at %1 refused the password of user %2: "
-                                        "check the line for it in ~/.pgpass")
-                             .arg(where, user));
+        fail("database.password",
+             has_typed_password()
+                 ? QStringLiteral("the lab database at %1 refused the password typed for user %2")
+                       .arg(where, user)
+                 : QStringLiteral("the lab database at %1 refused the password of user %2: "
+                                  "check the line for it in ~/.pgpass, or type it when asked")
+                       .arg(where, user));
     if (why.contains(QLatin1String("role \"")) && why.contains(QLatin1String("does not exist")))
         fail("database",
              QStringLiteral("the lab database at %1 has no user %2: ask whoever manages the "

@@ -98,9 +98,16 @@ bool is_postgresql_uri(const QString& location);
 /// and the value, and refuses a password in the URI.
 PgLocation parse_postgresql_uri(const QString& uri);
 
-/// Opens a QPSQL connection named `connection_name` to `loc`. Throws chem::Error("database", …)
-/// with one sentence (the server cannot be reached, the password was refused, the database does
-/// not exist), never SQL or the driver's own words alone.
+/// A password typed by the user for this run (the app asks when the server refuses the password
+/// from ~/.pgpass or PGPASSWORD). Held in this process's memory only, never written anywhere;
+/// every later PostgreSQL connection of the process uses it. An empty text forgets it.
+void set_typed_password(const QString& password);
+bool has_typed_password();
+
+/// Opens a QPSQL connection named `connection_name` to `loc`. Throws chem::Error with one
+/// sentence (the server cannot be reached, the database does not exist), never SQL or the
+/// driver's own words alone; a refused or missing password is field "database.password", so that
+/// the app can ask for it.
 QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_name, bool read_only);
 
 /// One sentence for a failed statement, without its SQL: the database's own reason, first line.

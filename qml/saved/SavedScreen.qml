@@ -217,6 +217,52 @@ ScreenPage {
                                                        : qsTr("For tablets without a keyboard."))
                       : qsTr("Takes effect when PhasePlan is started again.")
             }
+            // Which database to open at the next start: this tablet's own file, another file, or
+            // the lab's shared PostgreSQL database (the password from ~/.pgpass, or asked then).
+            Label {
+                Layout.fillWidth: true
+                Layout.topMargin: Theme.gap
+                text: qsTr("Database")
+                font.pixelSize: Theme.smallFont
+                color: Theme.dimText
+            }
+            TextField {
+                id: databaseField
+                objectName: "databaseField"
+                Layout.fillWidth: true
+                Layout.preferredHeight: Theme.tap
+                text: TabletSettings.database
+                placeholderText: qsTr("this tablet's own file")
+                inputMethodHints: Qt.ImhNoAutoUppercase | Qt.ImhNoPredictiveText | Qt.ImhUrlCharactersOnly
+                Accessible.name: qsTr("Database to open at the next start")
+                onTextEdited: databaseMessage.text = ""
+                onAccepted: useDatabase.clicked()
+            }
+            Label {
+                id: databaseMessage
+                objectName: "databaseMessage"
+                Layout.fillWidth: true
+                visible: text.length > 0
+                color: Theme.bad
+                wrapMode: Text.Wrap
+                font.pixelSize: Theme.smallFont
+            }
+            TouchButton {
+                id: useDatabase
+                objectName: "useDatabase"
+                text: qsTr("Use at the next start")
+                onClicked: databaseMessage.text = TabletSettings.setDatabase(databaseField.text)
+            }
+            Label {
+                Layout.fillWidth: true
+                wrapMode: Text.WrapAnywhere
+                color: Theme.dimText
+                font.pixelSize: Theme.smallFont
+                text: qsTr("In use now: %1").arg(TabletSettings.databaseInUse)
+                      + ((TabletSettings.database.length > 0 ? TabletSettings.database : "") !== ""
+                         && TabletSettings.database !== TabletSettings.databaseInUse
+                         ? "\n" + qsTr("From the next start: %1").arg(TabletSettings.database) : "")
+            }
         }
     }
 }
