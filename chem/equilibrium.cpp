@@ -11,7 +11,6 @@
 #include <cmath>
 #include <cstdint>
 #include <limits>
-#include <map>
 
 namespace chem {
 
@@ -395,6 +394,8 @@ void Problem::set_amounts(const std::vector<double>& mol_per_l) {
 void Problem::index_species(const Library& lib) {
     sys_offset.clear();
     flat_charge.clear();
+    sys_offset.reserve(systems.size());
+    flat_charge.reserve(systems.size() * (max_steps + 1) + ions.size() + 2);
     for (const auto& s : systems) {
         sys_offset.push_back(static_cast<int>(flat_charge.size()));
         for (int j = 0; j <= s.steps; ++j)
@@ -465,58 +466,72 @@ Problem build_problem(const Library& lib, const std::vector<Component>& componen
     p.b_molal = debye_huckel_b_molal(p.temperature_k);
     p.kg_per_l = water_density_g_per_ml(p.temperature_k);
     std::vector<double> amounts;
-    // Running total per reagent (a map: O(n log n) over n components, not a rescan per entry).
-    std::map<const Reagent*, double> reagent_totals;
-    std::map<const AcidBaseSystem*, std::size_t> system_index;
-    std::map<std::string, std::size_t> ion_index;
+    amounts.reserve(components.size());
+    p.feeds.reserve(components.size());
+    // Running total per distinct reagent, and the systems and ions met so far: linear scans, as
+    // their number is bounded by the library's size (not by the number of components, which a
+    // document may repeat thousands of times), and a handful in practice.
+    std::vector<std::pair<const Reagent*, double>> reagent_totals;
+    reagent_totals.reserve(components.size());
+    p.systems.reserve(components.size() + 1);
+    p.ions.reserve(components.size() + 1);
+    // The component's path, made only for a message.
+    auto field_of = [](size_t k) { return "components[" + std::to_string(k) + "]"; };
     for (size_t k = 0; k < components.size(); ++k) {
         const auto& c = components[k];
-        const std::string field = "components[" + std::to_string(k) + "]";
         if (!c.reagent)
-            throw Error(field + ".reagent", "no reagent given");
+            throw Error(field_of(k) + ".reagent", "no reagent given");
         if (!std::isfinite(c.mol_per_l) || c.mol_per_l <= 0)
-            throw Error(field + ".mol_per_l",
+            throw Error(field_of(k) + ".mol_per_l",
                         format_number(c.mol_per_l) + " is not a positive amount");
         if (c.mol_per_l > max_concentration_mol_per_l)
-            throw Error(field + ".mol_per_l", format_number(c.mol_per_l) + " mol/L is above " +
-                                                  format_number(max_concentration_mol_per_l) +
-                                                  " mol/L, beyond any solution this tool models");
+            throw Error(field_of(k) + ".mol_per_l",
+                        format_number(c.mol_per_l) + " mol/L is above " +
+                            format_number(max_concentration_mol_per_l) +
+                            " mol/L, beyond any solution this tool models");
         // The limit holds for the reagent's total too: the same reagent listed twice (or 2000
         // times) is one amount, and 50 mol/L of it would pass unnoticed entry by entry.
-        const double reagent_total = reagent_totals[c.reagent] += c.mol_per_l;
+        auto total = std::find_if(reagent_totals.begin(), reagent_totals.end(),
+                                  [&](const auto& t) { return t.first == c.reagent; });
+        if (total == reagent_totals.end())
+            total = reagent_totals.insert(reagent_totals.end(), {c.reagent, 0.0});
+        const double reagent_total = total->second += c.mol_per_l;
         if (reagent_total > max_concentration_mol_per_l * (1 + 1e-12))
-            throw Error(field + ".mol_per_l",
+            throw Error(field_of(k) + ".mol_per_l",
                         "brings " + c.reagent->id + " to " + format_number(reagent_total) +
                             " mol/L in all, above " + format_number(max_concentration_mol_per_l) +
                             " mol/L, beyond any solution this tool models");
         Problem::Feed feed;
+        feed.systems.reserve(c.reagent->systems.size());
+        feed.ions.reserve(c.reagent->spectators.size());
         for (const auto& share : c.reagent->systems) {
-            const auto& def = lib.system(share.system, field + ".reagent");
-            if (def.steps() > max_steps)
-                throw Error(field + ".reagent", "system \"" + def.id + "\" has more than " +
-                                                    std::to_string(max_steps) + " steps");
-            auto found = system_index.find(&def);
-            if (found == system_index.end()) {
+            const AcidBaseSystem* def = lib.find_system(share.system);
+            if (!def) // throws, naming the field and the nearest ids
+                def = &lib.system(share.system, field_of(k) + ".reagent");
+            if (def->steps() > max_steps)
+                throw Error(field_of(k) + ".reagent", "system \"" + def->id + "\" has more than " +
+                                                          std::to_string(max_steps) + " steps");
+            auto found = std::find_if(p.systems.begin(), p.systems.end(),
+                                      [&](const Problem::System& s) { return s.def == def; });
+            if (found == p.systems.end()) {
                 Problem::System s;
-                s.def = &def;
-                s.steps = def.steps();
-                s.z0 = def.charge_fully_protonated;
+                s.def = def;
+                s.steps = def->steps();
+                s.z0 = def->charge_fully_protonated;
                 for (int j = 0; j < s.steps; ++j)
-                    s.ka[j] = std::pow(10.0, -def.pka_at(j, p.temperature_k));
-                p.systems.push_back(s);
-                found = system_index.emplace(&def, p.systems.size() - 1).first;
+                    s.ka[j] = std::pow(10.0, -def->pka_at(j, p.temperature_k));
+                found = p.systems.insert(p.systems.end(), s);
             }
-            feed.systems.emplace_back(static_cast<int>(found->second), share.count);
+            feed.systems.emplace_back(static_cast<int>(found - p.systems.begin()), share.count);
         }
         for (const auto& sp : c.reagent->spectators) {
             if (std::abs(sp.charge) > max_charge)
-                throw Error(field + ".reagent", "ion " + sp.ion + " has too high a charge");
-            auto found = ion_index.find(sp.ion);
-            if (found == ion_index.end()) {
-                p.ions.push_back({sp.ion, sp.charge, 0});
-                found = ion_index.emplace(sp.ion, p.ions.size() - 1).first;
-            }
-            feed.ions.emplace_back(static_cast<int>(found->second), sp.count);
+                throw Error(field_of(k) + ".reagent", "ion " + sp.ion + " has too high a charge");
+            auto found = std::find_if(p.ions.begin(), p.ions.end(),
+                                      [&](const Problem::Ion& i) { return i.name == sp.ion; });
+            if (found == p.ions.end())
+                found = p.ions.insert(p.ions.end(), {sp.ion, sp.charge, 0});
+            feed.ions.emplace_back(static_cast<int>(found - p.ions.begin()), sp.count);
         }
         p.feeds.push_back(std::move(feed));
         amounts.push_back(c.mol_per_l);
@@ -579,7 +594,7 @@ State solve_state(const Problem& p, const State* guess) {
         davies_gammas(p, i_in, g);
         const AtFixedGamma balance(p, g, kc);
         const double new_ph =
-            std::isfinite(ph) ? solve_ph_newton(balance, ph) : solve_ph(balance, ph, width);
+            std::isfinite(ph) ? solve_ph_newton(balance, ph) : solve_ph_newton(balance, 7.0);
         if (std::isfinite(ph))
             width = std::clamp(4 * std::abs(new_ph - ph), 1e-7, 0.05);
         ph = new_ph;
@@ -676,6 +691,7 @@ Speciation report(const Problem& p, const State& st) {
     out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
     out.iterations = st.iterations;
     out.activity_model = p.model;
+    out.species.reserve(static_cast<size_t>(p.n_flat));
     const std::vector<double> g = gammas_at(p, st);
     std::vector<std::array<double, max_steps>> kc;
     const AtFixedGamma balance(p, g, kc);
