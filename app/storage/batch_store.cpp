@@ -586,6 +586,18 @@ QString BatchStore::propose_id(const QString& prefix_in, const QDate& date) cons
     return prefix + QStringLiteral("%1").arg(highest + 1, 3, 10, QChar('0'));
 }
 
+QString BatchStore::create_copy(const BatchRecord& mine, const QString& who, const QString& prefix,
+                                const QDate& day) {
+    BatchRecord copy = mine;
+    const QString from = mine.id;
+    copy.id = propose_id(prefix, day);
+    const QString origin = QStringLiteral("Copy of %1").arg(from);
+    copy.comment = copy.comment.trimmed().isEmpty() ? origin : origin + ": " + copy.comment;
+    copy.comment = copy.comment.left(qsizetype(chem::guard::max_text_chars));
+    create(copy, who);
+    return copy.id;
+}
+
 std::optional<BatchRecord> BatchStore::load(const QString& id) const {
     QSqlQuery q = run(db_,
                       QStringLiteral("SELECT %1%2 FROM batches WHERE id = ?")

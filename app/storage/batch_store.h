@@ -127,6 +127,12 @@ class BatchStore {
     /// highest taken for that prefix and day (001 for the first).
     QString propose_id(const QString& prefix, const QDate& date) const;
 
+    /// "Save as a copy" after a conflict: `mine` (the edits refused) becomes a new batch with a
+    /// fresh id (propose_id(prefix, day)), its comment starting "Copy of <old id>", created by
+    /// `who`. The batch it came from is left as the other bench saved it. Returns the new id.
+    QString create_copy(const BatchRecord& mine, const QString& who, const QString& prefix,
+                        const QDate& day);
+
     std::optional<BatchRecord> load(const QString& id) const;
     /// Ids, newest first.
     QStringList list() const;

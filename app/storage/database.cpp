@@ -693,6 +693,18 @@ void Database::upsert_document(const SavedDocument& d, const QString& now) {
          {name, to_text(d.document), note, now, now, actor_, now});
 }
 
+QString Database::save_copy(DocumentKind kind, const QString& name, const QJsonObject& document,
+                            const QString& note) {
+    const QString base = name.trimmed().left(max_name_chars - 12);
+    Transaction t(*this);
+    QString candidate = base + QStringLiteral(" (copy)");
+    for (int i = 2; load(kind, candidate) || stamp(kind, candidate).version > 0; ++i)
+        candidate = base + QStringLiteral(" (copy %1)").arg(i);
+    save_checked(kind, candidate, document, note, 0);
+    t.commit();
+    return candidate;
+}
+
 RowStamp Database::stamp(DocumentKind kind, const QString& name) const {
     if (!versioned())
         return {};

@@ -162,6 +162,10 @@ class Database {
     /// then. Returns the version now stored.
     qint64 save_checked(DocumentKind kind, const QString& name, const QJsonObject& document,
                         const QString& note, qint64 expected_version);
+    /// "Save as a copy" after a conflict: saves `document` under the first free name of "<name>
+    /// (copy)", "<name> (copy 2)", … as a new document. Returns that name.
+    QString save_copy(DocumentKind kind, const QString& name, const QJsonObject& document,
+                      const QString& note);
     /// The version, who and when of a saved document (version 0 when absent).
     RowStamp stamp(DocumentKind kind, const QString& name) const;
 
