@@ -382,10 +382,10 @@ void BatchModel::refreshFromDatabase() {
             emit batchChanged();
         return;
     }
-    const QString who_when = tr("by %1 at %2")
-                                 .arg(storage::person_words(workspace_->database()->connection(),
-                                                            now->changed_by),
-                                      storage::utc_time_words(now->changed_at));
+    const QString who_when =
+        tr("by %1 at %2")
+            .arg(storage::person_words(workspace_->database()->connection(), now->changed_by),
+                 storage::utc_time_words(now->changed_at));
     if (pending_ || !conflict_.isEmpty()) {
         // Unsaved edits here: never overwritten; the next save is refused and offers the choice.
         set_conflict(conflict_, tr("Changed on another bench %1. Your changes here are not saved "

@@ -120,7 +120,8 @@ bool BufferDesigner::reloadBuffer() {
     if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
         return false;
     std::optional<QJsonObject> doc;
-    guarded([&] { doc = workspace_->database()->load(storage::DocumentKind::buffer, buffer_name_); });
+    guarded(
+        [&] { doc = workspace_->database()->load(storage::DocumentKind::buffer, buffer_name_); });
     if (!doc)
         return false;
     autosave_.stop();
@@ -170,9 +171,9 @@ void BufferDesigner::refreshFromDatabase() {
                                    "you see is kept here only: save it as a copy to keep it."));
         return;
     }
-    const QString who_when = tr("by %1 at %2")
-                                 .arg(storage::person_words(c, now.changed_by),
-                                      storage::utc_time_words(now.changed_at));
+    const QString who_when =
+        tr("by %1 at %2")
+            .arg(storage::person_words(c, now.changed_by), storage::utc_time_words(now.changed_at));
     if (dirty_ || !conflict_.isEmpty()) {
         set_conflict(conflict_, tr("Changed on another bench %1. Your changes here are not saved "
                                    "yet: saving them will offer to reload or to save a copy.")
