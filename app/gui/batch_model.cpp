@@ -386,11 +386,13 @@ void BatchModel::refreshFromDatabase() {
         tr("by %1 at %2")
             .arg(storage::person_words(workspace_->database()->connection(), now->changed_by),
                  storage::utc_time_words(now->changed_at));
-    if (pending_ || !conflict_.isEmpty()) {
+    if (!conflict_.isEmpty())
+        return; // the refusal on screen already names who changed it: nothing to add
+    if (pending_) {
         // Unsaved edits here: never overwritten; the next save is refused and offers the choice.
-        set_conflict(conflict_, tr("Changed on another bench %1. Your changes here are not saved "
-                                   "yet: saving them will offer to reload or to save a copy.")
-                                    .arg(who_when));
+        set_conflict({}, tr("Changed on another bench %1. Your changes here are not saved "
+                            "yet: saving them will offer to reload or to save a copy.")
+                             .arg(who_when));
         return;
     }
     open(stored_->id);

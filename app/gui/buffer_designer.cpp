@@ -95,9 +95,10 @@ void BufferDesigner::save_buffer() {
         set_conflict(e.message, {});
         return;
     }
-    if (e.empty())
+    if (e.empty()) {
+        set_conflict({}, {}); // saved: an earlier notice of another bench's change is history
         workspace_->saveSucceeded();
-    else
+    } else
         workspace_->saveFailed(tr("the buffer \"%1\"").arg(buffer_name_), e.message);
 }
 
@@ -167,17 +168,19 @@ void BufferDesigner::refreshFromDatabase() {
         return;
     const QSqlDatabase c = workspace_->database()->connection();
     if (now.version == 0) {
-        set_conflict(conflict_, tr("This buffer was removed or renamed on another bench; what "
-                                   "you see is kept here only: save it as a copy to keep it."));
+        set_conflict({}, tr("This buffer was removed or renamed on another bench; what "
+                            "you see is kept here only: save it as a copy to keep it."));
         return;
     }
     const QString who_when =
         tr("by %1 at %2")
             .arg(storage::person_words(c, now.changed_by), storage::utc_time_words(now.changed_at));
-    if (dirty_ || !conflict_.isEmpty()) {
-        set_conflict(conflict_, tr("Changed on another bench %1. Your changes here are not saved "
-                                   "yet: saving them will offer to reload or to save a copy.")
-                                    .arg(who_when));
+    if (!conflict_.isEmpty())
+        return; // the refusal on screen already names who changed it: nothing to add
+    if (dirty_) {
+        set_conflict({}, tr("Changed on another bench %1. Your changes here are not saved "
+                            "yet: saving them will offer to reload or to save a copy.")
+                             .arg(who_when));
         return;
     }
     reloadBuffer();

@@ -11,6 +11,7 @@
 #include <QFileInfo>
 #include <QJsonArray>
 #include <QJsonDocument>
+#include <QSysInfo>
 
 namespace phaseplan::gui {
 
@@ -23,6 +24,14 @@ QByteArray read_all(const QString& path) {
     return f.readAll();
 }
 
+/// Who saves are recorded under when nobody is signed in and no name was typed: the computer's
+/// user, else the computer.
+QString fallback_actor() {
+    for (const char* v : {"USER", "LOGNAME", "USERNAME"})
+        if (const QString u = qEnvironmentVariable(v).trimmed(); !u.isEmpty())
+            return u;
+    return QStringLiteral("the bench %1").arg(QSysInfo::machineHostName());
+}
 } // namespace
 
 Workspace::Workspace(QObject* parent) : QObject(parent) {
@@ -35,7 +44,7 @@ void Workspace::setActor(const QString& who) {
         return;
     actor_ = who.trimmed();
     if (db_)
-        db_->set_actor(actor_.isEmpty() ? qEnvironmentVariable("USER") : actor_);
+        db_->set_actor(actor_.isEmpty() ? fallback_actor() : actor_);
     emit actorChanged();
 }
 
@@ -106,7 +115,7 @@ bool Workspace::open() {
                 seed_demo(db);
         });
         first_run_ = db_->created();
-        db_->set_actor(actor_.isEmpty() ? qEnvironmentVariable("USER") : actor_);
+        db_->set_actor(actor_.isEmpty() ? fallback_actor() : actor_);
         if (db_->writable())
             for (const char* file : shipped_library_files) {
                 const QByteArray bytes = read_all(dir + "/" + file);

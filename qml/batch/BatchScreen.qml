@@ -91,6 +91,19 @@ ScreenPage {
         value: printService
     }
 
+    // Changed on another bench: the refused save with Reload / Save as a copy, or a note. Docked at
+    // the bottom, so that it never moves the fields being touched.
+    dock: ConflictBar {
+        objectName: "batchConflict"
+        width: root.contentWidth
+        visible: root.batch.active && !root.gated
+                 && (root.batch.conflictMessage.length > 0 || root.batch.remoteNotice.length > 0)
+        message: root.batch.conflictMessage
+        notice: root.batch.remoteNotice
+        onReload: root.batch.reloadTheirs()
+        onSaveCopy: root.batch.saveAsCopy()
+    }
+
     ColumnLayout {
         width: root.contentWidth
         spacing: Theme.margin
@@ -164,17 +177,6 @@ ScreenPage {
         }
 
         // ---- the open batch ---------------------------------------------------------------
-        // Changed on another bench: the refused save with Reload / Save as a copy, or a note.
-        ConflictBar {
-            objectName: "batchConflict"
-            Layout.fillWidth: true
-            visible: root.batch.active && !root.gated
-                     && (root.batch.conflictMessage.length > 0 || root.batch.remoteNotice.length > 0)
-            message: root.batch.conflictMessage
-            notice: root.batch.remoteNotice
-            onReload: root.batch.reloadTheirs()
-            onSaveCopy: root.batch.saveAsCopy()
-        }
         // Out of tolerance: across the top, above everything else, until a deviation note is
         // recorded (and after, with the note).
         ToleranceCard {

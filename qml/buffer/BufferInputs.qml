@@ -59,14 +59,6 @@ ColumnLayout {
             wrapMode: Text.Wrap
             font.pixelSize: Theme.smallFont
         }
-        ConflictBar {
-            objectName: "bufferConflict"
-            Layout.fillWidth: true
-            message: root.designer.conflictMessage
-            notice: root.designer.remoteNotice
-            onReload: root.designer.reloadBuffer()
-            onSaveCopy: root.designer.saveBufferAsCopy()
-        }
         Flow {
             Layout.fillWidth: true
             spacing: Theme.gap
