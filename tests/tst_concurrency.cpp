@@ -266,6 +266,15 @@ class TestConcurrency : public QObject {
         BatchRecord b = *store.load(batch_id);
         b.comment = "changed";
         QVERIFY(store.edit(batch_id, b, "mats"));
+        // Signing what the signer was not shown is refused as well (21 CFR 11.70: a signature is
+        // bound to the record it was given to; the version check is this program's way).
+        phaseplan::storage::SignatureStore signatures(db.connection());
+        QVERIFY_THROWS_EXCEPTION(ConflictError, signatures.sign(batch_id, "rosa", "rosa-password-1",
+                                                                "prepared", b.version));
+        QVERIFY(signatures.list(batch_id).empty());
+        signatures.sign(batch_id, "rosa", "rosa-password-1", "prepared",
+                        store.load(batch_id)->version);
+        QCOMPARE(signatures.list(batch_id).size(), size_t(1));
         QVERIFY_THROWS_EXCEPTION(ConflictError,
                                  store.mark_printed(batch_id, "rosa", "sheet a4", b.version));
         store.mark_printed(batch_id, "rosa", "sheet a4", store.load(batch_id)->version);

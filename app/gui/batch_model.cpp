@@ -1210,10 +1210,24 @@ bool BatchModel::sign(const QString& login, const QString& password, const QStri
                           tr("record or discard the pending amendment before signing")}),
                false;
     const QString id = stored_->id;
+    std::optional<storage::ConflictError> changed;
     const FieldError e = guarded([&] {
-        storage::SignatureStore(workspace_->database()->connection())
-            .sign(id, login.trimmed(), password, meaning);
+        try {
+            storage::SignatureStore(workspace_->database()->connection())
+                .sign(id, login.trimmed(), password, meaning, stored_->version);
+        } catch (const storage::ConflictError& c) {
+            changed = c;
+        }
     });
+    if (changed) {
+        // Changed on another bench since it was shown here: nobody signs what they have not seen.
+        refreshFromDatabase();
+        return set_error({QStringLiteral("signature"),
+                          tr("not signed: %1 changed this batch at %2, after it was shown here. "
+                             "Check it as it is now, then sign again.")
+                              .arg(changed->person(), changed->time())}),
+               false;
+    }
     if (!e.field.isEmpty()) {
         reload(id); // a wrong password is counted; the signatures are as they were
         emit batchChanged();
