@@ -116,6 +116,27 @@ class TestGuiConflict : public QObject {
         QCOMPARE(stored_comment(*mats.ws, id), QString("degassed, then sonicated"));
     }
 
+    void signing_what_changed_elsewhere_is_refused() {
+        // The demo's passwords (README, demo-only).
+        const QString db = dir_.filePath("sign.sqlite");
+        BatchBench rosa(db, "demo-prep"), mats(db, "demo-review");
+        QVERIFY(rosa.m.markPrepared(demo_buffer()));
+        const QString id = rosa.m.batchId();
+        QVERIFY(mats.m.open(id));
+        mats.m.setComment("pH checked twice"); // after Rosa's screen was loaded
+        QVERIFY(!rosa.m.sign("demo-prep", "demo-prep-2026", "prepared"));
+        QCOMPARE(rosa.m.errorField(), QString("signature"));
+        QVERIFY2(rosa.m.errorMessage().startsWith(
+                     "not signed: Mats Lindqvist (demo-review) changed this batch at "),
+                 qPrintable(rosa.m.errorMessage()));
+        QVERIFY(rosa.m.signatures().isEmpty());
+        // The screen now shows what would be signed; signing it goes through.
+        QCOMPARE(rosa.m.comment(), QString("pH checked twice"));
+        QVERIFY2(rosa.m.sign("demo-prep", "demo-prep-2026", "prepared"),
+                 qPrintable(rosa.m.errorMessage()));
+        QCOMPARE(rosa.m.signatures().size(), 1);
+    }
+
     void poll_refreshes_an_open_batch_without_edits() {
         const QString db = dir_.filePath("poll.sqlite");
         BatchBench rosa(db, "demo-prep"), mats(db, "demo-review");
