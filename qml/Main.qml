@@ -81,6 +81,13 @@ ApplicationWindow {
         signInRequired: session.accountsExist
         signedInLogin: session.canRecord ? session.login : ""
     }
+    // Saves of buffers, lines and sequences are recorded under the person signed in, else the
+    // name typed at the bench (app/storage/versioning.h).
+    Binding {
+        target: window.workspace
+        property: "actor"
+        value: session.canRecord ? session.login : batchModel.preparer
+    }
     // "Prepared by" of a new batch is the person signed in.
     Connections {
         target: session

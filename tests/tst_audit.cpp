@@ -564,6 +564,7 @@ class TestAudit : public QObject {
         BatchRecord back = *batches.load(id);
         back.comment = "x";
         batches.amend(id, back, "demo-prep", "typo");
+        back = *batches.load(id); // a save carries the version it was loaded at
         back.comment = "pH meter PHM-01 re-checked";
         batches.amend(id, back, "demo-prep", "typo undone");
         QVERIFY(!s.list(id).back().holds);

@@ -467,6 +467,7 @@ void TestBatch::historyKeepsEveryChange() {
     next.actual = actual;
     QVERIFY(store.edit(rec.id, next, "R. Okafor"));
     QVERIFY(!store.edit(rec.id, next, "R. Okafor")); // no change, nothing recorded
+    next = *store.load(rec.id);                      // a save carries the version it was loaded at
     QJsonObject acid = next.actual[0].toObject();
     acid["volume_ml"] = 1.24;
     actual = next.actual;

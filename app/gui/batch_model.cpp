@@ -84,9 +84,13 @@ BatchModel::~BatchModel() = default;
 void BatchModel::setWorkspace(Workspace* w) {
     if (workspace_ == w)
         return;
+    if (workspace_)
+        disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
-    if (w)
+    if (w) {
         connect(w, &Workspace::readyChanged, this, [this] { emit batchListChanged(); });
+        connect(w, &Workspace::databaseChanged, this, &BatchModel::refreshFromDatabase);
+    }
     emit workspaceChanged();
     emit batchListChanged();
 }
@@ -308,6 +312,93 @@ void BatchModel::reload(const QString& id) {
     }
 }
 
+void BatchModel::reload_saved(const QString& id) {
+    reload(id);
+    if (draft_ && stored_ && draft_->id == stored_->id) {
+        draft_->version = stored_->version;
+        draft_->changed_by = stored_->changed_by;
+        draft_->changed_at = stored_->changed_at;
+        draft_->revision = stored_->revision;
+        draft_->printed_count = stored_->printed_count;
+    }
+    set_conflict({}, {});
+}
+
+void BatchModel::set_conflict(const QString& conflict, const QString& notice) {
+    if (conflict_ == conflict && remote_notice_ == notice)
+        return;
+    conflict_ = conflict;
+    remote_notice_ = notice;
+    emit conflictChanged();
+}
+
+bool BatchModel::take_conflict(const FieldError& e) {
+    if (e.field != QLatin1String("version"))
+        return false;
+    // The refused edits stay in draft_ (on screen); nothing was written.
+    set_conflict(e.message, {});
+    set_error({});
+    emit batchChanged();
+    return true;
+}
+
+bool BatchModel::reloadTheirs() {
+    if (!draft_)
+        return false;
+    const QString id = draft_->id;
+    set_conflict({}, {});
+    return open(id);
+}
+
+bool BatchModel::saveAsCopy() {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
+    auto st = store();
+    if (!st || !draft_)
+        return false;
+    QString copy_id;
+    const FieldError e = guarded(
+        [&] { copy_id = st->create_copy(*draft_, who(), id_prefix_, QDate::currentDate()); });
+    if (!e.empty())
+        return set_error(e), false;
+    set_conflict({}, {});
+    emit batchListChanged();
+    return open(copy_id);
+}
+
+void BatchModel::refreshFromDatabase() {
+    emit batchListChanged();
+    auto st = store();
+    if (!st || !stored_)
+        return;
+    std::optional<storage::BatchRecord> now;
+    if (!guarded([&] { now = st->load(stored_->id); }).empty() || !now)
+        return;
+    if (now->version == stored_->version) {
+        // A signature given on another bench changes no version: show it.
+        const QVariantList before = signatures_;
+        reload(stored_->id);
+        if (signatures_ != before)
+            emit batchChanged();
+        return;
+    }
+    const QString who_when =
+        tr("by %1 at %2")
+            .arg(storage::person_words(workspace_->database()->connection(), now->changed_by),
+                 storage::utc_time_words(now->changed_at));
+    if (!conflict_.isEmpty())
+        return; // the refusal on screen already names who changed it: nothing to add
+    if (pending_) {
+        // Unsaved edits here: never overwritten; the next save is refused and offers the choice.
+        set_conflict({}, tr("Changed on another bench %1. Your changes here are not saved "
+                            "yet: saving them will offer to reload or to save a copy.")
+                             .arg(who_when));
+        return;
+    }
+    open(stored_->id);
+    set_conflict({}, tr("Changed on another bench %1; shown as saved there.").arg(who_when));
+}
+
 bool BatchModel::markPrepared(const QVariantMap& document) {
     if (const FieldError g = session_gate(); !g.empty())
         return set_error(g), false;
@@ -346,7 +437,7 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
     draft_ = rec;
     lots_.clear();
     pending_ = false;
-    reload(rec.id);
+    reload_saved(rec.id);
     set_error({});
     emit batchChanged();
     emit batchListChanged();
@@ -371,6 +462,7 @@ bool BatchModel::open(const QString& id) {
         lots_[v.toObject().value("reagent").toString()] = v.toObject().value("lot").toString();
     pending_ = false;
     reload(id);
+    set_conflict({}, {});
     set_error(evaluate(*draft_));
     emit batchChanged();
     return true;
@@ -383,6 +475,7 @@ void BatchModel::close() {
     draft_.reset();
     stored_.reset();
     pending_ = false;
+    set_conflict({}, {});
     valid_ = false;
     out_of_tolerance_ = correction_remake_ = false;
     reasons_.clear();
@@ -409,8 +502,15 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         emit batchChanged();
         return false;
     }
+    if (!conflict_.isEmpty()) {
+        // Refused once already: keep collecting the edits on screen until Reload or a copy.
+        emit batchChanged();
+        return false;
+    }
     bool changed = false;
     e = guarded([&] { changed = st->edit(next.id, next, who()); });
+    if (take_conflict(e))
+        return false;
     if (!e.empty()) {
         // A printed batch: the store refuses a plain edit. Keep it pending for an amendment and
         // show the store's message where the change was made.
@@ -420,7 +520,7 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         return false;
     }
     if (changed)
-        reload(next.id);
+        reload_saved(next.id);
     set_error({});
     emit batchChanged();
     return true;
@@ -651,8 +751,14 @@ bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord&
                     tr("give a reason for changing a value taken from an instrument by hand")}),
                false;
     FieldError e = evaluate(next);
+    if (e.empty() && !conflict_.isEmpty())
+        return draft_ = next, emit batchChanged(), false;
     if (e.empty())
         e = guarded([&] { st->amend(next.id, next, who(), reason.trimmed()); });
+    if (e.field == QLatin1String("version")) {
+        draft_ = next;
+        return !take_conflict(e);
+    }
     if (!e.empty()) {
         evaluate(*draft_);
         set_error({e.field == QLatin1String("reason") ? field : e.field, e.message});
@@ -660,7 +766,7 @@ bool BatchModel::apply_by_hand(const QString& field, const storage::BatchRecord&
     }
     draft_ = next;
     pending_ = false;
-    reload(next.id);
+    reload_saved(next.id);
     set_error({});
     emit batchChanged();
     return true;
@@ -825,11 +931,13 @@ bool BatchModel::amend() {
     FieldError e = evaluate(*draft_);
     if (e.empty())
         e = guarded([&] { st->amend(draft_->id, *draft_, who(), amend_reason_.trimmed()); });
+    if (take_conflict(e))
+        return false;
     if (!e.empty())
         return set_error(e), false;
     pending_ = false;
     setAmendReason({});
-    reload(draft_->id);
+    reload_saved(draft_->id);
     set_error({});
     emit batchChanged();
     return true;
@@ -857,6 +965,24 @@ bool BatchModel::ready_to_print() {
         return set_error({QStringLiteral("batch"),
                           tr("no batch is open: mark a buffer as prepared first")}),
                false;
+    if (!conflict_.isEmpty())
+        return set_error({QStringLiteral("version"),
+                          tr("reload the batch or save yours as a copy before printing")}),
+               false;
+    if (auto st = store(); st && stored_) {
+        // The sheet must show the batch as stored: refuse when another bench saved it since.
+        std::optional<storage::BatchRecord> now;
+        guarded([&] { now = st->load(stored_->id); });
+        if (now && now->version != stored_->version) {
+            refreshFromDatabase();
+            if (pending_)
+                return set_error({QStringLiteral("reason"), remote_notice_}), false;
+            return set_error({QStringLiteral("version"),
+                              tr("the batch was just changed on another bench and is shown as "
+                                 "saved there now: check it, then print again")}),
+                   false;
+        }
+    }
     if (pending_)
         return set_error({QStringLiteral("reason"), tr("record the change as an amendment (with a "
                                                        "reason) or discard it before printing: "
@@ -896,9 +1022,12 @@ bool BatchModel::after_print(bool ok, const QString& what) {
     auto st = store();
     FieldError e = guarded([&] {
         if (st)
-            st->mark_printed(draft_->id, who(), what);
+            st->mark_printed(draft_->id, who(), what, stored_ ? stored_->version : 0);
     });
-    reload(draft_->id);
+    if (e.empty())
+        reload_saved(draft_->id);
+    else
+        reload(draft_->id);
     set_error(e);
     emit batchChanged();
     return e.empty();
@@ -1081,10 +1210,24 @@ bool BatchModel::sign(const QString& login, const QString& password, const QStri
                           tr("record or discard the pending amendment before signing")}),
                false;
     const QString id = stored_->id;
+    std::optional<storage::ConflictError> changed;
     const FieldError e = guarded([&] {
-        storage::SignatureStore(workspace_->database()->connection())
-            .sign(id, login.trimmed(), password, meaning);
+        try {
+            storage::SignatureStore(workspace_->database()->connection())
+                .sign(id, login.trimmed(), password, meaning, stored_->version);
+        } catch (const storage::ConflictError& c) {
+            changed = c;
+        }
     });
+    if (changed) {
+        // Changed on another bench since it was shown here: nobody signs what they have not seen.
+        refreshFromDatabase();
+        return set_error({QStringLiteral("signature"),
+                          tr("not signed: %1 changed this batch at %2, after it was shown here. "
+                             "Check it as it is now, then sign again.")
+                              .arg(changed->person(), changed->time())}),
+               false;
+    }
     if (!e.field.isEmpty()) {
         reload(id); // a wrong password is counted; the signatures are as they were
         emit batchChanged();

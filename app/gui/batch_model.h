@@ -167,6 +167,18 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(QString errorField READ errorField NOTIFY errorChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
 
+    // ---- two benches, one batch (app/storage/versioning.h) -----------------------------------
+    /// Set when a save was refused because the batch changed on another bench since it was
+    /// opened here: "Batch …: changed by <name> (<login>) at <time> UTC after you opened it; …".
+    /// The edits refused stay on screen until reloadTheirs() or saveAsCopy().
+    Q_PROPERTY(QString conflictMessage READ conflictMessage NOTIFY conflictChanged)
+    /// Set when the open batch changed on another bench: "Changed on another bench by <name> at
+    /// <time> …". With no unsaved edits here the screen was brought up to date; with a pending
+    /// amendment (or a refused save) it was not, and the notice says so.
+    Q_PROPERTY(QString remoteNotice READ remoteNotice NOTIFY conflictChanged)
+    /// The version of the batch as loaded here (+1 on every save, on any bench).
+    Q_PROPERTY(qint64 version READ version NOTIFY batchChanged)
+
   public:
     enum Role {
         ReagentRole = Qt::UserRole + 1, ///< reagent (or part) id
@@ -275,6 +287,9 @@ class BatchModel : public QAbstractListModel {
     QStringList printers() const;
     QString errorField() const { return error_.field; }
     QString errorMessage() const { return error_.message; }
+    QString conflictMessage() const { return conflict_; }
+    QString remoteNotice() const { return remote_notice_; }
+    qint64 version() const { return draft_ ? draft_->version : 0; }
 
     int rowCount(const QModelIndex& parent = {}) const override;
     QVariant data(const QModelIndex& index, int role) const override;
@@ -335,6 +350,15 @@ class BatchModel : public QAbstractListModel {
     Q_INVOKABLE bool printLabels(const QString& printer = {},
                                  const QString& paper = QStringLiteral("label62"));
 
+    /// After a refused save: drops the edits refused here and shows the batch as stored now.
+    Q_INVOKABLE bool reloadTheirs();
+    /// After a refused save: keeps the edits refused here as a new batch (a fresh id with
+    /// idPrefix, comment "Copy of <id>: …") and opens it. The other bench's batch is untouched.
+    Q_INVOKABLE bool saveAsCopy();
+    /// What the change poll calls (Workspace::databaseChanged): the list of batches again, and
+    /// the open batch reloaded when it changed elsewhere and has no unsaved edits here.
+    Q_INVOKABLE void refreshFromDatabase();
+
     /// The batch as the `sheet` / `labels` input (tests, the CLI's contract).
     Q_INVOKABLE QVariantMap input() const;
 
@@ -349,6 +373,7 @@ class BatchModel : public QAbstractListModel {
     void batchListChanged();
     void lastSavedPathChanged();
     void errorChanged();
+    void conflictChanged();
 
   private:
     struct Row {
@@ -369,6 +394,11 @@ class BatchModel : public QAbstractListModel {
     /// The actual entry of `row` ({} when none).
     QJsonObject actual_entry(int row) const;
     void reload(const QString& id);
+    /// After a save of ours succeeded: reload, and the draft takes the stored version.
+    void reload_saved(const QString& id);
+    /// A refused save (field "version"): keeps the draft, shows the conflict. False otherwise.
+    bool take_conflict(const FieldError& e);
+    void set_conflict(const QString& conflict, const QString& notice);
     void set_error(const FieldError& e);
     QString who() const;
     bool after_print(bool ok, const QString& what);
@@ -407,6 +437,7 @@ class BatchModel : public QAbstractListModel {
     QStringList reasons_, correction_;
     QString last_saved_path_;
     FieldError error_;
+    QString conflict_, remote_notice_;
 };
 
 } // namespace phaseplan::gui

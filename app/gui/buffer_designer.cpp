@@ -79,18 +79,112 @@ void BufferDesigner::flushAutosave() {
     autosave_.stop();
     if (!workspace_->canSave())
         return; // read-only or locked: the banner says so, and dirty_ stays for a later save
+    if (!conflict_.isEmpty())
+        return; // refused once: the edits stay on screen until Reload or Save as a copy
     save_buffer();
-    dirty_ = false;
+    if (conflict_.isEmpty())
+        dirty_ = false;
 }
 
 void BufferDesigner::save_buffer() {
     const FieldError e = guarded([&] {
-        workspace_->database()->save(storage::DocumentKind::buffer, buffer_name_, saved_document());
+        loaded_version_ = workspace_->database()->save_checked(
+            storage::DocumentKind::buffer, buffer_name_, saved_document(), {}, loaded_version_);
     });
-    if (e.empty())
+    if (e.field == QLatin1String("version")) {
+        set_conflict(e.message, {});
+        return;
+    }
+    if (e.empty()) {
+        set_conflict({}, {}); // saved: an earlier notice of another bench's change is history
         workspace_->saveSucceeded();
-    else
+    } else
         workspace_->saveFailed(tr("the buffer \"%1\"").arg(buffer_name_), e.message);
+}
+
+void BufferDesigner::set_conflict(const QString& conflict, const QString& notice) {
+    if (conflict == conflict_ && notice == remote_notice_)
+        return;
+    conflict_ = conflict;
+    remote_notice_ = notice;
+    emit conflictChanged();
+}
+
+void BufferDesigner::take_stored_version() {
+    guarded([&] {
+        loaded_version_ =
+            workspace_->database()->stamp(storage::DocumentKind::buffer, buffer_name_).version;
+    });
+}
+
+bool BufferDesigner::reloadBuffer() {
+    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
+        return false;
+    std::optional<QJsonObject> doc;
+    guarded(
+        [&] { doc = workspace_->database()->load(storage::DocumentKind::buffer, buffer_name_); });
+    if (!doc)
+        return false;
+    autosave_.stop();
+    dirty_ = false;
+    auto_name_ = doc->value("auto_name").toBool(false);
+    loadJson(*doc);
+    take_stored_version();
+    set_conflict({}, {});
+    emit bufferChanged();
+    return true;
+}
+
+QString BufferDesigner::saveBufferAsCopy() {
+    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
+        return tr("no buffer is open");
+    autosave_.stop();
+    QString name;
+    const FieldError e = guarded([&] {
+        name = workspace_->database()->save_copy(storage::DocumentKind::buffer, buffer_name_,
+                                                 saved_document(), {});
+    });
+    if (!e.empty())
+        return e.message;
+    buffer_name_ = name;
+    auto_name_ = false;
+    loaded_version_ = 1;
+    set_conflict({}, {});
+    dirty_ = true; // once more, with its own name inside the document
+    flushAutosave();
+    announce_buffer_change();
+    return {};
+}
+
+void BufferDesigner::refreshFromDatabase() {
+    if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
+        return;
+    storage::RowStamp now;
+    if (!guarded([&] {
+             now = workspace_->database()->stamp(storage::DocumentKind::buffer, buffer_name_);
+         }).empty())
+        return;
+    if (now.version == loaded_version_ || loaded_version_ == 0)
+        return;
+    const QSqlDatabase c = workspace_->database()->connection();
+    if (now.version == 0) {
+        set_conflict({}, tr("This buffer was removed or renamed on another bench; what "
+                            "you see is kept here only: save it as a copy to keep it."));
+        return;
+    }
+    const QString who_when =
+        tr("by %1 at %2")
+            .arg(storage::person_words(c, now.changed_by), storage::utc_time_words(now.changed_at));
+    if (!conflict_.isEmpty())
+        return; // the refusal on screen already names who changed it: nothing to add
+    if (dirty_) {
+        set_conflict({}, tr("Changed on another bench %1. Your changes here are not saved "
+                            "yet: saving them will offer to reload or to save a copy.")
+                             .arg(who_when));
+        return;
+    }
+    reloadBuffer();
+    set_conflict({}, tr("Changed on another bench %1; shown as saved there.").arg(who_when));
 }
 
 void BufferDesigner::remember_current() {
@@ -179,6 +273,8 @@ bool BufferDesigner::openBuffer(const QString& name) {
     buffer_name_ = name;
     auto_name_ = doc->value("auto_name").toBool(false);
     loadJson(*doc);
+    take_stored_version();
+    set_conflict({}, {});
     remember_current();
     emit bufferChanged();
     return true;
@@ -206,6 +302,8 @@ QString BufferDesigner::newBuffer() {
     rebuild_choices();
     auto_name_ = true;
     buffer_name_ = free_name(defaultName());
+    loaded_version_ = 0;
+    set_conflict({}, {});
     if (workspace_->canSave())
         save_buffer();
     emit inputsChanged();
@@ -239,6 +337,8 @@ QString BufferDesigner::duplicateBuffer(const QString& wanted) {
         auto_name_ = was_auto;
         return e.message;
     }
+    take_stored_version();
+    set_conflict({}, {});
     announce_buffer_change();
     return {};
 }
@@ -279,6 +379,7 @@ QString BufferDesigner::renameBuffer(const QString& wanted) {
     if (!e.empty())
         return e.message;
     buffer_name_ = name;
+    take_stored_version();
     auto_name_ = false;
     dirty_ = true;
     flushAutosave();
@@ -366,6 +467,7 @@ void BufferDesigner::follow_default_name() {
     if (!e.empty())
         return;
     buffer_name_ = name;
+    take_stored_version();
     if (plan_)
         plan_->renameBufferRefs(old, name, requestDocument());
     rebuild_buffer_list();
@@ -390,6 +492,7 @@ void BufferDesigner::setWorkspace(Workspace* w) {
             restore_state();
         });
         connect(w, &Workspace::savedChanged, this, &BufferDesigner::rebuild_buffer_list);
+        connect(w, &Workspace::databaseChanged, this, &BufferDesigner::refreshFromDatabase);
     }
     emit workspaceChanged();
     rebuild_choices();

@@ -118,6 +118,14 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// [{code, severity, message}]
     Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
     /// The JSON path of the field at fault ("target_ph"), empty when the recipe is valid.
+    /// Two benches, one buffer (app/storage/versioning.h): set when a save was refused because the
+    /// buffer changed on another bench since it was opened here ("Buffer "…": changed by <name>
+    /// at <time> UTC after you opened it; …"). The edits stay on screen, unsaved, until
+    /// reloadBuffer() or saveBufferAsCopy().
+    Q_PROPERTY(QString conflictMessage READ conflictMessage NOTIFY conflictChanged)
+    /// Set when the open buffer changed on another bench (refreshFromDatabase): reloaded when it
+    /// had no unsaved edits here, else left as it is on screen, and the notice says which.
+    Q_PROPERTY(QString remoteNotice READ remoteNotice NOTIFY conflictChanged)
     Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
     /// The field at fault in the screen's words ("Target pH"), "" when the recipe is valid.
@@ -156,6 +164,15 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     QStringList usedByLines() const;
     /// Opens a saved buffer; false when there is none by that name.
     Q_INVOKABLE bool openBuffer(const QString& name);
+    QString conflictMessage() const { return conflict_; }
+    QString remoteNotice() const { return remote_notice_; }
+    /// After a refused save: drops the edits made here and shows the buffer as stored now.
+    Q_INVOKABLE bool reloadBuffer();
+    /// After a refused save: keeps the edits made here as a new buffer "<name> (copy)" and opens
+    /// it; the other bench's buffer is left as saved. Returns "" or why it failed.
+    Q_INVOKABLE QString saveBufferAsCopy();
+    /// What the change poll calls (Workspace::databaseChanged).
+    Q_INVOKABLE void refreshFromDatabase();
     /// A new buffer (phosphate, pH 7.0, 25 mmol/L, 1000 mL), saved at once under a name that
     /// follows its inputs. Returns its name.
     Q_INVOKABLE QString newBuffer();
@@ -278,6 +295,7 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void warningsChanged();
     /// An input changed by the user (not by loading): the plan and autosave listen.
     void edited();
+    void conflictChanged();
 
   private:
     template <class T> void set_input(T& member, const T& value);
@@ -308,6 +326,11 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     QString autosave_key_;
     QTimer autosave_;
     bool dirty_ = false;
+    qint64 loaded_version_ = 0; ///< the stored version the screen was loaded at (0: new)
+    QString conflict_, remote_notice_;
+    void set_conflict(const QString& conflict, const QString& notice);
+    /// loaded_version_ from the database, after a save or rename of ours.
+    void take_stored_version();
     bool restored_ = false;
     bool constructing_ = false;
     QString buffer_name_;

@@ -11,6 +11,7 @@
 #include <QFileInfo>
 #include <QJsonArray>
 #include <QJsonDocument>
+#include <QSysInfo>
 
 namespace phaseplan::gui {
 
@@ -23,9 +24,46 @@ QByteArray read_all(const QString& path) {
     return f.readAll();
 }
 
+/// Who saves are recorded under when nobody is signed in and no name was typed: the computer's
+/// user, else the computer.
+QString fallback_actor() {
+    for (const char* v : {"USER", "LOGNAME", "USERNAME"})
+        if (const QString u = qEnvironmentVariable(v).trimmed(); !u.isEmpty())
+            return u;
+    return QStringLiteral("the bench %1").arg(QSysInfo::machineHostName());
+}
 } // namespace
 
-Workspace::Workspace(QObject* parent) : QObject(parent) {}
+Workspace::Workspace(QObject* parent) : QObject(parent) {
+    change_poll_.setInterval(change_poll_interval_ms);
+    connect(&change_poll_, &QTimer::timeout, this, &Workspace::pollChanges);
+}
+
+void Workspace::setActor(const QString& who) {
+    if (who.trimmed() == actor_)
+        return;
+    actor_ = who.trimmed();
+    if (db_)
+        db_->set_actor(actor_.isEmpty() ? fallback_actor() : actor_);
+    emit actorChanged();
+}
+
+bool Workspace::pollChanges() {
+    if (!db_)
+        return false;
+    qint64 counter = last_change_counter_;
+    try {
+        counter = storage::change_counter(db_->connection());
+    } catch (const chem::Error&) {
+        return false; // the connection is down: the next poll tries again
+    }
+    if (counter == last_change_counter_)
+        return false;
+    last_change_counter_ = counter;
+    emit databaseChanged();
+    emit savedChanged();
+    return true;
+}
 Workspace::~Workspace() = default;
 
 void Workspace::setDatabasePath(const QString& p) {
@@ -79,6 +117,7 @@ bool Workspace::open() {
                 seed_demo(db);
         });
         first_run_ = db_->created();
+        db_->set_actor(actor_.isEmpty() ? fallback_actor() : actor_);
         if (db_->writable())
             for (const char* file : shipped_library_files) {
                 const QByteArray bytes = read_all(dir + "/" + file);
@@ -86,6 +125,8 @@ bool Workspace::open() {
                     db_->sync_shipped_file(QString::fromLatin1(file), bytes);
             }
         reloadLibrary();
+        last_change_counter_ = storage::change_counter(db_->connection());
+        change_poll_.start();
         if (!db_->writable())
             qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
     } catch (const chem::Error& e) {

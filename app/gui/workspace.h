@@ -10,6 +10,7 @@
 #include <QObject>
 #include <QQmlEngine>
 #include <QQmlParserStatus>
+#include <QTimer>
 
 #include <map>
 #include <memory>
@@ -40,6 +41,10 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// What the banner says about the database: why saving is off (with the path and who to ask),
     /// and the records set aside as too large to read back; empty when all is well.
     Q_PROPERTY(QString storageNotice READ storageNotice NOTIFY storageNoticeChanged)
+    /// Who this bench's saves of buffers, lines, methods and sequences are recorded under
+    /// (changed_by, app/storage/versioning.h): the signed-in login, else the name typed at the
+    /// bench; empty means the computer's user name.
+    Q_PROPERTY(QString actor READ actor WRITE setActor NOTIFY actorChanged)
 
   public:
     explicit Workspace(QObject* parent = nullptr);
@@ -64,6 +69,17 @@ class Workspace : public QObject, public QQmlParserStatus {
     QString libraryProblem() const { return library_problem_; }
     bool canSave() const { return db_ && db_->writable(); }
     QString storageNotice() const;
+    QString actor() const { return actor_; }
+    void setActor(const QString& who);
+
+    /// How often other benches' changes are looked for, ms: one SELECT of the database's change
+    /// counter (storage::change_counter). Changes appear within this time, without a restart.
+    static constexpr int change_poll_interval_ms = 3000;
+    /// The timer that calls pollChanges() (running once the database is open).
+    const QTimer& changePollTimer() const { return change_poll_; }
+    /// Reads the change counter; when it moved since the last look (a save on any bench, this
+    /// one included), emits databaseChanged() and savedChanged(). True when it moved.
+    Q_INVOKABLE bool pollChanges();
 
     /// Loads data/, opens (creating, migrating) the database, syncs the shipped library files into
     /// it, builds the merged library and seeds the demo on first run. False with errorMessage set
@@ -119,6 +135,10 @@ class Workspace : public QObject, public QQmlParserStatus {
     void storageNoticeChanged();
     /// The lab's columns (the `columns` table) changed: every ColumnLibrary reloads.
     void columnsChanged();
+    void actorChanged();
+    /// A saved document, batch or signature changed in the database (pollChanges): models with
+    /// an open record compare its version and reload it, or say it changed elsewhere.
+    void databaseChanged();
 
   private:
     void seed_demo(storage::Database& db) const;
@@ -135,6 +155,9 @@ class Workspace : public QObject, public QQmlParserStatus {
     QString save_failure_; ///< the last failed save, shown on the banner; empty once one succeeds
     int library_revision_ = 0;
     bool first_run_ = false;
+    QString actor_;
+    QTimer change_poll_;
+    qint64 last_change_counter_ = -1;
 };
 
 /// The shipped files whose entries go into the database (and may be overridden by the lab).

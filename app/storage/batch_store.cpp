@@ -9,10 +9,12 @@
 #include "storage/database.h"
 #include "storage/signatures.h"
 #include "storage/sql_util.h"
+#include "storage/versioning.h"
 
 #include <QJsonDocument>
 #include <QSqlError>
 #include <QSqlQuery>
+#include <QSqlRecord>
 
 #include <algorithm>
 #include <map>
@@ -166,6 +168,8 @@ const char* select_columns =
     "tolerance_percent, actual, revision, printed_count, first_printed_at, created_at, updated_at, "
     "measured_ph, ph_tolerance, ph_meter_id, balance_id, comment, container_ml, deviation_note, "
     "deviation_by, deviation_at, measured_ph_capture";
+/// Read after select_columns once the schema has versions.
+const char* version_columns = ", version, changed_by, changed_at";
 
 /// Refuses a stored batch row too large to read back (a file edited by another program, say):
 /// its JSON columns within oversize_reason()'s limits, its other texts within
@@ -220,6 +224,11 @@ BatchRecord record_from(const QSqlQuery& q) {
     b.deviation_by = q.value(21).toString();
     b.deviation_at = q.value(22).toString();
     b.ph_capture = QJsonDocument::fromJson(q.value(23).toString().toUtf8()).object();
+    if (q.record().count() > 26) {
+        b.version = q.value(24).toLongLong();
+        b.changed_by = q.value(25).toString();
+        b.changed_at = q.value(26).toString();
+    }
     return b;
 }
 
@@ -470,7 +479,7 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
     const bool bench = present && sql::column_exists(db, "batches", "measured_ph");
     const bool capture = bench && sql::column_exists(db, "batches", "measured_ph_capture");
     const bool audit = has_audit_schema(db);
-    if (present && bench && capture && audit)
+    if (present && bench && capture && audit && has_versioning(db))
         return;
     Transaction tx(db);
     if (!present)
@@ -488,7 +497,17 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
         for (const QString& s : audit_guard_statements(d))
             run(db, s);
     }
+    if (!has_versioning(db))
+        for (const QString& s :
+             versioning_schema_statements(d, sql::table_exists(db, QStringLiteral("buffers"))))
+            run(db, s);
     tx.commit();
+}
+
+bool BatchStore::versioned() const {
+    if (!versioned_)
+        versioned_ = has_versioning(db_);
+    return *versioned_;
 }
 
 QString BatchStore::now() const {
@@ -533,6 +552,9 @@ void BatchStore::create(const BatchRecord& batch, const QString& who) {
          batch.deviation_by,
          batch.deviation_at,
          compact(batch.ph_capture)});
+    if (versioned())
+        run(db_, "UPDATE batches SET version = 1, changed_by = ?, changed_at = ? WHERE id = ?",
+            {who.trimmed(), t, batch.id});
     for (const auto& [field, value] : flatten(batch))
         run(db_,
             "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
@@ -564,11 +586,24 @@ QString BatchStore::propose_id(const QString& prefix_in, const QDate& date) cons
     return prefix + QStringLiteral("%1").arg(highest + 1, 3, 10, QChar('0'));
 }
 
+QString BatchStore::create_copy(const BatchRecord& mine, const QString& who, const QString& prefix,
+                                const QDate& day) {
+    BatchRecord copy = mine;
+    const QString from = mine.id;
+    copy.id = propose_id(prefix, day);
+    const QString origin = QStringLiteral("Copy of %1").arg(from);
+    copy.comment = copy.comment.trimmed().isEmpty() ? origin : origin + ": " + copy.comment;
+    copy.comment = copy.comment.left(qsizetype(chem::guard::max_text_chars));
+    create(copy, who);
+    return copy.id;
+}
+
 std::optional<BatchRecord> BatchStore::load(const QString& id) const {
-    QSqlQuery q = run(
-        db_,
-        QStringLiteral("SELECT %1 FROM batches WHERE id = ?").arg(QLatin1String(select_columns)),
-        {id});
+    QSqlQuery q = run(db_,
+                      QStringLiteral("SELECT %1%2 FROM batches WHERE id = ?")
+                          .arg(QLatin1String(select_columns),
+                               versioned() ? QLatin1String(version_columns) : QLatin1String("")),
+                      {id});
     if (!q.next())
         return std::nullopt;
     return record_from(q);
@@ -633,7 +668,10 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         if (!before.count(k))
             diff[k] = {QJsonValue(QJsonValue::Null), v};
     if (diff.empty())
-        return false;
+        return false; // what the caller wants is what is stored: nothing to refuse or to write
+    // Someone saved this batch since the caller loaded it: refuse, naming them (versioning.h).
+    if (versioned() && next_in.version != cur->version)
+        throw conflict_error(db_, "Batch " + id, {cur->version, cur->changed_by, cur->changed_at});
 
     const int revision = cur->revision + 1;
     const QString t = now();
@@ -671,6 +709,17 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
          next.deviation_at,
          compact(next.ph_capture),
          id});
+    if (versioned()) {
+        // Only the version this save was loaded at is replaced (checked above, under the write
+        // lock; the WHERE makes the row itself the judge).
+        QSqlQuery v = run(db_,
+                          "UPDATE batches SET version = version + 1, changed_by = ?,"
+                          " changed_at = ? WHERE id = ? AND version = ?",
+                          {who.trimmed(), t, id, cur->version});
+        if (v.numRowsAffected() != 1)
+            throw conflict_error(db_, "Batch " + id,
+                                 {cur->version, cur->changed_by, cur->changed_at});
+    }
     if (has_audit_schema(db_)) {
         QJsonObject changes;
         for (const auto& [field, values] : diff)
@@ -696,7 +745,8 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
     return true;
 }
 
-void BatchStore::mark_printed(const QString& id, const QString& who, const QString& what) {
+void BatchStore::mark_printed(const QString& id, const QString& who, const QString& what,
+                              qint64 expected_version) {
     if (who.trimmed().isEmpty())
         throw chem::Error("who", "is required: the history names who printed");
     Transaction tx(db_);
@@ -704,6 +754,8 @@ void BatchStore::mark_printed(const QString& id, const QString& who, const QStri
     const std::optional<BatchRecord> cur = load(id);
     if (!cur)
         throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    if (versioned() && expected_version > 0 && expected_version != cur->version)
+        throw conflict_error(db_, "Batch " + id, {cur->version, cur->changed_by, cur->changed_at});
     const QString t = now();
     if (has_audit_schema(db_))
         append_audit(db_, t, who.trimmed(), "print", "batch", id, {},
@@ -724,6 +776,10 @@ void BatchStore::mark_printed(const QString& id, const QString& who, const QStri
         " first_printed_at = CASE WHEN first_printed_at = '' THEN ? ELSE first_printed_at END,"
         " updated_at = ? WHERE id = ?",
         {t, t, id});
+    if (versioned())
+        run(db_,
+            "UPDATE batches SET version = version + 1, changed_by = ?, changed_at = ? WHERE id = ?",
+            {who.trimmed(), t, id});
     tx.commit();
 }
 

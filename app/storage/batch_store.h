@@ -78,6 +78,11 @@ struct BatchRecord {
     QString first_printed_at; ///< UTC, "" when never printed
     QString created_at;       ///< UTC
     QString updated_at;       ///< UTC
+    /// The row's version when loaded (app/storage/versioning.h): +1 on every edit, amendment and
+    /// print. edit() and amend() write only when the stored version still equals this one.
+    qint64 version = 0;
+    QString changed_by; ///< login or name of the last write
+    QString changed_at; ///< UTC ISO 8601 of the last write
 
     bool printed() const { return printed_count > 0; }
     /// The document with its "batch" object: the input of `phaseplan-cli sheet` / `labels`.
@@ -122,11 +127,19 @@ class BatchStore {
     /// highest taken for that prefix and day (001 for the first).
     QString propose_id(const QString& prefix, const QDate& date) const;
 
+    /// "Save as a copy" after a conflict: `mine` (the edits refused) becomes a new batch with a
+    /// fresh id (propose_id(prefix, day)), its comment starting "Copy of <old id>", created by
+    /// `who`. The batch it came from is left as the other bench saved it. Returns the new id.
+    QString create_copy(const BatchRecord& mine, const QString& who, const QString& prefix,
+                        const QDate& day);
+
     std::optional<BatchRecord> load(const QString& id) const;
     /// Ids, newest first.
     QStringList list() const;
 
-    /// Changes a batch that has not been printed: every changed field is recorded. Returns false
+    /// Changes a batch that has not been printed: every changed field is recorded. `next.version`
+    /// is the version the batch was loaded at: when the stored one differs (someone changed it
+    /// since), throws ConflictError naming who and when, and writes nothing. Returns false
     /// when nothing changed. Throws chem::Error("batch", …) when the batch was printed (use
     /// amend), chem::Error("batch.id", …) for an unknown id.
     bool edit(const QString& id, const BatchRecord& next, const QString& who);
@@ -136,8 +149,11 @@ class BatchStore {
     bool amend(const QString& id, const BatchRecord& next, const QString& who,
                const QString& reason);
 
-    /// Records that the batch was printed (what: "sheet a4", "labels label62", …).
-    void mark_printed(const QString& id, const QString& who, const QString& what);
+    /// Records that the batch was printed (what: "sheet a4", "labels label62", …). With
+    /// `expected_version` > 0 (the version the printed content was loaded at), throws
+    /// ConflictError when the stored batch changed since.
+    void mark_printed(const QString& id, const QString& who, const QString& what,
+                      qint64 expected_version = 0);
 
     /// Oldest first.
     std::vector<HistoryEntry> history(const QString& id) const;
@@ -149,8 +165,10 @@ class BatchStore {
     bool change(const QString& id, const BatchRecord& next, const QString& who,
                 const QString& action, const QString& reason);
     QString now() const;
+    bool versioned() const;
 
     QSqlDatabase db_;
+    mutable std::optional<bool> versioned_;
     std::function<QDateTime()> clock_;
 };
 

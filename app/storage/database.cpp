@@ -647,20 +647,110 @@ void Database::Transaction::commit() {
 
 // ---- saved work -----------------------------------------------------------------------------
 
-void Database::upsert_document(const SavedDocument& d, const QString& now) {
-    const QString name = d.name.trimmed();
+namespace {
+void check_name(DocumentKind kind, const QString& name) {
     if (name.isEmpty())
-        throw chem::Error("name", "a saved " + kind_name(d.kind).toStdString() + " needs a name");
+        throw chem::Error("name", "a saved " + kind_name(kind).toStdString() + " needs a name");
     if (name.size() > max_name_chars)
         throw chem::Error("name", "a name of " + std::to_string(name.size()) +
                                       " characters is too long (at most " +
                                       std::to_string(max_name_chars) + ")");
-    exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at)"
-                        " VALUES (?, ?, ?, ?, ?)"
-                        " ON CONFLICT (name) DO UPDATE SET document = excluded.document,"
-                        " note = excluded.note, updated_at = excluded.updated_at")
+}
+
+/// "Buffer \"Phosphate 25 mM\"", for the conflict sentence.
+QString record_words(DocumentKind kind, const QString& name) {
+    QString k = kind_name(kind);
+    k[0] = k[0].toUpper();
+    return QStringLiteral("%1 \"%2\"").arg(k, name);
+}
+} // namespace
+
+bool Database::versioned() const {
+    return schema_version() >= concurrency_schema_version;
+}
+
+void Database::upsert_document(const SavedDocument& d, const QString& now) {
+    const QString name = d.name.trimmed();
+    check_name(d.kind, name);
+    const QString note = d.note.isNull() ? QStringLiteral("") : d.note;
+    if (!versioned()) {
+        exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at)"
+                            " VALUES (?, ?, ?, ?, ?)"
+                            " ON CONFLICT (name) DO UPDATE SET document = excluded.document,"
+                            " note = excluded.note, updated_at = excluded.updated_at")
+                 .arg(QLatin1String(table_of(d.kind))),
+             {name, to_text(d.document), note, now, now});
+        return;
+    }
+    exec(QStringLiteral(
+             "INSERT INTO %1 (name, document, note, created_at, updated_at, version, changed_by,"
+             " changed_at) VALUES (?, ?, ?, ?, ?, 1, ?, ?)"
+             " ON CONFLICT (name) DO UPDATE SET document = excluded.document,"
+             " note = excluded.note, updated_at = excluded.updated_at,"
+             " version = %1.version + 1, changed_by = excluded.changed_by,"
+             " changed_at = excluded.changed_at")
              .arg(QLatin1String(table_of(d.kind))),
-         {name, to_text(d.document), d.note.isNull() ? QStringLiteral("") : d.note, now, now});
+         {name, to_text(d.document), note, now, now, actor_, now});
+}
+
+QString Database::save_copy(DocumentKind kind, const QString& name, const QJsonObject& document,
+                            const QString& note) {
+    const QString base = name.trimmed().left(max_name_chars - 12);
+    Transaction t(*this);
+    QString candidate = base + QStringLiteral(" (copy)");
+    for (int i = 2; load(kind, candidate) || stamp(kind, candidate).version > 0; ++i)
+        candidate = base + QStringLiteral(" (copy %1)").arg(i);
+    save_checked(kind, candidate, document, note, 0);
+    t.commit();
+    return candidate;
+}
+
+RowStamp Database::stamp(DocumentKind kind, const QString& name) const {
+    if (!versioned())
+        return {};
+    QSqlQuery q =
+        exec(QStringLiteral("SELECT version, changed_by, changed_at FROM %1 WHERE name = ?")
+                 .arg(QLatin1String(table_of(kind))),
+             {name.trimmed()});
+    if (!q.next())
+        return {};
+    return {q.value(0).toLongLong(), q.value(1).toString(), q.value(2).toString()};
+}
+
+qint64 Database::save_checked(DocumentKind kind, const QString& name_in,
+                              const QJsonObject& document, const QString& note_in,
+                              qint64 expected_version) {
+    const QString name = name_in.trimmed();
+    check_name(kind, name);
+    if (!versioned()) {
+        save(kind, name, document, note_in);
+        return 0;
+    }
+    const QString note = note_in.isNull() ? QStringLiteral("") : note_in;
+    Transaction t(*this);
+    const QString now = sql::utc_now(db_);
+    qint64 stored = 0;
+    if (expected_version <= 0) {
+        const RowStamp theirs = stamp(kind, name);
+        if (theirs.version > 0)
+            throw conflict_error(db_, record_words(kind, name), theirs);
+        exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at,"
+                            " version, changed_by, changed_at) VALUES (?, ?, ?, ?, ?, 1, ?, ?)")
+                 .arg(QLatin1String(table_of(kind))),
+             {name, to_text(document), note, now, now, actor_, now});
+        stored = 1;
+    } else {
+        QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET document = ?, note = ?, updated_at = ?,"
+                                          " version = version + 1, changed_by = ?, changed_at = ?"
+                                          " WHERE name = ? AND version = ?")
+                               .arg(QLatin1String(table_of(kind))),
+                           {to_text(document), note, now, actor_, now, name, expected_version});
+        if (q.numRowsAffected() != 1)
+            throw conflict_error(db_, record_words(kind, name), stamp(kind, name));
+        stored = expected_version + 1;
+    }
+    t.commit();
+    return stored;
 }
 
 void Database::save(DocumentKind kind, const QString& name, const QJsonObject& document,
@@ -689,15 +779,29 @@ std::optional<QJsonObject> Database::load(DocumentKind kind, const QString& name
 }
 
 std::vector<DocumentInfo> Database::list_where(DocumentKind kind) const {
+    const bool v = versioned();
     QSqlQuery q =
-        exec(QStringLiteral("SELECT name, note, created_at, updated_at FROM %1"
-                            " WHERE length(name) <= %2 ORDER BY updated_at DESC, name LIMIT %3")
+        exec(QStringLiteral("SELECT name, note, created_at, updated_at%4 FROM %1"
+                            " WHERE length(name) <= %2 ORDER BY updated_at DESC, name"
+                            " LIMIT %3")
                  .arg(QLatin1String(table_of(kind)), QString::number(max_name_chars),
-                      QString::number(max_record_array_items)));
+                      QString::number(max_record_array_items),
+                      v ? QStringLiteral(", version, changed_by, changed_at") : QString()));
     std::vector<DocumentInfo> out;
-    while (q.next())
-        out.push_back({kind, q.value(0).toString(), q.value(1).toString(),
-                       parse_time(q.value(2).toString()), parse_time(q.value(3).toString())});
+    while (q.next()) {
+        DocumentInfo i;
+        i.kind = kind;
+        i.name = q.value(0).toString();
+        i.note = q.value(1).toString();
+        i.created_at = parse_time(q.value(2).toString());
+        i.updated_at = parse_time(q.value(3).toString());
+        if (v) {
+            i.version = q.value(4).toLongLong();
+            i.changed_by = q.value(5).toString();
+            i.changed_at = q.value(6).toString();
+        }
+        out.push_back(i);
+    }
     return out;
 }
 
@@ -742,9 +846,16 @@ bool Database::rename(DocumentKind kind, const QString& old_name, const QString&
     if (to != old_name.trimmed() && load(kind, to))
         throw chem::Error("name", "\"" + to.toStdString() + "\" is already the name of a saved " +
                                       kind_name(kind).toStdString());
-    QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ? WHERE name = ?")
-                           .arg(QLatin1String(table_of(kind))),
-                       {to, sql::utc_now(db_), old_name.trimmed()});
+    const QString now = sql::utc_now(db_);
+    QSqlQuery q =
+        versioned()
+            ? exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = version + 1,"
+                                  " changed_by = ?, changed_at = ? WHERE name = ?")
+                       .arg(QLatin1String(table_of(kind))),
+                   {to, now, actor_, now, old_name.trimmed()})
+            : exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ? WHERE name = ?")
+                       .arg(QLatin1String(table_of(kind))),
+                   {to, now, old_name.trimmed()});
     const bool renamed = q.numRowsAffected() > 0;
     t.commit();
     return renamed;

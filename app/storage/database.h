@@ -13,6 +13,7 @@
 // (cannot open, newer schema, SQL failure) and the document's name or id for bad arguments.
 #include "chem/error.h"
 #include "storage/sql_dialect.h"
+#include "storage/versioning.h"
 
 #include <QDateTime>
 #include <QJsonObject>
@@ -44,6 +45,9 @@ struct DocumentInfo {
     QString note;         ///< free text ("for the assay of lot 7"), may be empty
     QDateTime created_at; ///< UTC
     QDateTime updated_at; ///< UTC
+    qint64 version = 0;   ///< schema step concurrency_schema_version on; 0 before it
+    QString changed_by;   ///< login or name of the last save
+    QString changed_at;   ///< UTC ISO 8601 of the last save
 };
 
 struct SavedDocument {
@@ -142,7 +146,31 @@ class Database {
     QSqlDatabase connection() const { return db_; }
 
     // ---- saved work -------------------------------------------------------------------------
-    /// Inserts or replaces one document (one transaction). Throws chem::Error("name", …) for an
+    /// Who the saves of this connection are recorded under (changed_by): the signed-in login, or
+    /// the name typed at the bench. Empty by default.
+    void set_actor(const QString& who) {
+        actor_ = who.isNull() ? QStringLiteral("") : who.trimmed();
+    }
+    QString actor() const { return actor_; }
+    /// True when the schema has versions (step concurrency_schema_version).
+    bool versioned() const;
+
+    /// Saves one document only if nobody saved it since it was loaded at `expected_version`
+    /// (0: it must be new). One transaction: `UPDATE … WHERE name = ? AND version = ?` and the rows
+    /// affected checked. Throws ConflictError (field "version", naming who changed it and when)
+    /// when the stored version differs or the name is taken by a newer one; nothing is written
+    /// then. Returns the version now stored.
+    qint64 save_checked(DocumentKind kind, const QString& name, const QJsonObject& document,
+                        const QString& note, qint64 expected_version);
+    /// "Save as a copy" after a conflict: saves `document` under the first free name of "<name>
+    /// (copy)", "<name> (copy 2)", … as a new document. Returns that name.
+    QString save_copy(DocumentKind kind, const QString& name, const QJsonObject& document,
+                      const QString& note);
+    /// The version, who and when of a saved document (version 0 when absent).
+    RowStamp stamp(DocumentKind kind, const QString& name) const;
+
+    /// Inserts or replaces one document (one transaction), whatever its stored version (the demo,
+    /// imports, tests; the app's editors use save_checked). Throws chem::Error("name", …) for an
     /// empty name.
     void save(DocumentKind kind, const QString& name, const QJsonObject& document,
               const QString& note = {});
@@ -235,6 +263,7 @@ class Database {
     QSqlDatabase db_;
     std::function<void()> before_commit_;
     QString read_only_reason_;
+    QString actor_ = QStringLiteral("");
     bool created_ = false;
     int transaction_depth_ = 0;
     mutable std::vector<SetAsideRecord> set_aside_;

@@ -16,6 +16,7 @@
 
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
+#include "storage/versioning.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -185,6 +186,13 @@ const std::vector<Migration>& migrations() {
              for (const QString& sql : audit_guard_statements(db.dialect()))
                  db.exec(sql);
              backfill_audit_from_history(db);
+         }},
+        {concurrency_schema_version,
+         "two benches, one record: a version, who changed it last and when on every saved "
+         "document and batch; the change counter other benches poll (app/storage/versioning.h)",
+         [](Database& db) {
+             for (const QString& sql : versioning_schema_statements(db.dialect()))
+                 db.exec(sql);
          }},
         // Append new steps here (see the comment at the top of this file).
     };

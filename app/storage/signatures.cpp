@@ -1,4 +1,5 @@
 #include "storage/signatures.h"
+#include "storage/versioning.h"
 
 #include "chem/error.h"
 #include "chem/guard.h"
@@ -91,7 +92,8 @@ std::vector<Signature> holding_signatures(QSqlDatabase db, const BatchRecord& ba
 SignatureStore::SignatureStore(QSqlDatabase db) : db_(db) {}
 
 Signature SignatureStore::sign(const QString& batch_id, const QString& login_in,
-                               const QString& password, const QString& meaning) {
+                               const QString& password, const QString& meaning,
+                               qint64 expected_version) {
     const QString login = login_in.trimmed();
     if (meaning != QLatin1String("prepared") && meaning != QLatin1String("reviewed") &&
         meaning != QLatin1String("approved"))
@@ -105,6 +107,9 @@ Signature SignatureStore::sign(const QString& batch_id, const QString& login_in,
     const std::optional<BatchRecord> batch = batches.load(batch_id);
     if (!batch)
         throw chem::Error("batch.id", "no batch " + quoted(batch_id));
+    if (expected_version > 0 && batch->version > 0 && batch->version != expected_version)
+        throw conflict_error(db_, "Batch " + batch_id,
+                             {batch->version, batch->changed_by, batch->changed_at});
     const bool allowed = (meaning == QLatin1String("prepared") && who.role == Role::preparer) ||
                          (meaning == QLatin1String("reviewed") &&
                           (who.role == Role::reviewer || who.role == Role::approver)) ||

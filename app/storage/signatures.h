@@ -54,9 +54,11 @@ class SignatureStore {
 
     /// Signs the batch as it is now. Authenticates login and password first (a wrong password
     /// counts towards the lock). Throws chem::Error: "password"/"login" (authentication),
-    /// "meaning", "batch.id", "login" (role or second-person rules).
+    /// "meaning", "batch.id", "login" (role or second-person rules). With `expected_version` > 0
+    /// (the version of the batch the signer was shown), throws ConflictError when the batch changed
+    /// since (app/storage/versioning.h): nobody signs content they have not seen.
     Signature sign(const QString& batch_id, const QString& login, const QString& password,
-                   const QString& meaning);
+                   const QString& meaning, qint64 expected_version = 0);
 
     /// Oldest first, each with `holds` computed against the batch as stored now.
     std::vector<Signature> list(const QString& batch_id) const;

@@ -91,6 +91,19 @@ ScreenPage {
         value: printService
     }
 
+    // Changed on another bench: the refused save with Reload / Save as a copy, or a note. Docked at
+    // the bottom, so that it never moves the fields being touched.
+    dock: ConflictBar {
+        objectName: "batchConflict"
+        width: root.contentWidth
+        visible: root.batch.active && !root.gated
+                 && (root.batch.conflictMessage.length > 0 || root.batch.remoteNotice.length > 0)
+        message: root.batch.conflictMessage
+        notice: root.batch.remoteNotice
+        onReload: root.batch.reloadTheirs()
+        onSaveCopy: root.batch.saveAsCopy()
+    }
+
     ColumnLayout {
         width: root.contentWidth
         spacing: Theme.margin

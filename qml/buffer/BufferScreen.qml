@@ -29,6 +29,16 @@ ScreenPage {
     /// "Prepare & record" was tapped: the app opens the batch screen.
     signal prepare()
 
+    // Changed on another bench: the refused save with Reload / Save as a copy, or a note.
+    dock: ConflictBar {
+        objectName: "bufferConflict"
+        width: root.contentWidth
+        message: root.designer.conflictMessage
+        notice: root.designer.remoteNotice
+        onReload: root.designer.reloadBuffer()
+        onSaveCopy: root.designer.saveBufferAsCopy()
+    }
+
     GridLayout {
         width: root.contentWidth
         columns: root.inPortrait ? 1 : 2

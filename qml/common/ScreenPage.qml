@@ -15,6 +15,9 @@ Item {
     property bool inPortrait: height > width
     readonly property real contentWidth: Math.max(0, width - 2 * Theme.margin)
     default property alias content: holder.data
+    /// Items docked at the bottom of the page, over the content (which scrolls past them): a
+    /// message that comes and goes (ConflictBar) without moving the fields under the finger.
+    property alias dock: dockColumn.data
     /// For tests and the screenshot seam: the flickable of the page.
     readonly property alias flickable: flick
 
@@ -81,6 +84,7 @@ Item {
         clip: true
         contentWidth: width
         contentHeight: holder.childrenRect.height + 2 * Theme.margin
+        bottomMargin: dockColumn.height > 0 ? dockColumn.height + Theme.margin : 0
         boundsBehavior: Flickable.StopAtBounds
         ScrollIndicator.vertical: ScrollIndicator { }
 
@@ -91,5 +95,14 @@ Item {
             width: root.contentWidth
             height: childrenRect.height
         }
+    }
+
+    Column {
+        id: dockColumn
+        x: Theme.margin
+        width: root.contentWidth
+        anchors.bottom: parent.bottom
+        anchors.bottomMargin: Theme.gap
+        spacing: Theme.gap
     }
 }

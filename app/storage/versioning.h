@@ -1,0 +1,83 @@
+#pragma once
+// Two benches, one record: every editable row carries a version, who changed it last and when,
+// and the database keeps one change counter that other benches poll.
+//
+// The rows: saved buffers, lines, methods and sequences (app/storage/database.h) and batches
+// (app/storage/batch_store.h). Their columns, added by schema step concurrency_schema_version:
+//   version     INTEGER, 1 for a new row (and for every row that existed before the step), +1 on
+//               every write of the row (save, rename, edit, amendment, print);
+//   changed_by  the login (or the name typed, on a database without accounts) of that write;
+//   changed_at  its time, UTC ISO 8601 (the server's clock on PostgreSQL).
+//
+// A save carries the version it was loaded at. Inside the save's write transaction the row is
+// written with `UPDATE … SET version = version + 1 … WHERE <key> = ? AND version = ?`; when no row
+// is affected, the row changed since it was loaded (or is gone) and the save throws
+// ConflictError, which names the other person and the time in words. Nothing is written then.
+//
+// change_counter: one row (`change_counter.counter`), raised by triggers after every INSERT,
+// UPDATE and DELETE on those tables and on signatures. A bench reads it with one cheap SELECT
+// (Workspace polls it) and reloads its lists, and any record open without unsaved edits, when it
+// moved.
+#include "chem/error.h"
+#include "storage/sql_dialect.h"
+
+#include <QSqlDatabase>
+#include <QString>
+#include <QStringList>
+
+namespace phaseplan::storage {
+
+/// The schema step that adds versions (app/storage/migrations.cpp). Written only here: at a merge
+/// with another branch's step, renumber this one constant.
+inline constexpr int concurrency_schema_version = 11;
+
+/// The statements of that step, in the back end's dialect: the three columns on each versioned
+/// table (existing rows at version 1, changed_at from updated_at, a batch's changed_by from its
+/// last history row), the change_counter table and its triggers.
+/// `documents` false: only batches and signatures (a bare connection without the saved-document
+/// tables, BatchStore::ensure_schema).
+QStringList versioning_schema_statements(sql::Dialect d, bool documents = true);
+
+/// True when the connection's schema has the step (batches.version exists).
+bool has_versioning(QSqlDatabase db);
+
+/// Who changed a row last, when, and its version.
+struct RowStamp {
+    qint64 version = 0; ///< 0: the row does not exist
+    QString changed_by; ///< login or name
+    QString changed_at; ///< UTC ISO 8601
+};
+
+/// A save refused because the row changed (or was removed) since it was loaded. field() is
+/// "version"; message() is the sentence the user reads.
+class ConflictError : public chem::Error {
+  public:
+    ConflictError(const QString& message, RowStamp theirs, QString person_words,
+                  QString time_words);
+    /// The row as it is now in the database (version 0: removed).
+    const RowStamp& theirs() const { return theirs_; }
+    /// "Mats Lindqvist (demo-review)", or the name as recorded.
+    const QString& person() const { return person_; }
+    /// "2026-12-02 19:04 UTC".
+    const QString& time() const { return time_; }
+
+  private:
+    RowStamp theirs_;
+    QString person_, time_;
+};
+
+/// A login in words: "Display Name (login)" when it is an account, else the text as recorded;
+/// "someone" when empty (a row written before versions).
+QString person_words(QSqlDatabase db, const QString& login);
+/// A UTC ISO 8601 time as "2026-12-02 19:04 UTC"; "an unknown time" when empty or unreadable.
+QString utc_time_words(const QString& utc_iso);
+
+/// Builds the error for `record` ("Batch HR-20261202-001", "Buffer \"Phosphate 25 mM\""): the
+/// sentence names who changed it and when, and says what to do.
+ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowStamp& theirs);
+
+/// The database's change counter (0 before the step): moves on every write of a versioned row or
+/// a signature, on any bench.
+qint64 change_counter(QSqlDatabase db);
+
+} // namespace phaseplan::storage

@@ -1,0 +1,309 @@
+// Two benches, one record (issue 13, part 2; app/storage/versioning.h): two PROCESSES open the
+// same batch, and the same saved buffer, on one database (a SQLite file, or the PostgreSQL test
+// cluster on the _pg run, tests/test_backend.h). Both load the record; one saves; then the
+// other saves from the version it loaded. The second save must be refused with the first
+// person's name and the time, the first person's value must stay, and the second person's edits
+// must be kept as a copy. Nothing is lost.
+//
+// The helper is this same binary run with --edit-batch / --edit-buffer under QProcess. Each
+// helper prints "loaded <version>" once it holds the record, then waits for one line on standard
+// input before it saves, so the order of the two saves is set by the test, not by timing.
+//
+// Sources: the rule itself (a save from a stale version is refused, "nothing is silently
+// overwritten") is the issue's; optimistic locking with a version column checked in the UPDATE's
+// WHERE clause is common practice, no source.
+#include "storage/accounts.h"
+#include "storage/audit_trail.h"
+#include "storage/batch_store.h"
+#include "storage/database.h"
+#include "storage/signatures.h"
+#include "storage/versioning.h"
+#include "test_backend.h"
+
+#include <QCoreApplication>
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QProcess>
+#include <QTest>
+
+#include <iostream>
+#include <string>
+
+using phaseplan::storage::AccountStore;
+using phaseplan::storage::BatchRecord;
+using phaseplan::storage::BatchStore;
+using phaseplan::storage::ConflictError;
+using phaseplan::storage::Database;
+using phaseplan::storage::DocumentKind;
+using phaseplan::storage::Role;
+
+namespace {
+
+const QString batch_id = QStringLiteral("HR-20261202-001");
+const QString buffer_name = QStringLiteral("Phosphate 20 mM pH 2.5");
+
+QJsonObject recipe_doc() {
+    return QJsonObject{{"name", "Line A buffer: 20 mM sodium phosphate pH 2.5"},
+                       {"target_ph", 2.5},
+                       {"temperature_c", 25},
+                       {"volume_ml", 2000},
+                       {"route", "mix"},
+                       {"acid", "phosphoric-acid"},
+                       {"base", "sodium-dihydrogen-phosphate-monohydrate"},
+                       {"concentration_mol_per_l", 0.02}};
+}
+
+void say(const QString& line) {
+    std::cout << line.toStdString() << std::endl; // flushed: the test waits for it
+}
+
+/// The helper: loads the record, says so, waits for a line, saves from the loaded version.
+/// Exit 0 saved; 1 refused for a conflict (the message on stdout, and the edits kept as a copy:
+/// "copy <id or name>"); 2 anything else.
+int run_helper(const QString& mode, const QString& where, const QString& who,
+               const QString& value) {
+    try {
+        Database db(where);
+        db.set_actor(who);
+        if (mode == "--edit-batch") {
+            BatchStore store(db.connection());
+            BatchRecord mine = *store.load(batch_id);
+            say(QStringLiteral("loaded %1").arg(mine.version));
+            std::string go;
+            std::getline(std::cin, go);
+            mine.comment = value;
+            try {
+                store.edit(batch_id, mine, who);
+                say(QStringLiteral("saved %1").arg(store.load(batch_id)->version));
+                return 0;
+            } catch (const ConflictError& e) {
+                say(QStringLiteral("conflict ") + QString::fromStdString(e.message()));
+                say(QStringLiteral("copy ") +
+                    store.create_copy(mine, who, QStringLiteral("HR"), QDate(2026, 12, 2)));
+                return 1;
+            }
+        }
+        const QJsonObject loaded = *db.load(DocumentKind::buffer, buffer_name);
+        const qint64 version = db.stamp(DocumentKind::buffer, buffer_name).version;
+        say(QStringLiteral("loaded %1").arg(version));
+        std::string go;
+        std::getline(std::cin, go);
+        QJsonObject mine = loaded;
+        mine["volume_ml"] = value.toDouble();
+        try {
+            say(QStringLiteral("saved %1")
+                    .arg(db.save_checked(DocumentKind::buffer, buffer_name, mine, {}, version)));
+            return 0;
+        } catch (const ConflictError& e) {
+            say(QStringLiteral("conflict ") + QString::fromStdString(e.message()));
+            say(QStringLiteral("copy ") +
+                db.save_copy(DocumentKind::buffer, buffer_name, mine, {}));
+            return 1;
+        }
+    } catch (const chem::Error& e) {
+        std::cout << "error " << e.what() << std::endl;
+        return 2;
+    }
+}
+
+/// One helper process, started and holding the record.
+struct Bench {
+    QProcess p;
+    QByteArray out;
+    bool start(const QString& mode, const QString& where, const QString& who,
+               const QString& value) {
+        p.start(QCoreApplication::applicationFilePath(), {mode, where, who, value});
+        if (!p.waitForStarted(30000))
+            return false;
+        while (!out.contains("\n")) {
+            if (!p.waitForReadyRead(30000))
+                return false;
+            out += p.readAllStandardOutput();
+        }
+        return out.startsWith("loaded ");
+    }
+    /// Lets it save; its exit code.
+    int save() {
+        p.write("save\n");
+        p.closeWriteChannel();
+        if (!p.waitForFinished(30000))
+            return -1;
+        out += p.readAllStandardOutput();
+        return p.exitCode();
+    }
+};
+
+} // namespace
+
+class TestConcurrency : public QObject {
+    Q_OBJECT
+    phaseplan::testing::TestDatabases databases_;
+
+    /// A database with two preparers and the record both benches open.
+    QString lab() {
+        const QString where = databases_.fresh(QStringLiteral("lab.sqlite"));
+        Database db(where);
+        AccountStore accounts(db.connection());
+        accounts.add("admin", "Lab Administrator", Role::administrator, "admin-password-1", {});
+        accounts.add("mats", "Mats Lindqvist", Role::reviewer, "mats-password-1", "admin");
+        accounts.add("rosa", "Rosa Okafor", Role::preparer, "rosa-password-1", "admin");
+        QJsonObject in = recipe_doc();
+        in["batch"] = QJsonObject{{"id", batch_id},
+                                  {"prepared_by", "Rosa Okafor"},
+                                  {"prepared_at", "2026-12-02T16:30:00"},
+                                  {"comment", "as prepared"}};
+        BatchStore(db.connection()).create(BatchRecord::from_input(in), "rosa");
+        db.set_actor("rosa");
+        db.save_checked(DocumentKind::buffer, buffer_name, recipe_doc(), {}, 0);
+        return where;
+    }
+
+  private slots:
+    void initTestCase() { PHASEPLAN_REQUIRE_BACKEND(); }
+
+    void migrated_rows_start_at_version_1() {
+        // A database built at the step before versions, with a saved buffer and a batch, then
+        // opened by this program: both rows read back at version 1 with who and when filled in
+        // (the batch's from its history).
+        const QString where = databases_.fresh(QStringLiteral("old.sqlite"));
+        {
+            Database old(where, phaseplan::storage::concurrency_schema_version - 1);
+            old.save(DocumentKind::buffer, buffer_name, recipe_doc());
+            QJsonObject in = recipe_doc();
+            in["batch"] = QJsonObject{{"id", batch_id}};
+            BatchStore(old.connection()).create(BatchRecord::from_input(in), "R. Okafor");
+            QVERIFY(!old.versioned());
+        }
+        Database db(where);
+        QVERIFY(db.versioned());
+        const auto stamp = db.stamp(DocumentKind::buffer, buffer_name);
+        QCOMPARE(stamp.version, qint64(1));
+        QVERIFY(!stamp.changed_at.isEmpty());
+        const BatchRecord b = *BatchStore(db.connection()).load(batch_id);
+        QCOMPARE(b.version, qint64(1));
+        QCOMPARE(b.changed_by, QString("R. Okafor"));
+        QCOMPARE(b.changed_at, b.updated_at);
+    }
+
+    void second_batch_save_is_refused_and_nothing_is_lost() {
+        const QString where = lab();
+        const qint64 counter_before =
+            phaseplan::storage::change_counter(Database(where).connection());
+        Bench rosa, mats;
+        QVERIFY2(rosa.start("--edit-batch", where, "rosa", "pH re-checked at 2.51"), rosa.out);
+        QVERIFY2(mats.start("--edit-batch", where, "mats", "label reprinted"), mats.out);
+        QCOMPARE(rosa.out.trimmed(), QByteArray("loaded 1"));
+        QCOMPARE(mats.out.trimmed(), QByteArray("loaded 1"));
+        QCOMPARE(mats.save(), 0);
+        QVERIFY2(mats.out.contains("saved 2"), mats.out);
+        QCOMPARE(rosa.save(), 1); // loaded at 1, the database holds 2: refused
+        const QString said = QString::fromUtf8(rosa.out);
+        QVERIFY2(said.contains("conflict Batch HR-20261202-001: changed by Mats Lindqvist (mats) "
+                               "at "),
+                 qPrintable(said));
+        QVERIFY2(said.contains(" UTC after you opened it; reload it, or save yours as a copy"),
+                 qPrintable(said));
+
+        Database db(where);
+        BatchStore store(db.connection());
+        const BatchRecord kept = *store.load(batch_id);
+        QCOMPARE(kept.comment, QString("label reprinted")); // the winner's value
+        QCOMPARE(kept.version, qint64(2));
+        QCOMPARE(kept.changed_by, QString("mats"));
+        // The loser's edits, under a new id, with where they came from.
+        const QString copy_id = said.section("copy ", 1).trimmed();
+        QCOMPARE(copy_id, QString("HR-20261202-002"));
+        const BatchRecord copy = *store.load(copy_id);
+        QCOMPARE(copy.comment, QString("Copy of HR-20261202-001: pH re-checked at 2.51"));
+        QCOMPARE(copy.changed_by, QString("rosa"));
+        QCOMPARE(copy.version, qint64(1));
+        // The refused save wrote nothing: one edit in the history after the creation.
+        int edits = 0;
+        for (const auto& h : store.history(batch_id))
+            edits += h.action == "edit";
+        QCOMPARE(edits, 1);
+        QVERIFY(phaseplan::storage::verify_all(db.connection()).intact);
+        // Other benches see that something changed.
+        QVERIFY(phaseplan::storage::change_counter(db.connection()) > counter_before);
+    }
+
+    void second_buffer_save_is_refused_and_nothing_is_lost() {
+        const QString where = lab();
+        Bench rosa, mats;
+        QVERIFY2(rosa.start("--edit-buffer", where, "rosa", "1500"), rosa.out);
+        QVERIFY2(mats.start("--edit-buffer", where, "mats", "2500"), mats.out);
+        QCOMPARE(rosa.save(), 0);
+        QCOMPARE(mats.save(), 1);
+        const QString said = QString::fromUtf8(mats.out);
+        QVERIFY2(said.contains("conflict Buffer \"Phosphate 20 mM pH 2.5\": changed by Rosa Okafor "
+                               "(rosa) at "),
+                 qPrintable(said));
+        Database db(where);
+        QCOMPARE(db.load(DocumentKind::buffer, buffer_name)->value("volume_ml").toDouble(), 1500.0);
+        QCOMPARE(db.stamp(DocumentKind::buffer, buffer_name).version, qint64(2));
+        QCOMPARE(db.stamp(DocumentKind::buffer, buffer_name).changed_by, QString("rosa"));
+        QCOMPARE(said.section("copy ", 1).trimmed(), buffer_name + " (copy)");
+        QCOMPARE(
+            db.load(DocumentKind::buffer, buffer_name + " (copy)")->value("volume_ml").toDouble(),
+            2500.0);
+    }
+
+    void same_process_stale_save_is_refused_too() {
+        // The check is in the database, not in the helper: a stale version from the same
+        // connection is refused as well, and a new name must be new.
+        const QString where = lab();
+        Database db(where);
+        db.set_actor("mats");
+        QCOMPARE(db.save_checked(DocumentKind::buffer, buffer_name, recipe_doc(), "a", 1),
+                 qint64(2));
+        QVERIFY_THROWS_EXCEPTION(ConflictError, db.save_checked(DocumentKind::buffer, buffer_name,
+                                                                recipe_doc(), "b", 1));
+        QVERIFY_THROWS_EXCEPTION(ConflictError, db.save_checked(DocumentKind::buffer, buffer_name,
+                                                                recipe_doc(), "c", 0));
+        QCOMPARE(db.list(DocumentKind::buffer).front().note, QString("a"));
+        // Printing from a stale screen is refused as well.
+        BatchStore store(db.connection());
+        BatchRecord b = *store.load(batch_id);
+        b.comment = "changed";
+        QVERIFY(store.edit(batch_id, b, "mats"));
+        // Signing what the signer was not shown is refused as well (21 CFR 11.70: a signature is
+        // bound to the record it was given to; the version check is this program's way).
+        phaseplan::storage::SignatureStore signatures(db.connection());
+        QVERIFY_THROWS_EXCEPTION(ConflictError, signatures.sign(batch_id, "rosa", "rosa-password-1",
+                                                                "prepared", b.version));
+        QVERIFY(signatures.list(batch_id).empty());
+        signatures.sign(batch_id, "rosa", "rosa-password-1", "prepared",
+                        store.load(batch_id)->version);
+        QCOMPARE(signatures.list(batch_id).size(), size_t(1));
+        QVERIFY_THROWS_EXCEPTION(ConflictError,
+                                 store.mark_printed(batch_id, "rosa", "sheet a4", b.version));
+        store.mark_printed(batch_id, "rosa", "sheet a4", store.load(batch_id)->version);
+        QCOMPARE(store.load(batch_id)->version, qint64(3));
+    }
+
+    void words_for_people_and_times() {
+        // Display name and login for an account; the name as recorded otherwise.
+        const QString where = lab();
+        Database db(where);
+        QCOMPARE(phaseplan::storage::person_words(db.connection(), "mats"),
+                 QString("Mats Lindqvist (mats)"));
+        QCOMPARE(phaseplan::storage::person_words(db.connection(), "R. Okafor"),
+                 QString("R. Okafor"));
+        QCOMPARE(phaseplan::storage::person_words(db.connection(), ""), QString("someone"));
+        QCOMPARE(phaseplan::storage::utc_time_words("2026-12-02T19:04:31.250Z"),
+                 QString("2026-12-02 19:04 UTC"));
+        QCOMPARE(phaseplan::storage::utc_time_words("not a time"), QString("an unknown time"));
+    }
+};
+
+int main(int argc, char** argv) {
+    QCoreApplication app(argc, argv);
+    if (argc == 5 &&
+        (QByteArray(argv[1]) == "--edit-batch" || QByteArray(argv[1]) == "--edit-buffer"))
+        return run_helper(QString::fromLocal8Bit(argv[1]), QString::fromLocal8Bit(argv[2]),
+                          QString::fromLocal8Bit(argv[3]), QString::fromLocal8Bit(argv[4]));
+    TestConcurrency t;
+    return QTest::qExec(&t, argc, argv);
+}
+
+#include "tst_concurrency.moc"
