@@ -81,25 +81,29 @@ void BufferDesigner::flushAutosave() {
         return; // read-only or locked: the banner says so, and dirty_ stays for a later save
     if (!conflict_.isEmpty())
         return; // refused once: the edits stay on screen until Reload or Save as a copy
-    save_buffer();
-    if (conflict_.isEmpty())
-        dirty_ = false;
+    if (save_buffer())
+        dirty_ = false; // on a failure the edits stay pending: saved with the next change, or
+                        // when a lost connection comes back (Workspace::connectionRestored)
 }
 
-void BufferDesigner::save_buffer() {
+bool BufferDesigner::save_buffer() {
     const FieldError e = guarded([&] {
         loaded_version_ = workspace_->database()->save_checked(
             storage::DocumentKind::buffer, buffer_name_, saved_document(), {}, loaded_version_);
     });
     if (e.field == QLatin1String("version")) {
         set_conflict(e.message, {});
-        return;
+        return false;
     }
+    const QString key = QStringLiteral("buffer:") + buffer_name_;
     if (e.empty()) {
         set_conflict({}, {}); // saved: an earlier notice of another bench's change is history
-        workspace_->saveSucceeded();
-    } else
-        workspace_->saveFailed(tr("the buffer \"%1\"").arg(buffer_name_), e.message);
+        workspace_->saveSucceeded(key);
+        return true;
+    }
+    workspace_->saveFailed(tr("the buffer \"%1\"").arg(buffer_name_), e.message, e.field, key,
+                           saved_document());
+    return false;
 }
 
 void BufferDesigner::set_conflict(const QString& conflict, const QString& notice) {
@@ -219,8 +223,17 @@ void BufferDesigner::restore_state() {
             rebuild_buffer_list();
         }
     }
-    if (!name.isEmpty() && openBuffer(name))
+    if (!name.isEmpty() && openBuffer(name)) {
+        // Edits a lost connection kept on this tablet win over the database's copy, and are
+        // saved there at once (with the version check: a change made meanwhile on another
+        // bench is refused, not overwritten).
+        const QJsonObject kept = workspace_->keptLocally(QStringLiteral("buffer:") + name);
+        if (!kept.isEmpty() && kept != saved_document()) {
+            loadJson(kept);
+            schedule_autosave();
+        }
         return;
+    }
     // First run: the buffer the plan's first line holds (the demo's), else the newest saved one,
     // else a new one.
     if (plan_)
@@ -493,6 +506,7 @@ void BufferDesigner::setWorkspace(Workspace* w) {
         });
         connect(w, &Workspace::savedChanged, this, &BufferDesigner::rebuild_buffer_list);
         connect(w, &Workspace::databaseChanged, this, &BufferDesigner::refreshFromDatabase);
+        connect(w, &Workspace::connectionRestored, this, &BufferDesigner::flushAutosave);
     }
     emit workspaceChanged();
     rebuild_choices();

@@ -319,7 +319,7 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void announce_buffer_change();
 
     /// Saves the buffer under buffer_name_; a failure goes to the workspace's banner.
-    void save_buffer();
+    bool save_buffer(); ///< true when saved
     QPointer<Workspace> workspace_;
     QPointer<Plan> plan_;
     bool loading_ = false;

@@ -118,8 +118,10 @@ void Plan::setWorkspace(Workspace* w) {
     if (workspace_)
         disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
-    if (w)
+    if (w) {
         connect(w, &Workspace::libraryChanged, this, &Plan::recompute);
+        connect(w, &Workspace::connectionRestored, this, &Plan::flushAutosave);
+    }
     emit workspaceChanged();
     if (restore_)
         restore_state();
@@ -129,10 +131,20 @@ void Plan::setWorkspace(Workspace* w) {
 void Plan::restore_state() {
     if (!workspace_ || !workspace_->database())
         return;
-    const QJsonObject saved = workspace_->database()->setting(current_plan_key).toObject();
+    QJsonObject saved = workspace_->database()->setting(current_plan_key).toObject();
+    // Edits a lost connection kept on this tablet (this run or the last) win over the
+    // database's copy, and are saved there at once.
+    const QJsonObject kept = workspace_->keptLocally(QStringLiteral("plan"));
+    const bool from_tablet = !kept.value("document").toObject().isEmpty();
+    if (from_tablet)
+        saved = kept;
     if (!saved.isEmpty()) {
         name_ = saved.value("name").toString();
         doc_ = saved.value("document").toObject();
+        if (from_tablet) {
+            dirty_ = true;
+            autosave_.start();
+        }
     } else if (auto demo = workspace_->database()->load(storage::DocumentKind::sequence,
                                                         Workspace::demoName())) {
         // First run: the demo is tonight's plan, starting at the next 18:00.
@@ -159,11 +171,16 @@ void Plan::flushAutosave() {
         workspace_->database()->set_setting(current_plan_key,
                                             QJsonObject{{"name", name_}, {"document", doc_}});
     });
-    if (e.empty())
-        workspace_->saveSucceeded();
-    else
-        workspace_->saveFailed(tr("the plan \"%1\"").arg(name_), e.message);
-    dirty_ = false;
+    if (e.empty()) {
+        workspace_->saveSucceeded(QStringLiteral("plan"));
+        dirty_ = false;
+        return;
+    }
+    // Kept on this tablet and saved again when the database is back (lost connection) or with
+    // the next change: dirty_ stays.
+    workspace_->saveFailed(tr("the plan \"%1\"").arg(name_), e.message, e.field,
+                           QStringLiteral("plan"),
+                           QJsonObject{{"name", name_}, {"document", doc_}});
 }
 
 void Plan::update_buffer_lines() {

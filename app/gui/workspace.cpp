@@ -7,10 +7,14 @@
 #include "core/solvent_data.h"
 #include "storage/demo.h"
 
+#include <QCryptographicHash>
+#include <QDir>
 #include <QFile>
 #include <QFileInfo>
 #include <QJsonArray>
 #include <QJsonDocument>
+#include <QSaveFile>
+#include <QStandardPaths>
 #include <QSysInfo>
 
 namespace phaseplan::gui {
@@ -37,6 +41,8 @@ QString fallback_actor() {
 Workspace::Workspace(QObject* parent) : QObject(parent) {
     change_poll_.setInterval(change_poll_interval_ms);
     connect(&change_poll_, &QTimer::timeout, this, &Workspace::pollChanges);
+    reconnect_.setInterval(5000); // ms: "tries again every 5 s", as the banner says
+    connect(&reconnect_, &QTimer::timeout, this, &Workspace::retryConnection);
 }
 
 void Workspace::setActor(const QString& who) {
@@ -49,13 +55,15 @@ void Workspace::setActor(const QString& who) {
 }
 
 bool Workspace::pollChanges() {
-    if (!db_)
-        return false;
+    if (!db_ || connection_lost_)
+        return false; // while the connection is lost, retryConnection() is what tries
     qint64 counter = last_change_counter_;
     try {
         counter = storage::change_counter(db_->connection());
-    } catch (const chem::Error&) {
-        return false; // the connection is down: the next poll tries again
+    } catch (const chem::Error& e) {
+        if (e.field() == "database.connection")
+            connectionLost(); // says so, and tries again every 5 s
+        return false;
     }
     if (counter == last_change_counter_)
         return false;
@@ -145,6 +153,11 @@ QString Workspace::storageNotice() const {
     if (!db_)
         return {};
     QStringList parts;
+    if (connection_lost_)
+        parts << tr("The lab database has been out of reach since %1. What is on screen stays; "
+                    "PhasePlan tries again every 5 s and saves your edits when it is back. "
+                    "Meanwhile they are kept on this tablet, in %2.")
+                     .arg(lost_since_.time().toString(QStringLiteral("HH:mm")), unsavedFile());
     if (!db_->writable())
         parts << db_->read_only_reason();
     if (!save_failure_.isEmpty())
@@ -158,7 +171,19 @@ QString Workspace::storageNotice() const {
     return parts.join(QLatin1Char(' '));
 }
 
-void Workspace::saveFailed(const QString& what, const QString& message) {
+void Workspace::saveFailed(const QString& what, const QString& message, const QString& field,
+                           const QString& key, const QJsonObject& document) {
+    if (!key.isEmpty() && !document.isEmpty()) {
+        QJsonObject kept = read_kept();
+        kept.insert(key, QJsonObject{{"what", what},
+                                     {"document", document},
+                                     {"kept_at", wall_clock_iso(now())}});
+        write_kept(kept);
+    }
+    if (field == QLatin1String("database.connection")) {
+        connectionLost();
+        return;
+    }
     // SQLite's words for the two usual causes, said as the bench would say them.
     QString why = message;
     const QString file = db_ ? db_->path() : database_path_;
@@ -175,11 +200,80 @@ void Workspace::saveFailed(const QString& what, const QString& message) {
     emit storageNoticeChanged();
 }
 
-void Workspace::saveSucceeded() {
+void Workspace::saveSucceeded(const QString& key) {
+    if (!key.isEmpty()) {
+        QJsonObject kept = read_kept();
+        if (kept.contains(key)) {
+            kept.remove(key);
+            write_kept(kept);
+        }
+    }
     if (save_failure_.isEmpty())
         return;
     save_failure_.clear();
     emit storageNoticeChanged();
+}
+
+QJsonObject Workspace::keptLocally(const QString& key) const {
+    return read_kept().value(key).toObject().value(QLatin1String("document")).toObject();
+}
+
+QString Workspace::unsavedFile() const {
+    const QString location = db_ ? db_->path() : database_path_;
+    const QByteArray id =
+        QCryptographicHash::hash(location.toUtf8(), QCryptographicHash::Sha1).toHex().left(16);
+    QString dir = QStandardPaths::writableLocation(QStandardPaths::AppDataLocation);
+    if (dir.isEmpty())
+        dir = QDir::homePath() + QStringLiteral("/.phaseplan");
+    return dir + QStringLiteral("/unsaved/") + QString::fromLatin1(id) + QStringLiteral(".json");
+}
+
+QJsonObject Workspace::read_kept() const {
+    QFile f(unsavedFile());
+    if (!f.open(QIODevice::ReadOnly))
+        return {};
+    return QJsonDocument::fromJson(f.readAll()).object();
+}
+
+void Workspace::write_kept(const QJsonObject& kept) const {
+    const QString path = unsavedFile();
+    if (kept.isEmpty()) {
+        QFile::remove(path);
+        return;
+    }
+    QDir().mkpath(QFileInfo(path).absolutePath());
+    QSaveFile f(path); // written whole or not at all
+    if (!f.open(QIODevice::WriteOnly))
+        return;
+    f.write(QJsonDocument(kept).toJson(QJsonDocument::Indented));
+    f.commit();
+}
+
+void Workspace::connectionLost() {
+    if (connection_lost_)
+        return;
+    connection_lost_ = true;
+    lost_since_ = now();
+    reconnect_.start();
+    emit storageNoticeChanged();
+}
+
+bool Workspace::retryConnection() {
+    if (!db_)
+        return false;
+    if (!db_->reconnect()) {
+        connectionLost(); // a first failure found here starts the timer too
+        return false;
+    }
+    const bool was_lost = connection_lost_;
+    connection_lost_ = false;
+    reconnect_.stop();
+    if (was_lost) {
+        emit storageNoticeChanged();
+        emit connectionRestored();
+        pollChanges(); // what other benches did meanwhile
+    }
+    return true;
 }
 
 void Workspace::reloadLibrary() {

@@ -112,8 +112,27 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// A save of `what` ("the buffer \"Line A\"") failed with `message`: the banner says so
     /// (the edits stay on screen) until a later save succeeds (saveSucceeded()). Nothing is
     /// attempted while the database is read-only: canSave() is checked first by the callers.
-    void saveFailed(const QString& what, const QString& message);
-    void saveSucceeded();
+    /// A failure with field "database.connection" (the lab server is out of reach) starts the
+    /// reconnection (retryConnection every 5 s) and says so. With a `key` ("plan", "buffer:NAME")
+    /// the unsaved `document` is also kept on this tablet (unsavedFile()) until a save under
+    /// that key succeeds, so that closing the app loses nothing.
+    void saveFailed(const QString& what, const QString& message, const QString& field = {},
+                    const QString& key = {}, const QJsonObject& document = {});
+    /// A save succeeded: the banner's failure goes, and so does the copy kept under `key`.
+    void saveSucceeded(const QString& key = {});
+    /// The document kept on this tablet under `key` by an earlier failed save (this run or a
+    /// previous one), empty when none. It stays kept until saveSucceeded(key).
+    QJsonObject keptLocally(const QString& key) const;
+    /// Where unsaved documents are kept: one JSON file per database, in the app's data folder.
+    QString unsavedFile() const;
+    /// False while the lab database is out of reach (see retryConnection).
+    bool connected() const { return !connection_lost_; }
+    /// Tries the lab database again (the timer calls this every 5 s while it is lost). On
+    /// success the banner clears and connectionRestored() tells the models to save again.
+    Q_INVOKABLE bool retryConnection();
+    /// The connection was seen lost (a failed save, or the change poll).
+    void connectionLost();
+    const QTimer& reconnectTimer() const { return reconnect_; }
 
     /// data/demo/overnight-sequence.json, empty when absent.
     QJsonObject demoDocument() const;
@@ -139,8 +158,12 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// A saved document, batch or signature changed in the database (pollChanges): models with
     /// an open record compare its version and reload it, or say it changed elsewhere.
     void databaseChanged();
+    /// The lab database is reachable again after a lost connection: save what is pending.
+    void connectionRestored();
 
   private:
+    void write_kept(const QJsonObject& kept) const;
+    QJsonObject read_kept() const;
     void seed_demo(storage::Database& db) const;
     bool seed_demo_on_ = true;
 
@@ -158,6 +181,9 @@ class Workspace : public QObject, public QQmlParserStatus {
     QString actor_;
     QTimer change_poll_;
     qint64 last_change_counter_ = -1;
+    bool connection_lost_ = false;
+    QDateTime lost_since_;
+    QTimer reconnect_;
 };
 
 /// The shipped files whose entries go into the database (and may be overridden by the lab).

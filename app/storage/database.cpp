@@ -436,18 +436,49 @@ Database::~Database() {
     close_connection();
 }
 
+void Database::fail_lost_connection(const QSqlError& e) const {
+    if (!sql::connection_lost(db_, e))
+        return;
+    throw chem::Error("database.connection",
+                      QStringLiteral("the connection to the lab database at %1 was lost")
+                          .arg(sql::parse_postgresql_uri(path_).where())
+                          .toStdString());
+}
+
+bool Database::reconnect() {
+    if (dialect_ != sql::Dialect::postgresql)
+        return db_.isOpen();
+    try {
+        if (db_.isOpen()) {
+            QSqlQuery ping(db_);
+            if (ping.exec(QStringLiteral("SELECT 1")))
+                return true;
+        }
+        db_.close();
+        if (!db_.open())
+            return false;
+        exec(QStringLiteral("SELECT 1"));
+        return true;
+    } catch (const chem::Error&) {
+        return false;
+    }
+}
+
 QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const {
     QSqlQuery q(db_);
     if (dialect_ == sql::Dialect::postgresql && bindings.isEmpty()) {
         // PostgreSQL prepares only SELECT, INSERT, UPDATE and DELETE: a statement without values
         // (DDL, BEGIN, SAVEPOINT) runs as it is. Values are always bound.
-        if (!q.exec(sql))
+        if (!q.exec(sql)) {
+            fail_lost_connection(q.lastError());
             fail(sql::failure_sentence(q.lastError()));
+        }
         return q;
     }
     if (!q.prepare(sql)) {
         if (is_busy(q.lastError()))
             fail(locked_reason(path_));
+        fail_lost_connection(q.lastError());
         fail(sql::failure_sentence(q.lastError()));
     }
     for (const QVariant& b : bindings)
@@ -457,6 +488,7 @@ QSqlQuery Database::exec(const QString& sql, const QVariantList& bindings) const
             fail(locked_reason(path_));
         if (is_read_only(q.lastError()))
             fail(read_only_text(path_));
+        fail_lost_connection(q.lastError());
         fail(sql::failure_sentence(q.lastError()));
     }
     return q;

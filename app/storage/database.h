@@ -19,6 +19,7 @@
 #include <QJsonObject>
 #include <QJsonValue>
 #include <QSqlDatabase>
+#include <QSqlError>
 #include <QSqlQuery>
 #include <QString>
 
@@ -236,7 +237,13 @@ class Database {
 
     /// Runs one statement with positional bindings; throws chem::Error("database", …) naming the
     /// SQL and the driver's message. Returns the executed query for reading rows.
+    /// Runs one statement. Throws chem::Error "database" with one sentence, or
+    /// "database.connection" when the lab server's connection is gone (see reconnect()).
     QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
+    /// After a lost connection (PostgreSQL): checks the connection and opens it again if it is
+    /// gone (with the password typed for this run, if any). True when it works again; a file is
+    /// always connected.
+    bool reconnect();
     /// Runs a schema statement with the type tokens of sql::render_ddl filled in for this back end.
     void exec_ddl(const QString& ddl) { exec(sql::render_ddl(dialect_, ddl)); }
 
@@ -246,6 +253,8 @@ class Database {
     /// Throws when the PostgreSQL database holds another program's tables (or application id).
     void refuse_foreign_postgresql() const;
     void close_connection();
+    /// Throws "database.connection" when `e` says the server's connection is gone.
+    void fail_lost_connection(const QSqlError& e) const;
     void configure();
     void probe_writable();
     void migrate(int target_version, const Seed& seed);

@@ -28,7 +28,8 @@ QSqlQuery must(const QSqlDatabase& db, const QString& text, const QVariantList& 
         ok = ok && q.exec();
     }
     if (!ok)
-        fail("database", failure_sentence(q.lastError()));
+        fail(connection_lost(db, q.lastError()) ? "database.connection" : "database",
+             failure_sentence(q.lastError()));
     return q;
 }
 
@@ -377,6 +378,21 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
     fail("database", QStringLiteral("the lab database at %1 cannot be reached: is the server "
                                     "running, and is the address right?")
                          .arg(where));
+}
+
+bool connection_lost(const QSqlDatabase& db, const QSqlError& e) {
+    if (dialect_of(db) != Dialect::postgresql)
+        return false;
+    if (e.type() == QSqlError::ConnectionError)
+        return true;
+    const QString text = e.databaseText() + QLatin1Char(' ') + e.driverText();
+    for (const char* sign :
+         {"server closed the connection", "no connection to the server", "terminating connection",
+          "connection not open", "could not send data", "could not receive data",
+          "connection to server", "SSL connection has been closed"})
+        if (text.contains(QLatin1String(sign)))
+            return true;
+    return !db.isOpen();
 }
 
 QString failure_sentence(const QSqlError& e) {

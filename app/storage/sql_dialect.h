@@ -110,6 +110,10 @@ bool has_typed_password();
 /// the app can ask for it.
 QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_name, bool read_only);
 
+/// True when a statement failed because the connection to the server is gone (the server
+/// restarted or the network dropped), not because of the statement: PostgreSQL only.
+bool connection_lost(const QSqlDatabase& db, const QSqlError& e);
+
 /// One sentence for a failed statement, without its SQL: the database's own reason, first line.
 QString failure_sentence(const QSqlError& e);
 

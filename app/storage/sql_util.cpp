@@ -10,17 +10,28 @@
 
 namespace phaseplan::storage::sql {
 
+namespace {
+/// The error of a failed statement: a lost connection is field "database.connection" (the app
+/// keeps what is on screen and tries again), anything else "database".
+[[noreturn]] void fail_statement(const QSqlDatabase& db, const QSqlError& e) {
+    if (connection_lost(db, e))
+        throw chem::Error("database.connection", "the connection to the lab database was lost (" +
+                                                     failure_sentence(e).toStdString() + ")");
+    throw chem::Error("database", failure_sentence(e).toStdString());
+}
+} // namespace
+
 QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings) {
     QSqlQuery q(db);
     // PostgreSQL prepares only SELECT, INSERT, UPDATE and DELETE: a statement without values
     // (DDL, BEGIN, SAVEPOINT) runs as it is. Values are always bound, never written into the SQL.
     if (bindings.isEmpty() && dialect_of(db) == Dialect::postgresql) {
         if (!q.exec(sql))
-            throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
+            fail_statement(db, q.lastError());
         return q;
     }
     if (!q.prepare(sql))
-        throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
+        fail_statement(db, q.lastError());
     for (int i = 0; i < bindings.size(); ++i) {
         const QVariant& v = bindings[i];
         if (v.typeId() == QMetaType::QString && v.toString().isNull())
@@ -29,7 +40,7 @@ QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings)
             q.bindValue(i, v);
     }
     if (!q.exec())
-        throw chem::Error("database", failure_sentence(q.lastError()).toStdString());
+        fail_statement(db, q.lastError());
     return q;
 }
 
