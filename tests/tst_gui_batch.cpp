@@ -131,7 +131,11 @@ class TestGuiBatch : public QObject {
 
         // The batch was printed: a change is an amendment with a reason, and it voids them all.
         m.setPreparer("Rosa Okafor");
+        // A lot the shelf does not hold is refused while the shelf has lots of the reagent.
         QVERIFY(!m.setLot(0, "PA-00001"));
+        QVERIFY2(m.errorMessage().contains("not on the shelf"), qPrintable(m.errorMessage()));
+        QVERIFY(!m.pendingAmendment());
+        QVERIFY(!m.setLot(0, "PA-90417")); // a demo lot on the shelf (storage/demo.cpp)
         QVERIFY(m.pendingAmendment());
         QVERIFY(!m.sign("demo-approve", "demo-approve-2026", "approved"));
         QCOMPARE(m.errorField(), QString("signature"));

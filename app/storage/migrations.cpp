@@ -16,6 +16,7 @@
 
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
+#include "storage/lot_store.h"
 
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -185,6 +186,13 @@ const std::vector<Migration>& migrations() {
              for (const QString& sql : audit_guard_statements(db.dialect()))
                  db.exec(sql);
              backfill_audit_from_history(db);
+         }},
+        {lot_schema_version,
+         "the reagent-lot shelf: each lot's number, supplier, received, opened and expiry dates "
+         "and quantity (app/storage/lot_store.h)",
+         [](Database& db) {
+             for (const QString& sql : lot_schema_statements(db.dialect()))
+                 db.exec(sql);
          }},
         // Append new steps here (see the comment at the top of this file).
     };
