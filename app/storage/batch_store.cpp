@@ -668,7 +668,7 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         return false;
 
     const int revision = cur->revision + 1;
-    const QString t = now();
+    const QString t = grant ? grant->at : now(); // the override's time is the change's
     for (const auto& [field, values] : diff)
         run(db_,
             "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
