@@ -386,6 +386,12 @@ class TestLots : public QObject {
         next.actual[1] = e;
         QCOMPARE(error_of([&] { batches.edit("T-1", next, "prep"); }).first,
                  QString("batch.actual[1].lot"));
+        // The screen ties the amounts to the shelf before it shows them (BatchModel), so the
+        // override receives the expired lot with its expiry date already in place.
+        const BatchRecord current = *batches.load("T-1");
+        resolve_batch_lots(lab.c(), &current, next);
+        QCOMPARE(next.actual[1].toObject().value("lot_expires_on").toString(),
+                 QString("2026-11-30"));
         const qint64 before = lab.trail_length();
         BatchStore::LotOverrideRequest r{salt, "SP-0", "appr", "appr-password",
                                          "requalified: assay 99.6 % on 2026-11-28, QC-ref 4471"};

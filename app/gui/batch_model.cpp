@@ -176,7 +176,7 @@ void BatchModel::set_error(const FieldError& e) {
     error_ = e;
     emit errorChanged();
     if (!rows_.empty())
-        emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole});
+        emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole, LotErrorRole});
 }
 
 int BatchModel::actual_index(const QString& reagent) const {
@@ -454,6 +454,8 @@ void BatchModel::read_shelf() {
                                                     {"openedOn", l.opened_on},
                                                     {"supplier", l.supplier}});
     });
+    if (!rows_.empty()) // the rows' lot pickers read the shelf
+        emit dataChanged(index(0), index(int(rows_.size()) - 1));
 }
 
 QVariantMap BatchModel::shelf_lot(const QString& reagent_in, const QString& lot) const {
@@ -496,7 +498,6 @@ bool BatchModel::overrideExpiredLot(int row, const QString& login, const QString
                                                     reason};
     const QString id = draft_->id;
     const storage::BatchRecord next = *draft_;
-    override_row_ = row;
     FieldError e = guarded([&] { st->override_expired_lot(id, next, who(), request); });
     if (e.field == QLatin1String("login") || e.field == QLatin1String("password"))
         e.field = "lot_override." + e.field; // shown on the override form, not the signature's
@@ -897,9 +898,10 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
     const QString lot = lot_in.trimmed();
     const QString reagent = rows_[size_t(row)].reagent;
     lots_[reagent] = lot;
+    const QList<int> lot_roles = {LotRole, LotExpiresOnRole, LotExpiredRole, LotStatusRole};
     const int i = actual_index(reagent);
     if (i < 0) { // no amount yet: the lot waits on the screen until one is entered
-        emit dataChanged(index(row), index(row), {LotRole});
+        emit dataChanged(index(row), index(row), lot_roles);
         return true;
     }
     auto next = *draft_;
@@ -911,7 +913,9 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
     else
         entry["lot"] = lot;
     next.actual[i] = entry;
-    return apply(QStringLiteral("batch.actual[%1].lot").arg(i), next);
+    const bool ok = apply(QStringLiteral("batch.actual[%1].lot").arg(i), next);
+    emit dataChanged(index(row), index(row), lot_roles);
+    return ok;
 }
 
 bool BatchModel::amend() {
@@ -1141,8 +1145,6 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
             const bool expired = expires < day;
             QString name = m.value("id").toString() + (expired ? tr(" · EXPIRED %1").arg(expires)
                                                                : tr(" · expires %1").arg(expires));
-            if (!m.value("openedOn").toString().isEmpty())
-                name += tr(" · opened %1").arg(m.value("openedOn").toString());
             QVariantMap c = m;
             c["name"] = name;
             c["expired"] = expired;
@@ -1186,19 +1188,18 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
             return tr("EXPIRED on %1, before the preparation on %2: pick another lot, or an "
                       "approver overrides it with a reason")
                 .arg(expires, storage::preparation_day(*draft_));
-        return tr("expires %1").arg(expires);
+        const QString opened = shelf_lot(r.reagent, lot).value("openedOn").toString();
+        return opened.isEmpty() ? tr("expires %1").arg(expires)
+                                : tr("expires %1 · opened %2").arg(expires, opened);
     }
     case LotErrorRole:
     case ErrorRole: {
+        // The override form shows its own errors (lot_override.*), beside its fields.
         const auto at = chem::subscript_of(error_.field.toStdString(), "batch.actual");
         const int i = at ? at->index() : -1;
-        const bool about_lot =
-            (at && at->rest.rfind("lot", 0) == 0) ||
-            (error_.field.startsWith(QLatin1String("lot_override")) && override_row_ == idx.row());
+        const bool about_lot = at && at->rest.rfind("lot", 0) == 0;
         if (about_lot != (role == LotErrorRole))
             return QString();
-        if (error_.field.startsWith(QLatin1String("lot_override")))
-            return error_.message;
         if (i < 0 || !draft_)
             return QString();
         if (i < draft_->actual.size() &&

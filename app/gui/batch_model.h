@@ -195,7 +195,7 @@ class BatchModel : public QAbstractListModel {
         CaptureTargetRole, ///< the target DeviceCapture::takeFromBalance is called with for this
                            ///< row
         /// The lots of this reagent on the shelf, earliest expiry first: [{id (the lot number),
-        /// name ("PA-88112 · expires 2028-11-01 · opened 2026-10-03", or "… · EXPIRED
+        /// name ("PA-88112 · expires 2028-11-01", or "… · EXPIRED
         /// 2026-11-27"), expiresOn, expired (before the day of preparation)}]; [] when the shelf
         /// holds none, and the lot is then typed.
         LotChoicesRole,
@@ -432,7 +432,6 @@ class BatchModel : public QAbstractListModel {
     /// what the store will keep.
     FieldError resolve_lots(storage::BatchRecord& next) const;
     QString use_by_at_, use_by_limit_;
-    int override_row_ = -1; ///< the row whose override was tried last (its errors show there)
     QStringList lot_overrides_;
 
     std::vector<Row> rows_;

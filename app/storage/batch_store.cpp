@@ -633,7 +633,7 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         throw chem::Error("who", "is required: the history names who made each change");
     BatchRecord next = next_in;
     next.id = id; // the id is the key; it never changes
-    validate(next);
+    // Checked once its lots are tied to the shelf (and an override granted), below.
     Transaction tx(db_);
     AccountStore::check_may_edit(db_, who);
     const std::optional<BatchRecord> cur = load(id);

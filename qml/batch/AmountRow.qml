@@ -56,6 +56,11 @@ Rectangle {
         return Number(v).toLocaleString(Qt.locale(), "f", decimalsFor(root.target))
     }
     readonly property bool flagged: root.entered && !root.withinTolerance
+    /// The row whose override form was used last (its errors show there, not on other rows).
+    property bool overrideTried: false
+    function overrideError(field) {
+        return root.overrideTried && root.batch && root.batch.errorField === field ? root.batch.errorMessage : ""
+    }
 
     implicitHeight: grid.implicitHeight + 2 * Theme.gap
     radius: Theme.radius
@@ -227,7 +232,8 @@ Rectangle {
             Label {
                 objectName: "lotStatus"
                 Layout.fillWidth: true
-                visible: root.lotStatus.length > 0
+                // The refusal beside the picker says the same in full.
+                visible: root.lotStatus.length > 0 && root.lotError.length === 0
                 text: (root.lotExpired ? "⚠ " : "") + root.lotStatus
                 color: root.lotExpired ? Theme.bad : Theme.dimText
                 font.pixelSize: Theme.smallFont
@@ -257,18 +263,20 @@ Rectangle {
                     id: approverLogin
                     objectName: "overrideLogin"
                     Layout.fillWidth: true
+                    Layout.preferredWidth: Theme.tap * 3 // the two share the row equally
                     label: qsTr("Approver's login")
                     accessibleName: qsTr("Approver's login for the lot of %1").arg(root.name)
-                    error: root.batch && root.batch.errorField === "lot_override.login" ? root.batch.errorMessage : ""
+                    error: root.overrideError("lot_override.login")
                 }
                 TextEntry {
                     id: approverPassword
                     objectName: "overridePassword"
                     Layout.fillWidth: true
+                    Layout.preferredWidth: Theme.tap * 3 // the two share the row equally
                     label: qsTr("Password")
                     accessibleName: qsTr("Approver's password for the lot of %1").arg(root.name)
                     field.echoMode: TextInput.Password
-                    error: root.batch && root.batch.errorField === "lot_override.password" ? root.batch.errorMessage : ""
+                    error: root.overrideError("lot_override.password")
                 }
             }
             TextEntry {
@@ -277,9 +285,7 @@ Rectangle {
                 Layout.fillWidth: true
                 label: qsTr("Why may this expired lot be used?")
                 accessibleName: qsTr("Reason to use the expired lot of %1").arg(root.name)
-                error: root.batch && (root.batch.errorField === "lot_override.reason"
-                                      || root.batch.errorField === "lot_override")
-                       ? root.batch.errorMessage : ""
+                error: root.overrideError("lot_override.reason") || root.overrideError("lot_override")
             }
             TouchButton {
                 objectName: "overrideButton"
@@ -287,6 +293,7 @@ Rectangle {
                 Accessible.name: qsTr("Accept the expired lot of %1 as approver").arg(root.name)
                 enabled: approverLogin.field.text.length > 0 && approverPassword.field.text.length > 0
                 onClicked: {
+                    root.overrideTried = true
                     if (root.batch.overrideExpiredLot(root.index, approverLogin.field.text,
                                                       approverPassword.field.text, overrideReason.field.text)) {
                         approverLogin.field.text = ""
