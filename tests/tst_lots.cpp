@@ -254,6 +254,51 @@ class TestLots : public QObject {
         QCOMPARE(LotStore(lab.c()).list().size(), size_t(1));
     }
 
+    // Someone with the file (or the database's owner) drops the guards and edits the shelf: an
+    // expired lot made to look in date, a lot slipped in, a lot removed. audit verify names each.
+    void shelfChangedBehindTheTrailIsFound() {
+        struct Tamper {
+            const char* name;
+            QString statement;
+            QString words;      // in the problem
+            bool refused_first; // the guards refuse it while they are in place
+        };
+        const QString add = "INSERT INTO reagent_lots (reagent, lot, supplier, received_on,"
+                            " opened_on, expires_on, quantity_unit, created_at, created_by,"
+                            " changed_at) VALUES ('phosphoric-acid', 'PA-X', '', '2026-01-01',"
+                            " '', '2028-01-01', '', 'x', 'prep', 'x')";
+        const Tamper cases[] = {
+            {"expiry moved", "UPDATE reagent_lots SET expires_on = '2029-01-01'", "expires_on",
+             true},
+            {"lot slipped in", add, "PA-X", false}, // inserts are not guarded: verify finds it
+            {"lot removed", "DELETE FROM reagent_lots", "does not hold it", true},
+        };
+        for (const Tamper& t : cases) {
+            Lab lab;
+            lab.put(salt, "SP-0", "2025-10-01", "2026-11-30");
+            const qint64 added = lab.trail_length();
+            QVERIFY(verify_all(lab.c()).intact);
+            if (t.refused_first) {
+                QSqlQuery guarded(lab.c());
+                QVERIFY2(!guarded.exec(t.statement), t.name);
+                QVERIFY(verify_all(lab.c()).intact);
+            }
+            for (const char* g : {"reagent_lots_fixed", "reagent_lots_no_delete"})
+                for (const QString& s :
+                     sql::drop_guard_statements(sql::dialect_of(lab.c()), g, "reagent_lots")) {
+                    QSqlQuery q(lab.c());
+                    QVERIFY2(q.exec(s), qPrintable(s));
+                }
+            QSqlQuery q(lab.c());
+            QVERIFY2(q.exec(t.statement), qPrintable(t.statement));
+            const AuditVerification v = verify_all(lab.c());
+            QVERIFY2(!v.intact, t.name);
+            QVERIFY2(v.problem.contains(t.words), qPrintable(v.problem));
+            if (t.refused_first) // named by the entry that put the lot on the shelf
+                QCOMPARE(v.first_bad_seq, added);
+        }
+    }
+
     // ---- the batch's use-by -----------------------------------------------------------------
 
     // prepared 2026-12-01T16:30 + 48 h (data/solvents.json, aqueous-buffer) = 2026-12-03T16:30;

@@ -9,10 +9,13 @@
 
 #include <QDate>
 #include <QJsonArray>
+#include <QJsonDocument>
 #include <QJsonObject>
 #include <QSqlQuery>
 
 #include <cmath>
+#include <map>
+#include <set>
 
 namespace phaseplan::storage {
 
@@ -94,10 +97,14 @@ QStringList lot_schema_statements(sql::Dialect d) {
     s << QStringLiteral("CREATE INDEX reagent_lots_reagent ON reagent_lots (reagent, expires_on)");
     const sql::Guard guards[] = {
         {"reagent_lots_no_delete", "reagent_lots", "DELETE", {}, "lots are never removed"},
+        // Only the day of opening changes (LotStore::set_opened); the rest is as received.
         {"reagent_lots_fixed", "reagent_lots", "UPDATE",
          "NEW.reagent IS NOT OLD.reagent OR NEW.lot IS NOT OLD.lot"
+         " OR NEW.supplier IS NOT OLD.supplier OR NEW.received_on IS NOT OLD.received_on"
+         " OR NEW.expires_on IS NOT OLD.expires_on OR NEW.quantity IS NOT OLD.quantity"
+         " OR NEW.quantity_unit IS NOT OLD.quantity_unit"
          " OR NEW.created_at IS NOT OLD.created_at OR NEW.created_by IS NOT OLD.created_by",
-         "a lot keeps its reagent, number and creation"},
+         "a lot on the shelf changes only by the day it is opened"},
     };
     for (const sql::Guard& g : guards)
         s << sql::guard_statements(d, g);
@@ -231,6 +238,72 @@ std::optional<ReagentLot> LotStore::find(const QString& reagent, const QString& 
     if (!q.next())
         return std::nullopt;
     return lot_from(q);
+}
+
+AuditVerification verify_lots(QSqlDatabase db) {
+    AuditVerification v;
+    if (!sql::table_exists(db, QStringLiteral("reagent_lots")))
+        return v;
+    std::map<QString, QJsonObject> replayed;
+    std::map<QString, qint64> last_seq;
+    for (const AuditEntry& e : audit_entries(db, {QStringLiteral("lot"), {}})) {
+        ++v.entries;
+        if (e.action == QLatin1String("add-lot"))
+            replayed[e.record_id] = {};
+        else if (!replayed.count(e.record_id))
+            return v.broken_at(e.seq, QStringLiteral("entry %1 changes lot \"%2\" before any "
+                                                     "entry puts it on the shelf")
+                                          .arg(e.seq)
+                                          .arg(e.record_id.left(130)));
+        last_seq[e.record_id] = e.seq;
+        QJsonObject& fields = replayed[e.record_id];
+        const QJsonObject c = QJsonDocument::fromJson(e.changes.toUtf8()).object();
+        for (auto it = c.begin(); it != c.end(); ++it) {
+            const QJsonValue nv = it.value().toObject().value(QLatin1String("new"));
+            if (nv.isNull() || nv.isUndefined())
+                fields.remove(it.key());
+            else
+                fields[it.key()] = nv;
+        }
+    }
+    QSqlQuery q = run(
+        db,
+        QStringLiteral("SELECT %1 FROM reagent_lots ORDER BY id").arg(QLatin1String(lot_columns)));
+    std::set<QString> seen;
+    while (q.next()) {
+        const ReagentLot l = lot_from(q);
+        const QString id = record_id(l);
+        seen.insert(id);
+        if (!replayed.count(id))
+            return v.broken_at(v.entries + 1,
+                               QStringLiteral("lot \"%1\" is on the shelf without an entry that "
+                                              "puts it there")
+                                   .arg(id.left(130)));
+        const QJsonObject now = lot_fields(l);
+        const QJsonObject& trail = replayed[id];
+        QStringList differs;
+        for (auto it = now.begin(); it != now.end(); ++it)
+            if (trail.value(it.key()) != it.value())
+                differs << it.key();
+        for (auto it = trail.begin(); it != trail.end(); ++it)
+            if (!now.contains(it.key()))
+                differs << it.key();
+        if (!differs.isEmpty())
+            return v.broken_at(last_seq[id],
+                               QStringLiteral("lot \"%1\" differs from its trail (last entry %2) "
+                                              "in %3")
+                                   .arg(id.left(130))
+                                   .arg(last_seq[id])
+                                   .arg(differs.join(QStringLiteral(", "))));
+    }
+    for (const auto& [id, fields] : replayed)
+        if (!seen.count(id))
+            return v.broken_at(last_seq[id],
+                               QStringLiteral("entry %1 puts lot \"%2\" on the shelf, which does "
+                                              "not hold it")
+                                   .arg(last_seq[id])
+                                   .arg(id.left(130)));
+    return v;
 }
 
 QString preparation_day(const BatchRecord& b) {

@@ -16,6 +16,7 @@
 //   - lots are never removed; the administrator changes none (AccountStore::check_may_edit);
 //   - every change is an entry of the audit trail (record_type "lot", record id
 //     "<reagent>/<lot>") under the login that made it, in the same transaction.
+#include "storage/audit_trail.h"
 #include "storage/batch_store.h"
 #include "storage/sql_dialect.h"
 
@@ -114,6 +115,12 @@ struct LotOverrideGrant {
 /// the day of preparation. Does nothing on a connection without the shelf.
 void resolve_batch_lots(QSqlDatabase db, const BatchRecord* current, BatchRecord& next,
                         const LotOverrideGrant* grant = nullptr);
+
+/// The shelf against its trail (run by verify_records, so by `audit verify`): every lot equals
+/// its add-lot and open-lot entries replayed field by field, and every add-lot entry has its lot.
+/// A lot changed, added or removed behind the program's back (the guards dropped) is named by the
+/// entry it disagrees with. Read-only.
+AuditVerification verify_lots(QSqlDatabase db);
 
 /// The day of preparation: the date of prepared_at, else today (local), YYYY-MM-DD.
 QString preparation_day(const BatchRecord& batch);
