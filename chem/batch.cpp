@@ -450,6 +450,7 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         if (a) {
             c.lot = a->lot;
             c.lot_expires_on = a->lot_expires_on;
+            c.lot_override = a->lot_override;
         }
         actual_mol[k] = a ? *entered * per_unit : target_mol;
         c.target_mol_per_l = it.mol_per_l;

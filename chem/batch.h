@@ -94,6 +94,7 @@ struct AmountCheck {
     bool within_tolerance = true;
     std::string lot;
     std::string lot_expires_on;  ///< "YYYY-MM-DD" from the lot shelf, "" when not known
+    bool lot_override = false;   ///< the lot had expired and an approver accepted it
     double target_mol_per_l = 0; ///< formula units per litre of final solution, as planned
     double actual_mol_per_l = 0; ///< as made (the target when nothing was entered)
 };

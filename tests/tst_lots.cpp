@@ -16,6 +16,7 @@
 #include "chem/error.h"
 #include "core/app_data.h"
 #include "core/batch_document.h"
+#include "print/documents.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
@@ -104,6 +105,19 @@ const phaseplan::AppData& app_data() {
 
 phaseplan::BatchDocument document_of(const BatchRecord& b) {
     return phaseplan::read_batch_document(app_data(), b.to_input());
+}
+
+/// Every text of the printed sheet, one string (headings, fields, table cells, list items).
+QString sheet_text(const phaseplan::print::PrintJob& job) {
+    QStringList out;
+    for (const auto& b : job.sheet.blocks) {
+        out << b.text << b.items;
+        for (const auto& kv : b.fields)
+            out << kv.key + ": " + kv.value;
+        for (const QStringList& row : b.table.rows)
+            out << row;
+    }
+    return out.join('\n');
 }
 
 } // namespace
@@ -327,6 +341,16 @@ class TestLots : public QObject {
                      .value("lot")
                      .toString(),
                  QString("SP-2"));
+        // On paper: the sheet's expiry says which lot limits it, the table gives each lot's
+        // expiry, every label names the lot.
+        const auto job = phaseplan::print::build_print_job(app_data(), stored.to_input(), "now");
+        const QString text = sheet_text(job);
+        QVERIFY2(text.contains("Expires at: 2026-12-02 23:59\nlimited by lot SP-2 of Sodium "
+                               "dihydrogen phosphate monohydrate, which expires on 2026-12-02"),
+                 qPrintable(text));
+        QVERIFY2(text.contains("SP-2\nexp. 2026-12-02"), qPrintable(text));
+        QCOMPARE(job.labels.size(), 1);
+        QCOMPARE(job.labels[0].expires_at, QString("2026-12-02 23:59 (lot SP-2)"));
         // The lot changes to one that expires later: the shelf life sets the use-by again.
         lab.put(salt, "SP-3", "2026-11-01", "2027-11-01");
         BatchRecord next = stored;
@@ -477,6 +501,14 @@ class TestLots : public QObject {
         for (const QJsonValue& w : doc.warnings)
             warned |= w.toObject().value("code").toString() == "expired-lot-override";
         QVERIFY(warned);
+        const auto job = phaseplan::print::build_print_job(app_data(), stored.to_input(), "now");
+        const QString text = sheet_text(job);
+        QVERIFY2(text.contains("Expired lots used by an approver's override") &&
+                     text.contains(doc.lot_override_text[0]) &&
+                     text.contains("SP-0\nexp. 2026-11-30\nEXPIRED: override"),
+                 qPrintable(text));
+        QVERIFY2(job.labels[0].mark.contains("EXPIRED LOT USED BY OVERRIDE"),
+                 qPrintable(job.labels[0].mark));
         // A later change keeps the override with its lot.
         BatchRecord later = stored;
         later.comment = "degassed 10 min";

@@ -383,6 +383,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         std::optional<double> actual;
         std::string unit = it.volume_ml ? "mL" : "g";
         std::string lot, lot_expires_on;
+        bool lot_override = false;
         if (auto e = part_entry.find(it.part); e != part_entry.end()) {
             const chem::ActualAmount& a = batch.actual[e->second];
             const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
@@ -395,12 +396,14 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
             actual = a.mass_g ? a.mass_g : a.volume_ml;
             lot = a.lot;
             lot_expires_on = a.lot_expires_on;
+            lot_override = a.lot_override;
         }
         const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
         chem::AmountCheck c =
             chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
         c.lot = lot;
         c.lot_expires_on = lot_expires_on;
+        c.lot_override = lot_override;
         d.part_checks.push_back(c);
     }
     for (const auto& c : d.part_checks)

@@ -422,7 +422,8 @@ void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
 QString lot_text(const chem::AmountCheck& c) {
     if (c.lot_expires_on.empty())
         return qs(c.lot);
-    return qs(c.lot) + "\nexp. " + qs(c.lot_expires_on);
+    return qs(c.lot) + "\nexp. " + qs(c.lot_expires_on) +
+           (c.lot_override ? QStringLiteral("\nEXPIRED: override") : QString());
 }
 
 void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QString& mark,
@@ -433,15 +434,15 @@ void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QStri
     label.expires_at = iso_minute_text(doc.expires_at);
     if (doc.expiry_limited_by >= 0 && doc.expiry_limited_by < int(batch.actual.size()))
         label.expires_at += " (lot " + qs(batch.actual[size_t(doc.expiry_limited_by)].lot) + ")";
-    if (!doc.lot_override_text.isEmpty()) {
-        const QString note = QStringLiteral("EXPIRED LOT USED BY OVERRIDE — see the sheet");
-        label.mark = label.mark.isEmpty() ? note : label.mark + "\n" + note;
-    }
     label.prepared_by = qs(batch.prepared_by);
     label.pictograms = sorted_pictograms(hz.pictograms);
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
     label.mark = mark;
+    if (!doc.lot_override_text.isEmpty()) {
+        const QString note = QStringLiteral("EXPIRED LOT USED BY OVERRIDE — see the sheet");
+        label.mark = label.mark.isEmpty() ? note : label.mark + "\n" + note;
+    }
     set_release(label, release);
 }
 

@@ -109,7 +109,7 @@ QString band_text(const chem::AmountCheck& c, const chem::Batch& b);
 QString actual_text(const chem::AmountCheck& c, const QJsonObject& captures);
 
 /// A lot as the tables print it: "PA-88112", with "exp. 2027-09-30" below when the lot shelf
-/// gave its expiry.
+/// gave its expiry, and "EXPIRED: override" when an approver accepted it expired.
 QString lot_text(const chem::AmountCheck& c);
 
 Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe,
