@@ -97,11 +97,18 @@ case("lot list: the reagent's lots, earliest expiry first",
      sorted(l["lot"] for l in listed) == ["PA-77001", "PA-88112", "PA-90417"]
      and [l["expires_on"] for l in listed] == sorted(l["expires_on"] for l in listed),
      repr(listed)[:400] + err)
+solvent = with_option("--reagent", "acetonitrile")
+solvent[solvent.index("--lot") + 1] = "ACN-5521"
+solvent[solvent.index("--quantity") + 1] = "4 L"
+rc, out, err = run(solvent, pw)
+case("a solvent of the library has lots too", rc == 0 and json.loads(out)["lot"] == "ACN-5521",
+     out + err)
 rc, out, err = run(["audit", "verify", "--database", db])
-case("the new lot is one more entry of an intact trail",
-     rc == 0 and out.startswith("intact: %d entries" % (entries + 2)), out + err)
+case("the new lots are two more entries of an intact trail",
+     rc == 0 and out.startswith("intact: %d entries" % (entries + 3)), out + err)
 rc, out, err = run(["audit", "export", "--database", db])
-last = json.loads(out)["entries"][-1] if rc == 0 else {}
+last = ([e for e in json.loads(out)["entries"] if e["record_id"] == "phosphoric-acid/PA-77001"]
+        or [{}])[-1] if rc == 0 else {}
 case("the trail names who put the lot on the shelf",
      last.get("action") == "add-lot" and last.get("login") == "demo-prep"
      and last.get("record_id") == "phosphoric-acid/PA-77001", repr(last)[:400])

@@ -446,14 +446,19 @@ void read_quantity(const QString& text, ReagentLot& l) {
     l.quantity_unit = m.captured(2);
 }
 
-/// Is `id` a reagent of the library (shipped, or the lab's own entry)? Throws chem::Error
+/// Is `id` a reagent or solvent of the library (shipped, or the lab's own entry)? Throws
+/// chem::Error
 /// ("reagent", …) naming the nearest id otherwise.
 void require_library_reagent(const QString& id, const QString& data_dir, const Database& db) {
     const AppData data = load_app_data(data_dir);
-    if (data.reagents.find_reagent(id.toStdString()))
+    // A solvent (acetonitrile for line B) has lots too.
+    if (data.reagents.find_reagent(id.toStdString()) ||
+        data.solvents.find_solvent(id.toStdString()))
         return;
     std::vector<std::string> ids;
     for (const chem::Reagent& r : data.reagents.reagents())
+        ids.push_back(r.id);
+    for (const chem::Solvent& r : data.solvents.solvents())
         ids.push_back(r.id);
     for (const LibraryEntry& e : db.user_entries(QStringLiteral("reagents"))) {
         if (e.id == id)
