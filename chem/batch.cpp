@@ -4,6 +4,7 @@
 #include "chem/error.h"
 #include "chem/units.h"
 
+#include <algorithm>
 #include <cmath>
 #include <cstdio>
 #include <set>
@@ -248,6 +249,47 @@ Warning out_of_tolerance_warning(const AmountCheck& c, double tolerance_fraction
 }
 
 std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
+    return use_by(batch, shelf_life_h).expires_at;
+}
+
+LocalDateTime parse_local_date(const std::string& text, const std::string& field) {
+    const bool shape = text.size() == 10 && text[4] == '-' && text[7] == '-' &&
+                       std::all_of(text.begin(), text.end(),
+                                   [](char ch) { return ch == '-' || (ch >= '0' && ch <= '9'); });
+    if (!shape)
+        throw Error(field, guard::quote_id(text) + " is not a date like 2027-03-31");
+    try {
+        return parse_local_datetime(text + "T00:00", field);
+    } catch (const Error& e) {
+        // The same reason (month 13, day 31 of a short month, a year out of range), for the date.
+        const std::string m = e.message();
+        const auto open = m.find(" (");
+        throw Error(field, guard::quote_id(text) + " is not a date like 2027-03-31" +
+                               (open == std::string::npos ? "" : m.substr(open)));
+    }
+}
+
+void check_lot_dates(const std::string& received_on, const std::string& opened_on,
+                     const std::string& expires_on, const std::string& at) {
+    const std::string p = at.empty() ? "" : at + ".";
+    if (received_on.empty())
+        throw Error(p + "received_on", "is required: the day the lot came into the lab");
+    if (expires_on.empty())
+        throw Error(p + "expires_on", "is required: the expiry date on the supplier's label");
+    const LocalDateTime received = parse_local_date(received_on, p + "received_on");
+    const LocalDateTime expires = parse_local_date(expires_on, p + "expires_on");
+    if (to_minutes(expires) <= to_minutes(received))
+        throw Error(p + "expires_on", "the lot expires on " + expires_on +
+                                          ", which is not after it was received on " + received_on);
+    if (!opened_on.empty()) {
+        const LocalDateTime opened = parse_local_date(opened_on, p + "opened_on");
+        if (to_minutes(opened) < to_minutes(received))
+            throw Error(p + "opened_on", "the lot was opened on " + opened_on +
+                                             ", before it was received on " + received_on);
+    }
+}
+
+UseBy use_by(const Batch& batch, double shelf_life_h) {
     const std::string& id = batch.id;
     if (id.find_first_not_of(" \t\r\n") == std::string::npos)
         throw Error("batch.id", "is required: give the batch an id");
@@ -284,23 +326,60 @@ std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
     std::optional<LocalDateTime> prepared;
     if (!batch.prepared_at.empty())
         prepared = parse_local_datetime(batch.prepared_at, "batch.prepared_at");
+    UseBy out;
     if (!batch.expires_at.empty()) {
         const LocalDateTime exp = parse_local_datetime(batch.expires_at, "batch.expires_at");
         if (prepared && to_minutes(exp) <= to_minutes(*prepared))
             throw Error("batch.expires_at", "\"" + batch.expires_at +
                                                 "\" is not after prepared_at \"" +
                                                 batch.prepared_at + "\"");
-        return batch.expires_at;
+        out.expires_at = batch.expires_at;
+    } else if (prepared) {
+        out.expires_at = add_hours(batch.prepared_at, shelf_life_h, "batch.prepared_at");
     }
-    if (prepared)
-        return add_hours(batch.prepared_at, shelf_life_h, "batch.prepared_at");
-    return {};
+    // The lots: an expired one is refused (unless overridden), the others clamp the use-by.
+    std::optional<std::int64_t> limit_min;
+    if (!out.expires_at.empty())
+        limit_min = to_minutes(parse_local_datetime(out.expires_at, "batch.expires_at"));
+    for (size_t i = 0; i < batch.actual.size(); ++i) {
+        const ActualAmount& a = batch.actual[i];
+        if (a.lot_expires_on.empty())
+            continue;
+        const int ii = static_cast<int>(i);
+        LocalDateTime end = parse_local_date(a.lot_expires_on, item_path(ii, "lot_expires_on"));
+        if (prepared) {
+            LocalDateTime prep_day = *prepared;
+            prep_day.hour = prep_day.minute = prep_day.second = 0;
+            if (to_minutes(end) < to_minutes(prep_day) && !a.lot_override) {
+                char day[16];
+                std::snprintf(day, sizeof day, "%04d-%02d-%02d", prepared->year, prepared->month,
+                              prepared->day);
+                throw Error(item_path(ii, "lot"),
+                            "lot " + guard::quote_id(a.lot) + " expired on " + a.lot_expires_on +
+                                ", before the batch was prepared on " + day +
+                                ": pick another lot, or an approver overrides it with a reason");
+            }
+        }
+        if (a.lot_override)
+            continue; // accepted by an approver: it does not shorten the batch's life
+        end.hour = 23;
+        end.minute = 59;
+        end.second = 0;
+        if (!limit_min || to_minutes(end) < *limit_min) {
+            limit_min = to_minutes(end);
+            out.expires_at = format_local_datetime(end);
+            out.limited_by = ii;
+        }
+    }
+    return out;
 }
 
 BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch& batch,
                            double shelf_life_h) {
     BatchResult out;
-    out.expires_at = check_batch_fields(batch, shelf_life_h);
+    const UseBy use = use_by(batch, shelf_life_h);
+    out.expires_at = use.expires_at;
+    out.expiry_limited_by = use.limited_by;
     out.shelf_life_h = shelf_life_h;
     const double tol = batch.tolerance_fraction;
     out.final_volume_ml = batch.final_volume_ml.value_or(recipe.request.volume_ml);
@@ -368,8 +447,11 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
             entered = by_mass ? *a->mass_g : *a->volume_ml;
 
         AmountCheck c = check_amount(it.reagent, by_mass ? "g" : "mL", target_amount, entered, tol);
-        if (a)
+        if (a) {
             c.lot = a->lot;
+            c.lot_expires_on = a->lot_expires_on;
+            c.lot_override = a->lot_override;
+        }
         actual_mol[k] = a ? *entered * per_unit : target_mol;
         c.target_mol_per_l = it.mol_per_l;
         c.actual_mol_per_l = actual_mol[k] / volume_l;

@@ -46,6 +46,12 @@ struct ActualAmount {
     std::optional<double> mass_g;    ///< material as supplied, g
     std::optional<double> volume_ml; ///< liquid as supplied, or the stock / titrant solution, mL
     std::string lot;                 ///< the supplier's lot number, may be empty
+    /// The lot's expiry date from the lab's lot shelf, "YYYY-MM-DD"; "" = not known (a lot typed
+    /// by hand). The lot may be used on that day; the batch's use-by is clamped to its end.
+    std::string lot_expires_on;
+    /// An approver accepted this lot although it had expired before the preparation (the record
+    /// of who, when and why is kept by the app); such a lot no longer limits the use-by.
+    bool lot_override = false;
 };
 
 struct Batch {
@@ -87,6 +93,8 @@ struct AmountCheck {
     double deviation_fraction = 0;
     bool within_tolerance = true;
     std::string lot;
+    std::string lot_expires_on;  ///< "YYYY-MM-DD" from the lot shelf, "" when not known
+    bool lot_override = false;   ///< the lot had expired and an approver accepted it
     double target_mol_per_l = 0; ///< formula units per litre of final solution, as planned
     double actual_mol_per_l = 0; ///< as made (the target when nothing was entered)
 };
@@ -98,6 +106,8 @@ struct BatchResult {
     double final_volume_ml = 0;
     std::string expires_at;  ///< given, or prepared_at + shelf life; "" when neither is known
     double shelf_life_h = 0; ///< the shelf life applied (when expires_at was not given)
+    /// The index in Batch::actual of the lot whose expiry clamped expires_at, -1 when none did.
+    int expiry_limited_by = -1;
     /// "amount-out-of-tolerance" (warning), "amount-not-entered" (info), "ph-off-target" (caution
     /// when the pH predicted from the actual amounts is more than 0.05 from the target — common
     /// practice, no source), "measured-ph-out-of-tolerance" (warning, measured_ph more than
@@ -145,6 +155,26 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
 /// evaluate_batch.
 std::string check_batch_fields(const Batch& batch, double shelf_life_h);
 
+/// The batch's use-by and what limits it.
+struct UseBy {
+    std::string expires_at; ///< as check_batch_fields returns it
+    int limited_by = -1;    ///< index in Batch::actual of the lot that clamped it, -1 when none
+};
+/// check_batch_fields with the lot that limits the use-by. The use-by is the expiry given (or
+/// prepared_at + shelf_life_h), clamped to the end (23:59) of the expiry date of every lot in
+/// the batch that is not overridden: a batch is never usable after one of its lots. Throws
+/// chem::Error("batch.actual[i].lot", …) for a lot that expired before the day of preparation
+/// unless it carries lot_override, and ("batch.actual[i].lot_expires_on", …) for a date that is
+/// not YYYY-MM-DD.
+UseBy use_by(const Batch& batch, double shelf_life_h);
+
+/// A reagent lot's dates (YYYY-MM-DD): the lot is opened no earlier than it was received, and it
+/// expires after it was received. `opened_on` may be "". Throws chem::Error naming the field
+/// ("received_on", "opened_on", "expires_on", each prefixed by `at` + "." when `at` is not empty)
+/// and the value.
+void check_lot_dates(const std::string& received_on, const std::string& opened_on,
+                     const std::string& expires_on, const std::string& at = {});
+
 /// Checks one measured amount against a target with a relative tolerance; for parts of a line
 /// (solvents by volume) that have no recipe item. `entered` false → within, deviation 0.
 AmountCheck check_amount(const std::string& name, const std::string& unit, double target,
@@ -164,6 +194,8 @@ struct LocalDateTime {
 /// Parses "YYYY-MM-DDTHH:MM[:SS]" (a space instead of T is accepted; a trailing "Z" or ±HH:MM is
 /// accepted and ignored: times are local). Throws chem::Error(field, …) naming the value.
 LocalDateTime parse_local_datetime(const std::string& text, const std::string& field);
+/// Parses a date "YYYY-MM-DD" (exactly). Throws chem::Error(field, …) naming the value.
+LocalDateTime parse_local_date(const std::string& text, const std::string& field);
 /// "YYYY-MM-DDTHH:MM:SS".
 std::string format_local_datetime(const LocalDateTime& t);
 /// Minutes since 1970-01-01T00:00 of the proleptic Gregorian calendar (no zone, no leap seconds).

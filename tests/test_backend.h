@@ -1,9 +1,9 @@
 #pragma once
-// The back end a storage test runs on. CTest runs tst_storage, tst_audit, tst_batch and
-// tst_batch_bounds twice: as they are (SQLite files in a temporary folder) and as <name>_pg with
-// PHASEPLAN_TEST_BACKEND=postgresql, where every database is a fresh one (CREATE DATABASE with a
-// name of its own, dropped at the end) on the cluster that PHASEPLAN_TEST_PG_URI names
-// (tests/pg_cluster.sh start prints it; PGPASSFILE points at its password file). Without that
+// The back end a storage test runs on. CTest runs tst_storage, tst_audit, tst_batch,
+// tst_batch_bounds and tst_lots twice: as they are (SQLite files in a temporary folder) and as
+// <name>_pg with PHASEPLAN_TEST_BACKEND=postgresql, where every database is a fresh one (CREATE
+// DATABASE with a name of its own, dropped at the end) on the cluster that PHASEPLAN_TEST_PG_URI
+// names (tests/pg_cluster.sh start prints it; PGPASSFILE points at its password file). Without that
 // variable the PostgreSQL runs skip, saying why, so nothing passes silently.
 #include "storage/sql_dialect.h"
 

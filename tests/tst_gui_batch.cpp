@@ -131,7 +131,11 @@ class TestGuiBatch : public QObject {
 
         // The batch was printed: a change is an amendment with a reason, and it voids them all.
         m.setPreparer("Rosa Okafor");
+        // A lot the shelf does not hold is refused while the shelf has lots of the reagent.
         QVERIFY(!m.setLot(0, "PA-00001"));
+        QVERIFY2(m.errorMessage().contains("not on the shelf"), qPrintable(m.errorMessage()));
+        QVERIFY(!m.pendingAmendment());
+        QVERIFY(!m.setLot(0, "PA-90417")); // a demo lot on the shelf (storage/demo.cpp)
         QVERIFY(m.pendingAmendment());
         QVERIFY(!m.sign("demo-approve", "demo-approve-2026", "approved"));
         QCOMPARE(m.errorField(), QString("signature"));
@@ -148,6 +152,55 @@ class TestGuiBatch : public QObject {
         QVERIFY2(m.saveLabels(after, "label62"), qPrintable(m.errorMessage()));
         if (have_pdftotext)
             QVERIFY(pdf_text(after).simplified().contains("NOT RELEASED"));
+    }
+
+    // Issue 13, part 7, on the screen's model: each reagent's lots from the shelf (the demo's,
+    // dated from today: storage/demo.cpp), an expired one refused beside its picker, accepted
+    // only by an approver with the password and a reason, and the use-by clamped to the lot
+    // that expires first (SP-2207, the day after today: its end, 23:59, comes before the 48 h
+    // shelf life).
+    void lots_picked_from_the_shelf() {
+        const QString db = dir_.filePath("lots.sqlite");
+        auto ws = open_workspace(db);
+        BatchModel m;
+        m.setWorkspace(ws.get());
+        m.setIdPrefix("LT");
+        m.setPreparer("R. Okafor");
+        QVERIFY2(m.markPrepared(demo_buffer()), qPrintable(m.errorMessage()));
+        const QString salt = QStringLiteral("sodium-dihydrogen-phosphate-monohydrate");
+        const int rs = row_of(m, salt);
+        const QVariantList choices = role(m, rs, BatchModel::LotChoicesRole).toList();
+        QStringList ids;
+        for (const QVariant& c : choices)
+            ids << c.toMap().value("id").toString() +
+                       (c.toMap().value("expired").toBool() ? "!" : "");
+        QCOMPARE(ids, QStringList({"SP-1987!", "SP-2207", "SP-2391"})); // earliest expiry first
+        QVERIFY(m.setActual(rs, role(m, rs, BatchModel::TargetRole).toDouble()));
+
+        QVERIFY(!m.setLot(rs, "SP-1987"));
+        QVERIFY2(m.errorField().endsWith("].lot"), qPrintable(m.errorField()));
+        QVERIFY(role(m, rs, BatchModel::LotErrorRole).toString().contains("SP-1987"));
+        QVERIFY(role(m, rs, BatchModel::ErrorRole).toString().isEmpty()); // not the amount's
+        QVERIFY(role(m, rs, BatchModel::LotExpiredRole).toBool());
+        QVERIFY(!m.overrideExpiredLot(rs, "demo-prep", "demo-prep-2026", "needed tonight"));
+        QCOMPARE(m.errorField(), QString("lot_override.login"));
+        QVERIFY(!m.overrideExpiredLot(rs, "demo-approve", "wrong-password", "needed tonight"));
+        QCOMPARE(m.errorField(), QString("lot_override.password"));
+        QVERIFY2(m.overrideExpiredLot(rs, "demo-approve", "demo-approve-2026", "retested in spec"),
+                 qPrintable(m.errorMessage()));
+        QVERIFY(!role(m, rs, BatchModel::LotExpiredRole).toBool());
+        QCOMPARE(m.lotOverrides().size(), 1);
+        QVERIFY2(m.lotOverrides()[0].contains("Priya Haldane (demo-approve)"),
+                 qPrintable(m.lotOverrides()[0]));
+        QVERIFY(m.useByLimit().isEmpty());
+
+        QVERIFY(m.setLot(rs, "SP-2207"));
+        QVERIFY(m.lotOverrides().isEmpty());
+        const QString tomorrow = QDate::currentDate().addDays(1).toString(Qt::ISODate);
+        QCOMPARE(m.useByAt(), tomorrow + "T23:59:00");
+        QVERIFY2(m.useByLimit().startsWith("lot SP-2207 of Sodium dihydrogen phosphate"),
+                 qPrintable(m.useByLimit()));
+        QCOMPARE(role(m, rs, BatchModel::LotExpiresOnRole).toString(), tomorrow);
     }
 
     /// Out of tolerance: the reasons in words, the correction worked by hand, a deviation note

@@ -93,6 +93,11 @@ int usage(std::FILE* to) {
                  "             list, lock|unlock LOGIN --as ADMIN, passwd LOGIN [--as ADMIN]; "
                  "--database FILE;\n"
                  "             passwords are read from standard input or a prompt");
+    std::fprintf(to, "  %-10s %s\n", "lot",
+                 "add --reagent ID --lot NUMBER --received-on YYYY-MM-DD --expires-on YYYY-MM-DD\n"
+                 "             [--opened-on YYYY-MM-DD] [--supplier NAME] [--quantity \"500 g\"] "
+                 "--as LOGIN,\n"
+                 "             list [--reagent ID]; --database FILE: the reagent-lot shelf");
     std::fprintf(to, "  %-10s %s\n", "db",
                  "demo --database NEW_FILE: a new database with the demo;\n"
                  "             copy --from FILE --to URI: a bench's file into an empty lab "
@@ -190,7 +195,7 @@ QString read_secret(const QString& prompt) {
     return QString::fromStdString(line);
 }
 
-/// `phaseplan-cli audit|user|db …`: the lab's database (app/storage/records_cli.h). `audit
+/// `phaseplan-cli audit|user|lot|db …`: the lab's database (app/storage/records_cli.h). `audit
 /// verify` exits 1 on a broken chain; every error is status 2 and one line.
 int run_records(int argc, char** argv) {
     QCoreApplication app(argc, argv);
@@ -250,7 +255,7 @@ int main(int argc, char** argv) {
     if (argc > 1 && std::string(argv[1]) == "device")
         return run_device(argc, argv);
     if (argc > 1 && (std::string(argv[1]) == "audit" || std::string(argv[1]) == "user" ||
-                     std::string(argv[1]) == "db"))
+                     std::string(argv[1]) == "lot" || std::string(argv[1]) == "db"))
         return run_records(argc, argv);
     std::string command;
     QString input_path;

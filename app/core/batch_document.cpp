@@ -59,6 +59,8 @@ QJsonObject check_to_json(const chem::AmountCheck& c, const QString& name) {
     }
     if (!c.lot.empty())
         o["lot"] = qs(c.lot);
+    if (!c.lot_expires_on.empty())
+        o["lot_expires_on"] = qs(c.lot_expires_on);
     return o;
 }
 
@@ -275,6 +277,7 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
     d.result = chem::evaluate_batch(lib, *d.recipe, d.batch, d.shelf_life_h);
     const chem::BatchResult& res = *d.result;
     d.expires_at = qs(res.expires_at);
+    d.expiry_limited_by = res.expiry_limited_by;
     d.title = recipe_title(lib, *d.recipe, input);
     d.steps << StepSection{QStringLiteral("Steps"), recipe_steps(*d.recipe)};
 
@@ -335,7 +338,9 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     d.shelf_source =
         d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
     d.shelf_kind = QStringLiteral("kind ") + shelf.value("kind").toString();
-    d.expires_at = qs(chem::check_batch_fields(batch, d.shelf_life_h));
+    const chem::UseBy use = chem::use_by(batch, d.shelf_life_h);
+    d.expires_at = qs(use.expires_at);
+    d.expiry_limited_by = use.limited_by;
     d.title = d.line_out.value("name").toString();
 
     // Each actual amount names a part (solvent id, "buffer", additive id) or, "buffer.<id>" or a
@@ -377,7 +382,8 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
     for (const auto& it : lr.items) {
         std::optional<double> actual;
         std::string unit = it.volume_ml ? "mL" : "g";
-        std::string lot;
+        std::string lot, lot_expires_on;
+        bool lot_override = false;
         if (auto e = part_entry.find(it.part); e != part_entry.end()) {
             const chem::ActualAmount& a = batch.actual[e->second];
             const std::string at = "batch.actual[" + std::to_string(e->second) + "]";
@@ -389,11 +395,15 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
                                   it.part + " has no target volume: give mass_g");
             actual = a.mass_g ? a.mass_g : a.volume_ml;
             lot = a.lot;
+            lot_expires_on = a.lot_expires_on;
+            lot_override = a.lot_override;
         }
         const double target = unit == "g" ? *it.mass_g : *it.volume_ml;
         chem::AmountCheck c =
             chem::check_amount(it.part, unit, target, actual, batch.tolerance_fraction);
         c.lot = lot;
+        c.lot_expires_on = lot_expires_on;
+        c.lot_override = lot_override;
         d.part_checks.push_back(c);
     }
     for (const auto& c : d.part_checks)
@@ -598,6 +608,24 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
                 throw chem::Error(json::path(ai, "volume_ml"),
                                   "give mass_g or volume_ml, not both");
             x.lot = json::optional_string(e, "lot", ai).value_or("");
+            x.lot_expires_on = json::optional_string(e, "lot_expires_on", ai).value_or("");
+            if (!x.lot_expires_on.empty() && x.lot.empty())
+                throw chem::Error(json::path(ai, "lot"),
+                                  "is required with lot_expires_on: which lot expires then?");
+            if (e.contains("lot_override") && !e.value("lot_override").isNull()) {
+                const QJsonObject ov = json::require_object(e, "lot_override", ai);
+                const std::string oat = json::path(ai, "lot_override");
+                for (const char* k : {"by", "reason"})
+                    if (QString::fromStdString(json::optional_string(ov, k, oat).value_or(""))
+                            .trimmed()
+                            .isEmpty())
+                        throw chem::Error(json::path(oat, k),
+                                          "is required: an expired lot is used only when an "
+                                          "approver says who accepts it and why");
+                (void)json::optional_string(ov, "name", oat);
+                (void)json::optional_string(ov, "at", oat);
+                x.lot_override = true;
+            }
             b.actual.push_back(std::move(x));
         }
     }
@@ -739,6 +767,69 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
     d.summary["warnings"] = d.warnings;
 }
 
+/// The lot that limits the use-by and the expired lots used by override, from the document's
+/// batch, into `d` and its summary (only when there are any, so older documents read as before).
+void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) {
+    const QJsonArray actual = input.value("batch").toObject().value("actual").toArray();
+    QJsonObject sb = d.summary.value("batch").toObject();
+    auto reagent_of = [](const QJsonObject& e) {
+        QString r = e.value("reagent").toString();
+        return r.startsWith("buffer.") ? r.mid(7) : r;
+    };
+    if (d.expiry_limited_by >= 0 && d.expiry_limited_by < actual.size()) {
+        const QJsonObject e = actual[d.expiry_limited_by].toObject();
+        const QString r = reagent_of(e);
+        d.expiry_limit_text =
+            QStringLiteral("lot %1 of %2, which expires on %3")
+                .arg(e.value("lot").toString(), part_display_name(data, r.toStdString()),
+                     e.value("lot_expires_on").toString());
+        sb["expires_limited_by"] =
+            QJsonObject{{"reagent", r},
+                        {"lot", e.value("lot").toString()},
+                        {"lot_expires_on", e.value("lot_expires_on").toString()},
+                        {"text", d.expiry_limit_text}};
+    }
+    QJsonArray overrides;
+    for (const QJsonValue& v : actual) {
+        const QJsonObject e = v.toObject();
+        const QJsonObject ov = e.value("lot_override").toObject();
+        if (ov.isEmpty())
+            continue;
+        const QString r = reagent_of(e);
+        const QString who = ov.value("name").toString().isEmpty()
+                                ? ov.value("by").toString()
+                                : QStringLiteral("%1 (%2)").arg(ov.value("name").toString(),
+                                                                ov.value("by").toString());
+        const QString at = ov.value("at").toString();
+        const QString text =
+            QStringLiteral("Lot %1 of %2 expired on %3; used by override of %4%5: %6")
+                .arg(e.value("lot").toString(), part_display_name(data, r.toStdString()),
+                     e.value("lot_expires_on").toString().isEmpty()
+                         ? QStringLiteral("(date not recorded)")
+                         : e.value("lot_expires_on").toString(),
+                     who,
+                     at.isEmpty() ? QString()
+                                  : " at " + at.left(19).replace('T', ' ') +
+                                        (at.endsWith('Z') ? QStringLiteral(" UTC") : QString()),
+                     ov.value("reason").toString());
+        d.lot_override_text << text;
+        QJsonObject o = ov;
+        o["reagent"] = r;
+        o["lot"] = e.value("lot").toString();
+        o["lot_expires_on"] = e.value("lot_expires_on").toString();
+        o["text"] = text;
+        overrides.append(o);
+        d.warnings.append(QJsonObject{
+            {"code", "expired-lot-override"}, {"severity", "warning"}, {"message", text}});
+    }
+    if (!overrides.isEmpty()) {
+        sb["lot_overrides"] = overrides;
+        d.summary["warnings"] = d.warnings;
+    }
+    if (d.expiry_limited_by >= 0 || !overrides.isEmpty())
+        d.summary["batch"] = sb;
+}
+
 } // namespace
 
 BatchDocument read_batch_document(const AppData& data, const QJsonObject& input) {
@@ -751,6 +842,7 @@ BatchDocument read_batch_document(const AppData& data, const QJsonObject& input)
     else
         read_recipe(data, input, d);
     read_captures(data, input, d);
+    read_lots(data, input, d);
     return d;
 }
 

@@ -17,7 +17,10 @@
 //   out-of-tolerance batch is still used, who wrote it, when), "actual[i].capture" and
 //   "measured_ph_capture" (a value taken from a balance or the pH meter: {"device_id", "raw",
 //   "received_at", "device_kind", "device_name", "stable", "accepted_unstable",
-//   "calibration_due", "calibration_caution"}; absent = typed).
+//   "calibration_due", "calibration_caution"}; absent = typed), "actual[i].lot_expires_on" (the
+//   lot's expiry date from the lab's lot shelf, YYYY-MM-DD: the use-by is clamped to it, and a
+//   lot expired before the day of preparation is refused) and "actual[i].lot_override" ({"by",
+//   "name", "at", "reason"}: an approver accepted the expired lot; by and reason required).
 // For a line, "reagent" in "actual" may also name a part (a solvent id or "buffer") or an
 // additive id.
 #include "chem/batch.h"
@@ -80,7 +83,15 @@ struct BatchDocument {
     double shelf_life_h = 0;
     QString shelf_source; ///< where the shelf life comes from
     QString shelf_kind;   ///< "an aqueous buffer", "kind neat-solvent", …
-    QString expires_at;   ///< ISO, "" when unknown
+    QString expires_at;   ///< ISO, "" when unknown (clamped to the lots: chem::use_by)
+    /// The index in batch.actual of the lot whose expiry date set expires_at, -1 when none.
+    int expiry_limited_by = -1;
+    /// That lot in words: "lot PA-88112 of Phosphoric acid, which expires on 2027-01-15"; "".
+    QString expiry_limit_text;
+    /// Each expired lot used by an approver's override, in words: "Lot SP-1987 of … expired on
+    /// 2026-11-30; used by override of Priya Haldane (demo-approve) at 2026-12-02 14:03 UTC:
+    /// <reason>".
+    QStringList lot_override_text;
 
     // recipe: the design and the batch against it; line: the buffer part's.
     std::optional<chem::Recipe> recipe;

@@ -5,8 +5,10 @@
 #include "core/date_time.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
+#include "storage/lot_store.h"
 #include "storage/release.h"
 #include "storage/signatures.h"
+#include "storage/sql_dialect.h"
 #include "workspace.h"
 
 #include <QDateTime>
@@ -178,7 +180,7 @@ void BatchModel::set_error(const FieldError& e) {
     error_ = e;
     emit errorChanged();
     if (!rows_.empty())
-        emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole});
+        emit dataChanged(index(0), index(int(rows_.size()) - 1), {ErrorRole, LotErrorRole});
 }
 
 int BatchModel::actual_index(const QString& reagent) const {
@@ -203,6 +205,9 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     }
     const QJsonObject s = doc.summary;
     const QJsonObject b = s.value("batch").toObject();
+    use_by_at_ = doc.expires_at;
+    use_by_limit_ = doc.expiry_limit_text;
+    lot_overrides_ = doc.lot_override_text;
     out_of_tolerance_ = doc.out_of_tolerance;
     reasons_ = doc.out_of_tolerance_reasons;
     correction_ = doc.correction_text;
@@ -436,6 +441,7 @@ bool BatchModel::markPrepared(const QVariantMap& document) {
         return set_error(e), false;
     draft_ = rec;
     lots_.clear();
+    read_shelf();
     pending_ = false;
     reload_saved(rec.id);
     set_error({});
@@ -460,6 +466,7 @@ bool BatchModel::open(const QString& id) {
     lots_.clear();
     for (const QJsonValue& v : rec->actual)
         lots_[v.toObject().value("reagent").toString()] = v.toObject().value("lot").toString();
+    read_shelf();
     pending_ = false;
     reload(id);
     set_conflict({}, {});
@@ -495,8 +502,15 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         return set_error({QStringLiteral("batch"),
                           tr("no batch is open: mark a buffer as prepared first")}),
                false;
-    draft_ = next; // the screen keeps what was typed, even when the core refuses it
-    FieldError e = evaluate(next);
+    storage::BatchRecord resolved = next;
+    if (const FieldError r = resolve_lots(resolved); !r.empty()) {
+        draft_ = next; // the screen keeps what was picked, with the refusal beside it
+        set_error(r);
+        emit batchChanged();
+        return false;
+    }
+    draft_ = resolved; // the screen keeps what was typed, even when the core refuses it
+    FieldError e = evaluate(resolved);
     if (!e.empty()) {
         set_error(e);
         emit batchChanged();
@@ -508,7 +522,7 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         return false;
     }
     bool changed = false;
-    e = guarded([&] { changed = st->edit(next.id, next, who()); });
+    e = guarded([&] { changed = st->edit(resolved.id, resolved, who()); });
     if (take_conflict(e))
         return false;
     if (!e.empty()) {
@@ -520,8 +534,83 @@ bool BatchModel::apply(const QString& field, const storage::BatchRecord& next) {
         return false;
     }
     if (changed)
-        reload_saved(next.id);
+        reload_saved(resolved.id);
     set_error({});
+    emit batchChanged();
+    return true;
+}
+
+void BatchModel::read_shelf() {
+    shelf_.clear();
+    if (!workspace_ || !workspace_->database())
+        return;
+    const QSqlDatabase c = workspace_->database()->connection();
+    if (!storage::sql::table_exists(c, QStringLiteral("reagent_lots")))
+        return;
+    guarded([&] {
+        for (const storage::ReagentLot& l : storage::LotStore(c).list())
+            shelf_[l.reagent].push_back(QVariantMap{{"id", l.lot},
+                                                    {"expiresOn", l.expires_on},
+                                                    {"openedOn", l.opened_on},
+                                                    {"supplier", l.supplier}});
+    });
+    if (!rows_.empty()) // the rows' lot pickers read the shelf
+        emit dataChanged(index(0), index(int(rows_.size()) - 1));
+}
+
+QVariantMap BatchModel::shelf_lot(const QString& reagent_in, const QString& lot) const {
+    const QString reagent = reagent_in.startsWith("buffer.") ? reagent_in.mid(7) : reagent_in;
+    const auto it = shelf_.find(reagent);
+    if (it == shelf_.end())
+        return {};
+    for (const QVariantMap& m : it->second)
+        if (m.value("id").toString() == lot)
+            return m;
+    return {};
+}
+
+FieldError BatchModel::resolve_lots(storage::BatchRecord& next) const {
+    if (!workspace_ || !workspace_->database())
+        return {};
+    return guarded([&] {
+        storage::resolve_batch_lots(workspace_->database()->connection(),
+                                    stored_ ? &*stored_ : nullptr, next);
+    });
+}
+
+bool BatchModel::overrideExpiredLot(int row, const QString& login, const QString& password,
+                                    const QString& reason) {
+    if (const FieldError g = session_gate(); !g.empty())
+        return set_error(g), false;
+    auto st = store();
+    if (!st || !draft_ || row < 0 || row >= int(rows_.size()))
+        return set_error({QStringLiteral("lot_override"),
+                          tr("no batch is open: mark a buffer as prepared first")}),
+               false;
+    const QString reagent = rows_[size_t(row)].reagent;
+    const QString lot = lots_.count(reagent) ? lots_.at(reagent) : QString();
+    if (actual_index(reagent) < 0)
+        return set_error({QStringLiteral("lot_override"),
+                          tr("enter the amount of %1 first: the override is recorded with it")
+                              .arg(rows_[size_t(row)].name)}),
+               false;
+    storage::BatchStore::LotOverrideRequest request{reagent, lot, login.trimmed(), password,
+                                                    reason};
+    const QString id = draft_->id;
+    const storage::BatchRecord next = *draft_;
+    FieldError e = guarded([&] { st->override_expired_lot(id, next, who(), request); });
+    if (e.field == QLatin1String("login") || e.field == QLatin1String("password"))
+        e.field = "lot_override." + e.field; // shown on the override form, not the signature's
+    if (!e.empty()) {
+        reload(id); // a wrong password is counted; the batch is as it was
+        emit batchChanged();
+        return set_error(e), false;
+    }
+    reload(id);
+    if (stored_)
+        draft_ = stored_;
+    pending_ = false;
+    set_error(evaluate(*draft_));
     emit batchChanged();
     return true;
 }
@@ -656,11 +745,15 @@ QString BatchModel::history_label(const QString& field) const {
     if (const auto a = chem::subscript_of(field.toStdString(), "actual");
         a && !a->subscript.empty() &&
         (a->rest == "mass_g" || a->rest == "volume_ml" || a->rest == "lot" ||
-         a->rest == "capture")) {
+         a->rest == "capture" || a->rest == "lot_expires_on" || a->rest == "lot_override")) {
         const QString name = workspace_ ? part_display_name(workspace_->data(), a->subscript)
                                         : QString::fromStdString(a->subscript);
         if (a->rest == "capture")
             return tr("Source of the actual amount of %1").arg(name);
+        if (a->rest == "lot_expires_on")
+            return tr("Expiry of the lot of %1").arg(name);
+        if (a->rest == "lot_override")
+            return tr("Override of the expired lot of %1").arg(name);
         return a->rest == "lot" ? tr("Lot of %1").arg(name) : tr("Actual amount of %1").arg(name);
     }
     static const std::map<QString, const char*> labels = {
@@ -699,6 +792,12 @@ QString BatchModel::history_value(const QString& field, const QJsonValue& v) con
         if (c.value("accepted_unstable").toBool())
             text += tr(", accepted while not settled");
         return text;
+    }
+    if (field.endsWith(QLatin1String(".lot_override")) && v.isObject()) {
+        const QJsonObject o = v.toObject();
+        return tr("accepted by %1 (%2) at %3: %4")
+            .arg(o.value("name").toString(), o.value("by").toString(),
+                 local_second_text(o.value("at").toString()), o.value("reason").toString());
     }
     if (v.isNull() || v.isUndefined())
         return QStringLiteral("–");
@@ -905,9 +1004,10 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
     const QString lot = lot_in.trimmed();
     const QString reagent = rows_[size_t(row)].reagent;
     lots_[reagent] = lot;
+    const QList<int> lot_roles = {LotRole, LotExpiresOnRole, LotExpiredRole, LotStatusRole};
     const int i = actual_index(reagent);
     if (i < 0) { // no amount yet: the lot waits on the screen until one is entered
-        emit dataChanged(index(row), index(row), {LotRole});
+        emit dataChanged(index(row), index(row), lot_roles);
         return true;
     }
     auto next = *draft_;
@@ -919,7 +1019,9 @@ bool BatchModel::setLot(int row, const QString& lot_in) {
     else
         entry["lot"] = lot;
     next.actual[i] = entry;
-    return apply(QStringLiteral("batch.actual[%1].lot").arg(i), next);
+    const bool ok = apply(QStringLiteral("batch.actual[%1].lot").arg(i), next);
+    emit dataChanged(index(row), index(row), lot_roles);
+    return ok;
 }
 
 bool BatchModel::amend() {
@@ -1161,9 +1263,72 @@ QVariant BatchModel::data(const QModelIndex& idx, int role) const {
     }
     case CaptureTargetRole:
         return QStringLiteral("batch.actual[%1].mass_g").arg(idx.row());
+    case LotChoicesRole: {
+        QVariantList out;
+        const auto it = shelf_.find(r.reagent.startsWith("buffer.") ? r.reagent.mid(7) : r.reagent);
+        if (it == shelf_.end() || !draft_)
+            return out;
+        const QString day = storage::preparation_day(*draft_);
+        for (const QVariantMap& m : it->second) {
+            const QString expires = m.value("expiresOn").toString();
+            const bool expired = expires < day;
+            QString name = m.value("id").toString() + (expired ? tr(" · EXPIRED %1").arg(expires)
+                                                               : tr(" · expires %1").arg(expires));
+            QVariantMap c = m;
+            c["name"] = name;
+            c["expired"] = expired;
+            out.append(c);
+        }
+        return out;
+    }
+    case LotExpiresOnRole: {
+        const QJsonObject e = actual_entry(idx.row());
+        const QString lot = lots_.count(r.reagent) ? lots_.at(r.reagent) : QString();
+        if (e.value("lot").toString() == lot && e.contains("lot_expires_on"))
+            return e.value("lot_expires_on").toString();
+        return shelf_lot(r.reagent, lot).value("expiresOn").toString();
+    }
+    case LotExpiredRole: {
+        if (!draft_)
+            return false;
+        const QJsonObject e = actual_entry(idx.row());
+        const QString lot = lots_.count(r.reagent) ? lots_.at(r.reagent) : QString();
+        if (lot.isEmpty() || (e.value("lot").toString() == lot && e.contains("lot_override")))
+            return false;
+        const QString expires = data(idx, LotExpiresOnRole).toString();
+        return !expires.isEmpty() && expires < storage::preparation_day(*draft_);
+    }
+    case LotStatusRole: {
+        const QJsonObject e = actual_entry(idx.row());
+        const QString lot = lots_.count(r.reagent) ? lots_.at(r.reagent) : QString();
+        if (lot.isEmpty() || !draft_)
+            return QString();
+        const QString expires = data(idx, LotExpiresOnRole).toString();
+        if (e.value("lot").toString() == lot && e.contains("lot_override")) {
+            const QJsonObject o = e.value("lot_override").toObject();
+            return tr("expired %1; accepted by %2 (%3): %4")
+                .arg(expires, o.value("name").toString(), o.value("by").toString(),
+                     o.value("reason").toString());
+        }
+        if (expires.isEmpty())
+            return shelf_.count(r.reagent) ? QString()
+                                           : tr("not on the lot shelf: its expiry is not checked");
+        if (expires < storage::preparation_day(*draft_))
+            return tr("EXPIRED on %1, before the preparation on %2: pick another lot, or an "
+                      "approver overrides it with a reason")
+                .arg(expires, storage::preparation_day(*draft_));
+        const QString opened = shelf_lot(r.reagent, lot).value("openedOn").toString();
+        return opened.isEmpty() ? tr("expires %1").arg(expires)
+                                : tr("expires %1 · opened %2").arg(expires, opened);
+    }
+    case LotErrorRole:
     case ErrorRole: {
+        // The override form shows its own errors (lot_override.*), beside its fields.
         const auto at = chem::subscript_of(error_.field.toStdString(), "batch.actual");
         const int i = at ? at->index() : -1;
+        const bool about_lot = at && at->rest.rfind("lot", 0) == 0;
+        if (about_lot != (role == LotErrorRole))
+            return QString();
         if (i < 0 || !draft_)
             return QString();
         if (i < draft_->actual.size() &&
@@ -1191,7 +1356,12 @@ QHash<int, QByteArray> BatchModel::roleNames() const {
             {ErrorRole, "error"},
             {CaptureRole, "capture"},
             {SourceRole, "source"},
-            {CaptureTargetRole, "captureTarget"}};
+            {CaptureTargetRole, "captureTarget"},
+            {LotChoicesRole, "lotChoices"},
+            {LotExpiresOnRole, "lotExpiresOn"},
+            {LotExpiredRole, "lotExpired"},
+            {LotStatusRole, "lotStatus"},
+            {LotErrorRole, "lotError"}};
 }
 
 bool BatchModel::signingAvailable() const {

@@ -81,6 +81,15 @@ class BatchModel : public QAbstractListModel {
     /// ± tolerance of each amount in percent (default 2).
     Q_PROPERTY(
         double tolerancePercent READ tolerancePercent WRITE setTolerancePercent NOTIFY batchChanged)
+    /// The use-by as the sheet and labels print it (ISO 8601 local): expiresAt clamped to the
+    /// end of the expiry date of every lot in the batch (chem::use_by); "" when unknown.
+    Q_PROPERTY(QString useByAt READ useByAt NOTIFY resultChanged)
+    /// The lot that sets useByAt, in words ("lot SP-2207 of Sodium dihydrogen phosphate
+    /// monohydrate, which expires on 2026-12-03"); "" when the shelf life or the entered expiry
+    /// does.
+    Q_PROPERTY(QString useByLimit READ useByLimit NOTIFY resultChanged)
+    /// Each expired lot used by an approver's override, in words (as the sheet prints them).
+    Q_PROPERTY(QStringList lotOverrides READ lotOverrides NOTIFY resultChanged)
     /// Shelf life applied to the expiry, hours (from data/solvents.json "shelf_life").
     Q_PROPERTY(double shelfLifeH READ shelfLifeH NOTIFY resultChanged)
     /// Printed (sheet or labels, PDF or printer) at least once: changes need an amendment.
@@ -197,6 +206,17 @@ class BatchModel : public QAbstractListModel {
         SourceRole,  ///< "from balance BAL-03", "typed", or "" when not entered
         CaptureTargetRole, ///< the target DeviceCapture::takeFromBalance is called with for this
                            ///< row
+        /// The lots of this reagent on the shelf, earliest expiry first: [{id (the lot number),
+        /// name ("PA-88112 · expires 2028-11-01", or "… · EXPIRED
+        /// 2026-11-27"), expiresOn, expired (before the day of preparation)}]; [] when the shelf
+        /// holds none, and the lot is then typed.
+        LotChoicesRole,
+        LotExpiresOnRole, ///< the chosen lot's expiry date (YYYY-MM-DD), "" when not known
+        /// The chosen lot expired before the day of preparation and no approver has overridden
+        /// it: the override form shows.
+        LotExpiredRole,
+        LotStatusRole, ///< the chosen lot in words: its expiry, the override, or "not on the shelf"
+        LotErrorRole,  ///< the message for this row's lot, "" when none
     };
     Q_ENUM(Role)
 
@@ -233,6 +253,9 @@ class BatchModel : public QAbstractListModel {
     double tolerancePercent() const { return draft_ ? draft_->tolerance_percent : 2; }
     void setTolerancePercent(double v);
     double shelfLifeH() const { return shelf_life_h_; }
+    QString useByAt() const { return use_by_at_; }
+    QString useByLimit() const { return use_by_limit_; }
+    QStringList lotOverrides() const { return lot_overrides_; }
     bool printed() const { return stored_ && stored_->printed(); }
     int revision() const { return stored_ ? stored_->revision : 0; }
     bool pendingAmendment() const { return pending_; }
@@ -321,6 +344,13 @@ class BatchModel : public QAbstractListModel {
     Q_INVOKABLE bool setMeasuredPhByHand(double ph, const QString& reason);
     /// The lot of `row`'s reagent.
     Q_INVOKABLE bool setLot(int row, const QString& lot);
+    /// An approver accepts the expired lot chosen for `row` with a reason: login and password
+    /// again (a wrong password counts towards the lock), the account must be an approver. The
+    /// override (who, when, why) is stored with the amount and in the audit trail
+    /// (BatchStore::override_expired_lot). Errors name "login", "password",
+    /// "lot_override.reason" or "lot_override".
+    Q_INVOKABLE bool overrideExpiredLot(int row, const QString& login, const QString& password,
+                                        const QString& reason);
     /// Records the pending change as an amendment with amendReason. False (error "reason") when
     /// the reason is empty.
     Q_INVOKABLE bool amend();
@@ -423,6 +453,16 @@ class BatchModel : public QAbstractListModel {
     bool pending_ = false;
     QString amend_reason_;
     std::map<QString, QString> lots_; ///< lots by reagent, including those without an amount
+    /// The shelf's lots by reagent id (storage::LotStore), read when a batch opens.
+    std::map<QString, std::vector<QVariantMap>> shelf_;
+    void read_shelf();
+    /// The shelf's entry for `reagent`'s `lot` ({} when not on it).
+    QVariantMap shelf_lot(const QString& reagent, const QString& lot) const;
+    /// Ties `next`'s lots to the shelf (storage::resolve_batch_lots) so that the screen shows
+    /// what the store will keep.
+    FieldError resolve_lots(storage::BatchRecord& next) const;
+    QString use_by_at_, use_by_limit_;
+    QStringList lot_overrides_;
 
     std::vector<Row> rows_;
     bool valid_ = false;

@@ -65,7 +65,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
                                         it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),
                                         band_text(c, batch),
                                         actual_text(c, doc.captures),
-                                        qs(c.lot),
+                                        lot_text(c),
                                         check_text(c)};
         parts.table.flagged << !c.within_tolerance;
     }

@@ -186,7 +186,7 @@ Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe,
                                         target,
                                         band_text(c, batch),
                                         actual_text(c, captures),
-                                        qs(c.lot),
+                                        lot_text(c),
                                         check_text(c)};
         table.table.flagged << !c.within_tolerance;
     }
@@ -406,10 +406,24 @@ void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
     const chem::Batch& batch = doc.batch;
     const QString shelf_note = shelf_note_text(doc.shelf_life_h, doc.shelf_kind, doc.shelf_source,
                                                !batch.expires_at.empty());
+    QList<KeyValue> fields =
+        batch_fields(batch, doc.title, purpose_of(input), doc.expires_at, shelf_note);
+    if (!doc.expiry_limit_text.isEmpty())
+        for (KeyValue& kv : fields)
+            if (kv.key == QLatin1String("Expires at"))
+                kv.value += "\nlimited by " + doc.expiry_limit_text;
     d.blocks << heading("Batch")
-             << fields_block(
-                    batch_fields(batch, doc.title, purpose_of(input), doc.expires_at, shelf_note) +
-                    bench_fields(batch, target_ph, doc.ph_capture));
+             << fields_block(fields + bench_fields(batch, target_ph, doc.ph_capture));
+    if (!doc.lot_override_text.isEmpty())
+        d.blocks << heading("Expired lots used by an approver's override")
+                 << bullets(doc.lot_override_text);
+}
+
+QString lot_text(const chem::AmountCheck& c) {
+    if (c.lot_expires_on.empty())
+        return qs(c.lot);
+    return qs(c.lot) + "\nexp. " + qs(c.lot_expires_on) +
+           (c.lot_override ? QStringLiteral("\nEXPIRED: override") : QString());
 }
 
 void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QString& mark,
@@ -418,11 +432,17 @@ void fill_label_batch(const BatchDocument& doc, const HazardSet& hz, const QStri
     label.batch_id = qs(batch.id);
     label.prepared_at = iso_minute_text(qs(batch.prepared_at));
     label.expires_at = iso_minute_text(doc.expires_at);
+    if (doc.expiry_limited_by >= 0 && doc.expiry_limited_by < int(batch.actual.size()))
+        label.expires_at += " (lot " + qs(batch.actual[size_t(doc.expiry_limited_by)].lot) + ")";
     label.prepared_by = qs(batch.prepared_by);
     label.pictograms = sorted_pictograms(hz.pictograms);
     label.hazard_codes = hz.codes();
     label.qr_text = qs(batch.id);
     label.mark = mark;
+    if (!doc.lot_override_text.isEmpty()) {
+        const QString note = QStringLiteral("EXPIRED LOT USED BY OVERRIDE — see the sheet");
+        label.mark = label.mark.isEmpty() ? note : label.mark + "\n" + note;
+    }
     set_release(label, release);
 }
 

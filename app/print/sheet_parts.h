@@ -108,6 +108,10 @@ QString band_text(const chem::AmountCheck& c, const chem::Batch& b);
 /// The actual amount and where it came from: "3.161 g\nfrom balance BAL-03" or "…\ntyped".
 QString actual_text(const chem::AmountCheck& c, const QJsonObject& captures);
 
+/// A lot as the tables print it: "PA-88112", with "exp. 2027-09-30" below when the lot shelf
+/// gave its expiry, and "EXPIRED: override" when an approver accepted it expired.
+QString lot_text(const chem::AmountCheck& c);
+
 Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe,
                     const chem::BatchResult& res, const chem::Batch& batch,
                     const QJsonObject& captures);

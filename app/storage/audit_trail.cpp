@@ -332,6 +332,9 @@ QString audit_words(const AuditEntry& e) {
         {"password", "set the password of"},
         {"sign-in-failed", "failed to sign in as"},
         {"history-import", "(recorded before accounts) changed"},
+        {"add-lot", "put on the shelf"},
+        {"open-lot", "recorded the opening of"},
+        {"override-expired-lot", "accepted an expired lot for"},
     };
     QString s =
         QStringLiteral("%1 %2 %3 %4")

@@ -7,6 +7,7 @@
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/database.h"
+#include "storage/lot_store.h"
 #include "storage/signatures.h"
 #include "storage/sql_util.h"
 #include "storage/versioning.h"
@@ -82,6 +83,26 @@ void validate(const BatchRecord& b) {
     cb.ph_tolerance = b.ph_tolerance;
     cb.container_ml = b.container_ml;
     cb.deviation_at = str(b.deviation_at);
+    for (int i = 0; i < b.actual.size(); ++i) {
+        const QJsonObject e = b.actual[i].toObject();
+        const std::string at = "batch.actual[" + std::to_string(i) + "]";
+        if (e.contains("lot_expires_on") && !e.value("lot_expires_on").isString())
+            throw chem::Error(at + ".lot_expires_on", "must be a date like 2027-03-31");
+        if (e.contains("lot_override")) {
+            const QJsonObject ov = e.value("lot_override").toObject();
+            for (const char* k : {"by", "reason"})
+                if (ov.value(k).toString().trimmed().isEmpty())
+                    throw chem::Error(at + ".lot_override." + k,
+                                      "is required: an expired lot is used only when an "
+                                      "approver says who accepts it and why");
+        }
+        chem::ActualAmount a;
+        a.reagent = str(e.value("reagent").toString());
+        a.lot = str(e.value("lot").toString());
+        a.lot_expires_on = str(e.value("lot_expires_on").toString());
+        a.lot_override = e.contains("lot_override");
+        cb.actual.push_back(a);
+    }
     chem::check_batch_fields(cb, 1.0);
     if (!b.deviation_note.isEmpty() && b.deviation_note.trimmed().isEmpty())
         throw chem::Error("batch.deviation.note",
@@ -148,7 +169,8 @@ std::map<QString, QJsonValue> batch_fields(const BatchRecord& b) {
     for (const QJsonValue& v : b.actual) {
         const QJsonObject e = v.toObject();
         const QString key = "actual[" + e.value("reagent").toString() + "]";
-        for (const char* k : {"mass_g", "volume_ml", "lot", "capture"})
+        for (const char* k :
+             {"mass_g", "volume_ml", "lot", "capture", "lot_expires_on", "lot_override"})
             if (e.contains(k))
                 put(key + "." + k, e.value(k));
     }
@@ -479,7 +501,8 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
     const bool bench = present && sql::column_exists(db, "batches", "measured_ph");
     const bool capture = bench && sql::column_exists(db, "batches", "measured_ph_capture");
     const bool audit = has_audit_schema(db);
-    if (present && bench && capture && audit && has_versioning(db))
+    const bool lots = sql::table_exists(db, "reagent_lots");
+    if (present && bench && capture && audit && has_versioning(db) && lots)
         return;
     Transaction tx(db);
     if (!present)
@@ -501,6 +524,9 @@ void BatchStore::ensure_schema(QSqlDatabase db) {
         for (const QString& s :
              versioning_schema_statements(d, sql::table_exists(db, QStringLiteral("buffers"))))
             run(db, s);
+    if (!lots)
+        for (const QString& s : lot_schema_statements(d))
+            run(db, s);
     tx.commit();
 }
 
@@ -516,14 +542,17 @@ QString BatchStore::now() const {
     return clock_().toUTC().toString(Qt::ISODateWithMs);
 }
 
-void BatchStore::create(const BatchRecord& batch, const QString& who) {
+void BatchStore::create(const BatchRecord& batch_in, const QString& who) {
     if (who.trimmed().isEmpty())
         throw chem::Error("who", "is required: the history names who made each change");
-    validate(batch);
+    validate(batch_in);
     Transaction tx(db_);
     AccountStore::check_may_edit(db_, who);
-    if (run(db_, "SELECT 1 FROM batches WHERE id = ?", {batch.id}).next())
-        throw chem::Error("batch.id", "\"" + str(batch.id) + "\" is taken by another batch");
+    if (run(db_, "SELECT 1 FROM batches WHERE id = ?", {batch_in.id}).next())
+        throw chem::Error("batch.id", "\"" + str(batch_in.id) + "\" is taken by another batch");
+    BatchRecord batch = batch_in;
+    resolve_batch_lots(db_, nullptr, batch); // each lot's expiry from the shelf
+    validate(batch);
     const QString t = now();
     run(db_,
         "INSERT INTO batches (id, document_kind, document, prepared_by, prepared_at, expires_at,"
@@ -633,17 +662,20 @@ bool BatchStore::amend(const QString& id, const BatchRecord& next, const QString
 }
 
 bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QString& who,
-                        const QString& action, const QString& reason) {
+                        const QString& action, const QString& reason,
+                        const LotOverrideGrant* grant) {
     if (who.trimmed().isEmpty())
         throw chem::Error("who", "is required: the history names who made each change");
     BatchRecord next = next_in;
     next.id = id; // the id is the key; it never changes
-    validate(next);
+    // Checked once its lots are tied to the shelf (and an override granted), below.
     Transaction tx(db_);
     AccountStore::check_may_edit(db_, who);
     const std::optional<BatchRecord> cur = load(id);
     if (!cur)
         throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    resolve_batch_lots(db_, &*cur, next, grant); // each lot's expiry from the shelf
+    validate(next);
     const std::vector<Signature> signed_now = holding_signatures(db_, *cur);
     if (!signed_now.empty() && action == "edit")
         throw chem::Error("batch", "batch \"" + str(id) + "\" was signed as " +
@@ -674,7 +706,7 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
         throw conflict_error(db_, "Batch " + id, {cur->version, cur->changed_by, cur->changed_at});
 
     const int revision = cur->revision + 1;
-    const QString t = now();
+    const QString t = grant ? grant->at : now(); // the override's time is the change's
     for (const auto& [field, values] : diff)
         run(db_,
             "INSERT INTO batch_history (batch_id, revision, at, who, action, field, old_value, "
@@ -729,6 +761,16 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
                                                                : values.first},
                             {"new", values.second.isUndefined() ? QJsonValue(QJsonValue::Null)
                                                                 : values.second}});
+        if (grant) {
+            // The approver's acceptance first, under the approver's login, then the change.
+            QString expires;
+            for (const QJsonValue& v : next.actual)
+                if (v.toObject().value("reagent").toString() == grant->reagent)
+                    expires = v.toObject().value("lot_expires_on").toString();
+            append_audit(db_, t, grant->by, "override-expired-lot", "batch", id, grant->reason,
+                         audit_change("actual[" + grant->reagent + "].lot", QJsonValue::Null,
+                                      QStringLiteral("%1 (expired %2)").arg(grant->lot, expires)));
+        }
         append_audit(db_, t, who.trimmed(), action, "batch", id, reason, changes);
         // The content signed is gone: each signature that held is void from this change on.
         for (const Signature& sig : signed_now)
@@ -743,6 +785,34 @@ bool BatchStore::change(const QString& id, const BatchRecord& next_in, const QSt
     }
     tx.commit();
     return true;
+}
+
+bool BatchStore::override_expired_lot(const QString& id, const BatchRecord& next,
+                                      const QString& who, const LotOverrideRequest& request) {
+    const QString reason = request.reason.trimmed();
+    if (reason.isEmpty())
+        throw chem::Error("lot_override.reason",
+                          "is required: say why the expired lot may still be used");
+    if (request.login.trimmed().isEmpty())
+        throw chem::Error("login", "is required: the approver who overrides signs in here");
+    const std::optional<BatchRecord> cur = load(id);
+    if (!cur)
+        throw chem::Error("batch.id", "no batch \"" + str(id) + "\"");
+    // The password again, as for a signature (a wrong one counts towards the lock).
+    AccountStore accounts(db_);
+    const Account a = accounts.authenticate(request.login, request.password);
+    if (a.role != Role::approver)
+        throw chem::Error("login", str(a.display_name) + " (" + str(a.login) + ") is " +
+                                       (a.role == Role::administrator ? "an " : "a ") +
+                                       str(role_name(a.role)) +
+                                       ": only an approver overrides an expired lot");
+    LotOverrideGrant grant{request.reagent, request.lot.trimmed(), a.login, a.display_name, now(),
+                           reason};
+    const bool amendment = cur->printed() || !holding_signatures(db_, *cur).empty();
+    const QString why = QStringLiteral("expired lot %1 of %2 used by override of %3 (%4): %5")
+                            .arg(grant.lot, grant.reagent, a.display_name, a.login, reason);
+    return change(id, next, who, amendment ? QStringLiteral("amend") : QStringLiteral("edit"),
+                  amendment ? why : QString(), &grant);
 }
 
 void BatchStore::mark_printed(const QString& id, const QString& who, const QString& what,

@@ -37,6 +37,8 @@
 
 namespace phaseplan::storage {
 
+struct LotOverrideGrant; // storage/lot_store.h
+
 /// The SQL that creates the batch tables, indexes and triggers, in order (migration step 4), in
 /// the back end's dialect (storage/sql_dialect.h).
 QStringList batch_schema_statements(sql::Dialect d = sql::Dialect::sqlite);
@@ -149,6 +151,25 @@ class BatchStore {
     bool amend(const QString& id, const BatchRecord& next, const QString& who,
                const QString& reason);
 
+    /// Who overrides an expired lot, and why (BatchStore::override_expired_lot).
+    struct LotOverrideRequest {
+        QString reagent;  ///< the amount's reagent id
+        QString lot;      ///< the expired lot
+        QString login;    ///< an approver
+        QString password; ///< the approver's password, asked again
+        QString reason;
+    };
+    /// Stores `next`, whose amount of request.reagent uses the expired lot request.lot, with an
+    /// approver's override: the login and password are checked again (a wrong password counts
+    /// towards the lock), the account must be an approver, and the override (who, name, when,
+    /// why) is kept with the amount ("lot_override") and written to the audit trail as
+    /// "override-expired-lot" under the approver's login, before the change itself under `who`.
+    /// A printed or signed batch is amended, with the override as the reason. Throws
+    /// chem::Error: "lot_override.reason" (empty), "login"/"password" (authentication, not an
+    /// approver), "lot_override" (nothing to override), and as edit/amend.
+    bool override_expired_lot(const QString& id, const BatchRecord& next, const QString& who,
+                              const LotOverrideRequest& request);
+
     /// Records that the batch was printed (what: "sheet a4", "labels label62", …). With
     /// `expected_version` > 0 (the version the printed content was loaded at), throws
     /// ConflictError when the stored batch changed since.
@@ -163,7 +184,8 @@ class BatchStore {
 
   private:
     bool change(const QString& id, const BatchRecord& next, const QString& who,
-                const QString& action, const QString& reason);
+                const QString& action, const QString& reason,
+                const LotOverrideGrant* grant = nullptr);
     QString now() const;
     bool versioned() const;
 

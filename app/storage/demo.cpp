@@ -4,8 +4,10 @@
 #include "storage/accounts.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
+#include "storage/lot_store.h"
 #include "storage/signatures.h"
 
+#include <QDate>
 #include <QFile>
 #include <QJsonArray>
 #include <QJsonDocument>
@@ -118,6 +120,42 @@ void seed_demo_records(Database& db, const QString& data_dir) {
                     QStringLiteral("prepared"));
     signatures.sign(batch.id, QStringLiteral("demo-review"), QStringLiteral("demo-review-2026"),
                     QStringLiteral("reviewed"));
+
+    seed_demo_lots(db, QDate::currentDate());
+}
+
+const std::vector<DemoLot>& demo_lots() {
+    // Invented lot numbers and supplier. SP-1987 expired before today, so that the refusal (and
+    // an approver's override) can be seen; SP-2207 expires tomorrow, so that it limits the
+    // use-by of a batch made today with it (the buffer's shelf life is 48 h).
+    static const std::vector<DemoLot> lots = {
+        {"phosphoric-acid", "PA-88112", "Veldmark Reagents", -80, -60, 700, 1, "L"},
+        {"phosphoric-acid", "PA-90417", "Veldmark Reagents", -10, 0, 900, 1, "L"},
+        {"sodium-dihydrogen-phosphate-monohydrate", "SP-1987", "Veldmark Reagents", -400, -390, -5,
+         500, "g"},
+        {"sodium-dihydrogen-phosphate-monohydrate", "SP-2207", "Veldmark Reagents", -180, -170, 1,
+         500, "g"},
+        {"sodium-dihydrogen-phosphate-monohydrate", "SP-2391", "Veldmark Reagents", -5, 0, 1000,
+         1000, "g"},
+    };
+    return lots;
+}
+
+void seed_demo_lots(Database& db, const QDate& today) {
+    LotStore shelf(db.connection());
+    for (const DemoLot& d : demo_lots()) {
+        ReagentLot l;
+        l.reagent = QString::fromLatin1(d.reagent);
+        l.lot = QString::fromLatin1(d.lot);
+        l.supplier = QString::fromLatin1(d.supplier);
+        l.received_on = today.addDays(d.received_days).toString(Qt::ISODate);
+        if (d.opened_days != 0)
+            l.opened_on = today.addDays(d.opened_days).toString(Qt::ISODate);
+        l.expires_on = today.addDays(d.expires_days).toString(Qt::ISODate);
+        l.quantity = d.quantity;
+        l.quantity_unit = QString::fromLatin1(d.quantity_unit);
+        shelf.add(l, QStringLiteral("demo-prep"));
+    }
 }
 
 } // namespace phaseplan::storage

@@ -3,6 +3,7 @@
 // trail, the signatures and `phaseplan-cli audit verify|export` have something to show from the
 // first start. Invented people of the invented lab (Halden Ridge Analytical); their passwords are
 // listed in README.md and are for the demo only.
+#include <QDate>
 #include <QString>
 
 #include <vector>
@@ -37,8 +38,30 @@ QString demo_batch_id();
 /// Adds the demo users and the demo batch, made from data/demo/batch-line-a-buffer.json with the
 /// id demo_batch_id(), with its whole history: created by demo-prep, printed, amended with a
 /// reason (a lot number corrected), printed again, signed as prepared by demo-prep and as reviewed
-/// by demo-review. Throws chem::Error when the file cannot be read or the database refuses.
-/// Meant for a new database (inside the transaction that creates it).
+/// by demo-review; then the demo lots on the shelf (seed_demo_lots). Throws chem::Error when the
+/// file cannot be read or the database refuses. Meant for a new database (inside the transaction
+/// that creates it).
 void seed_demo_records(Database& db, const QString& data_dir);
+
+/// One invented lot of the demo shelf; its dates are days from the day the database is made, so
+/// the demo shows the same on any day.
+struct DemoLot {
+    const char* reagent;
+    const char* lot;
+    const char* supplier;
+    int received_days; ///< days from today (negative: in the past)
+    int opened_days;   ///< 0 = not opened
+    int expires_days;
+    double quantity;
+    const char* quantity_unit;
+};
+/// The demo's shelf: two lots of phosphoric acid, three of sodium dihydrogen phosphate
+/// monohydrate (SP-1987 expired five days before the database was made, SP-2207 expires the day
+/// after).
+const std::vector<DemoLot>& demo_lots();
+
+/// Puts demo_lots() on the shelf, dated from `today`, recorded under demo-prep (the last step of
+/// seed_demo_records, after the demo batch: its history is unchanged).
+void seed_demo_lots(Database& db, const QDate& today);
 
 } // namespace phaseplan::storage

@@ -16,6 +16,7 @@
 
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
+#include "storage/lot_store.h"
 #include "storage/versioning.h"
 
 #include <QJsonArray>
@@ -192,6 +193,13 @@ const std::vector<Migration>& migrations() {
          "document and batch; the change counter other benches poll (app/storage/versioning.h)",
          [](Database& db) {
              for (const QString& sql : versioning_schema_statements(db.dialect()))
+                 db.exec(sql);
+         }},
+        {lot_schema_version,
+         "the reagent-lot shelf: each lot's number, supplier, received, opened and expiry dates "
+         "and quantity (app/storage/lot_store.h)",
+         [](Database& db) {
+             for (const QString& sql : lot_schema_statements(db.dialect()))
                  db.exec(sql);
          }},
         // Append new steps here (see the comment at the top of this file).

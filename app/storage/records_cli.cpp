@@ -2,16 +2,20 @@
 
 #include "chem/error.h"
 #include "chem/guard.h"
+#include "chem/text.h"
+#include "core/app_data.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/database.h"
 #include "storage/demo.h"
+#include "storage/lot_store.h"
 #include "storage/signatures.h"
 #include "storage/sql_util.h"
 
 #include <QFileInfo>
 #include <QJsonArray>
 #include <QJsonDocument>
+#include <QRegularExpression>
 #include <QSaveFile>
 #include <QSqlError>
 #include <QSqlQuery>
@@ -414,11 +418,121 @@ CliOutput user_command(const QStringList& args, const SecretReader& read_secret)
                       "user " + quoted(sub) + " is not add, list, lock, unlock or passwd");
 }
 
+QJsonObject lot_json(const ReagentLot& l) {
+    QJsonObject o{{"reagent", l.reagent},         {"lot", l.lot},
+                  {"received_on", l.received_on}, {"expires_on", l.expires_on},
+                  {"created_at", l.created_at},   {"created_by", l.created_by}};
+    if (!l.supplier.isEmpty())
+        o["supplier"] = l.supplier;
+    if (!l.opened_on.isEmpty())
+        o["opened_on"] = l.opened_on;
+    if (l.quantity) {
+        o["quantity"] = *l.quantity;
+        o["quantity_unit"] = l.quantity_unit;
+    }
+    return o;
+}
+
+/// "500 g", "2.5 L", "500g": the amount and its unit. Throws chem::Error("quantity", …).
+void read_quantity(const QString& text, ReagentLot& l) {
+    static const QRegularExpression form(
+        QStringLiteral("^\\s*([0-9]+(?:[.,][0-9]+)?)\\s*([A-Za-z]+)\\s*$"));
+    const QRegularExpressionMatch m = form.match(text);
+    if (!m.hasMatch())
+        throw chem::Error("quantity",
+                          quoted(text) + " is not an amount with its unit, like 500 g or 2.5 L");
+    QString number = m.captured(1);
+    l.quantity = number.replace(QLatin1Char(','), QLatin1Char('.')).toDouble();
+    l.quantity_unit = m.captured(2);
+}
+
+/// Is `id` a reagent or solvent of the library (shipped, or the lab's own entry)? Throws
+/// chem::Error
+/// ("reagent", …) naming the nearest id otherwise.
+void require_library_reagent(const QString& id, const QString& data_dir, const Database& db) {
+    const AppData data = load_app_data(data_dir);
+    // A solvent (acetonitrile for line B) has lots too.
+    if (data.reagents.find_reagent(id.toStdString()) ||
+        data.solvents.find_solvent(id.toStdString()))
+        return;
+    std::vector<std::string> ids;
+    for (const chem::Reagent& r : data.reagents.reagents())
+        ids.push_back(r.id);
+    for (const chem::Solvent& r : data.solvents.solvents())
+        ids.push_back(r.id);
+    for (const LibraryEntry& e : db.user_entries(QStringLiteral("reagents"))) {
+        if (e.id == id)
+            return;
+        ids.push_back(e.id.toStdString());
+    }
+    std::string nearest;
+    int best = 4; // a suggestion only when it is close
+    const std::string wanted = id.left(qsizetype(chem::guard::max_id_chars)).toStdString();
+    for (const std::string& c : ids) {
+        const int d = chem::edit_distance(wanted, c);
+        if (d < best) {
+            best = d;
+            nearest = c;
+        }
+    }
+    throw chem::Error("reagent", quoted(id) + " is not a reagent of the library" +
+                                     (nearest.empty() ? std::string(" (phaseplan-cli reagents "
+                                                                    "lists them)")
+                                                      : " (did you mean \"" + nearest + "\"?)"));
+}
+
+CliOutput lot_command(const QStringList& args, const SecretReader& read_secret,
+                      const QString& data_dir) {
+    if (args.isEmpty())
+        throw chem::Error("command", "lot needs add or list");
+    const QString sub = args.first();
+    CliOutput out;
+    if (sub == QLatin1String("list")) {
+        const Options o = parse(args.mid(1), {"--database", "--reagent"});
+        no_positional(o, 0);
+        auto db = open_database(o.required("--database"), false);
+        QJsonArray list;
+        for (const ReagentLot& l : LotStore(db->connection()).list(o.value("--reagent").trimmed()))
+            list.append(lot_json(l));
+        out.out = QJsonDocument(QJsonObject{{"lots", list}}).toJson(QJsonDocument::Indented);
+        return out;
+    }
+    if (sub == QLatin1String("add")) {
+        const Options o =
+            parse(args.mid(1), {"--database", "--reagent", "--lot", "--supplier", "--received-on",
+                                "--opened-on", "--expires-on", "--quantity", "--as"});
+        no_positional(o, 0);
+        ReagentLot l;
+        l.reagent = o.value("--reagent").trimmed();
+        l.lot = o.value("--lot").trimmed();
+        l.supplier = o.value("--supplier").trimmed();
+        l.received_on = o.value("--received-on").trimmed();
+        l.opened_on = o.value("--opened-on").trimmed();
+        l.expires_on = o.value("--expires-on").trimmed();
+        if (o.has("--quantity"))
+            read_quantity(o.value("--quantity"), l);
+        validate_lot(l); // every field before the database is opened or a password read
+        auto db = open_database(o.required("--database"), false);
+        require_library_reagent(l.reagent, data_dir, *db);
+        AccountStore accounts(db->connection());
+        QString who = o.value("--as").trimmed();
+        if (who.isEmpty())
+            throw chem::Error("as", "is required: the login that puts the lot on the shelf (its "
+                                    "password is read first)");
+        if (accounts.any())
+            who = sign_in(accounts, who, read_secret).login;
+        const ReagentLot stored = LotStore(db->connection()).add(l, who);
+        out.out = QJsonDocument(lot_json(stored)).toJson(QJsonDocument::Indented);
+        return out;
+    }
+    throw chem::Error("command", "lot " + quoted(sub) + " is not add or list");
+}
+
 /// The tables in the order of the migration steps (a table before the ones that refer to it).
 const char* const copied_tables[] = {
-    "buffers",         "lines",        "methods",   "sequences",     "settings",  "library_files",
-    "library_shipped", "library_user", "batches",   "batch_history", "devices",   "set_aside",
-    "columns",         "users",        "audit_log", "audit_anchor",  "signatures"};
+    "buffers",         "lines",        "methods",   "sequences",     "settings",   "library_files",
+    "library_shipped", "library_user", "batches",   "batch_history", "devices",    "set_aside",
+    "columns",         "users",        "audit_log", "audit_anchor",  "signatures", "reagent_lots"};
 
 /// The columns of `table` in the source (SQLite), in their order.
 QStringList sqlite_columns(QSqlDatabase db, const QString& table) {
@@ -504,8 +618,10 @@ CliOutput db_copy(const Options& o) {
         }
         // Ids given by the engine go on after the copied ones.
         if (target.is_postgresql())
-            for (const auto& [table, column] :
-                 {std::pair{"batch_history", "seq"}, {"set_aside", "id"}, {"columns", "id"}})
+            for (const auto& [table, column] : {std::pair{"batch_history", "seq"},
+                                                {"set_aside", "id"},
+                                                {"columns", "id"},
+                                                {"reagent_lots", "id"}})
                 target.exec(QStringLiteral("SELECT setval(pg_get_serial_sequence('%1', '%2'),"
                                            " coalesce(max(%2), 0) + 1, false) FROM %1")
                                 .arg(table, column));
@@ -561,6 +677,8 @@ CliOutput records_command(const QString& group, const QStringList& args,
         return user_command(args, read_secret);
     if (group == QLatin1String("db"))
         return db_command(args, data_dir);
+    if (group == QLatin1String("lot"))
+        return lot_command(args, read_secret, data_dir);
     throw chem::Error("command", "unknown command " + quoted(group));
 }
 

@@ -8,6 +8,10 @@
 //   user list --database FILE
 //   user lock|unlock LOGIN --as ADMIN --database FILE
 //   user passwd LOGIN [--as ADMIN] --database FILE
+//   lot add --reagent ID --lot NUMBER --received-on DATE --expires-on DATE [--opened-on DATE]
+//       [--supplier NAME] [--quantity "500 g"] --as LOGIN --database FILE
+//                                                  a lot on the shelf (storage/lot_store.h)
+//   lot list [--reagent ID] --database FILE
 //   db demo --database NEW_FILE                   a new database with the demo and its trail
 //   db copy --from FILE --to URI                  a bench's file into an empty lab database (ids
 //                                                  and the chain kept; refuses a target holding
@@ -38,7 +42,8 @@ struct CliOutput {
     QByteArray out; ///< what goes to stdout
 };
 
-/// `group` is "audit", "user" or "db"; `args` are the words after it. `data_dir` is for db demo.
+/// `group` is "audit", "user", "lot" or "db"; `args` are the words after it. `data_dir` is for db
+/// demo.
 CliOutput records_command(const QString& group, const QStringList& args,
                           const SecretReader& read_secret, const QString& data_dir);
 

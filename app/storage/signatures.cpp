@@ -5,6 +5,7 @@
 #include "chem/guard.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
+#include "storage/lot_store.h"
 #include "storage/sql_util.h"
 
 #include <QCryptographicHash>
@@ -305,6 +306,10 @@ AuditVerification verify_records(QSqlDatabase db) {
                     .arg(last_seq[id])
                     .arg(differs.join(QStringLiteral(", ")).left(300)));
     }
+    // The lot shelf against its entries.
+    const AuditVerification lots = verify_lots(db);
+    if (!lots.intact)
+        return lots;
     return v;
 }
 

@@ -80,7 +80,8 @@ class SignatureStore {
 ///   - every signature row matches the "sign" entry it names (audit_seq): batch, login, time,
 ///     meaning, revision, content hash and signature number; and every "sign" entry has its row;
 ///   - every batch equals its trail replayed (each create, edit and amend entry's "new" values,
-///     field by field), and has a "create" entry.
+///     field by field), and has a "create" entry;
+///   - the lot shelf equals its trail (verify_lots, storage/lot_store.h).
 /// So a signature or a batch changed behind the program's back, while the trail was left alone,
 /// is found too. first_bad_seq names the trail entry the record disagrees with (for a batch, its
 /// last entry). Read-only.

@@ -26,6 +26,13 @@ Rectangle {
     required property string source
     /// The target DeviceCapture is called with for this row.
     required property string captureTarget
+    /// The shelf's lots of this reagent ([{id, name, expiresOn, expired}]); [] = typed lot.
+    required property var lotChoices
+    required property string lotExpiresOn
+    /// The chosen lot expired before the preparation and is not overridden.
+    required property bool lotExpired
+    required property string lotStatus
+    required property string lotError
     /// The BatchModel the row belongs to.
     property BatchModel batch
     /// The screen's DeviceCapture (null: no "Take from balance").
@@ -49,6 +56,11 @@ Rectangle {
         return Number(v).toLocaleString(Qt.locale(), "f", decimalsFor(root.target))
     }
     readonly property bool flagged: root.entered && !root.withinTolerance
+    /// The row whose override form was used last (its errors show there, not on other rows).
+    property bool overrideTried: false
+    function overrideError(field) {
+        return root.overrideTried && root.batch && root.batch.errorField === field ? root.batch.errorMessage : ""
+    }
 
     implicitHeight: grid.implicitHeight + 2 * Theme.gap
     radius: Theme.radius
@@ -184,18 +196,111 @@ Rectangle {
                 subject: qsTr("the amount of %1").arg(root.name)
             }
         }
-        TextEntry {
-            id: lotEntry
-            objectName: "lotField"
+        ColumnLayout {
             Layout.fillWidth: true
             Layout.preferredWidth: Theme.tap * 3
             Layout.alignment: Qt.AlignTop
-            label: qsTr("Lot")
-            value: root.lot
-            placeholder: qsTr("lot number")
-            Connections {
-                target: lotEntry.field
-                function onEditingFinished() { root.batch.setLot(root.index, lotEntry.field.text) }
+            spacing: Math.round(Theme.gap / 2)
+            // With lots of this reagent on the shelf the lot is picked from them, so its expiry
+            // is known and checked; a lot typed by hand would escape that. Without any, the lot
+            // is typed as before (and the status says its expiry is not checked).
+            ChoiceField {
+                objectName: "lotChoice"
+                Layout.fillWidth: true
+                visible: root.lotChoices.length > 0
+                label: qsTr("Lot (from the shelf)")
+                accessibleName: qsTr("Lot of %1").arg(root.name)
+                choices: root.lotChoices
+                current: root.lot
+                error: root.lotError
+                onPicked: function(id) { root.batch.setLot(root.index, id) }
+            }
+            TextEntry {
+                id: lotEntry
+                objectName: "lotField"
+                Layout.fillWidth: true
+                visible: root.lotChoices.length === 0
+                label: qsTr("Lot")
+                value: root.lot
+                placeholder: qsTr("lot number")
+                error: root.lotError
+                Connections {
+                    target: lotEntry.field
+                    function onEditingFinished() { root.batch.setLot(root.index, lotEntry.field.text) }
+                }
+            }
+            Label {
+                objectName: "lotStatus"
+                Layout.fillWidth: true
+                // The refusal beside the picker says the same in full.
+                visible: root.lotStatus.length > 0 && root.lotError.length === 0
+                text: (root.lotExpired ? "⚠ " : "") + root.lotStatus
+                color: root.lotExpired ? Theme.bad : Theme.dimText
+                font.pixelSize: Theme.smallFont
+                font.bold: root.lotExpired
+                wrapMode: Text.Wrap
+            }
+        }
+        // An expired lot: refused unless an approver accepts it here, with the password again
+        // and a reason (recorded in the audit trail and printed on the sheet).
+        ColumnLayout {
+            objectName: "lotOverride"
+            Layout.columnSpan: grid.columns
+            Layout.fillWidth: true
+            visible: root.lotExpired
+            spacing: Math.round(Theme.gap / 2)
+            Label {
+                Layout.fillWidth: true
+                text: qsTr("Only an approver may accept an expired lot: the approver's login, "
+                           + "password and reason are recorded.")
+                font.pixelSize: Theme.smallFont
+                wrapMode: Text.Wrap
+            }
+            RowLayout {
+                Layout.fillWidth: true
+                spacing: Theme.gap
+                TextEntry {
+                    id: approverLogin
+                    objectName: "overrideLogin"
+                    Layout.fillWidth: true
+                    Layout.preferredWidth: Theme.tap * 3 // the two share the row equally
+                    label: qsTr("Approver's login")
+                    accessibleName: qsTr("Approver's login for the lot of %1").arg(root.name)
+                    error: root.overrideError("lot_override.login")
+                }
+                TextEntry {
+                    id: approverPassword
+                    objectName: "overridePassword"
+                    Layout.fillWidth: true
+                    Layout.preferredWidth: Theme.tap * 3 // the two share the row equally
+                    label: qsTr("Password")
+                    accessibleName: qsTr("Approver's password for the lot of %1").arg(root.name)
+                    field.echoMode: TextInput.Password
+                    error: root.overrideError("lot_override.password")
+                }
+            }
+            TextEntry {
+                id: overrideReason
+                objectName: "overrideReason"
+                Layout.fillWidth: true
+                label: qsTr("Why may this expired lot be used?")
+                accessibleName: qsTr("Reason to use the expired lot of %1").arg(root.name)
+                error: root.overrideError("lot_override.reason") || root.overrideError("lot_override")
+            }
+            TouchButton {
+                objectName: "overrideButton"
+                text: qsTr("Accept the expired lot as approver")
+                Accessible.name: qsTr("Accept the expired lot of %1 as approver").arg(root.name)
+                enabled: approverLogin.field.text.length > 0 && approverPassword.field.text.length > 0
+                onClicked: {
+                    root.overrideTried = true
+                    if (root.batch.overrideExpiredLot(root.index, approverLogin.field.text,
+                                                      approverPassword.field.text, overrideReason.field.text)) {
+                        approverLogin.field.text = ""
+                        overrideReason.field.text = ""
+                    }
+                    approverPassword.field.text = "" // never kept, right or wrong
+                }
             }
         }
     }

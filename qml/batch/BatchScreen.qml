@@ -29,7 +29,8 @@ ScreenPage {
                                               "batch.checked_by", "batch.tolerance_percent", "reason",
                                               "batch.measured_ph", "batch.ph_tolerance", "batch.ph_meter_id",
                                               "batch.balance_id", "batch.comment", "batch.container_ml",
-                                              "batch.deviation.note", "output", "path", "printer"]
+                                              "batch.deviation.note", "output", "path", "printer",
+                                              "lot_override"]
     readonly property string otherError: root.batch.errorMessage.length > 0
                                          && !FieldPath.belongsToAny(root.batch.errorField, fieldsShownInline)
                                          && !FieldPath.belongs(root.batch.errorField, "batch.actual")
@@ -264,6 +265,27 @@ ScreenPage {
                             error: root.errorFor("batch.expires_at")
                             onPicked: function(y, mo, d, h, mi) { root.batch.expiresAt = root.iso(y, mo, d, h, mi) }
                         }
+                    }
+                    // The use-by printed on the sheet and labels: never after a lot's expiry.
+                    Label {
+                        objectName: "useByText"
+                        Layout.fillWidth: true
+                        visible: root.batch.useByLimit.length > 0
+                        text: qsTr("Use by %1: limited by %2").arg(root.dateWords(root.batch.useByAt))
+                                                                 .arg(root.batch.useByLimit)
+                        color: Theme.warn
+                        font.pixelSize: Theme.smallFont
+                        font.bold: true
+                        wrapMode: Text.Wrap
+                    }
+                    Label {
+                        objectName: "lotOverridesText"
+                        Layout.fillWidth: true
+                        visible: root.batch.lotOverrides.length > 0
+                        text: "⚠ " + root.batch.lotOverrides.join("\n⚠ ")
+                        color: Theme.bad
+                        font.pixelSize: Theme.smallFont
+                        wrapMode: Text.Wrap
                     }
                     NumberField {
                         objectName: "toleranceField"
