@@ -1,8 +1,11 @@
 #include "chem/titration_curve.h"
 
+#include "chem/equilibrium_detail.h"
 #include "chem/error.h"
+#include "chem/units.h"
 
 #include <algorithm>
+#include <cmath>
 
 namespace chem {
 
@@ -37,23 +40,51 @@ TitrationCurve titration_curve(const Library& lib, const TitrationCurveRequest& 
         out.x_end = 0;
         return out;
     }
+    // One problem for the whole curve: the fixed components, then the rising and the falling
+    // reagent, whose amounts change from point to point (Problem::set_amounts). Each point starts
+    // from its neighbour's solution (solve_state_near), as a gradient trace does. Built with
+    // placeholder amounts; a curve the solver refuses outright (the temperature) has no points.
+    std::vector<Component> comps = fixed;
+    const std::size_t up_at = comps.size();
+    comps.push_back({up_reagent, 1e-3});
+    const std::size_t down_at = comps.size();
+    if (down_reagent)
+        comps.push_back({down_reagent, 1e-3});
+    detail::Problem p;
+    try {
+        p = detail::build_problem(lib, comps, request.temperature_c);
+    } catch (const Error&) {
+        return out; // every point would be refused: none is invented
+    }
+    std::vector<double> amounts(comps.size(), 0.0);
+    for (std::size_t k = 0; k < fixed.size(); ++k)
+        amounts[k] = fixed[k].mol_per_l;
+    detail::State previous;
+    bool have_previous = false;
     for (int i = 0; i < request.points; ++i) {
         const double f = double(i) / (request.points - 1);
-        std::vector<Component> comps = fixed;
         const double up = titrant ? f * up_max : f * total;
         const double down = titrant ? 0 : (1 - f) * total;
-        if (up > 0)
-            comps.push_back({up_reagent, up});
-        if (down > 0)
-            comps.push_back({down_reagent, down});
-        if (comps.empty())
+        if (fixed.empty() && !(up > 0) && !(down > 0))
+            continue; // nothing in the flask
+        // The same limits a solve of these components would apply (chem::solve refuses them).
+        if (up > max_concentration_mol_per_l || down > max_concentration_mol_per_l)
             continue;
+        amounts[up_at] = up;
+        if (down_reagent)
+            amounts[down_at] = down;
         try {
-            const Speciation s = solve(lib, comps, request.temperature_c);
+            p.set_amounts(amounts);
+            const detail::State st =
+                have_previous ? detail::solve_state_near(p, previous) : detail::solve_state(p);
+            const Speciation s = detail::report(p, st);
             out.points.push_back(
                 {f * out.x_end, s.ph, s.buffer_capacity_mol_per_l, s.ionic_strength_mol_per_l});
+            previous = st;
+            have_previous = true;
         } catch (const Error&) {
             // a point the core refuses is left out, not invented
+            have_previous = false;
         }
     }
     return out;
