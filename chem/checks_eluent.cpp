@@ -1,0 +1,374 @@
+// The checks on the eluent as the column sees it: its pH against the column range, and buffering
+// along the gradient.
+#include "chem/checks.h"
+#include "chem/checks_common.h"
+
+#include "chem/error.h"
+
+#include <algorithm>
+#include <cmath>
+#include <cstdint>
+#include <deque>
+#include <limits>
+#include <map>
+#include <set>
+
+namespace chem {
+
+using namespace checks_internal;
+
+namespace {
+
+/// The compositions of a set of traces, each solved once: gradients repeat the same rows and the
+/// same whole percents of organic across methods. An open-addressing table keyed on the
+/// percentages rounded to 1e-6 % (a std::map here cost as much as the solves it saved).
+class PointCache {
+  public:
+    explicit PointCache(const EluentModel& model) : model_(model), slots_(256) {}
+
+    const EluentPoint& at(const LineValues& p, const EluentPoint* guess) {
+        Key key{};
+        for (int l = 0; l < max_lines; ++l)
+            key[l] = static_cast<long long>(p[l] * 1e6 + 0.5); // percentages are ≥ 0
+        const std::size_t mask = slots_.size() - 1;
+        for (std::size_t i = hash(key) & mask;; i = (i + 1) & mask) {
+            Slot& s = slots_[i];
+            if (s.index < 0) {
+                s.key = key;
+                s.index = static_cast<int>(points_.size());
+                points_.push_back(model_.point(p.data(), p.size(), guess));
+                if (2 * points_.size() > slots_.size())
+                    grow();
+                return points_.back();
+            }
+            if (s.key[0] == key[0] && s.key[1] == key[1] && s.key[2] == key[2] &&
+                s.key[3] == key[3])
+                return points_[s.index];
+        }
+    }
+
+  private:
+    using Key = std::array<long long, max_lines>;
+    static_assert(max_lines == 4, "the key comparison in at() spells out four lines");
+    struct Slot {
+        Key key{};
+        int index = -1;
+    };
+    /// The four rounded percentages, each multiplied by its own odd constant (Knuth's
+    /// multiplicative hashing) and folded with one shift, so that the low bits used as the slot
+    /// depend on every percentage.
+    static std::size_t hash(const Key& key) {
+        std::uint64_t h = static_cast<std::uint64_t>(key[0]) * 0x9e3779b97f4a7c15ULL ^
+                          static_cast<std::uint64_t>(key[1]) * 0xc2b2ae3d27d4eb4fULL ^
+                          static_cast<std::uint64_t>(key[2]) * 0x165667b19e3779f9ULL ^
+                          static_cast<std::uint64_t>(key[3]) * 0xd6e8feb86659fd93ULL;
+        h ^= h >> 29;
+        h *= 0xbf58476d1ce4e5b9ULL;
+        h ^= h >> 32;
+        return static_cast<std::size_t>(h);
+    }
+    void grow() {
+        std::vector<Slot> old(slots_.size() * 2);
+        old.swap(slots_);
+        const std::size_t mask = slots_.size() - 1;
+        for (const Slot& s : old) {
+            if (s.index < 0)
+                continue;
+            std::size_t i = hash(s.key) & mask;
+            while (slots_[i].index >= 0)
+                i = (i + 1) & mask;
+            slots_[i] = s;
+        }
+    }
+    const EluentModel& model_;
+    std::vector<Slot> slots_;
+    std::deque<EluentPoint> points_; ///< stable addresses while the table grows
+};
+
+} // namespace
+
+std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
+    std::vector<EluentTrace> out;
+    if (!c.reagents || !c.solvents || !c.input || !c.plan)
+        return out;
+    const std::vector<int> run = methods_run(*c.plan);
+    const auto used = lines_in_use(*c.plan, run);
+    std::vector<const LineProfile*> profiles(max_lines, nullptr);
+    for (int l = 0; l < max_lines; ++l) {
+        if (c.profiles[l] && c.profiles[l]->described)
+            profiles[l] = c.profiles[l];
+        else if (used[l])
+            return out; // a volumes-only line in use: its make-up is unknown
+    }
+    const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
+    const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
+    PointCache solved(model);
+    auto at = [&](const LineValues& p, const EluentPoint* guess) -> const EluentPoint& {
+        return solved.at(p, guess);
+    };
+    // Methods that run the same composition program (the same stretches' compositions, at any
+    // times and flows) have the same trace points; only the times differ. Each program is traced
+    // once, with each point's place (stretch, fraction of it) kept to time the copies.
+    struct Program {
+        std::vector<double> compositions; ///< percent_start and percent_end of every stretch
+        std::size_t trace = 0;            ///< index into out
+        std::vector<std::pair<std::size_t, double>> where; ///< per point: stretch, fraction
+    };
+    std::vector<Program> programs;
+    std::vector<double> key;
+    for (int mi : run) {
+        const Method& m = c.input->methods[mi];
+        const auto ss = stretches(m);
+        key.clear();
+        for (const Stretch& s : ss) {
+            key.insert(key.end(), s.percent_start.begin(), s.percent_start.end());
+            key.insert(key.end(), s.percent_end.begin(), s.percent_end.end());
+        }
+        EluentTrace tr;
+        tr.method = m.name;
+        tr.temperature_c = t_c;
+        tr.has_systems = model.has_systems();
+        for (const AcidBaseSystem* sys : model.systems())
+            tr.systems.push_back(sys->id);
+        const auto same = std::find_if(programs.begin(), programs.end(),
+                                       [&](const Program& p) { return p.compositions == key; });
+        if (same != programs.end()) {
+            tr.points = out[same->trace].points;
+            for (std::size_t k = 0; k < tr.points.size(); ++k) {
+                const Stretch& s = ss[same->where[k].first];
+                tr.points[k].t_min = s.start_min + same->where[k].second * s.duration_min;
+            }
+            out.push_back(std::move(tr));
+            continue;
+        }
+        Program program;
+        program.compositions = key;
+        program.trace = out.size();
+        const EluentPoint* last = nullptr;
+        auto add = [&](std::size_t si, double u) {
+            const Stretch& s = ss[si];
+            LineValues p{};
+            for (int l = 0; l < max_lines; ++l)
+                p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
+            const EluentPoint& previous = at(p, last);
+            last = &previous;
+            EluentTracePoint tp;
+            tp.t_min = s.start_min + u * s.duration_min;
+            tp.organic_fraction_v = previous.organic_fraction_v;
+            tp.ph_s_w = previous.ph_s_w;
+            tp.ph_s_s = previous.ph_s_s;
+            tp.nearest_pka_gap = previous.nearest_pka_gap;
+            tp.nearest_pka = previous.nearest_pka;
+            tp.nearest_system = previous.nearest_system;
+            tp.extrapolated = previous.extrapolated;
+            tr.points.push_back(tp);
+            program.where.emplace_back(si, u);
+        };
+        tr.points.reserve(ss.size() + 101);
+        program.where.reserve(ss.size() + 101);
+        std::vector<double> us;
+        for (std::size_t si = 0; si < ss.size(); ++si) {
+            const Stretch& s = ss[si];
+            add(si, 0.0);
+            // Every whole percent of organic crossed inside the stretch.
+            const double o0 =
+                model.organic_fraction_v(s.percent_start.data(), s.percent_start.size());
+            const double o1 = model.organic_fraction_v(s.percent_end.data(), s.percent_end.size());
+            if (std::abs(o1 - o0) > 1e-9) {
+                const double lo = std::min(o0, o1) * 100, hi = std::max(o0, o1) * 100;
+                us.clear();
+                for (double k = std::floor(lo) + 1; k < hi - 1e-9; k += 1)
+                    us.push_back((k / 100 - o0) / (o1 - o0));
+                std::sort(us.begin(), us.end());
+                for (double u : us)
+                    if (u > 1e-12 && u < 1 - 1e-12)
+                        add(si, u);
+            }
+        }
+        if (!ss.empty())
+            add(ss.size() - 1, 1.0);
+        programs.push_back(std::move(program));
+        out.push_back(std::move(tr));
+    }
+    return out;
+}
+
+namespace {
+
+const std::vector<EluentTrace>& traces_of(const SequenceCheckInput& c,
+                                          std::vector<EluentTrace>& own) {
+    if (c.traces)
+        return *c.traces;
+    own = eluent_traces(c);
+    return own;
+}
+
+std::string pct(double fraction) {
+    return fmt(100 * fraction, 0) + " % organic";
+}
+
+/// Where in the gradient an eluent warning applies: the worst point and the stretch around it.
+void add_where(CheckWarning& w, const EluentTrace& tr, const EluentTracePoint& first,
+               const EluentTracePoint& last, const EluentTracePoint& worst) {
+    w.number("t_min", worst.t_min);
+    w.number("organic_fraction_v", worst.organic_fraction_v);
+    w.number("from_t_min", first.t_min);
+    w.number("to_t_min", last.t_min);
+    w.number("from_organic_fraction_v", first.organic_fraction_v);
+    w.number("to_organic_fraction_v", last.organic_fraction_v);
+    w.number("temperature_c", tr.temperature_c);
+    w.text("method", tr.method);
+}
+
+} // namespace
+
+// (e) The pH the column sees outside its stated range: the eluent's s_w pH along each method's
+// gradient at the column temperature (or, without the reagent library, each line's own pH).
+std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
+    std::vector<CheckWarning> out;
+    if (!c.column && c.method_columns.empty())
+        return out;
+    std::vector<EluentTrace> own;
+    const auto& traces = traces_of(c, own);
+    if (!traces.empty()) {
+        for (const EluentTrace& tr : traces) {
+            const auto own = c.method_columns.find(tr.method);
+            const ColumnLimits* limits = own != c.method_columns.end() ? &own->second
+                                         : c.column                    ? &*c.column
+                                                                       : nullptr;
+            if (!limits)
+                continue;
+            for (const bool low : {true, false}) {
+                const EluentTracePoint* worst = nullptr;
+                const EluentTracePoint* first = nullptr;
+                const EluentTracePoint* last = nullptr;
+                for (const auto& p : tr.points) {
+                    const bool outside =
+                        low ? p.ph_s_w < limits->ph_min : p.ph_s_w > limits->ph_max;
+                    if (!outside)
+                        continue;
+                    if (!first)
+                        first = &p;
+                    last = &p;
+                    if (!worst || (low ? p.ph_s_w < worst->ph_s_w : p.ph_s_w > worst->ph_s_w))
+                        worst = &p;
+                }
+                if (!worst)
+                    continue;
+                const std::string where =
+                    c.lone_line ? "The line's eluent" : "In method " + tr.method + ", the eluent";
+                const std::string span =
+                    c.lone_line ? ""
+                                : " from " + fmt(first->t_min, 2) + " to " + fmt(last->t_min, 2) +
+                                      " min of each injection (" + pct(first->organic_fraction_v) +
+                                      " to " + pct(last->organic_fraction_v) + "), worst at " +
+                                      fmt(worst->t_min, 2) + " min";
+                CheckWarning w =
+                    make("column-ph", Sev::warning, "",
+                         where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " +
+                             pct(worst->organic_fraction_v) + " and " + fmt(tr.temperature_c, 0) +
+                             " °C" + span + ", " + (low ? "below" : "above") +
+                             (own != c.method_columns.end() ? " the method's column's range of pH "
+                                                            : " the column's range of pH ") +
+                             fmt(limits->ph_min, 1) + " to " + fmt(limits->ph_max, 1) + ": " +
+                             (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
+                             " The organic moves the pH away from the aqueous buffer's; use a "
+                             "column rated "
+                             "for this pH or change the buffer." +
+                             (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+                w.number("ph", worst->ph_s_w);
+                w.number("ph_s_s", worst->ph_s_s);
+                w.number("ph_min", limits->ph_min);
+                w.number("ph_max", limits->ph_max);
+                add_where(w, tr, *first, *last, *worst);
+                w.text("ph_basis", "eluent s_w pH");
+                out.push_back(w);
+            }
+        }
+        return out;
+    }
+    if (!c.column)
+        return out;
+    const auto used = lines_in_use(*c.input, *c.plan);
+    for (int l = 0; l < max_lines; ++l) {
+        const LineProfile* p = c.profiles[l];
+        if (!used[l] || !p || !p->ph)
+            continue;
+        const double ph = *p->ph;
+        if (ph >= c.column->ph_min && ph <= c.column->ph_max)
+            continue;
+        const bool low = ph < c.column->ph_min;
+        CheckWarning w =
+            make("column-ph", Sev::warning, letter(l),
+                 line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + p->ph_basis + "), " +
+                     (low ? "below" : "above") + " the column's range of pH " +
+                     fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
+                     (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
+                     " Use a column rated for this pH or change the buffer.");
+        w.number("ph", ph);
+        w.number("ph_min", c.column->ph_min);
+        w.number("ph_max", c.column->ph_max);
+        w.text("ph_basis", p->ph_basis);
+        out.push_back(w);
+    }
+    return out;
+}
+
+// (e2) Stretches of the gradient where the eluent is not buffered: its s_s pH more than one unit
+// from every s_s pKa′ of the acid-base systems present.
+std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c) {
+    std::vector<CheckWarning> out;
+    std::vector<EluentTrace> own;
+    const auto& traces = traces_of(c, own);
+    for (const EluentTrace& tr : traces) {
+        if (!tr.has_systems)
+            continue;
+        const auto& pts = tr.points;
+        for (std::size_t i = 0; i < pts.size();) {
+            // No acid-base system at this point (a wash of water and organic): nothing to judge.
+            auto unbuffered = [](const EluentTracePoint& p) {
+                return p.nearest_pka_gap > 1.0 && std::isfinite(p.nearest_pka_gap);
+            };
+            if (!unbuffered(pts[i])) {
+                ++i;
+                continue;
+            }
+            std::size_t j = i;
+            const EluentTracePoint* worst = &pts[i];
+            while (j + 1 < pts.size() && unbuffered(pts[j + 1])) {
+                ++j;
+                if (pts[j].nearest_pka_gap > worst->nearest_pka_gap)
+                    worst = &pts[j];
+            }
+            const std::string where =
+                c.lone_line ? "The line's eluent"
+                            : "In method " + tr.method + ", from " + fmt(pts[i].t_min, 2) + " to " +
+                                  fmt(pts[j].t_min, 2) + " min of each injection (" +
+                                  pct(pts[i].organic_fraction_v) + " to " +
+                                  pct(pts[j].organic_fraction_v) + "), the eluent";
+            CheckWarning w = make(
+                "buffer-range", Sev::caution, "",
+                where + " has s_s pH " + fmt(worst->ph_s_s, 2) + " at " +
+                    pct(worst->organic_fraction_v) + ", " + fmt(worst->nearest_pka_gap, 2) +
+                    " units from the nearest s_s pKa′ (" + tr.systems[worst->nearest_system] + " " +
+                    fmt(worst->nearest_pka, 2) + ")" +
+                    ": outside pKa′ ± 1 the eluent buffers poorly, so the sample or the column can "
+                    "shift its pH and retention. Choose a buffer whose pKa′ in the eluent lies "
+                    "within one unit of its pH." +
+                    (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+            w.number("ph_s_s", worst->ph_s_s);
+            w.number("ph_s_w", worst->ph_s_w);
+            w.number("nearest_pka", worst->nearest_pka);
+            w.number("gap", worst->nearest_pka_gap);
+            w.text("nearest_system", tr.systems[worst->nearest_system]);
+            add_where(w, tr, pts[i], pts[j], *worst);
+            out.push_back(w);
+            i = j + 1;
+        }
+    }
+    return out;
+}
+
+// (f) A line past its shelf life (lab-set default for its kind) before the sequence ends.
+
+} // namespace chem
