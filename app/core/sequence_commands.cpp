@@ -1,0 +1,430 @@
+// The `sequence` subcommand: plan one or several instruments' nights (chem::plan_sequence), run
+// the checks, and write the contract's JSON with clock times and the recipes to batch. The line
+// readers and writers it shares with `line` are in line_commands.cpp (line_internal).
+#include "core/line_commands.h"
+#include "core/line_commands_internal.h"
+
+#include "chem/error.h"
+#include "chem/units.h"
+#include "core/chem_json.h"
+#include "core/date_time.h"
+#include "core/json_util.h"
+#include "core/pressure_commands.h"
+
+#include <QJsonDocument>
+#include <QTimeZone>
+
+#include <algorithm>
+#include <cmath>
+#include <map>
+
+namespace phaseplan {
+
+using namespace line_internal;
+
+// ---------------------------------------------------------------------------------------------
+// sequence
+
+namespace {
+
+struct BatchUse {
+    QString key;
+    QString name;
+    QString label; ///< "A" or "plans[1].A"
+    double required_ml = 0;
+    double prepare_ml = 0; ///< this bottle's min_bottle_ml
+    QDateTime first_use, last_use;
+    double shelf_life_h = 0;
+    QString shelf_kind;
+};
+
+struct PlanResult {
+    QJsonObject out;
+    std::vector<BatchUse> uses;
+};
+
+PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
+                    const CommandOptions& options) {
+    auto P = [&](const char* key) { return json::path(root, key); };
+    chem::SequenceInput in;
+    json::reject_near_misses(doc,
+                             {"lines", "methods", "sequence", "prime_ml", "start", "waste_ml",
+                              "detector", "column", "standby", "safety_margin", "plans",
+                              "instrument"},
+                             root);
+    Clock clock;
+    clock.start = datetime_from_json(doc, "start", root, &clock.has_offset);
+    clock.words = options.clock_words;
+
+    // lines
+    const QJsonObject lines = json::require_object(doc, "lines", root);
+    if (lines.isEmpty())
+        throw chem::Error(P("lines"), "no line defined (give at least one of A, B, C, D)");
+    std::array<std::optional<ParsedLine>, chem::max_lines> parsed;
+    std::array<bool, chem::max_lines> defined{};
+    std::vector<chem::Warning> notes;
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        const std::string lpath = json::path(P("lines"), it.key());
+        const int l = chem::line_index(it.key().toStdString());
+        if (l < 0)
+            throw chem::Error(lpath, "is not a line name (A, B, C or D)");
+        const QJsonObject lo = json::require_object(lines, it.key(), P("lines"));
+        parsed[l] = line_from_json(data, lo, lpath, -1, true, &notes);
+        defined[l] = true;
+        chem::BottleSpec b;
+        b.name = parsed[l]->spec.name;
+        b.bottle_ml = parsed[l]->bottle_ml;
+        b.residue_ml = parsed[l]->residue_ml;
+        in.lines[l] = b;
+    }
+    if (doc.contains("prime_ml")) {
+        const QJsonObject prime = json::require_object(doc, "prime_ml", root);
+        for (auto it = prime.begin(); it != prime.end(); ++it) {
+            const int l = chem::line_index(it.key().toStdString());
+            const std::string at = json::path(P("prime_ml"), it.key());
+            if (l < 0 || !defined[l])
+                throw chem::Error(at,
+                                  "line " + it.key().toStdString() + " is not defined in lines");
+            in.lines[l]->prime_ml = json::require_number(prime, it.key(), P("prime_ml"));
+        }
+    }
+
+    // methods
+    const QJsonObject methods = json::require_object(doc, "methods", root);
+    if (methods.isEmpty())
+        throw chem::Error(P("methods"), "no method defined");
+    for (auto it = methods.begin(); it != methods.end(); ++it) {
+        const std::string mpath = json::path(P("methods"), it.key());
+        const QJsonObject mo = json::require_object(methods, it.key(), P("methods"));
+        chem::Method m = method_from_json(mo, it.key().toStdString(), mpath);
+        in.methods.push_back(std::move(m));
+    }
+
+    // sequence rows
+    const QJsonArray rows = json::require_array(doc, "sequence", root);
+    const std::string spath = P("sequence");
+    for (int i = 0; i < rows.size(); ++i) {
+        const std::string at = json::path(spath, i);
+        const QJsonObject ro = json::element_object(rows, i, spath);
+        json::reject_near_misses(ro, {"method", "injections", "label"}, at);
+        chem::SequenceRow r;
+        r.method = json::require_string(ro, "method", at);
+        r.injections = json::require_int(ro, "injections", at, 1, 1000000);
+        r.label = json::optional_string(ro, "label", at).value_or("");
+        in.rows.push_back(std::move(r));
+    }
+    in.waste_capacity_ml = json::optional_number(doc, "waste_ml", root);
+    in.safety_margin_fraction = json::optional_number(doc, "safety_margin", root).value_or(0.10);
+    const auto detector = detector_from_json(doc, root);
+    const auto column = column_from_json(doc, root);
+
+    std::optional<QDateTime> standby_until;
+    std::optional<QTime>
+        standby_until_time; ///< "07:30": the first such time after the last injection
+    if (doc.contains("standby") && !doc.value("standby").isNull()) {
+        const std::string at = P("standby");
+        const QJsonObject so = json::require_object(doc, "standby", root);
+        json::reject_near_misses(so, {"flow_ml_min", "duration_min", "until", "A", "B", "C", "D"},
+                                 at);
+        chem::Standby sb;
+        sb.flow_ml_min = json::require_number(so, "flow_ml_min", at);
+        const bool has_d = so.contains("duration_min"), has_u = so.contains("until");
+        if (has_d == has_u)
+            throw chem::Error(at, "give either duration_min or until");
+        if (has_d)
+            sb.duration_min = json::require_number(so, "duration_min", at);
+        else if (const QTime tod = time_of_day(so.value("until").toString()); tod.isValid())
+            standby_until_time = tod;
+        else
+            standby_until = datetime_from_json(so, "until", at, nullptr);
+        chem::LineValues p{};
+        bool any = false;
+        for (auto k = so.begin(); k != so.end(); ++k) {
+            const int l = chem::line_index(k.key().toStdString());
+            if (l < 0)
+                continue;
+            p[l] = json::require_number(so, k.key(), at);
+            any = true;
+        }
+        if (any)
+            sb.percent = p;
+        in.standby = sb;
+    }
+
+    // profiles (validates parts and additives), then the plan
+    std::array<chem::LineProfile, chem::max_lines> profiles;
+    chem::SequenceCheckInput c;
+    for (int l = 0; l < chem::max_lines; ++l) {
+        if (!parsed[l])
+            continue;
+        profiles[l] = chem::profile_line(data.solvents, data.reagents, parsed[l]->spec);
+        if (profiles[l].described)
+            c.profiles[l] = &profiles[l];
+        c.names[l] = parsed[l]->spec.name;
+        if (parsed[l]->prepared_at) {
+            c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
+            // A bottle on the instrument is made before the run; a later date is a typing slip
+            // that would silently pass the shelf-life check.
+            if (*c.prepared_at_min[l] > 0)
+                throw chem::Error(parsed[l]->spec.field + ".prepared_at",
+                                  clock.text(*c.prepared_at_min[l]) +
+                                      " is after the sequence start " + clock.text(0));
+        }
+    }
+    chem::SequencePlan plan;
+    try {
+        if (standby_until_time) {
+            // A time of day moves with the start: the first such time at or after the end of the
+            // last injection (the morning after a night's run).
+            auto probe = in;
+            probe.standby.reset();
+            const double end = chem::plan_sequence(probe).total_min;
+            const QDateTime end_at =
+                clock.start.addMSecs(static_cast<qint64>(std::llround(end * 60000.0)));
+            QDateTime until(end_at.date(), *standby_until_time, end_at.timeZone());
+            if (until < end_at)
+                until = until.addDays(1);
+            in.standby->duration_min = clock.start.msecsTo(until) / 60000.0 - end;
+        } else if (standby_until) {
+            // The standby runs from the end of the last injection until the given time.
+            auto probe = in;
+            probe.standby.reset();
+            const double end = chem::plan_sequence(probe).total_min;
+            const double until_min = clock.start.msecsTo(*standby_until) / 60000.0;
+            if (until_min < end)
+                throw chem::Error("standby.until", // the catch below adds the plan's path
+                                  clock.text(until_min) + " is before the last injection ends at " +
+                                      clock.text(end));
+            in.standby->duration_min = until_min - end;
+        }
+        plan = chem::plan_sequence(in);
+    } catch (const chem::Error& e) {
+        rethrow_within(e, root);
+    }
+    c.solvents = &data.solvents;
+    c.input = &in;
+    c.plan = &plan;
+    c.detector = detector;
+    c.column = column;
+    // A method's own column (methods.<name>.column) with a pH range replaces the plan's for it.
+    const QJsonObject methods_doc = doc.value("methods").toObject();
+    for (const chem::Method& m : in.methods) {
+        const QString name = QString::fromStdString(m.name);
+        if (auto own = column_from_json(methods_doc.value(name).toObject(),
+                                        json::path(json::path(root, "methods"), name)))
+            c.method_columns[m.name] = *own;
+    }
+    c.clock = [&clock](double m) { return clock.text(m); };
+    c.name_of = library_names(data);
+    QJsonArray pressure_notes;
+    const auto pressure = sequence_pressure(data, doc, root, in, c.profiles, &pressure_notes);
+    if (!pressure.empty())
+        c.pressure = &pressure;
+    c.reagents = &data.reagents;
+    const std::vector<chem::EluentTrace> traces = chem::eluent_traces(c);
+    c.traces = &traces;
+    const auto checks = chem::check_sequence(c);
+
+    // output
+    PlanResult res;
+    QJsonObject lines_out;
+    for (int l = 0; l < chem::max_lines; ++l) {
+        if (!defined[l])
+            continue;
+        const chem::LinePlan& lp = plan.lines[l];
+        QJsonObject o{
+            {"name", qs(parsed[l]->spec.name)},
+            {"required_ml", lp.required_ml},
+            {"usable_ml", lp.usable_ml},
+            {"runs_dry", lp.runs_dry},
+            {"dry_after_injection",
+             lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
+            {"dry_at", lp.dry_at_min ? QJsonValue(clock.iso(*lp.dry_at_min)) : QJsonValue()},
+            {"dry_at_min", opt(lp.dry_at_min)},
+            {"dry_during",
+             lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
+            {"bottle_ml", in.lines[l]->bottle_ml},
+            {"residue_ml", in.lines[l]->residue_ml},
+            {"prime_ml", lp.prime_ml},
+            {"pumped_ml", lp.pumped_ml},
+            {"spare_ml", lp.spare_ml},
+            {"min_bottle_ml", lp.min_bottle_ml},
+            {"suggested_bottle_ml",
+             lp.suggested_bottle_ml > 0 ? QJsonValue(lp.suggested_bottle_ml) : QJsonValue()}};
+        if (c.profiles[l]) {
+            o["uv_cutoff_nm"] = profiles[l].uv_cutoff_nm;
+            o["ph"] = opt(profiles[l].ph);
+            o["shelf_kind"] = qs(profiles[l].shelf_kind);
+            o["shelf_life_h"] = profiles[l].shelf_life_h;
+        }
+        lines_out[QString(QChar(chem::line_letter(l)))] = o;
+
+        BatchUse u;
+        u.key = parsed[l]->recipe_key;
+        u.name = qs(parsed[l]->spec.name);
+        u.label = root.empty() ? QString(QChar(chem::line_letter(l)))
+                               : qs(root) + "." + QChar(chem::line_letter(l));
+        u.required_ml = lp.required_ml;
+        u.prepare_ml = lp.min_bottle_ml;
+        u.first_use = clock.start;
+        u.last_use =
+            clock.start.addMSecs(static_cast<qint64>(std::llround(plan.total_min * 60000.0)));
+        u.shelf_life_h = c.profiles[l] ? profiles[l].shelf_life_h : 0;
+        u.shelf_kind = c.profiles[l] ? qs(profiles[l].shelf_kind) : QString();
+        res.uses.push_back(u);
+    }
+    QJsonObject methods_out;
+    for (std::size_t i = 0; i < plan.methods.size(); ++i) {
+        const auto& mp = plan.methods[i];
+        QJsonObject mo{{"flow_ml_min", in.methods[i].flow_ml_min},
+                       {"injection_min", mp.injection_min},
+                       {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
+                       {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+        if (i < pressure.size() && pressure[i]) {
+            const QJsonObject p = pressure_trace_to_json(*pressure[i]);
+            mo["max_pressure_bar"] = p.value("max_pressure_bar");
+            mo["max_pressure_at_t_min"] = p.value("max_at_t_min");
+            mo["pressure"] = p;
+        }
+        methods_out[qs(mp.name)] = mo;
+    }
+    QJsonArray rows_out;
+    for (std::size_t i = 0; i < plan.rows.size(); ++i) {
+        const auto& rp = plan.rows[i];
+        rows_out.append(QJsonObject{{"method", qs(in.rows[i].method)},
+                                    {"label", qs(in.rows[i].label)},
+                                    {"injections", rp.injections},
+                                    {"first_injection", rp.first_injection},
+                                    {"last_injection", rp.first_injection + rp.injections - 1},
+                                    {"start", clock.iso(rp.start_min)},
+                                    {"end", clock.iso(rp.end_min)},
+                                    {"volume_ml", per_line(rp.volume_ml, defined)}});
+    }
+    QJsonArray warnings;
+    for (const auto& w : notes)
+        warnings.append(warning_to_json(w));
+    for (int l = 0; l < chem::max_lines; ++l)
+        if (parsed[l])
+            for (const auto& part : parsed[l]->spec.parts)
+                if (part.buffer)
+                    for (const auto& w : part.buffer->warnings) {
+                        QJsonObject o = warning_to_json(w);
+                        o["line"] = QString(QChar(chem::line_letter(l)));
+                        warnings.append(o);
+                    }
+    for (const auto& n : pressure_notes)
+        warnings.append(n);
+    for (const auto& w : checks)
+        warnings.append(check_warning_to_json(w, &clock));
+
+    QJsonObject out{{"start", clock.iso(0)},
+                    {"end", clock.iso(plan.total_min)},
+                    {"total_min", plan.total_min},
+                    {"injections", plan.injections},
+                    {"lines", lines_out},
+                    {"waste_ml", plan.waste_ml},
+                    {"pumped_ml", plan.pumped_ml},
+                    {"prime_ml", plan.prime_ml},
+                    {"standby_min", plan.standby_min},
+                    {"standby_end", clock.iso(plan.total_min + plan.standby_min)},
+                    {"methods", methods_out},
+                    {"rows", rows_out},
+                    {"warnings", warnings}};
+    if (in.waste_capacity_ml)
+        out["waste_capacity_ml"] = *in.waste_capacity_ml;
+    out["eluent_trace"] = eluent_traces_to_json(traces);
+    res.out = out;
+    return res;
+}
+
+/// Sums the lines that share a recipe; warns when one batch would outlive its shelf life.
+QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
+    std::vector<QString> order;
+    std::map<QString, std::vector<const BatchUse*>> by_key;
+    for (const auto& u : uses) {
+        if (!by_key.count(u.key))
+            order.push_back(u.key);
+        by_key[u.key].push_back(&u);
+    }
+    QJsonArray out;
+    for (const QString& key : order) {
+        const auto& list = by_key[key];
+        double required = 0, prepare = 0;
+        QDateTime first = list.front()->first_use, last = list.front()->last_use;
+        QJsonArray labels;
+        for (const BatchUse* u : list) {
+            required += u->required_ml;
+            prepare += u->prepare_ml;
+            first = std::min(first, u->first_use);
+            last = std::max(last, u->last_use);
+            labels.append(u->label);
+        }
+        double suggested = 0;
+        for (double s : chem::common_bottle_sizes_ml())
+            if (s >= prepare) {
+                suggested = s;
+                break;
+            }
+        const double span_h = first.msecsTo(last) / 3.6e6;
+        const double shelf = list.front()->shelf_life_h;
+        QJsonObject b{{"recipe", list.front()->name},
+                      {"lines", labels},
+                      {"required_ml", required},
+                      {"prepare_ml", prepare},
+                      {"suggested_bottle_ml", suggested > 0 ? QJsonValue(suggested) : QJsonValue()},
+                      {"first_use", wall_clock_iso(first)},
+                      {"last_use", wall_clock_iso(last)},
+                      {"span_h", span_h}};
+        if (shelf > 0) {
+            b["shelf_life_h"] = shelf;
+            b["shelf_kind"] = list.front()->shelf_kind;
+            b["one_batch_lasts"] = span_h <= shelf;
+            if (span_h > shelf && warnings && list.size() > 1) {
+                const long long batches =
+                    chem::guard::count_up(span_h / shelf, "batches", "number of batches");
+                warnings->append(QJsonObject{
+                    {"code", "shelf-life"},
+                    {"severity", "warning"},
+                    {"message",
+                     "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
+                         " bottles would be used over " + QString::number(span_h, 'f', 1) +
+                         " h, longer than its shelf life of " + QString::number(shelf, 'f', 0) +
+                         " h (" + list.front()->shelf_kind +
+                         ", a lab-set default): make at least " + QString::number(batches) +
+                         " batches."},
+                    {"recipe", list.front()->name},
+                    {"span_h", span_h},
+                    {"shelf_life_h", shelf},
+                    {"batches", batches}});
+            }
+        }
+        out.append(b);
+    }
+    return out;
+}
+
+} // namespace
+
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
+                             const CommandOptions& options) {
+    if (!input.contains("plans")) {
+        PlanResult r = plan_one(data, input, "", options);
+        r.out["batches"] = batches_of(r.uses, nullptr);
+        return r.out;
+    }
+    const QJsonArray plans = json::require_array(input, "plans", "");
+    if (plans.isEmpty())
+        throw chem::Error("plans", "needs at least one plan");
+    QJsonArray outs, warnings;
+    std::vector<BatchUse> uses;
+    for (int i = 0; i < plans.size(); ++i) {
+        const std::string at = json::path("plans", i);
+        PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at, options);
+        uses.insert(uses.end(), r.uses.begin(), r.uses.end());
+        outs.append(r.out);
+    }
+    const QJsonArray batches = batches_of(uses, &warnings);
+    return QJsonObject{{"plans", outs}, {"batches", batches}, {"warnings", warnings}};
+}
+
+} // namespace phaseplan
