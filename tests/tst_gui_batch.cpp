@@ -110,6 +110,8 @@ class TestGuiBatch : public QObject {
         QVERIFY(m.released());
         QVERIFY2(m.releaseText().startsWith("Released for use: reviewed by "),
                  qPrintable(m.releaseText()));
+        // The second person is the review signature, not a typed "Checked by".
+        QCOMPARE(m.reviewedBy(), QString("Mats Lindqvist (demo-review)"));
         phaseplan::print::PrintController printer;
         printer.setData(&ws->data());
         m.setOutput(&printer);
@@ -147,6 +149,7 @@ class TestGuiBatch : public QObject {
             QVERIFY(v.toMap().value("words").toString().contains("void"));
         }
         QVERIFY(!m.released());
+        QCOMPARE(m.reviewedBy(), QString());
         QCOMPARE(m.releaseText(), phaseplan::BatchRelease::not_released_words());
         const QString after = dir_.filePath("amended-labels.pdf");
         QVERIFY2(m.saveLabels(after, "label62"), qPrintable(m.errorMessage()));

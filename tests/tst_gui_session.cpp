@@ -147,6 +147,12 @@ class TestGuiSession : public QObject {
         const QVariantList h = m.history();
         QVERIFY(!h.isEmpty());
         QCOMPARE(h.first().toMap().value("who").toString(), QString("demo-prep"));
+        // With accounts "Checked by" is not typed: the second person is the review signature.
+        const QString checked_before = m.checkedBy();
+        m.setCheckedBy("Anyone At All");
+        QCOMPARE(m.errorField(), QString("batch.checked_by"));
+        QCOMPARE(m.checkedBy(), checked_before);
+        QCOMPARE(m.reviewedBy(), QString());
         // Locked (the view then passes no login): changes are refused.
         m.setSignedInLogin({});
         QVERIFY(!m.setActual(0, 1.0));

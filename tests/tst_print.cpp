@@ -436,7 +436,20 @@ void TestPrint::releaseIsOnTheSheetAndEveryLabel() {
                       << "Reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02:51 UTC";
     r.released_line =
         "Released for use: reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02 UTC";
+    r.reviewed_by = "Mats Lindqvist (demo-review)";
     const auto released = phaseplan::print::build_print_job(shipped_data(), ok, "now", r);
+    // The paper sign-off names the second person from the holding review, not a typed name;
+    // unreleased, it keeps the document's own "checked_by".
+    auto checked_by = [](const phaseplan::print::PrintJob& job) {
+        for (const auto& b : job.sheet.blocks)
+            if (b.kind == Block::Kind::signoff)
+                for (const auto& f : b.fields)
+                    if (f.key == "Checked by")
+                        return f.value;
+        return QString("(no sign-off)");
+    };
+    QCOMPARE(checked_by(released), QString("Mats Lindqvist (demo-review)"));
+    QCOMPARE(checked_by(unreleased), ok.value("batch").toObject().value("checked_by").toString());
     QVERIFY(!notice_of(released));
     QVERIFY(has_paragraph(released, r.released_line));
     bool listed = false;

@@ -17,6 +17,8 @@ struct BatchRelease {
     QStringList signature_lines;
     /// "Released for use: reviewed by Name (login) 2026-12-02 13:10 UTC"; empty when not released.
     QString released_line;
+    /// Who released it: "Name (login)" of that review; empty when not released.
+    QString reviewed_by;
 
     bool released() const { return !released_line.isEmpty(); }
     /// The words that say why the batch is not released (the sheet and the screen).

@@ -642,6 +642,13 @@ void BatchModel::setExpiresAt(const QString& v) {
 void BatchModel::setCheckedBy(const QString& v) {
     if (!draft_ || draft_->checked_by == v.trimmed())
         return;
+    if (sign_in_required_) {
+        // With accounts the second person is the review signature (reviewedBy), never typed.
+        set_error({QStringLiteral("batch.checked_by"),
+                   tr("Checked by is the person who signs the batch as reviewed; it is not typed "
+                      "here")});
+        return;
+    }
     auto next = *draft_;
     next.checked_by = v.trimmed();
     apply(QStringLiteral("batch.checked_by"), next);

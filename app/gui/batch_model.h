@@ -165,6 +165,9 @@ class BatchModel : public QAbstractListModel {
     Q_PROPERTY(bool released READ released NOTIFY batchChanged)
     /// "Released for use: reviewed by … UTC", or why the batch is not released.
     Q_PROPERTY(QString releaseText READ releaseText NOTIFY batchChanged)
+    /// The second person of the record: "Name (login)" whose review signature releases the
+    /// batch; empty while none holds. With accounts it replaces the typed "Checked by".
+    Q_PROPERTY(QString reviewedBy READ reviewedBy NOTIFY batchChanged)
     /// The database has accounts, so a saved batch can be signed here.
     Q_PROPERTY(bool signingAvailable READ signingAvailable NOTIFY batchChanged)
     /// Every batch in the database, newest first.
@@ -301,6 +304,7 @@ class BatchModel : public QAbstractListModel {
     QVariantList history() const { return history_; }
     QVariantList signatures() const { return signatures_; }
     bool released() const { return release_.released(); }
+    QString reviewedBy() const { return release_.reviewed_by; }
     QString releaseText() const {
         return release_.released() ? release_.released_line : BatchRelease::not_released_words();
     }

@@ -89,7 +89,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     add_line_hazards(data, *doc.line_spec, hz);
     d.blocks << heading("Hazards and cautions") << hz.block()
              << bullets(cautions_with_standard(std_strings(out.value("cautions"))));
-    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
+    d.blocks << heading("Sign-off") << signoff(batch, release) << release_blocks(release);
 
     LabelData label;
     label.title = title;

@@ -60,7 +60,7 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
     }
     d.blocks << heading("Hazards and cautions") << hz.block()
              << bullets(cautions_with_standard(recipe.cautions));
-    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
+    d.blocks << heading("Sign-off") << signoff(batch, release) << release_blocks(release);
 
     LabelData label;
     label.title = title;

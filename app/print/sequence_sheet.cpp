@@ -170,7 +170,7 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
     }
     d.blocks << heading("Hazards and cautions") << all.block()
              << bullets(cautions_with_standard({}));
-    d.blocks << heading("Sign-off") << signoff(batch) << release_blocks(release);
+    d.blocks << heading("Sign-off") << signoff(batch, release) << release_blocks(release);
 
     job.summary = doc.summary;
     return job;

@@ -249,10 +249,12 @@ Block bullets(const QStringList& items) {
     return b;
 }
 
-Block signoff(const chem::Batch& batch) {
+Block signoff(const chem::Batch& batch, const BatchRelease& release) {
     Block sign;
     sign.kind = Block::Kind::signoff;
-    sign.fields = {{"Prepared by", qs(batch.prepared_by)}, {"Checked by", qs(batch.checked_by)}};
+    // Released: the second person is the one whose electronic review holds, not a typed name.
+    sign.fields = {{"Prepared by", qs(batch.prepared_by)},
+                   {"Checked by", release.released() ? release.reviewed_by : qs(batch.checked_by)}};
     return sign;
 }
 

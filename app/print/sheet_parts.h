@@ -127,7 +127,8 @@ Block numbered(const QStringList& items);
 
 Block bullets(const QStringList& items);
 
-Block signoff(const chem::Batch& batch);
+/// The paper sign-off: "Checked by" is the releasing reviewer when the batch is released.
+Block signoff(const chem::Batch& batch, const BatchRelease& release);
 /// The electronic signatures and the release, below the wet-ink sign-off: each signature in the
 /// record's words, then the release, or a boxed notice that the batch is not released.
 QList<Block> release_blocks(const BatchRelease& release);

@@ -21,6 +21,7 @@ BatchRelease release_of(const std::vector<Signature>& signatures) {
             QStringLiteral("Released for use: reviewed by %1 (%2) %3 UTC")
                 .arg(s.display_name, s.login,
                      s.signed_at.left(16).replace(QLatin1Char('T'), QLatin1Char(' ')));
+        out.reviewed_by = QStringLiteral("%1 (%2)").arg(s.display_name, s.login);
         break;
     }
     return out;

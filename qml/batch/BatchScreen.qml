@@ -227,8 +227,20 @@ ScreenPage {
                                 function onEditingFinished() { root.batch.preparedBy = preparedByEntry.field.text }
                             }
                         }
+                        // With accounts the second person is whoever signs the batch as reviewed
+                        // (below), not a name anyone can type.
+                        TextEntry {
+                            objectName: "checkedBySignature"
+                            visible: root.batch.signInRequired
+                            Layout.fillWidth: true
+                            label: qsTr("Checked by")
+                            value: root.batch.reviewedBy
+                            placeholder: qsTr("a second person signs as Reviewed")
+                            field.readOnly: true
+                        }
                         TextEntry {
                             id: checkedByEntry
+                            visible: !root.batch.signInRequired
                             Layout.fillWidth: true
                             label: qsTr("Checked by")
                             value: root.batch.checkedBy
