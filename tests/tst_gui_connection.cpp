@@ -40,8 +40,16 @@ int cut_connections(const QString& uri) {
     return cut;
 }
 
+/// The name of the first sequence row of a plan document.
+QString first_row_name(const QJsonObject& doc) {
+    return doc.value("sequence").toArray().first().toObject().value("name").toString();
+}
 QString run_name(const Plan& plan) {
-    return plan.json().value("sequence").toArray().first().toObject().value("name").toString();
+    return first_row_name(plan.json());
+}
+/// The same of the plan stored in the database, or kept on the tablet ({"name", "document"}).
+QString stored_row_name(const QJsonObject& stored) {
+    return first_row_name(stored.value("document").toObject());
 }
 
 void rename_first_run(Plan& plan, const QString& name) {
@@ -87,16 +95,7 @@ class TestConnection : public QObject {
         QVERIFY(ws->reconnectTimer().isActive());
         QCOMPARE(ws->reconnectTimer().interval(), 5000);
         QCOMPARE(run_name(plan), QString("SST after the server restart"));
-        QCOMPARE(ws->keptLocally("plan")
-                     .value("document")
-                     .toObject()
-                     .value("sequence")
-                     .toArray()
-                     .first()
-                     .toObject()
-                     .value("name")
-                     .toString(),
-                 QString("SST after the server restart"));
+        QCOMPARE(stored_row_name(ws->keptLocally("plan")), QString("SST after the server restart"));
 
         // The timer's next try: the server is up, so the connection opens again, the banner
         // clears and the plan is saved; the tablet's copy goes.
@@ -108,15 +107,7 @@ class TestConnection : public QObject {
         QVERIFY2(!ws->storageNotice().contains("out of reach"), qPrintable(ws->storageNotice()));
         QVERIFY(ws->keptLocally("plan").isEmpty());
         const QJsonObject stored = ws->database()->setting("current_plan").toObject();
-        QCOMPARE(stored.value("document")
-                     .toObject()
-                     .value("sequence")
-                     .toArray()
-                     .first()
-                     .toObject()
-                     .value("name")
-                     .toString(),
-                 QString("SST after the server restart"));
+        QCOMPARE(stored_row_name(stored), QString("SST after the server restart"));
     }
 
     void a_buffer_edit_survives_a_lost_connection() {
@@ -186,17 +177,7 @@ class TestConnection : public QObject {
         plan.flushAutosave();
         QVERIFY(ws->keptLocally("plan").isEmpty());
         QVERIFY(!QFile::exists(ws->unsavedFile()));
-        QCOMPARE(ws->database()
-                     ->setting("current_plan")
-                     .toObject()
-                     .value("document")
-                     .toObject()
-                     .value("sequence")
-                     .toArray()
-                     .first()
-                     .toObject()
-                     .value("name")
-                     .toString(),
+        QCOMPARE(stored_row_name(ws->database()->setting("current_plan").toObject()),
                  QString("kept while the server was away"));
     }
 };

@@ -22,6 +22,7 @@
 #include <QTest>
 #include <QThread>
 #include <QUrl>
+#include <memory>
 
 #include <cstdio>
 
@@ -116,6 +117,32 @@ int run_helper(const QString& mode, const QString& path) {
     }
     return 2;
 }
+
+/// While alive, libpq reads a password file with a wrong password (it reads PGPASSFILE at each
+/// connection) and no PGPASSWORD; both come back afterwards.
+class WrongPasswordFile {
+  public:
+    WrongPasswordFile() : kept_(qgetenv("PGPASSFILE")), kept_pw_(qgetenv("PGPASSWORD")) {
+        QFile wrong(dir_.filePath("pgpass"));
+        if (wrong.open(QIODevice::WriteOnly))
+            wrong.write("*:*:*:*:not-the-password\n");
+        wrong.close();
+        wrong.setPermissions(QFileDevice::ReadOwner | QFileDevice::WriteOwner);
+        qputenv("PGPASSFILE", QFile::encodeName(wrong.fileName()));
+        qunsetenv("PGPASSWORD");
+    }
+    ~WrongPasswordFile() {
+        qputenv("PGPASSFILE", kept_);
+        if (!kept_pw_.isEmpty())
+            qputenv("PGPASSWORD", kept_pw_);
+    }
+    WrongPasswordFile(const WrongPasswordFile&) = delete;
+    WrongPasswordFile& operator=(const WrongPasswordFile&) = delete;
+
+  private:
+    QTemporaryDir dir_;
+    QByteArray kept_, kept_pw_;
+};
 
 } // namespace
 
@@ -657,26 +684,16 @@ class TestStorage : public QObject {
                                    "\"no_such_database_here\""),
                      e.what());
         }
-        // A wrong password in the password file (libpq reads PGPASSFILE at each connection).
-        const QByteArray kept = qgetenv("PGPASSFILE");
-        const QByteArray kept_pw = qgetenv("PGPASSWORD");
-        QTemporaryDir dir;
-        QFile wrong(dir.filePath("pgpass"));
-        QVERIFY(wrong.open(QIODevice::WriteOnly));
-        wrong.write("*:*:*:*:not-the-password\n");
-        wrong.close();
-        wrong.setPermissions(QFileDevice::ReadOwner | QFileDevice::WriteOwner);
-        qputenv("PGPASSFILE", QFile::encodeName(wrong.fileName()));
-        qunsetenv("PGPASSWORD");
+        // A wrong password in the password file.
         QString said;
-        try {
-            Database db(fresh("unused"));
-        } catch (const chem::Error& e) {
-            said = QString::fromStdString(e.what());
+        {
+            WrongPasswordFile wrong;
+            try {
+                Database db(fresh("unused"));
+            } catch (const chem::Error& e) {
+                said = QString::fromStdString(e.what());
+            }
         }
-        qputenv("PGPASSFILE", kept);
-        if (!kept_pw.isEmpty())
-            qputenv("PGPASSWORD", kept_pw);
         QVERIFY2(said.contains("refused the password of user") && said.contains("~/.pgpass"),
                  qPrintable(said));
         QVERIFY2(!said.contains("not-the-password"), qPrintable(said));
@@ -693,16 +710,7 @@ class TestStorage : public QObject {
         QVERIFY(real.open(QIODevice::ReadOnly));
         const QString right = QString::fromUtf8(real.readLine()).trimmed().section(':', 4);
         QVERIFY(!right.isEmpty());
-        const QByteArray kept = qgetenv("PGPASSFILE");
-        const QByteArray kept_pw = qgetenv("PGPASSWORD");
-        QTemporaryDir dir;
-        QFile wrong(dir.filePath("pgpass"));
-        QVERIFY(wrong.open(QIODevice::WriteOnly));
-        wrong.write("*:*:*:*:not-the-password\n");
-        wrong.close();
-        wrong.setPermissions(QFileDevice::ReadOwner | QFileDevice::WriteOwner);
-        qputenv("PGPASSFILE", QFile::encodeName(wrong.fileName()));
-        qunsetenv("PGPASSWORD");
+        auto wrong = std::make_unique<WrongPasswordFile>();
         std::string field, said;
         auto try_open = [&] {
             field.clear();
@@ -724,9 +732,7 @@ class TestStorage : public QObject {
         phaseplan::storage::sql::set_typed_password(right);
         const bool with_right = try_open();
         phaseplan::storage::sql::set_typed_password(QString());
-        qputenv("PGPASSFILE", kept);
-        if (!kept_pw.isEmpty())
-            qputenv("PGPASSWORD", kept_pw);
+        wrong.reset();
         QVERIFY(!with_file_only);
         QCOMPARE(field_file_only, std::string("database.password"));
         QVERIFY(!with_wrong);

@@ -214,40 +214,34 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
                 }
             }
         }
-        if (doc.contains("sit_epsilon")) {
-            const QJsonArray eps = json::require_array(doc, "sit_epsilon", "");
-            for (int i = 0; i < eps.size(); ++i) {
-                const std::string at = json::path("sit_epsilon", i);
-                const QJsonObject e = json::element_object(eps, i, "sit_epsilon");
-                chem::SitEpsilon x;
-                x.cation = json::require_string(e, "cation", at);
-                x.anion = json::require_string(e, "anion", at);
-                x.kg_per_mol = json::require_number(e, "epsilon_kg_per_mol", at);
-                x.source = json::require_string(e, "source", at);
+        // An optional list of objects: `add` reads and adds entry i at path "key[i]"; a chem error
+        // about an entry is named within it.
+        auto each_entry = [&doc](const char* key, const auto& add) {
+            if (!doc.contains(key))
+                return;
+            const QJsonArray list = json::require_array(doc, key, "");
+            for (int i = 0; i < list.size(); ++i) {
+                const std::string at = json::path(key, i);
+                const QJsonObject e = json::element_object(list, i, key);
                 try {
-                    lib.add_sit_epsilon(x);
+                    add(e, at);
                 } catch (const chem::Error& err) {
-                    throw err.within(at);
+                    throw err.field().rfind(std::string(key) + "[", 0) == 0 ? err : err.within(at);
                 }
             }
-        }
-        if (doc.contains("truesdell_jones")) {
-            const QJsonArray sizes = json::require_array(doc, "truesdell_jones", "");
-            for (int i = 0; i < sizes.size(); ++i) {
-                const std::string at = json::path("truesdell_jones", i);
-                const QJsonObject e = json::element_object(sizes, i, "truesdell_jones");
-                chem::IonSize x;
-                x.species = json::require_string(e, "species", at);
-                x.size_angstrom = json::require_number(e, "size_angstrom", at);
-                x.b_kg_per_mol = json::require_number(e, "b_kg_per_mol", at);
-                x.source = json::require_string(e, "source", at);
-                try {
-                    lib.add_ion_size(x);
-                } catch (const chem::Error& err) {
-                    throw err.within(at);
-                }
-            }
-        }
+        };
+        each_entry("sit_epsilon", [&lib](const QJsonObject& e, const std::string& at) {
+            lib.add_sit_epsilon({json::require_string(e, "cation", at),
+                                 json::require_string(e, "anion", at),
+                                 json::require_number(e, "epsilon_kg_per_mol", at),
+                                 json::require_string(e, "source", at)});
+        });
+        each_entry("truesdell_jones", [&lib](const QJsonObject& e, const std::string& at) {
+            lib.add_ion_size({json::require_string(e, "species", at),
+                              json::require_number(e, "size_angstrom", at),
+                              json::require_number(e, "b_kg_per_mol", at),
+                              json::require_string(e, "source", at)});
+        });
         const QJsonArray reagents = json::require_array(doc, "reagents", "");
         for (int i = 0; i < reagents.size(); ++i) {
             const std::string at = json::path("reagents", i);
