@@ -221,6 +221,26 @@ class TestGuiConflictSaves : public QObject {
         QCOMPARE(b.saveAs("Tonight (copy)"), QString());
     }
 
+    void plan_save_does_not_bring_back_a_renamed_buffer() {
+        // The demo plan's line A holds the demo buffer by reference; renaming the buffer and
+        // then saving the plan must not write the plan's copy under the old name again.
+        TwoBenches lab(dir_.filePath("resurrect.sqlite"));
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(lab.a.get());
+        BufferDesigner d;
+        d.setPlan(&plan);
+        d.setWorkspace(lab.a.get());
+        const QString ref = plan.lineBufferRef("A");
+        QVERIFY(!ref.isEmpty());
+        QVERIFY(d.openBuffer(ref));
+        QCOMPARE(d.renameBuffer("Line A buffer"), QString());
+        QCOMPARE(plan.lineBufferRef("A"), QString("Line A buffer"));
+        QCOMPARE(plan.saveAs("Tonight"), QString());
+        QVERIFY(!lab.a->database()->load(DocumentKind::buffer, ref));
+        QVERIFY(lab.a->database()->load(DocumentKind::buffer, "Line A buffer"));
+    }
+
     void saved_list_says_who_changed_each_record_and_when() {
         TwoBenches lab(dir_.filePath("list.sqlite"));
         BufferDesigner b;

@@ -571,12 +571,20 @@ std::vector<storage::SavedDocument> Plan::saved_documents(const QString& n) cons
         const QJsonObject l = it.value().toObject();
         const QString line_name = l.value("name").toString(n + ' ' + it.key());
         docs.push_back({storage::DocumentKind::line, line_name, l, {}});
-        const QJsonObject buffer = lineBuffer(it.key());
-        if (!buffer.isEmpty())
+        for (const QJsonValue& v : l.value("parts").toArray()) {
+            const QJsonObject part = v.toObject();
+            // A part held by reference is a saved buffer of its own (the designer saves it):
+            // writing the plan's copy under the name inside it would bring back a buffer that
+            // was renamed since.
+            if (!part.contains("buffer") || part.contains("buffer_ref"))
+                continue;
+            const QJsonObject buffer = part.value("buffer").toObject();
             docs.push_back({storage::DocumentKind::buffer,
                             buffer.value("name").toString(line_name + " buffer"),
                             buffer,
                             {}});
+            break;
+        }
     }
     return docs;
 }
