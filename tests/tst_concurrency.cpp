@@ -88,6 +88,16 @@ int run_helper(const QString& mode, const QString& where, const QString& who,
         say(QStringLiteral("loaded %1").arg(version));
         std::string go;
         std::getline(std::cin, go);
+        if (mode == "--rename-buffer") { // `value` is the new name
+            try {
+                say(QStringLiteral("saved %1")
+                        .arg(db.rename_checked(DocumentKind::buffer, buffer_name, value, version)));
+                return 0;
+            } catch (const ConflictError& e) {
+                say(QStringLiteral("conflict ") + QString::fromStdString(e.message()));
+                return 1;
+            }
+        }
         QJsonObject mine = loaded;
         mine["volume_ml"] = value.toDouble();
         try {
@@ -248,6 +258,84 @@ class TestConcurrency : public QObject {
             2500.0);
     }
 
+    void stale_rename_is_refused_and_nothing_is_lost() {
+        // Rosa saves the buffer; Mats, who loaded it before, renames it: refused, naming Rosa.
+        const QString where = lab();
+        Bench rosa, mats;
+        QVERIFY2(rosa.start("--edit-buffer", where, "rosa", "1500"), rosa.out);
+        QVERIFY2(mats.start("--rename-buffer", where, "mats", "Line A buffer"), mats.out);
+        QCOMPARE(rosa.save(), 0);
+        QCOMPARE(mats.save(), 1);
+        const QString said = QString::fromUtf8(mats.out);
+        QVERIFY2(said.contains("conflict Buffer \"Phosphate 20 mM pH 2.5\": changed by Rosa Okafor "
+                               "(rosa) at "),
+                 qPrintable(said));
+        Database db(where);
+        QCOMPARE(db.load(DocumentKind::buffer, buffer_name)->value("volume_ml").toDouble(), 1500.0);
+        QVERIFY(!db.load(DocumentKind::buffer, "Line A buffer"));
+        // Both rename from the same version: the first wins, the second is told it is gone.
+        Bench a, b;
+        QVERIFY2(a.start("--rename-buffer", where, "rosa", "Line A buffer"), a.out);
+        QVERIFY2(b.start("--rename-buffer", where, "mats", "Assay buffer"), b.out);
+        QCOMPARE(a.save(), 0);
+        QCOMPARE(b.save(), 1);
+        QVERIFY2(QString::fromUtf8(b.out).contains("was renamed or removed on another bench"),
+                 b.out);
+        QVERIFY(db.load(DocumentKind::buffer, "Line A buffer"));
+        QVERIFY(!db.load(DocumentKind::buffer, "Assay buffer"));
+        QCOMPARE(db.stamp(DocumentKind::buffer, "Line A buffer").version, qint64(3));
+    }
+
+    void taken_names_are_refused_naming_who_saved_them() {
+        // A rename onto a name someone saved, and a save_all whose sequence must be new: refused
+        // with field "name" and the person and time; nothing of either is written (all or none).
+        const QString where = lab();
+        Database db(where);
+        db.set_actor("mats");
+        db.save_checked(DocumentKind::buffer, "Assay buffer", recipe_doc(), "mats's", 0);
+        db.set_actor("rosa");
+        try {
+            db.rename_checked(DocumentKind::buffer, buffer_name, "Assay buffer", 1);
+            QFAIL("a rename onto a taken name went through");
+        } catch (const ConflictError& e) {
+            QCOMPARE(QString::fromStdString(e.field()), QString("name"));
+            const QString said = QString::fromStdString(e.message());
+            QVERIFY2(said.startsWith("A buffer named \"Assay buffer\" was saved by Mats Lindqvist "
+                                     "(mats) at "),
+                     qPrintable(said));
+            QVERIFY2(said.endsWith(" UTC; choose another name, or open it"), qPrintable(said));
+        }
+        QCOMPARE(db.list(DocumentKind::buffer).size(), size_t(2));
+        QCOMPARE(db.info(DocumentKind::buffer, "Assay buffer")->note, QString("mats's"));
+        db.set_actor("mats");
+        db.save_checked(DocumentKind::sequence, "Tonight", QJsonObject{{"note", "mats"}}, {}, 0);
+        db.set_actor("rosa");
+        phaseplan::storage::SavedDocument seq{
+            DocumentKind::sequence, "Tonight", QJsonObject{{"note", "rosa"}}, {}};
+        seq.expected_version = 0;
+        phaseplan::storage::SavedDocument method{
+            DocumentKind::method, "Assay", QJsonObject{{"flow_ml_min", 1.0}}, {}};
+        method.expected_version = 0;
+        try {
+            db.save_all({method, seq});
+            QFAIL("a Save as onto a taken plan name went through");
+        } catch (const ConflictError& e) {
+            QVERIFY2(QString::fromStdString(e.message())
+                         .startsWith("A plan named \"Tonight\" was saved by Mats Lindqvist (mats)"),
+                     e.what());
+        }
+        QCOMPARE(db.load(DocumentKind::sequence, "Tonight")->value("note").toString(),
+                 QString("mats"));
+        QVERIFY(!db.load(DocumentKind::method, "Assay")); // all or none
+        // A stale version in save_all: refused too; the loaded version goes through.
+        seq.expected_version = 1;
+        db.save_all({method, seq});
+        QCOMPARE(db.load(DocumentKind::sequence, "Tonight")->value("note").toString(),
+                 QString("rosa"));
+        QVERIFY_THROWS_EXCEPTION(ConflictError, db.save_all({seq}));
+        QCOMPARE(db.stamp(DocumentKind::sequence, "Tonight").version, qint64(2));
+    }
+
     void same_process_stale_save_is_refused_too() {
         // The check is in the database, not in the helper: a stale version from the same
         // connection is refused as well, and a new name must be new.
@@ -299,7 +387,8 @@ class TestConcurrency : public QObject {
 int main(int argc, char** argv) {
     QCoreApplication app(argc, argv);
     if (argc == 5 &&
-        (QByteArray(argv[1]) == "--edit-batch" || QByteArray(argv[1]) == "--edit-buffer"))
+        (QByteArray(argv[1]) == "--edit-batch" || QByteArray(argv[1]) == "--edit-buffer" ||
+         QByteArray(argv[1]) == "--rename-buffer"))
         return run_helper(QString::fromLocal8Bit(argv[1]), QString::fromLocal8Bit(argv[2]),
                           QString::fromLocal8Bit(argv[3]), QString::fromLocal8Bit(argv[4]));
     TestConcurrency t;

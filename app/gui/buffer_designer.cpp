@@ -114,6 +114,29 @@ void BufferDesigner::set_conflict(const QString& conflict, const QString& notice
     emit conflictChanged();
 }
 
+FieldError BufferDesigner::move_to_name(const QString& old, const QString& name) {
+    storage::Database* db = workspace_->database();
+    const FieldError e = guarded([&] {
+        if (!db->versioned()) {
+            if (!db->rename(storage::DocumentKind::buffer, old, name))
+                db->save(storage::DocumentKind::buffer, name, saved_document());
+            return;
+        }
+        if (loaded_version_ > 0) {
+            loaded_version_ =
+                db->rename_checked(storage::DocumentKind::buffer, old, name, loaded_version_);
+            return;
+        }
+        storage::SavedDocument d{storage::DocumentKind::buffer, name, saved_document(), {}};
+        d.expected_version = 0;
+        db->save_all({d});
+        loaded_version_ = 1;
+    });
+    if (e.field == QLatin1String("version"))
+        set_conflict(e.message, {}); // ours changed or went since it was loaded: Reload or copy
+    return e;
+}
+
 void BufferDesigner::take_stored_version() {
     guarded([&] {
         loaded_version_ =
@@ -335,15 +358,16 @@ QString BufferDesigner::duplicateBuffer(const QString& wanted) {
                                                     : wanted.trimmed();
     if (name.size() > 64)
         return tr("Buffer name: “%1…” is longer than 64 characters").arg(name.left(20));
-    if (workspace_->database()->load(storage::DocumentKind::buffer, name))
-        return tr("Buffer name: “%1” is taken by another saved buffer").arg(name);
     flushAutosave();
     const bool was_auto = auto_name_;
     auto_name_ = false;
     const QString old = buffer_name_;
     buffer_name_ = name;
+    // A new record: a name someone saved meanwhile is refused, naming them (never overwritten).
     const FieldError e = guarded([&] {
-        workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
+        storage::SavedDocument d{storage::DocumentKind::buffer, name, saved_document(), {}};
+        d.expected_version = 0;
+        workspace_->database()->save_all({d});
     });
     if (!e.empty()) {
         buffer_name_ = old;
@@ -381,18 +405,14 @@ QString BufferDesigner::renameBuffer(const QString& wanted) {
         }
         return {};
     }
-    if (workspace_->database()->load(storage::DocumentKind::buffer, name))
-        return tr("Buffer name: “%1” is taken by another saved buffer").arg(name);
     flushAutosave();
+    if (!conflict_.isEmpty())
+        return conflict_; // this buffer's own save was refused: Reload or Save as a copy first
     const QString old = buffer_name_;
-    const FieldError e = guarded([&] {
-        if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
-            workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
-    });
+    const FieldError e = move_to_name(old, name);
     if (!e.empty())
         return e.message;
     buffer_name_ = name;
-    take_stored_version();
     auto_name_ = false;
     dirty_ = true;
     flushAutosave();
@@ -471,16 +491,13 @@ void BufferDesigner::follow_default_name() {
     const QString wanted = defaultName();
     if (wanted == buffer_name_ || buffer_name_.startsWith(wanted + QStringLiteral(" (")))
         return;
+    if (!conflict_.isEmpty())
+        return; // a refused save is on screen: the name waits for Reload or Save as a copy
     const QString name = free_name(wanted);
     const QString old = buffer_name_;
-    const FieldError e = guarded([&] {
-        if (!workspace_->database()->rename(storage::DocumentKind::buffer, old, name))
-            workspace_->database()->save(storage::DocumentKind::buffer, name, saved_document());
-    });
-    if (!e.empty())
+    if (!move_to_name(old, name).empty())
         return;
     buffer_name_ = name;
-    take_stored_version();
     if (plan_)
         plan_->renameBufferRefs(old, name, requestDocument());
     rebuild_buffer_list();

@@ -327,6 +327,10 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     QTimer autosave_;
     bool dirty_ = false;
     qint64 loaded_version_ = 0; ///< the stored version the screen was loaded at (0: new)
+    /// Moves the stored buffer `old` to `name` (a rename from loaded_version_, or a new record
+    /// when it was never saved). A name taken meanwhile is refused (field "name", naming who saved
+    /// it); a buffer changed or removed on another bench sets the conflict (field "version").
+    FieldError move_to_name(const QString& old, const QString& name);
     QString conflict_, remote_notice_;
     void set_conflict(const QString& conflict, const QString& notice);
     /// loaded_version_ from the database, after a save or rename of ours.

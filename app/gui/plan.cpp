@@ -141,6 +141,7 @@ void Plan::restore_state() {
     if (!saved.isEmpty()) {
         name_ = saved.value("name").toString();
         doc_ = saved.value("document").toObject();
+        seen_ = saved.value("versions").toObject();
         if (from_tablet) {
             dirty_ = true;
             autosave_.start();
@@ -156,6 +157,8 @@ void Plan::restore_state() {
         doc_ = starting_tonight(doc_, workspace_->now());
     }
     adopt_inline_buffers();
+    if (seen_.isEmpty())
+        take_stamps(); // a plan kept before versions (or the demo's first run): as stored now
     update_buffer_lines();
     emit documentChanged();
     emit documentReplaced();
@@ -168,8 +171,9 @@ void Plan::flushAutosave() {
         return; // read-only or locked: the banner says so
     autosave_.stop();
     const FieldError e = guarded([&] {
-        workspace_->database()->set_setting(current_plan_key,
-                                            QJsonObject{{"name", name_}, {"document", doc_}});
+        workspace_->database()->set_setting(
+            current_plan_key,
+            QJsonObject{{"name", name_}, {"document", doc_}, {"versions", seen_}});
     });
     if (e.empty()) {
         workspace_->saveSucceeded(QStringLiteral("plan"));
@@ -180,7 +184,7 @@ void Plan::flushAutosave() {
     // the next change: dirty_ stays.
     workspace_->saveFailed(tr("the plan \"%1\"").arg(name_), e.message, e.field,
                            QStringLiteral("plan"),
-                           QJsonObject{{"name", name_}, {"document", doc_}});
+                           QJsonObject{{"name", name_}, {"document", doc_}, {"versions", seen_}});
 }
 
 void Plan::update_buffer_lines() {
@@ -534,6 +538,8 @@ void Plan::load(const QVariantMap& document, const QString& name) {
 void Plan::loadJson(const QJsonObject& document, const QString& name) {
     doc_ = document;
     name_ = name;
+    seen_ = {};
+    set_clash({}, {});
     adopt_inline_buffers();
     dirty_ = true;
     autosave_.start();
@@ -550,36 +556,158 @@ bool Plan::loadSaved(const QString& name) {
     if (!d)
         return false;
     loadJson(*d, name);
+    take_stamps(); // as stored now: the versions a later save starts from
     return true;
 }
 
+std::vector<storage::SavedDocument> Plan::saved_documents(const QString& n) const {
+    std::vector<storage::SavedDocument> docs;
+    docs.push_back({storage::DocumentKind::sequence, n, doc_, {}});
+    const QJsonObject methods = obj(doc_, "methods");
+    for (auto it = methods.begin(); it != methods.end(); ++it)
+        docs.push_back({storage::DocumentKind::method, it.key(), it.value().toObject(), {}});
+    const QJsonObject lines = obj(doc_, "lines");
+    for (auto it = lines.begin(); it != lines.end(); ++it) {
+        const QJsonObject l = it.value().toObject();
+        const QString line_name = l.value("name").toString(n + ' ' + it.key());
+        docs.push_back({storage::DocumentKind::line, line_name, l, {}});
+        for (const QJsonValue& v : l.value("parts").toArray()) {
+            const QJsonObject part = v.toObject();
+            // A part held by reference is a saved buffer of its own (the designer saves it):
+            // writing the plan's copy under the name inside it would bring back a buffer that
+            // was renamed since.
+            if (!part.contains("buffer") || part.contains("buffer_ref"))
+                continue;
+            const QJsonObject buffer = part.value("buffer").toObject();
+            docs.push_back({storage::DocumentKind::buffer,
+                            buffer.value("name").toString(line_name + " buffer"),
+                            buffer,
+                            {}});
+            break;
+        }
+    }
+    return docs;
+}
+
+namespace {
+QString stamp_key(const storage::SavedDocument& d) {
+    return storage::kind_name(d.kind) + ':' + d.name.trimmed();
+}
+} // namespace
+
+QJsonObject Plan::stamps_of(const std::vector<storage::SavedDocument>& docs) const {
+    QJsonObject out;
+    for (const storage::SavedDocument& d : docs)
+        out.insert(stamp_key(d), double(workspace_->database()->stamp(d.kind, d.name).version));
+    return out;
+}
+
+void Plan::take_stamps() {
+    seen_ = {};
+    if (!workspace_ || !workspace_->database() || name_.trimmed().isEmpty())
+        return;
+    guarded([&] { seen_ = stamps_of(saved_documents(name_.trimmed())); });
+}
+
+void Plan::set_clash(const QString& message, const QString& name) {
+    if (message == clash_ && name == clash_name_)
+        return;
+    clash_ = message;
+    clash_name_ = name;
+    if (message.isEmpty())
+        offered_ = {};
+    emit saveClashChanged();
+}
+
 QString Plan::saveAs(const QString& name) {
+    return save_documents(name.trimmed(), false);
+}
+
+QString Plan::replaceSaved() {
+    if (clash_name_.isEmpty())
+        return tr("nothing was refused: save the plan first");
+    return save_documents(clash_name_, true);
+}
+
+QString Plan::saveAsCopy() {
     if (!workspace_ || !workspace_->database())
         return tr("no database is open");
-    const QString n = name.trimmed();
+    const QString base =
+        (clash_name_.isEmpty() ? name_ : clash_name_).trimmed().left(storage::max_name_chars - 12);
+    QString n = base + tr(" (copy)");
+    for (int i = 2; workspace_->database()->stamp(storage::DocumentKind::sequence, n).version > 0 ||
+                    workspace_->database()->load(storage::DocumentKind::sequence, n);
+         ++i)
+        n = base + tr(" (copy %1)").arg(i);
+    return save_documents(n, false);
+}
+
+bool Plan::openClashing() {
+    if (clash_name_.isEmpty())
+        return false;
+    return loadSaved(clash_name_);
+}
+
+QString Plan::save_documents(const QString& n, bool replace) {
+    if (!workspace_ || !workspace_->database())
+        return tr("no database is open");
+    std::vector<storage::SavedDocument> all;
+    std::vector<storage::SavedDocument> docs;
+    QStringList kept;
     const FieldError e = guarded([&] {
-        std::vector<storage::SavedDocument> docs;
-        docs.push_back({storage::DocumentKind::sequence, n, doc_, {}});
-        const QJsonObject methods = obj(doc_, "methods");
-        for (auto it = methods.begin(); it != methods.end(); ++it)
-            docs.push_back({storage::DocumentKind::method, it.key(), it.value().toObject(), {}});
-        const QJsonObject lines = obj(doc_, "lines");
-        for (auto it = lines.begin(); it != lines.end(); ++it) {
-            const QJsonObject l = it.value().toObject();
-            const QString line_name = l.value("name").toString(n + ' ' + it.key());
-            docs.push_back({storage::DocumentKind::line, line_name, l, {}});
-            const QJsonObject buffer = lineBuffer(it.key());
-            if (!buffer.isEmpty())
-                docs.push_back({storage::DocumentKind::buffer,
-                                buffer.value("name").toString(line_name + " buffer"),
-                                buffer,
-                                {}});
+        all = saved_documents(n);
+        storage::Database* db = workspace_->database();
+        for (storage::SavedDocument d : all) {
+            const QString key = stamp_key(d);
+            if (d.kind != storage::DocumentKind::sequence) {
+                // A line or method exactly as stored is not written: no clash with another
+                // plan that holds the same one.
+                if (db->load(d.kind, d.name) == d.document)
+                    continue;
+                // One saved or changed elsewhere since this plan was loaded is kept as it is
+                // (the plan holds its own copy), and the note says so: never overwritten.
+                const qint64 seen = seen_.value(key).toInteger(0);
+                const storage::RowStamp now = db->stamp(d.kind, d.name);
+                if (now.version > 0 && now.version != seen) {
+                    kept << tr("%1 “%2” (%3, %4)")
+                                .arg(storage::kind_name(d.kind), d.name,
+                                     storage::person_words(db->connection(), now.changed_by),
+                                     storage::utc_time_words(now.changed_at));
+                    continue;
+                }
+                d.expected_version = now.version; // checked again inside the transaction
+            } else if (replace) {
+                d.expected_version = offered_.value(key).toInteger(0);
+            } else if (n != name_.trimmed()) {
+                d.expected_version = 0; // Save as under another name: it must be new
+            } else {
+                d.expected_version = seen_.value(key).toInteger(0);
+            }
+            docs.push_back(d);
         }
-        workspace_->database()->save_all(docs);
+        db->save_all(docs);
     });
-    if (!e.empty())
+    if (!e.empty()) {
+        if (e.field == QLatin1String("version") || e.field == QLatin1String("name")) {
+            // What the refusal was told about: a Replace from here overwrites only these.
+            QJsonObject offered;
+            guarded([&] { offered = stamps_of(all); });
+            set_clash(e.message, n);
+            offered_ = offered;
+        }
         return e.message;
+    }
     name_ = n;
+    take_stamps();
+    set_clash({}, {});
+    const QString note = kept.isEmpty()
+                             ? QString()
+                             : tr("Kept as saved elsewhere (this plan holds its own copy): %1.")
+                                   .arg(kept.join(QStringLiteral("; ")));
+    if (note != save_note_) {
+        save_note_ = note;
+        emit saveClashChanged();
+    }
     dirty_ = true;
     flushAutosave();
     emit documentChanged();

@@ -183,9 +183,32 @@ class Plan : public QObject {
     void loadJson(const QJsonObject& document, const QString& name);
     /// Opens a saved sequence by name; false when there is none.
     Q_INVOKABLE bool loadSaved(const QString& name);
-    /// Saves the sequence with its methods, lines and their buffers in one transaction.
-    /// Returns "" or the error message.
+    /// Saves the sequence with its methods, lines and their buffers in one transaction. The
+    /// sequence from the version it was loaded at (0 under a new name): a name saved by someone
+    /// else, or the plan changed on another bench since it was loaded here, is refused (saveClash)
+    /// and nothing is written. Lines and methods identical to what is stored are not written;
+    /// ones saved or changed elsewhere since this plan was loaded are kept as they are
+    /// (saveNote). Returns "" or the error message.
     Q_INVOKABLE QString saveAs(const QString& name);
+    /// After a refused saveAs(name): overwrite what was refused, on purpose, from the versions
+    /// the refusal named. Refused again if it changed once more since. "" or the message.
+    Q_INVOKABLE QString replaceSaved();
+    /// After a refused saveAs: save this plan under the first free "<name> (copy)" instead.
+    Q_INVOKABLE QString saveAsCopy();
+    /// After a refused saveAs: open the stored plan of that name (drops the edits here).
+    Q_INVOKABLE bool openClashing();
+    /// The last refusal of saveAs ("A plan named … was saved by … at …; choose another name, or
+    /// open it", or "Plan …: changed by … after you opened it; …"), empty after a save.
+    Q_PROPERTY(QString saveClash READ saveClash NOTIFY saveClashChanged)
+    QString saveClash() const { return clash_; }
+    /// The name the refusal was about.
+    Q_PROPERTY(QString saveClashName READ saveClashName NOTIFY saveClashChanged)
+    QString saveClashName() const { return clash_name_; }
+    /// After a save: the lines and methods not written because they were saved or changed
+    /// elsewhere since this plan was loaded ("Kept as saved elsewhere …: line “Acetonitrile”
+    /// (Rosa Okafor (demo-prep), 2026-12-02 19:04 UTC)."); empty when all were written.
+    Q_PROPERTY(QString saveNote READ saveNote NOTIFY saveClashChanged)
+    QString saveNote() const { return save_note_; }
 
     QJsonObject line(const QString& letter) const;
     Q_INVOKABLE QVariantMap lineDocument(const QString& letter) const {
@@ -280,6 +303,7 @@ class Plan : public QObject {
   signals:
     void workspaceChanged();
     void documentChanged();
+    void saveClashChanged();
     /// The whole document was replaced: views reload what they show.
     void documentReplaced();
     void resultChanged();
@@ -307,6 +331,17 @@ class Plan : public QObject {
     bool restore_ = false;
     QString name_;
     QJsonObject doc_;
+    /// The stored versions this plan was loaded (or last saved) at, "kind:name" → version (0:
+    /// absent then), for the sequence and the lines and methods it saves. Kept with the autosave.
+    QJsonObject seen_;
+    /// The last refused saveAs: its message, its name, and the stored versions then.
+    QString clash_, clash_name_, save_note_;
+    QJsonObject offered_;
+    std::vector<phaseplan::storage::SavedDocument> saved_documents(const QString& name) const;
+    QJsonObject stamps_of(const std::vector<phaseplan::storage::SavedDocument>& docs) const;
+    void take_stamps(); ///< seen_ from the database, for name_ and the current document
+    void set_clash(const QString& message, const QString& name);
+    QString save_documents(const QString& name, bool replace);
     QVariantList buffer_lines_;
     void update_buffer_lines(); ///< and the lists of lines and methods
     QStringList shown_letters_, shown_methods_;

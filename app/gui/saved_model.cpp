@@ -83,6 +83,7 @@ void SavedWorkModel::refresh() {
     if (workspace_ && workspace_->database()) {
         const QStringList words = search_.toLower().split(' ', Qt::SkipEmptyParts);
         const QLocale loc;
+        QHash<QString, QString> people; // login → words, one look-up each
         for (const storage::DocumentInfo& i : workspace_->database()->list_all()) {
             const QString kind = storage::kind_name(i.kind);
             if (kind_ != QLatin1String("all") && kind != kind_)
@@ -95,9 +96,18 @@ void SavedWorkModel::refresh() {
                 continue;
             const QJsonObject d =
                 workspace_->database()->load(i.kind, i.name).value_or(QJsonObject());
+            QString changed;
+            if (!i.changed_by.trimmed().isEmpty()) {
+                auto who = people.find(i.changed_by);
+                if (who == people.end())
+                    who = people.insert(
+                        i.changed_by,
+                        storage::person_words(workspace_->database()->connection(), i.changed_by));
+                changed = tr("changed by %1, %2").arg(*who, storage::utc_time_words(i.changed_at));
+            }
             rows_.push_back({kind, i.name, i.note,
                              loc.toString(i.updated_at.toLocalTime(), QLocale::ShortFormat),
-                             summary_of(i.kind, d)});
+                             summary_of(i.kind, d), changed});
         }
     }
     endResetModel();
@@ -109,11 +119,8 @@ int SavedWorkModel::rowCount(const QModelIndex& parent) const {
 }
 
 QHash<int, QByteArray> SavedWorkModel::roleNames() const {
-    return {{KindRole, "kind"},
-            {NameRole, "name"},
-            {NoteRole, "note"},
-            {UpdatedRole, "updated"},
-            {SummaryRole, "summary"}};
+    return {{KindRole, "kind"},       {NameRole, "name"},       {NoteRole, "note"},
+            {UpdatedRole, "updated"}, {SummaryRole, "summary"}, {ChangedRole, "changed"}};
 }
 
 QVariant SavedWorkModel::data(const QModelIndex& index, int role) const {
@@ -131,6 +138,8 @@ QVariant SavedWorkModel::data(const QModelIndex& index, int role) const {
         return r.updated;
     case SummaryRole:
         return r.summary;
+    case ChangedRole:
+        return r.changed;
     }
     return {};
 }

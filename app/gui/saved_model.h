@@ -25,7 +25,15 @@ class SavedWorkModel : public QAbstractListModel {
     Q_PROPERTY(int count READ count NOTIFY countChanged)
 
   public:
-    enum Role { KindRole = Qt::UserRole + 1, NameRole, NoteRole, UpdatedRole, SummaryRole };
+    enum Role {
+        KindRole = Qt::UserRole + 1,
+        NameRole,
+        NoteRole,
+        UpdatedRole,
+        SummaryRole,
+        ChangedRole ///< "changed by Mats Lindqvist (demo-review), 2026-12-02 19:04 UTC"; "" before
+                    ///< versions or when nobody is recorded
+    };
     Q_ENUM(Role)
 
     explicit SavedWorkModel(QObject* parent = nullptr);
@@ -53,7 +61,7 @@ class SavedWorkModel : public QAbstractListModel {
 
   private:
     struct Row {
-        QString kind, name, note, updated, summary;
+        QString kind, name, note, updated, summary, changed;
     };
     QPointer<Workspace> workspace_;
     QString search_, kind_ = QStringLiteral("all");

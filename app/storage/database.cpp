@@ -689,9 +689,14 @@ void check_name(DocumentKind kind, const QString& name) {
                                       std::to_string(max_name_chars) + ")");
 }
 
-/// "Buffer \"Phosphate 25 mM\"", for the conflict sentence.
+/// "plan", "buffer", "line", "method": a kind as the screens name it.
+QString kind_words(DocumentKind kind) {
+    return kind == DocumentKind::sequence ? QStringLiteral("plan") : kind_name(kind);
+}
+
+/// "Buffer \"Phosphate 25 mM\"", "Plan \"Tonight\"", for the conflict sentence.
 QString record_words(DocumentKind kind, const QString& name) {
-    QString k = kind_name(kind);
+    QString k = kind_words(kind);
     k[0] = k[0].toUpper();
     return QStringLiteral("%1 \"%2\"").arg(k, name);
 }
@@ -758,31 +763,36 @@ qint64 Database::save_checked(DocumentKind kind, const QString& name_in,
         save(kind, name, document, note_in);
         return 0;
     }
-    const QString note = note_in.isNull() ? QStringLiteral("") : note_in;
     Transaction t(*this);
-    const QString now = sql::utc_now(db_);
-    qint64 stored = 0;
+    const qint64 stored = write_checked(kind, name, document, note_in, expected_version,
+                                        sql::utc_now(db_), QString());
+    t.commit();
+    return stored;
+}
+
+qint64 Database::write_checked(DocumentKind kind, const QString& name, const QJsonObject& document,
+                               const QString& note_in, qint64 expected_version, const QString& now,
+                               const QString& taken_words) {
+    const QString note = note_in.isNull() ? QStringLiteral("") : note_in;
     if (expected_version <= 0) {
         const RowStamp theirs = stamp(kind, name);
         if (theirs.version > 0)
-            throw conflict_error(db_, record_words(kind, name), theirs);
+            throw taken_words.isEmpty() ? conflict_error(db_, record_words(kind, name), theirs)
+                                        : name_taken_error(db_, taken_words, name, theirs);
         exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at,"
                             " version, changed_by, changed_at) VALUES (?, ?, ?, ?, ?, 1, ?, ?)")
                  .arg(QLatin1String(table_of(kind))),
              {name, to_text(document), note, now, now, actor_, now});
-        stored = 1;
-    } else {
-        QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET document = ?, note = ?, updated_at = ?,"
-                                          " version = version + 1, changed_by = ?, changed_at = ?"
-                                          " WHERE name = ? AND version = ?")
-                               .arg(QLatin1String(table_of(kind))),
-                           {to_text(document), note, now, actor_, now, name, expected_version});
-        if (q.numRowsAffected() != 1)
-            throw conflict_error(db_, record_words(kind, name), stamp(kind, name));
-        stored = expected_version + 1;
+        return 1;
     }
-    t.commit();
-    return stored;
+    QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET document = ?, note = ?, updated_at = ?,"
+                                      " version = version + 1, changed_by = ?, changed_at = ?"
+                                      " WHERE name = ? AND version = ?")
+                           .arg(QLatin1String(table_of(kind))),
+                       {to_text(document), note, now, actor_, now, name, expected_version});
+    if (q.numRowsAffected() != 1)
+        throw conflict_error(db_, record_words(kind, name), stamp(kind, name));
+    return expected_version + 1;
 }
 
 void Database::save(DocumentKind kind, const QString& name, const QJsonObject& document,
@@ -793,8 +803,17 @@ void Database::save(DocumentKind kind, const QString& name, const QJsonObject& d
 void Database::save_all(const std::vector<SavedDocument>& documents) {
     Transaction t(*this);
     const QString now = sql::utc_now(db_);
-    for (const SavedDocument& d : documents)
-        upsert_document(d, now);
+    const bool v = versioned();
+    for (const SavedDocument& d : documents) {
+        if (d.expected_version < 0 || !v) {
+            upsert_document(d, now);
+            continue;
+        }
+        const QString name = d.name.trimmed();
+        check_name(d.kind, name);
+        write_checked(d.kind, name, d.document, d.note, d.expected_version, now,
+                      kind_words(d.kind));
+    }
     t.commit();
 }
 
@@ -891,6 +910,36 @@ bool Database::rename(DocumentKind kind, const QString& old_name, const QString&
     const bool renamed = q.numRowsAffected() > 0;
     t.commit();
     return renamed;
+}
+
+qint64 Database::rename_checked(DocumentKind kind, const QString& old_name_in,
+                                const QString& new_name, qint64 expected_version) {
+    const QString to = new_name.trimmed();
+    const QString from = old_name_in.trimmed();
+    if (to.isEmpty())
+        throw chem::Error("name", "the new name must not be empty");
+    check_name(kind, to);
+    if (!versioned()) {
+        if (!rename(kind, from, to))
+            throw chem::Error("name", "\"" + from.toStdString() + "\" is not saved");
+        return 0;
+    }
+    Transaction t(*this);
+    if (to != from) {
+        const RowStamp taken = stamp(kind, to);
+        if (taken.version > 0)
+            throw name_taken_error(db_, kind_words(kind), to, taken);
+    }
+    const QString now = sql::utc_now(db_);
+    QSqlQuery q =
+        exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = version + 1,"
+                            " changed_by = ?, changed_at = ? WHERE name = ? AND version = ?")
+                 .arg(QLatin1String(table_of(kind))),
+             {to, now, actor_, now, from, expected_version});
+    if (q.numRowsAffected() != 1)
+        throw conflict_error(db_, record_words(kind, from), stamp(kind, from));
+    t.commit();
+    return expected_version + 1;
 }
 
 // ---- settings -------------------------------------------------------------------------------

@@ -56,6 +56,10 @@ struct SavedDocument {
     QString name;
     QJsonObject document;
     QString note;
+    /// For save_all: -1 writes whatever is stored (the demo, imports); 0 means the name must be
+    /// new (refused with name_taken_error otherwise); above 0, the version it was loaded at
+    /// (refused with conflict_error when the stored one differs).
+    qint64 expected_version = -1;
 };
 
 /// One library entry: a reagent, system, solvent or additive, as the object of its data/ file.
@@ -176,7 +180,9 @@ class Database {
     void save(DocumentKind kind, const QString& name, const QJsonObject& document,
               const QString& note = {});
     /// Saves several documents in one transaction: all or none land (a sequence with its methods,
-    /// lines and buffers).
+    /// lines and buffers). Each document's expected_version is checked as save_checked does (a
+    /// taken name for 0 throws name_taken_error, field "name"); the first refusal throws and
+    /// nothing is written.
     void save_all(const std::vector<SavedDocument>& documents);
     std::optional<QJsonObject> load(DocumentKind kind, const QString& name) const;
     std::optional<DocumentInfo> info(DocumentKind kind, const QString& name) const;
@@ -189,6 +195,12 @@ class Database {
     /// Throws chem::Error("name", …) when `new_name` is taken or empty; false when `old_name` is
     /// absent.
     bool rename(DocumentKind kind, const QString& old_name, const QString& new_name);
+    /// Renames only if nobody saved `old_name` since it was loaded at `expected_version`, and
+    /// `new_name` is free. Throws name_taken_error (field "name", naming who saved that name and
+    /// when) or conflict_error (field "version": the record changed or was removed); nothing is
+    /// written then. Returns the version now stored under `new_name`.
+    qint64 rename_checked(DocumentKind kind, const QString& old_name, const QString& new_name,
+                          qint64 expected_version);
 
     // ---- settings ---------------------------------------------------------------------------
     void set_setting(const QString& key, const QJsonValue& value);
@@ -264,6 +276,11 @@ class Database {
     std::optional<QString> bounded(const QString& source, const QString& name,
                                    const QString& text) const;
     void upsert_document(const SavedDocument& d, const QString& now);
+    /// save_checked's write, inside the caller's transaction; `taken_words` (a kind in words)
+    /// turns a taken name for version 0 into name_taken_error.
+    qint64 write_checked(DocumentKind kind, const QString& name, const QJsonObject& document,
+                         const QString& note, qint64 expected_version, const QString& now,
+                         const QString& taken_words);
     std::vector<DocumentInfo> list_where(DocumentKind kind) const;
 
     QString path_;

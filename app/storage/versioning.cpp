@@ -75,8 +75,8 @@ bool has_versioning(QSqlDatabase db) {
 }
 
 ConflictError::ConflictError(const QString& message, RowStamp theirs, QString person_words,
-                             QString time_words)
-    : chem::Error("version", message.toStdString()), theirs_(std::move(theirs)),
+                             QString time_words, const std::string& field)
+    : chem::Error(field, message.toStdString()), theirs_(std::move(theirs)),
       person_(std::move(person_words)), time_(std::move(time_words)) {}
 
 QString person_words(QSqlDatabase db, const QString& login) {
@@ -103,8 +103,9 @@ QString utc_time_words(const QString& utc_iso) {
 ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowStamp& theirs) {
     if (theirs.version == 0)
         return ConflictError(
-            QStringLiteral("%1 was removed on another bench after you opened it; save yours as a "
-                           "copy to keep your edits")
+            QStringLiteral(
+                "%1 was renamed or removed on another bench after you opened it; save yours as a "
+                "copy to keep your edits")
                 .arg(record),
             theirs, QStringLiteral("someone"), QStringLiteral("an unknown time"));
     const QString person = person_words(db, theirs.changed_by);
@@ -113,6 +114,18 @@ ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowSt
                                         "or save yours as a copy")
                              .arg(record, person, time),
                          theirs, person, time);
+}
+
+ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QString& name,
+                               const RowStamp& theirs) {
+    const QString person = person_words(db, theirs.changed_by);
+    const QString time = utc_time_words(theirs.changed_at);
+    const QString article =
+        QStringLiteral("aeiou").contains(what.left(1)) ? QStringLiteral("An") : QStringLiteral("A");
+    return ConflictError(QStringLiteral("%1 %2 named \"%3\" was saved by %4 at %5; choose another "
+                                        "name, or open it")
+                             .arg(article, what, name, person, time),
+                         theirs, person, time, "name");
 }
 
 qint64 change_counter(QSqlDatabase db) {

@@ -25,6 +25,8 @@
 #include <QString>
 #include <QStringList>
 
+#include <string>
+
 namespace phaseplan::storage {
 
 /// The schema step that adds versions (app/storage/migrations.cpp). Written only here: at a merge
@@ -52,8 +54,8 @@ struct RowStamp {
 /// "version"; message() is the sentence the user reads.
 class ConflictError : public chem::Error {
   public:
-    ConflictError(const QString& message, RowStamp theirs, QString person_words,
-                  QString time_words);
+    ConflictError(const QString& message, RowStamp theirs, QString person_words, QString time_words,
+                  const std::string& field = "version");
     /// The row as it is now in the database (version 0: removed).
     const RowStamp& theirs() const { return theirs_; }
     /// "Mats Lindqvist (demo-review)", or the name as recorded.
@@ -75,6 +77,13 @@ QString utc_time_words(const QString& utc_iso);
 /// Builds the error for `record` ("Batch HR-20261202-001", "Buffer \"Phosphate 25 mM\""): the
 /// sentence names who changed it and when, and says what to do.
 ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowStamp& theirs);
+
+/// A save under a name that is taken (a Save as, a rename, a new record): field "name", and the
+/// sentence names who saved that name and when: "A plan named \"Tonight\" was saved by Rosa
+/// Okafor (demo-prep) at 2026-12-02 19:04 UTC; choose another name, or open it". `what` is the
+/// kind in words ("plan", "buffer", "line", "method").
+ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QString& name,
+                               const RowStamp& theirs);
 
 /// The database's change counter (0 before the step): moves on every write of a versioned row or
 /// a signature, on any bench.

@@ -41,12 +41,54 @@ ScreenPage {
                 label: qsTr("Plan name")
                 value: root.plan.name
             }
+            // A refused save, under the name it was about: who saved that name (or changed the
+            // plan) and when. Overwriting theirs is a choice of its own, never a side effect.
+            ColumnLayout {
+                objectName: "planSaveClash"
+                Layout.fillWidth: true
+                visible: root.plan.saveClash.length > 0
+                spacing: Theme.gap
+                Label {
+                    Layout.fillWidth: true
+                    text: root.plan.saveClash
+                    color: Theme.bad
+                    wrapMode: Text.Wrap
+                    font.pixelSize: Theme.fontSize
+                }
+                Flow {
+                    Layout.fillWidth: true
+                    spacing: Theme.gap
+                    TouchButton {
+                        text: qsTr("Open theirs")
+                        Accessible.name: qsTr("Open the saved plan %1, dropping the edits here").arg(root.plan.saveClashName)
+                        onClicked: {
+                            if (root.plan.openClashing())
+                                root.open("sequence")
+                        }
+                    }
+                    TouchButton {
+                        text: qsTr("Save as a copy")
+                        onClicked: {
+                            var e = root.plan.saveAsCopy()
+                            saveCard.status = e.length === 0 ? qsTr("Plan saved as “%1”.").arg(root.plan.name) : e
+                        }
+                    }
+                    TouchButton {
+                        text: qsTr("Replace theirs")
+                        Accessible.name: qsTr("Replace the saved plan %1 with this one").arg(root.plan.saveClashName)
+                        onClicked: {
+                            var e = root.plan.replaceSaved()
+                            saveCard.status = e.length === 0 ? (qsTr("Plan saved; the earlier one is replaced.") + " " + root.plan.saveNote).trim() : ""
+                        }
+                    }
+                }
+            }
             TouchButton {
                 text: qsTr("Save plan with its lines and methods")
                 highlighted: true
                 onClicked: {
                     var e = root.plan.saveAs(planName.field.text)
-                    saveCard.status = e.length === 0 ? qsTr("Plan saved.") : e
+                    saveCard.status = e.length === 0 ? (qsTr("Plan saved.") + " " + root.plan.saveNote).trim() : ""
                 }
             }
             TextEntry {
@@ -112,6 +154,7 @@ ScreenPage {
                         required property string name
                         required property string summary
                         required property string updated
+                        required property string changed
                         width: entryList.width
                         spacing: Theme.gap
                         ColumnLayout {
@@ -125,7 +168,8 @@ ScreenPage {
                             }
                             Label {
                                 Layout.fillWidth: true
-                                text: entry.kind + " · " + entry.summary + " · " + entry.updated
+                                text: entry.kind + " · " + entry.summary + " · "
+                                      + (entry.changed.length > 0 ? entry.changed : entry.updated)
                                 color: Theme.dimText
                                 font.pixelSize: Theme.smallFont
                                 wrapMode: Text.Wrap
