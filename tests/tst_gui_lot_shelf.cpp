@@ -9,6 +9,7 @@
 
 #include <QCoreApplication>
 #include <QSettings>
+#include <QSignalSpy>
 #include <QTemporaryDir>
 #include <QTest>
 
@@ -59,6 +60,7 @@ class TstGuiLotShelf : public QObject {
         QCOMPARE(role_of(m, "PA-90417", LotShelfModel::OpenedOnRole), QString());
         QCOMPARE(role_of(m, "PA-88112", LotShelfModel::SupplierRole), QString("Veldmark Reagents"));
         QCOMPARE(role_of(m, "PA-88112", LotShelfModel::QuantityRole), QString("1 L"));
+        QCOMPARE(role_of(m, "SP-2391", LotShelfModel::QuantityRole), QString("1000 g"));
         const QString name =
             QString::fromStdString(ws->data().reagents.find_reagent("phosphoric-acid")->name);
         QCOMPARE(role_of(m, "PA-88112", LotShelfModel::ReagentNameRole), name);
@@ -76,7 +78,14 @@ class TstGuiLotShelf : public QObject {
         const QVariantList filters = m.filterChoices();
         QCOMPARE(filters.size(), 3); // all, and the demo's two reagents with lots
         QCOMPARE(filters.at(0).toMap().value("id").toString(), QString());
-        QVERIFY(!m.reagentChoices().isEmpty());
+        // The reagent chooser: the library's reagents and solvents, found by words of the name.
+        const QVariantList all = m.reagentChoices();
+        QVERIFY(all.size() > 10);
+        const QVariantList found = m.reagentChoices("PHOSPHORIC 85");
+        QCOMPARE(found.size(), 1);
+        QCOMPARE(found.at(0).toMap().value("id").toString(), QString("phosphoric-acid"));
+        QVERIFY(!m.reagentChoices("acetonitrile").isEmpty()); // a solvent has lots too
+        QVERIFY(m.reagentChoices("no such reagent").isEmpty());
     }
 
     /// Nobody signed in on a database with accounts: nothing is written.
@@ -130,11 +139,17 @@ class TstGuiLotShelf : public QObject {
         QCOMPARE(m.count(), 5);
         QVERIFY(trail_of(*ws, "phosphoric-acid/PA-77002").empty());
 
+        // A write changes the list in place (the screen keeps its scroll position): one row
+        // inserted, no reset of the whole list.
+        QSignalSpy inserted(&m, &QAbstractItemModel::rowsInserted);
+        QSignalSpy reset(&m, &QAbstractItemModel::modelReset);
         QVERIFY2(m.add("phosphoric-acid", " PA-77002 ", "Veldmark Reagents", "2026-11-20", "",
                        "2028-11-30", "2.5 L"),
                  qPrintable(m.errorField() + ": " + m.errorMessage()));
         QCOMPARE(m.errorField(), QString());
         QCOMPARE(m.count(), 6);
+        QCOMPARE(inserted.count(), 1);
+        QCOMPARE(reset.count(), 0);
         QCOMPARE(role_of(m, "PA-77002", LotShelfModel::QuantityRole), QString("2.5 L"));
         QCOMPARE(role_of(m, "PA-77002", LotShelfModel::CreatedByRole), QString("demo-prep"));
         auto trail = trail_of(*ws, "phosphoric-acid/PA-77002");
@@ -145,6 +160,8 @@ class TstGuiLotShelf : public QObject {
         QVERIFY2(m.markOpenedToday("phosphoric-acid", "PA-77002"), qPrintable(m.errorMessage()));
         QCOMPARE(role_of(m, "PA-77002", LotShelfModel::OpenedOnRole),
                  QDate::currentDate().toString(Qt::ISODate));
+        QCOMPARE(reset.count(), 0);
+        QCOMPARE(m.count(), 6);
         trail = trail_of(*ws, "phosphoric-acid/PA-77002");
         QCOMPARE(int(trail.size()), 2);
         QCOMPARE(trail[1].action, QString("open-lot"));

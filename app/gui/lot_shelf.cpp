@@ -111,11 +111,11 @@ QString LotShelfModel::reagent_name(const QString& id) const {
 }
 
 void LotShelfModel::reload() {
-    beginResetModel();
-    rows_.clear();
+    std::vector<Row> next;
     if (have_shelf(workspace_)) {
         const FieldError e = guarded([&] {
-            const QLocale loc;
+            QLocale loc;
+            loc.setNumberOptions(QLocale::OmitGroupSeparator); // "1000 g", never "1,000 g"
             for (const storage::ReagentLot& l :
                  storage::LotStore(workspace_->database()->connection()).list(filter_)) {
                 Row r;
@@ -130,13 +130,34 @@ void LotShelfModel::reload() {
                     r.quantity =
                         loc.toString(*l.quantity, 'g', 6) + QLatin1Char(' ') + l.quantity_unit;
                 r.created_by = l.created_by;
-                rows_.push_back(std::move(r));
+                next.push_back(std::move(r));
             }
         });
         if (!e.empty())
             set_error(e);
     }
-    endResetModel();
+    // The same lots (one opened): their rows change in place; one lot more: it is inserted. The
+    // view then keeps its place instead of being rebuilt (and scrolled) after each write.
+    auto same = [](const Row& a, const Row& b) { return a.reagent == b.reagent && a.lot == b.lot; };
+    const size_t n = rows_.size();
+    size_t k = 0;
+    while (k < n && k < next.size() && same(rows_[k], next[k]))
+        ++k;
+    if (next.size() == n && k == n) {
+        rows_ = std::move(next);
+        if (n > 0)
+            emit dataChanged(index(0), index(int(n) - 1));
+    } else if (next.size() == n + 1 &&
+               std::equal(rows_.begin() + long(k), rows_.end(), next.begin() + long(k) + 1, same)) {
+        beginInsertRows({}, int(k), int(k));
+        rows_ = std::move(next);
+        endInsertRows();
+        emit dataChanged(index(0), index(int(rows_.size()) - 1));
+    } else {
+        beginResetModel();
+        rows_ = std::move(next);
+        endResetModel();
+    }
     emit countChanged();
     update_write_block();
 }
@@ -201,7 +222,7 @@ QHash<int, QByteArray> LotShelfModel::roleNames() const {
         {ExpiredRole, "expired"},     {CreatedByRole, "createdBy"}};
 }
 
-QVariantList LotShelfModel::reagentChoices() const {
+QVariantList LotShelfModel::reagentChoices(const QString& search) const {
     QVariantList out;
     if (!workspace_ || !workspace_->ready())
         return out;
@@ -213,8 +234,14 @@ QVariantList LotShelfModel::reagentChoices() const {
     std::sort(all.begin(), all.end(), [](const auto& a, const auto& b) {
         return QString::localeAwareCompare(a.first, b.first) < 0;
     });
-    for (const auto& [name, id] : all)
-        out.append(QVariantMap{{"id", id}, {"name", name}});
+    const QStringList words = search.split(QLatin1Char(' '), Qt::SkipEmptyParts);
+    for (const auto& [name, id] : all) {
+        const bool found = std::all_of(words.begin(), words.end(), [&](const QString& w) {
+            return name.contains(w, Qt::CaseInsensitive) || id.contains(w, Qt::CaseInsensitive);
+        });
+        if (found)
+            out.append(QVariantMap{{"id", id}, {"name", name}});
+    }
     return out;
 }
 

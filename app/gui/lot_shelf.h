@@ -86,8 +86,9 @@ class LotShelfModel : public QAbstractListModel {
     QVariant data(const QModelIndex& index, int role) const override;
     QHash<int, QByteArray> roleNames() const override;
 
-    /// The library's reagents and solvents a lot may be of: [{id, name}], by name.
-    Q_INVOKABLE QVariantList reagentChoices() const;
+    /// The library's reagents and solvents a lot may be of: [{id, name}], by name; with
+    /// `search`, those whose name or id holds every word of it (any case).
+    Q_INVOKABLE QVariantList reagentChoices(const QString& search = {}) const;
     /// The filter's choices: every reagent first ({id: "", name: "All reagents"}), then each
     /// reagent with lots on the shelf.
     Q_INVOKABLE QVariantList filterChoices() const;
