@@ -95,18 +95,22 @@ Card {
             required property bool expired
             Layout.fillWidth: true
             spacing: Theme.gap
-            ColumnLayout {
+            // A Column of labels at its given width: wrapped text does not feed back into the
+            // row's width (no polish loop).
+            Column {
+                id: lotText
                 Layout.fillWidth: true
+                Layout.preferredWidth: Theme.tap
                 spacing: 0
                 Label {
-                    Layout.fillWidth: true
+                    width: lotText.width
                     wrapMode: Text.Wrap
                     font.pixelSize: Theme.fontSize
                     font.bold: true
                     text: qsTr("%1 · lot %2").arg(lotRow.reagentName).arg(lotRow.lot)
                 }
                 Label {
-                    Layout.fillWidth: true
+                    width: lotText.width
                     wrapMode: Text.Wrap
                     font.pixelSize: Theme.smallFont
                     color: Theme.dimText
@@ -118,7 +122,7 @@ Card {
                 }
                 Label {
                     objectName: "lotState"
-                    Layout.fillWidth: true
+                    width: lotText.width
                     wrapMode: Text.Wrap
                     font.pixelSize: Theme.smallFont
                     font.bold: lotRow.expired || lotRow.state !== qsTr("in date")
@@ -207,15 +211,13 @@ Card {
             id: grid
             Layout.fillWidth: true
             columns: form.width > Theme.tap * 9 ? 2 : 1
-            /// Equal columns, whatever an error beneath one field says.
-            readonly property real cell: columns === 2 ? (width - columnSpacing) / 2 : width
             columnSpacing: Theme.gap
             rowSpacing: Theme.gap
             TextEntry {
                 id: lotEntry
                 objectName: "lotNumber"
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 label: qsTr("Lot number (as on the label)")
                 placeholder: qsTr("e.g. PA-88112")
@@ -227,7 +229,7 @@ Card {
                 id: supplierEntry
                 objectName: "lotSupplier"
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 label: qsTr("Supplier (optional)")
                 error: root.errorFor(["supplier"], qsTr("Supplier"))
@@ -236,7 +238,7 @@ Card {
             DateTimeField {
                 objectName: "lotReceived"
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 withTime: false
                 label: qsTr("Received on")
@@ -250,7 +252,7 @@ Card {
             DateTimeField {
                 objectName: "lotExpires"
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 withTime: false
                 label: qsTr("Expires on (the label's expiry date)")
@@ -263,7 +265,7 @@ Card {
             }
             ColumnLayout {
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 spacing: Math.round(Theme.gap / 2)
                 DateTimeField {
@@ -288,7 +290,7 @@ Card {
                 id: quantityEntry
                 objectName: "lotQuantity"
                 Layout.fillWidth: true
-                Layout.preferredWidth: grid.cell
+                Layout.preferredWidth: Theme.tap // equal shares of the row, whatever an error beneath says
                 Layout.alignment: Qt.AlignTop
                 label: qsTr("Quantity received (optional)")
                 placeholder: qsTr("e.g. 500 g or 2.5 L")
