@@ -246,6 +246,7 @@ ApplicationWindow {
             }
             LibraryScreen {
                 workspace: window.workspace
+                session: session
                 inPortrait: window.inPortrait
             }
             SavedScreen {

@@ -1,5 +1,5 @@
 #!/usr/bin/python3
-"""The reagent-lot shelf through the real phaseplan-cli binary (`lot add|list`).
+"""The reagent-lot shelf through the real phaseplan-cli binary (`lot add|list|open`).
 
 Usage: check_lot_cli.py <phaseplan-cli> <source-dir> <build-dir>
 
@@ -9,6 +9,7 @@ shelf under the login that signs in (password from standard input) and `audit ve
 its entry. The date rules (opened not before received, expiry after received) are common
 practice, no source.
 """
+import datetime
 import json
 import os
 import shutil
@@ -112,6 +113,44 @@ last = ([e for e in json.loads(out)["entries"] if e["record_id"] == "phosphoric-
 case("the trail names who put the lot on the shelf",
      last.get("action") == "add-lot" and last.get("login") == "demo-prep"
      and last.get("record_id") == "phosphoric-acid/PA-77001", repr(last)[:400])
+
+# lot open: the day a lot was opened (demo PA-90417 was received 10 days ago, not opened).
+today = datetime.date.today()
+opening = ["lot", "open", "--reagent", "phosphoric-acid", "--lot", "PA-90417", "--opened-on",
+           today.isoformat(), "--as", "demo-prep", "--database", db]
+
+
+def open_with(option, value):
+    args = list(opening)
+    args[args.index(option) + 1] = value
+    return args
+
+
+before = (today - datetime.timedelta(days=20)).isoformat()
+refused("lot open: not a date", run(open_with("--opened-on", "2026-13-01"), pw), "opened_on",
+        "2026-13-01")
+refused("lot open: no day given", run(opening[:6] + opening[8:], pw), "opened_on", "required")
+refused("lot open: before the lot was received", run(open_with("--opened-on", before), pw),
+        "opened_on", before)
+refused("lot open: a lot not on the shelf", run(open_with("--lot", "PA-00000"), pw), "lot",
+        "PA-00000")
+refused("lot open: the administrator keeps no shelf",
+        run(open_with("--as", "demo-admin"), b"demo-admin-2026\n"), "who", "demo-admin")
+refused("lot open: a wrong password", run(opening, b"not-the-password\n"), "password", "wrong")
+rc, out, err = run(opening, pw)
+opened = json.loads(out) if rc == 0 else {}
+case("lot open", rc == 0 and opened.get("opened_on") == today.isoformat(), out + err)
+rc, out, err = run(["lot", "list", "--reagent", "phosphoric-acid", "--database", db])
+listed = {l["lot"]: l for l in json.loads(out)["lots"]} if rc == 0 else {}
+case("lot list shows the day opened",
+     listed.get("PA-90417", {}).get("opened_on") == today.isoformat(), out + err)
+rc, out, err = run(["audit", "export", "--database", db])
+last = ([e for e in json.loads(out)["entries"] if e["record_id"] == "phosphoric-acid/PA-90417"]
+        or [{}])[-1] if rc == 0 else {}
+case("the trail names who opened the lot",
+     last.get("action") == "open-lot" and last.get("login") == "demo-prep", repr(last)[:400])
+rc, out, err = run(["audit", "verify", "--database", db])
+case("the trail stays intact after lot open", rc == 0 and out.startswith("intact:"), out + err)
 
 shutil.rmtree(WORK, ignore_errors=True)
 if failures:

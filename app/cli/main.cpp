@@ -97,7 +97,9 @@ int usage(std::FILE* to) {
                  "add --reagent ID --lot NUMBER --received-on YYYY-MM-DD --expires-on YYYY-MM-DD\n"
                  "             [--opened-on YYYY-MM-DD] [--supplier NAME] [--quantity \"500 g\"] "
                  "--as LOGIN,\n"
-                 "             list [--reagent ID]; --database FILE: the reagent-lot shelf");
+                 "             list [--reagent ID],\n"
+                 "             open --reagent ID --lot NUMBER --opened-on YYYY-MM-DD --as LOGIN;\n"
+                 "             --database FILE: the reagent-lot shelf");
     std::fprintf(to, "  %-10s %s\n", "db",
                  "demo --database NEW_FILE: a new database with the demo;\n"
                  "             copy --from FILE --to URI: a bench's file into an empty lab "

@@ -11,6 +11,7 @@
 #include <QJsonArray>
 #include <QJsonDocument>
 #include <QJsonObject>
+#include <QRegularExpression>
 #include <QSqlQuery>
 
 #include <cmath>
@@ -109,6 +110,23 @@ QStringList lot_schema_statements(sql::Dialect d) {
     for (const sql::Guard& g : guards)
         s << sql::guard_statements(d, g);
     return s;
+}
+
+void read_lot_quantity(const QString& text, ReagentLot& l) {
+    if (text.trimmed().isEmpty()) {
+        l.quantity.reset();
+        l.quantity_unit.clear();
+        return;
+    }
+    static const QRegularExpression form(
+        QStringLiteral("^\\s*([0-9]+(?:[.,][0-9]+)?)\\s*([A-Za-z]+)\\s*$"));
+    const QRegularExpressionMatch m = form.match(text);
+    if (!m.hasMatch())
+        throw chem::Error("quantity",
+                          quoted(text) + " is not an amount with its unit, like 500 g or 2.5 L");
+    QString number = m.captured(1);
+    l.quantity = number.replace(QLatin1Char(','), QLatin1Char('.')).toDouble();
+    l.quantity_unit = m.captured(2);
 }
 
 QString ReagentLot::words() const {

@@ -61,6 +61,11 @@ struct ReagentLot {
 /// Checks a lot's fields as the rules above say. Throws chem::Error naming the field.
 void validate_lot(const ReagentLot& lot);
 
+/// "500 g", "2.5 L", "500g", "0,5 kg": the amount and its unit into `l` (quantity,
+/// quantity_unit); "" or blanks clear them. Throws chem::Error("quantity", …) when the text is not
+/// a number followed by a unit; the unit itself is checked by validate_lot.
+void read_lot_quantity(const QString& text, ReagentLot& l);
+
 class LotStore {
   public:
     /// On a connection whose schema has step lot_schema_version.

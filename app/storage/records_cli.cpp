@@ -1,5 +1,6 @@
 #include "storage/records_cli.h"
 
+#include "chem/batch.h"
 #include "chem/error.h"
 #include "chem/guard.h"
 #include "chem/text.h"
@@ -433,19 +434,6 @@ QJsonObject lot_json(const ReagentLot& l) {
     return o;
 }
 
-/// "500 g", "2.5 L", "500g": the amount and its unit. Throws chem::Error("quantity", …).
-void read_quantity(const QString& text, ReagentLot& l) {
-    static const QRegularExpression form(
-        QStringLiteral("^\\s*([0-9]+(?:[.,][0-9]+)?)\\s*([A-Za-z]+)\\s*$"));
-    const QRegularExpressionMatch m = form.match(text);
-    if (!m.hasMatch())
-        throw chem::Error("quantity",
-                          quoted(text) + " is not an amount with its unit, like 500 g or 2.5 L");
-    QString number = m.captured(1);
-    l.quantity = number.replace(QLatin1Char(','), QLatin1Char('.')).toDouble();
-    l.quantity_unit = m.captured(2);
-}
-
 /// Is `id` a reagent or solvent of the library (shipped, or the lab's own entry)? Throws
 /// chem::Error
 /// ("reagent", …) naming the nearest id otherwise.
@@ -484,7 +472,7 @@ void require_library_reagent(const QString& id, const QString& data_dir, const D
 CliOutput lot_command(const QStringList& args, const SecretReader& read_secret,
                       const QString& data_dir) {
     if (args.isEmpty())
-        throw chem::Error("command", "lot needs add or list");
+        throw chem::Error("command", "lot needs add, list or open");
     const QString sub = args.first();
     CliOutput out;
     if (sub == QLatin1String("list")) {
@@ -510,7 +498,7 @@ CliOutput lot_command(const QStringList& args, const SecretReader& read_secret,
         l.opened_on = o.value("--opened-on").trimmed();
         l.expires_on = o.value("--expires-on").trimmed();
         if (o.has("--quantity"))
-            read_quantity(o.value("--quantity"), l);
+            read_lot_quantity(o.value("--quantity"), l);
         validate_lot(l); // every field before the database is opened or a password read
         auto db = open_database(o.required("--database"), false);
         require_library_reagent(l.reagent, data_dir, *db);
@@ -525,7 +513,37 @@ CliOutput lot_command(const QStringList& args, const SecretReader& read_secret,
         out.out = QJsonDocument(lot_json(stored)).toJson(QJsonDocument::Indented);
         return out;
     }
-    throw chem::Error("command", "lot " + quoted(sub) + " is not add or list");
+    if (sub == QLatin1String("open")) {
+        const Options o =
+            parse(args.mid(1), {"--database", "--reagent", "--lot", "--opened-on", "--as"});
+        no_positional(o, 0);
+        const QString reagent = o.value("--reagent").trimmed();
+        const QString lot = o.value("--lot").trimmed();
+        const QString opened_on = o.value("--opened-on").trimmed();
+        if (reagent.isEmpty())
+            throw chem::Error("reagent", "is required: the library reagent the lot is of");
+        if (lot.isEmpty())
+            throw chem::Error("lot", "is required: the lot number on the supplier's label");
+        if (opened_on.isEmpty())
+            throw chem::Error("opened_on", "is required: the day the lot was opened (YYYY-MM-DD)");
+        chem::parse_local_date(opened_on.toStdString(), "opened_on"); // before a password is read
+        QString who = o.value("--as").trimmed();
+        if (who.isEmpty())
+            throw chem::Error("as", "is required: the login that records the opening (its "
+                                    "password is read first)");
+        auto db = open_database(o.required("--database"), false);
+        LotStore shelf(db->connection());
+        if (!shelf.find(reagent, lot))
+            throw chem::Error("lot", "no lot " + quoted(lot) + " of " + quoted(reagent) +
+                                         " on the shelf (phaseplan-cli lot list shows them)");
+        AccountStore accounts(db->connection());
+        if (accounts.any())
+            who = sign_in(accounts, who, read_secret).login;
+        const ReagentLot stored = shelf.set_opened(reagent, lot, opened_on, who);
+        out.out = QJsonDocument(lot_json(stored)).toJson(QJsonDocument::Indented);
+        return out;
+    }
+    throw chem::Error("command", "lot " + quoted(sub) + " is not add, list or open");
 }
 
 /// The tables in the order of the migration steps (a table before the ones that refer to it).

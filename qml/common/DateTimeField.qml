@@ -19,6 +19,8 @@ ColumnLayout {
     property int minute: 0
     /// False: a time of day only (no calendar).
     property bool withDate: true
+    /// False: a day only (no hour and minute wheels; `picked` passes hour and minute unchanged).
+    property bool withTime: true
     property string error
     /// A caution that is not an error (a start in the past), shown under the value.
     property string note
@@ -122,6 +124,13 @@ ColumnLayout {
                 visible: root.withDate
                 Layout.fillWidth: true
                 TouchButton {
+                    // A day alone is often years away (an expiry date): a year at a time too.
+                    visible: !root.withTime
+                    text: "«"
+                    Accessible.name: qsTr("Previous year")
+                    onClicked: popup.shownYear -= 1
+                }
+                TouchButton {
                     text: "‹"
                     Accessible.name: qsTr("Previous month")
                     onClicked: {
@@ -143,6 +152,12 @@ ColumnLayout {
                         if (popup.shownMonth === 11) { popup.shownMonth = 0; popup.shownYear += 1 }
                         else popup.shownMonth += 1
                     }
+                }
+                TouchButton {
+                    visible: !root.withTime
+                    text: "»"
+                    Accessible.name: qsTr("Next year")
+                    onClicked: popup.shownYear += 1
                 }
             }
             DayOfWeekRow {
@@ -181,6 +196,7 @@ ColumnLayout {
                 onClicked: function(date) { popup.pickDate(date) }
             }
             RowLayout {
+                visible: root.withTime
                 spacing: Theme.gap
                 Layout.alignment: Qt.AlignHCenter
                 ClockWheel {

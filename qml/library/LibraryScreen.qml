@@ -4,11 +4,14 @@ import QtQuick.Layouts
 import PhasePlan
 
 // The reagent and solvent library: browse and search; the lab's own reagents are added or
-// corrected in the editor beside the list and kept apart from the shipped data.
+// corrected in the editor beside the list and kept apart from the shipped data; the lots of the
+// lab's reagents are kept on the shelf card below it.
 ScreenPage {
     id: root
 
     required property Workspace workspace
+    /// The app's sign-in (Main.qml): the lot shelf writes under the person signed in.
+    property Session session: null
 
     title: qsTr("Library")
 
@@ -103,6 +106,11 @@ ScreenPage {
             ReagentEditorCard {
                 Layout.fillWidth: true
                 editor: editor
+            }
+            LotShelfCard {
+                Layout.fillWidth: true
+                workspace: root.workspace
+                session: root.session
             }
             ColumnsCard {
                 Layout.fillWidth: true
