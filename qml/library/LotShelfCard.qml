@@ -79,71 +79,76 @@ Card {
         wrapMode: Text.Wrap
         font.pixelSize: Theme.smallFont
     }
-    Repeater {
-        model: shelf
-        delegate: RowLayout {
-            id: lotRow
-            required property string reagentName
-            required property string reagent
-            required property string lot
-            required property string supplier
-            required property string receivedOn
-            required property string openedOn
-            required property string expiresOn
-            required property string quantity
-            required property string state
-            required property bool expired
-            Layout.fillWidth: true
-            spacing: Theme.gap
-            // A Column of labels at its given width: wrapped text does not feed back into the
-            // row's width (no polish loop).
-            Column {
-                id: lotText
-                Layout.fillWidth: true
-                Layout.preferredWidth: Theme.tap
-                spacing: 0
-                Label {
-                    width: lotText.width
-                    wrapMode: Text.Wrap
-                    font.pixelSize: Theme.fontSize
-                    font.bold: true
-                    text: qsTr("%1 · lot %2").arg(lotRow.reagentName).arg(lotRow.lot)
+    // The rows in a plain Column, each a RowLayout as wide as it, with its words in a ColumnLayout
+    // of wrapping labels: the same arrangement as the night card's bottles. (Labels in a Column
+    // inside each RowLayout let the rows' heights go stale and the rows drew over each other.)
+    Column {
+        id: lotList
+        Layout.fillWidth: true
+        spacing: Theme.gap
+        Repeater {
+            model: shelf
+            delegate: RowLayout {
+                id: lotRow
+                required property string reagentName
+                required property string reagent
+                required property string lot
+                required property string supplier
+                required property string receivedOn
+                required property string openedOn
+                required property string expiresOn
+                required property string quantity
+                required property string state
+                required property bool expired
+                width: lotList.width
+                spacing: Theme.gap
+                ColumnLayout {
+                    id: lotText
+                    Layout.fillWidth: true
+                    spacing: 0
+                    Label {
+                        Layout.fillWidth: true
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.fontSize
+                        font.bold: true
+                        text: qsTr("%1 · lot %2").arg(lotRow.reagentName).arg(lotRow.lot)
+                    }
+                    Label {
+                        Layout.fillWidth: true
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.smallFont
+                        color: Theme.dimText
+                        text: [lotRow.supplier.length > 0 ? lotRow.supplier : qsTr("supplier not recorded"),
+                               qsTr("received\u00a0%1").arg(lotRow.receivedOn),
+                               lotRow.openedOn.length > 0 ? qsTr("opened\u00a0%1").arg(lotRow.openedOn) : qsTr("not opened"),
+                               qsTr("expires\u00a0%1").arg(lotRow.expiresOn)]
+                              .concat(lotRow.quantity.length > 0 ? [lotRow.quantity] : []).join(" · ")
+                    }
+                    Label {
+                        objectName: "lotState"
+                        Layout.fillWidth: true
+                        wrapMode: Text.Wrap
+                        font.pixelSize: Theme.smallFont
+                        font.bold: lotRow.expired || lotRow.state !== qsTr("in date")
+                        // The word carries the meaning; the colour repeats it.
+                        color: lotRow.expired ? Theme.bad : (lotRow.state === qsTr("in date") ? Theme.good : Theme.warn)
+                        text: lotRow.expired ? qsTr("EXPIRED") : lotRow.state
+                    }
                 }
-                Label {
-                    width: lotText.width
-                    wrapMode: Text.Wrap
-                    font.pixelSize: Theme.smallFont
-                    color: Theme.dimText
-                    text: [lotRow.supplier.length > 0 ? lotRow.supplier : qsTr("supplier not recorded"),
-                           qsTr("received\u00a0%1").arg(lotRow.receivedOn),
-                           lotRow.openedOn.length > 0 ? qsTr("opened\u00a0%1").arg(lotRow.openedOn) : qsTr("not opened"),
-                           qsTr("expires\u00a0%1").arg(lotRow.expiresOn)]
-                          .concat(lotRow.quantity.length > 0 ? [lotRow.quantity] : []).join(" · ")
-                }
-                Label {
-                    objectName: "lotState"
-                    width: lotText.width
-                    wrapMode: Text.Wrap
-                    font.pixelSize: Theme.smallFont
-                    font.bold: lotRow.expired || lotRow.state !== qsTr("in date")
-                    // The word carries the meaning; the colour repeats it.
-                    color: lotRow.expired ? Theme.bad : (lotRow.state === qsTr("in date") ? Theme.good : Theme.warn)
-                    text: lotRow.expired ? qsTr("EXPIRED") : lotRow.state
-                }
-            }
-            TouchButton {
-                objectName: "markOpened"
-                visible: root.canWrite && lotRow.openedOn.length === 0
-                text: qsTr("Mark as opened today")
-                Accessible.name: qsTr("Mark lot %1 of %2 as opened today").arg(lotRow.lot).arg(lotRow.reagentName)
-                onClicked: {
-                    // The row may be rebuilt by the write: read what the message needs first.
-                    const lot = lotRow.lot
-                    const shelfModel = shelf
-                    root.lastAction = "open"
-                    root.status = ""
-                    if (shelfModel.markOpenedToday(lotRow.reagent, lot))
-                        root.status = qsTr("Lot %1 marked as opened on %2.").arg(lot).arg(shelfModel.today)
+                TouchButton {
+                    objectName: "markOpened"
+                    visible: root.canWrite && lotRow.openedOn.length === 0
+                    text: qsTr("Mark as opened today")
+                    Accessible.name: qsTr("Mark lot %1 of %2 as opened today").arg(lotRow.lot).arg(lotRow.reagentName)
+                    onClicked: {
+                        // The row may be rebuilt by the write: read what the message needs first.
+                        const lot = lotRow.lot
+                        const shelfModel = shelf
+                        root.lastAction = "open"
+                        root.status = ""
+                        if (shelfModel.markOpenedToday(lotRow.reagent, lot))
+                            root.status = qsTr("Lot %1 marked as opened on %2.").arg(lot).arg(shelfModel.today)
+                    }
                 }
             }
         }
