@@ -28,6 +28,8 @@ import tempfile
 import time
 import urllib.parse
 
+from cli_checks import Checks
+
 CLI, SRC, BUILD = sys.argv[1], sys.argv[2], sys.argv[3]
 PG = os.environ.get("PHASEPLAN_TEST_BACKEND") == "postgresql"
 PG_URI = os.environ.get("PHASEPLAN_TEST_PG_URI", "")
@@ -38,20 +40,11 @@ if PG and not PG_URI:
 PSQL = shutil.which("psql") or (sorted(glob.glob("/usr/lib/postgresql/*/bin/psql")) or [""])[-1]
 pg_created = []
 WORK = os.path.abspath(tempfile.mkdtemp(prefix="audit-cli-", dir=BUILD))
-ENV = dict(os.environ)
-ENV.setdefault("QT_QPA_PLATFORM", "offscreen")
-failures = []
-
-
-def run(args, stdin=b""):
-    p = subprocess.run([CLI] + args, input=stdin, capture_output=True, timeout=120, env=ENV)
-    return p.returncode, p.stdout.decode("utf-8", "replace"), p.stderr.decode("utf-8", "replace")
-
-
-def case(name, ok, detail=""):
-    print(("ok   " if ok else "FAIL ") + name + ("" if ok else ": " + detail[:600]))
-    if not ok:
-        failures.append(name)
+CHECKS = Checks(CLI)
+ENV = CHECKS.env
+failures = CHECKS.failures
+run = CHECKS.run
+case = CHECKS.case
 
 
 def refused(name, result, field):

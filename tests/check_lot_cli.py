@@ -13,26 +13,18 @@ import datetime
 import json
 import os
 import shutil
-import subprocess
 import sys
 import tempfile
 
+from cli_checks import Checks
+
 CLI, SRC, BUILD = sys.argv[1], sys.argv[2], sys.argv[3]
 WORK = os.path.abspath(tempfile.mkdtemp(prefix="lot-cli-", dir=BUILD))
-ENV = dict(os.environ)
-ENV.setdefault("QT_QPA_PLATFORM", "offscreen")
-failures = []
-
-
-def run(args, stdin=b""):
-    p = subprocess.run([CLI] + args, input=stdin, capture_output=True, timeout=120, env=ENV)
-    return p.returncode, p.stdout.decode("utf-8", "replace"), p.stderr.decode("utf-8", "replace")
-
-
-def case(name, ok, detail=""):
-    print(("ok   " if ok else "FAIL ") + name + ("" if ok else ": " + detail[:600]))
-    if not ok:
-        failures.append(name)
+CHECKS = Checks(CLI)
+ENV = CHECKS.env
+failures = CHECKS.failures
+run = CHECKS.run
+case = CHECKS.case
 
 
 def refused(name, result, field, value):
