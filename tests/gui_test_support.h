@@ -2,15 +2,27 @@
 // What the GUI model tests share: a Workspace on a database file with the shipped data.
 #include "workspace.h"
 
+#include <QCoreApplication>
 #include <QFile>
 #include <QJsonDocument>
 #include <QJsonObject>
+#include <QSettings>
+#include <QStandardPaths>
 #include <QString>
 #include <QVariantMap>
 
 #include <memory>
 
 namespace phaseplan::testing {
+
+/// Settings and standard paths of the test's own (QStandardPaths test mode, organisation
+/// "PhasePlanTest", application `app_name`), emptied: nothing read or left from a real run.
+inline void use_test_settings(const char* app_name) {
+    QStandardPaths::setTestModeEnabled(true);
+    QCoreApplication::setOrganizationName(QStringLiteral("PhasePlanTest"));
+    QCoreApplication::setApplicationName(QString::fromLatin1(app_name));
+    QSettings().clear();
+}
 
 /// Opens (a new file: creates, with the demo) the database at `path` with the shipped data;
 /// stops the test run when it cannot.

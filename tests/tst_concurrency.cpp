@@ -143,6 +143,15 @@ struct Bench {
     }
 };
 
+/// Mats's save of the demo buffer was refused naming Rosa's change (says so when not).
+bool refused_naming_rosa(const QString& said) {
+    const bool ok = said.contains(
+        "conflict Buffer \"Phosphate 20 mM pH 2.5\": changed by Rosa Okafor (rosa) at ");
+    if (!ok)
+        qWarning("not refused naming Rosa: %s", qPrintable(said));
+    return ok;
+}
+
 } // namespace
 
 class TestConcurrency : public QObject {
@@ -245,9 +254,7 @@ class TestConcurrency : public QObject {
         QCOMPARE(rosa.save(), 0);
         QCOMPARE(mats.save(), 1);
         const QString said = QString::fromUtf8(mats.out);
-        QVERIFY2(said.contains("conflict Buffer \"Phosphate 20 mM pH 2.5\": changed by Rosa Okafor "
-                               "(rosa) at "),
-                 qPrintable(said));
+        QVERIFY(refused_naming_rosa(said));
         Database db(where);
         QCOMPARE(db.load(DocumentKind::buffer, buffer_name)->value("volume_ml").toDouble(), 1500.0);
         QCOMPARE(db.stamp(DocumentKind::buffer, buffer_name).version, qint64(2));
@@ -267,9 +274,7 @@ class TestConcurrency : public QObject {
         QCOMPARE(rosa.save(), 0);
         QCOMPARE(mats.save(), 1);
         const QString said = QString::fromUtf8(mats.out);
-        QVERIFY2(said.contains("conflict Buffer \"Phosphate 20 mM pH 2.5\": changed by Rosa Okafor "
-                               "(rosa) at "),
-                 qPrintable(said));
+        QVERIFY(refused_naming_rosa(said));
         Database db(where);
         QCOMPARE(db.load(DocumentKind::buffer, buffer_name)->value("volume_ml").toDouble(), 1500.0);
         QVERIFY(!db.load(DocumentKind::buffer, "Line A buffer"));

@@ -80,12 +80,7 @@ class TestGuiBatch : public QObject {
     QTemporaryDir dir_;
 
   private slots:
-    void initTestCase() {
-        QStandardPaths::setTestModeEnabled(true);
-        QCoreApplication::setOrganizationName("PhasePlanTest");
-        QCoreApplication::setApplicationName("tst_gui_batch");
-        QSettings().clear();
-    }
+    void initTestCase() { phaseplan::testing::use_test_settings("tst_gui_batch"); }
 
     /// The demo's signed batch on the Prepare & record model: "Signed by" with name, UTC time and
     /// meaning (21 CFR 11.50), a wrong password refused at the password field and counted

@@ -12,6 +12,7 @@
 #include "device_capture.h"
 #include "devices/device_store.h"
 #include "fake_instrument.h"
+#include "gui_test_support.h"
 #include "print/print_controller.h"
 #include "workspace.h"
 
@@ -111,12 +112,7 @@ class TestGuiBatchCapture : public QObject {
     }
 
   private slots:
-    void initTestCase() {
-        QStandardPaths::setTestModeEnabled(true);
-        QCoreApplication::setOrganizationName("PhasePlanTest");
-        QCoreApplication::setApplicationName("tst_gui_batch_capture");
-        QSettings().clear();
-    }
+    void initTestCase() { phaseplan::testing::use_test_settings("tst_gui_batch_capture"); }
 
     void init() {
         ws_ = std::make_unique<Workspace>();

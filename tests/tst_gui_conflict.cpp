@@ -49,12 +49,7 @@ class TestGuiConflict : public QObject {
     QTemporaryDir dir_;
 
   private slots:
-    void initTestCase() {
-        QStandardPaths::setTestModeEnabled(true);
-        QCoreApplication::setOrganizationName("PhasePlanTest");
-        QCoreApplication::setApplicationName("tst_gui_conflict");
-        QSettings().clear();
-    }
+    void initTestCase() { phaseplan::testing::use_test_settings("tst_gui_conflict"); }
 
     void batch_save_refused_then_save_as_a_copy() {
         const QString db = dir_.filePath("copy.sqlite");

@@ -51,12 +51,7 @@ class TestGuiConflictSaves : public QObject {
     QTemporaryDir dir_;
 
   private slots:
-    void initTestCase() {
-        QStandardPaths::setTestModeEnabled(true);
-        QCoreApplication::setOrganizationName("PhasePlanTest");
-        QCoreApplication::setApplicationName("tst_gui_conflict_saves");
-        QSettings().clear();
-    }
+    void initTestCase() { phaseplan::testing::use_test_settings("tst_gui_conflict_saves"); }
 
     void stale_rename_is_refused_naming_who_changed_it() {
         TwoBenches lab(dir_.filePath("rename.sqlite"));
