@@ -284,11 +284,73 @@ class TestConcurrency : public QObject {
         QVERIFY2(b.start("--rename-buffer", where, "mats", "Assay buffer"), b.out);
         QCOMPARE(a.save(), 0);
         QCOMPARE(b.save(), 1);
-        QVERIFY2(QString::fromUtf8(b.out).contains("was renamed or removed on another bench"),
+        // It says who renamed it, to what, and when (retired_names, app/storage/versioning.h).
+        QVERIFY2(QString::fromUtf8(b.out).contains(
+                     "conflict Buffer \"Phosphate 20 mM pH 2.5\" was renamed to \"Line A "
+                     "buffer\" by Rosa Okafor (rosa) at "),
                  b.out);
+        QVERIFY2(QString::fromUtf8(b.out).contains(
+                     "after you opened it; reload to open \"Line A buffer\", or save yours as a "
+                     "copy"),
+                 b.out);
+        QCOMPARE(db.current_name(DocumentKind::buffer, buffer_name), QString("Line A buffer"));
         QVERIFY(db.load(DocumentKind::buffer, "Line A buffer"));
         QVERIFY(!db.load(DocumentKind::buffer, "Assay buffer"));
         QCOMPARE(db.stamp(DocumentKind::buffer, "Line A buffer").version, qint64(3));
+    }
+
+    void a_name_saved_again_goes_on_from_its_old_versions() {
+        // Mats holds version 1 of the buffer. Meanwhile Rosa renames it away and saves a new
+        // buffer under the old name. Were the new one at version 1 again, Mats's save would
+        // overwrite it silently; it goes on from the old versions, so his save is refused.
+        const QString where = lab();
+        Bench mats;
+        QVERIFY2(mats.start("--edit-buffer", where, "mats", "2500"), mats.out);
+        {
+            Database db(where);
+            db.set_actor("rosa");
+            QCOMPARE(db.rename_checked(DocumentKind::buffer, buffer_name, "Old phosphate", 1),
+                     qint64(2));
+            QJsonObject fresh = recipe_doc();
+            fresh["volume_ml"] = 500.0;
+            QCOMPARE(db.save_checked(DocumentKind::buffer, buffer_name, fresh, {}, 0), qint64(2));
+        }
+        QCOMPARE(mats.save(), 1);
+        QVERIFY(refused_naming_rosa(QString::fromUtf8(mats.out)));
+        Database db(where);
+        QCOMPARE(db.load(DocumentKind::buffer, buffer_name)->value("volume_ml").toDouble(), 500.0);
+        QCOMPARE(db.load(DocumentKind::buffer, "Old phosphate")->value("volume_ml").toDouble(),
+                 2000.0);
+        QCOMPARE(db.current_name(DocumentKind::buffer, buffer_name), buffer_name);
+
+        // Removed, then saved again by the unchecked path (demo, import): the same rule.
+        db.set_actor("mats");
+        QVERIFY(db.remove(DocumentKind::buffer, buffer_name));
+        QCOMPARE(db.current_name(DocumentKind::buffer, buffer_name), QString());
+        try {
+            db.save_checked(DocumentKind::buffer, buffer_name, recipe_doc(), {}, 2);
+            QFAIL("a save to a removed buffer went through");
+        } catch (const ConflictError& e) {
+            const QString said = QString::fromStdString(e.message());
+            QVERIFY2(said.startsWith("Buffer \"Phosphate 20 mM pH 2.5\" was removed by Mats "
+                                     "Lindqvist (mats) at "),
+                     qPrintable(said));
+            QVERIFY2(said.endsWith("after you opened it; save yours as a copy to keep your edits"),
+                     qPrintable(said));
+        }
+        db.save(DocumentKind::buffer, buffer_name, recipe_doc());
+        QCOMPARE(db.stamp(DocumentKind::buffer, buffer_name).version, qint64(3));
+
+        // Renamed onto a name that once held higher versions: above them too.
+        QCOMPARE(db.save_checked(DocumentKind::method, "Assay", QJsonObject{}, {}, 0), qint64(1));
+        for (qint64 v = 1; v <= 3; ++v)
+            db.save_checked(DocumentKind::method, "Assay", QJsonObject{{"v", v}}, {}, v);
+        QVERIFY(db.remove(DocumentKind::method, "Assay"));
+        QCOMPARE(db.save_checked(DocumentKind::method, "Draft", QJsonObject{}, {}, 0), qint64(1));
+        QCOMPARE(db.rename_checked(DocumentKind::method, "Draft", "Assay", 1), qint64(5));
+        // A chain of renames is followed to its end.
+        db.rename_checked(DocumentKind::method, "Assay", "Assay v2", 5);
+        QCOMPARE(db.current_name(DocumentKind::method, "Draft"), QString("Assay v2"));
     }
 
     void taken_names_are_refused_naming_who_saved_them() {

@@ -83,9 +83,20 @@ class TestGuiConflictSaves : public QObject {
         // Rosa still holds the old name: her next save says it went, and keeps her edits.
         a.setVolumeMl(1800);
         a.flushAutosave();
-        QVERIFY2(a.conflictMessage().contains("was renamed or removed on another bench"),
-                 qPrintable(a.conflictMessage()));
+        const QString gone = a.conflictMessage();
+        QVERIFY2(gone.startsWith("Buffer \"Assay buffer\" was renamed to \"Line A buffer\" by "
+                                 "Mats Lindqvist (demo-review) at "),
+                 qPrintable(gone));
+        QVERIFY2(has_utc_time(gone), qPrintable(gone));
         QCOMPARE(stored_volume(*lab.a, "Line A buffer"), 1500.0);
+        // Reload follows the rename: Rosa now holds "Line A buffer" as saved, at its version.
+        QVERIFY(a.reloadBuffer());
+        QCOMPARE(a.bufferName(), QString("Line A buffer"));
+        QCOMPARE(a.conflictMessage(), QString());
+        a.setVolumeMl(1800);
+        a.flushAutosave();
+        QCOMPARE(a.conflictMessage(), QString());
+        QCOMPARE(stored_volume(*lab.a, "Line A buffer"), 1800.0);
     }
 
     void rename_onto_a_name_saved_meanwhile_names_who_saved_it() {
@@ -214,6 +225,21 @@ class TestGuiConflictSaves : public QObject {
         QVERIFY(b.saveClash().isEmpty());
         b.setStandbyFlowMlMin(0.4);
         QCOMPARE(b.saveAs("Tonight (copy)"), QString());
+
+        // Renamed on Rosa's bench while Mats holds it: his save names her and the new name, and
+        // Open theirs follows the rename.
+        lab.a->database()->set_actor("demo-prep");
+        lab.a->database()->rename_checked(
+            DocumentKind::sequence, "Tonight (copy)", "Tonight, column 2",
+            lab.a->database()->stamp(DocumentKind::sequence, "Tonight (copy)").version);
+        b.setStandbyFlowMlMin(0.45);
+        const QString moved = b.saveAs("Tonight (copy)");
+        QVERIFY2(moved.startsWith("Plan \"Tonight (copy)\" was renamed to \"Tonight, column 2\" "
+                                  "by Rosa Okafor (demo-prep) at "),
+                 qPrintable(moved));
+        QVERIFY(b.openClashing());
+        QCOMPARE(b.name(), QString("Tonight, column 2"));
+        QCOMPARE(b.standbyFlowMlMin(), 0.4);
     }
 
     void plan_save_does_not_bring_back_a_renamed_buffer() {

@@ -130,7 +130,7 @@ FieldError BufferDesigner::move_to_name(const QString& old, const QString& name)
         storage::SavedDocument d{storage::DocumentKind::buffer, name, saved_document(), {}};
         d.expected_version = 0;
         db->save_all({d});
-        loaded_version_ = 1;
+        loaded_version_ = db->stamp(storage::DocumentKind::buffer, name).version;
     });
     if (e.field == QLatin1String("version"))
         set_conflict(e.message, {}); // ours changed or went since it was loaded: Reload or copy
@@ -148,16 +148,29 @@ bool BufferDesigner::reloadBuffer() {
     if (!workspace_ || !workspace_->database() || buffer_name_.isEmpty())
         return false;
     std::optional<QJsonObject> doc;
-    guarded(
-        [&] { doc = workspace_->database()->load(storage::DocumentKind::buffer, buffer_name_); });
+    QString now_named;
+    guarded([&] {
+        // Renamed on another bench meanwhile: follow it to the name it has now.
+        now_named =
+            workspace_->database()->current_name(storage::DocumentKind::buffer, buffer_name_);
+        if (!now_named.isEmpty())
+            doc = workspace_->database()->load(storage::DocumentKind::buffer, now_named);
+    });
     if (!doc)
         return false;
+    const bool moved = now_named != buffer_name_;
+    buffer_name_ = now_named;
     autosave_.stop();
     dirty_ = false;
     auto_name_ = doc->value("auto_name").toBool(false);
     loadJson(*doc);
     take_stored_version();
     set_conflict({}, {});
+    if (moved) {
+        rebuild_buffer_list();
+        remember_current();
+        emit inputsChanged();
+    }
     emit bufferChanged();
     return true;
 }
@@ -175,7 +188,7 @@ QString BufferDesigner::saveBufferAsCopy() {
         return e.message;
     buffer_name_ = name;
     auto_name_ = false;
-    loaded_version_ = 1;
+    take_stored_version();
     set_conflict({}, {});
     dirty_ = true; // once more, with its own name inside the document
     flushAutosave();

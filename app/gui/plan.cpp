@@ -645,7 +645,14 @@ QString Plan::saveAsCopy() {
 bool Plan::openClashing() {
     if (clash_name_.isEmpty())
         return false;
-    return loadSaved(clash_name_);
+    // Renamed on another bench meanwhile: open it under the name it has now.
+    QString now_named = clash_name_;
+    if (workspace_ && workspace_->database())
+        guarded([&] {
+            now_named =
+                workspace_->database()->current_name(storage::DocumentKind::sequence, clash_name_);
+        });
+    return !now_named.isEmpty() && loadSaved(now_named);
 }
 
 QString Plan::save_documents(const QString& n, bool replace) {

@@ -721,13 +721,13 @@ void Database::upsert_document(const SavedDocument& d, const QString& now) {
     }
     exec(QStringLiteral(
              "INSERT INTO %1 (name, document, note, created_at, updated_at, version, changed_by,"
-             " changed_at) VALUES (?, ?, ?, ?, ?, 1, ?, ?)"
+             " changed_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)"
              " ON CONFLICT (name) DO UPDATE SET document = excluded.document,"
              " note = excluded.note, updated_at = excluded.updated_at,"
              " version = %1.version + 1, changed_by = excluded.changed_by,"
              " changed_at = excluded.changed_at")
              .arg(QLatin1String(table_of(d.kind))),
-         {name, to_text(d.document), note, now, now, actor_, now});
+         {name, to_text(d.document), note, now, now, first_version(d.kind, name), actor_, now});
 }
 
 QString Database::save_copy(DocumentKind kind, const QString& name, const QJsonObject& document,
@@ -752,6 +752,63 @@ RowStamp Database::stamp(DocumentKind kind, const QString& name) const {
     if (!q.next())
         return {};
     return {q.value(0).toLongLong(), q.value(1).toString(), q.value(2).toString()};
+}
+
+std::optional<Retirement> Database::retirement(DocumentKind kind, const QString& name) const {
+    if (schema_version() < retired_names_schema_version)
+        return std::nullopt;
+    QSqlQuery q = exec(QStringLiteral("SELECT last_version, renamed_to, retired_by, retired_at"
+                                      " FROM retired_names WHERE kind = ? AND name = ?"),
+                       {QLatin1String(table_of(kind)), name.trimmed()});
+    if (!q.next())
+        return std::nullopt;
+    return Retirement{q.value(0).toLongLong(), q.value(1).toString(), q.value(2).toString(),
+                      q.value(3).toString()};
+}
+
+QString Database::current_name(DocumentKind kind, const QString& name_in) const {
+    QString name = name_in.trimmed();
+    // A chain of renames ends within as many hops as there are retired names; the bound only
+    // stops a cycle (A → B → A, each renamed back) from running forever.
+    for (int hop = 0; hop < 64 && !name.isEmpty(); ++hop) {
+        if (load(kind, name))
+            return name;
+        const std::optional<Retirement> gone = retirement(kind, name);
+        if (!gone)
+            return {};
+        name = gone->renamed_to;
+    }
+    return {};
+}
+
+qint64 Database::renamed_version(DocumentKind kind, const QString& to, qint64 was) const {
+    return std::max(was + 1, first_version(kind, to));
+}
+
+qint64 Database::first_version(DocumentKind kind, const QString& name) const {
+    const std::optional<Retirement> gone = retirement(kind, name);
+    return gone ? gone->last_version + 1 : 1;
+}
+
+void Database::retire(DocumentKind kind, const QString& name, qint64 last_version,
+                      const QString& renamed_to, const QString& now) {
+    if (schema_version() < retired_names_schema_version || last_version < 1)
+        return;
+    exec(QStringLiteral("INSERT INTO retired_names (kind, name, last_version, renamed_to,"
+                        " retired_by, retired_at) VALUES (?, ?, ?, ?, ?, ?)"
+                        " ON CONFLICT (kind, name) DO UPDATE SET"
+                        " last_version = excluded.last_version, renamed_to = excluded.renamed_to,"
+                        " retired_by = excluded.retired_by, retired_at = excluded.retired_at"),
+         {QLatin1String(table_of(kind)), name, last_version,
+          renamed_to.isEmpty() ? QVariant() : QVariant(renamed_to), actor_, now});
+}
+
+ConflictError Database::refusal(DocumentKind kind, const QString& name) const {
+    const RowStamp theirs = stamp(kind, name);
+    if (theirs.version == 0)
+        if (const std::optional<Retirement> gone = retirement(kind, name))
+            return retired_error(db_, record_words(kind, name), *gone);
+    return conflict_error(db_, record_words(kind, name), theirs);
 }
 
 qint64 Database::save_checked(DocumentKind kind, const QString& name_in,
@@ -779,11 +836,12 @@ qint64 Database::write_checked(DocumentKind kind, const QString& name, const QJs
         if (theirs.version > 0)
             throw taken_words.isEmpty() ? conflict_error(db_, record_words(kind, name), theirs)
                                         : name_taken_error(db_, taken_words, name, theirs);
+        const qint64 first = first_version(kind, name);
         exec(QStringLiteral("INSERT INTO %1 (name, document, note, created_at, updated_at,"
-                            " version, changed_by, changed_at) VALUES (?, ?, ?, ?, ?, 1, ?, ?)")
+                            " version, changed_by, changed_at) VALUES (?, ?, ?, ?, ?, ?, ?, ?)")
                  .arg(QLatin1String(table_of(kind))),
-             {name, to_text(document), note, now, now, actor_, now});
-        return 1;
+             {name, to_text(document), note, now, now, first, actor_, now});
+        return first;
     }
     QSqlQuery q = exec(QStringLiteral("UPDATE %1 SET document = ?, note = ?, updated_at = ?,"
                                       " version = version + 1, changed_by = ?, changed_at = ?"
@@ -791,7 +849,7 @@ qint64 Database::write_checked(DocumentKind kind, const QString& name, const QJs
                            .arg(QLatin1String(table_of(kind))),
                        {to_text(document), note, now, actor_, now, name, expected_version});
     if (q.numRowsAffected() != 1)
-        throw conflict_error(db_, record_words(kind, name), stamp(kind, name));
+        throw refusal(kind, name);
     return expected_version + 1;
 }
 
@@ -881,10 +939,13 @@ std::vector<DocumentInfo> Database::list_all() const {
 
 bool Database::remove(DocumentKind kind, const QString& name) {
     Transaction t(*this);
+    const RowStamp last = stamp(kind, name);
     QSqlQuery q =
         exec(QStringLiteral("DELETE FROM %1 WHERE name = ?").arg(QLatin1String(table_of(kind))),
              {name.trimmed()});
     const bool removed = q.numRowsAffected() > 0;
+    if (removed)
+        retire(kind, name.trimmed(), last.version, {}, sql::utc_now(db_));
     t.commit();
     return removed;
 }
@@ -898,16 +959,19 @@ bool Database::rename(DocumentKind kind, const QString& old_name, const QString&
         throw chem::Error("name", "\"" + to.toStdString() + "\" is already the name of a saved " +
                                       kind_name(kind).toStdString());
     const QString now = sql::utc_now(db_);
-    QSqlQuery q =
-        versioned()
-            ? exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = version + 1,"
-                                  " changed_by = ?, changed_at = ? WHERE name = ?")
-                       .arg(QLatin1String(table_of(kind))),
-                   {to, now, actor_, now, old_name.trimmed()})
-            : exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ? WHERE name = ?")
-                       .arg(QLatin1String(table_of(kind))),
-                   {to, now, old_name.trimmed()});
+    const QString from = old_name.trimmed();
+    const qint64 was = stamp(kind, from).version;
+    QSqlQuery q = versioned()
+                      ? exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = ?,"
+                                            " changed_by = ?, changed_at = ? WHERE name = ?")
+                                 .arg(QLatin1String(table_of(kind))),
+                             {to, now, renamed_version(kind, to, was), actor_, now, from})
+                      : exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ? WHERE name = ?")
+                                 .arg(QLatin1String(table_of(kind))),
+                             {to, now, from});
     const bool renamed = q.numRowsAffected() > 0;
+    if (renamed && to != from)
+        retire(kind, from, was, to, now);
     t.commit();
     return renamed;
 }
@@ -931,15 +995,18 @@ qint64 Database::rename_checked(DocumentKind kind, const QString& old_name_in,
             throw name_taken_error(db_, kind_words(kind), to, taken);
     }
     const QString now = sql::utc_now(db_);
+    const qint64 stored = renamed_version(kind, to, expected_version);
     QSqlQuery q =
-        exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = version + 1,"
+        exec(QStringLiteral("UPDATE %1 SET name = ?, updated_at = ?, version = ?,"
                             " changed_by = ?, changed_at = ? WHERE name = ? AND version = ?")
                  .arg(QLatin1String(table_of(kind))),
-             {to, now, actor_, now, from, expected_version});
+             {to, now, stored, actor_, now, from, expected_version});
     if (q.numRowsAffected() != 1)
-        throw conflict_error(db_, record_words(kind, from), stamp(kind, from));
+        throw refusal(kind, from);
+    if (to != from)
+        retire(kind, from, expected_version, to, now);
     t.commit();
-    return expected_version + 1;
+    return stored;
 }
 
 // ---- settings -------------------------------------------------------------------------------

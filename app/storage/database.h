@@ -173,6 +173,13 @@ class Database {
                       const QString& note);
     /// The version, who and when of a saved document (version 0 when absent).
     RowStamp stamp(DocumentKind kind, const QString& name) const;
+    /// How `name` was left when no document is saved under it any more: renamed (to what) or
+    /// removed, by whom and when (step retired_names_schema_version). Nothing when it never was,
+    /// or on an older schema.
+    std::optional<Retirement> retirement(DocumentKind kind, const QString& name) const;
+    /// The name the document once saved as `name` is saved under now, following its renames
+    /// (`name` itself when it is still there); empty when it was removed or never saved.
+    QString current_name(DocumentKind kind, const QString& name) const;
 
     /// Inserts or replaces one document (one transaction), whatever its stored version (the demo,
     /// imports, tests; the app's editors use save_checked). Throws chem::Error("name", …) for an
@@ -282,6 +289,18 @@ class Database {
                          const QString& note, qint64 expected_version, const QString& now,
                          const QString& taken_words);
     std::vector<DocumentInfo> list_where(DocumentKind kind) const;
+    /// The version a document newly saved under `name` starts at: 1, or one above the last
+    /// version a document had under that name before it was renamed away or removed.
+    qint64 first_version(DocumentKind kind, const QString& name) const;
+    /// The version of a document at `was` once renamed to `to`: one up, and above every version
+    /// a document once had under `to`.
+    qint64 renamed_version(DocumentKind kind, const QString& to, qint64 was) const;
+    /// Records that `name` was left at `last_version` (renamed to `renamed_to`, or removed when it
+    /// is empty), inside the caller's transaction.
+    void retire(DocumentKind kind, const QString& name, qint64 last_version,
+                const QString& renamed_to, const QString& now);
+    /// The refusal of a checked write to `name`: who renamed or removed it, or who changed it.
+    ConflictError refusal(DocumentKind kind, const QString& name) const;
 
     QString path_;
     sql::Dialect dialect_ = sql::Dialect::sqlite;

@@ -202,6 +202,14 @@ const std::vector<Migration>& migrations() {
              for (const QString& sql : lot_schema_statements(db.dialect()))
                  db.exec(sql);
          }},
+        {retired_names_schema_version,
+         "names a saved document left (renamed away or removed), with its last version, whom and "
+         "when: a document saved again under such a name goes on from there "
+         "(app/storage/versioning.h)",
+         [](Database& db) {
+             for (const QString& sql : retired_names_schema_statements())
+                 db.exec(sql);
+         }},
         // Append new steps here (see the comment at the top of this file).
     };
     return steps;

@@ -548,9 +548,10 @@ CliOutput lot_command(const QStringList& args, const SecretReader& read_secret,
 
 /// The tables in the order of the migration steps (a table before the ones that refer to it).
 const char* const copied_tables[] = {
-    "buffers",         "lines",        "methods",   "sequences",     "settings",   "library_files",
-    "library_shipped", "library_user", "batches",   "batch_history", "devices",    "set_aside",
-    "columns",         "users",        "audit_log", "audit_anchor",  "signatures", "reagent_lots"};
+    "buffers",       "lines",           "methods",      "sequences",    "settings",
+    "library_files", "library_shipped", "library_user", "batches",      "batch_history",
+    "devices",       "set_aside",       "columns",      "users",        "audit_log",
+    "audit_anchor",  "signatures",      "reagent_lots", "retired_names"};
 
 /// The columns of `table` in the source (SQLite), in their order.
 QStringList sqlite_columns(QSqlDatabase db, const QString& table) {

@@ -70,6 +70,16 @@ QStringList versioning_schema_statements(sql::Dialect d, bool documents) {
     return s;
 }
 
+QStringList retired_names_schema_statements() {
+    // `kind` is the table ("buffers", "lines", "methods", "sequences"). One row per name: a name
+    // retired again keeps only its latest retirement (its versions only go up).
+    return {QStringLiteral("CREATE TABLE retired_names ("
+                           " kind TEXT NOT NULL, name TEXT NOT NULL,"
+                           " last_version INTEGER NOT NULL CHECK (last_version >= 1),"
+                           " renamed_to TEXT, retired_by TEXT NOT NULL, retired_at TEXT NOT NULL,"
+                           " PRIMARY KEY (kind, name))")};
+}
+
 bool has_versioning(QSqlDatabase db) {
     return sql::column_exists(db, QStringLiteral("batches"), QStringLiteral("version"));
 }
@@ -114,6 +124,20 @@ ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowSt
                                         "or save yours as a copy")
                              .arg(record, person, time),
                          theirs, person, time);
+}
+
+ConflictError retired_error(QSqlDatabase db, const QString& record, const Retirement& gone) {
+    const QString person = person_words(db, gone.retired_by);
+    const QString time = utc_time_words(gone.retired_at);
+    const QString sentence =
+        gone.renamed_to.isEmpty()
+            ? QStringLiteral("%1 was removed by %2 at %3 after you opened it; save yours as a "
+                             "copy to keep your edits")
+                  .arg(record, person, time)
+            : QStringLiteral("%1 was renamed to \"%2\" by %3 at %4 after you opened it; reload "
+                             "to open \"%2\", or save yours as a copy")
+                  .arg(record, gone.renamed_to, person, time);
+    return ConflictError(sentence, RowStamp{}, person, time);
 }
 
 ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QString& name,

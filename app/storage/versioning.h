@@ -33,12 +33,23 @@ namespace phaseplan::storage {
 /// with another branch's step, renumber this one constant.
 inline constexpr int concurrency_schema_version = 11;
 
+/// The schema step that remembers names a saved document left (renamed away or removed), so that
+/// a document saved again under such a name goes on from the old versions instead of starting at
+/// 1 again: a bench still holding an old version of the old record can then never match the new
+/// one. Written only here: at a merge with another branch's step, renumber this one constant.
+inline constexpr int retired_names_schema_version = 13;
+
 /// The statements of that step, in the back end's dialect: the three columns on each versioned
 /// table (existing rows at version 1, changed_at from updated_at, a batch's changed_by from its
 /// last history row), the change_counter table and its triggers.
 /// `documents` false: only batches and signatures (a bare connection without the saved-document
 /// tables, BatchStore::ensure_schema).
 QStringList versioning_schema_statements(sql::Dialect d, bool documents = true);
+
+/// The statements of step retired_names_schema_version: the table retired_names, one row per
+/// (table, name) a saved document left, with the last version it had under that name, whom and
+/// when, and the name it went to (NULL when removed).
+QStringList retired_names_schema_statements();
 
 /// True when the connection's schema has the step (batches.version exists).
 bool has_versioning(QSqlDatabase db);
@@ -48,6 +59,14 @@ struct RowStamp {
     qint64 version = 0; ///< 0: the row does not exist
     QString changed_by; ///< login or name
     QString changed_at; ///< UTC ISO 8601
+};
+
+/// A name a saved document left: renamed away (renamed_to set) or removed (renamed_to empty).
+struct Retirement {
+    qint64 last_version = 0; ///< the highest version the row had under that name
+    QString renamed_to;      ///< empty when removed
+    QString retired_by;      ///< login or name
+    QString retired_at;      ///< UTC ISO 8601
 };
 
 /// A save refused because the row changed (or was removed) since it was loaded. field() is
@@ -77,6 +96,10 @@ QString utc_time_words(const QString& utc_iso);
 /// Builds the error for `record` ("Batch HR-20261202-001", "Buffer \"Phosphate 25 mM\""): the
 /// sentence names who changed it and when, and says what to do.
 ConflictError conflict_error(QSqlDatabase db, const QString& record, const RowStamp& theirs);
+/// The same for a record that is no longer under its name: "Plan \"Tonight\" was renamed to
+/// \"Tonight 2\" by Mats Lindqvist (demo-review) at … after you opened it; open \"Tonight 2\", or
+/// save yours as a copy" (or "was removed by … at …"). theirs() is version 0.
+ConflictError retired_error(QSqlDatabase db, const QString& record, const Retirement& gone);
 
 /// A save under a name that is taken (a Save as, a rename, a new record): field "name", and the
 /// sentence names who saved that name and when: "A plan named \"Tonight\" was saved by Rosa
