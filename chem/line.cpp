@@ -370,29 +370,33 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
     out.mixed_volume_ml = volume_ml - out.contraction_ml;
 
     // Steps, in order.
-    int n = 1;
-    auto step = [&](const std::string& s) { out.steps.push_back(std::to_string(n++) + ". " + s); };
+    auto step = [&](StepKind kind, const std::string& s) { out.steps.push_back(Step{kind, s}); };
     if (out.buffer) {
-        step("Prepare the aqueous buffer (at least " + fmt(aqueous_ml, 0) +
-             " mL, recipe under \"buffer\") and measure and adjust its pH now, in the aqueous "
-             "buffer alone, "
-             "before any organic solvent goes in: the meter reading of the mixed line means "
-             "something else.");
+        step(StepKind::prepare_buffer,
+             "Prepare the aqueous buffer (at least " + fmt(aqueous_ml, 0) +
+                 " mL, recipe under \"buffer\") and measure and adjust its pH now, in the aqueous "
+                 "buffer alone, "
+                 "before any organic solvent goes in: the meter reading of the mixed line means "
+                 "something else.");
     }
     if (line.parts.size() > 1)
-        step("Measure each part separately and only then combine them in the bottle: " +
-             join(measured, "; ") + ". Do not make up to a mark after mixing.");
+        step(StepKind::combine_parts,
+             "Measure each part separately and only then combine them in the bottle: " +
+                 join(measured, "; ") + ". Do not make up to a mark after mixing.");
     else
-        step("Fill " + join(measured) + " into the bottle.");
+        step(StepKind::fill_bottle, "Fill " + join(measured) + " into the bottle.");
     if (!additive_steps.empty())
-        step("Add to the combined line: " + join(additive_steps, "; ") +
-             ". Liquids with a pipette; acids and bases go into the liquid, never the liquid onto "
-             "the neat reagent.");
+        step(StepKind::add_additives, "Add to the combined line: " + join(additive_steps, "; ") +
+                                          ". Liquids with a pipette; acids and bases go into the "
+                                          "liquid, never the liquid onto "
+                                          "the neat reagent.");
     if (out.contraction_ml > 0.05 * volume_ml / 100.0)
-        step("Expect about " + fmt(out.mixed_volume_ml, 0) + " mL, not " + fmt(volume_ml, 0) +
-             " mL: the aqueous part and the organic contract on mixing (" +
-             join(contraction_text, ", ") + "; an estimate from excess-volume data).");
-    step("Mix, let the line return to room temperature, degas it, and label the bottle with "
+        step(StepKind::expect_contraction,
+             "Expect about " + fmt(out.mixed_volume_ml, 0) + " mL, not " + fmt(volume_ml, 0) +
+                 " mL: the aqueous part and the organic contract on mixing (" +
+                 join(contraction_text, ", ") + "; an estimate from excess-volume data).");
+    step(StepKind::mix_degas_and_label,
+         "Mix, let the line return to room temperature, degas it, and label the bottle with "
          "contents, date "
          "and hazards.");
 

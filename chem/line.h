@@ -103,7 +103,7 @@ struct LineRecipe {
     double contraction_ml = 0;    ///< estimated volume lost on mixing (≥ 0 for contraction)
     double mixed_volume_ml = 0;   ///< volume_ml − contraction_ml
     std::vector<std::string> contraction_sources;
-    std::vector<std::string> steps;
+    std::vector<Step> steps; ///< in bench order
     std::vector<std::string> notes;
     std::vector<std::string> cautions;
 };

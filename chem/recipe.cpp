@@ -428,14 +428,16 @@ std::string reagent_label(const Reagent& r) {
     return r.name + " (" + r.formula + ", " + format_fixed(r.molar_mass_g_per_mol, 2) + " g/mol)";
 }
 
-void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<std::string>& steps) {
+void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<Step>& steps) {
     for (const auto& it : recipe.items) {
         const Reagent& r = lib.reagent(it.reagent);
         if (it.as.rfind("titrant", 0) == 0)
             continue;
         if (it.as == "solid") {
-            steps.push_back("Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
-                            " and dissolve it in the water.");
+            steps.push_back({StepKind::dissolve_solid,
+                             "Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
+                                 " and dissolve it in the water.",
+                             r.id, it.mass_g, std::nullopt});
         } else if (it.as == "liquid") {
             std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" +
                             format_amount(*it.mass_g) + " g) of " + reagent_label(r) + ", " +
@@ -443,10 +445,12 @@ void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<std:
                             format_number(r.density_g_per_ml) + " g/mL, and add it to the water";
             if (r.is_corrosive())
                 s += " slowly, with stirring (acid or base into water, never water into it)";
-            steps.push_back(s + ".");
+            steps.push_back({StepKind::add_liquid, s + ".", r.id, it.mass_g, it.volume_ml});
         } else {
-            steps.push_back("Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name +
-                            " " + it.as + " into the flask.");
+            steps.push_back({StepKind::pipette_solution,
+                             "Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name +
+                                 " " + it.as + " into the flask.",
+                             r.id, std::nullopt, it.volume_ml});
         }
     }
 }
@@ -691,19 +695,25 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     const std::string at_volume =
         "about " + format_number(std::round(check_ml)) + " mL, before making up to volume";
     if (req.route == Route::stocks) {
-        steps.push_back("Rinse a " + format_number(req.volume_ml) +
-                        " mL volumetric flask with HPLC-grade water.");
+        steps.push_back(
+            Step{StepKind::rinse_flask, "Rinse a " + format_number(req.volume_ml) +
+                                            " mL volumetric flask with HPLC-grade water."});
         add_amount_steps(lib, recipe, steps);
-        steps.push_back("Make up to the mark with water at " + format_number(req.temperature_c) +
-                        " °C and mix well.");
-        steps.push_back("Check the pH at " + format_number(req.temperature_c) +
-                        " °C: " + ph_text(recipe.predicted.ph) +
-                        " is predicted. If the meter reads more than 0.05 away, check the meter "
-                        "calibration and the stock concentrations before adjusting.");
+        steps.push_back(Step{StepKind::make_up, "Make up to the mark with water at " +
+                                                    format_number(req.temperature_c) +
+                                                    " °C and mix well."});
+        steps.push_back(
+            Step{StepKind::check_ph,
+                 "Check the pH at " + format_number(req.temperature_c) +
+                     " °C: " + ph_text(recipe.predicted.ph) +
+                     " is predicted. If the meter reads more than 0.05 away, check the meter "
+                     "calibration and the stock concentrations before adjusting."});
     } else {
-        steps.push_back("Put about " + format_number(water_ml) +
-                        " mL of HPLC-grade water (about 80 % of the final volume) in a clean "
-                        "beaker with a stirrer.");
+        steps.push_back(
+            Step{StepKind::water_in_beaker,
+                 "Put about " + format_number(water_ml) +
+                     " mL of HPLC-grade water (about 80 % of the final volume) in a clean "
+                     "beaker with a stirrer."});
         add_amount_steps(lib, recipe, steps);
     }
     if (req.route == Route::titrate) {
@@ -716,30 +726,37 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         std::string predicted = format_amount(t.volume_ml.value_or(0)) + " mL";
         if (neat)
             predicted += " (" + format_amount(t.mass_g.value_or(0)) + " g)";
-        steps.push_back("Bring the solution to " + format_number(req.temperature_c) +
-                        " °C and calibrate the pH meter at that temperature.");
-        steps.push_back(
+        steps.push_back(Step{StepKind::calibrate_meter,
+                             "Bring the solution to " + format_number(req.temperature_c) +
+                                 " °C and calibrate the pH meter at that temperature."});
+        steps.push_back(Step{
+            StepKind::titrate,
             "While stirring, add " + titrant.name +
-            (neat ? " as supplied (neat), drop by drop,"
-                  : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
-            " until the meter reads " + ph_text(check_ph) + " (the pH predicted at " + at_volume +
-            "; " + ph_text(req.target_ph) + " after making up); about " + predicted +
-            " is predicted.");
+                (neat ? " as supplied (neat), drop by drop,"
+                      : " " + format_number(req.titrant_mol_per_l) + " mol/L in small portions") +
+                " until the meter reads " + ph_text(check_ph) + " (the pH predicted at " +
+                at_volume + "; " + ph_text(req.target_ph) + " after making up); about " +
+                predicted + " is predicted."});
     } else if (req.route == Route::mix) {
-        steps.push_back(
+        steps.push_back(Step{
+            StepKind::check_ph,
             "Check the pH at " + format_number(req.temperature_c) + " °C: " + ph_text(check_ph) +
-            " is predicted at " + at_volume + " (" + ph_text(recipe.predicted.ph) +
-            " after making up). If the meter reads more than 0.05 away, check the meter "
-            "calibration and the weighings before adjusting.");
+                " is predicted at " + at_volume + " (" + ph_text(recipe.predicted.ph) +
+                " after making up). If the meter reads more than 0.05 away, check the meter "
+                "calibration and the weighings before adjusting."});
     }
     if (req.route != Route::stocks)
-        steps.push_back("Transfer to a " + format_number(req.volume_ml) +
-                        " mL volumetric flask, rinse the beaker into it, and make up to the mark "
-                        "with water at " +
-                        format_number(req.temperature_c) + " °C; mix well.");
-    steps.push_back("Filter through a 0.45 µm (or 0.2 µm) membrane filter suited to aqueous "
-                    "solutions.");
-    steps.push_back("Label the bottle: contents, pH, date, preparer, expiry.");
+        steps.push_back(
+            Step{StepKind::transfer_and_make_up,
+                 "Transfer to a " + format_number(req.volume_ml) +
+                     " mL volumetric flask, rinse the beaker into it, and make up to the mark "
+                     "with water at " +
+                     format_number(req.temperature_c) + " °C; mix well."});
+    steps.push_back(Step{StepKind::filter,
+                         "Filter through a 0.45 µm (or 0.2 µm) membrane filter suited to aqueous "
+                         "solutions."});
+    steps.push_back(
+        Step{StepKind::label, "Label the bottle: contents, pH, date, preparer, expiry."});
 
     recipe.cautions = cautions_for(lib, used);
 

@@ -2,6 +2,7 @@
 // The recipe designer: from a target pH, temperature, final volume and a preparation route, the
 // amounts to weigh or pipette before making up to volume.
 #include "chem/equilibrium.h"
+#include "chem/step.h"
 
 #include <optional>
 #include <string>
@@ -125,7 +126,7 @@ struct Recipe {
     std::vector<RecipeItem> items;
     std::vector<Component> composition; ///< the solution as made, ready to feed back into solve()
     Speciation predicted;               ///< solve() of composition at the request's temperature
-    std::vector<std::string> steps;     ///< in order
+    std::vector<Step> steps;            ///< in bench order
     std::vector<std::string>
         cautions; ///< from the reagents' hazards; defers to the SDS and local rules
     std::vector<Warning> warnings;

@@ -5,6 +5,7 @@
 #include "chem/recipe_roles.h"
 #include "chem/units.h"
 #include "chem/water.h"
+#include "core/batch_document.h"
 #include "core/chem_json.h"
 #include "core/commands.h"
 #include "test_support.h"
@@ -70,6 +71,7 @@ class TestRecipe : public QObject {
     void defaultNameFollowsTheInputs();
     void bufferingRangeUsesConditionalPka();
     void stepsStateThePhWhereItIsRead();
+    void stepsAreDataNumberedOnlyWhereShown();
 };
 
 void TestRecipe::roundTripLandsOnTarget_data() {
@@ -1023,6 +1025,57 @@ void TestRecipe::stepsStateThePhWhereItIsRead() {
             check = i;
     }
     QVERIFY(make_up >= 0 && check > make_up);
+}
+
+void TestRecipe::stepsAreDataNumberedOnlyWhereShown() {
+    // chem::Step carries its kind and the amount it measures; the sentence is unnumbered and
+    // each place that shows steps numbers them once. The demo line (a phosphate buffer part and
+    // acetonitrile) as a batch: its buffer's steps and its own, as the screen and the sheet list
+    // them. Common practice, no source: a step list is numbered once, by what shows it.
+    QFile f(SOURCE_DIR "/data/demo/line-phosphate-acetonitrile.json");
+    QVERIFY(f.open(QIODevice::ReadOnly));
+    QJsonObject in = QJsonDocument::fromJson(f.readAll()).object();
+    in["batch"] = QJsonObject{
+        {"id", "T-1"}, {"prepared_by", "T. Tester"}, {"prepared_at", "2026-12-02T16:30:00"}};
+    const phaseplan::BatchDocument d = phaseplan::read_batch_document(shipped_data(), in);
+    QVERIFY(d.line && d.line->buffer);
+    const auto& line_steps = d.line->steps;
+    QCOMPARE(line_steps.front().kind, chem::StepKind::prepare_buffer);
+    QCOMPARE(line_steps.back().kind, chem::StepKind::mix_degas_and_label);
+    QCOMPARE(d.steps.size(), 2);
+    static const QRegularExpression numbered("^\\s*\\d+\\.");
+    for (const auto& section : d.steps)
+        for (const QString& s : section.steps)
+            QVERIFY2(!numbered.match(s).hasMatch(), qPrintable(section.heading + ": " + s));
+    QCOMPARE(d.steps[1].steps.size(), qsizetype(line_steps.size()));
+    // The command line's `line` output keeps its "1. …" numbering.
+    QCOMPARE(chem::numbered_step_texts(line_steps).front(), "1. " + line_steps.front().text);
+
+    // The buffer part's weighing and measuring steps name the reagent and carry the amount of
+    // the recipe's item; the degassing step the sheet adds goes before the label step.
+    const chem::Recipe& buffer = *d.line->buffer;
+    int measured = 0;
+    for (const chem::Step& st : buffer.steps) {
+        if (st.kind != chem::StepKind::dissolve_solid && st.kind != chem::StepKind::add_liquid)
+            continue;
+        ++measured;
+        bool matched = false;
+        for (const chem::RecipeItem& it : buffer.items)
+            if (it.reagent == st.reagent) {
+                matched = true;
+                QCOMPARE(st.mass_g, it.mass_g);
+                if (st.kind == chem::StepKind::add_liquid)
+                    QCOMPARE(st.volume_ml, it.volume_ml);
+            }
+        QVERIFY2(matched, st.reagent.c_str());
+    }
+    QCOMPARE(measured, 2); // phosphoric acid (liquid) and the dihydrogen phosphate (solid)
+    const QStringList shown = phaseplan::recipe_steps(buffer);
+    QCOMPARE(shown.size(), qsizetype(buffer.steps.size() + 1));
+    const int degas = shown.indexOf(QRegularExpression("^Degas before use.*"));
+    QVERIFY(degas >= 0);
+    QCOMPARE(shown.at(degas + 1), QString::fromStdString(buffer.steps.back().text));
+    QCOMPARE(buffer.steps.back().kind, chem::StepKind::label);
 }
 
 QTEST_GUILESS_MAIN(TestRecipe)

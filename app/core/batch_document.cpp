@@ -11,7 +11,6 @@
 #include <QDir>
 #include <QFile>
 #include <QJsonDocument>
-#include <QRegularExpression>
 #include <QSet>
 
 #include <cmath>
@@ -417,13 +416,10 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
                                    d.shelf_life_h);
         add_reasons(data, d.result->checks, d);
         add_ph_reason(*d.result, batch, lr.buffer->request.target_ph, d);
-        QStringList bs;
-        for (const auto& s : lr.buffer->steps)
-            bs << qs(s);
-        d.steps << StepSection{QStringLiteral("Buffer steps"), bs};
+        d.steps << StepSection{QStringLiteral("Buffer steps"), step_sentences(lr.buffer->steps)};
     }
     d.steps << StepSection{lr.buffer ? QStringLiteral("Line steps") : QStringLiteral("Steps"),
-                           json::strings_of(d.line_out.value("steps"))};
+                           step_sentences(lr.steps)};
 
     // Corrections: the parts against the bottle, the buffer against its container.
     const std::optional<double> bottle =
@@ -655,16 +651,24 @@ double default_shelf_life_h(const AppData& data, const QString& kind, QString* s
     return d.hours_for(chem::SolutionKind::organic);
 }
 
+QStringList step_sentences(const std::vector<chem::Step>& steps) {
+    QStringList out;
+    for (const chem::Step& s : steps)
+        out << qs(s.text);
+    return out;
+}
+
 QStringList recipe_steps(const chem::Recipe& recipe) {
-    static const QRegularExpression lead_number(QStringLiteral("^\\s*\\d+\\.\\s+"));
     QStringList steps;
     bool degas = false;
-    for (const auto& s : recipe.steps) {
-        steps << qs(s).remove(lead_number);
-        degas |= qs(s).contains("degas", Qt::CaseInsensitive);
+    int label_step = -1;
+    for (const chem::Step& s : recipe.steps) {
+        if (s.kind == chem::StepKind::label && label_step < 0)
+            label_step = static_cast<int>(steps.size());
+        steps << qs(s.text);
+        degas |= chem::degasses(s.kind);
     }
     if (!degas) {
-        const int label_step = steps.indexOf(QRegularExpression("^Label the bottle.*"));
         const QString text =
             QStringLiteral("Degas before use (helium sparge, vacuum or ultrasound) "
                            "unless the pump degasses in line.");

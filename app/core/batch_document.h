@@ -69,6 +69,8 @@ struct StepSection {
 /// The recipe's steps as shown and printed: the designer's, with a degassing step before the
 /// labelling step when the designer's steps leave it out.
 QStringList recipe_steps(const chem::Recipe& recipe);
+/// The steps' sentences, unnumbered (the screen and the sheet number them).
+QStringList step_sentences(const std::vector<chem::Step>& steps);
 
 /// A reagent, solvent or line part by the name the screens show ("Potassium dihydrogen
 /// phosphate", "Acetonitrile", "Aqueous buffer"); the id itself when unknown.

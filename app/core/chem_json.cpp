@@ -173,7 +173,7 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
                                        {"mol_per_l", c.mol_per_l}});
     QJsonArray steps, cautions;
     for (const auto& s : r.steps)
-        steps.append(QString::fromStdString(s));
+        steps.append(QString::fromStdString(s.text));
     for (const auto& s : r.cautions)
         cautions.append(QString::fromStdString(s));
     QJsonObject out{{"items", items},

@@ -480,7 +480,7 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
                                 : data.solvents.shelf_life(r.profile.shelf_kind)
                                     ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
                                     : QString()}}},
-        {"steps", strings(r.steps)},
+        {"steps", strings(chem::numbered_step_texts(r.steps))},
         {"notes", strings(r.notes)},
         {"cautions", strings(r.cautions)},
         {"warnings", warnings}};

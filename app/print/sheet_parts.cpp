@@ -236,9 +236,7 @@ Block warnings_block(const QJsonArray& warnings) {
 Block numbered(const QStringList& items) {
     Block b;
     b.kind = Block::Kind::numbered;
-    static const QRegularExpression lead_number(QStringLiteral("^\\s*\\d+\\.\\s+"));
-    for (QString s : items)
-        b.items << s.remove(lead_number);
+    b.items = items; // unnumbered sentences (chem::Step): the page numbers them
     return b;
 }
 
