@@ -267,7 +267,11 @@ ScreenPage {
                         DateTimeField {
                             objectName: "expiresAtField"
                             Layout.fillWidth: true
-                            label: qsTr("Expires at (default: %n h shelf life)", "", Math.round(root.batch.shelfLifeH))
+                            // A lot that expires sooner sets the use-by below: the label says
+                            // this date is not the one printed.
+                            label: root.batch.useByLimit.length > 0
+                                   ? qsTr("Expires at by shelf life (%n h); a lot expires sooner, see Use by", "", Math.round(root.batch.shelfLifeH))
+                                   : qsTr("Expires at (default: %n h shelf life)", "", Math.round(root.batch.shelfLifeH))
                             text: root.dateWords(root.batch.expiresAt)
                             year: root.part(root.batch.expiresAt, 0, 4, 2026)
                             month: root.part(root.batch.expiresAt, 5, 2, 1)
