@@ -10,6 +10,7 @@
 
 #include <algorithm>
 #include <cmath>
+#include <cstdio>
 #include <iostream>
 #include <string>
 #include <vector>
@@ -623,4 +624,34 @@ TEST(Equilibrium, TruesdellJonesCoversTheStandards) {
     EXPECT_STREQ(chem::activity_model_name(chem::ActivityModel::truesdell_jones),
                  "truesdell-jones");
     EXPECT_FALSE(chem::activity_model_from_name("pitzer").has_value());
+}
+
+// The residual table of the IUPAC/NIST primary standards (tests/data/reference_buffers.json,
+// sources named there): model pH minus the standard's pH(S), per standard, temperature and
+// activity model, printed for the record
+// (`build/chem_equilibrium --gtest_filter='*StandardsResidualTable*'`). Each row is held to the
+// tolerance of its model (the same bounds as the three tests above), so the table printed is the
+// table tested. The extended models take the standards as molal (c = m · ρ_w).
+TEST(Equilibrium, StandardsResidualTable) {
+    const std::vector<ReferenceRow> rows = reference_rows();
+    ASSERT_FALSE(rows.empty());
+    std::printf("%-52s %5s %8s %8s %8s %8s\n", "standard", "t/°C", "pH(S)", "davies", "sit", "t-j");
+    for (const ReferenceRow& r : rows) {
+        SCOPED_TRACE(r.name + " @ " + std::to_string(r.temperature_c) + " C");
+        const double rho = chem::water_density_g_per_ml(chem::to_kelvin(r.temperature_c));
+        std::vector<chem::Component> molal;
+        for (const chem::Component& c : r.components)
+            molal.push_back({c.reagent, c.mol_per_l * rho});
+        const double davies = chem::solve(lib(), r.components, r.temperature_c).ph - r.published_ph;
+        const double sit = chem::solve(lib(), molal, r.temperature_c, chem::ActivityModel::sit).ph -
+                           r.published_ph;
+        const double tj =
+            chem::solve(lib(), molal, r.temperature_c, chem::ActivityModel::truesdell_jones).ph -
+            r.published_ph;
+        std::printf("%-52s %5.0f %8.3f %+8.4f %+8.4f %+8.4f\n", r.name.c_str(), r.temperature_c,
+                    r.published_ph, davies, sit, tj);
+        EXPECT_LE(std::abs(davies), r.tolerance);
+        EXPECT_LE(std::abs(sit), r.tolerance_sit);
+        EXPECT_LE(std::abs(tj), r.tolerance_tj);
+    }
 }
