@@ -432,10 +432,10 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
 
         // Compare in the quantity the preparer entered; by default the one the recipe measures
         // (a solid by mass, a liquid or a solution by volume).
-        bool by_mass = a ? a->mass_g.has_value() : (it.as == "solid");
+        bool by_mass = a ? a->mass_g.has_value() : (it.kind == ItemKind::solid);
         if (by_mass && !basis.mol_per_g)
             throw Error(item_path(entry_of[k], "mass_g"),
-                        it.reagent + " is used as a " + it.as +
+                        it.reagent + " is used as a " + item_as_text(it) +
                             " solution, measured by volume: give volume_ml");
         if (!by_mass && !basis.mol_per_ml)
             throw Error(item_path(entry_of[k], "volume_ml"),
