@@ -149,8 +149,9 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
         solvents[qs(id)] = f;
     QJsonArray solutes;
     for (const auto& s : p.solutes)
-        solutes.append(QJsonObject{
-            {"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+        solutes.append(QJsonObject{{"reagent", qs(s.reagent)},
+                                   {"mmol_per_l", s.mmol_per_l},
+                                   {"from", QLatin1String(chem::solute_source_name(s.from))}});
     return QJsonObject{{"aqueous_fraction_v", p.aqueous_fraction_v},
                        {"organic_fraction_v", p.organic_fraction_v},
                        {"solvents", solvents},
@@ -158,7 +159,7 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
                        {"uv_cutoff_nm", p.uv_cutoff_nm},
                        {"uv_limited_by", qs(p.uv_limited_by)},
                        {"ph", opt(p.ph)},
-                       {"ph_basis", qs(p.ph_basis)},
+                       {"ph_basis", QString::fromUtf8(chem::ph_basis_name(p.ph_basis))},
                        {"nonvolatile", strings(p.nonvolatile)},
                        {"shelf_kind", qs(p.shelf_kind)},
                        {"shelf_life_h", p.shelf_life_h}};
@@ -433,14 +434,14 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
     QJsonArray items;
     for (const auto& it : r.items) {
         QJsonObject o{{"part", qs(it.part)},
-                      {"kind", qs(it.kind)},
+                      {"kind", QLatin1String(chem::line_item_kind_name(it.kind))},
                       {"volume_ml", opt(it.volume_ml)},
                       {"mass_g", opt(it.mass_g)}};
-        if (it.kind != "additive")
+        if (it.kind != chem::LineItemKind::additive)
             o["fraction_v"] = it.fraction_v;
         if (it.density_g_per_ml > 0)
             o["density_g_per_ml"] = it.density_g_per_ml;
-        if (it.density_g_per_ml > 0 && it.kind != "additive")
+        if (it.density_g_per_ml > 0 && it.kind != chem::LineItemKind::additive)
             o["density_temperature_c"] = it.density_temperature_c;
         o["density_basis"] = qs(it.density_basis);
         items.append(o);
@@ -467,7 +468,7 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
         {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
         {"uv_limited_by", qs(r.profile.uv_limited_by)},
         {"ph", opt(r.profile.ph)},
-        {"ph_basis", qs(r.profile.ph_basis)},
+        {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
         {"mixed_volume_ml", r.mixed_volume_ml},
         {"contraction_ml", r.contraction_ml},
         {"contraction_sources", strings(r.contraction_sources)},
