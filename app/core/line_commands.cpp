@@ -67,17 +67,18 @@ std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const s
     const QJsonObject o = json::require_object(doc, "detector", root);
     json::reject_near_misses(o, {"type", "wavelength_nm", "margin_nm"}, at);
     chem::Detector d;
-    d.type = json::require_string(o, "type", at);
-    std::transform(d.type.begin(), d.type.end(), d.type.begin(),
+    std::string type = json::require_string(o, "type", at);
+    std::transform(type.begin(), type.end(), type.begin(),
                    [](unsigned char ch) { return std::tolower(ch); });
-    const auto& types = chem::detector_types();
-    if (std::find(types.begin(), types.end(), d.type) == types.end()) {
+    const auto parsed = chem::detector_type_from_name(type);
+    if (!parsed) {
         std::string known;
-        for (const auto& t : types)
-            known += (known.empty() ? "" : ", ") + t;
+        for (const chem::DetectorType t : chem::detector_types())
+            known += (known.empty() ? "" : ", ") + std::string(chem::detector_type_name(t));
         throw chem::Error(json::path(at, "type"),
-                          "\"" + d.type + "\" is not a detector type (" + known + ")");
+                          "\"" + type + "\" is not a detector type (" + known + ")");
     }
+    d.type = *parsed;
     if (chem::detector_reads_uv(d.type)) {
         const double wl = json::require_number(o, "wavelength_nm", at);
         if (wl < 180 || wl > 900)
