@@ -61,40 +61,6 @@ int days_in_month(int y, int m) {
 
 } // namespace
 
-const char* solution_kind_name(SolutionKind kind) {
-    switch (kind) {
-    case SolutionKind::aqueous_buffer:
-        return "aqueous_buffer";
-    case SolutionKind::organic:
-        return "organic";
-    case SolutionKind::mixed:
-        return "mixed";
-    }
-    return "aqueous_buffer";
-}
-
-std::optional<SolutionKind> solution_kind_from_name(const std::string& name) {
-    if (name == "aqueous_buffer")
-        return SolutionKind::aqueous_buffer;
-    if (name == "organic")
-        return SolutionKind::organic;
-    if (name == "mixed")
-        return SolutionKind::mixed;
-    return std::nullopt;
-}
-
-double ShelfLifeDefaults::hours_for(SolutionKind kind) const {
-    switch (kind) {
-    case SolutionKind::aqueous_buffer:
-        return aqueous_buffer_h;
-    case SolutionKind::organic:
-        return organic_h;
-    case SolutionKind::mixed:
-        return mixed_h;
-    }
-    return aqueous_buffer_h;
-}
-
 // ---- date-times -------------------------------------------------------------------------------
 
 LocalDateTime parse_local_datetime(const std::string& text, const std::string& field) {

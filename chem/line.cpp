@@ -238,22 +238,24 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     const bool organic = p.organic_fraction_v >= 0.1 - 1e-12;
     if (buffers > 0 || (salts && p.aqueous_fraction_v > 0)) {
         if (p.short_lived)
-            p.shelf_kind = "aqueous-buffer-volatile";
+            p.shelf_kind = ShelfKind::aqueous_buffer_volatile;
         else
-            p.shelf_kind = organic ? "buffer-with-organic" : "aqueous-buffer";
+            p.shelf_kind = organic ? ShelfKind::buffer_with_organic : ShelfKind::aqueous_buffer;
     } else if (!p.solutes.empty()) {
         if (p.short_lived && !organic)
-            p.shelf_kind = "aqueous-buffer-volatile";
+            p.shelf_kind = ShelfKind::aqueous_buffer_volatile;
         else
-            p.shelf_kind = p.organic_fraction_v > 0 ? "organic-additive" : "aqueous-additive";
+            p.shelf_kind = p.organic_fraction_v > 0 ? ShelfKind::organic_additive
+                                                    : ShelfKind::aqueous_additive;
     } else if (p.organic_fraction_v == 0) {
-        p.shelf_kind = "water";
+        p.shelf_kind = ShelfKind::water;
     } else {
-        p.shelf_kind = p.solvent_fraction_v.size() == 1 ? "neat-solvent" : "solvent-mixture";
+        p.shelf_kind =
+            p.solvent_fraction_v.size() == 1 ? ShelfKind::neat_solvent : ShelfKind::solvent_mixture;
     }
     if (line.shelf_life_h)
         p.shelf_life_h = *line.shelf_life_h;
-    else if (const ShelfLife* sl = solvents.shelf_life(p.shelf_kind))
+    else if (const ShelfLife* sl = solvents.shelf_life(*p.shelf_kind))
         p.shelf_life_h = sl->hours;
     return p;
 }

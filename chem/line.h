@@ -92,10 +92,15 @@ struct LineProfile {
     PhBasis ph_basis = PhBasis::none;
     std::vector<std::string> nonvolatile; ///< solutes unsuitable for MS / ELSD / CAD
     std::vector<std::string> volatility_unknown;
-    std::string shelf_kind;   ///< a ShelfLife::kind
-    double shelf_life_h = 0;  ///< default for the kind, or the line's override
-    bool short_lived = false; ///< a short-lived component is present
+    std::optional<ShelfKind> shelf_kind; ///< nullopt for a line without parts
+    double shelf_life_h = 0;             ///< default for the kind, or the line's override
+    bool short_lived = false;            ///< a short-lived component is present
 };
+
+/// shelf_kind_name of the profile's kind; "" for a line without parts.
+inline const char* shelf_kind_name(const LineProfile& p) {
+    return p.shelf_kind ? shelf_kind_name(*p.shelf_kind) : "";
+}
 
 /// Validates the line (fractions in (0, 1] summing to 1 ± 1e−4, known solvent and additive ids,
 /// positive amounts, % v/v only for liquids) and works out its profile. Errors name

@@ -162,7 +162,7 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
                        {"ph", opt(p.ph)},
                        {"ph_basis", QString::fromUtf8(chem::ph_basis_name(p.ph_basis))},
                        {"nonvolatile", strings(p.nonvolatile)},
-                       {"shelf_kind", qs(p.shelf_kind)},
+                       {"shelf_kind", QLatin1String(chem::shelf_kind_name(p))},
                        {"shelf_life_h", p.shelf_life_h}};
 }
 
@@ -462,30 +462,30 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
                                           &data.reagents, library_names(data)))
         warnings.append(check_warning_to_json(w, nullptr));
 
-    QJsonObject out{
-        {"name", qs(pl.spec.name)},
-        {"volume_ml", volume},
-        {"items", items},
-        {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
-        {"uv_limited_by", qs(r.profile.uv_limited_by)},
-        {"ph", opt(r.profile.ph)},
-        {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
-        {"mixed_volume_ml", r.mixed_volume_ml},
-        {"contraction_ml", r.contraction_ml},
-        {"contraction_sources", strings(r.contraction_sources)},
-        {"composition", profile_to_json(r.profile)},
-        {"solvents", props},
-        {"shelf_life",
-         QJsonObject{{"kind", qs(r.profile.shelf_kind)},
-                     {"hours", r.profile.shelf_life_h},
-                     {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
-                                : data.solvents.shelf_life(r.profile.shelf_kind)
-                                    ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
-                                    : QString()}}},
-        {"steps", strings(r.steps)},
-        {"notes", strings(r.notes)},
-        {"cautions", strings(r.cautions)},
-        {"warnings", warnings}};
+    const chem::ShelfLife* shelf_entry =
+        r.profile.shelf_kind ? data.solvents.shelf_life(*r.profile.shelf_kind) : nullptr;
+    QJsonObject out{{"name", qs(pl.spec.name)},
+                    {"volume_ml", volume},
+                    {"items", items},
+                    {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
+                    {"uv_limited_by", qs(r.profile.uv_limited_by)},
+                    {"ph", opt(r.profile.ph)},
+                    {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
+                    {"mixed_volume_ml", r.mixed_volume_ml},
+                    {"contraction_ml", r.contraction_ml},
+                    {"contraction_sources", strings(r.contraction_sources)},
+                    {"composition", profile_to_json(r.profile)},
+                    {"solvents", props},
+                    {"shelf_life",
+                     QJsonObject{{"kind", QLatin1String(chem::shelf_kind_name(r.profile))},
+                                 {"hours", r.profile.shelf_life_h},
+                                 {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
+                                            : shelf_entry        ? qs(shelf_entry->source)
+                                                                 : QString()}}},
+                    {"steps", strings(r.steps)},
+                    {"notes", strings(r.notes)},
+                    {"cautions", strings(r.cautions)},
+                    {"warnings", warnings}};
     if (r.buffer)
         out["buffer"] = recipe_to_json(*r.buffer);
     return out;

@@ -123,13 +123,16 @@ QList<KeyValue> batch_fields(const chem::Batch& b, const QString& recipe, const 
     };
 }
 
-QString shelf_note_text(double hours, const QString& kind, const QString& source, bool given) {
+QString shelf_note_text(double hours, std::optional<chem::ShelfKind> kind, const QString& source,
+                        bool given) {
     if (given)
         return QStringLiteral("expiry entered with the batch");
     QString h = qs(chem::format_number(hours)) + " h";
     if (hours >= 48 && std::fmod(hours, 24) == 0)
         h += " (" + qs(chem::format_number(hours / 24)) + " days)";
-    return h + ", " + kind + (source.isEmpty() ? QString() : " — " + source);
+    if (kind)
+        h += ", " + QString::fromUtf8(chem::shelf_kind_words(*kind));
+    return h + (source.isEmpty() ? QString() : " — " + source);
 }
 
 // ---- shared pieces ------------------------------------------------------------------------------
