@@ -61,40 +61,6 @@ int days_in_month(int y, int m) {
 
 } // namespace
 
-const char* solution_kind_name(SolutionKind kind) {
-    switch (kind) {
-    case SolutionKind::aqueous_buffer:
-        return "aqueous_buffer";
-    case SolutionKind::organic:
-        return "organic";
-    case SolutionKind::mixed:
-        return "mixed";
-    }
-    return "aqueous_buffer";
-}
-
-std::optional<SolutionKind> solution_kind_from_name(const std::string& name) {
-    if (name == "aqueous_buffer")
-        return SolutionKind::aqueous_buffer;
-    if (name == "organic")
-        return SolutionKind::organic;
-    if (name == "mixed")
-        return SolutionKind::mixed;
-    return std::nullopt;
-}
-
-double ShelfLifeDefaults::hours_for(SolutionKind kind) const {
-    switch (kind) {
-    case SolutionKind::aqueous_buffer:
-        return aqueous_buffer_h;
-    case SolutionKind::organic:
-        return organic_h;
-    case SolutionKind::mixed:
-        return mixed_h;
-    }
-    return aqueous_buffer_h;
-}
-
 // ---- date-times -------------------------------------------------------------------------------
 
 LocalDateTime parse_local_datetime(const std::string& text, const std::string& field) {
@@ -432,10 +398,10 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
 
         // Compare in the quantity the preparer entered; by default the one the recipe measures
         // (a solid by mass, a liquid or a solution by volume).
-        bool by_mass = a ? a->mass_g.has_value() : (it.as == "solid");
+        bool by_mass = a ? a->mass_g.has_value() : (it.kind == ItemKind::solid);
         if (by_mass && !basis.mol_per_g)
             throw Error(item_path(entry_of[k], "mass_g"),
-                        it.reagent + " is used as a " + it.as +
+                        it.reagent + " is used as a " + item_as_text(it) +
                             " solution, measured by volume: give volume_ml");
         if (!by_mass && !basis.mol_per_ml)
             throw Error(item_path(entry_of[k], "volume_ml"),

@@ -16,30 +16,6 @@
 
 namespace chem {
 
-/// What a shelf life depends on: water with buffer salts grows microbes and takes up CO2;
-/// organic solvents do not, but evaporate and take up water.
-enum class SolutionKind {
-    aqueous_buffer, ///< water with buffer salts, no organic solvent
-    organic,        ///< organic solvent(s), with or without additives, no water
-    mixed,          ///< water and organic solvent together (a premixed mobile phase)
-};
-/// "aqueous_buffer", "organic", "mixed".
-const char* solution_kind_name(SolutionKind kind);
-/// The inverse of solution_kind_name; std::nullopt for anything else.
-std::optional<SolutionKind> solution_kind_from_name(const std::string& name);
-
-/// Fallback shelf lives in hours per kind of solution, used when data/solvents.json has no
-/// "shelf_life" entry for the kind (app/ prefers the file's: "aqueous-buffer",
-/// "buffer-with-organic", "neat-solvent"). Common practice, no source: an aqueous buffer without
-/// organic is remade after two days (microbial growth, CO2 uptake shift the pH), a premixed
-/// aqueous-organic phase after three, a neat organic line after a month.
-struct ShelfLifeDefaults {
-    double aqueous_buffer_h = 48;
-    double mixed_h = 72;
-    double organic_h = 720;
-    double hours_for(SolutionKind kind) const;
-};
-
 /// One amount as actually weighed or measured. Exactly one of mass_g and volume_ml.
 struct ActualAmount {
     std::string reagent;             ///< reagent id as in the recipe's items

@@ -42,14 +42,20 @@ struct CheckWarning : Warning {
     void text(std::string key, std::string v) { texts.emplace_back(std::move(key), std::move(v)); }
 };
 
+enum class DetectorType { uv, dad, pda, uv_ms, ms, elsd, cad, fluorescence, ri };
+/// "uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad", "fluorescence", "ri": the contract's words.
+const char* detector_type_name(DetectorType type);
+/// The inverse of detector_type_name (lower case only); std::nullopt for anything else.
+std::optional<DetectorType> detector_type_from_name(const std::string& name);
+const std::vector<DetectorType>& detector_types(); ///< every type, in the order above
+
 struct Detector {
-    std::string type = "uv";             ///< uv, dad, pda, uv-ms, ms, elsd, cad, fluorescence, ri
+    DetectorType type = DetectorType::uv;
     std::optional<double> wavelength_nm; ///< for UV types
     double margin_nm = 10; ///< caution within this of the cutoff (common practice, no source)
 };
-bool detector_reads_uv(const std::string& type);       ///< uv, dad, pda, uv-ms
-bool detector_needs_volatile(const std::string& type); ///< ms, uv-ms, elsd, cad
-const std::vector<std::string>& detector_types();
+bool detector_reads_uv(DetectorType type);       ///< uv, dad, pda, uv-ms
+bool detector_needs_volatile(DetectorType type); ///< ms, uv-ms, elsd, cad
 
 struct ColumnLimits {
     double ph_min = 2;

@@ -33,8 +33,8 @@ std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
             continue;
         const bool already = expires <= 0;
         std::string msg =
-            line_title(c, l) + " (" + p->shelf_kind + ", shelf life " + fmt(p->shelf_life_h, 0) +
-            " h, a lab-set default) " +
+            line_title(c, l) + " (" + shelf_kind_name(*p) + ", shelf life " +
+            fmt(p->shelf_life_h, 0) + " h, a lab-set default) " +
             (known ? "was prepared at " + c.clock(prepared)
                    : "even if prepared at the start, " + c.clock(0)) +
             ", and " +
@@ -44,7 +44,7 @@ std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
                            std::to_string(c.plan->injections) + ".") +
             " Prepare it fresh.";
         CheckWarning w = make("shelf-life", Sev::warning, letter(l), msg);
-        w.text("kind", p->shelf_kind);
+        w.text("kind", shelf_kind_name(*p));
         w.number("shelf_life_h", p->shelf_life_h);
         if (known)
             w.number("prepared_at_min", prepared);

@@ -17,16 +17,52 @@ namespace chem {
 
 using namespace checks_internal;
 
-bool detector_reads_uv(const std::string& t) {
-    return t == "uv" || t == "dad" || t == "pda" || t == "uv-ms";
+const char* detector_type_name(DetectorType type) {
+    switch (type) {
+    case DetectorType::uv:
+        return "uv";
+    case DetectorType::dad:
+        return "dad";
+    case DetectorType::pda:
+        return "pda";
+    case DetectorType::uv_ms:
+        return "uv-ms";
+    case DetectorType::ms:
+        return "ms";
+    case DetectorType::elsd:
+        return "elsd";
+    case DetectorType::cad:
+        return "cad";
+    case DetectorType::fluorescence:
+        return "fluorescence";
+    case DetectorType::ri:
+        return "ri";
+    }
+    return "uv";
 }
-bool detector_needs_volatile(const std::string& t) {
-    return t == "ms" || t == "uv-ms" || t == "elsd" || t == "cad";
-}
-const std::vector<std::string>& detector_types() {
-    static const std::vector<std::string> t = {"uv",   "dad", "pda",          "uv-ms", "ms",
-                                               "elsd", "cad", "fluorescence", "ri"};
+
+const std::vector<DetectorType>& detector_types() {
+    static const std::vector<DetectorType> t = {
+        DetectorType::uv,    DetectorType::dad,          DetectorType::pda,
+        DetectorType::uv_ms, DetectorType::ms,           DetectorType::elsd,
+        DetectorType::cad,   DetectorType::fluorescence, DetectorType::ri};
     return t;
+}
+
+std::optional<DetectorType> detector_type_from_name(const std::string& name) {
+    for (DetectorType t : detector_types())
+        if (name == detector_type_name(t))
+            return t;
+    return std::nullopt;
+}
+
+bool detector_reads_uv(DetectorType t) {
+    return t == DetectorType::uv || t == DetectorType::dad || t == DetectorType::pda ||
+           t == DetectorType::uv_ms;
+}
+bool detector_needs_volatile(DetectorType t) {
+    return t == DetectorType::ms || t == DetectorType::uv_ms || t == DetectorType::elsd ||
+           t == DetectorType::cad;
 }
 
 std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
@@ -157,7 +193,7 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             CheckWarning w =
                 make("ms-nonvolatile", Sev::warning, letter(l),
                      line_title(c, l) + " carries non-volatile " + join(parts) + " into the " +
-                         c.detector->type +
+                         detector_type_name(c.detector->type) +
                          " detector: it deposits in the source and suppresses the signal. Use a "
                          "volatile "
                          "buffer (formate, acetate, ammonium bicarbonate) or divert the flow.");
@@ -165,7 +201,7 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
                 if (std::find(p->nonvolatile.begin(), p->nonvolatile.end(), s.reagent) !=
                     p->nonvolatile.end())
                     w.number(s.reagent + "_mmol_per_l", s.mmol_per_l);
-            w.text("detector", c.detector->type);
+            w.text("detector", detector_type_name(c.detector->type));
             w.text("nonvolatile", join(p->nonvolatile));
             out.push_back(w);
         }
@@ -176,9 +212,9 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             CheckWarning w =
                 make("ms-nonvolatile", Sev::caution, letter(l),
                      line_title(c, l) + " carries " + s.reagent + " (" + fmt(s.mmol_per_l, 2) +
-                         " mmol/L) into the " + c.detector->type + " detector: " + add->ms_caution +
-                         " (" + add->ms_caution_source + ").");
-            w.text("detector", c.detector->type);
+                         " mmol/L) into the " + detector_type_name(c.detector->type) +
+                         " detector: " + add->ms_caution + " (" + add->ms_caution_source + ").");
+            w.text("detector", detector_type_name(c.detector->type));
             w.text("additive", s.reagent);
             out.push_back(w);
         }
@@ -186,8 +222,9 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             CheckWarning w =
                 make("ms-nonvolatile", Sev::caution, letter(l),
                      line_title(c, l) + ": volatility of " + join(named(c, p->volatility_unknown)) +
-                         " is not recorded; check it suits the " + c.detector->type + " detector.");
-            w.text("detector", c.detector->type);
+                         " is not recorded; check it suits the " +
+                         detector_type_name(c.detector->type) + " detector.");
+            w.text("detector", detector_type_name(c.detector->type));
             w.text("unknown", join(p->volatility_unknown));
             out.push_back(w);
         }

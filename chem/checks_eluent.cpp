@@ -281,7 +281,7 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                 w.number("ph_min", limits->ph_min);
                 w.number("ph_max", limits->ph_max);
                 add_where(w, tr, *first, *last, *worst);
-                w.text("ph_basis", "eluent s_w pH");
+                w.text("ph_basis", ph_basis_name(PhBasis::eluent_s_w));
                 out.push_back(w);
             }
         }
@@ -300,15 +300,15 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
         const bool low = ph < c.column->ph_min;
         CheckWarning w =
             make("column-ph", Sev::warning, letter(l),
-                 line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + p->ph_basis + "), " +
-                     (low ? "below" : "above") + " the column's range of pH " +
+                 line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + ph_basis_name(p->ph_basis) +
+                     "), " + (low ? "below" : "above") + " the column's range of pH " +
                      fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
                      (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
                      " Use a column rated for this pH or change the buffer.");
         w.number("ph", ph);
         w.number("ph_min", c.column->ph_min);
         w.number("ph_max", c.column->ph_max);
-        w.text("ph_basis", p->ph_basis);
+        w.text("ph_basis", ph_basis_name(p->ph_basis));
         out.push_back(w);
     }
     return out;

@@ -118,7 +118,7 @@ EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>
 
     EluentMix out;
     std::map<std::string, double> solute_mmol; // per litre of unmixed volume
-    std::map<std::string, std::string> solute_from;
+    std::map<std::string, SoluteSource> solute_from;
     std::vector<std::string> order;
     std::vector<const LineProfile*> profiles;
     std::vector<double> percent;
@@ -135,8 +135,8 @@ EluentMix mix_lines(const SolventLibrary& solvents, const std::vector<LineShare>
             if (!solute_mmol.count(so.reagent)) {
                 order.push_back(so.reagent);
                 solute_from[so.reagent] = so.from;
-            } else if (solute_from[so.reagent] != so.from) {
-                solute_from[so.reagent] = "buffer+additive";
+            } else {
+                solute_from[so.reagent] = combined(solute_from[so.reagent], so.from);
             }
             solute_mmol[so.reagent] += f * so.mmol_per_l;
         }

@@ -44,12 +44,11 @@ std::string sub(const std::string& parent, const std::string& key) {
 }
 
 void add_solute(std::vector<Solute>& solutes, const std::string& id, double mmol,
-                const std::string& from) {
+                SoluteSource from) {
     for (auto& s : solutes)
         if (s.reagent == id) {
             s.mmol_per_l += mmol;
-            if (s.from != from)
-                s.from = "buffer+additive";
+            s.from = combined(s.from, from);
             return;
         }
     solutes.push_back({id, mmol, from});
@@ -85,6 +84,46 @@ double additive_amount(const Reagent& r, AmountUnit unit, double mmol_per_l) {
     return 0;
 }
 
+const char* ph_basis_name(PhBasis basis) {
+    switch (basis) {
+    case PhBasis::none:
+        return "";
+    case PhBasis::buffer_design:
+        return "buffer design";
+    case PhBasis::several_buffers:
+        return "several buffers: pH not predicted";
+    case PhBasis::solved_from_additives:
+        return "solved from the additives in water at 25 °C";
+    case PhBasis::eluent_s_w:
+        return "eluent s_w pH";
+    }
+    return "";
+}
+
+const char* solute_source_name(SoluteSource from) {
+    switch (from) {
+    case SoluteSource::buffer:
+        return "buffer";
+    case SoluteSource::additive:
+        return "additive";
+    case SoluteSource::buffer_and_additive:
+        return "buffer+additive";
+    }
+    return "buffer";
+}
+
+const char* line_item_kind_name(LineItemKind kind) {
+    switch (kind) {
+    case LineItemKind::solvent:
+        return "solvent";
+    case LineItemKind::buffer:
+        return "buffer";
+    case LineItemKind::additive:
+        return "additive";
+    }
+    return "solvent";
+}
+
 LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents,
                          const LineSpec& line) {
     LineProfile p;
@@ -111,13 +150,14 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
             p.aqueous_fraction_v += f;
             p.solvent_fraction_v["water"] += f;
             for (const Component& c : part.buffer->composition)
-                add_solute(p.solutes, c.reagent->id, c.mol_per_l * 1000.0 * f, "buffer");
+                add_solute(p.solutes, c.reagent->id, c.mol_per_l * 1000.0 * f,
+                           SoluteSource::buffer);
             if (buffers == 1) {
                 p.ph = part.buffer->predicted.ph;
-                p.ph_basis = "buffer design";
+                p.ph_basis = PhBasis::buffer_design;
             } else {
                 p.ph.reset();
-                p.ph_basis = "several buffers: pH not predicted";
+                p.ph_basis = PhBasis::several_buffers;
             }
         } else {
             if (part.solvent.empty())
@@ -147,7 +187,8 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
         if (a.unit == AmountUnit::percent_v && r.form != PhysicalForm::liquid)
             throw Error(aat + ".percent_v",
                         "\"" + r.id + "\" is a solid: give percent_w or mmol_per_l");
-        add_solute(p.solutes, r.id, additive_mmol_per_l(r, a.unit, a.amount), "additive");
+        add_solute(p.solutes, r.id, additive_mmol_per_l(r, a.unit, a.amount),
+                   SoluteSource::additive);
     }
 
     // UV cutoff: each solvent neat (conservative), each solute at its concentration in the line.
@@ -183,7 +224,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
             comps.push_back({&reagents.reagent(s.reagent), s.mmol_per_l / 1000.0});
         try {
             p.ph = solve(reagents, comps, 25.0, line.activity_model).ph;
-            p.ph_basis = "solved from the additives in water at 25 °C";
+            p.ph_basis = PhBasis::solved_from_additives;
         } catch (const Error& e) {
             throw e.within(sub(at, "additives"));
         }
@@ -197,22 +238,24 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     const bool organic = p.organic_fraction_v >= 0.1 - 1e-12;
     if (buffers > 0 || (salts && p.aqueous_fraction_v > 0)) {
         if (p.short_lived)
-            p.shelf_kind = "aqueous-buffer-volatile";
+            p.shelf_kind = ShelfKind::aqueous_buffer_volatile;
         else
-            p.shelf_kind = organic ? "buffer-with-organic" : "aqueous-buffer";
+            p.shelf_kind = organic ? ShelfKind::buffer_with_organic : ShelfKind::aqueous_buffer;
     } else if (!p.solutes.empty()) {
         if (p.short_lived && !organic)
-            p.shelf_kind = "aqueous-buffer-volatile";
+            p.shelf_kind = ShelfKind::aqueous_buffer_volatile;
         else
-            p.shelf_kind = p.organic_fraction_v > 0 ? "organic-additive" : "aqueous-additive";
+            p.shelf_kind = p.organic_fraction_v > 0 ? ShelfKind::organic_additive
+                                                    : ShelfKind::aqueous_additive;
     } else if (p.organic_fraction_v == 0) {
-        p.shelf_kind = "water";
+        p.shelf_kind = ShelfKind::water;
     } else {
-        p.shelf_kind = p.solvent_fraction_v.size() == 1 ? "neat-solvent" : "solvent-mixture";
+        p.shelf_kind =
+            p.solvent_fraction_v.size() == 1 ? ShelfKind::neat_solvent : ShelfKind::solvent_mixture;
     }
     if (line.shelf_life_h)
         p.shelf_life_h = *line.shelf_life_h;
-    else if (const ShelfLife* sl = solvents.shelf_life(p.shelf_kind))
+    else if (const ShelfLife* sl = solvents.shelf_life(*p.shelf_kind))
         p.shelf_life_h = sl->hours;
     return p;
 }
@@ -288,7 +331,7 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         if (part.buffer) {
             ++buffer_parts;
             it.part = buffer_parts == 1 ? "buffer" : "buffer-" + std::to_string(buffer_parts);
-            it.kind = "buffer";
+            it.kind = LineItemKind::buffer;
             double dissolved_g_per_l = 0;
             for (const Component& c : part.buffer->composition)
                 dissolved_g_per_l += c.mol_per_l * c.reagent->molar_mass_g_per_mol;
@@ -304,7 +347,7 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         } else {
             const Solvent& s = solvents.solvent(part.solvent);
             it.part = s.id;
-            it.kind = "solvent";
+            it.kind = LineItemKind::solvent;
             it.density_g_per_ml = s.density_at(t_c);
             it.density_temperature_c = t_c;
             auto src = s.sources.find("density");
@@ -339,7 +382,7 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
         const double mmol = additive_mmol_per_l(r, a.unit, a.amount);
         LineItem it;
         it.part = r.id;
-        it.kind = "additive";
+        it.kind = LineItemKind::additive;
         const double material_g =
             mmol / 1000.0 * volume_ml / 1000.0 * r.molar_mass_g_per_mol / r.assay_fraction;
         it.mass_g = material_g;

@@ -36,12 +36,32 @@ struct LineSpec {
     ActivityModel activity_model = ActivityModel::davies; ///< for the pH of aqueous additives
 };
 
+/// Where a dissolved reagent comes from: a buffer part, an additive, or both.
+enum class SoluteSource { buffer, additive, buffer_and_additive };
+const char* solute_source_name(SoluteSource from); ///< "buffer", "additive", "buffer+additive"
+/// The source of a reagent that comes from both `a` and `b`: a when they agree, else both.
+inline SoluteSource combined(SoluteSource a, SoluteSource b) {
+    return a == b ? a : SoluteSource::buffer_and_additive;
+}
+
 /// A dissolved reagent in the finished line.
 struct Solute {
     std::string reagent;   ///< reagent id
     double mmol_per_l = 0; ///< formula units per litre of the finished line
-    std::string from;      ///< "buffer" or "additive"
+    SoluteSource from = SoluteSource::buffer;
 };
+
+/// Where a pH comes from.
+enum class PhBasis {
+    none,                  ///< no pH (no aqueous part with solutes)
+    buffer_design,         ///< the one buffer part's designed pH
+    several_buffers,       ///< more than one buffer part: no pH predicted
+    solved_from_additives, ///< the additives solved in water at 25 °C (no buffer, no organic)
+    eluent_s_w,            ///< the mixed eluent's pH on the s_w scale (a method's trace)
+};
+/// "", "buffer design", "several buffers: pH not predicted", "solved from the additives in water
+/// at 25 °C", "eluent s_w pH": the words of the contract and the checks.
+const char* ph_basis_name(PhBasis basis);
 
 /// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm) and how many times its
 /// absorbance at that cutoff it brings (a solvent's volume fraction; a solute's concentration over
@@ -69,13 +89,18 @@ struct LineProfile {
     std::vector<std::string> uv_unknown;      ///< solutes without a cutoff figure
     std::vector<std::string> uv_beyond_table; ///< solutes above their table's last row
     std::optional<double> ph;                 ///< of the aqueous part (see ph_basis)
-    std::string ph_basis;                 ///< "buffer design" | "aqueous additives (solve)" | ""
+    PhBasis ph_basis = PhBasis::none;
     std::vector<std::string> nonvolatile; ///< solutes unsuitable for MS / ELSD / CAD
     std::vector<std::string> volatility_unknown;
-    std::string shelf_kind;   ///< a ShelfLife::kind
-    double shelf_life_h = 0;  ///< default for the kind, or the line's override
-    bool short_lived = false; ///< a short-lived component is present
+    std::optional<ShelfKind> shelf_kind; ///< nullopt for a line without parts
+    double shelf_life_h = 0;             ///< default for the kind, or the line's override
+    bool short_lived = false;            ///< a short-lived component is present
 };
+
+/// shelf_kind_name of the profile's kind; "" for a line without parts.
+inline const char* shelf_kind_name(const LineProfile& p) {
+    return p.shelf_kind ? shelf_kind_name(*p.shelf_kind) : "";
+}
 
 /// Validates the line (fractions in (0, 1] summing to 1 ± 1e−4, known solvent and additive ids,
 /// positive amounts, % v/v only for liquids) and works out its profile. Errors name
@@ -84,9 +109,14 @@ struct LineProfile {
 LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents,
                          const LineSpec& line);
 
+/// What a line item is: a part measured by volume fraction (a solvent or a buffer), or an
+/// additive.
+enum class LineItemKind { solvent, buffer, additive };
+const char* line_item_kind_name(LineItemKind kind); ///< "solvent", "buffer", "additive"
+
 struct LineItem {
-    std::string part;      ///< solvent id, "buffer", or additive id
-    std::string kind;      ///< "solvent" | "buffer" | "additive"
+    std::string part; ///< solvent id, "buffer", or additive id
+    LineItemKind kind = LineItemKind::solvent;
     double fraction_v = 0; ///< parts only
     std::optional<double> volume_ml;
     std::optional<double> mass_g;

@@ -43,10 +43,8 @@ RecipeItem item_for(const RecipeRequest& req, const Reagent& r, double mol_per_l
     if (r.form == PhysicalForm::liquid) {
         it.volume_ml = guard::amount(material_g / r.density_g_per_ml,
                                      "items." + r.id + ".volume_ml", "volume");
-        it.as = "liquid";
         it.kind = ItemKind::liquid;
     } else {
-        it.as = "solid";
         it.kind = ItemKind::solid;
     }
     return it;
@@ -61,8 +59,7 @@ RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_
     it.mol_per_l = mol_per_l;
     it.volume_ml = guard::amount(mol_per_l * req.volume_ml / stock_mol_per_l,
                                  "items." + r.id + ".volume_ml", "volume");
-    it.as = std::string(kind == ItemKind::stock ? "stock" : "titrant") + " " +
-            format_number(stock_mol_per_l) + " mol/L";
+    it.solution_mol_per_l = stock_mol_per_l;
     return it;
 }
 
@@ -70,7 +67,6 @@ RecipeItem solution_item(const RecipeRequest& req, const Reagent& r, double mol_
 RecipeItem neat_titrant_item(const RecipeRequest& req, const Reagent& r, double mol_per_l) {
     RecipeItem it = item_for(req, r, mol_per_l);
     it.kind = ItemKind::titrant_neat;
-    it.as = "titrant, neat";
     return it;
 }
 
@@ -431,14 +427,14 @@ std::string reagent_label(const Reagent& r) {
 void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<Step>& steps) {
     for (const auto& it : recipe.items) {
         const Reagent& r = lib.reagent(it.reagent);
-        if (it.as.rfind("titrant", 0) == 0)
+        if (is_titrant(it.kind))
             continue;
-        if (it.as == "solid") {
+        if (it.kind == ItemKind::solid) {
             steps.push_back({StepKind::dissolve_solid,
                              "Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
                                  " and dissolve it in the water.",
                              r.id, it.mass_g, std::nullopt});
-        } else if (it.as == "liquid") {
+        } else if (it.kind == ItemKind::liquid) {
             std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" +
                             format_amount(*it.mass_g) + " g) of " + reagent_label(r) + ", " +
                             format_number(r.assay_fraction * 100) + " % w/w, " +
@@ -449,7 +445,7 @@ void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<Step
         } else {
             steps.push_back({StepKind::pipette_solution,
                              "Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name +
-                                 " " + it.as + " into the flask.",
+                                 " " + item_as_text(it) + " into the flask.",
                              r.id, std::nullopt, it.volume_ml});
         }
     }
@@ -491,6 +487,29 @@ std::vector<std::string> cautions_for(const Library& lib, const std::vector<cons
 }
 
 } // namespace
+
+const char* item_kind_name(ItemKind kind) {
+    switch (kind) {
+    case ItemKind::solid:
+        return "solid";
+    case ItemKind::liquid:
+        return "liquid";
+    case ItemKind::stock:
+        return "stock";
+    case ItemKind::titrant_solution:
+        return "titrant";
+    case ItemKind::titrant_neat:
+        return "titrant, neat";
+    }
+    return "solid";
+}
+
+std::string item_as_text(const RecipeItem& item) {
+    std::string s = item_kind_name(item.kind);
+    if (item.kind == ItemKind::stock || item.kind == ItemKind::titrant_solution)
+        s += " " + format_number(item.solution_mol_per_l) + " mol/L";
+    return s;
+}
 
 Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     validate_common(req);
@@ -677,7 +696,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
     const double water_ml = std::round(req.volume_ml * 0.8);
     double added_ml = 0;
     for (const auto& it : recipe.items)
-        if (it.as != "solid" && it.volume_ml)
+        if (it.kind != ItemKind::solid && it.volume_ml)
             added_ml += *it.volume_ml;
     const double check_ml = std::min(req.volume_ml, water_ml + added_ml);
     const double check_ph = [&] {
@@ -804,7 +823,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                          " mmol/L per pH is below 2 mmol/L per pH (common practice, no source): "
                          "the sample or dissolved CO2 can shift the pH."});
     for (const auto& it : recipe.items) {
-        const bool weighed = it.as == "solid";
+        const bool weighed = it.kind == ItemKind::solid;
         if (weighed && *it.mass_g < balance_min_mass_g)
             w.push_back({"small-amount", Warning::Severity::caution,
                          lib.reagent(it.reagent).name + ": " + format_fixed(*it.mass_g * 1000, 2) +
@@ -816,7 +835,7 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                              format_fixed(*it.volume_ml * 1000, 1) +
                              " µL is below what a pipette delivers well (10 µL); make a larger "
                              "volume or dilute the reagent first."});
-        if (it.as.rfind("titrant", 0) == 0 && *it.volume_ml > 0.5 * req.volume_ml)
+        if (is_titrant(it.kind) && *it.volume_ml > 0.5 * req.volume_ml)
             w.push_back({"titrant-volume-large", Warning::Severity::caution,
                          "The titrant takes " + format_amount(*it.volume_ml) + " mL of the " +
                              format_number(req.volume_ml) +

@@ -85,6 +85,13 @@ enum class ItemKind {
     titrant_solution, ///< added until the meter reads the target; a solution of titrant_mol_per_l
     titrant_neat,     ///< added until the meter reads the target; the liquid as supplied
 };
+/// "solid", "liquid", "stock", "titrant", "titrant, neat": the kind in words for the contract
+/// (item_as_text adds a solution's molarity).
+const char* item_kind_name(ItemKind kind);
+/// A titrant, as a solution or neat (added until the meter reads the target).
+inline bool is_titrant(ItemKind kind) {
+    return kind == ItemKind::titrant_solution || kind == ItemKind::titrant_neat;
+}
 
 struct RecipeItem {
     std::string reagent; ///< reagent id
@@ -92,10 +99,13 @@ struct RecipeItem {
     std::optional<double> mass_g;    ///< solids (and liquids: mass of material as supplied)
     std::optional<double> volume_ml; ///< liquids as supplied, or a stock / titrant solution
     double mol_per_l = 0;            ///< formula units per litre of final solution
-    /// The kind in words for the contract: "solid", "liquid", "stock 0.2 mol/L",
-    /// "titrant 1 mol/L", "titrant, neat".
-    std::string as;
+    /// The molarity of the stock or titrant solution measured, mol/L (stock and
+    /// titrant_solution only; 0 otherwise).
+    double solution_mol_per_l = 0;
 };
+/// The item's kind in words for the contract ("as"): "solid", "liquid", "stock 0.2 mol/L",
+/// "titrant 1 mol/L", "titrant, neat".
+std::string item_as_text(const RecipeItem& item);
 
 /// One family of species in the solution as made, summed over its forms: an acid-base system
 /// (all formate: HCOOH + HCOO−) or a spectator ion (Na+).

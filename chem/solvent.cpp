@@ -238,11 +238,82 @@ SolventLibrary::solubility_tables(const std::string& group) const {
     return out;
 }
 
-const ShelfLife* SolventLibrary::shelf_life(const std::string& kind) const {
+const ShelfLife* SolventLibrary::shelf_life(ShelfKind kind) const {
     for (const auto& s : shelf_)
         if (s.kind == kind)
             return &s;
     return nullptr;
+}
+
+double SolventLibrary::shelf_life_h(ShelfKind kind, std::string* source) const {
+    if (const ShelfLife* s = shelf_life(kind)) {
+        if (source)
+            *source = s->source;
+        return s->hours;
+    }
+    if (source)
+        *source = "built-in default, common practice, no source";
+    return builtin_shelf_life_h(kind);
+}
+
+namespace {
+
+/// The shelf-life kinds: name, words for a sheet, built-in hours (see builtin_shelf_life_h).
+struct ShelfKindRow {
+    ShelfKind kind;
+    const char* name;
+    const char* words;
+    double hours;
+};
+constexpr ShelfKindRow shelf_kind_rows[] = {
+    {ShelfKind::water, "water", "water", 48},
+    {ShelfKind::aqueous_buffer, "aqueous-buffer", "an aqueous buffer", 48},
+    {ShelfKind::aqueous_buffer_volatile, "aqueous-buffer-volatile",
+     "an aqueous buffer with a short-lived component", 24},
+    {ShelfKind::buffer_with_organic, "buffer-with-organic", "a buffer with 10 % organic or more",
+     72},
+    {ShelfKind::aqueous_additive, "aqueous-additive", "water with an additive", 168},
+    {ShelfKind::organic_additive, "organic-additive", "an organic solvent with an additive", 168},
+    {ShelfKind::solvent_mixture, "solvent-mixture", "a solvent mixture", 168},
+    {ShelfKind::neat_solvent, "neat-solvent", "a neat solvent", 720},
+};
+
+const ShelfKindRow& row_of(ShelfKind kind) {
+    for (const ShelfKindRow& r : shelf_kind_rows)
+        if (r.kind == kind)
+            return r;
+    return shelf_kind_rows[1];
+}
+
+} // namespace
+
+const char* shelf_kind_name(ShelfKind kind) {
+    return row_of(kind).name;
+}
+
+std::optional<ShelfKind> shelf_kind_from_name(const std::string& name) {
+    for (const ShelfKindRow& r : shelf_kind_rows)
+        if (name == r.name)
+            return r.kind;
+    return std::nullopt;
+}
+
+const std::vector<ShelfKind>& shelf_kinds() {
+    static const std::vector<ShelfKind> all = [] {
+        std::vector<ShelfKind> v;
+        for (const ShelfKindRow& r : shelf_kind_rows)
+            v.push_back(r.kind);
+        return v;
+    }();
+    return all;
+}
+
+const char* shelf_kind_words(ShelfKind kind) {
+    return row_of(kind).words;
+}
+
+double builtin_shelf_life_h(ShelfKind kind) {
+    return row_of(kind).hours;
 }
 
 const ExcessVolume* SolventLibrary::excess_volume(const std::string& aqueous,

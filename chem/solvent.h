@@ -101,9 +101,39 @@ struct SolubilityTable {
     std::optional<double> limit_mmol_per_l(double organic_fraction_v) const;
 };
 
+/// What a solution's shelf life depends on (profile_line picks the kind): water with buffer salts
+/// grows microbes and takes up CO2, a short-lived component (ammonia, bicarbonate) escapes,
+/// organic solvents evaporate and take up water. The one vocabulary of shelf lives: lines,
+/// batches, checks and sheets.
+enum class ShelfKind {
+    water,                   ///< water alone
+    aqueous_buffer,          ///< aqueous buffer with under 10 % organic
+    aqueous_buffer_volatile, ///< aqueous buffer with a short-lived component
+    buffer_with_organic,     ///< buffer with 10 % organic or more
+    aqueous_additive,        ///< water with an acid or base modifier only
+    organic_additive,        ///< organic solvent(s) with a modifier
+    solvent_mixture,         ///< premixed solvents without additives
+    neat_solvent,            ///< one neat organic solvent
+};
+/// "water", "aqueous-buffer", "aqueous-buffer-volatile", "buffer-with-organic",
+/// "aqueous-additive", "organic-additive", "solvent-mixture", "neat-solvent": the words of
+/// data/solvents.json "shelf_life", the contract and the checks.
+const char* shelf_kind_name(ShelfKind kind);
+/// The inverse of shelf_kind_name; std::nullopt for anything else.
+std::optional<ShelfKind> shelf_kind_from_name(const std::string& name);
+const std::vector<ShelfKind>& shelf_kinds(); ///< every kind, in the order above
+/// The kind in words for a printed sheet: "an aqueous buffer", "a neat solvent", …
+const char* shelf_kind_words(ShelfKind kind);
+/// Built-in shelf life in hours, used when the solvent library has no entry for the kind; the
+/// same figures as the shipped data/solvents.json. Common practice, no source: an aqueous buffer
+/// is remade after two days (microbial growth, CO2 uptake shift the pH), one with a short-lived
+/// component after one, a premixed aqueous-organic phase after three, a neat solvent after a
+/// month.
+double builtin_shelf_life_h(ShelfKind kind);
+
 /// Default shelf life for a kind of solution (a lab-set default, common practice).
 struct ShelfLife {
-    std::string kind; ///< "aqueous-buffer", "buffer-with-organic", …
+    ShelfKind kind = ShelfKind::aqueous_buffer;
     double hours = 0;
     std::string source;
     std::string description;
@@ -144,7 +174,10 @@ class SolventLibrary {
     std::optional<Miscibility> miscibility(const std::string& a, const std::string& b) const;
     const SolubilityTable* solubility(const std::string& group, const std::string& organic) const;
     std::vector<const SolubilityTable*> solubility_tables(const std::string& group) const;
-    const ShelfLife* shelf_life(const std::string& kind) const;
+    const ShelfLife* shelf_life(ShelfKind kind) const;
+    /// The library's hours for the kind, else builtin_shelf_life_h. `source` receives the
+    /// entry's source, or that the figure is the built-in default.
+    double shelf_life_h(ShelfKind kind, std::string* source = nullptr) const;
     const ExcessVolume* excess_volume(const std::string& aqueous, const std::string& organic) const;
     std::vector<std::string> nearest_solvent_ids(const std::string& id, int count = 3) const;
 

@@ -130,7 +130,7 @@ void TestBatch::targetAmountsReproduceThePlan() {
     for (const auto& it : r.items) {
         chem::ActualAmount a;
         a.reagent = it.reagent;
-        if (it.as == "solid")
+        if (it.kind == chem::ItemKind::solid)
             a.mass_g = it.mass_g;
         else
             a.volume_ml = it.volume_ml;

@@ -88,6 +88,10 @@ class TestShippedLibrary : public QObject {
         for (size_t i = 0; i < app.solubility_tables().size(); ++i)
             QCOMPARE(gen.solubility_tables()[i].points, app.solubility_tables()[i].points);
         QCOMPARE(gen.shelf_lives().size(), app.shelf_lives().size());
+        for (size_t i = 0; i < app.shelf_lives().size(); ++i) {
+            QVERIFY(gen.shelf_lives()[i].kind == app.shelf_lives()[i].kind);
+            QCOMPARE(gen.shelf_lives()[i].hours, app.shelf_lives()[i].hours);
+        }
         QCOMPARE(gen.excess_volumes().size(), app.excess_volumes().size());
         for (size_t i = 0; i < app.excess_volumes().size(); ++i)
             QCOMPARE(gen.excess_volumes()[i].at(0.3), app.excess_volumes()[i].at(0.3));

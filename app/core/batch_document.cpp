@@ -8,8 +8,6 @@
 #include "core/line_commands.h"
 
 #include <QDateTime>
-#include <QDir>
-#include <QFile>
 #include <QJsonDocument>
 #include <QSet>
 
@@ -268,11 +266,11 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
     const chem::RecipeRequest req = recipe_request_from_json(lib, input, "");
     d.recipe = chem::design_recipe(lib, req);
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
-    d.shelf_life_h =
-        d.shelf_override.value_or(default_shelf_life_h(data, "aqueous-buffer", &d.shelf_source));
+    d.shelf_life_h = d.shelf_override.value_or(
+        default_shelf_life_h(data, chem::ShelfKind::aqueous_buffer, &d.shelf_source));
     if (d.shelf_override)
         d.shelf_source = QStringLiteral("entered");
-    d.shelf_kind = QStringLiteral("an aqueous buffer");
+    d.shelf_kind = chem::ShelfKind::aqueous_buffer;
     d.result = chem::evaluate_batch(lib, *d.recipe, d.batch, d.shelf_life_h);
     const chem::BatchResult& res = *d.result;
     d.expires_at = qs(res.expires_at);
@@ -336,7 +334,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         d.shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
     d.shelf_source =
         d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
-    d.shelf_kind = QStringLiteral("kind ") + shelf.value("kind").toString();
+    d.shelf_kind = lr.profile.shelf_kind;
     const chem::UseBy use = chem::use_by(batch, d.shelf_life_h);
     d.expires_at = qs(use.expires_at);
     d.expiry_limited_by = use.limited_by;
@@ -497,7 +495,9 @@ void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument&
     for (const QString& key : lines_out.keys())
         shortest =
             std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
-    d.shelf_life_h = d.shelf_override.value_or(shortest < 1e9 ? shortest : 48);
+    // No line with a shelf life: an aqueous buffer's, the shortest common one.
+    const double fallback_h = chem::builtin_shelf_life_h(chem::ShelfKind::aqueous_buffer);
+    d.shelf_life_h = d.shelf_override.value_or(shortest < 1e9 ? shortest : fallback_h);
     d.expires_at = qs(chem::check_batch_fields(d.batch, d.shelf_life_h));
     d.title = input.value("name").isString()
                   ? input.value("name").toString()
@@ -508,7 +508,7 @@ void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument&
     for (const QJsonValue& w : d.sequence_out.value("warnings").toArray())
         warnings.add(w.toObject());
     d.warnings = warnings.json;
-    QJsonObject b = batch_summary(d.batch, d.expires_at, shortest < 1e9 ? shortest : 48);
+    QJsonObject b = batch_summary(d.batch, d.expires_at, shortest < 1e9 ? shortest : fallback_h);
     finish_tolerance(data, d, b);
     d.summary = QJsonObject{{"document", d.kind},
                             {"title", d.title},
@@ -628,27 +628,12 @@ chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies
     return b;
 }
 
-double default_shelf_life_h(const AppData& data, const QString& kind, QString* source) {
-    QFile f(QDir(data.data_dir).filePath(QStringLiteral("solvents.json")));
-    if (f.open(QIODevice::ReadOnly)) {
-        const QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
-        for (const QJsonValue& v : doc.value("shelf_life").toArray()) {
-            const QJsonObject e = v.toObject();
-            if (e.value("kind").toString() == kind && e.value("hours").toDouble() > 0) {
-                if (source)
-                    *source = e.value("source").toString();
-                return e.value("hours").toDouble();
-            }
-        }
-    }
-    const chem::ShelfLifeDefaults d;
+double default_shelf_life_h(const AppData& data, chem::ShelfKind kind, QString* source) {
+    std::string from;
+    const double hours = data.solvents.shelf_life_h(kind, &from);
     if (source)
-        *source = QStringLiteral("built-in default, common practice, no source");
-    if (kind.startsWith("aqueous"))
-        return d.hours_for(chem::SolutionKind::aqueous_buffer);
-    if (kind.contains("organic") && kind.contains("buffer"))
-        return d.hours_for(chem::SolutionKind::mixed);
-    return d.hours_for(chem::SolutionKind::organic);
+        *source = qs(from);
+    return hours;
 }
 
 QStringList step_sentences(const std::vector<chem::Step>& steps) {

@@ -55,10 +55,10 @@ QJsonObject read_capture(const QJsonValue& v, const std::string& at);
 chem::Batch batch_from_json(const QJsonObject& input, std::optional<int>* copies = nullptr,
                             std::optional<double>* shelf_life_h = nullptr);
 
-/// Shelf life in hours for a kind of solution: data/solvents.json "shelf_life" (kind
-/// "aqueous-buffer", "buffer-with-organic", "neat-solvent", …) when the data folder has it,
-/// else chem::ShelfLifeDefaults. `source` receives where the number comes from.
-double default_shelf_life_h(const AppData& data, const QString& kind, QString* source = nullptr);
+/// Shelf life in hours for a kind of solution: the solvent library's "shelf_life" entry
+/// (data/solvents.json) when it has one, else chem::builtin_shelf_life_h. `source` receives where
+/// the number comes from.
+double default_shelf_life_h(const AppData& data, chem::ShelfKind kind, QString* source = nullptr);
 
 /// A titled list of steps, in order.
 struct StepSection {
@@ -83,9 +83,9 @@ struct BatchDocument {
     std::optional<int> copies;
     std::optional<double> shelf_override;
     double shelf_life_h = 0;
-    QString shelf_source; ///< where the shelf life comes from
-    QString shelf_kind;   ///< "an aqueous buffer", "kind neat-solvent", …
-    QString expires_at;   ///< ISO, "" when unknown (clamped to the lots: chem::use_by)
+    QString shelf_source;                      ///< where the shelf life comes from
+    std::optional<chem::ShelfKind> shelf_kind; ///< worded by shelf_note_text
+    QString expires_at; ///< ISO, "" when unknown (clamped to the lots: chem::use_by)
     /// The index in batch.actual of the lot whose expiry date set expires_at, -1 when none.
     int expiry_limited_by = -1;
     /// That lot in words: "lot PA-88112 of Phosphoric acid, which expires on 2027-01-15"; "".

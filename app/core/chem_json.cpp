@@ -160,7 +160,7 @@ QJsonObject recipe_to_json(const chem::Recipe& r) {
     for (const auto& it : r.items) {
         QJsonObject o{{"reagent", QString::fromStdString(it.reagent)},
                       {"mol_per_l", it.mol_per_l},
-                      {"as", QString::fromStdString(it.as)}};
+                      {"as", QString::fromStdString(chem::item_as_text(it))}};
         if (it.mass_g)
             o["mass_g"] = *it.mass_g;
         if (it.volume_ml)

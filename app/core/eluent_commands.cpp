@@ -30,8 +30,9 @@ QJsonObject eluent_result_to_json(const chem::EluentResult& r) {
     }
     QJsonArray solutes;
     for (const auto& s : r.mix.solutes)
-        solutes.append(QJsonObject{
-            {"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+        solutes.append(QJsonObject{{"reagent", qs(s.reagent)},
+                                   {"mmol_per_l", s.mmol_per_l},
+                                   {"from", QLatin1String(chem::solute_source_name(s.from))}});
     QJsonArray pka;
     for (const auto& k : r.pka)
         pka.append(QJsonObject{{"system", qs(k.system)},

@@ -67,17 +67,18 @@ std::optional<chem::Detector> detector_from_json(const QJsonObject& doc, const s
     const QJsonObject o = json::require_object(doc, "detector", root);
     json::reject_near_misses(o, {"type", "wavelength_nm", "margin_nm"}, at);
     chem::Detector d;
-    d.type = json::require_string(o, "type", at);
-    std::transform(d.type.begin(), d.type.end(), d.type.begin(),
+    std::string type = json::require_string(o, "type", at);
+    std::transform(type.begin(), type.end(), type.begin(),
                    [](unsigned char ch) { return std::tolower(ch); });
-    const auto& types = chem::detector_types();
-    if (std::find(types.begin(), types.end(), d.type) == types.end()) {
+    const auto parsed = chem::detector_type_from_name(type);
+    if (!parsed) {
         std::string known;
-        for (const auto& t : types)
-            known += (known.empty() ? "" : ", ") + t;
+        for (const chem::DetectorType t : chem::detector_types())
+            known += (known.empty() ? "" : ", ") + std::string(chem::detector_type_name(t));
         throw chem::Error(json::path(at, "type"),
-                          "\"" + d.type + "\" is not a detector type (" + known + ")");
+                          "\"" + type + "\" is not a detector type (" + known + ")");
     }
+    d.type = *parsed;
     if (chem::detector_reads_uv(d.type)) {
         const double wl = json::require_number(o, "wavelength_nm", at);
         if (wl < 180 || wl > 900)
@@ -149,8 +150,9 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
         solvents[qs(id)] = f;
     QJsonArray solutes;
     for (const auto& s : p.solutes)
-        solutes.append(QJsonObject{
-            {"reagent", qs(s.reagent)}, {"mmol_per_l", s.mmol_per_l}, {"from", qs(s.from)}});
+        solutes.append(QJsonObject{{"reagent", qs(s.reagent)},
+                                   {"mmol_per_l", s.mmol_per_l},
+                                   {"from", QLatin1String(chem::solute_source_name(s.from))}});
     return QJsonObject{{"aqueous_fraction_v", p.aqueous_fraction_v},
                        {"organic_fraction_v", p.organic_fraction_v},
                        {"solvents", solvents},
@@ -158,9 +160,9 @@ QJsonObject profile_to_json(const chem::LineProfile& p) {
                        {"uv_cutoff_nm", p.uv_cutoff_nm},
                        {"uv_limited_by", qs(p.uv_limited_by)},
                        {"ph", opt(p.ph)},
-                       {"ph_basis", qs(p.ph_basis)},
+                       {"ph_basis", QString::fromUtf8(chem::ph_basis_name(p.ph_basis))},
                        {"nonvolatile", strings(p.nonvolatile)},
-                       {"shelf_kind", qs(p.shelf_kind)},
+                       {"shelf_kind", QLatin1String(chem::shelf_kind_name(p))},
                        {"shelf_life_h", p.shelf_life_h}};
 }
 
@@ -433,14 +435,14 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
     QJsonArray items;
     for (const auto& it : r.items) {
         QJsonObject o{{"part", qs(it.part)},
-                      {"kind", qs(it.kind)},
+                      {"kind", QLatin1String(chem::line_item_kind_name(it.kind))},
                       {"volume_ml", opt(it.volume_ml)},
                       {"mass_g", opt(it.mass_g)}};
-        if (it.kind != "additive")
+        if (it.kind != chem::LineItemKind::additive)
             o["fraction_v"] = it.fraction_v;
         if (it.density_g_per_ml > 0)
             o["density_g_per_ml"] = it.density_g_per_ml;
-        if (it.density_g_per_ml > 0 && it.kind != "additive")
+        if (it.density_g_per_ml > 0 && it.kind != chem::LineItemKind::additive)
             o["density_temperature_c"] = it.density_temperature_c;
         o["density_basis"] = qs(it.density_basis);
         items.append(o);
@@ -460,30 +462,30 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
                                           &data.reagents, library_names(data)))
         warnings.append(check_warning_to_json(w, nullptr));
 
-    QJsonObject out{
-        {"name", qs(pl.spec.name)},
-        {"volume_ml", volume},
-        {"items", items},
-        {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
-        {"uv_limited_by", qs(r.profile.uv_limited_by)},
-        {"ph", opt(r.profile.ph)},
-        {"ph_basis", qs(r.profile.ph_basis)},
-        {"mixed_volume_ml", r.mixed_volume_ml},
-        {"contraction_ml", r.contraction_ml},
-        {"contraction_sources", strings(r.contraction_sources)},
-        {"composition", profile_to_json(r.profile)},
-        {"solvents", props},
-        {"shelf_life",
-         QJsonObject{{"kind", qs(r.profile.shelf_kind)},
-                     {"hours", r.profile.shelf_life_h},
-                     {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
-                                : data.solvents.shelf_life(r.profile.shelf_kind)
-                                    ? qs(data.solvents.shelf_life(r.profile.shelf_kind)->source)
-                                    : QString()}}},
-        {"steps", strings(chem::numbered_step_texts(r.steps))},
-        {"notes", strings(r.notes)},
-        {"cautions", strings(r.cautions)},
-        {"warnings", warnings}};
+    const chem::ShelfLife* shelf_entry =
+        r.profile.shelf_kind ? data.solvents.shelf_life(*r.profile.shelf_kind) : nullptr;
+    QJsonObject out{{"name", qs(pl.spec.name)},
+                    {"volume_ml", volume},
+                    {"items", items},
+                    {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
+                    {"uv_limited_by", qs(r.profile.uv_limited_by)},
+                    {"ph", opt(r.profile.ph)},
+                    {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
+                    {"mixed_volume_ml", r.mixed_volume_ml},
+                    {"contraction_ml", r.contraction_ml},
+                    {"contraction_sources", strings(r.contraction_sources)},
+                    {"composition", profile_to_json(r.profile)},
+                    {"solvents", props},
+                    {"shelf_life",
+                     QJsonObject{{"kind", QLatin1String(chem::shelf_kind_name(r.profile))},
+                                 {"hours", r.profile.shelf_life_h},
+                                 {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
+                                            : shelf_entry        ? qs(shelf_entry->source)
+                                                                 : QString()}}},
+                    {"steps", strings(chem::numbered_step_texts(r.steps))},
+                    {"notes", strings(r.notes)},
+                    {"cautions", strings(r.cautions)},
+                    {"warnings", warnings}};
     if (r.buffer)
         out["buffer"] = recipe_to_json(*r.buffer);
     return out;

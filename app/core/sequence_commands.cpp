@@ -35,7 +35,7 @@ struct BatchUse {
     double prepare_ml = 0; ///< this bottle's min_bottle_ml
     QDateTime first_use, last_use;
     double shelf_life_h = 0;
-    QString shelf_kind;
+    std::optional<chem::ShelfKind> shelf_kind;
 };
 
 struct PlanResult {
@@ -254,7 +254,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         if (c.profiles[l]) {
             o["uv_cutoff_nm"] = profiles[l].uv_cutoff_nm;
             o["ph"] = opt(profiles[l].ph);
-            o["shelf_kind"] = qs(profiles[l].shelf_kind);
+            o["shelf_kind"] = QLatin1String(chem::shelf_kind_name(profiles[l]));
             o["shelf_life_h"] = profiles[l].shelf_life_h;
         }
         lines_out[QString(QChar(chem::line_letter(l)))] = o;
@@ -270,7 +270,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         u.last_use =
             clock.start.addMSecs(static_cast<qint64>(std::llround(plan.total_min * 60000.0)));
         u.shelf_life_h = c.profiles[l] ? profiles[l].shelf_life_h : 0;
-        u.shelf_kind = c.profiles[l] ? qs(profiles[l].shelf_kind) : QString();
+        if (c.profiles[l])
+            u.shelf_kind = profiles[l].shelf_kind;
         res.uses.push_back(u);
     }
     QJsonObject methods_out;
@@ -376,8 +377,12 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
                       {"last_use", wall_clock_iso(last)},
                       {"span_h", span_h}};
         if (shelf > 0) {
+            const QString kind =
+                list.front()->shelf_kind
+                    ? QLatin1String(chem::shelf_kind_name(*list.front()->shelf_kind))
+                    : QString();
             b["shelf_life_h"] = shelf;
-            b["shelf_kind"] = list.front()->shelf_kind;
+            b["shelf_kind"] = kind;
             b["one_batch_lasts"] = span_h <= shelf;
             if (span_h > shelf && warnings && list.size() > 1) {
                 const long long batches =
@@ -389,9 +394,8 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
                      "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
                          " bottles would be used over " + QString::number(span_h, 'f', 1) +
                          " h, longer than its shelf life of " + QString::number(shelf, 'f', 0) +
-                         " h (" + list.front()->shelf_kind +
-                         ", a lab-set default): make at least " + QString::number(batches) +
-                         " batches."},
+                         " h (" + kind + ", a lab-set default): make at least " +
+                         QString::number(batches) + " batches."},
                     {"recipe", list.front()->name},
                     {"span_h", span_h},
                     {"shelf_life_h", shelf},

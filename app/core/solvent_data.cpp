@@ -223,7 +223,16 @@ void load_solvents_json(const QByteArray& bytes, const std::string& origin,
         });
         each(doc, "shelf_life", false, [&](const QJsonObject& o, const std::string& at) {
             chem::ShelfLife s;
-            s.kind = json::require_string(o, "kind", at);
+            const std::string kind = json::require_string(o, "kind", at);
+            const auto parsed = chem::shelf_kind_from_name(kind);
+            if (!parsed) {
+                std::string known;
+                for (const chem::ShelfKind k : chem::shelf_kinds())
+                    known += (known.empty() ? "" : ", ") + std::string(chem::shelf_kind_name(k));
+                throw chem::Error(json::path(at, "kind"),
+                                  "\"" + kind + "\" is not a shelf-life kind (" + known + ")");
+            }
+            s.kind = *parsed;
             s.hours = json::require_positive(o, "hours", at, 24.0 * 365);
             s.source = json::require_string(o, "source", at);
             s.description = json::optional_string(o, "description", at).value_or("");

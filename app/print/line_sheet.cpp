@@ -40,7 +40,8 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
              (lr.profile.uv_limited_by.empty() ? QString()
                                                : " (set by " + qs(lr.profile.uv_limited_by) + ")")},
         {"pH of the aqueous part",
-         lr.profile.ph ? format_ph(*lr.profile.ph) + " (" + qs(lr.profile.ph_basis) + ")"
+         lr.profile.ph ? format_ph(*lr.profile.ph) + " (" +
+                             QString::fromUtf8(chem::ph_basis_name(lr.profile.ph_basis)) + ")"
                        : QStringLiteral("not predicted (no aqueous buffer)")},
     };
     if (lr.contraction_ml > 0)
@@ -59,7 +60,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
         const auto& it = lr.items[k];
         const chem::AmountCheck& c = doc.part_checks[k];
         parts.table.rows << QStringList{qs(it.part),
-                                        qs(it.kind),
+                                        QLatin1String(chem::line_item_kind_name(it.kind)),
                                         it.volume_ml ? format_amount(*it.volume_ml) + " mL"
                                                      : QString(),
                                         it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),

@@ -161,7 +161,10 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
             label.expires_at = iso_minute_text(qs(batch.expires_at));
         else if (!batch.prepared_at.empty())
             label.expires_at = iso_minute_text(qs(chem::add_hours(
-                batch.prepared_at, l.value("shelf_life_h").toDouble(48), "batch.prepared_at")));
+                batch.prepared_at,
+                l.value("shelf_life_h")
+                    .toDouble(chem::builtin_shelf_life_h(chem::ShelfKind::aqueous_buffer)),
+                "batch.prepared_at")));
         label.prepared_by = qs(batch.prepared_by);
         label.pictograms = sorted_pictograms(hz.pictograms);
         label.hazard_codes = hz.codes();

@@ -61,15 +61,15 @@ QString route_text(const chem::RecipeRequest& q) {
 QString form_text(const chem::Reagent& r, const chem::RecipeItem& it,
                   const chem::RecipeRequest& q) {
     const double purity = chem::purity_of(q, r);
-    if (it.as == "solid") {
+    if (it.kind == chem::ItemKind::solid) {
         return purity < 1 ? QStringLiteral("solid, %1 %").arg(qs(chem::format_number(purity * 100)))
                           : QStringLiteral("solid");
     }
-    if (it.as == "liquid")
+    if (it.kind == chem::ItemKind::liquid)
         return QStringLiteral("liquid, %1 % w/w, %2 g/mL")
             .arg(qs(chem::format_number(purity * 100)),
                  qs(chem::format_number(r.density_g_per_ml)));
-    return qs(it.as);
+    return qs(chem::item_as_text(it));
 }
 
 Block heading(const QString& text) {
@@ -123,13 +123,16 @@ QList<KeyValue> batch_fields(const chem::Batch& b, const QString& recipe, const 
     };
 }
 
-QString shelf_note_text(double hours, const QString& kind, const QString& source, bool given) {
+QString shelf_note_text(double hours, std::optional<chem::ShelfKind> kind, const QString& source,
+                        bool given) {
     if (given)
         return QStringLiteral("expiry entered with the batch");
     QString h = qs(chem::format_number(hours)) + " h";
     if (hours >= 48 && std::fmod(hours, 24) == 0)
         h += " (" + qs(chem::format_number(hours / 24)) + " days)";
-    return h + ", " + kind + (source.isEmpty() ? QString() : " — " + source);
+    if (kind)
+        h += ", " + QString::fromUtf8(chem::shelf_kind_words(*kind));
+    return h + (source.isEmpty() ? QString() : " — " + source);
 }
 
 // ---- shared pieces ------------------------------------------------------------------------------
@@ -172,12 +175,12 @@ Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe,
         const chem::AmountCheck& c = res.checks[k];
         const chem::Reagent& r = lib.reagent(it.reagent);
         QString target = format_amount(c.target) + " " + qs(c.unit);
-        if (it.as == "liquid" && it.mass_g && it.volume_ml)
+        if (it.kind == chem::ItemKind::liquid && it.mass_g && it.volume_ml)
             target =
                 c.unit == "g"
                     ? format_amount(*it.mass_g) + " g\n(" + format_amount(*it.volume_ml) + " mL)"
                     : format_amount(*it.volume_ml) + " mL\n(" + format_amount(*it.mass_g) + " g)";
-        if (it.as.rfind("titrant", 0) == 0)
+        if (chem::is_titrant(it.kind))
             target += "\n(predicted)";
         table.table.rows << QStringList{qs(r.name) + "\n" + qs(r.formula) + ", " +
                                             QString::number(r.molar_mass_g_per_mol, 'f', 2) +

@@ -96,7 +96,10 @@ QStringList cautions_with_standard(const std::vector<std::string>& own);
 QList<KeyValue> batch_fields(const chem::Batch& b, const QString& recipe, const QString& purpose,
                              const QString& expires, const QString& shelf_note);
 
-QString shelf_note_text(double hours, const QString& kind, const QString& source, bool given);
+/// "48 h (2 days), an aqueous buffer — <source>": the shelf life applied, the kind in words
+/// (chem::shelf_kind_words) and where the figure comes from.
+QString shelf_note_text(double hours, std::optional<chem::ShelfKind> kind, const QString& source,
+                        bool given);
 
 QString tolerance_text(const chem::Batch& b);
 

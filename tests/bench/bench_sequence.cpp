@@ -106,7 +106,7 @@ void run_plan_and_checks(benchmark::State& state, int rows, bool pressure = fals
         c.plan = &plan;
         for (int l = 0; l < 4; ++l)
             c.profiles[l] = &lines.profiles[l];
-        c.detector = chem::Detector{"uv", 210.0, 10};
+        c.detector = chem::Detector{chem::DetectorType::uv, 210.0, 10};
         c.column = chem::ColumnLimits{2, 8, 35.0};
         // With the reagent library the checks trace the eluent pH of every method (every row and
         // every 1 % of organic) for column-ph and buffer-range; without it they read the lines.

@@ -178,8 +178,9 @@ void write_solvent_library(std::ostream& o, const chem::SolventLibrary& lib) {
         o << "        lib.add_solubility(std::move(t));\n    }\n";
     }
     for (const chem::ShelfLife& s : lib.shelf_lives())
-        o << "    lib.add_shelf_life({" << str(s.kind) << ", " << num(s.hours) << ", "
-          << str(s.source) << ", " << str(s.description) << "});\n";
+        o << "    lib.add_shelf_life({*chem::shelf_kind_from_name("
+          << str(chem::shelf_kind_name(s.kind)) << "), " << num(s.hours) << ", " << str(s.source)
+          << ", " << str(s.description) << "});\n";
     for (const chem::ExcessVolume& e : lib.excess_volumes())
         o << "    lib.add_excess_volume({" << str(e.aqueous) << ", " << str(e.organic) << ", "
           << num(e.temperature_c) << ", " << nums(e.rk_cm3_per_mol) << ", " << str(e.source)
