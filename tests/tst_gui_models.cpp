@@ -316,6 +316,29 @@ class TestGuiModels : public QObject {
         QVERIFY(!plan.methodConditions("no such method").value("hasEluent").toBool());
     }
 
+    void every_detector_type_can_be_picked() {
+        // The picker offers each type the `sequence` contract accepts (README, "detector"), and
+        // the wavelength applies to the UV readers only: a plan saved with "pda" shows PDA picked
+        // and its wavelength (it once offered five types and hid the wavelength for pda).
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        QStringList ids;
+        for (const QVariant& v : Plan::detectorTypes())
+            ids << v.toMap().value("id").toString();
+        QCOMPARE(ids, QStringList({"uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad",
+                                   "fluorescence", "ri"}));
+        for (const QString& id : ids) {
+            plan.setDetectorType(id);
+            plan.setDetectorWavelengthNm(254);
+            plan.recomputeNow();
+            QVERIFY2(plan.valid(), qPrintable(id + ": " + plan.errorMessage()));
+            const bool uv = id == "uv" || id == "dad" || id == "pda" || id == "uv-ms";
+            QCOMPARE(plan.detectorReadsUv(), uv);
+        }
+    }
+
     void curves_agree_with_the_recipe() {
         auto ws = open_workspace(fresh_db());
         BufferDesigner d;

@@ -1,5 +1,6 @@
 #include "plan.h"
 
+#include "chem/checks.h"
 #include "core/date_time.h"
 #include "core/line_commands.h"
 #include "field_words.h"
@@ -298,6 +299,50 @@ void Plan::setDetectorType(const QString& t) {
     d.insert("type", t);
     doc_.insert("detector", d);
     edited();
+}
+
+QVariantList Plan::detectorTypes() {
+    QVariantList out;
+    for (chem::DetectorType t : chem::detector_types()) {
+        QString name;
+        switch (t) {
+        case chem::DetectorType::uv:
+            name = tr("UV");
+            break;
+        case chem::DetectorType::dad:
+            name = tr("DAD");
+            break;
+        case chem::DetectorType::pda:
+            name = tr("PDA");
+            break;
+        case chem::DetectorType::uv_ms:
+            name = tr("UV + MS");
+            break;
+        case chem::DetectorType::ms:
+            name = tr("MS");
+            break;
+        case chem::DetectorType::elsd:
+            name = tr("ELSD");
+            break;
+        case chem::DetectorType::cad:
+            name = tr("CAD");
+            break;
+        case chem::DetectorType::fluorescence:
+            name = tr("Fluorescence");
+            break;
+        case chem::DetectorType::ri:
+            name = tr("RI");
+            break;
+        }
+        out.append(
+            QVariantMap{{"id", QString::fromLatin1(chem::detector_type_name(t))}, {"name", name}});
+    }
+    return out;
+}
+
+bool Plan::detectorReadsUv() const {
+    const auto t = chem::detector_type_from_name(detectorType().toLower().toStdString());
+    return t && chem::detector_reads_uv(*t);
 }
 
 double Plan::detectorWavelengthNm() const {

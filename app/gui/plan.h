@@ -73,8 +73,14 @@ class Plan : public QObject {
     /// Free volume of the waste container in mL (0: not checked).
     Q_PROPERTY(
         double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
-    /// "uv" or "ms".
+    /// The contract's word for the detector: "uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad",
+    /// "fluorescence", "ri".
     Q_PROPERTY(QString detectorType READ detectorType WRITE setDetectorType NOTIFY documentChanged)
+    /// Every detector type the checks know, [{id, name}] in chem::detector_types() order, for the
+    /// picker (so a plan with any valid type shows it picked).
+    Q_PROPERTY(QVariantList detectorTypes READ detectorTypes CONSTANT)
+    /// True when the detector reads UV (uv, dad, pda, uv-ms): the wavelength applies.
+    Q_PROPERTY(bool detectorReadsUv READ detectorReadsUv NOTIFY documentChanged)
     Q_PROPERTY(double detectorWavelengthNm READ detectorWavelengthNm WRITE setDetectorWavelengthNm
                    NOTIFY documentChanged)
     Q_PROPERTY(double columnPhMin READ columnPhMin WRITE setColumnPhMin NOTIFY documentChanged)
@@ -152,6 +158,8 @@ class Plan : public QObject {
     void setWasteCapacityMl(double ml);
     QString detectorType() const;
     void setDetectorType(const QString& t);
+    static QVariantList detectorTypes();
+    bool detectorReadsUv() const;
     double detectorWavelengthNm() const;
     void setDetectorWavelengthNm(double nm);
     double columnPhMin() const;

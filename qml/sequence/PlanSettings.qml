@@ -44,15 +44,15 @@ Card {
     SegmentedChoice {
         Layout.fillWidth: true
         label: qsTr("Detector")
-        options: [{ id: "uv", name: "UV" }, { id: "dad", name: "DAD" }, { id: "ms", name: "MS" },
-                  { id: "uv-ms", name: "UV + MS" }, { id: "elsd", name: "ELSD" }]
+        objectName: "detectorChoice"
+        options: root.plan.detectorTypes
         current: root.plan.detectorType
         onPicked: function(id) { root.plan.detectorType = id }
     }
     NumberField {
         objectName: "wavelengthField"
         Layout.fillWidth: true
-        visible: root.plan.detectorType === "uv" || root.plan.detectorType === "dad" || root.plan.detectorType === "uv-ms"
+        visible: root.plan.detectorReadsUv
         label: qsTr("Detection wavelength")
         unit: "nm"
         value: root.plan.detectorWavelengthNm
