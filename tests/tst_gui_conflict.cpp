@@ -225,6 +225,23 @@ class TestGuiConflict : public QObject {
         QVERIFY(a.reloadBuffer());
         QCOMPARE(a.volumeMl(), 900.0);
         QVERIFY(a.conflictMessage().isEmpty());
+
+        // Renamed on A's bench: B, without edits, follows it to the new name on the next poll,
+        // and the notice says who renamed it.
+        QCOMPARE(a.renameBuffer("Line A phosphate"), QString());
+        QVERIFY(ws_b->pollChanges());
+        QCOMPARE(b.bufferName(), QString("Line A phosphate"));
+        QVERIFY2(b.remoteNotice().startsWith("“Assay buffer” was renamed to “Line A phosphate” on "
+                                             "another bench by Rosa Okafor (demo-prep) at "),
+                 qPrintable(b.remoteNotice()));
+        // Removed on A's bench: B keeps what it shows and is told who removed it.
+        QVERIFY(
+            ws_a->database()->remove(phaseplan::storage::DocumentKind::buffer, "Line A phosphate"));
+        QVERIFY(ws_b->pollChanges());
+        QCOMPARE(b.bufferName(), QString("Line A phosphate"));
+        QVERIFY2(b.remoteNotice().startsWith("Removed on another bench by Rosa Okafor (demo-prep) "
+                                             "at "),
+                 qPrintable(b.remoteNotice()));
         Q_UNUSED(volume);
     }
 };

@@ -208,8 +208,39 @@ void BufferDesigner::refreshFromDatabase() {
         return;
     const QSqlDatabase c = workspace_->database()->connection();
     if (now.version == 0) {
-        set_conflict({}, tr("This buffer was removed or renamed on another bench; what "
-                            "you see is kept here only: save it as a copy to keep it."));
+        std::optional<storage::Retirement> gone;
+        QString now_named;
+        guarded([&] {
+            gone = workspace_->database()->retirement(storage::DocumentKind::buffer, buffer_name_);
+            now_named =
+                workspace_->database()->current_name(storage::DocumentKind::buffer, buffer_name_);
+        });
+        if (!gone) {
+            set_conflict({}, tr("This buffer was removed or renamed on another bench; what "
+                                "you see is kept here only: save it as a copy to keep it."));
+            return;
+        }
+        const QString by = tr("by %1 at %2")
+                               .arg(storage::person_words(c, gone->retired_by),
+                                    storage::utc_time_words(gone->retired_at));
+        if (gone->renamed_to.isEmpty() || now_named.isEmpty()) {
+            set_conflict({}, tr("Removed on another bench %1; what you see is kept here only: "
+                                "save it as a copy to keep it.")
+                                 .arg(by));
+            return;
+        }
+        if (dirty_) {
+            set_conflict({}, tr("Renamed to “%1” on another bench %2. Your changes here are not "
+                                "saved yet: saving them will offer to reload it under its new "
+                                "name or to save a copy.")
+                                 .arg(now_named, by));
+            return;
+        }
+        const QString old = buffer_name_;
+        reloadBuffer(); // follows the rename
+        set_conflict({}, tr("“%1” was renamed to “%2” on another bench %3; shown under its new "
+                            "name.")
+                             .arg(old, now_named, by));
         return;
     }
     const QString who_when =
