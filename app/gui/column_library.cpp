@@ -136,16 +136,16 @@ qint64 ColumnStore::save(const ColumnRecord& in) {
         if (q.numRowsAffected() == 0)
             throw chem::Error("id", "the column was removed meanwhile");
     } else {
-        QSqlQuery q =
-            v ? db_.exec(
-                    QStringLiteral("INSERT INTO columns (name, document, created_at, updated_at,"
-                                   " version, changed_by, changed_at)"
-                                   " VALUES (?, ?, ?, ?, 1, ?, ?)"),
-                    {name, text, now, now, db_.actor(), now})
-              : db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, "
-                                        "updated_at) VALUES (?, ?, ?, ?)"),
-                         {name, text, now, now});
-        id = q.lastInsertId().toLongLong();
+        v ? db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, updated_at,"
+                                    " version, changed_by, changed_at)"
+                                    " VALUES (?, ?, ?, ?, 1, ?, ?)"),
+                     {name, text, now, now, db_.actor(), now})
+          : db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, "
+                                    "updated_at) VALUES (?, ?, ?, ?)"),
+                     {name, text, now, now});
+        // The id by the name (unique): lastInsertId is not given by every driver (QPSQL).
+        QSqlQuery back = db_.exec(QStringLiteral("SELECT id FROM columns WHERE name = ?"), {name});
+        id = back.next() ? back.value(0).toLongLong() : 0;
     }
     t.commit();
     return id;
@@ -172,7 +172,7 @@ std::vector<ColumnRecord> ColumnStore::list() const {
     std::vector<ColumnRecord> out;
     QSqlQuery q =
         db_.exec(QStringLiteral("SELECT id, name, document, length(name)%1 FROM columns"
-                                " ORDER BY name COLLATE NOCASE, id")
+                                " ORDER BY lower(name), id")
                      .arg(db_.rows_versioned() ? QStringLiteral(", version, changed_by, changed_at")
                                                : QString()));
     while (q.next()) {

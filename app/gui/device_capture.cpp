@@ -101,7 +101,11 @@ bool DeviceCapture::saveDevice(const QVariantMap& device) {
         if (!workspace_ || !workspace_->database())
             throw chem::Error("database", "the workspace is not open");
         QJsonObject o = QJsonObject::fromVariantMap(device);
-        o.remove(QStringLiteral("version")); // not a field of the record's JSON
+        // What the lists add for the screen is not part of the record's JSON (an instrument
+        // edited from its listed map comes back with them).
+        for (const char* listed :
+             {"version", "changedBy", "changedAt", "calibrationDue", "calibrationCaution"})
+            o.remove(QLatin1String(listed));
         devices::DeviceRecord d = devices::DeviceRecord::from_json(o, "", &formats_);
         d.version = device.value(QStringLiteral("version")).toLongLong();
         devices::DeviceStore(*workspace_->database()).save_checked(d);
