@@ -1,6 +1,8 @@
 #pragma once
 // The back end a storage test runs on. CTest runs tst_storage, tst_audit, tst_batch,
-// tst_batch_bounds and tst_lots twice: as they are (SQLite files in a temporary folder) and as
+// tst_batch_bounds, tst_lots, tst_concurrency, tst_row_versions and the GUI tests
+// tst_gui_connection and tst_gui_row_versions twice (the list is in tests/CMakeLists.txt): as
+// they are (SQLite files in a temporary folder) and as
 // <name>_pg with PHASEPLAN_TEST_BACKEND=postgresql, where every database is a fresh one (CREATE
 // DATABASE with a name of its own, dropped at the end) on the cluster that PHASEPLAN_TEST_PG_URI
 // names (tests/pg_cluster.sh start prints it; PGPASSFILE points at its password file). Without that

@@ -5,6 +5,7 @@
 
 #include <QJsonArray>
 #include <QSqlQuery>
+#include <QSqlRecord>
 
 namespace phaseplan::devices {
 
@@ -159,12 +160,48 @@ DeviceRecord from_row(const QSqlQuery& q) {
     d.unit = q.value(10).toString();
     if (!q.value(11).isNull())
         d.calibration_due = QDate::fromString(q.value(11).toString(), Qt::ISODate);
+    if (q.record().count() > 12) {
+        d.version = q.value(12).toLongLong();
+        d.changed_by = q.value(13).toString();
+        d.changed_at = q.value(14).toString();
+    }
     return d;
 }
 
-const char* columns =
+const char* plain_columns =
     "id, name, kind, port, baud, data_bits, parity, stop_bits, flow_control, line_format,"
     " unit, calibration_due";
+const char* versioned_columns =
+    "id, name, kind, port, baud, data_bits, parity, stop_bits, flow_control, line_format,"
+    " unit, calibration_due, version, changed_by, changed_at";
+
+/// The columns read back: with the version once the schema has it.
+QLatin1String columns(const storage::Database& db) {
+    return QLatin1String(db.rows_versioned() ? versioned_columns : plain_columns);
+}
+
+storage::RowKey device_key(const QString& id) {
+    return {QStringLiteral("devices"), {QStringLiteral("id")}, {id}};
+}
+
+QString device_words(const QString& id) {
+    return QStringLiteral("Instrument \"%1\"").arg(id);
+}
+
+QVariantList device_values(const DeviceRecord& d) {
+    return {d.name,
+            QLatin1String(kind_name(d.kind)),
+            d.port.port,
+            d.port.baud,
+            d.port.data_bits,
+            d.port.parity,
+            d.port.stop_bits,
+            d.port.flow_control,
+            d.format,
+            d.unit,
+            d.calibration_due.isValid() ? QVariant(d.calibration_due.toString(Qt::ISODate))
+                                        : QVariant()};
+}
 
 } // namespace
 
@@ -172,23 +209,57 @@ void DeviceStore::upsert(const DeviceRecord& d) {
     if (d.id.trimmed().isEmpty())
         throw chem::Error("id", "an instrument needs an id");
     d.port.validate();
-    const QString now = utc_now_iso_ms();
+    const QString now = storage::sql::utc_now(db_.connection());
+    const bool v = db_.rows_versioned();
+    QVariantList values = QVariantList{d.id.trimmed()} + device_values(d);
+    values << now << now;
+    if (v)
+        values << db_.actor() << now;
     db_.exec(QStringLiteral(
-                 "INSERT INTO devices (%1, created_at, updated_at)"
-                 " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)"
+                 "INSERT INTO devices (%1, created_at, updated_at%2)"
+                 " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?%3)"
                  " ON CONFLICT (id) DO UPDATE SET name = excluded.name, kind = excluded.kind,"
                  " port = excluded.port, baud = excluded.baud, data_bits = excluded.data_bits,"
                  " parity = excluded.parity, stop_bits = excluded.stop_bits,"
                  " flow_control = excluded.flow_control, line_format = excluded.line_format,"
                  " unit = excluded.unit, calibration_due = excluded.calibration_due,"
-                 " updated_at = excluded.updated_at")
-                 .arg(QLatin1String(columns)),
-             {d.id.trimmed(), d.name, QLatin1String(kind_name(d.kind)), d.port.port, d.port.baud,
-              d.port.data_bits, d.port.parity, d.port.stop_bits, d.port.flow_control, d.format,
-              d.unit,
-              d.calibration_due.isValid() ? QVariant(d.calibration_due.toString(Qt::ISODate))
-                                          : QVariant(),
-              now, now});
+                 " updated_at = excluded.updated_at%4")
+                 .arg(QLatin1String(plain_columns),
+                      v ? QStringLiteral(", version, changed_by, changed_at") : QString(),
+                      v ? QStringLiteral(", 1, ?, ?") : QString(),
+                      v ? QStringLiteral(", version = devices.version + 1,"
+                                         " changed_by = excluded.changed_by,"
+                                         " changed_at = excluded.changed_at")
+                        : QString()),
+             values);
+}
+
+qint64 DeviceStore::save_checked(const DeviceRecord& device) {
+    const QString id = device.id.trimmed();
+    if (id.isEmpty())
+        throw chem::Error("id", "an instrument needs an id");
+    device.port.validate();
+    if (!db_.rows_versioned()) {
+        save(device);
+        return 0;
+    }
+    storage::Database::Transaction t(db_);
+    const QString now = storage::sql::utc_now(db_.connection());
+    qint64 stored = 1;
+    if (device.version <= 0) {
+        storage::refuse_taken(db_.connection(), device_key(id), QStringLiteral("instrument"), id,
+                              "id");
+        upsert(device);
+    } else {
+        stored = storage::update_checked(
+            db_.connection(), device_key(id),
+            QStringLiteral("name = ?, kind = ?, port = ?, baud = ?, data_bits = ?, parity = ?,"
+                           " stop_bits = ?, flow_control = ?, line_format = ?, unit = ?,"
+                           " calibration_due = ?, updated_at = ?"),
+            device_values(device) << now, device.version, db_.actor(), now, device_words(id));
+    }
+    t.commit();
+    return stored;
 }
 
 void DeviceStore::save(const DeviceRecord& device) {
@@ -208,17 +279,15 @@ int DeviceStore::import_json(const QByteArray& bytes, const std::string& origin,
 }
 
 std::optional<DeviceRecord> DeviceStore::load(const QString& id) const {
-    QSqlQuery q =
-        db_.exec(QStringLiteral("SELECT %1 FROM devices WHERE id = ?").arg(QLatin1String(columns)),
-                 {id.trimmed()});
+    QSqlQuery q = db_.exec(QStringLiteral("SELECT %1 FROM devices WHERE id = ?").arg(columns(db_)),
+                           {id.trimmed()});
     if (!q.next())
         return std::nullopt;
     return from_row(q);
 }
 
 std::vector<DeviceRecord> DeviceStore::list() const {
-    QSqlQuery q =
-        db_.exec(QStringLiteral("SELECT %1 FROM devices ORDER BY id").arg(QLatin1String(columns)));
+    QSqlQuery q = db_.exec(QStringLiteral("SELECT %1 FROM devices ORDER BY id").arg(columns(db_)));
     std::vector<DeviceRecord> out;
     while (q.next())
         out.push_back(from_row(q));
@@ -233,10 +302,16 @@ std::vector<DeviceRecord> DeviceStore::list(DeviceKind kind) const {
     return out;
 }
 
-bool DeviceStore::remove(const QString& id) {
+bool DeviceStore::remove(const QString& id, qint64 expected_version) {
     storage::Database::Transaction t(db_);
-    QSqlQuery q = db_.exec(QStringLiteral("DELETE FROM devices WHERE id = ?"), {id.trimmed()});
-    const bool removed = q.numRowsAffected() > 0;
+    bool removed = true;
+    if (expected_version > 0 && db_.rows_versioned()) {
+        storage::delete_checked(db_.connection(), device_key(id.trimmed()), expected_version,
+                                device_words(id.trimmed()));
+    } else {
+        QSqlQuery q = db_.exec(QStringLiteral("DELETE FROM devices WHERE id = ?"), {id.trimmed()});
+        removed = q.numRowsAffected() > 0;
+    }
     t.commit();
     return removed;
 }

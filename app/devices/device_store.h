@@ -31,6 +31,11 @@ struct DeviceRecord {
     QString format;        ///< a preset's name or a regular expression (see line_format.h)
     QString unit;          ///< the unit the instrument is set to send: "g", "mg", "kg" or "pH"
     QDate calibration_due; ///< invalid when not recorded
+    /// As stored (storage/versioning.h; not part of the JSON): the version it was loaded at (0 for
+    /// a new one), who saved it last and when (UTC ISO 8601).
+    qint64 version = 0;
+    QString changed_by{};
+    QString changed_at{};
 
     /// What a reading from this instrument must be: a mass in `unit` for a balance, a pH for a
     /// meter.
@@ -54,8 +59,13 @@ std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::
 class DeviceStore {
   public:
     explicit DeviceStore(storage::Database& db) : db_(db) {}
-    /// Inserts or replaces by id (one transaction).
+    /// Inserts or replaces by id (one transaction), whatever is stored (imports, the demo).
     void save(const DeviceRecord& device);
+    /// The screen's save (one transaction), recorded under the database's actor(): `device.version`
+    /// 0 adds a new instrument (an id that is taken is refused with name_taken_error, field "id");
+    /// above 0 writes only if the stored row is still at that version (conflict_error, field
+    /// "version", naming who changed it and when). Returns the version now stored.
+    qint64 save_checked(const DeviceRecord& device);
     /// Saves every record of a devices file in one transaction: all or none. Returns the count.
     int import_json(const QByteArray& bytes, const std::string& origin,
                     const FormatLibrary* formats = nullptr);
@@ -64,7 +74,8 @@ class DeviceStore {
     std::vector<DeviceRecord> list() const;
     /// The records of one kind, ordered by id.
     std::vector<DeviceRecord> list(DeviceKind kind) const;
-    bool remove(const QString& id);
+    /// With `expected_version` above 0, only from that version (conflict_error otherwise).
+    bool remove(const QString& id, qint64 expected_version = -1);
 
   private:
     void upsert(const DeviceRecord& d);

@@ -9,6 +9,7 @@
 #include <QJsonDocument>
 #include <QLocale>
 #include <QSqlQuery>
+#include <QSqlRecord>
 
 #include <cmath>
 #include <limits>
@@ -40,7 +41,16 @@ ColumnRecord record_from_row(const QSqlQuery& q) {
     c.name = q.value(1).toString();
     c.document = QJsonDocument::fromJson(q.value(2).toString().toUtf8()).object();
     c.document.insert("name", c.name);
+    if (q.record().count() > 6) {
+        c.version = q.value(4).toLongLong();
+        c.changed_by = q.value(5).toString();
+        c.changed_at = q.value(6).toString();
+    }
     return c;
+}
+
+storage::RowKey column_key(qint64 id) {
+    return {QStringLiteral("columns"), {QStringLiteral("id")}, {id}};
 }
 
 } // namespace
@@ -94,35 +104,65 @@ qint64 ColumnStore::save(const ColumnRecord& in) {
     const QString name = (in.name.isEmpty() ? doc.value("name").toString() : in.name).trimmed();
     doc.insert("name", name);
     validate_column_document(doc);
+    const bool v = db_.rows_versioned();
     storage::Database::Transaction t(db_);
     QSqlQuery taken = db_.exec(QStringLiteral("SELECT id FROM columns WHERE name = ? AND id <> ?"),
                                {name, in.id});
-    if (taken.next())
-        throw chem::Error("name", "“" + name.toStdString() + "” is the name of another column");
+    if (taken.next()) {
+        if (!v)
+            throw chem::Error("name", "“" + name.toStdString() + "” is the name of another column");
+        throw storage::name_taken_error(
+            db_.connection(), QStringLiteral("column"), name,
+            storage::row_stamp(db_.connection(), column_key(taken.value(0).toLongLong())));
+    }
     const QString text = QString::fromUtf8(QJsonDocument(doc).toJson(QJsonDocument::Compact));
-    const QString now = utc_now_iso_ms();
+    const QString now = storage::sql::utc_now(db_.connection());
     qint64 id = in.id;
-    if (id > 0) {
+    if (id > 0 && v && in.version > 0) {
+        storage::update_checked(db_.connection(), column_key(id),
+                                QStringLiteral("name = ?, document = ?, updated_at = ?"),
+                                {name, text, now}, in.version, db_.actor(), now,
+                                QStringLiteral("Column \"%1\"").arg(name));
+    } else if (id > 0) {
         QSqlQuery q =
-            db_.exec(QStringLiteral(
-                         "UPDATE columns SET name = ?, document = ?, updated_at = ? WHERE id = ?"),
-                     {name, text, now, id});
+            v ? db_.exec(QStringLiteral("UPDATE columns SET name = ?, document = ?, updated_at = ?,"
+                                        " version = version + 1, changed_by = ?, changed_at = ?"
+                                        " WHERE id = ?"),
+                         {name, text, now, db_.actor(), now, id})
+              : db_.exec(
+                    QStringLiteral(
+                        "UPDATE columns SET name = ?, document = ?, updated_at = ? WHERE id = ?"),
+                    {name, text, now, id});
         if (q.numRowsAffected() == 0)
             throw chem::Error("id", "the column was removed meanwhile");
     } else {
-        QSqlQuery q = db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, "
-                                              "updated_at) VALUES (?, ?, ?, ?)"),
-                               {name, text, now, now});
-        id = q.lastInsertId().toLongLong();
+        v ? db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, updated_at,"
+                                    " version, changed_by, changed_at)"
+                                    " VALUES (?, ?, ?, ?, 1, ?, ?)"),
+                     {name, text, now, now, db_.actor(), now})
+          : db_.exec(QStringLiteral("INSERT INTO columns (name, document, created_at, "
+                                    "updated_at) VALUES (?, ?, ?, ?)"),
+                     {name, text, now, now});
+        // The id by the name (unique): lastInsertId is not given by every driver (QPSQL).
+        QSqlQuery back = db_.exec(QStringLiteral("SELECT id FROM columns WHERE name = ?"), {name});
+        id = back.next() ? back.value(0).toLongLong() : 0;
     }
     t.commit();
     return id;
 }
 
-bool ColumnStore::remove(qint64 id) {
+bool ColumnStore::remove(qint64 id, qint64 expected_version) {
     storage::Database::Transaction t(db_);
-    QSqlQuery q = db_.exec(QStringLiteral("DELETE FROM columns WHERE id = ?"), {id});
-    const bool removed = q.numRowsAffected() > 0;
+    bool removed = true;
+    if (expected_version > 0 && db_.rows_versioned()) {
+        const std::optional<ColumnRecord> c = load(id);
+        storage::delete_checked(
+            db_.connection(), column_key(id), expected_version,
+            QStringLiteral("Column \"%1\"").arg(c ? c->name : QString::number(id)));
+    } else {
+        QSqlQuery q = db_.exec(QStringLiteral("DELETE FROM columns WHERE id = ?"), {id});
+        removed = q.numRowsAffected() > 0;
+    }
     t.commit();
     return removed;
 }
@@ -130,8 +170,11 @@ bool ColumnStore::remove(qint64 id) {
 std::vector<ColumnRecord> ColumnStore::list() const {
     skipped_.clear();
     std::vector<ColumnRecord> out;
-    QSqlQuery q = db_.exec(QStringLiteral("SELECT id, name, document, length(name) FROM columns"
-                                          " ORDER BY name COLLATE NOCASE, id"));
+    QSqlQuery q =
+        db_.exec(QStringLiteral("SELECT id, name, document, length(name)%1 FROM columns"
+                                " ORDER BY lower(name), id")
+                     .arg(db_.rows_versioned() ? QStringLiteral(", version, changed_by, changed_at")
+                                               : QString()));
     while (q.next()) {
         const QString name = q.value(1).toString();
         QString why;
@@ -205,6 +248,8 @@ void ColumnLibrary::setWorkspace(Workspace* w) {
     if (workspace_) {
         connect(workspace_, &Workspace::readyChanged, this, &ColumnLibrary::reload);
         connect(workspace_, &Workspace::columnsChanged, this, &ColumnLibrary::reload);
+        // Another bench's change: the list is re-read and changes only when the rows differ.
+        connect(workspace_, &Workspace::databaseChanged, this, &ColumnLibrary::reload);
     }
     emit workspaceChanged();
     reload();
@@ -230,6 +275,9 @@ void ColumnLibrary::reload() {
                     return o.contains(k) ? o.value(k).toDouble() : nan;
                 };
                 list.append(QVariantMap{{"id", c.id},
+                                        {"version", c.version},
+                                        {"changedBy", c.changed_by},
+                                        {"changedAt", c.changed_at},
                                         {"name", c.name},
                                         {"summary", column_summary(d)},
                                         {"document", d.toVariantMap()},
@@ -343,10 +391,11 @@ bool ColumnLibrary::save(const QVariantMap& draft) {
         const FieldError err = guarded([&] {
             if (!workspace_ || !workspace_->database())
                 throw chem::Error("database", "the workspace is not open");
-            ColumnStore(*workspace_->database())
-                .save({draft.value("id").toLongLong(), doc.value("name").toString(), doc});
+            ColumnRecord c{draft.value("id").toLongLong(), doc.value("name").toString(), doc};
+            c.version = draft.value("version").toLongLong(); // as listed; 0 for a new one
+            ColumnStore(*workspace_->database()).save(c);
         });
-        if (err.field == "name")
+        if (err.field == "name" || err.field == "version")
             errors.insert(err.field, err.message);
         else if (!err.empty())
             general = err.message;
@@ -363,13 +412,17 @@ bool ColumnLibrary::save(const QVariantMap& draft) {
     return true;
 }
 
-bool ColumnLibrary::remove(qint64 id) {
+bool ColumnLibrary::remove(qint64 id, qint64 version) {
     bool removed = false;
     const FieldError err = guarded([&] {
         if (workspace_ && workspace_->database())
-            removed = ColumnStore(*workspace_->database()).remove(id);
+            removed = ColumnStore(*workspace_->database()).remove(id, version);
     });
-    if (!err.empty()) {
+    if (err.field == "version") {
+        errors_ = QVariantMap{{err.field, err.message}};
+        general_error_.clear();
+        emit errorsChanged();
+    } else if (!err.empty()) {
         general_error_ = err.message;
         emit errorsChanged();
     }

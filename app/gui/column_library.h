@@ -40,6 +40,11 @@ struct ColumnRecord {
     qint64 id = 0; ///< 0 for a new one
     QString name;
     QJsonObject document; ///< the column object, with "name"
+    /// As stored (storage/versioning.h): the version it was loaded at (0 for a new one), who saved
+    /// it last and when (UTC ISO 8601).
+    qint64 version = 0;
+    QString changed_by{};
+    QString changed_at{};
 };
 
 /// Checks a column document (throws chem::Error with the field as in the document: "name",
@@ -53,9 +58,13 @@ class ColumnStore {
   public:
     explicit ColumnStore(storage::Database& db) : db_(db) {}
     /// Validates and inserts (id 0) or updates by id; returns the id. A name already used by
-    /// another column is an error on "name".
+    /// another column is refused with name_taken_error (field "name", naming who saved it and
+    /// when). An update with `c.version` above 0 writes only if the row is still at that version
+    /// (conflict_error, field "version"); with version 0 it overwrites (the demo, tests). Recorded
+    /// under the database's actor().
     qint64 save(const ColumnRecord& c);
-    bool remove(qint64 id);
+    /// With `expected_version` above 0, only from that version (conflict_error otherwise).
+    bool remove(qint64 id, qint64 expected_version = -1);
     std::optional<ColumnRecord> load(qint64 id) const;
     std::optional<ColumnRecord> find(const QString& name) const;
     /// Ordered by name.
@@ -76,7 +85,8 @@ class ColumnLibrary : public QObject {
     QML_ELEMENT
     Q_PROPERTY(phaseplan::gui::Workspace* workspace READ workspace WRITE setWorkspace NOTIFY
                    workspaceChanged)
-    /// [{id, name, summary, document (the column object), length_mm, id_mm, particle_um,
+    /// [{id, version, changedBy, changedAt, name, summary, document (the column object), length_mm,
+    /// id_mm, particle_um,
     ///   porosity, max_pressure_bar, ph_min, ph_max, temperature_c, reference_pressure_bar,
     ///   reference_flow_ml_min, reference_percent_b, reference_temperature_c}] (NaN: not given).
     Q_PROPERTY(QVariantList columns READ columns NOTIFY columnsChanged)
@@ -105,11 +115,14 @@ class ColumnLibrary : public QObject {
     /// not given. The reference composition is "% of line B" (the rest line A).
     /// Returns the column document it makes (not checked).
     Q_INVOKABLE QVariantMap documentFromDraft(const QVariantMap& draft) const;
-    /// Checks and saves; false with `errors` (every bad field, each with its message).
+    /// Checks and saves; false with `errors` (every bad field, each with its message). The draft's
+    /// `version` is the one listed (absent or 0: a new column): a column changed on another bench
+    /// since is refused with errors["version"] (who and when), a taken name with errors["name"].
     Q_INVOKABLE bool save(const QVariantMap& draft);
     /// Checks a draft without saving: field → message.
     Q_INVOKABLE QVariantMap check(const QVariantMap& draft) const;
-    Q_INVOKABLE bool remove(qint64 id);
+    /// With `version` (as listed) above 0, only if nobody changed it since (errors["version"]).
+    Q_INVOKABLE bool remove(qint64 id, qint64 version = -1);
     /// The column document of the named library column, {} when there is none.
     Q_INVOKABLE QVariantMap document(const QString& name) const;
     Q_INVOKABLE QString summary(const QVariantMap& column) const;

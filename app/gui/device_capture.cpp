@@ -33,8 +33,24 @@ void DeviceCapture::setWorkspace(Workspace* w) {
     if (workspace_)
         disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
-    if (workspace_)
+    if (workspace_) {
         connect(workspace_, &Workspace::readyChanged, this, &DeviceCapture::reloadDevices);
+        // Another bench's change (the change counter moved): re-read when the list differs.
+        connect(workspace_, &Workspace::databaseChanged, this, [this] {
+            if (!workspace_ || !workspace_->database())
+                return;
+            std::vector<devices::DeviceRecord> now;
+            const FieldError e =
+                guarded([&] { now = devices::DeviceStore(*workspace_->database()).list(); });
+            if (!e.empty())
+                return;
+            bool same = now.size() == devices_.size();
+            for (size_t i = 0; same && i < now.size(); ++i)
+                same = now[i].id == devices_[i].id && now[i].version == devices_[i].version;
+            if (!same)
+                reloadDevices();
+        });
+    }
     emit workspaceChanged();
     reloadDevices();
 }
@@ -84,9 +100,15 @@ bool DeviceCapture::saveDevice(const QVariantMap& device) {
     const FieldError err = guarded([&] {
         if (!workspace_ || !workspace_->database())
             throw chem::Error("database", "the workspace is not open");
-        const devices::DeviceRecord d =
-            devices::DeviceRecord::from_json(QJsonObject::fromVariantMap(device), "", &formats_);
-        devices::DeviceStore(*workspace_->database()).save(d);
+        QJsonObject o = QJsonObject::fromVariantMap(device);
+        // What the lists add for the screen is not part of the record's JSON (an instrument
+        // edited from its listed map comes back with them).
+        for (const char* listed :
+             {"version", "changedBy", "changedAt", "calibrationDue", "calibrationCaution"})
+            o.remove(QLatin1String(listed));
+        devices::DeviceRecord d = devices::DeviceRecord::from_json(o, "", &formats_);
+        d.version = device.value(QStringLiteral("version")).toLongLong();
+        devices::DeviceStore(*workspace_->database()).save_checked(d);
     });
     if (!err.empty()) {
         set_error(err.field, err.message, QStringLiteral("bad-setting"));
@@ -97,11 +119,11 @@ bool DeviceCapture::saveDevice(const QVariantMap& device) {
     return true;
 }
 
-bool DeviceCapture::removeDevice(const QString& id) {
+bool DeviceCapture::removeDevice(const QString& id, qint64 version) {
     bool removed = false;
     const FieldError err = guarded([&] {
         if (workspace_ && workspace_->database())
-            removed = devices::DeviceStore(*workspace_->database()).remove(id);
+            removed = devices::DeviceStore(*workspace_->database()).remove(id, version);
     });
     if (!err.empty())
         set_error(err.field, err.message, QStringLiteral("bad-setting"));
@@ -132,7 +154,10 @@ QVariantList DeviceCapture::list_of(DeviceKind kind) const {
             {"unit", d.unit},
             {"calibrationDue",
              d.calibration_due.isValid() ? d.calibration_due.toString(Qt::ISODate) : QString()},
-            {"calibrationCaution", caution ? (*caution)["message"].toString() : QString()}});
+            {"calibrationCaution", caution ? (*caution)["message"].toString() : QString()},
+            {"version", d.version},
+            {"changedBy", d.changed_by},
+            {"changedAt", d.changed_at}});
     }
     return out;
 }

@@ -95,13 +95,18 @@ class DeviceCapture : public QObject {
     Q_INVOKABLE void cancel();
     /// Re-reads the instruments from the database.
     Q_INVOKABLE void reloadDevices();
-    /// Adds or replaces an instrument: `device` has the fields of a devices.json record (id, name,
+    /// Forgets the last error (the form was reloaded or closed).
+    Q_INVOKABLE void clearError() { set_error({}, {}, {}); }
+    /// Adds or changes an instrument: `device` has the fields of a devices.json record (id, name,
     /// kind, port, baud, data_bits, parity, stop_bits, flow_control, format, unit,
-    /// calibration_due). False with errorField ("baud", "format", …) and errorMessage when a field
-    /// is wrong; nothing is stored then.
+    /// calibration_due) and `version`, as the lists give it (absent or 0: a new instrument). False
+    /// with errorField ("baud", "format", …) and errorMessage when a field is wrong; nothing is
+    /// stored then. An instrument changed on another bench since it was listed here is refused
+    /// with errorField "version" (who and when); a new one under a taken id with "id".
     Q_INVOKABLE bool saveDevice(const QVariantMap& device);
-    /// True when the instrument was there and is removed.
-    Q_INVOKABLE bool removeDevice(const QString& id);
+    /// True when the instrument was there and is removed. With `version` (as listed) above 0,
+    /// only if nobody changed it since (errorField "version" otherwise).
+    Q_INVOKABLE bool removeDevice(const QString& id, qint64 version = -1);
 
   signals:
     void workspaceChanged();

@@ -222,6 +222,7 @@ void ReagentEditor::clear() {
     editing_shipped_ = false;
     is_lab_entry_ = false;
     show_errors_ = false;
+    loaded_version_ = 0;
     emit changed();
     validate();
 }
@@ -231,10 +232,12 @@ bool ReagentEditor::edit(const QString& id) {
         return false;
     QJsonObject doc;
     bool lab = false;
+    qint64 version = 0;
     for (const storage::LibraryEntry& e : workspace_->entries(QStringLiteral("reagents")))
         if (e.id == id) {
             doc = e.document;
             lab = e.user_defined;
+            version = e.version;
             if (lab)
                 source_ = e.source;
         }
@@ -272,10 +275,20 @@ bool ReagentEditor::edit(const QString& id) {
     extra_.insert("systems", rest_y);
     editing_shipped_ = !lab;
     is_lab_entry_ = lab;
+    loaded_version_ = lab ? version : 0;
     show_errors_ = true;
     emit changed();
     validate();
     return true;
+}
+
+void ReagentEditor::reload() {
+    if (!workspace_ || !workspace_->database())
+        return;
+    const QString id = id_.trimmed();
+    workspace_->reloadLibrary();
+    if (!edit(id))
+        clear();
 }
 
 QJsonObject ReagentEditor::document() const {
@@ -361,8 +374,11 @@ QString ReagentEditor::save() {
         return error_.message;
     if (!workspace_ || !workspace_->database())
         return tr("no database is open");
+    qint64 stored = 0;
     const FieldError e = guarded([&] {
-        workspace_->database()->save_user_entry(QStringLiteral("reagents"), document(), source_);
+        // From the version loaded: 0 (a new entry, or a shipped one corrected) must be new.
+        stored = workspace_->database()->save_user_entry(QStringLiteral("reagents"), document(),
+                                                         source_, loaded_version_);
         workspace_->reloadLibrary();
     });
     if (!e.empty()) {
@@ -375,6 +391,7 @@ QString ReagentEditor::save() {
     extra_.insert("systems", QJsonArray());
     editing_shipped_ = false;
     is_lab_entry_ = true;
+    loaded_version_ = stored;
     emit changed();
     return {};
 }
@@ -384,13 +401,16 @@ bool ReagentEditor::removeLabEntry() {
         return false;
     bool removed = false;
     const FieldError e = guarded([&] {
-        removed =
-            workspace_->database()->remove_user_entry(QStringLiteral("reagents"), id_.trimmed());
+        removed = workspace_->database()->remove_user_entry(
+            QStringLiteral("reagents"), id_.trimmed(), loaded_version_ > 0 ? loaded_version_ : -1);
         if (removed)
             workspace_->reloadLibrary();
     });
-    if (!e.empty())
+    if (!e.empty()) {
+        error_ = e;
+        emit validated();
         return false;
+    }
     if (removed && !edit(id_.trimmed()))
         clear();
     return removed;

@@ -112,6 +112,10 @@ class ReagentEditor : public QObject {
     Q_PROPERTY(bool isLabEntry READ isLabEntry NOTIFY changed)
     /// False on a fresh form until the user changes something: no errors shown before that.
     Q_PROPERTY(bool showErrors READ showErrors NOTIFY changed)
+    /// The stored version of the lab's entry this form was loaded from (0: a new entry, or a
+    /// shipped one being corrected). A save writes only from it; a save refused because another
+    /// bench changed the entry sets errorField "version" with the sentence naming who and when.
+    Q_PROPERTY(qint64 loadedVersion READ loadedVersion NOTIFY changed)
 
   public:
     explicit ReagentEditor(QObject* parent = nullptr);
@@ -168,6 +172,9 @@ class ReagentEditor : public QObject {
     bool showErrors() const {
         return show_errors_;
     }
+    qint64 loadedVersion() const {
+        return loaded_version_;
+    }
 
     /// Clears the form for a new entry.
     Q_INVOKABLE void clear();
@@ -178,8 +185,12 @@ class ReagentEditor : public QObject {
     /// Validates and stores the lab's entry (one transaction), then reloads the library.
     /// Returns "" or the error message (also in errorField/errorMessage).
     Q_INVOKABLE QString save();
-    /// Removes the lab's entry of this id (a shipped one of the same id shows again).
+    /// Removes the lab's entry of this id (a shipped one of the same id shows again), only from
+    /// the loaded version.
     Q_INVOKABLE bool removeLabEntry();
+    /// After a refused save: drops the form's edits and loads the entry as stored now (the
+    /// shipped one, or a new form, when the lab's entry was removed). Rebuilds the library.
+    Q_INVOKABLE void reload();
     /// [{id, name}] of the acid-base systems, with "" (none) first.
     Q_INVOKABLE QVariantList systemChoices() const;
     Q_INVOKABLE bool errorIs(const QString& field) const {
@@ -206,6 +217,7 @@ class ReagentEditor : public QObject {
     double molar_mass_ = 0;
     FieldError error_;
     bool editing_shipped_ = false, is_lab_entry_ = false, show_errors_ = false;
+    qint64 loaded_version_ = 0;
 };
 
 } // namespace phaseplan::gui

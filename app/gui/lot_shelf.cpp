@@ -1,5 +1,7 @@
 #include "lot_shelf.h"
 
+#include "storage/versioning.h"
+
 #include "chem/error.h"
 #include "core/app_data.h"
 #include "storage/accounts.h"
@@ -116,6 +118,7 @@ void LotShelfModel::reload() {
         const FieldError e = guarded([&] {
             QLocale loc;
             loc.setNumberOptions(QLocale::OmitGroupSeparator); // "1000 g", never "1,000 g"
+            QHash<QString, QString> people; // login → person_words, once per reload
             for (const storage::ReagentLot& l :
                  storage::LotStore(workspace_->database()->connection()).list(filter_)) {
                 Row r;
@@ -130,6 +133,16 @@ void LotShelfModel::reload() {
                     r.quantity =
                         loc.toString(*l.quantity, 'g', 6) + QLatin1Char(' ') + l.quantity_unit;
                 r.created_by = l.created_by;
+                r.version = l.version;
+                if (l.version > 0) {
+                    auto p = people.find(l.changed_by);
+                    if (p == people.end())
+                        p = people.insert(l.changed_by,
+                                          storage::person_words(
+                                              workspace_->database()->connection(), l.changed_by));
+                    r.changed =
+                        tr("changed by %1, %2").arg(*p, storage::utc_time_words(l.changed_at));
+                }
                 next.push_back(std::move(r));
             }
         });
@@ -209,6 +222,10 @@ QVariant LotShelfModel::data(const QModelIndex& index, int role) const {
         return r.expires_on < today();
     case CreatedByRole:
         return r.created_by;
+    case VersionRole:
+        return r.version;
+    case ChangedRole:
+        return r.changed;
     default:
         return {};
     }
@@ -219,7 +236,8 @@ QHash<int, QByteArray> LotShelfModel::roleNames() const {
         {ReagentRole, "reagent"},     {ReagentNameRole, "reagentName"}, {LotRole, "lot"},
         {SupplierRole, "supplier"},   {ReceivedOnRole, "receivedOn"},   {OpenedOnRole, "openedOn"},
         {ExpiresOnRole, "expiresOn"}, {QuantityRole, "quantity"},       {StateRole, "state"},
-        {ExpiredRole, "expired"},     {CreatedByRole, "createdBy"}};
+        {ExpiredRole, "expired"},     {CreatedByRole, "createdBy"},     {VersionRole, "version"},
+        {ChangedRole, "changed"}};
 }
 
 QVariantList LotShelfModel::reagentChoices(const QString& search) const {
@@ -308,11 +326,16 @@ bool LotShelfModel::markOpenedToday(const QString& reagent, const QString& lot) 
     }
     const FieldError e = guarded([&] {
         storage::LotStore shelf(workspace_->database()->connection());
+        // The version this screen lists: a lot changed on another bench since is refused.
+        qint64 seen = -1;
+        for (const Row& r : rows_)
+            if (r.reagent == reagent && r.lot == lot && r.version > 0)
+                seen = r.version;
         const std::optional<storage::ReagentLot> cur = shelf.find(reagent, lot);
-        if (cur && !cur->opened_on.isEmpty())
+        if (cur && !cur->opened_on.isEmpty() && (seen <= 0 || cur->version == seen))
             throw chem::Error("opened_on", "lot \"" + lot.toStdString() + "\" was opened on " +
                                                cur->opened_on.toStdString() + " already");
-        shelf.set_opened(reagent, lot, today(), who());
+        shelf.set_opened(reagent, lot, today(), who(), seen);
     });
     if (!e.empty()) {
         set_error(e);

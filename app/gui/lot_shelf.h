@@ -63,6 +63,8 @@ class LotShelfModel : public QAbstractListModel {
         StateRole,      ///< "in date", "expires in 12 days", "expires today", "expired"
         ExpiredRole,    ///< expired before today
         CreatedByRole,  ///< the login that put it on the shelf
+        VersionRole,    ///< the stored version as listed (storage/versioning.h)
+        ChangedRole,    ///< "changed by <person> at <time>", "" before versions
     };
     Q_ENUM(Role)
 
@@ -98,9 +100,16 @@ class LotShelfModel : public QAbstractListModel {
     Q_INVOKABLE bool add(const QString& reagent, const QString& lot, const QString& supplier,
                          const QString& receivedOn, const QString& openedOn,
                          const QString& expiresOn, const QString& quantity);
-    /// Records today as the day `reagent`'s `lot` was opened (audited). False with the error set.
+    /// Records today as the day `reagent`'s `lot` was opened (audited), from the version listed:
+    /// a lot changed on another bench since is refused with errorField "version" (who and when).
+    /// False with the error set.
     Q_INVOKABLE bool markOpenedToday(const QString& reagent, const QString& lot);
     Q_INVOKABLE void clearError() { set_error({}); }
+    /// Reload after a refusal: forgets the error and lists the shelf as stored now.
+    Q_INVOKABLE void reloadShelf() {
+        set_error({});
+        reload();
+    }
 
     /// The state of a lot that expires on `expires_on` (YYYY-MM-DD), seen on `today`.
     static QString state_words(const QString& expires_on, const QDate& today);
@@ -118,7 +127,8 @@ class LotShelfModel : public QAbstractListModel {
   private:
     struct Row {
         QString reagent, reagent_name, lot, supplier, received_on, opened_on, expires_on, quantity,
-            created_by;
+            created_by, changed;
+        qint64 version = 0;
     };
     void reload();
     void update_write_block();

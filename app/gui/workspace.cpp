@@ -58,8 +58,11 @@ bool Workspace::pollChanges() {
     if (!db_ || connection_lost_)
         return false; // while the connection is lost, retryConnection() is what tries
     qint64 counter = last_change_counter_;
+    QString library = library_stamp_;
     try {
         counter = storage::change_counter(db_->connection());
+        if (counter != last_change_counter_)
+            library = db_->user_entries_stamp();
     } catch (const chem::Error& e) {
         if (e.field() == "database.connection")
             connectionLost(); // says so, and tries again every 5 s
@@ -68,6 +71,8 @@ bool Workspace::pollChanges() {
     if (counter == last_change_counter_)
         return false;
     last_change_counter_ = counter;
+    if (library != library_stamp_)
+        reloadLibrary(); // a lab entry saved or removed on another bench (or this one)
     emit databaseChanged();
     emit savedChanged();
     return true;
@@ -284,6 +289,7 @@ void Workspace::reloadLibrary() {
     // A lab entry that no longer loads (a shipped system it names was renamed, say) must not
     // lock the lab out: the last good library stays and the problem is shown on the Library screen.
     try {
+        library_stamp_ = db_->user_entries_stamp();
         chem::Library lib;
         load_reagents_json(db_->merged_file(QStringLiteral("reagents.json")),
                            "library reagents.json", lib);

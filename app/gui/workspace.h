@@ -78,7 +78,8 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// The timer that calls pollChanges() (running once the database is open).
     const QTimer& changePollTimer() const { return change_poll_; }
     /// Reads the change counter; when it moved since the last look (a save on any bench, this
-    /// one included), emits databaseChanged() and savedChanged(). True when it moved.
+    /// one included), emits databaseChanged() and savedChanged(), and rebuilds the library when
+    /// the lab's own entries changed (libraryChanged). True when it moved.
     Q_INVOKABLE bool pollChanges();
 
     /// Loads data/, opens (creating, migrating) the database, syncs the shipped library files into
@@ -181,6 +182,7 @@ class Workspace : public QObject, public QQmlParserStatus {
     QString actor_;
     QTimer change_poll_;
     qint64 last_change_counter_ = -1;
+    QString library_stamp_; ///< Database::user_entries_stamp() when the library was last built
     bool connection_lost_ = false;
     QDateTime lost_since_;
     QTimer reconnect_;

@@ -4,9 +4,11 @@
 #include "chem/guard.h"
 #include "storage/audit_trail.h"
 #include "storage/sql_util.h"
+#include "storage/versioning.h"
 
 #include <QRegularExpression>
 #include <QSqlQuery>
+#include <QSqlRecord>
 
 #include <sodium.h>
 
@@ -55,11 +57,31 @@ Account account_from(const QSqlQuery& q) {
     a.locked = q.value(4).toInt() != 0;
     a.created_at = q.value(5).toString();
     a.changed_at = q.value(6).toString();
+    if (q.record().count() > 7) {
+        a.version = q.value(7).toLongLong();
+        a.changed_by = q.value(8).toString();
+    }
     return a;
 }
 
-const char* account_columns =
+const char* plain_account_columns =
     "login, display_name, role, failed_attempts, locked, created_at, changed_at";
+const char* versioned_account_columns =
+    "login, display_name, role, failed_attempts, locked, created_at, changed_at, version, "
+    "changed_by";
+
+QLatin1String account_columns(QSqlDatabase db) {
+    return QLatin1String(has_row_version(db, QStringLiteral("users")) ? versioned_account_columns
+                                                                      : plain_account_columns);
+}
+
+RowKey account_key(const QString& login) {
+    return {QStringLiteral("users"), {QStringLiteral("login")}, {login}};
+}
+
+QString account_words(const QString& login) {
+    return QStringLiteral("The account %1").arg(QString::fromStdString(quoted(login)));
+}
 
 } // namespace
 
@@ -127,8 +149,9 @@ bool AccountStore::any() const {
 }
 
 std::optional<Account> AccountStore::find(const QString& login) const {
-    QSqlQuery q = run(
-        db_, QStringLiteral("SELECT %1 FROM users WHERE login = ?").arg(account_columns), {login});
+    QSqlQuery q =
+        run(db_, QStringLiteral("SELECT %1 FROM users WHERE login = ?").arg(account_columns(db_)),
+            {login});
     if (!q.next())
         return std::nullopt;
     return account_from(q);
@@ -136,7 +159,7 @@ std::optional<Account> AccountStore::find(const QString& login) const {
 
 std::vector<Account> AccountStore::list() const {
     QSqlQuery q =
-        run(db_, QStringLiteral("SELECT %1 FROM users ORDER BY login").arg(account_columns));
+        run(db_, QStringLiteral("SELECT %1 FROM users ORDER BY login").arg(account_columns(db_)));
     std::vector<Account> out;
     while (q.next())
         out.push_back(account_from(q));
@@ -188,13 +211,22 @@ void AccountStore::add_with_hash(const QString& login_in, const QString& display
             throw chem::Error("role", "the first account must be an administrator (it creates "
                                       "the others)");
     }
-    if (find(login))
+    const bool versioned = has_row_version(db_, QStringLiteral("users"));
+    if (versioned)
+        refuse_taken(db_, account_key(login), QStringLiteral("account"), login, "login");
+    else if (find(login))
         throw chem::Error("login", quoted(login) + " is taken (logins are never reused)");
     const QString t = now();
-    run(db_,
-        "INSERT INTO users (login, display_name, role, password_hash, failed_attempts, locked,"
-        " created_at, changed_at) VALUES (?, ?, ?, ?, 0, 0, ?, ?)",
-        {login, display_name, role_name(role), hash, t, t});
+    if (versioned)
+        run(db_,
+            "INSERT INTO users (login, display_name, role, password_hash, failed_attempts, locked,"
+            " created_at, changed_at, version, changed_by) VALUES (?, ?, ?, ?, 0, 0, ?, ?, 1, ?)",
+            {login, display_name, role_name(role), hash, t, t, actor.isEmpty() ? login : actor});
+    else
+        run(db_,
+            "INSERT INTO users (login, display_name, role, password_hash, failed_attempts, locked,"
+            " created_at, changed_at) VALUES (?, ?, ?, ?, 0, 0, ?, ?)",
+            {login, display_name, role_name(role), hash, t, t});
     QJsonObject changes = audit_change("display_name", QJsonValue::Null, display_name);
     changes.insert("role", QJsonObject{{"old", QJsonValue::Null}, {"new", role_name(role)}});
     append_audit(db_, t, actor.isEmpty() ? login : actor, "add-user", "user", login, {}, changes);
@@ -236,8 +268,15 @@ Account AccountStore::authenticate(const QString& login_in, const QString& passw
         const int before = find(login)->failed_attempts;
         attempts = before + 1;
         const bool lock = attempts >= max_failed_attempts;
-        run(db_, "UPDATE users SET failed_attempts = ?, locked = ?, changed_at = ? WHERE login = ?",
-            {attempts, lock ? 1 : 0, t, login});
+        if (lock && a->version > 0) // locking is a change of the account; counting is not
+            run(db_,
+                "UPDATE users SET failed_attempts = ?, locked = 1, changed_at = ?,"
+                " version = version + 1, changed_by = ? WHERE login = ?",
+                {attempts, t, login, login});
+        else
+            run(db_,
+                "UPDATE users SET failed_attempts = ?, locked = ?, changed_at = ? WHERE login = ?",
+                {attempts, lock ? 1 : 0, t, login});
         QJsonObject changes = audit_change("failed_attempts", before, attempts);
         append_audit(db_, t, login, "sign-in-failed", "user", login, {}, changes);
         if (lock)
@@ -257,12 +296,29 @@ Account AccountStore::authenticate(const QString& login_in, const QString& passw
     throw chem::Error("password", "wrong login or password");
 }
 
-void AccountStore::set_locked(const QString& login, bool locked, const QString& actor) {
+void AccountStore::write_account(const Account& a, const QString& assignments,
+                                 const QVariantList& values, const QString& actor,
+                                 const QString& at, qint64 expected_version) {
+    if (a.version == 0) { // before step row_version_schema_version
+        run(db_,
+            QStringLiteral("UPDATE users SET %1, changed_at = ? WHERE login = ?").arg(assignments),
+            QVariantList(values) << at << a.login);
+        return;
+    }
+    update_checked(db_, account_key(a.login), assignments, values,
+                   expected_version > 0 ? expected_version : a.version, actor, at,
+                   account_words(a.login));
+}
+
+void AccountStore::set_locked(const QString& login, bool locked, const QString& actor,
+                              qint64 expected_version) {
     sql::WriteTransaction tx(db_);
     require_administrator(actor);
     const std::optional<Account> a = find(login);
     if (!a)
         throw chem::Error("login", "no account " + quoted(login));
+    if (expected_version > 0 && a->version > 0 && a->version != expected_version)
+        throw conflict_error(db_, account_words(login), {a->version, a->changed_by, a->changed_at});
     if (locked && !a->locked && a->role == Role::administrator) {
         QSqlQuery q =
             run(db_, "SELECT count(*) FROM users WHERE role = 'administrator' AND locked = 0");
@@ -275,8 +331,8 @@ void AccountStore::set_locked(const QString& login, bool locked, const QString& 
         throw chem::Error("login", "the account " + quoted(login) + " is already " +
                                        (locked ? "locked" : "unlocked"));
     const QString t = now();
-    run(db_, "UPDATE users SET locked = ?, failed_attempts = ?, changed_at = ? WHERE login = ?",
-        {locked ? 1 : 0, locked ? a->failed_attempts : 0, t, login});
+    write_account(*a, QStringLiteral("locked = ?, failed_attempts = ?"),
+                  {locked ? 1 : 0, locked ? a->failed_attempts : 0}, actor, t, expected_version);
     QJsonObject changes = audit_change("locked", a->locked, locked);
     if (!locked && a->failed_attempts > 0)
         changes.insert("failed_attempts", QJsonObject{{"old", a->failed_attempts}, {"new", 0}});
@@ -285,7 +341,7 @@ void AccountStore::set_locked(const QString& login, bool locked, const QString& 
 }
 
 void AccountStore::set_password(const QString& login, const QString& new_password,
-                                const QString& actor) {
+                                const QString& actor, qint64 expected_version) {
     const QString hash = hash_password(new_password);
     sql::WriteTransaction tx(db_);
     const std::optional<Account> a = find(login);
@@ -294,8 +350,7 @@ void AccountStore::set_password(const QString& login, const QString& new_passwor
     if (actor != login)
         require_administrator(actor);
     const QString t = now();
-    run(db_, "UPDATE users SET password_hash = ?, changed_at = ? WHERE login = ?",
-        {hash, t, login});
+    write_account(*a, QStringLiteral("password_hash = ?"), {hash}, actor, t, expected_version);
     append_audit(db_, t, actor, "password", "user", login, {},
                  audit_change("password", QStringLiteral("(set)"), QStringLiteral("(changed)")));
     tx.commit();

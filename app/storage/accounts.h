@@ -20,6 +20,7 @@
 //   - every account change and every failed sign-in is written to the audit trail.
 #include <QSqlDatabase>
 #include <QString>
+#include <QVariantList>
 
 #include <functional>
 #include <optional>
@@ -46,6 +47,12 @@ struct Account {
     bool locked = false;
     QString created_at; ///< UTC ISO 8601
     QString changed_at; ///< UTC ISO 8601
+    /// From schema step row_version_schema_version (storage/versioning.h), 0 before it: +1 on
+    /// every change an administrator or the account makes (lock, unlock, password) and when the
+    /// account locks itself after the last wrong password; a failed sign-in that does not lock it
+    /// only counts. changed_by: who made that change.
+    qint64 version = 0;
+    QString changed_by{};
 };
 
 /// May this role create, edit, amend or print records? Everyone but the administrator.
@@ -69,7 +76,8 @@ class AccountStore {
     std::vector<Account> list() const;
 
     /// Adds an account. `actor` is the administrator's login, signed in by the caller; it may be
-    /// empty only for the very first account, which must be an administrator.
+    /// empty only for the very first account, which must be an administrator. A login that is
+    /// taken is refused with name_taken_error (field "login": who added it and when).
     void add(const QString& login, const QString& display_name, Role role, const QString& password,
              const QString& actor);
 
@@ -87,12 +95,17 @@ class AccountStore {
     Account authenticate(const QString& login, const QString& password);
 
     /// Locks or unlocks an account (unlocking clears the failed attempts). `actor` must be an
-    /// administrator (checked against the table).
-    void set_locked(const QString& login, bool locked, const QString& actor);
+    /// administrator (checked against the table). `expected_version` above 0 is the version the
+    /// administrator's screen showed: an account changed since (on another bench, or locked by
+    /// wrong passwords) is refused with conflict_error (field "version") and nothing is written;
+    /// -1 does not check (the CLI reads and writes at once).
+    void set_locked(const QString& login, bool locked, const QString& actor,
+                    qint64 expected_version = -1);
 
     /// Sets a new password. `actor` is the account itself (after authenticate with the old one)
-    /// or an administrator.
-    void set_password(const QString& login, const QString& new_password, const QString& actor);
+    /// or an administrator. `expected_version` as for set_locked.
+    void set_password(const QString& login, const QString& new_password, const QString& actor,
+                      qint64 expected_version = -1);
 
     /// Throws chem::Error("who", …) when `login` names an administrator or a locked account: they
     /// may not change records. A name that is no account passes (records made by name, before
@@ -104,6 +117,10 @@ class AccountStore {
 
   private:
     void require_administrator(const QString& actor) const;
+    /// The UPDATE of an admin edit: checked against `expected_version` (or the version read now,
+    /// under the write lock, when it is -1), the version moved on, `actor` as changed_by.
+    void write_account(const Account& a, const QString& assignments, const QVariantList& values,
+                       const QString& actor, const QString& at, qint64 expected_version);
     QString now() const;
 
     QSqlDatabase db_;

@@ -745,13 +745,8 @@ QString Database::save_copy(DocumentKind kind, const QString& name, const QJsonO
 RowStamp Database::stamp(DocumentKind kind, const QString& name) const {
     if (!versioned())
         return {};
-    QSqlQuery q =
-        exec(QStringLiteral("SELECT version, changed_by, changed_at FROM %1 WHERE name = ?")
-                 .arg(QLatin1String(table_of(kind))),
-             {name.trimmed()});
-    if (!q.next())
-        return {};
-    return {q.value(0).toLongLong(), q.value(1).toString(), q.value(2).toString()};
+    return row_stamp(db_,
+                     {QLatin1String(table_of(kind)), {QStringLiteral("name")}, {name.trimmed()}});
 }
 
 std::optional<Retirement> Database::retirement(DocumentKind kind, const QString& name) const {
@@ -1082,8 +1077,40 @@ QByteArray Database::shipped_file(const QString& file_name) const {
     return q.next() ? q.value(0).toByteArray() : QByteArray();
 }
 
-void Database::save_user_entry(const QString& kind, const QJsonObject& document,
-                               const QString& source) {
+bool Database::rows_versioned() const {
+    return schema_version() >= row_version_schema_version;
+}
+
+namespace {
+RowKey user_entry_key(const QString& kind, const QString& id) {
+    return {
+        QStringLiteral("library_user"), {QStringLiteral("kind"), QStringLiteral("id")}, {kind, id}};
+}
+QString user_entry_words(const QString& id) {
+    return QStringLiteral("Library entry \"%1\"").arg(id);
+}
+} // namespace
+
+QString Database::user_entries_stamp() const {
+    QSqlQuery q =
+        exec(rows_versioned() ? QStringLiteral("SELECT count(*), COALESCE(sum(version), 0),"
+                                               " COALESCE(max(changed_at), '') FROM library_user")
+                              : QStringLiteral("SELECT count(*), 0, COALESCE(max(updated_at), '')"
+                                               " FROM library_user"));
+    if (!q.next())
+        return {};
+    return QStringLiteral("%1/%2/%3")
+        .arg(q.value(0).toString(), q.value(1).toString(), q.value(2).toString());
+}
+
+RowStamp Database::user_entry_stamp(const QString& kind, const QString& id) const {
+    if (!rows_versioned())
+        return {};
+    return row_stamp(db_, user_entry_key(kind, id.trimmed()));
+}
+
+qint64 Database::save_user_entry(const QString& kind, const QJsonObject& document,
+                                 const QString& source, qint64 expected_version) {
     const QString id = document.value(QLatin1String("id")).toString().trimmed();
     if (id.isEmpty())
         throw chem::Error("id", "a library entry needs an id");
@@ -1093,20 +1120,49 @@ void Database::save_user_entry(const QString& kind, const QJsonObject& document,
                               "\" come from (a citation, a certificate, \"lab measurement\")");
     Transaction t(*this);
     const QString now = sql::utc_now(db_);
-    exec(QStringLiteral(
-             "INSERT INTO library_user (kind, id, document, source, created_at, updated_at)"
-             " VALUES (?, ?, ?, ?, ?, ?)"
-             " ON CONFLICT (kind, id) DO UPDATE SET document = excluded.document,"
-             " source = excluded.source, updated_at = excluded.updated_at"),
-         {kind, id, to_text(document), source.trimmed(), now, now});
+    const bool v = rows_versioned();
+    qint64 stored = 0;
+    if (!v) {
+        exec(QStringLiteral(
+                 "INSERT INTO library_user (kind, id, document, source, created_at, updated_at)"
+                 " VALUES (?, ?, ?, ?, ?, ?)"
+                 " ON CONFLICT (kind, id) DO UPDATE SET document = excluded.document,"
+                 " source = excluded.source, updated_at = excluded.updated_at"),
+             {kind, id, to_text(document), source.trimmed(), now, now});
+    } else if (expected_version > 0) {
+        stored = update_checked(db_, user_entry_key(kind, id),
+                                QStringLiteral("document = ?, source = ?, updated_at = ?"),
+                                {to_text(document), source.trimmed(), now}, expected_version,
+                                actor_, now, user_entry_words(id));
+    } else {
+        if (expected_version == 0)
+            refuse_taken(db_, user_entry_key(kind, id), QStringLiteral("lab library entry"), id,
+                         "id");
+        exec(QStringLiteral(
+                 "INSERT INTO library_user (kind, id, document, source, created_at, updated_at,"
+                 " version, changed_by, changed_at) VALUES (?, ?, ?, ?, ?, ?, 1, ?, ?)"
+                 " ON CONFLICT (kind, id) DO UPDATE SET document = excluded.document,"
+                 " source = excluded.source, updated_at = excluded.updated_at,"
+                 " version = library_user.version + 1, changed_by = excluded.changed_by,"
+                 " changed_at = excluded.changed_at"),
+             {kind, id, to_text(document), source.trimmed(), now, now, actor_, now});
+        stored = row_stamp(db_, user_entry_key(kind, id)).version;
+    }
     t.commit();
+    return stored;
 }
 
-bool Database::remove_user_entry(const QString& kind, const QString& id) {
+bool Database::remove_user_entry(const QString& kind, const QString& id, qint64 expected_version) {
     Transaction t(*this);
-    QSqlQuery q =
-        exec(QStringLiteral("DELETE FROM library_user WHERE kind = ? AND id = ?"), {kind, id});
-    const bool removed = q.numRowsAffected() > 0;
+    bool removed = true;
+    if (expected_version > 0 && rows_versioned()) {
+        delete_checked(db_, user_entry_key(kind, id.trimmed()), expected_version,
+                       user_entry_words(id.trimmed()));
+    } else {
+        QSqlQuery q =
+            exec(QStringLiteral("DELETE FROM library_user WHERE kind = ? AND id = ?"), {kind, id});
+        removed = q.numRowsAffected() > 0;
+    }
     t.commit();
     return removed;
 }
@@ -1124,13 +1180,27 @@ std::vector<LibraryEntry> Database::shipped_entries(const QString& kind) const {
 }
 
 std::vector<LibraryEntry> Database::user_entries(const QString& kind) const {
-    QSqlQuery q = exec(QStringLiteral("SELECT id, document, source, updated_at FROM library_user"
-                                      " WHERE kind = ? ORDER BY id"),
-                       {kind});
+    const bool v = rows_versioned();
+    QSqlQuery q =
+        exec(QStringLiteral("SELECT id, document, source, updated_at%1 FROM library_user"
+                            " WHERE kind = ? ORDER BY id")
+                 .arg(v ? QStringLiteral(", version, changed_by, changed_at") : QString()),
+             {kind});
     std::vector<LibraryEntry> out;
-    while (q.next())
-        out.push_back({kind, q.value(0).toString(), from_text(q.value(1).toString()),
-                       q.value(2).toString(), true, parse_time(q.value(3).toString())});
+    while (q.next()) {
+        LibraryEntry e{kind,
+                       q.value(0).toString(),
+                       from_text(q.value(1).toString()),
+                       q.value(2).toString(),
+                       true,
+                       parse_time(q.value(3).toString())};
+        if (v) {
+            e.version = q.value(4).toLongLong();
+            e.changed_by = q.value(5).toString();
+            e.changed_at = q.value(6).toString();
+        }
+        out.push_back(std::move(e));
+    }
     return out;
 }
 

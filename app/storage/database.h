@@ -72,6 +72,11 @@ struct LibraryEntry {
         source; ///< user entries: where the lab's numbers come from (required); shipped: the file
     bool user_defined = false;
     QDateTime updated_at; ///< UTC
+    /// User entries from schema step row_version_schema_version on (0 before it, and for shipped
+    /// ones): the version, who saved it last and when (UTC ISO 8601).
+    qint64 version = 0;
+    QString changed_by{};
+    QString changed_at{};
 };
 
 /// PRAGMA application_id of a PhasePlan file ("PhPl").
@@ -224,9 +229,24 @@ class Database {
     QByteArray shipped_file(const QString& file_name) const;
     /// The lab's own entry: added, or edited from a shipped one (same id). `source` is required:
     /// throws chem::Error("source", …) when empty, chem::Error("id", …) when the document has no
-    /// id.
-    void save_user_entry(const QString& kind, const QJsonObject& document, const QString& source);
-    bool remove_user_entry(const QString& kind, const QString& id);
+    /// id. `expected_version` as SavedDocument's: -1 writes whatever is stored (imports, tests);
+    /// 0: the entry must be new (a lab entry of that id is refused with name_taken_error, field
+    /// "id"); above 0: the version it was loaded at (conflict_error, field "version", when it
+    /// changed or was removed since). Recorded under actor(). Returns the version now stored (0
+    /// before step row_version_schema_version).
+    qint64 save_user_entry(const QString& kind, const QJsonObject& document, const QString& source,
+                           qint64 expected_version = -1);
+    /// Removes the lab's entry; with `expected_version` above 0 only from that version
+    /// (conflict_error otherwise). True when something was removed.
+    bool remove_user_entry(const QString& kind, const QString& id, qint64 expected_version = -1);
+    /// A short text that changes whenever a lab entry is saved, removed or added (the count and the
+    /// sum of their versions): the app rebuilds its library when it moved.
+    QString user_entries_stamp() const;
+    /// The version, who and when of the lab's entry (version 0 when there is none).
+    RowStamp user_entry_stamp(const QString& kind, const QString& id) const;
+    /// True when the lab's entries, instruments, columns, lots and accounts carry versions
+    /// (step row_version_schema_version).
+    bool rows_versioned() const;
     std::vector<LibraryEntry> shipped_entries(const QString& kind) const;
     std::vector<LibraryEntry> user_entries(const QString& kind) const;
     /// Shipped entries overlaid with the lab's own (same id: the user entry wins), ordered by id.

@@ -6,6 +6,7 @@
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/sql_util.h"
+#include "storage/versioning.h"
 
 #include <QDate>
 #include <QJsonArray>
@@ -13,6 +14,7 @@
 #include <QJsonObject>
 #include <QRegularExpression>
 #include <QSqlQuery>
+#include <QSqlRecord>
 
 #include <cmath>
 #include <map>
@@ -33,6 +35,25 @@ std::string quoted(const QString& s) {
 
 const char* lot_columns = "id, reagent, lot, supplier, received_on, opened_on, expires_on, "
                           "quantity, quantity_unit, created_at, created_by, changed_at";
+const char* versioned_lot_columns =
+    "id, reagent, lot, supplier, received_on, opened_on, expires_on, quantity, quantity_unit, "
+    "created_at, created_by, changed_at, version, changed_by";
+
+/// The columns read back: with the version once the schema has it.
+QLatin1String columns_of(QSqlDatabase db) {
+    return QLatin1String(has_row_version(db, QStringLiteral("reagent_lots")) ? versioned_lot_columns
+                                                                             : lot_columns);
+}
+
+RowKey lot_key(const QString& reagent, const QString& lot) {
+    return {QStringLiteral("reagent_lots"),
+            {QStringLiteral("reagent"), QStringLiteral("lot")},
+            {reagent, lot}};
+}
+
+QString lot_words(const QString& reagent, const QString& lot) {
+    return QStringLiteral("Lot \"%1\" of %2").arg(lot, reagent);
+}
 
 ReagentLot lot_from(const QSqlQuery& q) {
     ReagentLot l;
@@ -49,6 +70,10 @@ ReagentLot lot_from(const QSqlQuery& q) {
     l.created_at = q.value(9).toString();
     l.created_by = q.value(10).toString();
     l.changed_at = q.value(11).toString();
+    if (q.record().count() > 12) {
+        l.version = q.value(12).toLongLong();
+        l.changed_by = q.value(13).toString();
+    }
     return l;
 }
 
@@ -181,19 +206,38 @@ ReagentLot LotStore::add(const ReagentLot& in, const QString& who) {
     validate_lot(l);
     sql::WriteTransaction tx(db_);
     AccountStore::check_may_edit(db_, who.trimmed());
-    if (const auto there = find(l.reagent, l.lot))
+    const bool versioned = has_row_version(db_, QStringLiteral("reagent_lots"));
+    if (versioned)
+        refuse_taken(db_, lot_key(l.reagent, l.lot), QStringLiteral("lot of %1").arg(l.reagent),
+                     l.lot, "lot");
+    else if (const auto there = find(l.reagent, l.lot))
         throw chem::Error("lot", "lot " + quoted(l.lot) + " of " + quoted(l.reagent) +
                                      " is on the shelf already (received " +
                                      str(there->received_on) + ")");
     l.created_at = l.changed_at = now();
     l.created_by = who.trimmed();
+    QVariantList values = {l.reagent,
+                           l.lot,
+                           l.supplier,
+                           l.received_on,
+                           l.opened_on,
+                           l.expires_on,
+                           l.quantity ? QVariant(*l.quantity)
+                                      : QVariant(QMetaType(QMetaType::Double)),
+                           l.quantity_unit,
+                           l.created_at,
+                           l.created_by,
+                           l.changed_at};
+    if (versioned)
+        values << l.created_by;
     run(db_,
-        "INSERT INTO reagent_lots (reagent, lot, supplier, received_on, opened_on, expires_on,"
-        " quantity, quantity_unit, created_at, created_by, changed_at)"
-        " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)",
-        {l.reagent, l.lot, l.supplier, l.received_on, l.opened_on, l.expires_on,
-         l.quantity ? QVariant(*l.quantity) : QVariant(QMetaType(QMetaType::Double)),
-         l.quantity_unit, l.created_at, l.created_by, l.changed_at});
+        QStringLiteral(
+            "INSERT INTO reagent_lots (reagent, lot, supplier, received_on, opened_on, expires_on,"
+            " quantity, quantity_unit, created_at, created_by, changed_at%1)"
+            " VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?%2)")
+            .arg(versioned ? QStringLiteral(", changed_by") : QString(),
+                 versioned ? QStringLiteral(", ?") : QString()),
+        values);
     QJsonObject changes;
     const QJsonObject fields = lot_fields(l);
     for (auto it = fields.begin(); it != fields.end(); ++it)
@@ -204,7 +248,8 @@ ReagentLot LotStore::add(const ReagentLot& in, const QString& who) {
 }
 
 ReagentLot LotStore::set_opened(const QString& reagent, const QString& lot,
-                                const QString& opened_on, const QString& who) {
+                                const QString& opened_on, const QString& who,
+                                qint64 expected_version) {
     if (who.trimmed().isEmpty())
         throw chem::Error("who", "is required: the shelf records who changed each lot");
     sql::WriteTransaction tx(db_);
@@ -213,14 +258,26 @@ ReagentLot LotStore::set_opened(const QString& reagent, const QString& lot,
     if (!cur)
         throw chem::Error("lot",
                           "no lot " + quoted(lot) + " of " + quoted(reagent) + " on the shelf");
+    const bool versioned = cur->version > 0;
+    const bool checked = versioned && expected_version > 0;
+    if (checked && cur->version != expected_version)
+        throw conflict_error(db_, lot_words(cur->reagent, cur->lot),
+                             {cur->version, cur->changed_by, cur->changed_at});
     ReagentLot next = *cur;
     next.opened_on = opened_on.trimmed();
     validate_lot(next);
     if (next.opened_on == cur->opened_on)
         return *cur;
     next.changed_at = now();
-    run(db_, "UPDATE reagent_lots SET opened_on = ?, changed_at = ? WHERE id = ?",
-        {next.opened_on, next.changed_at, cur->id});
+    if (versioned) {
+        next.version = update_checked(
+            db_, lot_key(cur->reagent, cur->lot), QStringLiteral("opened_on = ?"), {next.opened_on},
+            cur->version, who.trimmed(), next.changed_at, lot_words(cur->reagent, cur->lot));
+        next.changed_by = who.trimmed();
+    } else {
+        run(db_, "UPDATE reagent_lots SET opened_on = ?, changed_at = ? WHERE id = ?",
+            {next.opened_on, next.changed_at, cur->id});
+    }
     append_audit(db_, next.changed_at, who.trimmed(), "open-lot", "lot", record_id(next), {},
                  audit_change("opened_on",
                               cur->opened_on.isEmpty() ? QJsonValue(QJsonValue::Null)
@@ -236,11 +293,11 @@ std::vector<ReagentLot> LotStore::list(const QString& reagent) const {
         reagent.isEmpty()
             ? run(db_, QStringLiteral("SELECT %1 FROM reagent_lots ORDER BY reagent, expires_on, "
                                       "lot LIMIT 5000")
-                           .arg(QLatin1String(lot_columns)))
+                           .arg(columns_of(db_)))
             : run(db_,
                   QStringLiteral("SELECT %1 FROM reagent_lots WHERE reagent = ?"
                                  " ORDER BY expires_on, lot LIMIT 5000")
-                      .arg(QLatin1String(lot_columns)),
+                      .arg(columns_of(db_)),
                   {reagent});
     std::vector<ReagentLot> out;
     while (q.next())
@@ -251,7 +308,7 @@ std::vector<ReagentLot> LotStore::list(const QString& reagent) const {
 std::optional<ReagentLot> LotStore::find(const QString& reagent, const QString& lot) const {
     QSqlQuery q = run(db_,
                       QStringLiteral("SELECT %1 FROM reagent_lots WHERE reagent = ? AND lot = ?")
-                          .arg(QLatin1String(lot_columns)),
+                          .arg(columns_of(db_)),
                       {reagent, lot});
     if (!q.next())
         return std::nullopt;

@@ -51,6 +51,10 @@ struct ReagentLot {
     QString created_at;             ///< UTC
     QString created_by;             ///< login (or the name typed, before accounts)
     QString changed_at;             ///< UTC
+    /// From schema step row_version_schema_version (storage/versioning.h), 0 before it: the
+    /// version (1 when put on the shelf, +1 when opened) and who changed it last.
+    qint64 version = 0;
+    QString changed_by{};
 
     /// Expired on `day` (YYYY-MM-DD): its expiry date lies before that day.
     bool expired_on(const QString& day) const { return expires_on < day; }
@@ -72,13 +76,17 @@ class LotStore {
     explicit LotStore(QSqlDatabase db);
 
     /// Puts a lot on the shelf, recorded under `who`. Returns it as stored. Throws chem::Error:
-    /// the fields as validate_lot, "lot" when the reagent has that lot already, "who".
+    /// the fields as validate_lot, "lot" when the reagent has that lot already (name_taken_error:
+    /// who put it there and when), "who".
     ReagentLot add(const ReagentLot& lot, const QString& who);
 
     /// Records the day a lot was opened ("" clears it), under `who`. Throws chem::Error("lot", …)
-    /// for an unknown lot, "opened_on" as validate_lot.
+    /// for an unknown lot, "opened_on" as validate_lot. With `expected_version` above 0 (the
+    /// version the screen showed), a lot changed since on another bench is refused with
+    /// conflict_error (field "version"), in the same transaction; -1 does not check (the CLI,
+    /// which reads and writes at once).
     ReagentLot set_opened(const QString& reagent, const QString& lot, const QString& opened_on,
-                          const QString& who);
+                          const QString& who, qint64 expected_version = -1);
 
     /// The lots of `reagent` ("" = every reagent), by reagent, then the earliest expiry first.
     std::vector<ReagentLot> list(const QString& reagent = {}) const;

@@ -202,6 +202,13 @@ const std::vector<Migration>& migrations() {
              for (const QString& sql : lot_schema_statements(db.dialect()))
                  db.exec(sql);
          }},
+        {row_version_schema_version,
+         "versions on what else people edit: the lab's library entries, instruments, columns, "
+         "reagent lots and accounts, watched by the change counter (app/storage/versioning.h)",
+         [](Database& db) {
+             for (const QString& sql : row_version_schema_statements(db.dialect()))
+                 db.exec(sql);
+         }},
         {retired_names_schema_version,
          "names a saved document left (renamed away or removed), with its last version, whom and "
          "when: a document saved again under such a name goes on from there "

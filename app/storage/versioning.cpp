@@ -15,6 +15,48 @@ const char* const versioned_tables[] = {"buffers", "lines", "methods", "sequence
 /// Writes to these move the change counter (signatures change what a batch shows).
 const char* const counted_tables[] = {"buffers",   "lines",   "methods",
                                       "sequences", "batches", "signatures"};
+/// Versioned and counted from step row_version_schema_version.
+const char* const row_versioned_tables[] = {"library_user", "devices", "columns", "reagent_lots",
+                                            "users"};
+
+} // namespace
+
+namespace {
+
+/// version, changed_by and (unless the table has its own) changed_at on `table`.
+QStringList version_column_statements(const QString& table, bool with_changed_at = true) {
+    QStringList s;
+    s << QStringLiteral("ALTER TABLE %1 ADD COLUMN version INTEGER NOT NULL DEFAULT 1"
+                        " CHECK (version >= 1)")
+             .arg(table);
+    s << QStringLiteral("ALTER TABLE %1 ADD COLUMN changed_by TEXT NOT NULL DEFAULT ''").arg(table);
+    if (with_changed_at)
+        s << QStringLiteral("ALTER TABLE %1 ADD COLUMN changed_at TEXT NOT NULL DEFAULT ''")
+                 .arg(table);
+    return s;
+}
+
+/// The triggers that raise change_counter after every write to `table` (change_counter and, on
+/// PostgreSQL, change_counter_bump() exist from step concurrency_schema_version).
+QStringList counter_trigger_statements(sql::Dialect d, const QString& table) {
+    if (d == sql::Dialect::postgresql)
+        return {QStringLiteral("CREATE TRIGGER %1_counted AFTER INSERT OR UPDATE OR DELETE ON %1"
+                               " FOR EACH STATEMENT EXECUTE FUNCTION change_counter_bump()")
+                    .arg(table)};
+    QStringList s;
+    for (const char* event : {"INSERT", "UPDATE", "DELETE"})
+        s << QStringLiteral("CREATE TRIGGER %1_counted_%2 AFTER %3 ON %1 BEGIN UPDATE"
+                            " change_counter SET counter = counter + 1 WHERE id = 1; END")
+                 .arg(table, QString::fromLatin1(event).toLower(), QLatin1String(event));
+    return s;
+}
+
+QString key_condition(const RowKey& key) {
+    QStringList parts;
+    for (const QString& c : key.columns)
+        parts << c + QStringLiteral(" = ?");
+    return parts.join(QStringLiteral(" AND "));
+}
 
 } // namespace
 
@@ -24,18 +66,9 @@ QStringList versioning_schema_statements(sql::Dialect d, bool documents) {
         return !documents && QLatin1String(t) != QLatin1String("batches") &&
                QLatin1String(t) != QLatin1String("signatures");
     };
-    for (const char* t : versioned_tables) {
-        if (skip(t))
-            continue;
-        const QString table = QLatin1String(t);
-        s << QStringLiteral("ALTER TABLE %1 ADD COLUMN version INTEGER NOT NULL DEFAULT 1"
-                            " CHECK (version >= 1)")
-                 .arg(table);
-        s << QStringLiteral("ALTER TABLE %1 ADD COLUMN changed_by TEXT NOT NULL DEFAULT ''")
-                 .arg(table);
-        s << QStringLiteral("ALTER TABLE %1 ADD COLUMN changed_at TEXT NOT NULL DEFAULT ''")
-                 .arg(table);
-    }
+    for (const char* t : versioned_tables)
+        if (!skip(t))
+            s << version_column_statements(QLatin1String(t));
     // Rows saved before this step: version 1 (the default above), changed when last updated; a
     // batch by whoever wrote its last history row.
     for (const char* t : {"buffers", "lines", "methods", "sequences"})
@@ -52,21 +85,32 @@ QStringList versioning_schema_statements(sql::Dialect d, bool documents) {
         s << QStringLiteral("CREATE OR REPLACE FUNCTION change_counter_bump() RETURNS trigger"
                             " LANGUAGE plpgsql AS $fn$ BEGIN UPDATE change_counter SET counter ="
                             " counter + 1 WHERE id = 1; RETURN NULL; END $fn$");
-    for (const char* t : counted_tables) {
-        if (skip(t))
-            continue;
-        const QString table = QLatin1String(t);
-        if (d == sql::Dialect::postgresql) {
-            s << QStringLiteral("CREATE TRIGGER %1_counted AFTER INSERT OR UPDATE OR DELETE ON %1"
-                                " FOR EACH STATEMENT EXECUTE FUNCTION change_counter_bump()")
-                     .arg(table);
-            continue;
-        }
-        for (const char* event : {"INSERT", "UPDATE", "DELETE"})
-            s << QStringLiteral("CREATE TRIGGER %1_counted_%2 AFTER %3 ON %1 BEGIN UPDATE"
-                                " change_counter SET counter = counter + 1 WHERE id = 1; END")
-                     .arg(table, QString::fromLatin1(event).toLower(), QLatin1String(event));
+    for (const char* t : counted_tables)
+        if (!skip(t))
+            s << counter_trigger_statements(d, QLatin1String(t));
+    return s;
+}
+
+QStringList row_version_schema_statements(sql::Dialect d) {
+    QStringList s;
+    for (const char* t : {"library_user", "devices", "columns"}) {
+        s << version_column_statements(QLatin1String(t));
+        s << QStringLiteral("UPDATE %1 SET changed_at = updated_at").arg(QLatin1String(t));
     }
+    // reagent_lots and users keep their own changed_at; who changed them last is in the trail
+    // (a lot: add-lot or open-lot; an account: its last change, failed sign-ins left out).
+    s << version_column_statements(QStringLiteral("reagent_lots"), false);
+    s << QStringLiteral(
+        "UPDATE reagent_lots SET changed_by = COALESCE((SELECT a.login FROM audit_log a WHERE"
+        " a.record_type = 'lot' AND a.record_id = reagent_lots.reagent || '/' || reagent_lots.lot"
+        " ORDER BY a.seq DESC LIMIT 1), created_by)");
+    s << version_column_statements(QStringLiteral("users"), false);
+    s << QStringLiteral(
+        "UPDATE users SET changed_by = COALESCE((SELECT a.login FROM audit_log a WHERE"
+        " a.record_type = 'user' AND a.record_id = users.login AND a.action <> 'sign-in-failed'"
+        " ORDER BY a.seq DESC LIMIT 1), '')");
+    for (const char* t : row_versioned_tables)
+        s << counter_trigger_statements(d, QLatin1String(t));
     return s;
 }
 
@@ -82,6 +126,56 @@ QStringList retired_names_schema_statements() {
 
 bool has_versioning(QSqlDatabase db) {
     return sql::column_exists(db, QStringLiteral("batches"), QStringLiteral("version"));
+}
+
+bool has_row_version(QSqlDatabase db, const QString& table) {
+    return sql::column_exists(db, table, QStringLiteral("version"));
+}
+
+RowStamp row_stamp(QSqlDatabase db, const RowKey& key) {
+    QSqlQuery q = sql::run(db,
+                           QStringLiteral("SELECT version, changed_by, changed_at FROM %1 WHERE %2")
+                               .arg(key.table, key_condition(key)),
+                           key.values);
+    if (!q.next())
+        return {};
+    return {q.value(0).toLongLong(), q.value(1).toString(), q.value(2).toString()};
+}
+
+qint64 update_checked(QSqlDatabase db, const RowKey& key, const QString& assignments,
+                      const QVariantList& values, qint64 expected_version, const QString& who,
+                      const QString& now, const QString& record) {
+    QVariantList bindings = values;
+    bindings << (who.isNull() ? QStringLiteral("") : who) << now;
+    bindings << key.values;
+    bindings << expected_version;
+    QSqlQuery q = sql::run(
+        db,
+        QStringLiteral("UPDATE %1 SET %2%3version = version + 1, changed_by = ?, changed_at = ?"
+                       " WHERE %4 AND version = ?")
+            .arg(key.table, assignments, assignments.isEmpty() ? QString() : QStringLiteral(", "),
+                 key_condition(key)),
+        bindings);
+    if (q.numRowsAffected() != 1)
+        throw conflict_error(db, record, row_stamp(db, key));
+    return expected_version + 1;
+}
+
+void delete_checked(QSqlDatabase db, const RowKey& key, qint64 expected_version,
+                    const QString& record) {
+    QSqlQuery q = sql::run(db,
+                           QStringLiteral("DELETE FROM %1 WHERE %2 AND version = ?")
+                               .arg(key.table, key_condition(key)),
+                           QVariantList(key.values) << expected_version);
+    if (q.numRowsAffected() != 1)
+        throw conflict_error(db, record, row_stamp(db, key));
+}
+
+void refuse_taken(QSqlDatabase db, const RowKey& key, const QString& what, const QString& name,
+                  const std::string& field) {
+    const RowStamp theirs = row_stamp(db, key);
+    if (theirs.version > 0)
+        throw name_taken_error(db, what, name, theirs, field);
 }
 
 ConflictError::ConflictError(const QString& message, RowStamp theirs, QString person_words,
@@ -141,7 +235,7 @@ ConflictError retired_error(QSqlDatabase db, const QString& record, const Retire
 }
 
 ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QString& name,
-                               const RowStamp& theirs) {
+                               const RowStamp& theirs, const std::string& field) {
     const QString person = person_words(db, theirs.changed_by);
     const QString time = utc_time_words(theirs.changed_at);
     const QString article =
@@ -149,7 +243,7 @@ ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QStri
     return ConflictError(QStringLiteral("%1 %2 named \"%3\" was saved by %4 at %5; choose another "
                                         "name, or open it")
                              .arg(article, what, name, person, time),
-                         theirs, person, time, "name");
+                         theirs, person, time, field);
 }
 
 qint64 change_counter(QSqlDatabase db) {

@@ -3,7 +3,10 @@
 // and the database keeps one change counter that other benches poll.
 //
 // The rows: saved buffers, lines, methods and sequences (app/storage/database.h) and batches
-// (app/storage/batch_store.h). Their columns, added by schema step concurrency_schema_version:
+// (app/storage/batch_store.h), from schema step concurrency_schema_version; the lab's own library
+// entries, instruments, columns, reagent lots and accounts, from step row_version_schema_version
+// (their stores check through row_stamp / update_checked / delete_checked / refuse_taken below).
+// The columns:
 //   version     INTEGER, 1 for a new row (and for every row that existed before the step), +1 on
 //               every write of the row (save, rename, edit, amendment, print);
 //   changed_by  the login (or the name typed, on a database without accounts) of that write;
@@ -24,6 +27,7 @@
 #include <QSqlDatabase>
 #include <QString>
 #include <QStringList>
+#include <QVariantList>
 
 #include <string>
 
@@ -33,11 +37,16 @@ namespace phaseplan::storage {
 /// with another branch's step, renumber this one constant.
 inline constexpr int concurrency_schema_version = 11;
 
+/// The schema step that gives the rest of what people edit the same columns: the lab's own
+/// library entries (library_user), instruments (devices), columns (columns), reagent lots
+/// (reagent_lots) and accounts (users). Written only here: renumber this one constant at a merge.
+inline constexpr int row_version_schema_version = 13;
+
 /// The schema step that remembers names a saved document left (renamed away or removed), so that
 /// a document saved again under such a name goes on from the old versions instead of starting at
 /// 1 again: a bench still holding an old version of the old record can then never match the new
 /// one. Written only here: at a merge with another branch's step, renumber this one constant.
-inline constexpr int retired_names_schema_version = 13;
+inline constexpr int retired_names_schema_version = 14;
 
 /// The statements of that step, in the back end's dialect: the three columns on each versioned
 /// table (existing rows at version 1, changed_at from updated_at, a batch's changed_by from its
@@ -46,6 +55,12 @@ inline constexpr int retired_names_schema_version = 13;
 /// tables, BatchStore::ensure_schema).
 QStringList versioning_schema_statements(sql::Dialect d, bool documents = true);
 
+/// Step row_version_schema_version in the back end's dialect: version, changed_by (and
+/// changed_at where the table has none) on library_user, devices, columns, reagent_lots and users
+/// (existing rows at version 1; changed_at from updated_at; a lot's or an account's changed_by
+/// from its last entry in the audit trail), and the change-counter triggers on those tables.
+QStringList row_version_schema_statements(sql::Dialect d);
+
 /// The statements of step retired_names_schema_version: the table retired_names, one row per
 /// (table, name) a saved document left, with the last version it had under that name, whom and
 /// when, and the name it went to (NULL when removed).
@@ -53,6 +68,8 @@ QStringList retired_names_schema_statements();
 
 /// True when the connection's schema has the step (batches.version exists).
 bool has_versioning(QSqlDatabase db);
+/// True when `table` has a version column (its step has run).
+bool has_row_version(QSqlDatabase db, const QString& table);
 
 /// Who changed a row last, when, and its version.
 struct RowStamp {
@@ -105,8 +122,39 @@ ConflictError retired_error(QSqlDatabase db, const QString& record, const Retire
 /// sentence names who saved that name and when: "A plan named \"Tonight\" was saved by Rosa
 /// Okafor (demo-prep) at 2026-12-02 19:04 UTC; choose another name, or open it". `what` is the
 /// kind in words ("plan", "buffer", "line", "method").
+/// `field` is the form's field the name is typed in ("id" for an instrument, "lot" for a lot).
 ConflictError name_taken_error(QSqlDatabase db, const QString& what, const QString& name,
-                               const RowStamp& theirs);
+                               const RowStamp& theirs, const std::string& field = "name");
+
+/// One row of a versioned table: the table, its key columns and their values. Table and column
+/// names are the program's own constants, never input; the values are always bound.
+struct RowKey {
+    QString table;       ///< "devices"
+    QStringList columns; ///< {"id"}, {"kind", "id"}
+    QVariantList values; ///< in the order of columns
+};
+
+/// The version, who and when of the row (version 0 when it does not exist).
+RowStamp row_stamp(QSqlDatabase db, const RowKey& key);
+
+/// The checked write, inside the caller's write transaction: `UPDATE <table> SET <assignments>,
+/// version = version + 1, changed_by = ?, changed_at = ? WHERE <key> AND version = ?` with
+/// `values` bound to the assignments' placeholders. When no row changed, throws
+/// conflict_error(record) with the row as it is now; nothing is written then. Returns the version
+/// now stored (expected_version + 1).
+qint64 update_checked(QSqlDatabase db, const RowKey& key, const QString& assignments,
+                      const QVariantList& values, qint64 expected_version, const QString& who,
+                      const QString& now, const QString& record);
+
+/// `DELETE FROM <table> WHERE <key> AND version = ?`, inside the caller's write transaction.
+/// Throws conflict_error(record) when the row changed since `expected_version` or is gone.
+void delete_checked(QSqlDatabase db, const RowKey& key, qint64 expected_version,
+                    const QString& record);
+
+/// A new record under a key that is taken: throws name_taken_error(what, name) naming who saved
+/// the row there and when. Does nothing when the key is free.
+void refuse_taken(QSqlDatabase db, const RowKey& key, const QString& what, const QString& name,
+                  const std::string& field = "name");
 
 /// The database's change counter (0 before the step): moves on every write of a versioned row or
 /// a signature, on any bench.

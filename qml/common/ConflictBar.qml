@@ -12,6 +12,8 @@ Rectangle {
     property string message
     /// "Changed on another bench by <name> at <time> …".
     property string notice
+    /// False where a copy makes no sense (an instrument, a lot, an account): Reload alone.
+    property bool copyOffered: true
 
     /// Discard the edits made here and show the record as stored.
     signal reload()
@@ -60,6 +62,7 @@ Rectangle {
             }
             TouchButton {
                 objectName: "conflictSaveCopy"
+                visible: root.copyOffered
                 text: qsTr("Save as a copy")
                 Accessible.name: qsTr("Save my changes as a copy")
                 onClicked: root.saveCopy()

@@ -32,7 +32,8 @@ Card {
     /// Fields typed in since the form opened; their messages show at once, the others after Save.
     property var touched: ({})
     property bool tried: false
-    readonly property var problems: form.visible ? library.check(root.draft) : ({})
+    /// The checks of the draft, and what the last save was refused for (a taken name).
+    readonly property var problems: form.visible ? Object.assign({}, library.errors, library.check(root.draft)) : ({})
     /// The message for `field`, led by the label the form shows.
     function errorFor(field, label) {
         var m = root.problems[field]
@@ -51,7 +52,21 @@ Card {
         form.visible = true
         nameEntry.field.forceActiveFocus()
     }
+    /// After a refused save: the column as stored now (the form closes when it was removed).
+    function reloadDraft() {
+        library.clearErrors()
+        library.reload()
+        for (var i = 0; i < library.columns.length; ++i)
+            if (library.columns[i].id === root.draft.id) {
+                root.edit(library.columns[i])
+                return
+            }
+        form.visible = false
+        root.status = qsTr("%1 was removed on another bench.").arg(root.draft.name)
+    }
     function set(key, value) {
+        if (key === "name" && library.errors["name"] !== undefined)
+            library.clearErrors() // the taken name is being changed
         var d = Object.assign({}, root.draft)
         d[key] = value
         root.draft = d
@@ -94,7 +109,7 @@ Card {
                 text: "✕"
                 focusPolicy: Qt.NoFocus
                 Accessible.name: qsTr("Remove column %1").arg(modelData.name)
-                onClicked: removeDialog.ask(modelData.id, modelData.name)
+                onClicked: removeDialog.ask(modelData.id, modelData.name, modelData.version)
             }
         }
     }
@@ -102,10 +117,14 @@ Card {
         id: removeDialog
         property var columnId: 0
         property string columnName
-        function ask(id, name) { columnId = id; columnName = name; open() }
+        property int columnVersion: -1
+        function ask(id, name, version) { columnId = id; columnName = name; columnVersion = version || -1; open() }
         title: qsTr("Remove the column %1?").arg(columnName)
         text: qsTr("Methods that run on it keep their own copy of its sizes and limits.")
-        onConfirmed: library.remove(columnId)
+        onConfirmed: {
+            if (!library.remove(columnId, columnVersion))
+                root.status = library.errors["version"] || library.generalError
+        }
     }
     TouchButton {
         objectName: "addColumn"
@@ -294,6 +313,14 @@ Card {
                 error: root.errorFor("reference.temperature_c", qsTr("Temperature of the measured pressure"))
                 onEdited: function(v) { root.set("reference_temperature_c", v) }
             }
+        }
+        // Saved on another bench since it was listed here: who and when, and Reload.
+        ConflictBar {
+            objectName: "columnConflict"
+            Layout.fillWidth: true
+            copyOffered: false
+            message: library.errors["version"] || ""
+            onReload: root.reloadDraft()
         }
         RowLayout {
             spacing: Theme.gap

@@ -39,6 +39,19 @@ Card {
         dueEntry.field.text = root.draft.calibration_due || ""
         form.visible = true
     }
+    /// After a refused save: the instrument as stored now (the form closes when it was removed).
+    function reloadDraft() {
+        capture.clearError()
+        capture.reloadDevices()
+        var all = capture.balances.concat(capture.meters)
+        for (var i = 0; i < all.length; ++i)
+            if (all[i].id === root.draft.id) {
+                root.edit(all[i])
+                return
+            }
+        form.visible = false
+        root.status = qsTr("%1 was removed on another bench.").arg(root.draft.id)
+    }
     function set(key, value) {
         var d = Object.assign({}, root.draft)
         d[key] = value
@@ -71,7 +84,7 @@ Card {
                 text: "✕"
                 focusPolicy: Qt.NoFocus
                 Accessible.name: qsTr("Remove instrument %1").arg(modelData.id)
-                onClicked: removeDialog.ask(modelData.id)
+                onClicked: { removeDialog.deviceVersion = modelData.version || -1; removeDialog.ask(modelData.id) }
             }
         }
     }
@@ -81,7 +94,11 @@ Card {
         function ask(id) { deviceId = id; open() }
         title: qsTr("Remove the instrument %1?").arg(deviceId)
         text: qsTr("Values already taken from it stay in their batch records.")
-        onConfirmed: capture.removeDevice(deviceId)
+        property int deviceVersion: -1
+        onConfirmed: {
+            if (!capture.removeDevice(deviceId, deviceVersion))
+                root.status = capture.errorMessage
+        }
     }
     TouchButton {
         objectName: "addInstrument"
@@ -108,6 +125,8 @@ Card {
             Layout.fillWidth: true
             label: qsTr("Instrument id (as on its label)")
             placeholder: "BAL-01"
+            // An instrument keeps its id (the key other benches and the batches know it by).
+            enabled: !(root.draft.version > 0)
             error: root.errorFor("id", qsTr("Instrument id"))
             onEdited: function(text) { root.set("id", text) }
         }
@@ -167,6 +186,14 @@ Card {
             placeholder: "2027-06-30"
             error: root.errorFor("calibration_due", qsTr("Calibration due"))
             onEdited: function(text) { root.set("calibration_due", text) }
+        }
+        // Saved on another bench since it was listed here: who and when, and Reload.
+        ConflictBar {
+            objectName: "instrumentConflict"
+            Layout.fillWidth: true
+            copyOffered: false
+            message: capture.errorField === "version" ? capture.errorMessage : ""
+            onReload: root.reloadDraft()
         }
         RowLayout {
             spacing: Theme.gap

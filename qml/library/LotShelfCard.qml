@@ -65,11 +65,19 @@ Card {
     Label {
         objectName: "lotShelfError"
         Layout.fillWidth: true
-        visible: root.lastAction === "open" && shelf.errorMessage.length > 0
+        visible: root.lastAction === "open" && shelf.errorMessage.length > 0 && shelf.errorField !== "version"
         text: shelf.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap
         font.pixelSize: Theme.smallFont
+    }
+    // The lot changed on another bench since it was listed here: who and when, and Reload.
+    ConflictBar {
+        objectName: "lotConflict"
+        Layout.fillWidth: true
+        copyOffered: false
+        message: shelf.errorField === "version" ? shelf.errorMessage : ""
+        onReload: { shelf.reloadShelf(); root.status = "" }
     }
     Label {
         Layout.fillWidth: true

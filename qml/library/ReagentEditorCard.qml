@@ -196,11 +196,20 @@ Card {
         Layout.fillWidth: true
         visible: root.editor.showErrors && !root.editor.valid
                  && !FieldPath.belongsToAny(root.editor.errorField, ["id", "name", "formula", "assay_percent", "density_g_per_ml",
-                                                                     "ghs.hazards", "ghs.pictograms", "source", "spectators", "systems"])
+                                                                     "ghs.hazards", "ghs.pictograms", "source", "spectators", "systems",
+                                                                     "version"])
         text: (root.editor.errorField.length > 0 ? root.editor.errorField + ": " : "") + root.editor.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap
         font.pixelSize: Theme.fontSize
+    }
+    // Saved or removed on another bench since it was opened here: who and when, and Reload.
+    ConflictBar {
+        objectName: "reagentConflict"
+        Layout.fillWidth: true
+        copyOffered: false
+        message: root.editor.errorField === "version" ? root.editor.errorMessage : ""
+        onReload: { root.editor.reload(); root.status = "" }
     }
     Flow {
         Layout.fillWidth: true

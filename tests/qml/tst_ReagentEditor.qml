@@ -36,6 +36,44 @@ TestCase {
         }
     }
 
+    // Two benches on one file: Rosa's editor without a card, Mats's with the card the screen shows.
+    Component {
+        id: benchesComponent
+        Item {
+            id: benches
+            property alias rosa: rosaEditor
+            property alias mats: matsEditor
+            property alias matsWorkspace: matsWs
+            readonly property string path: testDir + "/two-benches-" + Date.now() + ".sqlite"
+            width: tc.width
+            height: tc.height
+            Workspace {
+                id: rosaWs
+                databasePath: benches.path
+                dataDir: dataDir
+                actor: "demo-prep"
+            }
+            Workspace {
+                id: matsWs
+                databasePath: benches.path
+                dataDir: dataDir
+                actor: "demo-review"
+            }
+            ReagentEditor {
+                id: rosaEditor
+                workspace: rosaWs
+            }
+            ReagentEditor {
+                id: matsEditor
+                workspace: matsWs
+            }
+            ReagentEditorCard {
+                width: parent.width
+                editor: matsEditor
+            }
+        }
+    }
+
     function findAll(item, name, out) {
         if (item.objectName === name)
             out.push(item)
@@ -102,5 +140,32 @@ TestCase {
         verify(findAll(c, "saveReagent", [])[0].enabled)
         compare(c.editor.save(), "")
         verify(c.editor.isLabEntry)
+    }
+
+    // Issue 13, part 2: a save from a version another bench changed is refused beside the form,
+    // naming who and when (the demo's invented Rosa Okafor, demo-prep), and Reload shows theirs.
+    function test_entry_changed_on_another_bench_offers_reload() {
+        var c = createTemporaryObject(benchesComponent, tc)
+        verify(c.rosa.edit("phosphoric-acid"))
+        c.rosa.source = "supplier certificate"
+        compare(c.rosa.save(), "")
+        c.matsWorkspace.pollChanges() // what the 3 s timer does
+        verify(c.mats.edit("phosphoric-acid"))
+        compare(c.mats.loadedVersion, 1)
+        c.rosa.name = "Phosphoric acid 85 % (Rosa's bottle)"
+        compare(c.rosa.save(), "")
+        c.mats.name = "Phosphoric acid 85 % (bench 2)"
+        var bar = findAll(c, "reagentConflict", [])[0]
+        verify(!bar.visible)
+        findAll(c, "saveReagent", [])[0].clicked()
+        verify(bar.visible)
+        var said = findAll(bar, "conflictMessage", [])[0].text
+        verify(said.indexOf("Library entry \"phosphoric-acid\": changed by Rosa Okafor (demo-prep) at ") === 0, said)
+        verify(!findAll(bar, "conflictSaveCopy", [])[0].visible, "Reload only, no copy of a library entry")
+        compare(c.mats.name, "Phosphoric acid 85 % (bench 2)") // the edit stays until Reload
+        findAll(bar, "conflictReload", [])[0].clicked()
+        compare(c.mats.name, "Phosphoric acid 85 % (Rosa's bottle)")
+        compare(c.mats.loadedVersion, 2)
+        verify(!bar.visible)
     }
 }
