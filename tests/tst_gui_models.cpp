@@ -327,8 +327,8 @@ class TestGuiModels : public QObject {
         QStringList ids;
         for (const QVariant& v : Plan::detectorTypes())
             ids << v.toMap().value("id").toString();
-        QCOMPARE(ids, QStringList({"uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad",
-                                   "fluorescence", "ri"}));
+        QCOMPARE(ids, QStringList({"uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad", "fluorescence",
+                                   "ri"}));
         for (const QString& id : ids) {
             plan.setDetectorType(id);
             plan.setDetectorWavelengthNm(254);

@@ -22,7 +22,12 @@ ColumnLayout {
         color: Theme.dimText
     }
     Flow {
+        id: flow
         Layout.fillWidth: true
+        // A wrapping row reports the width of its current rows; letting the card chase that
+        // width makes the layout loop. Ask for a fixed width and take the height the rows need.
+        Layout.preferredWidth: 8 * Theme.tap
+        Layout.preferredHeight: flow.childrenRect.height
         spacing: Math.round(Theme.gap / 2)
         Repeater {
             model: root.options
