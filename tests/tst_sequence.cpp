@@ -124,6 +124,7 @@ class TestSequence : public QObject {
     void wasteOverflowCheck();
     void plansSumPerLineRecipe();
     void clockTimesKeepAnOffset();
+    void cliTextIsQtsTextOfTheResult();
     void standbyUntilATimeOfDayMovesWithTheStart();
     void badInputIsRejected_data();
     void badInputIsRejected();
@@ -589,6 +590,35 @@ void TestSequence::wasteOverflowCheck() {
     // 85 mL: 94 % full → caution.
     QCOMPARE(codes(run_sequence(set_path(base_doc(), "waste_ml", 85)), "caution"),
              QStringList{"waste-overflow"});
+}
+
+void TestSequence::cliTextIsQtsTextOfTheResult() {
+    // The CLI writes the rows itself (command_sequence_text); the reference is Qt's own
+    // QJsonDocument::toJson(Indented) of command_sequence, byte for byte: one plan, two plans,
+    // an offset start, and labels that need escaping (quote, backslash, control characters,
+    // non-ASCII text), with one, two and four lines.
+    QJsonObject base =
+        set_path(base_doc(), "sequence",
+                 QJsonArray{QJsonObject{{"method", "m"},
+                                        {"injections", 2},
+                                        {"label", "plain \"quoted\" back\\slash"}},
+                            QJsonObject{{"method", "m"},
+                                        {"injections", 1},
+                                        {"label", "tab\there\nnew \u007f\u0001"}},
+                            QJsonObject{{"method", "m"},
+                                        {"injections", 4},
+                                        {"label", QString::fromUtf8("pH 3,0 – Ü µ 🙂")}},
+                            QJsonObject{{"method", "m"}, {"injections", 1}}});
+    QJsonObject offset = set_path(base, "start", "2026-12-31T22:00:00+05:30");
+    QJsonObject one_line = set_path(set_path(base, "lines.B", QJsonValue()), "methods.m.gradient",
+                                    QJsonArray{QJsonObject{{"t_min", 0}, {"A", 100}}});
+    one_line = set_path(one_line, "prime_ml.B", QJsonValue());
+    const QJsonObject two = QJsonObject{{"plans", QJsonArray{base, offset}}};
+    for (const QJsonObject& doc : {base, offset, one_line, two}) {
+        const QByteArray qt = QJsonDocument(run_sequence(doc)).toJson(QJsonDocument::Indented);
+        const std::string text = phaseplan::command_sequence_text(shipped_data(), doc, {});
+        QCOMPARE(QByteArray::fromStdString(text), qt);
+    }
 }
 
 void TestSequence::plansSumPerLineRecipe() {

@@ -320,15 +320,38 @@ void reject_duplicate_keys(const QByteArray& b) {
 
 } // namespace
 
+void refuse_output_number(double value, const std::string& at) {
+    throw chem::Error(at.empty() ? "(result)" : at,
+                      "the computed value " + chem::format_number(value) +
+                          " is not a finite number in range; check the inputs it comes from");
+}
+
 namespace {
+
+/// The quick pass: no paths are spelled out unless a number is refused.
+bool all_in_range(const QJsonValue& v) {
+    if (v.isDouble())
+        return output_number_in_range(v.toDouble());
+    if (v.isArray()) {
+        const QJsonArray a = v.toArray();
+        for (const QJsonValue& e : a)
+            if (!all_in_range(e))
+                return false;
+    } else if (v.isObject()) {
+        const QJsonObject o = v.toObject();
+        for (auto it = o.constBegin(); it != o.constEnd(); ++it)
+            if (!all_in_range(it.value()))
+                return false;
+    }
+    return true;
+}
+
+/// The path of the first refused number, in the order of the keys.
 void check_value(const QJsonValue& v, const std::string& at) {
     if (v.isDouble()) {
         const double d = v.toDouble();
-        if (!std::isfinite(d) || std::abs(d) > chem::guard::max_amount * 1e3)
-            throw chem::Error(
-                at.empty() ? "(result)" : at,
-                "the computed value " + chem::format_number(d) +
-                    " is not a finite number in range; check the inputs it comes from");
+        if (!output_number_in_range(d))
+            refuse_output_number(d, at);
     } else if (v.isArray()) {
         const QJsonArray a = v.toArray();
         for (int i = 0; i < a.size(); ++i)
@@ -341,8 +364,13 @@ void check_value(const QJsonValue& v, const std::string& at) {
 }
 } // namespace
 
+void check_output_value(const QJsonValue& v, const std::string& at) {
+    if (!all_in_range(v))
+        check_value(v, at);
+}
+
 void check_output(const QJsonObject& out) {
-    check_value(out, "");
+    check_output_value(out, "");
 }
 
 QJsonObject parse_document(const QByteArray& bytes) {

@@ -1,0 +1,60 @@
+#pragma once
+// Streaming JSON text, byte for byte what QJsonDocument::toJson(QJsonDocument::Indented) writes
+// for the same values (4-space indent, "key": value, Qt's number forms), for results too large to
+// build as a QJsonObject first (a sequence's rows). The caller gives an object's keys in the
+// order QJsonObject keeps them (sorted by UTF-16 code unit; for ASCII keys, byte order).
+//
+// Numbers are held to json::check_output's guard as they are written: a number that is not
+// finite or lies beyond ±chem::guard::max_amount · 10^3 throws chem::Error naming its path, so
+// the text never holds "inf", "nan" or an overflow. Embedded QJsonValues are checked the same way.
+#include <QJsonValue>
+#include <QStringView>
+
+#include <functional>
+#include <string>
+#include <string_view>
+#include <vector>
+
+namespace phaseplan::json {
+
+class IndentedWriter {
+  public:
+    /// The text so far; complete (with Qt's final newline) after the outermost end_object().
+    const std::string& text() const { return out_; }
+    std::string take() { return std::move(out_); }
+    void reserve(std::size_t bytes) { out_.reserve(bytes); }
+
+    void begin_object();
+    void end_object();
+    void begin_array();
+    void end_array();
+    /// The next member's key (inside an object); its value follows.
+    void key(std::string_view ascii_key);
+
+    /// A number as QJsonValue(double) writes it (integral values up to 2^53 as integers). `at`
+    /// gives the number's path ("rows[3].volume_ml.A") and is called only when it is refused.
+    void number(double value, const std::function<std::string()>& at);
+    void integer(long long value);
+    /// A string given as UTF-8 (a document's text after toStdString).
+    void string(std::string_view utf8);
+    void boolean(bool value);
+    void null();
+    /// Any value, written by Qt itself and indented to this place; checked as check_output
+    /// checks it, with `at` as the path of the value.
+    void value(const QJsonValue& v, const std::string& at);
+
+  private:
+    void element(); ///< the separator and indent before an array element or a key
+    void open(char bracket);
+    void close(char bracket);
+
+    struct Level {
+        bool object = false;
+        bool empty = true;
+    };
+    std::string out_;
+    std::vector<Level> levels_;
+    bool after_key_ = false;
+};
+
+} // namespace phaseplan::json
