@@ -4,6 +4,7 @@
 #include "core/date_time.h"
 
 #include <QTest>
+#include <QTimeZone>
 
 #include <cmath>
 
@@ -54,6 +55,13 @@ class TestDateTime : public QObject {
             const ContractClockText fast(t, offset);
             for (qint64 step : steps)
                 QCOMPARE(fast.text(step), contract_iso(t.addSecs(step), offset));
+            // Held in the UTC zone, as the sequence reader holds a start without an offset.
+            if (!offset) {
+                const QDateTime z(t.date(), t.time(), QTimeZone::utc());
+                const ContractClockText in_zone(z, false);
+                for (qint64 step : steps)
+                    QCOMPARE(in_zone.text(step), contract_iso(z.addSecs(step), false));
+            }
         }
         // A start held as local time takes the slow path, with the same result.
         const QDateTime local(QDate(2026, 3, 28), QTime(23, 0), Qt::LocalTime);

@@ -2,6 +2,7 @@
 
 #include <QObject>
 #include <QRegularExpression>
+#include <QTimeZone>
 
 #include <algorithm>
 #include <cmath>
@@ -67,8 +68,10 @@ ContractClockText::ContractClockText(const QDateTime& start, bool has_offset)
     if (!start.isValid())
         return;
     const Qt::TimeSpec spec = start.timeSpec();
-    if (spec != Qt::UTC && spec != Qt::OffsetFromUTC)
-        return; // local time or a zone: daylight saving, so contract_iso itself
+    const bool fixed_offset = spec == Qt::UTC || spec == Qt::OffsetFromUTC ||
+                              (spec == Qt::TimeZone && start.timeZone() == QTimeZone::utc());
+    if (!fixed_offset)
+        return; // local time or a zone with daylight saving: contract_iso itself
     const int year = start.date().year();
     if (year < 1000 || year > 9999)
         return;

@@ -35,7 +35,8 @@ QString contract_iso(const QDateTime& t, bool has_offset);
 /// contract_iso(start.addSecs(seconds), has_offset) for many `seconds` from one start, without
 /// QDateTime::toString per time (a sequence's rows have thousands): the date is computed from
 /// the day count (proleptic Gregorian, as QDate), the offset suffix once. Starts held as
-/// local time or in a named zone, and years outside 1000–9999, take contract_iso itself.
+/// local time or in a named zone other than UTC, and years outside 1000–9999, take contract_iso
+/// itself.
 class ContractClockText {
   public:
     ContractClockText(const QDateTime& start, bool has_offset);
