@@ -2,6 +2,7 @@
 // comments), run-dry injections and times, the conservation invariant (the lines' volumes add up
 // to flow × pumped time), each check of the `sequence` command triggered and not triggered,
 // plans summed per line recipe, and malformed documents rejected with the field named.
+#include "chem/error.h"
 #include "chem/sequence.h"
 #include "core/line_commands.h"
 #include "test_support.h"
@@ -125,6 +126,7 @@ class TestSequence : public QObject {
     void plansSumPerLineRecipe();
     void clockTimesKeepAnOffset();
     void cliTextIsQtsTextOfTheResult();
+    void rowsAreReadAlikeInEveryForm();
     void standbyUntilATimeOfDayMovesWithTheStart();
     void badInputIsRejected_data();
     void badInputIsRejected();
@@ -619,6 +621,50 @@ void TestSequence::cliTextIsQtsTextOfTheResult() {
         const std::string text = phaseplan::command_sequence_text(shipped_data(), doc, {});
         QCOMPARE(QByteArray::fromStdString(text), qt);
     }
+}
+
+void TestSequence::rowsAreReadAlikeInEveryForm() {
+    // Plain rows take a quick reader; every other form must give what the general readers give
+    // (json_util.h's contract: trimmed text, null as absent, near-miss keys refused, extra keys
+    // allowed, whole numbers only). Expected texts are the general readers' messages.
+    const auto row_doc = [](const QJsonObject& row) {
+        return set_path(base_doc(), "sequence", QJsonArray{row});
+    };
+    const auto error_of = [&](const QJsonObject& row) -> std::pair<std::string, std::string> {
+        try {
+            run_sequence(row_doc(row));
+        } catch (const chem::Error& e) {
+            return {e.field(), e.message()};
+        }
+        return {};
+    };
+    using E = std::pair<std::string, std::string>;
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 1}, {"label", ""}}),
+             E("sequence[0].label", "must not be empty"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 1}, {"injection", 2}}),
+             E("sequence[0].injection", "is not a field here; did you mean \"injections\"?"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 2.5}}),
+             E("sequence[0].injections", "2.5 is not a whole number"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 0}}),
+             E("sequence[0].injections", "0 is outside 1 to 1000000"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", "1"}}),
+             E("sequence[0].injections", "must be a number, got \"1\""));
+    QCOMPARE(error_of({{"injections", 1}}), E("sequence[0].method", "is required but missing"));
+    const QJsonArray plain =
+        run_sequence(row_doc({{"method", "m"}, {"injections", 3}, {"label", "x"}}))["rows"]
+            .toArray();
+    for (const QJsonObject& row :
+         {QJsonObject{{"method", " m "}, {"injections", 3}, {"label", "x\t"}},
+          QJsonObject{{"method", "m"}, {"injections", 3.0}, {"label", "x"}, {"note", 1}}}) {
+        const QJsonArray rows = run_sequence(row_doc(row))["rows"].toArray();
+        QCOMPARE(rows, plain);
+    }
+    const QJsonObject unlabelled =
+        run_sequence(row_doc({{"method", "m"}, {"injections", 3}, {"label", QJsonValue()}}))["rows"]
+            .toArray()
+            .at(0)
+            .toObject();
+    QCOMPARE(unlabelled["label"].toString(), QString());
 }
 
 void TestSequence::plansSumPerLineRecipe() {

@@ -11,6 +11,7 @@
 
 #include <charconv>
 #include <cmath>
+#include <cstring>
 
 namespace phaseplan::json {
 
@@ -83,8 +84,17 @@ void IndentedWriter::number(double value, const std::function<std::string()>& at
         return;
     }
     element();
-    const QByteArray text = QByteArray::number(value, 'g', QLocale::FloatingPointShortest);
-    out_.append(text.constData(), static_cast<std::size_t>(text.size()));
+    quint64 bits = 0;
+    std::memcpy(&bits, &value, sizeof bits);
+    if (numbers_.empty())
+        numbers_.resize(256);
+    NumberText& slot = numbers_[(bits ^ (bits >> 17) ^ (bits >> 41)) & 255];
+    if (slot.bits != bits) {
+        const QByteArray text = QByteArray::number(value, 'g', QLocale::FloatingPointShortest);
+        slot.bits = bits;
+        slot.text.assign(text.constData(), static_cast<std::size_t>(text.size()));
+    }
+    out_ += slot.text;
 }
 
 void IndentedWriter::string(std::string_view utf8) {

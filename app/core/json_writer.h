@@ -52,6 +52,14 @@ class IndentedWriter {
         bool object = false;
         bool empty = true;
     };
+    /// Qt's text of recently written fractional numbers (a sequence's rows repeat a method's
+    /// volumes): a small table indexed by the number's bits, holding exact bits and text.
+    struct NumberText {
+        quint64 bits = ~quint64(0); ///< a NaN, which is never written
+        std::string text;
+    };
+    std::vector<NumberText> numbers_;
+
     std::string out_;
     std::vector<Level> levels_;
     bool after_key_ = false;

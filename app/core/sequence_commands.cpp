@@ -50,6 +50,44 @@ struct PlanResult {
     bool has_offset = false;
 };
 
+/// `text` as json::require_string returns it, when it passes without a word: not empty, no
+/// blank at either end, no surrogate (so no lone one), at most `max_chars` UTF-16 units.
+bool plain_text(const QString& text, std::size_t max_chars, std::string& out) {
+    if (text.isEmpty() || static_cast<std::size_t>(text.size()) > max_chars ||
+        text.front().isSpace() || text.back().isSpace())
+        return false;
+    for (QChar c : text)
+        if (c.isSurrogate())
+            return false;
+    out = text.toStdString();
+    return true;
+}
+
+/// A sequence row that the general readers below would accept without a word ({"method",
+/// "injections", "label"} and nothing else, each well formed), read without spelling out its
+/// path; anything else (an error to report, an extra key) goes the general way.
+std::optional<chem::SequenceRow> plain_row(const QJsonValue& v) {
+    if (!v.isObject())
+        return std::nullopt;
+    const QJsonObject ro = v.toObject();
+    const QJsonValue method = ro.value(QLatin1StringView("method"));
+    const QJsonValue injections = ro.value(QLatin1StringView("injections"));
+    const QJsonValue label = ro.value(QLatin1StringView("label"));
+    if (ro.size() != 2 + (label.isUndefined() ? 0 : 1) || !method.isString() ||
+        !injections.isDouble() || !(label.isUndefined() || label.isNull() || label.isString()))
+        return std::nullopt;
+    chem::SequenceRow r;
+    const double n = injections.toDouble();
+    if (n != std::floor(n) || n < 1 || n > 1000000)
+        return std::nullopt;
+    r.injections = static_cast<int>(n);
+    if (!plain_text(method.toString(), chem::guard::max_text_chars, r.method))
+        return std::nullopt;
+    if (label.isString() && !plain_text(label.toString(), chem::guard::max_text_chars, r.label))
+        return std::nullopt;
+    return r;
+}
+
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
                     const CommandOptions& options) {
     auto P = [&](const char* key) { return json::path(root, key); };
@@ -110,7 +148,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     // sequence rows
     const QJsonArray rows = json::require_array(doc, "sequence", root);
     const std::string spath = P("sequence");
+    in.rows.reserve(static_cast<std::size_t>(rows.size()));
     for (int i = 0; i < rows.size(); ++i) {
+        if (auto r = plain_row(rows.at(i))) {
+            in.rows.push_back(std::move(*r));
+            continue;
+        }
         const std::string at = json::path(spath, i);
         const QJsonObject ro = json::element_object(rows, i, spath);
         json::reject_near_misses(ro, {"method", "injections", "label"}, at);
