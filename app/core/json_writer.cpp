@@ -9,11 +9,45 @@
 #include <QLocale>
 #include <QString>
 
+#include <algorithm>
 #include <charconv>
 #include <cmath>
 #include <cstring>
 
 namespace phaseplan::json {
+
+std::string IndentedWriter::take() {
+    out_.resize(used_);
+    used_ = 0;
+    return std::move(out_);
+}
+
+void IndentedWriter::reserve(std::size_t bytes) {
+    if (out_.size() < used_ + bytes)
+        out_.resize(used_ + bytes);
+}
+
+char* IndentedWriter::room(std::size_t n) {
+    if (used_ + n > out_.size())
+        out_.resize(std::max(2 * out_.size(), used_ + n + 4096));
+    char* at = out_.data() + used_;
+    used_ += n;
+    return at;
+}
+
+void IndentedWriter::put(const char* p, std::size_t n) {
+    char* at = room(n);
+    if (n <= 16)
+        for (std::size_t i = 0; i < n; ++i)
+            at[i] = p[i];
+    else
+        std::memcpy(at, p, n);
+}
+
+void IndentedWriter::put_indent(std::size_t depth) {
+    char* at = room(4 * depth);
+    std::memset(at, ' ', 4 * depth);
+}
 
 void IndentedWriter::element() {
     if (after_key_) { // the value of a key: on the key's line
@@ -24,15 +58,15 @@ void IndentedWriter::element() {
         return; // the document itself
     Level& l = levels_.back();
     if (!l.empty)
-        out_ += ",\n";
+        put(",\n", 2);
     l.empty = false;
-    out_.append(4 * levels_.size(), ' ');
+    put_indent(levels_.size());
 }
 
 void IndentedWriter::open(char bracket) {
     element();
-    out_ += bracket;
-    out_ += '\n';
+    const char text[2] = {bracket, '\n'};
+    put(text, 2);
     levels_.push_back({bracket == '{', true});
 }
 
@@ -40,11 +74,11 @@ void IndentedWriter::close(char bracket) {
     const bool empty = levels_.back().empty;
     levels_.pop_back();
     if (!empty)
-        out_ += '\n';
-    out_.append(4 * levels_.size(), ' ');
-    out_ += bracket;
+        put("\n", 1);
+    put_indent(levels_.size());
+    put(&bracket, 1);
     if (levels_.empty())
-        out_ += '\n'; // toJson ends the document with a newline
+        put("\n", 1); // toJson ends the document with a newline
 }
 
 void IndentedWriter::begin_object() {
@@ -62,9 +96,13 @@ void IndentedWriter::end_array() {
 
 void IndentedWriter::key(std::string_view ascii_key) {
     element();
-    out_ += '"';
-    out_ += ascii_key;
-    out_ += "\": ";
+    char* at = room(ascii_key.size() + 4);
+    *at++ = '"';
+    for (char c : ascii_key)
+        *at++ = c;
+    *at++ = '"';
+    *at++ = ':';
+    *at = ' ';
     after_key_ = true;
 }
 
@@ -72,7 +110,7 @@ void IndentedWriter::integer(long long value) {
     element();
     char buf[24];
     const auto r = std::to_chars(buf, buf + sizeof buf, value);
-    out_.append(buf, r.ptr);
+    put(buf, static_cast<std::size_t>(r.ptr - buf));
 }
 
 void IndentedWriter::number(double value, const std::function<std::string()>& at) {
@@ -94,36 +132,44 @@ void IndentedWriter::number(double value, const std::function<std::string()>& at
         slot.bits = bits;
         slot.text.assign(text.constData(), static_cast<std::size_t>(text.size()));
     }
-    out_ += slot.text;
+    put(slot.text.data(), slot.text.size());
 }
 
 void IndentedWriter::string(std::string_view utf8) {
+    std::size_t quotes = 0;
     bool plain = true;
-    for (char c : utf8)
-        plain &= static_cast<unsigned char>(c) >= 0x20 && static_cast<unsigned char>(c) < 0x80;
+    for (char c : utf8) {
+        const auto u = static_cast<unsigned char>(c);
+        plain &= u >= 0x20 && u < 0x80;
+        quotes += c == '"' || c == '\\';
+    }
     if (!plain) { // control characters and non-ASCII text: Qt's own escaping
         value(QJsonValue(QString::fromUtf8(utf8.data(), static_cast<qsizetype>(utf8.size()))),
               std::string());
         return;
     }
     element();
-    out_ += '"';
+    char* at = room(utf8.size() + quotes + 2);
+    *at++ = '"';
     for (char c : utf8) {
         if (c == '"' || c == '\\')
-            out_ += '\\';
-        out_ += c;
+            *at++ = '\\';
+        *at++ = c;
     }
-    out_ += '"';
+    *at = '"';
 }
 
 void IndentedWriter::boolean(bool value) {
     element();
-    out_ += value ? "true" : "false";
+    if (value)
+        put("true", 4);
+    else
+        put("false", 5);
 }
 
 void IndentedWriter::null() {
     element();
-    out_ += "null";
+    put("null", 4);
 }
 
 void IndentedWriter::value(const QJsonValue& v, const std::string& at) {
@@ -141,11 +187,16 @@ void IndentedWriter::value(const QJsonValue& v, const std::string& at) {
         text = text.mid(1, text.size() - 2); // "[value]"
     }
     // Qt indents a nested value's lines by its depth: the same text, each line shifted.
-    const std::string indent(4 * levels_.size(), ' ');
-    for (char c : text) {
-        out_ += c;
-        if (c == '\n')
-            out_ += indent;
+    const std::size_t depth = levels_.size();
+    const char* p = text.constData();
+    const char* end = p + text.size();
+    while (p != end) {
+        const char* nl = static_cast<const char*>(std::memchr(p, '\n', end - p));
+        const char* stop = nl ? nl + 1 : end;
+        put(p, static_cast<std::size_t>(stop - p));
+        if (nl)
+            put_indent(depth);
+        p = stop;
     }
 }
 

@@ -19,10 +19,11 @@ namespace phaseplan::json {
 
 class IndentedWriter {
   public:
-    /// The text so far; complete (with Qt's final newline) after the outermost end_object().
-    const std::string& text() const { return out_; }
-    std::string take() { return std::move(out_); }
-    void reserve(std::size_t bytes) { out_.reserve(bytes); }
+    /// The text, complete (with Qt's final newline) after the outermost end_object(); the
+    /// writer is empty afterwards.
+    std::string take();
+    /// Room for `bytes` more without growing.
+    void reserve(std::size_t bytes);
 
     void begin_object();
     void end_object();
@@ -44,7 +45,10 @@ class IndentedWriter {
     void value(const QJsonValue& v, const std::string& at);
 
   private:
-    void element(); ///< the separator and indent before an array element or a key
+    void element();            ///< the separator and indent before an array element or a key
+    char* room(std::size_t n); ///< n bytes at the end of the text, to be filled
+    void put(const char* p, std::size_t n);
+    void put_indent(std::size_t depth);
     void open(char bracket);
     void close(char bracket);
 
@@ -60,7 +64,8 @@ class IndentedWriter {
     };
     std::vector<NumberText> numbers_;
 
-    std::string out_;
+    std::string out_; ///< the text in out_[0, used_), room after it
+    std::size_t used_ = 0;
     std::vector<Level> levels_;
     bool after_key_ = false;
 };
