@@ -616,7 +616,13 @@ void TestSequence::cliTextIsQtsTextOfTheResult() {
                                     QJsonArray{QJsonObject{{"t_min", 0}, {"A", 100}}});
     one_line = set_path(one_line, "prime_ml.B", QJsonValue());
     const QJsonObject two = QJsonObject{{"plans", QJsonArray{base, offset}}};
-    for (const QJsonObject& doc : {base, offset, one_line, two}) {
+    // A method named with a quote and non-ASCII text: a key of "methods" and "eluent_trace".
+    const QString odd = QString::fromUtf8("Méthode \"1\" – 5 µL");
+    QJsonObject renamed = base;
+    renamed["methods"] = QJsonObject{{odd, base["methods"].toObject()["m"]}};
+    for (int i = 0; i < 4; ++i)
+        renamed = set_path(renamed, QStringLiteral("sequence[%1].method").arg(i), odd);
+    for (const QJsonObject& doc : {base, offset, one_line, two, renamed}) {
         const QByteArray qt = QJsonDocument(run_sequence(doc)).toJson(QJsonDocument::Indented);
         const std::string text = phaseplan::command_sequence_text(shipped_data(), doc, {});
         QCOMPARE(QByteArray::fromStdString(text), qt);

@@ -144,8 +144,7 @@ void IndentedWriter::string(std::string_view utf8) {
         quotes += c == '"' || c == '\\';
     }
     if (!plain) { // control characters and non-ASCII text: Qt's own escaping
-        value(QJsonValue(QString::fromUtf8(utf8.data(), static_cast<qsizetype>(utf8.size()))),
-              std::string());
+        qt_string(QString::fromUtf8(utf8.data(), static_cast<qsizetype>(utf8.size())));
         return;
     }
     element();
@@ -157,6 +156,21 @@ void IndentedWriter::string(std::string_view utf8) {
         *at++ = c;
     }
     *at = '"';
+}
+
+void IndentedWriter::qt_string(const QString& text) {
+    element();
+    const QByteArray json = QJsonDocument(QJsonArray{text}).toJson(QJsonDocument::Compact);
+    put(json.constData() + 1, static_cast<std::size_t>(json.size() - 2)); // ["text"]
+}
+
+void IndentedWriter::any_string(const QString& text) {
+    for (QChar c : text)
+        if (c.unicode() < 0x20 || c.unicode() >= 0x80) {
+            qt_string(text);
+            return;
+        }
+    string(text.toStdString());
 }
 
 void IndentedWriter::boolean(bool value) {
@@ -174,30 +188,59 @@ void IndentedWriter::null() {
 
 void IndentedWriter::value(const QJsonValue& v, const std::string& at) {
     check_output_value(v, at);
+    walk(v);
+}
+
+void IndentedWriter::walk(const QJsonValue& v) {
+    switch (v.type()) {
+    case QJsonValue::Object: {
+        const QJsonObject o = v.toObject();
+        begin_object();
+        for (auto it = o.constBegin(); it != o.constEnd(); ++it) {
+            // A key as Qt escapes it: written as a string, then ": " in place of its place.
+            const QString k = it.key();
+            element();
+            after_key_ = true; // no separator before the key's text
+            any_string(k);
+            put(": ", 2);
+            after_key_ = true;
+            walk(it.value());
+        }
+        end_object();
+        return;
+    }
+    case QJsonValue::Array: {
+        const QJsonArray a = v.toArray();
+        begin_array();
+        for (const QJsonValue& e : a)
+            walk(e);
+        end_array();
+        return;
+    }
+    case QJsonValue::String:
+        any_string(v.toString());
+        return;
+    case QJsonValue::Bool:
+        boolean(v.toBool());
+        return;
+    case QJsonValue::Double: {
+        const double d = v.toDouble();
+        // A parsed -0 keeps its sign in Qt's text; anything unusual is Qt's to write.
+        if (!std::signbit(d) || d != 0) {
+            number(d, [] { return std::string(); }); // already checked
+            return;
+        }
+        break;
+    }
+    case QJsonValue::Null:
+        null();
+        return;
+    default:
+        break;
+    }
     element();
-    QByteArray text;
-    if (v.isObject()) {
-        text = QJsonDocument(v.toObject()).toJson(QJsonDocument::Indented);
-        text.chop(1); // the document's final newline
-    } else if (v.isArray()) {
-        text = QJsonDocument(v.toArray()).toJson(QJsonDocument::Indented);
-        text.chop(1);
-    } else {
-        text = QJsonDocument(QJsonArray{v}).toJson(QJsonDocument::Compact);
-        text = text.mid(1, text.size() - 2); // "[value]"
-    }
-    // Qt indents a nested value's lines by its depth: the same text, each line shifted.
-    const std::size_t depth = levels_.size();
-    const char* p = text.constData();
-    const char* end = p + text.size();
-    while (p != end) {
-        const char* nl = static_cast<const char*>(std::memchr(p, '\n', end - p));
-        const char* stop = nl ? nl + 1 : end;
-        put(p, static_cast<std::size_t>(stop - p));
-        if (nl)
-            put_indent(depth);
-        p = stop;
-    }
+    QByteArray text = QJsonDocument(QJsonArray{v}).toJson(QJsonDocument::Compact);
+    put(text.constData() + 1, static_cast<std::size_t>(text.size() - 2)); // "[value]"
 }
 
 } // namespace phaseplan::json

@@ -8,6 +8,7 @@
 // finite or lies beyond ±chem::guard::max_amount · 10^3 throws chem::Error naming its path, so
 // the text never holds "inf", "nan" or an overflow. Embedded QJsonValues are checked the same way.
 #include <QJsonValue>
+#include <QString>
 #include <QStringView>
 
 #include <functional>
@@ -45,6 +46,9 @@ class IndentedWriter {
     void value(const QJsonValue& v, const std::string& at);
 
   private:
+    void walk(const QJsonValue& v);       ///< v written as Qt writes it (checked before)
+    void qt_string(const QString& text);  ///< a string as Qt escapes it
+    void any_string(const QString& text); ///< plain ASCII directly, else qt_string
     void element();            ///< the separator and indent before an array element or a key
     char* room(std::size_t n); ///< n bytes at the end of the text, to be filled
     void put(const char* p, std::size_t n);

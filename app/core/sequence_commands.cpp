@@ -591,7 +591,7 @@ std::string command_sequence_text(const AppData& data, const QJsonObject& input,
     std::size_t rows = 0;
     for (const PlanResult& p : r.plans)
         rows += p.rows.size();
-    w.reserve(rows * 240 + (1 << 18)); // about 220 bytes a row with four lines
+    w.reserve(rows * 420 + (1 << 18)); // about 400 bytes a row with four lines
     if (!r.several) {
         write_plan(w, r.plans.front(), "");
         return w.take();
