@@ -8,7 +8,11 @@
 #include <QJsonParseError>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <deque>
+#include <memory>
+#include <string_view>
 #include <unordered_set>
 #include <vector>
 
@@ -274,7 +278,7 @@ namespace {
 /// literal is its UTF-8 bytes; an escaped one is decoded (backslash-u0061 equals "a"), and kept as
 /// UTF-8 unless it holds a lone surrogate, which UTF-8 cannot carry: then as 0xFF (never in
 /// UTF-8) and its UTF-16 units.
-std::string key_at(const QByteArray& b, qsizetype& i) {
+std::string_view key_at(const QByteArray& b, qsizetype& i, std::deque<std::string>& decoded) {
     const qsizetype start = ++i;
     bool escaped = false;
     while (i < b.size() && b[i] != '"') {
@@ -286,7 +290,7 @@ std::string key_at(const QByteArray& b, qsizetype& i) {
     }
     const qsizetype end = i++;
     if (!escaped)
-        return std::string(b.constData() + start, static_cast<std::size_t>(end - start));
+        return std::string_view(b.constData() + start, static_cast<std::size_t>(end - start));
     const QString s = QJsonDocument::fromJson("[" + b.mid(start - 1, end - start + 2) + "]")
                           .array()
                           .at(0)
@@ -299,19 +303,19 @@ std::string key_at(const QByteArray& b, qsizetype& i) {
             lone = true;
     }
     if (!lone)
-        return s.toStdString();
+        return decoded.emplace_back(s.toStdString());
     std::string units(1, '\xff');
     for (QChar c : s) {
         units += static_cast<char>(c.unicode() >> 8);
         units += static_cast<char>(c.unicode() & 0xff);
     }
-    return units;
+    return decoded.emplace_back(std::move(units));
 }
 
 /// The key as text again, for a path.
-QString key_text(const std::string& k) {
+QString key_text(std::string_view k) {
     if (k.empty() || k[0] != '\xff')
-        return QString::fromStdString(k);
+        return QString::fromUtf8(k.data(), static_cast<qsizetype>(k.size()));
     QString s;
     for (std::size_t j = 1; j + 1 < k.size(); j += 2)
         s += QChar(static_cast<char16_t>((static_cast<unsigned char>(k[j]) << 8) |
@@ -319,28 +323,30 @@ QString key_text(const std::string& k) {
     return s;
 }
 
-/// The keys of one object seen so far: a list while it is short, a hash set beyond that.
+/// The keys of one object seen so far: a short inline list, a hash set beyond it. The keys are
+/// views into the document (or into the decoded escaped keys), which outlive the scan.
 class KeySet {
   public:
     /// False when `key` was there already.
-    bool insert(std::string key) {
-        if (set_.empty()) {
-            for (const std::string& k : list_)
-                if (k == key)
+    bool insert(std::string_view key) {
+        if (!set_) {
+            for (std::size_t k = 0; k < count_; ++k)
+                if (list_[k] == key)
                     return false;
-            if (list_.size() < 16) {
-                list_.push_back(std::move(key));
+            if (count_ < list_.size()) {
+                list_[count_++] = key;
                 return true;
             }
-            set_.insert(list_.begin(), list_.end());
-            list_.clear();
+            set_ =
+                std::make_unique<std::unordered_set<std::string_view>>(list_.begin(), list_.end());
         }
-        return set_.insert(std::move(key)).second;
+        return set_->insert(key).second;
     }
 
   private:
-    std::vector<std::string> list_;
-    std::unordered_set<std::string> set_;
+    std::array<std::string_view, 8> list_;
+    std::size_t count_ = 0;
+    std::unique_ptr<std::unordered_set<std::string_view>> set_;
 };
 
 /// Qt keeps the last of two equal keys without a word; a document that gives a field twice
@@ -351,11 +357,12 @@ void reject_duplicate_keys(const QByteArray& b) {
     struct Frame {
         bool object = false;
         KeySet keys;
-        std::string key;
+        std::string_view key;
         int index = 0;
         bool expect_key = true;
     };
     std::vector<Frame> stack;
+    std::deque<std::string> decoded; ///< escaped keys, decoded (stable addresses)
     auto path_to = [&](std::size_t depth) {
         std::string p;
         for (std::size_t d = 0; d + 1 < depth; ++d)
@@ -364,16 +371,26 @@ void reject_duplicate_keys(const QByteArray& b) {
     };
     const char* data = b.constData();
     const qsizetype n = b.size();
+    static const std::array<bool, 256> structural = [] {
+        std::array<bool, 256> t{};
+        for (unsigned char ch : std::string_view("\"{}[],"))
+            t[ch] = true;
+        return t;
+    }();
     for (qsizetype i = 0; i < n;) {
         const char c = data[i];
+        if (!structural[static_cast<unsigned char>(c)]) { // numbers, blanks, literals
+            ++i;
+            continue;
+        }
         if (c == '"') {
             if (!stack.empty() && stack.back().object && stack.back().expect_key) {
-                std::string k = key_at(b, i);
+                const std::string_view k = key_at(b, i, decoded);
                 Frame& f = stack.back();
                 if (!f.keys.insert(k))
                     throw chem::Error(path(path_to(stack.size()), key_text(k)),
                                       "is given twice in one object; give it once");
-                f.key = std::move(k);
+                f.key = k;
                 f.expect_key = false;
             } else { // a string value: skip it
                 for (++i; i < n && data[i] != '"'; ++i)
