@@ -4,6 +4,7 @@
 #include "core/date_time.h"
 
 #include <QTest>
+#include <QTimeZone>
 
 #include <cmath>
 
@@ -31,6 +32,42 @@ class TestDateTime : public QObject {
         QCOMPARE(minute_text(as_wall_clock(t)), QString("2026-12-01 18:00"));
         QCOMPARE(iso_minute_text("2026-12-01T16:30:00+01:00"), QString("2026-12-01 16:30"));
         QCOMPARE(iso_minute_text(""), QString());
+    }
+
+    void contract_clock_text_matches_the_qt_form() {
+        // Reference: contract_iso (QDateTime::toString) at each time. 2000 and 2400 are leap
+        // years, 1900 and 2100 are not (Gregorian rule, from memory); the steps cross month,
+        // year and century ends, negative steps go before 1970.
+        const char* starts[] = {"2026-12-01T18:00:00",       "1900-02-28T23:59:59",
+                                "1999-12-31T23:00:00.750",   "2024-02-28T12:00:00+05:30",
+                                "1969-12-31T23:59:59-03:00", "2100-02-28T22:00:00Z",
+                                "8999-12-31T20:00:00"};
+        const qint64 steps[] = {0,      1,        59,       3599,     86399,      86400,
+                                172800, 2678400,  31536000, 31622400, 126230400,  -1,
+                                -86401, -3600000, 12345678, 98765432, 3155760000, -2000000000};
+        for (const char* s : starts) {
+            bool offset = false;
+            QDateTime t = QDateTime::fromString(QString::fromLatin1(s), Qt::ISODate);
+            QVERIFY2(t.isValid(), s);
+            offset = t.timeSpec() != Qt::LocalTime;
+            if (!offset)
+                t = as_wall_clock(t);
+            const ContractClockText fast(t, offset);
+            for (qint64 step : steps)
+                QCOMPARE(fast.text(step), contract_iso(t.addSecs(step), offset));
+            // Held in the UTC zone, as the sequence reader holds a start without an offset.
+            if (!offset) {
+                const QDateTime z(t.date(), t.time(), QTimeZone::utc());
+                const ContractClockText in_zone(z, false);
+                for (qint64 step : steps)
+                    QCOMPARE(in_zone.text(step), contract_iso(z.addSecs(step), false));
+            }
+        }
+        // A start held as local time takes the slow path, with the same result.
+        const QDateTime local(QDate(2026, 3, 28), QTime(23, 0), Qt::LocalTime);
+        QCOMPARE(ContractClockText(local, false).text(7200),
+                 contract_iso(local.addSecs(7200), false));
+        QCOMPARE(ContractClockText(QDateTime(), false).text(60), QString());
     }
 
     void time_of_day_reads_clock_readings_only() {

@@ -2,6 +2,7 @@
 // comments), run-dry injections and times, the conservation invariant (the lines' volumes add up
 // to flow × pumped time), each check of the `sequence` command triggered and not triggered,
 // plans summed per line recipe, and malformed documents rejected with the field named.
+#include "chem/error.h"
 #include "chem/sequence.h"
 #include "core/line_commands.h"
 #include "test_support.h"
@@ -124,6 +125,8 @@ class TestSequence : public QObject {
     void wasteOverflowCheck();
     void plansSumPerLineRecipe();
     void clockTimesKeepAnOffset();
+    void cliTextIsQtsTextOfTheResult();
+    void rowsAreReadAlikeInEveryForm();
     void standbyUntilATimeOfDayMovesWithTheStart();
     void badInputIsRejected_data();
     void badInputIsRejected();
@@ -589,6 +592,85 @@ void TestSequence::wasteOverflowCheck() {
     // 85 mL: 94 % full → caution.
     QCOMPARE(codes(run_sequence(set_path(base_doc(), "waste_ml", 85)), "caution"),
              QStringList{"waste-overflow"});
+}
+
+void TestSequence::cliTextIsQtsTextOfTheResult() {
+    // The CLI writes the rows itself (command_sequence_text); the reference is Qt's own
+    // QJsonDocument::toJson(Indented) of command_sequence, byte for byte: one plan, two plans,
+    // an offset start, and labels that need escaping (quote, backslash, control characters,
+    // non-ASCII text), with one, two and four lines.
+    QJsonObject base =
+        set_path(base_doc(), "sequence",
+                 QJsonArray{QJsonObject{{"method", "m"},
+                                        {"injections", 2},
+                                        {"label", "plain \"quoted\" back\\slash"}},
+                            QJsonObject{{"method", "m"},
+                                        {"injections", 1},
+                                        {"label", "tab\there\nnew \u007f\u0001"}},
+                            QJsonObject{{"method", "m"},
+                                        {"injections", 4},
+                                        {"label", QString::fromUtf8("pH 3,0 – Ü µ 🙂")}},
+                            QJsonObject{{"method", "m"}, {"injections", 1}}});
+    QJsonObject offset = set_path(base, "start", "2026-12-31T22:00:00+05:30");
+    QJsonObject one_line = set_path(set_path(base, "lines.B", QJsonValue()), "methods.m.gradient",
+                                    QJsonArray{QJsonObject{{"t_min", 0}, {"A", 100}}});
+    one_line = set_path(one_line, "prime_ml.B", QJsonValue());
+    const QJsonObject two = QJsonObject{{"plans", QJsonArray{base, offset}}};
+    // A method named with a quote and non-ASCII text: a key of "methods" and "eluent_trace".
+    const QString odd = QString::fromUtf8("Méthode \"1\" – 5 µL");
+    QJsonObject renamed = base;
+    renamed["methods"] = QJsonObject{{odd, base["methods"].toObject()["m"]}};
+    for (int i = 0; i < 4; ++i)
+        renamed = set_path(renamed, QStringLiteral("sequence[%1].method").arg(i), odd);
+    for (const QJsonObject& doc : {base, offset, one_line, two, renamed}) {
+        const QByteArray qt = QJsonDocument(run_sequence(doc)).toJson(QJsonDocument::Indented);
+        const std::string text = phaseplan::command_sequence_text(shipped_data(), doc, {});
+        QCOMPARE(QByteArray::fromStdString(text), qt);
+    }
+}
+
+void TestSequence::rowsAreReadAlikeInEveryForm() {
+    // Plain rows take a quick reader; every other form must give what the general readers give
+    // (json_util.h's contract: trimmed text, null as absent, near-miss keys refused, extra keys
+    // allowed, whole numbers only). Expected texts are the general readers' messages.
+    const auto row_doc = [](const QJsonObject& row) {
+        return set_path(base_doc(), "sequence", QJsonArray{row});
+    };
+    const auto error_of = [&](const QJsonObject& row) -> std::pair<std::string, std::string> {
+        try {
+            run_sequence(row_doc(row));
+        } catch (const chem::Error& e) {
+            return {e.field(), e.message()};
+        }
+        return {};
+    };
+    using E = std::pair<std::string, std::string>;
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 1}, {"label", ""}}),
+             E("sequence[0].label", "must not be empty"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 1}, {"injection", 2}}),
+             E("sequence[0].injection", "is not a field here; did you mean \"injections\"?"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 2.5}}),
+             E("sequence[0].injections", "2.5 is not a whole number"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", 0}}),
+             E("sequence[0].injections", "0 is outside 1 to 1000000"));
+    QCOMPARE(error_of({{"method", "m"}, {"injections", "1"}}),
+             E("sequence[0].injections", "must be a number, got \"1\""));
+    QCOMPARE(error_of({{"injections", 1}}), E("sequence[0].method", "is required but missing"));
+    const QJsonArray plain =
+        run_sequence(row_doc({{"method", "m"}, {"injections", 3}, {"label", "x"}}))["rows"]
+            .toArray();
+    for (const QJsonObject& row :
+         {QJsonObject{{"method", " m "}, {"injections", 3}, {"label", "x\t"}},
+          QJsonObject{{"method", "m"}, {"injections", 3.0}, {"label", "x"}, {"note", 1}}}) {
+        const QJsonArray rows = run_sequence(row_doc(row))["rows"].toArray();
+        QCOMPARE(rows, plain);
+    }
+    const QJsonObject unlabelled =
+        run_sequence(row_doc({{"method", "m"}, {"injections", 3}, {"label", QJsonValue()}}))["rows"]
+            .toArray()
+            .at(0)
+            .toObject();
+    QCOMPARE(unlabelled["label"].toString(), QString());
 }
 
 void TestSequence::plansSumPerLineRecipe() {

@@ -41,10 +41,16 @@ namespace {
 using Command = std::function<QJsonObject(const phaseplan::AppData&, const QJsonObject&,
                                           const phaseplan::CommandOptions&)>;
 
+/// A command that writes its own text (the same bytes as QJsonDocument(run(…)).toJson(Indented),
+/// its numbers already held to json::check_output).
+using TextCommand = std::function<std::string(const phaseplan::AppData&, const QJsonObject&,
+                                              const phaseplan::CommandOptions&)>;
+
 struct Entry {
     Command run;
     const char* summary;
     bool needs_gui = false; ///< PDF output needs fonts and a QGuiApplication
+    TextCommand text = {};  ///< when set, used instead of run
 };
 
 const std::map<std::string, Entry>& command_table() {
@@ -54,7 +60,8 @@ const std::map<std::string, Entry>& command_table() {
         {"reagents", {phaseplan::command_reagents, "list the reagent library (no input needed)"}},
         {"line", {phaseplan::command_line, "a mobile-phase line's parts for a bottle volume"}},
         {"sequence",
-         {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence"}},
+         {phaseplan::command_sequence, "solvent budget, run-dry times and checks of a sequence",
+          false, phaseplan::command_sequence_text}},
         {"pressure", {phaseplan::command_pressure, "column pressure along a method's gradient"}},
         {"transfer",
          {phaseplan::command_transfer, "move a method to another column (USP <621> scaling)"}},
@@ -345,6 +352,12 @@ int main(int argc, char** argv) {
         QJsonObject input = command == "reagents" && bytes.isEmpty()
                                 ? QJsonObject{}
                                 : phaseplan::json::parse_document(bytes);
+        if (it->second.text) {
+            const std::string text = it->second.text(data, input, opt);
+            std::cout.write(text.data(), static_cast<std::streamsize>(text.size()));
+            std::cout.flush();
+            return 0;
+        }
         QJsonObject out = it->second.run(data, input, opt);
         phaseplan::json::check_output(out);
         const QByteArray text = QJsonDocument(out).toJson(QJsonDocument::Indented);

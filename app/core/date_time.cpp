@@ -2,6 +2,7 @@
 
 #include <QObject>
 #include <QRegularExpression>
+#include <QTimeZone>
 
 #include <algorithm>
 #include <cmath>
@@ -31,6 +32,84 @@ QString wall_clock_iso(const QDateTime& t) {
 
 QString contract_iso(const QDateTime& t, bool has_offset) {
     return has_offset ? t.toString(Qt::ISODate) : wall_clock_iso(t);
+}
+
+namespace {
+
+/// Year, month and day of a day count from 1970-01-01 (proleptic Gregorian; H. Hinnant's
+/// days_from_civil inverse, "chrono-Compatible Low-Level Date Algorithms", from memory).
+void civil_from_days(qint64 z, qint64& y, int& m, int& d) {
+    z += 719468;
+    const qint64 era = (z >= 0 ? z : z - 146096) / 146097;
+    const qint64 doe = z - era * 146097;                                      // [0, 146096]
+    const qint64 yoe = (doe - doe / 1460 + doe / 36524 - doe / 146096) / 365; // [0, 399]
+    const qint64 doy = doe - (365 * yoe + yoe / 4 - yoe / 100);               // [0, 365]
+    const qint64 mp = (5 * doy + 2) / 153;                                    // [0, 11]
+    d = static_cast<int>(doy - (153 * mp + 2) / 5 + 1);
+    m = static_cast<int>(mp < 10 ? mp + 3 : mp - 9);
+    y = yoe + era * 400 + (m <= 2 ? 1 : 0);
+}
+
+qint64 floor_div(qint64 a, qint64 b) {
+    return a / b - ((a % b != 0) && ((a < 0) != (b < 0)) ? 1 : 0);
+}
+
+void put_digits(char* at, qint64 value, int width) {
+    for (int i = width - 1; i >= 0; --i) {
+        at[i] = static_cast<char>('0' + value % 10);
+        value /= 10;
+    }
+}
+
+} // namespace
+
+ContractClockText::ContractClockText(const QDateTime& start, bool has_offset)
+    : start_(start), has_offset_(has_offset) {
+    if (!start.isValid())
+        return;
+    const Qt::TimeSpec spec = start.timeSpec();
+    const bool fixed_offset = spec == Qt::UTC || spec == Qt::OffsetFromUTC ||
+                              (spec == Qt::TimeZone && start.timeZone() == QTimeZone::utc());
+    if (!fixed_offset)
+        return; // local time or a zone with daylight saving: contract_iso itself
+    const int year = start.date().year();
+    if (year < 1000 || year > 9999)
+        return;
+    const qint64 wall_ms = start.toMSecsSinceEpoch() + qint64(start.offsetFromUtc()) * 1000;
+    wall_s_ = floor_div(wall_ms, 1000);
+    if (has_offset)
+        suffix_ = start.toString(Qt::ISODate).mid(19).toStdString();
+    fast_ = true;
+}
+
+void ContractClockText::append(qint64 seconds, std::string& out) const {
+    if (fast_) {
+        const qint64 s = wall_s_ + seconds;
+        const qint64 days = floor_div(s, 86400);
+        const qint64 in_day = s - days * 86400;
+        qint64 y = 0;
+        int m = 0, d = 0;
+        civil_from_days(days, y, m, d);
+        if (y >= 1000 && y <= 9999) {
+            char buf[19] = {0, 0, 0, 0, '-', 0, 0, '-', 0, 0, 'T', 0, 0, ':', 0, 0, ':', 0, 0};
+            put_digits(buf, y, 4);
+            put_digits(buf + 5, m, 2);
+            put_digits(buf + 8, d, 2);
+            put_digits(buf + 11, in_day / 3600, 2);
+            put_digits(buf + 14, in_day / 60 % 60, 2);
+            put_digits(buf + 17, in_day % 60, 2);
+            out.append(buf, sizeof buf);
+            out += suffix_;
+            return;
+        }
+    }
+    out += contract_iso(start_.addSecs(seconds), has_offset_).toStdString();
+}
+
+QString ContractClockText::text(qint64 seconds) const {
+    std::string s;
+    append(seconds, s);
+    return QString::fromLatin1(s.data(), static_cast<qsizetype>(s.size()));
 }
 
 QTime time_of_day(const QString& text) {

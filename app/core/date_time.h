@@ -14,6 +14,8 @@
 #include <QString>
 #include <QTime>
 
+#include <string>
+
 namespace phaseplan {
 
 // ---- reading and writing the contract's clock times -------------------------------------------
@@ -30,6 +32,25 @@ QString wall_clock_iso(const QDateTime& t);
 /// The contract form of `t`: with its offset ("2026-12-01T18:00:00+01:00") when `has_offset`,
 /// else as wall_clock_iso.
 QString contract_iso(const QDateTime& t, bool has_offset);
+/// contract_iso(start.addSecs(seconds), has_offset) for many `seconds` from one start, without
+/// QDateTime::toString per time (a sequence's rows have thousands): the date is computed from
+/// the day count (proleptic Gregorian, as QDate), the offset suffix once. Starts held as
+/// local time or in a named zone other than UTC, and years outside 1000–9999, take contract_iso
+/// itself.
+class ContractClockText {
+  public:
+    ContractClockText(const QDateTime& start, bool has_offset);
+    /// Appends the text (ASCII) to `out`.
+    void append(qint64 seconds, std::string& out) const;
+    QString text(qint64 seconds) const;
+
+  private:
+    QDateTime start_;
+    bool has_offset_ = false;
+    bool fast_ = false;
+    qint64 wall_s_ = 0;  ///< start's wall-clock reading, seconds from 1970-01-01T00:00:00
+    std::string suffix_; ///< "", "Z" or "+01:00"
+};
 /// "07:30" or "07:30:00" as a time of day; invalid for anything else (a full date and time).
 QTime time_of_day(const QString& text);
 

@@ -6,10 +6,14 @@
 
 #include <QJsonDocument>
 #include <QJsonParseError>
-#include <QSet>
 
 #include <algorithm>
+#include <array>
 #include <cmath>
+#include <deque>
+#include <memory>
+#include <string_view>
+#include <unordered_set>
 #include <vector>
 
 namespace phaseplan::json {
@@ -97,23 +101,43 @@ std::vector<std::string> optional_string_list(const QJsonObject& o, const QStrin
     return out;
 }
 
-void check_text(const QString& text, const std::string& field, std::size_t max_chars) {
+namespace {
+
+/// check_text with the field's path spelled out only when the text is refused.
+template <class Field>
+void check_text_lazily(const QString& text, const Field& field, std::size_t max_chars) {
+    // The usual text: no surrogate, no longer than max_chars UTF-16 units.
+    if (static_cast<std::size_t>(text.size()) <= max_chars) {
+        bool surrogate = false;
+        for (QChar c : text)
+            surrogate |= c.isSurrogate();
+        if (!surrogate)
+            return;
+    }
     std::size_t chars = 0;
     for (qsizetype i = 0; i < text.size(); ++i, ++chars) {
         const QChar c = text[i];
         if (c.isHighSurrogate() && i + 1 < text.size() && text[i + 1].isLowSurrogate()) {
             ++i;
         } else if (c.isSurrogate()) {
-            throw chem::Error(field, "contains a lone UTF-16 surrogate (\\u" +
-                                         QString::number(c.unicode(), 16).toUpper().toStdString() +
-                                         " at character " + std::to_string(chars + 1) +
-                                         "), which is not a character");
+            throw chem::Error(field(),
+                              "contains a lone UTF-16 surrogate (\\u" +
+                                  QString::number(c.unicode(), 16).toUpper().toStdString() +
+                                  " at character " + std::to_string(chars + 1) +
+                                  "), which is not a character");
         }
         if (chars >= max_chars)
-            throw chem::Error(field, chem::guard::quote_id(text.left(200).toStdString()) +
-                                         " is longer than " + std::to_string(max_chars) +
-                                         " characters, the most this field holds");
+            throw chem::Error(field(), chem::guard::quote_id(text.left(200).toStdString()) +
+                                           " is longer than " + std::to_string(max_chars) +
+                                           " characters, the most this field holds");
     }
+}
+
+} // namespace
+
+void check_text(const QString& text, const std::string& field, std::size_t max_chars) {
+    check_text_lazily(
+        text, [&] { return field; }, max_chars);
 }
 
 std::string require_string(const QJsonObject& o, const QString& key, const std::string& parent,
@@ -122,7 +146,8 @@ std::string require_string(const QJsonObject& o, const QString& key, const std::
     if (!v.isString())
         throw chem::Error(path(parent, key), "must be a string, got " + describe(v));
     const QString text = v.toString().trimmed();
-    check_text(text, path(parent, key), max_chars);
+    check_text_lazily(
+        text, [&] { return path(parent, key); }, max_chars);
     std::string s = text.toStdString();
     if (s.empty())
         throw chem::Error(path(parent, key), "must not be empty");
@@ -248,10 +273,13 @@ void reject_near_misses(const QJsonObject& o, std::initializer_list<const char*>
 
 namespace {
 
-/// The decoded text of the JSON string literal that starts at b[i] (a '"'); leaves i after it.
-/// The document has been parsed already, so the literal is well formed.
-QString string_at(const QByteArray& b, qsizetype& i) {
-    const qsizetype start = i++;
+/// The key of the JSON string literal that starts at b[i] (a '"'), as comparable bytes; leaves i
+/// after it. The document has been parsed already, so the literal is well formed. A plain
+/// literal is its UTF-8 bytes; an escaped one is decoded (backslash-u0061 equals "a"), and kept as
+/// UTF-8 unless it holds a lone surrogate, which UTF-8 cannot carry: then as 0xFF (never in
+/// UTF-8) and its UTF-16 units.
+std::string_view key_at(const QByteArray& b, qsizetype& i, std::deque<std::string>& decoded) {
+    const qsizetype start = ++i;
     bool escaped = false;
     while (i < b.size() && b[i] != '"') {
         if (b[i] == '\\') {
@@ -260,13 +288,66 @@ QString string_at(const QByteArray& b, qsizetype& i) {
         }
         ++i;
     }
-    ++i;
-    const QByteArray literal = b.mid(start, i - start);
+    const qsizetype end = i++;
     if (!escaped)
-        return QString::fromUtf8(literal.mid(1, literal.size() - 2));
-    // An escaped key (backslash-u0061) equals its plain form ("a"): let Qt decode the escapes.
-    return QJsonDocument::fromJson("[" + literal + "]").array().at(0).toString();
+        return std::string_view(b.constData() + start, static_cast<std::size_t>(end - start));
+    const QString s = QJsonDocument::fromJson("[" + b.mid(start - 1, end - start + 2) + "]")
+                          .array()
+                          .at(0)
+                          .toString();
+    bool lone = false;
+    for (qsizetype k = 0; k < s.size(); ++k) {
+        if (s[k].isHighSurrogate() && k + 1 < s.size() && s[k + 1].isLowSurrogate())
+            ++k;
+        else if (s[k].isSurrogate())
+            lone = true;
+    }
+    if (!lone)
+        return decoded.emplace_back(s.toStdString());
+    std::string units(1, '\xff');
+    for (QChar c : s) {
+        units += static_cast<char>(c.unicode() >> 8);
+        units += static_cast<char>(c.unicode() & 0xff);
+    }
+    return decoded.emplace_back(std::move(units));
 }
+
+/// The key as text again, for a path.
+QString key_text(std::string_view k) {
+    if (k.empty() || k[0] != '\xff')
+        return QString::fromUtf8(k.data(), static_cast<qsizetype>(k.size()));
+    QString s;
+    for (std::size_t j = 1; j + 1 < k.size(); j += 2)
+        s += QChar(static_cast<char16_t>((static_cast<unsigned char>(k[j]) << 8) |
+                                         static_cast<unsigned char>(k[j + 1])));
+    return s;
+}
+
+/// The keys of one object seen so far: a short inline list, a hash set beyond it. The keys are
+/// views into the document (or into the decoded escaped keys), which outlive the scan.
+class KeySet {
+  public:
+    /// False when `key` was there already.
+    bool insert(std::string_view key) {
+        if (!set_) {
+            for (std::size_t k = 0; k < count_; ++k)
+                if (list_[k] == key)
+                    return false;
+            if (count_ < list_.size()) {
+                list_[count_++] = key;
+                return true;
+            }
+            set_ =
+                std::make_unique<std::unordered_set<std::string_view>>(list_.begin(), list_.end());
+        }
+        return set_->insert(key).second;
+    }
+
+  private:
+    std::array<std::string_view, 8> list_;
+    std::size_t count_ = 0;
+    std::unique_ptr<std::unordered_set<std::string_view>> set_;
+};
 
 /// Qt keeps the last of two equal keys without a word; a document that gives a field twice
 /// ({"mol_per_l": 0.01, "mol_per_l": 0.1}) is ambiguous, so it is refused, naming the field.
@@ -275,30 +356,47 @@ void reject_duplicate_keys(const QByteArray& b) {
     // duplicate is found, so a deeply nested document costs O(depth) memory, not O(depth^2).
     struct Frame {
         bool object = false;
-        QSet<QString> keys;
-        QString key;
+        KeySet keys;
+        std::string_view key;
         int index = 0;
         bool expect_key = true;
     };
     std::vector<Frame> stack;
+    std::deque<std::string> decoded; ///< escaped keys, decoded (stable addresses)
     auto path_to = [&](std::size_t depth) {
         std::string p;
         for (std::size_t d = 0; d + 1 < depth; ++d)
-            p = stack[d].object ? path(p, stack[d].key) : path(p, stack[d].index);
+            p = stack[d].object ? path(p, key_text(stack[d].key)) : path(p, stack[d].index);
         return p;
     };
-    for (qsizetype i = 0; i < b.size();) {
-        const char c = b[i];
+    const char* data = b.constData();
+    const qsizetype n = b.size();
+    static const std::array<bool, 256> structural = [] {
+        std::array<bool, 256> t{};
+        for (unsigned char ch : std::string_view("\"{}[],"))
+            t[ch] = true;
+        return t;
+    }();
+    for (qsizetype i = 0; i < n;) {
+        const char c = data[i];
+        if (!structural[static_cast<unsigned char>(c)]) { // numbers, blanks, literals
+            ++i;
+            continue;
+        }
         if (c == '"') {
-            const QString s = string_at(b, i);
             if (!stack.empty() && stack.back().object && stack.back().expect_key) {
+                const std::string_view k = key_at(b, i, decoded);
                 Frame& f = stack.back();
-                if (f.keys.contains(s))
-                    throw chem::Error(path(path_to(stack.size()), s),
+                if (!f.keys.insert(k))
+                    throw chem::Error(path(path_to(stack.size()), key_text(k)),
                                       "is given twice in one object; give it once");
-                f.keys.insert(s);
-                f.key = s;
+                f.key = k;
                 f.expect_key = false;
+            } else { // a string value: skip it
+                for (++i; i < n && data[i] != '"'; ++i)
+                    if (data[i] == '\\')
+                        ++i;
+                ++i;
             }
             continue;
         }
@@ -320,15 +418,38 @@ void reject_duplicate_keys(const QByteArray& b) {
 
 } // namespace
 
+void refuse_output_number(double value, const std::string& at) {
+    throw chem::Error(at.empty() ? "(result)" : at,
+                      "the computed value " + chem::format_number(value) +
+                          " is not a finite number in range; check the inputs it comes from");
+}
+
 namespace {
+
+/// The quick pass: no paths are spelled out unless a number is refused.
+bool all_in_range(const QJsonValue& v) {
+    if (v.isDouble())
+        return output_number_in_range(v.toDouble());
+    if (v.isArray()) {
+        const QJsonArray a = v.toArray();
+        for (const QJsonValue& e : a)
+            if (!all_in_range(e))
+                return false;
+    } else if (v.isObject()) {
+        const QJsonObject o = v.toObject();
+        for (auto it = o.constBegin(); it != o.constEnd(); ++it)
+            if (!all_in_range(it.value()))
+                return false;
+    }
+    return true;
+}
+
+/// The path of the first refused number, in the order of the keys.
 void check_value(const QJsonValue& v, const std::string& at) {
     if (v.isDouble()) {
         const double d = v.toDouble();
-        if (!std::isfinite(d) || std::abs(d) > chem::guard::max_amount * 1e3)
-            throw chem::Error(
-                at.empty() ? "(result)" : at,
-                "the computed value " + chem::format_number(d) +
-                    " is not a finite number in range; check the inputs it comes from");
+        if (!output_number_in_range(d))
+            refuse_output_number(d, at);
     } else if (v.isArray()) {
         const QJsonArray a = v.toArray();
         for (int i = 0; i < a.size(); ++i)
@@ -341,8 +462,13 @@ void check_value(const QJsonValue& v, const std::string& at) {
 }
 } // namespace
 
+void check_output_value(const QJsonValue& v, const std::string& at) {
+    if (!all_in_range(v))
+        check_value(v, at);
+}
+
 void check_output(const QJsonObject& out) {
-    check_value(out, "");
+    check_output_value(out, "");
 }
 
 QJsonObject parse_document(const QByteArray& bytes) {

@@ -11,6 +11,7 @@
 #include <QString>
 #include <QStringList>
 
+#include <cmath>
 #include <initializer_list>
 #include <optional>
 #include <string>
@@ -80,5 +81,13 @@ inline constexpr qint64 max_document_bytes = 16 * 1024 * 1024;
 /// ever written). Amounts and counts are checked where they are computed (chem/guard.h); this
 /// catches anything that slipped through.
 void check_output(const QJsonObject& out);
+/// check_output for one value of a result at path `at` ("" for the result itself).
+void check_output_value(const QJsonValue& v, const std::string& at);
+/// Whether check_output lets `value` through: finite and within ±chem::guard::max_amount · 10^3.
+inline bool output_number_in_range(double value) {
+    return std::isfinite(value) && std::abs(value) <= chem::guard::max_amount * 1e3;
+}
+/// check_output's error for a number refused at path `at`.
+[[noreturn]] void refuse_output_number(double value, const std::string& at);
 
 } // namespace phaseplan::json

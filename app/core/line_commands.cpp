@@ -213,8 +213,7 @@ QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces) 
 
 QString Clock::iso(double minutes) const {
     // To the nearest second.
-    const QDateTime t = start.addSecs(static_cast<qint64>(std::llround(minutes * 60.0)));
-    return contract_iso(t, has_offset);
+    return ContractClockText(start, has_offset).text(std::llround(minutes * 60.0));
 }
 
 std::string Clock::text(double minutes) const {

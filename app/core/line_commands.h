@@ -26,6 +26,10 @@ namespace phaseplan {
 QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions& opt);
 QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
                              const CommandOptions& opt);
+/// The CLI's `sequence`: the text QJsonDocument(command_sequence(…)).toJson(Indented) gives,
+/// its numbers held to json::check_output, without building the rows as QJsonObjects.
+std::string command_sequence_text(const AppData& data, const QJsonObject& input,
+                                  const CommandOptions& opt);
 
 /// A clock time of the contract: "2026-12-01T18:00:00" (local wall-clock time, no zone: minutes
 /// are added without daylight-saving jumps) or with an offset ("…+01:00", kept on output).

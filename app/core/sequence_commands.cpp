@@ -9,6 +9,7 @@
 #include "core/chem_json.h"
 #include "core/date_time.h"
 #include "core/json_util.h"
+#include "core/json_writer.h"
 #include "core/pressure_commands.h"
 
 #include <QJsonDocument>
@@ -38,10 +39,54 @@ struct BatchUse {
     std::optional<chem::ShelfKind> shelf_kind;
 };
 
+/// One plan's result: the rows typed (they are most of a large result), the rest as JSON.
 struct PlanResult {
-    QJsonObject out;
+    QJsonObject out; ///< every field but "rows"
     std::vector<BatchUse> uses;
+    std::vector<chem::RowPlan> rows;
+    std::vector<chem::SequenceRow> row_inputs; ///< method and label of each row
+    std::array<bool, chem::max_lines> defined{};
+    QDateTime start;
+    bool has_offset = false;
 };
+
+/// `text` as json::require_string returns it, when it passes without a word: not empty, no
+/// blank at either end, no surrogate (so no lone one), at most `max_chars` UTF-16 units.
+bool plain_text(const QString& text, std::size_t max_chars, std::string& out) {
+    if (text.isEmpty() || static_cast<std::size_t>(text.size()) > max_chars ||
+        text.front().isSpace() || text.back().isSpace())
+        return false;
+    for (QChar c : text)
+        if (c.isSurrogate())
+            return false;
+    out = text.toStdString();
+    return true;
+}
+
+/// A sequence row that the general readers below would accept without a word ({"method",
+/// "injections", "label"} and nothing else, each well formed), read without spelling out its
+/// path; anything else (an error to report, an extra key) goes the general way.
+std::optional<chem::SequenceRow> plain_row(const QJsonValue& v) {
+    if (!v.isObject())
+        return std::nullopt;
+    const QJsonObject ro = v.toObject();
+    const QJsonValue method = ro.value(QLatin1StringView("method"));
+    const QJsonValue injections = ro.value(QLatin1StringView("injections"));
+    const QJsonValue label = ro.value(QLatin1StringView("label"));
+    if (ro.size() != 2 + (label.isUndefined() ? 0 : 1) || !method.isString() ||
+        !injections.isDouble() || !(label.isUndefined() || label.isNull() || label.isString()))
+        return std::nullopt;
+    chem::SequenceRow r;
+    const double n = injections.toDouble();
+    if (n != std::floor(n) || n < 1 || n > 1000000)
+        return std::nullopt;
+    r.injections = static_cast<int>(n);
+    if (!plain_text(method.toString(), chem::guard::max_text_chars, r.method))
+        return std::nullopt;
+    if (label.isString() && !plain_text(label.toString(), chem::guard::max_text_chars, r.label))
+        return std::nullopt;
+    return r;
+}
 
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
                     const CommandOptions& options) {
@@ -103,7 +148,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     // sequence rows
     const QJsonArray rows = json::require_array(doc, "sequence", root);
     const std::string spath = P("sequence");
+    in.rows.reserve(static_cast<std::size_t>(rows.size()));
     for (int i = 0; i < rows.size(); ++i) {
+        if (auto r = plain_row(rows.at(i))) {
+            in.rows.push_back(std::move(*r));
+            continue;
+        }
         const std::string at = json::path(spath, i);
         const QJsonObject ro = json::element_object(rows, i, spath);
         json::reject_near_misses(ro, {"method", "injections", "label"}, at);
@@ -289,18 +339,6 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
         }
         methods_out[qs(mp.name)] = mo;
     }
-    QJsonArray rows_out;
-    for (std::size_t i = 0; i < plan.rows.size(); ++i) {
-        const auto& rp = plan.rows[i];
-        rows_out.append(QJsonObject{{"method", qs(in.rows[i].method)},
-                                    {"label", qs(in.rows[i].label)},
-                                    {"injections", rp.injections},
-                                    {"first_injection", rp.first_injection},
-                                    {"last_injection", rp.first_injection + rp.injections - 1},
-                                    {"start", clock.iso(rp.start_min)},
-                                    {"end", clock.iso(rp.end_min)},
-                                    {"volume_ml", per_line(rp.volume_ml, defined)}});
-    }
     QJsonArray warnings;
     for (const auto& w : notes)
         warnings.append(warning_to_json(w));
@@ -329,13 +367,105 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"standby_min", plan.standby_min},
                     {"standby_end", clock.iso(plan.total_min + plan.standby_min)},
                     {"methods", methods_out},
-                    {"rows", rows_out},
                     {"warnings", warnings}};
     if (in.waste_capacity_ml)
         out["waste_capacity_ml"] = *in.waste_capacity_ml;
     out["eluent_trace"] = eluent_traces_to_json(traces);
     res.out = out;
+    res.rows = std::move(plan.rows);
+    res.row_inputs = std::move(in.rows);
+    res.defined = defined;
+    res.start = clock.start;
+    res.has_offset = clock.has_offset;
     return res;
+}
+
+/// The "rows" of a plan as QJsonObjects (the GUI and the pages read them by key).
+QJsonArray rows_to_json(const PlanResult& p) {
+    const ContractClockText clock(p.start, p.has_offset);
+    QJsonArray rows_out;
+    for (std::size_t i = 0; i < p.rows.size(); ++i) {
+        const auto& rp = p.rows[i];
+        rows_out.append(QJsonObject{{"method", qs(p.row_inputs[i].method)},
+                                    {"label", qs(p.row_inputs[i].label)},
+                                    {"injections", rp.injections},
+                                    {"first_injection", rp.first_injection},
+                                    {"last_injection", rp.first_injection + rp.injections - 1},
+                                    {"start", clock.text(std::llround(rp.start_min * 60.0))},
+                                    {"end", clock.text(std::llround(rp.end_min * 60.0))},
+                                    {"volume_ml", per_line(rp.volume_ml, p.defined)}});
+    }
+    return rows_out;
+}
+
+QJsonObject plan_to_json(const PlanResult& p) {
+    QJsonObject out = p.out;
+    out["rows"] = rows_to_json(p);
+    return out;
+}
+
+/// The same rows as rows_to_json, written straight to text (keys in QJsonObject's order).
+void write_rows(json::IndentedWriter& w, const PlanResult& p, const std::string& at) {
+    const ContractClockText clock(p.start, p.has_offset);
+    std::string time;
+    w.key("rows");
+    w.begin_array();
+    for (std::size_t i = 0; i < p.rows.size(); ++i) {
+        const auto& rp = p.rows[i];
+        const auto& ri = p.row_inputs[i];
+        w.begin_object();
+        w.key("end");
+        time.clear();
+        clock.append(std::llround(rp.end_min * 60.0), time);
+        w.string(time);
+        w.key("first_injection");
+        w.integer(rp.first_injection);
+        w.key("injections");
+        w.integer(rp.injections);
+        w.key("label");
+        w.string(ri.label);
+        w.key("last_injection");
+        w.integer(rp.first_injection + rp.injections - 1);
+        w.key("method");
+        w.string(ri.method);
+        w.key("start");
+        time.clear();
+        clock.append(std::llround(rp.start_min * 60.0), time);
+        w.string(time);
+        w.key("volume_ml");
+        w.begin_object();
+        for (int l = 0; l < chem::max_lines; ++l) {
+            if (!p.defined[l])
+                continue;
+            const char letter[2] = {chem::line_letter(l), 0};
+            w.key(letter);
+            w.number(rp.volume_ml[l], [&] {
+                return json::path(json::path(json::path(at, static_cast<int>(i)), "volume_ml"),
+                                  QString::fromLatin1(letter));
+            });
+        }
+        w.end_object();
+        w.end_object();
+    }
+    w.end_array();
+}
+
+/// plan_to_json(p) as text, each number checked as json::check_output checks it, in its order.
+void write_plan(json::IndentedWriter& w, const PlanResult& p, const std::string& at) {
+    w.begin_object();
+    bool rows_done = false;
+    const QString rows_key = QStringLiteral("rows");
+    for (auto it = p.out.constBegin(); it != p.out.constEnd(); ++it) {
+        if (!rows_done && rows_key < it.key()) {
+            write_rows(w, p, json::path(at, rows_key));
+            rows_done = true;
+        }
+        w.key(it.key().toStdString());
+        w.value(it.value(), json::path(at, it.key()));
+    }
+    if (!rows_done)
+        write_rows(w, p, json::path(at, rows_key));
+    w.end_object();
 }
 
 /// Sums the lines that share a recipe; warns when one batch would outlive its shelf life.
@@ -409,26 +539,75 @@ QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
 
 } // namespace
 
-QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
-                             const CommandOptions& options) {
+namespace {
+
+struct SequenceResult {
+    bool several = false; ///< a "plans" document
+    std::vector<PlanResult> plans;
+    QJsonArray batches, warnings;
+};
+
+SequenceResult sequence_result(const AppData& data, const QJsonObject& input,
+                               const CommandOptions& options) {
+    SequenceResult res;
     if (!input.contains("plans")) {
-        PlanResult r = plan_one(data, input, "", options);
-        r.out["batches"] = batches_of(r.uses, nullptr);
-        return r.out;
+        res.plans.push_back(plan_one(data, input, "", options));
+        res.batches = batches_of(res.plans.front().uses, nullptr);
+        res.plans.front().out["batches"] = res.batches;
+        return res;
     }
+    res.several = true;
     const QJsonArray plans = json::require_array(input, "plans", "");
     if (plans.isEmpty())
         throw chem::Error("plans", "needs at least one plan");
-    QJsonArray outs, warnings;
     std::vector<BatchUse> uses;
     for (int i = 0; i < plans.size(); ++i) {
         const std::string at = json::path("plans", i);
         PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at, options);
         uses.insert(uses.end(), r.uses.begin(), r.uses.end());
-        outs.append(r.out);
+        res.plans.push_back(std::move(r));
     }
-    const QJsonArray batches = batches_of(uses, &warnings);
-    return QJsonObject{{"plans", outs}, {"batches", batches}, {"warnings", warnings}};
+    res.batches = batches_of(uses, &res.warnings);
+    return res;
+}
+
+} // namespace
+
+QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
+                             const CommandOptions& options) {
+    const SequenceResult r = sequence_result(data, input, options);
+    if (!r.several)
+        return plan_to_json(r.plans.front());
+    QJsonArray outs;
+    for (const PlanResult& p : r.plans)
+        outs.append(plan_to_json(p));
+    return QJsonObject{{"plans", outs}, {"batches", r.batches}, {"warnings", r.warnings}};
+}
+
+std::string command_sequence_text(const AppData& data, const QJsonObject& input,
+                                  const CommandOptions& options) {
+    const SequenceResult r = sequence_result(data, input, options);
+    json::IndentedWriter w;
+    std::size_t rows = 0;
+    for (const PlanResult& p : r.plans)
+        rows += p.rows.size();
+    w.reserve(rows * 420 + (1 << 18)); // about 400 bytes a row with four lines
+    if (!r.several) {
+        write_plan(w, r.plans.front(), "");
+        return w.take();
+    }
+    w.begin_object();
+    w.key("batches");
+    w.value(r.batches, "batches");
+    w.key("plans");
+    w.begin_array();
+    for (std::size_t i = 0; i < r.plans.size(); ++i)
+        write_plan(w, r.plans[i], json::path("plans", static_cast<int>(i)));
+    w.end_array();
+    w.key("warnings");
+    w.value(r.warnings, "warnings");
+    w.end_object();
+    return w.take();
 }
 
 } // namespace phaseplan

@@ -8,12 +8,15 @@
 #include "chem/recipe.h"
 #include "chem/sequence.h"
 #include "core/app_data.h"
+#include "core/json_util.h"
 #include "core/line_commands.h"
 #include "pressure_fixture.h"
 
 #include <benchmark/benchmark.h>
 
+#include <QFile>
 #include <QJsonArray>
+#include <QJsonDocument>
 #include <QJsonObject>
 
 namespace {
@@ -199,8 +202,37 @@ void BM_sequence_command_10000_rows(benchmark::State& state) {
     }
 }
 
+/// What `phaseplan-cli sequence` does after loading the libraries, on the demo night with 10,000
+/// rows of one injection (the README's file /tmp/seq10k-cli.json, built here the same way):
+/// the document's bytes parsed, planned, checked and written as the CLI's text.
+void BM_cli_sequence_10000_rows(benchmark::State& state) {
+    QFile f(QStringLiteral(SOURCE_DIR "/data/demo/overnight-sequence.json"));
+    if (!f.open(QIODevice::ReadOnly)) {
+        state.SkipWithError("cannot read data/demo/overnight-sequence.json");
+        return;
+    }
+    QJsonObject demo = QJsonDocument::fromJson(f.readAll()).object();
+    const QStringList methods = demo.value("methods").toObject().keys();
+    QJsonArray rows;
+    for (int i = 0; i < 10000; ++i)
+        rows.append(QJsonObject{{"method", methods.at(i % methods.size())},
+                                {"injections", 1},
+                                {"label", QStringLiteral("row %1").arg(i)}});
+    demo["sequence"] = rows;
+    const QByteArray bytes = QJsonDocument(demo).toJson(QJsonDocument::Compact);
+    std::size_t out_bytes = 0;
+    for (auto _ : state) {
+        const QJsonObject input = phaseplan::json::parse_document(bytes);
+        const std::string text = phaseplan::command_sequence_text(data(), input, {});
+        out_bytes = text.size();
+        benchmark::DoNotOptimize(text.data());
+    }
+    state.counters["output_bytes"] = static_cast<double>(out_bytes);
+}
+
 } // namespace
 
+BENCHMARK(BM_cli_sequence_10000_rows)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1_with_pressure)->Unit(benchmark::kMillisecond);
 BENCHMARK(BM_plan_10000_injections_rows_of_1_with_eluent_trace)->Unit(benchmark::kMillisecond);
