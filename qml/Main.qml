@@ -10,13 +10,32 @@ ApplicationWindow {
 
     /// The data, the database and the merged library (set by main.cpp).
     required property Workspace workspace
-    /// Index into screenKeys of the screen shown.
-    property int currentScreen: 0
+    /// Index into screenKeys of the screen shown. Reopening shows the screen that was open (read
+    /// here, before the screens are made, so that the one shown is made first).
+    property int currentScreen: Math.max(0, screenKeys.indexOf(workspace.setting("screen")))
     /// The screens, by key (the screenshot seam names its files after these).
     readonly property var screenKeys: ["buffer", "lines", "sequence", "checks", "library", "saved", "batch"]
     readonly property var screenNames: [qsTr("Buffer"), qsTr("Lines"), qsTr("Sequence"), qsTr("Checks"),
                                         qsTr("Library"), qsTr("Saved"), qsTr("Prepare")]
     readonly property bool inPortrait: height > width
+    // The models as the screens see them: inside a screen's Component, `plan`, `designer` and
+    // `session` name the screen's own properties.
+    readonly property Plan planModel: plan
+    readonly property BufferDesigner designerModel: designer
+    readonly property Session sessionModel: session
+    /// The screens before this index are made (besides the one shown): counted up after the
+    /// first frame, one screen per turn of the event loop.
+    property int screensMade: 0
+    onFrameSwapped: if (screensMade === 0 && !makeNextScreen.running) makeNextScreen.start()
+    Timer {
+        id: makeNextScreen
+        interval: 0
+        onTriggered: {
+            window.screensMade++
+            if (window.screensMade < window.screenKeys.length)
+                start()
+        }
+    }
 
     function show(key) {
         var i = screenKeys.indexOf(key)
@@ -26,7 +45,8 @@ ApplicationWindow {
     /// Shows a screen and focuses the field a check or an error names (a contract path).
     function showField(key, path) {
         show(key)
-        var screen = stack.children[screenKeys.indexOf(key)]
+        var loader = stack.children[screenKeys.indexOf(key)]
+        var screen = loader ? loader.item : null
         if (path.length > 0 && screen && screen.focusField !== undefined)
             Qt.callLater(function() { screen.focusField(path) })
     }
@@ -104,12 +124,6 @@ ApplicationWindow {
         designer: designer
     }
 
-    // Reopening shows the screen that was open.
-    Component.onCompleted: {
-        var last = workspace.setting("screen")
-        if (last !== undefined && screenKeys.indexOf(last) >= 0)
-            currentScreen = screenKeys.indexOf(last)
-    }
     onCurrentScreenChanged: workspace.setSetting("screen", screenKeys[currentScreen])
     onClosing: {
         plan.flushAutosave()
@@ -213,54 +227,92 @@ ApplicationWindow {
             }
         }
 
+        // Each screen in a Loader: the one shown at start is made before the first frame, the
+        // others after it, one per turn of the event loop (screensMade), and at once when one is
+        // shown before its turn. A screen once made stays.
         StackLayout {
             id: stack
             Layout.fillWidth: true
             Layout.fillHeight: true
             currentIndex: window.currentScreen
 
-            BufferScreen {
-                designer: designer
-                plan: plan
-                inPortrait: window.inPortrait
-                onPrepare: window.show("batch")
-            }
-            LinesScreen {
-                lines: linesModel
-                plan: plan
-                inPortrait: window.inPortrait
-                designer: designer
-                onEditBuffer: function(name) {
-                    designer.openBuffer(name)
-                    window.show("buffer")
+            Loader {
+                active: window.currentScreen === 0 || 0 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    BufferScreen {
+                        designer: window.designerModel
+                        plan: window.planModel
+                        inPortrait: window.inPortrait
+                        onPrepare: window.show("batch")
+                    }
                 }
             }
-            SequenceScreen {
-                plan: plan
-                inPortrait: window.inPortrait
+            Loader {
+                active: window.currentScreen === 1 || 1 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    LinesScreen {
+                        lines: linesModel
+                        plan: window.planModel
+                        inPortrait: window.inPortrait
+                        designer: window.designerModel
+                        onEditBuffer: function(name) {
+                            designer.openBuffer(name)
+                            window.show("buffer")
+                        }
+                    }
+                }
             }
-            ChecksScreen {
-                checks: checksModel
-                inPortrait: window.inPortrait
-                onOpen: function(screen, focus) { window.showField(screen, focus) }
+            Loader {
+                active: window.currentScreen === 2 || 2 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    SequenceScreen {
+                        plan: window.planModel
+                        inPortrait: window.inPortrait
+                    }
+                }
             }
-            LibraryScreen {
-                workspace: window.workspace
-                session: session
-                inPortrait: window.inPortrait
+            Loader {
+                active: window.currentScreen === 3 || 3 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    ChecksScreen {
+                        checks: checksModel
+                        inPortrait: window.inPortrait
+                        onOpen: function(screen, focus) { window.showField(screen, focus) }
+                    }
+                }
             }
-            SavedScreen {
-                workspace: window.workspace
-                plan: plan
-                designer: designer
-                inPortrait: window.inPortrait
-                onOpen: function(screen) { window.show(screen) }
+            Loader {
+                active: window.currentScreen === 4 || 4 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    LibraryScreen {
+                        workspace: window.workspace
+                        session: window.sessionModel
+                        inPortrait: window.inPortrait
+                    }
+                }
             }
-            BatchScreen {
-                batch: batchModel
-                designer: designer
-                session: session
-                inPortrait: window.inPortrait
+            Loader {
+                active: window.currentScreen === 5 || 5 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    SavedScreen {
+                        workspace: window.workspace
+                        plan: window.planModel
+                        designer: window.designerModel
+                        inPortrait: window.inPortrait
+                        onOpen: function(screen) { window.show(screen) }
+                    }
+                }
+            }
+            Loader {
+                active: window.currentScreen === 6 || 6 < window.screensMade || item !== null
+                sourceComponent: Component {
+                    BatchScreen {
+                        batch: batchModel
+                        designer: window.designerModel
+                        session: window.sessionModel
+                        inPortrait: window.inPortrait
+                    }
+                }
             }
         }
 

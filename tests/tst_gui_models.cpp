@@ -314,6 +314,37 @@ class TestGuiModels : public QObject {
         QVERIFY(std::abs(lo - c.value("phMin").toDouble()) < 1e-9);
         QVERIFY(std::abs(top - c.value("maxBar").toDouble()) < 1e-6 * top);
         QVERIFY(!plan.methodConditions("no such method").value("hasEluent").toBool());
+        // The model keeps the traces typed (sequence_with_typed_traces); the command's JSON of
+        // the same document is the reference: every method's figures and points agree.
+        const QJsonObject doc = QJsonObject::fromVariantMap(plan.documentMap());
+        const QJsonObject out = phaseplan::command_sequence(ws->data(), doc, {});
+        for (const QString& m : plan.methodNames()) {
+            const QVariantMap mc = plan.methodConditions(m);
+            const QJsonArray pts = out["eluent_trace"].toObject()[m].toObject()["points"].toArray();
+            const QJsonObject pr = out["methods"].toObject()[m].toObject()["pressure"].toObject();
+            QCOMPARE(mc.value("hasEluent").toBool(), !pts.isEmpty());
+            QCOMPARE(mc.value("hasPressure").toBool(), !pr["trace"].toArray().isEmpty());
+            QLineSeries phs, bars, limit;
+            plan.fillConditionSeries(&phs, m, "ph");
+            plan.fillConditionSeries(&bars, m, "pressure");
+            plan.fillConditionSeries(&limit, m, "limit");
+            QCOMPARE(phs.count(), int(pts.size()));
+            for (int i = 0; i < pts.size(); ++i) {
+                QCOMPARE(phs.at(i).x(), pts[i].toObject()["t_min"].toDouble());
+                QCOMPARE(phs.at(i).y(), pts[i].toObject()["ph_s_s"].toDouble());
+            }
+            const QJsonArray trace = pr["trace"].toArray();
+            QCOMPARE(bars.count(), int(trace.size()));
+            for (int i = 0; i < trace.size(); ++i)
+                QCOMPARE(bars.at(i).y(), trace[i].toObject()["pressure_bar"].toDouble());
+            if (!trace.isEmpty()) {
+                QCOMPARE(mc.value("maxBar").toDouble(), pr["max_pressure_bar"].toDouble());
+                QCOMPARE(mc.value("maxAtMin").toDouble(), pr["max_at_t_min"].toDouble());
+                QCOMPARE(mc.value("limitBar").toDouble(), pr["limit_bar"].toDouble());
+                QCOMPARE(mc.value("limitedBy").toString(), pr["limited_by"].toString());
+                QCOMPARE(limit.count(), pr["limit_bar"].toDouble() > 0 ? 2 : 0);
+            }
+        }
     }
 
     void every_detector_type_can_be_picked() {

@@ -10,6 +10,7 @@
 // Field names are a fixed contract: extend, rename nothing.
 #include "chem/checks.h"
 #include "chem/line.h"
+#include "chem/pressure.h"
 #include "chem/sequence.h"
 #include "core/commands.h"
 
@@ -18,6 +19,7 @@
 #include <QJsonObject>
 
 #include <initializer_list>
+#include <map>
 #include <optional>
 #include <string>
 
@@ -30,6 +32,19 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
 /// its numbers held to json::check_output, without building the rows as QJsonObjects.
 std::string command_sequence_text(const AppData& data, const QJsonObject& input,
                                   const CommandOptions& opt);
+
+/// A night's traces as computed, for the app's charts: what `sequence` writes as
+/// `eluent_trace` and `methods.<name>.pressure`.
+struct SequenceTraces {
+    std::vector<chem::EluentTrace> eluent;               ///< one per method run
+    std::map<std::string, chem::PressureTrace> pressure; ///< by method name, where there is one
+};
+/// command_sequence for the app's plan model: the same result, except that the traces are
+/// handed over typed in `traces` instead of being written into the JSON (`eluent_trace` and
+/// each method's `pressure` are left out; `max_pressure_bar` and `max_pressure_at_t_min` stay).
+/// A document with "plans" gives command_sequence's result and no traces.
+QJsonObject sequence_with_typed_traces(const AppData& data, const QJsonObject& input,
+                                       const CommandOptions& opt, SequenceTraces& traces);
 
 /// A clock time of the contract: "2026-12-01T18:00:00" (local wall-clock time, no zone: minutes
 /// are added without daylight-saving jumps) or with an offset ("…+01:00", kept on output).

@@ -88,8 +88,9 @@ std::optional<chem::SequenceRow> plain_row(const QJsonValue& v) {
     return r;
 }
 
+/// With `typed`, the traces go there instead of into the JSON (sequence_with_typed_traces).
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
-                    const CommandOptions& options) {
+                    const CommandOptions& options, SequenceTraces* typed = nullptr) {
     auto P = [&](const char* key) { return json::path(root, key); };
     chem::SequenceInput in;
     json::reject_near_misses(doc,
@@ -332,10 +333,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                        {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
                        {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
         if (i < pressure.size() && pressure[i]) {
-            const QJsonObject p = pressure_trace_to_json(*pressure[i]);
-            mo["max_pressure_bar"] = p.value("max_pressure_bar");
-            mo["max_pressure_at_t_min"] = p.value("max_at_t_min");
-            mo["pressure"] = p;
+            mo["max_pressure_bar"] = pressure[i]->max_pressure_bar;
+            mo["max_pressure_at_t_min"] = pressure[i]->max_at_t_min;
+            if (typed)
+                typed->pressure[mp.name] = *pressure[i];
+            else
+                mo["pressure"] = pressure_trace_to_json(*pressure[i]);
         }
         methods_out[qs(mp.name)] = mo;
     }
@@ -370,7 +373,10 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"warnings", warnings}};
     if (in.waste_capacity_ml)
         out["waste_capacity_ml"] = *in.waste_capacity_ml;
-    out["eluent_trace"] = eluent_traces_to_json(traces);
+    if (typed)
+        typed->eluent = traces;
+    else
+        out["eluent_trace"] = eluent_traces_to_json(traces);
     res.out = out;
     res.rows = std::move(plan.rows);
     res.row_inputs = std::move(in.rows);
@@ -608,6 +614,16 @@ std::string command_sequence_text(const AppData& data, const QJsonObject& input,
     w.value(r.warnings, "warnings");
     w.end_object();
     return w.take();
+}
+
+QJsonObject sequence_with_typed_traces(const AppData& data, const QJsonObject& input,
+                                       const CommandOptions& options, SequenceTraces& traces) {
+    traces = {};
+    if (input.contains("plans"))
+        return command_sequence(data, input, options);
+    PlanResult r = plan_one(data, input, "", options, &traces);
+    r.out["batches"] = batches_of(r.uses, nullptr);
+    return r.out;
 }
 
 } // namespace phaseplan

@@ -121,9 +121,20 @@ double median(std::vector<double> v) {
     return v[v.size() / 2];
 }
 
+/// Where start-up went, in ms from main() (wall clock): the phases of run_app.
+struct StartupMarks {
+    double open_begin = 0, open_end = 0, qml_end = 0;
+    Workspace::OpenTimes open;
+};
+
 // Edits the buffer designer's target pH repeatedly and times each edit up to the next frame.
-int measure(QQuickWindow* win, double startup_ms) {
+int measure(QQuickWindow* win, double startup_ms, const StartupMarks& m) {
     std::printf("start-up (main() to first frame): %.0f ms\n", startup_ms);
+    std::printf("  before the database: %.0f ms; workspace open: %.0f ms (data %.0f, database "
+                "open/migrate/seed %.0f, shipped library sync %.0f, merged library %.0f); QML "
+                "load and first models: %.0f ms; first frame: %.0f ms\n",
+                m.open_begin, m.open_end - m.open_begin, m.open.data_ms, m.open.database_ms,
+                m.open.sync_ms, m.open.library_ms, m.qml_end - m.open_end, startup_ms - m.qml_end);
     QObject* designer = win->findChild<QObject*>(QStringLiteral("designer"));
     if (!designer) {
         std::fprintf(stderr, "phaseplan: no object named \"designer\" in the main window\n");
@@ -327,6 +338,8 @@ int run_app(QApplication& app) {
     workspace.setDatabasePath(db_path);
     workspace.setDataDir(parser.value(data_opt));
     workspace.setSeedDemo(!parser.isSet(no_demo_opt));
+    StartupMarks marks;
+    marks.open_begin = elapsed_since_start_ms();
     // The lab's server may want a password that ~/.pgpass does not hold, or be out of reach:
     // ask (not in the checking seams, which run unattended) until it opens, the user turns to
     // this tablet's own file, or quits.
@@ -356,6 +369,9 @@ int run_app(QApplication& app) {
         }
     }
 
+    marks.open_end = elapsed_since_start_ms();
+    marks.open = workspace.openTimes();
+
     // The self-test reads the accessible names as a screen reader would: Qt Quick controls fill
     // them in only while accessibility is active.
     if (parser.isSet(selftest_opt))
@@ -378,6 +394,7 @@ int run_app(QApplication& app) {
         std::fprintf(stderr, "phaseplan: the main window did not load\n");
         return 1;
     }
+    marks.qml_end = elapsed_since_start_ms();
     auto* win = qobject_cast<QQuickWindow*>(engine.rootObjects().first());
     if (!win) {
         std::fprintf(stderr, "phaseplan: Main.qml is not a window\n");
@@ -392,7 +409,7 @@ int run_app(QApplication& app) {
         first_frame_ms = elapsed_since_start_ms();
     int status = 0;
     if (parser.isSet(measure_opt))
-        status = measure(win, first_frame_ms);
+        status = measure(win, first_frame_ms, marks);
     else {
         int layout_problems = 0;
         status = render_screens(win, parser.value(screenshot_opt),

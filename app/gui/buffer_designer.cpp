@@ -331,6 +331,29 @@ void BufferDesigner::rebuild_buffer_list() {
     emit bufferListChanged();
 }
 
+void BufferDesigner::rename_in_buffer_list(const QString& old, const QString& name) {
+    // The list as rebuild_buffer_list() would read it back after this bench's own rename, without
+    // reading every saved buffer again on each automatic rename. Changes from elsewhere still
+    // come through rebuild_buffer_list (Workspace::savedChanged).
+    QStringList names;
+    for (const QVariant& v : std::as_const(buffer_choices_)) {
+        const QString n = v.toMap().value(QStringLiteral("name")).toString();
+        if (n != old && n != name)
+            names << n;
+    }
+    names << name;
+    std::sort(names.begin(), names.end(), [](const QString& a, const QString& b) {
+        return QString::localeAwareCompare(a, b) < 0;
+    });
+    QVariantList list;
+    for (const QString& n : std::as_const(names))
+        list.append(QVariantMap{{"id", n}, {"name", n}});
+    if (list == buffer_choices_)
+        return;
+    buffer_choices_ = list;
+    emit bufferListChanged();
+}
+
 QStringList BufferDesigner::usedByLines() const {
     QStringList out;
     if (!plan_ || buffer_name_.isEmpty())
@@ -544,7 +567,7 @@ void BufferDesigner::follow_default_name() {
     buffer_name_ = name;
     if (plan_)
         plan_->renameBufferRefs(old, name, requestDocument());
-    rebuild_buffer_list();
+    rename_in_buffer_list(old, name);
     remember_current();
     emit bufferChanged();
 }

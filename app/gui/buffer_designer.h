@@ -304,6 +304,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void after_edit();
     void rebuild_choices();
     void rebuild_buffer_list();
+    /// After this bench renamed `old` to `name`: the list updated in place.
+    void rename_in_buffer_list(const QString& old, const QString& name);
     void compute_curves(const QJsonObject& recipe);
     void restore_state();
     void schedule_autosave();

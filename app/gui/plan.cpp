@@ -1122,6 +1122,7 @@ void Plan::recompute() {
     QElapsedTimer timer;
     timer.start();
     QJsonObject out;
+    SequenceTraces traces;
     if (!workspace_ || !workspace_->ready())
         error_ = {QString(), tr("the reference data are not loaded")};
     else
@@ -1129,7 +1130,9 @@ void Plan::recompute() {
             CommandOptions opt;
             const QDate today = workspace_->today();
             opt.clock_words = [today](const QDateTime& t) { return day_clock_text(t, today); };
-            out = command_sequence(workspace_->data(), doc_, opt);
+            // The traces come typed for the charts: writing them as JSON and reading them back
+            // was most of the recompute.
+            out = sequence_with_typed_traces(workspace_->data(), doc_, opt, traces);
         });
     if (!error_.empty()) {
         // Keep the last valid plan on screen, greyed (stale()): one wrong cell does not blank
@@ -1139,6 +1142,7 @@ void Plan::recompute() {
         return;
     }
     result_ = out;
+    traces_ = std::move(traces);
     has_result_ = true;
     const QVariantList old_warnings = warnings_, old_bottles = bottles_;
     warnings_.clear();
@@ -1241,37 +1245,52 @@ void Plan::fillWasteSeries(QObject* series) const {
     replace_series(series, points_of(levels_.waste));
 }
 
+namespace {
+const chem::EluentTrace* eluent_of(const SequenceTraces& t, const QString& method) {
+    // The last run of the method, as the JSON keyed by method name keeps it.
+    const std::string name = method.toStdString();
+    const chem::EluentTrace* found = nullptr;
+    for (const chem::EluentTrace& e : t.eluent)
+        if (e.method == name)
+            found = &e;
+    return found;
+}
+const chem::PressureTrace* pressure_of(const SequenceTraces& t, const QString& method) {
+    const auto it = t.pressure.find(method.toStdString());
+    return it == t.pressure.end() ? nullptr : &it->second;
+}
+} // namespace
+
 QVariantMap Plan::methodConditions(const QString& method) const {
     QVariantMap out{{"hasEluent", false}, {"hasPressure", false}};
-    const QJsonArray eluent =
-        result_.value("eluent_trace").toObject().value(method).toObject().value("points").toArray();
     double lo = 14, hi = 0, span = 0;
     bool extrapolated = false;
-    for (const QJsonValue& v : eluent) {
-        const QJsonObject p = v.toObject();
-        lo = std::min(lo, p.value("ph_s_s").toDouble());
-        hi = std::max(hi, p.value("ph_s_s").toDouble());
-        span = std::max(span, p.value("t_min").toDouble());
-        extrapolated |= p.value("extrapolated").toBool();
-    }
-    if (!eluent.isEmpty()) {
+    const chem::EluentTrace* eluent = eluent_of(traces_, method);
+    if (eluent && !eluent->points.empty()) {
+        for (const chem::EluentTracePoint& p : eluent->points) {
+            lo = std::min(lo, p.ph_s_s);
+            hi = std::max(hi, p.ph_s_s);
+            span = std::max(span, p.t_min);
+            extrapolated |= p.extrapolated;
+        }
         out.insert("hasEluent", true);
         out.insert("phMin", lo);
         out.insert("phMax", hi);
         out.insert("extrapolated", extrapolated);
     }
-    const QJsonObject pressure =
-        result_.value("methods").toObject().value(method).toObject().value("pressure").toObject();
-    const QJsonArray trace = pressure.value("trace").toArray();
-    if (!trace.isEmpty()) {
-        for (const QJsonValue& v : trace)
-            span = std::max(span, v.toObject().value("t_min").toDouble());
+    const chem::PressureTrace* pressure = pressure_of(traces_, method);
+    if (pressure && !pressure->points.empty()) {
+        for (const chem::PressurePoint& p : pressure->points)
+            span = std::max(span, p.t_min);
         out.insert("hasPressure", true);
-        out.insert("maxBar", pressure.value("max_pressure_bar").toDouble());
-        out.insert("maxAtMin", pressure.value("max_at_t_min").toDouble());
-        out.insert("limitBar", pressure.value("limit_bar").toDouble());
-        out.insert("limitedBy", pressure.value("limited_by").toString());
-        out.insert("calibrated", pressure.value("calibrated").toBool());
+        out.insert("maxBar", pressure->max_pressure_bar);
+        out.insert("maxAtMin", pressure->max_at_t_min);
+        out.insert("limitBar", pressure->limit ? pressure->limit->bar : 0.0);
+        out.insert("limitedBy",
+                   pressure->limit
+                       ? QString::fromLatin1(chem::limit_source_name(pressure->limit->source))
+                       : QString());
+        out.insert("calibrated", pressure->calibrated);
     }
     out.insert("spanMin", span);
     return out;
@@ -1280,31 +1299,17 @@ QVariantMap Plan::methodConditions(const QString& method) const {
 void Plan::fillConditionSeries(QObject* series, const QString& method, const QString& which) const {
     QList<QPointF> pts;
     if (which == QLatin1String("ph")) {
-        for (const QJsonValue& v : result_.value("eluent_trace")
-                                       .toObject()
-                                       .value(method)
-                                       .toObject()
-                                       .value("points")
-                                       .toArray())
-            pts.append(QPointF(v.toObject().value("t_min").toDouble(),
-                               v.toObject().value("ph_s_s").toDouble()));
-    } else {
-        const QJsonObject pressure = result_.value("methods")
-                                         .toObject()
-                                         .value(method)
-                                         .toObject()
-                                         .value("pressure")
-                                         .toObject();
-        const QJsonArray trace = pressure.value("trace").toArray();
+        if (const chem::EluentTrace* eluent = eluent_of(traces_, method))
+            for (const chem::EluentTracePoint& p : eluent->points)
+                pts.append(QPointF(p.t_min, p.ph_s_s));
+    } else if (const chem::PressureTrace* pressure = pressure_of(traces_, method)) {
         if (which == QLatin1String("pressure")) {
-            for (const QJsonValue& v : trace)
-                pts.append(QPointF(v.toObject().value("t_min").toDouble(),
-                                   v.toObject().value("pressure_bar").toDouble()));
-        } else if (which == QLatin1String("limit") && pressure.value("limit_bar").toDouble() > 0 &&
-                   !trace.isEmpty()) {
-            const double bar = pressure.value("limit_bar").toDouble();
-            pts = {QPointF(0, bar),
-                   QPointF(trace.last().toObject().value("t_min").toDouble(), bar)};
+            for (const chem::PressurePoint& p : pressure->points)
+                pts.append(QPointF(p.t_min, p.pressure_bar));
+        } else if (which == QLatin1String("limit") && pressure->limit && pressure->limit->bar > 0 &&
+                   !pressure->points.empty()) {
+            const double bar = pressure->limit->bar;
+            pts = {QPointF(0, bar), QPointF(pressure->points.back().t_min, bar)};
         }
     }
     replace_series(series, pts);

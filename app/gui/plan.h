@@ -6,6 +6,7 @@
 // plan is autosaved (setting "current_plan") a moment after each edit, so closing or killing the
 // app loses at most that moment.
 #include "chem/bottle_levels.h"
+#include "core/line_commands.h"
 #include "model_util.h"
 #include "workspace.h"
 
@@ -359,7 +360,8 @@ class Plan : public QObject {
     bool dirty_ = false;
 
     FieldError error_;
-    QJsonObject result_; ///< the last valid result (kept, greyed, while an input is wrong)
+    QJsonObject result_;    ///< the last valid result (kept, greyed, while an input is wrong)
+    SequenceTraces traces_; ///< its eluent-pH and pressure traces, typed (not in result_)
     bool has_result_ = false;
     QJsonObject standby_doc() const;
     QJsonObject standby_kept_; ///< the standby as it was when switched off, to switch it back on

@@ -9,6 +9,7 @@
 
 #include <QCryptographicHash>
 #include <QDir>
+#include <QElapsedTimer>
 #include <QFile>
 #include <QFileInfo>
 #include <QJsonArray>
@@ -118,9 +119,17 @@ bool Workspace::open() {
     error_.clear();
     error_field_.clear();
     error_sentence_.clear();
+    open_times_ = {};
+    QElapsedTimer phase;
+    phase.start();
+    auto lap = [&phase](double& ms) {
+        ms = phase.nsecsElapsed() / 1e6;
+        phase.restart();
+    };
     try {
         const QString dir = data_dir_.isEmpty() ? find_data_dir() : data_dir_;
         data_ = load_app_data(dir); // validates the shipped files as they are
+        lap(open_times_.data_ms);
         const QString path =
             database_path_.isEmpty() ? storage::Database::default_path() : database_path_;
         // The demo goes only into a new file, inside the transaction that creates it: an existing
@@ -131,13 +140,16 @@ bool Workspace::open() {
         });
         first_run_ = db_->created();
         db_->set_actor(actor_.isEmpty() ? fallback_actor() : actor_);
+        lap(open_times_.database_ms);
         if (db_->writable())
             for (const char* file : shipped_library_files) {
                 const QByteArray bytes = read_all(dir + "/" + file);
                 if (!bytes.isEmpty())
                     db_->sync_shipped_file(QString::fromLatin1(file), bytes);
             }
+        lap(open_times_.sync_ms);
         reloadLibrary();
+        lap(open_times_.library_ms);
         last_change_counter_ = storage::change_counter(db_->connection());
         change_poll_.start();
         if (!db_->writable())

@@ -86,6 +86,13 @@ class Workspace : public QObject, public QQmlParserStatus {
     /// it, builds the merged library and seeds the demo on first run. False with errorMessage set
     /// on failure. Called by componentComplete() when created in QML.
     Q_INVOKABLE bool open();
+    /// What the last open() spent on each phase (ms, wall clock), for `phaseplan --measure`:
+    /// reading the shipped data, the database (open, migrate, first-run demo), syncing the shipped
+    /// library into it, and the merged library.
+    struct OpenTimes {
+        double data_ms = 0, database_ms = 0, sync_ms = 0, library_ms = 0;
+    };
+    const OpenTimes& openTimes() const { return open_times_; }
 
     /// The data every core command reads: the library includes the lab's own entries.
     const AppData& data() const { return data_; }
@@ -167,6 +174,7 @@ class Workspace : public QObject, public QQmlParserStatus {
     QJsonObject read_kept() const;
     void seed_demo(storage::Database& db) const;
     bool seed_demo_on_ = true;
+    OpenTimes open_times_;
 
     QString database_path_;
     QString data_dir_;

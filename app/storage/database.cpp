@@ -703,7 +703,9 @@ QString record_words(DocumentKind kind, const QString& name) {
 } // namespace
 
 bool Database::versioned() const {
-    return schema_version() >= concurrency_schema_version;
+    if (!versioned_seen_)
+        versioned_seen_ = schema_version() >= concurrency_schema_version;
+    return versioned_seen_;
 }
 
 void Database::upsert_document(const SavedDocument& d, const QString& now) {

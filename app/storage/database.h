@@ -332,6 +332,9 @@ class Database {
     bool created_ = false;
     int transaction_depth_ = 0;
     mutable std::vector<SetAsideRecord> set_aside_;
+    /// versioned() once seen true: a schema only moves forward, so it is not asked again (it was
+    /// a query on every save and rename).
+    mutable bool versioned_seen_ = false;
 };
 
 /// The schema steps (app/storage/migrations.cpp). Step i brings the file from version i to i+1.

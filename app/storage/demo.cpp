@@ -115,11 +115,17 @@ void seed_demo_records(Database& db, const QString& data_dir) {
                   QStringLiteral("lot number mistyped: the bottle's label reads PA-88112"));
     batches.mark_printed(batch.id, preparer, QStringLiteral("sheet a4"));
 
+    // The accounts were stored above from demo_users(), whose passwords match their hashes
+    // (the sign-in tests use them): signed as those accounts without hashing the passwords again.
     SignatureStore signatures(db.connection());
-    signatures.sign(batch.id, preparer, QStringLiteral("demo-prep-2026"),
-                    QStringLiteral("prepared"));
-    signatures.sign(batch.id, QStringLiteral("demo-review"), QStringLiteral("demo-review-2026"),
-                    QStringLiteral("reviewed"));
+    for (const auto& [login, meaning] :
+         {std::pair{preparer, QStringLiteral("prepared")},
+          std::pair{QStringLiteral("demo-review"), QStringLiteral("reviewed")}}) {
+        const std::optional<Account> who = accounts.find(login);
+        if (!who)
+            throw chem::Error("login", "the demo account " + login.toStdString() + " is missing");
+        signatures.sign_as(batch.id, *who, meaning, 0);
+    }
 
     seed_demo_lots(db, QDate::currentDate());
 }

@@ -102,7 +102,12 @@ Signature SignatureStore::sign(const QString& batch_id, const QString& login_in,
     // Both components, every time (21 CFR 11.200(a)(1)); a failure is counted and committed.
     AccountStore accounts(db_);
     const Account who = accounts.authenticate(login, password);
+    return sign_as(batch_id, who, meaning, expected_version);
+}
 
+Signature SignatureStore::sign_as(const QString& batch_id, const Account& who,
+                                  const QString& meaning, qint64 expected_version) {
+    const QString login = who.login;
     sql::WriteTransaction tx(db_);
     BatchStore batches(db_);
     const std::optional<BatchRecord> batch = batches.load(batch_id);

@@ -21,6 +21,7 @@
 // The content hash: lowercase hex SHA-256 of the compact JSON (keys sorted, as QJsonDocument
 // writes them) of {"batch": BatchRecord::to_input(), "revision": revision}. Printing does not
 // change it; any recorded change does, because the revision moves on even when a value comes back.
+#include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
 
@@ -30,6 +31,9 @@
 #include <vector>
 
 namespace phaseplan::storage {
+
+class Database;
+void seed_demo_records(Database& db, const QString& data_dir);
 
 /// The content hash of a batch as stored (see above).
 QString batch_content_sha256(const BatchRecord& batch);
@@ -72,6 +76,15 @@ class SignatureStore {
     void set_clock(std::function<QString()> clock) { clock_ = std::move(clock); }
 
   private:
+    // The first-run demo signs its batch with the demo accounts it has just stored from a fixed
+    // table of logins and password hashes (storage/demo.cpp): checking those passwords again
+    // would only spend three Argon2id hashes of the start-up. Every other signature goes
+    // through sign().
+    friend void seed_demo_records(Database& db, const QString& data_dir);
+    /// sign() after authentication: `who` is the account that proved its password.
+    Signature sign_as(const QString& batch_id, const Account& who, const QString& meaning,
+                      qint64 expected_version);
+
     QSqlDatabase db_;
     std::function<QString()> clock_;
 };
