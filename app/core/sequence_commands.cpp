@@ -623,7 +623,7 @@ QJsonObject sequence_with_typed_traces(const AppData& data, const QJsonObject& i
         return command_sequence(data, input, options);
     PlanResult r = plan_one(data, input, "", options, &traces);
     r.out["batches"] = batches_of(r.uses, nullptr);
-    return r.out;
+    return plan_to_json(r);
 }
 
 } // namespace phaseplan
