@@ -8,8 +8,10 @@
 #include "batch_model.h"
 #include "gui_test_support.h"
 #include "session.h"
+#include "storage/accounts.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
+#include "storage/demo.h"
 #include "workspace.h"
 
 #include <QCoreApplication>
@@ -41,6 +43,7 @@ class TestGuiSession : public QObject {
         Session s;
         s.setWorkspace(ws.get());
         QVERIFY(s.accountsExist());
+        QVERIFY(s.demoAccountsOpen()); // the sign-in card points a newcomer to the README
         QVERIFY(!s.signedIn());
         QVERIFY(!s.canRecord());
 
@@ -159,6 +162,21 @@ class TestGuiSession : public QObject {
         QCOMPARE(m.errorField(), QString("session"));
     }
 
+    void theDemoAccountsHintGoesOnceTheyAreLocked() {
+        auto ws = open_workspace(dir_.filePath("demo-locked.sqlite"));
+        Session s;
+        s.setWorkspace(ws.get());
+        QVERIFY(s.demoAccountsOpen());
+        phaseplan::storage::AccountStore store(ws->database()->connection());
+        store.add_with_hash("lab-admin", "Lab Admin", phaseplan::storage::Role::administrator,
+                            phaseplan::storage::demo_users().front().argon2id_hash, "demo-admin");
+        for (const auto& u : phaseplan::storage::demo_users()) {
+            QVERIFY(s.demoAccountsOpen()); // one demo account still open is enough
+            store.set_locked(QString::fromLatin1(u.login), true, "lab-admin");
+        }
+        QVERIFY(!s.demoAccountsOpen());
+    }
+
     void aDatabaseWithoutAccountsCreatesItsAdministrator() {
         const QString path = dir_.filePath("empty.sqlite");
         { phaseplan::storage::Database created(path); } // an existing file: never seeded
@@ -166,6 +184,7 @@ class TestGuiSession : public QObject {
         Session s;
         s.setWorkspace(ws.get());
         QVERIFY(!s.accountsExist());
+        QVERIFY(!s.demoAccountsOpen());
         QVERIFY(!s.createAdministrator("lab-admin", "Lab Admin", "a-long-pass-1", "a-long-pass-2"));
         QCOMPARE(s.errorField(), QString("repeat"));
         QVERIFY(!s.accountsExist());

@@ -4,6 +4,7 @@
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/database.h"
+#include "storage/demo.h"
 
 #include <QCoreApplication>
 #include <QEvent>
@@ -41,6 +42,22 @@ void Session::setWorkspace(Workspace* w) {
     locked_ = false;
     emit workspaceChanged();
     emit changed();
+}
+
+bool Session::demoAccountsOpen() const {
+    if (!accountsExist())
+        return false;
+    try {
+        const storage::AccountStore store(workspace_->database()->connection());
+        for (const storage::DemoUser& u : storage::demo_users()) {
+            const std::optional<storage::Account> a = store.find(QString::fromLatin1(u.login));
+            if (a && !a->locked)
+                return true;
+        }
+    } catch (const chem::Error&) {
+        return false;
+    }
+    return false;
 }
 
 bool Session::accountsExist() const {

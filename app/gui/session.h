@@ -27,6 +27,9 @@ class Session : public QObject {
                    workspaceChanged)
     /// The database has at least one account: recording needs a signed-in user.
     Q_PROPERTY(bool accountsExist READ accountsExist NOTIFY changed)
+    /// The demo's accounts (README, demo only) are in this database and not locked: the sign-in
+    /// card says so, so that a newcomer can try the demo and a lab knows to lock them.
+    Q_PROPERTY(bool demoAccountsOpen READ demoAccountsOpen NOTIFY changed)
     Q_PROPERTY(bool signedIn READ signedIn NOTIFY changed)
     /// Signed in, but idle past the lab's idle time: the password continues the session.
     Q_PROPERTY(bool locked READ locked NOTIFY changed)
@@ -53,6 +56,7 @@ class Session : public QObject {
     void setWorkspace(Workspace* w);
 
     bool accountsExist() const;
+    bool demoAccountsOpen() const;
     bool signedIn() const { return !login_.isEmpty(); }
     bool locked() const { return locked_; }
     bool lockedByIdle() const { return locked_ && locked_by_idle_; }

@@ -43,6 +43,9 @@ Card {
               ? qsTr("This database has no accounts: batches are recorded under the name typed. Create the lab's administrator to have everyone sign in.")
               : root.mode === "signin"
                 ? qsTr("Batches are recorded under the person signed in. Sign in with your login and password.")
+                  + (root.session.demoAccountsOpen
+                     ? " " + qsTr("This database still has the demo's accounts (demo-prep, demo-review, demo-approve, demo-admin), whose passwords are listed in the README for trying the demo only; a lab locks them or starts a new database.")
+                     : "")
                 : root.switching
                   ? qsTr("Sign in as someone else; %1 (%2) is signed out when you do.").arg(root.session.displayName).arg(root.session.login)
               : root.mode === "locked"

@@ -2,8 +2,9 @@ import QtQuick
 import QtQuick.Controls
 import PhasePlan
 
-// One wheel of the time picker (hours or minutes): turns by dragging, by the mouse wheel or
-// touchpad (one step per notch), and by the Up and Down keys once it has focus.
+// One wheel of the time picker (hours or minutes): turns by dragging, by tapping the number above
+// or below, by the mouse wheel or touchpad (one step per notch), and by the Up and Down keys once
+// it has focus.
 Tumbler {
     id: wheel
 
@@ -26,6 +27,10 @@ Tumbler {
         font.pixelSize: Theme.largeFont
         font.bold: index === wheel.currentIndex && wheel.activeFocus
         opacity: 1.0 - Math.abs(Tumbler.displacement) / 2
+        // A tap on a shown number picks it (a finger expects that as much as a swipe).
+        TapHandler {
+            onTapped: wheel.currentIndex = parent.index
+        }
     }
 
     // Notches are 120 units; a touchpad sends smaller deltas, summed until one step is reached.

@@ -118,7 +118,7 @@ Card {
                                     .arg(NumberText.format(modelData.usable_ml, 0))
                                     .arg(modelData.dry_after_injection)
                                     .arg(modelData.dry_text)
-                                    .arg(NumberText.format(modelData.min_bottle_ml || 0, 0))
+                                    .arg(NumberText.format(Math.ceil(modelData.min_bottle_ml || 0), 0)) // at least: up, as the check says
                               : qsTr("needs %1 mL of %2 usable: lasts")
                                     .arg(NumberText.format(modelData.required_ml, 0))
                                     .arg(NumberText.format(modelData.usable_ml, 0))

@@ -94,6 +94,9 @@ Item {
             BottleChart {
                 Layout.fillWidth: true
                 plan: root.plan
+                // The levels are the last valid plan's while an input is wrong or not applied.
+                stale: root.plan.stale || root.pendingInputs > 0
+                staleText: root.plan.stale ? qsTr("last valid plan") : qsTr("not applied")
             }
         }
     }
