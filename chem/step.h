@@ -4,6 +4,7 @@
 // command line's `line` output as "1. …", the screens and the sheet as a numbered list).
 #include <optional>
 #include <string>
+#include <utility>
 #include <vector>
 
 namespace chem {
@@ -31,6 +32,14 @@ enum class StepKind {
 };
 
 struct Step {
+    Step() = default;
+    /// A step with only its kind and sentence, or with the reagent and amounts it measures.
+    Step(StepKind kind_, std::string text_, std::string reagent_ = {},
+         std::optional<double> mass_g_ = std::nullopt,
+         std::optional<double> volume_ml_ = std::nullopt)
+        : kind(kind_), text(std::move(text_)), reagent(std::move(reagent_)), mass_g(mass_g_),
+          volume_ml(volume_ml_) {}
+
     StepKind kind = StepKind::label;
     std::string text;                ///< the sentence, unnumbered
     std::string reagent;             ///< the reagent id the step measures, or empty
