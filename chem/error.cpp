@@ -1,4 +1,4 @@
-// Number formatting for error messages (chem/error.h).
+// Field paths and number formatting for error messages (chem/error.h).
 #include "chem/error.h"
 
 #include <charconv>
@@ -6,19 +6,18 @@
 
 namespace chem {
 
-bool path_within(const std::string& path, const std::string& field) {
-    if (field.empty())
-        return true;
-    if (path.size() < field.size() || path.compare(0, field.size(), field) != 0)
-        return false;
-    return path.size() == field.size() || path[field.size()] == '.' || path[field.size()] == '[';
+PathSegment PathSegment::subscript(std::string text) {
+    PathSegment s{Kind::subscript, std::move(text)};
+    if (s.as_index_text() >= 0)
+        s.kind = Kind::index;
+    return s;
 }
 
-int Subscripted::index() const {
-    if (subscript.empty() || subscript.size() > 9)
+int PathSegment::as_index_text() const {
+    if (text.empty() || text.size() > 9)
         return -1;
     int v = 0;
-    for (char c : subscript) {
+    for (char c : text) {
         if (c < '0' || c > '9')
             return -1;
         v = v * 10 + (c - '0');
@@ -26,20 +25,115 @@ int Subscripted::index() const {
     return v;
 }
 
-std::optional<Subscripted> subscript_of(const std::string& path, const std::string& list) {
-    if (path.size() < list.size() + 2 || path.compare(0, list.size(), list) != 0 ||
-        path[list.size()] != '[')
-        return std::nullopt;
-    const std::size_t close = path.find(']', list.size() + 1);
-    if (close == std::string::npos)
+int PathSegment::as_index() const {
+    return kind == Kind::index ? as_index_text() : -1;
+}
+
+Path Path::parse(std::string_view text) {
+    Path out;
+    std::string key;
+    bool key_open = false; // a key has started (possibly empty, as in "a..b")
+    auto flush_key = [&] {
+        if (key_open)
+            out.segments_.push_back(PathSegment::key(std::move(key)));
+        key.clear();
+        key_open = false;
+    };
+    std::size_t i = 0;
+    while (i < text.size()) {
+        const char c = text[i];
+        if (c == '[') {
+            const std::size_t close = text.find(']', i + 1);
+            if (close == std::string_view::npos) { // no ']': the rest is text of the key
+                key.append(text.substr(i));
+                key_open = true;
+                break;
+            }
+            flush_key();
+            out.segments_.push_back(
+                PathSegment::subscript(std::string(text.substr(i + 1, close - i - 1))));
+            i = close + 1;
+            if (i < text.size() && text[i] == '.') {
+                ++i;
+                key_open = true; // "x[1]." then a key, even an empty one
+            }
+            continue;
+        }
+        if (c == '.') {
+            key_open = true;
+            flush_key();
+            key_open = true;
+            ++i;
+            continue;
+        }
+        key.push_back(c);
+        key_open = true;
+        ++i;
+    }
+    flush_key();
+    return out;
+}
+
+std::string Path::text() const {
+    std::string out;
+    for (std::size_t i = 0; i < segments_.size(); ++i) {
+        const PathSegment& s = segments_[i];
+        if (s.kind == PathSegment::Kind::key) {
+            if (i > 0)
+                out.push_back('.');
+            out += s.text;
+        } else {
+            out.push_back('[');
+            out += s.text;
+            out.push_back(']');
+        }
+    }
+    return out;
+}
+
+bool Path::within(const Path& parent) const {
+    if (parent.segments_.size() > segments_.size())
+        return false;
+    for (std::size_t i = 0; i < parent.segments_.size(); ++i)
+        if (segments_[i] != parent.segments_[i])
+            return false;
+    return true;
+}
+
+Path Path::under(const Path& parent) const {
+    Path out = parent;
+    out.segments_.insert(out.segments_.end(), segments_.begin(), segments_.end());
+    return out;
+}
+
+Path Path::tail(std::size_t first) const {
+    if (first >= segments_.size())
+        return {};
+    return Path(std::vector<PathSegment>(segments_.begin() + static_cast<std::ptrdiff_t>(first),
+                                         segments_.end()));
+}
+
+bool path_within(const std::string& path, const std::string& field) {
+    return Path::parse(path).within(Path::parse(field));
+}
+
+int Subscripted::index() const {
+    return PathSegment::subscript(subscript).as_index();
+}
+
+std::optional<Subscripted> subscript_of(const Path& path, const Path& list) {
+    const std::size_t n = list.size();
+    if (path.size() <= n || !path.within(list) || path.segments()[n].kind == PathSegment::Kind::key)
         return std::nullopt;
     Subscripted out;
-    out.subscript = path.substr(list.size() + 1, close - list.size() - 1);
-    std::size_t rest = close + 1;
-    if (rest < path.size() && path[rest] == '.')
-        ++rest;
-    out.rest = path.substr(rest);
+    out.subscript = path.segments()[n].text;
+    out.rest_path = path.tail(n + 1);
+    out.rest = out.rest_path.text();
     return out;
+}
+
+std::optional<Subscripted> subscript_of(const std::string& path, const std::string& list) {
+    return subscript_of(Path::parse(path), Path::parse(list));
 }
 
 void require_finite(double v, const std::string& field) {

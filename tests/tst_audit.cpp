@@ -14,6 +14,7 @@
 //     crypto_pwhash_MEMLIMIT_INTERACTIVE (Argon2id: 2 passes, 64 MiB) for interactive logins.
 // The wording of the regulations is from memory.
 #include "chem/error.h"
+#include "core/failure.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
@@ -36,12 +37,15 @@ using namespace phaseplan::storage;
 
 namespace {
 
-/// Runs `f` and returns the field of the chem::Error it throws ("" when it does not throw).
+/// Runs `f` and returns the field of the chem::Error it throws, or the subject of the Failure
+/// ("database"); "" when it does not throw.
 template <class F> QString error_field(F&& f) {
     try {
         f();
     } catch (const chem::Error& e) {
         return QString::fromStdString(e.field());
+    } catch (const phaseplan::Failure& f) {
+        return QString::fromLatin1(f.subject()); // "database"
     }
     return {};
 }

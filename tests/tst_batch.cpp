@@ -7,6 +7,7 @@
 #include "chem/error.h"
 #include "chem/recipe.h"
 #include "core/chem_json.h"
+#include "core/failure.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
 #include "test_support.h"
@@ -88,6 +89,8 @@ QString expect_error(const std::function<void()>& f) {
         f();
     } catch (const chem::Error& e) {
         return QString::fromStdString(e.field());
+    } catch (const phaseplan::Failure& f) {
+        return QString::fromLatin1(f.subject());
     }
     return QStringLiteral("(no error)");
 }

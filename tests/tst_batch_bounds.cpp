@@ -7,6 +7,7 @@
 #include "batch_test_db.h"
 #include "chem/error.h"
 #include "core/batch_document.h"
+#include "core/failure.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
 
@@ -40,6 +41,8 @@ QString error_of(const std::function<void()>& f) {
         f();
     } catch (const chem::Error& e) {
         return QString::fromStdString(e.field()) + ": " + QString::fromStdString(e.what());
+    } catch (const phaseplan::Failure& f) {
+        return QString::fromLatin1(f.subject()) + ": " + QString::fromStdString(f.what());
     }
     return {};
 }

@@ -12,6 +12,7 @@
 // Sources: the rule itself (a save from a stale version is refused, "nothing is silently
 // overwritten") is the issue's; optimistic locking with a version column checked in the UPDATE's
 // WHERE clause is common practice, no source.
+#include "core/failure.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/batch_store.h"
@@ -112,6 +113,9 @@ int run_helper(const QString& mode, const QString& where, const QString& who,
         }
     } catch (const chem::Error& e) {
         std::cout << "error " << e.what() << std::endl;
+        return 2;
+    } catch (const phaseplan::Failure& f) {
+        std::cout << "error " << f.what() << std::endl;
         return 2;
     }
 }

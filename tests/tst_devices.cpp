@@ -2,6 +2,7 @@
 // serial line, a burst of readings, device records and their table. Instruments are played by
 // pseudo-terminals (tests/fake_instrument.h). Line shapes are "common practice, no source": the
 // presets are this project's own definitions (data/device_formats.json), described there.
+#include "core/failure.h"
 #include "devices/device_store.h"
 #include "devices/serial_reader.h"
 #include "fake_instrument.h"
@@ -720,7 +721,7 @@ class TestDevices : public QObject {
                     " line_format, unit, created_at, updated_at) VALUES ('X', '', 'scale', 'p', "
                     "9600, 8, 'none',"
                     " '1', 'none', 'number-unit', 'g', '', '')");
-        } catch (const chem::Error&) {
+        } catch (const phaseplan::Failure&) { // the CHECK constraint
             refused = true;
         }
         QVERIFY(refused);

@@ -3,9 +3,11 @@
 // succeeds (app/gui/workspace.*, Plan and BufferDesigner). The connection is cut for real on
 // PostgreSQL (pg_terminate_backend from a second session); the keeping and the restart also run
 // on a file.
+#include "batch_model.h"
 #include "buffer_designer.h"
 #include "gui_test_support.h"
 #include "plan.h"
+#include "storage/demo.h"
 #include "storage/sql_dialect.h"
 #include "test_backend.h"
 #include "workspace.h"
@@ -15,6 +17,7 @@
 #include <QStandardPaths>
 #include <QtTest>
 
+using phaseplan::gui::BatchModel;
 using phaseplan::gui::BufferDesigner;
 using phaseplan::gui::Plan;
 using phaseplan::gui::Workspace;
@@ -144,6 +147,32 @@ class TestConnection : public QObject {
         QVERIFY(ws->reconnectTimer().isActive());
         QVERIFY(ws->retryConnection());
         QVERIFY(ws->connected());
+    }
+
+    // Issue 10, part 3: the lost connection is a Failure, not an input's error. A model that meets
+    // it (here the batch screen reading a batch) shows it as its notice, under no input field, and
+    // the workspace's banner says the server is out of reach and retries, as for a failed save.
+    void a_model_that_meets_a_lost_connection_raises_the_banner() {
+        if (!phaseplan::testing::on_postgresql())
+            QSKIP("PostgreSQL only: a file has no connection to lose");
+        const QString uri = dbs_.fresh();
+        auto ws = open_workspace(uri);
+        BatchModel m;
+        m.setWorkspace(ws.get());
+        QVERIFY(m.open(phaseplan::storage::demo_batch_id()));
+        QVERIFY(ws->connected());
+        QVERIFY(cut_connections(uri) >= 1);
+        QVERIFY(!m.open(phaseplan::storage::demo_batch_id()));
+        QCOMPARE(m.errorField(), QString("database.connection"));
+        QVERIFY2(m.errorMessage().contains("connection to the lab database"),
+                 qPrintable(m.errorMessage()));
+        QVERIFY2(!m.errorMessage().contains("SELECT"), qPrintable(m.errorMessage()));
+        QVERIFY(!ws->connected());
+        QVERIFY2(ws->storageNotice().contains("out of reach"), qPrintable(ws->storageNotice()));
+        QVERIFY(ws->reconnectTimer().isActive());
+        QVERIFY(ws->retryConnection());
+        QVERIFY(m.open(phaseplan::storage::demo_batch_id()));
+        QVERIFY(m.errorField().isEmpty());
     }
 
     // A copy kept by a failed save outlives the app: the next start shows it and saves it.

@@ -3,7 +3,9 @@
 // "does this error belong to my field?" (issue 10). Common practice, no source: the syntax is
 // this project's own contract.
 #include "chem/error.h"
+#include "core/failure.h"
 #include "field_path.h"
+#include "model_util.h"
 
 #include <QTest>
 
@@ -48,6 +50,34 @@ class TestFieldPath : public QObject {
         QVERIFY(!FieldPath::belongsToAny("spectatorsx", {"spectators", "systems"}));
         QCOMPARE(FieldPath::index("batch.actual[3].mass_g", "batch.actual"), 3);
         QCOMPARE(FieldPath::index("batch.comment", "batch.actual"), -1);
+        // A reagent id with a dot is one subscript.
+        QVERIFY(
+            FieldPath::belongs("batch.actual[acme.buffer-7].lot", "batch.actual[acme.buffer-7]"));
+        QVERIFY(!FieldPath::belongs("batch.actual[acme.buffer-7].lot", "batch.actual[acme]"));
+    }
+    // Issue 10, part 3: guarded() is where the models catch both kinds. An input's error keeps its
+    // path; a Failure comes as its subject, which is_failure() tells apart, with no SQL.
+    void guardedTellsFailuresFromInputErrors() {
+        using phaseplan::Failure;
+        using phaseplan::gui::guarded;
+        const auto input =
+            guarded([] { throw chem::Error("lines.A.bottle_ml", "-1 is not positive"); });
+        QCOMPARE(input.field, QString("lines.A.bottle_ml"));
+        QVERIFY(!input.is_failure());
+        const auto lost = guarded([] {
+            throw Failure(Failure::Kind::connection_lost,
+                          "the connection to the lab database was lost");
+        });
+        QCOMPARE(lost.field, QString("database.connection"));
+        QCOMPARE(lost.message, QString("the connection to the lab database was lost"));
+        QVERIFY(lost.is_failure());
+        const auto file =
+            guarded([] { throw Failure(Failure::Kind::file, "cannot write \"x.pdf\""); });
+        QCOMPARE(file.field, QString("-o"));
+        QVERIFY(file.is_failure());
+        QCOMPARE(std::string(Failure(Failure::Kind::database, "locked").what()),
+                 std::string("database: locked"));
+        QVERIFY(guarded([] {}).empty());
     }
 };
 

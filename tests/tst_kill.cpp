@@ -9,6 +9,7 @@
 //
 // Helper mode: tst_kill --save-mixed DB FIRST   saves FIRST, FIRST+1, … printing "committed N"
 // (or "failed N: why") after each, until killed.
+#include "core/failure.h"
 #include "storage/batch_store.h"
 #include "storage/database.h"
 
@@ -90,6 +91,8 @@ int run_helper(const QString& path, int first) {
         try {
             save(db, store, n);
             std::printf("committed %d\n", n);
+        } catch (const phaseplan::Failure& e) { // the disk is full
+            std::printf("failed %d: %s\n", n, e.what());
         } catch (const chem::Error& e) {
             std::printf("failed %d: %s\n", n, e.what());
         }

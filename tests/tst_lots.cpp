@@ -16,6 +16,7 @@
 #include "chem/error.h"
 #include "core/app_data.h"
 #include "core/batch_document.h"
+#include "core/failure.h"
 #include "print/documents.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
@@ -37,12 +38,15 @@ using namespace phaseplan::storage;
 
 namespace {
 
-/// The chem::Error thrown by `f`: {field, message}; {"", ""} when it does not throw.
+/// The chem::Error thrown by `f`: {field, message}, or a Failure as {subject, sentence};
+/// {"", ""} when it does not throw.
 template <class F> std::pair<QString, QString> error_of(F&& f) {
     try {
         f();
     } catch (const chem::Error& e) {
         return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
+    } catch (const phaseplan::Failure& f) {
+        return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
     }
     return {};
 }

@@ -15,6 +15,7 @@
 // is the issue's; optimistic locking with a version column checked in the UPDATE's WHERE clause is
 // common practice, no source.
 #include "chem/error.h"
+#include "core/failure.h"
 #include "devices/device_store.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
@@ -35,12 +36,15 @@ using phaseplan::devices::DeviceStore;
 
 namespace {
 
-/// The chem::Error thrown by `f`: {field, message}; {"", ""} when it does not throw.
+/// The chem::Error thrown by `f`: {field, message}, or a Failure as {subject, sentence};
+/// {"", ""} when it does not throw.
 template <class F> std::pair<QString, QString> error_of(F&& f) {
     try {
         f();
     } catch (const chem::Error& e) {
         return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
+    } catch (const phaseplan::Failure& f) {
+        return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
     }
     return {};
 }

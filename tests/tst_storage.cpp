@@ -6,6 +6,7 @@
 // The kill cases run this same binary in a helper mode under QProcess and SIGKILL it:
 //   tst_storage --hold-in-save DB     saves, then blocks inside the next save's transaction
 //   tst_storage --save-forever DB     saves a counter in a loop, printing each committed value
+#include "core/failure.h"
 #include "storage/audit_trail.h"
 #include "storage/database.h"
 #include "storage/sql_dialect.h"
@@ -363,16 +364,17 @@ class TestStorage : public QObject {
         try {
             Database db(path);
             QFAIL("a newer schema was opened");
-        } catch (const chem::Error& e) {
-            QCOMPARE(QString::fromStdString(e.field()), QString("database"));
-            QVERIFY2(QString::fromStdString(e.message()).contains("newer"), e.what());
+        } catch (const phaseplan::Failure& e) {
+            QCOMPARE(QString::fromLatin1(e.subject()), QString("database"));
+            QVERIFY(e.kind() == phaseplan::Failure::Kind::database);
+            QVERIFY2(QString::fromStdString(e.sentence()).contains("newer"), e.what());
         }
         const QString junk = file("junk.sqlite");
         QFile f(junk);
         QVERIFY(f.open(QIODevice::WriteOnly));
         f.write(QByteArray(4096, 'x'));
         f.close();
-        QVERIFY_THROWS_EXCEPTION(chem::Error, Database{junk});
+        QVERIFY_THROWS_EXCEPTION(phaseplan::Failure, Database{junk});
     }
 
     // Issue 9: another program's SQLite file got PhasePlan's tables, user_version 4 and WAL; an
@@ -400,9 +402,9 @@ class TestStorage : public QObject {
             try {
                 Database db(path, -1, [](Database&) { QFAIL("a seed ran on an existing file"); });
                 QFAIL(qPrintable("opened " + path));
-            } catch (const chem::Error& e) {
-                QCOMPARE(QString::fromStdString(e.field()), QString("database"));
-                const QString m = QString::fromStdString(e.message());
+            } catch (const phaseplan::Failure& e) {
+                QCOMPARE(QString::fromLatin1(e.subject()), QString("database"));
+                const QString m = QString::fromStdString(e.sentence());
                 QVERIFY2(m.contains(path) &&
                              (m.contains("not PhasePlan") || m.contains("empty file")),
                          e.what());
@@ -498,8 +500,8 @@ class TestStorage : public QObject {
             try {
                 db.save(DocumentKind::method, "x", method_doc());
                 QFAIL("saved into a locked file");
-            } catch (const chem::Error& e) {
-                QVERIFY2(QString::fromStdString(e.message()).contains(path), e.what());
+            } catch (const phaseplan::Failure& e) {
+                QVERIFY2(QString::fromStdString(e.sentence()).contains(path), e.what());
             }
         }
         QVERIFY(QSqlQuery(holder).exec("ROLLBACK"));
@@ -628,6 +630,12 @@ class TestStorage : public QObject {
                 QVERIFY2(msg.contains(QString::fromUtf8(c.says)), e.what());
                 QVERIFY2(!msg.contains('\n') && !msg.contains("SELECT") && !msg.contains("secret"),
                          e.what());
+            } catch (const phaseplan::Failure& e) {
+                const QString msg = QString::fromStdString(e.sentence());
+                QVERIFY2(QString::fromLatin1(e.subject()) == c.field, e.what());
+                QVERIFY2(msg.contains(QString::fromUtf8(c.says)), e.what());
+                QVERIFY2(!msg.contains('\n') && !msg.contains("SELECT") && !msg.contains("secret"),
+                         e.what());
             }
         }
     }
@@ -660,8 +668,9 @@ class TestStorage : public QObject {
                 try {
                     db.exec(QString::fromLatin1(sql));
                     QFAIL(sql);
-                } catch (const chem::Error& e) {
-                    QVERIFY2(QString::fromStdString(e.message()).contains("append-only"), e.what());
+                } catch (const phaseplan::Failure& e) {
+                    QVERIFY2(QString::fromStdString(e.sentence()).contains("append-only"),
+                             e.what());
                 }
             }
         }
@@ -678,8 +687,8 @@ class TestStorage : public QObject {
         try {
             Database db(missing.toString());
             QFAIL("a database that does not exist was opened");
-        } catch (const chem::Error& e) {
-            QVERIFY2(QString::fromStdString(e.message())
+        } catch (const phaseplan::Failure& e) {
+            QVERIFY2(QString::fromStdString(e.sentence())
                          .contains("has no database "
                                    "\"no_such_database_here\""),
                      e.what());
@@ -691,6 +700,8 @@ class TestStorage : public QObject {
             try {
                 Database db(fresh("unused"));
             } catch (const chem::Error& e) {
+                said = QString::fromStdString(e.what());
+            } catch (const phaseplan::Failure& e) {
                 said = QString::fromStdString(e.what());
             }
         }
@@ -720,6 +731,10 @@ class TestStorage : public QObject {
                 return true;
             } catch (const chem::Error& e) {
                 field = e.field();
+                said = e.what();
+                return false;
+            } catch (const phaseplan::Failure& e) {
+                field = e.subject();
                 said = e.what();
                 return false;
             }
@@ -781,8 +796,8 @@ class TestStorage : public QObject {
         try {
             Database db(foreign, -1, [](Database&) { QFAIL("a seed ran on a foreign database"); });
             QFAIL("another program's database was opened");
-        } catch (const chem::Error& e) {
-            QVERIFY2(QString::fromStdString(e.message())
+        } catch (const phaseplan::Failure& e) {
+            QVERIFY2(QString::fromStdString(e.sentence())
                          .contains("another program's tables "
                                    "(invoices)"),
                      e.what());
@@ -795,8 +810,8 @@ class TestStorage : public QObject {
         try {
             Database db(newer);
             QFAIL("a newer schema was opened");
-        } catch (const chem::Error& e) {
-            QVERIFY2(QString::fromStdString(e.message()).contains("newer than this program's"),
+        } catch (const phaseplan::Failure& e) {
+            QVERIFY2(QString::fromStdString(e.sentence()).contains("newer than this program's"),
                      e.what());
         }
     }
@@ -812,8 +827,8 @@ class TestStorage : public QObject {
         try {
             Database db(path);
             QFAIL("a newer schema was opened");
-        } catch (const chem::Error& e) {
-            QVERIFY2(QString::fromStdString(e.message()).contains(path), e.what());
+        } catch (const phaseplan::Failure& e) {
+            QVERIFY2(QString::fromStdString(e.sentence()).contains(path), e.what());
         }
     }
 

@@ -5,6 +5,7 @@
 #include "core/app_data.h"
 #include "core/commands.h"
 #include "core/eluent_commands.h"
+#include "core/failure.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
@@ -172,6 +173,9 @@ int run_device(int argc, char** argv) {
     } catch (const chem::Error& e) {
         fail(e.what());
         return 2;
+    } catch (const phaseplan::Failure& f) {
+        fail(f.line());
+        return 2;
     } catch (const std::exception& e) {
         fail(std::string("internal error: ") + e.what());
         return 2;
@@ -226,6 +230,9 @@ int run_records(int argc, char** argv) {
         return out.status;
     } catch (const chem::Error& e) {
         fail(e.field() + ": " + e.message());
+        return 2;
+    } catch (const phaseplan::Failure& f) {
+        fail(f.line()); // the database, as bad input: status 2 and one line, as before
         return 2;
     } catch (const std::exception& e) {
         fail(std::string("internal error: ") + e.what());
@@ -366,6 +373,9 @@ int main(int argc, char** argv) {
         return 0;
     } catch (const chem::Error& e) {
         fail(error_line(e));
+        return 2;
+    } catch (const phaseplan::Failure& f) {
+        fail(f.line()); // the PDF file could not be written: status 2, one line, as before
         return 2;
     } catch (const std::bad_alloc&) {
         fail("input: not enough memory to read and work on this document");

@@ -240,14 +240,15 @@ chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& 
     try {
         return chem::evaluate_batch(lib, recipe, sub, shelf_h);
     } catch (const chem::Error& e) {
-        const auto at = chem::subscript_of(e.field(), "batch.actual");
+        static const chem::Path actual = chem::Path::parse("batch.actual");
+        const auto at = chem::subscript_of(e.path(), actual);
         const int k = at ? at->index() : -1;
         if (k < 0)
             throw;
         const int original = k < int(indexes.size()) ? indexes[k] : k;
-        throw chem::Error("batch.actual[" + std::to_string(original) + "]" +
-                              (at->rest.empty() ? "" : "." + at->rest),
-                          e.message());
+        chem::Path renumbered = actual;
+        renumbered /= chem::PathSegment::index(static_cast<std::size_t>(original));
+        throw chem::Error(at->rest_path.under(renumbered), e.message());
     }
 }
 

@@ -26,9 +26,11 @@ QJsonObject per_line(const chem::LineValues& v) {
 /// chem names a method's fields "methods.<name>.…"; a document with one "method" names them
 /// "method.…".
 [[noreturn]] void rethrow_for_single_method(const chem::Error& e, const std::string& name) {
-    const std::string prefix = "methods." + name;
-    if (e.field().rfind(prefix, 0) == 0)
-        throw chem::Error("method" + e.field().substr(prefix.size()), e.message());
+    // The name is read as the path text reads it (a dotted name is several keys on both sides).
+    const chem::Path prefix = chem::Path::parse("methods." + name);
+    if (e.path().within(prefix))
+        throw chem::Error(e.path().tail(prefix.size()).under(chem::Path::parse("method")),
+                          e.message());
     throw e;
 }
 

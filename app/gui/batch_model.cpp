@@ -175,6 +175,8 @@ QString BatchModel::who() const {
 }
 
 void BatchModel::set_error(const FieldError& e) {
+    if (e.is_failure() && workspace_)
+        workspace_->failureSeen(e.field);
     if (error_ == e)
         return;
     error_ = e;

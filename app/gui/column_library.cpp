@@ -2,8 +2,10 @@
 
 #include "chem/error.h"
 #include "core/date_time.h"
+#include "core/failure.h"
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
+#include "field_path.h"
 #include "workspace.h"
 
 #include <QJsonDocument>
@@ -359,7 +361,7 @@ QVariantMap ColumnLibrary::all_errors(QJsonObject doc) const {
                     doc.insert("ph_min", std::min(doc.value("ph_min").toDouble(), 2.0));
                 replaced = true;
             }
-        if (e.field.startsWith("reference")) {
+        if (FieldPath::belongs(e.field, QStringLiteral("reference"))) {
             QJsonObject r = doc.value("reference").toObject();
             const QString sub = e.field.mid(QStringLiteral("reference.").size());
             if (sub == "pressure_bar")
@@ -390,7 +392,7 @@ bool ColumnLibrary::save(const QVariantMap& draft) {
     if (errors.isEmpty()) {
         const FieldError err = guarded([&] {
             if (!workspace_ || !workspace_->database())
-                throw chem::Error("database", "the workspace is not open");
+                throw Failure(Failure::Kind::database, "the workspace is not open");
             ColumnRecord c{draft.value("id").toLongLong(), doc.value("name").toString(), doc};
             c.version = draft.value("version").toLongLong(); // as listed; 0 for a new one
             ColumnStore(*workspace_->database()).save(c);

@@ -2,6 +2,7 @@
 
 #include "column_library.h"
 #include "core/pressure_commands.h"
+#include "field_path.h"
 #include "workspace.h"
 
 #include <QJsonArray>
@@ -130,19 +131,20 @@ void ColumnTransfer::recompute() {
         QJsonObject out;
         QString pressure_note;
         FieldError err = guarded([&] { out = command_transfer(ws->data(), with_lines, {}); });
-        const bool own_field = err.field.startsWith(QLatin1String("to")) ||
-                               err.field.startsWith(QLatin1String("from")) ||
-                               err.field == QLatin1String("injection_ul") ||
-                               err.field.startsWith(QLatin1String("method"));
+        const bool own_field = FieldPath::belongsToAny(
+            err.field,
+            {QStringLiteral("to"), QStringLiteral("from"), QStringLiteral("injection_ul"),
+             QStringLiteral("method"), QStringLiteral("methods")});
         if (!err.empty() && !own_field) {
             // The lines or the instrument stop the pressure, not the move: move without them.
             pressure_note = tr("No pressure on the new column: %1").arg(err.message);
             err = guarded([&] { out = command_transfer(ws->data(), input, {}); });
         }
         if (!err.empty()) {
-            if (err.field.startsWith(QLatin1String("to")) || err.field == "injection_ul")
+            if (FieldPath::belongsToAny(err.field,
+                                        {QStringLiteral("to"), QStringLiteral("injection_ul")}))
                 errors.insert(view_field(err.field), err.message);
-            else if (err.field.startsWith(QLatin1String("from")))
+            else if (FieldPath::belongs(err.field, QStringLiteral("from")))
                 problem = tr("The column of method “%1”: %2").arg(method_, err.message);
             else
                 problem = err.field.isEmpty() ? err.message : err.field + ": " + err.message;

@@ -99,7 +99,7 @@ void DeviceCapture::reloadDevices() {
 bool DeviceCapture::saveDevice(const QVariantMap& device) {
     const FieldError err = guarded([&] {
         if (!workspace_ || !workspace_->database())
-            throw chem::Error("database", "the workspace is not open");
+            throw Failure(Failure::Kind::database, "the workspace is not open");
         QJsonObject o = QJsonObject::fromVariantMap(device);
         // What the lists add for the screen is not part of the record's JSON (an instrument
         // edited from its listed map comes back with them).

@@ -73,18 +73,6 @@ QString key_words(const QString& key) {
 
 namespace {
 
-/// "parts[2]" → ("parts", 2); "parts" → ("parts", -1).
-std::pair<QString, int> split_index(const QString& seg) {
-    const int open = seg.indexOf(QLatin1Char('['));
-    if (open < 0)
-        return {seg, -1};
-    const QString key = seg.left(open);
-    const auto s = chem::subscript_of(seg.toStdString(), key.toStdString());
-    if (!s || !s->rest.empty() || s->index() < 0)
-        return {seg, -1};
-    return {key, s->index()};
-}
-
 QString indexed(const QString& key, int i) {
     if (key == QLatin1String("gradient"))
         return QObject::tr("gradient row %1").arg(i + 1);
@@ -139,14 +127,33 @@ QString field_words(const QString& path, const QStringList& method_names) {
     } else if (rest.startsWith(QLatin1String("prime_ml."))) {
         return QObject::tr("Priming of line %1").arg(rest.mid(9, 1));
     }
-    const QStringList segs = rest.isEmpty() ? QStringList() : rest.split(QLatin1Char('.'));
-    for (const QString& seg : segs) {
-        const auto [key, i] = split_index(seg);
-        if (key == QLatin1String("buffer")) {
-            out << QObject::tr("buffer");
+    // The rest by segment (chem::Path): a key with the list index after it is one entry
+    // ("parts[2]" → "part 3"); a subscript that is not an index stays as written.
+    const chem::Path segs = chem::Path::parse(rest.toStdString());
+    const auto& v = segs.segments();
+    for (std::size_t k = 0; k < v.size(); ++k) {
+        const QString key = QString::fromStdString(v[k].text);
+        if (v[k].kind != chem::PathSegment::Kind::key) { // a bracket without a key before it
+            out << key_words(QLatin1Char('[') + key + QLatin1Char(']'));
             continue;
         }
-        out << (i >= 0 ? indexed(key, i) : key_words(key));
+        const chem::PathSegment* next = k + 1 < v.size() ? &v[k + 1] : nullptr;
+        if (key == QLatin1String("buffer")) {
+            out << QObject::tr("buffer");
+            if (next && next->kind != chem::PathSegment::Kind::key)
+                ++k;
+            continue;
+        }
+        if (next && next->kind == chem::PathSegment::Kind::index) {
+            out << indexed(key, next->as_index());
+            ++k;
+        } else if (next && next->kind == chem::PathSegment::Kind::subscript) {
+            out << key_words(key + QLatin1Char('[') + QString::fromStdString(next->text) +
+                             QLatin1Char(']'));
+            ++k;
+        } else {
+            out << key_words(key);
+        }
     }
     return capitalised(out.join(QStringLiteral(", ")));
 }

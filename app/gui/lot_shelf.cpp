@@ -95,6 +95,8 @@ void LotShelfModel::update_write_block() {
 }
 
 void LotShelfModel::set_error(const FieldError& e) {
+    if (e.is_failure() && workspace_)
+        workspace_->failureSeen(e.field);
     if (e == error_)
         return;
     error_ = e;

@@ -1,7 +1,8 @@
 #pragma once
-// Small helpers shared by the models: the one place chem::Error is caught on the GUI side, JSON
-// to QVariant for QML, and series filling for Qt Charts.
+// Small helpers shared by the models: the one place chem::Error and Failure are caught on the GUI
+// side, JSON to QVariant for QML, and series filling for Qt Charts.
 #include "chem/error.h"
+#include "core/failure.h"
 
 #include <QElapsedTimer>
 #include <QJsonArray>
@@ -18,22 +19,34 @@ class QObject;
 namespace phaseplan::gui {
 
 /// The error a model shows beside a field: `field` is the JSON path the core names
-/// ("target_ph", "lines.A.bottle_ml"), empty when there is none.
+/// ("target_ph", "lines.A.bottle_ml"), empty when there is none. A Failure (not about an input)
+/// comes as its subject ("database", "database.connection", "printer", "-o"), which no input
+/// field is; is_failure() tells it apart, and the views show it as a notice.
 struct FieldError {
     QString field;
     QString message;
     bool operator==(const FieldError&) const = default;
     bool empty() const { return field.isEmpty() && message.isEmpty(); }
+    /// Whether this is a Failure (core/failure.h) rather than an input's error: its field is a
+    /// Failure's subject.
+    bool is_failure() const { return Failure::is_subject(field.toStdString()); }
 };
 
-/// Runs `f`; a chem::Error becomes a FieldError. Anything else is unexpected (chem/ throws only
-/// chem::Error) but still shown, never a crash.
+/// A Failure as the models carry it.
+inline FieldError failure_error(const Failure& f) {
+    return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
+}
+
+/// Runs `f`; a chem::Error or a Failure becomes a FieldError. Anything else is unexpected (chem/
+/// throws only chem::Error, app/ Failure) but still shown, never a crash.
 template <class F> FieldError guarded(F&& f) {
     try {
         std::forward<F>(f)();
         return {};
     } catch (const chem::Error& e) {
         return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
+    } catch (const Failure& f) {
+        return failure_error(f);
     } catch (const std::exception& e) {
         return {QString(), QStringLiteral("internal error: ") + QString::fromUtf8(e.what())};
     }

@@ -1,6 +1,7 @@
 #include "session.h"
 
 #include "chem/error.h"
+#include "core/failure.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/database.h"
@@ -71,6 +72,8 @@ bool Session::accountsExist() const {
         any = storage::AccountStore(c).any();
     } catch (const chem::Error&) {
         any = false;
+    } catch (const Failure&) {
+        any = false;
     }
     return any;
 }
@@ -122,6 +125,8 @@ bool Session::signIn(const QString& login, const QString& password) {
         locked_ = false;
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
     succeed();
     start_idle_timer();
@@ -183,6 +188,8 @@ bool Session::createAdministrator(const QString& login, const QString& name,
             .add(login.trimmed(), name.trimmed(), storage::Role::administrator, password, {});
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
     return signIn(login.trimmed(), password);
 }
@@ -199,6 +206,8 @@ bool Session::addAccount(const QString& login, const QString& name, const QStrin
             .add(login.trimmed(), name.trimmed(), storage::role_from_name(role), password, login_);
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
     succeed();
     emit accountAdded(login.trimmed());

@@ -4,6 +4,7 @@
 
 #include "chem/error.h"
 #include "core/date_time.h"
+#include "core/failure.h"
 #include "core/solvent_data.h"
 #include "storage/demo.h"
 
@@ -64,9 +65,11 @@ bool Workspace::pollChanges() {
         counter = storage::change_counter(db_->connection());
         if (counter != last_change_counter_)
             library = db_->user_entries_stamp();
-    } catch (const chem::Error& e) {
-        if (e.field() == "database.connection")
+    } catch (const Failure& f) {
+        if (f.kind() == Failure::Kind::connection_lost)
             connectionLost(); // says so, and tries again every 5 s
+        return false;
+    } catch (const chem::Error&) {
         return false;
     }
     if (counter == last_change_counter_)
@@ -155,9 +158,17 @@ bool Workspace::open() {
         if (!db_->writable())
             qInfo("PhasePlan: %s", qPrintable(db_->read_only_reason()));
     } catch (const chem::Error& e) {
+        // An address typed wrong ("database.port", "database.password", …).
         error_ = QString::fromStdString(e.what());
         error_field_ = QString::fromStdString(e.field());
         error_sentence_ = QString::fromStdString(e.message());
+        db_.reset();
+        qWarning("PhasePlan: %s", qPrintable(error_));
+    } catch (const Failure& f) {
+        // The file or the server: the start screen says it (errorField "database").
+        error_ = QString::fromStdString(f.line());
+        error_field_ = QString::fromLatin1(f.subject());
+        error_sentence_ = QString::fromStdString(f.sentence());
         db_.reset();
         qWarning("PhasePlan: %s", qPrintable(error_));
     }
@@ -197,7 +208,7 @@ void Workspace::saveFailed(const QString& what, const QString& message, const QS
                                      {"kept_at", wall_clock_iso(now())}});
         write_kept(kept);
     }
-    if (field == QLatin1String("database.connection")) {
+    if (field == QLatin1String(Failure::subject_of(Failure::Kind::connection_lost))) {
         connectionLost();
         return;
     }
@@ -266,6 +277,11 @@ void Workspace::write_kept(const QJsonObject& kept) const {
     f.commit();
 }
 
+void Workspace::failureSeen(const QString& subject) {
+    if (subject == QLatin1String(Failure::subject_of(Failure::Kind::connection_lost)))
+        connectionLost();
+}
+
 void Workspace::connectionLost() {
     if (connection_lost_)
         return;
@@ -316,6 +332,8 @@ void Workspace::reloadLibrary() {
         library_problem_.clear();
     } catch (const chem::Error& e) {
         library_problem_ = QString::fromStdString(e.what());
+    } catch (const Failure& f) {
+        library_problem_ = QString::fromStdString(f.line());
     }
     names_.clear();
     for (const QString& kind : {QStringLiteral("solvents"), QStringLiteral("additives")})
@@ -346,6 +364,8 @@ void Workspace::setSetting(const QString& key, const QVariant& value) {
         return; // the banner says that nothing is saved
     try {
         db_->set_setting(key, QJsonValue::fromVariant(value));
+    } catch (const Failure& f) {
+        qWarning("PhasePlan: %s", f.what());
     } catch (const chem::Error& e) {
         qWarning("PhasePlan: %s", e.what());
     }

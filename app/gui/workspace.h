@@ -140,6 +140,10 @@ class Workspace : public QObject, public QQmlParserStatus {
     Q_INVOKABLE bool retryConnection();
     /// The connection was seen lost (a failed save, or the change poll).
     void connectionLost();
+    /// A model met a Failure (core/failure.h) with this subject (its FieldError's field): a lost
+    /// connection goes to the banner and starts the reconnection, like a failed save. Other
+    /// failures stay the model's notice.
+    void failureSeen(const QString& subject);
     const QTimer& reconnectTimer() const { return reconnect_; }
 
     /// data/demo/overnight-sequence.json, empty when absent.

@@ -2,6 +2,7 @@
 
 #include "chem/error.h"
 #include "core/date_time.h"
+#include "core/failure.h"
 #include "print/documents.h"
 #include "print/sheet.h"
 
@@ -73,6 +74,9 @@ QVariantMap PrintController::preview(const QVariantMap& document) {
     } catch (const chem::Error& e) {
         fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
         return {};
+    } catch (const Failure& f) {
+        fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
+        return {};
     }
 }
 
@@ -99,6 +103,8 @@ bool PrintController::save_sheet(const QVariantMap& document, const BatchRelease
         return true;
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
 }
 
@@ -124,6 +130,8 @@ bool PrintController::save_labels(const QVariantMap& document, const BatchReleas
         return true;
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
 }
 
@@ -169,6 +177,8 @@ bool PrintController::print_on(const QString& printer_name,
         return succeed();
     } catch (const chem::Error& e) {
         return fail(QString::fromStdString(e.field()), QString::fromStdString(e.message()));
+    } catch (const Failure& f) {
+        return fail(QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence()));
     }
 }
 

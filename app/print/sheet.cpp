@@ -13,6 +13,7 @@
 #include <unistd.h>
 
 #include "chem/error.h"
+#include "core/failure.h"
 #include "print/ghs.h"
 #include "print/qr.h"
 
@@ -758,7 +759,7 @@ int render_sheet(QPagedPaintDevice& device, const SheetDocument& doc, Paper pape
     }
     QPainter painter;
     if (!painter.begin(&device))
-        throw chem::Error("-o", "cannot paint on the output device");
+        throw Failure(Failure::Kind::file, "cannot paint on the output device");
     painter.setRenderHint(QPainter::Antialiasing, true);
     Canvas c(device, &painter);
     const int painted = SheetFlow(c, doc, pages).run();
@@ -778,7 +779,7 @@ int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Pap
         throw chem::Error("batch", "there is nothing to put on a label");
     QPainter painter;
     if (!painter.begin(&device))
-        throw chem::Error("-o", "cannot paint on the output device");
+        throw Failure(Failure::Kind::file, "cannot paint on the output device");
     painter.setRenderHint(QPainter::Antialiasing, true);
     Canvas c(device, &painter);
     const int per_page = g.columns * g.rows;
@@ -812,7 +813,7 @@ QString checked_output_path(const QString& path, bool follow_symlinks, int& mode
     if (::lstat(target.constData(), &st) != 0) {
         if (errno == ENOENT)
             return path; // a new file
-        throw chem::Error("-o", "cannot write " + shown + ": " + std::strerror(errno));
+        throw Failure(Failure::Kind::file, "cannot write " + shown + ": " + std::strerror(errno));
     }
     if (S_ISLNK(st.st_mode)) {
         if (!follow_symlinks)
@@ -824,7 +825,7 @@ QString checked_output_path(const QString& path, bool follow_symlinks, int& mode
             // A dangling link: its target does not exist yet; write the link's own target path.
             const QString t = QFileInfo(path).symLinkTarget();
             if (t.isEmpty())
-                throw chem::Error("-o", "cannot resolve the link " + shown);
+                throw Failure(Failure::Kind::file, "cannot resolve the link " + shown);
             target = QFile::encodeName(t);
             if (::lstat(target.constData(), &st) != 0)
                 return t;
@@ -854,8 +855,8 @@ int write_pdf_atomically(const QString& path, const QString& title,
     const QString target = checked_output_path(path, follow_symlinks, old_mode);
     QSaveFile file(target);
     if (!file.open(QIODevice::WriteOnly))
-        throw chem::Error("-o", "cannot write \"" + path.toStdString() +
-                                    "\": " + file.errorString().toStdString());
+        throw Failure(Failure::Kind::file, "cannot write \"" + path.toStdString() +
+                                               "\": " + file.errorString().toStdString());
     int pages = 0;
     {
         QPdfWriter writer(&file);
@@ -865,8 +866,8 @@ int write_pdf_atomically(const QString& path, const QString& title,
         pages = paint(writer); // an exception here leaves QSaveFile uncommitted: no file appears
     }
     if (!file.commit())
-        throw chem::Error("-o", "cannot write \"" + path.toStdString() +
-                                    "\": " + file.errorString().toStdString());
+        throw Failure(Failure::Kind::file, "cannot write \"" + path.toStdString() +
+                                               "\": " + file.errorString().toStdString());
     // QSaveFile's new file has the default mode: a replaced file keeps its own (read-only stays
     // so).
     if (old_mode >= 0)

@@ -109,7 +109,8 @@ int render_labels(QPagedPaintDevice& device, const QList<LabelData>& labels, Pap
 
 /// Writes a PDF atomically: to a temporary file beside `path` (QSaveFile), renamed onto `path`
 /// only when `paint` returned. `paint` receives the writer and returns the page count. Throws
-/// chem::Error("-o", …) when the file cannot be written; on any exception no file is left behind.
+/// Failure(Kind::file) when the file cannot be written, chem::Error("-o", …) when the path is
+/// refused (a link, not a regular file, read-only); on any exception no file is left behind.
 /// Writes only to a regular file or a new path: a device node, FIFO, socket or folder is refused,
 /// and so is a symbolic link unless `follow_symlinks` (then its target, which must itself be a
 /// regular file or new, is written). A replaced file keeps its permission bits.

@@ -1,4 +1,5 @@
 #include "storage/accounts.h"
+#include "core/failure.h"
 
 #include "chem/error.h"
 #include "chem/guard.h"
@@ -27,7 +28,8 @@ std::string quoted(const QString& s) {
 
 void ensure_sodium() {
     if (sodium_init() < 0)
-        throw chem::Error("database", "libsodium could not start (no source of randomness)");
+        throw Failure(Failure::Kind::database,
+                      "libsodium could not start (no source of randomness)");
 }
 
 void check_login(const QString& login) {
@@ -120,8 +122,9 @@ QString hash_password(const QString& password) {
                               crypto_pwhash_OPSLIMIT_INTERACTIVE,
                               crypto_pwhash_MEMLIMIT_INTERACTIVE,
                               crypto_pwhash_ALG_ARGON2ID13) != 0)
-        throw chem::Error("database", "the password could not be hashed (out of memory: Argon2id "
-                                      "needs 64 MiB)");
+        throw Failure(Failure::Kind::database,
+                      "the password could not be hashed (out of memory: Argon2id "
+                      "needs 64 MiB)");
     return QString::fromLatin1(out);
 }
 

@@ -59,7 +59,8 @@ struct Account {
 bool may_edit_records(Role r);
 
 /// libsodium's Argon2id string for `password` (the salt is random). Throws chem::Error("password",
-/// …) when the password breaks the length rule, ("database", …) when libsodium fails (memory).
+/// …) when the password breaks the length rule, Failure (Kind::database) when libsodium fails
+/// (memory).
 QString hash_password(const QString& password);
 /// True when `password` matches a crypto_pwhash_str string.
 bool password_matches(const QString& hash, const QString& password);

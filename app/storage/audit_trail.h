@@ -76,7 +76,7 @@ QJsonObject audit_change(const QString& field, const QJsonValue& old_value,
 
 /// Appends one entry: numbers it, chains it and moves the anchor. Must run inside the caller's
 /// write transaction (the number is read under its lock). `logged_at` empty means now (UTC).
-/// Returns the entry as stored. Throws chem::Error("database", …) on SQL failure.
+/// Returns the entry as stored. Throws Failure on SQL failure.
 AuditEntry append_audit(QSqlDatabase db, const QString& logged_at, const QString& login,
                         const QString& action, const QString& record_type, const QString& record_id,
                         const QString& reason, const QJsonObject& changes);

@@ -118,7 +118,7 @@ class BatchStore {
     explicit BatchStore(QSqlDatabase db);
 
     /// Creates the batch tables if they are absent (for a connection that did not go through the
-    /// app's migrations). Throws chem::Error("database", …) on SQL failure.
+    /// app's migrations). Throws Failure on SQL failure.
     static void ensure_schema(QSqlDatabase db);
 
     /// Stores a new batch, with one "create" history row per field set. Throws chem::Error:

@@ -1,4 +1,5 @@
 #include "storage/database.h"
+#include "core/failure.h"
 
 #include "storage/sql_dialect.h"
 
@@ -56,7 +57,7 @@ QJsonObject from_text(const QString& s) {
 }
 
 [[noreturn]] void fail(const QString& what) {
-    throw chem::Error("database", what.toStdString());
+    throw Failure(Failure::Kind::database, what.toStdString());
 }
 
 QString unique_connection_name() {
@@ -439,10 +440,10 @@ Database::~Database() {
 void Database::fail_lost_connection(const QSqlError& e) const {
     if (!sql::connection_lost(db_, e))
         return;
-    throw chem::Error("database.connection",
-                      QStringLiteral("the connection to the lab database at %1 was lost")
-                          .arg(sql::parse_postgresql_uri(path_).where())
-                          .toStdString());
+    throw Failure(Failure::Kind::connection_lost,
+                  QStringLiteral("the connection to the lab database at %1 was lost")
+                      .arg(sql::parse_postgresql_uri(path_).where())
+                      .toStdString());
 }
 
 bool Database::reconnect() {
@@ -459,7 +460,7 @@ bool Database::reconnect() {
             return false;
         exec(QStringLiteral("SELECT 1"));
         return true;
-    } catch (const chem::Error&) {
+    } catch (const Failure&) {
         return false;
     }
 }
@@ -633,7 +634,7 @@ void Database::set_aside_oversized() {
 
 Database::Transaction::Transaction(Database& db) : db_(db) {
     if (!db_.writable())
-        throw chem::Error("database", db_.read_only_reason_.toStdString());
+        throw Failure(Failure::Kind::database, db_.read_only_reason_.toStdString());
     // The connection's depth, shared with sql::WriteTransaction (a store's write inside this one
     // nests as a savepoint, and this one inside a store's too).
     depth_ = std::max(db_.transaction_depth_, sql::transaction_depth(db_.db_)) + 1;

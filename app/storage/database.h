@@ -9,8 +9,10 @@
 // process inside a save). The schema is versioned (PRAGMA user_version) and migrated forward by the
 // ordered steps in app/storage/migrations.cpp: see the comment there to add one.
 //
-// Errors: everything here throws chem::Error. The field is "database" for the file itself
-// (cannot open, newer schema, SQL failure) and the document's name or id for bad arguments.
+// Errors: the file or server itself (cannot open, not PhasePlan's, newer schema, locked, a
+// statement refused, the connection lost) throws phaseplan::Failure (core/failure.h: Kind::database
+// or Kind::connection_lost, one sentence without SQL); a bad argument throws chem::Error naming it
+// (the document's name or id, "version" for a stale save, "database.port" for a wrong address).
 #include "chem/error.h"
 #include "storage/sql_dialect.h"
 #include "storage/versioning.h"
@@ -118,7 +120,7 @@ class Database {
     /// refused and left byte-identical. A file that cannot be written (permissions) or whose write
     /// lock another program holds past busy_timeout_ms is opened read-only: writable() is false
     /// and read_only_reason() says why, with the path.
-    /// Throws chem::Error("database", …) when the file cannot be opened, is not PhasePlan's, or has
+    /// Throws Failure (Kind::database) when the file cannot be opened, is not PhasePlan's, or has
     /// a schema newer than this program knows.
     ///
     /// `path` may instead be a PostgreSQL URI (postgresql://user@host:port/dbname, or
@@ -274,10 +276,9 @@ class Database {
         int depth_ = 0; ///< 1 for the outermost (BEGIN IMMEDIATE); more is a SAVEPOINT
     };
 
-    /// Runs one statement with positional bindings; throws chem::Error("database", …) naming the
-    /// SQL and the driver's message. Returns the executed query for reading rows.
-    /// Runs one statement. Throws chem::Error "database" with one sentence, or
-    /// "database.connection" when the lab server's connection is gone (see reconnect()).
+    /// Runs one statement with positional bindings and returns the executed query for reading
+    /// rows. Throws Failure: Kind::database with one sentence (never the SQL), or
+    /// Kind::connection_lost when the lab server's connection is gone (see reconnect()).
     QSqlQuery exec(const QString& sql, const QVariantList& bindings = {}) const;
     /// After a lost connection (PostgreSQL): checks the connection and opens it again if it is
     /// gone (with the password typed for this run, if any). True when it works again; a file is
@@ -292,7 +293,7 @@ class Database {
     /// Throws when the PostgreSQL database holds another program's tables (or application id).
     void refuse_foreign_postgresql() const;
     void close_connection();
-    /// Throws "database.connection" when `e` says the server's connection is gone.
+    /// Throws Failure(Kind::connection_lost) when `e` says the server's connection is gone.
     void fail_lost_connection(const QSqlError& e) const;
     void configure();
     void probe_writable();

@@ -1,4 +1,5 @@
 #include "storage/records_cli.h"
+#include "core/failure.h"
 
 #include "chem/batch.h"
 #include "chem/error.h"
@@ -104,42 +105,43 @@ class ReadOnlyFile {
             const sql::PgLocation loc = sql::parse_postgresql_uri(path);
             db_ = sql::open_postgresql(loc, name_, true);
             if (sql::application_id(db_) != phaseplan_application_id)
-                throw chem::Error("database", "the database " + quoted(loc.dbname) + " at " +
-                                                  loc.where().toStdString() +
-                                                  " is not a PhasePlan database");
+                throw Failure(Failure::Kind::database, "the database " + quoted(loc.dbname) +
+                                                           " at " + loc.where().toStdString() +
+                                                           " is not a PhasePlan database");
             if (!has_audit_schema(db_))
-                throw chem::Error("database", "the database " + quoted(loc.dbname) + " at " +
-                                                  loc.where().toStdString() +
-                                                  " has no audit trail yet: open it once with "
-                                                  "this PhasePlan to add it");
+                throw Failure(Failure::Kind::database,
+                              "the database " + quoted(loc.dbname) + " at " +
+                                  loc.where().toStdString() +
+                                  " has no audit trail yet: open it once with "
+                                  "this PhasePlan to add it");
             return;
         }
         const QFileInfo fi(path);
         if (!fi.exists())
-            throw chem::Error("database", "no file " + quoted(path));
+            throw Failure(Failure::Kind::database, "no file " + quoted(path));
         if (!fi.isFile())
-            throw chem::Error("database", quoted(path) + " is not a file");
+            throw Failure(Failure::Kind::database, quoted(path) + " is not a file");
         db_ = QSqlDatabase::addDatabase(QStringLiteral("QSQLITE"), name_);
         db_.setDatabaseName(path);
         db_.setConnectOptions(QStringLiteral("QSQLITE_OPEN_READONLY;QSQLITE_BUSY_TIMEOUT=3000"));
         if (!db_.open())
-            throw chem::Error("database", "cannot open " + quoted(path) + ": " +
-                                              db_.lastError().text().toStdString());
+            throw Failure(Failure::Kind::database, "cannot open " + quoted(path) + ": " +
+                                                       db_.lastError().text().toStdString());
         QSqlQuery q(db_);
         qint64 app_id = -1;
         if (q.exec(QStringLiteral("PRAGMA application_id")) && q.next())
             app_id = q.value(0).toLongLong();
         if (app_id != phaseplan_application_id)
-            throw chem::Error("database", quoted(path) + " is not a PhasePlan database");
+            throw Failure(Failure::Kind::database, quoted(path) + " is not a PhasePlan database");
         if (!has_audit_schema(db_)) {
             int version = 0;
             QSqlQuery v(db_);
             if (v.exec(QStringLiteral("PRAGMA user_version")) && v.next())
                 version = v.value(0).toInt();
-            throw chem::Error("database", quoted(path) +
-                                              " has no audit trail yet (schema version " +
-                                              std::to_string(version) +
-                                              "): open it once with this PhasePlan to add it");
+            throw Failure(Failure::Kind::database,
+                          quoted(path) + " has no audit trail yet (schema version " +
+                              std::to_string(version) +
+                              "): open it once with this PhasePlan to add it");
         }
     }
     ~ReadOnlyFile() {
@@ -158,10 +160,10 @@ class ReadOnlyFile {
 /// Opens (or, for user add, creates) the database through the app's checks and migrations.
 std::unique_ptr<Database> open_database(const QString& path, bool may_create) {
     if (!may_create && !sql::is_postgresql_uri(path) && !QFileInfo::exists(path))
-        throw chem::Error("database", "no file " + quoted(path));
+        throw Failure(Failure::Kind::database, "no file " + quoted(path));
     auto db = std::make_unique<Database>(path);
     if (!db->writable())
-        throw chem::Error("database", db->read_only_reason().toStdString());
+        throw Failure(Failure::Kind::database, db->read_only_reason().toStdString());
     return db;
 }
 
@@ -615,8 +617,8 @@ CliOutput db_copy(const Options& o) {
             QSqlQuery insert(dst);
             if (!insert.prepare(QStringLiteral("INSERT INTO %1 (%2) VALUES (%3)")
                                     .arg(table, cols.join(", "), marks.join(", "))))
-                throw chem::Error("database",
-                                  sql::failure_sentence(insert.lastError()).toStdString());
+                throw Failure(Failure::Kind::database,
+                              sql::failure_sentence(insert.lastError()).toStdString());
             QSqlQuery rows = sql::run(
                 source.db(),
                 QStringLiteral("SELECT %1 FROM %2 ORDER BY rowid").arg(cols.join(", "), table));
@@ -625,12 +627,12 @@ CliOutput db_copy(const Options& o) {
                 for (int i = 0; i < cols.size(); ++i)
                     insert.bindValue(i, rows.value(i)); // NULL stays NULL
                 if (!insert.exec())
-                    throw chem::Error("database",
-                                      QStringLiteral("copying %1 row %2: %3")
-                                          .arg(table)
-                                          .arg(n + 1)
-                                          .arg(sql::failure_sentence(insert.lastError()))
-                                          .toStdString());
+                    throw Failure(Failure::Kind::database,
+                                  QStringLiteral("copying %1 row %2: %3")
+                                      .arg(table)
+                                      .arg(n + 1)
+                                      .arg(sql::failure_sentence(insert.lastError()))
+                                      .toStdString());
                 ++n;
             }
             counts[table] = n;
@@ -671,12 +673,14 @@ CliOutput db_command(const QStringList& args, const QString& data_dir) {
     no_positional(o, 0);
     const QString path = o.required("--database");
     if (!sql::is_postgresql_uri(path) && (QFileInfo::exists(path) || QFileInfo(path).isSymLink()))
-        throw chem::Error("database", quoted(path) + " exists: the demo goes only into a new file");
+        throw Failure(Failure::Kind::database,
+                      quoted(path) + " exists: the demo goes only into a new file");
     Database db(path, -1, [&](Database& d) { seed_demo(d, data_dir); });
     if (!db.created())
-        throw chem::Error("database", "the lab database " + shown_location(path).toStdString() +
-                                          " already holds a PhasePlan schema: the demo goes "
-                                          "only into an empty database");
+        throw Failure(Failure::Kind::database,
+                      "the lab database " + shown_location(path).toStdString() +
+                          " already holds a PhasePlan schema: the demo goes "
+                          "only into an empty database");
     const AuditVerification v = verify_all(db.connection());
     CliOutput out;
     out.out = QJsonDocument(QJsonObject{{"database", path},

@@ -1,4 +1,5 @@
 #include "storage/sql_dialect.h"
+#include "core/failure.h"
 
 #include <QDateTime>
 #include <QRegularExpression>
@@ -12,8 +13,14 @@ namespace phaseplan::storage::sql {
 
 namespace {
 
+/// An address the user gave that is wrong: an input error naming the part ("database.port").
 [[noreturn]] void fail(const std::string& field, const QString& what) {
     throw chem::Error(field, what.toStdString());
+}
+
+/// The server or its driver failed: not about the input.
+[[noreturn]] void fail(Failure::Kind kind, const QString& what) {
+    throw Failure(kind, what.toStdString());
 }
 
 QSqlQuery must(const QSqlDatabase& db, const QString& text, const QVariantList& bindings = {}) {
@@ -27,9 +34,13 @@ QSqlQuery must(const QSqlDatabase& db, const QString& text, const QVariantList& 
             q.bindValue(i, bindings[i]);
         ok = ok && q.exec();
     }
-    if (!ok)
-        fail(connection_lost(db, q.lastError()) ? "database.connection" : "database",
-             failure_sentence(q.lastError()));
+    if (!ok) {
+        if (connection_lost(db, q.lastError()))
+            fail(Failure::Kind::connection_lost,
+                 QStringLiteral("the connection to the lab database was lost (%1)")
+                     .arg(failure_sentence(q.lastError())));
+        fail(Failure::Kind::database, failure_sentence(q.lastError()));
+    }
     return q;
 }
 
@@ -321,8 +332,9 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
                              bool read_only) {
     QSqlDatabase db = QSqlDatabase::addDatabase(QStringLiteral("QPSQL"), connection_name);
     if (!db.isValid())
-        fail("database", QStringLiteral("the Qt PostgreSQL driver (QPSQL, Debian package "
-                                        "libqt6sql6-psql) is not installed"));
+        fail(Failure::Kind::database,
+             QStringLiteral("the Qt PostgreSQL driver (QPSQL, Debian package "
+                            "libqt6sql6-psql) is not installed"));
     db.setDatabaseName(loc.dbname);
     if (!loc.host.isEmpty())
         db.setHostName(loc.host);
@@ -362,22 +374,25 @@ QSqlDatabase open_postgresql(const PgLocation& loc, const QString& connection_na
                                   "check the line for it in ~/.pgpass, or type it when asked")
                        .arg(where, user));
     if (why.contains(QLatin1String("role \"")) && why.contains(QLatin1String("does not exist")))
-        fail("database",
+        fail(Failure::Kind::database,
              QStringLiteral("the lab database at %1 has no user %2: ask whoever manages the "
                             "server to create it")
                  .arg(where, user));
     if (why.contains(QLatin1String("database \"")) && why.contains(QLatin1String("does not exist")))
-        fail("database", QStringLiteral("the lab database at %1 has no database \"%2\": ask "
-                                        "whoever manages the server to create it")
-                             .arg(where, loc.dbname.left(64)));
+        fail(Failure::Kind::database,
+             QStringLiteral("the lab database at %1 has no database \"%2\": ask "
+                            "whoever manages the server to create it")
+                 .arg(where, loc.dbname.left(64)));
     if (why.contains(QLatin1String("no pg_hba.conf entry")))
-        fail("database", QStringLiteral("the lab database at %1 does not let user %2 in from "
-                                        "this computer (pg_hba.conf): ask whoever manages the "
-                                        "server")
-                             .arg(where, user));
-    fail("database", QStringLiteral("the lab database at %1 cannot be reached: is the server "
-                                    "running, and is the address right?")
-                         .arg(where));
+        fail(Failure::Kind::database,
+             QStringLiteral("the lab database at %1 does not let user %2 in from "
+                            "this computer (pg_hba.conf): ask whoever manages the "
+                            "server")
+                 .arg(where, user));
+    fail(Failure::Kind::database,
+         QStringLiteral("the lab database at %1 cannot be reached: is the server "
+                        "running, and is the address right?")
+             .arg(where));
 }
 
 bool connection_lost(const QSqlDatabase& db, const QSqlError& e) {

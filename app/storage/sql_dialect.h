@@ -95,7 +95,8 @@ struct PgLocation {
 /// True when `location` is a PostgreSQL URI (postgresql:// or postgres://).
 bool is_postgresql_uri(const QString& location);
 /// Parses a PostgreSQL URI. Throws chem::Error naming the part at fault ("database.port", …)
-/// and the value, and refuses a password in the URI.
+/// and the value, and refuses a password in the URI (input errors; a server that cannot be
+/// reached is a Failure, from open_postgresql).
 PgLocation parse_postgresql_uri(const QString& uri);
 
 /// A password typed by the user for this run (the app asks when the server refuses the password

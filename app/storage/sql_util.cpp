@@ -1,4 +1,5 @@
 #include "storage/sql_util.h"
+#include "core/failure.h"
 
 #include "chem/error.h"
 #include "storage/sql_dialect.h"
@@ -11,13 +12,14 @@
 namespace phaseplan::storage::sql {
 
 namespace {
-/// The error of a failed statement: a lost connection is field "database.connection" (the app
-/// keeps what is on screen and tries again), anything else "database".
+/// The failure of a statement: a lost connection is Kind::connection_lost (the app keeps what is
+/// on screen and tries again), anything else Kind::database.
 [[noreturn]] void fail_statement(const QSqlDatabase& db, const QSqlError& e) {
     if (connection_lost(db, e))
-        throw chem::Error("database.connection", "the connection to the lab database was lost (" +
-                                                     failure_sentence(e).toStdString() + ")");
-    throw chem::Error("database", failure_sentence(e).toStdString());
+        throw Failure(Failure::Kind::connection_lost,
+                      "the connection to the lab database was lost (" +
+                          failure_sentence(e).toStdString() + ")");
+    throw Failure(Failure::Kind::database, failure_sentence(e).toStdString());
 }
 } // namespace
 

@@ -11,7 +11,7 @@
 namespace phaseplan::storage::sql {
 
 /// Prepares and runs one statement with positional bindings. A null QString binds as ''.
-/// Throws chem::Error("database", …) with the database's reason (failure_sentence), never the SQL.
+/// Throws Failure (core/failure.h) with the database's reason (failure_sentence), never the SQL.
 QSqlQuery run(QSqlDatabase db, const QString& sql, const QVariantList& bindings = {});
 
 /// A write transaction: BEGIN IMMEDIATE … COMMIT (PostgreSQL: BEGIN and the writers' advisory

@@ -59,7 +59,7 @@ Rectangle {
     /// The row whose override form was used last (its errors show there, not on other rows).
     property bool overrideTried: false
     function overrideError(field) {
-        return root.overrideTried && root.batch && root.batch.errorField === field ? root.batch.errorMessage : ""
+        return root.overrideTried && root.batch && FieldPath.belongs(root.batch.errorField, field) ? root.batch.errorMessage : ""
     }
 
     implicitHeight: grid.implicitHeight + 2 * Theme.gap

@@ -192,7 +192,7 @@ Card {
             objectName: "instrumentConflict"
             Layout.fillWidth: true
             copyOffered: false
-            message: capture.errorField === "version" ? capture.errorMessage : ""
+            message: FieldPath.belongs(capture.errorField, "version") ? capture.errorMessage : ""
             onReload: root.reloadDraft()
         }
         RowLayout {

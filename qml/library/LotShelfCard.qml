@@ -65,7 +65,7 @@ Card {
     Label {
         objectName: "lotShelfError"
         Layout.fillWidth: true
-        visible: root.lastAction === "open" && shelf.errorMessage.length > 0 && shelf.errorField !== "version"
+        visible: root.lastAction === "open" && shelf.errorMessage.length > 0 && !FieldPath.belongs(shelf.errorField, "version")
         text: shelf.errorMessage
         color: Theme.bad
         wrapMode: Text.Wrap
@@ -76,7 +76,7 @@ Card {
         objectName: "lotConflict"
         Layout.fillWidth: true
         copyOffered: false
-        message: shelf.errorField === "version" ? shelf.errorMessage : ""
+        message: FieldPath.belongs(shelf.errorField, "version") ? shelf.errorMessage : ""
         onReload: { shelf.reloadShelf(); root.status = "" }
     }
     Label {

@@ -208,7 +208,7 @@ Card {
         objectName: "reagentConflict"
         Layout.fillWidth: true
         copyOffered: false
-        message: root.editor.errorField === "version" ? root.editor.errorMessage : ""
+        message: FieldPath.belongs(root.editor.errorField, "version") ? root.editor.errorMessage : ""
         onReload: { root.editor.reload(); root.status = "" }
     }
     Flow {

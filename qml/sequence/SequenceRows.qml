@@ -96,7 +96,7 @@ Card {
                             return c
                         }
                         current: row.method
-                        error: row.rowErrorField === "method" ? row.rowError : ""
+                        error: FieldPath.belongs(row.rowErrorField, "method") ? row.rowError : ""
                         onPicked: function(id) { rowsModel.setMethod(row.index, id) }
                     }
                     NumberField {
@@ -109,13 +109,13 @@ Card {
                         value: row.injections
                         step: 1
                         from: 0
-                        error: row.rowErrorField === "injections" ? row.rowError : ""
+                        error: FieldPath.belongs(row.rowErrorField, "injections") ? row.rowError : ""
                         onEdited: function(v) { rowsModel.setInjections(row.index, Math.round(v)) }
                     }
                 }
                 Label {
                     Layout.fillWidth: true
-                    visible: row.rowError.length > 0 && row.rowErrorField !== "method" && row.rowErrorField !== "injections"
+                    visible: row.rowError.length > 0 && !FieldPath.belongsToAny(row.rowErrorField, ["method", "injections"])
                     text: row.rowError
                     color: Theme.bad
                     wrapMode: Text.Wrap

@@ -1,0 +1,136 @@
+// The field paths of chem::Error (chem/error.h): the segments read from the text of the
+// command-line contract, the text written back unchanged, within(), and the questions the app
+// asks (path_within, subscript_of). The path syntax is the README's "Errors" contract (keys
+// joined by dots, list entries and reagent ids in brackets); the expected values below are read
+// off that contract, not computed.
+#include "chem/error.h"
+
+#include <gtest/gtest.h>
+
+#include <string>
+#include <vector>
+
+namespace {
+
+using chem::Error;
+using chem::Path;
+using chem::PathSegment;
+using Kind = PathSegment::Kind;
+
+std::vector<PathSegment> segs(std::initializer_list<PathSegment> l) {
+    return l;
+}
+
+// The README's example "components[1].mol_per_l" and the batch history's reagent subscript.
+TEST(ErrorPath, ParsesKeysIndicesAndSubscripts) {
+    EXPECT_EQ(Path::parse("components[1].mol_per_l").segments(),
+              segs({PathSegment::key("components"), PathSegment::index(1),
+                    PathSegment::key("mol_per_l")}));
+    EXPECT_EQ(Path::parse("actual[phosphoric-acid].lot").segments(),
+              segs({PathSegment::key("actual"), PathSegment::subscript("phosphoric-acid"),
+                    PathSegment::key("lot")}));
+    EXPECT_EQ(Path::parse("actual[phosphoric-acid]").segments()[1].kind, Kind::subscript);
+    EXPECT_EQ(Path::parse("gradient[12]").segments()[1].kind, Kind::index);
+    EXPECT_EQ(Path::parse("gradient[12]").segments()[1].as_index(), 12);
+    EXPECT_EQ(Path::parse("actual[phosphoric-acid]").segments()[1].as_index(), -1);
+    EXPECT_TRUE(Path::parse("").empty());
+    EXPECT_EQ(Path::parse("lines.A.bottle_ml").size(), 3u);
+}
+
+// A reagent id may hold '.' (a lab's own id such as "acme.buffer-7"): inside brackets it is one
+// subscript, not two keys.
+TEST(ErrorPath, DotsInsideBracketsStayInTheSubscript) {
+    const Path p = Path::parse("batch.actual[acme.buffer-7].lot");
+    ASSERT_EQ(p.size(), 4u);
+    EXPECT_EQ(p.segments()[2], PathSegment::subscript("acme.buffer-7"));
+    EXPECT_EQ(p.segments()[3], PathSegment::key("lot"));
+    EXPECT_EQ(p.text(), "batch.actual[acme.buffer-7].lot");
+}
+
+// field() is the CLI's text: it must come back exactly as thrown, whatever the throw site wrote
+// (tests/golden holds these lines), including the odd fields the CLI uses.
+TEST(ErrorPath, FieldTextIsKeptExactly) {
+    for (const std::string f :
+         {"components[1].mol_per_l", "lines.A.parts[0].fraction_v", "-o", "--paper", "(document)",
+          "batch.actual[", "database.connection", "a..b", "x[1].", "[3].x", "x[1][2]", ""}) {
+        const Error e(f, "msg");
+        EXPECT_EQ(e.field(), f);
+        EXPECT_EQ(std::string(e.what()), f + ": msg");
+        EXPECT_EQ(e.message(), "msg");
+        EXPECT_EQ(e.path().text(), f) << "round trip of " << f;
+    }
+    // "batch.actual[" has no closing bracket: the '[' stays in the key.
+    EXPECT_EQ(Path::parse("batch.actual[").segments()[1], PathSegment::key("actual["));
+}
+
+TEST(ErrorPath, WithinPrefixesTextAndSegments) {
+    const Error e = Error("mol_per_l", "-0.2 is not a positive amount").within("components[2]");
+    EXPECT_EQ(e.field(), "components[2].mol_per_l");
+    EXPECT_EQ(e.path(), Path::parse("components[2].mol_per_l"));
+    // A field that starts with a bracket joins without a dot.
+    const Error l = Error("[3].percent_v", "m").within("additives");
+    EXPECT_EQ(l.field(), "additives[3].percent_v");
+    EXPECT_EQ(l.path(), Path::parse("additives[3].percent_v"));
+    // An empty field becomes the parent.
+    EXPECT_EQ(Error("", "m").within("lines.A").field(), "lines.A");
+    EXPECT_EQ(Error("", "m").within("lines.A").path().size(), 2u);
+    // Nested twice, and from segments.
+    const Error n = Error("fraction_v", "m").within("parts[0]").within("lines.A");
+    EXPECT_EQ(n.field(), "lines.A.parts[0].fraction_v");
+    EXPECT_EQ(n.path().size(), 5u);
+    const Error s =
+        Error("lot", "m")
+            .within(Path({PathSegment::key("actual"), PathSegment::subscript("acme.buffer-7")}));
+    EXPECT_EQ(s.field(), "actual[acme.buffer-7].lot");
+    EXPECT_EQ(s.path().segments()[1].text, "acme.buffer-7");
+}
+
+TEST(ErrorPath, BuiltFromSegments) {
+    Path p({PathSegment::key("batch"), PathSegment::key("actual")});
+    p /= PathSegment::index(2);
+    p /= PathSegment::key("mass_g");
+    const Error e(p, "-1 g is not positive");
+    EXPECT_EQ(e.field(), "batch.actual[2].mass_g");
+    EXPECT_EQ(std::string(e.what()), "batch.actual[2].mass_g: -1 g is not positive");
+    EXPECT_EQ(e.path(), p);
+}
+
+TEST(ErrorPath, WithinIsBySegment) {
+    EXPECT_TRUE(chem::path_within("lines.A.parts[0].fraction_v", "lines.A"));
+    EXPECT_TRUE(chem::path_within("lines.A.parts[0].fraction_v", "lines.A.parts"));
+    EXPECT_TRUE(chem::path_within("lines.A.parts[0].fraction_v", "lines.A.parts[0]"));
+    EXPECT_TRUE(chem::path_within("lines.A", "lines.A"));
+    EXPECT_FALSE(chem::path_within("lines.AB", "lines.A"));
+    EXPECT_FALSE(chem::path_within("lines", "lines.A"));
+    EXPECT_FALSE(chem::path_within("lines.A.parts[1]", "lines.A.parts[0]"));
+    EXPECT_FALSE(chem::path_within("actual[acme.buffer-7]", "actual[acme]"));
+    EXPECT_TRUE(chem::path_within("anything", ""));
+    EXPECT_TRUE(Path::parse("batch.actual[acme.buffer-7].lot")
+                    .within(Path({PathSegment::key("batch"), PathSegment::key("actual"),
+                                  PathSegment::subscript("acme.buffer-7")})));
+}
+
+TEST(ErrorPath, SubscriptOf) {
+    const auto a = chem::subscript_of("batch.actual[2].mass_g", "batch.actual");
+    ASSERT_TRUE(a);
+    EXPECT_EQ(a->subscript, "2");
+    EXPECT_EQ(a->index(), 2);
+    EXPECT_EQ(a->rest, "mass_g");
+    EXPECT_EQ(a->rest_path, Path::parse("mass_g"));
+    const auto r = chem::subscript_of("actual[acme.buffer-7].lot", "actual");
+    ASSERT_TRUE(r);
+    EXPECT_EQ(r->subscript, "acme.buffer-7");
+    EXPECT_EQ(r->index(), -1);
+    EXPECT_EQ(r->rest, "lot");
+    EXPECT_TRUE(chem::subscript_of("gradient[12]", "gradient")->rest.empty());
+    EXPECT_FALSE(chem::subscript_of("batch.actual", "batch.actual"));
+    EXPECT_FALSE(chem::subscript_of("batch.actual[2", "batch.actual"));
+    EXPECT_FALSE(chem::subscript_of("batch.actualx[2]", "batch.actual"));
+    EXPECT_FALSE(chem::subscript_of("batch.actual.mass_g", "batch.actual"));
+    EXPECT_EQ(chem::subscript_of("x[99999999999]", "x")->index(), -1);
+    // On an error's segments directly.
+    const Error e("batch.actual[1].lot", "m");
+    EXPECT_EQ(chem::subscript_of(e.path(), Path::parse("batch.actual"))->index(), 1);
+}
+
+} // namespace
