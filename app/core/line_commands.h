@@ -9,6 +9,7 @@
 //   over several instruments and days, summed per line recipe in "batches".
 // Field names are a fixed contract: extend, rename nothing.
 #include "chem/checks.h"
+#include "chem/finding_text.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
 #include "chem/sequence.h"
@@ -95,8 +96,10 @@ chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path
 /// [{"t_min", "organic_fraction_v", "ph_s_w", "ph_s_s", "extrapolated"}]}}.
 QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces);
 
-/// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
-/// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.
-QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock);
+/// The JSON form of a check's finding: code, severity, the message (chem::describe with `words`),
+/// "line" (the subject's line letters, none for a lone line), the numbers and texts flattened
+/// in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.
+QJsonObject finding_to_json(const chem::Finding& f, const chem::RenderContext& words,
+                            const Clock* clock);
 
 } // namespace phaseplan
