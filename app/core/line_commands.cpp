@@ -398,6 +398,15 @@ chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path
     return p;
 }
 
+QVariantMap finding_references(const chem::Finding& f) {
+    auto ref = [](const chem::Subject& s) {
+        return QVariantMap{{"kind", QLatin1String(chem::subject_kind_name(s.kind))},
+                           {"id", qs(s.id)},
+                           {"other", qs(s.other)}};
+    };
+    return QVariantMap{{"subject", ref(f.subject)}, {"place", ref(f.where)}};
+}
+
 QJsonObject finding_to_json(const chem::Finding& w, const chem::RenderContext& words,
                             const Clock* clock) {
     QJsonObject o{{"code", QLatin1String(w.code())},

@@ -18,6 +18,7 @@
 #include <QDateTime>
 #include <QJsonArray>
 #include <QJsonObject>
+#include <QVariantMap>
 
 #include <initializer_list>
 #include <map>
@@ -39,7 +40,14 @@ std::string command_sequence_text(const AppData& data, const QJsonObject& input,
 struct SequenceTraces {
     std::vector<chem::EluentTrace> eluent;               ///< one per method run
     std::map<std::string, chem::PressureTrace> pressure; ///< by method name, where there is one
+    /// The checks' findings, typed: the last findings.size() entries of "warnings" are their
+    /// JSON, in the same order.
+    std::vector<chem::Finding> findings;
 };
+/// A finding's typed references for the screens (no sentence to parse back):
+/// {"subject": {"kind", "id", "other"}, "place": {"kind", "id", "other"}}, the kinds as
+/// chem::subject_kind_name gives them ("line", "line-pair", "method", "standby", "none").
+QVariantMap finding_references(const chem::Finding& f);
 /// command_sequence for the app's plan model: the same result, except that the traces are
 /// handed over typed in `traces` instead of being written into the JSON (`eluent_trace` and
 /// each method's `pressure` are left out; `max_pressure_bar` and `max_pressure_at_t_min` stay).

@@ -374,9 +374,10 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"warnings", warnings}};
     if (in.waste_capacity_ml)
         out["waste_capacity_ml"] = *in.waste_capacity_ml;
-    if (typed)
+    if (typed) {
         typed->eluent = traces;
-    else
+        typed->findings = checks;
+    } else
         out["eluent_trace"] = eluent_traces_to_json(traces);
     res.out = out;
     res.rows = std::move(plan.rows);
