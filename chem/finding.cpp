@@ -39,6 +39,22 @@ const char* code_of(FindingKind kind) {
         return "waste-overflow";
     case FindingKind::pressure_limit:
         return "pressure-limit";
+    case FindingKind::ionic_strength_high:
+        return "ionic-strength-high";
+    case FindingKind::activity_model_differs:
+        return "activity-model-differs";
+    case FindingKind::ph_outside_pka_range:
+        return "ph-outside-pka-range";
+    case FindingKind::low_buffer_capacity:
+        return "low-buffer-capacity";
+    case FindingKind::small_amount:
+        return "small-amount";
+    case FindingKind::titrant_volume_large:
+        return "titrant-volume-large";
+    case FindingKind::amount_out_of_tolerance:
+        return "amount-out-of-tolerance";
+    case FindingKind::amount_not_entered:
+        return "amount-not-entered";
     }
     return "?";
 }
@@ -54,6 +70,12 @@ Subject Subject::of_method(std::string name) {
 }
 Subject Subject::of_standby() {
     return {Kind::standby, {}, {}};
+}
+Subject Subject::of_reagent(std::string id) {
+    return {Kind::reagent, std::move(id), {}};
+}
+Subject Subject::of_system(std::string id) {
+    return {Kind::system, std::move(id), {}};
 }
 
 std::string Subject::line_letters() const {
@@ -76,6 +98,10 @@ const char* subject_kind_name(Subject::Kind kind) {
         return "method";
     case Subject::Kind::standby:
         return "standby";
+    case Subject::Kind::reagent:
+        return "reagent";
+    case Subject::Kind::system:
+        return "system";
     }
     return "?";
 }

@@ -2,14 +2,15 @@
 // A finding of the sequence and line checks (chem/checks.h): what was found, about what, and the
 // numbers behind it. Data only: the sentence is made at render time by describe()
 // (chem/finding_text.h), in one place, so that it can be translated.
-#include "chem/equilibrium.h"
-
 #include <functional>
 #include <string>
 #include <utility>
 #include <vector>
 
 namespace chem {
+
+/// How much a finding matters (chem::Warning's severity is the same type).
+enum class Severity { info, caution, warning };
 
 /// What a finding says, one value per wording. Several share a contract code (code_of): a
 /// uv-cutoff finding is about the eluent's absorbance, an unknown cutoff or a table passed.
@@ -32,9 +33,22 @@ enum class FindingKind {
     waste_overflow,         ///< the waste container overfills
     waste_nearly_full,      ///< the waste container ends above 90 %
     pressure_limit,         ///< a method's pressure peak past (or near) the limit
+    // The solver's and the recipe's (chem/equilibrium, chem/recipe), carried by chem::Warning:
+    ionic_strength_high,    ///< past the activity model's range (detail text "model")
+    activity_model_differs, ///< Davies and the extended model differ by more than 0.02 pH
+    ph_outside_pka_range,   ///< the target pH more than 1 from every conditional pKa′
+    low_buffer_capacity,    ///< β below 2 mmol/L per pH
+    small_amount,           ///< a mass or volume too small to measure well (about a reagent)
+    titrant_volume_large,   ///< the titrant takes more than half the final volume
+    // The batch's (chem/batch), about a reagent's amount as made:
+    amount_out_of_tolerance, ///< an amount outside target ± tolerance (detail text "unit")
+    amount_not_entered,      ///< no actual amount: the target is assumed (detail text "unit")
 };
 /// The contract's stable code: "uv-cutoff", "immiscible", "precipitation", "ms-nonvolatile",
-/// "column-ph", "buffer-range", "shelf-life", "runs-dry", "waste-overflow", "pressure-limit".
+/// "column-ph", "buffer-range", "shelf-life", "runs-dry", "waste-overflow", "pressure-limit",
+/// "ionic-strength-high", "activity-model-differs", "ph-outside-pka-range",
+/// "low-buffer-capacity", "small-amount", "titrant-volume-large", "amount-out-of-tolerance",
+/// "amount-not-entered".
 const char* code_of(FindingKind kind);
 
 /// What a finding is about, as a typed reference (never a name to be parsed back).
@@ -45,6 +59,8 @@ struct Subject {
         line_pair, ///< id and other: two lines' letters, "A" and "B"
         method,    ///< id: the method's name (empty: the one method of a document)
         standby,   ///< the standby flow after the last injection
+        reagent,   ///< id: a reagent's (or a line part's) id ("sodium-chloride", "acetonitrile")
+        system,    ///< id: an acid-base system's id ("phosphate")
     };
     Kind kind = Kind::none;
     std::string id;
@@ -54,6 +70,8 @@ struct Subject {
     static Subject of_lines(int a, int b);
     static Subject of_method(std::string name);
     static Subject of_standby();
+    static Subject of_reagent(std::string id);
+    static Subject of_system(std::string id);
     /// The lines' letters as the contract's "line" field gives them ("A", "AB"); empty otherwise.
     std::string line_letters() const;
     bool operator==(const Subject& o) const {
@@ -63,7 +81,7 @@ struct Subject {
 const char* subject_kind_name(Subject::Kind kind); ///< "none", "line", "line-pair", …
 
 struct Finding {
-    using Severity = Warning::Severity;
+    using Severity = chem::Severity;
     FindingKind kind = FindingKind::uv_cutoff_eluent;
     Severity severity = Severity::info;
     Subject subject;

@@ -252,7 +252,80 @@ std::string pressure_limit(const Words& w) {
                       ": a partly blocked frit or a colder room could trip it.";
 }
 
+std::string ionic_strength_high(const Words& w) {
+    const std::string& model = w.t("model");
+    if (model == "sit")
+        return "Ionic strength " + format_number(w.n("ionic_strength_mol_per_kg")) +
+               " mol/kg is above 3.5 mol/kg, beyond the range where the SIT activity model was "
+               "fitted: treat the pH as indicative only and measure it.";
+    if (model == "truesdell-jones")
+        return "Ionic strength " + format_number(w.n("ionic_strength_mol_per_kg")) +
+               " mol/kg is above 1 mol/kg, beyond the range where the Truesdell–Jones activity "
+               "model was checked: treat the pH as indicative only and measure it, or choose "
+               "\"activity_model\": \"sit\".";
+    if (w.f.severity == Severity::warning)
+        return "Ionic strength " + format_number(w.n("ionic_strength_mol_per_l")) +
+               " mol/L is above 0.5 mol/L, where the Davies activity model does not hold: treat "
+               "the pH as indicative only (errors of 0.1 pH unit or more) and measure it, or "
+               "choose \"activity_model\": \"sit\".";
+    return "Ionic strength " + format_number(w.n("ionic_strength_mol_per_l")) +
+           " mol/L is above 0.1 mol/L; the Davies activity model loses accuracy here (a few "
+           "hundredths of a pH unit); \"activity_model\": \"sit\" holds to a few mol/kg.";
+}
+
+std::string activity_model_differs(const Words& w) {
+    const bool tj = w.t("model") == "truesdell-jones";
+    return "The Davies model gives pH " + format_fixed(w.n("davies_ph"), 3) + " and the " +
+           (tj ? "Truesdell–Jones" : "SIT") + " model pH " + format_fixed(w.n("extended_ph"), 3) +
+           " at I = " + format_fixed(w.n("ionic_strength_mol_per_l"), 3) +
+           " mol/L: they differ by more than 0.02. " +
+           (tj ? "Truesdell–Jones (\"activity_model\": \"truesdell-jones\") holds to about 1 mol/kg"
+               : "SIT (\"activity_model\": \"sit\") holds to a few mol/kg") +
+           ", Davies to about 0.1 mol/L.";
+}
+
+std::string ph_outside_pka_range(const Words& w) {
+    // The nearest step: its system, the conditional pKa′ and the thermodynamic pKa at T.
+    const std::string nearest = w.f.subject.kind == Subject::Kind::system
+                                    ? w.f.subject.id + " pKa′ " +
+                                          format_fixed(w.n("pka_conditional"), 2) + " (pKa " +
+                                          format_fixed(w.n("pka"), 2) + ")"
+                                    : std::string();
+    return "pH " + format_fixed(w.n("target_ph"), 2) + " is " + format_fixed(w.n("gap"), 2) +
+           " pH units from the nearest conditional pKa′ (" + nearest + " at " +
+           format_number(w.n("temperature_c")) +
+           " °C and I = " + format_fixed(w.n("ionic_strength_mol_per_l"), 3) +
+           " mol/L); outside pKa′ ± 1 the solution buffers poorly.";
+}
+
+std::string small_amount(const Words& w) {
+    const std::string who = w.name(w.f.subject.id) + ": ";
+    if (w.f.has_number("mass_g"))
+        return who + format_fixed(w.n("mass_g") * 1000, 2) +
+               " mg is below what a lab balance weighs well (10 mg); make a larger volume or use "
+               "a stock solution.";
+    return who + format_fixed(w.n("volume_ml") * 1000, 1) +
+           " µL is below what a pipette delivers well (10 µL); make a larger volume or dilute "
+           "the reagent first.";
+}
+
 } // namespace
+
+std::string signed_percent(double fraction) {
+    std::string s = fraction >= 0 ? "+" : "";
+    s += format_fixed(fraction * 100, 1);
+    s += " %";
+    return s;
+}
+
+Warning warning_of(Finding f, const RenderContext& ctx) {
+    Warning w;
+    w.code = f.code();
+    w.severity = f.severity;
+    w.message = describe(f, ctx);
+    w.finding = std::move(f);
+    return w;
+}
 
 std::string line_title(const std::string& l, const RenderContext& ctx) {
     const int i = line_index(l);
@@ -326,6 +399,38 @@ std::string describe(const Finding& f, const RenderContext& ctx) {
     }
     case FindingKind::pressure_limit:
         return pressure_limit(w);
+    case FindingKind::ionic_strength_high:
+        return ionic_strength_high(w);
+    case FindingKind::activity_model_differs:
+        return activity_model_differs(w);
+    case FindingKind::ph_outside_pka_range:
+        return ph_outside_pka_range(w);
+    case FindingKind::low_buffer_capacity:
+        return "Buffer capacity " + format_fixed(w.n("buffer_capacity_mol_per_l") * 1000, 2) +
+               " mmol/L per pH is below 2 mmol/L per pH (common practice, no source): the sample "
+               "or dissolved CO2 can shift the pH.";
+    case FindingKind::small_amount:
+        return small_amount(w);
+    case FindingKind::amount_out_of_tolerance: {
+        // Built with += : GCC 12 warns falsely (-Wrestrict) on long chains of literal + string.
+        const std::string& unit = w.t("unit");
+        std::string m = w.name(f.subject.id);
+        m += ": " + format_amount(w.n("actual")) + " " + unit;
+        m += " measured, target " + format_amount(w.n("target")) + " " + unit;
+        m += " ± " + format_number(w.n("tolerance_fraction") * 100) + " %";
+        m += " (" + format_amount(w.n("low")) + " to " + format_amount(w.n("high")) + " " + unit +
+             "), ";
+        m += signed_percent(w.n("deviation_fraction"));
+        m += ".";
+        return m;
+    }
+    case FindingKind::amount_not_entered:
+        return w.name(f.subject.id) + ": no actual amount entered; the target " +
+               format_amount(w.n("target")) + " " + w.t("unit") + " is assumed.";
+    case FindingKind::titrant_volume_large:
+        return "The titrant takes " + format_amount(w.n("volume_ml")) + " mL of the " +
+               format_number(w.n("final_volume_ml")) +
+               " mL final volume; use a more concentrated titrant.";
     }
     return {};
 }

@@ -119,6 +119,9 @@ class Findings : public ::testing::Test {
             return f.subject.id;
         case Subject::Kind::standby:
             return "standby";
+        case Subject::Kind::reagent:
+        case Subject::Kind::system:
+            return f.subject.id;
         case Subject::Kind::none:
             return "";
         }
@@ -158,6 +161,14 @@ const std::map<FindingKind, Shown>& shown_numbers() {
         {FindingKind::waste_overflow, {"waste_ml", 0}},
         {FindingKind::waste_nearly_full, {"waste_ml", 0}},
         {FindingKind::pressure_limit, {"max_pressure_bar", 0}},
+        {FindingKind::ionic_strength_high, {"ionic_strength_mol_per_l", 4}},
+        {FindingKind::activity_model_differs, {"davies_ph", 3}},
+        {FindingKind::ph_outside_pka_range, {"gap", 2}},
+        {FindingKind::low_buffer_capacity, {"buffer_capacity_mol_per_l", 2, 1000}},
+        {FindingKind::small_amount, {"mass_g", 2, 1000}},
+        {FindingKind::titrant_volume_large, {"volume_ml", 1}},
+        {FindingKind::amount_out_of_tolerance, {"deviation_fraction", 1, 100}},
+        {FindingKind::amount_not_entered, {"target", 1}},
     };
     return m;
 }
@@ -261,6 +272,25 @@ TEST_F(Findings, ClockIsTheRenderers) {
     EXPECT_TRUE(contains(describe(dry, at_six), ", at 18:42")) << describe(dry, at_six);
 }
 
+// The solver's warnings carry their finding: 0.3 mol/L sodium chloride puts I above 0.1 mol/L,
+// where the solver cautions that Davies loses accuracy (its documented threshold,
+// chem/equilibrium.h); the message is describe() of that finding.
+TEST(FindingsWarnings, SolverWarningCarriesItsFinding) {
+    const Library& reagents = chem::testing::shipped_library();
+    const Speciation sp = solve(reagents, {{&reagents.reagent("sodium-chloride"), 0.3}}, 25);
+    const Warning* high = nullptr;
+    for (const Warning& w : sp.warnings)
+        if (w.code == "ionic-strength-high")
+            high = &w;
+    ASSERT_NE(high, nullptr);
+    ASSERT_TRUE(high->finding.has_value());
+    EXPECT_EQ(high->finding->kind, FindingKind::ionic_strength_high);
+    EXPECT_EQ(high->severity, Severity::caution);
+    EXPECT_NEAR(high->finding->number_of("ionic_strength_mol_per_l"), 0.3, 1e-6);
+    EXPECT_EQ(high->message, describe(*high->finding, RenderContext{}));
+    EXPECT_TRUE(contains(high->message, "Ionic strength 0.3")) << high->message;
+}
+
 // A line on its own (the line command) is named by its name, with no letter.
 TEST(FindingsAlone, LoneLineNamedByItsName) {
     const SolventLibrary& solvents = chem::testing::shipped_solvents();
@@ -289,7 +319,17 @@ TEST(FindingsEveryKind, EachKindRendersItsSubjectAndNumber) {
         Finding f;
         f.kind = kind;
         f.severity = Finding::Severity::warning;
-        f.subject = kind == FindingKind::immiscible_lines ? Subject::of_lines(0, 1)
+        const bool about_reagent = kind == FindingKind::small_amount ||
+                                   kind == FindingKind::amount_out_of_tolerance ||
+                                   kind == FindingKind::amount_not_entered;
+        const bool about_solution = kind == FindingKind::ionic_strength_high ||
+                                    kind == FindingKind::activity_model_differs ||
+                                    kind == FindingKind::low_buffer_capacity ||
+                                    kind == FindingKind::titrant_volume_large;
+        f.subject = about_reagent ? Subject::of_reagent("sodium-chloride")
+                    : kind == FindingKind::ph_outside_pka_range ? Subject::of_system("phosphate")
+                    : about_solution                            ? Subject{}
+                    : kind == FindingKind::immiscible_lines     ? Subject::of_lines(0, 1)
                     : kind == FindingKind::pressure_limit || kind == FindingKind::buffer_range ||
                             kind == FindingKind::column_ph_eluent
                         ? Subject::of_method("assay")
@@ -308,7 +348,14 @@ TEST(FindingsEveryKind, EachKindRendersItsSubjectAndNumber) {
         f.number("dry_after_injection", 3);
         f.detail("injections", 20);
         f.items = {{"sodium-chloride", kind == FindingKind::ms_nonvolatile ? 10.0 : std::nan("")}};
-        const std::string subject = kind == FindingKind::precipitation ? "in the bottle of line A"
+        const std::string subject = about_reagent                               ? "sodium-chloride"
+                                    : kind == FindingKind::ph_outside_pka_range ? "phosphate"
+                                    : kind == FindingKind::titrant_volume_large ? "The titrant"
+                                    : kind == FindingKind::low_buffer_capacity  ? "Buffer capacity"
+                                    : kind == FindingKind::ionic_strength_high  ? "Ionic strength"
+                                    : kind == FindingKind::activity_model_differs
+                                        ? "The Davies model"
+                                    : kind == FindingKind::precipitation ? "in the bottle of line A"
                                     : f.subject.kind == Subject::Kind::line      ? "Line A (Buffer)"
                                     : f.subject.kind == Subject::Kind::method    ? "assay"
                                     : f.subject.kind == Subject::Kind::line_pair ? "Lines A and B"
