@@ -1,4 +1,5 @@
 #include "chem/batch.h"
+#include "chem/finding_text.h"
 #include "chem/guard.h"
 
 #include "chem/error.h"
@@ -18,13 +19,6 @@ constexpr double max_tolerance_fraction = 0.5; ///< ± 50 %: beyond that a "tole
 constexpr double max_ph_tolerance = 2.0; ///< ± 2 pH units: beyond that a "tolerance" means nothing
 /// A predicted pH this far from the target deserves a look before use; common practice, no source.
 constexpr double ph_off_target = 0.05;
-
-std::string signed_percent(double fraction) {
-    std::string s = fraction >= 0 ? "+" : "";
-    s += format_fixed(fraction * 100, 1);
-    s += " %";
-    return s;
-}
 
 std::string item_path(int i, const char* key) {
     return "batch.actual[" + std::to_string(i) + "]" + (key[0] ? std::string(".") + key : "");
@@ -203,15 +197,18 @@ AmountCheck check_amount(const std::string& name, const std::string& unit, doubl
 }
 
 Warning out_of_tolerance_warning(const AmountCheck& c, double tolerance_fraction) {
-    // Built with += : GCC 12 warns falsely (-Wrestrict) on long chains of literal + string.
-    std::string m = c.reagent;
-    m += ": " + format_amount(c.actual) + " " + c.unit;
-    m += " measured, target " + format_amount(c.target) + " " + c.unit;
-    m += " ± " + format_number(tolerance_fraction * 100) + " %";
-    m += " (" + format_amount(c.low) + " to " + format_amount(c.high) + " " + c.unit + "), ";
-    m += signed_percent(c.deviation_fraction);
-    m += ".";
-    return {"amount-out-of-tolerance", Warning::Severity::warning, m};
+    Finding f;
+    f.kind = FindingKind::amount_out_of_tolerance;
+    f.severity = Severity::warning;
+    f.subject = Subject::of_reagent(c.reagent);
+    f.number("actual", c.actual);
+    f.number("target", c.target);
+    f.number("tolerance_fraction", tolerance_fraction);
+    f.number("low", c.low);
+    f.number("high", c.high);
+    f.number("deviation_fraction", c.deviation_fraction);
+    f.detail_text("unit", c.unit);
+    return warning_of(std::move(f));
 }
 
 std::string check_batch_fields(const Batch& batch, double shelf_life_h) {
@@ -432,10 +429,15 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
             out.warnings.push_back(out_of_tolerance_warning(c, tol));
             out.out_of_tolerance = true;
         }
-        if (!a)
-            out.warnings.push_back({"amount-not-entered", Warning::Severity::info,
-                                    it.reagent + ": no actual amount entered; the target " +
-                                        format_amount(c.target) + " " + c.unit + " is assumed."});
+        if (!a) {
+            Finding f;
+            f.kind = FindingKind::amount_not_entered;
+            f.severity = Severity::info;
+            f.subject = Subject::of_reagent(it.reagent);
+            f.number("target", c.target);
+            f.detail_text("unit", c.unit);
+            out.warnings.push_back(warning_of(std::move(f)));
+        }
         out.checks.push_back(std::move(c));
     }
 

@@ -17,20 +17,6 @@ namespace chem {
 
 using namespace checks_internal;
 
-std::string default_clock(double minutes) {
-    return "t+" + fmt(minutes, 1) + " min";
-}
-
-std::string method_time_words(double minutes) {
-    const long long total_s = std::llround(std::max(0.0, minutes) * 60.0);
-    const long long m = total_s / 60, sec = total_s % 60;
-    if (m == 0)
-        return std::to_string(sec) + " s";
-    if (sec == 0)
-        return std::to_string(m) + " min";
-    return std::to_string(m) + " min " + std::to_string(sec) + " s";
-}
-
 std::array<bool, max_lines> lines_in_use(const SequencePlan& plan, const std::vector<int>& run) {
     std::array<bool, max_lines> used{};
     for (int mi : run)
@@ -56,10 +42,10 @@ std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const Sequence
 // ends of the stretches the sequence runs (standby included) hold the worst case exactly. On the
 // same model, A ≥ 1 means the detector reads below the eluent's cutoff (warning) and
 
-std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
+std::vector<Finding> check_sequence(const SequenceCheckInput& c) {
     if (!c.solvents || !c.input || !c.plan)
         throw Error("(checks)", "incomplete check input");
-    std::vector<CheckWarning> out;
+    std::vector<Finding> out;
     std::vector<EluentTrace> own;
     SequenceCheckInput with = c;
     if (!with.traces && with.reagents) {
@@ -75,11 +61,10 @@ std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c) {
     return out;
 }
 
-std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineProfile& profile,
-                                     const std::string& name,
-                                     const std::optional<Detector>& detector,
-                                     const std::optional<ColumnLimits>& column,
-                                     const Library* reagents, const NameLookup& name_of) {
+std::vector<Finding> check_line(const SolventLibrary& solvents, const LineProfile& profile,
+                                const std::string& name, const std::optional<Detector>& detector,
+                                const std::optional<ColumnLimits>& column,
+                                const Library* reagents) {
     // A one-line, one-method "sequence" at 100 % of line A reuses the sequence checks.
     SequenceInput in;
     BottleSpec b;
@@ -101,37 +86,20 @@ std::vector<CheckWarning> check_line(const SolventLibrary& solvents, const LineP
     c.input = &in;
     c.plan = &plan;
     c.profiles[0] = &profile;
-    c.names[0] = name;
     c.detector = detector;
     c.column = column;
-    c.name_of = name_of;
     c.reagents = reagents;
     c.lone_line = true;
-    std::vector<CheckWarning> out;
+    std::vector<Finding> out;
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
                    check_column_ph}) {
         auto w = f(c);
         for (auto& x : w) {
             // The bottle is the whole story for a lone line: drop the mixer's copy of it.
-            bool mixer = false;
-            for (const auto& [k, v] : x.texts)
-                if (k == "where" && v.rfind("in the bottle", 0) != 0)
-                    mixer = true;
-            if (x.code == "precipitation" && mixer)
+            if (x.kind == FindingKind::precipitation && x.where.kind != Subject::Kind::line)
                 continue;
-            for (auto& [k, v] : x.texts)
-                if (k == "where")
-                    v = "in the bottle";
-            const std::string bottle = "in the bottle of line A";
-            if (auto pos = x.message.find(bottle); pos != std::string::npos)
-                x.message.replace(pos, bottle.size(), "in the bottle");
-            // A lone line has no "line A" of a sequence: name it by its own name.
-            x.line.clear();
-            const std::string from = "Line A (" + name + ")";
-            if (x.message.rfind(from, 0) == 0)
-                x.message = "The line " + name + x.message.substr(from.size());
-            else if (x.message.rfind("Line A", 0) == 0)
-                x.message = "The line" + x.message.substr(6);
+            // A lone line has no "line A" of a sequence: describe() names it by its own name.
+            x.alone = true;
             out.push_back(std::move(x));
         }
     }

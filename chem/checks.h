@@ -1,5 +1,6 @@
 #pragma once
-// The checks that save a night's run, each a chem::Warning with the numbers behind it:
+// The checks that save a night's run, each a chem::Finding (chem/finding.h): a code, the subject
+// as a typed reference and the numbers behind it; describe() (chem/finding_text.h) words it:
 //   uv-cutoff       a line's UV cutoff against the detector wavelength, with a margin
 //   immiscible      two lines (or two parts of one line) that meet and do not mix
 //   precipitation   a buffer salt above its solubility limit at the organic fraction reached
@@ -16,6 +17,7 @@
 // Warnings come out in that order.
 #include "chem/eluent.h"
 #include "chem/equilibrium.h"
+#include "chem/finding.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
 #include "chem/sequence.h"
@@ -30,17 +32,6 @@
 #include <vector>
 
 namespace chem {
-
-/// A Warning with the numbers behind it, in the order they are shown. `line` names the line
-/// ("A") the warning is about, or is empty.
-struct CheckWarning : Warning {
-    std::string line;
-    std::vector<std::pair<std::string, double>> numbers;    ///< "cutoff_nm" → 210, …
-    std::vector<std::pair<std::string, std::string>> texts; ///< "method" → "assay-fast", …
-    /// Times in minutes from the sequence start, keyed like "dry_at_min"; app/ adds clock times.
-    void number(std::string key, double v) { numbers.emplace_back(std::move(key), v); }
-    void text(std::string key, std::string v) { texts.emplace_back(std::move(key), std::move(v)); }
-};
 
 enum class DetectorType { uv, dad, pda, uv_ms, ms, elsd, cad, fluorescence, ri };
 /// "uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad", "fluorescence", "ri": the contract's words.
@@ -84,21 +75,11 @@ struct EluentTrace {
     std::vector<EluentTracePoint> points;
 };
 
-/// Formats a time (minutes from the sequence start) for messages; app/ passes clock times.
-using ClockFormatter = std::function<std::string(double minutes)>;
-std::string default_clock(double minutes); ///< "t+125.5 min"
-/// The name a reagent, solvent or additive id is shown by in messages; app/ passes the library's
-/// names ("Acetonitrile" for "acetonitrile"). The default shows the id.
-using NameLookup = std::function<std::string(const std::string& id)>;
-/// A time into an injection, in words: "18 min 53 s", "2 min", "45 s".
-std::string method_time_words(double minutes);
-
 struct SequenceCheckInput {
     const SolventLibrary* solvents = nullptr;
     const SequenceInput* input = nullptr;
     const SequencePlan* plan = nullptr;
     std::array<const LineProfile*, max_lines> profiles{};           ///< null: a volumes-only line
-    std::array<std::string, max_lines> names{};                     ///< display names
     std::array<std::optional<double>, max_lines> prepared_at_min{}; ///< from the sequence start
     std::optional<Detector> detector;
     std::optional<ColumnLimits> column;
@@ -108,8 +89,6 @@ struct SequenceCheckInput {
     /// One pressure trace per plan method (index as SequencePlan::methods), or none: no column
     /// dimensions given, or the method runs a line without a make-up.
     const std::vector<std::optional<PressureTrace>>* pressure = nullptr;
-    ClockFormatter clock = default_clock;
-    NameLookup name_of; ///< empty: ids as they are
     /// The reagent library: with it the column-ph and buffer-range checks use the eluent pH.
     const Library* reagents = nullptr;
     /// Precomputed traces (eluent_traces); the checks compute them when null.
@@ -124,31 +103,31 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c);
 /// Lines the sequence pumps at some point (above 0 % in a method it runs, or in the standby).
 std::array<bool, max_lines> lines_in_use(const SequenceInput& in, const SequencePlan& plan);
 
-std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c);
-std::vector<CheckWarning> check_pressure_limit(const SequenceCheckInput& c);
+std::vector<Finding> check_uv_cutoff(const SequenceCheckInput& c);
+std::vector<Finding> check_immiscible(const SequenceCheckInput& c);
+std::vector<Finding> check_precipitation(const SequenceCheckInput& c);
+std::vector<Finding> check_ms_nonvolatile(const SequenceCheckInput& c);
+std::vector<Finding> check_column_ph(const SequenceCheckInput& c);
+std::vector<Finding> check_buffer_range(const SequenceCheckInput& c);
+std::vector<Finding> check_shelf_life(const SequenceCheckInput& c);
+std::vector<Finding> check_runs_dry(const SequenceCheckInput& c);
+std::vector<Finding> check_waste_overflow(const SequenceCheckInput& c);
+std::vector<Finding> check_pressure_limit(const SequenceCheckInput& c);
 /// The pressure-limit warning for one method's trace: "warning" when the peak passes the limit,
 /// "caution" when it comes within 10 % of it (≥ 90 %), none otherwise or without a limit. The
 /// numbers: max_pressure_bar, limit_bar, peak_t_min (into the injection), organic_fraction_v;
 /// texts: method, limited_by. An empty `method` (a one-method document) reads "The method".
-std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
-                                                   const PressureTrace& trace);
+std::optional<Finding> pressure_limit_warning(const std::string& method,
+                                              const PressureTrace& trace);
 /// All of the above, in the order of the list at the top.
-std::vector<CheckWarning> check_sequence(const SequenceCheckInput& c);
+std::vector<Finding> check_sequence(const SequenceCheckInput& c);
 
 /// The checks that apply to one line on its own (the `line` command): immiscible parts,
 /// precipitation in the bottle, and, when given, UV cutoff, MS volatility and column pH.
-std::vector<CheckWarning>
-check_line(const SolventLibrary& solvents, const LineProfile& profile, const std::string& name,
-           const std::optional<Detector>& detector, const std::optional<ColumnLimits>& column,
-           const Library* reagents = nullptr, const NameLookup& name_of = {});
+std::vector<Finding> check_line(const SolventLibrary& solvents, const LineProfile& profile,
+                                const std::string& name, const std::optional<Detector>& detector,
+                                const std::optional<ColumnLimits>& column,
+                                const Library* reagents = nullptr);
 
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
 /// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.

@@ -17,8 +17,8 @@ namespace chem {
 
 using namespace checks_internal;
 
-std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_shelf_life(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l) {
         const LineProfile* p = c.profiles[l];
@@ -32,18 +32,8 @@ std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
         if (expires >= c.plan->total_min)
             continue;
         const bool already = expires <= 0;
-        std::string msg =
-            line_title(c, l) + " (" + shelf_kind_name(*p) + ", shelf life " +
-            fmt(p->shelf_life_h, 0) + " h, a lab-set default) " +
-            (known ? "was prepared at " + c.clock(prepared)
-                   : "even if prepared at the start, " + c.clock(0)) +
-            ", and " +
-            (already ? "is past its shelf life before the sequence starts."
-                     : "passes its shelf life at " + c.clock(expires) + ", during injection " +
-                           std::to_string(c.plan->injection_at(expires)) + " of " +
-                           std::to_string(c.plan->injections) + ".") +
-            " Prepare it fresh.";
-        CheckWarning w = make("shelf-life", Sev::warning, letter(l), msg);
+        Finding w = make(FindingKind::shelf_life, Sev::warning, Subject::of_line(l));
+        w.detail("injections", c.plan->injections);
         w.text("kind", shelf_kind_name(*p));
         w.number("shelf_life_h", p->shelf_life_h);
         if (known)
@@ -59,35 +49,17 @@ std::vector<CheckWarning> check_shelf_life(const SequenceCheckInput& c) {
 }
 
 // (g) Bottles that run dry, or have less spare than the safety margin.
-std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_runs_dry(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     const double margin = c.input->safety_margin_fraction;
     for (int l = 0; l < max_lines; ++l) {
         const LinePlan& lp = c.plan->lines[l];
         if (!lp.defined)
             continue;
-        const std::string need = "the sequence needs " + fmt(lp.required_ml, 0) +
-                                 " mL (priming included), the bottle has " + fmt(lp.usable_ml, 0) +
-                                 " mL usable above the residue";
-        const std::string suggest =
-            "Prepare at least " + fmt(std::ceil(lp.min_bottle_ml), 0) + " mL (" +
-            fmt(100 * margin, 0) + " % spare plus the residue)" +
-            (lp.suggested_bottle_ml > 0
-                 ? ", e.g. a " + fmt(lp.suggested_bottle_ml, 0) + " mL bottle."
-                 : ".");
         if (lp.runs_dry) {
-            std::string when;
-            if (lp.dry_phase == DryPhase::priming)
-                when = "already during priming";
-            else if (lp.dry_phase == DryPhase::standby)
-                when = "during the standby after injection " +
-                       std::to_string(*lp.dry_after_injection) + ", at " + c.clock(*lp.dry_at_min);
-            else
-                when = "during injection " + std::to_string(*lp.dry_after_injection) + " of " +
-                       std::to_string(c.plan->injections) + ", at " + c.clock(*lp.dry_at_min);
-            CheckWarning w = make("runs-dry", Sev::warning, letter(l),
-                                  line_title(c, l) + " runs dry " + when + ": " + need +
-                                      ". The pump then draws air. " + suggest);
+            Finding w = make(FindingKind::runs_dry, Sev::warning, Subject::of_line(l));
+            w.detail("margin_fraction", margin);
+            w.detail("injections", c.plan->injections);
             w.number("required_ml", lp.required_ml);
             w.number("usable_ml", lp.usable_ml);
             w.number("shortfall_ml", -lp.spare_ml);
@@ -101,12 +73,8 @@ std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c) {
             w.text("phase", dry_phase_name(lp.dry_phase));
             out.push_back(w);
         } else if (lp.required_ml > 0 && lp.spare_ml < margin * lp.required_ml) {
-            CheckWarning w =
-                make("runs-dry", Sev::caution, letter(l),
-                     line_title(c, l) + " lasts, but with only " + fmt(lp.spare_ml, 0) +
-                         " mL to spare (" + fmt(100 * lp.spare_ml / lp.required_ml, 1) +
-                         " %, less than the " + fmt(100 * margin, 0) + " % margin): " + need +
-                         ". " + suggest);
+            Finding w = make(FindingKind::runs_low, Sev::caution, Subject::of_line(l));
+            w.detail("margin_fraction", margin);
             w.number("required_ml", lp.required_ml);
             w.number("usable_ml", lp.usable_ml);
             w.number("spare_ml", lp.spare_ml);
@@ -119,30 +87,15 @@ std::vector<CheckWarning> check_runs_dry(const SequenceCheckInput& c) {
     return out;
 }
 
-std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_waste_overflow(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     if (!c.input->waste_capacity_ml)
         return out;
     const double cap = *c.input->waste_capacity_ml;
     const double waste = c.plan->waste_ml;
     if (waste > cap) {
         const auto t = c.plan->time_waste_reaches(cap);
-        std::string when = "";
-        if (t) {
-            if (*t <= 0)
-                when = " during priming";
-            else if (*t > c.plan->total_min)
-                when = " during the standby, at " + c.clock(*t);
-            else
-                when = " during injection " + std::to_string(c.plan->injection_at(*t)) + ", at " +
-                       c.clock(*t);
-        }
-        CheckWarning w =
-            make("waste-overflow", Sev::warning, "",
-                 "The waste container overfills" + when + ": the sequence sends " + fmt(waste, 0) +
-                     " mL to waste (priming included) into " + fmt(cap, 0) +
-                     " mL of free volume. Empty it first or use a larger one (at least " +
-                     fmt(std::ceil(waste * 1.1), 0) + " mL with 10 % spare).");
+        Finding w = make(FindingKind::waste_overflow, Sev::warning, Subject{});
         w.number("waste_ml", waste);
         w.number("capacity_ml", cap);
         w.number("excess_ml", waste - cap);
@@ -153,10 +106,7 @@ std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
         }
         out.push_back(w);
     } else if (waste > 0.9 * cap) {
-        CheckWarning w = make("waste-overflow", Sev::caution, "",
-                              "The waste container will be " + fmt(100 * waste / cap, 0) +
-                                  " % full (" + fmt(waste, 0) + " of " + fmt(cap, 0) +
-                                  " mL): little room for a rerun or a spill.");
+        Finding w = make(FindingKind::waste_nearly_full, Sev::caution, Subject{});
         w.number("waste_ml", waste);
         w.number("capacity_ml", cap);
         out.push_back(w);
@@ -165,32 +115,16 @@ std::vector<CheckWarning> check_waste_overflow(const SequenceCheckInput& c) {
 }
 
 // (i) The pressure peak of each method run against the lower of the two limits.
-std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
-                                                   const PressureTrace& tr) {
+std::optional<Finding> pressure_limit_warning(const std::string& method, const PressureTrace& tr) {
     if (!tr.limit || !(tr.max_pressure_bar >= 0.9 * tr.limit->bar))
         return std::nullopt;
     const bool over = tr.max_pressure_bar > tr.limit->bar;
-    std::string inlet;
+    // An empty `method`: a one-method document (pressure, transfer), "The method" in words.
+    Finding w = make(FindingKind::pressure_limit, over ? Sev::warning : Sev::caution,
+                     Subject::of_method(method));
     for (int l = 0; l < max_lines; ++l)
         if (tr.inlet_percent_at_max[l] > 0)
-            inlet += (inlet.empty() ? "" : "/") + letter(l) + " " +
-                     fmt(tr.inlet_percent_at_max[l], 0) + " %";
-    const std::string where = "peaks at " + fmt(tr.max_pressure_bar, 0) + " bar " +
-                              fmt(tr.max_at_t_min, 1) + " min into each injection, with " +
-                              fmt(100 * tr.organic_fraction_v_at_max, 0) +
-                              " % v/v organic in the column (" + inlet + " entering it)";
-    const std::string limit =
-        fmt(tr.limit->bar, 0) + " bar limit of the " + limit_source_name(tr.limit->source);
-    // A one-method document (pressure, transfer) has no method name to give.
-    const std::string subject = method.empty() ? "The method" : "Method " + method;
-    CheckWarning w =
-        over ? make("pressure-limit", Sev::warning, "",
-                    subject + " " + where + ", above the " + limit +
-                        ": the pump would stop the sequence. Lower the flow, raise the column "
-                        "temperature or use a column with larger particles.")
-             : make("pressure-limit", Sev::caution, "",
-                    subject + " " + where + ", within 10 % of the " + limit +
-                        ": a partly blocked frit or a colder room could trip it.");
+            w.detail("line_percent_" + letter(l), tr.inlet_percent_at_max[l]);
     w.number("max_pressure_bar", tr.max_pressure_bar);
     w.number("limit_bar", tr.limit->bar);
     w.number("peak_t_min", tr.max_at_t_min);
@@ -200,8 +134,8 @@ std::optional<CheckWarning> pressure_limit_warning(const std::string& method,
     return w;
 }
 
-std::vector<CheckWarning> check_pressure_limit(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_pressure_limit(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     if (!c.pressure)
         return out;
     for (int mi : methods_run(*c.plan)) {

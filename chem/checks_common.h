@@ -1,6 +1,7 @@
 #pragma once
-// What the sequence checks share (chem/checks*.cpp): wording helpers, the methods and stretches a
-// sequence runs. Internal to the checks; not part of the core's contract.
+// What the sequence checks (chem/checks*.cpp) and their sentences (chem/finding_text.cpp) share:
+// number and list helpers, the methods and stretches a sequence runs. Internal to the checks; not
+// part of the core's contract.
 #include "chem/checks.h"
 #include "chem/error.h"
 
@@ -26,35 +27,11 @@ inline std::string letter(int l) {
     return std::string(1, line_letter(l));
 }
 
-inline std::string line_title(const SequenceCheckInput& c, int l) {
-    const std::string& n = c.names[l];
-    return "Line " + letter(l) + (n.empty() || n == letter(l) ? "" : " (" + n + ")");
-}
-
-/// An id as the message shows it: the library's name when the app gave a lookup.
-inline std::string named(const SequenceCheckInput& c, const std::string& id) {
-    return c.name_of ? c.name_of(id) : id;
-}
-inline std::vector<std::string> named(const SequenceCheckInput& c,
-                                      const std::vector<std::string>& ids) {
-    std::vector<std::string> out;
-    for (const auto& id : ids)
-        out.push_back(named(c, id));
-    return out;
-}
 /// A salt group id ("potassium-phosphate") in words ("potassium phosphate").
 inline std::string group_words(std::string g) {
     std::replace(g.begin(), g.end(), '-', ' ');
     return g;
 }
-/// "in method “assay”, 18 min 53 s into each injection"; "in the standby".
-inline std::string where_words(const std::string& where, double t_min) {
-    if (where == "standby")
-        return "in the standby";
-    return "in method \u201c" + where + "\u201d, " + method_time_words(t_min) +
-           " into each injection";
-}
-
 inline std::string join(const std::vector<std::string>& v) {
     std::string out;
     for (std::size_t i = 0; i < v.size(); ++i)
@@ -62,13 +39,12 @@ inline std::string join(const std::vector<std::string>& v) {
     return out;
 }
 
-inline CheckWarning make(const char* code, Sev sev, std::string line, std::string message) {
-    CheckWarning w;
-    w.code = code;
-    w.severity = sev;
-    w.line = std::move(line);
-    w.message = std::move(message);
-    return w;
+inline Finding make(FindingKind kind, Sev sev, Subject subject) {
+    Finding f;
+    f.kind = kind;
+    f.severity = sev;
+    f.subject = std::move(subject);
+    return f;
 }
 
 /// The methods the sequence runs (indices into plan.methods), each once.
@@ -92,15 +68,17 @@ inline std::vector<int> methods_run(const SequencePlan& plan) {
 struct NamedStretch {
     std::string where; ///< method name or "standby"
     Stretch s;
+    bool standby = false;
+    Subject place() const { return standby ? Subject::of_standby() : Subject::of_method(where); }
 };
 inline std::vector<NamedStretch> all_stretches(const SequenceInput& in, const SequencePlan& plan) {
     std::vector<NamedStretch> out;
     for (int mi : methods_run(plan))
         for (const auto& s : stretches(in.methods[mi]))
-            out.push_back({in.methods[mi].name, s});
+            out.push_back({in.methods[mi].name, s, false});
     if (plan.standby_min > 0)
         out.push_back(
-            {"standby", {0, plan.standby_min, plan.standby_percent, plan.standby_percent}});
+            {"standby", {0, plan.standby_min, plan.standby_percent, plan.standby_percent}, true});
     return out;
 }
 

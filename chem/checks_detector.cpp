@@ -65,8 +65,8 @@ bool detector_needs_volatile(DetectorType t) {
            t == DetectorType::cad;
 }
 
-std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_uv_cutoff(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     if (!c.detector || !detector_reads_uv(c.detector->type) || !c.detector->wavelength_nm)
         return out;
     const double wl = *c.detector->wavelength_nm;
@@ -78,18 +78,19 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
             line_a[l] = uv_absorbance(c.profiles[l]->uv_parts, wl);
     struct Worst {
         double a = -1;
-        std::string where;
+        NamedStretch const* where = nullptr;
         double t_min = 0;
         LineValues percent{};
     } worst;
-    for (const NamedStretch& ns : all_stretches(*c.input, *c.plan))
+    const std::vector<NamedStretch> stretches_run = all_stretches(*c.input, *c.plan);
+    for (const NamedStretch& ns : stretches_run)
         for (const bool end : {false, true}) {
             const LineValues& pc = end ? ns.s.percent_end : ns.s.percent_start;
             double a = 0;
             for (int l = 0; l < max_lines; ++l)
                 a += pc[l] / 100.0 * line_a[l];
             if (a > worst.a + 1e-12) {
-                worst = {a, ns.where, ns.s.start_min + (end ? ns.s.duration_min : 0.0), pc};
+                worst = {a, &ns, ns.s.start_min + (end ? ns.s.duration_min : 0.0), pc};
             }
         }
     const double caution_a = std::pow(10.0, -margin / uv_decade_nm);
@@ -112,36 +113,21 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
         }
         const double cut = wl + uv_decade_nm * std::log10(worst.a);
         const bool below = worst.a >= 1;
-        std::string where;
-        if (!c.lone_line) {
-            std::string mix;
+        Finding w = make(FindingKind::uv_cutoff_eluent, below ? Sev::warning : Sev::caution,
+                         top_line >= 0 ? Subject::of_line(top_line) : Subject{});
+        if (!c.lone_line && worst.where) {
+            w.where = worst.where->place();
             for (int l = 0; l < max_lines; ++l)
                 if (worst.percent[l] > 0)
-                    mix += (mix.empty() ? "" : ", ") + fmt(worst.percent[l], 0) + " % " + letter(l);
-            where = worst.where == "standby"
-                        ? " at standby (" + mix + ")"
-                        : " in method " + worst.where + " at " + fmt(worst.t_min, 2) +
-                              " min of each injection (" + mix + ")";
+                    w.detail("line_percent_" + letter(l), worst.percent[l]);
         }
-        const std::string who =
-            top_line >= 0 ? named(c, part) + (c.lone_line ? "" : " in " + line_title(c, top_line))
-                          : std::string("its parts");
-        CheckWarning w = make(
-            "uv-cutoff", below ? Sev::warning : Sev::caution, top_line >= 0 ? letter(top_line) : "",
-            std::string(c.lone_line ? "The line" : "The eluent") + where + " absorbs " +
-                fmt(worst.a, 2) + " (1 cm) at " + fmt(wl, 0) + " nm, mostly from " + who +
-                ": its UV cutoff there is " + fmt(cut, 0) + " nm; the detector reads at " +
-                fmt(wl, 0) + " nm, " +
-                (below ? "below the cutoff: expect a high baseline and a drifting gradient."
-                       : "within " + fmt(margin, 0) +
-                             " nm of it: expect baseline drift over the gradient."));
         w.number("wavelength_nm", wl);
         w.number("cutoff_nm", cut);
         w.number("absorbance", worst.a);
         w.number("margin_nm", margin);
         w.text("limited_by", part);
-        if (!c.lone_line) {
-            w.text("method", worst.where);
+        if (!c.lone_line && worst.where) {
+            w.text("method", worst.where->where);
             w.number("t_min", worst.t_min);
         }
         out.push_back(w);
@@ -151,21 +137,18 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
         if (!used[l] || !p || !p->described)
             continue;
         if (!p->uv_unknown.empty()) {
-            CheckWarning w = make("uv-cutoff", Sev::caution, letter(l),
-                                  line_title(c, l) + ": no UV cutoff figure for " +
-                                      join(named(c, p->uv_unknown)) + "; check its absorbance at " +
-                                      fmt(wl, 0) + " nm before the run.");
+            Finding w = make(FindingKind::uv_cutoff_unknown, Sev::caution, Subject::of_line(l));
             w.number("wavelength_nm", wl);
             w.text("unknown", join(p->uv_unknown));
+            for (const auto& id : p->uv_unknown)
+                w.items.emplace_back(id, std::nan(""));
             out.push_back(w);
         }
         if (!p->uv_beyond_table.empty()) {
-            CheckWarning w =
-                make("uv-cutoff", Sev::info, letter(l),
-                     line_title(c, l) + ": " + join(named(c, p->uv_beyond_table)) +
-                         " is above the highest concentration in its UV table; the cutoff used (" +
-                         fmt(p->uv_cutoff_nm, 0) + " nm) is a lower bound.");
+            Finding w = make(FindingKind::uv_cutoff_beyond_table, Sev::info, Subject::of_line(l));
             w.number("cutoff_nm", p->uv_cutoff_nm);
+            for (const auto& id : p->uv_beyond_table)
+                w.items.emplace_back(id, std::nan(""));
             out.push_back(w);
         }
     }
@@ -175,8 +158,8 @@ std::vector<CheckWarning> check_uv_cutoff(const SequenceCheckInput& c) {
 // (b) Lines that meet in the mixer (both above 0 % at the same time) and do not mix; and parts of
 // one line that do not mix.
 
-std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_ms_nonvolatile(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     if (!c.detector || !detector_needs_volatile(c.detector->type))
         return out;
     const auto used = lines_in_use(*c.input, *c.plan);
@@ -185,18 +168,11 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
         if (!used[l] || !p || !p->described)
             continue;
         if (!p->nonvolatile.empty()) {
-            std::vector<std::string> parts;
+            Finding w = make(FindingKind::ms_nonvolatile, Sev::warning, Subject::of_line(l));
             for (const auto& id : p->nonvolatile)
                 for (const auto& s : p->solutes)
                     if (s.reagent == id)
-                        parts.push_back(named(c, id) + " " + fmt(s.mmol_per_l, 2) + " mmol/L");
-            CheckWarning w =
-                make("ms-nonvolatile", Sev::warning, letter(l),
-                     line_title(c, l) + " carries non-volatile " + join(parts) + " into the " +
-                         detector_type_name(c.detector->type) +
-                         " detector: it deposits in the source and suppresses the signal. Use a "
-                         "volatile "
-                         "buffer (formate, acetate, ammonium bicarbonate) or divert the flow.");
+                        w.items.emplace_back(id, s.mmol_per_l);
             for (const auto& s : p->solutes)
                 if (std::find(p->nonvolatile.begin(), p->nonvolatile.end(), s.reagent) !=
                     p->nonvolatile.end())
@@ -209,21 +185,18 @@ std::vector<CheckWarning> check_ms_nonvolatile(const SequenceCheckInput& c) {
             const Additive* add = c.solvents->find_additive(s.reagent);
             if (!add || add->ms_caution.empty())
                 continue;
-            CheckWarning w =
-                make("ms-nonvolatile", Sev::caution, letter(l),
-                     line_title(c, l) + " carries " + s.reagent + " (" + fmt(s.mmol_per_l, 2) +
-                         " mmol/L) into the " + detector_type_name(c.detector->type) +
-                         " detector: " + add->ms_caution + " (" + add->ms_caution_source + ").");
+            Finding w = make(FindingKind::ms_additive, Sev::caution, Subject::of_line(l));
+            w.detail("mmol_per_l", s.mmol_per_l);
+            w.detail_text("ms_caution", add->ms_caution);
+            w.detail_text("ms_caution_source", add->ms_caution_source);
             w.text("detector", detector_type_name(c.detector->type));
             w.text("additive", s.reagent);
             out.push_back(w);
         }
         if (!p->volatility_unknown.empty()) {
-            CheckWarning w =
-                make("ms-nonvolatile", Sev::caution, letter(l),
-                     line_title(c, l) + ": volatility of " + join(named(c, p->volatility_unknown)) +
-                         " is not recorded; check it suits the " +
-                         detector_type_name(c.detector->type) + " detector.");
+            Finding w = make(FindingKind::ms_volatility_unknown, Sev::caution, Subject::of_line(l));
+            for (const auto& id : p->volatility_unknown)
+                w.items.emplace_back(id, std::nan(""));
             w.text("detector", detector_type_name(c.detector->type));
             w.text("unknown", join(p->volatility_unknown));
             out.push_back(w);

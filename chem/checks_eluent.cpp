@@ -203,12 +203,8 @@ const std::vector<EluentTrace>& traces_of(const SequenceCheckInput& c,
     return own;
 }
 
-std::string pct(double fraction) {
-    return fmt(100 * fraction, 0) + " % organic";
-}
-
 /// Where in the gradient an eluent warning applies: the worst point and the stretch around it.
-void add_where(CheckWarning& w, const EluentTrace& tr, const EluentTracePoint& first,
+void add_where(Finding& w, const EluentTrace& tr, const EluentTracePoint& first,
                const EluentTracePoint& last, const EluentTracePoint& worst) {
     w.number("t_min", worst.t_min);
     w.number("organic_fraction_v", worst.organic_fraction_v);
@@ -224,8 +220,8 @@ void add_where(CheckWarning& w, const EluentTrace& tr, const EluentTracePoint& f
 
 // (e) The pH the column sees outside its stated range: the eluent's s_w pH along each method's
 // gradient at the column temperature (or, without the reagent library, each line's own pH).
-std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_column_ph(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     if (!c.column && c.method_columns.empty())
         return out;
     std::vector<EluentTrace> own;
@@ -255,27 +251,11 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
                 }
                 if (!worst)
                     continue;
-                const std::string where =
-                    c.lone_line ? "The line's eluent" : "In method " + tr.method + ", the eluent";
-                const std::string span =
-                    c.lone_line ? ""
-                                : " from " + fmt(first->t_min, 2) + " to " + fmt(last->t_min, 2) +
-                                      " min of each injection (" + pct(first->organic_fraction_v) +
-                                      " to " + pct(last->organic_fraction_v) + "), worst at " +
-                                      fmt(worst->t_min, 2) + " min";
-                CheckWarning w =
-                    make("column-ph", Sev::warning, "",
-                         where + " has s_w pH " + fmt(worst->ph_s_w, 2) + " at " +
-                             pct(worst->organic_fraction_v) + " and " + fmt(tr.temperature_c, 0) +
-                             " °C" + span + ", " + (low ? "below" : "above") +
-                             (own != c.method_columns.end() ? " the method's column's range of pH "
-                                                            : " the column's range of pH ") +
-                             fmt(limits->ph_min, 1) + " to " + fmt(limits->ph_max, 1) + ": " +
-                             (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
-                             " The organic moves the pH away from the aqueous buffer's; use a "
-                             "column rated "
-                             "for this pH or change the buffer." +
-                             (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+                Finding w = make(FindingKind::column_ph_eluent, Sev::warning,
+                                 Subject::of_method(tr.method));
+                w.detail("below", low ? 1 : 0);
+                w.detail("method_column", own != c.method_columns.end() ? 1 : 0);
+                w.detail("extrapolated", worst->extrapolated ? 1 : 0);
                 w.number("ph", worst->ph_s_w);
                 w.number("ph_s_s", worst->ph_s_s);
                 w.number("ph_min", limits->ph_min);
@@ -297,14 +277,7 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
         const double ph = *p->ph;
         if (ph >= c.column->ph_min && ph <= c.column->ph_max)
             continue;
-        const bool low = ph < c.column->ph_min;
-        CheckWarning w =
-            make("column-ph", Sev::warning, letter(l),
-                 line_title(c, l) + " has pH " + fmt(ph, 2) + " (" + ph_basis_name(p->ph_basis) +
-                     "), " + (low ? "below" : "above") + " the column's range of pH " +
-                     fmt(c.column->ph_min, 1) + " to " + fmt(c.column->ph_max, 1) + ": " +
-                     (low ? "the bonded phase hydrolyses." : "the silica dissolves.") +
-                     " Use a column rated for this pH or change the buffer.");
+        Finding w = make(FindingKind::column_ph_line, Sev::warning, Subject::of_line(l));
         w.number("ph", ph);
         w.number("ph_min", c.column->ph_min);
         w.number("ph_max", c.column->ph_max);
@@ -316,8 +289,8 @@ std::vector<CheckWarning> check_column_ph(const SequenceCheckInput& c) {
 
 // (e2) Stretches of the gradient where the eluent is not buffered: its s_s pH more than one unit
 // from every s_s pKa′ of the acid-base systems present.
-std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_buffer_range(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     std::vector<EluentTrace> own;
     const auto& traces = traces_of(c, own);
     for (const EluentTrace& tr : traces) {
@@ -340,22 +313,9 @@ std::vector<CheckWarning> check_buffer_range(const SequenceCheckInput& c) {
                 if (pts[j].nearest_pka_gap > worst->nearest_pka_gap)
                     worst = &pts[j];
             }
-            const std::string where =
-                c.lone_line ? "The line's eluent"
-                            : "In method " + tr.method + ", from " + fmt(pts[i].t_min, 2) + " to " +
-                                  fmt(pts[j].t_min, 2) + " min of each injection (" +
-                                  pct(pts[i].organic_fraction_v) + " to " +
-                                  pct(pts[j].organic_fraction_v) + "), the eluent";
-            CheckWarning w = make(
-                "buffer-range", Sev::caution, "",
-                where + " has s_s pH " + fmt(worst->ph_s_s, 2) + " at " +
-                    pct(worst->organic_fraction_v) + ", " + fmt(worst->nearest_pka_gap, 2) +
-                    " units from the nearest s_s pKa′ (" + tr.systems[worst->nearest_system] + " " +
-                    fmt(worst->nearest_pka, 2) + ")" +
-                    ": outside pKa′ ± 1 the eluent buffers poorly, so the sample or the column can "
-                    "shift its pH and retention. Choose a buffer whose pKa′ in the eluent lies "
-                    "within one unit of its pH." +
-                    (worst->extrapolated ? " (The eluent pH there is an estimate.)" : ""));
+            Finding w =
+                make(FindingKind::buffer_range, Sev::caution, Subject::of_method(tr.method));
+            w.detail("extrapolated", worst->extrapolated ? 1 : 0);
             w.number("ph_s_s", worst->ph_s_s);
             w.number("ph_s_w", worst->ph_s_w);
             w.number("nearest_pka", worst->nearest_pka);

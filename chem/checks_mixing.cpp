@@ -38,8 +38,8 @@ Contact worst_pair(const SolventLibrary& lib, const LineProfile& x, const LinePr
     return c;
 }
 
-void immiscible_within(const SequenceCheckInput& ci, const LineProfile& p, const std::string& line,
-                       const std::string& title, std::vector<CheckWarning>& out) {
+void immiscible_within(const SequenceCheckInput& ci, const LineProfile& p, int line,
+                       std::vector<Finding>& out) {
     const SolventLibrary& lib = *ci.solvents;
     Contact c;
     for (auto i = p.solvent_fraction_v.begin(); i != p.solvent_fraction_v.end(); ++i)
@@ -51,13 +51,8 @@ void immiscible_within(const SequenceCheckInput& ci, const LineProfile& p, const
     if (c.worst == Miscibility::miscible)
         return;
     const bool imm = c.worst == Miscibility::immiscible;
-    CheckWarning w =
-        make("immiscible", imm ? Sev::warning : Sev::caution, line,
-             title + " mixes " + named(ci, c.a) + " (" + fmt(100 * p.solvent_fraction_v.at(c.a)) +
-                 " %) with " + named(ci, c.b) + " (" + fmt(100 * p.solvent_fraction_v.at(c.b)) +
-                 " %), which are " +
-                 (imm ? "immiscible: the bottle separates into two phases."
-                      : "only partly miscible: check that the bottle stays one clear phase."));
+    Finding w = make(FindingKind::immiscible_in_line, imm ? Sev::warning : Sev::caution,
+                     Subject::of_line(line));
     w.text("solvent_a", c.a);
     w.text("solvent_b", c.b);
     w.text("miscibility", miscibility_name(c.worst));
@@ -77,29 +72,20 @@ std::map<std::string, double> group_mmol(const SolventLibrary& lib, const LinePr
 
 struct WorstLoad {
     SaltLoad load;
-    std::string where;      ///< "in method assay at 18.89 min" (the warning's "where" field)
-    std::string where_text; ///< the same in words for the message
+    std::string where; ///< "in method assay at 18.89 min" (the contract's "where" field)
+    Subject place;     ///< the same, typed: a method, the standby, or a line's bottle
     double t_min = 0;
     bool found = false;
 };
 
-void precipitation_warning(const WorstLoad& w, const std::string& line, const NameLookup& name_of,
-                           std::vector<CheckWarning>& out) {
+void precipitation_warning(const WorstLoad& w, std::vector<Finding>& out) {
     const double r = w.load.ratio();
     if (r <= 0.8)
         return;
     const bool over = r > 1.0;
-    std::string msg =
-        (over ? "Buffer salt " : "Buffer salt near its limit: ") + group_words(w.load.group) +
-        " reaches " + fmt(w.load.mmol_per_l, 2) + " mmol/L at " +
-        fmt(100 * w.load.organic_fraction_v) + " % organic " + w.where_text + ", " +
-        (over ? "above" : "close to") + " the limit of " + fmt(w.load.limit_mmol_per_l, 2) +
-        " mmol/L in water–" + (name_of ? name_of(w.load.organic) : w.load.organic) + " (" +
-        (w.load.basis == "published" ? "published data" : "a conservative rule of thumb") + ").";
-    if (over)
-        msg += " It may precipitate in the mixer, the column or the check valves: lower the salt "
-               "or the organic end.";
-    CheckWarning cw = make("precipitation", over ? Sev::warning : Sev::caution, line, msg);
+    // In a bottle the finding is about its line; in the mixer about the method (or standby).
+    Finding cw = make(FindingKind::precipitation, over ? Sev::warning : Sev::caution, w.place);
+    cw.where = w.place;
     cw.text("group", w.load.group);
     cw.text("organic", w.load.organic);
     cw.text("where", w.where);
@@ -108,17 +94,17 @@ void precipitation_warning(const WorstLoad& w, const std::string& line, const Na
     cw.number("mmol_per_l", w.load.mmol_per_l);
     cw.number("limit_mmol_per_l", w.load.limit_mmol_per_l);
     cw.number("organic_fraction_v", w.load.organic_fraction_v);
-    if (w.where.rfind("in method", 0) == 0)
+    if (w.place.kind == Subject::Kind::method)
         cw.number("t_min", w.t_min);
     out.push_back(cw);
 }
 
-void consider(WorstLoad& worst, const SaltLoad& l, const std::string& where,
-              const std::string& where_text, double t) {
+void consider(WorstLoad& worst, const SaltLoad& l, const std::string& where, const Subject& place,
+              double t) {
     if (!worst.found || l.ratio() > worst.load.ratio()) {
         worst.load = l;
         worst.where = where;
-        worst.where_text = where_text;
+        worst.place = place;
         worst.t_min = t;
         worst.found = true;
     }
@@ -198,16 +184,17 @@ std::vector<SaltLoad> salt_loads(const SolventLibrary& lib,
     return out;
 }
 
-std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_immiscible(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     const auto used = lines_in_use(*c.input, *c.plan);
     for (int l = 0; l < max_lines; ++l)
         if (used[l] && c.profiles[l] && c.profiles[l]->described)
-            immiscible_within(c, *c.profiles[l], letter(l), line_title(c, l), out);
+            immiscible_within(c, *c.profiles[l], l, out);
 
     struct Meeting {
         bool met = false;
         std::string where;
+        Subject place;
         double t_min = 0;
         double pa = 0, pb = 0; ///< percentages at the first meeting (segment midpoint)
     };
@@ -227,6 +214,7 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
                     continue;
                 m.met = true;
                 m.where = ns.where;
+                m.place = ns.place();
                 m.t_min = s.start_min;
                 m.pa = 0.5 * (s.percent_start[a] + s.percent_end[a]);
                 m.pb = 0.5 * (s.percent_start[b] + s.percent_end[b]);
@@ -242,18 +230,9 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
         if (k.worst == Miscibility::miscible)
             continue;
         const bool imm = k.worst == Miscibility::immiscible;
-        const std::string where = m.where == "standby"
-                                      ? "in the standby"
-                                      : "in method \u201c" + m.where + "\u201d from " +
-                                            method_time_words(m.t_min) + " into each injection";
-        CheckWarning w =
-            make("immiscible", imm ? Sev::warning : Sev::caution, letter(a) + letter(b),
-                 "Lines " + letter(a) + " and " + letter(b) + " meet in the mixer " + where +
-                     " (about " + fmt(m.pa) + " % " + letter(a) + " with " + fmt(m.pb) + " % " +
-                     letter(b) + "): " + named(c, k.a) + " and " + named(c, k.b) + " are " +
-                     (imm ? "immiscible, so the eluent separates into two phases."
-                          : "only partly miscible: check the proportions stay within their mutual "
-                            "solubility."));
+        Finding w = make(FindingKind::immiscible_lines, imm ? Sev::warning : Sev::caution,
+                         Subject::of_lines(a, b));
+        w.where = m.place;
         w.text("line_a", letter(a));
         w.text("line_b", letter(b));
         w.text("solvent_a", k.a);
@@ -269,8 +248,8 @@ std::vector<CheckWarning> check_immiscible(const SequenceCheckInput& c) {
 }
 
 // (c) Salt above its solubility limit anywhere the sequence's eluent goes, and in each bottle.
-std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
-    std::vector<CheckWarning> out;
+std::vector<Finding> check_precipitation(const SequenceCheckInput& c) {
+    std::vector<Finding> out;
     const auto used = lines_in_use(*c.input, *c.plan);
     // The bottles themselves.
     for (int l = 0; l < max_lines; ++l) {
@@ -281,11 +260,13 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
         LineValues p{};
         p[l] = 100;
         std::map<std::string, WorstLoad> worst;
+        // A lone line (check_line) has only its bottle.
+        const std::string where =
+            c.lone_line ? std::string("in the bottle") : "in the bottle of line " + letter(l);
         for (const auto& load : salt_loads(*c.solvents, one, p))
-            consider(worst[load.group], load, "in the bottle of line " + letter(l),
-                     "in the bottle of line " + letter(l), 0);
+            consider(worst[load.group], load, where, Subject::of_line(l), 0);
         for (const auto& [g, w] : worst)
-            precipitation_warning(w, letter(l), c.name_of, out);
+            precipitation_warning(w, out);
     }
     // The mixed eluent: per stretch, the ends and the points where the organic fraction crosses a
     // row of a table (concentration and organic fraction are linear in time within a stretch and
@@ -325,15 +306,15 @@ std::vector<CheckWarning> check_precipitation(const SequenceCheckInput& c) {
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
             const double t = s.start_min + u * s.duration_min;
-            const std::string where = ns.where == "standby"
+            const std::string where = ns.standby
                                           ? "in the standby"
                                           : "in method " + ns.where + " at " + fmt(t, 2) + " min";
             for (const auto& load : salt_loads(*c.solvents, c.profiles, p))
-                consider(worst[load.group], load, where, where_words(ns.where, t), t);
+                consider(worst[load.group], load, where, ns.place(), t);
         }
     }
     for (const auto& [g, w] : worst)
-        precipitation_warning(w, "", c.name_of, out);
+        precipitation_warning(w, out);
     return out;
 }
 

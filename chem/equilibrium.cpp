@@ -1,4 +1,5 @@
 #include "chem/equilibrium.h"
+#include "chem/finding_text.h"
 
 #include "chem/equilibrium_detail.h"
 #include "chem/error.h"
@@ -684,6 +685,18 @@ std::vector<double> gammas_at(const Problem& p, const State& st) {
     return g;
 }
 
+/// ionic-strength-high: I in mol/kg (SIT, Truesdell–Jones) or mol/L (Davies) past the model's
+/// range.
+static Warning ionic_strength_high(Severity severity, const char* model, double ionic_strength,
+                                   bool molal) {
+    Finding f;
+    f.kind = FindingKind::ionic_strength_high;
+    f.severity = severity;
+    f.number(molal ? "ionic_strength_mol_per_kg" : "ionic_strength_mol_per_l", ionic_strength);
+    f.detail_text("model", model);
+    return warning_of(std::move(f));
+}
+
 Speciation report(const Problem& p, const State& st) {
     Speciation out;
     out.temperature_c = to_celsius(p.temperature_k);
@@ -724,37 +737,20 @@ Speciation report(const Problem& p, const State& st) {
     if (p.model == ActivityModel::sit) {
         const double i_m = i / p.kg_per_l;
         if (i_m > 3.5)
-            out.warnings.push_back({"ionic-strength-high", Warning::Severity::warning,
-                                    "Ionic strength " + format_number(i_m) +
-                                        " mol/kg is above 3.5 mol/kg, beyond the range where the "
-                                        "SIT activity model was fitted: treat the pH as "
-                                        "indicative only and measure it."});
+            out.warnings.push_back(ionic_strength_high(Severity::warning, "sit", i_m, true));
         return out;
     }
     if (p.model == ActivityModel::truesdell_jones) {
         const double i_m = i / p.kg_per_l;
         if (i_m > 1.0)
             out.warnings.push_back(
-                {"ionic-strength-high", Warning::Severity::warning,
-                 "Ionic strength " + format_number(i_m) +
-                     " mol/kg is above 1 mol/kg, beyond the range where the Truesdell–Jones "
-                     "activity model was checked: treat the pH as indicative only and measure "
-                     "it, or choose \"activity_model\": \"sit\"."});
+                ionic_strength_high(Severity::warning, "truesdell-jones", i_m, true));
         return out;
     }
     if (i > 0.5)
-        out.warnings.push_back(
-            {"ionic-strength-high", Warning::Severity::warning,
-             "Ionic strength " + format_number(i) +
-                 " mol/L is above 0.5 mol/L, where the Davies activity model "
-                 "does not hold: treat the pH as indicative only (errors of 0.1 "
-                 "pH unit or more) and measure it, or choose \"activity_model\": \"sit\"."});
+        out.warnings.push_back(ionic_strength_high(Severity::warning, "davies", i, false));
     else if (i > 0.1)
-        out.warnings.push_back({"ionic-strength-high", Warning::Severity::caution,
-                                "Ionic strength " + format_number(i) +
-                                    " mol/L is above 0.1 mol/L; the Davies activity model loses "
-                                    "accuracy here (a few hundredths of a pH unit); "
-                                    "\"activity_model\": \"sit\" holds to a few mol/kg."});
+        out.warnings.push_back(ionic_strength_high(Severity::caution, "davies", i, false));
     return out;
 }
 
@@ -776,18 +772,16 @@ Speciation solve(const Library& lib, const std::vector<Component>& components, d
             const double davies_ph = model == ActivityModel::davies ? st.ph : ph_other;
             const double extended_ph = model == ActivityModel::davies ? ph_other : st.ph;
             const bool tj = model == ActivityModel::truesdell_jones;
-            if (std::abs(davies_ph - extended_ph) > 0.02)
-                out.warnings.push_back(
-                    {"activity-model-differs", Warning::Severity::caution,
-                     "The Davies model gives pH " + format_fixed(davies_ph, 3) + " and the " +
-                         (tj ? "Truesdell–Jones" : "SIT") + " model pH " +
-                         format_fixed(extended_ph, 3) +
-                         " at I = " + format_fixed(st.ionic_strength_mol_per_l, 3) +
-                         " mol/L: they differ by more than 0.02. " +
-                         (tj ? "Truesdell–Jones (\"activity_model\": \"truesdell-jones\") "
-                               "holds to about 1 mol/kg"
-                             : "SIT (\"activity_model\": \"sit\") holds to a few mol/kg") +
-                         ", Davies to about 0.1 mol/L."});
+            if (std::abs(davies_ph - extended_ph) > 0.02) {
+                Finding f;
+                f.kind = FindingKind::activity_model_differs;
+                f.severity = Severity::caution;
+                f.number("davies_ph", davies_ph);
+                f.number("extended_ph", extended_ph);
+                f.number("ionic_strength_mol_per_l", st.ionic_strength_mol_per_l);
+                f.detail_text("model", tj ? "truesdell-jones" : "sit");
+                out.warnings.push_back(warning_of(std::move(f)));
+            }
         } catch (const Error&) {
             // The other model not converging says nothing about this result.
         }

@@ -2,8 +2,10 @@
 // Charge-balance speciation of an aqueous mixture of reagents with Davies activity coefficients
 // at the self-consistent ionic strength.
 #include "chem/activity.h"
+#include "chem/finding.h"
 #include "chem/reagent.h"
 
+#include <optional>
 #include <string>
 #include <vector>
 
@@ -23,11 +25,15 @@ struct SpeciesAmount {
 };
 
 /// A diagnostic attached to a result. Codes are stable strings (tests and the CLI use them).
+/// The solver's and the recipe's warnings carry their finding (typed subject and numbers) and
+/// are worded by chem::describe (chem/finding_text.h, warning_of); the others (batch, eluent,
+/// transfer, the app's notes) are still sentences made where they are found.
 struct Warning {
-    enum class Severity { info, caution, warning };
+    using Severity = chem::Severity;
     std::string code; ///< "ionic-strength-high", "ph-outside-pka-range", …
     Severity severity = Severity::info;
-    std::string message; ///< plain sentence with the numbers behind it
+    std::string message;              ///< plain sentence with the numbers behind it
+    std::optional<Finding> finding{}; ///< the data behind the message, where it is typed
 };
 const char* severity_name(Warning::Severity s);
 

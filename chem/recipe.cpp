@@ -1,4 +1,5 @@
 #include "chem/recipe.h"
+#include "chem/finding_text.h"
 #include "chem/guard.h"
 
 #include "chem/equilibrium_detail.h"
@@ -791,7 +792,8 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
         return 1.0;
     };
     double nearest = std::numeric_limits<double>::infinity();
-    std::string nearest_text;
+    std::string nearest_system; ///< the nearest step's system, its pKa′ and pKa at T
+    double nearest_pka_conditional = 0, nearest_pka = 0;
     std::set<std::string> seen;
     for (const auto& c : recipe.composition)
         for (const auto& s : c.reagent->systems) {
@@ -804,42 +806,60 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
                                    std::log10(gamma_of(sys.id, sys.species[j + 1]));
                 if (std::abs(pka - req.target_ph) < nearest) {
                     nearest = std::abs(pka - req.target_ph);
-                    nearest_text = sys.id + " pKa′ " + format_fixed(pka, 2) + " (pKa " +
-                                   format_fixed(sys.pka_at(j, t_k), 2) + ")";
+                    nearest_system = sys.id;
+                    nearest_pka_conditional = pka;
+                    nearest_pka = sys.pka_at(j, t_k);
                 }
             }
         }
-    if (nearest > 1.0)
-        w.push_back({"ph-outside-pka-range", Warning::Severity::warning,
-                     ph_text(req.target_ph) + " is " + format_fixed(nearest, 2) +
-                         " pH units from the nearest conditional pKa′ (" + nearest_text + " at " +
-                         format_number(req.temperature_c) + " °C and I = " +
-                         format_fixed(recipe.predicted.ionic_strength_mol_per_l, 3) +
-                         " mol/L); outside pKa′ ± 1 the solution buffers poorly."});
-    if (recipe.predicted.buffer_capacity_mol_per_l < low_buffer_capacity)
-        w.push_back({"low-buffer-capacity", Warning::Severity::caution,
-                     "Buffer capacity " +
-                         format_fixed(recipe.predicted.buffer_capacity_mol_per_l * 1000, 2) +
-                         " mmol/L per pH is below 2 mmol/L per pH (common practice, no source): "
-                         "the sample or dissolved CO2 can shift the pH."});
+    auto finding = [](FindingKind kind, Severity severity, Subject subject) {
+        Finding f;
+        f.kind = kind;
+        f.severity = severity;
+        f.subject = std::move(subject);
+        return f;
+    };
+    if (nearest > 1.0) {
+        Finding f =
+            finding(FindingKind::ph_outside_pka_range, Severity::warning,
+                    nearest_system.empty() ? Subject{} : Subject::of_system(nearest_system));
+        f.number("target_ph", req.target_ph);
+        f.number("gap", nearest);
+        f.number("pka_conditional", nearest_pka_conditional);
+        f.number("pka", nearest_pka);
+        f.number("temperature_c", req.temperature_c);
+        f.number("ionic_strength_mol_per_l", recipe.predicted.ionic_strength_mol_per_l);
+        w.push_back(warning_of(std::move(f)));
+    }
+    if (recipe.predicted.buffer_capacity_mol_per_l < low_buffer_capacity) {
+        Finding f = finding(FindingKind::low_buffer_capacity, Severity::caution, Subject{});
+        f.number("buffer_capacity_mol_per_l", recipe.predicted.buffer_capacity_mol_per_l);
+        w.push_back(warning_of(std::move(f)));
+    }
+    // Reagents by the library's name in the sentences.
+    RenderContext words;
+    words.name_of = [&lib](const std::string& id) { return lib.reagent(id).name; };
     for (const auto& it : recipe.items) {
         const bool weighed = it.kind == ItemKind::solid;
-        if (weighed && *it.mass_g < balance_min_mass_g)
-            w.push_back({"small-amount", Warning::Severity::caution,
-                         lib.reagent(it.reagent).name + ": " + format_fixed(*it.mass_g * 1000, 2) +
-                             " mg is below what a lab balance weighs well (10 mg); make a larger "
-                             "volume or use a stock solution."});
-        if (!weighed && it.volume_ml && *it.volume_ml < pipette_min_volume_ml)
-            w.push_back({"small-amount", Warning::Severity::caution,
-                         lib.reagent(it.reagent).name + ": " +
-                             format_fixed(*it.volume_ml * 1000, 1) +
-                             " µL is below what a pipette delivers well (10 µL); make a larger "
-                             "volume or dilute the reagent first."});
-        if (is_titrant(it.kind) && *it.volume_ml > 0.5 * req.volume_ml)
-            w.push_back({"titrant-volume-large", Warning::Severity::caution,
-                         "The titrant takes " + format_amount(*it.volume_ml) + " mL of the " +
-                             format_number(req.volume_ml) +
-                             " mL final volume; use a more concentrated titrant."});
+        if (weighed && *it.mass_g < balance_min_mass_g) {
+            Finding f = finding(FindingKind::small_amount, Severity::caution,
+                                Subject::of_reagent(it.reagent));
+            f.number("mass_g", *it.mass_g);
+            w.push_back(warning_of(std::move(f), words));
+        }
+        if (!weighed && it.volume_ml && *it.volume_ml < pipette_min_volume_ml) {
+            Finding f = finding(FindingKind::small_amount, Severity::caution,
+                                Subject::of_reagent(it.reagent));
+            f.number("volume_ml", *it.volume_ml);
+            w.push_back(warning_of(std::move(f), words));
+        }
+        if (is_titrant(it.kind) && *it.volume_ml > 0.5 * req.volume_ml) {
+            Finding f = finding(FindingKind::titrant_volume_large, Severity::caution,
+                                Subject::of_reagent(it.reagent));
+            f.number("volume_ml", *it.volume_ml);
+            f.number("final_volume_ml", req.volume_ml);
+            w.push_back(warning_of(std::move(f), words));
+        }
     }
     for (const auto& pw : recipe.predicted.warnings)
         w.push_back(pw);

@@ -640,6 +640,18 @@ class TestGuiModels : public QObject {
         };
         QVERIFY(has_code("runs-dry"));
         QVERIFY(checks.warningCount() >= 1);
+        // The plan's findings carry their subject typed: the bottle that runs dry is line B's.
+        bool typed = false;
+        for (const QVariant& v : plan.warnings()) {
+            const QVariantMap w = v.toMap();
+            if (w.value("code").toString() != QLatin1String("runs-dry"))
+                continue;
+            const QVariantMap subject = w.value("subject").toMap();
+            QCOMPARE(subject.value("kind").toString(), QString("line"));
+            QCOMPARE(subject.value("id").toString(), QString("B"));
+            typed = true;
+        }
+        QVERIFY(typed);
         // Worst first.
         QCOMPARE(checks.data(checks.index(0), ChecksModel::SeverityRole).toString(),
                  QString("warning"));
@@ -648,6 +660,41 @@ class TestGuiModels : public QObject {
         lines.recomputeNow();
         checks.refreshNow();
         QVERIFY(!has_code("runs-dry"));
+    }
+
+    // A salt that comes out in the mixer during a method is fixed at that method's gradient: the
+    // focus comes from the finding's typed place, not from its "where" words (which read
+    // "in method assay at 10.5 min" and once made the path "methods.in method assay…").
+    void checks_focus_from_the_typed_place() {
+        auto ws = open_workspace(fresh_db());
+        QJsonObject doc = read_json(data_dir + "/demo/overnight-sequence.json");
+        QJsonObject lines = doc.value("lines").toObject();
+        QJsonObject a = lines.value("A").toObject();
+        // 60 mmol/L potassium dihydrogen phosphate: above its limit at 75 % acetonitrile in
+        // data/solvents.json's solubility table (the check's own data; common practice).
+        a.insert("additives", QJsonArray{QJsonObject{{"additive", "potassium-dihydrogen-phosphate"},
+                                                     {"mmol_per_l", 60}}});
+        lines.insert("A", a);
+        doc.insert("lines", lines);
+        phaseplan::SequenceTraces traces;
+        const QJsonObject out = phaseplan::sequence_with_typed_traces(ws->data(), doc, {}, traces);
+        const QJsonArray warnings = out.value("warnings").toArray();
+        QVERIFY(!traces.findings.empty());
+        const qsizetype first = warnings.size() - qsizetype(traces.findings.size());
+        bool seen = false;
+        for (std::size_t i = 0; i < traces.findings.size(); ++i) {
+            const chem::Finding& f = traces.findings[i];
+            if (f.kind != chem::FindingKind::precipitation ||
+                f.where.kind != chem::Subject::Kind::method)
+                continue;
+            QVariantMap w = warnings[first + qsizetype(i)].toObject().toVariantMap();
+            QCOMPARE(w.value("code").toString(), QString("precipitation"));
+            w.insert(phaseplan::finding_references(f));
+            QCOMPARE(ChecksModel::focusFor("precipitation", w.value("line").toString(), w),
+                     QString("methods.%1.gradient[0]").arg(QString::fromStdString(f.where.id)));
+            seen = true;
+        }
+        QVERIFY2(seen, "no precipitation in a method");
     }
 
     void lines_amounts_fill_the_bottle() {

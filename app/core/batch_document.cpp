@@ -1,5 +1,7 @@
 #include "core/batch_document.h"
 
+#include "chem/finding_text.h"
+
 #include "chem/error.h"
 #include "chem/guard.h"
 #include "chem/recipe_roles.h"
@@ -70,13 +72,21 @@ struct WarningList {
 
     void add(const chem::Warning& w, const std::vector<chem::AmountCheck>* checks = nullptr) {
         QJsonObject o = warning_to_json(w);
-        if (checks)
+        // An amount's finding is about its part (a typed reference): it is worded again with the
+        // screens' name for the part, and its check's numbers go with it.
+        using K = chem::FindingKind;
+        const chem::Finding* f = w.finding ? &*w.finding : nullptr;
+        const bool about_amount =
+            f && (f->kind == K::amount_out_of_tolerance || f->kind == K::amount_not_entered);
+        if (checks && about_amount)
             for (const auto& c : *checks) {
-                if (w.message.rfind(c.reagent + ":", 0) != 0)
+                if (c.reagent != f->subject.id)
                     continue;
-                // The screens' name in place of the id that leads the core's message.
-                o["message"] =
-                    part_display_name(*data, c.reagent) + qs(w.message.substr(c.reagent.size()));
+                chem::RenderContext words;
+                words.name_of = [this](const std::string& id) {
+                    return part_display_name(*data, id).toStdString();
+                };
+                o["message"] = qs(chem::describe(*f, words));
                 if (w.code == "amount-out-of-tolerance" && !c.within_tolerance) {
                     o["reagent"] = qs(c.reagent);
                     o["unit"] = qs(c.unit);

@@ -398,10 +398,22 @@ chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path
     return p;
 }
 
-QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock) {
-    QJsonObject o = warning_to_json(w);
-    if (!w.line.empty())
-        o["line"] = qs(w.line);
+QVariantMap finding_references(const chem::Finding& f) {
+    auto ref = [](const chem::Subject& s) {
+        return QVariantMap{{"kind", QLatin1String(chem::subject_kind_name(s.kind))},
+                           {"id", qs(s.id)},
+                           {"other", qs(s.other)}};
+    };
+    return QVariantMap{{"subject", ref(f.subject)}, {"place", ref(f.where)}};
+}
+
+QJsonObject finding_to_json(const chem::Finding& w, const chem::RenderContext& words,
+                            const Clock* clock) {
+    QJsonObject o{{"code", QLatin1String(w.code())},
+                  {"severity", chem::severity_name(w.severity)},
+                  {"message", qs(chem::describe(w, words))}};
+    if (!w.alone && !w.subject.line_letters().empty())
+        o["line"] = qs(w.subject.line_letters());
     for (const auto& [k, v] : w.numbers) {
         o[qs(k)] = v;
         const std::string suffix = "_at_min";
@@ -457,9 +469,12 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
     if (r.buffer)
         for (const auto& w : r.buffer->warnings)
             warnings.append(warning_to_json(w));
-    for (const auto& w : chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column,
-                                          &data.reagents, library_names(data)))
-        warnings.append(check_warning_to_json(w, nullptr));
+    chem::RenderContext words;
+    words.name_of = library_names(data);
+    words.line_names[0] = pl.spec.name;
+    for (const auto& w :
+         chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column, &data.reagents))
+        warnings.append(finding_to_json(w, words, nullptr));
 
     const chem::ShelfLife* shelf_entry =
         r.profile.shelf_kind ? data.solvents.shelf_life(*r.profile.shelf_kind) : nullptr;

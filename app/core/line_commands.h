@@ -9,6 +9,7 @@
 //   over several instruments and days, summed per line recipe in "batches".
 // Field names are a fixed contract: extend, rename nothing.
 #include "chem/checks.h"
+#include "chem/finding_text.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
 #include "chem/sequence.h"
@@ -17,6 +18,7 @@
 #include <QDateTime>
 #include <QJsonArray>
 #include <QJsonObject>
+#include <QVariantMap>
 
 #include <initializer_list>
 #include <map>
@@ -38,7 +40,14 @@ std::string command_sequence_text(const AppData& data, const QJsonObject& input,
 struct SequenceTraces {
     std::vector<chem::EluentTrace> eluent;               ///< one per method run
     std::map<std::string, chem::PressureTrace> pressure; ///< by method name, where there is one
+    /// The checks' findings, typed: the last findings.size() entries of "warnings" are their
+    /// JSON, in the same order.
+    std::vector<chem::Finding> findings;
 };
+/// A finding's typed references for the screens (no sentence to parse back):
+/// {"subject": {"kind", "id", "other"}, "place": {"kind", "id", "other"}}, the kinds as
+/// chem::subject_kind_name gives them ("line", "line-pair", "method", "standby", "none").
+QVariantMap finding_references(const chem::Finding& f);
 /// command_sequence for the app's plan model: the same result, except that the traces are
 /// handed over typed in `traces` instead of being written into the JSON (`eluent_trace` and
 /// each method's `pressure` are left out; `max_pressure_bar` and `max_pressure_at_t_min` stay).
@@ -95,8 +104,10 @@ chem::LineValues percent_from_json(const QJsonObject& o, const std::string& path
 /// [{"t_min", "organic_fraction_v", "ph_s_w", "ph_s_s", "extrapolated"}]}}.
 QJsonObject eluent_traces_to_json(const std::vector<chem::EluentTrace>& traces);
 
-/// The JSON form of a check warning: code, severity, message, "line", the numbers and texts
-/// flattened in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.
-QJsonObject check_warning_to_json(const chem::CheckWarning& w, const Clock* clock);
+/// The JSON form of a check's finding: code, severity, the message (chem::describe with `words`),
+/// "line" (the subject's line letters, none for a lone line), the numbers and texts flattened
+/// in; "…_at_min" numbers also as clock times ("…_at") when a clock is given.
+QJsonObject finding_to_json(const chem::Finding& f, const chem::RenderContext& words,
+                            const Clock* clock);
 
 } // namespace phaseplan

@@ -101,7 +101,7 @@ QJsonObject method_to_json(const chem::Method& m) {
 /// The notes that go with every trace: the viscosity's basis and an uncalibrated resistance.
 void trace_notes(const chem::PressureTrace& t, const std::string& method, QJsonArray& warnings) {
     if (auto w = chem::pressure_limit_warning(method, t))
-        warnings.append(check_warning_to_json(*w, nullptr));
+        warnings.append(finding_to_json(*w, chem::RenderContext{}, nullptr));
     using B = chem::ViscosityBasis;
     if (t.viscosity_basis == B::one_point_estimate || t.viscosity_basis == B::ideal_mixing) {
         std::string ids;

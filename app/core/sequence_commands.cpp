@@ -205,13 +205,14 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     // profiles (validates parts and additives), then the plan
     std::array<chem::LineProfile, chem::max_lines> profiles;
     chem::SequenceCheckInput c;
+    chem::RenderContext words; // how the findings are worded: line names, clock, library names
     for (int l = 0; l < chem::max_lines; ++l) {
         if (!parsed[l])
             continue;
         profiles[l] = chem::profile_line(data.solvents, data.reagents, parsed[l]->spec);
         if (profiles[l].described)
             c.profiles[l] = &profiles[l];
-        c.names[l] = parsed[l]->spec.name;
+        words.line_names[l] = parsed[l]->spec.name;
         if (parsed[l]->prepared_at) {
             c.prepared_at_min[l] = clock.start.msecsTo(*parsed[l]->prepared_at) / 60000.0;
             // A bottle on the instrument is made before the run; a later date is a typing slip
@@ -265,8 +266,8 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                                         json::path(json::path(root, "methods"), name)))
             c.method_columns[m.name] = *own;
     }
-    c.clock = [&clock](double m) { return clock.text(m); };
-    c.name_of = library_names(data);
+    words.clock = [&clock](double m) { return clock.text(m); };
+    words.name_of = library_names(data);
     QJsonArray pressure_notes;
     const auto pressure = sequence_pressure(data, doc, root, in, c.profiles, &pressure_notes);
     if (!pressure.empty())
@@ -357,7 +358,7 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     for (const auto& n : pressure_notes)
         warnings.append(n);
     for (const auto& w : checks)
-        warnings.append(check_warning_to_json(w, &clock));
+        warnings.append(finding_to_json(w, words, &clock));
 
     QJsonObject out{{"start", clock.iso(0)},
                     {"end", clock.iso(plan.total_min)},
@@ -373,9 +374,10 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     {"warnings", warnings}};
     if (in.waste_capacity_ml)
         out["waste_capacity_ml"] = *in.waste_capacity_ml;
-    if (typed)
+    if (typed) {
         typed->eluent = traces;
-    else
+        typed->findings = checks;
+    } else
         out["eluent_trace"] = eluent_traces_to_json(traces);
     res.out = out;
     res.rows = std::move(plan.rows);

@@ -119,8 +119,14 @@ QString ChecksModel::focusFor(const QString& code, const QString& line, const QV
         return QStringLiteral("waste_ml");
     if (code == QLatin1String("buffer-range") && !l.isEmpty())
         return QStringLiteral("lines.%1.parts").arg(l);
+    // A check's finding names its subject and place typed (Plan adds them: finding_references).
+    const QVariantMap subject = w.value("subject").toMap();
+    const QVariantMap place = w.value("place").toMap();
+    const bool in_method = place.value("kind").toString() == QLatin1String("method");
     if (code == QLatin1String("pressure-limit")) {
-        const QString m = w.value("method").toString();
+        const QString m = subject.value("kind").toString() == QLatin1String("method")
+                              ? subject.value("id").toString()
+                              : w.value("method").toString();
         if (!m.isEmpty())
             return QStringLiteral("methods.%1.flow_ml_min").arg(m);
     }
@@ -131,10 +137,8 @@ QString ChecksModel::focusFor(const QString& code, const QString& line, const QV
     if (code == QLatin1String("ms-nonvolatile") && !l.isEmpty())
         return QStringLiteral("lines.%1.parts").arg(l);
     if (code == QLatin1String("precipitation") || code == QLatin1String("immiscible")) {
-        const QString where = w.value("where").toString();
-        if (!where.isEmpty() && where != QLatin1String("standby") &&
-            !where.startsWith(QLatin1String("in the bottle")))
-            return QStringLiteral("methods.%1.gradient[0]").arg(where);
+        if (in_method && !place.value("id").toString().isEmpty())
+            return QStringLiteral("methods.%1.gradient[0]").arg(place.value("id").toString());
         if (!l.isEmpty())
             return QStringLiteral("lines.%1.parts").arg(l);
     }

@@ -1151,8 +1151,16 @@ void Plan::recompute() {
     for (const QJsonValue& r : rows())
         injections_ += r.toObject().value("injections").toInt();
     {
-        for (const QJsonValue& w : out.value("warnings").toArray())
-            warnings_.append(w.toObject().toVariantMap());
+        const QJsonArray ws = out.value("warnings").toArray();
+        // The checks' findings close the list: each carries its typed subject and place, so the
+        // screens never read them out of the sentence.
+        const qsizetype first_finding = ws.size() - qsizetype(traces_.findings.size());
+        for (qsizetype i = 0; i < ws.size(); ++i) {
+            QVariantMap w = ws[i].toObject().toVariantMap();
+            if (i >= first_finding && first_finding >= 0)
+                w.insert(finding_references(traces_.findings[std::size_t(i - first_finding)]));
+            warnings_.append(w);
+        }
         const QJsonObject lines = obj(out, "lines");
         for (const QString& letter : lineLetters()) {
             const QJsonObject in = line(letter);

@@ -3,6 +3,7 @@
 // dwell and column volumes, the pressure-limit check, and bad input naming its field.
 #include "chem/checks.h"
 #include "chem/error.h"
+#include "chem/finding_text.h"
 #include "chem/pressure.h"
 #include "chem/units.h"
 #include "chem/viscosity.h"
@@ -159,9 +160,10 @@ TEST_F(Pressure, PressureLimitCheck) {
     auto w = pressure_limit_warning(
         "grad", pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
     EXPECT_TRUE(w);
-    EXPECT_EQ(w->code, std::string("pressure-limit"));
+    EXPECT_EQ(std::string(w->code()), "pressure-limit");
     EXPECT_EQ(w->severity, Warning::Severity::warning);
-    EXPECT_TRUE(w->message.find("instrument") != std::string::npos);
+    EXPECT_TRUE(describe(*w, RenderContext{}).find("instrument") != std::string::npos);
+    EXPECT_EQ(w->subject, Subject::of_method("grad"));
     in.max_pressure_bar = peak * 1.05;
     w = pressure_limit_warning("grad",
                                pressure_trace(solvents_, lines(methanol_), gradient(0.4), c, in));
