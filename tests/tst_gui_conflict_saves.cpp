@@ -143,8 +143,11 @@ class TestGuiConflictSaves : public QObject {
         a.setVolumeMl(1500); // the volume is not in the name: Rosa's save keeps it
         a.flushAutosave();
         QCOMPARE(a.bufferName(), name);
-        // Mats changes the pH, which would rename the buffer: refused, naming Rosa.
+        // Mats changes the pH, which would rename the buffer when the edit settles: refused,
+        // naming Rosa.
         b.setTargetPh(3.0);
+        QVERIFY(b.conflictMessage().isEmpty()); // nothing written yet
+        b.flushAutosave();
         QVERIFY2(b.conflictMessage().startsWith("Buffer \"" + name +
                                                 "\": changed by Rosa Okafor (demo-prep) at "),
                  qPrintable(b.conflictMessage()));

@@ -514,8 +514,13 @@ class TestGuiModels : public QObject {
         QVERIFY(d.autoName());
         QCOMPARE(made, d.defaultName());
         QCOMPARE(made, QString("25 mM sodium phosphate pH 7.0"));
-        // The name follows the inputs until the buffer is named.
+        // The name follows the inputs until the buffer is named, once the edit settles (the
+        // autosave): until then it stays the name the buffer is stored under.
         d.setTargetPh(6.8);
+        QCOMPARE(d.bufferName(), QString("25 mM sodium phosphate pH 7.0"));
+        QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer,
+                                     "25 mM sodium phosphate pH 7.0"));
+        d.flushAutosave();
         QCOMPARE(d.bufferName(), QString("25 mM sodium phosphate pH 6.8"));
         QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::buffer,
                                      "25 mM sodium phosphate pH 6.8"));

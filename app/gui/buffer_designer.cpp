@@ -49,6 +49,8 @@ BufferDesigner::BufferDesigner(QObject* parent) : QObject(parent) {
 
 BufferDesigner::~BufferDesigner() {
     flushAutosave();
+    if (plan_)
+        plan_->flushAutosave(); // a rename just written: the lines' new reference with it
 }
 
 void BufferDesigner::setAutosaveKey(const QString& k) {
@@ -81,6 +83,11 @@ void BufferDesigner::flushAutosave() {
         return; // read-only or locked: the banner says so, and dirty_ stays for a later save
     if (!conflict_.isEmpty())
         return; // refused once: the edits stay on screen until Reload or Save as a copy
+    // The automatic name follows the inputs as they settled, in the same pause as the save: a
+    // rename is a checked write, too slow for every keystroke (it was over half an edit's time).
+    follow_default_name();
+    if (!conflict_.isEmpty())
+        return; // the rename was refused (changed on another bench): Reload or Save as a copy
     if (save_buffer())
         dirty_ = false; // on a failure the edits stay pending: saved with the next change, or
                         // when a lost connection comes back (Workspace::connectionRestored)
@@ -622,7 +629,8 @@ template <class T> void BufferDesigner::set_input(T& member, const T& value) {
 
 void BufferDesigner::after_edit() {
     recompute();
-    follow_default_name();
+    // The name follows in flushAutosave(), when the edit settles: until then the buffer, and the
+    // lines that hold it, keep the name it is stored under.
     if (plan_ && !buffer_name_.isEmpty())
         plan_->updateBufferRefs(buffer_name_, requestDocument());
     emit edited();

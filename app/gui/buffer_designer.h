@@ -43,7 +43,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// The saved buffer this designer edits (its name in the lab's database). Every edit is
     /// saved into it a moment later; "" before the workspace is open.
     Q_PROPERTY(QString bufferName READ bufferName NOTIFY bufferChanged)
-    /// The name follows the inputs ("20 mM phosphate pH 2.5") until the user names the buffer.
+    /// The name follows the inputs ("20 mM phosphate pH 2.5") until the user names the buffer. It
+    /// follows when the edit settles (with the save, flushAutosave), not on every keystroke.
     Q_PROPERTY(bool autoName READ autoName NOTIFY bufferChanged)
     /// [{id: name, name: name}] of every saved buffer, for the picker.
     Q_PROPERTY(QVariantList bufferChoices READ bufferChoices NOTIFY bufferListChanged)
@@ -114,6 +115,12 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     /// β in mmol/L per pH unit.
     Q_PROPERTY(double bufferCapacityMmolPerL READ bufferCapacityMmolPerL NOTIFY resultChanged)
     Q_PROPERTY(QStringList steps READ steps NOTIFY stepsChanged)
+    /// The lengths of items and steps, for views that show one row per entry through itemAt() /
+    /// stepAt(): each read of `items` or `steps` from QML makes a new JS copy of the whole list
+    /// (garbage the JS heap collects in one long pause), so a row reads only its own entry. A
+    /// row reads the count too, which carries the list's change signal.
+    Q_PROPERTY(int itemCount READ itemCount NOTIFY itemsChanged)
+    Q_PROPERTY(int stepCount READ stepCount NOTIFY stepsChanged)
     Q_PROPERTY(QStringList cautions READ cautions NOTIFY cautionsChanged)
     /// [{code, severity, message}]
     Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
@@ -155,7 +162,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void setPlan(Plan* p);
     QString autosaveKey() const { return autosave_key_; }
     void setAutosaveKey(const QString& k);
-    /// Writes the pending save of the buffer now (also done on destruction).
+    /// Writes the pending save of the buffer now (also done on destruction), after the automatic
+    /// rename the settled inputs call for.
     Q_INVOKABLE void flushAutosave();
 
     QString bufferName() const { return buffer_name_; }
@@ -240,6 +248,14 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     double ionicStrengthResultMmolPerL() const { return ionic_strength_result_mmol_per_l_; }
     double bufferCapacityMmolPerL() const { return buffer_capacity_mmol_per_l_; }
     QStringList steps() const { return steps_; }
+    int itemCount() const { return int(items_.size()); }
+    int stepCount() const { return int(steps_.size()); }
+    /// Item i as in `items` ({} out of range).
+    Q_INVOKABLE QVariantMap itemAt(int i) const {
+        return i >= 0 && i < items_.size() ? items_.at(i).toMap() : QVariantMap{};
+    }
+    /// Step i as in `steps` ("" out of range).
+    Q_INVOKABLE QString stepAt(int i) const { return steps_.value(i); }
     QStringList cautions() const { return cautions_; }
     QVariantList warnings() const { return warnings_; }
     QString errorField() const { return error_.field; }
@@ -299,8 +315,8 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
 
   private:
     template <class T> void set_input(T& member, const T& value);
-    /// After an input changed by the user: recompute, follow the default name, update the lines
-    /// that hold the buffer, schedule the save.
+    /// After an input changed by the user: recompute, update the lines that hold the buffer,
+    /// schedule the save (which follows the default name).
     void after_edit();
     void rebuild_choices();
     void rebuild_buffer_list();
@@ -311,7 +327,7 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void schedule_autosave();
     /// The saved document: the inputs plus "name" (and "auto_name" while the name follows them).
     QJsonObject saved_document() const;
-    /// Renames the saved buffer to follow the inputs while autoName.
+    /// Renames the saved buffer to follow the inputs while autoName (from flushAutosave).
     void follow_default_name();
     /// A name not yet taken: `wanted`, else "wanted (2)", "wanted (3)", …
     QString free_name(const QString& wanted) const;

@@ -227,6 +227,11 @@ void ColumnTransfer::recompute() {
     // The present column is said even while the move cannot be worked out.
     if (result.isEmpty() && from_info.value("has").toBool())
         result.insert("fromText", column_summary(from));
+    // Most plan changes (a buffer edit, a row) leave the move as it was: the views then keep
+    // what they show.
+    if (valid == valid_ && errors == errors_ && problem == problem_ && result == result_ &&
+        scaled == scaled_)
+        return;
     valid_ = valid;
     errors_ = errors;
     problem_ = problem;

@@ -924,8 +924,20 @@ void Plan::adopt_inline_buffers() {
                 // A reference: take the saved buffer's current recipe (it follows edits).
                 auto hit = std::find_if(saved.begin(), saved.end(),
                                         [&](const auto& s) { return s.first == ref; });
-                if (hit == saved.end() || hit->second == p.value("buffer").toObject())
+                if (hit == saved.end()) {
+                    // Renamed since this plan was kept (on another bench, or by the designer's
+                    // rename written after the plan's last save): follow it to its name now.
+                    QString now_named;
+                    guarded(
+                        [&] { now_named = db->current_name(storage::DocumentKind::buffer, ref); });
+                    hit = std::find_if(saved.begin(), saved.end(),
+                                       [&](const auto& s) { return s.first == now_named; });
+                    if (now_named.isEmpty() || hit == saved.end())
+                        continue;
+                    p.insert("buffer_ref", now_named);
+                } else if (hit->second == p.value("buffer").toObject()) {
                     continue;
+                }
                 p.insert("buffer", hit->second);
             } else {
                 auto same = std::find_if(saved.begin(), saved.end(),

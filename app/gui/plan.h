@@ -38,6 +38,9 @@ class Plan : public QObject {
     /// The name it is saved under.
     Q_PROPERTY(QString name READ name WRITE setName NOTIFY documentChanged)
     Q_PROPERTY(QVariantMap document READ documentMap NOTIFY documentChanged)
+    /// The plan's column (the document's `column`), for views that need only it: `document` read
+    /// from QML is a JS copy of the whole plan, made again on every edit.
+    Q_PROPERTY(QVariantMap column READ columnMap NOTIFY documentChanged)
     /// Letters of the defined lines, "A".."D".
     Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY lineLettersChanged)
     Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY methodNamesChanged)
@@ -107,6 +110,10 @@ class Plan : public QObject {
     /// dry_after_injection,
     ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}]
     Q_PROPERTY(QVariantList bottles READ bottles NOTIFY bottlesChanged)
+    /// The number of bottles, for views that show a row per bottle through bottleAt(): a read of
+    /// `bottles` from QML makes a JS copy of the whole list, and a list as a Repeater's model
+    /// makes its rows again on every change. A row reads the count, which carries the signal.
+    Q_PROPERTY(int bottleCount READ bottleCount NOTIFY bottlesChanged)
     /// [{code, severity, message, …}] of the sequence checks.
     Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
     /// Plot ranges of the bottle chart: hours from the start, mL.
@@ -127,6 +134,7 @@ class Plan : public QObject {
     void setName(const QString& n);
     const QJsonObject& json() const { return doc_; }
     QVariantMap documentMap() const { return doc_.toVariantMap(); }
+    QVariantMap columnMap() const { return doc_.value("column").toObject().toVariantMap(); }
     QStringList lineLetters() const;
     QStringList methodNames() const;
     QVariantMap methodUse() const { return method_use_; }
@@ -181,6 +189,11 @@ class Plan : public QObject {
     int injections() const { return injections_; }
     double wasteMl() const;
     QVariantList bottles() const { return bottles_; }
+    int bottleCount() const { return int(bottles_.size()); }
+    /// Bottle i as in `bottles` ({} out of range).
+    Q_INVOKABLE QVariantMap bottleAt(int i) const {
+        return i >= 0 && i < bottles_.size() ? bottles_.at(i).toMap() : QVariantMap{};
+    }
     QVariantList warnings() const { return warnings_; }
     double chartHours() const { return levels_.chart_hours; }
     double chartMaxMl() const { return levels_.chart_max_ml; }

@@ -90,12 +90,13 @@ ScreenPage {
                     Layout.fillWidth: true
                     spacing: Theme.gap
                     Repeater {
-                        // The count, not the list: new amounts update the steps in place.
-                        model: root.designer.steps.length
+                        // The count, not the list: new amounts update the steps in place. Each
+                        // row reads its own step (stepAt; stepCount carries the change signal).
+                        model: root.designer.stepCount
                         delegate: Label {
                             required property int index
                             width: stepList.width
-                            text: (index + 1) + ". " + (root.designer.steps[index] || "")
+                            text: root.designer.stepCount > index ? (index + 1) + ". " + root.designer.stepAt(index) : ""
                             wrapMode: Text.Wrap
                             font.pixelSize: Theme.fontSize
                         }

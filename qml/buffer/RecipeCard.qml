@@ -31,14 +31,15 @@ Card {
         Layout.fillWidth: true
         spacing: Theme.gap
         // The model is the count, not the list: an edit that changes the amounts updates the
-        // rows in place instead of building them again.
+        // rows in place instead of building them again. Each row reads its own item (itemAt;
+        // itemCount carries the change signal), not a JS copy of the whole list.
         Repeater {
             objectName: "recipeItems"
-            model: root.designer.items.length
+            model: root.designer.itemCount
             delegate: RowLayout {
                 id: itemRow
                 required property int index
-                readonly property var modelData: root.designer.items[index] || ({})
+                readonly property var modelData: root.designer.itemCount > index ? root.designer.itemAt(index) : ({})
                 width: itemList.width
                 spacing: Theme.gap
                 ColumnLayout {

@@ -88,9 +88,11 @@ Card {
         Layout.fillWidth: true
         spacing: Theme.margin
         Repeater {
-            model: root.plan.bottles
+            // The count, not the list: rows updated in place (see NightSummary).
+            model: root.plan.bottleCount
             delegate: Row {
-                required property var modelData
+                required property int index
+                readonly property var modelData: root.plan.bottleCount > index ? root.plan.bottleAt(index) : ({})
                 spacing: Math.round(Theme.gap / 2)
                 Rectangle {
                     width: Theme.gap * 3

@@ -52,13 +52,16 @@ Card {
         label: qsTr("Column for method “%1”").arg(root.method)
         accessibleName: qsTr("Column for method %1").arg(root.method)
         choices: {
-            var pc = root.plan.document.column || {}
+            // The plan's column alone, and the names read once: each read of a list property
+            // is a new JS copy of it.
+            var pc = root.plan.column
             var planName = pc.name ? pc.name : (pc.length_mm ? columns.summary(pc) : qsTr("no size given"))
             var out = [{ id: "\u0001plan", name: qsTr("The plan's column (%1)").arg(planName) }]
-            for (var i = 0; i < columns.names.length; ++i)
-                out.push({ id: columns.names[i], name: columns.names[i] })
+            var names = columns.names
+            for (var i = 0; i < names.length; ++i)
+                out.push({ id: names[i], name: names[i] })
             var mc = root.methodColumn
-            if (mc.own && columns.names.indexOf(mc.name) < 0)
+            if (mc.own && names.indexOf(mc.name) < 0)
                 out.push({ id: mc.name, name: qsTr("%1 (kept with the method)").arg(mc.name) })
             return out
         }

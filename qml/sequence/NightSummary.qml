@@ -79,10 +79,12 @@ Card {
         Layout.fillWidth: true
         spacing: Theme.gap
         Repeater {
-            model: root.plan.bottles
+            // The count, not the list: a new result updates the rows in place, each reading its
+            // own bottle (bottleAt; bottleCount carries the change signal).
+            model: root.plan.bottleCount
             delegate: RowLayout {
-                required property var modelData
                 required property int index
+                readonly property var modelData: root.plan.bottleCount > index ? root.plan.bottleAt(index) : ({})
                 width: bottleList.width
                 spacing: Theme.gap
                 Rectangle {

@@ -85,8 +85,9 @@ Card {
         accessibleName: qsTr("Column to move method %1 to").arg(root.method)
         choices: {
             var out = []
-            for (var i = 0; i < columns.names.length; ++i)
-                out.push({ id: columns.names[i], name: columns.names[i] })
+            var names = columns.names // once: each read is a new JS copy of the list
+            for (var i = 0; i < names.length; ++i)
+                out.push({ id: names[i], name: names[i] })
             out.push({ id: "typed", name: qsTr("Another size (type it)") })
             return out
         }

@@ -1,5 +1,6 @@
 // What one edit costs in the app's models (no drawing): the buffer designer's recompute (the
-// recipe and 2 × 41 solves for its curves), the plan's recompute (the sequence command and the
+// recipe and 2 × 41 solves for its curves; the automatic rename and the save follow when the
+// edit settles, BM_BufferDesignerEditSettled), the plan's recompute (the sequence command and the
 // bottle levels) and the four lines. The full edit-to-frame time, drawing included, comes from
 // `phaseplan --measure`. Target: the model part well under one 16 ms frame.
 //   build/bench_gui_recompute --benchmark_repetitions=5 --benchmark_report_aggregates_only=true
@@ -64,6 +65,26 @@ void BM_BufferDesignerEdit(benchmark::State& state) {
         state.SkipWithError(qPrintable(d.errorMessage()));
 }
 BENCHMARK(BM_BufferDesignerEdit)->Unit(benchmark::kMillisecond);
+
+// What the edit leaves for when it settles (the autosave, 300 ms after the last edit): the
+// automatic rename and the save, both checked writes to the database, with the edit itself.
+// Every other edit here changes the name ("… pH 6.8" to "… pH 6.9").
+void BM_BufferDesignerEditSettled(benchmark::State& state) {
+    Fixture& f = fixture();
+    BufferDesigner d;
+    d.setWorkspace(&f.ws);
+    d.newBuffer();
+    double ph = 6.8;
+    for (auto _ : state) {
+        ph = ph > 7.4 ? 6.8 : ph + 0.05;
+        d.setTargetPh(ph);
+        d.flushAutosave();
+        benchmark::DoNotOptimize(d.bufferName());
+    }
+    if (!d.valid() || !d.conflictMessage().isEmpty())
+        state.SkipWithError(qPrintable(d.errorMessage() + d.conflictMessage()));
+}
+BENCHMARK(BM_BufferDesignerEditSettled)->Unit(benchmark::kMillisecond);
 
 void BM_LineBufferEditWithPlanAndLines(benchmark::State& state) {
     Fixture& f = fixture();
