@@ -165,7 +165,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
             const Solvent& s = solvents.solvent(part.solvent, pat + ".solvent");
             p.solvent_fraction_v[s.id] += f;
             (s.aqueous ? p.aqueous_fraction_v : p.organic_fraction_v) += f;
-            uv_parts.push_back({s.id, s.uv_cutoff_nm, f});
+            uv_parts.push_back({s.id, s.uv_cutoff_nm, f, s.uv_absorbance});
         }
     }
     if (std::fabs(sum - 1.0) > fraction_sum_tolerance)
@@ -211,7 +211,7 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
         if (look.beyond_table)
             p.uv_beyond_table.push_back(s.reagent);
         // Beer–Lambert: the row's cutoff scaled by the amount over the row's amount.
-        uv_parts.push_back({s.reagent, look.cutoff_nm, amount / look.point->amount});
+        uv_parts.push_back({s.reagent, look.cutoff_nm, amount / look.point->amount, {}});
     }
     // The aqueous buffer parts count as water for the UV; water itself is the reference.
     p.uv_cutoff_nm = line_uv_cutoff_nm(uv_parts, &p.uv_limited_by);
@@ -260,23 +260,72 @@ LineProfile profile_line(const SolventLibrary& solvents, const Library& reagents
     return p;
 }
 
+double uv_part_absorbance(const UvPart& part, double wavelength_nm) {
+    const std::vector<UvAbsorbancePoint>& t = part.table;
+    if (t.empty())
+        return std::pow(10.0, (part.cutoff_nm - wavelength_nm) / uv_decade_nm);
+    // The first row: the cutoff itself when it lies below the table and the table is below 1.
+    UvAbsorbancePoint first = t.front();
+    std::size_t next = 0; // the first table row above `first`
+    if (part.cutoff_nm > 0 && part.cutoff_nm < first.wavelength_nm && first.absorbance < 1)
+        first = {part.cutoff_nm, 1.0};
+    else
+        next = 1;
+    if (wavelength_nm <= first.wavelength_nm)
+        return first.absorbance *
+               std::pow(10.0, (first.wavelength_nm - wavelength_nm) / uv_decade_nm);
+    if (wavelength_nm >= t.back().wavelength_nm)
+        return t.back().absorbance;
+    UvAbsorbancePoint lo = first;
+    for (std::size_t i = next; i < t.size(); ++i) {
+        const UvAbsorbancePoint& hi = t[i];
+        if (wavelength_nm <= hi.wavelength_nm) {
+            const double f =
+                (wavelength_nm - lo.wavelength_nm) / (hi.wavelength_nm - lo.wavelength_nm);
+            return lo.absorbance * std::pow(hi.absorbance / lo.absorbance, f);
+        }
+        lo = hi;
+    }
+    return t.back().absorbance;
+}
+
 double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_by) {
     double top = 0;
+    bool tables = false;
     for (const UvPart& u : parts)
-        if (u.scale > 0)
+        if (u.scale > 0) {
             top = std::max(top, u.cutoff_nm);
+            tables = tables || !u.table.empty();
+        }
     if (top <= 0)
         return 0;
-    // log-sum-exp around the highest cutoff keeps the powers of ten in range.
-    double sum = 0;
-    for (const UvPart& u : parts)
-        if (u.scale > 0)
-            sum += u.scale * std::pow(10.0, (u.cutoff_nm - top) / uv_decade_nm);
-    const double cutoff = top + uv_decade_nm * std::log10(sum);
+    double cutoff = 0;
+    if (!tables) {
+        // log-sum-exp around the highest cutoff keeps the powers of ten in range.
+        double sum = 0;
+        for (const UvPart& u : parts)
+            if (u.scale > 0)
+                sum += u.scale * std::pow(10.0, (u.cutoff_nm - top) / uv_decade_nm);
+        cutoff = top + uv_decade_nm * std::log10(sum);
+    } else {
+        // Σ s_i·A_i(λ) falls (or holds) with λ: bisect for 1 between 50 and 1000 nm.
+        double lo = 50, hi = 1000;
+        if (uv_absorbance(parts, hi) >= 1) {
+            cutoff = hi;
+        } else if (uv_absorbance(parts, lo) <= 1) {
+            cutoff = lo;
+        } else {
+            for (int i = 0; i < 64 && hi - lo > 1e-10; ++i) {
+                const double mid = 0.5 * (lo + hi);
+                (uv_absorbance(parts, mid) >= 1 ? lo : hi) = mid;
+            }
+            cutoff = 0.5 * (lo + hi);
+        }
+    }
     if (limited_by) {
         double best = -1;
         for (const UvPart& u : parts) {
-            const double a = u.scale * std::pow(10.0, (u.cutoff_nm - cutoff) / uv_decade_nm);
+            const double a = u.scale * uv_part_absorbance(u, cutoff);
             if (a > best) {
                 best = a;
                 *limited_by = u.who;
@@ -290,7 +339,7 @@ double uv_absorbance(const std::vector<UvPart>& parts, double wavelength_nm) {
     double a = 0;
     for (const UvPart& u : parts)
         if (u.scale > 0)
-            a += u.scale * std::pow(10.0, (u.cutoff_nm - wavelength_nm) / uv_decade_nm);
+            a += u.scale * uv_part_absorbance(u, wavelength_nm);
     return a;
 }
 

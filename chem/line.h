@@ -63,13 +63,15 @@ enum class PhBasis {
 /// at 25 °C", "eluent s_w pH": the words of the contract and the checks.
 const char* ph_basis_name(PhBasis basis);
 
-/// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm) and how many times its
-/// absorbance at that cutoff it brings (a solvent's volume fraction; a solute's concentration over
-/// the tabulated one, by Beer–Lambert).
+/// One absorbing part of a line: its own cutoff (absorbance 1 in 1 cm), how many times its
+/// absorbance it brings (a solvent's volume fraction; a solute's concentration over the tabulated
+/// one, by Beer–Lambert) and, for a solvent with one, its published absorbance table
+/// (Solvent::uv_absorbance).
 struct UvPart {
     std::string who;
     double cutoff_nm = 0;
     double scale = 1;
+    std::vector<UvAbsorbancePoint> table;
 };
 
 struct LineProfile {
@@ -138,15 +140,26 @@ struct LineRecipe {
     std::vector<std::string> cautions;
 };
 
-/// Wavelength where the summed absorbance of the parts is 1, each part's absorbance taken to fall
-/// tenfold per uv_decade_nm above its cutoff (A_i(λ) = s_i·10^{−(λ − λc_i)/w}; the shape is a
-/// rough rule, common practice, no source): λ* = w·log10 Σ s_i 10^{λc_i/w}. 5 % THF (212 nm) in
-/// water gives 200 nm, not 212; two weak absorbers add. `limited_by` gets the largest contributor.
+/// The absorbance (1 cm, against water) of one part at scale 1, at wavelength_nm.
+/// - Without a table, the cutoff model: the absorbance falls tenfold per uv_decade_nm above the
+///   cutoff, A(λ) = 10^{−(λ − λc)/w} (the shape is a rough rule, common practice, no source).
+/// - With a published table: log-linear in absorbance between its rows. The cutoff (absorbance 1)
+///   joins the table as a row of its own when it lies below the first row and the first row's
+///   absorbance is below 1. Below the first row the absorbance rises tenfold per uv_decade_nm
+///   (the cutoff model's slope); above the last row the last row's figure is held (the figures are
+///   a grade's maxima, so holding never understates).
+double uv_part_absorbance(const UvPart& part, double wavelength_nm);
+
+/// Wavelength where the summed absorbance of the parts, Σ s_i·A_i(λ) (uv_part_absorbance), is 1.
+/// Without tables this is closed-form, λ* = w·log10 Σ s_i 10^{λc_i/w}: 5 % THF (212 nm) in water
+/// gives 200 nm, not 212; two weak absorbers add. With a table the root is found by bisection
+/// between 50 and 1000 nm (1000 when the parts still absorb 1 there). `limited_by` gets the
+/// largest contributor at the cutoff.
 inline constexpr double uv_decade_nm = 10.0;
 double line_uv_cutoff_nm(const std::vector<UvPart>& parts, std::string* limited_by);
-/// The summed absorbance (1 cm, against water) of the parts at wavelength_nm, on the same model:
-/// A(λ) = Σ s_i·10^{−(λ − λc_i)/w}. Absorbance adds (Beer–Lambert), so a mixture of lines at
-/// volume fractions φ_l has A = Σ φ_l A_l(λ); A = 1 exactly at line_uv_cutoff_nm.
+/// The summed absorbance (1 cm, against water) of the parts at wavelength_nm, Σ s_i·A_i(λ).
+/// Absorbance adds (Beer–Lambert), so a mixture of lines at volume fractions φ_l has
+/// A = Σ φ_l A_l(λ); A = 1 at line_uv_cutoff_nm.
 double uv_absorbance(const std::vector<UvPart>& parts, double wavelength_nm);
 
 /// Estimated contraction on mixing of aqueous_ml of water with organic_ml of `organic`:

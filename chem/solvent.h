@@ -13,6 +13,14 @@
 namespace chem {
 
 enum class Miscibility { miscible, partly, immiscible };
+
+/// One row of a published absorbance-against-wavelength table of a solvent grade (1 cm path
+/// against water). The published figures are a grade's maximum absorbance (its specification), so
+/// the absorbance they give is an upper bound for a bottle of that grade.
+struct UvAbsorbancePoint {
+    double wavelength_nm = 0;
+    double absorbance = 0; ///< 1 cm path against water, > 0
+};
 const char* miscibility_name(Miscibility m);
 
 struct Solvent {
@@ -29,13 +37,16 @@ struct Solvent {
     bool density_from_water_model = false;
     double viscosity_mpa_s = 0; ///< at viscosity_temperature_c
     double viscosity_temperature_c = 25;
-    double uv_cutoff_nm = 0;                 ///< 1 cm path against water, absorbance 1
+    double uv_cutoff_nm = 0; ///< 1 cm path against water, absorbance 1
+    /// Published absorbance against wavelength, ascending in wavelength; empty where none was
+    /// found (the absorbance then follows the cutoff model, see chem::uv_part_absorbance).
+    std::vector<UvAbsorbancePoint> uv_absorbance;
     double boiling_point_c = 0;              ///< at 101.325 kPa
     std::optional<double> flash_point_c;     ///< closed cup; none for water and dichloromethane
     std::vector<std::string> ghs_hazards;    ///< "H225", …
     std::vector<std::string> ghs_pictograms; ///< "GHS02", …
     /// Citation per quantity: keys "density", "viscosity", "uv_cutoff", "boiling_point",
-    /// "flash_point", "ghs".
+    /// "flash_point", "ghs", and "uv_absorbance" with a table.
     std::map<std::string, std::string> sources;
     std::string note;
 

@@ -116,6 +116,7 @@ class TestSequence : public QObject {
     void volumesAddUpToFlowTimesTime();
     void uvCutoffCheck();
     void uvCheckReadsTheEluent();
+    void uvCheckReadsPublishedAbsorbance();
     void immiscibleCheck();
     void precipitationCheck();
     void msNonvolatileCheck();
@@ -414,6 +415,28 @@ void TestSequence::uvCheckReadsTheEluent() {
     QVERIFY(std::fabs(w["absorbance"].toDouble() -
                       (0.3 * std::pow(10.0, -0.3) + 0.7 * std::pow(10.0, -2.5))) < 1e-6);
     QCOMPARE(w["limited_by"].toString(), QString("tetrahydrofuran"));
+}
+
+void TestSequence::uvCheckReadsPublishedAbsorbance() {
+    // Acetonitrile has a published table: maximum absorbance 0.12 at 195 nm for a UV/HPLC grade
+    // (ChemicalBook acetonitrile property page, CAS 75-05-8; read). Held at 95 % of it with 5 %
+    // water (cutoff 190 nm, Snyder, Kirkland & Dolan 2010, from memory; a decade per 10 nm) and
+    // read at 195 nm: A = 0.95 · 0.12 + 0.05 · 10^((190 − 195)/10) = 0.130, not the 0.316 of the
+    // cutoff model alone. The eluent's cutoff stays 190 nm (both parts absorb 1 there), within the
+    // 10 nm margin: a caution, mostly from the acetonitrile.
+    QJsonObject doc = set_path(base_doc(), "detector.wavelength_nm", 195);
+    const QJsonArray hold{QJsonObject{{"t_min", 0}, {"A", 5}, {"B", 95}},
+                          QJsonObject{{"t_min", 10}, {"A", 5}, {"B", 95}}};
+    doc = set_path(doc, "methods.m.gradient", hold);
+    const QJsonObject w = warning(run_sequence(doc), "uv-cutoff");
+    QCOMPARE(w["severity"].toString(), QString("caution"));
+    QVERIFY(std::fabs(w["absorbance"].toDouble() - (0.95 * 0.12 + 0.05 * std::pow(10.0, -0.5))) <
+            1e-9);
+    QVERIFY(std::fabs(w["cutoff_nm"].toDouble() - 190.0) < 1e-6);
+    QCOMPARE(w["limited_by"].toString(), QString("acetonitrile"));
+    // 201 nm: the cutoff (190 nm) lies more than 10 nm below: no warning.
+    QVERIFY(
+        !codes(run_sequence(set_path(doc, "detector.wavelength_nm", 201))).contains("uv-cutoff"));
 }
 
 void TestSequence::immiscibleCheck() {

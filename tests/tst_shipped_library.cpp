@@ -3,9 +3,15 @@
 // eluent data, and the same pH for every reagent alone (bit for bit); same solvents,
 // miscibility, additives, solubility, shelf lives and excess volumes.
 #include "chem/equilibrium.h"
+#include "chem/error.h"
+#include "core/solvent_data.h"
 #include "shipped_library.h"
 #include "test_support.h"
 
+#include <QFile>
+#include <QJsonArray>
+#include <QJsonDocument>
+#include <QJsonObject>
 #include <QtTest>
 
 using phaseplan::testing::shipped_data;
@@ -68,6 +74,11 @@ class TestShippedLibrary : public QObject {
             QCOMPARE(g.molar_mass_g_per_mol, a.molar_mass_g_per_mol);
             QCOMPARE(g.viscosity_mpa_s, a.viscosity_mpa_s);
             QCOMPARE(g.uv_cutoff_nm, a.uv_cutoff_nm);
+            QCOMPARE(g.uv_absorbance.size(), a.uv_absorbance.size());
+            for (size_t k = 0; k < a.uv_absorbance.size(); ++k) {
+                QCOMPARE(g.uv_absorbance[k].wavelength_nm, a.uv_absorbance[k].wavelength_nm);
+                QCOMPARE(g.uv_absorbance[k].absorbance, a.uv_absorbance[k].absorbance);
+            }
             QCOMPARE(g.flash_point_c, a.flash_point_c);
             QCOMPARE(g.sources, a.sources);
             for (double t : {5.0, 25.0, 45.0})
@@ -106,6 +117,59 @@ class TestShippedLibrary : public QObject {
                 const double g = chem::solve(gen, {{&gen.reagents()[i], 0.01}}, 25, model).ph;
                 QCOMPARE(g, a);
             }
+    }
+
+    // A solvent's published UV table is read with its rows checked: a row not above the one
+    // before, an absorbance of 0 (it is interpolated on a log scale) and a table without its
+    // source are refused, each with the path of the field.
+    void uv_absorbance_table_checked_data() {
+        QTest::addColumn<QString>("change");
+        QTest::addColumn<QString>("field");
+        QTest::newRow("descending") << "descending"
+                                    << "solvents.json: solvents[1].uv_absorbance.points[1]."
+                                       "wavelength_nm";
+        QTest::newRow("zero") << "zero"
+                              << "solvents.json: solvents[1].uv_absorbance.points[0].absorbance";
+        QTest::newRow("no source") << "no source"
+                                   << "solvents.json: solvents[1].uv_absorbance.source";
+        QTest::newRow("empty") << "empty"
+                               << "solvents.json: solvents[1].uv_absorbance.points";
+    }
+    void uv_absorbance_table_checked() {
+        QFETCH(QString, change);
+        QFETCH(QString, field);
+        QFile f(QStringLiteral(SOURCE_DIR "/data/solvents.json"));
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
+        QJsonArray solvents = doc["solvents"].toArray();
+        QJsonObject acn = solvents[1].toObject();
+        QCOMPARE(acn["id"].toString(), QString("acetonitrile"));
+        QJsonObject uv = acn["uv_absorbance"].toObject();
+        QJsonArray pts = uv["points"].toArray();
+        if (change == "descending") {
+            QJsonObject p = pts[1].toObject();
+            p["wavelength_nm"] = 190;
+            pts[1] = p;
+        } else if (change == "zero") {
+            QJsonObject p = pts[0].toObject();
+            p["absorbance"] = 0;
+            pts[0] = p;
+        } else if (change == "no source") {
+            uv.remove("source");
+        } else {
+            pts = QJsonArray{};
+        }
+        uv["points"] = pts;
+        acn["uv_absorbance"] = uv;
+        solvents[1] = acn;
+        doc["solvents"] = solvents;
+        chem::SolventLibrary lib;
+        try {
+            phaseplan::load_solvents_json(QJsonDocument(doc).toJson(), "solvents.json", lib);
+            QFAIL("the broken table was accepted");
+        } catch (const chem::Error& e) {
+            QCOMPARE(QString::fromStdString(e.field()), field);
+        }
     }
 };
 

@@ -130,18 +130,26 @@ QJsonObject solvent_properties(const chem::Solvent& s) {
     QJsonObject src;
     for (const auto& [k, v] : s.sources)
         src[qs(k)] = qs(v);
-    return QJsonObject{{"solvent", qs(s.id)},
-                       {"name", qs(s.name)},
-                       {"density_g_per_ml", s.density_g_per_ml},
-                       {"density_temperature_c", s.density_temperature_c},
-                       {"viscosity_mpa_s", s.viscosity_mpa_s},
-                       {"viscosity_temperature_c", s.viscosity_temperature_c},
-                       {"uv_cutoff_nm", s.uv_cutoff_nm},
-                       {"boiling_point_c", s.boiling_point_c},
-                       {"flash_point_c", opt(s.flash_point_c)},
-                       {"ghs_hazards", strings(s.ghs_hazards)},
-                       {"ghs_pictograms", strings(s.ghs_pictograms)},
-                       {"sources", src}};
+    QJsonObject o{{"solvent", qs(s.id)},
+                  {"name", qs(s.name)},
+                  {"density_g_per_ml", s.density_g_per_ml},
+                  {"density_temperature_c", s.density_temperature_c},
+                  {"viscosity_mpa_s", s.viscosity_mpa_s},
+                  {"viscosity_temperature_c", s.viscosity_temperature_c},
+                  {"uv_cutoff_nm", s.uv_cutoff_nm},
+                  {"boiling_point_c", s.boiling_point_c},
+                  {"flash_point_c", opt(s.flash_point_c)},
+                  {"ghs_hazards", strings(s.ghs_hazards)},
+                  {"ghs_pictograms", strings(s.ghs_pictograms)},
+                  {"sources", src}};
+    if (!s.uv_absorbance.empty()) {
+        QJsonArray rows;
+        for (const chem::UvAbsorbancePoint& p : s.uv_absorbance)
+            rows.append(
+                QJsonObject{{"wavelength_nm", p.wavelength_nm}, {"absorbance", p.absorbance}});
+        o["uv_absorbance"] = rows;
+    }
+    return o;
 }
 
 QJsonObject profile_to_json(const chem::LineProfile& p) {

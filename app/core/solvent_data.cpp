@@ -40,6 +40,31 @@ chem::Solvent solvent_from_json(const QJsonObject& o, const std::string& at) {
     s.viscosity_mpa_s = json::require_positive(o, "viscosity_mpa_s", at, 100.0);
     s.viscosity_temperature_c = json::require_number(o, "viscosity_temperature_c", at);
     s.uv_cutoff_nm = json::require_positive(o, "uv_cutoff_nm", at, 1000.0);
+    if (o.contains("uv_absorbance") && !o.value("uv_absorbance").isNull()) {
+        // A published table: rows ascending in wavelength, each absorbance above 0 (it is
+        // interpolated on a log scale), with its source.
+        const std::string uat = json::path(at, "uv_absorbance");
+        const QJsonObject uv = json::require_object(o, "uv_absorbance", at);
+        const QJsonArray pts = json::require_array(uv, "points", uat);
+        const std::string pat = json::path(uat, "points");
+        if (pts.isEmpty())
+            throw chem::Error(pat, "needs at least one row");
+        for (int i = 0; i < pts.size(); ++i) {
+            const QJsonObject p = json::element_object(pts, i, pat);
+            const std::string at_i = json::path(pat, i);
+            chem::UvAbsorbancePoint pt;
+            pt.wavelength_nm = json::require_positive(p, "wavelength_nm", at_i, 1000.0);
+            pt.absorbance = json::require_positive(p, "absorbance", at_i, 10.0);
+            if (!s.uv_absorbance.empty() &&
+                pt.wavelength_nm <= s.uv_absorbance.back().wavelength_nm)
+                throw chem::Error(
+                    json::path(at_i, "wavelength_nm"),
+                    chem::format_number(pt.wavelength_nm) + " nm is not above the row before (" +
+                        chem::format_number(s.uv_absorbance.back().wavelength_nm) + " nm)");
+            s.uv_absorbance.push_back(pt);
+        }
+        s.sources["uv_absorbance"] = json::require_string(uv, "source", uat);
+    }
     s.boiling_point_c = json::require_number(o, "boiling_point_c", at);
     s.flash_point_c = json::optional_number(o, "flash_point_c", at);
     for (const char* q : {"density", "viscosity", "uv_cutoff", "boiling_point", "flash_point"}) {

@@ -125,6 +125,9 @@ void write_solvent(std::ostream& o, const chem::Solvent& v) {
     o << "        v.viscosity_mpa_s = " << num(v.viscosity_mpa_s) << ";\n";
     o << "        v.viscosity_temperature_c = " << num(v.viscosity_temperature_c) << ";\n";
     o << "        v.uv_cutoff_nm = " << num(v.uv_cutoff_nm) << ";\n";
+    for (const chem::UvAbsorbancePoint& p : v.uv_absorbance)
+        o << "        v.uv_absorbance.push_back({" << num(p.wavelength_nm) << ", "
+          << num(p.absorbance) << "});\n";
     o << "        v.boiling_point_c = " << num(v.boiling_point_c) << ";\n";
     o << "        v.flash_point_c = " << opt_num(v.flash_point_c) << ";\n";
     o << "        v.ghs_hazards = " << strs(v.ghs_hazards) << ";\n";
