@@ -7,6 +7,8 @@
 // DATABASE with a name of its own, dropped at the end) on the cluster that PHASEPLAN_TEST_PG_URI
 // names (tests/pg_cluster.sh start prints it; PGPASSFILE points at its password file). Without that
 // variable the PostgreSQL runs skip, saying why, so nothing passes silently.
+#include "chem/error.h"
+#include "core/failure.h"
 #include "storage/sql_dialect.h"
 
 #include <QAtomicInt>
@@ -18,9 +20,11 @@
 #include <QSqlQuery>
 #include <QString>
 #include <QStringList>
+
 #include <QTemporaryDir>
 #include <QUrl>
 #include <QtGlobal>
+#include <utility>
 
 namespace phaseplan::testing {
 
@@ -107,6 +111,19 @@ class TestDatabases {
     QTemporaryDir dir_;
     QStringList created_;
 };
+
+/// The chem::Error thrown by `f`: {field, message}, or a Failure as {subject, sentence};
+/// {"", ""} when it does not throw.
+template <class F> std::pair<QString, QString> error_of(F&& f) {
+    try {
+        f();
+    } catch (const chem::Error& e) {
+        return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
+    } catch (const phaseplan::Failure& f) {
+        return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
+    }
+    return {};
+}
 
 } // namespace phaseplan::testing
 

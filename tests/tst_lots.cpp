@@ -38,18 +38,7 @@ using namespace phaseplan::storage;
 
 namespace {
 
-/// The chem::Error thrown by `f`: {field, message}, or a Failure as {subject, sentence};
-/// {"", ""} when it does not throw.
-template <class F> std::pair<QString, QString> error_of(F&& f) {
-    try {
-        f();
-    } catch (const chem::Error& e) {
-        return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
-    } catch (const phaseplan::Failure& f) {
-        return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
-    }
-    return {};
-}
+using phaseplan::testing::error_of;
 
 phaseplan::testing::TestDatabases* current_databases = nullptr;
 

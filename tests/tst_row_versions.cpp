@@ -36,18 +36,7 @@ using phaseplan::devices::DeviceStore;
 
 namespace {
 
-/// The chem::Error thrown by `f`: {field, message}, or a Failure as {subject, sentence};
-/// {"", ""} when it does not throw.
-template <class F> std::pair<QString, QString> error_of(F&& f) {
-    try {
-        f();
-    } catch (const chem::Error& e) {
-        return {QString::fromStdString(e.field()), QString::fromStdString(e.message())};
-    } catch (const phaseplan::Failure& f) {
-        return {QString::fromLatin1(f.subject()), QString::fromStdString(f.sentence())};
-    }
-    return {};
-}
+using phaseplan::testing::error_of;
 
 /// True when `e` is field `field` and its sentence starts with `start` and names the time in
 /// UTC; says what was said otherwise.
