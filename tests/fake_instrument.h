@@ -9,6 +9,7 @@
 #include <cerrno>
 #include <fcntl.h>
 #include <pty.h>
+#include <sys/ioctl.h>
 #include <termios.h>
 #include <unistd.h>
 
@@ -65,6 +66,13 @@ class FakeInstrument {
         termios t{};
         ::tcgetattr(slave_, &t);
         return ::cfgetispeed(&t);
+    }
+
+    /// Bytes sent and not yet read by the reader (the port's input queue): 0 once it has them.
+    int unread() const {
+        int n = 0;
+        ::ioctl(slave_, FIONREAD, &n);
+        return n;
     }
 
     /// The instrument goes away: the master side closes, and the reader's next read fails.

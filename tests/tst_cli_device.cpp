@@ -213,6 +213,10 @@ class TestCliDevice : public QObject {
         for (int i = 0; i < 3000 && bal.speed() != B19200 && cli.state() == QProcess::Running; ++i)
             QThread::msleep(10);
         QCOMPARE(bal.speed(), speed_t(B19200));
+        // and has read what was sent (a slow machine may set the speed well before it reads).
+        for (int i = 0; i < 3000 && bal.unread() > 0 && cli.state() == QProcess::Running; ++i)
+            QThread::msleep(10);
+        QCOMPARE(bal.unread(), 0);
         bal.unplug();
         QVERIFY(cli.waitForFinished(30000));
         CliRun r;
