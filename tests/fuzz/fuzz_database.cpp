@@ -4,6 +4,7 @@
 //
 // PHASEPLAN_FUZZ_WRITE_SEED=DIR writes a seed (a PhasePlan file with the demo's documents) to
 // DIR/phaseplan.sqlite and exits: .ci/fuzz.sh seeds the corpus with it.
+#include "core/failure.h"
 #include "fuzz_common.h"
 #include "storage/database.h"
 
@@ -88,6 +89,9 @@ extern "C" int LLVMFuzzerTestOneInput(const std::uint8_t* bytes, std::size_t siz
             if (r.reason.isEmpty())
                 std::abort(); // a record set aside says why
     } catch (const chem::Error&) {
+        // an input refused with the field named
+    } catch (const phaseplan::Failure&) {
+        // a file that is not a PhasePlan database, said in one sentence and left unchanged
     }
     remove_all(path);
     return 0;
