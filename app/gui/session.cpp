@@ -57,6 +57,8 @@ bool Session::demoAccountsOpen() const {
         }
     } catch (const chem::Error&) {
         return false;
+    } catch (const Failure&) {
+        return false; // a lost connection: the banner says so; no hint meanwhile
     }
     return false;
 }
