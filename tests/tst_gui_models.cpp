@@ -725,6 +725,64 @@ class TestGuiModels : public QObject {
         QVERIFY(lines.data(b, LinesModel::ItemsRole).toList().isEmpty());
     }
 
+    // The line cards read the line's typed result; what they show is what the `line` command
+    // writes for the same line: each part's volume and mass, the buffer's amounts and the
+    // warnings, in order.
+    void line_cards_match_the_line_command() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        LinesModel lines;
+        lines.setPlan(&plan);
+        // 60 mmol/L of a phosphate salt in the organic line: the line's own check finds the salt
+        // above its solubility, so there is a warning to compare.
+        lines.addAdditive("B", "potassium-dihydrogen-phosphate");
+        lines.setAdditive("B", 0, "potassium-dihydrogen-phosphate", 60, "mmol_per_l");
+        lines.recomputeNow();
+        int checked = 0, warned = 0;
+        for (const QString letter : {"A", "B", "C", "D"}) {
+            const QJsonObject l = plan.line(letter);
+            if (l.isEmpty())
+                continue;
+            QJsonObject input = l;
+            input.insert("volume_ml", l.value("bottle_ml"));
+            const QJsonObject direct = phaseplan::command_line(ws->data(), input, {});
+            const QModelIndex i = lines.index(lines.rowOf(letter));
+            const QVariantList items = lines.data(i, LinesModel::ItemsRole).toList();
+            const QJsonArray want = direct.value("items").toArray();
+            QCOMPARE(items.size(), want.size());
+            for (int k = 0; k < want.size(); ++k) {
+                const QVariantMap got = items[k].toMap();
+                const QJsonObject w = want[k].toObject();
+                QCOMPARE(got.value("part").toString(), w.value("part").toString());
+                QCOMPARE(got.contains("volume_ml"), w.value("volume_ml").isDouble());
+                QCOMPARE(got.contains("mass_g"), w.value("mass_g").isDouble());
+                QCOMPARE(got.value("volume_ml").toDouble(), w.value("volume_ml").toDouble());
+                QCOMPARE(got.value("mass_g").toDouble(), w.value("mass_g").toDouble());
+                QCOMPARE(got.contains("volume_text"), w.value("volume_ml").isDouble());
+            }
+            const QVariantList buffer = lines.data(i, LinesModel::BufferItemsRole).toList();
+            QCOMPARE(buffer.size(),
+                     direct.value("buffer").toObject().value("items").toArray().size());
+            for (const QVariant& b : buffer)
+                QVERIFY2(!b.toMap().value("amount").toString().isEmpty(),
+                         qPrintable(b.toMap().value("name").toString()));
+            const QVariantList warnings = lines.data(i, LinesModel::WarningsRole).toList();
+            const QJsonArray want_w = direct.value("warnings").toArray();
+            QCOMPARE(warnings.size(), want_w.size());
+            for (int k = 0; k < want_w.size(); ++k)
+                QCOMPARE(warnings[k].toMap().value("message").toString(),
+                         want_w[k].toObject().value("message").toString());
+            QCOMPARE(lines.data(i, LinesModel::UvCutoffNmRole).toDouble(),
+                     direct.value("uv_cutoff_nm").toDouble());
+            ++checked;
+            warned += int(!warnings.isEmpty());
+        }
+        QVERIFY2(checked >= 2, "the demo plan has at least two lines");
+        QVERIFY2(warned >= 1, "the salted organic line has a warning");
+    }
+
     void library_search_and_lab_entries() {
         const QString db = fresh_db();
         auto ws = open_workspace(db);

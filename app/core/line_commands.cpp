@@ -438,19 +438,31 @@ QJsonObject finding_to_json(const chem::Finding& w, const chem::RenderContext& w
 // ---------------------------------------------------------------------------------------------
 // line
 
-QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+LineResult line_result(const AppData& data, const QJsonObject& input) {
+    LineResult res;
     // volume_ml is the contract; a line document that gives only its bottle_ml is made for that.
-    const double volume = !input.contains("volume_ml") && input.contains("bottle_ml")
-                              ? json::require_positive(input, "bottle_ml", "", 1.0e6)
-                              : json::require_positive(input, "volume_ml", "", 1.0e6);
-    std::vector<chem::Warning> notes;
-    const ParsedLine pl = line_from_json(data, input, "", volume, false, &notes);
-    if (pl.spec.parts.empty())
+    res.volume_ml = !input.contains("volume_ml") && input.contains("bottle_ml")
+                        ? json::require_positive(input, "bottle_ml", "", 1.0e6)
+                        : json::require_positive(input, "volume_ml", "", 1.0e6);
+    res.parsed = line_from_json(data, input, "", res.volume_ml, false, &res.notes);
+    if (res.parsed.spec.parts.empty())
         throw chem::Error("parts", "is required for a line recipe");
     const auto detector = detector_from_json(input, "");
     const auto column = column_from_json(input, "");
-    const chem::LineRecipe r = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
+    res.recipe = chem::prepare_line(data.solvents, data.reagents, res.parsed.spec, res.volume_ml);
+    if (res.recipe.buffer)
+        res.notes.insert(res.notes.end(), res.recipe.buffer->warnings.begin(),
+                         res.recipe.buffer->warnings.end());
+    res.words.name_of = library_names(data);
+    res.words.line_names[0] = res.parsed.spec.name;
+    res.findings = chem::check_line(data.solvents, res.recipe.profile, res.parsed.spec.name,
+                                    detector, column, &data.reagents);
+    return res;
+}
 
+QJsonObject line_to_json(const AppData& data, const LineResult& res) {
+    const chem::LineRecipe& r = res.recipe;
+    const ParsedLine& pl = res.parsed;
     QJsonArray items;
     for (const auto& it : r.items) {
         QJsonObject o{{"part", qs(it.part)},
@@ -472,22 +484,15 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
             props.append(solvent_properties(data.solvents.solvent(part.solvent)));
 
     QJsonArray warnings;
-    for (const auto& w : notes)
+    for (const auto& w : res.notes)
         warnings.append(warning_to_json(w));
-    if (r.buffer)
-        for (const auto& w : r.buffer->warnings)
-            warnings.append(warning_to_json(w));
-    chem::RenderContext words;
-    words.name_of = library_names(data);
-    words.line_names[0] = pl.spec.name;
-    for (const auto& w :
-         chem::check_line(data.solvents, r.profile, pl.spec.name, detector, column, &data.reagents))
-        warnings.append(finding_to_json(w, words, nullptr));
+    for (const auto& f : res.findings)
+        warnings.append(finding_to_json(f, res.words, nullptr));
 
     const chem::ShelfLife* shelf_entry =
         r.profile.shelf_kind ? data.solvents.shelf_life(*r.profile.shelf_kind) : nullptr;
     QJsonObject out{{"name", qs(pl.spec.name)},
-                    {"volume_ml", volume},
+                    {"volume_ml", res.volume_ml},
                     {"items", items},
                     {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
                     {"uv_limited_by", qs(r.profile.uv_limited_by)},
@@ -511,6 +516,10 @@ QJsonObject command_line(const AppData& data, const QJsonObject& input, const Co
     if (r.buffer)
         out["buffer"] = recipe_to_json(*r.buffer);
     return out;
+}
+
+QJsonObject command_line(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+    return line_to_json(data, line_result(data, input));
 }
 
 } // namespace phaseplan

@@ -88,6 +88,22 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                           double volume_ml, bool bottle_required,
                           std::vector<chem::Warning>* notes = nullptr);
 
+/// The `line` command's typed result: the document parsed (line_from_json), the line prepared
+/// (chem::prepare_line) and checked (chem::check_line). line_to_json renders it for the CLI; the
+/// app's line cards read it directly.
+struct LineResult {
+    double volume_ml = 0; ///< the volume made, mL
+    ParsedLine parsed;
+    chem::LineRecipe recipe;
+    std::vector<chem::Warning> notes;    ///< the reader's and the buffer design's warnings
+    std::vector<chem::Finding> findings; ///< check_line's, worded with `words`
+    chem::RenderContext words;
+};
+/// Parses and computes a `line` document (throws chem::Error naming the field).
+LineResult line_result(const AppData& data, const QJsonObject& input);
+/// The `line` command's JSON for a computed line.
+QJsonObject line_to_json(const AppData& data, const LineResult& r);
+
 /// The pH range of doc["column"] (ph_min, ph_max, temperature_c), or none when it gives neither pH
 /// field; both are then required, within pH 0 to 14, ph_min below ph_max.
 std::optional<chem::ColumnLimits> column_from_json(const QJsonObject& doc, const std::string& root);

@@ -968,12 +968,15 @@ void BufferDesigner::loadJson(const QJsonObject& doc) {
 void BufferDesigner::recompute() {
     QElapsedTimer timer;
     timer.start();
-    QJsonObject out;
+    std::optional<chem::Recipe> recipe;
     FieldError err;
     if (!workspace_ || !workspace_->ready())
         err = {QString(), QStringLiteral("the reagent library is not loaded")};
     else
-        err = guarded([&] { out = command_recipe(workspace_->data(), requestDocument(), {}); });
+        err = guarded([&] {
+            const chem::Library& lib = workspace_->data().reagents;
+            recipe = chem::design_recipe(lib, recipe_request_from_json(lib, requestDocument(), ""));
+        });
 
     error_ = err;
     const QVariantList old_items = items_, old_warnings = warnings_;
@@ -984,27 +987,34 @@ void BufferDesigner::recompute() {
     cautions_.clear();
     if (err.empty()) {
         const chem::Library& lib = workspace_->data().reagents;
-        for (const QJsonValue& v : out.value("items").toArray()) {
-            QVariantMap item = v.toObject().toVariantMap();
-            const chem::Reagent* r =
-                lib.find_reagent(v.toObject().value("reagent").toString().toStdString());
-            item.insert("name", r ? QString::fromStdString(r->name) : item.value("reagent"));
-            item.insert("amount", amount_text(v.toObject()));
+        for (const chem::RecipeItem& it : recipe->items) {
+            const QString id = QString::fromStdString(it.reagent);
+            const chem::Reagent* r = lib.find_reagent(it.reagent);
+            QVariantMap item{{"reagent", id},
+                             {"mol_per_l", it.mol_per_l},
+                             {"as", QString::fromStdString(chem::item_as_text(it))},
+                             {"name", r ? QString::fromStdString(r->name) : id},
+                             {"amount", amount_text(it)}};
+            if (it.mass_g)
+                item.insert("mass_g", *it.mass_g);
+            if (it.volume_ml)
+                item.insert("volume_ml", *it.volume_ml);
             items_.append(item);
         }
-        for (const QJsonValue& v : out.value("warnings").toArray())
-            warnings_.append(v.toObject().toVariantMap());
-        for (const QJsonValue& v : out.value("steps").toArray())
-            steps_.append(v.toString());
-        for (const QJsonValue& v : out.value("cautions").toArray())
-            cautions_.append(v.toString());
-        predicted_ph_ = out.value("ph").toDouble();
-        basis_text_ = out.value("basis").toObject().value("text").toString();
-        effective_basis_ = out.value("concentration_basis").toString(effective_basis_);
-        ionic_strength_result_mmol_per_l_ =
-            out.value("ionic_strength_mol_per_l").toDouble() * 1000.0;
-        buffer_capacity_mmol_per_l_ = out.value("buffer_capacity_mol_per_l").toDouble() * 1000.0;
-        compute_curves(out);
+        // The warnings in the views' form ({code, severity, message, …}), worded once by the
+        // core's renderer.
+        for (const chem::Warning& w : recipe->warnings)
+            warnings_.append(warning_to_json(w).toVariantMap());
+        for (const chem::Step& s : recipe->steps)
+            steps_.append(QString::fromStdString(s.text));
+        for (const std::string& s : recipe->cautions)
+            cautions_.append(QString::fromStdString(s));
+        predicted_ph_ = recipe->predicted.ph;
+        basis_text_ = QString::fromStdString(recipe->basis.text);
+        effective_basis_ = QString::fromUtf8(chem::basis_name(recipe->basis.basis));
+        ionic_strength_result_mmol_per_l_ = recipe->predicted.ionic_strength_mol_per_l * 1000.0;
+        buffer_capacity_mmol_per_l_ = recipe->predicted.buffer_capacity_mol_per_l * 1000.0;
+        compute_curves(*recipe);
     } else {
         basis_text_.clear();
         ph_curve_.clear();
@@ -1022,7 +1032,7 @@ void BufferDesigner::recompute() {
     emit resultChanged();
 }
 
-void BufferDesigner::compute_curves(const QJsonObject& recipe) {
+void BufferDesigner::compute_curves(const chem::Recipe& recipe) {
     ph_curve_.clear();
     beta_curve_.clear();
     // The adapter: the recipe's composition as chem::Components, the x axis's scale from its
@@ -1036,27 +1046,22 @@ void BufferDesigner::compute_curves(const QJsonObject& recipe) {
     req.temperature_c = temperature_c_;
     req.points = curve_points;
     double c_titrant = 0;
-    for (const QJsonValue& v : recipe.value("composition").toArray()) {
-        const QJsonObject c = v.toObject();
-        const chem::Reagent* r = lib.find_reagent(c.value("reagent").toString().toStdString());
-        if (!r)
-            return; // the recipe names only library reagents; nothing to draw otherwise
-        req.composition.push_back({r, c.value("mol_per_l").toDouble()});
-        if (r == req.rising)
-            c_titrant += c.value("mol_per_l").toDouble();
+    for (const chem::Component& c : recipe.composition) {
+        req.composition.push_back(c);
+        if (c.reagent == req.rising)
+            c_titrant += c.mol_per_l;
     }
     if (titrate) {
         // The titrant's own amount per mol/L of final solution, from the recipe's item: mL of the
         // solution, or mL (g for a solid) of the reagent as supplied.
         curve_x_label_ = tr("Titrant added (mL)");
-        for (const QJsonValue& v : recipe.value("items").toArray()) {
-            const QJsonObject it = v.toObject();
-            if (it.value("reagent").toString() != titrant_ || !(c_titrant > 0))
+        for (const chem::RecipeItem& it : recipe.items) {
+            if (QString::fromStdString(it.reagent) != titrant_ || !(c_titrant > 0))
                 continue;
-            if (it.contains("volume_ml")) {
-                req.x_per_mol_per_l = it.value("volume_ml").toDouble() / c_titrant;
-            } else if (it.contains("mass_g")) {
-                req.x_per_mol_per_l = it.value("mass_g").toDouble() / c_titrant;
+            if (it.volume_ml) {
+                req.x_per_mol_per_l = *it.volume_ml / c_titrant;
+            } else if (it.mass_g) {
+                req.x_per_mol_per_l = *it.mass_g / c_titrant;
                 curve_x_label_ = tr("Titrant added (g)");
             }
         }

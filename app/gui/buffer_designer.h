@@ -322,7 +322,7 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     void rebuild_buffer_list();
     /// After this bench renamed `old` to `name`: the list updated in place.
     void rename_in_buffer_list(const QString& old, const QString& name);
-    void compute_curves(const QJsonObject& recipe);
+    void compute_curves(const chem::Recipe& recipe);
     void restore_state();
     void schedule_autosave();
     /// The saved document: the inputs plus "name" (and "auto_name" while the name follows them).

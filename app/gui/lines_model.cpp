@@ -1,5 +1,6 @@
 #include "lines_model.h"
 
+#include "core/chem_json.h"
 #include "core/line_commands.h"
 #include "number_text.h"
 #include "plan.h"
@@ -221,36 +222,42 @@ void LinesModel::recompute() {
         if (!l.isEmpty() && ws && ws->ready()) {
             QJsonObject input = l;
             input.insert("volume_ml", l.value("bottle_ml"));
-            QJsonObject out;
-            c.error = guarded([&] { out = command_line(ws->data(), input, {}); });
+            LineResult r;
+            c.error = guarded([&] { r = line_result(ws->data(), input); });
             if (c.error.empty()) {
-                for (const QJsonValue& v : out.value("items").toArray()) {
-                    QVariantMap item = v.toObject().toVariantMap();
-                    const QString part = item.value("part").toString();
-                    item.insert("name", part == QLatin1String("buffer")
-                                            ? tr("Aqueous buffer (made as below)")
-                                            : ws->displayName(part));
-                    if (item.contains("volume_ml"))
-                        item.insert("volume_text", volume_text(item.value("volume_ml").toDouble()));
-                    if (item.contains("mass_g"))
-                        item.insert("mass_text", mass_text(item.value("mass_g").toDouble()));
+                for (const chem::LineItem& it : r.recipe.items) {
+                    const QString part = QString::fromStdString(it.part);
+                    QVariantMap item{{"part", part},
+                                     {"kind", QLatin1String(chem::line_item_kind_name(it.kind))},
+                                     {"name", it.kind == chem::LineItemKind::buffer
+                                                  ? tr("Aqueous buffer (made as below)")
+                                                  : ws->displayName(part)}};
+                    if (it.volume_ml) {
+                        item.insert("volume_ml", *it.volume_ml);
+                        item.insert("volume_text", volume_text(*it.volume_ml));
+                    }
+                    if (it.mass_g) {
+                        item.insert("mass_g", *it.mass_g);
+                        item.insert("mass_text", mass_text(*it.mass_g));
+                    }
                     c.items.append(item);
                 }
-                for (const QJsonValue& v : out.value("warnings").toArray())
-                    c.warnings.append(v.toObject().toVariantMap());
-                c.uv_cutoff_nm = out.value("uv_cutoff_nm").toDouble();
-                for (const QJsonValue& v :
-                     out.value("buffer").toObject().value("items").toArray()) {
-                    const QJsonObject bi = v.toObject();
-                    const QString amount = amount_text(bi);
-                    c.buffer_items.append(
-                        QVariantMap{{"name", ws->displayName(bi.value("reagent").toString())},
-                                    {"amount", amount}});
-                }
-                for (const QJsonValue& v : out.value("cautions").toArray())
-                    c.cautions.append(v.toString());
-                for (const QJsonValue& v : out.value("notes").toArray())
-                    c.notes.append(v.toString());
+                // The warnings in the views' form ({code, severity, message, …}), worded once by
+                // the core's renderers.
+                for (const chem::Warning& w : r.notes)
+                    c.warnings.append(warning_to_json(w).toVariantMap());
+                for (const chem::Finding& f : r.findings)
+                    c.warnings.append(finding_to_json(f, r.words, nullptr).toVariantMap());
+                c.uv_cutoff_nm = r.recipe.profile.uv_cutoff_nm;
+                if (r.recipe.buffer)
+                    for (const chem::RecipeItem& bi : r.recipe.buffer->items)
+                        c.buffer_items.append(QVariantMap{
+                            {"name", ws->displayName(QString::fromStdString(bi.reagent))},
+                            {"amount", amount_text(bi)}});
+                for (const std::string& s : r.recipe.cautions)
+                    c.cautions.append(QString::fromStdString(s));
+                for (const std::string& s : r.recipe.notes)
+                    c.notes.append(QString::fromStdString(s));
             }
         }
         computed_[i] = c;

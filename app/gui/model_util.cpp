@@ -13,36 +13,29 @@ void replace_series(QObject* series, const QList<QPointF>& points) {
         xy->replace(points);
 }
 
-QString amount_text(const QJsonObject& item) {
+QString amount_text(const chem::RecipeItem& item) {
     // The locale's decimal mark, never a group separator ("1262.5 mL", not "1,262.5 mL", which
     // reads as 1.2625 mL where the comma is the decimal mark).
-    struct NoGrouping {
-        QString toString(double v, char, int d) const { return format_decimal(v, d); }
-    } loc;
+    const auto text = [](double v, int decimals) { return format_decimal(v, decimals); };
     // A liquid is pipetted: its volume first, the mass in brackets for weighing instead.
-    const QString as = item.value(QLatin1String("as")).toString();
-    if ((as == QLatin1String("liquid") || as.endsWith(QLatin1String("neat"))) &&
-        item.contains(QLatin1String("volume_ml")) && item.contains(QLatin1String("mass_g"))) {
-        const double ml = item.value(QLatin1String("volume_ml")).toDouble();
-        const double g = item.value(QLatin1String("mass_g")).toDouble();
-        return loc.toString(ml, 'f', ml < 10 ? 3 : 2) + QStringLiteral(" mL (") +
-               loc.toString(g, 'f', g < 1 ? 4 : 3) + QStringLiteral(" g)");
+    const bool pipetted =
+        item.kind == chem::ItemKind::liquid || item.kind == chem::ItemKind::titrant_neat;
+    if (pipetted && item.volume_ml && item.mass_g) {
+        const double ml = *item.volume_ml, g = *item.mass_g;
+        return text(ml, ml < 10 ? 3 : 2) + QStringLiteral(" mL (") + text(g, g < 1 ? 4 : 3) +
+               QStringLiteral(" g)");
     }
-    if (item.contains(QLatin1String("mass_g"))) {
-        const double g = item.value(QLatin1String("mass_g")).toDouble();
+    if (item.mass_g) {
+        const double g = *item.mass_g;
         // A lab balance reads 0.1 mg below 1 g and 1 mg above: show what can be weighed.
-        const int decimals = g < 1 ? 4 : g < 100 ? 3 : 2;
-        QString text = loc.toString(g, 'f', decimals) + QStringLiteral(" g");
-        if (item.contains(QLatin1String("volume_ml")))
-            text += QStringLiteral(" (") +
-                    loc.toString(item.value(QLatin1String("volume_ml")).toDouble(), 'f', 2) +
-                    QStringLiteral(" mL)");
-        return text;
+        QString out = text(g, g < 1 ? 4 : g < 100 ? 3 : 2) + QStringLiteral(" g");
+        if (item.volume_ml)
+            out += QStringLiteral(" (") + text(*item.volume_ml, 2) + QStringLiteral(" mL)");
+        return out;
     }
-    if (item.contains(QLatin1String("volume_ml"))) {
-        const double ml = item.value(QLatin1String("volume_ml")).toDouble();
-        const int decimals = ml < 10 ? 3 : ml < 100 ? 2 : 1;
-        return loc.toString(ml, 'f', decimals) + QStringLiteral(" mL");
+    if (item.volume_ml) {
+        const double ml = *item.volume_ml;
+        return text(ml, ml < 10 ? 3 : ml < 100 ? 2 : 1) + QStringLiteral(" mL");
     }
     return QString();
 }

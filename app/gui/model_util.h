@@ -2,6 +2,7 @@
 // Small helpers shared by the models: the one place chem::Error and Failure are caught on the GUI
 // side, JSON to QVariant for QML, and series filling for Qt Charts.
 #include "chem/error.h"
+#include "chem/recipe.h"
 #include "core/failure.h"
 
 #include <QElapsedTimer>
@@ -62,8 +63,7 @@ inline double elapsed_ms(const QElapsedTimer& t) {
 void replace_series(QObject* series, const QList<QPointF>& points);
 
 /// What to weigh or pipette, as shown: "2.975 g", or for a liquid "1.262 mL (2.126 g)", with the
-/// decimals a lab balance or pipette reads, in the user's locale. @param item a recipe item
-/// ({mass_g?, volume_ml?, as}) of the command-line contract.
-QString amount_text(const QJsonObject& item);
+/// decimals a lab balance or pipette reads, in the user's locale.
+QString amount_text(const chem::RecipeItem& item);
 
 } // namespace phaseplan::gui
