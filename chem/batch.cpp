@@ -461,14 +461,15 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
         throw Error("batch.actual", "the solution as made cannot be solved: " + e.message());
     }
     const double dph = out.predicted.ph - recipe.request.target_ph;
-    if (std::abs(dph) > ph_off_target)
-        out.warnings.push_back(
-            {"ph-off-target", Warning::Severity::caution,
-             "From the actual amounts the predicted pH is " + format_fixed(out.predicted.ph, 2) +
-                 ", " + (dph > 0 ? "+" : "") + format_fixed(dph, 2) + " from the target " +
-                 format_fixed(recipe.request.target_ph, 2) +
-                 " (more than 0.05: common practice, no source); check the meter reading and the "
-                 "weighings before use."});
+    if (std::abs(dph) > ph_off_target) {
+        Finding f;
+        f.kind = FindingKind::ph_off_target;
+        f.severity = Severity::caution;
+        f.number("predicted_ph", out.predicted.ph);
+        f.number("target_ph", recipe.request.target_ph);
+        f.number("deviation_ph", dph);
+        out.warnings.push_back(warning_of(std::move(f)));
+    }
     if (batch.measured_ph) {
         out.measured_ph_deviation = *batch.measured_ph - recipe.request.target_ph;
         if (std::abs(*out.measured_ph_deviation) > batch.ph_tolerance * (1 + 1e-9) + 1e-12) {
@@ -482,12 +483,14 @@ BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch
 }
 
 Warning measured_ph_warning(double measured_ph, double target_ph, double ph_tolerance) {
-    const double d = measured_ph - target_ph;
-    std::string m = "Measured pH " + format_fixed(measured_ph, 2);
-    m += ", " + std::string(d >= 0 ? "+" : "") + format_fixed(d, 2);
-    m += " from the target " + format_fixed(target_ph, 2);
-    m += ", outside ± " + format_number(ph_tolerance) + ".";
-    return {"measured-ph-out-of-tolerance", Warning::Severity::warning, m};
+    Finding f;
+    f.kind = FindingKind::measured_ph_out_of_tolerance;
+    f.severity = Severity::warning;
+    f.number("measured_ph", measured_ph);
+    f.number("target_ph", target_ph);
+    f.number("deviation_ph", measured_ph - target_ph);
+    f.number("ph_tolerance", ph_tolerance);
+    return warning_of(std::move(f));
 }
 
 } // namespace chem

@@ -1,6 +1,7 @@
 #include "chem/eluent.h"
 
 #include "chem/error.h"
+#include "chem/finding_text.h"
 #include "chem/units.h"
 #include "chem/water.h"
 
@@ -469,52 +470,47 @@ EluentResult EluentModel::solve(const std::vector<double>& percent) const {
     }
     out.ph_s_w = out.ph_s_s + pr.delta;
 
-    // How the estimate was made, when it is one.
-    std::vector<std::string> how;
-    if (pr.share[0] > 0 && pr.share[1] > 0)
-        how.push_back("acetonitrile and methanol together: each one's shifts of pKa, pKw and δ at "
-                      "the total organic fraction, weighted by its share of the organic");
-    for (const auto& id : pr.other_ids) {
-        bool est = false;
-        how.push_back(id + " has no published parameters here: treated as " +
-                      basis_id(basis_of(id, &est)) + " (the same kind of solvent)");
+    // How the estimate was made, when it is one: the data of eluent-ph-extrapolated (worded by
+    // chem::describe).
+    Finding est;
+    est.kind = FindingKind::eluent_ph_extrapolated;
+    est.severity = Severity::caution;
+    est.number("organic_fraction_v", pr.organic_v);
+    bool estimate = false;
+    if (pr.share[0] > 0 && pr.share[1] > 0) {
+        est.detail("mixed_organics", 1);
+        estimate = true;
     }
-    if (pr.beyond)
-        how.push_back("the organic fraction " + format_fixed(100 * pr.organic_v, 0) +
-                      " % lies beyond the published range (about 60 % acetonitrile, 80 % "
-                      "methanol): the pKa and pKw shifts are extrapolated linearly in 1/ε from "
-                      "the last two published rows, and δ from its equation");
-    std::vector<std::string> analogues;
+    for (const auto& id : pr.other_ids) {
+        bool est_basis = false;
+        est.detail_text("other_organic", id);
+        est.detail_text("other_organic_basis", basis_id(basis_of(id, &est_basis)));
+        estimate = true;
+    }
+    if (pr.beyond) {
+        est.detail("beyond_published_range", 1);
+        estimate = true;
+    }
     for (size_t i = 0; i < system_defs_.size() && pr.organic_v > 0; ++i)
         for (int j = 0; j < system_defs_[i]->steps(); ++j)
             if (pr.estimated[i][j] && std::abs(pr.pka_ss[i][j] - out.ph_s_s) < relevant_pka_gap) {
                 int st = 0;
                 const AcidBaseSystem* a = analogue(reagents_, system_defs_[i]->charge_of(j), &st);
-                analogues.push_back(system_defs_[i]->id + " step " + std::to_string(j + 1) +
-                                    " from " + (a ? a->id : std::string("none")) + " step " +
-                                    std::to_string(st + 1));
+                est.detail_text("estimated_system", system_defs_[i]->id);
+                est.detail("estimated_step", j + 1);
+                est.detail_text("analogue_system", a ? a->id : std::string());
+                est.detail("analogue_step", st + 1);
+                estimate = true;
             }
-    if (!analogues.empty()) {
-        std::string list;
-        for (const auto& a : analogues)
-            list += (list.empty() ? "" : ", ") + a;
-        how.push_back("no published s_s pKa table for " + list +
-                      ": each takes the shift of a system whose acid form has the same charge");
+    if (estimate)
+        out.warnings.push_back(warning_of(std::move(est)));
+    if (pr.organic_v > 0 && std::abs(temperature_c_ - 25) > 5) {
+        Finding f;
+        f.kind = FindingKind::eluent_temperature;
+        f.severity = Severity::info;
+        f.number("temperature_c", temperature_c_);
+        out.warnings.push_back(warning_of(std::move(f)));
     }
-    if (!how.empty()) {
-        std::string msg = "The eluent pH is an estimate: ";
-        for (size_t i = 0; i < how.size(); ++i)
-            msg += (i ? "; " : "") + how[i];
-        out.warnings.push_back({"eluent-ph-extrapolated", Warning::Severity::caution,
-                                msg + ". Treat it as indicative (a few tenths of a pH unit) and "
-                                      "measure the s_w pH of the mixed eluent if it matters."});
-    }
-    if (pr.organic_v > 0 && std::abs(temperature_c_ - 25) > 5)
-        out.warnings.push_back({"eluent-temperature", Warning::Severity::info,
-                                "The aqueous pKa and pKw values are taken at " +
-                                    format_number(temperature_c_) +
-                                    " °C; the organic's shifts of them and δ are the published "
-                                    "25 °C values."});
     return out;
 }
 

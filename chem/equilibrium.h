@@ -25,9 +25,8 @@ struct SpeciesAmount {
 };
 
 /// A diagnostic attached to a result. Codes are stable strings (tests and the CLI use them).
-/// The solver's and the recipe's warnings carry their finding (typed subject and numbers) and
-/// are worded by chem::describe (chem/finding_text.h, warning_of); the others (batch, eluent,
-/// transfer, the app's notes) are still sentences made where they are found.
+/// The core's warnings (solver, recipe, batch, eluent, transfer) carry their finding (typed
+/// subject and numbers) and are worded by chem::describe (chem/finding_text.h, warning_of).
 struct Warning {
     using Severity = chem::Severity;
     std::string code; ///< "ionic-strength-high", "ph-outside-pka-range", …

@@ -55,6 +55,32 @@ const char* code_of(FindingKind kind) {
         return "amount-out-of-tolerance";
     case FindingKind::amount_not_entered:
         return "amount-not-entered";
+    case FindingKind::ph_off_target:
+        return "ph-off-target";
+    case FindingKind::measured_ph_out_of_tolerance:
+        return "measured-ph-out-of-tolerance";
+    case FindingKind::eluent_ph_extrapolated:
+        return "eluent-ph-extrapolated";
+    case FindingKind::eluent_temperature:
+        return "eluent-temperature";
+    case FindingKind::dwell_too_large:
+        return "dwell-too-large";
+    case FindingKind::outside_allowed_adjustment:
+        return "outside-allowed-adjustment";
+    case FindingKind::flow_not_scaled:
+        return "flow-not-scaled";
+    case FindingKind::small_injection:
+        return "small-injection";
+    case FindingKind::viscosity_estimate:
+        return "viscosity-estimate";
+    case FindingKind::pressure_uncalibrated:
+        return "pressure-uncalibrated";
+    case FindingKind::pressure_no_limit:
+        return "pressure-no-limit";
+    case FindingKind::pressure_unknown:
+        return "pressure-unknown";
+    case FindingKind::buffer_scaled:
+        return "buffer-scaled";
     }
     return "?";
 }
@@ -135,6 +161,24 @@ const std::string& Finding::text_of(const std::string& key) const {
     if (const std::string* v = find_in(detail_texts, key))
         return *v;
     return none;
+}
+
+std::vector<double> Finding::numbers_all(const std::string& key) const {
+    std::vector<double> out;
+    for (const auto* v : {&numbers, &detail_numbers})
+        for (const auto& [k, x] : *v)
+            if (k == key)
+                out.push_back(x);
+    return out;
+}
+
+std::vector<std::string> Finding::texts_all(const std::string& key) const {
+    std::vector<std::string> out;
+    for (const auto* v : {&texts, &detail_texts})
+        for (const auto& [k, x] : *v)
+            if (k == key)
+                out.push_back(x);
+    return out;
 }
 
 std::string default_clock(double minutes) {

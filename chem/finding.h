@@ -43,18 +43,39 @@ enum class FindingKind {
     // The batch's (chem/batch), about a reagent's amount as made:
     amount_out_of_tolerance, ///< an amount outside target ± tolerance (detail text "unit")
     amount_not_entered,      ///< no actual amount: the target is assumed (detail text "unit")
+    // The batch's pH (chem/batch), about the batch as a whole (subject none):
+    ph_off_target,                ///< the pH predicted from the amounts as made is off the target
+    measured_ph_out_of_tolerance, ///< the measured pH outside target ± the pH tolerance
+    // The eluent's (chem/eluent), about the eluent as a whole (subject none):
+    eluent_ph_extrapolated, ///< the eluent pH is an estimate; the details say how it was made
+    eluent_temperature,     ///< the organic's shifts are 25 °C values used at another temperature
+    // The column transfer's (chem/transfer), about the moved method (subject: method ""):
+    dwell_too_large,            ///< the new system's dwell volume delays the gradient
+    outside_allowed_adjustment, ///< L/dp changes outside −25 % to +50 %
+    flow_not_scaled,            ///< the chosen flow differs from the scaled flow
+    small_injection,            ///< the scaled injection volume is below 0.5 µL
+    // The pressure trace's notes (chem/pressure), about a method ("": a one-method document):
+    viscosity_estimate,    ///< the viscosity of some organics with water is estimated (items)
+    pressure_uncalibrated, ///< the column's flow resistance is a Kozeny–Carman estimate
+    pressure_no_limit,     ///< no pressure limit to check against
+    pressure_unknown,      ///< no trace: lines the method runs have no parts (items: the lines)
+    // The line document's (app/core line_from_json), about a line known by its name:
+    buffer_scaled, ///< a line's buffer designed for more than its volume_ml (detail "line_name")
 };
 /// The contract's stable code: "uv-cutoff", "immiscible", "precipitation", "ms-nonvolatile",
 /// "column-ph", "buffer-range", "shelf-life", "runs-dry", "waste-overflow", "pressure-limit",
 /// "ionic-strength-high", "activity-model-differs", "ph-outside-pka-range",
 /// "low-buffer-capacity", "small-amount", "titrant-volume-large", "amount-out-of-tolerance",
-/// "amount-not-entered".
+/// "amount-not-entered", "ph-off-target", "measured-ph-out-of-tolerance",
+/// "eluent-ph-extrapolated", "eluent-temperature", "dwell-too-large",
+/// "outside-allowed-adjustment", "flow-not-scaled", "small-injection", "viscosity-estimate",
+/// "pressure-uncalibrated", "pressure-no-limit", "pressure-unknown", "buffer-scaled".
 const char* code_of(FindingKind kind);
 
 /// What a finding is about, as a typed reference (never a name to be parsed back).
 struct Subject {
     enum class Kind {
-        none,      ///< the sequence as a whole (the waste container)
+        none,      ///< the whole: the sequence (waste container), the batch, the eluent
         line,      ///< id: the line's letter, "A"
         line_pair, ///< id and other: two lines' letters, "A" and "B"
         method,    ///< id: the method's name (empty: the one method of a document)
@@ -113,6 +134,10 @@ struct Finding {
     double number_of(const std::string& key) const;
     const std::string& text_of(const std::string& key) const;
     bool has_number(const std::string& key) const;
+    /// Every number or text under a key that a finding repeats (a list, such as the eluent's
+    /// estimated steps), in order, from the contract's fields and then the details.
+    std::vector<double> numbers_all(const std::string& key) const;
+    std::vector<std::string> texts_all(const std::string& key) const;
 };
 
 /// Formats a time (minutes from the sequence start) for the sentences; app/ passes clock times.

@@ -2,6 +2,7 @@
 #include "chem/finding_text.h"
 
 #include "chem/checks_common.h"
+#include "chem/viscosity.h"
 
 #include <cmath>
 
@@ -309,6 +310,63 @@ std::string small_amount(const Words& w) {
            "the reagent first.";
 }
 
+/// A signed deviation in pH units: "+0.11", "-0.08"; `plus_at_zero` gives "+0.00" for 0.
+std::string ph_deviation(double d, bool plus_at_zero) {
+    return std::string(d > 0 || (plus_at_zero && d >= 0) ? "+" : "") + format_fixed(d, 2);
+}
+
+/// A fraction as a percentage with one decimal at most: "12.5 %", "-30 %".
+std::string transfer_percent(double fraction) {
+    return format_number(std::round(fraction * 1000.0) / 10.0) + " %";
+}
+
+std::string eluent_ph_extrapolated(const Words& w) {
+    const Finding& f = w.f;
+    std::vector<std::string> how;
+    if (w.flag("mixed_organics"))
+        how.push_back("acetonitrile and methanol together: each one's shifts of pKa, pKw and δ at "
+                      "the total organic fraction, weighted by its share of the organic");
+    const std::vector<std::string> others = f.texts_all("other_organic");
+    const std::vector<std::string> bases = f.texts_all("other_organic_basis");
+    for (std::size_t i = 0; i < others.size(); ++i)
+        how.push_back(others[i] + " has no published parameters here: treated as " +
+                      (i < bases.size() ? bases[i] : std::string()) +
+                      " (the same kind of solvent)");
+    if (w.flag("beyond_published_range"))
+        how.push_back("the organic fraction " + format_fixed(100 * w.n("organic_fraction_v"), 0) +
+                      " % lies beyond the published range (about 60 % acetonitrile, 80 % "
+                      "methanol): the pKa and pKw shifts are extrapolated linearly in 1/ε from "
+                      "the last two published rows, and δ from its equation");
+    const std::vector<std::string> systems = f.texts_all("estimated_system");
+    const std::vector<double> steps = f.numbers_all("estimated_step");
+    const std::vector<std::string> from = f.texts_all("analogue_system");
+    const std::vector<double> from_steps = f.numbers_all("analogue_step");
+    if (!systems.empty()) {
+        std::string list;
+        for (std::size_t i = 0; i < systems.size(); ++i) {
+            const std::string analogue = i < from.size() && !from[i].empty() ? from[i] : "none";
+            list += (i ? ", " : "") + systems[i] + " step " + w.count(steps.at(i)) + " from " +
+                    analogue + " step " + w.count(from_steps.at(i));
+        }
+        how.push_back("no published s_s pKa table for " + list +
+                      ": each takes the shift of a system whose acid form has the same charge");
+    }
+    std::string msg = "The eluent pH is an estimate: ";
+    for (std::size_t i = 0; i < how.size(); ++i)
+        msg += (i ? "; " : "") + how[i];
+    return msg + ". Treat it as indicative (a few tenths of a pH unit) and measure the s_w pH of "
+                 "the mixed eluent if it matters.";
+}
+
+std::string viscosity_estimate(const Words& w) {
+    const bool ideal = w.t("viscosity_basis") == viscosity_basis_name(ViscosityBasis::ideal_mixing);
+    return "The viscosity of " + w.item_names() + " with water is " +
+           (ideal ? "not modelled: ideal mixing of the pure solvents at their library temperature "
+                    "is used, so the pressure may be well off."
+                  : "a one-point estimate: the pressure is rougher than for acetonitrile or "
+                    "methanol.");
+}
+
 } // namespace
 
 std::string signed_percent(double fraction) {
@@ -431,6 +489,66 @@ std::string describe(const Finding& f, const RenderContext& ctx) {
         return "The titrant takes " + format_amount(w.n("volume_ml")) + " mL of the " +
                format_number(w.n("final_volume_ml")) +
                " mL final volume; use a more concentrated titrant.";
+    case FindingKind::ph_off_target:
+        return "From the actual amounts the predicted pH is " +
+               format_fixed(w.n("predicted_ph"), 2) + ", " +
+               ph_deviation(w.n("deviation_ph"), false) + " from the target " +
+               format_fixed(w.n("target_ph"), 2) +
+               " (more than 0.05: common practice, no source); check the meter reading and the "
+               "weighings before use.";
+    case FindingKind::measured_ph_out_of_tolerance: {
+        std::string m = "Measured pH " + format_fixed(w.n("measured_ph"), 2);
+        m += ", " + ph_deviation(w.n("deviation_ph"), true);
+        m += " from the target " + format_fixed(w.n("target_ph"), 2);
+        m += ", outside ± " + format_number(w.n("ph_tolerance")) + ".";
+        return m;
+    }
+    case FindingKind::eluent_ph_extrapolated:
+        return eluent_ph_extrapolated(w);
+    case FindingKind::eluent_temperature:
+        return "The aqueous pKa and pKw values are taken at " +
+               format_number(w.n("temperature_c")) +
+               " °C; the organic's shifts of them and δ are the published 25 °C values.";
+    case FindingKind::dwell_too_large:
+        return "The new system's dwell volume delays the gradient by " +
+               format_fixed(w.n("delay_min"), 2) +
+               " min more than the original, in column volumes: peaks elute later relative to the "
+               "gradient. Start the gradient before the injection (injection delay) by that much "
+               "if the system allows it.";
+    case FindingKind::outside_allowed_adjustment:
+        return "L/dp changes by " + transfer_percent(w.n("l_over_dp_change")) +
+               ", outside the −25 % to +50 % that USP <621> allows as an adjustment: the moved "
+               "method needs revalidation (or a column with an L/dp in that band).";
+    case FindingKind::flow_not_scaled:
+        return "The chosen flow " + format_fixed(w.n("flow_ml_min"), 3) + " mL/min differs by " +
+               transfer_percent(w.n("deviation_fraction")) + " from the scaled flow " +
+               format_fixed(w.n("scaled_flow_ml_min"), 3) +
+               " mL/min; the gradient times are scaled for the chosen flow, so the gradient "
+               "volume in column volumes is kept.";
+    case FindingKind::small_injection:
+        return "The scaled injection is " + format_fixed(w.n("injection_ul"), 2) +
+               " µL: below what many autosamplers deliver precisely (common practice, no "
+               "source); consider a more concentrated sample or a partial-loop setting.";
+    case FindingKind::viscosity_estimate:
+        return viscosity_estimate(w);
+    case FindingKind::pressure_uncalibrated:
+        return "The column pressure is a Kozeny–Carman estimate (flow resistance " +
+               format_number(std::round(w.n("flow_resistance"))) +
+               "); give the column a measured reference pressure to calibrate it.";
+    case FindingKind::pressure_no_limit:
+        return "Neither the column nor the instrument gives max_pressure_bar: the pressure is "
+               "not checked against a limit.";
+    case FindingKind::pressure_unknown: {
+        std::string lines;
+        for (const auto& [l, unused] : f.items)
+            lines += l;
+        return "No pressure for method " + f.subject.id + ": line(s) " + lines +
+               " have no parts, so the viscosity is unknown.";
+    }
+    case FindingKind::buffer_scaled:
+        return "The buffer of " + w.t("line_name") + " was designed for " +
+               format_number(std::ceil(w.n("needed_ml"))) + " mL instead of " +
+               format_number(w.n("requested_ml")) + " mL: the part needs that much.";
     }
     return {};
 }

@@ -284,4 +284,39 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
     return out;
 }
 
+std::vector<Finding> pressure_notes(const PressureTrace& t, const std::string& method) {
+    std::vector<Finding> out;
+    auto note = [&](FindingKind kind) -> Finding& {
+        Finding f;
+        f.kind = kind;
+        f.severity = Severity::info;
+        f.subject = Subject::of_method(method);
+        out.push_back(std::move(f));
+        return out.back();
+    };
+    using B = ViscosityBasis;
+    if (t.viscosity_basis == B::one_point_estimate || t.viscosity_basis == B::ideal_mixing) {
+        Finding& f = note(FindingKind::viscosity_estimate);
+        f.text("viscosity_basis", viscosity_basis_name(t.viscosity_basis));
+        for (const auto& id : t.viscosity_basis_organics)
+            f.items.emplace_back(id, std::nan(""));
+    }
+    if (!t.calibrated)
+        note(FindingKind::pressure_uncalibrated).detail("flow_resistance", t.flow_resistance);
+    if (!t.limit)
+        note(FindingKind::pressure_no_limit);
+    return out;
+}
+
+Finding pressure_unknown(const std::string& method, const std::vector<int>& lines) {
+    Finding f;
+    f.kind = FindingKind::pressure_unknown;
+    f.severity = Severity::info;
+    f.subject = Subject::of_method(method);
+    f.text("method", method);
+    for (int l : lines)
+        f.items.emplace_back(std::string(1, line_letter(l)), std::nan(""));
+    return f;
+}
+
 } // namespace chem

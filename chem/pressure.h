@@ -14,6 +14,7 @@
 // flow, which the mixing contraction lowers) over that window. Injections repeat, so the
 // composition before an injection starts is the end of the previous one (its re-equilibration).
 #include "chem/eluent_mix.h"
+#include "chem/finding.h"
 #include "chem/line.h"
 #include "chem/sequence.h"
 #include "chem/solvent.h"
@@ -119,5 +120,17 @@ PressureTrace pressure_trace(const SolventLibrary& solvents,
                              const std::array<const LineProfile*, max_lines>& profiles,
                              const Method& m, const Column& column, const Instrument& instrument,
                              double step_min = 0.1);
+
+/// The notes that go with a trace of `method` ("" for a one-method document), as findings
+/// (chem/finding.h, worded by chem::describe), in this order: "viscosity-estimate" (info, when
+/// the weakest viscosity basis is a one-point estimate or ideal mixing; text viscosity_basis,
+/// items: the organics), "pressure-uncalibrated" (info, Φ not calibrated on a reference
+/// pressure; detail flow_resistance), "pressure-no-limit" (info, no limit to check against).
+/// The limit itself is chem::pressure_limit_warning (chem/checks.h).
+std::vector<Finding> pressure_notes(const PressureTrace& trace, const std::string& method);
+
+/// "pressure-unknown" (info): no trace for `method` (text "method"), whose lines
+/// (indices 0–3, the items as letters) have no parts, so the viscosity is unknown.
+Finding pressure_unknown(const std::string& method, const std::vector<int>& lines);
 
 } // namespace chem

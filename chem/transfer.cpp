@@ -1,6 +1,7 @@
 #include "chem/transfer.h"
 
 #include "chem/error.h"
+#include "chem/finding_text.h"
 
 #include <cmath>
 
@@ -8,12 +9,13 @@ namespace chem {
 
 namespace {
 
-std::string pct(double fraction) {
-    return format_number(std::round(fraction * 1000.0) / 10.0) + " %";
-}
-
-std::string fixed(double v, int decimals) {
-    return format_fixed(v, decimals);
+/// A finding about the moved method (the one method of the document).
+Finding about_method(FindingKind kind, Severity severity) {
+    Finding f;
+    f.kind = kind;
+    f.severity = severity;
+    f.subject = Subject::of_method("");
+    return f;
 }
 
 } // namespace
@@ -70,12 +72,9 @@ TransferResult transfer_method(const TransferRequest& r) {
             m.run_min += hold;
             out.hold_added_min = hold;
         } else if (hold < -1e-9) {
-            out.warnings.push_back(
-                {"dwell-too-large", Warning::Severity::caution,
-                 "The new system's dwell volume delays the gradient by " + fixed(-hold, 2) +
-                     " min more than the original, in column volumes: peaks elute later "
-                     "relative to the gradient. Start the gradient before the injection "
-                     "(injection delay) by that much if the system allows it."});
+            Finding f = about_method(FindingKind::dwell_too_large, Severity::caution);
+            f.number("delay_min", -hold);
+            out.warnings.push_back(warning_of(std::move(f)));
         }
     }
 
@@ -86,28 +85,26 @@ TransferResult transfer_method(const TransferRequest& r) {
     out.saving_fraction = 1.0 - out.solvent_to_ml / out.solvent_from_ml;
     out.method = std::move(m);
 
-    if (!out.within_allowed_adjustment)
-        out.warnings.push_back(
-            {"outside-allowed-adjustment", Warning::Severity::warning,
-             "L/dp changes by " + pct(out.l_over_dp_change) +
-                 ", outside the −25 % to +50 % that USP <621> allows as an adjustment: the "
-                 "moved method needs revalidation (or a column with an L/dp in that band)."});
+    if (!out.within_allowed_adjustment) {
+        Finding f = about_method(FindingKind::outside_allowed_adjustment, Severity::warning);
+        f.number("l_over_dp_change", out.l_over_dp_change);
+        out.warnings.push_back(warning_of(std::move(f)));
+    }
     if (r.to.flow_ml_min) {
         const double off = *r.to.flow_ml_min / out.scaled_flow_ml_min - 1.0;
-        if (std::abs(off) > 0.005)
-            out.warnings.push_back(
-                {"flow-not-scaled", Warning::Severity::info,
-                 "The chosen flow " + fixed(*r.to.flow_ml_min, 3) + " mL/min differs by " +
-                     pct(off) + " from the scaled flow " + fixed(out.scaled_flow_ml_min, 3) +
-                     " mL/min; the gradient times are scaled for the chosen flow, so the "
-                     "gradient volume in column volumes is kept."});
+        if (std::abs(off) > 0.005) {
+            Finding f = about_method(FindingKind::flow_not_scaled, Severity::info);
+            f.number("flow_ml_min", *r.to.flow_ml_min);
+            f.number("scaled_flow_ml_min", out.scaled_flow_ml_min);
+            f.number("deviation_fraction", off);
+            out.warnings.push_back(warning_of(std::move(f)));
+        }
     }
-    if (out.injection_ul && *out.injection_ul < 0.5)
-        out.warnings.push_back(
-            {"small-injection", Warning::Severity::caution,
-             "The scaled injection is " + fixed(*out.injection_ul, 2) +
-                 " µL: below what many autosamplers deliver precisely (common practice, no "
-                 "source); consider a more concentrated sample or a partial-loop setting."});
+    if (out.injection_ul && *out.injection_ul < 0.5) {
+        Finding f = about_method(FindingKind::small_injection, Severity::caution);
+        f.number("injection_ul", *out.injection_ul);
+        out.warnings.push_back(warning_of(std::move(f)));
+    }
     return out;
 }
 

@@ -309,13 +309,15 @@ ParsedLine line_from_json(const AppData& data, const QJsonObject& o, const std::
                     b["activity_model"] = o.value("activity_model");
                 chem::RecipeRequest req = recipe_request_from_json(data.reagents, b, bat);
                 if (req.volume_ml < needed * (1 - 1e-9)) {
-                    if (notes)
-                        notes->push_back({"buffer-scaled", chem::Warning::Severity::info,
-                                          "The buffer of " + pl.spec.name + " was designed for " +
-                                              chem::format_number(std::ceil(needed)) +
-                                              " mL instead of " +
-                                              chem::format_number(req.volume_ml) +
-                                              " mL: the part needs that much."});
+                    if (notes) {
+                        chem::Finding f;
+                        f.kind = chem::FindingKind::buffer_scaled;
+                        f.severity = chem::Severity::info;
+                        f.number("needed_ml", needed);
+                        f.number("requested_ml", req.volume_ml);
+                        f.detail_text("line_name", pl.spec.name);
+                        notes->push_back(chem::warning_of(std::move(f)));
+                    }
                     req.volume_ml = needed;
                 }
                 try {

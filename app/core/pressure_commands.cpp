@@ -2,10 +2,13 @@
 
 #include "chem/checks.h"
 #include "chem/error.h"
+#include "chem/pressure.h"
 #include "chem/transfer.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
+
+#include <algorithm>
 
 namespace phaseplan {
 
@@ -102,36 +105,8 @@ QJsonObject method_to_json(const chem::Method& m) {
 void trace_notes(const chem::PressureTrace& t, const std::string& method, QJsonArray& warnings) {
     if (auto w = chem::pressure_limit_warning(method, t))
         warnings.append(finding_to_json(*w, chem::RenderContext{}, nullptr));
-    using B = chem::ViscosityBasis;
-    if (t.viscosity_basis == B::one_point_estimate || t.viscosity_basis == B::ideal_mixing) {
-        std::string ids;
-        for (const auto& id : t.viscosity_basis_organics)
-            ids += (ids.empty() ? "" : ", ") + id;
-        warnings.append(QJsonObject{
-            {"code", "viscosity-estimate"},
-            {"severity", "info"},
-            {"message",
-             qs("The viscosity of " + ids + " with water is " +
-                (t.viscosity_basis == B::ideal_mixing
-                     ? "not modelled: ideal mixing of the pure solvents at their library "
-                       "temperature is used, so the pressure may be well off."
-                     : "a one-point estimate: the pressure is rougher than for acetonitrile "
-                       "or methanol."))},
-            {"viscosity_basis", chem::viscosity_basis_name(t.viscosity_basis)}});
-    }
-    if (!t.calibrated)
-        warnings.append(QJsonObject{
-            {"code", "pressure-uncalibrated"},
-            {"severity", "info"},
-            {"message", qs("The column pressure is a Kozeny–Carman estimate (flow resistance " +
-                           chem::format_number(std::round(t.flow_resistance)) +
-                           "); give the column a measured reference pressure to calibrate it.")}});
-    if (!t.limit)
-        warnings.append(QJsonObject{
-            {"code", "pressure-no-limit"},
-            {"severity", "info"},
-            {"message", "Neither the column nor the instrument gives max_pressure_bar: the "
-                        "pressure is not checked against a limit."}});
+    for (const chem::Finding& f : chem::pressure_notes(t, method))
+        warnings.append(finding_to_json(f, chem::RenderContext{}, nullptr));
 }
 
 } // namespace
@@ -261,21 +236,17 @@ sequence_pressure(const AppData& data, const QJsonObject& doc, const std::string
             out.emplace_back();
             continue;
         }
-        std::string undescribed;
+        std::vector<int> undescribed;
         for (const auto& r : m.gradient)
             for (int l = 0; l < chem::max_lines; ++l)
                 if (r.percent[l] > 0 && !profiles[l] &&
-                    undescribed.find(chem::line_letter(l)) == std::string::npos)
-                    undescribed += chem::line_letter(l);
+                    std::find(undescribed.begin(), undescribed.end(), l) == undescribed.end())
+                    undescribed.push_back(l);
         if (!undescribed.empty()) {
             out.emplace_back();
             if (notes)
-                notes->append(QJsonObject{
-                    {"code", "pressure-unknown"},
-                    {"severity", "info"},
-                    {"message", qs("No pressure for method " + m.name + ": line(s) " + undescribed +
-                                   " have no parts, so the viscosity is unknown.")},
-                    {"method", qs(m.name)}});
+                notes->append(finding_to_json(chem::pressure_unknown(m.name, undescribed),
+                                              chem::RenderContext{}, nullptr));
             continue;
         }
         try {
