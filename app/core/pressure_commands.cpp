@@ -82,6 +82,16 @@ chem::Method single_method(const QJsonObject& doc,
     return m;
 }
 
+/// The notes that go with every trace: the viscosity's basis and an uncalibrated resistance.
+void trace_notes(const chem::PressureTrace& t, const std::string& method, QJsonArray& warnings) {
+    if (auto w = chem::pressure_limit_warning(method, t))
+        warnings.append(finding_to_json(*w, chem::RenderContext{}, nullptr));
+    for (const chem::Finding& f : chem::pressure_notes(t, method))
+        warnings.append(finding_to_json(f, chem::RenderContext{}, nullptr));
+}
+
+} // namespace
+
 QJsonObject method_to_json(const chem::Method& m) {
     chem::LineValues used{};
     for (const auto& r : m.gradient)
@@ -100,16 +110,6 @@ QJsonObject method_to_json(const chem::Method& m) {
                        {"run_min", m.run_min},
                        {"equilibration_min", m.equilibration_min}};
 }
-
-/// The notes that go with every trace: the viscosity's basis and an uncalibrated resistance.
-void trace_notes(const chem::PressureTrace& t, const std::string& method, QJsonArray& warnings) {
-    if (auto w = chem::pressure_limit_warning(method, t))
-        warnings.append(finding_to_json(*w, chem::RenderContext{}, nullptr));
-    for (const chem::Finding& f : chem::pressure_notes(t, method))
-        warnings.append(finding_to_json(f, chem::RenderContext{}, nullptr));
-}
-
-} // namespace
 
 std::optional<chem::Column> pressure_column_from_json(const QJsonObject& doc, const char* key,
                                                       const std::string& root) {
@@ -284,7 +284,7 @@ QJsonObject command_pressure(const AppData& data, const QJsonObject& input, cons
     return out;
 }
 
-QJsonObject command_transfer(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+TransferCommandResult transfer_result(const AppData& data, const QJsonObject& input) {
     json::reject_near_misses(input,
                              {"method", "from", "to", "injection_ul", "sequence_injections",
                               "lines", "instrument", "step_min"},
@@ -292,7 +292,8 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
     std::optional<Lines> lines;
     if (input.contains("lines"))
         lines = lines_from_json(data, input);
-    chem::TransferRequest req;
+    TransferCommandResult res;
+    chem::TransferRequest& req = res.request;
     req.method = single_method(
         input, lines ? lines->defined : std::array<bool, chem::max_lines>{true, true, true, true});
     for (auto [key, side] : {std::pair{"from", &req.from}, std::pair{"to", &req.to}}) {
@@ -308,13 +309,32 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
     req.injection_ul = json::optional_number(input, "injection_ul", "");
     if (input.contains("sequence_injections"))
         req.sequence_injections = json::require_int(input, "sequence_injections", "", 1, 1000000);
-    chem::TransferResult r;
     try {
-        r = chem::transfer_method(req);
+        res.result = chem::transfer_method(req);
     } catch (const chem::Error& e) {
         rethrow_for_single_method(e, req.method.name);
     }
+    if (lines) {
+        chem::Instrument instrument = instrument_from_json(input, "");
+        if (req.to.dwell_ml)
+            instrument.dwell_ml = *req.to.dwell_ml;
+        const double step = json::optional_number(input, "step_min", "").value_or(0.1);
+        try {
+            res.pressure = chem::pressure_trace(data.solvents, lines->pointers(), res.result.method,
+                                                req.to.column, instrument, step);
+        } catch (const chem::Error& e) {
+            rethrow_for_single_method(e, res.result.method.name);
+        }
+        if (auto w = chem::pressure_limit_warning("", *res.pressure))
+            res.pressure_findings.push_back(*w);
+        for (chem::Finding& f : chem::pressure_notes(*res.pressure, ""))
+            res.pressure_findings.push_back(std::move(f));
+    }
+    return res;
+}
 
+QJsonObject transfer_to_json(const TransferCommandResult& res) {
+    const chem::TransferResult& r = res.result;
     QJsonArray warnings;
     for (const auto& w : r.warnings)
         warnings.append(warning_to_json(w));
@@ -329,29 +349,23 @@ QJsonObject command_transfer(const AppData& data, const QJsonObject& input, cons
          QJsonObject{{"from", r.solvent_from_ml}, {"to", r.solvent_to_ml}}},
         {"solvent_ml_per_sequence",
          QJsonObject{{"from", r.solvent_from_sequence_ml}, {"to", r.solvent_to_sequence_ml}}},
-        {"sequence_injections", req.sequence_injections},
+        {"sequence_injections", res.request.sequence_injections},
         {"saving_fraction", r.saving_fraction},
         {"l_over_dp_change", r.l_over_dp_change},
         {"within_allowed_adjustment", r.within_allowed_adjustment},
         {"plates_estimate", QJsonObject{{"from", r.plates_from}, {"to", r.plates_to}}},
         {"rules", "USP <621> (harmonised 2022) allowed adjustments for gradient elution"}};
-    if (lines) {
-        chem::Instrument instrument = instrument_from_json(input, "");
-        if (req.to.dwell_ml)
-            instrument.dwell_ml = *req.to.dwell_ml;
-        const double step = json::optional_number(input, "step_min", "").value_or(0.1);
-        chem::PressureTrace t;
-        try {
-            t = chem::pressure_trace(data.solvents, lines->pointers(), r.method, req.to.column,
-                                     instrument, step);
-        } catch (const chem::Error& e) {
-            rethrow_for_single_method(e, r.method.name);
-        }
-        out["pressure"] = pressure_trace_to_json(t);
-        trace_notes(t, "", warnings);
+    if (res.pressure) {
+        out["pressure"] = pressure_trace_to_json(*res.pressure);
+        for (const chem::Finding& f : res.pressure_findings)
+            warnings.append(finding_to_json(f, chem::RenderContext{}, nullptr));
     }
     out["warnings"] = warnings;
     return out;
+}
+
+QJsonObject command_transfer(const AppData& data, const QJsonObject& input, const CommandOptions&) {
+    return transfer_to_json(transfer_result(data, input));
 }
 
 } // namespace phaseplan

@@ -9,8 +9,10 @@
 //   "instrument"}; output {"method", "injection_ul", "solvent_ml_per_injection": {"from", "to"},
 //   "saving_fraction", "l_over_dp_change", "within_allowed_adjustment", "pressure", "warnings", …}.
 // Field names are a fixed contract: extend, rename nothing.
+#include "chem/finding.h"
 #include "chem/pressure.h"
 #include "chem/sequence.h"
+#include "chem/transfer.h"
 #include "core/commands.h"
 
 #include <QJsonArray>
@@ -25,6 +27,22 @@ namespace phaseplan {
 
 QJsonObject command_pressure(const AppData& data, const QJsonObject& input,
                              const CommandOptions& opt);
+/// A method as the `sequence` document writes it ({"flow_ml_min", "gradient": [{"t_min", "A",
+/// …}], "run_min", "equilibration_min"}), the lines it never uses left out.
+QJsonObject method_to_json(const chem::Method& m);
+/// The `transfer` command's typed result: the request as read, the method moved
+/// (chem::transfer_method) and, when the document gives the lines, the pressure on the new
+/// column with its notes (chem::pressure_limit_warning, chem::pressure_notes).
+struct TransferCommandResult {
+    chem::TransferRequest request;
+    chem::TransferResult result;
+    std::optional<chem::PressureTrace> pressure;
+    std::vector<chem::Finding> pressure_findings;
+};
+/// Parses and computes a `transfer` document (throws chem::Error naming the field).
+TransferCommandResult transfer_result(const AppData& data, const QJsonObject& input);
+/// The `transfer` command's JSON for a computed move.
+QJsonObject transfer_to_json(const TransferCommandResult& r);
 QJsonObject command_transfer(const AppData& data, const QJsonObject& input,
                              const CommandOptions& opt);
 

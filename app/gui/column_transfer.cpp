@@ -1,5 +1,6 @@
 #include "column_transfer.h"
 
+#include "chem/finding_text.h"
 #include "column_library.h"
 #include "core/pressure_commands.h"
 #include "field_path.h"
@@ -128,9 +129,9 @@ void ColumnTransfer::recompute() {
         with_lines.insert("lines", doc.value("lines"));
         if (doc.contains("instrument"))
             with_lines.insert("instrument", doc.value("instrument"));
-        QJsonObject out;
+        TransferCommandResult out;
         QString pressure_note;
-        FieldError err = guarded([&] { out = command_transfer(ws->data(), with_lines, {}); });
+        FieldError err = guarded([&] { out = transfer_result(ws->data(), with_lines); });
         const bool own_field = FieldPath::belongsToAny(
             err.field,
             {QStringLiteral("to"), QStringLiteral("from"), QStringLiteral("injection_ul"),
@@ -138,7 +139,7 @@ void ColumnTransfer::recompute() {
         if (!err.empty() && !own_field) {
             // The lines or the instrument stop the pressure, not the move: move without them.
             pressure_note = tr("No pressure on the new column: %1").arg(err.message);
-            err = guarded([&] { out = command_transfer(ws->data(), input, {}); });
+            err = guarded([&] { out = transfer_result(ws->data(), input); });
         }
         if (!err.empty()) {
             if (FieldPath::belongsToAny(err.field,
@@ -150,30 +151,31 @@ void ColumnTransfer::recompute() {
                 problem = err.field.isEmpty() ? err.message : err.field + ": " + err.message;
         } else {
             valid = true;
-            const QJsonObject sm = out.value("method").toObject();
+            const chem::TransferResult& r = out.result;
+            const chem::Method& sm = r.method;
             QVariantList rows;
-            const QJsonArray g0 = method.value("gradient").toArray();
-            const QJsonArray g1 = sm.value("gradient").toArray();
+            const std::vector<chem::GradientRow>& g0 = out.request.method.gradient;
+            const std::vector<chem::GradientRow>& g1 = sm.gradient;
             // The dwell correction may add a first hold row; line up from the end.
-            const int extra = int(g1.size() - g0.size());
-            for (int i = 0; i < g1.size(); ++i) {
+            const int extra = int(g1.size()) - int(g0.size());
+            for (int i = 0; i < int(g1.size()); ++i) {
                 const int j = i - extra;
                 rows.append(
-                    QVariantMap{{"fromMin", j >= 0 ? g0.at(j).toObject().value("t_min").toDouble()
+                    QVariantMap{{"fromMin", j >= 0 ? g0[std::size_t(j)].t_min
                                                    : std::numeric_limits<double>::quiet_NaN()},
-                                {"toMin", g1.at(i).toObject().value("t_min").toDouble()}});
+                                {"toMin", g1[std::size_t(i)].t_min}});
             }
-            const QJsonObject per = out.value("solvent_ml_per_injection").toObject();
-            const QJsonObject seq = out.value("solvent_ml_per_sequence").toObject();
-            const QJsonObject p = out.value("pressure").toObject();
             QVariantList warnings;
-            for (const QJsonValue& w : out.value("warnings").toArray()) {
-                const QString code = w.toObject().value("code").toString();
-                if (code == "pressure-uncalibrated" || code == "pressure-no-limit" ||
-                    code == "outside-allowed-adjustment")
-                    continue; // said by the view's own lines
-                warnings.append(w.toObject().value("message").toString());
-            }
+            // Said by the view's own lines: the l/dp band, an uncalibrated resistance, no limit.
+            for (const chem::Warning& w : r.warnings)
+                if (!(w.finding &&
+                      w.finding->kind == chem::FindingKind::outside_allowed_adjustment))
+                    warnings.append(QString::fromStdString(w.message));
+            for (const chem::Finding& f : out.pressure_findings)
+                if (f.kind != chem::FindingKind::pressure_uncalibrated &&
+                    f.kind != chem::FindingKind::pressure_no_limit)
+                    warnings.append(QString::fromStdString(chem::describe(f, {})));
+            const std::optional<chem::PressureTrace>& p = out.pressure;
             const QString to_name = target_.value("name").toString();
             const QString size = QStringLiteral("%1×%2 mm")
                                      .arg(num(target_.value("length_mm").toDouble()),
@@ -183,37 +185,39 @@ void ColumnTransfer::recompute() {
                 {"fromText", column_summary(from)},
                 {"toText", column_summary(target_)},
                 {"flowFromMlMin", method.value("flow_ml_min").toDouble()},
-                {"flowToMlMin", out.value("flow_ml_min").toDouble()},
-                {"scaledFlowMlMin", out.value("scaled_flow_ml_min").toDouble()},
-                {"timeFactor", out.value("time_factor").toDouble()},
+                {"flowToMlMin", r.flow_ml_min},
+                {"scaledFlowMlMin", r.scaled_flow_ml_min},
+                {"timeFactor", r.time_factor},
                 {"rows", rows},
                 {"runFromMin", method.value("run_min").toDouble()},
-                {"runToMin", sm.value("run_min").toDouble()},
+                {"runToMin", sm.run_min},
                 {"equilibrationFromMin", method.value("equilibration_min").toDouble()},
-                {"equilibrationToMin", sm.value("equilibration_min").toDouble()},
+                {"equilibrationToMin", sm.equilibration_min},
                 {"injectionFromUl", injection_ul_},
-                {"holdAddedMin", out.value("hold_added_min").toDouble()},
-                {"injectionToUl", out.value("injection_ul").toDouble()},
-                {"solventFromMl", per.value("from").toDouble()},
-                {"solventToMl", per.value("to").toDouble()},
-                {"savingFraction", out.value("saving_fraction").toDouble()},
+                {"holdAddedMin", r.hold_added_min},
+                {"injectionToUl", r.injection_ul.value_or(0.0)},
+                {"solventFromMl", r.solvent_from_ml},
+                {"solventToMl", r.solvent_to_ml},
+                {"savingFraction", r.saving_fraction},
                 {"nightInjections", night},
-                {"nightFromMl", night > 0 ? seq.value("from").toDouble() : 0.0},
-                {"nightToMl", night > 0 ? seq.value("to").toDouble() : 0.0},
+                {"nightFromMl", night > 0 ? r.solvent_from_sequence_ml : 0.0},
+                {"nightToMl", night > 0 ? r.solvent_to_sequence_ml : 0.0},
                 {"nightSavingMl",
-                 night > 0 ? seq.value("from").toDouble() - seq.value("to").toDouble() : 0.0},
-                {"lOverDpChange", out.value("l_over_dp_change").toDouble()},
-                {"withinAllowed", out.value("within_allowed_adjustment").toBool()},
-                {"hasPressure", !p.isEmpty()},
-                {"maxBar", p.value("max_pressure_bar").toDouble()},
-                {"maxAtMin", p.value("max_at_t_min").toDouble()},
-                {"limitBar", p.value("limit_bar").toDouble()},
-                {"limitedBy", p.value("limited_by").toString()},
-                {"calibrated", p.value("calibrated").toBool()},
+                 night > 0 ? r.solvent_from_sequence_ml - r.solvent_to_sequence_ml : 0.0},
+                {"lOverDpChange", r.l_over_dp_change},
+                {"withinAllowed", r.within_allowed_adjustment},
+                {"hasPressure", p.has_value()},
+                {"maxBar", p ? p->max_pressure_bar : 0.0},
+                {"maxAtMin", p ? p->max_at_t_min : 0.0},
+                {"limitBar", p && p->limit ? p->limit->bar : 0.0},
+                {"limitedBy", p && p->limit
+                                  ? QString::fromUtf8(chem::limit_source_name(p->limit->source))
+                                  : QString()},
+                {"calibrated", p ? p->calibrated : false},
                 {"pressureNote", pressure_note},
                 {"warnings", warnings},
                 {"defaultName", tr("%1 on %2").arg(method_, size)}};
-            scaled = sm;
+            scaled = method_to_json(sm);
             QJsonObject col = target_;
             col.remove("flow_ml_min");
             col.remove("dwell_ml");
