@@ -8,6 +8,7 @@
 // any analytical chemistry text); the PDF's text is read back with poppler's pdftotext, an
 // outside program.
 #include "batch_model.h"
+#include "core/batch_document.h"
 #include "gui_test_support.h"
 #include "print/documents.h"
 #include "print/print_controller.h"
@@ -19,6 +20,7 @@
 
 #include <QFile>
 #include <QFileInfo>
+#include <QJsonArray>
 #include <QJsonDocument>
 #include <QProcess>
 #include <QSignalSpy>
@@ -396,6 +398,65 @@ class TestGuiBatch : public QObject {
             for (const QVariant& w : m.warnings())
                 warned |= w.toMap().value("code") == "amount-out-of-tolerance";
             QVERIFY(warned);
+            // The screen reads the typed evaluation; the sheet's summary JSON of the same record
+            // (what `phaseplan-cli sheet` writes; the contract's own output, no outside source)
+            // must say the same, field by field: a figure read from the wrong field differs.
+            {
+                const phaseplan::BatchDocument doc = phaseplan::read_batch_document(
+                    ws->data(), QJsonObject::fromVariantMap(m.input()));
+                const QJsonObject s = doc.summary;
+                const QJsonObject b = s.value("batch").toObject();
+                const QJsonArray checks = b.value("checks").toArray();
+                QCOMPARE(m.rowCount(), int(checks.size()));
+                for (int k = 0; k < m.rowCount(); ++k) {
+                    const QJsonObject c = checks[k].toObject();
+                    QCOMPARE(role(m, k, BatchModel::ReagentRole).toString(),
+                             c.value("reagent").toString());
+                    QCOMPARE(role(m, k, BatchModel::NameRole).toString(),
+                             c.value("name").toString());
+                    QCOMPARE(role(m, k, BatchModel::UnitRole).toString(),
+                             c.value("unit").toString());
+                    for (auto [rl, key] : {std::pair{BatchModel::TargetRole, "target"},
+                                           std::pair{BatchModel::LowRole, "low"},
+                                           std::pair{BatchModel::HighRole, "high"}})
+                        QCOMPARE(role(m, k, rl).toDouble(), c.value(key).toDouble());
+                    QCOMPARE(role(m, k, BatchModel::EnteredRole).toBool(),
+                             c.value("entered").toBool());
+                    QCOMPARE(role(m, k, BatchModel::WithinToleranceRole).toBool(),
+                             c.value("within_tolerance").toBool());
+                    if (c.value("entered").toBool()) {
+                        QCOMPARE(role(m, k, BatchModel::ActualRole).toDouble(),
+                                 c.value("actual").toDouble());
+                        QCOMPARE(role(m, k, BatchModel::DeviationPercentRole).toDouble(),
+                                 c.value("deviation_percent").toDouble());
+                    }
+                }
+                QCOMPARE(m.title(), s.value("title").toString());
+                QCOMPARE(m.targetPh(), s.value("target_ph").toDouble());
+                QCOMPARE(m.predictedPh(), b.value("ph").toDouble());
+                QCOMPARE(m.shelfLifeH(), b.value("shelf_life_h").toDouble());
+                QVERIFY(std::abs(m.ionicStrengthMmolPerL() -
+                                 b.value("ionic_strength_mol_per_l").toDouble() * 1000) < 1e-9);
+                QVERIFY(std::abs(m.bufferCapacityMmolPerL() -
+                                 b.value("buffer_capacity_mol_per_l").toDouble() * 1000) < 1e-9);
+                const QJsonArray comp = b.value("composition").toArray();
+                QVERIFY(!comp.isEmpty());
+                QCOMPARE(m.composition().size(), comp.size());
+                for (int k = 0; k < comp.size(); ++k) {
+                    const QVariantMap c = m.composition()[k].toMap();
+                    QCOMPARE(c.value("reagent").toString(), comp[k]["reagent"].toString());
+                    QVERIFY(std::abs(c.value("mmolPerL").toDouble() -
+                                     comp[k]["mol_per_l"].toDouble() * 1000) < 1e-9);
+                }
+                const QJsonArray ws_json = s.value("warnings").toArray();
+                QCOMPARE(m.warnings().size(), ws_json.size());
+                for (int k = 0; k < ws_json.size(); ++k) {
+                    const QVariantMap w = m.warnings()[k].toMap();
+                    QCOMPARE(w.value("code").toString(), ws_json[k]["code"].toString());
+                    QCOMPARE(w.value("severity").toString(), ws_json[k]["severity"].toString());
+                    QCOMPARE(w.value("message").toString(), ws_json[k]["message"].toString());
+                }
+            }
             QVERIFY(m.setLot(r, "SP-2207"));
 
             // The core refuses a negative amount: shown at that row, not stored.

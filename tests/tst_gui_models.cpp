@@ -118,6 +118,46 @@ class TestGuiModels : public QObject {
         QCOMPARE(plan.endTime(), direct.value("end").toString());
         QCOMPARE(plan.totalMin(), direct.value("total_min").toDouble());
         QCOMPARE(plan.warnings().size(), direct.value("warnings").toArray().size());
+        // The model reads the typed result's fields; the command's JSON of the same document is
+        // the reference (the contract's own output, no outside source): a field read from the
+        // wrong place differs here.
+        QCOMPARE(plan.wasteMl(), direct.value("waste_ml").toDouble());
+        // Waste is everything pumped plus the priming (chem/sequence.h, SequencePlan::waste_ml).
+        QVERIFY(std::abs(plan.wasteMl() - direct.value("pumped_ml").toDouble() -
+                         direct.value("prime_ml").toDouble()) < 1e-6);
+        const QJsonArray direct_warnings = direct.value("warnings").toArray();
+        for (int i = 0; i < direct_warnings.size(); ++i) {
+            const QVariantMap w = plan.warnings()[i].toMap();
+            QCOMPARE(w.value("code").toString(), direct_warnings[i]["code"].toString());
+            // (The messages differ in their clock words: the screen says "tomorrow 01:47".)
+            QCOMPARE(w.value("severity").toString(), direct_warnings[i]["severity"].toString());
+            QCOMPARE(w.value("line").toString(), direct_warnings[i]["line"].toString());
+        }
+        const QJsonObject direct_lines = direct.value("lines").toObject();
+        QCOMPARE(plan.bottleCount(), int(direct_lines.size()));
+        for (int i = 0; i < plan.bottleCount(); ++i) {
+            const QVariantMap b = plan.bottleAt(i);
+            const QJsonObject d = direct_lines.value(b.value("letter").toString()).toObject();
+            QVERIFY(!d.isEmpty());
+            for (const char* key : {"required_ml", "usable_ml", "prime_ml", "pumped_ml", "spare_ml",
+                                    "min_bottle_ml", "suggested_bottle_ml", "uv_cutoff_nm"})
+                QVERIFY2(b.value(key).toDouble() == d.value(key).toDouble(), key);
+            QCOMPARE(b.value("runs_dry").toBool(), d.value("runs_dry").toBool());
+            QCOMPARE(b.value("dry_at").toString(), d.value("dry_at").toString());
+            QCOMPARE(b.value("shelf_kind").toString(), d.value("shelf_kind").toString());
+            QVERIFY(b.value("required_ml").toDouble() >= b.value("prime_ml").toDouble());
+        }
+        const phaseplan::PlanResult* typed = plan.planResult();
+        QVERIFY(typed);
+        const QJsonArray direct_rows = direct.value("rows").toArray();
+        QCOMPARE(qsizetype(typed->rows.size()), direct_rows.size());
+        for (std::size_t i = 0; i < typed->rows.size(); ++i) {
+            QCOMPARE(typed->row_end(i), direct_rows[qsizetype(i)]["end"].toString());
+            QCOMPARE(typed->rows[i].volume_ml[0],
+                     direct_rows[qsizetype(i)]["volume_ml"]["A"].toDouble());
+        }
+        QCOMPARE(typed->standby_end, direct.value("standby_end").toString());
+        QCOMPARE(typed->standby_min, direct.value("standby_min").toDouble());
         // The demo was seeded as saved work too.
         QVERIFY(ws->database()->load(phaseplan::storage::DocumentKind::sequence,
                                      Workspace::demoName()));
@@ -314,7 +354,7 @@ class TestGuiModels : public QObject {
         QVERIFY(std::abs(lo - c.value("phMin").toDouble()) < 1e-9);
         QVERIFY(std::abs(top - c.value("maxBar").toDouble()) < 1e-6 * top);
         QVERIFY(!plan.methodConditions("no such method").value("hasEluent").toBool());
-        // The model keeps the traces typed (sequence_with_typed_traces); the command's JSON of
+        // The model keeps the traces typed (sequence_result); the command's JSON of
         // the same document is the reference: every method's figures and points agree.
         const QJsonObject doc = QJsonObject::fromVariantMap(plan.documentMap());
         const QJsonObject out = phaseplan::command_sequence(ws->data(), doc, {});
@@ -570,7 +610,7 @@ class TestGuiModels : public QObject {
             const QList<QPointF> pts = series.points();
             // A point at the start and at the end of every sequence row (the demo runs several
             // rows, so a straight line from start to end means the rows went missing).
-            const int rows = int(plan.resultMap().value("rows").toList().size());
+            const int rows = int(plan.planResult()->rows.size());
             QVERIFY(rows >= 2);
             QVERIFY2(pts.size() >= rows + 1, qPrintable(QString::number(pts.size())));
             // Bottles only drain; the first point is the bottle less priming, the last the
@@ -681,18 +721,16 @@ class TestGuiModels : public QObject {
                                                      {"mmol_per_l", 60}}});
         lines.insert("A", a);
         doc.insert("lines", lines);
-        phaseplan::SequenceTraces traces;
-        const QJsonObject out = phaseplan::sequence_with_typed_traces(ws->data(), doc, {}, traces);
-        const QJsonArray warnings = out.value("warnings").toArray();
-        QVERIFY(!traces.findings.empty());
-        const qsizetype first = warnings.size() - qsizetype(traces.findings.size());
+        const phaseplan::SequenceResult out = phaseplan::sequence_result(ws->data(), doc, {});
         bool seen = false;
-        for (std::size_t i = 0; i < traces.findings.size(); ++i) {
-            const chem::Finding& f = traces.findings[i];
+        for (const phaseplan::SequenceWarning& sw : out.plans.front().warnings) {
+            if (!sw.finding)
+                continue;
+            const chem::Finding& f = *sw.finding;
             if (f.kind != chem::FindingKind::precipitation ||
                 f.where.kind != chem::Subject::Kind::method)
                 continue;
-            QVariantMap w = warnings[first + qsizetype(i)].toObject().toVariantMap();
+            QVariantMap w = sw.json.toVariantMap();
             QCOMPARE(w.value("code").toString(), QString("precipitation"));
             w.insert(phaseplan::finding_references(f));
             QCOMPARE(ChecksModel::focusFor("precipitation", w.value("line").toString(), w),

@@ -8,6 +8,7 @@
 #include "core/chem_json.h"
 #include "core/json_util.h"
 #include "core/line_commands.h"
+#include "core/sequence_result.h"
 
 #include <QDateTime>
 #include <QJsonDocument>
@@ -66,7 +67,7 @@ QJsonObject check_to_json(const chem::AmountCheck& c, const QString& name) {
 /// Every warning once; an amount warning names its part by the screens' name and carries its
 /// numbers as fields too.
 struct WarningList {
-    QJsonArray json;
+    std::vector<BatchWarning> list;
     QSet<QString> seen;
     const AppData* data = nullptr;
 
@@ -103,7 +104,8 @@ struct WarningList {
         if (seen.contains(key))
             return;
         seen.insert(key);
-        json.append(w);
+        list.push_back({w.value("code").toString(), w.value("severity").toString(),
+                        w.value("message").toString(), w});
     }
 };
 
@@ -262,7 +264,7 @@ chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& 
     }
 }
 
-void finish_tolerance(const AppData& data, BatchDocument& d, QJsonObject& b) {
+void finish_tolerance(const AppData& data, const BatchDocument& d, QJsonObject& b) {
     b["out_of_tolerance"] = d.out_of_tolerance;
     b["out_of_tolerance_reasons"] = QJsonArray::fromStringList(d.out_of_tolerance_reasons);
     if (d.correction && d.correction->needed)
@@ -300,27 +302,19 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
         warnings.add(w);
     for (const auto& w : res.warnings)
         warnings.add(w, &res.checks);
-    d.warnings = warnings.json;
-
-    QJsonObject b = batch_summary(d.batch, d.expires_at, d.shelf_life_h);
-    QJsonArray checks, composition;
+    BatchEvaluation& ev = d.evaluation;
+    ev.warnings = std::move(warnings.list);
     for (const auto& c : res.checks)
-        checks.append(check_to_json(c, part_display_name(data, c.reagent)));
+        ev.checks.push_back({c, part_display_name(data, c.reagent)});
     for (const auto& c : res.composition)
-        composition.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
-    b["final_volume_ml"] = res.final_volume_ml;
-    b["checks"] = checks;
-    b["composition"] = composition;
-    b["ph"] = res.predicted.ph;
-    b["ionic_strength_mol_per_l"] = res.predicted.ionic_strength_mol_per_l;
-    b["buffer_capacity_mol_per_l"] = res.predicted.buffer_capacity_mol_per_l;
-    finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind},
-                            {"title", d.title},
-                            {"target_ph", req.target_ph},
-                            {"planned_ph", d.recipe->predicted.ph},
-                            {"batch", b},
-                            {"warnings", d.warnings}};
+        ev.composition.push_back({c.reagent->id, c.mol_per_l});
+    ev.final_volume_ml = res.final_volume_ml;
+    ev.ph = res.predicted.ph;
+    ev.ionic_strength_mol_per_l = res.predicted.ionic_strength_mol_per_l;
+    ev.buffer_capacity_mol_per_l = res.predicted.buffer_capacity_mol_per_l;
+    ev.target_ph = req.target_ph;
+    ev.planned_ph = d.recipe->predicted.ph;
+    ev.shelf_life_h = d.shelf_life_h;
 }
 
 // ---- line -------------------------------------------------------------------------------------
@@ -461,33 +455,24 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         for (const auto& w : d.result->warnings)
             warnings.add(w, &d.result->checks);
     }
-    d.warnings = warnings.json;
-
-    QJsonObject b = batch_summary(batch, d.expires_at, d.shelf_life_h);
-    QJsonArray checks;
+    BatchEvaluation& ev = d.evaluation;
+    ev.warnings = std::move(warnings.list);
     for (const auto& c : d.part_checks)
-        checks.append(check_to_json(c, part_display_name(data, c.reagent)));
-    if (d.result)
-        for (const auto& c : d.result->checks)
-            checks.append(check_to_json(c, part_display_name(data, c.reagent)));
-    b["checks"] = checks;
+        ev.checks.push_back({c, part_display_name(data, c.reagent)});
     if (d.result) {
-        QJsonArray comp;
+        for (const auto& c : d.result->checks)
+            ev.checks.push_back({c, part_display_name(data, c.reagent)});
         for (const auto& c : d.result->composition)
-            comp.append(QJsonObject{{"reagent", qs(c.reagent->id)}, {"mol_per_l", c.mol_per_l}});
-        b["buffer_composition"] = comp;
-        b["ph"] = d.result->predicted.ph;
-        b["ionic_strength_mol_per_l"] = d.result->predicted.ionic_strength_mol_per_l;
-        b["buffer_capacity_mol_per_l"] = d.result->predicted.buffer_capacity_mol_per_l;
+            ev.composition.push_back({c.reagent->id, c.mol_per_l});
+        ev.composition_of_buffer = true;
+        ev.ph = d.result->predicted.ph;
+        ev.ionic_strength_mol_per_l = d.result->predicted.ionic_strength_mol_per_l;
+        ev.buffer_capacity_mol_per_l = d.result->predicted.buffer_capacity_mol_per_l;
     }
-    finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind},
-                            {"title", d.title},
-                            {"volume_ml", volume},
-                            {"batch", b},
-                            {"warnings", d.warnings}};
+    ev.volume_ml = volume;
     if (lr.buffer)
-        d.summary["target_ph"] = lr.buffer->request.target_ph;
+        ev.target_ph = lr.buffer->request.target_ph;
+    ev.shelf_life_h = d.shelf_life_h;
 }
 
 // ---- sequence ---------------------------------------------------------------------------------
@@ -495,37 +480,33 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
 void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument& d) {
     QJsonObject doc = input;
     doc.remove("batch");
-    d.sequence_out = command_sequence(data, doc, {});
+    const SequenceResult sr = sequence_result(data, doc, {});
+    d.sequence_out = to_json(sr);
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
     if (!d.batch.actual.empty())
         throw chem::Error("batch.actual",
                           "a sequence sheet takes no amounts: print each line's own sheet "
                           "(phaseplan-cli sheet on the line) to record them");
-    const QJsonObject lines_out = d.sequence_out.value("lines").toObject();
+    const PlanResult& plan = sr.plans.front(); // batch_document_kind refuses "plans"
     double shortest = 1e9;
-    for (const QString& key : lines_out.keys())
-        shortest =
-            std::min(shortest, lines_out.value(key).toObject().value("shelf_life_h").toDouble(1e9));
+    for (const SequenceLineResult& l : plan.lines)
+        if (l.profile)
+            shortest = std::min(shortest, l.profile->shelf_life_h);
     // No line with a shelf life: an aqueous buffer's, the shortest common one.
     const double fallback_h = chem::builtin_shelf_life_h(chem::ShelfKind::aqueous_buffer);
     d.shelf_life_h = d.shelf_override.value_or(shortest < 1e9 ? shortest : fallback_h);
     d.expires_at = qs(chem::check_batch_fields(d.batch, d.shelf_life_h));
     d.title = input.value("name").isString()
                   ? input.value("name").toString()
-                  : "Sequence from " +
-                        d.sequence_out.value("start").toString().left(16).replace('T', ' ') + ", " +
-                        QString::number(d.sequence_out.value("injections").toInt()) + " injections";
+                  : "Sequence from " + QString(plan.start).left(16).replace('T', ' ') + ", " +
+                        QString::number(plan.injections) + " injections";
     WarningList warnings{{}, {}, &data};
-    for (const QJsonValue& w : d.sequence_out.value("warnings").toArray())
-        warnings.add(w.toObject());
-    d.warnings = warnings.json;
-    QJsonObject b = batch_summary(d.batch, d.expires_at, shortest < 1e9 ? shortest : fallback_h);
-    finish_tolerance(data, d, b);
-    d.summary = QJsonObject{{"document", d.kind},
-                            {"title", d.title},
-                            {"batch", b},
-                            {"end", d.sequence_out.value("end")},
-                            {"warnings", d.warnings}};
+    for (const SequenceWarning& w : plan.warnings)
+        warnings.add(w.json);
+    BatchEvaluation& ev = d.evaluation;
+    ev.warnings = std::move(warnings.list);
+    ev.shelf_life_h = shortest < 1e9 ? shortest : fallback_h;
+    ev.end = plan.end;
 }
 
 } // namespace
@@ -723,7 +704,7 @@ std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& 
 void read_captures(const AppData& data, const QJsonObject& input, BatchDocument& d) {
     const QJsonObject b = input.value("batch").toObject();
     const QJsonArray actual = b.value("actual").toArray();
-    QJsonArray cautions;
+    std::vector<QJsonObject> cautions;
     for (int i = 0; i < actual.size(); ++i) {
         const QJsonObject e = actual[i].toObject();
         if (!e.contains("capture") || e.value("capture").isNull())
@@ -736,42 +717,24 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
         d.captures[reagent] = c;
         if (auto w = capture_caution(c, "The amount of " +
                                             part_display_name(data, reagent.toStdString())))
-            cautions.append(*w);
+            cautions.push_back(*w);
     }
     if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
         d.ph_capture = read_capture(b.value("measured_ph_capture"), "batch.measured_ph_capture");
         if (!b.value("measured_ph").isDouble())
             throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
         if (auto w = capture_caution(d.ph_capture, QStringLiteral("The measured pH")))
-            cautions.append(*w);
+            cautions.push_back(*w);
     }
-    if (d.captures.isEmpty() && d.ph_capture.isEmpty())
-        return;
-    QJsonObject sb = d.summary.value("batch").toObject();
-    QJsonArray checks = sb.value("checks").toArray();
-    for (int i = 0; i < checks.size(); ++i) {
-        QJsonObject c = checks[i].toObject();
-        const QString r = c.value("reagent").toString();
-        if (c.value("entered").toBool() && d.captures.contains(r)) {
-            c["capture"] = d.captures.value(r);
-            checks[i] = c;
-        }
-    }
-    if (!checks.isEmpty())
-        sb["checks"] = checks;
-    if (!d.ph_capture.isEmpty())
-        sb["measured_ph_capture"] = d.ph_capture;
-    d.summary["batch"] = sb;
-    for (const QJsonValue& w : cautions)
-        d.warnings.append(w);
-    d.summary["warnings"] = d.warnings;
+    for (const QJsonObject& w : cautions)
+        d.evaluation.warnings.push_back({w.value("code").toString(), w.value("severity").toString(),
+                                         w.value("message").toString(), w});
 }
 
 /// The lot that limits the use-by and the expired lots used by override, from the document's
 /// batch, into `d` and its summary (only when there are any, so older documents read as before).
 void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) {
     const QJsonArray actual = input.value("batch").toObject().value("actual").toArray();
-    QJsonObject sb = d.summary.value("batch").toObject();
     auto reagent_of = [](const QJsonObject& e) {
         QString r = e.value("reagent").toString();
         return r.startsWith("buffer.") ? r.mid(7) : r;
@@ -783,13 +746,11 @@ void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) 
             QStringLiteral("lot %1 of %2, which expires on %3")
                 .arg(e.value("lot").toString(), part_display_name(data, r.toStdString()),
                      e.value("lot_expires_on").toString());
-        sb["expires_limited_by"] =
-            QJsonObject{{"reagent", r},
-                        {"lot", e.value("lot").toString()},
-                        {"lot_expires_on", e.value("lot_expires_on").toString()},
-                        {"text", d.expiry_limit_text}};
+        d.expires_limited_by = QJsonObject{{"reagent", r},
+                                           {"lot", e.value("lot").toString()},
+                                           {"lot_expires_on", e.value("lot_expires_on").toString()},
+                                           {"text", d.expiry_limit_text}};
     }
-    QJsonArray overrides;
     for (const QJsonValue& v : actual) {
         const QJsonObject e = v.toObject();
         const QJsonObject ov = e.value("lot_override").toObject();
@@ -818,16 +779,12 @@ void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) 
         o["lot"] = e.value("lot").toString();
         o["lot_expires_on"] = e.value("lot_expires_on").toString();
         o["text"] = text;
-        overrides.append(o);
-        d.warnings.append(QJsonObject{
-            {"code", "expired-lot-override"}, {"severity", "warning"}, {"message", text}});
+        d.lot_overrides.append(o);
+        const QJsonObject w{
+            {"code", "expired-lot-override"}, {"severity", "warning"}, {"message", text}};
+        d.evaluation.warnings.push_back(
+            {QStringLiteral("expired-lot-override"), QStringLiteral("warning"), text, w});
     }
-    if (!overrides.isEmpty()) {
-        sb["lot_overrides"] = overrides;
-        d.summary["warnings"] = d.warnings;
-    }
-    if (d.expiry_limited_by >= 0 || !overrides.isEmpty())
-        d.summary["batch"] = sb;
 }
 
 } // namespace
@@ -843,7 +800,55 @@ BatchDocument read_batch_document(const AppData& data, const QJsonObject& input)
         read_recipe(data, input, d);
     read_captures(data, input, d);
     read_lots(data, input, d);
+    for (const BatchWarning& w : d.evaluation.warnings)
+        d.warnings.append(w.json);
+    d.summary = summary_to_json(data, d);
     return d;
+}
+
+QJsonObject summary_to_json(const AppData& data, const BatchDocument& d) {
+    const BatchEvaluation& ev = d.evaluation;
+    QJsonObject b = batch_summary(d.batch, d.expires_at, ev.shelf_life_h);
+    if (d.kind != QLatin1String("sequence")) {
+        QJsonArray checks;
+        for (const BatchCheckRow& r : ev.checks) {
+            QJsonObject c = check_to_json(r.check, r.name);
+            const QString reagent = qs(r.check.reagent);
+            if (r.check.entered && d.captures.contains(reagent))
+                c["capture"] = d.captures.value(reagent);
+            checks.append(c);
+        }
+        b["checks"] = checks;
+    }
+    if (ev.final_volume_ml)
+        b["final_volume_ml"] = *ev.final_volume_ml;
+    if (ev.ph) {
+        QJsonArray comp;
+        for (const BatchEvaluation::Component& c : ev.composition)
+            comp.append(QJsonObject{{"reagent", qs(c.reagent)}, {"mol_per_l", c.mol_per_l}});
+        b[ev.composition_of_buffer ? QStringLiteral("buffer_composition")
+                                   : QStringLiteral("composition")] = comp;
+        b["ph"] = *ev.ph;
+        b["ionic_strength_mol_per_l"] = ev.ionic_strength_mol_per_l.value_or(0);
+        b["buffer_capacity_mol_per_l"] = ev.buffer_capacity_mol_per_l.value_or(0);
+    }
+    finish_tolerance(data, d, b);
+    if (!d.ph_capture.isEmpty())
+        b["measured_ph_capture"] = d.ph_capture;
+    if (!d.expires_limited_by.isEmpty())
+        b["expires_limited_by"] = d.expires_limited_by;
+    if (!d.lot_overrides.isEmpty())
+        b["lot_overrides"] = d.lot_overrides;
+    QJsonObject s{{"document", d.kind}, {"title", d.title}, {"batch", b}, {"warnings", d.warnings}};
+    if (ev.target_ph)
+        s["target_ph"] = *ev.target_ph;
+    if (ev.planned_ph)
+        s["planned_ph"] = *ev.planned_ph;
+    if (ev.volume_ml)
+        s["volume_ml"] = *ev.volume_ml;
+    if (d.kind == QLatin1String("sequence"))
+        s["end"] = ev.end;
+    return s;
 }
 
 void require_deviation_note(const BatchDocument& doc) {

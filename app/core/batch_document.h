@@ -76,6 +76,46 @@ QStringList step_sentences(const std::vector<chem::Step>& steps);
 /// phosphate", "Acetonitrile", "Aqueous buffer"); the id itself when unknown.
 QString part_display_name(const AppData& data, const std::string& id);
 
+/// An amount check as the screens and the sheet show it: the check and its part's name.
+struct BatchCheckRow {
+    chem::AmountCheck check;
+    QString name; ///< part_display_name of check.reagent
+};
+
+/// A warning of the document or the batch: what the screens show of it, and its JSON.
+struct BatchWarning {
+    QString code;
+    QString severity; ///< "info", "caution", "warning"
+    QString message;
+    QJsonObject json; ///< as the sheet's summary writes it (amount warnings add their numbers)
+};
+
+/// The batch evaluated against its document, typed: what the Prepare & record screen shows and
+/// what the sheet's summary JSON is rendered from (summary_to_json). Needs no sheet.
+struct BatchEvaluation {
+    /// A recipe's reagents; a line's parts, then its buffer's reagents; none for a sequence.
+    std::vector<BatchCheckRow> checks;
+    std::optional<double> target_ph;  ///< a recipe's, a line buffer's
+    std::optional<double> planned_ph; ///< a recipe: the design's predicted pH
+    /// Predicted for the batch as made (a recipe, a line's buffer), mol/L for the last two.
+    std::optional<double> ph, ionic_strength_mol_per_l, buffer_capacity_mol_per_l;
+    struct Component {
+        std::string reagent; ///< id
+        double mol_per_l = 0;
+    };
+    /// The batch's composition: a recipe's, or a line's buffer part's (composition_of_buffer).
+    std::vector<Component> composition;
+    bool composition_of_buffer = false;
+    std::optional<double> final_volume_ml; ///< a recipe: the volume made up to
+    std::optional<double> volume_ml;       ///< a line: the volume the sheet is for
+    /// The shelf life the summary states, hours (a sequence: its shortest line's, even when
+    /// "shelf_life_h" overrides the use-by).
+    double shelf_life_h = 0;
+    QString end; ///< a sequence: the end of its last injection (contract clock time)
+    /// Every warning of the document and the batch, once each, in order.
+    std::vector<BatchWarning> warnings;
+};
+
 struct BatchDocument {
     QString kind; ///< "recipe", "line", "sequence"
     QString title;
@@ -130,9 +170,22 @@ struct BatchDocument {
     QJsonObject captures;
     QJsonObject ph_capture;
 
-    /// The JSON summary of `phaseplan-cli sheet`: {"document", "title", "batch": {…}, "warnings"}.
+    /// The lot that limits the use-by ({reagent, lot, lot_expires_on, text}; {} when none) and
+    /// the expired lots used by override ({…the override, reagent, lot, lot_expires_on, text}).
+    QJsonObject expires_limited_by;
+    QJsonArray lot_overrides;
+
+    /// The evaluation, typed: the screens read it; the summary is rendered from it.
+    BatchEvaluation evaluation;
+
+    /// The JSON summary of `phaseplan-cli sheet`: {"document", "title", "batch": {…}, "warnings"}
+    /// (summary_to_json of this document).
     QJsonObject summary;
 };
+
+/// The JSON summary of `phaseplan-cli sheet` for an evaluated document (what read_batch_document
+/// puts in `summary`).
+QJsonObject summary_to_json(const AppData& data, const BatchDocument& d);
 
 /// Validates everything and evaluates the batch. Throws chem::Error naming the field (the same
 /// fields and messages as the `recipe`, `line` and `sequence` subcommands, plus the batch's).

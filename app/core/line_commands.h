@@ -35,25 +35,12 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
 std::string command_sequence_text(const AppData& data, const QJsonObject& input,
                                   const CommandOptions& opt);
 
-/// A night's traces as computed, for the app's charts: what `sequence` writes as
-/// `eluent_trace` and `methods.<name>.pressure`.
-struct SequenceTraces {
-    std::vector<chem::EluentTrace> eluent;               ///< one per method run
-    std::map<std::string, chem::PressureTrace> pressure; ///< by method name, where there is one
-    /// The checks' findings, typed: the last findings.size() entries of "warnings" are their
-    /// JSON, in the same order.
-    std::vector<chem::Finding> findings;
-};
 /// A finding's typed references for the screens (no sentence to parse back):
 /// {"subject": {"kind", "id", "other"}, "place": {"kind", "id", "other"}}, the kinds as
 /// chem::subject_kind_name gives them ("line", "line-pair", "method", "standby", "none").
 QVariantMap finding_references(const chem::Finding& f);
-/// command_sequence for the app's plan model: the same result, except that the traces are
-/// handed over typed in `traces` instead of being written into the JSON (`eluent_trace` and
-/// each method's `pressure` are left out; `max_pressure_bar` and `max_pressure_at_t_min` stay).
-/// A document with "plans" gives command_sequence's result and no traces.
-QJsonObject sequence_with_typed_traces(const AppData& data, const QJsonObject& input,
-                                       const CommandOptions& opt, SequenceTraces& traces);
+/// The typed result behind command_sequence (sequence_result, to_json) is in
+/// core/sequence_result.h.
 
 /// A clock time of the contract: "2026-12-01T18:00:00" (local wall-clock time, no zone: minutes
 /// are added without daylight-saving jumps) or with an offset ("…+01:00", kept on output).

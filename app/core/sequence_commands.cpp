@@ -3,6 +3,7 @@
 // readers and writers it shares with `line` are in line_commands.cpp (line_internal).
 #include "core/line_commands.h"
 #include "core/line_commands_internal.h"
+#include "core/sequence_result.h"
 
 #include "chem/error.h"
 #include "chem/units.h"
@@ -27,28 +28,6 @@ using namespace line_internal;
 // sequence
 
 namespace {
-
-struct BatchUse {
-    QString key;
-    QString name;
-    QString label; ///< "A" or "plans[1].A"
-    double required_ml = 0;
-    double prepare_ml = 0; ///< this bottle's min_bottle_ml
-    QDateTime first_use, last_use;
-    double shelf_life_h = 0;
-    std::optional<chem::ShelfKind> shelf_kind;
-};
-
-/// One plan's result: the rows typed (they are most of a large result), the rest as JSON.
-struct PlanResult {
-    QJsonObject out; ///< every field but "rows"
-    std::vector<BatchUse> uses;
-    std::vector<chem::RowPlan> rows;
-    std::vector<chem::SequenceRow> row_inputs; ///< method and label of each row
-    std::array<bool, chem::max_lines> defined{};
-    QDateTime start;
-    bool has_offset = false;
-};
 
 /// `text` as json::require_string returns it, when it passes without a word: not empty, no
 /// blank at either end, no surrogate (so no lone one), at most `max_chars` UTF-16 units.
@@ -88,9 +67,8 @@ std::optional<chem::SequenceRow> plain_row(const QJsonValue& v) {
     return r;
 }
 
-/// With `typed`, the traces go there instead of into the JSON (sequence_with_typed_traces).
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
-                    const CommandOptions& options, SequenceTraces* typed = nullptr) {
+                    const CommandOptions& options) {
     auto P = [&](const char* key) { return json::path(root, key); };
     chem::SequenceInput in;
     json::reject_near_misses(doc,
@@ -277,41 +255,27 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     c.traces = &traces;
     const auto checks = chem::check_sequence(c);
 
-    // output
+    // the typed result
     PlanResult res;
-    QJsonObject lines_out;
     for (int l = 0; l < chem::max_lines; ++l) {
         if (!defined[l])
             continue;
         const chem::LinePlan& lp = plan.lines[l];
-        QJsonObject o{
-            {"name", qs(parsed[l]->spec.name)},
-            {"required_ml", lp.required_ml},
-            {"usable_ml", lp.usable_ml},
-            {"runs_dry", lp.runs_dry},
-            {"dry_after_injection",
-             lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
-            {"dry_at", lp.dry_at_min ? QJsonValue(clock.iso(*lp.dry_at_min)) : QJsonValue()},
-            {"dry_at_min", opt(lp.dry_at_min)},
-            {"dry_during",
-             lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
-            {"bottle_ml", in.lines[l]->bottle_ml},
-            {"residue_ml", in.lines[l]->residue_ml},
-            {"prime_ml", lp.prime_ml},
-            {"pumped_ml", lp.pumped_ml},
-            {"spare_ml", lp.spare_ml},
-            {"min_bottle_ml", lp.min_bottle_ml},
-            {"suggested_bottle_ml",
-             lp.suggested_bottle_ml > 0 ? QJsonValue(lp.suggested_bottle_ml) : QJsonValue()}};
-        if (c.profiles[l]) {
-            o["uv_cutoff_nm"] = profiles[l].uv_cutoff_nm;
-            o["ph"] = opt(profiles[l].ph);
-            o["shelf_kind"] = QLatin1String(chem::shelf_kind_name(profiles[l]));
-            o["shelf_life_h"] = profiles[l].shelf_life_h;
-        }
-        lines_out[QString(QChar(chem::line_letter(l)))] = o;
+        SequenceLineResult lr;
+        lr.index = l;
+        lr.name = qs(parsed[l]->spec.name);
+        lr.bottle_ml = in.lines[l]->bottle_ml;
+        lr.residue_ml = in.lines[l]->residue_ml;
+        lr.plan = lp;
+        if (lp.dry_at_min)
+            lr.dry_at = clock.iso(*lp.dry_at_min);
+        if (c.profiles[l])
+            lr.profile =
+                SequenceLineResult::Profile{profiles[l].uv_cutoff_nm, profiles[l].ph,
+                                            profiles[l].shelf_kind, profiles[l].shelf_life_h};
+        res.lines.push_back(std::move(lr));
 
-        BatchUse u;
+        SequenceBatchUse u;
         u.key = parsed[l]->recipe_key;
         u.name = qs(parsed[l]->spec.name);
         u.label = root.empty() ? QString(QChar(chem::line_letter(l)))
@@ -326,26 +290,16 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
             u.shelf_kind = profiles[l].shelf_kind;
         res.uses.push_back(u);
     }
-    QJsonObject methods_out;
     for (std::size_t i = 0; i < plan.methods.size(); ++i) {
-        const auto& mp = plan.methods[i];
-        QJsonObject mo{{"flow_ml_min", in.methods[i].flow_ml_min},
-                       {"injection_min", mp.injection_min},
-                       {"per_injection_ml", per_line(mp.per_injection_ml, defined)},
-                       {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
-        if (i < pressure.size() && pressure[i]) {
-            mo["max_pressure_bar"] = pressure[i]->max_pressure_bar;
-            mo["max_pressure_at_t_min"] = pressure[i]->max_at_t_min;
-            if (typed)
-                typed->pressure[mp.name] = *pressure[i];
-            else
-                mo["pressure"] = pressure_trace_to_json(*pressure[i]);
-        }
-        methods_out[qs(mp.name)] = mo;
+        SequenceMethodResult m;
+        m.flow_ml_min = in.methods[i].flow_ml_min;
+        m.plan = plan.methods[i];
+        if (i < pressure.size() && pressure[i])
+            m.pressure = *pressure[i];
+        res.methods.push_back(std::move(m));
     }
-    QJsonArray warnings;
     for (const auto& w : notes)
-        warnings.append(warning_to_json(w));
+        res.warnings.push_back({warning_to_json(w), std::nullopt});
     for (int l = 0; l < chem::max_lines; ++l)
         if (parsed[l])
             for (const auto& part : parsed[l]->spec.parts)
@@ -353,44 +307,132 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
                     for (const auto& w : part.buffer->warnings) {
                         QJsonObject o = warning_to_json(w);
                         o["line"] = QString(QChar(chem::line_letter(l)));
-                        warnings.append(o);
+                        res.warnings.push_back({o, std::nullopt});
                     }
     for (const auto& n : pressure_notes)
-        warnings.append(n);
+        res.warnings.push_back({n.toObject(), std::nullopt});
     for (const auto& w : checks)
-        warnings.append(finding_to_json(w, words, &clock));
+        res.warnings.push_back({finding_to_json(w, words, &clock), w});
 
-    QJsonObject out{{"start", clock.iso(0)},
-                    {"end", clock.iso(plan.total_min)},
-                    {"total_min", plan.total_min},
-                    {"injections", plan.injections},
-                    {"lines", lines_out},
-                    {"waste_ml", plan.waste_ml},
-                    {"pumped_ml", plan.pumped_ml},
-                    {"prime_ml", plan.prime_ml},
-                    {"standby_min", plan.standby_min},
-                    {"standby_end", clock.iso(plan.total_min + plan.standby_min)},
-                    {"methods", methods_out},
-                    {"warnings", warnings}};
-    if (in.waste_capacity_ml)
-        out["waste_capacity_ml"] = *in.waste_capacity_ml;
-    if (typed) {
-        typed->eluent = traces;
-        typed->findings = checks;
-    } else
-        out["eluent_trace"] = eluent_traces_to_json(traces);
-    res.out = out;
+    res.start = clock.iso(0);
+    res.end = clock.iso(plan.total_min);
+    res.standby_end = clock.iso(plan.total_min + plan.standby_min);
+    res.total_min = plan.total_min;
+    res.standby_min = plan.standby_min;
+    res.injections = plan.injections;
+    res.waste_ml = plan.waste_ml;
+    res.pumped_ml = plan.pumped_ml;
+    res.prime_ml = plan.prime_ml;
+    res.waste_capacity_ml = in.waste_capacity_ml;
+    res.eluent = traces;
     res.rows = std::move(plan.rows);
     res.row_inputs = std::move(in.rows);
     res.defined = defined;
-    res.start = clock.start;
-    res.has_offset = clock.has_offset;
+    res.clock = clock;
     return res;
 }
 
-/// The "rows" of a plan as QJsonObjects (the GUI and the pages read them by key).
+QJsonArray warnings_to_json(const std::vector<SequenceWarning>& ws) {
+    QJsonArray out;
+    for (const SequenceWarning& w : ws)
+        out.append(w.json);
+    return out;
+}
+
+QJsonArray batches_to_json(const std::vector<SequenceBatch>& batches) {
+    QJsonArray out;
+    for (const SequenceBatch& s : batches) {
+        QJsonObject b{{"recipe", s.recipe},
+                      {"lines", QJsonArray::fromStringList(s.lines)},
+                      {"required_ml", s.required_ml},
+                      {"prepare_ml", s.prepare_ml},
+                      {"suggested_bottle_ml", s.suggested_bottle_ml > 0
+                                                  ? QJsonValue(s.suggested_bottle_ml)
+                                                  : QJsonValue()},
+                      {"first_use", wall_clock_iso(s.first_use)},
+                      {"last_use", wall_clock_iso(s.last_use)},
+                      {"span_h", s.span_h}};
+        if (s.shelf_life_h > 0) {
+            b["shelf_life_h"] = s.shelf_life_h;
+            b["shelf_kind"] =
+                s.shelf_kind ? QLatin1String(chem::shelf_kind_name(*s.shelf_kind)) : QString();
+            b["one_batch_lasts"] = s.span_h <= s.shelf_life_h;
+        }
+        out.append(b);
+    }
+    return out;
+}
+
+/// Every field of a plan's JSON but "rows"; `batches` for a one-plan document.
+QJsonObject plan_fields_to_json(const PlanResult& p, const std::vector<SequenceBatch>* batches) {
+    QJsonObject lines_out;
+    for (const SequenceLineResult& lr : p.lines) {
+        const chem::LinePlan& lp = lr.plan;
+        QJsonObject o{{"name", lr.name},
+                      {"required_ml", lp.required_ml},
+                      {"usable_ml", lp.usable_ml},
+                      {"runs_dry", lp.runs_dry},
+                      {"dry_after_injection",
+                       lp.dry_after_injection ? QJsonValue(*lp.dry_after_injection) : QJsonValue()},
+                      {"dry_at", lp.dry_at_min ? QJsonValue(lr.dry_at) : QJsonValue()},
+                      {"dry_at_min", opt(lp.dry_at_min)},
+                      {"dry_during",
+                       lp.runs_dry ? QJsonValue(chem::dry_phase_name(lp.dry_phase)) : QJsonValue()},
+                      {"bottle_ml", lr.bottle_ml},
+                      {"residue_ml", lr.residue_ml},
+                      {"prime_ml", lp.prime_ml},
+                      {"pumped_ml", lp.pumped_ml},
+                      {"spare_ml", lp.spare_ml},
+                      {"min_bottle_ml", lp.min_bottle_ml},
+                      {"suggested_bottle_ml", lp.suggested_bottle_ml > 0
+                                                  ? QJsonValue(lp.suggested_bottle_ml)
+                                                  : QJsonValue()}};
+        if (lr.profile) {
+            o["uv_cutoff_nm"] = lr.profile->uv_cutoff_nm;
+            o["ph"] = opt(lr.profile->ph);
+            o["shelf_kind"] = QLatin1String(
+                lr.profile->shelf_kind ? chem::shelf_kind_name(*lr.profile->shelf_kind) : "");
+            o["shelf_life_h"] = lr.profile->shelf_life_h;
+        }
+        lines_out[lr.letter()] = o;
+    }
+    QJsonObject methods_out;
+    for (const SequenceMethodResult& m : p.methods) {
+        const chem::MethodPlan& mp = m.plan;
+        QJsonObject mo{{"flow_ml_min", m.flow_ml_min},
+                       {"injection_min", mp.injection_min},
+                       {"per_injection_ml", per_line(mp.per_injection_ml, p.defined)},
+                       {"pumped_per_injection_ml", mp.pumped_per_injection_ml}};
+        if (m.pressure) {
+            mo["max_pressure_bar"] = m.pressure->max_pressure_bar;
+            mo["max_pressure_at_t_min"] = m.pressure->max_at_t_min;
+            mo["pressure"] = pressure_trace_to_json(*m.pressure);
+        }
+        methods_out[qs(mp.name)] = mo;
+    }
+    QJsonObject out{{"start", p.start},
+                    {"end", p.end},
+                    {"total_min", p.total_min},
+                    {"injections", p.injections},
+                    {"lines", lines_out},
+                    {"waste_ml", p.waste_ml},
+                    {"pumped_ml", p.pumped_ml},
+                    {"prime_ml", p.prime_ml},
+                    {"standby_min", p.standby_min},
+                    {"standby_end", p.standby_end},
+                    {"methods", methods_out},
+                    {"warnings", warnings_to_json(p.warnings)}};
+    if (p.waste_capacity_ml)
+        out["waste_capacity_ml"] = *p.waste_capacity_ml;
+    out["eluent_trace"] = eluent_traces_to_json(p.eluent);
+    if (batches)
+        out["batches"] = batches_to_json(*batches);
+    return out;
+}
+
+/// The "rows" of a plan as QJsonObjects.
 QJsonArray rows_to_json(const PlanResult& p) {
-    const ContractClockText clock(p.start, p.has_offset);
+    const ContractClockText clock(p.clock.start, p.clock.has_offset);
     QJsonArray rows_out;
     for (std::size_t i = 0; i < p.rows.size(); ++i) {
         const auto& rp = p.rows[i];
@@ -406,15 +448,15 @@ QJsonArray rows_to_json(const PlanResult& p) {
     return rows_out;
 }
 
-QJsonObject plan_to_json(const PlanResult& p) {
-    QJsonObject out = p.out;
+QJsonObject plan_to_json(const PlanResult& p, const std::vector<SequenceBatch>* batches) {
+    QJsonObject out = plan_fields_to_json(p, batches);
     out["rows"] = rows_to_json(p);
     return out;
 }
 
 /// The same rows as rows_to_json, written straight to text (keys in QJsonObject's order).
 void write_rows(json::IndentedWriter& w, const PlanResult& p, const std::string& at) {
-    const ContractClockText clock(p.start, p.has_offset);
+    const ContractClockText clock(p.clock.start, p.clock.has_offset);
     std::string time;
     w.key("rows");
     w.begin_array();
@@ -459,11 +501,13 @@ void write_rows(json::IndentedWriter& w, const PlanResult& p, const std::string&
 }
 
 /// plan_to_json(p) as text, each number checked as json::check_output checks it, in its order.
-void write_plan(json::IndentedWriter& w, const PlanResult& p, const std::string& at) {
+void write_plan(json::IndentedWriter& w, const PlanResult& p, const std::string& at,
+                const std::vector<SequenceBatch>* batches) {
+    const QJsonObject out = plan_fields_to_json(p, batches);
     w.begin_object();
     bool rows_done = false;
     const QString rows_key = QStringLiteral("rows");
-    for (auto it = p.out.constBegin(); it != p.out.constEnd(); ++it) {
+    for (auto it = out.constBegin(); it != out.constEnd(); ++it) {
         if (!rows_done && rows_key < it.key()) {
             write_rows(w, p, json::path(at, rows_key));
             rows_done = true;
@@ -477,83 +521,95 @@ void write_plan(json::IndentedWriter& w, const PlanResult& p, const std::string&
 }
 
 /// Sums the lines that share a recipe; warns when one batch would outlive its shelf life.
-QJsonArray batches_of(const std::vector<BatchUse>& uses, QJsonArray* warnings) {
+std::vector<SequenceBatch> batches_of(const std::vector<SequenceBatchUse>& uses,
+                                      std::vector<SequenceWarning>* warnings) {
     std::vector<QString> order;
-    std::map<QString, std::vector<const BatchUse*>> by_key;
+    std::map<QString, std::vector<const SequenceBatchUse*>> by_key;
     for (const auto& u : uses) {
         if (!by_key.count(u.key))
             order.push_back(u.key);
         by_key[u.key].push_back(&u);
     }
-    QJsonArray out;
+    std::vector<SequenceBatch> out;
     for (const QString& key : order) {
         const auto& list = by_key[key];
-        double required = 0, prepare = 0;
-        QDateTime first = list.front()->first_use, last = list.front()->last_use;
-        QJsonArray labels;
-        for (const BatchUse* u : list) {
-            required += u->required_ml;
-            prepare += u->prepare_ml;
-            first = std::min(first, u->first_use);
-            last = std::max(last, u->last_use);
-            labels.append(u->label);
+        SequenceBatch b;
+        b.recipe = list.front()->name;
+        b.first_use = list.front()->first_use;
+        b.last_use = list.front()->last_use;
+        for (const SequenceBatchUse* u : list) {
+            b.required_ml += u->required_ml;
+            b.prepare_ml += u->prepare_ml;
+            b.first_use = std::min(b.first_use, u->first_use);
+            b.last_use = std::max(b.last_use, u->last_use);
+            b.lines.append(u->label);
         }
-        double suggested = 0;
         for (double s : chem::common_bottle_sizes_ml())
-            if (s >= prepare) {
-                suggested = s;
+            if (s >= b.prepare_ml) {
+                b.suggested_bottle_ml = s;
                 break;
             }
-        const double span_h = first.msecsTo(last) / 3.6e6;
+        b.span_h = b.first_use.msecsTo(b.last_use) / 3.6e6;
         const double shelf = list.front()->shelf_life_h;
-        QJsonObject b{{"recipe", list.front()->name},
-                      {"lines", labels},
-                      {"required_ml", required},
-                      {"prepare_ml", prepare},
-                      {"suggested_bottle_ml", suggested > 0 ? QJsonValue(suggested) : QJsonValue()},
-                      {"first_use", wall_clock_iso(first)},
-                      {"last_use", wall_clock_iso(last)},
-                      {"span_h", span_h}};
         if (shelf > 0) {
+            b.shelf_life_h = shelf;
+            b.shelf_kind = list.front()->shelf_kind;
             const QString kind =
-                list.front()->shelf_kind
-                    ? QLatin1String(chem::shelf_kind_name(*list.front()->shelf_kind))
-                    : QString();
-            b["shelf_life_h"] = shelf;
-            b["shelf_kind"] = kind;
-            b["one_batch_lasts"] = span_h <= shelf;
-            if (span_h > shelf && warnings && list.size() > 1) {
+                b.shelf_kind ? QLatin1String(chem::shelf_kind_name(*b.shelf_kind)) : QString();
+            if (b.span_h > shelf && warnings && list.size() > 1) {
                 const long long batches =
-                    chem::guard::count_up(span_h / shelf, "batches", "number of batches");
-                warnings->append(QJsonObject{
-                    {"code", "shelf-life"},
-                    {"severity", "warning"},
-                    {"message",
-                     "One batch of " + list.front()->name + " for " + QString::number(list.size()) +
-                         " bottles would be used over " + QString::number(span_h, 'f', 1) +
-                         " h, longer than its shelf life of " + QString::number(shelf, 'f', 0) +
-                         " h (" + kind + ", a lab-set default): make at least " +
-                         QString::number(batches) + " batches."},
-                    {"recipe", list.front()->name},
-                    {"span_h", span_h},
-                    {"shelf_life_h", shelf},
-                    {"batches", batches}});
+                    chem::guard::count_up(b.span_h / shelf, "batches", "number of batches");
+                warnings->push_back(
+                    {QJsonObject{{"code", "shelf-life"},
+                                 {"severity", "warning"},
+                                 {"message", "One batch of " + b.recipe + " for " +
+                                                 QString::number(list.size()) +
+                                                 " bottles would be used over " +
+                                                 QString::number(b.span_h, 'f', 1) +
+                                                 " h, longer than its shelf life of " +
+                                                 QString::number(shelf, 'f', 0) + " h (" + kind +
+                                                 ", a lab-set default): make at least " +
+                                                 QString::number(batches) + " batches."},
+                                 {"recipe", b.recipe},
+                                 {"span_h", b.span_h},
+                                 {"shelf_life_h", shelf},
+                                 {"batches", batches}},
+                     std::nullopt});
             }
         }
-        out.append(b);
+        out.push_back(std::move(b));
     }
     return out;
 }
 
 } // namespace
 
-namespace {
+const SequenceLineResult* PlanResult::line(int index) const {
+    for (const SequenceLineResult& l : lines)
+        if (l.index == index)
+            return &l;
+    return nullptr;
+}
 
-struct SequenceResult {
-    bool several = false; ///< a "plans" document
-    std::vector<PlanResult> plans;
-    QJsonArray batches, warnings;
-};
+const chem::PressureTrace* PlanResult::pressure(const std::string& method) const {
+    for (const SequenceMethodResult& m : methods)
+        if (m.plan.name == method)
+            return m.pressure ? &*m.pressure : nullptr;
+    return nullptr;
+}
+
+const chem::EluentTrace* PlanResult::eluent_of(const std::string& method) const {
+    const chem::EluentTrace* found = nullptr;
+    for (const chem::EluentTrace& e : eluent)
+        if (e.method == method)
+            found = &e;
+    return found;
+}
+
+QString PlanResult::row_end(std::size_t i) const {
+    return ContractClockText(clock.start, clock.has_offset)
+        .text(std::llround(rows.at(i).end_min * 60.0));
+}
 
 SequenceResult sequence_result(const AppData& data, const QJsonObject& input,
                                const CommandOptions& options) {
@@ -561,14 +617,13 @@ SequenceResult sequence_result(const AppData& data, const QJsonObject& input,
     if (!input.contains("plans")) {
         res.plans.push_back(plan_one(data, input, "", options));
         res.batches = batches_of(res.plans.front().uses, nullptr);
-        res.plans.front().out["batches"] = res.batches;
         return res;
     }
     res.several = true;
     const QJsonArray plans = json::require_array(input, "plans", "");
     if (plans.isEmpty())
         throw chem::Error("plans", "needs at least one plan");
-    std::vector<BatchUse> uses;
+    std::vector<SequenceBatchUse> uses;
     for (int i = 0; i < plans.size(); ++i) {
         const std::string at = json::path("plans", i);
         PlanResult r = plan_one(data, json::element_object(plans, i, "plans"), at, options);
@@ -579,17 +634,20 @@ SequenceResult sequence_result(const AppData& data, const QJsonObject& input,
     return res;
 }
 
-} // namespace
+QJsonObject to_json(const SequenceResult& r) {
+    if (!r.several)
+        return plan_to_json(r.plans.front(), &r.batches);
+    QJsonArray outs;
+    for (const PlanResult& p : r.plans)
+        outs.append(plan_to_json(p, nullptr));
+    return QJsonObject{{"plans", outs},
+                       {"batches", batches_to_json(r.batches)},
+                       {"warnings", warnings_to_json(r.warnings)}};
+}
 
 QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
                              const CommandOptions& options) {
-    const SequenceResult r = sequence_result(data, input, options);
-    if (!r.several)
-        return plan_to_json(r.plans.front());
-    QJsonArray outs;
-    for (const PlanResult& p : r.plans)
-        outs.append(plan_to_json(p));
-    return QJsonObject{{"plans", outs}, {"batches", r.batches}, {"warnings", r.warnings}};
+    return to_json(sequence_result(data, input, options));
 }
 
 std::string command_sequence_text(const AppData& data, const QJsonObject& input,
@@ -601,31 +659,21 @@ std::string command_sequence_text(const AppData& data, const QJsonObject& input,
         rows += p.rows.size();
     w.reserve(rows * 420 + (1 << 18)); // about 400 bytes a row with four lines
     if (!r.several) {
-        write_plan(w, r.plans.front(), "");
+        write_plan(w, r.plans.front(), "", &r.batches);
         return w.take();
     }
     w.begin_object();
     w.key("batches");
-    w.value(r.batches, "batches");
+    w.value(batches_to_json(r.batches), "batches");
     w.key("plans");
     w.begin_array();
     for (std::size_t i = 0; i < r.plans.size(); ++i)
-        write_plan(w, r.plans[i], json::path("plans", static_cast<int>(i)));
+        write_plan(w, r.plans[i], json::path("plans", static_cast<int>(i)), nullptr);
     w.end_array();
     w.key("warnings");
-    w.value(r.warnings, "warnings");
+    w.value(warnings_to_json(r.warnings), "warnings");
     w.end_object();
     return w.take();
-}
-
-QJsonObject sequence_with_typed_traces(const AppData& data, const QJsonObject& input,
-                                       const CommandOptions& options, SequenceTraces& traces) {
-    traces = {};
-    if (input.contains("plans"))
-        return command_sequence(data, input, options);
-    PlanResult r = plan_one(data, input, "", options, &traces);
-    r.out["batches"] = batches_of(r.uses, nullptr);
-    return plan_to_json(r);
 }
 
 } // namespace phaseplan

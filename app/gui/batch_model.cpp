@@ -205,8 +205,8 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
         emit resultChanged();
         return e;
     }
-    const QJsonObject s = doc.summary;
-    const QJsonObject b = s.value("batch").toObject();
+    // The typed evaluation, field by field (the sheet's summary JSON is rendered from it).
+    const BatchEvaluation& ev = doc.evaluation;
     use_by_at_ = doc.expires_at;
     use_by_limit_ = doc.expiry_limit_text;
     lot_overrides_ = doc.lot_override_text;
@@ -218,20 +218,19 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     for (const StepSection& sec : doc.steps)
         steps_.append(QVariantMap{{"heading", sec.heading}, {"steps", sec.steps}});
     std::vector<Row> rows;
-    for (const QJsonValue& v : b.value("checks").toArray()) {
-        const QJsonObject c = v.toObject();
+    rows.reserve(ev.checks.size());
+    for (const BatchCheckRow& c : ev.checks) {
         Row r;
-        r.reagent = c.value("reagent").toString();
-        r.name = c.value("name").toString(workspace_->displayName(r.reagent));
-        r.unit = c.value("unit").toString();
-        r.target = c.value("target").toDouble();
-        r.low = c.value("low").toDouble();
-        r.high = c.value("high").toDouble();
-        r.entered = c.value("entered").toBool();
-        r.actual =
-            r.entered ? c.value("actual").toDouble() : std::numeric_limits<double>::quiet_NaN();
-        r.deviation_percent = c.value("deviation_percent").toDouble();
-        r.within = c.value("within_tolerance").toBool(true);
+        r.reagent = QString::fromStdString(c.check.reagent);
+        r.name = c.name;
+        r.unit = QString::fromStdString(c.check.unit);
+        r.target = c.check.target;
+        r.low = c.check.low;
+        r.high = c.check.high;
+        r.entered = c.check.entered;
+        r.actual = r.entered ? c.check.actual : std::numeric_limits<double>::quiet_NaN();
+        r.deviation_percent = r.entered ? c.check.deviation_fraction * 100 : 0.0;
+        r.within = c.check.within_tolerance;
         rows.push_back(r);
     }
     // The same reagents: update in place, so a field being typed in keeps its focus.
@@ -248,31 +247,26 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
         endResetModel();
     }
     valid_ = true;
-    title_ = s.value("title").toString();
-    shelf_life_h_ = b.value("shelf_life_h").toDouble();
-    target_ph_ = s.value("target_ph").toDouble(std::numeric_limits<double>::quiet_NaN());
-    predicted_ph_ = b.value("ph").toDouble(std::numeric_limits<double>::quiet_NaN());
-    ionic_strength_mmol_per_l_ =
-        b.value("ionic_strength_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) *
-        1000;
-    buffer_capacity_mmol_per_l_ =
-        b.value("buffer_capacity_mol_per_l").toDouble(std::numeric_limits<double>::quiet_NaN()) *
-        1000;
+    title_ = doc.title;
+    shelf_life_h_ = ev.shelf_life_h;
+    constexpr double none = std::numeric_limits<double>::quiet_NaN();
+    target_ph_ = ev.target_ph.value_or(none);
+    predicted_ph_ = ev.ph.value_or(none);
+    ionic_strength_mmol_per_l_ = ev.ionic_strength_mol_per_l.value_or(none) * 1000;
+    buffer_capacity_mmol_per_l_ = ev.buffer_capacity_mol_per_l.value_or(none) * 1000;
     composition_.clear();
-    for (const QJsonValue& v : b.value("composition").toArray()) {
-        const QJsonObject c = v.toObject();
-        composition_.append(
-            QVariantMap{{"reagent", c.value("reagent").toString()},
-                        {"name", workspace_->displayName(c.value("reagent").toString())},
-                        {"mmolPerL", c.value("mol_per_l").toDouble() * 1000}});
-    }
+    // A recipe's composition as made (a line's buffer part is not listed, as before).
+    if (!ev.composition_of_buffer)
+        for (const BatchEvaluation::Component& c : ev.composition) {
+            const QString reagent = QString::fromStdString(c.reagent);
+            composition_.append(QVariantMap{{"reagent", reagent},
+                                            {"name", workspace_->displayName(reagent)},
+                                            {"mmolPerL", c.mol_per_l * 1000}});
+        }
     warnings_.clear();
-    for (const QJsonValue& v : s.value("warnings").toArray()) {
-        const QJsonObject w = v.toObject();
-        warnings_.append(QVariantMap{{"code", w.value("code").toString()},
-                                     {"severity", w.value("severity").toString()},
-                                     {"message", w.value("message").toString()}});
-    }
+    for (const BatchWarning& w : ev.warnings)
+        warnings_.append(
+            QVariantMap{{"code", w.code}, {"severity", w.severity}, {"message", w.message}});
     emit resultChanged();
     return {};
 }

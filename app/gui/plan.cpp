@@ -45,6 +45,41 @@ QJsonObject obj(const QJsonObject& o, const char* key) {
     return o.value(QLatin1String(key)).toObject();
 }
 
+/// A line's result as the screens' bottle rows take it: the keys of the contract's
+/// "lines.<letter>" (a null there is a null here).
+QVariantMap bottle_map(const SequenceLineResult& r) {
+    const QVariant null = QVariant::fromValue(nullptr);
+    const chem::LinePlan& lp = r.plan;
+    auto or_null = [&](const auto& v) { return v ? QVariant(double(*v)) : null; };
+    QVariantMap b{
+        {"name", r.name},
+        {"required_ml", lp.required_ml},
+        {"usable_ml", lp.usable_ml},
+        {"runs_dry", lp.runs_dry},
+        {"dry_after_injection", or_null(lp.dry_after_injection)},
+        {"dry_at", lp.dry_at_min ? QVariant(r.dry_at) : null},
+        {"dry_at_min", or_null(lp.dry_at_min)},
+        {"dry_during",
+         lp.runs_dry ? QVariant(QString::fromLatin1(chem::dry_phase_name(lp.dry_phase))) : null},
+        {"bottle_ml", r.bottle_ml},
+        {"residue_ml", r.residue_ml},
+        {"prime_ml", lp.prime_ml},
+        {"pumped_ml", lp.pumped_ml},
+        {"spare_ml", lp.spare_ml},
+        {"min_bottle_ml", lp.min_bottle_ml},
+        {"suggested_bottle_ml",
+         lp.suggested_bottle_ml > 0 ? QVariant(lp.suggested_bottle_ml) : null}};
+    if (r.profile) {
+        b.insert("uv_cutoff_nm", r.profile->uv_cutoff_nm);
+        b.insert("ph", or_null(r.profile->ph));
+        b.insert("shelf_kind",
+                 QString::fromLatin1(
+                     r.profile->shelf_kind ? chem::shelf_kind_name(*r.profile->shelf_kind) : ""));
+        b.insert("shelf_life_h", r.profile->shelf_life_h);
+    }
+    return b;
+}
+
 /// Every clock time of a plan document moved by the same amount (start, lines' prepared_at, a
 /// dated standby end), so that a plan made for another day keeps its shape when moved to tonight.
 void shift_times(QJsonObject& doc, qint64 secs) {
@@ -482,7 +517,7 @@ void Plan::setStandbyMode(const QString& mode) {
     QJsonObject sb = standby_doc();
     if (mode == QLatin1String("duration")) {
         sb.remove("until");
-        const double shown = result_.value("standby_min").toDouble();
+        const double shown = planResult() ? planResult()->standby_min : 0.0;
         sb.insert("duration_min", shown > 0 ? std::round(shown) : 240.0);
     } else {
         sb.remove("duration_min");
@@ -539,11 +574,11 @@ void Plan::setStandbyPercent(const QString& letter, double percent) {
 }
 
 QString Plan::standbyText() const {
-    const double min = result_.value("standby_min").toDouble();
+    const PlanResult* p = planResult();
+    const double min = p ? p->standby_min : 0.0;
     if (!standbyEnabled() || !(min > 0))
         return {};
-    return tr("until %1 (%2)")
-        .arg(dayClock(result_.value("standby_end").toString()), duration_text(min));
+    return tr("until %1 (%2)").arg(dayClock(p->standby_end), duration_text(min));
 }
 
 QString Plan::fieldWords(const QString& path) const {
@@ -557,16 +592,16 @@ QString Plan::errorPlace() const {
 }
 
 QString Plan::endTime() const {
-    return result_.value("end").toString();
+    return planResult() ? planResult()->end : QString();
 }
 QString Plan::endText() const {
     return dayClock(endTime());
 }
 double Plan::totalMin() const {
-    return result_.value("total_min").toDouble();
+    return planResult() ? planResult()->total_min : 0.0;
 }
 double Plan::wasteMl() const {
-    return result_.value("waste_ml").toDouble();
+    return planResult() ? planResult()->waste_ml : 0.0;
 }
 
 bool Plan::errorUnder(const QString& prefix) const {
@@ -1133,8 +1168,7 @@ void Plan::recompute() {
     recompute_timer_.stop();
     QElapsedTimer timer;
     timer.start();
-    QJsonObject out;
-    SequenceTraces traces;
+    SequenceResult out;
     if (!workspace_ || !workspace_->ready())
         error_ = {QString(), tr("the reference data are not loaded")};
     else
@@ -1142,9 +1176,9 @@ void Plan::recompute() {
             CommandOptions opt;
             const QDate today = workspace_->today();
             opt.clock_words = [today](const QDateTime& t) { return day_clock_text(t, today); };
-            // The traces come typed for the charts: writing them as JSON and reading them back
-            // was most of the recompute.
-            out = sequence_with_typed_traces(workspace_->data(), doc_, opt, traces);
+            // The result stays typed: the summary, the bottles and the charts read its fields
+            // (writing it as JSON and reading it back by key was most of the recompute).
+            out = sequence_result(workspace_->data(), doc_, opt);
         });
     if (!error_.empty()) {
         // Keep the last valid plan on screen, greyed (stale()): one wrong cell does not blank
@@ -1153,8 +1187,7 @@ void Plan::recompute() {
         emit resultChanged();
         return;
     }
-    result_ = out;
-    traces_ = std::move(traces);
+    result_ = std::move(out);
     has_result_ = true;
     const QVariantList old_warnings = warnings_, old_bottles = bottles_;
     warnings_.clear();
@@ -1162,30 +1195,26 @@ void Plan::recompute() {
     injections_ = 0;
     for (const QJsonValue& r : rows())
         injections_ += r.toObject().value("injections").toInt();
-    {
-        const QJsonArray ws = out.value("warnings").toArray();
-        // The checks' findings close the list: each carries its typed subject and place, so the
-        // screens never read them out of the sentence.
-        const qsizetype first_finding = ws.size() - qsizetype(traces_.findings.size());
-        for (qsizetype i = 0; i < ws.size(); ++i) {
-            QVariantMap w = ws[i].toObject().toVariantMap();
-            if (i >= first_finding && first_finding >= 0)
-                w.insert(finding_references(traces_.findings[std::size_t(i - first_finding)]));
-            warnings_.append(w);
-        }
-        const QJsonObject lines = obj(out, "lines");
-        for (const QString& letter : lineLetters()) {
-            const QJsonObject in = line(letter);
-            QVariantMap b = obj(lines, letter.toLatin1().constData()).toVariantMap();
-            b.insert("letter", letter);
-            b.insert("name", in.value("name").toString(letter));
-            b.insert("bottle_ml", in.value("bottle_ml").toDouble());
-            b.insert("residue_ml", in.value("residue_ml").toDouble());
-            b.insert("dry_text", b.value("dry_at").toString().isEmpty()
-                                     ? QString()
-                                     : dayClock(b.value("dry_at").toString()));
-            bottles_.append(b);
-        }
+    const PlanResult* p = planResult();
+    // The warnings as the screens take them (code, severity, message, the numbers); a check's
+    // finding adds its typed subject and place, so the screens never read them out of the
+    // sentence.
+    for (const SequenceWarning& w : p ? p->warnings : result_.warnings) {
+        QVariantMap m = w.json.toVariantMap();
+        if (w.finding)
+            m.insert(finding_references(*w.finding));
+        warnings_.append(m);
+    }
+    for (const QString& letter : lineLetters()) {
+        const QJsonObject in = line(letter);
+        const SequenceLineResult* r = p ? p->line(chem::line_index(letter.toStdString())) : nullptr;
+        QVariantMap b = r ? bottle_map(*r) : QVariantMap{};
+        b.insert("letter", letter);
+        b.insert("name", in.value("name").toString(letter));
+        b.insert("bottle_ml", in.value("bottle_ml").toDouble());
+        b.insert("residue_ml", in.value("residue_ml").toDouble());
+        b.insert("dry_text", r && !r->dry_at.isEmpty() ? dayClock(r->dry_at) : QString());
+        bottles_.append(b);
     }
     compute_levels();
     last_recompute_ms_ = elapsed_ms(timer);
@@ -1203,35 +1232,34 @@ void Plan::compute_levels() {
     // The adapter: the core's result (per-row volumes, totals, run-dry times) as the typed input
     // of chem::bottle_levels, clock times turned into hours from the start.
     chem::BottleLevelsInput in;
-    const QJsonObject res_lines = obj(result_, "lines");
+    const PlanResult* p = planResult();
     for (const QString& l : lineLetters()) {
         const int i = chem::line_index(l.toStdString());
         if (i < 0)
             continue;
-        const QJsonObject r = res_lines.value(l).toObject();
+        const SequenceLineResult* r = p ? p->line(i) : nullptr;
         chem::BottleLevelLine b;
         b.bottle_ml = line(l).value("bottle_ml").toDouble();
         b.residue_ml = line(l).value("residue_ml").toDouble();
-        b.prime_ml = r.value("prime_ml").toDouble(primeMl(l));
-        b.required_ml = r.value("required_ml").toDouble();
-        if (r.value("runs_dry").toBool())
-            b.dry_at_hours = r.contains("dry_at_min")
-                                 ? r.value("dry_at_min").toDouble() / 60.0
-                                 : hours_between(start(), r.value("dry_at").toString());
+        b.prime_ml = r ? r->plan.prime_ml : primeMl(l);
+        b.required_ml = r ? r->plan.required_ml : 0.0;
+        if (r && r->plan.runs_dry && r->plan.dry_at_min)
+            b.dry_at_hours = *r->plan.dry_at_min / 60.0;
         in.lines[i] = b;
     }
-    for (const QJsonValue& v : result_.value("rows").toArray()) {
-        const QJsonObject row = v.toObject();
-        chem::BottleLevelRow r;
-        r.end_hours = hours_between(start(), row.value("end").toString());
-        const QJsonObject vol = row.value("volume_ml").toObject();
-        for (int i = 0; i < chem::max_lines; ++i)
-            r.volume_ml[i] = vol.value(QString(QChar(chem::line_letter(i)))).toDouble();
-        in.rows.push_back(r);
+    if (p) {
+        in.rows.reserve(p->rows.size());
+        for (const chem::RowPlan& row : p->rows) {
+            chem::BottleLevelRow r;
+            // To the second, as the row's clock time is written.
+            r.end_hours = double(std::llround(row.end_min * 60.0)) / 3600.0;
+            for (int i = 0; i < chem::max_lines; ++i)
+                r.volume_ml[i] = p->defined[std::size_t(i)] ? row.volume_ml[std::size_t(i)] : 0.0;
+            in.rows.push_back(r);
+        }
+        if (p->standby_min > 0)
+            in.standby_end_hours = (p->total_min + p->standby_min) / 60.0;
     }
-    const double standby_min = result_.value("standby_min").toDouble();
-    if (standby_min > 0)
-        in.standby_end_hours = (totalMin() + standby_min) / 60.0;
     in.waste_ml = wasteMl();
     in.waste_capacity_ml = wasteCapacityMl();
     levels_ = chem::bottle_levels(in);
@@ -1265,27 +1293,13 @@ void Plan::fillWasteSeries(QObject* series) const {
     replace_series(series, points_of(levels_.waste));
 }
 
-namespace {
-const chem::EluentTrace* eluent_of(const SequenceTraces& t, const QString& method) {
-    // The last run of the method, as the JSON keyed by method name keeps it.
-    const std::string name = method.toStdString();
-    const chem::EluentTrace* found = nullptr;
-    for (const chem::EluentTrace& e : t.eluent)
-        if (e.method == name)
-            found = &e;
-    return found;
-}
-const chem::PressureTrace* pressure_of(const SequenceTraces& t, const QString& method) {
-    const auto it = t.pressure.find(method.toStdString());
-    return it == t.pressure.end() ? nullptr : &it->second;
-}
-} // namespace
-
 QVariantMap Plan::methodConditions(const QString& method) const {
     QVariantMap out{{"hasEluent", false}, {"hasPressure", false}};
     double lo = 14, hi = 0, span = 0;
     bool extrapolated = false;
-    const chem::EluentTrace* eluent = eluent_of(traces_, method);
+    const PlanResult* res = planResult();
+    const std::string name = method.toStdString();
+    const chem::EluentTrace* eluent = res ? res->eluent_of(name) : nullptr;
     if (eluent && !eluent->points.empty()) {
         for (const chem::EluentTracePoint& p : eluent->points) {
             lo = std::min(lo, p.ph_s_s);
@@ -1298,7 +1312,7 @@ QVariantMap Plan::methodConditions(const QString& method) const {
         out.insert("phMax", hi);
         out.insert("extrapolated", extrapolated);
     }
-    const chem::PressureTrace* pressure = pressure_of(traces_, method);
+    const chem::PressureTrace* pressure = res ? res->pressure(name) : nullptr;
     if (pressure && !pressure->points.empty()) {
         for (const chem::PressurePoint& p : pressure->points)
             span = std::max(span, p.t_min);
@@ -1318,11 +1332,14 @@ QVariantMap Plan::methodConditions(const QString& method) const {
 
 void Plan::fillConditionSeries(QObject* series, const QString& method, const QString& which) const {
     QList<QPointF> pts;
-    if (which == QLatin1String("ph")) {
-        if (const chem::EluentTrace* eluent = eluent_of(traces_, method))
+    const PlanResult* res = planResult();
+    const std::string name = method.toStdString();
+    if (!res) {
+    } else if (which == QLatin1String("ph")) {
+        if (const chem::EluentTrace* eluent = res->eluent_of(name))
             for (const chem::EluentTracePoint& p : eluent->points)
                 pts.append(QPointF(p.t_min, p.ph_s_s));
-    } else if (const chem::PressureTrace* pressure = pressure_of(traces_, method)) {
+    } else if (const chem::PressureTrace* pressure = res->pressure(name)) {
         if (which == QLatin1String("pressure")) {
             for (const chem::PressurePoint& p : pressure->points)
                 pts.append(QPointF(p.t_min, p.pressure_bar));

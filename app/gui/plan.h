@@ -7,6 +7,7 @@
 // app loses at most that moment.
 #include "chem/bottle_levels.h"
 #include "core/line_commands.h"
+#include "core/sequence_result.h"
 #include "model_util.h"
 #include "workspace.h"
 
@@ -99,8 +100,6 @@ class Plan : public QObject {
     Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY resultChanged)
     Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
     Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
-    /// The result document of command_sequence (for anything not unpacked below).
-    Q_PROPERTY(QVariantMap result READ resultMap NOTIFY resultChanged)
     Q_PROPERTY(QString endTime READ endTime NOTIFY resultChanged)
     Q_PROPERTY(QString endText READ endText NOTIFY resultChanged)
     Q_PROPERTY(double totalMin READ totalMin NOTIFY resultChanged)
@@ -181,8 +180,12 @@ class Plan : public QObject {
     QString errorPlace() const;
     QString errorField() const { return error_.field; }
     QString errorMessage() const { return error_.message; }
-    QVariantMap resultMap() const { return result_.toVariantMap(); }
-    const QJsonObject& resultJson() const { return result_; }
+    /// The last valid plan, typed (kept, greyed, while an input is wrong); null before the first
+    /// and for a "plans" document, whose plans this screen does not show.
+    const PlanResult* planResult() const {
+        return has_result_ && !result_.several && !result_.plans.empty() ? &result_.plans.front()
+                                                                         : nullptr;
+    }
     QString endTime() const;
     QString endText() const;
     double totalMin() const;
@@ -373,8 +376,7 @@ class Plan : public QObject {
     bool dirty_ = false;
 
     FieldError error_;
-    QJsonObject result_;    ///< the last valid result (kept, greyed, while an input is wrong)
-    SequenceTraces traces_; ///< its eluent-pH and pressure traces, typed (not in result_)
+    SequenceResult result_; ///< the last valid result (kept, greyed, while an input is wrong)
     bool has_result_ = false;
     QJsonObject standby_doc() const;
     QJsonObject standby_kept_; ///< the standby as it was when switched off, to switch it back on
