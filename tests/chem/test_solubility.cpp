@@ -168,6 +168,29 @@ TEST(SolubilityForms, SpeciesSharesFromThePkaValues) {
     EXPECT_NEAR(f[1] / f[0], std::pow(10.0, 7.5 - 2.5), 1e-6 * f[1] / f[0]);
 }
 
+// The check's cheap split (EluentModel::point_species, the trace's solve) agrees with the full
+// solve's (species_shares_of of EluentModel::solve): the same model, two routes.
+TEST(SolubilityForms, PointSpeciesAgreesWithTheFullSolve) {
+    const LineProfile acn = neat_line("acetonitrile", false);
+    const LineProfile ph7 = buffer_line(
+        {{"potassium-dihydrogen-phosphate", 10}, {"dipotassium-hydrogen-phosphate", 50}});
+    const std::vector<const LineProfile*> profiles = {&ph7, &acn};
+    const EluentModel model(shipped_solvents(), shipped_library(), profiles, 35);
+    for (double a : {100.0, 60.0, 30.0}) {
+        const std::vector<double> pct = {a, 100 - a};
+        std::vector<std::vector<double>> fractions;
+        const EluentPoint pt = model.point_species(pct.data(), pct.size(), fractions);
+        const SpeciesShares full = species_shares_of(model.solve(pct));
+        EXPECT_NEAR(pt.ph_s_s, full.ph_s_s, 1e-6);
+        for (std::size_t i = 0; i < model.systems().size(); ++i) {
+            const auto& f = full.fractions.at(model.systems()[i]->id);
+            ASSERT_EQ(fractions[i].size(), f.size());
+            for (std::size_t k = 0; k < f.size(); ++k)
+                EXPECT_NEAR(fractions[i][k], f[k], 1e-6);
+        }
+    }
+}
+
 // The library refuses inconsistent form tables with the field named (chem::SolventLibrary).
 TEST(SolubilityForms, LibraryRefusesInconsistentFormTables) {
     auto field_of = [](SolubilityTable t, const SolubilityTable* before = nullptr) {
