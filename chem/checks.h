@@ -129,21 +129,50 @@ std::vector<Finding> check_line(const SolventLibrary& solvents, const LineProfil
                                 const std::optional<ColumnLimits>& column,
                                 const Library* reagents = nullptr);
 
+/// The acid–base speciation of an eluent at one point, for the solubility form tables: per
+/// system id, the fraction of each species (index = protons removed from the fully protonated
+/// acid; the fractions sum to 1).
+struct SpeciesShares {
+    std::map<std::string, std::vector<double>> fractions;
+    double ph_s_s = 7; ///< the eluent's s_s pH the fractions hold at
+};
+/// The speciation of a solved eluent: each system's species at the eluent's s_s pH from its s_s
+/// pKa′ at the eluent's ionic strength (EluentResult::pka, s_s_conditional).
+SpeciesShares species_shares_of(const EluentResult& eluent);
+
 /// Worst-case salt loading of a mixture against the solubility tables: for every salt group in
 /// the mixture, the highest ratio concentration / limit. Used by check_precipitation and tests.
+///
+/// A group with form tables (SolubilityTable::form) is split into its forms by the speciation
+/// and loaded by the sum-of-fractions rule R = Σ c_form / limit_form(φ): precipitation when
+/// R ≥ 1. Species of the system without a table of their own count against the lowest form
+/// limit (conservative), except the fully protonated acid (protons removed 0), which is not a
+/// salt. Without a speciation for the group's system the whole total is counted as the form with
+/// the lowest limit (conservative), and `speciated` is false.
 struct SaltLoad {
     std::string group;
     double mmol_per_l = 0; ///< total of the group in the mixed eluent
+    /// Group table: the table's limit. Form tables: the total the eluent holds at R = 1 at this
+    /// speciation (mmol_per_l / R), so that ratio() is R.
     double limit_mmol_per_l = 0;
     double organic_fraction_v = 0; ///< total organic where the ratio is highest
-    std::string organic;           ///< the solvent whose table gave the limit
+    std::string organic;           ///< the solvent whose table gave the (limiting form's) limit
     std::string basis;             ///< "published" | "rule-of-thumb"
     std::string source;
-    double ratio() const; ///< mmol/limit (infinite for a zero limit with salt present)
+    // With form tables only (form empty: a group table gave the limit).
+    std::string form;           ///< the form with the largest share of R ("hydrogen-phosphate")
+    std::string system;         ///< its acid–base system ("phosphate")
+    double form_mmol_per_l = 0; ///< that form's concentration in the eluent
+    double form_limit_mmol_per_l = 0; ///< that form's limit at organic_fraction_v
+    bool speciated = false;           ///< split at the eluent's pH (ph_s_s)
+    double ph_s_s = 0;                ///< the eluent's s_s pH, when speciated
+    double ratio() const;             ///< mmol/limit (infinite for a zero limit with salt present)
 };
-/// A mixture: per line percent (sum 100) of lines with the given profiles.
+/// A mixture: per line percent (sum 100) of lines with the given profiles. `speciation`, when
+/// given, splits the groups with form tables (see SaltLoad).
 std::vector<SaltLoad> salt_loads(const SolventLibrary& solvents,
                                  const std::array<const LineProfile*, max_lines>& profiles,
-                                 const LineValues& percent);
+                                 const LineValues& percent,
+                                 const SpeciesShares* speciation = nullptr);
 
 } // namespace chem

@@ -395,6 +395,52 @@ EluentPoint EluentModel::point(const double* percent, std::size_t count,
     return out;
 }
 
+EluentPoint EluentModel::point_species(const double* percent, std::size_t count,
+                                       std::vector<std::vector<double>>& fractions,
+                                       const EluentPoint* guess) const {
+    const EluentPoint out = point(percent, count, guess);
+    fractions.resize(system_defs_.size());
+    for (auto& f : fractions)
+        f.clear();
+    if (!has_components_)
+        return out;
+    // point() left its problem and the pKa values of this composition in scratch_ and
+    // prepared_; the state is the point's pH and ionic strength.
+    const detail::Problem& p = scratch_;
+    const Prepared& pr = *prepared_;
+    detail::State st;
+    st.ph = out.ph_s_s;
+    st.ionic_strength_mol_per_l = out.ionic_strength_mol_per_l;
+    const bool davies = p.model == ActivityModel::davies;
+    const double log10_g1 =
+        davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;
+    const std::vector<double> g = davies ? std::vector<double>{} : detail::gammas_at(p, st);
+    for (size_t i = 0; i < p.systems.size() && i < fractions.size(); ++i) {
+        if (p.systems[i].total_mol_per_l <= 0)
+            continue;
+        const int o = p.sys_offset[i];
+        std::vector<double>& f = fractions[i];
+        f.assign(p.systems[i].steps + 1, 0.0);
+        // log10 of species k against the acid: Σ_{j<k} (pH − pKa′_j), normalised below.
+        for (int j = 0; j < p.systems[i].steps; ++j) {
+            const int za = p.flat_charge[o + j], zb = p.flat_charge[o + j + 1];
+            const double cond =
+                davies ? pr.pka_ss[i][j] - log10_g1 * (za * za - zb * zb)
+                       : pr.pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
+            f[j + 1] = f[j] + st.ph - cond;
+        }
+        const double top = *std::max_element(f.begin(), f.end());
+        double sum = 0;
+        for (double& x : f) {
+            x = std::pow(10.0, x - top);
+            sum += x;
+        }
+        for (double& x : f)
+            x /= sum;
+    }
+    return out;
+}
+
 bool EluentModel::estimate_matters(const Prepared& pr, double ph_s_s) const {
     // A borrowed shift matters only for a step near enough to the pH to take part.
     for (size_t i = 0; i < system_defs_.size(); ++i)

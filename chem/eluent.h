@@ -88,6 +88,14 @@ class EluentModel {
     EluentPoint point(const double* percent, std::size_t count,
                       const EluentPoint* guess = nullptr) const;
 
+    /// The pH as point() gives it, and each system's species fractions there into `fractions`
+    /// (index as systems(); per system, index = protons removed, summing to 1; empty for a system
+    /// absent at this composition), from the s_s pKa′ at the solved ionic strength. For the
+    /// precipitation check's speciation: as cheap as point(), unlike solve().
+    EluentPoint point_species(const double* percent, std::size_t count,
+                              std::vector<std::vector<double>>& fractions,
+                              const EluentPoint* guess = nullptr) const;
+
     /// Organic volume fraction of a composition (before mixing).
     double organic_fraction_v(const double* percent, std::size_t count) const;
 

@@ -98,6 +98,17 @@ std::string immiscible_lines(const Words& w) {
                   "solubility.");
 }
 
+/// A salt form of a solubility form table in words: "hydrogen phosphate (HPO₄²⁻)".
+std::string form_words(const std::string& form) {
+    if (form == "dihydrogen-phosphate")
+        return "dihydrogen phosphate (H₂PO₄⁻)";
+    if (form == "hydrogen-phosphate")
+        return "hydrogen phosphate (HPO₄²⁻)";
+    if (form == "phosphate")
+        return "phosphate (PO₄³⁻)";
+    return group_words(form);
+}
+
 std::string precipitation(const Words& w) {
     const Finding& f = w.f;
     const bool over = f.severity == Finding::Severity::warning;
@@ -109,13 +120,38 @@ std::string precipitation(const Words& w) {
     else
         where = "in method \u201c" + f.where.id + "\u201d, " + method_time_words(w.n("t_min")) +
                 " into each injection";
-    std::string msg =
-        (over ? "Buffer salt " : "Buffer salt near its limit: ") + group_words(w.t("group")) +
-        " reaches " + fmt(w.n("mmol_per_l"), 2) + " mmol/L at " +
-        fmt(100 * w.n("organic_fraction_v")) + " % organic " + where + ", " +
-        (over ? "above" : "close to") + " the limit of " + fmt(w.n("limit_mmol_per_l"), 2) +
-        " mmol/L in water–" + w.name(w.t("organic")) + " (" +
-        (w.t("basis") == "published" ? "published data" : "a conservative rule of thumb") + ").";
+    const std::string basis =
+        w.t("basis") == "published" ? "published data" : "a conservative rule of thumb";
+    if (!w.t("form").empty()) {
+        // A group checked form by form (chem::SaltLoad): say which form limits.
+        const double total = w.n("mmol_per_l"), held = w.n("limit_mmol_per_l");
+        const double share = held > 0 ? total / held : 0;
+        std::string msg = (over ? "Buffer salt " : "Buffer salt near its limit: ") +
+                          group_words(w.t("group")) + " reaches " + fmt(total, 2) + " mmol/L at " +
+                          fmt(100 * w.n("organic_fraction_v")) + " % organic " + where + ", " +
+                          (over ? "more than" : "close to what") + " the solution holds there: ";
+        const std::string in = " mmol/L in water–" + w.name(w.t("organic"));
+        if (w.flag("speciated"))
+            msg += "at s_s pH " + fmt(w.n("ph_s_s"), 2) + " the " + form_words(w.t("form")) +
+                   " limits, " + fmt(w.n("form_mmol_per_l"), 2) + " mmol/L against its limit of " +
+                   fmt(w.n("form_limit_mmol_per_l"), 2) + in + ", and its forms together reach " +
+                   fmt(100 * share, 0) + " % of their limits (" + basis + ").";
+        else
+            msg += "without the eluent's pH all of it is counted as its least soluble form, the " +
+                   form_words(w.t("form")) + ", limit " + fmt(w.n("form_limit_mmol_per_l"), 2) +
+                   in + " (" + basis + ").";
+        if (over)
+            msg += " It may precipitate in the mixer, the column or the check valves: lower the "
+                   "salt or the organic end, or use a pH where the salt is in its more soluble "
+                   "form.";
+        return msg;
+    }
+    std::string msg = (over ? "Buffer salt " : "Buffer salt near its limit: ") +
+                      group_words(w.t("group")) + " reaches " + fmt(w.n("mmol_per_l"), 2) +
+                      " mmol/L at " + fmt(100 * w.n("organic_fraction_v")) + " % organic " + where +
+                      ", " + (over ? "above" : "close to") + " the limit of " +
+                      fmt(w.n("limit_mmol_per_l"), 2) + " mmol/L in water–" +
+                      w.name(w.t("organic")) + " (" + basis + ").";
     if (over)
         msg += " It may precipitate in the mixer, the column or the check valves: lower the salt "
                "or the organic end.";

@@ -148,8 +148,21 @@ void SolventLibrary::add_solubility(SolubilityTable t) {
         if (t.points[i].first == t.points[i - 1].first)
             throw Error("points",
                         "fraction_v " + format_number(t.points[i].first) + " appears twice");
+    if (t.form.empty() && !t.system.empty())
+        throw Error("form", "a table with a system (\"" + t.system + "\") needs its form");
+    if (!t.form.empty()) {
+        if (t.system.empty())
+            throw Error("system", "the form \"" + t.form + "\" needs its acid-base system");
+        if (t.protons_removed < 1)
+            throw Error("protons_removed", std::to_string(t.protons_removed) +
+                                               " is below 1 (a salt form has lost a proton)");
+        for (const auto& existing : solubility_)
+            if (existing.group == t.group && !existing.form.empty() && existing.system != t.system)
+                throw Error("system", "\"" + t.system + "\" differs from \"" + existing.system +
+                                          "\" of the group's other forms");
+    }
     for (auto& existing : solubility_)
-        if (existing.group == t.group && existing.organic == t.organic) {
+        if (existing.group == t.group && existing.organic == t.organic && existing.form == t.form) {
             existing = std::move(t);
             return;
         }
@@ -224,9 +237,27 @@ std::optional<Miscibility> SolventLibrary::miscibility(const std::string& a,
 const SolubilityTable* SolventLibrary::solubility(const std::string& group,
                                                   const std::string& organic) const {
     for (const auto& t : solubility_)
-        if (t.group == group && t.organic == organic)
+        if (t.group == group && t.organic == organic && t.form.empty())
             return &t;
     return nullptr;
+}
+
+const SolubilityTable* SolventLibrary::solubility_form(const std::string& group,
+                                                       const std::string& organic,
+                                                       const std::string& form) const {
+    for (const auto& t : solubility_)
+        if (t.group == group && t.organic == organic && t.form == form)
+            return &t;
+    return nullptr;
+}
+
+std::vector<const SolubilityTable*>
+SolventLibrary::solubility_form_tables(const std::string& group) const {
+    std::vector<const SolubilityTable*> out;
+    for (const auto& t : solubility_)
+        if (t.group == group && !t.form.empty())
+            out.push_back(&t);
+    return out;
 }
 
 std::vector<const SolubilityTable*>

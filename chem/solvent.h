@@ -97,14 +97,28 @@ struct Additive {
     std::string note;
 };
 
-/// Highest total concentration of a salt group in a water–organic mixture, against the volume
-/// fraction of the organic. basis "published" or "rule-of-thumb".
+/// Highest concentration of a salt group in a water–organic mixture, against the volume fraction
+/// of the organic. basis "published" or "rule-of-thumb".
+///
+/// Two kinds of table share the type:
+///   - a group table (form empty): the limit of the group's total, whatever the pH;
+///   - a form table (form set): the limit of one species form of an acid–base system in that
+///     group ("potassium-phosphate" as the "hydrogen-phosphate", HPO4²⁻, protons_removed 2). The
+///     precipitation check splits the group's total into the forms at the eluent's pH and adds
+///     c_form / limit_form over the forms (chem::salt_loads). A group with form tables is checked
+///     by them; its group table, if any, is then not used.
 struct SolubilityTable {
     std::string group;   ///< "potassium-phosphate"
     std::string organic; ///< solvent id: "acetonitrile"
     std::string basis;   ///< "published" | "rule-of-thumb"
     std::string source;
     std::vector<std::pair<double, double>> points; ///< (organic fraction_v, max mmol/L), ascending
+    std::string form;   ///< "" a group table; else the form's words id ("hydrogen-phosphate")
+    std::string system; ///< a form table's acid–base system id ("phosphate")
+    /// A form table's species of `system`: the protons removed from the fully protonated acid
+    /// (H2PO4⁻ 1, HPO4²⁻ 2, PO4³⁻ 3), as reagents' "protons_removed"; ≥ 1 (the neutral acid is
+    /// not a salt and has no table).
+    int protons_removed = 0;
 
     /// Linear between rows, above the last row the last row's value, in mmol/L. Below the first
     /// row the table says nothing (nullopt): each table starts at the organic fraction where its
@@ -171,6 +185,9 @@ class SolventLibrary {
     void add_solvent(Solvent s);
     void set_miscibility(const std::string& a, const std::string& b, Miscibility m);
     void add_additive(Additive a);
+    /// Replaces the table of the same group, organic and form. Throws chem::Error naming the
+    /// field: "points" (a fraction twice), "system" (a form without one, or a group whose forms
+    /// name two systems), "protons_removed" (a form's below 1), "form" (a system without a form).
     void add_solubility(SolubilityTable t);
     void add_shelf_life(ShelfLife s);
     void add_excess_volume(ExcessVolume e);
@@ -183,8 +200,15 @@ class SolventLibrary {
     const Additive* find_additive(const std::string& id) const;
     /// Miscible for a solvent with itself; nullopt for an unknown pair.
     std::optional<Miscibility> miscibility(const std::string& a, const std::string& b) const;
+    /// The group table (form "") of a group in an organic, or none.
     const SolubilityTable* solubility(const std::string& group, const std::string& organic) const;
+    /// A form table of a group in an organic, or none.
+    const SolubilityTable* solubility_form(const std::string& group, const std::string& organic,
+                                           const std::string& form) const;
+    /// Every table of a group (group and form tables).
     std::vector<const SolubilityTable*> solubility_tables(const std::string& group) const;
+    /// The form tables of a group only (empty: the group is checked by its group tables).
+    std::vector<const SolubilityTable*> solubility_form_tables(const std::string& group) const;
     const ShelfLife* shelf_life(ShelfKind kind) const;
     /// The library's hours for the kind, else builtin_shelf_life_h. `source` receives the
     /// entry's source, or that the figure is the built-in default.

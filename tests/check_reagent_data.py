@@ -18,7 +18,13 @@ Checks, each against the rule it comes from:
   and each pictogram is backed by a hazard statement of its class and vice versa (CLP Annex I and V,
   with the precedence rules of Article 26: no GHS07 beside GHS06; no GHS07 for skin or eye irritation
   beside GHS05) (from memory);
-- liquids carry a density and a sourced assay; the required reagent ids are all present.
+- liquids carry a density and a sourced assay; the required reagent ids are all present;
+- data/solvents.json's solubility form tables (a "form" with its "system" and "protons_removed")
+  name a system of this file, a species it has (1 <= protons_removed <= steps), and every additive
+  of the group releases that system (else the eluent's speciation cannot split the group); a
+  form table starts at fraction_v 0 (the salt's water solubility), and its source says which
+  figures are recalled ("(from memory)") and which are lore ("common practice, no source") unless
+  the basis is "published".
 Exit status 1 with one line per problem.
 """
 import json
@@ -243,6 +249,33 @@ def main():
     for rid in REQUIRED_IDS:
         if rid not in ids:
             bad("reagents", f"required reagent {rid!r} is missing")
+
+    with open(sys.argv[2] + "/data/solvents.json", encoding="utf-8") as f:
+        solvents = json.load(f)
+    reagent_systems = {r.get("id"): {x.get("system") for x in r.get("systems", [])}
+                       for r in doc.get("reagents", [])}
+    for i, t in enumerate(solvents.get("solubility", [])):
+        if "form" not in t:
+            continue
+        at = f"solvents.json solubility[{i}] ({t.get('group')}, {t.get('form')})"
+        sys_ = systems.get(t.get("system"))
+        if sys_ is None:
+            bad(at, f"system {t.get('system')!r} is not in reagents.json")
+            continue
+        removed = t.get("protons_removed")
+        if not isinstance(removed, int) or not 1 <= removed <= len(sys_.get("steps", [])):
+            bad(at, f"protons_removed {removed!r} is not a salt species of {t.get('system')}")
+        for a in solvents.get("additives", []):
+            if a.get("solubility_group") == t.get("group") and \
+                    t.get("system") not in reagent_systems.get(a.get("id"), set()):
+                bad(at, f"additive {a.get('id')!r} of the group does not release {t.get('system')}")
+        if not t.get("points") or t["points"][0].get("fraction_v") != 0:
+            bad(at, "does not start at fraction_v 0 (the water solubility)")
+        src = t.get("source", "")
+        if t.get("basis") != "published" and "common practice, no source" not in src:
+            bad(at, "a rule of thumb without \"common practice, no source\"")
+        if "from memory" not in src and "read" not in src:
+            bad(at, "the water solubility's source says neither read nor \"(from memory)\"")
 
     for p in problems:
         print("FAIL", p)

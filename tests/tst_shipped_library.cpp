@@ -96,8 +96,12 @@ class TestShippedLibrary : public QObject {
                     QCOMPARE(g.uv->at(amount).cutoff_nm, a.uv->at(amount).cutoff_nm);
         }
         QCOMPARE(gen.solubility_tables().size(), app.solubility_tables().size());
-        for (size_t i = 0; i < app.solubility_tables().size(); ++i)
+        for (size_t i = 0; i < app.solubility_tables().size(); ++i) {
             QCOMPARE(gen.solubility_tables()[i].points, app.solubility_tables()[i].points);
+            QCOMPARE(gen.solubility_tables()[i].form, app.solubility_tables()[i].form);
+            QCOMPARE(gen.solubility_tables()[i].protons_removed,
+                     app.solubility_tables()[i].protons_removed);
+        }
         QCOMPARE(gen.shelf_lives().size(), app.shelf_lives().size());
         for (size_t i = 0; i < app.shelf_lives().size(); ++i) {
             QVERIFY(gen.shelf_lives()[i].kind == app.shelf_lives()[i].kind);
@@ -170,6 +174,100 @@ class TestShippedLibrary : public QObject {
         } catch (const chem::Error& e) {
             QCOMPARE(QString::fromStdString(e.field()), field);
         }
+    }
+
+    // A solubility table is read with its fields checked: a species form needs its system and
+    // which species it is (≥ 1 proton removed), a system needs a form, a group's forms share one
+    // system, fractions lie in 0–1 and appear once, limits are not negative, the basis is one of
+    // the two words. Each refusal names the field's path.
+    void solubility_table_checked_data() {
+        QTest::addColumn<QString>("change");
+        QTest::addColumn<QString>("field");
+        const QString at = "solvents.json: solubility[0].";
+        QTest::newRow("form without system") << "no system" << at + "system";
+        QTest::newRow("acid form") << "protons 0" << at + "protons_removed";
+        QTest::newRow("system without form") << "no form" << at + "form";
+        QTest::newRow("empty form") << "empty form" << at + "form";
+        QTest::newRow("two systems") << "two systems"
+                                     << "solvents.json: solubility[1].system";
+        QTest::newRow("fraction above 1") << "fraction" << at + "points[2].fraction_v";
+        QTest::newRow("fraction twice") << "twice" << at + "points";
+        QTest::newRow("negative limit") << "negative" << at + "points[1].max_mmol_per_l";
+        QTest::newRow("basis") << "basis" << at + "basis";
+    }
+    void solubility_table_checked() {
+        QFETCH(QString, change);
+        QFETCH(QString, field);
+        QFile f(QStringLiteral(SOURCE_DIR "/data/solvents.json"));
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
+        QJsonArray tables = doc["solubility"].toArray();
+        QJsonObject t = tables[0].toObject();
+        QCOMPARE(t["form"].toString(), QString("dihydrogen-phosphate"));
+        QJsonArray pts = t["points"].toArray();
+        auto set_point = [&](int i, const char* key, double v) {
+            QJsonObject p = pts[i].toObject();
+            p[key] = v;
+            pts[i] = p;
+        };
+        if (change == "no system")
+            t.remove("system");
+        else if (change == "protons 0")
+            t["protons_removed"] = 0;
+        else if (change == "no form")
+            t.remove("form");
+        else if (change == "empty form")
+            t["form"] = "";
+        else if (change == "two systems") {
+            QJsonObject u = tables[1].toObject();
+            u["system"] = "citrate";
+            tables[1] = u;
+        } else if (change == "fraction")
+            set_point(2, "fraction_v", 1.5);
+        else if (change == "twice")
+            set_point(1, "fraction_v", 0);
+        else if (change == "negative")
+            set_point(1, "max_mmol_per_l", -5);
+        else
+            t["basis"] = "measured";
+        t["points"] = pts;
+        tables[0] = t;
+        doc["solubility"] = tables;
+        chem::SolventLibrary lib;
+        try {
+            phaseplan::load_solvents_json(QJsonDocument(doc).toJson(), "solvents.json", lib);
+            QFAIL("the broken table was accepted");
+        } catch (const chem::Error& e) {
+            QCOMPARE(QString::fromStdString(e.field()), field);
+        }
+    }
+
+    // A document of the former format (group tables only, no "form") still loads, and its
+    // tables are group tables.
+    void solubility_group_tables_still_load() {
+        QFile f(QStringLiteral(SOURCE_DIR "/data/solvents.json"));
+        QVERIFY(f.open(QIODevice::ReadOnly));
+        QJsonObject doc = QJsonDocument::fromJson(f.readAll()).object();
+        QJsonArray kept;
+        for (const QJsonValue v : doc["solubility"].toArray())
+            if (!v.toObject().contains("form"))
+                kept.append(v);
+        QVERIFY(!kept.isEmpty());
+        QJsonObject old{
+            {"group", "potassium-phosphate"},
+            {"organic", "acetonitrile"},
+            {"basis", "rule-of-thumb"},
+            {"source", "a former group table"},
+            {"points", QJsonArray{QJsonObject{{"fraction_v", 0.5}, {"max_mmol_per_l", 50}}}}};
+        kept.append(old);
+        doc["solubility"] = kept;
+        chem::SolventLibrary lib;
+        phaseplan::load_solvents_json(QJsonDocument(doc).toJson(), "solvents.json", lib);
+        const chem::SolubilityTable* t = lib.solubility("potassium-phosphate", "acetonitrile");
+        QVERIFY(t);
+        QVERIFY(t->form.empty());
+        QCOMPARE(*t->limit_mmol_per_l(0.5), 50.0);
+        QVERIFY(lib.solubility_form_tables("potassium-phosphate").empty());
     }
 };
 

@@ -151,6 +151,18 @@ chem::SolubilityTable solubility_from_json(const QJsonObject& o, const std::stri
                               chem::format_number(m) + " is negative");
         t.points.emplace_back(f, m);
     }
+    // A form table (one species form of an acid-base system, chem::SolubilityTable): the form,
+    // its system and which species it is, all three or none.
+    if (auto form = json::optional_string(o, "form", at)) {
+        if (form->empty())
+            throw chem::Error(json::path(at, "form"), "is empty");
+        t.form = *form;
+        t.system = json::require_string(o, "system", at);
+        t.protons_removed = json::require_int(o, "protons_removed", at, 1, 6);
+    } else if (o.contains("system") || o.contains("protons_removed")) {
+        throw chem::Error(json::path(at, "form"),
+                          "is missing: \"system\" and \"protons_removed\" belong to a form table");
+    }
     return t;
 }
 

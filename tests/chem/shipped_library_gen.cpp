@@ -175,9 +175,12 @@ void write_solvent_library(std::ostream& o, const chem::SolventLibrary& lib) {
         write_additive(o, a);
     for (const chem::SolubilityTable& t : lib.solubility_tables()) {
         o << "    {\n        chem::SolubilityTable t{" << str(t.group) << ", " << str(t.organic)
-          << ", " << str(t.basis) << ", " << str(t.source) << ", {}};\n";
+          << ", " << str(t.basis) << ", " << str(t.source) << ", {}, {}, {}, 0};\n";
         for (const auto& [phi, limit] : t.points)
             o << "        t.points.emplace_back(" << num(phi) << ", " << num(limit) << ");\n";
+        if (!t.form.empty())
+            o << "        t.form = " << str(t.form) << ";\n        t.system = " << str(t.system)
+              << ";\n        t.protons_removed = " << t.protons_removed << ";\n";
         o << "        lib.add_solubility(std::move(t));\n    }\n";
     }
     for (const chem::ShelfLife& s : lib.shelf_lives())
