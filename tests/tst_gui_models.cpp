@@ -631,6 +631,75 @@ class TestGuiModels : public QObject {
         QCOMPARE(none.count(), 0); // reading does not recompute
     }
 
+    // Each part of the plan signals only when it changes, so that views of one part (on a screen
+    // shown or not) are not re-evaluated on every edit elsewhere (the signals' contract in plan.h).
+    void plan_signals_only_the_parts_that_change() {
+        auto ws = open_workspace(fresh_db());
+        Plan plan;
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+        plan.recomputeNow();
+        QVERIFY(plan.valid());
+        QSignalSpy document(&plan, &Plan::documentChanged), result(&plan, &Plan::resultChanged),
+            name(&plan, &Plan::nameChanged), start(&plan, &Plan::startChanged),
+            standby(&plan, &Plan::standbyChanged), settings(&plan, &Plan::settingsChanged),
+            summary(&plan, &Plan::summaryChanged), error(&plan, &Plan::errorChanged),
+            bottles(&plan, &Plan::bottlesChanged);
+        const auto counts = [&] {
+            return QList<qsizetype>{document.count(), result.count(),  name.count(),
+                                    start.count(),    standby.count(), settings.count(),
+                                    summary.count(),  error.count(),   bottles.count()};
+        };
+        const auto reset = [&] {
+            for (QSignalSpy* s : {&document, &result, &name, &start, &standby, &settings, &summary,
+                                  &error, &bottles})
+                s->clear();
+        };
+        // A buffer edit (the line's buffer 0.1 pH up): the document and the result change, the
+        // volumes, times, settings and errors do not.
+        QString letter;
+        for (const QString& l : plan.lineLetters())
+            if (letter.isEmpty() && !plan.lineBuffer(l).isEmpty())
+                letter = l;
+        QVERIFY2(!letter.isEmpty(), "the demo plan has a line with a buffer");
+        QJsonObject recipe = plan.lineBuffer(letter);
+        recipe.insert("target_ph", recipe.value("target_ph").toDouble() + 0.1);
+        const double required_ml = plan.bottleAt(0).value("required_ml").toDouble();
+        plan.setLineBuffer(letter, recipe);
+        plan.recomputeNow();
+        QVERIFY2(plan.valid(), qPrintable(plan.errorMessage()));
+        QCOMPARE(plan.bottleAt(0).value("required_ml").toDouble(), required_ml);
+        QCOMPARE(counts(), (QList<qsizetype>{1, 1, 0, 0, 0, 0, 0, 0, 0}));
+        // The start an hour later: the start and the end move, and so does the clock time of a
+        // bottle that runs dry.
+        reset();
+        const QString end = plan.endTime();
+        qsizetype dry = 0;
+        for (int i = 0; i < plan.bottleCount(); ++i)
+            dry += plan.bottleAt(i).value("dry_at").toString().isEmpty() ? 0 : 1;
+        plan.shiftStart(60);
+        plan.recomputeNow();
+        QVERIFY(plan.endTime() != end);
+        QCOMPARE(counts(), (QList<qsizetype>{1, 1, 0, 1, 0, 0, 1, 0, dry > 0 ? 1 : 0}));
+        // The detector's wavelength: a setting.
+        reset();
+        plan.setDetectorWavelengthNm(plan.detectorWavelengthNm() + 10);
+        QCOMPARE(settings.count(), 1);
+        QCOMPARE(start.count() + standby.count() + name.count(), 0);
+        // A bottle that cannot be: the error, and nothing of the last valid plan's summary.
+        reset();
+        plan.setLineField(letter, "bottle_ml", -100);
+        plan.recomputeNow();
+        QVERIFY(!plan.valid() && plan.stale());
+        QCOMPARE(error.count(), 1);
+        QCOMPARE(summary.count(), 0);
+        // The name.
+        reset();
+        plan.setName("Night of the test");
+        QCOMPARE(name.count(), 1);
+        QCOMPARE(start.count() + standby.count() + settings.count(), 0);
+    }
+
     void errors_land_on_their_row() {
         auto ws = open_workspace(fresh_db());
         Plan plan;

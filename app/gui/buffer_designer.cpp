@@ -1025,8 +1025,12 @@ void BufferDesigner::recompute() {
         emit itemsChanged();
     if (warnings_ != old_warnings)
         emit warningsChanged();
-    if (steps_ != old_steps)
+    if (steps_ != old_steps) {
         emit stepsChanged();
+        for (qsizetype i = 0; i < std::min(steps_.size(), old_steps.size()); ++i)
+            if (steps_[i] != old_steps[i])
+                emit stepTextChanged(int(i));
+    }
     if (cautions_ != old_cautions)
         emit cautionsChanged();
     emit resultChanged();

@@ -307,6 +307,9 @@ class BufferDesigner : public QObject, public QQmlParserStatus {
     // rebuilt when only the amounts changed.
     void itemsChanged();
     void stepsChanged();
+    /// Step `index` reads differently (sent for each step that changed, with stepsChanged): a
+    /// row of the steps reads its text again only then, not on every edit.
+    void stepTextChanged(int index);
     void cautionsChanged();
     void warningsChanged();
     /// An input changed by the user (not by loading): the plan and autosave listen.

@@ -142,6 +142,57 @@ Plan::Plan(QObject* parent) : QObject(parent) {
     doc_ = starter_plan();
     name_ = tr("New plan");
     update_buffer_lines();
+    connect(this, &Plan::documentChanged, this, &Plan::notify_document_parts);
+    connect(this, &Plan::resultChanged, this, &Plan::notify_result_parts);
+}
+
+namespace {
+/// Keeps `now` in `shown` and says whether it differs from what was there.
+bool differs(QVariantList& shown, QVariantList now) {
+    if (now == shown)
+        return false;
+    shown = std::move(now);
+    return true;
+}
+
+/// The fields of `bottles` that views show (those plan.h lists): a change only in the rest of a
+/// line's result (its pH and UV cut-off, after a buffer edit) sends no bottlesChanged.
+QVariantList shown_bottle_fields(const QVariantList& bottles) {
+    static const char* const keys[] = {
+        "letter",      "name",      "bottle_ml",     "residue_ml",
+        "required_ml", "usable_ml", "runs_dry",      "dry_after_injection",
+        "dry_at",      "dry_text",  "min_bottle_ml", "suggested_bottle_ml"};
+    QVariantList out;
+    for (const QVariant& b : bottles) {
+        const QVariantMap m = b.toMap();
+        for (const char* k : keys)
+            out.append(m.value(QLatin1String(k)));
+    }
+    return out;
+}
+} // namespace
+
+void Plan::notify_document_parts() {
+    if (differs(shown_name_, {name_}))
+        emit nameChanged();
+    // The words for the start depend on the day as well: compared as shown.
+    if (differs(shown_start_, {start(), startParts(), startText(), startNote()}))
+        emit startChanged();
+    if (differs(shown_standby_,
+                {doc_.value("standby").toVariant(), standbyEnabled(), standbyFlowMlMin(),
+                 standbyMode(), standbyUntilHour(), standbyUntilMinute(), standbyDurationMin()}))
+        emit standbyChanged();
+    if (differs(shown_settings_, {columnMap(), wasteCapacityMl(), detectorType(), detectorReadsUv(),
+                                  detectorWavelengthNm(), columnPhMin(), columnPhMax()}))
+        emit settingsChanged();
+}
+
+void Plan::notify_result_parts() {
+    if (differs(shown_summary_, {endTime(), endText(), totalMin(), injections(), wasteMl(),
+                                 standbyText(), chartHours(), chartMaxMl()}))
+        emit summaryChanged();
+    if (differs(shown_error_, {valid(), stale(), errorPlace(), errorField(), errorMessage()}))
+        emit errorChanged();
 }
 
 Plan::~Plan() {
@@ -1218,7 +1269,7 @@ void Plan::recompute() {
     }
     compute_levels();
     last_recompute_ms_ = elapsed_ms(timer);
-    if (bottles_ != old_bottles)
+    if (shown_bottle_fields(bottles_) != shown_bottle_fields(old_bottles))
         emit bottlesChanged();
     if (warnings_ != old_warnings)
         emit warningsChanged();

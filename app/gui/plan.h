@@ -37,11 +37,11 @@ class Plan : public QObject {
     /// Restore the autosaved plan (or the demo on first run) when the workspace is set.
     Q_PROPERTY(bool restore READ restore WRITE setRestore NOTIFY workspaceChanged)
     /// The name it is saved under.
-    Q_PROPERTY(QString name READ name WRITE setName NOTIFY documentChanged)
+    Q_PROPERTY(QString name READ name WRITE setName NOTIFY nameChanged)
     Q_PROPERTY(QVariantMap document READ documentMap NOTIFY documentChanged)
     /// The plan's column (the document's `column`), for views that need only it: `document` read
     /// from QML is a JS copy of the whole plan, made again on every edit.
-    Q_PROPERTY(QVariantMap column READ columnMap NOTIFY documentChanged)
+    Q_PROPERTY(QVariantMap column READ columnMap NOTIFY settingsChanged)
     /// Letters of the defined lines, "A".."D".
     Q_PROPERTY(QStringList lineLetters READ lineLetters NOTIFY lineLettersChanged)
     Q_PROPERTY(QStringList methodNames READ methodNames NOTIFY methodNamesChanged)
@@ -51,63 +51,64 @@ class Plan : public QObject {
     /// signalled only when it changes.
     Q_PROPERTY(QVariantList bufferLines READ bufferLines NOTIFY bufferLinesChanged)
     /// Sequence start, ISO 8601 local time ("2026-12-01T18:00:00").
-    Q_PROPERTY(QString start READ start WRITE setStart NOTIFY documentChanged)
+    Q_PROPERTY(QString start READ start WRITE setStart NOTIFY startChanged)
     /// The start as parts for the pickers: {year, month (1–12), day, hour, minute}.
-    Q_PROPERTY(QVariantMap startParts READ startParts NOTIFY documentChanged)
+    Q_PROPERTY(QVariantMap startParts READ startParts NOTIFY startChanged)
     /// The start with its day: "today 18:00", "tomorrow 07:30", "Fri 4 Dec 18:00".
-    Q_PROPERTY(QString startText READ startText NOTIFY documentChanged)
+    Q_PROPERTY(QString startText READ startText NOTIFY startChanged)
     /// A word under the start when it lies in the past ("today 18:00 was 8 min ago: …"); "" when
     /// it is now or later. Not an error: a sequence already running is planned the same way.
-    Q_PROPERTY(QString startNote READ startNote NOTIFY documentChanged)
+    Q_PROPERTY(QString startNote READ startNote NOTIFY startChanged)
 
     // ---- standby after the last injection (optional) -------------------------------------------
     /// The pump keeps running at a low flow after the last injection.
     Q_PROPERTY(
-        bool standbyEnabled READ standbyEnabled WRITE setStandbyEnabled NOTIFY documentChanged)
+        bool standbyEnabled READ standbyEnabled WRITE setStandbyEnabled NOTIFY standbyChanged)
     Q_PROPERTY(double standbyFlowMlMin READ standbyFlowMlMin WRITE setStandbyFlowMlMin NOTIFY
-                   documentChanged)
+                   standbyChanged)
     /// "until": until a time of day (the first after the last injection, so it moves with the
     /// start); "duration": for a number of minutes.
-    Q_PROPERTY(QString standbyMode READ standbyMode WRITE setStandbyMode NOTIFY documentChanged)
-    Q_PROPERTY(int standbyUntilHour READ standbyUntilHour NOTIFY documentChanged)
-    Q_PROPERTY(int standbyUntilMinute READ standbyUntilMinute NOTIFY documentChanged)
+    Q_PROPERTY(QString standbyMode READ standbyMode WRITE setStandbyMode NOTIFY standbyChanged)
+    Q_PROPERTY(int standbyUntilHour READ standbyUntilHour NOTIFY standbyChanged)
+    Q_PROPERTY(int standbyUntilMinute READ standbyUntilMinute NOTIFY standbyChanged)
     Q_PROPERTY(double standbyDurationMin READ standbyDurationMin WRITE setStandbyDurationMin NOTIFY
-                   documentChanged)
+                   standbyChanged)
     /// "until tomorrow 07:30 (4 h 00 min)" from the last result, "" when there is no standby.
-    Q_PROPERTY(QString standbyText READ standbyText NOTIFY resultChanged)
+    Q_PROPERTY(QString standbyText READ standbyText NOTIFY summaryChanged)
     /// Free volume of the waste container in mL (0: not checked).
     Q_PROPERTY(
-        double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY documentChanged)
+        double wasteCapacityMl READ wasteCapacityMl WRITE setWasteCapacityMl NOTIFY settingsChanged)
     /// The contract's word for the detector: "uv", "dad", "pda", "uv-ms", "ms", "elsd", "cad",
     /// "fluorescence", "ri".
-    Q_PROPERTY(QString detectorType READ detectorType WRITE setDetectorType NOTIFY documentChanged)
+    Q_PROPERTY(QString detectorType READ detectorType WRITE setDetectorType NOTIFY settingsChanged)
     /// Every detector type the checks know, [{id, name}] in chem::detector_types() order, for the
     /// picker (so a plan with any valid type shows it picked).
     Q_PROPERTY(QVariantList detectorTypes READ detectorTypes CONSTANT)
     /// True when the detector reads UV (uv, dad, pda, uv-ms): the wavelength applies.
-    Q_PROPERTY(bool detectorReadsUv READ detectorReadsUv NOTIFY documentChanged)
+    Q_PROPERTY(bool detectorReadsUv READ detectorReadsUv NOTIFY settingsChanged)
     Q_PROPERTY(double detectorWavelengthNm READ detectorWavelengthNm WRITE setDetectorWavelengthNm
-                   NOTIFY documentChanged)
-    Q_PROPERTY(double columnPhMin READ columnPhMin WRITE setColumnPhMin NOTIFY documentChanged)
-    Q_PROPERTY(double columnPhMax READ columnPhMax WRITE setColumnPhMax NOTIFY documentChanged)
+                   NOTIFY settingsChanged)
+    Q_PROPERTY(double columnPhMin READ columnPhMin WRITE setColumnPhMin NOTIFY settingsChanged)
+    Q_PROPERTY(double columnPhMax READ columnPhMax WRITE setColumnPhMax NOTIFY settingsChanged)
 
     // ---- results ----------------------------------------------------------------------------
-    Q_PROPERTY(bool valid READ valid NOTIFY resultChanged)
+    Q_PROPERTY(bool valid READ valid NOTIFY errorChanged)
     /// The results shown are the last valid plan's: an input is wrong (see errorField) and the
     /// views grey what they show rather than blank it.
-    Q_PROPERTY(bool stale READ stale NOTIFY resultChanged)
+    Q_PROPERTY(bool stale READ stale NOTIFY errorChanged)
     /// Where the error lies, in the screen's words ("Method “assay”, gradient row 2, % A").
-    Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY resultChanged)
-    Q_PROPERTY(QString errorField READ errorField NOTIFY resultChanged)
-    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY resultChanged)
-    Q_PROPERTY(QString endTime READ endTime NOTIFY resultChanged)
-    Q_PROPERTY(QString endText READ endText NOTIFY resultChanged)
-    Q_PROPERTY(double totalMin READ totalMin NOTIFY resultChanged)
-    Q_PROPERTY(int injections READ injections NOTIFY resultChanged)
-    Q_PROPERTY(double wasteMl READ wasteMl NOTIFY resultChanged)
+    Q_PROPERTY(QString errorPlace READ errorPlace NOTIFY errorChanged)
+    Q_PROPERTY(QString errorField READ errorField NOTIFY errorChanged)
+    Q_PROPERTY(QString errorMessage READ errorMessage NOTIFY errorChanged)
+    Q_PROPERTY(QString endTime READ endTime NOTIFY summaryChanged)
+    Q_PROPERTY(QString endText READ endText NOTIFY summaryChanged)
+    Q_PROPERTY(double totalMin READ totalMin NOTIFY summaryChanged)
+    Q_PROPERTY(int injections READ injections NOTIFY summaryChanged)
+    Q_PROPERTY(double wasteMl READ wasteMl NOTIFY summaryChanged)
     /// [{letter, name, bottle_ml, residue_ml, required_ml, usable_ml, runs_dry,
     /// dry_after_injection,
-    ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}]
+    ///   dry_at, dry_text, min_bottle_ml, suggested_bottle_ml}], with the rest of each line's
+    /// result; signalled only when one of the fields listed changes.
     Q_PROPERTY(QVariantList bottles READ bottles NOTIFY bottlesChanged)
     /// The number of bottles, for views that show a row per bottle through bottleAt(): a read of
     /// `bottles` from QML makes a JS copy of the whole list, and a list as a Repeater's model
@@ -116,8 +117,8 @@ class Plan : public QObject {
     /// [{code, severity, message, …}] of the sequence checks.
     Q_PROPERTY(QVariantList warnings READ warnings NOTIFY warningsChanged)
     /// Plot ranges of the bottle chart: hours from the start, mL.
-    Q_PROPERTY(double chartHours READ chartHours NOTIFY resultChanged)
-    Q_PROPERTY(double chartMaxMl READ chartMaxMl NOTIFY resultChanged)
+    Q_PROPERTY(double chartHours READ chartHours NOTIFY summaryChanged)
+    Q_PROPERTY(double chartMaxMl READ chartMaxMl NOTIFY summaryChanged)
     Q_PROPERTY(double lastRecomputeMs READ lastRecomputeMs NOTIFY resultChanged)
 
   public:
@@ -327,21 +328,42 @@ class Plan : public QObject {
 
   signals:
     void workspaceChanged();
+    /// Any edit of the document. The parts below have their own signals, each sent only when
+    /// what it covers differs, so that a view of one part (on a screen shown or not) is not
+    /// re-evaluated on every edit elsewhere (a buffer edit changes none of them).
     void documentChanged();
+    void nameChanged();
+    /// start, startParts, startText, startNote.
+    void startChanged();
+    /// The standby properties and standbyPercent().
+    void standbyChanged();
+    /// The instrument settings: column, the column's pH range, the detector, the waste capacity.
+    void settingsChanged();
     void saveClashChanged();
     /// The whole document was replaced: views reload what they show.
     void documentReplaced();
+    /// Every recompute (`result`, lastRecomputeMs). The parts below are sent only when they
+    /// differ.
     void resultChanged();
+    /// endTime, endText, totalMin, injections, wasteMl, standbyText, chartHours, chartMaxMl.
+    void summaryChanged();
+    /// valid, stale, errorPlace, errorField, errorMessage.
+    void errorChanged();
     void bufferLinesChanged();
     /// Sent only when the list differs: pickers of lines and methods are not rebuilt on every edit.
     void lineLettersChanged();
     void methodNamesChanged();
     void methodUseChanged();
-    /// Sent only when the list differs (an edit that changes no volume rebuilds no bottle row).
+    /// Sent only when a field of `bottles` that it lists differs (an edit that changes no volume
+    /// rebuilds no bottle row).
     void bottlesChanged();
     void warningsChanged();
 
   private:
+    /// After documentChanged and resultChanged: sends the finer signals whose values differ
+    /// from what they last announced (shown_name_ …).
+    void notify_document_parts();
+    void notify_result_parts();
     void edited();
     void recompute();
     void compute_levels();
@@ -353,6 +375,9 @@ class Plan : public QObject {
     bool for_each_buffer_part(const std::function<bool(QJsonObject& part)>& change);
 
     QPointer<Workspace> workspace_;
+    /// What each finer signal last announced (notify_document_parts, notify_result_parts).
+    QVariantList shown_name_, shown_start_, shown_standby_, shown_settings_, shown_summary_,
+        shown_error_;
     bool restore_ = false;
     QString name_;
     QJsonObject doc_;

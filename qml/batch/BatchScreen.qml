@@ -132,11 +132,15 @@ ScreenPage {
             visible: !root.batch.active && !root.gated
             title: qsTr("Start a batch")
             Label {
+                // The buffer's name, read on every buffer edit, into a string property that
+                // signals only when it changes: the sentence is made again only then.
+                readonly property string bufferShown: root.designer && root.designer.valid
+                                                      ? (root.designer.name.length > 0 ? root.designer.name : qsTr("(unnamed)"))
+                                                      : ""
                 Layout.fillWidth: true
                 wrapMode: Text.Wrap
-                text: root.designer && root.designer.valid
-                      ? qsTr("Current buffer: %1").arg(root.designer.name.length > 0 ? root.designer.name : qsTr("(unnamed)"))
-                      : qsTr("The buffer designer has no valid recipe yet.")
+                text: bufferShown.length > 0 ? qsTr("Current buffer: %1").arg(bufferShown)
+                                             : qsTr("The buffer designer has no valid recipe yet.")
                 font.pixelSize: Theme.fontSize
             }
             TextEntry {

@@ -12,8 +12,14 @@ ColumnLayout {
 
     spacing: Theme.margin
 
+    // The error read once per result into string properties, which signal only when they change:
+    // the fields' bindings below then run again only when the error does, not on every edit (the
+    // designer signals errorField and errorMessage with every new result).
+    readonly property string shownErrorField: root.designer.errorField
+    readonly property string shownErrorMessage: root.designer.errorMessage
     function errorFor(field) {
-        return FieldPath.belongs(root.designer.errorField, field) ? root.designer.errorMessage : ""
+        return root.shownErrorField.length > 0 && FieldPath.belongs(root.shownErrorField, field)
+               ? root.shownErrorMessage : ""
     }
 
     NameDialog {

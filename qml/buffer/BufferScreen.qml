@@ -93,12 +93,35 @@ ScreenPage {
                         // The count, not the list: new amounts update the steps in place. Each
                         // row reads its own step (stepAt; stepCount carries the change signal).
                         model: root.designer.stepCount
-                        delegate: Label {
+                        // The number in a label of its own, and the text read when the row is
+                        // made and again only when that step changes (stepTextChanged): an edit
+                        // makes no JS copy of the steps it leaves as they were (the strings an
+                        // edit makes set off the collections of the JS heap).
+                        delegate: RowLayout {
+                            id: stepRow
                             required property int index
                             width: stepList.width
-                            text: root.designer.stepCount > index ? (index + 1) + ". " + root.designer.stepAt(index) : ""
-                            wrapMode: Text.Wrap
-                            font.pixelSize: Theme.fontSize
+                            spacing: Theme.gap
+                            Label {
+                                Layout.alignment: Qt.AlignTop
+                                text: (stepRow.index + 1) + "."
+                                font.pixelSize: Theme.fontSize
+                            }
+                            Label {
+                                id: stepText
+                                objectName: "stepText"
+                                Layout.fillWidth: true
+                                text: root.designer.stepAt(stepRow.index)
+                                wrapMode: Text.Wrap
+                                font.pixelSize: Theme.fontSize
+                                Connections {
+                                    target: root.designer
+                                    function onStepTextChanged(i) {
+                                        if (i === stepRow.index)
+                                            stepText.text = root.designer.stepAt(i)
+                                    }
+                                }
+                            }
                         }
                     }
                 }
@@ -106,7 +129,10 @@ ScreenPage {
             Card {
                 Layout.fillWidth: true
                 title: qsTr("Safety")
-                visible: root.designer.valid && root.designer.cautions.length > 0
+                // A count read only when the cautions change: `cautions` read from QML is a JS
+                // copy of every caution, and `valid` is signalled with every result.
+                readonly property bool hasCautions: root.designer.cautions.length > 0
+                visible: root.designer.valid && hasCautions
                 BulletList {
                     Layout.fillWidth: true
                     items: root.designer.cautions

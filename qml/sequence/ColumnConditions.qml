@@ -15,17 +15,19 @@ Card {
     /// The method shown.
     property string method
 
+    // Hidden (another screen shown), the card does not follow the plan: a buffer edit changes the
+    // eluent's pH on every keystroke, and the card is brought up to date when it shows again.
     property var conditions: ({})
     function refresh() {
-        root.conditions = root.plan.methodConditions(root.method)
         if (!root.visible)
             return
+        root.conditions = root.plan.methodConditions(root.method)
         root.plan.fillConditionSeries(phSeries, root.method, "ph")
         root.plan.fillConditionSeries(barSeries, root.method, "pressure")
         root.plan.fillConditionSeries(limitSeries, root.method, "limit")
     }
     onMethodChanged: { refresh(); refreshColumn() }
-    onVisibleChanged: if (visible) refresh()
+    onVisibleChanged: if (visible) { refresh(); refreshColumn() }
     Component.onCompleted: { refresh(); refreshColumn() }
     Connections {
         target: root.plan
@@ -41,7 +43,10 @@ Card {
     }
     /// The method's column: {own, name, document, has}.
     property var methodColumn: ({})
-    function refreshColumn() { root.methodColumn = root.plan.methodColumn(root.method) }
+    function refreshColumn() {
+        if (root.visible)
+            root.methodColumn = root.plan.methodColumn(root.method)
+    }
     Connections {
         target: root.plan
         function onDocumentChanged() { root.refreshColumn() }

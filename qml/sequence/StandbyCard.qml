@@ -112,7 +112,7 @@ Card {
                     onEdited: function(v) { root.plan.setStandbyPercent(modelData, v) }
                     Connections {
                         target: root.plan
-                        function onDocumentChanged() { value = root.plan.standbyPercent(modelData) }
+                        function onStandbyChanged() { value = root.plan.standbyPercent(modelData) }
                     }
                 }
             }

@@ -93,6 +93,37 @@ TestCase {
         compare(ph.text, Number(3.1).toLocaleString(Qt.locale(), "f", 2))
     }
 
+    // Each step's row reads its text again only when that step changes (stepTextChanged): after
+    // an edit, every row shows the designer's step as it is now, and a step with an amount in it
+    // reads differently (the designer's contract in buffer_designer.h).
+    function shownSteps(root) {
+        var labels = findAll(root, "stepText", [])
+        var texts = []
+        for (var i = 0; i < labels.length; ++i)
+            texts.push(labels[i].text)
+        return texts
+    }
+    function test_steps_follow_the_edit() {
+        var s = makeScreen()
+        var field = findAll(s, "targetPhField", [])[0]
+        verify(field)
+        var before = shownSteps(s)
+        compare(before.length, s.designer.stepCount)
+        verify(before.length > 0, "the steps are shown")
+        typeInto(field.field, "3.1")
+        tryCompare(s.designer, "targetPh", 3.1)
+        verify(s.designer.valid, s.designer.errorField + ": " + s.designer.errorMessage)
+        var after = shownSteps(s)
+        compare(after.length, s.designer.stepCount)
+        var changed = 0
+        for (var i = 0; i < after.length; ++i) {
+            compare(after[i], s.designer.stepAt(i))
+            if (i < before.length && after[i] !== before[i])
+                ++changed
+        }
+        verify(changed > 0, "a step with an amount reads the new amount: " + after.join(" / "))
+    }
+
     function test_not_a_number_stays_at_the_field() {
         var s = makeScreen()
         var field = findAll(s, "targetPhField", [])[0]

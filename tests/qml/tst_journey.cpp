@@ -327,6 +327,47 @@ class TestJourney : public QObject {
                  qPrintable(named("endText")->property("text").toString()));
     }
 
+    // A screen not shown does not follow every edit (a buffer edit changes the eluent's pH on each
+    // keystroke): shown again, it says the new value (DEVELOPERS.md, keeping an edit within one
+    // frame).
+    void aBufferEditShowsOnTheSequenceScreenWhenItIsShownAgain() {
+        QObject* plan = model("plan");
+        QObject* designer = model("designer");
+        QString ref;
+        QMetaObject::invokeMethod(plan, "lineBufferRef", Q_RETURN_ARG(QString, ref),
+                                  Q_ARG(QString, "A"));
+        QCOMPARE(ref, designer->property("bufferName").toString());
+        open_screen("Sequence");
+        settle();
+        const QString at_6_8 = named("conditionsText")->property("text").toString();
+        QVERIFY2(at_6_8.contains("Eluent pH"), qPrintable(at_6_8));
+
+        open_screen("Buffer");
+        type_into(field("Target pH"), num("6.2"));
+        QCOMPARE(designer->property("targetPh").toDouble(), 6.2);
+        settle();
+        open_screen("Sequence");
+        settle();
+        const QString at_6_2 = named("conditionsText")->property("text").toString();
+        QVERIFY2(at_6_2 != at_6_8, qPrintable(at_6_2));
+        // What the card shows is the plan's eluent pH now, with the buffer at 6.2.
+        QVariantMap c;
+        QMetaObject::invokeMethod(plan, "methodConditions", Q_RETURN_ARG(QVariantMap, c),
+                                  Q_ARG(QString, QStringLiteral("night gradient")));
+        QVERIFY(c.value("hasEluent").toBool());
+        const QString ph_min = QLocale().toString(c.value("phMin").toDouble(), 'f', 2);
+        QVERIFY2(at_6_2.contains(ph_min), qPrintable(at_6_2 + " / " + ph_min));
+
+        // And back: the same words as before the edit.
+        open_screen("Buffer");
+        type_into(field("Target pH"), num("6.8"));
+        QCOMPARE(designer->property("targetPh").toDouble(), 6.8);
+        settle();
+        open_screen("Sequence");
+        settle();
+        QCOMPARE(named("conditionsText")->property("text").toString(), at_6_8);
+    }
+
     void theChecksSpeakTheScreensWords() {
         open_screen("Checks");
         auto* checks = qobject_cast<QAbstractItemModel*>(model("checks"));
