@@ -151,6 +151,27 @@ std::string ph_text(double ph) {
 /// pH cannot be reached at c.
 double concentration_for_ionic_strength(const std::function<double(double)>& ionic_at,
                                         double target_i, double c_max) {
+    // The ionic strength is close to proportional to the concentration at a fixed pH (the
+    // activity coefficients bend it a little): from c = I, one proportional step and then secant
+    // steps usually land within 1e-11 in three to five designs. Anything else (a step out of
+    // range, a pH not reached, no convergence in 8) goes to the bracketing search below, which
+    // also words the refusals.
+    {
+        double c = std::min(c_max, target_i), i = ionic_at(c);
+        double c_prev = 0, i_prev = 0;
+        for (int k = 0; k < 8 && std::isfinite(i) && i > 0; ++k) {
+            if (std::abs(i - target_i) <= 1e-11 * target_i)
+                return c;
+            const double next =
+                k == 0 ? c * target_i / i : c + (target_i - i) * (c - c_prev) / (i - i_prev);
+            if (!std::isfinite(next) || next <= 0 || next > c_max || next == c)
+                break;
+            c_prev = c;
+            i_prev = i;
+            c = next;
+            i = ionic_at(c);
+        }
+    }
     double lo = std::max(1e-7, target_i / 100.0);
     double ilo = ionic_at(lo);
     // At very low concentration the reachable pH range shrinks towards neutral: move up.
