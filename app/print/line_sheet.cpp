@@ -36,7 +36,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
         {"Volume to prepare", qs(chem::format_number(volume)) + " mL"},
         {"Composition by volume", by_volume.join(", ")},
         {"UV cutoff",
-         qs(chem::format_number(lr.profile.uv_cutoff_nm)) + " nm" +
+         qs(chem::format_fixed(lr.profile.uv_cutoff_nm, 0)) + " nm" +
              (lr.profile.uv_limited_by.empty() ? QString()
                                                : " (set by " + qs(lr.profile.uv_limited_by) + ")")},
         {"pH of the aqueous part",

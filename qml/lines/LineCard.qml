@@ -50,7 +50,7 @@ Card {
     }
 
     title: qsTr("Line %1").arg(root.letter)
-    note: root.defined && root.uvCutoffNm > 0 ? qsTr("UV cutoff %1 nm").arg(root.uvCutoffNm) : ""
+    note: root.defined && root.uvCutoffNm > 0 ? qsTr("UV cutoff %1 nm").arg(NumberText.format(root.uvCutoffNm, 0)) : ""
 
     TouchButton {
         visible: !root.defined
