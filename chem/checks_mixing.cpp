@@ -279,7 +279,10 @@ class SpeciesSource {
             std::optional<SpeciesShares> sp;
             try {
                 // The pH solve of the eluent trace (EluentModel::point), with the species.
-                const EluentPoint pt = model_->point_species(p.data(), p.size(), fractions_);
+                // From the last point solved: the check walks the gradient, so it is near.
+                const EluentPoint pt = model_->point_species(p.data(), p.size(), fractions_,
+                                                             last_ ? &*last_ : nullptr);
+                last_ = pt;
                 sp.emplace();
                 sp->ph_s_s = pt.ph_s_s;
                 const auto& systems = model_->systems();
@@ -298,6 +301,7 @@ class SpeciesSource {
   private:
     std::unique_ptr<EluentModel> model_;
     std::vector<std::vector<double>> fractions_; ///< scratch of point_species
+    std::optional<EluentPoint> last_;            ///< the last point solved, the next one's start
     std::map<std::array<long long, max_lines>, std::optional<SpeciesShares>> cache_;
 };
 
