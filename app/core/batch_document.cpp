@@ -325,25 +325,23 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         input["volume_ml"] = input.value("bottle_ml"); // a sheet for the whole bottle by default
     QJsonObject doc = input;
     doc.remove("batch");
-    d.line_out = command_line(data, doc, {});
-    const double volume = d.line_out.value("volume_ml").toDouble();
-    const ParsedLine pl = line_from_json(data, doc, "", volume, false, nullptr);
-    d.line_spec = pl.spec;
-    d.line = chem::prepare_line(data.solvents, data.reagents, pl.spec, volume);
+    // The line parsed, prepared and checked once; its JSON (for the warnings, worded as the
+    // `line` command words them) rendered from that.
+    const LineResult line = line_result(data, doc);
+    d.line_out = line_to_json(data, line);
+    d.line_spec = line.parsed.spec;
+    d.line = line.recipe;
     const chem::LineRecipe& lr = *d.line;
 
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
     const chem::Batch& batch = d.batch;
-    const QJsonObject shelf = d.line_out.value("shelf_life").toObject();
-    d.shelf_life_h =
-        d.shelf_override.value_or(shelf.value("hours").toDouble(lr.profile.shelf_life_h));
-    d.shelf_source =
-        d.shelf_override ? QStringLiteral("entered") : shelf.value("source").toString();
+    d.shelf_life_h = d.shelf_override.value_or(lr.profile.shelf_life_h);
+    d.shelf_source = d.shelf_override ? QStringLiteral("entered") : line_shelf_source(data, line);
     d.shelf_kind = lr.profile.shelf_kind;
     const chem::UseBy use = chem::use_by(batch, d.shelf_life_h);
     d.expires_at = qs(use.expires_at);
     d.expiry_limited_by = use.limited_by;
-    d.title = d.line_out.value("name").toString();
+    d.title = QString::fromStdString(line.parsed.spec.name);
 
     // Each actual amount names a part (solvent id, "buffer", additive id) or, "buffer.<id>" or a
     // plain reagent id, a reagent of the line's buffer.
@@ -431,7 +429,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
                                   ? std::optional<double>(input.value("bottle_ml").toDouble())
                                   : std::nullopt);
     chem::Correction parts =
-        chem::suggest_correction(d.part_checks, batch.tolerance_fraction, volume, bottle);
+        chem::suggest_correction(d.part_checks, batch.tolerance_fraction, line.volume_ml, bottle);
     if (parts.needed) {
         d.correction = parts;
         d.correction_text << correction_words(data, parts, {}, false);
@@ -469,7 +467,7 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         ev.ionic_strength_mol_per_l = d.result->predicted.ionic_strength_mol_per_l;
         ev.buffer_capacity_mol_per_l = d.result->predicted.buffer_capacity_mol_per_l;
     }
-    ev.volume_ml = volume;
+    ev.volume_ml = line.volume_ml;
     if (lr.buffer)
         ev.target_ph = lr.buffer->request.target_ph;
     ev.shelf_life_h = d.shelf_life_h;

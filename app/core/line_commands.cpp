@@ -462,6 +462,14 @@ LineResult line_result(const AppData& data, const QJsonObject& input) {
     return res;
 }
 
+QString line_shelf_source(const AppData& data, const LineResult& res) {
+    if (res.parsed.spec.shelf_life_h)
+        return QStringLiteral("set on the line");
+    const chem::LineProfile& p = res.recipe.profile;
+    const chem::ShelfLife* entry = p.shelf_kind ? data.solvents.shelf_life(*p.shelf_kind) : nullptr;
+    return entry ? qs(entry->source) : QString();
+}
+
 QJsonObject line_to_json(const AppData& data, const LineResult& res) {
     const chem::LineRecipe& r = res.recipe;
     const ParsedLine& pl = res.parsed;
@@ -491,30 +499,26 @@ QJsonObject line_to_json(const AppData& data, const LineResult& res) {
     for (const auto& f : res.findings)
         warnings.append(finding_to_json(f, res.words, nullptr));
 
-    const chem::ShelfLife* shelf_entry =
-        r.profile.shelf_kind ? data.solvents.shelf_life(*r.profile.shelf_kind) : nullptr;
-    QJsonObject out{{"name", qs(pl.spec.name)},
-                    {"volume_ml", res.volume_ml},
-                    {"items", items},
-                    {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
-                    {"uv_limited_by", qs(r.profile.uv_limited_by)},
-                    {"ph", opt(r.profile.ph)},
-                    {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
-                    {"mixed_volume_ml", r.mixed_volume_ml},
-                    {"contraction_ml", r.contraction_ml},
-                    {"contraction_sources", strings(r.contraction_sources)},
-                    {"composition", profile_to_json(r.profile)},
-                    {"solvents", props},
-                    {"shelf_life",
-                     QJsonObject{{"kind", QLatin1String(chem::shelf_kind_name(r.profile))},
-                                 {"hours", r.profile.shelf_life_h},
-                                 {"source", pl.spec.shelf_life_h ? QStringLiteral("set on the line")
-                                            : shelf_entry        ? qs(shelf_entry->source)
-                                                                 : QString()}}},
-                    {"steps", strings(chem::numbered_step_texts(r.steps))},
-                    {"notes", strings(r.notes)},
-                    {"cautions", strings(r.cautions)},
-                    {"warnings", warnings}};
+    QJsonObject out{
+        {"name", qs(pl.spec.name)},
+        {"volume_ml", res.volume_ml},
+        {"items", items},
+        {"uv_cutoff_nm", r.profile.uv_cutoff_nm},
+        {"uv_limited_by", qs(r.profile.uv_limited_by)},
+        {"ph", opt(r.profile.ph)},
+        {"ph_basis", QString::fromUtf8(chem::ph_basis_name(r.profile.ph_basis))},
+        {"mixed_volume_ml", r.mixed_volume_ml},
+        {"contraction_ml", r.contraction_ml},
+        {"contraction_sources", strings(r.contraction_sources)},
+        {"composition", profile_to_json(r.profile)},
+        {"solvents", props},
+        {"shelf_life", QJsonObject{{"kind", QLatin1String(chem::shelf_kind_name(r.profile))},
+                                   {"hours", r.profile.shelf_life_h},
+                                   {"source", line_shelf_source(data, res)}}},
+        {"steps", strings(chem::numbered_step_texts(r.steps))},
+        {"notes", strings(r.notes)},
+        {"cautions", strings(r.cautions)},
+        {"warnings", warnings}};
     if (r.buffer)
         out["buffer"] = recipe_to_json(*r.buffer);
     return out;

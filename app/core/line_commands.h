@@ -88,6 +88,9 @@ struct LineResult {
 };
 /// Parses and computes a `line` document (throws chem::Error naming the field).
 LineResult line_result(const AppData& data, const QJsonObject& input);
+/// Where the line's shelf life comes from, in words: "set on the line", the shelf-life table's
+/// source for its kind, or "" when neither.
+QString line_shelf_source(const AppData& data, const LineResult& r);
 /// The `line` command's JSON for a computed line.
 QJsonObject line_to_json(const AppData& data, const LineResult& r);
 

@@ -14,9 +14,8 @@ using namespace sheet_parts;
 
 PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
                   const QString& printed_at, const BatchRelease& release) {
-    const QJsonObject& out = doc.line_out;
-    const double volume = out.value("volume_ml").toDouble();
     const chem::LineRecipe& lr = *doc.line;
+    const double volume = lr.volume_ml;
     const chem::Batch& batch = doc.batch;
     const std::optional<chem::BatchResult>& bres = doc.result;
 
@@ -79,8 +78,12 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
                  << reagent_table(data.reagents, *lr.buffer, *bres, batch, doc.captures);
     for (const StepSection& s : doc.steps)
         d.blocks << heading(s.heading) << numbered(s.steps);
-    if (!out.value("notes").toArray().isEmpty())
-        d.blocks << bullets(json::strings_of(out.value("notes")));
+    if (!lr.notes.empty()) {
+        QStringList notes;
+        for (const std::string& n : lr.notes)
+            notes << qs(n);
+        d.blocks << bullets(notes);
+    }
     if (lr.buffer)
         d.blocks << heading("Predicted for the aqueous buffer")
                  << predicted_table(*lr.buffer, *bres, QStringLiteral("Buffer alone"));
@@ -89,7 +92,7 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     HazardSet hz;
     add_line_hazards(data, *doc.line_spec, hz);
     d.blocks << heading("Hazards and cautions") << hz.block()
-             << bullets(cautions_with_standard(std_strings(out.value("cautions"))));
+             << bullets(cautions_with_standard(lr.cautions));
     d.blocks << heading("Sign-off") << signoff(batch, release) << release_blocks(release);
 
     LabelData label;

@@ -292,13 +292,6 @@ void set_release(LabelData& label, const BatchRelease& release) {
                         : QStringLiteral("NOT RELEASED — awaiting review by a second person");
 }
 
-std::vector<std::string> std_strings(const QJsonValue& v) {
-    std::vector<std::string> out;
-    for (const QJsonValue& x : v.toArray())
-        out.push_back(x.toString().toStdString());
-    return out;
-}
-
 QString purpose_of(const QJsonObject& input) {
     return input.value("batch").toObject().value("purpose").toString(
         input.value("purpose").toString());

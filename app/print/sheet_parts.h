@@ -138,8 +138,6 @@ QList<Block> release_blocks(const BatchRelease& release);
 /// The release line of a label: the reviewer and date, or "NOT RELEASED — awaiting review".
 void set_release(LabelData& label, const BatchRelease& release);
 
-std::vector<std::string> std_strings(const QJsonValue& v);
-
 QString purpose_of(const QJsonObject& input);
 
 QString percent_text(double fraction);
