@@ -380,8 +380,9 @@ std::vector<SaltLoad> salt_loads(const SolventLibrary& lib,
                 tables.push_back(t);
         if (tables.empty())
             continue;
-        const auto use =
-            tables_for(organic, tables, [&](const std::string& s) { return lib.solubility(g, s); });
+        const std::string& group = g; // a structured binding is not captured before C++20
+        const auto use = tables_for(organic, tables,
+                                    [&](const std::string& s) { return lib.solubility(group, s); });
         SaltLoad best;
         bool have = false;
         for (const SolubilityTable* t : use) {
