@@ -289,6 +289,15 @@ for key, line in plan["lines"].items():
     check(fmt_amount(line["min_bottle_ml"]) + " mL" in stext, "line %s: prepare at least %s mL" % (key, fmt_amount(line["min_bottle_ml"])))
     if line["runs_dry"]:
         check("runs dry during injection %d" % line["dry_after_injection"] in stext, "line %s runs dry: injection %d" % (key, line["dry_after_injection"]))
+# The standby is said when there is one, and only then (the sheet said "Standby flow until" the
+# end of the last injection for a night without any).
+check(plan["standby_min"] > 0 and "STANDBY FLOW UNTIL " + plan["standby_end"].replace("T", " ")[:16] in stext.upper(),
+      "sequence sheet says the standby until " + plan["standby_end"])
+quiet = dict(seq)
+quiet.pop("standby", None)
+quiet_pdf = os.path.join(out, "sequence-no-standby.pdf")
+run_json(["sheet", write("sequence-no-standby.json", quiet), "-o", quiet_pdf])
+check("STANDBY" not in pdftext(quiet_pdf).upper(), "a night without a standby: the sheet says no standby")
 pdf = os.path.join(out, "sequence-labels.pdf")
 run_json(["labels", seq_path, "-o", pdf])
 codes = qr_codes(render(pdf, "sequence-labels", 300)[0])

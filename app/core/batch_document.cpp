@@ -478,8 +478,8 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
 void read_sequence(const AppData& data, const QJsonObject& input, BatchDocument& d) {
     QJsonObject doc = input;
     doc.remove("batch");
-    const SequenceResult sr = sequence_result(data, doc, {});
-    d.sequence_out = to_json(sr);
+    d.sequence = sequence_result(data, doc, {});
+    const SequenceResult& sr = *d.sequence;
     d.batch = batch_from_json(input, &d.copies, &d.shelf_override);
     if (!d.batch.actual.empty())
         throw chem::Error("batch.actual",

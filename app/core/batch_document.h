@@ -28,6 +28,7 @@
 #include "chem/line.h"
 #include "chem/recipe.h"
 #include "core/app_data.h"
+#include "core/sequence_result.h"
 
 #include <QJsonArray>
 #include <QJsonObject>
@@ -146,7 +147,8 @@ struct BatchDocument {
     std::vector<chem::AmountCheck> part_checks; ///< one per line item, in its order
 
     // sequence
-    QJsonObject sequence_out; ///< the `sequence` command's result
+    /// The `sequence` command's typed result (one plan: batch_document_kind refuses "plans").
+    std::optional<SequenceResult> sequence;
 
     /// The steps, the same on the screen and on the sheet.
     QList<StepSection> steps;

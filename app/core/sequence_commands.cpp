@@ -606,6 +606,11 @@ const chem::EluentTrace* PlanResult::eluent_of(const std::string& method) const 
     return found;
 }
 
+QString PlanResult::row_start(std::size_t i) const {
+    return ContractClockText(clock.start, clock.has_offset)
+        .text(std::llround(rows.at(i).start_min * 60.0));
+}
+
 QString PlanResult::row_end(std::size_t i) const {
     return ContractClockText(clock.start, clock.has_offset)
         .text(std::llround(rows.at(i).end_min * 60.0));

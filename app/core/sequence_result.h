@@ -109,7 +109,8 @@ struct PlanResult {
     const chem::PressureTrace* pressure(const std::string& method) const;
     /// The last eluent trace of a method (as the JSON keyed by method name keeps it), or null.
     const chem::EluentTrace* eluent_of(const std::string& method) const;
-    /// Row i's end as the contract writes it ("2026-12-02T03:12:30").
+    /// Row i's start and end as the contract writes them ("2026-12-02T03:12:30").
+    QString row_start(std::size_t i) const;
     QString row_end(std::size_t i) const;
 };
 

@@ -16,10 +16,10 @@ using namespace sheet_parts;
 
 PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
                       const QString& printed_at, const BatchRelease& release) {
-    const QJsonObject& out = doc.sequence_out;
+    const SequenceResult& result = *doc.sequence;
+    const PlanResult& out = result.plans.front(); // batch_document_kind refuses "plans"
     const chem::Batch& batch = doc.batch;
     QJsonObject lines_in = input.value("lines").toObject();
-    const QJsonObject lines_out = out.value("lines").toObject();
 
     PrintJob job = start_job(doc, "sequence", QStringLiteral("Sequence solvent plan"), printed_at);
     SheetDocument& d = job.sheet;
@@ -29,14 +29,13 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         {"Purpose", purpose_of(input)},
         {"Prepared by", qs(batch.prepared_by)},
         {"Prepared at", iso_minute_text(qs(batch.prepared_at))},
-        {"Start", iso_minute_text(out.value("start").toString())},
-        {"End of the last injection", iso_minute_text(out.value("end").toString())},
-        {"Injections", QString::number(out.value("injections").toInt())},
-        {"Run time", duration_h_min_text(out.value("total_min").toDouble())},
+        {"Start", iso_minute_text(out.start)},
+        {"End of the last injection", iso_minute_text(out.end)},
+        {"Injections", QString::number(out.injections)},
+        {"Run time", duration_h_min_text(out.total_min)},
     };
-    if (out.contains("standby_end"))
-        head << KeyValue{"Standby flow until",
-                         iso_minute_text(out.value("standby_end").toString())};
+    if (out.standby_min > 0)
+        head << KeyValue{"Standby flow until", iso_minute_text(out.standby_end)};
     head << KeyValue{"Checked by", qs(batch.checked_by)};
     d.blocks << heading("Sequence") << fields_block(head);
 
@@ -47,26 +46,25 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         "Line",   "Contents",  "Needed (priming incl.)", "Prepare at least", "Bottle on hand",
         "Lasts?", "Shelf life"};
     lines.table.weights = {0.8, 2.6, 1.6, 1.8, 1.7, 2.6, 1.4};
-    for (const QString& key : lines_out.keys()) {
-        const QJsonObject l = lines_out.value(key).toObject();
+    for (const SequenceLineResult& l : out.lines) {
+        const chem::LinePlan& lp = l.plan;
         QString lasts;
-        if (l.value("runs_dry").toBool())
+        if (lp.runs_dry)
             lasts = "NO: runs dry during injection " +
-                    QString::number(l.value("dry_after_injection").toInt()) + ", at " +
-                    iso_minute_text(l.value("dry_at").toString());
+                    QString::number(lp.dry_after_injection.value_or(0)) + ", at " +
+                    iso_minute_text(lp.dry_at_min ? l.dry_at : QString());
         else
-            lasts = "yes, " + format_amount(l.value("spare_ml").toDouble()) + " mL spare";
+            lasts = "yes, " + format_amount(lp.spare_ml) + " mL spare";
         lines.table.rows << QStringList{
-            key,
-            l.value("name").toString(),
-            format_amount(l.value("required_ml").toDouble()) + " mL",
-            format_amount(l.value("min_bottle_ml").toDouble()) + " mL\n(bottle: " +
-                format_amount(l.value("suggested_bottle_ml").toDouble()) + " mL)",
-            format_amount(l.value("bottle_ml").toDouble()) + " mL\n(residue " +
-                format_amount(l.value("residue_ml").toDouble()) + " mL)",
+            l.letter(),
+            l.name,
+            format_amount(lp.required_ml) + " mL",
+            format_amount(lp.min_bottle_ml) +
+                " mL\n(bottle: " + format_amount(lp.suggested_bottle_ml) + " mL)",
+            format_amount(l.bottle_ml) + " mL\n(residue " + format_amount(l.residue_ml) + " mL)",
             lasts,
-            qs(chem::format_number(l.value("shelf_life_h").toDouble())) + " h"};
-        lines.table.flagged << l.value("runs_dry").toBool();
+            qs(chem::format_number(l.profile ? l.profile->shelf_life_h : 0.0)) + " h"};
+        lines.table.flagged << lp.runs_dry;
     }
     d.blocks << heading("Lines: volume to prepare and bottles") << lines;
     d.blocks << bullets(
@@ -74,35 +72,34 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
                         "inlet filter to what the sequence needs.")});
 
     // One batch per line recipe across the plan.
-    if (!out.value("batches").toArray().isEmpty()) {
+    if (!result.batches.empty()) {
         Block batches;
         batches.kind = Block::Kind::table;
         batches.table.headers = {"Line recipe", "Lines",    "Prepare",
                                  "First use",   "Last use", "One batch lasts?"};
         batches.table.weights = {3, 0.9, 1.6, 1.9, 1.9, 1.6};
-        for (const QJsonValue& v : out.value("batches").toArray()) {
-            const QJsonObject b = v.toObject();
-            batches.table.rows << QStringList{
-                b.value("recipe").toString(),
-                json::strings_of(b.value("lines")).join(", "),
-                format_amount(b.value("prepare_ml").toDouble()) + " mL",
-                iso_minute_text(b.value("first_use").toString()),
-                iso_minute_text(b.value("last_use").toString()),
-                b.value("one_batch_lasts").toBool() ? QStringLiteral("yes")
+        for (const SequenceBatch& b : result.batches) {
+            // A batch without a known shelf life (a volumes-only line) is not said to last.
+            const bool lasts = b.shelf_life_h > 0 && b.span_h <= b.shelf_life_h;
+            batches.table.rows << QStringList{b.recipe,
+                                              b.lines.join(", "),
+                                              format_amount(b.prepare_ml) + " mL",
+                                              iso_minute_text(wall_clock_iso(b.first_use)),
+                                              iso_minute_text(wall_clock_iso(b.last_use)),
+                                              lasts ? QStringLiteral("yes")
                                                     : QStringLiteral("no: make a fresh batch")};
-            batches.table.flagged << !b.value("one_batch_lasts").toBool();
+            batches.table.flagged << !lasts;
         }
         d.blocks << heading("Batches per line recipe") << batches;
     }
 
     // Waste.
-    const double waste = out.value("waste_ml").toDouble();
+    const double waste = out.waste_ml;
     QList<KeyValue> waste_fields = {
         {"Waste to collect (priming included)", format_amount(waste) + " mL"},
-        {"Waste container, free volume",
-         out.value("waste_capacity_ml").isDouble()
-             ? format_amount(out.value("waste_capacity_ml").toDouble()) + " mL"
-             : QStringLiteral("not given")},
+        {"Waste container, free volume", out.waste_capacity_ml
+                                             ? format_amount(*out.waste_capacity_ml) + " mL"
+                                             : QStringLiteral("not given")},
     };
     d.blocks << heading("Waste") << fields_block(waste_fields);
 
@@ -110,24 +107,22 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
     Block rows;
     rows.kind = Block::Kind::table;
     rows.table.headers = {"#", "Label", "Method", "Injections", "Start", "End"};
-    const QStringList keys = lines_out.keys();
-    for (const QString& k : keys)
-        rows.table.headers << k + " (mL)";
+    for (const SequenceLineResult& l : out.lines)
+        rows.table.headers << l.letter() + " (mL)";
     rows.table.weights = {0.6, 3.1, 1.5, 1.4, 1.7, 1.7};
-    for (int i = 0; i < keys.size(); ++i)
+    for (std::size_t i = 0; i < out.lines.size(); ++i)
         rows.table.weights << 1.0;
-    int n = 0;
-    for (const QJsonValue& v : out.value("rows").toArray()) {
-        const QJsonObject r = v.toObject();
-        QStringList cells{QString::number(++n),
-                          r.value("label").toString(),
-                          r.value("method").toString(),
-                          QString::number(r.value("first_injection").toInt()) + "–" +
-                              QString::number(r.value("last_injection").toInt()),
-                          iso_minute_text(r.value("start").toString()),
-                          iso_minute_text(r.value("end").toString())};
-        for (const QString& k : keys)
-            cells << format_amount(r.value("volume_ml").toObject().value(k).toDouble());
+    for (std::size_t i = 0; i < out.rows.size(); ++i) {
+        const chem::RowPlan& r = out.rows[i];
+        QStringList cells{QString::number(i + 1),
+                          qs(out.row_inputs[i].label),
+                          qs(out.row_inputs[i].method),
+                          QString::number(r.first_injection) + "–" +
+                              QString::number(r.first_injection + r.injections - 1),
+                          iso_minute_text(out.row_start(i)),
+                          iso_minute_text(out.row_end(i))};
+        for (const SequenceLineResult& l : out.lines)
+            cells << format_amount(r.volume_ml[std::size_t(l.index)]);
         rows.table.rows << cells;
         rows.table.flagged << false;
     }
@@ -137,22 +132,22 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
 
     // Hazards over every line; one label per line.
     HazardSet all;
-    for (const QString& key : keys) {
+    for (const SequenceLineResult& l : out.lines) {
+        const QString key = l.letter();
         const QJsonObject lo = lines_in.value(key).toObject();
-        const QJsonObject l = lines_out.value(key).toObject();
         LabelData label;
-        label.title = "Line " + key + ": " + l.value("name").toString();
+        label.title = "Line " + key + ": " + l.name;
         HazardSet hz;
         if (lo.contains("parts")) {
             const ParsedLine pl = line_from_json(data, lo, ("lines." + key).toStdString(),
-                                                 l.value("required_ml").toDouble(), false, nullptr);
+                                                 l.plan.required_ml, false, nullptr);
             add_line_hazards(data, pl.spec, hz);
             add_line_hazards(data, pl.spec, all);
             label.composition =
                 line_composition(data, chem::profile_line(data.solvents, data.reagents, pl.spec));
         }
-        if (l.value("ph").isDouble())
-            label.ph = "pH " + format_ph(l.value("ph").toDouble()) + " (aqueous part)";
+        if (l.profile && l.profile->ph)
+            label.ph = "pH " + format_ph(*l.profile->ph) + " (aqueous part)";
         const QString id = qs(batch.id) + "-" + key;
         label.batch_id = id;
         label.qr_text = id;
@@ -162,8 +157,8 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
         else if (!batch.prepared_at.empty())
             label.expires_at = iso_minute_text(qs(chem::add_hours(
                 batch.prepared_at,
-                l.value("shelf_life_h")
-                    .toDouble(chem::builtin_shelf_life_h(chem::ShelfKind::aqueous_buffer)),
+                l.profile ? l.profile->shelf_life_h
+                          : chem::builtin_shelf_life_h(chem::ShelfKind::aqueous_buffer),
                 "batch.prepared_at")));
         label.prepared_by = qs(batch.prepared_by);
         label.pictograms = sorted_pictograms(hz.pictograms);
