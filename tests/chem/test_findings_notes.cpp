@@ -18,6 +18,7 @@
 #include "chem/recipe.h"
 #include "chem/transfer.h"
 #include "shipped_library.h"
+#include "transfer_example.h"
 
 #include <gtest/gtest.h>
 
@@ -267,25 +268,9 @@ TEST(FindingsEluent, TemperatureNoteCarriesTheTemperature) {
 
 // ---- the column transfer --------------------------------------------------------------------
 
-/// 4.6 × 250 mm, 5 µm at 1.0 mL/min, 10 µL, moved to 2.1 × 50 mm (test_transfer's example).
+/// The chemistry tests' example move (transfer_example.h).
 TransferRequest transfer(double to_particle_um, std::optional<double> to_flow) {
-    TransferRequest r;
-    r.method.name = "assay";
-    r.method.flow_ml_min = 1.0;
-    r.method.gradient = {{0, {95, 5, 0, 0}}, {10, {5, 95, 0, 0}}};
-    r.method.run_min = 12;
-    r.method.equilibration_min = 5;
-    r.from.column.field = "from";
-    r.from.column.length_mm = 250;
-    r.from.column.id_mm = 4.6;
-    r.from.column.particle_um = 5;
-    r.to.column.field = "to";
-    r.to.column.length_mm = 50;
-    r.to.column.id_mm = 2.1;
-    r.to.column.particle_um = to_particle_um;
-    r.to.flow_ml_min = to_flow;
-    r.injection_ul = 10;
-    return r;
+    return chem::testing::transfer_example(to_particle_um, to_flow);
 }
 
 /// The transfer's findings are about the moved method: subject method "" (the one method).

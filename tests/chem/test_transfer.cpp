@@ -2,6 +2,7 @@
 // the worked example of issue 12 and hand arithmetic from the standard's formulas (from memory).
 #include "chem/error.h"
 #include "chem/transfer.h"
+#include "transfer_example.h"
 
 #include <gtest/gtest.h>
 
@@ -13,23 +14,9 @@ using namespace chem;
 
 namespace {
 
+/// The shared example, for a night of 40 injections.
 TransferRequest example(double to_particle_um, std::optional<double> to_flow) {
-    TransferRequest r;
-    r.method.name = "assay";
-    r.method.flow_ml_min = 1.0;
-    r.method.gradient = {{0, {95, 5, 0, 0}}, {10, {5, 95, 0, 0}}};
-    r.method.run_min = 12;
-    r.method.equilibration_min = 5;
-    r.from.column.field = "from";
-    r.from.column.length_mm = 250;
-    r.from.column.id_mm = 4.6;
-    r.from.column.particle_um = 5;
-    r.to.column.field = "to";
-    r.to.column.length_mm = 50;
-    r.to.column.id_mm = 2.1;
-    r.to.column.particle_um = to_particle_um;
-    r.to.flow_ml_min = to_flow;
-    r.injection_ul = 10;
+    TransferRequest r = chem::testing::transfer_example(to_particle_um, to_flow);
     r.sequence_injections = 40;
     return r;
 }
