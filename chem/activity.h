@@ -43,6 +43,17 @@ struct IonSize {
     std::string source;
 };
 
+/// One ion pair of the Truesdell–Jones model, cation + anion ⇌ pair, with its association
+/// constant at I = 0 and its source. The model folds the pair into the two ions' stoichiometric
+/// activity coefficients (chem::truesdell_jones_gammas in chem/equilibrium.cpp): the species
+/// amounts it reports are totals, free ion plus pair.
+struct IonPair {
+    std::string cation; ///< "K+", as the spectators name it
+    std::string anion;  ///< "Phth-2", as the systems name it
+    double log10_k = 0; ///< log10 K°, K° = a(pair)/(a(cation) a(anion)), molal, at I = 0
+    std::string source;
+};
+
 /// The size and b a charged species takes when the library has no entry for it: Kielland's most
 /// common size, 4.5 Å, and b = 0 (common practice, no source).
 inline constexpr double default_ion_size_angstrom = 4.5;

@@ -274,23 +274,84 @@ void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<doub
 
 /// Truesdell–Jones γ of every flat species from their concentrations (mol/L, converted to
 /// mol/kg), with the Bates–Guggenheim convention term (chem::truesdell_jones_convention).
+///
+/// Ion pairs (Problem::tj_pairs, K° from the library) are folded into stoichiometric
+/// coefficients: with m the total and m_f the free molality of each ion, the pair amount is
+/// x = K° γ_c γ_a / γ_pair · m_f(c) m_f(a), and the reported γ of an ion is γ_free · m_f / m, so
+/// that γ · m is its free activity and every equilibrium of the solver holds for the free ions.
+/// The pair takes default_ion_size_angstrom and b = 0 (chem/activity.h), and the ionic strength
+/// counts it at its own charge. A fixed point (to 1e-13 relative in x, at most 60 passes) settles
+/// m_f, x and I together; the outer fixed point on γ (solve_state) makes the whole consistent.
 void truesdell_jones_gammas(const Problem& p, const std::vector<double>& c,
                             std::vector<double>& g) {
-    double i_m = 0;
+    double i_stoich = 0;
     for (int k = 0; k < p.n_flat; ++k)
-        i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
-    i_m /= p.kg_per_l;
-    const double phi =
-        truesdell_jones_convention(p.a_molal, p.b_molal, p.tj_chloride_size, p.tj_chloride_b, i_m);
+        i_stoich += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
+    i_stoich /= p.kg_per_l;
     g.resize(p.n_flat);
-    for (int k = 0; k < p.n_flat; ++k) {
-        const int z = p.flat_charge[k];
-        const double lg = z == 0 ? 0.0
-                                 : truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, z,
-                                                                   p.tj_size[k], p.tj_b[k], i_m) -
-                                       z * phi;
-        g[k] = std::exp(ln10 * lg);
+    auto fill = [&](double i_m, double& phi) {
+        phi = truesdell_jones_convention(p.a_molal, p.b_molal, p.tj_chloride_size, p.tj_chloride_b,
+                                         i_m);
+        for (int k = 0; k < p.n_flat; ++k) {
+            const int z = p.flat_charge[k];
+            const double lg = z == 0 ? 0.0
+                                     : truesdell_jones_raw_log10_gamma(
+                                           p.a_molal, p.b_molal, z, p.tj_size[k], p.tj_b[k], i_m) -
+                                           z * phi;
+            g[k] = std::exp(ln10 * lg);
+        }
+    };
+    double phi = 0;
+    if (p.tj_pairs.empty()) {
+        fill(i_stoich, phi);
+        return;
     }
+    const size_t n_pairs = p.tj_pairs.size();
+    std::vector<double> x(n_pairs, 0.0), kc(n_pairs, 0.0), free_fraction(p.n_flat, 1.0),
+        denominator(p.n_flat);
+    for (int pass = 0; pass < 60; ++pass) {
+        double i_m = i_stoich;
+        for (size_t q = 0; q < n_pairs; ++q) {
+            const auto& pr = p.tj_pairs[q];
+            const int za = p.flat_charge[pr.anion], zc = p.flat_charge[pr.cation];
+            i_m += 0.5 * (pr.charge * pr.charge - za * za - zc * zc) * x[q];
+        }
+        i_m = std::max(i_m, 0.0);
+        fill(i_m, phi);
+        for (size_t q = 0; q < n_pairs; ++q) {
+            const auto& pr = p.tj_pairs[q];
+            const double lg_pair =
+                truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, pr.charge,
+                                                default_ion_size_angstrom, 0.0, i_m) -
+                pr.charge * phi;
+            kc[q] = pr.k * g[pr.anion] * g[pr.cation] * std::exp(-ln10 * lg_pair);
+        }
+        // Free fractions of the paired ions: m_f(a) = m(a) / (1 + Σ Kc m_f(c)), and the same
+        // for the cations, a few Jacobi sweeps from the last pass.
+        for (int sweep = 0; sweep < 4; ++sweep) {
+            std::fill(denominator.begin(), denominator.end(), 1.0);
+            for (size_t q = 0; q < n_pairs; ++q) {
+                const auto& pr = p.tj_pairs[q];
+                const double ma = c[pr.anion] / p.kg_per_l, mc = c[pr.cation] / p.kg_per_l;
+                denominator[pr.anion] += kc[q] * mc * free_fraction[pr.cation];
+                denominator[pr.cation] += kc[q] * ma * free_fraction[pr.anion];
+            }
+            for (int k = 0; k < p.n_flat; ++k)
+                free_fraction[k] = 1.0 / denominator[k];
+        }
+        double change = 0;
+        for (size_t q = 0; q < n_pairs; ++q) {
+            const auto& pr = p.tj_pairs[q];
+            const double next = kc[q] * (c[pr.anion] / p.kg_per_l) * free_fraction[pr.anion] *
+                                (c[pr.cation] / p.kg_per_l) * free_fraction[pr.cation];
+            change = std::max(change, std::abs(next - x[q]) / std::max(next, 1e-300));
+            x[q] = next;
+        }
+        if (change <= 1e-13)
+            break;
+    }
+    for (int k = 0; k < p.n_flat; ++k)
+        g[k] *= free_fraction[k];
 }
 
 /// The γ of an extended model (SIT or Truesdell–Jones) from the species' concentrations.
@@ -413,6 +474,7 @@ void Problem::index_species(const Library& lib) {
     sit_eps.clear();
     tj_size.clear();
     tj_b.clear();
+    tj_pairs.clear();
     if (model == ActivityModel::davies)
         return; // Davies needs the charges only
     std::vector<const std::string*> names;
@@ -435,6 +497,19 @@ void Problem::index_species(const Library& lib) {
         if (const IonSize* cl = lib.ion_size("Cl-")) {
             tj_chloride_size = cl->size_angstrom;
             tj_chloride_b = cl->b_kg_per_mol;
+        }
+        tj_pairs.clear();
+        for (const IonPair& pair : lib.ion_pairs()) {
+            int anion = -1, cation = -1;
+            for (int k = 0; k < n_flat; ++k) {
+                if (anion < 0 && flat_charge[k] < 0 && *names[k] == pair.anion)
+                    anion = k;
+                if (cation < 0 && flat_charge[k] > 0 && *names[k] == pair.cation)
+                    cation = k;
+            }
+            if (anion >= 0 && cation >= 0)
+                tj_pairs.push_back({anion, cation, std::pow(10.0, pair.log10_k),
+                                    flat_charge[anion] + flat_charge[cation]});
         }
         return;
     }

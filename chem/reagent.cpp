@@ -176,6 +176,19 @@ void Library::add_ion_size(IonSize s) {
     ion_sizes_.push_back(std::move(s));
 }
 
+void Library::add_ion_pair(IonPair p) {
+    if (p.cation.empty() || p.anion.empty())
+        throw Error("cation", "an ion pair needs a cation and an anion");
+    if (!std::isfinite(p.log10_k) || std::abs(p.log10_k) > 10)
+        throw Error("log10_k", format_number(p.log10_k) + " is outside -10 to 10");
+    for (auto& x : ion_pairs_)
+        if (x.cation == p.cation && x.anion == p.anion) {
+            x = std::move(p);
+            return;
+        }
+    ion_pairs_.push_back(std::move(p));
+}
+
 const IonSize* Library::ion_size(const std::string& species) const {
     for (const auto& x : ion_sizes_)
         if (x.species == species)

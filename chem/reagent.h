@@ -144,6 +144,9 @@ class Library {
     /// default_ion_size_angstrom and b = 0).
     const IonSize* ion_size(const std::string& species) const;
     const std::vector<IonSize>& ion_sizes() const { return ion_sizes_; }
+    /// Adds or replaces (by cation and anion) one Truesdell–Jones ion pair.
+    void add_ion_pair(IonPair p);
+    const std::vector<IonPair>& ion_pairs() const { return ion_pairs_; }
     void add_eluent_solvent(EluentSolvent e);
     const EluentSolvent* eluent_solvent(const std::string& organic) const;
     const std::vector<EluentSolvent>& eluent_solvents() const { return eluent_solvents_; }
@@ -156,6 +159,7 @@ class Library {
     std::vector<Reagent> reagents_;
     std::vector<SitEpsilon> sit_;
     std::vector<IonSize> ion_sizes_;
+    std::vector<IonPair> ion_pairs_;
     std::vector<EluentSolvent> eluent_solvents_;
 };
 

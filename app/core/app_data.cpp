@@ -242,6 +242,12 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
                               json::require_number(e, "b_kg_per_mol", at),
                               json::require_string(e, "source", at)});
         });
+        each_entry("truesdell_jones_ion_pairs", [&lib](const QJsonObject& e,
+                                                       const std::string& at) {
+            lib.add_ion_pair(
+                {json::require_string(e, "cation", at), json::require_string(e, "anion", at),
+                 json::require_number(e, "log10_k", at), json::require_string(e, "source", at)});
+        });
         const QJsonArray reagents = json::require_array(doc, "reagents", "");
         for (int i = 0; i < reagents.size(); ++i) {
             const std::string at = json::path("reagents", i);
