@@ -5,6 +5,8 @@
 // linear term, and reports pH on the convention of the pH standards.
 #include <optional>
 #include <string>
+#include <utility>
+#include <vector>
 
 namespace chem {
 
@@ -43,17 +45,20 @@ struct IonSize {
     std::string source;
 };
 
-/// One ion pair of the Truesdell–Jones model, cation + anion ⇌ pair, with its association
-/// constant at I = 0 and its source. The model folds the pair into the two ions' stoichiometric
-/// activity coefficients (chem::truesdell_jones_gammas in chem/equilibrium.cpp): the species
-/// amounts it reports are totals, free ion plus pair.
-struct IonPair {
-    std::string cation; ///< "K+", as the spectators name it
-    std::string anion;  ///< "Phth-2", as the systems name it
-    double log10_k = 0; ///< log10 K°, K° = a(pair)/(a(cation) a(anion)), molal, at I = 0
+/// One associated species of the extended models: an ion pair (K+ + Phth-2 ⇌ KPhth-) or a
+/// polyanion (2 B(OH)3 + B(OH)4- ⇌ B3O3(OH)4-), formed from species the solver already has, with
+/// its association constant at I = 0 and its source. The models fold it into its members'
+/// stoichiometric activity coefficients (chem/equilibrium.cpp, fold_complexes): the species
+/// amounts reported are totals, the members' free amounts plus their share of the complex, which
+/// is counted as `formed_from` writes it (a triborate as two B(OH)3 and one B(OH)4-).
+struct Complex {
+    std::string species; ///< "KPhth-", "B3O3(OH)4-"
+    /// Members, as the systems and spectators name them, and how many of each (1 to 4).
+    std::vector<std::pair<std::string, int>> formed_from;
+    double log10_k = 0; ///< log10 K° = log10 (a(complex) / Π a(member)^count), molal, I = 0
+    std::vector<ActivityModel> models; ///< the models that include it (never Davies)
     std::string source;
 };
-
 /// The size and b a charged species takes when the library has no entry for it: Kielland's most
 /// common size, 4.5 Å, and b = 0 (common practice, no source).
 inline constexpr double default_ion_size_angstrom = 4.5;

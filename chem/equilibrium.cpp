@@ -250,116 +250,128 @@ void davies_gammas(const Problem& p, double ionic_strength, std::vector<double>&
         g[k] = by_z(p.flat_charge[k]);
 }
 
-/// SIT γ of every flat species from their concentrations (mol/L, converted to mol/kg):
-/// log10 γ_k = −z_k² D(I_m) + Σ_l ε(k, l) m_l.
-void sit_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
-    double i_m = 0;
-    for (int k = 0; k < p.n_flat; ++k)
-        i_m += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
-    i_m /= p.kg_per_l;
-    const double d = sit_debye_huckel(p.a_molal, i_m);
-    g.resize(p.n_flat);
+/// Truesdell–Jones log10 γ of every flat species at ionic strength i_m (mol/kg), with the
+/// Bates–Guggenheim convention term (chem::truesdell_jones_convention), which it returns.
+double truesdell_jones_log10(const Problem& p, double i_m, std::vector<double>& lg) {
+    const double phi =
+        truesdell_jones_convention(p.a_molal, p.b_molal, p.tj_chloride_size, p.tj_chloride_b, i_m);
+    lg.resize(p.n_flat);
     for (int k = 0; k < p.n_flat; ++k) {
         const int z = p.flat_charge[k];
-        double lg = -z * z * d;
+        lg[k] = z == 0 ? 0.0
+                       : truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, z, p.tj_size[k],
+                                                         p.tj_b[k], i_m) -
+                             z * phi;
+    }
+    return phi;
+}
+
+/// SIT log10 γ of every flat species at ionic strength i_m (mol/kg), the ε terms on the
+/// concentrations c (mol/L).
+void sit_log10(const Problem& p, const std::vector<double>& c, double i_m,
+               std::vector<double>& lg) {
+    const double d = sit_debye_huckel(p.a_molal, i_m);
+    lg.resize(p.n_flat);
+    for (int k = 0; k < p.n_flat; ++k) {
+        const int z = p.flat_charge[k];
+        lg[k] = -z * z * d;
         if (z != 0) {
             const double* row = &p.sit_eps[static_cast<size_t>(k) * p.n_flat];
             for (int l = 0; l < p.n_flat; ++l)
                 if (row[l] != 0)
-                    lg += row[l] * c[l] / p.kg_per_l;
+                    lg[k] += row[l] * c[l] / p.kg_per_l;
         }
-        g[k] = std::exp(ln10 * lg);
     }
 }
 
-/// Truesdell–Jones γ of every flat species from their concentrations (mol/L, converted to
-/// mol/kg), with the Bates–Guggenheim convention term (chem::truesdell_jones_convention).
+/// The γ of an extended model (SIT or Truesdell–Jones) of every flat species from their
+/// concentrations (mol/L, converted to mol/kg).
 ///
-/// Ion pairs (Problem::tj_pairs, K° from the library) are folded into stoichiometric
-/// coefficients: with m the total and m_f the free molality of each ion, the pair amount is
-/// x = K° γ_c γ_a / γ_pair · m_f(c) m_f(a), and the reported γ of an ion is γ_free · m_f / m, so
-/// that γ · m is its free activity and every equilibrium of the solver holds for the free ions.
-/// The pair takes default_ion_size_angstrom and b = 0 (chem/activity.h), and the ionic strength
-/// counts it at its own charge. A fixed point (to 1e-13 relative in x, at most 60 passes) settles
-/// m_f, x and I together; the outer fixed point on γ (solve_state) makes the whole consistent.
-void truesdell_jones_gammas(const Problem& p, const std::vector<double>& c,
-                            std::vector<double>& g) {
+/// Associated species (Problem::complexes) are folded into stoichiometric coefficients: with m
+/// the total and m_f = f m the free molality of each member, a complex's amount is
+/// x = K° Π (γ_k m_f,k)^ν_k / γ_complex, the members' balances are m_f,k + Σ ν_k x = m_k, and the
+/// γ given for a member is γ_free f, so that γ m is its free activity and every equilibrium of
+/// the solver holds for the free species. A complex takes the model's γ for its charge
+/// (Truesdell–Jones: default_ion_size_angstrom, b = 0; SIT: no ε), and the ionic strength counts
+/// it at its own charge. A damped fixed point (to 1e-13 relative, at most 200 passes) settles f,
+/// x and I together; the outer fixed point on γ (solve_state) makes the whole consistent.
+void extended_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
     double i_stoich = 0;
     for (int k = 0; k < p.n_flat; ++k)
         i_stoich += 0.5 * p.flat_charge[k] * p.flat_charge[k] * c[k];
     i_stoich /= p.kg_per_l;
-    g.resize(p.n_flat);
-    auto fill = [&](double i_m, double& phi) {
-        phi = truesdell_jones_convention(p.a_molal, p.b_molal, p.tj_chloride_size, p.tj_chloride_b,
-                                         i_m);
-        for (int k = 0; k < p.n_flat; ++k) {
-            const int z = p.flat_charge[k];
-            const double lg = z == 0 ? 0.0
-                                     : truesdell_jones_raw_log10_gamma(
-                                           p.a_molal, p.b_molal, z, p.tj_size[k], p.tj_b[k], i_m) -
-                                           z * phi;
-            g[k] = std::exp(ln10 * lg);
-        }
+    thread_local std::vector<double> lg;
+    const bool tj = p.model == ActivityModel::truesdell_jones;
+    auto log10_at = [&](double i_m) {
+        if (tj)
+            return truesdell_jones_log10(p, i_m, lg);
+        sit_log10(p, c, i_m, lg);
+        return 0.0;
     };
-    double phi = 0;
-    if (p.tj_pairs.empty()) {
-        fill(i_stoich, phi);
+    g.resize(p.n_flat);
+    if (p.complexes.empty()) {
+        log10_at(i_stoich);
+        for (int k = 0; k < p.n_flat; ++k)
+            g[k] = std::exp(ln10 * lg[k]);
         return;
     }
-    const size_t n_pairs = p.tj_pairs.size();
-    std::vector<double> x(n_pairs, 0.0), kc(n_pairs, 0.0), free_fraction(p.n_flat, 1.0),
-        denominator(p.n_flat);
-    for (int pass = 0; pass < 60; ++pass) {
+    const size_t n_cx = p.complexes.size();
+    thread_local std::vector<double> x, kc, f, bound;
+    x.assign(n_cx, 0.0);
+    kc.assign(n_cx, 0.0);
+    f.assign(p.n_flat, 1.0);
+    bound.assign(p.n_flat, 0.0);
+    for (int pass = 0; pass < 200; ++pass) {
         double i_m = i_stoich;
-        for (size_t q = 0; q < n_pairs; ++q) {
-            const auto& pr = p.tj_pairs[q];
-            const int za = p.flat_charge[pr.anion], zc = p.flat_charge[pr.cation];
-            i_m += 0.5 * (pr.charge * pr.charge - za * za - zc * zc) * x[q];
+        for (size_t q = 0; q < n_cx; ++q) {
+            const auto& a = p.complexes[q];
+            double z2 = 0;
+            for (int j = 0; j < a.n; ++j)
+                z2 += a.count[j] * p.flat_charge[a.member[j]] * p.flat_charge[a.member[j]];
+            i_m += 0.5 * (a.charge * a.charge - z2) * x[q];
         }
         i_m = std::max(i_m, 0.0);
-        fill(i_m, phi);
-        for (size_t q = 0; q < n_pairs; ++q) {
-            const auto& pr = p.tj_pairs[q];
-            const double lg_pair =
-                truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, pr.charge,
-                                                default_ion_size_angstrom, 0.0, i_m) -
-                pr.charge * phi;
-            kc[q] = pr.k * g[pr.anion] * g[pr.cation] * std::exp(-ln10 * lg_pair);
-        }
-        // Free fractions of the paired ions: m_f(a) = m(a) / (1 + Σ Kc m_f(c)), and the same
-        // for the cations, a few Jacobi sweeps from the last pass.
-        for (int sweep = 0; sweep < 4; ++sweep) {
-            std::fill(denominator.begin(), denominator.end(), 1.0);
-            for (size_t q = 0; q < n_pairs; ++q) {
-                const auto& pr = p.tj_pairs[q];
-                const double ma = c[pr.anion] / p.kg_per_l, mc = c[pr.cation] / p.kg_per_l;
-                denominator[pr.anion] += kc[q] * mc * free_fraction[pr.cation];
-                denominator[pr.cation] += kc[q] * ma * free_fraction[pr.anion];
-            }
-            for (int k = 0; k < p.n_flat; ++k)
-                free_fraction[k] = 1.0 / denominator[k];
-        }
+        const double phi = log10_at(i_m);
         double change = 0;
-        for (size_t q = 0; q < n_pairs; ++q) {
-            const auto& pr = p.tj_pairs[q];
-            const double next = kc[q] * (c[pr.anion] / p.kg_per_l) * free_fraction[pr.anion] *
-                                (c[pr.cation] / p.kg_per_l) * free_fraction[pr.cation];
+        std::fill(bound.begin(), bound.end(), 0.0);
+        for (size_t q = 0; q < n_cx; ++q) {
+            const auto& a = p.complexes[q];
+            const double lg_complex =
+                tj ? truesdell_jones_raw_log10_gamma(p.a_molal, p.b_molal, a.charge,
+                                                     default_ion_size_angstrom, 0.0, i_m) -
+                         a.charge * phi
+                   : -a.charge * a.charge * sit_debye_huckel(p.a_molal, i_m);
+            double lx = std::log10(a.k) - lg_complex;
+            bool present = true;
+            for (int j = 0; j < a.n; ++j) {
+                const int k = a.member[j];
+                const double m_free = c[k] / p.kg_per_l * f[k];
+                if (!(m_free > 0)) {
+                    present = false;
+                    break;
+                }
+                lx += a.count[j] * (lg[k] + std::log10(m_free));
+            }
+            const double next = present ? std::exp(ln10 * lx) : 0.0;
             change = std::max(change, std::abs(next - x[q]) / std::max(next, 1e-300));
             x[q] = next;
+            for (int j = 0; j < a.n; ++j)
+                bound[a.member[j]] += a.count[j] * next;
+        }
+        // f_k from the balance m_f,k + bound_k = m_k with x ∝ f_k^ν, solved as
+        // f ← f m / (f m + bound), geometrically damped after the first passes.
+        for (int k = 0; k < p.n_flat; ++k) {
+            if (bound[k] <= 0)
+                continue;
+            const double m = c[k] / p.kg_per_l, fm = f[k] * m;
+            const double target = f[k] * m / (fm + bound[k]);
+            f[k] = pass < 20 ? target : std::sqrt(f[k] * target);
         }
         if (change <= 1e-13)
             break;
     }
     for (int k = 0; k < p.n_flat; ++k)
-        g[k] *= free_fraction[k];
-}
-
-/// The γ of an extended model (SIT or Truesdell–Jones) from the species' concentrations.
-void extended_gammas(const Problem& p, const std::vector<double>& c, std::vector<double>& g) {
-    if (p.model == ActivityModel::truesdell_jones)
-        truesdell_jones_gammas(p, c, g);
-    else
-        sit_gammas(p, c, g);
+        g[k] = std::exp(ln10 * lg[k]) * f[k];
 }
 
 constexpr double ph_low = -3.0;  ///< bracket: [H+] ~ 1000 mol/L exceeds any allowed amount
@@ -474,7 +486,7 @@ void Problem::index_species(const Library& lib) {
     sit_eps.clear();
     tj_size.clear();
     tj_b.clear();
-    tj_pairs.clear();
+    complexes.clear();
     if (model == ActivityModel::davies)
         return; // Davies needs the charges only
     std::vector<const std::string*> names;
@@ -486,6 +498,29 @@ void Problem::index_species(const Library& lib) {
     static const std::string h = "H+", oh = "OH-";
     names.push_back(&h);
     names.push_back(&oh);
+    for (const Complex& cx : lib.complexes()) {
+        if (std::find(cx.models.begin(), cx.models.end(), model) == cx.models.end())
+            continue;
+        Assoc a;
+        a.k = std::pow(10.0, cx.log10_k);
+        bool all = true;
+        for (const auto& [member, count] : cx.formed_from) {
+            int found = -1;
+            for (int k = 0; k < n_flat && found < 0; ++k)
+                if (*names[k] == member)
+                    found = k;
+            if (found < 0 || a.n >= 4) {
+                all = false;
+                break;
+            }
+            a.member[a.n] = found;
+            a.count[a.n] = count;
+            a.charge += count * flat_charge[found];
+            ++a.n;
+        }
+        if (all)
+            complexes.push_back(a);
+    }
     if (model == ActivityModel::truesdell_jones) {
         tj_size.assign(n_flat, default_ion_size_angstrom);
         tj_b.assign(n_flat, 0.0);
@@ -497,19 +532,6 @@ void Problem::index_species(const Library& lib) {
         if (const IonSize* cl = lib.ion_size("Cl-")) {
             tj_chloride_size = cl->size_angstrom;
             tj_chloride_b = cl->b_kg_per_mol;
-        }
-        tj_pairs.clear();
-        for (const IonPair& pair : lib.ion_pairs()) {
-            int anion = -1, cation = -1;
-            for (int k = 0; k < n_flat; ++k) {
-                if (anion < 0 && flat_charge[k] < 0 && *names[k] == pair.anion)
-                    anion = k;
-                if (cation < 0 && flat_charge[k] > 0 && *names[k] == pair.cation)
-                    cation = k;
-            }
-            if (anion >= 0 && cation >= 0)
-                tj_pairs.push_back({anion, cation, std::pow(10.0, pair.log10_k),
-                                    flat_charge[anion] + flat_charge[cation]});
         }
         return;
     }

@@ -56,14 +56,16 @@ struct Problem {
     /// sets the convention term.
     std::vector<double> tj_size, tj_b;
     double tj_chloride_size = 3.0, tj_chloride_b = 0.0;
-    /// Truesdell–Jones ion pairs among the flat species (chem::IonPair): the anion's and the
-    /// cation's flat index, K° (molal, I = 0) and the pair's charge.
-    struct TjPair {
-        int anion = 0, cation = 0;
+    /// The associated species of this model (chem::Complex) whose members are all flat species:
+    /// the members' flat indices and counts, K° (molal, I = 0) and the complex's charge.
+    struct Assoc {
+        int n = 0;
+        std::array<int, 4> member{};
+        std::array<int, 4> count{};
         double k = 0;
         int charge = 0;
     };
-    std::vector<TjPair> tj_pairs;
+    std::vector<Assoc> complexes;
     /// Fills the flat layout and (for SIT) the ε matrix, (for Truesdell–Jones) the sizes, from
     /// the library.
     void index_species(const Library& lib);

@@ -176,17 +176,25 @@ void Library::add_ion_size(IonSize s) {
     ion_sizes_.push_back(std::move(s));
 }
 
-void Library::add_ion_pair(IonPair p) {
-    if (p.cation.empty() || p.anion.empty())
-        throw Error("cation", "an ion pair needs a cation and an anion");
-    if (!std::isfinite(p.log10_k) || std::abs(p.log10_k) > 10)
-        throw Error("log10_k", format_number(p.log10_k) + " is outside -10 to 10");
-    for (auto& x : ion_pairs_)
-        if (x.cation == p.cation && x.anion == p.anion) {
-            x = std::move(p);
+void Library::add_complex(Complex c) {
+    if (c.species.empty())
+        throw Error("species", "an associated species needs its name");
+    if (c.formed_from.empty() || c.formed_from.size() > 4)
+        throw Error("formed_from", "an associated species needs one to four members");
+    for (const auto& [member, count] : c.formed_from)
+        if (member.empty() || count < 1 || count > 4)
+            throw Error("formed_from", "each member needs a name and a count from 1 to 4");
+    if (!std::isfinite(c.log10_k) || std::abs(c.log10_k) > 30)
+        throw Error("log10_k", format_number(c.log10_k) + " is outside -30 to 30");
+    for (ActivityModel m : c.models)
+        if (m == ActivityModel::davies)
+            throw Error("models", "the Davies model has no associated species");
+    for (auto& x : complexes_)
+        if (x.species == c.species) {
+            x = std::move(c);
             return;
         }
-    ion_pairs_.push_back(std::move(p));
+    complexes_.push_back(std::move(c));
 }
 
 const IonSize* Library::ion_size(const std::string& species) const {

@@ -144,9 +144,11 @@ class Library {
     /// default_ion_size_angstrom and b = 0).
     const IonSize* ion_size(const std::string& species) const;
     const std::vector<IonSize>& ion_sizes() const { return ion_sizes_; }
-    /// Adds or replaces (by cation and anion) one Truesdell–Jones ion pair.
-    void add_ion_pair(IonPair p);
-    const std::vector<IonPair>& ion_pairs() const { return ion_pairs_; }
+    /// Adds or replaces (by species) one associated species of the extended models. Throws
+    /// chem::Error for no members, a count outside 1–4, a non-finite or huge log10 K, or Davies
+    /// among its models.
+    void add_complex(Complex c);
+    const std::vector<Complex>& complexes() const { return complexes_; }
     void add_eluent_solvent(EluentSolvent e);
     const EluentSolvent* eluent_solvent(const std::string& organic) const;
     const std::vector<EluentSolvent>& eluent_solvents() const { return eluent_solvents_; }
@@ -159,7 +161,7 @@ class Library {
     std::vector<Reagent> reagents_;
     std::vector<SitEpsilon> sit_;
     std::vector<IonSize> ion_sizes_;
-    std::vector<IonPair> ion_pairs_;
+    std::vector<Complex> complexes_;
     std::vector<EluentSolvent> eluent_solvents_;
 };
 

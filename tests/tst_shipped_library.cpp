@@ -58,11 +58,12 @@ class TestShippedLibrary : public QObject {
             QCOMPARE(gen.ion_sizes()[i].size_angstrom, app.ion_sizes()[i].size_angstrom);
             QCOMPARE(gen.ion_sizes()[i].b_kg_per_mol, app.ion_sizes()[i].b_kg_per_mol);
         }
-        QCOMPARE(gen.ion_pairs().size(), app.ion_pairs().size());
-        for (size_t i = 0; i < app.ion_pairs().size(); ++i) {
-            QCOMPARE(gen.ion_pairs()[i].cation, app.ion_pairs()[i].cation);
-            QCOMPARE(gen.ion_pairs()[i].anion, app.ion_pairs()[i].anion);
-            QCOMPARE(gen.ion_pairs()[i].log10_k, app.ion_pairs()[i].log10_k);
+        QCOMPARE(gen.complexes().size(), app.complexes().size());
+        for (size_t i = 0; i < app.complexes().size(); ++i) {
+            QCOMPARE(gen.complexes()[i].species, app.complexes()[i].species);
+            QCOMPARE(gen.complexes()[i].formed_from, app.complexes()[i].formed_from);
+            QCOMPARE(gen.complexes()[i].log10_k, app.complexes()[i].log10_k);
+            QCOMPARE(gen.complexes()[i].models, app.complexes()[i].models);
         }
         QCOMPARE(gen.eluent_solvents().size(), app.eluent_solvents().size());
         for (size_t i = 0; i < app.eluent_solvents().size(); ++i)

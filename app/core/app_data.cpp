@@ -242,11 +242,26 @@ void load_reagents_json(const QByteArray& bytes, const std::string& origin, chem
                               json::require_number(e, "b_kg_per_mol", at),
                               json::require_string(e, "source", at)});
         });
-        each_entry("truesdell_jones_ion_pairs", [&lib](const QJsonObject& e,
-                                                       const std::string& at) {
-            lib.add_ion_pair(
-                {json::require_string(e, "cation", at), json::require_string(e, "anion", at),
-                 json::require_number(e, "log10_k", at), json::require_string(e, "source", at)});
+        each_entry("complexes", [&lib](const QJsonObject& e, const std::string& at) {
+            chem::Complex c;
+            c.species = json::require_string(e, "species", at);
+            const QJsonObject members = json::require_object(e, "formed_from", at);
+            for (auto it = members.begin(); it != members.end(); ++it)
+                c.formed_from.emplace_back(
+                    it.key().toStdString(),
+                    json::require_int(members, it.key(),
+                                      json::path(at, QStringLiteral("formed_from")), 1, 4));
+            c.log10_k = json::require_number(e, "log10_k", at);
+            for (const std::string& name : json::optional_string_list(e, "models", at)) {
+                const auto m = chem::activity_model_from_name(name);
+                if (!m)
+                    throw chem::Error(json::path(at, QStringLiteral("models")),
+                                      "\"" + name +
+                                          "\" is not an activity model (sit, truesdell-jones)");
+                c.models.push_back(*m);
+            }
+            c.source = json::require_string(e, "source", at);
+            lib.add_complex(std::move(c));
         });
         const QJsonArray reagents = json::require_array(doc, "reagents", "");
         for (int i = 0; i < reagents.size(); ++i) {

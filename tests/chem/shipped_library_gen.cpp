@@ -220,9 +220,16 @@ int main(int argc, char** argv) {
         for (const chem::IonSize& e : lib.ion_sizes())
             o << "    lib.add_ion_size({" << str(e.species) << ", " << num(e.size_angstrom) << ", "
               << num(e.b_kg_per_mol) << ", " << str(e.source) << "});\n";
-        for (const chem::IonPair& e : lib.ion_pairs())
-            o << "    lib.add_ion_pair({" << str(e.cation) << ", " << str(e.anion) << ", "
-              << num(e.log10_k) << ", " << str(e.source) << "});\n";
+        for (const chem::Complex& e : lib.complexes()) {
+            o << "    lib.add_complex({" << str(e.species) << ", {";
+            for (const auto& [member, count] : e.formed_from)
+                o << "{" << str(member) << ", " << count << "}, ";
+            o << "}, " << num(e.log10_k) << ", {";
+            for (chem::ActivityModel m : e.models)
+                o << (m == chem::ActivityModel::sit ? "chem::ActivityModel::sit, "
+                                                    : "chem::ActivityModel::truesdell_jones, ");
+            o << "}, " << str(e.source) << "});\n";
+        }
         for (const chem::EluentSolvent& e : lib.eluent_solvents())
             write_eluent_solvent(o, e);
         o << "    return lib;\n}\n\n";
