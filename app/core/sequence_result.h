@@ -25,8 +25,8 @@ namespace phaseplan {
 struct SequenceWarning {
     /// As the CLI writes it: code, severity, message, "line", the numbers flattened in.
     QJsonObject json;
-    /// The check's typed finding; none for the library's notes, a buffer's warnings, the pressure
-    /// notes and the batches' shelf-life warnings.
+    /// The typed finding: a check's, or the batches' shelf-life (batch_shelf_life); none for the
+    /// library's notes, a buffer's warnings and the pressure notes.
     std::optional<chem::Finding> finding;
 };
 
