@@ -1,7 +1,8 @@
 // The app's warnings as findings (issue 10, "Data, not sentences"): an instrument past its
 // calibration date, a value taken from one, an expired lot used by override and one batch of a
 // line recipe used past its shelf life carry a code, a typed subject and their dates and numbers;
-// chem::describe words them.
+// chem::describe words them. And the sequence sheet prints each line from the sequence's typed
+// result (SequenceLineResult::spec and line_profile), not from a second parse of its document.
 //
 // Sources: the calibration-due rule (due on or before the day of the reading) and the lot rule
 // are the app's own (README, "Instruments" and "Reagent lots"); triethylamine's GHS codes are
@@ -12,6 +13,7 @@
 #include "core/line_commands.h"
 #include "core/sequence_result.h"
 #include "devices/device_store.h"
+#include "print/sheet_parts.h"
 #include "test_support.h"
 
 #include <QJsonArray>
@@ -163,6 +165,35 @@ class TestFindingsApp : public QObject {
         // 2.5 h is written as Qt wrote it with no decimals: "3", not "2".
         QVERIFY2(w->json["message"].toString().contains("longer than its shelf life of 3 h"),
                  qPrintable(w->json["message"].toString()));
+    }
+
+    void sequenceSheetPrintsTheTypedLines() {
+        QJsonObject input =
+            read_json(QStringLiteral(SOURCE_DIR "/data/demo/overnight-sequence.json"));
+        input["batch"] = QJsonObject{{"id", "SEQ-1"}, {"prepared_at", "2026-12-01T15:00:00"}};
+        BatchDocument doc = read_batch_document(shipped_data(), input);
+        PlanResult& plan = doc.sequence->plans.front();
+        SequenceLineResult* c = nullptr;
+        for (SequenceLineResult& l : plan.lines)
+            if (l.letter() == "C")
+                c = &l;
+        QVERIFY(c);
+        QVERIFY(c->line_profile.described);
+        QCOMPARE(int(c->spec.parts.size()), 1);
+        QCOMPARE(QString::fromStdString(c->spec.parts[0].solvent), QString("water"));
+        // Change the typed line only: the sheet and the label follow it, not the document.
+        c->spec.additives.push_back({"triethylamine", chem::AmountUnit::percent_v, 0.1});
+        c->line_profile.solvent_fraction_v["water"] = 0.5;
+        const print::PrintJob job =
+            print::sequence_job(shipped_data(), doc, input, "2026-12-01 15:00", BatchRelease{});
+        const print::LabelData* label = nullptr;
+        for (const print::LabelData& l : job.labels)
+            if (l.title.startsWith("Line C"))
+                label = &l;
+        QVERIFY(label);
+        QVERIFY2(label->hazard_codes.contains("H331"), qPrintable(label->hazard_codes.join(",")));
+        QVERIFY2(label->composition.contains("Water 50 % v/v"),
+                 qPrintable(label->composition.join("|")));
     }
 };
 

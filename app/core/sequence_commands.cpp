@@ -329,6 +329,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     res.row_inputs = std::move(in.rows);
     res.defined = defined;
     res.clock = clock;
+    // The parsed lines and their profiles go with the result (nothing reads them here after the
+    // checks and the warnings above).
+    for (SequenceLineResult& lr : res.lines) {
+        lr.spec = std::move(parsed[lr.index]->spec);
+        lr.line_profile = std::move(profiles[lr.index]);
+    }
     return res;
 }
 

@@ -48,6 +48,12 @@ struct SequenceLineResult {
         double shelf_life_h = 0;
     };
     std::optional<Profile> profile;
+    /// The line as parsed (line_from_json: its parts with each buffer part's designed recipe, its
+    /// additives) and its whole profile (chem::profile_line; `described` is false for a
+    /// volumes-only line): what the sequence sheet prints of the line (its hazards, the label's
+    /// composition) without parsing or designing it again.
+    chem::LineSpec spec;
+    chem::LineProfile line_profile;
     QString letter() const { return QString(QChar(chem::line_letter(index))); }
 };
 
