@@ -182,6 +182,18 @@ std::string format_fixed(double value, int decimals) {
     return std::string(buf, res.ptr);
 }
 
+std::string format_fixed_ties_away(double value, int decimals) {
+    if (std::isfinite(value) && decimals >= 0 && decimals <= 2) {
+        // v · 10^d is exact in long double (64-bit mantissa) for d ≤ 2: 53 + 7 bits.
+        long double scaled = value;
+        for (int i = 0; i < decimals; ++i)
+            scaled *= 10;
+        if (std::fabs(scaled - std::trunc(scaled)) == 0.5L)
+            value = std::nextafter(value, value > 0 ? HUGE_VAL : -HUGE_VAL);
+    }
+    return format_fixed(value, decimals);
+}
+
 std::string format_amount(double value) {
     if (value == 0)
         return "0";

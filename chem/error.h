@@ -140,6 +140,10 @@ std::string format_number(double value);
 /// Formats a number with a fixed count of decimals ("2.50"), independent of the C locale
 /// (printf's %.2f would write "2,50" under a decimal-comma locale once Qt has called setlocale).
 std::string format_fixed(double value, int decimals);
+/// format_fixed, but an exact tie rounds away from zero ("2.5" → "3", "0.25" → "0.3" at one
+/// decimal), as QString::number(value, 'f', decimals) does, where format_fixed rounds it to even.
+/// Ties are detected exactly for up to 2 decimals; more decimals round as format_fixed.
+std::string format_fixed_ties_away(double value, int decimals);
 
 /// An amount to about four significant figures, as recipes and batch records print masses and
 /// volumes: 123.4, 12.34, 1.234, 0.1234 (0.1 mg / 0.01 mL resolution at most); zero is "0".

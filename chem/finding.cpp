@@ -81,6 +81,13 @@ const char* code_of(FindingKind kind) {
         return "pressure-unknown";
     case FindingKind::buffer_scaled:
         return "buffer-scaled";
+    case FindingKind::device_calibration_due:
+    case FindingKind::reading_calibration_due:
+        return "device-calibration-due";
+    case FindingKind::expired_lot_override:
+        return "expired-lot-override";
+    case FindingKind::batch_shelf_life:
+        return "shelf-life";
     }
     return "?";
 }
@@ -102,6 +109,12 @@ Subject Subject::of_reagent(std::string id) {
 }
 Subject Subject::of_system(std::string id) {
     return {Kind::system, std::move(id), {}};
+}
+Subject Subject::of_device(std::string id) {
+    return {Kind::device, std::move(id), {}};
+}
+Subject Subject::of_batch(std::string recipe) {
+    return {Kind::batch, std::move(recipe), {}};
 }
 
 std::string Subject::line_letters() const {
@@ -128,6 +141,10 @@ const char* subject_kind_name(Subject::Kind kind) {
         return "reagent";
     case Subject::Kind::system:
         return "system";
+    case Subject::Kind::device:
+        return "device";
+    case Subject::Kind::batch:
+        return "batch";
     }
     return "?";
 }

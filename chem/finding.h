@@ -61,6 +61,22 @@ enum class FindingKind {
     pressure_unknown,      ///< no trace: lines the method runs have no parts (items: the lines)
     // The line document's (app/core line_from_json), about a line known by its name:
     buffer_scaled, ///< a line's buffer designed for more than its volume_ml (detail "line_name")
+    // The app's (dates are app-side: they come as ISO texts, "2027-03-31", and are worded as
+    // they are; no clock is needed):
+    /// An instrument past its calibration-due date (subject: the device; texts "device",
+    /// "calibration_due"; detail "device_kind": "balance", "ph_meter").
+    device_calibration_due,
+    /// A value taken from an instrument that was past its calibration-due date on the day of the
+    /// reading (subject: the amount's part, a reagent, or none for the measured pH; where: the
+    /// device; texts "device", "calibration_due"; detail "device_kind", "" when not recorded).
+    reading_calibration_due,
+    /// An expired lot used by an approver's override (subject: the part, a reagent; details
+    /// "lot", "lot_expires_on" ("" when not recorded), "by", "name", "at" (ISO), "reason").
+    expired_lot_override,
+    /// One batch of a line recipe used over more than its shelf life across several plans
+    /// (subject: the batch; text "recipe"; numbers "span_h", "shelf_life_h", "batches"; details
+    /// "bottles", "kind" (shelf_kind_name)).
+    batch_shelf_life,
 };
 /// The contract's stable code: "uv-cutoff", "immiscible", "precipitation", "ms-nonvolatile",
 /// "column-ph", "buffer-range", "shelf-life", "runs-dry", "waste-overflow", "pressure-limit",
@@ -69,7 +85,8 @@ enum class FindingKind {
 /// "amount-not-entered", "ph-off-target", "measured-ph-out-of-tolerance",
 /// "eluent-ph-extrapolated", "eluent-temperature", "dwell-too-large",
 /// "outside-allowed-adjustment", "flow-not-scaled", "small-injection", "viscosity-estimate",
-/// "pressure-uncalibrated", "pressure-no-limit", "pressure-unknown", "buffer-scaled".
+/// "pressure-uncalibrated", "pressure-no-limit", "pressure-unknown", "buffer-scaled",
+/// "device-calibration-due", "expired-lot-override" (and "shelf-life" for batch_shelf_life).
 const char* code_of(FindingKind kind);
 
 /// What a finding is about, as a typed reference (never a name to be parsed back).
@@ -82,6 +99,8 @@ struct Subject {
         standby,   ///< the standby flow after the last injection
         reagent,   ///< id: a reagent's (or a line part's) id ("sodium-chloride", "acetonitrile")
         system,    ///< id: an acid-base system's id ("phosphate")
+        device,    ///< id: an instrument's id ("BAL-03")
+        batch,     ///< id: the name of a line recipe whose lines share one batch
     };
     Kind kind = Kind::none;
     std::string id;
@@ -93,6 +112,8 @@ struct Subject {
     static Subject of_standby();
     static Subject of_reagent(std::string id);
     static Subject of_system(std::string id);
+    static Subject of_device(std::string id);
+    static Subject of_batch(std::string recipe);
     /// The lines' letters as the contract's "line" field gives them ("A", "AB"); empty otherwise.
     std::string line_letters() const;
     bool operator==(const Subject& o) const {

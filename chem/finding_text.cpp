@@ -403,6 +403,60 @@ std::string viscosity_estimate(const Words& w) {
                     "methanol.");
 }
 
+/// The first `n` characters (UTF-8 code points) of `s`, never cutting inside one.
+std::string first_chars(const std::string& s, std::size_t n) {
+    std::size_t i = 0;
+    for (std::size_t count = 0; i < s.size(); ++i)
+        if ((static_cast<unsigned char>(s[i]) & 0xC0) != 0x80 && count++ == n)
+            break;
+    return s.substr(0, i);
+}
+
+/// An instrument's kind in words: "balance", "pH meter"; `other` when neither.
+std::string device_words(const std::string& kind, const char* other) {
+    if (kind == "balance")
+        return "balance";
+    if (kind == "ph_meter")
+        return "pH meter";
+    return other;
+}
+
+std::string expired_lot_override(const Words& w) {
+    const std::string& name = w.t("name");
+    const std::string who = name.empty() ? w.t("by") : name + " (" + w.t("by") + ")";
+    // An ISO time to the second, "2026-12-02 14:03:00", with " UTC" for a time in Z.
+    std::string at = w.t("at");
+    std::string when;
+    if (!at.empty()) {
+        when = first_chars(at, 19);
+        for (char& c : when)
+            if (c == 'T')
+                c = ' ';
+        when = " at " + when + (at.back() == 'Z' ? " UTC" : "");
+    }
+    const std::string& expired = w.t("lot_expires_on");
+    return "Lot " + w.t("lot") + " of " + w.name(w.f.subject.id) + " expired on " +
+           (expired.empty() ? std::string("(date not recorded)") : expired) +
+           "; used by override of " + who + when + ": " + w.t("reason");
+}
+
+std::string reading_calibration_due(const Words& w) {
+    const std::string what = w.f.subject.kind == Subject::Kind::reagent
+                                 ? "The amount of " + w.name(w.f.subject.id)
+                                 : std::string("The measured pH");
+    return what + " was taken from " + device_words(w.t("device_kind"), "instrument") + " " +
+           w.f.where.id + ", which was due for calibration on " + w.t("calibration_due");
+}
+
+std::string batch_shelf_life(const Words& w) {
+    // Fixed decimals as the contract wrote them (ties away from zero).
+    return "One batch of " + w.t("recipe") + " for " + w.count(w.n("bottles")) +
+           " bottles would be used over " + format_fixed_ties_away(w.n("span_h"), 1) +
+           " h, longer than its shelf life of " + format_fixed_ties_away(w.n("shelf_life_h"), 0) +
+           " h (" + w.t("kind") + ", a lab-set default): make at least " + w.count(w.n("batches")) +
+           " batches.";
+}
+
 } // namespace
 
 std::string signed_percent(double fraction) {
@@ -585,6 +639,17 @@ std::string describe(const Finding& f, const RenderContext& ctx) {
         return "The buffer of " + w.t("line_name") + " was designed for " +
                format_number(std::ceil(w.n("needed_ml"))) + " mL instead of " +
                format_number(w.n("requested_ml")) + " mL: the part needs that much.";
+    case FindingKind::device_calibration_due: {
+        const std::string what = device_words(w.t("device_kind"), "pH meter");
+        return what + " " + f.subject.id + " was due for calibration on " + w.t("calibration_due") +
+               ": calibrate it or use another " + what;
+    }
+    case FindingKind::reading_calibration_due:
+        return reading_calibration_due(w);
+    case FindingKind::expired_lot_override:
+        return expired_lot_override(w);
+    case FindingKind::batch_shelf_life:
+        return batch_shelf_life(w);
     }
     return {};
 }

@@ -450,12 +450,14 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
 
     // Contraction on mixing, binary estimates against the whole aqueous part.
     std::vector<std::string> contraction_text;
+    std::vector<std::pair<std::string, double>> contractions; // solvent id, mL
     for (const auto& [id, ml] : organic_ml) {
         const auto c = mixing_contraction_ml(solvents, aqueous_ml, id, ml);
         if (!c)
             continue;
         out.contraction_ml += *c;
         contraction_text.push_back(solvents.solvent(id).name + " " + fmt(*c, 1) + " mL");
+        contractions.emplace_back(id, *c);
         if (const ExcessVolume* ev = solvents.excess_volume("water", id))
             out.contraction_sources.push_back(ev->source);
     }
@@ -492,19 +494,12 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
          "contents, date "
          "and hazards.");
 
-    out.notes.push_back(
-        "Gravimetric alternative: tare the bottle and weigh each part in turn to the masses "
-        "given (volume × density at the temperature stated per item); weighing does not depend "
-        "on the liquid's temperature as a volume reading does.");
+    out.notes.push_back({LineNoteKind::gravimetric_alternative, {}, 0, 0});
     if (out.profile.aqueous_fraction_v > 0 && out.profile.organic_fraction_v > 0)
-        out.notes.push_back(
-            "The pH is measured in the aqueous part before the organic is added; it is the "
-            "aqueous pH that the method and the column's pH range refer to.");
+        out.notes.push_back({LineNoteKind::ph_in_aqueous_part, {}, 0, 0});
     if (out.contraction_ml > 0)
-        out.notes.push_back(
-            "Mixing contraction: " + join(contraction_text, ", ") + " for " + fmt(volume_ml, 0) +
-            " mL measured separately (binary water–organic estimates" +
-            (organic_ml.size() > 1 ? ", added up: rough for three components" : "") + ").");
+        out.notes.push_back({LineNoteKind::mixing_contraction, contractions, volume_ml,
+                             static_cast<int>(organic_ml.size())});
 
     // Cautions from the solvents' and reagents' hazards. Nothing here is called safe.
     std::set<std::string> seen;

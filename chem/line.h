@@ -127,6 +127,22 @@ struct LineItem {
     std::string density_basis;
 };
 
+/// What a line recipe's note says (chem/note_text.h words it).
+enum class LineNoteKind {
+    gravimetric_alternative, ///< the parts may be weighed instead of measured by volume
+    ph_in_aqueous_part,      ///< the pH is measured in the aqueous part before the organic
+    mixing_contraction,      ///< the estimated contraction on mixing, per organic
+};
+
+/// A note of a line recipe: data only; describe(note, solvents) makes the sentence.
+struct LineNote {
+    LineNoteKind kind = LineNoteKind::gravimetric_alternative;
+    /// mixing_contraction: each organic with data, its solvent id and its contraction, mL.
+    std::vector<std::pair<std::string, double>> contractions;
+    double volume_ml = 0;  ///< mixing_contraction: the line's volume, measured part by part
+    int organic_parts = 0; ///< mixing_contraction: organics in the line (estimates add up: > 1)
+};
+
 struct LineRecipe {
     LineProfile profile;
     double volume_ml = 0;         ///< the parts' volumes add up to this
@@ -136,7 +152,7 @@ struct LineRecipe {
     double mixed_volume_ml = 0;   ///< volume_ml − contraction_ml
     std::vector<std::string> contraction_sources;
     std::vector<Step> steps; ///< in bench order
-    std::vector<std::string> notes;
+    std::vector<LineNote> notes;
     std::vector<std::string> cautions;
 };
 

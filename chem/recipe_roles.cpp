@@ -374,7 +374,6 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
     RouteChange ch;
     ch.reagents = current;
     RouteReagents& r = ch.reagents;
-    auto words = [](const Reagent& x) { return reagent_words(x); };
     const bool pair_from = from != Route::titrate, pair_to = to != Route::titrate;
 
     if (pair_from && !pair_to) {
@@ -383,10 +382,10 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
         if (!a || !b) {
             r.weigh = a ? a->id : b ? b->id : std::string();
             r.titrant.clear();
-            ch.notes.push_back({r.weigh.empty() ? "weigh" : "titrant",
-                                "Choose the " +
-                                    std::string(r.weigh.empty() ? "reagent to weigh" : "titrant") +
-                                    ": the mix had no complete pair to carry over."});
+            RouteNote n;
+            n.field = r.weigh.empty() ? "weigh" : "titrant";
+            n.kind = RouteNoteKind::no_pair_to_carry;
+            ch.notes.push_back(std::move(n));
         } else {
             const std::string* sys = pair_system(*a, *b);
             const Reagent* salt = sys ? salt_of_pair(*a, *b, *sys) : nullptr;
@@ -397,17 +396,21 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
                 r.titrant = partner.id;
                 r.titrant_form = partner.form == PhysicalForm::liquid ? TitrantForm::neat
                                                                       : TitrantForm::solution;
-                ch.notes.push_back(
-                    {"titrant", words(weighed) + " is weighed and " + words(partner) +
-                                    " brings it to pH" +
-                                    (r.titrant_form == TitrantForm::neat
-                                         ? ", added as supplied (neat)."
-                                         : ", as a solution of the molarity you give.")});
+                RouteNote n;
+                n.field = "titrant";
+                n.kind = RouteNoteKind::weighed_with_partner;
+                n.weighed = weighed.id;
+                n.partner = partner.id;
+                n.titrant_form = r.titrant_form;
+                ch.notes.push_back(std::move(n));
             } else {
                 r.titrant.clear();
-                ch.notes.push_back(
-                    {"titrant", words(partner) + " cannot bring " + words(weighed) +
-                                    " to pH; choose a titrant: nothing was substituted."});
+                RouteNote n;
+                n.field = "titrant";
+                n.kind = RouteNoteKind::partner_cannot_titrate;
+                n.weighed = weighed.id;
+                n.partner = partner.id;
+                ch.notes.push_back(std::move(n));
             }
         }
         ch.complete = !r.weigh.empty() && !r.titrant.empty();
@@ -420,15 +423,15 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
         r.acid.clear();
         r.base.clear();
         if (!w) {
-            ch.notes.push_back(
-                {"acid", "Choose the acid and base forms: no weighed reagent to carry over."});
+            RouteNote n;
+            n.field = "acid";
+            n.kind = RouteNoteKind::no_weighed_reagent;
+            ch.notes.push_back(std::move(n));
             return ch;
         }
         const auto fit = t ? titrant_fit(lib, *w, *t) : std::nullopt;
         const std::string sys_id =
             w->has_system(system) || w->systems.empty() ? system : w->systems.front().system;
-        const AcidBaseSystem* sys = lib.find_system(sys_id);
-        const std::string sys_words = sys ? system_words(*sys) : sys_id;
         auto place = [&](const Reagent& other, PhDirection other_moves) {
             // The partner that raises the pH is the base form.
             (other_moves == PhDirection::raises ? r.base : r.acid) = other.id;
@@ -439,20 +442,24 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
         } else if (fit) {
             if (const Reagent* partner = conjugate_form(lib, *w, *t, sys_id, fit->direction)) {
                 place(*partner, fit->direction);
-                ch.notes.push_back({fit->direction == PhDirection::raises ? "base" : "acid",
-                                    words(*t) + " is not a form of " + sys_words + "; the " +
-                                        (to == Route::mix ? "mix" : "stocks") + " route uses " +
-                                        words(*partner) + " (" + partner->formula +
-                                        "), the form it would have made, instead."});
+                RouteNote n;
+                n.field = fit->direction == PhDirection::raises ? "base" : "acid";
+                n.kind = RouteNoteKind::strong_titrant_replaced;
+                n.titrant = t->id;
+                n.partner = partner->id;
+                n.system = sys_id;
+                n.to = to;
+                ch.notes.push_back(std::move(n));
             } else {
                 const bool raises = fit->direction == PhDirection::raises;
                 (raises ? r.acid : r.base) = w->id;
-                ch.notes.push_back({raises ? "base" : "acid",
-                                    "Nothing in the library is a " +
-                                        std::string(raises ? "more basic" : "more acidic") +
-                                        " form of " + sys_words + " made with " + words(*t) +
-                                        "; choose the " + (raises ? "base" : "acid") +
-                                        " form: nothing was substituted."});
+                RouteNote n;
+                n.field = raises ? "base" : "acid";
+                n.kind = RouteNoteKind::no_form_made_with;
+                n.titrant = t->id;
+                n.system = sys_id;
+                n.direction = fit->direction;
+                ch.notes.push_back(std::move(n));
             }
         } else {
             // No titrant to pair with: the weighed form goes where the system has room for a
@@ -462,9 +469,11 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
                 std::any_of(roles.acid_forms.begin(), roles.acid_forms.end(),
                             [&](const RoleChoice& c) { return c.reagent == w->id; });
             (can_be_acid ? r.acid : r.base) = w->id;
-            ch.notes.push_back({can_be_acid ? "base" : "acid",
-                                "Choose the " + std::string(can_be_acid ? "base" : "acid") +
-                                    " form: the titrant is not a form of " + sys_words + "."});
+            RouteNote n;
+            n.field = can_be_acid ? "base" : "acid";
+            n.kind = RouteNoteKind::titrant_not_a_form;
+            n.system = sys_id;
+            ch.notes.push_back(std::move(n));
         }
     }
 
@@ -476,12 +485,12 @@ RouteChange map_reagents_to_route(const Library& lib, const std::string& system,
             const std::string* sys = pair_system(*a, *b);
             if (!sys || !salt_of_pair(*a, *b, *sys)) {
                 r.basis = ConcentrationBasis::total;
-                ch.notes.push_back(
-                    {"concentration_basis",
-                     "The salt basis holds one salt of the pair at the concentration; " +
-                         words(*a) + " and " + words(*b) +
-                         " are not one salt and one free acid or base, so the total basis is "
-                         "used."});
+                RouteNote n;
+                n.field = "concentration_basis";
+                n.kind = RouteNoteKind::salt_basis_dropped;
+                n.acid = a->id;
+                n.base = b->id;
+                ch.notes.push_back(std::move(n));
             }
         }
     } else {

@@ -56,16 +56,35 @@ struct RouteReagents {
     ConcentrationBasis basis = ConcentrationBasis::total;
 };
 
+/// What a route-change note says, one value per wording (chem/note_text.h words it).
+enum class RouteNoteKind {
+    no_pair_to_carry,        ///< mix → titrate without a complete pair: choose the `field`
+    weighed_with_partner,    ///< `weighed` is weighed and `partner` titrates it (`titrant_form`)
+    partner_cannot_titrate,  ///< `partner` cannot bring `weighed` to pH: nothing substituted
+    no_weighed_reagent,      ///< titrate → mix or stocks without a weighed reagent
+    strong_titrant_replaced, ///< strong `titrant`: the `to` route uses `partner`, of `system`
+    no_form_made_with,       ///< no form of `system` made with `titrant` (`direction` it moves)
+    titrant_not_a_form,      ///< the titrant is not a form of `system`: choose the `field` form
+    salt_basis_dropped,      ///< `acid` and `base` are not one salt and its partner: total basis
+};
+
 /// Something the screen should tell the user about a route change, beside the field it names
-/// ("weigh", "titrant", "acid", "base", "concentration_basis", "titrant_form").
+/// ("weigh", "titrant", "acid", "base", "concentration_basis"). Data only: the reagents and the
+/// system as ids; describe(note, lib) (chem/note_text.h) makes the sentence.
 struct RouteNote {
     std::string field;
-    std::string message;
+    RouteNoteKind kind = RouteNoteKind::no_pair_to_carry;
+    std::string weighed, partner, titrant; ///< reagent ids, as the kind uses them
+    std::string acid, base;                ///< salt_basis_dropped: the pair's reagent ids
+    std::string system;                    ///< an acid-base system id
+    TitrantForm titrant_form = TitrantForm::solution; ///< weighed_with_partner
+    PhDirection direction = PhDirection::raises;      ///< no_form_made_with: the titrant's
+    Route to = Route::mix;                            ///< strong_titrant_replaced: mix or stocks
 };
 
 struct RouteChange {
     RouteReagents reagents;       ///< for the new route; a role is "" when nothing fits it
-    std::vector<RouteNote> notes; ///< each role that was derived, replaced or left empty, in words
+    std::vector<RouteNote> notes; ///< each role that was derived, replaced or left empty
     bool complete = false;        ///< every reagent role of the new route is filled
 };
 

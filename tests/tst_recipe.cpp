@@ -1,6 +1,7 @@
 // The recipe designer: amounts against hand calculation with published molar masses, round trips
 // through solve(), warnings and errors.
 #include "chem/error.h"
+#include "chem/note_text.h"
 #include "chem/recipe.h"
 #include "chem/recipe_roles.h"
 #include "chem/units.h"
@@ -851,7 +852,8 @@ void TestRecipe::routeChangeNeverSwapsSilently() {
     QVERIFY(ch.reagents.base.empty());
     QVERIFY(!ch.complete);
     QCOMPARE(ch.notes.size(), size_t(1));
-    QVERIFY(ch.notes[0].message.find("Nothing in the library") != std::string::npos);
+    QVERIFY(ch.notes[0].kind == chem::RouteNoteKind::no_form_made_with);
+    QVERIFY(chem::describe(ch.notes[0], lib()).find("Nothing in the library") != std::string::npos);
     // Two salts → titrate: the acid salt is weighed and the other stays as the titrant.
     mix.acid = "sodium-dihydrogen-phosphate";
     mix.base = "disodium-hydrogen-phosphate";
@@ -865,7 +867,7 @@ void TestRecipe::routeChangeNeverSwapsSilently() {
     ch = chem::map_reagents_to_route(lib(), "phosphate", Route::mix, Route::stocks, mix);
     QVERIFY(ch.reagents.basis == chem::ConcentrationBasis::total);
     QCOMPARE(ch.notes.at(0).field, std::string("concentration_basis"));
-    const QJsonObject j = phaseplan::route_change_to_json(ch);
+    const QJsonObject j = phaseplan::route_change_to_json(ch, lib());
     QCOMPARE(j["concentration_basis"].toString(), QString("total"));
     QCOMPARE(j["notes"].toArray()[0].toObject()["field"].toString(),
              QString("concentration_basis"));

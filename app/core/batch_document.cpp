@@ -677,9 +677,27 @@ QString capture_source_text(const QJsonObject& c) {
 
 namespace {
 
-/// The caution for a value taken from an instrument that was past its calibration-due date on
-/// the day of the reading; nullopt when it was not (or no date is recorded).
-std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& what) {
+/// The screens' names for the batch's parts (part_display_name), for chem::describe.
+chem::RenderContext part_words(const AppData& data) {
+    chem::RenderContext words;
+    words.name_of = [&data](const std::string& id) {
+        return part_display_name(data, id).toStdString();
+    };
+    return words;
+}
+
+/// A finding of the batch as a warning: its JSON (finding_to_json, worded with the parts'
+/// names) and the finding itself.
+BatchWarning batch_warning(const AppData& data, chem::Finding f) {
+    const QJsonObject o = finding_to_json(f, part_words(data), nullptr);
+    return {o.value("code").toString(), o.value("severity").toString(),
+            o.value("message").toString(), o, std::move(f)};
+}
+
+/// The finding for a value taken from an instrument that was past its calibration-due date on
+/// the day of the reading; nullopt when it was not (or no date is recorded). `subject`: the
+/// amount's part, or none for the measured pH.
+std::optional<chem::Finding> capture_caution(const QJsonObject& c, chem::Subject subject) {
     const QDate due = QDate::fromString(c.value("calibration_due").toString(), Qt::ISODate);
     if (!due.isValid())
         return std::nullopt;
@@ -688,13 +706,16 @@ std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& 
     const QDate day = at.isValid() ? at.toLocalTime().date() : QDate::currentDate();
     if (due > day)
         return std::nullopt;
-    return QJsonObject{{"code", "device-calibration-due"},
-                       {"severity", "caution"},
-                       {"device", c.value("device_id").toString()},
-                       {"calibration_due", due.toString(Qt::ISODate)},
-                       {"message", what + " was taken " + capture_source_text(c) +
-                                       ", which was due for calibration on " +
-                                       due.toString(Qt::ISODate)}};
+    chem::Finding f;
+    f.kind = chem::FindingKind::reading_calibration_due;
+    f.severity = chem::Severity::caution;
+    f.subject = std::move(subject);
+    const std::string device = c.value("device_id").toString().toStdString();
+    f.where = chem::Subject::of_device(device);
+    f.text("device", device);
+    f.text("calibration_due", due.toString(Qt::ISODate).toStdString());
+    f.detail_text("device_kind", c.value("device_kind").toString().toStdString());
+    return f;
 }
 
 /// Reads the capture records of `input`'s batch into `d`, marks the summary's checks with them
@@ -702,7 +723,7 @@ std::optional<QJsonObject> capture_caution(const QJsonObject& c, const QString& 
 void read_captures(const AppData& data, const QJsonObject& input, BatchDocument& d) {
     const QJsonObject b = input.value("batch").toObject();
     const QJsonArray actual = b.value("actual").toArray();
-    std::vector<QJsonObject> cautions;
+    std::vector<chem::Finding> cautions;
     for (int i = 0; i < actual.size(); ++i) {
         const QJsonObject e = actual[i].toObject();
         if (!e.contains("capture") || e.value("capture").isNull())
@@ -713,20 +734,18 @@ void read_captures(const AppData& data, const QJsonObject& input, BatchDocument&
         if (reagent.startsWith("buffer."))
             reagent = reagent.mid(7);
         d.captures[reagent] = c;
-        if (auto w = capture_caution(c, "The amount of " +
-                                            part_display_name(data, reagent.toStdString())))
-            cautions.push_back(*w);
+        if (auto w = capture_caution(c, chem::Subject::of_reagent(reagent.toStdString())))
+            cautions.push_back(std::move(*w));
     }
     if (b.contains("measured_ph_capture") && !b.value("measured_ph_capture").isNull()) {
         d.ph_capture = read_capture(b.value("measured_ph_capture"), "batch.measured_ph_capture");
         if (!b.value("measured_ph").isDouble())
             throw chem::Error("batch.measured_ph_capture", "is given without measured_ph");
-        if (auto w = capture_caution(d.ph_capture, QStringLiteral("The measured pH")))
-            cautions.push_back(*w);
+        if (auto w = capture_caution(d.ph_capture, chem::Subject{}))
+            cautions.push_back(std::move(*w));
     }
-    for (const QJsonObject& w : cautions)
-        d.evaluation.warnings.push_back({w.value("code").toString(), w.value("severity").toString(),
-                                         w.value("message").toString(), w});
+    for (chem::Finding& f : cautions)
+        d.evaluation.warnings.push_back(batch_warning(data, std::move(f)));
 }
 
 /// The lot that limits the use-by and the expired lots used by override, from the document's
@@ -755,33 +774,23 @@ void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) 
         if (ov.isEmpty())
             continue;
         const QString r = reagent_of(e);
-        const QString who = ov.value("name").toString().isEmpty()
-                                ? ov.value("by").toString()
-                                : QStringLiteral("%1 (%2)").arg(ov.value("name").toString(),
-                                                                ov.value("by").toString());
-        const QString at = ov.value("at").toString();
-        const QString text =
-            QStringLiteral("Lot %1 of %2 expired on %3; used by override of %4%5: %6")
-                .arg(e.value("lot").toString(), part_display_name(data, r.toStdString()),
-                     e.value("lot_expires_on").toString().isEmpty()
-                         ? QStringLiteral("(date not recorded)")
-                         : e.value("lot_expires_on").toString(),
-                     who,
-                     at.isEmpty() ? QString()
-                                  : " at " + at.left(19).replace('T', ' ') +
-                                        (at.endsWith('Z') ? QStringLiteral(" UTC") : QString()),
-                     ov.value("reason").toString());
-        d.lot_override_text << text;
+        chem::Finding f;
+        f.kind = chem::FindingKind::expired_lot_override;
+        f.severity = chem::Severity::warning;
+        f.subject = chem::Subject::of_reagent(r.toStdString());
+        f.detail_text("lot", e.value("lot").toString().toStdString());
+        f.detail_text("lot_expires_on", e.value("lot_expires_on").toString().toStdString());
+        for (const char* k : {"by", "name", "at", "reason"})
+            f.detail_text(k, ov.value(k).toString().toStdString());
+        BatchWarning w = batch_warning(data, std::move(f));
+        d.lot_override_text << w.message;
         QJsonObject o = ov;
         o["reagent"] = r;
         o["lot"] = e.value("lot").toString();
         o["lot_expires_on"] = e.value("lot_expires_on").toString();
-        o["text"] = text;
+        o["text"] = w.message;
         d.lot_overrides.append(o);
-        const QJsonObject w{
-            {"code", "expired-lot-override"}, {"severity", "warning"}, {"message", text}};
-        d.evaluation.warnings.push_back(
-            {QStringLiteral("expired-lot-override"), QStringLiteral("warning"), text, w});
+        d.evaluation.warnings.push_back(std::move(w));
     }
 }
 

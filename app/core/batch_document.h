@@ -89,6 +89,9 @@ struct BatchWarning {
     QString severity; ///< "info", "caution", "warning"
     QString message;
     QJsonObject json; ///< as the sheet's summary writes it (amount warnings add their numbers)
+    /// The typed finding behind it, where the batch made one (device-calibration-due,
+    /// expired-lot-override); the amount and pH warnings keep theirs in chem::Warning.
+    std::optional<chem::Finding> finding{};
 };
 
 /// The batch evaluated against its document, typed: what the Prepare & record screen shows and
@@ -133,7 +136,7 @@ struct BatchDocument {
     QString expiry_limit_text;
     /// Each expired lot used by an approver's override, in words: "Lot SP-1987 of … expired on
     /// 2026-11-30; used by override of Priya Haldane (demo-approve) at 2026-12-02 14:03 UTC:
-    /// <reason>".
+    /// <reason>" (chem::describe of its expired_lot_override finding, in evaluation.warnings).
     QStringList lot_override_text;
 
     // recipe: the design and the batch against it; line: the buffer part's.

@@ -1,6 +1,7 @@
 #include "core/chem_json.h"
 
 #include "chem/error.h"
+#include "chem/note_text.h"
 #include "chem/recipe_roles.h"
 #include "core/json_util.h"
 
@@ -239,12 +240,12 @@ QJsonObject role_choices_to_json(const chem::RoleChoices& c) {
                        {"titrants", role_list(c.titrants)}};
 }
 
-QJsonObject route_change_to_json(const chem::RouteChange& ch) {
+QJsonObject route_change_to_json(const chem::RouteChange& ch, const chem::Library& lib) {
     const auto& r = ch.reagents;
     QJsonArray notes;
     for (const auto& n : ch.notes)
         notes.append(QJsonObject{{"field", QString::fromStdString(n.field)},
-                                 {"message", QString::fromStdString(n.message)}});
+                                 {"message", QString::fromStdString(chem::describe(n, lib))}});
     return QJsonObject{{"acid", QString::fromStdString(r.acid)},
                        {"base", QString::fromStdString(r.base)},
                        {"weigh", QString::fromStdString(r.weigh)},

@@ -35,6 +35,7 @@ QJsonObject recipe_to_json(const chem::Recipe& r);
 QJsonObject role_choices_to_json(const chem::RoleChoices& choices);
 /// A route change as JSON: {acid, base, weigh, titrant, titrant_form, concentration_basis,
 /// notes: [{field, message}], complete}.
-QJsonObject route_change_to_json(const chem::RouteChange& change);
+/// The notes worded by chem::describe(note, lib).
+QJsonObject route_change_to_json(const chem::RouteChange& change, const chem::Library& lib);
 
 } // namespace phaseplan

@@ -2,6 +2,7 @@
 #include "core/line_commands_internal.h"
 
 #include "chem/error.h"
+#include "chem/note_text.h"
 #include "chem/units.h"
 #include "core/chem_json.h"
 #include "core/date_time.h"
@@ -440,6 +441,14 @@ QJsonObject finding_to_json(const chem::Finding& w, const chem::RenderContext& w
 // ---------------------------------------------------------------------------------------------
 // line
 
+QJsonArray note_texts(const std::vector<chem::LineNote>& notes,
+                      const chem::SolventLibrary& solvents) {
+    QJsonArray out;
+    for (const chem::LineNote& n : notes)
+        out.append(qs(chem::describe(n, solvents)));
+    return out;
+}
+
 LineResult line_result(const AppData& data, const QJsonObject& input) {
     LineResult res;
     // volume_ml is the contract; a line document that gives only its bottle_ml is made for that.
@@ -516,7 +525,7 @@ QJsonObject line_to_json(const AppData& data, const LineResult& res) {
                                    {"hours", r.profile.shelf_life_h},
                                    {"source", line_shelf_source(data, res)}}},
         {"steps", strings(chem::numbered_step_texts(r.steps))},
-        {"notes", strings(r.notes)},
+        {"notes", note_texts(r.notes, data.solvents)},
         {"cautions", strings(r.cautions)},
         {"warnings", warnings}};
     if (r.buffer)

@@ -86,6 +86,9 @@ struct LineResult {
     std::vector<chem::Finding> findings; ///< check_line's, worded with `words`
     chem::RenderContext words;
 };
+/// A line recipe's notes in words (chem::describe over chem/note_text.h), in order.
+QJsonArray note_texts(const std::vector<chem::LineNote>& notes,
+                      const chem::SolventLibrary& solvents);
 /// Parses and computes a `line` document (throws chem::Error naming the field).
 LineResult line_result(const AppData& data, const QJsonObject& input);
 /// Where the line's shelf life comes from, in words: "set on the line", the shelf-life table's

@@ -329,6 +329,12 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     res.row_inputs = std::move(in.rows);
     res.defined = defined;
     res.clock = clock;
+    // The parsed lines and their profiles go with the result (nothing reads them here after the
+    // checks and the warnings above).
+    for (SequenceLineResult& lr : res.lines) {
+        lr.spec = std::move(parsed[lr.index]->spec);
+        lr.line_profile = std::move(profiles[lr.index]);
+    }
     return res;
 }
 
@@ -554,27 +560,20 @@ std::vector<SequenceBatch> batches_of(const std::vector<SequenceBatchUse>& uses,
         if (shelf > 0) {
             b.shelf_life_h = shelf;
             b.shelf_kind = list.front()->shelf_kind;
-            const QString kind =
-                b.shelf_kind ? QLatin1String(chem::shelf_kind_name(*b.shelf_kind)) : QString();
             if (b.span_h > shelf && warnings && list.size() > 1) {
                 const long long batches =
                     chem::guard::count_up(b.span_h / shelf, "batches", "number of batches");
-                warnings->push_back(
-                    {QJsonObject{{"code", "shelf-life"},
-                                 {"severity", "warning"},
-                                 {"message", "One batch of " + b.recipe + " for " +
-                                                 QString::number(list.size()) +
-                                                 " bottles would be used over " +
-                                                 QString::number(b.span_h, 'f', 1) +
-                                                 " h, longer than its shelf life of " +
-                                                 QString::number(shelf, 'f', 0) + " h (" + kind +
-                                                 ", a lab-set default): make at least " +
-                                                 QString::number(batches) + " batches."},
-                                 {"recipe", b.recipe},
-                                 {"span_h", b.span_h},
-                                 {"shelf_life_h", shelf},
-                                 {"batches", batches}},
-                     std::nullopt});
+                chem::Finding f;
+                f.kind = chem::FindingKind::batch_shelf_life;
+                f.severity = chem::Severity::warning;
+                f.subject = chem::Subject::of_batch(b.recipe.toStdString());
+                f.text("recipe", b.recipe.toStdString());
+                f.number("span_h", b.span_h);
+                f.number("shelf_life_h", shelf);
+                f.number("batches", static_cast<double>(batches));
+                f.detail("bottles", static_cast<double>(list.size()));
+                f.detail_text("kind", b.shelf_kind ? chem::shelf_kind_name(*b.shelf_kind) : "");
+                warnings->push_back({finding_to_json(f, chem::RenderContext{}, nullptr), f});
             }
         }
         out.push_back(std::move(b));

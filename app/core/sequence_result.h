@@ -25,8 +25,8 @@ namespace phaseplan {
 struct SequenceWarning {
     /// As the CLI writes it: code, severity, message, "line", the numbers flattened in.
     QJsonObject json;
-    /// The check's typed finding; none for the library's notes, a buffer's warnings, the pressure
-    /// notes and the batches' shelf-life warnings.
+    /// The typed finding: a check's, or the batches' shelf-life (batch_shelf_life); none for the
+    /// library's notes, a buffer's warnings and the pressure notes.
     std::optional<chem::Finding> finding;
 };
 
@@ -48,6 +48,12 @@ struct SequenceLineResult {
         double shelf_life_h = 0;
     };
     std::optional<Profile> profile;
+    /// The line as parsed (line_from_json: its parts with each buffer part's designed recipe, its
+    /// additives) and its whole profile (chem::profile_line; `described` is false for a
+    /// volumes-only line): what the sequence sheet prints of the line (its hazards, the label's
+    /// composition) without parsing or designing it again.
+    chem::LineSpec spec;
+    chem::LineProfile line_profile;
     QString letter() const { return QString(QChar(chem::line_letter(index))); }
 };
 

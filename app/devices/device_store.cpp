@@ -1,7 +1,9 @@
 #include "devices/device_store.h"
 
+#include "chem/finding_text.h"
 #include "core/date_time.h"
 #include "core/json_util.h"
+#include "core/line_commands.h"
 
 #include <QJsonArray>
 #include <QSqlQuery>
@@ -103,20 +105,24 @@ DeviceRecord DeviceRecord::from_json(const QJsonObject& o, const std::string& at
     return d;
 }
 
-std::optional<QJsonObject> calibration_caution(const DeviceRecord& device, const QDate& today) {
+std::optional<chem::Finding> calibration_finding(const DeviceRecord& device, const QDate& today) {
     if (!device.calibration_due.isValid() || device.calibration_due > today)
         return std::nullopt;
-    const QString due = device.calibration_due.toString(Qt::ISODate);
-    const QString what =
-        device.kind == DeviceKind::balance ? QStringLiteral("balance") : QStringLiteral("pH meter");
-    return QJsonObject{
-        {"code", "device-calibration-due"},
-        {"severity", "caution"},
-        {"device", device.id},
-        {"calibration_due", due},
-        {"message",
-         QStringLiteral("%1 %2 was due for calibration on %3: calibrate it or use another %1")
-             .arg(what, device.id, due)}};
+    chem::Finding f;
+    f.kind = chem::FindingKind::device_calibration_due;
+    f.severity = chem::Severity::caution;
+    f.subject = chem::Subject::of_device(device.id.toStdString());
+    f.text("device", device.id.toStdString());
+    f.text("calibration_due", device.calibration_due.toString(Qt::ISODate).toStdString());
+    f.detail_text("device_kind", kind_name(device.kind));
+    return f;
+}
+
+std::optional<QJsonObject> calibration_caution(const DeviceRecord& device, const QDate& today) {
+    const auto f = calibration_finding(device, today);
+    if (!f)
+        return std::nullopt;
+    return finding_to_json(*f, chem::RenderContext{}, nullptr);
 }
 
 std::vector<DeviceRecord> devices_from_json(const QByteArray& bytes, const std::string& origin,

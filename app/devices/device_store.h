@@ -7,6 +7,7 @@
 //                 "flow_control": "none", "format": "flag-number-unit", "unit": "g",
 //                 "calibration_due": "2027-03-31"}]}
 // Every write is one transaction. Errors are chem::Error naming the field ("devices[1].baud").
+#include "chem/finding.h"
 #include "devices/serial_reader.h"
 #include "storage/database.h"
 
@@ -47,9 +48,12 @@ struct DeviceRecord {
                                   const FormatLibrary* formats = nullptr);
 };
 
-/// A caution when the calibration is due on or before `today`: {"code": "device-calibration-due",
-/// "severity": "caution", "device": id, "calibration_due": date, "message": …}; nullopt otherwise
-/// (and when no date is recorded).
+/// The finding when the calibration is due on or before `today` (chem::FindingKind::
+/// device_calibration_due: the device as its subject, the date, the kind; worded by
+/// chem::describe); nullopt otherwise (and when no date is recorded).
+std::optional<chem::Finding> calibration_finding(const DeviceRecord& device, const QDate& today);
+/// calibration_finding as JSON: {"code": "device-calibration-due", "severity": "caution",
+/// "device": id, "calibration_due": date, "message": …}; nullopt when there is none.
 std::optional<QJsonObject> calibration_caution(const DeviceRecord& device, const QDate& today);
 
 /// {"devices": [ … ]}; ids must be unique.

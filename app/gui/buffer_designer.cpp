@@ -1,5 +1,6 @@
 #include "buffer_designer.h"
 
+#include "chem/note_text.h"
 #include "chem/recipe_roles.h"
 #include "chem/titration_curve.h"
 #include "core/chem_json.h"
@@ -683,7 +684,8 @@ void BufferDesigner::setRoute(const QString& v) {
             loading_ = was_loading;
             for (const chem::RouteNote& n : change.notes)
                 notes.append(QVariantMap{{"field", QString::fromStdString(n.field)},
-                                         {"message", QString::fromStdString(n.message)}});
+                                         {"message", QString::fromStdString(chem::describe(
+                                                         n, workspace_->data().reagents))}});
         }
     }
     route_ = v;

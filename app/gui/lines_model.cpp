@@ -1,5 +1,6 @@
 #include "lines_model.h"
 
+#include "chem/note_text.h"
 #include "core/chem_json.h"
 #include "core/line_commands.h"
 #include "number_text.h"
@@ -256,8 +257,8 @@ void LinesModel::recompute() {
                             {"amount", amount_text(bi)}});
                 for (const std::string& s : r.recipe.cautions)
                     c.cautions.append(QString::fromStdString(s));
-                for (const std::string& s : r.recipe.notes)
-                    c.notes.append(QString::fromStdString(s));
+                for (const chem::LineNote& n : r.recipe.notes)
+                    c.notes.append(QString::fromStdString(chem::describe(n, ws->data().solvents)));
             }
         }
         computed_[i] = c;

@@ -1,6 +1,7 @@
 #include "print/sheet_parts.h"
 
 #include "chem/error.h"
+#include "chem/note_text.h"
 #include "core/date_time.h"
 #include "core/json_util.h"
 
@@ -80,8 +81,8 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
         d.blocks << heading(s.heading) << numbered(s.steps);
     if (!lr.notes.empty()) {
         QStringList notes;
-        for (const std::string& n : lr.notes)
-            notes << qs(n);
+        for (const chem::LineNote& n : lr.notes)
+            notes << qs(chem::describe(n, data.solvents));
         d.blocks << bullets(notes);
     }
     if (lr.buffer)

@@ -19,7 +19,6 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
     const SequenceResult& result = *doc.sequence;
     const PlanResult& out = result.plans.front(); // batch_document_kind refuses "plans"
     const chem::Batch& batch = doc.batch;
-    QJsonObject lines_in = input.value("lines").toObject();
 
     PrintJob job = start_job(doc, "sequence", QStringLiteral("Sequence solvent plan"), printed_at);
     SheetDocument& d = job.sheet;
@@ -130,22 +129,17 @@ PrintJob sequence_job(const AppData& data, const BatchDocument& doc, const QJson
 
     d.blocks << heading("Checks") << warnings_block(doc.warnings);
 
-    // Hazards over every line; one label per line.
+    // Hazards over every line; one label per line. Each line as the sequence parsed and profiled
+    // it (SequenceLineResult::spec, line_profile): no line is parsed or designed again here.
     HazardSet all;
     for (const SequenceLineResult& l : out.lines) {
         const QString key = l.letter();
-        const QJsonObject lo = lines_in.value(key).toObject();
         LabelData label;
         label.title = "Line " + key + ": " + l.name;
         HazardSet hz;
-        if (lo.contains("parts")) {
-            const ParsedLine pl = line_from_json(data, lo, ("lines." + key).toStdString(),
-                                                 l.plan.required_ml, false, nullptr);
-            add_line_hazards(data, pl.spec, hz);
-            add_line_hazards(data, pl.spec, all);
-            label.composition =
-                line_composition(data, chem::profile_line(data.solvents, data.reagents, pl.spec));
-        }
+        add_line_hazards(data, l.spec, hz);
+        add_line_hazards(data, l.spec, all);
+        label.composition = line_composition(data, l.line_profile);
         if (l.profile && l.profile->ph)
             label.ph = "pH " + format_ph(*l.profile->ph) + " (aqueous part)";
         const QString id = qs(batch.id) + "-" + key;

@@ -1,0 +1,86 @@
+// The sentences of the line recipes' and the route changes' notes, from their data.
+#include "chem/note_text.h"
+
+#include "chem/checks_common.h"
+
+namespace chem {
+
+using checks_internal::fmt;
+
+std::string describe(const LineNote& note, const SolventLibrary& solvents) {
+    switch (note.kind) {
+    case LineNoteKind::gravimetric_alternative:
+        return "Gravimetric alternative: tare the bottle and weigh each part in turn to the masses "
+               "given (volume × density at the temperature stated per item); weighing does not "
+               "depend on the liquid's temperature as a volume reading does.";
+    case LineNoteKind::ph_in_aqueous_part:
+        return "The pH is measured in the aqueous part before the organic is added; it is the "
+               "aqueous pH that the method and the column's pH range refer to.";
+    case LineNoteKind::mixing_contraction: {
+        std::string list;
+        for (const auto& [id, ml] : note.contractions) {
+            const Solvent* s = solvents.find_solvent(id);
+            list += (list.empty() ? "" : ", ") + (s ? s->name : id) + " " + fmt(ml, 1) + " mL";
+        }
+        return "Mixing contraction: " + list + " for " + fmt(note.volume_ml, 0) +
+               " mL measured separately (binary water–organic estimates" +
+               (note.organic_parts > 1 ? ", added up: rough for three components" : "") + ").";
+    }
+    }
+    return {};
+}
+
+namespace {
+
+std::string reagent_in_words(const Library& lib, const std::string& id) {
+    const Reagent* r = lib.find_reagent(id);
+    return r ? reagent_words(*r) : id;
+}
+
+std::string system_in_words(const Library& lib, const std::string& id) {
+    const AcidBaseSystem* s = lib.find_system(id);
+    return s ? system_words(*s) : id;
+}
+
+} // namespace
+
+std::string describe(const RouteNote& n, const Library& lib) {
+    auto words = [&lib](const std::string& id) { return reagent_in_words(lib, id); };
+    switch (n.kind) {
+    case RouteNoteKind::no_pair_to_carry:
+        return "Choose the " + std::string(n.field == "weigh" ? "reagent to weigh" : "titrant") +
+               ": the mix had no complete pair to carry over.";
+    case RouteNoteKind::weighed_with_partner:
+        return words(n.weighed) + " is weighed and " + words(n.partner) + " brings it to pH" +
+               (n.titrant_form == TitrantForm::neat ? ", added as supplied (neat)."
+                                                    : ", as a solution of the molarity you give.");
+    case RouteNoteKind::partner_cannot_titrate:
+        return words(n.partner) + " cannot bring " + words(n.weighed) +
+               " to pH; choose a titrant: nothing was substituted.";
+    case RouteNoteKind::no_weighed_reagent:
+        return "Choose the acid and base forms: no weighed reagent to carry over.";
+    case RouteNoteKind::strong_titrant_replaced: {
+        const Reagent* partner = lib.find_reagent(n.partner);
+        return words(n.titrant) + " is not a form of " + system_in_words(lib, n.system) + "; the " +
+               (n.to == Route::mix ? "mix" : "stocks") + " route uses " + words(n.partner) + " (" +
+               (partner ? partner->formula : n.partner) +
+               "), the form it would have made, instead.";
+    }
+    case RouteNoteKind::no_form_made_with: {
+        const bool raises = n.direction == PhDirection::raises;
+        return "Nothing in the library is a " + std::string(raises ? "more basic" : "more acidic") +
+               " form of " + system_in_words(lib, n.system) + " made with " + words(n.titrant) +
+               "; choose the " + (raises ? "base" : "acid") + " form: nothing was substituted.";
+    }
+    case RouteNoteKind::titrant_not_a_form:
+        return "Choose the " + n.field + " form: the titrant is not a form of " +
+               system_in_words(lib, n.system) + ".";
+    case RouteNoteKind::salt_basis_dropped:
+        return "The salt basis holds one salt of the pair at the concentration; " + words(n.acid) +
+               " and " + words(n.base) +
+               " are not one salt and one free acid or base, so the total basis is used.";
+    }
+    return {};
+}
+
+} // namespace chem
