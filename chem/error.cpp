@@ -201,4 +201,24 @@ std::string format_amount(double value) {
     return format_fixed(value, a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
 }
 
+int measure_decimals(double value, MeasureUnit unit) {
+    const double a = std::abs(value);
+    if (unit == MeasureUnit::g)
+        return a < 1 ? 4 : a < 100 ? 3 : 2;
+    return a < 1 ? 3 : a < 10 ? 2 : a < 100 ? 1 : 0;
+}
+
+std::string format_measure(double value, MeasureUnit unit) {
+    // Rounded first, so that a value just under a boundary (99.9996 g) is written at the
+    // resolution of the amount it rounds to ("100.00", not "100.000").
+    int d = measure_decimals(value, unit);
+    const double scale = std::pow(10.0, d);
+    const double shown = std::round(value * scale) / scale;
+    d = measure_decimals(shown, unit);
+    std::string s = format_fixed(shown, d);
+    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
+        s.erase(0, 1); // "-0.000" reads as another number at the bench
+    return s;
+}
+
 } // namespace chem

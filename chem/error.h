@@ -151,4 +151,22 @@ std::string format_fixed_ties_away(double value, int decimals);
 /// format by locale in app/gui/model_util).
 std::string format_amount(double value);
 
+/// What an amount to weigh or measure is read on: a balance (g) or a pipette, burette or
+/// cylinder (mL).
+enum class MeasureUnit { g, ml };
+
+/// The decimals an amount to weigh or measure is written with: the resolution of what measures
+/// it at the bench (DEVELOPERS.md, "Amounts to weigh and measure").
+///   g:  below 1 g 4 (0.1 mg, analytical balance); below 100 g 3 (1 mg); else 2 (0.01 g,
+///       precision top-pan balance).
+///   mL: below 1 mL 3 (1 µL, a 100–1000 µL pipette's step); below 10 mL 2 (10 µL, a 1–10 mL
+///       pipette); below 100 mL 1 (0.1 mL, a graduated pipette or burette); else 0 (1 mL, a
+///       graduated cylinder).
+/// The one rule of the steps (recipe and line), the buffer and line cards, and the sheets'
+/// target amounts; the screens apply it with the locale's decimal mark (gui::measure_text).
+int measure_decimals(double value, MeasureUnit unit);
+
+/// `value` with measure_decimals, "." as the decimal mark, no unit: "0.756", "2.400", "500".
+std::string format_measure(double value, MeasureUnit unit);
+
 } // namespace chem

@@ -421,8 +421,8 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
                 organic_ml.emplace_back(s.id, *it.volume_ml);
         }
         it.mass_g = *it.volume_ml * it.density_g_per_ml;
-        measured.push_back(fmt(*it.volume_ml, 1) + " mL " + it.part + " (or " + fmt(*it.mass_g, 1) +
-                           " g)");
+        measured.push_back(format_measure(*it.volume_ml, MeasureUnit::ml) + " mL " + it.part +
+                           " (or " + format_measure(*it.mass_g, MeasureUnit::g) + " g)");
         out.items.push_back(it);
     }
     std::vector<std::string> additive_steps;
@@ -439,11 +439,12 @@ LineRecipe prepare_line(const SolventLibrary& solvents, const Library& reagents,
             it.volume_ml = material_g / r.density_g_per_ml;
             it.density_g_per_ml = r.density_g_per_ml;
             it.density_basis = "density of the liquid as supplied (reagent library)";
-            additive_steps.push_back(fmt(*it.volume_ml, 3) + " mL " + r.name + " = " +
-                                     fmt(material_g, 3) + " g");
+            additive_steps.push_back(format_measure(*it.volume_ml, MeasureUnit::ml) + " mL " +
+                                     r.name + " = " + format_measure(material_g, MeasureUnit::g) +
+                                     " g");
         } else {
             it.density_basis = "solid: weigh";
-            additive_steps.push_back(fmt(material_g, 4) + " g " + r.name);
+            additive_steps.push_back(format_measure(material_g, MeasureUnit::g) + " g " + r.name);
         }
         out.items.push_back(it);
     }

@@ -453,21 +453,23 @@ void add_amount_steps(const Library& lib, const Recipe& recipe, std::vector<Step
             continue;
         if (it.kind == ItemKind::solid) {
             steps.push_back({StepKind::dissolve_solid,
-                             "Weigh " + format_amount(*it.mass_g) + " g of " + reagent_label(r) +
-                                 " and dissolve it in the water.",
+                             "Weigh " + format_measure(*it.mass_g, MeasureUnit::g) + " g of " +
+                                 reagent_label(r) + " and dissolve it in the water.",
                              r.id, it.mass_g, std::nullopt});
         } else if (it.kind == ItemKind::liquid) {
-            std::string s = "Measure " + format_amount(*it.volume_ml) + " mL (" +
-                            format_amount(*it.mass_g) + " g) of " + reagent_label(r) + ", " +
-                            format_number(r.assay_fraction * 100) + " % w/w, " +
-                            format_number(r.density_g_per_ml) + " g/mL, and add it to the water";
+            std::string s = "Measure " + format_measure(*it.volume_ml, MeasureUnit::ml) + " mL (" +
+                            format_measure(*it.mass_g, MeasureUnit::g) + " g) of " +
+                            reagent_label(r) + ", " + format_number(r.assay_fraction * 100) +
+                            " % w/w, " + format_number(r.density_g_per_ml) +
+                            " g/mL, and add it to the water";
             if (r.is_corrosive())
                 s += " slowly, with stirring (acid or base into water, never water into it)";
             steps.push_back({StepKind::add_liquid, s + ".", r.id, it.mass_g, it.volume_ml});
         } else {
             steps.push_back({StepKind::pipette_solution,
-                             "Pipette " + format_amount(*it.volume_ml) + " mL of the " + r.name +
-                                 " " + item_as_text(it) + " into the flask.",
+                             "Pipette " + format_measure(*it.volume_ml, MeasureUnit::ml) +
+                                 " mL of the " + r.name + " " + item_as_text(it) +
+                                 " into the flask.",
                              r.id, std::nullopt, it.volume_ml});
         }
     }
@@ -764,9 +766,9 @@ Recipe design_recipe(const Library& lib, const RecipeRequest& req) {
             if (it.kind == ItemKind::titrant_solution || it.kind == ItemKind::titrant_neat)
                 t = it;
         const bool neat = req.titrant_form == TitrantForm::neat;
-        std::string predicted = format_amount(t.volume_ml.value_or(0)) + " mL";
+        std::string predicted = format_measure(t.volume_ml.value_or(0), MeasureUnit::ml) + " mL";
         if (neat)
-            predicted += " (" + format_amount(t.mass_g.value_or(0)) + " g)";
+            predicted += " (" + format_measure(t.mass_g.value_or(0), MeasureUnit::g) + " g)";
         steps.push_back(Step{StepKind::calibrate_meter,
                              "Bring the solution to " + format_number(req.temperature_c) +
                                  " °C and calibrate the pH meter at that temperature."});

@@ -54,6 +54,25 @@ ApplicationWindow {
         function onDocumentChanged() { idleCollect.restart() }
     }
 
+    /// Number fields typed on any screen whose text is not applied (each screen's pendingInputs):
+    /// the header badge says so, whichever screen is shown.
+    readonly property int pendingInputs: pendingOf(screen0) + pendingOf(screen1) + pendingOf(screen2)
+                                         + pendingOf(screen3) + pendingOf(screen4) + pendingOf(screen5)
+                                         + pendingOf(screen6)
+    function pendingOf(loader) {
+        return loader && loader.item && loader.item.pendingInputs !== undefined ? loader.item.pendingInputs : 0
+    }
+    /// The key of the first screen holding an entry that is not applied ("" when none).
+    function pendingScreen() {
+        var loaders = [screen0, screen1, screen2, screen3, screen4, screen5, screen6]
+        if (pendingOf(loaders[currentScreen]) > 0)
+            return screenKeys[currentScreen]
+        for (var i = 0; i < loaders.length; ++i)
+            if (pendingOf(loaders[i]) > 0)
+                return screenKeys[i]
+        return ""
+    }
+
     function show(key) {
         var i = screenKeys.indexOf(key)
         if (i >= 0)
@@ -183,14 +202,33 @@ ApplicationWindow {
                 elide: Text.ElideRight
                 font.pixelSize: Theme.fontSize
             }
+            // The checks at a glance. An entry typed but not applied (its text is not a number
+            // yet) is said first: the checks ran on the value from before, so "no warnings" would
+            // not be the truth about what is on screen. A tap shows the screen with that entry.
             Button {
                 objectName: "checksBadge"
                 implicitHeight: Theme.tap
                 font.pixelSize: Theme.fontSize
-                text: checksModel.warningCount > 0 ? qsTr("⚠ %n to fix", "", checksModel.warningCount)
-                                                   : qsTr("✓ no warnings")
-                palette.buttonText: checksModel.warningCount > 0 ? Theme.bad : Theme.good
-                onClicked: window.show("checks")
+                text: {
+                    var parts = []
+                    if (window.pendingInputs > 0)
+                        parts.push(window.pendingInputs === 1 ? qsTr("✎ 1 entry not applied")
+                                                              : qsTr("✎ %1 entries not applied").arg(window.pendingInputs))
+                    if (checksModel.warningCount > 0)
+                        parts.push(qsTr("⚠ %n to fix", "", checksModel.warningCount))
+                    else if (window.pendingInputs === 0)
+                        parts.push(qsTr("✓ no warnings"))
+                    return parts.join(" · ")
+                }
+                palette.buttonText: checksModel.warningCount > 0 ? Theme.bad
+                                  : window.pendingInputs > 0 ? Theme.warn : Theme.good
+                Accessible.description: window.pendingInputs > 0
+                                        ? qsTr("Checks are of the values from before the entry that is not applied")
+                                        : ""
+                onClicked: {
+                    var key = window.pendingScreen()
+                    window.show(key.length > 0 ? key : "checks")
+                }
             }
         }
     }
@@ -254,6 +292,7 @@ ApplicationWindow {
             currentIndex: window.currentScreen
 
             Loader {
+                id: screen0
                 active: window.currentScreen === 0 || 0 < window.screensMade || item !== null
                 sourceComponent: Component {
                     BufferScreen {
@@ -265,6 +304,7 @@ ApplicationWindow {
                 }
             }
             Loader {
+                id: screen1
                 active: window.currentScreen === 1 || 1 < window.screensMade || item !== null
                 sourceComponent: Component {
                     LinesScreen {
@@ -280,6 +320,7 @@ ApplicationWindow {
                 }
             }
             Loader {
+                id: screen2
                 active: window.currentScreen === 2 || 2 < window.screensMade || item !== null
                 sourceComponent: Component {
                     SequenceScreen {
@@ -289,16 +330,21 @@ ApplicationWindow {
                 }
             }
             Loader {
+                id: screen3
                 active: window.currentScreen === 3 || 3 < window.screensMade || item !== null
                 sourceComponent: Component {
                     ChecksScreen {
                         checks: checksModel
+                        entriesNotApplied: window.pendingInputs
+                        entryScreen: window.pendingInputs > 0 ? window.pendingScreen() : ""
+                        entryScreenName: entryScreen.length > 0 ? window.screenNames[window.screenKeys.indexOf(entryScreen)] : ""
                         inPortrait: window.inPortrait
                         onOpen: function(screen, focus) { window.showField(screen, focus) }
                     }
                 }
             }
             Loader {
+                id: screen4
                 active: window.currentScreen === 4 || 4 < window.screensMade || item !== null
                 sourceComponent: Component {
                     LibraryScreen {
@@ -309,6 +355,7 @@ ApplicationWindow {
                 }
             }
             Loader {
+                id: screen5
                 active: window.currentScreen === 5 || 5 < window.screensMade || item !== null
                 sourceComponent: Component {
                     SavedScreen {
@@ -321,6 +368,7 @@ ApplicationWindow {
                 }
             }
             Loader {
+                id: screen6
                 active: window.currentScreen === 6 || 6 < window.screensMade || item !== null
                 sourceComponent: Component {
                     BatchScreen {

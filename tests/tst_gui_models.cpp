@@ -69,6 +69,17 @@ double interpolate(const QList<QPointF>& c, double x) {
     return c.isEmpty() ? 0 : c.back().y();
 }
 
+/// A workspace opened on `db` and the plan it restores (the demo, on a new database): the setup
+/// most tests here start from. The plan is declared after the workspace, so it goes first.
+struct DemoPlan {
+    explicit DemoPlan(const QString& db) : ws(open_workspace(db)) {
+        plan.setRestore(true);
+        plan.setWorkspace(ws.get());
+    }
+    std::unique_ptr<Workspace> ws;
+    Plan plan;
+};
+
 } // namespace
 
 class TestGuiModels : public QObject {
@@ -171,10 +182,8 @@ class TestGuiModels : public QObject {
     /// the sequence start".
     void an_evening_first_run_can_start_tonight() {
         qputenv("PHASEPLAN_NOW", "2026-12-02T18:10:30");
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         plan.recomputeNow();
         const QJsonObject doc = plan.json();
         QCOMPARE(doc.value("start").toString(), QString("2026-12-03T18:00:00"));
@@ -235,6 +244,64 @@ class TestGuiModels : public QObject {
             if (v.toMap().value("reagent") == "disodium-hydrogen-phosphate-heptahydrate")
                 amount = v.toMap().value("amount").toString();
         QVERIFY2(amount.contains(QLocale().decimalPoint()), qPrintable(amount));
+        QLocale::setDefault(QLocale::c());
+    }
+
+    // The card and the steps write an amount by one rule (chem::measure_decimals): the card's
+    // text of each amount, decimal mark aside, stands in a step. The reference is the step the
+    // core words for the same recipe; the rule's own decimals are checked in
+    // chem_error_path (MeasureText). A card or a step that rounds by another rule fails here, as
+    // "0.756 mL (1.276 g)" on the card beside "Measure 0.7556 mL" in the steps did.
+    void card_amounts_read_as_the_steps_data() {
+        QTest::addColumn<QString>("locale");
+        QTest::addColumn<QString>("route");
+        QTest::addColumn<double>("volume_ml");
+        QTest::newRow("mix, liquid acid under 1 mL") << "C"
+                                                     << "mix" << 1200.0;
+        QTest::newRow("mix, decimal comma (de_DE)") << "de_DE"
+                                                    << "mix" << 1200.0;
+        QTest::newRow("mix, 20 L") << "C"
+                                   << "mix" << 20000.0;
+        QTest::newRow("titrate, neat titrant") << "C"
+                                               << "titrate" << 500.0;
+    }
+    void card_amounts_read_as_the_steps() {
+        QFETCH(QString, locale);
+        QFETCH(QString, route);
+        QFETCH(double, volume_ml);
+        QLocale::setDefault(QLocale(locale));
+        auto ws = open_workspace(fresh_db());
+        BufferDesigner d;
+        d.setWorkspace(ws.get());
+        d.setRoute("mix");
+        d.setSystem("phosphate");
+        d.setAcid("phosphoric-acid");
+        d.setBase("sodium-dihydrogen-phosphate-monohydrate");
+        d.setConcentrationMmolPerL(20);
+        d.setTargetPh(2.5);
+        d.setVolumeMl(volume_ml);
+        if (route == "titrate") {
+            d.setSystem("formate");
+            d.setAcid("formic-acid");
+            d.setBase("ammonium-formate");
+            d.setTargetPh(3.0);
+            d.setConcentrationMmolPerL(10);
+            d.setRoute("titrate");
+        }
+        QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
+        const QStringList steps = d.steps();
+        QVERIFY(!d.items().isEmpty());
+        for (const QVariant& v : d.items()) {
+            const QVariantMap item = v.toMap();
+            QString amount = item.value("amount").toString();
+            QVERIFY(!amount.isEmpty());
+            amount.replace(QLocale().decimalPoint(), QLatin1String("."));
+            bool found = false;
+            for (const QString& s : steps)
+                found |= s.contains(amount);
+            QVERIFY2(found, qPrintable(item.value("reagent").toString() + ": the card shows \"" +
+                                       amount + "\", no step says it:\n" + steps.join("\n")));
+        }
         QLocale::setDefault(QLocale::c());
     }
 
@@ -331,10 +398,9 @@ class TestGuiModels : public QObject {
     // "What the column sees": the card reads the eluent pH and the pressure of one method from
     // the plan's own result, the same numbers the command-line tool prints for the document.
     void column_conditions_come_from_the_plan() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        auto& ws = demo.ws;
+        Plan& plan = demo.plan;
         plan.recomputeNow();
         QVERIFY2(plan.valid(), qPrintable(plan.errorMessage()));
         const QVariantMap c = plan.methodConditions("assay");
@@ -391,10 +457,8 @@ class TestGuiModels : public QObject {
         // The picker offers each type the `sequence` contract accepts (README, "detector"), and
         // the wavelength applies to the UV readers only: a plan saved with "pda" shows PDA picked
         // and its wavelength (it once offered five types and hid the wavelength for pda).
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         QStringList ids;
         for (const QVariant& v : Plan::detectorTypes())
             ids << v.toMap().value("id").toString();
@@ -446,10 +510,9 @@ class TestGuiModels : public QObject {
     void designer_edits_the_line_buffer() {
         // The demo's line A holds its buffer by reference: the designer opens that saved buffer,
         // and the line follows every edit.
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        auto& ws = demo.ws;
+        Plan& plan = demo.plan;
         LinesModel lines;
         lines.setPlan(&plan);
         BufferDesigner d;
@@ -478,10 +541,8 @@ class TestGuiModels : public QObject {
     }
 
     void methods_rows_and_time_edit_like_at_the_bench() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         GradientModel g;
         g.setPlan(&plan);
         // A new method, renamed; the rows that run a method follow its new name.
@@ -543,10 +604,9 @@ class TestGuiModels : public QObject {
     }
 
     void buffers_are_made_named_duplicated_and_deleted() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        auto& ws = demo.ws;
+        Plan& plan = demo.plan;
         BufferDesigner d;
         d.setWorkspace(ws.get());
         d.setPlan(&plan);
@@ -595,10 +655,8 @@ class TestGuiModels : public QObject {
     }
 
     void plan_levels_balance() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         plan.recomputeNow();
         QVERIFY(plan.valid());
         QSignalSpy none(&plan, &Plan::resultChanged);
@@ -634,10 +692,8 @@ class TestGuiModels : public QObject {
     // Each part of the plan signals only when it changes, so that views of one part (on a screen
     // shown or not) are not re-evaluated on every edit elsewhere (the signals' contract in plan.h).
     void plan_signals_only_the_parts_that_change() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         plan.recomputeNow();
         QVERIFY(plan.valid());
         QSignalSpy document(&plan, &Plan::documentChanged), result(&plan, &Plan::resultChanged),
@@ -701,10 +757,8 @@ class TestGuiModels : public QObject {
     }
 
     void errors_land_on_their_row() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         GradientModel g;
         g.setPlan(&plan);
         g.setMethodName("assay");
@@ -732,10 +786,8 @@ class TestGuiModels : public QObject {
     }
 
     void checks_gather_and_clear() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         LinesModel lines;
         lines.setPlan(&plan);
         ChecksModel checks;
@@ -811,10 +863,8 @@ class TestGuiModels : public QObject {
     }
 
     void lines_amounts_fill_the_bottle() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        Plan& plan = demo.plan;
         LinesModel lines;
         lines.setPlan(&plan);
         lines.setBottleMl("B", 1500);
@@ -837,10 +887,9 @@ class TestGuiModels : public QObject {
     // writes for the same line: each part's volume and mass, the buffer's amounts and the
     // warnings, in order.
     void line_cards_match_the_line_command() {
-        auto ws = open_workspace(fresh_db());
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(fresh_db());
+        auto& ws = demo.ws;
+        Plan& plan = demo.plan;
         LinesModel lines;
         lines.setPlan(&plan);
         // 60 mmol/L of a phosphate salt in the organic line: the line's own check finds the salt
@@ -1003,10 +1052,9 @@ class TestGuiModels : public QObject {
         const QString db = fresh_db();
         QJsonObject edited_plan;
         {
-            auto ws = open_workspace(db);
-            Plan plan;
-            plan.setRestore(true);
-            plan.setWorkspace(ws.get());
+            DemoPlan demo(db);
+            auto& ws = demo.ws;
+            Plan& plan = demo.plan;
             LinesModel lines;
             lines.setPlan(&plan);
             lines.setBottleMl("B", 750);
@@ -1031,10 +1079,9 @@ class TestGuiModels : public QObject {
             plan.setStart("2026-12-03T19:30:00"); // an edit after the save: autosaved, not saved
             edited_plan = plan.json();
         } // destructors flush the autosaves, as closing the app does
-        auto ws = open_workspace(db);
-        Plan plan;
-        plan.setRestore(true);
-        plan.setWorkspace(ws.get());
+        DemoPlan demo(db);
+        auto& ws = demo.ws;
+        Plan& plan = demo.plan;
         QCOMPARE(plan.json(), edited_plan);
         QCOMPARE(plan.name(), QString("Thursday night"));
         BufferDesigner d;

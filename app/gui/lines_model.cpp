@@ -20,13 +20,12 @@ const QStringList letters = {QStringLiteral("A"), QStringLiteral("B"), QStringLi
                              QStringLiteral("D")};
 const char* additive_units[] = {"percent_v", "percent_w", "mmol_per_l"};
 
+// The decimals of the line's steps (chem::measure_decimals).
 QString volume_text(double ml) {
-    const int decimals = ml < 10 ? 2 : ml < 100 ? 1 : 0;
-    return format_decimal(ml, decimals) + QStringLiteral(" mL");
+    return measure_text(ml, chem::MeasureUnit::ml) + QStringLiteral(" mL");
 }
 QString mass_text(double g) {
-    const int decimals = g < 1 ? 4 : g < 100 ? 2 : 1;
-    return format_decimal(g, decimals) + QStringLiteral(" g");
+    return measure_text(g, chem::MeasureUnit::g) + QStringLiteral(" g");
 }
 
 } // namespace

@@ -126,6 +126,15 @@ QString format_shown(double value, int decimals, const QLocale& locale) {
     return format_decimal(value, d, locale);
 }
 
+QString measure_text(double value, chem::MeasureUnit unit, const QLocale& locale) {
+    // The same digits as chem::format_measure (rounding included), only the mark differs.
+    QString s = QString::fromStdString(chem::format_measure(value, unit));
+    const QString mark = locale.decimalPoint();
+    if (mark != QLatin1String("."))
+        s.replace(QLatin1Char('.'), mark);
+    return s;
+}
+
 QVariantMap NumberText::parse(const QString& text, bool whole, const QString& label) const {
     const ParsedNumber p = parse_decimal(text, whole);
     return {{"ok", p.ok()},

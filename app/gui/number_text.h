@@ -7,6 +7,8 @@
 // NumberText is the QML face (a singleton): NumberField parses with it and shows values with it,
 // using the locale's decimal mark and never a group separator, so that what the field shows can
 // always be typed back.
+#include "chem/error.h"
+
 #include <QLocale>
 #include <QObject>
 #include <QQmlEngine>
@@ -45,6 +47,10 @@ QString format_decimal(double value, int decimals, const QLocale& locale = QLoca
 /// them to be shown as held (0.515 with 2 decimals is "0.515", not "0.51"; 1.2 is "1.20"): a field
 /// never shows less than what is saved, to 1e-9 relative.
 QString format_shown(double value, int decimals, const QLocale& locale = QLocale());
+
+/// An amount to weigh or measure ("0.756" mL, "2.400" g) by the one rule of the steps and sheets
+/// (chem::measure_decimals), with the locale's decimal mark: the cards and the steps agree.
+QString measure_text(double value, chem::MeasureUnit unit, const QLocale& locale = QLocale());
 
 class NumberText : public QObject {
     Q_OBJECT

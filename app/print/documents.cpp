@@ -12,6 +12,10 @@ QString format_amount(double v) {
     return QString::fromStdString(chem::format_amount(v));
 }
 
+QString measure_text(double value, chem::MeasureUnit unit) {
+    return QString::fromStdString(chem::format_measure(value, unit));
+}
+
 QString format_ph(double ph) {
     return QString::number(ph, 'f', 2);
 }

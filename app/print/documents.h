@@ -8,6 +8,7 @@
 // An out-of-tolerance batch prints only with a deviation note (require_deviation_note); its sheet
 // and labels then carry a boxed mark.
 #include "chem/batch.h"
+#include "chem/error.h"
 #include "core/app_data.h"
 #include "core/batch_document.h"
 #include "core/batch_release.h"
@@ -40,8 +41,10 @@ PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QS
                          const BatchRelease& release = {});
 
 /// Number formats shared by sheets, labels and tests: amounts to about four significant figures
-/// (as the recipe's steps print them), pH to 0.01, concentrations in mmol/L to 0.01.
+/// (bands, actual amounts, bottle volumes), pH to 0.01, concentrations in mmol/L to 0.01.
 QString format_amount(double value);
+/// An amount to weigh or measure as the steps write it (chem::format_measure).
+QString measure_text(double value, chem::MeasureUnit unit);
 QString format_ph(double ph);
 QString format_mmol_per_l(double mol_per_l);
 

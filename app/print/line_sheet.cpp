@@ -59,15 +59,15 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
     for (size_t k = 0; k < lr.items.size(); ++k) {
         const auto& it = lr.items[k];
         const chem::AmountCheck& c = doc.part_checks[k];
-        parts.table.rows << QStringList{qs(it.part),
-                                        QLatin1String(chem::line_item_kind_name(it.kind)),
-                                        it.volume_ml ? format_amount(*it.volume_ml) + " mL"
-                                                     : QString(),
-                                        it.mass_g ? format_amount(*it.mass_g) + " g" : QString(),
-                                        band_text(c, batch),
-                                        actual_text(c, doc.captures),
-                                        lot_text(c),
-                                        check_text(c)};
+        parts.table.rows << QStringList{
+            qs(it.part),
+            QLatin1String(chem::line_item_kind_name(it.kind)),
+            it.volume_ml ? measure_text(*it.volume_ml, chem::MeasureUnit::ml) + " mL" : QString(),
+            it.mass_g ? measure_text(*it.mass_g, chem::MeasureUnit::g) + " g" : QString(),
+            band_text(c, batch),
+            actual_text(c, doc.captures),
+            lot_text(c),
+            check_text(c)};
         parts.table.flagged << !c.within_tolerance;
     }
     d.blocks << heading("Parts: measure each separately, then combine") << parts;

@@ -174,12 +174,15 @@ Block reagent_table(const chem::Library& lib, const chem::Recipe& recipe,
         const chem::RecipeItem& it = recipe.items[k];
         const chem::AmountCheck& c = res.checks[k];
         const chem::Reagent& r = lib.reagent(it.reagent);
-        QString target = format_amount(c.target) + " " + qs(c.unit);
-        if (it.kind == chem::ItemKind::liquid && it.mass_g && it.volume_ml)
-            target =
-                c.unit == "g"
-                    ? format_amount(*it.mass_g) + " g\n(" + format_amount(*it.volume_ml) + " mL)"
-                    : format_amount(*it.volume_ml) + " mL\n(" + format_amount(*it.mass_g) + " g)";
+        // The target as the steps write it (chem::measure_decimals).
+        QString target =
+            measure_text(c.target, c.unit == "g" ? chem::MeasureUnit::g : chem::MeasureUnit::ml) +
+            " " + qs(c.unit);
+        if (it.kind == chem::ItemKind::liquid && it.mass_g && it.volume_ml) {
+            const QString g = measure_text(*it.mass_g, chem::MeasureUnit::g) + " g";
+            const QString ml = measure_text(*it.volume_ml, chem::MeasureUnit::ml) + " mL";
+            target = c.unit == "g" ? g + "\n(" + ml + ")" : ml + "\n(" + g + ")";
+        }
         if (chem::is_titrant(it.kind))
             target += "\n(predicted)";
         table.table.rows << QStringList{qs(r.name) + "\n" + qs(r.formula) + ", " +

@@ -85,41 +85,45 @@ ScreenPage {
                 Layout.fillWidth: true
                 title: qsTr("Steps")
                 visible: root.designer.valid
-                Column {
+                // A ListView that does not scroll, as tall as its rows: it places each row under
+                // the one before whatever order the heights settle in. (A Column here left the
+                // rows of the first recipe drawn over each other, at 1280×800 under Xvfb, until
+                // the screen was shown again.)
+                ListView {
                     id: stepList
                     Layout.fillWidth: true
+                    Layout.preferredHeight: contentHeight
+                    interactive: false
                     spacing: Theme.gap
-                    Repeater {
-                        // The count, not the list: new amounts update the steps in place. Each
-                        // row reads its own step (stepAt; stepCount carries the change signal).
-                        model: root.designer.stepCount
-                        // The number in a label of its own, and the text read when the row is
-                        // made and again only when that step changes (stepTextChanged): an edit
-                        // makes no JS copy of the steps it leaves as they were (the strings an
-                        // edit makes set off the collections of the JS heap).
-                        delegate: RowLayout {
-                            id: stepRow
-                            required property int index
-                            width: stepList.width
-                            spacing: Theme.gap
-                            Label {
-                                Layout.alignment: Qt.AlignTop
-                                text: (stepRow.index + 1) + "."
-                                font.pixelSize: Theme.fontSize
-                            }
-                            Label {
-                                id: stepText
-                                objectName: "stepText"
-                                Layout.fillWidth: true
-                                text: root.designer.stepAt(stepRow.index)
-                                wrapMode: Text.Wrap
-                                font.pixelSize: Theme.fontSize
-                                Connections {
-                                    target: root.designer
-                                    function onStepTextChanged(i) {
-                                        if (i === stepRow.index)
-                                            stepText.text = root.designer.stepAt(i)
-                                    }
+                    // The count, not the list: new amounts update the steps in place. Each
+                    // row reads its own step (stepAt; stepCount carries the change signal).
+                    model: root.designer.stepCount
+                    // The number in a label of its own, and the text read when the row is
+                    // made and again only when that step changes (stepTextChanged): an edit
+                    // makes no JS copy of the steps it leaves as they were (the strings an
+                    // edit makes set off the collections of the JS heap).
+                    delegate: Row {
+                        id: stepRow
+                        required property int index
+                        width: stepList.width
+                        spacing: Theme.gap
+                        Label {
+                            id: stepNumber
+                            text: (stepRow.index + 1) + "."
+                            font.pixelSize: Theme.fontSize
+                        }
+                        Label {
+                            id: stepText
+                            objectName: "stepText"
+                            width: Math.max(0, stepRow.width - stepNumber.width - stepRow.spacing)
+                            text: root.designer.stepAt(stepRow.index)
+                            wrapMode: Text.Wrap
+                            font.pixelSize: Theme.fontSize
+                            Connections {
+                                target: root.designer
+                                function onStepTextChanged(i) {
+                                    if (i === stepRow.index)
+                                        stepText.text = root.designer.stepAt(i)
                                 }
                             }
                         }

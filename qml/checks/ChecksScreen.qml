@@ -12,6 +12,11 @@ ScreenPage {
     /// Opens the screen a check belongs to ("buffer", "lines", "sequence") and focuses the field it
     /// names (a contract path such as "lines.B.bottle_ml"; empty: the screen alone).
     signal open(string screen, string focus)
+    /// Entries typed on the screens whose text is not applied (the window's count), and the
+    /// screen that holds the first of them ("buffer", "sequence", ...; "" when none).
+    property int entriesNotApplied: 0
+    property string entryScreen
+    property string entryScreenName
 
     title: qsTr("Checks")
 
@@ -21,9 +26,37 @@ ScreenPage {
 
         Card {
             Layout.fillWidth: true
-            title: root.checks.count === 0 ? qsTr("No warnings") : qsTr("%n check(s) to read", "", root.checks.count)
+            title: root.checks.count === 0 ? (root.entriesNotApplied > 0 ? qsTr("No warnings for the values applied")
+                                                                          : qsTr("No warnings"))
+                                           : qsTr("%n check(s) to read", "", root.checks.count)
             note: root.checks.warningCount > 0 ? qsTr("%n to fix before the start", "", root.checks.warningCount) : ""
             noteColour: Theme.bad
+            // What was typed but not applied is not checked: said before the checks, with a way
+            // back to it.
+            RowLayout {
+                Layout.fillWidth: true
+                visible: root.entriesNotApplied > 0
+                spacing: Theme.gap
+                Label {
+                    objectName: "entriesNotApplied"
+                    Layout.fillWidth: true
+                    wrapMode: Text.Wrap
+                    color: Theme.warn
+                    font.pixelSize: Theme.fontSize
+                    text: (root.entriesNotApplied === 1
+                           ? qsTr("1 entry on the %1 screen is not applied: its text is not a number yet.")
+                                 .arg(root.entryScreenName)
+                           : qsTr("%1 entries are not applied (the first on the %2 screen): their text is not a number yet.")
+                                 .arg(root.entriesNotApplied).arg(root.entryScreenName))
+                          + " " + qsTr("These checks are of the values from before.")
+                }
+                TouchButton {
+                    Layout.alignment: Qt.AlignVCenter
+                    text: qsTr("Show ›")
+                    Accessible.name: qsTr("Show the entry that is not applied")
+                    onClicked: root.open(root.entryScreen, "")
+                }
+            }
             Label {
                 Layout.fillWidth: true
                 wrapMode: Text.Wrap

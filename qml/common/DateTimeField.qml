@@ -25,6 +25,9 @@ ColumnLayout {
     /// A caution that is not an error (a start in the past), shown under the value.
     property string note
     property alias button: open
+    /// The button's text size and height (at least the touch target).
+    property int buttonFontSize: Theme.fontSize
+    property real buttonHeight: Theme.tap
 
     /// The user set a new value.
     signal picked(int year, int month, int day, int hour, int minute)
@@ -43,8 +46,8 @@ ColumnLayout {
         id: open
         objectName: "dateTimeButton"
         Layout.fillWidth: true
-        Layout.preferredHeight: Theme.tap
-        font.pixelSize: Theme.fontSize
+        Layout.preferredHeight: Math.max(Theme.tap, root.buttonHeight)
+        font.pixelSize: root.buttonFontSize
         text: root.text + "  ▾"
         Accessible.name: root.label
         Accessible.description: root.text

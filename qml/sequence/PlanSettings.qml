@@ -3,7 +3,8 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// The instrument and the night: start, waste container, detector, column pH range.
+// The instrument and the night: waste container, detector, column pH range (the start has its
+// own card at the head of the night, StartCard).
 Card {
     id: root
 
@@ -13,22 +14,8 @@ Card {
         return FieldPath.belongs(root.plan.errorField, field) ? root.plan.errorMessage : ""
     }
 
-    title: qsTr("Instrument and night")
+    title: qsTr("Instrument and waste")
 
-    DateTimeField {
-        objectName: "startField"
-        Layout.fillWidth: true
-        label: qsTr("Start of the sequence")
-        text: root.plan.startText
-        year: root.plan.startParts.year || 2026
-        month: root.plan.startParts.month || 1
-        day: root.plan.startParts.day || 1
-        hour: root.plan.startParts.hour || 0
-        minute: root.plan.startParts.minute || 0
-        error: root.errorFor("start")
-        note: root.plan.startNote
-        onPicked: function(y, mo, d, h, mi) { root.plan.setStartAt(y, mo, d, h, mi) }
-    }
     NumberField {
         objectName: "wasteField"
         Layout.fillWidth: true

@@ -21,6 +21,13 @@ Item {
     /// Shows and focuses the field a check or an error names (a contract path, e.g.
     /// "methods.assay.gradient[2].A", "sequence[3].injections", "start", "standby.flow_ml_min").
     function focusField(path) {
+        if (path === "start") {
+            var night = root.inPortrait ? singleNight.item : sideNight.item
+            if (night) {
+                night.startCard.field.button.forceActiveFocus()
+                return
+            }
+        }
         var editors = root.inPortrait ? singleEditors.item : sideEditors.item
         if (editors)
             editors.focusField(path)
@@ -86,6 +93,12 @@ Item {
         id: nightComponent
         ColumnLayout {
             spacing: Theme.margin
+            readonly property alias startCard: startCard
+            StartCard {
+                id: startCard
+                Layout.fillWidth: true
+                plan: root.plan
+            }
             NightSummary {
                 Layout.fillWidth: true
                 plan: root.plan
@@ -111,6 +124,7 @@ Item {
             width: single.contentWidth
             spacing: Theme.margin
             Loader {
+                id: singleNight
                 Layout.fillWidth: true
                 active: root.inPortrait
                 sourceComponent: nightComponent
@@ -147,6 +161,7 @@ Item {
             Layout.fillHeight: true
             inPortrait: false
             Loader {
+                id: sideNight
                 width: nightPage.contentWidth
                 active: !root.inPortrait
                 sourceComponent: nightComponent

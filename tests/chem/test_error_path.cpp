@@ -134,3 +134,31 @@ TEST(ErrorPath, SubscriptOf) {
 }
 
 } // namespace
+
+// The amounts to weigh and measure are written at the resolution of what measures them
+// (chem::measure_decimals). The resolutions are common practice, no source: an analytical balance
+// reads 0.1 mg, a milligram balance 1 mg, a precision top-pan balance 0.01 g; an adjustable
+// 100–1000 µL pipette is set in 1 µL steps, a 1–10 mL pipette in 10 µL, a graduated pipette or
+// burette reads 0.1 mL, a graduated cylinder 1 mL.
+TEST(MeasureText, DecimalsFollowTheBalanceAndThePipette) {
+    using chem::MeasureUnit;
+    EXPECT_EQ(chem::format_measure(0.7556, MeasureUnit::ml), "0.756");
+    EXPECT_EQ(chem::format_measure(1.2588, MeasureUnit::ml), "1.26");
+    EXPECT_EQ(chem::format_measure(25.04, MeasureUnit::ml), "25.0");
+    EXPECT_EQ(chem::format_measure(500.4, MeasureUnit::ml), "500");
+    EXPECT_EQ(chem::format_measure(0.04567, MeasureUnit::g), "0.0457");
+    EXPECT_EQ(chem::format_measure(2.97483, MeasureUnit::g), "2.975");
+    EXPECT_EQ(chem::format_measure(57.1234, MeasureUnit::g), "57.123");
+    EXPECT_EQ(chem::format_measure(393.456, MeasureUnit::g), "393.46");
+}
+
+TEST(MeasureText, AValueRoundedUpToABoundaryTakesTheNextResolution) {
+    using chem::MeasureUnit;
+    // 99.9996 g rounds to 100 g, which a top-pan balance weighs to 0.01 g.
+    EXPECT_EQ(chem::format_measure(99.9996, MeasureUnit::g), "100.00");
+    EXPECT_EQ(chem::format_measure(0.99996, MeasureUnit::g), "1.000");
+    EXPECT_EQ(chem::format_measure(9.996, MeasureUnit::ml), "10.0");
+    EXPECT_EQ(chem::format_measure(-0.0001, MeasureUnit::ml), "0.000");
+    EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::g), 4);
+    EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::ml), 3);
+}

@@ -103,10 +103,31 @@ TestCase {
             texts.push(labels[i].text)
         return texts
     }
+    // The steps of the first recipe stand one under the other, each as tall as its wrapped text:
+    // at 1280×800 they were once drawn over each other on one line until the screen was shown
+    // again (the rows of a Column that never placed them).
+    function test_steps_stand_one_under_another() {
+        var s = makeScreen()
+        tryVerify(function() { return findAll(s, "stepText", []).length === s.designer.stepCount })
+        waitForRendering(s)
+        var labels = findAll(s, "stepText", [])
+        verify(labels.length > 2, "the steps are shown")
+        var bottom = -1
+        for (var i = 0; i < labels.length; ++i) {
+            var top = labels[i].mapToItem(s, 0, 0).y
+            verify(labels[i].height > 0, "step " + (i + 1) + " has a height")
+            verify(labels[i].lineCount >= 1)
+            verify(top >= bottom, "step " + (i + 1) + " starts at " + top + ", above the end of the one before (" + bottom + ")")
+            bottom = top + labels[i].height
+        }
+    }
+
     function test_steps_follow_the_edit() {
         var s = makeScreen()
         var field = findAll(s, "targetPhField", [])[0]
         verify(field)
+        // The rows are made when the list is laid out, after the first result.
+        tryVerify(function() { return shownSteps(s).length === s.designer.stepCount })
         var before = shownSteps(s)
         compare(before.length, s.designer.stepCount)
         verify(before.length > 0, "the steps are shown")
