@@ -251,6 +251,9 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     if (!pressure.empty())
         c.pressure = &pressure;
     c.reagents = &data.reagents;
+    // The traces' eluent solves serve the precipitation check too.
+    chem::EluentPoints eluent_points(c);
+    c.eluent_points = &eluent_points;
     const std::vector<chem::EluentTrace> traces = chem::eluent_traces(c);
     c.traces = &traces;
     const auto checks = chem::check_sequence(c);
