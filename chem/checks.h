@@ -124,6 +124,8 @@ class EluentPoints {
     /// from the last point solved when null. Throws chem::Error as EluentModel::point; needs
     /// model(). The reference stays valid while this object lives.
     const EluentPoint& at(const LineValues& percent, const EluentPoint* guess = nullptr);
+    /// The point at `percent` when it has been solved, else null.
+    const EluentPoint* find(const LineValues& percent) const;
     /// The same point, with each system's species fractions there (EluentModel::point_species).
     const EluentPoint& species(const LineValues& percent,
                                std::vector<std::vector<double>>& fractions);
