@@ -200,37 +200,53 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         Program program;
         program.compositions = key;
         program.trace = out.size();
+        // The last three points of this trace, newest first.
+        std::array<const EluentPoint*, 3> recent{};
         const EluentPoint* last = nullptr;
-        const EluentPoint* before_last = nullptr;
         auto add = [&](std::size_t si, double u) {
             const Stretch& s = ss[si];
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
-            // The solver's start: the last point's pH and ionic strength carried on along the
-            // line through the two last points, by the organic fraction (fewer Newton passes
-            // than from the last point alone; the solution is the same).
+            // The solver's start for a new point: the pH and ionic strength of the last points
+            // carried on by the organic fraction, along the parabola through the three last
+            // (the line through two where there are two) when they lie on the same side; else
+            // the last point itself. A closer start saves Newton passes; the solution is the
+            // same.
             const EluentPoint* known = solved->find(p);
             EluentPoint guess;
             const EluentPoint* from = last;
-            if (!known && last && before_last) {
+            if (!known && recent[0] && recent[1]) {
                 const double o = model.organic_fraction_v(p.data(), p.size());
-                const double span = last->organic_fraction_v - before_last->organic_fraction_v;
-                const double r = std::abs(span) > 1e-9 ? (o - last->organic_fraction_v) / span : 0;
+                const double o0 = recent[0]->organic_fraction_v, o1 = recent[1]->organic_fraction_v;
+                const double span = o0 - o1;
+                const double r = std::abs(span) > 1e-9 ? (o - o0) / span : 0;
                 if (r > 0 && r <= 2) {
-                    guess = *last;
-                    guess.ph_s_s += r * (last->ph_s_s - before_last->ph_s_s);
-                    const double i = last->ionic_strength_mol_per_l +
-                                     r * (last->ionic_strength_mol_per_l -
-                                          before_last->ionic_strength_mol_per_l);
-                    if (i > 0.5 * last->ionic_strength_mol_per_l)
+                    // Lagrange weights of the points at o0, o1 (and o2) for the value at o.
+                    double w0 = 1 + r, w1 = -r, w2 = 0;
+                    if (recent[2]) {
+                        const double o2 = recent[2]->organic_fraction_v;
+                        if ((o1 - o2) * span > 0 && std::abs(o1 - o2) > 1e-9) {
+                            w0 = (o - o1) * (o - o2) / ((o0 - o1) * (o0 - o2));
+                            w1 = (o - o0) * (o - o2) / ((o1 - o0) * (o1 - o2));
+                            w2 = (o - o0) * (o - o1) / ((o2 - o0) * (o2 - o1));
+                        }
+                    }
+                    auto at_o = [&](double EluentPoint::*f) {
+                        return w0 * recent[0]->*f + w1 * recent[1]->*f +
+                               (w2 != 0 ? w2 * recent[2]->*f : 0.0);
+                    };
+                    guess = *recent[0];
+                    guess.ph_s_s = at_o(&EluentPoint::ph_s_s);
+                    const double i = at_o(&EluentPoint::ionic_strength_mol_per_l);
+                    if (i > 0.5 * recent[0]->ionic_strength_mol_per_l)
                         guess.ionic_strength_mol_per_l = i;
                     from = &guess;
                 }
             }
             const EluentPoint& previous = known ? *known : at(p, from);
-            before_last = last;
             last = &previous;
+            recent = {last, recent[0], recent[1]};
             EluentTracePoint tp;
             tp.t_min = s.start_min + u * s.duration_min;
             tp.organic_fraction_v = previous.organic_fraction_v;
