@@ -110,6 +110,8 @@ struct SequenceCheckInput {
 /// precipitation check's speciation share. One thread at a time.
 class EluentPoints {
   public:
+    /// Keeps copies of the lines' profiles and references to c's libraries, which must outlive
+    /// it; nothing else of `c`.
     explicit EluentPoints(const SequenceCheckInput& c);
     ~EluentPoints();
     EluentPoints(const EluentPoints&) = delete;
@@ -132,6 +134,7 @@ class EluentPoints {
 
   private:
     struct Table;
+    std::array<std::optional<LineProfile>, max_lines> profiles_; ///< the model's, copied
     double temperature_c_ = 25;
     std::unique_ptr<EluentModel> model_;
     std::optional<Error> error_;

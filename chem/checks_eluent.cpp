@@ -83,10 +83,12 @@ EluentPoints::EluentPoints(const SequenceCheckInput& c) : table_(std::make_uniqu
     temperature_c_ = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
     if (!c.reagents || !c.solvents)
         return;
+    // The model keeps pointers to the profiles: it gets this object's own copies, so that the
+    // points can outlive the check input (the app keeps them for its next recompute).
     std::vector<const LineProfile*> profiles(max_lines, nullptr);
     for (int l = 0; l < max_lines; ++l)
         if (c.profiles[l] && c.profiles[l]->described)
-            profiles[l] = c.profiles[l];
+            profiles[l] = &profiles_[l].emplace(*c.profiles[l]);
     try {
         model_ = std::make_unique<EluentModel>(*c.solvents, *c.reagents, profiles, temperature_c_);
         table_->steps = model_->step_count();
