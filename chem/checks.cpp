@@ -48,8 +48,14 @@ std::vector<Finding> check_sequence(const SequenceCheckInput& c) {
     std::vector<Finding> out;
     std::vector<EluentTrace> own;
     SequenceCheckInput with = c;
+    // One set of solved eluent points for the traces and the precipitation check.
+    std::optional<EluentPoints> points;
+    if (!with.eluent_points && with.reagents) {
+        points.emplace(c);
+        with.eluent_points = &*points;
+    }
     if (!with.traces && with.reagents) {
-        own = eluent_traces(c);
+        own = eluent_traces(with);
         with.traces = &own;
     }
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
@@ -90,6 +96,11 @@ std::vector<Finding> check_line(const SolventLibrary& solvents, const LineProfil
     c.column = column;
     c.reagents = reagents;
     c.lone_line = true;
+    std::optional<EluentPoints> points;
+    if (reagents) {
+        points.emplace(c);
+        c.eluent_points = &*points;
+    }
     std::vector<Finding> out;
     for (auto f : {check_uv_cutoff, check_immiscible, check_precipitation, check_ms_nonvolatile,
                    check_column_ph}) {

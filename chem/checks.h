@@ -17,6 +17,7 @@
 // Warnings come out in that order.
 #include "chem/eluent.h"
 #include "chem/equilibrium.h"
+#include "chem/error.h"
 #include "chem/finding.h"
 #include "chem/line.h"
 #include "chem/pressure.h"
@@ -26,6 +27,7 @@
 #include <array>
 #include <functional>
 #include <map>
+#include <memory>
 #include <optional>
 #include <string>
 #include <utility>
@@ -75,6 +77,8 @@ struct EluentTrace {
     std::vector<EluentTracePoint> points;
 };
 
+class EluentPoints;
+
 struct SequenceCheckInput {
     const SolventLibrary* solvents = nullptr;
     const SequenceInput* input = nullptr;
@@ -93,7 +97,50 @@ struct SequenceCheckInput {
     const Library* reagents = nullptr;
     /// Precomputed traces (eluent_traces); the checks compute them when null.
     const std::vector<EluentTrace>* traces = nullptr;
+    /// The eluent points solved so far in this check run (with `reagents`): eluent_traces and the
+    /// precipitation check's speciation look each composition up here, so none is solved twice.
+    /// check_sequence makes one when null; give one to share it with an eluent_traces call
+    /// before check_sequence.
+    EluentPoints* eluent_points = nullptr;
     bool lone_line = false; ///< set by check_line: one line at 100 %, no gradient to speak of
+};
+
+/// The eluent of one check run at the column's temperature (25 °C without one), from the lines
+/// with a make-up, each pump composition solved once: the solves that eluent_traces and the
+/// precipitation check's speciation share. One thread at a time.
+class EluentPoints {
+  public:
+    /// Keeps copies of the lines' profiles and references to c's libraries, which must outlive
+    /// it; nothing else of `c`.
+    explicit EluentPoints(const SequenceCheckInput& c);
+    ~EluentPoints();
+    EluentPoints(const EluentPoints&) = delete;
+    EluentPoints& operator=(const EluentPoints&) = delete;
+
+    double temperature_c() const { return temperature_c_; }
+    /// The model, or null where it cannot be built (error() says why).
+    const EluentModel* model() const { return model_.get(); }
+    const std::optional<Error>& error() const { return error_; }
+
+    /// The point at `percent` (pump percentages), solved on the first request from `guess`, or
+    /// from the last point solved when null. Throws chem::Error as EluentModel::point; needs
+    /// model(). The reference stays valid while this object lives.
+    const EluentPoint& at(const LineValues& percent, const EluentPoint* guess = nullptr);
+    /// The point at `percent` when it has been solved, else null.
+    const EluentPoint* find(const LineValues& percent) const;
+    /// The same point, with each system's species fractions there (EluentModel::point_species).
+    const EluentPoint& species(const LineValues& percent,
+                               std::vector<std::vector<double>>& fractions);
+
+  private:
+    struct Table;
+    std::array<std::optional<LineProfile>, max_lines> profiles_; ///< the model's, copied
+    double temperature_c_ = 25;
+    std::unique_ptr<EluentModel> model_;
+    std::optional<Error> error_;
+    std::unique_ptr<Table> table_;
+    /// The index of the point at `percent`, solved when new.
+    std::size_t index_of(const LineValues& percent, const EluentPoint* guess);
 };
 
 /// The eluent pH trace of every method the sequence runs, at the column temperature (Davies).

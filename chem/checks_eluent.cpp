@@ -11,49 +11,46 @@
 #include <deque>
 #include <limits>
 #include <map>
+#include <memory>
 #include <set>
 
 namespace chem {
 
 using namespace checks_internal;
 
-namespace {
-
-/// The compositions of a set of traces, each solved once: gradients repeat the same rows and the
-/// same whole percents of organic across methods. An open-addressing table keyed on the
-/// percentages rounded to 1e-6 % (a std::map here cost as much as the solves it saved).
-class PointCache {
-  public:
-    explicit PointCache(const EluentModel& model) : model_(model), slots_(256) {}
-
-    const EluentPoint& at(const LineValues& p, const EluentPoint* guess) {
-        Key key{};
-        for (int l = 0; l < max_lines; ++l)
-            key[l] = static_cast<long long>(p[l] * 1e6 + 0.5); // percentages are ≥ 0
-        const std::size_t mask = slots_.size() - 1;
-        for (std::size_t i = hash(key) & mask;; i = (i + 1) & mask) {
-            Slot& s = slots_[i];
-            if (s.index < 0) {
-                s.key = key;
-                s.index = static_cast<int>(points_.size());
-                points_.push_back(model_.point(p.data(), p.size(), guess));
-                if (2 * points_.size() > slots_.size())
-                    grow();
-                return points_.back();
-            }
-            if (s.key[0] == key[0] && s.key[1] == key[1] && s.key[2] == key[2] &&
-                s.key[3] == key[3])
-                return points_[s.index];
-        }
-    }
-
-  private:
+/// The compositions of a check run, each solved once: gradients repeat the same rows and the
+/// same whole percents of organic across methods, and the precipitation check samples the same
+/// points as the traces. An open-addressing table keyed on the percentages rounded to 1e-6 %
+/// (a std::map here cost as much as the solves it saved).
+struct EluentPoints::Table {
     using Key = std::array<long long, max_lines>;
-    static_assert(max_lines == 4, "the key comparison in at() spells out four lines");
+    static_assert(max_lines == 4, "the key comparison in find() spells out four lines");
     struct Slot {
         Key key{};
         int index = -1;
     };
+    std::vector<Slot> slots = std::vector<Slot>(256);
+    std::deque<EluentPoint> points; ///< stable addresses while the table grows
+    std::vector<double> pka;        ///< per point, the model's step_count() pKa′ values
+    int steps = 0;
+    int last = -1; ///< the point solved last
+
+    static Key key_of(const LineValues& p) {
+        Key key{};
+        for (int l = 0; l < max_lines; ++l)
+            key[l] = static_cast<long long>(p[l] * 1e6 + 0.5); // percentages are ≥ 0
+        return key;
+    }
+    /// The slot of `key`: its own, or the empty one where it goes.
+    Slot& find(const Key& key) {
+        const std::size_t mask = slots.size() - 1;
+        for (std::size_t i = hash(key) & mask;; i = (i + 1) & mask) {
+            Slot& s = slots[i];
+            if (s.index < 0 || (s.key[0] == key[0] && s.key[1] == key[1] && s.key[2] == key[2] &&
+                                s.key[3] == key[3]))
+                return s;
+        }
+    }
     /// The four rounded percentages, each multiplied by its own odd constant (Knuth's
     /// multiplicative hashing) and folded with one shift, so that the low bits used as the slot
     /// depend on every percentage.
@@ -68,24 +65,82 @@ class PointCache {
         return static_cast<std::size_t>(h);
     }
     void grow() {
-        std::vector<Slot> old(slots_.size() * 2);
-        old.swap(slots_);
-        const std::size_t mask = slots_.size() - 1;
+        std::vector<Slot> old(slots.size() * 2);
+        old.swap(slots);
+        const std::size_t mask = slots.size() - 1;
         for (const Slot& s : old) {
             if (s.index < 0)
                 continue;
             std::size_t i = hash(s.key) & mask;
-            while (slots_[i].index >= 0)
+            while (slots[i].index >= 0)
                 i = (i + 1) & mask;
-            slots_[i] = s;
+            slots[i] = s;
         }
     }
-    const EluentModel& model_;
-    std::vector<Slot> slots_;
-    std::deque<EluentPoint> points_; ///< stable addresses while the table grows
 };
 
-} // namespace
+EluentPoints::EluentPoints(const SequenceCheckInput& c) : table_(std::make_unique<Table>()) {
+    temperature_c_ = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
+    if (!c.reagents || !c.solvents)
+        return;
+    // The model keeps pointers to the profiles: it gets this object's own copies, so that the
+    // points can outlive the check input (the app keeps them for its next recompute).
+    std::vector<const LineProfile*> profiles(max_lines, nullptr);
+    for (int l = 0; l < max_lines; ++l)
+        if (c.profiles[l] && c.profiles[l]->described)
+            profiles[l] = &profiles_[l].emplace(*c.profiles[l]);
+    try {
+        model_ = std::make_unique<EluentModel>(*c.solvents, *c.reagents, profiles, temperature_c_);
+        table_->steps = model_->step_count();
+    } catch (const Error& e) {
+        error_ = e;
+    }
+}
+
+EluentPoints::~EluentPoints() = default;
+
+std::size_t EluentPoints::index_of(const LineValues& p, const EluentPoint* guess) {
+    if (!model_)
+        throw *error_;
+    Table& t = *table_;
+    const Table::Key key = Table::key_of(p);
+    Table::Slot* s = &t.find(key);
+    if (s->index >= 0)
+        return static_cast<std::size_t>(s->index);
+    if (!guess && t.last >= 0)
+        guess = &t.points[t.last];
+    const std::size_t at = t.pka.size();
+    t.pka.resize(at + t.steps);
+    try {
+        t.points.push_back(model_->point(p.data(), p.size(), guess, t.pka.data() + at));
+    } catch (...) {
+        t.pka.resize(at);
+        throw;
+    }
+    s->key = key;
+    s->index = static_cast<int>(t.points.size()) - 1;
+    t.last = s->index;
+    if (2 * t.points.size() > t.slots.size())
+        t.grow();
+    return static_cast<std::size_t>(t.last);
+}
+
+const EluentPoint* EluentPoints::find(const LineValues& percent) const {
+    const Table::Slot& s = table_->find(Table::key_of(percent));
+    return s.index >= 0 ? &table_->points[s.index] : nullptr;
+}
+
+const EluentPoint& EluentPoints::at(const LineValues& percent, const EluentPoint* guess) {
+    return table_->points[index_of(percent, guess)];
+}
+
+const EluentPoint& EluentPoints::species(const LineValues& percent,
+                                         std::vector<std::vector<double>>& fractions) {
+    const std::size_t i = index_of(percent, nullptr);
+    const EluentPoint& pt = table_->points[i];
+    model_->species_fractions(pt, table_->pka.data() + i * table_->steps, fractions);
+    return pt;
+}
 
 std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
     std::vector<EluentTrace> out;
@@ -93,18 +148,21 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         return out;
     const std::vector<int> run = methods_run(*c.plan);
     const auto used = lines_in_use(*c.plan, run);
-    std::vector<const LineProfile*> profiles(max_lines, nullptr);
-    for (int l = 0; l < max_lines; ++l) {
-        if (c.profiles[l] && c.profiles[l]->described)
-            profiles[l] = c.profiles[l];
-        else if (used[l])
+    for (int l = 0; l < max_lines; ++l)
+        if (used[l] && !(c.profiles[l] && c.profiles[l]->described))
             return out; // a volumes-only line in use: its make-up is unknown
+    std::unique_ptr<EluentPoints> own;
+    EluentPoints* solved = c.eluent_points;
+    if (!solved) {
+        own = std::make_unique<EluentPoints>(c);
+        solved = own.get();
     }
-    const double t_c = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
-    const EluentModel model(*c.solvents, *c.reagents, profiles, t_c);
-    PointCache solved(model);
+    if (!solved->model())
+        throw *solved->error();
+    const EluentModel& model = *solved->model();
+    const double t_c = solved->temperature_c();
     auto at = [&](const LineValues& p, const EluentPoint* guess) -> const EluentPoint& {
-        return solved.at(p, guess);
+        return solved->at(p, guess);
     };
     // Methods that run the same composition program (the same stretches' compositions, at any
     // times and flows) have the same trace points; only the times differ. Each program is traced
@@ -144,14 +202,53 @@ std::vector<EluentTrace> eluent_traces(const SequenceCheckInput& c) {
         Program program;
         program.compositions = key;
         program.trace = out.size();
+        // The last three points of this trace, newest first.
+        std::array<const EluentPoint*, 3> recent{};
         const EluentPoint* last = nullptr;
         auto add = [&](std::size_t si, double u) {
             const Stretch& s = ss[si];
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
                 p[l] = s.percent_start[l] + (s.percent_end[l] - s.percent_start[l]) * u;
-            const EluentPoint& previous = at(p, last);
+            // The solver's start for a new point: the pH and ionic strength of the last points
+            // carried on by the organic fraction, along the parabola through the three last
+            // (the line through two where there are two) when they lie on the same side; else
+            // the last point itself. A closer start saves Newton passes; the solution is the
+            // same.
+            const EluentPoint* known = solved->find(p);
+            EluentPoint guess;
+            const EluentPoint* from = last;
+            if (!known && recent[0] && recent[1]) {
+                const double o = model.organic_fraction_v(p.data(), p.size());
+                const double o0 = recent[0]->organic_fraction_v, o1 = recent[1]->organic_fraction_v;
+                const double span = o0 - o1;
+                const double r = std::abs(span) > 1e-9 ? (o - o0) / span : 0;
+                if (r > 0 && r <= 2) {
+                    // Lagrange weights of the points at o0, o1 (and o2) for the value at o.
+                    double w0 = 1 + r, w1 = -r, w2 = 0;
+                    if (recent[2]) {
+                        const double o2 = recent[2]->organic_fraction_v;
+                        if ((o1 - o2) * span > 0 && std::abs(o1 - o2) > 1e-9) {
+                            w0 = (o - o1) * (o - o2) / ((o0 - o1) * (o0 - o2));
+                            w1 = (o - o0) * (o - o2) / ((o1 - o0) * (o1 - o2));
+                            w2 = (o - o0) * (o - o1) / ((o2 - o0) * (o2 - o1));
+                        }
+                    }
+                    auto at_o = [&](double EluentPoint::*f) {
+                        return w0 * recent[0]->*f + w1 * recent[1]->*f +
+                               (w2 != 0 ? w2 * recent[2]->*f : 0.0);
+                    };
+                    guess = *recent[0];
+                    guess.ph_s_s = at_o(&EluentPoint::ph_s_s);
+                    const double i = at_o(&EluentPoint::ionic_strength_mol_per_l);
+                    if (i > 0.5 * recent[0]->ionic_strength_mol_per_l)
+                        guess.ionic_strength_mol_per_l = i;
+                    from = &guess;
+                }
+            }
+            const EluentPoint& previous = known ? *known : at(p, from);
             last = &previous;
+            recent = {last, recent[0], recent[1]};
             EluentTracePoint tp;
             tp.t_min = s.start_min + u * s.duration_min;
             tp.organic_fraction_v = previous.organic_fraction_v;

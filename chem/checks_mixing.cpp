@@ -238,60 +238,73 @@ bool form_load(const SolventLibrary& lib, const std::string& g, double c,
     return true;
 }
 
-/// The eluent's speciation at pump compositions, each solved once (chem::EluentModel at one
-/// temperature). None without a reagent library, without form tables among the groups present,
-/// or where the eluent cannot be solved: the check then counts conservatively (SaltLoad).
+/// The eluent's speciation at pump compositions, each solved once (chem::EluentPoints at one
+/// temperature: the check run's shared one when it is at that temperature, so the traces' solves
+/// serve here too, else its own, made at the first point asked). None without a reagent library,
+/// without form tables among the groups present, or where the eluent cannot be solved: the check
+/// then counts conservatively (SaltLoad).
 class SpeciesSource {
   public:
-    SpeciesSource(const SequenceCheckInput& c, double temperature_c) {
+    SpeciesSource(const SequenceCheckInput& c, double temperature_c) : c_(c) {
         if (!c.reagents)
             return;
         bool forms = false;
-        std::vector<const LineProfile*> profiles(max_lines, nullptr);
         for (int l = 0; l < max_lines; ++l) {
             const LineProfile* p = c.profiles[l];
             if (!p || !p->described)
                 continue;
-            profiles[l] = p;
             for (const auto& [g, mm] : group_mmol(*c.solvents, *p))
-                forms = forms || !c.solvents->solubility_form_tables(g).empty();
+                if (!c.solvents->solubility_form_tables(g).empty())
+                    forms = forms_line_[l] = true;
         }
         if (!forms)
             return;
-        try {
-            model_ =
-                std::make_unique<EluentModel>(*c.solvents, *c.reagents, profiles, temperature_c);
-        } catch (const Error&) {
-            model_.reset();
-        }
+        active_ = true;
+        if (c.eluent_points && c.eluent_points->temperature_c() == temperature_c)
+            points_ = c.eluent_points;
+        temperature_c_ = temperature_c;
     }
 
-    bool active() const { return model_ != nullptr; }
+    bool active() const { return active_; }
 
     const SpeciesShares* at(const LineValues& p) {
-        if (!model_)
+        if (!active_)
+            return nullptr;
+        // Only the groups with form tables read the speciation.
+        bool forms = false;
+        for (int l = 0; l < max_lines; ++l)
+            forms = forms || (p[l] > 0 && forms_line_[l]);
+        if (!forms)
             return nullptr;
         std::array<long long, max_lines> key{};
         for (int l = 0; l < max_lines; ++l)
             key[l] = std::llround(p[l] * 1e6);
         auto it = cache_.find(key);
         if (it == cache_.end()) {
+            if (!points_) {
+                SequenceCheckInput at_t = c_;
+                if (!at_t.column)
+                    at_t.column.emplace();
+                at_t.column->temperature_c = temperature_c_;
+                own_ = std::make_unique<EluentPoints>(at_t);
+                points_ = own_.get();
+            }
             std::optional<SpeciesShares> sp;
-            try {
-                // The pH solve of the eluent trace (EluentModel::point), with the species.
-                // From the last point solved: the check walks the gradient, so it is near.
-                const EluentPoint pt = model_->point_species(p.data(), p.size(), fractions_,
-                                                             last_ ? &*last_ : nullptr);
-                last_ = pt;
-                sp.emplace();
-                sp->ph_s_s = pt.ph_s_s;
-                const auto& systems = model_->systems();
-                for (std::size_t i = 0; i < systems.size() && i < fractions_.size(); ++i)
-                    if (!fractions_[i].empty())
-                        sp->fractions[systems[i]->id] = fractions_[i];
-            } catch (const Error&) {
-                // An eluent that cannot be solved: no speciation here (conservative count).
-                sp.reset();
+            if (points_->model()) {
+                try {
+                    // The pH solve of the eluent trace (EluentModel::point), with the species;
+                    // from the last point solved when new (the check walks the gradient).
+                    const EluentPoint& pt = points_->species(p, fractions_);
+                    sp.emplace();
+                    sp->ph_s_s = pt.ph_s_s;
+                    const auto& systems = points_->model()->systems();
+                    for (std::size_t i = 0; i < systems.size() && i < fractions_.size(); ++i)
+                        if (!fractions_[i].empty())
+                            sp->fractions[systems[i]->id] = fractions_[i];
+                } catch (const Error&) {
+                    // An eluent that cannot be solved: no speciation here (conservative count).
+                    sp.reset();
+                }
             }
             it = cache_.emplace(key, std::move(sp)).first;
         }
@@ -299,9 +312,13 @@ class SpeciesSource {
     }
 
   private:
-    std::unique_ptr<EluentModel> model_;
-    std::vector<std::vector<double>> fractions_; ///< scratch of point_species
-    std::optional<EluentPoint> last_;            ///< the last point solved, the next one's start
+    const SequenceCheckInput& c_;
+    bool active_ = false;
+    std::array<bool, max_lines> forms_line_{}; ///< the line carries a group with form tables
+    double temperature_c_ = 25;
+    EluentPoints* points_ = nullptr;             ///< the shared points, or own_
+    std::unique_ptr<EluentPoints> own_;          ///< made at the first point asked when not shared
+    std::vector<std::vector<double>> fractions_; ///< scratch of EluentPoints::species
     std::map<std::array<long long, max_lines>, std::optional<SpeciesShares>> cache_;
 };
 

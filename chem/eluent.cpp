@@ -330,10 +330,11 @@ void eluent_problem(detail::Problem& p, const std::vector<double>& amounts,
     p.kg_per_l = rho;
 }
 
-/// Nearest s_s pKa′ (conditional, at the solved ionic strength) to the solved pH.
+/// Nearest s_s pKa′ (conditional, at the solved ionic strength) to the solved pH; each step's
+/// pKa′ into `conditional` when given (flat by system and step, NaN for a system absent here).
 void nearest_pka(const detail::Problem& p, const detail::State& st,
-                 const std::vector<std::array<double, detail::max_steps>>& pka_ss,
-                 EluentPoint& out) {
+                 const std::vector<std::array<double, detail::max_steps>>& pka_ss, EluentPoint& out,
+                 double* conditional = nullptr) {
     out.nearest_pka_gap = std::numeric_limits<double>::infinity();
     out.nearest_system = -1;
     // Davies: log10 γ(z) = z² log10 γ(1), so pKa′ = pKa − log10 γ(1) · (z_j² − z_{j+1}²) needs no
@@ -342,15 +343,22 @@ void nearest_pka(const detail::Problem& p, const detail::State& st,
     const double log10_g1 =
         davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;
     const std::vector<double> g = davies ? std::vector<double>{} : detail::gammas_at(p, st);
+    double* next = conditional;
     for (size_t i = 0; i < p.systems.size(); ++i) {
-        if (p.systems[i].total_mol_per_l <= 0)
+        if (p.systems[i].total_mol_per_l <= 0) {
+            if (next)
+                next =
+                    std::fill_n(next, p.systems[i].steps, std::numeric_limits<double>::quiet_NaN());
             continue;
+        }
         const int o = p.sys_offset[i];
         for (int j = 0; j < p.systems[i].steps; ++j) {
             const int za = p.flat_charge[o + j], zb = p.flat_charge[o + j + 1];
             const double cond =
                 davies ? pka_ss[i][j] - log10_g1 * (za * za - zb * zb)
                        : pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
+            if (next)
+                *next++ = cond;
             if (std::abs(st.ph - cond) < out.nearest_pka_gap) {
                 out.nearest_pka_gap = std::abs(st.ph - cond);
                 out.nearest_pka = cond;
@@ -368,6 +376,11 @@ EluentPoint EluentModel::point(const std::vector<double>& percent, const EluentP
 
 EluentPoint EluentModel::point(const double* percent, std::size_t count,
                                const EluentPoint* guess) const {
+    return point(percent, count, guess, nullptr);
+}
+
+EluentPoint EluentModel::point(const double* percent, std::size_t count, const EluentPoint* guess,
+                               double* pka_conditional) const {
     Prepared& pr = *prepared_;
     prepare(percent, count, pr);
     EluentPoint out;
@@ -387,7 +400,7 @@ EluentPoint EluentModel::point(const double* percent, std::size_t count,
         const detail::State st = guess ? detail::solve_state_near(p, g0) : detail::solve_state(p);
         out.ph_s_s = st.ph;
         out.ionic_strength_mol_per_l = st.ionic_strength_mol_per_l;
-        nearest_pka(p, st, pr.pka_ss, out);
+        nearest_pka(p, st, pr.pka_ss, out, pka_conditional);
     }
     out.ph_s_w = out.ph_s_s + pr.delta;
     out.extrapolated = pr.beyond || pr.other_organic || (pr.share[0] > 0 && pr.share[1] > 0) ||
@@ -398,37 +411,33 @@ EluentPoint EluentModel::point(const double* percent, std::size_t count,
 EluentPoint EluentModel::point_species(const double* percent, std::size_t count,
                                        std::vector<std::vector<double>>& fractions,
                                        const EluentPoint* guess) const {
-    const EluentPoint out = point(percent, count, guess);
+    std::vector<double> conditional(step_count());
+    const EluentPoint out = point(percent, count, guess, conditional.data());
+    species_fractions(out, conditional.data(), fractions);
+    return out;
+}
+
+int EluentModel::step_count() const {
+    return static_cast<int>(step_shifts_.size()) / n_basis;
+}
+
+void EluentModel::species_fractions(const EluentPoint& point, const double* pka_conditional,
+                                    std::vector<std::vector<double>>& fractions) const {
     fractions.resize(system_defs_.size());
     for (auto& f : fractions)
         f.clear();
     if (!has_components_)
-        return out;
-    // point() left its problem and the pKa values of this composition in scratch_ and
-    // prepared_; the state is the point's pH and ionic strength.
-    const detail::Problem& p = scratch_;
-    const Prepared& pr = *prepared_;
-    detail::State st;
-    st.ph = out.ph_s_s;
-    st.ionic_strength_mol_per_l = out.ionic_strength_mol_per_l;
-    const bool davies = p.model == ActivityModel::davies;
-    const double log10_g1 =
-        davies ? davies_log10_gamma(p.a_dh, 1, st.ionic_strength_mol_per_l) : 0.0;
-    const std::vector<double> g = davies ? std::vector<double>{} : detail::gammas_at(p, st);
-    for (size_t i = 0; i < p.systems.size() && i < fractions.size(); ++i) {
-        if (p.systems[i].total_mol_per_l <= 0)
-            continue;
-        const int o = p.sys_offset[i];
+        return;
+    for (size_t i = 0; i < system_defs_.size(); ++i) {
+        const int steps = system_defs_[i]->steps();
+        const double* cond = pka_conditional + step_offset_[i];
+        if (steps <= 0 || std::isnan(cond[0]))
+            continue; // the system is absent at this composition
         std::vector<double>& f = fractions[i];
-        f.assign(p.systems[i].steps + 1, 0.0);
+        f.assign(steps + 1, 0.0);
         // log10 of species k against the acid: Σ_{j<k} (pH − pKa′_j), normalised below.
-        for (int j = 0; j < p.systems[i].steps; ++j) {
-            const int za = p.flat_charge[o + j], zb = p.flat_charge[o + j + 1];
-            const double cond =
-                davies ? pr.pka_ss[i][j] - log10_g1 * (za * za - zb * zb)
-                       : pr.pka_ss[i][j] - std::log10(g[o + j]) + std::log10(g[o + j + 1]);
-            f[j + 1] = f[j] + st.ph - cond;
-        }
+        for (int j = 0; j < steps; ++j)
+            f[j + 1] = f[j] + point.ph_s_s - cond[j];
         const double top = *std::max_element(f.begin(), f.end());
         double sum = 0;
         for (double& x : f) {
@@ -438,7 +447,6 @@ EluentPoint EluentModel::point_species(const double* percent, std::size_t count,
         for (double& x : f)
             x /= sum;
     }
-    return out;
 }
 
 bool EluentModel::estimate_matters(const Prepared& pr, double ph_s_s) const {

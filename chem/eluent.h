@@ -96,6 +96,17 @@ class EluentModel {
                               std::vector<std::vector<double>>& fractions,
                               const EluentPoint* guess = nullptr) const;
 
+    /// point() that also writes each step's s_s pKa′ at the solved point into
+    /// `pka_conditional` (step_count() values, by system as systems() and step; NaN for a
+    /// system absent at this composition), for species_fractions() later.
+    EluentPoint point(const double* percent, std::size_t count, const EluentPoint* guess,
+                      double* pka_conditional) const;
+    /// The acid–base steps of all systems (the length of point()'s pka_conditional).
+    int step_count() const;
+    /// point_species()'s fractions from a point and the pKa′ that point() wrote for it.
+    void species_fractions(const EluentPoint& point, const double* pka_conditional,
+                           std::vector<std::vector<double>>& fractions) const;
+
     /// Organic volume fraction of a composition (before mixing).
     double organic_fraction_v(const double* percent, std::size_t count) const;
 

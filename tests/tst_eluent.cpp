@@ -95,6 +95,7 @@ class TestEluent : public QObject {
     void sequenceCarriesATracePerMethod();
     void traceEqualsTheEluentCommandAtEachPoint();
     void methodsWithOneProgramShareTheirPointsNotTheirTimes();
+    void keptEluentPointsFollowTheLinesAndTheColumn();
 };
 
 // Water at 0–60 °C against IAPWS (Debian's python3-iapws: IAPWS-95 density, R8-97 permittivity,
@@ -490,6 +491,52 @@ void TestEluent::methodsWithOneProgramShareTheirPointsNotTheirTimes() {
     for (const auto& p : shared)
         row_at_21 = row_at_21 || std::abs(p.toObject()["t_min"].toDouble() - 21.5) < 1e-9;
     QVERIFY(row_at_21);
+}
+
+// The app's plan model keeps the solved eluent points between recomputes (EluentMemo). A kept
+// point must never stand in for another eluent: after a change of line A's buffer, of the column
+// temperature or of the library revision, the traces must be those of a run without the memo
+// (the same command's own fresh solve is the reference: an internal consistency check, no
+// outside source), and the unchanged document must reuse its entry.
+void TestEluent::keptEluentPointsFollowTheLinesAndTheColumn() {
+    auto trace = [](const QJsonObject& out) {
+        return out["eluent_trace"].toObject()["m"].toObject()["points"].toArray();
+    };
+    auto same = [&](const QJsonObject& kept, const QJsonObject& fresh) {
+        const QJsonArray a = trace(kept), b = trace(fresh);
+        if (a.size() != b.size() || a.isEmpty())
+            return false;
+        for (qsizetype i = 0; i < a.size(); ++i)
+            for (const char* key : {"ph_s_s", "ph_s_w", "organic_fraction_v"})
+                if (std::abs(a[i].toObject()[key].toDouble() - b[i].toObject()[key].toDouble()) >
+                    1e-9)
+                    return false;
+        return true;
+    };
+    phaseplan::EluentMemo memo;
+    phaseplan::CommandOptions opt;
+    opt.eluent_memo = &memo;
+    const QJsonObject docs[] = {gradient_doc(phosphate_7(), 60, 10, 35),
+                                gradient_doc(acetate_48(), 60, 10, 35),
+                                gradient_doc(acetate_48(), 60, 10, 45)};
+    for (const QJsonObject& doc : docs) {
+        const QJsonObject kept = phaseplan::command_sequence(shipped_data(), doc, opt);
+        const QJsonObject fresh = phaseplan::command_sequence(shipped_data(), doc, {});
+        QVERIFY(same(kept, fresh));
+    }
+    QCOMPARE(memo.entries.size(), std::size_t(3));
+    // The first document again: its entry is reused, and gives the fresh traces.
+    const QJsonObject again = phaseplan::command_sequence(shipped_data(), docs[0], opt);
+    QCOMPARE(memo.entries.size(), std::size_t(3));
+    QVERIFY(same(again, phaseplan::command_sequence(shipped_data(), docs[0], {})));
+    // A new library revision is a new eluent.
+    ++memo.library_revision;
+    phaseplan::command_sequence(shipped_data(), docs[0], opt);
+    QCOMPARE(memo.entries.size(), std::size_t(4));
+    // The acetate line's pH differs from the phosphate line's along the whole gradient: the
+    // comparison above can tell the two eluents apart.
+    QVERIFY(!same(phaseplan::command_sequence(shipped_data(), docs[0], {}),
+                  phaseplan::command_sequence(shipped_data(), docs[1], {})));
 }
 
 QTEST_GUILESS_MAIN(TestEluent)

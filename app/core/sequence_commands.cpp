@@ -67,6 +67,52 @@ std::optional<chem::SequenceRow> plain_row(const QJsonValue& v) {
     return r;
 }
 
+/// The solved eluent points for the check input `c` (lines, column and reagents set): from
+/// options.eluent_memo when an entry matches the eluent's inputs, else new (and kept there).
+std::shared_ptr<chem::EluentPoints> eluent_points_for(const AppData& data,
+                                                      const chem::SequenceCheckInput& c,
+                                                      const CommandOptions& options) {
+    if (!options.eluent_memo)
+        return std::make_shared<chem::EluentPoints>(c);
+    EluentMemo& memo = *options.eluent_memo;
+    // The key: every input of chem::EluentPoints, as bytes.
+    std::string key;
+    auto put = [&key](const auto& v) { key.append(reinterpret_cast<const char*>(&v), sizeof v); };
+    auto put_text = [&](const std::string& t) {
+        put(t.size());
+        key += t;
+    };
+    put(&data);
+    put(memo.library_revision);
+    put(c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0);
+    for (const chem::LineProfile* p : c.profiles) {
+        const bool described = p && p->described;
+        put(described);
+        if (!described)
+            continue;
+        put(p->organic_fraction_v);
+        put(p->solutes.size());
+        for (const chem::Solute& s : p->solutes) {
+            put_text(s.reagent);
+            put(s.mmol_per_l);
+        }
+        put(p->solvent_fraction_v.size());
+        for (const auto& [id, f] : p->solvent_fraction_v) {
+            put_text(id);
+            put(f);
+        }
+    }
+    for (auto& [k, points] : memo.entries)
+        if (k == key)
+            return points;
+    auto points = std::make_shared<chem::EluentPoints>(c);
+    constexpr std::size_t kept = 4; // a document of a few plans
+    if (memo.entries.size() >= kept)
+        memo.entries.erase(memo.entries.begin());
+    memo.entries.emplace_back(std::move(key), points);
+    return points;
+}
+
 PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::string& root,
                     const CommandOptions& options) {
     auto P = [&](const char* key) { return json::path(root, key); };
@@ -251,6 +297,9 @@ PlanResult plan_one(const AppData& data, const QJsonObject& doc, const std::stri
     if (!pressure.empty())
         c.pressure = &pressure;
     c.reagents = &data.reagents;
+    // The traces' eluent solves serve the precipitation check too.
+    const std::shared_ptr<chem::EluentPoints> eluent_points = eluent_points_for(data, c, options);
+    c.eluent_points = eluent_points.get();
     const std::vector<chem::EluentTrace> traces = chem::eluent_traces(c);
     c.traces = &traces;
     const auto checks = chem::check_sequence(c);

@@ -205,6 +205,7 @@ void Plan::setWorkspace(Workspace* w) {
     if (workspace_)
         disconnect(workspace_, nullptr, this, nullptr);
     workspace_ = w;
+    eluent_memo_.entries.clear();
     if (w) {
         connect(w, &Workspace::libraryChanged, this, &Plan::recompute);
         connect(w, &Workspace::connectionRestored, this, &Plan::flushAutosave);
@@ -1227,6 +1228,8 @@ void Plan::recompute() {
             CommandOptions opt;
             const QDate today = workspace_->today();
             opt.clock_words = [today](const QDateTime& t) { return day_clock_text(t, today); };
+            eluent_memo_.library_revision = workspace_->libraryRevision();
+            opt.eluent_memo = &eluent_memo_;
             // The result stays typed: the summary, the bottles and the charts read its fields
             // (writing it as JSON and reading it back by key was most of the recompute).
             out = sequence_result(workspace_->data(), doc_, opt);

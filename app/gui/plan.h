@@ -398,6 +398,9 @@ class Plan : public QObject {
     QVariantMap method_use_;
     QTimer autosave_;
     QTimer recompute_timer_;
+    /// The eluent points of the last recomputes, reused while the lines and the column
+    /// temperature stay (most edits); cleared with a new workspace.
+    EluentMemo eluent_memo_;
     bool dirty_ = false;
 
     FieldError error_;
