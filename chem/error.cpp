@@ -221,4 +221,21 @@ std::string format_measure(double value, MeasureUnit unit) {
     return s;
 }
 
+std::string format_recorded(double value, MeasureUnit unit) {
+    constexpr int max_decimals = 6;
+    int d = measure_decimals(value, unit);
+    // The fewest decimals at or above the rule's that give the value back (to within a
+    // part in 1e9 of the last decimal's step, which absorbs binary representation).
+    while (d < max_decimals) {
+        const double scale = std::pow(10.0, d);
+        if (std::abs(std::round(value * scale) - value * scale) < 1e-6)
+            break;
+        ++d;
+    }
+    std::string s = format_fixed(value, d);
+    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
+        s.erase(0, 1);
+    return s;
+}
+
 } // namespace chem

@@ -169,4 +169,10 @@ int measure_decimals(double value, MeasureUnit unit);
 /// `value` with measure_decimals, "." as the decimal mark, no unit: "0.756", "2.400", "500".
 std::string format_measure(double value, MeasureUnit unit);
 
+/// An amount someone recorded (typed, or read from a balance): with at least measure_decimals,
+/// and with more where the recorded value has them, up to 6 decimals, so a record never shows
+/// fewer digits than were entered nor invents a trailing zero: 1.27 mL reads "1.27" (not
+/// "1.270"), a balance's 2.9813 g reads "2.9813". "." as the decimal mark, no unit.
+std::string format_recorded(double value, MeasureUnit unit);
+
 } // namespace chem

@@ -83,6 +83,17 @@ def fmt_amount(v):  # the sheet's rule: about four significant figures
     return "%.*f" % (d, v)
 
 
+def fmt_recorded(v, unit):  # an actual as recorded: the rule's decimals, more if entered
+    a = abs(v)
+    if unit == "g":
+        d = 4 if a < 1 else 3 if a < 100 else 2
+    else:
+        d = 3 if a < 1 else 2 if a < 10 else 1 if a < 100 else 0
+    while d < 6 and abs(round(v * 10**d) - v * 10**d) >= 1e-6:
+        d += 1
+    return "%.*f" % (d, v)
+
+
 def fmt_mmol(mol_per_l):
     return "%.2f mmol/L" % (mol_per_l * 1000)
 
@@ -195,10 +206,10 @@ for comp in recipe["composition"]:
 check(fmt_amount(items[salt]["mass_g"] * 0.98) + "–" + fmt_amount(items[salt]["mass_g"] * 1.02) in flat,
       "salt tolerance band ± 2 %")
 # Actual amounts and their flags.
-check(re.search(re.escape(fmt_amount(salt_actual)) + r" g typed SP-2207 OUT \+2\.5 %", flat) is not None,
-      "salt actual %s g, typed, lot, flagged OUT +2.5 %%" % fmt_amount(salt_actual))
-check(re.search(re.escape(fmt_amount(acid_actual)) + r" mL typed PA-88121 OK \+0\.[45] %", flat) is not None,
-      "acid actual %s mL, typed, lot, within tolerance: OK" % fmt_amount(acid_actual))
+check(re.search(re.escape(fmt_recorded(salt_actual, "g")) + r" g typed SP-2207 OUT \+2\.5 %", flat) is not None,
+      "salt actual %s g, typed, lot, flagged OUT +2.5 %%" % fmt_recorded(salt_actual, "g"))
+check(re.search(re.escape(fmt_recorded(acid_actual, "mL")) + r" mL typed PA-88121 OK \+0\.[45] %", flat) is not None,
+      "acid actual %s mL, typed, lot, within tolerance: OK" % fmt_recorded(acid_actual, "mL"))
 # Predicted as planned: the `recipe` subcommand's numbers.
 check("%.2f" % recipe["ph"] in flat, "planned pH %.2f" % recipe["ph"])
 check(fmt_mmol(recipe["ionic_strength_mol_per_l"]) in flat, "planned ionic strength " + fmt_mmol(recipe["ionic_strength_mol_per_l"]))

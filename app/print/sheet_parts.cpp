@@ -159,7 +159,9 @@ QString band_text(const chem::AmountCheck& c, const chem::Batch& b) {
 QString actual_text(const chem::AmountCheck& c, const QJsonObject& captures) {
     if (!c.entered)
         return QString();
-    return format_amount(c.actual) + " " + qs(c.unit) + "\n" +
+    // As recorded: the digits entered, never fewer than the target's (chem::format_recorded).
+    const auto unit = c.unit == "g" ? chem::MeasureUnit::g : chem::MeasureUnit::ml;
+    return qs(chem::format_recorded(c.actual, unit)) + " " + qs(c.unit) + "\n" +
            capture_source_text(captures.value(qs(c.reagent)).toObject());
 }
 

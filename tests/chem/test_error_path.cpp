@@ -162,3 +162,16 @@ TEST(MeasureText, AValueRoundedUpToABoundaryTakesTheNextResolution) {
     EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::g), 4);
     EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::ml), 3);
 }
+
+// A recorded amount keeps the digits entered and never shows fewer than the target's rule
+// (common practice, no source: a batch record shows what was weighed as it was read).
+TEST(MeasureText, ARecordedAmountKeepsItsDigits) {
+    using chem::MeasureUnit;
+    EXPECT_EQ(chem::format_recorded(1.27, MeasureUnit::ml), "1.27");    // not "1.270"
+    EXPECT_EQ(chem::format_recorded(2.9813, MeasureUnit::g), "2.9813"); // 0.1 mg balance
+    EXPECT_EQ(chem::format_recorded(2.981, MeasureUnit::g), "2.981");
+    EXPECT_EQ(chem::format_recorded(2.98, MeasureUnit::g), "2.980");       // the rule's 1 mg
+    EXPECT_EQ(chem::format_recorded(0.1 + 0.2, MeasureUnit::ml), "0.300"); // binary noise
+    EXPECT_EQ(chem::format_recorded(1.0 / 3.0, MeasureUnit::g), "0.333333");
+    EXPECT_EQ(chem::format_recorded(500, MeasureUnit::ml), "500");
+}

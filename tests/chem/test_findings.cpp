@@ -121,6 +121,8 @@ class Findings : public ::testing::Test {
             return "standby";
         case Subject::Kind::reagent:
         case Subject::Kind::system:
+        case Subject::Kind::device:
+        case Subject::Kind::batch:
             return f.subject.id;
         case Subject::Kind::none:
             return "";
