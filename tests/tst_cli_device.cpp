@@ -1,6 +1,8 @@
 // `phaseplan-cli device read` as a lab's script runs it, against instruments played by
 // pseudo-terminals: one JSON reading on success; on any failure status 2, nothing on stdout and
-// one stderr line "phaseplan-cli: <field>: <message>". Line shapes: common practice, no source.
+// one stderr line: "phaseplan-cli: <field>: <message>" for a wrong option or reading,
+// "phaseplan-cli: device: <sentence naming the port>" when the port or the instrument fails
+// (README, Instruments). Line shapes: common practice, no source.
 #include "devices/serial_reader.h"
 #include "fake_instrument.h"
 #include "test_support.h"
@@ -109,14 +111,14 @@ class TestCliDevice : public QObject {
             << "no line end";
         QTest::newRow("no match") << QByteArray("READY\r\n") << QStringList{} << "reading"
                                   << "does not match";
-        QTest::newRow("timeout") << QByteArray() << QStringList{"--timeout-s", "0.3"} << "port"
+        QTest::newRow("timeout") << QByteArray() << QStringList{"--timeout-s", "0.3"} << "device"
                                  << "within 0.3 s";
         QTest::newRow("timeout, only unsettled")
             << QByteArray("S D 3.1598 g\r\n") << QStringList{"--timeout-s", "0.3", "--stable-only"}
-            << "port"
+            << "device"
             << "no stable reading";
         QTest::newRow("timeout, half a line")
-            << QByteArray("S S 3.16") << QStringList{"--timeout-s", "0.3"} << "port"
+            << QByteArray("S S 3.16") << QStringList{"--timeout-s", "0.3"} << "device"
             << "received \"S S 3.16\"";
     }
     void faultsExitTwoWithOneLine() {
@@ -139,12 +141,12 @@ class TestCliDevice : public QObject {
         QTest::newRow("missing port")
             << QStringList{"device",   "read",       "--port", "/dev/phaseplan-no-such-port",
                            "--format", "number-unit"}
-            << "port"
-            << "does not exist";
+            << "device"
+            << "/dev/phaseplan-no-such-port does not exist";
         QTest::newRow("not a serial port")
             << QStringList{"device", "read", "--port", "/dev/null", "--format", "number-unit"}
-            << "port"
-            << "serial port";
+            << "device"
+            << "/dev/null cannot be opened as a serial port";
         QTest::newRow("no port") << QStringList{"device", "read", "--format", "number-unit"}
                                  << "port"
                                  << "--port";
@@ -198,8 +200,8 @@ class TestCliDevice : public QObject {
         phaseplan::devices::PortSettings p;
         p.port = bal.path();
         holder.open(p);
-        verify_rejected(run_cli(read_args(bal, "number-unit")), "port",
-                        "in use by another program");
+        verify_rejected(run_cli(read_args(bal, "number-unit")), "device",
+                        bal.path() + " is in use by another program");
     }
 
     void instrumentGoneMidLine() {
@@ -223,7 +225,7 @@ class TestCliDevice : public QObject {
         r.exit_code = cli.exitCode();
         r.out = cli.readAllStandardOutput();
         r.err = cli.readAllStandardError();
-        verify_rejected(r, "port", "went away");
+        verify_rejected(r, "device", "the instrument on " + bal.path() + " went away");
         QVERIFY2(r.err.contains("received \"S S   3.16\""), r.err.constData());
     }
 

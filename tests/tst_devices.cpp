@@ -15,6 +15,7 @@
 #include <QtTest>
 
 #include <thread>
+#include <type_traits>
 
 using namespace phaseplan::devices;
 using phaseplan::testing::FakeInstrument;
@@ -40,12 +41,29 @@ PortSettings port_of(const FakeInstrument& inst) {
     return p;
 }
 
-/// The fault a call throws, or nullopt when it throws none.
+/// The input error a call throws (a setting, the format, the reading), or nullopt when it throws
+/// none or a port failure instead (said, so that the check of the caller fails with a reason).
 template <class F> std::optional<DeviceError> fault_of(F&& f) {
     try {
         f();
     } catch (const DeviceError& e) {
         return e;
+    } catch (const DeviceFailure& e) {
+        qWarning("a port failure where an input error was expected: %s", e.what());
+    }
+    return std::nullopt;
+}
+
+/// The port or instrument failure a call throws, or nullopt when it throws none or an input error
+/// instead (said, as above).
+template <class F> std::optional<DeviceFailure> failure_of(F&& f) {
+    try {
+        f();
+    } catch (const DeviceFailure& e) {
+        return e;
+    } catch (const chem::Error& e) {
+        qWarning("an input error where a port failure was expected: %s: %s", e.field().c_str(),
+                 e.message().c_str());
     }
     return std::nullopt;
 }
@@ -375,9 +393,9 @@ class TestDevices : public QObject {
         reader.open(port_of(bal));
         QVERIFY(bal.send("S S   3.1"));
         // The first half alone is no reading: the wait ends without one and keeps the half.
-        auto e = fault_of([&] { reader.next_line(200); });
+        auto e = failure_of([&] { reader.next_line(200); });
         QVERIFY(e && e->fault() == Fault::timeout);
-        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.1\""),
+        QVERIFY2(QString::fromStdString(e->sentence()).contains("received \"S S   3.1\""),
                  e->what());
         QVERIFY(bal.send("610 g\r\n"));
         QCOMPARE(reader.next_line(2000), QByteArray("S S   3.1610 g"));
@@ -405,9 +423,19 @@ class TestDevices : public QObject {
         SerialReader reader;
         PortSettings p;
         p.port = QStringLiteral("/dev/phaseplan-no-such-port");
-        const auto e = fault_of([&] { reader.open(p); });
-        QVERIFY(e && e->fault() == Fault::port_missing && e->field() == "port");
-        QVERIFY(QString::fromStdString(e->message()).contains("/dev/phaseplan-no-such-port"));
+        const auto e = failure_of([&] { reader.open(p); });
+        QVERIFY(e && e->fault() == Fault::port_missing && e->port() == p.port.toStdString());
+        // The command-line tool's line names the device and the port as given.
+        QVERIFY2(e->line().rfind("device: /dev/phaseplan-no-such-port does not exist", 0) == 0,
+                 e->what());
+        // A bare name (looked up under /dev) is said as typed, then as the device file.
+        p.port = QStringLiteral("phaseplan-no-such-port");
+        const auto bare = failure_of([&] { reader.open(p); });
+        QVERIFY(bare && bare->port() == "phaseplan-no-such-port");
+        QVERIFY2(QString::fromStdString(bare->sentence())
+                     .startsWith("phaseplan-no-such-port (/dev/phaseplan-no-such-port) does not "
+                                 "exist"),
+                 bare->what());
     }
 
     void portBusy() {
@@ -415,10 +443,10 @@ class TestDevices : public QObject {
         SerialReader first;
         first.open(port_of(bal));
         SerialReader second;
-        const auto e = fault_of([&] { second.open(port_of(bal)); });
+        const auto e = failure_of([&] { second.open(port_of(bal)); });
         QVERIFY(e);
         QCOMPARE(int(e->fault()), int(Fault::port_busy));
-        QVERIFY(QString::fromStdString(e->message()).contains("in use"));
+        QVERIFY(QString::fromStdString(e->sentence()).contains(bal.path() + " is in use"));
         // The first holder still reads.
         QVERIFY(bal.send("S S 5.0000 g\r\n"));
         QCOMPARE(
@@ -431,8 +459,10 @@ class TestDevices : public QObject {
         SerialReader reader;
         PortSettings p;
         p.port = QStringLiteral("/dev/null");
-        const auto e = fault_of([&] { reader.open(p); });
+        const auto e = failure_of([&] { reader.open(p); });
         QVERIFY(e && e->fault() == Fault::port_failed);
+        QVERIFY2(QString::fromStdString(e->sentence()).startsWith("/dev/null cannot be opened"),
+                 e->what());
     }
 
     void badSettingsNameTheField() {
@@ -458,16 +488,19 @@ class TestDevices : public QObject {
                 .value,
             1.0);
         bal.unplug();
-        const auto e = fault_of([&] {
+        const auto e = failure_of([&] {
             reader.next_reading(preset("flag-number-unit"), formats(), {2000, false, grams(), {}});
         });
         QVERIFY(e);
         QCOMPARE(int(e->fault()), int(Fault::disconnected));
-        QCOMPARE(e->field(), std::string("port"));
-        QVERIFY2(QString::fromStdString(e->message()).contains("received \"S S   3.16\""),
+        QCOMPARE(e->port(), bal.path().toStdString());
+        QVERIFY2(QString::fromStdString(e->sentence())
+                     .startsWith("the instrument on " + bal.path() + " went away"),
+                 e->what());
+        QVERIFY2(QString::fromStdString(e->sentence()).contains("received \"S S   3.16\""),
                  e->what());
         // It stays gone: no half-line is ever turned into a reading.
-        const auto again = fault_of([&] { reader.next_line(500); });
+        const auto again = failure_of([&] { reader.next_line(500); });
         QVERIFY(again && again->fault() == Fault::disconnected);
     }
 
@@ -482,9 +515,9 @@ class TestDevices : public QObject {
         bal.unplug();
         QCOMPARE(reader.next_reading(preset("flag-number-unit"), formats(), o).value, 2.6);
         const auto e =
-            fault_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
+            failure_of([&] { reader.next_reading(preset("flag-number-unit"), formats(), o); });
         QVERIFY(e && e->fault() == Fault::disconnected);
-        QVERIFY2(QString::fromStdString(e->message()).contains("nothing of a line received"),
+        QVERIFY2(QString::fromStdString(e->sentence()).contains("nothing of a line received"),
                  e->what());
     }
 
@@ -528,12 +561,59 @@ class TestDevices : public QObject {
         FakeInstrument bal;
         SerialReader reader;
         reader.open(port_of(bal));
-        const auto e = fault_of([&] {
+        const auto e = failure_of([&] {
             reader.next_reading(preset("flag-number-unit"), formats(), {300, true, grams(), {}});
         });
-        QVERIFY(e && e->fault() == Fault::timeout && e->field() == "port");
-        QVERIFY2(QString::fromStdString(e->message()).contains("no stable reading"), e->what());
-        QVERIFY2(QString::fromStdString(e->message()).contains("0.3 s"), e->what());
+        QVERIFY(e && e->fault() == Fault::timeout && e->port() == bal.path().toStdString());
+        QVERIFY2(QString::fromStdString(e->sentence())
+                     .startsWith("no stable reading from " + bal.path() + " within 0.3 s"),
+                 e->what());
+    }
+
+    // The split of issue 10 ("a separate app error covers failures that are not about input"):
+    // a timeout is the instrument's silence, not a wrong input, so it must come as a
+    // phaseplan::Failure of Kind::device and never as a chem::Error naming a field. This fails
+    // if a timeout is thrown as an input error again.
+    void timeoutIsAFailureNotAnInputError() {
+        static_assert(!std::is_base_of_v<chem::Error, DeviceFailure>);
+        static_assert(std::is_base_of_v<phaseplan::Failure, DeviceFailure>);
+        FakeInstrument bal;
+        SerialReader reader;
+        reader.open(port_of(bal));
+        bool failure = false;
+        try {
+            reader.next_reading(preset("flag-number-unit"), formats(), {200, false, grams(), {}});
+        } catch (const chem::Error& e) {
+            QFAIL(qPrintable(
+                QStringLiteral("a timeout reported as an input error: %1: %2")
+                    .arg(QString::fromStdString(e.field()), QString::fromStdString(e.message()))));
+        } catch (const phaseplan::Failure& f) {
+            failure = true;
+            QCOMPARE(int(f.kind()), int(phaseplan::Failure::Kind::device));
+            QCOMPARE(f.subject(), "device");
+            const auto* df = dynamic_cast<const DeviceFailure*>(&f);
+            QVERIFY(df);
+            QCOMPARE(int(df->fault()), int(Fault::timeout));
+            QCOMPARE(QString(fault_code(df->fault())), QString("timeout"));
+            QVERIFY2(QString::fromStdString(f.line()).startsWith("device: no reading from " +
+                                                                 bal.path() + " within 0.2 s"),
+                     f.what());
+        }
+        QVERIFY(failure);
+    }
+
+    // Which faults are the port's (a Failure) and which are about what was given or read (an
+    // input error): the README's fault table, Instruments section (this project's contract).
+    void portFaultsAreTheFailures() {
+        const Fault port[] = {Fault::port_missing, Fault::port_busy, Fault::port_failed,
+                              Fault::disconnected, Fault::timeout};
+        const Fault input[] = {Fault::garbage,    Fault::no_match,   Fault::out_of_range,
+                               Fault::negative,   Fault::wrong_unit, Fault::bad_format,
+                               Fault::bad_setting};
+        for (Fault f : port)
+            QVERIFY2(is_port_fault(f), fault_code(f));
+        for (Fault f : input)
+            QVERIFY2(!is_port_fault(f), fault_code(f));
     }
 
     void burstOfAThousandReadings() {
@@ -581,7 +661,7 @@ class TestDevices : public QObject {
                                      .arg(expected)));
         }
         // Nothing more is waiting: no reading was duplicated.
-        const auto e = fault_of([&] { reader.next_line(200); });
+        const auto e = failure_of([&] { reader.next_line(200); });
         QVERIFY(e && e->fault() == Fault::timeout);
     }
 

@@ -196,9 +196,22 @@ class TestGuiDeviceCapture : public QObject {
         QVERIFY(capture_->takeFromBalance("batch.actual[0].mass_g"));
         QVERIFY(balance_->send("S D      3.1598 g\r\n"));
         QVERIFY(failed.wait(5000));
+        // The port failure (a DeviceFailure, not an input error) is still said beside the field
+        // it was for, with the instrument and the port, and keeps its kind for the screen.
+        QCOMPARE(capture_->errorField(), QString("batch.actual[0].mass_g"));
         QCOMPARE(capture_->errorFault(), QString("timeout"));
-        QVERIFY(capture_->errorMessage().contains("no stable reading"));
+        QVERIFY2(capture_->errorMessage().startsWith("balance BAL-03: no stable reading from " +
+                                                     balance_->path() + " within 0.3 s"),
+                 qPrintable(capture_->errorMessage()));
         QVERIFY(capture_->lastCapture().isEmpty());
+        // Trying again after the timeout takes the next stable reading and clears the fault.
+        QSignalSpy captured(capture_.get(), &DeviceCapture::captured);
+        capture_->setTimeoutS(5);
+        QVERIFY(capture_->takeFromBalance("batch.actual[0].mass_g"));
+        QVERIFY(capture_->errorFault().isEmpty());
+        QVERIFY(balance_->send("S S      3.1610 g\r\n"));
+        QVERIFY(captured.wait(5000));
+        QCOMPARE(capture_->lastCapture()["value"].toDouble(), 3.161);
     }
 
     void portMissingOrBusy() {
@@ -209,6 +222,8 @@ class TestGuiDeviceCapture : public QObject {
             QSKIP("this machine has a /dev/ttyUSB2");
         QVERIFY(!capture_->takeFromBalance("batch.actual[0].mass_g"));
         QCOMPARE(capture_->errorFault(), QString("port-missing"));
+        QVERIFY2(capture_->errorMessage().startsWith("balance BAL-05: /dev/ttyUSB2 does not exist"),
+                 qPrintable(capture_->errorMessage()));
         QCOMPARE(failed.count(), 1);
         capture_->setBalanceId("BAL-03");
         phaseplan::devices::SerialReader holder;

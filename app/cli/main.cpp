@@ -148,7 +148,8 @@ void qt_message(QtMsgType type, const QMessageLogContext&, const QString& msg) {
 }
 
 /// `phaseplan-cli device …`: flags instead of a JSON document; every failure is status 2 and one
-/// line, the instrument's faults included (app/devices/device_cli.h).
+/// line: "field: …" for a wrong option or reading, "device: …" for the port or the instrument
+/// failing (a DeviceFailure, app/devices/device_cli.h).
 int run_device(int argc, char** argv) {
     QCoreApplication app(argc, argv);
     QStringList args;
@@ -174,7 +175,7 @@ int run_device(int argc, char** argv) {
         fail(e.what());
         return 2;
     } catch (const phaseplan::Failure& f) {
-        fail(f.line());
+        fail(f.line()); // the port or the instrument: status 2, as every device failure
         return 2;
     } catch (const std::exception& e) {
         fail(std::string("internal error: ") + e.what());

@@ -20,7 +20,8 @@ class Failure : public std::runtime_error {
         connection_lost, ///< the lab server's connection went away (the app retries every 5 s)
         printer,         ///< no printer, an unknown or unusable one
         file,            ///< a PDF (sheet, labels) could not be written where asked
-        device,          ///< an instrument's port (missing, busy, unusable)
+        device,          ///< an instrument or its port (missing, busy, unusable, gone, silent:
+                         ///< devices::DeviceFailure)
     };
 
     Failure(Kind kind, std::string sentence)

@@ -6,9 +6,11 @@
 //       waits for one reading and returns {value, unit, stable, raw, …} (Reading::to_json);
 //   device formats
 //       the presets of data/device_formats.json.
-// Every failure throws chem::Error (a DeviceError for the instrument's faults) whose field is the
-// option at fault without its dashes ("port", "format", "baud", "timeout_s") or the reading's
-// ("reading", "unit"); phaseplan-cli prints it as its one error line and exits with status 2.
+// A wrong option or reading throws chem::Error (a DeviceError for the instrument's faults) whose
+// field is the option at fault without its dashes ("port", "format", "baud", "timeout_s") or the
+// reading's ("reading", "unit"). The port or the instrument failing (no such port, busy, gone,
+// nothing in time) throws a DeviceFailure, whose line is "device: <sentence naming the port>".
+// phaseplan-cli prints either as its one error line and exits with status 2.
 #include <QJsonObject>
 #include <QString>
 #include <QStringList>

@@ -32,4 +32,17 @@ const char* fault_code(Fault fault) {
     return "unknown";
 }
 
+bool is_port_fault(Fault fault) noexcept {
+    switch (fault) {
+    case Fault::port_missing:
+    case Fault::port_busy:
+    case Fault::port_failed:
+    case Fault::disconnected:
+    case Fault::timeout:
+        return true;
+    default:
+        return false;
+    }
+}
+
 } // namespace phaseplan::devices

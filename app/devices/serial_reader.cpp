@@ -42,6 +42,16 @@ QSerialPort::FlowControl flow_of(const QString& s) {
     return QSerialPort::NoFlowControl;
 }
 
+/// The port in the user's words: as given, with the device file after a bare name
+/// ("ttyUSB0 (/dev/ttyUSB0)").
+std::string port_words(const PortSettings& settings) {
+    const QString path = settings.system_path();
+    const QString given = settings.port.trimmed();
+    if (given.isEmpty() || given == path)
+        return path.toStdString();
+    return given.toStdString() + " (" + path.toStdString() + ")";
+}
+
 std::string received_so_far(const QByteArray& pending) {
     return pending.isEmpty() ? std::string("nothing of a line received")
                              : "received " + quote_line(pending) + " of a line";
@@ -142,10 +152,12 @@ void SerialReader::close() {
 void open_port(QSerialPort& port, const PortSettings& settings) {
     settings.validate();
     const QString path = settings.system_path();
-    const std::string shown = path.toStdString();
+    const std::string shown = port_words(settings);
+    const std::string given = settings.port.toStdString();
     if (!QFileInfo::exists(path))
-        throw DeviceError(Fault::port_missing, "port",
-                          shown + " does not exist: is the instrument connected and switched on?");
+        throw DeviceFailure(Fault::port_missing, given,
+                            shown +
+                                " does not exist: is the instrument connected and switched on?");
     port.setPortName(path);
     port.setBaudRate(settings.baud);
     port.setDataBits(static_cast<QSerialPort::DataBits>(settings.data_bits));
@@ -158,43 +170,47 @@ void open_port(QSerialPort& port, const PortSettings& settings) {
     const QSerialPort::SerialPortError err = port.error();
     const std::string why = port.errorString().toStdString();
     if (err == QSerialPort::DeviceNotFoundError)
-        throw DeviceError(Fault::port_missing, "port",
-                          shown + " does not exist: is the instrument connected and switched on?");
+        throw DeviceFailure(Fault::port_missing, given,
+                            shown +
+                                " does not exist: is the instrument connected and switched on?");
     if (err == QSerialPort::PermissionError) {
         // The lock file or TIOCEXCL of another program, or no rights on the device file.
         if (::access(path.toLocal8Bit().constData(), R_OK) == 0)
-            throw DeviceError(Fault::port_busy, "port",
-                              shown + " is in use by another program: close it and try again");
-        throw DeviceError(Fault::port_failed, "port",
-                          "no permission to read " + shown +
-                              " (is the user in the dialout group?)");
+            throw DeviceFailure(Fault::port_busy, given,
+                                shown + " is in use by another program: close it and try again");
+        throw DeviceFailure(Fault::port_failed, given,
+                            "no permission to read " + shown +
+                                " (is the user in the dialout group?)");
     }
-    throw DeviceError(
-        Fault::port_failed, "port",
+    throw DeviceFailure(
+        Fault::port_failed, given,
         shown + " cannot be opened as a serial port" +
             (err == QSerialPort::NoError ? std::string(" (not a terminal device?)") : ": " + why));
 }
 
-DeviceError port_fault(const QSerialPort& port, const PortSettings& settings,
-                       const QByteArray& pending) {
+DeviceFailure port_fault(const QSerialPort& port, const PortSettings& settings,
+                         const QByteArray& pending) {
     const QSerialPort::SerialPortError err = port.error();
-    const std::string shown = settings.system_path().toStdString();
+    const std::string shown = port_words(settings);
+    const std::string given = settings.port.toStdString();
     if (err == QSerialPort::ResourceError || err == QSerialPort::ReadError ||
         err == QSerialPort::DeviceNotFoundError)
-        return DeviceError(Fault::disconnected, "port",
-                           "the instrument on " + shown + " went away (" +
-                               received_so_far(pending) + "): check the cable and the instrument");
-    return DeviceError(Fault::port_failed, "port", shown + ": " + port.errorString().toStdString());
+        return DeviceFailure(Fault::disconnected, given,
+                             "the instrument on " + shown + " went away (" +
+                                 received_so_far(pending) +
+                                 "): check the cable and the instrument");
+    return DeviceFailure(Fault::port_failed, given,
+                         shown + ": " + port.errorString().toStdString());
 }
 
-DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
-                          const QByteArray& pending) {
-    return DeviceError(Fault::timeout, "port",
-                       "no " + std::string(stable_only ? "stable " : "") + "reading from " +
-                           settings.system_path().toStdString() + " within " +
-                           chem::format_number(timeout_ms / 1000.0) + " s (" +
-                           received_so_far(pending) +
-                           "): press the print key, or check the cable, baud rate and line end");
+DeviceFailure timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
+                            const QByteArray& pending) {
+    return DeviceFailure(Fault::timeout, settings.port.toStdString(),
+                         "no " + std::string(stable_only ? "stable " : "") + "reading from " +
+                             port_words(settings) + " within " +
+                             chem::format_number(timeout_ms / 1000.0) + " s (" +
+                             received_so_far(pending) +
+                             "): press the print key, or check the cable, baud rate and line end");
 }
 
 void SerialReader::open(const PortSettings& settings) {
@@ -207,7 +223,8 @@ void SerialReader::open(const PortSettings& settings) {
 
 QByteArray SerialReader::next_line(int timeout_ms) {
     if (!port_)
-        throw DeviceError(Fault::port_failed, "port", "the port is not open");
+        throw DeviceFailure(Fault::port_failed, settings_.port.toStdString(),
+                            "the port is not open");
     QDeadlineTimer deadline(timeout_ms);
     for (;;) {
         if (auto line = lines_.take_line())
@@ -248,7 +265,7 @@ Reading SerialReader::next_reading(const LineFormat& format, const FormatLibrary
         QByteArray line;
         try {
             line = next_line(static_cast<int>(std::max<qint64>(0, left)));
-        } catch (const DeviceError& e) {
+        } catch (const DeviceFailure& e) {
             // The message should name the whole wait, not what was left of it.
             if (e.fault() != Fault::timeout)
                 throw;

@@ -5,7 +5,8 @@
 // empty lines are skipped, a line split across reads is joined, and when two lines arrive in one
 // read the first is taken first (the second waits for the next call). SerialReader opens the port
 // with the record's settings and blocks until one complete line (or reading) arrives; every
-// failure is a DeviceError with its Fault. Nothing here keeps or replaces a value: the caller's
+// failure is a DeviceError (a setting, the reading) or a DeviceFailure (the port, the
+// instrument) with its Fault. Nothing here keeps or replaces a value: the caller's
 // field keeps its previous value whenever a call throws.
 #include "devices/line_format.h"
 
@@ -35,19 +36,19 @@ struct PortSettings {
     void validate(const std::string& parent = {}) const;
 };
 
-/// Applies the settings to `port` and opens it read-only. Throws DeviceError: port_missing,
-/// port_busy, port_failed (field "port"), bad_setting (field "baud", "data_bits", …). Used by
+/// Applies the settings to `port` and opens it read-only. Throws DeviceFailure: port_missing,
+/// port_busy, port_failed; DeviceError: bad_setting (field "port", "baud", "data_bits", …). Used by
 /// SerialReader (blocking) and by the app's DeviceCapture (signals).
 void open_port(QSerialPort& port, const PortSettings& settings);
 
 /// The fault when the port reports `error` while a line was being received (`pending`: the part
 /// of a line received so far). Disconnection for a resource, read or not-found error.
-DeviceError port_fault(const QSerialPort& port, const PortSettings& settings,
-                       const QByteArray& pending);
+DeviceFailure port_fault(const QSerialPort& port, const PortSettings& settings,
+                         const QByteArray& pending);
 
 /// The timeout fault after `timeout_ms` of waiting.
-DeviceError timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
-                          const QByteArray& pending);
+DeviceFailure timeout_fault(const PortSettings& settings, int timeout_ms, bool stable_only,
+                            const QByteArray& pending);
 
 class LineAssembler {
   public:
@@ -86,15 +87,15 @@ class SerialReader {
     SerialReader(const SerialReader&) = delete;
     SerialReader& operator=(const SerialReader&) = delete;
 
-    /// Opens the port read-only. Throws DeviceError: port_missing, port_busy, port_failed
-    /// (field "port"), bad_setting (field "baud", "data_bits", …).
+    /// Opens the port read-only. Throws DeviceFailure: port_missing, port_busy, port_failed;
+    /// DeviceError: bad_setting (field "port", "baud", "data_bits", …).
     void open(const PortSettings& settings);
     void close();
     bool is_open() const;
 
-    /// Blocks until one complete line arrives. Throws DeviceError: timeout (field "port", with
-    /// the part of a line received so far), disconnected (field "port": the instrument went away,
-    /// with the part of a line received), garbage (field "reading", no line end).
+    /// Blocks until one complete line arrives. Throws DeviceFailure: timeout (with the part of a
+    /// line received so far), disconnected (the instrument went away, with the part of a line
+    /// received); DeviceError: garbage (field "reading", no line end).
     QByteArray next_line(int timeout_ms);
     /// next_line, read with the format (parse_line's faults). With stable_only, an unstable
     /// reading is reported through on_unstable and the wait goes on.

@@ -218,6 +218,9 @@ bool DeviceCapture::start(DeviceKind kind, const QString& id, const QString& tar
     } catch (const chem::Error& e) {
         fail(e);
         return false;
+    } catch (const devices::DeviceFailure& f) {
+        fail(f);
+        return false;
     }
     connect(port_.get(), &QSerialPort::readyRead, this, &DeviceCapture::on_ready_read);
     connect(port_.get(), &QSerialPort::errorOccurred, this, [this](QSerialPort::SerialPortError e) {
@@ -346,17 +349,25 @@ void DeviceCapture::finish(const devices::Reading& r, bool accepted_unstable) {
 }
 
 void DeviceCapture::fail(const chem::Error& e) {
-    stop();
     const auto* de = dynamic_cast<const devices::DeviceError*>(&e);
+    // "no-device": no instrument of that kind is set up (or the chosen id is gone).
+    show_fault(e.message(),
+               de ? QLatin1String(devices::fault_code(de->fault())) : QStringLiteral("no-device"));
+}
+
+void DeviceCapture::fail(const devices::DeviceFailure& f) {
+    show_fault(f.sentence(), QLatin1String(devices::fault_code(f.fault())));
+}
+
+void DeviceCapture::show_fault(const std::string& message, const QString& fault) {
+    stop();
     const QString who = device_.id.isEmpty() ? QString()
                                              : kind_words(device_.kind) + QLatin1Char(' ') +
                                                    device_.id + QStringLiteral(": ");
-    const QString message = who + QString::fromStdString(e.message());
-    // "no-device": no instrument of that kind is set up (or the chosen id is gone).
-    set_error(target_, message,
-              de ? QLatin1String(devices::fault_code(de->fault())) : QStringLiteral("no-device"));
+    const QString shown = who + QString::fromStdString(message);
+    set_error(target_, shown, fault);
     emit stateChanged();
-    emit failed(target_, message);
+    emit failed(target_, shown);
 }
 
 void DeviceCapture::set_error(const QString& field, const QString& message, const QString& fault) {

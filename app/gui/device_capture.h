@@ -9,7 +9,9 @@
 //                      calibrationCaution ("" or the caution's message), record}
 //                  record = the same in the snake_case of the batch contract:
 //                      {device_id, device_kind, raw, received_at, stable, accepted_unstable}
-//   → failed(target, message)  errorField = target, errorMessage, errorFault ("timeout", …)
+//   → failed(target, message)  errorField = target, errorMessage, errorFault ("timeout", …): a
+//                  DeviceFailure (port, instrument) or a DeviceError (setting, reading), both
+//                  said beside the target field with the instrument's kind and id
 //   While waiting, an unsettled reading is shown (`unstable`, unstableSeen) but not taken;
 //   acceptUnstable() takes it, recorded as acceptedUnstable = true. cancel() stops the wait.
 // The value the caller shows is never touched here: on a fault nothing is captured and
@@ -127,7 +129,13 @@ class DeviceCapture : public QObject {
     void on_port_error();
     void on_timeout();
     void finish(const devices::Reading& r, bool accepted_unstable);
+    /// A setting, the line format or the reading is wrong (a DeviceError), or no instrument is
+    /// set up ("no-device").
     void fail(const chem::Error& e);
+    /// The port or the instrument failed (the Failure's fault code: "timeout", "port-missing", …).
+    void fail(const devices::DeviceFailure& f);
+    /// Both shown the same way: beside the target field, after the instrument's kind and id.
+    void show_fault(const std::string& message, const QString& fault);
     void stop();
     void set_error(const QString& field, const QString& message, const QString& fault);
     QDate today() const;
