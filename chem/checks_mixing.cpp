@@ -276,39 +276,36 @@ class SpeciesSource {
             forms = forms || (p[l] > 0 && forms_line_[l]);
         if (!forms)
             return nullptr;
-        std::array<long long, max_lines> key{};
-        for (int l = 0; l < max_lines; ++l)
-            key[l] = std::llround(p[l] * 1e6);
-        auto it = cache_.find(key);
-        if (it == cache_.end()) {
-            if (!points_) {
-                SequenceCheckInput at_t = c_;
-                if (!at_t.column)
-                    at_t.column.emplace();
-                at_t.column->temperature_c = temperature_c_;
-                own_ = std::make_unique<EluentPoints>(at_t);
-                points_ = own_.get();
-            }
-            std::optional<SpeciesShares> sp;
-            if (points_->model()) {
-                try {
-                    // The pH solve of the eluent trace (EluentModel::point), with the species;
-                    // from the last point solved when new (the check walks the gradient).
-                    const EluentPoint& pt = points_->species(p, fractions_);
-                    sp.emplace();
-                    sp->ph_s_s = pt.ph_s_s;
-                    const auto& systems = points_->model()->systems();
-                    for (std::size_t i = 0; i < systems.size() && i < fractions_.size(); ++i)
-                        if (!fractions_[i].empty())
-                            sp->fractions[systems[i]->id] = fractions_[i];
-                } catch (const Error&) {
-                    // An eluent that cannot be solved: no speciation here (conservative count).
-                    sp.reset();
-                }
-            }
-            it = cache_.emplace(key, std::move(sp)).first;
+        // No cache of its own: check_precipitation asks once per composition (its loads_at).
+        if (!points_) {
+            SequenceCheckInput at_t = c_;
+            if (!at_t.column)
+                at_t.column.emplace();
+            at_t.column->temperature_c = temperature_c_;
+            own_ = std::make_unique<EluentPoints>(at_t);
+            points_ = own_.get();
         }
-        return it->second ? &*it->second : nullptr;
+        if (!points_->model())
+            return nullptr;
+        try {
+            // The pH solve of the eluent trace (EluentModel::point), with the species; from the
+            // last point solved when new (the check walks the gradient).
+            const EluentPoint& pt = points_->species(p, fractions_);
+            // The same systems at every point: each entry is overwritten or erased, so the map's
+            // nodes and vectors are reused from the last point.
+            current_.ph_s_s = pt.ph_s_s;
+            const auto& systems = points_->model()->systems();
+            for (std::size_t i = 0; i < systems.size(); ++i) {
+                if (i < fractions_.size() && !fractions_[i].empty())
+                    current_.fractions[systems[i]->id] = fractions_[i];
+                else
+                    current_.fractions.erase(systems[i]->id);
+            }
+        } catch (const Error&) {
+            // An eluent that cannot be solved: no speciation here (conservative count).
+            return nullptr;
+        }
+        return &current_;
     }
 
   private:
@@ -319,7 +316,7 @@ class SpeciesSource {
     EluentPoints* points_ = nullptr;             ///< the shared points, or own_
     std::unique_ptr<EluentPoints> own_;          ///< made at the first point asked when not shared
     std::vector<std::vector<double>> fractions_; ///< scratch of EluentPoints::species
-    std::map<std::array<long long, max_lines>, std::optional<SpeciesShares>> cache_;
+    SpeciesShares current_; ///< the last point's speciation, valid until the next at()
 };
 
 } // namespace
