@@ -276,39 +276,36 @@ class SpeciesSource {
             forms = forms || (p[l] > 0 && forms_line_[l]);
         if (!forms)
             return nullptr;
-        std::array<long long, max_lines> key{};
-        for (int l = 0; l < max_lines; ++l)
-            key[l] = std::llround(p[l] * 1e6);
-        auto it = cache_.find(key);
-        if (it == cache_.end()) {
-            if (!points_) {
-                SequenceCheckInput at_t = c_;
-                if (!at_t.column)
-                    at_t.column.emplace();
-                at_t.column->temperature_c = temperature_c_;
-                own_ = std::make_unique<EluentPoints>(at_t);
-                points_ = own_.get();
-            }
-            std::optional<SpeciesShares> sp;
-            if (points_->model()) {
-                try {
-                    // The pH solve of the eluent trace (EluentModel::point), with the species;
-                    // from the last point solved when new (the check walks the gradient).
-                    const EluentPoint& pt = points_->species(p, fractions_);
-                    sp.emplace();
-                    sp->ph_s_s = pt.ph_s_s;
-                    const auto& systems = points_->model()->systems();
-                    for (std::size_t i = 0; i < systems.size() && i < fractions_.size(); ++i)
-                        if (!fractions_[i].empty())
-                            sp->fractions[systems[i]->id] = fractions_[i];
-                } catch (const Error&) {
-                    // An eluent that cannot be solved: no speciation here (conservative count).
-                    sp.reset();
-                }
-            }
-            it = cache_.emplace(key, std::move(sp)).first;
+        // No cache of its own: check_precipitation asks once per composition (its loads_at).
+        if (!points_) {
+            SequenceCheckInput at_t = c_;
+            if (!at_t.column)
+                at_t.column.emplace();
+            at_t.column->temperature_c = temperature_c_;
+            own_ = std::make_unique<EluentPoints>(at_t);
+            points_ = own_.get();
         }
-        return it->second ? &*it->second : nullptr;
+        if (!points_->model())
+            return nullptr;
+        try {
+            // The pH solve of the eluent trace (EluentModel::point), with the species; from the
+            // last point solved when new (the check walks the gradient).
+            const EluentPoint& pt = points_->species(p, fractions_);
+            // The same systems at every point: each entry is overwritten or erased, so the map's
+            // nodes and vectors are reused from the last point.
+            current_.ph_s_s = pt.ph_s_s;
+            const auto& systems = points_->model()->systems();
+            for (std::size_t i = 0; i < systems.size(); ++i) {
+                if (i < fractions_.size() && !fractions_[i].empty())
+                    current_.fractions[systems[i]->id] = fractions_[i];
+                else
+                    current_.fractions.erase(systems[i]->id);
+            }
+        } catch (const Error&) {
+            // An eluent that cannot be solved: no speciation here (conservative count).
+            return nullptr;
+        }
+        return &current_;
     }
 
   private:
@@ -319,7 +316,7 @@ class SpeciesSource {
     EluentPoints* points_ = nullptr;             ///< the shared points, or own_
     std::unique_ptr<EluentPoints> own_;          ///< made at the first point asked when not shared
     std::vector<std::vector<double>> fractions_; ///< scratch of EluentPoints::species
-    std::map<std::array<long long, max_lines>, std::optional<SpeciesShares>> cache_;
+    SpeciesShares current_; ///< the last point's speciation, valid until the next at()
 };
 
 } // namespace
@@ -540,18 +537,29 @@ std::vector<Finding> check_precipitation(const SequenceCheckInput& c) {
                 o += p[l] / 100.0 * c.profiles[l]->organic_fraction_v;
         return o;
     };
+    const std::vector<double> knot_list(knots.begin(), knots.end()); // ascending
     std::map<std::string, WorstLoad> worst;
-    std::map<std::array<long long, max_lines>, std::vector<SaltLoad>> loads_at;
+    struct Loads {
+        std::vector<SaltLoad> loads;
+        std::vector<WorstLoad*> worst; ///< each load's entry in `worst` (its group)
+    };
+    std::map<std::array<long long, max_lines>, Loads> loads_at;
+    std::vector<double> at;
     for (const auto& ns : all_stretches(*c.input, *c.plan)) {
         const Stretch& s = ns.s;
-        std::vector<double> at = {0.0, 1.0};
+        at.assign({0.0, 1.0});
         const double o0 = organic_of(s.percent_start), o1 = organic_of(s.percent_end);
-        if (o1 != o0)
-            for (double k : knots) {
-                const double u = (k - o0) / (o1 - o0);
+        if (o1 != o0) {
+            // Only the knots between the two ends can fall inside (the test below still decides).
+            const auto first =
+                std::lower_bound(knot_list.begin(), knot_list.end(), std::min(o0, o1));
+            const auto last = std::upper_bound(first, knot_list.end(), std::max(o0, o1));
+            for (auto k = first; k != last; ++k) {
+                const double u = (*k - o0) / (o1 - o0);
                 if (u > 0 && u < 1)
                     at.push_back(u);
             }
+        }
         for (double u : at) {
             LineValues p{};
             for (int l = 0; l < max_lines; ++l)
@@ -563,13 +571,16 @@ std::vector<Finding> check_precipitation(const SequenceCheckInput& c) {
             for (int l = 0; l < max_lines; ++l)
                 key[l] = std::llround(p[l] * 1e6);
             auto known = loads_at.find(key);
-            if (known == loads_at.end())
-                known =
-                    loads_at
-                        .emplace(key, salt_loads(*c.solvents, c.profiles, p, eluent_species.at(p)))
-                        .first;
-            for (const auto& load : known->second) {
-                WorstLoad& w = worst[load.group];
+            if (known == loads_at.end()) {
+                Loads l;
+                l.loads = salt_loads(*c.solvents, c.profiles, p, eluent_species.at(p));
+                for (const SaltLoad& load : l.loads)
+                    l.worst.push_back(&worst[load.group]);
+                known = loads_at.emplace(key, std::move(l)).first;
+            }
+            for (std::size_t i = 0; i < known->second.loads.size(); ++i) {
+                const SaltLoad& load = known->second.loads[i];
+                WorstLoad& w = *known->second.worst[i];
                 if (w.found && !(load.ratio() > w.load.ratio()))
                     continue; // the place's words only for a new worst
                 const std::string where =

@@ -34,13 +34,27 @@ Basis basis_of(const std::string& id, bool* estimated) {
 /// volume fraction (an approximation within a few units of measured values; common practice,
 /// no source). Used only to extrapolate tables in 1/ε.
 double eps_25(const EluentSolvent& organic, double f) {
-    return (1 - f) * water_permittivity(reference_temperature_k) + f * organic.permittivity_25c;
+    static const double water_25 = water_permittivity(reference_temperature_k);
+    return (1 - f) * water_25 + f * organic.permittivity_25c;
+}
+
+/// 1/ε at the last two rows of a shift table (rows xs), for table_at's extrapolation: the same
+/// for every point, so worked out once per table (EluentModel's constructor).
+detail::ShiftEnds shift_ends(const std::vector<double>& xs, const EluentSolvent& organic) {
+    detail::ShiftEnds e;
+    if (xs.empty())
+        return e;
+    const size_t n = xs.size();
+    e.inv1 = 1 / eps_25(organic, xs[n - 1]);
+    e.inv0 = 1 / eps_25(organic, n > 1 ? xs[n - 2] : 0.0);
+    return e;
 }
 
 /// A tabulated shift y(φ) with y(0) = 0: linear between rows; above the last row, linear in 1/ε
-/// through the last two rows (the Born-type dependence of a pKa shift on the permittivity).
+/// through the last two rows (the Born-type dependence of a pKa shift on the permittivity);
+/// `ends` from shift_ends(xs, organic).
 double table_at(const std::vector<double>& xs, const std::vector<double>& ys, double f,
-                const EluentSolvent& organic, bool* beyond) {
+                const EluentSolvent& organic, const detail::ShiftEnds& ends, bool* beyond) {
     if (f <= 0 || xs.empty())
         return 0;
     if (f <= xs.back()) {
@@ -54,10 +68,9 @@ double table_at(const std::vector<double>& xs, const std::vector<double>& ys, do
     }
     *beyond = true;
     const size_t n = xs.size();
-    const double x1 = xs[n - 1], y1 = ys[n - 1];
-    const double x0 = n > 1 ? xs[n - 2] : 0.0, y0 = n > 1 ? ys[n - 2] : 0.0;
-    const double inv = 1 / eps_25(organic, f), inv1 = 1 / eps_25(organic, x1),
-                 inv0 = 1 / eps_25(organic, x0);
+    const double y1 = ys[n - 1];
+    const double y0 = n > 1 ? ys[n - 2] : 0.0;
+    const double inv = 1 / eps_25(organic, f), inv1 = ends.inv1, inv0 = ends.inv0;
     return y1 + (y1 - y0) / (inv1 - inv0) * (inv - inv1);
 }
 
@@ -132,8 +145,11 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                 if (components_[k].reagent->id == s.reagent)
                     line_mol_per_l_[l][k] += s.mmol_per_l / 1000.0;
     }
-    for (int b = 0; b < n_basis; ++b)
+    for (int b = 0; b < n_basis; ++b) {
         basis_data_[b] = reagents.eluent_solvent(basis_id(static_cast<Basis>(b)));
+        if (basis_data_[b])
+            dpkw_ends_[b] = shift_ends(basis_data_[b]->fraction_v, *basis_data_[b]);
+    }
     line_solvents_.resize(profiles_.size());
     for (size_t l = 0; l < profiles_.size(); ++l) {
         const LineProfile* p = profiles_[l];
@@ -187,6 +203,8 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                         sh.fraction_v = &t->fraction_v;
                         for (const auto& row : t->dpka)
                             sh.dpka.push_back(row[use_step]);
+                        if (basis_data_[b])
+                            sh.ends = shift_ends(t->fraction_v, *basis_data_[b]);
                     }
                     step_shifts_.push_back(std::move(sh));
                 }
@@ -287,7 +305,8 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
         const EluentSolvent* es = basis_data_[bi];
         if (out.share[bi] <= 0 || !es)
             continue;
-        out.dpkw += out.share[bi] * table_at(es->fraction_v, es->dpkw, phi, *es, &out.beyond);
+        out.dpkw += out.share[bi] *
+                    table_at(es->fraction_v, es->dpkw, phi, *es, dpkw_ends_[bi], &out.beyond);
         out.delta += out.share[bi] * es->delta(phi);
         if (phi > es->delta_max_fraction_v)
             out.beyond = true;
@@ -304,8 +323,8 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
                 const StepShift& sh = step_shifts_[(step_offset_[i] + j) * n_basis + bi];
                 estimated = estimated || sh.estimated;
                 if (sh.fraction_v)
-                    d += out.share[bi] *
-                         table_at(*sh.fraction_v, sh.dpka, phi, *basis_data_[bi], &out.beyond);
+                    d += out.share[bi] * table_at(*sh.fraction_v, sh.dpka, phi, *basis_data_[bi],
+                                                  sh.ends, &out.beyond);
             }
             out.pka_ss[i][j] = pka_w_w_[i][j] + d;
             out.estimated[i][j] = estimated;

@@ -64,6 +64,14 @@ struct EluentPoint {
     bool extrapolated = false;
 };
 
+namespace detail {
+/// 1/ε at the last two rows of a pKa-shift table in its organic (at 25 °C), for the
+/// extrapolation past the table; fixed per table, so EluentModel works it out once.
+struct ShiftEnds {
+    double inv0 = 0, inv1 = 0;
+};
+} // namespace detail
+
 /// The eluents that a set of lines can make, at one temperature. Built once per set of lines
 /// (it gathers the solutes and the published tables), then evaluated at any pump composition.
 class EluentModel {
@@ -134,6 +142,7 @@ class EluentModel {
         const std::vector<double>* fraction_v = nullptr;
         std::vector<double> dpka;
         bool estimated = false;
+        detail::ShiftEnds ends; ///< 1/ε at the table's last two rows, in its organic
     };
     /// Each organic's mixing contraction with water, resolved once (mixing_contraction_ml's
     /// lookups by name cost as much as the rest of a point's blend).
@@ -149,6 +158,7 @@ class EluentModel {
     std::vector<StepShift> step_shifts_; ///< [(system, step) flat][basis]
     std::vector<int> step_offset_;       ///< first flat (system, step) of each system
     std::array<const EluentSolvent*, 2> basis_data_{};
+    std::array<detail::ShiftEnds, 2> dpkw_ends_{}; ///< the same for each organic's ΔpKw table
     mutable detail::Problem scratch_;
     std::unique_ptr<Prepared> prepared_;
 
