@@ -80,6 +80,19 @@ struct DemoPlan {
     Plan plan;
 };
 
+/// A phosphate buffer by the mix route on `d`: the two forms, the concentration (mmol/L), the
+/// volume (mL) and the target pH.
+void set_phosphate_mix(BufferDesigner& d, const QString& acid, const QString& base,
+                       double mmol_per_l, double volume_ml, double ph) {
+    d.setRoute("mix");
+    d.setSystem("phosphate");
+    d.setAcid(acid);
+    d.setBase(base);
+    d.setConcentrationMmolPerL(mmol_per_l);
+    d.setVolumeMl(volume_ml);
+    d.setTargetPh(ph);
+}
+
 } // namespace
 
 class TestGuiModels : public QObject {
@@ -216,13 +229,8 @@ class TestGuiModels : public QObject {
         auto ws = open_workspace(fresh_db());
         BufferDesigner d;
         d.setWorkspace(ws.get());
-        d.setRoute("mix");
-        d.setSystem("phosphate");
-        d.setAcid("sodium-dihydrogen-phosphate-monohydrate");
-        d.setBase("disodium-hydrogen-phosphate-heptahydrate");
-        d.setConcentrationMmolPerL(25);
-        d.setVolumeMl(1000);
-        d.setTargetPh(6.8);
+        set_phosphate_mix(d, "sodium-dihydrogen-phosphate-monohydrate",
+                          "disodium-hydrogen-phosphate-heptahydrate", 25, 1000, 6.8);
         QVERIFY2(d.valid(), qPrintable(d.errorMessage()));
         const double base_at_68 = item_mass(d.items(), "disodium-hydrogen-phosphate-heptahydrate");
         QVERIFY(std::abs(d.predictedPh() - 6.8) < 0.005);
@@ -273,13 +281,8 @@ class TestGuiModels : public QObject {
         auto ws = open_workspace(fresh_db());
         BufferDesigner d;
         d.setWorkspace(ws.get());
-        d.setRoute("mix");
-        d.setSystem("phosphate");
-        d.setAcid("phosphoric-acid");
-        d.setBase("sodium-dihydrogen-phosphate-monohydrate");
-        d.setConcentrationMmolPerL(20);
-        d.setTargetPh(2.5);
-        d.setVolumeMl(volume_ml);
+        set_phosphate_mix(d, "phosphoric-acid", "sodium-dihydrogen-phosphate-monohydrate", 20,
+                          volume_ml, 2.5);
         if (route == "titrate") {
             d.setSystem("formate");
             d.setAcid("formic-acid");
