@@ -3,6 +3,7 @@
 
 #include <charconv>
 #include <cmath>
+#include <utility>
 
 namespace chem {
 
@@ -201,6 +202,15 @@ std::string format_amount(double value) {
     return format_fixed(value, a >= 100 ? 1 : a >= 10 ? 2 : a >= 1 ? 3 : 4);
 }
 
+namespace {
+/// "-0.000" reads as another number at the bench: a zero is written without its sign.
+std::string without_negative_zero(std::string s) {
+    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
+        s.erase(0, 1);
+    return s;
+}
+} // namespace
+
 int measure_decimals(double value, MeasureUnit unit) {
     const double a = std::abs(value);
     if (unit == MeasureUnit::g)
@@ -216,9 +226,7 @@ std::string format_measure(double value, MeasureUnit unit) {
     const double shown = std::round(value * scale) / scale;
     d = measure_decimals(shown, unit);
     std::string s = format_fixed(shown, d);
-    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
-        s.erase(0, 1); // "-0.000" reads as another number at the bench
-    return s;
+    return without_negative_zero(std::move(s));
 }
 
 std::string format_recorded(double value, MeasureUnit unit) {
@@ -232,10 +240,7 @@ std::string format_recorded(double value, MeasureUnit unit) {
             break;
         ++d;
     }
-    std::string s = format_fixed(value, d);
-    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
-        s.erase(0, 1);
-    return s;
+    return without_negative_zero(format_fixed(value, d));
 }
 
 } // namespace chem
