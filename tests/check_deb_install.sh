@@ -1,7 +1,8 @@
 #!/bin/sh
 # The Debian package installs and runs from a temporary root (issue 9): cpack builds the .deb
 # from this build, dpkg -x unpacks it, and the unpacked programs run on the shipped demo without
-# the source tree's data: phaseplan-cli on the demo recipe and phaseplan --self-test. Also: the
+# the source tree's data: phaseplan-cli on the demo recipe and `device formats` (run by
+# phaseplan-cli-full), and phaseplan --self-test. Also: the
 # package's dependencies came from the shared libraries (dpkg-shlibdeps names libqt6core6), the
 # layout is Debian's (usr/bin, usr/share/{phaseplan,applications,icons,man}), and Qt's start-up
 # messages stay off stderr with XDG_RUNTIME_DIR unset.
@@ -23,7 +24,8 @@ echo "$depends" | grep -q "libqrencode" || fail "Depends lacks libqrencode"
 
 root="$work/root"
 dpkg -x "$deb" "$root"
-for f in usr/bin/phaseplan usr/bin/phaseplan-cli usr/share/phaseplan/data/reagents.json \
+for f in usr/bin/phaseplan usr/bin/phaseplan-cli usr/libexec/phaseplan/phaseplan-cli-full \
+         usr/share/phaseplan/data/reagents.json \
          usr/share/phaseplan/data/demo/overnight-sequence.json usr/share/applications/phaseplan.desktop \
          usr/share/icons/hicolor/scalable/apps/phaseplan.svg usr/share/man/man1/phaseplan.1 \
          usr/share/man/man1/phaseplan-cli.1; do
@@ -34,10 +36,19 @@ done
 cd "$work"
 out=$("$root/usr/bin/phaseplan-cli" recipe "$root/usr/share/phaseplan/data/demo/buffer-phosphate-ph2.5.json")
 echo "$out" | grep -q '"items"' || fail "phaseplan-cli recipe gave no items"
+# The device, database and PDF commands run in usr/libexec/phaseplan/phaseplan-cli-full, which
+# finds the same installed data.
+out=$("$root/usr/bin/phaseplan-cli" device formats)
+echo "$out" | grep -q '"formats"' || fail "phaseplan-cli device formats (through phaseplan-cli-full)"
 # It reads the installed data, not the source tree's: without it, it fails and names the path.
 mv "$root/usr/share/phaseplan/data" "$root/usr/share/phaseplan/data.away"
 if "$root/usr/bin/phaseplan-cli" reagents >/dev/null 2>"$work/err"; then fail "ran without its data"; fi
 grep -q "share/phaseplan/data" "$work/err" || fail "the missing-data error does not name the folder: $(cat "$work/err")"
+# So does phaseplan-cli-full, from usr/libexec/phaseplan: the same folder, not one beside it.
+if "$root/usr/bin/phaseplan-cli" sheet x.json -o "$work/x.pdf" >/dev/null 2>"$work/err"; then
+  fail "sheet ran without its data"; fi
+grep -q "$root/usr/share/phaseplan/data" "$work/err" ||
+  fail "phaseplan-cli-full's missing-data error does not name the folder: $(cat "$work/err")"
 mv "$root/usr/share/phaseplan/data.away" "$root/usr/share/phaseplan/data"
 
 env -u XDG_RUNTIME_DIR HOME="$work/home" QT_QPA_PLATFORM=offscreen QT_QUICK_BACKEND=software \

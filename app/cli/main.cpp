@@ -1,5 +1,11 @@
 // phaseplan-cli: one JSON document in (a path or - for stdin), one JSON document out.
 // Bad input: status 2, one line on stderr naming the field, nothing on stdout.
+//
+// Built twice (app/CMakeLists.txt). With PHASEPLAN_CLI_FULL it is phaseplan-cli-full, which runs
+// every command. Without, it is phaseplan-cli: Qt Core and phaseplan_core only, so that the JSON
+// commands start without loading Qt GUI, SQL, Serial Port and their libraries; for `device`,
+// `audit`, `user`, `lot`, `db`, `sheet` and `labels` it executes phaseplan-cli-full with the same
+// arguments, which then writes every byte of output and gives the exit status.
 #include "chem/error.h"
 #include "chem/guard.h"
 #include "core/app_data.h"
@@ -10,8 +16,10 @@
 #include "core/line_commands.h"
 #include "core/pressure_commands.h"
 #include "core/runtime_dir.h"
+#ifdef PHASEPLAN_CLI_FULL
 #include "devices/device_cli.h"
 #include "storage/records_cli.h"
+#endif
 
 #include <QCoreApplication>
 #include <QDir>
@@ -20,7 +28,9 @@
 #include <QTextStream>
 
 #include <algorithm>
+#include <cerrno>
 #include <cstdio>
+#include <cstring>
 #include <functional>
 #include <iostream>
 #include <map>
@@ -31,13 +41,21 @@
 #include <termios.h>
 #include <unistd.h>
 
-#ifdef PHASEPLAN_WITH_PRINT
+#if defined(PHASEPLAN_WITH_PRINT) && defined(PHASEPLAN_CLI_FULL)
+#define PHASEPLAN_CLI_PDF 1
 #include "print/print_commands.h"
 
 #include <QGuiApplication>
 #endif
 
 namespace {
+
+/// The data folder of an installed program, from the program's folder.
+#ifdef PHASEPLAN_CLI_FULL
+constexpr const char* installed_data = PHASEPLAN_CLI_FULL_TO_DATA; // from <libexecdir>/phaseplan
+#else
+constexpr const char* installed_data = "../share/phaseplan/data"; // from <bindir>
+#endif
 
 using Command = std::function<QJsonObject(const phaseplan::AppData&, const QJsonObject&,
                                           const phaseplan::CommandOptions&)>;
@@ -53,6 +71,15 @@ struct Entry {
     bool needs_gui = false; ///< PDF output needs fonts and a QGuiApplication
     TextCommand text = {};  ///< when set, used instead of run
 };
+
+#ifdef PHASEPLAN_WITH_PRINT
+#ifdef PHASEPLAN_CLI_PDF
+const Command command_sheet = phaseplan::command_sheet;
+const Command command_labels = phaseplan::command_labels;
+#else
+const Command command_sheet, command_labels; // none here: phaseplan-cli-full runs them
+#endif
+#endif
 
 const std::map<std::string, Entry>& command_table() {
     static const std::map<std::string, Entry> table = {
@@ -70,12 +97,9 @@ const std::map<std::string, Entry>& command_table() {
          {phaseplan::command_eluent,
           "pH of the water-organic eluent at a pump composition and temperature"}},
 #ifdef PHASEPLAN_WITH_PRINT
-        {"sheet",
-         {phaseplan::command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)",
-          true}},
+        {"sheet", {command_sheet, "PDF recipe/line/sequence sheet with its batch (-o FILE)", true}},
         {"labels",
-         {phaseplan::command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)",
-          true}},
+         {command_labels, "PDF bottle labels with QR code of the batch id (-o FILE)", true}},
 #endif
     };
     return table;
@@ -147,6 +171,7 @@ void qt_message(QtMsgType type, const QMessageLogContext&, const QString& msg) {
         std::cerr << msg.toStdString() << std::endl;
 }
 
+#ifdef PHASEPLAN_CLI_FULL
 /// `phaseplan-cli device …`: flags instead of a JSON document; every failure is status 2 and one
 /// line: "field: …" for a wrong option or reading, "device: …" for the port or the instrument
 /// failing (a DeviceFailure, app/devices/device_cli.h).
@@ -168,7 +193,7 @@ int run_device(int argc, char** argv) {
     }
     try {
         const QJsonObject out = phaseplan::devices::device_command(
-            args, data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+            args, data_dir.isEmpty() ? phaseplan::find_data_dir(installed_data) : data_dir);
         std::cout << QJsonDocument(out).toJson(QJsonDocument::Indented).toStdString();
         return 0;
     } catch (const chem::Error& e) {
@@ -225,7 +250,7 @@ int run_records(int argc, char** argv) {
     try {
         const phaseplan::storage::CliOutput out = phaseplan::storage::records_command(
             QString::fromLocal8Bit(argv[1]), args, read_secret,
-            data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+            data_dir.isEmpty() ? phaseplan::find_data_dir(installed_data) : data_dir);
         std::cout.write(out.out.constData(), out.out.size());
         std::cout.flush();
         return out.status;
@@ -240,6 +265,31 @@ int run_records(int argc, char** argv) {
         return 2;
     }
 }
+
+#else
+/// phaseplan-cli-full in place of this process, with the same arguments (the device, database and
+/// PDF commands): beside this program (the build tree), else in PHASEPLAN_BIN_TO_CLI_FULL from it
+/// (the installed layout). Returns only when it cannot: status 3, the installation is broken.
+int run_full(char** argv) {
+    std::string dir;
+    char self[4096];
+    const ssize_t n = ::readlink("/proc/self/exe", self, sizeof self - 1);
+    if (n > 0)
+        dir.assign(self, static_cast<std::size_t>(n));
+    dir = dir.substr(0, dir.find_last_of('/') == std::string::npos ? 0 : dir.find_last_of('/'));
+    const std::string beside = dir + "/phaseplan-cli-full";
+    const std::string installed = dir + "/" PHASEPLAN_BIN_TO_CLI_FULL "/phaseplan-cli-full";
+    for (const std::string& path : {beside, installed})
+        if (::access(path.c_str(), X_OK) == 0) {
+            ::execv(path.c_str(), argv);
+            fail("command: cannot run " + path + ": " + std::strerror(errno));
+            return 3;
+        }
+    fail(std::string("command: \"") + argv[1] + "\" is run by phaseplan-cli-full, not found at " +
+         installed);
+    return 3;
+}
+#endif
 
 /// Reads at most json::max_document_bytes from `in`; throws Error("input", …) above that.
 QByteArray read_capped(QFile& in, const std::string& shown) {
@@ -269,11 +319,18 @@ std::string error_line(const chem::Error& e) {
 
 int main(int argc, char** argv) {
     qInstallMessageHandler(qt_message);
+#ifdef PHASEPLAN_CLI_FULL
     if (argc > 1 && std::string(argv[1]) == "device")
         return run_device(argc, argv);
     if (argc > 1 && (std::string(argv[1]) == "audit" || std::string(argv[1]) == "user" ||
                      std::string(argv[1]) == "lot" || std::string(argv[1]) == "db"))
         return run_records(argc, argv);
+#else
+    if (argc > 1 && (std::string(argv[1]) == "device" || std::string(argv[1]) == "audit" ||
+                     std::string(argv[1]) == "user" || std::string(argv[1]) == "lot" ||
+                     std::string(argv[1]) == "db"))
+        return run_full(argv);
+#endif
     std::string command;
     QString input_path;
     QString data_dir;
@@ -313,10 +370,14 @@ int main(int argc, char** argv) {
         fail("command: unknown command \"" + command + "\" (try --help)");
         return 2;
     }
+#ifndef PHASEPLAN_CLI_FULL
+    if (!it->second.run && !it->second.text)
+        return run_full(argv); // the PDF commands
+#endif
 
     // PDF commands need fonts; run them on the offscreen platform unless one is set.
     std::unique_ptr<QCoreApplication> app;
-#ifdef PHASEPLAN_WITH_PRINT
+#ifdef PHASEPLAN_CLI_PDF
     std::unique_ptr<phaseplan::PrivateRuntimeDir> runtime_dir;
     if (it->second.needs_gui) {
         if (qEnvironmentVariableIsEmpty("QT_QPA_PLATFORM"))
@@ -336,7 +397,8 @@ int main(int argc, char** argv) {
 
     phaseplan::AppData data;
     try {
-        data = phaseplan::load_app_data(data_dir.isEmpty() ? phaseplan::find_data_dir() : data_dir);
+        data = phaseplan::load_app_data(
+            data_dir.isEmpty() ? phaseplan::find_data_dir(installed_data) : data_dir);
     } catch (const chem::Error& e) {
         fail("data: " + error_line(e));
         return 3; // the installation is broken, not the input

@@ -13,7 +13,7 @@
 
 namespace phaseplan {
 
-QString find_data_dir() {
+QString find_data_dir(const char* installed) {
     const QString env = qEnvironmentVariable("PHASEPLAN_DATA_DIR");
     if (!env.isEmpty())
         return env;
@@ -21,7 +21,7 @@ QString find_data_dir() {
     bool build_tree = true; // no application object: a test or a tool linked in the build
     if (QCoreApplication::instance()) {
         const QString exe = QCoreApplication::applicationDirPath();
-        candidates << exe + "/data" << exe + "/../share/phaseplan/data";
+        candidates << exe + "/data" << exe + "/" + QString::fromUtf8(installed);
         // The source tree's data only for a program in the build tree: an installed program
         // finds its own copy or fails, so a broken install cannot pass for a working one.
         build_tree = QFileInfo::exists(exe + "/CMakeCache.txt");

@@ -17,9 +17,9 @@ struct AppData {
 };
 
 /// The data folder: $PHASEPLAN_DATA_DIR if set, else <executable dir>/data, else
-/// <executable dir>/../share/phaseplan/data, else the source tree's data/
-/// (PHASEPLAN_SOURCE_DATA_DIR).
-QString find_data_dir();
+/// <executable dir>/`installed` (an installed program's: ../share/phaseplan/data from bin/), else
+/// the source tree's data/ (PHASEPLAN_SOURCE_DATA_DIR).
+QString find_data_dir(const char* installed = "../share/phaseplan/data");
 
 /// Loads every reference file in `dir`. Throws chem::Error whose field names the file and the
 /// JSON path ("reagents.json: reagents[3].formula") on a malformed entry.
