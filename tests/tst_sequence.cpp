@@ -654,8 +654,8 @@ void TestSequence::cliTextIsQtsTextOfTheResult() {
         renamed = set_path(renamed, QStringLiteral("sequence[%1].method").arg(i), odd);
     for (const QJsonObject& doc : {base, offset, one_line, two, renamed}) {
         const QByteArray qt = QJsonDocument(run_sequence(doc)).toJson(QJsonDocument::Indented);
-        const std::string text = phaseplan::command_sequence_text(shipped_data(), doc, {});
-        QCOMPARE(QByteArray::fromStdString(text), qt);
+        const QByteArray text = phaseplan::command_sequence_text(shipped_data(), doc, {});
+        QCOMPARE(text, qt);
     }
 }
 

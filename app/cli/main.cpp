@@ -62,8 +62,8 @@ using Command = std::function<QJsonObject(const phaseplan::AppData&, const QJson
 
 /// A command that writes its own text (the same bytes as QJsonDocument(run(…)).toJson(Indented),
 /// its numbers already held to json::check_output).
-using TextCommand = std::function<std::string(const phaseplan::AppData&, const QJsonObject&,
-                                              const phaseplan::CommandOptions&)>;
+using TextCommand = std::function<QByteArray(const phaseplan::AppData&, const QJsonObject&,
+                                             const phaseplan::CommandOptions&)>;
 
 struct Entry {
     Command run;
@@ -423,8 +423,8 @@ int main(int argc, char** argv) {
                                 ? QJsonObject{}
                                 : phaseplan::json::parse_document(bytes);
         if (it->second.text) {
-            const std::string text = it->second.text(data, input, opt);
-            std::cout.write(text.data(), static_cast<std::streamsize>(text.size()));
+            const QByteArray text = it->second.text(data, input, opt);
+            std::cout.write(text.constData(), text.size());
             std::cout.flush();
             return 0;
         }

@@ -10,118 +10,68 @@
 #include <QString>
 
 #include <algorithm>
+#include <array>
 #include <charconv>
 #include <cmath>
 #include <cstring>
 
 namespace phaseplan::json {
 
-std::string IndentedWriter::take() {
-    out_.resize(used_);
+QByteArray IndentedWriter::take() {
+    out_.resize(static_cast<qsizetype>(used_));
     used_ = 0;
+    capacity_ = 0;
+    text_ = nullptr;
     return std::move(out_);
 }
 
 void IndentedWriter::reserve(std::size_t bytes) {
-    if (out_.size() < used_ + bytes)
-        out_.resize(used_ + bytes);
-}
-
-char* IndentedWriter::room(std::size_t n) {
-    if (used_ + n > out_.size())
-        out_.resize(std::max(2 * out_.size(), used_ + n + 4096));
-    char* at = out_.data() + used_;
-    used_ += n;
-    return at;
-}
-
-void IndentedWriter::put(const char* p, std::size_t n) {
-    char* at = room(n);
-    if (n <= 16)
-        for (std::size_t i = 0; i < n; ++i)
-            at[i] = p[i];
-    else
-        std::memcpy(at, p, n);
-}
-
-void IndentedWriter::put_indent(std::size_t depth) {
-    char* at = room(4 * depth);
-    std::memset(at, ' ', 4 * depth);
-}
-
-void IndentedWriter::element() {
-    if (after_key_) { // the value of a key: on the key's line
-        after_key_ = false;
-        return;
+    if (capacity_ < used_ + bytes) {
+        out_.resize(static_cast<qsizetype>(used_ + bytes));
+        text_ = out_.data();
+        capacity_ = used_ + bytes;
     }
-    if (levels_.empty())
-        return; // the document itself
-    Level& l = levels_.back();
-    if (!l.empty)
-        put(",\n", 2);
-    l.empty = false;
-    put_indent(levels_.size());
+}
+
+void IndentedWriter::grow(std::size_t n) {
+    reserve(std::max(capacity_, n + 4096));
 }
 
 void IndentedWriter::open(char bracket) {
-    element();
-    const char text[2] = {bracket, '\n'};
-    put(text, 2);
+    char* at = element(2);
+    at[0] = bracket;
+    at[1] = '\n';
     levels_.push_back({bracket == '{', true});
 }
 
 void IndentedWriter::close(char bracket) {
     const bool empty = levels_.back().empty;
     levels_.pop_back();
+    const std::size_t depth = levels_.size();
+    const std::size_t newline = empty ? 0 : 1;
+    const std::size_t last = levels_.empty() ? 1 : 0; // toJson ends the document with a newline
+    char* at = room(newline + 4 * depth + 1 + last);
     if (!empty)
-        put("\n", 1);
-    put_indent(levels_.size());
-    put(&bracket, 1);
-    if (levels_.empty())
-        put("\n", 1); // toJson ends the document with a newline
-}
-
-void IndentedWriter::begin_object() {
-    open('{');
-}
-void IndentedWriter::end_object() {
-    close('}');
-}
-void IndentedWriter::begin_array() {
-    open('[');
-}
-void IndentedWriter::end_array() {
-    close(']');
-}
-
-void IndentedWriter::key(std::string_view ascii_key) {
-    element();
-    char* at = room(ascii_key.size() + 4);
-    *at++ = '"';
-    for (char c : ascii_key)
-        *at++ = c;
-    *at++ = '"';
-    *at++ = ':';
-    *at = ' ';
-    after_key_ = true;
+        *at++ = '\n';
+    at = indent(at, depth);
+    *at++ = bracket;
+    if (last)
+        *at = '\n';
 }
 
 void IndentedWriter::integer(long long value) {
-    element();
     char buf[24];
     const auto r = std::to_chars(buf, buf + sizeof buf, value);
-    put(buf, static_cast<std::size_t>(r.ptr - buf));
+    const auto n = static_cast<std::size_t>(r.ptr - buf);
+    std::memcpy(element(n), buf, n);
 }
 
-void IndentedWriter::number(double value, const std::function<std::string()>& at) {
-    if (!output_number_in_range(value))
-        refuse_output_number(value, at());
+void IndentedWriter::number_in_range(double value) {
     // QJsonValue(double) keeps an integral value up to 2^53 as an integer (-0 becomes 0).
     if (value == std::trunc(value) && std::abs(value) <= 9007199254740992.0) {
         integer(static_cast<long long>(value));
         return;
     }
-    element();
     quint64 bits = 0;
     std::memcpy(&bits, &value, sizeof bits);
     if (numbers_.empty())
@@ -132,23 +82,45 @@ void IndentedWriter::number(double value, const std::function<std::string()>& at
         slot.bits = bits;
         slot.text.assign(text.constData(), static_cast<std::size_t>(text.size()));
     }
-    put(slot.text.data(), slot.text.size());
+    std::memcpy(element(slot.text.size()), slot.text.data(), slot.text.size());
 }
 
+namespace {
+
+/// The bytes a string cannot be copied with as they are: a quote, a backslash (escaped here),
+/// control characters and non-ASCII bytes (Qt's own escaping).
+constexpr std::array<bool, 256> not_plain = [] {
+    std::array<bool, 256> t{};
+    for (int c = 0; c < 256; ++c)
+        t[static_cast<std::size_t>(c)] = c < 0x20 || c >= 0x80 || c == '"' || c == '\\';
+    return t;
+}();
+
+} // namespace
+
 void IndentedWriter::string(std::string_view utf8) {
-    std::size_t quotes = 0;
     bool plain = true;
+    for (char c : utf8)
+        plain &= !not_plain[static_cast<unsigned char>(c)];
+    if (plain) {
+        char* at = element(utf8.size() + 2);
+        *at++ = '"';
+        std::memcpy(at, utf8.data(), utf8.size());
+        at[utf8.size()] = '"';
+        return;
+    }
+    std::size_t quotes = 0;
+    bool ascii = true;
     for (char c : utf8) {
         const auto u = static_cast<unsigned char>(c);
-        plain &= u >= 0x20 && u < 0x80;
+        ascii &= u >= 0x20 && u < 0x80;
         quotes += c == '"' || c == '\\';
     }
-    if (!plain) { // control characters and non-ASCII text: Qt's own escaping
+    if (!ascii) { // control characters and non-ASCII text: Qt's own escaping
         qt_string(QString::fromUtf8(utf8.data(), static_cast<qsizetype>(utf8.size())));
         return;
     }
-    element();
-    char* at = room(utf8.size() + quotes + 2);
+    char* at = element(utf8.size() + quotes + 2);
     *at++ = '"';
     for (char c : utf8) {
         if (c == '"' || c == '\\')
@@ -159,9 +131,9 @@ void IndentedWriter::string(std::string_view utf8) {
 }
 
 void IndentedWriter::qt_string(const QString& text) {
-    element();
     const QByteArray json = QJsonDocument(QJsonArray{text}).toJson(QJsonDocument::Compact);
-    put(json.constData() + 1, static_cast<std::size_t>(json.size() - 2)); // ["text"]
+    const auto n = static_cast<std::size_t>(json.size() - 2); // ["text"]
+    std::memcpy(element(n), json.constData() + 1, n);
 }
 
 void IndentedWriter::any_string(const QString& text) {
@@ -174,16 +146,14 @@ void IndentedWriter::any_string(const QString& text) {
 }
 
 void IndentedWriter::boolean(bool value) {
-    element();
     if (value)
-        put("true", 4);
+        std::memcpy(element(4), "true", 4);
     else
-        put("false", 5);
+        std::memcpy(element(5), "false", 5);
 }
 
 void IndentedWriter::null() {
-    element();
-    put("null", 4);
+    std::memcpy(element(4), "null", 4);
 }
 
 void IndentedWriter::value(const QJsonValue& v, const std::string& at) {
@@ -199,7 +169,7 @@ void IndentedWriter::walk(const QJsonValue& v) {
         for (auto it = o.constBegin(); it != o.constEnd(); ++it) {
             // A key as Qt escapes it: written as a string, then ": " in place of its place.
             const QString k = it.key();
-            element();
+            element(0);
             after_key_ = true; // no separator before the key's text
             any_string(k);
             put(": ", 2);
@@ -238,9 +208,9 @@ void IndentedWriter::walk(const QJsonValue& v) {
     default:
         break;
     }
-    element();
     QByteArray text = QJsonDocument(QJsonArray{v}).toJson(QJsonDocument::Compact);
-    put(text.constData() + 1, static_cast<std::size_t>(text.size() - 2)); // "[value]"
+    const auto n = static_cast<std::size_t>(text.size() - 2); // "[value]"
+    std::memcpy(element(n), text.constData() + 1, n);
 }
 
 } // namespace phaseplan::json

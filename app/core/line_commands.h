@@ -32,8 +32,8 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
                              const CommandOptions& opt);
 /// The CLI's `sequence`: the text QJsonDocument(command_sequence(…)).toJson(Indented) gives,
 /// its numbers held to json::check_output, without building the rows as QJsonObjects.
-std::string command_sequence_text(const AppData& data, const QJsonObject& input,
-                                  const CommandOptions& opt);
+QByteArray command_sequence_text(const AppData& data, const QJsonObject& input,
+                                 const CommandOptions& opt);
 
 /// A finding's typed references for the screens (no sentence to parse back):
 /// {"subject": {"kind", "id", "other"}, "place": {"kind", "id", "other"}}, the kinds as

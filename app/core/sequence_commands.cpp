@@ -703,8 +703,8 @@ QJsonObject command_sequence(const AppData& data, const QJsonObject& input,
     return to_json(sequence_result(data, input, options));
 }
 
-std::string command_sequence_text(const AppData& data, const QJsonObject& input,
-                                  const CommandOptions& options) {
+QByteArray command_sequence_text(const AppData& data, const QJsonObject& input,
+                                 const CommandOptions& options) {
     const SequenceResult r = sequence_result(data, input, options);
     json::IndentedWriter w;
     std::size_t rows = 0;

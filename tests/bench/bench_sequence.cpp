@@ -223,8 +223,8 @@ void BM_cli_sequence_10000_rows(benchmark::State& state) {
     std::size_t out_bytes = 0;
     for (auto _ : state) {
         const QJsonObject input = phaseplan::json::parse_document(bytes);
-        const std::string text = phaseplan::command_sequence_text(data(), input, {});
-        out_bytes = text.size();
+        const QByteArray text = phaseplan::command_sequence_text(data(), input, {});
+        out_bytes = static_cast<std::size_t>(text.size());
         benchmark::DoNotOptimize(text.data());
     }
     state.counters["output_bytes"] = static_cast<double>(out_bytes);
