@@ -61,6 +61,12 @@ void put_digits(char* at, qint64 value, int width) {
     }
 }
 
+/// Two digits of `value` (0-99).
+void put_two(char* at, int value) {
+    at[0] = static_cast<char>('0' + value / 10);
+    at[1] = static_cast<char>('0' + value % 10);
+}
+
 } // namespace
 
 ContractClockText::ContractClockText(const QDateTime& start, bool has_offset)
@@ -93,13 +99,15 @@ void ContractClockText::append(qint64 seconds, std::string& out) const {
         if (y >= 1000 && y <= 9999) {
             char buf[19] = {0, 0, 0, 0, '-', 0, 0, '-', 0, 0, 'T', 0, 0, ':', 0, 0, ':', 0, 0};
             put_digits(buf, y, 4);
-            put_digits(buf + 5, m, 2);
-            put_digits(buf + 8, d, 2);
-            put_digits(buf + 11, in_day / 3600, 2);
-            put_digits(buf + 14, in_day / 60 % 60, 2);
-            put_digits(buf + 17, in_day % 60, 2);
+            put_two(buf + 5, m);
+            put_two(buf + 8, d);
+            const int secs = static_cast<int>(in_day); // [0, 86399]
+            put_two(buf + 11, secs / 3600);
+            put_two(buf + 14, secs / 60 % 60);
+            put_two(buf + 17, secs % 60);
             out.append(buf, sizeof buf);
-            out += suffix_;
+            if (!suffix_.empty())
+                out += suffix_;
             return;
         }
     }

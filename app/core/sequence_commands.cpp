@@ -35,10 +35,19 @@ bool plain_text(const QString& text, std::size_t max_chars, std::string& out) {
     if (text.isEmpty() || static_cast<std::size_t>(text.size()) > max_chars ||
         text.front().isSpace() || text.back().isSpace())
         return false;
-    for (QChar c : text)
-        if (c.isSurrogate())
+    // ASCII (the usual method names and labels) is copied as it is; other text goes through
+    // toStdString (UTF-8).
+    out.resize(static_cast<std::size_t>(text.size()));
+    bool ascii = true;
+    for (qsizetype i = 0; i < text.size(); ++i) {
+        const char16_t c = text[i].unicode();
+        if (QChar::isSurrogate(c))
             return false;
-    out = text.toStdString();
+        ascii &= c < 0x80;
+        out[static_cast<std::size_t>(i)] = static_cast<char>(c);
+    }
+    if (!ascii)
+        out = text.toStdString();
     return true;
 }
 
