@@ -189,9 +189,12 @@ void TestEluent::publishedSsPka() {
     QVERIFY(std::abs(out["organic_fraction_v"].toDouble() - percent / 100) < 1e-12);
 }
 
-// δ = s_w pH − s_s pH at 25 °C (from memory): methanol, Canals et al., J. Chromatogr. A 911
-// (2001) 191: small and positive to 80 %; acetonitrile, Espinosa et al., Anal. Chem. 72 (2000)
-// 5193: negative, about −0.25 at 50 %. The values are those the recalled equations give.
+// δ = s_w pH − s_s pH at 25 °C through the `eluent` command: methanol, Canals et al., J.
+// Chromatogr. A 911 (2001) 191: small and positive to 80 %; acetonitrile, Espinosa et al., Anal.
+// Chem. 72 (2000) 5193: negative, about −0.25 at 50 %. The MeOH 30 % and 50 % rows were read in
+// Kazakevich & LoBrutto (eds.), HPLC for Pharmaceutical Scientists (2007), Table 4-5 (a secondary
+// source; tests/chem/test_eluent_published.cpp checks all its rows); the MeOH 70 % and MeCN rows
+// are from memory, the values the recalled equations give.
 void TestEluent::publishedDelta_data() {
     QTest::addColumn<QString>("organic");
     QTest::addColumn<double>("percent");
