@@ -25,14 +25,10 @@
 
 using namespace chem;
 
-namespace {
+using chem::testing::lib;
+using chem::testing::solvents;
 
-const Library& lib() {
-    return chem::testing::shipped_library();
-}
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 LineSpec solvent_line(std::vector<std::pair<std::string, double>> parts) {
     LineSpec spec;
