@@ -272,7 +272,8 @@ class TestGuiBatch : public QObject {
         QStringList notice;
         QString expires;
         for (const phaseplan::print::Block& b : job.sheet.blocks) {
-            if (b.kind == phaseplan::print::Block::Kind::notice)
+            if (b.kind == phaseplan::print::Block::Kind::notice &&
+                b.text.startsWith("OUT OF TOLERANCE")) // the sheet's mark, boxed with its reasons
                 notice = b.items;
             for (const auto& kv : b.fields)
                 if (kv.key == QLatin1String("Expires at"))
