@@ -337,6 +337,30 @@ UseBy use_by(const Batch& batch, double shelf_life_h) {
     return out;
 }
 
+ReleaseReason amount_reason(const AmountCheck& c, double tolerance_fraction) {
+    return {.kind = ReleaseReasonKind::amount_out_of_band,
+            .reagent = c.reagent,
+            .unit = c.unit,
+            .target = c.target,
+            .actual = c.actual,
+            .low = c.low,
+            .high = c.high,
+            .deviation = c.deviation_fraction,
+            .tolerance = tolerance_fraction};
+}
+
+ReleaseReason measured_ph_reason(double measured_ph, double target_ph, double tolerance_ph) {
+    return {.kind = ReleaseReasonKind::measured_ph_out_of_tolerance,
+            .reagent = {}, // about the batch as a whole
+            .unit = {},    // pH units
+            .target = target_ph,
+            .actual = measured_ph,
+            .low = target_ph - tolerance_ph,
+            .high = target_ph + tolerance_ph,
+            .deviation = measured_ph - target_ph,
+            .tolerance = tolerance_ph};
+}
+
 BatchResult evaluate_batch(const Library& lib, const Recipe& recipe, const Batch& batch,
                            double shelf_life_h) {
     BatchResult out;

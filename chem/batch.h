@@ -144,6 +144,43 @@ struct UseBy {
 /// not YYYY-MM-DD.
 UseBy use_by(const Batch& batch, double shelf_life_h);
 
+/// The lot whose expiry date sets a batch's use-by (UseBy::limited_by), as data; worded by
+/// describe(const UseByLimit&, …) (chem/note_text.h): "lot SP-2 of <name>, which expires on
+/// 2026-12-02".
+struct UseByLimit {
+    std::string reagent;        ///< the part's or the reagent's id ("buffer." taken off)
+    std::string lot;            ///< the supplier's lot number
+    std::string lot_expires_on; ///< "YYYY-MM-DD", as the lot shelf gives it
+    bool operator==(const UseByLimit&) const = default;
+};
+
+/// Why a batch is out of tolerance and needs a deviation note before it is released, as data;
+/// worded by describe(const ReleaseReason&, …) (chem/note_text.h).
+enum class ReleaseReasonKind {
+    amount_out_of_band,          ///< an entered amount outside target ± tolerance
+    measured_ph_out_of_tolerance ///< the measured pH outside target ± the pH tolerance
+};
+struct ReleaseReason {
+    ReleaseReasonKind kind = ReleaseReasonKind::amount_out_of_band;
+    std::string reagent; ///< an amount: its part's or reagent's id; "" for the pH
+    std::string unit;    ///< an amount: "g" or "mL"; "" for the pH (pH units)
+    double target = 0;   ///< the amount's target in `unit`, or the target pH
+    double actual = 0;   ///< the amount as made in `unit`, or the measured pH
+    double low = 0;      ///< the band's low end, in `unit` or pH
+    double high = 0;     ///< the band's high end, in `unit` or pH
+    /// An amount: actual / target − 1 (AmountCheck::deviation_fraction). The pH: measured −
+    /// target, pH units.
+    double deviation = 0;
+    /// An amount: the relative tolerance (0.02 = ± 2 %). The pH: ± pH units.
+    double tolerance = 0;
+    bool operator==(const ReleaseReason&) const = default;
+};
+/// The reason for an entered amount outside its band (`c.entered && !c.within_tolerance`);
+/// `tolerance_fraction` is the batch's (0.02 = ± 2 %).
+ReleaseReason amount_reason(const AmountCheck& c, double tolerance_fraction);
+/// The reason for a measured pH outside target_ph ± tolerance_ph (pH units).
+ReleaseReason measured_ph_reason(double measured_ph, double target_ph, double tolerance_ph);
+
 /// A reagent lot's dates (YYYY-MM-DD): the lot is opened no earlier than it was received, and it
 /// expires after it was received. `opened_on` may be "". Throws chem::Error naming the field
 /// ("received_on", "opened_on", "expires_on", each prefixed by `at` + "." when `at` is not empty)

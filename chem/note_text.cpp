@@ -83,4 +83,39 @@ std::string describe(const RouteNote& n, const Library& lib) {
     return {};
 }
 
+namespace {
+
+std::string part_name(const NameLookup& name_of, const std::string& id) {
+    return name_of ? name_of(id) : id;
+}
+
+/// A signed number with fixed decimals, "+1.4", "-0.11"; an exact tie rounds away from zero,
+/// as the app's QString::number did when it built these sentences.
+std::string signed_fixed(double v, int decimals) {
+    std::string s = v >= 0 ? "+" : "";
+    s += format_fixed_ties_away(v, decimals);
+    return s;
+}
+
+} // namespace
+
+std::string describe(const UseByLimit& limit, const NameLookup& name_of) {
+    return "lot " + limit.lot + " of " + part_name(name_of, limit.reagent) + ", which expires on " +
+           limit.lot_expires_on;
+}
+
+std::string describe(const ReleaseReason& r, const NameLookup& name_of) {
+    switch (r.kind) {
+    case ReleaseReasonKind::amount_out_of_band:
+        return part_name(name_of, r.reagent) + ": " + format_amount(r.actual) + " " + r.unit +
+               ", " + signed_fixed(r.deviation * 100, 1) + " % (band " + format_amount(r.low) +
+               "–" + format_amount(r.high) + " " + r.unit + ")";
+    case ReleaseReasonKind::measured_ph_out_of_tolerance:
+        return "Measured pH " + format_fixed_ties_away(r.actual, 2) + ", " +
+               signed_fixed(r.deviation, 2) + " from the target " +
+               format_fixed_ties_away(r.target, 2) + " (± " + format_number(r.tolerance) + ")";
+    }
+    return {};
+}
+
 } // namespace chem

@@ -324,7 +324,10 @@ class TestLots : public QObject {
         const phaseplan::BatchDocument doc = document_of(stored);
         QCOMPARE(doc.expires_at, QString("2026-12-02T23:59:00"));
         QCOMPARE(doc.expiry_limited_by, 1);
-        QCOMPARE(doc.expiry_limit_text,
+        QVERIFY(doc.expiry_limit);
+        QVERIFY(*doc.expiry_limit == (chem::UseByLimit{"sodium-dihydrogen-phosphate-monohydrate",
+                                                       "SP-2", "2026-12-02"}));
+        QCOMPARE(phaseplan::expiry_limit_text(app_data(), doc),
                  QString("lot SP-2 of Sodium dihydrogen phosphate monohydrate, which expires on "
                          "2026-12-02"));
         QCOMPARE(doc.summary.value("batch")
@@ -354,7 +357,8 @@ class TestLots : public QObject {
         const phaseplan::BatchDocument later = document_of(*batches.load("T-1"));
         QCOMPARE(later.expires_at, QString("2026-12-03T16:30:00"));
         QCOMPARE(later.expiry_limited_by, -1);
-        QVERIFY(later.expiry_limit_text.isEmpty());
+        QVERIFY(!later.expiry_limit);
+        QVERIFY(phaseplan::expiry_limit_text(app_data(), later).isEmpty());
     }
 
     // An expiry entered by hand later than a lot's is clamped too; one earlier stays.

@@ -1,6 +1,7 @@
 #include "core/batch_document.h"
 
 #include "chem/finding_text.h"
+#include "chem/note_text.h"
 
 #include "chem/error.h"
 #include "chem/guard.h"
@@ -29,10 +30,6 @@ QString qs(const std::string& s) {
 /// About four significant figures, as the sheet prints amounts (chem::format_amount).
 QString amount_text(double v) {
     return QString::fromStdString(chem::format_amount(v));
-}
-
-QString signed_percent(double fraction) {
-    return (fraction >= 0 ? "+" : "") + QString::number(fraction * 100, 'f', 1) + " %";
 }
 
 QString recipe_title(const chem::Library& lib, const chem::Recipe& r, const QJsonObject& input) {
@@ -109,18 +106,12 @@ struct WarningList {
     }
 };
 
-QString reason_text(const AppData& data, const chem::AmountCheck& c) {
-    return part_display_name(data, c.reagent) + ": " + amount_text(c.actual) + " " + qs(c.unit) +
-           ", " + signed_percent(c.deviation_fraction) + " (band " + amount_text(c.low) + "–" +
-           amount_text(c.high) + " " + qs(c.unit) + ")";
-}
-
-void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& checks,
+void add_reasons(const std::vector<chem::AmountCheck>& checks, double tolerance_fraction,
                  BatchDocument& d) {
     for (const auto& c : checks)
         if (c.entered && !c.within_tolerance) {
             d.out_of_tolerance = true;
-            d.out_of_tolerance_reasons << reason_text(data, c);
+            d.out_of_tolerance_reasons.push_back(chem::amount_reason(c, tolerance_fraction));
         }
 }
 
@@ -129,11 +120,8 @@ void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double targ
     if (!r.measured_ph_out || !b.measured_ph)
         return;
     d.out_of_tolerance = true;
-    const double dev = *b.measured_ph - target_ph;
-    d.out_of_tolerance_reasons << "Measured pH " + QString::number(*b.measured_ph, 'f', 2) + ", " +
-                                      (dev >= 0 ? "+" : "") + QString::number(dev, 'f', 2) +
-                                      " from the target " + QString::number(target_ph, 'f', 2) +
-                                      " (± " + qs(chem::format_number(b.ph_tolerance)) + ")";
+    d.out_of_tolerance_reasons.push_back(
+        chem::measured_ph_reason(*b.measured_ph, target_ph, b.ph_tolerance));
 }
 
 /// The correction in words; `prefix` names the part of a line it is for ("" for a recipe).
@@ -266,7 +254,7 @@ chem::BatchResult evaluate_subset(const chem::Library& lib, const chem::Recipe& 
 
 void finish_tolerance(const AppData& data, const BatchDocument& d, QJsonObject& b) {
     b["out_of_tolerance"] = d.out_of_tolerance;
-    b["out_of_tolerance_reasons"] = QJsonArray::fromStringList(d.out_of_tolerance_reasons);
+    b["out_of_tolerance_reasons"] = QJsonArray::fromStringList(out_of_tolerance_texts(data, d));
     if (d.correction && d.correction->needed)
         b["correction"] = correction_json(data, *d.correction, d.correction_text);
     b["steps"] = steps_json(d.steps);
@@ -291,7 +279,7 @@ void read_recipe(const AppData& data, const QJsonObject& input, BatchDocument& d
     d.title = recipe_title(lib, *d.recipe, input);
     d.steps << StepSection{QStringLiteral("Steps"), recipe_steps(*d.recipe)};
 
-    add_reasons(data, res.checks, d);
+    add_reasons(res.checks, d.batch.tolerance_fraction, d);
     add_ph_reason(res, d.batch, req.target_ph, d);
     d.correction = chem::suggest_correction(res.checks, d.batch.tolerance_fraction, req.volume_ml,
                                             d.batch.container_ml);
@@ -410,12 +398,12 @@ void read_line(const AppData& data, const QJsonObject& input_in, BatchDocument& 
         if (!c.within_tolerance)
             warnings.add(chem::out_of_tolerance_warning(c, batch.tolerance_fraction),
                          &d.part_checks);
-    add_reasons(data, d.part_checks, d);
+    add_reasons(d.part_checks, batch.tolerance_fraction, d);
 
     if (lr.buffer) {
         d.result = evaluate_subset(data.reagents, *lr.buffer, batch_for_buffer, buffer_entries,
                                    d.shelf_life_h);
-        add_reasons(data, d.result->checks, d);
+        add_reasons(d.result->checks, batch.tolerance_fraction, d);
         add_ph_reason(*d.result, batch, lr.buffer->request.target_ph, d);
         d.steps << StepSection{QStringLiteral("Buffer steps"), step_sentences(lr.buffer->steps)};
     }
@@ -758,15 +746,9 @@ void read_lots(const AppData& data, const QJsonObject& input, BatchDocument& d) 
     };
     if (d.expiry_limited_by >= 0 && d.expiry_limited_by < actual.size()) {
         const QJsonObject e = actual[d.expiry_limited_by].toObject();
-        const QString r = reagent_of(e);
-        d.expiry_limit_text =
-            QStringLiteral("lot %1 of %2, which expires on %3")
-                .arg(e.value("lot").toString(), part_display_name(data, r.toStdString()),
-                     e.value("lot_expires_on").toString());
-        d.expires_limited_by = QJsonObject{{"reagent", r},
-                                           {"lot", e.value("lot").toString()},
-                                           {"lot_expires_on", e.value("lot_expires_on").toString()},
-                                           {"text", d.expiry_limit_text}};
+        d.expiry_limit =
+            chem::UseByLimit{reagent_of(e).toStdString(), e.value("lot").toString().toStdString(),
+                             e.value("lot_expires_on").toString().toStdString()};
     }
     for (const QJsonValue& v : actual) {
         const QJsonObject e = v.toObject();
@@ -842,8 +824,11 @@ QJsonObject summary_to_json(const AppData& data, const BatchDocument& d) {
     finish_tolerance(data, d, b);
     if (!d.ph_capture.isEmpty())
         b["measured_ph_capture"] = d.ph_capture;
-    if (!d.expires_limited_by.isEmpty())
-        b["expires_limited_by"] = d.expires_limited_by;
+    if (const auto& limit = d.expiry_limit)
+        b["expires_limited_by"] = QJsonObject{{"reagent", qs(limit->reagent)},
+                                              {"lot", qs(limit->lot)},
+                                              {"lot_expires_on", qs(limit->lot_expires_on)},
+                                              {"text", expiry_limit_text(data, d)}};
     if (!d.lot_overrides.isEmpty())
         b["lot_overrides"] = d.lot_overrides;
     QJsonObject s{{"document", d.kind}, {"title", d.title}, {"batch", b}, {"warnings", d.warnings}};
@@ -858,14 +843,27 @@ QJsonObject summary_to_json(const AppData& data, const BatchDocument& d) {
     return s;
 }
 
-void require_deviation_note(const BatchDocument& doc) {
+QString expiry_limit_text(const AppData& data, const BatchDocument& d) {
+    return d.expiry_limit ? qs(chem::describe(*d.expiry_limit, part_words(data).name_of))
+                          : QString();
+}
+
+QStringList out_of_tolerance_texts(const AppData& data, const BatchDocument& d) {
+    const chem::NameLookup names = part_words(data).name_of;
+    QStringList out;
+    for (const chem::ReleaseReason& r : d.out_of_tolerance_reasons)
+        out << qs(chem::describe(r, names));
+    return out;
+}
+
+void require_deviation_note(const AppData& data, const BatchDocument& doc) {
     if (!doc.out_of_tolerance)
         return;
     if (!QString::fromStdString(doc.batch.deviation_note).trimmed().isEmpty())
         return;
     throw chem::Error("batch.deviation.note",
                       "is required: the batch is out of tolerance (" +
-                          doc.out_of_tolerance_reasons.join("; ").toStdString() +
+                          out_of_tolerance_texts(data, doc).join("; ").toStdString() +
                           "); record a deviation note saying why it is still used, or remake it");
 }
 

@@ -132,8 +132,9 @@ struct BatchDocument {
     QString expires_at; ///< ISO, "" when unknown (clamped to the lots: chem::use_by)
     /// The index in batch.actual of the lot whose expiry date set expires_at, -1 when none.
     int expiry_limited_by = -1;
-    /// That lot in words: "lot PA-88112 of Phosphoric acid, which expires on 2027-01-15"; "".
-    QString expiry_limit_text;
+    /// That lot as data (reagent id, lot, its expiry date); nullopt when none. In words by
+    /// expiry_limit_text.
+    std::optional<chem::UseByLimit> expiry_limit;
     /// Each expired lot used by an approver's override, in words: "Lot SP-1987 of … expired on
     /// 2026-11-30; used by override of Priya Haldane (demo-approve) at 2026-12-02 14:03 UTC:
     /// <reason>" (chem::describe of its expired_lot_override finding, in evaluation.warnings).
@@ -161,9 +162,10 @@ struct BatchDocument {
 
     /// An entered amount outside its band, or the measured pH outside its tolerance.
     bool out_of_tolerance = false;
-    /// Each reason, in the screens' words: "Potassium dihydrogen phosphate: 3.2050 g, +1.4 %
-    /// (band 3.0978–3.2242 g)", "Measured pH 2.61, +0.11 from the target 2.50 (± 0.05)".
-    QStringList out_of_tolerance_reasons;
+    /// Each reason as data (the amount's part, target, actual, band, unit; or the measured pH,
+    /// target and tolerance), in the order the sheet lists them. In words by
+    /// out_of_tolerance_texts.
+    std::vector<chem::ReleaseReason> out_of_tolerance_reasons;
     /// For out-of-band amounts: what to add, or remake. Absent when every amount is in its band.
     std::optional<chem::Correction> correction;
     /// The correction in words, one instruction a line.
@@ -175,9 +177,7 @@ struct BatchDocument {
     QJsonObject captures;
     QJsonObject ph_capture;
 
-    /// The lot that limits the use-by ({reagent, lot, lot_expires_on, text}; {} when none) and
-    /// the expired lots used by override ({…the override, reagent, lot, lot_expires_on, text}).
-    QJsonObject expires_limited_by;
+    /// The expired lots used by override ({…the override, reagent, lot, lot_expires_on, text}).
     QJsonArray lot_overrides;
 
     /// The evaluation, typed: the screens read it; the summary is rendered from it.
@@ -192,6 +192,14 @@ struct BatchDocument {
 /// puts in `summary`).
 QJsonObject summary_to_json(const AppData& data, const BatchDocument& d);
 
+/// The lot that limits the use-by in the screens' words (chem::describe with part_display_name):
+/// "lot PA-88112 of Phosphoric acid, which expires on 2027-01-15"; "" when none.
+QString expiry_limit_text(const AppData& data, const BatchDocument& d);
+/// Each out-of-tolerance reason in the screens' words (chem::describe with part_display_name):
+/// "Potassium dihydrogen phosphate: 3.2050 g, +1.4 % (band 3.0978–3.2242 g)", "Measured pH 2.61,
+/// +0.11 from the target 2.50 (± 0.05)". The screen, the sheet and the summary read these.
+QStringList out_of_tolerance_texts(const AppData& data, const BatchDocument& d);
+
 /// Validates everything and evaluates the batch. Throws chem::Error naming the field (the same
 /// fields and messages as the `recipe`, `line` and `sequence` subcommands, plus the batch's).
 BatchDocument read_batch_document(const AppData& data, const QJsonObject& input);
@@ -200,7 +208,8 @@ BatchDocument read_batch_document(const AppData& data, const QJsonObject& input)
 QString capture_source_text(const QJsonObject& capture);
 
 /// Throws chem::Error("batch.deviation.note", …) when the batch is out of tolerance and has no
-/// deviation note: it may be neither printed nor used without one.
-void require_deviation_note(const BatchDocument& doc);
+/// deviation note: it may be neither printed nor used without one. The message lists the reasons
+/// (out_of_tolerance_texts).
+void require_deviation_note(const AppData& data, const BatchDocument& doc);
 
 } // namespace phaseplan

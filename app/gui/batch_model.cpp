@@ -208,10 +208,10 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     // The typed evaluation, field by field (the sheet's summary JSON is rendered from it).
     const BatchEvaluation& ev = doc.evaluation;
     use_by_at_ = doc.expires_at;
-    use_by_limit_ = doc.expiry_limit_text;
+    use_by_limit_ = expiry_limit_text(workspace_->data(), doc);
     lot_overrides_ = doc.lot_override_text;
     out_of_tolerance_ = doc.out_of_tolerance;
-    reasons_ = doc.out_of_tolerance_reasons;
+    reasons_ = out_of_tolerance_texts(workspace_->data(), doc);
     correction_ = doc.correction_text;
     correction_remake_ = doc.correction && doc.correction->remake;
     steps_.clear();

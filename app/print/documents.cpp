@@ -34,7 +34,7 @@ PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QS
     if (purpose.isString())
         json::check_text(purpose.toString(), "batch.purpose", chem::guard::max_text_chars);
     const BatchDocument doc = read_batch_document(data, input);
-    require_deviation_note(doc);
+    require_deviation_note(data, doc);
     if (doc.kind == "line")
         return line_job(data, doc, input, printed_at, release);
     if (doc.kind == "sequence")

@@ -24,8 +24,8 @@ PrintJob line_job(const AppData& data, const BatchDocument& doc, const QJsonObje
         start_job(doc, "line", QStringLiteral("Mobile-phase line preparation record"), printed_at);
     const QString& title = doc.title;
     SheetDocument& d = job.sheet;
-    add_deviation_blocks(doc, d);
-    add_batch_blocks(doc, input,
+    add_deviation_blocks(data, doc, d);
+    add_batch_blocks(data, doc, input,
                      lr.buffer ? std::optional<double>(lr.buffer->request.target_ph) : std::nullopt,
                      d);
 

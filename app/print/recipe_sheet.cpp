@@ -23,8 +23,8 @@ PrintJob recipe_job(const AppData& data, const BatchDocument& doc, const QJsonOb
         start_job(doc, "recipe", QStringLiteral("Buffer preparation record"), printed_at);
     const QString& title = doc.title;
     SheetDocument& d = job.sheet;
-    add_deviation_blocks(doc, d);
-    add_batch_blocks(doc, input, req.target_ph, d);
+    add_deviation_blocks(data, doc, d);
+    add_batch_blocks(data, doc, input, req.target_ph, d);
 
     QList<KeyValue> plan = {
         {"Target pH",

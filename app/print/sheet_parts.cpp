@@ -314,14 +314,14 @@ QString percent_text(double fraction) {
 const QString out_of_tolerance_mark = QStringLiteral("OUT OF TOLERANCE — see the deviation note");
 
 /// The mark, the reasons, the deviation note (who, when) and the suggested correction.
-void add_deviation_blocks(const BatchDocument& doc, SheetDocument& d) {
+void add_deviation_blocks(const AppData& data, const BatchDocument& doc, SheetDocument& d) {
     if (!doc.out_of_tolerance)
         return;
     d.mark = out_of_tolerance_mark;
     Block notice;
     notice.kind = Block::Kind::notice;
     notice.text = out_of_tolerance_mark;
-    notice.items = doc.out_of_tolerance_reasons;
+    notice.items = out_of_tolerance_texts(data, doc);
     d.blocks << notice;
     const chem::Batch& b = doc.batch;
     d.blocks << heading(QStringLiteral("Deviation"));
@@ -402,17 +402,17 @@ PrintJob start_job(const BatchDocument& doc, const QString& kind, const QString&
     return job;
 }
 
-void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
+void add_batch_blocks(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
                       std::optional<double> target_ph, SheetDocument& d) {
     const chem::Batch& batch = doc.batch;
     const QString shelf_note = shelf_note_text(doc.shelf_life_h, doc.shelf_kind, doc.shelf_source,
                                                !batch.expires_at.empty());
     QList<KeyValue> fields =
         batch_fields(batch, doc.title, purpose_of(input), doc.expires_at, shelf_note);
-    if (!doc.expiry_limit_text.isEmpty())
+    if (doc.expiry_limit)
         for (KeyValue& kv : fields)
             if (kv.key == QLatin1String("Expires at"))
-                kv.value += "\nlimited by " + doc.expiry_limit_text;
+                kv.value += "\nlimited by " + expiry_limit_text(data, doc);
     d.blocks << heading("Batch")
              << fields_block(fields + bench_fields(batch, target_ph, doc.ph_capture));
     if (!doc.lot_override_text.isEmpty())

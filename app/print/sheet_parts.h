@@ -35,7 +35,7 @@ PrintJob start_job(const BatchDocument& doc, const QString& kind, const QString&
                    const QString& printed_at);
 /// The "Batch" heading and its fields: the batch's own (who, when, shelf life, tolerance), then
 /// what was measured at the bench against `target_ph`.
-void add_batch_blocks(const BatchDocument& doc, const QJsonObject& input,
+void add_batch_blocks(const AppData& data, const BatchDocument& doc, const QJsonObject& input,
                       std::optional<double> target_ph, SheetDocument& d);
 /// A bottle label's batch part: id (and QR), prepared and expiry times, who, the hazards of
 /// `hz`, the sheet's out-of-tolerance `mark` and the release.
@@ -143,7 +143,7 @@ QString purpose_of(const QJsonObject& input);
 QString percent_text(double fraction);
 
 /// The mark, the reasons, the deviation note (who, when) and the suggested correction.
-void add_deviation_blocks(const BatchDocument& doc, SheetDocument& d);
+void add_deviation_blocks(const AppData& data, const BatchDocument& doc, SheetDocument& d);
 
 /// Measured at the bench: the pH meter's reading, the instruments and a comment.
 QList<KeyValue> bench_fields(const chem::Batch& b, std::optional<double> target_ph,

@@ -12,4 +12,12 @@ const chem::Library& shipped_library();
 /// data/solvents.json, the same way.
 const chem::SolventLibrary& shipped_solvents();
 
+/// The tests' shorthands for the two (`using chem::testing::lib;` in a test file).
+inline const chem::Library& lib() {
+    return shipped_library();
+}
+inline const chem::SolventLibrary& solvents() {
+    return shipped_solvents();
+}
+
 } // namespace chem::testing

@@ -11,11 +11,9 @@
 using namespace chem;
 using chem::testing::neat_line;
 
-namespace {
+using chem::testing::solvents;
 
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 // Volume fractions are the pump's shares; solutes are diluted by the share and by the
 // contraction. Arithmetic by hand: 20 mmol/L × 0.6 = 12 mmol/L before contraction.

@@ -17,11 +17,10 @@
 
 using chem::testing::Json;
 
+using chem::testing::lib;
+
 namespace {
 
-const chem::Library& lib() {
-    return chem::testing::shipped_library();
-}
 const chem::Reagent* R(const std::string& id) {
     return &lib().reagent(id);
 }

@@ -29,8 +29,10 @@
 
 using namespace chem;
 
-namespace {
+using chem::testing::lib;
+using chem::testing::solvents;
 
+namespace {
 bool contains(const std::string& text, const std::string& part) {
     return text.find(part) != std::string::npos;
 }
@@ -52,13 +54,6 @@ void expect_carried(const Warning& w, FindingKind kind) {
     EXPECT_EQ(w.code, std::string(code_of(kind)));
     EXPECT_EQ(w.severity, w.finding->severity);
     EXPECT_EQ(w.message, describe(*w.finding, RenderContext{}));
-}
-
-const Library& lib() {
-    return chem::testing::shipped_library();
-}
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
 }
 
 // ---- the batch's pH -------------------------------------------------------------------------

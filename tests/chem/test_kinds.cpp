@@ -15,14 +15,10 @@
 
 using namespace chem;
 
-namespace {
+using chem::testing::lib;
+using chem::testing::solvents;
 
-const Library& lib() {
-    return chem::testing::shipped_library();
-}
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 /// The item for `reagent`; fails the test when the recipe has none.
 const RecipeItem& item(const Recipe& r, const std::string& reagent) {

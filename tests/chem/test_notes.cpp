@@ -6,6 +6,13 @@
 // Redlich–Kister excess volumes for them); KOH on KH2PO4 makes the dipotassium salt K2HPO4, and
 // the library has no glycinate salt (from memory of data/reagents.json, checked by tst_recipe).
 // The sentences are the wording the notes had when they were built as strings.
+//
+// A batch's use-by limit and release reasons (chem::UseByLimit, chem::ReleaseReason) are worded
+// here too: the sentences are those the app built as strings before (recorded from
+// `phaseplan-cli sheet` of that build, Qt 6.4.2); the band is target × (1 ∓ tolerance) (issue 5's
+// ± 2 % default), worked by hand beside each row. QString::number rounded an exact binary tie away
+// from zero (2.625 → "2.63", −0.125 → "-0.13" at two decimals), so the sentences do too.
+#include "chem/batch.h"
 #include "chem/error.h"
 #include "chem/line.h"
 #include "chem/note_text.h"
@@ -18,14 +25,10 @@
 
 using namespace chem;
 
-namespace {
+using chem::testing::lib;
+using chem::testing::solvents;
 
-const Library& lib() {
-    return chem::testing::shipped_library();
-}
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 LineSpec solvent_line(std::vector<std::pair<std::string, double>> parts) {
     LineSpec spec;
@@ -138,6 +141,71 @@ TEST(RouteNotes, MixToTitrateNamesWeighedAndPartner) {
     EXPECT_EQ(none.notes[0].kind, RouteNoteKind::no_pair_to_carry);
     EXPECT_EQ(describe(none.notes[0], lib()),
               "Choose the titrant: the mix had no complete pair to carry over.");
+}
+
+NameLookup batch_names() {
+    return [](const std::string& id) {
+        return id == "sodium-dihydrogen-phosphate-monohydrate"
+                   ? std::string("Sodium dihydrogen phosphate monohydrate")
+                   : id;
+    };
+}
+
+/// A reason's numbers, as worked by hand: target, actual, low, high, deviation, tolerance.
+struct ReasonNumbers {
+    double target, actual, low, high, deviation, tolerance;
+};
+void expect_numbers(const ReleaseReason& r, const ReasonNumbers& n) {
+    EXPECT_NEAR(r.target, n.target, 1e-12);
+    EXPECT_NEAR(r.actual, n.actual, 1e-12);
+    EXPECT_NEAR(r.low, n.low, 1e-12);
+    EXPECT_NEAR(r.high, n.high, 1e-12);
+    EXPECT_NEAR(r.deviation, n.deviation, 1e-12);
+    EXPECT_NEAR(r.tolerance, n.tolerance, 1e-12);
+}
+
+TEST(BatchNotes, UseByLimitNamesTheLotThePartAndTheDate) {
+    const UseByLimit limit{"sodium-dihydrogen-phosphate-monohydrate", "SP-2", "2026-12-02"};
+    EXPECT_EQ(describe(limit, batch_names()),
+              "lot SP-2 of Sodium dihydrogen phosphate monohydrate, which expires on 2026-12-02");
+    // Without names, the id.
+    EXPECT_EQ(describe(UseByLimit{"acetonitrile", "ACN-7", "2026-12-03"}),
+              "lot ACN-7 of acetonitrile, which expires on 2026-12-03");
+}
+
+TEST(BatchNotes, AnAmountOutOfItsBandCarriesItsNumbers) {
+    // 3.075 g against 3.000 g at ± 2 %: band 2.940–3.060 g, 3.075 / 3.000 − 1 = +2.5 % (by hand).
+    const AmountCheck c =
+        check_amount("sodium-dihydrogen-phosphate-monohydrate", "g", 3.0, 3.075, 0.02);
+    ASSERT_FALSE(c.within_tolerance);
+    const ReleaseReason r = amount_reason(c, 0.02);
+    EXPECT_EQ(r.kind, ReleaseReasonKind::amount_out_of_band);
+    EXPECT_EQ(r.reagent, "sodium-dihydrogen-phosphate-monohydrate");
+    EXPECT_EQ(r.unit, "g");
+    expect_numbers(r, {3.0, 3.075, 2.94, 3.06, 0.025, 0.02});
+    EXPECT_EQ(describe(r, batch_names()), "Sodium dihydrogen phosphate monohydrate: 3.075 g, "
+                                          "+2.5 % (band 2.940–3.060 g)");
+    // Below the band, under 1 mL (four decimals, as the sheet prints amounts), named by its id:
+    // 0.48 mL against 0.50 mL, band 0.49–0.51 mL, 0.48 / 0.50 − 1 = −4.0 %.
+    const ReleaseReason low =
+        amount_reason(check_amount("phosphoric-acid", "mL", 0.5, 0.48, 0.02), 0.02);
+    EXPECT_NEAR(low.deviation, -0.04, 1e-12);
+    EXPECT_EQ(describe(low), "phosphoric-acid: 0.4800 mL, -4.0 % (band 0.4900–0.5100 mL)");
+}
+
+TEST(BatchNotes, AMeasuredPhOutOfToleranceCarriesTargetAndBand) {
+    // 2.58 against 2.50 ± 0.05 (the check_print.sh case): +0.08, band 2.45–2.55.
+    const ReleaseReason r = measured_ph_reason(2.58, 2.5, 0.05);
+    EXPECT_EQ(r.kind, ReleaseReasonKind::measured_ph_out_of_tolerance);
+    EXPECT_EQ(r.reagent, "");
+    EXPECT_EQ(r.unit, "");
+    expect_numbers(r, {2.5, 2.58, 2.45, 2.55, 0.08, 0.05});
+    EXPECT_EQ(describe(r), "Measured pH 2.58, +0.08 from the target 2.50 (± 0.05)");
+    // Exact binary ties round away from zero, as QString::number did: 2.625 − 2.5 = 0.125.
+    EXPECT_EQ(describe(measured_ph_reason(2.625, 2.5, 0.05)),
+              "Measured pH 2.63, +0.13 from the target 2.50 (± 0.05)");
+    EXPECT_EQ(describe(measured_ph_reason(2.375, 2.5, 0.02)),
+              "Measured pH 2.38, -0.13 from the target 2.50 (± 0.02)");
 }
 
 } // namespace

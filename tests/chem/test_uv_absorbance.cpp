@@ -11,11 +11,9 @@
 
 using namespace chem;
 
-namespace {
+using chem::testing::solvents;
 
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 UvPart neat(const std::string& id, double fraction = 1.0) {
     const Solvent& s = solvents().solvent(id, "(test)");

@@ -22,11 +22,9 @@ using namespace chem;
 using chem::testing::Json;
 using chem::testing::neat_line;
 
-namespace {
+using chem::testing::solvents;
 
-const SolventLibrary& solvents() {
-    return chem::testing::shipped_solvents();
-}
+namespace {
 
 const Json& reference() {
     static const Json ref = chem::testing::read_table(TESTS_DATA_DIR "/viscosity_reference.json");
