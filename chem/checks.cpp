@@ -51,7 +51,7 @@ std::vector<Finding> check_sequence(const SequenceCheckInput& c) {
     // One set of solved eluent points for the traces and the precipitation check.
     std::optional<EluentPoints> points;
     if (!with.eluent_points && with.reagents) {
-        points.emplace(c);
+        points.emplace(c, EluentPoints::BorrowProfiles{});
         with.eluent_points = &*points;
     }
     if (!with.traces && with.reagents) {
@@ -98,7 +98,7 @@ std::vector<Finding> check_line(const SolventLibrary& solvents, const LineProfil
     c.lone_line = true;
     std::optional<EluentPoints> points;
     if (reagents) {
-        points.emplace(c);
+        points.emplace(c, EluentPoints::BorrowProfiles{});
         c.eluent_points = &*points;
     }
     std::vector<Finding> out;

@@ -113,6 +113,10 @@ class EluentPoints {
     /// Keeps copies of the lines' profiles and references to c's libraries, which must outlive
     /// it; nothing else of `c`.
     explicit EluentPoints(const SequenceCheckInput& c);
+    /// The same, borrowing c's profiles instead of copying them: for points that do not
+    /// outlive `c`'s profiles (check_sequence's own, the precipitation check's bottles).
+    struct BorrowProfiles {};
+    EluentPoints(const SequenceCheckInput& c, BorrowProfiles);
     ~EluentPoints();
     EluentPoints(const EluentPoints&) = delete;
     EluentPoints& operator=(const EluentPoints&) = delete;
@@ -141,6 +145,7 @@ class EluentPoints {
     std::unique_ptr<Table> table_;
     /// The index of the point at `percent`, solved when new.
     std::size_t index_of(const LineValues& percent, const EluentPoint* guess);
+    void init(const SequenceCheckInput& c, bool copy_profiles);
 };
 
 /// The eluent pH trace of every method the sequence runs, at the column temperature (Davies).

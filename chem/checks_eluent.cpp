@@ -6,6 +6,7 @@
 #include "chem/error.h"
 
 #include <algorithm>
+#include <array>
 #include <cmath>
 #include <cstdint>
 #include <deque>
@@ -80,15 +81,25 @@ struct EluentPoints::Table {
 };
 
 EluentPoints::EluentPoints(const SequenceCheckInput& c) : table_(std::make_unique<Table>()) {
+    init(c, true);
+}
+
+EluentPoints::EluentPoints(const SequenceCheckInput& c, BorrowProfiles)
+    : table_(std::make_unique<Table>()) {
+    init(c, false);
+}
+
+void EluentPoints::init(const SequenceCheckInput& c, bool copy_profiles) {
     temperature_c_ = c.column && c.column->temperature_c ? *c.column->temperature_c : 25.0;
     if (!c.reagents || !c.solvents)
         return;
     // The model keeps pointers to the profiles: it gets this object's own copies, so that the
-    // points can outlive the check input (the app keeps them for its next recompute).
+    // points can outlive the check input (the app keeps them for its next recompute), unless
+    // the caller keeps the profiles for as long.
     std::vector<const LineProfile*> profiles(max_lines, nullptr);
     for (int l = 0; l < max_lines; ++l)
         if (c.profiles[l] && c.profiles[l]->described)
-            profiles[l] = &profiles_[l].emplace(*c.profiles[l]);
+            profiles[l] = copy_profiles ? &profiles_[l].emplace(*c.profiles[l]) : c.profiles[l];
     try {
         model_ = std::make_unique<EluentModel>(*c.solvents, *c.reagents, profiles, temperature_c_);
         table_->steps = model_->step_count();
@@ -331,21 +342,33 @@ std::vector<Finding> check_column_ph(const SequenceCheckInput& c) {
                                                                        : nullptr;
             if (!limits)
                 continue;
-            for (const bool low : {true, false}) {
+            // Below and above the range in one walk: per side the first and last point outside
+            // and the worst.
+            struct Side {
                 const EluentTracePoint* worst = nullptr;
                 const EluentTracePoint* first = nullptr;
                 const EluentTracePoint* last = nullptr;
-                for (const auto& p : tr.points) {
-                    const bool outside =
-                        low ? p.ph_s_w < limits->ph_min : p.ph_s_w > limits->ph_max;
-                    if (!outside)
-                        continue;
-                    if (!first)
-                        first = &p;
-                    last = &p;
-                    if (!worst || (low ? p.ph_s_w < worst->ph_s_w : p.ph_s_w > worst->ph_s_w))
-                        worst = &p;
-                }
+            };
+            std::array<Side, 2> sides{}; // below, above
+            auto note = [](Side& side, const EluentTracePoint& p, bool below) {
+                if (!side.first)
+                    side.first = &p;
+                side.last = &p;
+                if (!side.worst ||
+                    (below ? p.ph_s_w < side.worst->ph_s_w : p.ph_s_w > side.worst->ph_s_w))
+                    side.worst = &p;
+            };
+            for (const auto& p : tr.points) {
+                if (p.ph_s_w < limits->ph_min)
+                    note(sides[0], p, true);
+                if (p.ph_s_w > limits->ph_max)
+                    note(sides[1], p, false);
+            }
+            for (const bool low : {true, false}) {
+                const Side& side = sides[low ? 0 : 1];
+                const EluentTracePoint* worst = side.worst;
+                const EluentTracePoint* first = side.first;
+                const EluentTracePoint* last = side.last;
                 if (!worst)
                     continue;
                 Finding w = make(FindingKind::column_ph_eluent, Sev::warning,

@@ -282,7 +282,7 @@ class SpeciesSource {
             if (!at_t.column)
                 at_t.column.emplace();
             at_t.column->temperature_c = temperature_c_;
-            own_ = std::make_unique<EluentPoints>(at_t);
+            own_ = std::make_unique<EluentPoints>(at_t, EluentPoints::BorrowProfiles{});
             points_ = own_.get();
         }
         if (!points_->model())

@@ -74,6 +74,42 @@ double table_at(const std::vector<double>& xs, const std::vector<double>& ys, do
     return y1 + (y1 - y0) / (inv1 - inv0) * (inv - inv1);
 }
 
+/// Where an organic fraction f (> 0) lies among a table's rows xs (not empty): the first row
+/// at or above f, or past the last row (row −1), with 1/ε at f for table_at's extrapolation.
+/// The tables of one organic share their rows, so prepare() finds this once per set of rows.
+struct RowPair {
+    int row = -1;
+    double inv = 0;
+};
+RowPair row_pair(const std::vector<double>& xs, double f, const EluentSolvent& organic) {
+    RowPair r;
+    if (f <= xs.back()) {
+        for (size_t i = 0; i < xs.size(); ++i)
+            if (f <= xs[i]) {
+                r.row = static_cast<int>(i);
+                return r;
+            }
+    }
+    r.inv = 1 / eps_25(organic, f);
+    return r;
+}
+
+/// table_at with the rows around f found by row_pair (f > 0): the same arithmetic.
+double table_at(const std::vector<double>& xs, const std::vector<double>& ys, double f,
+                const RowPair& at, const detail::ShiftEnds& ends, bool* beyond) {
+    if (at.row >= 0) {
+        const size_t i = static_cast<size_t>(at.row);
+        const double x0 = i > 0 ? xs[i - 1] : 0.0, y0 = i > 0 ? ys[i - 1] : 0.0;
+        return y0 + (ys[i] - y0) * (f - x0) / (xs[i] - x0);
+    }
+    *beyond = true;
+    const size_t n = xs.size();
+    const double y1 = ys[n - 1];
+    const double y0 = n > 1 ? ys[n - 2] : 0.0;
+    const double inv = at.inv, inv1 = ends.inv1, inv0 = ends.inv0;
+    return y1 + (y1 - y0) / (inv1 - inv0) * (inv - inv1);
+}
+
 const OrganicShift* shift_table(const AcidBaseSystem& def, Basis b, int step) {
     for (const auto& t : def.eluent_shift)
         if (t.organic == basis_id(b) && step < static_cast<int>(t.dpka.front().size()))
@@ -109,6 +145,7 @@ struct EluentModel::Prepared {
     double rho = 1;
     double dpkw = 0, delta = 0;
     bool beyond = false;
+    std::vector<RowPair> rows; ///< per EluentModel::table_rows_ at this point's organic fraction
     std::vector<double> amounts;
     std::vector<std::array<double, detail::max_steps>> pka_ss;
     std::vector<std::array<bool, detail::max_steps>> estimated;
@@ -149,6 +186,8 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
         basis_data_[b] = reagents.eluent_solvent(basis_id(static_cast<Basis>(b)));
         if (basis_data_[b])
             dpkw_ends_[b] = shift_ends(basis_data_[b]->fraction_v, *basis_data_[b]);
+        if (basis_data_[b] && !basis_data_[b]->fraction_v.empty())
+            dpkw_rows_[b] = rows_of(basis_data_[b]->fraction_v, b);
     }
     line_solvents_.resize(profiles_.size());
     for (size_t l = 0; l < profiles_.size(); ++l) {
@@ -203,8 +242,11 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
                         sh.fraction_v = &t->fraction_v;
                         for (const auto& row : t->dpka)
                             sh.dpka.push_back(row[use_step]);
-                        if (basis_data_[b])
+                        if (basis_data_[b]) {
                             sh.ends = shift_ends(t->fraction_v, *basis_data_[b]);
+                            if (!t->fraction_v.empty())
+                                sh.rows = rows_of(t->fraction_v, b);
+                        }
                     }
                     step_shifts_.push_back(std::move(sh));
                 }
@@ -215,6 +257,14 @@ EluentModel::EluentModel(const SolventLibrary& solvents, const Library& reagents
 }
 
 EluentModel::~EluentModel() = default;
+
+int EluentModel::rows_of(const std::vector<double>& fraction_v, int basis) {
+    for (size_t k = 0; k < table_rows_.size(); ++k)
+        if (table_rows_[k].basis == basis && *table_rows_[k].fraction_v == fraction_v)
+            return static_cast<int>(k);
+    table_rows_.push_back({&fraction_v, basis});
+    return static_cast<int>(table_rows_.size()) - 1;
+}
 
 double EluentModel::organic_fraction_v(const double* percent, std::size_t count) const {
     double o = 0;
@@ -301,12 +351,23 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
     const double phi = out.organic_v;
     out.beyond = false;
     out.dpkw = out.delta = 0;
+    // Each set of table rows searched once at phi (only an organic present reads its tables).
+    out.rows.resize(table_rows_.size());
+    if (phi > 0)
+        for (size_t k = 0; k < table_rows_.size(); ++k)
+            if (out.share[table_rows_[k].basis] > 0)
+                out.rows[k] =
+                    row_pair(*table_rows_[k].fraction_v, phi, *basis_data_[table_rows_[k].basis]);
     for (int bi = 0; bi < n_basis; ++bi) {
         const EluentSolvent* es = basis_data_[bi];
         if (out.share[bi] <= 0 || !es)
             continue;
-        out.dpkw += out.share[bi] *
-                    table_at(es->fraction_v, es->dpkw, phi, *es, dpkw_ends_[bi], &out.beyond);
+        out.dpkw +=
+            out.share[bi] *
+            (dpkw_rows_[bi] >= 0 && phi > 0
+                 ? table_at(es->fraction_v, es->dpkw, phi, out.rows[dpkw_rows_[bi]], dpkw_ends_[bi],
+                            &out.beyond)
+                 : table_at(es->fraction_v, es->dpkw, phi, *es, dpkw_ends_[bi], &out.beyond));
         out.delta += out.share[bi] * es->delta(phi);
         if (phi > es->delta_max_fraction_v)
             out.beyond = true;
@@ -322,7 +383,10 @@ void EluentModel::prepare(const double* percent, std::size_t count, Prepared& ou
                     continue;
                 const StepShift& sh = step_shifts_[(step_offset_[i] + j) * n_basis + bi];
                 estimated = estimated || sh.estimated;
-                if (sh.fraction_v)
+                if (sh.rows >= 0)
+                    d += out.share[bi] * table_at(*sh.fraction_v, sh.dpka, phi, out.rows[sh.rows],
+                                                  sh.ends, &out.beyond);
+                else if (sh.fraction_v)
                     d += out.share[bi] * table_at(*sh.fraction_v, sh.dpka, phi, *basis_data_[bi],
                                                   sh.ends, &out.beyond);
             }

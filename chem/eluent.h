@@ -143,7 +143,18 @@ class EluentModel {
         std::vector<double> dpka;
         bool estimated = false;
         detail::ShiftEnds ends; ///< 1/ε at the table's last two rows, in its organic
+        int rows = -1;          ///< index into table_rows_ (its fraction_v rows), −1 without
     };
+    /// The distinct organic-fraction rows of the shift tables (ΔpKw's and the steps'), each
+    /// with its organic: the tables of one organic share their rows, so prepare() finds the
+    /// row pair around a point once per distinct set of rows, not once per table.
+    struct TableRows {
+        const std::vector<double>* fraction_v = nullptr;
+        int basis = 0;
+    };
+    std::vector<TableRows> table_rows_;
+    std::array<int, 2> dpkw_rows_{-1, -1}; ///< each organic's ΔpKw table's index in table_rows_
+    int rows_of(const std::vector<double>& fraction_v, int basis);
     /// Each organic's mixing contraction with water, resolved once (mixing_contraction_ml's
     /// lookups by name cost as much as the rest of a point's blend).
     struct OrganicExcess {
