@@ -4,6 +4,7 @@
 
 #include "chem/error.h"
 #include "chem/guard.h"
+#include "chem/measure_band.h"
 #include "chem/recipe_roles.h"
 #include "core/chem_json.h"
 #include "core/json_util.h"
@@ -110,9 +111,11 @@ struct WarningList {
 };
 
 QString reason_text(const AppData& data, const chem::AmountCheck& c) {
+    // The band as the sheet's table prints it: with its target's decimals.
+    const auto unit = c.unit == "g" ? chem::MeasureUnit::g : chem::MeasureUnit::ml;
     return part_display_name(data, c.reagent) + ": " + amount_text(c.actual) + " " + qs(c.unit) +
-           ", " + signed_percent(c.deviation_fraction) + " (band " + amount_text(c.low) + "–" +
-           amount_text(c.high) + " " + qs(c.unit) + ")";
+           ", " + signed_percent(c.deviation_fraction) + " (band " +
+           qs(chem::format_measure_band(c.low, c.high, c.target, unit)) + " " + qs(c.unit) + ")";
 }
 
 void add_reasons(const AppData& data, const std::vector<chem::AmountCheck>& checks,

@@ -162,7 +162,8 @@ struct BatchDocument {
     /// An entered amount outside its band, or the measured pH outside its tolerance.
     bool out_of_tolerance = false;
     /// Each reason, in the screens' words: "Potassium dihydrogen phosphate: 3.2050 g, +1.4 %
-    /// (band 3.0978–3.2242 g)", "Measured pH 2.61, +0.11 from the target 2.50 (± 0.05)".
+    /// (band 3.098–3.224 g)" (the band with its target's decimals, chem::format_measure_band),
+    /// "Measured pH 2.61, +0.11 from the target 2.50 (± 0.05)".
     QStringList out_of_tolerance_reasons;
     /// For out-of-band amounts: what to add, or remake. Absent when every amount is in its band.
     std::optional<chem::Correction> correction;
