@@ -3,6 +3,7 @@
 // the user sees. Each test is one fault a newcomer found at the bench (PhasePlan's own trial; no
 // outside source).
 #include "app_runner.h"
+#include "wheel_steps.h"
 #include "workspace.h"
 
 #include <QAccessible>
@@ -224,6 +225,57 @@ class TestGuiViews : public QObject {
         QCOMPARE(on_page(method), method_at);
         QTest::keyClick(window_, Qt::Key_Escape);
         settle();
+    }
+
+    /// The start's minute wheel stops at the quarter hours for a notch of the mouse wheel and
+    /// the Up and Down keys, and any minute can still be typed (it moved one minute per notch).
+    void theMinuteWheelStopsAtTheQuarterHours() {
+        using phaseplan::gui::turn_wheel;
+        QCOMPARE(turn_wheel(0, 1, 60, 15), 15);
+        QCOMPARE(turn_wheel(7, 1, 60, 15), 15);
+        QCOMPARE(turn_wheel(7, -1, 60, 15), 0);
+        QCOMPARE(turn_wheel(15, -1, 60, 15), 0);
+        QCOMPARE(turn_wheel(45, 1, 60, 15), 0); // round the hour
+        QCOMPARE(turn_wheel(0, -2, 60, 15), 30);
+        QCOMPARE(turn_wheel(52, 3, 60, 15), 30);
+        QCOMPARE(turn_wheel(23, 1, 24, 1), 0); // the hours: every value
+        QCOMPARE(turn_wheel(7, 1, 60, 7), 8);  // a stride that does not divide: every value
+
+        open_screen("Sequence");
+        QQuickItem* start = named("startField");
+        QVERIFY(start);
+        click(named("dateTimeButton", start));
+        settle(5);
+        QQuickItem* minutes = named("minuteTumbler");
+        QQuickItem* typed = named("typedMinute");
+        QVERIFY2(minutes && typed, "the picker is open, with its minute wheel and typed minute");
+        QObject* plan = model("plan");
+        const int hour = plan->property("startParts").toMap().value("hour").toInt();
+        minutes->setProperty("currentIndex", 0);
+        wheel_notch(minutes, -120); // towards the user: later
+        QCOMPARE(minutes->property("currentIndex").toInt(), 15);
+        wheel_notch(minutes, -120);
+        QCOMPARE(minutes->property("currentIndex").toInt(), 30);
+        wheel_notch(minutes, 120);
+        QCOMPARE(minutes->property("currentIndex").toInt(), 15);
+        minutes->forceActiveFocus();
+        QTest::keyClick(window_, Qt::Key_Down);
+        settle();
+        QCOMPARE(minutes->property("currentIndex").toInt(), 30);
+        // Any minute, typed: the wheel shows it, and the next notch goes to a quarter hour.
+        type_into(typed->property("field").value<QQuickItem*>(), "7");
+        QCOMPARE(minutes->property("currentIndex").toInt(), 7);
+        wheel_notch(minutes, -120);
+        QCOMPARE(minutes->property("currentIndex").toInt(), 15);
+        // The typed minute then shows where the wheel stopped, not the 7 typed before.
+        QCOMPARE(typed->property("field").value<QQuickItem*>()->property("text").toString(),
+                 QStringLiteral("15"));
+        type_into(typed->property("field").value<QQuickItem*>(), "52");
+        QCOMPARE(minutes->property("currentIndex").toInt(), 52);
+        QVERIFY(message_of(typed).isEmpty());
+        click(named("dateTimeSet"));
+        QCOMPARE(plan->property("startParts").toMap().value("minute").toInt(), 52);
+        QCOMPARE(plan->property("startParts").toMap().value("hour").toInt(), hour);
     }
 };
 
