@@ -277,6 +277,61 @@ class TestGuiViews : public QObject {
         QCOMPARE(plan->property("startParts").toMap().value("minute").toInt(), 52);
         QCOMPARE(plan->property("startParts").toMap().value("hour").toInt(), hour);
     }
+
+    /// "Open ›" on a check focuses the field the finding names, on its screen and scrolled into
+    /// view; "Show ›" for an entry not applied focuses that entry. (Both only opened the screen.)
+    void openOnACheckFocusesItsField() {
+        // The demo's line B (acetonitrile, 210 mL usable) runs dry tonight: the night's finding
+        // names lines.B.bottle_ml. It once opened the Sequence screen and focused the waste.
+        open_screen("Checks");
+        QQuickItem* open = find([&](QQuickItem* i) {
+            return i->inherits("QQuickAbstractButton") &&
+                   i->property("text").toString() == QStringLiteral("Open ›") &&
+                   accessible(i).contains(QStringLiteral("runs dry"));
+        });
+        QVERIFY2(open, "the runs-dry check with its Open button");
+        click(open);
+        settle(5);
+        QQuickItem* focused = window_->activeFocusItem();
+        QVERIFY(focused);
+        QString letter, holder;
+        for (QQuickItem* p = focused; p; p = p->parentItem()) {
+            if (holder.isEmpty() && !p->objectName().isEmpty())
+                holder = p->objectName();
+            if (letter.isEmpty() && p->property("letter").isValid())
+                letter = p->property("letter").toString();
+        }
+        QVERIFY2(holder == QStringLiteral("bottleField") && letter == QStringLiteral("B"),
+                 qPrintable(QString("the focus is in %1 of line %2 (%3)")
+                                .arg(holder, letter, accessible(focused))));
+        const QPointF centre =
+            focused->mapToScene(QPointF(focused->width() / 2, focused->height() / 2));
+        QVERIFY2(window_->contentItem()->contains(centre), "the field is scrolled into view");
+
+        // The detection wavelength of the settings card, named by a uv-cutoff finding's path.
+        open_screen("Checks");
+        open_screen("Sequence");
+        QMetaObject::invokeMethod(window_, "showField", Q_ARG(QVariant, QStringLiteral("sequence")),
+                                  Q_ARG(QVariant, QStringLiteral("detector.wavelength_nm")));
+        settle(5);
+        QQuickItem* wavelength = named("wavelengthField");
+        QVERIFY(wavelength);
+        QVERIFY(focused_within(wavelength->property("field").value<QQuickItem*>()));
+
+        // An entry not applied: "Show ›" on the checks focuses it.
+        QQuickItem* flow_input = named("flowField")->property("field").value<QQuickItem*>();
+        type_into(flow_input, "0,");
+        QTest::keyClick(window_, Qt::Key_Tab);
+        settle(5);
+        open_screen("Checks");
+        QQuickItem* show = control(QStringLiteral("Show the entry that is not applied"));
+        QVERIFY(show);
+        click(show);
+        settle(5);
+        QVERIFY(focused_within(flow_input));
+        QTest::keyClick(window_, Qt::Key_Escape);
+        settle();
+    }
 };
 
 int main(int argc, char** argv) {
