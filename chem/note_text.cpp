@@ -2,6 +2,7 @@
 #include "chem/note_text.h"
 
 #include "chem/checks_common.h"
+#include "chem/measure_band.h"
 
 namespace chem {
 
@@ -107,9 +108,12 @@ std::string describe(const UseByLimit& limit, const NameLookup& name_of) {
 std::string describe(const ReleaseReason& r, const NameLookup& name_of) {
     switch (r.kind) {
     case ReleaseReasonKind::amount_out_of_band:
+        // The band as the sheet's table prints it: with its target's decimals.
         return part_name(name_of, r.reagent) + ": " + format_amount(r.actual) + " " + r.unit +
-               ", " + signed_fixed(r.deviation * 100, 1) + " % (band " + format_amount(r.low) +
-               "–" + format_amount(r.high) + " " + r.unit + ")";
+               ", " + signed_fixed(r.deviation * 100, 1) + " % (band " +
+               format_measure_band(r.low, r.high, r.target,
+                                   r.unit == "g" ? MeasureUnit::g : MeasureUnit::ml) +
+               " " + r.unit + ")";
     case ReleaseReasonKind::measured_ph_out_of_tolerance:
         return "Measured pH " + format_fixed_ties_away(r.actual, 2) + ", " +
                signed_fixed(r.deviation, 2) + " from the target " +

@@ -78,13 +78,18 @@ ApplicationWindow {
         if (i >= 0)
             currentScreen = i
     }
-    /// Shows a screen and focuses the field a check or an error names (a contract path).
+    /// Shows a screen and focuses the field a check or an error names (a contract path); with
+    /// no path, the screen's first entry whose text is not applied, if it has one.
     function showField(key, path) {
         show(key)
         var loader = stack.children[screenKeys.indexOf(key)]
         var screen = loader ? loader.item : null
-        if (path.length > 0 && screen && screen.focusField !== undefined)
+        if (!screen)
+            return
+        if (path.length > 0 && screen.focusField !== undefined)
             Qt.callLater(function() { screen.focusField(path) })
+        else if (path.length === 0 && screen.focusPending !== undefined)
+            Qt.callLater(function() { screen.focusPending() })
     }
 
     width: 1280

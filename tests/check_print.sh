@@ -18,7 +18,7 @@ OUT="$BUILD/print-check"
 rm -rf "$OUT"
 mkdir -p "$OUT"
 exec /usr/bin/python3 - "$CLI" "$SRC" "$OUT" <<'PY'
-import datetime, json, os, re, subprocess, sys
+import datetime, json, math, os, re, subprocess, sys
 
 import periodictable  # Debian python3-periodictable: an outside source of formula masses
 
@@ -81,6 +81,21 @@ def fmt_amount(v):  # the sheet's rule: about four significant figures
     a = abs(v)
     d = 1 if a >= 100 else 2 if a >= 10 else 3 if a >= 1 else 4
     return "%.*f" % (d, v)
+
+
+def measure_decimals(v, unit):  # DEVELOPERS.md, "Amounts to weigh and measure" (common practice)
+    a = abs(v)
+    if unit == "g":
+        return 4 if a < 1 else 3 if a < 100 else 2
+    return 3 if a < 1 else 2 if a < 10 else 1 if a < 100 else 0
+
+
+def fmt_band(target, unit, tol=0.02):  # the target's decimals, each end rounded inward
+    d = measure_decimals(round(target, measure_decimals(target, unit)), unit)
+    s = 10 ** d
+    lo = math.ceil(target * (1 - tol) * s - 1e-9) / s
+    hi = math.floor(target * (1 + tol) * s + 1e-9) / s
+    return "%.*f–%.*f" % (d, lo, d, hi)
 
 
 def fmt_recorded(v, unit):  # an actual as recorded: the rule's decimals, more if entered
@@ -203,8 +218,8 @@ for comp in recipe["composition"]:
         check(printed_near(flat, mass_g / r["density_g_per_ml"], "mL"),
               "%s target volume %.4f mL" % (r["id"], mass_g / r["density_g_per_ml"]))
 # The tolerance band of the salt, ± 2 %.
-check(fmt_amount(items[salt]["mass_g"] * 0.98) + "–" + fmt_amount(items[salt]["mass_g"] * 1.02) in flat,
-      "salt tolerance band ± 2 %")
+check(fmt_band(items[salt]["mass_g"], "g") in flat,
+      "salt tolerance band ± 2 %% with the target's decimals (%s)" % fmt_band(items[salt]["mass_g"], "g"))
 # Actual amounts and their flags.
 check(re.search(re.escape(fmt_recorded(salt_actual, "g")) + r" g typed SP-2207 OUT \+2\.5 %", flat) is not None,
       "salt actual %s g, typed, lot, flagged OUT +2.5 %%" % fmt_recorded(salt_actual, "g"))

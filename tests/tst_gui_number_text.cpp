@@ -13,6 +13,21 @@ using S = ParsedNumber::Status;
 class TestNumberText : public QObject {
     Q_OBJECT
   private slots:
+    /// A step's sentence with the locale's decimal mark: only a '.' between two digits changes.
+    void locale_marks_in_a_sentence() {
+        using phaseplan::gui::with_locale_marks;
+        const QString step = QStringLiteral(
+            "Measure 1.26 mL (2.126 g) of Phosphoric acid 85 % (H3PO4, 97.99 g/mol), 85 % w/w, "
+            "1.689 g/mL. Filter through a 0.45 µm membrane.");
+        QCOMPARE(with_locale_marks(step, QLocale(QLocale::German, QLocale::Germany)),
+                 QStringLiteral("Measure 1,26 mL (2,126 g) of Phosphoric acid 85 % (H3PO4, 97,99 "
+                                "g/mol), 85 % w/w, 1,689 g/mL. Filter through a 0,45 µm "
+                                "membrane."));
+        QCOMPARE(with_locale_marks(step, QLocale::c()), step);
+        QCOMPARE(with_locale_marks(QStringLiteral("pH 2.50."), QLocale(QLocale::French)),
+                 QStringLiteral("pH 2,50."));
+    }
+
     void parse_data() {
         QTest::addColumn<QString>("text");
         QTest::addColumn<bool>("whole");

@@ -16,6 +16,7 @@
 #include <QPainter>
 #include <QPrinter>
 #include <QProcess>
+#include <QRegularExpression>
 #include <QSignalSpy>
 #include <QStandardPaths>
 #include <QTemporaryDir>
@@ -100,6 +101,7 @@ class TestPrint : public QObject {
     void controllerErrorsNameTheFieldAndWriteNothing();
     void outOfToleranceNeedsNoteAndCarriesMark();
     void releaseIsOnTheSheetAndEveryLabel();
+    void bandHasTheDecimalsOfItsTarget();
 
   private:
     QTemporaryDir dir_;
@@ -462,6 +464,39 @@ void TestPrint::releaseIsOnTheSheetAndEveryLabel() {
             l.release,
             QString("Released: reviewed by Mats Lindqvist (demo-review) 2026-12-02 14:02 UTC"));
     }
+}
+
+/// The decimals of the first number in `text` ("1.26 mL" → 2, "2.975 g" → 3, "500 mL" → 0).
+static int decimals_of_first_number(const QString& text) {
+    const QRegularExpressionMatch m = QRegularExpression(R"((\d+)(?:\.(\d+))?)").match(text);
+    return m.hasMatch() ? int(m.captured(2).size()) : -1;
+}
+
+/// The tolerance band beside a target is printed with the target's decimals (chem::
+/// measure_decimals, the one amount rule; common practice, no source): the demo's 1.26 mL of
+/// phosphoric acid once printed a band of 1.234–1.284 mL.
+void TestPrint::bandHasTheDecimalsOfItsTarget() {
+    const auto job = phaseplan::print::build_print_job(shipped_data(), demo_with_batch(), "now");
+    int rows = 0;
+    for (const auto& block : job.sheet.blocks) {
+        if (block.kind != phaseplan::print::Block::Kind::table)
+            continue;
+        const int target = int(block.table.headers.indexOf("Target"));
+        const int band = int(block.table.headers.indexOf("Tolerance"));
+        if (target < 0 || band < 0)
+            continue;
+        for (const QStringList& row : block.table.rows) {
+            const QString band_line = row[band].section('\n', 1); // "1.24–1.28 mL"
+            const QStringList ends = band_line.section(' ', 0, 0).split(QChar(0x2013));
+            QCOMPARE(ends.size(), 2);
+            const int want = decimals_of_first_number(row[target]);
+            for (const QString& e : ends)
+                QVERIFY2(decimals_of_first_number(e) == want,
+                         qPrintable(row[target] + " beside the band " + band_line));
+            ++rows;
+        }
+    }
+    QCOMPARE(rows, 2); // phosphoric acid (mL) and the salt (g)
 }
 
 QTEST_MAIN(TestPrint)

@@ -3,6 +3,7 @@
 #include "chem/error.h"
 #include "core/batch_document.h"
 #include "core/date_time.h"
+#include "number_text.h"
 #include "storage/accounts.h"
 #include "storage/audit_trail.h"
 #include "storage/lot_store.h"
@@ -215,8 +216,13 @@ FieldError BatchModel::evaluate(const storage::BatchRecord& rec) {
     correction_ = doc.correction_text;
     correction_remake_ = doc.correction && doc.correction->remake;
     steps_.clear();
-    for (const StepSection& sec : doc.steps)
-        steps_.append(QVariantMap{{"heading", sec.heading}, {"steps", sec.steps}});
+    // The sheet's sentences, with the locale's decimal mark as the amounts beside them.
+    for (const StepSection& sec : doc.steps) {
+        QStringList shown;
+        for (const QString& s : sec.steps)
+            shown << with_locale_marks(s);
+        steps_.append(QVariantMap{{"heading", sec.heading}, {"steps", shown}});
+    }
     std::vector<Row> rows;
     rows.reserve(ev.checks.size());
     for (const BatchCheckRow& c : ev.checks) {

@@ -6,6 +6,7 @@
 #include "core/chem_json.h"
 #include "core/commands.h"
 #include "field_words.h"
+#include "number_text.h"
 #include "plan.h"
 #include "workspace.h"
 
@@ -1007,8 +1008,9 @@ void BufferDesigner::recompute() {
         // core's renderer.
         for (const chem::Warning& w : recipe->warnings)
             warnings_.append(warning_to_json(w).toVariantMap());
+        // With the locale's decimal mark, as the cards show the same amounts.
         for (const chem::Step& s : recipe->steps)
-            steps_.append(QString::fromStdString(s.text));
+            steps_.append(with_locale_marks(QString::fromStdString(s.text)));
         for (const std::string& s : recipe->cautions)
             cautions_.append(QString::fromStdString(s));
         predicted_ph_ = recipe->predicted.ph;

@@ -1,6 +1,7 @@
 #include "checks_model.h"
 
 #include "buffer_designer.h"
+#include "field_path.h"
 #include "field_words.h"
 #include "lines_model.h"
 #include "plan.h"
@@ -195,6 +196,14 @@ int ChecksModel::warningCount() const {
     }));
 }
 
+namespace {
+/// The screen that shows the field `focus` names: a line's field ("lines.B.bottle_ml", named by
+/// the night's runs-dry check) is on the Lines screen whichever list the finding came in.
+QString screen_of(const QString& screen, const QString& focus) {
+    return FieldPath::belongs(focus, QStringLiteral("lines")) ? QStringLiteral("lines") : screen;
+}
+} // namespace
+
 void ChecksModel::rebuild() {
     std::vector<Entry> out;
     const QStringList methods = plan_ ? plan_->methodNames() : QStringList();
@@ -215,7 +224,7 @@ void ChecksModel::rebuild() {
             if (focus.isEmpty() && !focus_prefix.isEmpty())
                 focus = focus_prefix + QStringLiteral("parts");
             out.push_back({w.value("severity").toString(), code, w.value("message").toString(),
-                           adviceFor(code), src, screen, focus});
+                           adviceFor(code), src, screen_of(screen, focus), focus});
         }
     };
     auto add_error = [&](const QString& field, const QString& message, const QString& source,
@@ -226,7 +235,7 @@ void ChecksModel::rebuild() {
         const QString place = field_words(path, methods);
         out.push_back({QStringLiteral("error"), QStringLiteral("input"),
                        place.isEmpty() ? message : place + QStringLiteral(": ") + message,
-                       adviceFor("input"), source, screen, path});
+                       adviceFor("input"), source, screen_of(screen, path), path});
     };
     if (designer_) {
         const QString src = tr("Buffer “%1”").arg(designer_->bufferName());

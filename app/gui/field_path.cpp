@@ -22,4 +22,12 @@ int FieldPath::index(const QString& path, const QString& list) {
     return s ? s->index() : -1;
 }
 
+QStringList FieldPath::segments(const QString& path) {
+    QStringList out;
+    const chem::Path parsed = chem::Path::parse(path.toStdString());
+    for (const chem::PathSegment& s : parsed.segments())
+        out << QString::fromStdString(s.text);
+    return out;
+}
+
 } // namespace phaseplan::gui

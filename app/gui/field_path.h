@@ -26,6 +26,10 @@ class FieldPath : public QObject {
     /// The list index in `path` right after `list` ("batch.actual[2].mass_g", "batch.actual"
     /// → 2), or -1.
     Q_INVOKABLE static int index(const QString& path, const QString& list);
+    /// The path's segments as texts, read by chem::Path::parse: "lines.B.parts[0].fraction_v" →
+    /// ["lines", "B", "parts", "0", "fraction_v"]. A screen walks them to the field a check or
+    /// an error names ("Open ›").
+    Q_INVOKABLE static QStringList segments(const QString& path);
 };
 
 } // namespace phaseplan::gui

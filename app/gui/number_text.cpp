@@ -135,6 +135,24 @@ QString measure_text(double value, chem::MeasureUnit unit, const QLocale& locale
     return s;
 }
 
+QString with_locale_marks(const QString& sentence, const QLocale& locale) {
+    const QString mark = locale.decimalPoint();
+    if (mark == QLatin1String("."))
+        return sentence;
+    QString out;
+    out.reserve(sentence.size());
+    const auto digit = [](QChar c) { return c >= QLatin1Char('0') && c <= QLatin1Char('9'); };
+    for (qsizetype i = 0; i < sentence.size(); ++i) {
+        const QChar c = sentence[i];
+        if (c == QLatin1Char('.') && i > 0 && i + 1 < sentence.size() && digit(sentence[i - 1]) &&
+            digit(sentence[i + 1]))
+            out += mark;
+        else
+            out += c;
+    }
+    return out;
+}
+
 QVariantMap NumberText::parse(const QString& text, bool whole, const QString& label) const {
     const ParsedNumber p = parse_decimal(text, whole);
     return {{"ok", p.ok()},

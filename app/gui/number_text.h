@@ -52,6 +52,13 @@ QString format_shown(double value, int decimals, const QLocale& locale = QLocale
 /// (chem::measure_decimals), with the locale's decimal mark: the cards and the steps agree.
 QString measure_text(double value, chem::MeasureUnit unit, const QLocale& locale = QLocale());
 
+/// A sentence of chem/ (a preparation step: "Weigh 2.400 g …, pH 2.50") with the locale's
+/// decimal mark in its numbers, as the cards beside it show them ("2,400 g" in de_DE). The core
+/// writes every number with "." and never groups digits, so a '.' between two digits is a
+/// decimal mark and nothing else ('.' ending a sentence, "H3PO4·H2O" and "Phosphoric acid 85 %"
+/// stay). The command line and the printed sheet keep ".".
+QString with_locale_marks(const QString& sentence, const QLocale& locale = QLocale());
+
 class NumberText : public QObject {
     Q_OBJECT
     QML_ELEMENT

@@ -41,7 +41,8 @@ PrintJob build_print_job(const AppData& data, const QJsonObject& input, const QS
                          const BatchRelease& release = {});
 
 /// Number formats shared by sheets, labels and tests: amounts to about four significant figures
-/// (bands, actual amounts, bottle volumes), pH to 0.01, concentrations in mmol/L to 0.01.
+/// (bottle volumes, contractions), pH to 0.01, concentrations in mmol/L to 0.01. A tolerance band
+/// has its target's decimals (band_text, chem::format_measure_band).
 QString format_amount(double value);
 /// An amount to weigh or measure as the steps write it (chem::format_measure).
 QString measure_text(double value, chem::MeasureUnit unit);

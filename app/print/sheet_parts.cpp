@@ -1,6 +1,7 @@
 #include "print/sheet_parts.h"
 
 #include "chem/error.h"
+#include "chem/measure_band.h"
 #include "core/date_time.h"
 
 #include <QJsonArray>
@@ -150,8 +151,11 @@ QString check_text(const chem::AmountCheck& c) {
 }
 
 QString band_text(const chem::AmountCheck& c, const chem::Batch& b) {
-    return tolerance_text(b) + "\n" + format_amount(c.low) + "–" + format_amount(c.high) + " " +
-           qs(c.unit);
+    // With the target's decimals (chem::measure_decimals), so the band reads on the same balance
+    // or pipette as the target beside it.
+    const auto unit = c.unit == "g" ? chem::MeasureUnit::g : chem::MeasureUnit::ml;
+    return tolerance_text(b) + "\n" + qs(chem::format_measure_band(c.low, c.high, c.target, unit)) +
+           " " + qs(c.unit);
 }
 
 /// The reagents table of a recipe with its batch: target, tolerance, actual, lot, check.

@@ -105,6 +105,7 @@ QString tolerance_text(const chem::Batch& b);
 
 QString check_text(const chem::AmountCheck& c);
 
+/// "± 2 %" and the band ("1.24–1.28 mL"), with its target's decimals (chem::format_measure_band).
 QString band_text(const chem::AmountCheck& c, const chem::Batch& b);
 
 /// The reagents table of a recipe with its batch: target, tolerance, actual, lot, check.

@@ -3,8 +3,8 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// The steps, exactly as the sheet prints them (BatchModel.steps comes from the same core list
-// as the sheet's numbered blocks).
+// The steps as the sheet prints them (BatchModel.steps comes from the same core list as the
+// sheet's numbered blocks), with the locale's decimal mark as the amounts on this screen.
 Card {
     id: root
 

@@ -20,6 +20,8 @@ ColumnLayout {
     signal picked(string id)
 
     spacing: Math.round(Theme.gap / 2)
+    // At the top of its cell, as NumberField: a message beside it or beneath it moves nothing.
+    Layout.alignment: Qt.AlignTop
 
     function indexOfId(id) {
         for (var i = 0; i < root.choices.length; ++i)
@@ -60,6 +62,7 @@ ColumnLayout {
     }
     Label {
         Layout.fillWidth: true
+        Layout.preferredWidth: 0 // wraps in the field's width, widening no column
         visible: root.error.length > 0
         text: root.error
         color: Theme.bad

@@ -3,10 +3,14 @@ import QtQuick.Controls
 import PhasePlan
 
 // One wheel of the time picker (hours or minutes): turns by dragging, by tapping the number above
-// or below, by the mouse wheel or touchpad (one step per notch), and by the Up and Down keys once
-// it has focus.
+// or below, by the mouse wheel or touchpad (one stop per notch), and by the Up and Down keys once
+// it has focus. The stops are every `stride` values (WheelSteps: the minutes stop at the quarter
+// hours); dragging and tapping still reach every value.
 Tumbler {
     id: wheel
+
+    /// Values between the stops of a notch or a key (1: every value).
+    property int stride: 1
 
     visibleItemCount: 3
     implicitWidth: Theme.tap * 1.5
@@ -16,7 +20,7 @@ Tumbler {
     wrap: true
 
     function turn(steps) {
-        wheel.currentIndex = ((wheel.currentIndex + steps) % wheel.count + wheel.count) % wheel.count
+        wheel.currentIndex = WheelSteps.turn(wheel.currentIndex, steps, wheel.count, wheel.stride)
     }
 
     delegate: Label {
@@ -38,6 +42,9 @@ Tumbler {
     WheelHandler {
         acceptedDevices: PointerDevice.Mouse | PointerDevice.TouchPad
         onWheel: function(event) {
+            // The wheel being turned takes the focus (a typed minute beside it then shows the
+            // value the wheel stops at, not what was typed).
+            wheel.forceActiveFocus()
             wheel.pendingDelta += event.angleDelta.y
             while (Math.abs(wheel.pendingDelta) >= 120) {
                 wheel.turn(wheel.pendingDelta > 0 ? -1 : 1)

@@ -3,9 +3,10 @@ import QtQuick.Controls
 import QtQuick.Layouts
 import PhasePlan
 
-// A date and time (or a time of day alone) chosen with pickers, never typed: a button that shows
-// the value with its day ("today 18:00"), opening a calendar and hour and minute wheels. The
-// value is held as plain parts (year, month 1–12, day, hour, minute) of a wall-clock time.
+// A date and time (or a time of day alone) chosen with pickers: a button that shows the value
+// with its day ("today 18:00"), opening a calendar and hour and minute wheels. The minute wheel
+// stops at the quarter hours for the mouse wheel and the keys; any minute can be typed beside it.
+// The value is held as plain parts (year, month 1–12, day, hour, minute) of a wall-clock time.
 ColumnLayout {
     id: root
 
@@ -213,7 +214,21 @@ ColumnLayout {
                     id: minutes
                     objectName: "minuteTumbler"
                     model: 60
+                    stride: WheelSteps.minuteStride
                     Accessible.name: qsTr("Minute")
+                }
+                // Any minute, typed (the wheel's notches stop at the quarter hours).
+                NumberField {
+                    id: typedMinute
+                    objectName: "typedMinute"
+                    Layout.preferredWidth: Theme.tap * 2.2
+                    label: qsTr("Minute, typed")
+                    integer: true
+                    stepButtons: false
+                    from: 0
+                    to: 59
+                    value: minutes.currentIndex
+                    onEdited: function(v) { minutes.currentIndex = Math.round(v) }
                 }
             }
             RowLayout {

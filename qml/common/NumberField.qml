@@ -47,6 +47,10 @@ ColumnLayout {
     signal edited(real value)
 
     spacing: Math.round(Theme.gap / 2)
+    // At the top of its cell in a row or grid: the message beneath grows the field downwards,
+    // and a field beside it stays where it was (a layout centres its cells by default, so a
+    // message under Run moved Flow down by half its height).
+    Layout.alignment: Qt.AlignTop
 
     function formatted(v) {
         if (root.optional && isNaN(v))
@@ -217,6 +221,9 @@ ColumnLayout {
         id: message
         objectName: "fieldMessage"
         Layout.fillWidth: true
+        // The message wraps in the width the field has: its unwrapped width must not widen the
+        // field's column and narrow the one beside it.
+        Layout.preferredWidth: 0
         visible: text.length > 0
         text: input.parseError.length > 0 ? input.parseError : root.error
         color: input.parseError.length > 0 ? Theme.warn : Theme.bad

@@ -46,6 +46,33 @@ Item {
         root.ensureVisible(target)
         return true
     }
+    /// The first shown entry below `from` whose text is not applied (a NumberField or a table
+    /// cell counting itself in pendingInputs), or null.
+    function findPending(from) {
+        var start = from || holder
+        for (var i = 0; i < start.children.length; ++i) {
+            var c = start.children[i]
+            if (!c.visible)
+                continue
+            if (c.pending === true)
+                return c
+            var deeper = root.findPending(c)
+            if (deeper)
+                return deeper
+        }
+        return null
+    }
+    /// Focuses the first entry whose text is not applied and scrolls to it ("Show ›" on the
+    /// checks); false when there is none.
+    function focusPending() {
+        var item = root.findPending()
+        if (!item)
+            return false
+        var target = item.field !== undefined && item.field ? item.field : item
+        target.forceActiveFocus()
+        root.ensureVisible(target)
+        return true
+    }
     function ensureVisible(item) {
         var p = item.mapToItem(flick.contentItem, 0, 0)
         var top = p.y - Theme.margin

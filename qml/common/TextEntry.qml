@@ -19,6 +19,8 @@ ColumnLayout {
     signal edited(string text)
 
     spacing: Math.round(Theme.gap / 2)
+    // At the top of its cell, as NumberField: a message beside it or beneath it moves nothing.
+    Layout.alignment: Qt.AlignTop
 
     Label {
         text: root.label
@@ -50,6 +52,7 @@ ColumnLayout {
     }
     Label {
         Layout.fillWidth: true
+        Layout.preferredWidth: 0 // wraps in the field's width, widening no column
         visible: root.error.length > 0
         text: root.error
         color: Theme.bad

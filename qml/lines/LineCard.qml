@@ -48,6 +48,26 @@ Card {
     function errorFor(field) {
         return FieldPath.belongs(root.errorField, field) ? root.errorMessage : ""
     }
+    /// Focuses the field a check or an error names, given the segments of its path below the
+    /// line ("bottle_ml"; "parts", "1", "fraction_v"); a field the card does not show (the time
+    /// the line was prepared) focuses the line's name.
+    function focusField(segments) {
+        var key = segments.length > 0 ? segments[0] : ""
+        var index = segments.length > 1 ? parseInt(segments[1]) : 0
+        if (isNaN(index))
+            index = 0
+        var target = null
+        if (key === "bottle_ml") target = bottleField.field
+        else if (key === "residue_ml") target = residueField.field
+        else if (key === "prime_ml") target = primeField.field
+        else if (key === "parts" && partRepeater.count > 0)
+            target = partRepeater.itemAt(Math.min(index, partRepeater.count - 1)).percentField.field
+        else if (key === "additives" && additiveRepeater.count > 0)
+            target = additiveRepeater.itemAt(Math.min(index, additiveRepeater.count - 1)).amountField.field
+        if (!target)
+            target = nameEntry.field
+        target.forceActiveFocus()
+    }
 
     title: qsTr("Line %1").arg(root.letter)
     note: root.defined && root.uvCutoffNm > 0 ? qsTr("UV cutoff %1 nm").arg(NumberText.format(root.uvCutoffNm, 0)) : ""
@@ -71,6 +91,7 @@ Card {
         spacing: Theme.gap
 
         TextEntry {
+            id: nameEntry
             Layout.fillWidth: true
             label: qsTr("Name on the bottle")
             value: root.name
@@ -82,6 +103,8 @@ Card {
             columns: Theme.columnsFor(width, 2)
             columnSpacing: Theme.gap
             NumberField {
+                id: bottleField
+                objectName: "bottleField"
                 Layout.fillWidth: true
                 Layout.columnSpan: 2
                 label: qsTr("Bottle volume")
@@ -94,6 +117,8 @@ Card {
                 onEdited: function(v) { root.linesModel.setBottleMl(root.letter, v) }
             }
             NumberField {
+                id: residueField
+                objectName: "residueField"
                 Layout.fillWidth: true
                 label: qsTr("Residue")
                 unit: "mL"
@@ -105,6 +130,8 @@ Card {
                 onEdited: function(v) { root.linesModel.setResidueMl(root.letter, v) }
             }
             NumberField {
+                id: primeField
+                objectName: "primeField"
                 Layout.fillWidth: true
                 label: qsTr("Priming")
                 unit: "mL"
@@ -126,11 +153,13 @@ Card {
             Layout.fillWidth: true
             spacing: Theme.gap
             Repeater {
+                id: partRepeater
                 model: root.parts
                 delegate: ColumnLayout {
                     id: part
                     required property var modelData
                     required property int index
+                    readonly property alias percentField: percentField
                     width: partList.width
                     spacing: Math.round(Theme.gap / 2)
                     RowLayout {
@@ -169,6 +198,7 @@ Card {
                         }
                     }
                     NumberField {
+                        id: percentField
                         Layout.fillWidth: true
                         label: qsTr("Part %1 of line %2").arg(part.index + 1).arg(root.letter)
                         unit: "% v/v"
@@ -238,11 +268,13 @@ Card {
             Layout.fillWidth: true
             spacing: Theme.gap
             Repeater {
+                id: additiveRepeater
                 model: root.additives
                 delegate: ColumnLayout {
                     id: add
                     required property var modelData
                     required property int index
+                    readonly property alias amountField: amountField
                     width: additiveList.width
                     spacing: Math.round(Theme.gap / 2)
                     RowLayout {
@@ -264,6 +296,7 @@ Card {
                     RowLayout {
                         Layout.fillWidth: true
                         NumberField {
+                            id: amountField
                             Layout.fillWidth: true
                             value: add.modelData.amount
                             step: add.modelData.unit === "mmol_per_l" ? 1 : 0.05

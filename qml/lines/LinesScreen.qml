@@ -16,6 +16,21 @@ ScreenPage {
 
     title: qsTr("Mobile-phase lines")
 
+    /// Focuses the field a check or an error names ("lines.B.bottle_ml", "lines.A.parts[0]"),
+    /// scrolled into view (ScreenPage follows the focus).
+    function focusField(path) {
+        var segments = FieldPath.segments(path)
+        if (segments.length < 2 || segments[0] !== "lines")
+            return
+        for (var i = 0; i < cardRepeater.count; ++i) {
+            var card = cardRepeater.itemAt(i)
+            if (card && card.letter === segments[1]) {
+                card.focusField(segments.slice(2))
+                return
+            }
+        }
+    }
+
     // A Flow, not a grid layout: cards of different heights side by side, two per row in
     // landscape, one in portrait.
     Flow {
@@ -23,6 +38,7 @@ ScreenPage {
         spacing: Theme.margin
 
         Repeater {
+            id: cardRepeater
             model: root.lines
             delegate: LineCard {
                 width: root.inPortrait ? root.contentWidth : (root.contentWidth - Theme.margin) / 2

@@ -13,10 +13,21 @@ Card {
     function errorFor(field) {
         return FieldPath.belongs(root.plan.errorField, field) ? root.plan.errorMessage : ""
     }
+    /// Focuses the field a check or an error names ("detector.wavelength_nm", "column.ph_max",
+    /// "waste_ml"); anything else on this card focuses the waste field, its first.
+    function focusField(path) {
+        var target = wasteField.field
+        if (FieldPath.belongs(path, "column.ph_min")) target = columnPhMinField.field
+        else if (FieldPath.belongs(path, "column.ph_max")) target = columnPhMaxField.field
+        else if (FieldPath.belongs(path, "detector"))
+            target = wavelengthField.visible ? wavelengthField.field : detectorChoice
+        target.forceActiveFocus()
+    }
 
     title: qsTr("Instrument and waste")
 
     NumberField {
+        id: wasteField
         objectName: "wasteField"
         Layout.fillWidth: true
         label: qsTr("Free volume in the waste container")
@@ -29,6 +40,7 @@ Card {
         onEdited: function(v) { root.plan.wasteCapacityMl = v }
     }
     SegmentedChoice {
+        id: detectorChoice
         Layout.fillWidth: true
         label: qsTr("Detector")
         objectName: "detectorChoice"
@@ -37,6 +49,7 @@ Card {
         onPicked: function(id) { root.plan.detectorType = id }
     }
     NumberField {
+        id: wavelengthField
         objectName: "wavelengthField"
         Layout.fillWidth: true
         visible: root.plan.detectorReadsUv
@@ -54,6 +67,7 @@ Card {
         columns: Theme.columnsFor(width, 2)
         columnSpacing: Theme.gap
         NumberField {
+            id: columnPhMinField
             objectName: "columnPhMinField"
             Layout.fillWidth: true
             label: qsTr("Column pH, lowest")
@@ -66,6 +80,7 @@ Card {
             onEdited: function(v) { root.plan.columnPhMin = v }
         }
         NumberField {
+            id: columnPhMaxField
             objectName: "columnPhMaxField"
             Layout.fillWidth: true
             label: qsTr("Column pH, highest")

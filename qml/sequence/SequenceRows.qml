@@ -87,6 +87,9 @@ Card {
                     ChoiceField {
                         id: methodPicker
                         Layout.fillWidth: true
+                        // Labelled as the injections beside it, so both pickers line up at the
+                        // top and a message under either moves neither.
+                        label: qsTr("Method")
                         accessibleName: qsTr("Method of sequence row %1").arg(row.index + 1)
                         choices: {
                             var c = []

@@ -33,6 +33,13 @@ Item {
             editors.focusField(path)
     }
 
+    /// Focuses the first entry whose text is not applied ("Show ›" on the checks).
+    function focusPending() {
+        if (root.inPortrait)
+            return single.focusPending()
+        return editorsPage.focusPending() || nightPage.focusPending()
+    }
+
     Component {
         id: editorsComponent
         ColumnLayout {
@@ -50,11 +57,11 @@ Item {
                     sequenceRows.focusField(parseInt(s[1]), s[2])
                     return
                 }
-                if (path.indexOf("standby") === 0) {
-                    standby.forceActiveFocus()
+                if (FieldPath.belongs(path, "standby")) {
+                    standby.focusField(path)
                     return
                 }
-                settings.forceActiveFocus()
+                settings.focusField(path)
             }
             GradientEditor {
                 id: gradientEditor

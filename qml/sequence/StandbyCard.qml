@@ -14,6 +14,18 @@ Card {
         return FieldPath.belongs(root.plan.errorField, field) ? root.plan.errorMessage : ""
     }
 
+    /// Focuses the field a check or an error names ("standby.flow_ml_min", "standby.until");
+    /// otherwise the switch.
+    function focusField(path) {
+        var target = onSwitch
+        if (root.plan.standbyEnabled) {
+            if (FieldPath.belongs(path, "standby.flow_ml_min")) target = standbyFlow.field
+            else if (FieldPath.belongs(path, "standby.until") && standbyUntil.visible) target = standbyUntil.button
+            else if (FieldPath.belongs(path, "standby.duration_min") && standbyDuration.visible) target = standbyDuration.field
+        }
+        target.forceActiveFocus()
+    }
+
     title: qsTr("After the last injection")
     note: root.plan.standbyText
 
@@ -41,6 +53,7 @@ Card {
         visible: root.plan.standbyEnabled
         spacing: Theme.gap
         NumberField {
+            id: standbyFlow
             objectName: "standbyFlowField"
             Layout.fillWidth: true
             label: qsTr("Standby flow")
@@ -60,6 +73,7 @@ Card {
             onPicked: function(id) { root.plan.standbyMode = id }
         }
         DateTimeField {
+            id: standbyUntil
             objectName: "standbyUntilField"
             Layout.fillWidth: true
             visible: root.plan.standbyMode === "until"
@@ -73,6 +87,7 @@ Card {
             onPicked: function(y, mo, d, h, mi) { root.plan.setStandbyUntil(h, mi) }
         }
         NumberField {
+            id: standbyDuration
             objectName: "standbyDurationField"
             Layout.fillWidth: true
             visible: root.plan.standbyMode === "duration"

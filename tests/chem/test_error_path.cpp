@@ -4,6 +4,7 @@
 // joined by dots, list entries and reagent ids in brackets); the expected values below are read
 // off that contract, not computed.
 #include "chem/error.h"
+#include "chem/measure_band.h"
 
 #include <gtest/gtest.h>
 
@@ -161,6 +162,27 @@ TEST(MeasureText, AValueRoundedUpToABoundaryTakesTheNextResolution) {
     EXPECT_EQ(chem::format_measure(-0.0001, MeasureUnit::ml), "0.000");
     EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::g), 4);
     EXPECT_EQ(chem::measure_decimals(0.5, MeasureUnit::ml), 3);
+}
+
+// A tolerance band reads with its target's decimals (common practice, no source: the band is
+// read on the balance or pipette that measures the target), each end rounded inward.
+TEST(MeasureText, ABandHasItsTargetsDecimals) {
+    using chem::MeasureUnit;
+    // 1.2588 mL ± 2 % (the demo's phosphoric acid): target "1.26", so 10 µL steps;
+    // 1.233624–1.283976 holds 1.24 to 1.28 at that resolution.
+    EXPECT_EQ(chem::format_measure_band(1.2588 * 0.98, 1.2588 * 1.02, 1.2588, MeasureUnit::ml),
+              "1.24–1.28");
+    // 2.9748 g ± 2 %: "2.975", 1 mg steps; 2.915304–3.034296.
+    EXPECT_EQ(chem::format_measure_band(2.9748 * 0.98, 2.9748 * 1.02, 2.9748, MeasureUnit::g),
+              "2.916–3.034");
+    // An end on a step stays: 1.23–1.29 exactly (1.23 * 100 is 122.99999… in binary).
+    EXPECT_EQ(chem::format_measure_band(1.23, 1.29, 1.26, MeasureUnit::ml), "1.23–1.29");
+    // 99.9996 g is written "100.00": its band has 2 decimals, as the top-pan balance reads.
+    EXPECT_EQ(chem::format_measure_band(98.0, 102.0, 99.9996, MeasureUnit::g), "98.00–102.00");
+    // Too narrow for the resolution (the inward ends cross): the nearest steps.
+    EXPECT_EQ(chem::format_measure_band(0.00104, 0.00106, 0.00105, MeasureUnit::g),
+              "0.0010–0.0011");
+    EXPECT_EQ(chem::shown_measure_decimals(99.9996, MeasureUnit::g), 2);
 }
 
 // A recorded amount keeps the digits entered and never shows fewer than the target's rule
