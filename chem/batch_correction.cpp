@@ -58,12 +58,8 @@ Correction suggest_correction(const std::vector<AmountCheck>& checks, double tol
         s.after = s.actual + s.add;
         out.steps.push_back(s);
     }
-    if (out.needed && container_ml && out.final_volume_ml > *container_ml * (1 + 1e-12)) {
+    if (out.needed && container_ml && out.final_volume_ml > *container_ml * (1 + 1e-12))
         out.remake = true;
-        out.remake_reason = "the corrected batch needs " + format_number(out.final_volume_ml) +
-                            " mL, more than the " + format_number(*container_ml) +
-                            " mL the container holds";
-    }
     return out;
 }
 

@@ -41,8 +41,7 @@ struct Correction {
     double final_volume_ml = 0;   ///< s × V: make up to this volume
     std::optional<double> container_ml;
     std::vector<CorrectionStep> steps; ///< one per check, in the checks' order
-    /// Why a remake is advised, "" otherwise.
-    std::string remake_reason;
+    // Worded by chem::describe and chem::remake_reason (chem/note_text.h), at render time.
 };
 
 /// The correction for `checks` (AmountCheck of evaluate_batch or check_amount) with the relative

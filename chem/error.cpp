@@ -184,8 +184,9 @@ std::string format_fixed(double value, int decimals) {
 }
 
 std::string format_fixed_ties_away(double value, int decimals) {
-    if (std::isfinite(value) && decimals >= 0 && decimals <= 2) {
-        // v · 10^d is exact in long double (64-bit mantissa) for d ≤ 2: 53 + 7 bits.
+    if (std::isfinite(value) && decimals >= 0 && decimals <= 4) {
+        // v · 10^d = v · 2^d · 5^d is exact in long double (64-bit mantissa) for d ≤ 4: 5^4 = 625
+        // needs 10 bits, 53 + 10 ≤ 64 (and every partial product fits as well).
         long double scaled = value;
         for (int i = 0; i < decimals; ++i)
             scaled *= 10;

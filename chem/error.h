@@ -142,7 +142,7 @@ std::string format_number(double value);
 std::string format_fixed(double value, int decimals);
 /// format_fixed, but an exact tie rounds away from zero ("2.5" → "3", "0.25" → "0.3" at one
 /// decimal), as QString::number(value, 'f', decimals) does, where format_fixed rounds it to even.
-/// Ties are detected exactly for up to 2 decimals; more decimals round as format_fixed.
+/// Ties are detected exactly for up to 4 decimals; more decimals round as format_fixed.
 std::string format_fixed_ties_away(double value, int decimals);
 
 /// An amount to about four significant figures, as recipes and batch records print masses and

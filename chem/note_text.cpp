@@ -122,4 +122,42 @@ std::string describe(const ReleaseReason& r, const NameLookup& name_of) {
     return {};
 }
 
+std::string remake_reason(const Correction& c) {
+    if (!c.remake || !c.container_ml)
+        return {};
+    return "the corrected batch needs " + format_number(c.final_volume_ml) + " mL, more than the " +
+           format_number(*c.container_ml) + " mL the container holds";
+}
+
+std::vector<std::string> describe(const Correction& c, const NameLookup& name_of, bool made_up) {
+    std::vector<std::string> out;
+    if (!c.needed)
+        return out;
+    if (c.remake) {
+        out.push_back("Remake the batch: " + remake_reason(c) + ".");
+        return out;
+    }
+    const bool scaled = c.scale > 1;
+    for (const CorrectionStep& s : c.steps) {
+        const std::string name = part_name(name_of, s.reagent);
+        const std::string u = " " + s.unit;
+        if (!s.entered)
+            out.push_back(
+                (s.unit == "g" ? "Weigh " : "Measure ") + format_amount(s.add) + u + " of " + name +
+                (scaled ? " (scaled from " + format_amount(s.target) + u + ")" : "") + ".");
+        else if (s.add > 0)
+            out.push_back("Add " + format_amount(s.add) + u + " of " + name + " (to " +
+                          format_amount(s.after) + u + (scaled ? ", the scaled target" : "") +
+                          ").");
+    }
+    if (scaled)
+        out.push_back(std::string(made_up ? "Make up to " : "The line then holds ") +
+                      format_amount(c.final_volume_ml) + " mL instead of " +
+                      format_amount(c.planned_volume_ml) + " mL (all amounts × " +
+                      format_fixed_ties_away(c.scale, 4) + "), then relabel the volume.");
+    if (out.empty())
+        out.push_back("Nothing to add: every amount is within its band after scaling.");
+    return out;
+}
+
 } // namespace chem

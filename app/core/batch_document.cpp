@@ -124,38 +124,23 @@ void add_ph_reason(const chem::BatchResult& r, const chem::Batch& b, double targ
         chem::measured_ph_reason(*b.measured_ph, target_ph, b.ph_tolerance));
 }
 
-/// The correction in words; `prefix` names the part of a line it is for ("" for a recipe).
-/// `made_up`: the volume is made up to the mark (a buffer), not the sum of parts (a line).
+/// The screens' names for the batch's parts (part_display_name), for chem::describe.
+chem::RenderContext part_words(const AppData& data) {
+    chem::RenderContext words;
+    words.name_of = [&data](const std::string& id) {
+        return part_display_name(data, id).toStdString();
+    };
+    return words;
+}
+
+/// The correction in words (chem::describe, parts by the screens' names); `prefix` names the part
+/// of a line it is for ("" for a recipe). `made_up`: the volume is made up to the mark (a buffer),
+/// not the sum of parts (a line).
 QStringList correction_words(const AppData& data, const chem::Correction& c, const QString& prefix,
                              bool made_up = true) {
     QStringList out;
-    if (!c.needed)
-        return out;
-    if (c.remake) {
-        out << prefix + "Remake the batch: " + qs(c.remake_reason) + ".";
-        return out;
-    }
-    for (const auto& s : c.steps) {
-        const QString name = part_display_name(data, s.reagent);
-        const QString u = " " + qs(s.unit);
-        if (!s.entered)
-            out << prefix + (s.unit == "g" ? "Weigh " : "Measure ") + amount_text(s.add) + u +
-                       " of " + name +
-                       (c.scale > 1 ? " (scaled from " + amount_text(s.target) + u + ")"
-                                    : QString()) +
-                       ".";
-        else if (s.add > 0)
-            out << prefix + "Add " + amount_text(s.add) + u + " of " + name + " (to " +
-                       amount_text(s.after) + u +
-                       (c.scale > 1 ? ", the scaled target" : QString()) + ").";
-    }
-    if (c.scale > 1)
-        out << prefix + (made_up ? "Make up to " : "The line then holds ") +
-                   amount_text(c.final_volume_ml) + " mL instead of " +
-                   amount_text(c.planned_volume_ml) + " mL (all amounts × " +
-                   QString::number(c.scale, 'f', 4) + "), then relabel the volume.";
-    if (out.isEmpty())
-        out << prefix + "Nothing to add: every amount is within its band after scaling.";
+    for (const std::string& sentence : chem::describe(c, part_words(data).name_of, made_up))
+        out << prefix + qs(sentence);
     return out;
 }
 
@@ -184,7 +169,7 @@ QJsonObject correction_json(const AppData& data, const chem::Correction& c,
     if (c.container_ml)
         o["container_ml"] = *c.container_ml;
     if (c.remake)
-        o["remake_reason"] = qs(c.remake_reason);
+        o["remake_reason"] = qs(chem::remake_reason(c));
     return o;
 }
 
@@ -664,15 +649,6 @@ QString capture_source_text(const QJsonObject& c) {
 }
 
 namespace {
-
-/// The screens' names for the batch's parts (part_display_name), for chem::describe.
-chem::RenderContext part_words(const AppData& data) {
-    chem::RenderContext words;
-    words.name_of = [&data](const std::string& id) {
-        return part_display_name(data, id).toStdString();
-    };
-    return words;
-}
 
 /// A finding of the batch as a warning: its JSON (finding_to_json, worded with the parts'
 /// names) and the finding itself.

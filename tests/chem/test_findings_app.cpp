@@ -111,6 +111,7 @@ TEST(FindingsApp, FixedDecimalsRoundExactTiesAwayFromZeroAsQtDid) {
     EXPECT_EQ(format_fixed_ties_away(0.25, 1), "0.3");
     EXPECT_EQ(format_fixed_ties_away(12.25, 1), "12.3");
     EXPECT_EQ(format_fixed_ties_away(0.125, 2), "0.13");
+    EXPECT_EQ(format_fixed_ties_away(1.03125, 4), "1.0313"); // Qt 6.4 printed "1.0313"
     // Not ties: as format_fixed (0.35 is just below 0.35 in binary).
     EXPECT_EQ(format_fixed_ties_away(0.35, 1), "0.3");
     EXPECT_EQ(format_fixed_ties_away(3.75, 1), "3.8");

@@ -13,6 +13,7 @@
 // ± 2 % default), worked by hand beside each row. QString::number rounded an exact binary tie away
 // from zero (2.625 → "2.63", −0.125 → "-0.13" at two decimals), so the sentences do too.
 #include "chem/batch.h"
+#include "chem/batch_correction.h"
 #include "chem/error.h"
 #include "chem/line.h"
 #include "chem/note_text.h"
@@ -22,6 +23,7 @@
 #include <gtest/gtest.h>
 
 #include <string>
+#include <vector>
 
 using namespace chem;
 
@@ -185,12 +187,13 @@ TEST(BatchNotes, AnAmountOutOfItsBandCarriesItsNumbers) {
     expect_numbers(r, {3.0, 3.075, 2.94, 3.06, 0.025, 0.02});
     EXPECT_EQ(describe(r, batch_names()), "Sodium dihydrogen phosphate monohydrate: 3.075 g, "
                                           "+2.5 % (band 2.940–3.060 g)");
-    // Below the band, under 1 mL (four decimals, as the sheet prints amounts), named by its id:
-    // 0.48 mL against 0.50 mL, band 0.49–0.51 mL, 0.48 / 0.50 − 1 = −4.0 %.
+    // Below the band, under 1 mL, named by its id: 0.48 mL against 0.50 mL, band 0.49–0.51 mL,
+    // 0.48 / 0.50 − 1 = −4.0 %. The actual has four decimals (format_amount); the band the
+    // target's three (1 µL below 1 mL, chem::measure_decimals), as the sheet's table prints it.
     const ReleaseReason low =
         amount_reason(check_amount("phosphoric-acid", "mL", 0.5, 0.48, 0.02), 0.02);
     EXPECT_NEAR(low.deviation, -0.04, 1e-12);
-    EXPECT_EQ(describe(low), "phosphoric-acid: 0.4800 mL, -4.0 % (band 0.4900–0.5100 mL)");
+    EXPECT_EQ(describe(low), "phosphoric-acid: 0.4800 mL, -4.0 % (band 0.490–0.510 mL)");
 }
 
 TEST(BatchNotes, AMeasuredPhOutOfToleranceCarriesTargetAndBand) {
@@ -206,6 +209,52 @@ TEST(BatchNotes, AMeasuredPhOutOfToleranceCarriesTargetAndBand) {
               "Measured pH 2.63, +0.13 from the target 2.50 (± 0.05)");
     EXPECT_EQ(describe(measured_ph_reason(2.375, 2.5, 0.02)),
               "Measured pH 2.38, -0.13 from the target 2.50 (± 0.02)");
+}
+
+TEST(BatchNotes, ACorrectionIsWordedFromItsNumbers) {
+    // Part A weighed 2.1 g against 2.0 g (+5 %, band ± 2 %), B not weighed yet, 1000 mL planned:
+    // the batch is scaled by 2.1 / 2.0 = 1.05, B is weighed at 5.25 g, made up to 1050 mL (the
+    // rule of chem/batch_correction.h, worked by hand).
+    const std::vector<AmountCheck> over = {check_amount("A", "g", 2.0, 2.1, 0.02),
+                                           check_amount("B", "g", 5.0, std::nullopt, 0.02)};
+    const Correction c = suggest_correction(over, 0.02, 1000, std::nullopt);
+    const std::vector<std::string> made_up = {
+        "Weigh 5.250 g of B (scaled from 5.000 g).",
+        "Make up to 1050.0 mL instead of 1000.0 mL (all amounts × 1.0500), then relabel the "
+        "volume."};
+    EXPECT_EQ(describe(c), made_up);
+    const std::vector<std::string> line = describe(c, {}, false);
+    ASSERT_EQ(line.size(), 2u);
+    EXPECT_EQ(line[1], "The line then holds 1050.0 mL instead of 1000.0 mL (all amounts × 1.0500), "
+                       "then relabel the volume.");
+    EXPECT_EQ(remake_reason(c), "");
+    // Named by the lookup.
+    EXPECT_EQ(describe(c, [](const std::string& id) { return "part " + id; })[0],
+              "Weigh 5.250 g of part B (scaled from 5.000 g).");
+
+    // Only under its band: 1.9 g against 2.0 g, nothing scaled; add the 0.1 g missing.
+    const Correction under =
+        suggest_correction({check_amount("A", "g", 2.0, 1.9, 0.02)}, 0.02, 1000, std::nullopt);
+    EXPECT_EQ(describe(under), std::vector<std::string>{"Add 0.1000 g of A (to 2.000 g)."});
+
+    // The 1050 mL do not fit a 1000 mL vessel: remake.
+    const Correction remake = suggest_correction(over, 0.02, 1000, 1000.0);
+    ASSERT_TRUE(remake.remake);
+    EXPECT_EQ(remake_reason(remake),
+              "the corrected batch needs 1050 mL, more than the 1000 mL the container holds");
+    EXPECT_EQ(describe(remake),
+              std::vector<std::string>{"Remake the batch: the corrected batch needs 1050 mL, more "
+                                       "than the 1000 mL the container holds."});
+
+    // Within every band: no correction, no words.
+    EXPECT_TRUE(describe(suggest_correction({check_amount("A", "g", 2.0, 2.01, 0.02)}, 0.02, 1000,
+                                            std::nullopt))
+                    .empty());
+    // The scale's exact tie, 33 / 32 = 1.03125, rounds away from zero as QString::number(v, 'f', 4)
+    // printed it ("1.0313", checked against Qt 6.4 by hand).
+    const Correction tie =
+        suggest_correction({check_amount("A", "g", 32.0, 33.0, 0.02)}, 0.02, 1000, std::nullopt);
+    EXPECT_NE(describe(tie).back().find("× 1.0313)"), std::string::npos);
 }
 
 } // namespace
