@@ -251,12 +251,14 @@ class TestGuiBatch : public QObject {
         QVERIFY(*doc.expiry_limit ==
                 (chem::UseByLimit{salt_id, "SP-2207", tomorrow.toStdString()}));
 
-        // In words on the screen, the numbers formatted here (≥ 1 g: three decimals).
+        // In words on the screen, the numbers formatted here (≥ 1 g: three decimals; the band's
+        // ends rounded inward, low up and high down, as the sheet's table prints it).
         const auto g = [](double v) { return QString::number(v, 'f', 3); };
         const QString salt_reason = "Sodium dihydrogen phosphate monohydrate: " + g(salt_actual) +
                                     " g, +" +
                                     QString::number((salt_actual / ts - 1) * 100, 'f', 1) +
-                                    " % (band " + g(ts * 0.98) + "–" + g(ts * 1.02) + " g)";
+                                    " % (band " + g(std::ceil(ts * 0.98 * 1000) / 1000) + "–" +
+                                    g(std::floor(ts * 1.02 * 1000) / 1000) + " g)";
         const QString ph_reason =
             QStringLiteral("Measured pH 2.58, +0.08 from the target 2.50 (± 0.05)");
         QCOMPARE(m.outOfToleranceReasons(), QStringList({salt_reason, ph_reason}));
