@@ -65,12 +65,15 @@ ColumnLayout {
         var p = NumberText.parse(text, root.integer, root.label)
         if (!p.ok)
             return {ok: false, value: NaN, message: p.message}
+        // One bound at a time: the field's other bound may be a wide default nobody set.
         if (p.value < root.from || p.value > root.to)
             return {ok: false, value: NaN,
-                    message: qsTr("%1: %2 is outside %3 to %4; not applied.")
+                    message: (p.value < root.from ? qsTr("%1: %2 is less than %3; not applied.")
+                                                   : qsTr("%1: %2 is more than %3; not applied."))
                         .arg(root.label.length > 0 ? root.label : qsTr("This field"))
-                        .arg(text.trim()).arg(NumberText.formatIn(root.from, root.integer ? 0 : root.decimals, root.locale))
-                        .arg(NumberText.formatIn(root.to, root.integer ? 0 : root.decimals, root.locale))}
+                        .arg(text.trim())
+                        .arg(NumberText.formatIn(p.value < root.from ? root.from : root.to,
+                                                 root.integer ? 0 : root.decimals, root.locale))}
         return {ok: true, value: p.value, message: ""}
     }
     function same(a, b) {

@@ -160,7 +160,7 @@ TestCase {
         var s = makeScreen()
         var volume = findAll(s, "volumeField", [])[0]
         typeInto(volume.field, "-5")
-        verify(volume.parseError.indexOf("outside") >= 0, "the field's own range stops -5: " + volume.parseError)
+        verify(volume.parseError.indexOf("-5 is less than") >= 0, "the field's own range stops -5: " + volume.parseError)
         typeInto(volume.field, "0")
         tryCompare(s.designer, "errorField", "volume_ml")
         verify(volume.error.length > 0, "the volume field shows the core's message")

@@ -149,9 +149,16 @@ TestCase {
         var f = createTemporaryObject(fieldComponent, tc, { to: 14 })
         var spy = createTemporaryObject(spyComponent, tc, { target: f })
         typeInto(f.field, "15")
-        verify(f.parseError.indexOf("outside") >= 0, f.parseError)
+        verify(f.parseError.indexOf("15 is more than 14") >= 0, f.parseError)
         for (var i = 0; i < spy.count; ++i)
             verify(spy.signalArguments[i][0] !== 15)
+    }
+
+    function test_below_range_names_only_the_lower_bound() {
+        // The upper bound is the wide default (1e9): the message names only the bound crossed.
+        var f = createTemporaryObject(fieldComponent, tc, { from: 0, integer: true, label: "Injections" })
+        typeInto(f.field, "-3")
+        compare(f.parseError, "Injections: -3 is less than 0; not applied.")
     }
 
     function test_model_error_shown() {
