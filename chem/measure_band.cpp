@@ -4,15 +4,6 @@
 
 namespace chem {
 
-namespace {
-/// "-0.00" as "0.00" (a band's end rounded from a tiny negative value).
-std::string without_minus_on_zero(std::string s) {
-    if (s.size() > 1 && s[0] == '-' && s.find_first_not_of("-0.") == std::string::npos)
-        s.erase(0, 1);
-    return s;
-}
-} // namespace
-
 int shown_measure_decimals(double value, MeasureUnit unit) {
     const double scale = std::pow(10.0, measure_decimals(value, unit));
     return measure_decimals(std::round(value * scale) / scale, unit);
@@ -30,8 +21,9 @@ std::string format_measure_band(double low, double high, double target, MeasureU
         lo = std::round(low * scale) / scale;
         hi = std::round(high * scale) / scale;
     }
-    return without_minus_on_zero(format_fixed(lo, d)) + "–" +
-           without_minus_on_zero(format_fixed(hi, d));
+    // A zero end is -0.0 when rounded from a tiny negative value (ceil, round); + 0.0 makes it
+    // +0.0, so it is not written "-0.00".
+    return format_fixed(lo + 0.0, d) + "–" + format_fixed(hi + 0.0, d);
 }
 
 } // namespace chem

@@ -183,6 +183,10 @@ TEST(MeasureText, ABandHasItsTargetsDecimals) {
     EXPECT_EQ(chem::format_measure_band(0.00104, 0.00106, 0.00105, MeasureUnit::g),
               "0.0010–0.0011");
     EXPECT_EQ(chem::shown_measure_decimals(99.9996, MeasureUnit::g), 2);
+    // An end rounded to zero from a tiny negative value is written without a sign.
+    EXPECT_EQ(chem::format_measure_band(-1e-12, 0.001, 0.0005, MeasureUnit::g), "0.0000–0.0010");
+    EXPECT_EQ(chem::format_measure_band(-0.00004, -1e-12, -0.00002, MeasureUnit::g),
+              "0.0000–0.0000");
 }
 
 // A recorded amount keeps the digits entered and never shows fewer than the target's rule
