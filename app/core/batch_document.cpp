@@ -27,11 +27,6 @@ QString qs(const std::string& s) {
     return QString::fromStdString(s);
 }
 
-/// About four significant figures, as the sheet prints amounts (chem::format_amount).
-QString amount_text(double v) {
-    return QString::fromStdString(chem::format_amount(v));
-}
-
 QString recipe_title(const chem::Library& lib, const chem::Recipe& r, const QJsonObject& input) {
     if (input.value("name").isString() && !input.value("name").toString().trimmed().isEmpty())
         return input.value("name").toString().trimmed();
